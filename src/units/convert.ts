@@ -1,0 +1,61 @@
+/**
+ * Parsing unit tokens and converting between display numbers and SI.
+ * The only place where a display unit turns into SI or back.
+ */
+import { UNITS, type QuantityKind, type Unit } from './units.ts';
+
+/** Thrown for a unit token that is not known for the quantity asked for. */
+export class UnitError extends Error {
+  override name = 'UnitError';
+}
+
+function normalize(token: string): string {
+  return token.trim().replace(/\s+/g, ' ');
+}
+
+/** Known tokens of one kind, for messages. */
+export function tokensOf(kind: QuantityKind): string[] {
+  return UNITS.filter((u) => u.kind === kind).map((u) => u.token);
+}
+
+/**
+ * Finds the unit for `token` among the units of `kind`. Matches the canonical token
+ * exactly, then the aliases, then either case-insensitively.
+ * Throws UnitError with the list of accepted tokens when nothing matches.
+ */
+export function parseUnit(kind: QuantityKind, token: string): Unit {
+  const t = normalize(token);
+  const candidates = UNITS.filter((u) => u.kind === kind);
+  const exact = candidates.find((u) => u.token === t || u.aliases.includes(t));
+  if (exact) return exact;
+  const lower = t.toLowerCase();
+  const loose = candidates.find((u) => u.token.toLowerCase() === lower || u.aliases.some((a) => a.toLowerCase() === lower));
+  if (loose) return loose;
+  throw new UnitError(`Unknown ${kind} unit "${token}". Use one of: ${tokensOf(kind).join(', ')}.`);
+}
+
+/** Display value in `unit` → SI. */
+export function toSI(value: number, unit: Unit): number {
+  return value * unit.factor + unit.offset;
+}
+
+/** SI → display value in `unit`. Exact inverse of `toSI` up to rounding. */
+export function fromSI(value: number, unit: Unit): number {
+  return (value - unit.offset) / unit.factor;
+}
+
+/** Converts a value between two units of the same kind. */
+export function convert(value: number, from: Unit, to: Unit): number {
+  if (from.kind !== to.kind) throw new UnitError(`Cannot convert ${from.kind} (${from.token}) to ${to.kind} (${to.token}).`);
+  return fromSI(toSI(value, from), to);
+}
+
+/** Shorthand: parse the token and convert to SI. */
+export function siOf(kind: QuantityKind, value: number, token: string): number {
+  return toSI(value, parseUnit(kind, token));
+}
+
+/** Shorthand: parse the token and convert from SI. */
+export function displayOf(kind: QuantityKind, si: number, token: string): number {
+  return fromSI(si, parseUnit(kind, token));
+}

@@ -1,0 +1,6 @@
+export * from './quantities.ts';
+export * from './constants.ts';
+export * from './units.ts';
+export * from './convert.ts';
+export * from './presets.ts';
+export * from './format.ts';
