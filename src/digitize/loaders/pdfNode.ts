@@ -1,0 +1,48 @@
+/**
+ * Loads a PDF page as a Sheet in Node: pdf.js's legacy build for parsing, @napi-rs/canvas
+ * for rendering. pdf.js is imported lazily so that commands that never read a PDF start fast.
+ */
+import { createHash } from 'node:crypto';
+import { createRequire } from 'node:module';
+import { dirname, join } from 'node:path';
+import { createCanvas } from '@napi-rs/canvas';
+import { openPdfSheet, type CanvasLike } from './pdfPage.ts';
+import type { Sheet, SheetLimits } from '../sheet.ts';
+
+export interface PdfNodeOptions {
+  page?: number;
+  limits?: SheetLimits;
+  /** Name of the file for messages, e.g. 'sheet.pdf'. */
+  name?: string;
+}
+
+export function sha256Hex(bytes: Uint8Array): string {
+  return createHash('sha256').update(bytes).digest('hex');
+}
+
+let pdfjsPromise: Promise<typeof import('pdfjs-dist/legacy/build/pdf.mjs')> | null = null;
+
+function pdfjsDistRoot(): string {
+  const require = createRequire(import.meta.url);
+  return dirname(require.resolve('pdfjs-dist/package.json'));
+}
+
+/** Opens page `options.page` (default 1) of the PDF in `bytes`. Throws SheetError for unusable files. */
+export async function loadPdfSheetNode(bytes: Uint8Array, options: PdfNodeOptions = {}): Promise<Sheet> {
+  pdfjsPromise ??= import('pdfjs-dist/legacy/build/pdf.mjs');
+  const pdfjs = await pdfjsPromise;
+  const root = pdfjsDistRoot();
+  // pdf.js wants these as directory paths ending in '/', not as URLs, when it runs in Node.
+  const standardFontDataUrl = `${join(root, 'standard_fonts')}/`;
+  const cMapUrl = `${join(root, 'cmaps')}/`;
+  const name = options.name ? `The PDF "${options.name}"` : 'The PDF';
+  return openPdfSheet(pdfjs, bytes, {
+    ...(options.page !== undefined ? { page: options.page } : {}),
+    ...(options.limits ? { limits: options.limits } : {}),
+    name,
+    sha256: sha256Hex(bytes),
+    documentOptions: { standardFontDataUrl, cMapUrl, cMapPacked: true, useSystemFonts: false },
+    createCanvas: (w, h) => createCanvas(w, h) as unknown as CanvasLike,
+  });
+}
+

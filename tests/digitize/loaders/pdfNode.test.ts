@@ -1,0 +1,160 @@
+import { describe, expect, it } from 'vitest';
+import { createCanvas } from '@napi-rs/canvas';
+import { pushGraphicsState, popGraphicsState, concatTransformationMatrix } from 'pdf-lib';
+import { loadPdfSheetNode, sha256Hex } from '../../../src/digitize/loaders/pdfNode.ts';
+import { SheetError, type PathSegment } from '../../../src/digitize/sheet.ts';
+import { drawPdf, encryptedPdf, PDFDocument, rgb } from '../fixtures/pdfBytes.ts';
+
+const TOL = 1e-3; // sheet units; pdf.js hands coordinates over as 32-bit floats
+
+function endpoints(segments: readonly PathSegment[]): [number, number][] {
+  return segments.flatMap((s) => (s.kind === 'close' ? [] : [[s.to[0], s.to[1]] as [number, number]]));
+}
+
+describe('loading a vector PDF page in Node', () => {
+  it('reads stroked paths in sheet coordinates, with colour, width and Béziers kept exact', async () => {
+    const bytes = await drawPdf(400, 300, (d) => {
+      d.stroke('M 50 250 L 350 250', rgb(0, 0, 0), 1);
+      d.stroke('M 60 200 C 100 150 200 100 300 90', rgb(1, 0, 0), 0.75);
+    });
+    const sheet = await loadPdfSheetNode(bytes);
+    expect(sheet.kind).toBe('vector-pdf');
+    expect(sheet.width).toBe(400);
+    expect(sheet.height).toBe(300);
+    expect(sheet.sha256).toBe(sha256Hex(bytes));
+    const paths = await sheet.paths();
+    const red = paths.find((p) => p.stroke === '#ff0000');
+    expect(red).toBeDefined();
+    expect(red!.lineWidth).toBeCloseTo(0.75, 6);
+    const cubic = red!.segments.find((s) => s.kind === 'cubic');
+    expect(cubic && cubic.kind === 'cubic').toBe(true);
+    if (cubic?.kind === 'cubic') {
+      expect(cubic.c1[0]).toBeCloseTo(100, 3);
+      expect(cubic.c1[1]).toBeCloseTo(150, 3);
+      expect(cubic.to[0]).toBeCloseTo(300, 3);
+      expect(cubic.to[1]).toBeCloseTo(90, 3);
+    }
+    const black = paths.find((p) => p.stroke === '#000000');
+    const ends = endpoints(black!.segments);
+    expect(Math.abs(ends.at(-1)![0] - 350)).toBeLessThan(TOL);
+    expect(Math.abs(ends.at(-1)![1] - 250)).toBeLessThan(TOL);
+    await sheet.close();
+  });
+
+  it('follows save, restore and nested transforms (rotation and scale) to page coordinates', async () => {
+    const bytes = await drawPdf(400, 400, (d) => {
+      const c = Math.cos(Math.PI / 6);
+      const s = Math.sin(Math.PI / 6);
+      d.page.pushOperators(pushGraphicsState(), concatTransformationMatrix(2 * c, 2 * s, -2 * s, 2 * c, 100, 50));
+      // In PDF user space (y up) inside the rotated, doubled frame: a line from (0,0) to (50,0).
+      d.page.drawLine({ start: { x: 0, y: 0 }, end: { x: 50, y: 0 }, thickness: 0.5, color: rgb(0, 0, 1) });
+      d.page.pushOperators(popGraphicsState());
+      d.page.drawLine({ start: { x: 10, y: 10 }, end: { x: 20, y: 10 }, thickness: 1, color: rgb(0, 1, 0) });
+    });
+    const sheet = await loadPdfSheetNode(bytes);
+    const paths = await sheet.paths();
+    const blue = paths.find((p) => p.stroke === '#0000ff')!;
+    const end = endpoints(blue.segments).at(-1)!;
+    // (50,0) → rotated 30°, doubled, moved to (100,50) in PDF space → y flipped on a 400-high page.
+    expect(Math.abs(end[0] - (100 + 100 * Math.cos(Math.PI / 6)))).toBeLessThan(TOL);
+    expect(Math.abs(end[1] - (400 - (50 + 100 * Math.sin(Math.PI / 6))))).toBeLessThan(TOL);
+    expect(blue.lineWidth).toBeCloseTo(1, 5); // 0.5 user units × 2
+    const green = paths.find((p) => p.stroke === '#00ff00')!;
+    const gEnd = endpoints(green.segments).at(-1)!;
+    expect(Math.abs(gEnd[0] - 20)).toBeLessThan(TOL);
+    expect(Math.abs(gEnd[1] - 390)).toBeLessThan(TOL); // the restore dropped the rotation
+    await sheet.close();
+  });
+
+  it('reads the text layer with baseline origin and size in sheet units', async () => {
+    const bytes = await drawPdf(300, 200, (d) => {
+      d.text('400', 100, 180, 9);
+      d.text('Head', 20, 40, 12);
+    });
+    const sheet = await loadPdfSheetNode(bytes);
+    const text = await sheet.text();
+    const label = text.find((t) => t.text === '400')!;
+    expect(label.at[0]).toBeCloseTo(100, 4);
+    expect(label.at[1]).toBeCloseTo(180, 4);
+    expect(label.size).toBeCloseTo(9, 6);
+    expect(label.width).toBeCloseTo(3 * 0.556 * 9, 3); // Helvetica digit advance 556/1000 em
+    expect(label.angle).toBeCloseTo(0, 9);
+    expect(text.some((t) => t.text === 'Head')).toBe(true);
+    await sheet.close();
+  });
+
+  it('renders at any scale into an RGBA raster with dark pixels where lines are drawn', async () => {
+    const bytes = await drawPdf(200, 100, (d) => d.stroke('M 20 50 L 180 50', rgb(0, 0, 0), 2));
+    const sheet = await loadPdfSheetNode(bytes);
+    const image = await sheet.render(3);
+    expect(image.width).toBe(600);
+    expect(image.height).toBe(300);
+    expect(image.scale).toBe(3);
+    const px = (x: number, y: number) => image.data[4 * (Math.floor(y) * image.width + Math.floor(x))]!;
+    expect(px(100 * 3, 50 * 3)).toBeLessThan(60);
+    expect(px(100 * 3, 20 * 3)).toBeGreaterThan(240);
+    await sheet.close();
+  });
+
+  it('detects a page that is an embedded scan as raster-pdf', async () => {
+    const canvas = createCanvas(300, 200);
+    const ctx = canvas.getContext('2d');
+    ctx.fillStyle = '#fff';
+    ctx.fillRect(0, 0, 300, 200);
+    ctx.strokeStyle = '#000';
+    ctx.beginPath();
+    ctx.moveTo(10, 190);
+    ctx.lineTo(290, 20);
+    ctx.stroke();
+    const png = await canvas.encode('png');
+    const doc = await PDFDocument.create();
+    const page = doc.addPage([612, 792]);
+    const image = await doc.embedPng(png);
+    page.drawImage(image, { x: 10, y: 10, width: 592, height: 772 });
+    const sheet = await loadPdfSheetNode(await doc.save());
+    expect(sheet.kind).toBe('raster-pdf');
+    await sheet.close();
+  });
+});
+
+describe('refusing unusable PDFs with one clear sentence', () => {
+  it('refuses a file over the size limit before parsing it', async () => {
+    const bytes = await drawPdf(100, 100, () => undefined);
+    await expect(loadPdfSheetNode(bytes, { limits: { maxBytes: 200, maxPixels: 40e6 } })).rejects.toThrow(/over the 0 MB limit|over the .* limit/);
+    await expect(loadPdfSheetNode(bytes, { limits: { maxBytes: 200, maxPixels: 40e6 } })).rejects.toBeInstanceOf(SheetError);
+  });
+
+  it('refuses a rendering over the pixel limit', async () => {
+    const bytes = await drawPdf(612, 792, () => undefined);
+    const sheet = await loadPdfSheetNode(bytes);
+    await expect(sheet.render(12)).rejects.toThrow(/megapixel limit/); // 7344 × 9504 = 69.8 MP
+    await sheet.close();
+  });
+
+  it('calls bytes without a PDF header not a PDF', async () => {
+    await expect(loadPdfSheetNode(new TextEncoder().encode('hello, this is text'))).rejects.toThrow(/is not a PDF/);
+  });
+
+  it('reports a damaged PDF as damaged instead of crashing', async () => {
+    const good = await drawPdf(100, 100, (d) => d.stroke('M 0 0 L 10 10'));
+    const damaged = new Uint8Array(good.length);
+    damaged.set(good.subarray(0, 20));
+    for (let i = 20; i < damaged.length; i++) damaged[i] = (i * 7919) % 251;
+    const error = await loadPdfSheetNode(damaged, { name: 'sheet.pdf' }).then(
+      () => null,
+      (e: unknown) => e,
+    );
+    expect(error).toBeInstanceOf(SheetError);
+    expect((error as Error).message).toMatch(/^The PDF "sheet.pdf" (is damaged|could not be read)/);
+    expect((error as Error).message.split('. ').length).toBe(1);
+  });
+
+  it('reports a password-protected PDF as encrypted', async () => {
+    await expect(loadPdfSheetNode(encryptedPdf())).rejects.toThrow(/encrypted with a password/);
+  });
+
+  it('names the page count when the page does not exist', async () => {
+    const bytes = await drawPdf(100, 100, () => undefined);
+    await expect(loadPdfSheetNode(bytes, { page: 3 })).rejects.toThrow(/has 1 page; page 3 does not exist/);
+  });
+});
