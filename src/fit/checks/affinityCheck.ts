@@ -1,0 +1,220 @@
+/**
+ * Affinity consistency of a family: each member's head curve is predicted from its
+ * nearest neighbours by the affinity law (Q ∝ D, H ∝ D² for trims at constant speed; Q ∝ n,
+ * H ∝ n² for speeds) and compared at matching points.
+ *
+ * Thresholds (judged on the median head deviation against the better-agreeing neighbour):
+ * - warn above 3 %: two readings of one pump may disagree by the ISO 9906 grade 2B head
+ *   band (±5 %) only when one of them sits at its edge; a 3 % systematic offset is more
+ *   than reading error (≈ 0.5 %) plus the usual shortfall of trimmed curves within the
+ *   normal trim range, so it deserves a look;
+ * - fail above 6 %: beyond the whole 2B head band plus reading error. A deviation this large
+ *   does not come from trim behaviour; it is almost always a mislabelled diameter or a
+ *   curve read off the wrong line. A diameter label off by 5 % gives about 10 %.
+ * (ISO 9906:2012 grade bands as listed in REFERENCES.md, from memory.)
+ *
+ * To single out the curve that disagrees rather than blame an innocent neighbour, each
+ * member is compared with its two nearest members, and scored by the BETTER of the two
+ * agreements: an innocent member always has one good neighbour, a wrong one has none.
+ * The worst member beyond the fail limit is flagged, set aside, and the rest re-judged.
+ */
+import type { CurveSet, Finding, Member, PolynomialFit } from '../../model/curveset.ts';
+import { evaluateUnchecked, inDomain } from '../polynomial.ts';
+import type { Display } from './display.ts';
+import { makeFinding } from './finding.ts';
+
+export const AFFINITY_WARN = 0.03;
+export const AFFINITY_FAIL = 0.06;
+const METHOD_TRIM = 'Affinity law for impeller trim (Q ∝ D, H ∝ D²; Karassik, Pump Handbook); limits from ISO 9906 grade 2B head band';
+const METHOD_SPEED = 'Affinity law for speed (Q ∝ n, H ∝ n²; Karassik, Pump Handbook); limits from ISO 9906 grade 2B head band';
+/** Matching points are taken over this part of each curve's flow range. */
+const FRACTIONS = [0.2, 0.3, 0.4, 0.5, 0.6, 0.7, 0.8, 0.9];
+
+export interface PairComparison {
+  /** Median of (predicted − drawn)/drawn head at matching flows. */
+  headDeviation: number;
+  maxHeadDeviation: number;
+  /** Median of (predicted − drawn)/drawn flow along the affinity parabolas. */
+  flowDeviation: number;
+  /** Median exponent m in H_k/H_j = (size_k/size_j)^m implied by the two curves (the law says 2). */
+  impliedExponent: number;
+  /** Median size of member k implied by member j's curve and label. */
+  impliedSize: number;
+  points: number;
+}
+
+interface Sized {
+  member: Member;
+  size: number;
+  fit: PolynomialFit;
+}
+
+const median = (xs: number[]) => {
+  const s = [...xs].sort((a, b) => a - b);
+  const m = s.length >> 1;
+  return s.length % 2 ? (s[m] as number) : 0.5 * ((s[m - 1] as number) + (s[m] as number));
+};
+
+/** Flow on `fit` where it meets the parabola H = c·Q², searched inside the fit's domain. */
+function parabolaCrossing(fit: PolynomialFit, c: number): number | undefined {
+  const [lo, hi] = fit.domain;
+  const g = (q: number) => evaluateUnchecked(fit, q) - c * q * q;
+  const n = 200;
+  let a = lo;
+  let ga = g(lo);
+  for (let i = 1; i <= n; i++) {
+    const b = lo + ((hi - lo) * i) / n;
+    const gb = g(b);
+    if (ga >= 0 && gb <= 0) {
+      let x = a;
+      let y = b;
+      for (let k = 0; k < 60; k++) {
+        const m = 0.5 * (x + y);
+        if (g(m) >= 0) x = m; else y = m;
+      }
+      return 0.5 * (x + y);
+    }
+    a = b;
+    ga = gb;
+  }
+  return undefined;
+}
+
+/** Predicts member k's head curve from member j and compares them. */
+export function comparePair(k: Sized, j: Sized): PairComparison | undefined {
+  const r = k.size / j.size;
+  const head: number[] = [];
+  const flow: number[] = [];
+  const exponent: number[] = [];
+  const implied: number[] = [];
+  const [lo, hi] = k.fit.domain;
+  for (const f of FRACTIONS) {
+    const q = lo + f * (hi - lo);
+    if (q <= 0) continue;
+    const h = evaluateUnchecked(k.fit, q);
+    if (!(h > 0)) continue;
+    if (inDomain(j.fit, q / r)) head.push((r * r * evaluateUnchecked(j.fit, q / r) - h) / h);
+    const qx = parabolaCrossing(j.fit, h / (q * q));
+    if (qx !== undefined && qx > 0) {
+      flow.push((qx * r - q) / q);
+      const hx = evaluateUnchecked(j.fit, qx);
+      if (hx > 0 && r !== 1) exponent.push(Math.log(h / hx) / Math.log(r));
+      implied.push((j.size * q) / qx);
+    }
+  }
+  if (head.length < 3) return undefined;
+  return {
+    headDeviation: median(head),
+    maxHeadDeviation: head.reduce((m, d) => (Math.abs(d) > Math.abs(m) ? d : m), 0),
+    flowDeviation: flow.length ? median(flow) : NaN,
+    impliedExponent: exponent.length ? median(exponent) : NaN,
+    impliedSize: implied.length ? median(implied) : NaN,
+    points: head.length,
+  };
+}
+
+interface Verdict {
+  item: Sized;
+  best: { other: Sized; cmp: PairComparison } | undefined;
+  all: { other: Sized; cmp: PairComparison }[];
+}
+
+function judge(active: Sized[]): Verdict[] {
+  return active.map((item) => {
+    const others = active
+      .filter((o) => o !== item)
+      .sort((a, b) => Math.abs(Math.log(a.size / item.size)) - Math.abs(Math.log(b.size / item.size)))
+      .slice(0, 2);
+    const all = others.flatMap((other) => {
+      const cmp = comparePair(item, other);
+      return cmp ? [{ other, cmp }] : [];
+    });
+    const best = all.reduce<Verdict['best']>((b, x) => (!b || Math.abs(x.cmp.headDeviation) < Math.abs(b.cmp.headDeviation) ? x : b), undefined);
+    return { item, best, all };
+  });
+}
+
+export function affinityFindings(set: Pick<CurveSet, 'members' | 'family'>, show: Display): Finding[] {
+  const bySpeed = set.family === 'speed';
+  const sized: Sized[] = set.members.flatMap((member) => {
+    const fit = member.curves.head?.fit;
+    const size = bySpeed ? member.speed_rpm : member.diameter_m;
+    return fit && size !== undefined ? [{ member, size, fit }] : [];
+  });
+  if (sized.length < 2) return [];
+  const method = bySpeed ? METHOD_SPEED : METHOD_TRIM;
+  const name = (s: Sized) => show.member(s.member);
+  const sizeText = (v: number) => (bySpeed ? `${Math.round(v)} rpm` : show.diameter(v));
+  const findings: Finding[] = [];
+  let active = [...sized];
+
+  // Set aside, one at a time, the member that agrees with none of its neighbours.
+  while (active.length >= 3) {
+    const verdicts = judge(active).filter((v) => v.best);
+    const worst = verdicts.reduce<Verdict | undefined>((w, v) => (!w || Math.abs(v.best!.cmp.headDeviation) > Math.abs(w.best!.cmp.headDeviation) ? v : w), undefined);
+    if (!worst?.best || Math.abs(worst.best.cmp.headDeviation) <= AFFINITY_FAIL) break;
+    const devs = worst.all.map((a) => a.cmp);
+    const impliedSizes = devs.map((d) => d.impliedSize).filter(Number.isFinite);
+    const implied = impliedSizes.length ? median(impliedSizes) : NaN;
+    const neighbours = worst.all.map((a) => name(a.other)).join(' and ');
+    findings.push(
+      makeFinding({
+        code: 'affinity.outlier',
+        severity: 'fail',
+        member: worst.item.member,
+        quantity: 'head',
+        message:
+          `The ${name(worst.item)} head curve disagrees with the affinity law: scaled from ${neighbours}, the predicted head at matching flows is ` +
+          `${show.percent(worst.best.cmp.headDeviation)} off the drawn curve (flow ${show.percent(worst.best.cmp.flowDeviation)} along the affinity parabola, implied exponent ${worst.best.cmp.impliedExponent.toFixed(2)} where the law gives 2). ` +
+          (Number.isFinite(implied) ? `Its neighbours put this curve at about ${sizeText(implied)}; check the ${bySpeed ? 'speed' : 'diameter'} label and which line was traced.` : 'Check its label and which line was traced.'),
+        method,
+        figures: {
+          head_deviation: worst.best.cmp.headDeviation,
+          flow_deviation: worst.best.cmp.flowDeviation,
+          implied_exponent: worst.best.cmp.impliedExponent,
+          ...(Number.isFinite(implied) ? { implied_size: implied } : {}),
+        },
+      }),
+    );
+    active = active.filter((a) => a !== worst.item);
+  }
+
+  // Judge what remains member by member.
+  const exponents: number[] = [];
+  let worstRemaining = 0;
+  for (const v of judge(active)) {
+    if (!v.best) continue;
+    const c = v.best.cmp;
+    if (Number.isFinite(c.impliedExponent)) exponents.push(c.impliedExponent);
+    worstRemaining = Math.max(worstRemaining, Math.abs(c.headDeviation));
+    const severity = Math.abs(c.headDeviation) > AFFINITY_FAIL ? 'fail' : Math.abs(c.headDeviation) > AFFINITY_WARN ? 'warn' : undefined;
+    if (!severity) continue;
+    const pairOnly = active.length < 3;
+    findings.push(
+      makeFinding({
+        code: 'affinity.deviation',
+        severity,
+        member: v.item.member,
+        quantity: 'head',
+        message:
+          `The ${name(v.item)} head curve, predicted from ${name(v.best.other)} by the affinity law, is ${show.percent(c.headDeviation)} off at matching flows ` +
+          `(largest ${show.percent(c.maxHeadDeviation)}; flow ${show.percent(c.flowDeviation)} along the parabola; implied exponent ${c.impliedExponent.toFixed(2)}, the law gives 2).` +
+          (pairOnly ? ' With only two curves to compare, either label may be the wrong one.' : ' Check the labels, or expect trimmed curves to fall below the simple law.'),
+        method,
+        figures: { head_deviation: c.headDeviation, max_head_deviation: c.maxHeadDeviation, flow_deviation: c.flowDeviation, implied_exponent: c.impliedExponent },
+      }),
+    );
+  }
+  if (exponents.length && findings.length === 0) {
+    findings.push(
+      makeFinding({
+        code: 'affinity.summary',
+        severity: 'note',
+        message: `The ${sized.length} head curves agree with the affinity law within ${show.percent(worstRemaining).replace('+', '')} of head (implied exponent ${median(exponents).toFixed(2)}; the law gives 2).`,
+        method,
+        figures: { worst_head_deviation: worstRemaining, implied_exponent: median(exponents) },
+      }),
+    );
+  }
+  return findings;
+}
