@@ -1,0 +1,137 @@
+/**
+ * Searching the library by duty point: which pumps can deliver flow Q at head H, at which
+ * impeller diameter or trim, and how well.
+ *
+ * Two stages. SQL first keeps only the entries whose head-curve envelope (summary columns)
+ * contains the duty, with a margin; then each survivor's curve set (parsed once per revision and
+ * cached) goes through the duty engine's matcher, which finds the diameter that meets the duty.
+ * Ranking is by efficiency at the duty, or by annual energy cost when hours and a tariff are given.
+ *
+ * Results are preliminary: they are to be verified against certified manufacturer data by a
+ * licensed professional, with the NPSH margin and motor sizing checked separately.
+ */
+import type { CurveSet } from '../model/curveset.ts';
+import { LibraryError } from './errors.ts';
+import type { LibraryStore } from './store.ts';
+
+export type PorPlace = 'below' | 'within' | 'above' | 'unknown';
+
+export interface Duty {
+  flow_m3s: number;
+  head_m: number;
+  /** Static part of the system head, m; the rest rises with Q² through the duty point. */
+  static_head_m?: number;
+}
+
+/** What the duty engine reports for one curve set that can meet the duty. */
+export interface DutyMatch {
+  /** Diameter (one of the set's, or a trim between them) whose curve meets the duty, m. */
+  diameter_m: number;
+  /** True when the diameter is a trim between captured diameters rather than one of them. */
+  trimmed: boolean;
+  /** Fraction 0…1. */
+  efficiency?: number;
+  power_W?: number;
+  npshr_m?: number;
+  por_position: PorPlace;
+  /** Q / Q_BEP of the diameter that meets the duty. */
+  flow_to_bep?: number;
+  /** Plain-language cautions (extrapolation, trim depth). */
+  warnings: string[];
+}
+
+/** Finds how one curve set meets a duty, or null when it cannot. Pure. */
+export type DutyMatcher = (set: CurveSet, duty: Duty) => DutyMatch | null;
+
+export interface DutySearchOptions {
+  /** Operating hours per year; with `tariffPerKWh`, ranks by annual energy cost. */
+  hoursPerYear?: number;
+  /** Energy price per kWh, in the office's currency. */
+  tariffPerKWh?: number;
+  /** Most candidates to return (default 20, at most 500). */
+  limit?: number;
+}
+
+export interface DutyCandidate extends DutyMatch {
+  id: string;
+  revision: number;
+  name: string;
+  maker: string | null;
+  model: string | null;
+  speed_rpm: number;
+  /** Shaft energy per year, kWh (power × hours); motor and drive losses not included. */
+  annual_energy_kWh?: number;
+  /** annual_energy_kWh × tariff. */
+  annual_cost?: number;
+}
+
+export interface DutySearchResult {
+  duty: Duty;
+  ranking: 'efficiency' | 'annual-cost';
+  /** Entries whose envelope contains the duty (evaluated in full). */
+  examined: number;
+  /** Entries that can meet the duty (before `limit`). */
+  matched: number;
+  candidates: DutyCandidate[];
+}
+
+/** Relative margin on the SQL envelope, so that a trim between diameters is never filtered out early. */
+const ENVELOPE_MARGIN = 0.05;
+
+export function checkDuty(duty: Duty): void {
+  if (!(Number.isFinite(duty.flow_m3s) && duty.flow_m3s > 0)) throw new LibraryError('The duty flow must be a number greater than zero.', 'invalid');
+  if (!(Number.isFinite(duty.head_m) && duty.head_m > 0)) throw new LibraryError('The duty head must be a number greater than zero.', 'invalid');
+  const h0 = duty.static_head_m;
+  if (h0 !== undefined && !(Number.isFinite(h0) && h0 >= 0 && h0 < duty.head_m)) {
+    throw new LibraryError('The static head must be zero or more and less than the duty head.', 'invalid');
+  }
+}
+
+export function searchByDuty(store: LibraryStore, duty: Duty, matcher: DutyMatcher, options: DutySearchOptions = {}): DutySearchResult {
+  checkDuty(duty);
+  const { hoursPerYear: hours, tariffPerKWh: tariff } = options;
+  if (hours !== undefined && !(Number.isFinite(hours) && hours > 0 && hours <= 8784)) {
+    throw new LibraryError('Operating hours per year must be more than 0 and at most 8784.', 'invalid');
+  }
+  if (tariff !== undefined && !(Number.isFinite(tariff) && tariff >= 0)) {
+    throw new LibraryError('The energy tariff must be zero or a positive price per kWh.', 'invalid');
+  }
+  const limit = Math.min(Math.max(Math.trunc(options.limit ?? 20), 1), 500);
+  const byCost = hours !== undefined && tariff !== undefined;
+
+  const q = duty.flow_m3s;
+  const h = duty.head_m;
+  const rows = store.db
+    .prepare(
+      `SELECT id, latest_revision AS revision, name, maker, model, speed_rpm FROM entries
+       WHERE archived_at IS NULL AND flow_min_m3s <= ? AND flow_max_m3s >= ? AND head_min_m <= ? AND head_max_m >= ?`,
+    )
+    .all(q * (1 + ENVELOPE_MARGIN), q * (1 - ENVELOPE_MARGIN), h * (1 + ENVELOPE_MARGIN), h * (1 - ENVELOPE_MARGIN)) as Array<{
+    id: string; revision: number; name: string; maker: string | null; model: string | null; speed_rpm: number;
+  }>;
+
+  const candidates: DutyCandidate[] = [];
+  for (const row of rows) {
+    const match = matcher(store.curveSet(row.id, row.revision), duty);
+    if (!match) continue;
+    const c: DutyCandidate = { ...row, ...match };
+    if (hours !== undefined && match.power_W !== undefined) {
+      c.annual_energy_kWh = (match.power_W * hours) / 1000;
+      if (tariff !== undefined) c.annual_cost = c.annual_energy_kWh * tariff;
+    }
+    candidates.push(c);
+  }
+  candidates.sort(byCost ? compareCost : compareEfficiency);
+  return { duty, ranking: byCost ? 'annual-cost' : 'efficiency', examined: rows.length, matched: candidates.length, candidates: candidates.slice(0, limit) };
+}
+
+function compareEfficiency(a: DutyCandidate, b: DutyCandidate): number {
+  return (b.efficiency ?? -1) - (a.efficiency ?? -1) || a.name.localeCompare(b.name) || a.id.localeCompare(b.id);
+}
+
+function compareCost(a: DutyCandidate, b: DutyCandidate): number {
+  const ca = a.annual_cost ?? Infinity;
+  const cb = b.annual_cost ?? Infinity;
+  if (ca !== cb) return ca < cb ? -1 : 1;
+  return compareEfficiency(a, b);
+}

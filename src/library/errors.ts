@@ -1,0 +1,15 @@
+/**
+ * The one error class the library throws for unusable input or requests.
+ * `reason` lets the server pick an HTTP status without parsing the message.
+ */
+export type LibraryErrorReason = 'invalid' | 'not-found' | 'conflict' | 'too-large' | 'unusable-file';
+
+export class LibraryError extends Error {
+  override name = 'LibraryError';
+  readonly reason: LibraryErrorReason;
+
+  constructor(message: string, reason: LibraryErrorReason = 'invalid') {
+    super(message);
+    this.reason = reason;
+  }
+}
