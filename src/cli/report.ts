@@ -21,12 +21,12 @@ export function formatReport(set: CurveSet): string {
   const ordered = [...set.members].sort((a, b) => (b.diameter_m ?? 0) - (a.diameter_m ?? 0) || b.speed_rpm - a.speed_rpm);
   for (const m of ordered) {
     const d = m.derived;
-    const parts = [`  ${show.member(m).padEnd(10)}`];
+    const parts: string[] = [];
     if (d.shutoff_head_m !== undefined) parts.push(`shutoff ${show.head(d.shutoff_head_m)}`);
     if (d.bep) parts.push(`BEP ${show.flow(d.bep.flow_m3s)} at ${show.head(d.bep.head_m)}, ${show.efficiency(d.bep.efficiency)}`);
     if (d.por) parts.push(`POR ${show.flow(d.por.min_m3s)}–${show.flow(d.por.max_m3s)}`);
     if (d.end_of_curve_m3s !== undefined) parts.push(`end of curve ${show.flow(d.end_of_curve_m3s)}`);
-    lines.push(parts.join('; '));
+    lines.push(`  ${show.member(m).padEnd(10)}${parts.join('; ')}`);
     const fits = (['head', 'efficiency', 'power', 'npshr'] as const).flatMap((q) => {
       const f = m.curves[q]?.fit;
       return f ? [`${q} deg ${f.degree}`] : m.curves[q] ? [`${q} not fitted`] : [];

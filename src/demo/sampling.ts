@@ -40,7 +40,7 @@ export interface SampleRow {
 export function samplePoints(fam: InventedFamily, o: SampleOptions): SampleRow[] {
   const random = seeded(o.seed ?? 1);
   const noise = o.noise ?? 0.003;
-  const n = o.pointsPerCurve ?? 12;
+  const n = o.pointsPerCurve ?? 15;
   const units = presetNamed(o.system);
   const flowU = parseUnit('flow', units.flow);
   const headU = parseUnit('head', units.head);
