@@ -186,7 +186,8 @@ function blendDerived(a: Member['derived'], b: Member['derived'], w: number): Me
 /**
  * Required trim for a duty point (common practice): follow the parabola H = (H_d/Q_d²)·Q²
  * from the duty point up to the full-diameter head curve, then D_req = D_full · Q_d / Q_cross.
- * Returns undefined when the parabola does not meet the curve inside its domain.
+ * Returns undefined when the parabola does not meet the curve inside its domain, or when
+ * the duty lies above the full-diameter curve (a trim cannot add head).
  */
 export function trimByParabola(fullHead: PolynomialFit, fullDiameter_m: number, dutyFlow_m3s: number, dutyHead_m: number): { diameter_m: number; crossingFlow_m3s: number } | undefined {
   if (!(dutyFlow_m3s > 0) || !(dutyHead_m > 0)) return undefined;
@@ -207,7 +208,8 @@ export function trimByParabola(fullHead: PolynomialFit, fullDiameter_m: number, 
         if (g(m) >= 0) a = m; else b = m;
       }
       const cross = 0.5 * (a + b);
-      return { diameter_m: (fullDiameter_m * dutyFlow_m3s) / cross, crossingFlow_m3s: cross };
+      const diameter_m = (fullDiameter_m * dutyFlow_m3s) / cross;
+      return diameter_m <= fullDiameter_m * (1 + 1e-9) ? { diameter_m, crossingFlow_m3s: cross } : undefined;
     }
     prevQ = q;
     prevG = gq;
