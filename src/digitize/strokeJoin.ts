@@ -1,0 +1,182 @@
+/**
+ * Joining the pieces of one drawn stroke. Renderers often break a curve into several paths;
+ * pieces of the same style whose ends coincide within a small tolerance are chained, and where
+ * more than two ends meet (a grid crossing, say) the straightest continuation is taken first.
+ */
+import type { SheetPoint } from './points.ts';
+
+export interface Piece {
+  readonly points: readonly SheetPoint[];
+  readonly closed: boolean;
+  /** Same style key = may be one stroke (colour, width, dash). */
+  readonly style: string;
+  readonly stroke: string | null;
+  readonly lineWidth: number;
+}
+
+export interface StrokeLine {
+  readonly points: SheetPoint[];
+  readonly closed: boolean;
+  readonly style: string;
+  readonly stroke: string | null;
+  readonly lineWidth: number;
+  /** Number of pieces joined. */
+  readonly pieces: number;
+  /** Every segment level or upright: a grid line, a frame, a tick. */
+  readonly gridLike: boolean;
+  /** [minX, minY, maxX, maxY]. */
+  readonly box: readonly [number, number, number, number];
+}
+
+/** Largest turn accepted at a join, radians: a curve's pieces continue smoothly, a grid corner turns 90°. */
+const MAX_TURN = (60 * Math.PI) / 180;
+
+export function joinPieces(pieces: readonly Piece[], tolerance: number): StrokeLine[] {
+  const byStyle = new Map<string, Piece[]>();
+  for (const p of pieces) {
+    const list = byStyle.get(p.style);
+    if (list) list.push(p);
+    else byStyle.set(p.style, [p]);
+  }
+  const out: StrokeLine[] = [];
+  for (const group of byStyle.values()) out.push(...joinGroup(group, tolerance));
+  return out;
+}
+
+interface End {
+  piece: number;
+  /** 0 = start of the piece, 1 = end. */
+  side: 0 | 1;
+  at: SheetPoint;
+  /** Unit direction pointing out of the piece at this end. */
+  out: [number, number];
+}
+
+function joinGroup(group: readonly Piece[], tolerance: number): StrokeLine[] {
+  const lines: StrokeLine[] = [];
+  const open: Piece[] = [];
+  for (const p of group) (p.closed ? lines.push(makeLine([p.points], true, p, 1)) : open.push(p));
+  if (open.length === 0) return lines;
+
+  const ends: End[] = [];
+  open.forEach((p, k) => {
+    ends.push({ piece: k, side: 0, at: p.points[0] as SheetPoint, out: outward(p.points, 0) });
+    ends.push({ piece: k, side: 1, at: p.points[p.points.length - 1] as SheetPoint, out: outward(p.points, 1) });
+  });
+
+  // Candidate joins through a grid of cells as wide as the tolerance.
+  const cell = Math.max(tolerance, 1e-9);
+  const grid = new Map<string, number[]>();
+  const key = (x: number, y: number) => `${Math.floor(x / cell)},${Math.floor(y / cell)}`;
+  ends.forEach((e, i) => {
+    const k = key(e.at[0], e.at[1]);
+    const list = grid.get(k);
+    if (list) list.push(i);
+    else grid.set(k, [i]);
+  });
+  const candidates: { i: number; j: number; turn: number; gap: number }[] = [];
+  ends.forEach((e, i) => {
+    const cx = Math.floor(e.at[0] / cell);
+    const cy = Math.floor(e.at[1] / cell);
+    for (let dx = -1; dx <= 1; dx++) {
+      for (let dy = -1; dy <= 1; dy++) {
+        for (const j of grid.get(`${cx + dx},${cy + dy}`) ?? []) {
+          if (j <= i) continue;
+          const f = ends[j] as End;
+          const gap = Math.hypot(e.at[0] - f.at[0], e.at[1] - f.at[1]);
+          if (gap > tolerance) continue;
+          // Smooth continuation: the two outward directions point against each other.
+          const cos = -(e.out[0] * f.out[0] + e.out[1] * f.out[1]);
+          const turn = Math.acos(Math.max(-1, Math.min(1, cos)));
+          if (turn > MAX_TURN) continue;
+          candidates.push({ i, j, turn, gap });
+        }
+      }
+    }
+  });
+  candidates.sort((a, b) => a.turn - b.turn || a.gap - b.gap);
+  const partner = new Int32Array(ends.length).fill(-1);
+  for (const c of candidates) {
+    if (partner[c.i] !== -1 || partner[c.j] !== -1) continue;
+    partner[c.i] = c.j;
+    partner[c.j] = c.i;
+  }
+
+  const visited = new Uint8Array(open.length);
+  const walk = (startEnd: number): { parts: SheetPoint[][]; closed: boolean; count: number } => {
+    const parts: SheetPoint[][] = [];
+    let enter = startEnd;
+    let count = 0;
+    for (;;) {
+      const e = ends[enter] as End;
+      if (visited[e.piece]) return { parts, closed: true, count };
+      visited[e.piece] = 1;
+      count++;
+      const pts = (open[e.piece] as Piece).points;
+      parts.push(e.side === 0 ? [...pts] : [...pts].reverse());
+      const exit = e.piece * 2 + (1 - e.side);
+      const next = partner[exit] as number;
+      if (next === -1) return { parts, closed: false, count };
+      enter = next;
+    }
+  };
+  // Chains with a free end first, then the remaining cycles.
+  ends.forEach((e, i) => {
+    if (!visited[e.piece] && partner[i] === -1) {
+      const { parts, count } = walk(i);
+      lines.push(makeLine(parts, false, open[e.piece] as Piece, count));
+    }
+  });
+  ends.forEach((e, i) => {
+    if (!visited[e.piece] && e.side === 0) {
+      const { parts, count } = walk(i);
+      lines.push(makeLine(parts, true, open[e.piece] as Piece, count));
+    }
+  });
+  return lines;
+}
+
+/** Direction out of the piece at one end, taken over about 2 sheet units so that tiny last segments do not mislead. */
+function outward(points: readonly SheetPoint[], side: 0 | 1): [number, number] {
+  const n = points.length;
+  const at = side === 0 ? (points[0] as SheetPoint) : (points[n - 1] as SheetPoint);
+  let ref = at;
+  for (let k = 1; k < n; k++) {
+    ref = side === 0 ? (points[k] as SheetPoint) : (points[n - 1 - k] as SheetPoint);
+    if (Math.hypot(ref[0] - at[0], ref[1] - at[1]) >= 2) break;
+  }
+  const dx = at[0] - ref[0];
+  const dy = at[1] - ref[1];
+  const len = Math.hypot(dx, dy);
+  return len > 0 ? [dx / len, dy / len] : [0, 0];
+}
+
+function makeLine(parts: readonly (readonly SheetPoint[])[], closed: boolean, style: Piece, count: number): StrokeLine {
+  const points: SheetPoint[] = [];
+  for (const part of parts) {
+    for (const p of part) {
+      const last = points.at(-1);
+      if (!last || last[0] !== p[0] || last[1] !== p[1]) points.push(p);
+    }
+  }
+  let minX = Infinity;
+  let minY = Infinity;
+  let maxX = -Infinity;
+  let maxY = -Infinity;
+  let level = true;
+  for (let i = 0; i < points.length; i++) {
+    const p = points[i] as SheetPoint;
+    minX = Math.min(minX, p[0]);
+    minY = Math.min(minY, p[1]);
+    maxX = Math.max(maxX, p[0]);
+    maxY = Math.max(maxY, p[1]);
+    if (i > 0) {
+      const q = points[i - 1] as SheetPoint;
+      const dx = Math.abs(p[0] - q[0]);
+      const dy = Math.abs(p[1] - q[1]);
+      // Level or upright within about 0.5°.
+      if (dx > 0.009 * dy && dy > 0.009 * dx) level = false;
+    }
+  }
+  return { points, closed, style: style.style, stroke: style.stroke, lineWidth: style.lineWidth, pieces: count, gridLike: level, box: [minX, minY, maxX, maxY] };
+}

@@ -1,0 +1,130 @@
+/**
+ * Vector capture: from the user's guide clicks on a vector page to the exact geometry of the
+ * drawn line they sit on. No rasterising, so no pixel error:
+ * 1. every stroked path is flattened (Béziers within a small chord tolerance);
+ * 2. pieces of the same stroke (same colour, width and dash) whose ends coincide within a small
+ *    tolerance are joined, preferring the straightest continuation where several ends meet;
+ * 3. the joined line that passes near ALL guides wins; straight horizontal or vertical lines and
+ *    closed outlines (grid lines, frames) only win when nothing else passes near the guides;
+ * 4. the line is cut between the first and the last guide (a single guide takes it whole).
+ */
+import { DEFAULT_FLATNESS, flattenPath } from './flatten.ts';
+import { arcLengthAt, arcLengths, dedupe, nearestOnPolyline, slice, type PolylinePosition } from './polyline.ts';
+import type { SheetPoint } from './points.ts';
+import type { VectorPath } from './sheet.ts';
+import { joinPieces, type Piece, type StrokeLine } from './strokeJoin.ts';
+
+/** Thrown when no drawn line fits the guides; the message says what to do. */
+export class CaptureError extends Error {
+  override name = 'CaptureError';
+}
+
+export interface VectorCaptureOptions {
+  /** Chord tolerance for Béziers, sheet units. */
+  flatness?: number;
+  /** Largest gap between the ends of two pieces that continue one stroke, sheet units. */
+  joinTolerance?: number;
+  /** Largest distance between a guide and the line it is meant to sit on, sheet units. */
+  maxGuideDistance?: number;
+}
+
+export interface VectorCapture {
+  /** The captured points, from the first guide towards the last. */
+  points: SheetPoint[];
+  /** Distance of each guide from the chosen line, sheet units. */
+  guideDistances: number[];
+  stroke: string | null;
+  lineWidth: number;
+  /** How many drawn pieces were joined into the chosen line. */
+  pieces: number;
+  /** True when the chosen line is straight and level or upright, or a closed outline. */
+  gridLike: boolean;
+}
+
+export const DEFAULT_JOIN_TOLERANCE = 0.5;
+export const DEFAULT_MAX_GUIDE_DISTANCE = 6;
+
+/** Flattened, style-keyed pieces of all stroked paths of a page (compute once, capture many). */
+export function strokePieces(paths: readonly VectorPath[], flatness = DEFAULT_FLATNESS): Piece[] {
+  const pieces: Piece[] = [];
+  for (const path of paths) {
+    if (path.stroke === null) continue;
+    const style = `${path.stroke}|${path.lineWidth.toFixed(3)}|${path.dashed ? 'dash' : 'solid'}`;
+    for (const line of flattenPath(path.segments, flatness)) {
+      pieces.push({ points: line.points, closed: line.closed, style, stroke: path.stroke, lineWidth: path.lineWidth });
+    }
+  }
+  return pieces;
+}
+
+/** The joined lines of a page, ready for repeated captures. */
+export function strokeLines(paths: readonly VectorPath[], options: VectorCaptureOptions = {}): StrokeLine[] {
+  return joinPieces(strokePieces(paths, options.flatness ?? DEFAULT_FLATNESS), options.joinTolerance ?? DEFAULT_JOIN_TOLERANCE);
+}
+
+/** Captures the drawn line under the guides. Throws CaptureError when no line passes near all of them. */
+export function captureVector(lines: readonly StrokeLine[], guides: readonly SheetPoint[], options: VectorCaptureOptions = {}): VectorCapture {
+  if (guides.length === 0) throw new CaptureError('A vector capture needs at least one guide on the line.');
+  const reach = options.maxGuideDistance ?? DEFAULT_MAX_GUIDE_DISTANCE;
+  let best: { line: StrokeLine; positions: PolylinePosition[]; score: number; tie: number } | null = null;
+  let closest = Infinity;
+  for (const line of lines) {
+    if (!nearBox(line.box, guides, reach)) continue;
+    const positions = guides.map((g) => nearestOnPolyline(line.points, g));
+    const worst = Math.max(...positions.map((p) => p.distance));
+    closest = Math.min(closest, worst);
+    if (worst > reach) continue;
+    const score = worst + (line.gridLike ? reach : 0);
+    const tie = positions.reduce((s, p) => s + p.distance, 0);
+    if (!best || score < best.score - 1e-9 || (Math.abs(score - best.score) <= 1e-9 && tie < best.tie)) best = { line, positions, score, tie };
+  }
+  if (!best) {
+    const near = Number.isFinite(closest) ? ` (the nearest line misses a guide by ${closest.toFixed(1)} sheet units)` : '';
+    throw new CaptureError(
+      `No drawn line passes within ${reach} sheet units of every guide${near}; place the guides on the line itself, or capture it from the picture instead.`,
+    );
+  }
+  const { line, positions } = best;
+  const points = guides.length === 1 ? dedupe(line.points) : cut(line, positions);
+  return {
+    points,
+    guideDistances: positions.map((p) => p.distance),
+    stroke: line.stroke,
+    lineWidth: line.lineWidth,
+    pieces: line.pieces,
+    gridLike: line.gridLike,
+  };
+}
+
+function nearBox(box: readonly [number, number, number, number], guides: readonly SheetPoint[], reach: number): boolean {
+  return guides.every((g) => g[0] >= box[0] - reach && g[0] <= box[2] + reach && g[1] >= box[1] - reach && g[1] <= box[3] + reach);
+}
+
+/** The stretch between the first and the last guide; on a closed line, the way round that holds the middle guides. */
+function cut(line: StrokeLine, positions: readonly PolylinePosition[]): SheetPoint[] {
+  const first = positions[0] as PolylinePosition;
+  const last = positions[positions.length - 1] as PolylinePosition;
+  const direct = slice(line.points, first, last);
+  if (!line.closed) return direct;
+  const cumulative = arcLengths(line.points);
+  const total = cumulative[cumulative.length - 1] as number;
+  const s0 = arcLengthAt(cumulative, first);
+  const s1 = arcLengthAt(cumulative, last);
+  const lo = Math.min(s0, s1);
+  const hi = Math.max(s0, s1);
+  const middle = positions.slice(1, -1).map((p) => arcLengthAt(cumulative, p));
+  const inside = middle.filter((s) => s >= lo && s <= hi).length;
+  const outside = middle.length - inside;
+  const useDirect = inside > outside || (inside === outside && hi - lo <= total - (hi - lo));
+  if (useDirect) return direct;
+  // The other way round: from `first` away from `last`, through the closing point.
+  const n = line.points.length;
+  const startIndex = { segment: 0, t: 0, point: line.points[0] as SheetPoint, distance: 0 };
+  const endIndex = { segment: n - 2, t: 1, point: line.points[n - 1] as SheetPoint, distance: 0 };
+  const lowPos = s0 <= s1 ? first : last;
+  const highPos = s0 <= s1 ? last : first;
+  const tail = slice(line.points, highPos, endIndex);
+  const head = slice(line.points, startIndex, lowPos);
+  const around = dedupe([...tail, ...head]);
+  return s0 <= s1 ? around.reverse() : around;
+}
