@@ -28,7 +28,7 @@ export function describeZodError(error: ZodError, what: string): string {
 export function sentenceFor(error: unknown): string {
   if (error instanceof ZodError) return describeZodError(error, 'The input');
   if (error instanceof Error) {
-    const known = ['InputError', 'UnitError', 'CalibrationError', 'SheetError', 'FitError', 'ExtrapolationError', 'TakeoffError', 'DutyError', 'LibraryError'];
+    const known = ['InputError', 'UnitError', 'CalibrationError', 'SheetError', 'FitError', 'ExtrapolationError', 'TakeoffError', 'CaptureError', 'DutyError', 'LibraryError'];
     if (known.includes(error.name) || error.name.endsWith('InputError')) return error.message;
     return `Unexpected internal error: ${error.message}. Please report it with the input that caused it.`;
   }
