@@ -1,0 +1,40 @@
+import { describe, expect, it } from 'vitest';
+import { isoCrossings } from '../../src/digitize/isoCrossings.ts';
+import { sheetPoint, type SheetPoint } from '../../src/digitize/points.ts';
+
+const line = (pts: [number, number][]): SheetPoint[] => pts.map(([x, y]) => sheetPoint(x, y));
+
+describe('crossing an iso-trace with the head traces of its panel', () => {
+  const head13 = line(Array.from({ length: 51 }, (_, i) => [100 + 8 * i, 100 + 0.0006 * (8 * i) ** 2] as [number, number]));
+  const head11 = line(Array.from({ length: 51 }, (_, i) => [100 + 8 * i, 200 + 0.0008 * (8 * i) ** 2] as [number, number]));
+
+  it('finds one crossing per head trace for an iso-line running across them', () => {
+    const iso = line([[300, 80], [300, 400]]);
+    const got = isoCrossings(iso, [{ key: 13, points: head13 }, { key: 11, points: head11 }]);
+    expect(got.map((c) => c.key)).toEqual([13, 11]);
+    // Head traces are polylines with vertices on y = y0 + k·(x−100)²; at x = 300 (a vertex) exactly.
+    expect(got[0]!.at[0]).toBeCloseTo(300, 9);
+    expect(got[0]!.at[1]).toBeCloseTo(100 + 0.0006 * 200 ** 2, 9);
+    expect(got[1]!.at[1]).toBeCloseTo(200 + 0.0008 * 200 ** 2, 9);
+  });
+
+  it('finds both branches of an efficiency island crossing the same trace twice', () => {
+    const island = line([[200, 60], [250, 160], [350, 160], [400, 60]]);
+    const got = isoCrossings(island, [{ key: 13, points: head13 }]);
+    expect(got).toHaveLength(2);
+    expect(got[0]!.at[0]).toBeLessThan(got[1]!.at[0]);
+  });
+
+  it('counts an iso-line that ends on a head trace as crossing it there', () => {
+    const y = 100 + 0.0006 * 150 ** 2;
+    const iso = line([[250, y + 0.5], [260, y + 80]]); // ends 0.5 units below the curve, drawn up to it
+    const got = isoCrossings(iso, [{ key: 13, points: head13 }]);
+    expect(got).toHaveLength(1);
+    expect(got[0]!.touching).toBe(true);
+    expect(got[0]!.at[0]).toBeCloseTo(250, 0);
+  });
+
+  it('finds nothing for an iso-line that misses the traces', () => {
+    expect(isoCrossings(line([[50, 50], [60, 60]]), [{ key: 13, points: head13 }])).toEqual([]);
+  });
+});
