@@ -1,0 +1,79 @@
+/**
+ * Loads a PNG or JPEG scan as a RasterImage (scale 1) and as a Sheet in the browser, with
+ * createImageBitmap and an OffscreenCanvas. The same header checks as in Node run first, so
+ * an oversized raster is refused before the browser spends memory decoding it.
+ */
+import type { RasterImage } from '../raster.ts';
+import { checkRasterSize, DEFAULT_SHEET_LIMITS, SheetError, type Sheet, type SheetLimits } from '../sheet.ts';
+import { damagedImage, readImageHeader } from './imageHeader.ts';
+
+export interface ImageBrowserOptions {
+  limits?: SheetLimits;
+  /** Name of the file for messages. */
+  name?: string;
+}
+
+function drawToRaster(source: CanvasImageSource, width: number, height: number, scale: number): RasterImage {
+  const canvas = new OffscreenCanvas(width, height);
+  const ctx = canvas.getContext('2d');
+  if (!ctx) throw new SheetError('This browser cannot draw into an off-screen canvas; use a current browser to load scans.');
+  ctx.fillStyle = '#ffffff';
+  ctx.fillRect(0, 0, width, height);
+  ctx.imageSmoothingQuality = 'high';
+  ctx.drawImage(source, 0, 0, width, height);
+  return { width, height, data: ctx.getImageData(0, 0, width, height).data, scale };
+}
+
+/** Decodes a PNG or JPEG file into RGBA pixels at scale 1. Throws SheetError for unusable files. */
+export async function loadImageRasterBrowser(bytes: Uint8Array, options: ImageBrowserOptions = {}): Promise<RasterImage> {
+  const limits = options.limits ?? DEFAULT_SHEET_LIMITS;
+  const name = options.name ? `The image "${options.name}"` : 'The image';
+  const header = readImageHeader(bytes, name, limits);
+  let bitmap: ImageBitmap;
+  try {
+    const blob = new Blob([bytes.slice()], { type: header.format === 'png' ? 'image/png' : 'image/jpeg' });
+    bitmap = await createImageBitmap(blob);
+  } catch (error) {
+    throw damagedImage(name, header.format, error);
+  }
+  try {
+    return drawToRaster(bitmap, bitmap.width, bitmap.height, 1);
+  } finally {
+    bitmap.close();
+  }
+}
+
+async function sha256Hex(bytes: Uint8Array): Promise<string> {
+  const digest = await crypto.subtle.digest('SHA-256', bytes.slice());
+  return [...new Uint8Array(digest)].map((b) => b.toString(16).padStart(2, '0')).join('');
+}
+
+/** Opens a PNG or JPEG scan as a Sheet of kind 'image' (sheet units are the image's pixels). */
+export async function loadImageSheetBrowser(bytes: Uint8Array, options: ImageBrowserOptions = {}): Promise<Sheet> {
+  const limits = options.limits ?? DEFAULT_SHEET_LIMITS;
+  const image = await loadImageRasterBrowser(bytes, options);
+  const sha256 = await sha256Hex(bytes);
+  return {
+    kind: 'image',
+    width: image.width,
+    height: image.height,
+    sha256,
+    page: 1,
+    render: async (scale: number) => {
+      if (!(scale > 0) || !Number.isFinite(scale)) throw new SheetError(`The render scale ${scale} is not a positive number; use 1 for an image at its own resolution.`);
+      if (scale === 1) return image;
+      const w = Math.max(1, Math.round(image.width * scale));
+      const h = Math.max(1, Math.round(image.height * scale));
+      checkRasterSize(w, h, limits, 'The rendered image');
+      const bitmap = await createImageBitmap(new ImageData(new Uint8ClampedArray(image.data), image.width, image.height));
+      try {
+        return drawToRaster(bitmap, w, h, scale);
+      } finally {
+        bitmap.close();
+      }
+    },
+    paths: async () => [],
+    text: async () => [],
+    close: async () => undefined,
+  };
+}
