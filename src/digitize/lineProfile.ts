@@ -1,0 +1,161 @@
+/**
+ * Cross-sections of a line in a raster: membership sampled along a short segment, split into
+ * runs of line-coloured samples, each with its sub-pixel centre (membership-weighted centroid)
+ * and its mass (Σ membership × spacing, about the line's width in pixels).
+ * Coordinates are pixel coordinates with the centre of the first pixel at (0.5, 0.5).
+ */
+import { membership, type InkModel } from './colour.ts';
+import type { RasterImage } from './raster.ts';
+
+/** A stretch of line-coloured samples across a section. Offsets are in pixels from the section centre. */
+export interface Run {
+  centre: number;
+  mass: number;
+  start: number;
+  end: number;
+}
+
+/** Counts pixel reads, so that callers can compare the work done with one pass over the page. */
+export interface ReadCounter {
+  reads: number;
+}
+
+/**
+ * Membership at (x, y) by bilinear interpolation of the colour; 0 outside the image.
+ */
+export function membershipAt(image: RasterImage, model: InkModel, x: number, y: number, counter?: ReadCounter): number {
+  const u = x - 0.5;
+  const v = y - 0.5;
+  let i0 = Math.floor(u);
+  let j0 = Math.floor(v);
+  const fx = u - i0;
+  const fy = v - j0;
+  const { width, height, data } = image;
+  if (i0 < -1 || j0 < -1 || i0 >= width || j0 >= height) return 0;
+  let i1 = i0 + 1;
+  let j1 = j0 + 1;
+  if (i0 < 0) i0 = 0;
+  if (j0 < 0) j0 = 0;
+  if (i1 >= width) i1 = width - 1;
+  if (j1 >= height) j1 = height - 1;
+  const a = (j0 * width + i0) * 4;
+  const b = (j0 * width + i1) * 4;
+  const c = (j1 * width + i0) * 4;
+  const d = (j1 * width + i1) * 4;
+  const w00 = (1 - fx) * (1 - fy);
+  const w10 = fx * (1 - fy);
+  const w01 = (1 - fx) * fy;
+  const w11 = fx * fy;
+  const r = w00 * (data[a] as number) + w10 * (data[b] as number) + w01 * (data[c] as number) + w11 * (data[d] as number);
+  const g = w00 * (data[a + 1] as number) + w10 * (data[b + 1] as number) + w01 * (data[c + 1] as number) + w11 * (data[d + 1] as number);
+  const bl = w00 * (data[a + 2] as number) + w10 * (data[b + 2] as number) + w01 * (data[c + 2] as number) + w11 * (data[d + 2] as number);
+  if (counter) counter.reads += 4;
+  return membership(model, r, g, bl);
+}
+
+/**
+ * Samples membership at centre + k·spacing·normal for k = −n…n into `out` (length 2n+1).
+ */
+export function sampleSection(
+  image: RasterImage,
+  model: InkModel,
+  cx: number,
+  cy: number,
+  nx: number,
+  ny: number,
+  n: number,
+  spacing: number,
+  out: Float64Array,
+  counter?: ReadCounter,
+): void {
+  for (let k = -n; k <= n; k++) {
+    const o = k * spacing;
+    out[k + n] = membershipAt(image, model, cx + nx * o, cy + ny * o, counter);
+  }
+}
+
+/**
+ * Splits a sampled section into runs where membership ≥ threshold. Each run also takes in the
+ * samples just outside it (the anti-aliased fringe below the threshold) so that its centroid
+ * and mass do not depend on where the threshold cuts.
+ */
+export function findRuns(values: Float64Array, n: number, spacing: number, threshold: number): Run[] {
+  const runs: Run[] = [];
+  const count = 2 * n + 1;
+  let k = 0;
+  while (k < count) {
+    if ((values[k] as number) < threshold) {
+      k++;
+      continue;
+    }
+    let end = k;
+    while (end + 1 < count && (values[end + 1] as number) >= threshold) end++;
+    const lo = Math.max(0, k - 1);
+    const hi = Math.min(count - 1, end + 1);
+    let mass = 0;
+    let moment = 0;
+    for (let i = lo; i <= hi; i++) {
+      const m = values[i] as number;
+      mass += m;
+      moment += m * (i - n);
+    }
+    runs.push({ centre: (moment / mass) * spacing, mass: mass * spacing, start: (k - n) * spacing, end: (end - n) * spacing });
+    k = end + 1;
+  }
+  return runs;
+}
+
+/**
+ * Direction of the ink around (cx, cy): the principal axis of the membership-weighted second
+ * moments within `radius` pixels. Returns the unit direction, the ink's centroid and the ratio
+ * of the two eigenvalues (near 0 for a clean line, near 1 for a blob or a crossing).
+ */
+export function inkAxis(
+  image: RasterImage,
+  model: InkModel,
+  cx: number,
+  cy: number,
+  radius: number,
+  threshold: number,
+): { dx: number; dy: number; mx: number; my: number; mass: number; isotropy: number } | undefined {
+  const { width, height, data } = image;
+  const x0 = Math.max(0, Math.floor(cx - radius));
+  const y0 = Math.max(0, Math.floor(cy - radius));
+  const x1 = Math.min(width - 1, Math.ceil(cx + radius));
+  const y1 = Math.min(height - 1, Math.ceil(cy + radius));
+  let s = 0;
+  let sx = 0;
+  let sy = 0;
+  let sxx = 0;
+  let sxy = 0;
+  let syy = 0;
+  const r2 = radius * radius;
+  for (let y = y0; y <= y1; y++) {
+    const py = y + 0.5 - cy;
+    for (let x = x0; x <= x1; x++) {
+      const px = x + 0.5 - cx;
+      if (px * px + py * py > r2) continue;
+      const i = (y * width + x) * 4;
+      const m = membership(model, data[i] as number, data[i + 1] as number, data[i + 2] as number);
+      if (m < threshold) continue;
+      s += m;
+      sx += m * px;
+      sy += m * py;
+      sxx += m * px * px;
+      sxy += m * px * py;
+      syy += m * py * py;
+    }
+  }
+  if (s <= 0) return undefined;
+  const mx = sx / s;
+  const my = sy / s;
+  const cxx = sxx / s - mx * mx;
+  const cxy = sxy / s - mx * my;
+  const cyy = syy / s - my * my;
+  const half = (cxx + cyy) / 2;
+  const root = Math.sqrt(((cxx - cyy) / 2) ** 2 + cxy * cxy);
+  const big = half + root;
+  const small = half - root;
+  const angle = 0.5 * Math.atan2(2 * cxy, cxx - cyy);
+  return { dx: Math.cos(angle), dy: Math.sin(angle), mx: cx + mx, my: cy + my, mass: s, isotropy: big > 0 ? small / big : 1 };
+}

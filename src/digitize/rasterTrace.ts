@@ -1,0 +1,330 @@
+/**
+ * Raster capture: from guides clicked on a line in a scan (or a rendered raster PDF), follow
+ * the line by the colour found under the first guide, from guide to guide, and return its
+ * centre line in sheet coordinates, thinned to a pixel tolerance that keeps the shape.
+ *
+ * The line's colour and width are measured under the first guide that sits on ink. Each
+ * stretch between two guides is followed forwards; if the line is lost, it is followed
+ * backwards from the far guide, and whatever stays unseen is reported with where it was lost.
+ * With a single guide the line is followed both ways until it ends.
+ * A trace given as explicit points is used as is. Pure: works on the RGBA buffer only.
+ */
+import simplify from 'simplify-js';
+import { colourDistance, estimatePaper, inkModel, MIN_CONTRAST, windowAround, type InkModel, type Rgb } from './colour.ts';
+import { followLine, stepping, type FollowLimits, type LineStyle } from './lineFollow.ts';
+import { findRuns, inkAxis, sampleSection, type ReadCounter } from './lineProfile.ts';
+import { sheetPoint, type SheetPoint } from './points.ts';
+import type { RasterImage } from './raster.ts';
+
+/** Guides or options the tracer cannot use. The message says what to change. */
+export class TraceInputError extends Error {
+  override name = 'TraceInputError';
+}
+
+export interface RasterTraceOptions {
+  /** Follow this colour instead of the one found under the first guide. */
+  colour?: Rgb;
+  /** Line width in pixels, instead of the one measured under the first guide. */
+  widthPx?: number;
+  /** Longest stretch bridged on the prediction alone, pixels (default 30 line widths, 30–250 px). */
+  maxGapPx?: number;
+  /** Tolerance of the thinning, pixels (default 0.3). */
+  simplifyPx?: number;
+  /** How far from a guide the line may lie, pixels (default 10, or 3 line widths if more). */
+  searchPx?: number;
+}
+
+/** A stretch the tracer could not see. */
+export interface LostStretch {
+  /** Last point where the line was still seen, sheet coordinates. */
+  at: SheetPoint;
+  /** Where it was seen again from the far guide, when it was. */
+  resumedAt?: SheetPoint;
+  /** Which guides the stretch lies between (1-based), or the single guide. */
+  between: [number, number];
+  reason: string;
+}
+
+export interface RasterTraceResult {
+  /** The centre line, sheet coordinates, thinned. */
+  points: SheetPoint[];
+  /** Stretches not seen; empty when the line was followed from the first guide to the last. */
+  lost: LostStretch[];
+  /** The line that was followed, as measured. */
+  line: { colour: Rgb; paper: Rgb; widthPx: number };
+  /** Pixels read while tracing (each bilinear sample reads four). */
+  pixelsRead: number;
+}
+
+const THRESHOLD = 0.4;
+
+type Px = [number, number];
+
+function fmt(p: SheetPoint): string {
+  return `(${p[0].toFixed(1)}, ${p[1].toFixed(1)})`;
+}
+
+function validateGuides(image: RasterImage, guides: readonly SheetPoint[]): Px[] {
+  if (guides.length === 0) throw new TraceInputError('A raster trace needs at least one guide on the line; click on the line to place one.');
+  return guides.map((g, i) => {
+    const x = g[0] * image.scale;
+    const y = g[1] * image.scale;
+    if (!Number.isFinite(x) || !Number.isFinite(y)) throw new TraceInputError(`Guide ${i + 1} has a coordinate that is not a finite number; place it again on the line.`);
+    if (x < 0 || y < 0 || x > image.width || y > image.height) {
+      const w = image.width / image.scale;
+      const h = image.height / image.scale;
+      throw new TraceInputError(`Guide ${i + 1} at ${fmt(g)} lies outside the sheet (${w.toFixed(0)} × ${h.toFixed(0)}); place it on the line.`);
+    }
+    return [x, y];
+  });
+}
+
+/** Measures the line under a guide: paper and ink colour, line width, centre and direction. */
+function acquire(image: RasterImage, guide: Px, search: number, options: RasterTraceOptions): { style: LineStyle; centre: Px; axis: Px } | undefined {
+  const paper = estimatePaper(image, guide[0], guide[1], Math.max(2 * search, 16));
+  let colour: Rgb;
+  if (options.colour) {
+    colour = options.colour;
+  } else {
+    const [x0, y0, x1, y1] = windowAround(image, guide[0], guide[1], search);
+    const { data, width } = image;
+    let strongest = 0;
+    for (let y = y0; y < y1; y++) {
+      for (let x = x0; x < x1; x++) {
+        const i = (y * width + x) * 4;
+        strongest = Math.max(strongest, colourDistance(paper, data[i] as number, data[i + 1] as number, data[i + 2] as number));
+      }
+    }
+    if (strongest < MIN_CONTRAST) return undefined;
+    // The ink pixel nearest the guide among those with at least half the strongest contrast.
+    let best = -1;
+    let bestD = Infinity;
+    for (let y = y0; y < y1; y++) {
+      for (let x = x0; x < x1; x++) {
+        const i = (y * width + x) * 4;
+        if (colourDistance(paper, data[i] as number, data[i + 1] as number, data[i + 2] as number) < 0.5 * strongest) continue;
+        const d = Math.hypot(x + 0.5 - guide[0], y + 0.5 - guide[1]);
+        if (d < bestD) {
+          bestD = d;
+          best = y * width + x;
+        }
+      }
+    }
+    // Its colour: the mean of the most contrasted pixels within 2 px (the line's core).
+    const bx = best % width;
+    const by = Math.floor(best / width);
+    const core: Array<[number, number, number, number]> = [];
+    for (let y = Math.max(0, by - 2); y <= Math.min(image.height - 1, by + 2); y++) {
+      for (let x = Math.max(0, bx - 2); x <= Math.min(width - 1, bx + 2); x++) {
+        const i = (y * width + x) * 4;
+        const r = data[i] as number;
+        const g = data[i + 1] as number;
+        const b = data[i + 2] as number;
+        core.push([colourDistance(paper, r, g, b), r, g, b]);
+      }
+    }
+    const top = Math.max(...core.map((c) => c[0]));
+    const chosen = core.filter((c) => c[0] >= 0.8 * top);
+    colour = [0, 1, 2].map((k) => chosen.reduce((s, c) => s + (c[k + 1] as number), 0) / chosen.length) as unknown as Rgb;
+  }
+  const model = inkModel(colour, paper);
+  const centre = nearestInk(image, model, guide, search);
+  if (!centre) return undefined;
+  const measured = measureAt(image, model, centre, options.widthPx ?? 3);
+  if (!measured) return undefined;
+  const width = options.widthPx ?? measured.width;
+  return { style: { model, width, threshold: THRESHOLD }, centre: measured.centre, axis: measured.axis };
+}
+
+/** The nearest pixel centre to `p` whose membership is at least one half, within `radius`. */
+function nearestInk(image: RasterImage, model: InkModel, p: Px, radius: number): Px | undefined {
+  const [x0, y0, x1, y1] = windowAround(image, p[0], p[1], radius);
+  const { data, width } = image;
+  let best: Px | undefined;
+  let bestD = radius;
+  for (let y = y0; y < y1; y++) {
+    for (let x = x0; x < x1; x++) {
+      const i = (y * width + x) * 4;
+      const dx = x + 0.5 - p[0];
+      const dy = y + 0.5 - p[1];
+      const d = Math.hypot(dx, dy);
+      if (d >= bestD) continue;
+      const r = data[i] as number;
+      const g = data[i + 1] as number;
+      const b = data[i + 2] as number;
+      const tx = model.paper[0] - r;
+      const ty = model.paper[1] - g;
+      const tz = model.paper[2] - b;
+      // Cheap pre-filter on the projection before the full membership.
+      if ((tx * model.ax + ty * model.ay + tz * model.az) * model.invNorm2 < 0.5) continue;
+      if (memberOf(model, r, g, b) < 0.5) continue;
+      bestD = d;
+      best = [x + 0.5, y + 0.5];
+    }
+  }
+  return best;
+}
+
+function memberOf(model: InkModel, r: number, g: number, b: number): number {
+  const dx = model.paper[0] - r;
+  const dy = model.paper[1] - g;
+  const dz = model.paper[2] - b;
+  const t = (dx * model.ax + dy * model.ay + dz * model.az) * model.invNorm2;
+  const s = Math.hypot(dx - t * model.ax, dy - t * model.ay, dz - t * model.az) * model.invNorm;
+  return Math.max(0, Math.min(1, t - s));
+}
+
+/** Direction, sub-pixel centre and width of the line through an ink pixel. */
+function measureAt(image: RasterImage, model: InkModel, ink: Px, widthGuess: number): { centre: Px; axis: Px; width: number } | undefined {
+  const axis = inkAxis(image, model, ink[0], ink[1], Math.max(2.5 * widthGuess, 5), THRESHOLD);
+  if (!axis) return undefined;
+  const nx = -axis.dy;
+  const ny = axis.dx;
+  const spacing = 0.5;
+  const n = Math.ceil(Math.max(3 * widthGuess, 8) / spacing);
+  const section = new Float64Array(2 * n + 1);
+  sampleSection(image, model, ink[0], ink[1], nx, ny, n, spacing, section);
+  const runs = findRuns(section, n, spacing, THRESHOLD);
+  let best = runs[0];
+  for (const r of runs) if (best && Math.abs(r.centre) < Math.abs(best.centre)) best = r;
+  if (!best) return undefined;
+  return { centre: [ink[0] + nx * best.centre, ink[1] + ny * best.centre], axis: [axis.dx, axis.dy], width: Math.max(1, best.mass) };
+}
+
+/** Puts a guide onto the centre of the followed line near it. */
+function snap(image: RasterImage, style: LineStyle, guide: Px, search: number): { centre: Px; axis: Px } | undefined {
+  const ink = nearestInk(image, style.model, guide, search);
+  if (!ink) return undefined;
+  const m = measureAt(image, style.model, ink, style.width);
+  return m && { centre: m.centre, axis: m.axis };
+}
+
+/**
+ * Heading along `axis` from `from` that leads towards `towards`. When the axis is nearly
+ * square to the way to go (a U-shaped line between its tips), both headings are tried for
+ * a short way and the one that keeps to the line and ends nearer `towards` wins.
+ */
+function headingTowards(image: RasterImage, style: LineStyle, from: Px, axis: Px, towards: Px, counter: ReadCounter): Px {
+  const wx = towards[0] - from[0];
+  const wy = towards[1] - from[1];
+  const dist = Math.hypot(wx, wy) || 1;
+  const cos = (axis[0] * wx + axis[1] * wy) / dist;
+  const forward: Px = cos >= 0 ? [axis[0], axis[1]] : [-axis[0], -axis[1]];
+  if (Math.abs(cos) >= 0.35) return forward;
+  const probe = (h: Px) => {
+    const r = followLine(image, style, from, h, undefined, { maxGap: 4 * style.width, maxTravel: 20 * stepping(style.width).step }, counter);
+    const n = r.points.length;
+    const end: Px = [r.points[n - 2] as number, r.points[n - 1] as number];
+    return { alive: r.points.length >= 10, d: Math.hypot(towards[0] - end[0], towards[1] - end[1]) };
+  };
+  const a = probe(forward);
+  const backward: Px = [-forward[0], -forward[1]];
+  const b = probe(backward);
+  if (a.alive !== b.alive) return a.alive ? forward : backward;
+  return b.d < a.d ? backward : forward;
+}
+
+function pairs(flat: number[]): Px[] {
+  const out: Px[] = [];
+  for (let i = 0; i < flat.length; i += 2) out.push([flat[i] as number, flat[i + 1] as number]);
+  return out;
+}
+
+/** Follows a line through a raster from guide to guide (see the file comment). */
+export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], options: RasterTraceOptions = {}): RasterTraceResult {
+  const px = validateGuides(image, guides);
+  const counter: ReadCounter = { reads: 0 };
+  const toSheetPt = (p: Px) => sheetPoint(p[0] / image.scale, p[1] / image.scale);
+  let search = options.searchPx ?? 10;
+
+  let acquired: ReturnType<typeof acquire>;
+  let first = 0;
+  for (; first < px.length && !acquired; first++) acquired = acquire(image, px[first] as Px, search, options);
+  if (!acquired) {
+    return {
+      points: [],
+      lost: [{ at: guides[0] as SheetPoint, between: [1, guides.length], reason: `no line stands out from the paper within ${search} px of any guide` }],
+      line: { colour: options.colour ?? [0, 0, 0], paper: [255, 255, 255], widthPx: 0 },
+      pixelsRead: counter.reads,
+    };
+  }
+  const style = acquired.style;
+  search = options.searchPx ?? Math.max(10, 3 * style.width);
+  const { step } = stepping(style.width);
+  const maxGap = options.maxGapPx ?? Math.min(250, Math.max(30, 30 * style.width));
+  const lost: LostStretch[] = [];
+
+  const snapped = px.map((g, i) => (i === first - 1 ? { centre: acquired.centre, axis: acquired.axis } : snap(image, style, g, search)));
+  snapped.forEach((s, i) => {
+    if (!s) lost.push({ at: guides[i] as SheetPoint, between: [i + 1, i + 1], reason: `guide ${i + 1} has no line of the traced colour within ${search.toFixed(0)} px` });
+  });
+
+  const path: Px[] = [];
+  if (px.length === 1) {
+    const s = snapped[0] as { centre: Px; axis: Px };
+    const limits: FollowLimits = { maxGap, maxTravel: 4 * (image.width + image.height) };
+    const ahead = followLine(image, style, s.centre, s.axis, undefined, limits, counter);
+    const behind = followLine(image, style, s.centre, [-s.axis[0], -s.axis[1]], undefined, limits, counter);
+    path.push(...pairs(behind.points).reverse(), ...pairs(ahead.points).slice(1));
+  } else {
+    let heading: Px | undefined;
+    for (let i = 0; i + 1 < px.length; i++) {
+      const a = snapped[i];
+      const b = snapped[i + 1];
+      const from: Px = path.length > 0 ? (path[path.length - 1] as Px) : (a?.centre ?? (px[i] as Px));
+      const to: Px = b?.centre ?? (px[i + 1] as Px);
+      if (path.length === 0) path.push(from);
+      const chord = Math.hypot(to[0] - from[0], to[1] - from[1]);
+      const limits: FollowLimits = { maxGap, maxTravel: 4 * chord + 50 * style.width + 100 };
+      const axis = a?.axis ?? heading ?? [to[0] - from[0], to[1] - from[1]];
+      const h = heading ?? headingTowards(image, style, from, axis, to, counter);
+      const fwd = followLine(image, style, from, h, to, limits, counter);
+      path.push(...pairs(fwd.points).slice(1));
+      if (fwd.reached) {
+        if (b) path.push(to);
+        heading = [fwd.dx, fwd.dy];
+        continue;
+      }
+      const lostAt = path[path.length - 1] as Px;
+      if (!b) {
+        lost.push({ at: toSheetPt(lostAt), between: [i + 1, i + 2], reason: fwd.reason ?? 'the line was lost' });
+        heading = undefined;
+        path.push(to);
+        continue;
+      }
+      // Seen from the far guide, backwards, until it meets the forward part.
+      const backHeading = headingTowards(image, style, to, b.axis, lostAt, counter);
+      const bwd = followLine(image, style, to, backHeading, lostAt, limits, counter);
+      const back = pairs(bwd.points).reverse();
+      if (!bwd.reached) {
+        lost.push({ at: toSheetPt(lostAt), resumedAt: toSheetPt(back[0] as Px), between: [i + 1, i + 2], reason: fwd.reason ?? 'the line was lost' });
+      }
+      path.push(...back);
+      heading = [-backHeading[0], -backHeading[1]];
+    }
+  }
+
+  const thinned = simplify(
+    path.map(([x, y]) => ({ x, y })),
+    options.simplifyPx ?? 0.3,
+    true,
+  );
+  void step;
+  return {
+    points: thinned.map((p) => sheetPoint(p.x / image.scale, p.y / image.scale)),
+    lost,
+    line: { colour: style.model.line, paper: style.model.paper, widthPx: style.width },
+    pixelsRead: counter.reads,
+  };
+}
+
+/** A trace as the take-off file gives it: explicit points (used as is) or guides to follow. */
+export type RasterTraceInput = { points: readonly SheetPoint[] } | { guides: readonly SheetPoint[] };
+
+/** Captures one trace on a raster sheet: explicit points are returned unchanged; guides are followed. */
+export function captureRasterTrace(image: RasterImage, trace: RasterTraceInput, options: RasterTraceOptions = {}): RasterTraceResult {
+  if ('points' in trace) {
+    return { points: [...trace.points], lost: [], line: { colour: [0, 0, 0], paper: [255, 255, 255], widthPx: 0 }, pixelsRead: 0 };
+  }
+  return traceRaster(image, trace.guides, options);
+}
