@@ -39,6 +39,6 @@ export function writeTextAtomic(path: string, text: string): void {
 export function positiveOption(value: string | undefined, flag: string): number | undefined {
   if (value === undefined) return undefined;
   const v = Number(value);
-  if (!Number.isFinite(v) || v <= 0) throw new InputError(`${flag} must be a positive number, not "${value}".`);
+  if (!Number.isFinite(v) || v <= 0) throw new InputError(`The option ${flag} must be a positive number, not "${value}".`);
   return v;
 }

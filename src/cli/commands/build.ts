@@ -81,6 +81,14 @@ function build(file: string, o: BuildOptions): number {
     list.push([toSI(row.flow, flowUnit), toSI(row.value, units[row.quantity])] as CurvePoint);
   }
 
+  // From a points table, a curve too short to fit is unusable input, not a finding.
+  for (const [label, member] of byDiameter) {
+    for (const [quantity, points] of Object.entries(member.points)) {
+      const flows = new Set(points.map((p) => p[0])).size;
+      if (flows < 3) throw new InputError(`The ${label} ${diameterUnit.label} ${quantity} curve has ${flows} distinct flow${flows === 1 ? '' : 's'}; at least 3 are needed for a fit. Add points to it in "${file}".`);
+    }
+  }
+
   const set = buildCurveSet({
     pump: { name: o.name ?? 'Unnamed pump', ...(o.maker ? { maker: o.maker } : {}), ...(o.model ? { model: o.model } : {}) },
     speed_rpm: speed,
