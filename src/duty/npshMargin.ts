@@ -11,9 +11,9 @@
  *   hydrocarbon, within the AOR:              1.1 or 1.0 m, whichever is more;
  *   building services, Nss < 7500 US:         above 1.0 throughout the AOR;
  *                      Nss ≥ 7500 US:         1.1 or 0.6 m, whichever is more.
- * When Nss is unknown the stricter (Nss ≥ 7500) line is used.
+ * When Nss is unknown the stricter (Nss ≥ 7500) line is used. Nss itself comes from the curve
+ * set's family figures (src/fit/specificSpeed.ts).
  */
-import { US_GALLON, FOOT } from '../units/constants.ts';
 import { DutyError } from './errors.ts';
 
 export const NPSH_APPLICATIONS = ['general', 'hydrocarbon', 'building-services'] as const;
@@ -91,19 +91,6 @@ export function judgeNpshMargin(npsha_m: number, npsh3_m: number, rule: NpshMarg
         ? `NPSHa ${f(npsha_m)} m exceeds NPSH3 ${f(npsh3_m)} m by ${f(margin)} m (ratio ${ratio.toFixed(2)}), less than the ${f(required)} m the guidance asks for.`
         : `NPSHa ${f(npsha_m)} m exceeds NPSH3 ${f(npsh3_m)} m by ${f(margin)} m (ratio ${ratio.toFixed(2)}), meeting the ${f(required)} m the guidance asks for.`;
   return { npsha_m, npsh3_m, ratio, margin_m: margin, required_npsha_m: required, verdict, rule, message };
-}
-
-/**
- * Suction specific speed in US units: S = n·√Q / NPSH3^0.75 with n [rpm], Q [US gpm] per impeller
- * eye (half the flow for a double-suction impeller) and NPSH3 [ft], all at the BEP of the full
- * diameter. Source: Hydraulic Institute (ANSI/HI 9.6.1); values above about 11 000 warn of suction
- * recirculation (published, with caveats).
- * @param speed_rpm  n [rpm]; @param bep_flow_m3s Q at BEP [m³/s]; @param npsh3_m NPSH3 at BEP [m]
- */
-export function suctionSpecificSpeedUS(speed_rpm: number, bep_flow_m3s: number, npsh3_m: number, doubleSuction = false): number {
-  if (!(speed_rpm > 0) || !(bep_flow_m3s > 0) || !(npsh3_m > 0)) throw new DutyError('Suction specific speed needs a positive speed, BEP flow and NPSH3.');
-  const gpm = (bep_flow_m3s * 60) / US_GALLON / (doubleSuction ? 2 : 1);
-  return (speed_rpm * Math.sqrt(gpm)) / (npsh3_m / FOOT) ** 0.75;
 }
 
 function f(v: number): string {

@@ -27,7 +27,7 @@ export type SpeedResult =
       /** True when the ratio lies outside ±20 % of the curve's speed. */
       outside_affinity_band: boolean;
     }
-  | { status: 'not-reachable'; message: string };
+  | { status: 'not-reachable'; reason: 'too-much-head' | 'too-little-head' | 'off-curve'; message: string };
 
 /**
  * @param curve      pump curve at its rated speed
@@ -42,15 +42,15 @@ export function speedToDuty(curve: PumpCurve, system: SystemCurve, flow_m3s: num
   const lo = Math.max(rLo, flow_m3s / curve.domain[1]);
   const hi = curve.domain[0] > 0 ? Math.min(rHi, flow_m3s / curve.domain[0]) : rHi;
   if (!(lo < hi)) {
-    return { status: 'not-reachable', message: `${curve.label}: no speed between ${rLo * 100} % and ${rHi * 100} % of rated puts the duty flow on the curve.` };
+    return { status: 'not-reachable', reason: 'off-curve', message: `${curve.label}: no speed between ${rLo * 100} % and ${rHi * 100} % of rated puts the duty flow on the curve.` };
   }
   const gLo = gap(lo);
   const gHi = gap(hi);
   if (gLo > 0) {
-    return { status: 'not-reachable', message: `${curve.label}: even at ${Math.round(lo * 100)} % speed the pump gives more head than the system needs at the duty flow.` };
+    return { status: 'not-reachable', reason: 'too-much-head', message: `${curve.label}: even at ${Math.round(lo * 100)} % speed the pump gives more head than the system needs at the duty flow.` };
   }
   if (gHi < 0) {
-    return { status: 'not-reachable', message: `${curve.label}: even at ${Math.round(hi * 100)} % speed the pump cannot reach the system head at the duty flow.` };
+    return { status: 'not-reachable', reason: 'too-little-head', message: `${curve.label}: even at ${Math.round(hi * 100)} % speed the pump cannot reach the system head at the duty flow.` };
   }
   const r = gLo === 0 ? lo : bisect(gap, lo, hi, gLo);
   const speed = curve.speed_rpm * r;

@@ -1,6 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { judgeNpshMargin, npshMarginRule, suctionSpecificSpeedUS } from '../../src/duty/npshMargin.ts';
-import { FOOT, US_GALLON } from '../../src/units/constants.ts';
+import { judgeNpshMargin, npshMarginRule } from '../../src/duty/npshMargin.ts';
 
 describe('npshMarginRule (ANSI/HI 9.6.1 summary, REFERENCES.md)', () => {
   it('general water below Nss 7500: ratio 1.1 or 0.6 m; above: 1.2 or 1.0 m', () => {
@@ -42,24 +41,5 @@ describe('judgeNpshMargin', () => {
   });
   it('building services below Nss 7500 accepts any NPSHa above NPSH3', () => {
     expect(judgeNpshMargin(3.01, 3, npshMarginRule('building-services', 5000)).verdict).toBe('meets-guidance');
-  });
-});
-
-describe('suctionSpecificSpeedUS', () => {
-  it('S = n √Q[gpm] / NPSH3[ft]^0.75: 1780 rpm, 1000 gpm, 16 ft gives 1780·31.623/8 = 7036 within 0.01 %', () => {
-    // By the definition (Hydraulic Institute); 16^0.75 = 8 exactly.
-    const s = suctionSpecificSpeedUS(1780, (1000 * US_GALLON) / 60, 16 * FOOT);
-    expect(Math.abs(s / ((1780 * Math.sqrt(1000)) / 8) - 1)).toBeLessThan(1e-4);
-  });
-  it('halves the flow for a double-suction impeller', () => {
-    const single = suctionSpecificSpeedUS(1780, 0.1, 5);
-    expect(suctionSpecificSpeedUS(1780, 0.1, 5, true) / single).toBeCloseTo(Math.SQRT1_2, 12);
-  });
-  it('reproduces Ns(US) = 51.65·nq when applied to the SI definition (REFERENCES.md, from the unit definitions)', () => {
-    const n = 2900;
-    const q = 0.03;
-    const h = 4;
-    const nqSi = (n * Math.sqrt(q)) / h ** 0.75;
-    expect(Math.abs(suctionSpecificSpeedUS(n, q, h) / nqSi - 51.65)).toBeLessThan(0.01);
   });
 });
