@@ -100,9 +100,10 @@ function efficiencyShape(m: Member, show: Display): Finding[] {
   if (low.length >= 2 && bepQ && (low[0] as [number, number])[0] < 0.35 * bepQ) {
     const [q0, e0] = low[0] as [number, number];
     const peakEff = m.derived.bep?.efficiency ?? peak;
-    // Efficiency rises at most about linearly from the origin; far above the chord from 0 to BEP means an offset.
+    // Efficiency rises steeply from the origin, but not much faster than 2.5× the chord from 0 to BEP
+    // (a steep real curve reaches about 2×); further above it means an offset on the efficiency axis.
     const chord = (peakEff * q0) / bepQ;
-    if (e0 > chord * 1.6 + 0.1) {
+    if (e0 > chord * 2.5 + 0.1) {
       out.push(
         makeFinding({
           code: 'efficiency.not-zero-at-shutoff',
