@@ -73,8 +73,13 @@ export function stationaryPoints(fit: Pick<PolynomialFit, 'coefficients' | 'flow
     let hi = qs[i + 1] as number;
     let dlo = derivative(fit, lo);
     const dhi = derivative(fit, hi);
-    if (dlo === 0 && i > 0) continue;
-    if (dlo * dhi > 0 || (dlo === 0 && dhi === 0)) continue;
+    if (dlo === 0) {
+      // Stationary exactly on a sample: an extremum only if the slope changes sign across it.
+      // At the start of the range it is an end point, not an interior one.
+      if (i > 0 && derivative(fit, qs[i - 1] as number) * dhi < 0) out.push(lo);
+      continue;
+    }
+    if (dlo * dhi > 0) continue;
     if (dhi === 0) continue; // picked up as dlo === 0 of the next interval, or at the end
     for (let k = 0; k < 60; k++) {
       const mid = 0.5 * (lo + hi);
