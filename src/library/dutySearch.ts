@@ -2,9 +2,10 @@
  * Searching the library by duty point: which pumps can deliver flow Q at head H, at which
  * impeller diameter or trim, and how well.
  *
- * Two stages. SQL first keeps only the entries whose head-curve envelope (summary columns)
- * contains the duty, with a margin; then each survivor's curve set (parsed once per revision and
- * cached) goes through the duty engine's matcher, which finds the diameter that meets the duty.
+ * Three stages. SQL first keeps only the entries whose head-curve envelope (summary columns)
+ * contains the duty, with a margin; a quick check on the largest and smallest captured head curves
+ * drops those whose diameters cannot reach the duty; then each survivor's curve set (parsed once per
+ * revision and cached) goes through the duty engine's matcher, which finds the diameter that meets it.
  * Ranking is by efficiency at the duty, or by annual energy cost when hours and a tariff are given.
  *
  * Results are preliminary: they are to be verified against certified manufacturer data by a
@@ -13,6 +14,7 @@
 import type { CurveSet } from '../model/curveset.ts';
 import { LibraryError } from './errors.ts';
 import type { LibraryStore } from './store.ts';
+import { mayMeetDuty } from './summary.ts';
 
 export type PorPlace = 'below' | 'within' | 'above' | 'unknown';
 
@@ -23,12 +25,16 @@ export interface Duty {
   static_head_m?: number;
 }
 
-/** What the duty engine reports for one curve set that can meet the duty. */
-export interface DutyMatch {
-  /** Diameter (one of the set's, or a trim between them) whose curve meets the duty, m. */
-  diameter_m: number;
+/** What the library needs to know about one curve set that can meet the duty. */
+export interface DutyAnswer {
+  /** 'trim': a diameter (captured, or a trim between captured ones); 'speed': a variable-speed family. */
+  method: 'trim' | 'speed';
+  /** Diameter whose curve meets the duty, m (null for a speed family without diameters). */
+  diameter_m: number | null;
   /** True when the diameter is a trim between captured diameters rather than one of them. */
   trimmed: boolean;
+  /** Speed at the duty, rpm. */
+  speed_rpm: number;
   /** Fraction 0…1. */
   efficiency?: number;
   power_W?: number;
@@ -36,12 +42,13 @@ export interface DutyMatch {
   por_position: PorPlace;
   /** Q / Q_BEP of the diameter that meets the duty. */
   flow_to_bep?: number;
-  /** Plain-language cautions (extrapolation, trim depth). */
+  /** One sentence from the duty engine, and plain-language cautions (extrapolated readings). */
+  message: string;
   warnings: string[];
 }
 
-/** Finds how one curve set meets a duty, or null when it cannot. Pure. */
-export type DutyMatcher = (set: CurveSet, duty: Duty) => DutyMatch | null;
+/** Finds how one curve set meets a duty, or null when it does not qualify. */
+export type DutyMatcher = (set: CurveSet, duty: Duty) => DutyAnswer | null;
 
 export interface DutySearchOptions {
   /** Operating hours per year; with `tariffPerKWh`, ranks by annual energy cost. */
@@ -52,13 +59,14 @@ export interface DutySearchOptions {
   limit?: number;
 }
 
-export interface DutyCandidate extends DutyMatch {
+export interface DutyCandidate extends DutyAnswer {
   id: string;
   revision: number;
   name: string;
   maker: string | null;
   model: string | null;
-  speed_rpm: number;
+  /** Rated speed of the curve set, rpm. */
+  rated_speed_rpm: number;
   /** Shaft energy per year, kWh (power × hours); motor and drive losses not included. */
   annual_energy_kWh?: number;
   /** annual_energy_kWh × tariff. */
@@ -103,16 +111,18 @@ export function searchByDuty(store: LibraryStore, duty: Duty, matcher: DutyMatch
   const h = duty.head_m;
   const rows = store.db
     .prepare(
-      `SELECT id, latest_revision AS revision, name, maker, model, speed_rpm FROM entries
+      `SELECT id, latest_revision AS revision, name, maker, model, speed_rpm AS rated_speed_rpm FROM entries
        WHERE archived_at IS NULL AND flow_min_m3s <= ? AND flow_max_m3s >= ? AND head_min_m <= ? AND head_max_m >= ?`,
     )
     .all(q * (1 + ENVELOPE_MARGIN), q * (1 - ENVELOPE_MARGIN), h * (1 + ENVELOPE_MARGIN), h * (1 - ENVELOPE_MARGIN)) as Array<{
-    id: string; revision: number; name: string; maker: string | null; model: string | null; speed_rpm: number;
+    id: string; revision: number; name: string; maker: string | null; model: string | null; rated_speed_rpm: number;
   }>;
 
   const candidates: DutyCandidate[] = [];
   for (const row of rows) {
-    const match = matcher(store.curveSet(row.id, row.revision), duty);
+    const set = store.curveSet(row.id, row.revision);
+    if (!mayMeetDuty(set, q, h)) continue;
+    const match = matcher(set, duty);
     if (!match) continue;
     const c: DutyCandidate = { ...row, ...match };
     if (hours !== undefined && match.power_W !== undefined) {

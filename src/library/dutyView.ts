@@ -1,0 +1,95 @@
+/**
+ * A duty search in a unit system's display units (si: m³/h, m, mm, kW; us: gpm, ft, in, hp),
+ * as the API returns it and the CLI and the library page show it. The only place where the
+ * search's SI figures meet display units.
+ */
+import { presetNamed, resolveUnits, siOf, fromSI, type PresetName } from '../units/index.ts';
+import { LibraryError } from './errors.ts';
+import type { Duty, DutySearchResult, PorPlace } from './dutySearch.ts';
+
+export const PRELIMINARY_NOTICE =
+  'Preliminary selection from digitised curves: verify the duty, NPSH margin and motor size against certified manufacturer data and local codes with a licensed professional before relying on it.';
+
+export interface DutyCandidateView {
+  id: string;
+  revision: number;
+  name: string;
+  maker: string | null;
+  model: string | null;
+  /** 'trim' (a diameter or trim) or 'speed' (a variable-speed family). */
+  method: 'trim' | 'speed';
+  /** Speed at the duty, rpm. */
+  speed_rpm: number;
+  /** The diameter (or trim) that meets the duty, in the system's diameter unit; null for a speed family without diameters. */
+  diameter: number | null;
+  trimmed: boolean;
+  /** Percent. */
+  efficiency: number | null;
+  power: number | null;
+  npshr: number | null;
+  por: { position: PorPlace; flow_to_bep_percent: number | null };
+  annual_energy_kWh: number | null;
+  annual_cost: number | null;
+  message: string;
+  warnings: string[];
+}
+
+export interface DutySearchView {
+  units: { flow: string; head: string; diameter: string; power: string; npshr: string; efficiency: '%' };
+  duty: { flow: number; head: number; static_head: number | null };
+  ranking: DutySearchResult['ranking'];
+  examined: number;
+  matched: number;
+  candidates: DutyCandidateView[];
+  notice: string;
+}
+
+export function unitSystemNamed(name: string | undefined): PresetName {
+  if (name === 'si' || name === 'us') return name;
+  throw new LibraryError('Say which units the duty is in: units=si (flow m³/h, head m) or units=us (flow gpm, head ft).', 'invalid');
+}
+
+/** A duty given in display units → SI. */
+export function dutyFromDisplay(system: PresetName, flow: number, head: number, staticHead?: number): Duty {
+  const u = presetNamed(system);
+  const duty: Duty = { flow_m3s: siOf('flow', flow, u.flow), head_m: siOf('head', head, u.head) };
+  if (staticHead !== undefined) duty.static_head_m = siOf('head', staticHead, u.head);
+  return duty;
+}
+
+export function dutySearchView(result: DutySearchResult, system: PresetName): DutySearchView {
+  const tokens = presetNamed(system);
+  const u = resolveUnits(tokens);
+  const opt = (v: number | undefined, f: (x: number) => number) => (v === undefined ? null : f(v));
+  return {
+    units: { flow: u.flow.label, head: u.head.label, diameter: u.diameter.label, power: u.power.label, npshr: u.npsh.label, efficiency: '%' },
+    duty: {
+      flow: fromSI(result.duty.flow_m3s, u.flow),
+      head: fromSI(result.duty.head_m, u.head),
+      static_head: opt(result.duty.static_head_m, (v) => fromSI(v, u.head)),
+    },
+    ranking: result.ranking,
+    examined: result.examined,
+    matched: result.matched,
+    candidates: result.candidates.map((c) => ({
+      id: c.id,
+      revision: c.revision,
+      name: c.name,
+      maker: c.maker,
+      model: c.model,
+      method: c.method,
+      speed_rpm: c.speed_rpm,
+      diameter: c.diameter_m === null ? null : fromSI(c.diameter_m, u.diameter),
+      trimmed: c.trimmed,
+      efficiency: opt(c.efficiency, (v) => v * 100),
+      power: opt(c.power_W, (v) => fromSI(v, u.power)),
+      npshr: opt(c.npshr_m, (v) => fromSI(v, u.npsh)),
+      por: { position: c.por_position, flow_to_bep_percent: opt(c.flow_to_bep, (v) => v * 100) },
+      annual_energy_kWh: c.annual_energy_kWh ?? null,
+      annual_cost: c.annual_cost ?? null,
+      message: c.message,
+      warnings: c.warnings,
+    })),
+    notice: PRELIMINARY_NOTICE,
+  };
+}
