@@ -65,6 +65,23 @@ describe('choosing the degree of a pump curve', () => {
     expect(worstDeviation(choice.fit, cubicHead)).toBeLessThan(0.2);
   });
 
+  it('passes over a degree within the accuracy when the next one removes a misfit larger than the accuracy', () => {
+    // Invented cubic head curve with 0.05 m noise: the best quadratic has RMS 0.45 m, inside a
+    // claimed 0.55 m accuracy, yet it misses the curve's ends by more than 0.55 m.
+    const cubicHead = (t: number) => 50 - 2 * t - 6 * t * t - 20 * t ** 3;
+    const choice = chooseDegree(invented(cubicHead, 9, { absolute: 0.05 }), 'head', { tolerance: 0.55 });
+    const quadratic = choice.candidates.find((c) => c.degree === 2);
+    expect(quadratic?.withinTolerance).toBe(true);
+    expect(quadratic?.problems).toEqual([]);
+    expect(choice.fit.degree).toBe(3);
+    expect(choice.fit.reason).toMatch(
+      /^degree 3: RMS 0\.050 m within the 0\.55 m reading accuracy; degree 2 \(RMS 0\.45 m\) left a systematic misfit: degree 3 improved it significantly and moved the curve by up to 0\.\d+ m\.$/,
+    );
+    // The cubic stays within 0.1 m of the invented curve; the quadratic would not.
+    expect(worstDeviation(choice.fit, cubicHead)).toBeLessThan(0.1);
+    expect(worstDeviation({ ...choice.fit, ...quadratic?.fit }, cubicHead)).toBeGreaterThan(0.55);
+  });
+
   it('fits efficiency through the origin with a single maximum near the invented BEP and never below zero', () => {
     // Invented efficiency shape (not a polynomial): peak 0.78 at 75 % of the largest flow.
     const efficiency = (t: number) => 0.78 * Math.sin(((Math.PI / 2) * t) / 0.75) ** 1.3;
