@@ -23,13 +23,20 @@ export interface IsoCrossing<K> {
 }
 
 export const DEFAULT_TOUCH_TOLERANCE = 2;
+/** Crossings closer than this (sheet units) are one crossing. */
+const MERGE_DISTANCE = 0.05;
 
 export function isoCrossings<K>(iso: readonly SheetPoint[], targets: readonly CrossingTarget<K>[], touchTolerance = DEFAULT_TOUCH_TOLERANCE): IsoCrossing<K>[] {
   const out: IsoCrossing<K>[] = [];
   if (iso.length < 2) return out;
   for (const target of targets) {
     if (target.points.length < 2) continue;
-    const found = intersections(iso, target.points).map((c) => ({ key: target.key, at: c.point, touching: false }));
+    const found: IsoCrossing<K>[] = [];
+    for (const c of intersections(iso, target.points)) {
+      // A crossing through a vertex of either line can be reported by both of its segments.
+      if (found.some((f) => Math.hypot(f.at[0] - c.point[0], f.at[1] - c.point[1]) < MERGE_DISTANCE)) continue;
+      found.push({ key: target.key, at: c.point, touching: false });
+    }
     for (const end of [iso[0] as SheetPoint, iso[iso.length - 1] as SheetPoint]) {
       const near = nearestOnPolyline(target.points, end);
       if (near.distance > touchTolerance) continue;

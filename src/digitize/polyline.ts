@@ -143,3 +143,26 @@ export function segmentIntersection(p0: XY, p1: XY, q0: XY, q1: XY): [number, nu
   if (t < -eps || t > 1 + eps || u < -eps || u > 1 + eps) return null;
   return [Math.max(0, Math.min(1, t)), Math.max(0, Math.min(1, u))];
 }
+
+/**
+ * `count` points spaced evenly by arc length along the polyline, ends included. The points lie
+ * on the polyline itself, so a resampled vector capture keeps the drawn geometry exactly.
+ */
+export function resampleEvenly(points: readonly SheetPoint[], count: number): SheetPoint[] {
+  if (points.length < 2 || count < 2) return [...points];
+  const cumulative = arcLengths(points);
+  const total = cumulative[cumulative.length - 1] as number;
+  if (total === 0) return [points[0] as SheetPoint];
+  const out: SheetPoint[] = [];
+  let seg = 0;
+  for (let k = 0; k < count; k++) {
+    const s = (total * k) / (count - 1);
+    while (seg < points.length - 2 && (cumulative[seg + 1] as number) < s) seg++;
+    const a = points[seg] as SheetPoint;
+    const b = points[seg + 1] as SheetPoint;
+    const len = (cumulative[seg + 1] as number) - (cumulative[seg] as number);
+    const t = len > 0 ? Math.max(0, Math.min(1, (s - (cumulative[seg] as number)) / len)) : 0;
+    out.push(sheetPoint(a[0] + t * (b[0] - a[0]), a[1] + t * (b[1] - a[1])));
+  }
+  return out;
+}

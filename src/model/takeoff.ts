@@ -84,7 +84,7 @@ export type Trace = z.infer<typeof Trace>;
 export const TakeoffUnits = z.strictObject({
   flow: z.string(),
   head: z.string(),
-  power: z.string().default('kW'),
+  power: z.string().optional().describe('needed when power is traced; the curve set shows hp for gpm sheets, kW otherwise'),
   npsh: z.string().optional().describe('defaults to the head unit'),
   diameter: z.string(),
 });

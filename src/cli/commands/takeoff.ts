@@ -1,0 +1,83 @@
+/**
+ * `pumpscribe takeoff <file.takeoff.json> -o <out.curveset.json>`: load the sheet, calibrate
+ * the panels, capture every trace, fit, check and write the curve set.
+ * `--save-points` writes the captured points back into the take-off file (field `captured` of
+ * each trace, sheet coordinates) with the sheet's SHA-256, so the capture can be audited and replayed.
+ */
+import type { Command } from 'commander';
+import { basename, dirname, isAbsolute, resolve } from 'node:path';
+import { ZodError } from 'zod';
+import { replayTakeoff, type TraceOutcome } from '../../digitize/takeoff.ts';
+import { loadSheetFileNode } from '../../digitize/loaders/sheetNode.ts';
+import { parseTakeoff, TakeoffError, TAKEOFF_FORMAT, TAKEOFF_VERSION } from '../../model/takeoff.ts';
+import { stringifyCurveSet } from '../../model/curvesetIO.ts';
+import { describeZodError, EXIT_FAILED_CHECKS, EXIT_OK, InputError, runCommand } from '../errors.ts';
+import { readText, writeTextAtomic } from '../io.ts';
+import { formatReport } from '../report.ts';
+
+interface TakeoffOptions {
+  output: string;
+  savePoints?: boolean;
+  useCaptured?: boolean;
+  quiet?: boolean;
+}
+
+export function register(program: Command): void {
+  program
+    .command('takeoff')
+    .description('replay a take-off file: load the sheet, calibrate, capture every trace, fit, check and write the curve set')
+    .argument('<file.takeoff.json>', 'take-off file')
+    .requiredOption('-o, --output <file>', 'curve set to write (*.curveset.json)')
+    .option('--save-points', 'write the captured points back into the take-off file (field "captured" of each trace)')
+    .option('--use-captured', 'use the points saved in the take-off file instead of capturing again')
+    .option('-q, --quiet', 'print nothing but errors')
+    .action((file: string, options: TakeoffOptions) => runCommand(() => takeoff(file, options)));
+}
+
+async function takeoff(file: string, o: TakeoffOptions): Promise<number> {
+  const text = readText(file, 'take-off file');
+  let raw: unknown;
+  try {
+    raw = JSON.parse(text);
+  } catch (error) {
+    throw new TakeoffError(`The take-off file "${file}" is not valid JSON (${(error as Error).message.replace(/\.$/, '')}); fix it in a text editor.`);
+  }
+  let parsed;
+  try {
+    parsed = parseTakeoff(raw);
+  } catch (error) {
+    if (error instanceof ZodError) throw new InputError(describeZodError(error, `The take-off file "${file}"`));
+    throw error;
+  }
+  const sheetPath = isAbsolute(parsed.sheet) ? parsed.sheet : resolve(dirname(file), parsed.sheet);
+  const sheet = await loadSheetFileNode(sheetPath, { page: parsed.page });
+  try {
+    const result = await replayTakeoff(parsed, sheet, { takeoffName: basename(file), sheetFile: basename(sheetPath), useCaptured: o.useCaptured ?? false });
+    writeTextAtomic(o.output, stringifyCurveSet(result.curveSet));
+    if (o.savePoints) writeTextAtomic(file, withCapturedPoints(raw as Record<string, unknown>, result.traces, sheet.sha256));
+    if (!o.quiet) {
+      const summary = result.traces.map((t) => `${t.id}: ${t.points.length} points (${t.how})`).join(', ');
+      process.stdout.write(`${formatReport(result.curveSet)}Traces — ${summary}\nWrote ${o.output}${o.savePoints ? ` and the captured points into ${file}` : ''}\n`);
+    }
+    return result.curveSet.findings.some((f) => f.severity === 'fail') ? EXIT_FAILED_CHECKS : EXIT_OK;
+  } finally {
+    await sheet.close();
+  }
+}
+
+/** The take-off document as the user wrote it, with each trace's captured points and the sheet's hash added. */
+export function withCapturedPoints(raw: Record<string, unknown>, traces: readonly TraceOutcome[], sha256: string): string {
+  const doc: Record<string, unknown> = { format: TAKEOFF_FORMAT, version: TAKEOFF_VERSION, ...raw, sheet_sha256: sha256 };
+  const list = Array.isArray(raw.traces) ? (raw.traces as Record<string, unknown>[]) : [];
+  doc.traces = list.map((trace, i) => {
+    const outcome = traces.find((t) => t.index === i);
+    if (!outcome) return trace;
+    // 1e-4 sheet units (about 35 nm on paper) keeps the file readable and loses nothing that matters.
+    return { ...trace, captured: outcome.points.map((p) => [round4(p[0]), round4(p[1])]) };
+  });
+  return `${JSON.stringify(doc, null, 2)}\n`;
+}
+
+function round4(v: number): number {
+  return Math.round(v * 1e4) / 1e4;
+}

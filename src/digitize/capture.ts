@@ -1,0 +1,77 @@
+/**
+ * Capturing one trace, whatever the sheet: explicit points are used as they are; guides are
+ * followed on the vector paths of a vector page, or on a raster (a scan, an image, or a vector
+ * page whose line is not drawn as a path). Pure: the sheet's content reaches it through the
+ * lazy getters of `CaptureSource`, so the workbench and the headless replay share it.
+ */
+import { captureVector, CaptureError, type VectorCaptureOptions } from './vectorCapture.ts';
+import { arcLengths, resampleEvenly } from './polyline.ts';
+import { traceRaster, type LostStretch, type RasterTraceOptions } from './rasterTrace.ts';
+import type { SheetPoint } from './points.ts';
+import type { RasterImage } from './raster.ts';
+import type { SheetKind } from './sheet.ts';
+import type { StrokeLine } from './strokeJoin.ts';
+
+export type CaptureMethod = 'auto' | 'vector' | 'raster';
+
+export interface CaptureRequest {
+  guides?: readonly SheetPoint[] | undefined;
+  points?: readonly SheetPoint[] | undefined;
+  method?: CaptureMethod | undefined;
+}
+
+export interface CaptureSource {
+  kind: SheetKind;
+  /** Joined stroke lines of the page (vector pages only). */
+  lines(): Promise<readonly StrokeLine[]>;
+  /** A raster of the sheet for line following. */
+  raster(): Promise<RasterImage>;
+}
+
+export interface CaptureResult {
+  points: SheetPoint[];
+  how: 'points' | 'vector' | 'raster';
+  /** Plain sentences worth showing beside the trace. */
+  notes: string[];
+  /** Stretches a raster capture could not see. */
+  lost: LostStretch[];
+}
+
+export interface CaptureOptions {
+  vector?: VectorCaptureOptions;
+  raster?: RasterTraceOptions;
+  /** Sheet units between resampled points of a vector capture (default 2). */
+  spacing?: number;
+}
+
+export async function captureTrace(request: CaptureRequest, source: CaptureSource, options: CaptureOptions = {}): Promise<CaptureResult> {
+  if (request.points && request.points.length > 0) return { points: [...request.points], how: 'points', notes: [], lost: [] };
+  const guides = request.guides ?? [];
+  if (guides.length === 0) throw new CaptureError('A trace needs guides on its line or explicit points.');
+  const method = request.method ?? 'auto';
+  const vectorPage = source.kind === 'vector-pdf';
+  if (method === 'vector' && !vectorPage) {
+    throw new CaptureError(`The sheet is ${source.kind === 'image' ? 'an image' : 'a scanned PDF page'} without drawn paths; capture this trace from the picture (method "raster" or "auto").`);
+  }
+  const notes: string[] = [];
+  if (vectorPage && method !== 'raster') {
+    try {
+      const got = captureVector(await source.lines(), guides, options.vector);
+      return { points: evenly(got.points, options.spacing ?? 2), how: 'vector', notes, lost: [] };
+    } catch (error) {
+      if (!(error instanceof CaptureError) || method === 'vector') throw error;
+      notes.push(`No drawn path fitted the guides (${error.message.replace(/;.*$/, '')}); the line was followed on a rendering instead.`);
+    }
+  }
+  const traced = traceRaster(await source.raster(), guides, options.raster);
+  for (const l of traced.lost) notes.push(`The line was lost near (${l.at[0].toFixed(1)}, ${l.at[1].toFixed(1)}) between guides ${l.between[0]} and ${l.between[1]}: ${l.reason}.`);
+  return { points: traced.points, how: 'raster', notes, lost: traced.lost };
+}
+
+/** Resamples a vector capture evenly (a point every `spacing` sheet units, at least 30), so fits weigh the curve evenly. */
+function evenly(points: SheetPoint[], spacing: number): SheetPoint[] {
+  if (points.length < 2) return points;
+  const length = arcLengths(points).at(-1) as number;
+  const count = Math.max(30, Math.min(400, Math.round(length / spacing) + 1));
+  return resampleEvenly(points, count);
+}

@@ -1,0 +1,86 @@
+import { describe, expect, it, beforeAll } from 'vitest';
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { createHash } from 'node:crypto';
+import { replayTakeoff } from '../../src/digitize/takeoff.ts';
+import { loadSheetFileNode } from '../../src/digitize/loaders/sheetNode.ts';
+import { parseTakeoff } from '../../src/model/takeoff.ts';
+import { evaluateUnchecked } from '../../src/fit/polynomial.ts';
+import { fromSI, parseUnit } from '../../src/units/index.ts';
+import type { CurveSet, Quantity } from '../../src/model/curveset.ts';
+import { DIAMETERS, efficiency, head, makePumpSheetPdf, power, pumpTakeoff } from './fixtures/pumpSheet.ts';
+
+const gpm = parseUnit('flow', 'gpm');
+const ft = parseUnit('head', 'ft');
+const hp = parseUnit('power', 'hp');
+const inch = parseUnit('diameter', 'in');
+
+/** Largest error of a fitted curve against the truth over 15–95 % of the curve's captured flow range, in display units. */
+function worstError(set: CurveSet, d: number, quantity: Quantity, truth: (d: number, q: number) => number, show: (si: number) => number): number {
+  const member = set.members.find((m) => Math.abs(fromSI(m.diameter_m!, inch) - d) < 1e-9)!;
+  const curve = member.curves[quantity]!;
+  const fit = curve.fit!;
+  const [lo, hi] = fit.domain;
+  let worst = 0;
+  for (let i = 0; i <= 100; i++) {
+    const q = lo + (hi - lo) * (0.15 + 0.8 * (i / 100));
+    const got = show(evaluateUnchecked(fit, q));
+    worst = Math.max(worst, Math.abs(got - truth(d, fromSI(q, gpm))));
+  }
+  return worst;
+}
+
+describe('replaying a take-off of a vector sheet headless', () => {
+  let dir: string;
+  let pdf: Uint8Array;
+  beforeAll(async () => {
+    dir = mkdtempSync(join(tmpdir(), 'pumpscribe-takeoff-'));
+    pdf = await makePumpSheetPdf();
+    writeFileSync(join(dir, 'sheet.pdf'), pdf);
+  });
+
+  async function replay(kind: 'iso' | 'drawn') {
+    const takeoff = parseTakeoff(pumpTakeoff(kind));
+    const sheet = await loadSheetFileNode(join(dir, 'sheet.pdf'), { page: 1 });
+    try {
+      return await replayTakeoff(takeoff, sheet, { takeoffName: 'pump.takeoff.json', created: '2026-01-01T00:00:00.000Z' });
+    } finally {
+      await sheet.close();
+    }
+  }
+
+  it('reproduces every head and power curve within 0.1 % of the axis span', async () => {
+    const { curveSet, traces } = await replay('drawn');
+    expect(traces.every((t) => t.how === 'vector')).toBe(true);
+    for (const d of DIAMETERS) {
+      // Axis spans: head 200 ft, power 100 hp; acceptance 0.1 % of span.
+      expect(worstError(curveSet, d, 'head', head, (si) => fromSI(si, ft))).toBeLessThan(0.001 * 200);
+      expect(worstError(curveSet, d, 'power', power, (si) => fromSI(si, hp))).toBeLessThan(0.001 * 100);
+      expect(worstError(curveSet, d, 'efficiency', efficiency, (si) => si * 100)).toBeLessThan(1);
+    }
+  });
+
+  it('reads efficiency from iso-lines within 1.5 points', async () => {
+    const { curveSet } = await replay('iso');
+    for (const d of DIAMETERS) {
+      const member = curveSet.members.find((m) => Math.abs(fromSI(m.diameter_m!, inch) - d) < 1e-9)!;
+      // Three levels × two branches cross each head curve once each.
+      expect(member.curves.efficiency!.points).toHaveLength(6);
+      for (const [q, eta] of member.curves.efficiency!.points) {
+        expect(Math.abs(eta * 100 - efficiency(d, fromSI(q, gpm)))).toBeLessThan(0.05); // crossing points, in points of %
+      }
+      expect(worstError(curveSet, d, 'efficiency', efficiency, (si) => si * 100)).toBeLessThan(1.5);
+    }
+  });
+
+  it('carries the captured points and the sheet SHA-256 in the curve set', async () => {
+    const { curveSet } = await replay('drawn');
+    expect(curveSet.provenance.source?.sha256).toBe(createHash('sha256').update(pdf).digest('hex'));
+    expect(curveSet.provenance.source?.page).toBe(1);
+    expect(curveSet.provenance.takeoff).toBe('pump.takeoff.json');
+    expect(curveSet.members).toHaveLength(3);
+    expect(curveSet.members[0]!.curves.head!.points.length).toBeGreaterThan(30);
+    expect(curveSet.display_units).toEqual({ flow: 'gpm', head: 'ft', npsh: 'ft', power: 'hp', diameter: 'in' });
+  });
+});
