@@ -1,0 +1,74 @@
+/**
+ * The Fastify application: library API, source sheets, the plain library page, and (when built)
+ * the browser workbench from dist/. Built from a store and options handed in, so tests run it
+ * against a temporary library file on a random port.
+ */
+import { existsSync } from 'node:fs';
+import { join, resolve } from 'node:path';
+import Fastify, { type FastifyInstance } from 'fastify';
+import fastifyStatic from '@fastify/static';
+import type { LibraryStore } from '../library/store.ts';
+import type { DutyMatcher } from '../library/dutySearch.ts';
+import { TOOL_VERSION } from '../version.ts';
+import { errorHandler } from './errors.ts';
+import { installAccessControl } from './security.ts';
+import { curveSetRoutes } from './routes/curvesets.ts';
+import { searchRoutes } from './routes/search.ts';
+import { sheetRoutes } from './routes/sheets.ts';
+import { transferRoutes } from './routes/transfer.ts';
+import { pageRoutes } from './routes/page.ts';
+
+export const LIMITS = {
+  /** Curve sets and take-off files. */
+  jsonBytes: 4 * 2 ** 20,
+  /** One source sheet. */
+  sheetBytes: 64 * 2 ** 20,
+  /** One library import. */
+  importBytes: 1024 * 2 ** 20,
+};
+
+export interface AppOptions {
+  store: LibraryStore;
+  matcher: DutyMatcher;
+  /** The built workbench (dist/); served when it holds an index.html. */
+  staticDir?: string | null;
+  /** Why the workbench is not served, shown on the library page. */
+  workbenchMessage?: string;
+  /** Access token every request must carry (non-loopback binds). */
+  token?: string | null;
+  /** Only answer requests addressed to the loopback interface. */
+  loopbackOnly?: boolean;
+  logger?: boolean;
+  limits?: Partial<typeof LIMITS>;
+}
+
+export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
+  const limits = { ...LIMITS, ...options.limits };
+  const app = Fastify({
+    logger: options.logger ? { level: 'warn' } : false,
+    bodyLimit: limits.jsonBytes,
+    onProtoPoisoning: 'error',
+    onConstructorPoisoning: 'error',
+    routerOptions: { maxParamLength: 200 },
+  });
+  app.setErrorHandler(errorHandler);
+  installAccessControl(app, { token: options.token ?? null, loopbackOnly: options.loopbackOnly ?? false });
+
+  const { store, matcher } = options;
+  app.get('/api/health', async () => ({ ok: true, version: TOOL_VERSION, library: store.counts() }));
+  curveSetRoutes(app, store, );
+  searchRoutes(app, store, matcher);
+  sheetRoutes(app, store, limits.sheetBytes);
+  transferRoutes(app, store, limits.importBytes);
+
+  const dist = options.staticDir ? resolve(options.staticDir) : null;
+  const workbench = dist !== null && existsSync(join(dist, 'index.html'));
+  pageRoutes(app, store, matcher, () => workbench, options.workbenchMessage);
+  if (workbench && dist) {
+    await app.register(fastifyStatic, { root: dist, prefix: '/', index: ['index.html'], dotfiles: 'deny', serveDotFiles: false, decorateReply: false });
+  }
+  app.setNotFoundHandler((request, reply) => {
+    void reply.code(404).type('application/json; charset=utf-8').send({ error: `Nothing is served at ${request.method} ${request.url.split('?')[0]?.slice(0, 200)}.` });
+  });
+  return app;
+}

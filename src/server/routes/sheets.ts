@@ -1,0 +1,53 @@
+/**
+ * Source sheets and their take-off files.
+ * POST /api/sheets takes the raw bytes (any Content-Type but JSON); the reply names the SHA-256.
+ * GET /api/sheets/:sha256 serves them back with a media type sniffed from the bytes at upload,
+ * sandboxed, so a hostile upload cannot run script in the workbench's origin.
+ */
+import type { FastifyInstance } from 'fastify';
+import type { LibraryStore } from '../../library/store.ts';
+import { LibraryError } from '../../library/errors.ts';
+import { text, type Query } from '../query.ts';
+
+export const SHEET_MEDIA_TYPES = ['application/octet-stream', 'application/pdf', 'image/png', 'image/jpeg', 'image/gif', 'image/webp', 'image/tiff'];
+
+export function sheetRoutes(app: FastifyInstance, store: LibraryStore, sheetLimit: number): void {
+  app.register(async (scope) => {
+    scope.addContentTypeParser(SHEET_MEDIA_TYPES, { parseAs: 'buffer', bodyLimit: sheetLimit }, (_req, body, done) => done(null, body));
+    scope.post('/api/sheets', { bodyLimit: sheetLimit }, async (request, reply) => {
+      if (!Buffer.isBuffer(request.body)) throw new LibraryError('Send the sheet as the raw bytes of the file (Content-Type application/pdf, image/… or application/octet-stream).', 'invalid');
+      const name = text(request.query as Query, 'name', 500);
+      const stored = store.sheets.put(request.body, name);
+      return reply.code(stored.created ? 201 : 200).header('Location', `/api/sheets/${stored.sha256}`).send(stored);
+    });
+  });
+
+  app.get('/api/sheets', async () => ({ sheets: store.sheets.list() }));
+
+  app.get<{ Params: { sha256: string } }>('/api/sheets/:sha256', async (request, reply) => {
+    const sheet = store.sheets.get(request.params.sha256);
+    return reply
+      .type(sheet.media_type)
+      .header('Content-Security-Policy', "sandbox; default-src 'none'")
+      .header('Content-Disposition', `inline; filename="sheet-${sheet.sha256.slice(0, 12)}"`)
+      .header('ETag', `"${sheet.sha256}"`)
+      .header('Cache-Control', 'private, max-age=31536000, immutable')
+      .send(sheet.bytes);
+  });
+
+  app.get<{ Params: { sha256: string } }>('/api/sheets/:sha256/takeoffs', async (request) => ({
+    sheet: store.sheets.info(request.params.sha256),
+    takeoffs: store.sheets.takeoffs(request.params.sha256),
+  }));
+
+  app.post<{ Params: { sha256: string } }>('/api/sheets/:sha256/takeoffs', async (request, reply) => {
+    const name = text(request.query as Query, 'name', 500);
+    const saved = store.sheets.addTakeoff(request.params.sha256, request.body, name);
+    return reply.code(saved.created ? 201 : 200).header('Location', `/api/takeoffs/${saved.id}`).send(saved);
+  });
+
+  app.get<{ Params: { id: string } }>('/api/takeoffs/:id', async (request, reply) => {
+    const t = store.sheets.takeoff(request.params.id);
+    return reply.type('application/json; charset=utf-8').header('X-Pumpscribe-Sheet', t.sheet_sha256).send(t.body);
+  });
+}

@@ -1,0 +1,39 @@
+/**
+ * GET /api/library/export streams the whole library as JSON Lines (a consistent snapshot);
+ * POST /api/library/import reads JSON Lines (application/x-ndjson) and adds them all or nothing.
+ */
+import { Readable } from 'node:stream';
+import type { FastifyInstance } from 'fastify';
+import type { LibraryStore } from '../../library/store.ts';
+import { LibraryError } from '../../library/errors.ts';
+import { linesOf } from '../../library/lines.ts';
+import { exportLines, importLines } from '../../library/transfer.ts';
+
+export const NDJSON_TYPES = ['application/x-ndjson', 'application/jsonl', 'application/jsonlines'];
+
+export function transferRoutes(app: FastifyInstance, store: LibraryStore, importLimit: number): void {
+  app.get('/api/library/export', async (_request, reply) => {
+    const stamp = store.now().slice(0, 10);
+    const lines = exportLines(store);
+    const body = Readable.from(
+      (function* () {
+        for (const line of lines) yield `${line}\n`;
+      })(),
+    );
+    return reply
+      .type('application/x-ndjson; charset=utf-8')
+      .header('Content-Disposition', `attachment; filename="pumpscribe-library-${stamp}.jsonl"`)
+      .send(body);
+  });
+
+  app.register(async (scope) => {
+    scope.addContentTypeParser(NDJSON_TYPES, (_request, payload, done) => done(null, payload));
+    scope.post('/api/library/import', async (request) => {
+      const payload = request.body as AsyncIterable<Buffer> | undefined;
+      if (!payload || typeof (payload as Partial<AsyncIterable<Buffer>>)[Symbol.asyncIterator] !== 'function') {
+        throw new LibraryError('Send the export as JSON Lines with Content-Type application/x-ndjson.', 'invalid');
+      }
+      return importLines(store, linesOf(payload, importLimit));
+    });
+  });
+}
