@@ -117,7 +117,7 @@ function byTrim(set: CurveSet, duty: DutyRequest, density: number): DutyMatch {
   const point = figuresAt(curve, duty.flow_m3s);
   const extrapolated = result.diameter_m < smallest * (1 - 1e-9);
   const pct = (result.ratio * 100).toFixed(1);
-  let message = `A ${(result.diameter_m * 1000).toFixed(1)} mm impeller (${pct} % of full) meets the duty`;
+  let message = `An impeller trimmed to ${pct} % of full diameter meets the duty`;
   if (result.below_limit) message += `, a trim deeper than the usual ${Math.round(result.limit_ratio * 100)} % limit`;
   if (extrapolated) message += `, below the smallest captured diameter (affinity extrapolation)`;
   return {

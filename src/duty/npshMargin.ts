@@ -86,13 +86,13 @@ export function judgeNpshMargin(npsha_m: number, npsh3_m: number, rule: NpshMarg
   const verdict: NpshVerdict = npsha_m <= npsh3_m ? 'cavitation-expected' : npsha_m >= required ? 'meets-guidance' : 'below-guidance';
   const message =
     verdict === 'cavitation-expected'
-      ? `NPSHa ${f(npsha_m)} m is not above NPSH3 ${f(npsh3_m)} m: the pump will cavitate with a head drop of 3 % or more.`
+      ? `NPSHa is not above NPSH3 (ratio ${ratio.toFixed(2)}): the pump will cavitate with a head drop of 3 % or more.`
       : verdict === 'below-guidance'
-        ? `NPSHa ${f(npsha_m)} m exceeds NPSH3 ${f(npsh3_m)} m by ${f(margin)} m (ratio ${ratio.toFixed(2)}), less than the ${f(required)} m the guidance asks for.`
-        : `NPSHa ${f(npsha_m)} m exceeds NPSH3 ${f(npsh3_m)} m by ${f(margin)} m (ratio ${ratio.toFixed(2)}), meeting the ${f(required)} m the guidance asks for.`;
+        ? `NPSHa exceeds NPSH3 (ratio ${ratio.toFixed(2)}) but falls ${f((100 * (required - npsha_m)) / required)} % short of the NPSHa the guidance asks for (ratio ${(required / npsh3_m).toFixed(2)}).`
+        : `NPSHa exceeds NPSH3 with ratio ${ratio.toFixed(2)}, meeting the guidance (ratio ${(required / npsh3_m).toFixed(2)} needed here).`;
   return { npsha_m, npsh3_m, ratio, margin_m: margin, required_npsha_m: required, verdict, rule, message };
 }
 
 function f(v: number): string {
-  return v.toFixed(2);
+  return v.toFixed(1);
 }

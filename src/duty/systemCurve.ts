@@ -37,7 +37,7 @@ export function systemCurveThroughDuty(static_head_m: number, flow_m3s: number, 
   if (!(flow_m3s > 0) || !Number.isFinite(flow_m3s)) throw new DutyError(`The duty flow must be a positive number, not ${flow_m3s}.`);
   if (!Number.isFinite(head_m) || !Number.isFinite(static_head_m)) throw new DutyError('The duty head and the static head must be finite numbers.');
   if (head_m < static_head_m) {
-    throw new DutyError(`The duty head (${round(head_m)} m) lies below the static head (${round(static_head_m)} m); the duty head must include the static head.`);
+    throw new DutyError('The duty head lies below the static head; the duty head must include the static head, so check both values.');
   }
   if (!(exponent > 0)) throw new DutyError(`The system-curve exponent must be positive, not ${exponent}.`);
   return {
@@ -137,8 +137,4 @@ function solveLinear(points: ReadonlyArray<readonly [number, number]>, n: number
   }
   const sse = xs.reduce((s, x, i) => s + ((hs0[i] as number) - hs - kScaled * x) ** 2, 0);
   return { hs, k: kScaled / qMax ** n, sse };
-}
-
-function round(v: number): string {
-  return String(Number(v.toPrecision(4)));
 }

@@ -82,7 +82,7 @@ export function trimToDuty(search: TrimSearch, flow_m3s: number, head_m: number)
   if (gapFull < 0) {
     return {
       status: 'above-full-diameter',
-      message: `The duty lies above the full-diameter curve (${fmt(full.head(flow_m3s))} m at the duty flow against ${fmt(head_m)} m needed); no trim of this impeller meets it.`,
+      message: `The duty lies above the full-diameter curve (it gives ${fmt((100 * full.head(flow_m3s)) / head_m)} % of the duty head at the duty flow); no trim of this impeller meets it.`,
       ...withEstimate,
     };
   }
@@ -90,7 +90,7 @@ export function trimToDuty(search: TrimSearch, flow_m3s: number, head_m: number)
   if (gapMin > 0) {
     return {
       status: 'below-search-range',
-      message: `Even a ${fmt(search.min_diameter_m * 1000)} mm impeller (${fmt((100 * search.min_diameter_m) / search.full_diameter_m)} % of full) gives more head than the duty needs; this pump is too large for the duty.`,
+      message: `Even an impeller trimmed to ${fmt((100 * search.min_diameter_m) / search.full_diameter_m)} % of full diameter gives more head than the duty needs; this pump is too large for the duty.`,
       ...withEstimate,
     };
   }

@@ -1,0 +1,200 @@
+/**
+ * The whole duty check for one curve set, as data: system curve, operating point of every
+ * captured diameter, the trim that meets the duty, parallel operation, variable speed, NPSH
+ * margin at each point, motor and energy. SI throughout; the CLI and screens format it.
+ */
+import type { CurveSet } from '../model/curveset.ts';
+import { membersByDiameter } from '../fit/affinity.ts';
+import { familyFigures } from '../fit/checks/speedFigures.ts';
+import { NSS_US_CAUTION } from '../fit/specificSpeed.ts';
+import { parallelPumps, pumpCurveAtSpeed, pumpCurveOfMember, type PumpCurve } from './pumpCurve.ts';
+import { figuresAt, operatingPoint, type OperatingPointResult, type PointFigures } from './operatingPoint.ts';
+import { fitSystemCurve, systemCurveThroughDuty, type SystemCurve } from './systemCurve.ts';
+import { curveAtDiameter, meetDuty, type DutyMatch } from './meetDuty.ts';
+import { parallelOperation, type ParallelResult } from './parallel.ts';
+import { speedToDuty, type SpeedResult } from './speed.ts';
+import { resolveSite, type ResolvedSite, type SiteInput } from './site.ts';
+import { npshAvailable, type NpshAvailable } from './npsh.ts';
+import { judgeNpshMargin, npshMarginRule, type NpshApplication, type NpshJudgement, type NpshMarginRule } from './npshMargin.ts';
+import { nonOverloadingPower, selectMotor, type MotorSelection, type MotorStandard } from './motor.ts';
+import { annualEnergy, type EnergyResult } from './energy.ts';
+import { EXTRAPOLATION_CAUTION, MOTOR_CAUTION, NPSH_CAUTION, PRELIMINARY, serviceCaution, type Service } from './cautions.ts';
+import { DutyError } from './errors.ts';
+
+export interface DutyCheckInput {
+  /** Duty of the whole installation: total flow [m³/s] and head [m]. */
+  flow_m3s: number;
+  head_m: number;
+  /** System curve: through the duty with this static head [m] (default 0), or fitted to points. */
+  static_head_m?: number;
+  system_points?: ReadonlyArray<readonly [number, number]>;
+  system_exponent?: number;
+  density_kg_m3?: number;
+  /** Identical pumps running in parallel (1…3 typical; default 1). */
+  parallel_count?: number;
+  /** Also find the speed that meets the duty with the full impeller. */
+  variable_speed?: boolean;
+  site?: SiteInput;
+  application?: NpshApplication;
+  motor_standard?: MotorStandard;
+  energy?: { hours_per_year: number; motor_efficiency: number; tariff_per_kWh?: number; drive_efficiency?: number };
+  service?: Service;
+}
+
+export interface NpshAtPoint {
+  where: string;
+  flow_m3s: number;
+  available: NpshAvailable;
+  judgement?: NpshJudgement;
+  /** NPSH3 was read outside its captured range. */
+  npshr_extrapolated: boolean;
+}
+
+export interface DutyCheckReport {
+  duty: { flow_m3s: number; head_m: number; per_pump_flow_m3s: number };
+  system: SystemCurve;
+  parallel_count: number;
+  /** One per captured diameter (the combination of `parallel_count` pumps when more than one). */
+  operating_points: Array<{ diameter_m?: number; label: string; result: OperatingPointResult; per_pump?: PointFigures }>;
+  /** The trim (or speed) meeting the duty, per pump. */
+  trim: DutyMatch;
+  parallel?: ParallelResult;
+  speed?: SpeedResult;
+  npsh?: { site: ResolvedSite; rule: NpshMarginRule; points: NpshAtPoint[]; caution: string };
+  motor?: { standard: MotorStandard; peak_flow_m3s: number; selection: MotorSelection; caution: string };
+  energy?: EnergyResult & { hours_per_year: number; motor_efficiency: number; shaft_power_W: number; pumps: number };
+  /** Problems that fail the check (duty not met, cavitation, margin below guidance). */
+  problems: string[];
+  /** Warnings beside the results. */
+  warnings: string[];
+  cautions: string[];
+}
+
+export function dutyCheck(set: CurveSet, input: DutyCheckInput): DutyCheckReport {
+  const count = input.parallel_count ?? 1;
+  if (!Number.isInteger(count) || count < 1 || count > 6) throw new DutyError(`The number of pumps in parallel must be a whole number from 1 to 6, not ${count}.`);
+  const density = input.density_kg_m3 ?? input.site?.density_kg_m3 ?? set.fluid.density_kg_m3;
+  const system = input.system_points
+    ? fitSystemCurve(input.system_points, {
+        ...(input.static_head_m !== undefined ? { static_head_m: input.static_head_m } : {}),
+        ...(input.system_exponent !== undefined ? { exponent: input.system_exponent } : {}),
+      })
+    : systemCurveThroughDuty(input.static_head_m ?? 0, input.flow_m3s, input.head_m, input.system_exponent ?? 2);
+  const perPumpFlow = input.flow_m3s / count;
+  const problems: string[] = [];
+  const warnings: string[] = [];
+  const cautions: string[] = [PRELIMINARY];
+  const service = input.service ?? (input.application === 'hydrocarbon' ? 'hazardous' : 'general');
+  const code = serviceCaution(service);
+  if (code) cautions.push(code);
+  if (input.static_head_m === undefined && !input.system_points) warnings.push('No static head given: the system curve is taken as pure friction through the duty point (H = k·Q²).');
+
+  const members = membersByDiameter(set).length > 0 ? membersByDiameter(set) : [...set.members].sort((a, b) => b.speed_rpm - a.speed_rpm);
+  const operating_points = members.map((m) => {
+    const single = pumpCurveOfMember(m, density, set.fluid.density_kg_m3);
+    const result = operatingPoint(parallelPumps(single, count), system);
+    const entry: DutyCheckReport['operating_points'][number] = { label: single.label, result, ...(m.diameter_m !== undefined ? { diameter_m: m.diameter_m } : {}) };
+    if (result.status === 'ok' && count > 1) entry.per_pump = figuresAt(single, result.point.flow_m3s / count);
+    return entry;
+  });
+
+  const trim = meetDuty(set, { flow_m3s: perPumpFlow, head_m: input.head_m, static_head_m: system.static_head_m, density_kg_m3: density });
+  if (trim.status !== 'meets') problems.push(trim.message);
+  else {
+    if (trim.below_trim_limit) warnings.push(`The trim is ${(100 * (trim.trim_ratio ?? 0)).toFixed(1)} % of full diameter, below the usual ${Math.round(100 * (trim.trim_limit_ratio ?? 0.8))} % limit (Lobanoff & Ross): efficiency falls and the prediction is less reliable.`);
+    if (trim.trim_extrapolated) warnings.push('The trim lies below the smallest captured diameter: its curve is an affinity extrapolation.');
+    if (trim.point && trim.point.por_position !== 'within' && trim.point.por_position !== 'unknown') {
+      warnings.push(`At the duty each pump runs ${trim.point.por_position} its preferred operating region (${((trim.point.flow_to_bep ?? 0) * 100).toFixed(0)} % of BEP flow).`);
+    }
+    if (trim.point?.extrapolated.length) warnings.push(EXTRAPOLATION_CAUTION);
+    if (trim.outside_affinity_band) warnings.push('The speed lies outside ±20 % of the captured speed, where the affinity law is less exact.');
+  }
+  // The curve the installation actually runs on: the trimmed (or speed-matched) one, else the full one.
+  const selected: PumpCurve | undefined = selectedCurve(set, trim, density);
+
+  const report: DutyCheckReport = {
+    duty: { flow_m3s: input.flow_m3s, head_m: input.head_m, per_pump_flow_m3s: perPumpFlow },
+    system,
+    parallel_count: count,
+    operating_points,
+    trim,
+    problems,
+    warnings,
+    cautions,
+  };
+
+  if (selected && count > 1) {
+    report.parallel = parallelOperation(selected, count, system);
+    const per = report.parallel.per_pump;
+    if (per && per.por_position !== 'within' && per.por_position !== 'unknown') warnings.push(`In parallel each pump runs ${per.por_position} its POR (${((per.flow_to_bep ?? 0) * 100).toFixed(0)} % of BEP flow).`);
+    const alone = report.parallel.single;
+    if (alone.status !== 'ok') warnings.push(`With one pump running alone: ${alone.message}`);
+    else if (alone.point.por_position === 'above') warnings.push(`With one pump running alone it runs out beyond its POR (${((alone.point.flow_to_bep ?? 0) * 100).toFixed(0)} % of BEP flow): check its power and NPSH there.`);
+  }
+
+  if (input.variable_speed) {
+    const full = members[0];
+    if (full) report.speed = speedToDuty(pumpCurveOfMember(full, density, set.fluid.density_kg_m3), system, perPumpFlow);
+  }
+
+  if (input.site) report.npsh = npshSection(set, input, selected, report, problems, warnings);
+
+  if (selected) {
+    const standard = input.motor_standard ?? 'iec';
+    const peak = nonOverloadingPower(selected);
+    if (peak) {
+      const selection = selectMotor(peak.power_W, standard, trim.point?.power_W);
+      report.motor = { standard, peak_flow_m3s: peak.flow_m3s, selection, caution: MOTOR_CAUTION };
+      if (!selection.rating) problems.push(selection.notes[0] ?? 'No standard motor is large enough.');
+    } else warnings.push('The curve set has neither a power curve nor an efficiency curve, so no motor size can be given.');
+  }
+
+  if (input.energy) {
+    const shaft = trim.point?.power_W;
+    if (shaft === undefined) warnings.push('No shaft power at the duty, so no energy estimate.');
+    else {
+      const e = annualEnergy({ shaft_power_W: shaft * count, ...input.energy });
+      report.energy = { ...e, hours_per_year: input.energy.hours_per_year, motor_efficiency: input.energy.motor_efficiency, shaft_power_W: shaft * count, pumps: count };
+    }
+  }
+  return report;
+}
+
+function selectedCurve(set: CurveSet, trim: DutyMatch, density: number): PumpCurve | undefined {
+  if (trim.status !== 'meets') return undefined;
+  if (trim.method === 'trim' && trim.diameter_m !== undefined) return curveAtDiameter(set, trim.diameter_m, density);
+  const fastest = [...set.members].sort((a, b) => b.speed_rpm - a.speed_rpm)[0];
+  if (!fastest || trim.speed_rpm === undefined) return undefined;
+  const base = pumpCurveOfMember(fastest, density, set.fluid.density_kg_m3);
+  return pumpCurveAtSpeed(base, trim.speed_rpm);
+}
+
+function npshSection(set: CurveSet, input: DutyCheckInput, selected: PumpCurve | undefined, report: DutyCheckReport, problems: string[], warnings: string[]): DutyCheckReport['npsh'] {
+  const siteInput = input.site as SiteInput;
+  const site = resolveSite({ ...siteInput, ...(siteInput.suction_loss_m > 0 && siteInput.loss_reference_flow_m3s === undefined ? { loss_reference_flow_m3s: report.duty.per_pump_flow_m3s } : {}) });
+  const rule = npshMarginRule(input.application ?? 'general', familyFigures(set).nss_us);
+  const points: NpshAtPoint[] = [];
+  const judge = (where: string, f: PointFigures | undefined) => {
+    if (!f) return;
+    const available = npshAvailable(site, f.flow_m3s);
+    const entry: NpshAtPoint = { where, flow_m3s: f.flow_m3s, available, npshr_extrapolated: f.extrapolated.includes('npshr') };
+    if (f.npshr_m !== undefined && f.npshr_m > 0) entry.judgement = judgeNpshMargin(available.npsha_m, f.npshr_m, rule);
+    points.push(entry);
+  };
+  judge('duty (trimmed impeller)', report.trim.point);
+  if (report.parallel?.single.status === 'ok') judge('one pump running alone', report.parallel.single.point);
+  for (const op of report.operating_points) {
+    if (op.result.status === 'ok') judge(`operating point, ${op.label}`, report.parallel_count > 1 ? op.per_pump : op.result.point);
+  }
+  const duty = points[0]?.judgement;
+  if (duty && duty.verdict !== 'meets-guidance') problems.push(`NPSH at the duty: ${duty.message}`);
+  else if (points[0] && !duty) warnings.push('The curve set has no NPSH3 curve at the duty flow, so the NPSH margin cannot be judged.');
+  const alone = points.find((p) => p.where === 'one pump running alone')?.judgement;
+  if (alone && alone.verdict !== 'meets-guidance') warnings.push(`NPSH with one pump running alone: ${alone.message}`);
+  if (rule.nss_us !== undefined && rule.nss_us > NSS_US_CAUTION) {
+    warnings.push(`Suction specific speed ${Math.round(rule.nss_us)} (US) is above about ${NSS_US_CAUTION}: suction recirculation is a traditional concern at part load; keep the pump near its BEP.`);
+  }
+  if (points.some((p) => p.npshr_extrapolated)) warnings.push('Some NPSH3 values were read outside the captured NPSH3 curve.');
+  if (!selected) warnings.push('No trim meets the duty; NPSH is judged at the operating points of the captured diameters only.');
+  return { site, rule, points, caution: NPSH_CAUTION };
+}
