@@ -1,0 +1,270 @@
+/**
+ * Paints what the engineer has placed over the sheet: panel frames, anchors, guides, captured
+ * points, the fitted curves of the review, and the active tool's preview. Everything is drawn
+ * in screen space from sheet coordinates, so line widths and marks stay the same at any zoom.
+ */
+import type { Quantity } from '../../model/curveset.ts';
+import type { SheetXY } from '../../model/takeoff.ts';
+import { anchorAxis, pointsOf, type Draft, type PanelDraft, type TraceDraft } from '../store/draft.ts';
+import type { Session } from '../store/store.ts';
+import { toScreen, type View } from './view.ts';
+
+/** Ink of each quantity on the overlay (chosen to read against black and grey print). */
+export const QUANTITY_INK: Record<Quantity, string> = {
+  head: '#1f4fa3',
+  efficiency: '#1b7f4b',
+  power: '#a8321f',
+  npshr: '#6a3fa0',
+};
+
+/** The fitted curves are drawn in one contrasting style so that a misfit shows against the source. */
+export const FIT_INK = '#e0007a';
+
+export type Preview =
+  | { kind: 'frame'; a: SheetXY; b: SheetXY; snapped: boolean }
+  | { kind: 'snap'; at: SheetXY; what: 'crossing' | 'tick' | 'line' | 'free' }
+  | { kind: 'point'; trace: string; index: number }
+  | { kind: 'segment'; trace: string; at: SheetXY }
+  | { kind: 'drag'; trace: string; index: number; at: SheetXY }
+  | { kind: 'drag-guide'; trace: string; index: number; at: SheetXY };
+
+export interface FitLine {
+  traceIds: readonly string[];
+  quantity: Quantity;
+  /** Sheet points along the fitted curve, inside the fitted range. */
+  points: readonly SheetXY[];
+  /** Sheet points beyond the captured range, drawn fainter, when shown at all. */
+  label: string;
+}
+
+export interface Scene {
+  draft: Draft;
+  session: Session;
+  calibrated: ReadonlySet<string>;
+  fits: readonly FitLine[];
+  preview: Preview | null;
+  /** Guides placed but not yet captured. */
+  pendingGuides: readonly SheetXY[];
+  /** Anchors proposed from the text layer, not yet taken. */
+  proposals: readonly { at: SheetXY; axis: 'x' | 'y'; value: number }[];
+}
+
+const HALO = 'rgba(255,255,255,0.92)';
+
+function line(ctx: CanvasRenderingContext2D, view: View, pts: readonly SheetXY[]): void {
+  ctx.beginPath();
+  pts.forEach((p, i) => {
+    const [x, y] = toScreen(view, p);
+    if (i === 0) ctx.moveTo(x, y);
+    else ctx.lineTo(x, y);
+  });
+}
+
+function haloStroke(ctx: CanvasRenderingContext2D, colour: string, width: number, dash: number[] = []): void {
+  ctx.setLineDash([]);
+  ctx.strokeStyle = HALO;
+  ctx.lineWidth = width + 3;
+  ctx.stroke();
+  ctx.setLineDash(dash);
+  ctx.strokeStyle = colour;
+  ctx.lineWidth = width;
+  ctx.stroke();
+  ctx.setLineDash([]);
+}
+
+function label(ctx: CanvasRenderingContext2D, text: string, x: number, y: number, colour: string, background = 'rgba(255,255,255,0.9)'): void {
+  ctx.font = '600 12px system-ui, sans-serif';
+  const w = ctx.measureText(text).width;
+  ctx.fillStyle = background;
+  ctx.fillRect(x - 3, y - 13, w + 6, 17);
+  ctx.fillStyle = colour;
+  ctx.fillText(text, x, y);
+}
+
+const PANEL_INK = '#0d6b6b';
+
+function paintPanel(ctx: CanvasRenderingContext2D, view: View, panel: PanelDraft, active: boolean, calibrated: boolean): void {
+  const [l, t, r, b] = panel.frame;
+  const [x0, y0] = toScreen(view, [l, t]);
+  const [x1, y1] = toScreen(view, [r, b]);
+  ctx.beginPath();
+  ctx.rect(x0, y0, x1 - x0, y1 - y0);
+  haloStroke(ctx, PANEL_INK, active ? 2 : 1.25, active ? [] : [6, 4]);
+  const name = { head: 'Head', efficiency: 'Efficiency', power: 'Power', npshr: 'NPSHr' }[panel.plots];
+  const state = calibrated ? '' : ' · axes not set';
+  label(ctx, `${name} panel${state}`, x0 + 4, y0 - 6 < 14 ? y0 + 16 : y0 - 6, '#ffffff', PANEL_INK);
+}
+
+function paintAnchors(ctx: CanvasRenderingContext2D, view: View, panel: PanelDraft, draft: Draft): void {
+  panel.anchors.forEach((a) => {
+    const [x, y] = toScreen(view, a.at);
+    const valued = a.x !== undefined || a.y !== undefined;
+    const isX = anchorAxis(a) === 'x';
+    // A diamond, hollow until it has a value; its value sits beside it.
+    ctx.beginPath();
+    ctx.moveTo(x, y - 7);
+    ctx.lineTo(x + 7, y);
+    ctx.lineTo(x, y + 7);
+    ctx.lineTo(x - 7, y);
+    ctx.closePath();
+    ctx.fillStyle = valued ? '#c2410c' : 'rgba(255,255,255,0.8)';
+    ctx.fill();
+    haloStroke(ctx, '#c2410c', 1.5);
+    const unit = isX ? panel.units.x : panel.units.y;
+    const value = isX ? a.x : a.y;
+    const text = `${isX ? 'x' : 'y'} ${value === undefined ? '?' : value} ${unitLabel(unit)}`;
+    const dx = isX ? -10 : 10;
+    const dy = isX ? 22 : -8;
+    ctx.textAlign = 'left';
+    label(ctx, text, x + dx, y + dy, '#7c2d12');
+  });
+  void draft;
+}
+
+export function unitLabel(token: string): string {
+  return token.replace('m3/h', 'm³/h').replace('m3/s', 'm³/s');
+}
+
+function paintTrace(ctx: CanvasRenderingContext2D, view: View, trace: TraceDraft, session: Session, preview: Preview | null): void {
+  const dragged = preview?.kind === 'drag' && preview.trace === trace.id ? preview : null;
+  const pts = dragged ? pointsOf(trace).map((p, i) => (i === dragged.index ? dragged.at : p)) : pointsOf(trace);
+  const movedGuide = preview?.kind === 'drag-guide' && preview.trace === trace.id ? preview : null;
+  const guides = movedGuide ? trace.guides.map((g, i) => (i === movedGuide.index ? movedGuide.at : g)) : trace.guides;
+  const ink = QUANTITY_INK[trace.quantity];
+  const selected = session.selectedTrace === trace.id;
+  const highlighted = session.highlightedTrace === trace.id;
+  if (highlighted && pts.length > 1) {
+    line(ctx, view, pts);
+    ctx.strokeStyle = 'rgba(255, 196, 0, 0.55)';
+    ctx.lineWidth = 14;
+    ctx.lineCap = 'round';
+    ctx.lineJoin = 'round';
+    ctx.stroke();
+  }
+  if (pts.length > 1) {
+    line(ctx, view, pts);
+    haloStroke(ctx, ink, selected ? 2.5 : 1.5, trace.locked ? [2, 3] : []);
+  }
+  // Points: small squares, larger when the trace is selected for editing.
+  const size = selected ? 6 : 3;
+  ctx.fillStyle = ink;
+  pts.forEach((p, i) => {
+    const [x, y] = toScreen(view, p);
+    const hot = preview?.kind === 'point' && preview.trace === trace.id && preview.index === i;
+    const chosen = selected && session.selectedPoint === i;
+    if (hot || chosen) {
+      ctx.fillStyle = '#ffffff';
+      ctx.fillRect(x - size - 2, y - size - 2, 2 * size + 4, 2 * size + 4);
+      ctx.strokeStyle = ink;
+      ctx.lineWidth = 2;
+      ctx.strokeRect(x - size - 2, y - size - 2, 2 * size + 4, 2 * size + 4);
+      ctx.fillStyle = ink;
+    } else if (selected || pts.length < 60 || i % Math.ceil(pts.length / 60) === 0) {
+      ctx.fillRect(x - size / 2, y - size / 2, size, size);
+    }
+  });
+  guides.forEach((g) => paintGuide(ctx, view, g, ink));
+}
+
+function paintGuide(ctx: CanvasRenderingContext2D, view: View, g: SheetXY, ink: string): void {
+  const [x, y] = toScreen(view, g);
+  ctx.beginPath();
+  ctx.arc(x, y, 6, 0, 2 * Math.PI);
+  haloStroke(ctx, ink, 1.5);
+  ctx.beginPath();
+  ctx.moveTo(x - 9, y);
+  ctx.lineTo(x - 3, y);
+  ctx.moveTo(x + 3, y);
+  ctx.lineTo(x + 9, y);
+  ctx.moveTo(x, y - 9);
+  ctx.lineTo(x, y - 3);
+  ctx.moveTo(x, y + 3);
+  ctx.lineTo(x, y + 9);
+  ctx.strokeStyle = ink;
+  ctx.lineWidth = 1.5;
+  ctx.stroke();
+}
+
+function paintFits(ctx: CanvasRenderingContext2D, view: View, fits: readonly FitLine[], session: Session): void {
+  for (const fit of fits) {
+    if (fit.points.length < 2) continue;
+    line(ctx, view, fit.points);
+    const emphasised = session.highlightedTrace !== null && fit.traceIds.includes(session.highlightedTrace);
+    haloStroke(ctx, FIT_INK, emphasised ? 3 : 1.75, [7, 4]);
+  }
+}
+
+function paintPreview(ctx: CanvasRenderingContext2D, view: View, preview: Preview): void {
+  if (preview.kind === 'frame') {
+    const [x0, y0] = toScreen(view, preview.a);
+    const [x1, y1] = toScreen(view, preview.b);
+    ctx.beginPath();
+    ctx.rect(Math.min(x0, x1), Math.min(y0, y1), Math.abs(x1 - x0), Math.abs(y1 - y0));
+    haloStroke(ctx, PANEL_INK, 1.5, [4, 3]);
+    paintSnap(ctx, view, preview.b, preview.snapped ? 'crossing' : 'free');
+  } else if (preview.kind === 'snap') {
+    paintSnap(ctx, view, preview.at, preview.what);
+  } else if (preview.kind === 'segment') {
+    const [x, y] = toScreen(view, preview.at);
+    ctx.beginPath();
+    ctx.arc(x, y, 5, 0, 2 * Math.PI);
+    ctx.fillStyle = 'rgba(255,255,255,0.9)';
+    ctx.fill();
+    haloStroke(ctx, '#111827', 1.5);
+    ctx.beginPath();
+    ctx.moveTo(x - 3, y);
+    ctx.lineTo(x + 3, y);
+    ctx.moveTo(x, y - 3);
+    ctx.lineTo(x, y + 3);
+    ctx.stroke();
+  }
+}
+
+function paintSnap(ctx: CanvasRenderingContext2D, view: View, at: SheetXY, what: string): void {
+  const [x, y] = toScreen(view, at);
+  ctx.beginPath();
+  if (what === 'free') {
+    ctx.arc(x, y, 4, 0, 2 * Math.PI);
+    haloStroke(ctx, '#374151', 1);
+    return;
+  }
+  // A square reticle marks a point the click will snap to.
+  ctx.rect(x - 6, y - 6, 12, 12);
+  haloStroke(ctx, '#c2410c', 1.75);
+  ctx.beginPath();
+  ctx.moveTo(x - 11, y);
+  ctx.lineTo(x + 11, y);
+  ctx.moveTo(x, y - 11);
+  ctx.lineTo(x, y + 11);
+  ctx.strokeStyle = '#c2410c';
+  ctx.lineWidth = 1;
+  ctx.stroke();
+}
+
+function paintProposals(ctx: CanvasRenderingContext2D, view: View, proposals: Scene['proposals']): void {
+  for (const p of proposals) {
+    const [x, y] = toScreen(view, p.at);
+    ctx.beginPath();
+    ctx.arc(x, y, 5, 0, 2 * Math.PI);
+    haloStroke(ctx, '#c2410c', 1.25, [2, 2]);
+    label(ctx, `${p.axis} ${p.value}?`, x + (p.axis === 'x' ? -8 : 8), y + (p.axis === 'x' ? 22 : -8), '#9a3412');
+  }
+}
+
+export function paintScene(ctx: CanvasRenderingContext2D, view: View, scene: Scene): void {
+  const { draft, session } = scene;
+  ctx.lineCap = 'round';
+  ctx.lineJoin = 'round';
+  const showAnchors = session.step === 'axes';
+  for (const panel of draft.panels) {
+    paintPanel(ctx, view, panel, session.activePanel === panel.id && showAnchors, scene.calibrated.has(panel.id));
+    if (showAnchors) paintAnchors(ctx, view, panel, draft);
+  }
+  if (showAnchors) paintProposals(ctx, view, scene.proposals);
+  if (session.step !== 'load') {
+    for (const trace of draft.traces) if (!trace.hidden) paintTrace(ctx, view, trace, session, scene.preview);
+  }
+  if (session.step === 'review' || session.step === 'save') paintFits(ctx, view, scene.fits, session);
+  for (const g of scene.pendingGuides) paintGuide(ctx, view, g, '#111827');
+  if (scene.preview) paintPreview(ctx, view, scene.preview);
+}

@@ -1,0 +1,63 @@
+/** Edits of the sheet reference, the pump, the units and the diameter list. */
+import { parseUnit } from '../../../units/index.ts';
+import type { PumpDraft, SheetRef, UnitsDraft } from '../draft.ts';
+import { edited, EditError, requirePositive, type Action } from './action.ts';
+
+/** A new sheet starts a new take-off: panels and traces of another sheet do not apply to it. */
+export const loadSheet = (sheet: SheetRef, pumpName: string): Action => (draft) =>
+  edited({ ...draft, sheet, panels: [], traces: [], pump: { ...draft.pump, name: draft.pump.name || pumpName } }, `load ${sheet.name}`);
+
+/** Another page of the same file: the panels drawn on the old page no longer fit. */
+export const choosePage = (page: number, width: number, height: number): Action => (draft) => {
+  if (!draft.sheet) throw new EditError('Load a sheet before choosing a page.');
+  if (!Number.isInteger(page) || page < 1 || page > draft.sheet.pageCount) throw new EditError(`Page ${page} does not exist; the sheet has ${draft.sheet.pageCount}.`);
+  if (page === draft.sheet.page && draft.sheet.width === width) return null;
+  return edited({ ...draft, sheet: { ...draft.sheet, page, width, height }, panels: [], traces: [] }, `choose page ${page}`);
+};
+
+/** Records the checksum once the file has been hashed; not an edit the user made. */
+export const recordChecksum = (sha256: string): Action => (draft) => {
+  if (!draft.sheet || draft.sheet.sha256 === sha256) return null;
+  return { draft: { ...draft, sheet: { ...draft.sheet, sha256 } }, label: 'checksum', undoable: false };
+};
+
+export const setPump = (patch: Partial<PumpDraft>): Action => (draft) => {
+  if (patch.speed_rpm !== undefined) requirePositive(patch.speed_rpm, 'The speed');
+  if (patch.specific_gravity !== undefined) requirePositive(patch.specific_gravity, 'The specific gravity');
+  const pump = { ...draft.pump, ...patch };
+  if (JSON.stringify(pump) === JSON.stringify(draft.pump)) return null;
+  const what = Object.keys(patch).map((k) => k.replace('_rpm', '').replace('_', ' ')).join(', ');
+  return edited({ ...draft, pump }, `set pump ${what}`);
+};
+
+const UNIT_KIND: Record<keyof UnitsDraft, 'flow' | 'head' | 'power' | 'diameter'> = { flow: 'flow', head: 'head', power: 'power', npsh: 'head', diameter: 'diameter' };
+
+export const setUnits = (patch: Partial<UnitsDraft>): Action => (draft) => {
+  const canonical: Partial<Record<keyof UnitsDraft, string>> = {};
+  for (const [key, token] of Object.entries(patch) as [keyof UnitsDraft, string][]) {
+    try {
+      canonical[key] = parseUnit(UNIT_KIND[key], token).token;
+    } catch (error) {
+      throw new EditError((error as Error).message);
+    }
+  }
+  const units = { ...draft.units, ...canonical };
+  if (JSON.stringify(units) === JSON.stringify(draft.units)) return null;
+  return edited({ ...draft, units }, 'change units');
+};
+
+/** Diameters typed as one list ("250 235 220 205" or "250, 235"), kept largest first. */
+export function parseDiameterList(text: string): number[] {
+  const parts = text.split(/[\s,;]+/).filter(Boolean);
+  const values = parts.map((p) => Number(p.replace(',', '.')));
+  const bad = parts.find((_, i) => !(Number.isFinite(values[i]) && (values[i] as number) > 0));
+  if (bad !== undefined) throw new EditError(`"${bad}" is not a diameter; type the diameters as numbers separated by spaces, e.g. 250 235 220 205.`);
+  return [...new Set(values)].sort((a, b) => b - a);
+}
+
+export const setDiameters = (diameters: readonly number[]): Action => (draft) => {
+  for (const d of diameters) requirePositive(d, 'Each diameter');
+  const next = [...new Set(diameters)].sort((a, b) => b - a);
+  if (next.join() === draft.diameters.join()) return null;
+  return edited({ ...draft, diameters: next }, 'set diameters');
+};

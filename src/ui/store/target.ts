@@ -1,0 +1,110 @@
+/**
+ * What the next guide click traces, and what comes after it. The order follows how an
+ * engineer reads a sheet: all head curves largest diameter first, then efficiency, power
+ * and NPSHr; efficiency drawn as lines of constant value across the head curves is traced
+ * as iso-lines on the head panel.
+ */
+import type { Quantity } from '../../model/curveset.ts';
+import type { SheetXY } from '../../model/takeoff.ts';
+import type { Draft, PanelDraft } from './draft.ts';
+import type { TraceTarget } from './store.ts';
+
+export const QUANTITY_ORDER: readonly Quantity[] = ['head', 'efficiency', 'power', 'npshr'];
+
+/** The panel a target is traced on, or undefined when no panel suits it. */
+export function panelFor(draft: Draft, target: TraceTarget): PanelDraft | undefined {
+  if (target.panel) {
+    const p = draft.panels.find((x) => x.id === target.panel);
+    if (p) return p;
+  }
+  const own = draft.panels.find((p) => p.plots === target.quantity);
+  if (target.lines === 'iso') return own ?? draft.panels.find((p) => p.plots === 'head');
+  return own;
+}
+
+/** The panel whose frame holds `at` (with a small margin), the smallest if frames overlap. */
+export function panelAt(draft: Draft, at: SheetXY): PanelDraft | undefined {
+  const holding = draft.panels.filter((p) => {
+    const [l, t, r, b] = p.frame;
+    const mx = 0.02 * (r - l);
+    const my = 0.02 * (b - t);
+    return at[0] >= l - mx && at[0] <= r + mx && at[1] >= t - my && at[1] <= b + my;
+  });
+  holding.sort((a, b) => (a.frame[2] - a.frame[0]) * (a.frame[3] - a.frame[1]) - (b.frame[2] - b.frame[0]) * (b.frame[3] - b.frame[1]));
+  return holding[0];
+}
+
+function traced(draft: Draft, quantity: Quantity, diameter: number): boolean {
+  return draft.traces.some((t) => t.quantity === quantity && t.iso === undefined && t.diameter === diameter);
+}
+
+/** The largest diameter not yet traced for the quantity, or undefined when all are. */
+export function firstUntraced(draft: Draft, quantity: Quantity): number | undefined {
+  return draft.diameters.find((d) => !traced(draft, quantity, d));
+}
+
+/** How efficiency is read on this sheet: as curves on its own panel, or as iso-lines on the head panel. */
+function efficiencyLines(draft: Draft): 'diameter' | 'iso' {
+  return draft.panels.some((p) => p.plots === 'efficiency') ? 'diameter' : 'iso';
+}
+
+/** A target for a quantity: its first untraced diameter, or an iso-line. */
+export function targetFor(draft: Draft, quantity: Quantity): TraceTarget {
+  if (quantity === 'efficiency' && efficiencyLines(draft) === 'iso') return { quantity, lines: 'iso' };
+  const diameter = firstUntraced(draft, quantity) ?? draft.diameters[0];
+  return diameter === undefined ? { quantity, lines: 'diameter' } : { quantity, lines: 'diameter', diameter };
+}
+
+/**
+ * After a trace is made: the next untraced diameter of the same quantity; when all are done,
+ * the next quantity that has a panel. An iso-line is followed by another iso-line of the
+ * same quantity, whose value the engineer types.
+ */
+export function nextTarget(draft: Draft, done: TraceTarget): TraceTarget {
+  if (done.lines === 'iso') return { quantity: done.quantity, lines: 'iso' };
+  const same = firstUntraced(draft, done.quantity);
+  if (same !== undefined) return { quantity: done.quantity, lines: 'diameter', diameter: same };
+  const start = QUANTITY_ORDER.indexOf(done.quantity);
+  for (let k = 1; k < QUANTITY_ORDER.length; k++) {
+    const q = QUANTITY_ORDER[(start + k) % QUANTITY_ORDER.length] as Quantity;
+    const candidate = targetFor(draft, q);
+    if (!panelFor(draft, candidate)) continue;
+    if (candidate.lines === 'iso') {
+      const hasIso = draft.traces.some((t) => t.quantity === q && t.iso !== undefined);
+      if (!hasIso) return candidate;
+      continue;
+    }
+    if (firstUntraced(draft, q) !== undefined) return candidate;
+  }
+  return { ...done };
+}
+
+/**
+ * The target for a click that lands in another panel than the target's: the quantity that
+ * panel plots, at its first untraced diameter. An iso-line target stays as it is on the head panel.
+ */
+export function retargetForPanel(draft: Draft, target: TraceTarget, panel: PanelDraft): TraceTarget {
+  const current = panelFor(draft, target);
+  if (current?.id === panel.id) return target;
+  if (target.lines === 'iso' && panel.plots === 'head') return { ...target, panel: panel.id };
+  return { ...targetFor(draft, panel.plots), panel: panel.id };
+}
+
+/** Whether the target can be traced now, or the sentence that says what is missing. */
+export function targetProblem(draft: Draft, target: TraceTarget): string | null {
+  if (!panelFor(draft, target)) return `No panel plots ${target.quantity === 'npshr' ? 'NPSHr' : target.quantity} yet; draw its frame in "Set the axes" first.`;
+  if (target.lines === 'iso' && target.iso === undefined) return `Type the value of the ${target.quantity} line to trace (for example 70 %).`;
+  if (target.lines === 'diameter' && target.diameter === undefined) return 'Type the impeller diameters of the family first (for example 250 235 220 205).';
+  return null;
+}
+
+const NAMES: Record<Quantity, string> = { head: 'head', efficiency: 'efficiency', power: 'power', npshr: 'NPSHr' };
+
+/** "head curve of 250 mm", "70 % efficiency line": the target in words, for the status line. */
+export function targetName(target: TraceTarget, units: { diameter: string; power: string }): string {
+  if (target.lines === 'iso') {
+    const unit = target.quantity === 'efficiency' ? '%' : units.power;
+    return target.iso === undefined ? `line of constant ${NAMES[target.quantity]}` : `${target.iso} ${unit} ${NAMES[target.quantity]} line`;
+  }
+  return target.diameter === undefined ? `${NAMES[target.quantity]} curve` : `${NAMES[target.quantity]} curve of ${target.diameter} ${units.diameter}`;
+}

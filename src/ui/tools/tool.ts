@@ -1,0 +1,54 @@
+/**
+ * A pointer tool: a small state machine that turns pointer events on the sheet into edits.
+ * Each tool says, at any moment, what the next click will do (for the status line), and
+ * what to preview on the overlay. Geometry lives in pure helpers; the host does the I/O.
+ */
+import type { SheetXY } from '../../model/takeoff.ts';
+import type { CanvasPointer } from '../canvas/sheetCanvas.ts';
+import type { Preview } from '../canvas/overlay.ts';
+import type { Snap } from '../geometry/snap.ts';
+import type { Store } from '../store/store.ts';
+import type { View } from '../canvas/view.ts';
+
+export interface ToolHost {
+  readonly store: Store;
+  view(): View;
+  /** Where a click at `at` should land; null when nothing to snap to is near. */
+  snap(at: SheetXY): Promise<Snap | null>;
+  /** The last snap answer for a point near `at`, without waiting. */
+  snapNow(at: SheetXY): Snap | null;
+  setPreview(preview: Preview | null): void;
+  /** Guides placed and waiting for their capture. */
+  setPending(guides: readonly SheetXY[]): void;
+  /** Captures the line under the guides; resolves to the points or rejects with a sentence. */
+  capture(guides: readonly SheetXY[], method: 'auto' | 'vector' | 'raster'): Promise<{ points: SheetXY[]; gaps: string[] }>;
+  /** Shows the magnifier at the pointer, marking where the click will land. */
+  magnify(p: CanvasPointer, mark: SheetXY | null, snapped: boolean): void;
+  /** Called after a new panel frame is drawn, to propose anchors from the text layer. */
+  afterFrame(panelId: string): void;
+  /** Puts the keyboard focus on the value field of an anchor. */
+  focusAnchorValue(panelId: string, index: number): void;
+}
+
+export interface Tool {
+  readonly name: string;
+  /** One sentence: what the next click (or drag) does. */
+  status(): string;
+  down(p: CanvasPointer): void;
+  move(p: CanvasPointer): void;
+  up(p: CanvasPointer): void;
+  leave(): void;
+  /** Keys the tool handles itself (Escape, Delete); true when handled. */
+  key(event: KeyboardEvent): boolean;
+  readonly cursor: string;
+}
+
+/** Distance in screen pixels between two sheet points under a view. */
+export function screenDistance(view: View, a: SheetXY, b: SheetXY): number {
+  return Math.hypot(a[0] - b[0], a[1] - b[1]) * view.zoom;
+}
+
+/** The snap radius in sheet units: about 10 screen pixels. */
+export function snapRadius(view: View): number {
+  return 10 / view.zoom;
+}

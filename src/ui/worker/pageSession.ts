@@ -1,0 +1,56 @@
+/**
+ * The chosen page as the take-off reads it, held in the worker: the Sheet from the same
+ * loaders the command line uses, with what capture and snapping need computed once
+ * (joined vector strokes, straight pieces, the raster).
+ */
+import { openPdfSheet } from '../../digitize/loaders/pdfPage.ts';
+import { loadImageSheetBrowser } from '../../digitize/loaders/imageBrowser.ts';
+import type { Sheet } from '../../digitize/sheet.ts';
+import type { RasterImage } from '../../digitize/raster.ts';
+import { strokeLines } from '../../digitize/vectorCapture.ts';
+import { straightPieces, type Straight } from '../geometry/snap.ts';
+import { loadPdfJs, pdfDocumentOptions } from './pdfPages.ts';
+
+type StrokeLines = ReturnType<typeof strokeLines>;
+
+export interface PageSession {
+  readonly sheet: Sheet;
+  lines(): Promise<StrokeLines>;
+  straights(): Promise<Straight[]>;
+  raster(): Promise<RasterImage>;
+  close(): Promise<void>;
+}
+
+export async function sha256Hex(bytes: Uint8Array): Promise<string> {
+  const digest = await crypto.subtle.digest('SHA-256', bytes.slice());
+  return [...new Uint8Array(digest)].map((b) => b.toString(16).padStart(2, '0')).join('');
+}
+
+/** Pixels per sheet unit at which a PDF page is read as a picture: 300 dpi. */
+export const PDF_TRACE_SCALE = 300 / 72;
+
+export async function openPageSession(bytes: Uint8Array, kind: 'pdf' | 'image', page: number, name: string, sha256: string): Promise<PageSession> {
+  let sheet: Sheet;
+  if (kind === 'pdf') {
+    const pdfjs = await loadPdfJs();
+    sheet = await openPdfSheet(pdfjs, bytes, {
+      page,
+      name: `"${name}"`,
+      sha256,
+      documentOptions: pdfDocumentOptions(),
+      createCanvas: (w, h) => new OffscreenCanvas(w, h) as unknown as { getContext(kind: '2d'): unknown },
+    });
+  } else {
+    sheet = await loadImageSheetBrowser(bytes, { name });
+  }
+  let lines: Promise<StrokeLines> | null = null;
+  let straights: Promise<Straight[]> | null = null;
+  let raster: Promise<RasterImage> | null = null;
+  return {
+    sheet,
+    lines: () => (lines ??= sheet.paths().then((p) => strokeLines(p))),
+    straights: () => (straights ??= sheet.paths().then((p) => straightPieces(p))),
+    raster: () => (raster ??= sheet.render(sheet.kind === 'image' ? 1 : PDF_TRACE_SCALE)),
+    close: () => sheet.close(),
+  };
+}

@@ -1,0 +1,37 @@
+/**
+ * What the page may ask the sheet worker, and what each request answers.
+ * Sheet rectangles are [x, y, w, h] in sheet units (PDF points or image pixels, y down).
+ */
+import type { SheetKind as LoadedKind } from '../../digitize/sheet.ts';
+import type { Snap } from '../geometry/snap.ts';
+import type { PageSize } from './pdfPages.ts';
+import type { SheetKind } from './sheetSource.ts';
+
+export type Rect = readonly [number, number, number, number];
+export type XY = [number, number];
+
+export interface CaptureRequest {
+  guides: XY[];
+  method: 'auto' | 'vector' | 'raster';
+}
+
+export interface CaptureAnswer {
+  points: XY[];
+  /** How the points were found. */
+  used: 'vector' | 'raster';
+  /** Sentences about stretches the tracer could not see, empty when it followed the line throughout. */
+  gaps: string[];
+}
+
+export interface Requests {
+  open: { args: { bytes: ArrayBuffer; mime: string; name: string }; result: { kind: SheetKind; pages: PageSize[]; sha256: string } };
+  render: { args: { page: number; scale: number; rect: Rect }; result: { bitmap: ImageBitmap; scale: number; rect: Rect } };
+  thumbnail: { args: { page: number; size: number }; result: { bitmap: ImageBitmap } };
+  /** Reads the chosen page for the take-off: vector strokes, text, or pixels. */
+  prepare: { args: { page: number }; result: { kind: LoadedKind; width: number; height: number; texts: number; strokes: number } };
+  capture: { args: CaptureRequest; result: CaptureAnswer };
+  snap: { args: { at: XY; radius: number }; result: Snap | null };
+}
+
+export type RequestName = keyof Requests;
+export type Request = { [K in RequestName]: { op: K; args: Requests[K]['args'] } }[RequestName];

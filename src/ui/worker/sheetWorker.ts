@@ -1,0 +1,93 @@
+/**
+ * The sheet worker: opens the sheet, draws pages and regions, and runs the tracers, so
+ * that the page stays responsive while it works. Requests are answered in order.
+ */
+/// <reference lib="webworker" />
+import type { WorkerCall, WorkerReply, Progress } from './rpc.ts';
+import type { Request, Requests } from './protocol.ts';
+import { openSheetSource, type SheetSource } from './sheetSource.ts';
+import { openPageSession, sha256Hex, type PageSession } from './pageSession.ts';
+import { captureOnPage } from './captureOnPage.ts';
+import { snapToRaster, snapToStraights } from '../geometry/snap.ts';
+
+declare const self: DedicatedWorkerGlobalScope;
+
+let source: SheetSource | null = null;
+let opened: { bytes: Uint8Array; name: string; sha256: string } | null = null;
+let session: PageSession | null = null;
+
+function requireSource(): SheetSource {
+  if (!source) throw new Error('No sheet is open in the worker.');
+  return source;
+}
+
+function requireSession(): PageSession {
+  if (!session) throw new Error('No page has been read for the take-off yet.');
+  return session;
+}
+
+type Handler<K extends keyof Requests> = (args: Requests[K]['args'], progress: (p: Progress) => void) => Promise<{ result: Requests[K]['result']; transfer?: Transferable[] }>;
+
+const handlers: { [K in keyof Requests]: Handler<K> } = {
+  async open(args, progress) {
+    progress({ fraction: null, label: `Opening ${args.name}` });
+    const bytes = new Uint8Array(args.bytes);
+    const next = await openSheetSource(bytes, args.mime, args.name);
+    source?.close();
+    await session?.close().catch(() => undefined);
+    session = null;
+    source = next;
+    opened = { bytes, name: args.name, sha256: await sha256Hex(bytes) };
+    return { result: { kind: next.kind, pages: [...next.pages], sha256: opened.sha256 } };
+  },
+  async render(args) {
+    const bitmap = await requireSource().render(args.page, args.scale, args.rect);
+    return { result: { bitmap, scale: args.scale, rect: args.rect }, transfer: [bitmap] };
+  },
+  async thumbnail(args) {
+    const s = requireSource();
+    const size = s.pages[args.page - 1];
+    if (!size) throw new Error(`The sheet has no page ${args.page}.`);
+    const scale = args.size / Math.max(size.width, size.height);
+    const bitmap = await s.render(args.page, scale, [0, 0, size.width, size.height]);
+    return { result: { bitmap }, transfer: [bitmap] };
+  },
+  async prepare(args, progress) {
+    const s = requireSource();
+    if (!opened) throw new Error('No sheet is open in the worker.');
+    progress({ fraction: 0.1, label: `Reading page ${args.page}` });
+    await session?.close().catch(() => undefined);
+    session = null;
+    const next = await openPageSession(opened.bytes, s.kind, args.page, opened.name, opened.sha256);
+    session = next;
+    progress({ fraction: 0.5, label: 'Reading the drawn lines and text' });
+    const [paths, texts] = await Promise.all([next.sheet.paths(), next.sheet.text()]);
+    if (next.sheet.kind === 'vector-pdf') await next.lines();
+    else {
+      progress({ fraction: 0.7, label: 'Reading the picture' });
+      await next.raster();
+    }
+    return { result: { kind: next.sheet.kind, width: next.sheet.width, height: next.sheet.height, texts: texts.length, strokes: paths.length } };
+  },
+  async capture(args, progress) {
+    return { result: await captureOnPage(requireSession(), args, progress) };
+  },
+  async snap(args) {
+    const s = requireSession();
+    if (s.sheet.kind === 'vector-pdf') return { result: snapToStraights(await s.straights(), args.at, args.radius) };
+    return { result: snapToRaster(await s.raster(), args.at, args.radius) };
+  },
+};
+
+self.onmessage = async (event: MessageEvent<WorkerCall<Request>>) => {
+  const { id, request } = event.data;
+  const post = (reply: WorkerReply<unknown>, transfer: Transferable[] = []) => self.postMessage(reply, transfer);
+  try {
+    const handler = handlers[request.op] as Handler<typeof request.op>;
+    const { result, transfer } = await handler(request.args as never, (progress) => post({ id, kind: 'progress', progress }));
+    post({ id, kind: 'result', result }, transfer ?? []);
+  } catch (error) {
+    const e = error instanceof Error ? error : new Error(String(error));
+    post({ id, kind: 'error', name: e.name, message: e.message });
+  }
+};
