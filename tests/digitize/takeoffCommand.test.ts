@@ -1,0 +1,86 @@
+import { describe, expect, it, beforeAll } from 'vitest';
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, readFileSync, writeFileSync, existsSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { CurveSet } from '../../src/model/curveset.ts';
+import { parseTakeoff } from '../../src/model/takeoff.ts';
+import { makePumpSheetPdf, pumpTakeoff } from './fixtures/pumpSheet.ts';
+
+const root = join(import.meta.dirname, '..', '..');
+
+function pumpscribe(...args: string[]) {
+  const r = spawnSync(process.execPath, [join(root, 'node_modules', 'tsx', 'dist', 'cli.mjs'), join(root, 'src', 'cli', 'main.ts'), ...args], { encoding: 'utf8' });
+  return { code: r.status, stdout: r.stdout, stderr: r.stderr };
+}
+
+describe('pumpscribe takeoff', () => {
+  let dir: string;
+  beforeAll(async () => {
+    dir = mkdtempSync(join(tmpdir(), 'pumpscribe-cli-'));
+    writeFileSync(join(dir, 'sheet.pdf'), await makePumpSheetPdf());
+    writeFileSync(join(dir, 'pump.takeoff.json'), JSON.stringify(pumpTakeoff('iso'), null, 2));
+  });
+
+  it('writes a checked curve set and exits 0, and --save-points writes the captured points back for replay', () => {
+    const file = join(dir, 'pump.takeoff.json');
+    const out = join(dir, 'pump.curveset.json');
+    const run = pumpscribe('takeoff', file, '-o', out, '--save-points');
+    expect(run.stderr).toBe('');
+    expect(run.code).toBe(0);
+    const set = CurveSet.parse(JSON.parse(readFileSync(out, 'utf8')));
+    expect(set.members).toHaveLength(3);
+    const saved = parseTakeoff(JSON.parse(readFileSync(file, 'utf8')));
+    expect(saved.sheet_sha256).toBe(set.provenance.source?.sha256);
+    expect(saved.traces.every((t) => (t.captured?.length ?? 0) >= 2)).toBe(true);
+
+    // Replaying from the saved points gives the same curves (to the 1e-4 rounding of the saved points).
+    const again = join(dir, 'again.curveset.json');
+    expect(pumpscribe('takeoff', file, '-o', again, '--use-captured', '-q').code).toBe(0);
+    const set2 = CurveSet.parse(JSON.parse(readFileSync(again, 'utf8')));
+    const h1 = set.members[0]!.curves.head!.fit!.coefficients;
+    const h2 = set2.members[0]!.curves.head!.fit!.coefficients;
+    h1.forEach((c, i) => expect(Math.abs(c - h2[i]!)).toBeLessThan(1e-4 * Math.max(1, Math.abs(c))));
+  });
+
+  it('exits 1 when a check fails (power inconsistent with head and efficiency)', () => {
+    const doc = pumpTakeoff('iso') as { pump: Record<string, unknown> };
+    doc.pump.specific_gravity = 1.6; // the sheet's power was drawn for water
+    const file = join(dir, 'heavy.takeoff.json');
+    writeFileSync(file, JSON.stringify(doc));
+    const run = pumpscribe('takeoff', file, '-o', join(dir, 'heavy.curveset.json'), '-q');
+    expect(run.code).toBe(1);
+  });
+
+  const bad: [string, (d: Record<string, unknown>) => void, RegExp][] = [
+    ['a take-off without panels', (d) => delete d.panels, /^pumpscribe: The take-off file ".*" is not valid — panels:/],
+    ['a missing sheet', (d) => (d.sheet = 'nowhere.pdf'), /^pumpscribe: The sheet file ".*nowhere.pdf" does not exist/],
+    ['a damaged sheet', (d) => (d.sheet = 'damaged.pdf'), /^pumpscribe: The PDF "damaged.pdf" is damaged/],
+    ['an unknown unit', (d) => ((d.units as Record<string, string>).flow = 'furlongs'), /^pumpscribe: Unknown flow unit "furlongs"/],
+    ['degenerate anchors', (d) => ((d.panels as { anchors: unknown[] }[])[0]!.anchors = [{ at: [80, 360], x: 0, y: 0 }, { at: [80, 360], x: 1600, y: 0 }, { at: [80, 60], x: 0, y: 200 }]), /^pumpscribe: Panel "head": anchors 1 and 2 sit on the same sheet point/],
+    ['guides on no drawn line', (d) => ((d.traces as { guides: number[][]; method?: string }[])[0]!.guides = [[300, 700], [310, 710]]) && (((d.traces as { method?: string }[])[0]!.method = 'vector'), true), /^pumpscribe: Trace H13 \(head at diameter 13 on panel "head"\): No drawn line passes/],
+  ];
+  for (const [name, spoil, message] of bad) {
+    it(`gives one sentence and exit 2 for ${name}`, () => {
+      writeFileSync(join(dir, 'damaged.pdf'), Buffer.concat([Buffer.from('%PDF-1.7\n'), Buffer.alloc(500, 0x41)]));
+      const doc = pumpTakeoff('iso');
+      spoil(doc);
+      const file = join(dir, `bad-${name.replace(/\W+/g, '-')}.takeoff.json`);
+      writeFileSync(file, JSON.stringify(doc));
+      const out = join(dir, 'never.curveset.json');
+      const run = pumpscribe('takeoff', file, '-o', out);
+      expect(run.code).toBe(2);
+      expect(run.stderr).toMatch(message);
+      expect(run.stderr.trim().split('\n')).toHaveLength(1);
+      expect(existsSync(out)).toBe(false);
+    });
+  }
+
+  it('gives one sentence and exit 2 for a file that is not JSON', () => {
+    const file = join(dir, 'broken.takeoff.json');
+    writeFileSync(file, '{ "sheet": ');
+    const run = pumpscribe('takeoff', file, '-o', join(dir, 'x.json'));
+    expect(run.code).toBe(2);
+    expect(run.stderr).toMatch(/^pumpscribe: The take-off file ".*" is not valid JSON/);
+  });
+});
