@@ -137,6 +137,16 @@ export function chooseDegree(points: readonly CurvePoint[], quantity: Quantity, 
   // ends of the range would then exceed the reading accuracy even though the RMS does not.
   const good = valid.find((c) => c.withinTolerance && misfitRemovedByNext(c, candidates, tolerance) === undefined);
   if (good) {
+    const simpler = statisticallyEquivalentLower(good, valid, tolerance);
+    if (simpler) {
+      const test = nestedFTest(simpler.fit.ssr, good.fit.ssr, good.fit.parameters - simpler.fit.parameters, good.fit.points - good.fit.parameters);
+      return finish(
+        simpler,
+        candidates,
+        false,
+        `degree ${simpler.degree}: RMS ${fmt(simpler.fit.rms)}, just above the ${fmt(tolerance)} reading accuracy, but degree ${good.degree} (RMS ${fmt(good.fit.rms)}) is not significantly better (partial F-test p = ${test.pValue.toFixed(2)}), so the extra terms would only follow the reading noise.`,
+      );
+    }
     return finish(good, candidates, true, reasonWithin(good, candidates, tolerance, fmt));
   }
   if (valid.length === 0) {
@@ -188,6 +198,26 @@ function misfitRemovedByNext(c: DegreeCandidate & { fit: PolynomialFitResult }, 
   const nextFit = next.fit;
   const change = Math.max(...linspace(a, b, 201).map((q) => Math.abs(evaluateUnchecked(nextFit, q) - evaluateUnchecked(c.fit, q))));
   return change > tolerance ? change : undefined;
+}
+
+/**
+ * When the noise is about the size of the reading accuracy, the hard RMS limit can pass over
+ * a low degree that misses it by a hair in favour of a high one that merely follows the
+ * noise. A lower shape-valid degree within 25 % above the accuracy is preferred when the
+ * partial F-test does not find the higher degree significantly better (95 % level).
+ */
+function statisticallyEquivalentLower(
+  good: DegreeCandidate & { fit: PolynomialFitResult },
+  valid: (DegreeCandidate & { fit: PolynomialFitResult })[],
+  tolerance: number,
+): (DegreeCandidate & { fit: PolynomialFitResult }) | undefined {
+  const dof = good.fit.points - good.fit.parameters;
+  if (dof <= 0) return undefined;
+  return valid.find((c) => {
+    if (c.degree >= good.degree || c.fit.rms > 1.25 * tolerance) return false;
+    const test = nestedFTest(c.fit.ssr, good.fit.ssr, good.fit.parameters - c.fit.parameters, dof);
+    return test.pValue >= F_TEST_LEVEL;
+  });
 }
 
 function finish(chosen: DegreeCandidate & { fit: PolynomialFitResult }, candidates: DegreeCandidate[], withinTolerance: boolean, reason: string): DegreeChoice {

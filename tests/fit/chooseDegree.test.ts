@@ -8,7 +8,7 @@ import { FitError } from '../../src/fit/fitError.ts';
 import { evaluateUnchecked, linspace } from '../../src/fit/polynomial.ts';
 import { interiorExtrema, lowestValue } from '../../src/fit/shape.ts';
 import { PolynomialFit, type CurvePoint } from '../../src/model/curveset.ts';
-import { seededNormal } from '../helpers/random.ts';
+import { seededNormal, seededRandom } from '../helpers/random.ts';
 
 const Q_MAX = 0.05;
 const flows = linspace(0, Q_MAX, 13);
@@ -199,5 +199,25 @@ describe('bad curve input', () => {
   it('fits three points with a straight line, the only degree that leaves a degree of freedom', () => {
     const fit = fitCurve(three, 'head', { tolerance: 5 });
     expect(fit.degree).toBe(1);
+  });
+});
+
+describe('noise about the size of the reading accuracy', () => {
+  it('keeps the low degree when a higher one only follows the noise (partial F-test)', () => {
+    // Invented quadratic NPSHr-like curve with uniform reading noise whose RMS is just above the stated accuracy.
+    const random = seededRandom(31);
+    const points = Array.from({ length: 15 }, (_, i) => {
+      const q = 0.01 + (0.09 * i) / 14;
+      return [q, 2 + 300 * q * q + (random() * 2 - 1) * 0.05] as [number, number];
+    });
+    let chosen = 0;
+    let reasons = '';
+    for (const tolerance of [0.024, 0.026, 0.028]) {
+      const fit = fitCurve(points, 'npshr', { tolerance });
+      chosen = Math.max(chosen, fit.degree);
+      reasons += fit.reason;
+    }
+    expect(chosen).toBe(2);
+    expect(reasons).toMatch(/degree 2/);
   });
 });
