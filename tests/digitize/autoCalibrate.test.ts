@@ -1,0 +1,77 @@
+import { describe, expect, it } from 'vitest';
+import { proposePanels, numericLabels } from '../../src/digitize/autoCalibrate.ts';
+import { loadPdfSheetNode } from '../../src/digitize/loaders/pdfNode.ts';
+import { sheetPoint } from '../../src/digitize/points.ts';
+import { LAYOUT, makePumpSheetPdf } from './fixtures/pumpSheet.ts';
+import { drawPdf, rgb } from './fixtures/pdfBytes.ts';
+
+describe('proposing panel calibrations from tick labels', () => {
+  it('finds the three panels of a sheet and calibrates each from its labelled ticks', async () => {
+    const sheet = await loadPdfSheetNode(await makePumpSheetPdf());
+    const proposals = proposePanels(await sheet.text(), await sheet.paths());
+    await sheet.close();
+    expect(proposals).toHaveLength(3);
+    const [headPanel, effPanel, powerPanel] = proposals;
+    expect(headPanel!.xScale).toBe('linear');
+    expect(headPanel!.x.labels.map((l) => l.value)).toEqual([0, 400, 800, 1200, 1600]);
+    expect(headPanel!.y.labels.map((l) => l.value).sort((a, b) => a - b)).toEqual([0, 40, 80, 120, 160, 200]);
+    // The proposal reproduces the drawing's own mapping (labels snapped onto their lines): 1e-6 of the span.
+    const d = headPanel!.calibration.toData(sheetPoint(LAYOUT.x(1234), LAYOUT.head.y(77.7)));
+    expect(Math.abs(d[0] - 1234)).toBeLessThan(1e-6 * 1600);
+    expect(Math.abs(d[1] - 77.7)).toBeLessThan(1e-6 * 200);
+    const e = effPanel!.calibration.toData(sheetPoint(LAYOUT.x(500), LAYOUT.eff.y(42)));
+    expect(e[1]).toBeCloseTo(42, 5);
+    const p = powerPanel!.calibration.toData(sheetPoint(LAYOUT.x(500), LAYOUT.power.y(42)));
+    expect(p[1]).toBeCloseTo(42, 5);
+    expect(headPanel!.calibration.maxPercentOfSpan).toBeLessThan(1e-4);
+  });
+
+  it('recognises log axes from labels whose log10 spaces evenly', async () => {
+    // Log–log chart: x = 100 + 150·log10(Q/10), Q 10…10000; y = 400 − 120·log10(H), H 1…100.
+    const X = (q: number) => 100 + 150 * Math.log10(q / 10);
+    const Y = (h: number) => 400 - 120 * Math.log10(h);
+    const bytes = await drawPdf(612, 500, (d) => {
+      for (const q of [10, 100, 1000, 10000]) {
+        d.stroke(`M ${X(q)} 160 L ${X(q)} 404`, rgb(0.6, 0.6, 0.6), 0.4);
+        const w = d.font.widthOfTextAtSize(String(q), 9);
+        d.text(String(q), X(q) - w / 2, 414, 9);
+      }
+      for (const h of [1, 10, 100]) {
+        d.stroke(`M 96 ${Y(h)} L 550 ${Y(h)}`, rgb(0.6, 0.6, 0.6), 0.4);
+        const w = d.font.widthOfTextAtSize(String(h), 9);
+        d.text(String(h), 92 - w, Y(h) + 3.15, 9);
+      }
+      d.text('Flow', 300, 440, 9);
+    });
+    const sheet = await loadPdfSheetNode(bytes);
+    const [panel] = proposePanels(await sheet.text(), await sheet.paths());
+    await sheet.close();
+    expect(panel).toBeDefined();
+    expect(panel!.xScale).toBe('log');
+    expect(panel!.yScale).toBe('log');
+    const d = panel!.calibration.toData(sheetPoint(X(316.23), Y(31.6)));
+    expect(d[0] / 316.23 - 1).toBeCloseTo(0, 6);
+    expect(d[1] / 31.6 - 1).toBeCloseTo(0, 6);
+  });
+
+  it('proposes nothing for a page without numeric labels on lines', async () => {
+    const bytes = await drawPdf(300, 300, (d) => {
+      d.text('Head 13 in', 20, 40, 9);
+      d.text('100', 200, 200, 9); // a lone number beside no line
+      d.stroke('M 10 10 L 200 150');
+    });
+    const sheet = await loadPdfSheetNode(bytes);
+    expect(proposePanels(await sheet.text(), await sheet.paths())).toEqual([]);
+    await sheet.close();
+  });
+
+  it('reads thousands separators and percent signs as numbers, and skips rotated text', () => {
+    const labels = numericLabels([
+      { text: '1,200', at: sheetPoint(0, 0), size: 8, width: 20, angle: 0 },
+      { text: '80%', at: sheetPoint(0, 20), size: 8, width: 14, angle: 0 },
+      { text: '40', at: sheetPoint(0, 40), size: 8, width: 9, angle: -Math.PI / 2 },
+      { text: '12 in', at: sheetPoint(0, 60), size: 8, width: 18, angle: 0 },
+    ]);
+    expect(labels.map((l) => l.value)).toEqual([1200, 80]);
+  });
+});
