@@ -5,18 +5,7 @@
 import type { Quantity } from '../model/curveset.ts';
 import { fromSI, parseUnit, presetNamed } from '../units/index.ts';
 import type { InventedFamily } from './inventedFamily.ts';
-
-/** mulberry32: a small seeded generator, uniform in [0, 1). */
-export function seeded(seed: number): () => number {
-  let state = seed >>> 0;
-  return () => {
-    state = (state + 0x6d2b79f5) >>> 0;
-    let t = state;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+import { seededRandom } from './random.ts';
 
 export interface SampleOptions {
   system: 'us' | 'si';
@@ -38,7 +27,7 @@ export interface SampleRow {
 }
 
 export function samplePoints(fam: InventedFamily, o: SampleOptions): SampleRow[] {
-  const random = seeded(o.seed ?? 1);
+  const random = seededRandom(o.seed ?? 1);
   const noise = o.noise ?? 0.003;
   const n = o.pointsPerCurve ?? 15;
   const units = presetNamed(o.system);
