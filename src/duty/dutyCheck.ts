@@ -9,7 +9,7 @@ import { familyFigures } from '../fit/checks/speedFigures.ts';
 import { NSS_US_CAUTION } from '../fit/specificSpeed.ts';
 import { parallelPumps, pumpCurveAtSpeed, pumpCurveOfMember, type PumpCurve } from './pumpCurve.ts';
 import { figuresAt, operatingPoint, type OperatingPointResult, type PointFigures } from './operatingPoint.ts';
-import { fitSystemCurve, systemCurveThroughDuty, type SystemCurve } from './systemCurve.ts';
+import { fitSystemCurve, systemCurveThroughDuty, systemHead, type SystemCurve } from './systemCurve.ts';
 import { curveAtDiameter, meetDuty, type DutyMatch } from './meetDuty.ts';
 import { parallelOperation, type ParallelResult } from './parallel.ts';
 import { speedToDuty, type SpeedResult } from './speed.ts';
@@ -30,6 +30,8 @@ export interface DutyCheckInput {
   system_points?: ReadonlyArray<readonly [number, number]>;
   system_exponent?: number;
   density_kg_m3?: number;
+  /** Further impeller diameters [m] (trims between or below the captured ones) to give operating points for. */
+  extra_diameters_m?: number[];
   /** Identical pumps running in parallel (1…3 typical; default 1). */
   parallel_count?: number;
   /** Also find the speed that meets the duty with the full impeller. */
@@ -50,14 +52,26 @@ export interface NpshAtPoint {
   npshr_extrapolated: boolean;
 }
 
+export interface OperatingPointEntry {
+  kind: 'captured' | 'trim';
+  diameter_m?: number;
+  label: string;
+  result: OperatingPointResult;
+  /** Each pump's figures when `parallel_count` > 1. */
+  per_pump?: PointFigures;
+}
+
 export interface DutyCheckReport {
   duty: { flow_m3s: number; head_m: number; per_pump_flow_m3s: number };
   system: SystemCurve;
   parallel_count: number;
   /** One per captured diameter (the combination of `parallel_count` pumps when more than one). */
-  operating_points: Array<{ diameter_m?: number; label: string; result: OperatingPointResult; per_pump?: PointFigures }>;
+  /** One per captured diameter, then one per requested trim ('trim'); combined for `parallel_count` pumps. */
+  operating_points: OperatingPointEntry[];
   /** The trim (or speed) meeting the duty, per pump. */
   trim: DutyMatch;
+  /** Where the selected (trimmed) pump(s) run on the system curve: the duty itself unless the system curve was fitted to a table. */
+  trim_operating_point?: OperatingPointResult;
   parallel?: ParallelResult;
   speed?: SpeedResult;
   npsh?: { site: ResolvedSite; rule: NpshMarginRule; points: NpshAtPoint[]; caution: string };
@@ -81,22 +95,30 @@ export function dutyCheck(set: CurveSet, input: DutyCheckInput): DutyCheckReport
       })
     : systemCurveThroughDuty(input.static_head_m ?? 0, input.flow_m3s, input.head_m, input.system_exponent ?? 2);
   const perPumpFlow = input.flow_m3s / count;
+  const offCurve = systemHead(system, input.flow_m3s) / input.head_m - 1;
   const problems: string[] = [];
   const warnings: string[] = [];
   const cautions: string[] = [PRELIMINARY];
   const service = input.service ?? (input.application === 'hydrocarbon' ? 'hazardous' : 'general');
   const code = serviceCaution(service);
   if (code) cautions.push(code);
+  if (Math.abs(offCurve) > 0.01) warnings.push(`The duty point lies ${(Math.abs(offCurve) * 100).toFixed(1)} % ${offCurve > 0 ? 'below' : 'above'} the system curve; the trim meets the duty point, and the pump then runs where its curve crosses the system curve.`);
   if (input.static_head_m === undefined && !input.system_points) warnings.push('No static head given: the system curve is taken as pure friction through the duty point (H = k·Q²).');
 
   const members = membersByDiameter(set).length > 0 ? membersByDiameter(set) : [...set.members].sort((a, b) => b.speed_rpm - a.speed_rpm);
-  const operating_points = members.map((m) => {
-    const single = pumpCurveOfMember(m, density, set.fluid.density_kg_m3);
+  const entryFor = (single: PumpCurve, kind: OperatingPointEntry['kind']): OperatingPointEntry => {
     const result = operatingPoint(parallelPumps(single, count), system);
-    const entry: DutyCheckReport['operating_points'][number] = { label: single.label, result, ...(m.diameter_m !== undefined ? { diameter_m: m.diameter_m } : {}) };
+    const entry: OperatingPointEntry = { kind, label: single.label, result, ...(single.diameter_m !== undefined ? { diameter_m: single.diameter_m } : {}) };
     if (result.status === 'ok' && count > 1) entry.per_pump = figuresAt(single, result.point.flow_m3s / count);
     return entry;
-  });
+  };
+  const operating_points = members.map((m) => entryFor(pumpCurveOfMember(m, density, set.fluid.density_kg_m3), 'captured'));
+  for (const d of input.extra_diameters_m ?? []) {
+    if (!(d > 0)) throw new DutyError(`An impeller diameter to evaluate must be positive, not ${d} m.`);
+    if (membersByDiameter(set).length === 0) throw new DutyError('This curve set has no impeller diameters, so no trim can be evaluated.');
+    const curve = curveAtDiameter(set, d, density);
+    operating_points.push(entryFor({ ...curve, label: `trim ${(d * 1000).toFixed(1)} mm` }, 'trim'));
+  }
 
   const trim = meetDuty(set, { flow_m3s: perPumpFlow, head_m: input.head_m, static_head_m: system.static_head_m, density_kg_m3: density });
   if (trim.status !== 'meets') problems.push(trim.message);
@@ -109,7 +131,7 @@ export function dutyCheck(set: CurveSet, input: DutyCheckInput): DutyCheckReport
     if (trim.point?.extrapolated.length) warnings.push(EXTRAPOLATION_CAUTION);
     if (trim.outside_affinity_band) warnings.push('The speed lies outside ±20 % of the captured speed, where the affinity law is less exact.');
   }
-  // The curve the installation actually runs on: the trimmed (or speed-matched) one, else the full one.
+  // The curve the installation runs on: the trimmed (or speed-matched) one; none when the duty cannot be met.
   const selected: PumpCurve | undefined = selectedCurve(set, trim, density);
 
   const report: DutyCheckReport = {
@@ -122,6 +144,7 @@ export function dutyCheck(set: CurveSet, input: DutyCheckInput): DutyCheckReport
     warnings,
     cautions,
   };
+  if (selected) report.trim_operating_point = operatingPoint(parallelPumps(selected, count), system);
 
   if (selected && count > 1) {
     report.parallel = parallelOperation(selected, count, system);

@@ -23,7 +23,7 @@ export function dutyReportText(v: DutyReportView): string {
   L.push('');
   L.push(`Operating points on the system curve${v.duty.parallel_count > 1 ? ` (${v.duty.parallel_count} pumps combined)` : ''}:`);
   for (const op of v.operating_points) {
-    const name = (op.diameter === null ? op.label : n(op.diameter, u.diameter)).padEnd(10);
+    const name = (op.diameter === null ? op.label : `${op.kind === 'trim' ? 'trim ' : ''}${n(op.diameter, u.diameter)}`).padEnd(op.kind === 'trim' ? 15 : 10);
     if (op.status !== 'ok') {
       L.push(`  ${name} ${op.message ?? op.status}`);
       continue;
@@ -39,6 +39,10 @@ export function dutyReportText(v: DutyReportView): string {
   if (t.status === 'meets') {
     if (t.method === 'trim') L.push(`  diameter ${n(t.diameter, u.diameter)} of ${n(t.full_diameter, u.diameter)} (${pc(t.diameter_ratio)}); affinity-parabola estimate ${n(t.estimate_diameter, u.diameter)}`);
     else L.push(`  speed ${n(t.speed, 'rpm')}`);
+    const op = t.operating_point;
+    if (op && op.status === 'ok' && op.flow !== null && v.duty.flow !== null && Math.abs(op.flow / v.duty.flow - 1) > 1e-3) {
+      L.push(`  on the system curve it runs at ${n(op.flow, u.flow)} and ${n(op.head, u.head)} (the system curve does not pass through the duty point)`);
+    }
     L.push(`  at ${n(t.flow, u.flow)} and ${n(t.head, u.head)}: efficiency ${pc(t.efficiency)}, power ${n(t.power, u.power)}, NPSH3 ${n(t.npshr, u.npsh, 3)}, ${pc(t.flow_to_bep, 0)} of BEP flow (POR: ${t.por_position})`);
   }
   if (v.parallel) {

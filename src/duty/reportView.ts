@@ -73,6 +73,7 @@ export function dutyReportView(report: DutyCheckReport, units: UnitSystem, sourc
       fit: sys.fit ? { rms: head(sys.fit.rms_m), max_residual: head(sys.fit.max_residual_m), points: sys.fit.points } : null,
     },
     operating_points: report.operating_points.map((op) => ({
+      kind: op.kind,
       diameter: diameter(op.diameter_m),
       label: op.label,
       status: op.result.status,
@@ -94,6 +95,13 @@ export function dutyReportView(report: DutyCheckReport, units: UnitSystem, sourc
       below_smallest_captured: t.trim_extrapolated ?? null,
       speed: t.speed_rpm ?? null,
       ...figures(t.point),
+      operating_point: report.trim_operating_point
+        ? {
+            status: report.trim_operating_point.status,
+            message: report.trim_operating_point.status === 'ok' ? null : report.trim_operating_point.message,
+            ...(report.trim_operating_point.status === 'ok' ? figures(report.trim_operating_point.point) : NO_FIGURES),
+          }
+        : null,
     },
     parallel: report.parallel
       ? {

@@ -25,6 +25,7 @@ interface DutyOptions {
   json?: boolean;
   density?: string;
   parallel?: string;
+  atDiameter?: string;
   variableSpeed?: boolean;
   elevation?: string;
   sitePressure?: string;
@@ -54,6 +55,7 @@ export function register(program: Command): void {
     .option('--units <system>', 'unit system of inputs and report: si or us', 'si')
     .option('--json', 'print the report as JSON')
     .option('--density <kg/m3>', 'density of the pumped liquid, kg/m³ (default the curve set’s liquid, or water at --temperature)')
+    .option('--at-diameter <list>', 'also give operating points for these trims, "D,D,…" (mm or in)')
     .option('--parallel <n>', 'identical pumps running in parallel (default 1)')
     .option('--variable-speed', 'also find the speed that meets the duty with the full impeller')
     .option('--elevation <z>', 'site elevation (m or ft) for the standard-atmosphere pressure')
@@ -87,6 +89,9 @@ function duty(file: string, o: DutyOptions): number {
   if (o.systemExponent !== undefined) input.system_exponent = num(o.systemExponent, '--system-exponent', 'positive');
   if (o.density !== undefined) input.density_kg_m3 = num(o.density, '--density', 'positive');
   if (o.parallel !== undefined) input.parallel_count = num(o.parallel, '--parallel', 'positive');
+  if (o.atDiameter !== undefined) {
+    input.extra_diameters_m = o.atDiameter.split(',').map((d) => toSI(num(d, '--at-diameter', 'positive'), u.diameter));
+  }
   if (o.variableSpeed) input.variable_speed = true;
   input.application = oneOf(o.application, NPSH_APPLICATIONS, '--application') as NpshApplication;
   input.service = oneOf(o.service, SERVICES, '--service') as Service;
