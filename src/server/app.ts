@@ -49,6 +49,8 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
     bodyLimit: limits.jsonBytes,
     onProtoPoisoning: 'error',
     onConstructorPoisoning: 'error',
+    // Closing the server ends keep-alive and half-sent requests instead of waiting on them.
+    forceCloseConnections: true,
     routerOptions: { maxParamLength: 200 },
   });
   app.setErrorHandler(errorHandler);

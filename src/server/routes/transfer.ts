@@ -28,12 +28,19 @@ export function transferRoutes(app: FastifyInstance, store: LibraryStore, import
 
   app.register(async (scope) => {
     scope.addContentTypeParser(NDJSON_TYPES, (_request, payload, done) => done(null, payload));
-    scope.post('/api/library/import', async (request) => {
-      const payload = request.body as AsyncIterable<Buffer> | undefined;
-      if (!payload || typeof (payload as Partial<AsyncIterable<Buffer>>)[Symbol.asyncIterator] !== 'function') {
+    scope.post('/api/library/import', async (request, reply) => {
+      const payload = request.body as Readable | undefined;
+      if (!payload || typeof payload.iterator !== 'function') {
         throw new LibraryError('Send the export as JSON Lines with Content-Type application/x-ndjson.', 'invalid');
       }
-      return importLines(store, linesOf(payload, importLimit));
+      try {
+        // Keep the request stream alive when reading stops early, so that the error reply still reaches the client.
+        return await importLines(store, linesOf(payload.iterator({ destroyOnReturn: false }), importLimit));
+      } catch (error) {
+        if (error instanceof LibraryError && error.reason === 'too-large') reply.header('Connection', 'close');
+        else payload.resume();
+        throw error;
+      }
     });
   });
 }

@@ -1,0 +1,99 @@
+import { afterEach, beforeEach, describe, expect, it } from 'vitest';
+import { join } from 'node:path';
+import { spawn } from 'node:child_process';
+import { writeFileSync } from 'node:fs';
+import { FAMILIES, inventedCurveSet } from '../library/fixtures.ts';
+import { json, postJson, startTestServer, tempDir, type TestServer } from './helpers.ts';
+
+let tmp: ReturnType<typeof tempDir>;
+let file: string;
+let server: TestServer;
+
+beforeEach(async () => {
+  tmp = tempDir();
+  file = join(tmp.dir, 'library.sqlite');
+  server = await startTestServer(file);
+});
+afterEach(async () => {
+  await server.close();
+  tmp.remove();
+});
+
+function revisionsAreComplete(id: string, count: number): void {
+  const numbers = server.store.revisions(id).map((r) => r.revision);
+  expect(numbers).toEqual(Array.from({ length: count }, (_, i) => i + 1));
+}
+
+describe('concurrent writers', () => {
+  it('200 concurrent POST and PUT requests all leave their revisions', async () => {
+    const base = inventedCurveSet(FAMILIES.mid);
+    const targets: string[] = [];
+    for (let i = 0; i < 10; i++) targets.push((await postJson(`${server.url}/api/curvesets`, base)).body.id);
+
+    const requests: Array<Promise<{ status: number; body: any }>> = [];
+    for (let i = 0; i < 100; i++) {
+      const set = { ...base, pump: { ...base.pump, name: `Invented concurrent ${i}` } };
+      requests.push(postJson(`${server.url}/api/curvesets`, set));
+      const target = targets[i % targets.length] as string;
+      requests.push(postJson(`${server.url}/api/curvesets/${target}`, { ...set, pump: { ...set.pump, name: `Invented put ${i}` } }, 'PUT'));
+    }
+    const replies = await Promise.all(requests);
+    expect(replies.filter((r) => r.status !== 201 && r.status !== 200)).toEqual([]);
+
+    const created = replies.filter((r) => r.status === 201).map((r) => r.body.id as string);
+    expect(new Set(created).size).toBe(100);
+    for (const id of created) revisionsAreComplete(id, 1);
+    for (const id of targets) revisionsAreComplete(id, 11);
+    // Each PUT reply names a distinct revision of its target.
+    const putRevisions = replies.filter((r) => r.status === 200).map((r) => `${r.body.id}:${r.body.revision}`);
+    expect(new Set(putRevisions).size).toBe(100);
+    // Every PUT's content is kept under the revision its reply named.
+    for (const r of replies.filter((x) => x.status === 200)) {
+      const stored = JSON.parse(server.store.get(r.body.id, r.body.revision).body);
+      expect(stored.pump.name).toMatch(/^Invented put \d+$/);
+    }
+    expect(server.store.counts()).toMatchObject({ entries: 110, revisions: 210 });
+  });
+
+  it('a writer in another process and the server never lose a revision of the same entry', async () => {
+    const set = inventedCurveSet(FAMILIES.small);
+    const { id } = (await postJson(`${server.url}/api/curvesets`, set)).body;
+    const script = join(tmp.dir, 'writer.ts');
+    const storeModule = join(process.cwd(), 'src', 'library', 'store.ts');
+    writeFileSync(
+      script,
+      `import { LibraryStore } from ${JSON.stringify(storeModule)};
+const [file, id, n] = process.argv.slice(2);
+const store = LibraryStore.open(file);
+const set = JSON.parse(store.get(id).body);
+process.stdout.write('ready\\n');
+for (let i = 0; i < Number(n); i++) store.addRevision(id, { ...set, pump: { ...set.pump, name: 'Invented other process ' + i } });
+store.close();
+`,
+    );
+    const child = spawn(process.execPath, ['--import', 'tsx', script, file, id, '100'], { stdio: ['ignore', 'pipe', 'pipe'] });
+    let stderr = '';
+    child.stderr.on('data', (c) => (stderr += c));
+    const exited = new Promise<number>((resolve) => child.on('exit', (code) => resolve(code ?? -1)));
+    await new Promise<void>((resolve) => {
+      child.stdout.on('data', (c: Buffer) => c.toString().includes('ready') && resolve());
+      child.on('exit', () => resolve());
+    });
+    const puts: Array<Promise<{ status: number }>> = [];
+    for (let i = 0; i < 60; i++) {
+      puts.push(postJson(`${server.url}/api/curvesets/${id}`, { ...set, pump: { ...set.pump, name: `Invented server ${i}` } }, 'PUT'));
+      if (i % 10 === 0) await new Promise((r) => setTimeout(r, 5));
+    }
+    const statuses = (await Promise.all(puts)).map((r) => r.status);
+    expect(await exited, stderr).toBe(0);
+    expect(statuses.every((s) => s === 200)).toBe(true);
+    revisionsAreComplete(id, 161);
+    const names = server.store.revisions(id).map((r) => JSON.parse(server.store.get(id, r.revision).body).pump.name as string);
+    expect(names.filter((n) => n.startsWith('Invented other process')).length).toBe(100);
+    expect(names.filter((n) => n.startsWith('Invented server')).length).toBe(60);
+    // The two writers really overlapped: their revisions interleave rather than forming two blocks.
+    const switches = names.slice(2).filter((n, i) => n.slice(0, 12) !== names[i + 1]!.slice(0, 12)).length;
+    expect(switches).toBeGreaterThan(1);
+    expect((await json(`${server.url}/api/curvesets/${id}`)).status).toBe(200);
+  });
+});
