@@ -32,6 +32,8 @@ export interface OperatorCodes {
   closeFillStroke: number;
   closeEOFillStroke: number;
   endPath: number;
+  clip: number;
+  eoClip: number;
   paintFormXObjectBegin: number;
   paintFormXObjectEnd: number;
   paintImageXObject: number;
@@ -47,7 +49,7 @@ export interface OperatorCodes {
 export const OPERATOR_NAMES: readonly (keyof OperatorCodes)[] = [
   'save', 'restore', 'transform', 'setLineWidth', 'setDash', 'setGState', 'setStrokeRGBColor', 'setFillRGBColor',
   'setStrokeTransparent', 'setFillTransparent', 'constructPath', 'stroke', 'closeStroke', 'fill', 'eoFill', 'fillStroke',
-  'eoFillStroke', 'closeFillStroke', 'closeEOFillStroke', 'endPath', 'paintFormXObjectBegin', 'paintFormXObjectEnd',
+  'eoFillStroke', 'closeFillStroke', 'closeEOFillStroke', 'endPath', 'clip', 'eoClip', 'paintFormXObjectBegin', 'paintFormXObjectEnd',
   'paintImageXObject', 'paintInlineImageXObject', 'paintImageMaskXObject', 'paintImageXObjectRepeat',
   'paintImageMaskXObjectRepeat', 'paintSolidColorImageMask', 'paintInlineImageXObjectGroup', 'paintImageMaskXObjectGroup',
 ];
@@ -84,6 +86,8 @@ interface GraphicsState {
   fill: string | null;
   lineWidth: number;
   dashed: boolean;
+  /** Bounding box of the clipping area in sheet coordinates, or null for the whole page. */
+  clip: [number, number, number, number] | null;
 }
 
 export interface OperatorListInput {
@@ -106,7 +110,9 @@ export interface PageContent {
  */
 export function readOperatorList(list: OperatorListInput, ops: OperatorCodes, viewport: Matrix, width: number, height: number): PageContent {
   const stack: GraphicsState[] = [];
-  let gs: GraphicsState = { ctm: IDENTITY, stroke: '#000000', fill: '#000000', lineWidth: 1, dashed: false };
+  let gs: GraphicsState = { ctm: IDENTITY, stroke: '#000000', fill: '#000000', lineWidth: 1, dashed: false, clip: null };
+  // A clip operator marks the next path as a clipping path (pdf.js emits it before the path).
+  let clipNext = false;
   const paths: VectorPath[] = [];
   let imageArea = 0;
   let images = 0;
@@ -155,9 +161,18 @@ export function readOperatorList(list: OperatorListInput, ops: OperatorCodes, vi
       case ops.setFillTransparent:
         gs.fill = null;
         break;
+      case ops.clip:
+      case ops.eoClip:
+        clipNext = true;
+        break;
       case ops.constructPath: {
-        const path = pathFrom(args, ops, gs, multiply(viewport, gs.ctm));
+        const m = multiply(viewport, gs.ctm);
+        const path = pathFrom(args, ops, gs, m);
         if (path) paths.push(path);
+        if (clipNext) {
+          gs.clip = intersectBoxes(gs.clip, pathBox(args, m));
+          clipNext = false;
+        }
         break;
       }
       case ops.paintImageXObject:
@@ -228,7 +243,26 @@ function pathFrom(args: unknown[] | null, ops: OperatorCodes, gs: GraphicsState,
     fill: fills ? gs.fill : null,
     lineWidth: gs.lineWidth * scale,
     dashed: gs.dashed,
+    ...(gs.clip ? { clip: gs.clip } : {}),
   };
+}
+
+/** Bounding box of a constructPath's points in sheet coordinates (an empty path clips everything away). */
+function pathBox(args: unknown[] | null, m: Matrix): [number, number, number, number] {
+  const holder = args?.[1];
+  const data = (Array.isArray(holder) ? holder[0] : holder) as ArrayLike<number> | null | undefined;
+  const segments = data ? segmentsOf(data, m) : [];
+  let box: [number, number, number, number] = [Infinity, Infinity, -Infinity, -Infinity];
+  for (const s of segments) {
+    const pts = s.kind === 'cubic' ? [s.c1, s.c2, s.to] : s.kind === 'close' ? [] : [s.to];
+    for (const p of pts) box = [Math.min(box[0], p[0]), Math.min(box[1], p[1]), Math.max(box[2], p[0]), Math.max(box[3], p[1])];
+  }
+  return box;
+}
+
+function intersectBoxes(a: [number, number, number, number] | null, b: [number, number, number, number]): [number, number, number, number] {
+  if (!a) return b;
+  return [Math.max(a[0], b[0]), Math.max(a[1], b[1]), Math.min(a[2], b[2]), Math.min(a[3], b[3])];
 }
 
 /** Decodes a pdf.js path buffer into segments in sheet coordinates. */

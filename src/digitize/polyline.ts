@@ -166,3 +166,66 @@ export function resampleEvenly(points: readonly SheetPoint[], count: number): Sh
   }
   return out;
 }
+
+/**
+ * The parts of a polyline inside the box [left, top, right, bottom] (edges included), each a
+ * polyline of its own: what a clipping rectangle lets the page show.
+ */
+export function clipPolyline(points: readonly SheetPoint[], box: readonly [number, number, number, number]): SheetPoint[][] {
+  const [x0, y0, x1, y1] = box;
+  const inside = (p: SheetPoint) => p[0] >= x0 && p[0] <= x1 && p[1] >= y0 && p[1] <= y1;
+  if (points.every(inside)) return [[...points]];
+  const out: SheetPoint[][] = [];
+  let run: SheetPoint[] = [];
+  for (let i = 0; i + 1 < points.length; i++) {
+    const a = points[i] as SheetPoint;
+    const b = points[i + 1] as SheetPoint;
+    const cut = clipSegment(a, b, box);
+    if (!cut) {
+      if (run.length >= 2) out.push(run);
+      run = [];
+      continue;
+    }
+    const [p, q] = cut;
+    const last = run.at(-1);
+    if (!last || last[0] !== p[0] || last[1] !== p[1]) {
+      if (run.length >= 2) out.push(run);
+      run = [p];
+    }
+    run.push(q);
+    if (q !== b) {
+      // Left the box: this part ends here.
+      if (run.length >= 2) out.push(run);
+      run = [];
+    }
+  }
+  if (run.length >= 2) out.push(run);
+  return out;
+}
+
+/** Liang–Barsky: the part of segment a→b inside the box, or null. Unclipped ends are returned as the same objects. */
+function clipSegment(a: SheetPoint, b: SheetPoint, box: readonly [number, number, number, number]): [SheetPoint, SheetPoint] | null {
+  const dx = b[0] - a[0];
+  const dy = b[1] - a[1];
+  let t0 = 0;
+  let t1 = 1;
+  const edges: [number, number][] = [
+    [-dx, a[0] - box[0]],
+    [dx, box[2] - a[0]],
+    [-dy, a[1] - box[1]],
+    [dy, box[3] - a[1]],
+  ];
+  for (const [p, q] of edges) {
+    if (p === 0) {
+      if (q < 0) return null;
+      continue;
+    }
+    const r = q / p;
+    if (p < 0) t0 = Math.max(t0, r);
+    else t1 = Math.min(t1, r);
+    if (t0 > t1) return null;
+  }
+  const p = t0 === 0 ? a : sheetPoint(a[0] + t0 * dx, a[1] + t0 * dy);
+  const q = t1 === 1 ? b : sheetPoint(a[0] + t1 * dx, a[1] + t1 * dy);
+  return [p, q];
+}

@@ -28,6 +28,8 @@ export interface VectorPath {
   readonly lineWidth: number;
   /** True when a dash pattern was in force. */
   readonly dashed: boolean;
+  /** Bounding box [left, top, right, bottom] of the clipping area in force, when there was one. */
+  readonly clip?: readonly [number, number, number, number];
 }
 
 /** A run of text of the text layer. */

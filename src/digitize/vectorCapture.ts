@@ -9,7 +9,7 @@
  * 4. the line is cut between the first and the last guide (a single guide takes it whole).
  */
 import { DEFAULT_FLATNESS, flattenPath } from './flatten.ts';
-import { arcLengthAt, arcLengths, dedupe, nearestOnPolyline, slice, type PolylinePosition } from './polyline.ts';
+import { arcLengthAt, arcLengths, clipPolyline, dedupe, nearestOnPolyline, slice, type PolylinePosition } from './polyline.ts';
 import type { SheetPoint } from './points.ts';
 import type { VectorPath } from './sheet.ts';
 import { joinPieces, type Piece, type StrokeLine } from './strokeJoin.ts';
@@ -51,7 +51,10 @@ export function strokePieces(paths: readonly VectorPath[], flatness = DEFAULT_FL
     if (path.stroke === null) continue;
     const style = `${path.stroke}|${path.lineWidth.toFixed(3)}|${path.dashed ? 'dash' : 'solid'}`;
     for (const line of flattenPath(path.segments, flatness)) {
-      pieces.push({ points: line.points, closed: line.closed, style, stroke: path.stroke, lineWidth: path.lineWidth });
+      // Only what the clipping area lets the page show was drawn.
+      const parts = path.clip ? clipPolyline(line.points, path.clip) : [line.points];
+      const whole = parts.length === 1 && parts[0]!.length === line.points.length;
+      for (const points of parts) pieces.push({ points, closed: line.closed && whole, style, stroke: path.stroke, lineWidth: path.lineWidth });
     }
   }
   return pieces;

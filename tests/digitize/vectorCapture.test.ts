@@ -6,6 +6,7 @@ import { sheetPoint, type SheetPoint } from '../../src/digitize/points.ts';
 import type { PathSegment, VectorPath } from '../../src/digitize/sheet.ts';
 import { loadPdfSheetNode } from '../../src/digitize/loaders/pdfNode.ts';
 import { drawPdf, rgb } from './fixtures/pdfBytes.ts';
+import { pushGraphicsState, popGraphicsState, rectangle, clip, endPath } from 'pdf-lib';
 
 const P = sheetPoint;
 type XY = [number, number];
@@ -158,5 +159,31 @@ describe('capturing from a real vector PDF', () => {
     function truth() {
       return denseTruth();
     }
+  });
+});
+
+describe('capturing only what the page shows', () => {
+  it('cuts a line drawn beyond its clipping rectangle at the rectangle', async () => {
+    const bytes = await drawPdf(400, 400, (d) => {
+      // Clip to sheet x 50…350, y 100…300 (PDF y up: 100…300 on a 400-high page).
+      d.page.pushOperators(pushGraphicsState(), rectangle(50, 100, 300, 200), clip(), endPath());
+      d.stroke('M 0 350 C 100 300 250 150 400 20', rgb(0.8, 0, 0), 1);
+      d.page.pushOperators(popGraphicsState());
+    });
+    const sheet = await loadPdfSheetNode(bytes);
+    const paths = await sheet.paths();
+    expect(paths[0]!.clip).toEqual([50, 100, 350, 300]);
+    const got = captureVector(strokeLines(paths), [P(200, 200)], { maxGuideDistance: 50 });
+    const xs = got.points.map((p) => p[0]);
+    const ys = got.points.map((p) => p[1]);
+    // Every point inside the clip box (1e-9 for rounding), and the ends on its edges.
+    expect(Math.min(...xs)).toBeGreaterThanOrEqual(50 - 1e-9);
+    expect(Math.max(...xs)).toBeLessThanOrEqual(350 + 1e-9);
+    expect(Math.min(...ys)).toBeGreaterThanOrEqual(100 - 1e-9);
+    expect(Math.max(...ys)).toBeLessThanOrEqual(300 + 1e-9);
+    const onEdge = (p: SheetPoint) => [Math.abs(p[0] - 50), Math.abs(p[0] - 350), Math.abs(p[1] - 100), Math.abs(p[1] - 300)].some((e) => e < 1e-6);
+    expect(onEdge(got.points[0]!)).toBe(true);
+    expect(onEdge(got.points.at(-1)!)).toBe(true);
+    await sheet.close();
   });
 });
