@@ -120,6 +120,7 @@ function byTrim(set: CurveSet, duty: DutyRequest, density: number): DutyMatch {
   let message = `An impeller trimmed to ${pct} % of full diameter meets the duty`;
   if (result.below_limit) message += `, a trim deeper than the usual ${Math.round(result.limit_ratio * 100)} % limit`;
   if (extrapolated) message += `, below the smallest captured diameter (affinity extrapolation)`;
+  if (point.extrapolated.includes('head')) message += `, but the duty flow lies beyond the trimmed curve's captured range (extrapolated)`;
   return {
     ...base,
     status: 'meets',

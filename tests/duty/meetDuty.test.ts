@@ -80,3 +80,13 @@ describe('meetDuty on an invented variable-speed curve set', () => {
     expect(Math.abs((m.speed_rpm ?? 0) / (SPEED * r) - 1)).toBeLessThan(1e-9);
   });
 });
+
+describe('meetDuty beyond the end of the curve', () => {
+  it('says so when the duty flow lies past the end of the trimmed curve', () => {
+    // invented set ends at 0.06·r m³/s; at 0.058 m³/s and 5 m the trim is r = √((5 + 40.37)/50) ≈ 0.95, ending at 0.057 m³/s
+    const m = meetDuty(inventedCurveSet(), { flow_m3s: 0.058, head_m: 5 });
+    expect(m.status).toBe('meets');
+    expect(m.point?.extrapolated).toContain('head');
+    expect(m.message).toMatch(/beyond the trimmed curve/);
+  });
+});

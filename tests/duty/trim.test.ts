@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import fc from 'fast-check';
 import { affinityParabolaTrim, trimToDuty, TRIM_LIMIT_RATIO } from '../../src/duty/trim.ts';
 import type { PumpCurve } from '../../src/duty/pumpCurve.ts';
 import { trimByParabola } from '../../src/fit/affinity.ts';
@@ -72,5 +73,31 @@ describe('affinityParabolaTrim', () => {
     const ours = affinityParabolaTrim(inventedCurveAt(D_FULL), D_FULL, 0.028, 33);
     const theirs = trimByParabola(fit, D_FULL, 0.028, 33);
     expect(Math.abs((ours?.diameter_m ?? 0) / (theirs?.diameter_m ?? 1) - 1)).toBeLessThan(1e-9);
+  });
+});
+
+describe('trimToDuty, property', () => {
+  it('for any invented quadratic family obeying the affinity law and any reachable duty, the curve at the returned diameter passes through the duty within 1e-7 m', () => {
+    fc.assert(
+      fc.property(
+        fc.double({ min: 10, max: 200, noNaN: true }), // shutoff head at full diameter [m]
+        fc.double({ min: 0.3, max: 0.9, noNaN: true }), // head falls to this fraction at the end of curve
+        fc.double({ min: 0.01, max: 0.5, noNaN: true }), // end-of-curve flow [m³/s]
+        fc.double({ min: 0.82, max: 0.99, noNaN: true }), // wanted trim ratio
+        fc.double({ min: 0.2, max: 0.9, noNaN: true }), // duty flow as a fraction of the trimmed end of curve
+        (h0, fall, qEnd, r, f) => {
+          const a = (h0 * (1 - fall)) / (qEnd * qEnd);
+          const curveAt = (d: number): PumpCurve => {
+            const k = d / 0.3;
+            return { label: 'invented', diameter_m: d, speed_rpm: 1450, domain: [0, qEnd * k], head: (q) => h0 * k * k - a * q * q };
+          };
+          const q = f * qEnd * r;
+          const h = h0 * r * r - a * q * q;
+          const result = trimToDuty({ curveAt, full_diameter_m: 0.3, min_diameter_m: 0.2 }, q, h);
+          return result.status === 'ok' && Math.abs(curveAt(result.diameter_m).head(q) - h) < 1e-7 && Math.abs(result.ratio - r) < 1e-7;
+        },
+      ),
+      { numRuns: 300, seed: 42 },
+    );
   });
 });
