@@ -58,11 +58,36 @@ interface Segment {
 
 const NUMBER = /^[-−]?(\d{1,3}(,\d{3})+|\d+)(\.\d+)?%?$/;
 
-/** Numeric labels of the text layer, level text only; a run like "0 200 400" is split into its numbers. */
+/**
+ * Numeric labels of the text layer, level text only; a run like "0 200 400" is split into its
+ * numbers, and a "10" with a small raised number after it (a log axis's 10²) reads as the power.
+ */
 export function numericLabels(text: readonly SheetText[]): Label[] {
+  const level = text.filter((t) => Math.abs(Math.sin(t.angle)) <= 0.02 && t.size > 0);
+  const used = new Set<SheetText>();
   const out: Label[] = [];
-  for (const t of text) {
-    if (Math.abs(Math.sin(t.angle)) > 0.02 || t.size <= 0) continue;
+  for (const base of level) {
+    if (base.text.trim() !== '10') continue;
+    const right = base.at[0] + base.width;
+    const exponent = level.find(
+      (t) =>
+        t !== base &&
+        /^[-−]?\d+$/.test(t.text.trim()) &&
+        t.size < 0.9 * base.size &&
+        Math.abs(t.at[0] - right) <= 0.3 * base.size &&
+        base.at[1] - t.at[1] >= 0.2 * base.size &&
+        base.at[1] - t.at[1] <= 0.9 * base.size,
+    );
+    if (!exponent) continue;
+    used.add(base).add(exponent);
+    const power = Number(exponent.text.trim().replace('−', '-'));
+    const left = base.at[0];
+    const r = exponent.at[0] + exponent.width;
+    // The digits of the base stand for the label's place: its middle is the middle of the whole.
+    out.push({ value: 10 ** power, text: `10^${power}`, cx: (left + r) / 2, cy: base.at[1] - 0.35 * base.size, left, right: r, top: base.at[1] - 0.7 * base.size, bottom: base.at[1], size: base.size, baseline: base.at[1] });
+  }
+  for (const t of level) {
+    if (used.has(t)) continue;
     const raw = t.text.trim();
     const tokens = raw.split(/\s+/);
     if (!tokens.every((k) => NUMBER.test(k))) continue;
@@ -214,29 +239,42 @@ export function proposePanels(text: readonly SheetText[], paths: readonly Vector
     }
   }
 
-  // Columns of labels (same right edge) beside horizontal lines: value axes.
+  // Columns of labels beside horizontal lines: value axes. Labels left of a panel align on their
+  // right edges, labels right of it on their left edges, some sheets centre them.
   const yAxes: Found[] = [];
-  const byRight = [...labels].sort((a, b) => a.right - b.right || a.cy - b.cy);
-  for (const column of groupBy(byRight, (a, b) => Math.abs(a.right - b.right) <= 0.6 * Math.min(a.size, b.size))) {
-    const sorted = column.sort((a, b) => a.cy - b.cy);
-    for (const run of runs(sorted, (l) => l.cy)) {
-      const snapped = run.flatMap((l) => {
-        const at = snap(l, horizontal, 'y');
-        return at === null ? [] : [{ value: l.value, at, text: l.text }];
-      });
-      const axis = axisFrom(snapped);
-      if (axis) yAxes.push({ axis, across: Math.max(...run.map((l) => l.right)), from: Math.min(...snapped.map((s) => s.at)), to: Math.max(...snapped.map((s) => s.at)) });
+  const seen = new Set<string>();
+  const alignments: ((l: Label) => number)[] = [(l) => l.right, (l) => l.left, (l) => (l.left + l.right) / 2];
+  for (const key of alignments) {
+    const sorted = [...labels].sort((a, b) => key(a) - key(b) || a.cy - b.cy);
+    for (const column of groupBy(sorted, (a, b) => Math.abs(key(a) - key(b)) <= 0.6 * Math.min(a.size, b.size))) {
+      const byY = column.sort((a, b) => a.cy - b.cy);
+      for (const run of runs(byY, (l) => l.cy)) {
+        const snapped = run.flatMap((l) => {
+          const at = snap(l, horizontal, 'y');
+          return at === null ? [] : [{ value: l.value, at, text: l.text }];
+        });
+        const axis = axisFrom(snapped);
+        if (!axis) continue;
+        const signature = snapped.map((t) => `${t.value}@${t.at.toFixed(3)}`).join('|');
+        if (seen.has(signature)) continue;
+        seen.add(signature);
+        const middle = run.reduce((sum, l) => sum + (l.left + l.right) / 2, 0) / run.length;
+        yAxes.push({ axis, across: middle, from: Math.min(...snapped.map((t) => t.at)), to: Math.max(...snapped.map((t) => t.at)) });
+      }
     }
   }
 
   const proposals: PanelProposal[] = [];
   for (const y of yAxes.sort((a, b) => a.from - b.from)) {
     // The flow axis of a panel is the nearest row of flow labels below its lowest value label,
-    // to the right of the value labels (a shared flow axis may serve several panels).
-    const below = xAxes.filter((x) => x.across >= y.to - 1 && x.to > y.across).sort((a, b) => a.across - b.across);
+    // beside the value labels on either side (a shared flow axis may serve several panels).
+    const beside = (x: Found) => y.across >= x.from - 0.15 * (x.to - x.from) && y.across <= x.to + 0.15 * (x.to - x.from);
+    const below = xAxes.filter((x) => x.across >= y.to - 1 && beside(x)).sort((a, b) => a.across - b.across);
     const x = below[0];
     if (!x) continue;
-    const left = x.from;
+    // Axis anchors need only lie on lines parallel to their axis: the value labels' lines are
+    // read at one x, the flow labels' lines at one y.
+    const left = Math.abs(y.across - x.from) <= Math.abs(y.across - x.to) ? x.from : x.to;
     const bottom = y.to;
     const anchors: AnchorInput[] = [
       ...x.axis.labels.map((l) => ({ at: [l.at, bottom] as [number, number], x: l.value })),

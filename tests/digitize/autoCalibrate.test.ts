@@ -54,6 +54,56 @@ describe('proposing panel calibrations from tick labels', () => {
     expect(d[1] / 31.6 - 1).toBeCloseTo(0, 6);
   });
 
+  it('finds a second value axis on the right of a panel (left-aligned labels) sharing the flow axis', async () => {
+    // Head 0…200 ft on the left, efficiency 0…100 % on the right, of one plot 80…560 × 60…360.
+    const bytes = await drawPdf(612, 420, (d) => {
+      for (let q = 0; q <= 1600; q += 400) {
+        d.stroke(`M ${80 + 0.3 * q} 360 L ${80 + 0.3 * q} 364`);
+        const w = d.font.widthOfTextAtSize(String(q), 8);
+        d.text(String(q), 80 + 0.3 * q - w / 2, 373, 8);
+      }
+      for (let h = 0; h <= 200; h += 50) {
+        d.stroke(`M 76 ${360 - 1.5 * h} L 80 ${360 - 1.5 * h}`);
+        d.text(String(h), 74 - d.font.widthOfTextAtSize(String(h), 8), 360 - 1.5 * h + 2.8, 8);
+      }
+      for (let e = 0; e <= 100; e += 20) {
+        d.stroke(`M 560 ${360 - 3 * e} L 564 ${360 - 3 * e}`);
+        d.text(String(e), 566, 360 - 3 * e + 2.8, 8);
+      }
+      d.stroke('M 80 60 L 560 60 L 560 360 L 80 360 Z');
+    });
+    const sheet = await loadPdfSheetNode(bytes);
+    const proposals = proposePanels(await sheet.text(), await sheet.paths());
+    await sheet.close();
+    expect(proposals).toHaveLength(2);
+    const right = proposals.find((p) => p.y.labels.some((l) => l.value === 100 && Math.abs(l.at - 60) < 1e-6))!;
+    const left = proposals.find((p) => p.y.labels.some((l) => l.value === 200))!;
+    expect(right.calibration.toData(sheetPoint(300, 360 - 3 * 84))[1]).toBeCloseTo(84, 5);
+    expect(left.calibration.toData(sheetPoint(300, 360 - 1.5 * 84))[1]).toBeCloseTo(84, 5);
+    expect(right.calibration.toData(sheetPoint(80 + 0.3 * 700, 200))[0]).toBeCloseTo(700, 5);
+  });
+
+  it('reads a log axis labelled 10 with raised exponents as powers of ten', async () => {
+    const X = (q: number) => 100 + 150 * Math.log10(q);
+    const bytes = await drawPdf(612, 300, (d) => {
+      for (const k of [0, 1, 2, 3]) {
+        d.stroke(`M ${X(10 ** k)} 50 L ${X(10 ** k)} 204`);
+        d.text('10', X(10 ** k) - 6, 216, 9);
+        d.text(String(k), X(10 ** k) + 4.008, 212, 6);
+      }
+      for (const h of [0, 50, 100]) {
+        d.stroke(`M 96 ${200 - 1.5 * h} L 100 ${200 - 1.5 * h}`);
+        d.text(String(h), 94 - d.font.widthOfTextAtSize(String(h), 9), 200 - 1.5 * h + 3.15, 9);
+      }
+    });
+    const sheet = await loadPdfSheetNode(bytes);
+    const [panel] = proposePanels(await sheet.text(), await sheet.paths());
+    await sheet.close();
+    expect(panel!.xScale).toBe('log');
+    expect(panel!.x.labels.map((l) => l.value)).toEqual([1, 10, 100, 1000]);
+    expect(panel!.calibration.toData(sheetPoint(X(42), 100))[0]).toBeCloseTo(42, 6);
+  });
+
   it('proposes nothing for a page without numeric labels on lines', async () => {
     const bytes = await drawPdf(300, 300, (d) => {
       d.text('Head 13 in', 20, 40, 9);
