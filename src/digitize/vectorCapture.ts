@@ -42,7 +42,7 @@ export interface VectorCapture {
 }
 
 export const DEFAULT_JOIN_TOLERANCE = 0.5;
-export const DEFAULT_MAX_GUIDE_DISTANCE = 6;
+export const DEFAULT_MAX_GUIDE_DISTANCE = 8;
 
 /** Flattened, style-keyed pieces of all stroked paths of a page (compute once, capture many). */
 export function strokePieces(paths: readonly VectorPath[], flatness = DEFAULT_FLATNESS): Piece[] {

@@ -133,7 +133,7 @@ describe('capturing a drawn line from guides', () => {
 
   it('says so when no drawn line passes near every guide', () => {
     expect(() => captureVector(lines, [P(320, 180), P(300, 400)])).toThrow(CaptureError);
-    expect(() => captureVector(lines, [P(320, 180), P(300, 400)])).toThrow(/No drawn line passes within 6 sheet units of every guide/);
+    expect(() => captureVector(lines, [P(320, 180), P(300, 400)])).toThrow(/No drawn line passes within 8 sheet units of every guide/);
   });
 });
 
