@@ -4,6 +4,7 @@
  * reading validates with the file's schema and rebuilds the workbench's extras.
  */
 import type { Quantity } from '../../model/curveset.ts';
+import { calibrate } from '../../digitize/calibration.ts';
 import { parseTakeoff, Takeoff, TAKEOFF_FORMAT, TAKEOFF_VERSION, type Panel, type Trace } from '../../model/takeoff.ts';
 import { anchorsWithValues, EMPTY_DRAFT, pointsOf, type Draft, type Frame, type PanelDraft, type SheetRef, type TraceDraft } from './draft.ts';
 
@@ -28,6 +29,12 @@ export function toTakeoffFile(draft: Draft): WrittenTakeoff {
       omitted.push(`Panel ${p.id} has no anchor values yet and was left out.`);
       continue;
     }
+    try {
+      calibrate(anchors, { xScale: p.x_scale, yScale: p.y_scale, panel: p.id });
+    } catch (error) {
+      omitted.push(`Panel ${p.id} was left out: ${(error as Error).message}`);
+      continue;
+    }
     panels.push({ id: p.id, anchors, x_scale: p.x_scale, y_scale: p.y_scale, frame: [...p.frame] as [number, number, number, number], units: { x: p.units.x, y: p.units.y } });
   }
   const panelIds = new Set(panels.map((p) => p.id));
@@ -45,8 +52,10 @@ export function toTakeoffFile(draft: Draft): WrittenTakeoff {
     if (t.iso !== undefined) trace.iso = t.iso;
     else if (t.diameter !== undefined) trace.diameter = t.diameter;
     if (t.guides.length) trace.guides = t.guides.map((g) => [g[0], g[1]]);
+    // Hand-edited points are used as they are; the capture they replaced is not written, so
+    // that no reader can mistake it for the points that count.
     if (t.points) trace.points = t.points.map((g) => [g[0], g[1]]);
-    if (t.captured?.length) trace.captured = t.captured.map((g) => [g[0], g[1]]);
+    else if (t.captured?.length) trace.captured = t.captured.map((g) => [g[0], g[1]]);
     traces.push(trace);
   }
   if (panels.length === 0) throw new DraftIncompleteError('Set the axes of at least one panel before saving the take-off file.');

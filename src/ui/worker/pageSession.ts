@@ -5,7 +5,7 @@
  */
 import { openPdfSheet } from '../../digitize/loaders/pdfPage.ts';
 import { loadImageSheetBrowser } from '../../digitize/loaders/imageBrowser.ts';
-import type { Sheet } from '../../digitize/sheet.ts';
+import { safeScale, type Sheet } from '../../digitize/sheet.ts';
 import type { RasterImage } from '../../digitize/raster.ts';
 import { strokeLines } from '../../digitize/vectorCapture.ts';
 import { straightPieces, type Straight } from '../geometry/snap.ts';
@@ -26,8 +26,11 @@ export async function sha256Hex(bytes: Uint8Array): Promise<string> {
   return [...new Uint8Array(digest)].map((b) => b.toString(16).padStart(2, '0')).join('');
 }
 
-/** Pixels per sheet unit at which a PDF page is read as a picture: 300 dpi. */
-export const PDF_TRACE_SCALE = 300 / 72;
+/**
+ * Pixels per sheet unit at which a PDF page is read as a picture; the headless replay uses
+ * the same default, so that a scan inside a PDF traces to the same points in both.
+ */
+export const PDF_TRACE_SCALE = 4;
 
 export async function openPageSession(bytes: Uint8Array, kind: 'pdf' | 'image', page: number, name: string, sha256: string): Promise<PageSession> {
   let sheet: Sheet;
@@ -50,7 +53,7 @@ export async function openPageSession(bytes: Uint8Array, kind: 'pdf' | 'image', 
     sheet,
     lines: () => (lines ??= sheet.paths().then((p) => strokeLines(p))),
     straights: () => (straights ??= sheet.paths().then((p) => straightPieces(p))),
-    raster: () => (raster ??= sheet.render(sheet.kind === 'image' ? 1 : PDF_TRACE_SCALE)),
+    raster: () => (raster ??= sheet.render(sheet.kind === 'image' ? 1 : safeScale(sheet, PDF_TRACE_SCALE))),
     close: () => sheet.close(),
   };
 }

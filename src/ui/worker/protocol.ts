@@ -3,6 +3,8 @@
  * Sheet rectangles are [x, y, w, h] in sheet units (PDF points or image pixels, y down).
  */
 import type { SheetKind as LoadedKind } from '../../digitize/sheet.ts';
+import type { CurveSet } from '../../model/curveset.ts';
+import type { Takeoff } from '../../model/takeoff.ts';
 import type { Snap } from '../geometry/snap.ts';
 import type { PageSize } from './pdfPages.ts';
 import type { SheetKind } from './sheetSource.ts';
@@ -23,6 +25,16 @@ export interface CaptureAnswer {
   gaps: string[];
 }
 
+/** A panel calibration read from the text layer (without the calibration's functions). */
+export interface AnchorProposal {
+  frame: [number, number, number, number];
+  anchors: { at: XY; x?: number; y?: number }[];
+  xScale: 'linear' | 'log';
+  yScale: 'linear' | 'log';
+  /** Largest anchor residual, % of span. */
+  residual: number;
+}
+
 export interface Requests {
   open: { args: { bytes: ArrayBuffer; mime: string; name: string }; result: { kind: SheetKind; pages: PageSize[]; sha256: string } };
   render: { args: { page: number; scale: number; rect: Rect }; result: { bitmap: ImageBitmap; scale: number; rect: Rect } };
@@ -31,6 +43,10 @@ export interface Requests {
   prepare: { args: { page: number }; result: { kind: LoadedKind; width: number; height: number; texts: number; strokes: number } };
   capture: { args: CaptureRequest; result: CaptureAnswer };
   snap: { args: { at: XY; radius: number }; result: Snap | null };
+  /** Panel calibrations proposed from the text layer of a vector page (none for scans). */
+  propose: { args: Record<string, never>; result: AnchorProposal[] };
+  /** Fits and checks the take-off into a curve set with the saved captures (the headless replay's own code). */
+  replay: { args: { takeoff: Takeoff; sheetFile: string; takeoffName: string }; result: { curveSet: CurveSet; traces: { id: string; how: string; notes: string[] }[] } };
 }
 
 export type RequestName = keyof Requests;

@@ -4,17 +4,20 @@
  */
 /// <reference lib="webworker" />
 import type { WorkerCall, WorkerReply, Progress } from './rpc.ts';
-import type { Request, Requests } from './protocol.ts';
+import type { AnchorProposal, Request, Requests } from './protocol.ts';
+import { proposePanels } from '../../digitize/autoCalibrate.ts';
 import { openSheetSource, type SheetSource } from './sheetSource.ts';
 import { openPageSession, sha256Hex, type PageSession } from './pageSession.ts';
 import { captureOnPage } from './captureOnPage.ts';
 import { snapToRaster, snapToStraights } from '../geometry/snap.ts';
+import { replayTakeoff } from '../../digitize/takeoff.ts';
 
 declare const self: DedicatedWorkerGlobalScope;
 
 let source: SheetSource | null = null;
 let opened: { bytes: Uint8Array; name: string; sha256: string } | null = null;
 let session: PageSession | null = null;
+let proposals: Promise<AnchorProposal[]> | null = null;
 
 function requireSource(): SheetSource {
   if (!source) throw new Error('No sheet is open in the worker.');
@@ -60,6 +63,7 @@ const handlers: { [K in keyof Requests]: Handler<K> } = {
     session = null;
     const next = await openPageSession(opened.bytes, s.kind, args.page, opened.name, opened.sha256);
     session = next;
+    proposals = null;
     progress({ fraction: 0.5, label: 'Reading the drawn lines and text' });
     const [paths, texts] = await Promise.all([next.sheet.paths(), next.sheet.text()]);
     if (next.sheet.kind === 'vector-pdf') await next.lines();
@@ -76,6 +80,25 @@ const handlers: { [K in keyof Requests]: Handler<K> } = {
     const s = requireSession();
     if (s.sheet.kind === 'vector-pdf') return { result: snapToStraights(await s.straights(), args.at, args.radius) };
     return { result: snapToRaster(await s.raster(), args.at, args.radius) };
+  },
+  async propose() {
+    const s = requireSession();
+    if (s.sheet.kind !== 'vector-pdf') return { result: [] };
+    proposals ??= Promise.all([s.sheet.text(), s.sheet.paths()]).then(([text, paths]) =>
+      proposePanels(text, paths).map((p) => ({
+        frame: p.frame,
+        anchors: p.anchors.map((a) => ({ at: [a.at[0], a.at[1]] as [number, number], ...(a.x !== undefined ? { x: a.x } : {}), ...(a.y !== undefined ? { y: a.y } : {}) })),
+        xScale: p.xScale,
+        yScale: p.yScale,
+        residual: p.calibration.maxPercentOfSpan,
+      })),
+    );
+    return { result: await proposals };
+  },
+  async replay(args, progress) {
+    progress({ fraction: null, label: 'Fitting and checking the curves' });
+    const result = await replayTakeoff(args.takeoff, requireSession().sheet, { useCaptured: true, sheetFile: args.sheetFile, takeoffName: args.takeoffName });
+    return { result: { curveSet: result.curveSet, traces: result.traces.map((t) => ({ id: t.id, how: t.how, notes: t.notes })) } };
   },
 };
 

@@ -142,11 +142,12 @@ export const removeAnchor = (id: string, index: number): Action => (draft) => {
   return edited(changeAnchors(draft, id, (list) => list.filter((_, i) => i !== index)), 'remove anchor');
 };
 
-/** Takes a set of anchors at once (proposed from the text layer, or copied from another panel). */
-export const replaceAnchors = (id: string, anchors: readonly AnchorDraft[], label = 'use proposed anchors'): Action => (draft) => {
+/** Takes anchors proposed from the sheet's text, with the axis scales they imply, in one step. */
+export const useProposal = (id: string, anchors: readonly AnchorDraft[], xScale: AxisScaleType, yScale: AxisScaleType): Action => (draft) => {
+  if (anchors.length === 0) throw new EditError('The proposal holds no anchors.');
   for (const a of anchors) {
     requireFinite(a.at[0], 'An anchor position');
     requireFinite(a.at[1], 'An anchor position');
   }
-  return edited(changeAnchors(draft, id, () => [...anchors]), label);
+  return edited({ ...draft, panels: replaceById(draft.panels, id, (p) => ({ ...p, anchors: [...anchors], x_scale: xScale, y_scale: yScale }), 'panel') }, 'use proposed anchors');
 };

@@ -1,0 +1,67 @@
+/**
+ * What the views may read and ask of the workbench. Views are functions of this interface;
+ * they never reach the worker, the canvas or storage directly.
+ */
+import type { Calibration } from '../../digitize/calibration.ts';
+import type { SheetKind as LoadedKind } from '../../digitize/sheet.ts';
+import type { CurveSet, Quantity } from '../../model/curveset.ts';
+import type { Takeoff } from '../../model/takeoff.ts';
+import type { FitLine } from '../canvas/overlay.ts';
+import type { Store, Step } from '../store/store.ts';
+import type { TraceResidual } from './review.ts';
+import type { AnchorProposal } from '../worker/protocol.ts';
+
+export interface LoadedSheet {
+  name: string;
+  mime: string;
+  kind: 'pdf' | 'image';
+  pages: { width: number; height: number }[];
+  /** Small pictures of the pages for the page picker, as data URLs. */
+  thumbnails: Map<number, string>;
+  /** What the chosen page turned out to be, once read. */
+  loadedKind: LoadedKind | null;
+  /** Text items found on the chosen page (0 for scans). */
+  texts: number;
+}
+
+export type CalibrationState = { ok: true; calibration: Calibration } | { ok: false; reason: string };
+
+export interface Derived {
+  calibrations: ReadonlyMap<string, CalibrationState>;
+  /** The take-off file the review was computed from. */
+  takeoff: Takeoff | null;
+  curveSet: CurveSet | null;
+  /** Why there is no curve set, when there is none. */
+  problem: string | null;
+  /** What the take-off file leaves out for now (panels without values, …). */
+  omitted: readonly string[];
+  residuals: ReadonlyMap<string, TraceResidual>;
+  fits: readonly FitLine[];
+  /** True while the worker is fitting. */
+  computing: boolean;
+}
+
+export interface Bench {
+  readonly store: Store;
+  readonly sheet: LoadedSheet | null;
+  readonly derived: Derived;
+  /** What the next click on the sheet does. */
+  nextClick(): string;
+  /** The value under the cursor, e.g. "Q 120 m³/h · H 45.2 m (head panel)". */
+  readonly readout: string;
+  openFiles(files: readonly File[]): void;
+  choosePage(page: number): void;
+  goto(step: Step): void;
+  startFrame(plots: Quantity): void;
+  selectPanel(id: string): void;
+  /** Highlights a trace on the sheet and brings it into view. */
+  showTrace(id: string | null): void;
+  retrace(id: string): void;
+  download(what: 'takeoff' | 'curveset' | 'csv'): void;
+  saveToLibrary(): void;
+  zoom(action: 'in' | 'out' | 'fit'): void;
+  /** Anchors proposed from the sheet's text for a panel, if any. */
+  proposalFor(panelId: string): AnchorProposal | null;
+  useProposal(panelId: string): void;
+  readonly zoomPercent: number;
+}

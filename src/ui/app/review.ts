@@ -1,0 +1,125 @@
+/**
+ * What the review shows beside the curve set: each trace's residuals against its fitted
+ * curve, and the fitted curves drawn back onto the sheet through each panel's calibration.
+ * Pure: curve set, take-off and calibrations in; numbers and sheet polylines out.
+ */
+import type { Calibration } from '../../digitize/calibration.ts';
+import { isoCrossings } from '../../digitize/isoCrossings.ts';
+import { sheetPoint, type SheetPoint } from '../../digitize/points.ts';
+import { resolveTakeoffUnits, traceUnits } from '../../digitize/takeoffUnits.ts';
+import { evaluateUnchecked, inDomain, linspace } from '../../fit/polynomial.ts';
+import type { CurveSet, Member, PolynomialFit, Quantity } from '../../model/curveset.ts';
+import type { SheetXY, Takeoff, Trace } from '../../model/takeoff.ts';
+import { fromSI, toSI, type Unit } from '../../units/index.ts';
+import type { FitLine } from '../canvas/overlay.ts';
+import { pointsOf, type Draft } from '../store/draft.ts';
+
+export interface TraceResidual {
+  traceId: string;
+  /** Root-mean-square and largest residual, in the unit of the trace's values. */
+  rms: number;
+  max: number;
+  unit: Unit;
+  /** Largest residual in % of the fitted curve's range of values. */
+  percentOfSpan: number;
+  points: number;
+}
+
+function asSheetPoints(points: readonly SheetXY[]): SheetPoint[] {
+  return points.map((p) => sheetPoint(p[0], p[1]));
+}
+
+function memberOf(set: CurveSet, diameter: number, unit: Unit): Member | undefined {
+  const d = toSI(diameter, unit);
+  return set.members.find((m) => m.diameter_m !== undefined && Math.abs(m.diameter_m - d) <= 1e-9 * Math.max(1, d));
+}
+
+function valueSpan(fit: PolynomialFit): number {
+  const ys = linspace(fit.domain[0], fit.domain[1], 41).map((q) => evaluateUnchecked(fit, q));
+  return Math.max(...ys) - Math.min(...ys) || Math.max(...ys.map(Math.abs)) || 1;
+}
+
+function summarise(traceId: string, residualsSI: number[], unit: Unit, fit: PolynomialFit): TraceResidual | null {
+  if (residualsSI.length === 0) return null;
+  const rmsSI = Math.sqrt(residualsSI.reduce((s, r) => s + r * r, 0) / residualsSI.length);
+  const maxSI = Math.max(...residualsSI.map(Math.abs));
+  return { traceId, rms: rmsSI / unit.factor, max: maxSI / unit.factor, unit, percentOfSpan: (100 * maxSI) / valueSpan(fit), points: residualsSI.length };
+}
+
+/** Residuals of every trace that has a fitted curve, keyed by trace id. */
+export function traceResiduals(draft: Draft, takeoff: Takeoff, set: CurveSet, calibrations: ReadonlyMap<string, Calibration>): Map<string, TraceResidual> {
+  const units = resolveTakeoffUnits(takeoff);
+  const out = new Map<string, TraceResidual>();
+  const byId = new Map(draft.traces.map((t) => [t.id, t]));
+  for (const trace of takeoff.traces) {
+    const id = trace.id as string;
+    const cal = calibrations.get(trace.panel);
+    const drafted = byId.get(id);
+    if (!cal || !drafted) continue;
+    const u = traceUnits(takeoff, units, trace);
+    if (trace.iso === undefined) {
+      const member = trace.diameter !== undefined ? memberOf(set, trace.diameter, units.diameter) : undefined;
+      const fit = member?.curves[trace.quantity]?.fit;
+      if (!fit) continue;
+      const residuals = pointsOf(drafted)
+        .map((p) => cal.toData(p))
+        .map((d) => [toSI(d[0], u.flow), toSI(d[1], u.value)] as const)
+        .filter(([q]) => inDomain(fit, q))
+        .map(([q, y]) => y - evaluateUnchecked(fit, q));
+      const r = summarise(id, residuals, u.value, fit);
+      if (r) out.set(id, r);
+      continue;
+    }
+    // An iso-trace: where it crosses each head trace, the fitted curve should read the iso value.
+    const heads = takeoff.traces
+      .filter((t) => t.panel === trace.panel && t.quantity === 'head' && t.iso === undefined && t.diameter !== undefined)
+      .map((t) => ({ key: t, points: asSheetPoints(pointsOf(byId.get(t.id as string) ?? drafted)) }));
+    const residuals: number[] = [];
+    let anyFit: PolynomialFit | undefined;
+    for (const c of isoCrossings(asSheetPoints(pointsOf(drafted)), heads)) {
+      const head = c.key;
+      const member = memberOf(set, head.diameter as number, units.diameter);
+      const fit = member?.curves[trace.quantity]?.fit;
+      if (!fit) continue;
+      anyFit ??= fit;
+      const q = toSI(cal.toData(c.at)[0], u.flow);
+      if (inDomain(fit, q)) residuals.push(toSI(trace.iso, u.value) - evaluateUnchecked(fit, q));
+    }
+    if (anyFit) {
+      const r = summarise(id, residuals, u.value, anyFit);
+      if (r) out.set(id, r);
+    }
+  }
+  return out;
+}
+
+/** The fitted curves drawn back onto the panels they were read from. */
+export function fitLinesOnSheet(takeoff: Takeoff, set: CurveSet, calibrations: ReadonlyMap<string, Calibration>): FitLine[] {
+  const units = resolveTakeoffUnits(takeoff);
+  const lines: FitLine[] = [];
+  const groups = new Map<string, Trace[]>();
+  for (const t of takeoff.traces) {
+    if (t.iso !== undefined || t.diameter === undefined) continue;
+    const key = `${t.panel}|${t.quantity}|${t.diameter}`;
+    groups.set(key, [...(groups.get(key) ?? []), t]);
+  }
+  for (const traces of groups.values()) {
+    const first = traces[0] as Trace;
+    const cal = calibrations.get(first.panel);
+    const member = memberOf(set, first.diameter as number, units.diameter);
+    const fit = member?.curves[first.quantity as Quantity]?.fit;
+    if (!cal || !fit) continue;
+    const u = traceUnits(takeoff, units, first);
+    const points: SheetXY[] = [];
+    for (const q of linspace(fit.domain[0], fit.domain[1], 80)) {
+      try {
+        const s = cal.toSheet([fromSI(q, u.flow), fromSI(evaluateUnchecked(fit, q), u.value)]);
+        points.push([s[0], s[1]]);
+      } catch {
+        // A value that cannot sit on a log axis is simply not drawn.
+      }
+    }
+    lines.push({ traceIds: traces.map((t) => t.id as string), quantity: first.quantity, points, label: `${first.quantity} ${first.diameter}` });
+  }
+  return lines;
+}

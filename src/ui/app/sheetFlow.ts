@@ -1,0 +1,244 @@
+/**
+ * Getting a sheet onto the workbench: opening a PDF or image (or a take-off file with its
+ * sheet), picking the page, reading it in the worker, restoring autosaved work, and keeping
+ * the autosave up to date. A bad file is refused with a sentence; the draft on screen is
+ * never replaced until the new sheet has been read successfully.
+ */
+import { ZodError } from 'zod';
+import { describeZodError } from '../../cli/errors.ts';
+import { choosePage, loadSheet } from '../store/actions/setup.ts';
+import type { Draft, SheetRef } from '../store/draft.ts';
+import { pointsOf } from '../store/draft.ts';
+import { fromTakeoffFile } from '../store/takeoffFile.ts';
+import type { Step } from '../store/store.ts';
+import type { SavedWork } from '../persist/autosave.ts';
+import type { LoadedSheet } from './bench.ts';
+import type { Workbench } from './workbench.ts';
+
+interface SheetBytes {
+  bytes: ArrayBuffer;
+  name: string;
+  mime: string;
+  sha256: string;
+}
+
+function mimeOf(file: File): string {
+  if (file.type) return file.type;
+  if (/\.pdf$/i.test(file.name)) return 'application/pdf';
+  if (/\.png$/i.test(file.name)) return 'image/png';
+  if (/\.jpe?g$/i.test(file.name)) return 'image/jpeg';
+  return 'application/octet-stream';
+}
+
+function baseName(path: string): string {
+  return path.split(/[\\/]/).pop() ?? path;
+}
+
+export class SheetFlow {
+  sheet: LoadedSheet | null = null;
+  private bytes: SheetBytes | null = null;
+  /** True once the worker has read the chosen page (captures and snapping work from then on). */
+  pageReady = false;
+
+  constructor(private readonly bench: Workbench) {}
+
+  private get store() {
+    return this.bench.store;
+  }
+
+  private progress(label: string | null, fraction: number | null = null): void {
+    this.store.setSession({ progress: label === null ? null : { label, fraction } });
+  }
+
+  async openFiles(files: readonly File[]): Promise<void> {
+    const json = files.find((f) => /\.json$/i.test(f.name) || f.type === 'application/json');
+    const sheetFile = files.find((f) => f !== json);
+    try {
+      if (json) {
+        let raw: unknown;
+        try {
+          raw = JSON.parse(await json.text());
+        } catch (error) {
+          throw new Error(`"${json.name}" is not valid JSON (${(error as Error).message}); choose a take-off file written by Pumpscribe.`);
+        }
+        const wanted = typeof (raw as { sheet?: unknown })?.sheet === 'string' ? baseName((raw as { sheet: string }).sheet) : null;
+        if (sheetFile) {
+          await this.openSheet(sheetFile, { takeoff: raw, takeoffName: json.name });
+        } else if (this.bytes && wanted === this.bytes.name) {
+          await this.openBytes(this.bytes, { takeoff: raw, takeoffName: json.name });
+        } else {
+          this.store.say(`Open the take-off file together with its sheet${wanted ? ` "${wanted}"` : ''}: choose both files at once, or drop both.`, 'error');
+        }
+        return;
+      }
+      if (sheetFile) await this.openSheet(sheetFile, {});
+    } catch (error) {
+      this.progress(null);
+      const message = error instanceof ZodError ? describeZodError(error, 'The take-off file') : (error as Error).message;
+      this.store.say(`${message} Nothing on the workbench was changed.`, 'error');
+    }
+  }
+
+  private async openSheet(file: File, options: { takeoff?: unknown; takeoffName?: string }): Promise<void> {
+    const bytes = await file.arrayBuffer();
+    await this.openBytes({ bytes, name: file.name, mime: mimeOf(file), sha256: '' }, options);
+  }
+
+  /** Opens sheet bytes in the worker; on success replaces the sheet (and the draft, for a take-off file or a restore). */
+  async openBytes(sheet: SheetBytes, options: { takeoff?: unknown; takeoffName?: string; restore?: SavedWork }): Promise<void> {
+    this.progress(`Opening ${sheet.name}`);
+    const opened = await this.bench.worker.call('open', { bytes: sheet.bytes.slice(0), mime: sheet.mime, name: sheet.name }, (p) => this.progress(p.label, p.fraction));
+    const kept = { ...sheet, sha256: opened.sha256 };
+    const pageCount = opened.pages.length;
+    const firstPage = (page: number) => opened.pages[page - 1] ?? opened.pages[0] ?? { width: 1, height: 1 };
+    const refFor = (page: number): SheetRef => ({ name: sheet.name, sha256: opened.sha256, kind: opened.kind, mime: sheet.mime, page, pageCount, width: firstPage(page).width, height: firstPage(page).height });
+
+    let draft: Draft | null = null;
+    let step: Step = 'axes';
+    if (options.takeoff !== undefined) {
+      const rebuilt = fromTakeoffFile(options.takeoff, refFor(1));
+      const page = Math.min(rebuilt.sheet?.page ?? 1, pageCount);
+      draft = { ...rebuilt, sheet: refFor(page) };
+      step = 'review';
+    } else if (options.restore) {
+      draft = options.restore.draft;
+      step = options.restore.step;
+    }
+    // Only now, with the new sheet readable, does anything on the workbench change.
+    this.pageReady = false;
+    this.canvas().clear();
+    this.bytes = kept;
+    this.sheet = { name: sheet.name, mime: sheet.mime, kind: opened.kind, pages: opened.pages, thumbnails: new Map(), loadedKind: null, texts: 0 };
+    if (draft) {
+      if (options.restore) this.bench.restoreDraft(draft, step);
+      else this.store.dispatch(() => ({ draft: draft as Draft, label: `open ${options.takeoffName ?? 'take-off file'}`, undoable: true }));
+    } else {
+      this.store.dispatch(loadSheet(refFor(1), sheet.name.replace(/\.[^.]+$/, '')));
+    }
+    void this.bench.autosave.saveSheet({ key: opened.sha256, name: sheet.name, mime: sheet.mime, bytes: sheet.bytes }).catch((e: Error) => this.store.say(e.message, 'caution'));
+    if (pageCount > 1) void this.makeThumbnails();
+    if (draft || pageCount === 1) {
+      await this.showPage(this.store.draft.sheet?.page ?? 1);
+      this.store.setSession({ step: draft ? step : 'axes', drawingFrame: !draft || this.store.draft.panels.length === 0, activePanel: null });
+      if (options.takeoff !== undefined) await this.captureMissing();
+      this.store.say(draft ? `Opened ${options.takeoffName ?? sheet.name}: ${this.store.draft.traces.length} traces on ${this.store.draft.panels.length} panels.` : `Loaded ${sheet.name}. Now draw the frame of the head panel.`, 'done');
+    } else {
+      this.progress(null);
+      this.store.setSession({ step: 'load' });
+      this.store.say(`${sheet.name} has ${pageCount} pages: pick the one with the curves.`, 'info');
+    }
+  }
+
+  private canvas() {
+    return this.bench.canvas;
+  }
+
+  async choosePage(page: number): Promise<void> {
+    const size = this.sheet?.pages[page - 1];
+    if (!size) return;
+    if (this.store.draft.sheet?.page !== page) {
+      if (!this.store.dispatch(choosePage(page, size.width, size.height))) return;
+    }
+    await this.showPage(page);
+    this.store.setSession({ step: 'axes', drawingFrame: true, activePanel: null });
+  }
+
+  private async showPage(page: number): Promise<void> {
+    const sheet = this.sheet;
+    const size = sheet?.pages[page - 1];
+    if (!sheet || !size) return;
+    this.pageReady = false;
+    try {
+      await this.canvas().showPage({ page, width: size.width, height: size.height, kind: sheet.kind }, (label, fraction) => this.progress(label, fraction));
+      const read = await this.bench.worker.call('prepare', { page }, (p) => this.progress(p.label, p.fraction));
+      sheet.loadedKind = read.kind;
+      sheet.texts = read.texts;
+      this.pageReady = true;
+      this.bench.refreshDerived();
+    } finally {
+      this.progress(null);
+    }
+  }
+
+  private async makeThumbnails(): Promise<void> {
+    const sheet = this.sheet;
+    if (!sheet) return;
+    for (let n = 1; n <= sheet.pages.length && this.sheet === sheet; n++) {
+      try {
+        const { bitmap } = await this.bench.worker.call('thumbnail', { page: n, size: 160 });
+        const canvas = document.createElement('canvas');
+        canvas.width = bitmap.width;
+        canvas.height = bitmap.height;
+        canvas.getContext('2d')?.drawImage(bitmap, 0, 0);
+        bitmap.close();
+        sheet.thumbnails.set(n, canvas.toDataURL('image/png'));
+        this.bench.requestRender();
+      } catch {
+        // A page that cannot be drawn small still has its button.
+      }
+    }
+  }
+
+  /** Traces of a take-off file that carry guides only get their points now, in the worker. */
+  private async captureMissing(): Promise<void> {
+    const missing = this.store.draft.traces.filter((t) => pointsOf(t).length === 0 && t.guides.length > 0);
+    for (const [i, t] of missing.entries()) {
+      this.progress(`Tracing ${i + 1} of ${missing.length}`, i / missing.length);
+      try {
+        const answer = await this.bench.worker.call('capture', { guides: t.guides.map((g) => [g[0], g[1]]), method: t.method });
+        const draft = this.store.draft;
+        this.store.dispatch(() => ({ draft: { ...draft, traces: draft.traces.map((x) => (x.id === t.id ? { ...x, captured: answer.points } : x)) }, label: 'capture', undoable: false }));
+      } catch (error) {
+        this.store.say(`Trace ${t.id}: ${(error as Error).message}`, 'caution');
+      }
+    }
+    this.progress(null);
+  }
+
+  autosaveNow(): void {
+    const { draft, session } = this.store;
+    if (!draft.sheet) return;
+    this.bench.autosave
+      .save({ format: 'pumpscribe.autosave', version: 1, savedAt: new Date().toISOString(), draft, step: session.step, target: session.target, sheetKey: this.bytes?.sha256 ?? null })
+      .then(() => {
+        this.bench.autosaved = `Kept in this browser at ${new Date().toLocaleTimeString()}`;
+        this.bench.requestRender();
+      })
+      .catch((error: Error) => {
+        this.bench.autosaved = 'Not kept in this browser';
+        this.store.say(error.message, 'error');
+      });
+  }
+
+  /** On start: offers to restore autosaved work. */
+  async offerRestore(): Promise<SavedWork | null> {
+    try {
+      const saved = await this.bench.autosave.load();
+      if (!saved?.draft.sheet || !saved.sheetKey) return null;
+      return saved;
+    } catch {
+      return null;
+    }
+  }
+
+  async restore(saved: SavedWork): Promise<void> {
+    const sheet = saved.sheetKey ? await this.bench.autosave.loadSheet(saved.sheetKey) : null;
+    if (!sheet) {
+      this.store.say('The autosaved sheet could not be found in this browser; open the sheet again to continue.', 'error');
+      return;
+    }
+    try {
+      await this.openBytes({ bytes: sheet.bytes, name: sheet.name, mime: sheet.mime, sha256: sheet.key }, { restore: saved });
+      this.store.setSession({ target: saved.target });
+      this.store.say(`Restored the take-off of ${sheet.name}: ${saved.draft.traces.length} traces, ${saved.draft.traces.reduce((s, t) => s + pointsOf(t).length, 0)} points.`, 'done');
+    } catch (error) {
+      this.progress(null);
+      this.store.say(`The autosaved work could not be restored: ${(error as Error).message}`, 'error');
+    }
+  }
+
+  /** The sheet file's name and bytes, for saving to the library. */
+  get sheetBytes(): SheetBytes | null {
+    return this.bytes;
+  }
+}

@@ -1,0 +1,56 @@
+/**
+ * Entry of the browser app. "#/library" and "#/compare" show the library screens; anything
+ * else is the take-off workbench. On start the workbench offers to restore autosaved work.
+ */
+import './styles.css';
+import { h } from './dom/h.ts';
+import { Workbench } from './app/workbench.ts';
+import type { SavedWork } from './persist/autosave.ts';
+
+const root = document.getElementById('app') as HTMLElement;
+const benchRoot = h('div', { class: 'bench-root' });
+const libraryRoot = h('div', { class: 'library-root', hidden: true });
+root.replaceChildren(benchRoot, libraryRoot);
+let bench: Workbench | null = null;
+
+function restoreBanner(wb: Workbench, saved: SavedWork): HTMLElement {
+  const when = new Date(saved.savedAt);
+  const points = saved.draft.traces.reduce((s, t) => s + (t.points ?? t.captured ?? []).length, 0);
+  const banner = h('div', { class: 'restore', role: 'dialog', 'aria-modal': 'false', 'aria-labelledby': 'restore-title' },
+    h('p', { id: 'restore-title' }, h('strong', null, 'Unfinished take-off found. '),
+      `${saved.draft.sheet?.name ?? 'A sheet'}: ${saved.draft.panels.length} panels, ${saved.draft.traces.length} traces, ${points} points — kept in this browser on ${when.toLocaleDateString()} at ${when.toLocaleTimeString()}.`),
+    h('div', { class: 'buttons' },
+      h('button', { type: 'button', class: 'primary', id: 'restore-yes', onclick: () => { banner.remove(); void wb.flow.restore(saved); } }, 'Restore it'),
+      h('button', { type: 'button', id: 'restore-no', onclick: () => { banner.remove(); wb.store.say('Starting afresh. The unfinished take-off stays in this browser until the next edit replaces it.', 'info'); } }, 'Start afresh')));
+  return banner;
+}
+
+async function showWorkbench(): Promise<void> {
+  if (bench) return;
+  bench = new Workbench(benchRoot);
+  const saved = await bench.flow.offerRestore();
+  if (saved) {
+    const banner = restoreBanner(bench, saved);
+    document.body.append(banner);
+    (banner.querySelector('#restore-yes') as HTMLButtonElement | null)?.focus();
+  }
+}
+
+async function route(): Promise<void> {
+  const hash = location.hash;
+  const library = hash.startsWith('#/library') || hash.startsWith('#/compare');
+  benchRoot.hidden = library;
+  libraryRoot.hidden = !library;
+  if (library) {
+    const { showLibrary } = await import('./pages/library.ts');
+    showLibrary(libraryRoot, hash, bench);
+    return;
+  }
+  await showWorkbench();
+}
+
+window.addEventListener('hashchange', () => void route());
+void route();
+
+// For the browser tests: the workbench of this page.
+(window as unknown as { pumpscribe?: () => Workbench | null }).pumpscribe = () => bench;

@@ -1,0 +1,81 @@
+/** The frame around the sheet: the top bar, the list of steps and the status line. */
+import { h } from '../dom/h.ts';
+import type { Bench } from '../app/bench.ts';
+import { STEPS, type Step } from '../store/store.ts';
+import { pointsOf } from '../store/draft.ts';
+import { STEP_TITLES } from './words.ts';
+
+export function topBar(bench: Bench, autosaved: string): HTMLElement {
+  const { store } = bench;
+  const h0 = store.history;
+  const undoLabel = h0.labels[h0.labels.length - 1];
+  const redoLabel = h0.futureLabels[0];
+  return h('header', { class: 'topbar' },
+    h('div', { class: 'brand' }, h('span', { class: 'wordmark' }, 'Pumpscribe'), h('span', { class: 'subtitle' }, 'take-off workbench')),
+    h('div', { class: 'sheet-name' }, store.draft.sheet ? `${store.draft.sheet.name} · page ${store.draft.sheet.page}` : 'No sheet loaded'),
+    h('div', { class: 'tools' },
+      h('button', { type: 'button', id: 'undo', disabled: !undoLabel, title: undoLabel ? `Undo ${undoLabel} (Ctrl+Z)` : 'Nothing to undo', 'aria-label': undoLabel ? `Undo ${undoLabel}` : 'Undo', onclick: () => store.undo() }, '↶ Undo'),
+      h('button', { type: 'button', id: 'redo', disabled: !redoLabel, title: redoLabel ? `Redo ${redoLabel} (Ctrl+Shift+Z)` : 'Nothing to redo', 'aria-label': redoLabel ? `Redo ${redoLabel}` : 'Redo', onclick: () => store.redo() }, 'Redo ↷'),
+      h('div', { class: 'segmented small', role: 'group', 'aria-label': 'Units shown in the review' },
+        (['si', 'us'] as const).map((s) => h('button', { type: 'button', 'aria-pressed': store.session.unitSystem === s ? 'true' : 'false', onclick: () => store.setSession({ unitSystem: s }) }, s.toUpperCase()))),
+      h('span', { class: 'autosaved', role: 'status' }, autosaved),
+      h('a', { href: '#/library', class: 'nav' }, 'Library')));
+}
+
+function summary(bench: Bench, step: Step): string {
+  const { draft } = bench.store;
+  const d = bench.derived;
+  switch (step) {
+    case 'load':
+      return draft.sheet ? `${draft.sheet.name}, page ${draft.sheet.page}` : 'no sheet yet';
+    case 'axes': {
+      if (draft.panels.length === 0) return 'no panels yet';
+      const ok = draft.panels.filter((p) => d.calibrations.get(p.id)?.ok).length;
+      return `${draft.panels.length} panel${draft.panels.length === 1 ? '' : 's'}, ${ok} calibrated`;
+    }
+    case 'trace': {
+      if (draft.traces.length === 0) return 'no traces yet';
+      const pts = draft.traces.reduce((s, t) => s + pointsOf(t).length, 0);
+      return `${draft.traces.length} traces, ${pts} points`;
+    }
+    case 'review': {
+      if (!d.curveSet) return d.computing ? 'fitting…' : 'nothing to review yet';
+      const fails = d.curveSet.findings.filter((f) => f.severity === 'fail').length;
+      const warns = d.curveSet.findings.filter((f) => f.severity === 'warn').length;
+      return `${d.curveSet.members.length} diameters, ${fails} failing, ${warns} to check`;
+    }
+    case 'save':
+      return d.takeoff ? 'ready to download' : 'nothing to save yet';
+  }
+}
+
+export function stepList(bench: Bench, bodies: Record<Step, (b: Bench) => HTMLElement>): HTMLElement {
+  const current = bench.store.session.step;
+  return h('nav', { class: 'steps', 'aria-label': 'Steps of the take-off' },
+    h('ol', null, STEPS.map((step, i) => {
+      const open = step === current;
+      return h('li', { class: `step${open ? ' open' : ''}`, 'data-key': `step-${step}` },
+        h('button', { type: 'button', class: 'step-head', id: `step-${step}`, 'aria-expanded': open ? 'true' : 'false', 'aria-controls': `step-${step}-body`, onclick: () => bench.goto(step) },
+          h('span', { class: 'step-number' }, String(i + 1)),
+          h('span', { class: 'step-title' }, STEP_TITLES[step]),
+          h('span', { class: 'step-summary' }, summary(bench, step))),
+        open ? h('div', { id: `step-${step}-body`, role: 'region', 'aria-labelledby': `step-${step}` }, bodies[step](bench)) : null);
+    })));
+}
+
+export function statusLine(bench: Bench): HTMLElement {
+  const { session } = bench.store;
+  const m = session.message;
+  return h('footer', { class: 'statusline' },
+    h('div', { class: 'next', id: 'next-click', 'aria-live': 'polite' }, h('span', { class: 'label' }, 'Next click: '), bench.nextClick()),
+    h('div', { class: `message ${m?.tone ?? ''}`, id: 'message', role: m?.tone === 'error' ? 'alert' : 'status' }, m?.text ?? ''),
+    session.progress
+      ? h('div', { class: 'progress', role: 'progressbar', 'aria-label': session.progress.label, ...(session.progress.fraction !== null ? { 'aria-valuenow': String(Math.round(session.progress.fraction * 100)), 'aria-valuemin': '0', 'aria-valuemax': '100' } : {}) },
+          h('span', null, session.progress.label), h('span', { class: `bar${session.progress.fraction === null ? ' indeterminate' : ''}`, style: { width: session.progress.fraction === null ? '' : `${Math.round(session.progress.fraction * 100)}%` } }))
+      : null,
+    h('div', { class: 'readout', id: 'readout' }, bench.readout),
+    h('div', { class: 'zoom', role: 'group', 'aria-label': 'Zoom' },
+      h('button', { type: 'button', 'aria-label': 'Zoom out (−)', onclick: () => bench.zoom('out') }, '−'),
+      h('button', { type: 'button', 'aria-label': 'Fit the page (0)', onclick: () => bench.zoom('fit') }, `${bench.zoomPercent} %`),
+      h('button', { type: 'button', 'aria-label': 'Zoom in (+)', onclick: () => bench.zoom('in') }, '+')));
+}

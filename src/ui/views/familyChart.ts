@@ -1,0 +1,115 @@
+/**
+ * The family chart: head, efficiency, power and NPSHr against flow for every diameter, one
+ * above the other on a shared flow axis, in the chosen unit system. Curves are the fitted
+ * polynomials inside their fitted range only — nothing extrapolated is drawn. An optional
+ * duty view adds the system curve and the operating point of each diameter.
+ */
+import { h, svg } from '../dom/h.ts';
+import { evaluateUnchecked, linspace } from '../../fit/polynomial.ts';
+import type { CurveSet, Member, Quantity } from '../../model/curveset.ts';
+import { fromSI, parseUnit, PRESETS, type Unit } from '../../units/index.ts';
+import { QUANTITY_INK } from '../canvas/overlay.ts';
+import { niceTicks } from './ticks.ts';
+import { num, QUANTITY_NAMES, SAFETY_SENTENCE, unitText } from './words.ts';
+
+export interface ChartUnits {
+  flow: Unit;
+  head: Unit;
+  npsh: Unit;
+  power: Unit;
+  diameter: Unit;
+  efficiency: Unit;
+}
+
+export function chartUnits(system: 'si' | 'us'): ChartUnits {
+  const p = PRESETS[system];
+  return { flow: parseUnit('flow', p.flow), head: parseUnit('head', p.head), npsh: parseUnit('head', p.npsh), power: parseUnit('power', p.power), diameter: parseUnit('diameter', p.diameter), efficiency: parseUnit('efficiency', '%') };
+}
+
+function unitFor(u: ChartUnits, q: Quantity): Unit {
+  return q === 'head' ? u.head : q === 'npshr' ? u.npsh : q === 'power' ? u.power : u.efficiency;
+}
+
+/** Extra lines drawn on the head plot: the system curve and the operating points. */
+export interface DutyOverlay {
+  /** [flow m³/s, head m] points of the system curve. */
+  system: [number, number][];
+  /** Operating point per diameter, SI. */
+  points: { label: string; flow: number; head: number; npshMarginOk?: boolean }[];
+}
+
+const W = 560;
+const PLOT_H = 150;
+const GAP = 26;
+const LEFT = 62;
+const RIGHT = 64;
+const TOP = 14;
+
+export function familyChart(set: CurveSet, system: 'si' | 'us', duty?: DutyOverlay | null, highlight?: { diameter_m?: number; quantity?: Quantity } | null): HTMLElement {
+  const u = chartUnits(system);
+  const quantities = (['head', 'efficiency', 'power', 'npshr'] as Quantity[]).filter((q) => set.members.some((m) => m.curves[q]?.fit));
+  const members = [...set.members].sort((a, b) => (b.diameter_m ?? 0) - (a.diameter_m ?? 0));
+  const domains = members.flatMap((m) => quantities.flatMap((q) => (m.curves[q]?.fit ? [m.curves[q]!.fit!.domain] : [])));
+  if (domains.length === 0) return h('p', { class: 'hint' }, 'No fitted curves yet.');
+  const qMax = Math.max(...domains.map((d) => d[1]), ...(duty?.points.map((p) => p.flow) ?? []));
+  const xt = niceTicks(0, fromSI(qMax, u.flow), 6);
+  const plotW = W - LEFT - RIGHT;
+  const x = (qSI: number) => LEFT + ((fromSI(qSI, u.flow) - xt.lo) / (xt.hi - xt.lo)) * plotW;
+  const height = TOP + quantities.length * (PLOT_H + GAP) + 24;
+  const root = svg('svg', { viewBox: `0 0 ${W} ${height}`, class: 'family-chart', role: 'img', 'aria-label': `Family chart: ${quantities.map((q) => QUANTITY_NAMES[q]).join(', ')} against flow for ${members.length} diameters, in ${system.toUpperCase()} units` });
+  quantities.forEach((q, row) => {
+    const top = TOP + row * (PLOT_H + GAP);
+    const unit = unitFor(u, q);
+    const values = members.flatMap((m) => {
+      const fit = m.curves[q]?.fit;
+      return fit ? linspace(fit.domain[0], fit.domain[1], 40).map((f) => fromSI(evaluateUnchecked(fit, f), unit)) : [];
+    });
+    if (q === 'head' && duty) values.push(...duty.system.map((p) => fromSI(p[1], unit)));
+    const yt = niceTicks(Math.min(0, ...values), Math.max(...values), 4);
+    const y = (vSI: number) => top + PLOT_H - ((fromSI(vSI, unit) - yt.lo) / (yt.hi - yt.lo)) * PLOT_H;
+    const g = svg('g', { class: `plot plot-${q}` });
+    g.append(svg('rect', { x: LEFT, y: top, width: plotW, height: PLOT_H, class: 'plot-area' }));
+    for (const t of yt.ticks) {
+      const yy = top + PLOT_H - ((t - yt.lo) / (yt.hi - yt.lo)) * PLOT_H;
+      g.append(svg('line', { x1: LEFT, x2: LEFT + plotW, y1: yy, y2: yy, class: 'grid' }));
+      g.append(svg('text', { x: LEFT - 6, y: yy + 4, class: 'tick', 'text-anchor': 'end' }, num(t, 4)));
+    }
+    for (const t of xt.ticks) {
+      const xx = LEFT + ((t - xt.lo) / (xt.hi - xt.lo)) * plotW;
+      g.append(svg('line', { x1: xx, x2: xx, y1: top, y2: top + PLOT_H, class: 'grid' }));
+      if (row === quantities.length - 1) g.append(svg('text', { x: xx, y: top + PLOT_H + 14, class: 'tick', 'text-anchor': 'middle' }, num(t, 4)));
+    }
+    g.append(svg('text', { x: 8, y: top + 12, class: 'axis-title' }, `${QUANTITY_NAMES[q]} [${unitText(unit.label || unit.token)}]`));
+    members.forEach((m, k) => {
+      const fit = m.curves[q]?.fit;
+      if (!fit) return;
+      const pts = linspace(fit.domain[0], fit.domain[1], 60).map((f) => `${x(f).toFixed(1)},${y(evaluateUnchecked(fit, f)).toFixed(1)}`);
+      const emphasised = highlight && highlight.diameter_m === m.diameter_m && (!highlight.quantity || highlight.quantity === q);
+      g.append(svg('polyline', { points: pts.join(' '), class: `curve${emphasised ? ' emphasised' : ''}`, stroke: QUANTITY_INK[q], 'stroke-opacity': String(1 - k * 0.15) }));
+      const end = fit.domain[1];
+      g.append(svg('text', { x: x(end) + 4, y: y(evaluateUnchecked(fit, end)) + 4, class: 'curve-label' }, memberName(m, u)));
+    });
+    if (q === 'head') {
+      for (const m of members) {
+        const bep = m.derived.bep;
+        if (bep) g.append(svg('circle', { cx: x(bep.flow_m3s), cy: y(bep.head_m), r: 3.5, class: 'bep' }, svg('title', null, `BEP of ${memberName(m, u)}: ${num(fromSI(bep.flow_m3s, u.flow))} ${unitText(u.flow.label)}, ${num(fromSI(bep.head_m, u.head))} ${u.head.label}, ${num(bep.efficiency * 100, 3)} %`)));
+      }
+      if (duty) {
+        g.append(svg('polyline', { points: duty.system.map((p) => `${x(p[0]).toFixed(1)},${y(p[1]).toFixed(1)}`).join(' '), class: 'system-curve' }));
+        for (const p of duty.points) g.append(svg('rect', { x: x(p.flow) - 4, y: y(p.head) - 4, width: 8, height: 8, class: `op-point${p.npshMarginOk === false ? ' short' : ''}` }, svg('title', null, `Operating point ${p.label}: ${num(fromSI(p.flow, u.flow))} ${unitText(u.flow.label)}, ${num(fromSI(p.head, u.head))} ${u.head.label}`)));
+      }
+    }
+    if (q === 'npshr' || q === 'power') {
+      g.append(svg('text', { x: LEFT + plotW, y: top + PLOT_H + (row === quantities.length - 1 ? 28 : 12), class: 'caution-note', 'text-anchor': 'end' }, q === 'npshr' ? 'NPSHr: preliminary — check against certified data' : 'Power: preliminary — size motors from certified data'));
+    }
+    root.append(g);
+  });
+  root.append(svg('text', { x: LEFT + plotW / 2, y: height - 2, class: 'axis-title', 'text-anchor': 'middle' }, `Flow [${unitText(u.flow.label)}]`));
+  return h('figure', { class: 'family' },
+    root,
+    h('figcaption', null, `${set.pump.name} at ${num(set.speed_rpm)} rpm — fitted curves over their captured range only. ${SAFETY_SENTENCE}`));
+}
+
+function memberName(m: Member, u: ChartUnits): string {
+  return m.diameter_m !== undefined ? `${num(fromSI(m.diameter_m, u.diameter), 4)} ${u.diameter.label}` : `${num(m.speed_rpm)} rpm`;
+}

@@ -1,0 +1,86 @@
+/**
+ * Step 4: findings in plain sentences, each linked to its trace; residuals per trace; the
+ * figures of each diameter. The family chart itself sits beside the sheet.
+ */
+import { h } from '../dom/h.ts';
+import type { Bench } from '../app/bench.ts';
+import type { Finding } from '../../model/curveset.ts';
+import { fromSI, parseUnit } from '../../units/index.ts';
+import { traceName } from '../store/actions/traces.ts';
+import type { Draft } from '../store/draft.ts';
+import { chartUnits } from './familyChart.ts';
+import { num, SAFETY_SENTENCE, unitText } from './words.ts';
+
+const SEVERITY_WORDS = { fail: 'Fails', warn: 'Check', note: 'Note' } as const;
+
+/** The trace a finding is about: named outright, or the one of its quantity and diameter. */
+export function traceOfFinding(draft: Draft, f: Finding): string | null {
+  if (f.subject.trace && draft.traces.some((t) => t.id === f.subject.trace)) return f.subject.trace;
+  const d = f.subject.diameter_m;
+  if (d === undefined) return null;
+  let unit;
+  try {
+    unit = parseUnit('diameter', draft.units.diameter);
+  } catch {
+    return null;
+  }
+  const sameDiameter = draft.traces.filter((t) => t.diameter !== undefined && Math.abs(t.diameter * unit.factor - d) <= 1e-6 * d);
+  const quantity = f.subject.quantity ?? 'head';
+  return (sameDiameter.find((t) => t.quantity === quantity) ?? sameDiameter.find((t) => t.quantity === 'head') ?? sameDiameter[0])?.id ?? null;
+}
+
+export function reviewStep(bench: Bench): HTMLElement {
+  const { store, derived } = bench;
+  const { draft, session } = store;
+  const set = derived.curveSet;
+  if (!set) {
+    return h('div', { class: 'step-body' },
+      h('p', { class: 'hint' }, derived.computing ? 'Fitting the curves…' : derived.problem ?? 'Trace some curves first.'));
+  }
+  const u = chartUnits(session.unitSystem);
+  const findings = set.findings;
+  const counts = { fail: findings.filter((f) => f.severity === 'fail').length, warn: findings.filter((f) => f.severity === 'warn').length };
+  return h('div', { class: 'step-body' },
+    h('p', { class: 'caution', role: 'note' }, h('strong', null, 'Caution: '), SAFETY_SENTENCE),
+    h('p', { class: 'summary' }, `${set.members.length} diameters · ${counts.fail} failing, ${counts.warn} to check, ${findings.length - counts.fail - counts.warn} notes.`),
+    h('h4', null, 'Findings'),
+    findings.length === 0 ? h('p', { class: 'hint' }, 'No findings: every check passed.') : h('ol', { class: 'findings' }, findings.map((f) => {
+      const trace = traceOfFinding(draft, f);
+      const picked = trace !== null && session.highlightedTrace === trace;
+      return h('li', { class: `finding ${f.severity}${picked ? ' picked' : ''}`, 'data-key': f.id },
+        h('span', { class: 'severity' }, SEVERITY_WORDS[f.severity]),
+        trace
+          ? h('button', { type: 'button', class: 'link finding-text', 'aria-label': `${f.message} — show the trace on the sheet`, onclick: () => bench.showTrace(picked ? null : trace) }, f.message)
+          : h('span', { class: 'finding-text' }, f.message));
+    })),
+    h('h4', null, 'Residuals per trace'),
+    h('table', { class: 'residuals' },
+      h('thead', null, h('tr', null, h('th', { scope: 'col' }, 'Trace'), h('th', { scope: 'col' }, 'Points'), h('th', { scope: 'col' }, 'RMS'), h('th', { scope: 'col' }, 'Largest'), h('th', { scope: 'col' }, 'of span'))),
+      h('tbody', null, draft.traces.map((t) => {
+        const r = derived.residuals.get(t.id);
+        const name = traceName(t, unitText(draft.units.diameter), unitText(draft.units.power));
+        return h('tr', { 'data-key': `r-${t.id}`, class: session.highlightedTrace === t.id ? 'picked' : '' },
+          h('th', { scope: 'row' }, h('button', { type: 'button', class: 'link', onclick: () => bench.showTrace(t.id) }, name)),
+          h('td', null, r ? String(r.points) : '—'),
+          h('td', null, r ? `${num(r.rms, 2)} ${unitText(r.unit.label || r.unit.token)}` : '—'),
+          h('td', null, r ? `${num(r.max, 2)} ${unitText(r.unit.label || r.unit.token)}` : '—'),
+          h('td', { class: r && r.percentOfSpan > 1 ? 'warn' : '' }, r ? `${num(r.percentOfSpan, 2)} %` : '—'));
+      }))),
+    h('h4', null, 'Figures per diameter'),
+    h('table', { class: 'figures' },
+      h('thead', null, h('tr', null,
+        h('th', { scope: 'col' }, `Diameter [${u.diameter.label}]`),
+        h('th', { scope: 'col' }, `Shutoff head [${u.head.label}]`),
+        h('th', { scope: 'col' }, `BEP flow [${unitText(u.flow.label)}]`),
+        h('th', { scope: 'col' }, `BEP head [${u.head.label}]`),
+        h('th', { scope: 'col' }, 'BEP efficiency [%]'))),
+      h('tbody', null, [...set.members].sort((a, b) => (b.diameter_m ?? 0) - (a.diameter_m ?? 0)).map((m) =>
+        h('tr', { 'data-key': `m-${m.diameter_m}` },
+          h('th', { scope: 'row' }, m.diameter_m !== undefined ? num(fromSI(m.diameter_m, u.diameter)) : `${m.speed_rpm} rpm`),
+          h('td', null, m.derived.shutoff_head_m !== undefined ? num(fromSI(m.derived.shutoff_head_m, u.head)) : '—'),
+          h('td', null, m.derived.bep ? num(fromSI(m.derived.bep.flow_m3s, u.flow)) : '—'),
+          h('td', null, m.derived.bep ? num(fromSI(m.derived.bep.head_m, u.head)) : '—'),
+          h('td', null, m.derived.bep ? num(m.derived.bep.efficiency * 100, 3) : '—'))))),
+    derived.omitted.length ? h('div', { class: 'omitted' }, h('h4', null, 'Left out for now'), h('ul', null, derived.omitted.map((o) => h('li', null, o)))) : null,
+  );
+}

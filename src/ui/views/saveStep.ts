@@ -1,0 +1,20 @@
+/** Step 5: download the take-off file, the curve set and the CSV table; save to the library. */
+import { h } from '../dom/h.ts';
+import type { Bench } from '../app/bench.ts';
+
+export function saveStep(bench: Bench, library: { state: 'idle' | 'saving' | 'saved' | 'failed'; text: string }): HTMLElement {
+  const { derived, store } = bench;
+  const ready = derived.curveSet !== null;
+  const hasTakeoff = derived.takeoff !== null;
+  return h('div', { class: 'step-body' },
+    h('p', { class: 'hint' }, 'The take-off file keeps the anchors, guides and points, so the work can be resumed, checked and replayed. Keep it next to its sheet.'),
+    h('div', { class: 'buttons' },
+      h('button', { type: 'button', id: 'download-takeoff', class: 'primary', disabled: !hasTakeoff, onclick: () => bench.download('takeoff') }, 'Download the take-off file'),
+      h('button', { type: 'button', id: 'download-curveset', disabled: !ready, onclick: () => bench.download('curveset') }, 'Download the curve set'),
+      h('button', { type: 'button', id: 'download-csv', disabled: !ready, onclick: () => bench.download('csv') }, `Download the CSV table (${store.session.unitSystem.toUpperCase()} units)`),
+      h('button', { type: 'button', id: 'save-library', disabled: !ready || library.state === 'saving', onclick: () => bench.saveToLibrary() }, library.state === 'saving' ? 'Saving to the library…' : 'Save to the library')),
+    library.text ? h('p', { class: `library-state ${library.state}`, role: 'status' }, library.text) : null,
+    !hasTakeoff ? h('p', { class: 'hint' }, derived.problem ?? 'Set the axes of a panel and trace a curve first.') : null,
+    h('p', { class: 'hint' }, 'To resume later, open the take-off file together with its sheet in step 1. The work is also kept in this browser after every edit.'),
+  );
+}

@@ -1,0 +1,121 @@
+/**
+ * Step 3: the diameters of the family, what the next click traces, and the list of traces
+ * with their state (points, residual) and their switches (hide, lock, re-trace, delete).
+ */
+import { h } from '../dom/h.ts';
+import type { Bench } from '../app/bench.ts';
+import type { Quantity } from '../../model/curveset.ts';
+import { parseDiameterList, setDiameters, setUnits } from '../store/actions/setup.ts';
+import { EditError } from '../store/actions/action.ts';
+import { discardEdits, removeTrace, setHidden, setLocked, traceName } from '../store/actions/traces.ts';
+import { pointsOf, type TraceDraft } from '../store/draft.ts';
+import { firstUntraced, panelFor, targetFor } from '../store/target.ts';
+import { QUANTITY_INK } from '../canvas/overlay.ts';
+import { QUANTITY_NAMES, UNIT_CHOICES, num, unitText } from './words.ts';
+import { field } from './loadStep.ts';
+
+const ORDER: Quantity[] = ['head', 'efficiency', 'power', 'npshr'];
+
+export function traceStep(bench: Bench): HTMLElement {
+  const { store } = bench;
+  const { draft, session } = store;
+  const target = session.target;
+  const diameterInput = h('input', {
+    id: 'diameters',
+    type: 'text',
+    value: draft.diameters.join(' '),
+    placeholder: 'e.g. 250 235 220 205',
+    onchange: (e: Event) => {
+      try {
+        const list = parseDiameterList((e.target as HTMLInputElement).value);
+        if (store.dispatch(setDiameters(list))) store.setSession({ target: targetFor(store.draft, store.session.target.quantity) });
+      } catch (error) {
+        store.say((error as EditError).message, 'error');
+      }
+    },
+  });
+  const diameterUnit = h('select', { id: 'diameter-unit', 'aria-label': 'Diameter unit', onchange: (e: Event) => store.dispatch(setUnits({ diameter: (e.target as HTMLSelectElement).value })) },
+    UNIT_CHOICES.diameter.map((u) => h('option', { value: u, selected: u === draft.units.diameter }, unitText(u))));
+
+  const quantityButtons = h('div', { class: 'segmented', role: 'group', 'aria-label': 'Quantity to trace next' },
+    ORDER.map((q) => h('button', {
+      type: 'button',
+      'data-key': `q-${q}`,
+      'aria-pressed': target.quantity === q ? 'true' : 'false',
+      style: { borderBottomColor: QUANTITY_INK[q] },
+      disabled: !panelFor(draft, targetFor(draft, q)),
+      onclick: () => store.setSession({ target: targetFor(draft, q) }),
+    }, QUANTITY_NAMES[q])));
+
+  const linesChoice = target.quantity === 'efficiency' || target.quantity === 'power'
+    ? h('div', { class: 'segmented small', role: 'group', 'aria-label': 'How the quantity is drawn' },
+        h('button', { type: 'button', 'aria-pressed': target.lines === 'diameter' ? 'true' : 'false', onclick: () => store.setSession({ target: { quantity: target.quantity, lines: 'diameter', ...(firstUntraced(draft, target.quantity) !== undefined ? { diameter: firstUntraced(draft, target.quantity) as number } : {}) } }) }, 'one curve per diameter'),
+        h('button', { type: 'button', 'aria-pressed': target.lines === 'iso' ? 'true' : 'false', onclick: () => store.setSession({ target: { quantity: target.quantity, lines: 'iso' } }) }, 'lines of constant value'))
+    : null;
+
+  const which = target.lines === 'iso'
+    ? field(`Value of the line`, h('input', {
+        id: 'iso-value',
+        type: 'text',
+        inputmode: 'decimal',
+        value: target.iso === undefined ? '' : String(target.iso),
+        placeholder: target.quantity === 'efficiency' ? 'e.g. 70' : 'e.g. 15',
+        onchange: (e: Event) => {
+          const text = (e.target as HTMLInputElement).value.trim().replace(',', '.');
+          const v = Number(text);
+          if (text === '' || !Number.isFinite(v)) {
+            store.setSession({ target: { quantity: target.quantity, lines: 'iso' } });
+            if (text !== '') store.say(`"${text}" is not a number; type the value written on the line, e.g. 70.`, 'error');
+          } else store.setSession({ target: { ...target, iso: v } });
+        },
+      }), target.quantity === 'efficiency' ? '%' : unitText(draft.units.power))
+    : h('div', { class: 'chips', role: 'group', 'aria-label': 'Diameter to trace next' },
+        draft.diameters.length === 0 ? h('span', { class: 'hint' }, 'Type the diameters above first.') : null,
+        draft.diameters.map((d) => {
+          const done = draft.traces.some((t) => t.quantity === target.quantity && t.iso === undefined && t.diameter === d);
+          return h('button', { type: 'button', class: `chip${done ? ' done' : ''}`, 'data-key': `d-${d}`, 'aria-pressed': target.diameter === d ? 'true' : 'false', onclick: () => store.setSession({ target: { ...target, lines: 'diameter', diameter: d } }) },
+            `${d} ${unitText(draft.units.diameter)}`, done ? h('span', { class: 'tick', 'aria-label': 'traced' }, ' ✓') : null);
+        }));
+
+  return h('div', { class: 'step-body' },
+    h('div', { class: 'field' }, h('label', { for: 'diameters' }, 'Impeller diameters'), diameterInput, diameterUnit),
+    h('fieldset', { class: 'next' },
+      h('legend', null, 'Next click traces'),
+      quantityButtons,
+      linesChoice,
+      which),
+    h('p', { class: 'hint keys' },
+      'Click on a line: it is traced at once, and the next curve is proposed. ',
+      h('kbd', null, 'Shift'), '-click adds a guide to the selected trace; drag a guide to re-trace; drag a point to move it; ',
+      h('kbd', null, 'Alt'), '-click on the selected trace inserts a point; ', h('kbd', null, 'Delete'), ' removes the selected point.'),
+    traceList(bench),
+  );
+}
+
+function traceList(bench: Bench): HTMLElement {
+  const { store } = bench;
+  const { draft, session } = store;
+  const groups = ORDER.map((q) => ({ q, traces: draft.traces.filter((t) => t.quantity === q) })).filter((g) => g.traces.length);
+  if (groups.length === 0) return h('p', { class: 'hint' }, 'No traces yet.');
+  return h('div', { class: 'trace-list' }, groups.map((g) =>
+    h('section', { 'data-key': `group-${g.q}`, 'aria-label': `${QUANTITY_NAMES[g.q]} traces` },
+      h('h4', null, h('span', { class: 'swatch', style: { background: QUANTITY_INK[g.q] } }), `${QUANTITY_NAMES[g.q]} (${g.traces.length})`),
+      h('ul', null, g.traces.map((t) => traceRow(bench, t, session.selectedTrace === t.id))))));
+}
+
+function traceRow(bench: Bench, t: TraceDraft, selected: boolean): HTMLElement {
+  const { store } = bench;
+  const { draft } = store;
+  const name = traceName(t, unitText(draft.units.diameter), unitText(draft.units.power));
+  const r = bench.derived.residuals.get(t.id);
+  const count = pointsOf(t).length;
+  return h('li', { class: `trace-row${selected ? ' selected' : ''}${t.hidden ? ' hidden-trace' : ''}`, 'data-key': t.id },
+    h('button', { type: 'button', class: 'link trace-name', onclick: () => { store.setSession({ selectedTrace: t.id, selectedPoint: null }); bench.showTrace(t.id); } }, name),
+    h('span', { class: 'trace-meta' }, `${count} pts${t.points ? ', edited' : ''}${r ? ` · ±${num(r.max, 2)} ${unitText(r.unit.token)}` : ''}`),
+    h('span', { class: 'trace-actions' },
+      h('button', { type: 'button', class: 'icon', 'aria-pressed': t.hidden ? 'true' : 'false', title: t.hidden ? 'Show this trace' : 'Hide this trace', 'aria-label': `${t.hidden ? 'Show' : 'Hide'} ${name}`, onclick: () => store.dispatch(setHidden(t.id, !t.hidden)) }, t.hidden ? 'show' : 'hide'),
+      h('button', { type: 'button', class: 'icon', 'aria-pressed': t.locked ? 'true' : 'false', title: t.locked ? 'Unlock this trace' : 'Lock this trace against edits', 'aria-label': `${t.locked ? 'Unlock' : 'Lock'} ${name}`, onclick: () => store.dispatch(setLocked(t.id, !t.locked)) }, t.locked ? 'unlock' : 'lock'),
+      h('button', { type: 'button', class: 'icon', title: 'Trace the line again from its guides', 'aria-label': `Re-trace ${name}`, disabled: t.locked || t.guides.length === 0, onclick: () => bench.retrace(t.id) }, 're-trace'),
+      t.points ? h('button', { type: 'button', class: 'icon', title: 'Drop the hand edits', 'aria-label': `Drop hand edits of ${name}`, disabled: t.locked, onclick: () => store.dispatch(discardEdits(t.id)) }, 'undo edits') : null,
+      h('button', { type: 'button', class: 'icon danger', title: 'Delete this trace', 'aria-label': `Delete ${name}`, disabled: t.locked, onclick: () => store.dispatch(removeTrace(t.id)) }, 'delete')));
+}
