@@ -46,7 +46,7 @@ export interface DutySearchView {
 
 export function unitSystemNamed(name: string | undefined): PresetName {
   if (name === 'si' || name === 'us') return name;
-  throw new LibraryError('Say which units the duty is in: units=si (flow m³/h, head m) or units=us (flow gpm, head ft).', 'invalid');
+  throw new LibraryError('Say which units the duty is in: "si" (flow m³/h, head m) or "us" (flow gpm, head ft).', 'invalid');
 }
 
 /** A duty given in display units → SI. */
