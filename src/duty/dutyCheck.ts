@@ -5,6 +5,7 @@
  */
 import type { CurveSet } from '../model/curveset.ts';
 import { membersByDiameter } from '../fit/affinity.ts';
+import { displayFor } from '../fit/checks/display.ts';
 import { familyFigures } from '../fit/checks/speedFigures.ts';
 import { NSS_US_CAUTION } from '../fit/specificSpeed.ts';
 import { parallelPumps, pumpCurveAtSpeed, pumpCurveOfMember, type PumpCurve } from './pumpCurve.ts';
@@ -117,7 +118,7 @@ export function dutyCheck(set: CurveSet, input: DutyCheckInput): DutyCheckReport
     if (!(d > 0)) throw new DutyError(`An impeller diameter to evaluate must be positive, not ${d} m.`);
     if (membersByDiameter(set).length === 0) throw new DutyError('This curve set has no impeller diameters, so no trim can be evaluated.');
     const curve = curveAtDiameter(set, d, density);
-    operating_points.push(entryFor({ ...curve, label: `trim ${(d * 1000).toFixed(1)} mm` }, 'trim'));
+    operating_points.push(entryFor({ ...curve, label: `trim ${displayFor(set.display_units).diameter(d)}` }, 'trim'));
   }
 
   const trim = meetDuty(set, { flow_m3s: perPumpFlow, head_m: input.head_m, static_head_m: system.static_head_m, density_kg_m3: density });
@@ -207,7 +208,8 @@ function npshSection(set: CurveSet, input: DutyCheckInput, selected: PumpCurve |
   judge('duty (trimmed impeller)', report.trim.point);
   if (report.parallel?.single.status === 'ok') judge('one pump running alone', report.parallel.single.point);
   for (const op of report.operating_points) {
-    if (op.result.status === 'ok') judge(`operating point, ${op.label}`, report.parallel_count > 1 ? op.per_pump : op.result.point);
+    const name = op.diameter_m !== undefined && op.kind !== 'trim' ? displayFor(set.display_units).diameter(op.diameter_m) : op.label;
+    if (op.result.status === 'ok') judge(`operating point, ${name}`, report.parallel_count > 1 ? op.per_pump : op.result.point);
   }
   const duty = points[0]?.judgement;
   if (duty && duty.verdict !== 'meets-guidance') problems.push(`NPSH at the duty: ${duty.message}`);
