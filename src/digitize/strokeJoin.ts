@@ -30,8 +30,14 @@ export interface StrokeLine {
 
 /** Largest turn accepted at a join, radians: a curve's pieces continue smoothly, a grid corner turns 90°. */
 const MAX_TURN = (60 * Math.PI) / 180;
+/**
+ * Some programs write a dashed line as its dashes. Ends of the same style up to this far apart
+ * (sheet units) are bridged when the gap runs along both ends' directions, as a dash gap does.
+ */
+export const DEFAULT_BRIDGE = 8;
+const BRIDGE_ALIGN = Math.cos((20 * Math.PI) / 180);
 
-export function joinPieces(pieces: readonly Piece[], tolerance: number): StrokeLine[] {
+export function joinPieces(pieces: readonly Piece[], tolerance: number, bridge = DEFAULT_BRIDGE): StrokeLine[] {
   const byStyle = new Map<string, Piece[]>();
   for (const p of pieces) {
     const list = byStyle.get(p.style);
@@ -39,7 +45,7 @@ export function joinPieces(pieces: readonly Piece[], tolerance: number): StrokeL
     else byStyle.set(p.style, [p]);
   }
   const out: StrokeLine[] = [];
-  for (const group of byStyle.values()) out.push(...joinGroup(group, tolerance));
+  for (const group of byStyle.values()) out.push(...joinGroup(group, tolerance, Math.max(bridge, tolerance)));
   return out;
 }
 
@@ -52,7 +58,7 @@ interface End {
   out: [number, number];
 }
 
-function joinGroup(group: readonly Piece[], tolerance: number): StrokeLine[] {
+function joinGroup(group: readonly Piece[], tolerance: number, bridge: number): StrokeLine[] {
   const lines: StrokeLine[] = [];
   const open: Piece[] = [];
   for (const p of group) (p.closed ? lines.push(makeLine([p.points], true, p, 1)) : open.push(p));
@@ -64,8 +70,8 @@ function joinGroup(group: readonly Piece[], tolerance: number): StrokeLine[] {
     ends.push({ piece: k, side: 1, at: p.points[p.points.length - 1] as SheetPoint, out: outward(p.points, 1) });
   });
 
-  // Candidate joins through a grid of cells as wide as the tolerance.
-  const cell = Math.max(tolerance, 1e-9);
+  // Candidate joins through a grid of cells as wide as the largest gap bridged.
+  const cell = Math.max(bridge, 1e-9);
   const grid = new Map<string, number[]>();
   const key = (x: number, y: number) => `${Math.floor(x / cell)},${Math.floor(y / cell)}`;
   ends.forEach((e, i) => {
@@ -74,7 +80,7 @@ function joinGroup(group: readonly Piece[], tolerance: number): StrokeLine[] {
     if (list) list.push(i);
     else grid.set(k, [i]);
   });
-  const candidates: { i: number; j: number; turn: number; gap: number }[] = [];
+  const candidates: { i: number; j: number; cost: number }[] = [];
   ends.forEach((e, i) => {
     const cx = Math.floor(e.at[0] / cell);
     const cy = Math.floor(e.at[1] / cell);
@@ -83,18 +89,32 @@ function joinGroup(group: readonly Piece[], tolerance: number): StrokeLine[] {
         for (const j of grid.get(`${cx + dx},${cy + dy}`) ?? []) {
           if (j <= i) continue;
           const f = ends[j] as End;
+          if (e.piece === (ends[j] as End).piece) continue;
           const gap = Math.hypot(e.at[0] - f.at[0], e.at[1] - f.at[1]);
-          if (gap > tolerance) continue;
+          if (gap > bridge) continue;
           // Smooth continuation: the two outward directions point against each other.
           const cos = -(e.out[0] * f.out[0] + e.out[1] * f.out[1]);
           const turn = Math.acos(Math.max(-1, Math.min(1, cos)));
           if (turn > MAX_TURN) continue;
-          candidates.push({ i, j, turn, gap });
+          const bridged = gap > tolerance;
+          const gx = f.at[0] - e.at[0];
+          const gy = f.at[1] - e.at[1];
+          // How far the far end lies off the near end's tangent (and the other way round).
+          const lateral = Math.max(Math.abs(e.out[0] * gy - e.out[1] * gx), Math.abs(f.out[0] * gy - f.out[1] * gx));
+          if (bridged) {
+            // A dash gap runs straight on from both ends.
+            if ((e.out[0] * gx + e.out[1] * gy) / gap < BRIDGE_ALIGN || -(f.out[0] * gx + f.out[1] * gy) / gap < BRIDGE_ALIGN) continue;
+            if (lateral > Math.max(0.2, 0.15 * gap)) continue;
+          }
+          // Truest continuation first: on the tangent and heading the same way. Where two curves
+          // cross, the other curve's piece may lie on the tangent too, but heads off at the crossing
+          // angle; where ends coincide (a grid crossing), the straightest way on wins.
+          candidates.push({ i, j, cost: lateral + Math.max(gap, 1) * turn + (bridged ? 0.01 : 0) });
         }
       }
     }
   });
-  candidates.sort((a, b) => a.turn - b.turn || a.gap - b.gap);
+  candidates.sort((a, b) => a.cost - b.cost);
   const partner = new Int32Array(ends.length).fill(-1);
   for (const c of candidates) {
     if (partner[c.i] !== -1 || partner[c.j] !== -1) continue;

@@ -13,6 +13,7 @@ import { arcLengthAt, arcLengths, clipPolyline, dedupe, nearestOnPolyline, slice
 import type { SheetPoint } from './points.ts';
 import type { VectorPath } from './sheet.ts';
 import { joinPieces, type Piece, type StrokeLine } from './strokeJoin.ts';
+import { centrelineOf } from './outlines.ts';
 
 /** Thrown when no drawn line fits the guides; the message says what to do. */
 export class CaptureError extends Error {
@@ -48,7 +49,10 @@ export const DEFAULT_MAX_GUIDE_DISTANCE = 8;
 export function strokePieces(paths: readonly VectorPath[], flatness = DEFAULT_FLATNESS): Piece[] {
   const pieces: Piece[] = [];
   for (const path of paths) {
-    if (path.stroke === null) continue;
+    if (path.stroke === null) {
+      if (path.fill !== null) pieces.push(...outlinePieces(path, flatness));
+      continue;
+    }
     const style = `${path.stroke}|${path.lineWidth.toFixed(3)}|${path.dashed ? 'dash' : 'solid'}`;
     for (const line of flattenPath(path.segments, flatness)) {
       // Only what the clipping area lets the page show was drawn.
@@ -58,6 +62,20 @@ export function strokePieces(paths: readonly VectorPath[], flatness = DEFAULT_FL
     }
   }
   return pieces;
+}
+
+/** Centre lines of the thin filled outlines of a path (strokes some programs write as fills). */
+function outlinePieces(path: VectorPath, flatness: number): Piece[] {
+  const out: Piece[] = [];
+  const style = `${path.fill}|outline`;
+  for (const ring of flattenPath(path.segments, flatness)) {
+    if (!ring.closed) continue;
+    const centre = centrelineOf(ring.points);
+    if (!centre) continue;
+    const parts = path.clip ? clipPolyline(centre.points, path.clip) : [centre.points];
+    for (const points of parts) out.push({ points, closed: false, style, stroke: path.fill, lineWidth: centre.width });
+  }
+  return out;
 }
 
 /** The joined lines of a page, ready for repeated captures. */
