@@ -255,10 +255,12 @@ export function proposePanels(text: readonly SheetText[], paths: readonly Vector
         });
         const axis = axisFrom(snapped);
         if (!axis) continue;
-        const signature = snapped.map((t) => `${t.value}@${t.at.toFixed(3)}`).join('|');
+        // The same column found by two alignments is one axis; the same numbers in another column
+        // (a right-hand axis matching the left one) are another.
+        const middle = run.reduce((sum, l) => sum + (l.left + l.right) / 2, 0) / run.length;
+        const signature = `${Math.round(middle / 10)}:${snapped.map((t) => `${t.value}@${t.at.toFixed(3)}`).join('|')}`;
         if (seen.has(signature)) continue;
         seen.add(signature);
-        const middle = run.reduce((sum, l) => sum + (l.left + l.right) / 2, 0) / run.length;
         yAxes.push({ axis, across: middle, from: Math.min(...snapped.map((t) => t.at)), to: Math.max(...snapped.map((t) => t.at)) });
       }
     }
