@@ -2,28 +2,40 @@
  * How much a pixel looks like "the line": a colour model built from the paper colour and
  * the line colour found under a guide. Pure; works on RGBA buffers only.
  *
- * A pixel p is projected onto the segment paper → line in RGB space:
- *   t = (paper − p)·(paper − line) / |paper − line|²      (0 on paper, 1 on the line)
- *   s = |(paper − p) − t·(paper − line)| / |paper − line|   (how far off that segment p lies)
- *   membership = clamp(t − OFF_AXIS_WEIGHT·s, 0, 1)
- * Anti-aliased edges of the line fall on the segment and keep a partial membership, which is
- * what makes the sub-pixel centroid work; other inks (black text over a blue curve, a green
- * curve crossing a blue one) lie off the segment and drop out.
+ * Colours are taken as differences from the paper, Δ = paper − pixel, split into luma
+ * Y(Δ) = 0.299 ΔR + 0.587 ΔG + 0.114 ΔB (ITU-R BT.601 weights) and chroma C(Δ) = Δ − Y(Δ)·(1,1,1).
+ * Scans and JPEGs keep luma sharp but smear chroma (JPEG stores it at half resolution), so:
+ *   t = Y(Δp) / Y(Δline)                       how dark the pixel is, as a fraction of the line
+ * and, for a coloured line, the pixel's chroma must point the line's way:
+ *   a = C(Δp)·ĉ / |C(Δline)|,  o = |C(Δp) − (C(Δp)·ĉ) ĉ| / |C(Δline)|
+ *   membership = t · ramp(a / t) − 1.5·o   (ramp: 0 below 0.1, 1 from 0.35 up)
+ * so a line whose colour was thinned to half by the compression still counts, black text or
+ * a differently coloured curve across it does not. For a black or grey line, any chroma counts
+ * against the pixel: membership = t − 1.5·|C(Δp)| / Y(Δline).
+ * Anti-aliased edges (a mix of line and paper) get membership equal to the mix fraction,
+ * which is what makes the sub-pixel centroid work. A line with little luma contrast (yellow
+ * on white) falls back to the projection onto the paper → line segment in RGB.
  */
 import type { RasterImage } from './raster.ts';
 
 export type Rgb = readonly [number, number, number];
 
-/** Weight of the off-segment distance; 1 keeps JPEG-desaturated edges of thin coloured lines. */
-const OFF_AXIS_WEIGHT = 1.0;
-
 export interface InkModel {
   readonly line: Rgb;
   readonly paper: Rgb;
-  /** paper − line, and 1/|paper − line|², kept for the hot loop. */
+  /** paper − line. */
   readonly ax: number;
   readonly ay: number;
   readonly az: number;
+  readonly mode: 'chromatic' | 'achromatic' | 'projection';
+  /** 1 / Y(paper − line). */
+  readonly invLuma: number;
+  /** Unit chroma direction of the line and 1 / |C(paper − line)|. */
+  readonly cx: number;
+  readonly cy: number;
+  readonly cz: number;
+  readonly invChroma: number;
+  /** For the projection fallback: 1/|paper − line|² and 1/|paper − line|. */
   readonly invNorm2: number;
   readonly invNorm: number;
 }
@@ -31,12 +43,34 @@ export interface InkModel {
 /** Smallest paper-to-line contrast (Euclidean RGB distance, 0–441) that can be followed. */
 export const MIN_CONTRAST = 40;
 
+const luma = (r: number, g: number, b: number) => 0.299 * r + 0.587 * g + 0.114 * b;
+
 export function inkModel(line: Rgb, paper: Rgb): InkModel {
   const ax = paper[0] - line[0];
   const ay = paper[1] - line[1];
   const az = paper[2] - line[2];
   const n2 = Math.max(ax * ax + ay * ay + az * az, 1);
-  return { line, paper, ax, ay, az, invNorm2: 1 / n2, invNorm: 1 / Math.sqrt(n2) };
+  const y = luma(ax, ay, az);
+  const kx = ax - y;
+  const ky = ay - y;
+  const kz = az - y;
+  const chroma = Math.hypot(kx, ky, kz);
+  const mode = y < 0.3 * Math.sqrt(n2) ? 'projection' : chroma > 0.25 * y ? 'chromatic' : 'achromatic';
+  return {
+    line,
+    paper,
+    ax,
+    ay,
+    az,
+    mode,
+    invLuma: y > 0 ? 1 / y : 0,
+    cx: chroma > 0 ? kx / chroma : 0,
+    cy: chroma > 0 ? ky / chroma : 0,
+    cz: chroma > 0 ? kz / chroma : 0,
+    invChroma: chroma > 0 ? 1 / chroma : 0,
+    invNorm2: 1 / n2,
+    invNorm: 1 / Math.sqrt(n2),
+  };
 }
 
 /** Membership 0…1 of the colour (r, g, b) in the line (see the file comment). */
@@ -44,12 +78,32 @@ export function membership(model: InkModel, r: number, g: number, b: number): nu
   const dx = model.paper[0] - r;
   const dy = model.paper[1] - g;
   const dz = model.paper[2] - b;
-  const t = (dx * model.ax + dy * model.ay + dz * model.az) * model.invNorm2;
-  const ox = dx - t * model.ax;
-  const oy = dy - t * model.ay;
-  const oz = dz - t * model.az;
-  const s = Math.sqrt(ox * ox + oy * oy + oz * oz) * model.invNorm;
-  const m = t - OFF_AXIS_WEIGHT * s;
+  let m: number;
+  if (model.mode === 'projection') {
+    const t = (dx * model.ax + dy * model.ay + dz * model.az) * model.invNorm2;
+    const s = Math.hypot(dx - t * model.ax, dy - t * model.ay, dz - t * model.az) * model.invNorm;
+    m = t - 2 * s;
+  } else {
+    const y = 0.299 * dx + 0.587 * dy + 0.114 * dz;
+    const t = y * model.invLuma;
+    if (t <= 0) return 0;
+    const kx = dx - y;
+    const ky = dy - y;
+    const kz = dz - y;
+    if (model.mode === 'achromatic') {
+      m = t - 1.5 * Math.sqrt(kx * kx + ky * ky + kz * kz) * model.invLuma;
+    } else {
+      const along = kx * model.cx + ky * model.cy + kz * model.cz;
+      const ox = kx - along * model.cx;
+      const oy = ky - along * model.cy;
+      const oz = kz - along * model.cz;
+      const a = along * model.invChroma;
+      const o = Math.sqrt(ox * ox + oy * oy + oz * oz) * model.invChroma;
+      const ratio = a / t;
+      const ramp = ratio <= 0.1 ? 0 : ratio >= 0.35 ? 1 : (ratio - 0.1) / 0.25;
+      m = (t > 1 ? 1 : t) * ramp - 1.5 * o;
+    }
+  }
   return m <= 0 ? 0 : m >= 1 ? 1 : m;
 }
 
@@ -78,16 +132,22 @@ export function windowAround(image: RasterImage, cx: number, cy: number, radius:
 export function estimatePaper(image: RasterImage, cx: number, cy: number, radius: number): Rgb {
   const [x0, y0, x1, y1] = windowAround(image, cx, cy, radius);
   const { data, width } = image;
-  const lum: number[] = [];
+  // Median of r+g+b from a histogram (0…765), then the mean colour of the pixels at or above it.
+  const histogram = new Uint32Array(766);
+  let count = 0;
   for (let y = y0; y < y1; y++) {
     for (let x = x0; x < x1; x++) {
       const i = (y * width + x) * 4;
-      lum.push((data[i] as number) + (data[i + 1] as number) + (data[i + 2] as number));
+      (histogram[(data[i] as number) + (data[i + 1] as number) + (data[i + 2] as number)] as number)++;
+      count++;
     }
   }
-  if (lum.length === 0) return [255, 255, 255];
-  const sorted = [...lum].sort((a, b) => a - b);
-  const median = sorted[Math.floor(sorted.length / 2)] as number;
+  if (count === 0) return [255, 255, 255];
+  let median = 0;
+  for (let seen = 0; median < 766; median++) {
+    seen += histogram[median] as number;
+    if (seen * 2 >= count) break;
+  }
   let r = 0;
   let g = 0;
   let b = 0;
@@ -95,8 +155,7 @@ export function estimatePaper(image: RasterImage, cx: number, cy: number, radius
   for (let y = y0; y < y1; y++) {
     for (let x = x0; x < x1; x++) {
       const i = (y * width + x) * 4;
-      const l = (data[i] as number) + (data[i + 1] as number) + (data[i + 2] as number);
-      if (l < median) continue;
+      if ((data[i] as number) + (data[i + 1] as number) + (data[i + 2] as number) < median) continue;
       r += data[i] as number;
       g += data[i + 1] as number;
       b += data[i + 2] as number;

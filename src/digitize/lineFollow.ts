@@ -18,6 +18,13 @@ export interface LineStyle {
   width: number;
   /** Membership at which a sample counts as line. */
   threshold: number;
+  /**
+   * Range of cross-section mass, as fractions of `width`, that counts as this line. Black
+   * lines keep their mass within a few per cent through noise and compression, so a tight
+   * range rejects the thinner strokes of text; coloured lines lose some chroma to the
+   * compression and need a wider range.
+   */
+  massRange: readonly [number, number];
 }
 
 export interface FollowLimits {
@@ -34,8 +41,63 @@ export interface FollowResult {
   dx: number;
   dy: number;
   reached: boolean;
+  /** When the follower ran into another pass (see `PathIndex`), the index of the track position it met. */
+  met?: number;
+  /**
+   * Every position the follower stood on, seen or coasted, as flat x, y pairs, with the number
+   * of accepted points at each: what a pass from the other side checks for a meeting.
+   */
+  track: number[];
+  trackPoints: number[];
   /** Why the follower stopped before its target (undefined when it reached it). */
   reason?: string;
+}
+
+/**
+ * Points of an earlier pass, bucketed on a grid, so that a pass coming the other way can
+ * tell in constant time when it runs into it.
+ */
+export interface PathIndex {
+  points: number[];
+  cell: number;
+  buckets: Map<number, number[]>;
+  reach: number;
+}
+
+const bucketKey = (cx: number, cy: number) => cx * 100003 + cy;
+
+export function indexPath(points: number[], reach: number): PathIndex {
+  const cell = Math.max(2, 2 * reach);
+  const buckets = new Map<number, number[]>();
+  for (let i = 0; i < points.length / 2; i++) {
+    const key = bucketKey(Math.floor((points[i * 2] as number) / cell), Math.floor((points[i * 2 + 1] as number) / cell));
+    const list = buckets.get(key);
+    if (list) list.push(i);
+    else buckets.set(key, [i]);
+  }
+  return { points, cell, buckets, reach };
+}
+
+/** Index of the nearest point of the indexed path within its reach of (x, y), or -1. */
+export function nearestOnPath(index: PathIndex, x: number, y: number): number {
+  const cx = Math.floor(x / index.cell);
+  const cy = Math.floor(y / index.cell);
+  let best = -1;
+  let bestD = index.reach;
+  for (let i = -1; i <= 1; i++) {
+    for (let j = -1; j <= 1; j++) {
+      const list = index.buckets.get(bucketKey(cx + i, cy + j));
+      if (!list) continue;
+      for (const k of list) {
+        const d = Math.hypot((index.points[k * 2] as number) - x, (index.points[k * 2 + 1] as number) - y);
+        if (d <= bestD) {
+          bestD = d;
+          best = k;
+        }
+      }
+    }
+  }
+  return best;
 }
 
 /** Step length, section spacing and section half-width derived from the line width. */
@@ -47,35 +109,100 @@ export function stepping(width: number): { step: number; spacing: number; half: 
   return { step, spacing, half, accept };
 }
 
-const MAX_TURN = 0.35;
+/** Largest turning per step (rad): a radius of about seven steps, tighter than any plotted curve. */
+const MAX_TURN = 0.15;
 const TURN_SMOOTHING = 0.35;
 
-/** The run that continues the line, or 'ambiguous' when a too-wide run covers the prediction. */
-function chooseRun(runs: Run[], style: LineStyle, allowed: number): Run | 'ambiguous' | undefined {
-  let best: Run | undefined;
-  let bestOff = Infinity;
+/**
+ * Where the line continues in a section, as an offset from the prediction; 'ambiguous' when
+ * other ink covers the prediction or two candidates fit about equally well; undefined when
+ * nothing of the line's colour and width is near.
+ * A run of the line's width counts at its centroid. A run up to about two widths is two
+ * lines merging at a shallow crossing: the followed line lies one half-width inside one of
+ * its edges, so both edges offer a candidate. The nearest candidate wins only if the next
+ * one is clearly farther; otherwise the follower coasts until the lines have parted.
+ */
+function chooseOffset(runs: Run[], style: LineStyle, allowed: number): number | 'ambiguous' | undefined {
+  let first = Infinity;
+  let firstOffset = 0;
+  let second = Infinity;
   let covered = false;
-  const lo = 0.45 * style.width;
-  const hi = 1.45 * style.width;
+  const lo = style.massRange[0] * style.width;
+  const hi = style.massRange[1] * style.width;
+  const half = style.width / 2;
+  const consider = (offset: number) => {
+    const d = Math.abs(offset);
+    if (d < first) {
+      second = first;
+      first = d;
+      firstOffset = offset;
+    } else if (d < second) {
+      second = d;
+    }
+  };
   for (const run of runs) {
     if (run.mass < lo) continue;
     if (run.mass > hi) {
       if (run.start - allowed <= 0 && run.end + allowed >= 0) covered = true;
+      if (run.mass <= 2.2 * style.width) {
+        consider(run.lowEdge + half);
+        consider(run.highEdge - half);
+      }
       continue;
     }
-    const off = Math.abs(run.centre);
-    if (off <= allowed && off < bestOff) {
-      best = run;
-      bestOff = off;
-    }
+    consider(run.centre);
   }
-  if (best) return best;
-  return covered ? 'ambiguous' : undefined;
+  if (first > allowed) return covered ? 'ambiguous' : undefined;
+  if (second < first + 0.75 * style.width) return 'ambiguous';
+  return firstOffset;
+}
+
+/** Accepted steps in a row needed before a line found again after a gap is trusted. */
+const CONFIRM_STEPS = 4;
+
+/**
+ * Heading and turning rate for bridging a gap, from a longer stretch of the followed line
+ * than the step-to-step estimate uses: the circle through its first, middle and last points.
+ * The short estimate is good enough to follow a visible line, but its noise, carried over a
+ * long gap, would swing the prediction off the line.
+ */
+function gapHeading(points: number[], history: number, step: number): { dx: number; dy: number; turn: number; length: number } | undefined {
+  const count = points.length / 2;
+  const ex = points[(count - 1) * 2] as number;
+  const ey = points[(count - 1) * 2 + 1] as number;
+  let k = count - 1;
+  let length = 0;
+  while (k > 0 && length < history) {
+    length += Math.hypot((points[k * 2] as number) - (points[(k - 1) * 2] as number), (points[k * 2 + 1] as number) - (points[(k - 1) * 2 + 1] as number));
+    k--;
+  }
+  if (length < 4 * step || count - 1 - k < 4) return undefined;
+  const m = Math.round((k + count - 1) / 2);
+  const ax = points[k * 2] as number;
+  const ay = points[k * 2 + 1] as number;
+  const mx = points[m * 2] as number;
+  const my = points[m * 2 + 1] as number;
+  const cross = (mx - ax) * (ey - ay) - (my - ay) * (ex - ax);
+  const chord = Math.hypot(ex - ax, ey - ay);
+  const curvature = (2 * cross) / (Math.hypot(mx - ax, my - ay) * Math.hypot(ex - mx, ey - my) * chord || 1);
+  // The tangent at the end is the chord turned by half the arc's turning.
+  const lag = (curvature * chord) / 2;
+  const ux = (ex - ax) / chord;
+  const uy = (ey - ay) / chord;
+  // A curvature measured on a short stretch is mostly noise: trust it in proportion.
+  const trust = Math.min(1, length / history) ** 2;
+  return {
+    dx: ux * Math.cos(lag) - uy * Math.sin(lag),
+    dy: ux * Math.sin(lag) + uy * Math.cos(lag),
+    turn: trust * Math.max(-MAX_TURN, Math.min(MAX_TURN, curvature * step)),
+    length,
+  };
 }
 
 /**
- * Follows the line from (x0, y0) heading (dx, dy) until it comes to `target` (when given),
- * loses the line for longer than `limits.maxGap`, leaves the image or travels too far.
+ * Follows the line from `start` along `heading` until it comes to `target` (when given) or
+ * runs into the path `meet` (when given), loses the line for longer than `limits.maxGap`,
+ * leaves the image or travels too far.
  */
 export function followLine(
   image: RasterImage,
@@ -85,6 +212,7 @@ export function followLine(
   target: readonly [number, number] | undefined,
   limits: FollowLimits,
   counter?: ReadCounter,
+  meet?: PathIndex,
 ): FollowResult {
   const { step, spacing, half, accept } = stepping(style.width);
   const norm = Math.hypot(heading[0], heading[1]) || 1;
@@ -96,7 +224,10 @@ export function followLine(
   let coast = 0;
   let travelled = 0;
   const points = [x, y];
+  const track = [x, y];
+  const trackPoints = [1];
   const lookback = Math.max(2, Math.ceil(Math.max(6, 2 * style.width) / step));
+  const history = Math.max(60, 20 * style.width);
   const maxN = Math.ceil((half + limits.maxGap * 0.12) / spacing) + 1;
   const section = new Float64Array(2 * maxN + 1);
   const arrive = Math.max(1.5 * step, 0.75 * style.width);
@@ -104,6 +235,13 @@ export function followLine(
   let closest = Infinity;
   let lastDx = dx;
   let lastDy = dy;
+
+  // After a gap, a line found again stays tentative until it has held for CONFIRM_STEPS steps;
+  // a fragment of a label or a crossing line that fits once and then vanishes is dropped,
+  // and the follower goes on coasting from where the gap began.
+  let tentative: { x: number; y: number; dx: number; dy: number; turn: number; coast: number; travelled: number; count: number; steps: number } | undefined;
+  let skip = 0;
+  let trusted = 0;
 
   for (;;) {
     const c = Math.cos(turn);
@@ -114,22 +252,33 @@ export function followLine(
     const qy = y + step * pdy;
     travelled += step;
     if (qx < 0 || qy < 0 || qx > image.width || qy > image.height) {
-      return { points, dx, dy, reached: false, reason: 'the line runs off the image' };
+      if (tentative) points.length = tentative.count * 2;
+      return { points, dx: lastDx, dy: lastDy, reached: false, reason: 'the line runs off the image', track, trackPoints };
     }
     const nx = -pdy;
     const ny = pdx;
     const extra = coast * 0.12;
-    const n = Math.min(maxN, Math.ceil((half + extra) / spacing));
-    sampleSection(image, style.model, qx, qy, nx, ny, n, spacing, section, counter);
-    const runs = findRuns(section, n, spacing, style.threshold);
-    const choice = chooseRun(runs, style, accept + extra);
+    let choice: number | 'ambiguous' | undefined;
+    if (skip > 0) {
+      skip--;
+      choice = undefined;
+    } else {
+      const n = Math.min(maxN, Math.ceil((half + extra) / spacing));
+      sampleSection(image, style.model, qx, qy, nx, ny, n, spacing, section, counter);
+      choice = chooseOffset(findRuns(section, n, spacing, style.threshold), style, accept + extra);
+    }
     dx = pdx;
     dy = pdy;
-    if (typeof choice === 'object') {
-      x = qx + nx * choice.centre;
-      y = qy + ny * choice.centre;
+    if (typeof choice === 'number') {
+      if (coast > 2 * step && !tentative) {
+        tentative = { x, y, dx: lastDx, dy: lastDy, turn, coast, travelled: travelled - step, count: points.length / 2, steps: 0 };
+      }
+      x = qx + nx * choice;
+      y = qy + ny * choice;
       points.push(x, y);
       coast = 0;
+      if (tentative && ++tentative.steps >= CONFIRM_STEPS) tentative = undefined;
+
       const count = points.length / 2;
       const back = Math.min(lookback, count - 1);
       const bx = points[(count - 1 - back) * 2] as number;
@@ -145,32 +294,70 @@ export function followLine(
         const ndx = ux * Math.cos(lag) - uy * Math.sin(lag);
         const ndy = ux * Math.sin(lag) + uy * Math.cos(lag);
         const delta = Math.atan2(lastDx * ndy - lastDy * ndx, lastDx * ndx + lastDy * ndy);
-        if (back >= lookback) turn = Math.max(-MAX_TURN, Math.min(MAX_TURN, (1 - TURN_SMOOTHING) * turn + TURN_SMOOTHING * delta));
+        if (back >= lookback && !tentative) turn = Math.max(-MAX_TURN, Math.min(MAX_TURN, (1 - TURN_SMOOTHING) * turn + TURN_SMOOTHING * delta));
         dx = ndx;
         dy = ndy;
         lastDx = ndx;
         lastDy = ndy;
       }
     } else {
+      if (coast === 0 && !tentative) {
+        const g = gapHeading(points, history, step);
+        if (g) {
+          // Re-predict this step from the longer history, from the last point on the line.
+          dx = g.dx * Math.cos(g.turn) - g.dy * Math.sin(g.turn);
+          dy = g.dx * Math.sin(g.turn) + g.dy * Math.cos(g.turn);
+          turn = g.turn;
+          trusted = g.length;
+          x = (points[points.length - 2] as number) + step * dx;
+          y = (points[points.length - 1] as number) + step * dy;
+          coast = step;
+          continue;
+        }
+        // Too little of the line seen to know its curvature: bridge the gap straight.
+        turn = 0;
+        trusted = 0;
+      }
+      if (tentative) {
+        // The fragment did not hold: back to the gap, coasting past the steps it took.
+        points.length = tentative.count * 2;
+        ({ x, y, turn, coast, travelled } = tentative);
+        dx = tentative.dx;
+        dy = tentative.dy;
+        lastDx = dx;
+        lastDy = dy;
+        skip = tentative.steps + 1;
+        tentative = undefined;
+        continue;
+      }
       x = qx;
       y = qy;
       coast += step;
-      turn *= 0.97;
+      // Curvature is trusted over about the length it was measured on, then fades out.
+      if (coast > trusted) turn *= trusted > 0 ? Math.exp(-step / trusted) : 0;
       if (coast > limits.maxGap) {
         const what = choice === 'ambiguous' ? 'the line merges with other ink (a crossing line, a label or a dense grid)' : 'no ink of the line\u2019s colour and width lies near its predicted path';
-        return { points, dx: lastDx, dy: lastDy, reached: false, reason: `${what} for more than ${Math.round(limits.maxGap)} px` };
+        return { points, dx: lastDx, dy: lastDy, reached: false, reason: `${what} for more than ${Math.round(limits.maxGap)} px`, track, trackPoints };
       }
+    }
+    track.push(x, y);
+    trackPoints.push(points.length / 2);
+    if (meet && !tentative) {
+      const met = nearestOnPath(meet, x, y);
+      if (met >= 0) return { points, dx: lastDx, dy: lastDy, reached: true, met, track, trackPoints };
     }
     if (target) {
       const d = Math.hypot(target[0] - x, target[1] - y);
       if (d < arrive || (closest < pass && d > closest + 2 * step)) {
-        return { points, dx: lastDx, dy: lastDy, reached: true };
+        return { points, dx: lastDx, dy: lastDy, reached: true, track, trackPoints };
       }
       if (d < closest) closest = d;
     }
     if (travelled > limits.maxTravel) {
       return {
         points,
+        track,
+        trackPoints,
         dx: lastDx,
         dy: lastDy,
         reached: false,

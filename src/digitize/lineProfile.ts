@@ -13,6 +13,9 @@ export interface Run {
   mass: number;
   start: number;
   end: number;
+  /** Sub-pixel edges where membership crosses half the run's peak (offsets, pixels). */
+  lowEdge: number;
+  highEdge: number;
 }
 
 /** Counts pixel reads, so that callers can compare the work done with one pass over the page. */
@@ -94,12 +97,28 @@ export function findRuns(values: Float64Array, n: number, spacing: number, thres
     const hi = Math.min(count - 1, end + 1);
     let mass = 0;
     let moment = 0;
+    let peak = 0;
     for (let i = lo; i <= hi; i++) {
       const m = values[i] as number;
       mass += m;
       moment += m * (i - n);
+      if (m > peak) peak = m;
     }
-    runs.push({ centre: (moment / mass) * spacing, mass: mass * spacing, start: (k - n) * spacing, end: (end - n) * spacing });
+    const half = peak / 2;
+    let a = lo;
+    while (a < hi && (values[a] as number) < half) a++;
+    let b = hi;
+    while (b > lo && (values[b] as number) < half) b--;
+    const lowEdge = a > lo ? a - 1 + (half - (values[a - 1] as number)) / ((values[a] as number) - (values[a - 1] as number)) : a;
+    const highEdge = b < hi ? b + ((values[b] as number) - half) / ((values[b] as number) - (values[b + 1] as number)) : b;
+    runs.push({
+      centre: (moment / mass) * spacing,
+      mass: mass * spacing,
+      start: (k - n) * spacing,
+      end: (end - n) * spacing,
+      lowEdge: (lowEdge - n) * spacing,
+      highEdge: (highEdge - n) * spacing,
+    });
     k = end + 1;
   }
   return runs;

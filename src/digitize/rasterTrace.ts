@@ -10,8 +10,8 @@
  * A trace given as explicit points is used as is. Pure: works on the RGBA buffer only.
  */
 import simplify from 'simplify-js';
-import { colourDistance, estimatePaper, inkModel, MIN_CONTRAST, windowAround, type InkModel, type Rgb } from './colour.ts';
-import { followLine, stepping, type FollowLimits, type LineStyle } from './lineFollow.ts';
+import { colourDistance, estimatePaper, inkModel, membership, MIN_CONTRAST, windowAround, type InkModel, type Rgb } from './colour.ts';
+import { followLine, indexPath, stepping, type FollowLimits, type LineStyle } from './lineFollow.ts';
 import { findRuns, inkAxis, sampleSection, type ReadCounter } from './lineProfile.ts';
 import { sheetPoint, type SheetPoint } from './points.ts';
 import type { RasterImage } from './raster.ts';
@@ -26,7 +26,7 @@ export interface RasterTraceOptions {
   colour?: Rgb;
   /** Line width in pixels, instead of the one measured under the first guide. */
   widthPx?: number;
-  /** Longest stretch bridged on the prediction alone, pixels (default 30 line widths, 30–250 px). */
+  /** Longest stretch bridged on the prediction alone, pixels (default 50 line widths, 40–400 px). */
   maxGapPx?: number;
   /** Tolerance of the thinning, pixels (default 0.3). */
   simplifyPx?: number;
@@ -133,7 +133,8 @@ function acquire(image: RasterImage, guide: Px, search: number, options: RasterT
   const measured = measureAt(image, model, centre, options.widthPx ?? 3);
   if (!measured) return undefined;
   const width = options.widthPx ?? measured.width;
-  return { style: { model, width, threshold: THRESHOLD }, centre: measured.centre, axis: measured.axis };
+  const massRange: [number, number] = model.mode === 'achromatic' ? [0.8, 1.35] : [0.55, 1.5];
+  return { style: { model, width, threshold: THRESHOLD, massRange }, centre: measured.centre, axis: measured.axis };
 }
 
 /** The nearest pixel centre to `p` whose membership is at least one half, within `radius`. */
@@ -149,29 +150,12 @@ function nearestInk(image: RasterImage, model: InkModel, p: Px, radius: number):
       const dy = y + 0.5 - p[1];
       const d = Math.hypot(dx, dy);
       if (d >= bestD) continue;
-      const r = data[i] as number;
-      const g = data[i + 1] as number;
-      const b = data[i + 2] as number;
-      const tx = model.paper[0] - r;
-      const ty = model.paper[1] - g;
-      const tz = model.paper[2] - b;
-      // Cheap pre-filter on the projection before the full membership.
-      if ((tx * model.ax + ty * model.ay + tz * model.az) * model.invNorm2 < 0.5) continue;
-      if (memberOf(model, r, g, b) < 0.5) continue;
+      if (membership(model, data[i] as number, data[i + 1] as number, data[i + 2] as number) < 0.5) continue;
       bestD = d;
       best = [x + 0.5, y + 0.5];
     }
   }
   return best;
-}
-
-function memberOf(model: InkModel, r: number, g: number, b: number): number {
-  const dx = model.paper[0] - r;
-  const dy = model.paper[1] - g;
-  const dz = model.paper[2] - b;
-  const t = (dx * model.ax + dy * model.ay + dz * model.az) * model.invNorm2;
-  const s = Math.hypot(dx - t * model.ax, dy - t * model.ay, dz - t * model.az) * model.invNorm;
-  return Math.max(0, Math.min(1, t - s));
 }
 
 /** Direction, sub-pixel centre and width of the line through an ink pixel. */
@@ -251,7 +235,7 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
   const style = acquired.style;
   search = options.searchPx ?? Math.max(10, 3 * style.width);
   const { step } = stepping(style.width);
-  const maxGap = options.maxGapPx ?? Math.min(250, Math.max(30, 30 * style.width));
+  const maxGap = options.maxGapPx ?? Math.min(400, Math.max(40, 50 * style.width));
   const lost: LostStretch[] = [];
 
   const snapped = px.map((g, i) => (i === first - 1 ? { centre: acquired.centre, axis: acquired.axis } : snap(image, style, g, search)));
@@ -292,11 +276,18 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
         path.push(to);
         continue;
       }
-      // Seen from the far guide, backwards, until it meets the forward part.
-      const backHeading = headingTowards(image, style, to, b.axis, lostAt, counter);
-      const bwd = followLine(image, style, to, backHeading, lostAt, limits, counter);
+      // Seen from the far guide, backwards, until it runs into the forward pass. Where the
+      // forward pass took a wrong branch at a crossing, the backward pass comes back along
+      // the right line to that crossing and meets it there; what the forward pass found
+      // beyond the meeting point is dropped.
+      const forwardStart = path.length - (fwd.points.length / 2 - 1);
+      const meetIndex = indexPath(fwd.track, Math.max(2, style.width));
+      const backHeading = headingTowards(image, style, to, b.axis, from, counter);
+      const bwd = followLine(image, style, to, backHeading, undefined, limits, counter, meetIndex);
       const back = pairs(bwd.points).reverse();
-      if (!bwd.reached) {
+      if (bwd.met !== undefined) {
+        path.length = forwardStart - 1 + (fwd.trackPoints[bwd.met] as number);
+      } else {
         lost.push({ at: toSheetPt(lostAt), resumedAt: toSheetPt(back[0] as Px), between: [i + 1, i + 2], reason: fwd.reason ?? 'the line was lost' });
       }
       path.push(...back);
