@@ -6,7 +6,9 @@
  *    tolerance are joined, preferring the straightest continuation where several ends meet;
  * 3. the joined line that passes near ALL guides wins; straight horizontal or vertical lines and
  *    closed outlines (grid lines, frames) only win when nothing else passes near the guides;
- * 4. the line is cut between the first and the last guide (a single guide takes it whole).
+ * 4. the line is cut between the first and the last guide (a single guide takes it whole);
+ * 5. a line the drawing interrupts (for an inline label) is stitched across the gap when no
+ *    single line passes near all guides (stitch.ts).
  */
 import { DEFAULT_FLATNESS, flattenPath } from './flatten.ts';
 import { arcLengthAt, arcLengths, clipPolyline, dedupe, nearestOnPolyline, slice, type PolylinePosition } from './polyline.ts';
@@ -14,6 +16,7 @@ import type { SheetPoint } from './points.ts';
 import type { VectorPath } from './sheet.ts';
 import { joinPieces, type Piece, type StrokeLine } from './strokeJoin.ts';
 import { centrelineOf } from './outlines.ts';
+import { stitchAlongGuides } from './stitch.ts';
 
 /** Thrown when no drawn line fits the guides; the message says what to do. */
 export class CaptureError extends Error {
@@ -100,6 +103,19 @@ export function captureVector(lines: readonly StrokeLine[], guides: readonly She
     if (!best || score < best.score - 1e-9 || (Math.abs(score - best.score) <= 1e-9 && tie < best.tie)) best = { line, positions, score, tie };
   }
   if (!best) {
+    const stitched = stitchAlongGuides(lines, guides, reach);
+    if (stitched) {
+      const positions = guides.map((g) => nearestOnPolyline(stitched.points, g));
+      const first = stitched.lines[0]!;
+      return {
+        points: slice(stitched.points, positions[0]!, positions[positions.length - 1]!),
+        guideDistances: positions.map((p) => p.distance),
+        stroke: first.stroke,
+        lineWidth: first.lineWidth,
+        pieces: stitched.lines.reduce((n, l) => n + l.pieces, 0),
+        gridLike: false,
+      };
+    }
     const near = Number.isFinite(closest) ? ` (the nearest line misses a guide by ${closest.toFixed(1)} sheet units)` : '';
     throw new CaptureError(
       `No drawn line passes within ${reach} sheet units of every guide${near}; place the guides on the line itself, or capture it from the picture instead.`,

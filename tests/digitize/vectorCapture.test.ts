@@ -131,6 +131,23 @@ describe('capturing a drawn line from guides', () => {
     expect(Math.min(...got.points.map((p) => p[0]))).toBeGreaterThan(104);
   });
 
+  it('stitches a line that the drawing interrupts for an inline label, and not two unrelated lines', () => {
+    const f = (x: number) => 400 - 0.5 * x + 0.0004 * x * x;
+    const left: XY[] = Array.from({ length: 31 }, (_, i) => [100 + 5 * i, f(100 + 5 * i)]);
+    const right: XY[] = Array.from({ length: 31 }, (_, i) => [275 + 5 * i, f(275 + 5 * i)]);
+    const other: XY[] = Array.from({ length: 41 }, (_, i) => [100 + 10 * i, 200 + 0.1 * i]);
+    const polyPath = (pts: XY[]) => path([move(...pts[0]!), ...pts.slice(1).map((p) => line(...p))], '#0000ff', 1);
+    const ls = strokeLines([polyPath(left), polyPath(right), polyPath(other)]);
+    const got = captureVector(ls, [P(...left[2]!), P(...right[28]!)]);
+    expect(got.points[0]![0]).toBeCloseTo(110, 6);
+    expect(got.points.at(-1)![0]).toBeCloseTo(415, 6);
+    // Both pieces are taken whole; the 25-unit gap is crossed by a chord of the curve.
+    const drawn = [...left, ...right];
+    expect(got.points.filter((p) => p[0] <= 250 || p[0] >= 275).every((p) => distanceToPolyline(drawn, p) < 1e-9)).toBe(true);
+    // A guide on an unrelated line of the same style is not stitched to the curve.
+    expect(() => captureVector(ls, [P(...left[2]!), P(...other[30]!)])).toThrow(CaptureError);
+  });
+
   it('says so when no drawn line passes near every guide', () => {
     expect(() => captureVector(lines, [P(320, 180), P(300, 400)])).toThrow(CaptureError);
     expect(() => captureVector(lines, [P(320, 180), P(300, 400)])).toThrow(/No drawn line passes within 8 sheet units of every guide/);
