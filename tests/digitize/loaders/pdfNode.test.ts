@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { createCanvas } from '@napi-rs/canvas';
-import { pushGraphicsState, popGraphicsState, concatTransformationMatrix } from 'pdf-lib';
+import { pushGraphicsState, popGraphicsState, concatTransformationMatrix, degrees } from 'pdf-lib';
 import { loadPdfSheetNode, sha256Hex } from '../../../src/digitize/loaders/pdfNode.ts';
 import { SheetError, type PathSegment } from '../../../src/digitize/sheet.ts';
 import { drawPdf, encryptedPdf, PDFDocument, rgb } from '../fixtures/pdfBytes.ts';
@@ -63,6 +63,23 @@ describe('loading a vector PDF page in Node', () => {
     const gEnd = endpoints(green.segments).at(-1)!;
     expect(Math.abs(gEnd[0] - 20)).toBeLessThan(TOL);
     expect(Math.abs(gEnd[1] - 390)).toBeLessThan(TOL); // the restore dropped the rotation
+    await sheet.close();
+  });
+
+  it('shows a rotated page with an offset media box the way a viewer shows it', async () => {
+    const doc = await PDFDocument.create();
+    const page = doc.addPage([300, 200]);
+    page.setMediaBox(50, 20, 300, 200); // user space x 50…350, y 20…220
+    page.setRotation(degrees(90)); // shown 200 wide and 300 high, turned clockwise
+    page.drawLine({ start: { x: 60, y: 30 }, end: { x: 160, y: 30 }, thickness: 1, color: rgb(1, 0, 0) });
+    const sheet = await loadPdfSheetNode(await doc.save());
+    expect(sheet.width).toBeCloseTo(200, 9);
+    expect(sheet.height).toBeCloseTo(300, 9);
+    const red = (await sheet.paths()).find((p) => p.stroke === '#ff0000')!;
+    const [start, end] = endpoints(red.segments).slice(-2);
+    // Turned 90° clockwise: user (x, y) → sheet (y − 20, x − 50).
+    expect(Math.hypot(start![0] - 10, start![1] - 10)).toBeLessThan(TOL);
+    expect(Math.hypot(end![0] - 10, end![1] - 110)).toBeLessThan(TOL);
     await sheet.close();
   });
 
