@@ -100,6 +100,11 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
       for (const n of got.notes) note(got.lost.length ? 'takeoff.capture-lost' : 'takeoff.capture-fallback', got.lost.length ? 'warn' : 'note', `Trace ${id} (${describeTrace(trace)}): ${n}`, id);
     }
     if (outcome.points.length < 2) throw new TakeoffError(`Trace ${id} (${describeTrace(trace)}) captured fewer than 2 points; place guides on its line or give its points.`);
+    const frame = takeoff.panels.find((p) => p.id === trace.panel)?.frame;
+    const outside = frame ? outcome.points.filter((p) => !insideFrame(p, frame)).length : 0;
+    if (outside > 0) {
+      note('takeoff.outside-frame', 'warn', `Trace ${id} (${describeTrace(trace)}): ${outside} of ${outcome.points.length} captured points lie outside the frame of panel "${trace.panel}"; check that the guides sit on this panel's line.`, id, { outside });
+    }
     outcomes.push(outcome);
   }
 
@@ -182,6 +187,14 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
   });
   const curveSet = CurveSet.parse({ ...built, findings: sortFindings([...built.findings, ...findings]) });
   return { curveSet, traces: outcomes, calibrations };
+}
+
+/** Inside the frame [left, top, right, bottom], with 1 % of its size to spare for line widths and rounding. */
+function insideFrame(p: SheetPoint, frame: readonly [number, number, number, number]): boolean {
+  const [l, t, r, b] = [Math.min(frame[0], frame[2]), Math.min(frame[1], frame[3]), Math.max(frame[0], frame[2]), Math.max(frame[1], frame[3])];
+  const mx = 0.01 * (r - l);
+  const my = 0.01 * (b - t);
+  return p[0] >= l - mx && p[0] <= r + mx && p[1] >= t - my && p[1] <= b + my;
 }
 
 /** Clamps flows a hair below zero (calibration noise at the head axis) and drops the rest. */

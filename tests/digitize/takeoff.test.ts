@@ -74,6 +74,22 @@ describe('replaying a take-off of a vector sheet headless', () => {
     }
   });
 
+  it('warns when captured points leave the panel frame', async () => {
+    const sheet = await loadSheetFileNode(join(dir, 'sheet.pdf'));
+    const withFrame = (frame: number[]) => {
+      const doc = pumpTakeoff('drawn') as { panels: { id: string; frame?: number[] }[] };
+      doc.panels[0]!.frame = frame;
+      return parseTakeoff(doc);
+    };
+    const inside = await replayTakeoff(withFrame([80, 60, 560, 360]), sheet);
+    expect(inside.curveSet.findings.filter((f) => f.code === 'takeoff.outside-frame')).toEqual([]);
+    const narrow = await replayTakeoff(withFrame([80, 60, 300, 360]), sheet);
+    const warned = narrow.curveSet.findings.filter((f) => f.code === 'takeoff.outside-frame');
+    expect(warned.map((f) => f.subject.trace).sort()).toEqual(['H11', 'H12', 'H13']);
+    expect(warned.every((f) => f.severity === 'warn')).toBe(true);
+    await sheet.close();
+  });
+
   it('carries the captured points and the sheet SHA-256 in the curve set', async () => {
     const { curveSet } = await replay('drawn');
     expect(curveSet.provenance.source?.sha256).toBe(createHash('sha256').update(pdf).digest('hex'));
