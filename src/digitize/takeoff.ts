@@ -38,7 +38,10 @@ export interface ReplayOptions {
 export interface TraceOutcome {
   index: number;
   id: string;
+  /** How the points were found (for saved points, as recorded when they were saved). */
   how: CaptureResult['how'] | 'saved';
+  /** True when the points come from the take-off file's `captured` field. */
+  fromFile: boolean;
   /** Captured points, sheet coordinates. */
   points: SheetPoint[];
   notes: string[];
@@ -85,7 +88,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
     const hasInput = (trace.points?.length ?? 0) > 0 || (trace.guides?.length ?? 0) > 0;
     let outcome: TraceOutcome;
     if (saved && (options.useCaptured || !hasInput)) {
-      outcome = { index, id, how: 'saved', points: saved, notes: [] };
+      outcome = { index, id, how: trace.captured_by ?? 'saved', fromFile: true, points: saved, notes: [] };
     } else {
       const got = await captureTrace(
         { points: trace.points?.map(([x, y]) => sheetPoint(x, y)), guides: trace.guides?.map(([x, y]) => sheetPoint(x, y)), method: trace.method },
@@ -96,8 +99,11 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
         if (error instanceof Error && CAPTURE_ERRORS.includes(error.name)) throw new TakeoffError(`Trace ${id} (${describeTrace(trace)}): ${error.message}`);
         throw error;
       });
-      outcome = { index, id, how: got.how, points: got.points, notes: got.notes };
-      for (const n of got.notes) note(got.lost.length ? 'takeoff.capture-lost' : 'takeoff.capture-fallback', got.lost.length ? 'warn' : 'note', `Trace ${id} (${describeTrace(trace)}): ${n}`, id);
+      outcome = { index, id, how: got.how, fromFile: false, points: got.points, notes: got.notes };
+      if (got.notes.length > 0) {
+        const lost = got.lost.length > 0;
+        note(lost ? 'takeoff.capture-lost' : 'takeoff.capture-fallback', lost ? 'warn' : 'note', `Trace ${id} (${describeTrace(trace)}): ${got.notes.join(' ')}`, id);
+      }
     }
     if (outcome.points.length < 2) throw new TakeoffError(`Trace ${id} (${describeTrace(trace)}) captured fewer than 2 points; place guides on its line or give its points.`);
     const frame = takeoff.panels.find((p) => p.id === trace.panel)?.frame;

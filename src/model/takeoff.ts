@@ -75,6 +75,7 @@ export const Trace = z
     points: z.array(SheetXY).optional().describe('explicit points, used as they are'),
     method: CaptureMethod.default('auto').describe('how guides become points: auto = vector on vector sheets, raster otherwise'),
     captured: z.array(SheetXY).optional().describe('points the last capture produced, written by --save-points'),
+    captured_by: z.enum(['vector', 'raster', 'points']).optional().describe('how the captured points were found'),
   })
   .refine((t) => (t.guides?.length ?? 0) > 0 || (t.points?.length ?? 0) > 0 || (t.captured?.length ?? 0) > 0, 'a trace needs guides, points or captured points')
   .refine((t) => t.iso === undefined || t.quantity === 'efficiency' || t.quantity === 'power', 'only efficiency and power traces can be iso-traces')

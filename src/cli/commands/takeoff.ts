@@ -56,7 +56,7 @@ async function takeoff(file: string, o: TakeoffOptions): Promise<number> {
     writeTextAtomic(o.output, stringifyCurveSet(result.curveSet));
     if (o.savePoints) writeTextAtomic(file, withCapturedPoints(raw as Record<string, unknown>, result.traces, sheet.sha256));
     if (!o.quiet) {
-      const summary = result.traces.map((t) => `${t.id}: ${t.points.length} points (${t.how})`).join(', ');
+      const summary = result.traces.map((t) => `${t.id}: ${t.points.length} points (${t.fromFile ? 'saved' : t.how})`).join(', ');
       process.stdout.write(`${formatReport(result.curveSet)}Traces — ${summary}\nWrote ${o.output}${o.savePoints ? ` and the captured points into ${file}` : ''}\n`);
     }
     return result.curveSet.findings.some((f) => f.severity === 'fail') ? EXIT_FAILED_CHECKS : EXIT_OK;
@@ -73,7 +73,8 @@ export function withCapturedPoints(raw: Record<string, unknown>, traces: readonl
     const outcome = traces.find((t) => t.index === i);
     if (!outcome) return trace;
     // 1e-4 sheet units (about 35 nm on paper) keeps the file readable and loses nothing that matters.
-    return { ...trace, captured: outcome.points.map((p) => [round4(p[0]), round4(p[1])]) };
+    const by = outcome.how === 'saved' ? {} : { captured_by: outcome.how };
+    return { ...trace, captured: outcome.points.map((p) => [round4(p[0]), round4(p[1])]), ...by };
   });
   return `${JSON.stringify(doc, null, 2)}\n`;
 }
