@@ -63,7 +63,7 @@ const NUMBER = /^[-−]?(\d{1,3}(,\d{3})+|\d+)(\.\d+)?%?$/;
  * numbers, and a "10" with a small raised number after it (a log axis's 10²) reads as the power.
  */
 export function numericLabels(text: readonly SheetText[]): Label[] {
-  const level = text.filter((t) => Math.abs(Math.sin(t.angle)) <= 0.02 && t.size > 0);
+  const level = mergeFragments(text.filter((t) => Math.abs(Math.sin(t.angle)) <= 0.02 && t.size > 0));
   const used = new Set<SheetText>();
   const out: Label[] = [];
   for (const base of level) {
@@ -103,6 +103,34 @@ export function numericLabels(text: readonly SheetText[]): Label[] {
       const baseline = t.at[1];
       // Digits stand about 0.7 em tall on the baseline; their middle is 0.35 em above it.
       out.push({ value, text: token, cx: (left + right) / 2, cy: baseline - 0.35 * t.size, left, right, top: baseline - 0.7 * t.size, bottom: baseline, size: t.size, baseline });
+    }
+  }
+  return out;
+}
+
+/**
+ * Some programs place a number glyph by glyph; fragments of digits on one baseline, of one size,
+ * that touch (gap under 0.2 em) are one label again.
+ */
+function mergeFragments(items: readonly SheetText[]): SheetText[] {
+  const numeric = /^[-−\d.,%]+$/;
+  const sorted = [...items].sort((a, b) => a.at[1] - b.at[1] || a.at[0] - b.at[0]);
+  const out: SheetText[] = [];
+  for (const t of sorted) {
+    const last = out.at(-1);
+    const text = t.text.trim();
+    if (
+      last &&
+      numeric.test(last.text) &&
+      numeric.test(text) &&
+      Math.abs(last.at[1] - t.at[1]) <= 0.1 * t.size &&
+      Math.abs(last.size - t.size) <= 0.05 * t.size &&
+      t.at[0] - (last.at[0] + last.width) >= -0.1 * t.size &&
+      t.at[0] - (last.at[0] + last.width) <= 0.2 * t.size
+    ) {
+      out[out.length - 1] = { ...last, text: last.text + text, width: t.at[0] + t.width - last.at[0] };
+    } else {
+      out.push({ ...t, text });
     }
   }
   return out;

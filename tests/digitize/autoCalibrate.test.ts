@@ -124,4 +124,11 @@ describe('proposing panel calibrations from tick labels', () => {
     ]);
     expect(labels.map((l) => l.value)).toEqual([1200, 80]);
   });
+
+  it('joins a number placed glyph by glyph, but not numbers a word space apart', () => {
+    const glyph = (text: string, x: number) => ({ text, at: sheetPoint(x, 100), size: 10, width: 5.56, angle: 0 });
+    const labels = numericLabels([glyph('1', 50), glyph('2', 55.56), glyph('0', 61.12), glyph('0', 66.68), glyph('4', 90), glyph('0', 95.56)]);
+    expect(labels.map((l) => l.value)).toEqual([1200, 40]);
+    expect(labels[0]!.cx).toBeCloseTo(50 + (4 * 5.56) / 2, 9);
+  });
 });
