@@ -38,7 +38,7 @@ async function takeoff(file: string, o: TakeoffOptions): Promise<number> {
   const text = readText(file, 'take-off file');
   let raw: unknown;
   try {
-    raw = JSON.parse(text);
+    raw = JSON.parse(text.replace(/^\uFEFF/, '')); // editors on some systems save a byte-order mark
   } catch (error) {
     throw new TakeoffError(`The take-off file "${file}" is not valid JSON (${(error as Error).message.replace(/\.$/, '')}); fix it in a text editor.`);
   }
