@@ -57,7 +57,21 @@ export async function captureTrace(request: CaptureRequest, source: CaptureSourc
   if (vectorPage && method !== 'raster') {
     try {
       const got = captureVector(await source.lines(), guides, options.vector);
-      return { points: evenly(got.points, options.spacing ?? 2), how: 'vector', notes, lost: [] };
+      const vector: CaptureResult = { points: evenly(got.points, options.spacing ?? 2), how: 'vector', notes, lost: [] };
+      if (!got.gridLike || method === 'vector') return vector;
+      // Pump curves are never level or upright straight lines: the guides more likely sit on a
+      // curve inside a picture, drawn over by the page's grid. Follow it on a rendering.
+      try {
+        const traced = traceRaster(await source.raster(), guides, options.raster);
+        if (traced.lost.length === 0 && traced.points.length >= 2) {
+          notes.push('The only drawn path near the guides was a grid or frame line; the line was followed on a rendering instead.');
+          return { points: traced.points, how: 'raster', notes, lost: [] };
+        }
+      } catch {
+        // Nothing better on the rendering: keep the drawn line.
+      }
+      notes.push('The captured line is a level or upright straight line (a grid or frame line?); check the guides.');
+      return vector;
     } catch (error) {
       if (!(error instanceof CaptureError) || method === 'vector') throw error;
       notes.push(`No drawn path fitted the guides (${error.message.replace(/;.*$/, '')}); the line was followed on a rendering instead.`);
