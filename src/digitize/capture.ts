@@ -18,6 +18,8 @@ export interface CaptureRequest {
   guides?: readonly SheetPoint[] | undefined;
   points?: readonly SheetPoint[] | undefined;
   method?: CaptureMethod | undefined;
+  /** 'line': take the whole drawn line the guides sit on (vector capture only). */
+  extent?: 'guides' | 'line' | undefined;
 }
 
 export interface CaptureSource {
@@ -56,7 +58,7 @@ export async function captureTrace(request: CaptureRequest, source: CaptureSourc
   const notes: string[] = [];
   if (vectorPage && method !== 'raster') {
     try {
-      const got = captureVector(await source.lines(), guides, options.vector);
+      const got = captureVector(await source.lines(), guides, { ...options.vector, wholeLine: request.extent === 'line' });
       const vector: CaptureResult = { points: evenly(got.points, options.spacing ?? 2), how: 'vector', notes, lost: [] };
       if (!got.gridLike || method === 'vector') return vector;
       // Pump curves are never level or upright straight lines: the guides more likely sit on a

@@ -91,7 +91,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
       outcome = { index, id, how: trace.captured_by ?? 'saved', fromFile: true, points: saved, notes: [] };
     } else {
       const got = await captureTrace(
-        { points: trace.points?.map(([x, y]) => sheetPoint(x, y)), guides: trace.guides?.map(([x, y]) => sheetPoint(x, y)), method: trace.method },
+        { points: trace.points?.map(([x, y]) => sheetPoint(x, y)), guides: trace.guides?.map(([x, y]) => sheetPoint(x, y)), method: trace.method, extent: trace.extent },
         source,
         options.capture,
       ).catch((error: unknown) => {

@@ -6,7 +6,8 @@
  *    tolerance are joined, preferring the straightest continuation where several ends meet;
  * 3. the joined line that passes near ALL guides wins; straight horizontal or vertical lines and
  *    closed outlines (grid lines, frames) only win when nothing else passes near the guides;
- * 4. the line is cut between the first and the last guide (a single guide takes it whole);
+ * 4. the line is cut between the first and the last guide (a single guide, or `wholeLine`, takes
+ *    it whole);
  * 5. a line the drawing interrupts (for an inline label) is stitched across the gap when no
  *    single line passes near all guides (stitch.ts).
  */
@@ -30,6 +31,8 @@ export interface VectorCaptureOptions {
   joinTolerance?: number;
   /** Largest distance between a guide and the line it is meant to sit on, sheet units. */
   maxGuideDistance?: number;
+  /** Take the whole line the guides sit on instead of the stretch from the first guide to the last. */
+  wholeLine?: boolean;
 }
 
 export interface VectorCapture {
@@ -108,7 +111,7 @@ export function captureVector(lines: readonly StrokeLine[], guides: readonly She
       const positions = guides.map((g) => nearestOnPolyline(stitched.points, g));
       const first = stitched.lines[0]!;
       return {
-        points: slice(stitched.points, positions[0]!, positions[positions.length - 1]!),
+        points: options.wholeLine ? dedupe(stitched.points) : slice(stitched.points, positions[0]!, positions[positions.length - 1]!),
         guideDistances: positions.map((p) => p.distance),
         stroke: first.stroke,
         lineWidth: first.lineWidth,
@@ -122,7 +125,7 @@ export function captureVector(lines: readonly StrokeLine[], guides: readonly She
     );
   }
   const { line, positions } = best;
-  const points = guides.length === 1 ? dedupe(line.points) : cut(line, positions);
+  const points = guides.length === 1 || options.wholeLine ? whole(line, positions) : cut(line, positions);
   return {
     points,
     guideDistances: positions.map((p) => p.distance),
@@ -131,6 +134,16 @@ export function captureVector(lines: readonly StrokeLine[], guides: readonly She
     pieces: line.pieces,
     gridLike: line.gridLike,
   };
+}
+
+/** The whole line, running the way the guides run (first guide towards the last). */
+function whole(line: StrokeLine, positions: readonly PolylinePosition[]): SheetPoint[] {
+  const points = dedupe(line.points);
+  if (positions.length < 2 || line.closed) return points;
+  const cumulative = arcLengths(line.points);
+  const first = arcLengthAt(cumulative, positions[0]!);
+  const last = arcLengthAt(cumulative, positions[positions.length - 1]!);
+  return first <= last ? points : points.reverse();
 }
 
 function nearBox(box: readonly [number, number, number, number], guides: readonly SheetPoint[], reach: number): boolean {

@@ -74,6 +74,25 @@ describe('replaying a take-off of a vector sheet headless', () => {
     }
   });
 
+  it('cuts each trace at its first and last guide, or takes the whole drawn line with extent "line"', async () => {
+    const sheet = await loadSheetFileNode(join(dir, 'sheet.pdf'));
+    const middle = (extent?: string) => {
+      const doc = pumpTakeoff('drawn') as { traces: { id: string; guides: number[][]; extent?: string }[] };
+      doc.traces = doc.traces.filter((t) => t.id === 'H13').map((t) => ({ ...t, guides: [t.guides[1]!, t.guides[2]!], ...(extent ? { extent } : {}) }));
+      return parseTakeoff(doc);
+    };
+    const flows = async (extent?: string) => {
+      const { curveSet } = await replayTakeoff(middle(extent), sheet);
+      return curveSet.members[0]!.curves.head!.fit!.domain.map((q) => fromSI(q, gpm));
+    };
+    const cut = await flows();
+    expect(cut[0]).toBeCloseTo(0.5 * 1600, -1); // the middle guide, within 10 gpm
+    const whole = await flows('line');
+    expect(whole[0]).toBeCloseTo(0, 6);
+    expect(whole[1]).toBeCloseTo(1600, 6);
+    await sheet.close();
+  });
+
   it('warns when captured points leave the panel frame', async () => {
     const sheet = await loadSheetFileNode(join(dir, 'sheet.pdf'));
     const withFrame = (frame: number[]) => {

@@ -110,6 +110,14 @@ describe('capturing a drawn line from guides', () => {
     expect(reversed.points[0]![0]).toBeGreaterThan(reversed.points.at(-1)![0]);
   });
 
+  it('takes the whole line the guides sit on when asked, running from the first guide towards the last', () => {
+    const a = bezier(...curve[0]!, 0.3);
+    const b = bezier(...curve[1]!, 0.7);
+    const got = captureVector(lines, [P(b[0], b[1]), P(a[0], a[1])], { wholeLine: true });
+    expect(got.points[0]).toEqual([540, 420]);
+    expect(got.points.at(-1)).toEqual([50, 100]);
+  });
+
   it('does not join pieces of different colour', () => {
     const split = strokeLines([
       path([move(0, 0), line(100, 50)], '#ff0000'),
