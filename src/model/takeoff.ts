@@ -76,8 +76,8 @@ export const Trace = z
     method: CaptureMethod.default('auto').describe('how guides become points: auto = vector on vector sheets, raster otherwise'),
     extent: z
       .enum(['guides', 'line'])
-      .default('guides')
-      .describe('guides = from the first guide to the last (a single guide takes the whole line); line = the whole drawn line the guides sit on (vector capture; a raster capture still runs from the first guide to the last)'),
+      .optional()
+      .describe('guides (the default) = from the first guide to the last (a single guide takes the whole line); line = the whole drawn line the guides sit on (vector capture; a raster capture still runs from the first guide to the last)'),
     captured: z.array(SheetXY).optional().describe('points the last capture produced, written by --save-points'),
     captured_by: z.enum(['vector', 'raster', 'points']).optional().describe('how the captured points were found'),
   })
