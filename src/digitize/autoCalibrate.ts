@@ -36,7 +36,7 @@ export interface PanelProposal {
   calibration: Calibration;
 }
 
-interface Label {
+export interface NumericLabel {
   value: number;
   text: string;
   cx: number;
@@ -49,7 +49,7 @@ interface Label {
   baseline: number;
 }
 
-interface Segment {
+export interface StraightSegment {
   /** Position across the line (x of a vertical line, y of a horizontal one). */
   at: number;
   from: number;
@@ -62,10 +62,10 @@ const NUMBER = /^[-−]?(\d{1,3}(,\d{3})+|\d+)(\.\d+)?%?$/;
  * Numeric labels of the text layer, level text only; a run like "0 200 400" is split into its
  * numbers, and a "10" with a small raised number after it (a log axis's 10²) reads as the power.
  */
-export function numericLabels(text: readonly SheetText[]): Label[] {
+export function numericLabels(text: readonly SheetText[]): NumericLabel[] {
   const level = mergeFragments(text.filter((t) => Math.abs(Math.sin(t.angle)) <= 0.02 && t.size > 0));
   const used = new Set<SheetText>();
-  const out: Label[] = [];
+  const out: NumericLabel[] = [];
   for (const base of level) {
     if (base.text.trim() !== '10') continue;
     const right = base.at[0] + base.width;
@@ -137,9 +137,9 @@ function mergeFragments(items: readonly SheetText[]): SheetText[] {
 }
 
 /** Level and upright straight pieces of the page's lines (thin filled bars count as lines). */
-export function straightSegments(paths: readonly VectorPath[]): { vertical: Segment[]; horizontal: Segment[] } {
-  const vertical: Segment[] = [];
-  const horizontal: Segment[] = [];
+export function straightSegments(paths: readonly VectorPath[]): { vertical: StraightSegment[]; horizontal: StraightSegment[] } {
+  const vertical: StraightSegment[] = [];
+  const horizontal: StraightSegment[] = [];
   for (const path of paths) {
     const lines = flattenPath(path.segments, 0.05);
     if (path.stroke === null) {
@@ -174,7 +174,7 @@ function gap(a0: number, a1: number, b0: number, b1: number): number {
   return Math.max(0, b0 - a1, a0 - b1);
 }
 
-function snap(label: Label, segments: readonly Segment[], along: 'x' | 'y'): number | null {
+function snap(label: NumericLabel, segments: readonly StraightSegment[], along: 'x' | 'y'): number | null {
   let best: number | null = null;
   let bestOff = Infinity;
   const tol = 0.5 * label.size;
@@ -190,9 +190,9 @@ function snap(label: Label, segments: readonly Segment[], along: 'x' | 'y'): num
 }
 
 /** Splits labels (sorted along the axis) into runs of steadily rising or falling values with even-ish gaps. */
-function runs(labels: readonly Label[], pos: (l: Label) => number): Label[][] {
-  const out: Label[][] = [];
-  let run: Label[] = [];
+function runs(labels: readonly NumericLabel[], pos: (l: NumericLabel) => number): NumericLabel[][] {
+  const out: NumericLabel[][] = [];
+  let run: NumericLabel[] = [];
   for (const l of labels) {
     const prev = run.at(-1);
     const prev2 = run.at(-2);
@@ -271,7 +271,7 @@ export function proposePanels(text: readonly SheetText[], paths: readonly Vector
   // right edges, labels right of it on their left edges, some sheets centre them.
   const yAxes: Found[] = [];
   const seen = new Set<string>();
-  const alignments: ((l: Label) => number)[] = [(l) => l.right, (l) => l.left, (l) => (l.left + l.right) / 2];
+  const alignments: ((l: NumericLabel) => number)[] = [(l) => l.right, (l) => l.left, (l) => (l.left + l.right) / 2];
   for (const key of alignments) {
     const sorted = [...labels].sort((a, b) => key(a) - key(b) || a.cy - b.cy);
     for (const column of groupBy(sorted, (a, b) => Math.abs(key(a) - key(b)) <= 0.6 * Math.min(a.size, b.size))) {
