@@ -3,9 +3,11 @@
  * impeller diameter or trim, and how well.
  *
  * Three stages. SQL first keeps only the entries whose head-curve envelope (summary columns)
- * contains the duty, with a margin; a quick check on the largest and smallest captured head curves
- * drops those whose diameters cannot reach the duty; then each survivor's curve set (parsed once per
- * revision and cached) goes through the duty engine's matcher, which finds the diameter that meets it.
+ * contains the duty, with a margin. A screen on the captured head curves (dutyBounds.ts) drops those
+ * whose diameters cannot reach the duty and bounds the efficiency (or power) any trim can have there.
+ * Then the duty engine's matcher evaluates the survivors (search copies, parsed once per revision and
+ * cached) best bound first, and stops when no remaining set could enter the top `limit`: the ranking
+ * is exact without evaluating every pump that spans the duty.
  * Ranking is by efficiency at the duty, or by annual energy cost when hours and a tariff are given.
  *
  * Results are preliminary: they are to be verified against certified manufacturer data by a
@@ -14,7 +16,7 @@
 import type { CurveSet } from '../model/curveset.ts';
 import { LibraryError } from './errors.ts';
 import type { LibraryStore } from './store.ts';
-import { mayMeetDuty } from './summary.ts';
+import { screenDuty } from './dutyBounds.ts';
 
 export type PorPlace = 'below' | 'within' | 'above' | 'unknown';
 
@@ -76,10 +78,17 @@ export interface DutyCandidate extends DutyAnswer {
 export interface DutySearchResult {
   duty: Duty;
   ranking: 'efficiency' | 'annual-cost';
-  /** Entries whose envelope contains the duty (evaluated in full). */
+  /** Active entries whose head-curve envelope contains the duty (SQL prefilter). */
   examined: number;
-  /** Entries that can meet the duty (before `limit`). */
+  /** Of those, entries whose captured diameters bracket the duty: the most that can meet it. */
+  reachable: number;
+  /** Entries the duty engine evaluated; the others could not enter the ranking. */
+  evaluated: number;
+  /** Evaluated entries that meet the duty (all that meet it when `complete`). */
   matched: number;
+  /** True when every reachable entry was evaluated. */
+  complete: boolean;
+  /** The best `limit` entries that meet the duty, best first. The ranking is exact. */
   candidates: DutyCandidate[];
 }
 
@@ -105,7 +114,8 @@ export function searchByDuty(store: LibraryStore, duty: Duty, matcher: DutyMatch
     throw new LibraryError('The energy tariff must be zero or a positive price per kWh.', 'invalid');
   }
   const limit = Math.min(Math.max(Math.trunc(options.limit ?? 20), 1), 500);
-  const byCost = hours !== undefined && tariff !== undefined;
+  // A zero tariff makes every cost zero; efficiency then decides.
+  const byCost = hours !== undefined && tariff !== undefined && tariff > 0;
 
   const q = duty.flow_m3s;
   const h = duty.head_m;
@@ -118,21 +128,53 @@ export function searchByDuty(store: LibraryStore, duty: Duty, matcher: DutyMatch
     id: string; revision: number; name: string; maker: string | null; model: string | null; rated_speed_rpm: number;
   }>;
 
-  const candidates: DutyCandidate[] = [];
+  // Screen every set in the envelope (cheap), then evaluate in the order of the ranking bounds.
+  const screened: Array<{ row: (typeof rows)[number]; set: CurveSet; key: number }> = [];
   for (const row of rows) {
-    const set = store.curveSet(row.id, row.revision);
-    if (!mayMeetDuty(set, q, h)) continue;
+    const set = store.searchSet(row.id, row.revision);
+    const screen = screenDuty(set, q, h);
+    if (!screen) continue;
+    screened.push({ row, set, key: byCost ? screen.powerBound : screen.efficiencyBound });
+  }
+  screened.sort(byCost ? (a, b) => a.key - b.key : (a, b) => b.key - a.key);
+
+  const candidates: DutyCandidate[] = [];
+  let evaluated = 0;
+  let matched = 0;
+  for (const { row, set, key } of screened) {
+    if (candidates.length >= limit) {
+      // The ranking so far is complete when no remaining set can beat the last place.
+      const last = candidates[limit - 1] as DutyCandidate;
+      if (byCost ? key > (last.power_W ?? Infinity) : key < (last.efficiency ?? -1)) break;
+    }
+    evaluated += 1;
     const match = matcher(set, duty);
     if (!match) continue;
+    matched += 1;
     const c: DutyCandidate = { ...row, ...match };
     if (hours !== undefined && match.power_W !== undefined) {
       c.annual_energy_kWh = (match.power_W * hours) / 1000;
       if (tariff !== undefined) c.annual_cost = c.annual_energy_kWh * tariff;
     }
-    candidates.push(c);
+    insertSorted(candidates, c, byCost ? compareCost : compareEfficiency);
+    if (candidates.length > limit) candidates.pop();
   }
-  candidates.sort(byCost ? compareCost : compareEfficiency);
-  return { duty, ranking: byCost ? 'annual-cost' : 'efficiency', examined: rows.length, matched: candidates.length, candidates: candidates.slice(0, limit) };
+  return {
+    duty,
+    ranking: byCost ? 'annual-cost' : 'efficiency',
+    examined: rows.length,
+    reachable: screened.length,
+    evaluated,
+    matched,
+    complete: evaluated === screened.length,
+    candidates,
+  };
+}
+
+function insertSorted<T>(list: T[], item: T, compare: (a: T, b: T) => number): void {
+  let i = list.length;
+  while (i > 0 && compare(list[i - 1] as T, item) > 0) i--;
+  list.splice(i, 0, item);
 }
 
 function compareEfficiency(a: DutyCandidate, b: DutyCandidate): number {

@@ -39,9 +39,19 @@ export interface DutySearchView {
   duty: { flow: number; head: number; static_head: number | null };
   ranking: DutySearchResult['ranking'];
   examined: number;
+  reachable: number;
+  evaluated: number;
   matched: number;
+  complete: boolean;
   candidates: DutyCandidateView[];
   notice: string;
+}
+
+/** "3 of the 12 pumps spanning the duty can meet it", or "at least …" when the search stopped early. */
+export function matchSentence(view: Pick<DutySearchView, 'matched' | 'examined' | 'complete' | 'ranking'>): string {
+  const ranked = view.ranking === 'efficiency' ? 'efficiency at the duty' : 'annual energy cost';
+  const head = `${view.complete ? '' : 'at least '}${view.matched} of the ${view.examined} pumps spanning the duty can meet it, ranked by ${ranked}`;
+  return view.complete ? `${head}.` : `${head}; the ranking shown is exact, the pumps that could not enter it were not evaluated.`;
 }
 
 export function unitSystemNamed(name: string | undefined): PresetName {
@@ -70,7 +80,10 @@ export function dutySearchView(result: DutySearchResult, system: PresetName): Du
     },
     ranking: result.ranking,
     examined: result.examined,
+    reachable: result.reachable,
+    evaluated: result.evaluated,
     matched: result.matched,
+    complete: result.complete,
     candidates: result.candidates.map((c) => ({
       id: c.id,
       revision: c.revision,

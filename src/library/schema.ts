@@ -38,6 +38,7 @@ const MIGRATIONS: readonly string[] = [
     bep_head_m REAL,
     bep_efficiency REAL,
     search_text TEXT NOT NULL,
+    search_json TEXT NOT NULL,
     updated_at TEXT NOT NULL
   ) STRICT;
   CREATE INDEX entries_duty ON entries (flow_min_m3s, flow_max_m3s) WHERE archived_at IS NULL;

@@ -15,7 +15,7 @@ import { LibraryError } from './errors.ts';
 import { checkEntryId, newEntryId } from './ids.ts';
 import { migrate } from './schema.ts';
 import { SheetStore } from './sheets.ts';
-import { summarize } from './summary.ts';
+import { searchCopy, summarize } from './summary.ts';
 import { checkCurveSet, type CheckedCurveSet } from './validate.ts';
 import { entryInfoOf, type EntryInfo, type EntryRow, type RevisionInfo, type SavedRevision, type StoredRevision } from './types.ts';
 
@@ -130,15 +130,37 @@ export class LibraryStore {
     return { id, revision: row.revision, saved_at: row.saved_at, sha256: row.sha256, body: row.body, archived_at: entry.archived_at };
   }
 
-  /** The parsed curve set of a revision, from the in-memory cache when possible. */
-  curveSet(id: string, revision: number): CurveSet {
+  /**
+   * The search copy (see `searchCopy`) of an entry's latest revision, parsed once and cached by
+   * "id:revision"; an older revision is taken from its stored body.
+   */
+  searchSet(id: string, revision: number): CurveSet {
     const key = `${id}:${revision}`;
     const hit = this.parsed.get(key);
     if (hit) return hit;
-    // Stored bodies passed the schema when written; parsing the JSON is enough here.
-    const set = JSON.parse(this.get(id, revision).body) as CurveSet;
+    const row = this.stmts.searchJson.get(id, revision) as { search_json: string } | undefined;
+    // Stored documents passed the schema when written; parsing the JSON is enough here.
+    const set = row ? (JSON.parse(row.search_json) as CurveSet) : searchCopy(JSON.parse(this.get(id, revision).body) as CurveSet);
     this.parsed.set(key, set);
     return set;
+  }
+
+  /**
+   * Fills the search cache with active entries, `batch` at a time, yielding between batches so a
+   * server stays responsive; returns how many were parsed. Stops early if the store closes.
+   */
+  async warmSearchCache(batch = 200): Promise<number> {
+    let done = 0;
+    let after = '';
+    for (;;) {
+      if (!this.db.open) return done;
+      const rows = this.stmts.activeAfter.all(after, batch) as Array<{ id: string; latest_revision: number }>;
+      if (rows.length === 0) return done;
+      for (const r of rows) this.searchSet(r.id, r.latest_revision);
+      done += rows.length;
+      after = (rows[rows.length - 1] as { id: string }).id;
+      await new Promise((resolve) => setImmediate(resolve));
+    }
   }
 
   revisions(id: string): RevisionInfo[] {
@@ -231,7 +253,6 @@ export class LibraryStore {
   private insertRevision(id: string, revision: number, at: string, checked: CheckedCurveSet): void {
     const source = checked.set.provenance.source?.sha256 ?? null;
     this.stmts.insertRevision.run(id, revision, at, checked.sha256, checked.text, source);
-    this.parsed.set(`${id}:${revision}`, checked.set);
   }
 
   private entryRow(id: string): EntryRow {
@@ -278,6 +299,7 @@ function summaryRow(id: string, revision: number, checked: CheckedCurveSet, at: 
     bep_head_m: s.bepHeadM,
     bep_efficiency: s.bepEfficiency,
     search_text: s.searchText,
+    search_json: JSON.stringify(searchCopy(checked.set)),
     updated_at: at,
   };
 }
@@ -287,16 +309,16 @@ function prepareStatements(db: Database.Database) {
     entry: db.prepare('SELECT * FROM entries WHERE id = ?'),
     insertEntry: db.prepare(`INSERT INTO entries (id, created_at, archived_at, latest_revision, name, maker, model, size, pump_type, family,
       speed_rpm, diameters_json, diameter_min_m, diameter_max_m, member_count, flow_min_m3s, flow_max_m3s, head_min_m, head_max_m,
-      bep_flow_m3s, bep_head_m, bep_efficiency, search_text, updated_at)
+      bep_flow_m3s, bep_head_m, bep_efficiency, search_text, search_json, updated_at)
       VALUES (@id, @created_at, @archived_at, @latest_revision, @name, @maker, @model, @size, @pump_type, @family,
       @speed_rpm, @diameters_json, @diameter_min_m, @diameter_max_m, @member_count, @flow_min_m3s, @flow_max_m3s, @head_min_m, @head_max_m,
-      @bep_flow_m3s, @bep_head_m, @bep_efficiency, @search_text, @updated_at)`),
+      @bep_flow_m3s, @bep_head_m, @bep_efficiency, @search_text, @search_json, @updated_at)`),
     updateSummary: db.prepare(`UPDATE entries SET latest_revision = @latest_revision, name = @name, maker = @maker, model = @model,
       size = @size, pump_type = @pump_type, family = @family, speed_rpm = @speed_rpm, diameters_json = @diameters_json,
       diameter_min_m = @diameter_min_m, diameter_max_m = @diameter_max_m, member_count = @member_count,
       flow_min_m3s = @flow_min_m3s, flow_max_m3s = @flow_max_m3s, head_min_m = @head_min_m, head_max_m = @head_max_m,
       bep_flow_m3s = @bep_flow_m3s, bep_head_m = @bep_head_m, bep_efficiency = @bep_efficiency, search_text = @search_text,
-      updated_at = @updated_at WHERE id = @id`),
+      search_json = @search_json, updated_at = @updated_at WHERE id = @id`),
     insertRevision: db.prepare(`INSERT INTO revisions (entry_id, revision, saved_at, sha256, body, source_sha256)
       VALUES (?, ?, ?, ?, ?, ?)`),
     maxRevision: db.prepare('SELECT max(revision) AS n FROM revisions WHERE entry_id = ?'),
@@ -304,5 +326,7 @@ function prepareStatements(db: Database.Database) {
     revisions: db.prepare('SELECT revision, saved_at, sha256, length(CAST(body AS BLOB)) AS bytes FROM revisions WHERE entry_id = ? ORDER BY revision'),
     event: db.prepare('INSERT INTO entry_events (entry_id, at, event, revision) VALUES (?, ?, ?, ?)'),
     setArchived: db.prepare('UPDATE entries SET archived_at = ? WHERE id = ?'),
+    searchJson: db.prepare('SELECT search_json FROM entries WHERE id = ? AND latest_revision = ?'),
+    activeAfter: db.prepare('SELECT id, latest_revision FROM entries WHERE archived_at IS NULL AND id > ? ORDER BY id LIMIT ?'),
   };
 }

@@ -114,30 +114,24 @@ export function summarize(set: CurveSet): CurveSetSummary {
   };
 }
 
-/** Relative slack of the quick duty check, so that round-off never drops a pump that meets the duty exactly. */
-const QUICK_SLACK = 1e-6;
 
 /**
- * A cheap necessary condition for meeting a duty with a diameter between the captured ones:
- * the duty flow lies on the largest member's head curve, the duty head is not above that curve,
- * and not below the smallest member's curve (where that curve reaches the duty flow).
- * Two polynomial evaluations; the duty engine decides the rest. Speed families always pass.
+ * The curve set as the duty search needs it: fits, derived figures, pump, fluid and family,
+ * without captured points and findings. Kept beside each entry so that a search parses a few
+ * kilobytes per pump instead of the whole document.
  */
-export function mayMeetDuty(set: CurveSet, flowM3s: number, headM: number): boolean {
-  if (set.family === 'speed') return true;
-  let largest: Member | undefined;
-  let smallest: Member | undefined;
-  for (const m of set.members) {
-    if (m.diameter_m === undefined) continue;
-    if (!largest || m.diameter_m > (largest.diameter_m as number)) largest = m;
-    if (!smallest || m.diameter_m < (smallest.diameter_m as number)) smallest = m;
-  }
-  const full = largest?.curves.head?.fit;
-  if (!largest || !smallest || !full) return true;
-  const [lo, hi] = full.domain;
-  if (flowM3s < lo * (1 - QUICK_SLACK) || flowM3s > hi * (1 + QUICK_SLACK)) return false;
-  if (evaluateUnchecked(full, flowM3s) < headM * (1 - QUICK_SLACK)) return false;
-  const small = smallest.curves.head?.fit;
-  if (small && flowM3s >= small.domain[0] && flowM3s <= small.domain[1] && evaluateUnchecked(small, flowM3s) > headM * (1 + QUICK_SLACK)) return false;
-  return true;
+export function searchCopy(set: CurveSet): CurveSet {
+  return {
+    ...set,
+    provenance: { tool: set.provenance.tool, created: set.provenance.created },
+    members: set.members.map((m) => {
+      const curves: Member['curves'] = {};
+      for (const q of ['head', 'efficiency', 'power', 'npshr'] as const) {
+        const c = m.curves[q];
+        if (c) curves[q] = c.fit ? { points: [], fit: c.fit } : { points: [] };
+      }
+      return { ...m, curves };
+    }),
+    findings: [],
+  };
 }

@@ -5,7 +5,7 @@
  */
 import { fromSI, presetNamed, resolveUnits, roundSignificant, type PresetName } from '../units/index.ts';
 import type { EntryInfo } from '../library/types.ts';
-import type { DutySearchView } from '../library/dutyView.ts';
+import { matchSentence, type DutySearchView } from '../library/dutyView.ts';
 
 const ESCAPES: Record<string, string> = { '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;', '`': '&#96;' };
 
@@ -63,7 +63,8 @@ function searchSection(view: DutySearchView): string {
     ? `<table><thead><tr><th>Pump</th><th>Maker</th><th>Diameter (${escapeHtml(u.diameter)})</th><th>Efficiency (%)</th><th>Power (${escapeHtml(u.power)})</th><th>NPSHr (${escapeHtml(u.npshr)})</th><th>Against the POR</th><th>Cautions</th></tr></thead>
 <tbody>${rows}</tbody></table>`
     : '<p>No pump in the library meets this duty with one of its diameters or a trim between them.</p>';
-  return `<section><h2>${head}</h2><p>${view.matched} of ${view.examined} pumps whose curves span the duty can meet it, ranked by ${view.ranking === 'efficiency' ? 'efficiency at the duty' : 'annual energy cost'}.</p>
+  const sentence = matchSentence(view);
+  return `<section><h2>${head}</h2><p>${escapeHtml(sentence.charAt(0).toUpperCase() + sentence.slice(1))}</p>
 ${body}<p class="notice">${escapeHtml(view.notice)}</p></section>`;
 }
 

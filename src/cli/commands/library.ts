@@ -10,7 +10,7 @@ import { LibraryError } from '../../library/errors.ts';
 import { LibraryStore } from '../../library/store.ts';
 import { searchByDuty } from '../../library/dutySearch.ts';
 import { libraryMatcher } from '../../library/matcher.ts';
-import { dutyFromDisplay, dutySearchView, unitSystemNamed, type DutySearchView } from '../../library/dutyView.ts';
+import { dutyFromDisplay, dutySearchView, matchSentence, unitSystemNamed, type DutySearchView } from '../../library/dutyView.ts';
 import { exportLines, importLines } from '../../library/transfer.ts';
 import { linesOf } from '../../library/lines.ts';
 import type { EntryInfo } from '../../library/types.ts';
@@ -180,7 +180,7 @@ export function register(program: Command): void {
             return EXIT_OK;
           }
           const u = view.units;
-          out(`Duty ${num(view.duty.flow)} ${u.flow} at ${num(view.duty.head)} ${u.head}: ${view.matched} of ${view.examined} pumps spanning the duty can meet it (ranked by ${view.ranking === 'efficiency' ? 'efficiency' : 'annual energy cost'}).`);
+          out(`Duty ${num(view.duty.flow)} ${u.flow} at ${num(view.duty.head)} ${u.head}: ${matchSentence(view)}`);
           if (view.candidates.length) out(searchTable(view));
           out(view.notice);
           return EXIT_OK;
