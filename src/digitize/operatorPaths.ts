@@ -34,6 +34,8 @@ export interface OperatorCodes {
   endPath: number;
   clip: number;
   eoClip: number;
+  beginAnnotation: number;
+  endAnnotation: number;
   paintFormXObjectBegin: number;
   paintFormXObjectEnd: number;
   paintImageXObject: number;
@@ -49,7 +51,7 @@ export interface OperatorCodes {
 export const OPERATOR_NAMES: readonly (keyof OperatorCodes)[] = [
   'save', 'restore', 'transform', 'setLineWidth', 'setDash', 'setGState', 'setStrokeRGBColor', 'setFillRGBColor',
   'setStrokeTransparent', 'setFillTransparent', 'constructPath', 'stroke', 'closeStroke', 'fill', 'eoFill', 'fillStroke',
-  'eoFillStroke', 'closeFillStroke', 'closeEOFillStroke', 'endPath', 'clip', 'eoClip', 'paintFormXObjectBegin', 'paintFormXObjectEnd',
+  'eoFillStroke', 'closeFillStroke', 'closeEOFillStroke', 'endPath', 'clip', 'eoClip', 'beginAnnotation', 'endAnnotation', 'paintFormXObjectBegin', 'paintFormXObjectEnd',
   'paintImageXObject', 'paintInlineImageXObject', 'paintImageMaskXObject', 'paintImageXObjectRepeat',
   'paintImageMaskXObjectRepeat', 'paintSolidColorImageMask', 'paintInlineImageXObjectGroup', 'paintImageMaskXObjectGroup',
 ];
@@ -118,9 +120,14 @@ export function readOperatorList(list: OperatorListInput, ops: OperatorCodes, vi
   let images = 0;
   const pageArea = Math.max(width * height, 1e-9);
 
+  // Annotations (a reviewer's ink, stamps, form fields) are not the sheet's drawing: skipped.
+  let annotation = 0;
   for (let i = 0; i < list.fnArray.length; i++) {
     const fn = list.fnArray[i] as number;
     const args = list.argsArray[i] as unknown[] | null;
+    if (fn === ops.beginAnnotation) annotation++;
+    else if (fn === ops.endAnnotation) annotation = Math.max(0, annotation - 1);
+    if (annotation > 0) continue;
     switch (fn) {
       case ops.save:
         stack.push({ ...gs });

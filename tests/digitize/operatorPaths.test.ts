@@ -3,7 +3,7 @@ import { operatorCodesFrom, readOperatorList, multiply, type Matrix } from '../.
 
 /** pdf.js's operator codes (pdfjs-dist 5, OPS table). */
 const OPS = {
-  setLineWidth: 2, setDash: 6, setGState: 9, save: 10, restore: 11, transform: 12, clip: 29, eoClip: 30,
+  beginAnnotation: 80, endAnnotation: 81, setLineWidth: 2, setDash: 6, setGState: 9, save: 10, restore: 11, transform: 12, clip: 29, eoClip: 30,
   setStrokeRGBColor: 58, setFillRGBColor: 59, paintFormXObjectBegin: 74, paintFormXObjectEnd: 75,
   paintImageXObject: 85, constructPath: 91, setStrokeTransparent: 92, setFillTransparent: 93,
   stroke: 20, closeStroke: 21, fill: 22, eoFill: 23, fillStroke: 24, eoFillStroke: 25, closeFillStroke: 26, closeEOFillStroke: 27, endPath: 28,
@@ -91,6 +91,18 @@ describe('reading paths out of an operator list', () => {
     );
     expect(content.paths[0]!.clip).toEqual([10, 10, 50, 40]);
     expect(content.paths[1]!.clip).toBeUndefined();
+  });
+
+  it('leaves out what annotations draw', () => {
+    const content = readOperatorList(
+      list([OPS.beginAnnotation, ['a1', [0, 0, 10, 10], [1, 0, 0, 1, 0, 0], [1, 0, 0, 1, 0, 0], false]], path(OPS.stroke, [0, 0, 0, 1, 5, 5]), [OPS.endAnnotation, null], path(OPS.stroke, [0, 1, 1, 1, 2, 2])),
+      codes,
+      [1, 0, 0, 1, 0, 0],
+      100,
+      100,
+    );
+    expect(content.paths).toHaveLength(1);
+    expect(content.paths[0]!.segments[0]).toEqual({ kind: 'move', to: [1, 1] });
   });
 
   it('composes matrices so that the inner one applies first', () => {
