@@ -318,14 +318,29 @@ function isoLines(family: Family, panel: PanelDef, announced: Map<number, number
  */
 function placeGuides(drawing: Drawing, curves: CurveDef[], isos: IsoDef[], seed: number): TraceDef[] {
   const random = seededRandom(seed);
-  const place = (id: string, points: Array<[number, number]>, fractions: number[]): Array<[number, number]> =>
-    fractions.map((f0) => {
-      let best: [number, number] = alongPolyline(points, f0);
+  // Curves are sampled evenly in flow, so a fraction of their points is a fraction of their
+  // flow range; iso-lines are placed by arc length.
+  const byIndex = (points: Array<[number, number]>, f: number): [number, number] => {
+    const at = f * (points.length - 1);
+    const i = Math.min(points.length - 2, Math.floor(at));
+    const a = points[i] as [number, number];
+    const b = points[i + 1] as [number, number];
+    const t = at - i;
+    return [a[0] + t * (b[0] - a[0]), a[1] + t * (b[1] - a[1])];
+  };
+  const place = (id: string, points: Array<[number, number]>, fractions: number[], locate: (points: Array<[number, number]>, f: number) => [number, number]) =>
+    fractions.map((f0, index): [number, number] => {
+      // End guides may only move outwards (the reading must cover 15–95 % of the range);
+      // a middle guide may move either way.
+      const isFirst = index === 0;
+      const isLast = index === fractions.length - 1;
+      const range: [number, number] = isFirst ? [0.005, f0] : isLast ? [f0, 0.995] : [f0 - 0.12, f0 + 0.12];
+      let best = locate(points, f0);
       let bestClear = clearance(drawing, best, id);
-      for (let k = 1; k <= 12 && bestClear < 5; k++) {
-        for (const f of [f0 + 0.01 * k, f0 - 0.01 * k]) {
-          if (f < 0.01 || f > 0.99) continue;
-          const p = alongPolyline(points, f);
+      for (let k = 1; k <= 24 && bestClear < 4; k++) {
+        for (const f of [f0 + 0.005 * k, f0 - 0.005 * k]) {
+          if (f < range[0] || f > range[1]) continue;
+          const p = locate(points, f);
           const c = clearance(drawing, p, id);
           if (c > bestClear) {
             best = p;
@@ -333,8 +348,8 @@ function placeGuides(drawing: Drawing, curves: CurveDef[], isos: IsoDef[], seed:
           }
         }
       }
-      const a = alongPolyline(points, Math.max(0, f0 - 0.01));
-      const b = alongPolyline(points, Math.min(1, f0 + 0.01));
+      const a = locate(points, Math.max(0, f0 - 0.01));
+      const b = locate(points, Math.min(1, f0 + 0.01));
       const len = Math.hypot(b[0] - a[0], b[1] - a[1]) || 1;
       const off = (random() - 0.5) * 0.6;
       return [best[0] - ((b[1] - a[1]) / len) * off, best[1] + ((b[0] - a[0]) / len) * off];
@@ -344,10 +359,10 @@ function placeGuides(drawing: Drawing, curves: CurveDef[], isos: IsoDef[], seed:
     panel: c.panel,
     quantity: c.quantity,
     diameter: c.diameter,
-    guides: place(c.id, c.points, c.quantity === 'head' || c.quantity === 'efficiency' ? [0.03, 0.5, 0.97] : [0.03, 0.97]),
+    guides: place(c.id, c.points, c.quantity === 'head' || c.quantity === 'efficiency' ? [0.03, 0.5, 0.97] : [0.03, 0.97], byIndex),
   }));
   for (const iso of isos) {
-    traces.push({ id: iso.id, panel: 'head', quantity: 'efficiency', iso: iso.iso, guides: place(iso.id, iso.points, iso.branch === 'loop' ? [0.03, 0.5, 0.97] : [0.04, 0.96]) });
+    traces.push({ id: iso.id, panel: 'head', quantity: 'efficiency', iso: iso.iso, guides: place(iso.id, iso.points, iso.branch === 'loop' ? [0.03, 0.5, 0.97] : [0.04, 0.96], alongPolyline) });
   }
   return traces;
 }

@@ -30,6 +30,12 @@ export interface LineStyle {
 export interface FollowLimits {
   /** Longest stretch bridged on the prediction alone, pixels. */
   maxGap: number;
+  /**
+   * How close passing the target counts as reaching it, pixels. Small when the target was put
+   * onto the line's centre (a path that passes farther off is on another line); larger for
+   * a guide that could not be put onto the line.
+   */
+  passRadius?: number;
   /** Travel after which the follower gives up reaching its target, pixels. */
   maxTravel: number;
 }
@@ -49,6 +55,12 @@ export interface FollowResult {
    */
   track: number[];
   trackPoints: number[];
+  /**
+   * Stretches where the line ran together with other ink of its colour for more than six line
+   * widths (a shallow crossing or a bundle of curves), as the number of accepted points when
+   * each began. Beyond such a stretch the follower may have come out on the wrong line.
+   */
+  merges: number[];
   /** Why the follower stopped before its target (undefined when it reached it). */
   reason?: string;
 }
@@ -122,20 +134,29 @@ const TURN_SMOOTHING = 0.35;
  * its edges, so both edges offer a candidate. The nearest candidate wins only if the next
  * one is clearly farther; otherwise the follower coasts until the lines have parted.
  */
-function chooseOffset(runs: Run[], style: LineStyle, allowed: number): number | 'ambiguous' | undefined {
+interface Pick {
+  offset: number;
+  /** True when the offset is the centroid of a run of the line's own width, not an edge of a merge. */
+  clean: boolean;
+}
+
+function chooseOffset(runs: Run[], style: LineStyle, allowed: number, pick: Pick): 'found' | 'ambiguous' | undefined {
   let first = Infinity;
   let firstOffset = 0;
+  let firstClean = false;
   let second = Infinity;
   let covered = false;
   const lo = style.massRange[0] * style.width;
   const hi = style.massRange[1] * style.width;
+  const cleanHi = Math.min(hi, 1.2 * style.width);
   const half = style.width / 2;
-  const consider = (offset: number) => {
+  const consider = (offset: number, clean: boolean) => {
     const d = Math.abs(offset);
     if (d < first) {
       second = first;
       first = d;
       firstOffset = offset;
+      firstClean = clean;
     } else if (d < second) {
       second = d;
     }
@@ -145,16 +166,18 @@ function chooseOffset(runs: Run[], style: LineStyle, allowed: number): number | 
     if (run.mass > hi) {
       if (run.start - allowed <= 0 && run.end + allowed >= 0) covered = true;
       if (run.mass <= 2.2 * style.width) {
-        consider(run.lowEdge + half);
-        consider(run.highEdge - half);
+        consider(run.lowEdge + half, false);
+        consider(run.highEdge - half, false);
       }
       continue;
     }
-    consider(run.centre);
+    consider(run.centre, run.mass <= cleanHi);
   }
   if (first > allowed) return covered ? 'ambiguous' : undefined;
   if (second < first + 0.75 * style.width) return 'ambiguous';
-  return firstOffset;
+  pick.offset = firstOffset;
+  pick.clean = firstClean;
+  return 'found';
 }
 
 /** Accepted steps in a row needed before a line found again after a gap is trusted. */
@@ -162,41 +185,71 @@ const CONFIRM_STEPS = 4;
 
 /**
  * Heading and turning rate for bridging a gap, from a longer stretch of the followed line
- * than the step-to-step estimate uses: the circle through its first, middle and last points.
- * The short estimate is good enough to follow a visible line, but its noise, carried over a
- * long gap, would swing the prediction off the line.
+ * than the step-to-step estimate uses: a least-squares parabola, in the frame of the
+ * stretch's chord, through the clean points of the last `history` pixels (points taken at
+ * an edge of a merge are left out, as they lean towards the merging line). The short
+ * estimate is good enough to follow a visible line, but its noise, carried over a long gap,
+ * would swing the prediction off the line.
  */
-function gapHeading(points: number[], history: number, step: number): { dx: number; dy: number; turn: number; length: number } | undefined {
+function gapHeading(points: number[], clean: boolean[], history: number, step: number): { dx: number; dy: number; turn: number; length: number } | undefined {
   const count = points.length / 2;
-  const ex = points[(count - 1) * 2] as number;
-  const ey = points[(count - 1) * 2 + 1] as number;
-  let k = count - 1;
+  let last = count - 1;
+  while (last >= 0 && !clean[last]) last--;
+  if (last < 4) return undefined;
+  const ex = points[last * 2] as number;
+  const ey = points[last * 2 + 1] as number;
+  let k = last;
   let length = 0;
   while (k > 0 && length < history) {
     length += Math.hypot((points[k * 2] as number) - (points[(k - 1) * 2] as number), (points[k * 2 + 1] as number) - (points[(k - 1) * 2 + 1] as number));
     k--;
   }
-  if (length < 4 * step || count - 1 - k < 4) return undefined;
-  const m = Math.round((k + count - 1) / 2);
+  if (length < 4 * step) return undefined;
   const ax = points[k * 2] as number;
   const ay = points[k * 2 + 1] as number;
-  const mx = points[m * 2] as number;
-  const my = points[m * 2 + 1] as number;
-  const cross = (mx - ax) * (ey - ay) - (my - ay) * (ex - ax);
   const chord = Math.hypot(ex - ax, ey - ay);
-  const curvature = (2 * cross) / (Math.hypot(mx - ax, my - ay) * Math.hypot(ex - mx, ey - my) * chord || 1);
-  // The tangent at the end is the chord turned by half the arc's turning.
-  const lag = (curvature * chord) / 2;
+  if (chord < 2 * step) return undefined;
   const ux = (ex - ax) / chord;
   const uy = (ey - ay) / chord;
+  // y = a + b·t + c·t², t = s / chord (scaled for conditioning), s along u, y along v = (−uy, ux).
+  let n = 0;
+  let st = 0;
+  let st2 = 0;
+  let st3 = 0;
+  let st4 = 0;
+  let sy = 0;
+  let sty = 0;
+  let st2y = 0;
+  for (let i = k; i <= last; i++) {
+    if (!clean[i]) continue;
+    const px = (points[i * 2] as number) - ex;
+    const py = (points[i * 2 + 1] as number) - ey;
+    const t = (px * ux + py * uy) / chord;
+    const y = -px * uy + py * ux;
+    n++;
+    st += t;
+    st2 += t * t;
+    st3 += t * t * t;
+    st4 += t * t * t * t;
+    sy += y;
+    sty += t * y;
+    st2y += t * t * y;
+  }
+  if (n < 5) return undefined;
+  // Normal equations of the 3-parameter fit, solved by Cramer's rule.
+  const det3 = (a: number, b: number, c: number, d: number, e: number, f: number, g: number, h: number, i: number) => a * (e * i - f * h) - b * (d * i - f * g) + c * (d * h - e * g);
+  const D = det3(n, st, st2, st, st2, st3, st2, st3, st4);
+  if (Math.abs(D) < 1e-12) return undefined;
+  const b = det3(n, sy, st2, st, sty, st3, st2, st2y, st4) / D;
+  const c = det3(n, st, sy, st, st2, sty, st2, st3, st2y) / D;
+  const slope = b / chord;
+  const curvature = (2 * c) / (chord * chord) / (1 + slope * slope) ** 1.5;
+  const norm = Math.hypot(1, slope);
+  const dx = (ux - uy * slope) / norm;
+  const dy = (uy + ux * slope) / norm;
   // A curvature measured on a short stretch is mostly noise: trust it in proportion.
   const trust = Math.min(1, length / history) ** 2;
-  return {
-    dx: ux * Math.cos(lag) - uy * Math.sin(lag),
-    dy: ux * Math.sin(lag) + uy * Math.cos(lag),
-    turn: trust * Math.max(-MAX_TURN, Math.min(MAX_TURN, curvature * step)),
-    length,
-  };
+  return { dx, dy, turn: trust * Math.max(-MAX_TURN, Math.min(MAX_TURN, curvature * step)), length };
 }
 
 /**
@@ -224,14 +277,29 @@ export function followLine(
   let coast = 0;
   let travelled = 0;
   const points = [x, y];
+  const clean = [true];
+  const pick: Pick = { offset: 0, clean: false };
   const track = [x, y];
   const trackPoints = [1];
+  const merges: number[] = [];
+  let disturbedAt = -1;
+  let disturbedFrom = 0;
+  let cleanRun = 0;
+  const mergeLength = 6 * style.width;
+  const finish = () => {
+    closeMerge();
+    return merges;
+  };
+  const closeMerge = () => {
+    if (disturbedAt >= 0 && travelled - disturbedFrom >= mergeLength) merges.push(disturbedAt);
+    disturbedAt = -1;
+  };
   const lookback = Math.max(2, Math.ceil(Math.max(6, 2 * style.width) / step));
   const history = Math.max(60, 20 * style.width);
   const maxN = Math.ceil((half + limits.maxGap * 0.12) / spacing) + 1;
   const section = new Float64Array(2 * maxN + 1);
   const arrive = Math.max(1.5 * step, 0.75 * style.width);
-  const pass = Math.max(4 * step, 3 * style.width, 8);
+  const pass = limits.passRadius ?? Math.max(4 * step, 3 * style.width, 8);
   let closest = Infinity;
   let lastDx = dx;
   let lastDy = dy;
@@ -239,9 +307,10 @@ export function followLine(
   // After a gap, a line found again stays tentative until it has held for CONFIRM_STEPS steps;
   // a fragment of a label or a crossing line that fits once and then vanishes is dropped,
   // and the follower goes on coasting from where the gap began.
-  let tentative: { x: number; y: number; dx: number; dy: number; turn: number; coast: number; travelled: number; count: number; steps: number } | undefined;
+  let tentative: { x: number; y: number; dx: number; dy: number; turn: number; coast: number; travelled: number; count: number; steps: number; trackLength: number } | undefined;
   let skip = 0;
   let trusted = 0;
+  let lastGap: { dx: number; dy: number; turn: number; trusted: number; at: number } | undefined;
 
   for (;;) {
     const c = Math.cos(turn);
@@ -252,30 +321,46 @@ export function followLine(
     const qy = y + step * pdy;
     travelled += step;
     if (qx < 0 || qy < 0 || qx > image.width || qy > image.height) {
-      if (tentative) points.length = tentative.count * 2;
-      return { points, dx: lastDx, dy: lastDy, reached: false, reason: 'the line runs off the image', track, trackPoints };
+      if (tentative) {
+        points.length = tentative.count * 2;
+        clean.length = tentative.count;
+      }
+      return { points, dx: lastDx, dy: lastDy, reached: false, reason: 'the line runs off the image', track, trackPoints, merges: finish() };
     }
     const nx = -pdy;
     const ny = pdx;
     const extra = coast * 0.12;
-    let choice: number | 'ambiguous' | undefined;
+    let choice: 'found' | 'ambiguous' | undefined;
     if (skip > 0) {
       skip--;
       choice = undefined;
     } else {
       const n = Math.min(maxN, Math.ceil((half + extra) / spacing));
       sampleSection(image, style.model, qx, qy, nx, ny, n, spacing, section, counter);
-      choice = chooseOffset(findRuns(section, n, spacing, style.threshold), style, accept + extra);
+      choice = chooseOffset(findRuns(section, n, spacing, style.threshold), style, accept + extra, pick);
+    }
+    if (choice === 'ambiguous' || (choice === 'found' && !pick.clean)) {
+      if (disturbedAt < 0) {
+        disturbedAt = points.length / 2;
+        disturbedFrom = travelled;
+      }
+      cleanRun = 0;
+    } else if (choice === 'found' && ++cleanRun >= CONFIRM_STEPS && disturbedAt >= 0) {
+      travelled -= CONFIRM_STEPS * step;
+      closeMerge();
+      travelled += CONFIRM_STEPS * step;
     }
     dx = pdx;
     dy = pdy;
-    if (typeof choice === 'number') {
-      if (coast > 2 * step && !tentative) {
-        tentative = { x, y, dx: lastDx, dy: lastDy, turn, coast, travelled: travelled - step, count: points.length / 2, steps: 0 };
+    if (choice === 'found') {
+      if (coast > 0 && !tentative) {
+        tentative = { x, y, dx: lastDx, dy: lastDy, turn, coast, travelled: travelled - step, count: points.length / 2, steps: 0, trackLength: track.length };
       }
-      x = qx + nx * choice;
-      y = qy + ny * choice;
+      x = qx + nx * pick.offset;
+      y = qy + ny * pick.offset;
       points.push(x, y);
+      clean.push(pick.clean);
+      if (coast > 0) lastGap = { dx: pdx, dy: pdy, turn, trusted, at: points.length / 2 };
       coast = 0;
       if (tentative && ++tentative.steps >= CONFIRM_STEPS) tentative = undefined;
 
@@ -302,7 +387,20 @@ export function followLine(
       }
     } else {
       if (coast === 0 && !tentative) {
-        const g = gapHeading(points, history, step);
+        const seenSince = lastGap ? (points.length / 2 - lastGap.at) * step : Infinity;
+        let g = gapHeading(points, clean, history, step);
+        if (lastGap && seenSince < history / 2) {
+          // Seen again only briefly since the last gap (a merge seldom lets go cleanly at once):
+          // the estimate from before that gap is still the better one. Carry it forward.
+          const steps = points.length / 2 - lastGap.at;
+          const a = lastGap.turn * steps;
+          g = {
+            dx: lastGap.dx * Math.cos(a) - lastGap.dy * Math.sin(a),
+            dy: lastGap.dx * Math.sin(a) + lastGap.dy * Math.cos(a),
+            turn: lastGap.turn,
+            length: lastGap.trusted,
+          };
+        }
         if (g) {
           // Re-predict this step from the longer history, from the last point on the line.
           dx = g.dx * Math.cos(g.turn) - g.dy * Math.sin(g.turn);
@@ -321,6 +419,11 @@ export function followLine(
       if (tentative) {
         // The fragment did not hold: back to the gap, coasting past the steps it took.
         points.length = tentative.count * 2;
+        clean.length = tentative.count;
+        track.length = tentative.trackLength;
+        trackPoints.length = tentative.trackLength / 2;
+        while (merges.length > 0 && (merges[merges.length - 1] as number) > tentative.count) merges.pop();
+        if (disturbedAt > tentative.count) disturbedAt = -1;
         ({ x, y, turn, coast, travelled } = tentative);
         dx = tentative.dx;
         dy = tentative.dy;
@@ -337,19 +440,19 @@ export function followLine(
       if (coast > trusted) turn *= trusted > 0 ? Math.exp(-step / trusted) : 0;
       if (coast > limits.maxGap) {
         const what = choice === 'ambiguous' ? 'the line merges with other ink (a crossing line, a label or a dense grid)' : 'no ink of the line\u2019s colour and width lies near its predicted path';
-        return { points, dx: lastDx, dy: lastDy, reached: false, reason: `${what} for more than ${Math.round(limits.maxGap)} px`, track, trackPoints };
+        return { points, dx: lastDx, dy: lastDy, reached: false, reason: `${what} for more than ${Math.round(limits.maxGap)} px`, track, trackPoints, merges: finish() };
       }
     }
     track.push(x, y);
     trackPoints.push(points.length / 2);
     if (meet && !tentative) {
       const met = nearestOnPath(meet, x, y);
-      if (met >= 0) return { points, dx: lastDx, dy: lastDy, reached: true, met, track, trackPoints };
+      if (met >= 0) return { points, dx: lastDx, dy: lastDy, reached: true, met, track, trackPoints, merges: finish() };
     }
     if (target) {
       const d = Math.hypot(target[0] - x, target[1] - y);
       if (d < arrive || (closest < pass && d > closest + 2 * step)) {
-        return { points, dx: lastDx, dy: lastDy, reached: true, track, trackPoints };
+        return { points, dx: lastDx, dy: lastDy, reached: true, track, trackPoints, merges: finish() };
       }
       if (d < closest) closest = d;
     }
@@ -358,6 +461,7 @@ export function followLine(
         points,
         track,
         trackPoints,
+        merges: finish(),
         dx: lastDx,
         dy: lastDy,
         reached: false,

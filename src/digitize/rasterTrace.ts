@@ -208,6 +208,94 @@ function headingTowards(image: RasterImage, style: LineStyle, from: Px, axis: Px
   return b.d < a.d ? backward : forward;
 }
 
+/**
+ * Removes points that stand off the line their neighbours describe: for each point, a
+ * parabola is fitted by least squares, in the frame of the local chord, through the other
+ * points within `window` pixels along the path, and the point goes when it lies more than
+ * `limit` pixels off it. What this catches is a lone centre picked from the wrong line of a
+ * merge; a real bend of a plotted curve is smooth over many points and stays.
+ */
+export function dropOutliers(path: readonly Px[], window: number, limit: number): Px[] {
+  if (path.length < 7) return [...path];
+  const along = [0];
+  for (let i = 1; i < path.length; i++) {
+    const a = path[i - 1] as Px;
+    const b = path[i] as Px;
+    along.push((along[i - 1] as number) + Math.hypot(b[0] - a[0], b[1] - a[1]));
+  }
+  const keep: Px[] = [];
+  let lo = 0;
+  let hi = 0;
+  for (let i = 0; i < path.length; i++) {
+    const here = along[i] as number;
+    while ((along[lo] as number) < here - window) lo++;
+    while (hi + 1 < path.length && (along[hi + 1] as number) <= here + window) hi++;
+    const p = path[i] as Px;
+    const first = path[lo] as Px;
+    const last = path[hi] as Px;
+    const chord = Math.hypot(last[0] - first[0], last[1] - first[1]);
+    if (hi - lo < 6 || chord < window / 2) {
+      keep.push(p);
+      continue;
+    }
+    const ux = (last[0] - first[0]) / chord;
+    const uy = (last[1] - first[1]) / chord;
+    // Normal equations of y = a + b·t + c·t² over the neighbours (t scaled by the window).
+    const m: [number, number, number, number, number, number, number, number] = [0, 0, 0, 0, 0, 0, 0, 0];
+    for (let k = lo; k <= hi; k++) {
+      if (k === i) continue;
+      const q = path[k] as Px;
+      const dx = q[0] - p[0];
+      const dy = q[1] - p[1];
+      const t = (dx * ux + dy * uy) / window;
+      const y = -dx * uy + dy * ux;
+      m[0]++;
+      m[1] += t;
+      m[2] += t * t;
+      m[3] += t * t * t;
+      m[4] += t * t * t * t;
+      m[5] += y;
+      m[6] += t * y;
+      m[7] += t * t * y;
+    }
+    const [n, s1, s2, s3, s4, y0, y1, y2] = m;
+    const det = n * (s2 * s4 - s3 * s3) - s1 * (s1 * s4 - s3 * s2) + s2 * (s1 * s3 - s2 * s2);
+    if (Math.abs(det) < 1e-12) {
+      keep.push(p);
+      continue;
+    }
+    // The fitted offset at the point itself (t = 0) is the constant term.
+    const a = (y0 * (s2 * s4 - s3 * s3) - s1 * (y1 * s4 - s3 * y2) + s2 * (y1 * s3 - s2 * y2)) / det;
+    if (Math.abs(a) <= limit) keep.push(p);
+  }
+  return keep;
+}
+
+/** Unit direction of travel at point k of a path, from a chord over a few points (sign 1 forwards, −1 backwards). */
+function tangentAt(path: readonly Px[], k: number, sign: 1 | -1): Px {
+  const j = Math.max(0, k - 6);
+  const a = path[j] as Px;
+  const b = path[k] as Px;
+  const len = Math.hypot(b[0] - a[0], b[1] - a[1]) || 1;
+  return [(sign * (b[0] - a[0])) / len, (sign * (b[1] - a[1])) / len];
+}
+
+/** Points of a cubic Hermite curve from p0 (direction d0) to p1 (direction d1), about `step` apart, ends excluded. */
+function bridge(p0: Px, d0: Px, p1: Px, d1: Px, step: number): Px[] {
+  const span = Math.hypot(p1[0] - p0[0], p1[1] - p0[1]);
+  const n = Math.max(1, Math.ceil(span / step));
+  const out: Px[] = [];
+  for (let i = 1; i < n; i++) {
+    const t = i / n;
+    const h00 = 2 * t ** 3 - 3 * t ** 2 + 1;
+    const h10 = t ** 3 - 2 * t ** 2 + t;
+    const h01 = -2 * t ** 3 + 3 * t ** 2;
+    const h11 = t ** 3 - t ** 2;
+    out.push([h00 * p0[0] + h10 * span * d0[0] + h01 * p1[0] + h11 * span * d1[0], h00 * p0[1] + h10 * span * d0[1] + h01 * p1[1] + h11 * span * d1[1]]);
+  }
+  return out;
+}
+
 function pairs(flat: number[]): Px[] {
   const out: Px[] = [];
   for (let i = 0; i < flat.length; i += 2) out.push([flat[i] as number, flat[i + 1] as number]);
@@ -259,7 +347,11 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
       const to: Px = b?.centre ?? (px[i + 1] as Px);
       if (path.length === 0) path.push(from);
       const chord = Math.hypot(to[0] - from[0], to[1] - from[1]);
-      const limits: FollowLimits = { maxGap, maxTravel: 4 * chord + 50 * style.width + 100 };
+      const limits: FollowLimits = {
+        maxGap,
+        maxTravel: 4 * chord + 50 * style.width + 100,
+        ...(b ? { passRadius: Math.max(2 * stepping(style.width).step, 1.5 * style.width) } : {}),
+      };
       const axis = a?.axis ?? heading ?? [to[0] - from[0], to[1] - from[1]];
       const h = heading ?? headingTowards(image, style, from, axis, to, counter);
       const fwd = followLine(image, style, from, h, to, limits, counter);
@@ -287,6 +379,18 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
       const back = pairs(bwd.points).reverse();
       if (bwd.met !== undefined) {
         path.length = forwardStart - 1 + (fwd.trackPoints[bwd.met] as number);
+      } else if (fwd.merges.length > 0 && bwd.merges.length > 0) {
+        // Neither pass came out of the bundle on the other's line, so each is kept up to where
+        // it entered the bundle, and the two ends are joined smoothly through it: inside the
+        // bundle the line lies within a line width or two of its neighbours.
+        path.length = forwardStart - 1 + (fwd.merges[0] as number);
+        const kept = pairs(bwd.points).slice(0, bwd.merges[0] as number);
+        const p0 = path[path.length - 1] as Px;
+        const p1 = kept[kept.length - 1] as Px;
+        path.push(...bridge(p0, tangentAt(path, path.length - 1, 1), p1, tangentAt(kept, kept.length - 1, -1), stepping(style.width).step));
+        lost.push({ at: toSheetPt(p0), resumedAt: toSheetPt(p1), between: [i + 1, i + 2], reason: 'the line runs together with other lines of its colour here; the stretch is bridged smoothly' });
+        back.length = 0;
+        back.push(...kept.reverse());
       } else {
         lost.push({ at: toSheetPt(lostAt), resumedAt: toSheetPt(back[0] as Px), between: [i + 1, i + 2], reason: fwd.reason ?? 'the line was lost' });
       }
@@ -296,7 +400,7 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
   }
 
   const thinned = simplify(
-    path.map(([x, y]) => ({ x, y })),
+    dropOutliers(path, Math.max(12, 4 * style.width), Math.max(1.5, 0.5 * style.width)).map(([x, y]) => ({ x, y })),
     options.simplifyPx ?? 0.3,
     true,
   );
