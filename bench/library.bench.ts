@@ -124,7 +124,7 @@ export default async function (): Promise<void> {
     process.stdout.write(`duty search over ${ENTRIES} curve sets, ${QUERIES} queries via HTTP (first pass, cache filling): ${stats(httpMs)}\n`);
     process.stdout.write(
       `  per query on average: ${(examined / QUERIES).toFixed(0)} sets inside the SQL envelope, ${(reachable / QUERIES).toFixed(0)} bracket the duty with their diameters, ` +
-        `${(evaluated / QUERIES).toFixed(1)} evaluated by the duty engine to rank the best 20; ` +
+        `${(evaluated / QUERIES).toFixed(1)} evaluated by the duty engine to rank the best 10 (the default); ` +
         `${withCandidates} of ${QUERIES} queries found a pump\n`,
     );
     const warmMs: number[] = [];

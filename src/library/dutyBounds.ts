@@ -32,17 +32,70 @@ export interface DutyScreen {
 
 const UNBOUNDED: DutyScreen = { efficiencyBound: Infinity, powerBound: 0 };
 
-function extremaOn(fit: PolynomialFit, a: number, b: number): { min: number; max: number } {
-  let min = Math.min(evaluateUnchecked(fit, a), evaluateUnchecked(fit, b));
-  let max = Math.max(evaluateUnchecked(fit, a), evaluateUnchecked(fit, b));
-  if (fit.coefficients.length > 2 && b > a) {
-    for (const q of stationaryPoints(fit, a, b, EXTREMA_SAMPLES)) {
-      const y = evaluateUnchecked(fit, q);
+/**
+ * Smallest and largest value of a fitted polynomial on [a, b]: the ends and the stationary points
+ * inside. Up to degree 3 the stationary points are the roots of a quadratic; above, they are found
+ * by sampling and bisection.
+ */
+export function extremaOn(fit: PolynomialFit, a: number, b: number): { min: number; max: number } {
+  const ya = evaluateUnchecked(fit, a);
+  const yb = evaluateUnchecked(fit, b);
+  let min = ya < yb ? ya : yb;
+  let max = ya < yb ? yb : ya;
+  const c = fit.coefficients;
+  if (c.length <= 2 || !(b > a)) return { min, max };
+  let r1 = Number.NaN;
+  let r2 = Number.NaN;
+  if (c.length <= 4) {
+    // dy/dt = c1 + 2·c2·t + 3·c3·t², t = Q / flow_scale.
+    const s = fit.flow_scale;
+    const A = 3 * (c.length === 4 ? (c[3] as number) : 0);
+    const B = 2 * (c[2] as number);
+    const C = c[1] as number;
+    if (A === 0) {
+      if (B !== 0) r1 = (-C / B) * s;
+    } else {
+      const disc = B * B - 4 * A * C;
+      if (disc >= 0) {
+        const root = Math.sqrt(disc);
+        r1 = ((-B + root) / (2 * A)) * s;
+        r2 = ((-B - root) / (2 * A)) * s;
+      }
+    }
+    if (r1 > a && r1 < b) {
+      const y = evaluateUnchecked(fit, r1);
       if (y < min) min = y;
       if (y > max) max = y;
     }
+    if (r2 > a && r2 < b) {
+      const y = evaluateUnchecked(fit, r2);
+      if (y < min) min = y;
+      if (y > max) max = y;
+    }
+    return { min, max };
+  }
+  for (const q of stationaryPoints(fit, a, b, EXTREMA_SAMPLES)) {
+    const y = evaluateUnchecked(fit, q);
+    if (y < min) min = y;
+    if (y > max) max = y;
   }
   return { min, max };
+}
+
+interface ScreenModel {
+  members: Array<Member & { diameter_m: number }>;
+}
+
+/** Per-set preparation, kept as long as the (cached) set object lives. */
+const models = new WeakMap<CurveSet, ScreenModel>();
+
+function modelOf(set: CurveSet): ScreenModel {
+  let model = models.get(set);
+  if (!model) {
+    model = { members: withDiameters(set) };
+    models.set(set, model);
+  }
+  return model;
 }
 
 function withDiameters(set: CurveSet): Array<Member & { diameter_m: number }> {
@@ -56,7 +109,7 @@ function withDiameters(set: CurveSet): Array<Member & { diameter_m: number }> {
  */
 export function screenDuty(set: CurveSet, flowM3s: number, headM: number): DutyScreen | null {
   if (set.family === 'speed') return UNBOUNDED;
-  const members = withDiameters(set);
+  const members = modelOf(set).members;
   const full = members[0];
   const fullHead = full?.curves.head?.fit;
   if (!full || !fullHead) return UNBOUNDED;

@@ -57,7 +57,7 @@ export interface DutySearchOptions {
   hoursPerYear?: number;
   /** Energy price per kWh, in the office's currency. */
   tariffPerKWh?: number;
-  /** Most candidates to return (default 20, at most 500). */
+  /** Most candidates to return (default 10, at most 500). */
   limit?: number;
 }
 
@@ -92,6 +92,9 @@ export interface DutySearchResult {
   candidates: DutyCandidate[];
 }
 
+/** Candidates returned unless the caller asks for more. */
+export const DEFAULT_LIMIT = 10;
+
 /** Relative margin on the SQL envelope, so that a trim between diameters is never filtered out early. */
 const ENVELOPE_MARGIN = 0.05;
 
@@ -113,20 +116,13 @@ export function searchByDuty(store: LibraryStore, duty: Duty, matcher: DutyMatch
   if (tariff !== undefined && !(Number.isFinite(tariff) && tariff >= 0)) {
     throw new LibraryError('The energy tariff must be zero or a positive price per kWh.', 'invalid');
   }
-  const limit = Math.min(Math.max(Math.trunc(options.limit ?? 20), 1), 500);
+  const limit = Math.min(Math.max(Math.trunc(options.limit ?? DEFAULT_LIMIT), 1), 500);
   // A zero tariff makes every cost zero; efficiency then decides.
   const byCost = hours !== undefined && tariff !== undefined && tariff > 0;
 
   const q = duty.flow_m3s;
   const h = duty.head_m;
-  const rows = store.db
-    .prepare(
-      `SELECT id, latest_revision AS revision, name, maker, model, speed_rpm AS rated_speed_rpm FROM entries
-       WHERE archived_at IS NULL AND flow_min_m3s <= ? AND flow_max_m3s >= ? AND head_min_m <= ? AND head_max_m >= ?`,
-    )
-    .all(q * (1 + ENVELOPE_MARGIN), q * (1 - ENVELOPE_MARGIN), h * (1 + ENVELOPE_MARGIN), h * (1 - ENVELOPE_MARGIN)) as Array<{
-    id: string; revision: number; name: string; maker: string | null; model: string | null; rated_speed_rpm: number;
-  }>;
+  const rows = store.envelopeContaining(q, h, ENVELOPE_MARGIN);
 
   // Screen every set in the envelope (cheap), then evaluate in the order of the ranking bounds.
   const screened: Array<{ row: (typeof rows)[number]; set: CurveSet; key: number }> = [];
@@ -151,7 +147,7 @@ export function searchByDuty(store: LibraryStore, duty: Duty, matcher: DutyMatch
     const match = matcher(set, duty);
     if (!match) continue;
     matched += 1;
-    const c: DutyCandidate = { ...row, ...match };
+    const c: DutyCandidate = { ...store.names(row.id), revision: row.revision, ...match };
     if (hours !== undefined && match.power_W !== undefined) {
       c.annual_energy_kWh = (match.power_W * hours) / 1000;
       if (tariff !== undefined) c.annual_cost = c.annual_energy_kWh * tariff;

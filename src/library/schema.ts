@@ -15,7 +15,8 @@ const MIGRATIONS: readonly string[] = [
   CREATE TABLE meta (key TEXT PRIMARY KEY, value TEXT NOT NULL) STRICT;
 
   CREATE TABLE entries (
-    id TEXT PRIMARY KEY,
+    key INTEGER PRIMARY KEY,
+    id TEXT NOT NULL UNIQUE,
     created_at TEXT NOT NULL,
     archived_at TEXT,
     latest_revision INTEGER NOT NULL,
@@ -41,7 +42,18 @@ const MIGRATIONS: readonly string[] = [
     search_json TEXT NOT NULL,
     updated_at TEXT NOT NULL
   ) STRICT;
-  CREATE INDEX entries_duty ON entries (flow_min_m3s, flow_max_m3s) WHERE archived_at IS NULL;
+  -- The head-curve envelope of every active entry with its latest revision, for the duty prefilter
+  -- (R*Tree: which boxes contain the duty point). Archived entries are left out.
+  CREATE VIRTUAL TABLE entries_envelope USING rtree (entry_key, flow_min, flow_max, head_min, head_max, +entry_id, +revision);
+  CREATE TRIGGER entries_envelope_i AFTER INSERT ON entries BEGIN
+    INSERT INTO entries_envelope SELECT NEW.key, NEW.flow_min_m3s, NEW.flow_max_m3s, NEW.head_min_m, NEW.head_max_m, NEW.id, NEW.latest_revision
+      WHERE NEW.archived_at IS NULL AND NEW.flow_min_m3s <= NEW.flow_max_m3s AND NEW.head_min_m <= NEW.head_max_m;
+  END;
+  CREATE TRIGGER entries_envelope_u AFTER UPDATE ON entries BEGIN
+    DELETE FROM entries_envelope WHERE entry_key = NEW.key;
+    INSERT INTO entries_envelope SELECT NEW.key, NEW.flow_min_m3s, NEW.flow_max_m3s, NEW.head_min_m, NEW.head_max_m, NEW.id, NEW.latest_revision
+      WHERE NEW.archived_at IS NULL AND NEW.flow_min_m3s <= NEW.flow_max_m3s AND NEW.head_min_m <= NEW.head_max_m;
+  END;
   CREATE INDEX entries_name ON entries (name);
 
   CREATE TABLE revisions (

@@ -204,6 +204,21 @@ export class LibraryStore {
     return { total, entries: rows.map(entryInfoOf) };
   }
 
+  /**
+   * Active entries whose head-curve envelope contains (flow, head), each side widened by
+   * `margin` (relative). The R*Tree stores 32-bit bounds rounded outwards, so nothing is lost.
+   */
+  envelopeContaining(flowM3s: number, headM: number, margin: number): Array<{ id: string; revision: number }> {
+    return this.stmts.envelope.all(flowM3s * (1 + margin), flowM3s * (1 - margin), headM * (1 + margin), headM * (1 - margin)) as Array<{ id: string; revision: number }>;
+  }
+
+  /** The names a search result shows for an entry. */
+  names(id: string): { id: string; name: string; maker: string | null; model: string | null; rated_speed_rpm: number } {
+    const row = this.stmts.names.get(id) as { id: string; name: string; maker: string | null; model: string | null; rated_speed_rpm: number } | undefined;
+    if (!row) throw new LibraryError(`No library entry has the id ${id}.`, 'not-found');
+    return row;
+  }
+
   /** Counts for status lines. */
   counts(): { entries: number; archived: number; revisions: number; sheets: number } {
     const one = (sql: string) => (this.db.prepare(sql).get() as { n: number }).n;
@@ -326,6 +341,9 @@ function prepareStatements(db: Database.Database) {
     revisions: db.prepare('SELECT revision, saved_at, sha256, length(CAST(body AS BLOB)) AS bytes FROM revisions WHERE entry_id = ? ORDER BY revision'),
     event: db.prepare('INSERT INTO entry_events (entry_id, at, event, revision) VALUES (?, ?, ?, ?)'),
     setArchived: db.prepare('UPDATE entries SET archived_at = ? WHERE id = ?'),
+    envelope: db.prepare(`SELECT entry_id AS id, revision FROM entries_envelope
+      WHERE flow_min <= ? AND flow_max >= ? AND head_min <= ? AND head_max >= ?`),
+    names: db.prepare('SELECT id, name, maker, model, speed_rpm AS rated_speed_rpm FROM entries WHERE id = ?'),
     searchJson: db.prepare('SELECT search_json FROM entries WHERE id = ? AND latest_revision = ?'),
     activeAfter: db.prepare('SELECT id, latest_revision FROM entries WHERE archived_at IS NULL AND id > ? ORDER BY id LIMIT ?'),
   };

@@ -90,7 +90,7 @@ export function* exportLines(store: LibraryStore): Generator<string> {
     }
     const rows = db
       .prepare(`SELECT e.id, e.created_at, e.archived_at, r.revision, r.saved_at, r.body
-        FROM entries e JOIN revisions r ON r.entry_id = e.id ORDER BY e.rowid, r.revision`)
+        FROM entries e JOIN revisions r ON r.entry_id = e.id ORDER BY e.key, r.revision`)
       .iterate() as Iterable<{ id: string; created_at: string; archived_at: string | null; revision: number; saved_at: string; body: string }>;
     let currentId: string | null = null;
     let head = '';

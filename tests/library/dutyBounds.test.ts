@@ -3,7 +3,7 @@ import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { LibraryStore } from '../../src/library/store.ts';
-import { screenDuty } from '../../src/library/dutyBounds.ts';
+import { extremaOn, screenDuty } from '../../src/library/dutyBounds.ts';
 import { searchByDuty } from '../../src/library/dutySearch.ts';
 import { libraryMatcher } from '../../src/library/matcher.ts';
 import { seededRandom } from '../../src/demo/random.ts';
@@ -65,5 +65,36 @@ describe('duty screening bounds', () => {
     }
     // The bounds must actually save work on some of these duties, or the test proves nothing.
     expect(cut).toBeGreaterThan(0);
+  });
+});
+
+describe('extrema of a fitted curve on an interval', () => {
+  const fit = (coefficients: number[], flow_scale = 2) => ({
+    kind: 'polynomial' as const, flow_scale, coefficients, domain: [0, 2] as [number, number], degree: coefficients.length - 1,
+    through_origin: false, rms: 0, max_residual: 0, condition: 1, reason: 'test',
+  });
+  it('finds the vertex of a parabola inside the interval, and only the ends when it lies outside', () => {
+    // y = 1 + 2t − t², t = Q/2: vertex at t = 1 (Q = 2), y = 2 (exact arithmetic, 1e-12).
+    expect(extremaOn(fit([1, 2, -1]), 0, 3).max).toBeCloseTo(2, 12);
+    expect(extremaOn(fit([1, 2, -1]), 0, 1).max).toBeCloseTo(1 + 1 - 0.25, 12);
+  });
+  it('finds both stationary points of a cubic, and agrees with dense sampling for a quintic', () => {
+    // y = t³ − 3t: local max 2 at t = −1, local min −2 at t = 1 (flow scale 1).
+    const cubic = fit([0, -3, 0, 1], 1);
+    expect(extremaOn(cubic, -1.5, 1.5)).toEqual({ min: expect.closeTo(-2, 12), max: expect.closeTo(2, 12) });
+    const quintic = fit([0.1, 1, -2, 0.5, 0.8, -0.6], 1);
+    let lo = Infinity;
+    let hi = -Infinity;
+    for (let i = 0; i <= 20000; i++) {
+      const t = -1 + (2 * i) / 20000;
+      const y = [0.1, 1, -2, 0.5, 0.8, -0.6].reduce((acc, c, k) => acc + c * t ** k, 0);
+      lo = Math.min(lo, y);
+      hi = Math.max(hi, y);
+    }
+    const e = extremaOn(quintic, -1, 1);
+    // Dense sampling with step 1e-4 is within 1e-6 of the true extremes.
+    expect(e.max).toBeGreaterThanOrEqual(hi - 1e-9);
+    expect(e.max - hi).toBeLessThan(1e-6);
+    expect(e.min).toBeLessThanOrEqual(lo + 1e-9);
   });
 });

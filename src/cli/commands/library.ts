@@ -155,7 +155,7 @@ export function register(program: Command): void {
     .option('--static <H0>', 'static head of the system, same unit as --head')
     .option('--hours <n>', 'operating hours per year (with --tariff: rank by annual energy cost)')
     .option('--tariff <price>', 'energy price per kWh')
-    .option('--limit <n>', 'most candidates to show', '20')
+    .option('--limit <n>', 'most candidates to show', '10')
     .option('--json', 'print JSON')
     .action((o: LibraryFlag & { flow: string; head: string; units: string; static?: string; hours?: string; tariff?: string; limit: string; json?: boolean }) =>
       runCommand(() =>
