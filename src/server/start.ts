@@ -139,6 +139,8 @@ export async function startServer(options: ServeOptions = {}): Promise<RunningSe
     say(`Pumpscribe is serving at ${url}`);
     say(`Library file: ${libraryFile} (${counts.entries} entries, ${counts.archived} archived, ${counts.revisions} revisions).`);
     say(staticDir ? `Workbench: ${url}   Library page: ${url}library   API: ${url}api/curvesets` : `Library page: ${url}   API: ${url}api/curvesets`);
+    // Parse every entry's search copy in the background, so that duty searches run warm.
+    void store.warmSearchCache().catch(() => undefined);
     let closed = false;
     return {
       app,
