@@ -6,7 +6,8 @@
  */
 import { ZodError } from 'zod';
 import { describeZodError } from '../../cli/errors.ts';
-import { choosePage, loadSheet } from '../store/actions/setup.ts';
+import { choosePage, loadSheet, readFromSheet } from '../store/actions/setup.ts';
+import { readHints, type TextItem } from '../geometry/hints.ts';
 import type { Draft, SheetRef } from '../store/draft.ts';
 import { pointsOf } from '../store/draft.ts';
 import { fromTakeoffFile } from '../store/takeoffFile.ts';
@@ -37,6 +38,8 @@ function baseName(path: string): string {
 export class SheetFlow {
   sheet: LoadedSheet | null = null;
   private bytes: SheetBytes | null = null;
+  /** The text layer of the chosen page (empty for scans). */
+  words: TextItem[] = [];
   /** True once the worker has read the chosen page (captures and snapping work from then on). */
   pageReady = false;
 
@@ -87,7 +90,10 @@ export class SheetFlow {
   /** Opens sheet bytes in the worker; on success replaces the sheet (and the draft, for a take-off file or a restore). */
   async openBytes(sheet: SheetBytes, options: { takeoff?: unknown; takeoffName?: string; restore?: SavedWork }): Promise<void> {
     this.progress(`Opening ${sheet.name}`);
-    const opened = await this.bench.worker.call('open', { bytes: sheet.bytes.slice(0), mime: sheet.mime, name: sheet.name }, (p) => this.progress(p.label, p.fraction));
+    const [opened] = await Promise.all([
+      this.bench.worker.call('open', { bytes: sheet.bytes.slice(0), mime: sheet.mime, name: sheet.name }, (p) => this.progress(p.label, p.fraction)),
+      this.bench.reviewWorker.call('open', { bytes: sheet.bytes.slice(0), mime: sheet.mime, name: sheet.name }),
+    ]);
     const kept = { ...sheet, sha256: opened.sha256 };
     const pageCount = opened.pages.length;
     const firstPage = (page: number) => opened.pages[page - 1] ?? opened.pages[0] ?? { width: 1, height: 1 };
@@ -121,7 +127,8 @@ export class SheetFlow {
       await this.showPage(this.store.draft.sheet?.page ?? 1);
       this.store.setSession({ step: draft ? step : 'axes', drawingFrame: !draft || this.store.draft.panels.length === 0, activePanel: null });
       if (options.takeoff !== undefined) await this.captureMissing();
-      this.store.say(draft ? `Opened ${options.takeoffName ?? sheet.name}: ${this.store.draft.traces.length} traces on ${this.store.draft.panels.length} panels.` : `Loaded ${sheet.name}. Now draw the frame of the head panel.`, 'done');
+      if (draft) this.store.say(`Opened ${options.takeoffName ?? sheet.name}: ${this.store.draft.traces.length} traces on ${this.store.draft.panels.length} panels.`, 'done');
+      else this.takeHints(sheet.name);
     } else {
       this.progress(null);
       this.store.setSession({ step: 'load' });
@@ -141,6 +148,21 @@ export class SheetFlow {
     }
     await this.showPage(page);
     this.store.setSession({ step: 'axes', drawingFrame: true, activePanel: null });
+    this.takeHints(this.sheet?.name ?? 'the sheet');
+  }
+
+  /** Prefills speed, diameters and units from the text of a vector page, and says what was read. */
+  private takeHints(name: string): void {
+    const hints = readHints(this.words);
+    const found = { ...(hints.speed_rpm ? { speed_rpm: hints.speed_rpm } : {}), ...(hints.diameters ? { diameters: hints.diameters } : {}), units: { ...hints.units, ...(hints.diameterUnit ? { diameter: hints.diameterUnit } : {}) } };
+    const read: string[] = [];
+    if (this.store.dispatch(readFromSheet(found))) {
+      const d = this.store.draft;
+      if (hints.speed_rpm) read.push(`${d.pump.speed_rpm} rpm`);
+      if (hints.diameters) read.push(`diameters ${d.diameters.join(' ')} ${d.units.diameter}`);
+      if (hints.units) read.push(`flow in ${d.units.flow}, head in ${d.units.head}, power in ${d.units.power}`);
+    }
+    this.store.say(read.length ? `Loaded ${name}. Read from the sheet: ${read.join('; ')} — check them. Now draw the frame of the head panel.` : `Loaded ${name}. Choose the units on the sheet, then draw the frame of the head panel.`, 'done');
   }
 
   private async showPage(page: number): Promise<void> {
@@ -150,9 +172,13 @@ export class SheetFlow {
     this.pageReady = false;
     try {
       await this.canvas().showPage({ page, width: size.width, height: size.height, kind: sheet.kind }, (label, fraction) => this.progress(label, fraction));
-      const read = await this.bench.worker.call('prepare', { page }, (p) => this.progress(p.label, p.fraction));
+      const [read] = await Promise.all([
+        this.bench.worker.call('prepare', { page }, (p) => this.progress(p.label, p.fraction)),
+        this.bench.reviewWorker.call('prepare', { page }),
+      ]);
       sheet.loadedKind = read.kind;
       sheet.texts = read.texts;
+      this.words = read.texts > 0 ? await this.bench.worker.call('words', {}) : [];
       this.pageReady = true;
       this.bench.refreshDerived();
     } finally {

@@ -17,6 +17,7 @@ import { setGuides } from '../store/actions/traces.ts';
 import { useProposal } from '../store/actions/panels.ts';
 import type { AnchorProposal } from '../worker/protocol.ts';
 import { bestProposal } from './proposals.ts';
+import { plotsOfFrame } from '../geometry/hints.ts';
 import type { Draft } from '../store/draft.ts';
 import { Store, type Step } from '../store/store.ts';
 import { panelAt, targetFor } from '../store/target.ts';
@@ -43,6 +44,8 @@ import { Downloads } from './downloads.ts';
 export class Workbench implements Bench, ToolHost {
   readonly store = new Store();
   readonly worker = new SheetWorkerClient();
+  /** A second worker for the review: it replays the whole take-off while the first keeps tracing. */
+  readonly reviewWorker = new SheetWorkerClient();
   readonly autosave = new Autosave();
   readonly canvas: SheetCanvas;
   readonly magnifier: Magnifier;
@@ -65,6 +68,7 @@ export class Workbench implements Bench, ToolHost {
   constructor(private readonly root: HTMLElement) {
     const stage = h('div', { class: 'stage', tabindex: '0', role: 'application', 'aria-label': 'The sheet. Zoom with the wheel, + and −; pan with the arrow keys or by dragging with the middle button or with Space held.' }) as HTMLDivElement;
     this.parts = { top: h('header'), side: h('aside', { class: 'side' }), status: h('footer'), chart: h('section', { class: 'chart-pane', 'aria-label': 'Family chart' }), stage };
+    this.derivedState = new DerivedState(this.reviewWorker, () => this.requestRender(), () => this.downloads.names());
     root.replaceChildren(
       h('div', { class: 'workbench' },
         this.parts.top,
@@ -99,13 +103,14 @@ export class Workbench implements Bench, ToolHost {
       },
     });
     this.canvas.onView(() => this.requestRender());
-    this.derivedState = new DerivedState(this.worker, () => this.requestRender(), () => this.downloads.names());
     this.flow = new SheetFlow(this);
     this.downloads = new Downloads(this);
     this.store.subscribe((_, reason) => {
       if (reason !== 'session') {
+        const before = this.calibratedPanels();
         this.derivedState.update(this.store.draft, this.flow.pageReady);
         this.flow.autosaveNow();
+        if (reason === 'edit') this.afterCalibration(before);
       }
       this.requestRender();
     });
@@ -211,6 +216,24 @@ export class Workbench implements Bench, ToolHost {
     return p.anchors.map((a) => (a.x !== undefined ? { at: a.at, axis: 'x' as const, value: a.x } : { at: a.at, axis: 'y' as const, value: a.y ?? 0 }));
   }
 
+  private calibratedPanels(): Set<string> {
+    return new Set([...this.derived.calibrations].filter(([, c]) => c.ok).map(([id]) => id));
+  }
+
+  /** When an edit completes the active panel's axes, the next drag draws the next panel. */
+  private afterCalibration(before: Set<string>): void {
+    const { session, draft } = this.store;
+    const id = session.activePanel;
+    if (session.step !== 'axes' || !id || before.has(id) || !this.calibratedPanels().has(id)) return;
+    const panel = draft.panels.find((p) => p.id === id);
+    const cal = this.derived.calibrations.get(id);
+    if (!panel || !cal?.ok) return;
+    const order: Quantity[] = ['head', 'efficiency', 'power', 'npshr'];
+    const next = order.find((q) => !draft.panels.some((p) => p.plots === q)) ?? 'head';
+    this.store.setSession({ drawingFrame: true, activePanel: null, framePlots: next });
+    this.store.say(`${QUANTITY_NAMES[panel.plots]} panel set: residual ${num(cal.calibration.maxPercentOfSpan, 2)} % of span. Draw the frame of the next panel, or go on to “Trace the curves”.`, 'done');
+  }
+
   // ── commands the views call ────────────────────────────────────────────────
 
   openFiles(files: readonly File[]): void {
@@ -225,7 +248,11 @@ export class Workbench implements Bench, ToolHost {
     const { draft, session } = this.store;
     const patch: Partial<typeof session> = { step, highlightedTrace: step === 'review' ? session.highlightedTrace : null };
     if (step === 'axes' && !session.activePanel && draft.panels.length === 0) patch.drawingFrame = true;
-    if (step === 'trace' && !draft.panels.some((p) => p.plots === session.target.quantity)) patch.target = targetFor(draft, draft.panels[0]?.plots ?? 'head');
+    if (step === 'trace') {
+      const t = session.target;
+      if (!draft.panels.some((p) => p.plots === t.quantity) && !(t.lines === 'iso' && draft.panels.some((p) => p.plots === 'head'))) patch.target = targetFor(draft, draft.panels[0]?.plots ?? 'head');
+      else if (t.lines === 'diameter' && (t.diameter === undefined || !draft.diameters.includes(t.diameter))) patch.target = targetFor(draft, t.quantity);
+    }
     this.store.setSession(patch);
     this.magnifier.hide();
     this.preview = null;
@@ -304,6 +331,10 @@ export class Workbench implements Bench, ToolHost {
     return Math.hypot(c.snap.at[0] - at[0], c.snap.at[1] - at[1]) <= c.radius ? c.snap : null;
   }
 
+  async snapOnce(at: SheetXY): Promise<Snap | null> {
+    return this.worker.call('snap', { at: [at[0], at[1]], radius: snapRadius(this.view()) }).catch(() => null);
+  }
+
   /** Asks the worker where `at` snaps; one request at a time, the latest position wins. */
   async snap(at: SheetXY): Promise<Snap | null> {
     this.snapWanted = at;
@@ -356,6 +387,10 @@ export class Workbench implements Bench, ToolHost {
     }, () => {
       if (missing >= 0) this.focusAnchorValue(panelId, missing);
     });
+  }
+
+  guessPlots(frame: readonly [number, number, number, number]): Quantity | null {
+    return plotsOfFrame(this.flow.words, frame);
   }
 
   proposalFor(panelId: string): AnchorProposal | null {

@@ -61,7 +61,8 @@ export function targetFor(draft: Draft, quantity: Quantity): TraceTarget {
  * same quantity, whose value the engineer types.
  */
 export function nextTarget(draft: Draft, done: TraceTarget): TraceTarget {
-  if (done.lines === 'iso') return { quantity: done.quantity, lines: 'iso' };
+  // Iso-lines come in pairs (either side of the BEP): the same value is proposed again.
+  if (done.lines === 'iso') return { ...done };
   const same = firstUntraced(draft, done.quantity);
   if (same !== undefined) return { quantity: done.quantity, lines: 'diameter', diameter: same };
   const start = QUANTITY_ORDER.indexOf(done.quantity);

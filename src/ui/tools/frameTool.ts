@@ -5,7 +5,7 @@
  */
 import type { SheetXY } from '../../model/takeoff.ts';
 import type { CanvasPointer } from '../canvas/sheetCanvas.ts';
-import { addPanel, frameAnchors } from '../store/actions/panels.ts';
+import { addPanel, frameAnchors, nameCorners } from '../store/actions/panels.ts';
 import { anchorAxis, type Frame, type PanelDraft } from '../store/draft.ts';
 import { screenDistance, type Tool, type ToolHost } from './tool.ts';
 
@@ -43,7 +43,11 @@ export class FrameTool implements Tool {
     return `Click the opposite corner of the ${plots} plot area, or press Escape to start again.`;
   }
 
+  /** True when the last pointer event held Alt: corners are placed as they are. */
+  private free = false;
+
   private landing(p: CanvasPointer): { at: SheetXY; snapped: boolean } {
+    this.free = p.alt;
     const s = p.alt ? null : this.host.snapNow(p.sheet);
     return s ? { at: s.at, snapped: true } : { at: p.sheet, snapped: false };
   }
@@ -51,7 +55,7 @@ export class FrameTool implements Tool {
   down(p: CanvasPointer): void {
     const { at } = this.landing(p);
     if (this.state.kind === 'second') {
-      this.commit(this.state.start, at);
+      void this.commit(this.state.start, at);
       return;
     }
     this.state = { kind: 'dragging', start: at, moved: false };
@@ -76,7 +80,7 @@ export class FrameTool implements Tool {
       this.state = { kind: 'second', start: this.state.start };
       return;
     }
-    this.commit(this.state.start, at);
+    void this.commit(this.state.start, at);
   }
 
   leave(): void {
@@ -92,20 +96,31 @@ export class FrameTool implements Tool {
     return false;
   }
 
-  private commit(a: SheetXY, b: SheetXY): void {
+  private async commit(a: SheetXY, b: SheetXY): Promise<void> {
     this.state = { kind: 'idle' };
     this.host.setPreview(null);
     const store = this.host.store;
-    const plots = store.session.framePlots;
-    const frame: Frame = [Math.min(a[0], b[0]), Math.min(a[1], b[1]), Math.max(a[0], b[0]), Math.max(a[1], b[1])];
+    // The two corners not dragged to are found on the sheet too: a scan turned by a fraction
+    // of a degree puts them a few pixels off the rectangle through the dragged ones.
+    const guesses: SheetXY[] = [a, b, [b[0], a[1]], [a[0], b[1]]];
+    const found = this.free ? guesses.map(() => null) : await Promise.all(guesses.map((g) => this.host.snapOnce(g)));
+    const corners = nameCorners(guesses.map((g, i) => (found[i]?.what === 'crossing' ? found[i].at : g)));
+    const all = [corners.bottomLeft, corners.bottomRight, corners.topLeft, corners.topRight];
+    const xs = all.map((p) => p[0]);
+    const ys = all.map((p) => p[1]);
+    const frame: Frame = [Math.min(...xs), Math.min(...ys), Math.max(...xs), Math.max(...ys)];
+    const titled = this.host.guessPlots(frame);
+    const chosen = store.session.framePlots;
+    const plots = titled ?? chosen;
     const shared = sharedFlowAnchors(store.draft.panels, frame);
-    const anchors = frameAnchors(frame);
+    const anchors = frameAnchors(frame, corners);
     const withShared = shared ? [...shared, ...anchors.filter((x) => anchorAxis(x) === 'y')] : anchors;
     const before = store.draft.panels.length;
-    if (!store.dispatch(addPanel({ corner1: a, corner2: b, plots, anchors: withShared }))) return;
+    if (!store.dispatch(addPanel({ corner1: [frame[0], frame[1]], corner2: [frame[2], frame[3]], plots, anchors: withShared }))) return;
     const panel = store.draft.panels[before];
     if (!panel) return;
-    store.setSession({ activePanel: panel.id, drawingFrame: false });
+    store.setSession({ activePanel: panel.id, drawingFrame: false, framePlots: plots });
+    if (titled && titled !== chosen) store.say(`The title beside this frame says it plots ${PLOTS[titled]}; change it in the panel list if not.`, 'info');
     this.host.afterFrame(panel.id);
   }
 }

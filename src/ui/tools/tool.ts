@@ -4,6 +4,7 @@
  * what to preview on the overlay. Geometry lives in pure helpers; the host does the I/O.
  */
 import type { SheetXY } from '../../model/takeoff.ts';
+import type { Quantity } from '../../model/curveset.ts';
 import type { CanvasPointer } from '../canvas/sheetCanvas.ts';
 import type { Preview } from '../canvas/overlay.ts';
 import type { Snap } from '../geometry/snap.ts';
@@ -15,6 +16,8 @@ export interface ToolHost {
   view(): View;
   /** Where a click at `at` should land; null when nothing to snap to is near. */
   snap(at: SheetXY): Promise<Snap | null>;
+  /** Asks where `at` snaps, on its own (not throttled with the hover). */
+  snapOnce(at: SheetXY): Promise<Snap | null>;
   /** The last snap answer for a point near `at`, without waiting. */
   snapNow(at: SheetXY): Snap | null;
   setPreview(preview: Preview | null): void;
@@ -24,6 +27,8 @@ export interface ToolHost {
   capture(guides: readonly SheetXY[], method: 'auto' | 'vector' | 'raster'): Promise<{ points: SheetXY[]; gaps: string[] }>;
   /** Shows the magnifier at the pointer, marking where the click will land. */
   magnify(p: CanvasPointer, mark: SheetXY | null, snapped: boolean): void;
+  /** What a frame plots, read from a title beside it on the sheet; null when nothing says. */
+  guessPlots(frame: readonly [number, number, number, number]): Quantity | null;
   /** Called after a new panel frame is drawn, to propose anchors from the text layer. */
   afterFrame(panelId: string): void;
   /** Puts the keyboard focus on the value field of an anchor. */

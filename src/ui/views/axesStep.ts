@@ -5,7 +5,7 @@
 import { h } from '../dom/h.ts';
 import type { Bench, CalibrationState } from '../app/bench.ts';
 import type { Quantity } from '../../model/curveset.ts';
-import { removeAnchor, removePanel, setAnchorValue, setAxisScale, setAxisUnit } from '../store/actions/panels.ts';
+import { removeAnchor, removePanel, setAnchorValue, setAxisScale, setAxisUnit, setPanelPlots } from '../store/actions/panels.ts';
 import { anchorAxis, type PanelDraft } from '../store/draft.ts';
 import { QUANTITY_NAMES, UNIT_CHOICES, num, unitText } from './words.ts';
 
@@ -67,6 +67,10 @@ function panelCard(bench: Bench, panel: PanelDraft, cal: CalibrationState | unde
     residualLine(cal),
     proposalBox(bench, panel),
     active ? [
+      h('div', { class: 'axis-row' },
+        h('label', { for: `${panel.id}-plots`, class: 'label' }, 'This panel plots'),
+        h('select', { id: `${panel.id}-plots`, onchange: (e: Event) => store.dispatch(setPanelPlots(panel.id, (e.target as HTMLSelectElement).value as Quantity)) },
+          QUANTITIES.map((q) => h('option', { value: q, selected: q === panel.plots }, QUANTITY_NAMES[q])))),
       axisControls(bench, panel, 'x'),
       axisControls(bench, panel, 'y'),
       h('table', { class: 'anchors' },

@@ -15,6 +15,8 @@ type StrokeLines = ReturnType<typeof strokeLines>;
 
 export interface PageSession {
   readonly sheet: Sheet;
+  /** The same sheet, with its rendering for line following kept between replays. */
+  readonly replaySheet: Sheet;
   lines(): Promise<StrokeLines>;
   straights(): Promise<Straight[]>;
   raster(): Promise<RasterImage>;
@@ -49,11 +51,25 @@ export async function openPageSession(bytes: Uint8Array, kind: 'pdf' | 'image', 
   let lines: Promise<StrokeLines> | null = null;
   let straights: Promise<Straight[]> | null = null;
   let raster: Promise<RasterImage> | null = null;
+  const traceScale = sheet.kind === 'image' ? 1 : safeScale(sheet, PDF_TRACE_SCALE);
+  const cachedRaster = () => (raster ??= sheet.render(traceScale));
+  const replaySheet: Sheet = {
+    kind: sheet.kind,
+    width: sheet.width,
+    height: sheet.height,
+    sha256: sheet.sha256,
+    page: sheet.page,
+    render: (scale) => (scale === traceScale ? cachedRaster() : sheet.render(scale)),
+    paths: () => sheet.paths(),
+    text: () => sheet.text(),
+    close: async () => undefined,
+  };
   return {
     sheet,
+    replaySheet,
     lines: () => (lines ??= sheet.paths().then((p) => strokeLines(p))),
     straights: () => (straights ??= sheet.paths().then((p) => straightPieces(p))),
-    raster: () => (raster ??= sheet.render(sheet.kind === 'image' ? 1 : safeScale(sheet, PDF_TRACE_SCALE))),
+    raster: cachedRaster,
     close: () => sheet.close(),
   };
 }

@@ -6,6 +6,7 @@ import type { SheetKind as LoadedKind } from '../../digitize/sheet.ts';
 import type { CurveSet } from '../../model/curveset.ts';
 import type { Takeoff } from '../../model/takeoff.ts';
 import type { Snap } from '../geometry/snap.ts';
+import type { TextItem } from '../geometry/hints.ts';
 import type { PageSize } from './pdfPages.ts';
 import type { SheetKind } from './sheetSource.ts';
 
@@ -43,6 +44,8 @@ export interface Requests {
   prepare: { args: { page: number }; result: { kind: LoadedKind; width: number; height: number; texts: number; strokes: number } };
   capture: { args: CaptureRequest; result: CaptureAnswer };
   snap: { args: { at: XY; radius: number }; result: Snap | null };
+  /** The text layer of the chosen page (empty for scans). */
+  words: { args: Record<string, never>; result: TextItem[] };
   /** Panel calibrations proposed from the text layer of a vector page (none for scans). */
   propose: { args: Record<string, never>; result: AnchorProposal[] };
   /** Fits and checks the take-off into a curve set with the saved captures (the headless replay's own code). */

@@ -81,6 +81,10 @@ const handlers: { [K in keyof Requests]: Handler<K> } = {
     if (s.sheet.kind === 'vector-pdf') return { result: snapToStraights(await s.straights(), args.at, args.radius) };
     return { result: snapToRaster(await s.raster(), args.at, args.radius) };
   },
+  async words() {
+    const text = await requireSession().sheet.text();
+    return { result: text.map((t) => ({ text: t.text, at: [t.at[0], t.at[1]] as const, size: t.size, width: t.width, angle: t.angle })) };
+  },
   async propose() {
     const s = requireSession();
     if (s.sheet.kind !== 'vector-pdf') return { result: [] };
@@ -97,7 +101,9 @@ const handlers: { [K in keyof Requests]: Handler<K> } = {
   },
   async replay(args, progress) {
     progress({ fraction: null, label: 'Fitting and checking the curves' });
-    const result = await replayTakeoff(args.takeoff, requireSession().sheet, { useCaptured: true, sheetFile: args.sheetFile, takeoffName: args.takeoffName });
+    // Every trace is captured again from its guides, exactly as the headless replay does, so
+    // that the curve set on screen is the one `pumpscribe takeoff` gives for the saved file.
+    const result = await replayTakeoff(args.takeoff, requireSession().replaySheet, { sheetFile: args.sheetFile, takeoffName: args.takeoffName });
     return { result: { curveSet: result.curveSet, traces: result.traces.map((t) => ({ id: t.id, how: t.how, notes: t.notes })) } };
   },
 };

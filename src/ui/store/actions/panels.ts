@@ -19,15 +19,34 @@ function normalFrame(a: SheetXY, b: SheetXY): Frame {
  * come from `values` (prefilled from a panel sharing the flow axis, or proposed from the
  * text layer) or are left for the user to type.
  */
-export function frameAnchors(frame: Frame, values: { x0?: number; x1?: number; y0?: number; y1?: number } = {}): AnchorDraft[] {
+export function frameAnchors(frame: Frame, corners: Partial<FrameCorners> = {}, values: { x0?: number; x1?: number; y0?: number; y1?: number } = {}): AnchorDraft[] {
   const [l, t, r, b] = frame;
-  const at = (x: number, y: number): SheetXY => [x, y];
+  const bl = corners.bottomLeft ?? [l, b];
+  const br = corners.bottomRight ?? [r, b];
+  const tl = corners.topLeft ?? [l, t];
   return [
-    { at: at(l, b), label: 'x left', ...(values.x0 !== undefined ? { x: values.x0 } : {}) },
-    { at: at(r, b), label: 'x right', ...(values.x1 !== undefined ? { x: values.x1 } : {}) },
-    { at: at(l, b), label: 'y bottom', ...(values.y0 !== undefined ? { y: values.y0 } : {}) },
-    { at: at(l, t), label: 'y top', ...(values.y1 !== undefined ? { y: values.y1 } : {}) },
+    { at: bl, label: 'x left', ...(values.x0 !== undefined ? { x: values.x0 } : {}) },
+    { at: br, label: 'x right', ...(values.x1 !== undefined ? { x: values.x1 } : {}) },
+    { at: bl, label: 'y bottom', ...(values.y0 !== undefined ? { y: values.y0 } : {}) },
+    { at: tl, label: 'y top', ...(values.y1 !== undefined ? { y: values.y1 } : {}) },
   ];
+}
+
+/** The corners of a plot area as found on the sheet (a scan may be turned a little). */
+export interface FrameCorners {
+  bottomLeft: SheetXY;
+  bottomRight: SheetXY;
+  topLeft: SheetXY;
+  topRight: SheetXY;
+}
+
+/** Names four corner points by where they lie: the two lowest are the bottom, the left of each pair is left. */
+export function nameCorners(points: readonly SheetXY[]): FrameCorners {
+  const byY = [...points].sort((a, b) => a[1] - b[1]);
+  const [t1, t2, b1, b2] = byY as [SheetXY, SheetXY, SheetXY, SheetXY];
+  const [topLeft, topRight] = t1[0] <= t2[0] ? [t1, t2] : [t2, t1];
+  const [bottomLeft, bottomRight] = b1[0] <= b2[0] ? [b1, b2] : [b2, b1];
+  return { bottomLeft, bottomRight, topLeft, topRight };
 }
 
 export interface NewPanel {

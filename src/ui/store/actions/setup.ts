@@ -61,3 +61,30 @@ export const setDiameters = (diameters: readonly number[]): Action => (draft) =>
   if (next.join() === draft.diameters.join()) return null;
   return edited({ ...draft, diameters: next }, 'set diameters');
 };
+
+/** Details read from the sheet's text (speed, diameters, units), taken in one undoable step. */
+export const readFromSheet = (found: { speed_rpm?: number; diameters?: readonly number[]; units?: Partial<UnitsDraft> }): Action => (draft) => {
+  let next = draft;
+  if (found.speed_rpm !== undefined) next = { ...next, pump: { ...next.pump, speed_rpm: requirePositive(found.speed_rpm, 'The speed') } };
+  if (found.units) {
+    const canonical: Partial<Record<keyof UnitsDraft, string>> = {};
+    for (const [key, token] of Object.entries(found.units) as [keyof UnitsDraft, string | undefined][]) {
+      if (token === undefined) continue;
+      try {
+        canonical[key] = parseUnit(UNIT_KIND[key], token).token;
+      } catch {
+        // A unit the sheet names but the tables do not know is left for the engineer to choose.
+      }
+    }
+    next = { ...next, units: { ...next.units, ...canonical } };
+  }
+  if (found.diameters?.length && next.diameters.length === 0) next = { ...next, diameters: [...new Set(found.diameters)].sort((a, b) => b - a) };
+  if (next === draft || JSON.stringify(next) === JSON.stringify(draft)) return null;
+  return edited(next, 'read details from the sheet');
+};
+
+/** The unit presets of the trade, as the sheet may be drawn in them. */
+export const SHEET_UNIT_SYSTEMS: Record<'si' | 'us', UnitsDraft> = {
+  si: { flow: 'm3/h', head: 'm', power: 'kW', npsh: 'm', diameter: 'mm' },
+  us: { flow: 'gpm', head: 'ft', power: 'hp', npsh: 'ft', diameter: 'in' },
+};

@@ -1,0 +1,209 @@
+/**
+ * One complete take-off in the browser, done the way an engineer does it, from a sample sheet
+ * and the positions its generator recorded (where the plot corners are, where each curve runs).
+ * The driver clicks and types only what the screen asks for and counts every action.
+ */
+import { copyFileSync, existsSync, readFileSync } from 'node:fs';
+import { basename, dirname, join } from 'node:path';
+import type { Page } from 'playwright-core';
+import { settle, User } from './harness.ts';
+
+interface SampleAnchor { at: [number, number]; x?: number; y?: number }
+interface SamplePanel { id: string; anchors: SampleAnchor[] }
+interface SampleTrace { id?: string; panel: string; quantity: 'head' | 'efficiency' | 'power' | 'npshr'; diameter?: number; iso?: number; guides?: [number, number][] }
+export interface Sample {
+  sheetPath: string;
+  takeoff: { pump: { speed_rpm: number }; units: Record<string, string>; panels: SamplePanel[]; traces: SampleTrace[] };
+}
+
+export function loadSample(takeoffPath: string): Sample {
+  const takeoff = JSON.parse(readFileSync(takeoffPath, 'utf8')) as Sample['takeoff'] & { sheet: string };
+  return { sheetPath: join(dirname(takeoffPath), takeoff.sheet), takeoff };
+}
+
+const PANEL_PLOTS: Record<string, string> = { head: 'head', efficiency: 'efficiency', power: 'power', npsh: 'npshr', npshr: 'npshr' };
+const PLOTS_BUTTON: Record<string, string> = { head: 'Head', efficiency: 'Efficiency', power: 'Power', npshr: 'NPSHr' };
+
+async function state<T>(page: Page, read: string): Promise<T> {
+  return page.evaluate((code) => {
+    const wb = (window as unknown as { pumpscribe: () => unknown }).pumpscribe();
+    return new Function('wb', `return (${code});`)(wb);
+  }, read) as Promise<T>;
+}
+
+async function waitMessage(page: Page, pattern: RegExp, timeout = 60_000): Promise<string> {
+  await page.waitForFunction((src) => new RegExp(src).test(document.querySelector('#message')?.textContent ?? ''), pattern.source, { timeout, polling: 100 });
+  return (await page.textContent('#message')) ?? '';
+}
+
+/** The plot corners of a sample panel: the anchors at the smallest and largest values. */
+function corners(panel: SamplePanel): { topLeft: [number, number]; bottomRight: [number, number]; values: { x0: number; x1: number; y0: number; y1: number } } {
+  const xs = panel.anchors.map((a) => a.x ?? 0);
+  const ys = panel.anchors.map((a) => a.y ?? 0);
+  const x0 = Math.min(...xs);
+  const x1 = Math.max(...xs);
+  const y0 = Math.min(...ys);
+  const y1 = Math.max(...ys);
+  const find = (x: number, y: number) => panel.anchors.find((a) => a.x === x && a.y === y)?.at;
+  const tl = find(x0, y1);
+  const br = find(x1, y0);
+  if (!tl || !br) throw new Error(`Sample panel ${panel.id} has no anchors at its corners.`);
+  return { topLeft: tl, bottomRight: br, values: { x0, x1, y0, y1 } };
+}
+
+export interface FlowResult {
+  actions: number;
+  log: string[];
+  screenshots: string[];
+  downloads: { takeoff: string; curveset: string; csv: string };
+  findings: string[];
+  longTasks: { start: number; duration: number }[];
+  traceWindow: [number, number];
+}
+
+/** Runs the five steps on a sample; returns what was counted and where the files went. */
+export async function runTakeoff(page: Page, url: string, sample: Sample, artifacts: string, options: { reloadMidway?: (user: User) => Promise<void> } = {}): Promise<FlowResult> {
+  const user = new User(page, artifacts);
+  const shots: string[] = [];
+  await page.goto(url);
+  await page.waitForSelector('#sheet-file', { state: 'attached' });
+  shots.push(await user.screenshot('start'));
+
+  // 1. Load the sheet.
+  await user.chooseFiles(page.locator('#sheet-file'), [sample.sheetPath], basename(sample.sheetPath));
+  await waitMessage(page, /^Loaded /);
+  await settle(page);
+  const units = sample.takeoff.units;
+  const drawnIn = await state<Record<string, string>>(page, 'wb.store.draft.units');
+  if (units.flow === 'gpm' && drawnIn.flow !== 'gpm') {
+    await user.click(page.getByRole('button', { name: /^US:/ }), 'units on the sheet: US');
+  }
+  if ((await state<number>(page, 'wb.store.draft.pump.speed_rpm')) !== sample.takeoff.pump.speed_rpm) {
+    if (!(await page.locator('#pump-speed').isVisible())) await user.click(page.locator('#step-load'), 'step 1');
+    await user.type(page.locator('#pump-speed'), String(sample.takeoff.pump.speed_rpm), 'speed');
+  }
+  shots.push(await user.screenshot('1-sheet-loaded'));
+
+  // 2. Set the axes, panel by panel.
+  if (!(await page.locator('#step-axes-body').isVisible())) await user.click(page.locator('#step-axes'), 'step 2');
+  for (const [i, panel] of sample.takeoff.panels.entries()) {
+    const plots = PANEL_PLOTS[panel.id] ?? 'head';
+    const framePlots = await state<string>(page, 'wb.store.session.framePlots');
+    const drawing = await state<boolean>(page, 'wb.store.session.drawingFrame');
+    const vector = await state<boolean>(page, "wb.sheet && wb.sheet.loadedKind === 'vector-pdf'");
+    // On a vector sheet the title beside the frame names the panel; on a scan, choose it.
+    if (!drawing || (!vector && framePlots !== plots)) {
+      await user.click(page.getByRole('group', { name: 'What the new panel plots' }).getByRole('button', { name: PLOTS_BUTTON[plots] as string, exact: true }), `new ${plots} panel`);
+    }
+    const c = corners(panel);
+    const before = await state<number>(page, 'wb.store.draft.panels.length');
+    await user.dragSheet(c.topLeft, c.bottomRight, `frame of the ${plots} panel`);
+    await page.waitForFunction((n) => (window as unknown as { pumpscribe: () => { store: { draft: { panels: unknown[] } } } }).pumpscribe().store.draft.panels.length > n, before, { timeout: 20_000 });
+    const id = await state<string>(page, 'wb.store.draft.panels[wb.store.draft.panels.length - 1].id');
+    const made = await state<string>(page, 'wb.store.draft.panels[wb.store.draft.panels.length - 1].plots');
+    if (made !== plots) await user.click(page.locator(`#${id}-plots`), 'panel plots select').then(() => page.selectOption(`#${id}-plots`, plots));
+    const proposal = page.locator(`#use-proposal-${id}`);
+    await page.waitForTimeout(vector ? 1200 : 200);
+    if (await proposal.isVisible()) {
+      await user.click(proposal, `use the proposed anchors of the ${plots} panel`);
+    } else {
+      // Type the values of the corner anchors that are still blank.
+      const anchors = await state<{ label?: string; x?: number; y?: number }[]>(page, `wb.store.draft.panels.find(p => p.id === ${JSON.stringify(id)}).anchors`);
+      const want: Record<string, number> = { 'x left': c.values.x0, 'x right': c.values.x1, 'y bottom': c.values.y0, 'y top': c.values.y1 };
+      for (const [k, a] of anchors.entries()) {
+        if (a.x !== undefined || a.y !== undefined) continue;
+        const value = want[a.label ?? ''];
+        if (value === undefined) continue;
+        await user.type(page.locator(`#anchor-${id}-${k}`), String(value), `${plots} panel ${a.label}`);
+      }
+    }
+    await settle(page);
+    const ok = await state<boolean>(page, `!!wb.derived.calibrations.get(${JSON.stringify(id)})?.ok`);
+    if (!ok) throw new Error(`The ${plots} panel did not calibrate: ${await state<string>(page, `wb.derived.calibrations.get(${JSON.stringify(id)})?.reason`)}`);
+    if (i === 0) shots.push(await user.screenshot('2-axes-first-panel'));
+  }
+  shots.push(await user.screenshot('2-axes-set'));
+
+  // 3. Trace the curves.
+  await user.click(page.locator('#step-trace'), 'step 3');
+  const diameters = sample.takeoff.traces.flatMap((t) => (t.diameter !== undefined ? [t.diameter] : []));
+  const wanted = [...new Set(diameters)].sort((a, b) => b - a);
+  if ((await page.inputValue('#diameters')).trim().split(/\s+/).map(Number).join() !== wanted.join()) {
+    await user.type(page.locator('#diameters'), wanted.join(' '), 'diameters');
+  }
+  const t0 = await page.evaluate(() => performance.now());
+  const order: SampleTrace['quantity'][] = ['head', 'efficiency', 'power', 'npshr'];
+  const traces = [...sample.takeoff.traces].sort((a, b) => order.indexOf(a.quantity) - order.indexOf(b.quantity) || (a.iso ?? 0) - (b.iso ?? 0) || (b.diameter ?? 0) - (a.diameter ?? 0));
+  let reloaded = false;
+  for (const [n, t] of traces.entries()) {
+    const target = await state<{ quantity: string; lines: string; diameter?: number; iso?: number }>(page, 'wb.store.session.target');
+    const panelPlots = PANEL_PLOTS[t.panel] ?? t.panel;
+    if (t.iso !== undefined) {
+      if (target.lines !== 'iso' || target.quantity !== t.quantity) await user.click(page.getByRole('group', { name: 'Quantity to trace next' }).getByRole('button', { name: PLOTS_BUTTON[t.quantity] as string, exact: true }), `trace ${t.quantity} next`);
+      if ((await state<{ iso?: number }>(page, 'wb.store.session.target')).iso !== t.iso) await user.type(page.locator('#iso-value'), String(t.iso), 'value of the iso-line');
+    } else {
+      const sameQuantity = target.quantity === t.quantity || panelPlots === t.quantity;
+      if (!sameQuantity) await user.click(page.getByRole('group', { name: 'Quantity to trace next' }).getByRole('button', { name: PLOTS_BUTTON[t.quantity] as string, exact: true }), `trace ${t.quantity} next`);
+      const now = await state<{ quantity: string; diameter?: number }>(page, 'wb.store.session.target');
+      // A click in another panel switches to its quantity by itself; only a wrong diameter needs a click.
+      const willBe = now.quantity === t.quantity ? now.diameter : await state<number | undefined>(page, `wb.store.draft.diameters.find(d => !wb.store.draft.traces.some(x => x.quantity === ${JSON.stringify(t.quantity)} && x.iso === undefined && x.diameter === d))`);
+      if (willBe !== t.diameter) await user.click(page.getByRole('group', { name: 'Diameter to trace next' }).getByRole('button', { name: new RegExp(`^${t.diameter} `) }), `diameter ${t.diameter}`);
+    }
+    // Like an engineer, click the line where it runs clear of the lines already traced.
+    const guide = await clearestGuide(page, t.guides ?? []);
+    if (!guide) continue;
+    const count = await state<number>(page, 'wb.store.draft.traces.length');
+    await user.clickSheet(guide, `${t.quantity} ${t.diameter ?? `${t.iso} line`}`);
+    await page.waitForFunction((k) => (window as unknown as { pumpscribe: () => { store: { draft: { traces: unknown[] }; session: { busy: boolean } } } }).pumpscribe().store.draft.traces.length > k || (document.querySelector('#message.error') !== null), count, { timeout: 60_000 });
+    const error = await page.$eval('#message', (el) => (el.classList.contains('error') ? el.textContent : null));
+    if (error) throw new Error(`Tracing ${t.id ?? t.quantity} failed: ${error}`);
+    await settle(page);
+    if (n === 0) shots.push(await user.screenshot('3-first-trace'));
+    if (!reloaded && options.reloadMidway && n === Math.floor(traces.length / 2)) {
+      reloaded = true;
+      await options.reloadMidway(user);
+    }
+  }
+  const t1 = await page.evaluate(() => performance.now());
+  shots.push(await user.screenshot('3-traced'));
+
+  // 4. Review.
+  await user.click(page.locator('#step-review'), 'step 4');
+  await settle(page);
+  await page.waitForSelector('.family-chart', { timeout: 60_000 });
+  shots.push(await user.screenshot('4-review'));
+  const findings = await page.locator('.findings .finding-text').allTextContents();
+  const linked = page.locator('.findings button.finding-text').first();
+  if (await linked.count()) {
+    await user.click(linked, 'a finding, to see its trace');
+    shots.push(await user.screenshot('4-finding-picked'));
+  }
+
+  // 5. Save.
+  await user.click(page.locator('#step-save'), 'step 5');
+  const files: Record<string, string> = {};
+  for (const [key, id] of [['takeoff', '#download-takeoff'], ['curveset', '#download-curveset'], ['csv', '#download-csv']] as const) {
+    const [download] = await Promise.all([page.waitForEvent('download'), user.click(page.locator(id), `download ${key}`)]);
+    const file = join(artifacts, download.suggestedFilename());
+    await download.saveAs(file);
+    files[key] = file;
+  }
+  shots.push(await user.screenshot('5-saved'));
+  // The take-off file refers to its sheet by name: keep a copy beside it, as the engineer would.
+  const sheetCopy = join(artifacts, basename(sample.sheetPath));
+  if (!existsSync(sheetCopy)) copyFileSync(sample.sheetPath, sheetCopy);
+  const longTasks = await page.evaluate(() => (window as unknown as { __longTasks: { start: number; duration: number }[] }).__longTasks);
+  return { actions: user.actions, log: user.log, screenshots: shots, downloads: files as FlowResult['downloads'], findings, longTasks, traceWindow: [t0, t1] };
+}
+
+/** The guide farthest from every point already captured (a click away from crossings). */
+async function clearestGuide(page: Page, guides: [number, number][]): Promise<[number, number] | null> {
+  if (guides.length === 0) return null;
+  const taken = await state<[number, number][]>(page, 'wb.store.draft.traces.flatMap(t => t.points ?? t.captured ?? [])');
+  let best: { g: [number, number]; d: number } | null = null;
+  for (const g of guides) {
+    const d = taken.reduce((m, p) => Math.min(m, Math.hypot(p[0] - g[0], p[1] - g[1])), Infinity);
+    if (!best || d > best.d) best = { g, d };
+  }
+  return best?.g ?? null;
+}
