@@ -113,6 +113,10 @@ describe('hostile and malformed requests', () => {
     const res = await fetch(`${server.url}/api/sheets/${up.body.sha256}`);
     expect(res.headers.get('content-type')).toBe('application/octet-stream');
     expect(res.headers.get('content-security-policy')).toMatch(/sandbox/);
+    const svg = await json(`${server.url}/api/sheets?name=plot.svg`, { method: 'POST', headers: { 'content-type': 'image/svg+xml' }, body: '<svg xmlns="http://www.w3.org/2000/svg"><script>alert(1)</script></svg>' });
+    expect(svg.status).toBe(201);
+    expect(svg.body.media_type).toBe('application/octet-stream');
+    expect((await fetch(`${server.url}/api/sheets/${svg.body.sha256}`)).headers.get('content-type')).toBe('application/octet-stream');
   });
 
   it('refuses a damaged or oversized import as a whole and changes nothing', async () => {

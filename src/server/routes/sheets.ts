@@ -9,11 +9,14 @@ import type { LibraryStore } from '../../library/store.ts';
 import { LibraryError } from '../../library/errors.ts';
 import { text, type Query } from '../query.ts';
 
-export const SHEET_MEDIA_TYPES = ['application/octet-stream', 'application/pdf', 'image/png', 'image/jpeg', 'image/gif', 'image/webp', 'image/tiff'];
+export const SHEET_MEDIA_TYPES = ['application/octet-stream', 'application/pdf'];
+/** Any image type is accepted as bytes; what it is served back as is decided from the bytes. */
+export const SHEET_IMAGE_TYPES = /^image\/[\w.+-]+$/;
 
 export function sheetRoutes(app: FastifyInstance, store: LibraryStore, sheetLimit: number): void {
   app.register(async (scope) => {
     scope.addContentTypeParser(SHEET_MEDIA_TYPES, { parseAs: 'buffer', bodyLimit: sheetLimit }, (_req, body, done) => done(null, body));
+    scope.addContentTypeParser(SHEET_IMAGE_TYPES, { parseAs: 'buffer', bodyLimit: sheetLimit }, (_req, body, done) => done(null, body));
     scope.post('/api/sheets', { bodyLimit: sheetLimit }, async (request, reply) => {
       if (!Buffer.isBuffer(request.body)) throw new LibraryError('Send the sheet as the raw bytes of the file (Content-Type application/pdf, image/… or application/octet-stream).', 'invalid');
       const name = text(request.query as Query, 'name', 500);
