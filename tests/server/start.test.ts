@@ -4,6 +4,21 @@ import { join } from 'node:path';
 import { FAMILIES, inventedCurveSet } from '../library/fixtures.ts';
 import { json, tempDir } from './helpers.ts';
 import { parsePort, startServer } from '../../src/server/start.ts';
+import { request as httpRequest } from 'node:http';
+import { spawn } from 'node:child_process';
+
+function rawGet(base: string, path: string): Promise<{ status: number; body: string }> {
+  const u = new URL(base);
+  return new Promise((resolve, reject) => {
+    const req = httpRequest({ host: u.hostname, port: u.port, path, method: 'GET' }, (res) => {
+      let body = '';
+      res.on('data', (c) => (body += c));
+      res.on('end', () => resolve({ status: res.statusCode ?? 0, body }));
+    });
+    req.on('error', reject);
+    req.end();
+  });
+}
 
 let tmp: ReturnType<typeof tempDir>;
 beforeEach(() => {
@@ -56,6 +71,12 @@ describe('starting the server', () => {
       expect((await fetch(`${running.url}assets/app.js`)).status).toBe(200);
       expect(await (await fetch(`${running.url}library`)).text()).toContain('Office pump library');
       expect((await fetch(`${running.url}api/nothing`)).status).toBe(404);
+      // Static serving stays inside the build folder: a file beside it is never reachable.
+      writeFileSync(join(tmp.dir, 'secret.txt'), 'invented secret beside dist');
+      for (const path of ['/../secret.txt', '/%2e%2e/secret.txt', '/assets/../../secret.txt', '/assets/%2e%2e%2f%2e%2e%2fsecret.txt', '/..%5csecret.txt']) {
+        const res = await rawGet(running.url, path);
+        expect(res.body, path).not.toContain('invented secret');
+      }
     } finally {
       await running.close();
     }
@@ -72,5 +93,27 @@ describe('starting the server', () => {
     } finally {
       await a.close();
     }
+  });
+
+  it('pumpscribe serve names the library file, serves it, and closes cleanly on SIGINT', async () => {
+    const library = join(tmp.dir, 'cli.sqlite');
+    const child = spawn(process.execPath, [join('node_modules', 'tsx', 'dist', 'cli.mjs'), 'src/cli/main.ts', 'serve', '--port', '0', '--library', library, '--no-seed'], {
+      stdio: ['ignore', 'pipe', 'pipe'],
+    });
+    let out = '';
+    const exited = new Promise<number>((resolve) => child.on('exit', (code) => resolve(code ?? -1)));
+    const url = await new Promise<string>((resolve, reject) => {
+      child.stdout.on('data', (c: Buffer) => {
+        out += c.toString();
+        const m = /serving at (http:\/\/127\.0\.0\.1:\d+\/)/.exec(out);
+        if (m && out.includes('Press Ctrl+C')) resolve(m[1] as string);
+      });
+      child.on('exit', () => reject(new Error(`serve exited early: ${out}`)));
+    });
+    expect(out).toContain(`Library file: ${library}`);
+    expect((await json(`${url}api/health`)).body.ok).toBe(true);
+    child.kill('SIGINT');
+    expect(await exited).toBe(0);
+    expect(out).toContain('Stopped; the library file is closed.');
   });
 });
