@@ -58,7 +58,7 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
 
   const { store, matcher } = options;
   app.get('/api/health', async () => ({ ok: true, version: TOOL_VERSION, library: store.counts() }));
-  curveSetRoutes(app, store, );
+  curveSetRoutes(app, store);
   searchRoutes(app, store, matcher);
   sheetRoutes(app, store, limits.sheetBytes);
   transferRoutes(app, store, limits.importBytes);

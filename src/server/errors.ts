@@ -21,6 +21,9 @@ export function statusAndMessage(error: unknown): { status: number; message: str
   if (error instanceof LibraryError) return { status: STATUS[error.reason], message: error.message };
   const e = error as Partial<FastifyError> & { message?: string };
   switch (e.code) {
+    case 'SQLITE_BUSY':
+    case 'SQLITE_BUSY_SNAPSHOT':
+      return { status: 503, message: 'The library file is busy with another writer (an import or a backup in another process); nothing was changed, try again in a moment.' };
     case 'FST_ERR_CTP_BODY_TOO_LARGE':
       return { status: 413, message: 'The request body is larger than this route accepts; send a smaller file or split the import.' };
     case 'FST_ERR_CTP_INVALID_MEDIA_TYPE':
