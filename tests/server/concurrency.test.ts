@@ -2,6 +2,7 @@ import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { join } from 'node:path';
 import { spawn } from 'node:child_process';
 import { writeFileSync } from 'node:fs';
+import Database from 'better-sqlite3';
 import { FAMILIES, inventedCurveSet } from '../library/fixtures.ts';
 import { json, postJson, startTestServer, tempDir, type TestServer } from './helpers.ts';
 
@@ -95,5 +96,22 @@ store.close();
     const switches = names.slice(2).filter((n, i) => n.slice(0, 12) !== names[i + 1]!.slice(0, 12)).length;
     expect(switches).toBeGreaterThan(1);
     expect((await json(`${server.url}/api/curvesets/${id}`)).status).toBe(200);
+  });
+
+  it('answers 503 and changes nothing while another process holds the write lock, then accepts the write', async () => {
+    await server.close();
+    server = await startTestServer(file, {}, { busyTimeoutMs: 200 });
+    const other = new Database(file, { timeout: 0 });
+    other.exec('BEGIN IMMEDIATE');
+    try {
+      const busy = await postJson(`${server.url}/api/curvesets`, inventedCurveSet(FAMILIES.small));
+      expect(busy.status).toBe(503);
+      expect(busy.body.error).toMatch(/busy with another writer/);
+    } finally {
+      other.exec('ROLLBACK');
+      other.close();
+    }
+    expect(server.store.counts().entries).toBe(0);
+    expect((await postJson(`${server.url}/api/curvesets`, inventedCurveSet(FAMILIES.small))).status).toBe(201);
   });
 });

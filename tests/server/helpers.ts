@@ -4,7 +4,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import type { FastifyInstance } from 'fastify';
 import { buildApp, type AppOptions } from '../../src/server/app.ts';
-import { LibraryStore } from '../../src/library/store.ts';
+import { LibraryStore, type OpenOptions } from '../../src/library/store.ts';
 import { libraryMatcher } from '../../src/library/matcher.ts';
 
 export interface TestServer {
@@ -19,8 +19,8 @@ export function tempDir(prefix = 'pumpscribe-server-'): { dir: string; remove():
   return { dir, remove: () => rmSync(dir, { recursive: true, force: true }) };
 }
 
-export async function startTestServer(file: string, options: Partial<AppOptions> = {}): Promise<TestServer> {
-  const store = LibraryStore.open(file);
+export async function startTestServer(file: string, options: Partial<AppOptions> = {}, storeOptions: OpenOptions = {}): Promise<TestServer> {
+  const store = LibraryStore.open(file, storeOptions);
   const app = await buildApp({ store, matcher: libraryMatcher, staticDir: null, loopbackOnly: true, ...options });
   const address = await app.listen({ port: 0, host: '127.0.0.1' });
   return {
