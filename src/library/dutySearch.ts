@@ -86,6 +86,8 @@ export interface DutySearchResult {
   evaluated: number;
   /** Evaluated entries that meet the duty (all that meet it when `complete`). */
   matched: number;
+  /** Ids of entries the duty engine failed on (left out of the ranking). */
+  failed: string[];
   /** True when every reachable entry was evaluated. */
   complete: boolean;
   /** The best `limit` entries that meet the duty, best first. The ranking is exact. */
@@ -137,6 +139,7 @@ export function searchByDuty(store: LibraryStore, duty: Duty, matcher: DutyMatch
   const candidates: DutyCandidate[] = [];
   let evaluated = 0;
   let matched = 0;
+  const failed: string[] = [];
   for (const { row, set, key } of screened) {
     if (candidates.length >= limit) {
       // The ranking so far is complete when no remaining set can beat the last place.
@@ -144,7 +147,14 @@ export function searchByDuty(store: LibraryStore, duty: Duty, matcher: DutyMatch
       if (byCost ? key > (last.power_W ?? Infinity) : key < (last.efficiency ?? -1)) break;
     }
     evaluated += 1;
-    const match = matcher(set, duty);
+    let match: DutyAnswer | null;
+    try {
+      match = matcher(set, duty);
+    } catch {
+      // One curve set the engine cannot read must not sink the whole office search; it is counted.
+      failed.push(row.id);
+      continue;
+    }
     if (!match) continue;
     matched += 1;
     const c: DutyCandidate = { ...store.names(row.id), revision: row.revision, ...match };
@@ -162,6 +172,7 @@ export function searchByDuty(store: LibraryStore, duty: Duty, matcher: DutyMatch
     reachable: screened.length,
     evaluated,
     matched,
+    failed,
     complete: evaluated === screened.length,
     candidates,
   };

@@ -42,16 +42,19 @@ export interface DutySearchView {
   reachable: number;
   evaluated: number;
   matched: number;
+  /** Entries the duty engine could not evaluate (left out). */
+  failed: string[];
   complete: boolean;
   candidates: DutyCandidateView[];
   notice: string;
 }
 
 /** "3 of the 12 pumps spanning the duty can meet it", or "at least …" when the search stopped early. */
-export function matchSentence(view: Pick<DutySearchView, 'matched' | 'examined' | 'complete' | 'ranking'>): string {
+export function matchSentence(view: Pick<DutySearchView, 'matched' | 'examined' | 'complete' | 'ranking' | 'failed'>): string {
   const ranked = view.ranking === 'efficiency' ? 'efficiency at the duty' : 'annual energy cost';
   const head = `${view.complete ? '' : 'at least '}${view.matched} of the ${view.examined} pumps spanning the duty can meet it, ranked by ${ranked}`;
-  return view.complete ? `${head}.` : `${head}; the ranking shown is exact, the pumps that could not enter it were not evaluated.`;
+  const failed = view.failed.length ? ` ${view.failed.length} entries could not be evaluated (${view.failed.slice(0, 5).join(', ')}); check them with a duty check.` : '';
+  return (view.complete ? `${head}.` : `${head}; the ranking shown is exact, the pumps that could not enter it were not evaluated.`) + failed;
 }
 
 export function unitSystemNamed(name: string | undefined): PresetName {
@@ -83,6 +86,7 @@ export function dutySearchView(result: DutySearchResult, system: PresetName): Du
     reachable: result.reachable,
     evaluated: result.evaluated,
     matched: result.matched,
+    failed: result.failed,
     complete: result.complete,
     candidates: result.candidates.map((c) => ({
       id: c.id,

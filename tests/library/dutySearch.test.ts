@@ -100,3 +100,16 @@ describe('duty search', () => {
     expect(() => searchByDuty(store, { flow_m3s: 0.03, head_m: 40, static_head_m: 41 }, libraryMatcher)).toThrow(/static/);
   });
 });
+
+describe('duty search with a failing engine', () => {
+  it('leaves out and names a curve set the engine fails on, and still ranks the others', () => {
+    const failing = (set: Parameters<typeof libraryMatcher>[0], duty: Parameters<typeof libraryMatcher>[1]) => {
+      if (set.pump.name === FAMILIES.mid.name) throw new Error('invented engine failure');
+      return libraryMatcher(set, duty);
+    };
+    const extra = store.create(inventedCurveSet({ ...FAMILIES.mid, name: 'Invented Mid twin' })).id;
+    const result = searchByDuty(store, { flow_m3s: m3h(120), head_m: 40 }, failing);
+    expect(result.failed).toEqual([ids.mid]);
+    expect(result.candidates.map((c) => c.id)).toEqual([extra]);
+  });
+});
