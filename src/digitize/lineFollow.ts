@@ -173,7 +173,9 @@ function chooseOffset(runs: Run[], style: LineStyle, allowed: number, pick: Pick
     }
     consider(run.centre, run.mass <= cleanHi);
   }
-  if (first > allowed) return covered ? 'ambiguous' : undefined;
+  // Ink of the line's kind in view but away from the prediction (a neighbouring line of a
+  // bundle) counts as other ink too, not as an empty gap.
+  if (first > allowed) return covered || first < Infinity ? 'ambiguous' : undefined;
   if (second < first + 0.75 * style.width) return 'ambiguous';
   pick.offset = firstOffset;
   pick.clean = firstClean;

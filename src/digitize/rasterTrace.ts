@@ -271,13 +271,79 @@ export function dropOutliers(path: readonly Px[], window: number, limit: number)
   return keep;
 }
 
-/** Unit direction of travel at point k of a path, from a chord over a few points (sign 1 forwards, −1 backwards). */
+/**
+ * Removes short islands of points between two gaps that stand off the smooth join of the
+ * longer stretches on either side. Inside a bundle of curves the follower may see a few
+ * steps of a neighbouring line before the bundle closes again; those steps sit a line's
+ * width or more off the join, while a true piece of the line lies on it.
+ */
+export function dropIslands(path: readonly Px[], step: number, width: number): Px[] {
+  const gap = 2.5 * step;
+  const stretches: Px[][] = [];
+  for (const p of path) {
+    const current = stretches[stretches.length - 1];
+    const last = current?.[current.length - 1];
+    if (!current || !last || Math.hypot(p[0] - last[0], p[1] - last[1]) > gap) stretches.push([p]);
+    else current.push(p);
+  }
+  const length = (s: Px[]) => s.reduce((sum, p, i) => (i === 0 ? 0 : sum + Math.hypot(p[0] - (s[i - 1] as Px)[0], p[1] - (s[i - 1] as Px)[1])), 0);
+  const limit = Math.max(1.5, 0.5 * width);
+  const kept: Px[][] = [];
+  for (let i = 0; i < stretches.length; i++) {
+    const island = stretches[i] as Px[];
+    const before = kept[kept.length - 1];
+    const after = stretches[i + 1];
+    const short = length(island) < 10 * width;
+    if (short && before && after && before.length >= 7 && after.length >= 7 && length(before) > length(island) && length(after) > length(island)) {
+      const p0 = before[before.length - 1] as Px;
+      const p1 = after[0] as Px;
+      const join = [p0, ...bridge(p0, tangentAt(before, before.length - 1, 1), p1, tangentAt([...after].reverse(), after.length - 1, -1), Math.max(0.5, step / 2)), p1];
+      const off = Math.max(...island.map((p) => Math.min(...join.map((q) => Math.hypot(p[0] - q[0], p[1] - q[1])))));
+      if (off > limit) continue;
+    }
+    kept.push(island);
+  }
+  return kept.flat();
+}
+
+/**
+ * Joins the stretches of a path across its gaps (where the line was hidden by a label, or ran
+ * inside a bundle) with a smooth curve that leaves and enters them along their directions, so
+ * that a reading across a gap follows the line's bend rather than its chord.
+ */
+export function fillGaps(path: readonly Px[], step: number): Px[] {
+  const out: Px[] = [];
+  for (let i = 0; i < path.length; i++) {
+    const p = path[i] as Px;
+    const prev = out[out.length - 1];
+    if (prev && i + 1 < path.length && out.length >= 3 && Math.hypot(p[0] - prev[0], p[1] - prev[1]) > 2.5 * step) {
+      const next = path.slice(i, i + 7);
+      if (next.length >= 3) out.push(...bridge(prev, tangentAt(out, out.length - 1, 1), p, tangentAt([...next].reverse(), next.length - 1, -1), step));
+    }
+    out.push(p);
+  }
+  return out;
+}
+
+/**
+ * Unit direction of travel at point k of a path (sign 1 forwards, −1 backwards): the chord
+ * over about 40 pixels of path before k. Near a bundle the last points lean towards the
+ * neighbouring lines; a long chord averages that out, and a join between two such chords
+ * stays closer to the line than one built on the local bend.
+ */
 function tangentAt(path: readonly Px[], k: number, sign: 1 | -1): Px {
-  const j = Math.max(0, k - 6);
+  let j = k;
+  let length = 0;
+  while (j > 0 && length < 40) {
+    const a = path[j - 1] as Px;
+    const b = path[j] as Px;
+    length += Math.hypot(b[0] - a[0], b[1] - a[1]);
+    j--;
+  }
   const a = path[j] as Px;
-  const b = path[k] as Px;
-  const len = Math.hypot(b[0] - a[0], b[1] - a[1]) || 1;
-  return [(sign * (b[0] - a[0])) / len, (sign * (b[1] - a[1])) / len];
+  const e = path[k] as Px;
+  const chord = Math.hypot(e[0] - a[0], e[1] - a[1]) || 1;
+  return [(sign * (e[0] - a[0])) / chord, (sign * (e[1] - a[1])) / chord];
 }
 
 /** Points of a cubic Hermite curve from p0 (direction d0) to p1 (direction d1), about `step` apart, ends excluded. */
@@ -400,7 +466,9 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
   }
 
   const thinned = simplify(
-    dropOutliers(path, Math.max(12, 4 * style.width), Math.max(1.5, 0.5 * style.width)).map(([x, y]) => ({ x, y })),
+    fillGaps(dropOutliers(dropIslands(path, stepping(style.width).step, style.width), Math.max(12, 4 * style.width), Math.max(1.5, 0.5 * style.width)), stepping(style.width).step).map(
+      ([x, y]) => ({ x, y }),
+    ),
     options.simplifyPx ?? 0.3,
     true,
   );
