@@ -1,0 +1,210 @@
+import { createCanvas, type SKRSContext2D } from '@napi-rs/canvas';
+import { describe, expect, it } from 'vitest';
+import { sheetPoint, type SheetPoint } from '../../src/digitize/points.ts';
+import type { RasterImage } from '../../src/digitize/raster.ts';
+import { captureRasterTrace, traceRaster, TraceInputError } from '../../src/digitize/rasterTrace.ts';
+
+// Small pictures drawn here with a 2D canvas; the tracer itself only ever sees the RGBA buffer.
+function picture(width: number, height: number, draw: (ctx: SKRSContext2D) => void, scale = 1): RasterImage {
+  const canvas = createCanvas(width, height);
+  const ctx = canvas.getContext('2d');
+  ctx.fillStyle = '#ffffff';
+  ctx.fillRect(0, 0, width, height);
+  ctx.lineCap = 'round';
+  draw(ctx);
+  return { width, height, data: new Uint8ClampedArray(ctx.getImageData(0, 0, width, height).data), scale };
+}
+
+function stroke(ctx: SKRSContext2D, f: (x: number) => number, x0: number, x1: number, colour: string, width: number): void {
+  ctx.strokeStyle = colour;
+  ctx.lineWidth = width;
+  ctx.beginPath();
+  for (let x = x0; x <= x1; x += 1) (x === x0 ? ctx.moveTo(x, f(x)) : ctx.lineTo(x, f(x)));
+  ctx.stroke();
+}
+
+function grid(ctx: SKRSContext2D, width: number, height: number, every: number): void {
+  ctx.strokeStyle = '#c8c8c8';
+  ctx.lineWidth = 1;
+  for (let x = every; x < width; x += every) {
+    ctx.beginPath();
+    ctx.moveTo(x, 0);
+    ctx.lineTo(x, height);
+    ctx.stroke();
+  }
+  for (let y = every; y < height; y += every) {
+    ctx.beginPath();
+    ctx.moveTo(0, y);
+    ctx.lineTo(width, y);
+    ctx.stroke();
+  }
+}
+
+/** Largest vertical distance of the points from y = f(x). */
+function worstOff(points: readonly SheetPoint[], f: (x: number) => number): number {
+  return Math.max(...points.map((p) => Math.abs(p[1] - f(p[0]))));
+}
+
+const head = (x: number) => 80 + 0.0006 * (x - 40) ** 2; // a falling head curve, y down
+
+describe('raster line following', () => {
+  it('follows an anti-aliased line from guide to guide, taking the sub-pixel centre of its cross-section', () => {
+    const image = picture(640, 360, (ctx) => stroke(ctx, head, 20, 620, '#000000', 3));
+    const result = traceRaster(image, [sheetPoint(40, head(40)), sheetPoint(330, head(330)), sheetPoint(600, head(600))]);
+    expect(result.lost).toEqual([]);
+    expect(worstOff(result.points, head)).toBeLessThan(0.3); // px: centroid of a 3-px line, plus the 0.3 px thinning tolerance
+    expect(result.line.widthPx).toBeGreaterThan(2.5); // measured cross-section of the 3-px line, ± anti-aliasing
+    expect(result.line.widthPx).toBeLessThan(3.5);
+    expect(result.points.length).toBeLessThan(80); // thinned with simplify-js, not one point a step
+  });
+
+  it('stops at the first and last guides', () => {
+    const image = picture(640, 360, (ctx) => stroke(ctx, head, 20, 620, '#000000', 3));
+    const result = traceRaster(image, [sheetPoint(100, head(100)), sheetPoint(500, head(500))]);
+    const first = result.points[0] as SheetPoint;
+    const last = result.points[result.points.length - 1] as SheetPoint;
+    expect(Math.abs(first[0] - 100)).toBeLessThan(1); // px
+    expect(Math.abs(last[0] - 500)).toBeLessThan(1); // px
+  });
+
+  it('carries on through grid lines and a crossing line of the same colour', () => {
+    const image = picture(640, 360, (ctx) => {
+      grid(ctx, 640, 360, 40);
+      stroke(ctx, head, 20, 620, '#000000', 3);
+      ctx.lineWidth = 2;
+      ctx.beginPath();
+      ctx.moveTo(200, 20);
+      ctx.lineTo(380, 340);
+      ctx.moveTo(520, 20);
+      ctx.lineTo(420, 340);
+      ctx.stroke();
+    });
+    const result = traceRaster(image, [sheetPoint(40, head(40)), sheetPoint(600, head(600))]);
+    expect(result.lost).toEqual([]);
+    expect(worstOff(result.points, head)).toBeLessThan(0.6); // px, including the crossings
+  });
+
+  it('carries on through a label that interrupts the line and through a curve of another colour', () => {
+    const image = picture(640, 360, (ctx) => {
+      stroke(ctx, head, 20, 620, '#c01818', 3);
+      stroke(ctx, (x) => 330 - 0.6 * x, 60, 500, '#1840c0', 3);
+      ctx.fillStyle = '#ffffff';
+      ctx.fillRect(290, head(310) - 8, 60, 16);
+      ctx.fillStyle = '#000000';
+      ctx.font = '14px "Liberation Sans"';
+      ctx.fillText('12 in', 296, head(310) + 5);
+    });
+    const result = traceRaster(image, [sheetPoint(40, head(40)), sheetPoint(600, head(600))]);
+    expect(result.lost).toEqual([]);
+    expect(worstOff(result.points, head)).toBeLessThan(0.8); // px; the 60-px gap is bridged by prediction
+  });
+
+  it('follows the colour found under the guide, not a darker line running beside it', () => {
+    const image = picture(640, 360, (ctx) => {
+      stroke(ctx, head, 20, 620, '#2050d0', 3);
+      stroke(ctx, (x) => head(x) + 9, 20, 620, '#000000', 3);
+    });
+    const result = traceRaster(image, [sheetPoint(40, head(40) + 1.5), sheetPoint(600, head(600))]);
+    expect(result.line.colour[2]).toBeGreaterThan(150); // blue measured under the guide
+    expect(worstOff(result.points, head)).toBeLessThan(0.5); // px: stays on the blue line, 9 px from the black one
+  });
+
+  it('follows two same-coloured curves through their shallow crossing, each on its own line', () => {
+    const a = (x: number) => 300 - 0.5 * x; // rising
+    const b = (x: number) => 90 + 0.00045 * (x - 320) ** 2 + 0.12 * x; // crosses a at a shallow angle
+    const image = picture(640, 360, (ctx) => {
+      stroke(ctx, a, 20, 560, '#000000', 3);
+      stroke(ctx, b, 20, 620, '#000000', 3);
+    });
+    const ta = traceRaster(image, [sheetPoint(40, a(40)), sheetPoint(540, a(540))]);
+    const tb = traceRaster(image, [sheetPoint(40, b(40)), sheetPoint(600, b(600))]);
+    expect(worstOff(ta.points, a)).toBeLessThan(1); // px
+    expect(worstOff(tb.points, b)).toBeLessThan(1); // px
+  });
+
+  it('follows a U-shaped loop through three guides', () => {
+    // An iso-efficiency loop: down one side, round the bottom, up the other side.
+    const cx = 320;
+    const cy = 120;
+    const loop = (t: number) => [cx + 160 * Math.sin(t), cy + 180 * (1 - Math.cos(t))] as const; // t in [-1.2, 1.2]
+    const image = picture(640, 360, (ctx) => {
+      ctx.strokeStyle = '#008030';
+      ctx.lineWidth = 2;
+      ctx.beginPath();
+      for (let t = -1.2; t <= 1.2001; t += 0.01) {
+        const [x, y] = loop(t);
+        if (t === -1.2) ctx.moveTo(x, y);
+        else ctx.lineTo(x, y);
+      }
+      ctx.stroke();
+    });
+    const g = [-1.15, 0, 1.15].map((t) => sheetPoint(...loop(t)));
+    const result = traceRaster(image, g);
+    expect(result.lost).toEqual([]);
+    // Distance to the ellipse, measured along the normal by sampling it densely.
+    const dense = Array.from({ length: 2401 }, (_, i) => loop(-1.2 + (2.4 * i) / 2400));
+    const off = Math.max(...result.points.map((p) => Math.min(...dense.map((q) => Math.hypot(p[0] - q[0], p[1] - q[1])))));
+    expect(off).toBeLessThan(0.5); // px
+    const xs = result.points.map((p) => p[0]);
+    expect(Math.min(...xs)).toBeLessThan(cx - 140);
+    expect(Math.max(...xs)).toBeGreaterThan(cx + 140);
+  });
+
+  it('reports where the line was lost, and where it was seen again, when a gap is too long to bridge', () => {
+    const image = picture(640, 360, (ctx) => {
+      stroke(ctx, head, 20, 250, '#000000', 3);
+      stroke(ctx, head, 450, 620, '#000000', 3);
+    });
+    const result = traceRaster(image, [sheetPoint(40, head(40)), sheetPoint(600, head(600))], { maxGapPx: 60 });
+    expect(result.lost).toHaveLength(1);
+    const lost = result.lost[0]!;
+    expect(Math.abs(lost.at[0] - 250)).toBeLessThan(4); // px: the last point seen before the gap
+    expect(Math.abs((lost.resumedAt as SheetPoint)[0] - 450)).toBeLessThan(4); // px: seen again from the far guide
+    expect(lost.between).toEqual([1, 2]);
+    expect(lost.reason).toMatch(/no ink of the line.s colour and width/);
+  });
+
+  it('with a single guide, follows the line both ways to its ends', () => {
+    const image = picture(640, 360, (ctx) => stroke(ctx, head, 60, 580, '#000000', 3));
+    const result = traceRaster(image, [sheetPoint(300, head(300))]);
+    const xs = result.points.map((p) => p[0]);
+    expect(Math.min(...xs)).toBeLessThan(64); // px from the line's left end at 60
+    expect(Math.max(...xs)).toBeGreaterThan(576); // px from its right end at 580
+    expect(worstOff(result.points, head)).toBeLessThan(0.5);
+  });
+
+  it('returns sheet coordinates, dividing pixels by the raster scale', () => {
+    const image = picture(640, 360, (ctx) => stroke(ctx, head, 20, 620, '#000000', 3), 2);
+    const result = traceRaster(image, [sheetPoint(20, head(40) / 2), sheetPoint(300, head(600) / 2)]);
+    expect(worstOff(result.points, (x) => head(2 * x) / 2)).toBeLessThan(0.2); // sheet units = half a pixel
+  });
+
+  it('reads only pixels near the path', () => {
+    const image = picture(1200, 900, (ctx) => stroke(ctx, (x) => 200 + 0.0003 * (x - 100) ** 2, 50, 1150, '#000000', 3));
+    const f = (x: number) => 200 + 0.0003 * (x - 100) ** 2;
+    const result = traceRaster(image, [sheetPoint(80, f(80)), sheetPoint(1120, f(1120))]);
+    expect(result.pixelsRead).toBeLessThan(0.1 * image.width * image.height);
+  });
+
+  it('uses explicit points as they are', () => {
+    const image = picture(64, 64, () => undefined);
+    const points = [sheetPoint(1, 2), sheetPoint(3.25, 4.5), sheetPoint(60, 7)];
+    const result = captureRasterTrace(image, { points });
+    expect(result.points).toEqual(points);
+    expect(result.lost).toEqual([]);
+  });
+
+  it('says so, without throwing, when no line stands out under any guide', () => {
+    const image = picture(200, 200, () => undefined);
+    const result = traceRaster(image, [sheetPoint(50, 50), sheetPoint(150, 150)]);
+    expect(result.points).toEqual([]);
+    expect(result.lost[0]?.reason).toMatch(/no line stands out from the paper/);
+  });
+
+  it('refuses guides it cannot use with a sentence', () => {
+    const image = picture(200, 100, () => undefined);
+    expect(() => traceRaster(image, [])).toThrow(TraceInputError);
+    expect(() => traceRaster(image, [sheetPoint(10, 10), sheetPoint(250, 50)])).toThrow(/Guide 2 at \(250\.0, 50\.0\) lies outside the sheet \(200 × 100\)/);
+    expect(() => traceRaster(image, [sheetPoint(Number.NaN, 10)])).toThrow(/not a finite number/);
+  });
+});
