@@ -125,7 +125,8 @@ export class User {
   async type(target: Locator, value: string, what: string): Promise<void> {
     await target.fill(value);
     await target.press('Enter');
-    await target.evaluate((el) => (el as HTMLElement).blur());
+    // The field may be gone once its value completed something (a calibrated panel folds up).
+    await this.page.evaluate(() => (document.activeElement as HTMLElement | null)?.blur());
     this.count(`type ${what} = ${value}`);
   }
 
@@ -155,6 +156,20 @@ export class User {
     if (modifiers.alt) await this.page.keyboard.up('Alt');
     if (modifiers.shift) await this.page.keyboard.up('Shift');
     this.count(`click on the sheet: ${what}`);
+  }
+
+  async press(key: string, what: string): Promise<void> {
+    await this.page.keyboard.press(key);
+    this.count(`press ${key}: ${what}`);
+  }
+
+  /** Zooms in about a sheet point with the mouse wheel, as one would to click between close lines. */
+  async zoomAt(at: readonly [number, number], what: string): Promise<void> {
+    const [x, y] = await this.screenOf(at);
+    await this.page.mouse.move(x, y);
+    await this.page.mouse.wheel(0, -500);
+    await this.page.waitForTimeout(200);
+    this.count(`zoom in (wheel) ${what}`);
   }
 
   async dragSheet(from: readonly [number, number], to: readonly [number, number], what: string): Promise<void> {

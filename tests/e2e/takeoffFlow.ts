@@ -7,18 +7,56 @@ import { copyFileSync, existsSync, readFileSync } from 'node:fs';
 import { basename, dirname, join } from 'node:path';
 import type { Page } from 'playwright-core';
 import { settle, User } from './harness.ts';
+import { efficiency, head, npshr, power, type Family } from '../../scripts/sheets/family.ts';
 
 interface SampleAnchor { at: [number, number]; x?: number; y?: number }
 interface SamplePanel { id: string; anchors: SampleAnchor[] }
 interface SampleTrace { id?: string; panel: string; quantity: 'head' | 'efficiency' | 'power' | 'npshr'; diameter?: number; iso?: number; guides?: [number, number][] }
+interface TruthCurve { id: string; panel: string; quantity: SampleTrace['quantity']; diameter: number; drawn_diameter: number; factor: number; flow_range: [number, number] }
 export interface Sample {
   sheetPath: string;
+  truth: { family: Family; curves: TruthCurve[] } | null;
   takeoff: { pump: { speed_rpm: number }; units: Record<string, string>; panels: SamplePanel[]; traces: SampleTrace[] };
 }
 
 export function loadSample(takeoffPath: string): Sample {
   const takeoff = JSON.parse(readFileSync(takeoffPath, 'utf8')) as Sample['takeoff'] & { sheet: string };
-  return { sheetPath: join(dirname(takeoffPath), takeoff.sheet), takeoff };
+  const truthPath = takeoffPath.replace(/\.takeoff\.json$/, '.truth.json');
+  const truth = existsSync(truthPath) ? (JSON.parse(readFileSync(truthPath, 'utf8')) as Sample['truth']) : null;
+  return { sheetPath: join(dirname(takeoffPath), takeoff.sheet), takeoff, truth };
+}
+
+const VALUE: Record<SampleTrace['quantity'], (f: Family, d: number, q: number) => number> = { head, efficiency, power, npshr };
+
+/**
+ * Where an engineer looking through the magnifier would click on a curve: exactly on it (the
+ * sheet's true curve, through the panel calibration just set), at the flow where it runs
+ * farthest from the other curves of its panel.
+ */
+async function onTheLine(page: Page, sample: Sample, t: SampleTrace): Promise<{ g: [number, number]; d: number } | null> {
+  const truth = sample.truth;
+  const curve = truth?.curves.find((c) => c.panel === t.panel && c.quantity === t.quantity && c.diameter === t.diameter);
+  if (!truth || !curve) return null;
+  const neighbours = truth.curves.filter((c) => c.panel === t.panel && c !== curve);
+  const panelId = await state<string>(page, `wb.store.draft.panels.find(p => p.plots === ${JSON.stringify(t.quantity)})?.id`);
+  const data = (c: TruthCurve, q: number): [number, number] => [q, c.factor * VALUE[c.quantity](truth.family, c.drawn_diameter, q)];
+  const [q0, q1] = curve.flow_range;
+  const flows = Array.from({ length: 25 }, (_, i) => q0 + ((q1 - q0) * (0.1 + 0.8 * (i / 24))));
+  const ask = flows.map((q) => [data(curve, q), ...neighbours.filter((n) => q >= n.flow_range[0] && q <= n.flow_range[1]).map((n) => data(n, q))]);
+  const sheet = await page.evaluate(({ id, ask }) => {
+    const wb = (window as unknown as { pumpscribe: () => { derived: { calibrations: Map<string, { ok: boolean; calibration: { toSheet(d: [number, number]): [number, number] } }> } } }).pumpscribe();
+    const cal = wb.derived.calibrations.get(id);
+    if (!cal?.ok) return null;
+    return ask.map((row) => row.map((d) => { const p = cal.calibration.toSheet(d); return [p[0], p[1]] as [number, number]; }));
+  }, { id: panelId, ask });
+  if (!sheet) return null;
+  let best: { g: [number, number]; d: number } | null = null;
+  for (const row of sheet) {
+    const [g, ...others] = row as [[number, number], ...[number, number][]];
+    const d = others.reduce((m, o) => Math.min(m, Math.hypot(o[0] - g[0], o[1] - g[1])), Infinity);
+    if (!best || d > best.d) best = { g, d };
+  }
+  return best;
 }
 
 const PANEL_PLOTS: Record<string, string> = { head: 'head', efficiency: 'efficiency', power: 'power', npsh: 'npshr', npshr: 'npshr' };
@@ -75,17 +113,13 @@ export async function runTakeoff(page: Page, url: string, sample: Sample, artifa
   await settle(page);
   const units = sample.takeoff.units;
   const drawnIn = await state<Record<string, string>>(page, 'wb.store.draft.units');
-  if (units.flow === 'gpm' && drawnIn.flow !== 'gpm') {
-    await user.click(page.getByRole('button', { name: /^US:/ }), 'units on the sheet: US');
-  }
-  if ((await state<number>(page, 'wb.store.draft.pump.speed_rpm')) !== sample.takeoff.pump.speed_rpm) {
-    if (!(await page.locator('#pump-speed').isVisible())) await user.click(page.locator('#step-load'), 'step 1');
-    await user.type(page.locator('#pump-speed'), String(sample.takeoff.pump.speed_rpm), 'speed');
-  }
   shots.push(await user.screenshot('1-sheet-loaded'));
 
   // 2. Set the axes, panel by panel.
   if (!(await page.locator('#step-axes-body').isVisible())) await user.click(page.locator('#step-axes'), 'step 2');
+  if (units.flow === 'gpm' && drawnIn.flow !== 'gpm') {
+    await user.click(page.getByRole('button', { name: /^US \(/ }), 'units on the sheet: US');
+  }
   for (const [i, panel] of sample.takeoff.panels.entries()) {
     const plots = PANEL_PLOTS[panel.id] ?? 'head';
     const framePlots = await state<string>(page, 'wb.store.session.framePlots');
@@ -126,6 +160,9 @@ export async function runTakeoff(page: Page, url: string, sample: Sample, artifa
 
   // 3. Trace the curves.
   await user.click(page.locator('#step-trace'), 'step 3');
+  if ((await state<number>(page, 'wb.store.draft.pump.speed_rpm')) !== sample.takeoff.pump.speed_rpm) {
+    await user.type(page.locator('#pump-speed'), String(sample.takeoff.pump.speed_rpm), 'speed');
+  }
   const diameters = sample.takeoff.traces.flatMap((t) => (t.diameter !== undefined ? [t.diameter] : []));
   const wanted = [...new Set(diameters)].sort((a, b) => b - a);
   if ((await page.inputValue('#diameters')).trim().split(/\s+/).map(Number).join() !== wanted.join()) {
@@ -135,6 +172,7 @@ export async function runTakeoff(page: Page, url: string, sample: Sample, artifa
   const order: SampleTrace['quantity'][] = ['head', 'efficiency', 'power', 'npshr'];
   const traces = [...sample.takeoff.traces].sort((a, b) => order.indexOf(a.quantity) - order.indexOf(b.quantity) || (a.iso ?? 0) - (b.iso ?? 0) || (b.diameter ?? 0) - (a.diameter ?? 0));
   let reloaded = false;
+  let zoomedIn = false;
   for (const [n, t] of traces.entries()) {
     const target = await state<{ quantity: string; lines: string; diameter?: number; iso?: number }>(page, 'wb.store.session.target');
     const panelPlots = PANEL_PLOTS[t.panel] ?? t.panel;
@@ -150,11 +188,23 @@ export async function runTakeoff(page: Page, url: string, sample: Sample, artifa
       if (willBe !== t.diameter) await user.click(page.getByRole('group', { name: 'Diameter to trace next' }).getByRole('button', { name: new RegExp(`^${t.diameter} `) }), `diameter ${t.diameter}`);
     }
     // Like an engineer, click the line where it runs clear of the lines already traced.
-    const guide = await clearestGuide(page, t.guides ?? []);
-    if (!guide) continue;
+    const clear = (t.iso === undefined ? await onTheLine(page, sample, t) : null) ?? (await clearestGuide(page, t.guides ?? []));
+    if (!clear) continue;
+    const guide = clear.g;
+    const zoom = await state<number>(page, 'wb.canvas.currentView.zoom');
+    if (clear.d * zoom < 9) {
+      await user.zoomAt(guide, `near ${t.quantity} ${t.diameter ?? t.iso}`);
+      zoomedIn = true;
+    } else if (zoomedIn) {
+      await user.press('0', 'fit the page again');
+      zoomedIn = false;
+    }
     const count = await state<number>(page, 'wb.store.draft.traces.length');
     await user.clickSheet(guide, `${t.quantity} ${t.diameter ?? `${t.iso} line`}`);
-    await page.waitForFunction((k) => (window as unknown as { pumpscribe: () => { store: { draft: { traces: unknown[] }; session: { busy: boolean } } } }).pumpscribe().store.draft.traces.length > k || (document.querySelector('#message.error') !== null), count, { timeout: 60_000 });
+    await page.waitForFunction((k) => (window as unknown as { pumpscribe: () => { store: { draft: { traces: unknown[] }; session: { busy: boolean } } } }).pumpscribe().store.draft.traces.length > k || (document.querySelector('#message.error') !== null), count, { timeout: 60_000 }).catch(async (error: Error) => {
+      await user.screenshot('failed');
+      throw new Error(`No trace appeared after clicking ${t.id ?? t.quantity} at ${guide.join(', ')}; the status line said "${await page.textContent('#message')}" (${error.message})`);
+    });
     const error = await page.$eval('#message', (el) => (el.classList.contains('error') ? el.textContent : null));
     if (error) throw new Error(`Tracing ${t.id ?? t.quantity} failed: ${error}`);
     await settle(page);
@@ -197,7 +247,7 @@ export async function runTakeoff(page: Page, url: string, sample: Sample, artifa
 }
 
 /** The guide farthest from every point already captured (a click away from crossings). */
-async function clearestGuide(page: Page, guides: [number, number][]): Promise<[number, number] | null> {
+async function clearestGuide(page: Page, guides: [number, number][]): Promise<{ g: [number, number]; d: number } | null> {
   if (guides.length === 0) return null;
   const taken = await state<[number, number][]>(page, 'wb.store.draft.traces.flatMap(t => t.points ?? t.captured ?? [])');
   let best: { g: [number, number]; d: number } | null = null;
@@ -205,5 +255,5 @@ async function clearestGuide(page: Page, guides: [number, number][]): Promise<[n
     const d = taken.reduce((m, p) => Math.min(m, Math.hypot(p[0] - g[0], p[1] - g[1])), Infinity);
     if (!best || d > best.d) best = { g, d };
   }
-  return best?.g ?? null;
+  return best;
 }

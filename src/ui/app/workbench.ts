@@ -172,7 +172,10 @@ export class Workbench implements Bench, ToolHost {
     });
   }
 
+  private lastStep: Step | null = null;
+
   private render(): void {
+    const step = this.store.session.step;
     morph(this.parts.top, topBar(this, this.autosaved));
     morph(this.parts.side, h('aside', { class: 'side' }, stepList(this, { load: loadStep, axes: axesStep, trace: traceStep, review: reviewStep, save: (b) => saveStep(b, this.library) })));
     morph(this.parts.status, statusLine(this));
@@ -185,6 +188,11 @@ export class Workbench implements Bench, ToolHost {
     }
     this.parts.stage.style.cursor = this.activeTool()?.cursor ?? 'default';
     this.canvas.redrawOverlay();
+    if (step !== this.lastStep) {
+      // A newly opened step starts at its top.
+      this.lastStep = step;
+      this.parts.side.querySelector(`#step-${step}`)?.scrollIntoView({ block: 'start' });
+    }
   }
 
   private diameterSI(d: number): number | undefined {

@@ -92,33 +92,39 @@ function paintPanel(ctx: CanvasRenderingContext2D, view: View, panel: PanelDraft
   haloStroke(ctx, PANEL_INK, active ? 2 : 1.25, active ? [] : [6, 4]);
   const name = { head: 'Head', efficiency: 'Efficiency', power: 'Power', npshr: 'NPSHr' }[panel.plots];
   const state = calibrated ? '' : ' · axes not set';
-  label(ctx, `${name} panel${state}`, x0 + 4, y0 - 6 < 14 ? y0 + 16 : y0 - 6, '#ffffff', PANEL_INK);
+  // The name sits on the frame's top edge at the right, away from the axis labels on the left.
+  const text = `${name} panel${state}`;
+  ctx.font = '600 12px system-ui, sans-serif';
+  const w = ctx.measureText(text).width;
+  label(ctx, text, x1 - w - 6, y0 + 15, '#ffffff', PANEL_INK);
 }
 
-function paintAnchors(ctx: CanvasRenderingContext2D, view: View, panel: PanelDraft, draft: Draft): void {
+function paintAnchors(ctx: CanvasRenderingContext2D, view: View, panel: PanelDraft, active: boolean): void {
+  const r = active ? 6 : 4;
   panel.anchors.forEach((a) => {
     const [x, y] = toScreen(view, a.at);
     const valued = a.x !== undefined || a.y !== undefined;
     const isX = anchorAxis(a) === 'x';
-    // A diamond, hollow until it has a value; its value sits beside it.
+    // A diamond, hollow until it has a value; on the panel being set, its value sits beside it.
     ctx.beginPath();
-    ctx.moveTo(x, y - 7);
-    ctx.lineTo(x + 7, y);
-    ctx.lineTo(x, y + 7);
-    ctx.lineTo(x - 7, y);
+    ctx.moveTo(x, y - r);
+    ctx.lineTo(x + r, y);
+    ctx.lineTo(x, y + r);
+    ctx.lineTo(x - r, y);
     ctx.closePath();
-    ctx.fillStyle = valued ? '#c2410c' : 'rgba(255,255,255,0.8)';
+    ctx.fillStyle = valued ? '#c2410c' : 'rgba(255,255,255,0.85)';
     ctx.fill();
-    haloStroke(ctx, '#c2410c', 1.5);
-    const unit = isX ? panel.units.x : panel.units.y;
+    haloStroke(ctx, '#c2410c', active ? 1.5 : 1);
+    if (!active) return;
     const value = isX ? a.x : a.y;
-    const text = `${isX ? 'x' : 'y'} ${value === undefined ? '?' : value} ${unitLabel(unit)}`;
-    const dx = isX ? -10 : 10;
-    const dy = isX ? 22 : -8;
-    ctx.textAlign = 'left';
-    label(ctx, text, x + dx, y + dy, '#7c2d12');
+    const text = value === undefined ? `${isX ? 'x' : 'y'} ?` : String(value);
+    ctx.font = '600 11px system-ui, sans-serif';
+    const w = ctx.measureText(text).width;
+    // x values under the axis, y values to the left of it, clear of the plot.
+    const lx = isX ? x - w / 2 : x - w - 12;
+    const ly = isX ? y + 20 : y + 4;
+    label(ctx, text, lx, ly, '#7c2d12');
   });
-  void draft;
 }
 
 export function unitLabel(token: string): string {
@@ -258,7 +264,7 @@ export function paintScene(ctx: CanvasRenderingContext2D, view: View, scene: Sce
   const showAnchors = session.step === 'axes';
   for (const panel of draft.panels) {
     paintPanel(ctx, view, panel, session.activePanel === panel.id && showAnchors, scene.calibrated.has(panel.id));
-    if (showAnchors) paintAnchors(ctx, view, panel, draft);
+    if (showAnchors) paintAnchors(ctx, view, panel, session.activePanel === panel.id);
   }
   if (showAnchors) paintProposals(ctx, view, scene.proposals);
   if (session.step !== 'load') {

@@ -139,6 +139,7 @@ export class SheetCanvas {
     if (!this.info) return;
     const [w, h] = this.size;
     this.setView(fitRect([0, 0, this.info.width, this.info.height], w, h, 12));
+    this.fitted = true;
   }
 
   /** Brings a sheet rectangle [x, y, w, h] into view. */
@@ -157,6 +158,7 @@ export class SheetCanvas {
   }
 
   setView(view: View): void {
+    this.fitted = false;
     this.view = view;
     this.layout();
     for (const l of this.viewListeners) l(view);
@@ -223,13 +225,17 @@ export class SheetCanvas {
     }, 120);
   }
 
+  /** True while the view is the fitted page, so that a resize fits it again. */
+  private fitted = false;
+
   private resize(): void {
     const w = this.container.clientWidth;
     const h = this.container.clientHeight;
     if (w === 0 || h === 0) return;
-    const first = this.stage.width() !== w || this.stage.height() !== h;
+    if (this.stage.width() === w && this.stage.height() === h) return;
     this.stage.size({ width: w, height: h });
-    if (first) this.layout();
+    if (this.fitted) this.fitPage();
+    else this.layout();
   }
 
   private pointer(event: PointerEvent | MouseEvent): CanvasPointer {

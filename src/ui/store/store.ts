@@ -41,8 +41,10 @@ export interface Session {
   drawingFrame: boolean;
   /** What the next panel drawn plots. */
   framePlots: Quantity;
-  /** Trace selected for editing. */
+  /** Trace selected for editing (its points and guides can be dragged). */
   selectedTrace: string | null;
+  /** The trace made by the last guide click: Shift-click adds guides to it when none is selected. */
+  lastTraced: string | null;
   /** Selected point of the selected trace. */
   selectedPoint: number | null;
   /** Trace picked out from a finding, drawn emphasised. */
@@ -62,6 +64,7 @@ export const INITIAL_SESSION: Session = {
   drawingFrame: true,
   framePlots: 'head',
   selectedTrace: null,
+  lastTraced: null,
   selectedPoint: null,
   highlightedTrace: null,
   target: { quantity: 'head', lines: 'diameter' },

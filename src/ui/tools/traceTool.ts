@@ -16,11 +16,12 @@ import { screenDistance, type Tool, type ToolHost } from './tool.ts';
 type State =
   | { kind: 'idle' }
   | { kind: 'capturing' }
-  | { kind: 'dragging-point'; trace: string; index: number; at: SheetXY }
+  | { kind: 'dragging-point'; trace: string; index: number; at: SheetXY; from: SheetXY; moved: boolean }
   | { kind: 'dragging-guide'; trace: string; index: number; at: SheetXY; moved: boolean };
 
 const GRAB_PX = 7;
-const LINE_PX = 6;
+/** A click this close to a traced line picks that line instead of tracing a new one (zoom in to click between lines). */
+const LINE_PX = 4;
 
 type Hover = { kind: 'point'; trace: string; index: number } | { kind: 'guide'; trace: string; index: number } | { kind: 'line'; trace: string; at: SheetXY } | null;
 
@@ -46,7 +47,7 @@ export class TraceTool implements Tool {
     if (this.state.kind === 'capturing') return 'Tracing the line…';
     if (this.state.kind === 'dragging-point') return 'Release where the point belongs.';
     if (this.state.kind === 'dragging-guide') return 'Release the guide on the line; the trace follows it.';
-    const selected = draft.traces.find((t) => t.id === session.selectedTrace);
+    const selected = draft.traces.find((t) => t.id === (session.selectedTrace ?? session.lastTraced));
     if (this.hover?.kind === 'point') return 'Drag to move this point; press Delete to remove it after clicking it.';
     if (this.hover?.kind === 'guide') return 'Drag this guide along the line to re-trace.';
     if (this.hover?.kind === 'line') {
@@ -87,7 +88,7 @@ export class TraceTool implements Tool {
     const { session } = this.store;
     if (hover?.kind === 'point') {
       this.store.setSession({ selectedPoint: hover.index });
-      this.state = { kind: 'dragging-point', trace: hover.trace, index: hover.index, at: p.sheet };
+      this.state = { kind: 'dragging-point', trace: hover.trace, index: hover.index, at: p.sheet, from: p.sheet, moved: false };
       return;
     }
     if (hover?.kind === 'guide') {
@@ -99,8 +100,9 @@ export class TraceTool implements Tool {
       this.store.dispatch(insertPoint(hover.trace, hover.at));
       return;
     }
-    if (p.shift && selected) {
-      void this.addGuide(selected, p.sheet);
+    const guided = selected ?? session.lastTraced;
+    if (p.shift && guided) {
+      void this.addGuide(guided, p.sheet);
       return;
     }
     if (hover?.kind === 'line') {
@@ -113,7 +115,8 @@ export class TraceTool implements Tool {
   move(p: CanvasPointer): void {
     this.host.magnify(p, p.sheet, false);
     if (this.state.kind === 'dragging-point') {
-      this.state = { ...this.state, at: p.sheet };
+      const moved = this.state.moved || screenDistance(this.host.view(), this.state.from, p.sheet) > 2;
+      this.state = { ...this.state, at: p.sheet, moved };
       this.host.setPreview({ kind: 'drag', trace: this.state.trace, index: this.state.index, at: p.sheet });
       return;
     }
@@ -136,7 +139,8 @@ export class TraceTool implements Tool {
     if (s.kind === 'dragging-point') {
       this.state = { kind: 'idle' };
       this.host.setPreview(null);
-      if (screenDistance(this.host.view(), s.at, p.sheet) >= 0) this.store.dispatch(movePoint(s.trace, s.index, p.sheet));
+      // A press without a move only selects the point (for Delete); it does not edit.
+      if (s.moved) this.store.dispatch(movePoint(s.trace, s.index, p.sheet));
       return;
     }
     if (s.kind === 'dragging-guide') {
@@ -201,7 +205,8 @@ export class TraceTool implements Tool {
       if (this.store.dispatch(addTrace(spec, [at], points))) {
         const made = this.store.draft.traces[before];
         const next = nextTarget(this.store.draft, target);
-        this.store.setSession({ selectedTrace: made?.id ?? null, selectedPoint: null, target: next });
+        // The new trace is not selected for editing, so that its points do not catch the next click.
+        this.store.setSession({ lastTraced: made?.id ?? null, selectedTrace: null, selectedPoint: null, target: next });
         const name = made ? traceName(made, this.store.draft.units.diameter, this.store.draft.units.power) : 'the curve';
         if (gaps.length) this.store.say(`Traced ${name} with ${points.length} points, but ${gaps.join(' ')} Add a guide beyond the gap with Shift-click.`, 'caution');
         else this.store.say(`Traced ${name}: ${points.length} points.`, 'done');

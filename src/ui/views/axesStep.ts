@@ -7,6 +7,7 @@ import type { Bench, CalibrationState } from '../app/bench.ts';
 import type { Quantity } from '../../model/curveset.ts';
 import { removeAnchor, removePanel, setAnchorValue, setAxisScale, setAxisUnit, setPanelPlots } from '../store/actions/panels.ts';
 import { anchorAxis, type PanelDraft } from '../store/draft.ts';
+import { setSheetUnits, SHEET_UNIT_SYSTEMS } from '../store/actions/setup.ts';
 import { QUANTITY_NAMES, UNIT_CHOICES, num, unitText } from './words.ts';
 
 const QUANTITIES: Quantity[] = ['head', 'efficiency', 'power', 'npshr'];
@@ -23,6 +24,7 @@ export function axesStep(bench: Bench): HTMLElement {
     }, QUANTITY_NAMES[q])));
   return h('div', { class: 'step-body' },
     draft.sheet ? null : h('p', { class: 'hint' }, 'Load a sheet first.'),
+    sheetUnits(bench),
     h('p', { class: 'hint' }, 'For each plot on the sheet: choose what it shows, then drag its frame from corner to corner. The corners become anchors; type the axis values there.'),
     h('div', { class: 'row' }, h('span', { class: 'label' }, 'New panel:'), chooser),
     draft.panels.map((p) => panelCard(bench, p, bench.derived.calibrations.get(p.id))),
@@ -127,4 +129,18 @@ function proposalBox(bench: Bench, panel: PanelDraft): HTMLElement | null {
   return h('div', { class: 'proposal', role: 'group', 'aria-label': 'Anchors read from the sheet' },
     h('p', null, `Read from the sheet's text: flow ${range(xs)} ${unitText(panel.units.x)} (${xs.length} labels, ${p.xScale}), ${QUANTITY_NAMES[panel.plots].toLowerCase()} ${range(ys)} ${unitText(panel.units.y)} (${ys.length} labels, ${p.yScale}); residual ${num(p.residual, 2)} % of span.`),
     h('button', { type: 'button', class: 'primary', id: `use-proposal-${panel.id}`, onclick: () => bench.useProposal(panel.id) }, 'Use the proposed anchors'));
+}
+
+/** The units the sheet is drawn in, chosen at once for every axis (each axis can still differ). */
+function sheetUnits(bench: Bench): HTMLElement {
+  const { store } = bench;
+  const { draft } = store;
+  return h('div', { class: 'sheet-units' },
+    h('span', { class: 'label', id: 'sheet-units-label' }, 'Units on the sheet:'),
+    h('div', { class: 'segmented small', role: 'group', 'aria-labelledby': 'sheet-units-label' },
+      (['si', 'us'] as const).map((sys) => {
+        const u = SHEET_UNIT_SYSTEMS[sys];
+        const on = (Object.keys(u) as (keyof typeof u)[]).every((k) => draft.units[k] === u[k]);
+        return h('button', { type: 'button', 'data-key': `units-${sys}`, 'aria-pressed': on ? 'true' : 'false', title: `flow ${unitText(u.flow)}, head ${u.head}, power ${u.power}, NPSH ${u.npsh}, diameter ${u.diameter}`, onclick: () => store.dispatch(setSheetUnits(u)) }, `${sys.toUpperCase()} (${unitText(u.flow)}, ${u.head}, ${u.power}, ${u.diameter})`);
+      })));
 }

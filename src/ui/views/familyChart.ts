@@ -80,15 +80,17 @@ export function familyChart(set: CurveSet, system: 'si' | 'us', duty?: DutyOverl
       if (row === quantities.length - 1) g.append(svg('text', { x: xx, y: top + PLOT_H + 14, class: 'tick', 'text-anchor': 'middle' }, num(t, 4)));
     }
     g.append(svg('text', { x: 8, y: top + 12, class: 'axis-title' }, `${QUANTITY_NAMES[q]} [${unitText(unit.label || unit.token)}]`));
+    const labels: { x: number; y: number; text: string }[] = [];
     members.forEach((m, k) => {
       const fit = m.curves[q]?.fit;
       if (!fit) return;
       const pts = linspace(fit.domain[0], fit.domain[1], 60).map((f) => `${x(f).toFixed(1)},${y(evaluateUnchecked(fit, f)).toFixed(1)}`);
       const emphasised = highlight && highlight.diameter_m === m.diameter_m && (!highlight.quantity || highlight.quantity === q);
-      g.append(svg('polyline', { points: pts.join(' '), class: `curve${emphasised ? ' emphasised' : ''}`, stroke: QUANTITY_INK[q], 'stroke-opacity': String(1 - k * 0.15) }));
+      g.append(svg('polyline', { points: pts.join(' '), class: `curve${emphasised ? ' emphasised' : ''}`, stroke: QUANTITY_INK[q], 'stroke-opacity': String(1 - k * 0.15) }, svg('title', null, `${QUANTITY_NAMES[q]}, ${memberName(m, u)}`)));
       const end = fit.domain[1];
-      g.append(svg('text', { x: x(end) + 4, y: y(evaluateUnchecked(fit, end)) + 4, class: 'curve-label' }, memberName(m, u)));
+      labels.push({ x: x(end) + 4, y: y(evaluateUnchecked(fit, end)) + 4, text: memberName(m, u) });
     });
+    for (const l of spreadLabels(labels, 11)) g.append(svg('text', { x: l.x, y: l.y, class: 'curve-label' }, l.text));
     if (q === 'head') {
       for (const m of members) {
         const bep = m.derived.bep;
@@ -112,4 +114,19 @@ export function familyChart(set: CurveSet, system: 'si' | 'us', duty?: DutyOverl
 
 function memberName(m: Member, u: ChartUnits): string {
   return m.diameter_m !== undefined ? `${num(fromSI(m.diameter_m, u.diameter), 4)} ${u.diameter.label}` : `${num(m.speed_rpm)} rpm`;
+}
+
+/**
+ * Curve-end labels that would overlap are moved apart: labels whose boxes would touch are
+ * spread vertically (at least `gap` px between baselines), keeping their order.
+ */
+export function spreadLabels(labels: readonly { x: number; y: number; text: string }[], gap: number): { x: number; y: number; text: string }[] {
+  const out = labels.map((l) => ({ ...l })).sort((a, b) => a.y - b.y);
+  for (let i = 1; i < out.length; i++) {
+    const prev = out[i - 1] as { x: number; y: number };
+    const cur = out[i] as { x: number; y: number };
+    const sideBySide = Math.abs(cur.x - prev.x) > 48;
+    if (!sideBySide && cur.y - prev.y < gap) cur.y = prev.y + gap;
+  }
+  return out;
 }

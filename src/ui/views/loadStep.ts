@@ -1,8 +1,7 @@
 /** Step 1: open a sheet (or a take-off file with its sheet), pick the page, name the pump. */
 import { h } from '../dom/h.ts';
 import type { Bench } from '../app/bench.ts';
-import { setPump, setUnits, SHEET_UNIT_SYSTEMS } from '../store/actions/setup.ts';
-import { unitText } from './words.ts';
+import { setPump } from '../store/actions/setup.ts';
 
 const ACCEPT = '.pdf,.png,.jpg,.jpeg,.json,application/pdf,image/png,image/jpeg,application/json';
 
@@ -45,19 +44,9 @@ export function loadStep(bench: Bench): HTMLElement {
       h('span', { class: 'hint' }, 'or drop the file anywhere on the window')),
     sheetLine,
     pages,
-    h('fieldset', { class: 'sheet-units' },
-      h('legend', null, 'Units on the sheet'),
-      h('div', { class: 'segmented', role: 'group', 'aria-label': 'Units the sheet is drawn in' },
-        (['si', 'us'] as const).map((sys) => {
-          const u = SHEET_UNIT_SYSTEMS[sys];
-          const on = (Object.keys(u) as (keyof typeof u)[]).every((k) => draft.units[k] === u[k]);
-          return h('button', { type: 'button', 'data-key': `units-${sys}`, 'aria-pressed': on ? 'true' : 'false', onclick: () => store.dispatch(setUnits(u)) }, `${sys.toUpperCase()}: ${unitText(u.flow)}, ${u.head}, ${u.power}, ${u.diameter}`);
-        })),
-      h('p', { class: 'hint' }, `Now: flow ${unitText(draft.units.flow)}, head ${draft.units.head}, power ${draft.units.power}, NPSH ${draft.units.npsh}, diameter ${draft.units.diameter}. Each axis can still be set on its own in step 2.`)),
     h('fieldset', { class: 'pump' },
       h('legend', null, 'Pump'),
       field('Name', h('input', { id: 'pump-name', type: 'text', value: draft.pump.name, placeholder: 'e.g. invented end-suction 4-stage', onchange: (e: Event) => store.dispatch(setPump({ name: (e.target as HTMLInputElement).value })) })),
-      field('Speed', h('input', { id: 'pump-speed', type: 'number', min: '1', step: 'any', value: String(draft.pump.speed_rpm), onchange: (e: Event) => store.dispatch(setPump({ speed_rpm: Number((e.target as HTMLInputElement).value) })) }), 'rpm'),
       field('Specific gravity', h('input', { id: 'pump-sg', type: 'number', min: '0.1', step: 'any', value: String(draft.pump.specific_gravity), onchange: (e: Event) => store.dispatch(setPump({ specific_gravity: Number((e.target as HTMLInputElement).value) })) }), 'of the liquid the sheet is drawn for')),
   );
 }

@@ -55,13 +55,12 @@ export function reviewStep(bench: Bench): HTMLElement {
     })),
     h('h4', null, 'Residuals per trace'),
     h('table', { class: 'residuals' },
-      h('thead', null, h('tr', null, h('th', { scope: 'col' }, 'Trace'), h('th', { scope: 'col' }, 'Points'), h('th', { scope: 'col' }, 'RMS'), h('th', { scope: 'col' }, 'Largest'), h('th', { scope: 'col' }, 'of span'))),
+      h('thead', null, h('tr', null, h('th', { scope: 'col' }, 'Trace'), h('th', { scope: 'col' }, 'RMS'), h('th', { scope: 'col' }, 'Largest'), h('th', { scope: 'col' }, 'Largest, % of span'))),
       h('tbody', null, draft.traces.map((t) => {
         const r = derived.residuals.get(t.id);
         const name = traceName(t, unitText(draft.units.diameter), unitText(draft.units.power));
         return h('tr', { 'data-key': `r-${t.id}`, class: session.highlightedTrace === t.id ? 'picked' : '' },
-          h('th', { scope: 'row' }, h('button', { type: 'button', class: 'link', onclick: () => bench.showTrace(t.id) }, name)),
-          h('td', null, r ? String(r.points) : '—'),
+          h('th', { scope: 'row' }, h('button', { type: 'button', class: 'link', title: r ? `${r.points} points compared with the fitted curve` : 'no fitted curve yet', onclick: () => bench.showTrace(t.id) }, name)),
           h('td', null, r ? `${num(r.rms, 2)} ${unitText(r.unit.label || r.unit.token)}` : '—'),
           h('td', null, r ? `${num(r.max, 2)} ${unitText(r.unit.label || r.unit.token)}` : '—'),
           h('td', { class: r && r.percentOfSpan > 1 ? 'warn' : '' }, r ? `${num(r.percentOfSpan, 2)} %` : '—'));

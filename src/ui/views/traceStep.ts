@@ -5,7 +5,7 @@
 import { h } from '../dom/h.ts';
 import type { Bench } from '../app/bench.ts';
 import type { Quantity } from '../../model/curveset.ts';
-import { parseDiameterList, setDiameters, setUnits } from '../store/actions/setup.ts';
+import { parseDiameterList, setDiameters, setPump, setUnits } from '../store/actions/setup.ts';
 import { EditError } from '../store/actions/action.ts';
 import { discardEdits, removeTrace, setHidden, setLocked, traceName } from '../store/actions/traces.ts';
 import { pointsOf, type TraceDraft } from '../store/draft.ts';
@@ -78,6 +78,9 @@ export function traceStep(bench: Bench): HTMLElement {
         }));
 
   return h('div', { class: 'step-body' },
+    h('div', { class: 'field' }, h('label', { for: 'pump-speed' }, 'Speed'),
+      h('input', { id: 'pump-speed', type: 'number', min: '1', step: 'any', value: String(draft.pump.speed_rpm), onchange: (e: Event) => store.dispatch(setPump({ speed_rpm: Number((e.target as HTMLInputElement).value) })) }),
+      h('span', { class: 'unit' }, 'rpm, as stated on the sheet')),
     h('div', { class: 'field' }, h('label', { for: 'diameters' }, 'Impeller diameters'), diameterInput, diameterUnit),
     h('fieldset', { class: 'next' },
       h('legend', null, 'Next click traces'),

@@ -88,3 +88,18 @@ export const SHEET_UNIT_SYSTEMS: Record<'si' | 'us', UnitsDraft> = {
   si: { flow: 'm3/h', head: 'm', power: 'kW', npsh: 'm', diameter: 'mm' },
   us: { flow: 'gpm', head: 'ft', power: 'hp', npsh: 'ft', diameter: 'in' },
 };
+
+/**
+ * The units the whole sheet is drawn in: the draft's units, and the axes of the panels
+ * drawn so far that still use the units of the previous choice.
+ */
+export const setSheetUnits = (units: UnitsDraft): Action => (draft) => {
+  const old = draft.units;
+  const swap = (token: string, pairs: [string, string][]) => pairs.find(([from]) => from === token)?.[1] ?? token;
+  const panels = draft.panels.map((p) => {
+    const y = p.plots === 'head' ? swap(p.units.y, [[old.head, units.head]]) : p.plots === 'npshr' ? swap(p.units.y, [[old.npsh, units.npsh]]) : p.plots === 'power' ? swap(p.units.y, [[old.power, units.power]]) : p.units.y;
+    return { ...p, units: { x: swap(p.units.x, [[old.flow, units.flow]]), y } };
+  });
+  if (JSON.stringify(units) === JSON.stringify(old) && JSON.stringify(panels) === JSON.stringify(draft.panels)) return null;
+  return edited({ ...draft, units: { ...units }, panels }, 'change the units of the sheet');
+};
