@@ -140,7 +140,7 @@ interface Pick {
   clean: boolean;
 }
 
-function chooseOffset(runs: Run[], style: LineStyle, allowed: number, pick: Pick): 'found' | 'ambiguous' | undefined {
+function chooseOffset(runs: readonly Run[], style: LineStyle, allowed: number, pick: Pick): 'found' | 'ambiguous' | undefined {
   let first = Infinity;
   let firstOffset = 0;
   let firstClean = false;
@@ -150,28 +150,34 @@ function chooseOffset(runs: Run[], style: LineStyle, allowed: number, pick: Pick
   const hi = style.massRange[1] * style.width;
   const cleanHi = Math.min(hi, 1.2 * style.width);
   const half = style.width / 2;
-  const consider = (offset: number, clean: boolean) => {
-    const d = Math.abs(offset);
-    if (d < first) {
-      second = first;
-      first = d;
-      firstOffset = offset;
-      firstClean = clean;
-    } else if (d < second) {
-      second = d;
-    }
-  };
+  // Up to two candidates a run: its centroid, or the two edge-derived positions of a merge.
   for (const run of runs) {
     if (run.mass < lo) continue;
+    let a: number;
+    let b = Number.NaN;
+    let clean = false;
     if (run.mass > hi) {
       if (run.start - allowed <= 0 && run.end + allowed >= 0) covered = true;
-      if (run.mass <= 2.2 * style.width) {
-        consider(run.lowEdge + half, false);
-        consider(run.highEdge - half, false);
-      }
-      continue;
+      if (run.mass > 2.2 * style.width) continue;
+      a = run.lowEdge + half;
+      b = run.highEdge - half;
+    } else {
+      a = run.centre;
+      clean = run.mass <= cleanHi;
     }
-    consider(run.centre, run.mass <= cleanHi);
+    for (let k = 0; k < 2; k++) {
+      const offset = k === 0 ? a : b;
+      if (Number.isNaN(offset)) continue;
+      const d = Math.abs(offset);
+      if (d < first) {
+        second = first;
+        first = d;
+        firstOffset = offset;
+        firstClean = clean;
+      } else if (d < second) {
+        second = d;
+      }
+    }
   }
   // Ink of the line's kind in view but away from the prediction (a neighbouring line of a
   // bundle) counts as other ink too, not as an empty gap.
@@ -281,6 +287,7 @@ export function followLine(
   const points = [x, y];
   const clean = [true];
   const pick: Pick = { offset: 0, clean: false };
+  const runs: Run[] = [];
   const track = [x, y];
   const trackPoints = [1];
   const merges: number[] = [];
@@ -339,7 +346,7 @@ export function followLine(
     } else {
       const n = Math.min(maxN, Math.ceil((half + extra) / spacing));
       sampleSection(image, style.model, qx, qy, nx, ny, n, spacing, section, counter);
-      choice = chooseOffset(findRuns(section, n, spacing, style.threshold), style, accept + extra, pick);
+      choice = chooseOffset(findRuns(section, n, spacing, style.threshold, runs), style, accept + extra, pick);
     }
     if (choice === 'ambiguous' || (choice === 'found' && !pick.clean)) {
       if (disturbedAt < 0) {

@@ -78,12 +78,14 @@ export function sampleSection(
 }
 
 /**
- * Splits a sampled section into runs where membership ≥ threshold. Each run also takes in the
+ * Splits a sampled section into runs where membership ≥ threshold (into `runs`, whose
+ * objects are reused, when given). Each run also takes in the
  * samples just outside it (the anti-aliased fringe below the threshold) so that its centroid
  * and mass do not depend on where the threshold cuts.
  */
-export function findRuns(values: Float64Array, n: number, spacing: number, threshold: number): Run[] {
-  const runs: Run[] = [];
+export function findRuns(values: Float64Array, n: number, spacing: number, threshold: number, runs: Run[] = []): Run[] {
+  // `runs` may be handed in again and again by a caller in a loop: its objects are reused.
+  let used = 0;
   const count = 2 * n + 1;
   let k = 0;
   while (k < count) {
@@ -111,16 +113,17 @@ export function findRuns(values: Float64Array, n: number, spacing: number, thres
     while (b > lo && (values[b] as number) < half) b--;
     const lowEdge = a > lo ? a - 1 + (half - (values[a - 1] as number)) / ((values[a] as number) - (values[a - 1] as number)) : a;
     const highEdge = b < hi ? b + ((values[b] as number) - half) / ((values[b] as number) - (values[b + 1] as number)) : b;
-    runs.push({
-      centre: (moment / mass) * spacing,
-      mass: mass * spacing,
-      start: (k - n) * spacing,
-      end: (end - n) * spacing,
-      lowEdge: (lowEdge - n) * spacing,
-      highEdge: (highEdge - n) * spacing,
-    });
+    const run = runs[used] ?? { centre: 0, mass: 0, start: 0, end: 0, lowEdge: 0, highEdge: 0 };
+    run.centre = (moment / mass) * spacing;
+    run.mass = mass * spacing;
+    run.start = (k - n) * spacing;
+    run.end = (end - n) * spacing;
+    run.lowEdge = (lowEdge - n) * spacing;
+    run.highEdge = (highEdge - n) * spacing;
+    runs[used++] = run;
     k = end + 1;
   }
+  runs.length = used;
   return runs;
 }
 
