@@ -8,7 +8,8 @@
  *   whole replay end to end (`replayTakeoff` after loading, as `pumpscribe takeoff` runs it);
  * - for scans: all raster trace time against one bare pass over the page's pixels (each pixel's
  *   RGBA read once), decoding excluded.
- * Timings are medians of three warm runs; the machines are shared, so expect some spread.
+ * Timings are medians of warm runs (three for the stages, seven for the trace ratio); the
+ * machines are shared, so expect some spread.
  */
 import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -123,10 +124,10 @@ async function benchSheet(dir: string, name: string): Promise<void> {
     const pixels = image.width * image.height;
     // Trace time alone, the way the capture stage spends it, for the ratio.
     const traceOnly: number[] = [];
-    for (let i = 0; i < 3; i++) {
+    for (let i = 0; i < 8; i++) {
       const t0 = performance.now();
       for (const t of takeoff.traces) if (t.guides) traceRaster(image, t.guides.map(([x, y]) => sheetPoint(x, y)));
-      traceOnly.push(performance.now() - t0);
+      if (i > 0) traceOnly.push(performance.now() - t0); // the first round warms up
     }
     const b = median(bare);
     const tr = median(traceOnly);

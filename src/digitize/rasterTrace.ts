@@ -279,6 +279,13 @@ export function dropOutliers(path: readonly Px[], window: number, limit: number)
  */
 export function dropIslands(path: readonly Px[], step: number, width: number): Px[] {
   const gap = 2.5 * step;
+  let gaps = 0;
+  for (let i = 1; i < path.length && gaps < 2; i++) {
+    const a = path[i - 1] as Px;
+    const b = path[i] as Px;
+    if (Math.hypot(b[0] - a[0], b[1] - a[1]) > gap) gaps++;
+  }
+  if (gaps < 2) return [...path]; // an island needs a gap on each side
   const stretches: Px[][] = [];
   for (const p of path) {
     const current = stretches[stretches.length - 1];
