@@ -5,9 +5,10 @@
  *   npx tsx scripts/make-sheets.ts --set all --out DIR   every layout, ink, unit system and fault, vector and scan
  *   npx tsx scripts/make-sheets.ts --out DIR --name my-sheet --system si --layout panels --ink black \
  *       [--labels-on-lines] [--fault announced-diameter|power-high] \
- *       [--scan --dpi 300 --rotate 1 --noise 6 --blur 0.7 --quality 85] [--seed 3]
+ *       [--scan [--pdf] --dpi 300 --rotate 1 --noise 6 --blur 0.7 --quality 85] [--seed 3]
  *
- * Each sheet gets <name>.pdf (or .jpg/.png for a scan), <name>.takeoff.json and <name>.truth.json.
+ * Each sheet gets <name>.pdf (or .jpg for a scan; .pdf again for a scan put into a PDF),
+ * <name>.takeoff.json and <name>.truth.json.
  */
 import { Command, InvalidArgumentError } from 'commander';
 import { writeSheet, type Variant } from './sheets/makeSheet.ts';
@@ -39,6 +40,7 @@ const program = new Command('make-sheets')
   .option('--labels-on-lines', 'put the power curves\u2019 diameter labels on the lines, interrupting them')
   .option('--fault <fault>', 'announced-diameter (the third diameter labelled about 5 % large) or power-high (one power curve 9 % high)', oneOf('fault', ['announced-diameter', 'power-high'] as const))
   .option('--scan', 'write a scan (JPEG) instead of a vector PDF')
+  .option('--pdf', 'with --scan: put the scan into a one-page PDF (a raster PDF)')
   .option('--dpi <dpi>', 'scan resolution', number('dpi', 50, 600), 200)
   .option('--rotate <degrees>', 'scan rotation', number('rotate', -10, 10), 1)
   .option('--noise <levels>', 'scan noise, standard deviation in grey levels', number('noise', 0, 60), 6)
@@ -51,7 +53,7 @@ const program = new Command('make-sheets')
       variants = [
         {
           spec: { name: o.name, system: o.system, layout: o.layout, ink: o.ink, labelsOnLines: Boolean(o.labelsOnLines), seed: o.seed, ...(o.fault ? { fault: o.fault } : {}) },
-          ...(o.scan ? { scan: { dpi: o.dpi, rotationDeg: o.rotate, noise: o.noise, blur: o.blur, jpegQuality: o.quality, seed: o.seed } } : {}),
+          ...(o.scan ? { scan: { dpi: o.dpi, rotationDeg: o.rotate, noise: o.noise, blur: o.blur, jpegQuality: o.quality, seed: o.seed }, container: o.pdf ? 'pdf' : 'image' } : {}),
         },
       ];
     } else {

@@ -4,6 +4,7 @@
  */
 import { mkdirSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
+import { PDFDocument } from 'pdf-lib';
 import { Takeoff, type TakeoffInput } from '../../src/model/takeoff.ts';
 import { layoutSheet, toSheetXY, type Layout, type SheetSpec } from './layout.ts';
 import { drawingToPdf } from './renderPdf.ts';
@@ -14,6 +15,8 @@ export interface Variant {
   spec: SheetSpec;
   /** Absent for a vector PDF. */
   scan?: ScanSpec;
+  /** 'pdf' puts the scan into a one-page PDF (a raster PDF, as office scanners write them). */
+  container?: 'image' | 'pdf';
 }
 
 export interface GeneratedSheet {
@@ -64,6 +67,19 @@ function takeoffFor(layout: Layout, sheetFile: string, map: (p: readonly [number
   return takeoff;
 }
 
+/** A one-page PDF whose page is the scanned picture, edge to edge. */
+async function scanToPdf(bytes: Uint8Array, format: 'jpeg' | 'png', width: number, height: number): Promise<Uint8Array> {
+  const doc = await PDFDocument.create();
+  doc.setTitle('Invented demo pump \u2014 not a real product (scan)');
+  doc.setProducer('Pumpscribe sample generator');
+  doc.setCreationDate(new Date(Date.UTC(2024, 0, 1)));
+  doc.setModificationDate(new Date(Date.UTC(2024, 0, 1)));
+  const page = doc.addPage([width, height]);
+  const picture = format === 'jpeg' ? await doc.embedJpg(bytes) : await doc.embedPng(bytes);
+  page.drawImage(picture, { x: 0, y: 0, width, height });
+  return doc.save({ useObjectStreams: false });
+}
+
 /** Generates one sample in memory. */
 export async function makeSheet(variant: Variant): Promise<GeneratedSheet> {
   const layout = layoutSheet(variant.spec);
@@ -81,8 +97,23 @@ export async function makeSheet(variant: Variant): Promise<GeneratedSheet> {
     };
   }
   const scan = renderScan(layout.drawing, variant.scan);
-  const sheetFile = `${name}.${scan.format === 'jpeg' ? 'jpg' : 'png'}`;
   const geometry = scanGeometry(layout.drawing, variant.scan);
+  if (variant.container === 'pdf') {
+    // The scan fills a page of the drawing's size: sheet units are points again, pixel / scale.
+    const sheetFile = `${name}.pdf`;
+    const [a, b, c, d, e, f] = scanMatrix(geometry);
+    const k = 1 / geometry.scale;
+    const matrix: Truth['matrix'] = [a * k, b * k, c * k, d * k, e * k, f * k];
+    const map = (p: readonly [number, number]): [number, number] => [matrix[0] * p[0] + matrix[2] * p[1] + matrix[4], matrix[1] * p[0] + matrix[3] * p[1] + matrix[5]];
+    return {
+      layout,
+      sheetFile,
+      sheetBytes: await scanToPdf(scan.bytes, scan.format, geometry.width / geometry.scale, geometry.height / geometry.scale),
+      takeoff: takeoffFor(layout, sheetFile, map, 3),
+      truth: buildTruth(layout, sheetFile, 'raster-pdf', matrix, variant.scan),
+    };
+  }
+  const sheetFile = `${name}.${scan.format === 'jpeg' ? 'jpg' : 'png'}`;
   const matrix = scanMatrix(geometry);
   const map = (p: readonly [number, number]): [number, number] => [matrix[0] * p[0] + matrix[2] * p[1] + matrix[4], matrix[1] * p[0] + matrix[3] * p[1] + matrix[5]];
   return {

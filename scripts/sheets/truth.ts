@@ -25,7 +25,7 @@ export interface Truth {
   version: 1;
   invented: string;
   sheet: string;
-  kind: 'vector-pdf' | 'image';
+  kind: 'vector-pdf' | 'raster-pdf' | 'image';
   spec: SheetSpec;
   scan: ScanSpec | null;
   /** Sheet points of the drawing → coordinates of the sheet file: x' = a·x + c·y + e, y' = b·x + d·y + f. */

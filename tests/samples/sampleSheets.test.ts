@@ -45,7 +45,7 @@ describe('committed sample sheets', () => {
   });
 
   it('consistent samples pass the checks', async () => {
-    for (const name of ['us-iso-colour', 'si-panels-black', 'us-iso-black-scan', 'si-panels-colour-scan']) {
+    for (const name of ['us-iso-colour', 'si-panels-black', 'us-iso-black-scan', 'si-panels-colour-scan', 'us-iso-colour-scan-pdf']) {
       const set = await replay(name);
       expect(set.findings.filter((f) => f.severity === 'fail').map((f) => f.message), name).toEqual([]);
     }
