@@ -19,7 +19,15 @@ const DIR = join(import.meta.dirname, '..', '..', 'samples', 'sheets');
 const json = (name: string) => JSON.parse(readFileSync(join(DIR, name), 'utf8')) as unknown;
 const sha = (bytes: Uint8Array) => createHash('sha256').update(bytes).digest('hex');
 
-async function replay(name: string) {
+const replays = new Map<string, ReturnType<typeof replayOnce>>();
+const replay = (name: string) => {
+  // Each sample is replayed once and shared by the tests below.
+  let p = replays.get(name);
+  if (!p) replays.set(name, (p = replayOnce(name)));
+  return p;
+};
+
+async function replayOnce(name: string) {
   const takeoff = parseTakeoff(json(`${name}.takeoff.json`));
   const sheet = await loadSheetFileNode(join(DIR, takeoff.sheet));
   try {
