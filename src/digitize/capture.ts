@@ -42,7 +42,7 @@ export interface CaptureResult {
 export interface CaptureOptions {
   vector?: VectorCaptureOptions;
   raster?: RasterTraceOptions;
-  /** Sheet units between resampled points of a vector capture (default 2). */
+  /** Sheet units between resampled points (default 2 for a PDF page, 6 pixels for an image). */
   spacing?: number;
 }
 
@@ -56,10 +56,13 @@ export async function captureTrace(request: CaptureRequest, source: CaptureSourc
     throw new CaptureError(`The sheet is ${source.kind === 'image' ? 'an image' : 'a scanned PDF page'} without drawn paths; capture this trace from the picture (method "raster" or "auto").`);
   }
   const notes: string[] = [];
+  // Thinned raster polylines and vector paths alike are resampled evenly, so a fit weighs
+  // every part of the curve the same and does not drop to a lower degree for want of points.
+  const spacing = options.spacing ?? (source.kind === 'image' ? 6 : 2);
   if (vectorPage && method !== 'raster') {
     try {
       const got = captureVector(await source.lines(), guides, { ...options.vector, wholeLine: request.extent === 'line' });
-      const vector: CaptureResult = { points: evenly(got.points, options.spacing ?? 2), how: 'vector', notes, lost: [] };
+      const vector: CaptureResult = { points: evenly(got.points, spacing), how: 'vector', notes, lost: [] };
       if (!got.gridLike || method === 'vector') return vector;
       // Pump curves are never level or upright straight lines: the guides more likely sit on a
       // curve inside a picture, drawn over by the page's grid. Follow it on a rendering.
@@ -67,7 +70,7 @@ export async function captureTrace(request: CaptureRequest, source: CaptureSourc
         const traced = traceRaster(await source.raster(), guides, options.raster);
         if (traced.lost.length === 0 && traced.points.length >= 2) {
           notes.push('The only drawn path near the guides was a grid or frame line; the line was followed on a rendering instead.');
-          return { points: traced.points, how: 'raster', notes, lost: [] };
+          return { points: evenly(traced.points, spacing), how: 'raster', notes, lost: [] };
         }
       } catch {
         // Nothing better on the rendering: keep the drawn line.
@@ -81,10 +84,10 @@ export async function captureTrace(request: CaptureRequest, source: CaptureSourc
   }
   const traced = traceRaster(await source.raster(), guides, options.raster);
   for (const l of traced.lost) notes.push(`The line was lost near (${l.at[0].toFixed(1)}, ${l.at[1].toFixed(1)}) between guides ${l.between[0]} and ${l.between[1]}: ${l.reason}.`);
-  return { points: traced.points, how: 'raster', notes, lost: traced.lost };
+  return { points: traced.lost.length ? traced.points : evenly(traced.points, spacing), how: 'raster', notes, lost: traced.lost };
 }
 
-/** Resamples a vector capture evenly (a point every `spacing` sheet units, at least 30), so fits weigh the curve evenly. */
+/** Resamples a capture evenly (a point every `spacing` sheet units, at least 30), so fits weigh the curve evenly. */
 function evenly(points: SheetPoint[], spacing: number): SheetPoint[] {
   if (points.length < 2) return points;
   const length = arcLengths(points).at(-1) as number;
