@@ -100,17 +100,8 @@ export function alongPolyline(points: ReadonlyArray<readonly [number, number]>, 
   return [last[0], last[1]];
 }
 
-/** Deterministic pseudo-random numbers (mulberry32), so that generated sheets are reproducible. */
-export function seededRandom(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+/** Deterministic pseudo-random numbers, so that generated sheets are reproducible. */
+export { seededRandom } from '../../src/demo/random.ts';
 
 /** Standard normal deviate from a uniform source (Box–Muller). */
 export function gaussian(random: () => number): number {

@@ -191,28 +191,35 @@ function blendDerived(a: Member['derived'], b: Member['derived'], w: number): Me
  */
 export function trimByParabola(fullHead: PolynomialFit, fullDiameter_m: number, dutyFlow_m3s: number, dutyHead_m: number): { diameter_m: number; crossingFlow_m3s: number } | undefined {
   if (!(dutyFlow_m3s > 0) || !(dutyHead_m > 0)) return undefined;
-  const c = dutyHead_m / (dutyFlow_m3s * dutyFlow_m3s);
-  const g = (q: number) => evaluateUnchecked(fullHead, q) - c * q * q;
-  const [lo, hi] = fullHead.domain;
-  const n = 400;
-  let prevQ = lo;
-  let prevG = g(lo);
-  for (let k = 1; k <= n; k++) {
-    const q = lo + ((hi - lo) * k) / n;
-    const gq = g(q);
-    if (prevG >= 0 && gq <= 0) {
-      let a = prevQ;
-      let b = q;
-      for (let it = 0; it < 80; it++) {
-        const m = 0.5 * (a + b);
-        if (g(m) >= 0) a = m; else b = m;
+  const cross = parabolaCrossing(fullHead, dutyHead_m / (dutyFlow_m3s * dutyFlow_m3s));
+  if (cross === undefined || !(cross > 0)) return undefined;
+  const diameter_m = (fullDiameter_m * dutyFlow_m3s) / cross;
+  return diameter_m <= fullDiameter_m * (1 + 1e-9) ? { diameter_m, crossingFlow_m3s: cross } : undefined;
+}
+
+/**
+ * Flow where a head curve meets the affinity parabola H = c·Q², searched inside the fit's
+ * domain from low flow up (the first crossing from above), or undefined.
+ */
+export function parabolaCrossing(fit: Pick<PolynomialFit, 'coefficients' | 'flow_scale' | 'domain'>, c: number, samples = 400): number | undefined {
+  const [lo, hi] = fit.domain;
+  const g = (q: number) => evaluateUnchecked(fit, q) - c * q * q;
+  let a = lo;
+  let ga = g(lo);
+  for (let i = 1; i <= samples; i++) {
+    const b = lo + ((hi - lo) * i) / samples;
+    const gb = g(b);
+    if (ga >= 0 && gb <= 0) {
+      let x = a;
+      let y = b;
+      for (let k = 0; k < 80; k++) {
+        const m = 0.5 * (x + y);
+        if (g(m) >= 0) x = m; else y = m;
       }
-      const cross = 0.5 * (a + b);
-      const diameter_m = (fullDiameter_m * dutyFlow_m3s) / cross;
-      return diameter_m <= fullDiameter_m * (1 + 1e-9) ? { diameter_m, crossingFlow_m3s: cross } : undefined;
+      return 0.5 * (x + y);
     }
-    prevQ = q;
-    prevG = gq;
+    a = b;
+    ga = gb;
   }
   return undefined;
 }

@@ -19,6 +19,7 @@
  * The worst member beyond the fail limit is flagged, set aside, and the rest re-judged.
  */
 import type { CurveSet, Finding, Member, PolynomialFit } from '../../model/curveset.ts';
+import { parabolaCrossing } from '../affinity.ts';
 import { evaluateUnchecked, inDomain } from '../polynomial.ts';
 import type { Display } from './display.ts';
 import { makeFinding } from './finding.ts';
@@ -54,31 +55,6 @@ const median = (xs: number[]) => {
   const m = s.length >> 1;
   return s.length % 2 ? (s[m] as number) : 0.5 * ((s[m - 1] as number) + (s[m] as number));
 };
-
-/** Flow on `fit` where it meets the parabola H = c·Q², searched inside the fit's domain. */
-function parabolaCrossing(fit: PolynomialFit, c: number): number | undefined {
-  const [lo, hi] = fit.domain;
-  const g = (q: number) => evaluateUnchecked(fit, q) - c * q * q;
-  const n = 200;
-  let a = lo;
-  let ga = g(lo);
-  for (let i = 1; i <= n; i++) {
-    const b = lo + ((hi - lo) * i) / n;
-    const gb = g(b);
-    if (ga >= 0 && gb <= 0) {
-      let x = a;
-      let y = b;
-      for (let k = 0; k < 60; k++) {
-        const m = 0.5 * (x + y);
-        if (g(m) >= 0) x = m; else y = m;
-      }
-      return 0.5 * (x + y);
-    }
-    a = b;
-    ga = gb;
-  }
-  return undefined;
-}
 
 /** Predicts member k's head curve from member j and compares them. */
 export function comparePair(k: Sized, j: Sized): PairComparison | undefined {
