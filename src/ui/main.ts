@@ -30,9 +30,17 @@ async function showWorkbench(): Promise<void> {
   bench = new Workbench(benchRoot);
   const saved = await bench.flow.offerRestore();
   if (saved) {
-    const banner = restoreBanner(bench, saved);
+    const wb = bench;
+    const banner = restoreBanner(wb, saved);
     document.body.append(banner);
     (banner.querySelector('#restore-yes') as HTMLButtonElement | null)?.focus();
+    // Opening another sheet answers the question: the offer goes away.
+    const stop = wb.store.subscribe(() => {
+      if (wb.store.draft.sheet && banner.isConnected && !wb.flow.restoring) {
+        banner.remove();
+        stop();
+      }
+    });
   }
 }
 

@@ -12,10 +12,11 @@ import { efficiency, head, npshr, power, type Family } from '../../scripts/sheet
 interface SampleAnchor { at: [number, number]; x?: number; y?: number }
 interface SamplePanel { id: string; anchors: SampleAnchor[] }
 interface SampleTrace { id?: string; panel: string; quantity: 'head' | 'efficiency' | 'power' | 'npshr'; diameter?: number; iso?: number; guides?: [number, number][] }
+interface TruthIso { id: string; iso: number; crossings: { drawn_diameter: number; flow: number; head: number }[] }
 interface TruthCurve { id: string; panel: string; quantity: SampleTrace['quantity']; diameter: number; drawn_diameter: number; factor: number; flow_range: [number, number] }
 export interface Sample {
   sheetPath: string;
-  truth: { family: Family; curves: TruthCurve[] } | null;
+  truth: { family: Family; curves: TruthCurve[]; isos: TruthIso[]; panels: { id: string; y: { min: number; max: number } }[] } | null;
   takeoff: { pump: { speed_rpm: number }; units: Record<string, string>; panels: SamplePanel[]; traces: SampleTrace[] };
 }
 
@@ -33,15 +34,16 @@ const VALUE: Record<SampleTrace['quantity'], (f: Family, d: number, q: number) =
  * sheet's true curve, through the panel calibration just set), at the flow where it runs
  * farthest from the other curves of its panel.
  */
-async function onTheLine(page: Page, sample: Sample, t: SampleTrace): Promise<{ g: [number, number]; d: number } | null> {
+async function onTheLine(page: Page, sample: Sample, t: SampleTrace, within: [number, number] = [0.1, 0.9]): Promise<{ g: [number, number]; d: number } | null> {
   const truth = sample.truth;
+  if (t.iso !== undefined) return onTheIsoLine(page, sample, t);
   const curve = truth?.curves.find((c) => c.panel === t.panel && c.quantity === t.quantity && c.diameter === t.diameter);
   if (!truth || !curve) return null;
   const neighbours = truth.curves.filter((c) => c.panel === t.panel && c !== curve);
   const panelId = await state<string>(page, `wb.store.draft.panels.find(p => p.plots === ${JSON.stringify(t.quantity)})?.id`);
   const data = (c: TruthCurve, q: number): [number, number] => [q, c.factor * VALUE[c.quantity](truth.family, c.drawn_diameter, q)];
   const [q0, q1] = curve.flow_range;
-  const flows = Array.from({ length: 25 }, (_, i) => q0 + ((q1 - q0) * (0.1 + 0.8 * (i / 24))));
+  const flows = Array.from({ length: 25 }, (_, i) => q0 + (q1 - q0) * (within[0] + (within[1] - within[0]) * (i / 24)));
   const ask = flows.map((q) => [data(curve, q), ...neighbours.filter((n) => q >= n.flow_range[0] && q <= n.flow_range[1]).map((n) => data(n, q))]);
   const sheet = await page.evaluate(({ id, ask }) => {
     const wb = (window as unknown as { pumpscribe: () => { derived: { calibrations: Map<string, { ok: boolean; calibration: { toSheet(d: [number, number]): [number, number] } }> } } }).pumpscribe();
@@ -100,7 +102,17 @@ export interface FlowResult {
 }
 
 /** Runs the five steps on a sample; returns what was counted and where the files went. */
-export async function runTakeoff(page: Page, url: string, sample: Sample, artifacts: string, options: { reloadMidway?: (user: User) => Promise<void> } = {}): Promise<FlowResult> {
+export interface FlowOptions {
+  reloadMidway?: (user: User) => Promise<void>;
+  /**
+   * How curves are clicked on a scan: 'guides' places the sample's own guides (one click, then
+   * Shift-click each further one); 'line' clicks once exactly on the true line. Vector sheets
+   * are always clicked once on the line.
+   */
+  scanClicks?: 'guides' | 'line';
+}
+
+export async function runTakeoff(page: Page, url: string, sample: Sample, artifacts: string, options: FlowOptions = {}): Promise<FlowResult> {
   const user = new User(page, artifacts);
   const shots: string[] = [];
   await page.goto(url);
@@ -115,6 +127,8 @@ export async function runTakeoff(page: Page, url: string, sample: Sample, artifa
   const drawnIn = await state<Record<string, string>>(page, 'wb.store.draft.units');
   shots.push(await user.screenshot('1-sheet-loaded'));
 
+  const vector = await state<boolean>(page, "wb.sheet && wb.sheet.loadedKind === 'vector-pdf'");
+
   // 2. Set the axes, panel by panel.
   if (!(await page.locator('#step-axes-body').isVisible())) await user.click(page.locator('#step-axes'), 'step 2');
   if (units.flow === 'gpm' && drawnIn.flow !== 'gpm') {
@@ -124,7 +138,6 @@ export async function runTakeoff(page: Page, url: string, sample: Sample, artifa
     const plots = PANEL_PLOTS[panel.id] ?? 'head';
     const framePlots = await state<string>(page, 'wb.store.session.framePlots');
     const drawing = await state<boolean>(page, 'wb.store.session.drawingFrame');
-    const vector = await state<boolean>(page, "wb.sheet && wb.sheet.loadedKind === 'vector-pdf'");
     // On a vector sheet the title beside the frame names the panel; on a scan, choose it.
     if (!drawing || (!vector && framePlots !== plots)) {
       await user.click(page.getByRole('group', { name: 'What the new panel plots' }).getByRole('button', { name: PLOTS_BUTTON[plots] as string, exact: true }), `new ${plots} panel`);
@@ -187,12 +200,17 @@ export async function runTakeoff(page: Page, url: string, sample: Sample, artifa
       const willBe = now.quantity === t.quantity ? now.diameter : await state<number | undefined>(page, `wb.store.draft.diameters.find(d => !wb.store.draft.traces.some(x => x.quantity === ${JSON.stringify(t.quantity)} && x.iso === undefined && x.diameter === d))`);
       if (willBe !== t.diameter) await user.click(page.getByRole('group', { name: 'Diameter to trace next' }).getByRole('button', { name: new RegExp(`^${t.diameter} `) }), `diameter ${t.diameter}`);
     }
-    // Like an engineer, click the line where it runs clear of the lines already traced.
-    const clear = (t.iso === undefined ? await onTheLine(page, sample, t) : null) ?? (await clearestGuide(page, t.guides ?? []));
+    // On a vector sheet one click on the line captures it exactly: click where it runs clear of
+    // the lines already traced. On a scan, place the guides the sample's author placed (one
+    // click, then Shift-click for each further guide), so the tracer is steadied as intended.
+    const sampleGuides = t.guides ?? [];
+    const once = vector || options.scanClicks === 'line';
+    const clear = once ? ((await onTheLine(page, sample, t)) ?? (await clearestGuide(page, sampleGuides))) : await clearestGuide(page, sampleGuides);
     if (!clear) continue;
     const guide = clear.g;
     const zoom = await state<number>(page, 'wb.canvas.currentView.zoom');
-    if (clear.d * zoom < 9) {
+    // Traced lines catch a click within 4 screen pixels: closer than twice that, zoom in first.
+    if ((await distanceToTraced(page, guide)) * zoom < 8) {
       await user.zoomAt(guide, `near ${t.quantity} ${t.diameter ?? t.iso}`);
       zoomedIn = true;
     } else if (zoomedIn) {
@@ -208,6 +226,12 @@ export async function runTakeoff(page: Page, url: string, sample: Sample, artifa
     const error = await page.$eval('#message', (el) => (el.classList.contains('error') ? el.textContent : null));
     if (error) throw new Error(`Tracing ${t.id ?? t.quantity} failed: ${error}`);
     await settle(page);
+    if (!once) {
+      for (const g of sampleGuides.filter((x) => x !== guide)) {
+        await user.clickSheet(g, `another guide on ${t.quantity} ${t.diameter ?? t.iso}`, { shift: true });
+        await settle(page);
+      }
+    }
     if (n === 0) shots.push(await user.screenshot('3-first-trace'));
     if (!reloaded && options.reloadMidway && n === Math.floor(traces.length / 2)) {
       reloaded = true;
@@ -220,7 +244,10 @@ export async function runTakeoff(page: Page, url: string, sample: Sample, artifa
   // 4. Review.
   await user.click(page.locator('#step-review'), 'step 4');
   await settle(page);
-  await page.waitForSelector('.family-chart', { timeout: 60_000 });
+  await page.waitForSelector('.family-chart', { timeout: 60_000 }).catch(async () => {
+    await user.screenshot('failed');
+    throw new Error(`The review shows no family chart: ${await state<string>(page, 'wb.derived.problem')}`);
+  });
   shots.push(await user.screenshot('4-review'));
   const findings = await page.locator('.findings .finding-text').allTextContents();
   const linked = page.locator('.findings button.finding-text').first();
@@ -244,6 +271,50 @@ export async function runTakeoff(page: Page, url: string, sample: Sample, artifa
   if (!existsSync(sheetCopy)) copyFileSync(sample.sheetPath, sheetCopy);
   const longTasks = await page.evaluate(() => (window as unknown as { __longTasks: { start: number; duration: number }[] }).__longTasks);
   return { actions: user.actions, log: user.log, screenshots: shots, downloads: files as FlowResult['downloads'], findings, longTasks, traceWindow: [t0, t1] };
+}
+
+/** A point on an iso-line halfway between two of its crossings with head curves, clear of traced lines. */
+async function onTheIsoLine(page: Page, sample: Sample, t: SampleTrace): Promise<{ g: [number, number]; d: number } | null> {
+  const iso = sample.truth?.isos.find((i) => i.id === t.id);
+  if (!iso || iso.crossings.length < 2) return null;
+  const mids: [number, number][] = [];
+  // Between a crossing and the nearest crossing (in flow) on the next head curve, the line runs
+  // nearly straight; across a closing loop it does not, so those pairs are not used.
+  const diameters = [...new Set(iso.crossings.map((c) => c.drawn_diameter))].sort((x, y) => y - x);
+  for (const a of iso.crossings) {
+    const next = diameters[diameters.indexOf(a.drawn_diameter) + 1];
+    const b = iso.crossings.filter((c) => c.drawn_diameter === next).sort((x, y) => Math.abs(x.flow - a.flow) - Math.abs(y.flow - a.flow))[0];
+    if (b) mids.push([(a.flow + b.flow) / 2, (a.head + b.head) / 2]);
+  }
+  if (mids.length === 0) return null;
+  const panelId = await state<string>(page, `wb.store.draft.panels.find(p => p.plots === 'head')?.id`);
+  const points = await page.evaluate(({ id, mids }) => {
+    const wb = (window as unknown as { pumpscribe: () => { derived: { calibrations: Map<string, { ok: boolean; calibration: { toSheet(d: [number, number]): [number, number] } }> } } }).pumpscribe();
+    const cal = wb.derived.calibrations.get(id);
+    return cal?.ok ? mids.map((m) => { const p = cal.calibration.toSheet(m); return [p[0], p[1]] as [number, number]; }) : null;
+  }, { id: panelId, mids });
+  return points ? clearestGuide(page, points) : null;
+}
+
+/** Distance from a sheet point to the nearest traced line (its polyline, not only its points). */
+async function distanceToTraced(page: Page, at: [number, number]): Promise<number> {
+  return page.evaluate(([x, y]) => {
+    const wb = (window as unknown as { pumpscribe: () => { store: { draft: { traces: { points?: [number, number][]; captured?: [number, number][] }[] } } } }).pumpscribe();
+    let best = Infinity;
+    for (const t of wb.store.draft.traces) {
+      const pts = t.points ?? t.captured ?? [];
+      for (let i = 0; i + 1 < pts.length; i++) {
+        const [ax, ay] = pts[i] as [number, number];
+        const [bx, by] = pts[i + 1] as [number, number];
+        const dx = bx - ax;
+        const dy = by - ay;
+        const len2 = dx * dx + dy * dy;
+        const k = len2 === 0 ? 0 : Math.max(0, Math.min(1, ((x - ax) * dx + (y - ay) * dy) / len2));
+        best = Math.min(best, Math.hypot(x - (ax + k * dx), y - (ay + k * dy)));
+      }
+    }
+    return best;
+  }, at);
 }
 
 /** The guide farthest from every point already captured (a click away from crossings). */

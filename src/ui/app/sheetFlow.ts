@@ -40,6 +40,8 @@ export class SheetFlow {
   private bytes: SheetBytes | null = null;
   /** The text layer of the chosen page (empty for scans). */
   words: TextItem[] = [];
+  /** True while autosaved work is being restored. */
+  restoring = false;
   /** True once the worker has read the chosen page (captures and snapping work from then on). */
   pageReady = false;
 
@@ -253,6 +255,7 @@ export class SheetFlow {
       this.store.say('The autosaved sheet could not be found in this browser; open the sheet again to continue.', 'error');
       return;
     }
+    this.restoring = true;
     try {
       await this.openBytes({ bytes: sheet.bytes, name: sheet.name, mime: sheet.mime, sha256: sheet.key }, { restore: saved });
       this.store.setSession({ target: saved.target });
@@ -260,6 +263,8 @@ export class SheetFlow {
     } catch (error) {
       this.progress(null);
       this.store.say(`The autosaved work could not be restored: ${(error as Error).message}`, 'error');
+    } finally {
+      this.restoring = false;
     }
   }
 

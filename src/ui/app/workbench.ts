@@ -339,8 +339,8 @@ export class Workbench implements Bench, ToolHost {
     return Math.hypot(c.snap.at[0] - at[0], c.snap.at[1] - at[1]) <= c.radius ? c.snap : null;
   }
 
-  async snapOnce(at: SheetXY): Promise<Snap | null> {
-    return this.worker.call('snap', { at: [at[0], at[1]], radius: snapRadius(this.view()) }).catch(() => null);
+  async snapOnce(at: SheetXY, radius?: number): Promise<Snap | null> {
+    return this.worker.call('snap', { at: [at[0], at[1]], radius: radius ?? snapRadius(this.view()) }).catch(() => null);
   }
 
   /** Asks the worker where `at` snaps; one request at a time, the latest position wins. */
@@ -366,6 +366,10 @@ export class Workbench implements Bench, ToolHost {
     this.store.setSession({ busy: true, progress: { label: 'Tracing…', fraction: null } });
     try {
       const answer = await this.worker.call('capture', { guides: guides.map((g) => [g[0], g[1]]), method }, (p) => this.store.setSession({ progress: { label: p.label, fraction: p.fraction } }));
+      if (answer.points.length < 2) {
+        const why = answer.gaps.length ? ` (${answer.gaps.join(' ')})` : '';
+        throw new Error(`No line could be followed from this click${why}; click right on the line, zoom in if lines run close, or add guides with Shift-click.`);
+      }
       return { points: answer.points, gaps: answer.gaps };
     } finally {
       this.store.setSession({ busy: false, progress: null });
@@ -395,6 +399,11 @@ export class Workbench implements Bench, ToolHost {
     }, () => {
       if (missing >= 0) this.focusAnchorValue(panelId, missing);
     });
+  }
+
+  flowAt(panelId: string, at: SheetXY): number | null {
+    const c = this.derived.calibrations.get(panelId);
+    return c?.ok ? c.calibration.toData(at)[0] : null;
   }
 
   guessPlots(frame: readonly [number, number, number, number]): Quantity | null {

@@ -5,26 +5,44 @@
  */
 import type { SheetXY } from '../../model/takeoff.ts';
 import type { CanvasPointer } from '../canvas/sheetCanvas.ts';
-import { addPanel, frameAnchors, nameCorners } from '../store/actions/panels.ts';
-import { anchorAxis, type Frame, type PanelDraft } from '../store/draft.ts';
-import { screenDistance, type Tool, type ToolHost } from './tool.ts';
+import { addPanel, frameAnchors, nameCorners, type FrameCorners } from '../store/actions/panels.ts';
+import { anchorAxis, type AnchorDraft, type Frame, type PanelDraft } from '../store/draft.ts';
+import { screenDistance, snapRadius, type Tool, type ToolHost } from './tool.ts';
 
 type State = { kind: 'idle' } | { kind: 'dragging'; start: SheetXY; moved: boolean } | { kind: 'second'; start: SheetXY };
 
 const PLOTS = { head: 'head', efficiency: 'efficiency', power: 'power', npshr: 'NPSHr' } as const;
 
 /**
- * x anchors of a panel that shares the flow axis with a new frame (same left and right edges
- * within 1.5 % of the width), moved down onto the new frame's bottom edge with their values.
+ * Flow values for the bottom corners of a new frame, from a panel already set that shares the
+ * flow axis (its frame spans the same width within 1.5 %): the flow that panel's calibration
+ * reads at each corner, taken as the round value of one of its anchors when within 0.5 % of
+ * the span (stacked panels usually share their end values), else as read. A scan turned by a
+ * degree moves the flow axis sideways between panels, so the values are read, not copied.
  */
-export function sharedFlowAnchors(panels: readonly PanelDraft[], frame: Frame): PanelDraft['anchors'] | null {
+export function sharedFlowAnchors(
+  panels: readonly PanelDraft[],
+  frame: Frame,
+  corners: Pick<FrameCorners, 'bottomLeft' | 'bottomRight'>,
+  flowAt: (panelId: string, at: SheetXY) => number | null,
+): AnchorDraft[] | null {
   const width = frame[2] - frame[0];
   for (const p of panels) {
     const same = Math.abs(p.frame[0] - frame[0]) <= 0.015 * width && Math.abs(p.frame[2] - frame[2]) <= 0.015 * width;
-    if (!same) continue;
-    const xs = p.anchors.filter((a) => a.x !== undefined && a.y === undefined);
-    if (xs.length < 2) continue;
-    return xs.map((a) => ({ ...a, at: [a.at[0], frame[3]] as SheetXY }));
+    const values = p.anchors.flatMap((a) => (a.x !== undefined && a.y === undefined ? [a.x] : []));
+    if (!same || values.length < 2) continue;
+    const x0 = flowAt(p.id, corners.bottomLeft);
+    const x1 = flowAt(p.id, corners.bottomRight);
+    if (x0 === null || x1 === null || x0 === x1) continue;
+    const span = Math.abs(x1 - x0);
+    const settle = (x: number) => {
+      const near = values.reduce((best, v) => (Math.abs(v - x) < Math.abs(best - x) ? v : best), values[0] as number);
+      return Math.abs(near - x) <= 0.005 * span ? near : Number(x.toPrecision(4));
+    };
+    return [
+      { at: corners.bottomLeft, label: 'x left', x: settle(x0) },
+      { at: corners.bottomRight, label: 'x right', x: settle(x1) },
+    ];
   }
   return null;
 }
@@ -103,8 +121,18 @@ export class FrameTool implements Tool {
     // The two corners not dragged to are found on the sheet too: a scan turned by a fraction
     // of a degree puts them a few pixels off the rectangle through the dragged ones.
     const guesses: SheetXY[] = [a, b, [b[0], a[1]], [a[0], b[1]]];
-    const found = this.free ? guesses.map(() => null) : await Promise.all(guesses.map((g) => this.host.snapOnce(g)));
-    const corners = nameCorners(guesses.map((g, i) => (found[i]?.what === 'crossing' ? found[i].at : g)));
+    // A turn of one degree moves a far corner by almost 2 % of the frame: search the two
+    // corners not dragged to over 4 % of the frame's diagonal.
+    const reach = Math.max(snapRadius(this.host.view()), 0.04 * Math.hypot(b[0] - a[0], b[1] - a[1]));
+    const find = async (g: SheetXY, wide: boolean): Promise<SheetXY> => {
+      const first = await this.host.snapOnce(g, wide ? reach : undefined);
+      if (!first || first.what === 'line') return g;
+      if (first.what === 'crossing') return first.at;
+      // Found from afar: look again close by, where the two lines show as a crossing.
+      const close = await this.host.snapOnce(first.at);
+      return close && close.what !== 'line' ? close.at : first.at;
+    };
+    const corners = nameCorners(this.free ? guesses : await Promise.all(guesses.map((g, i) => find(g, i >= 2))));
     const all = [corners.bottomLeft, corners.bottomRight, corners.topLeft, corners.topRight];
     const xs = all.map((p) => p[0]);
     const ys = all.map((p) => p[1]);
@@ -112,7 +140,7 @@ export class FrameTool implements Tool {
     const titled = this.host.guessPlots(frame);
     const chosen = store.session.framePlots;
     const plots = titled ?? chosen;
-    const shared = sharedFlowAnchors(store.draft.panels, frame);
+    const shared = sharedFlowAnchors(store.draft.panels, frame, corners, (id, at) => this.host.flowAt(id, at));
     const anchors = frameAnchors(frame, corners);
     const withShared = shared ? [...shared, ...anchors.filter((x) => anchorAxis(x) === 'y')] : anchors;
     const before = store.draft.panels.length;

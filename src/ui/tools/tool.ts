@@ -17,7 +17,7 @@ export interface ToolHost {
   /** Where a click at `at` should land; null when nothing to snap to is near. */
   snap(at: SheetXY): Promise<Snap | null>;
   /** Asks where `at` snaps, on its own (not throttled with the hover). */
-  snapOnce(at: SheetXY): Promise<Snap | null>;
+  snapOnce(at: SheetXY, radius?: number): Promise<Snap | null>;
   /** The last snap answer for a point near `at`, without waiting. */
   snapNow(at: SheetXY): Snap | null;
   setPreview(preview: Preview | null): void;
@@ -27,6 +27,8 @@ export interface ToolHost {
   capture(guides: readonly SheetXY[], method: 'auto' | 'vector' | 'raster'): Promise<{ points: SheetXY[]; gaps: string[] }>;
   /** Shows the magnifier at the pointer, marking where the click will land. */
   magnify(p: CanvasPointer, mark: SheetXY | null, snapped: boolean): void;
+  /** The flow a calibrated panel reads at a sheet point, or null when the panel is not calibrated. */
+  flowAt(panelId: string, at: SheetXY): number | null;
   /** What a frame plots, read from a title beside it on the sheet; null when nothing says. */
   guessPlots(frame: readonly [number, number, number, number]): Quantity | null;
   /** Called after a new panel frame is drawn, to propose anchors from the text layer. */

@@ -199,20 +199,27 @@ export class TraceTool implements Tool {
     this.state = { kind: 'capturing' };
     this.host.setPending([at]);
     try {
-      const { points, gaps } = await this.host.capture([at], 'auto');
+      let points: SheetXY[] = [];
+      let gaps: string[] = [];
+      let failure: string | null = null;
+      try {
+        ({ points, gaps } = await this.host.capture([at], 'auto'));
+      } catch (error) {
+        failure = (error as Error).message;
+      }
       const spec = { panel: panel.id, quantity: target.quantity, ...(target.lines === 'iso' ? { iso: target.iso as number } : { diameter: target.diameter as number }) };
       const before = this.store.draft.traces.length;
+      // The guide is kept even when no line was found from it alone: more guides may find it.
       if (this.store.dispatch(addTrace(spec, [at], points))) {
         const made = this.store.draft.traces[before];
         const next = nextTarget(this.store.draft, target);
         // The new trace is not selected for editing, so that its points do not catch the next click.
         this.store.setSession({ lastTraced: made?.id ?? null, selectedTrace: null, selectedPoint: null, target: next });
         const name = made ? traceName(made, this.store.draft.units.diameter, this.store.draft.units.power) : 'the curve';
-        if (gaps.length) this.store.say(`Traced ${name} with ${points.length} points, but ${gaps.join(' ')} Add a guide beyond the gap with Shift-click.`, 'caution');
+        if (failure) this.store.say(`${failure} The guide for ${name} is kept: Shift-click further guides along its line, or drag this guide onto it.`, 'caution');
+        else if (gaps.length) this.store.say(`Traced ${name} with ${points.length} points, but ${gaps.join(' ')} Add a guide beyond the gap with Shift-click.`, 'caution');
         else this.store.say(`Traced ${name}: ${points.length} points.`, 'done');
       }
-    } catch (error) {
-      this.store.say((error as Error).message, 'error');
     } finally {
       this.state = { kind: 'idle' };
       this.host.setPending([]);
@@ -242,7 +249,9 @@ export class TraceTool implements Tool {
       if (gaps.length) this.store.say(gaps.join(' '), 'caution');
       else this.store.say(`Re-traced: ${points.length} points.`, 'done');
     } catch (error) {
-      this.store.say((error as Error).message, 'error');
+      // The guides stay where they were placed; the points wait for a guide that finds the line.
+      this.store.dispatch(setGuides(trace.id, guides, [], label));
+      this.store.say(`${(error as Error).message} The guides are kept.`, 'caution');
     } finally {
       this.state = { kind: 'idle' };
       this.host.setPending([]);
