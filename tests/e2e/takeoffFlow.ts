@@ -110,6 +110,8 @@ export interface FlowOptions {
    * are always clicked once on the line.
    */
   scanClicks?: 'guides' | 'line';
+  /** Values for the duty check of the review, by field id, filled after the export. */
+  duty?: Record<string, string>;
 }
 
 export async function runTakeoff(page: Page, url: string, sample: Sample, artifacts: string, options: FlowOptions = {}): Promise<FlowResult> {
@@ -269,6 +271,20 @@ export async function runTakeoff(page: Page, url: string, sample: Sample, artifa
   // The take-off file refers to its sheet by name: keep a copy beside it, as the engineer would.
   const sheetCopy = join(artifacts, basename(sample.sheetPath));
   if (!existsSync(sheetCopy)) copyFileSync(sample.sheetPath, sheetCopy);
+  // After the capture: a duty on the family chart (not counted; the take-off is complete).
+  if (options.duty) {
+    await page.click('#step-review');
+    for (const [id, value] of Object.entries(options.duty)) {
+      if (id === 'duty-service') await page.selectOption(`#${id}`, value);
+      else {
+        await page.fill(`#${id}`, value);
+        await page.press(`#${id}`, 'Enter');
+      }
+    }
+    await page.waitForSelector('.duty-results', { timeout: 30_000 });
+    await page.waitForSelector('.family-chart .system-curve', { timeout: 30_000 });
+    shots.push(await user.screenshot('6-duty'));
+  }
   const longTasks = await page.evaluate(() => (window as unknown as { __longTasks: { start: number; duration: number }[] }).__longTasks);
   return { actions: user.actions, log: user.log, screenshots: shots, downloads: files as FlowResult['downloads'], findings, longTasks, traceWindow: [t0, t1] };
 }

@@ -47,7 +47,10 @@ describe('the take-off workbench on a vector sheet', () => {
       restored = { before, after: await read() };
       await user.screenshot('3-restored');
     };
-    const result = await runTakeoff(browser.page, server.url, sample, dir, { reloadMidway });
+    const duty = { 'duty-flow': '250', 'duty-head': '45', 'duty-static': '12', 'duty-service': 'fire', 'duty-temperature': '20', 'duty-suction-static': '2', 'duty-suction-loss': '0.5' };
+    const result = await runTakeoff(browser.page, server.url, sample, dir, { reloadMidway, duty });
+    // The duty view says to follow the governing code for a fire duty.
+    expect(await browser.page.locator('.duty-results').textContent()).toMatch(/Fire-protection duty: follow the governing fire code/);
     writeFileSync(join(dir, 'actions.txt'), `${result.log.join('\n')}\n`);
 
     // Reloading in mid-capture restored every point (exact equality of the records).

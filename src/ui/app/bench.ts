@@ -10,6 +10,7 @@ import type { FitLine } from '../canvas/overlay.ts';
 import type { Store, Step } from '../store/store.ts';
 import type { TraceResidual } from './review.ts';
 import type { AnchorProposal } from '../worker/protocol.ts';
+import type { DutyForm, DutyOutcome } from '../views/dutyPanel.ts';
 
 export interface LoadedSheet {
   name: string;
@@ -60,6 +61,9 @@ export interface Bench {
   download(what: 'takeoff' | 'curveset' | 'csv'): void;
   saveToLibrary(): void;
   zoom(action: 'in' | 'out' | 'fit'): void;
+  /** The duty check of the review: what was typed and what it gave. */
+  readonly duty: { form: DutyForm; outcome: DutyOutcome };
+  setDuty(patch: Partial<DutyForm>): void;
   /** Anchors proposed from the sheet's text for a panel, if any. */
   proposalFor(panelId: string): AnchorProposal | null;
   useProposal(panelId: string): void;

@@ -35,6 +35,7 @@ import { reviewStep, traceOfFinding } from '../views/reviewStep.ts';
 import { saveStep } from '../views/saveStep.ts';
 import { traceStep } from '../views/traceStep.ts';
 import { num, QUANTITY_NAMES, unitText } from '../views/words.ts';
+import { EMPTY_DUTY, runDuty, type DutyForm, type DutyOutcome } from '../views/dutyPanel.ts';
 import type { Bench, Derived, LoadedSheet } from './bench.ts';
 import { DerivedState } from './derive.ts';
 import { bindKeys } from './keys.ts';
@@ -63,6 +64,8 @@ export class Workbench implements Bench, ToolHost {
   private readonly parts: { top: HTMLElement; side: HTMLElement; status: HTMLElement; chart: HTMLElement; stage: HTMLDivElement };
   private frameRequested = false;
   autosaved = '';
+  private dutyForm: DutyForm = EMPTY_DUTY;
+  private dutyMemo: { key: string; outcome: DutyOutcome } | null = null;
   library: { state: 'idle' | 'saving' | 'saved' | 'failed'; text: string } = { state: 'idle', text: '' };
 
   constructor(private readonly root: HTMLElement) {
@@ -184,7 +187,9 @@ export class Workbench implements Bench, ToolHost {
     if (showChart && this.derived.curveSet) {
       const highlighted = this.store.draft.traces.find((t) => t.id === this.store.session.highlightedTrace);
       const highlight = highlighted?.diameter !== undefined ? { diameter_m: this.diameterSI(highlighted.diameter), quantity: highlighted.quantity } : null;
-      morph(this.parts.chart, h('section', { class: 'chart-pane', 'aria-label': 'Family chart' }, h('h3', null, 'Family chart'), familyChart(this.derived.curveSet, this.store.session.unitSystem, null, highlight)));
+      const outcome = this.duty.outcome;
+      const overlay = outcome && 'overlay' in outcome ? outcome.overlay : null;
+      morph(this.parts.chart, h('section', { class: 'chart-pane', 'aria-label': 'Family chart' }, h('h3', null, overlay ? 'Family chart with the duty' : 'Family chart'), familyChart(this.derived.curveSet, this.store.session.unitSystem, overlay, highlight)));
     }
     this.parts.stage.style.cursor = this.activeTool()?.cursor ?? 'default';
     this.canvas.redrawOverlay();
@@ -240,6 +245,24 @@ export class Workbench implements Bench, ToolHost {
     const next = order.find((q) => !draft.panels.some((p) => p.plots === q)) ?? 'head';
     this.store.setSession({ drawingFrame: true, activePanel: null, framePlots: next });
     this.store.say(`${QUANTITY_NAMES[panel.plots]} panel set: residual ${num(cal.calibration.maxPercentOfSpan, 2)} % of span. Draw the frame of the next panel, or go on to “Trace the curves”.`, 'done');
+  }
+
+  get duty(): { form: DutyForm; outcome: DutyOutcome } {
+    const set = this.derived.curveSet;
+    if (!set) return { form: this.dutyForm, outcome: null };
+    const key = `${this.store.session.unitSystem}|${JSON.stringify(this.dutyForm)}`;
+    if (this.dutyMemo?.key !== key || this.dutyMemoSet !== set) {
+      this.dutyMemo = { key, outcome: runDuty(set, this.dutyForm, this.store.session.unitSystem) };
+      this.dutyMemoSet = set;
+    }
+    return { form: this.dutyForm, outcome: this.dutyMemo.outcome };
+  }
+
+  private dutyMemoSet: unknown = null;
+
+  setDuty(patch: Partial<DutyForm>): void {
+    this.dutyForm = { ...this.dutyForm, ...patch };
+    this.requestRender();
   }
 
   // ── commands the views call ────────────────────────────────────────────────

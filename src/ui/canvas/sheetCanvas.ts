@@ -232,10 +232,21 @@ export class SheetCanvas {
     const w = this.container.clientWidth;
     const h = this.container.clientHeight;
     if (w === 0 || h === 0) return;
-    if (this.stage.width() === w && this.stage.height() === h) return;
+    const oldW = this.stage.width();
+    const oldH = this.stage.height();
+    if (oldW === w && oldH === h) return;
     this.stage.size({ width: w, height: h });
-    if (this.fitted) this.fitPage();
-    else this.layout();
+    if (this.fitted) {
+      this.fitPage();
+      return;
+    }
+    // Keep what was in the middle of the view in the middle.
+    const centre = toSheetFromScreen(this.view, [oldW / 2, oldH / 2]);
+    const { zoom } = this.view;
+    this.view = { zoom, offsetX: w / 2 - centre[0] * zoom, offsetY: h / 2 - centre[1] * zoom };
+    this.layout();
+    for (const l of this.viewListeners) l(this.view);
+    this.scheduleSharp();
   }
 
   private pointer(event: PointerEvent | MouseEvent): CanvasPointer {
