@@ -20,9 +20,10 @@ export interface Server {
 }
 
 /** Starts `pumpscribe start` on a free port with an empty library in a temporary folder. */
-export async function startServer(): Promise<Server> {
+export async function startServer(options: { seed?: boolean } = {}): Promise<Server> {
   const dir = mkdtempSync(join(tmpdir(), 'pumpscribe-e2e-'));
-  const child: ChildProcess = spawn(process.execPath, [join(ROOT, 'bin', 'pumpscribe.mjs'), 'start', '--port', '0', '--library', join(dir, 'library.sqlite'), '--no-seed'], { cwd: ROOT, stdio: ['ignore', 'pipe', 'pipe'] });
+  const args = [join(ROOT, 'bin', 'pumpscribe.mjs'), 'start', '--port', '0', '--library', join(dir, 'library.sqlite'), ...(options.seed ? [] : ['--no-seed'])];
+  const child: ChildProcess = spawn(process.execPath, args, { cwd: ROOT, stdio: ['ignore', 'pipe', 'pipe'] });
   let output = '';
   const url = await new Promise<string>((resolve, reject) => {
     const timer = setTimeout(() => reject(new Error(`The server did not start within 240 s:\n${output}`)), 240_000);

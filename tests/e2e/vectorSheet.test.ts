@@ -9,7 +9,7 @@ import { readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { parseCurveSetJson } from '../../src/model/curvesetIO.ts';
-import { ARTIFACTS, cleanDir, openBrowser, ROOT, startServer, type Browser, type Server, type User } from './harness.ts';
+import { ARTIFACTS, cleanDir, openBrowser, ROOT, startServer, User, type Browser, type Server } from './harness.ts';
 import { compareCurveSets } from './compare.ts';
 import { loadSample, runTakeoff } from './takeoffFlow.ts';
 import { vectorSample } from './samples.ts';
@@ -20,7 +20,8 @@ let browser: Browser;
 
 beforeAll(async () => {
   cleanDir(dir);
-  server = await startServer();
+  // The invented demo curve sets seed the library, so that there is something to compare with.
+  server = await startServer({ seed: true });
   browser = await openBrowser();
 });
 
@@ -76,5 +77,30 @@ describe('the take-off workbench on a vector sheet', () => {
     writeFileSync(join(dir, 'figures.json'), `${JSON.stringify({ actions: result.actions, worstMatchPercentOfSpan: worst, gaps, findings: result.findings }, null, 2)}\n`);
     expect(gaps.length).toBeGreaterThanOrEqual(13);
     expect(worst).toBeLessThanOrEqual(0.05);
+  });
+
+  it('saves the curve set to the library, lists it, shows its revisions and compares it with others at a duty', async () => {
+    const page = browser.page;
+    const user = new User(page, join(dir, 'library'));
+    await page.click('#step-save');
+    await page.click('#save-library');
+    await page.waitForFunction(() => /Saved to the library as/.test(document.querySelector('.library-state')?.textContent ?? ''), null, { timeout: 30_000 });
+    await page.click('#save-library'); // a second save adds a revision
+    await page.waitForFunction(() => /revision 2/.test(document.querySelector('.library-state')?.textContent ?? ''), null, { timeout: 30_000 });
+    const id = /as (\S+), revision/.exec((await page.textContent('.library-state')) ?? '')?.[1] as string;
+    await page.goto(`${server.url}#/library?flow=250&head=45&units=si`);
+    await page.waitForSelector('table.entries tbody tr');
+    await user.screenshot('library-list');
+    expect(await page.locator('table.entries tbody tr').count()).toBeGreaterThanOrEqual(2);
+    await page.goto(`${server.url}#/library/${encodeURIComponent(id)}`);
+    await page.waitForSelector('.revisions li');
+    expect(await page.locator('.revisions li').count()).toBe(2);
+    await user.screenshot('library-entry');
+    const others = await page.evaluate(async () => ((await (await fetch('api/curvesets')).json()) as { entries: { id: string }[] }).entries.map((e) => e.id));
+    await page.goto(`${server.url}#/compare?ids=${others.map(encodeURIComponent).join(',')}&units=si&flow=250&head=45`);
+    await page.waitForSelector('table.compare tbody tr');
+    expect(await page.locator('table.compare tbody tr').count()).toBe(others.length);
+    expect(await page.locator('.compare-chart .op-point').count()).toBe(1);
+    await user.screenshot('compare');
   });
 });

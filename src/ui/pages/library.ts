@@ -1,6 +1,238 @@
-/** The library screens (search, entry, revisions, compare), through the HTTP API only. */
-import { h } from '../dom/h.ts';
+/**
+ * The library screens, through the library's HTTP API only: search and filter the entries,
+ * open one to see its family chart and its revisions, and compare candidates at a duty point
+ * (their head curves with the duty, and a table of the figures there).
+ *
+ * Routes: #/library?q=…&flow=…&head=…&units=si · #/library/<id>[?revision=n] · #/compare?ids=a,b&flow=…&head=…&static=…&units=si
+ */
+import { h, svg } from '../dom/h.ts';
+import { CurveSet } from '../../model/curveset.ts';
+import { meetDuty } from '../../duty/meetDuty.ts';
+import { PRELIMINARY } from '../../duty/cautions.ts';
+import { evaluateUnchecked, linspace } from '../../fit/polynomial.ts';
+import { fromSI, toSI } from '../../units/index.ts';
+import { chartUnits, familyChart } from '../views/familyChart.ts';
+import { niceTicks } from '../views/ticks.ts';
+import { num, unitText } from '../views/words.ts';
+
+/** An entry as GET /api/curvesets lists it (SI figures). */
+interface EntryInfo {
+  id: string;
+  revision: number;
+  name: string;
+  maker: string | null;
+  model: string | null;
+  family: string;
+  speed_rpm: number;
+  diameters_m: number[];
+  flow_range_m3s: [number, number];
+  head_range_m: [number, number];
+  bep: { flow_m3s: number; head_m: number; efficiency: number } | null;
+  updated_at: string;
+}
+
+interface Candidate {
+  id: string;
+  name: string;
+  diameter: number | null;
+  efficiency: number | null;
+  power: number | null;
+  npshr: number | null;
+  message: string;
+  por: { position: string; flow_to_bep_percent: number | null };
+}
+
+async function getJson<T>(url: string): Promise<T> {
+  const response = await fetch(url, { headers: { accept: 'application/json' } });
+  const body = await response.json().catch(() => ({}));
+  if (!response.ok) throw new Error((body as { error?: string }).error ?? `The library answered ${response.status}.`);
+  return body as T;
+}
+
+function params(hash: string): URLSearchParams {
+  const q = hash.indexOf('?');
+  return new URLSearchParams(q >= 0 ? hash.slice(q + 1) : '');
+}
+
+function frame(title: string, ...content: (Node | string | null)[]): HTMLElement {
+  return h('div', { class: 'library-page' },
+    h('header', { class: 'topbar' },
+      h('div', { class: 'brand' }, h('span', { class: 'wordmark' }, 'Pumpscribe'), h('span', { class: 'subtitle' }, 'library')),
+      h('div', { class: 'sheet-name' }, title),
+      h('div', { class: 'tools' }, h('a', { href: '#/library', class: 'nav' }, 'Library'), h('a', { href: '#/', class: 'nav' }, 'Back to the workbench'))),
+    h('main', { class: 'library' }, ...content));
+}
 
 export function showLibrary(root: HTMLElement, hash: string, _bench: unknown): void {
-  root.replaceChildren(h('main', { class: 'library' }, h('p', null, `Library: ${hash}`), h('a', { href: '#/' }, 'Back to the workbench')));
+  const path = hash.replace(/\?.*$/, '');
+  const p = params(hash);
+  if (path.startsWith('#/compare')) void showCompare(root, p);
+  else if (/^#\/library\/[^/]+$/.test(path)) void showEntry(root, decodeURIComponent(path.slice('#/library/'.length)), p);
+  else void showList(root, p);
+}
+
+function failure(root: HTMLElement, title: string, error: unknown): void {
+  root.replaceChildren(frame(title, h('p', { class: 'cal bad', role: 'alert' }, `The library could not be reached: ${(error as Error).message} Is the server running (npm start)?`)));
+}
+
+async function showList(root: HTMLElement, p: URLSearchParams): Promise<void> {
+  const q = p.get('q') ?? '';
+  const units = p.get('units') === 'us' ? 'us' : 'si';
+  const flow = p.get('flow') ?? '';
+  const head = p.get('head') ?? '';
+  const u = chartUnits(units);
+  root.replaceChildren(frame('Library', h('p', { class: 'hint' }, 'Loading…')));
+  try {
+    const list = await getJson<{ total: number; entries: EntryInfo[] }>(`api/curvesets?limit=500&q=${encodeURIComponent(q)}`);
+    const search = flow && head ? await getJson<{ candidates: Candidate[]; notice: string; matched: number; examined: number }>(`api/search?units=${units}&flow=${encodeURIComponent(flow)}&head=${encodeURIComponent(head)}`).catch((e: Error) => ({ error: e.message })) : null;
+    const chosen = new Set<string>();
+    const compare = h('button', { type: 'button', id: 'compare-selected', class: 'primary', disabled: true, onclick: () => { location.hash = `#/compare?ids=${[...chosen].map(encodeURIComponent).join(',')}&units=${units}${flow ? `&flow=${flow}` : ''}${head ? `&head=${head}` : ''}`; } }, 'Compare the chosen pumps');
+    const pick = (id: string, on: boolean) => {
+      if (on) chosen.add(id);
+      else chosen.delete(id);
+      compare.disabled = chosen.size < 1;
+      compare.textContent = chosen.size ? `Compare the ${chosen.size} chosen pump${chosen.size === 1 ? '' : 's'}` : 'Compare the chosen pumps';
+    };
+    const form = h('form', { class: 'library-search', role: 'search', onsubmit: (e: Event) => {
+      e.preventDefault();
+      const f = new FormData(e.target as HTMLFormElement);
+      const next = new URLSearchParams();
+      for (const key of ['q', 'flow', 'head', 'units']) { const v = String(f.get(key) ?? '').trim(); if (v) next.set(key, v); }
+      location.hash = `#/library?${next}`;
+    } },
+      h('div', { class: 'field' }, h('label', { for: 'lib-q' }, 'Words'), h('input', { id: 'lib-q', name: 'q', type: 'search', value: q, placeholder: 'name, maker, model, size' })),
+      h('div', { class: 'field' }, h('label', { for: 'lib-flow' }, 'Duty flow'), h('input', { id: 'lib-flow', name: 'flow', type: 'text', inputmode: 'decimal', value: flow }), h('span', { class: 'unit' }, unitText(u.flow.label))),
+      h('div', { class: 'field' }, h('label', { for: 'lib-head' }, 'Duty head'), h('input', { id: 'lib-head', name: 'head', type: 'text', inputmode: 'decimal', value: head }), h('span', { class: 'unit' }, u.head.label)),
+      h('div', { class: 'field' }, h('label', { for: 'lib-units' }, 'Units'), h('select', { id: 'lib-units', name: 'units' }, h('option', { value: 'si', selected: units === 'si' }, 'SI (m³/h, m, kW, mm)'), h('option', { value: 'us', selected: units === 'us' }, 'US (gpm, ft, hp, in)'))),
+      h('button', { type: 'submit', class: 'primary' }, 'Search'));
+    const duty = search && 'candidates' in search
+      ? h('section', { 'aria-label': 'Pumps that can meet the duty' },
+          h('h3', null, `Pumps for ${flow} ${unitText(u.flow.label)} at ${head} ${u.head.label}: ${search.matched} of ${search.examined} can meet it`),
+          h('table', { class: 'figures' },
+            h('thead', null, h('tr', null, h('th', { scope: 'col' }, 'Pump'), h('th', { scope: 'col' }, `Diameter [${u.diameter.label}]`), h('th', { scope: 'col' }, 'Efficiency [%]'), h('th', { scope: 'col' }, `Power [${u.power.label}]`), h('th', { scope: 'col' }, `NPSHr [${u.npsh.label}]`), h('th', { scope: 'col' }, 'Against BEP'))),
+            h('tbody', null, search.candidates.map((c) => h('tr', null,
+              h('th', { scope: 'row' }, h('a', { href: `#/library/${encodeURIComponent(c.id)}` }, c.name)),
+              h('td', null, c.diameter === null ? '—' : num(c.diameter)),
+              h('td', null, c.efficiency === null ? '—' : num(c.efficiency, 3)),
+              h('td', null, c.power === null ? '—' : num(c.power)),
+              h('td', null, c.npshr === null ? '—' : num(c.npshr, 3)),
+              h('td', null, c.por.flow_to_bep_percent === null ? c.por.position : `${num(c.por.flow_to_bep_percent, 3)} % of BEP flow (${c.por.position} the POR)`))))),
+          h('p', { class: 'caution', role: 'note' }, search.notice))
+      : search && 'error' in search ? h('p', { class: 'cal bad', role: 'alert' }, search.error) : null;
+    root.replaceChildren(frame(`Library — ${list.total} entr${list.total === 1 ? 'y' : 'ies'}`,
+      form,
+      duty,
+      h('div', { class: 'row' }, compare),
+      h('table', { class: 'figures entries' },
+        h('caption', null, q ? `Entries matching “${q}”` : 'All entries'),
+        h('thead', null, h('tr', null, h('th', { scope: 'col' }, h('span', { class: 'visually-hidden' }, 'Choose')), h('th', { scope: 'col' }, 'Pump'), h('th', { scope: 'col' }, 'Speed [rpm]'), h('th', { scope: 'col' }, `Diameters [${u.diameter.label}]`), h('th', { scope: 'col' }, `Flow [${unitText(u.flow.label)}]`), h('th', { scope: 'col' }, `BEP [${unitText(u.flow.label)} at ${u.head.label}]`), h('th', { scope: 'col' }, 'Revision'))),
+        h('tbody', null, list.entries.map((e) => h('tr', { 'data-key': e.id },
+          h('td', null, h('input', { type: 'checkbox', 'aria-label': `Choose ${e.name} for comparison`, onchange: (ev: Event) => pick(e.id, (ev.target as HTMLInputElement).checked) })),
+          h('th', { scope: 'row' }, h('a', { href: `#/library/${encodeURIComponent(e.id)}` }, e.name), e.maker ? h('span', { class: 'hint' }, ` · ${e.maker}`) : null),
+          h('td', null, num(e.speed_rpm)),
+          h('td', null, e.diameters_m.map((d) => num(fromSI(d, u.diameter))).join(', ') || '—'),
+          h('td', null, `${num(fromSI(e.flow_range_m3s[0], u.flow))} … ${num(fromSI(e.flow_range_m3s[1], u.flow))}`),
+          h('td', null, e.bep ? `${num(fromSI(e.bep.flow_m3s, u.flow))} at ${num(fromSI(e.bep.head_m, u.head))}, ${num(e.bep.efficiency * 100, 3)} %` : '—'),
+          h('td', null, String(e.revision))))))));
+  } catch (error) {
+    failure(root, 'Library', error);
+  }
+}
+
+async function showEntry(root: HTMLElement, id: string, p: URLSearchParams): Promise<void> {
+  const units = p.get('units') === 'us' ? 'us' : 'si';
+  const revision = p.get('revision');
+  root.replaceChildren(frame(id, h('p', { class: 'hint' }, 'Loading…')));
+  try {
+    const [set, revisions] = await Promise.all([
+      getJson<unknown>(revision ? `api/curvesets/${encodeURIComponent(id)}/revisions/${encodeURIComponent(revision)}` : `api/curvesets/${encodeURIComponent(id)}`).then((raw) => CurveSet.parse(raw)),
+      getJson<{ revisions: { revision: number; saved_at: string; bytes: number }[] }>(`api/curvesets/${encodeURIComponent(id)}/revisions`),
+    ]);
+    const latest = Math.max(...revisions.revisions.map((r) => r.revision));
+    root.replaceChildren(frame(set.pump.name,
+      h('p', null, `${set.pump.name}${set.pump.maker ? `, ${set.pump.maker}` : ''} — ${num(set.speed_rpm)} rpm, ${set.members.length} diameters. Showing revision ${revision ?? latest} of ${latest}.`),
+      h('div', { class: 'entry' },
+        familyChart(set, units),
+        h('section', { 'aria-label': 'Revisions' },
+          h('h3', null, 'Revisions'),
+          h('ol', { class: 'revisions', reversed: true }, [...revisions.revisions].sort((a, b) => b.revision - a.revision).map((r) =>
+            h('li', null, h('a', { href: `#/library/${encodeURIComponent(id)}?revision=${r.revision}&units=${units}`, 'aria-current': String(r.revision) === (revision ?? String(latest)) ? 'true' : undefined }, `Revision ${r.revision}`), ` — saved ${new Date(r.saved_at).toLocaleString()}, ${num(r.bytes / 1024, 3)} kB`))),
+          h('h3', null, 'Findings'),
+          h('ul', { class: 'plain' }, set.findings.map((f) => h('li', { class: `finding ${f.severity}` }, h('span', { class: 'severity' }, f.severity), h('span', { class: 'finding-text' }, f.message)))),
+          h('p', null, h('a', { href: `#/library/${encodeURIComponent(id)}?${revision ? `revision=${revision}&` : ''}units=${units === 'si' ? 'us' : 'si'}` }, `Show in ${units === 'si' ? 'US' : 'SI'} units`))))));
+  } catch (error) {
+    failure(root, id, error);
+  }
+}
+
+const INKS = ['#1f4fa3', '#a8321f', '#1b7f4b', '#6a3fa0', '#8a5300', '#0d6b6b'];
+
+async function showCompare(root: HTMLElement, p: URLSearchParams): Promise<void> {
+  const units = p.get('units') === 'us' ? 'us' : 'si';
+  const u = chartUnits(units);
+  const ids = (p.get('ids') ?? '').split(',').filter(Boolean);
+  const flow = Number(p.get('flow'));
+  const head = Number(p.get('head'));
+  const hasDuty = Number.isFinite(flow) && Number.isFinite(head) && flow > 0 && head > 0;
+  root.replaceChildren(frame('Compare', h('p', { class: 'hint' }, 'Loading…')));
+  try {
+    const sets = await Promise.all(ids.map((id) => getJson<unknown>(`api/curvesets/${encodeURIComponent(id)}`).then((raw) => ({ id, set: CurveSet.parse(raw) }))));
+    const duty = hasDuty ? { flow_m3s: toSI(flow, u.flow), head_m: toSI(head, u.head) } : null;
+    const rows = sets.map(({ id, set }) => ({ id, set, match: duty ? meetDuty(set, duty) : null }));
+    root.replaceChildren(frame(`Compare ${sets.length} pumps`,
+      h('form', { class: 'library-search', onsubmit: (e: Event) => {
+        e.preventDefault();
+        const f = new FormData(e.target as HTMLFormElement);
+        location.hash = `#/compare?ids=${ids.join(',')}&units=${units}&flow=${encodeURIComponent(String(f.get('flow')))}&head=${encodeURIComponent(String(f.get('head')))}`;
+      } },
+        h('div', { class: 'field' }, h('label', { for: 'cmp-flow' }, 'Duty flow'), h('input', { id: 'cmp-flow', name: 'flow', type: 'text', inputmode: 'decimal', value: hasDuty ? String(flow) : '' }), h('span', { class: 'unit' }, unitText(u.flow.label))),
+        h('div', { class: 'field' }, h('label', { for: 'cmp-head' }, 'Duty head'), h('input', { id: 'cmp-head', name: 'head', type: 'text', inputmode: 'decimal', value: hasDuty ? String(head) : '' }), h('span', { class: 'unit' }, u.head.label)),
+        h('button', { type: 'submit', class: 'primary' }, 'Compare at this duty')),
+      compareChart(rows.map((r) => r.set), duty, units),
+      h('table', { class: 'figures compare' },
+        h('caption', null, duty ? `Figures at ${num(flow)} ${unitText(u.flow.label)} and ${num(head)} ${u.head.label} (impeller trimmed to the duty)` : 'Type a duty to see the figures there'),
+        h('thead', null, h('tr', null, h('th', { scope: 'col' }, 'Pump'), h('th', { scope: 'col' }, `Diameter [${u.diameter.label}]`), h('th', { scope: 'col' }, 'Trim [%]'), h('th', { scope: 'col' }, 'Efficiency [%]'), h('th', { scope: 'col' }, `Power [${u.power.label}]`), h('th', { scope: 'col' }, `NPSHr [${u.npsh.label}]`), h('th', { scope: 'col' }, 'Against BEP'), h('th', { scope: 'col' }, 'Note'))),
+        h('tbody', null, rows.map((r, i) => {
+          const m = r.match;
+          const pt = m?.point;
+          return h('tr', null,
+            h('th', { scope: 'row' }, h('span', { class: 'swatch', style: { background: INKS[i % INKS.length] } }), ' ', h('a', { href: `#/library/${encodeURIComponent(r.id)}` }, r.set.pump.name)),
+            h('td', null, m?.diameter_m !== undefined ? num(fromSI(m.diameter_m, u.diameter)) : '—'),
+            h('td', null, m?.trim_ratio !== undefined ? num(m.trim_ratio * 100, 3) : '—'),
+            h('td', null, pt?.efficiency !== undefined ? num(pt.efficiency * 100, 3) : '—'),
+            h('td', null, pt?.power_W !== undefined ? num(fromSI(pt.power_W, u.power)) : '—'),
+            h('td', null, pt?.npshr_m !== undefined ? num(fromSI(pt.npshr_m, u.npsh), 3) : '—'),
+            h('td', null, pt?.flow_to_bep !== undefined ? `${num(pt.flow_to_bep * 100, 3)} % (${pt.por_position})` : '—'),
+            h('td', { class: m && m.status !== 'meets' ? 'warn' : '' }, m ? (pt?.extrapolated.length ? `${m.message} Some figures are extrapolated.` : m.message) : ''));
+        }))),
+      h('p', { class: 'caution', role: 'note' }, PRELIMINARY)));
+  } catch (error) {
+    failure(root, 'Compare', error);
+  }
+}
+
+/** The head curves of every candidate (each diameter, thin; the largest, bold) with the duty point. */
+function compareChart(sets: CurveSet[], duty: { flow_m3s: number; head_m: number } | null, units: 'si' | 'us'): SVGElement {
+  const u = chartUnits(units);
+  const W = 640;
+  const H = 360;
+  const L = 60;
+  const B = 40;
+  const curves = sets.flatMap((s, i) => s.members.flatMap((m, k) => (m.curves.head?.fit ? [{ i, k, fit: m.curves.head.fit }] : [])));
+  const qMax = Math.max(duty?.flow_m3s ?? 0, ...curves.map((c) => c.fit.domain[1]));
+  const hMax = Math.max(duty?.head_m ?? 0, ...curves.map((c) => evaluateUnchecked(c.fit, c.fit.domain[0])));
+  const xt = niceTicks(0, fromSI(qMax, u.flow), 6);
+  const yt = niceTicks(0, fromSI(hMax, u.head), 5);
+  const x = (q: number) => L + ((fromSI(q, u.flow) - xt.lo) / (xt.hi - xt.lo)) * (W - L - 20);
+  const y = (v: number) => H - B - ((fromSI(v, u.head) - yt.lo) / (yt.hi - yt.lo)) * (H - B - 16);
+  const chart = svg('svg', { viewBox: `0 0 ${W} ${H}`, class: 'family-chart compare-chart', role: 'img', 'aria-label': `Head curves of ${sets.length} pumps${duty ? ' with the duty point' : ''}` });
+  for (const t of xt.ticks) chart.append(svg('line', { x1: x(toSI(t, u.flow)), x2: x(toSI(t, u.flow)), y1: 16, y2: H - B, class: 'grid' }), svg('text', { x: x(toSI(t, u.flow)), y: H - B + 14, class: 'tick', 'text-anchor': 'middle' }, num(t)));
+  for (const t of yt.ticks) chart.append(svg('line', { x1: L, x2: W - 20, y1: y(toSI(t, u.head)), y2: y(toSI(t, u.head)), class: 'grid' }), svg('text', { x: L - 6, y: y(toSI(t, u.head)) + 4, class: 'tick', 'text-anchor': 'end' }, num(t)));
+  for (const c of curves) {
+    const pts = linspace(c.fit.domain[0], c.fit.domain[1], 50).map((q) => `${x(q).toFixed(1)},${y(evaluateUnchecked(c.fit, q)).toFixed(1)}`).join(' ');
+    chart.append(svg('polyline', { points: pts, class: 'curve', stroke: INKS[c.i % INKS.length], 'stroke-width': c.k === 0 ? 2.2 : 1, fill: 'none' }));
+  }
+  if (duty) chart.append(svg('rect', { x: x(duty.flow_m3s) - 5, y: y(duty.head_m) - 5, width: 10, height: 10, class: 'op-point' }, svg('title', null, 'Duty point')));
+  chart.append(svg('text', { x: L + (W - L) / 2, y: H - 6, class: 'axis-title', 'text-anchor': 'middle' }, `Flow [${unitText(u.flow.label)}]`), svg('text', { x: 8, y: 12, class: 'axis-title' }, `Head [${u.head.label}]`));
+  return chart;
 }
