@@ -20,6 +20,7 @@ export const SHORTCUTS: readonly [string, string][] = [
   ['Delete', 'remove the selected point'],
   ['Escape', 'cancel the drag or clear the selection'],
   ['Ctrl+S', 'download the take-off file'],
+  ['?', 'show or hide this list'],
 ];
 
 const QUANTITY_KEYS: Record<string, Quantity> = { h: 'head', e: 'efficiency', p: 'power', n: 'npshr' };
@@ -50,6 +51,11 @@ export function bindKeys(bench: Workbench): void {
       return;
     }
     if (typing(event.target) || ctrl || event.altKey) return;
+    if (event.key === '?') {
+      bench.toggleKeys();
+      event.preventDefault();
+      return;
+    }
     if (bench.activeTool()?.key(event)) {
       event.preventDefault();
       return;

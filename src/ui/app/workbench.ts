@@ -28,7 +28,7 @@ import { TraceTool } from '../tools/traceTool.ts';
 import { snapRadius, type Tool, type ToolHost } from '../tools/tool.ts';
 import { SheetWorkerClient } from '../worker/client.ts';
 import { axesStep } from '../views/axesStep.ts';
-import { statusLine, stepList, topBar } from '../views/chrome.ts';
+import { emptyStage, keysHelp, statusLine, stepList, topBar } from '../views/chrome.ts';
 import { familyChart } from '../views/familyChart.ts';
 import { loadStep } from '../views/loadStep.ts';
 import { reviewStep, traceOfFinding } from '../views/reviewStep.ts';
@@ -38,7 +38,7 @@ import { num, QUANTITY_NAMES, unitText } from '../views/words.ts';
 import { EMPTY_DUTY, runDuty, type DutyForm, type DutyOutcome } from '../views/dutyPanel.ts';
 import type { Bench, Derived, LoadedSheet } from './bench.ts';
 import { DerivedState } from './derive.ts';
-import { bindKeys } from './keys.ts';
+import { bindKeys, SHORTCUTS } from './keys.ts';
 import { SheetFlow } from './sheetFlow.ts';
 import { Downloads } from './downloads.ts';
 
@@ -61,7 +61,14 @@ export class Workbench implements Bench, ToolHost {
   private snapBusy = false;
   private readonly tools: Record<'frame' | 'anchor' | 'trace' | 'pick', Tool>;
   private readonly proposals = new Map<string, AnchorProposal>();
-  private readonly parts: { top: HTMLElement; side: HTMLElement; status: HTMLElement; chart: HTMLElement; stage: HTMLDivElement };
+  private readonly parts: { top: HTMLElement; side: HTMLElement; status: HTMLElement; chart: HTMLElement; stage: HTMLDivElement; keys: HTMLElement; empty: HTMLElement };
+  private keysOpen = false;
+
+  toggleKeys(): void {
+    this.keysOpen = !this.keysOpen;
+    this.requestRender();
+    if (!this.keysOpen) document.getElementById('keys')?.focus();
+  }
   private frameRequested = false;
   autosaved = '';
   private dutyForm: DutyForm = EMPTY_DUTY;
@@ -70,12 +77,12 @@ export class Workbench implements Bench, ToolHost {
 
   constructor(private readonly root: HTMLElement) {
     const stage = h('div', { class: 'stage', tabindex: '0', role: 'application', 'aria-label': 'The sheet. Zoom with the wheel, + and −; pan with the arrow keys or by dragging with the middle button or with Space held.' }) as HTMLDivElement;
-    this.parts = { top: h('header'), side: h('aside', { class: 'side' }), status: h('footer'), chart: h('section', { class: 'chart-pane', 'aria-label': 'Family chart' }), stage };
+    this.parts = { top: h('header'), side: h('aside', { class: 'side' }), status: h('footer'), chart: h('section', { class: 'chart-pane', 'aria-label': 'Family chart' }), stage, keys: h('div', { class: 'keys-host', hidden: true }), empty: emptyStage() };
     this.derivedState = new DerivedState(this.reviewWorker, () => this.requestRender(), () => this.downloads.names());
     root.replaceChildren(
       h('div', { class: 'workbench' },
         this.parts.top,
-        h('div', { class: 'main' }, this.parts.side, h('section', { class: 'stage-wrap' }, stage, this.parts.chart)),
+        h('div', { class: 'main' }, this.parts.side, h('section', { class: 'stage-wrap' }, stage, this.parts.empty, this.parts.chart, this.parts.keys)),
         this.parts.status));
     this.canvas = new SheetCanvas(stage, this.worker, (ctx, view) =>
       paintScene(ctx, view, {
@@ -179,7 +186,10 @@ export class Workbench implements Bench, ToolHost {
 
   private render(): void {
     const step = this.store.session.step;
-    morph(this.parts.top, topBar(this, this.autosaved));
+    morph(this.parts.top, topBar(this, this.autosaved, this.keysOpen, () => this.toggleKeys()));
+    this.parts.keys.hidden = !this.keysOpen;
+    if (this.keysOpen && !this.parts.keys.firstChild) this.parts.keys.append(keysHelp(SHORTCUTS, () => this.toggleKeys()));
+    this.parts.empty.hidden = this.store.draft.sheet !== null;
     morph(this.parts.side, h('aside', { class: 'side' }, stepList(this, { load: loadStep, axes: axesStep, trace: traceStep, review: reviewStep, save: (b) => saveStep(b, this.library) })));
     morph(this.parts.status, statusLine(this));
     const showChart = (this.store.session.step === 'review' || this.store.session.step === 'save') && this.derived.curveSet !== null;

@@ -5,7 +5,7 @@ import { STEPS, type Step } from '../store/store.ts';
 import { pointsOf } from '../store/draft.ts';
 import { STEP_TITLES } from './words.ts';
 
-export function topBar(bench: Bench, autosaved: string): HTMLElement {
+export function topBar(bench: Bench, autosaved: string, keysOpen: boolean, toggleKeys: () => void): HTMLElement {
   const { store } = bench;
   const h0 = store.history;
   const undoLabel = h0.labels[h0.labels.length - 1];
@@ -16,9 +16,11 @@ export function topBar(bench: Bench, autosaved: string): HTMLElement {
     h('div', { class: 'tools' },
       h('button', { type: 'button', id: 'undo', disabled: !undoLabel, title: undoLabel ? `Undo ${undoLabel} (Ctrl+Z)` : 'Nothing to undo', 'aria-label': undoLabel ? `Undo ${undoLabel}` : 'Undo', onclick: () => store.undo() }, '↶ Undo'),
       h('button', { type: 'button', id: 'redo', disabled: !redoLabel, title: redoLabel ? `Redo ${redoLabel} (Ctrl+Shift+Z)` : 'Nothing to redo', 'aria-label': redoLabel ? `Redo ${redoLabel}` : 'Redo', onclick: () => store.redo() }, 'Redo ↷'),
-      h('div', { class: 'segmented small', role: 'group', 'aria-label': 'Units shown in the review' },
+      h('span', { class: 'units-label', id: 'units-shown' }, 'Review in'),
+      h('div', { class: 'segmented small', role: 'group', 'aria-labelledby': 'units-shown' },
         (['si', 'us'] as const).map((s) => h('button', { type: 'button', 'aria-pressed': store.session.unitSystem === s ? 'true' : 'false', onclick: () => store.setSession({ unitSystem: s }) }, s.toUpperCase()))),
       h('span', { class: 'autosaved', role: 'status' }, autosaved),
+      h('button', { type: 'button', id: 'keys', 'aria-expanded': keysOpen ? 'true' : 'false', 'aria-controls': 'keys-help', onclick: toggleKeys }, 'Keys'),
       h('a', { href: '#/library', class: 'nav' }, 'Library')));
 }
 
@@ -78,4 +80,20 @@ export function statusLine(bench: Bench): HTMLElement {
       h('button', { type: 'button', 'aria-label': 'Zoom out (−)', onclick: () => bench.zoom('out') }, '−'),
       h('button', { type: 'button', 'aria-label': 'Fit the page (0)', onclick: () => bench.zoom('fit') }, `${bench.zoomPercent} %`),
       h('button', { type: 'button', 'aria-label': 'Zoom in (+)', onclick: () => bench.zoom('in') }, '+')));
+}
+
+/** The list of keyboard shortcuts, shown from the top bar. */
+export function keysHelp(shortcuts: readonly (readonly [string, string])[], close: () => void): HTMLElement {
+  return h('div', { class: 'keys-help', id: 'keys-help', role: 'dialog', 'aria-label': 'Keyboard shortcuts' },
+    h('h3', null, 'Keyboard shortcuts'),
+    h('dl', null, shortcuts.map(([k, what]) => [h('dt', null, h('kbd', null, k)), h('dd', null, what)])),
+    h('button', { type: 'button', onclick: close }, 'Close'));
+}
+
+/** What the empty sheet area says before a sheet is loaded. */
+export function emptyStage(): HTMLElement {
+  return h('div', { class: 'empty-stage' },
+    h('p', { class: 'big' }, 'Drop a performance sheet here'),
+    h('p', null, 'PDF, PNG or JPEG — or a take-off file together with its sheet, to resume.'),
+    h('button', { type: 'button', class: 'primary', onclick: () => document.getElementById('sheet-file')?.click() }, 'Open a sheet…'));
 }
