@@ -31,7 +31,7 @@ import { axesStep } from '../views/axesStep.ts';
 import { emptyStage, keysHelp, statusLine, stepList, topBar } from '../views/chrome.ts';
 import { familyChart } from '../views/familyChart.ts';
 import { loadStep } from '../views/loadStep.ts';
-import { reviewStep, traceOfFinding } from '../views/reviewStep.ts';
+import { reviewStep } from '../views/reviewStep.ts';
 import { saveStep } from '../views/saveStep.ts';
 import { traceStep } from '../views/traceStep.ts';
 import { num, QUANTITY_NAMES, unitText } from '../views/words.ts';
@@ -466,12 +466,6 @@ export class Workbench implements Bench, ToolHost {
     }));
   }
 
-  /** The trace a finding points at (for tests and the review list). */
-  findingTrace(id: string): string | null {
-    const f = this.derived.curveSet?.findings.find((x) => x.id === id);
-    return f ? traceOfFinding(this.store.draft, f) : null;
-  }
-
   restoreDraft(draft: Draft, step: Step): void {
     this.store.replace(draft, { step });
   }
@@ -498,7 +492,4 @@ export class Workbench implements Bench, ToolHost {
     return this.parts.stage;
   }
 
-  get rootElement(): HTMLElement {
-    return this.root;
-  }
 }

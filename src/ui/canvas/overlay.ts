@@ -127,10 +127,6 @@ function paintAnchors(ctx: CanvasRenderingContext2D, view: View, panel: PanelDra
   });
 }
 
-export function unitLabel(token: string): string {
-  return token.replace('m3/h', 'm³/h').replace('m3/s', 'm³/s');
-}
-
 function paintTrace(ctx: CanvasRenderingContext2D, view: View, trace: TraceDraft, session: Session, preview: Preview | null): void {
   const dragged = preview?.kind === 'drag' && preview.trace === trace.id ? preview : null;
   const pts = dragged ? pointsOf(trace).map((p, i) => (i === dragged.index ? dragged.at : p)) : pointsOf(trace);

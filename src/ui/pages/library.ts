@@ -15,7 +15,10 @@ import { chartUnits, familyChart } from '../views/familyChart.ts';
 import { niceTicks } from '../views/ticks.ts';
 import { num, unitText } from '../views/words.ts';
 
-/** An entry as GET /api/curvesets lists it (SI figures). */
+/**
+ * An entry as GET /api/curvesets lists it (SI figures). Written out here rather than imported:
+ * the screens know the library only by its HTTP answers.
+ */
 interface EntryInfo {
   id: string;
   revision: number;

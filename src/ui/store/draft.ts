@@ -116,14 +116,6 @@ export function pointsOf(trace: TraceDraft): readonly SheetXY[] {
   return trace.points ?? trace.captured ?? [];
 }
 
-export function panelById(draft: Draft, id: string): PanelDraft | undefined {
-  return draft.panels.find((p) => p.id === id);
-}
-
-export function traceById(draft: Draft, id: string): TraceDraft | undefined {
-  return draft.traces.find((t) => t.id === id);
-}
-
 /** A fresh id with the prefix that no record of the list uses yet. */
 export function freshId(prefix: string, taken: readonly { id: string }[]): string {
   const used = new Set(taken.map((r) => r.id));

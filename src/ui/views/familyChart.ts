@@ -7,28 +7,20 @@
 import { h, svg } from '../dom/h.ts';
 import { evaluateUnchecked, linspace } from '../../fit/polynomial.ts';
 import type { CurveSet, Member, Quantity } from '../../model/curveset.ts';
-import { fromSI, parseUnit, PRESETS, type Unit } from '../../units/index.ts';
+import { fromSI, PRESETS } from '../../units/index.ts';
+import { exportUnits, unitOf, type ExportUnits } from '../../export/unitView.ts';
 import { QUANTITY_INK } from '../canvas/overlay.ts';
 import { niceTicks } from './ticks.ts';
 import { num, QUANTITY_NAMES, SAFETY_SENTENCE, unitText } from './words.ts';
 
-export interface ChartUnits {
-  flow: Unit;
-  head: Unit;
-  npsh: Unit;
-  power: Unit;
-  diameter: Unit;
-  efficiency: Unit;
-}
+export type ChartUnits = ExportUnits;
 
+/** The units of a preset system, as the exports use them. */
 export function chartUnits(system: 'si' | 'us'): ChartUnits {
-  const p = PRESETS[system];
-  return { flow: parseUnit('flow', p.flow), head: parseUnit('head', p.head), npsh: parseUnit('head', p.npsh), power: parseUnit('power', p.power), diameter: parseUnit('diameter', p.diameter), efficiency: parseUnit('efficiency', '%') };
+  return exportUnits({ display_units: PRESETS[system] }, system);
 }
 
-function unitFor(u: ChartUnits, q: Quantity): Unit {
-  return q === 'head' ? u.head : q === 'npshr' ? u.npsh : q === 'power' ? u.power : u.efficiency;
-}
+const unitFor = unitOf;
 
 /** Extra lines drawn on the head plot: the system curve and the operating points. */
 export interface DutyOverlay {

@@ -7,7 +7,7 @@ import type { Bench } from '../app/bench.ts';
 import type { Quantity } from '../../model/curveset.ts';
 import { parseDiameterList, setDiameters, setPump, setUnits } from '../store/actions/setup.ts';
 import { EditError } from '../store/actions/action.ts';
-import { discardEdits, removeTrace, setHidden, setLocked, traceName } from '../store/actions/traces.ts';
+import { discardEdits, removeTrace, setHidden, setLocked, setTraceSpec, traceName } from '../store/actions/traces.ts';
 import { pointsOf, type TraceDraft } from '../store/draft.ts';
 import { firstUntraced, panelFor, targetFor } from '../store/target.ts';
 import { QUANTITY_INK } from '../canvas/overlay.ts';
@@ -116,6 +116,10 @@ function traceRow(bench: Bench, t: TraceDraft, selected: boolean): HTMLElement {
     h('button', { type: 'button', class: 'link trace-name', onclick: () => { store.setSession({ selectedTrace: t.id, selectedPoint: null }); bench.showTrace(t.id); } }, name),
     h('span', { class: 'trace-meta' }, `${count} pts${t.points ? ', edited' : ''}${r ? ` · ±${num(r.max, 2)} ${unitText(r.unit.token)}` : ''}`),
     h('span', { class: 'trace-actions' },
+      t.iso === undefined && draft.diameters.length > 1
+        ? h('select', { class: 'relabel', 'aria-label': `Diameter of ${name}`, title: 'The diameter this curve belongs to', disabled: t.locked, onchange: (e: Event) => store.dispatch(setTraceSpec(t.id, { diameter: Number((e.target as HTMLSelectElement).value) })) },
+            draft.diameters.map((d) => h('option', { value: String(d), selected: d === t.diameter }, `${d} ${unitText(draft.units.diameter)}`)))
+        : null,
       h('button', { type: 'button', class: 'icon', 'aria-pressed': t.hidden ? 'true' : 'false', title: t.hidden ? 'Show this trace' : 'Hide this trace', 'aria-label': `${t.hidden ? 'Show' : 'Hide'} ${name}`, onclick: () => store.dispatch(setHidden(t.id, !t.hidden)) }, t.hidden ? 'show' : 'hide'),
       h('button', { type: 'button', class: 'icon', 'aria-pressed': t.locked ? 'true' : 'false', title: t.locked ? 'Unlock this trace' : 'Lock this trace against edits', 'aria-label': `${t.locked ? 'Unlock' : 'Lock'} ${name}`, onclick: () => store.dispatch(setLocked(t.id, !t.locked)) }, t.locked ? 'unlock' : 'lock'),
       h('button', { type: 'button', class: 'icon', title: 'Trace the line again from its guides', 'aria-label': `Re-trace ${name}`, disabled: t.locked || t.guides.length === 0, onclick: () => bench.retrace(t.id) }, 're-trace'),

@@ -54,8 +54,4 @@ export class SheetWorkerClient {
     if (reply.kind === 'result') p.resolve(reply.result);
     else p.reject(new WorkerError(reply.name, reply.message));
   }
-
-  terminate(): void {
-    this.worker.terminate();
-  }
 }

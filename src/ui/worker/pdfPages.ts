@@ -80,32 +80,23 @@ export async function pageSizes(doc: PDFDocumentProxy): Promise<PageSize[]> {
 }
 
 /**
- * Draws a region of a page. `rect` is [x, y, w, h] in sheet units (PDF points, y down);
- * `scale` is pixels per sheet unit. Returns a bitmap of round(w·scale) × round(h·scale).
+ * A white canvas for the region [x, y, w, h] (sheet units) at `scale` pixels per sheet unit,
+ * round(w·scale) × round(h·scale) pixels, at least one.
  */
-export async function renderPdfRegion(page: PDFPageProxy, scale: number, rect: readonly [number, number, number, number]): Promise<ImageBitmap> {
-  const [x, y, w, h] = rect;
-  const width = Math.max(1, Math.round(w * scale));
-  const height = Math.max(1, Math.round(h * scale));
+export function whiteCanvas(rect: readonly [number, number, number, number], scale: number): { canvas: OffscreenCanvas; context: OffscreenCanvasRenderingContext2D } {
+  const width = Math.max(1, Math.round(rect[2] * scale));
+  const height = Math.max(1, Math.round(rect[3] * scale));
   const canvas = new OffscreenCanvas(width, height);
   const context = canvas.getContext('2d') as OffscreenCanvasRenderingContext2D;
   context.fillStyle = '#ffffff';
   context.fillRect(0, 0, width, height);
-  const viewport = page.getViewport({ scale, offsetX: -x * scale, offsetY: -y * scale });
-  await page.render({ canvas: canvas as unknown as HTMLCanvasElement, canvasContext: context as unknown as CanvasRenderingContext2D, viewport, background: '#ffffff' }).promise;
-  return canvas.transferToImageBitmap();
+  return { canvas, context };
 }
 
-/** Draws a whole page as RGBA at `scale` pixels per sheet unit (for tracing and snapping). */
-export async function rasterizePdfPage(page: PDFPageProxy, scale: number): Promise<{ width: number; height: number; data: Uint8ClampedArray }> {
-  const vp = page.getViewport({ scale });
-  const width = Math.max(1, Math.round(vp.width));
-  const height = Math.max(1, Math.round(vp.height));
-  const canvas = new OffscreenCanvas(width, height);
-  const context = canvas.getContext('2d', { willReadFrequently: true }) as OffscreenCanvasRenderingContext2D;
-  context.fillStyle = '#ffffff';
-  context.fillRect(0, 0, width, height);
-  await page.render({ canvas: canvas as unknown as HTMLCanvasElement, canvasContext: context as unknown as CanvasRenderingContext2D, viewport: vp, background: '#ffffff' }).promise;
-  const image = context.getImageData(0, 0, width, height);
-  return { width, height, data: image.data };
+/** Draws a region [x, y, w, h] of a page (sheet units, PDF points, y down) at `scale` pixels per sheet unit. */
+export async function renderPdfRegion(page: PDFPageProxy, scale: number, rect: readonly [number, number, number, number]): Promise<ImageBitmap> {
+  const { canvas, context } = whiteCanvas(rect, scale);
+  const viewport = page.getViewport({ scale, offsetX: -rect[0] * scale, offsetY: -rect[1] * scale });
+  await page.render({ canvas: canvas as unknown as HTMLCanvasElement, canvasContext: context as unknown as CanvasRenderingContext2D, viewport, background: '#ffffff' }).promise;
+  return canvas.transferToImageBitmap();
 }

@@ -1,28 +1,18 @@
 /**
- * The sheet document the worker holds open: a PDF (pages drawn by pdf.js) or an image
- * (one page, decoded once). Both answer the same questions: how many pages, how big,
- * draw this region at this scale, give me the pixels.
+ * The sheet document the worker holds open for display: a PDF (pages drawn by pdf.js) or an
+ * image (one page, decoded once). Both answer the same questions: how many pages, how big,
+ * draw this region at this scale. What the take-off reads from the chosen page (paths, text,
+ * pixels) comes from the project's loaders instead, in pageSession.ts.
  */
 import type { PDFDocumentProxy } from 'pdfjs-dist';
-import { openPdf, pageSizes, rasterizePdfPage, renderPdfRegion, type PageSize } from './pdfPages.ts';
+import { openPdf, pageSizes, renderPdfRegion, whiteCanvas, type PageSize } from './pdfPages.ts';
 
 export type SheetKind = 'pdf' | 'image';
-
-export interface Pixels {
-  width: number;
-  height: number;
-  data: Uint8ClampedArray;
-  /** Pixels per sheet unit. */
-  scale: number;
-}
 
 export interface SheetSource {
   readonly kind: SheetKind;
   readonly pages: readonly PageSize[];
   render(page: number, scale: number, rect: readonly [number, number, number, number]): Promise<ImageBitmap>;
-  pixels(page: number, scale: number): Promise<Pixels>;
-  /** The pdf.js document, for vector content and text; null for an image. */
-  readonly pdf: PDFDocumentProxy | null;
   close(): void;
 }
 
@@ -62,23 +52,11 @@ export async function openSheetSource(bytes: Uint8Array, mime: string, name: str
 }
 
 function pdfSource(doc: PDFDocumentProxy, pages: PageSize[]): SheetSource {
-  const cache = new Map<string, Pixels>();
   return {
     kind: 'pdf',
     pages,
-    pdf: doc,
     async render(page, scale, rect) {
       return renderPdfRegion(await doc.getPage(page), scale, rect);
-    },
-    async pixels(page, scale) {
-      const key = `${page}@${scale}`;
-      const hit = cache.get(key);
-      if (hit) return hit;
-      const raster = await rasterizePdfPage(await doc.getPage(page), scale);
-      const px = { ...raster, scale };
-      cache.clear();
-      cache.set(key, px);
-      return px;
     },
     close() {
       void doc.destroy();
@@ -87,33 +65,16 @@ function pdfSource(doc: PDFDocumentProxy, pages: PageSize[]): SheetSource {
 }
 
 function imageSource(bitmap: ImageBitmap): SheetSource {
-  let pixelsCache: Pixels | null = null;
   return {
     kind: 'image',
     pages: [{ width: bitmap.width, height: bitmap.height }],
-    pdf: null,
     async render(_page, scale, rect) {
-      const [x, y, w, h] = rect;
-      const width = Math.max(1, Math.round(w * scale));
-      const height = Math.max(1, Math.round(h * scale));
-      const canvas = new OffscreenCanvas(width, height);
-      const context = canvas.getContext('2d') as OffscreenCanvasRenderingContext2D;
-      context.fillStyle = '#ffffff';
-      context.fillRect(0, 0, width, height);
+      const { canvas, context } = whiteCanvas(rect, scale);
       // Beyond one screen pixel per image pixel, show the pixels as they are.
       context.imageSmoothingEnabled = scale < 1;
       context.imageSmoothingQuality = 'high';
-      context.drawImage(bitmap, x, y, w, h, 0, 0, width, height);
+      context.drawImage(bitmap, rect[0], rect[1], rect[2], rect[3], 0, 0, canvas.width, canvas.height);
       return canvas.transferToImageBitmap();
-    },
-    async pixels() {
-      if (pixelsCache) return pixelsCache;
-      const canvas = new OffscreenCanvas(bitmap.width, bitmap.height);
-      const context = canvas.getContext('2d', { willReadFrequently: true }) as OffscreenCanvasRenderingContext2D;
-      context.drawImage(bitmap, 0, 0);
-      const image = context.getImageData(0, 0, bitmap.width, bitmap.height);
-      pixelsCache = { width: bitmap.width, height: bitmap.height, data: image.data, scale: 1 };
-      return pixelsCache;
     },
     close() {
       bitmap.close();

@@ -81,11 +81,6 @@ export const removePanel = (id: string): Action => (draft) => {
   return edited({ ...draft, panels: draft.panels.filter((p) => p.id !== id), traces: draft.traces.filter((t) => t.panel !== id) }, `remove panel ${id}`);
 };
 
-export const setFrame = (id: string, corner1: SheetXY, corner2: SheetXY): Action => (draft) => {
-  const frame = normalFrame(corner1, corner2);
-  return edited({ ...draft, panels: replaceById(draft.panels, id, (p) => ({ ...p, frame }), 'panel') }, `redraw frame of ${id}`);
-};
-
 export const setPanelPlots = (id: string, plots: Quantity): Action => (draft) => {
   const panel = draft.panels.find((p) => p.id === id);
   if (!panel || panel.plots === plots) return null;
