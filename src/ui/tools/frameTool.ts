@@ -56,7 +56,10 @@ export class FrameTool implements Tool {
 
   status(): string {
     const plots = PLOTS[this.host.store.session.framePlots];
-    if (this.state.kind === 'idle') return `Drag from one corner of the ${plots} plot area to the opposite corner; corners snap to grid-line crossings.`;
+    if (this.state.kind === 'idle') {
+      const more = this.host.store.draft.panels.length > 0 ? ' When every panel is set, go on to “Trace the curves” (3).' : '';
+      return `Drag from one corner of the ${plots} plot area to the opposite corner; corners snap to grid-line crossings.${more}`;
+    }
     if (this.state.kind === 'dragging') return 'Release on the opposite corner of the plot area.';
     return `Click the opposite corner of the ${plots} plot area, or press Escape to start again.`;
   }
