@@ -148,6 +148,10 @@ export class User {
 
   async clickSheet(at: readonly [number, number], what: string, modifiers: { shift?: boolean; alt?: boolean } = {}): Promise<void> {
     const [x, y] = await this.screenOf(at);
+    const box = await this.page.locator('.stage').boundingBox();
+    if (!box || x < box.x || y < box.y || x > box.x + box.width || y > box.y + box.height) {
+      throw new Error(`The point ${at.join(', ')} (${what}) is outside the sheet's view; the test must bring it into view first.`);
+    }
     await this.page.mouse.move(x - 6, y - 4);
     await this.page.mouse.move(x, y, { steps: 3 });
     if (modifiers.shift) await this.page.keyboard.down('Shift');

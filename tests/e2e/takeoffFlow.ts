@@ -216,7 +216,7 @@ export async function runTakeoff(page: Page, url: string, sample: Sample, artifa
       await user.zoomAt(guide, `near ${t.quantity} ${t.diameter ?? t.iso}`);
       zoomedIn = true;
     } else if (zoomedIn) {
-      await user.press('0', 'fit the page again');
+      await user.click(page.getByRole('button', { name: 'Fit the page (0)' }), 'fit the page again');
       zoomedIn = false;
     }
     const count = await state<number>(page, 'wb.store.draft.traces.length');
@@ -229,7 +229,13 @@ export async function runTakeoff(page: Page, url: string, sample: Sample, artifa
     if (error) throw new Error(`Tracing ${t.id ?? t.quantity} failed: ${error}`);
     await settle(page);
     if (!once) {
-      for (const g of sampleGuides.filter((x) => x !== guide)) {
+      const more = sampleGuides.filter((x) => x !== guide);
+      if (more.length && zoomedIn) {
+        // The other guides may lie outside the zoomed view: the whole page again first.
+        await user.click(page.getByRole('button', { name: 'Fit the page (0)' }), 'fit the page again');
+        zoomedIn = false;
+      }
+      for (const g of more) {
         await user.clickSheet(g, `another guide on ${t.quantity} ${t.diameter ?? t.iso}`, { shift: true });
         await settle(page);
       }

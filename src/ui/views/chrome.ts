@@ -70,7 +70,7 @@ export function statusLine(bench: Bench): HTMLElement {
   const m = session.message;
   return h('footer', { class: 'statusline' },
     h('div', { class: 'next', id: 'next-click', 'aria-live': 'polite' }, h('span', { class: 'label' }, 'Next click: '), bench.nextClick()),
-    h('div', { class: `message ${m?.tone ?? ''}`, id: 'message', role: m?.tone === 'error' ? 'alert' : 'status' }, m?.text ?? ''),
+    h('div', { class: `message ${m?.tone ?? ''}`, id: 'message', role: m?.tone === 'error' ? 'alert' : 'status', title: m?.text ?? '' }, m?.text ?? ''),
     session.progress
       ? h('div', { class: 'progress', role: 'progressbar', 'aria-label': session.progress.label, ...(session.progress.fraction !== null ? { 'aria-valuenow': String(Math.round(session.progress.fraction * 100)), 'aria-valuemin': '0', 'aria-valuemax': '100' } : {}) },
           h('span', null, session.progress.label), h('span', { class: `bar${session.progress.fraction === null ? ' indeterminate' : ''}`, style: { width: session.progress.fraction === null ? '' : `${Math.round(session.progress.fraction * 100)}%` } }))
