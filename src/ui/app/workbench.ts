@@ -102,17 +102,18 @@ export class Workbench implements Bench, ToolHost {
       move: (p) => {
         this.updateReadout(p);
         this.activeTool()?.move(p);
-        this.requestRender();
+        // A pointer move changes the status line and the overlay only, never the step list.
+        this.requestRender('light');
       },
       up: (p) => this.activeTool()?.up(p),
       leave: () => {
         this.magnifier.hide();
         this.activeTool()?.leave();
         this.readout = '';
-        this.requestRender();
+        this.requestRender('light');
       },
     });
-    this.canvas.onView(() => this.requestRender());
+    this.canvas.onView(() => this.requestRender('light'));
     this.flow = new SheetFlow(this);
     this.downloads = new Downloads(this);
     this.store.subscribe((_, reason) => {
@@ -173,13 +174,26 @@ export class Workbench implements Bench, ToolHost {
 
   // ── rendering ──────────────────────────────────────────────────────────────
 
-  requestRender(): void {
+  private pendingScope: 'all' | 'light' = 'light';
+
+  /** Redraws on the next frame: 'light' is the status line and the overlay; 'all' is every view. */
+  requestRender(scope: 'all' | 'light' = 'all'): void {
+    if (scope === 'all') this.pendingScope = 'all';
     if (this.frameRequested) return;
     this.frameRequested = true;
     requestAnimationFrame(() => {
       this.frameRequested = false;
-      this.render();
+      const full = this.pendingScope === 'all';
+      this.pendingScope = 'light';
+      if (full) this.render();
+      else this.renderLight();
     });
+  }
+
+  private renderLight(): void {
+    morph(this.parts.status, statusLine(this));
+    this.parts.stage.style.cursor = this.activeTool()?.cursor ?? 'default';
+    this.canvas.redrawOverlay();
   }
 
   private lastStep: Step | null = null;
