@@ -261,6 +261,8 @@ export async function runTakeoff(page: Page, url: string, sample: Sample, artifa
   const linked = page.locator('.findings button.finding-text').first();
   if (await linked.count()) {
     await user.click(linked, 'a finding, to see its trace');
+    const picked = await state<string | null>(page, 'wb.store.session.highlightedTrace');
+    if (!picked) throw new Error('Clicking a finding did not pick out its trace on the sheet.');
     shots.push(await user.screenshot('4-finding-picked'));
   }
 
