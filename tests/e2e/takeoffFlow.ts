@@ -152,7 +152,9 @@ export async function runTakeoff(page: Page, url: string, sample: Sample, artifa
     const made = await state<string>(page, 'wb.store.draft.panels[wb.store.draft.panels.length - 1].plots');
     if (made !== plots) await user.click(page.locator(`#${id}-plots`), 'panel plots select').then(() => page.selectOption(`#${id}-plots`, plots));
     const proposal = page.locator(`#use-proposal-${id}`);
-    await page.waitForTimeout(vector ? 1200 : 200);
+    // On a vector page the anchors read from the text are offered a moment after the frame is drawn.
+    if (vector) await proposal.waitFor({ state: 'visible', timeout: 20_000 }).catch(() => undefined);
+    else await page.waitForTimeout(200);
     if (await proposal.isVisible()) {
       await user.click(proposal, `use the proposed anchors of the ${plots} panel`);
     } else {
