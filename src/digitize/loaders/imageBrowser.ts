@@ -6,6 +6,7 @@
 import type { RasterImage } from '../raster.ts';
 import { checkRasterSize, DEFAULT_SHEET_LIMITS, SheetError, type Sheet, type SheetLimits } from '../sheet.ts';
 import { damagedImage, readImageHeader } from './imageHeader.ts';
+import { imageSheet } from './imageSheet.ts';
 
 export interface ImageBrowserOptions {
   limits?: SheetLimits;
@@ -53,27 +54,15 @@ export async function loadImageSheetBrowser(bytes: Uint8Array, options: ImageBro
   const limits = options.limits ?? DEFAULT_SHEET_LIMITS;
   const image = await loadImageRasterBrowser(bytes, options);
   const sha256 = await sha256Hex(bytes);
-  return {
-    kind: 'image',
-    width: image.width,
-    height: image.height,
-    sha256,
-    page: 1,
-    render: async (scale: number) => {
-      if (!(scale > 0) || !Number.isFinite(scale)) throw new SheetError(`The render scale ${scale} is not a positive number; use 1 for an image at its own resolution.`);
-      if (scale === 1) return image;
-      const w = Math.max(1, Math.round(image.width * scale));
-      const h = Math.max(1, Math.round(image.height * scale));
-      checkRasterSize(w, h, limits, 'The rendered image');
-      const bitmap = await createImageBitmap(new ImageData(new Uint8ClampedArray(image.data), image.width, image.height));
-      try {
-        return drawToRaster(bitmap, w, h, scale);
-      } finally {
-        bitmap.close();
-      }
-    },
-    paths: async () => [],
-    text: async () => [],
-    close: async () => undefined,
-  };
+  return imageSheet(image, sha256, async (scale) => {
+    const w = Math.max(1, Math.round(image.width * scale));
+    const h = Math.max(1, Math.round(image.height * scale));
+    checkRasterSize(w, h, limits, 'The rendered image');
+    const bitmap = await createImageBitmap(new ImageData(new Uint8ClampedArray(image.data), image.width, image.height));
+    try {
+      return drawToRaster(bitmap, w, h, scale);
+    } finally {
+      bitmap.close();
+    }
+  });
 }

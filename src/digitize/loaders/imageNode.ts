@@ -14,6 +14,7 @@ import { createCanvas } from '@napi-rs/canvas';
 import type { RasterImage } from '../raster.ts';
 import { checkRasterSize, DEFAULT_SHEET_LIMITS, SheetError, type Sheet, type SheetLimits } from '../sheet.ts';
 import { damagedImage, readImageHeader } from './imageHeader.ts';
+import { imageSheet } from './imageSheet.ts';
 
 export interface ImageNodeOptions {
   limits?: SheetLimits;
@@ -130,18 +131,5 @@ export async function loadImageSheetNode(bytes: Uint8Array, options: ImageNodeOp
   const limits = options.limits ?? DEFAULT_SHEET_LIMITS;
   const image = await loadImageRasterNode(bytes, options);
   const sha256 = createHash('sha256').update(bytes).digest('hex');
-  return {
-    kind: 'image',
-    width: image.width,
-    height: image.height,
-    sha256,
-    page: 1,
-    render: async (scale: number) => {
-      if (!(scale > 0) || !Number.isFinite(scale)) throw new SheetError(`The render scale ${scale} is not a positive number; use 1 for an image at its own resolution.`);
-      return scale === 1 ? image : resample(image, scale, limits);
-    },
-    paths: async () => [],
-    text: async () => [],
-    close: async () => undefined,
-  };
+  return imageSheet(image, sha256, (scale) => resample(image, scale, limits));
 }
