@@ -4,32 +4,25 @@
  * Errors reach the user as one sentence on stderr, never as a stack trace.
  */
 import { ZodError } from 'zod';
+import { describeZodError, isUserError, UserError } from '../model/errors.ts';
+
+export { describeZodError };
 
 export const EXIT_OK = 0;
 export const EXIT_FAILED_CHECKS = 1;
 export const EXIT_BAD_INPUT = 2;
 
 /** Input the command cannot use. The message is shown to the user as is. */
-export class InputError extends Error {
+export class InputError extends UserError {
   override name = 'InputError';
 }
 
-/** Turns a zod error into one readable sentence naming the first problems. */
-export function describeZodError(error: ZodError, what: string): string {
-  const issues = error.issues.slice(0, 3).map((i) => {
-    const path = i.path.length ? i.path.join('.') : '(top level)';
-    return `${path}: ${i.message}`;
-  });
-  const more = error.issues.length > 3 ? ` (and ${error.issues.length - 3} more)` : '';
-  return `${what} is not valid — ${issues.join('; ')}${more}.`;
-}
 
 /** One line for any thrown value; programmer errors are flagged as such. */
 export function sentenceFor(error: unknown): string {
   if (error instanceof ZodError) return describeZodError(error, 'The input');
   if (error instanceof Error) {
-    const known = ['InputError', 'UnitError', 'CalibrationError', 'SheetError', 'FitError', 'ExtrapolationError', 'TakeoffError', 'CaptureError', 'DutyError', 'LibraryError'];
-    if (known.includes(error.name) || error.name.endsWith('InputError')) return error.message;
+    if (isUserError(error)) return error.message;
     return `Unexpected internal error: ${error.message}. Please report it with the input that caused it.`;
   }
   return `Unexpected internal error: ${String(error)}.`;

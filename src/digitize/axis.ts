@@ -3,10 +3,11 @@
  * Calibration works on the transformed value, where every axis is linear; the pair
  * forward/inverse are exact inverses on the valid domain.
  */
+import { UserError } from '../model/errors.ts';
 import type { AxisScaleType } from '../model/takeoff.ts';
 
 /** Thrown when anchors cannot define a calibration; the message says what to fix. */
-export class CalibrationError extends Error {
+export class CalibrationError extends UserError {
   override name = 'CalibrationError';
 }
 

@@ -9,6 +9,7 @@
  * With a single guide the line is followed both ways until it ends.
  * A trace given as explicit points is used as is. Pure: works on the RGBA buffer only.
  */
+import { UserError } from '../model/errors.ts';
 import simplify from 'simplify-js';
 import { colourDistance, estimatePaper, inkModel, membership, MIN_CONTRAST, windowAround, type InkModel, type Rgb } from './colour.ts';
 import { followLine, indexPath, stepping, type FollowLimits, type LineStyle } from './lineFollow.ts';
@@ -17,7 +18,7 @@ import { sheetPoint, type SheetPoint } from './points.ts';
 import type { RasterImage } from './raster.ts';
 
 /** Guides or options the tracer cannot use. The message says what to change. */
-export class TraceInputError extends Error {
+export class TraceInputError extends UserError {
   override name = 'TraceInputError';
 }
 

@@ -5,6 +5,7 @@
  * All geometry is in sheet coordinates (see points.ts): PDF points at scale 1 for a PDF page,
  * pixels for an image; origin top-left, y down.
  */
+import { UserError } from '../model/errors.ts';
 import type { SheetPoint } from './points.ts';
 import type { RasterImage } from './raster.ts';
 
@@ -65,7 +66,7 @@ export interface Sheet {
 }
 
 /** Thrown for a sheet that cannot be read; the message says what was wrong and what to do. */
-export class SheetError extends Error {
+export class SheetError extends UserError {
   override name = 'SheetError';
 }
 

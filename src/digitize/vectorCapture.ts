@@ -11,6 +11,7 @@
  * 5. a line the drawing interrupts (for an inline label) is stitched across the gap when no
  *    single line passes near all guides (stitch.ts).
  */
+import { UserError } from '../model/errors.ts';
 import { DEFAULT_FLATNESS, flattenPath } from './flatten.ts';
 import { arcLengthAt, arcLengths, clipPolyline, dedupe, nearestOnPolyline, slice, type PolylinePosition } from './polyline.ts';
 import type { SheetPoint } from './points.ts';
@@ -20,7 +21,7 @@ import { centrelineOf } from './outlines.ts';
 import { stitchAlongGuides } from './stitch.ts';
 
 /** Thrown when no drawn line fits the guides; the message says what to do. */
-export class CaptureError extends Error {
+export class CaptureError extends UserError {
   override name = 'CaptureError';
 }
 

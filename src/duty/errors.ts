@@ -1,4 +1,5 @@
 /** Thrown when a duty check is asked for with input it cannot use; the message says what to fix. */
-export class DutyError extends Error {
+import { UserError } from '../model/errors.ts';
+export class DutyError extends UserError {
   override name = 'DutyError';
 }

@@ -3,6 +3,7 @@
  * head-curve domain. A cell is empty where that quantity has no curve, or where the flow
  * lies outside that curve's fitted range — a table never carries a silent extrapolation.
  */
+import { UserError } from '../model/errors.ts';
 import type { CurveSet, Member, Quantity } from '../model/curveset.ts';
 import { evaluate, linspace } from '../fit/polynomial.ts';
 import { fromSI } from '../units/index.ts';
@@ -10,7 +11,7 @@ import { cell, exportUnits, unitOf } from './unitView.ts';
 
 const COLUMNS: Quantity[] = ['head', 'efficiency', 'power', 'npshr'];
 
-export class ExportInputError extends Error {
+export class ExportInputError extends UserError {
   override name = 'ExportInputError';
 }
 

@@ -14,6 +14,7 @@
  * A fitted curve y(Q) = Σ c_i (Q/s)^i scales exactly: y'(Q') = r^k · y(Q'/r) is the same
  * polynomial with flow_scale s·r and coefficients c_i·r^k, so scaling never refits.
  */
+import { UserError } from '../model/errors.ts';
 import type { Curve, CurveSet, Member, PolynomialFit, Quantity } from '../model/curveset.ts';
 import { evaluateUnchecked } from './polynomial.ts';
 
@@ -21,7 +22,7 @@ import { evaluateUnchecked } from './polynomial.ts';
 export const VALUE_EXPONENT: Readonly<Record<Quantity, number>> = { head: 2, efficiency: 0, power: 3, npshr: 2 };
 
 /** Thrown when a diameter or speed cannot be reached from the curve set's members. */
-export class AffinityInputError extends Error {
+export class AffinityInputError extends UserError {
   override name = 'AffinityInputError';
 }
 

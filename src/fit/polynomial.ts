@@ -3,6 +3,7 @@
  * Evaluation never hides extrapolation: `evaluate` returns a flag, `evaluateWithin`
  * refuses, and only `evaluateUnchecked` (for plotting beyond the domain on purpose) is silent.
  */
+import { UserError } from '../model/errors.ts';
 import type { PolynomialFit } from '../model/curveset.ts';
 
 export interface Evaluation {
@@ -12,7 +13,7 @@ export interface Evaluation {
 }
 
 /** Thrown when a caller insists on the fitted domain and Q lies outside it. */
-export class ExtrapolationError extends Error {
+export class ExtrapolationError extends UserError {
   override name = 'ExtrapolationError';
 }
 

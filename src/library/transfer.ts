@@ -10,7 +10,7 @@
 import Database from 'better-sqlite3';
 import { z } from 'zod';
 import { TOOL_NAME, TOOL_VERSION } from '../version.ts';
-import { describeZodError } from '../cli/errors.ts';
+import { describeZodError } from '../model/errors.ts';
 import { LibraryError } from './errors.ts';
 import { isEntryId, isSha256 } from './ids.ts';
 import type { LibraryStore } from './store.ts';

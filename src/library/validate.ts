@@ -8,7 +8,7 @@ import { ZodError } from 'zod';
 import type { CurveSet } from '../model/curveset.ts';
 import { toCurveSet } from '../model/curvesetIO.ts';
 import { parseTakeoff, type Takeoff } from '../model/takeoff.ts';
-import { describeZodError } from '../cli/errors.ts';
+import { describeZodError } from '../model/errors.ts';
 import { LibraryError } from './errors.ts';
 
 export interface CheckedCurveSet {

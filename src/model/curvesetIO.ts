@@ -2,10 +2,11 @@
  * Reading and writing curve-set JSON. Reading validates and migrates; writing emits the
  * fields in schema order with two-space indentation, so files diff cleanly.
  */
+import { UserError } from './errors.ts';
 import { ZodError } from 'zod';
 import { CURVESET_FORMAT, CURVESET_VERSION, CurveSet } from './curveset.ts';
 
-export class CurveSetFormatError extends Error {
+export class CurveSetFormatError extends UserError {
   override name = 'CurveSetInputError';
 }
 

@@ -4,9 +4,10 @@
  * quantity ∈ head | efficiency | power | npshr; efficiency in %; the other columns in the
  * units the caller names. Parsing is pure text → rows; units are applied by the caller.
  */
+import { UserError } from './errors.ts';
 import { QUANTITIES, type Quantity } from './curveset.ts';
 
-export class PointsTableError extends Error {
+export class PointsTableError extends UserError {
   override name = 'PointsTableInputError';
 }
 

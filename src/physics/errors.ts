@@ -1,4 +1,5 @@
 /** Thrown when a physical property is asked for outside the range its equation covers. */
-export class PhysicsInputError extends Error {
+import { UserError } from '../model/errors.ts';
+export class PhysicsInputError extends UserError {
   override name = 'PhysicsInputError';
 }

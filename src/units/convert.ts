@@ -2,10 +2,11 @@
  * Parsing unit tokens and converting between display numbers and SI.
  * The only place where a display unit turns into SI or back.
  */
+import { UserError } from '../model/errors.ts';
 import { UNITS, type QuantityKind, type Unit } from './units.ts';
 
 /** Thrown for a unit token that is not known for the quantity asked for. */
-export class UnitError extends Error {
+export class UnitError extends UserError {
   override name = 'UnitError';
 }
 

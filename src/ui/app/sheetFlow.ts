@@ -5,7 +5,7 @@
  * never replaced until the new sheet has been read successfully.
  */
 import { ZodError } from 'zod';
-import { describeZodError } from '../../cli/errors.ts';
+import { describeZodError } from '../../model/errors.ts';
 import { choosePage, loadSheet, readFromSheet } from '../store/actions/setup.ts';
 import { readHints, type TextItem } from '../geometry/hints.ts';
 import type { Draft, SheetRef } from '../store/draft.ts';

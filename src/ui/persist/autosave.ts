@@ -3,6 +3,7 @@
  * per sheet, so that a reload or a crash loses nothing. A failed write is reported, never
  * fatal: the draft in memory stays as it is.
  */
+import { UserError } from '../../model/errors.ts';
 import type { Draft } from '../store/draft.ts';
 import type { Step, TraceTarget } from '../store/store.ts';
 
@@ -32,7 +33,7 @@ export interface SavedSheet {
 }
 
 /** Thrown when the browser refuses to keep the work; the message says what to do instead. */
-export class AutosaveError extends Error {
+export class AutosaveError extends UserError {
   override name = 'AutosaveError';
 }
 

@@ -3,6 +3,7 @@
  * is not yet usable (anchors without a value, traces without points or guides) and says so;
  * reading validates with the file's schema and rebuilds the workbench's extras.
  */
+import { UserError } from '../../model/errors.ts';
 import type { Quantity } from '../../model/curveset.ts';
 import { calibrate } from '../../digitize/calibration.ts';
 import { parseTakeoff, Takeoff, TAKEOFF_FORMAT, TAKEOFF_VERSION, type Panel, type Trace } from '../../model/takeoff.ts';
@@ -15,7 +16,7 @@ export interface WrittenTakeoff {
 }
 
 /** Thrown when the draft cannot yet make a take-off file; the message says what is missing. */
-export class DraftIncompleteError extends Error {
+export class DraftIncompleteError extends UserError {
   override name = 'TakeoffError';
 }
 

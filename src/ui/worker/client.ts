@@ -2,11 +2,12 @@
  * The page's side of the sheet worker: typed calls that resolve with the result and
  * report progress on the way.
  */
+import { UserError } from '../../model/errors.ts';
 import type { Progress, WorkerCall, WorkerReply } from './rpc.ts';
 import type { Request, RequestName, Requests } from './protocol.ts';
 
 /** An error raised inside the worker, with the worker's name and message kept. */
-export class WorkerError extends Error {
+export class WorkerError extends UserError {
   constructor(name: string, message: string) {
     super(message);
     this.name = name;

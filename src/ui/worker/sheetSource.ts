@@ -4,6 +4,7 @@
  * draw this region at this scale. What the take-off reads from the chosen page (paths, text,
  * pixels) comes from the project's loaders instead, in pageSession.ts.
  */
+import { UserError } from '../../model/errors.ts';
 import type { PDFDocumentProxy } from 'pdfjs-dist';
 import { openPdf, pageSizes, renderPdfRegion, whiteCanvas, type PageSize } from './pdfPages.ts';
 
@@ -17,7 +18,7 @@ export interface SheetSource {
 }
 
 /** Thrown for a file that is neither a readable PDF nor a readable PNG or JPEG. */
-export class SheetFileError extends Error {
+export class SheetFileError extends UserError {
   override name = 'SheetError';
 }
 

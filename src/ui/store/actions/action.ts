@@ -3,6 +3,7 @@
  * draft with a label for the undo list, or null when nothing would change. Bad input
  * throws EditError with a sentence for the status line; the draft is then left as it was.
  */
+import { UserError } from '../../../model/errors.ts';
 import type { Draft } from '../draft.ts';
 
 export interface ActionResult {
@@ -15,7 +16,7 @@ export interface ActionResult {
 
 export type Action = (draft: Draft) => ActionResult | null;
 
-export class EditError extends Error {
+export class EditError extends UserError {
   override name = 'EditError';
 }
 
