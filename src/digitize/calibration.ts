@@ -9,7 +9,7 @@
  *   constant x run parallel to the y-axis anchors' line and vice versa.
  * `toData` and `toSheet` are exact inverses (up to rounding) on the valid domain.
  */
-import { dataPoint, sheetPoint, type DataPoint, type SheetPoint } from './points.ts';
+import { dataPoint, sheetPoint, type DataPoint, type SheetPoint, type SheetCoordinates, type DataCoordinates } from './points.ts';
 import { axisTransform, CalibrationError, type AxisTransform } from './axis.ts';
 import type { AxisScaleType } from '../model/takeoff.ts';
 
@@ -42,8 +42,8 @@ export interface Calibration {
   readonly maxPercentOfSpan: number;
   /** Plain sentences for anchors off by more than the warning threshold. */
   readonly warnings: readonly string[];
-  toData(p: SheetPoint | readonly [number, number]): DataPoint;
-  toSheet(d: DataPoint | readonly [number, number]): SheetPoint;
+  toData(p: SheetCoordinates): DataPoint;
+  toSheet(d: DataCoordinates): SheetPoint;
 }
 
 export interface CalibrateOptions {

@@ -14,6 +14,14 @@ export type SheetPoint = InSpace<'sheet'>;
 export type DataPoint = InSpace<'data'>;
 export type PixelPoint = InSpace<'pixel'>;
 
+/**
+ * A sheet point, or a plain pair read from a file that is known to hold sheet coordinates.
+ * A point branded as another space does not fit: `toData(toData(p))` fails to compile.
+ */
+export type SheetCoordinates = readonly [number, number] & { readonly [space]?: 'sheet' };
+/** A data point, or a plain pair known to hold data values; another space's point does not fit. */
+export type DataCoordinates = readonly [number, number] & { readonly [space]?: 'data' };
+
 export const sheetPoint = (x: number, y: number) => [x, y] as unknown as SheetPoint;
 export const dataPoint = (x: number, y: number) => [x, y] as unknown as DataPoint;
 export const pixelPoint = (x: number, y: number) => [x, y] as unknown as PixelPoint;

@@ -2,17 +2,17 @@
  * The browser workbench as the server sees it: dist/ built by Vite from index.html and src/ui.
  * `start` rebuilds it in-process (Vite's JS API) when dist/ is missing or older than its sources.
  */
-import { existsSync, readdirSync, statSync } from 'node:fs';
+import { existsSync, statSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { importGraph } from './importGraph.ts';
 
 /** The repository root (this file lives in src/server/). */
 export const PROJECT_ROOT = join(dirname(fileURLToPath(import.meta.url)), '..', '..');
 export const DIST_DIR = join(PROJECT_ROOT, 'dist');
 
-/** Folders whose code ends up in the workbench bundle. */
-const SOURCE_DIRS = ['src/ui', 'src/model', 'src/units', 'src/fit', 'src/duty', 'src/digitize', 'src/export'];
-const SOURCE_FILES = ['index.html', 'vite.config.ts'];
+/** Files that shape the build besides the sources the page imports. */
+const CONFIG_FILES = ['index.html', 'vite.config.ts'];
 
 export interface WorkbenchState {
   /** index.html and src/ui exist, so a build can be attempted. */
@@ -23,16 +23,15 @@ export interface WorkbenchState {
   stale: boolean;
 }
 
-function newestMtime(path: string): number {
-  if (!existsSync(path)) return 0;
-  const st = statSync(path);
-  if (!st.isDirectory()) return st.mtimeMs;
-  let newest = st.mtimeMs;
-  for (const entry of readdirSync(path, { withFileTypes: true })) {
-    if (entry.name.startsWith('.') || entry.name === 'node_modules') continue;
-    newest = Math.max(newest, newestMtime(join(path, entry.name)));
-  }
-  return newest;
+/**
+ * The files the workbench bundle is built from: index.html, its scripts and everything they
+ * import, followed through the real import graph (workers and dynamic imports included), so that
+ * a change in any folder the UI reaches — src/physics through src/duty, say — makes dist/ stale.
+ */
+export function workbenchSources(root = PROJECT_ROOT): { files: string[]; broken: boolean } {
+  const graph = importGraph(root, [join(root, 'index.html')]);
+  const files = [...new Set([...graph.files, ...CONFIG_FILES.map((f) => join(root, f)).filter((f) => existsSync(f))])];
+  return { files, broken: graph.missing.length > 0 };
 }
 
 export function workbenchState(root = PROJECT_ROOT): WorkbenchState {
@@ -41,8 +40,10 @@ export function workbenchState(root = PROJECT_ROOT): WorkbenchState {
   const built = existsSync(index);
   if (!built) return { buildable, built, stale: buildable };
   const builtAt = statSync(index).mtimeMs;
-  const sources = Math.max(...SOURCE_DIRS.map((d) => newestMtime(join(root, d))), ...SOURCE_FILES.map((f) => newestMtime(join(root, f))));
-  return { buildable, built, stale: buildable && sources > builtAt };
+  const sources = workbenchSources(root);
+  // A broken import is "stale" too: the rebuild then reports it as one sentence.
+  const newest = Math.max(0, ...sources.files.map((f) => statSync(f).mtimeMs));
+  return { buildable, built, stale: buildable && (sources.broken || newest > builtAt) };
 }
 
 /**

@@ -1,4 +1,3 @@
-export * from './quantities.ts';
 export * from './constants.ts';
 export * from './units.ts';
 export * from './convert.ts';

@@ -27,6 +27,11 @@ export interface CanvasLike {
   getContext(kind: '2d'): unknown;
 }
 
+/** The part of a 2D context read back after rendering (the DOM and @napi-rs/canvas both have it). */
+interface PixelReader {
+  getImageData(x: number, y: number, width: number, height: number): { data: Uint8ClampedArray };
+}
+
 export interface OpenPdfOptions {
   page?: number;
   limits?: SheetLimits;
@@ -109,9 +114,9 @@ export async function openPdfSheet(pdfjs: PdfJsModule, bytes: Uint8Array, option
       const height = Math.ceil(vp.height);
       checkRasterSize(width, height, limits, `Rendering ${name} at scale ${scale}`);
       const canvas = options.createCanvas(width, height);
-      const context = canvas.getContext('2d') as CanvasRenderingContext2D;
+      const context = canvas.getContext('2d') as PixelReader;
       try {
-        await page.render({ canvas: null, canvasContext: context, viewport: vp }).promise;
+        await page.render({ canvas: null, canvasContext: context as Parameters<typeof page.render>[0]['canvasContext'], viewport: vp }).promise;
       } catch (error) {
         throw describePdfError(error, name);
       }
