@@ -35,6 +35,17 @@ export function parseUnit(kind: QuantityKind, token: string): Unit {
   throw new UnitError(`Unknown ${kind} unit "${token}". Use one of: ${tokensOf(kind).join(', ')}.`);
 }
 
+/**
+ * The screen label of a unit token of any kind ("m3/h" → "m³/h", "igpm" → "imp gpm"); a token
+ * that names no unit comes back as it is.
+ */
+export function labelOf(token: string): string {
+  const t = normalize(token);
+  const lower = t.toLowerCase();
+  const unit = UNITS.find((u) => u.token === t) ?? UNITS.find((u) => u.token.toLowerCase() === lower || u.aliases.some((a) => a.toLowerCase() === lower));
+  return unit ? unit.label || unit.token : token;
+}
+
 /** Display value in `unit` → SI. */
 export function toSI(value: number, unit: Unit): number {
   return value * unit.factor + unit.offset;

@@ -3,3 +3,5 @@ export * from './units.ts';
 export * from './convert.ts';
 export * from './presets.ts';
 export * from './format.ts';
+export * from './quantityUnits.ts';
+export * from './scale.ts';

@@ -39,6 +39,8 @@ export interface ResolvedUnits {
   pressure: Unit;
   temperature: Unit;
   speed: Unit;
+  /** Always %. */
+  efficiency: Unit;
 }
 
 /** Parses every token of a system; throws UnitError naming the first bad one. */
@@ -52,6 +54,7 @@ export function resolveUnits(system: UnitSystem): ResolvedUnits {
     pressure: parseUnit('pressure', system.pressure),
     temperature: parseUnit('temperature', system.temperature),
     speed: parseUnit('speed', system.speed),
+    efficiency: parseUnit('efficiency', '%'),
   };
 }
 

@@ -3,7 +3,7 @@ import { snapToRaster, snapToStraights, straightPieces, strongestRun } from '../
 import { plotsOfFrame, quantityOfTitle, readHints, type TextItem } from '../../src/ui/geometry/hints.ts';
 import { fitRect, toScreen, toSheetFromScreen, visibleRect, zoomAt } from '../../src/ui/canvas/view.ts';
 import { bestProposal } from '../../src/ui/app/proposals.ts';
-import { niceTicks } from '../../src/ui/views/ticks.ts';
+import { niceTicks } from '../../src/units/index.ts';
 import { sheetPoint } from '../../src/digitize/points.ts';
 import type { VectorPath } from '../../src/digitize/sheet.ts';
 import type { RasterImage } from '../../src/digitize/raster.ts';

@@ -1,9 +1,11 @@
 /**
  * Figures in findings are quoted in the curve set's display units (a US set says "12 in",
- * not "304.8 mm"). This builds the formatters once per curve set.
+ * not "304.8 mm"). This builds the formatters once per curve set, from the one formatter in
+ * src/units: a figure that is not a finite number is a bug in the check that passes it
+ * (`NotFiniteError`), never "NaN" in a sentence.
  */
 import type { DisplayUnits, Member } from '../../model/curveset.ts';
-import { formatSI, parseUnit, roundSignificant } from '../../units/index.ts';
+import { curveUnits, formatChange, formatPercent, formatSI, formatValue } from '../../units/index.ts';
 
 export interface Display {
   flow(si: number): string;
@@ -21,20 +23,16 @@ export interface Display {
 }
 
 export function displayFor(units: DisplayUnits): Display {
-  const flow = parseUnit('flow', units.flow);
-  const head = parseUnit('head', units.head);
-  const npsh = parseUnit('head', units.npsh);
-  const power = parseUnit('power', units.power);
-  const diameter = parseUnit('diameter', units.diameter);
+  const { flow, head, npsh, power, diameter } = curveUnits(units);
   return {
     flow: (v) => formatSI(v, flow, 4),
     head: (v) => formatSI(v, head, 4),
     npsh: (v) => formatSI(v, npsh, 3),
     power: (v) => formatSI(v, power, 4),
     diameter: (v) => formatSI(v, diameter, 4),
-    efficiency: (f) => `${roundSignificant(f * 100, 3)} %`,
-    percent: (r, digits = 1) => `${r >= 0 ? '+' : '−'}${Math.abs(r * 100).toFixed(digits)} %`,
-    member: (m) => (m.diameter_m !== undefined ? formatSI(m.diameter_m, diameter, 4) : m.label ?? `${roundSignificant(m.speed_rpm, 4)} rpm`),
+    efficiency: (f) => formatPercent(f, 3),
+    percent: (r, digits = 1) => formatChange(r, digits),
+    member: (m) => (m.diameter_m !== undefined ? formatSI(m.diameter_m, diameter, 4) : m.label ?? formatValue(m.speed_rpm, 'rpm', 4)),
     units: { flow: flow.label, head: head.label, npsh: npsh.label, power: power.label, diameter: diameter.label },
   };
 }

@@ -12,7 +12,7 @@ import { PRELIMINARY } from '../../duty/cautions.ts';
 import { evaluateUnchecked, linspace } from '../../fit/polynomial.ts';
 import { fromSI, toSI } from '../../units/index.ts';
 import { chartUnits, familyChart } from '../views/familyChart.ts';
-import { niceTicks } from '../views/ticks.ts';
+import { niceTicks } from '../../units/index.ts';
 import { num, unitText } from '../views/words.ts';
 
 /**

@@ -7,20 +7,16 @@
 import { h, svg } from '../dom/h.ts';
 import { evaluateUnchecked, linspace } from '../../fit/polynomial.ts';
 import type { CurveSet, Member, Quantity } from '../../model/curveset.ts';
-import { fromSI, PRESETS } from '../../units/index.ts';
-import { exportUnits, unitOf, type ExportUnits } from '../../export/unitView.ts';
+import { curveUnits, fromSI, niceLinearScale, PRESETS, unitOfQuantity, type CurveUnits } from '../../units/index.ts';
 import { QUANTITY_INK } from '../canvas/overlay.ts';
-import { niceTicks } from './ticks.ts';
 import { num, QUANTITY_NAMES, SAFETY_SENTENCE, unitText } from './words.ts';
 
-export type ChartUnits = ExportUnits;
+export type ChartUnits = CurveUnits;
 
-/** The units of a preset system, as the exports use them. */
+/** The units of a preset system. */
 export function chartUnits(system: 'si' | 'us'): ChartUnits {
-  return exportUnits({ display_units: PRESETS[system] }, system);
+  return curveUnits(PRESETS[system]);
 }
-
-const unitFor = unitOf;
 
 /** Extra lines drawn on the head plot: the system curve and the operating points. */
 export interface DutyOverlay {
@@ -44,30 +40,30 @@ export function familyChart(set: CurveSet, system: 'si' | 'us', duty?: DutyOverl
   const domains = members.flatMap((m) => quantities.flatMap((q) => (m.curves[q]?.fit ? [m.curves[q]!.fit!.domain] : [])));
   if (domains.length === 0) return h('p', { class: 'hint' }, 'No fitted curves yet.');
   const qMax = Math.max(...domains.map((d) => d[1]), ...(duty?.points.map((p) => p.flow) ?? []));
-  const xt = niceTicks(0, fromSI(qMax, u.flow), 6);
   const plotW = W - LEFT - RIGHT;
-  const x = (qSI: number) => LEFT + ((fromSI(qSI, u.flow) - xt.lo) / (xt.hi - xt.lo)) * plotW;
+  const xs = niceLinearScale(0, fromSI(qMax, u.flow), [LEFT, LEFT + plotW], 6);
+  const x = (qSI: number) => xs.map(fromSI(qSI, u.flow));
   const height = TOP + quantities.length * (PLOT_H + GAP) + 24;
   const root = svg('svg', { viewBox: `0 0 ${W} ${height}`, class: 'family-chart', role: 'img', 'aria-label': `Family chart: ${quantities.map((q) => QUANTITY_NAMES[q]).join(', ')} against flow for ${members.length} diameters, in ${system.toUpperCase()} units` });
   quantities.forEach((q, row) => {
     const top = TOP + row * (PLOT_H + GAP);
-    const unit = unitFor(u, q);
+    const unit = unitOfQuantity(u, q);
     const values = members.flatMap((m) => {
       const fit = m.curves[q]?.fit;
       return fit ? linspace(fit.domain[0], fit.domain[1], 40).map((f) => fromSI(evaluateUnchecked(fit, f), unit)) : [];
     });
     if (q === 'head' && duty) values.push(...duty.system.map((p) => fromSI(p[1], unit)));
-    const yt = niceTicks(Math.min(0, ...values), Math.max(...values), 4);
-    const y = (vSI: number) => top + PLOT_H - ((fromSI(vSI, unit) - yt.lo) / (yt.hi - yt.lo)) * PLOT_H;
+    const ys = niceLinearScale(Math.min(0, ...values), Math.max(...values), [top + PLOT_H, top], 4);
+    const y = (vSI: number) => ys.map(fromSI(vSI, unit));
     const g = svg('g', { class: `plot plot-${q}` });
     g.append(svg('rect', { x: LEFT, y: top, width: plotW, height: PLOT_H, class: 'plot-area' }));
-    for (const t of yt.ticks) {
-      const yy = top + PLOT_H - ((t - yt.lo) / (yt.hi - yt.lo)) * PLOT_H;
+    for (const t of ys.tickValues) {
+      const yy = ys.map(t);
       g.append(svg('line', { x1: LEFT, x2: LEFT + plotW, y1: yy, y2: yy, class: 'grid' }));
       g.append(svg('text', { x: LEFT - 6, y: yy + 4, class: 'tick', 'text-anchor': 'end' }, num(t, 4)));
     }
-    for (const t of xt.ticks) {
-      const xx = LEFT + ((t - xt.lo) / (xt.hi - xt.lo)) * plotW;
+    for (const t of xs.tickValues) {
+      const xx = xs.map(t);
       g.append(svg('line', { x1: xx, x2: xx, y1: top, y2: top + PLOT_H, class: 'grid' }));
       if (row === quantities.length - 1) g.append(svg('text', { x: xx, y: top + PLOT_H + 14, class: 'tick', 'text-anchor': 'middle' }, num(t, 4)));
     }

@@ -1,0 +1,72 @@
+/**
+ * The one map from a plotted quantity (head, efficiency, power, NPSHr) to its unit. Every layer
+ * that shows or reads a curve's values asks here which unit applies: NPSHr takes the NPSH unit,
+ * efficiency is always in %, power its power unit, head its head unit.
+ */
+import { parseUnit } from './convert.ts';
+import type { QuantityKind, Unit } from './units.ts';
+
+/** The quantities a curve set plots against flow (the same names as the curve-set model). */
+export type CurveQuantity = 'head' | 'efficiency' | 'power' | 'npshr';
+
+/** The unit kind each curve quantity is measured in. */
+export const QUANTITY_KIND: Readonly<Record<CurveQuantity, QuantityKind>> = { head: 'head', npshr: 'head', power: 'power', efficiency: 'efficiency' };
+
+/** Unit tokens of a set of curves, as curve sets and take-offs store them (efficiency is always %). */
+export interface CurveUnitTokens {
+  flow: string;
+  head: string;
+  npsh: string;
+  power: string;
+  diameter: string;
+}
+
+/** The resolved units of a set of curves. */
+export interface CurveUnits {
+  flow: Unit;
+  head: Unit;
+  npsh: Unit;
+  power: Unit;
+  diameter: Unit;
+  efficiency: Unit;
+}
+
+/** Parses every token (throws UnitError naming the first bad one); efficiency is in %. */
+export function curveUnits(tokens: CurveUnitTokens): CurveUnits {
+  return {
+    flow: parseUnit('flow', tokens.flow),
+    head: parseUnit('head', tokens.head),
+    npsh: parseUnit('head', tokens.npsh),
+    power: parseUnit('power', tokens.power),
+    diameter: parseUnit('diameter', tokens.diameter),
+    efficiency: parseUnit('efficiency', '%'),
+  };
+}
+
+/** The unit of a quantity's values. */
+export function unitOfQuantity(units: Pick<CurveUnits, 'head' | 'npsh' | 'power' | 'efficiency'>, quantity: CurveQuantity): Unit {
+  switch (quantity) {
+    case 'head':
+      return units.head;
+    case 'npshr':
+      return units.npsh;
+    case 'power':
+      return units.power;
+    case 'efficiency':
+      return units.efficiency;
+  }
+}
+
+/** The unit token of a quantity's values, for records that keep tokens. */
+export function tokenOfQuantity(tokens: Pick<CurveUnitTokens, 'head' | 'npsh' | 'power'>, quantity: CurveQuantity): string {
+  switch (quantity) {
+    case 'head':
+      return tokens.head;
+    case 'npshr':
+      return tokens.npsh;
+    case 'power':
+      return tokens.power;
+    case 'efficiency':
+      return '%';
+  }
+}
