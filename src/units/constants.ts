@@ -13,6 +13,14 @@ export const INCH = 0.0254;
 export const US_GALLON = 3.785411784e-3;
 /** Imperial gallon [m³]. */
 export const IMPERIAL_GALLON = 4.54609e-3;
+/** Barrel for petroleum [m³] = 42 US gallons (NIST SP 811, Appendix B.8: 1.589873 E−01 m³). */
+export const OIL_BARREL = 42 * US_GALLON;
+/** Cubic foot [m³]. */
+export const CUBIC_FOOT = FOOT * FOOT * FOOT;
+/** Day [s]. */
+export const DAY = 86400;
+/** Metric horsepower (PS) [W] = 75 kgf·m/s = 75 × g_n W (NIST SP 811, Appendix B.8: 7.354 988 E+02 W). */
+export const METRIC_HORSEPOWER = 75 * STANDARD_GRAVITY;
 /** Avoirdupois pound mass [kg]. */
 export const POUND_MASS = 0.45359237;
 /** Pound force [N] = lb × g_n. */

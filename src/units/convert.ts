@@ -10,9 +10,13 @@ export class UnitError extends UserError {
   override name = 'UnitError';
 }
 
+/** One spelling per token: spaces collapsed and dropped around "/", "^3" written "3". */
 function normalize(token: string): string {
-  return token.trim().replace(/\s+/g, ' ');
+  return token.trim().replace(/\s+/g, ' ').replace(/\s*\/\s*/g, '/').replace(/\^([23])/g, '$1');
 }
+
+/** Case-insensitive form for the second pass ("GPM", "M3/H", "Ft" and "KW" all match). */
+const loose = (token: string) => normalize(token).toLowerCase();
 
 /** Known tokens of one kind, for messages. */
 export function tokensOf(kind: QuantityKind): string[] {
@@ -29,9 +33,9 @@ export function parseUnit(kind: QuantityKind, token: string): Unit {
   const candidates = UNITS.filter((u) => u.kind === kind);
   const exact = candidates.find((u) => u.token === t || u.aliases.includes(t));
   if (exact) return exact;
-  const lower = t.toLowerCase();
-  const loose = candidates.find((u) => u.token.toLowerCase() === lower || u.aliases.some((a) => a.toLowerCase() === lower));
-  if (loose) return loose;
+  const lower = loose(t);
+  const found = candidates.find((u) => loose(u.token) === lower || u.aliases.some((a) => loose(a) === lower));
+  if (found) return found;
   throw new UnitError(`Unknown ${kind} unit "${token}". Use one of: ${tokensOf(kind).join(', ')}.`);
 }
 
@@ -41,8 +45,8 @@ export function parseUnit(kind: QuantityKind, token: string): Unit {
  */
 export function labelOf(token: string): string {
   const t = normalize(token);
-  const lower = t.toLowerCase();
-  const unit = UNITS.find((u) => u.token === t) ?? UNITS.find((u) => u.token.toLowerCase() === lower || u.aliases.some((a) => a.toLowerCase() === lower));
+  const lower = loose(t);
+  const unit = UNITS.find((u) => u.token === t) ?? UNITS.find((u) => loose(u.token) === lower || u.aliases.some((a) => loose(a) === lower));
   return unit ? unit.label || unit.token : token;
 }
 

@@ -5,3 +5,4 @@ export * from './presets.ts';
 export * from './format.ts';
 export * from './quantityUnits.ts';
 export * from './scale.ts';
+export * from './pressureHead.ts';

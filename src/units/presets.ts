@@ -25,7 +25,8 @@ export const PRESETS = {
 export type PresetName = keyof typeof PRESETS;
 
 export function presetNamed(name: string): UnitSystem {
-  if (name === 'si' || name === 'us') return { ...PRESETS[name] };
+  const key = name.trim().toLowerCase();
+  if (key === 'si' || key === 'us') return { ...PRESETS[key] };
   throw new UnitError(`Unknown unit system "${name}". Use "si" or "us".`);
 }
 

@@ -2,7 +2,7 @@
  * Unit tables. Each unit maps a display number to SI and back; the pair is an exact
  * inverse (affine for temperature, linear for the rest). Factors come from `constants.ts`.
  */
-import { FOOT, HORSEPOWER, INCH, PSI, US_GALLON, IMPERIAL_GALLON, CELSIUS_ZERO } from './constants.ts';
+import { FOOT, HORSEPOWER, INCH, PSI, US_GALLON, IMPERIAL_GALLON, CELSIUS_ZERO, CUBIC_FOOT, DAY, METRIC_HORSEPOWER, OIL_BARREL } from './constants.ts';
 
 export type QuantityKind =
   | 'flow'
@@ -52,8 +52,12 @@ export const UNITS: readonly Unit[] = [
   unit('m3/h', 'flow', 'm³/h', 1 / 3600, ['m³/h', 'm3/hr', 'm³/hr', 'cmh']),
   unit('L/s', 'flow', 'L/s', 1e-3, ['l/s', 'lps']),
   unit('L/min', 'flow', 'L/min', 1e-3 / 60, ['l/min', 'lpm']),
+  unit('m3/min', 'flow', 'm³/min', 1 / 60, ['m³/min']),
   unit('gpm', 'flow', 'gpm', US_GALLON / 60, ['usgpm', 'us gpm', 'gal/min']),
   unit('igpm', 'flow', 'imp gpm', IMPERIAL_GALLON / 60, ['imp gpm', 'impgpm']),
+  unit('MGD', 'flow', 'MGD', (1e6 * US_GALLON) / DAY, ['mgd', 'million gal/d', 'us mgd']),
+  unit('ft3/s', 'flow', 'ft³/s', CUBIC_FOOT, ['ft³/s', 'cfs', 'cusec']),
+  unit('bbl/d', 'flow', 'bbl/d', OIL_BARREL / DAY, ['bpd', 'bbl/day']),
 
   unit('m', 'head', 'm', 1, ['metre', 'meter', 'metres', 'meters']),
   unit('ft', 'head', 'ft', FOOT, ['feet', 'foot']),
@@ -61,6 +65,7 @@ export const UNITS: readonly Unit[] = [
   unit('W', 'power', 'W', 1, ['w']),
   unit('kW', 'power', 'kW', 1e3, ['kw']),
   unit('hp', 'power', 'hp', HORSEPOWER, ['bhp', 'HP']),
+  unit('PS', 'power', 'PS', METRIC_HORSEPOWER, ['metric hp', 'hp(M)', 'CV']),
 
   unit('mm', 'diameter', 'mm', 1e-3),
   unit('in', 'diameter', 'in', INCH, ['inch', 'inches', '"']),
