@@ -8,6 +8,7 @@ import { basename, dirname, join } from 'node:path';
 import type { CurveSet } from '../model/curveset.ts';
 import { parseCurveSetJson } from '../model/curvesetIO.ts';
 import { InputError } from './errors.ts';
+import { isDecimalText } from '../units/readNumber.ts';
 
 export function readText(path: string, what = 'file'): string {
   if (!existsSync(path)) throw new InputError(`The ${what} "${path}" does not exist.`);
@@ -38,7 +39,7 @@ export function writeTextAtomic(path: string, text: string): void {
 /** Parses a positive number option, or throws a sentence naming the option. */
 export function positiveOption(value: string | undefined, flag: string): number | undefined {
   if (value === undefined) return undefined;
-  const v = Number(value);
+  const v = isDecimalText(value) ? Number(value) : Number.NaN; // decimal only: "0x10" is not 16
   if (!Number.isFinite(v) || v <= 0) throw new InputError(`The option ${flag} must be a positive number, not "${value}".`);
   return v;
 }

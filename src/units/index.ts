@@ -6,3 +6,5 @@ export * from './format.ts';
 export * from './quantityUnits.ts';
 export * from './scale.ts';
 export * from './pressureHead.ts';
+export * from './readNumber.ts';
+export * from './plausible.ts';

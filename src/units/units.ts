@@ -2,7 +2,7 @@
  * Unit tables. Each unit maps a display number to SI and back; the pair is an exact
  * inverse (affine for temperature, linear for the rest). Factors come from `constants.ts`.
  */
-import { FOOT, HORSEPOWER, INCH, PSI, US_GALLON, IMPERIAL_GALLON, CELSIUS_ZERO, CUBIC_FOOT, DAY, METRIC_HORSEPOWER, OIL_BARREL } from './constants.ts';
+import { FOOT, HORSEPOWER, INCH, PSI, US_GALLON, IMPERIAL_GALLON, CELSIUS_ZERO, CUBIC_FOOT, DAY, METRIC_HORSEPOWER, OIL_BARREL, POUND_MASS } from './constants.ts';
 
 export type QuantityKind =
   | 'flow'
@@ -86,6 +86,8 @@ export const UNITS: readonly Unit[] = [
   unit('fraction', 'efficiency', '', 1),
 
   unit('kg/m3', 'density', 'kg/m³', 1, ['kg/m³']),
+  unit('lb/ft3', 'density', 'lb/ft³', POUND_MASS / CUBIC_FOOT, ['lb/ft³', 'lbm/ft3', 'pcf']),
+  unit('g/cm3', 'density', 'g/cm³', 1e3, ['g/cm³', 'g/mL', 'kg/L']),
   unit('m2/s', 'viscosity', 'm²/s', 1, ['m²/s']),
   unit('cSt', 'viscosity', 'cSt', 1e-6, ['cst', 'mm2/s', 'mm²/s']),
 ];

@@ -100,7 +100,7 @@ describe('unusable input: exit 2 and one clear sentence', () => {
   it('a negative flow', () => expectOneSentence(run('build', file('neg.csv', 'quantity,diameter,flow,value\nhead,13,-5,100\n'), '-o', out, '--speed', '1780'), /negative/));
   it('a curve with too few points', () =>
     expectOneSentence(run('build', file('few.csv', 'quantity,diameter,flow,value\nhead,13,0,100\nhead,13,500,90\n'), '-o', out, '--speed', '1780'), /13 in head curve has 2 distinct flows; at least 3/));
-  it('unknown units', () => expectOneSentence(run('build', good, '-o', out, '--speed', '1780', '--flow', 'bbl/day'), /Unknown flow unit "bbl\/day"/));
+  it('unknown units', () => expectOneSentence(run('build', good, '-o', out, '--speed', '1780', '--flow', 'furlong/s'), /Unknown flow unit "furlong\/s"/));
   it('an unknown unit system', () => expectOneSentence(run('export', goodSet, '--format', 'csv', '--units', 'imperial'), /Unknown unit system "imperial"/));
   it('JSON that is not a curve set', () => expectOneSentence(run('check', file('other.json', '{"name": "x"}')), /is not a curve set/));
   it('JSON that does not parse', () => expectOneSentence(run('check', file('broken.json', '{"format": ')), /not valid JSON/));
