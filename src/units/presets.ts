@@ -4,6 +4,7 @@
  */
 import { parseUnit, UnitError } from './convert.ts';
 import type { Unit } from './units.ts';
+import { curveUnits, type CurveUnits } from './quantityUnits.ts';
 
 /** Display units of the quantities a pump engineer reads off a sheet. */
 export interface UnitSystem {
@@ -30,32 +31,20 @@ export function presetNamed(name: string): UnitSystem {
   throw new UnitError(`Unknown unit system "${name}". Use "si" or "us".`);
 }
 
-/** Resolved units of a system, each checked against its kind. */
-export interface ResolvedUnits {
-  flow: Unit;
-  head: Unit;
-  npsh: Unit;
-  power: Unit;
-  diameter: Unit;
+/** Resolved units of a system, each checked against its kind: the curve units and the site's. */
+export interface ResolvedUnits extends CurveUnits {
   pressure: Unit;
   temperature: Unit;
   speed: Unit;
-  /** Always %. */
-  efficiency: Unit;
 }
 
 /** Parses every token of a system; throws UnitError naming the first bad one. */
 export function resolveUnits(system: UnitSystem): ResolvedUnits {
   return {
-    flow: parseUnit('flow', system.flow),
-    head: parseUnit('head', system.head),
-    npsh: parseUnit('head', system.npsh),
-    power: parseUnit('power', system.power),
-    diameter: parseUnit('diameter', system.diameter),
+    ...curveUnits(system),
     pressure: parseUnit('pressure', system.pressure),
     temperature: parseUnit('temperature', system.temperature),
     speed: parseUnit('speed', system.speed),
-    efficiency: parseUnit('efficiency', '%'),
   };
 }
 
