@@ -87,3 +87,13 @@ export function showValue(value: number | null | undefined, label: string, digit
 export function showSI(si: number | null | undefined, unit: Unit, digits = 4): Shown {
   return isFigure(si) ? { ok: true, text: formatSI(si, unit, digits) } : NOT_AVAILABLE;
 }
+
+/** `formatPercent`, or "not available". */
+export function showPercent(fraction: number | null | undefined, digits = 3): Shown {
+  return isFigure(fraction) ? { ok: true, text: formatPercent(fraction, digits) } : NOT_AVAILABLE;
+}
+
+/** `formatChange`, or "not available". */
+export function showChange(ratio: number | null | undefined, decimals = 1): Shown {
+  return isFigure(ratio) ? { ok: true, text: formatChange(ratio, decimals) } : NOT_AVAILABLE;
+}

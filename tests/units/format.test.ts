@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { formatChange, formatNumber, formatPercent, formatSI, formatValue, NotFiniteError, parseUnit, roundSignificant, showNumber, showSI, showValue } from '../../src/units/index.ts';
+import { formatChange, formatNumber, formatPercent, formatSI, formatValue, NotFiniteError, parseUnit, roundSignificant, showChange, showNumber, showPercent, showSI, showValue } from '../../src/units/index.ts';
 
 describe('formatNumber(v, digits) writes v to significant figures', () => {
   it('rounds to the significant figures asked for, without trailing zeros', () => {
@@ -73,5 +73,14 @@ describe('show… says "not available" through a typed result', () => {
       expect(showSI(missing, parseUnit('flow', 'm3/h'))).toEqual({ ok: false, text: 'not available' });
       expect(showValue(missing, 'm')).toEqual({ ok: false, text: 'not available' });
     }
+  });
+});
+
+describe('showPercent and showChange', () => {
+  it('write percentages, or "not available"', () => {
+    expect(showPercent(0.784)).toEqual({ ok: true, text: '78.4 %' });
+    expect(showChange(-0.05)).toEqual({ ok: true, text: '−5.0 %' });
+    expect(showPercent(Number.NaN)).toEqual({ ok: false, text: 'not available' });
+    expect(showChange(Number.POSITIVE_INFINITY)).toEqual({ ok: false, text: 'not available' });
   });
 });

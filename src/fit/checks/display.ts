@@ -1,11 +1,11 @@
 /**
  * Figures in findings are quoted in the curve set's display units (a US set says "12 in",
  * not "304.8 mm"). This builds the formatters once per curve set, from the one formatter in
- * src/units: a figure that is not a finite number is a bug in the check that passes it
- * (`NotFiniteError`), never "NaN" in a sentence.
+ * src/units. A figure that is not a finite number reads "not available", never "NaN"; a check
+ * that can meet one should say why in its own words instead of quoting it.
  */
 import type { DisplayUnits, Member } from '../../model/curveset.ts';
-import { curveUnits, formatChange, formatPercent, formatSI, formatValue } from '../../units/index.ts';
+import { curveUnits, showChange, showPercent, showSI, showValue } from '../../units/index.ts';
 
 export interface Display {
   flow(si: number): string;
@@ -25,14 +25,15 @@ export interface Display {
 export function displayFor(units: DisplayUnits): Display {
   const { flow, head, npsh, power, diameter } = curveUnits(units);
   return {
-    flow: (v) => formatSI(v, flow, 4),
-    head: (v) => formatSI(v, head, 4),
-    npsh: (v) => formatSI(v, npsh, 3),
-    power: (v) => formatSI(v, power, 4),
-    diameter: (v) => formatSI(v, diameter, 4),
-    efficiency: (f) => formatPercent(f, 3),
-    percent: (r, digits = 1) => formatChange(r, digits),
-    member: (m) => (m.diameter_m !== undefined ? formatSI(m.diameter_m, diameter, 4) : m.label ?? formatValue(m.speed_rpm, 'rpm', 4)),
+    flow: (v) => showSI(v, flow, 4).text,
+    head: (v) => showSI(v, head, 4).text,
+    npsh: (v) => showSI(v, npsh, 3).text,
+    power: (v) => showSI(v, power, 4).text,
+    diameter: (v) => showSI(v, diameter, 4).text,
+    efficiency: (f) => showPercent(f, 3).text,
+    percent: (r, digits = 1) => showChange(r, digits).text,
+    member: (m) => (m.diameter_m !== undefined ? showSI(m.diameter_m, diameter, 4).text : m.label ?? showValue(m.speed_rpm, 'rpm', 4).text),
     units: { flow: flow.label, head: head.label, npsh: npsh.label, power: power.label, diameter: diameter.label },
   };
 }
+
