@@ -43,30 +43,16 @@ export function curveUnits(tokens: CurveUnitTokens): CurveUnits {
   };
 }
 
+/** Which member of a unit bundle holds each quantity's unit (NPSHr → npsh). */
+export const QUANTITY_UNIT_FIELD: Readonly<Record<CurveQuantity, 'head' | 'npsh' | 'power' | 'efficiency'>> = { head: 'head', npshr: 'npsh', power: 'power', efficiency: 'efficiency' };
+
 /** The unit of a quantity's values. */
 export function unitOfQuantity(units: Pick<CurveUnits, 'head' | 'npsh' | 'power' | 'efficiency'>, quantity: CurveQuantity): Unit {
-  switch (quantity) {
-    case 'head':
-      return units.head;
-    case 'npshr':
-      return units.npsh;
-    case 'power':
-      return units.power;
-    case 'efficiency':
-      return units.efficiency;
-  }
+  return units[QUANTITY_UNIT_FIELD[quantity]];
 }
 
-/** The unit token of a quantity's values, for records that keep tokens. */
+/** The unit token of a quantity's values, for records that keep tokens (efficiency is always %). */
 export function tokenOfQuantity(tokens: Pick<CurveUnitTokens, 'head' | 'npsh' | 'power'>, quantity: CurveQuantity): string {
-  switch (quantity) {
-    case 'head':
-      return tokens.head;
-    case 'npshr':
-      return tokens.npsh;
-    case 'power':
-      return tokens.power;
-    case 'efficiency':
-      return '%';
-  }
+  const field = QUANTITY_UNIT_FIELD[quantity];
+  return field === 'efficiency' ? '%' : tokens[field];
 }
