@@ -6,7 +6,8 @@
  */
 import { describe, expect, it } from 'vitest';
 import { calibrate } from '../../src/digitize/calibration.ts';
-import { dataPoint, sheetPoint, type DataPoint, type SheetPoint } from '../../src/digitize/points.ts';
+import { dataPoint, pixelPoint, sheetPoint, type DataPoint, type SheetPoint } from '../../src/digitize/points.ts';
+import { toPixel, toSheet as pixelToSheet } from '../../src/digitize/raster.ts';
 
 const cal = calibrate([{ at: [0, 100], x: 0, y: 0 }, { at: [100, 100], x: 50, y: 0 }, { at: [0, 0], x: 0, y: 80 }]);
 
@@ -33,5 +34,17 @@ describe('sheet and data points do not mix', () => {
       expect(back[1]).toBeCloseTo(y, 9);
     }
     expect(cal.toData(cal.toSheet(dataPoint(25, 40)))[1]).toBeCloseTo(40, 9);
+  });
+
+  it('pixels and sheet points convert only through the raster scale', () => {
+    const image = { scale: 2 };
+    const px = toPixel(image, sheetPoint(10, 20));
+    expect([px[0], px[1]]).toEqual([20, 40]);
+    expect(pixelToSheet(image, px)).toEqual(sheetPoint(10, 20));
+    // @ts-expect-error a data point is not a sheet point
+    toPixel(image, dataPoint(1, 2));
+    // @ts-expect-error a sheet point is not a pixel point
+    pixelToSheet(image, sheetPoint(1, 2));
+    void pixelPoint;
   });
 });
