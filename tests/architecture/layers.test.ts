@@ -125,6 +125,10 @@ describe('layer rules', () => {
     expect(layerViolations(files)).toEqual([]);
   });
 
+  it('every file under src/ belongs to a layer (a new folder must be named here and in its tsconfig)', () => {
+    expect(sourcesUnder('src').filter((f) => layerOf(f.path) === 'other').map((f) => f.path)).toEqual([]);
+  });
+
   it('a core file importing node:fs is refused', () => {
     expect(layerViolations([{ path: 'src/fit/bad.ts', text: "import { readFileSync } from 'node:fs';\nexport const x = readFileSync;\n" }])).toEqual([
       'src/fit/bad.ts: imports the Node module "node:fs"',
