@@ -129,6 +129,16 @@ describe('layer rules', () => {
     expect(sourcesUnder('src').filter((f) => layerOf(f.path) === 'other').map((f) => f.path)).toEqual([]);
   });
 
+  it('the per-layer tsconfigs cover the same folders as these rules', () => {
+    const config = (name: string) => JSON.parse(readFileSync(join(ROOT, name), 'utf8')) as { include: string[]; exclude?: string[] };
+    const core = config('tsconfig.core.json');
+    expect(core.include.filter((p) => p !== 'src/version.ts').map((p) => p.replace(/^src\//, '')).sort()).toEqual([...CORE].sort());
+    expect(core.exclude).toEqual(['src/digitize/loaders']);
+    expect(config('tsconfig.ui.json').include).toContain('src/ui');
+    for (const edge of EDGE) expect(config('tsconfig.node.json').include).toContain(`src/${edge}`);
+    expect(config('tsconfig.node.json').include).toContain('src/digitize/loaders');
+  });
+
   it('a core file importing node:fs is refused', () => {
     expect(layerViolations([{ path: 'src/fit/bad.ts', text: "import { readFileSync } from 'node:fs';\nexport const x = readFileSync;\n" }])).toEqual([
       'src/fit/bad.ts: imports the Node module "node:fs"',
