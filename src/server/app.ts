@@ -10,7 +10,7 @@ import fastifyStatic from '@fastify/static';
 import type { LibraryStore } from '../library/store.ts';
 import type { DutyMatcher } from '../library/dutySearch.ts';
 import { TOOL_VERSION } from '../version.ts';
-import { errorHandler } from './errors.ts';
+import { errorHandler, sendError } from './errors.ts';
 import { installAccessControl } from './security.ts';
 import { curveSetRoutes } from './routes/curvesets.ts';
 import { searchRoutes } from './routes/search.ts';
@@ -54,6 +54,15 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
     routerOptions: { maxParamLength: 200 },
   });
   app.setErrorHandler(errorHandler);
+  // An empty JSON body reads as "no body", so that a write without content (DELETE, restore) can
+  // still carry the JSON content type the cross-origin rule asks for; routes that need a body say so.
+  const parseJson = app.getDefaultJsonParser('error', 'error');
+  app.removeContentTypeParser('application/json');
+  app.addContentTypeParser('application/json', { parseAs: 'string' }, (request, body, done) => {
+    const text = typeof body === 'string' ? body : body.toString('utf8');
+    if (text.trim() === '') return done(null, undefined);
+    return parseJson(request, text, done);
+  });
   installAccessControl(app, { token: options.token ?? null, loopbackOnly: options.loopbackOnly ?? false });
 
   const { store, matcher } = options;
@@ -70,7 +79,7 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
     await app.register(fastifyStatic, { root: dist, prefix: '/', index: ['index.html'], dotfiles: 'deny', serveDotFiles: false, decorateReply: false });
   }
   app.setNotFoundHandler((request, reply) => {
-    void reply.code(404).type('application/json; charset=utf-8').send({ error: `Nothing is served at ${request.method} ${request.url.split('?')[0]?.slice(0, 200)}.` });
+    void sendError(reply, 404, 'not-found', `Nothing is served at ${request.method} ${request.url.split('?')[0]?.slice(0, 200)}.`);
   });
   return app;
 }

@@ -9,7 +9,7 @@ import { LibraryError } from '../library/errors.ts';
 import { LibraryStore } from '../library/store.ts';
 import { libraryMatcher } from '../library/matcher.ts';
 import { buildApp } from './app.ts';
-import { isLoopbackHost, MIN_TOKEN_LENGTH, TOKEN_ENV } from './security.ts';
+import { isLoopbackHost, TOKEN_ENV, tokenWeakness } from './security.ts';
 import { DIST_DIR, PROJECT_ROOT, buildWorkbench, workbenchState } from './workbench.ts';
 
 export const DEFAULT_LIBRARY_FILE = 'pumpscribe-library.sqlite';
@@ -80,11 +80,9 @@ export async function startServer(options: ServeOptions = {}): Promise<RunningSe
   let token: string | null = null;
   if (!loopback) {
     token = env[TOKEN_ENV]?.trim() || null;
-    if (!token || token.length < MIN_TOKEN_LENGTH) {
-      throw new LibraryError(
-        `Binding ${host} exposes the library to the network, so it needs an access token: set ${TOKEN_ENV} to a secret of at least ${MIN_TOKEN_LENGTH} characters, or bind 127.0.0.1.`,
-        'invalid',
-      );
+    const weak = tokenWeakness(token);
+    if (weak) {
+      throw new LibraryError(`Binding ${host} exposes the library to the network, so it needs a strong access token: ${weak.charAt(0).toLowerCase()}${weak.slice(1, -1)}, or bind 127.0.0.1.`, 'invalid');
     }
     say(`WARNING: binding ${host} makes the library reachable from other machines. Every request must carry the token from ${TOKEN_ENV} (header "Authorization: Bearer <token>", or open the page once with ?token=<token>). Traffic is not encrypted; use this only on a network you trust.`);
   }
