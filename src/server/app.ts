@@ -38,14 +38,18 @@ export interface AppOptions {
   token?: string | null;
   /** Only answer requests addressed to the loopback interface. */
   loopbackOnly?: boolean;
-  logger?: boolean;
+  /**
+   * Server log (pino JSON lines): true logs warnings and errors to stderr; a stream receives them
+   * instead (tests). Storage faults and refused writes are logged at warn or error with their code.
+   */
+  logger?: boolean | { stream: NodeJS.WritableStream; level?: 'warn' | 'error' | 'info' };
   limits?: Partial<typeof LIMITS>;
 }
 
 export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
   const limits = { ...LIMITS, ...options.limits };
   const app = Fastify({
-    logger: options.logger ? { level: 'warn' } : false,
+    logger: !options.logger ? false : options.logger === true ? { level: 'warn', stream: process.stderr } : { level: options.logger.level ?? 'warn', stream: options.logger.stream },
     bodyLimit: limits.jsonBytes,
     onProtoPoisoning: 'error',
     onConstructorPoisoning: 'error',

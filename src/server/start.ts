@@ -33,6 +33,7 @@ export interface ServeOptions {
   env?: NodeJS.ProcessEnv;
   /** Where to say what is happening (stdout by default). */
   say?: (line: string) => void;
+  /** Server log of warnings and errors on stderr (on unless false). */
   logger?: boolean;
 }
 
@@ -117,7 +118,7 @@ export async function startServer(options: ServeOptions = {}): Promise<RunningSe
       ...(workbenchMessage ? { workbenchMessage } : {}),
       token,
       loopbackOnly: loopback,
-      logger: options.logger ?? false,
+      logger: options.logger ?? true,
     });
     let address: string;
     try {
