@@ -17,6 +17,7 @@ import { searchRoutes } from './routes/search.ts';
 import { sheetRoutes } from './routes/sheets.ts';
 import { transferRoutes } from './routes/transfer.ts';
 import { pageRoutes } from './routes/page.ts';
+import { DEFAULT_SHEET_QUOTA, SheetQuota } from './quota.ts';
 
 export const LIMITS = {
   /** Curve sets and take-off files. */
@@ -44,6 +45,8 @@ export interface AppOptions {
    */
   logger?: boolean | { stream: NodeJS.WritableStream; level?: 'warn' | 'error' | 'info' };
   limits?: Partial<typeof LIMITS>;
+  /** Bytes of source sheets this library may hold (DEFAULT_SHEET_QUOTA when absent). */
+  sheetQuota?: number;
 }
 
 export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
@@ -73,7 +76,7 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
   app.get('/api/health', async () => ({ ok: true, version: TOOL_VERSION, library: store.counts() }));
   curveSetRoutes(app, store);
   searchRoutes(app, store, matcher);
-  sheetRoutes(app, store, limits.sheetBytes);
+  sheetRoutes(app, store, limits.sheetBytes, new SheetQuota(store, options.sheetQuota ?? DEFAULT_SHEET_QUOTA));
   transferRoutes(app, store, limits.importBytes);
 
   const dist = options.staticDir ? resolve(options.staticDir) : null;

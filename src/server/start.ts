@@ -10,6 +10,7 @@ import { LibraryStore } from '../library/store.ts';
 import { libraryMatcher } from '../library/matcher.ts';
 import { buildApp } from './app.ts';
 import { isLoopbackHost, TOKEN_ENV, tokenWeakness } from './security.ts';
+import { DEFAULT_SHEET_QUOTA, parseSize, sizeText } from './quota.ts';
 import { DIST_DIR, PROJECT_ROOT, buildWorkbench, workbenchState } from './workbench.ts';
 
 export const DEFAULT_LIBRARY_FILE = 'pumpscribe-library.sqlite';
@@ -33,6 +34,8 @@ export interface ServeOptions {
   env?: NodeJS.ProcessEnv;
   /** Where to say what is happening (stdout by default). */
   say?: (line: string) => void;
+  /** Bytes of source sheets the library may hold, or a size with a unit ("2GiB") from --sheet-quota. */
+  sheetQuota?: number | string;
   /** Server log of warnings and errors on stderr (on unless false). */
   logger?: boolean;
 }
@@ -76,6 +79,7 @@ export async function startServer(options: ServeOptions = {}): Promise<RunningSe
   const host = options.host ?? DEFAULT_HOST;
   const port = parsePort(options.port);
   const libraryFile = resolve(options.library ?? DEFAULT_LIBRARY_FILE);
+  const sheetQuota = options.sheetQuota === undefined ? DEFAULT_SHEET_QUOTA : typeof options.sheetQuota === 'number' ? options.sheetQuota : parseSize(options.sheetQuota);
 
   const loopback = isLoopbackHost(host);
   let token: string | null = null;
@@ -119,6 +123,7 @@ export async function startServer(options: ServeOptions = {}): Promise<RunningSe
       token,
       loopbackOnly: loopback,
       logger: options.logger ?? true,
+      sheetQuota,
     });
     let address: string;
     try {
@@ -136,7 +141,7 @@ export async function startServer(options: ServeOptions = {}): Promise<RunningSe
     const url = `http://${loopback && host === 'localhost' ? 'localhost' : actual.hostname.includes(':') ? `[${actual.hostname}]` : actual.hostname}:${actual.port}/`;
     const counts = store.counts();
     say(`Pumpscribe is serving at ${url}`);
-    say(`Library file: ${libraryFile} (${counts.entries} entries, ${counts.archived} archived, ${counts.revisions} revisions).`);
+    say(`Library file: ${libraryFile} (${counts.entries} entries, ${counts.archived} archived, ${counts.revisions} revisions; source sheets may take up to ${sizeText(sheetQuota)}, see --sheet-quota).`);
     say(staticDir ? `Workbench: ${url}   Library page: ${url}library   API: ${url}api/curvesets` : `Library page: ${url}   API: ${url}api/curvesets`);
     // Parse every entry's search copy in the background, so that duty searches run warm.
     void store.warmSearchCache().catch(() => undefined);
