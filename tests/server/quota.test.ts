@@ -18,13 +18,13 @@ afterEach(async () => {
   tmp.remove();
 });
 
-function pdf(fill: number, bytes: number): Buffer {
+function pdf(fill: number, bytes: number): Uint8Array<ArrayBuffer> {
   const b = Buffer.alloc(bytes, fill);
   b.write('%PDF-1.4 invented\n');
-  return b;
+  return new Uint8Array(b);
 }
 
-function upload(body: Buffer) {
+function upload(body: Uint8Array<ArrayBuffer>) {
   return json(`${server.url}/api/sheets`, { method: 'POST', headers: { 'content-type': 'application/pdf' }, body });
 }
 
@@ -43,7 +43,7 @@ describe('the per-library sheet quota', () => {
     expect((await upload(pdf(3, 500 * 1024))).status).toBe(201);
     expect(server.store.counts().sheets).toBe(2);
     // Without a Content-Length (chunked), the bytes are counted once read: a new sheet is refused, a stored one is not.
-    const chunked = (body: Buffer) =>
+    const chunked = (body: Uint8Array<ArrayBuffer>) =>
       json(`${server.url}/api/sheets`, { method: 'POST', headers: { 'content-type': 'application/pdf' }, body: new Blob([body]).stream(), duplex: 'half' } as RequestInit);
     const late = await chunked(pdf(4, 200 * 1024));
     expect(late.status).toBe(507);
