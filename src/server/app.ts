@@ -7,6 +7,7 @@ import { existsSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import Fastify, { type FastifyInstance } from 'fastify';
 import fastifyStatic from '@fastify/static';
+import fastifyCompress from '@fastify/compress';
 import type { LibraryStore } from '../library/store.ts';
 import type { DutyMatcher } from '../library/dutySearch.ts';
 import { TOOL_VERSION } from '../version.ts';
@@ -18,6 +19,8 @@ import { sheetRoutes } from './routes/sheets.ts';
 import { transferRoutes } from './routes/transfer.ts';
 import { pageRoutes } from './routes/page.ts';
 import { DEFAULT_SHEET_QUOTA, SheetQuota } from './quota.ts';
+import { assetCacheControl, installCaching } from './caching.ts';
+import { openApiDocument } from './openapi.ts';
 
 export const LIMITS = {
   /** Curve sets and take-off files. */
@@ -72,6 +75,18 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
   });
   installAccessControl(app, { token: options.token ?? null, loopbackOnly: options.loopbackOnly ?? false });
 
+  // Every route as Fastify registers it, for the API description (and its test).
+  const registered: Array<{ method: string; url: string }> = [];
+  ROUTES_OF.set(app, registered);
+  app.addHook('onRoute', (route) => {
+    for (const method of [route.method].flat()) registered.push({ method, url: route.url });
+  });
+  // ETag/304 and Cache-Control run before compression, so validators describe the content, not its encoding.
+  installCaching(app);
+  // Answers of 1 kB and more are compressed (brotli quality 4, gzip, deflate) when the client accepts it;
+  // request bodies are never decompressed, so body limits hold on the bytes that arrive.
+  await app.register(fastifyCompress, { global: true, threshold: 1024, encodings: ['br', 'gzip', 'deflate'], globalDecompression: false });
+
   const { store, matcher } = options;
   app.get('/api/health', async () => ({ ok: true, version: TOOL_VERSION, library: store.counts() }));
   curveSetRoutes(app, store);
@@ -83,10 +98,31 @@ export async function buildApp(options: AppOptions): Promise<FastifyInstance> {
   const workbench = dist !== null && existsSync(join(dist, 'index.html'));
   pageRoutes(app, store, matcher, () => workbench, options.workbenchMessage);
   if (workbench && dist) {
-    await app.register(fastifyStatic, { root: dist, prefix: '/', index: ['index.html'], dotfiles: 'deny', serveDotFiles: false, decorateReply: false });
+    await app.register(fastifyStatic, {
+      root: dist,
+      prefix: '/',
+      index: ['index.html'],
+      dotfiles: 'deny',
+      serveDotFiles: false,
+      decorateReply: false,
+      cacheControl: false,
+      setHeaders: (reply, path) => reply.header('Cache-Control', assetCacheControl(path)),
+    });
   }
+  let described: Record<string, unknown> | null = null;
+  app.get('/openapi.json', async (_request, reply) => {
+    described ??= openApiDocument(registered);
+    return reply.type('application/json; charset=utf-8').send(JSON.stringify(described));
+  });
   app.setNotFoundHandler((request, reply) => {
     void sendError(reply, 404, 'not-found', `Nothing is served at ${request.method} ${request.url.split('?')[0]?.slice(0, 200)}.`);
   });
   return app;
+}
+
+const ROUTES_OF = new WeakMap<FastifyInstance, ReadonlyArray<{ method: string; url: string }>>();
+
+/** The routes an app registered, as Fastify's onRoute hook saw them (HEAD included). */
+export function routesOf(app: FastifyInstance): ReadonlyArray<{ method: string; url: string }> {
+  return ROUTES_OF.get(app) ?? [];
 }
