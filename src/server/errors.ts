@@ -67,6 +67,12 @@ const REASON_CODES: Record<string, ErrorCode> = {
   conflict: 'conflict',
   'too-large': 'too-large',
   'unusable-file': 'library-damaged',
+  // Words another layer may use for the same faults; a reason that is itself a code maps to it.
+  stale: 'precondition-failed',
+  'missing-if-match': 'precondition-required',
+  'read-only': 'storage-read-only',
+  full: 'storage-full',
+  busy: 'storage-busy',
 };
 
 /** Log level of each storage code: these are faults of the machine, never of the request. */
@@ -106,7 +112,8 @@ function storageFault(code: string): MappedError | null {
 export function mapError(error: unknown): MappedError {
   if (error instanceof UserError) {
     // A specific code chosen by the layer that threw wins; the library's generic reasons come next.
-    const reason = error instanceof LibraryError ? REASON_CODES[error.reason] : undefined;
+    const why: string | undefined = error instanceof LibraryError ? error.reason : undefined;
+    const reason = why === undefined ? undefined : REASON_CODES[why] ?? (isErrorCode(why) ? why : undefined);
     const code = error.code !== 'invalid-input' && isErrorCode(error.code) ? error.code : reason ?? 'invalid-input';
     return mapped(code, error.message, STORAGE_LOG[code]);
   }

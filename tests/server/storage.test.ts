@@ -102,6 +102,10 @@ describe('the code table', () => {
     expect(mapError(new UserError('The disk is full; free space and try again.', 'storage-full'))).toMatchObject({ status: 507, code: 'storage-full', log: 'error' });
     expect(mapError(new LibraryError('No library entry 0123.', 'not-found'))).toMatchObject({ status: 404, code: 'not-found' });
     expect(mapError(new LibraryError('Cannot open the library file.', 'unusable-file'))).toMatchObject({ status: 500, code: 'library-damaged' });
+    // A reason that is itself a code of the table maps to it (the library's If-Match and storage reasons).
+    for (const [reason, status] of [['precondition-failed', 412], ['precondition-required', 428], ['storage-full', 507], ['storage-read-only', 503]] as const) {
+      expect(mapError(new LibraryError('Invented sentence.', reason as never)).status, reason).toBe(status);
+    }
     for (const [code, status] of [['SQLITE_FULL', 507], ['ENOSPC', 507], ['EDQUOT', 507], ['SQLITE_READONLY_DBMOVED', 503], ['EROFS', 503], ['SQLITE_BUSY_SNAPSHOT', 503], ['SQLITE_IOERR_WRITE', 503], ['SQLITE_CORRUPT', 500]] as const) {
       const m = mapError(Object.assign(new Error('engine words'), { code }));
       expect(m.status, code).toBe(status);
