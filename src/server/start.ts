@@ -87,7 +87,7 @@ export async function startServer(options: ServeOptions = {}): Promise<RunningSe
     token = env[TOKEN_ENV]?.trim() || null;
     const weak = tokenWeakness(token);
     if (weak) {
-      throw new LibraryError(`Binding ${host} exposes the library to the network, so it needs a strong access token: ${weak.charAt(0).toLowerCase()}${weak.slice(1, -1)}, or bind 127.0.0.1.`, 'invalid');
+      throw new LibraryError(`Binding ${host} exposes the library to the network, so it needs a strong access token (or bind 127.0.0.1): ${weak}`, 'invalid');
     }
     say(`WARNING: binding ${host} makes the library reachable from other machines. Every request must carry the token from ${TOKEN_ENV} (header "Authorization: Bearer <token>", or open the page once with ?token=<token>). Traffic is not encrypted; use this only on a network you trust.`);
   }
