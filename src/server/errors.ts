@@ -23,6 +23,7 @@ export const ERROR_CODES = {
   'host-refused': { status: 403, meaning: 'A loopback server was addressed by a name other than 127.0.0.1 or localhost (DNS rebinding).' },
   'origin-refused': { status: 403, meaning: 'A request that changes the library came from a page of another origin (another site or another local port).' },
   'content-type-refused': { status: 403, meaning: 'A request that changes the library had a content type any web page can send (form or plain text).' },
+  forbidden: { status: 403, meaning: 'The path is refused (a hidden file of the workbench build, for instance).' },
   'not-found': { status: 404, meaning: 'No entry, revision, sheet, take-off or route by that name.' },
   conflict: { status: 409, meaning: 'The change conflicts with what is stored (an archived entry, another pump, an id in use, a port in use).' },
   'precondition-failed': { status: 412, meaning: 'If-Match names a revision that is no longer the latest; nothing was stored.' },
@@ -142,7 +143,8 @@ export function mapError(error: unknown): MappedError {
   if (e?.statusCode === 413) return mapped('too-large', 'The request body is larger than this route accepts; send a smaller file or split the import.');
   if (e?.statusCode === 415) return mapped('unsupported-media-type', `This route does not accept that Content-Type (${oneLine(e.message ?? '')}).`);
   if (typeof e?.statusCode === 'number' && e.statusCode >= 400 && e.statusCode < 500) {
-    return { status: e.statusCode, code: 'invalid-input', message: `${oneLine(e.message ?? 'The request was refused')}.` };
+    const code: ErrorCode = e.statusCode === 403 ? 'forbidden' : e.statusCode === 404 ? 'not-found' : 'invalid-input';
+    return { status: e.statusCode, code, message: `${oneLine(e.message ?? 'The request was refused')}.` };
   }
   return mapped('internal-error', 'Unexpected internal error; the request changed nothing that was not already saved. Please report it.', 'error');
 }

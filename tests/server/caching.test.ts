@@ -17,6 +17,7 @@ beforeEach(async () => {
   mkdirSync(join(dist, 'assets'), { recursive: true });
   writeFileSync(join(dist, 'index.html'), `<!doctype html><title>invented workbench</title>${'<!-- padding -->'.repeat(100)}`);
   writeFileSync(join(dist, 'assets', 'app-Ab12Cd34.js'), ASSET);
+  writeFileSync(join(dist, '.env'), 'INVENTED_SECRET=1');
   server = await startTestServer(join(tmp.dir, 'library.sqlite'), { staticDir: dist });
 });
 afterEach(async () => {
@@ -79,6 +80,16 @@ describe('ETag and If-None-Match', () => {
     const page = await rawGet('/library');
     expect(page.headers['cache-control']).toBe('no-cache');
     expect((await rawGet('/library', { 'if-none-match': page.headers.etag as string })).status).toBe(304);
+  });
+
+  it('refuses hidden files of the build and unknown files with the one error shape', async () => {
+    for (const path of ['/.env', '/assets/none-Zz99Yy88.js']) {
+      const res = await rawGet(path);
+      expect(res.status, path).toBeGreaterThanOrEqual(403);
+      const body = JSON.parse(res.body.toString());
+      expect(Object.keys(body).sort(), path).toEqual(['code', 'error']);
+      expect(res.body.toString()).not.toContain('INVENTED_SECRET');
+    }
   });
 
   it('reads If-None-Match and asset names as RFC 9110 and Vite write them', () => {
