@@ -1,10 +1,11 @@
 /**
  * Source sheets and their take-off files.
  * POST /api/sheets takes the raw bytes (any Content-Type but JSON); the reply names the SHA-256.
+ * Uploads count against the library's sheet quota (quota.ts): 507 when a new sheet would cross it.
  * GET /api/sheets/:sha256 serves them back with a media type sniffed from the bytes at upload,
  * sandboxed, so a hostile upload cannot run script in the workbench's origin.
  */
-import type { FastifyInstance } from 'fastify';
+import type { FastifyInstance, FastifyReply, FastifyRequest } from 'fastify';
 import type { LibraryStore } from '../../library/store.ts';
 import { LibraryError } from '../../library/errors.ts';
 import { text, type Query } from '../query.ts';
@@ -30,7 +31,7 @@ export function sheetRoutes(app: FastifyInstance, store: LibraryStore, sheetLimi
     scope.addContentTypeParser(SHEET_IMAGE_TYPES, { parseAs: 'buffer', bodyLimit: sheetLimit }, (_req, body, done) => done(null, body));
     // Refuse before reading the body when its declared length already crosses the quota; the
     // connection closes, so the client stops sending instead of the server taking the bytes.
-    const early = async (request: { headers: Record<string, string | string[] | undefined> }, reply: { header(k: string, v: string): unknown }) => {
+    const early = async (request: FastifyRequest, reply: FastifyReply) => {
       const declared = Number(request.headers['content-length']);
       if (Number.isFinite(declared) && declared > 0 && declared <= sheetLimit) {
         try {
