@@ -9,7 +9,8 @@ import { LibraryError } from '../library/errors.ts';
 import { LibraryStore } from '../library/store.ts';
 import { libraryMatcher } from '../library/matcher.ts';
 import { buildApp } from './app.ts';
-import { isLoopbackHost, MIN_TOKEN_LENGTH, TOKEN_ENV } from './security.ts';
+import { isLoopbackHost, TOKEN_ENV, tokenWeakness } from './security.ts';
+import { DEFAULT_SHEET_QUOTA, parseSize, sizeText } from './quota.ts';
 import { DIST_DIR, PROJECT_ROOT, buildWorkbench, workbenchState } from './workbench.ts';
 
 export const DEFAULT_LIBRARY_FILE = 'pumpscribe-library.sqlite';
@@ -33,6 +34,9 @@ export interface ServeOptions {
   env?: NodeJS.ProcessEnv;
   /** Where to say what is happening (stdout by default). */
   say?: (line: string) => void;
+  /** Bytes of source sheets the library may hold, or a size with a unit ("2GiB") from --sheet-quota. */
+  sheetQuota?: number | string;
+  /** Server log of warnings and errors on stderr (on unless false). */
   logger?: boolean;
 }
 
@@ -75,16 +79,15 @@ export async function startServer(options: ServeOptions = {}): Promise<RunningSe
   const host = options.host ?? DEFAULT_HOST;
   const port = parsePort(options.port);
   const libraryFile = resolve(options.library ?? DEFAULT_LIBRARY_FILE);
+  const sheetQuota = options.sheetQuota === undefined ? DEFAULT_SHEET_QUOTA : typeof options.sheetQuota === 'number' ? options.sheetQuota : parseSize(options.sheetQuota);
 
   const loopback = isLoopbackHost(host);
   let token: string | null = null;
   if (!loopback) {
     token = env[TOKEN_ENV]?.trim() || null;
-    if (!token || token.length < MIN_TOKEN_LENGTH) {
-      throw new LibraryError(
-        `Binding ${host} exposes the library to the network, so it needs an access token: set ${TOKEN_ENV} to a secret of at least ${MIN_TOKEN_LENGTH} characters, or bind 127.0.0.1.`,
-        'invalid',
-      );
+    const weak = tokenWeakness(token);
+    if (weak) {
+      throw new LibraryError(`Binding ${host} exposes the library to the network, so it needs a strong access token (or bind 127.0.0.1): ${weak}`, 'invalid');
     }
     say(`WARNING: binding ${host} makes the library reachable from other machines. Every request must carry the token from ${TOKEN_ENV} (header "Authorization: Bearer <token>", or open the page once with ?token=<token>). Traffic is not encrypted; use this only on a network you trust.`);
   }
@@ -119,7 +122,8 @@ export async function startServer(options: ServeOptions = {}): Promise<RunningSe
       ...(workbenchMessage ? { workbenchMessage } : {}),
       token,
       loopbackOnly: loopback,
-      logger: options.logger ?? false,
+      logger: options.logger ?? true,
+      sheetQuota,
     });
     let address: string;
     try {
@@ -137,7 +141,7 @@ export async function startServer(options: ServeOptions = {}): Promise<RunningSe
     const url = `http://${loopback && host === 'localhost' ? 'localhost' : actual.hostname.includes(':') ? `[${actual.hostname}]` : actual.hostname}:${actual.port}/`;
     const counts = store.counts();
     say(`Pumpscribe is serving at ${url}`);
-    say(`Library file: ${libraryFile} (${counts.entries} entries, ${counts.archived} archived, ${counts.revisions} revisions).`);
+    say(`Library file: ${libraryFile} (${counts.entries} entries, ${counts.archived} archived, ${counts.revisions} revisions; source sheets may take up to ${sizeText(sheetQuota)}, see --sheet-quota).`);
     say(staticDir ? `Workbench: ${url}   Library page: ${url}library   API: ${url}api/curvesets` : `Library page: ${url}   API: ${url}api/curvesets`);
     // Parse every entry's search copy in the background, so that duty searches run warm.
     void store.warmSearchCache().catch(() => undefined);

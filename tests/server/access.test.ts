@@ -11,7 +11,8 @@ beforeEach(() => {
 });
 afterEach(() => tmp.remove());
 
-const TOKEN = 'invented-test-token-0123456789';
+/** An invented 128-bit token (32 hex digits). */
+const TOKEN = 'a3f9c2e18b7d4065f1e2d3c4b5a69788';
 
 function getWithHost(url: string, host: string): Promise<number> {
   const u = new URL(url);
@@ -73,10 +74,13 @@ describe('access control', () => {
     }
   });
 
-  it('will not bind a non-loopback address without a token of at least 16 characters', async () => {
+  it('will not bind a non-loopback address without a token of at least 128 bits', async () => {
     const say: string[] = [];
     await expect(startServer({ host: '0.0.0.0', port: 0, library: join(tmp.dir, 'a.sqlite'), env: {}, say: (l) => say.push(l), seed: false })).rejects.toThrow(/PUMPSCRIBE_TOKEN/);
-    await expect(startServer({ host: '0.0.0.0', port: 0, library: join(tmp.dir, 'a.sqlite'), env: { PUMPSCRIBE_TOKEN: 'short' }, say: (l) => say.push(l), seed: false })).rejects.toThrow(/at least 16/);
+    await expect(startServer({ host: '0.0.0.0', port: 0, library: join(tmp.dir, 'a.sqlite'), env: { PUMPSCRIBE_TOKEN: 'short' }, say: (l) => say.push(l), seed: false })).rejects.toThrow(/at most 23 bits .* 128 bits needed/);
+    // 31 hex digits hold 124 bits: one short.
+    await expect(startServer({ host: '0.0.0.0', port: 0, library: join(tmp.dir, 'a.sqlite'), env: { PUMPSCRIBE_TOKEN: TOKEN.slice(1) }, say: (l) => say.push(l), seed: false })).rejects.toThrow(/at most 124 bits/);
+    await expect(startServer({ host: '0.0.0.0', port: 0, library: join(tmp.dir, 'a.sqlite'), env: { PUMPSCRIBE_TOKEN: 'ab'.repeat(40) }, say: (l) => say.push(l), seed: false })).rejects.toThrow(/only 2 different characters/);
   });
 
   it('binding 0.0.0.0 with a token warns and answers 401 to requests without it', async () => {

@@ -65,7 +65,10 @@ describe('library API', () => {
 
   it('DELETE archives, the entry leaves the list and search, and restore brings it back', async () => {
     const { id } = (await postJson(`${server.url}/api/curvesets`, inventedCurveSet(FAMILIES.mid))).body;
-    const del = await json(`${server.url}/api/curvesets/${id}`, { method: 'DELETE' });
+    const bare = await json(`${server.url}/api/curvesets/${id}`, { method: 'DELETE' });
+    expect(bare.status).toBe(403);
+    expect(bare.body.code).toBe('content-type-refused');
+    const del = await json(`${server.url}/api/curvesets/${id}`, { method: 'DELETE', headers: { 'content-type': 'application/json' } });
     expect(del.status).toBe(200);
     expect(del.body.archived_at).toEqual(expect.any(String));
     expect((await json(`${server.url}/api/curvesets`)).body.total).toBe(0);
@@ -73,7 +76,7 @@ describe('library API', () => {
     const archivedGet = await json(`${server.url}/api/curvesets/${id}`);
     expect(archivedGet.status).toBe(200);
     expect(archivedGet.headers.get('x-pumpscribe-archived-at')).toBeTruthy();
-    const restored = await json(`${server.url}/api/curvesets/${id}/restore`, { method: 'POST' });
+    const restored = await json(`${server.url}/api/curvesets/${id}/restore`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: '{}' });
     expect(restored.status).toBe(200);
     expect(restored.body.archived_at).toBeNull();
     expect((await json(`${server.url}/api/curvesets?q=mid`)).body.entries.map((e: { id: string }) => e.id)).toEqual([id]);

@@ -51,13 +51,16 @@ describe('hostile and malformed requests', () => {
       ['prototype pollution', { method: 'POST', headers: { 'content-type': 'application/json' }, body: '{"__proto__": {"admin": true}}' }, 400],
       ['constructor pollution', { method: 'POST', headers: { 'content-type': 'application/json' }, body: '{"constructor": {"prototype": {"admin": true}}}' }, 400],
       ['oversized', { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ pad: 'x'.repeat(600 * 1024) }) }, 413],
-      ['form post', { method: 'POST', headers: { 'content-type': 'application/x-www-form-urlencoded' }, body: 'a=1' }, 415],
+      ['form post', { method: 'POST', headers: { 'content-type': 'application/x-www-form-urlencoded' }, body: 'a=1' }, 403],
+      ['plain-text post', { method: 'POST', headers: { 'content-type': 'text/plain' }, body: '{}' }, 403],
+      ['unreadable type', { method: 'POST', headers: { 'content-type': 'application/pdf' }, body: '%PDF-1.4' }, 415],
       ['deep nesting', { method: 'POST', headers: { 'content-type': 'application/json' }, body: '['.repeat(100_000) + ']'.repeat(100_000) }, 400],
     ];
     for (const [what, init, status] of cases) {
       const res = await json(url, init);
       expect(res.status, what).toBe(status);
       expect(typeof res.body?.error, what).toBe('string');
+      expect(typeof res.body?.code, what).toBe('string');
     }
     const negative = inventedCurveSet(FAMILIES.small);
     (negative.members[0] as { speed_rpm: number }).speed_rpm = -1450;

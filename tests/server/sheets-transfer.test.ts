@@ -70,7 +70,7 @@ describe('moving a whole library as JSON Lines', () => {
     const a = (await postJson(`${server.url}/api/curvesets`, inventedCurveSet(FAMILIES.small))).body.id;
     const b = (await postJson(`${server.url}/api/curvesets`, inventedCurveSet(FAMILIES.mid))).body.id;
     await postJson(`${server.url}/api/curvesets/${b}`, inventedCurveSet({ ...FAMILIES.mid, name: 'Invented Mid r2' }), 'PUT');
-    await json(`${server.url}/api/curvesets/${a}`, { method: 'DELETE' });
+    await json(`${server.url}/api/curvesets/${a}`, { method: 'DELETE', headers: { 'content-type': 'application/json' } });
 
     const exported = await fetch(`${server.url}/api/library/export`);
     expect(exported.headers.get('content-type')).toMatch(/application\/x-ndjson/);

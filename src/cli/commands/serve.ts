@@ -12,6 +12,7 @@ export interface ServeFlags {
   host?: string;
   library?: string;
   seed?: boolean;
+  sheetQuota?: string;
 }
 
 /** Runs the server until SIGINT or SIGTERM, then closes it and the library cleanly. */
@@ -21,6 +22,7 @@ export async function serveUntilStopped(flags: ServeFlags, extra: Partial<ServeO
     ...(flags.host !== undefined ? { host: flags.host } : {}),
     ...(flags.library !== undefined ? { library: flags.library } : {}),
     seed: flags.seed !== false,
+    ...(flags.sheetQuota !== undefined ? { sheetQuota: flags.sheetQuota } : {}),
     ...extra,
   });
   process.stdout.write('Press Ctrl+C to stop.\n');
@@ -39,7 +41,8 @@ export function addServeOptions(command: Command): Command {
     .option('--port <n>', `port to listen on (0 picks a free one)`, String(DEFAULT_PORT))
     .option('--host <address>', `address to bind; anything but loopback needs ${TOKEN_ENV}`, DEFAULT_HOST)
     .option('--library <file>', 'library file (SQLite); created when missing', DEFAULT_LIBRARY_FILE)
-    .option('--no-seed', 'do not add the invented demo curve sets to a new library');
+    .option('--no-seed', 'do not add the invented demo curve sets to a new library')
+    .option('--sheet-quota <size>', 'bytes of source sheets the library may hold, with a unit (e.g. 500MB, 2GiB; default 2GiB)');
 }
 
 export function register(program: Command): void {
