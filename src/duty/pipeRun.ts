@@ -97,23 +97,22 @@ export function runsLoss(runs: readonly PipeRun[], q: number, liquid: LiquidFlow
 }
 
 /**
- * The system curve of a static head [m] and the pipe runs, Q the total flow [m³/s].
+ * A system curve from a static head [m] and a loss function of the total flow [m³/s].
  * `k` and `exponent` are a two-point power-law summary (through the losses at Q_ref and Q_ref/2)
- * for display only; heads are always computed from the runs (`loss_at`).
+ * for display only; heads are always computed from `loss_at`.
  */
-export function systemFromPipes(static_head_m: number, runs: readonly PipeRun[], liquid: LiquidFlowProps, method: FrictionMethod, reference_flow_m3s: number, words = ''): SystemCurve {
+export function systemFromLoss(static_head_m: number, loss_at: (q: number) => number, reference_flow_m3s: number, basis: string): SystemCurve {
   if (!Number.isFinite(static_head_m)) throw new DutyError('The static head must be a finite number.');
   if (!(reference_flow_m3s > 0)) throw new DutyError('The reference flow of a system curve must be positive.');
-  for (const run of runs) runLoss(run, reference_flow_m3s, liquid, method); // refuse bad runs now, with their sentence
-  const loss_at = (q: number) => runsLoss(runs, q, liquid, method);
   const h1 = loss_at(reference_flow_m3s);
   const h2 = loss_at(reference_flow_m3s / 2);
   const exponent = h1 > 0 && h2 > 0 ? Math.log(h1 / h2) / Math.LN2 : 2;
-  return {
-    static_head_m,
-    k: h1 / reference_flow_m3s ** exponent,
-    exponent,
-    basis: `static head plus ${runs.length} pipe run${runs.length === 1 ? '' : 's'} by ${method === 'hazen-williams' ? 'Hazen–Williams' : 'Darcy–Weisbach with Colebrook–White'}${words ? `, ${words}` : ''}`,
-    loss_at,
-  };
+  return { static_head_m, k: h1 > 0 ? h1 / reference_flow_m3s ** exponent : 0, exponent, basis, loss_at };
+}
+
+/** The system curve of a static head [m] and pipe runs all carrying the total flow. */
+export function systemFromPipes(static_head_m: number, runs: readonly PipeRun[], liquid: LiquidFlowProps, method: FrictionMethod, reference_flow_m3s: number, words = ''): SystemCurve {
+  for (const run of runs) runLoss(run, reference_flow_m3s, liquid, method); // refuse bad runs now, with their sentence
+  const basis = `static head plus ${runs.length} pipe run${runs.length === 1 ? '' : 's'} by ${method === 'hazen-williams' ? 'Hazen–Williams' : 'Darcy–Weisbach with Colebrook–White'}${words ? `, ${words}` : ''}`;
+  return systemFromLoss(static_head_m, (q) => runsLoss(runs, q, liquid, method), reference_flow_m3s, basis);
 }
