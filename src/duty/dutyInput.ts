@@ -67,9 +67,10 @@ export interface DutyReading {
  * @param fields  the raw fields
  * @param system  the unit system the numbers are in (flow, head, pressure, temperature, diameter)
  * @param names   how each field is called where it was typed (e.g. "--flow"); defaults to words
+ * @param options head_optional: the head may be missing (head_m is then NaN)
  * Throws DutyInputError naming the first unusable field.
  */
-export function readDutyInput(fields: DutyFields, system: UnitSystem, names: Partial<Record<DutyField, string>> = {}): DutyReading {
+export function readDutyInput(fields: DutyFields, system: UnitSystem, names: Partial<Record<DutyField, string>> = {}, options: { head_optional?: boolean } = {}): DutyReading {
   const u = resolveUnits(system);
   const name = (f: DutyField) => names[f] ?? DEFAULT_NAMES[f];
   const read = (f: DutyField, kind: 'any' | 'positive' | 'non-negative' = 'any'): number | undefined => {
@@ -101,7 +102,9 @@ export function readDutyInput(fields: DutyFields, system: UnitSystem, names: Par
     return raw as T;
   };
 
-  const input: DutyCheckInput = { flow_m3s: toSI(need('flow', 'positive'), u.flow), head_m: toSI(need('head', 'positive'), u.head) };
+  // A study may leave the head to its pipe runs: then head_m is NaN and the caller must not use it.
+  const head = options.head_optional ? read('head', 'positive') : need('head', 'positive');
+  const input: DutyCheckInput = { flow_m3s: toSI(need('flow', 'positive'), u.flow), head_m: head === undefined ? Number.NaN : toSI(head, u.head) };
   const notes: string[] = [];
   const stat = read('static');
   if (stat !== undefined) input.static_head_m = toSI(stat, u.head);

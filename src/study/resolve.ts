@@ -9,6 +9,7 @@ import { presetNamed, resolveUnits, toSI, type ResolvedUnits, type UnitSystem } 
 import type { FrictionMethod, PipeRun } from '../duty/pipeRun.ts';
 import type { NpshApplication } from '../duty/npshMargin.ts';
 import type { MotorStandard } from '../duty/motor.ts';
+import { readDutyInput } from '../duty/dutyInput.ts';
 
 export interface ResolvedOption {
   name: string;
@@ -77,6 +78,19 @@ export function resolveOption(study: Study, option: StudyOption): ResolvedOption
   const profile = operation.profile ? operation.profile.map((p) => ({ fraction: p.flow / 100, hours: p.hours })) : [{ fraction: 1, hours: operation.hours_per_year as number }];
   const hours = profile.reduce((s, p) => s + p.hours, 0);
   if (hours > 8784) throw new StudyError(`${where}: the operation adds up to ${hours} hours a year, more than a year has (8784); check the profile.`);
+  // The duty, liquid and site numbers go through the one duty-input reader the command line and
+  // the workbench use, so that all three read them alike.
+  const read = readDutyInput(
+    {
+      flow: duty.flow, head: duty.head, temperature: liquid.temperature, density: liquid.density, vapour_pressure: liquid.vapour_pressure,
+      site_pressure: site.pressure, elevation: site.elevation, parallel: option.pumps ?? study.pumps, application: study.application,
+      motor: study.motor_standard ?? (study.units === 'us' ? 'nema' : 'iec'),
+    },
+    studyUnitSystem(study),
+    { flow: `${where}: the duty flow`, head: `${where}: the duty head`, temperature: `${where}: the liquid temperature` },
+    { head_optional: true },
+  );
+  const siteRead = read.input.site;
   const out: ResolvedOption = {
     name: option.name,
     curveset,
@@ -84,22 +98,22 @@ export function resolveOption(study: Study, option: StudyOption): ResolvedOption
     pumps: option.pumps ?? study.pumps ?? 1,
     control: control === 'speed' ? 'speed' : 'throttle',
     liquid: {
-      temperature_K: toSI(liquid.temperature as number, u.temperature),
+      temperature_K: siteRead?.temperature_K ?? toSI(liquid.temperature as number, u.temperature),
       ...(liquid.name !== undefined ? { name: liquid.name } : {}),
-      ...(liquid.density !== undefined ? { density_kg_m3: liquid.density } : {}),
-      ...(liquid.vapour_pressure !== undefined ? { vapour_pressure_Pa: toSI(liquid.vapour_pressure, u.pressure) } : {}),
+      ...(siteRead?.density_kg_m3 !== undefined ? { density_kg_m3: siteRead.density_kg_m3 } : {}),
+      ...(siteRead?.vapour_pressure_Pa !== undefined ? { vapour_pressure_Pa: siteRead.vapour_pressure_Pa } : {}),
       ...(liquid.viscosity !== undefined ? { viscosity_m2_s: liquid.viscosity * 1e-6 } : {}),
     },
     site: {
-      ...(site.pressure !== undefined ? { pressure_Pa: toSI(site.pressure, u.pressure) } : {}),
-      ...(site.elevation !== undefined ? { elevation_m: toSI(site.elevation, u.head) } : {}),
+      ...(siteRead?.site_pressure_Pa !== undefined ? { pressure_Pa: siteRead.site_pressure_Pa } : {}),
+      ...(siteRead?.elevation_m !== undefined ? { elevation_m: siteRead.elevation_m } : {}),
     },
-    duty: { flow_m3s: toSI(duty.flow as number, u.flow), ...(duty.head !== undefined ? { head_m: toSI(duty.head, u.head) } : {}) },
+    duty: { flow_m3s: read.input.flow_m3s, ...(duty.head !== undefined ? { head_m: read.input.head_m } : {}) },
     suction: { surface_low_m: toSI(sLow, u.head), surface_high_m: toSI(sHigh, u.head), pipes: (suction.pipes ?? []).map((p) => pipeSI(p, u)) },
     discharge: { static_low_m: toSI(dLow, u.head), static_high_m: toSI(dHigh, u.head), pipes: (discharge.pipes ?? []).map((p) => pipeSI(p, u)) },
     friction: study.friction,
-    application: study.application,
-    motor_standard: study.motor_standard ?? (study.units === 'us' ? 'nema' : 'iec'),
+    application: read.input.application ?? study.application,
+    motor_standard: read.input.motor_standard ?? (study.units === 'us' ? 'nema' : 'iec'),
     operation: {
       profile,
       ...(operation.tariff !== undefined ? { tariff: operation.tariff } : {}),
