@@ -128,7 +128,7 @@ export function dutyReportView(report: DutyCheckReport, units: UnitSystem, sourc
             suction_loss_at_duty: npsh(report.npsh.site.suction_loss_m),
             pressure_basis: report.npsh.site.pressure_basis,
             liquid_basis: report.npsh.site.liquid_basis,
-            velocity_head: 'NPSHa is total head above vapour pressure counted from the still liquid surface; the suction velocity head is inside it and not added separately.',
+            velocity_head: 'NPSHa is total head above vapour pressure counted from the still liquid surface; the suction velocity head is inside it and not added separately. The hand method from the flange (p/ρg + v²/2g − p_v/ρg) adds v²/2g back to a flange pressure head that already lost it, so both give the same NPSHa.',
           },
           rule: { application: report.npsh.rule.application, ratio: report.npsh.rule.ratio, min_margin: npsh(report.npsh.rule.min_margin_m), nss_us: report.npsh.rule.nss_us ?? null, basis: report.npsh.rule.basis },
           points: report.npsh.points.map((p) => ({
