@@ -60,9 +60,9 @@ describe('pipe-run friction loss against the EPANET engine (epanet-js 0.9.0, Dar
   const nu = 1.1e-5 * FOOT * FOOT;
 
   /** Tiny network: reservoir at 100 m, one pipe, a junction drawing `q` L/s. Returns the pipe's head loss [m]. */
-  function epanetLoss(lengthM: number, diameterMm: number, roughnessMm: number, minorK: number, qLps: number): number {
+  function epanetLoss(lengthM: number, diameterMm: number, roughnessMm: number, minorK: number, qLps: number, headloss = 'D-W'): number {
     const inp = ['[TITLE]', 'Invented test network: reservoir, pipe, demand', '[JUNCTIONS]', `J1 0 ${qLps}`, '[RESERVOIRS]', 'R1 100', '[PIPES]',
-      `P1 R1 J1 ${lengthM} ${diameterMm} ${roughnessMm} ${minorK} Open`, '[OPTIONS]', 'Units LPS', 'Headloss D-W', 'Accuracy 0.00000001', 'Trials 500', '[TIMES]', 'Duration 0', '[END]'].join('\n');
+      `P1 R1 J1 ${lengthM} ${diameterMm} ${roughnessMm} ${minorK} Open`, '[OPTIONS]', 'Units LPS', `Headloss ${headloss}`, 'Accuracy 0.00000001', 'Trials 500', '[TIMES]', 'Duration 0', '[END]'].join('\n');
     ws.writeFile('pipe.inp', inp);
     const model = new Project(ws);
     model.open('pipe.inp', 'pipe.rpt', 'pipe.bin');
@@ -87,5 +87,9 @@ describe('pipe-run friction loss against the EPANET engine (epanet-js 0.9.0, Dar
     const ours = darcyWeisbachLoss(q / 1000, d / 1000, l, e / 1000, nu, k).loss_m;
     const theirs = epanetLoss(l, d, e, k, q);
     expect(Math.abs(ours / theirs - 1)).toBeLessThan(0.01);
+  });
+
+  it('Hazen–Williams loss within 1 % of the EPANET engine (H-W, C = 120, 800 m of 200 mm at 50 L/s)', () => {
+    expect(Math.abs(hazenWilliamsLoss(0.05, 0.2, 800, 120) / epanetLoss(800, 200, 120, 0, 50, 'H-W') - 1)).toBeLessThan(0.01);
   });
 });
