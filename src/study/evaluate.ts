@@ -72,8 +72,16 @@ export interface OptionResult {
   systems: { low: SystemCurve; high: SystemCurve };
 }
 
+/** How figures inside sentences are written: in the study's units (SI metres and m³/h by default). */
+export interface SentenceUnits {
+  head(m: number): string;
+  flow(m3s: number): string;
+}
+
+const SI_WORDS: SentenceUnits = { head: (m) => `${m.toFixed(2)} m`, flow: (q) => `${(q * 3600).toFixed(1)} m³/h` };
+
 /** Works out one option on its curve set. Throws only for unusable input (UserError with a sentence). */
-export function evaluateOption(set: CurveSet, o: ResolvedOption): OptionResult {
+export function evaluateOption(set: CurveSet, o: ResolvedOption, words: SentenceUnits = SI_WORDS): OptionResult {
   const findings: StudyFinding[] = [];
   const failing = failingFindings(set);
   if (failing) findings.push({ severity: 'fail', message: failing });
@@ -163,9 +171,9 @@ export function evaluateOption(set: CurveSet, o: ResolvedOption): OptionResult {
     const per = figuresAt(single, qd);
     const need = systemHead(sysHigh, Qd);
     if (per.head_m < Math.max(need, designHead) * (1 - 1e-9)) {
-      findings.push({ severity: 'fail', message: `The pump${n > 1 ? 's' : ''} cannot deliver the duty flow: ${per.head_m.toFixed(2)} m of head at ${(qd * 3600).toFixed(1)} m³/h per pump where the system needs ${Math.max(need, designHead).toFixed(2)} m at the highest static head.` });
+      findings.push({ severity: 'fail', message: `The pump${n > 1 ? 's' : ''} cannot deliver the duty flow: ${words.head(per.head_m)} of head at ${words.flow(qd)} per pump where the system needs ${words.head(Math.max(need, designHead))} at the highest static head.` });
     } else if (o.impeller.kind !== 'trim' && per.head_m > need * 1.005) {
-      findings.push({ severity: 'note', message: `Throttling burns ${(per.head_m - need).toFixed(2)} m of head at the duty (the valve closes in to hold the duty flow at the highest static head).` });
+      findings.push({ severity: 'note', message: `Throttling burns ${words.head(per.head_m - need)} of head at the duty (the valve closes in to hold the duty flow at the highest static head).` });
     }
     if (per.extrapolated.length) findings.push({ severity: 'warn', message: `At the duty the curve is read outside its captured range (${per.extrapolated.join(', ')}); treat the figures as rough.` });
     result.duty = { flow_m3s: Qd, head_m: per.head_m, system_head_m: need, per_pump: per, ...(per.efficiency !== undefined ? { efficiency: per.efficiency } : {}), ...(per.power_W !== undefined ? { power_W: per.power_W * n } : {}) };
@@ -200,14 +208,14 @@ export function evaluateOption(set: CurveSet, o: ResolvedOption): OptionResult {
   } else findings.push({ severity: 'warn', message: 'The curve set has neither a power nor an efficiency curve, so no motor size can be given.' });
 
   // NPSH at the duty, at run-out and over the range, at the lowest suction level.
-  result.npsh = npshSection(o, site, single, runSpeed, sysLow, result, suctionLoss, set, findings);
+  result.npsh = npshSection(o, site, single, runSpeed, sysLow, result, suctionLoss, set, findings, words);
 
   // Energy, cost and life-cycle cost.
   energySection(o, single, combined, sysMean, result, findings);
   return result;
 }
 
-function npshSection(o: ResolvedOption, resolved: ReturnType<typeof resolveSite>, single: PumpCurve, runSpeed: number, sysLow: SystemCurve, result: OptionResult, suctionLoss: (q: number) => number, set: CurveSet, findings: StudyFinding[]): OptionResult['npsh'] {
+function npshSection(o: ResolvedOption, resolved: ReturnType<typeof resolveSite>, single: PumpCurve, runSpeed: number, sysLow: SystemCurve, result: OptionResult, suctionLoss: (q: number) => number, set: CurveSet, findings: StudyFinding[], words: SentenceUnits): OptionResult['npsh'] {
   const last = o.suction.pipes[o.suction.pipes.length - 1];
   const site: SuctionSite = {
     ...resolved,
@@ -246,7 +254,7 @@ function npshSection(o: ResolvedOption, resolved: ReturnType<typeof resolveSite>
     out.max_eye_elevation_m = range.max_eye_elevation_m;
     if (range.npsh3_extrapolated) findings.push({ severity: 'warn', message: 'Part of the range to run-out lies outside the captured NPSH3 curve (extrapolated).' });
   }
-  if (site.velocity_head_at) out.velocity_head = velocityHeadReconciliation(npshAvailable(site, qd), site.velocity_head_at(qd));
+  if (site.velocity_head_at) out.velocity_head = velocityHeadReconciliation(npshAvailable(site, qd), site.velocity_head_at(qd), words.head);
   const worst = [out.duty.judgement, out.run_out.judgement, range?.worst.judgement].filter((j): j is NpshJudgement => j !== undefined);
   if (worst.some((j) => j.verdict === 'cavitation-expected')) {
     const where = out.duty.judgement.verdict === 'cavitation-expected' ? 'at the duty' : 'towards run-out';

@@ -8,7 +8,9 @@ import { StudyError, type Study } from '../model/study.ts';
 import { MOTOR_CAUTION, NPSH_CAUTION, PRELIMINARY } from '../duty/cautions.ts';
 import { NPSH3_TRIM_RULE } from '../fit/affinity.ts';
 import { evaluateOption, type OptionResult } from './evaluate.ts';
-import { resolveOption } from './resolve.ts';
+import { resolveOption, studyUnitSystem } from './resolve.ts';
+import { fromSI, parseUnit, roundSignificant } from '../units/index.ts';
+import type { SentenceUnits } from './evaluate.ts';
 
 export interface StudyResult {
   study: Study;
@@ -38,6 +40,13 @@ export function rankOptions(results: OptionResult[]): OptionResult[] {
  * @param curveSet the curve set of a path as written in the study (the caller loads it)
  */
 export function runStudy(study: Study, curveSet: (path: string) => CurveSet): StudyResult {
+  const units = studyUnitSystem(study);
+  const headU = parseUnit('head', units.head);
+  const flowU = parseUnit('flow', units.flow);
+  const words: SentenceUnits = {
+    head: (m) => `${roundSignificant(fromSI(m, headU), 4)} ${headU.label}`,
+    flow: (q) => `${roundSignificant(fromSI(q, flowU), 4)} ${flowU.label}`,
+  };
   const results = study.options.map((option) => {
     const resolved = resolveOption(study, option);
     let set: CurveSet;
@@ -47,7 +56,7 @@ export function runStudy(study: Study, curveSet: (path: string) => CurveSet): St
       if (error instanceof Error && 'code' in error) throw new StudyError(`Option "${option.name}": ${error.message}`);
       throw error;
     }
-    return evaluateOption(set, resolved);
+    return evaluateOption(set, resolved, words);
   });
   const ranked = rankOptions(results);
   const sound = ranked.filter((r) => !isFailing(r));
@@ -55,7 +64,7 @@ export function runStudy(study: Study, curveSet: (path: string) => CurveSet): St
   return {
     study,
     ranked,
-    why: whyBestWins(ranked, byCost),
+    why: whyBestWins(ranked, byCost) + curveSetFails(ranked),
     notes: [
       'Suction pipe runs belong to each pump; discharge runs carry the total flow. NPSHa is taken at the lowest suction level, the duty head at the highest static head, energy at the mean static head.',
       NPSH3_TRIM_RULE,
@@ -64,6 +73,12 @@ export function runStudy(study: Study, curveSet: (path: string) => CurveSet): St
     ],
     cautions: [PRELIMINARY, NPSH_CAUTION, MOTOR_CAUTION],
   };
+}
+
+/** Names the failing findings of the curve sets used, so the headline carries them. */
+function curveSetFails(ranked: OptionResult[]): string {
+  const sets = new Set(ranked.flatMap((r) => r.findings.filter((f) => f.severity === 'fail' && f.message.startsWith('The curve set has failing findings')).map((f) => `"${r.option.curveset}": ${f.message.replace(/^The curve set has failing findings \(([^)]*)\).*$/, '$1')}`)));
+  return sets.size ? ` Curve sets with failing findings: ${[...sets].join('; ')}.` : '';
 }
 
 function whyBestWins(ranked: OptionResult[], byCost: boolean): string {

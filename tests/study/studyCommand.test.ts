@@ -38,6 +38,7 @@ describe('pumpscribe study', () => {
     const r = run('study', file);
     expect(r.code).toBe(1);
     expect(r.out).toMatch(/failing findings \(power.consistency:260mm\)/);
+    expect(r.out).toMatch(/^Result: .*Curve sets with failing findings: "failing.curveset.json": power.consistency:260mm\./m);
   });
 
   it('exits 2 with one sentence for a study naming a curve set that does not exist', () => {
