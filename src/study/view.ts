@@ -60,6 +60,7 @@ export function studyView(result: StudyResult, system: UnitSystem, source: { fil
     version: STUDY_RESULT_VERSION,
     study: { file: source.file, name: result.study.name ?? null },
     units: { flow: flowU.token, head: headU.token, npsh: npshU.token, power: powerU.token, diameter: diaU.token, efficiency: '%', speed: 'rpm', annual_energy: 'kWh/year', cost: 'tariff currency' },
+    basis: 'flow and power are the totals of all pumps at the duty; head, efficiency, NPSH and the motor rating are per pump; NPSHa at the lowest suction level; max_eye_elevation is above the lowest suction level',
     result: options.every((o) => o.result === 'fail') ? 'fail' : 'ok',
     why: result.why,
     options,
@@ -78,6 +79,7 @@ export function studyText(v: StudyView): string {
   const L: string[] = [];
   L.push(`Study — ${v.study.name ?? v.study.file}`);
   L.push(`Units: flow ${label('flow', 'flow')}, head and NPSH ${label('head', 'head')}, power ${label('power', 'power')}, diameter ${label('diameter', 'diameter')}, efficiency %, energy kWh/year, cost in the tariff's currency`);
+  L.push(`Flow and power are totals of all pumps at the duty; efficiency, NPSH and motor are per pump.`);
   L.push(`Result: ${v.why}`);
   L.push('');
   const cols = ['#', 'option', 'flow', 'head', 'eff', 'power', 'motor', 'NPSHa', 'NPSH3', 'ratio', 'run-out ratio', 'eye max', 'kWh/yr', 'cost/yr', 'LCC', 'result'];
