@@ -15,4 +15,9 @@ try {
 } catch (error) {
   if ((error as NodeJS.ErrnoException).code !== 'ERR_MODULE_NOT_FOUND') throw error;
 }
+{
+  const { studyJsonSchema } = await import('../src/model/study.ts');
+  writeFileSync('schemas/study.schema.json', schemaText(studyJsonSchema()));
+  written.push('schemas/study.schema.json');
+}
 console.log(`Wrote ${written.join(', ')}`);

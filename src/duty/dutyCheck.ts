@@ -4,7 +4,7 @@
  * margin at each point, motor and energy. SI throughout; the CLI and screens format it.
  */
 import type { CurveSet } from '../model/curveset.ts';
-import { membersByDiameter } from '../fit/affinity.ts';
+import { membersByDiameter, NPSH3_TRIM_RULE, withSheetNpsh3 } from '../fit/affinity.ts';
 import { displayFor } from '../fit/checks/display.ts';
 import { familyFigures } from '../fit/checks/speedFigures.ts';
 import { NSS_US_CAUTION } from '../fit/specificSpeed.ts';
@@ -15,7 +15,9 @@ import { curveAtDiameter, meetDuty, type DutyMatch } from './meetDuty.ts';
 import { parallelOperation, type ParallelResult } from './parallel.ts';
 import { speedToDuty, type SpeedResult } from './speed.ts';
 import { resolveSite, type ResolvedSite, type SiteInput } from './site.ts';
-import { npshAvailable, type NpshAvailable } from './npsh.ts';
+import { npshAvailable, velocityHeadReconciliation, type NpshAvailable } from './npsh.ts';
+import { npshOverRange, type NpshRangeResult } from './npshRange.ts';
+import { failingFindings } from './trust.ts';
 import { judgeNpshMargin, npshMarginRule, type NpshApplication, type NpshJudgement, type NpshMarginRule } from './npshMargin.ts';
 import { nonOverloadingPower, selectMotor, type MotorSelection, type MotorStandard } from './motor.ts';
 import { annualEnergy, type EnergyResult } from './energy.ts';
@@ -75,9 +77,22 @@ export interface DutyCheckReport {
   trim_operating_point?: OperatingPointResult;
   parallel?: ParallelResult;
   speed?: SpeedResult;
-  npsh?: { site: ResolvedSite; rule: NpshMarginRule; points: NpshAtPoint[]; caution: string };
+  npsh?: {
+    site: ResolvedSite;
+    rule: NpshMarginRule;
+    points: NpshAtPoint[];
+    /** The margin judged from minimum flow to run-out (one pump alone), with the allowable eye elevation. */
+    range?: NpshRangeResult & { run_out_basis: string };
+    /** Where NPSH3 of a trim comes from (common practice). */
+    npsh3_basis: string;
+    /** The velocity-head convention reconciled with the hand method, at the duty. */
+    velocity_head?: string;
+    caution: string;
+  };
   motor?: { standard: MotorStandard; peak_flow_m3s: number; selection: MotorSelection; caution: string };
   energy?: EnergyResult & { hours_per_year: number; motor_efficiency: number; shaft_power_W: number; pumps: number };
+  /** One sentence: what the check concludes. Never says the duty is met while a problem stands. */
+  headline: string;
   /** Problems that fail the check (duty not met, cavitation, margin below guidance). */
   problems: string[];
   /** Warnings beside the results. */
@@ -113,7 +128,9 @@ export function dutyCheck(set: CurveSet, input: DutyCheckInput): DutyCheckReport
     if (result.status === 'ok' && count > 1) entry.per_pump = figuresAt(single, result.point.flow_m3s / count);
     return entry;
   };
-  const operating_points = members.map((m) => entryFor(pumpCurveOfMember(m, density, set.fluid.density_kg_m3), 'captured'));
+  const failing = failingFindings(set);
+  if (failing) problems.push(failing);
+  const operating_points = members.map((m) => entryFor(pumpCurveOfMember(withSheetNpsh3(set, m), density, set.fluid.density_kg_m3), 'captured'));
   for (const d of input.extra_diameters_m ?? []) {
     if (!(d > 0)) throw new DutyError(`An impeller diameter to evaluate must be positive, not ${d} m.`);
     if (membersByDiameter(set).length === 0) throw new DutyError('This curve set has no impeller diameters, so no trim can be evaluated.');
@@ -141,6 +158,7 @@ export function dutyCheck(set: CurveSet, input: DutyCheckInput): DutyCheckReport
     parallel_count: count,
     operating_points,
     trim,
+    headline: '',
     problems,
     warnings,
     cautions,
@@ -158,7 +176,13 @@ export function dutyCheck(set: CurveSet, input: DutyCheckInput): DutyCheckReport
 
   if (input.variable_speed) {
     const full = members[0];
-    if (full) report.speed = speedToDuty(pumpCurveOfMember(full, density, set.fluid.density_kg_m3), system, perPumpFlow);
+    if (full) {
+      // The system curve is in TOTAL flow: the speed is found for the combination of `count`
+      // pumps at the total duty flow, then each pump's figures are read at its share.
+      const single = pumpCurveOfMember(withSheetNpsh3(set, full), density, set.fluid.density_kg_m3);
+      const found = speedToDuty(parallelPumps(single, count), system, input.flow_m3s);
+      report.speed = found.status === 'ok' && count > 1 ? { ...found, point: figuresAt(pumpCurveAtSpeed(single, found.speed_rpm), perPumpFlow) } : found;
+    }
   }
 
   if (input.site) report.npsh = npshSection(set, input, selected, report, problems, warnings);
@@ -181,6 +205,7 @@ export function dutyCheck(set: CurveSet, input: DutyCheckInput): DutyCheckReport
       report.energy = { ...e, hours_per_year: input.energy.hours_per_year, motor_efficiency: input.energy.motor_efficiency, shaft_power_W: shaft * count, pumps: count };
     }
   }
+  report.headline = headlineOf(report);
   return report;
 }
 
@@ -215,11 +240,67 @@ function npshSection(set: CurveSet, input: DutyCheckInput, selected: PumpCurve |
   if (duty && duty.verdict !== 'meets-guidance') problems.push(`NPSH at the duty: ${duty.message}`);
   else if (points[0] && !duty) warnings.push('The curve set has no NPSH3 curve at the duty flow, so the NPSH margin cannot be judged.');
   const alone = points.find((p) => p.where === 'one pump running alone')?.judgement;
-  if (alone && alone.verdict !== 'meets-guidance') warnings.push(`NPSH with one pump running alone: ${alone.message}`);
+  if (alone && alone.verdict === 'cavitation-expected') problems.push(`NPSH with one pump running alone: cavitation — ${alone.message}`);
+  else if (alone && alone.verdict !== 'meets-guidance') problems.push(`NPSH with one pump running alone: ${alone.message}`);
+  let range: (NpshRangeResult & { run_out_basis: string }) | undefined;
+  if (selected) {
+    const run = runOutRange(selected, report);
+    const judged = npshOverRange(selected, site, rule, run.range);
+    if (judged) {
+      range = { ...judged, run_out_basis: run.basis };
+      const w = judged.worst;
+      const at = `${((100 * w.flow_m3s) / report.duty.per_pump_flow_m3s).toFixed(0)} % of the duty flow per pump`;
+      if (judged.cavitation_from_m3s !== undefined && !problems.some((p) => /cavitation/i.test(p))) {
+        problems.push(`NPSH from minimum flow to run-out: cavitation — NPSHa falls to NPSH3 from ${((100 * judged.cavitation_from_m3s) / report.duty.per_pump_flow_m3s).toFixed(0)} % of the duty flow per pump (${run.basis}).`);
+      } else if (w.judgement.verdict === 'below-guidance' && !problems.some((p) => p.startsWith('NPSH'))) {
+        problems.push(`NPSH from minimum flow to run-out: the margin falls below the ANSI/HI 9.6.1 guidance at ${at} (ratio ${w.judgement.ratio.toFixed(2)}, ${(w.judgement.required_npsha_m / w.judgement.npsh3_m).toFixed(2)} needed).`);
+      }
+      if (judged.npsh3_extrapolated) warnings.push('Part of the flow range to run-out lies outside the captured NPSH3 curve; NPSH3 there is extrapolated.');
+    }
+  }
   if (rule.nss_us !== undefined && rule.nss_us > NSS_US_CAUTION) {
     warnings.push(`Suction specific speed ${Math.round(rule.nss_us)} (US) is above about ${NSS_US_CAUTION}: suction recirculation is a traditional concern at part load; keep the pump near its BEP.`);
   }
   if (points.some((p) => p.npshr_extrapolated)) warnings.push('Some NPSH3 values were read outside the captured NPSH3 curve.');
   if (!selected) warnings.push('No trim meets the duty; NPSH is judged at the operating points of the captured diameters only.');
-  return { site, rule, points, caution: NPSH_CAUTION };
+  const first = points[0];
+  const vh = first && site.velocity_head_at ? velocityHeadReconciliation(first.available, site.velocity_head_at(first.flow_m3s)) : undefined;
+  return { site, rule, points, ...(range ? { range } : {}), npsh3_basis: NPSH3_TRIM_RULE, ...(vh ? { velocity_head: vh } : {}), caution: NPSH_CAUTION };
+}
+
+/**
+ * The per-pump flow range NPSH is judged over: from the lowest operating flow (all pumps at the
+ * duty) to run-out — one pump left running alone on the same system, or the end of its curve
+ * when it would run past it.
+ */
+export function runOutRange(single: PumpCurve, report: Pick<DutyCheckReport, 'duty' | 'system' | 'parallel_count' | 'trim_operating_point'>): { range: [number, number]; basis: string } {
+  const duty = report.duty.per_pump_flow_m3s;
+  const together = report.trim_operating_point?.status === 'ok' ? report.trim_operating_point.point.flow_m3s / report.parallel_count : duty;
+  const alone = operatingPoint(single, report.system);
+  const runOut = alone.status === 'ok' ? alone.point.flow_m3s : alone.status === 'beyond-end-of-curve' ? single.domain[1] : Math.max(duty, together);
+  const basis =
+    alone.status === 'beyond-end-of-curve'
+      ? 'run-out taken at the end of the curve: the pump would run past it'
+      : report.parallel_count > 1
+        ? 'run-out with one pump of the set running alone'
+        : 'run-out on the system curve';
+  const lo = Math.max(single.domain[0], Math.min(duty, together, runOut));
+  return { range: [lo, Math.max(lo, Math.min(single.domain[1], Math.max(duty, together, runOut)))], basis };
+}
+
+/** The headline: the fails first (naming them), never "meets the duty" while a problem stands. */
+export function headlineOf(report: Pick<DutyCheckReport, 'problems' | 'trim' | 'npsh' | 'motor'>): string {
+  if (report.problems.length) {
+    const tags: string[] = [];
+    for (const p of report.problems) {
+      if (/^The curve set has failing findings/.test(p)) tags.push(p.replace(/;.*$/, ''));
+      else if (/cavitation/i.test(p)) tags.push('cavitation expected');
+      else if (/^NPSH/.test(p)) tags.push('NPSH margin below guidance');
+      else if (/motor|rating/i.test(p)) tags.push('no standard motor');
+      else tags.push(p.replace(/\.$/, ''));
+    }
+    return `Does not pass: ${[...new Set(tags)].join('; ')}.`;
+  }
+  const notJudged = report.npsh ? (report.npsh.points[0]?.judgement ? '' : ' NPSH margin not judged (no NPSH3 curve).') : ' NPSH margin not judged (no suction site given).';
+  return `${report.trim.message}${notJudged}`;
 }

@@ -34,6 +34,10 @@ export interface SuctionSite {
   suction_loss_m: number;
   /** Flow at which `suction_loss_m` applies [m³/s]; without it the loss is taken as constant. */
   loss_reference_flow_m3s?: number;
+  /** Suction loss [m] at flow q [m³/s] per pump, from the suction pipe runs; replaces the q² scaling when given. */
+  loss_at?: (q: number) => number;
+  /** Velocity head v²/2g [m] in the suction pipe at the flange at flow q [m³/s], for the reconciliation line. */
+  velocity_head_at?: (q: number) => number;
 }
 
 export interface NpshAvailable {
@@ -63,6 +67,19 @@ export function checkSuctionSite(site: SuctionSite): void {
 }
 
 /**
+ * One line reconciling this convention with the hand method, which works from the suction
+ * flange: NPSHa = p_flange/(ρg) + v²/2g − p_v/(ρg). By the energy equation from the still
+ * surface, p_flange/(ρg) = p_s/(ρg) + z_s − h_loss − v²/2g, so the v²/2g the hand method adds
+ * back is exactly the one the flange pressure lost: both give the same NPSHa.
+ * @param a  NPSHa at a flow, with its parts [m]; `velocity_head_m` the flange velocity head v²/2g [m]
+ */
+export function velocityHeadReconciliation(a: NpshAvailable, velocity_head_m: number, r: (m: number) => string = (m) => `${m.toFixed(3)} m`): string {
+  const flangePressure = a.surface_head_m + a.suction_static_m - a.suction_loss_m - velocity_head_m;
+  const hand = flangePressure + velocity_head_m - a.vapour_head_m;
+  return `Velocity head: NPSHa is counted from the still surface (the v²/2g at the flange is inside it); the hand method from the flange, p/ρg ${r(flangePressure)} + v²/2g ${r(velocity_head_m)} − p_v/ρg ${r(a.vapour_head_m)} = ${r(hand)}, gives the same ${r(a.npsha_m)}.`;
+}
+
+/**
  * NPSHa [m] at flow q [m³/s] (see the file comment for the equation and convention).
  * Source: common practice (Hydraulic Institute definition of NPSH).
  */
@@ -72,7 +89,12 @@ export function npshAvailable(site: SuctionSite, flow_m3s?: number): NpshAvailab
   const surface = site.surface_pressure_Pa / rhoG;
   const vapour = site.vapour_pressure_Pa / rhoG;
   const ref = site.loss_reference_flow_m3s;
-  const loss = ref !== undefined && flow_m3s !== undefined ? site.suction_loss_m * (flow_m3s / ref) ** 2 : site.suction_loss_m;
+  const loss =
+    site.loss_at && flow_m3s !== undefined
+      ? site.loss_at(flow_m3s)
+      : ref !== undefined && flow_m3s !== undefined
+        ? site.suction_loss_m * (flow_m3s / ref) ** 2
+        : site.suction_loss_m;
   const out: NpshAvailable = {
     npsha_m: surface - vapour + site.suction_static_m - loss,
     surface_head_m: surface,

@@ -16,6 +16,7 @@ export function dutyReportText(v: DutyReportView): string {
   const pc = (x: number | null | undefined, decimals = 1) => (x === null || x === undefined ? '—' : `${x.toFixed(decimals)} %`);
   const L: string[] = [];
   L.push(`Duty check — ${v.curve_set.pump} (${v.curve_set.file})`);
+  L.push(`Result: ${v.headline}`);
   L.push(`Duty: ${n(v.duty.flow, u.flow)} at ${n(v.duty.head, u.head)}${v.duty.parallel_count > 1 ? `, ${v.duty.parallel_count} pumps in parallel (${n(v.duty.per_pump_flow, u.flow)} each)` : ''}`);
   const s = v.system_curve;
   L.push(`System curve: H = ${n(s.static_head, u.head)} + ${roundSignificant(s.k, 4)}·Q^${roundSignificant(s.exponent, 4)}  (Q in ${u.flow}, H in ${u.head}; ${s.basis})`);
@@ -74,6 +75,14 @@ export function dutyReportText(v: DutyReportView): string {
       const verdict = p.verdict === 'meets-guidance' ? 'ok' : p.verdict === 'below-guidance' ? 'BELOW GUIDANCE' : p.verdict === 'cavitation-expected' ? 'CAVITATION' : 'no NPSH3';
       L.push(`  ${p.where}: NPSHa ${n(p.npsha, u.npsh, 3)}, NPSH3 ${n(p.npshr, u.npsh, 3)}, margin ${n(p.margin, u.npsh, 3)} (ratio ${p.margin_ratio === null ? '—' : p.margin_ratio.toFixed(2)}), needs ${n(p.required_npsha, u.npsh, 3)} — ${verdict}${p.npshr_extrapolated ? ' (NPSH3 extrapolated)' : ''}`);
     }
+    const r = v.npsh.range;
+    if (r) {
+      const verdict = r.worst_verdict === 'meets-guidance' ? 'ok' : r.worst_verdict === 'below-guidance' ? 'BELOW GUIDANCE' : 'CAVITATION';
+      L.push(`  from minimum flow ${n(r.from_flow, u.flow)} to run-out ${n(r.to_flow, u.flow)} per pump (${r.run_out_basis}): lowest margin at ${n(r.worst_flow, u.flow)}, NPSHa ${n(r.worst_npsha, u.npsh, 3)}, NPSH3 ${n(r.worst_npshr, u.npsh, 3)}, ratio ${r.worst_margin_ratio.toFixed(2)} — ${verdict}${r.npshr_extrapolated ? ' (NPSH3 extrapolated in part)' : ''}`);
+      L.push(`  highest allowable impeller-eye elevation above the liquid surface keeping the margin: ${n(r.max_eye_elevation, u.npsh, 3)}${(r.max_eye_elevation ?? 0) < 0 ? ' (negative: the eye must sit below the surface)' : ''}`);
+    }
+    L.push(`  ${v.npsh.npsh3_basis}`);
+    if (v.npsh.velocity_head_check) L.push(`  ${v.npsh.velocity_head_check}`);
     L.push(`  Caution: ${v.npsh.caution}`);
   }
   if (v.motor) {

@@ -61,6 +61,7 @@ export function dutyReportView(report: DutyCheckReport, units: UnitSystem, sourc
     curve_set: source,
     units: { ...units, efficiency: '%' },
     result: report.problems.length ? 'fail' : 'ok',
+    headline: report.headline,
     duty: { flow: flow(report.duty.flow_m3s), head: head(report.duty.head_m), parallel_count: report.parallel_count, per_pump_flow: flow(report.duty.per_pump_flow_m3s) },
     system_curve: {
       equation: 'H = Hs + k·Q^n',
@@ -127,7 +128,7 @@ export function dutyReportView(report: DutyCheckReport, units: UnitSystem, sourc
             suction_loss_at_duty: npsh(report.npsh.site.suction_loss_m),
             pressure_basis: report.npsh.site.pressure_basis,
             liquid_basis: report.npsh.site.liquid_basis,
-            velocity_head: 'NPSHa is total head above vapour pressure counted from the still liquid surface; the suction velocity head is inside it and not added separately.',
+            velocity_head: 'NPSHa is total head above vapour pressure counted from the still liquid surface; the suction velocity head is inside it and not added separately. The hand method from the flange (p/ρg + v²/2g − p_v/ρg) adds v²/2g back to a flange pressure head that already lost it, so both give the same NPSHa.',
           },
           rule: { application: report.npsh.rule.application, ratio: report.npsh.rule.ratio, min_margin: npsh(report.npsh.rule.min_margin_m), nss_us: report.npsh.rule.nss_us ?? null, basis: report.npsh.rule.basis },
           points: report.npsh.points.map((p) => ({
@@ -143,6 +144,23 @@ export function dutyReportView(report: DutyCheckReport, units: UnitSystem, sourc
             npshr_extrapolated: p.npshr_extrapolated,
             message: p.judgement?.message ?? null,
           })),
+          npsh3_basis: report.npsh.npsh3_basis,
+          velocity_head_check: report.npsh.velocity_head ?? null,
+          range: report.npsh.range
+            ? {
+                from_flow: flow(report.npsh.range.range_m3s[0]),
+                to_flow: flow(report.npsh.range.range_m3s[1]),
+                run_out_basis: report.npsh.range.run_out_basis,
+                worst_flow: flow(report.npsh.range.worst.flow_m3s),
+                worst_npsha: npsh(report.npsh.range.worst.available.npsha_m),
+                worst_npshr: npsh(report.npsh.range.worst.judgement.npsh3_m),
+                worst_margin_ratio: report.npsh.range.worst.judgement.ratio,
+                worst_verdict: report.npsh.range.worst.judgement.verdict,
+                cavitation_from_flow: flow(report.npsh.range.cavitation_from_m3s),
+                max_eye_elevation: npsh(report.npsh.range.max_eye_elevation_m),
+                npshr_extrapolated: report.npsh.range.npsh3_extrapolated,
+              }
+            : null,
           caution: report.npsh.caution,
         }
       : null,

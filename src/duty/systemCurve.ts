@@ -15,13 +15,15 @@ export interface SystemCurve {
   readonly exponent: number;
   /** How the curve was obtained, in words. */
   readonly basis: string;
+  /** Losses [m] at total flow q [m³/s] computed from pipe runs; when present it replaces k·Q^n, which is then a summary for display. */
+  readonly loss_at?: (q: number) => number;
   /** Residuals of a fit to tabulated points [m]. */
   readonly fit?: { readonly rms_m: number; readonly max_residual_m: number; readonly points: number };
 }
 
 /** H(Q) = Hs + k·Q^n [m] at flow q [m³/s] (q ≥ 0). */
 export function systemHead(system: SystemCurve, q: number): number {
-  return system.static_head_m + system.k * Math.abs(q) ** system.exponent;
+  return system.static_head_m + (system.loss_at ? system.loss_at(Math.abs(q)) : system.k * Math.abs(q) ** system.exponent);
 }
 
 /**

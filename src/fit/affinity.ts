@@ -3,8 +3,11 @@
  *
  * Speed change (geometrically the same pump):   Q ∝ n,  H ∝ n²,  P ∝ n³,  η ≈ constant.
  * Impeller trim at constant speed (approximate): Q ∝ D,  H ∝ D²,  P ∝ D³,  η ≈ constant.
- * NPSHr is scaled with the square of the ratio, like head: common practice for small
- * changes; NPSHr after a trim is less predictable and should come from the sheet.
+ * NPSHr is scaled with the square of the ratio for a SPEED change (common practice for small
+ * changes). For a TRIM it is never scaled down: a trimmed impeller keeps the eye of the full
+ * one, and its NPSH3 is taken from the drawn curve of the nearest equal or larger diameter at
+ * the same flow (common practice; see `npsh3ForDiameter`). Scaling it down with D² puts the
+ * figure 1–8 % below the sheet, on the unsafe side.
  *
  * Sources: Karassik et al., Pump Handbook; Lobanoff & Ross, Centrifugal Pumps: Design and
  * Application. The speed law is close to exact within ±20 % of speed; the trim law is
@@ -111,6 +114,58 @@ export function membersByDiameter(set: Pick<CurveSet, 'members'>): Member[] {
  * exactly from the coefficients (see `blendFits`), valid on the overlap of the two domains.
  */
 export function memberAtDiameter(set: Pick<CurveSet, 'members'>, diameter_m: number): Member & { extrapolated: boolean } {
+  return withSheetNpsh3(set, trimmedMember(set, diameter_m));
+}
+
+/** Where a trim's NPSH3 curve comes from. */
+export interface Npsh3Source {
+  /** The drawn NPSH3 fit, as read off the sheet (flow and value unchanged), or scaled UP for a diameter above every drawn one. */
+  fit: PolynomialFit;
+  /** Diameter of the drawn curve used [m]. */
+  from_diameter_m: number;
+  /** True when the diameter lies above every drawn NPSH3 curve and the curve was scaled up by (D/D_drawn)² (an extrapolation). */
+  scaled_up: boolean;
+}
+
+/** The rule in words, for reports. */
+export const NPSH3_TRIM_RULE =
+  'NPSH3 of a trim is read from the drawn curve of the nearest equal or larger diameter at the same flow, never scaled down (common practice: the trimmed impeller keeps the same eye).';
+
+/**
+ * NPSH3 for an impeller of diameter d [m] (common practice): the drawn NPSH3 curve of the
+ * smallest captured diameter at or above d, at the same flow, unscaled — so a trim is never
+ * given an NPSH3 below the sheet's. Above every drawn diameter the largest drawn curve is
+ * scaled up by (d/D)² at the same flow (larger, hence on the safe side) and flagged.
+ * Undefined when the set has no NPSH3 curve at all.
+ */
+export function npsh3ForDiameter(set: Pick<CurveSet, 'members'>, diameter_m: number): Npsh3Source | undefined {
+  const drawn = set.members
+    .filter((m) => m.diameter_m !== undefined && m.curves.npshr?.fit)
+    .sort((a, b) => (a.diameter_m as number) - (b.diameter_m as number));
+  const atOrAbove = drawn.find((m) => (m.diameter_m as number) >= diameter_m * (1 - 1e-9));
+  if (atOrAbove) return { fit: atOrAbove.curves.npshr?.fit as PolynomialFit, from_diameter_m: atOrAbove.diameter_m as number, scaled_up: false };
+  const largest = drawn[drawn.length - 1];
+  if (!largest) return undefined;
+  const r2 = (diameter_m / (largest.diameter_m as number)) ** 2;
+  const fit = largest.curves.npshr?.fit as PolynomialFit;
+  return {
+    fit: { ...fit, coefficients: fit.coefficients.map((c) => c * r2), rms: fit.rms * r2, max_residual: fit.max_residual * r2, reason: `${fit.reason}; scaled up by (D/D_drawn)² above the largest drawn NPSH3 curve` },
+    from_diameter_m: largest.diameter_m as number,
+    scaled_up: true,
+  };
+}
+
+/** The member with its NPSH3 curve replaced by the sheet's (see `npsh3ForDiameter`); members without a diameter are returned as they are. */
+export function withSheetNpsh3<M extends Member>(set: Pick<CurveSet, 'members'>, member: M): M {
+  if (member.diameter_m === undefined) return member;
+  const source = npsh3ForDiameter(set, member.diameter_m);
+  const curves = { ...member.curves };
+  if (source) curves.npshr = { points: source.from_diameter_m === member.diameter_m ? member.curves.npshr?.points ?? [] : [], fit: source.fit };
+  else delete curves.npshr;
+  return { ...member, curves };
+}
+
+function trimmedMember(set: Pick<CurveSet, 'members'>, diameter_m: number): Member & { extrapolated: boolean } {
   const sorted = membersByDiameter(set);
   if (sorted.length === 0) throw new AffinityInputError('This curve set has no impeller diameters to trim between.');
   if (!(diameter_m > 0)) throw new AffinityInputError(`The diameter must be positive, not ${diameter_m} m.`);

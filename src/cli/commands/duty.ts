@@ -5,14 +5,14 @@
  * Exit 0 ok, 1 when the duty cannot be met or the NPSH margin fails, 2 for unusable input.
  */
 import type { Command } from 'commander';
-import { dutyCheck, type DutyCheckInput } from '../../duty/dutyCheck.ts';
+import { dutyCheck } from '../../duty/dutyCheck.ts';
+import { readDutyInput, setUnitSystem, type DutyField } from '../../duty/dutyInput.ts';
 import { dutyReportView } from '../../duty/reportView.ts';
 import { dutyReportText } from '../../duty/reportText.ts';
-import { NPSH_APPLICATIONS, type NpshApplication } from '../../duty/npshMargin.ts';
-import { SERVICES, type Service } from '../../duty/cautions.ts';
-import type { SiteInput } from '../../duty/site.ts';
-import { presetNamed, toSI, resolveUnits, parseUnit } from '../../units/index.ts';
-import { EXIT_FAILED_CHECKS, EXIT_OK, InputError, runCommand } from '../errors.ts';
+import { NPSH_APPLICATIONS } from '../../duty/npshMargin.ts';
+import { SERVICES } from '../../duty/cautions.ts';
+import { presetNamed } from '../../units/index.ts';
+import { EXIT_FAILED_CHECKS, EXIT_OK, runCommand } from '../errors.ts';
 import { readCurveSet } from '../io.ts';
 
 interface DutyOptions {
@@ -21,7 +21,7 @@ interface DutyOptions {
   static?: string;
   systemPoints?: string;
   systemExponent?: string;
-  units: string;
+  units?: string;
   json?: boolean;
   density?: string;
   parallel?: string;
@@ -47,12 +47,12 @@ export function register(program: Command): void {
     .command('duty')
     .description('check a curve set against a duty point: operating points, trim, NPSH margin, motor and energy')
     .argument('<set>', 'curve set (*.curveset.json)')
-    .requiredOption('--flow <Q>', 'duty flow (m³/h with --units si, gpm with --units us); the total of all pumps in parallel')
+    .requiredOption('--flow <Q>', 'duty flow (in the report’s units: the curve set’s own unless --units is given); the total of all pumps in parallel')
     .requiredOption('--head <H>', 'duty head (m or ft)')
     .option('--static <H0>', 'static head of the system (m or ft); the system curve is H0 + k·Q² through the duty point (default 0)')
     .option('--system-points <list>', 'system curve from a table instead, "Q:H,Q:H,…", fitted with H = Hs + k·Q^n')
     .option('--system-exponent <n>', 'hold the system-curve exponent n (default 2 through a duty point, fitted for a table)')
-    .option('--units <system>', 'unit system of inputs and report: si or us', 'si')
+    .option('--units <system>', 'unit system of inputs and report: si or us (default: the curve set’s own units)')
     .option('--json', 'print the report as JSON')
     .option('--density <kg/m3>', 'density of the pumped liquid, kg/m³ (default the curve set’s liquid, or water at --temperature)')
     .option('--at-diameter <list>', 'also give operating points for these trims, "D,D,…" (mm or in)')
@@ -75,85 +75,28 @@ export function register(program: Command): void {
 }
 
 function duty(file: string, o: DutyOptions): number {
-  const system = presetNamed(o.units);
-  const u = resolveUnits(system);
   const set = readCurveSet(file);
-  const flowSI = (v: number) => toSI(v, u.flow);
-  const headSI = (v: number) => toSI(v, u.head);
-  const input: DutyCheckInput = {
-    flow_m3s: flowSI(num(o.flow, '--flow', 'positive')),
-    head_m: headSI(num(o.head, '--head', 'positive')),
-  };
-  if (o.static !== undefined) input.static_head_m = headSI(num(o.static, '--static'));
-  if (o.systemPoints !== undefined) input.system_points = parsePoints(o.systemPoints).map(([q, h]) => [flowSI(q), headSI(h)] as const);
-  if (o.systemExponent !== undefined) input.system_exponent = num(o.systemExponent, '--system-exponent', 'positive');
-  if (o.density !== undefined) input.density_kg_m3 = num(o.density, '--density', 'positive');
-  if (o.parallel !== undefined) input.parallel_count = num(o.parallel, '--parallel', 'positive');
-  if (o.atDiameter !== undefined) {
-    input.extra_diameters_m = o.atDiameter.split(',').map((d) => toSI(num(d, '--at-diameter', 'positive'), u.diameter));
-  }
-  if (o.variableSpeed) input.variable_speed = true;
-  input.application = oneOf(o.application, NPSH_APPLICATIONS, '--application') as NpshApplication;
-  input.service = oneOf(o.service, SERVICES, '--service') as Service;
-  input.motor_standard = oneOf(o.motor ?? (o.units === 'us' ? 'nema' : 'iec'), ['nema', 'iec'] as const, '--motor') as 'nema' | 'iec';
-
-  const siteGiven = [o.elevation, o.sitePressure, o.temperature, o.vapourPressure, o.suctionStatic, o.suctionLoss].some((v) => v !== undefined);
-  let temperatureAssumed = false;
-  if (siteGiven) {
-    temperatureAssumed = o.temperature === undefined;
-    const site: SiteInput = {
-      temperature_K: o.temperature === undefined ? 293.15 : toSI(num(o.temperature, '--temperature'), u.temperature),
-      suction_static_m: o.suctionStatic === undefined ? 0 : headSI(num(o.suctionStatic, '--suction-static')),
-      suction_loss_m: o.suctionLoss === undefined ? 0 : headSI(num(o.suctionLoss, '--suction-loss', 'non-negative')),
-    };
-    if (o.elevation !== undefined) site.elevation_m = toSI(num(o.elevation, '--elevation'), parseUnit('head', system.head));
-    if (o.sitePressure !== undefined) site.site_pressure_Pa = toSI(num(o.sitePressure, '--site-pressure', 'positive'), u.pressure);
-    if (o.vapourPressure !== undefined) site.vapour_pressure_Pa = toSI(num(o.vapourPressure, '--vapour-pressure', 'non-negative'), u.pressure);
-    if (o.density !== undefined) site.density_kg_m3 = input.density_kg_m3 as number;
-    input.site = site;
-  }
-
-  if (o.hours !== undefined || o.tariff !== undefined || o.motorEfficiency !== undefined) {
-    if (o.hours === undefined || o.motorEfficiency === undefined) throw new InputError('The energy estimate needs both --hours and --motor-efficiency (in %); add the one that is missing.');
-    input.energy = {
-      hours_per_year: num(o.hours, '--hours', 'non-negative'),
-      motor_efficiency: percent(o.motorEfficiency, '--motor-efficiency'),
-      ...(o.tariff !== undefined ? { tariff_per_kWh: num(o.tariff, '--tariff', 'non-negative') } : {}),
-      ...(o.driveEfficiency !== undefined ? { drive_efficiency: percent(o.driveEfficiency, '--drive-efficiency') } : {}),
-    };
-  }
-
+  const system = o.units === undefined ? setUnitSystem(set.display_units) : presetNamed(o.units);
+  const { input, notes } = readDutyInput(
+    {
+      flow: o.flow, head: o.head, static: o.static, system_points: o.systemPoints, system_exponent: o.systemExponent, density: o.density,
+      parallel: o.parallel, at_diameter: o.atDiameter, variable_speed: o.variableSpeed === true, elevation: o.elevation, site_pressure: o.sitePressure,
+      temperature: o.temperature, vapour_pressure: o.vapourPressure, suction_static: o.suctionStatic, suction_loss: o.suctionLoss,
+      application: o.application, service: o.service, motor: o.motor, hours: o.hours, tariff: o.tariff, motor_efficiency: o.motorEfficiency, drive_efficiency: o.driveEfficiency,
+    },
+    system,
+    FLAG_NAMES,
+  );
   const report = dutyCheck(set, input);
-  if (temperatureAssumed) report.warnings.push(`No --temperature given: the liquid is taken at 20 °C for vapour pressure and density.`);
+  report.warnings.push(...notes);
   const view = dutyReportView(report, system, { file, pump: set.pump.name });
   process.stdout.write(o.json ? `${JSON.stringify(view, null, 2)}\n` : dutyReportText(view));
   return report.problems.length ? EXIT_FAILED_CHECKS : EXIT_OK;
 }
 
-function num(value: string, flag: string, kind: 'any' | 'positive' | 'non-negative' = 'any'): number {
-  const v = Number(value.trim());
-  if (value.trim() === '' || !Number.isFinite(v)) throw new InputError(`${flag} must be a number, not "${value}".`);
-  if (kind === 'positive' && !(v > 0)) throw new InputError(`${flag} must be greater than zero, not ${value}.`);
-  if (kind === 'non-negative' && !(v >= 0)) throw new InputError(`${flag} must be zero or more, not ${value}.`);
-  return v;
-}
-
-function percent(value: string, flag: string): number {
-  const v = num(value, flag, 'positive');
-  if (v > 100) throw new InputError(`${flag} is a percentage and must be at most 100, not ${value}.`);
-  return v / 100;
-}
-
-function oneOf<T extends string>(value: string, allowed: readonly T[], flag: string): T {
-  if (!(allowed as readonly string[]).includes(value)) throw new InputError(`${flag} must be one of ${allowed.join(', ')}, not "${value}".`);
-  return value as T;
-}
-
-function parsePoints(text: string): Array<[number, number]> {
-  const pairs = text.split(',').map((p) => p.trim()).filter(Boolean);
-  return pairs.map((pair) => {
-    const parts = pair.split(':');
-    if (parts.length !== 2) throw new InputError(`--system-points takes "Q:H" pairs separated by commas; "${pair}" is not one.`);
-    return [num(parts[0] as string, '--system-points flow', 'non-negative'), num(parts[1] as string, '--system-points head')];
-  });
-}
+const FLAG_NAMES: Partial<Record<DutyField, string>> = {
+  flow: '--flow', head: '--head', static: '--static', system_points: '--system-points', system_exponent: '--system-exponent', density: '--density',
+  parallel: '--parallel', at_diameter: '--at-diameter', elevation: '--elevation', site_pressure: '--site-pressure', temperature: '--temperature',
+  vapour_pressure: '--vapour-pressure', suction_static: '--suction-static', suction_loss: '--suction-loss', application: '--application', service: '--service',
+  motor: '--motor', hours: '--hours', tariff: '--tariff', motor_efficiency: '--motor-efficiency', drive_efficiency: '--drive-efficiency',
+};

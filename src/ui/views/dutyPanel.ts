@@ -1,143 +1,150 @@
 /**
- * The duty view of the review: a duty point (and optionally the suction site) typed in the
- * chosen unit system, checked with the same duty check the command line runs. The family
- * chart then shows the system curve and the operating point of each diameter, and the
- * NPSH margin, motor and cautions are listed beside it.
+ * The duty view of the review, now a duty study: the duty, the suction site and pipe runs, and
+ * options added with a click (impeller, pumps in parallel, control, pipe size), worked out with the
+ * same study engine `pumpscribe study` runs and ranked. The family chart shows the system curves
+ * (lowest and highest static head, as one band) and each option's operating points; the table
+ * gives the NPSH margin at the duty and at run-out, the allowable eye elevation and the motor,
+ * with the cautions beside them.
  */
 import { h } from '../dom/h.ts';
-import { dutyCheck, type DutyCheckInput, type DutyCheckReport } from '../../duty/dutyCheck.ts';
+import { NPSH_CAUTION, MOTOR_CAUTION, PRELIMINARY, SERVICES, serviceCaution, type Service } from '../../duty/cautions.ts';
 import { systemHead } from '../../duty/systemCurve.ts';
-import { SERVICES, type Service } from '../../duty/cautions.ts';
 import type { CurveSet } from '../../model/curveset.ts';
-import { CELSIUS_ZERO, fromSI, toSI, type Unit } from '../../units/index.ts';
+import { fromSI } from '../../units/index.ts';
 import { linspace } from '../../fit/polynomial.ts';
+import { runStudy, isFailing, type StudyResult } from '../../study/runStudy.ts';
+import type { OptionResult } from '../../study/evaluate.ts';
 import { chartUnits, type DutyOverlay } from './familyChart.ts';
 import { num, unitText } from './words.ts';
+import { EMPTY_DUTY, nextOption, studyOfForm, type DutyForm, type StudyOptionForm } from './studyForm.ts';
 
-/** What the engineer typed, as typed (numbers in the review's unit system). */
-export interface DutyForm {
-  flow: string;
-  head: string;
-  staticHead: string;
-  service: Service;
-  /** Suction site: all blank means no NPSH check. */
-  temperatureC: string;
-  elevation: string;
-  suctionStatic: string;
-  suctionLoss: string;
-}
+export { EMPTY_DUTY, type DutyForm };
 
-export const EMPTY_DUTY: DutyForm = { flow: '', head: '', staticHead: '', service: 'general', temperatureC: '', elevation: '', suctionStatic: '', suctionLoss: '' };
-
-export type DutyOutcome = { report: DutyCheckReport; overlay: DutyOverlay } | { error: string } | null;
+export type DutyOutcome = { result: StudyResult; overlay: DutyOverlay; service: Service } | { error: string } | null;
 
 const SERVICE_WORDS: Record<Service, string> = { general: 'general service', fire: 'fire protection', potable: 'potable water', hazardous: 'hazardous liquid' };
 
-function number(text: string): number | undefined {
-  const t = text.trim().replace(',', '.');
-  if (t === '') return undefined;
-  const v = Number(t);
-  if (!Number.isFinite(v)) throw new Error(`"${text}" is not a number.`);
-  return v;
-}
-
-/** Runs the duty check for the form, or says what is missing or wrong. */
+/** Runs the study for the form, or says what is missing or wrong. */
 export function runDuty(set: CurveSet, form: DutyForm, system: 'si' | 'us'): DutyOutcome {
-  const u = chartUnits(system);
   try {
-    const flow = number(form.flow);
-    const head = number(form.head);
-    if (flow === undefined || head === undefined) return null;
-    const input: DutyCheckInput = { flow_m3s: toSI(flow, u.flow), head_m: toSI(head, u.head), service: form.service };
-    const stat = number(form.staticHead);
-    if (stat !== undefined) input.static_head_m = toSI(stat, u.head);
-    const temperature = number(form.temperatureC);
-    const suctionStatic = number(form.suctionStatic);
-    if (temperature !== undefined && suctionStatic !== undefined) {
-      const elevation = number(form.elevation);
-      input.site = {
-        temperature_K: temperature + CELSIUS_ZERO,
-        suction_static_m: toSI(suctionStatic, u.head),
-        suction_loss_m: toSI(number(form.suctionLoss) ?? 0, u.head),
-        ...(elevation !== undefined ? { elevation_m: toSI(elevation, u.head) } : {}),
-      };
-    }
-    const report = dutyCheck(set, input);
-    const qMax = Math.max(input.flow_m3s * 1.3, ...set.members.map((m) => m.curves.head?.fit?.domain[1] ?? 0));
-    const overlay: DutyOverlay = {
-      system: linspace(0, qMax, 40).map((q) => [q, systemHead(report.system, q)] as [number, number]),
-      points: report.operating_points.flatMap((op) => (op.result.status === 'ok' ? [{ label: op.label, flow: op.result.point.flow_m3s, head: op.result.point.head_m }] : [])),
-    };
-    return { report, overlay };
+    const study = studyOfForm(form, system);
+    if (!study) return null;
+    const result = runStudy(study, () => set);
+    return { result, overlay: overlayOf(set, result), service: form.service };
   } catch (error) {
     return { error: (error as Error).message };
   }
 }
 
-function input(id: string, label: string, value: string, unit: string, onchange: (v: string) => void): HTMLElement {
+/** The system curves of the best option as one band (low static out, high static back) and every option's operating points. */
+function overlayOf(set: CurveSet, result: StudyResult): DutyOverlay {
+  const best = result.ranked[0] as OptionResult;
+  const flows = result.ranked.flatMap((r) => [r.operating_points.low?.flow_m3s ?? 0, r.operating_points.high?.flow_m3s ?? 0]);
+  const qMax = Math.max(result.ranked[0]?.option.duty.flow_m3s ?? 0, ...flows, ...set.members.map((m) => m.curves.head?.fit?.domain[1] ?? 0)) * 1.05;
+  const qs = linspace(0, qMax, 40);
+  const low = qs.map((q) => [q, systemHead(best.systems.low, q)] as [number, number]);
+  const high = [...qs].reverse().map((q) => [q, systemHead(best.systems.high, q)] as [number, number]);
+  const points: DutyOverlay['points'] = [];
+  for (const r of result.ranked) {
+    const ok = !r.findings.some((f) => f.severity === 'fail' && /NPSH/.test(f.message));
+    for (const [key, op] of Object.entries(r.operating_points)) if (op) points.push({ label: `${r.name}, ${key} static`, flow: op.flow_m3s, head: op.head_m, npshMarginOk: ok });
+  }
+  return { system: best.systems.low.static_head_m === best.systems.high.static_head_m ? low : [...low, ...high], points };
+}
+
+function input(id: string, label: string, value: string, unit: string, onchange: (v: string) => void, hint?: string): HTMLElement {
   return h('div', { class: 'field' },
     h('label', { for: id }, label),
-    h('input', { id, type: 'text', inputmode: 'decimal', value, onchange: (e: Event) => onchange((e.target as HTMLInputElement).value) }),
+    h('input', { id, type: 'text', inputmode: 'decimal', value, ...(hint ? { placeholder: hint } : {}), onchange: (e: Event) => onchange((e.target as HTMLInputElement).value) }),
     h('span', { class: 'unit' }, unit));
 }
 
-function figure(v: number | undefined, unit: Unit, digits = 4): string {
-  return v === undefined ? '—' : `${num(fromSI(v, unit), digits)} ${unitText(unit.label || unit.token)}`;
+function select<T extends string>(id: string, label: string, value: T, choices: ReadonlyArray<readonly [T, string]>, onchange: (v: T) => void): HTMLElement {
+  return h('div', { class: 'field' },
+    h('label', { for: id }, label),
+    h('select', { id, onchange: (e: Event) => onchange((e.target as HTMLSelectElement).value as T) }, choices.map(([v, words]) => h('option', { value: v, selected: v === value }, words))));
 }
 
 export function dutyPanel(form: DutyForm, outcome: DutyOutcome, system: 'si' | 'us', change: (patch: Partial<DutyForm>) => void): HTMLElement {
   const u = chartUnits(system);
   const flowUnit = unitText(u.flow.label);
-  const report = outcome && 'report' in outcome ? outcome.report : null;
+  const setOption = (i: number, patch: Partial<StudyOptionForm>) => change({ options: form.options.map((o, j) => (j === i ? { ...o, ...patch } : o)) });
   return h('section', { class: 'duty', 'aria-labelledby': 'duty-title' },
-    h('h4', { id: 'duty-title' }, 'Duty check'),
-    h('p', { class: 'hint' }, 'Type a duty point to see the system curve and where each diameter runs on it. Add the suction site to judge the NPSH margin.'),
+    h('h4', { id: 'duty-title' }, 'Duty study'),
+    h('p', { class: 'hint' }, 'Type the duty and the pipe runs, then add options to compare. Each option is worked out at the lowest and highest static head, with the NPSH margin to run-out, the motor and the life-cycle cost.'),
     input('duty-flow', 'Duty flow', form.flow, flowUnit, (v) => change({ flow: v })),
-    input('duty-head', 'Duty head', form.head, u.head.label, (v) => change({ head: v })),
-    input('duty-static', 'Static head', form.staticHead, u.head.label, (v) => change({ staticHead: v })),
-    h('div', { class: 'field' },
-      h('label', { for: 'duty-service' }, 'Service'),
-      h('select', { id: 'duty-service', onchange: (e: Event) => change({ service: (e.target as HTMLSelectElement).value as Service }) },
-        SERVICES.map((s) => h('option', { value: s, selected: s === form.service }, SERVICE_WORDS[s])))),
+    input('duty-head', 'Duty head', form.head, u.head.label, (v) => change({ head: v }), 'from the pipe runs'),
+    input('duty-static', 'Static head, lowest', form.staticHead, u.head.label, (v) => change({ staticHead: v })),
+    input('duty-static-high', 'Static head, highest', form.staticHigh, u.head.label, (v) => change({ staticHigh: v }), 'same as lowest'),
+    select('duty-service', 'Service', form.service, SERVICES.map((s) => [s, SERVICE_WORDS[s]] as const), (v) => change({ service: v })),
     h('fieldset', { class: 'site' },
       h('legend', null, 'Suction site (for the NPSH margin)'),
-      input('duty-temperature', 'Liquid temperature', form.temperatureC, '°C', (v) => change({ temperatureC: v })),
-      input('duty-elevation', 'Site elevation', form.elevation, u.head.label, (v) => change({ elevation: v })),
-      input('duty-suction-static', 'Suction static head', form.suctionStatic, `${u.head.label} (liquid surface above the impeller eye; negative for a lift)`, (v) => change({ suctionStatic: v })),
-      input('duty-suction-loss', 'Suction loss at the duty', form.suctionLoss, u.head.label, (v) => change({ suctionLoss: v }))),
+      input('duty-temperature', 'Liquid temperature', form.temperatureC, '°C', (v) => change({ temperatureC: v }), '20'),
+      input('duty-elevation', 'Site elevation', form.elevation, u.head.label, (v) => change({ elevation: v }), '0'),
+      input('duty-suction-static', 'Lowest liquid level above the impeller eye', form.suctionStatic, `${u.head.label} (negative for a lift)`, (v) => change({ suctionStatic: v })),
+      input('duty-suction-diameter', 'Suction pipe inside diameter', form.suctionDiameter, u.diameter.label, (v) => change({ suctionDiameter: v })),
+      input('duty-suction-length', 'Suction pipe length', form.suctionLength, u.head.label, (v) => change({ suctionLength: v })),
+      input('duty-suction-k', 'Suction fittings, sum of K', form.suctionK, '', (v) => change({ suctionK: v })),
+      input('duty-suction-loss', 'Suction loss at the duty, per pump (without a suction pipe)', form.suctionLoss, u.head.label, (v) => change({ suctionLoss: v }))),
+    h('fieldset', { class: 'site' },
+      h('legend', null, 'Discharge pipe and operation'),
+      input('duty-discharge-diameter', 'Discharge pipe inside diameter', form.dischargeDiameter, u.diameter.label, (v) => change({ dischargeDiameter: v })),
+      input('duty-discharge-length', 'Discharge pipe length', form.dischargeLength, u.head.label, (v) => change({ dischargeLength: v })),
+      input('duty-discharge-k', 'Discharge fittings, sum of K', form.dischargeK, '', (v) => change({ dischargeK: v })),
+      input('duty-roughness', 'Pipe roughness', form.roughness, u.diameter.label, (v) => change({ roughness: v }), 'new steel'),
+      input('duty-hours', 'Running hours', form.hours, 'h/year', (v) => change({ hours: v })),
+      input('duty-tariff', 'Tariff', form.tariff, 'per kWh', (v) => change({ tariff: v })),
+      input('duty-motor-efficiency', 'Motor efficiency', form.motorEfficiency, '%', (v) => change({ motorEfficiency: v }))),
+    h('fieldset', { class: 'study-options' },
+      h('legend', null, 'Options'),
+      form.options.map((o, i) => h('div', { class: 'study-option', 'data-key': `option-${i}` },
+        input(`option-${i}-name`, 'Name', o.name, '', (v) => setOption(i, { name: v })),
+        select(`option-${i}-impeller`, 'Impeller', o.impeller, [['trim', 'trimmed to the duty'], ['drawn', 'drawn (largest, or the diameter)'], ['given', 'given diameter']] as const, (v) => setOption(i, { impeller: v })),
+        o.impeller === 'trim' ? null : input(`option-${i}-diameter`, 'Diameter', o.diameter, u.diameter.label, (v) => setOption(i, { diameter: v })),
+        select(`option-${i}-pumps`, 'Pumps in parallel', o.pumps, [['1', '1'], ['2', '2'], ['3', '3']] as const, (v) => setOption(i, { pumps: v })),
+        select(`option-${i}-control`, 'Control', o.control, [['throttle', 'throttling valve'], ['speed', 'variable speed']] as const, (v) => setOption(i, { control: v })),
+        input(`option-${i}-pipe`, 'Discharge pipe diameter', o.pipe, u.diameter.label, (v) => setOption(i, { pipe: v }), 'as above'),
+        form.options.length > 1 ? h('button', { type: 'button', class: 'remove-option', onclick: () => change({ options: form.options.filter((_, j) => j !== i) }) }, 'Remove') : null)),
+      h('button', { type: 'button', id: 'study-add-option', onclick: () => change({ options: [...form.options, nextOption(form.options)] }) }, 'Add an option')),
     outcome && 'error' in outcome ? h('p', { class: 'cal bad', role: 'alert' }, outcome.error) : null,
-    report ? dutyResults(report, u) : null);
+    outcome && 'result' in outcome ? studyResults(outcome.result, outcome.service, u) : null);
 }
 
-function dutyResults(report: DutyCheckReport, u: ReturnType<typeof chartUnits>): HTMLElement {
-  const npshAt = new Map((report.npsh?.points ?? []).map((p) => [p.where, p]));
-  return h('div', { class: 'duty-results' },
-    h('p', { class: report.trim.status === 'meets' ? 'summary' : 'summary bad' }, report.trim.message),
-    h('table', { class: 'figures' },
-      h('caption', { class: 'visually-hidden' }, 'Operating point of each diameter on the system curve'),
+function studyResults(result: StudyResult, service: Service, u: ReturnType<typeof chartUnits>): HTMLElement {
+  const f = (v: number | undefined, unit: Parameters<typeof fromSI>[1], digits = 4) => (v === undefined || !Number.isFinite(v) ? '—' : num(fromSI(v, unit), digits));
+  const best = result.ranked[0];
+  const code = serviceCaution(service);
+  return h('div', { class: 'duty-results study-results' },
+    h('p', { class: best && !isFailing(best) ? 'summary' : 'summary bad' }, result.why),
+    h('table', { class: 'figures study-table' },
+      h('caption', { class: 'visually-hidden' }, 'Options ranked by life-cycle cost'),
       h('thead', null, h('tr', null,
-        h('th', { scope: 'col' }, 'Diameter'),
-        h('th', { scope: 'col' }, `Flow [${unitText(u.flow.label)}]`),
-        h('th', { scope: 'col' }, `Head [${u.head.label}]`),
-        h('th', { scope: 'col' }, 'Eff. [%]'),
-        h('th', { scope: 'col' }, `Power [${u.power.label}]`),
-        h('th', { scope: 'col' }, `NPSH margin`))),
-      h('tbody', null, report.operating_points.map((op) => {
-        if (op.result.status !== 'ok') return h('tr', null, h('th', { scope: 'row' }, op.label), h('td', { colspan: '5' }, op.result.message));
-        const p = op.result.point;
-        const npsh = [...npshAt.entries()].find(([where]) => where.endsWith(op.label) || where.includes(op.label))?.[1];
-        const j = npsh?.judgement;
-        return h('tr', { 'data-key': op.label, class: p.extrapolated.length ? 'extrapolated' : '' },
-          h('th', { scope: 'row' }, op.label),
-          h('td', null, num(fromSI(p.flow_m3s, u.flow))),
-          h('td', null, num(fromSI(p.head_m, u.head))),
-          h('td', null, p.efficiency !== undefined ? num(p.efficiency * 100, 3) : '—'),
-          h('td', null, p.power_W !== undefined ? num(fromSI(p.power_W, u.power)) : '—'),
-          h('td', { class: j && j.verdict !== 'meets-guidance' ? 'warn' : '' }, j ? `${figure(j.margin_m, u.npsh, 3)} (×${num(j.ratio, 3)})` : '—'));
+        ['#', 'Option', `Flow [${unitText(u.flow.label)}]`, `Head [${u.head.label}]`, 'Eff. [%]', `Power [${u.power.label}]`, 'Motor', `NPSHa [${u.npsh.label}]`, `NPSH3 [${u.npsh.label}]`, 'Margin ratio', 'Run-out ratio', `Eye at most [${u.npsh.label}] above the lowest level`, 'Energy [kWh/year]', 'Life-cycle cost', 'Result'].map((c) => h('th', { scope: 'col' }, c)))),
+      h('tbody', null, result.ranked.map((r, i) => {
+        const duty = r.npsh?.duty;
+        const run = r.npsh?.run_out;
+        const failing = isFailing(r);
+        return h('tr', { 'data-key': r.name, class: failing ? 'fail' : '' },
+          h('td', null, String(i + 1)),
+          h('th', { scope: 'row' }, r.name),
+          h('td', null, f(r.duty?.flow_m3s, u.flow)),
+          h('td', null, f(r.duty?.head_m, u.head)),
+          h('td', null, r.duty?.efficiency !== undefined ? num(r.duty.efficiency * 100, 3) : '—'),
+          h('td', null, f(r.duty?.power_W, u.power)),
+          h('td', { class: 'motor' }, r.motor?.selection.rating?.label ?? '—'),
+          h('td', { class: 'npsha' }, f(duty?.npsha_m, u.npsh, 3)),
+          h('td', { class: 'npsh3' }, f(duty?.npsh3_m, u.npsh, 3)),
+          h('td', { class: `margin${duty && duty.judgement.verdict !== 'meets-guidance' ? ' warn' : ''}` }, duty ? num(duty.judgement.ratio, 3) : '—'),
+          h('td', { class: `runout${run && run.judgement.verdict !== 'meets-guidance' ? ' warn' : ''}` }, run ? num(run.judgement.ratio, 3) : '—'),
+          h('td', { class: 'eye' }, f(r.npsh?.max_eye_elevation_m, u.npsh, 3)),
+          h('td', null, r.energy ? num(r.energy.kWh, 4) : '—'),
+          h('td', null, r.lcc ? num(r.lcc.total, 4) : '—'),
+          h('td', null, failing ? 'fails' : 'passes'));
       }))),
-    report.operating_points.some((op) => op.result.status === 'ok' && op.result.point.extrapolated.length) ? h('p', { class: 'caution' }, 'Rows in italics read a curve beyond its captured range (extrapolated): treat them as rough.') : null,
-    report.problems.length ? h('ul', { class: 'problems' }, report.problems.map((p) => h('li', null, p))) : null,
-    report.warnings.length ? h('ul', { class: 'warnings' }, report.warnings.map((w) => h('li', null, w))) : null,
-    report.motor ? h('p', null, `Motor: ${report.motor.selection.notes[0] ?? ''}`) : null,
-    [...report.cautions, ...(report.npsh ? [report.npsh.caution] : []), ...(report.motor ? [report.motor.caution] : [])].map((c) => h('p', { class: 'caution', role: 'note' }, c)));
+    h('ul', { class: 'study-findings' }, result.ranked.flatMap((r) => r.findings.filter((x) => x.severity !== 'note').map((x) => h('li', { class: x.severity }, `${r.name}: ${x.message}`)))),
+    h('p', { class: 'caution', role: 'note' }, `NPSH: ${NPSH_CAUTION}`),
+    h('p', { class: 'caution', role: 'note' }, `Motor: ${MOTOR_CAUTION}`),
+    code ? h('p', { class: 'caution', role: 'note' }, code) : null,
+    h('p', { class: 'caution', role: 'note' }, PRELIMINARY),
+    result.notes.map((n) => h('p', { class: 'hint' }, n)));
 }

@@ -1,0 +1,67 @@
+/**
+ * The duty study in the workbench: open an invented vector sheet with its take-off file, type a
+ * duty, the suction site and the pipe runs, add an option with one click, and read the NPSH
+ * margin, the motor and the allowable eye elevation beside the cautions; the family chart shows
+ * the system curves and the operating points.
+ */
+import { join } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { ARTIFACTS, cleanDir, openBrowser, ROOT, startServer, User, type Browser, type Server } from './harness.ts';
+
+const dir = join(ARTIFACTS, 'study');
+let server: Server;
+let browser: Browser;
+
+beforeAll(async () => {
+  cleanDir(dir);
+  server = await startServer();
+  browser = await openBrowser();
+}, 600_000);
+
+afterAll(async () => {
+  await browser?.close();
+  await server?.stop();
+});
+
+describe('the duty study in the review', () => {
+  it('shows the margin, the motor and the allowable elevation for each option, added with a click', async () => {
+    const page = browser.page;
+    const user = new User(page, dir);
+    await page.goto(server.url);
+    const sheets = join(ROOT, 'samples', 'sheets');
+    await user.chooseFiles(page.locator('#sheet-file'), [join(sheets, 'si-panels-black.pdf'), join(sheets, 'si-panels-black.takeoff.json')], 'sheet and its take-off file');
+    await page.waitForFunction(() => /^Opened /.test(document.querySelector('#message')?.textContent ?? ''), null, { timeout: 120_000 });
+    await page.click('#step-review');
+    await page.waitForSelector('.family-chart', { timeout: 120_000 });
+    // The invented IX-150 family (330 mm, 1480 rpm): 250 m³/h against 30–34 m static, 10 in discharge.
+    const fields: Record<string, string> = {
+      'duty-flow': '250', 'duty-static': '30', 'duty-static-high': '34', 'duty-temperature': '30', 'duty-suction-static': '1',
+      'duty-suction-diameter': '202.7', 'duty-suction-length': '20', 'duty-suction-k': '1', 'duty-discharge-diameter': '254.5', 'duty-discharge-length': '300', 'duty-discharge-k': '6.5',
+    };
+    for (const [id, value] of Object.entries(fields)) await user.type(page.locator(`#${id}`), value, id);
+    await page.waitForSelector('.study-results table.study-table tbody tr', { timeout: 60_000 });
+    expect(await page.locator('.study-table tbody tr').count()).toBe(1);
+
+    await user.click(page.locator('#study-add-option'), 'add an option');
+    await page.waitForFunction(() => document.querySelectorAll('.study-table tbody tr').length === 2, null, { timeout: 60_000 });
+    await user.screenshot('study-two-options');
+
+    const rows = page.locator('.study-table tbody tr');
+    for (let i = 0; i < 2; i++) {
+      const row = rows.nth(i);
+      expect(await row.locator('td.margin').textContent()).toMatch(/^\d+(\.\d+)?$/);
+      expect(await row.locator('td.runout').textContent()).toMatch(/^\d+(\.\d+)?$/);
+      expect(await row.locator('td.motor').textContent()).toMatch(/^\d+(\.\d+)? kW$/);
+      expect(await row.locator('td.eye').textContent()).toMatch(/^-?\d+(\.\d+)?$/);
+    }
+    const text = (await page.locator('.study-results').textContent()) ?? '';
+    expect(text).toMatch(/wins|passes every check|No option passes/);
+    expect(text).toMatch(/NPSH: NPSH3 is the point where head has already dropped 3 %/);
+    expect(text).toMatch(/Motor: Motor size is preliminary/);
+    // The headline never says the duty is met while an option it recommends fails.
+    expect(await page.locator('.study-results .summary').textContent()).not.toMatch(/meets the duty/);
+    // System curves and every option's operating points on the family chart.
+    await page.waitForSelector('.family-chart .system-curve');
+    expect(await page.locator('.family-chart .op-point').count()).toBeGreaterThanOrEqual(3);
+  }, 600_000);
+});
