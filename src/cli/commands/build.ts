@@ -8,8 +8,8 @@ import { stringifyCurveSet } from '../../model/curvesetIO.ts';
 import type { CurvePoint, Quantity } from '../../model/curveset.ts';
 import { canonicalUnits, parseUnit, presetNamed, SG_REFERENCE_DENSITY, toSI } from '../../units/index.ts';
 import { EXIT_FAILED_CHECKS, EXIT_OK, InputError, runCommand } from '../errors.ts';
-import { positiveOption, readText, writeTextAtomic } from '../io.ts';
-import { formatReport } from '../report.ts';
+import { emitReport, positiveOption, readText, writeTextAtomic } from '../io.ts';
+import { formatReport, reportJson } from '../report.ts';
 
 interface BuildOptions {
   output: string;
@@ -25,14 +25,15 @@ interface BuildOptions {
   maker?: string;
   model?: string;
   quiet?: boolean;
+  json?: boolean;
 }
 
 export function register(program: Command): void {
   program
     .command('build')
     .description('fit, check and write a curve set from a points table (quantity,diameter,flow,value; efficiency in %)')
-    .argument('<points.csv>', 'points table')
-    .requiredOption('-o, --output <file>', 'curve set to write (*.curveset.json)')
+    .argument('<points.csv>', 'points table ("-" for standard input)')
+    .requiredOption('-o, --output <file>', 'curve set to write (*.curveset.json; "-" for standard output)')
     .requiredOption('--speed <rpm>', 'rated speed of the sheet, rpm')
     .option('--units <system>', 'unit system of the table: si or us', 'us')
     .option('--flow <unit>', 'flow unit (gpm, m3/h, L/s, L/min, m3/s)')
@@ -45,6 +46,7 @@ export function register(program: Command): void {
     .option('--maker <text>', 'maker, as free text')
     .option('--model <text>', 'model, as free text')
     .option('-q, --quiet', 'print nothing but errors')
+    .option('--json', 'print the report (figures, findings) as JSON')
     .action((file: string, options: BuildOptions) => runCommand(() => build(file, options)));
 }
 
@@ -99,6 +101,6 @@ function build(file: string, o: BuildOptions): number {
     members: [...byDiameter.values()],
   });
   writeTextAtomic(o.output, stringifyCurveSet(set));
-  if (!o.quiet) process.stdout.write(`${formatReport(set)}Wrote ${o.output}\n`);
+  emitReport(o, () => reportJson(set, o.output), () => `${formatReport(set)}Wrote ${o.output === '-' ? 'the curve set to standard output' : o.output}\n`);
   return set.findings.some((f) => f.severity === 'fail') ? EXIT_FAILED_CHECKS : EXIT_OK;
 }
