@@ -9,7 +9,7 @@
  * Writes to a file go to a temporary file first and are renamed into place, so a failed save
  * never leaves a half-written file where a good one was.
  */
-import { existsSync, readFileSync, renameSync, statSync, writeFileSync, writeSync, unlinkSync } from 'node:fs';
+import { existsSync, readFileSync, readSync, renameSync, statSync, writeFileSync, writeSync, unlinkSync } from 'node:fs';
 import { basename, dirname, join } from 'node:path';
 import type { CurveSet } from '../model/curveset.ts';
 import { parseCurveSetJson } from '../model/curvesetIO.ts';
@@ -32,15 +32,27 @@ let stdinText: string | undefined;
 /** All of standard input as text (read once; a second read gets the same text). */
 function readStdin(what: string): string {
   if (stdinText !== undefined) return stdinText;
-  try {
-    stdinText = readFileSync(0, 'utf8');
-  } catch (error) {
-    const code = (error as NodeJS.ErrnoException).code;
-    if (code === 'EAGAIN') throw new InputError(`Standard input is not ready to read the ${what}; pipe a file into the command (e.g. "cat file | pumpscribe … -").`);
-    if (code === 'EOF') stdinText = '';
-    else throw new InputError(`Cannot read the ${what} from standard input: ${(error as Error).message}.`);
+  const chunks: Buffer[] = [];
+  const chunk = Buffer.alloc(1 << 16);
+  const pause = new Int32Array(new SharedArrayBuffer(4));
+  for (;;) {
+    let n: number;
+    try {
+      n = readSync(0, chunk, 0, chunk.length, null);
+    } catch (error) {
+      const code = (error as NodeJS.ErrnoException).code;
+      if (code === 'EAGAIN') {
+        Atomics.wait(pause, 0, 0, 5); // a non-blocking pipe with nothing yet: wait for the writer
+        continue;
+      }
+      if (code === 'EOF') break;
+      throw new InputError(`Cannot read the ${what} from standard input: ${(error as Error).message}.`);
+    }
+    if (n === 0) break;
+    chunks.push(Buffer.from(chunk.subarray(0, n)));
   }
-  return stdinText ?? '';
+  stdinText = Buffer.concat(chunks).toString('utf8');
+  return stdinText;
 }
 
 export function readText(path: string, what = 'file'): string {
