@@ -10,7 +10,6 @@
  * so a take-off's anchors and guides keep their meaning. See imageDecode.ts for the decoders.
  */
 import { createHash } from 'node:crypto';
-import { createCanvas, loadImage } from '@napi-rs/canvas';
 import type { RasterImage } from '../raster.ts';
 import { checkRasterSize, DEFAULT_SHEET_LIMITS, SheetError, type Sheet, type SheetLimits } from '../sheet.ts';
 import { damagedImage, readImageHeader, type ImageHeader } from './imageHeader.ts';
@@ -56,6 +55,7 @@ function checkHeader(bytes: Uint8Array, name: string, limits: SheetLimits, maxSo
 
 /** Interlaced PNGs: decoded by the canvas library, still in this process, drawn at the working size. */
 async function decodeWithCanvas(bytes: Uint8Array, width: number, height: number): Promise<DecodedImage> {
+  const { createCanvas, loadImage } = await import('@napi-rs/canvas'); // loaded only when needed: it is a native library
   const image = await loadImage(Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength));
   const canvas = createCanvas(width, height);
   const ctx = canvas.getContext('2d');
@@ -98,7 +98,8 @@ export async function loadImageRasterNode(bytes: Uint8Array, options: ImageNodeO
 }
 
 /** Resamples a raster by `factor` (smoothing when it shrinks); the result has `scale` pixels per sheet unit. */
-function resample(image: RasterImage, factor: number, limits: SheetLimits, scale = factor): RasterImage {
+async function resample(image: RasterImage, factor: number, limits: SheetLimits, scale = factor): Promise<RasterImage> {
+  const { createCanvas } = await import('@napi-rs/canvas');
   const w = Math.max(1, Math.round(image.width * factor));
   const h = Math.max(1, Math.round(image.height * factor));
   checkRasterSize(w, h, limits, 'The rendered image');
