@@ -118,7 +118,7 @@ async function benchSheet(dir: string, name: string, targets: { ratio?: number; 
     const chosen = rows.filter((r) => r.quantity === q);
     return chosen.length ? `${Math.max(...chosen.map((r) => r.worst)).toFixed(3)}` : '—';
   };
-  const kind = truth.kind === 'image' ? `scan ${truth.scan?.dpi} dpi` : 'vector PDF';
+  const kind = sheet.kind === 'vector-pdf' ? 'vector PDF' : `${sheet.kind === 'image' ? 'scan' : 'scan inside a PDF'}${truth.scan?.dpi ? ` ${truth.scan.dpi} dpi` : ''}`;
   process.stdout.write(`\n${name} (${kind}, ${takeoff.traces.length} traces)\n`);
   process.stdout.write(`  worst error: head ${worst('head')} %, power ${worst('power')} %, NPSHr ${worst('npshr')} % of span; efficiency ${worst('efficiency')} pt${rows.some((r) => r.worst >= r.limit) ? '  ← OVER THE ACCEPTANCE' : ''}\n`);
 
