@@ -50,7 +50,7 @@ class RowSink {
     return this.y;
   }
 
-  push(row: Uint8Array): void {
+  push(row: Uint8Array | Uint8ClampedArray): void {
     if (!this.sums) {
       this.data.set(row, this.y * this.width * 4);
       this.y++;
@@ -304,7 +304,7 @@ export async function decodeJpeg(bytes: Uint8Array, width: number, height: numbe
   }
   const convert = n === 3 && jpeg._isColorConversionNeeded;
   const sink = new RowSink(w, h, width, height);
-  const row = new Uint8Array(w * 4);
+  const row = new Uint8ClampedArray(w * 4);
   // Where each column's sample sits in a component's block layout (as pdf.js lays out blocks: 8×8, row-major by block).
   const columns = jpeg.components.map((c) => {
     const offsets = new Uint32Array(w);
@@ -314,35 +314,50 @@ export async function decodeJpeg(bytes: Uint8Array, width: number, height: numbe
     }
     return offsets;
   });
-  const samples = new Float32Array(3);
+  const [c0, c1, c2] = jpeg.components as [JpegComponent, JpegComponent?, JpegComponent?];
+  const out0 = c0.output;
+  const col0 = columns[0] as Uint32Array;
+  const rowStart = (c: JpegComponent, y: number) => {
+    const j = Math.floor(y * c.scaleY);
+    return ((c.blocksPerLine + 1) << 3) * (j & ~7) + ((j & 7) << 3);
+  };
   for (let y = 0; y < h; y++) {
-    const starts = jpeg.components.map((c) => {
-      const j = Math.floor(y * c.scaleY);
-      return ((c.blocksPerLine + 1) << 3) * (j & ~7) + ((j & 7) << 3);
-    });
-    for (let x = 0; x < w; x++) {
-      for (let k = 0; k < n; k++) samples[k] = (jpeg.components[k] as JpegComponent).output[(starts[k] as number) + ((columns[k] as Uint32Array)[x] as number)] as number;
-      let r: number;
-      let g: number;
-      let b: number;
-      if (n === 1) r = g = b = samples[0] as number;
-      else if (convert) {
-        // JFIF YCbCr → RGB (ITU-T T.871, section 7)
-        const Y = samples[0] as number;
-        const cb = (samples[1] as number) - 128;
-        const cr = (samples[2] as number) - 128;
-        r = Y + 1.402 * cr;
-        g = Y - 0.344136 * cb - 0.714136 * cr;
-        b = Y + 1.772 * cb;
-      } else {
-        r = samples[0] as number;
-        g = samples[1] as number;
-        b = samples[2] as number;
+    const s0 = rowStart(c0, y);
+    if (n === 1) {
+      for (let x = 0; x < w; x++) {
+        const v = out0[s0 + (col0[x] as number)] as number;
+        const o = x * 4;
+        row[o] = v;
+        row[o + 1] = v;
+        row[o + 2] = v;
+        row[o + 3] = 255;
       }
-      row[x * 4] = r < 0 ? 0 : r > 255 ? 255 : r;
-      row[x * 4 + 1] = g < 0 ? 0 : g > 255 ? 255 : g;
-      row[x * 4 + 2] = b < 0 ? 0 : b > 255 ? 255 : b;
-      row[x * 4 + 3] = 255;
+    } else {
+      const out1 = (c1 as JpegComponent).output;
+      const out2 = (c2 as JpegComponent).output;
+      const col1 = columns[1] as Uint32Array;
+      const col2 = columns[2] as Uint32Array;
+      const s1 = rowStart(c1 as JpegComponent, y);
+      const s2 = rowStart(c2 as JpegComponent, y);
+      for (let x = 0; x < w; x++) {
+        const a = out0[s0 + (col0[x] as number)] as number;
+        const b = out1[s1 + (col1[x] as number)] as number;
+        const c = out2[s2 + (col2[x] as number)] as number;
+        const o = x * 4;
+        if (convert) {
+          // JFIF YCbCr → RGB (ITU-T T.871, section 7); the row is a clamped array, so 0…255 holds.
+          const cb = b - 128;
+          const cr = c - 128;
+          row[o] = a + 1.402 * cr;
+          row[o + 1] = a - 0.344136 * cb - 0.714136 * cr;
+          row[o + 2] = a + 1.772 * cb;
+        } else {
+          row[o] = a;
+          row[o + 1] = b;
+          row[o + 2] = c;
+        }
+        row[o + 3] = 255;
+      }
     }
     sink.push(row);
   }
