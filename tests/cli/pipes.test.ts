@@ -72,6 +72,22 @@ describe('standard input and output', () => {
     expect(r.code).toBe(0);
   });
 
+  it('export --format epanet writes an INP fragment on standard output; --json reports on standard error', () => {
+    const r = run(['export', demo, '--format', 'epanet', '--inp-units', 'LPS', '--json']);
+    expect(r.code).toBe(0);
+    expect(r.out).toMatch(/^\[CURVES\]$/m);
+    expect(r.out).toMatch(/the model's \[OPTIONS\] must say "Units LPS"/);
+    expect(JSON.parse(r.err)).toMatchObject({ format: 'epanet', output: 'standard output', findings: [] });
+  });
+
+  it('takeoff -o - writes the curve set on standard output', () => {
+    const takeoff = join(process.cwd(), 'samples', 'sheets', 'si-panels-black.takeoff.json');
+    const r = run(['takeoff', takeoff, '-o', '-', '--json']);
+    expect(r.code).toBe(0);
+    expect(parseCurveSetJson(r.out).members.length).toBeGreaterThan(1);
+    expect(JSON.parse(r.err).traces.length).toBeGreaterThan(1);
+  });
+
   it('help names every exit code', () => {
     const r = run(['--help']);
     expect(r.code).toBe(0);
