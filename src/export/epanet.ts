@@ -208,6 +208,7 @@ export function curveSetToEpanet(set: CurveSet, options: EpanetOptions = {}): Ep
     '[CURVES]',
     ...curveLines,
     '[PUMPS]',
+    ...(pumpLines.length > 1 ? ['; one line per impeller: the first is active; to model another, comment it out and uncomment that one (and its [ENERGY] line)'] : []),
     ';ID\tNode1\tNode2\tParameters',
     ...pumpLines,
     '',
