@@ -1,26 +1,33 @@
 /**
- * Take-off of the INVENTED sample sheets (samples/sheets) and of two four-diameter 300-dpi
- * scans generated on the spot, against their exact truth. For each sheet:
- * - the worst error of the fitted curves over 15–95 % of each curve's flow range, by quantity:
- *   head, power and NPSHr in % of their axis span, efficiency in points (from its own panel's
- *   curves or from iso-lines crossing the head curves);
- * - the time of each stage: load (parse or decode), calibrate, capture, fit and checks, and the
- *   whole replay end to end (`replayTakeoff` after loading, as `pumpscribe takeoff` runs it);
- * - for scans: all raster trace time against one bare pass over the page's pixels (each pixel's
- *   RGBA read once), decoding excluded.
- * Timings are medians of warm runs (three for the stages, seven for the trace ratio); the
- * machines are shared, so expect some spread.
+ * Honest figures for the take-off of the INVENTED sample sheets (samples/sheets), of two
+ * four-diameter 300-dpi scans generated on the spot, and of a 70-megapixel scan (the pixel
+ * count of A3 at 600 dpi). Every figure is printed with its yardstick and their ratio:
+ *
+ * 1. start-up: `pumpscribe --version` and `pumpscribe check` of a small set against a bare
+ *    `node -e 0`, child processes interleaved round by round, median of 5 (target ≤ 3×);
+ * 2. per sheet: the whole `pumpscribe takeoff` command (child process: start-up, load, decode,
+ *    capture, fit, checks, write) against the work itself (load and replay in this process,
+ *    warm), with the command's peak RSS (targets: a four-diameter 300-dpi scan ≤ 3× and
+ *    ≤ 200 MiB; a vector take-off ≤ 200 MiB);
+ * 3. per scan: raster trace time and the whole capture stage against a native pass over the
+ *    page (a typed-array copy of its pixels, memcpy speed), measured in the same process,
+ *    interleaved round by round, median of 9 with the spread (min–max) of the per-round ratios;
+ * 4. big pages: the 70-megapixel scan taken off whole (target peak RSS ≤ 1 GiB), and a
+ *    30000 × 30000 "bomb" refused from its header (exit 2, peak RSS of the refusal).
+ * Worst errors against the exact truth are printed for each sheet, so speed never hides accuracy.
+ * The machines are shared: medians and spreads, not single runs.
  */
-import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { spawnSync } from 'node:child_process';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { calibrate } from '../src/digitize/calibration.ts';
+import { createCanvas, loadImage } from '@napi-rs/canvas';
 import { captureTrace, type CaptureSource } from '../src/digitize/capture.ts';
 import { loadSheetFileNode } from '../src/digitize/loaders/sheetNode.ts';
 import { sheetPoint } from '../src/digitize/points.ts';
 import type { RasterImage } from '../src/digitize/raster.ts';
 import { traceRaster } from '../src/digitize/rasterTrace.ts';
-import { safeScale, type Sheet } from '../src/digitize/sheet.ts';
+import { safeScale } from '../src/digitize/sheet.ts';
 import { replayTakeoff } from '../src/digitize/takeoff.ts';
 import { strokeLines } from '../src/digitize/vectorCapture.ts';
 import { parseTakeoff, type Takeoff } from '../src/model/takeoff.ts';
@@ -28,13 +35,11 @@ import { writeSheet } from '../scripts/sheets/makeSheet.ts';
 import { scoreCurveSet } from '../scripts/sheets/score.ts';
 import type { Truth } from '../scripts/sheets/truth.ts';
 import { SAMPLE_VARIANTS } from '../scripts/sheets/variants.ts';
+import { BIN, interleaved, median, mib, ROOT, runNode, spread } from './processes.ts';
 
-const SAMPLES = join(import.meta.dirname, '..', 'samples', 'sheets');
-
-function median(values: number[]): number {
-  const s = [...values].sort((a, b) => a - b);
-  return s[Math.floor(s.length / 2)] as number;
-}
+const SAMPLES = join(ROOT, 'samples', 'sheets');
+const ms = (v: number) => `${v.toFixed(v < 10 ? 1 : 0)} ms`;
+const x = (v: number) => `${v.toFixed(2)}×`;
 
 async function timed<T>(f: () => Promise<T> | T): Promise<[T, number]> {
   const t0 = performance.now();
@@ -42,116 +47,173 @@ async function timed<T>(f: () => Promise<T> | T): Promise<[T, number]> {
   return [value, performance.now() - t0];
 }
 
-/** One bare pass over the page: every pixel's RGBA read once. */
-function barePass(image: RasterImage): number {
-  const d = image.data;
-  let sum = 0;
-  for (let i = 0; i < d.length; i += 4) sum += (d[i] as number) + (d[i + 1] as number) + (d[i + 2] as number) + (d[i + 3] as number);
-  return sum;
-}
-
-interface Run {
-  load: number;
-  calibrate: number;
-  capture: number;
-  trace: number;
-  fit: number;
-  replay: number;
-}
-
-async function runOnce(dir: string, name: string): Promise<{ run: Run; takeoff: Takeoff; sheet: Sheet; image?: RasterImage }> {
-  const takeoff = parseTakeoff(JSON.parse(readFileSync(join(dir, `${name}.takeoff.json`), 'utf8')));
-  const [sheet, load] = await timed(() => loadSheetFileNode(join(dir, takeoff.sheet)));
-  const [, cal] = await timed(() => takeoff.panels.map((p) => calibrate(p.anchors, { xScale: p.x_scale, yScale: p.y_scale, panel: p.id })));
-  let image: RasterImage | undefined;
-  if (sheet.kind === 'image') image = await sheet.render(1);
-  let trace = 0;
-  const lines = sheet.kind === 'vector-pdf' ? strokeLines(await sheet.paths()) : [];
-  const source: CaptureSource = {
-    kind: sheet.kind,
-    lines: async () => lines,
-    raster: async () => image ?? (image = await sheet.render(safeScale(sheet, 4))),
-  };
-  const captured: Takeoff = { ...takeoff, traces: [] };
-  const [, capture] = await timed(async () => {
-    for (const t of takeoff.traces) {
-      const request = { guides: t.guides?.map(([x, y]) => sheetPoint(x, y)), points: t.points?.map(([x, y]) => sheetPoint(x, y)), method: t.method };
-      const t0 = performance.now();
-      const got = await captureTrace(request, source);
-      if (got.how === 'raster') trace += performance.now() - t0;
-      captured.traces.push({ ...t, captured: got.points.map((p) => [p[0], p[1]] as [number, number]) });
-    }
-  });
-  const [, fit] = await timed(() => replayTakeoff(captured, sheet, { useCaptured: true, created: '2024-01-01T00:00:00Z' }));
-  const [, replay] = await timed(() => replayTakeoff(takeoff, sheet, { created: '2024-01-01T00:00:00Z' }));
-  return { run: { load, calibrate: cal, capture, trace, fit, replay }, takeoff, sheet, ...(image ? { image } : {}) };
-}
-
-async function benchSheet(dir: string, name: string): Promise<void> {
-  const truth = JSON.parse(readFileSync(join(dir, `${name}.truth.json`), 'utf8')) as Truth;
-  const runs: Run[] = [];
-  let last: Awaited<ReturnType<typeof runOnce>> | undefined;
-  for (let i = 0; i < 4; i++) {
-    if (last) await last.sheet.close();
-    last = await runOnce(dir, name);
-    if (i > 0) runs.push(last.run); // the first run warms the JIT up
-  }
-  const { takeoff, sheet, image } = last as NonNullable<typeof last>;
-  const result = await replayTakeoff(takeoff, sheet, { created: '2024-01-01T00:00:00Z' });
-  await sheet.close();
-  const rows = scoreCurveSet(truth, result.curveSet);
-  const worst = (pick: (r: (typeof rows)[number]) => boolean) => {
-    const chosen = rows.filter(pick);
-    return chosen.length ? Math.max(...chosen.map((r) => r.worst)) : undefined;
-  };
-  const fmt = (v: number | undefined, unit: string) => (v === undefined ? '—' : `${v.toFixed(3)}${unit}`);
-  const m = (k: keyof Run) => median(runs.map((r) => r[k]));
-  const kind = truth.kind === 'image' ? `scan ${truth.scan?.dpi} dpi, ${truth.scan?.rotationDeg}°` : 'vector PDF';
-  const fails = result.curveSet.findings.filter((f) => f.severity === 'fail').map((f) => f.code);
-  process.stdout.write(`\n${name} (${kind}, ${takeoff.traces.length} traces)\n`);
-  process.stdout.write(
-    `  worst error: head ${fmt(worst((r) => r.quantity === 'head'), ' %')}, power ${fmt(worst((r) => r.quantity === 'power'), ' %')}, NPSHr ${fmt(worst((r) => r.quantity === 'npshr'), ' %')} of span; ` +
-      `efficiency ${fmt(worst((r) => r.quantity === 'efficiency' && r.source === 'curve'), ' pt')} from curves, ${fmt(worst((r) => r.source === 'iso'), ' pt')} from iso-lines` +
-      `${rows.some((r) => r.worst >= r.limit) ? '  ← OVER THE ACCEPTANCE' : ''}\n`,
-  );
-  process.stdout.write(`  checks: ${fails.length ? `fail ${fails.join(', ')}` : 'no fail'}\n`);
-  process.stdout.write(
-    `  stages (ms): load ${m('load').toFixed(0)}, calibrate ${m('calibrate').toFixed(1)}, capture ${m('capture').toFixed(0)}, fit and checks ${m('fit').toFixed(0)}; whole replay ${m('replay').toFixed(0)}, with loading ${(m('load') + m('replay')).toFixed(0)}\n`,
-  );
-  if (image) {
-    const bare: number[] = [];
-    for (let i = 0; i < 5; i++) bare.push((await timed(() => barePass(image)))[1]);
-    const pixels = image.width * image.height;
-    // Trace time alone, the way the capture stage spends it, for the ratio.
-    const traceOnly: number[] = [];
-    for (let i = 0; i < 8; i++) {
-      const t0 = performance.now();
-      for (const t of takeoff.traces) if (t.guides) traceRaster(image, t.guides.map(([x, y]) => sheetPoint(x, y)));
-      if (i > 0) traceOnly.push(performance.now() - t0); // the first round warms up
-    }
-    const b = median(bare);
-    const tr = median(traceOnly);
+function startup(): void {
+  const set = join(ROOT, 'samples', 'demo', 'invented-es4-us.curveset.json');
+  const runs = interleaved({ node: ['-e', '0'], version: [BIN, '--version'], check: [BIN, 'check', set] }, 5);
+  const base = median(runs.node!.map((r) => r.ms));
+  process.stdout.write('start-up, child processes interleaved, median of 5 (spread), ratio to `node -e 0` (target ≤ 3×)\n');
+  for (const [name, label] of [['node', 'node -e 0'], ['version', 'pumpscribe --version'], ['check', 'pumpscribe check (small set)']] as const) {
+    const r = runs[name]!;
+    const bad = r.find((c) => c.code !== 0);
     process.stdout.write(
-      `  raster tracing: ${tr.toFixed(1)} ms for ${takeoff.traces.length} traces; one bare pass over ${(pixels / 1e6).toFixed(1)} Mpx ${b.toFixed(1)} ms; ratio ${(tr / b).toFixed(2)} (target ≤ 2)\n`,
+      `  ${label.padEnd(30)} ${spread(r.map((c) => c.ms), ms)}  ratio ${x(median(r.map((c) => c.ms)) / base)}  peak RSS ${mib(Math.max(...r.map((c) => c.rss ?? 0)) || undefined)}${bad ? `  ← exit ${bad.code}: ${bad.stderr.trim().split('\n')[0]}` : ''}\n`,
     );
   }
 }
 
+/** The work itself, in this process and warm: load the sheet and replay the take-off. */
+async function workItself(dir: string, takeoff: Takeoff): Promise<number> {
+  const times: number[] = [];
+  for (let i = 0; i < 4; i++) {
+    const [, t] = await timed(async () => {
+      const sheet = await loadSheetFileNode(join(dir, takeoff.sheet));
+      await replayTakeoff(takeoff, sheet, { created: '2024-01-01T00:00:00Z' });
+      await sheet.close();
+    });
+    if (i > 0) times.push(t); // the first run warms the JIT up
+  }
+  return median(times);
+}
+
+/** Trace and capture against a native pass over the page, interleaved round by round. */
+async function traceAgainstNative(takeoff: Takeoff, image: RasterImage): Promise<void> {
+  const copy = new Uint8ClampedArray(image.data.length);
+  const source: CaptureSource = { kind: 'image', lines: async () => [], raster: async () => image };
+  const native: number[] = [];
+  const trace: number[] = [];
+  const capture: number[] = [];
+  for (let round = 0; round < 10; round++) {
+    const t0 = performance.now();
+    copy.set(image.data);
+    const t1 = performance.now();
+    for (const t of takeoff.traces) if (t.guides) traceRaster(image, t.guides.map(([gx, gy]) => sheetPoint(gx, gy)));
+    const t2 = performance.now();
+    for (const t of takeoff.traces) {
+      await captureTrace({ guides: t.guides?.map(([gx, gy]) => sheetPoint(gx, gy)), points: t.points?.map(([px, py]) => sheetPoint(px, py)), method: t.method }, source);
+    }
+    const t3 = performance.now();
+    if (round === 0) continue; // warm-up
+    native.push(t1 - t0);
+    trace.push(t2 - t1);
+    capture.push(t3 - t2);
+  }
+  const n = median(native);
+  const ratios = trace.map((t, i) => t / (native[i] as number));
+  const captureRatios = capture.map((t, i) => t / (native[i] as number));
+  process.stdout.write(
+    `  native pass (copy of ${((image.width * image.height) / 1e6).toFixed(1)} Mpx): ${spread(native, ms)}\n` +
+      `  raster trace: ${spread(trace, ms)}; ratio to the native pass ${x(median(trace) / n)}, per round ${x(Math.min(...ratios))}–${x(Math.max(...ratios))}\n` +
+      `  capture stage (trace, thinning, spacing): ${spread(capture, ms)}; ratio ${x(median(capture) / n)}, per round ${x(Math.min(...captureRatios))}–${x(Math.max(...captureRatios))}; capture/trace ${x(median(capture) / median(trace))}\n`,
+  );
+}
+
+async function benchSheet(dir: string, name: string, targets: { ratio?: number; rss: number }): Promise<void> {
+  const takeoffPath = join(dir, `${name}.takeoff.json`);
+  const takeoff = parseTakeoff(JSON.parse(readFileSync(takeoffPath, 'utf8')));
+  const truth = JSON.parse(readFileSync(join(dir, `${name}.truth.json`), 'utf8')) as Truth;
+  const sheet = await loadSheetFileNode(join(dir, takeoff.sheet));
+  const result = await replayTakeoff(takeoff, sheet, { created: '2024-01-01T00:00:00Z' });
+  const rows = scoreCurveSet(truth, result.curveSet);
+  const worst = (q: string) => {
+    const chosen = rows.filter((r) => r.quantity === q);
+    return chosen.length ? `${Math.max(...chosen.map((r) => r.worst)).toFixed(3)}` : '—';
+  };
+  const kind = sheet.kind === 'vector-pdf' ? 'vector PDF' : `${sheet.kind === 'image' ? 'scan' : 'scan inside a PDF'}${truth.scan?.dpi ? ` ${truth.scan.dpi} dpi` : ''}`;
+  process.stdout.write(`\n${name} (${kind}, ${takeoff.traces.length} traces)\n`);
+  process.stdout.write(`  worst error: head ${worst('head')} %, power ${worst('power')} %, NPSHr ${worst('npshr')} % of span; efficiency ${worst('efficiency')} pt${rows.some((r) => r.worst >= r.limit) ? '  ← OVER THE ACCEPTANCE' : ''}\n`);
+
+  const work = await workItself(dir, takeoff);
+  const out = join(dir, `${name}.bench.curveset.json`);
+  const whole = [0, 1, 2].map(() => runNode([BIN, 'takeoff', takeoffPath, '-o', out, '-q']));
+  const failed = whole.find((r) => r.code !== 0 && r.code !== 1);
+  const wall = median(whole.map((r) => r.ms));
+  const rss = Math.max(...whole.map((r) => r.rss ?? 0)) || undefined;
+  const ratio = wall / work;
+  const verdict = [
+    targets.ratio !== undefined ? (ratio <= targets.ratio ? `≤ ${targets.ratio}× ok` : `over ${targets.ratio}×`) : '',
+    rss === undefined ? '' : rss <= targets.rss * 2 ** 20 ? `≤ ${targets.rss} MiB ok` : `over ${targets.rss} MiB`,
+  ].filter(Boolean);
+  process.stdout.write(
+    `  whole \`pumpscribe takeoff\`: ${spread(whole.map((r) => r.ms), ms)}, peak RSS ${mib(rss)}; the work itself (load and replay, in process, warm) ${ms(work)}; ratio ${x(ratio)} [${verdict.join(', ')}]${failed ? `  ← exit ${failed.code}: ${failed.stderr.trim()}` : ''}\n`,
+  );
+  if (sheet.kind === 'image' || sheet.kind === 'raster-pdf') {
+    const image = await sheet.render(sheet.kind === 'image' ? 1 : safeScale(sheet, 4));
+    await traceAgainstNative(takeoff, image);
+  } else {
+    const [, capture] = await timed(async () => {
+      const lines = strokeLines(await sheet.paths());
+      const source: CaptureSource = { kind: sheet.kind, lines: async () => lines, raster: async () => sheet.render(safeScale(sheet, 4)) };
+      for (const t of takeoff.traces) await captureTrace({ guides: t.guides?.map(([gx, gy]) => sheetPoint(gx, gy)), points: t.points?.map(([px, py]) => sheetPoint(px, py)), method: t.method }, source);
+    });
+    process.stdout.write(`  capture stage (vector paths): ${ms(capture)}, ${x(capture / work)} of the work\n`);
+  }
+  await sheet.close();
+}
+
+/** Scales every sheet coordinate of a take-off (an image's sheet units are its pixels). */
+function scaledTakeoff(raw: Record<string, unknown>, factor: number, sheetFile: string): Record<string, unknown> {
+  const pair = (p: unknown) => (Array.isArray(p) && p.length === 2 && p.every((v) => typeof v === 'number') ? [(p[0] as number) * factor, (p[1] as number) * factor] : p);
+  const walk = (value: unknown, key = ''): unknown => {
+    if (Array.isArray(value)) {
+      if (key === 'at') return pair(value);
+      if (key === 'frame') return value.map((v) => (typeof v === 'number' ? v * factor : v));
+      if (key === 'guides' || key === 'points' || key === 'captured') return value.map(pair);
+      return value.map((v) => walk(v));
+    }
+    if (value && typeof value === 'object') return Object.fromEntries(Object.entries(value).map(([k, v]) => [k, walk(v, k)]));
+    return value;
+  };
+  const { sheet_sha256: _drop, ...rest } = walk(raw) as Record<string, unknown>;
+  return { ...rest, sheet: sheetFile };
+}
+
+async function bigPages(dir: string, base: string): Promise<void> {
+  // A 70-megapixel page (A3 at 600 dpi is 7016 × 9921 = 69.6 Mpx): the 300-dpi scan enlarged.
+  const raw = JSON.parse(readFileSync(join(dir, `${base}.takeoff.json`), 'utf8')) as Record<string, unknown>;
+  const small = await loadImage(readFileSync(join(dir, raw.sheet as string)));
+  const factor = Math.sqrt(69.6e6 / (small.width * small.height));
+  const [w, h] = [Math.round(small.width * factor), Math.round(small.height * factor)];
+  const canvas = createCanvas(w, h);
+  const ctx = canvas.getContext('2d');
+  ctx.imageSmoothingQuality = 'high';
+  ctx.drawImage(small, 0, 0, w, h);
+  writeFileSync(join(dir, 'big.jpg'), canvas.toBuffer('image/jpeg', 85));
+  writeFileSync(join(dir, 'big.takeoff.json'), JSON.stringify(scaledTakeoff(raw, w / small.width, 'big.jpg')));
+  const big = runNode([BIN, 'takeoff', join(dir, 'big.takeoff.json'), '-o', join(dir, 'big.curveset.json'), '-q']);
+  process.stdout.write(
+    `\n${(w * h / 1e6).toFixed(1)}-megapixel scan (${w} × ${h}, the pixel count of A3 at 600 dpi), reduced on load to the 40-megapixel working limit:\n` +
+      `  whole \`pumpscribe takeoff\`: ${ms(big.ms)}, exit ${big.code}, peak RSS ${mib(big.rss)} [${big.rss !== undefined && big.rss <= 2 ** 30 ? '≤ 1 GiB ok' : 'over 1 GiB or unknown'}]${big.code !== 0 && big.code !== 1 ? `  ← ${big.stderr.trim()}` : ''}\n`,
+  );
+  // The bomb: a valid small PNG whose header claims 30000 × 30000 pixels.
+  const png = Buffer.from(createCanvas(8, 8).toBuffer('image/png'));
+  png.writeUInt32BE(30000, 16);
+  png.writeUInt32BE(30000, 20);
+  writeFileSync(join(dir, 'bomb.png'), png);
+  writeFileSync(join(dir, 'bomb.takeoff.json'), JSON.stringify({ ...scaledTakeoff(raw, 1, 'bomb.png') }));
+  const bomb = runNode([BIN, 'takeoff', join(dir, 'bomb.takeoff.json'), '-o', join(dir, 'bomb.curveset.json')]);
+  process.stdout.write(`  30000 × 30000 bomb: exit ${bomb.code} in ${ms(bomb.ms)}, peak RSS ${mib(bomb.rss)} (refused from its header); ${bomb.stderr.trim()}\n`);
+}
+
 export default async function (): Promise<void> {
-  process.stdout.write('Invented sample sheets: errors against exact truth, stage times, raster trace time against one bare pass\n');
-  for (const v of SAMPLE_VARIANTS) await benchSheet(SAMPLES, v.spec.name);
+  // Measure what users run: the prebuilt command line, rebuilt from the current sources.
+  spawnSync(process.execPath, [join(ROOT, 'scripts', 'build-cli.mjs')], { stdio: 'ignore' });
+  startup();
+
+  process.stdout.write('\nInvented sample sheets\n');
+  for (const v of SAMPLE_VARIANTS) await benchSheet(SAMPLES, v.spec.name, { rss: 200 });
 
   const dir = mkdtempSync(join(tmpdir(), 'pumpscribe-bench-'));
   try {
-    process.stdout.write('\nFour-diameter 300-dpi scans generated for this run (target: whole take-off under 5 s)\n');
+    process.stdout.write('\nFour-diameter 300-dpi scans generated for this run\n');
     const scans = [
       { spec: { name: 'us-iso-colour-300dpi', system: 'us', layout: 'iso', ink: 'colour', labelsOnLines: true, seed: 31 }, scan: { dpi: 300, rotationDeg: 1.2, noise: 8, blur: 0.8, jpegQuality: 80, seed: 31 } },
       { spec: { name: 'si-panels-black-300dpi', system: 'si', layout: 'panels', ink: 'black', labelsOnLines: true, seed: 32 }, scan: { dpi: 300, rotationDeg: -1.5, noise: 8, blur: 0.8, jpegQuality: 80, seed: 32 } },
     ] as const;
     for (const v of scans) {
       await writeSheet(dir, { spec: { ...v.spec }, scan: { ...v.scan } });
-      await benchSheet(dir, v.spec.name);
+      await benchSheet(dir, v.spec.name, { ratio: 3, rss: 200 });
     }
+    await bigPages(dir, scans[0].spec.name);
   } finally {
     rmSync(dir, { recursive: true, force: true });
   }

@@ -64,16 +64,30 @@ export default async function (): Promise<void> {
     process.stdout.write(`  ${flatness.toString().padEnd(6)} ${deviation.toExponential(2)} units (${((100 * deviation) / (1.5 * LAYOUT.head.max)).toExponential(2)} % of span)  ${median(times).toFixed(1)} ms\n`);
   }
 
+  // Replay against its yardstick, loading the page alone (pdf.js parse and operator list),
+  // interleaved round by round; median of 7 after one warm-up round, with the spread.
   const times: number[] = [];
+  const loads: number[] = [];
   let set: CurveSet | null = null;
-  for (let run = 0; run < 5; run++) {
+  for (let run = 0; run < 8; run++) {
+    const l0 = performance.now();
+    const bare = await loadPdfSheetNode(pdf);
+    await bare.paths();
+    const l1 = performance.now();
+    await bare.close();
     const t0 = performance.now();
     const s = await loadPdfSheetNode(pdf);
     set = (await replayTakeoff(parseTakeoff(pumpTakeoff('iso')), s)).curveSet;
     await s.close();
+    if (run === 0) continue;
     times.push(performance.now() - t0);
+    loads.push(l1 - l0);
   }
-  process.stdout.write(`replay of the whole take-off (15 traces, 3 panels): median ${median(times).toFixed(0)} ms\n`);
+  const ratios = times.map((t, i) => t / (loads[i] as number));
+  process.stdout.write(
+    `replay of the whole take-off (15 traces, 3 panels): median ${median(times).toFixed(0)} ms (${Math.min(...times).toFixed(0)}–${Math.max(...times).toFixed(0)}); ` +
+      `loading the page alone ${median(loads).toFixed(0)} ms; ratio ${(median(times) / median(loads)).toFixed(2)}× (per round ${Math.min(...ratios).toFixed(2)}–${Math.max(...ratios).toFixed(2)}×)\n`,
+  );
 
   const vector = worstHeadPercent(set as CurveSet);
   const image = await sheet.render(3);

@@ -1,11 +1,56 @@
 #!/usr/bin/env node
-// Runs the TypeScript command line through tsx, so that no build step is needed.
+/**
+ * The `pumpscribe` command. Runs the prebuilt command line (build/cli/main.mjs, made by
+ * `npm install` through the `prepare` script, or by `npm run build:cli`) in this process.
+ * In a developer's checkout where the bundle is missing, or older than a file under src/,
+ * it runs the TypeScript sources through tsx instead, so an edit is never silently ignored.
+ * PUMPSCRIBE_FROM_SOURCE=1 forces the sources.
+ */
 import { spawnSync } from 'node:child_process';
-import { fileURLToPath } from 'node:url';
+import { existsSync, readdirSync, readFileSync, statSync } from 'node:fs';
+import { fileURLToPath, pathToFileURL } from 'node:url';
 import { dirname, join } from 'node:path';
 
 const root = join(dirname(fileURLToPath(import.meta.url)), '..');
-const tsx = join(root, 'node_modules', 'tsx', 'dist', 'cli.mjs');
-const main = join(root, 'src', 'cli', 'main.ts');
-const result = spawnSync(process.execPath, [tsx, main, ...process.argv.slice(2)], { stdio: 'inherit' });
-process.exit(result.status ?? 2);
+const bundle = join(root, 'build', 'cli', 'main.mjs');
+const sources = join(root, 'src');
+
+/** Newest modification time of a source file that goes into the command line (src/ui is the browser's). */
+function newestSource(dir) {
+  let newest = 0;
+  for (const entry of readdirSync(dir, { withFileTypes: true })) {
+    if (entry.name.startsWith('.')) continue;
+    const path = join(dir, entry.name);
+    if (entry.isDirectory()) {
+      if (path === join(sources, 'ui')) continue;
+      newest = Math.max(newest, newestSource(path));
+    } else if (entry.name.endsWith('.ts')) {
+      newest = Math.max(newest, statSync(path).mtimeMs);
+    }
+  }
+  return newest;
+}
+
+function bundleIsCurrent() {
+  if (process.env.PUMPSCRIBE_FROM_SOURCE === '1' || !existsSync(bundle)) return false;
+  if (!existsSync(sources)) return true; // an installed copy without sources
+  try {
+    const { builtMs } = JSON.parse(readFileSync(join(root, 'build', 'cli', 'stamp.json'), 'utf8'));
+    return typeof builtMs === 'number' && newestSource(sources) <= builtMs;
+  } catch {
+    return false;
+  }
+}
+
+if (bundleIsCurrent()) {
+  await import(pathToFileURL(bundle).href);
+} else {
+  const tsx = join(root, 'node_modules', 'tsx', 'dist', 'cli.mjs');
+  if (!existsSync(tsx) || !existsSync(join(sources, 'cli', 'main.ts'))) {
+    process.stderr.write('pumpscribe: the prebuilt command line is missing; run "npm install" (or "npm run build:cli") in the Pumpscribe folder.\n');
+    process.exit(3);
+  }
+  const result = spawnSync(process.execPath, [tsx, join(sources, 'cli', 'main.ts'), ...process.argv.slice(2)], { stdio: 'inherit' });
+  if (result.signal) process.kill(process.pid, result.signal);
+  process.exit(result.status ?? 3);
+}

@@ -1,19 +1,25 @@
 /** Regenerates schemas/*.schema.json from the zod models. Run: npm run schemas */
 import { writeFileSync, mkdirSync } from 'node:fs';
-import { curveSetJsonSchema, schemaText } from '../src/model/jsonSchema.ts';
+import { curveSetJsonSchema, schemaText, takeoffPublishedSchema } from '../src/model/jsonSchema.ts';
 
 const written: string[] = [];
 mkdirSync('schemas', { recursive: true });
-writeFileSync('schemas/curveset.schema.json', schemaText(curveSetJsonSchema()));
-written.push('schemas/curveset.schema.json');
-try {
-  const takeoff = (await import('../src/model/takeoff.ts')) as { takeoffJsonSchema?: () => Record<string, unknown> };
-  if (takeoff.takeoffJsonSchema) {
-    writeFileSync('schemas/takeoff.schema.json', schemaText(takeoff.takeoffJsonSchema()));
-    written.push('schemas/takeoff.schema.json');
-  }
-} catch (error) {
-  if ((error as NodeJS.ErrnoException).code !== 'ERR_MODULE_NOT_FOUND') throw error;
+function write(name: string, schema: Record<string, unknown>): void {
+  writeFileSync(`schemas/${name}`, schemaText(schema));
+  written.push(`schemas/${name}`);
+}
+write('curveset.schema.json', curveSetJsonSchema());
+write('takeoff.schema.json', takeoffPublishedSchema());
+
+// Schemas other rooms may offer: written when their module exports them.
+const optional: Array<[string, string, string]> = [
+  ['../src/library/transfer.ts', 'libraryExportLineJsonSchema', 'library-export-line.schema.json'],
+  ['../src/duty/reportView.ts', 'dutyReportJsonSchema', 'duty-report.schema.json'],
+];
+for (const [module, name, file] of optional) {
+  const mod = (await import(module)) as Record<string, unknown>;
+  const make = mod[name];
+  if (typeof make === 'function') write(file, (make as () => Record<string, unknown>)());
 }
 {
   const { studyJsonSchema } = await import('../src/model/study.ts');

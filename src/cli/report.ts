@@ -46,3 +46,24 @@ export function formatReport(set: CurveSet): string {
   lines.push(CAUTION);
   return `${lines.join('\n')}\n`;
 }
+
+/** The report as JSON for `--json`: what was written, whether it passed, figures per member and findings. */
+export function reportJson(set: CurveSet, output?: string, extra: Record<string, unknown> = {}): Record<string, unknown> {
+  return {
+    ...(output !== undefined ? { output: output === '-' ? 'stdout' : output } : {}),
+    passed: !set.findings.some((f) => f.severity === 'fail'),
+    pump: set.pump,
+    speed_rpm: set.speed_rpm,
+    units: 'SI (flow m³/s, head m, power W, diameter m, efficiency fraction)',
+    members: set.members.map((m) => ({
+      ...(m.diameter_m !== undefined ? { diameter_m: m.diameter_m } : {}),
+      speed_rpm: m.speed_rpm,
+      derived: m.derived,
+      fits: Object.fromEntries(Object.entries(m.curves).map(([q, c]) => [q, c?.fit ? { degree: c.fit.degree, rms: c.fit.rms, domain: c.fit.domain } : null])),
+    })),
+    figures: set.figures ?? {},
+    findings: set.findings,
+    ...extra,
+    caution: CAUTION,
+  };
+}

@@ -7,13 +7,33 @@
  * The published JSON Schema (schemas/curveset.schema.json) is generated from this file.
  */
 import { z } from 'zod';
+import { UNITS, type QuantityKind } from '../units/units.ts';
 
 export const CURVESET_FORMAT = 'pumpscribe.curveset';
 export const CURVESET_VERSION = 1;
 
-const finite = z.number().refine(Number.isFinite, 'must be a finite number');
-const positive = finite.refine((v) => v > 0, 'must be greater than zero');
-const nonNegative = finite.refine((v) => v >= 0, 'must not be negative');
+// Every rule is written so that z.toJSONSchema carries it into the published schema:
+// z.number() is finite in zod 4, .positive() becomes exclusiveMinimum, .nonnegative() minimum.
+const finite = z.number();
+const positive = z.number().positive();
+const nonNegative = z.number().nonnegative();
+
+/**
+ * The one rule standard JSON Schema cannot state: a pair in ascending order. The schema
+ * carries it as the keyword "x-ascending" (an annotation to validators that do not know it;
+ * tests/model/schemaAgreement.test.ts teaches it to ajv).
+ */
+export const ASCENDING_KEYWORD = 'x-ascending';
+const ascendingPair = z
+  .tuple([nonNegative, nonNegative])
+  .refine(([low, high]) => low <= high, 'must be in ascending order (low flow first)')
+  .meta({ [ASCENDING_KEYWORD]: true });
+
+/** Known spellings of a unit of one kind (canonical tokens and their aliases). */
+function unitToken(kind: QuantityKind) {
+  const known = UNITS.filter((u) => u.kind === kind).flatMap((u) => [u.token, ...u.aliases]);
+  return z.enum([...new Set(known)] as [string, ...string[]]);
+}
 
 export const QUANTITIES = ['head', 'efficiency', 'power', 'npshr'] as const;
 export const Quantity = z.enum(QUANTITIES);
@@ -32,7 +52,7 @@ export const PolynomialFit = z.strictObject({
   kind: z.literal('polynomial'),
   flow_scale: positive.describe('Q is divided by this (m³/s) before the powers are taken'),
   coefficients: z.array(finite).min(1),
-  domain: z.tuple([nonNegative, nonNegative]).describe('flow range of the captured points, m³/s'),
+  domain: ascendingPair.describe('flow range of the captured points, m³/s, low first'),
   degree: z.number().int().min(0),
   through_origin: z.boolean().describe('true when the constant term is held at zero (efficiency)'),
   rms: nonNegative.describe('root-mean-square residual, SI units of the quantity'),
@@ -140,11 +160,11 @@ export const Provenance = z.strictObject({
 export type Provenance = z.infer<typeof Provenance>;
 
 export const DisplayUnits = z.strictObject({
-  flow: z.string(),
-  head: z.string(),
-  npsh: z.string(),
-  power: z.string(),
-  diameter: z.string(),
+  flow: unitToken('flow'),
+  head: unitToken('head'),
+  npsh: unitToken('head'),
+  power: unitToken('power'),
+  diameter: unitToken('diameter'),
 });
 export type DisplayUnits = z.infer<typeof DisplayUnits>;
 

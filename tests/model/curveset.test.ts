@@ -18,7 +18,7 @@ const fit = fc.record({
   kind: fc.constant('polynomial' as const),
   flow_scale: positive,
   coefficients: fc.array(finite, { minLength: 1, maxLength: 7 }),
-  domain: fc.tuple(nonNegative, nonNegative),
+  domain: fc.tuple(nonNegative, nonNegative).map(([a, b]) => (a <= b ? [a, b] : [b, a]) as [number, number]),
   degree: fc.integer({ min: 0, max: 6 }),
   through_origin: fc.boolean(),
   rms: nonNegative,
@@ -70,7 +70,7 @@ const curveSet: fc.Arbitrary<CurveSetT> = fc
         created: fc.date({ noInvalidDate: true }).map((d) => d.toISOString()),
       })
       .map(defined),
-    display_units: fc.record({ flow: text, head: text, npsh: text, power: text, diameter: text }),
+    display_units: fc.record({ flow: fc.constantFrom('gpm', 'm3/h', 'L/s'), head: fc.constantFrom('ft', 'm'), npsh: fc.constantFrom('ft', 'm'), power: fc.constantFrom('hp', 'kW', 'W'), diameter: fc.constantFrom('in', 'mm') }),
     members: fc.array(member, { minLength: 1, maxLength: 3 }),
     findings: fc.array(finding, { maxLength: 3 }),
   })

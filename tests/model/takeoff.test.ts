@@ -1,3 +1,4 @@
+import { takeoffPublishedSchema } from '../../src/model/jsonSchema.ts';
 import { describe, expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
@@ -66,6 +67,6 @@ describe('the take-off file', () => {
     expect(schema.$schema).toBe('https://json-schema.org/draft/2020-12/schema');
     expect(Object.keys(schema.properties as object)).toEqual(expect.arrayContaining(['sheet', 'page', 'pump', 'units', 'panels', 'traces']));
     const published = JSON.parse(readFileSync(join(import.meta.dirname, '..', '..', 'schemas', 'takeoff.schema.json'), 'utf8'));
-    expect(published).toEqual(JSON.parse(JSON.stringify(schema))); // regenerate with: npm run schemas
+    expect(published).toEqual(JSON.parse(JSON.stringify(takeoffPublishedSchema()))); // regenerate with: npm run schemas
   });
 });

@@ -4,25 +4,33 @@ import { scaleCurveSetToSpeed } from '../../fit/affinity.ts';
 import { makeFinding, sortFindings } from '../../fit/checks/finding.ts';
 import { stringifyCurveSet } from '../../model/curvesetIO.ts';
 import { EXIT_FAILED_CHECKS, EXIT_OK, runCommand } from '../errors.ts';
-import { positiveOption, readCurveSet, writeTextAtomic } from '../io.ts';
+import { emitReport, positiveOption, readCurveSet, writeTextAtomic } from '../io.ts';
 import { recheck } from './check.ts';
-import { formatReport } from '../report.ts';
+import { formatReport, reportJson } from '../report.ts';
 
 export function register(program: Command): void {
   program
     .command('scale')
     .description('convert a curve set to another speed by the affinity laws (e.g. 60 Hz to 50 Hz)')
-    .argument('<set>', 'curve set (*.curveset.json)')
+    .argument('<set>', 'curve set (*.curveset.json; "-" for standard input)')
     .requiredOption('--speed <rpm>', 'new speed, rpm')
-    .requiredOption('-o, --output <file>', 'curve set to write')
+    .requiredOption('-o, --output <file>', 'curve set to write ("-" for standard output)')
     .option('-q, --quiet', 'print nothing but errors')
-    .action((file: string, o: { speed: string; output: string; quiet?: boolean }) => runCommand(() => scale(file, o)));
+    .option('--json', 'print the report (figures, findings) as JSON')
+    .action((file: string, o: ScaleOptions) => runCommand(() => scale(file, o)));
 }
 
 /** The speed law is close to exact within ±20 % of speed (Karassik, Pump Handbook). */
 const SPEED_RANGE = 0.2;
 
-function scale(file: string, o: { speed: string; output: string; quiet?: boolean }): number {
+interface ScaleOptions {
+  speed: string;
+  output: string;
+  quiet?: boolean;
+  json?: boolean;
+}
+
+function scale(file: string, o: ScaleOptions): number {
   const speed = positiveOption(o.speed, '--speed') as number;
   const source = readCurveSet(file);
   const scaled = scaleCurveSetToSpeed(source, speed);
@@ -46,6 +54,6 @@ function scale(file: string, o: { speed: string; output: string; quiet?: boolean
     };
   }
   writeTextAtomic(o.output, stringifyCurveSet(set));
-  if (!o.quiet) process.stdout.write(`${formatReport(set)}Wrote ${o.output}\n`);
+  emitReport(o, () => reportJson(set, o.output), () => `${formatReport(set)}Wrote ${o.output === '-' ? 'the curve set to standard output' : o.output}\n`);
   return set.findings.some((f) => f.severity === 'fail') ? EXIT_FAILED_CHECKS : EXIT_OK;
 }

@@ -12,25 +12,27 @@ import { loadSheetFileNode } from '../../digitize/loaders/sheetNode.ts';
 import { parseTakeoff, TakeoffError, TAKEOFF_FORMAT, TAKEOFF_VERSION } from '../../model/takeoff.ts';
 import { stringifyCurveSet } from '../../model/curvesetIO.ts';
 import { describeZodError, EXIT_FAILED_CHECKS, EXIT_OK, InputError, runCommand } from '../errors.ts';
-import { readText, writeTextAtomic } from '../io.ts';
-import { formatReport } from '../report.ts';
+import { emitReport, isStdio, progressLine, readText, writeTextAtomic } from '../io.ts';
+import { formatReport, reportJson } from '../report.ts';
 
 interface TakeoffOptions {
   output: string;
   savePoints?: boolean;
   useCaptured?: boolean;
   quiet?: boolean;
+  json?: boolean;
 }
 
 export function register(program: Command): void {
   program
     .command('takeoff')
     .description('replay a take-off file: load the sheet, calibrate, capture every trace, fit, check and write the curve set')
-    .argument('<file.takeoff.json>', 'take-off file')
-    .requiredOption('-o, --output <file>', 'curve set to write (*.curveset.json)')
+    .argument('<file.takeoff.json>', 'take-off file ("-" for standard input; the sheet path is then relative to the working folder)')
+    .requiredOption('-o, --output <file>', 'curve set to write (*.curveset.json; "-" for standard output)')
     .option('--save-points', 'write the captured points back into the take-off file (field "captured" of each trace)')
     .option('--use-captured', 'use the points saved in the take-off file instead of capturing again')
     .option('-q, --quiet', 'print nothing but errors')
+    .option('--json', 'print the report (traces, figures, findings) as JSON')
     .action((file: string, options: TakeoffOptions) => runCommand(() => takeoff(file, options)));
 }
 
@@ -49,18 +51,30 @@ async function takeoff(file: string, o: TakeoffOptions): Promise<number> {
     if (error instanceof ZodError) throw new InputError(describeZodError(error, `The take-off file "${file}"`));
     throw error;
   }
-  const sheetPath = isAbsolute(parsed.sheet) ? parsed.sheet : resolve(dirname(file), parsed.sheet);
+  if (o.savePoints && isStdio(file)) throw new InputError('--save-points writes into the take-off file, which cannot be standard input; give the take-off file by its path.');
+  const sheetPath = isAbsolute(parsed.sheet) ? parsed.sheet : resolve(isStdio(file) ? '.' : dirname(file), parsed.sheet);
+  const progress = progressLine(!o.quiet && !o.json && process.stderr.isTTY === true && !process.env.CI);
+  progress.step(`loading ${basename(sheetPath)}`);
   const sheet = await loadSheetFileNode(sheetPath, { page: parsed.page });
   try {
-    const result = await replayTakeoff(parsed, sheet, { takeoffName: basename(file), sheetFile: basename(sheetPath), useCaptured: o.useCaptured ?? false });
+    progress.step(`capturing ${parsed.traces.length} trace${parsed.traces.length === 1 ? '' : 's'}, fitting and checking`);
+    const result = await replayTakeoff(parsed, sheet, { takeoffName: isStdio(file) ? 'standard input' : basename(file), sheetFile: basename(sheetPath), useCaptured: o.useCaptured ?? false });
+    progress.done();
     writeTextAtomic(o.output, stringifyCurveSet(result.curveSet));
     if (o.savePoints) writeTextAtomic(file, withCapturedPoints(raw as Record<string, unknown>, result.traces, sheet.sha256));
-    if (!o.quiet) {
-      const summary = result.traces.map((t) => `${t.id}: ${t.points.length} points (${t.fromFile ? 'saved' : t.how})`).join(', ');
-      process.stdout.write(`${formatReport(result.curveSet)}Traces — ${summary}\nWrote ${o.output}${o.savePoints ? ` and the captured points into ${file}` : ''}\n`);
-    }
+    const traces = result.traces.map((t) => ({ id: t.id, points: t.points.length, how: t.fromFile ? 'saved' : t.how, notes: t.notes }));
+    emitReport(
+      o,
+      () => reportJson(result.curveSet, o.output, { sheet: { file: basename(sheetPath), kind: sheet.kind, sha256: sheet.sha256 }, traces }),
+      () => {
+        const summary = traces.map((t) => `${t.id}: ${t.points} points (${t.how})`).join(', ');
+        const target = isStdio(o.output) ? 'the curve set to standard output' : o.output;
+        return `${formatReport(result.curveSet)}Traces — ${summary}\nWrote ${target}${o.savePoints ? ` and the captured points into ${file}` : ''}\n`;
+      },
+    );
     return result.curveSet.findings.some((f) => f.severity === 'fail') ? EXIT_FAILED_CHECKS : EXIT_OK;
   } finally {
+    progress.done();
     await sheet.close();
   }
 }

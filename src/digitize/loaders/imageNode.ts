@@ -1,117 +1,107 @@
 /**
- * Loads a PNG or JPEG scan as a RasterImage (scale 1: the sheet unit of an image is its pixel)
- * and as a Sheet, in Node.
+ * Loads a PNG or JPEG scan as a RasterImage and as a Sheet, in Node, decoded in this process.
  *
- * The file is checked before decoding (size of the file, format, size of the raster its
- * header announces). Decoding then runs in a short-lived child process: the native decoder
- * can bring its whole process down on some damaged files, and a damaged scan must end in
- * a sentence, never in a crash that loses the user's work.
+ * The file is checked before anything is decoded: size of the file, format, and the size of
+ * the raster its header announces, against MAX_SOURCE_PIXELS — a decompression bomb (say a
+ * 30000 × 30000 header) is refused before a single pixel is allocated. A page over the working
+ * limit (`limits.maxPixels`, 40 megapixels) is reduced while it is decoded to the largest size
+ * within that limit, so that archive scans (A3 at 600 dpi, about 70 megapixels) load in
+ * bounded memory; its sheet units stay the original pixels (the raster's `scale` is below 1),
+ * so a take-off's anchors and guides keep their meaning. See imageDecode.ts for the decoders.
  */
-import { spawn } from 'node:child_process';
 import { createHash } from 'node:crypto';
-import { createRequire } from 'node:module';
-import { createCanvas } from '@napi-rs/canvas';
 import type { RasterImage } from '../raster.ts';
 import { checkRasterSize, DEFAULT_SHEET_LIMITS, SheetError, type Sheet, type SheetLimits } from '../sheet.ts';
-import { damagedImage, readImageHeader } from './imageHeader.ts';
+import { damagedImage, readImageHeader, type ImageHeader } from './imageHeader.ts';
 import { imageSheet } from './imageSheet.ts';
+import { decodeJpeg, decodePng, PngNotStreamable, type DecodedImage } from './imageDecode.ts';
+
+/** Largest image accepted at all (pixels of the file, before reduction): about A3 at 900 dpi, or A2 at 600 dpi. */
+export const MAX_SOURCE_PIXELS = 150_000_000;
 
 export interface ImageNodeOptions {
   limits?: SheetLimits;
   /** Name of the file for messages, e.g. 'scan.jpg'. */
   name?: string;
-  /** Longest time the decoder may take, milliseconds (default 60 s). */
-  timeoutMs?: number;
+  /** Largest image accepted before reduction, pixels (default MAX_SOURCE_PIXELS). */
+  maxSourcePixels?: number;
+}
+
+/** The working size of an image: its own, or reduced evenly to fit within `maxPixels`. */
+export function workingSize(width: number, height: number, maxPixels: number): { width: number; height: number; scale: number } {
+  if (width * height <= maxPixels) return { width, height, scale: 1 };
+  let scale = Math.sqrt(maxPixels / (width * height));
+  let w = Math.max(1, Math.floor(width * scale));
+  let h = Math.max(1, Math.floor(height * scale));
+  while (w * h > maxPixels) {
+    scale *= 0.999;
+    w = Math.max(1, Math.floor(width * scale));
+    h = Math.max(1, Math.floor(height * scale));
+  }
+  return { width: w, height: h, scale: w / width };
+}
+
+/** The header check, with the limit of the source raster and a message that says what to do. */
+function checkHeader(bytes: Uint8Array, name: string, limits: SheetLimits, maxSourcePixels: number): ImageHeader {
+  try {
+    return readImageHeader(bytes, name, { ...limits, maxPixels: maxSourcePixels });
+  } catch (error) {
+    if (error instanceof SheetError && /megapixel limit/.test(error.message)) {
+      throw new SheetError(error.message.replace(/; use a smaller scale or a smaller image\.$/, '; scan the page again at 300 to 600 dpi, or split it into parts, and load that.'));
+    }
+    throw error;
+  }
+}
+
+/** Interlaced PNGs: decoded by the canvas library, still in this process, drawn at the working size. */
+async function decodeWithCanvas(bytes: Uint8Array, width: number, height: number): Promise<DecodedImage> {
+  const { createCanvas, loadImage } = await import('@napi-rs/canvas'); // loaded only when needed: it is a native library
+  const image = await loadImage(Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength));
+  const canvas = createCanvas(width, height);
+  const ctx = canvas.getContext('2d');
+  ctx.fillStyle = '#ffffff';
+  ctx.fillRect(0, 0, width, height);
+  ctx.imageSmoothingEnabled = true;
+  ctx.imageSmoothingQuality = 'high';
+  ctx.drawImage(image, 0, 0, width, height);
+  return { width, height, data: new Uint8ClampedArray(ctx.getImageData(0, 0, width, height).data) };
 }
 
 /**
- * Runs in the child: reads the file from stdin, decodes it onto white paper (so transparent
- * areas read as paper), writes width and height (two little-endian 32-bit words) and the RGBA bytes.
+ * Decodes a PNG or JPEG file into RGBA pixels, at scale 1 or reduced to the working limit.
+ * Throws SheetError for unusable files.
  */
-const CHILD = `
-const { createRequire } = await import('node:module');
-const canvas = createRequire(process.argv[1])(process.argv[1]);
-const chunks = [];
-for await (const c of process.stdin) chunks.push(c);
-try {
-  const image = await canvas.loadImage(Buffer.concat(chunks));
-  const c = canvas.createCanvas(image.width, image.height);
-  const ctx = c.getContext('2d');
-  ctx.fillStyle = '#ffffff';
-  ctx.fillRect(0, 0, image.width, image.height);
-  ctx.drawImage(image, 0, 0);
-  const data = ctx.getImageData(0, 0, image.width, image.height).data;
-  const head = Buffer.alloc(8);
-  head.writeUInt32LE(image.width, 0);
-  head.writeUInt32LE(image.height, 4);
-  process.stdout.write(head);
-  process.stdout.write(Buffer.from(data.buffer, data.byteOffset, data.byteLength));
-} catch (error) {
-  process.stderr.write(String(error && error.message ? error.message : error));
-  process.exitCode = 3;
-}
-`;
-
-function canvasEntry(): string {
-  return createRequire(import.meta.url).resolve('@napi-rs/canvas');
-}
-
-function decodeInChild(bytes: Uint8Array, timeoutMs: number): Promise<{ width: number; height: number; data: Uint8ClampedArray }> {
-  return new Promise((resolve, reject) => {
-    const child = spawn(process.execPath, ['--input-type=module', '-e', CHILD, canvasEntry()], { stdio: ['pipe', 'pipe', 'pipe'] });
-    const out: Buffer[] = [];
-    const err: Buffer[] = [];
-    const timer = setTimeout(() => child.kill('SIGKILL'), timeoutMs);
-    child.stdout.on('data', (c: Buffer) => out.push(c));
-    child.stderr.on('data', (c: Buffer) => err.push(c));
-    child.on('error', (e) => {
-      clearTimeout(timer);
-      reject(e);
-    });
-    child.on('close', (code, signal) => {
-      clearTimeout(timer);
-      const all = Buffer.concat(out);
-      if (code !== 0 || all.length < 8) {
-        const why = Buffer.concat(err).toString('utf8').trim().split('\n')[0] || (signal ? `the decoder stopped on ${signal}` : `the decoder failed with code ${code}`);
-        reject(new Error(why));
-        return;
-      }
-      const width = all.readUInt32LE(0);
-      const height = all.readUInt32LE(4);
-      if (all.length !== 8 + width * height * 4) {
-        reject(new Error('the decoder returned an incomplete image'));
-        return;
-      }
-      const data = new Uint8ClampedArray(width * height * 4);
-      data.set(all.subarray(8));
-      resolve({ width, height, data });
-    });
-    child.stdin.on('error', () => undefined);
-    child.stdin.end(Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength));
-  });
-}
-
-/** Decodes a PNG or JPEG file into RGBA pixels at scale 1. Throws SheetError for unusable files. */
 export async function loadImageRasterNode(bytes: Uint8Array, options: ImageNodeOptions = {}): Promise<RasterImage> {
   const limits = options.limits ?? DEFAULT_SHEET_LIMITS;
   const name = options.name ? `The image "${options.name}"` : 'The image';
-  const header = readImageHeader(bytes, name, limits);
-  let decoded: Awaited<ReturnType<typeof decodeInChild>>;
+  const header = checkHeader(bytes, name, limits, options.maxSourcePixels ?? Math.max(MAX_SOURCE_PIXELS, limits.maxPixels));
+  const size = workingSize(header.width, header.height, limits.maxPixels);
+  let decoded: DecodedImage;
   try {
-    decoded = await decodeInChild(bytes, options.timeoutMs ?? 60_000);
+    if (header.format === 'png') {
+      try {
+        decoded = await decodePng(bytes, size.width, size.height);
+      } catch (error) {
+        if (!(error instanceof PngNotStreamable)) throw error;
+        decoded = await decodeWithCanvas(bytes, size.width, size.height);
+      }
+    } else {
+      decoded = await decodeJpeg(bytes, size.width, size.height);
+    }
   } catch (error) {
     throw damagedImage(name, header.format, error);
   }
-  if (decoded.width !== header.width || decoded.height !== header.height) {
+  if (decoded.width !== size.width || decoded.height !== size.height) {
     throw new SheetError(`${name} decodes to ${decoded.width} × ${decoded.height} pixels although its header says ${header.width} × ${header.height}; the file is damaged, so scan or export it again.`);
   }
-  return { width: decoded.width, height: decoded.height, data: decoded.data, scale: 1 };
+  return { width: decoded.width, height: decoded.height, data: decoded.data, scale: size.scale };
 }
 
-/** Resamples a raster to `scale` pixels per sheet unit (smoothing when it shrinks). */
-function resample(image: RasterImage, scale: number, limits: SheetLimits): RasterImage {
-  const w = Math.max(1, Math.round(image.width * scale));
-  const h = Math.max(1, Math.round(image.height * scale));
+/** Resamples a raster by `factor` (smoothing when it shrinks); the result has `scale` pixels per sheet unit. */
+async function resample(image: RasterImage, factor: number, limits: SheetLimits, scale = factor): Promise<RasterImage> {
+  const { createCanvas } = await import('@napi-rs/canvas');
+  const w = Math.max(1, Math.round(image.width * factor));
+  const h = Math.max(1, Math.round(image.height * factor));
   checkRasterSize(w, h, limits, 'The rendered image');
   const source = createCanvas(image.width, image.height);
   const sctx = source.getContext('2d');
@@ -126,10 +116,26 @@ function resample(image: RasterImage, scale: number, limits: SheetLimits): Raste
   return { width: w, height: h, data: new Uint8ClampedArray(tctx.getImageData(0, 0, w, h).data), scale };
 }
 
-/** Opens a PNG or JPEG scan as a Sheet of kind 'image' (sheet units are the image's pixels). */
+/**
+ * Opens a PNG or JPEG scan as a Sheet of kind 'image'. Sheet units are the file's pixels, also
+ * when the page was reduced on load: then `render(1)` answers with the working raster (its
+ * `scale` below 1), and other scales are resampled from it.
+ */
 export async function loadImageSheetNode(bytes: Uint8Array, options: ImageNodeOptions = {}): Promise<Sheet> {
   const limits = options.limits ?? DEFAULT_SHEET_LIMITS;
+  const name = options.name ? `The image "${options.name}"` : 'The image';
+  const header = checkHeader(bytes, name, limits, options.maxSourcePixels ?? Math.max(MAX_SOURCE_PIXELS, limits.maxPixels));
   const image = await loadImageRasterNode(bytes, options);
   const sha256 = createHash('sha256').update(bytes).digest('hex');
-  return imageSheet(image, sha256, (scale) => resample(image, scale, limits));
+  const sheet = imageSheet(image, sha256, (scale) => resample(image, scale / image.scale, limits, scale));
+  if (image.scale === 1) return sheet;
+  return {
+    ...sheet,
+    width: header.width,
+    height: header.height,
+    render: async (scale: number) => {
+      if (!(scale > 0) || !Number.isFinite(scale)) throw new SheetError(`The render scale ${scale} is not a positive number; use 1 for an image at its own resolution.`);
+      return scale >= 1 || Math.abs(scale - image.scale) < 1e-12 ? image : resample(image, scale / image.scale, limits, scale);
+    },
+  };
 }

@@ -5,7 +5,6 @@
 import { createHash } from 'node:crypto';
 import { createRequire } from 'node:module';
 import { dirname, join } from 'node:path';
-import { createCanvas } from '@napi-rs/canvas';
 import { openPdfSheet, type CanvasLike } from './pdfPage.ts';
 import type { Sheet, SheetLimits } from '../sheet.ts';
 
@@ -30,7 +29,7 @@ function pdfjsDistRoot(): string {
 /** Opens page `options.page` (default 1) of the PDF in `bytes`. Throws SheetError for unusable files. */
 export async function loadPdfSheetNode(bytes: Uint8Array, options: PdfNodeOptions = {}): Promise<Sheet> {
   pdfjsPromise ??= import('pdfjs-dist/legacy/build/pdf.mjs');
-  const pdfjs = await pdfjsPromise;
+  const [pdfjs, { createCanvas }] = await Promise.all([pdfjsPromise, import('@napi-rs/canvas')]);
   const root = pdfjsDistRoot();
   // pdf.js wants these as directory paths ending in '/', not as URLs, when it runs in Node.
   const standardFontDataUrl = `${join(root, 'standard_fonts')}/`;

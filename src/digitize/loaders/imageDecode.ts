@@ -1,0 +1,365 @@
+/**
+ * In-process decoding of PNG and JPEG scans into one RGBA raster, row by row, so that the only
+ * page-sized allocation is the result itself (4 bytes a pixel at the working size):
+ *  - PNG: the compressed data is inflated as a stream (node:zlib) and each row is unfiltered
+ *    as it arrives (PNG specification, ISO/IEC 15948, section 9), needing two rows at a time;
+ *  - JPEG: pdf.js's JPEG decoder (pure JavaScript, already used for PDFs) decodes the
+ *    coefficient blocks (2 bytes a sample), and the colour rows are produced from them here
+ *    one at a time (YCbCr → RGB of JFIF / ITU-T T.871), instead of pdf.js's two page-sized copies.
+ * A page larger than the working size is reduced while it is decoded, by averaging the source
+ * pixels that fall into each working pixel (a box filter), so thin lines fade but never vanish.
+ * Transparent areas are laid on white paper.
+ *
+ * The caller has checked the header (size limits) before anything here allocates.
+ */
+import { createInflate } from 'node:zlib';
+
+export interface DecodedImage {
+  width: number;
+  height: number;
+  data: Uint8ClampedArray;
+}
+
+/** Collects full-resolution RGBA rows into the working raster, averaging when it is smaller. */
+class RowSink {
+  readonly data: Uint8ClampedArray;
+  private readonly sums: Uint32Array | null;
+  private readonly counts: Uint32Array | null;
+  private readonly columnOf: Uint32Array | null;
+  private currentRow = -1;
+  private y = 0;
+
+  constructor(
+    private readonly srcWidth: number,
+    private readonly srcHeight: number,
+    readonly width: number,
+    readonly height: number,
+  ) {
+    this.data = new Uint8ClampedArray(width * height * 4);
+    if (width === srcWidth && height === srcHeight) {
+      this.sums = this.counts = this.columnOf = null;
+    } else {
+      this.sums = new Uint32Array(width * 4);
+      this.counts = new Uint32Array(width);
+      this.columnOf = new Uint32Array(srcWidth);
+      for (let x = 0; x < srcWidth; x++) this.columnOf[x] = Math.min(width - 1, Math.floor((x * width) / srcWidth));
+    }
+  }
+
+  get rowsSeen(): number {
+    return this.y;
+  }
+
+  push(row: Uint8Array | Uint8ClampedArray): void {
+    if (!this.sums) {
+      this.data.set(row, this.y * this.width * 4);
+      this.y++;
+      return;
+    }
+    const target = Math.min(this.height - 1, Math.floor((this.y * this.height) / this.srcHeight));
+    if (target !== this.currentRow) {
+      this.flush();
+      this.currentRow = target;
+    }
+    const sums = this.sums;
+    const counts = this.counts as Uint32Array;
+    const columnOf = this.columnOf as Uint32Array;
+    for (let x = 0; x < this.srcWidth; x++) {
+      const o = columnOf[x] as number;
+      const i = x * 4;
+      sums[o * 4] = (sums[o * 4] as number) + (row[i] as number);
+      sums[o * 4 + 1] = (sums[o * 4 + 1] as number) + (row[i + 1] as number);
+      sums[o * 4 + 2] = (sums[o * 4 + 2] as number) + (row[i + 2] as number);
+      counts[o] = (counts[o] as number) + 1;
+    }
+    this.y++;
+    if (this.y === this.srcHeight) this.flush();
+  }
+
+  private flush(): void {
+    if (!this.sums || this.currentRow < 0) return;
+    const sums = this.sums;
+    const counts = this.counts as Uint32Array;
+    const base = this.currentRow * this.width * 4;
+    for (let x = 0; x < this.width; x++) {
+      const n = (counts[x] as number) || 1;
+      this.data[base + x * 4] = (sums[x * 4] as number) / n;
+      this.data[base + x * 4 + 1] = (sums[x * 4 + 1] as number) / n;
+      this.data[base + x * 4 + 2] = (sums[x * 4 + 2] as number) / n;
+      this.data[base + x * 4 + 3] = 255;
+    }
+    sums.fill(0);
+    counts.fill(0);
+    this.currentRow = -1;
+  }
+}
+
+function u32(bytes: Uint8Array, at: number): number {
+  return (((bytes[at] as number) << 24) >>> 0) + ((bytes[at + 1] as number) << 16) + ((bytes[at + 2] as number) << 8) + (bytes[at + 3] as number);
+}
+
+const CHANNELS: Record<number, number> = { 0: 1, 2: 3, 3: 1, 4: 2, 6: 4 };
+
+/** Thrown for PNG features this decoder leaves to the canvas decoder (interlaced files). */
+export class PngNotStreamable extends Error {}
+
+/** Decodes a PNG into a `width` × `height` RGBA raster (the source size, or smaller). */
+export async function decodePng(bytes: Uint8Array, width: number, height: number): Promise<DecodedImage> {
+  const w = u32(bytes, 16);
+  const h = u32(bytes, 20);
+  const bitDepth = bytes[24] as number;
+  const colorType = bytes[25] as number;
+  const interlace = bytes[28] as number;
+  const channels = CHANNELS[colorType];
+  if (channels === undefined || ![1, 2, 4, 8, 16].includes(bitDepth)) throw new Error(`unsupported PNG colour type ${colorType} with bit depth ${bitDepth}`);
+  if (interlace !== 0) throw new PngNotStreamable('interlaced PNG');
+
+  let palette: Uint8Array | null = null;
+  let paletteAlpha: Uint8Array | null = null;
+  const idat: Uint8Array[] = [];
+  for (let at = 8; at + 12 <= bytes.length; ) {
+    const length = u32(bytes, at);
+    const type = String.fromCharCode(bytes[at + 4] as number, bytes[at + 5] as number, bytes[at + 6] as number, bytes[at + 7] as number);
+    const body = bytes.subarray(at + 8, at + 8 + length);
+    if (type === 'PLTE') palette = body;
+    else if (type === 'tRNS' && colorType === 3) paletteAlpha = body;
+    else if (type === 'IDAT') idat.push(body);
+    else if (type === 'IEND') break;
+    at += 12 + length;
+  }
+  if (colorType === 3 && !palette) throw new Error('the palette (PLTE chunk) is missing');
+
+  const sink = new RowSink(w, h, width, height);
+  const rowBytes = Math.ceil((w * channels * bitDepth) / 8);
+  const bpp = Math.max(1, (channels * bitDepth) >> 3);
+  let previous = new Uint8Array(rowBytes);
+  let current = new Uint8Array(rowBytes);
+  const rgba = new Uint8Array(w * 4);
+  let filter = -1;
+  let filled = 0;
+  const maxSample = (1 << Math.min(bitDepth, 8)) - 1;
+
+  const sample = (row: Uint8Array, index: number): number => {
+    // The index-th sample of the row, scaled to 0…255 (16-bit samples keep their high byte).
+    if (bitDepth === 8) return row[index] as number;
+    if (bitDepth === 16) return row[index * 2] as number;
+    const perByte = 8 / bitDepth;
+    const byte = row[Math.floor(index / perByte)] as number;
+    const shift = 8 - bitDepth * ((index % perByte) + 1);
+    return (byte >> shift) & maxSample;
+  };
+
+  /** True when every pixel of an 8-bit RGBA row is opaque. */
+  const opaque = (row: Uint8Array): boolean => {
+    for (let i = 3; i < w * 4; i += 4) if (row[i] !== 255) return false;
+    return true;
+  };
+
+  const finishRow = (): void => {
+    const row = current;
+    if (filter === 1) {
+      for (let i = bpp; i < rowBytes; i++) row[i] = ((row[i] as number) + (row[i - bpp] as number)) & 255;
+    } else if (filter === 2) {
+      for (let i = 0; i < rowBytes; i++) row[i] = ((row[i] as number) + (previous[i] as number)) & 255;
+    } else if (filter === 3) {
+      for (let i = 0; i < rowBytes; i++) row[i] = ((row[i] as number) + (((i >= bpp ? (row[i - bpp] as number) : 0) + (previous[i] as number)) >> 1)) & 255;
+    } else if (filter === 4) {
+      for (let i = 0; i < rowBytes; i++) {
+        const a = i >= bpp ? (row[i - bpp] as number) : 0;
+        const b = previous[i] as number;
+        const c = i >= bpp ? (previous[i - bpp] as number) : 0;
+        const p = a + b - c;
+        const pa = Math.abs(p - a);
+        const pb = Math.abs(p - b);
+        const pc = Math.abs(p - c);
+        row[i] = ((row[i] as number) + (pa <= pb && pa <= pc ? a : pb <= pc ? b : c)) & 255;
+      }
+    } else if (filter !== 0) throw new Error(`unknown row filter ${filter}`);
+    if (bitDepth === 8 && (colorType === 2 || colorType === 0 || (colorType === 6 && opaque(row)))) {
+      // The common cases of scans, without per-sample calls.
+      if (colorType === 2) {
+        for (let x = 0, i = 0; x < w; x++, i += 3) {
+          rgba[x * 4] = row[i] as number;
+          rgba[x * 4 + 1] = row[i + 1] as number;
+          rgba[x * 4 + 2] = row[i + 2] as number;
+          rgba[x * 4 + 3] = 255;
+        }
+      } else if (colorType === 6) {
+        rgba.set(row.subarray(0, w * 4));
+      } else {
+        for (let x = 0; x < w; x++) {
+          const v = row[x] as number;
+          rgba[x * 4] = v;
+          rgba[x * 4 + 1] = v;
+          rgba[x * 4 + 2] = v;
+          rgba[x * 4 + 3] = 255;
+        }
+      }
+      sink.push(rgba);
+      [previous, current] = [current, previous];
+      filter = -1;
+      filled = 0;
+      return;
+    }
+    for (let x = 0; x < w; x++) {
+      let r: number;
+      let g: number;
+      let bl: number;
+      let alpha = 255;
+      if (colorType === 3) {
+        const index = sample(row, x);
+        r = palette![index * 3] ?? 0;
+        g = palette![index * 3 + 1] ?? 0;
+        bl = palette![index * 3 + 2] ?? 0;
+        alpha = paletteAlpha && index < paletteAlpha.length ? (paletteAlpha[index] as number) : 255;
+      } else if (colorType === 0 || colorType === 4) {
+        const v = bitDepth < 8 ? Math.round((sample(row, x * channels) * 255) / maxSample) : sample(row, x * channels);
+        r = g = bl = v;
+        if (colorType === 4) alpha = sample(row, x * channels + 1);
+      } else {
+        r = sample(row, x * channels);
+        g = sample(row, x * channels + 1);
+        bl = sample(row, x * channels + 2);
+        if (colorType === 6) alpha = sample(row, x * channels + 3);
+      }
+      if (alpha !== 255) {
+        // on white paper: c·α + 255·(1 − α)
+        r = (r * alpha + 255 * (255 - alpha)) / 255;
+        g = (g * alpha + 255 * (255 - alpha)) / 255;
+        bl = (bl * alpha + 255 * (255 - alpha)) / 255;
+      }
+      rgba[x * 4] = r;
+      rgba[x * 4 + 1] = g;
+      rgba[x * 4 + 2] = bl;
+      rgba[x * 4 + 3] = 255;
+    }
+    sink.push(rgba);
+    [previous, current] = [current, previous];
+    filter = -1;
+    filled = 0;
+  };
+
+  await new Promise<void>((resolve, reject) => {
+    const inflate = createInflate({ chunkSize: 1 << 16 });
+    inflate.on('data', (chunk: Buffer) => {
+      try {
+        for (let i = 0; i < chunk.length && sink.rowsSeen < h; i++) {
+          if (filter < 0) {
+            filter = chunk[i] as number;
+            continue;
+          }
+          const take = Math.min(rowBytes - filled, chunk.length - i);
+          current.set(chunk.subarray(i, i + take), filled);
+          filled += take;
+          i += take - 1;
+          if (filled === rowBytes) finishRow();
+        }
+      } catch (error) {
+        inflate.destroy();
+        reject(error);
+      }
+    });
+    inflate.on('error', reject);
+    inflate.on('end', () => resolve());
+    for (const part of idat) inflate.write(part);
+    inflate.end();
+  });
+  if (sink.rowsSeen !== h) throw new Error(`the image data holds ${sink.rowsSeen} of ${h} rows`);
+  return { width, height, data: sink.data };
+}
+
+interface JpegComponent {
+  output: Int16Array | Uint8Array;
+  scaleX: number;
+  scaleY: number;
+  blocksPerLine: number;
+}
+
+interface JpegDecoder {
+  width: number;
+  height: number;
+  numComponents: number;
+  components: JpegComponent[];
+  readonly _isColorConversionNeeded: boolean;
+  parse(data: Uint8Array): void;
+  getData(options: { width: number; height: number; forceRGBA: boolean }): Uint8ClampedArray;
+}
+
+let jpegModule: Promise<{ JpegImage: new () => JpegDecoder }> | null = null;
+
+/** Decodes a JPEG into a `width` × `height` RGBA raster (the source size, or smaller). */
+export async function decodeJpeg(bytes: Uint8Array, width: number, height: number): Promise<DecodedImage> {
+  const specifier = 'pdfjs-dist/legacy/image_decoders/pdf.image_decoders.mjs'; // ships no types; the shape used is JpegDecoder above
+  jpegModule ??= import(specifier) as Promise<{ JpegImage: new () => JpegDecoder }>;
+  const { JpegImage } = await jpegModule;
+  const jpeg = new JpegImage();
+  jpeg.parse(bytes);
+  const w = jpeg.width;
+  const h = jpeg.height;
+  const n = jpeg.numComponents;
+  if (n !== 1 && n !== 3) {
+    // CMYK and other rare layouts: pdf.js converts them itself (more memory, but such scans are rare).
+    const rgba = jpeg.getData({ width, height, forceRGBA: true });
+    return { width, height, data: new Uint8ClampedArray(rgba.buffer, rgba.byteOffset, rgba.byteLength) };
+  }
+  const convert = n === 3 && jpeg._isColorConversionNeeded;
+  const sink = new RowSink(w, h, width, height);
+  const row = new Uint8ClampedArray(w * 4);
+  // Where each column's sample sits in a component's block layout (as pdf.js lays out blocks: 8×8, row-major by block).
+  const columns = jpeg.components.map((c) => {
+    const offsets = new Uint32Array(w);
+    for (let x = 0; x < w; x++) {
+      const j = Math.floor(x * c.scaleX);
+      offsets[x] = ((j & ~7) << 3) | (j & 7);
+    }
+    return offsets;
+  });
+  const [c0, c1, c2] = jpeg.components as [JpegComponent, JpegComponent?, JpegComponent?];
+  const out0 = c0.output;
+  const col0 = columns[0] as Uint32Array;
+  const rowStart = (c: JpegComponent, y: number) => {
+    const j = Math.floor(y * c.scaleY);
+    return ((c.blocksPerLine + 1) << 3) * (j & ~7) + ((j & 7) << 3);
+  };
+  for (let y = 0; y < h; y++) {
+    const s0 = rowStart(c0, y);
+    if (n === 1) {
+      for (let x = 0; x < w; x++) {
+        const v = out0[s0 + (col0[x] as number)] as number;
+        const o = x * 4;
+        row[o] = v;
+        row[o + 1] = v;
+        row[o + 2] = v;
+        row[o + 3] = 255;
+      }
+    } else {
+      const out1 = (c1 as JpegComponent).output;
+      const out2 = (c2 as JpegComponent).output;
+      const col1 = columns[1] as Uint32Array;
+      const col2 = columns[2] as Uint32Array;
+      const s1 = rowStart(c1 as JpegComponent, y);
+      const s2 = rowStart(c2 as JpegComponent, y);
+      for (let x = 0; x < w; x++) {
+        const a = out0[s0 + (col0[x] as number)] as number;
+        const b = out1[s1 + (col1[x] as number)] as number;
+        const c = out2[s2 + (col2[x] as number)] as number;
+        const o = x * 4;
+        if (convert) {
+          // JFIF YCbCr → RGB (ITU-T T.871, section 7); the row is a clamped array, so 0…255 holds.
+          const cb = b - 128;
+          const cr = c - 128;
+          row[o] = a + 1.402 * cr;
+          row[o + 1] = a - 0.344136 * cb - 0.714136 * cr;
+          row[o + 2] = a + 1.772 * cb;
+        } else {
+          row[o] = a;
+          row[o + 1] = b;
+          row[o + 2] = c;
+        }
+        row[o + 3] = 255;
+      }
+    }
+    sink.push(row);
+  }
+  return { width, height, data: sink.data };
+}

@@ -1,0 +1,103 @@
+/**
+ * In-process decoding of scans (src/digitize/loaders/imageDecode.ts): PNG pixel for pixel
+ * against the canvas library's decoder, the PNG colour types and bit depths scans use, JPEG
+ * within the loss of compression, and big pages reduced on load to the working limit.
+ */
+import { deflateSync } from 'node:zlib';
+import { createCanvas, loadImage } from '@napi-rs/canvas';
+import { describe, expect, it } from 'vitest';
+import { decodeJpeg, decodePng } from '../../src/digitize/loaders/imageDecode.ts';
+import { loadImageRasterNode, loadImageSheetNode, workingSize } from '../../src/digitize/loaders/imageNode.ts';
+import { seededRandom } from '../../src/demo/random.ts';
+
+function drawing(width: number, height: number, seed: number) {
+  const rand = seededRandom(seed);
+  const canvas = createCanvas(width, height);
+  const ctx = canvas.getContext('2d');
+  ctx.fillStyle = '#ffffff';
+  ctx.fillRect(0, 0, width, height);
+  for (let i = 0; i < 40; i++) {
+    ctx.strokeStyle = `rgb(${Math.floor(rand() * 256)},${Math.floor(rand() * 256)},${Math.floor(rand() * 256)})`;
+    ctx.lineWidth = 1 + rand() * 4;
+    ctx.beginPath();
+    ctx.moveTo(rand() * width, rand() * height);
+    ctx.lineTo(rand() * width, rand() * height);
+    ctx.stroke();
+  }
+  return canvas;
+}
+
+async function reference(bytes: Uint8Array): Promise<Uint8ClampedArray> {
+  const image = await loadImage(Buffer.from(bytes));
+  const c = createCanvas(image.width, image.height);
+  const ctx = c.getContext('2d');
+  ctx.fillStyle = '#ffffff';
+  ctx.fillRect(0, 0, image.width, image.height);
+  ctx.drawImage(image, 0, 0);
+  return ctx.getImageData(0, 0, image.width, image.height).data;
+}
+
+/** A PNG written by hand: `raw` rows (filter byte 0 each) of the given colour type and bit depth. */
+function handPng(width: number, height: number, colorType: number, bitDepth: number, rows: Uint8Array[], extra: Array<[string, Uint8Array]> = []): Uint8Array {
+  const chunk = (type: string, body: Uint8Array) => {
+    const out = Buffer.alloc(12 + body.length);
+    out.writeUInt32BE(body.length, 0);
+    out.write(type, 4, 'latin1');
+    Buffer.from(body).copy(out, 8);
+    return out; // CRC left zero: the decoder does not check it
+  };
+  const ihdr = Buffer.alloc(13);
+  ihdr.writeUInt32BE(width, 0);
+  ihdr.writeUInt32BE(height, 4);
+  ihdr[8] = bitDepth;
+  ihdr[9] = colorType;
+  const raw = Buffer.concat(rows.map((r) => Buffer.concat([Buffer.from([0]), Buffer.from(r)])));
+  return new Uint8Array(Buffer.concat([Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]), chunk('IHDR', ihdr), ...extra.map(([t, b]) => chunk(t, b)), chunk('IDAT', deflateSync(raw)), chunk('IEND', new Uint8Array())]));
+}
+
+describe('decoding in this process', () => {
+  it('a PNG (all row filters) matches the canvas decoder pixel for pixel', async () => {
+    const bytes = new Uint8Array(drawing(301, 177, 3).toBuffer('image/png'));
+    const ours = await decodePng(bytes, 301, 177);
+    const ref = await reference(bytes);
+    expect(Buffer.compare(Buffer.from(ours.data.buffer, ours.data.byteOffset, ours.data.byteLength), Buffer.from(ref.buffer, ref.byteOffset, ref.byteLength))).toBe(0);
+  });
+
+  it('1-bit grey and palette PNGs, as bilevel scans are saved', async () => {
+    const bilevel = await decodePng(handPng(10, 2, 0, 1, [new Uint8Array([0b10100000, 0b01000000]), new Uint8Array([0xff, 0xc0])]), 10, 2);
+    expect([...bilevel.data.subarray(0, 12)]).toEqual([255, 255, 255, 255, 0, 0, 0, 255, 255, 255, 255, 255]);
+    expect(bilevel.data[(10 + 9) * 4]).toBe(255);
+    const palette = await decodePng(handPng(2, 1, 3, 8, [new Uint8Array([1, 0])], [['PLTE', new Uint8Array([255, 0, 0, 0, 0, 255])]]), 2, 1);
+    expect([...palette.data]).toEqual([0, 0, 255, 255, 255, 0, 0, 255]);
+  });
+
+  it('a JPEG within the loss of its compression (mean difference under 5 levels of 255)', async () => {
+    const bytes = new Uint8Array(drawing(320, 200, 5).toBuffer('image/jpeg', 92));
+    const ours = await decodeJpeg(bytes, 320, 200);
+    const ref = await reference(bytes);
+    let sum = 0;
+    for (let i = 0; i < ref.length; i += 4) for (let k = 0; k < 3; k++) sum += Math.abs((ours.data[i + k] as number) - (ref[i + k] as number));
+    expect(sum / ((ref.length / 4) * 3)).toBeLessThan(5); // the two decoders upsample colour differently along thin coloured lines (measured 3.2)
+  });
+
+  it('a page over the 40-megapixel working limit is reduced on load; its sheet keeps the file’s pixel units', async () => {
+    const [w, h] = [8000, 6000]; // 48 megapixels, grey
+    const row = new Uint8Array(w).fill(255);
+    const dark = new Uint8Array(w).fill(255);
+    dark.fill(0, 4000, 4004); // a dark 4-pixel stub in the middle of one row
+    const rows = Array.from({ length: h }, (_, y) => (y === 3000 ? dark : row));
+    const bytes = handPng(w, h, 0, 8, rows);
+    const size = workingSize(w, h, 40_000_000);
+    expect(size.width * size.height).toBeLessThanOrEqual(40_000_000);
+    const image = await loadImageRasterNode(bytes);
+    expect([image.width, image.height]).toEqual([size.width, size.height]);
+    expect(image.scale).toBeCloseTo(size.scale, 12);
+    // the stub survives reduction as a grey mark where it was (box average, not dropped)
+    const x = Math.floor(4001 * image.scale);
+    const y = Math.floor(3000 * image.scale);
+    expect(image.data[(y * image.width + x) * 4] as number).toBeLessThan(200);
+    const sheet = await loadImageSheetNode(bytes);
+    expect([sheet.width, sheet.height]).toEqual([w, h]);
+    expect((await sheet.render(1)).scale).toBeCloseTo(size.scale, 12);
+  }, 60_000);
+});
