@@ -123,7 +123,8 @@ async function benchSheet(dir: string, name: string, targets: { ratio?: number; 
   process.stdout.write(`  worst error: head ${worst('head')} %, power ${worst('power')} %, NPSHr ${worst('npshr')} % of span; efficiency ${worst('efficiency')} pt${rows.some((r) => r.worst >= r.limit) ? '  ← OVER THE ACCEPTANCE' : ''}\n`);
 
   const work = await workItself(dir, takeoff);
-  const out = join(dir, `${name}.bench.curveset.json`);
+  const scratch = mkdtempSync(join(tmpdir(), 'pumpscribe-out-'));
+  const out = join(scratch, `${name}.bench.curveset.json`);
   const whole = [0, 1, 2].map(() => runNode([BIN, 'takeoff', takeoffPath, '-o', out, '-q']));
   const failed = whole.find((r) => r.code !== 0 && r.code !== 1);
   const wall = median(whole.map((r) => r.ms));
