@@ -47,6 +47,7 @@ const COMMANDS: Record<string, () => Promise<Partial<CommandModule>>> = {
   library: () => import('./commands/library.ts'),
   panels: () => import('./commands/panels.ts'),
   scale: () => import('./commands/scale.ts'),
+  study: () => import('./commands/study.ts'),
   serve: () => import('./commands/serve.ts'),
   start: () => import('./commands/start.ts'),
   takeoff: () => import('./commands/takeoff.ts'),

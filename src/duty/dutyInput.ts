@@ -3,7 +3,10 @@
  * a study file's numbers), in one unit system, turned into the SI `DutyCheckInput` of the duty
  * check. Pure. Every unusable value is refused with one sentence naming the field and what to do.
  */
-import { presetNamed, resolveUnits, toSI, type UnitSystem } from '../units/index.ts';
+import { presetNamed, resolveUnits, toSI, type Unit, type UnitSystem } from '../units/index.ts';
+import { readDecimal } from '../units/readNumber.ts';
+import { checkPlausible, type PlausibleKind } from '../units/plausible.ts';
+import { UserError } from '../model/errors.ts';
 import type { CurveSet } from '../model/curveset.ts';
 import { SERVICES, type Service } from './cautions.ts';
 import type { DutyCheckInput } from './dutyCheck.ts';
@@ -78,8 +81,12 @@ export function readDutyInput(fields: DutyFields, system: UnitSystem, names: Par
     if (raw === undefined || raw === null || typeof raw === 'boolean') return undefined;
     const text = typeof raw === 'number' ? String(raw) : raw.trim().replace(/^(-?\d+),(\d+)$/, '$1.$2');
     if (text === '') return undefined;
-    const v = Number(text);
-    if (!Number.isFinite(v)) throw new DutyInputError(`${cap(name(f))} must be a number, not "${String(raw)}".`, f);
+    let v: number;
+    try {
+      v = readDecimal(text, cap(name(f)));
+    } catch (error) {
+      throw new DutyInputError(error instanceof UserError ? error.message : `${cap(name(f))} must be a number, not "${String(raw)}".`, f);
+    }
     if (kind === 'positive' && !(v > 0)) throw new DutyInputError(`${cap(name(f))} must be greater than zero, not ${text}.`, f);
     if (kind === 'non-negative' && !(v >= 0)) throw new DutyInputError(`${cap(name(f))} must be zero or more, not ${text}.`, f);
     return v;
@@ -88,6 +95,15 @@ export function readDutyInput(fields: DutyFields, system: UnitSystem, names: Par
     const v = read(f, kind);
     if (v === undefined) throw new DutyInputError(`${cap(name(f))} is missing; enter it in ${f === 'flow' ? u.flow.label : u.head.label}.`, f);
     return v;
+  };
+  /** Refuses a value outside the physical range of its kind, naming the unit it suggests (a density of 1 kg/m³ looks like an SG). */
+  const plausible = (f: DutyField, kind: PlausibleKind, si: number, unit: Unit | null, extra: { liquid?: 'water' | 'other' } = {}): number => {
+    try {
+      return checkPlausible(kind, si, { field: cap(name(f)), text: String(fields[f]).trim(), ...(unit ? { unit: unit.token } : {}), sgField: 'a specific gravity of', ...extra });
+    } catch (error) {
+      if (error instanceof UserError) throw new DutyInputError(error.message, f);
+      throw error;
+    }
   };
   const percent = (f: DutyField): number | undefined => {
     const v = read(f, 'positive');
@@ -104,7 +120,8 @@ export function readDutyInput(fields: DutyFields, system: UnitSystem, names: Par
 
   // A study may leave the head to its pipe runs: then head_m is NaN and the caller must not use it.
   const head = options.head_optional ? read('head', 'positive') : need('head', 'positive');
-  const input: DutyCheckInput = { flow_m3s: toSI(need('flow', 'positive'), u.flow), head_m: head === undefined ? Number.NaN : toSI(head, u.head) };
+  const flowSI = plausible('flow', 'flow', toSI(need('flow', 'positive'), u.flow), u.flow);
+  const input: DutyCheckInput = { flow_m3s: flowSI, head_m: head === undefined ? Number.NaN : plausible('head', 'head', toSI(head, u.head), u.head) };
   const notes: string[] = [];
   const stat = read('static');
   if (stat !== undefined) input.static_head_m = toSI(stat, u.head);
@@ -112,7 +129,7 @@ export function readDutyInput(fields: DutyFields, system: UnitSystem, names: Par
   const exp = read('system_exponent', 'positive');
   if (exp !== undefined) input.system_exponent = exp;
   const density = read('density', 'positive');
-  if (density !== undefined) input.density_kg_m3 = density;
+  if (density !== undefined) input.density_kg_m3 = plausible('density', 'density', density, null);
   const parallel = read('parallel', 'positive');
   if (parallel !== undefined) {
     if (!Number.isInteger(parallel) || parallel > 6) throw new DutyInputError(`${cap(name('parallel'))} must be a whole number from 1 to 6, not ${parallel}.`, 'parallel');
@@ -136,16 +153,16 @@ export function readDutyInput(fields: DutyFields, system: UnitSystem, names: Par
     const t = read('temperature');
     if (t === undefined) notes.push(`No liquid temperature given: the liquid is taken at 20 °C for vapour pressure and density.`);
     const site: SiteInput = {
-      temperature_K: t === undefined ? 293.15 : toSI(t, u.temperature),
+      temperature_K: t === undefined ? 293.15 : plausible('temperature', 'temperature', toSI(t, u.temperature), u.temperature, { liquid: density === undefined ? 'water' : 'other' }),
       suction_static_m: toSI(read('suction_static') ?? 0, u.head),
       suction_loss_m: toSI(read('suction_loss', 'non-negative') ?? 0, u.head),
     };
     const elevation = read('elevation');
     if (elevation !== undefined) site.elevation_m = toSI(elevation, u.head);
     const p = read('site_pressure', 'positive');
-    if (p !== undefined) site.site_pressure_Pa = toSI(p, u.pressure);
+    if (p !== undefined) site.site_pressure_Pa = plausible('site_pressure', 'pressure', toSI(p, u.pressure), u.pressure);
     const pv = read('vapour_pressure', 'non-negative');
-    if (pv !== undefined) site.vapour_pressure_Pa = toSI(pv, u.pressure);
+    if (pv !== undefined) site.vapour_pressure_Pa = plausible('vapour_pressure', 'pressure', toSI(pv, u.pressure), u.pressure);
     if (density !== undefined) site.density_kg_m3 = density;
     input.site = site;
   }

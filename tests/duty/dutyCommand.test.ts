@@ -124,7 +124,7 @@ describe('pumpscribe duty refuses unusable input with exit 2 and one sentence', 
     expectOneSentence(run('duty', file('broken.json', '{"format": '), '--flow', '100', '--head', '30'), /not valid JSON/);
   });
   it('a flow that is not a number', () => {
-    expectOneSentence(run('duty', siSet, '--flow', 'lots', '--head', '30'), /--flow must be a number/);
+    expectOneSentence(run('duty', siSet, '--flow', 'lots', '--head', '30'), /--flow must be a decimal number/);
   });
   it('a static head above the duty head', () => {
     expectOneSentence(run('duty', siSet, '--flow', '100', '--head', '30', '--static', '40'), /below the static head/);
