@@ -122,9 +122,12 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
     return m;
   };
   const how = new Map<Quantity, Set<string>>();
-  const add = (quantity: Quantity, diameter: number, pts: CurvePoint[], by: string) => {
-    const list = (memberFor(diameter, units.diameter).points[quantity] ??= []);
-    list.push(...pts);
+  const add = (quantity: Quantity, diameter: number, pts: CurvePoint[], by: string, trace: string) => {
+    const member = memberFor(diameter, units.diameter);
+    const list = (member.points[quantity] ??= []);
+    for (const p of pts) list.push(p);
+    const named = ((member.sources ??= {})[quantity] ??= []); // names a point the fit misses by its trace
+    for (let i = 0; i < pts.length; i++) named.push({ text: `${by === "iso" ? "iso-trace" : "trace"} ${trace}`, trace });
     const ways = how.get(quantity) ?? new Set<string>();
     how.set(quantity, ways.add(by));
   };
@@ -138,7 +141,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
     const pts = keepFlows(raw, (dropped) =>
       note('takeoff.negative-flow', 'warn', `Trace ${outcome.id} (${describeTrace(trace)}): ${dropped} point${dropped === 1 ? '' : 's'} left of zero flow were dropped; check the panel's anchors.`, outcome.id, { dropped }),
     );
-    add(trace.quantity, trace.diameter as number, pts, outcome.how);
+    add(trace.quantity, trace.diameter as number, pts, outcome.how, outcome.id);
   }
 
   for (const outcome of outcomes) {
@@ -160,7 +163,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
     for (const c of crossings) {
       const flow = toSI(cal.toData(c.at)[0], u.flow);
       if (flow < 0) continue;
-      add(trace.quantity, c.key, [[flow, toSI(trace.iso, u.value)]], 'iso');
+      add(trace.quantity, c.key, [[flow, toSI(trace.iso, u.value)]], 'iso', outcome.id);
     }
   }
 

@@ -13,6 +13,8 @@ import { displayFor, makeFinding, runChecks, sortFindings } from './checks/index
 import { fitCurve } from './chooseDegree.ts';
 import { deriveFigures } from './derived.ts';
 import { familyFigures } from './checks/speedFigures.ts';
+import { fitEvidenceFindings } from './checks/fitEvidence.ts';
+import { checkBuildLimits } from '../model/limits.ts';
 
 export interface MemberInput {
   diameter_m?: number;
@@ -20,6 +22,17 @@ export interface MemberInput {
   speed_rpm?: number;
   label?: string;
   points: Partial<Record<Quantity, CurvePoint[]>>;
+  /**
+   * Where each point came from, in the order of `points`: a row ("line 17") or a trace
+   * ("trace h12"), so that a point the fit misses can be named as the user knows it.
+   */
+  sources?: Partial<Record<Quantity, PointSource[]>>;
+}
+
+/** The origin of one point: `text` names it in a sentence ("line 17"); `trace` links the finding to a trace. */
+export interface PointSource {
+  text: string;
+  trace?: string;
 }
 
 export interface BuildInput {
@@ -49,6 +62,8 @@ function defaultAccuracy(members: MemberInput[], quantity: Quantity): number {
 
 export function buildCurveSet(input: BuildInput): CurveSet {
   const show = displayFor(input.display_units);
+  const from = input.provenance?.points_file ? `The points table "${input.provenance.points_file}"` : input.provenance?.takeoff ? `The take-off "${input.provenance.takeoff}"` : 'The input';
+  checkBuildLimits(input.members, from, (m) => (m.diameter_m !== undefined ? `diameter ${show.diameter(m.diameter_m)}` : `speed ${m.speed_rpm ?? input.speed_rpm} rpm`));
   const fitFindings: Finding[] = [];
   const accuracy = Object.fromEntries(
     QUANTITY_ORDER.map((q) => [q, input.readingAccuracy?.[q] ?? defaultAccuracy(input.members, q)]),
@@ -61,10 +76,14 @@ export function buildCurveSet(input: BuildInput): CurveSet {
     for (const quantity of QUANTITY_ORDER) {
       const raw = m.points[quantity];
       if (!raw || raw.length === 0) continue;
-      const points = [...raw].sort((a, b) => a[0] - b[0]).map(([q, y]) => [q, y] as CurvePoint);
+      const order = raw.map((_, i) => i).sort((a, b) => (raw[a] as CurvePoint)[0] - (raw[b] as CurvePoint)[0]);
+      const points = order.map((i) => [...(raw[i] as CurvePoint)] as CurvePoint);
+      const given = m.sources?.[quantity];
+      const sources = given && given.length === raw.length ? order.map((i) => given[i] as PointSource) : undefined;
       const curve: Curve = { points };
       try {
         curve.fit = fitCurve(points, quantity, { tolerance: accuracy[quantity] });
+        fitFindings.push(...fitEvidenceFindings({ member: { ...shell, label: m.label }, quantity, points, fit: curve.fit, tolerance: accuracy[quantity], sources }, show));
       } catch (error) {
         if (!(error instanceof Error) || error.name !== 'FitError') throw error;
         fitFindings.push(
