@@ -18,6 +18,7 @@ import { sheetPoint, type SheetPoint } from './points.ts';
 import { safeScale, type Sheet } from './sheet.ts';
 import { strokeLines } from './vectorCapture.ts';
 import type { StrokeLine } from './strokeJoin.ts';
+import { checkTotalPoints, checkTracePoints } from '../model/limits.ts';
 import { resolveTakeoffUnits, traceUnits } from './takeoffUnits.ts';
 import type { RasterImage } from './raster.ts';
 
@@ -82,6 +83,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
   };
 
   const outcomes: TraceOutcome[] = [];
+  let pointsSoFar = 0;
   for (const [index, trace] of takeoff.traces.entries()) {
     const id = trace.id ?? String(index + 1);
     const saved = trace.captured && trace.captured.length > 0 ? trace.captured.map(([x, y]) => sheetPoint(x, y)) : null;
@@ -105,6 +107,8 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
         note(lost ? 'takeoff.capture-lost' : 'takeoff.capture-fallback', lost ? 'warn' : 'note', `Trace ${id} (${describeTrace(trace)}): ${got.notes.join(' ')}`, id);
       }
     }
+    checkTracePoints(outcome.points.length, `Trace ${id} (${describeTrace(trace)})`); // model/limits.ts
+    checkTotalPoints((pointsSoFar += outcome.points.length), 'The take-off');
     if (outcome.points.length < 2) throw new TakeoffError(`Trace ${id} (${describeTrace(trace)}) captured fewer than 2 points; place guides on its line or give its points.`);
     const frame = takeoff.panels.find((p) => p.id === trace.panel)?.frame;
     const outside = frame ? outcome.points.filter((p) => !insideFrame(p, frame)).length : 0;

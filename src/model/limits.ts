@@ -28,12 +28,12 @@ export class LimitError extends UserError {
 }
 
 /** "100 000" (thin spaces would not survive every terminal; a plain space groups the digits). */
-function count(n: number): string {
+function grouped(n: number): string {
   return String(n).replace(/\B(?=(\d{3})+(?!\d))/g, ' ');
 }
 
 export function tooManyRows(what: string): LimitError {
-  return new LimitError(`${what} has more than ${count(MAX_TABLE_ROWS)} rows, the limit for one curve set (a sheet needs a few hundred); thin the points or split the table by pump.`);
+  return new LimitError(`${what} has more than ${grouped(MAX_TABLE_ROWS)} rows, the limit for one curve set (a sheet needs a few hundred); thin the points or split the table by pump.`);
 }
 
 interface Sized {
@@ -48,7 +48,7 @@ interface Sized {
  */
 export function checkSizeLimits(members: readonly Sized[], what: string, nameMember?: (m: Sized) => string): void {
   if (members.length > MAX_MEMBERS) {
-    throw new LimitError(`${what} has ${count(members.length)} diameters or speeds, more than the limit of ${count(MAX_MEMBERS)} (a sheet shows up to about 20); split it into several curve sets.`);
+    throw new LimitError(`${what} has ${grouped(members.length)} diameters or speeds, more than the limit of ${grouped(MAX_MEMBERS)} (a sheet shows up to about 20); split it into several curve sets.`);
   }
   let total = 0;
   for (const m of members) {
@@ -57,12 +57,12 @@ export function checkSizeLimits(members: readonly Sized[], what: string, nameMem
       total += n;
       if (n > MAX_POINTS_PER_CURVE) {
         const who = nameMember?.(m) ?? (m.diameter_m !== undefined ? `diameter ${Number((m.diameter_m * 1000).toPrecision(6))} mm` : `speed ${m.speed_rpm} rpm`);
-        throw new LimitError(`${what} has ${count(n)} ${quantity} points for ${who}, more than the limit of ${count(MAX_POINTS_PER_CURVE)} per curve (a traced curve needs a few hundred); thin the points.`);
+        throw new LimitError(`${what} has ${grouped(n)} ${quantity} points for ${who}, more than the limit of ${grouped(MAX_POINTS_PER_CURVE)} per curve (a traced curve needs a few hundred); thin the points.`);
       }
     }
   }
   if (total > MAX_POINTS_PER_SET) {
-    throw new LimitError(`${what} has ${count(total)} points in all, more than the limit of ${count(MAX_POINTS_PER_SET)} for one curve set (a sheet needs a few thousand at most); thin the points.`);
+    throw new LimitError(`${what} has ${grouped(total)} points in all, more than the limit of ${grouped(MAX_POINTS_PER_SET)} for one curve set (a sheet needs a few thousand at most); thin the points.`);
   }
 }
 
@@ -79,6 +79,50 @@ export function checkCurveSetLimits(set: { members: readonly { diameter_m?: numb
       speed_rpm: m.speed_rpm,
       points: Object.fromEntries(Object.entries(m.curves).map(([q, c]) => [q, c?.points])),
     })),
+    what,
+  );
+}
+
+/**
+ * Refuses one trace or captured line with more points than a curve may hold; call it as
+ * each trace is captured, before anything walks the points. `what` names the trace.
+ */
+export function checkTracePoints(count: number, what: string): void {
+  if (count > MAX_POINTS_PER_CURVE) {
+    throw new LimitError(`${what} has ${grouped(count)} points, more than the limit of ${grouped(MAX_POINTS_PER_CURVE)} per trace (a traced curve needs a few hundred); thin its points or give it guides instead.`);
+  }
+}
+
+/** Refuses a take-off whose traces hold more points in all than one curve set may. */
+export function checkTotalPoints(count: number, what: string): void {
+  if (count > MAX_POINTS_PER_SET) {
+    throw new LimitError(`${what} has ${grouped(count)} points in all, more than the limit of ${grouped(MAX_POINTS_PER_SET)} for one curve set (a sheet needs a few thousand at most); thin the points.`);
+  }
+}
+
+/**
+ * The same limits on a curve-set document before it is validated, so that a runaway file is
+ * refused before the schema walks every point. Anything not shaped like a curve set passes
+ * through untouched: validation names it.
+ */
+export function checkCurveSetDocumentLimits(doc: unknown, what = 'The curve set'): void {
+  const members = (doc as { members?: unknown } | null)?.members;
+  if (!Array.isArray(members)) return;
+  checkSizeLimits(
+    members.map((m: unknown) => {
+      const member = (m ?? {}) as { diameter_m?: unknown; speed_rpm?: unknown; curves?: unknown };
+      const curves = member.curves && typeof member.curves === 'object' ? (member.curves as Record<string, unknown>) : {};
+      const points: Record<string, readonly unknown[]> = {};
+      for (const [q, c] of Object.entries(curves)) {
+        const list = (c as { points?: unknown } | null)?.points;
+        if (Array.isArray(list)) points[q] = list;
+      }
+      return {
+        diameter_m: typeof member.diameter_m === 'number' ? member.diameter_m : undefined,
+        speed_rpm: typeof member.speed_rpm === 'number' ? member.speed_rpm : undefined,
+        points,
+      };
+    }),
     what,
   );
 }

@@ -6,6 +6,7 @@
  */
 import { UserError } from './errors.ts';
 import { QUANTITIES, type Quantity } from './curveset.ts';
+import { MAX_TABLE_ROWS, tooManyRows } from './limits.ts';
 
 export class PointsTableError extends UserError {
   override name = 'PointsTableInputError';
@@ -43,6 +44,7 @@ export function parsePointsTable(text: string, source = 'The points file'): Poin
   for (let i = firstIndex + 1; i < lines.length; i++) {
     const raw = (lines[i] as string).trim();
     if (raw === '' || raw.startsWith('#')) continue;
+    if (rows.length >= MAX_TABLE_ROWS) throw tooManyRows(source); // limits.ts: far beyond any sheet
     const line = i + 1;
     const cells = splitLine(raw);
     if (cells.length !== 4) throw new PointsTableError(`Line ${line} has ${cells.length} cells; each row needs quantity, diameter, flow and value.`);
