@@ -14,7 +14,9 @@ import { fitCurve } from './chooseDegree.ts';
 import { deriveFigures } from './derived.ts';
 import { familyFigures } from './checks/speedFigures.ts';
 import { fitEvidenceFindings } from './checks/fitEvidence.ts';
-import { checkBuildLimits } from '../model/limits.ts';
+import { checkBuildLimits, LimitError, MAX_MAGNITUDE_SI } from '../model/limits.ts';
+import { valueText } from './checks/fitEvidence.ts';
+import type { Display } from './checks/display.ts';
 
 export interface MemberInput {
   diameter_m?: number;
@@ -64,6 +66,7 @@ export function buildCurveSet(input: BuildInput): CurveSet {
   const show = displayFor(input.display_units);
   const from = input.provenance?.points_file ? `The points table "${input.provenance.points_file}"` : input.provenance?.takeoff ? `The take-off "${input.provenance.takeoff}"` : 'The input';
   checkBuildLimits(input.members, from, (m) => (m.diameter_m !== undefined ? `diameter ${show.diameter(m.diameter_m)}` : `speed ${m.speed_rpm ?? input.speed_rpm} rpm`));
+  checkMagnitudes(input.members, show);
   const fitFindings: Finding[] = [];
   const accuracy = Object.fromEntries(
     QUANTITY_ORDER.map((q) => [q, input.readingAccuracy?.[q] ?? defaultAccuracy(input.members, q)]),
@@ -132,4 +135,24 @@ export function buildCurveSet(input: BuildInput): CurveSet {
   const { findings, figures } = runChecks(draft);
   const set = { ...draft, figures, findings: sortFindings([...fitFindings, ...findings]) };
   return CurveSet.parse(set);
+}
+
+/** Refuses a point beyond any pump (model/limits.ts), naming its row or trace, before a fit can overflow. */
+function checkMagnitudes(members: readonly MemberInput[], show: Display): void {
+  for (const m of members) {
+    for (const quantity of QUANTITY_ORDER) {
+      const points = m.points[quantity] ?? [];
+      points.forEach(([q, y], i) => {
+        const flowOff = !(Math.abs(q) <= MAX_MAGNITUDE_SI.flow);
+        if (!flowOff && Math.abs(y) <= MAX_MAGNITUDE_SI[quantity]) return;
+        const where = m.sources?.[quantity]?.[i]?.text;
+        const who = `${where ? `${where[0]?.toUpperCase()}${where.slice(1)}: the` : 'The'} ${NAMES[quantity]} point of ${m.diameter_m !== undefined ? show.diameter(m.diameter_m) : `${m.speed_rpm ?? 'the rated'} rpm`}`;
+        throw new LimitError(
+          flowOff
+            ? `${who} has a flow of ${show.flow(q)}, beyond any pump (limit ${show.flow(MAX_MAGNITUDE_SI.flow)}); check the number and the flow unit.`
+            : `${who} has a value of ${valueText(show, quantity, y)}, beyond any pump (limit ${valueText(show, quantity, MAX_MAGNITUDE_SI[quantity])}); check the number and its unit.`,
+        );
+      });
+    }
+  }
 }

@@ -20,6 +20,14 @@ export const MAX_POINTS_PER_SET = 100_000;
 export const MAX_TABLE_ROWS = 100_000;
 export const MAX_MEMBERS = 100;
 
+/**
+ * Largest magnitude of a captured value, SI, far beyond any pump: the largest pumps move about
+ * 60 m³/s, the highest-head ones about 5 000 m (multistage boiler feed), the most powerful draw
+ * about 100 MW, and NPSHr stays below 100 m. A value beyond these is a slip (a unit, an
+ * exponent, a column) and, squared in a fit, could overflow to Infinity.
+ */
+export const MAX_MAGNITUDE_SI = { flow: 1e3, head: 1e5, npshr: 1e4, power: 1e10, efficiency: 10 } as const;
+
 export class LimitError extends UserError {
   override name = 'LimitError';
   constructor(message: string) {

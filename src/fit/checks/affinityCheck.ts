@@ -122,6 +122,19 @@ function judge(active: Sized[], order: Map<Sized, number>, pairs: Map<string, Pa
   });
 }
 
+/**
+ * The flow deviation along the affinity parabola and the implied exponent, in words, leaving
+ * out a figure that could not be computed (the parabola crossed neither curve in range)
+ * rather than printing NaN.
+ */
+function alongParabola(c: PairComparison, show: Display, style: 'outlier' | 'deviation'): string {
+  const flow = Number.isFinite(c.flowDeviation) ? `flow ${show.percent(c.flowDeviation)} along the ${style === 'outlier' ? 'affinity ' : ''}parabola` : undefined;
+  const exponent = Number.isFinite(c.impliedExponent) ? `implied exponent ${c.impliedExponent.toFixed(2)}${style === 'outlier' ? ' where' : ','} the law gives 2` : undefined;
+  const parts = [flow, exponent].filter((p): p is string => p !== undefined);
+  if (parts.length === 0) return '';
+  return style === 'outlier' ? ` (${parts.join(', ')})` : `; ${parts.join('; ')}`;
+}
+
 export function affinityFindings(set: Pick<CurveSet, 'members' | 'family'>, show: Display): Finding[] {
   const bySpeed = set.family === 'speed';
   const sized: Sized[] = set.members.flatMap((member) => {
@@ -155,7 +168,7 @@ export function affinityFindings(set: Pick<CurveSet, 'members' | 'family'>, show
         quantity: 'head',
         message:
           `The ${name(worst.item)} head curve disagrees with the affinity law: scaled from ${neighbours}, the predicted head at matching flows is ` +
-          `${show.percent(worst.best.cmp.headDeviation)} off the drawn curve (flow ${show.percent(worst.best.cmp.flowDeviation)} along the affinity parabola, implied exponent ${worst.best.cmp.impliedExponent.toFixed(2)} where the law gives 2). ` +
+          `${show.percent(worst.best.cmp.headDeviation)} off the drawn curve${alongParabola(worst.best.cmp, show, 'outlier')}. ` +
           (Number.isFinite(implied) ? `Its neighbours put this curve at about ${sizeText(implied)}; check the ${bySpeed ? 'speed' : 'diameter'} label and which line was traced.` : 'Check its label and which line was traced.'),
         method,
         figures: {
@@ -188,7 +201,7 @@ export function affinityFindings(set: Pick<CurveSet, 'members' | 'family'>, show
         quantity: 'head',
         message:
           `The ${name(v.item)} head curve, predicted from ${name(v.best.other)} by the affinity law, is ${show.percent(c.headDeviation)} off at matching flows ` +
-          `(largest ${show.percent(c.maxHeadDeviation)}; flow ${show.percent(c.flowDeviation)} along the parabola; implied exponent ${c.impliedExponent.toFixed(2)}, the law gives 2).` +
+          `(largest ${show.percent(c.maxHeadDeviation)}${alongParabola(c, show, 'deviation')}).` +
           (pairOnly ? ' With only two curves to compare, either label may be the wrong one.' : ' Check the labels, or expect trimmed curves to fall below the simple law.'),
         method,
         figures: { head_deviation: c.headDeviation, max_head_deviation: c.maxHeadDeviation, flow_deviation: c.flowDeviation, implied_exponent: c.impliedExponent },

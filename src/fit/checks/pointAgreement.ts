@@ -47,7 +47,20 @@ export function pointAgreementFindings(set: Pick<CurveSet, 'members'>, show: Dis
         }
       });
       const rms = Math.sqrt(ss / residuals.length);
-      if (!Number.isFinite(rms)) continue; // a fit that overflows at its points is named by the shape checks
+      if (!Number.isFinite(rms)) {
+        out.push(
+          makeFinding({
+            code: 'points.fit-disagrees',
+            severity: 'fail',
+            member: m,
+            quantity,
+            message: `The ${show.member(m)} ${NAMES[quantity]} fit gives no finite value at some of its own ${curve.points.length} points (its coefficients overflow there); build the set again from its points or take-off.`,
+            method: 'Residuals of the stored fit recomputed at the stored points',
+            figures: { points: curve.points.length },
+          }),
+        );
+        continue;
+      }
       if (rms <= fit.rms + tolerance && Math.abs(worst) <= fit.max_residual + 2 * tolerance) continue;
       const [q, y] = curve.points[worstAt] as [number, number];
       const diff = (v: number) => (quantity === 'efficiency' ? `${show.efficiency(Math.abs(v)).replace(' %', '')} points` : valueText(show, quantity, Math.abs(v)));
