@@ -106,3 +106,27 @@ describe('check against the stored points', () => {
     expect(failed).toBe(6);
   });
 });
+
+describe('a stray point in a take-off', () => {
+  it('a captured point moved off its line fails and names its trace', async () => {
+    // Capture once and save the points, then move one point of the 290 mm head trace well
+    // off its line (as a guide that caught a label would) and replay from the saved points.
+    const ROOT = join(import.meta.dirname, '..', '..');
+    const t = JSON.parse(readFileSync(join(ROOT, 'samples', 'sheets', 'si-panels-black.takeoff.json'), 'utf8'));
+    t.sheet = join(ROOT, 'samples', 'sheets', t.sheet);
+    const takeoff = file('stray.takeoff.json', JSON.stringify(t));
+    const clean = await runCli(['takeoff', takeoff, '-o', join(dir, 'stray-clean.curveset.json'), '--save-points']);
+    expect(clean.code).toBe(0);
+    expect(clean.out).not.toMatch(/FAIL|WARN/);
+    const saved = JSON.parse(readFileSync(takeoff, 'utf8'));
+    const trace = saved.traces.find((x: { id: string }) => x.id === 'head-290');
+    const k = Math.floor(trace.captured.length / 2);
+    trace.captured[k][1] -= 25; // 25 sheet units up: about 8 m of head on this panel
+    writeFileSync(takeoff, JSON.stringify(saved));
+    const r = await runCli(['takeoff', takeoff, '-o', join(dir, 'stray.curveset.json'), '--use-captured']);
+    expect(r.code).toBe(1);
+    expect(r.out).toMatch(/FAIL {2}The 290 mm head curve through the other points misses trace head-290 \(/);
+    const set = JSON.parse(readFileSync(join(dir, 'stray.curveset.json'), 'utf8'));
+    expect(set.findings.find((f: { code: string }) => f.code === 'fit.point-off').subject.trace).toBe('head-290');
+  });
+});
