@@ -14,6 +14,7 @@ import { fitCurve } from './chooseDegree.ts';
 import { deriveFigures } from './derived.ts';
 import { familyFigures } from './checks/speedFigures.ts';
 import { fitEvidenceFindings } from './checks/fitEvidence.ts';
+import { UserError } from '../model/errors.ts';
 import { checkBuildLimits, LimitError, MAX_MAGNITUDE_SI } from '../model/limits.ts';
 import { valueText } from './checks/fitEvidence.ts';
 import type { Display } from './checks/display.ts';
@@ -134,7 +135,16 @@ export function buildCurveSet(input: BuildInput): CurveSet {
 
   const { findings, figures } = runChecks(draft);
   const set = { ...draft, figures, findings: sortFindings([...fitFindings, ...findings]) };
-  return CurveSet.parse(set);
+  const parsed = CurveSet.safeParse(set);
+  if (parsed.success) return parsed.data;
+  // Inputs within the limits should never get here; if they do, say so in the user's terms
+  // (the curves of one member), not as a path inside the schema.
+  const path = parsed.error.issues[0]?.path ?? [];
+  const member = path[0] === 'members' ? members[Number(path[1])] : undefined;
+  throw new UserError(
+    `The points${member ? ` of ${show.member(member)}` : ''} give a curve figure that is not a finite number; check them for values far outside the range of the sheet.`,
+    'unusable-points',
+  );
 }
 
 /** Refuses a point beyond any pump (model/limits.ts), naming its row or trace, before a fit can overflow. */
