@@ -34,7 +34,7 @@ export async function runCommand(body: () => Promise<number> | number): Promise<
   try {
     code = await body();
   } catch (error) {
-    process.stderr.write(`pumpscribe: ${sentenceFor(error)}\n`);
+    process.stderr.write(`pumpscribe: ${sentenceFor(error).replace(/\s*\n\s*/g, ' ')}\n`); // one line, even when a parser quotes the input
     if (process.env.PUMPSCRIBE_DEBUG && error instanceof Error) process.stderr.write(`${error.stack}\n`);
     code = isProgrammerError(error) ? 3 : EXIT_BAD_INPUT;
   }

@@ -18,6 +18,7 @@ import { sheetPoint, type SheetPoint } from './points.ts';
 import { safeScale, type Sheet } from './sheet.ts';
 import { strokeLines } from './vectorCapture.ts';
 import type { StrokeLine } from './strokeJoin.ts';
+import { checkTotalPoints, checkTracePoints } from '../model/limits.ts';
 import { resolveTakeoffUnits, traceUnits } from './takeoffUnits.ts';
 import type { RasterImage } from './raster.ts';
 
@@ -82,6 +83,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
   };
 
   const outcomes: TraceOutcome[] = [];
+  let pointsSoFar = 0;
   for (const [index, trace] of takeoff.traces.entries()) {
     const id = trace.id ?? String(index + 1);
     const saved = trace.captured && trace.captured.length > 0 ? trace.captured.map(([x, y]) => sheetPoint(x, y)) : null;
@@ -105,6 +107,8 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
         note(lost ? 'takeoff.capture-lost' : 'takeoff.capture-fallback', lost ? 'warn' : 'note', `Trace ${id} (${describeTrace(trace)}): ${got.notes.join(' ')}`, id);
       }
     }
+    checkTracePoints(outcome.points.length, `Trace ${id} (${describeTrace(trace)})`); // model/limits.ts
+    checkTotalPoints((pointsSoFar += outcome.points.length), 'The take-off');
     if (outcome.points.length < 2) throw new TakeoffError(`Trace ${id} (${describeTrace(trace)}) captured fewer than 2 points; place guides on its line or give its points.`);
     const frame = takeoff.panels.find((p) => p.id === trace.panel)?.frame;
     const outside = frame ? outcome.points.filter((p) => !insideFrame(p, frame)).length : 0;
@@ -122,9 +126,12 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
     return m;
   };
   const how = new Map<Quantity, Set<string>>();
-  const add = (quantity: Quantity, diameter: number, pts: CurvePoint[], by: string) => {
-    const list = (memberFor(diameter, units.diameter).points[quantity] ??= []);
-    list.push(...pts);
+  const add = (quantity: Quantity, diameter: number, pts: CurvePoint[], by: string, trace: string) => {
+    const member = memberFor(diameter, units.diameter);
+    const list = (member.points[quantity] ??= []);
+    for (const p of pts) list.push(p);
+    const named = ((member.sources ??= {})[quantity] ??= []); // names a point the fit misses by its trace
+    for (let i = 0; i < pts.length; i++) named.push({ text: `${by === "iso" ? "iso-trace" : "trace"} ${trace}`, trace });
     const ways = how.get(quantity) ?? new Set<string>();
     how.set(quantity, ways.add(by));
   };
@@ -138,7 +145,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
     const pts = keepFlows(raw, (dropped) =>
       note('takeoff.negative-flow', 'warn', `Trace ${outcome.id} (${describeTrace(trace)}): ${dropped} point${dropped === 1 ? '' : 's'} left of zero flow were dropped; check the panel's anchors.`, outcome.id, { dropped }),
     );
-    add(trace.quantity, trace.diameter as number, pts, outcome.how);
+    add(trace.quantity, trace.diameter as number, pts, outcome.how, outcome.id);
   }
 
   for (const outcome of outcomes) {
@@ -160,7 +167,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
     for (const c of crossings) {
       const flow = toSI(cal.toData(c.at)[0], u.flow);
       if (flow < 0) continue;
-      add(trace.quantity, c.key, [[flow, toSI(trace.iso, u.value)]], 'iso');
+      add(trace.quantity, c.key, [[flow, toSI(trace.iso, u.value)]], 'iso', outcome.id);
     }
   }
 

@@ -13,6 +13,11 @@ import { displayFor, makeFinding, runChecks, sortFindings } from './checks/index
 import { fitCurve } from './chooseDegree.ts';
 import { deriveFigures } from './derived.ts';
 import { familyFigures } from './checks/speedFigures.ts';
+import { fitEvidenceFindings } from './checks/fitEvidence.ts';
+import { UserError } from '../model/errors.ts';
+import { checkBuildLimits, LimitError, MAX_MAGNITUDE_SI } from '../model/limits.ts';
+import { valueText } from './checks/fitEvidence.ts';
+import type { Display } from './checks/display.ts';
 
 export interface MemberInput {
   diameter_m?: number;
@@ -20,6 +25,17 @@ export interface MemberInput {
   speed_rpm?: number;
   label?: string;
   points: Partial<Record<Quantity, CurvePoint[]>>;
+  /**
+   * Where each point came from, in the order of `points`: a row ("line 17") or a trace
+   * ("trace h12"), so that a point the fit misses can be named as the user knows it.
+   */
+  sources?: Partial<Record<Quantity, PointSource[]>>;
+}
+
+/** The origin of one point: `text` names it in a sentence ("line 17"); `trace` links the finding to a trace. */
+export interface PointSource {
+  text: string;
+  trace?: string;
 }
 
 export interface BuildInput {
@@ -49,6 +65,9 @@ function defaultAccuracy(members: MemberInput[], quantity: Quantity): number {
 
 export function buildCurveSet(input: BuildInput): CurveSet {
   const show = displayFor(input.display_units);
+  const from = input.provenance?.points_file ? `The points table "${input.provenance.points_file}"` : input.provenance?.takeoff ? `The take-off "${input.provenance.takeoff}"` : 'The input';
+  checkBuildLimits(input.members, from, (m) => (m.diameter_m !== undefined ? `diameter ${show.diameter(m.diameter_m)}` : `speed ${m.speed_rpm ?? input.speed_rpm} rpm`));
+  checkMagnitudes(input.members, show);
   const fitFindings: Finding[] = [];
   const accuracy = Object.fromEntries(
     QUANTITY_ORDER.map((q) => [q, input.readingAccuracy?.[q] ?? defaultAccuracy(input.members, q)]),
@@ -61,10 +80,14 @@ export function buildCurveSet(input: BuildInput): CurveSet {
     for (const quantity of QUANTITY_ORDER) {
       const raw = m.points[quantity];
       if (!raw || raw.length === 0) continue;
-      const points = [...raw].sort((a, b) => a[0] - b[0]).map(([q, y]) => [q, y] as CurvePoint);
+      const order = raw.map((_, i) => i).sort((a, b) => (raw[a] as CurvePoint)[0] - (raw[b] as CurvePoint)[0]);
+      const points = order.map((i) => [...(raw[i] as CurvePoint)] as CurvePoint);
+      const given = m.sources?.[quantity];
+      const sources = given && given.length === raw.length ? order.map((i) => given[i] as PointSource) : undefined;
       const curve: Curve = { points };
       try {
         curve.fit = fitCurve(points, quantity, { tolerance: accuracy[quantity] });
+        fitFindings.push(...fitEvidenceFindings({ member: { ...shell, label: m.label }, quantity, points, fit: curve.fit, tolerance: accuracy[quantity], sources }, show));
       } catch (error) {
         if (!(error instanceof Error) || error.name !== 'FitError') throw error;
         fitFindings.push(
@@ -112,5 +135,34 @@ export function buildCurveSet(input: BuildInput): CurveSet {
 
   const { findings, figures } = runChecks(draft);
   const set = { ...draft, figures, findings: sortFindings([...fitFindings, ...findings]) };
-  return CurveSet.parse(set);
+  const parsed = CurveSet.safeParse(set);
+  if (parsed.success) return parsed.data;
+  // Inputs within the limits should never get here; if they do, say so in the user's terms
+  // (the curves of one member), not as a path inside the schema.
+  const path = parsed.error.issues[0]?.path ?? [];
+  const member = path[0] === 'members' ? members[Number(path[1])] : undefined;
+  throw new UserError(
+    `The points${member ? ` of ${show.member(member)}` : ''} give a curve figure that is not a finite number; check them for values far outside the range of the sheet.`,
+    'unusable-points',
+  );
+}
+
+/** Refuses a point beyond any pump (model/limits.ts), naming its row or trace, before a fit can overflow. */
+function checkMagnitudes(members: readonly MemberInput[], show: Display): void {
+  for (const m of members) {
+    for (const quantity of QUANTITY_ORDER) {
+      const points = m.points[quantity] ?? [];
+      points.forEach(([q, y], i) => {
+        const flowOff = !(Math.abs(q) <= MAX_MAGNITUDE_SI.flow);
+        if (!flowOff && Math.abs(y) <= MAX_MAGNITUDE_SI[quantity]) return;
+        const where = m.sources?.[quantity]?.[i]?.text;
+        const who = `${where ? `${where[0]?.toUpperCase()}${where.slice(1)}: the` : 'The'} ${NAMES[quantity]} point of ${m.diameter_m !== undefined ? show.diameter(m.diameter_m) : `${m.speed_rpm ?? 'the rated'} rpm`}`;
+        throw new LimitError(
+          flowOff
+            ? `${who} has a flow of ${show.flow(q)}, beyond any pump (limit ${show.flow(MAX_MAGNITUDE_SI.flow)}); check the number and the flow unit.`
+            : `${who} has a value of ${valueText(show, quantity, y)}, beyond any pump (limit ${valueText(show, quantity, MAX_MAGNITUDE_SI[quantity])}); check the number and its unit.`,
+        );
+      });
+    }
+  }
 }

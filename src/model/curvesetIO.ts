@@ -5,6 +5,7 @@
 import { UserError } from './errors.ts';
 import { ZodError } from 'zod';
 import { CURVESET_FORMAT, CURVESET_VERSION, CurveSet } from './curveset.ts';
+import { checkCurveSetDocumentLimits } from './limits.ts';
 
 export class CurveSetFormatError extends UserError {
   override name = 'CurveSetInputError';
@@ -38,6 +39,7 @@ export function toCurveSet(value: unknown, source = 'The file'): CurveSet {
     doc = step(doc);
     version = doc.version as number;
   }
+  checkCurveSetDocumentLimits(doc, source); // model/limits.ts: refuse what no sheet holds, before validating it
   const parsed = CurveSet.safeParse(doc);
   if (!parsed.success) throw new CurveSetFormatError(`${source} is not a valid curve set — ${firstIssues(parsed.error)}.`);
   return parsed.data;

@@ -19,6 +19,7 @@
  */
 import { UserError } from './errors.ts';
 import { QUANTITIES, type Quantity } from './curveset.ts';
+import { MAX_TABLE_ROWS, tooManyRows } from './limits.ts';
 
 export class PointsTableError extends UserError {
   override name = 'PointsTableInputError';
@@ -135,6 +136,7 @@ export function readPointsTable(text: string, source = 'The points file'): Point
     // Spaces around the row go, but not tabs: with a tab delimiter they are empty cells.
     const raw = (lines[i] as string).replace(/^ +| +$/g, '');
     if (raw.trim() === '' || isComment(raw)) continue;
+    if (rows.length >= MAX_TABLE_ROWS) throw tooManyRows(source); // limits.ts: far beyond any sheet
     const line = i + 1;
     const cells = splitLine(raw, delimiter);
     // Spreadsheets often drop empty cells at the end of a row of a wide table.

@@ -118,6 +118,7 @@ function build(file: string, o: BuildOptions): number {
     byDiameter.set(key, member);
     const list = (member.points[row.quantity] ??= []);
     list.push([toSI(row.flow, flowUnit), toSI(row.value, units[row.quantity])] as CurvePoint);
+    ((member.sources ??= {})[row.quantity] ??= []).push({ text: `line ${row.line}` }); // names a point the fit misses
   }
 
   // From a points table, a curve too short to fit is unusable input, not a finding.

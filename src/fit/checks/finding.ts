@@ -36,7 +36,7 @@ export function makeFinding(spec: FindingSpec): Finding {
   }
   const figures: Record<string, number> = {};
   for (const [k, v] of Object.entries(spec.figures ?? {})) if (Number.isFinite(v)) figures[k] = v;
-  return { id: parts.join('/'), code: spec.code, severity: spec.severity, subject, message: spec.message, method: spec.method, figures };
+  return { id: parts.join('/'), code: spec.code, severity: spec.severity, subject, message: withoutPlaceholders(spec.message), method: spec.method, figures };
 }
 
 const ORDER: Record<Severity, number> = { fail: 0, warn: 1, note: 2 };
@@ -50,4 +50,17 @@ export function worstSeverity(findings: readonly Finding[]): Severity | undefine
   if (findings.some((f) => f.severity === 'fail')) return 'fail';
   if (findings.some((f) => f.severity === 'warn')) return 'warn';
   return findings.length ? 'note' : undefined;
+}
+
+/** A figure that is not a number, as the formatters print it: NaN, ±Infinity, or the "—" placeholder. */
+const NOT_A_FIGURE = /[+−-]?(?:NaN|Infinity)|—/g;
+
+/**
+ * Last line of defence for clean output: a figure that could not be computed is never shown
+ * as NaN, Infinity or "—". It is said in words, and the finding says why. Checks should
+ * leave such clauses out themselves (affinityCheck does); this catches what they miss.
+ */
+export function withoutPlaceholders(message: string): string {
+  if (!message.match(NOT_A_FIGURE)) return message;
+  return `${message.replace(NOT_A_FIGURE, '(not computable)')} A figure marked "not computable" could not be evaluated from the fitted curves (they overflow or are undefined there); check the points and fits of this curve.`;
 }
