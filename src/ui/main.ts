@@ -1,11 +1,12 @@
 /**
  * Entry of the browser app. "#/library" and "#/compare" show the library screens; anything
- * else is the take-off workbench. On start the workbench offers to restore autosaved work.
+ * else is the take-off workbench. On start the workbench offers to restore the kept document
+ * this tab had (or the most recent one no other tab has open).
  */
 import './styles.css';
 import { h } from './dom/h.ts';
 import { Workbench } from './app/workbench.ts';
-import type { SavedWork } from './persist/autosave.ts';
+import type { SavedDocument } from './persist/records.ts';
 
 const root = document.getElementById('app') as HTMLElement;
 const benchRoot = h('div', { class: 'bench-root' });
@@ -13,7 +14,7 @@ const libraryRoot = h('div', { class: 'library-root', hidden: true });
 root.replaceChildren(benchRoot, libraryRoot);
 let bench: Workbench | null = null;
 
-function restoreBanner(wb: Workbench, saved: SavedWork): HTMLElement {
+function restoreBanner(wb: Workbench, saved: SavedDocument): HTMLElement {
   const when = new Date(saved.savedAt);
   const points = saved.draft.traces.reduce((s, t) => s + (t.points ?? t.captured ?? []).length, 0);
   const banner = h('div', { class: 'restore', role: 'dialog', 'aria-modal': 'false', 'aria-labelledby': 'restore-title' },
@@ -21,7 +22,7 @@ function restoreBanner(wb: Workbench, saved: SavedWork): HTMLElement {
       `${saved.draft.sheet?.name ?? 'A sheet'}: ${saved.draft.panels.length} panels, ${saved.draft.traces.length} traces, ${points} points — kept in this browser on ${when.toLocaleDateString()} at ${when.toLocaleTimeString()}.`),
     h('div', { class: 'buttons' },
       h('button', { type: 'button', class: 'primary', id: 'restore-yes', onclick: () => { banner.remove(); void wb.flow.restore(saved); } }, 'Restore it'),
-      h('button', { type: 'button', id: 'restore-no', onclick: () => { banner.remove(); wb.store.say('Starting afresh. The unfinished take-off stays in this browser until the next edit replaces it.', 'info'); } }, 'Start afresh')));
+      h('button', { type: 'button', id: 'restore-no', onclick: () => { banner.remove(); wb.autosave.release(); wb.store.say('Starting afresh. The unfinished take-off stays kept in this browser; reload to be offered it again.', 'info'); } }, 'Start afresh')));
   return banner;
 }
 

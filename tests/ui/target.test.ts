@@ -46,7 +46,7 @@ describe('what the next click traces', () => {
   });
 
   it('names the target in words for the status line', () => {
-    expect(targetName({ quantity: 'head', lines: 'diameter', diameter: 330 }, { diameter: 'mm', power: 'kW' })).toBe('head curve of 330 mm');
-    expect(targetName({ quantity: 'efficiency', lines: 'iso', iso: 78 }, { diameter: 'mm', power: 'kW' })).toBe('78 % efficiency line');
+    expect(targetName({ quantity: 'head', lines: 'diameter', diameter: 330 }, { flow: 'm3/h', head: 'm', diameter: 'mm', power: 'kW' })).toBe('head curve of 330 mm');
+    expect(targetName({ quantity: 'efficiency', lines: 'iso', iso: 78 }, { flow: 'm3/h', head: 'm', diameter: 'mm', power: 'kW' })).toBe('78 % efficiency line');
   });
 });

@@ -6,13 +6,13 @@
  */
 import { ZodError } from 'zod';
 import { describeZodError } from '../../model/errors.ts';
-import { choosePage, loadSheet, readFromSheet } from '../store/actions/setup.ts';
+import { choosePage, newSheetDraft, readFromSheet } from '../store/actions/setup.ts';
 import { readHints, type TextItem } from '../geometry/hints.ts';
 import type { Draft, SheetRef } from '../store/draft.ts';
 import { pointsOf } from '../store/draft.ts';
 import { fromTakeoffFile } from '../store/takeoffFile.ts';
 import type { Step } from '../store/store.ts';
-import type { SavedWork } from '../persist/autosave.ts';
+import { AUTOSAVE_FORMAT, AUTOSAVE_VERSION, chooseOffer, type SavedDocument } from '../persist/records.ts';
 import type { LoadedSheet } from './bench.ts';
 import type { Workbench } from './workbench.ts';
 
@@ -89,8 +89,12 @@ export class SheetFlow {
     await this.openBytes({ bytes, name: file.name, mime: mimeOf(file), sha256: '' }, options);
   }
 
-  /** Opens sheet bytes in the worker; on success replaces the sheet (and the draft, for a take-off file or a restore). */
-  async openBytes(sheet: SheetBytes, options: { takeoff?: unknown; takeoffName?: string; restore?: SavedWork }): Promise<void> {
+  /**
+   * Opens sheet bytes in the worker; on success the sheet is replaced, and with it the document:
+   * a new sheet or a take-off file starts a new document (a fresh id, no library entry), a
+   * restore brings back the kept one.
+   */
+  async openBytes(sheet: SheetBytes, options: { takeoff?: unknown; takeoffName?: string; restore?: SavedDocument }): Promise<void> {
     this.progress(`Opening ${sheet.name}`);
     const [opened] = await Promise.all([
       this.bench.worker.call('open', { bytes: sheet.bytes.slice(0), mime: sheet.mime, name: sheet.name }, (p) => this.progress(p.label, p.fraction)),
@@ -98,15 +102,19 @@ export class SheetFlow {
     ]);
     const kept = { ...sheet, sha256: opened.sha256 };
     const pageCount = opened.pages.length;
-    const firstPage = (page: number) => opened.pages[page - 1] ?? opened.pages[0] ?? { width: 1, height: 1 };
-    const refFor = (page: number): SheetRef => ({ name: sheet.name, sha256: opened.sha256, kind: opened.kind, mime: sheet.mime, page, pageCount, width: firstPage(page).width, height: firstPage(page).height });
+    const pageSize = (page: number) => opened.pages[page - 1] ?? opened.pages[0] ?? { width: 1, height: 1 };
+    const opening = (page: number): Omit<SheetRef, 'path'> => ({ name: sheet.name, sha256: opened.sha256, kind: opened.kind, mime: sheet.mime, page, pageCount, width: pageSize(page).width, height: pageSize(page).height });
 
     let draft: Draft | null = null;
     let step: Step = 'axes';
+    const cautions: string[] = [];
     if (options.takeoff !== undefined) {
-      const rebuilt = fromTakeoffFile(options.takeoff, refFor(1));
-      const page = Math.min(rebuilt.sheet?.page ?? 1, pageCount);
-      draft = { ...rebuilt, sheet: refFor(page) };
+      const rebuilt = fromTakeoffFile(options.takeoff, opening(1));
+      const wanted = rebuilt.sheet?.page ?? 1;
+      const page = Math.min(wanted, pageCount);
+      if (page !== wanted) cautions.push(`The take-off file names page ${wanted}, but the sheet has ${pageCount}; page ${page} is shown.`);
+      draft = { ...rebuilt, sheet: { ...opening(page), path: rebuilt.sheet?.path ?? sheet.name } };
+      if (rebuilt.sheet_sha256 && rebuilt.sheet_sha256 !== opened.sha256) cautions.push('This sheet is not the one the take-off file was captured from (its SHA-256 differs): check that the anchors and guides still sit on its lines.');
       step = 'review';
     } else if (options.restore) {
       draft = options.restore.draft;
@@ -117,11 +125,12 @@ export class SheetFlow {
     this.canvas().clear();
     this.bytes = kept;
     this.sheet = { name: sheet.name, mime: sheet.mime, kind: opened.kind, pages: opened.pages, thumbnails: new Map(), loadedKind: null, texts: 0 };
-    if (draft) {
-      if (options.restore) this.bench.restoreDraft(draft, step);
-      else this.store.dispatch(() => ({ draft: draft as Draft, label: `open ${options.takeoffName ?? 'take-off file'}`, undoable: true }));
+    if (options.restore && draft) {
+      const r = options.restore;
+      this.store.replace(draft, { step, target: r.target, unitSystem: r.unitSystem }, { id: r.id, library: r.library });
     } else {
-      this.store.dispatch(loadSheet(refFor(1), sheet.name.replace(/\.[^.]+$/, '')));
+      this.store.newDocument(draft ?? newSheetDraft({ ...opening(1), path: sheet.name }, sheet.name.replace(/\.[^.]+$/, ''), this.store.draft));
+      void this.bench.autosave.claim(this.store.doc.id);
     }
     void this.bench.autosave.saveSheet({ key: opened.sha256, name: sheet.name, mime: sheet.mime, bytes: sheet.bytes }).catch((e: Error) => this.store.say(e.message, 'caution'));
     if (pageCount > 1) void this.makeThumbnails();
@@ -129,7 +138,7 @@ export class SheetFlow {
       await this.showPage(this.store.draft.sheet?.page ?? 1);
       this.store.setSession({ step: draft ? step : 'axes', drawingFrame: !draft || this.store.draft.panels.length === 0, activePanel: null });
       if (options.takeoff !== undefined) await this.captureMissing();
-      if (draft) this.store.say(`Opened ${options.takeoffName ?? sheet.name}: ${this.store.draft.traces.length} traces on ${this.store.draft.panels.length} panels.`, 'done');
+      if (draft) this.store.say(`Opened ${options.takeoffName ?? sheet.name}: ${this.store.draft.traces.length} traces on ${this.store.draft.panels.length} panels.${cautions.length ? ` ${cautions.join(' ')}` : ''}`, cautions.length ? 'caution' : 'done');
       else this.takeHints(sheet.name);
     } else {
       this.progress(null);
@@ -213,7 +222,7 @@ export class SheetFlow {
     for (const [i, t] of missing.entries()) {
       this.progress(`Tracing ${i + 1} of ${missing.length}`, i / missing.length);
       try {
-        const answer = await this.bench.worker.call('capture', { guides: t.guides.map((g) => [g[0], g[1]]), method: t.method });
+        const answer = await this.bench.worker.call('capture', { guides: t.guides.map((g) => [g[0], g[1]]), method: t.method, ...(t.extent ? { extent: t.extent } : {}) });
         const draft = this.store.draft;
         this.store.dispatch(() => ({ draft: { ...draft, traces: draft.traces.map((x) => (x.id === t.id ? { ...x, captured: answer.points } : x)) }, label: 'capture', undoable: false }));
       } catch (error) {
@@ -223,11 +232,12 @@ export class SheetFlow {
     this.progress(null);
   }
 
+  /** Keeps this document in the browser, under its own id. */
   autosaveNow(): void {
-    const { draft, session } = this.store;
+    const { draft, session, doc } = this.store;
     if (!draft.sheet) return;
     this.bench.autosave
-      .save({ format: 'pumpscribe.autosave', version: 1, savedAt: new Date().toISOString(), draft, step: session.step, target: session.target, sheetKey: this.bytes?.sha256 ?? null })
+      .save({ format: AUTOSAVE_FORMAT, version: AUTOSAVE_VERSION, id: doc.id, savedAt: new Date().toISOString(), draft, library: doc.library, step: session.step, target: session.target, unitSystem: session.unitSystem, sheetKey: this.bytes?.sha256 ?? null })
       .then(() => {
         this.bench.autosaved = `Kept in this browser at ${new Date().toLocaleTimeString()}`;
         this.bench.requestRender();
@@ -238,18 +248,29 @@ export class SheetFlow {
       });
   }
 
-  /** On start: offers to restore autosaved work. */
-  async offerRestore(): Promise<SavedWork | null> {
+  /**
+   * On start: the kept document to offer — the one this tab had before a reload, else the most
+   * recent one that no other tab has open. The offered document is taken for this tab at once,
+   * so that another tab opened meanwhile is not offered it too.
+   */
+  async offerRestore(): Promise<SavedDocument | null> {
     try {
-      const saved = await this.bench.autosave.load();
-      if (!saved?.draft.sheet || !saved.sheetKey) return null;
-      return saved;
+      const autosave = this.bench.autosave;
+      const tabDocument = autosave.tabDocument();
+      // A reloaded page waits a moment for its previous page to let go of the document.
+      if (tabDocument && !(await autosave.claim(tabDocument, 3000))) return null;
+      const docs = await autosave.list();
+      const offer = chooseOffer(docs, { tabDocument, heldElsewhere: await autosave.heldElsewhere() });
+      if (!offer) return null;
+      if (offer.id !== tabDocument && !(await autosave.claim(offer.id))) return null;
+      void autosave.prune().catch(() => undefined);
+      return offer;
     } catch {
       return null;
     }
   }
 
-  async restore(saved: SavedWork): Promise<void> {
+  async restore(saved: SavedDocument): Promise<void> {
     const sheet = saved.sheetKey ? await this.bench.autosave.loadSheet(saved.sheetKey) : null;
     if (!sheet) {
       this.store.say('The autosaved sheet could not be found in this browser; open the sheet again to continue.', 'error');
@@ -257,8 +278,11 @@ export class SheetFlow {
     }
     this.restoring = true;
     try {
+      if (!(await this.bench.autosave.claim(saved.id))) {
+        this.store.say('This take-off is open in another tab; continue there, or close that tab first.', 'error');
+        return;
+      }
       await this.openBytes({ bytes: sheet.bytes, name: sheet.name, mime: sheet.mime, sha256: sheet.key }, { restore: saved });
-      this.store.setSession({ target: saved.target });
       this.store.say(`Restored the take-off of ${sheet.name}: ${saved.draft.traces.length} traces, ${saved.draft.traces.reduce((s, t) => s + pointsOf(t).length, 0)} points.`, 'done');
     } catch (error) {
       this.progress(null);

@@ -18,7 +18,7 @@ import { useProposal } from '../store/actions/panels.ts';
 import type { AnchorProposal } from '../worker/protocol.ts';
 import { bestProposal } from './proposals.ts';
 import { plotsOfFrame } from '../geometry/hints.ts';
-import type { Draft } from '../store/draft.ts';
+import { axisUnits, frameOf, type Draft } from '../store/draft.ts';
 import { Store, type Step } from '../store/store.ts';
 import { panelAt, targetFor } from '../store/target.ts';
 import { AnchorTool } from '../tools/anchorTool.ts';
@@ -73,7 +73,6 @@ export class Workbench implements Bench, ToolHost {
   autosaved = '';
   private dutyForm: DutyForm = EMPTY_DUTY;
   private dutyMemo: { key: string; outcome: DutyOutcome } | null = null;
-  library: { state: 'idle' | 'saving' | 'saved' | 'failed'; text: string } = { state: 'idle', text: '' };
 
   constructor(private readonly root: HTMLElement) {
     const stage = h('div', { class: 'stage', tabindex: '0', role: 'application', 'aria-label': 'The sheet. Zoom with the wheel, + and −; pan with the arrow keys or by dragging with the middle button or with Space held.' }) as HTMLDivElement;
@@ -116,8 +115,16 @@ export class Workbench implements Bench, ToolHost {
     this.canvas.onView(() => this.requestRender('light'));
     this.flow = new SheetFlow(this);
     this.downloads = new Downloads(this);
+    let kept = { step: this.store.session.step, target: this.store.session.target, unitSystem: this.store.session.unitSystem };
     this.store.subscribe((_, reason) => {
-      if (reason !== 'session') {
+      const { step, target, unitSystem } = this.store.session;
+      if (reason === 'session' && (step !== kept.step || target !== kept.target || unitSystem !== kept.unitSystem)) {
+        // Where the engineer is belongs to the document too: a reload comes back to it.
+        kept = { step, target, unitSystem };
+        this.flow.autosaveNow();
+      }
+      if (reason === 'document') this.flow.autosaveNow();
+      else if (reason !== 'session') {
         const before = this.calibratedPanels();
         this.derivedState.update(this.store.draft, this.flow.pageReady);
         this.flow.autosaveNow();
@@ -204,7 +211,7 @@ export class Workbench implements Bench, ToolHost {
     this.parts.keys.hidden = !this.keysOpen;
     if (this.keysOpen && !this.parts.keys.firstChild) this.parts.keys.append(keysHelp(SHORTCUTS, () => this.toggleKeys()));
     this.parts.empty.hidden = this.store.draft.sheet !== null;
-    morph(this.parts.side, h('aside', { class: 'side' }, stepList(this, { load: loadStep, axes: axesStep, trace: traceStep, review: reviewStep, save: (b) => saveStep(b, this.library) })));
+    morph(this.parts.side, h('aside', { class: 'side' }, stepList(this, { load: loadStep, axes: axesStep, trace: traceStep, review: reviewStep, save: saveStep })));
     morph(this.parts.status, statusLine(this));
     const showChart = (this.store.session.step === 'review' || this.store.session.step === 'save') && this.derived.curveSet !== null;
     this.parts.chart.hidden = !showChart;
@@ -242,7 +249,7 @@ export class Workbench implements Bench, ToolHost {
     }
     const d = cal.calibration.toData(p.sheet);
     const yName = { head: 'H', efficiency: 'η', power: 'P', npshr: 'NPSHr' }[panel.plots];
-    this.readout = `Q ${num(d[0], 4)} ${unitText(panel.units.x)} · ${yName} ${num(d[1], 4)} ${unitText(panel.units.y)} (${QUANTITY_NAMES[panel.plots].toLowerCase()} panel)`;
+    this.readout = `Q ${num(d[0], 4)} ${unitText(axisUnits(draft.units, panel).x)} · ${yName} ${num(d[1], 4)} ${unitText(axisUnits(draft.units, panel).y)} (${QUANTITY_NAMES[panel.plots].toLowerCase()} panel)`;
   }
 
   private sceneProposals(): { at: SheetXY; axis: 'x' | 'y'; value: number }[] {
@@ -322,7 +329,7 @@ export class Workbench implements Bench, ToolHost {
     const panel = this.store.draft.panels.find((p) => p.id === id);
     this.store.setSession({ activePanel: this.store.session.activePanel === id ? null : id, drawingFrame: false });
     if (panel) {
-      const [l, t, r, b] = panel.frame;
+      const [l, t, r, b] = frameOf(panel);
       this.canvas.showRect([l, t, r - l, b - t], 60);
     }
   }
@@ -332,7 +339,7 @@ export class Workbench implements Bench, ToolHost {
     const trace = this.store.draft.traces.find((t) => t.id === id);
     const panel = trace ? this.store.draft.panels.find((p) => p.id === trace.panel) : undefined;
     if (panel) {
-      const [l, t, r, b] = panel.frame;
+      const [l, t, r, b] = frameOf(panel);
       this.canvas.showRect([l, t, r - l, b - t], 40);
     }
   }
@@ -340,7 +347,7 @@ export class Workbench implements Bench, ToolHost {
   retrace(id: string): void {
     const trace = this.store.draft.traces.find((t) => t.id === id);
     if (!trace || trace.guides.length === 0) return;
-    void this.capture(trace.guides, trace.method).then(
+    void this.capture(trace.guides, trace.method, trace.extent).then(
       ({ points, gaps }) => {
         this.store.dispatch(setGuides(id, trace.guides, points, 're-trace'));
         this.store.say(gaps.length ? gaps.join(' ') : `Re-traced: ${points.length} points.`, gaps.length ? 'caution' : 'done');
@@ -353,8 +360,8 @@ export class Workbench implements Bench, ToolHost {
     this.downloads.download(what);
   }
 
-  saveToLibrary(): void {
-    void this.downloads.saveToLibrary();
+  saveToLibrary(asNew = false): void {
+    void this.downloads.saveToLibrary(asNew);
   }
 
   zoom(action: 'in' | 'out' | 'fit'): void {
@@ -409,10 +416,10 @@ export class Workbench implements Bench, ToolHost {
     return this.snapNow(at);
   }
 
-  async capture(guides: readonly SheetXY[], method: 'auto' | 'vector' | 'raster'): Promise<{ points: SheetXY[]; gaps: string[] }> {
+  async capture(guides: readonly SheetXY[], method: 'auto' | 'vector' | 'raster', extent?: 'guides' | 'line'): Promise<{ points: SheetXY[]; gaps: string[] }> {
     this.store.setSession({ busy: true, progress: { label: 'Tracing…', fraction: null } });
     try {
-      const answer = await this.worker.call('capture', { guides: guides.map((g) => [g[0], g[1]]), method }, (p) => this.store.setSession({ progress: { label: p.label, fraction: p.fraction } }));
+      const answer = await this.worker.call('capture', { guides: guides.map((g) => [g[0], g[1]]), method, ...(extent ? { extent } : {}) }, (p) => this.store.setSession({ progress: { label: p.label, fraction: p.fraction } }));
       if (answer.points.length < 2) {
         const why = answer.gaps.length ? ` (${answer.gaps.join(' ')})` : '';
         throw new Error(`No line could be followed from this click${why}; click right on the line, zoom in if lines run close, or add guides with Shift-click.`);
@@ -436,7 +443,7 @@ export class Workbench implements Bench, ToolHost {
       return;
     }
     void this.worker.call('propose', {}).then((all) => {
-      const best = bestProposal(all, panel.frame);
+      const best = bestProposal(all, frameOf(panel));
       if (best) {
         this.proposals.set(panelId, best);
         this.store.say(`Anchors were read from the sheet's text for this panel (residual ${num(best.residual, 2)} % of span). Check them, then click “Use the proposed anchors”.`, 'info');
@@ -478,10 +485,6 @@ export class Workbench implements Bench, ToolHost {
       el?.focus();
       el?.select();
     }));
-  }
-
-  restoreDraft(draft: Draft, step: Step): void {
-    this.store.replace(draft, { step });
   }
 
   private bindDrop(): void {

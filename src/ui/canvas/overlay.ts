@@ -5,7 +5,7 @@
  */
 import type { Quantity } from '../../model/curveset.ts';
 import type { SheetXY } from '../../model/takeoff.ts';
-import { anchorAxis, pointsOf, type Draft, type PanelDraft, type TraceDraft } from '../store/draft.ts';
+import { frameOf, anchorAxis, pointsOf, type Draft, type PanelDraft, type TraceDraft } from '../store/draft.ts';
 import type { Session } from '../store/store.ts';
 import { toScreen, type View } from './view.ts';
 
@@ -84,7 +84,7 @@ function label(ctx: CanvasRenderingContext2D, text: string, x: number, y: number
 const PANEL_INK = '#0d6b6b';
 
 function paintPanel(ctx: CanvasRenderingContext2D, view: View, panel: PanelDraft, active: boolean, calibrated: boolean): void {
-  const [l, t, r, b] = panel.frame;
+  const [l, t, r, b] = frameOf(panel);
   const [x0, y0] = toScreen(view, [l, t]);
   const [x1, y1] = toScreen(view, [r, b]);
   ctx.beginPath();

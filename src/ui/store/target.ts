@@ -6,7 +6,7 @@
  */
 import type { Quantity } from '../../model/curveset.ts';
 import type { SheetXY } from '../../model/takeoff.ts';
-import type { Draft, PanelDraft } from './draft.ts';
+import { frameOf, powerUnit, type Draft, type PanelDraft, type UnitsDraft } from './draft.ts';
 import type { TraceTarget } from './store.ts';
 
 export const QUANTITY_ORDER: readonly Quantity[] = ['head', 'efficiency', 'power', 'npshr'];
@@ -25,12 +25,16 @@ export function panelFor(draft: Draft, target: TraceTarget): PanelDraft | undefi
 /** The panel whose frame holds `at` (with a small margin), the smallest if frames overlap. */
 export function panelAt(draft: Draft, at: SheetXY): PanelDraft | undefined {
   const holding = draft.panels.filter((p) => {
-    const [l, t, r, b] = p.frame;
+    const [l, t, r, b] = frameOf(p);
     const mx = 0.02 * (r - l);
     const my = 0.02 * (b - t);
     return at[0] >= l - mx && at[0] <= r + mx && at[1] >= t - my && at[1] <= b + my;
   });
-  holding.sort((a, b) => (a.frame[2] - a.frame[0]) * (a.frame[3] - a.frame[1]) - (b.frame[2] - b.frame[0]) * (b.frame[3] - b.frame[1]));
+  const area = (p: PanelDraft) => {
+    const f = frameOf(p);
+    return (f[2] - f[0]) * (f[3] - f[1]);
+  };
+  holding.sort((a, b) => area(a) - area(b));
   return holding[0];
 }
 
@@ -102,9 +106,9 @@ export function targetProblem(draft: Draft, target: TraceTarget): string | null 
 const NAMES: Record<Quantity, string> = { head: 'head', efficiency: 'efficiency', power: 'power', npshr: 'NPSHr' };
 
 /** "head curve of 250 mm", "70 % efficiency line": the target in words, for the status line. */
-export function targetName(target: TraceTarget, units: { diameter: string; power: string }): string {
+export function targetName(target: TraceTarget, units: UnitsDraft): string {
   if (target.lines === 'iso') {
-    const unit = target.quantity === 'efficiency' ? '%' : units.power;
+    const unit = target.quantity === 'efficiency' ? '%' : powerUnit(units);
     return target.iso === undefined ? `line of constant ${NAMES[target.quantity]}` : `${target.iso} ${unit} ${NAMES[target.quantity]} line`;
   }
   return target.diameter === undefined ? `${NAMES[target.quantity]} curve` : `${NAMES[target.quantity]} curve of ${target.diameter} ${units.diameter}`;

@@ -7,7 +7,7 @@ import type { Bench } from '../app/bench.ts';
 import type { Finding } from '../../model/curveset.ts';
 import { fromSI, parseUnit } from '../../units/index.ts';
 import { traceName } from '../store/actions/traces.ts';
-import type { Draft } from '../store/draft.ts';
+import { powerUnit, type Draft } from '../store/draft.ts';
 import { chartUnits } from './familyChart.ts';
 import { dutyPanel } from './dutyPanel.ts';
 import { num, SAFETY_SENTENCE, unitText } from './words.ts';
@@ -59,7 +59,7 @@ export function reviewStep(bench: Bench): HTMLElement {
       h('thead', null, h('tr', null, h('th', { scope: 'col' }, 'Trace'), h('th', { scope: 'col' }, 'RMS'), h('th', { scope: 'col' }, 'Largest'), h('th', { scope: 'col' }, 'Largest, % of span'))),
       h('tbody', null, draft.traces.map((t) => {
         const r = derived.residuals.get(t.id);
-        const name = traceName(t, unitText(draft.units.diameter), unitText(draft.units.power));
+        const name = traceName(t, unitText(draft.units.diameter), unitText(powerUnit(draft.units)));
         return h('tr', { 'data-key': `r-${t.id}`, class: session.highlightedTrace === t.id ? 'picked' : '' },
           h('th', { scope: 'row' }, h('button', { type: 'button', class: 'link', title: r ? `${r.points} points compared with the fitted curve` : 'no fitted curve yet', onclick: () => bench.showTrace(t.id) }, name)),
           h('td', null, r ? `${num(r.rms, 2)} ${unitText(r.unit.label || r.unit.token)}` : '—'),
