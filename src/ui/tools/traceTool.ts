@@ -10,7 +10,7 @@ import { nearestOnPolyline } from '../../digitize/polyline.ts';
 import type { CanvasPointer } from '../canvas/sheetCanvas.ts';
 import { addTrace, deletePoint, insertPoint, movePoint, setGuides, traceName } from '../store/actions/traces.ts';
 import { powerUnit, pointsOf, type TraceDraft } from '../store/draft.ts';
-import { nextTarget, panelAt, panelFor, retargetForPanel, targetName, targetProblem } from '../store/target.ts';
+import { nextTarget, panelAt, panelFor, retargetForPanel, sharedCurveSentence, targetName, targetProblem, tracesOfCurve } from '../store/target.ts';
 import { screenDistance, type Tool, type ToolHost } from './tool.ts';
 
 type State =
@@ -209,6 +209,7 @@ export class TraceTool implements Tool {
       }
       const spec = { panel: panel.id, quantity: target.quantity, ...(target.lines === 'iso' ? { iso: target.iso as number } : { diameter: target.diameter as number }) };
       const before = this.store.draft.traces.length;
+      const already = tracesOfCurve(this.store.draft, target);
       // The guide is kept even when no line was found from it alone: more guides may find it.
       if (this.store.dispatch(addTrace(spec, [at], points))) {
         const made = this.store.draft.traces[before];
@@ -216,7 +217,9 @@ export class TraceTool implements Tool {
         // The new trace is not selected for editing, so that its points do not catch the next click.
         this.store.setSession({ lastTraced: made?.id ?? null, selectedTrace: null, selectedPoint: null, target: next });
         const name = made ? traceName(made, this.store.draft.units.diameter, powerUnit(this.store.draft.units)) : 'the curve';
-        if (failure) this.store.say(`${failure} The guide for ${name} is kept: Shift-click further guides along its line, or drag this guide onto it.`, 'caution');
+        const shared = already.length && made ? ` ${sharedCurveSentence({ quantity: made.quantity, diameter: made.diameter as number, ids: [...already.map((t) => t.id), made.id] }, this.store.draft.units.diameter)}` : '';
+        if (failure) this.store.say(`${failure} The guide for ${name} is kept: Shift-click further guides along its line, or drag this guide onto it.${shared}`, 'caution');
+        else if (shared) this.store.say(`Traced ${name}: ${points.length} points.${shared}`, 'caution');
         else if (gaps.length) this.store.say(`Traced ${name} with ${points.length} points, but ${gaps.join(' ')} Add a guide beyond the gap with Shift-click.`, 'caution');
         else this.store.say(`Traced ${name}: ${points.length} points.`, 'done');
       }

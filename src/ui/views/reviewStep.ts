@@ -2,6 +2,7 @@
  * Step 4: findings in plain sentences, each linked to its trace; residuals per trace; the
  * figures of each diameter. The family chart itself sits beside the sheet.
  */
+import { sharedCurves, sharedCurveSentence } from '../store/target.ts';
 import { h } from '../dom/h.ts';
 import type { Bench } from '../app/bench.ts';
 import type { Finding } from '../../model/curveset.ts';
@@ -43,6 +44,7 @@ export function reviewStep(bench: Bench): HTMLElement {
   const counts = { fail: findings.filter((f) => f.severity === 'fail').length, warn: findings.filter((f) => f.severity === 'warn').length };
   return h('div', { class: 'step-body' },
     h('p', { class: 'caution', role: 'note' }, h('strong', null, 'Caution: '), SAFETY_SENTENCE),
+    sharedCurves(draft).map((g) => h('p', { class: 'caution shared-curve', role: 'note' }, sharedCurveSentence(g, unitText(draft.units.diameter)))),
     h('p', { class: 'summary' }, `${set.members.length} diameters · ${counts.fail} failing, ${counts.warn} to check, ${findings.length - counts.fail - counts.warn} notes.`),
     h('h4', null, 'Findings'),
     findings.length === 0 ? h('p', { class: 'hint' }, 'No findings: every check passed.') : h('ol', { class: 'findings' }, findings.map((f) => {

@@ -9,7 +9,7 @@ import { parseDiameterList, setDiameters, setPump, setUnits } from '../store/act
 import { EditError } from '../store/actions/action.ts';
 import { discardEdits, removeTrace, setHidden, setLocked, setTraceSpec, traceName } from '../store/actions/traces.ts';
 import { powerUnit, pointsOf, type TraceDraft } from '../store/draft.ts';
-import { firstUntraced, panelFor, targetFor } from '../store/target.ts';
+import { afterRemoval, firstUntraced, panelFor, sharedCurves, sharedCurveSentence, targetFor } from '../store/target.ts';
 import { QUANTITY_INK } from '../canvas/overlay.ts';
 import { QUANTITY_NAMES, UNIT_CHOICES, num, unitText } from './words.ts';
 import { field } from './loadStep.ts';
@@ -100,7 +100,10 @@ function traceList(bench: Bench): HTMLElement {
   const { draft, session } = store;
   const groups = ORDER.map((q) => ({ q, traces: draft.traces.filter((t) => t.quantity === q) })).filter((g) => g.traces.length);
   if (groups.length === 0) return h('p', { class: 'hint' }, 'No traces yet.');
-  return h('div', { class: 'trace-list' }, groups.map((g) =>
+  const shared = sharedCurves(draft);
+  return h('div', { class: 'trace-list' },
+    shared.map((g) => h('p', { class: 'shared-curve caution', role: 'note', 'data-key': `shared-${g.quantity}-${g.diameter}` }, sharedCurveSentence(g, unitText(draft.units.diameter)))),
+    groups.map((g) =>
     h('section', { 'data-key': `group-${g.q}`, 'aria-label': `${QUANTITY_NAMES[g.q]} traces` },
       h('h4', null, h('span', { class: 'swatch', style: { background: QUANTITY_INK[g.q] } }), `${QUANTITY_NAMES[g.q]} (${g.traces.length})`),
       h('ul', null, g.traces.map((t) => traceRow(bench, t, session.selectedTrace === t.id))))));
@@ -124,5 +127,8 @@ function traceRow(bench: Bench, t: TraceDraft, selected: boolean): HTMLElement {
       h('button', { type: 'button', class: 'icon', 'aria-pressed': t.locked ? 'true' : 'false', title: t.locked ? 'Unlock this trace' : 'Lock this trace against edits', 'aria-label': `${t.locked ? 'Unlock' : 'Lock'} ${name}`, onclick: () => store.dispatch(setLocked(t.id, !t.locked)) }, t.locked ? 'unlock' : 'lock'),
       h('button', { type: 'button', class: 'icon', title: 'Trace the line again from its guides', 'aria-label': `Re-trace ${name}`, disabled: t.locked || t.guides.length === 0, onclick: () => bench.retrace(t.id) }, 're-trace'),
       t.edited ? h('button', { type: 'button', class: 'icon', title: 'Drop the hand edits', 'aria-label': `Drop hand edits of ${name}`, disabled: t.locked, onclick: () => store.dispatch(discardEdits(t.id)) }, 'undo edits') : null,
-      h('button', { type: 'button', class: 'icon danger', title: 'Delete this trace', 'aria-label': `Delete ${name}`, disabled: t.locked, onclick: () => store.dispatch(removeTrace(t.id)) }, 'delete')));
+      h('button', { type: 'button', class: 'icon danger', title: 'Delete this trace', 'aria-label': `Delete ${name}`, disabled: t.locked, onclick: () => {
+        // The next click re-does the deleted curve, not the one proposed after it.
+        if (store.dispatch(removeTrace(t.id))) store.setSession(afterRemoval(store.session, t));
+      } }, 'delete')));
 }
