@@ -17,7 +17,7 @@ let bench: Workbench | null = null;
 function restoreBanner(wb: Workbench, saved: SavedDocument): HTMLElement {
   const when = new Date(saved.savedAt);
   const points = saved.draft.traces.reduce((s, t) => s + (t.points ?? t.captured ?? []).length, 0);
-  const banner = h('div', { class: 'restore', role: 'dialog', 'aria-modal': 'false', 'aria-labelledby': 'restore-title' },
+  const banner = h('div', { class: 'restore', 'data-document': saved.id, role: 'dialog', 'aria-modal': 'false', 'aria-labelledby': 'restore-title' },
     h('p', { id: 'restore-title' }, h('strong', null, 'Unfinished take-off found. '),
       `${saved.draft.sheet?.name ?? 'A sheet'}: ${saved.draft.panels.length} panels, ${saved.draft.traces.length} traces, ${points} points — kept in this browser on ${when.toLocaleDateString()} at ${when.toLocaleTimeString()}.`),
     h('div', { class: 'buttons' },

@@ -256,9 +256,11 @@ export class SheetFlow {
   async offerRestore(): Promise<SavedDocument | null> {
     try {
       const autosave = this.bench.autosave;
-      const tabDocument = autosave.tabDocument();
-      // A reloaded page waits a moment for its previous page to let go of the document.
-      if (tabDocument && !(await autosave.claim(tabDocument, 3000))) return null;
+      let tabDocument = autosave.tabDocument();
+      // A reloaded page waits a moment for its previous page to let go of the document. A
+      // duplicated tab inherits the id of a document its original still has open: it is then
+      // offered another one.
+      if (tabDocument && !(await autosave.claim(tabDocument, 3000))) tabDocument = null;
       const docs = await autosave.list();
       const offer = chooseOffer(docs, { tabDocument, heldElsewhere: await autosave.heldElsewhere() });
       if (!offer) return null;
