@@ -129,6 +129,8 @@ function traceRow(bench: Bench, t: TraceDraft, selected: boolean): HTMLElement {
       t.edited ? h('button', { type: 'button', class: 'icon', title: 'Drop the hand edits', 'aria-label': `Drop hand edits of ${name}`, disabled: t.locked, onclick: () => store.dispatch(discardEdits(t.id)) }, 'undo edits') : null,
       h('button', { type: 'button', class: 'icon danger', title: 'Delete this trace', 'aria-label': `Delete ${name}`, disabled: t.locked, onclick: () => {
         // The next click re-does the deleted curve, not the one proposed after it.
-        if (store.dispatch(removeTrace(t.id))) store.setSession(afterRemoval(store.session, t));
+        if (!store.dispatch(removeTrace(t.id))) return;
+        store.setSession(afterRemoval(store.session, t));
+        store.say(`Deleted ${name}. The next click traces it again; choose another curve above to trace something else.`, 'info');
       } }, 'delete')));
 }
