@@ -3,7 +3,7 @@
  * except for undo and redo, which act on the take-off (a field's own undo is the browser's).
  */
 import type { Quantity } from '../../model/curveset.ts';
-import { STEPS } from '../store/store.ts';
+import { STEP_DEFINITIONS } from '../steps/registry.ts';
 import { targetFor } from '../store/target.ts';
 import type { Workbench } from './workbench.ts';
 
@@ -61,8 +61,9 @@ export function bindKeys(bench: Workbench): void {
       return;
     }
     const stepIndex = Number(event.key) - 1;
-    if (Number.isInteger(stepIndex) && stepIndex >= 0 && stepIndex < STEPS.length) {
-      bench.goto(STEPS[stepIndex] as (typeof STEPS)[number]);
+    const step = Number.isInteger(stepIndex) ? STEP_DEFINITIONS[stepIndex] : undefined;
+    if (step) {
+      bench.goto(step.id);
       return;
     }
     const pan = event.shiftKey ? 200 : 50;

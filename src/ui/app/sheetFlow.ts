@@ -12,6 +12,7 @@ import type { Draft, SheetRef } from '../store/draft.ts';
 import { pointsOf } from '../store/draft.ts';
 import { fromTakeoffFile } from '../store/takeoffFile.ts';
 import type { Step } from '../store/store.ts';
+import { isStep } from '../steps/registry.ts';
 import { AUTOSAVE_FORMAT, AUTOSAVE_VERSION, chooseOffer, type SavedDocument } from '../persist/records.ts';
 import type { LoadedSheet } from './bench.ts';
 import type { Workbench } from './workbench.ts';
@@ -118,7 +119,8 @@ export class SheetFlow {
       step = 'review';
     } else if (options.restore) {
       draft = options.restore.draft;
-      step = options.restore.step;
+      // A record kept by a workbench with other steps opens at the axes.
+      step = isStep(options.restore.step) ? options.restore.step : 'axes';
     }
     // Only now, with the new sheet readable, does anything on the workbench change.
     this.pageReady = false;

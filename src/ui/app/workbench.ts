@@ -20,6 +20,7 @@ import { bestProposal } from './proposals.ts';
 import { plotsOfFrame } from '../geometry/hints.ts';
 import { axisUnits, frameOf, type Draft } from '../store/draft.ts';
 import { Store, type Step } from '../store/store.ts';
+import { STEP_DEFINITIONS, stepDefinition } from '../steps/registry.ts';
 import { panelAt, targetFor } from '../store/target.ts';
 import { AnchorTool } from '../tools/anchorTool.ts';
 import { FrameTool } from '../tools/frameTool.ts';
@@ -27,13 +28,8 @@ import { PickTool } from '../tools/pickTool.ts';
 import { TraceTool } from '../tools/traceTool.ts';
 import { snapRadius, type Tool, type ToolHost } from '../tools/tool.ts';
 import { SheetWorkerClient } from '../worker/client.ts';
-import { axesStep } from '../views/axesStep.ts';
 import { emptyStage, keysHelp, statusLine, stepList, topBar } from '../views/chrome.ts';
 import { familyChart } from '../views/familyChart.ts';
-import { loadStep } from '../views/loadStep.ts';
-import { reviewStep } from '../views/reviewStep.ts';
-import { saveStep } from '../views/saveStep.ts';
-import { traceStep } from '../views/traceStep.ts';
 import { num, QUANTITY_NAMES, unitText } from '../views/words.ts';
 import { EMPTY_DUTY, runDuty, type DutyForm, type DutyOutcome } from '../views/dutyPanel.ts';
 import type { Bench, Derived, LoadedSheet } from './bench.ts';
@@ -92,6 +88,7 @@ export class Workbench implements Bench, ToolHost {
         preview: this.preview,
         pendingGuides: this.pending,
         proposals: this.sceneProposals(),
+        layers: stepDefinition(this.store.session.step).layers,
       }),
     );
     this.magnifier = new Magnifier(stage, this.canvas);
@@ -158,23 +155,15 @@ export class Workbench implements Bench, ToolHost {
   activeTool(): Tool | null {
     const { session, draft } = this.store;
     if (!draft.sheet || !this.flow.pageReady) return null;
-    switch (session.step) {
-      case 'axes':
-        return session.drawingFrame || draft.panels.length === 0 || !session.activePanel ? this.tools.frame : this.tools.anchor;
-      case 'trace':
-        return this.tools.trace;
-      case 'review':
-      case 'save':
-        return this.tools.pick;
-      default:
-        return null;
-    }
+    const name = stepDefinition(session.step).tool(draft, session);
+    return name ? this.tools[name] : null;
   }
 
   nextClick(): string {
     const { draft, session } = this.store;
     if (!draft.sheet) return 'Open a sheet in step 1: click “Open a sheet…” or drop a file on the window.';
-    if (session.step === 'load') return this.sheet && this.sheet.pages.length > 1 ? 'Click a page picture to choose the page, or go on to “Set the axes”.' : 'Go on to “Set the axes” (press 2).';
+    const step = stepDefinition(session.step);
+    if (!step.tool(draft, session) && step.hint) return step.hint(this);
     if (!this.flow.pageReady) return 'Reading the page…';
     return this.activeTool()?.status() ?? '';
   }
@@ -211,9 +200,9 @@ export class Workbench implements Bench, ToolHost {
     this.parts.keys.hidden = !this.keysOpen;
     if (this.keysOpen && !this.parts.keys.firstChild) this.parts.keys.append(keysHelp(SHORTCUTS, () => this.toggleKeys()));
     this.parts.empty.hidden = this.store.draft.sheet !== null;
-    morph(this.parts.side, h('aside', { class: 'side' }, stepList(this, { load: loadStep, axes: axesStep, trace: traceStep, review: reviewStep, save: saveStep })));
+    morph(this.parts.side, h('aside', { class: 'side' }, stepList(this, STEP_DEFINITIONS)));
     morph(this.parts.status, statusLine(this));
-    const showChart = (this.store.session.step === 'review' || this.store.session.step === 'save') && this.derived.curveSet !== null;
+    const showChart = stepDefinition(step).chart && this.derived.curveSet !== null;
     this.parts.chart.hidden = !showChart;
     if (showChart && this.derived.curveSet) {
       const highlighted = this.store.draft.traces.find((t) => t.id === this.store.session.highlightedTrace);
@@ -308,14 +297,7 @@ export class Workbench implements Bench, ToolHost {
 
   goto(step: Step): void {
     const { draft, session } = this.store;
-    const patch: Partial<typeof session> = { step, highlightedTrace: step === 'review' ? session.highlightedTrace : null };
-    if (step === 'axes' && !session.activePanel && draft.panels.length === 0) patch.drawingFrame = true;
-    if (step === 'trace') {
-      const t = session.target;
-      if (!draft.panels.some((p) => p.plots === t.quantity) && !(t.lines === 'iso' && draft.panels.some((p) => p.plots === 'head'))) patch.target = targetFor(draft, draft.panels[0]?.plots ?? 'head');
-      else if (t.lines === 'diameter' && (t.diameter === undefined || !draft.diameters.includes(t.diameter))) patch.target = targetFor(draft, t.quantity);
-    }
-    this.store.setSession(patch);
+    this.store.setSession({ step, highlightedTrace: null, ...stepDefinition(step).enter?.(draft, session) });
     this.magnifier.hide();
     this.preview = null;
   }

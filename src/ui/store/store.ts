@@ -9,8 +9,9 @@ import type { Action } from './actions/action.ts';
 import { EMPTY_DRAFT, type Draft } from './draft.ts';
 import { commit, redo, replacePresent, startHistory, undo, type History } from './history.ts';
 
-export type Step = 'load' | 'axes' | 'trace' | 'review' | 'save';
-export const STEPS: readonly Step[] = ['load', 'axes', 'trace', 'review', 'save'];
+import type { Step } from '../steps/registry.ts';
+
+export type { Step };
 
 /** What the next guide click traces. */
 export interface TraceTarget {
