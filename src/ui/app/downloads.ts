@@ -5,7 +5,16 @@
 import { stringifyCurveSet } from '../../model/curvesetIO.ts';
 import { curveSetToCsv } from '../../export/csvTable.ts';
 import { toTakeoffFile } from '../store/takeoffFile.ts';
-import type { Workbench } from './workbench.ts';
+import type { Store } from '../store/store.ts';
+import type { Derived } from './bench.ts';
+
+/** What the downloads and the library save need of the workbench. */
+export interface DownloadsHost {
+  readonly store: Store;
+  readonly derived: Derived;
+  /** The opened sheet's name, type, checksum and bytes. */
+  readonly sheetBytes: { name: string; mime: string; sha256: string; bytes: ArrayBuffer } | null;
+}
 
 /** A file name made of the pump's (or sheet's) name: letters, digits and dashes only. */
 export function fileStem(name: string): string {
@@ -58,7 +67,7 @@ export function refusalSentence(error: unknown, entry: { id: string; revision: n
 }
 
 export class Downloads {
-  constructor(private readonly bench: Workbench) {}
+  constructor(private readonly bench: DownloadsHost) {}
 
   private stem(): string {
     const { draft } = this.bench.store;
@@ -105,7 +114,7 @@ export class Downloads {
   async saveToLibrary(asNew = false): Promise<void> {
     const { store, derived } = this.bench;
     const set = derived.curveSet;
-    const sheet = this.bench.flow.sheetBytes;
+    const sheet = this.bench.sheetBytes;
     if (!set) {
       store.say(derived.problem ?? 'There is no curve set to save yet.', 'error');
       return;

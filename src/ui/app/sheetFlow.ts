@@ -15,7 +15,24 @@ import type { Step } from '../store/store.ts';
 import { isStep } from '../steps/registry.ts';
 import { AUTOSAVE_FORMAT, AUTOSAVE_VERSION, chooseOffer, type SavedDocument } from '../persist/records.ts';
 import type { LoadedSheet } from './bench.ts';
-import type { Workbench } from './workbench.ts';
+import type { Store } from '../store/store.ts';
+import type { SheetCanvas } from '../canvas/sheetCanvas.ts';
+import type { Autosave } from '../persist/autosave.ts';
+import type { SheetWorkerClient } from '../worker/client.ts';
+
+/** What getting a sheet onto the workbench needs of it. */
+export interface SheetFlowHost {
+  readonly store: Store;
+  /** The worker that traces, and the one that replays the review. */
+  readonly worker: SheetWorkerClient;
+  readonly reviewWorker: SheetWorkerClient;
+  readonly canvas: Pick<SheetCanvas, 'clear' | 'showPage'>;
+  readonly autosave: Autosave;
+  /** What the top bar says about autosave. */
+  autosaved: string;
+  refreshDerived(): void;
+  requestRender(): void;
+}
 
 interface SheetBytes {
   bytes: ArrayBuffer;
@@ -46,7 +63,7 @@ export class SheetFlow {
   /** True once the worker has read the chosen page (captures and snapping work from then on). */
   pageReady = false;
 
-  constructor(private readonly bench: Workbench) {}
+  constructor(private readonly bench: SheetFlowHost) {}
 
   private get store() {
     return this.bench.store;

@@ -138,6 +138,10 @@ export class Workbench implements Bench, ToolHost {
     return this.flow.sheet;
   }
 
+  get sheetBytes() {
+    return this.flow.sheetBytes;
+  }
+
   get derived(): Derived {
     return this.derivedState.current;
   }
