@@ -11,7 +11,7 @@ import { readHints, type TextItem } from '../geometry/hints.ts';
 import type { Draft, SheetRef } from '../store/draft.ts';
 import { pointsOf } from '../store/draft.ts';
 import { fromTakeoffFile } from '../store/takeoffFile.ts';
-import type { Step } from '../store/store.ts';
+import { unitSystemOf, type Step } from '../store/store.ts';
 import { isStep } from '../steps/registry.ts';
 import { AUTOSAVE_FORMAT, AUTOSAVE_VERSION, chooseOffer, type SavedDocument } from '../persist/records.ts';
 import type { LoadedSheet } from './bench.ts';
@@ -188,6 +188,8 @@ export class SheetFlow {
     const read: string[] = [];
     if (this.store.dispatch(readFromSheet(found))) {
       const d = this.store.draft;
+      // The review starts in the units the sheet is drawn in.
+      this.store.setSession({ unitSystem: unitSystemOf(d) });
       if (hints.speed_rpm) read.push(`${d.pump.speed_rpm} rpm`);
       if (hints.diameters) read.push(`diameters ${d.diameters.join(' ')} ${d.units.diameter}`);
       if (hints.units) read.push(`flow in ${d.units.flow}, head in ${d.units.head}, power in ${d.units.power}`);

@@ -141,6 +141,6 @@ function sheetUnits(bench: Bench): HTMLElement {
       (['si', 'us'] as const).map((sys) => {
         const u = SHEET_UNIT_SYSTEMS[sys];
         const on = (Object.keys(u) as (keyof typeof u)[]).every((k) => draft.units[k] === u[k]);
-        return h('button', { type: 'button', 'data-key': `units-${sys}`, 'aria-pressed': on ? 'true' : 'false', title: `flow ${unitText(u.flow)}, head ${u.head}, power ${u.power}, NPSH ${u.npsh}, diameter ${u.diameter}`, onclick: () => store.dispatch(setSheetUnits(u)) }, `${sys.toUpperCase()} (${unitText(u.flow)}, ${u.head}, ${u.power}, ${u.diameter})`);
+        return h('button', { type: 'button', 'data-key': `units-${sys}`, 'aria-pressed': on ? 'true' : 'false', title: `flow ${unitText(u.flow)}, head ${u.head}, power ${u.power}, NPSH ${u.npsh}, diameter ${u.diameter}`, onclick: () => { if (store.dispatch(setSheetUnits(u))) store.setSession({ unitSystem: sys }); } }, `${sys.toUpperCase()} (${unitText(u.flow)}, ${u.head}, ${u.power}, ${u.diameter})`);
       })));
 }
