@@ -80,8 +80,9 @@ export class Workbench implements Bench {
         session: this.store.session,
         calibrated: new Set([...this.derived.calibrations].filter(([, c]) => c.ok).map(([id]) => id)),
         fits: this.derived.fits,
-        preview: this.sheetTools.preview,
-        pendingGuides: this.sheetTools.pending,
+        // The canvas paints once while the workbench is still being built, before its tools exist.
+        preview: (this.sheetTools as SheetTools | undefined)?.preview ?? null,
+        pendingGuides: (this.sheetTools as SheetTools | undefined)?.pending ?? [],
         proposals: this.sceneProposals(),
         layers: stepDefinition(this.store.session.step).layers,
       }),
