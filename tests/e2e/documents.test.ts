@@ -5,6 +5,7 @@
  * and tracing again files the new trace under the diameter chosen.
  */
 import { execFileSync } from 'node:child_process';
+import { createHash } from 'node:crypto';
 import { copyFileSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import type { Page } from 'playwright-core';
@@ -262,5 +263,69 @@ describe('documents in the workbench', () => {
     expect(await page.locator('.shared-curve').count()).toBe(0);
     await user.screenshot('re-traced-head-12');
     await page.close();
+  });
+
+  it('a take-off kept in the one slot of the earlier autosave is offered after the upgrade, as a document of its own', async () => {
+    const fresh = await openBrowser();
+    try {
+      const page = fresh.page;
+      const sample = loadSample(vectorSample());
+      const bytes = readFileSync(sample.sheetPath);
+      const sha = createHash('sha256').update(bytes).digest('hex');
+      const head = sample.takeoff.panels.find((p) => p.id === 'head')!;
+      const xs = head.anchors.map((a) => a.at[0]);
+      const ys = head.anchors.map((a) => a.at[1]);
+      // The version 1 record: one slot, the older draft shape (the sheet without its path).
+      const v1 = {
+        format: 'pumpscribe.autosave', version: 1, savedAt: '2026-01-02T03:04:05.000Z', step: 'trace', sheetKey: sha,
+        target: { quantity: 'head', lines: 'diameter', diameter: 12 },
+        draft: {
+          sheet: { name: 'us-iso-colour.pdf', sha256: sha, kind: 'pdf', mime: 'application/pdf', page: 1, pageCount: 1, width: 612, height: 792 },
+          pump: { name: 'Invented pump kept by the old autosave', speed_rpm: 1780, specific_gravity: 1 },
+          units: { flow: 'gpm', head: 'ft', power: 'hp', npsh: 'ft', diameter: 'in' },
+          diameters: [13, 12, 11, 10],
+          panels: [{ id: 'head', plots: 'head', frame: [Math.min(...xs), Math.min(...ys), Math.max(...xs), Math.max(...ys)], anchors: head.anchors, x_scale: 'linear', y_scale: 'linear', units: { x: 'gpm', y: 'ft' } }],
+          traces: sample.takeoff.traces.filter((t) => t.quantity === 'head' && t.diameter === 13).map((t) => ({ ...t, method: 'auto' })),
+          notes: [],
+        },
+      };
+      // The library page does not open the workbench's storage, so the old database can be laid down first.
+      await page.goto(`${server.url}#/library`);
+      await page.evaluate(async ({ v1, b64, sha }) => {
+        const data = Uint8Array.from(atob(b64), (c) => c.charCodeAt(0));
+        await new Promise<void>((resolve, reject) => {
+          const req = indexedDB.open('pumpscribe-workbench', 1);
+          req.onupgradeneeded = () => {
+            req.result.createObjectStore('drafts');
+            req.result.createObjectStore('sheets', { keyPath: 'key' });
+          };
+          req.onerror = () => reject(req.error);
+          req.onsuccess = () => {
+            const db = req.result;
+            const tx = db.transaction(['drafts', 'sheets'], 'readwrite');
+            tx.objectStore('drafts').put(v1, 'current');
+            tx.objectStore('sheets').put({ key: sha, name: 'us-iso-colour.pdf', mime: 'application/pdf', bytes: data.buffer });
+            tx.oncomplete = () => { db.close(); resolve(); };
+            tx.onerror = () => reject(tx.error);
+          };
+        });
+      }, { v1, b64: bytes.toString('base64'), sha });
+      await page.goto(`${server.url}#/`);
+      await page.reload();
+      await page.waitForSelector('#restore-yes', { timeout: 30_000 });
+      await page.click('#restore-yes');
+      await waitMessage(page, /^Restored /);
+      await settle(page);
+      const restored = await wb(page, (w) => ({ doc: w.store.doc, pump: w.store.draft.pump.name, traces: w.store.draft.traces.length, sheet: w.store.draft.sheet, step: w.store.session.step }));
+      expect(restored.pump).toBe('Invented pump kept by the old autosave');
+      expect(restored.traces).toBe(1);
+      expect(restored.step).toBe('trace');
+      expect(restored.doc.library).toBeNull();
+      expect(restored.doc.id.length).toBeGreaterThan(8);
+      expect((restored.sheet as unknown as { path: string }).path).toBe('us-iso-colour.pdf');
+      await new User(page, join(dir, 'migrated')).screenshot('restored-from-version-1');
+    } finally {
+      await fresh.close();
+    }
   });
 });

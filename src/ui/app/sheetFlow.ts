@@ -139,7 +139,9 @@ export class SheetFlow {
       // A record kept by a workbench with other steps opens at the axes.
       step = isStep(options.restore.step) ? options.restore.step : 'axes';
     }
-    // Only now, with the new sheet readable, does anything on the workbench change.
+    // Only now, with the new sheet readable, does anything on the workbench change. The document
+    // on screen is written first, before the new one takes its place.
+    void this.bench.autosave.writeScheduled();
     this.pageReady = false;
     this.canvas().clear();
     this.bytes = kept;
@@ -253,20 +255,24 @@ export class SheetFlow {
     this.progress(null);
   }
 
-  /** Keeps this document in the browser, under its own id. */
-  autosaveNow(): void {
+  /** The record autosave keeps of the document on screen now. */
+  private savedDocument(): SavedDocument | null {
     const { draft, session, doc } = this.store;
-    if (!draft.sheet) return;
-    this.bench.autosave
-      .save({ format: AUTOSAVE_FORMAT, version: AUTOSAVE_VERSION, id: doc.id, savedAt: new Date().toISOString(), draft, library: doc.library, step: session.step, target: session.target, unitSystem: session.unitSystem, sheetKey: this.bytes?.sha256 ?? null })
-      .then(() => {
-        this.bench.autosaved = `Kept in this browser at ${new Date().toLocaleTimeString()}`;
-        this.bench.requestRender();
-      })
-      .catch((error: Error) => {
+    if (!draft.sheet) return null;
+    return { format: AUTOSAVE_FORMAT, version: AUTOSAVE_VERSION, id: doc.id, savedAt: new Date().toISOString(), draft, library: doc.library, step: session.step, target: session.target, unitSystem: session.unitSystem, sheetKey: this.bytes?.sha256 ?? null };
+  }
+
+  /** Keeps this document in the browser, under its own id, a moment after the last change. */
+  autosaveNow(): void {
+    this.bench.autosave.schedule(() => this.savedDocument(), (error) => {
+      if (error) {
         this.bench.autosaved = 'Not kept in this browser';
         this.store.say(error.message, 'error');
-      });
+      } else {
+        this.bench.autosaved = `Kept in this browser at ${new Date().toLocaleTimeString()}`;
+      }
+      this.bench.requestRender();
+    });
   }
 
   /**

@@ -141,6 +141,8 @@ export class Workbench implements Bench {
       this.requestRender();
     });
     bindKeys(this);
+    // A write still waiting when the page goes (a reload, a closed tab) is made at once.
+    window.addEventListener('pagehide', () => void this.autosave.flush());
     this.bindDrop();
     this.requestRender();
   }

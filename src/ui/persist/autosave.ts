@@ -103,6 +103,8 @@ export class Autosave {
   private writing: Promise<void> | null = null;
   /** The document this tab holds, and how to let it go. */
   private held: { id: string; release: () => void } | null = null;
+  /** A write asked for and not yet made: the record is built when it is made, from the state then. */
+  private scheduled: { build: () => SavedDocument | null; done: (error: Error | null) => void; timer: ReturnType<typeof setTimeout> } | null = null;
 
   private database(): Promise<IDBDatabase> {
     this.db ??= open();
@@ -255,8 +257,36 @@ export class Autosave {
     if (unused.length) await run(db, SHEETS, 'readwrite', (s) => unused.forEach((k) => s.delete(k)));
   }
 
-  /** Waits until everything queued is written. */
+  /**
+   * Asks for a write a moment from now (`delayMs`): a burst of edits and screen changes costs one
+   * copy of the record on the main thread, built from the state when it is written. `done` hears
+   * how the write went.
+   */
+  schedule(build: () => SavedDocument | null, done: (error: Error | null) => void, delayMs = 150): void {
+    if (this.scheduled) clearTimeout(this.scheduled.timer);
+    this.scheduled = { build, done, timer: setTimeout(() => void this.writeScheduled(), delayMs) };
+  }
+
+  /** Makes the write asked for now (before the state it reads changes, e.g. another document opens). */
+  writeScheduled(): Promise<void> {
+    const job = this.scheduled;
+    if (!job) return Promise.resolve();
+    clearTimeout(job.timer);
+    this.scheduled = null;
+    let doc: SavedDocument | null;
+    try {
+      doc = job.build();
+    } catch (error) {
+      job.done(error as Error);
+      return Promise.resolve();
+    }
+    if (!doc) return Promise.resolve();
+    return this.save(doc).then(() => job.done(null), (error: Error) => job.done(error));
+  }
+
+  /** Waits until everything asked for is written. */
   async flush(): Promise<void> {
+    await this.writeScheduled();
     while (this.writing) await this.writing;
   }
 }
