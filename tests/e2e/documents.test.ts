@@ -119,6 +119,30 @@ describe('documents in the workbench', () => {
     await user.screenshot('second-pump-revision-2');
     const revisions = await page.evaluate(async (id) => ((await (await fetch(`api/curvesets/${id}/revisions`)).json()) as { revisions: unknown[] }).revisions.length, a.id);
     expect(revisions).toBe(1);
+
+    // Someone else saves revision 3 of the entry meanwhile: this document's save (If-Match "2") is
+    // refused with one sentence, nothing is stored, the work stays, and a new entry is offered.
+    const other = await page.evaluate(async (id) => {
+      const body = await (await fetch(`api/curvesets/${id}`)).text();
+      const r = await fetch(`api/curvesets/${id}`, { method: 'PUT', headers: { 'content-type': 'application/json', 'if-match': '"2"' }, body });
+      return ((await r.json()) as { revision: number }).revision;
+    }, b.id);
+    expect(other).toBe(3);
+    const draftBefore = await wb(page, (w) => JSON.stringify(w.store.draft));
+    await page.click('#save-library');
+    await page.waitForSelector('.library-state.failed', { timeout: 30_000 });
+    const refusal = (await page.textContent('.library-state')) ?? '';
+    expect(refusal).toMatch(new RegExp(`^Not saved to the library: entry ${b.id} .*nothing was stored; your work is still here`));
+    expect(refusal.match(/[.!?](\s|$)/g)).toHaveLength(1);
+    expect(await wb(page, (w) => JSON.stringify(w.store.draft))).toBe(draftBefore);
+    await user.screenshot('stale-save-refused');
+    const stored = await page.evaluate(async (id) => ((await (await fetch(`api/curvesets/${id}/revisions`)).json()) as { revisions: unknown[] }).revisions.length, b.id);
+    expect(stored).toBe(3);
+    await page.click('#save-library-new');
+    await page.waitForFunction(() => /Saved to the library as/.test(document.querySelector('.library-state')?.textContent ?? ''), null, { timeout: 30_000 });
+    const c = await wb(page, (w) => w.store.doc.library);
+    expect(c?.revision).toBe(1);
+    expect([a.id, b.id]).not.toContain(c?.id);
   });
 
   it('a take-off file opened and downloaded again comes back field for field', async () => {

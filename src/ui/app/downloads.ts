@@ -59,7 +59,8 @@ export function refusalSentence(error: unknown, entry: { id: string; revision: n
   const keep = 'so nothing was stored; your work is still here';
   if (error instanceof LibraryAnswerError && entry) {
     const said = error.message.replace(/\.$/, '');
-    if (error.status === 409) return { text: `Not saved to the library: entry ${entry.id} holds another pump (${said}), ${keep} — save it as a new entry, or correct the pump's name, maker, model or size.`, offerNew: true };
+    // By the write contract a 409 is another pump's entry; the library's own sentence says why.
+    if (error.status === 409) return { text: `Not saved to the library: entry ${entry.id} did not take this take-off as its next revision (${said}), ${keep} — save it as a new entry, or correct the pump's name, maker, model or size.`, offerNew: true };
     if (error.status === 412) return { text: `Not saved to the library: entry ${entry.id} has a newer revision than ${entry.revision}, saved from elsewhere (${said}), ${keep} — save it as a new entry, or open the newer revision first.`, offerNew: true };
     if (error.status === 428) return { text: `Not saved to the library: entry ${entry.id} wants to know which revision this save follows (${said}), ${keep} — save it as a new entry.`, offerNew: true };
   }
