@@ -14,7 +14,7 @@ export function saveStep(bench: Bench): HTMLElement {
       h('button', { type: 'button', id: 'download-takeoff', class: 'primary', disabled: !hasTakeoff, onclick: () => bench.download('takeoff') }, 'Download the take-off file'),
       h('button', { type: 'button', id: 'download-curveset', disabled: !ready, onclick: () => bench.download('curveset') }, 'Download the curve set'),
       h('button', { type: 'button', id: 'download-csv', disabled: !ready, onclick: () => bench.download('csv') }, `Download the CSV table (${store.session.unitSystem.toUpperCase()} units)`),
-      h('button', { type: 'button', id: 'save-library', disabled: !ready || library.state === 'saving', onclick: () => bench.saveToLibrary() }, library.state === 'saving' ? 'Saving to the library…' : entry ? `Save to the library (revision ${entry.revision + 1} of ${entry.id})` : 'Save to the library'),
+      h('button', { type: 'button', id: 'save-library', disabled: !ready || library.state === 'saving', onclick: () => bench.saveToLibrary() }, library.state === 'saving' ? 'Saving to the library…' : entry ? `Save to the library (a new revision of ${entry.id})` : 'Save to the library'),
       library.offerNew ? h('button', { type: 'button', id: 'save-library-new', disabled: !ready, onclick: () => bench.saveToLibrary(true) }, 'Save as a new entry') : null),
     library.text ? h('p', { class: `library-state ${library.state}`, role: 'status' }, library.text) : null,
     !hasTakeoff ? h('p', { class: 'hint' }, derived.problem ?? 'Set the axes of a panel and trace a curve first.') : null,
