@@ -5,7 +5,19 @@
 import type { Quantity } from '../../model/curveset.ts';
 import { STEP_DEFINITIONS } from '../steps/registry.ts';
 import { targetFor } from '../store/target.ts';
-import type { Workbench } from './workbench.ts';
+import type { Store, Step } from '../store/store.ts';
+import type { Tool } from '../tools/tool.ts';
+
+/** What the keyboard reaches of the workbench. */
+export interface KeysHost {
+  readonly store: Store;
+  readonly canvas: { panBy(dx: number, dy: number): void };
+  activeTool(): Tool | null;
+  goto(step: Step): void;
+  download(what: 'takeoff'): void;
+  toggleKeys(): void;
+  zoom(action: 'in' | 'out' | 'fit'): void;
+}
 
 export const SHORTCUTS: readonly [string, string][] = [
   ['Ctrl+Z', 'undo the last edit'],
@@ -29,7 +41,7 @@ function typing(target: EventTarget | null): boolean {
   return target instanceof HTMLInputElement || target instanceof HTMLTextAreaElement || target instanceof HTMLSelectElement || (target instanceof HTMLElement && target.isContentEditable);
 }
 
-export function bindKeys(bench: Workbench): void {
+export function bindKeys(bench: KeysHost): void {
   document.addEventListener('keydown', (event) => {
     const { store } = bench;
     const ctrl = event.ctrlKey || event.metaKey;
