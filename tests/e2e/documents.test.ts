@@ -257,6 +257,11 @@ describe('documents in the workbench', () => {
     await tabC.waitForTimeout(1500);
     const offered = await tabC.evaluate(() => document.querySelector('.restore')?.getAttribute('data-document') ?? null);
     expect(ids).not.toContain(offered);
+    // Nor among the other kept take-offs it lists; it lists the ones no tab has open.
+    const listed = await tabC.evaluate(() => [...document.querySelectorAll('.kept-others [data-document]')].map((e) => e.getAttribute('data-document')));
+    for (const id of ids) expect(listed).not.toContain(id);
+    expect(listed.length).toBeGreaterThan(0);
+    await new User(tabC, join(dir, 'tabs-c')).screenshot('third-tab-offer');
     await tabC.close();
     await tabA.close();
     await tabB.close();

@@ -299,6 +299,17 @@ export class SheetFlow {
     }
   }
 
+  /** The other kept take-offs no other tab has open, newest first (at most `limit`). */
+  async otherKept(except: string, limit = 8): Promise<SavedDocument[]> {
+    try {
+      const held = await this.bench.autosave.heldElsewhere();
+      const docs = await this.bench.autosave.list();
+      return docs.filter((d) => d.id !== except && d.draft.sheet !== null && d.sheetKey !== null && !held.has(d.id)).slice(0, limit);
+    } catch {
+      return [];
+    }
+  }
+
   async restore(saved: SavedDocument): Promise<void> {
     const sheet = saved.sheetKey ? await this.bench.autosave.loadSheet(saved.sheetKey) : null;
     if (!sheet) {
