@@ -23,7 +23,17 @@ export interface Server {
 export async function startServer(options: { seed?: boolean } = {}): Promise<Server> {
   const dir = mkdtempSync(join(tmpdir(), 'pumpscribe-e2e-'));
   const args = [join(ROOT, 'bin', 'pumpscribe.mjs'), 'start', '--port', '0', '--library', join(dir, 'library.sqlite'), ...(options.seed ? [] : ['--no-seed'])];
-  const child: ChildProcess = spawn(process.execPath, args, { cwd: ROOT, stdio: ['ignore', 'pipe', 'pipe'] });
+  // Its own process group, so that stopping it also stops whatever it started (the build, workers).
+  const child: ChildProcess = spawn(process.execPath, args, { cwd: ROOT, stdio: ['ignore', 'pipe', 'pipe'], detached: true });
+  // Should the test process end without calling stop(), the server's group goes with it.
+  const orphanGuard = () => {
+    try {
+      if (child.pid !== undefined) process.kill(-child.pid, 'SIGKILL');
+    } catch {
+      // Already gone.
+    }
+  };
+  process.once('exit', orphanGuard);
   let output = '';
   const url = await new Promise<string>((resolve, reject) => {
     const timer = setTimeout(() => reject(new Error(`The server did not start within 240 s:\n${output}`)), 240_000);
@@ -41,19 +51,55 @@ export async function startServer(options: { seed?: boolean } = {}): Promise<Ser
       clearTimeout(timer);
       reject(new Error(`The server stopped (exit ${code}) before serving:\n${output}`));
     });
+  }).catch(async (error: unknown) => {
+    await stopGroup(child);
+    process.off('exit', orphanGuard);
+    rmSync(dir, { recursive: true, force: true });
+    throw error;
   });
   return {
     url,
     async stop() {
-      if (child.exitCode === null) {
-        const exited = new Promise((r) => child.once('exit', r));
-        child.kill('SIGTERM');
-        await Promise.race([exited, new Promise((r) => setTimeout(r, 5000))]);
-        if (child.exitCode === null) child.kill('SIGKILL');
-      }
+      await stopGroup(child);
+      process.off('exit', orphanGuard);
       rmSync(dir, { recursive: true, force: true });
     },
   };
+}
+
+/** True while any process of the group led by `pid` is alive. */
+function groupAlive(pid: number): boolean {
+  try {
+    process.kill(-pid, 0);
+    return true;
+  } catch {
+    return false;
+  }
+}
+
+/**
+ * Stops a process started with `detached: true` and everything in its process group: SIGTERM to
+ * the group, up to 5 s for all of it to end, then SIGKILL; waits until none of it is left.
+ */
+export async function stopGroup(child: ChildProcess): Promise<void> {
+  const pid = child.pid;
+  if (pid === undefined) return;
+  const signal = (name: NodeJS.Signals) => {
+    try {
+      process.kill(-pid, name);
+    } catch {
+      // The group is already gone.
+    }
+  };
+  const gone = async (ms: number) => {
+    const until = Date.now() + ms;
+    while (groupAlive(pid) && Date.now() < until) await new Promise((r) => setTimeout(r, 50));
+    return !groupAlive(pid);
+  };
+  signal('SIGTERM');
+  if (await gone(5000)) return;
+  signal('SIGKILL');
+  if (!(await gone(5000))) throw new Error(`The server's processes (group ${pid}) did not stop after SIGKILL.`);
 }
 
 export interface Browser {

@@ -50,7 +50,7 @@ describe('panel actions', () => {
 
   it('accepts units of the axis kind only, and stores the canonical token', () => {
     expect(setAxisUnit('head-1', 'x', 'm³/h')(draftWithPanel())).toBeNull();
-    expect(setAxisUnit('head-1', 'y', 'feet')(draftWithPanel())!.draft.panels[0]!.units.y).toBe('ft');
+    expect(setAxisUnit('head-1', 'y', 'feet')(draftWithPanel())!.draft.panels[0]!.units?.y).toBe('ft');
     expect(() => setAxisUnit('head-1', 'y', 'kW')(draftWithPanel())).toThrow('Unknown head unit "kW"');
   });
 

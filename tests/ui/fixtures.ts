@@ -19,7 +19,8 @@ export const HEAD_PANEL: PanelDraft = {
 export function draftWithPanel(extra: Partial<Draft> = {}): Draft {
   return {
     ...EMPTY_DRAFT,
-    sheet: { name: 'invented.pdf', kind: 'pdf', mime: 'application/pdf', page: 1, pageCount: 1, width: 600, height: 800, sha256: 'a'.repeat(64) },
+    sheet: { path: 'invented.pdf', name: 'invented.pdf', kind: 'pdf', mime: 'application/pdf', page: 1, pageCount: 1, width: 600, height: 800, sha256: 'a'.repeat(64) },
+    sheet_sha256: 'a'.repeat(64),
     pump: { name: 'Invented test pump', speed_rpm: 1480, specific_gravity: 1 },
     diameters: [330, 310],
     panels: [HEAD_PANEL],

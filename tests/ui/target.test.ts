@@ -46,7 +46,27 @@ describe('what the next click traces', () => {
   });
 
   it('names the target in words for the status line', () => {
-    expect(targetName({ quantity: 'head', lines: 'diameter', diameter: 330 }, { diameter: 'mm', power: 'kW' })).toBe('head curve of 330 mm');
-    expect(targetName({ quantity: 'efficiency', lines: 'iso', iso: 78 }, { diameter: 'mm', power: 'kW' })).toBe('78 % efficiency line');
+    expect(targetName({ quantity: 'head', lines: 'diameter', diameter: 330 }, { flow: 'm3/h', head: 'm', diameter: 'mm', power: 'kW' })).toBe('head curve of 330 mm');
+    expect(targetName({ quantity: 'efficiency', lines: 'iso', iso: 78 }, { flow: 'm3/h', head: 'm', diameter: 'mm', power: 'kW' })).toBe('78 % efficiency line');
+  });
+});
+
+describe('re-doing a trace', () => {
+  it('after a delete, the next click re-does the deleted curve, not the one proposed after it', async () => {
+    const { addTrace, removeTrace } = await import('../../src/ui/store/actions/traces.ts');
+    const { afterRemoval, nextTarget, sharedCurves, tracesOfCurve } = await import('../../src/ui/store/target.ts');
+    const { draftWithPanel } = await import('./fixtures.ts');
+    let d = draftWithPanel({ diameters: [330, 310, 290] });
+    d = addTrace({ panel: 'head-1', quantity: 'head', diameter: 330 }, [[200, 150]], [[100, 150], [300, 160]])(d)!.draft;
+    d = addTrace({ panel: 'head-1', quantity: 'head', diameter: 310 }, [[200, 180]], [[100, 180], [300, 190]])(d)!.draft;
+    expect(nextTarget(d, { quantity: 'head', lines: 'diameter', diameter: 310 })).toMatchObject({ diameter: 290 });
+    const removed = d.traces[1]!;
+    d = removeTrace(removed.id)(d)!.draft;
+    const patch = afterRemoval({ selectedTrace: removed.id, lastTraced: removed.id, highlightedTrace: null }, removed);
+    expect(patch).toMatchObject({ target: { quantity: 'head', lines: 'diameter', diameter: 310, panel: 'head-1' }, selectedTrace: null, lastTraced: null });
+    // A second trace of a traced curve is reported, never merged silently.
+    expect(tracesOfCurve(d, { quantity: 'head', lines: 'diameter', diameter: 330 }).map((t) => t.id)).toEqual(['t1']);
+    d = addTrace({ panel: 'head-1', quantity: 'head', diameter: 330 }, [[220, 150]], [[100, 151], [300, 161]])(d)!.draft;
+    expect(sharedCurves(d)).toEqual([{ quantity: 'head', diameter: 330, ids: ['t1', 't2'] }]);
   });
 });

@@ -59,7 +59,8 @@ export interface Bench {
   showTrace(id: string | null): void;
   retrace(id: string): void;
   download(what: 'takeoff' | 'curveset' | 'csv'): void;
-  saveToLibrary(): void;
+  /** Saves to the library: a new revision of this document's entry, or with `asNew` a new entry. */
+  saveToLibrary(asNew?: boolean): void;
   zoom(action: 'in' | 'out' | 'fit'): void;
   /** The duty check of the review: what was typed and what it gave. */
   readonly duty: { form: DutyForm; outcome: DutyOutcome };

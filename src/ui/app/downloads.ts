@@ -5,7 +5,16 @@
 import { stringifyCurveSet } from '../../model/curvesetIO.ts';
 import { curveSetToCsv } from '../../export/csvTable.ts';
 import { toTakeoffFile } from '../store/takeoffFile.ts';
-import type { Workbench } from './workbench.ts';
+import type { Store } from '../store/store.ts';
+import type { Derived } from './bench.ts';
+
+/** What the downloads and the library save need of the workbench. */
+export interface DownloadsHost {
+  readonly store: Store;
+  readonly derived: Derived;
+  /** The opened sheet's name, type, checksum and bytes. */
+  readonly sheetBytes: { name: string; mime: string; sha256: string; bytes: ArrayBuffer } | null;
+}
 
 /** A file name made of the pump's (or sheet's) name: letters, digits and dashes only. */
 export function fileStem(name: string): string {
@@ -25,20 +34,41 @@ function save(text: string, name: string, type: string): void {
   setTimeout(() => URL.revokeObjectURL(url), 10_000);
 }
 
+/** A library answer that is not a success: its status, stable code and sentence. */
+export class LibraryAnswerError extends Error {
+  constructor(readonly status: number, readonly code: string | undefined, message: string) {
+    super(message);
+    this.name = 'LibraryAnswerError';
+  }
+}
+
 async function answer(response: Response): Promise<unknown> {
   const body = await response.json().catch(() => ({}));
   if (!response.ok) {
-    const message = (body as { error?: string; message?: string }).error ?? (body as { message?: string }).message ?? `HTTP ${response.status}`;
-    throw new Error(message);
+    const b = body as { error?: string; message?: string; code?: string };
+    throw new LibraryAnswerError(response.status, b.code, b.error ?? b.message ?? `HTTP ${response.status}`);
   }
   return body;
 }
 
-export class Downloads {
-  /** The library entry this take-off was saved to, so that saving again adds a revision. */
-  private libraryId: string | null = null;
+/**
+ * The one sentence a refused library save shows, by the write contract: 409 another pump's
+ * entry, 412 a newer revision saved meanwhile, 428 no revision named. Nothing was stored in each case.
+ */
+export function refusalSentence(error: unknown, entry: { id: string; revision: number } | null): { text: string; offerNew: boolean } {
+  const keep = 'so nothing was stored; your work is still here';
+  if (error instanceof LibraryAnswerError && entry) {
+    const said = error.message.replace(/\.$/, '');
+    // By the write contract a 409 is another pump's entry; the library's own sentence says why.
+    if (error.status === 409) return { text: `Not saved to the library: entry ${entry.id} did not take this take-off as its next revision (${said}), ${keep} — save it as a new entry, or correct the pump's name, maker, model or size.`, offerNew: true };
+    if (error.status === 412) return { text: `Not saved to the library: entry ${entry.id} has a newer revision than ${entry.revision}, saved from elsewhere (${said}), ${keep} — save it as a new entry, or open the newer revision first.`, offerNew: true };
+    if (error.status === 428) return { text: `Not saved to the library: entry ${entry.id} wants to know which revision this save follows (${said}), ${keep} — save it as a new entry.`, offerNew: true };
+  }
+  return { text: `Not saved to the library: ${(error as Error).message.replace(/\.$/, '')}; your work is still here — download the files to keep them.`, offerNew: false };
+}
 
-  constructor(private readonly bench: Workbench) {}
+export class Downloads {
+  constructor(private readonly bench: DownloadsHost) {}
 
   private stem(): string {
     const { draft } = this.bench.store;
@@ -76,37 +106,48 @@ export class Downloads {
     }
   }
 
-  async saveToLibrary(): Promise<void> {
+  /**
+   * Saves the curve set to the library: the first save of a document makes a new entry; later
+   * saves add a revision to that entry, naming the revision they follow (`If-Match`), so that a
+   * save never lands on another pump's entry or over a revision made elsewhere. The entry and
+   * revision belong to the document (kept with it across reloads); `asNew` starts a new entry.
+   */
+  async saveToLibrary(asNew = false): Promise<void> {
     const { store, derived } = this.bench;
     const set = derived.curveSet;
-    const sheet = this.bench.flow.sheetBytes;
+    const sheet = this.bench.sheetBytes;
     if (!set) {
       store.say(derived.problem ?? 'There is no curve set to save yet.', 'error');
       return;
     }
-    this.bench.library = { state: 'saving', text: 'Saving to the library…' };
-    this.bench.requestRender();
+    const doc = store.doc.id;
+    const entry = asNew ? null : store.doc.library;
+    store.setLibraryState({ state: 'saving', text: 'Saving to the library…' });
     try {
       if (sheet) {
         await answer(await fetch(`api/sheets?name=${encodeURIComponent(sheet.name)}`, { method: 'POST', headers: { 'content-type': sheet.mime.startsWith('image/') || sheet.mime === 'application/pdf' ? sheet.mime : 'application/octet-stream' }, body: sheet.bytes }));
       }
       const body = stringifyCurveSet(set);
       let saved: { id: string; revision: number };
-      if (this.libraryId) {
-        saved = (await answer(await fetch(`api/curvesets/${encodeURIComponent(this.libraryId)}`, { method: 'PUT', headers: { 'content-type': 'application/json' }, body }))) as typeof saved;
+      if (entry) {
+        saved = (await answer(await fetch(`api/curvesets/${encodeURIComponent(entry.id)}`, { method: 'PUT', headers: { 'content-type': 'application/json', 'if-match': `"${entry.revision}"` }, body }))) as typeof saved;
       } else {
         saved = (await answer(await fetch('api/curvesets', { method: 'POST', headers: { 'content-type': 'application/json' }, body }))) as typeof saved;
       }
-      this.libraryId = saved.id;
+      // The answer belongs to the document that was saved, even if another one is open by now.
+      if (store.doc.id !== doc) return;
+      store.setLibrary({ id: saved.id, revision: saved.revision });
       if (sheet && derived.takeoff) {
         await answer(await fetch(`api/sheets/${sheet.sha256}/takeoffs?name=${encodeURIComponent(`${this.stem()}.takeoff.json`)}`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(derived.takeoff) }));
       }
-      this.bench.library = { state: 'saved', text: `Saved to the library as ${saved.id}, revision ${saved.revision}.` };
-      store.say(this.bench.library.text, 'done');
+      const text = `Saved to the library as ${saved.id}, revision ${saved.revision}.`;
+      store.setLibraryState({ state: 'saved', text });
+      store.say(text, 'done');
     } catch (error) {
-      this.bench.library = { state: 'failed', text: `Not saved to the library: ${(error as Error).message}. Your work is still here; download the files to keep them.` };
-      store.say(this.bench.library.text, 'error');
+      if (store.doc.id !== doc) return;
+      const { text, offerNew } = refusalSentence(error, entry);
+      store.setLibraryState({ state: 'failed', text, offerNew });
+      store.say(text, 'error');
     }
-    this.bench.requestRender();
   }
 }

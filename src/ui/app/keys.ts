@@ -3,9 +3,21 @@
  * except for undo and redo, which act on the take-off (a field's own undo is the browser's).
  */
 import type { Quantity } from '../../model/curveset.ts';
-import { STEPS } from '../store/store.ts';
+import { STEP_DEFINITIONS } from '../steps/registry.ts';
 import { targetFor } from '../store/target.ts';
-import type { Workbench } from './workbench.ts';
+import type { Store, Step } from '../store/store.ts';
+import type { Tool } from '../tools/tool.ts';
+
+/** What the keyboard reaches of the workbench. */
+export interface KeysHost {
+  readonly store: Store;
+  readonly canvas: { panBy(dx: number, dy: number): void };
+  activeTool(): Tool | null;
+  goto(step: Step): void;
+  download(what: 'takeoff'): void;
+  toggleKeys(): void;
+  zoom(action: 'in' | 'out' | 'fit'): void;
+}
 
 export const SHORTCUTS: readonly [string, string][] = [
   ['Ctrl+Z', 'undo the last edit'],
@@ -29,7 +41,7 @@ function typing(target: EventTarget | null): boolean {
   return target instanceof HTMLInputElement || target instanceof HTMLTextAreaElement || target instanceof HTMLSelectElement || (target instanceof HTMLElement && target.isContentEditable);
 }
 
-export function bindKeys(bench: Workbench): void {
+export function bindKeys(bench: KeysHost): void {
   document.addEventListener('keydown', (event) => {
     const { store } = bench;
     const ctrl = event.ctrlKey || event.metaKey;
@@ -61,8 +73,9 @@ export function bindKeys(bench: Workbench): void {
       return;
     }
     const stepIndex = Number(event.key) - 1;
-    if (Number.isInteger(stepIndex) && stepIndex >= 0 && stepIndex < STEPS.length) {
-      bench.goto(STEPS[stepIndex] as (typeof STEPS)[number]);
+    const step = Number.isInteger(stepIndex) ? STEP_DEFINITIONS[stepIndex] : undefined;
+    if (step) {
+      bench.goto(step.id);
       return;
     }
     const pan = event.shiftKey ? 200 : 50;

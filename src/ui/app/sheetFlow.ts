@@ -6,15 +6,33 @@
  */
 import { ZodError } from 'zod';
 import { describeZodError } from '../../model/errors.ts';
-import { choosePage, loadSheet, readFromSheet } from '../store/actions/setup.ts';
+import { choosePage, newSheetDraft, readFromSheet } from '../store/actions/setup.ts';
 import { readHints, type TextItem } from '../geometry/hints.ts';
 import type { Draft, SheetRef } from '../store/draft.ts';
 import { pointsOf } from '../store/draft.ts';
 import { fromTakeoffFile } from '../store/takeoffFile.ts';
-import type { Step } from '../store/store.ts';
-import type { SavedWork } from '../persist/autosave.ts';
+import { unitSystemOf, type Step } from '../store/store.ts';
+import { isStep } from '../steps/registry.ts';
+import { AUTOSAVE_FORMAT, AUTOSAVE_VERSION, chooseOffer, type SavedDocument } from '../persist/records.ts';
 import type { LoadedSheet } from './bench.ts';
-import type { Workbench } from './workbench.ts';
+import type { Store } from '../store/store.ts';
+import type { SheetCanvas } from '../canvas/sheetCanvas.ts';
+import type { Autosave } from '../persist/autosave.ts';
+import type { SheetWorkerClient } from '../worker/client.ts';
+
+/** What getting a sheet onto the workbench needs of it. */
+export interface SheetFlowHost {
+  readonly store: Store;
+  /** The worker that traces, and the one that replays the review. */
+  readonly worker: SheetWorkerClient;
+  readonly reviewWorker: SheetWorkerClient;
+  readonly canvas: Pick<SheetCanvas, 'clear' | 'showPage'>;
+  readonly autosave: Autosave;
+  /** What the top bar says about autosave. */
+  autosaved: string;
+  refreshDerived(): void;
+  requestRender(): void;
+}
 
 interface SheetBytes {
   bytes: ArrayBuffer;
@@ -45,7 +63,7 @@ export class SheetFlow {
   /** True once the worker has read the chosen page (captures and snapping work from then on). */
   pageReady = false;
 
-  constructor(private readonly bench: Workbench) {}
+  constructor(private readonly bench: SheetFlowHost) {}
 
   private get store() {
     return this.bench.store;
@@ -89,8 +107,12 @@ export class SheetFlow {
     await this.openBytes({ bytes, name: file.name, mime: mimeOf(file), sha256: '' }, options);
   }
 
-  /** Opens sheet bytes in the worker; on success replaces the sheet (and the draft, for a take-off file or a restore). */
-  async openBytes(sheet: SheetBytes, options: { takeoff?: unknown; takeoffName?: string; restore?: SavedWork }): Promise<void> {
+  /**
+   * Opens sheet bytes in the worker; on success the sheet is replaced, and with it the document:
+   * a new sheet or a take-off file starts a new document (a fresh id, no library entry), a
+   * restore brings back the kept one.
+   */
+  async openBytes(sheet: SheetBytes, options: { takeoff?: unknown; takeoffName?: string; restore?: SavedDocument }): Promise<void> {
     this.progress(`Opening ${sheet.name}`);
     const [opened] = await Promise.all([
       this.bench.worker.call('open', { bytes: sheet.bytes.slice(0), mime: sheet.mime, name: sheet.name }, (p) => this.progress(p.label, p.fraction)),
@@ -98,30 +120,38 @@ export class SheetFlow {
     ]);
     const kept = { ...sheet, sha256: opened.sha256 };
     const pageCount = opened.pages.length;
-    const firstPage = (page: number) => opened.pages[page - 1] ?? opened.pages[0] ?? { width: 1, height: 1 };
-    const refFor = (page: number): SheetRef => ({ name: sheet.name, sha256: opened.sha256, kind: opened.kind, mime: sheet.mime, page, pageCount, width: firstPage(page).width, height: firstPage(page).height });
+    const pageSize = (page: number) => opened.pages[page - 1] ?? opened.pages[0] ?? { width: 1, height: 1 };
+    const opening = (page: number): Omit<SheetRef, 'path'> => ({ name: sheet.name, sha256: opened.sha256, kind: opened.kind, mime: sheet.mime, page, pageCount, width: pageSize(page).width, height: pageSize(page).height });
 
     let draft: Draft | null = null;
     let step: Step = 'axes';
+    const cautions: string[] = [];
     if (options.takeoff !== undefined) {
-      const rebuilt = fromTakeoffFile(options.takeoff, refFor(1));
-      const page = Math.min(rebuilt.sheet?.page ?? 1, pageCount);
-      draft = { ...rebuilt, sheet: refFor(page) };
+      const rebuilt = fromTakeoffFile(options.takeoff, opening(1));
+      const wanted = rebuilt.sheet?.page ?? 1;
+      const page = Math.min(wanted, pageCount);
+      if (page !== wanted) cautions.push(`The take-off file names page ${wanted}, but the sheet has ${pageCount}; page ${page} is shown.`);
+      draft = { ...rebuilt, sheet: { ...opening(page), path: rebuilt.sheet?.path ?? sheet.name } };
+      if (rebuilt.sheet_sha256 && rebuilt.sheet_sha256 !== opened.sha256) cautions.push('This sheet is not the one the take-off file was captured from (its SHA-256 differs): check that the anchors and guides still sit on its lines.');
       step = 'review';
     } else if (options.restore) {
       draft = options.restore.draft;
-      step = options.restore.step;
+      // A record kept by a workbench with other steps opens at the axes.
+      step = isStep(options.restore.step) ? options.restore.step : 'axes';
     }
-    // Only now, with the new sheet readable, does anything on the workbench change.
+    // Only now, with the new sheet readable, does anything on the workbench change. The document
+    // on screen is written first, before the new one takes its place.
+    void this.bench.autosave.writeScheduled();
     this.pageReady = false;
     this.canvas().clear();
     this.bytes = kept;
     this.sheet = { name: sheet.name, mime: sheet.mime, kind: opened.kind, pages: opened.pages, thumbnails: new Map(), loadedKind: null, texts: 0 };
-    if (draft) {
-      if (options.restore) this.bench.restoreDraft(draft, step);
-      else this.store.dispatch(() => ({ draft: draft as Draft, label: `open ${options.takeoffName ?? 'take-off file'}`, undoable: true }));
+    if (options.restore && draft) {
+      const r = options.restore;
+      this.store.replace(draft, { step, target: r.target, unitSystem: r.unitSystem }, { id: r.id, library: r.library });
     } else {
-      this.store.dispatch(loadSheet(refFor(1), sheet.name.replace(/\.[^.]+$/, '')));
+      this.store.newDocument(draft ?? newSheetDraft({ ...opening(1), path: sheet.name }, sheet.name.replace(/\.[^.]+$/, ''), this.store.draft));
+      void this.bench.autosave.claim(this.store.doc.id);
     }
     void this.bench.autosave.saveSheet({ key: opened.sha256, name: sheet.name, mime: sheet.mime, bytes: sheet.bytes }).catch((e: Error) => this.store.say(e.message, 'caution'));
     if (pageCount > 1) void this.makeThumbnails();
@@ -129,7 +159,7 @@ export class SheetFlow {
       await this.showPage(this.store.draft.sheet?.page ?? 1);
       this.store.setSession({ step: draft ? step : 'axes', drawingFrame: !draft || this.store.draft.panels.length === 0, activePanel: null });
       if (options.takeoff !== undefined) await this.captureMissing();
-      if (draft) this.store.say(`Opened ${options.takeoffName ?? sheet.name}: ${this.store.draft.traces.length} traces on ${this.store.draft.panels.length} panels.`, 'done');
+      if (draft) this.store.say(`Opened ${options.takeoffName ?? sheet.name}: ${this.store.draft.traces.length} traces on ${this.store.draft.panels.length} panels.${cautions.length ? ` ${cautions.join(' ')}` : ''}`, cautions.length ? 'caution' : 'done');
       else this.takeHints(sheet.name);
     } else {
       this.progress(null);
@@ -160,6 +190,8 @@ export class SheetFlow {
     const read: string[] = [];
     if (this.store.dispatch(readFromSheet(found))) {
       const d = this.store.draft;
+      // The review starts in the units the sheet is drawn in.
+      this.store.setSession({ unitSystem: unitSystemOf(d) });
       if (hints.speed_rpm) read.push(`${d.pump.speed_rpm} rpm`);
       if (hints.diameters) read.push(`diameters ${d.diameters.join(' ')} ${d.units.diameter}`);
       if (hints.units) read.push(`flow in ${d.units.flow}, head in ${d.units.head}, power in ${d.units.power}`);
@@ -213,7 +245,7 @@ export class SheetFlow {
     for (const [i, t] of missing.entries()) {
       this.progress(`Tracing ${i + 1} of ${missing.length}`, i / missing.length);
       try {
-        const answer = await this.bench.worker.call('capture', { guides: t.guides.map((g) => [g[0], g[1]]), method: t.method });
+        const answer = await this.bench.worker.call('capture', { guides: t.guides.map((g) => [g[0], g[1]]), method: t.method, ...(t.extent ? { extent: t.extent } : {}) });
         const draft = this.store.draft;
         this.store.dispatch(() => ({ draft: { ...draft, traces: draft.traces.map((x) => (x.id === t.id ? { ...x, captured: answer.points } : x)) }, label: 'capture', undoable: false }));
       } catch (error) {
@@ -223,33 +255,62 @@ export class SheetFlow {
     this.progress(null);
   }
 
-  autosaveNow(): void {
-    const { draft, session } = this.store;
-    if (!draft.sheet) return;
-    this.bench.autosave
-      .save({ format: 'pumpscribe.autosave', version: 1, savedAt: new Date().toISOString(), draft, step: session.step, target: session.target, sheetKey: this.bytes?.sha256 ?? null })
-      .then(() => {
-        this.bench.autosaved = `Kept in this browser at ${new Date().toLocaleTimeString()}`;
-        this.bench.requestRender();
-      })
-      .catch((error: Error) => {
-        this.bench.autosaved = 'Not kept in this browser';
-        this.store.say(error.message, 'error');
-      });
+  /** The record autosave keeps of the document on screen now. */
+  private savedDocument(): SavedDocument | null {
+    const { draft, session, doc } = this.store;
+    if (!draft.sheet) return null;
+    return { format: AUTOSAVE_FORMAT, version: AUTOSAVE_VERSION, id: doc.id, savedAt: new Date().toISOString(), draft, library: doc.library, step: session.step, target: session.target, unitSystem: session.unitSystem, sheetKey: this.bytes?.sha256 ?? null };
   }
 
-  /** On start: offers to restore autosaved work. */
-  async offerRestore(): Promise<SavedWork | null> {
+  /** Keeps this document in the browser, under its own id, a moment after the last change. */
+  autosaveNow(): void {
+    this.bench.autosave.schedule(() => this.savedDocument(), (error) => {
+      if (error) {
+        this.bench.autosaved = 'Not kept in this browser';
+        this.store.say(error.message, 'error');
+      } else {
+        this.bench.autosaved = `Kept in this browser at ${new Date().toLocaleTimeString()}`;
+      }
+      this.bench.requestRender();
+    });
+  }
+
+  /**
+   * On start: the kept document to offer — the one this tab had before a reload, else the most
+   * recent one that no other tab has open. The offered document is taken for this tab at once,
+   * so that another tab opened meanwhile is not offered it too.
+   */
+  async offerRestore(): Promise<SavedDocument | null> {
     try {
-      const saved = await this.bench.autosave.load();
-      if (!saved?.draft.sheet || !saved.sheetKey) return null;
-      return saved;
+      const autosave = this.bench.autosave;
+      let tabDocument = autosave.tabDocument();
+      // A reloaded page waits a moment for its previous page to let go of the document. A
+      // duplicated tab inherits the id of a document its original still has open: it is then
+      // offered another one.
+      if (tabDocument && !(await autosave.claim(tabDocument, 3000))) tabDocument = null;
+      const docs = await autosave.list();
+      const offer = chooseOffer(docs, { tabDocument, heldElsewhere: await autosave.heldElsewhere() });
+      if (!offer) return null;
+      if (offer.id !== tabDocument && !(await autosave.claim(offer.id))) return null;
+      void autosave.prune().catch(() => undefined);
+      return offer;
     } catch {
       return null;
     }
   }
 
-  async restore(saved: SavedWork): Promise<void> {
+  /** The other kept take-offs no other tab has open, newest first (at most `limit`). */
+  async otherKept(except: string, limit = 8): Promise<SavedDocument[]> {
+    try {
+      const held = await this.bench.autosave.heldElsewhere();
+      const docs = await this.bench.autosave.list();
+      return docs.filter((d) => d.id !== except && d.draft.sheet !== null && d.sheetKey !== null && !held.has(d.id)).slice(0, limit);
+    } catch {
+      return [];
+    }
+  }
+
+  async restore(saved: SavedDocument): Promise<void> {
     const sheet = saved.sheetKey ? await this.bench.autosave.loadSheet(saved.sheetKey) : null;
     if (!sheet) {
       this.store.say('The autosaved sheet could not be found in this browser; open the sheet again to continue.', 'error');
@@ -257,8 +318,11 @@ export class SheetFlow {
     }
     this.restoring = true;
     try {
+      if (!(await this.bench.autosave.claim(saved.id))) {
+        this.store.say('This take-off is open in another tab; continue there, or close that tab first.', 'error');
+        return;
+      }
       await this.openBytes({ bytes: sheet.bytes, name: sheet.name, mime: sheet.mime, sha256: sheet.key }, { restore: saved });
-      this.store.setSession({ target: saved.target });
       this.store.say(`Restored the take-off of ${sheet.name}: ${saved.draft.traces.length} traces, ${saved.draft.traces.reduce((s, t) => s + pointsOf(t).length, 0)} points.`, 'done');
     } catch (error) {
       this.progress(null);

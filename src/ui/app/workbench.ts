@@ -1,39 +1,34 @@
 /**
- * The take-off workbench: lays out the screen, keeps the views in step with the store,
- * routes pointer events to the tool of the current step, and hosts the tools (snapping,
- * capture and the magnifier go through here to the worker and the canvas).
+ * The take-off workbench, as wiring: lays out the screen, keeps the views in step with the
+ * store, routes pointer events to the tool the open step names (src/ui/steps), and connects
+ * the parts — the sheet flow (opening, restoring, autosave), the sheet tools (snapping,
+ * capture, magnifier, proposals), the derived review and the downloads — each through a
+ * narrow interface.
  */
 import type { Quantity } from '../../model/curveset.ts';
 import { parseUnit, toSI } from '../../units/index.ts';
 import type { SheetXY } from '../../model/takeoff.ts';
 import { h } from '../dom/h.ts';
 import { morph } from '../dom/morph.ts';
-import { paintScene, type Preview } from '../canvas/overlay.ts';
+import { paintScene } from '../canvas/overlay.ts';
 import { SheetCanvas, type CanvasPointer } from '../canvas/sheetCanvas.ts';
 import { Magnifier } from '../canvas/magnifier.ts';
-import type { Snap } from '../geometry/snap.ts';
 import { Autosave } from '../persist/autosave.ts';
 import { setGuides } from '../store/actions/traces.ts';
-import { useProposal } from '../store/actions/panels.ts';
 import type { AnchorProposal } from '../worker/protocol.ts';
-import { bestProposal } from './proposals.ts';
-import { plotsOfFrame } from '../geometry/hints.ts';
-import type { Draft } from '../store/draft.ts';
+import { axisUnits, frameOf } from '../store/draft.ts';
 import { Store, type Step } from '../store/store.ts';
-import { panelAt, targetFor } from '../store/target.ts';
+import { STEP_DEFINITIONS, stepDefinition } from '../steps/registry.ts';
+import { panelAt } from '../store/target.ts';
 import { AnchorTool } from '../tools/anchorTool.ts';
 import { FrameTool } from '../tools/frameTool.ts';
 import { PickTool } from '../tools/pickTool.ts';
 import { TraceTool } from '../tools/traceTool.ts';
-import { snapRadius, type Tool, type ToolHost } from '../tools/tool.ts';
+import type { Tool } from '../tools/tool.ts';
+import { SheetTools } from './sheetTools.ts';
 import { SheetWorkerClient } from '../worker/client.ts';
-import { axesStep } from '../views/axesStep.ts';
 import { emptyStage, keysHelp, statusLine, stepList, topBar } from '../views/chrome.ts';
 import { familyChart } from '../views/familyChart.ts';
-import { loadStep } from '../views/loadStep.ts';
-import { reviewStep } from '../views/reviewStep.ts';
-import { saveStep } from '../views/saveStep.ts';
-import { traceStep } from '../views/traceStep.ts';
 import { num, QUANTITY_NAMES, unitText } from '../views/words.ts';
 import { EMPTY_DUTY, runDuty, type DutyForm, type DutyOutcome } from '../views/dutyPanel.ts';
 import type { Bench, Derived, LoadedSheet } from './bench.ts';
@@ -42,7 +37,7 @@ import { bindKeys, SHORTCUTS } from './keys.ts';
 import { SheetFlow } from './sheetFlow.ts';
 import { Downloads } from './downloads.ts';
 
-export class Workbench implements Bench, ToolHost {
+export class Workbench implements Bench {
   readonly store = new Store();
   readonly worker = new SheetWorkerClient();
   /** A second worker for the review: it replays the whole take-off while the first keeps tracing. */
@@ -54,13 +49,9 @@ export class Workbench implements Bench, ToolHost {
   readonly downloads: Downloads;
   readout = '';
   private readonly derivedState: DerivedState;
-  private preview: Preview | null = null;
-  private pending: readonly SheetXY[] = [];
-  private snapCache: { at: SheetXY; radius: number; snap: Snap | null } | null = null;
-  private snapWanted: SheetXY | null = null;
-  private snapBusy = false;
   private readonly tools: Record<'frame' | 'anchor' | 'trace' | 'pick', Tool>;
-  private readonly proposals = new Map<string, AnchorProposal>();
+  /** The pointer tools' host: snapping, capture, magnifier, previews and proposed anchors. */
+  readonly sheetTools: SheetTools;
   private readonly parts: { top: HTMLElement; side: HTMLElement; status: HTMLElement; chart: HTMLElement; stage: HTMLDivElement; keys: HTMLElement; empty: HTMLElement };
   private keysOpen = false;
 
@@ -73,9 +64,8 @@ export class Workbench implements Bench, ToolHost {
   autosaved = '';
   private dutyForm: DutyForm = EMPTY_DUTY;
   private dutyMemo: { key: string; outcome: DutyOutcome } | null = null;
-  library: { state: 'idle' | 'saving' | 'saved' | 'failed'; text: string } = { state: 'idle', text: '' };
 
-  constructor(private readonly root: HTMLElement) {
+  constructor(root: HTMLElement) {
     const stage = h('div', { class: 'stage', tabindex: '0', role: 'application', 'aria-label': 'The sheet. Zoom with the wheel, + and −; pan with the arrow keys or by dragging with the middle button or with Space held.' }) as HTMLDivElement;
     this.parts = { top: h('header'), side: h('aside', { class: 'side' }), status: h('footer'), chart: h('section', { class: 'chart-pane', 'aria-label': 'Family chart' }), stage, keys: h('div', { class: 'keys-host', hidden: true }), empty: emptyStage() };
     this.derivedState = new DerivedState(this.reviewWorker, () => this.requestRender(), () => this.downloads.names());
@@ -90,13 +80,29 @@ export class Workbench implements Bench, ToolHost {
         session: this.store.session,
         calibrated: new Set([...this.derived.calibrations].filter(([, c]) => c.ok).map(([id]) => id)),
         fits: this.derived.fits,
-        preview: this.preview,
-        pendingGuides: this.pending,
+        // The canvas paints once while the workbench is still being built, before its tools exist.
+        preview: (this.sheetTools as SheetTools | undefined)?.preview ?? null,
+        pendingGuides: (this.sheetTools as SheetTools | undefined)?.pending ?? [],
         proposals: this.sceneProposals(),
+        layers: stepDefinition(this.store.session.step).layers,
       }),
     );
     this.magnifier = new Magnifier(stage, this.canvas);
-    this.tools = { frame: new FrameTool(this), anchor: new AnchorTool(this), trace: new TraceTool(this), pick: new PickTool(this) };
+    const bench = this;
+    this.sheetTools = new SheetTools({
+      store: this.store,
+      worker: this.worker,
+      canvas: this.canvas,
+      magnifier: this.magnifier,
+      get derived() {
+        return bench.derived;
+      },
+      loadedKind: () => this.sheet?.loadedKind ?? null,
+      words: () => this.flow.words,
+      requestRender: () => this.requestRender(),
+    });
+    const host = this.sheetTools;
+    this.tools = { frame: new FrameTool(host), anchor: new AnchorTool(host), trace: new TraceTool(host), pick: new PickTool(host) };
     this.canvas.setInput({
       down: (p) => this.activeTool()?.down(p),
       move: (p) => {
@@ -116,8 +122,17 @@ export class Workbench implements Bench, ToolHost {
     this.canvas.onView(() => this.requestRender('light'));
     this.flow = new SheetFlow(this);
     this.downloads = new Downloads(this);
+    let kept = { step: this.store.session.step, target: this.store.session.target, unitSystem: this.store.session.unitSystem };
     this.store.subscribe((_, reason) => {
-      if (reason !== 'session') {
+      const { step, target, unitSystem } = this.store.session;
+      if (reason === 'session' && (step !== kept.step || target !== kept.target || unitSystem !== kept.unitSystem)) {
+        // Where the engineer is belongs to the document too: a reload comes back to it.
+        kept = { step, target, unitSystem };
+        this.flow.autosaveNow();
+      }
+      if (reason === 'replace') this.sheetTools.forgetProposals();
+      if (reason === 'document') this.flow.autosaveNow();
+      else if (reason !== 'session') {
         const before = this.calibratedPanels();
         this.derivedState.update(this.store.draft, this.flow.pageReady);
         this.flow.autosaveNow();
@@ -126,12 +141,18 @@ export class Workbench implements Bench, ToolHost {
       this.requestRender();
     });
     bindKeys(this);
+    // A write still waiting when the page goes (a reload, a closed tab) is made at once.
+    window.addEventListener('pagehide', () => void this.autosave.flush());
     this.bindDrop();
     this.requestRender();
   }
 
   get sheet(): LoadedSheet | null {
     return this.flow.sheet;
+  }
+
+  get sheetBytes() {
+    return this.flow.sheetBytes;
   }
 
   get derived(): Derived {
@@ -151,23 +172,15 @@ export class Workbench implements Bench, ToolHost {
   activeTool(): Tool | null {
     const { session, draft } = this.store;
     if (!draft.sheet || !this.flow.pageReady) return null;
-    switch (session.step) {
-      case 'axes':
-        return session.drawingFrame || draft.panels.length === 0 || !session.activePanel ? this.tools.frame : this.tools.anchor;
-      case 'trace':
-        return this.tools.trace;
-      case 'review':
-      case 'save':
-        return this.tools.pick;
-      default:
-        return null;
-    }
+    const name = stepDefinition(session.step).tool(draft, session);
+    return name ? this.tools[name] : null;
   }
 
   nextClick(): string {
     const { draft, session } = this.store;
     if (!draft.sheet) return 'Open a sheet in step 1: click “Open a sheet…” or drop a file on the window.';
-    if (session.step === 'load') return this.sheet && this.sheet.pages.length > 1 ? 'Click a page picture to choose the page, or go on to “Set the axes”.' : 'Go on to “Set the axes” (press 2).';
+    const step = stepDefinition(session.step);
+    if (!step.tool(draft, session) && step.hint) return step.hint(this);
     if (!this.flow.pageReady) return 'Reading the page…';
     return this.activeTool()?.status() ?? '';
   }
@@ -204,9 +217,9 @@ export class Workbench implements Bench, ToolHost {
     this.parts.keys.hidden = !this.keysOpen;
     if (this.keysOpen && !this.parts.keys.firstChild) this.parts.keys.append(keysHelp(SHORTCUTS, () => this.toggleKeys()));
     this.parts.empty.hidden = this.store.draft.sheet !== null;
-    morph(this.parts.side, h('aside', { class: 'side' }, stepList(this, { load: loadStep, axes: axesStep, trace: traceStep, review: reviewStep, save: (b) => saveStep(b, this.library) })));
+    morph(this.parts.side, h('aside', { class: 'side' }, stepList(this, STEP_DEFINITIONS)));
     morph(this.parts.status, statusLine(this));
-    const showChart = (this.store.session.step === 'review' || this.store.session.step === 'save') && this.derived.curveSet !== null;
+    const showChart = stepDefinition(step).chart && this.derived.curveSet !== null;
     this.parts.chart.hidden = !showChart;
     if (showChart && this.derived.curveSet) {
       const highlighted = this.store.draft.traces.find((t) => t.id === this.store.session.highlightedTrace);
@@ -242,13 +255,13 @@ export class Workbench implements Bench, ToolHost {
     }
     const d = cal.calibration.toData(p.sheet);
     const yName = { head: 'H', efficiency: 'η', power: 'P', npshr: 'NPSHr' }[panel.plots];
-    this.readout = `Q ${num(d[0], 4)} ${unitText(panel.units.x)} · ${yName} ${num(d[1], 4)} ${unitText(panel.units.y)} (${QUANTITY_NAMES[panel.plots].toLowerCase()} panel)`;
+    this.readout = `Q ${num(d[0], 4)} ${unitText(axisUnits(draft.units, panel).x)} · ${yName} ${num(d[1], 4)} ${unitText(axisUnits(draft.units, panel).y)} (${QUANTITY_NAMES[panel.plots].toLowerCase()} panel)`;
   }
 
   private sceneProposals(): { at: SheetXY; axis: 'x' | 'y'; value: number }[] {
     const { session } = this.store;
     if (session.step !== 'axes' || !session.activePanel) return [];
-    const p = this.proposals.get(session.activePanel);
+    const p = this.sheetTools.proposalFor(session.activePanel);
     if (!p) return [];
     return p.anchors.map((a) => (a.x !== undefined ? { at: a.at, axis: 'x' as const, value: a.x } : { at: a.at, axis: 'y' as const, value: a.y ?? 0 }));
   }
@@ -301,16 +314,9 @@ export class Workbench implements Bench, ToolHost {
 
   goto(step: Step): void {
     const { draft, session } = this.store;
-    const patch: Partial<typeof session> = { step, highlightedTrace: step === 'review' ? session.highlightedTrace : null };
-    if (step === 'axes' && !session.activePanel && draft.panels.length === 0) patch.drawingFrame = true;
-    if (step === 'trace') {
-      const t = session.target;
-      if (!draft.panels.some((p) => p.plots === t.quantity) && !(t.lines === 'iso' && draft.panels.some((p) => p.plots === 'head'))) patch.target = targetFor(draft, draft.panels[0]?.plots ?? 'head');
-      else if (t.lines === 'diameter' && (t.diameter === undefined || !draft.diameters.includes(t.diameter))) patch.target = targetFor(draft, t.quantity);
-    }
-    this.store.setSession(patch);
+    this.store.setSession({ step, highlightedTrace: null, ...stepDefinition(step).enter?.(draft, session) });
     this.magnifier.hide();
-    this.preview = null;
+    this.sheetTools.preview = null;
   }
 
   startFrame(plots: Quantity): void {
@@ -322,7 +328,7 @@ export class Workbench implements Bench, ToolHost {
     const panel = this.store.draft.panels.find((p) => p.id === id);
     this.store.setSession({ activePanel: this.store.session.activePanel === id ? null : id, drawingFrame: false });
     if (panel) {
-      const [l, t, r, b] = panel.frame;
+      const [l, t, r, b] = frameOf(panel);
       this.canvas.showRect([l, t, r - l, b - t], 60);
     }
   }
@@ -332,7 +338,7 @@ export class Workbench implements Bench, ToolHost {
     const trace = this.store.draft.traces.find((t) => t.id === id);
     const panel = trace ? this.store.draft.panels.find((p) => p.id === trace.panel) : undefined;
     if (panel) {
-      const [l, t, r, b] = panel.frame;
+      const [l, t, r, b] = frameOf(panel);
       this.canvas.showRect([l, t, r - l, b - t], 40);
     }
   }
@@ -340,7 +346,7 @@ export class Workbench implements Bench, ToolHost {
   retrace(id: string): void {
     const trace = this.store.draft.traces.find((t) => t.id === id);
     if (!trace || trace.guides.length === 0) return;
-    void this.capture(trace.guides, trace.method).then(
+    void this.sheetTools.capture(trace.guides, trace.method, trace.extent).then(
       ({ points, gaps }) => {
         this.store.dispatch(setGuides(id, trace.guides, points, 're-trace'));
         this.store.say(gaps.length ? gaps.join(' ') : `Re-traced: ${points.length} points.`, gaps.length ? 'caution' : 'done');
@@ -353,8 +359,8 @@ export class Workbench implements Bench, ToolHost {
     this.downloads.download(what);
   }
 
-  saveToLibrary(): void {
-    void this.downloads.saveToLibrary();
+  saveToLibrary(asNew = false): void {
+    void this.downloads.saveToLibrary(asNew);
   }
 
   zoom(action: 'in' | 'out' | 'fit'): void {
@@ -362,126 +368,14 @@ export class Workbench implements Bench, ToolHost {
     else this.canvas.zoomBy(action === 'in' ? 1.25 : 0.8);
   }
 
-  // ── tool host ──────────────────────────────────────────────────────────────
-
-  view() {
-    return this.canvas.currentView;
-  }
-
-  setPreview(preview: Preview | null): void {
-    this.preview = preview;
-    this.canvas.redrawOverlay();
-  }
-
-  setPending(guides: readonly SheetXY[]): void {
-    this.pending = guides;
-    this.canvas.redrawOverlay();
-  }
-
-  snapNow(at: SheetXY): Snap | null {
-    const c = this.snapCache;
-    if (!c) return null;
-    const near = Math.hypot(c.at[0] - at[0], c.at[1] - at[1]) <= c.radius * 0.3;
-    if (!near || !c.snap) return null;
-    return Math.hypot(c.snap.at[0] - at[0], c.snap.at[1] - at[1]) <= c.radius ? c.snap : null;
-  }
-
-  async snapOnce(at: SheetXY, radius?: number): Promise<Snap | null> {
-    return this.worker.call('snap', { at: [at[0], at[1]], radius: radius ?? snapRadius(this.view()) }).catch(() => null);
-  }
-
-  /** Asks the worker where `at` snaps; one request at a time, the latest position wins. */
-  async snap(at: SheetXY): Promise<Snap | null> {
-    this.snapWanted = at;
-    if (this.snapBusy) return this.snapNow(at);
-    this.snapBusy = true;
-    try {
-      while (this.snapWanted) {
-        const want = this.snapWanted;
-        this.snapWanted = null;
-        const radius = snapRadius(this.view());
-        const snap = await this.worker.call('snap', { at: [want[0], want[1]], radius }).catch(() => null);
-        this.snapCache = { at: want, radius, snap };
-      }
-    } finally {
-      this.snapBusy = false;
-    }
-    return this.snapNow(at);
-  }
-
-  async capture(guides: readonly SheetXY[], method: 'auto' | 'vector' | 'raster'): Promise<{ points: SheetXY[]; gaps: string[] }> {
-    this.store.setSession({ busy: true, progress: { label: 'Tracing…', fraction: null } });
-    try {
-      const answer = await this.worker.call('capture', { guides: guides.map((g) => [g[0], g[1]]), method }, (p) => this.store.setSession({ progress: { label: p.label, fraction: p.fraction } }));
-      if (answer.points.length < 2) {
-        const why = answer.gaps.length ? ` (${answer.gaps.join(' ')})` : '';
-        throw new Error(`No line could be followed from this click${why}; click right on the line, zoom in if lines run close, or add guides with Shift-click.`);
-      }
-      return { points: answer.points, gaps: answer.gaps };
-    } finally {
-      this.store.setSession({ busy: false, progress: null });
-    }
-  }
-
-  magnify(p: CanvasPointer, mark: SheetXY | null, snapped: boolean): void {
-    this.magnifier.show(p.sheet, p.screen, mark, snapped);
-  }
-
-  afterFrame(panelId: string): void {
-    const panel = this.store.draft.panels.find((p) => p.id === panelId);
-    if (!panel) return;
-    const missing = panel.anchors.findIndex((a) => a.x === undefined && a.y === undefined);
-    if (this.sheet?.loadedKind !== 'vector-pdf') {
-      if (missing >= 0) this.focusAnchorValue(panelId, missing);
-      return;
-    }
-    void this.worker.call('propose', {}).then((all) => {
-      const best = bestProposal(all, panel.frame);
-      if (best) {
-        this.proposals.set(panelId, best);
-        this.store.say(`Anchors were read from the sheet's text for this panel (residual ${num(best.residual, 2)} % of span). Check them, then click “Use the proposed anchors”.`, 'info');
-        this.requestRender();
-        requestAnimationFrame(() => requestAnimationFrame(() => (document.getElementById(`use-proposal-${panelId}`) as HTMLButtonElement | null)?.focus()));
-      } else if (missing >= 0) this.focusAnchorValue(panelId, missing);
-    }, () => {
-      if (missing >= 0) this.focusAnchorValue(panelId, missing);
-    });
-  }
-
-  flowAt(panelId: string, at: SheetXY): number | null {
-    const c = this.derived.calibrations.get(panelId);
-    return c?.ok ? c.calibration.toData(at)[0] : null;
-  }
-
-  guessPlots(frame: readonly [number, number, number, number]): Quantity | null {
-    return plotsOfFrame(this.flow.words, frame);
-  }
+  // ── proposals (held by the sheet tools) ───────────────────────────────────
 
   proposalFor(panelId: string): AnchorProposal | null {
-    return this.proposals.get(panelId) ?? null;
+    return this.sheetTools.proposalFor(panelId);
   }
 
   useProposal(panelId: string): void {
-    const p = this.proposals.get(panelId);
-    if (!p) return;
-    const anchors = p.anchors.map((a) => ({ at: a.at, ...(a.x !== undefined ? { x: a.x, label: 'x' } : {}), ...(a.y !== undefined ? { y: a.y, label: 'y' } : {}) }));
-    if (this.store.dispatch(useProposal(panelId, anchors, p.xScale, p.yScale))) {
-      this.proposals.delete(panelId);
-      this.store.say(`Took ${anchors.length} anchors from the sheet's text.`, 'done');
-    }
-  }
-
-  focusAnchorValue(panelId: string, index: number): void {
-    // The field appears with the next render.
-    requestAnimationFrame(() => requestAnimationFrame(() => {
-      const el = document.getElementById(`anchor-${panelId}-${index}`) as HTMLInputElement | null;
-      el?.focus();
-      el?.select();
-    }));
-  }
-
-  restoreDraft(draft: Draft, step: Step): void {
-    this.store.replace(draft, { step });
+    this.sheetTools.useProposal(panelId);
   }
 
   private bindDrop(): void {

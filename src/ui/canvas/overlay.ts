@@ -5,7 +5,7 @@
  */
 import type { Quantity } from '../../model/curveset.ts';
 import type { SheetXY } from '../../model/takeoff.ts';
-import { anchorAxis, pointsOf, type Draft, type PanelDraft, type TraceDraft } from '../store/draft.ts';
+import { frameOf, anchorAxis, pointsOf, type Draft, type PanelDraft, type TraceDraft } from '../store/draft.ts';
 import type { Session } from '../store/store.ts';
 import { toScreen, type View } from './view.ts';
 
@@ -47,6 +47,8 @@ export interface Scene {
   pendingGuides: readonly SheetXY[];
   /** Anchors proposed from the text layer, not yet taken. */
   proposals: readonly { at: SheetXY; axis: 'x' | 'y'; value: number }[];
+  /** Which layers the open step shows. */
+  layers: { readonly anchors: boolean; readonly traces: boolean; readonly fits: boolean };
 }
 
 const HALO = 'rgba(255,255,255,0.92)';
@@ -84,7 +86,7 @@ function label(ctx: CanvasRenderingContext2D, text: string, x: number, y: number
 const PANEL_INK = '#0d6b6b';
 
 function paintPanel(ctx: CanvasRenderingContext2D, view: View, panel: PanelDraft, active: boolean, calibrated: boolean): void {
-  const [l, t, r, b] = panel.frame;
+  const [l, t, r, b] = frameOf(panel);
   const [x0, y0] = toScreen(view, [l, t]);
   const [x1, y1] = toScreen(view, [r, b]);
   ctx.beginPath();
@@ -257,16 +259,16 @@ export function paintScene(ctx: CanvasRenderingContext2D, view: View, scene: Sce
   const { draft, session } = scene;
   ctx.lineCap = 'round';
   ctx.lineJoin = 'round';
-  const showAnchors = session.step === 'axes';
+  const showAnchors = scene.layers.anchors;
   for (const panel of draft.panels) {
     paintPanel(ctx, view, panel, session.activePanel === panel.id && showAnchors, scene.calibrated.has(panel.id));
     if (showAnchors) paintAnchors(ctx, view, panel, session.activePanel === panel.id);
   }
   if (showAnchors) paintProposals(ctx, view, scene.proposals);
-  if (session.step !== 'load') {
+  if (scene.layers.traces) {
     for (const trace of draft.traces) if (!trace.hidden) paintTrace(ctx, view, trace, session, scene.preview);
   }
-  if (session.step === 'review' || session.step === 'save') paintFits(ctx, view, scene.fits, session);
+  if (scene.layers.fits) paintFits(ctx, view, scene.fits, session);
   for (const g of scene.pendingGuides) paintGuide(ctx, view, g, '#111827');
   if (scene.preview) paintPreview(ctx, view, scene.preview);
 }

@@ -1,18 +1,25 @@
 /**
- * The workbench's document: a take-off in progress. It holds the same records as the
- * take-off file (panels, anchors, traces, captured points) plus what only the workbench
- * needs (the sheet's name and page count, the list of diameters, hidden and locked traces,
- * anchors still waiting for their value). `toTakeoffFile` and `fromTakeoffFile` convert
- * to and from the file; each record is validated with the file's own schema on the way.
+ * The workbench's document is the take-off record itself (src/model/takeoff.ts: sheet, page,
+ * sheet_sha256, pump, units, panels, traces, notes), with the same field names, types and
+ * meaning, plus a few typed view-only extras that the file does not carry:
+ *   - `sheet`: besides the file's `sheet` (as `sheet.path`) and `page`, what the workbench
+ *     knows of the opened file (name, kind, checksum of its bytes, page count and size);
+ *   - `diameters`: the family's impeller diameters, to offer as targets;
+ *   - per panel `plots`: what it plots; anchors may wait for their value while being placed;
+ *   - per trace `hidden` and `locked`; every trace has an id and a (possibly empty) list of guides.
+ * Every other field of the record is kept as it came, so a take-off file read and written
+ * again comes back field for field (`toTakeoffFile(fromTakeoffFile(f))` is `f`).
  *
  * Sheet coordinates: PDF points or image pixels, origin top-left, y down.
- * Values are as read off the sheet, in the units the draft names — never SI.
+ * Values are as read off the sheet, in the units the record names — never SI.
  */
+import type { z } from 'zod';
 import type { Quantity } from '../../model/curveset.ts';
-import type { AxisScaleType, SheetXY } from '../../model/takeoff.ts';
+import type { Panel, SheetXY, TakeoffPump, TakeoffUnits, Trace } from '../../model/takeoff.ts';
 
 export type Frame = readonly [left: number, top: number, right: number, bottom: number];
 
+/** An anchor of the record; while being placed it may still wait for its value. */
 export interface AnchorDraft {
   readonly at: SheetXY;
   /** Value on the x axis (flow), in the panel's x unit; absent while not yet typed. */
@@ -22,43 +29,41 @@ export interface AnchorDraft {
   readonly label?: string;
 }
 
-export interface PanelDraft {
-  readonly id: string;
-  /** What the panel plots; decides the y unit and the default quantity to trace. */
-  readonly plots: Quantity;
-  readonly frame: Frame;
+/** A panel of the record (frame and units optional, as in the file) plus what it plots (view only). */
+export type PanelDraft = Readonly<Omit<Panel, 'anchors'>> & {
   readonly anchors: readonly AnchorDraft[];
-  readonly x_scale: AxisScaleType;
-  readonly y_scale: AxisScaleType;
-  readonly units: { readonly x: string; readonly y: string };
-}
+  /** View only: what the panel plots; decides the default y unit and the quantity to trace. */
+  readonly plots: Quantity;
+};
 
-export type CaptureMethod = 'auto' | 'vector' | 'raster';
+export type CaptureMethod = Trace['method'];
 
-export interface TraceDraft {
+/** A trace of the record (extent, captured_by, … kept as they came) plus the view-only switches. */
+export type TraceDraft = Readonly<Omit<Trace, 'id' | 'guides'>> & {
   readonly id: string;
-  readonly panel: string;
-  readonly quantity: Quantity;
-  /** Impeller diameter in the draft's diameter unit. */
-  readonly diameter?: number;
-  /** The constant of an iso-trace (efficiency in %, power in the power unit). */
-  readonly iso?: number;
+  /** Clicks on the drawn line; empty for a trace of explicit points. */
   readonly guides: readonly SheetXY[];
-  readonly method: CaptureMethod;
-  /** What the last capture produced from the guides. */
-  readonly captured?: readonly SheetXY[];
-  /** Points as edited by hand; when present they are used as they are. */
-  readonly points?: readonly SheetXY[];
+  /** View only. */
   readonly hidden?: boolean;
+  /** View only. */
   readonly locked?: boolean;
-}
+  /**
+   * View only: `points` are hand edits of the capture. The capture is kept for "undo edits" but
+   * not written to the file, so that no reader takes it for the points that count.
+   */
+  readonly edited?: boolean;
+};
 
 export interface SheetRef {
-  /** File name of the sheet, as the take-off file will refer to it. */
+  /** The record's `sheet`: the sheet's path as the take-off file refers to it. */
+  readonly path: string;
+  /** View only: file name of the opened sheet. */
   readonly name: string;
+  /** View only: SHA-256 of the opened sheet's bytes (the record's own is `sheet_sha256`). */
   readonly sha256?: string;
   readonly kind: 'pdf' | 'image';
   readonly mime: string;
+  /** The record's `page`. */
   readonly page: number;
   readonly pageCount: number;
   /** Size of the chosen page in sheet units. */
@@ -66,29 +71,23 @@ export interface SheetRef {
   readonly height: number;
 }
 
-export interface PumpDraft {
-  readonly name: string;
-  readonly speed_rpm: number;
-  readonly specific_gravity: number;
-}
+/** The record's pump: name, speed, specific gravity, and maker, model, size, type, stages, suction when known. */
+export type PumpDraft = Readonly<z.output<typeof TakeoffPump>>;
 
-export interface UnitsDraft {
-  readonly flow: string;
-  readonly head: string;
-  readonly power: string;
-  readonly npsh: string;
-  readonly diameter: string;
-}
+/** The record's units: power and NPSH may be absent, as in the file. */
+export type UnitsDraft = Readonly<z.output<typeof TakeoffUnits>>;
 
 export interface Draft {
   readonly sheet: SheetRef | null;
+  /** The record's checksum of the sheet the points were captured from. */
+  readonly sheet_sha256?: string;
   readonly pump: PumpDraft;
   readonly units: UnitsDraft;
-  /** The impeller diameters of the family, largest first, in units.diameter. */
-  readonly diameters: readonly number[];
   readonly panels: readonly PanelDraft[];
   readonly traces: readonly TraceDraft[];
-  readonly notes: readonly string[];
+  readonly notes?: readonly string[];
+  /** View only: the impeller diameters of the family, largest first, in units.diameter. */
+  readonly diameters: readonly number[];
 }
 
 export const EMPTY_DRAFT: Draft = {
@@ -98,15 +97,38 @@ export const EMPTY_DRAFT: Draft = {
   diameters: [],
   panels: [],
   traces: [],
-  notes: [],
 };
+
+/** The power unit numbers are read in: the record's, else what the curve set shows (hp for gpm sheets, kW otherwise). */
+export function powerUnit(units: UnitsDraft): string {
+  return units.power ?? (units.flow === 'gpm' ? 'hp' : 'kW');
+}
+
+/** The NPSH unit: the record's, else the head unit. */
+export function npshUnit(units: UnitsDraft): string {
+  return units.npsh ?? units.head;
+}
+
+/** The plot area of a panel: its frame, or the box around its anchors when the file gave none. */
+export function frameOf(panel: Pick<PanelDraft, 'frame' | 'anchors'>): Frame {
+  if (panel.frame) return panel.frame;
+  const xs = panel.anchors.map((a) => a.at[0]);
+  const ys = panel.anchors.map((a) => a.at[1]);
+  if (xs.length === 0) return [0, 0, 1, 1];
+  return [Math.min(...xs), Math.min(...ys), Math.max(...xs), Math.max(...ys)];
+}
+
+/** The units a panel's axes are read in: its own, else the record's by what it plots. */
+export function axisUnits(units: UnitsDraft, panel: Pick<PanelDraft, 'units' | 'plots'>): { x: string; y: string } {
+  return { x: panel.units?.x ?? units.flow, y: panel.units?.y ?? defaultYUnit(units, panel.plots) };
+}
 
 /** The unit a panel's y axis is read in, by what it plots. */
 export function defaultYUnit(units: UnitsDraft, plots: Quantity): string {
   switch (plots) {
     case 'head': return units.head;
-    case 'npshr': return units.npsh;
-    case 'power': return units.power;
+    case 'npshr': return npshUnit(units);
+    case 'power': return powerUnit(units);
     case 'efficiency': return '%';
   }
 }

@@ -1,15 +1,17 @@
 /**
- * The one store of the workbench: the draft with its undo history, and the session (what
- * the engineer is doing right now: step, selection, what the next click traces). Edits go
- * through `dispatch`, which runs a pure action; rendering only reads.
+ * The one store of the workbench: the document (its own id and the library entry it was saved
+ * to), the take-off record being edited with its undo history, and the session (what the
+ * engineer is doing right now: step, selection, what the next click traces, the state of the
+ * last library save). Edits go through `dispatch`, which runs a pure action; rendering only reads.
  */
 import type { Quantity } from '../../model/curveset.ts';
 import type { Action } from './actions/action.ts';
 import { EMPTY_DRAFT, type Draft } from './draft.ts';
 import { commit, redo, replacePresent, startHistory, undo, type History } from './history.ts';
 
-export type Step = 'load' | 'axes' | 'trace' | 'review' | 'save';
-export const STEPS: readonly Step[] = ['load', 'axes', 'trace', 'review', 'save'];
+import type { Step } from '../steps/registry.ts';
+
+export type { Step };
 
 /** What the next guide click traces. */
 export interface TraceTarget {
@@ -56,6 +58,8 @@ export interface Session {
   progress: { label: string; fraction: number | null } | null;
   /** True while a capture is running in the worker. */
   busy: boolean;
+  /** The last library save of this document. */
+  library: LibraryState;
 }
 
 export const INITIAL_SESSION: Session = {
@@ -72,22 +76,63 @@ export const INITIAL_SESSION: Session = {
   message: null,
   progress: null,
   busy: false,
+  library: { state: 'idle', text: '' },
 };
 
+/** The unit system the review starts in: the sheet's own (US for gpm sheets, else SI). */
+export function unitSystemOf(draft: Draft): 'si' | 'us' {
+  return draft.units.flow === 'gpm' || draft.units.head === 'ft' ? 'us' : 'si';
+}
+
+/** Where a document was last saved in the office library: the entry and the revision it made. */
+export interface LibraryLink {
+  readonly id: string;
+  readonly revision: number;
+}
+
+/**
+ * What makes a take-off one document: its own id (the key it is autosaved under) and the library
+ * entry it was saved to. Not part of the undo history: undoing an edit does not unsave it.
+ */
+export interface DocumentMeta {
+  readonly id: string;
+  readonly library: LibraryLink | null;
+}
+
+/** A fresh document id: random, so that two tabs or two browsers never pick the same one. */
+export function newDocumentId(): string {
+  const c = (globalThis as { crypto?: { randomUUID?: () => string } }).crypto;
+  if (c?.randomUUID) return c.randomUUID();
+  return `doc-${Date.now().toString(36)}-${Math.random().toString(36).slice(2, 12)}`;
+}
+
+/** The state of the last "Save to the library" of this document, as the save step shows it. */
+export interface LibraryState {
+  state: 'idle' | 'saving' | 'saved' | 'failed';
+  text: string;
+  /** True when the entry refused the save as another pump's or as stale: a new entry is offered. */
+  offerNew?: boolean;
+}
+
 export interface StoreState {
+  doc: DocumentMeta;
   history: History<Draft>;
   session: Session;
 }
 
-export type Listener = (state: StoreState, reason: 'edit' | 'undo' | 'redo' | 'session' | 'replace') => void;
+export type Listener = (state: StoreState, reason: 'edit' | 'undo' | 'redo' | 'session' | 'replace' | 'document') => void;
 
 export class Store {
   private state: StoreState;
   private readonly listeners = new Set<Listener>();
   private serial = 0;
 
-  constructor(draft: Draft = EMPTY_DRAFT, session: Partial<Session> = {}) {
-    this.state = { history: startHistory(draft), session: { ...INITIAL_SESSION, ...session } };
+  constructor(draft: Draft = EMPTY_DRAFT, session: Partial<Session> = {}, doc: DocumentMeta = { id: newDocumentId(), library: null }) {
+    this.state = { doc, history: startHistory(draft), session: { ...INITIAL_SESSION, ...session } };
+  }
+
+  get doc(): DocumentMeta {
+    return this.state.doc;
   }
 
   get draft(): Draft {
@@ -148,10 +193,28 @@ export class Store {
     return true;
   }
 
-  /** Starts afresh from a draft (a restored autosave): no undo history across it. */
-  replace(draft: Draft, session: Partial<Session> = {}): void {
-    this.state = { history: startHistory(draft), session: { ...this.state.session, ...session } };
+  /**
+   * Brings back a kept document (a restored autosave) as it was: its id, its library entry,
+   * its record and screen state. No undo history across it.
+   */
+  replace(draft: Draft, session: Partial<Session> = {}, doc: DocumentMeta = this.state.doc): void {
+    this.state = { doc, history: startHistory(draft), session: { ...this.state.session, ...resetSession(draft), ...session } };
     this.emit('replace');
+  }
+
+  /**
+   * Starts a new document (a new sheet, or a take-off file opened): a fresh id, no library
+   * entry, no undo history, and the screen state of a fresh start.
+   */
+  newDocument(draft: Draft, session: Partial<Session> = {}): void {
+    this.state = { doc: { id: newDocumentId(), library: null }, history: startHistory(draft), session: { ...this.state.session, ...resetSession(draft), ...session } };
+    this.emit('replace');
+  }
+
+  /** Records the library entry and revision this document was saved as (kept with the document). */
+  setLibrary(library: LibraryLink | null): void {
+    this.state = { ...this.state, doc: { ...this.state.doc, library } };
+    this.emit('document');
   }
 
   setSession(patch: Partial<Session>): void {
@@ -159,9 +222,27 @@ export class Store {
     this.emit('session');
   }
 
+  setLibraryState(library: LibraryState): void {
+    this.setSession({ library });
+  }
+
   say(text: string, tone: Tone = 'info', emit = true): void {
     this.serial += 1;
     this.state = { ...this.state, session: { ...this.state.session, message: { text, tone, serial: this.serial } } };
     if (emit) this.emit('session');
   }
+}
+
+/** The screen state that belongs to one document and must not leak into the next. */
+function resetSession(draft: Draft): Partial<Session> {
+  return {
+    activePanel: null,
+    selectedTrace: null,
+    lastTraced: null,
+    selectedPoint: null,
+    highlightedTrace: null,
+    target: INITIAL_SESSION.target,
+    unitSystem: unitSystemOf(draft),
+    library: { state: 'idle', text: '' },
+  };
 }

@@ -1,13 +1,15 @@
 /**
- * Between the workbench draft and the take-off file (`*.takeoff.json`). Writing drops what
- * is not yet usable (anchors without a value, traces without points or guides) and says so;
- * reading validates with the file's schema and rebuilds the workbench's extras.
+ * Between the workbench document and the take-off file (`*.takeoff.json`). The document is the
+ * take-off record with a few view-only extras (see draft.ts), so both ways are the identity on
+ * the record: reading adds the extras, writing takes them off again and keeps every other field
+ * as it is. Writing also drops what is not yet usable (anchors without a value, panels that do
+ * not calibrate, traces without points or guides) and says so.
  */
 import { UserError } from '../../model/errors.ts';
 import type { Quantity } from '../../model/curveset.ts';
 import { calibrate } from '../../digitize/calibration.ts';
 import { parseTakeoff, Takeoff, TAKEOFF_FORMAT, TAKEOFF_VERSION, type Panel, type Trace } from '../../model/takeoff.ts';
-import { anchorsWithValues, EMPTY_DRAFT, pointsOf, type Draft, type Frame, type PanelDraft, type SheetRef, type TraceDraft } from './draft.ts';
+import { anchorsWithValues, EMPTY_DRAFT, pointsOf, type Draft, type PanelDraft, type SheetRef, type TraceDraft } from './draft.ts';
 
 export interface WrittenTakeoff {
   takeoff: Takeoff;
@@ -25,7 +27,8 @@ export function toTakeoffFile(draft: Draft): WrittenTakeoff {
   const omitted: string[] = [];
   const panels: Panel[] = [];
   for (const p of draft.panels) {
-    const anchors = anchorsWithValues(p).map((a) => ({ at: [a.at[0], a.at[1]] as [number, number], ...(a.x !== undefined ? { x: a.x } : {}), ...(a.y !== undefined ? { y: a.y } : {}), ...(a.label ? { label: a.label } : {}) }));
+    const { plots: _view, anchors: all, ...record } = p;
+    const anchors = anchorsWithValues(p).map((a) => ({ ...a, at: [a.at[0], a.at[1]] as [number, number] }));
     if (anchors.length === 0) {
       omitted.push(`Panel ${p.id} has no anchor values yet and was left out.`);
       continue;
@@ -36,7 +39,8 @@ export function toTakeoffFile(draft: Draft): WrittenTakeoff {
       omitted.push(`Panel ${p.id} was left out: ${(error as Error).message}`);
       continue;
     }
-    panels.push({ id: p.id, anchors, x_scale: p.x_scale, y_scale: p.y_scale, frame: [...p.frame] as [number, number, number, number], units: { x: p.units.x, y: p.units.y } });
+    if (anchors.length < all.length) omitted.push(`Panel ${p.id}: ${all.length - anchors.length} anchor${all.length - anchors.length === 1 ? '' : 's'} without a value left out.`);
+    panels.push(structuredClone({ ...record, anchors }) as Panel);
   }
   const panelIds = new Set(panels.map((p) => p.id));
   const traces: Trace[] = [];
@@ -49,29 +53,25 @@ export function toTakeoffFile(draft: Draft): WrittenTakeoff {
       omitted.push(`Trace ${t.id} has neither guides nor points and was left out.`);
       continue;
     }
-    const trace: Trace = { id: t.id, panel: t.panel, quantity: t.quantity, method: t.method };
-    if (t.iso !== undefined) trace.iso = t.iso;
-    else if (t.diameter !== undefined) trace.diameter = t.diameter;
-    if (t.guides.length) trace.guides = t.guides.map((g) => [g[0], g[1]]);
-    // Hand-edited points are used as they are; the capture they replaced is not written, so
-    // that no reader can mistake it for the points that count.
-    if (t.points) trace.points = t.points.map((g) => [g[0], g[1]]);
-    else if (t.captured?.length) trace.captured = t.captured.map((g) => [g[0], g[1]]);
-    traces.push(trace);
+    const { hidden: _hidden, locked: _locked, edited, guides, ...kept } = t;
+    // Hand-edited points are used as they are; the capture they replaced is not written.
+    const { captured: _captured, captured_by: _by, ...withoutCapture } = kept;
+    const record = edited ? withoutCapture : kept;
+    traces.push(structuredClone({ ...record, ...(guides.length ? { guides } : {}) }) as Trace);
   }
   if (panels.length === 0) throw new DraftIncompleteError('Set the axes of at least one panel before saving the take-off file.');
   if (traces.length === 0) throw new DraftIncompleteError('Trace at least one curve before saving the take-off file.');
   const raw = {
     format: TAKEOFF_FORMAT,
     version: TAKEOFF_VERSION,
-    sheet: draft.sheet.name,
+    sheet: draft.sheet.path,
     page: draft.sheet.page,
-    ...(draft.sheet.sha256 ? { sheet_sha256: draft.sheet.sha256 } : {}),
-    pump: { name: draft.pump.name.trim() || 'Unnamed pump', speed_rpm: draft.pump.speed_rpm, specific_gravity: draft.pump.specific_gravity },
-    units: { flow: draft.units.flow, head: draft.units.head, power: draft.units.power, npsh: draft.units.npsh, diameter: draft.units.diameter },
+    ...(draft.sheet_sha256 ? { sheet_sha256: draft.sheet_sha256 } : {}),
+    pump: { ...draft.pump, name: draft.pump.name.trim() || 'Unnamed pump' },
+    units: { ...draft.units },
     panels,
     traces,
-    ...(draft.notes.length ? { notes: [...draft.notes] } : {}),
+    ...(draft.notes ? { notes: [...draft.notes] } : {}),
   };
   return { takeoff: parseTakeoff(Takeoff.parse(raw)), omitted };
 }
@@ -88,49 +88,29 @@ function guessPlots(panel: Panel, traces: readonly Trace[]): Quantity {
   return 'head';
 }
 
-/** Rebuilds a draft from a take-off file and the sheet it refers to. Throws ZodError or TakeoffError. */
-export function fromTakeoffFile(raw: unknown, sheet: SheetRef): Draft {
+/**
+ * The document of a take-off file and the sheet it refers to: the record as it is, with the
+ * view-only extras added. `sheet` says what was opened; the record's own `sheet` (its path),
+ * `page` and `sheet_sha256` are kept. Throws ZodError or TakeoffError.
+ */
+export function fromTakeoffFile(raw: unknown, sheet: Omit<SheetRef, 'path'>): Draft {
   const file = parseTakeoff(raw);
-  const units = { flow: file.units.flow, head: file.units.head, power: file.units.power ?? 'kW', npsh: file.units.npsh ?? file.units.head, diameter: file.units.diameter };
-  const panels: PanelDraft[] = file.panels.map((p) => {
-    const plots = guessPlots(p, file.traces);
-    const frame: Frame = p.frame ?? frameAround(p.anchors.map((a) => a.at));
-    return {
-      id: p.id,
-      plots,
-      frame,
-      anchors: p.anchors.map((a) => ({ at: a.at, ...(a.x !== undefined ? { x: a.x } : {}), ...(a.y !== undefined ? { y: a.y } : {}), ...(a.label ? { label: a.label } : {}) })),
-      x_scale: p.x_scale,
-      y_scale: p.y_scale,
-      units: { x: p.units?.x ?? units.flow, y: p.units?.y ?? (plots === 'efficiency' ? '%' : plots === 'power' ? units.power : plots === 'npshr' ? units.npsh : units.head) },
-    };
-  });
-  const traces: TraceDraft[] = file.traces.map((t, i) => ({
-    id: t.id ?? `t${i + 1}`,
-    panel: t.panel,
-    quantity: t.quantity,
-    ...(t.diameter !== undefined ? { diameter: t.diameter } : {}),
-    ...(t.iso !== undefined ? { iso: t.iso } : {}),
-    guides: t.guides ?? [],
-    method: t.method,
-    ...(t.captured ? { captured: t.captured } : {}),
-    ...(t.points ? { points: t.points } : {}),
-  }));
-  const diameters = [...new Set(traces.flatMap((t) => (t.diameter !== undefined ? [t.diameter] : [])))].sort((a, b) => b - a);
+  const { format: _format, version: _version, sheet: path, page, panels, traces, ...record } = file;
+  const draftPanels: PanelDraft[] = panels.map((p) => ({ ...p, plots: guessPlots(p, traces) }));
+  const draftTraces: TraceDraft[] = traces.map((t, i) => ({ ...t, id: t.id ?? freshTraceId(traces, i), guides: t.guides ?? [] }));
+  const diameters = [...new Set(draftTraces.flatMap((t) => (t.diameter !== undefined ? [t.diameter] : [])))].sort((a, b) => b - a);
   return {
     ...EMPTY_DRAFT,
-    sheet: { ...sheet, page: file.page },
-    pump: { name: file.pump.name, speed_rpm: file.pump.speed_rpm, specific_gravity: file.pump.specific_gravity },
-    units,
+    ...record,
+    sheet: { ...sheet, path, page },
     diameters,
-    panels,
-    traces,
-    notes: file.notes ?? [],
+    panels: draftPanels,
+    traces: draftTraces,
   };
 }
 
-function frameAround(points: readonly (readonly [number, number])[]): [number, number, number, number] {
-  const xs = points.map((p) => p[0]);
-  const ys = points.map((p) => p[1]);
-  return [Math.min(...xs), Math.min(...ys), Math.max(...xs), Math.max(...ys)];
+/** An id for a trace the file left without one: its position, unless another trace uses that. */
+function freshTraceId(traces: readonly Trace[], index: number): string {
+  const used = new Set(traces.flatMap((t) => (t.id ? [t.id] : [])));
+  for (let n = index + 1; ; n++) if (!used.has(`t${n}`)) return `t${n}`;
 }

@@ -6,8 +6,8 @@
  */
 import type { Quantity } from '../../model/curveset.ts';
 import type { SheetXY } from '../../model/takeoff.ts';
-import type { Draft, PanelDraft } from './draft.ts';
-import type { TraceTarget } from './store.ts';
+import { frameOf, powerUnit, type Draft, type PanelDraft, type TraceDraft, type UnitsDraft } from './draft.ts';
+import type { Session, TraceTarget } from './store.ts';
 
 export const QUANTITY_ORDER: readonly Quantity[] = ['head', 'efficiency', 'power', 'npshr'];
 
@@ -25,12 +25,16 @@ export function panelFor(draft: Draft, target: TraceTarget): PanelDraft | undefi
 /** The panel whose frame holds `at` (with a small margin), the smallest if frames overlap. */
 export function panelAt(draft: Draft, at: SheetXY): PanelDraft | undefined {
   const holding = draft.panels.filter((p) => {
-    const [l, t, r, b] = p.frame;
+    const [l, t, r, b] = frameOf(p);
     const mx = 0.02 * (r - l);
     const my = 0.02 * (b - t);
     return at[0] >= l - mx && at[0] <= r + mx && at[1] >= t - my && at[1] <= b + my;
   });
-  holding.sort((a, b) => (a.frame[2] - a.frame[0]) * (a.frame[3] - a.frame[1]) - (b.frame[2] - b.frame[0]) * (b.frame[3] - b.frame[1]));
+  const area = (p: PanelDraft) => {
+    const f = frameOf(p);
+    return (f[2] - f[0]) * (f[3] - f[1]);
+  };
+  holding.sort((a, b) => area(a) - area(b));
   return holding[0];
 }
 
@@ -102,10 +106,57 @@ export function targetProblem(draft: Draft, target: TraceTarget): string | null 
 const NAMES: Record<Quantity, string> = { head: 'head', efficiency: 'efficiency', power: 'power', npshr: 'NPSHr' };
 
 /** "head curve of 250 mm", "70 % efficiency line": the target in words, for the status line. */
-export function targetName(target: TraceTarget, units: { diameter: string; power: string }): string {
+export function targetName(target: TraceTarget, units: UnitsDraft): string {
   if (target.lines === 'iso') {
-    const unit = target.quantity === 'efficiency' ? '%' : units.power;
+    const unit = target.quantity === 'efficiency' ? '%' : powerUnit(units);
     return target.iso === undefined ? `line of constant ${NAMES[target.quantity]}` : `${target.iso} ${unit} ${NAMES[target.quantity]} line`;
   }
   return target.diameter === undefined ? `${NAMES[target.quantity]} curve` : `${NAMES[target.quantity]} curve of ${target.diameter} ${units.diameter}`;
+}
+
+/** The target that traces this trace's curve again: its quantity, its diameter (or iso value) and its panel. */
+export function targetOfTrace(t: Pick<TraceDraft, 'quantity' | 'diameter' | 'iso' | 'panel'>): TraceTarget {
+  if (t.iso !== undefined) return { quantity: t.quantity, lines: 'iso', iso: t.iso, panel: t.panel };
+  return { quantity: t.quantity, lines: 'diameter', ...(t.diameter !== undefined ? { diameter: t.diameter } : {}), panel: t.panel };
+}
+
+/**
+ * The screen state after a trace was deleted: the next click re-does that curve (its quantity
+ * and diameter), not the curve proposed after it; a selection of the deleted trace is cleared.
+ */
+export function afterRemoval(session: Pick<Session, 'selectedTrace' | 'lastTraced' | 'highlightedTrace'>, removed: TraceDraft): Partial<Session> {
+  return {
+    target: targetOfTrace(removed),
+    ...(session.selectedTrace === removed.id ? { selectedTrace: null, selectedPoint: null } : {}),
+    ...(session.lastTraced === removed.id ? { lastTraced: null } : {}),
+    ...(session.highlightedTrace === removed.id ? { highlightedTrace: null } : {}),
+  };
+}
+
+/** Traces already filed under the curve a target would trace (same quantity and diameter, not iso-lines). */
+export function tracesOfCurve(draft: Draft, target: Pick<TraceTarget, 'quantity' | 'lines' | 'diameter'>): TraceDraft[] {
+  if (target.lines !== 'diameter' || target.diameter === undefined) return [];
+  return draft.traces.filter((t) => t.quantity === target.quantity && t.iso === undefined && t.diameter === target.diameter);
+}
+
+/**
+ * Curves with more than one trace: the replay fits their points together as one curve. Said on
+ * screen, so that a trace filed under the wrong diameter is never merged silently.
+ */
+export function sharedCurves(draft: Draft): { quantity: Quantity; diameter: number; ids: string[] }[] {
+  const groups = new Map<string, { quantity: Quantity; diameter: number; ids: string[] }>();
+  for (const t of draft.traces) {
+    if (t.iso !== undefined || t.diameter === undefined) continue;
+    const key = `${t.quantity}|${t.diameter}`;
+    const g = groups.get(key) ?? { quantity: t.quantity, diameter: t.diameter, ids: [] };
+    g.ids.push(t.id);
+    groups.set(key, g);
+  }
+  return [...groups.values()].filter((g) => g.ids.length > 1);
+}
+
+/** "Head 235 mm has 2 traces (t2, t5): …" — the sentence for a shared curve. */
+export function sharedCurveSentence(g: { quantity: Quantity; diameter: number; ids: string[] }, diameterUnit: string): string {
+  const name = `${NAMES[g.quantity][0]?.toUpperCase()}${NAMES[g.quantity].slice(1)} ${g.diameter} ${diameterUnit}`;
+  return `${name} has ${g.ids.length} traces (${g.ids.join(', ')}); their points are fitted together as one curve. If one belongs to another diameter, relabel or delete it.`;
 }

@@ -7,7 +7,7 @@
 import type { SheetXY } from '../../model/takeoff.ts';
 import type { CanvasPointer } from '../canvas/sheetCanvas.ts';
 import { addAnchor, moveAnchor } from '../store/actions/panels.ts';
-import type { Frame, PanelDraft } from '../store/draft.ts';
+import { frameOf, type Frame, type PanelDraft } from '../store/draft.ts';
 import { screenDistance, type Tool, type ToolHost } from './tool.ts';
 
 type State = { kind: 'idle' } | { kind: 'dragging'; panel: string; index: number; at: SheetXY };
@@ -74,7 +74,7 @@ export class AnchorTool implements Tool {
       return;
     }
     const { at } = this.landing(p);
-    const axis = axisNear(panel.frame, at);
+    const axis = axisNear(frameOf(panel), at);
     const count = panel.anchors.length;
     if (this.host.store.dispatch(addAnchor(panel.id, at, axis))) this.host.focusAnchorValue(panel.id, count);
   }

@@ -6,7 +6,7 @@
 import type { SheetXY } from '../../model/takeoff.ts';
 import type { CanvasPointer } from '../canvas/sheetCanvas.ts';
 import { addPanel, frameAnchors, nameCorners, type FrameCorners } from '../store/actions/panels.ts';
-import { anchorAxis, type AnchorDraft, type Frame, type PanelDraft } from '../store/draft.ts';
+import { frameOf, anchorAxis, type AnchorDraft, type Frame, type PanelDraft } from '../store/draft.ts';
 import { screenDistance, snapRadius, type Tool, type ToolHost } from './tool.ts';
 
 type State = { kind: 'idle' } | { kind: 'dragging'; start: SheetXY; moved: boolean } | { kind: 'second'; start: SheetXY };
@@ -28,7 +28,8 @@ export function sharedFlowAnchors(
 ): AnchorDraft[] | null {
   const width = frame[2] - frame[0];
   for (const p of panels) {
-    const same = Math.abs(p.frame[0] - frame[0]) <= 0.015 * width && Math.abs(p.frame[2] - frame[2]) <= 0.015 * width;
+    const f = frameOf(p);
+    const same = Math.abs(f[0] - frame[0]) <= 0.015 * width && Math.abs(f[2] - frame[2]) <= 0.015 * width;
     const values = p.anchors.flatMap((a) => (a.x !== undefined && a.y === undefined ? [a.x] : []));
     if (!same || values.length < 2) continue;
     const x0 = flowAt(p.id, corners.bottomLeft);

@@ -5,7 +5,7 @@
 import { nearestOnPolyline } from '../../digitize/polyline.ts';
 import type { CanvasPointer } from '../canvas/sheetCanvas.ts';
 import { traceName } from '../store/actions/traces.ts';
-import { pointsOf } from '../store/draft.ts';
+import { powerUnit, pointsOf } from '../store/draft.ts';
 import type { Tool, ToolHost } from './tool.ts';
 
 const PICK_PX = 8;
@@ -20,7 +20,7 @@ export class PickTool implements Tool {
   status(): string {
     const { draft } = this.host.store;
     const t = draft.traces.find((x) => x.id === this.hover);
-    if (t) return `Click to pick out ${traceName(t, draft.units.diameter, draft.units.power)} and its residuals.`;
+    if (t) return `Click to pick out ${traceName(t, draft.units.diameter, powerUnit(draft.units))} and its residuals.`;
     return 'Click a trace to pick it out; dashed magenta lines are the fitted curves drawn back onto the sheet.';
   }
 

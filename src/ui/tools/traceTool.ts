@@ -9,8 +9,8 @@ import type { SheetXY } from '../../model/takeoff.ts';
 import { nearestOnPolyline } from '../../digitize/polyline.ts';
 import type { CanvasPointer } from '../canvas/sheetCanvas.ts';
 import { addTrace, deletePoint, insertPoint, movePoint, setGuides, traceName } from '../store/actions/traces.ts';
-import { pointsOf, type TraceDraft } from '../store/draft.ts';
-import { nextTarget, panelAt, panelFor, retargetForPanel, targetName, targetProblem } from '../store/target.ts';
+import { powerUnit, pointsOf, type TraceDraft } from '../store/draft.ts';
+import { nextTarget, panelAt, panelFor, retargetForPanel, sharedCurveSentence, targetName, targetProblem, tracesOfCurve } from '../store/target.ts';
 import { screenDistance, type Tool, type ToolHost } from './tool.ts';
 
 type State =
@@ -53,11 +53,11 @@ export class TraceTool implements Tool {
     if (this.hover?.kind === 'line') {
       const t = draft.traces.find((x) => x.id === this.hover?.trace);
       if (t && t.id === selected?.id) return 'Alt-click to insert a point here; Shift-click to add a guide.';
-      if (t) return `Click to select ${traceName(t, draft.units.diameter, draft.units.power)} for editing.`;
+      if (t) return `Click to select ${traceName(t, draft.units.diameter, powerUnit(draft.units))} for editing.`;
     }
     const problem = targetProblem(draft, session.target);
     if (problem) return problem;
-    const extra = selected ? ` Shift-click adds a guide to ${traceName(selected, draft.units.diameter, draft.units.power)}.` : '';
+    const extra = selected ? ` Shift-click adds a guide to ${traceName(selected, draft.units.diameter, powerUnit(draft.units))}.` : '';
     return `Click on the ${targetName(session.target, draft.units)} to trace it.${extra}`;
   }
 
@@ -209,14 +209,17 @@ export class TraceTool implements Tool {
       }
       const spec = { panel: panel.id, quantity: target.quantity, ...(target.lines === 'iso' ? { iso: target.iso as number } : { diameter: target.diameter as number }) };
       const before = this.store.draft.traces.length;
+      const already = tracesOfCurve(this.store.draft, target);
       // The guide is kept even when no line was found from it alone: more guides may find it.
       if (this.store.dispatch(addTrace(spec, [at], points))) {
         const made = this.store.draft.traces[before];
         const next = nextTarget(this.store.draft, target);
         // The new trace is not selected for editing, so that its points do not catch the next click.
         this.store.setSession({ lastTraced: made?.id ?? null, selectedTrace: null, selectedPoint: null, target: next });
-        const name = made ? traceName(made, this.store.draft.units.diameter, this.store.draft.units.power) : 'the curve';
-        if (failure) this.store.say(`${failure} The guide for ${name} is kept: Shift-click further guides along its line, or drag this guide onto it.`, 'caution');
+        const name = made ? traceName(made, this.store.draft.units.diameter, powerUnit(this.store.draft.units)) : 'the curve';
+        const shared = already.length && made ? ` ${sharedCurveSentence({ quantity: made.quantity, diameter: made.diameter as number, ids: [...already.map((t) => t.id), made.id] }, this.store.draft.units.diameter)}` : '';
+        if (failure) this.store.say(`${failure} The guide for ${name} is kept: Shift-click further guides along its line, or drag this guide onto it.${shared}`, 'caution');
+        else if (shared) this.store.say(`Traced ${name}: ${points.length} points.${shared}`, 'caution');
         else if (gaps.length) this.store.say(`Traced ${name} with ${points.length} points, but ${gaps.join(' ')} Add a guide beyond the gap with Shift-click.`, 'caution');
         else this.store.say(`Traced ${name}: ${points.length} points.`, 'done');
       }
@@ -244,7 +247,7 @@ export class TraceTool implements Tool {
     this.state = { kind: 'capturing' };
     this.host.setPending(guides);
     try {
-      const { points, gaps } = await this.host.capture(guides, trace.method);
+      const { points, gaps } = await this.host.capture(guides, trace.method, trace.extent);
       this.store.dispatch(setGuides(trace.id, guides, points, label));
       if (gaps.length) this.store.say(gaps.join(' '), 'caution');
       else this.store.say(`Re-traced: ${points.length} points.`, 'done');

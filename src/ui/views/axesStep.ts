@@ -6,7 +6,7 @@ import { h } from '../dom/h.ts';
 import type { Bench, CalibrationState } from '../app/bench.ts';
 import type { Quantity } from '../../model/curveset.ts';
 import { removeAnchor, removePanel, setAnchorValue, setAxisScale, setAxisUnit, setPanelPlots } from '../store/actions/panels.ts';
-import { anchorAxis, type PanelDraft } from '../store/draft.ts';
+import { axisUnits, anchorAxis, type PanelDraft } from '../store/draft.ts';
 import { setSheetUnits, SHEET_UNIT_SYSTEMS } from '../store/actions/setup.ts';
 import { QUANTITY_NAMES, UNIT_CHOICES, num, unitText } from './words.ts';
 
@@ -42,7 +42,7 @@ function axisControls(bench: Bench, panel: PanelDraft, axis: 'x' | 'y'): HTMLEle
     h('span', { class: 'label' }, name),
     h('label', { for: unitId, class: 'visually-hidden' }, `${name} unit`),
     h('select', { id: unitId, onchange: (e: Event) => store.dispatch(setAxisUnit(panel.id, axis, (e.target as HTMLSelectElement).value)) },
-      (choices.includes(panel.units[axis]) ? choices : [panel.units[axis], ...choices]).map((u) => h('option', { value: u, selected: u === panel.units[axis] }, unitText(u)))),
+      (choices.includes(axisUnits(store.draft.units, panel)[axis]) ? choices : [axisUnits(store.draft.units, panel)[axis], ...choices]).map((u) => h('option', { value: u, selected: u === axisUnits(store.draft.units, panel)[axis] }, unitText(u)))),
     h('label', { for: scaleId, class: 'visually-hidden' }, `${name} scale`),
     h('select', { id: scaleId, onchange: (e: Event) => store.dispatch(setAxisScale(panel.id, axis, (e.target as HTMLSelectElement).value as 'linear' | 'log')) },
       h('option', { value: 'linear', selected: panel[`${axis}_scale`] === 'linear' }, 'linear'),
@@ -99,7 +99,7 @@ function panelCard(bench: Bench, panel: PanelDraft, cal: CalibrationState | unde
                   store.dispatch(setAnchorValue(panel.id, i, axis, text === '' ? undefined : Number(text)));
                 },
               }),
-              h('span', { class: 'unit' }, unitText(axis === 'x' ? panel.units.x : panel.units.y))),
+              h('span', { class: 'unit' }, unitText(axisUnits(store.draft.units, panel)[axis]))),
             h('td', null, h('button', { type: 'button', class: 'icon', title: 'Remove this anchor', 'aria-label': `Remove anchor ${i + 1}`, onclick: () => store.dispatch(removeAnchor(panel.id, i)) }, '×'),
               r && r[anchorIndexAmongValued(panel, i)] !== undefined ? h('span', { class: 'anchor-res' }, `${num(r[anchorIndexAmongValued(panel, i)]?.percentOfSpan ?? 0, 2)} %`) : null));
         }))),
@@ -127,7 +127,7 @@ function proposalBox(bench: Bench, panel: PanelDraft): HTMLElement | null {
   const ys = p.anchors.flatMap((a) => (a.y !== undefined ? [a.y] : []));
   const range = (v: number[]) => `${num(Math.min(...v))} … ${num(Math.max(...v))}`;
   return h('div', { class: 'proposal', role: 'group', 'aria-label': 'Anchors read from the sheet' },
-    h('p', null, `Read from the sheet's text: flow ${range(xs)} ${unitText(panel.units.x)} (${xs.length} labels, ${p.xScale}), ${QUANTITY_NAMES[panel.plots].toLowerCase()} ${range(ys)} ${unitText(panel.units.y)} (${ys.length} labels, ${p.yScale}); residual ${num(p.residual, 2)} % of span.`),
+    h('p', null, `Read from the sheet's text: flow ${range(xs)} ${unitText(axisUnits(bench.store.draft.units, panel).x)} (${xs.length} labels, ${p.xScale}), ${QUANTITY_NAMES[panel.plots].toLowerCase()} ${range(ys)} ${unitText(axisUnits(bench.store.draft.units, panel).y)} (${ys.length} labels, ${p.yScale}); residual ${num(p.residual, 2)} % of span.`),
     h('button', { type: 'button', class: 'primary', id: `use-proposal-${panel.id}`, onclick: () => bench.useProposal(panel.id) }, 'Use the proposed anchors'));
 }
 
@@ -141,6 +141,6 @@ function sheetUnits(bench: Bench): HTMLElement {
       (['si', 'us'] as const).map((sys) => {
         const u = SHEET_UNIT_SYSTEMS[sys];
         const on = (Object.keys(u) as (keyof typeof u)[]).every((k) => draft.units[k] === u[k]);
-        return h('button', { type: 'button', 'data-key': `units-${sys}`, 'aria-pressed': on ? 'true' : 'false', title: `flow ${unitText(u.flow)}, head ${u.head}, power ${u.power}, NPSH ${u.npsh}, diameter ${u.diameter}`, onclick: () => store.dispatch(setSheetUnits(u)) }, `${sys.toUpperCase()} (${unitText(u.flow)}, ${u.head}, ${u.power}, ${u.diameter})`);
+        return h('button', { type: 'button', 'data-key': `units-${sys}`, 'aria-pressed': on ? 'true' : 'false', title: `flow ${unitText(u.flow)}, head ${u.head}, power ${u.power}, NPSH ${u.npsh}, diameter ${u.diameter}`, onclick: () => { if (store.dispatch(setSheetUnits(u))) store.setSession({ unitSystem: sys }); } }, `${sys.toUpperCase()} (${unitText(u.flow)}, ${u.head}, ${u.power}, ${u.diameter})`);
       })));
 }

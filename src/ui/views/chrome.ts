@@ -1,9 +1,8 @@
 /** The frame around the sheet: the top bar, the list of steps and the status line. */
 import { h } from '../dom/h.ts';
 import type { Bench } from '../app/bench.ts';
-import { STEPS, type Step } from '../store/store.ts';
-import { pointsOf } from '../store/draft.ts';
-import { STEP_TITLES } from './words.ts';
+import type { StepDefinition } from '../steps/step.ts';
+import type { Step } from '../steps/registry.ts';
 
 export function topBar(bench: Bench, autosaved: string, keysOpen: boolean, toggleKeys: () => void): HTMLElement {
   const { store } = bench;
@@ -24,44 +23,18 @@ export function topBar(bench: Bench, autosaved: string, keysOpen: boolean, toggl
       h('a', { href: '#/library', class: 'nav' }, 'Library')));
 }
 
-function summary(bench: Bench, step: Step): string {
-  const { draft } = bench.store;
-  const d = bench.derived;
-  switch (step) {
-    case 'load':
-      return draft.sheet ? `${draft.sheet.name}, page ${draft.sheet.page}` : 'no sheet yet';
-    case 'axes': {
-      if (draft.panels.length === 0) return 'no panels yet';
-      const ok = draft.panels.filter((p) => d.calibrations.get(p.id)?.ok).length;
-      return `${draft.panels.length} panel${draft.panels.length === 1 ? '' : 's'}, ${ok} calibrated`;
-    }
-    case 'trace': {
-      if (draft.traces.length === 0) return 'no traces yet';
-      const pts = draft.traces.reduce((s, t) => s + pointsOf(t).length, 0);
-      return `${draft.traces.length} traces, ${pts} points`;
-    }
-    case 'review': {
-      if (!d.curveSet) return d.computing ? 'fitting…' : 'nothing to review yet';
-      const fails = d.curveSet.findings.filter((f) => f.severity === 'fail').length;
-      const warns = d.curveSet.findings.filter((f) => f.severity === 'warn').length;
-      return `${d.curveSet.members.length} diameters, ${fails} failing, ${warns} to check`;
-    }
-    case 'save':
-      return d.takeoff ? 'ready to download' : 'nothing to save yet';
-  }
-}
-
-export function stepList(bench: Bench, bodies: Record<Step, (b: Bench) => HTMLElement>): HTMLElement {
+/** The list of steps: each one's number, title and summary; the open one with its panel. */
+export function stepList(bench: Bench, steps: readonly StepDefinition<Step>[]): HTMLElement {
   const current = bench.store.session.step;
   return h('nav', { class: 'steps', 'aria-label': 'Steps of the take-off' },
-    h('ol', null, STEPS.map((step, i) => {
-      const open = step === current;
-      return h('li', { class: `step${open ? ' open' : ''}`, 'data-key': `step-${step}` },
-        h('button', { type: 'button', class: 'step-head', id: `step-${step}`, 'aria-expanded': open ? 'true' : 'false', 'aria-controls': `step-${step}-body`, onclick: () => bench.goto(step) },
+    h('ol', null, steps.map((step, i) => {
+      const open = step.id === current;
+      return h('li', { class: `step${open ? ' open' : ''}`, 'data-key': `step-${step.id}` },
+        h('button', { type: 'button', class: 'step-head', id: `step-${step.id}`, 'aria-expanded': open ? 'true' : 'false', 'aria-controls': `step-${step.id}-body`, onclick: () => bench.goto(step.id) },
           h('span', { class: 'step-number' }, String(i + 1)),
-          h('span', { class: 'step-title' }, STEP_TITLES[step]),
-          h('span', { class: 'step-summary' }, summary(bench, step))),
-        open ? h('div', { id: `step-${step}-body`, role: 'region', 'aria-labelledby': `step-${step}` }, bodies[step](bench)) : null);
+          h('span', { class: 'step-title' }, step.title),
+          h('span', { class: 'step-summary' }, step.summary(bench))),
+        open ? h('div', { id: `step-${step.id}-body`, role: 'region', 'aria-labelledby': `step-${step.id}` }, step.body(bench)) : null);
     })));
 }
 

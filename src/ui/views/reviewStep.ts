@@ -2,12 +2,13 @@
  * Step 4: findings in plain sentences, each linked to its trace; residuals per trace; the
  * figures of each diameter. The family chart itself sits beside the sheet.
  */
+import { sharedCurves, sharedCurveSentence } from '../store/target.ts';
 import { h } from '../dom/h.ts';
 import type { Bench } from '../app/bench.ts';
 import type { Finding } from '../../model/curveset.ts';
 import { fromSI, parseUnit } from '../../units/index.ts';
 import { traceName } from '../store/actions/traces.ts';
-import type { Draft } from '../store/draft.ts';
+import { powerUnit, type Draft } from '../store/draft.ts';
 import { chartUnits } from './familyChart.ts';
 import { dutyPanel } from './dutyPanel.ts';
 import { num, SAFETY_SENTENCE, unitText } from './words.ts';
@@ -43,6 +44,7 @@ export function reviewStep(bench: Bench): HTMLElement {
   const counts = { fail: findings.filter((f) => f.severity === 'fail').length, warn: findings.filter((f) => f.severity === 'warn').length };
   return h('div', { class: 'step-body' },
     h('p', { class: 'caution', role: 'note' }, h('strong', null, 'Caution: '), SAFETY_SENTENCE),
+    sharedCurves(draft).map((g) => h('p', { class: 'caution shared-curve', role: 'note' }, sharedCurveSentence(g, unitText(draft.units.diameter)))),
     h('p', { class: 'summary' }, `${set.members.length} diameters · ${counts.fail} failing, ${counts.warn} to check, ${findings.length - counts.fail - counts.warn} notes.`),
     h('h4', null, 'Findings'),
     findings.length === 0 ? h('p', { class: 'hint' }, 'No findings: every check passed.') : h('ol', { class: 'findings' }, findings.map((f) => {
@@ -59,7 +61,7 @@ export function reviewStep(bench: Bench): HTMLElement {
       h('thead', null, h('tr', null, h('th', { scope: 'col' }, 'Trace'), h('th', { scope: 'col' }, 'RMS'), h('th', { scope: 'col' }, 'Largest'), h('th', { scope: 'col' }, 'Largest, % of span'))),
       h('tbody', null, draft.traces.map((t) => {
         const r = derived.residuals.get(t.id);
-        const name = traceName(t, unitText(draft.units.diameter), unitText(draft.units.power));
+        const name = traceName(t, unitText(draft.units.diameter), unitText(powerUnit(draft.units)));
         return h('tr', { 'data-key': `r-${t.id}`, class: session.highlightedTrace === t.id ? 'picked' : '' },
           h('th', { scope: 'row' }, h('button', { type: 'button', class: 'link', title: r ? `${r.points} points compared with the fitted curve` : 'no fitted curve yet', onclick: () => bench.showTrace(t.id) }, name)),
           h('td', null, r ? `${num(r.rms, 2)} ${unitText(r.unit.label || r.unit.token)}` : '—'),

@@ -2,8 +2,10 @@
 import { h } from '../dom/h.ts';
 import type { Bench } from '../app/bench.ts';
 
-export function saveStep(bench: Bench, library: { state: 'idle' | 'saving' | 'saved' | 'failed'; text: string }): HTMLElement {
+export function saveStep(bench: Bench): HTMLElement {
   const { derived, store } = bench;
+  const library = store.session.library;
+  const entry = store.doc.library;
   const ready = derived.curveSet !== null;
   const hasTakeoff = derived.takeoff !== null;
   return h('div', { class: 'step-body' },
@@ -12,7 +14,8 @@ export function saveStep(bench: Bench, library: { state: 'idle' | 'saving' | 'sa
       h('button', { type: 'button', id: 'download-takeoff', class: 'primary', disabled: !hasTakeoff, onclick: () => bench.download('takeoff') }, 'Download the take-off file'),
       h('button', { type: 'button', id: 'download-curveset', disabled: !ready, onclick: () => bench.download('curveset') }, 'Download the curve set'),
       h('button', { type: 'button', id: 'download-csv', disabled: !ready, onclick: () => bench.download('csv') }, `Download the CSV table (${store.session.unitSystem.toUpperCase()} units)`),
-      h('button', { type: 'button', id: 'save-library', disabled: !ready || library.state === 'saving', onclick: () => bench.saveToLibrary() }, library.state === 'saving' ? 'Saving to the library…' : 'Save to the library')),
+      h('button', { type: 'button', id: 'save-library', disabled: !ready || library.state === 'saving', onclick: () => bench.saveToLibrary() }, library.state === 'saving' ? 'Saving to the library…' : entry ? `Save to the library (a new revision of ${entry.id})` : 'Save to the library'),
+      library.offerNew ? h('button', { type: 'button', id: 'save-library-new', disabled: !ready, onclick: () => bench.saveToLibrary(true) }, 'Save as a new entry') : null),
     library.text ? h('p', { class: `library-state ${library.state}`, role: 'status' }, library.text) : null,
     !hasTakeoff ? h('p', { class: 'hint' }, derived.problem ?? 'Set the axes of a panel and trace a curve first.') : null,
     h('p', { class: 'hint' }, 'To resume later, open the take-off file together with its sheet in step 1. The work is also kept in this browser after every edit.'),

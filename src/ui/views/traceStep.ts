@@ -8,8 +8,8 @@ import type { Quantity } from '../../model/curveset.ts';
 import { parseDiameterList, setDiameters, setPump, setUnits } from '../store/actions/setup.ts';
 import { EditError } from '../store/actions/action.ts';
 import { discardEdits, removeTrace, setHidden, setLocked, setTraceSpec, traceName } from '../store/actions/traces.ts';
-import { pointsOf, type TraceDraft } from '../store/draft.ts';
-import { firstUntraced, panelFor, targetFor } from '../store/target.ts';
+import { powerUnit, pointsOf, type TraceDraft } from '../store/draft.ts';
+import { afterRemoval, firstUntraced, panelFor, sharedCurves, sharedCurveSentence, targetFor } from '../store/target.ts';
 import { QUANTITY_INK } from '../canvas/overlay.ts';
 import { QUANTITY_NAMES, UNIT_CHOICES, num, unitText } from './words.ts';
 import { field } from './loadStep.ts';
@@ -68,7 +68,7 @@ export function traceStep(bench: Bench): HTMLElement {
             if (text !== '') store.say(`"${text}" is not a number; type the value written on the line, e.g. 70.`, 'error');
           } else store.setSession({ target: { ...target, iso: v } });
         },
-      }), target.quantity === 'efficiency' ? '%' : unitText(draft.units.power))
+      }), target.quantity === 'efficiency' ? '%' : unitText(powerUnit(draft.units)))
     : h('div', { class: 'chips', role: 'group', 'aria-label': 'Diameter to trace next' },
         draft.diameters.length === 0 ? h('span', { class: 'hint' }, 'Type the diameters above first.') : null,
         draft.diameters.map((d) => {
@@ -100,7 +100,10 @@ function traceList(bench: Bench): HTMLElement {
   const { draft, session } = store;
   const groups = ORDER.map((q) => ({ q, traces: draft.traces.filter((t) => t.quantity === q) })).filter((g) => g.traces.length);
   if (groups.length === 0) return h('p', { class: 'hint' }, 'No traces yet.');
-  return h('div', { class: 'trace-list' }, groups.map((g) =>
+  const shared = sharedCurves(draft);
+  return h('div', { class: 'trace-list' },
+    shared.map((g) => h('p', { class: 'shared-curve caution', role: 'note', 'data-key': `shared-${g.quantity}-${g.diameter}` }, sharedCurveSentence(g, unitText(draft.units.diameter)))),
+    groups.map((g) =>
     h('section', { 'data-key': `group-${g.q}`, 'aria-label': `${QUANTITY_NAMES[g.q]} traces` },
       h('h4', null, h('span', { class: 'swatch', style: { background: QUANTITY_INK[g.q] } }), `${QUANTITY_NAMES[g.q]} (${g.traces.length})`),
       h('ul', null, g.traces.map((t) => traceRow(bench, t, session.selectedTrace === t.id))))));
@@ -109,12 +112,12 @@ function traceList(bench: Bench): HTMLElement {
 function traceRow(bench: Bench, t: TraceDraft, selected: boolean): HTMLElement {
   const { store } = bench;
   const { draft } = store;
-  const name = traceName(t, unitText(draft.units.diameter), unitText(draft.units.power));
+  const name = traceName(t, unitText(draft.units.diameter), unitText(powerUnit(draft.units)));
   const r = bench.derived.residuals.get(t.id);
   const count = pointsOf(t).length;
   return h('li', { class: `trace-row${selected ? ' selected' : ''}${t.hidden ? ' hidden-trace' : ''}`, 'data-key': t.id },
     h('button', { type: 'button', class: 'link trace-name', onclick: () => { store.setSession({ selectedTrace: t.id, selectedPoint: null }); bench.showTrace(t.id); } }, name),
-    h('span', { class: 'trace-meta' }, `${count} pts${t.points ? ', edited' : ''}${r ? ` · ±${num(r.max, 2)} ${unitText(r.unit.token)}` : ''}`),
+    h('span', { class: 'trace-meta' }, `${count} pts${t.edited ? ', edited' : ''}${r ? ` · ±${num(r.max, 2)} ${unitText(r.unit.token)}` : ''}`),
     h('span', { class: 'trace-actions' },
       t.iso === undefined && draft.diameters.length > 1
         ? h('select', { class: 'relabel', 'aria-label': `Diameter of ${name}`, title: 'The diameter this curve belongs to', disabled: t.locked, onchange: (e: Event) => store.dispatch(setTraceSpec(t.id, { diameter: Number((e.target as HTMLSelectElement).value) })) },
@@ -123,6 +126,11 @@ function traceRow(bench: Bench, t: TraceDraft, selected: boolean): HTMLElement {
       h('button', { type: 'button', class: 'icon', 'aria-pressed': t.hidden ? 'true' : 'false', title: t.hidden ? 'Show this trace' : 'Hide this trace', 'aria-label': `${t.hidden ? 'Show' : 'Hide'} ${name}`, onclick: () => store.dispatch(setHidden(t.id, !t.hidden)) }, t.hidden ? 'show' : 'hide'),
       h('button', { type: 'button', class: 'icon', 'aria-pressed': t.locked ? 'true' : 'false', title: t.locked ? 'Unlock this trace' : 'Lock this trace against edits', 'aria-label': `${t.locked ? 'Unlock' : 'Lock'} ${name}`, onclick: () => store.dispatch(setLocked(t.id, !t.locked)) }, t.locked ? 'unlock' : 'lock'),
       h('button', { type: 'button', class: 'icon', title: 'Trace the line again from its guides', 'aria-label': `Re-trace ${name}`, disabled: t.locked || t.guides.length === 0, onclick: () => bench.retrace(t.id) }, 're-trace'),
-      t.points ? h('button', { type: 'button', class: 'icon', title: 'Drop the hand edits', 'aria-label': `Drop hand edits of ${name}`, disabled: t.locked, onclick: () => store.dispatch(discardEdits(t.id)) }, 'undo edits') : null,
-      h('button', { type: 'button', class: 'icon danger', title: 'Delete this trace', 'aria-label': `Delete ${name}`, disabled: t.locked, onclick: () => store.dispatch(removeTrace(t.id)) }, 'delete')));
+      t.edited ? h('button', { type: 'button', class: 'icon', title: 'Drop the hand edits', 'aria-label': `Drop hand edits of ${name}`, disabled: t.locked, onclick: () => store.dispatch(discardEdits(t.id)) }, 'undo edits') : null,
+      h('button', { type: 'button', class: 'icon danger', title: 'Delete this trace', 'aria-label': `Delete ${name}`, disabled: t.locked, onclick: () => {
+        // The next click re-does the deleted curve, not the one proposed after it.
+        if (!store.dispatch(removeTrace(t.id))) return;
+        store.setSession(afterRemoval(store.session, t));
+        store.say(`Deleted ${name}. The next click traces it again; choose another curve above to trace something else.`, 'info');
+      } }, 'delete')));
 }

@@ -16,6 +16,8 @@ export type XY = [number, number];
 export interface CaptureRequest {
   guides: XY[];
   method: 'auto' | 'vector' | 'raster';
+  /** The trace's extent, as in the take-off file: from the first guide to the last, or the whole drawn line. */
+  extent?: 'guides' | 'line';
 }
 
 export interface CaptureAnswer {

@@ -2,7 +2,7 @@
 import type { Quantity } from '../../../model/curveset.ts';
 import type { AxisScaleType, SheetXY } from '../../../model/takeoff.ts';
 import { parseUnit, type QuantityKind } from '../../../units/index.ts';
-import { defaultYUnit, freshId, type AnchorDraft, type Draft, type Frame, type PanelDraft } from '../draft.ts';
+import { axisUnits, defaultYUnit, freshId, type AnchorDraft, type Draft, type Frame, type PanelDraft } from '../draft.ts';
 import { edited, EditError, replaceById, requireFinite, type Action } from './action.ts';
 
 export type Axis = 'x' | 'y';
@@ -67,7 +67,7 @@ export const addPanel = (spec: NewPanel): Action => (draft) => {
   const panel: PanelDraft = {
     id,
     plots: spec.plots,
-    frame,
+    frame: [...frame],
     anchors: spec.anchors ?? frameAnchors(frame),
     x_scale: spec.x_scale ?? 'linear',
     y_scale: spec.y_scale ?? 'linear',
@@ -107,7 +107,7 @@ export const setAxisUnit = (id: string, axis: Axis, token: string): Action => (d
   } catch (error) {
     throw new EditError((error as Error).message);
   }
-  if (panel.units[axis] === canonical) return null;
+  if (axisUnits(draft.units, panel)[axis] === canonical) return null;
   return edited({ ...draft, panels: replaceById(draft.panels, id, (p) => ({ ...p, units: { ...p.units, [axis]: canonical } }), 'panel') }, `${axis} unit ${canonical}`);
 };
 

@@ -1,11 +1,21 @@
 /** Edits of the sheet reference, the pump, the units and the diameter list. */
 import { parseUnit } from '../../../units/index.ts';
-import type { PumpDraft, SheetRef, UnitsDraft } from '../draft.ts';
+import { EMPTY_DRAFT, npshUnit, powerUnit, type Draft, type PumpDraft, type SheetRef, type UnitsDraft } from '../draft.ts';
 import { edited, EditError, requirePositive, type Action } from './action.ts';
 
-/** A new sheet starts a new take-off: panels and traces of another sheet do not apply to it. */
-export const loadSheet = (sheet: SheetRef, pumpName: string): Action => (draft) =>
-  edited({ ...draft, sheet, panels: [], traces: [], pump: { ...draft.pump, name: draft.pump.name || pumpName } }, `load ${sheet.name}`);
+/**
+ * The record a new sheet starts: a new take-off of its own. Nothing of the previous pump (name,
+ * speed, diameters, panels, traces) carries over; only the units chosen last, as a preference.
+ */
+export function newSheetDraft(sheet: SheetRef, pumpName: string, previous: Draft = EMPTY_DRAFT): Draft {
+  return {
+    ...EMPTY_DRAFT,
+    units: previous.units,
+    sheet,
+    ...(sheet.sha256 ? { sheet_sha256: sheet.sha256 } : {}),
+    pump: { ...EMPTY_DRAFT.pump, name: pumpName },
+  };
+}
 
 /** Another page of the same file: the panels drawn on the old page no longer fit. */
 export const choosePage = (page: number, width: number, height: number): Action => (draft) => {
@@ -97,8 +107,13 @@ export const setSheetUnits = (units: UnitsDraft): Action => (draft) => {
   const old = draft.units;
   const swap = (token: string, pairs: [string, string][]) => pairs.find(([from]) => from === token)?.[1] ?? token;
   const panels = draft.panels.map((p) => {
-    const y = p.plots === 'head' ? swap(p.units.y, [[old.head, units.head]]) : p.plots === 'npshr' ? swap(p.units.y, [[old.npsh, units.npsh]]) : p.plots === 'power' ? swap(p.units.y, [[old.power, units.power]]) : p.units.y;
-    return { ...p, units: { x: swap(p.units.x, [[old.flow, units.flow]]), y } };
+    // A panel without units of its own follows the record's units; one with its own units
+    // changes along where they were the old choice.
+    if (!p.units) return p;
+    const own = p.units;
+    const y = own.y === undefined ? undefined : p.plots === 'head' ? swap(own.y, [[old.head, units.head]]) : p.plots === 'npshr' ? swap(own.y, [[npshUnit(old), npshUnit(units)]]) : p.plots === 'power' ? swap(own.y, [[powerUnit(old), powerUnit(units)]]) : own.y;
+    const x = own.x === undefined ? undefined : swap(own.x, [[old.flow, units.flow]]);
+    return { ...p, units: { ...(x !== undefined ? { x } : {}), ...(y !== undefined ? { y } : {}) } };
   });
   if (JSON.stringify(units) === JSON.stringify(old) && JSON.stringify(panels) === JSON.stringify(draft.panels)) return null;
   return edited({ ...draft, units: { ...units }, panels }, 'change the units of the sheet');

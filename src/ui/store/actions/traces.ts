@@ -1,7 +1,7 @@
 /** Edits of traces and their points (step 3, "Trace the curves"). */
 import type { Quantity } from '../../../model/curveset.ts';
 import type { SheetXY } from '../../../model/takeoff.ts';
-import { freshId, pointsOf, type CaptureMethod, type Draft, type TraceDraft } from '../draft.ts';
+import { powerUnit, freshId, pointsOf, type CaptureMethod, type Draft, type TraceDraft } from '../draft.ts';
 import { edited, EditError, replaceById, requireFinite, requirePositive, type Action } from './action.ts';
 
 export interface TraceSpec {
@@ -54,7 +54,7 @@ export const addTrace = (spec: TraceSpec, guides: readonly SheetXY[], captured: 
     method: spec.method ?? 'auto',
     captured: [...captured],
   };
-  return edited({ ...draft, traces: [...draft.traces, trace] }, `trace ${traceName(trace, draft.units.diameter, draft.units.power)}`);
+  return edited({ ...draft, traces: [...draft.traces, trace] }, `trace ${traceName(trace, draft.units.diameter, powerUnit(draft.units))}`);
 };
 
 function changeTrace(draft: Draft, id: string, change: (t: TraceDraft) => TraceDraft): Draft {
@@ -64,7 +64,7 @@ function changeTrace(draft: Draft, id: string, change: (t: TraceDraft) => TraceD
 function requireEditable(draft: Draft, id: string): TraceDraft {
   const t = draft.traces.find((x) => x.id === id);
   if (!t) throw new EditError(`There is no trace "${id}"; it may have been removed.`);
-  if (t.locked) throw new EditError(`The trace ${traceName(t, draft.units.diameter, draft.units.power)} is locked; unlock it to edit.`);
+  if (t.locked) throw new EditError(`The trace ${traceName(t, draft.units.diameter, powerUnit(draft.units))} is locked; unlock it to edit.`);
   return t;
 }
 
@@ -73,21 +73,22 @@ export const setGuides = (id: string, guides: readonly SheetXY[], captured: read
   requireEditable(draft, id);
   checkPoints(guides, 'A guide');
   checkPoints(captured, 'A captured point');
-  return edited(changeTrace(draft, id, ({ points: _dropped, ...t }) => ({ ...t, guides: [...guides], captured: [...captured] })), label);
+  // The capture is new: hand edits and the record of how the old capture was found no longer apply.
+  return edited(changeTrace(draft, id, ({ points: _dropped, edited: _edited, captured_by: _by, ...t }) => ({ ...t, guides: [...guides], captured: [...captured] })), label);
 };
 
 export const setTraceSpec = (id: string, spec: Partial<Pick<TraceDraft, 'quantity' | 'diameter' | 'iso' | 'panel' | 'method'>>): Action => (draft) => {
   const t = requireEditable(draft, id);
   const merged = { ...t, ...spec };
   checkSpec(draft, { panel: merged.panel, quantity: merged.quantity, ...(merged.iso !== undefined ? { iso: merged.iso } : {}), ...(merged.diameter !== undefined ? { diameter: merged.diameter } : {}) });
-  return edited(changeTrace(draft, id, () => merged), `relabel as ${traceName(merged, draft.units.diameter, draft.units.power)}`);
+  return edited(changeTrace(draft, id, () => merged), `relabel as ${traceName(merged, draft.units.diameter, powerUnit(draft.units))}`);
 };
 
 function editPoints(draft: Draft, id: string, change: (pts: SheetXY[]) => SheetXY[], label: string): ReturnType<Action> {
   const t = requireEditable(draft, id);
   const points = change([...pointsOf(t)]);
   checkPoints(points, 'A point');
-  return edited(changeTrace(draft, id, (x) => ({ ...x, points })), label);
+  return edited(changeTrace(draft, id, (x) => ({ ...x, points, edited: true })), label);
 }
 
 export const movePoint = (id: string, index: number, at: SheetXY): Action => (draft) =>
@@ -115,8 +116,8 @@ export const deletePoint = (id: string, index: number): Action => (draft) =>
 /** Drops the hand edits and goes back to what the tracer captured. */
 export const discardEdits = (id: string): Action => (draft) => {
   const t = requireEditable(draft, id);
-  if (!t.points) return null;
-  return edited(changeTrace(draft, id, ({ points: _dropped, ...x }) => x), 'discard point edits');
+  if (!t.points || !t.edited) return null;
+  return edited(changeTrace(draft, id, ({ points: _dropped, edited: _edited, ...x }) => x), 'discard point edits');
 };
 
 export const setHidden = (id: string, hidden: boolean): Action => (draft) =>
@@ -127,7 +128,7 @@ export const setLocked = (id: string, locked: boolean): Action => (draft) =>
 
 export const removeTrace = (id: string): Action => (draft) => {
   const t = requireEditable(draft, id);
-  return edited({ ...draft, traces: draft.traces.filter((x) => x.id !== id) }, `delete ${traceName(t, draft.units.diameter, draft.units.power)}`);
+  return edited({ ...draft, traces: draft.traces.filter((x) => x.id !== id) }, `delete ${traceName(t, draft.units.diameter, powerUnit(draft.units))}`);
 };
 
 /**

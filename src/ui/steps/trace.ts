@@ -1,0 +1,28 @@
+/** Step 3: trace the curves. */
+import { pointsOf } from '../store/draft.ts';
+import { targetFor } from '../store/target.ts';
+import { traceStep as body } from '../views/traceStep.ts';
+import { STEP_TITLES } from '../views/words.ts';
+import type { StepDefinition } from './step.ts';
+
+export const traceStep: StepDefinition<'trace'> = {
+  id: 'trace',
+  title: STEP_TITLES.trace,
+  summary: ({ store }) => {
+    const { traces } = store.draft;
+    if (traces.length === 0) return 'no traces yet';
+    return `${traces.length} traces, ${traces.reduce((s, t) => s + pointsOf(t).length, 0)} points`;
+  },
+  body,
+  tool: () => 'trace',
+  // The pending target stays as it was, unless no panel plots it or its diameter is gone.
+  enter: (draft, session) => {
+    const t = session.target;
+    const drawn = draft.panels.some((p) => p.plots === t.quantity) || (t.lines === 'iso' && draft.panels.some((p) => p.plots === 'head'));
+    if (!drawn) return { target: targetFor(draft, draft.panels[0]?.plots ?? 'head') };
+    if (t.lines === 'diameter' && (t.diameter === undefined || !draft.diameters.includes(t.diameter))) return { target: targetFor(draft, t.quantity) };
+    return {};
+  },
+  layers: { anchors: false, traces: true, fits: false },
+  chart: false,
+};
