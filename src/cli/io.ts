@@ -80,7 +80,20 @@ export function writeStdout(text: string): void {
   writeAll(1, text);
 }
 
+/** Where an in-process runner (the fuzz tests, an embedding script) collects what commands print; null writes to the descriptors. */
+type OutputSink = (fd: 1 | 2, text: string) => void;
+let sink: OutputSink | null = null;
+
+/** Sends standard output and error of the commands to `next` until called again with null. */
+export function captureOutput(next: OutputSink | null): void {
+  sink = next;
+}
+
 function writeAll(fd: number, text: string): void {
+  if (sink && (fd === 1 || fd === 2)) {
+    sink(fd, text);
+    return;
+  }
   const bytes = Buffer.from(text, 'utf8');
   let at = 0;
   while (at < bytes.length) {

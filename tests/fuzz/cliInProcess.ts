@@ -9,6 +9,7 @@ import { readdirSync } from 'node:fs';
 import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { vi } from 'vitest';
+import { captureOutput } from '../../src/cli/io.ts';
 
 export interface Run {
   code: number;
@@ -57,6 +58,10 @@ export async function runCli(args: readonly string[]): Promise<Run> {
     err += typeof chunk === 'string' ? chunk : Buffer.from(chunk).toString('utf8');
     return true;
   }) as never);
+  captureOutput((fd, text) => {
+    if (fd === 1) out += text;
+    else err += text;
+  });
   const started = performance.now();
   let code: number;
   try {
@@ -71,6 +76,7 @@ export async function runCli(args: readonly string[]): Promise<Run> {
       err += `escaped: ${error instanceof Error ? (error.stack ?? error.message) : String(error)}\n`;
     }
   } finally {
+    captureOutput(null);
     exit.mockRestore();
     stdout.mockRestore();
     stderr.mockRestore();
