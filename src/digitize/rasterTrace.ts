@@ -33,6 +33,14 @@ export interface RasterTraceOptions {
   simplifyPx?: number;
   /** How far from a guide the line may lie, pixels (default 10, or 3 line widths if more). */
   searchPx?: number;
+  /**
+   * 'line' (the default): beyond the first and the last guide the line is followed on to its
+   * own ends (where its ink stops, or the frame); 'guides': the trace runs from the first guide
+   * to the last only.
+   */
+  extent?: 'guides' | 'line';
+  /** Plot frame [left, top, right, bottom] in sheet units: a whole-line trace stops at it. */
+  frame?: readonly [number, number, number, number];
 }
 
 /** A stretch the tracer could not see. */
@@ -473,6 +481,9 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
     }
   }
 
+  if (px.length > 1 && options.extent !== 'guides' && path.length >= 2) extendToEnds(image, style, path, maxGap, options.frame, counter);
+  else if (options.frame && path.length >= 2) clipToFrame(path, options.frame, image.scale, style.width);
+
   const thinned = simplify(
     fillGaps(dropOutliers(dropIslands(path, stepping(style.width).step, style.width), Math.max(12, 4 * style.width), Math.max(1.5, 0.5 * style.width)), stepping(style.width).step).map(
       ([x, y]) => ({ x, y }),
@@ -487,6 +498,47 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
     line: { colour: style.model.line, paper: style.model.paper, widthPx: style.width },
     pixelsRead: counter.reads,
   };
+}
+
+/** True when a pixel position lies inside the frame (sheet units), with half a line width to spare. */
+function insideFramePx(p: Px, frame: readonly [number, number, number, number], scale: number, width: number): boolean {
+  const m = 0.5 * width + 1;
+  const l = Math.min(frame[0], frame[2]) * scale - m;
+  const r = Math.max(frame[0], frame[2]) * scale + m;
+  const t = Math.min(frame[1], frame[3]) * scale - m;
+  const b = Math.max(frame[1], frame[3]) * scale + m;
+  return p[0] >= l && p[0] <= r && p[1] >= t && p[1] <= b;
+}
+
+function clipToFrame(path: Px[], frame: readonly [number, number, number, number], scale: number, width: number): void {
+  const kept = path.filter((p) => insideFramePx(p, frame, scale, width));
+  if (kept.length >= 2) path.splice(0, path.length, ...kept);
+}
+
+/**
+ * Follows the line on beyond its first and last point to where its own ink stops (or the
+ * frame), so that a trace keeps the curve's end whatever guides the user clicked. Each end is
+ * followed along the direction of the last 40 pixels of the path; what the follower accepts
+ * before it loses the line for longer than `maxGap` is added, and nothing it only coasted on.
+ */
+function extendToEnds(image: RasterImage, style: LineStyle, path: Px[], maxGap: number, frame: readonly [number, number, number, number] | undefined, counter: ReadCounter): void {
+  const limits: FollowLimits = { maxGap, maxTravel: 2 * (image.width + image.height) };
+  const outward = (stretch: Px[]): Px[] => {
+    const end = stretch[stretch.length - 1] as Px;
+    const heading = tangentAt(stretch, stretch.length - 1, 1);
+    const got = pairs(followLine(image, style, end, heading, undefined, limits, counter).points).slice(1);
+    const out: Px[] = [];
+    for (const p of got) {
+      if (frame && !insideFramePx(p, frame, image.scale, style.width)) break;
+      out.push(p);
+    }
+    return out;
+  };
+  const tail = outward(path);
+  const head = outward([...path].reverse());
+  path.unshift(...head.reverse());
+  path.push(...tail);
+  if (frame) clipToFrame(path, frame, image.scale, style.width);
 }
 
 /** A trace as the take-off file gives it: explicit points (used as is) or guides to follow. */

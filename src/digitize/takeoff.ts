@@ -11,6 +11,10 @@ import { makeFinding, sortFindings } from '../fit/checks/finding.ts';
 import { CurveSet, type CurvePoint, type Finding, type Quantity } from '../model/curveset.ts';
 import { TakeoffError, type Takeoff, type Trace } from '../model/takeoff.ts';
 import { SG_REFERENCE_DENSITY, toSI, type Unit } from '../units/index.ts';
+import { formatSI } from '../units/format.ts';
+import { arcLengths } from './polyline.ts';
+import type { LostStretch } from './rasterTrace.ts';
+import { auditIsoCrossings, auditTraces, type AuditedTrace, type AuditFinding, type IsoCount } from './traceAudit.ts';
 import { calibrate, type Calibration } from './calibration.ts';
 import { captureTrace, type CaptureOptions, type CaptureResult } from './capture.ts';
 import { isoCrossings } from './isoCrossings.ts';
@@ -45,6 +49,8 @@ export interface TraceOutcome {
   /** Captured points, sheet coordinates. */
   points: SheetPoint[];
   notes: string[];
+  /** Stretches a raster capture could not see (empty or absent otherwise). */
+  lost?: LostStretch[];
 }
 
 export interface ReplayResult {
@@ -91,7 +97,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
       outcome = { index, id, how: trace.captured_by ?? 'saved', fromFile: true, points: saved, notes: [] };
     } else {
       const got = await captureTrace(
-        { points: trace.points?.map(([x, y]) => sheetPoint(x, y)), guides: trace.guides?.map(([x, y]) => sheetPoint(x, y)), method: trace.method, extent: trace.extent },
+        { points: trace.points?.map(([x, y]) => sheetPoint(x, y)), guides: trace.guides?.map(([x, y]) => sheetPoint(x, y)), method: trace.method, extent: trace.extent, frame: takeoff.panels.find((p) => p.id === trace.panel)?.frame },
         source,
         options.capture,
       ).catch((error: unknown) => {
@@ -99,7 +105,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
         if (error instanceof Error && CAPTURE_ERRORS.includes(error.name)) throw new TakeoffError(`Trace ${id} (${describeTrace(trace)}): ${error.message}`);
         throw error;
       });
-      outcome = { index, id, how: got.how, fromFile: false, points: got.points, notes: got.notes };
+      outcome = { index, id, how: got.how, fromFile: false, points: got.points, notes: got.notes, lost: got.lost };
       if (got.notes.length > 0) {
         const lost = got.lost.length > 0;
         note(lost ? 'takeoff.capture-lost' : 'takeoff.capture-fallback', lost ? 'warn' : 'note', `Trace ${id} (${describeTrace(trace)}): ${got.notes.join(' ')}`, id);
@@ -141,6 +147,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
     add(trace.quantity, trace.diameter as number, pts, outcome.how);
   }
 
+  const isoCounts: IsoCount[] = [];
   for (const outcome of outcomes) {
     const trace = takeoff.traces[outcome.index] as Trace;
     if (trace.iso === undefined) continue;
@@ -153,6 +160,9 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
       })
       .map((o) => ({ key: (takeoff.traces[o.index] as Trace).diameter as number, points: o.points }));
     const crossings = isoCrossings(outcome.points, heads);
+    const perHead = new Map<number, number>();
+    for (const c of crossings) perHead.set(c.key, (perHead.get(c.key) ?? 0) + 1);
+    isoCounts.push({ trace: outcome.id, describe: describeTrace(trace), level: trace.iso, perHead });
     if (crossings.length === 0) {
       note('takeoff.iso-no-crossing', 'warn', `Iso-trace ${outcome.id} (${describeTrace(trace)}) crosses no head trace of panel "${trace.panel}"; it adds no points. Extend it across the head curves or trace those curves.`, outcome.id);
       continue;
@@ -163,6 +173,30 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
       add(trace.quantity, c.key, [[flow, toSI(trace.iso, u.value)]], 'iso');
     }
   }
+
+  // No silent misses: every trace held against the others (see traceAudit.ts).
+  const audited: AuditedTrace[] = outcomes.map((o) => {
+    const trace = takeoff.traces[o.index] as Trace;
+    const cal = calibrations.get(trace.panel) as Calibration;
+    const u = traceUnits(takeoff, units, trace);
+    const length = o.points.length >= 2 ? (arcLengths(o.points).at(-1) as number) : 0;
+    return {
+      id: o.id,
+      describe: describeTrace(trace),
+      quantity: trace.quantity,
+      diameter: trace.diameter,
+      iso: trace.iso,
+      how: o.how,
+      flows: o.points.map((p) => toSI(cal.toData(p)[0], u.flow)),
+      length,
+      lostLength: lostLength(o.lost ?? [], trace),
+      refusedGuides: (o.lost ?? []).filter((l) => l.between[0] === l.between[1]).length,
+    };
+  });
+  const said = (f: AuditFinding) => note(f.code, f.severity, f.message, f.trace, f.figures);
+  auditTraces(audited, (q) => formatSI(q, units.flow, 3)).forEach(said);
+  const headDiameters = [...new Set(audited.filter((t) => t.quantity === 'head' && t.iso === undefined && t.diameter !== undefined).map((t) => t.diameter as number))];
+  auditIsoCrossings(isoCounts, headDiameters).forEach(said);
 
   if (members.size === 0) throw new TakeoffError('The take-off has no trace with a diameter; give each head, power, NPSHr or efficiency trace its impeller diameter.');
 
@@ -193,6 +227,17 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
   });
   const curveSet = CurveSet.parse({ ...built, findings: sortFindings([...built.findings, ...findings]) });
   return { curveSet, traces: outcomes, calibrations };
+}
+
+/** Sheet length of the stretches a raster capture did not see: to where it was seen again, or to the next guide. */
+function lostLength(lost: readonly LostStretch[], trace: Trace): number {
+  let total = 0;
+  for (const l of lost) {
+    if (l.between[0] === l.between[1]) continue;
+    const to = l.resumedAt ?? trace.guides?.[l.between[1] - 1];
+    if (to) total += Math.hypot(to[0] - l.at[0], to[1] - l.at[1]);
+  }
+  return total;
 }
 
 /** Inside the frame [left, top, right, bottom], with 1 % of its size to spare for line widths and rounding. */

@@ -78,7 +78,7 @@ export const Trace = z
     extent: z
       .enum(['guides', 'line'])
       .optional()
-      .describe('guides (the default) = from the first guide to the last (a single guide takes the whole line); line = the whole drawn line the guides sit on (vector capture; a raster capture still runs from the first guide to the last)'),
+      .describe('line = the whole drawn line the guides sit on, to its own ends (the default on a raster); guides = from the first guide to the last (the default on vector paths, where a single guide takes the whole line)'),
     captured: z.array(SheetXY).optional().describe('points the last capture produced, written by --save-points'),
     captured_by: z.enum(['vector', 'raster', 'points']).optional().describe('how the captured points were found'),
   })
