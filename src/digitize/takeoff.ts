@@ -111,7 +111,11 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
         note(lost ? 'takeoff.capture-lost' : 'takeoff.capture-fallback', lost ? 'warn' : 'note', `Trace ${id} (${describeTrace(trace)}): ${got.notes.join(' ')}`, id);
       }
     }
-    if (outcome.points.length < 2) throw new TakeoffError(`Trace ${id} (${describeTrace(trace)}) captured fewer than 2 points; place guides on its line or give its points.`);
+    if (outcome.points.length < 2) {
+      // One trace that found no line must not cost the others: it is a fail, and it adds nothing.
+      note('takeoff.trace-empty', 'fail', `Trace ${id} (${describeTrace(trace)}) captured fewer than 2 points, so it adds nothing; place its guides on the line where it stands alone, or give its points.`, id);
+      continue;
+    }
     const frame = takeoff.panels.find((p) => p.id === trace.panel)?.frame;
     const outside = frame ? outcome.points.filter((p) => !insideFrame(p, frame)).length : 0;
     if (outside > 0) {
