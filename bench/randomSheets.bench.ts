@@ -19,7 +19,7 @@ import { replayTakeoff } from '../src/digitize/takeoff.ts';
 import { parseTakeoff } from '../src/model/takeoff.ts';
 import type { CurveSet } from '../src/model/curveset.ts';
 import { decode } from '../scripts/randomSheets/camera.ts';
-import { makeRandomSheet, type TruthCurve } from '../scripts/randomSheets/randomSheet.ts';
+import { calibrationError, makeRandomSheet, sheetGeometry, type TruthCurve } from '../scripts/randomSheets/randomSheet.ts';
 import type { PumpFamily } from '../scripts/randomSheets/pumpFamily.ts';
 import { scoreReplay, type CurveScore } from '../scripts/randomSheets/score.ts';
 
@@ -59,14 +59,36 @@ function quantile(values: number[], p: number): number {
 const fmt = (v: number) => (Number.isFinite(v) ? v.toFixed(v < 10 ? 3 : 1) : 'missing');
 const pct = (a: number, b: number) => (b > 0 ? `${((100 * a) / b).toFixed(1)} %` : '–');
 
+export interface Residual {
+  seed: number;
+  kind: 'scan' | 'photo';
+  projection: string;
+  shown: number;
+  real: number;
+}
+
+/** Calibration residual shown against the real calibration error, per kind of sheet. */
+export function residualReport(residuals: readonly Residual[]): string {
+  const lines: string[] = [];
+  for (const kind of ['scan', 'photo'] as const) {
+    const list = residuals.filter((r) => r.kind === kind);
+    if (list.length === 0) continue;
+    const real = list.map((r) => r.real);
+    const within = list.filter((r) => r.shown > 0 && r.shown / r.real <= 3 && r.real / r.shown <= 3).length;
+    const projective = list.filter((r) => r.projection === 'projective').length;
+    lines.push(`${kind} calibrations: ${list.length} panels, ${pct(projective, list.length)} projective; real error p50 ${fmt(quantile(real, 0.5))} p95 ${fmt(quantile(real, 0.95))} max ${fmt(Math.max(...real))} % of span; shown residual within 3x of the real error: ${pct(within, list.length)}; shown 0 %: ${list.filter((r) => r.shown === 0).length}`);
+  }
+  return lines.join('\n');
+}
+
 export interface BedRow extends CurveScore {
   seed: number;
   kind: 'scan' | 'photo';
 }
 
-export async function runBed(count: number, firstSeed: number, log = true): Promise<{ rows: BedRow[]; residuals: Array<{ seed: number; shown: number; real: number }>; times: number[] }> {
+export async function runBed(count: number, firstSeed: number, log = true): Promise<{ rows: BedRow[]; residuals: Residual[]; times: number[] }> {
   const rows: BedRow[] = [];
-  const residuals: Array<{ seed: number; shown: number; real: number }> = [];
+  const residuals: Residual[] = [];
   const times: number[] = [];
   for (let i = 0; i < count; i++) {
     const seed = firstSeed + i;
@@ -80,10 +102,9 @@ export async function runBed(count: number, firstSeed: number, log = true): Prom
     try {
       const replay = await replayTakeoff(parseTakeoff(meta.takeoff), sheet);
       set = replay.curveSet;
-      if (kind === 'photo') {
-        // What the screen shows for the calibration, against the real error of the calibration alone.
-        for (const [, cal] of replay.calibrations) residuals.push({ seed, shown: cal.maxPercentOfSpan, real: Number.NaN });
-      }
+      // What the screen shows for the calibration, against the real error of the calibration alone.
+      const geometry = sheetGeometry(seed, kind);
+      for (const [id, cal] of replay.calibrations) residuals.push({ seed, kind, projection: cal.projection, shown: cal.maxPercentOfSpan, real: calibrationError(geometry.plan, geometry.shot, id, (p) => cal.toData(p as never)) });
     } catch (error) {
       set = { refused: error instanceof Error ? error.message : String(error) };
     }
@@ -121,8 +142,8 @@ export default async function main(): Promise<void> {
   const count = Number(process.env.RANDOM_SHEETS ?? 30);
   const first = Number(process.env.RANDOM_SEED ?? 1);
   process.stdout.write(`Random sheet bed: ${count} sheets from seed ${first} (every third a photo with keystone), generator ${GENERATOR}\n`);
-  const { rows, times } = await runBed(count, first);
-  process.stdout.write(`${report(rows)}\n`);
+  const { rows, times, residuals } = await runBed(count, first);
+  process.stdout.write(`${report(rows)}\n${residualReport(residuals)}\n`);
   process.stdout.write(`replay time per sheet: p50 ${quantile(times, 0.5).toFixed(0)} ms, max ${Math.max(...times).toFixed(0)} ms\n`);
   if (process.env.RANDOM_DUMP) writeFileSync(process.env.RANDOM_DUMP, JSON.stringify(rows));
 }

@@ -172,3 +172,28 @@ export async function makeRandomSheet(seed: number, kind: 'scan' | 'photo'): Pro
 export function familyOf(sheet: RandomSheet): PumpFamily {
   return sheet.plan.family;
 }
+
+/** The plan and the camera of a sheet without drawing it (the dice are cast in the same order). */
+export function sheetGeometry(seed: number, kind: 'scan' | 'photo'): { plan: SheetPlan; shot: Shot } {
+  const dice = new Dice(seed);
+  const plan = planSheet(dice);
+  return { plan, shot: chooseShot(dice, kind, plan.width, plan.height) };
+}
+
+/**
+ * The real error of a panel's calibration, % of span: data read through `toData` at a 9 × 9
+ * grid of points over the panel, against the values they were drawn at.
+ */
+export function calibrationError(plan: SheetPlan, shot: Shot, panelId: string, toData: (p: readonly [number, number]) => readonly [number, number]): number {
+  const panel = plan.panels.find((p) => p.id === panelId) as PanelPlan;
+  let worst = 0;
+  for (let i = 0; i <= 8; i++) {
+    for (let j = 0; j <= 8; j++) {
+      const q = panel.x.min + ((panel.x.max - panel.x.min) * i) / 8;
+      const v = panel.y.min + ((panel.y.max - panel.y.min) * j) / 8;
+      const d = toData(applyH(shot.h, toFlat(panel, q, v)));
+      worst = Math.max(worst, (100 * Math.abs(d[0] - q)) / (panel.x.max - panel.x.min), (100 * Math.abs(d[1] - v)) / (panel.y.max - panel.y.min));
+    }
+  }
+  return worst;
+}

@@ -74,7 +74,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
 
   const calibrations = new Map<string, Calibration>();
   for (const panel of takeoff.panels) {
-    const cal = calibrate(panel.anchors, { xScale: panel.x_scale, yScale: panel.y_scale, panel: panel.id });
+    const cal = calibrate(panel.anchors, { xScale: panel.x_scale, yScale: panel.y_scale, panel: panel.id, ...(panel.projection ? { projection: panel.projection } : {}) });
     calibrations.set(panel.id, cal);
     for (const w of cal.warnings) note('takeoff.calibration-residual', 'warn', w, undefined, { max_percent_of_span: cal.maxPercentOfSpan, max_sheet: cal.maxSheet });
   }
@@ -224,7 +224,10 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
       source: { file: options.sheetFile ?? takeoff.sheet, sha256: sheet.sha256, page: takeoff.page },
       ...(options.takeoffName ? { takeoff: options.takeoffName } : {}),
       ...(options.created ? { created: options.created } : {}),
-      notes: [`captured from a ${sheet.kind} sheet: ${outcomes.length} traces on ${takeoff.panels.length} panel${takeoff.panels.length === 1 ? '' : 's'}`],
+      notes: [
+        `captured from a ${sheet.kind} sheet: ${outcomes.length} traces on ${takeoff.panels.length} panel${takeoff.panels.length === 1 ? '' : 's'}`,
+        ...[...calibrations].map(([id, c]) => `panel "${id}": ${c.projection} calibration, residual ${c.maxPercentOfSpan.toFixed(3)} % of span (${c.residualKind})`),
+      ],
     },
     members: [...members.entries()].sort((a, b) => b[0] - a[0]).map(([, m]) => m),
     readingAccuracy,

@@ -54,6 +54,10 @@ export const Panel = z.strictObject({
     .tuple([finite, finite, finite, finite])
     .optional()
     .describe('plot area [left, top, right, bottom] in sheet units'),
+  projection: z
+    .enum(['auto', 'affine', 'projective'])
+    .optional()
+    .describe('calibration map: auto (the default) = projective when 4 or more anchors show the perspective of a photo, else affine; or force one'),
   units: z
     .strictObject({
       x: z.string().optional().describe('flow unit of the x axis; defaults to units.flow'),
