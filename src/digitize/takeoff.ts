@@ -179,6 +179,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
   }
 
   // No silent misses: every trace held against the others (see traceAudit.ts).
+  const panelOf = (t: Trace) => takeoff.panels.find((p) => p.id === t.panel);
   const audited: AuditedTrace[] = outcomes.map((o) => {
     const trace = takeoff.traces[o.index] as Trace;
     const cal = calibrations.get(trace.panel) as Calibration;
@@ -195,6 +196,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
       length,
       lostLength: lostLength(o.lost ?? [], trace),
       refusedGuides: (o.lost ?? []).filter((l) => l.between[0] === l.between[1]).length,
+      axisFlow: panelOf(trace)?.x_scale === 'log' ? undefined : axisFlow(panelOf(trace)?.anchors ?? [], u.flow),
     };
   });
   const said = (f: AuditFinding) => note(f.code, f.severity, f.message, f.trace, f.figures);
@@ -234,6 +236,12 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
   });
   const curveSet = CurveSet.parse({ ...built, findings: sortFindings([...built.findings, ...findings]) });
   return { curveSet, traces: outcomes, calibrations };
+}
+
+/** The flow axis as the panel's anchors span it, m³/s (undefined with fewer than two flow values). */
+function axisFlow(anchors: readonly { x?: number | undefined }[], unit: Unit): [number, number] | undefined {
+  const xs = anchors.flatMap((a) => (a.x === undefined ? [] : [toSI(a.x, unit)]));
+  return xs.length >= 2 ? [Math.min(...xs), Math.max(...xs)] : undefined;
 }
 
 /** Sheet length of the stretches a raster capture did not see: to where it was seen again, or to the next guide. */

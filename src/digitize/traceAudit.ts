@@ -25,6 +25,8 @@ export interface AuditedTrace {
   lostLength: number;
   /** Guides that had no line of the traced colour near them. */
   refusedGuides: number;
+  /** The panel's flow axis as its anchors span it, m³/s. */
+  axisFlow?: readonly [number, number] | undefined;
 }
 
 export interface AuditFinding {
@@ -45,13 +47,14 @@ export const LOST_SHARE_FAIL = 0.1;
 export const END_SHORT_SHARE = 0.85;
 /** A curve starting later than its neighbours by more than this share of its end flow is cut at its start. */
 export const START_LATE_SHARE = 0.15;
+/**
+ * Least share of its panel's flow axis a pump curve spans (common practice: a sheet's flow axis
+ * is chosen for its curves, and even an NPSHr curve of the smallest impeller spans about half
+ * of it). A followed line spanning less was lost, whatever its neighbours did.
+ */
+export const AXIS_SHARE_MIN = 0.3;
 
 const range = (t: AuditedTrace): [number, number] => [Math.min(...t.flows), Math.max(...t.flows)];
-
-function median(values: number[]): number {
-  const s = [...values].sort((a, b) => a - b);
-  return s.length % 2 ? (s[(s.length - 1) / 2] as number) : ((s[s.length / 2 - 1] as number) + (s[s.length / 2] as number)) / 2;
-}
 
 export function auditTraces(traces: readonly AuditedTrace[], flowText: (q: number) => string): AuditFinding[] {
   const out: AuditFinding[] = [];
@@ -77,12 +80,25 @@ export function auditTraces(traces: readonly AuditedTrace[], flowText: (q: numbe
     const d = t.diameter as number;
     const same = curves.filter((o) => o !== t && o.quantity === t.quantity);
     const mine = curves.filter((o) => o !== t && o.diameter === d && o.quantity !== 'npshr');
+    // The farthest neighbour sets the bar: when several lines were lost alike, a median would
+    // excuse them all, and a flag too many costs a look, a miss costs a wrong number.
     const ends = [...same.map((o) => (range(o)[1] * d) / (o.diameter as number)), ...(t.quantity !== 'npshr' ? mine.map((o) => range(o)[1]) : [])];
-    const expectedEnd = ends.length > 0 ? Math.max(median(ends), ...mine.map((o) => range(o)[1])) : q1;
+    const expectedEnd = ends.length > 0 ? Math.max(...ends) : q1;
     const starts = same.map((o) => range(o)[0] / range(o)[1]);
-    const expectedStart = starts.length > 0 ? median(starts) : q0 / q1;
+    const expectedStart = starts.length > 0 ? Math.min(...starts) : q0 / q1;
     const short = q1 < END_SHORT_SHARE * expectedEnd;
     const late = q0 / q1 > expectedStart + START_LATE_SHARE;
+    const axis = t.axisFlow ? Math.abs(t.axisFlow[1] - t.axisFlow[0]) : 0;
+    if (axis > 0 && q1 - q0 < AXIS_SHARE_MIN * axis) {
+      out.push({
+        code: 'takeoff.trace-short',
+        severity: 'fail',
+        trace: t.id,
+        message: `Trace ${t.id} (${t.describe}) covers flows ${flowText(q0)} to ${flowText(q1)}, only ${Math.round((100 * (q1 - q0)) / axis)} % of its panel's flow axis; the line was probably lost where it runs together with others, at a label or in a gap. Add a guide near each end of this line where it stands alone, or give its points.`,
+        figures: { flow_from: q0, flow_to: q1, axis_share: (q1 - q0) / axis },
+      });
+      continue;
+    }
     if (short || late) {
       const where = short && late ? 'at both ends' : short ? 'at its high-flow end' : 'at its low-flow end';
       out.push({

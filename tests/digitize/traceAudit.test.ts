@@ -41,6 +41,16 @@ describe('trace audit', () => {
     expect(refused.map((f) => f.code)).toEqual(['takeoff.trace-untrusted']);
   });
 
+  it('fails a trace spanning less than 30 % of its panel\'s flow axis, even when its neighbours were lost alike', () => {
+    const axis = { axisFlow: [0, 0.12] as const };
+    const found = auditTraces([trace('h370', 'head', 370, 0.02, 0.045, axis), trace('h330', 'head', 330, 0.02, 0.04, axis)], text);
+    expect(found.map((f) => [f.code, f.trace])).toEqual([
+      ['takeoff.trace-short', 'h370'],
+      ['takeoff.trace-short', 'h330'],
+    ]);
+    expect(found[0]?.message).toMatch(/only 21 % of its panel's flow axis/);
+  });
+
   it('leaves vector traces and explicit points alone', () => {
     expect(auditTraces([...family.slice(0, 3), trace('e330', 'efficiency', 330, 0, 0.04, { how: 'vector' })], text)).toEqual([]);
   });
