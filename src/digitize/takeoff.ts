@@ -17,7 +17,7 @@ import type { LostStretch } from './rasterTrace.ts';
 import { auditIsoCrossings, auditTraces, type AuditedTrace, type AuditFinding, type IsoCount } from './traceAudit.ts';
 import { calibrate, type Calibration } from './calibration.ts';
 import { captureTrace, type CaptureOptions, type CaptureResult } from './capture.ts';
-import { isoCrossings } from './isoCrossings.ts';
+import { DEFAULT_TOUCH_TOLERANCE, isoCrossings } from './isoCrossings.ts';
 import { sheetPoint, type SheetPoint } from './points.ts';
 import { safeScale, type Sheet } from './sheet.ts';
 import { strokeLines } from './vectorCapture.ts';
@@ -163,7 +163,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
         return t.panel === trace.panel && t.quantity === 'head' && t.iso === undefined && t.diameter !== undefined;
       })
       .map((o) => ({ key: (takeoff.traces[o.index] as Trace).diameter as number, points: o.points }));
-    const crossings = isoCrossings(outcome.points, heads);
+    const crossings = isoCrossings(outcome.points, heads, DEFAULT_TOUCH_TOLERANCE, isoReach(cal, takeoff.panels.find((p) => p.id === trace.panel)?.anchors ?? []));
     const perHead = new Map<number, number>();
     for (const c of crossings) perHead.set(c.key, (perHead.get(c.key) ?? 0) + 1);
     isoCounts.push({ trace: outcome.id, describe: describeTrace(trace), level: trace.iso, perHead });
@@ -236,6 +236,24 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
   });
   const curveSet = CurveSet.parse({ ...built, findings: sortFindings([...built.findings, ...findings]) });
   return { curveSet, traces: outcomes, calibrations };
+}
+
+/**
+ * How far an iso-line's end is extended to meet a head curve, sheet units: 2 % of the panel's
+ * flow span (a tolerance in data units: common practice, about the gap a thick head curve
+ * leaves at an iso-line's end on a printed sheet), measured at the middle of the panel.
+ */
+function isoReach(cal: Calibration, anchors: readonly { x?: number | undefined; y?: number | undefined }[]): number {
+  const xs = anchors.flatMap((a) => (a.x === undefined ? [] : [a.x]));
+  const ys = anchors.flatMap((a) => (a.y === undefined ? [] : [a.y]));
+  if (xs.length < 2 || ys.length < 2 || cal.xScale === 'log') return 0;
+  const x0 = Math.min(...xs);
+  const x1 = Math.max(...xs);
+  const ym = (Math.min(...ys) + Math.max(...ys)) / 2;
+  const a = cal.toSheet([(x0 + x1) / 2, ym]);
+  const b = cal.toSheet([(x0 + x1) / 2 + 0.02 * (x1 - x0), ym]);
+  const reach = Math.hypot(b[0] - a[0], b[1] - a[1]);
+  return Number.isFinite(reach) ? reach : 0;
 }
 
 /** The flow axis as the panel's anchors span it, m³/s (undefined with fewer than two flow values). */
