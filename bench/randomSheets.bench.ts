@@ -52,11 +52,12 @@ async function sheetFor(seed: number, kind: 'scan' | 'photo'): Promise<{ jpeg: B
 
 function quantile(values: number[], p: number): number {
   if (values.length === 0) return Number.NaN;
-  const s = [...values].sort((a, b) => a - b);
+  // Missing curves (Infinity) sort last; a comparator must not return NaN for Infinity − Infinity.
+  const s = values.map((v) => (Number.isFinite(v) ? v : Number.MAX_VALUE)).sort((a, b) => a - b);
   return s[Math.min(s.length - 1, Math.floor(p * (s.length - 1) + 0.5))] as number;
 }
 
-const fmt = (v: number) => (Number.isFinite(v) ? v.toFixed(v < 10 ? 3 : 1) : 'missing');
+const fmt = (v: number) => (Number.isFinite(v) && v < Number.MAX_VALUE ? v.toFixed(v < 10 ? 3 : 1) : 'missing');
 const pct = (a: number, b: number) => (b > 0 ? `${((100 * a) / b).toFixed(1)} %` : '–');
 
 export interface Residual {
@@ -145,5 +146,5 @@ export default async function main(): Promise<void> {
   const { rows, times, residuals } = await runBed(count, first);
   process.stdout.write(`${report(rows)}\n${residualReport(residuals)}\n`);
   process.stdout.write(`replay time per sheet: p50 ${quantile(times, 0.5).toFixed(0)} ms, max ${Math.max(...times).toFixed(0)} ms\n`);
-  if (process.env.RANDOM_DUMP) writeFileSync(process.env.RANDOM_DUMP, JSON.stringify(rows));
+  if (process.env.RANDOM_DUMP) writeFileSync(process.env.RANDOM_DUMP, JSON.stringify({ rows, residuals, times }));
 }

@@ -193,6 +193,8 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
       iso: trace.iso,
       how: o.how,
       flows: o.points.map((p) => toSI(cal.toData(p)[0], u.flow)),
+      values: panelOf(trace)?.x_scale === 'log' || panelOf(trace)?.y_scale === 'log' ? undefined : o.points.map((p) => cal.toData(p)[1]),
+      valueSpan: valueSpan(panelOf(trace)?.anchors ?? []),
       length,
       lostLength: lostLength(o.lost ?? [], trace),
       refusedGuides: (o.lost ?? []).filter((l) => l.between[0] === l.between[1]).length,
@@ -254,6 +256,13 @@ function isoReach(cal: Calibration, anchors: readonly { x?: number | undefined; 
   const b = cal.toSheet([(x0 + x1) / 2 + 0.02 * (x1 - x0), ym]);
   const reach = Math.hypot(b[0] - a[0], b[1] - a[1]);
   return Number.isFinite(reach) ? reach : 0;
+}
+
+/** Span of the panel's value axis as its anchors give it (undefined with fewer than two values). */
+function valueSpan(anchors: readonly { y?: number | undefined }[]): number | undefined {
+  const ys = anchors.flatMap((a) => (a.y === undefined ? [] : [a.y]));
+  const span = ys.length >= 2 ? Math.max(...ys) - Math.min(...ys) : 0;
+  return span > 0 ? span : undefined;
 }
 
 /** The flow axis as the panel's anchors span it, m³/s (undefined with fewer than two flow values). */

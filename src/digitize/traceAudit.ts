@@ -8,6 +8,7 @@
  * Pure. Flows arrive in SI (m³/s), so traces of panels with different flow units compare.
  */
 import type { Quantity, Severity } from '../model/curveset.ts';
+import { fitPolynomial, fittedValues } from '../fit/polyfit.ts';
 
 export interface AuditedTrace {
   id: string;
@@ -27,6 +28,9 @@ export interface AuditedTrace {
   refusedGuides: number;
   /** The panel's flow axis as its anchors span it, m³/s. */
   axisFlow?: readonly [number, number] | undefined;
+  /** Values of the captured points (panel unit) and the span of the panel's value axis, for the smoothness check. */
+  values?: readonly number[] | undefined;
+  valueSpan?: number | undefined;
 }
 
 export interface AuditFinding {
@@ -53,6 +57,14 @@ export const START_LATE_SHARE = 0.15;
  * of it). A followed line spanning less was lost, whatever its neighbours did.
  */
 export const AXIS_SHARE_MIN = 0.3;
+/**
+ * Largest departure of a followed line from the parabola through its neighbours, % of the
+ * value axis span. Drawn pump curves are smooth: locally a parabola follows them to a few
+ * hundredths of a per cent (common practice); a step onto another line departs by half the
+ * step. The bar sits at the 1 % of span a reading may be off before it is wrong, so that a
+ * change of lines big enough to matter is caught and the scatter of a scan is not.
+ */
+export const SMOOTH_PERCENT = 1;
 
 const range = (t: AuditedTrace): [number, number] => [Math.min(...t.flows), Math.max(...t.flows)];
 
@@ -71,6 +83,17 @@ export function auditTraces(traces: readonly AuditedTrace[], flowText: (q: numbe
         trace: t.id,
         message: `Trace ${t.id} (${t.describe}) cannot be trusted: ${why}. Add a guide where this line stands alone on each side of the stretch, or give its points.`,
         figures: { lost_share: share, refused_guides: t.refusedGuides },
+      });
+      continue;
+    }
+    const rough = roughness(t);
+    if (rough !== undefined && rough.percent > SMOOTH_PERCENT) {
+      out.push({
+        code: 'takeoff.trace-jump',
+        severity: 'fail',
+        trace: t.id,
+        message: `Trace ${t.id} (${t.describe}) leaves a smooth curve by ${rough.percent.toFixed(1)} % of the axis span near ${flowText(rough.at)}; it probably changed to another line where lines cross or run together. Add a guide on this line on each side of that place, where it stands alone.`,
+        figures: { percent_of_span: rough.percent, at_flow: rough.at },
       });
       continue;
     }
@@ -116,7 +139,8 @@ export function auditTraces(traces: readonly AuditedTrace[], flowText: (q: numbe
   for (const quantity of ['efficiency', 'power', 'npshr'] as const) {
     const having = new Set(curves.filter((t) => t.quantity === quantity).map((t) => t.diameter as number));
     const isoGiven = quantity === 'efficiency' && traces.some((t) => t.iso !== undefined && t.quantity === 'efficiency');
-    if (having.size === 0 || isoGiven) continue;
+    // Many sheets draw one NPSHr curve for the whole family: a single NPSHr trace is no sign of a miss.
+    if (having.size === 0 || isoGiven || (quantity === 'npshr' && having.size === 1)) continue;
     for (const d of heads) {
       if (having.has(d)) continue;
       out.push({
@@ -127,6 +151,49 @@ export function auditTraces(traces: readonly AuditedTrace[], flowText: (q: numbe
     }
   }
   return out;
+}
+
+/**
+ * Largest departure of each point from the parabola fitted to its neighbours within ±6 % of
+ * the trace's flow range, % of the value span, and where. Local, so that the shape of a sound
+ * curve (steep near its end) does not count; a step onto another line does.
+ */
+function roughness(t: AuditedTrace): { percent: number; at: number } | undefined {
+  if (!t.values || !t.valueSpan || t.values.length !== t.flows.length || t.flows.length < 12) return undefined;
+  const order = t.flows.map((_, i) => i).sort((i, j) => (t.flows[i] as number) - (t.flows[j] as number));
+  const qs = order.map((i) => t.flows[i] as number);
+  const vs = order.map((i) => (t.values as readonly number[])[i] as number);
+  const half = 0.06 * ((qs[qs.length - 1] as number) - (qs[0] as number));
+  if (!(half > 0)) return undefined;
+  let worst = 0;
+  let at = qs[0] as number;
+  let lo = 0;
+  let hi = 0;
+  for (let i = 0; i < qs.length; i++) {
+    const q = qs[i] as number;
+    while ((qs[lo] as number) < q - half) lo++;
+    while (hi + 1 < qs.length && (qs[hi + 1] as number) <= q + half) hi++;
+    const xs: number[] = [];
+    const ys: number[] = [];
+    for (let k = lo; k <= hi; k++) {
+      if (k === i) continue;
+      xs.push((qs[k] as number) - q);
+      ys.push(vs[k] as number);
+    }
+    // Judged only with neighbours on both sides: at a trace's ends a one-sided parabola extrapolates noise.
+    if (new Set(xs.map((x) => x.toPrecision(9))).size < 6 || xs.filter((x) => x < 0).length < 3 || xs.filter((x) => x > 0).length < 3) continue;
+    try {
+      const fit = fitPolynomial(xs, ys, 2);
+      const d = Math.abs((vs[i] as number) - (fittedValues(fit, [0])[0] as number));
+      if (d > worst) {
+        worst = d;
+        at = q;
+      }
+    } catch {
+      // Too few distinct flows around this point to judge it.
+    }
+  }
+  return { percent: (100 * worst) / t.valueSpan, at };
 }
 
 export interface IsoCount {

@@ -51,6 +51,16 @@ describe('trace audit', () => {
     expect(found[0]?.message).toMatch(/only 21 % of its panel's flow axis/);
   });
 
+  it('fails a trace that steps onto another line (not smooth) and passes a smooth one', () => {
+    const q = Array.from({ length: 120 }, (_, i) => (0.1 * i) / 119);
+    const smooth = q.map((x) => 80 - 2000 * x * x);
+    const stepped = smooth.map((v, i) => (i >= 60 ? v - 3 : v)); // 3 units of a 0–100 axis: a neighbouring line
+    const ok = auditTraces([trace('h370', 'head', 370, 0, 0.1, { flows: q, values: smooth, valueSpan: 100 })], text);
+    expect(ok).toEqual([]);
+    const found = auditTraces([trace('h370', 'head', 370, 0, 0.1, { flows: q, values: stepped, valueSpan: 100 })], text);
+    expect(found.map((f) => [f.code, f.severity, f.trace])).toEqual([['takeoff.trace-jump', 'fail', 'h370']]);
+  });
+
   it('leaves vector traces and explicit points alone', () => {
     expect(auditTraces([...family.slice(0, 3), trace('e330', 'efficiency', 330, 0, 0.04, { how: 'vector' })], text)).toEqual([]);
   });
