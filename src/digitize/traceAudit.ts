@@ -8,7 +8,6 @@
  * Pure. Flows arrive in SI (m³/s), so traces of panels with different flow units compare.
  */
 import type { Quantity, Severity } from '../model/curveset.ts';
-import { fitPolynomial, fittedValues } from '../fit/polyfit.ts';
 
 export interface AuditedTrace {
   id: string;
@@ -173,24 +172,37 @@ function roughness(t: AuditedTrace): { percent: number; at: number } | undefined
     const q = qs[i] as number;
     while ((qs[lo] as number) < q - half) lo++;
     while (hi + 1 < qs.length && (qs[hi + 1] as number) <= q + half) hi++;
-    const xs: number[] = [];
-    const ys: number[] = [];
+    // Least-squares parabola through the neighbours (x centred on the point, scaled by the
+    // window), by its 3 × 3 normal equations; its value at the point is the constant term.
+    let n = 0;
+    let left = 0;
+    let right = 0;
+    const m = [0, 0, 0, 0, 0, 0, 0, 0];
     for (let k = lo; k <= hi; k++) {
       if (k === i) continue;
-      xs.push((qs[k] as number) - q);
-      ys.push(vs[k] as number);
+      const x = ((qs[k] as number) - q) / half;
+      if (x < 0) left++;
+      else if (x > 0) right++;
+      const y = vs[k] as number;
+      n++;
+      m[1]! += x;
+      m[2]! += x * x;
+      m[3]! += x * x * x;
+      m[4]! += x * x * x * x;
+      m[5]! += y;
+      m[6]! += x * y;
+      m[7]! += x * x * y;
     }
     // Judged only with neighbours on both sides: at a trace's ends a one-sided parabola extrapolates noise.
-    if (new Set(xs.map((x) => x.toPrecision(9))).size < 6 || xs.filter((x) => x < 0).length < 3 || xs.filter((x) => x > 0).length < 3) continue;
-    try {
-      const fit = fitPolynomial(xs, ys, 2);
-      const d = Math.abs((vs[i] as number) - (fittedValues(fit, [0])[0] as number));
-      if (d > worst) {
-        worst = d;
-        at = q;
-      }
-    } catch {
-      // Too few distinct flows around this point to judge it.
+    if (n < 6 || left < 3 || right < 3) continue;
+    const [, s1, s2, s3, s4, y0, y1, y2] = m as [number, number, number, number, number, number, number, number];
+    const det = n * (s2 * s4 - s3 * s3) - s1 * (s1 * s4 - s3 * s2) + s2 * (s1 * s3 - s2 * s2);
+    if (!(Math.abs(det) > 1e-12)) continue;
+    const a = (y0 * (s2 * s4 - s3 * s3) - s1 * (y1 * s4 - s3 * y2) + s2 * (y1 * s3 - s2 * y2)) / det;
+    const d = Math.abs((vs[i] as number) - a);
+    if (d > worst) {
+      worst = d;
+      at = q;
     }
   }
   return { percent: (100 * worst) / t.valueSpan, at };
