@@ -44,7 +44,8 @@ export interface Calibration {
   /**
    * What the residuals are: 'fit' (anchors against the fitted map), 'leave-one-out' (each
    * anchor against the map fitted without it), 'estimated' (4 anchors fix a homography
-   * exactly: the effect of a 0.5-unit placement error), 'none' (3 anchors fix an affine map exactly).
+   * exactly: the effect of a 0.5-unit placement error), 'none' (3 anchors fix an affine map
+   * exactly: no check at all; the figure is the same estimate).
    */
   readonly residualKind: 'fit' | 'leave-one-out' | 'estimated' | 'none';
   /** Sheet → linear cores as a homography (row-major 3 × 3), when projective. */
@@ -148,7 +149,16 @@ function affineCalibration(anchors: readonly AnchorInput[], tx: AxisTransform, t
   const projective = h !== undefined && (wanted === 'projective' || (wanted === 'auto' && chooseProjection(anchors.length, affineMax, looAffine, looProjective)));
 
   if (!projective) {
-    if (anchors.length === 3) notices.push(`${where}: three anchors fix an affine map exactly, so neither a misplaced anchor nor the perspective of a photo can show; add a fourth anchor near the free corner of the plot.`);
+    if (anchors.length === 3) {
+      // Exactly fixed: a fit residual would read 0 %. Show what a misplaced anchor would do instead.
+      const affineMap = (from: readonly (readonly [number, number])[], to: readonly (readonly [number, number])[]) => {
+        const map = fitAffine(from, to.map((t) => t[0]), to.map((t) => t[1]));
+        return map && ((x: number, y: number) => applyM(map, x, y));
+      };
+      const estimate = placementEffect(pts, targets, spanU, spanV, affineMap);
+      notices.push(`${where}: three anchors fix an affine map exactly, so neither a misplaced anchor nor the perspective of a photo can show; the residual shown (${estimate.toFixed(2)} % of span) is what a ${ANCHOR_UNCERTAINTY}-unit misplacement of an anchor would cause. Add a fourth anchor near the free corner of the plot.`);
+      return finish('affine', { affine: m }, tx, ty, anchors.map(() => ({ sheet: ANCHOR_UNCERTAINTY, percentOfSpan: estimate })), 'none', where, options, notices);
+    }
     else if (!canSeePerspective) notices.push(`${where}: the anchors lie on two lines (e.g. along the axes), so they cannot reveal the perspective of a photo; add an anchor off those lines (the far corner of the plot).`);
     return finish('affine', { affine: m }, tx, ty, affineResiduals, anchors.length === 3 ? 'none' : 'fit', where, options, notices);
   }
@@ -160,7 +170,10 @@ function affineCalibration(anchors: readonly AnchorInput[], tx: AxisTransform, t
     residuals = looProjective.map((r, i) => ({ percentOfSpan: r, sheet: sheetDistance(hi, pts[i] as readonly [number, number], us, vs, i, looProjective, h) }));
   } else {
     kind = 'estimated';
-    const estimate = placementEffect(pts, targets, spanU, spanV);
+    const estimate = placementEffect(pts, targets, spanU, spanV, (from, to) => {
+      const map = fitHomography(from, to);
+      return map && ((x: number, y: number) => applyHomography(map, x, y));
+    });
     residuals = anchors.map(() => ({ sheet: ANCHOR_UNCERTAINTY, percentOfSpan: estimate }));
     const why = anchors.length === 4 ? 'four anchors fix the perspective exactly' : 'leaving out an anchor leaves three of the others on one line';
     notices.push(`${where}: ${why}, so the calibration cannot be checked; the residual shown (${estimate.toFixed(2)} % of span) is what a ${ANCHOR_UNCERTAINTY}-unit misplacement of an anchor would cause. Add a fifth anchor (a grid crossing inside the plot, off its diagonals) to check it.`);
@@ -244,13 +257,15 @@ function sheetDistance(hi: H9, at: readonly [number, number], us: readonly numbe
 }
 
 /**
- * What a placement error of ANCHOR_UNCERTAINTY sheet units at each of 4 anchors does to the
- * exactly fixed homography, in % of span: each anchor is moved along x and along y, the map is
+ * What a placement error of ANCHOR_UNCERTAINTY sheet units at each anchor does to an exactly
+ * fixed map (a homography from 4 anchors, an affine map from 3), in % of span: each anchor is moved along x and along y, the map is
  * fixed again, and the largest change over the anchors' hull (its corners and centre) is
  * taken; the independent effects add in quadrature.
  */
-function placementEffect(pts: readonly (readonly [number, number])[], targets: readonly (readonly [number, number])[], spanU: number, spanV: number): number {
-  const base = fitHomography(pts, targets);
+type Fitter = (from: readonly (readonly [number, number])[], to: readonly (readonly [number, number])[]) => ((x: number, y: number) => [number, number]) | undefined;
+
+function placementEffect(pts: readonly (readonly [number, number])[], targets: readonly (readonly [number, number])[], spanU: number, spanV: number, fit: Fitter): number {
+  const base = fit(pts, targets);
   if (!base) return Number.NaN;
   const xs = pts.map((p) => p[0]);
   const ys = pts.map((p) => p[1]);
@@ -265,12 +280,12 @@ function placementEffect(pts: readonly (readonly [number, number])[], targets: r
   for (let k = 0; k < pts.length; k++) {
     for (const [dx, dy] of [[ANCHOR_UNCERTAINTY, 0], [0, ANCHOR_UNCERTAINTY]] as const) {
       const moved = pts.map((p, j) => (j === k ? ([p[0] + dx, p[1] + dy] as const) : p));
-      const h = fitHomography(moved, targets);
+      const h = fit(moved, targets);
       if (!h) return Number.NaN;
       let worst = 0;
       for (const [x, y] of probes) {
-        const [u0, v0] = applyHomography(base, x, y);
-        const [u1, v1] = applyHomography(h, x, y);
+        const [u0, v0] = base(x, y);
+        const [u1, v1] = h(x, y);
         worst = Math.max(worst, 100 * Math.max(Math.abs(u1 - u0) / spanU, Math.abs(v1 - v0) / spanV));
       }
       sum += worst * worst;

@@ -81,6 +81,7 @@ describe('projective calibration', () => {
     expect(calibrate(corners.map(([x, y]) => ({ at: flat(x, y), x, y }))).projection).toBe('affine');
     const three = calibrate(corners.slice(0, 3).map(([x, y]) => ({ at: flat(x, y), x, y })), { panel: 'p' });
     expect(three.residualKind).toBe('none');
+    expect(three.maxPercentOfSpan).toBeGreaterThan(0.01); // never 0 % from an exactly fixed map: the 0.5-unit estimate (% of span)
     expect(three.warnings.some((w) => /three anchors fix an affine map exactly/.test(w))).toBe(true);
     const at = photo();
     const twoLines: [number, number][] = [[0, 0], [200, 0], [400, 0], [0, 40], [0, 80]];
