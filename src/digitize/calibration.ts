@@ -7,11 +7,18 @@
  * - 'affine': 3 or more anchors with both values, least squares on centred coordinates.
  * - 'axes': 2 or more anchors on each axis, each with the one value of its axis. Lines of
  *   constant x run parallel to the y-axis anchors' line and vice versa.
+ * With 4 or more anchors with both values a homography (projective map, homography.ts) is
+ * fitted beside the affine map, for photos of a sheet, whose perspective no affine map
+ * absorbs. It is chosen when the anchors show perspective (see `chooseProjection`), or when
+ * the panel asks for it; the residual shown is then honest: leave-one-out with 5 or more
+ * anchors, and with exactly 4 (which fix a homography exactly, so a fit residual would read
+ * 0) an estimate of what a placement error of the anchors causes, with a warning to add one.
  * `toData` and `toSheet` are exact inverses (up to rounding) on the valid domain.
  */
 import { dataPoint, sheetPoint, type DataPoint, type SheetPoint, type SheetCoordinates, type DataCoordinates } from './points.ts';
 import { axisTransform, CalibrationError, type AxisTransform } from './axis.ts';
 import type { AxisScaleType } from '../model/takeoff.ts';
+import { applyHomography, fitHomography, invertHomography, threeOnALine, type H9 } from './homography.ts';
 
 export { CalibrationError } from './axis.ts';
 
@@ -28,11 +35,24 @@ export interface AnchorResidual {
   percentOfSpan: number;
 }
 
+export type Projection = 'affine' | 'projective';
+
 export interface Calibration {
   readonly method: 'affine' | 'axes';
+  /** The map in use: affine, or projective (a homography, for photos in perspective). */
+  readonly projection: Projection;
+  /**
+   * What the residuals are: 'fit' (anchors against the fitted map), 'leave-one-out' (each
+   * anchor against the map fitted without it), 'estimated' (4 anchors fix a homography
+   * exactly: the effect of a 0.5-unit placement error), 'none' (3 anchors fix an affine map
+   * exactly: no check at all; the figure is the same estimate).
+   */
+  readonly residualKind: 'fit' | 'leave-one-out' | 'estimated' | 'none';
+  /** Sheet → linear cores as a homography (row-major 3 × 3), when projective. */
+  readonly homography?: H9;
   readonly xScale: AxisScaleType;
   readonly yScale: AxisScaleType;
-  /** Sheet → linear cores: u = m[0]·x + m[2]·y + m[4], v = m[1]·x + m[3]·y + m[5]. */
+  /** Sheet → linear cores: u = m[0]·x + m[2]·y + m[4], v = m[1]·x + m[3]·y + m[5] (the affine fit, also when the projective map is in use). */
   readonly matrix: readonly [number, number, number, number, number, number];
   readonly residuals: readonly AnchorResidual[];
   /** Root-mean-square and largest anchor residual, sheet units. */
@@ -53,7 +73,19 @@ export interface CalibrateOptions {
   warnPercent?: number;
   /** Name of the panel for messages. */
   panel?: string;
+  /** 'auto' (default): projective when 4 or more anchors show perspective; or force one map. */
+  projection?: 'auto' | Projection;
 }
+
+/**
+ * Largest misfit of an affine map to 4 anchors, in % of span, still put down to placement
+ * rather than perspective. Anchors snapped to grid crossings land within about half a pixel
+ * (0.05 % of a 1000-pixel span); a hand-held photo's keystone of 2–10 % puts the fourth anchor
+ * off by 0.5 % or more (common practice: the threshold sits between the two).
+ */
+export const PERSPECTIVE_PERCENT = 0.1;
+/** Placement uncertainty of an anchor, sheet units, for the residual estimated from exactly 4 anchors (from memory: snapping accuracy of about half a pixel). */
+export const ANCHOR_UNCERTAINTY = 0.5;
 
 export const RESIDUAL_WARN_PERCENT = 0.3;
 
@@ -89,22 +121,187 @@ function affineCalibration(anchors: readonly AnchorInput[], tx: AxisTransform, t
   const values = us.map((u, i) => [u, vs[i] as number] as const);
   if (spreadRatio(values) < 1e-6) throw new CalibrationError(`${where}: the anchor values lie on one line in the plot (x and y change together); add an anchor that changes x without y or y without x.`);
 
-  const [a, c, e] = fitPlane(pts, us);
-  const [b, d, f] = fitPlane(pts, vs);
-  const m: M6 = [a, b, c, d, e, f];
-  const det = a * d - b * c;
-  if (!Number.isFinite(det) || Math.abs(det) === 0) throw new CalibrationError(`${where}: the anchors do not determine both axes; check their values and positions.`);
-
+  const m = fitAffine(pts, us, vs);
+  if (!m) throw new CalibrationError(`${where}: the anchors do not determine both axes; check their values and positions.`);
   const spanU = span(us);
   const spanV = span(vs);
-  const residuals = anchors.map((anchor, i) => {
+  const misfit = (u: number, v: number, i: number) => 100 * Math.max(Math.abs(u - (us[i] as number)) / spanU, Math.abs(v - (vs[i] as number)) / spanV);
+
+  const affineResiduals = anchors.map((anchor, i) => {
     const [u, v] = applyM(m, anchor.at[0], anchor.at[1]);
-    const du = u - (us[i] as number);
-    const dv = v - (vs[i] as number);
     const [x, y] = invertM(m, us[i] as number, vs[i] as number);
-    return { sheet: Math.hypot(x - anchor.at[0], y - anchor.at[1]), percentOfSpan: 100 * Math.max(Math.abs(du) / spanU, Math.abs(dv) / spanV) };
+    return { sheet: Math.hypot(x - anchor.at[0], y - anchor.at[1]), percentOfSpan: misfit(u, v, i) };
   });
-  return finish('affine', m, tx, ty, residuals, where, options);
+  const notices: string[] = [];
+  const wanted = options.projection ?? 'auto';
+  const canSeePerspective = anchors.length >= 4 && hasQuad(pts) && !alongTwoAxes(pts);
+  if (wanted === 'projective' && !canSeePerspective) {
+    throw new CalibrationError(`${where}: a projective calibration needs 4 or more anchors with both values, no three of them on one line and not all along two lines from one anchor (the axes); it has ${anchors.length}. Add anchors near the four corners of the plot.`);
+  }
+  const targets = us.map((u, i) => [u, vs[i] as number] as const);
+  const h = wanted !== 'affine' && canSeePerspective ? fitHomography(pts, targets) : undefined;
+  const looAffine = anchors.length >= 4 ? leaveOneOut(anchors.length, (keep) => fitAffine(keep.map((k) => pts[k] as readonly [number, number]), keep.map((k) => us[k] as number), keep.map((k) => vs[k] as number)), (map, i) => misfit(...applyM(map, (pts[i] as readonly [number, number])[0], (pts[i] as readonly [number, number])[1]), i)) : undefined;
+  const looProjective =
+    h && anchors.length >= 5
+      ? leaveOneOut(anchors.length, (keep) => (hasQuad(keep.map((k) => pts[k] as readonly [number, number])) ? fitHomography(keep.map((k) => pts[k] as readonly [number, number]), keep.map((k) => targets[k] as readonly [number, number])) : undefined), (map, i) => misfit(...applyHomography(map, (pts[i] as readonly [number, number])[0], (pts[i] as readonly [number, number])[1]), i))
+      : undefined;
+  const affineMax = Math.max(...affineResiduals.map((r) => r.percentOfSpan));
+  const projective = h !== undefined && (wanted === 'projective' || (wanted === 'auto' && chooseProjection(anchors.length, affineMax, looAffine, looProjective)));
+
+  if (!projective) {
+    if (anchors.length === 3) {
+      // Exactly fixed: a fit residual would read 0 %. Show what a misplaced anchor would do instead.
+      const affineMap = (from: readonly (readonly [number, number])[], to: readonly (readonly [number, number])[]) => {
+        const map = fitAffine(from, to.map((t) => t[0]), to.map((t) => t[1]));
+        return map && ((x: number, y: number) => applyM(map, x, y));
+      };
+      const estimate = placementEffect(pts, targets, spanU, spanV, affineMap);
+      notices.push(`${where}: three anchors fix an affine map exactly, so neither a misplaced anchor nor the perspective of a photo can show; the residual shown (${estimate.toFixed(2)} % of span) is what a ${ANCHOR_UNCERTAINTY}-unit misplacement of an anchor would cause. Add a fourth anchor near the free corner of the plot.`);
+      return finish('affine', { affine: m }, tx, ty, anchors.map(() => ({ sheet: ANCHOR_UNCERTAINTY, percentOfSpan: estimate })), 'none', where, options, notices);
+    }
+    else if (!canSeePerspective) notices.push(`${where}: the anchors lie on two lines (e.g. along the axes), so they cannot reveal the perspective of a photo; add an anchor off those lines (the far corner of the plot).`);
+    return finish('affine', { affine: m }, tx, ty, affineResiduals, anchors.length === 3 ? 'none' : 'fit', where, options, notices);
+  }
+  const hi = invertHomography(h);
+  let residuals: AnchorResidual[];
+  let kind: Calibration['residualKind'];
+  if (looProjective) {
+    kind = 'leave-one-out';
+    residuals = looProjective.map((r, i) => ({ percentOfSpan: r, sheet: sheetDistance(hi, pts[i] as readonly [number, number], us, vs, i, looProjective, h) }));
+  } else {
+    kind = 'estimated';
+    const estimate = placementEffect(pts, targets, spanU, spanV, (from, to) => {
+      const map = fitHomography(from, to);
+      return map && ((x: number, y: number) => applyHomography(map, x, y));
+    });
+    residuals = anchors.map(() => ({ sheet: ANCHOR_UNCERTAINTY, percentOfSpan: estimate }));
+    const why = anchors.length === 4 ? 'four anchors fix the perspective exactly' : 'leaving out an anchor leaves three of the others on one line';
+    notices.push(`${where}: ${why}, so the calibration cannot be checked; the residual shown (${estimate.toFixed(2)} % of span) is what a ${ANCHOR_UNCERTAINTY}-unit misplacement of an anchor would cause. Add a fifth anchor (a grid crossing inside the plot, off its diagonals) to check it.`);
+  }
+  return finish('affine', { affine: m, homography: h, inverse: hi }, tx, ty, residuals, kind, where, options, notices);
+}
+
+/**
+ * Projective when the anchors show perspective: with 5 or more, the homography predicts each
+ * left-out anchor clearly better than the affine map (by a third or more); with exactly 4,
+ * the affine map misses them by more than placement explains (PERSPECTIVE_PERCENT).
+ */
+export function chooseProjection(anchors: number, affineMax: number, looAffine: number[] | undefined, looProjective: number[] | undefined): boolean {
+  if (anchors === 4) return affineMax > PERSPECTIVE_PERCENT;
+  // With 5 or more, only a homography that predicts every left-out anchor may win.
+  if (!looAffine || !looProjective) return false;
+  const a = Math.max(...looAffine);
+  const p = Math.max(...looProjective);
+  return a > PERSPECTIVE_PERCENT && p < (2 / 3) * a;
+}
+
+/**
+ * Each anchor's misfit to the map fitted without it. An anchor whose leaving out leaves the
+ * others unable to fix a map (three on one line, e.g. a middle anchor on a diagonal) gets the
+ * largest misfit of the others; undefined when fewer than two anchors can be checked.
+ */
+function leaveOneOut<T>(n: number, fit: (keep: number[]) => T | undefined, error: (map: T, left: number) => number): number[] | undefined {
+  const out: number[] = [];
+  for (let i = 0; i < n; i++) {
+    const keep = [...Array(n).keys()].filter((k) => k !== i);
+    const map = fit(keep);
+    out.push(map === undefined ? Number.NaN : error(map, i));
+  }
+  const seen = out.filter(Number.isFinite);
+  if (seen.length < 2) return undefined;
+  const worst = Math.max(...seen);
+  return out.map((v) => (Number.isFinite(v) ? v : worst));
+}
+
+/**
+ * All anchors lie on two lines through one of them (typically along the two axes from the
+ * origin): the far corner of the plot is then unconstrained, and perspective cannot show.
+ */
+function alongTwoAxes(points: readonly (readonly [number, number])[]): boolean {
+  const size = Math.max(...points.map((p) => Math.max(...points.map((q) => Math.hypot(p[0] - q[0], p[1] - q[1])))));
+  return points.some((o) => {
+    const directions: [number, number][] = [];
+    for (const p of points) {
+      const d = Math.hypot(p[0] - o[0], p[1] - o[1]);
+      if (d < 1e-9 * size) continue;
+      const u: [number, number] = [(p[0] - o[0]) / d, (p[1] - o[1]) / d];
+      // Same line through o when the direction is parallel or opposite (within about 1°).
+      if (!directions.some((v) => Math.abs(v[0] * u[1] - v[1] * u[0]) < 0.02)) directions.push(u);
+      if (directions.length > 2) return false;
+    }
+    return true;
+  });
+}
+
+/** Some four of the points have no three on one line (a homography can be fixed by them). */
+function hasQuad(points: readonly (readonly [number, number])[]): boolean {
+  const n = points.length;
+  for (let a = 0; a < n; a++) for (let b = a + 1; b < n; b++) for (let c = b + 1; c < n; c++) for (let d = c + 1; d < n; d++) {
+    if (!threeOnALine([points[a], points[b], points[c], points[d]] as (readonly [number, number])[])) return true;
+  }
+  return false;
+}
+
+/** Sheet distance between an anchor and where its values map through the full homography, scaled to its left-out misfit. */
+function sheetDistance(hi: H9, at: readonly [number, number], us: readonly number[], vs: readonly number[], i: number, loo: readonly number[], h: H9): number {
+  const [x, y] = applyHomography(hi, us[i] as number, vs[i] as number);
+  const fitted = Math.hypot(x - at[0], y - at[1]);
+  // Sheet units per % of span near the anchor, from the map's local scale.
+  const [u0, v0] = applyHomography(h, at[0], at[1]);
+  const [u1, v1] = applyHomography(h, at[0] + 1, at[1] + 1);
+  const perUnit = Math.hypot(u1 - u0, v1 - v0) / Math.SQRT2;
+  const spanU = span(us);
+  const spanV = span(vs);
+  const unitsPerPercent = perUnit > 0 ? (0.01 * Math.min(spanU, spanV)) / perUnit : 0;
+  return Math.max(fitted, (loo[i] as number) * unitsPerPercent);
+}
+
+/**
+ * What a placement error of ANCHOR_UNCERTAINTY sheet units at each anchor does to an exactly
+ * fixed map (a homography from 4 anchors, an affine map from 3), in % of span: each anchor is moved along x and along y, the map is
+ * fixed again, and the largest change over the anchors' hull (its corners and centre) is
+ * taken; the independent effects add in quadrature.
+ */
+type Fitter = (from: readonly (readonly [number, number])[], to: readonly (readonly [number, number])[]) => ((x: number, y: number) => [number, number]) | undefined;
+
+function placementEffect(pts: readonly (readonly [number, number])[], targets: readonly (readonly [number, number])[], spanU: number, spanV: number, fit: Fitter): number {
+  const base = fit(pts, targets);
+  if (!base) return Number.NaN;
+  const xs = pts.map((p) => p[0]);
+  const ys = pts.map((p) => p[1]);
+  const probes: [number, number][] = [
+    [Math.min(...xs), Math.min(...ys)],
+    [Math.max(...xs), Math.min(...ys)],
+    [Math.min(...xs), Math.max(...ys)],
+    [Math.max(...xs), Math.max(...ys)],
+    [(Math.min(...xs) + Math.max(...xs)) / 2, (Math.min(...ys) + Math.max(...ys)) / 2],
+  ];
+  let sum = 0;
+  for (let k = 0; k < pts.length; k++) {
+    for (const [dx, dy] of [[ANCHOR_UNCERTAINTY, 0], [0, ANCHOR_UNCERTAINTY]] as const) {
+      const moved = pts.map((p, j) => (j === k ? ([p[0] + dx, p[1] + dy] as const) : p));
+      const h = fit(moved, targets);
+      if (!h) return Number.NaN;
+      let worst = 0;
+      for (const [x, y] of probes) {
+        const [u0, v0] = base(x, y);
+        const [u1, v1] = h(x, y);
+        worst = Math.max(worst, 100 * Math.max(Math.abs(u1 - u0) / spanU, Math.abs(v1 - v0) / spanV));
+      }
+      sum += worst * worst;
+    }
+  }
+  return Math.sqrt(sum / pts.length);
+}
+
+/** Least-squares affine map sheet → (u, v); undefined when the points do not determine it. */
+function fitAffine(pts: readonly (readonly [number, number])[], us: readonly number[], vs: readonly number[]): M6 | undefined {
+  if (pts.length < 3 || spreadRatio(pts) < 1e-6) return undefined;
+  const [a, c, e] = fitPlane(pts, us);
+  const [b, d, f] = fitPlane(pts, vs);
+  const det = a * d - b * c;
+  if (!Number.isFinite(det) || Math.abs(det) === 0) return undefined;
+  return [a, b, c, d, e, f];
 }
 
 function axesCalibration(xs: readonly AnchorInput[], ys: readonly AnchorInput[], tx: AxisTransform, ty: AxisTransform, where: string, options: CalibrateOptions): Calibration {
@@ -142,19 +339,47 @@ function axesCalibration(xs: readonly AnchorInput[], ys: readonly AnchorInput[],
       return { sheet: Math.abs(dv) / grad(1), percentOfSpan: (100 * Math.abs(dv)) / spanV };
     }),
   ];
-  return finish('axes', m, tx, ty, residuals, where, options);
+  return finish('axes', { affine: m }, tx, ty, residuals, 'fit', where, options, []);
 }
 
-function finish(method: Calibration['method'], m: M6, tx: AxisTransform, ty: AxisTransform, residuals: AnchorResidual[], where: string, options: CalibrateOptions): Calibration {
+interface Maps {
+  affine: M6;
+  homography?: H9;
+  inverse?: H9;
+}
+
+function finish(
+  method: Calibration['method'],
+  maps: Maps,
+  tx: AxisTransform,
+  ty: AxisTransform,
+  residuals: AnchorResidual[],
+  residualKind: Calibration['residualKind'],
+  where: string,
+  options: CalibrateOptions,
+  notices: readonly string[],
+): Calibration {
   const warnAt = options.warnPercent ?? RESIDUAL_WARN_PERCENT;
-  const warnings = residuals.flatMap((r, i) =>
-    r.percentOfSpan > warnAt
-      ? [`${where}: anchor ${i + 1} is off by ${r.percentOfSpan.toFixed(2)} % of the axis span (${r.sheet.toFixed(2)} sheet units), more than ${warnAt} %; check its position and value.`]
-      : [],
-  );
+  const what = residualKind === 'leave-one-out' ? ' (left out of the fit)' : '';
+  const warnings = [
+    ...residuals.flatMap((r, i) =>
+      r.percentOfSpan > warnAt && residualKind !== 'estimated'
+        ? [`${where}: anchor ${i + 1} is off by ${r.percentOfSpan.toFixed(2)} % of the axis span${what} (${r.sheet.toFixed(2)} sheet units), more than ${warnAt} %; check its position and value.`]
+        : [],
+    ),
+    ...notices,
+  ];
   const rmsSheet = Math.sqrt(residuals.reduce((s, r) => s + r.sheet ** 2, 0) / Math.max(1, residuals.length));
+  const m = maps.affine;
+  const h = maps.homography;
+  const hi = maps.inverse;
+  const forward = h ? (x: number, y: number) => applyHomography(h, x, y) : (x: number, y: number) => applyM(m, x, y);
+  const backward = hi ? (u: number, v: number) => applyHomography(hi, u, v) : (u: number, v: number) => invertM(m, u, v);
   return {
     method,
+    projection: h ? 'projective' : 'affine',
+    residualKind,
+    ...(h ? { homography: h } : {}),
     xScale: tx.type,
     yScale: ty.type,
     matrix: m,
@@ -164,11 +389,11 @@ function finish(method: Calibration['method'], m: M6, tx: AxisTransform, ty: Axi
     maxPercentOfSpan: Math.max(0, ...residuals.map((r) => r.percentOfSpan)),
     warnings,
     toData(p) {
-      const [u, v] = applyM(m, p[0], p[1]);
+      const [u, v] = forward(p[0], p[1]);
       return dataPoint(tx.inverse(u), ty.inverse(v));
     },
     toSheet(d) {
-      const [x, y] = invertM(m, tx.forward(d[0], 'x value'), ty.forward(d[1], 'y value'));
+      const [x, y] = backward(tx.forward(d[0], 'x value'), ty.forward(d[1], 'y value'));
       return sheetPoint(x, y);
     },
   };

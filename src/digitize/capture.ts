@@ -18,8 +18,14 @@ export interface CaptureRequest {
   guides?: readonly SheetPoint[] | undefined;
   points?: readonly SheetPoint[] | undefined;
   method?: CaptureMethod | undefined;
-  /** 'line': take the whole drawn line the guides sit on (vector capture only). */
+  /**
+   * 'line': take the whole drawn line the guides sit on; 'guides': from the first guide to the
+   * last. Unset: the whole line on a raster, from guide to guide on vector paths (whose
+   * results are exact and kept as they were).
+   */
   extent?: 'guides' | 'line' | undefined;
+  /** The panel's plot frame [left, top, right, bottom], sheet units: a raster trace stops at it. */
+  frame?: readonly [number, number, number, number] | undefined;
 }
 
 export interface CaptureSource {
@@ -67,7 +73,7 @@ export async function captureTrace(request: CaptureRequest, source: CaptureSourc
       // Pump curves are never level or upright straight lines: the guides more likely sit on a
       // curve inside a picture, drawn over by the page's grid. Follow it on a rendering.
       try {
-        const traced = traceRaster(await source.raster(), guides, options.raster);
+        const traced = traceRaster(await source.raster(), guides, rasterOptions(request, options));
         if (traced.lost.length === 0 && traced.points.length >= 2) {
           notes.push('The only drawn path near the guides was a grid or frame line; the line was followed on a rendering instead.');
           return { points: evenly(traced.points, spacing), how: 'raster', notes, lost: [] };
@@ -82,9 +88,13 @@ export async function captureTrace(request: CaptureRequest, source: CaptureSourc
       notes.push(`No drawn path fitted the guides (${error.message.replace(/;.*$/, '')}); the line was followed on a rendering instead.`);
     }
   }
-  const traced = traceRaster(await source.raster(), guides, options.raster);
+  const traced = traceRaster(await source.raster(), guides, rasterOptions(request, options));
   for (const l of traced.lost) notes.push(`The line was lost near (${l.at[0].toFixed(1)}, ${l.at[1].toFixed(1)}) between guides ${l.between[0]} and ${l.between[1]}: ${l.reason}.`);
   return { points: traced.lost.length ? traced.points : evenly(traced.points, spacing), how: 'raster', notes, lost: traced.lost };
+}
+
+function rasterOptions(request: CaptureRequest, options: CaptureOptions): RasterTraceOptions {
+  return { ...options.raster, ...(request.extent ? { extent: request.extent } : {}), ...(request.frame ? { frame: request.frame } : {}) };
 }
 
 /** Resamples a capture evenly (a point every `spacing` sheet units, at least 30), so fits weigh the curve evenly. */

@@ -4,8 +4,12 @@
  * flow. Crossings are found in sheet coordinates, on the captured polylines, so that they are
  * exact for vector captures; the caller turns each crossing into data through the panel.
  *
- * An iso-line often ends right on the outermost head curve; an end within `touchTolerance` of a
- * head trace that has no crossing nearby counts as a crossing at the nearest point of that trace.
+ * An iso-line often ends right on the outermost head curve, and a followed iso-line stops a
+ * little short of it (the thick head curve hides its last pixels). Each end is therefore
+ * extended along the iso-line's own direction by `reach` sheet units (the caller sets it from
+ * a tolerance in data units and line widths); where the extension meets a head trace with no
+ * crossing nearby, that is a crossing. Failing that, an end within `touchTolerance` of a head
+ * trace counts as a crossing at the nearest point of that trace.
  */
 import { intersections, nearestOnPolyline } from './polyline.ts';
 import type { SheetPoint } from './points.ts';
@@ -26,9 +30,28 @@ export const DEFAULT_TOUCH_TOLERANCE = 2;
 /** Crossings closer than this (sheet units) are one crossing. */
 const MERGE_DISTANCE = 0.05;
 
-export function isoCrossings<K>(iso: readonly SheetPoint[], targets: readonly CrossingTarget<K>[], touchTolerance = DEFAULT_TOUCH_TOLERANCE): IsoCrossing<K>[] {
+/** Unit direction of a polyline leaving through its end (`fromEnd` true) or its start, over about `span` sheet units. */
+function endDirection(points: readonly SheetPoint[], fromEnd: boolean, span: number): [number, number] | undefined {
+  const n = points.length;
+  const end = (fromEnd ? points[n - 1] : points[0]) as SheetPoint;
+  let k = fromEnd ? n - 2 : 1;
+  while (k > 0 && k < n - 1 && Math.hypot((points[k] as SheetPoint)[0] - end[0], (points[k] as SheetPoint)[1] - end[1]) < span) k += fromEnd ? -1 : 1;
+  const from = points[k] as SheetPoint;
+  const d = Math.hypot(end[0] - from[0], end[1] - from[1]);
+  return d > 0 ? [(end[0] - from[0]) / d, (end[1] - from[1]) / d] : undefined;
+}
+
+export function isoCrossings<K>(iso: readonly SheetPoint[], targets: readonly CrossingTarget<K>[], touchTolerance = DEFAULT_TOUCH_TOLERANCE, reach = 0): IsoCrossing<K>[] {
   const out: IsoCrossing<K>[] = [];
   if (iso.length < 2) return out;
+  const rays: SheetPoint[][] = [];
+  if (reach > 0) {
+    for (const fromEnd of [false, true]) {
+      const end = (fromEnd ? iso[iso.length - 1] : iso[0]) as SheetPoint;
+      const dir = endDirection(iso, fromEnd, 3 * reach);
+      if (dir) rays.push([end, [end[0] + reach * dir[0], end[1] + reach * dir[1]] as unknown as SheetPoint]);
+    }
+  }
   for (const target of targets) {
     if (target.points.length < 2) continue;
     const found: IsoCrossing<K>[] = [];
@@ -36,6 +59,13 @@ export function isoCrossings<K>(iso: readonly SheetPoint[], targets: readonly Cr
       // A crossing through a vertex of either line can be reported by both of its segments.
       if (found.some((f) => Math.hypot(f.at[0] - c.point[0], f.at[1] - c.point[1]) < MERGE_DISTANCE)) continue;
       found.push({ key: target.key, at: c.point, touching: false });
+    }
+    for (const ray of rays) {
+      for (const c of intersections(ray, target.points)) {
+        if (found.some((f) => Math.hypot(f.at[0] - c.point[0], f.at[1] - c.point[1]) <= 2 * Math.max(touchTolerance, 0.25 * reach))) continue;
+        found.push({ key: target.key, at: c.point, touching: true });
+        break;
+      }
     }
     for (const end of [iso[0] as SheetPoint, iso[iso.length - 1] as SheetPoint]) {
       const near = nearestOnPolyline(target.points, end);

@@ -33,6 +33,14 @@ export interface RasterTraceOptions {
   simplifyPx?: number;
   /** How far from a guide the line may lie, pixels (default 10, or 3 line widths if more). */
   searchPx?: number;
+  /**
+   * 'line' (the default): beyond the first and the last guide the line is followed on to its
+   * own ends (where its ink stops, or the frame); 'guides': the trace runs from the first guide
+   * to the last only.
+   */
+  extent?: 'guides' | 'line';
+  /** Plot frame [left, top, right, bottom] in sheet units: a whole-line trace stops at it. */
+  frame?: readonly [number, number, number, number];
 }
 
 /** A stretch the tracer could not see. */
@@ -81,7 +89,7 @@ function validateGuides(image: RasterImage, guides: readonly SheetPoint[]): Px[]
 }
 
 /** Measures the line under a guide: paper and ink colour, line width, centre and direction. */
-function acquire(image: RasterImage, guide: Px, search: number, options: RasterTraceOptions): { style: LineStyle; centre: Px; axis: Px } | undefined {
+function acquire(image: RasterImage, guide: Px, search: number, options: RasterTraceOptions): { style: LineStyle; centre: Px; axis: Px; isotropy: number } | undefined {
   const paper = estimatePaper(image, guide[0], guide[1], Math.max(2 * search, 16));
   let colour: Rgb;
   if (options.colour) {
@@ -135,7 +143,7 @@ function acquire(image: RasterImage, guide: Px, search: number, options: RasterT
   if (!measured) return undefined;
   const width = options.widthPx ?? measured.width;
   const massRange: [number, number] = model.mode === 'achromatic' ? [0.8, 1.35] : [0.55, 1.5];
-  return { style: { model, width, threshold: THRESHOLD, massRange }, centre: measured.centre, axis: measured.axis };
+  return { style: { model, width, threshold: THRESHOLD, massRange }, centre: measured.centre, axis: measured.axis, isotropy: measured.isotropy };
 }
 
 /** The nearest pixel centre to `p` whose membership is at least one half, within `radius`. */
@@ -160,7 +168,7 @@ function nearestInk(image: RasterImage, model: InkModel, p: Px, radius: number):
 }
 
 /** Direction, sub-pixel centre and width of the line through an ink pixel. */
-function measureAt(image: RasterImage, model: InkModel, ink: Px, widthGuess: number): { centre: Px; axis: Px; width: number } | undefined {
+function measureAt(image: RasterImage, model: InkModel, ink: Px, widthGuess: number): { centre: Px; axis: Px; width: number; isotropy: number } | undefined {
   const axis = inkAxis(image, model, ink[0], ink[1], Math.max(2.5 * widthGuess, 5), THRESHOLD);
   if (!axis) return undefined;
   const nx = -axis.dy;
@@ -173,7 +181,7 @@ function measureAt(image: RasterImage, model: InkModel, ink: Px, widthGuess: num
   let best = runs[0];
   for (const r of runs) if (best && Math.abs(r.centre) < Math.abs(best.centre)) best = r;
   if (!best) return undefined;
-  return { centre: [ink[0] + nx * best.centre, ink[1] + ny * best.centre], axis: [axis.dx, axis.dy], width: Math.max(1, best.mass) };
+  return { centre: [ink[0] + nx * best.centre, ink[1] + ny * best.centre], axis: [axis.dx, axis.dy], width: Math.max(1, best.mass), isotropy: axis.isotropy };
 }
 
 /** Puts a guide onto the centre of the followed line near it. */
@@ -383,9 +391,19 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
   const toSheetPt = (p: Px) => sheetPoint(p[0] / image.scale, p[1] / image.scale);
   let search = options.searchPx ?? 10;
 
-  let acquired: ReturnType<typeof acquire>;
+  // The line's model (colour, width) is sampled at every guide, and taken where the line
+  // stands most alone: where the ink around the guide is most like one straight stroke
+  // (least isotropic). A guide inside a bunch or on a crossing samples the other lines too.
+  let chosen: ReturnType<typeof acquire>;
   let first = 0;
-  for (; first < px.length && !acquired; first++) acquired = acquire(image, px[first] as Px, search, options);
+  px.forEach((g, i) => {
+    const got = acquire(image, g, search, options);
+    if (got && (!chosen || got.isotropy < chosen.isotropy - 0.02)) {
+      chosen = got;
+      first = i + 1;
+    }
+  });
+  const acquired = chosen;
   if (!acquired) {
     return {
       points: [],
@@ -473,6 +491,9 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
     }
   }
 
+  if (px.length > 1 && options.extent !== 'guides' && path.length >= 2) extendToEnds(image, style, path, maxGap, options.frame, counter);
+  else if (options.frame && path.length >= 2) clipToFrame(path, options.frame, image.scale, style.width);
+
   const thinned = simplify(
     fillGaps(dropOutliers(dropIslands(path, stepping(style.width).step, style.width), Math.max(12, 4 * style.width), Math.max(1.5, 0.5 * style.width)), stepping(style.width).step).map(
       ([x, y]) => ({ x, y }),
@@ -487,6 +508,104 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
     line: { colour: style.model.line, paper: style.model.paper, widthPx: style.width },
     pixelsRead: counter.reads,
   };
+}
+
+/** True when a pixel position lies inside the frame (sheet units), with half a line width to spare. */
+function insideFramePx(p: Px, frame: readonly [number, number, number, number], scale: number, width: number): boolean {
+  const m = 0.5 * width + 1;
+  const l = Math.min(frame[0], frame[2]) * scale - m;
+  const r = Math.max(frame[0], frame[2]) * scale + m;
+  const t = Math.min(frame[1], frame[3]) * scale - m;
+  const b = Math.max(frame[1], frame[3]) * scale + m;
+  return p[0] >= l && p[0] <= r && p[1] >= t && p[1] <= b;
+}
+
+function clipToFrame(path: Px[], frame: readonly [number, number, number, number], scale: number, width: number): void {
+  const kept = path.filter((p) => insideFramePx(p, frame, scale, width));
+  if (kept.length >= 2) path.splice(0, path.length, ...kept);
+}
+
+/**
+ * Follows the line on beyond its first and last point to where its own ink stops (or the
+ * frame), so that a trace keeps the curve's end whatever guides the user clicked. Each end is
+ * followed along the direction of the last 40 pixels of the path; what the follower accepts
+ * before it loses the line for longer than `maxGap` is added, and nothing it only coasted on.
+ */
+function extendToEnds(image: RasterImage, style: LineStyle, path: Px[], maxGap: number, frame: readonly [number, number, number, number] | undefined, counter: ReadCounter): void {
+  const limits: FollowLimits = { maxGap, maxTravel: 2 * (image.width + image.height) };
+  const outward = (stretch: Px[]): Px[] => {
+    const end = stretch[stretch.length - 1] as Px;
+    const heading = tangentAt(stretch, stretch.length - 1, 1);
+    const got = pairs(followLine(image, style, end, heading, undefined, limits, counter).points).slice(1);
+    const out: Px[] = [];
+    for (const p of got) {
+      if (frame && !insideFramePx(p, frame, image.scale, style.width)) break;
+      out.push(p);
+    }
+    return out;
+  };
+  const tail = keepSmooth(path, outward(path), style.width);
+  const head = keepSmooth([...path].reverse(), outward([...path].reverse()), style.width);
+  path.unshift(...head.reverse());
+  path.push(...tail);
+  if (frame) clipToFrame(path, frame, image.scale, style.width);
+}
+
+/**
+ * The part of an extension that continues the line smoothly: each point must lie within about
+ * half a line width of the parabola through the last `window` pixels before it (in the frame of
+ * their chord). A drawn curve ends cleanly; what the follower finds beyond its end (a label
+ * beside it, a neighbouring line it ran into) bends away, and is cut there.
+ */
+function keepSmooth(base: readonly Px[], extension: readonly Px[], width: number): Px[] {
+  const limit = Math.max(1.2, 0.6 * width);
+  const window = Math.max(30, 10 * width);
+  const all: Px[] = [...base];
+  const kept: Px[] = [];
+  for (const p of extension) {
+    let k = all.length - 1;
+    let length = 0;
+    while (k > 0 && length < window) {
+      const a = all[k - 1] as Px;
+      const b = all[k] as Px;
+      length += Math.hypot(b[0] - a[0], b[1] - a[1]);
+      k--;
+    }
+    const first = all[k] as Px;
+    const last = all[all.length - 1] as Px;
+    const chord = Math.hypot(last[0] - first[0], last[1] - first[1]);
+    if (all.length - k >= 6 && chord > 0.5 * window) {
+      const ux = (last[0] - first[0]) / chord;
+      const uy = (last[1] - first[1]) / chord;
+      const m = [0, 0, 0, 0, 0, 0, 0, 0];
+      for (let i = k; i < all.length; i++) {
+        const q = all[i] as Px;
+        const t = ((q[0] - last[0]) * ux + (q[1] - last[1]) * uy) / window;
+        const y = -(q[0] - last[0]) * uy + (q[1] - last[1]) * ux;
+        m[0]! += 1;
+        m[1]! += t;
+        m[2]! += t * t;
+        m[3]! += t * t * t;
+        m[4]! += t * t * t * t;
+        m[5]! += y;
+        m[6]! += t * y;
+        m[7]! += t * t * y;
+      }
+      const [n, s1, s2, s3, s4, y0, y1, y2] = m as [number, number, number, number, number, number, number, number];
+      const det = n * (s2 * s4 - s3 * s3) - s1 * (s1 * s4 - s3 * s2) + s2 * (s1 * s3 - s2 * s2);
+      if (Math.abs(det) > 1e-12) {
+        const a = (y0 * (s2 * s4 - s3 * s3) - s1 * (y1 * s4 - s3 * y2) + s2 * (y1 * s3 - s2 * y2)) / det;
+        const b = (n * (y1 * s4 - s3 * y2) - y0 * (s1 * s4 - s3 * s2) + s2 * (s1 * y2 - y1 * s2)) / det;
+        const c = (n * (s2 * y2 - y1 * s3) - s1 * (s1 * y2 - y1 * s2) + y0 * (s1 * s3 - s2 * s2)) / det;
+        const t = ((p[0] - last[0]) * ux + (p[1] - last[1]) * uy) / window;
+        const y = -(p[0] - last[0]) * uy + (p[1] - last[1]) * ux;
+        if (Math.abs(y - (a + b * t + c * t * t)) > limit) break;
+      }
+    }
+    all.push(p);
+    kept.push(p);
+  }
+  return kept;
 }
 
 /** A trace as the take-off file gives it: explicit points (used as is) or guides to follow. */

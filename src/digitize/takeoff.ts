@@ -11,9 +11,13 @@ import { makeFinding, sortFindings } from '../fit/checks/finding.ts';
 import { CurveSet, type CurvePoint, type Finding, type Quantity } from '../model/curveset.ts';
 import { TakeoffError, type Takeoff, type Trace } from '../model/takeoff.ts';
 import { SG_REFERENCE_DENSITY, toSI, type Unit } from '../units/index.ts';
+import { formatSI } from '../units/format.ts';
+import { arcLengths } from './polyline.ts';
+import type { LostStretch } from './rasterTrace.ts';
+import { auditIsoCrossings, auditTraces, type AuditedTrace, type AuditFinding, type IsoCount } from './traceAudit.ts';
 import { calibrate, type Calibration } from './calibration.ts';
 import { captureTrace, type CaptureOptions, type CaptureResult } from './capture.ts';
-import { isoCrossings } from './isoCrossings.ts';
+import { DEFAULT_TOUCH_TOLERANCE, isoCrossings } from './isoCrossings.ts';
 import { sheetPoint, type SheetPoint } from './points.ts';
 import { safeScale, type Sheet } from './sheet.ts';
 import { strokeLines } from './vectorCapture.ts';
@@ -46,6 +50,8 @@ export interface TraceOutcome {
   /** Captured points, sheet coordinates. */
   points: SheetPoint[];
   notes: string[];
+  /** Stretches a raster capture could not see (empty or absent otherwise). */
+  lost?: LostStretch[];
 }
 
 export interface ReplayResult {
@@ -69,7 +75,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
 
   const calibrations = new Map<string, Calibration>();
   for (const panel of takeoff.panels) {
-    const cal = calibrate(panel.anchors, { xScale: panel.x_scale, yScale: panel.y_scale, panel: panel.id });
+    const cal = calibrate(panel.anchors, { xScale: panel.x_scale, yScale: panel.y_scale, panel: panel.id, ...(panel.projection ? { projection: panel.projection } : {}) });
     calibrations.set(panel.id, cal);
     for (const w of cal.warnings) note('takeoff.calibration-residual', 'warn', w, undefined, { max_percent_of_span: cal.maxPercentOfSpan, max_sheet: cal.maxSheet });
   }
@@ -93,7 +99,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
       outcome = { index, id, how: trace.captured_by ?? 'saved', fromFile: true, points: saved, notes: [] };
     } else {
       const got = await captureTrace(
-        { points: trace.points?.map(([x, y]) => sheetPoint(x, y)), guides: trace.guides?.map(([x, y]) => sheetPoint(x, y)), method: trace.method, extent: trace.extent },
+        { points: trace.points?.map(([x, y]) => sheetPoint(x, y)), guides: trace.guides?.map(([x, y]) => sheetPoint(x, y)), method: trace.method, extent: trace.extent, frame: takeoff.panels.find((p) => p.id === trace.panel)?.frame },
         source,
         options.capture,
       ).catch((error: unknown) => {
@@ -101,7 +107,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
         if (error instanceof Error && CAPTURE_ERRORS.includes(error.name)) throw new TakeoffError(`Trace ${id} (${describeTrace(trace)}): ${error.message}`);
         throw error;
       });
-      outcome = { index, id, how: got.how, fromFile: false, points: got.points, notes: got.notes };
+      outcome = { index, id, how: got.how, fromFile: false, points: got.points, notes: got.notes, lost: got.lost };
       if (got.notes.length > 0) {
         const lost = got.lost.length > 0;
         note(lost ? 'takeoff.capture-lost' : 'takeoff.capture-fallback', lost ? 'warn' : 'note', `Trace ${id} (${describeTrace(trace)}): ${got.notes.join(' ')}`, id);
@@ -109,7 +115,11 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
     }
     checkTracePoints(outcome.points.length, `Trace ${id} (${describeTrace(trace)})`); // model/limits.ts
     checkTotalPoints((pointsSoFar += outcome.points.length), 'The take-off');
-    if (outcome.points.length < 2) throw new TakeoffError(`Trace ${id} (${describeTrace(trace)}) captured fewer than 2 points; place guides on its line or give its points.`);
+    if (outcome.points.length < 2) {
+      // One trace that found no line must not cost the others: it is a fail, and it adds nothing.
+      note('takeoff.trace-empty', 'fail', `Trace ${id} (${describeTrace(trace)}) captured fewer than 2 points, so it adds nothing; place its guides on the line where it stands alone, or give its points.`, id);
+      continue;
+    }
     const frame = takeoff.panels.find((p) => p.id === trace.panel)?.frame;
     const outside = frame ? outcome.points.filter((p) => !insideFrame(p, frame)).length : 0;
     if (outside > 0) {
@@ -148,6 +158,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
     add(trace.quantity, trace.diameter as number, pts, outcome.how, outcome.id);
   }
 
+  const isoCounts: IsoCount[] = [];
   for (const outcome of outcomes) {
     const trace = takeoff.traces[outcome.index] as Trace;
     if (trace.iso === undefined) continue;
@@ -159,7 +170,10 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
         return t.panel === trace.panel && t.quantity === 'head' && t.iso === undefined && t.diameter !== undefined;
       })
       .map((o) => ({ key: (takeoff.traces[o.index] as Trace).diameter as number, points: o.points }));
-    const crossings = isoCrossings(outcome.points, heads);
+    const crossings = isoCrossings(outcome.points, heads, DEFAULT_TOUCH_TOLERANCE, isoReach(cal, takeoff.panels.find((p) => p.id === trace.panel)?.anchors ?? []));
+    const perHead = new Map<number, number>();
+    for (const c of crossings) perHead.set(c.key, (perHead.get(c.key) ?? 0) + 1);
+    isoCounts.push({ trace: outcome.id, describe: describeTrace(trace), level: trace.iso, perHead });
     if (crossings.length === 0) {
       note('takeoff.iso-no-crossing', 'warn', `Iso-trace ${outcome.id} (${describeTrace(trace)}) crosses no head trace of panel "${trace.panel}"; it adds no points. Extend it across the head curves or trace those curves.`, outcome.id);
       continue;
@@ -170,6 +184,34 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
       add(trace.quantity, c.key, [[flow, toSI(trace.iso, u.value)]], 'iso', outcome.id);
     }
   }
+
+  // No silent misses: every trace held against the others (see traceAudit.ts).
+  const panelOf = (t: Trace) => takeoff.panels.find((p) => p.id === t.panel);
+  const audited: AuditedTrace[] = outcomes.map((o) => {
+    const trace = takeoff.traces[o.index] as Trace;
+    const cal = calibrations.get(trace.panel) as Calibration;
+    const u = traceUnits(takeoff, units, trace);
+    const length = o.points.length >= 2 ? (arcLengths(o.points).at(-1) as number) : 0;
+    return {
+      id: o.id,
+      describe: describeTrace(trace),
+      quantity: trace.quantity,
+      diameter: trace.diameter,
+      iso: trace.iso,
+      how: o.how,
+      flows: o.points.map((p) => toSI(cal.toData(p)[0], u.flow)),
+      values: panelOf(trace)?.x_scale === 'log' || panelOf(trace)?.y_scale === 'log' ? undefined : o.points.map((p) => cal.toData(p)[1]),
+      valueSpan: valueSpan(panelOf(trace)?.anchors ?? []),
+      length,
+      lostLength: lostLength(o.lost ?? [], trace),
+      refusedGuides: (o.lost ?? []).filter((l) => l.between[0] === l.between[1]).length,
+      axisFlow: panelOf(trace)?.x_scale === 'log' ? undefined : axisFlow(panelOf(trace)?.anchors ?? [], u.flow),
+    };
+  });
+  const said = (f: AuditFinding) => note(f.code, f.severity, f.message, f.trace, f.figures);
+  auditTraces(audited, (q) => formatSI(q, units.flow, 3)).forEach(said);
+  const headDiameters = [...new Set(audited.filter((t) => t.quantity === 'head' && t.iso === undefined && t.diameter !== undefined).map((t) => t.diameter as number))];
+  auditIsoCrossings(isoCounts, headDiameters).forEach(said);
 
   if (members.size === 0) throw new TakeoffError('The take-off has no trace with a diameter; give each head, power, NPSHr or efficiency trace its impeller diameter.');
 
@@ -193,13 +235,58 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
       source: { file: options.sheetFile ?? takeoff.sheet, sha256: sheet.sha256, page: takeoff.page },
       ...(options.takeoffName ? { takeoff: options.takeoffName } : {}),
       ...(options.created ? { created: options.created } : {}),
-      notes: [`captured from a ${sheet.kind} sheet: ${outcomes.length} traces on ${takeoff.panels.length} panel${takeoff.panels.length === 1 ? '' : 's'}`],
+      notes: [
+        `captured from a ${sheet.kind} sheet: ${outcomes.length} traces on ${takeoff.panels.length} panel${takeoff.panels.length === 1 ? '' : 's'}`,
+        ...[...calibrations].map(([id, c]) => `panel "${id}": ${c.projection} calibration, residual ${c.maxPercentOfSpan.toFixed(3)} % of span (${c.residualKind})`),
+      ],
     },
     members: [...members.entries()].sort((a, b) => b[0] - a[0]).map(([, m]) => m),
     readingAccuracy,
   });
   const curveSet = CurveSet.parse({ ...built, findings: sortFindings([...built.findings, ...findings]) });
   return { curveSet, traces: outcomes, calibrations };
+}
+
+/**
+ * How far an iso-line's end is extended to meet a head curve, sheet units: 2 % of the panel's
+ * flow span (a tolerance in data units: common practice, about the gap a thick head curve
+ * leaves at an iso-line's end on a printed sheet), measured at the middle of the panel.
+ */
+function isoReach(cal: Calibration, anchors: readonly { x?: number | undefined; y?: number | undefined }[]): number {
+  const xs = anchors.flatMap((a) => (a.x === undefined ? [] : [a.x]));
+  const ys = anchors.flatMap((a) => (a.y === undefined ? [] : [a.y]));
+  if (xs.length < 2 || ys.length < 2 || cal.xScale === 'log') return 0;
+  const x0 = Math.min(...xs);
+  const x1 = Math.max(...xs);
+  const ym = (Math.min(...ys) + Math.max(...ys)) / 2;
+  const a = cal.toSheet([(x0 + x1) / 2, ym]);
+  const b = cal.toSheet([(x0 + x1) / 2 + 0.02 * (x1 - x0), ym]);
+  const reach = Math.hypot(b[0] - a[0], b[1] - a[1]);
+  return Number.isFinite(reach) ? reach : 0;
+}
+
+/** Span of the panel's value axis as its anchors give it (undefined with fewer than two values). */
+function valueSpan(anchors: readonly { y?: number | undefined }[]): number | undefined {
+  const ys = anchors.flatMap((a) => (a.y === undefined ? [] : [a.y]));
+  const span = ys.length >= 2 ? Math.max(...ys) - Math.min(...ys) : 0;
+  return span > 0 ? span : undefined;
+}
+
+/** The flow axis as the panel's anchors span it, m³/s (undefined with fewer than two flow values). */
+function axisFlow(anchors: readonly { x?: number | undefined }[], unit: Unit): [number, number] | undefined {
+  const xs = anchors.flatMap((a) => (a.x === undefined ? [] : [toSI(a.x, unit)]));
+  return xs.length >= 2 ? [Math.min(...xs), Math.max(...xs)] : undefined;
+}
+
+/** Sheet length of the stretches a raster capture did not see: to where it was seen again, or to the next guide. */
+function lostLength(lost: readonly LostStretch[], trace: Trace): number {
+  let total = 0;
+  for (const l of lost) {
+    if (l.between[0] === l.between[1]) continue;
+    const to = l.resumedAt ?? trace.guides?.[l.between[1] - 1];
+    if (to) total += Math.hypot(to[0] - l.at[0], to[1] - l.at[1]);
+  }
+  return total;
 }
 
 /** Inside the frame [left, top, right, bottom], with 1 % of its size to spare for line widths and rounding. */

@@ -54,6 +54,10 @@ export const Panel = z.strictObject({
     .tuple([finite, finite, finite, finite])
     .optional()
     .describe('plot area [left, top, right, bottom] in sheet units'),
+  projection: z
+    .enum(['auto', 'affine', 'projective'])
+    .optional()
+    .describe('calibration map: auto (the default) = projective when 4 or more anchors show the perspective of a photo, else affine; or force one'),
   units: z
     .strictObject({
       x: z.string().optional().describe('flow unit of the x axis; defaults to units.flow'),
@@ -78,7 +82,7 @@ export const Trace = z
     extent: z
       .enum(['guides', 'line'])
       .optional()
-      .describe('guides (the default) = from the first guide to the last (a single guide takes the whole line); line = the whole drawn line the guides sit on (vector capture; a raster capture still runs from the first guide to the last)'),
+      .describe('line = the whole drawn line the guides sit on, to its own ends (the default on a raster); guides = from the first guide to the last (the default on vector paths, where a single guide takes the whole line)'),
     captured: z.array(SheetXY).optional().describe('points the last capture produced, written by --save-points'),
     captured_by: z.enum(['vector', 'raster', 'points']).optional().describe('how the captured points were found'),
   })

@@ -34,6 +34,17 @@ describe('crossing an iso-trace with the head traces of its panel', () => {
     expect(got[0]!.at[0]).toBeCloseTo(250, 0);
   });
 
+  it('extends an iso-line that stops short of a head curve along its own direction to meet it', () => {
+    const y = 100 + 0.0006 * 150 ** 2;
+    const iso = line([[262, y + 80], [256, y + 12]]); // heading up towards the curve, 12 units short
+    expect(isoCrossings(iso, [{ key: 13, points: head13 }])).toEqual([]); // 2-unit touch alone misses it
+    const got = isoCrossings(iso, [{ key: 13, points: head13 }], 2, 20);
+    expect(got).toHaveLength(1);
+    expect(got[0]!.touching).toBe(true);
+    // The extension continues the line's slope (−6 in x per 68 in y): it meets the curve 12 units on, near x = 255.
+    expect(got[0]!.at[0]).toBeCloseTo(255, 0);
+  });
+
   it('finds nothing for an iso-line that misses the traces', () => {
     expect(isoCrossings(line([[50, 50], [60, 60]]), [{ key: 13, points: head13 }])).toEqual([]);
   });

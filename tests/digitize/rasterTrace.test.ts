@@ -58,13 +58,30 @@ describe('raster line following', () => {
     expect(result.points.length).toBeLessThan(80); // thinned with simplify-js, not one point a step
   });
 
-  it('stops at the first and last guides', () => {
+  it('stops at the first and last guides when asked to (extent "guides")', () => {
     const image = picture(640, 360, (ctx) => stroke(ctx, head, 20, 620, '#000000', 3));
-    const result = traceRaster(image, [sheetPoint(100, head(100)), sheetPoint(500, head(500))]);
+    const result = traceRaster(image, [sheetPoint(100, head(100)), sheetPoint(500, head(500))], { extent: 'guides' });
     const first = result.points[0] as SheetPoint;
     const last = result.points[result.points.length - 1] as SheetPoint;
     expect(Math.abs(first[0] - 100)).toBeLessThan(1); // px
     expect(Math.abs(last[0] - 500)).toBeLessThan(1); // px
+  });
+
+  it('runs to the drawn line\'s own ends by default, whatever guides were clicked', () => {
+    const image = picture(640, 360, (ctx) => stroke(ctx, head, 20, 620, '#000000', 3));
+    const result = traceRaster(image, [sheetPoint(100, head(100)), sheetPoint(500, head(500))]);
+    const first = result.points[0] as SheetPoint;
+    const last = result.points[result.points.length - 1] as SheetPoint;
+    expect(Math.abs(first[0] - 20)).toBeLessThan(2); // px: the line's end, within a step of the follower
+    expect(Math.abs(last[0] - 620)).toBeLessThan(2); // px
+    expect(worstOff(result.points, head)).toBeLessThan(0.3); // px
+  });
+
+  it('stops a whole-line trace at the panel frame', () => {
+    const image = picture(640, 360, (ctx) => stroke(ctx, head, 20, 620, '#000000', 3));
+    const result = traceRaster(image, [sheetPoint(100, head(100)), sheetPoint(500, head(500))], { frame: [50, 0, 560, 360] });
+    expect(Math.min(...result.points.map((p) => p[0]))).toBeGreaterThan(47); // px: frame at 50, less half a line width and 1 px
+    expect(Math.max(...result.points.map((p) => p[0]))).toBeLessThan(563); // px
   });
 
   it('carries on through grid lines and a crossing line of the same colour', () => {

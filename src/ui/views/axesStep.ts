@@ -53,9 +53,10 @@ function residualLine(state: CalibrationState | undefined): HTMLElement {
   if (!state) return h('p', { class: 'cal pending' }, 'Calibration: waiting for anchor values.');
   if (!state.ok) return h('p', { class: 'cal bad', role: 'status' }, state.reason);
   const c = state.calibration;
-  const tone = c.maxPercentOfSpan > 0.3 ? 'warn' : 'good';
+  const tone = c.maxPercentOfSpan > 0.3 || c.residualKind === 'none' || c.residualKind === 'estimated' ? 'warn' : 'good';
+  const kind = { fit: 'largest', 'leave-one-out': 'largest, each anchor left out', estimated: 'estimated, cannot be checked', none: 'cannot be checked' }[c.residualKind];
   return h('p', { class: `cal ${tone}`, role: 'status' },
-    `Residual ${num(c.maxPercentOfSpan, 2)} % of span (largest), ${num(c.maxSheet, 2)} sheet units`,
+    `${c.projection === 'projective' ? 'Projective' : 'Affine'} map. Residual ${num(c.maxPercentOfSpan, 2)} % of span (${kind}), ${num(c.maxSheet, 2)} sheet units`,
     c.warnings.length ? h('span', { class: 'cal-warn' }, ` — ${c.warnings[0]}`) : tone === 'good' ? ' — good' : '');
 }
 

@@ -1,0 +1,255 @@
+/**
+ * No silent misses: after capture, each trace is held against the others of its take-off, so
+ * that a line lost in a bunch, a trace that stops far short of its line's end, a diameter
+ * missing a quantity the sheet draws, or an iso-line that meets a head curve more often than
+ * a level can, is said in a finding that names the trace and what to do. A trace that cannot
+ * be trusted gives a `fail`, so `check` and `takeoff` exit 1.
+ *
+ * Pure. Flows arrive in SI (m³/s), so traces of panels with different flow units compare.
+ */
+import type { Quantity, Severity } from '../model/curveset.ts';
+
+export interface AuditedTrace {
+  id: string;
+  /** "efficiency at diameter 370 on panel "eff"", for messages. */
+  describe: string;
+  quantity: Quantity;
+  diameter?: number | undefined;
+  iso?: number | undefined;
+  /** How it was captured; only raster traces (followed lines) are held to coverage. */
+  how: string;
+  /** Flows of the captured points, m³/s, in order along the trace. */
+  flows: readonly number[];
+  /** Length of the trace and of the stretches not seen (bridged or skipped), sheet units. */
+  length: number;
+  lostLength: number;
+  /** Guides that had no line of the traced colour near them. */
+  refusedGuides: number;
+  /** The panel's flow axis as its anchors span it, m³/s. */
+  axisFlow?: readonly [number, number] | undefined;
+  /** Values of the captured points (panel unit) and the span of the panel's value axis, for the smoothness check. */
+  values?: readonly number[] | undefined;
+  valueSpan?: number | undefined;
+}
+
+export interface AuditFinding {
+  code: string;
+  severity: Severity;
+  trace?: string;
+  message: string;
+  figures?: Record<string, number>;
+}
+
+/**
+ * Share of a trace's length that may go unseen before the trace is not trusted (common
+ * practice for reading curves: a tenth of a curve bridged by guesswork can move a fit near
+ * its end by more than the 1 % of span the take-off promises).
+ */
+export const LOST_SHARE_FAIL = 0.1;
+/** A trace ending before this share of the end its neighbours imply is cut short (affinity: Q ∝ D). */
+export const END_SHORT_SHARE = 0.85;
+/** A curve starting later than its neighbours by more than this share of its end flow is cut at its start. */
+export const START_LATE_SHARE = 0.15;
+/**
+ * Least share of its panel's flow axis a pump curve spans (common practice: a sheet's flow axis
+ * is chosen for its curves, and even an NPSHr curve of the smallest impeller spans about half
+ * of it). A followed line spanning less was lost, whatever its neighbours did.
+ */
+export const AXIS_SHARE_MIN = 0.3;
+/**
+ * Largest departure of a followed line from the parabola through its neighbours, % of the
+ * value axis span. Drawn pump curves are smooth: locally a parabola follows them to a few
+ * hundredths of a per cent (common practice); a step onto another line departs by half the
+ * step. The bar sits at the 1 % of span a reading may be off before it is wrong, so that a
+ * change of lines big enough to matter is caught and the scatter of a scan is not.
+ */
+export const SMOOTH_PERCENT = 1;
+
+const range = (t: AuditedTrace): [number, number] => [Math.min(...t.flows), Math.max(...t.flows)];
+
+export function auditTraces(traces: readonly AuditedTrace[], flowText: (q: number) => string): AuditFinding[] {
+  const out: AuditFinding[] = [];
+  const curves = traces.filter((t) => t.iso === undefined && t.diameter !== undefined && t.flows.length >= 2);
+
+  for (const t of curves) {
+    if (t.how !== 'raster') continue;
+    const share = t.length > 0 ? t.lostLength / t.length : 0;
+    if (share > LOST_SHARE_FAIL || t.refusedGuides > 0) {
+      const why = t.refusedGuides > 0 ? `${t.refusedGuides} of its guides found no line of its colour near them` : `${Math.round(100 * share)} % of its length was not seen and was bridged`;
+      out.push({
+        code: 'takeoff.trace-untrusted',
+        severity: 'fail',
+        trace: t.id,
+        message: `Trace ${t.id} (${t.describe}) cannot be trusted: ${why}. Add a guide where this line stands alone on each side of the stretch, or give its points.`,
+        figures: { lost_share: share, refused_guides: t.refusedGuides },
+      });
+      continue;
+    }
+    const rough = roughness(t);
+    if (rough !== undefined && rough.percent > SMOOTH_PERCENT) {
+      out.push({
+        code: 'takeoff.trace-jump',
+        severity: 'fail',
+        trace: t.id,
+        message: `Trace ${t.id} (${t.describe}) leaves a smooth curve by ${rough.percent.toFixed(1)} % of the axis span near ${flowText(rough.at)}; it probably changed to another line where lines cross or run together. Add a guide on this line on each side of that place, where it stands alone.`,
+        figures: { percent_of_span: rough.percent, at_flow: rough.at },
+      });
+      continue;
+    }
+    // Coverage against the traces of the same quantity (scaled by diameter, Q ∝ D) and the
+    // traces of the same diameter: a followed line that stops early was lost or cut at a label.
+    const [q0, q1] = range(t);
+    const d = t.diameter as number;
+    const same = curves.filter((o) => o !== t && o.quantity === t.quantity);
+    const mine = curves.filter((o) => o !== t && o.diameter === d && o.quantity !== 'npshr');
+    // The farthest neighbour sets the bar: when several lines were lost alike, a median would
+    // excuse them all, and a flag too many costs a look, a miss costs a wrong number.
+    const ends = [...same.map((o) => (range(o)[1] * d) / (o.diameter as number)), ...(t.quantity !== 'npshr' ? mine.map((o) => range(o)[1]) : [])];
+    const expectedEnd = ends.length > 0 ? Math.max(...ends) : q1;
+    const starts = same.map((o) => range(o)[0] / range(o)[1]);
+    const expectedStart = starts.length > 0 ? Math.min(...starts) : q0 / q1;
+    const short = q1 < END_SHORT_SHARE * expectedEnd;
+    const late = q0 / q1 > expectedStart + START_LATE_SHARE;
+    const axis = t.axisFlow ? Math.abs(t.axisFlow[1] - t.axisFlow[0]) : 0;
+    if (axis > 0 && q1 - q0 < AXIS_SHARE_MIN * axis) {
+      out.push({
+        code: 'takeoff.trace-short',
+        severity: 'fail',
+        trace: t.id,
+        message: `Trace ${t.id} (${t.describe}) covers flows ${flowText(q0)} to ${flowText(q1)}, only ${Math.round((100 * (q1 - q0)) / axis)} % of its panel's flow axis; the line was probably lost where it runs together with others, at a label or in a gap. Add a guide near each end of this line where it stands alone, or give its points.`,
+        figures: { flow_from: q0, flow_to: q1, axis_share: (q1 - q0) / axis },
+      });
+      continue;
+    }
+    if (short || late) {
+      const where = short && late ? 'at both ends' : short ? 'at its high-flow end' : 'at its low-flow end';
+      out.push({
+        code: 'takeoff.trace-short',
+        severity: 'fail',
+        trace: t.id,
+        message: `Trace ${t.id} (${t.describe}) covers flows ${flowText(q0)} to ${flowText(q1)}, short of its line ${where} (its neighbours suggest ${flowText(expectedStart * expectedEnd)} to ${flowText(expectedEnd)}); the line was probably lost where it runs together with others or at a label. Add a guide near each end of this line where it stands alone, or give its points.`,
+        figures: { flow_from: q0, flow_to: q1, expected_to: expectedEnd },
+      });
+    }
+  }
+
+  // A diameter with a head trace but without a quantity that other diameters have.
+  const heads = new Set(curves.filter((t) => t.quantity === 'head').map((t) => t.diameter as number));
+  for (const quantity of ['efficiency', 'power', 'npshr'] as const) {
+    const having = new Set(curves.filter((t) => t.quantity === quantity).map((t) => t.diameter as number));
+    const isoGiven = quantity === 'efficiency' && traces.some((t) => t.iso !== undefined && t.quantity === 'efficiency');
+    // Many sheets draw one NPSHr curve for the whole family: a single NPSHr trace is no sign of a miss.
+    if (having.size === 0 || isoGiven || (quantity === 'npshr' && having.size === 1)) continue;
+    for (const d of heads) {
+      if (having.has(d)) continue;
+      out.push({
+        code: 'takeoff.quantity-missing',
+        severity: 'warn',
+        message: `Diameter ${d} has a head trace but no ${quantity} trace, while diameter${having.size === 1 ? '' : 's'} ${[...having].join(', ')} ha${having.size === 1 ? 's' : 've'} one; trace its ${quantity} line if the sheet draws it.`,
+      });
+    }
+  }
+  return out;
+}
+
+/**
+ * Largest departure of each point from the parabola fitted to its neighbours within ±6 % of
+ * the trace's flow range, % of the value span, and where. Local, so that the shape of a sound
+ * curve (steep near its end) does not count; a step onto another line does.
+ */
+function roughness(t: AuditedTrace): { percent: number; at: number } | undefined {
+  if (!t.values || !t.valueSpan || t.values.length !== t.flows.length || t.flows.length < 12) return undefined;
+  const order = t.flows.map((_, i) => i).sort((i, j) => (t.flows[i] as number) - (t.flows[j] as number));
+  const qs = order.map((i) => t.flows[i] as number);
+  const vs = order.map((i) => (t.values as readonly number[])[i] as number);
+  const half = 0.06 * ((qs[qs.length - 1] as number) - (qs[0] as number));
+  if (!(half > 0)) return undefined;
+  let worst = 0;
+  let at = qs[0] as number;
+  let lo = 0;
+  let hi = 0;
+  for (let i = 0; i < qs.length; i++) {
+    const q = qs[i] as number;
+    while ((qs[lo] as number) < q - half) lo++;
+    while (hi + 1 < qs.length && (qs[hi + 1] as number) <= q + half) hi++;
+    // Least-squares parabola through the neighbours (x centred on the point, scaled by the
+    // window), by its 3 × 3 normal equations; its value at the point is the constant term.
+    let n = 0;
+    let left = 0;
+    let right = 0;
+    const m = [0, 0, 0, 0, 0, 0, 0, 0];
+    for (let k = lo; k <= hi; k++) {
+      if (k === i) continue;
+      const x = ((qs[k] as number) - q) / half;
+      if (x < 0) left++;
+      else if (x > 0) right++;
+      const y = vs[k] as number;
+      n++;
+      m[1]! += x;
+      m[2]! += x * x;
+      m[3]! += x * x * x;
+      m[4]! += x * x * x * x;
+      m[5]! += y;
+      m[6]! += x * y;
+      m[7]! += x * x * y;
+    }
+    // Judged only with neighbours on both sides: at a trace's ends a one-sided parabola extrapolates noise.
+    if (n < 6 || left < 3 || right < 3) continue;
+    const [, s1, s2, s3, s4, y0, y1, y2] = m as [number, number, number, number, number, number, number, number];
+    const det = n * (s2 * s4 - s3 * s3) - s1 * (s1 * s4 - s3 * s2) + s2 * (s1 * s3 - s2 * s2);
+    if (!(Math.abs(det) > 1e-12)) continue;
+    const a = (y0 * (s2 * s4 - s3 * s3) - s1 * (y1 * s4 - s3 * y2) + s2 * (y1 * s3 - s2 * y2)) / det;
+    const d = Math.abs((vs[i] as number) - a);
+    if (d > worst) {
+      worst = d;
+      at = q;
+    }
+  }
+  return { percent: (100 * worst) / t.valueSpan, at };
+}
+
+export interface IsoCount {
+  trace: string;
+  describe: string;
+  level: number;
+  perHead: ReadonlyMap<number, number>;
+}
+
+/**
+ * Crossings of iso-lines with head curves: at most two per level and head curve (an iso-line
+ * of efficiency is a closed or U-shaped contour). More means the trace followed another
+ * line; a head curve that no iso level reaches gets no efficiency from them.
+ */
+export function auditIsoCrossings(counts: readonly IsoCount[], headDiameters: readonly number[]): AuditFinding[] {
+  const out: AuditFinding[] = [];
+  const byLevel = new Map<number, Map<number, number>>();
+  for (const c of counts) {
+    const level = byLevel.get(c.level) ?? new Map<number, number>();
+    for (const [d, n] of c.perHead) level.set(d, (level.get(d) ?? 0) + n);
+    byLevel.set(c.level, level);
+  }
+  for (const [level, perHead] of byLevel) {
+    for (const [d, n] of perHead) {
+      if (n <= 2) continue;
+      const traces = counts.filter((c) => c.level === level).map((c) => c.trace);
+      out.push({
+        code: 'takeoff.iso-crossings',
+        severity: 'fail',
+        ...(traces.length === 1 ? { trace: traces[0] as string } : {}),
+        message: `The iso-line${traces.length === 1 ? '' : 's'} ${traces.join(', ')} of level ${level} meet${traces.length === 1 ? 's' : ''} the head trace of diameter ${d} ${n} times, where one level can meet a head curve at most twice; the trace probably followed another line. Place its guides where the iso-line stands alone, between the head curves, rather than on the crossings.`,
+        figures: { crossings: n },
+      });
+    }
+  }
+  if (counts.length > 0) {
+    for (const d of headDiameters) {
+      if ([...byLevel.values()].some((m) => (m.get(d) ?? 0) > 0)) continue;
+      out.push({
+        code: 'takeoff.iso-none-for-diameter',
+        severity: 'warn',
+        message: `No iso-line meets the head trace of diameter ${d}, so it gets no efficiency from them; extend the iso traces to that head curve or trace its efficiency.`,
+      });
+    }
+  }
+  return out;
+}

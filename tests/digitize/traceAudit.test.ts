@@ -1,0 +1,87 @@
+/** No silent misses: the audit of captured traces against each other (src/digitize/traceAudit.ts). */
+import { describe, expect, it } from 'vitest';
+import { auditIsoCrossings, auditTraces, type AuditedTrace } from '../../src/digitize/traceAudit.ts';
+
+const flows = (a: number, b: number) => Array.from({ length: 20 }, (_, i) => a + ((b - a) * i) / 19);
+const trace = (id: string, quantity: AuditedTrace['quantity'], diameter: number, from: number, to: number, extra: Partial<AuditedTrace> = {}): AuditedTrace => ({
+  id,
+  describe: `${quantity} at diameter ${diameter}`,
+  quantity,
+  diameter,
+  how: 'raster',
+  flows: flows(from, to),
+  length: 500,
+  lostLength: 0,
+  refusedGuides: 0,
+  ...extra,
+});
+const text = (q: number) => `${q.toFixed(3)} m³/s`;
+
+describe('trace audit', () => {
+  const family = [trace('h370', 'head', 370, 0, 0.1), trace('h330', 'head', 330, 0, 0.089), trace('e370', 'efficiency', 370, 0, 0.1), trace('e330', 'efficiency', 330, 0, 0.089)];
+
+  it('says nothing about a family whose traces run to their ends', () => {
+    expect(auditTraces(family, text)).toEqual([]);
+  });
+
+  it('fails a trace that stops far short of where its neighbours end, naming it and what to do', () => {
+    const found = auditTraces([...family.slice(0, 3), trace('e330', 'efficiency', 330, 0, 0.04)], text);
+    expect(found).toHaveLength(1);
+    expect(found[0]?.severity).toBe('fail');
+    expect(found[0]?.trace).toBe('e330');
+    expect(found[0]?.message).toMatch(/Add a guide near each end of this line where it stands alone/);
+  });
+
+  it('fails a trace that starts late, and one whose length was mostly bridged or whose guides found no line', () => {
+    const late = auditTraces([...family.slice(0, 3), trace('e330', 'efficiency', 330, 0.03, 0.089)], text);
+    expect(late.map((f) => [f.code, f.trace])).toEqual([['takeoff.trace-short', 'e330']]);
+    const lost = auditTraces([...family.slice(0, 3), trace('e330', 'efficiency', 330, 0, 0.089, { lostLength: 80 })], text);
+    expect(lost.map((f) => [f.code, f.severity])).toEqual([['takeoff.trace-untrusted', 'fail']]);
+    const refused = auditTraces([...family.slice(0, 3), trace('e330', 'efficiency', 330, 0, 0.089, { refusedGuides: 1 })], text);
+    expect(refused.map((f) => f.code)).toEqual(['takeoff.trace-untrusted']);
+  });
+
+  it('fails a trace spanning less than 30 % of its panel\'s flow axis, even when its neighbours were lost alike', () => {
+    const axis = { axisFlow: [0, 0.12] as const };
+    const found = auditTraces([trace('h370', 'head', 370, 0.02, 0.045, axis), trace('h330', 'head', 330, 0.02, 0.04, axis)], text);
+    expect(found.map((f) => [f.code, f.trace])).toEqual([
+      ['takeoff.trace-short', 'h370'],
+      ['takeoff.trace-short', 'h330'],
+    ]);
+    expect(found[0]?.message).toMatch(/only 21 % of its panel's flow axis/);
+  });
+
+  it('fails a trace that steps onto another line (not smooth) and passes a smooth one', () => {
+    const q = Array.from({ length: 120 }, (_, i) => (0.1 * i) / 119);
+    const smooth = q.map((x) => 80 - 2000 * x * x);
+    const stepped = smooth.map((v, i) => (i >= 60 ? v - 3 : v)); // 3 units of a 0–100 axis: a neighbouring line
+    const ok = auditTraces([trace('h370', 'head', 370, 0, 0.1, { flows: q, values: smooth, valueSpan: 100 })], text);
+    expect(ok).toEqual([]);
+    const found = auditTraces([trace('h370', 'head', 370, 0, 0.1, { flows: q, values: stepped, valueSpan: 100 })], text);
+    expect(found.map((f) => [f.code, f.severity, f.trace])).toEqual([['takeoff.trace-jump', 'fail', 'h370']]);
+  });
+
+  it('leaves vector traces and explicit points alone', () => {
+    expect(auditTraces([...family.slice(0, 3), trace('e330', 'efficiency', 330, 0, 0.04, { how: 'vector' })], text)).toEqual([]);
+  });
+
+  it('warns of a diameter with a head trace but no trace of a quantity the others have', () => {
+    const found = auditTraces(family.slice(0, 3), text);
+    expect(found.map((f) => [f.code, f.severity])).toEqual([['takeoff.quantity-missing', 'warn']]);
+    expect(found[0]?.message).toMatch(/Diameter 330 has a head trace but no efficiency trace/);
+  });
+
+  it('fails an iso level that meets one head curve more than twice, and warns of a head curve no level meets', () => {
+    const found = auditIsoCrossings(
+      [
+        { trace: 'iso70', describe: '', level: 70, perHead: new Map([[370, 5], [330, 2]]) },
+        { trace: 'iso60', describe: '', level: 60, perHead: new Map([[370, 2], [330, 1]]) },
+      ],
+      [370, 330, 290],
+    );
+    expect(found.map((f) => [f.code, f.severity, f.trace])).toEqual([
+      ['takeoff.iso-crossings', 'fail', 'iso70'],
+      ['takeoff.iso-none-for-diameter', 'warn', undefined],
+    ]);
+  });
+});
