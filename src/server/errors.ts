@@ -11,6 +11,10 @@ const STATUS: Record<LibraryErrorReason, number> = {
   conflict: 409,
   'too-large': 413,
   'unusable-file': 500,
+  'precondition-required': 428,
+  'precondition-failed': 412,
+  'read-only': 503,
+  'storage-full': 507,
 };
 
 export interface ErrorReply {
@@ -52,5 +56,6 @@ function oneLine(text: string): string {
 export function errorHandler(error: unknown, request: FastifyRequest, reply: FastifyReply): void {
   const { status, message } = statusAndMessage(error);
   if (status >= 500) request.log.error({ err: error }, 'internal error');
-  void reply.code(status).type('application/json; charset=utf-8').send({ error: message } satisfies ErrorReply);
+  const code = error instanceof LibraryError ? error.code : status >= 500 ? 'internal' : 'invalid-input';
+  void reply.code(status).type('application/json; charset=utf-8').send({ error: message, code });
 }
