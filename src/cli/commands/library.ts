@@ -337,15 +337,24 @@ export function register(program: Command): void {
           if (!existsSync(dirname(target))) throw new LibraryError(`Cannot write "${o.output}": the folder does not exist.`, 'invalid');
           const tmp = join(dirname(target), `.${basename(target)}.${process.pid}.tmp`);
           const stream = createWriteStream(tmp);
+          let streamError: unknown = null;
+          stream.on('error', (error) => {
+            streamError = error;
+          });
           try {
             for (const line of exportLines(store, options)) {
+              if (streamError) throw streamError;
               if (!stream.write(`${line}\n`)) await once(stream, 'drain');
             }
             stream.end();
             await once(stream, 'finish');
+            if (streamError) throw streamError;
             renameSync(tmp, target);
           } catch (error) {
-            stream.destroy();
+            if (!stream.destroyed) {
+              stream.destroy();
+              await once(stream, 'close').catch(() => undefined);
+            }
             if (existsSync(tmp)) unlinkSync(tmp);
             throw storageFault(error, target) ?? error;
           }
