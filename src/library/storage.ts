@@ -4,7 +4,26 @@
  * with a sentence saying what is wrong and what to do, and a stable code (`storage-read-only`,
  * `storage-full`, `storage-fault`). Nothing else is caught here.
  */
+import { statfsSync } from 'node:fs';
+import { dirname } from 'node:path';
 import { LibraryError } from './errors.ts';
+
+/** Below this much free space, an I/O error on the library is taken for a full disk. */
+const NEARLY_FULL_BYTES = 256 * 1024;
+
+/** True when the file system holding `file` has (almost) no space left for this user. */
+export function diskFull(file: string): boolean {
+  try {
+    const s = statfsSync(dirname(file));
+    return s.bavail * s.bsize < NEARLY_FULL_BYTES;
+  } catch {
+    return false;
+  }
+}
+
+export function fullDiskError(file: string): LibraryError {
+  return new LibraryError(`The disk holding the library file "${file}" is full, so nothing was changed; free some space and try again.`, 'storage-full');
+}
 
 function codeOf(error: unknown): string {
   return typeof (error as { code?: unknown })?.code === 'string' ? (error as { code: string }).code : '';
@@ -20,10 +39,11 @@ export function storageFault(error: unknown, file: string): LibraryError | null 
       'read-only',
     );
   }
-  if (code === 'SQLITE_FULL' || code === 'ENOSPC' || code === 'EDQUOT') {
-    return new LibraryError(`The disk holding the library file "${file}" is full, so nothing was changed; free some space and try again.`, 'storage-full');
-  }
-  if (code.startsWith('SQLITE_IOERR') || code === 'EIO') {
+  if (code === 'SQLITE_FULL' || code === 'ENOSPC' || code === 'EDQUOT') return fullDiskError(file);
+  if (code.startsWith('SQLITE_IOERR') || code === 'EIO' || code === 'SQLITE_CANTOPEN') {
+    // SQLite reports a full disk while growing its shared-memory or log file as an I/O error.
+    if (diskFull(file)) return fullDiskError(file);
+    if (code === 'SQLITE_CANTOPEN') return null;
     return new LibraryError(`The disk reported an input/output error on the library file "${file}", so nothing was changed; check the disk, then run "library verify".`, 'storage-full', 'storage-fault');
   }
   return null;

@@ -23,7 +23,7 @@ import { checkLibraryFile, migrate, SCHEMA_VERSION } from './schema.ts';
 import { SheetStore } from './sheets.ts';
 import { searchCopy } from './summary.ts';
 import { prepareStatements, summaryRow, type RevisionFacts } from './storeSql.ts';
-import { storageFault } from './storage.ts';
+import { fullDiskError, storageFault } from './storage.ts';
 import { checkRevision } from './validate.ts';
 import { backfillV2 } from './backfill.ts';
 import { verifyLibrary, type VerifyReport } from './verify.ts';
@@ -41,6 +41,11 @@ export interface OpenOptions {
   busyTimeoutMs?: number;
   /** Open for reading only, even when the file could be written. */
   readonly?: boolean;
+}
+
+interface InternalOptions extends OpenOptions {
+  /** The disk is full: open for reading, and refuse writes by saying so. */
+  diskFull?: boolean;
 }
 
 /** Largest read-only library loaded into memory when its folder cannot hold SQLite's shared-memory file. */
@@ -83,7 +88,10 @@ export class LibraryStore implements LibraryBackend {
   /** Set while an import holds the file's write lock on its own connection. */
   importing = false;
 
-  private constructor(file: string, options: OpenOptions) {
+  /** True when opened read-only because the disk is full. */
+  readonly diskFull: boolean;
+
+  private constructor(file: string, options: InternalOptions) {
     this.file = file;
     this.now = options.now ?? (() => new Date().toISOString());
     const memory = file === ':memory:';
@@ -94,12 +102,14 @@ export class LibraryStore implements LibraryBackend {
       if (this.isNew && !writable(folder)) {
         throw new LibraryError(`The library folder "${folder}" is read-only, so the library file "${file}" cannot be created there; choose a writable folder.`, 'read-only');
       }
-      if (options.readonly) reason = 'it was opened for reading only';
+      if (options.diskFull) reason = 'the disk holding it is full';
+      else if (options.readonly) reason = 'it was opened for reading only';
       else if (!this.isNew && !writable(file)) reason = `the library file "${file}" is read-only`;
       else if (!this.isNew && !writable(folder)) reason = `the library folder "${folder}" is read-only`;
     }
     this.readonly = reason !== null;
     this.readonlyReason = reason;
+    this.diskFull = options.diskFull === true;
     const strays = memory ? [] : [`${file}-wal`, `${file}-shm`].filter((f) => !existsSync(f));
     let db: Database.Database | null = null;
     try {
@@ -138,7 +148,15 @@ export class LibraryStore implements LibraryBackend {
 
   /** Opens (creating if needed) the library in `file`. Throws LibraryError for a file that is not a library. */
   static open(file: string, options: OpenOptions = {}): LibraryStore {
-    return new LibraryStore(file, options);
+    try {
+      return new LibraryStore(file, options);
+    } catch (error) {
+      // A library on a full disk can still be read: open it read-only, and let every write say why.
+      if (error instanceof LibraryError && error.code === 'storage-full' && !options.readonly && file !== ':memory:' && existsSync(file)) {
+        return new LibraryStore(file, { ...options, diskFull: true });
+      }
+      throw error;
+    }
   }
 
   close(): void {
@@ -147,6 +165,7 @@ export class LibraryStore implements LibraryBackend {
 
   /** Refuses a write on a read-only library, or while an import holds the write lock. */
   beforeWrite(): void {
+    if (this.diskFull) throw fullDiskError(this.file);
     if (this.readonly) {
       throw new LibraryError(`The library is read-only because ${this.readonlyReason}, so nothing was changed; it can still be listed and searched. Make it writable to save to it.`, 'read-only');
     }
@@ -433,7 +452,8 @@ function openReadonly(file: string): Database.Database {
     return db;
   } catch (error) {
     const code = (error as { code?: string }).code ?? '';
-    if (!code.startsWith('SQLITE_READONLY') && code !== 'SQLITE_CANTOPEN') throw error;
+    // Read-only media and folders refuse the shared-memory file; a full disk has no room for it.
+    if (!code.startsWith('SQLITE_READONLY') && code !== 'SQLITE_CANTOPEN' && !code.startsWith('SQLITE_IOERR') && code !== 'SQLITE_FULL') throw error;
   }
   const wal = `${file}-wal`;
   if (existsSync(wal) && statSync(wal).size > 0) {
