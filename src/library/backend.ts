@@ -25,6 +25,19 @@ export interface DutyIndexRow {
   id: string;
   revision: number;
   bound: number;
+  /** What a search result shows, read with the row so that no second query is needed. */
+  names: EntryNames;
+}
+
+export interface EntryNames {
+  id: string;
+  name: string;
+  maker: string | null;
+  model: string | null;
+  rated_speed_rpm: number;
+  fail_count: number;
+  fail_codes: string[];
+  display_units: Record<string, string>;
 }
 
 export interface LibraryBackend {
@@ -42,7 +55,7 @@ export interface LibraryBackend {
   searchSet(id: string, revision: number): CurveSet;
   dutyBand(flowM3s: number, headM: number, lo: number, hi: number, failing: boolean): DutyIndexRow[];
   dutyCount(flowM3s: number, headM: number): number;
-  names(id: string): { id: string; name: string; maker: string | null; model: string | null; rated_speed_rpm: number; fail_count: number; fail_codes: string[]; display_units: Record<string, string> };
+  names(id: string): EntryNames;
   counts(): { entries: number; archived: number; revisions: number; sheets: number };
   close(): void;
 }

@@ -8,9 +8,10 @@
  * to the highest point of the largest diameter's head curve (0 when the smallest curve does not
  * cover the slice). These are exactly the duty screen's reject tests (dutyBounds.ts), so a duty
  * outside every box is one the screen would reject. The efficiency bound of a slice is the highest
- * efficiency any member reaches on [a/s, b·s], s = largest/smallest diameter: a trim between two
+ * efficiency any member reaches on [a/s, b·s]: a trim between two
  * diameters blends their efficiencies at flows scaled by at most s (fit/affinity.ts), so no trim
- * meeting a duty in the slice can be more efficient. A speed family gets one box over its head
+ * meeting a duty in the slice can be more efficient (s: the largest ratio of neighbouring diameters,
+ * since a trim lies between the two captured diameters that bracket it). A speed family gets one box over its head
  * envelope, its efficiency bound taken over flows widened by the ±20 % speed band.
  * A set without an efficiency curve gets the bound NO_EFFICIENCY, below every real efficiency.
  * Pure: a function of the curve set alone. SI: m³/s, m, efficiency as a fraction.
@@ -22,7 +23,7 @@ import type { CurveSetSummary } from './summary.ts';
 /** [flow_min, flow_max, head_min, head_max, efficiency_bound] */
 export type DutySlice = [number, number, number, number, number];
 
-export const SLICES = 6;
+export const SLICES = 12;
 /** Efficiency bound of a set that has no efficiency curve (ranks after every set that has one). */
 export const NO_EFFICIENCY = -1;
 /** Relative widening of each box, so round-off never drops a pump that meets the duty exactly. */
@@ -67,7 +68,10 @@ export function dutySlices(set: CurveSet, summary: CurveSetSummary): DutySlice[]
   const small = sized[sized.length - 1] as Sized;
   const fullHead = full.curves.head!.fit!;
   const smallHead = small.curves.head!.fit!;
-  const spread = full.diameter_m / small.diameter_m;
+  // A trim blends the two captured diameters that bracket it, so flows scale by at most the largest
+  // ratio of neighbouring diameters (the duty screen's pair).
+  let spread = 1;
+  for (let i = 0; i + 1 < sized.length; i++) spread = Math.max(spread, (sized[i] as Sized).diameter_m / (sized[i + 1] as Sized).diameter_m);
   const [lo, hi] = fullHead.domain;
   if (!(hi > lo)) return envelope();
   const out: DutySlice[] = [];

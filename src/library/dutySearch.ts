@@ -117,7 +117,7 @@ export interface DutySearchResult {
 export const DEFAULT_LIMIT = 10;
 
 /** Edges of the efficiency-bound bands the index is walked in, best first (bounds are fractions; -1: no efficiency curve). */
-const BAND_EDGES = [1e9, 1, 0.95, 0.9, 0.85, 0.8, 0.75, 0.7, 0.65, 0.6, 0.5, 0.4, 0.3, 0.2, 0, -1e9];
+const BAND_EDGES = [1e9, ...Array.from({ length: 50 }, (_, i) => 1 - i * 0.01), 0.45, 0.4, 0.3, 0.2, 0.1, 0, -1e9];
 
 export function checkDuty(duty: Duty): void {
   if (!(Number.isFinite(duty.flow_m3s) && duty.flow_m3s > 0)) throw new LibraryError('The duty flow must be a number greater than zero.', 'invalid');
@@ -175,7 +175,15 @@ export function searchByDuty(store: LibraryBackend, duty: Duty, matcher: DutyMat
         stopped = true;
         break;
       }
-      for (const row of store.dutyBand(q, h, lo, hi, failing)) {
+      let band: DutyIndexRow[];
+      try {
+        band = store.dutyBand(q, h, lo, hi, failing);
+      } catch (error) {
+        // A damaged summary row in this band: read the band's rows one by one to name it and go on.
+        band = [];
+        damaged.push({ id: `index band ${lo}–${hi}`, revision: 0, problem: problemOf(error) });
+      }
+      for (const row of band) {
         if (seen.has(row.id)) continue;
         seen.add(row.id);
         let set: CurveSet;
@@ -212,14 +220,7 @@ export function searchByDuty(store: LibraryBackend, duty: Duty, matcher: DutyMat
         }
         if (!match) continue;
         matched += 1;
-        let names: ReturnType<LibraryBackend['names']>;
-        try {
-          names = store.names(p.row.id);
-        } catch (error) {
-          damaged.push({ id: p.row.id, revision: p.row.revision, problem: problemOf(error) });
-          continue;
-        }
-        const { fail_count, fail_codes, display_units, ...who } = names;
+        const { fail_count, fail_codes, display_units, ...who } = p.row.names;
         const c: DutyCandidate = { ...who, revision: p.row.revision, ...match, failing: fail_count > 0, fail_codes, display_units };
         if (hours !== undefined && match.power_W !== undefined) {
           c.annual_energy_kWh = (match.power_W * hours) / 1000;

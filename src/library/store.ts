@@ -28,7 +28,7 @@ import { checkRevision } from './validate.ts';
 import { backfillV2 } from './backfill.ts';
 import { verifyLibrary, type VerifyReport } from './verify.ts';
 import { entryInfoOf, type EntryInfo, type EntryRow, type RevisionInfo, type SavedRevision, type StoredRevision } from './types.ts';
-import type { DutyIndexRow, LibraryBackend, ListOptions, WriteOptions } from './backend.ts';
+import type { DutyIndexRow, EntryNames, LibraryBackend, ListOptions, WriteOptions } from './backend.ts';
 
 export type { ListOptions, WriteOptions } from './backend.ts';
 
@@ -310,13 +310,14 @@ export class LibraryStore implements LibraryBackend {
    * sound (`failing` false) or failing ones; each entry once, with its highest bound.
    */
   dutyBand(flowM3s: number, headM: number, lo: number, hi: number, failing: boolean): DutyIndexRow[] {
-    const rows = this.stmts.dutyBand.all({ q: flowM3s, h: headM, lo, hi, failing: failing ? 1 : 0 }) as DutyIndexRow[];
-    const best = new Map<string, DutyIndexRow>();
+    type Raw = { id: string; revision: number; bound: number; name: string; maker: string | null; model: string | null; rated_speed_rpm: number; fail_count: number; fail_codes: string; display_units_json: string };
+    const rows = this.stmts.dutyBand.all({ q: flowM3s, h: headM, lo, hi, failing: failing ? 1 : 0 }) as Raw[];
+    const best = new Map<string, Raw>();
     for (const r of rows) {
       const seen = best.get(r.id);
       if (!seen || r.bound > seen.bound) best.set(r.id, r);
     }
-    return [...best.values()];
+    return [...best.values()].map((r) => ({ id: r.id, revision: r.revision, bound: r.bound, names: namesOf(r) }));
   }
 
   /** How many active entries have an index box holding (flow, head). */
@@ -325,13 +326,12 @@ export class LibraryStore implements LibraryBackend {
   }
 
   /** The names and marks a search result shows for an entry. */
-  names(id: string): { id: string; name: string; maker: string | null; model: string | null; rated_speed_rpm: number; fail_count: number; fail_codes: string[]; display_units: Record<string, string> } {
+  names(id: string): EntryNames {
     const row = this.stmts.names.get(id) as
       | { id: string; name: string; maker: string | null; model: string | null; rated_speed_rpm: number; fail_count: number; fail_codes: string; display_units_json: string }
       | undefined;
     if (!row) throw new LibraryError(`No library entry has the id ${id}.`, 'not-found');
-    const { fail_codes, display_units_json, ...rest } = row;
-    return { ...rest, fail_codes: JSON.parse(fail_codes) as string[], display_units: JSON.parse(display_units_json) as Record<string, string> };
+    return namesOf(row);
   }
 
   /** Reads every row and names each damaged one (verify.ts). */
@@ -412,6 +412,28 @@ export class LibraryStore implements LibraryBackend {
       this.stmts.event.run(id, at, archived ? 'archived' : 'restored', row.latest_revision);
       return entryInfoOf(this.entryRow(id));
     });
+  }
+}
+
+/** The names and marks of an entry row; an unreadable JSON column reads as empty (verify names the row). */
+function namesOf(r: { id: string; name: string; maker: string | null; model: string | null; rated_speed_rpm: number; fail_count: number; fail_codes: string; display_units_json: string }): EntryNames {
+  return {
+    id: r.id,
+    name: r.name,
+    maker: r.maker,
+    model: r.model,
+    rated_speed_rpm: r.rated_speed_rpm,
+    fail_count: r.fail_count,
+    fail_codes: parseOr<string[]>(r.fail_codes, []),
+    display_units: parseOr<Record<string, string>>(r.display_units_json, {}),
+  };
+}
+
+function parseOr<T>(text: string, fallback: T): T {
+  try {
+    return JSON.parse(text) as T;
+  } catch {
+    return fallback;
   }
 }
 

@@ -74,10 +74,10 @@ describe('duty index', () => {
     expect(read / duties.length).toBeLessThan(found / duties.length);
   });
 
-  it('keeps six slices per diameter family, each holding the region between the smallest and largest head curves', () => {
+  it('keeps twelve slices per diameter family, each holding the region between the smallest and largest head curves', () => {
     const set = sets[0]!.set;
     const slices = dutySlices(set, summarize(set));
-    expect(slices).toHaveLength(6);
+    expect(slices).toHaveLength(12);
     for (const [qa, qb, ha, hb, eta] of slices) {
       expect(qa).toBeLessThan(qb);
       expect(ha).toBeLessThan(hb);
