@@ -11,9 +11,18 @@ import { summarizeFindings } from './soundness.ts';
 import { summaryRow } from './storeSql.ts';
 
 export function backfillV2(db: Database.Database): void {
-  const revisions = db.prepare('SELECT entry_id, revision, sha256, body FROM revisions ORDER BY entry_id, revision').iterate() as Iterable<{
-    entry_id: string; revision: number; sha256: string; body: string;
-  }>;
+  // In chunks by rowid: one connection cannot write while a read is still stepping, and memory stays small.
+  const chunk = db.prepare('SELECT rowid, entry_id, revision, sha256, body FROM revisions WHERE rowid > ? ORDER BY rowid LIMIT 200');
+  function* revisionsInChunks(): Generator<{ entry_id: string; revision: number; sha256: string; body: string }> {
+    let after = 0;
+    for (;;) {
+      const rows = chunk.all(after) as Array<{ rowid: number; entry_id: string; revision: number; sha256: string; body: string }>;
+      if (rows.length === 0) return;
+      yield* rows;
+      after = (rows[rows.length - 1] as { rowid: number }).rowid;
+    }
+  }
+  const revisions = revisionsInChunks();
   const latest = db.prepare('SELECT latest_revision, updated_at FROM entries WHERE id = ?');
   const putSummary = db.prepare(`INSERT INTO revision_summaries (entry_id, revision, fail_count, warn_count, fail_codes, accepted_failing) VALUES (?, ?, ?, ?, ?, ?)`);
   const updates: Array<ReturnType<typeof summaryRow>> = [];
