@@ -95,7 +95,11 @@ export interface DamagedRow {
 export interface DutySearchResult {
   duty: Duty;
   ranking: 'efficiency' | 'annual-cost';
-  /** Active entries whose duty-index boxes hold the duty. */
+  /**
+   * Active entries whose duty-index boxes hold the duty and that the search read: all of them when
+   * `complete`; otherwise only those that could still enter the ranking (no count of the rest is
+   * taken, since counting every box at 100,000 entries costs more than the search itself).
+   */
   examined: number;
   /** Of the entries read, those whose captured diameters reach the duty. */
   reachable: number;
@@ -144,7 +148,6 @@ export function searchByDuty(store: LibraryBackend, duty: Duty, matcher: DutyMat
   const h = duty.head_m;
   const compare = byCost ? compareCost : compareEfficiency;
 
-  const examined = store.dutyCount(q, h);
   const seen = new Set<string>();
   const damaged: DamagedRow[] = [];
   const failed: string[] = [];
@@ -153,6 +156,8 @@ export function searchByDuty(store: LibraryBackend, duty: Duty, matcher: DutyMat
   let evaluated = 0;
   let matched = 0;
   let unevaluated = 0;
+  // True when the walk stopped before reading every entry whose boxes hold the duty.
+  let cut = false;
   // The cost ranking has no bound in the index (power depends on the duty): it reads every box holding the duty.
   const edges = byCost ? [1e9, -1e9] : BAND_EDGES;
 
@@ -168,7 +173,11 @@ export function searchByDuty(store: LibraryBackend, duty: Duty, matcher: DutyMat
       const last = tier[room - 1] as DutyCandidate;
       return byCost ? key <= (last.power_W ?? Infinity) : key >= (last.efficiency ?? -1);
     };
-    for (let b = 0; b + 1 < edges.length && !stopped && room > 0; b++) {
+    if (room <= 0) {
+      cut = true;
+      continue;
+    }
+    for (let b = 0; b + 1 < edges.length && !stopped; b++) {
       const hi = edges[b] as number;
       const lo = edges[b + 1] as number;
       if (!byCost && tier.length >= room && !canEnter(hi)) {
@@ -233,18 +242,19 @@ export function searchByDuty(store: LibraryBackend, duty: Duty, matcher: DutyMat
       if (stopped) break;
     }
     unevaluated += pending.length;
+    if (stopped) cut = true;
     ranked.push(...tier);
   }
   return {
     duty,
     ranking: byCost ? 'annual-cost' : 'efficiency',
-    examined,
+    examined: seen.size,
     reachable,
     evaluated,
     matched,
     failed,
     damaged,
-    complete: unevaluated === 0 && seen.size >= examined,
+    complete: unevaluated === 0 && !cut,
     candidates: ranked,
   };
 }

@@ -59,7 +59,9 @@ export interface DutySearchView {
 /** "3 of the 12 pumps spanning the duty can meet it", or "at least …" when the search stopped early. */
 export function matchSentence(view: Pick<DutySearchView, 'matched' | 'examined' | 'complete' | 'ranking' | 'failed' | 'damaged' | 'candidates'>): string {
   const ranked = view.ranking === 'efficiency' ? 'efficiency at the duty' : 'annual energy cost';
-  const head = `${view.complete ? '' : 'at least '}${view.matched} of the ${view.examined} pumps spanning the duty can meet it, ranked by ${ranked}`;
+  const head = view.complete
+    ? `${view.matched} of the ${view.examined} pumps spanning the duty can meet it, ranked by ${ranked}`
+    : `at least ${view.matched} pumps can meet the duty (${view.examined} of those spanning it were read), ranked by ${ranked}`;
   const failed = view.failed.length ? ` ${view.failed.length} entries could not be evaluated (${view.failed.slice(0, 5).join(', ')}); check them with a duty check.` : '';
   const damaged = view.damaged.length
     ? ` ${view.damaged.length} damaged ${view.damaged.length === 1 ? 'entry was' : 'entries were'} skipped (${view.damaged.slice(0, 5).map((d) => d.id).join(', ')}); run "library verify".`
