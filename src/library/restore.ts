@@ -40,7 +40,7 @@ export async function restoreLibrary(source: string, target: string, options: { 
         throw new LibraryError(
           `The backup "${source}" has ${report.damaged.length} damaged row${report.damaged.length === 1 ? '' : 's'} (first: ${first.kind} ${first.id}${first.revision ? ` revision ${first.revision}` : ''}: ${first.problem.replace(/\.$/, '')}); ` +
             'export it with "library export --skip-damaged" and restore from that export instead.',
-          'unusable-file',
+          'conflict',
           'damaged-rows',
         );
       }

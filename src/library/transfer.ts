@@ -188,7 +188,7 @@ export function* exportLines(store: LibraryStore, options: ExportOptions = {}): 
 function damagedError(what: string, problem: string): LibraryError {
   return new LibraryError(
     `The export stopped at ${what} (${problem.replace(/\.$/, '')}), so a backup written now could not be imported again; run "library verify" to list every damaged row, or export with --skip-damaged to leave those entries out.`,
-    'unusable-file',
+    'conflict',
     'damaged-rows',
   );
 }

@@ -128,6 +128,10 @@ describe('damaged rows', () => {
       const r = await json(`${server.url}/api/search?flow=120&head=40&units=si`);
       expect(r.status).toBe(200);
       expect(r.body.damaged).toEqual([{ id: ids.twin, revision: 1, problem: expect.stringMatching(/cannot be read/) }]);
+      // The backup over HTTP is refused before its first byte, with a sentence and a stable code.
+      const backup = await json(`${server.url}/api/library/export`);
+      expect(backup.status).toBe(409);
+      expect(backup.body).toEqual({ error: expect.stringMatching(/^The export stopped at entry [0-9a-f]{16} revision 1 /), code: 'damaged-rows' });
     } finally {
       await server.close();
     }
