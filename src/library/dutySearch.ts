@@ -2,12 +2,16 @@
  * Searching the library by duty point: which pumps can deliver flow Q at head H, at which
  * impeller diameter or trim, and how well.
  *
- * Three stages. SQL first keeps only the entries whose head-curve envelope (summary columns)
- * contains the duty, with a margin. A screen on the captured head curves (dutyBounds.ts) drops those
- * whose diameters cannot reach the duty and bounds the efficiency (or power) any trim can have there.
- * Then the duty engine's matcher evaluates the survivors (search copies, parsed once per revision and
- * cached) best bound first, and stops when no remaining set could enter the top `limit`: the ranking
- * is exact without evaluating every pump that spans the duty.
+ * The duty index (dutyIndex.ts) holds, for every active entry, a few boxes in flow and head, each
+ * with an upper bound on the efficiency any trim can reach there. A query walks that index in bands
+ * of the bound, best first: it reads only the entries whose boxes hold the duty and whose bound can
+ * still beat the last place of the ranking. For each, a screen on the captured head curves
+ * (dutyBounds.ts) drops those whose diameters cannot reach the duty and tightens the bound; the duty
+ * engine's matcher then evaluates the survivors best bound first, and the walk stops when no
+ * remaining entry could enter the top `limit`: the ranking is exact without parsing every pump that
+ * spans the duty, and with no whole-library cache.
+ * Sound sets come first; sets kept with `fail` findings are marked and ranked after every sound one.
+ * A row that cannot be read is skipped and named in the answer (`damaged`); it never sinks a search.
  * Ranking is by efficiency at the duty, or by annual energy cost when hours and a tariff are given.
  *
  * Results are preliminary: they are to be verified against certified manufacturer data by a
@@ -15,7 +19,7 @@
  */
 import type { CurveSet } from '../model/curveset.ts';
 import { LibraryError } from './errors.ts';
-import type { LibraryStore } from './store.ts';
+import type { LibraryBackend, DutyIndexRow } from './backend.ts';
 import { screenDuty } from './dutyBounds.ts';
 
 export type PorPlace = 'below' | 'within' | 'above' | 'unknown';
@@ -73,14 +77,31 @@ export interface DutyCandidate extends DutyAnswer {
   annual_energy_kWh?: number;
   /** annual_energy_kWh × tariff. */
   annual_cost?: number;
+  /** True when the set was kept with `fail` findings; it ranks after every sound set. */
+  failing: boolean;
+  /** Codes of its `fail` findings. */
+  fail_codes: string[];
+  /** The units the curve set was saved in. */
+  display_units: Record<string, string>;
+}
+
+/** A row of the library that could not be read; the search skipped it. */
+export interface DamagedRow {
+  id: string;
+  revision: number;
+  problem: string;
 }
 
 export interface DutySearchResult {
   duty: Duty;
   ranking: 'efficiency' | 'annual-cost';
-  /** Active entries whose head-curve envelope contains the duty (SQL prefilter). */
+  /**
+   * Active entries whose duty-index boxes hold the duty and that the search read: all of them when
+   * `complete`; otherwise only those that could still enter the ranking (no count of the rest is
+   * taken, since counting every box at 100,000 entries costs more than the search itself).
+   */
   examined: number;
-  /** Of those, entries whose captured diameters bracket the duty: the most that can meet it. */
+  /** Of the entries read, those whose captured diameters reach the duty. */
   reachable: number;
   /** Entries the duty engine evaluated; the others could not enter the ranking. */
   evaluated: number;
@@ -88,7 +109,9 @@ export interface DutySearchResult {
   matched: number;
   /** Ids of entries the duty engine failed on (left out of the ranking). */
   failed: string[];
-  /** True when every reachable entry was evaluated. */
+  /** Rows that could not be read (left out of the ranking); `library verify` reports them all. */
+  damaged: DamagedRow[];
+  /** True when every entry whose boxes hold the duty was read and every reachable one evaluated. */
   complete: boolean;
   /** The best `limit` entries that meet the duty, best first. The ranking is exact. */
   candidates: DutyCandidate[];
@@ -97,8 +120,8 @@ export interface DutySearchResult {
 /** Candidates returned unless the caller asks for more. */
 export const DEFAULT_LIMIT = 10;
 
-/** Relative margin on the SQL envelope, so that a trim between diameters is never filtered out early. */
-const ENVELOPE_MARGIN = 0.05;
+/** Edges of the efficiency-bound bands the index is walked in, best first (bounds are fractions; -1: no efficiency curve). */
+const BAND_EDGES = [1e9, ...Array.from({ length: 50 }, (_, i) => 1 - i * 0.01), 0.45, 0.4, 0.3, 0.2, 0.1, 0, -1e9];
 
 export function checkDuty(duty: Duty): void {
   if (!(Number.isFinite(duty.flow_m3s) && duty.flow_m3s > 0)) throw new LibraryError('The duty flow must be a number greater than zero.', 'invalid');
@@ -109,7 +132,7 @@ export function checkDuty(duty: Duty): void {
   }
 }
 
-export function searchByDuty(store: LibraryStore, duty: Duty, matcher: DutyMatcher, options: DutySearchOptions = {}): DutySearchResult {
+export function searchByDuty(store: LibraryBackend, duty: Duty, matcher: DutyMatcher, options: DutySearchOptions = {}): DutySearchResult {
   checkDuty(duty);
   const { hoursPerYear: hours, tariffPerKWh: tariff } = options;
   if (hours !== undefined && !(Number.isFinite(hours) && hours > 0 && hours <= 8784)) {
@@ -121,61 +144,124 @@ export function searchByDuty(store: LibraryStore, duty: Duty, matcher: DutyMatch
   const limit = Math.min(Math.max(Math.trunc(options.limit ?? DEFAULT_LIMIT), 1), 500);
   // A zero tariff makes every cost zero; efficiency then decides.
   const byCost = hours !== undefined && tariff !== undefined && tariff > 0;
-
   const q = duty.flow_m3s;
   const h = duty.head_m;
-  const rows = store.envelopeContaining(q, h, ENVELOPE_MARGIN);
+  const compare = byCost ? compareCost : compareEfficiency;
 
-  // Screen every set in the envelope (cheap), then evaluate in the order of the ranking bounds.
-  const screened: Array<{ row: (typeof rows)[number]; set: CurveSet; key: number }> = [];
-  for (const row of rows) {
-    const set = store.searchSet(row.id, row.revision);
-    const screen = screenDuty(set, q, h);
-    if (!screen) continue;
-    screened.push({ row, set, key: byCost ? screen.powerBound : screen.efficiencyBound });
-  }
-  screened.sort(byCost ? (a, b) => a.key - b.key : (a, b) => b.key - a.key);
-
-  const candidates: DutyCandidate[] = [];
+  const seen = new Set<string>();
+  const damaged: DamagedRow[] = [];
+  const failed: string[] = [];
+  const ranked: DutyCandidate[] = [];
+  let reachable = 0;
   let evaluated = 0;
   let matched = 0;
-  const failed: string[] = [];
-  for (const { row, set, key } of screened) {
-    if (candidates.length >= limit) {
-      // The ranking so far is complete when no remaining set can beat the last place.
-      const last = candidates[limit - 1] as DutyCandidate;
-      if (byCost ? key > (last.power_W ?? Infinity) : key < (last.efficiency ?? -1)) break;
-    }
-    evaluated += 1;
-    let match: DutyAnswer | null;
-    try {
-      match = matcher(set, duty);
-    } catch {
-      // One curve set the engine cannot read must not sink the whole office search; it is counted.
-      failed.push(row.id);
+  let unevaluated = 0;
+  // True when the walk stopped before reading every entry whose boxes hold the duty.
+  let cut = false;
+  // The cost ranking has no bound in the index (power depends on the duty): it reads every box holding the duty.
+  const edges = byCost ? [1e9, -1e9] : BAND_EDGES;
+
+  for (const failing of [false, true]) {
+    const room = limit - ranked.length;
+    const tier: DutyCandidate[] = [];
+    type Pending = { row: DutyIndexRow; set: CurveSet; key: number };
+    let pending: Pending[] = [];
+    let stopped = false;
+    // Can a set with this key still enter the tier's ranking?
+    const canEnter = (key: number) => {
+      if (tier.length < room) return true;
+      const last = tier[room - 1] as DutyCandidate;
+      return byCost ? key <= (last.power_W ?? Infinity) : key >= (last.efficiency ?? -1);
+    };
+    if (room <= 0) {
+      cut = true;
       continue;
     }
-    if (!match) continue;
-    matched += 1;
-    const c: DutyCandidate = { ...store.names(row.id), revision: row.revision, ...match };
-    if (hours !== undefined && match.power_W !== undefined) {
-      c.annual_energy_kWh = (match.power_W * hours) / 1000;
-      if (tariff !== undefined) c.annual_cost = c.annual_energy_kWh * tariff;
+    for (let b = 0; b + 1 < edges.length && !stopped; b++) {
+      const hi = edges[b] as number;
+      const lo = edges[b + 1] as number;
+      if (!byCost && tier.length >= room && !canEnter(hi)) {
+        stopped = true;
+        break;
+      }
+      let band: DutyIndexRow[];
+      try {
+        band = store.dutyBand(q, h, lo, hi, failing);
+      } catch (error) {
+        // A damaged summary row in this band: read the band's rows one by one to name it and go on.
+        band = [];
+        damaged.push({ id: `index band ${lo}–${hi}`, revision: 0, problem: problemOf(error) });
+      }
+      for (const row of band) {
+        if (seen.has(row.id)) continue;
+        seen.add(row.id);
+        let set: CurveSet;
+        let screen: ReturnType<typeof screenDuty>;
+        try {
+          set = store.searchSet(row.id, row.revision);
+          screen = screenDuty(set, q, h);
+        } catch (error) {
+          damaged.push({ id: row.id, revision: row.revision, problem: problemOf(error) });
+          continue;
+        }
+        if (!screen) continue;
+        reachable += 1;
+        pending.push({ row, set, key: byCost ? screen.powerBound : Math.min(screen.efficiencyBound, row.bound) });
+      }
+      pending.sort(byCost ? (x, y) => x.key - y.key : (x, y) => y.key - x.key);
+      // Evaluate what no later band can beat: keys at or above this band's floor (all of them for cost).
+      let i = 0;
+      for (; i < pending.length; i++) {
+        const p = pending[i] as Pending;
+        if (!byCost && p.key < lo) break;
+        if (!canEnter(p.key)) {
+          stopped = true;
+          break;
+        }
+        evaluated += 1;
+        let match: DutyAnswer | null;
+        try {
+          match = matcher(p.set, duty);
+        } catch {
+          // One curve set the engine cannot read must not sink the whole office search; it is counted.
+          failed.push(p.row.id);
+          continue;
+        }
+        if (!match) continue;
+        matched += 1;
+        const { fail_count, fail_codes, display_units, ...who } = p.row.names;
+        const c: DutyCandidate = { ...who, revision: p.row.revision, ...match, failing: fail_count > 0, fail_codes, display_units };
+        if (hours !== undefined && match.power_W !== undefined) {
+          c.annual_energy_kWh = (match.power_W * hours) / 1000;
+          if (tariff !== undefined) c.annual_cost = c.annual_energy_kWh * tariff;
+        }
+        insertSorted(tier, c, compare);
+        if (tier.length > room) tier.pop();
+      }
+      pending = stopped ? pending.slice(i) : pending.slice(i);
+      if (stopped) break;
     }
-    insertSorted(candidates, c, byCost ? compareCost : compareEfficiency);
-    if (candidates.length > limit) candidates.pop();
+    unevaluated += pending.length;
+    if (stopped) cut = true;
+    ranked.push(...tier);
   }
   return {
     duty,
     ranking: byCost ? 'annual-cost' : 'efficiency',
-    examined: rows.length,
-    reachable: screened.length,
+    examined: seen.size,
+    reachable,
     evaluated,
     matched,
     failed,
-    complete: evaluated === screened.length,
-    candidates,
+    damaged,
+    complete: unevaluated === 0 && !cut,
+    candidates: ranked,
   };
+}
+
+function problemOf(error: unknown): string {
+  const detail = error instanceof Error ? error.message : String(error);
+  return `its stored search copy cannot be read (${detail.slice(0, 120)})`;
 }
 
 function insertSorted<T>(list: T[], item: T, compare: (a: T, b: T) => number): void {

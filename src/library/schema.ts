@@ -7,7 +7,7 @@ import type Database from 'better-sqlite3';
 import { LibraryError } from './errors.ts';
 
 export const LIBRARY_FORMAT = 'pumpscribe.library';
-export const SCHEMA_VERSION = 1;
+export const SCHEMA_VERSION = 2;
 
 const MIGRATIONS: readonly string[] = [
   // 0 → 1
@@ -101,14 +101,53 @@ const MIGRATIONS: readonly string[] = [
   CREATE TRIGGER takeoffs_append_only_d BEFORE DELETE ON takeoffs BEGIN SELECT RAISE(ABORT, 'take-offs are append-only'); END;
   CREATE TRIGGER entries_no_delete BEFORE DELETE ON entries BEGIN SELECT RAISE(ABORT, 'entries are archived, never deleted'); END;
   `,
+  // 1 → 2: sound records and a duty index that scales. Each revision keeps its findings summary;
+  // each entry keeps the summary of its latest revision, its display units and its duty slices
+  // (dutyIndex.ts), which triggers copy into a three-dimensional R*Tree (flow, head, efficiency bound)
+  // for active entries. The old two-dimensional envelope goes; the backfill runs in `migrate`.
+  `
+  CREATE TABLE revision_summaries (
+    entry_id TEXT NOT NULL REFERENCES entries (id),
+    revision INTEGER NOT NULL,
+    fail_count INTEGER NOT NULL,
+    warn_count INTEGER NOT NULL,
+    fail_codes TEXT NOT NULL,
+    accepted_failing INTEGER NOT NULL CHECK (accepted_failing IN (0, 1)),
+    PRIMARY KEY (entry_id, revision)
+  ) STRICT;
+  ALTER TABLE entries ADD COLUMN fail_count INTEGER NOT NULL DEFAULT 0;
+  ALTER TABLE entries ADD COLUMN warn_count INTEGER NOT NULL DEFAULT 0;
+  ALTER TABLE entries ADD COLUMN fail_codes TEXT NOT NULL DEFAULT '[]';
+  ALTER TABLE entries ADD COLUMN display_units_json TEXT NOT NULL DEFAULT '{}';
+  ALTER TABLE entries ADD COLUMN slices_json TEXT NOT NULL DEFAULT '[]';
+  DROP TRIGGER entries_envelope_i;
+  DROP TRIGGER entries_envelope_u;
+  DROP TABLE entries_envelope;
+  CREATE VIRTUAL TABLE duty_index USING rtree (slice, flow_min, flow_max, head_min, head_max, eta_min, eta_max, +entry_key, +failing);
+  CREATE TRIGGER duty_index_i AFTER INSERT ON entries BEGIN
+    INSERT INTO duty_index SELECT NEW.key * 16 + j.key, j.value ->> 0, j.value ->> 1, j.value ->> 2, j.value ->> 3, j.value ->> 4, j.value ->> 4, NEW.key, NEW.fail_count > 0
+      FROM json_each(NEW.slices_json) AS j WHERE NEW.archived_at IS NULL AND j.key < 16;
+  END;
+  CREATE TRIGGER duty_index_u AFTER UPDATE ON entries BEGIN
+    DELETE FROM duty_index WHERE slice BETWEEN NEW.key * 16 AND NEW.key * 16 + 15;
+    INSERT INTO duty_index SELECT NEW.key * 16 + j.key, j.value ->> 0, j.value ->> 1, j.value ->> 2, j.value ->> 3, j.value ->> 4, j.value ->> 4, NEW.key, NEW.fail_count > 0
+      FROM json_each(NEW.slices_json) AS j WHERE NEW.archived_at IS NULL AND j.key < 16;
+  END;
+  `,
 ];
+
+/** Work a migration needs beyond its DDL (filling new columns from stored documents), by target version. */
+export type Backfill = (db: Database.Database) => void;
 
 function tableCount(db: Database.Database): number {
   return (db.prepare(`SELECT count(*) AS n FROM sqlite_schema WHERE type = 'table'`).get() as { n: number }).n;
 }
 
-/** Brings the file's schema up to SCHEMA_VERSION, or refuses a file that is not a Pumpscribe library. */
-export function migrate(db: Database.Database, now: string): void {
+/**
+ * Refuses a file that is not a Pumpscribe library (or one newer than this code), before anything is
+ * written to it: no journal mode is set and no table is created on a foreign file.
+ */
+export function checkLibraryFile(db: Database.Database): number {
   const current = db.pragma('user_version', { simple: true }) as number;
   if (current > SCHEMA_VERSION) {
     throw new LibraryError(
@@ -125,6 +164,12 @@ export function migrate(db: Database.Database, now: string): void {
       throw new LibraryError('This SQLite file is not a Pumpscribe library; choose a new file name for the library.', 'unusable-file');
     }
   }
+  return current;
+}
+
+/** Brings the file's schema up to SCHEMA_VERSION, or refuses a file that is not a Pumpscribe library. */
+export function migrate(db: Database.Database, now: string, backfill: Partial<Record<number, Backfill>> = {}): void {
+  const current = checkLibraryFile(db);
   for (let v = current; v < SCHEMA_VERSION; v++) {
     const step = db.transaction(() => {
       db.exec(MIGRATIONS[v] as string);
@@ -133,6 +178,7 @@ export function migrate(db: Database.Database, now: string): void {
         put.run('format', LIBRARY_FORMAT);
         put.run('created_at', now);
       }
+      backfill[v + 1]?.(db);
       db.pragma(`user_version = ${v + 1}`);
     });
     step.immediate();

@@ -8,6 +8,7 @@ import type Database from 'better-sqlite3';
 import { LibraryError } from './errors.ts';
 import { checkSha256, clip, isEntryId, newEntryId } from './ids.ts';
 import { checkTakeoff, sha256Hex } from './validate.ts';
+import { guardStorage } from './storage.ts';
 
 export interface SheetInfo {
   sha256: string;
@@ -57,14 +58,18 @@ export function cleanSheetName(name: string | undefined | null): string | null {
 
 export class SheetStore {
   private readonly stmts: ReturnType<typeof sheetStatements>;
+  private get file(): string {
+    return this.db.name;
+  }
 
-  constructor(private readonly db: Database.Database, private readonly now: () => string) {
+  constructor(private readonly db: Database.Database, private readonly now: () => string, private readonly beforeWrite: () => void = () => undefined) {
     this.stmts = sheetStatements(db);
   }
 
   /** Stores the bytes unless a sheet with the same SHA-256 is already kept. */
   put(bytes: Uint8Array, name?: string | null, storedAt?: string): SheetInfo & { created: boolean } {
     if (bytes.length === 0) throw new LibraryError('The sheet is empty; send the bytes of a PDF or image file.', 'invalid');
+    this.beforeWrite();
     const sha256 = sha256Hex(bytes);
     const write = this.db.transaction(() => {
       const existing = this.stmts.find.get(sha256) as SheetInfo | undefined;
@@ -73,7 +78,7 @@ export class SheetStore {
       this.stmts.insert.run(info.sha256, info.name, info.media_type, info.size, Buffer.from(bytes), info.stored_at);
       return { ...info, created: true };
     });
-    return write.immediate();
+    return guardStorage(this.file, () => write.immediate());
   }
 
   info(sha256: string): SheetInfo {
@@ -100,6 +105,7 @@ export class SheetStore {
    */
   addTakeoff(sheetSha256: string, body: unknown, name?: string | null, id?: string, savedAt?: string): TakeoffInfo & { created: boolean } {
     this.info(sheetSha256);
+    this.beforeWrite();
     const text = JSON.stringify(checkTakeoff(body));
     const sha256 = sha256Hex(text);
     const write = this.db.transaction(() => {
@@ -110,7 +116,7 @@ export class SheetStore {
       this.stmts.insertTakeoff.run(info.id, info.sheet_sha256, info.name, info.sha256, text, info.saved_at);
       return { ...info, created: true };
     });
-    return write.immediate();
+    return guardStorage(this.file, () => write.immediate());
   }
 
   takeoffs(sheetSha256: string): TakeoffInfo[] {

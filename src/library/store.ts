@@ -3,122 +3,233 @@
  * and the source sheets they were read from.
  *
  * - Every save is a new revision; nothing is overwritten (triggers enforce it in the file itself).
+ * - A revision belongs to its entry: the same pump (maker, model, size and name, trimmed and
+ *   compared case-insensitively), unless the caller says explicitly that it is a new revision.
+ * - Each revision keeps its findings summary; a set with `fail` findings is kept only when accepted.
  * - Delete means archive; an archived entry can be restored.
  * - Each write is one IMMEDIATE transaction, so writers in other processes queue on the file lock
  *   and the next revision number is taken under that lock: concurrent writers never lose a revision.
+ * - A library file (or folder) that cannot be written opens read-only: it lists and searches, and
+ *   every write is refused with a sentence. Storage faults become LibraryErrors (storage.ts).
  */
 import Database from 'better-sqlite3';
-import { existsSync } from 'node:fs';
+import { accessSync, constants, existsSync, readFileSync, statSync, unlinkSync } from 'node:fs';
+import { dirname } from 'node:path';
 import type { CurveSet } from '../model/curveset.ts';
 import { LruCache } from './cache.ts';
 import { LibraryError } from './errors.ts';
 import { checkEntryId, newEntryId } from './ids.ts';
-import { migrate } from './schema.ts';
+import { checkLibraryFile, migrate, SCHEMA_VERSION } from './schema.ts';
 import { SheetStore } from './sheets.ts';
 import { searchCopy } from './summary.ts';
-import { prepareStatements, summaryRow } from './storeSql.ts';
-import { checkCurveSet, type CheckedCurveSet } from './validate.ts';
+import { prepareStatements, summaryRow, type RevisionFacts } from './storeSql.ts';
+import { fullDiskError, storageFault } from './storage.ts';
+import { checkRevision } from './validate.ts';
+import { backfillV2 } from './backfill.ts';
+import { verifyLibrary, type VerifyReport } from './verify.ts';
 import { entryInfoOf, type EntryInfo, type EntryRow, type RevisionInfo, type SavedRevision, type StoredRevision } from './types.ts';
+import type { DutyIndexRow, EntryNames, LibraryBackend, ListOptions, WriteOptions } from './backend.ts';
+
+export type { ListOptions, WriteOptions } from './backend.ts';
 
 export interface OpenOptions {
   /** Clock for timestamps (ISO 8601); tests hand in a fixed one. */
   now?: () => string;
-  /** How many parsed curve sets to keep in memory. */
+  /** How many parsed search copies to keep in memory (a small working set; the index does the rest). */
   cacheSize?: number;
   /** How long a writer waits for another process's lock, ms. */
   busyTimeoutMs?: number;
+  /** Open for reading only, even when the file could be written. */
+  readonly?: boolean;
 }
 
-export interface ListOptions {
-  q?: string;
-  /** false (default): active entries only; true: archived only; 'all': both. */
-  archived?: boolean | 'all';
-  limit?: number;
-  offset?: number;
+interface InternalOptions extends OpenOptions {
+  /** The disk is full: open for reading, and refuse writes by saying so. */
+  diskFull?: boolean;
 }
 
-export class LibraryStore {
+/** Largest read-only library loaded into memory when its folder cannot hold SQLite's shared-memory file. */
+const READONLY_IN_MEMORY_LIMIT = 1024 * 2 ** 20;
+
+function writable(path: string): boolean {
+  try {
+    accessSync(path, constants.W_OK);
+    return true;
+  } catch {
+    return false;
+  }
+}
+
+/** Same pump: maker, model, size and name, trimmed and compared case-insensitively. */
+export function samePump(a: { name: string; maker?: string | null; model?: string | null; size?: string | null }, b: typeof a): boolean {
+  const n = (v: string | null | undefined) => (v ?? '').trim().toLowerCase();
+  return n(a.name) === n(b.name) && n(a.maker) === n(b.maker) && n(a.model) === n(b.model) && n(a.size) === n(b.size);
+}
+
+function pumpWords(p: { name: string; maker?: string | null; model?: string | null; size?: string | null }): string {
+  return [p.maker, p.model, p.size].filter((w) => w && w.trim()).length
+    ? `"${p.name}" (${[p.maker, p.model, p.size].filter((w) => w && w.trim()).join(', ')})`
+    : `"${p.name}"`;
+}
+
+export class LibraryStore implements LibraryBackend {
   readonly db: Database.Database;
   readonly file: string;
   /** True when this open created the library file. */
   readonly isNew: boolean;
+  /** True when the library was opened for reading only (by request, or because it cannot be written). */
+  readonly readonly: boolean;
+  /** Why the library is read-only (a sentence), or null. */
+  readonly readonlyReason: string | null;
   readonly sheets: SheetStore;
   readonly now: () => string;
   private readonly parsed: LruCache<CurveSet>;
   private readonly stmts: ReturnType<typeof prepareStatements>;
+  /** Set while an import holds the file's write lock on its own connection. */
+  importing = false;
 
-  private constructor(file: string, options: OpenOptions) {
+  /** True when opened read-only because the disk is full. */
+  readonly diskFull: boolean;
+
+  private constructor(file: string, options: InternalOptions) {
     this.file = file;
     this.now = options.now ?? (() => new Date().toISOString());
-    this.isNew = file === ':memory:' || !existsSync(file);
+    const memory = file === ':memory:';
+    this.isNew = memory || !existsSync(file);
+    const folder = dirname(file);
+    let reason: string | null = null;
+    if (!memory) {
+      if (this.isNew && !writable(folder)) {
+        throw new LibraryError(`The library folder "${folder}" is read-only, so the library file "${file}" cannot be created there; choose a writable folder.`, 'read-only');
+      }
+      if (options.diskFull) reason = 'the disk holding it is full';
+      else if (options.readonly) reason = 'it was opened for reading only';
+      else if (!this.isNew && !writable(file)) reason = `the library file "${file}" is read-only`;
+      else if (!this.isNew && !writable(folder)) reason = `the library folder "${folder}" is read-only`;
+    }
+    this.readonly = reason !== null;
+    this.readonlyReason = reason;
+    this.diskFull = options.diskFull === true;
+    const strays = memory ? [] : [`${file}-wal`, `${file}-shm`].filter((f) => !existsSync(f));
+    let db: Database.Database | null = null;
     try {
-      this.db = new Database(file, { timeout: options.busyTimeoutMs ?? 10_000 });
-      this.db.pragma('journal_mode = WAL');
-      // FULL: a committed revision survives a power cut, not only a process restart.
-      this.db.pragma('synchronous = FULL');
-      this.db.pragma('foreign_keys = ON');
-      migrate(this.db, this.now());
+      db = this.readonly ? openReadonly(file) : new Database(file, { timeout: options.busyTimeoutMs ?? 10_000, fileMustExist: !this.isNew });
+      const version = checkLibraryFile(db);
+      if (this.readonly) {
+        if (version < SCHEMA_VERSION) {
+          throw new LibraryError(`The library file "${file}" was written by an older Pumpscribe and ${reason}, so it cannot be brought up to date; open it once where it can be written.`, 'read-only');
+        }
+      } else {
+        db.pragma('journal_mode = WAL');
+        // FULL: a committed revision survives a power cut, not only a process restart.
+        db.pragma('synchronous = FULL');
+        db.pragma('foreign_keys = ON');
+        migrate(db, this.now(), { 2: backfillV2 });
+      }
     } catch (error) {
+      // A refused open leaves nothing behind: no empty library, no -wal or -shm beside someone's file.
+      try {
+        db?.close();
+      } catch {
+        /* already closed */
+      }
+      for (const f of [...strays, ...(this.isNew && !memory ? [file] : [])]) if (existsSync(f)) unlinkSync(f);
       if (error instanceof LibraryError) throw error;
+      const fault = storageFault(error, file);
+      if (fault) throw fault;
       const detail = error instanceof Error ? error.message : String(error);
       throw new LibraryError(`Cannot open the library file "${file}" (${detail}); check the path and that it is a Pumpscribe library.`, 'unusable-file');
     }
-    this.parsed = new LruCache<CurveSet>(options.cacheSize ?? 20_000);
-    this.sheets = new SheetStore(this.db, this.now);
+    this.db = db;
+    this.parsed = new LruCache<CurveSet>(options.cacheSize ?? 2_000);
+    this.sheets = new SheetStore(this.db, this.now, () => this.beforeWrite());
     this.stmts = prepareStatements(this.db);
   }
 
   /** Opens (creating if needed) the library in `file`. Throws LibraryError for a file that is not a library. */
   static open(file: string, options: OpenOptions = {}): LibraryStore {
-    return new LibraryStore(file, options);
+    try {
+      return new LibraryStore(file, options);
+    } catch (error) {
+      // A library on a full disk can still be read: open it read-only, and let every write say why.
+      if (error instanceof LibraryError && error.code === 'storage-full' && !options.readonly && file !== ':memory:' && existsSync(file)) {
+        return new LibraryStore(file, { ...options, diskFull: true });
+      }
+      throw error;
+    }
   }
 
   close(): void {
     if (this.db.open) this.db.close();
   }
 
+  /** Refuses a write on a read-only library, or while an import holds the write lock. */
+  beforeWrite(): void {
+    if (this.diskFull) throw fullDiskError(this.file);
+    if (this.readonly) {
+      throw new LibraryError(`The library is read-only because ${this.readonlyReason}, so nothing was changed; it can still be listed and searched. Make it writable to save to it.`, 'read-only');
+    }
+    if (this.importing) throw new LibraryError('An import is being written to this library; nothing was changed, try again when it has finished.', 'conflict', 'import-busy');
+  }
+
+  /** Runs one IMMEDIATE write transaction, turning storage faults into sentences. */
+  write<T>(body: () => T): T {
+    this.beforeWrite();
+    try {
+      return this.db.transaction(body).immediate();
+    } catch (error) {
+      throw storageFault(error, this.file) ?? error;
+    }
+  }
+
   /** Creates an entry from a curve set (validated here). */
-  create(input: unknown, options: { id?: string } = {}): SavedRevision {
-    const checked = checkCurveSet(input);
+  create(input: unknown, options: WriteOptions & { id?: string } = {}): SavedRevision {
+    this.beforeWrite();
+    const facts = checkRevision(input, { acceptFailing: options.acceptFailing === true });
     const id = options.id === undefined ? newEntryId() : checkEntryId(options.id);
-    const write = this.db.transaction((): SavedRevision => {
+    return this.write((): SavedRevision => {
       if (this.stmts.entry.get(id)) throw new LibraryError(`An entry with id ${id} already exists; add a revision to it instead.`, 'conflict');
       const at = this.now();
-      this.stmts.insertEntry.run({ ...summaryRow(id, 1, checked, at), created_at: at, archived_at: null });
-      this.insertRevision(id, 1, at, checked);
+      this.stmts.insertEntry.run({ ...summaryRow(id, 1, facts, at), created_at: at, archived_at: null });
+      this.insertRevision(id, 1, at, facts);
       this.stmts.event.run(id, at, 'created', 1);
       return { id, revision: 1, saved_at: at };
     });
-    return write.immediate();
   }
 
   /**
-   * Adds a new revision to an existing, active entry. With `expectedRevision`, refuses (conflict)
-   * when someone else saved in between, so that an editor never bases work on a stale copy unknowingly.
+   * Adds a new revision to an existing, active entry. The set must be of the same pump, unless
+   * `asNewRevision`. With `expectedRevision`, refuses when someone else saved in between, so that an
+   * editor never bases work on a stale copy unknowingly.
    */
-  addRevision(id: string, input: unknown, options: { expectedRevision?: number } = {}): SavedRevision {
+  addRevision(id: string, input: unknown, options: WriteOptions & { expectedRevision?: number; asNewRevision?: boolean } = {}): SavedRevision {
     checkEntryId(id);
-    const checked = checkCurveSet(input);
-    const write = this.db.transaction((): SavedRevision => {
+    this.beforeWrite();
+    const facts = checkRevision(input, { acceptFailing: options.acceptFailing === true });
+    return this.write((): SavedRevision => {
       const entry = this.entryRow(id);
       if (entry.archived_at !== null) {
         throw new LibraryError(`Entry ${id} is archived; restore it before adding a revision.`, 'conflict');
       }
       const latest = (this.stmts.maxRevision.get(id) as { n: number }).n;
       if (options.expectedRevision !== undefined && options.expectedRevision !== latest) {
+        throw new LibraryError(`Entry ${id} is at revision ${latest}, not ${options.expectedRevision}; reload it and apply your changes again.`, 'precondition-failed');
+      }
+      if (!options.asNewRevision && !samePump(entry, facts.set.pump)) {
         throw new LibraryError(
-          `Entry ${id} is at revision ${latest}, not ${options.expectedRevision}; reload it and apply your changes again.`,
+          `The curve set is for ${pumpWords(facts.set.pump)}, but entry ${id} holds ${pumpWords({ name: entry.name, maker: entry.maker, model: entry.model, size: entry.size })}; ` +
+            `save it as a new entry, or say explicitly that it is a new revision of this entry (--as-new-revision-of ${id}, or ?as_new_revision=true).`,
           'conflict',
+          'other-pump',
         );
       }
       const revision = latest + 1;
       const at = this.now();
-      this.insertRevision(id, revision, at, checked);
-      this.stmts.updateSummary.run(summaryRow(id, revision, checked, at));
+      this.insertRevision(id, revision, at, facts);
+      this.stmts.updateSummary.run(summaryRow(id, revision, facts, at));
       this.stmts.event.run(id, at, 'revised', revision);
       return { id, revision, saved_at: at };
     });
-    return write.immediate();
   }
 
   /** Stored text and facts of one revision (the latest when `revision` is omitted). */
@@ -132,8 +243,9 @@ export class LibraryStore {
   }
 
   /**
-   * The search copy (see `searchCopy`) of an entry's latest revision, parsed once and cached by
-   * "id:revision"; an older revision is taken from its stored body.
+   * The search copy (see `searchCopy`) of an entry's revision, parsed from the summary kept beside
+   * the entry (an older revision from its stored body). A few recent ones stay parsed. Throws a
+   * SyntaxError or TypeError for a damaged row; the search names it and goes on.
    */
   searchSet(id: string, revision: number): CurveSet {
     const key = `${id}:${revision}`;
@@ -142,32 +254,20 @@ export class LibraryStore {
     const row = this.stmts.searchJson.get(id, revision) as { search_json: string } | undefined;
     // Stored documents passed the schema when written; parsing the JSON is enough here.
     const set = row ? (JSON.parse(row.search_json) as CurveSet) : searchCopy(JSON.parse(this.get(id, revision).body) as CurveSet);
+    if (!set || !Array.isArray(set.members)) throw new TypeError('the stored search copy is not a curve set');
     this.parsed.set(key, set);
     return set;
   }
 
-  /**
-   * Fills the search cache with active entries, `batch` at a time, yielding between batches so a
-   * server stays responsive; returns how many were parsed. Stops early if the store closes.
-   */
-  async warmSearchCache(batch = 200): Promise<number> {
-    let done = 0;
-    let after = '';
-    for (;;) {
-      if (!this.db.open) return done;
-      const rows = this.stmts.activeAfter.all(after, batch) as Array<{ id: string; latest_revision: number }>;
-      if (rows.length === 0) return done;
-      for (const r of rows) this.searchSet(r.id, r.latest_revision);
-      done += rows.length;
-      after = (rows[rows.length - 1] as { id: string }).id;
-      await new Promise((resolve) => setImmediate(resolve));
-    }
+  /** Kept for callers that warmed the old whole-library cache; the index needs no warming now. */
+  async warmSearchCache(): Promise<number> {
+    return 0;
   }
 
   revisions(id: string): RevisionInfo[] {
     checkEntryId(id);
     this.entryRow(id);
-    return this.stmts.revisions.all(id) as RevisionInfo[];
+    return (this.stmts.revisions.all(id) as RawRevision[]).map(revisionInfoOf);
   }
 
   info(id: string): EntryInfo {
@@ -206,18 +306,37 @@ export class LibraryStore {
   }
 
   /**
-   * Active entries whose head-curve envelope contains (flow, head), each side widened by
-   * `margin` (relative). The R*Tree stores 32-bit bounds rounded outwards, so nothing is lost.
+   * Active entries with an index box holding (flow, head) whose efficiency bound lies in [lo, hi),
+   * sound (`failing` false) or failing ones; each entry once, with its highest bound.
    */
-  envelopeContaining(flowM3s: number, headM: number, margin: number): Array<{ id: string; revision: number }> {
-    return this.stmts.envelope.all(flowM3s * (1 + margin), flowM3s * (1 - margin), headM * (1 + margin), headM * (1 - margin)) as Array<{ id: string; revision: number }>;
+  dutyBand(flowM3s: number, headM: number, lo: number, hi: number, failing: boolean): DutyIndexRow[] {
+    type Raw = { id: string; revision: number; bound: number; name: string; maker: string | null; model: string | null; rated_speed_rpm: number; fail_count: number; fail_codes: string; display_units_json: string };
+    const rows = this.stmts.dutyBand.all({ q: flowM3s, h: headM, lo, hi, failing: failing ? 1 : 0 }) as Raw[];
+    const best = new Map<string, Raw>();
+    for (const r of rows) {
+      const seen = best.get(r.id);
+      if (!seen || r.bound > seen.bound) best.set(r.id, r);
+    }
+    return [...best.values()].map((r) => ({ id: r.id, revision: r.revision, bound: r.bound, names: namesOf(r) }));
   }
 
-  /** The names a search result shows for an entry. */
-  names(id: string): { id: string; name: string; maker: string | null; model: string | null; rated_speed_rpm: number } {
-    const row = this.stmts.names.get(id) as { id: string; name: string; maker: string | null; model: string | null; rated_speed_rpm: number } | undefined;
+  /** How many active entries have an index box holding (flow, head). */
+  dutyCount(flowM3s: number, headM: number): number {
+    return (this.stmts.dutyCount.get({ q: flowM3s, h: headM }) as { n: number }).n;
+  }
+
+  /** The names and marks a search result shows for an entry. */
+  names(id: string): EntryNames {
+    const row = this.stmts.names.get(id) as
+      | { id: string; name: string; maker: string | null; model: string | null; rated_speed_rpm: number; fail_count: number; fail_codes: string; display_units_json: string }
+      | undefined;
     if (!row) throw new LibraryError(`No library entry has the id ${id}.`, 'not-found');
-    return row;
+    return namesOf(row);
+  }
+
+  /** Reads every row and names each damaged one (verify.ts). */
+  verify(): VerifyReport {
+    return verifyLibrary(this.db);
   }
 
   /** Counts for status lines. */
@@ -236,39 +355,45 @@ export class LibraryStore {
     if (existsSync(destination)) {
       throw new LibraryError(`The backup file "${destination}" already exists; choose a new name so that no earlier backup is overwritten.`, 'conflict');
     }
-    const result = await this.db.backup(destination);
-    return { pages: result.totalPages };
+    try {
+      const result = await this.db.backup(destination);
+      return { pages: result.totalPages };
+    } catch (error) {
+      if (existsSync(destination)) unlinkSync(destination);
+      throw storageFault(error, destination) ?? error;
+    }
   }
 
-  /** Used by the importer, inside its own transaction. */
-  insertImportedEntry(id: string, createdAt: string, archivedAt: string | null, revisions: Array<{ savedAt: string; checked: CheckedCurveSet }>): void {
+  /** Content hashes of an entry's revisions, or null when the entry does not exist (importer). */
+  revisionHashes(id: string, stmts: ReturnType<typeof prepareStatements> = this.stmts): Set<string> | null {
+    if (!stmts.entry.get(id)) return null;
+    return new Set((stmts.revisions.all(id) as RawRevision[]).map((r) => r.sha256));
+  }
+
+  private insertRevision(id: string, revision: number, at: string, facts: RevisionFacts, stmts = this.stmts): void {
+    const source = facts.set.provenance.source?.sha256 ?? null;
+    stmts.insertRevision.run(id, revision, at, facts.sha256, facts.text, source);
+    stmts.insertRevisionSummary.run(id, revision, facts.findings.fail_count, facts.findings.warn_count, JSON.stringify(facts.findings.fail_codes), facts.acceptedFailing ? 1 : 0);
+  }
+
+  /** Used by the importer, on its own connection inside its transaction. */
+  insertImportedEntry(stmts: ReturnType<typeof prepareStatements>, id: string, createdAt: string, archivedAt: string | null, revisions: Array<{ savedAt: string; facts: RevisionFacts }>): void {
     const last = revisions[revisions.length - 1];
     if (!last) return;
-    this.stmts.insertEntry.run({ ...summaryRow(id, revisions.length, last.checked, last.savedAt), created_at: createdAt, archived_at: archivedAt });
-    revisions.forEach((r, i) => this.insertRevision(id, i + 1, r.savedAt, r.checked));
-    this.stmts.event.run(id, this.now(), 'imported', revisions.length);
+    stmts.insertEntry.run({ ...summaryRow(id, revisions.length, last.facts, last.savedAt), created_at: createdAt, archived_at: archivedAt });
+    revisions.forEach((r, i) => this.insertRevision(id, i + 1, r.savedAt, r.facts, stmts));
+    stmts.event.run(id, this.now(), 'imported', revisions.length);
   }
 
   /** Used by the importer: appends revisions to an existing entry, numbering them after its latest. */
-  appendImportedRevisions(id: string, revisions: Array<{ savedAt: string; checked: CheckedCurveSet }>): void {
-    let n = (this.stmts.maxRevision.get(id) as { n: number }).n;
+  appendImportedRevisions(stmts: ReturnType<typeof prepareStatements>, id: string, revisions: Array<{ savedAt: string; facts: RevisionFacts }>): void {
+    let n = (stmts.maxRevision.get(id) as { n: number }).n;
     for (const r of revisions) {
       n += 1;
-      this.insertRevision(id, n, r.savedAt, r.checked);
-      this.stmts.updateSummary.run(summaryRow(id, n, r.checked, this.now()));
+      this.insertRevision(id, n, r.savedAt, r.facts, stmts);
+      stmts.updateSummary.run(summaryRow(id, n, r.facts, this.now()));
     }
-    if (revisions.length) this.stmts.event.run(id, this.now(), 'imported', n);
-  }
-
-  /** Content hashes of an entry's revisions, or null when the entry does not exist. */
-  revisionHashes(id: string): Set<string> | null {
-    if (!this.stmts.entry.get(id)) return null;
-    return new Set((this.stmts.revisions.all(id) as RevisionInfo[]).map((r) => r.sha256));
-  }
-
-  private insertRevision(id: string, revision: number, at: string, checked: CheckedCurveSet): void {
-    const source = checked.set.provenance.source?.sha256 ?? null;
-    this.stmts.insertRevision.run(id, revision, at, checked.sha256, checked.text, source);
+    if (revisions.length) stmts.event.run(id, this.now(), 'imported', n);
   }
 
   private entryRow(id: string): EntryRow {
@@ -279,7 +404,7 @@ export class LibraryStore {
 
   private setArchived(id: string, archived: boolean): EntryInfo {
     checkEntryId(id);
-    const write = this.db.transaction((): EntryInfo => {
+    return this.write((): EntryInfo => {
       const row = this.entryRow(id);
       if (archived === (row.archived_at !== null)) return entryInfoOf(row);
       const at = this.now();
@@ -287,6 +412,84 @@ export class LibraryStore {
       this.stmts.event.run(id, at, archived ? 'archived' : 'restored', row.latest_revision);
       return entryInfoOf(this.entryRow(id));
     });
-    return write.immediate();
   }
+}
+
+/** The names and marks of an entry row; an unreadable JSON column reads as empty (verify names the row). */
+function namesOf(r: { id: string; name: string; maker: string | null; model: string | null; rated_speed_rpm: number; fail_count: number; fail_codes: string; display_units_json: string }): EntryNames {
+  return {
+    id: r.id,
+    name: r.name,
+    maker: r.maker,
+    model: r.model,
+    rated_speed_rpm: r.rated_speed_rpm,
+    fail_count: r.fail_count,
+    fail_codes: parseOr<string[]>(r.fail_codes, []),
+    display_units: parseOr<Record<string, string>>(r.display_units_json, {}),
+  };
+}
+
+function parseOr<T>(text: string, fallback: T): T {
+  try {
+    return JSON.parse(text) as T;
+  } catch {
+    return fallback;
+  }
+}
+
+interface RawRevision {
+  revision: number;
+  saved_at: string;
+  sha256: string;
+  bytes: number;
+  fail_count: number | null;
+  warn_count: number | null;
+  fail_codes: string | null;
+  accepted_failing: number | null;
+}
+
+function revisionInfoOf(r: RawRevision): RevisionInfo {
+  return {
+    revision: r.revision,
+    saved_at: r.saved_at,
+    sha256: r.sha256,
+    bytes: r.bytes,
+    fail_count: r.fail_count ?? 0,
+    warn_count: r.warn_count ?? 0,
+    fail_codes: r.fail_codes ? (JSON.parse(r.fail_codes) as string[]) : [],
+    accepted_failing: r.accepted_failing === 1,
+  };
+}
+
+/**
+ * A read-only connection. SQLite needs the shared-memory file beside a WAL library even to read it;
+ * in a read-only folder that file cannot be made, so the library is read into memory instead
+ * (up to READONLY_IN_MEMORY_LIMIT), which is exact as long as no unsaved log (-wal) lies beside it.
+ */
+function openReadonly(file: string): Database.Database {
+  try {
+    const db = new Database(file, { readonly: true, fileMustExist: true });
+    db.pragma('user_version');
+    db.prepare('SELECT count(*) FROM sqlite_schema').get();
+    return db;
+  } catch (error) {
+    const code = (error as { code?: string }).code ?? '';
+    // Read-only media and folders refuse the shared-memory file; a full disk has no room for it.
+    if (!code.startsWith('SQLITE_READONLY') && code !== 'SQLITE_CANTOPEN' && !code.startsWith('SQLITE_IOERR') && code !== 'SQLITE_FULL') throw error;
+  }
+  const wal = `${file}-wal`;
+  if (existsSync(wal) && statSync(wal).size > 0) {
+    throw new LibraryError(`The library file "${file}" has unsaved changes in "${wal}" and its folder is read-only, so it cannot be read safely; open it once where the folder is writable.`, 'read-only');
+  }
+  const size = statSync(file).size;
+  if (size > READONLY_IN_MEMORY_LIMIT) {
+    throw new LibraryError(`The library file "${file}" sits in a read-only folder and is larger than ${READONLY_IN_MEMORY_LIMIT / 2 ** 20} MiB, too large to read into memory; copy it to a writable folder.`, 'read-only');
+  }
+  const bytes = readFileSync(file);
+  // Bytes 18 and 19 of the header say WAL (2); an in-memory copy reads as a rollback-journal file (1).
+  if (bytes.length >= 100 && bytes[18] === 2 && bytes[19] === 2) {
+    bytes[18] = 1;
+    bytes[19] = 1;
+  }
+  return new Database(bytes, { readonly: true });
 }

@@ -2,10 +2,17 @@
  * Moving a whole library as JSON Lines. The first line is a header; then one line per sheet
  * (bytes in base64), per take-off file, and per entry (with all its revisions, oldest first).
  *
- * Import is all or nothing: every line is checked first (curve sets against the schema, sheets
- * against their SHA-256) and only then written, in one transaction. It never overwrites:
- * new ids become new entries with their revision history; revisions of an id already in the
- * library are appended as new revisions unless the same content is already there.
+ * Export writes only what import will take: every revision passes the same gates the importer runs
+ * (schema, known units, a head curve, its SHA-256, `fail` findings only where the library accepted
+ * them, marked `accept_failing`). A damaged row stops the export with a sentence naming it, or, when
+ * asked, its entry is left out and named.
+ *
+ * Import streams: one line is read, checked and written at a time, so memory is bounded by one
+ * entry, whatever the file's size. All of it is written inside one IMMEDIATE transaction on its own
+ * connection, so it is all or nothing, even when the process is killed in the middle of the write;
+ * meanwhile the library stays readable, and writes from this process are refused with a sentence.
+ * It never overwrites: new ids become new entries with their revision history; revisions of an id
+ * already in the library are appended as new revisions unless the same content is already there.
  */
 import Database from 'better-sqlite3';
 import { z } from 'zod';
@@ -14,7 +21,11 @@ import { describeZodError } from '../model/errors.ts';
 import { LibraryError } from './errors.ts';
 import { isEntryId, isSha256 } from './ids.ts';
 import type { LibraryStore } from './store.ts';
-import { checkCurveSet, sha256Hex, type CheckedCurveSet } from './validate.ts';
+import { SheetStore } from './sheets.ts';
+import { prepareStatements, type RevisionFacts } from './storeSql.ts';
+import { storageFault } from './storage.ts';
+import { checkRevision, checkTakeoff, sha256Hex } from './validate.ts';
+import type { DamagedRow } from './dutySearch.ts';
 
 export const EXPORT_FORMAT = 'pumpscribe.library-export';
 export const EXPORT_VERSION = 1;
@@ -42,7 +53,9 @@ const EntryLine = z.strictObject({
   id: z.string().refine(isEntryId, 'must be 16 hex digits'),
   created_at: iso,
   archived_at: iso.nullable(),
-  revisions: z.array(z.strictObject({ revision: z.number().int().min(1), saved_at: iso, curveset: z.unknown() })).min(1),
+  revisions: z
+    .array(z.strictObject({ revision: z.number().int().min(1), saved_at: iso, accept_failing: z.boolean().optional(), curveset: z.unknown() }))
+    .min(1),
 });
 const AnyLine = z.discriminatedUnion('kind', [SheetLine, TakeoffLine, EntryLine]);
 
@@ -55,12 +68,38 @@ export interface ImportReport {
   takeoffs_added: number;
 }
 
+
+export interface ExportOptions {
+  /** Leave out (and name in `skipped`) entries with a damaged revision instead of refusing the export. */
+  skipDamaged?: boolean;
+  /** Filled with the rows left out. */
+  skipped?: DamagedRow[];
+}
+
+/** Why a stored revision could not be imported again, or null when it can. */
+export function exportProblem(body: string, sha256: string, acceptFailing: boolean): string | null {
+  if (sha256Hex(body) !== sha256) return 'its text no longer matches its SHA-256';
+  let value: unknown;
+  try {
+    value = JSON.parse(body);
+  } catch {
+    return 'its text is not valid JSON';
+  }
+  try {
+    checkRevision(value, { acceptFailing, what: 'it' });
+  } catch (error) {
+    return error instanceof Error ? error.message : String(error);
+  }
+  return null;
+}
+
 /**
  * The export as lines (each without its newline). Reads from its own connection inside one read
  * transaction, so the export is a consistent snapshot while the server keeps taking writes.
+ * Throws LibraryError (code `damaged-rows`) at the first row import would refuse, unless `skipDamaged`.
  */
-export function* exportLines(store: LibraryStore): Generator<string> {
-  const ownConnection = store.file !== ':memory:';
+export function* exportLines(store: LibraryStore, options: ExportOptions = {}): Generator<string> {
+  const ownConnection = store.file !== ':memory:' && !store.readonly;
   const db = ownConnection ? new Database(store.file, { readonly: true }) : store.db;
   try {
     if (ownConnection) db.exec('BEGIN');
@@ -78,33 +117,66 @@ export function* exportLines(store: LibraryStore): Generator<string> {
         takeoffs: count('SELECT count(*) AS n FROM takeoffs'),
       },
     });
+    const sheetsKept = new Set<string>();
     for (const s of db.prepare('SELECT sha256, name, media_type, stored_at, bytes FROM sheets ORDER BY stored_at, sha256').iterate() as Iterable<{
       sha256: string; name: string | null; media_type: string; stored_at: string; bytes: Buffer;
     }>) {
+      if (sha256Hex(s.bytes) !== s.sha256) {
+        if (!options.skipDamaged) throw damagedError(`sheet ${s.sha256}`, 'its bytes no longer match its SHA-256');
+        options.skipped?.push({ id: `sheet ${s.sha256}`, revision: 0, problem: 'its bytes no longer match its SHA-256' });
+        continue;
+      }
+      sheetsKept.add(s.sha256);
       yield JSON.stringify({ kind: 'sheet', sha256: s.sha256, name: s.name, media_type: s.media_type, stored_at: s.stored_at, data_base64: s.bytes.toString('base64') });
     }
     for (const t of db.prepare('SELECT id, sheet_sha256, name, saved_at, body FROM takeoffs ORDER BY saved_at, id').iterate() as Iterable<{
       id: string; sheet_sha256: string; name: string | null; saved_at: string; body: string;
     }>) {
+      let problem: string | null = sheetsKept.has(t.sheet_sha256) ? null : 'its sheet is missing or damaged';
+      if (!problem) {
+        try {
+          checkTakeoff(JSON.parse(t.body));
+        } catch (error) {
+          problem = error instanceof Error ? error.message : String(error);
+        }
+      }
+      if (problem) {
+        if (!options.skipDamaged) throw damagedError(`take-off file ${t.id}`, problem);
+        options.skipped?.push({ id: `take-off ${t.id}`, revision: 0, problem });
+        continue;
+      }
       yield `{"kind":"takeoff","id":${JSON.stringify(t.id)},"sheet_sha256":${JSON.stringify(t.sheet_sha256)},"name":${JSON.stringify(t.name)},"saved_at":${JSON.stringify(t.saved_at)},"body":${t.body}}`;
     }
     const rows = db
-      .prepare(`SELECT e.id, e.created_at, e.archived_at, r.revision, r.saved_at, r.body
-        FROM entries e JOIN revisions r ON r.entry_id = e.id ORDER BY e.key, r.revision`)
-      .iterate() as Iterable<{ id: string; created_at: string; archived_at: string | null; revision: number; saved_at: string; body: string }>;
+      .prepare(`SELECT e.id, e.created_at, e.archived_at, r.revision, r.saved_at, r.sha256, r.body, s.accepted_failing
+        FROM entries e JOIN revisions r ON r.entry_id = e.id
+        LEFT JOIN revision_summaries s ON s.entry_id = r.entry_id AND s.revision = r.revision
+        ORDER BY e.key, r.revision`)
+      .iterate() as Iterable<{ id: string; created_at: string; archived_at: string | null; revision: number; saved_at: string; sha256: string; body: string; accepted_failing: number | null }>;
     let currentId: string | null = null;
     let head = '';
     let parts: string[] = [];
+    let bad = false;
     for (const r of rows) {
       if (currentId !== r.id) {
-        if (currentId !== null) yield `${head}${parts.join(',')}]}`;
+        if (currentId !== null && !bad) yield `${head}${parts.join(',')}]}`;
         currentId = r.id;
+        bad = false;
         head = `{"kind":"entry","id":${JSON.stringify(r.id)},"created_at":${JSON.stringify(r.created_at)},"archived_at":${JSON.stringify(r.archived_at)},"revisions":[`;
         parts = [];
       }
-      parts.push(`{"revision":${r.revision},"saved_at":${JSON.stringify(r.saved_at)},"curveset":${r.body}}`);
+      if (bad) continue;
+      const accept = r.accepted_failing === 1;
+      const problem = exportProblem(r.body, r.sha256, accept);
+      if (problem) {
+        if (!options.skipDamaged) throw damagedError(`entry ${r.id} revision ${r.revision}`, problem);
+        options.skipped?.push({ id: r.id, revision: r.revision, problem });
+        bad = true;
+        continue;
+      }
+      parts.push(`{"revision":${r.revision},"saved_at":${JSON.stringify(r.saved_at)},${accept ? '"accept_failing":true,' : ''}"curveset":${r.body}}`);
     }
-    if (currentId !== null) yield `${head}${parts.join(',')}]}`;
+    if (currentId !== null && !bad) yield `${head}${parts.join(',')}]}`;
   } finally {
     if (ownConnection) {
       if (db.inTransaction) db.exec('COMMIT');
@@ -113,96 +185,122 @@ export function* exportLines(store: LibraryStore): Generator<string> {
   }
 }
 
-interface ParsedImport {
-  sheets: Array<z.infer<typeof SheetLine> & { bytes: Buffer }>;
-  takeoffs: Array<z.infer<typeof TakeoffLine>>;
-  entries: Array<{ id: string; created_at: string; archived_at: string | null; revisions: Array<{ savedAt: string; checked: CheckedCurveSet }> }>;
+function damagedError(what: string, problem: string): LibraryError {
+  return new LibraryError(
+    `The export stopped at ${what} (${problem.replace(/\.$/, '')}), so a backup written now could not be imported again; run "library verify" to list every damaged row, or export with --skip-damaged to leave those entries out.`,
+    'conflict',
+    'damaged-rows',
+  );
 }
 
 function lineError(n: number, text: string): LibraryError {
   return new LibraryError(`Line ${n} of the import: ${text} Nothing was imported.`, 'invalid');
 }
 
-/** Checks every line; throws LibraryError naming the first bad line. */
-export async function parseImport(lines: AsyncIterable<string> | Iterable<string>): Promise<ParsedImport> {
-  const out: ParsedImport = { sheets: [], takeoffs: [], entries: [] };
-  const seenIds = new Set<string>();
-  let n = 0;
-  let sawHeader = false;
-  for await (const raw of lines) {
-    n += 1;
-    const line = raw.trim();
-    if (!line) continue;
-    let value: unknown;
-    try {
-      value = JSON.parse(line);
-    } catch {
-      throw lineError(n, 'it is not valid JSON; each line of a library export is one JSON object.');
-    }
-    if (!sawHeader) {
-      const header = HeaderLine.safeParse(value);
-      if (!header.success) throw lineError(n, `the first line must be the export header with "format": "${EXPORT_FORMAT}".`);
-      if (header.data.version > EXPORT_VERSION) throw lineError(n, `the export has version ${header.data.version}, newer than this Pumpscribe reads (${EXPORT_VERSION}); update Pumpscribe.`);
-      sawHeader = true;
-      continue;
-    }
-    const parsed = AnyLine.safeParse(value);
-    if (!parsed.success) throw lineError(n, describeZodError(parsed.error, 'the record'));
-    const rec = parsed.data;
-    if (rec.kind === 'sheet') {
-      const bytes = Buffer.from(rec.data_base64, 'base64');
-      if (sha256Hex(bytes) !== rec.sha256) throw lineError(n, `the sheet's bytes do not match its SHA-256 ${rec.sha256}; the file is damaged.`);
-      out.sheets.push({ ...rec, bytes });
-    } else if (rec.kind === 'takeoff') {
-      out.takeoffs.push(rec);
-    } else {
-      if (seenIds.has(rec.id)) throw lineError(n, `entry ${rec.id} appears twice.`);
-      seenIds.add(rec.id);
-      const revisions = [...rec.revisions].sort((a, b) => a.revision - b.revision).map((r) => {
-        try {
-          return { savedAt: r.saved_at, checked: checkCurveSet(r.curveset, `Revision ${r.revision} of entry ${rec.id}`) };
-        } catch (error) {
-          throw lineError(n, error instanceof Error ? error.message : String(error));
-        }
-      });
-      out.entries.push({ id: rec.id, created_at: rec.created_at, archived_at: rec.archived_at, revisions });
-    }
-  }
-  if (!sawHeader) throw new LibraryError('The import is empty; give a file written by "library export".', 'invalid');
-  return out;
+export interface ImportOptions {
+  /** Take revisions with `fail` findings even when their line does not say `accept_failing`. */
+  acceptFailing?: boolean;
+  /** Called after each entry is written (progress). */
+  onEntry?: (count: number) => void;
 }
 
-/** Writes a checked import in one transaction. */
-export function applyImport(store: LibraryStore, data: ParsedImport): ImportReport {
+/**
+ * Reads, checks and writes an export line by line, all inside one transaction on its own connection.
+ * Throws LibraryError naming the first bad line; then nothing at all is written.
+ */
+export async function importLines(store: LibraryStore, lines: AsyncIterable<string> | Iterable<string>, options: ImportOptions = {}): Promise<ImportReport> {
+  store.beforeWrite();
   const report: ImportReport = { entries_created: 0, entries_extended: 0, revisions_added: 0, revisions_already_present: 0, sheets_added: 0, takeoffs_added: 0 };
-  const write = store.db.transaction(() => {
-    for (const s of data.sheets) {
-      if (store.sheets.put(s.bytes, s.name, s.stored_at).created) report.sheets_added += 1;
+  const ownConnection = store.file !== ':memory:';
+  let db: Database.Database;
+  try {
+    db = ownConnection ? new Database(store.file, { timeout: 10_000, fileMustExist: true }) : store.db;
+  } catch (error) {
+    throw storageFault(error, store.file) ?? error;
+  }
+  const stmts = prepareStatements(db);
+  const sheets = new SheetStore(db, store.now);
+  const seenIds = new Set<string>();
+  store.importing = true;
+  try {
+    if (ownConnection) {
+      db.pragma('synchronous = FULL');
+      db.pragma('foreign_keys = ON');
     }
-    for (const t of data.takeoffs) {
-      if (store.sheets.addTakeoff(t.sheet_sha256, t.body, t.name, t.id, t.saved_at).created) report.takeoffs_added += 1;
-    }
-    for (const e of data.entries) {
-      const known = store.revisionHashes(e.id);
-      if (known === null) {
-        store.insertImportedEntry(e.id, e.created_at, e.archived_at, e.revisions);
-        report.entries_created += 1;
-        report.revisions_added += e.revisions.length;
+    db.exec('BEGIN IMMEDIATE');
+    let n = 0;
+    let sawHeader = false;
+    for await (const raw of lines) {
+      n += 1;
+      const line = raw.trim();
+      if (!line) continue;
+      let value: unknown;
+      try {
+        value = JSON.parse(line);
+      } catch {
+        throw lineError(n, 'it is not valid JSON; each line of a library export is one JSON object.');
+      }
+      if (!sawHeader) {
+        const header = HeaderLine.safeParse(value);
+        if (!header.success) throw lineError(n, `the first line must be the export header with "format": "${EXPORT_FORMAT}".`);
+        if (header.data.version > EXPORT_VERSION) throw lineError(n, `the export has version ${header.data.version}, newer than this Pumpscribe reads (${EXPORT_VERSION}); update Pumpscribe.`);
+        sawHeader = true;
         continue;
       }
-      const fresh = e.revisions.filter((r) => !known.has(r.checked.sha256) && (known.add(r.checked.sha256), true));
-      report.revisions_already_present += e.revisions.length - fresh.length;
-      if (fresh.length) {
-        store.appendImportedRevisions(e.id, fresh);
-        report.entries_extended += 1;
-        report.revisions_added += fresh.length;
+      const parsed = AnyLine.safeParse(value);
+      if (!parsed.success) throw lineError(n, describeZodError(parsed.error, 'the record'));
+      const rec = parsed.data;
+      if (rec.kind === 'sheet') {
+        const bytes = Buffer.from(rec.data_base64, 'base64');
+        if (sha256Hex(bytes) !== rec.sha256) throw lineError(n, `the sheet's bytes do not match its SHA-256 ${rec.sha256}; the file is damaged.`);
+        if (sheets.put(bytes, rec.name, rec.stored_at).created) report.sheets_added += 1;
+      } else if (rec.kind === 'takeoff') {
+        try {
+          if (sheets.addTakeoff(rec.sheet_sha256, rec.body, rec.name, rec.id, rec.saved_at).created) report.takeoffs_added += 1;
+        } catch (error) {
+          if (!(error instanceof LibraryError)) throw error;
+          throw lineError(n, error.message);
+        }
+      } else {
+        if (seenIds.has(rec.id)) throw lineError(n, `entry ${rec.id} appears twice.`);
+        seenIds.add(rec.id);
+        const revisions = [...rec.revisions].sort((a, b) => a.revision - b.revision).map((r) => {
+          try {
+            const facts: RevisionFacts = checkRevision(r.curveset, {
+              what: `Revision ${r.revision} of entry ${rec.id}`,
+              acceptFailing: options.acceptFailing === true || r.accept_failing === true,
+              how: 'import with --accept-failing',
+            });
+            return { savedAt: r.saved_at, facts };
+          } catch (error) {
+            throw lineError(n, error instanceof Error ? error.message : String(error));
+          }
+        });
+        const known = store.revisionHashes(rec.id, stmts);
+        if (known === null) {
+          store.insertImportedEntry(stmts, rec.id, rec.created_at, rec.archived_at, revisions);
+          report.entries_created += 1;
+          report.revisions_added += revisions.length;
+        } else {
+          const fresh = revisions.filter((r) => !known.has(r.facts.sha256) && (known.add(r.facts.sha256), true));
+          report.revisions_already_present += revisions.length - fresh.length;
+          if (fresh.length) {
+            store.appendImportedRevisions(stmts, rec.id, fresh);
+            report.entries_extended += 1;
+            report.revisions_added += fresh.length;
+          }
+        }
+        options.onEntry?.(report.entries_created + report.entries_extended);
       }
     }
-  });
-  write.immediate();
-  return report;
-}
-
-export async function importLines(store: LibraryStore, lines: AsyncIterable<string> | Iterable<string>): Promise<ImportReport> {
-  return applyImport(store, await parseImport(lines));
+    if (!sawHeader) throw new LibraryError('The import is empty; give a file written by "library export".', 'invalid');
+    db.exec('COMMIT');
+    return report;
+  } catch (error) {
+    if (db.inTransaction) db.exec('ROLLBACK');
+    throw storageFault(error, store.file) ?? error;
+  } finally {
+    store.importing = false;
+    if (ownConnection && db.open) db.close();
+  }
 }

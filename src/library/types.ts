@@ -26,6 +26,11 @@ export interface EntryRow {
   bep_efficiency: number | null;
   search_text: string;
   updated_at: string;
+  fail_count: number;
+  warn_count: number;
+  fail_codes: string;
+  display_units_json: string;
+  slices_json: string;
 }
 
 /** The summary of an entry as the API and the CLI show it. */
@@ -46,6 +51,10 @@ export interface EntryInfo {
   created_at: string;
   updated_at: string;
   archived_at: string | null;
+  /** The display units the curve set was saved in (its own units). */
+  display_units: Record<string, string>;
+  /** Findings summary of the latest revision; a failing entry is marked and ranked last by duty search. */
+  findings: { fail_count: number; warn_count: number; fail_codes: string[] };
 }
 
 export interface SavedRevision {
@@ -66,6 +75,12 @@ export interface RevisionInfo {
   saved_at: string;
   sha256: string;
   bytes: number;
+  /** Findings summary kept with the revision: the stored findings and the checks run again on saving. */
+  fail_count: number;
+  warn_count: number;
+  fail_codes: string[];
+  /** True when the revision has `fail` findings and was kept because the caller accepted them. */
+  accepted_failing: boolean;
 }
 
 export function entryInfoOf(row: EntryRow): EntryInfo {
@@ -83,12 +98,22 @@ export function entryInfoOf(row: EntryRow): EntryInfo {
     type: row.pump_type,
     family: row.family,
     speed_rpm: row.speed_rpm,
-    diameters_m: JSON.parse(row.diameters_json) as number[],
+    diameters_m: parseOr(row.diameters_json, [] as number[]),
     flow_range_m3s: [row.flow_min_m3s, row.flow_max_m3s],
     head_range_m: [row.head_min_m, row.head_max_m],
     bep,
     created_at: row.created_at,
     updated_at: row.updated_at,
     archived_at: row.archived_at,
+    display_units: parseOr(row.display_units_json, {}),
+    findings: { fail_count: row.fail_count, warn_count: row.warn_count, fail_codes: parseOr(row.fail_codes, []) },
   };
+}
+
+function parseOr<T>(text: string, fallback: T): T {
+  try {
+    return JSON.parse(text) as T;
+  } catch {
+    return fallback;
+  }
 }

@@ -10,6 +10,8 @@ import { toCurveSet } from '../model/curvesetIO.ts';
 import { parseTakeoff, type Takeoff } from '../model/takeoff.ts';
 import { describeZodError } from '../model/errors.ts';
 import { LibraryError } from './errors.ts';
+import { checkFailing, checkSound, summarizeFindings } from './soundness.ts';
+import type { RevisionFacts } from './storeSql.ts';
 
 export interface CheckedCurveSet {
   set: CurveSet;
@@ -46,4 +48,17 @@ export function checkTakeoff(input: unknown, what = 'The take-off file'): Takeof
   } catch (error) {
     throw asLibraryError(error, what);
   }
+}
+
+/**
+ * Everything the library asks of a revision before it stores it: the schema, known units, a head
+ * curve, and no `fail` finding unless `acceptFailing` (see soundness.ts). Returns what is stored.
+ */
+export function checkRevision(input: unknown, options: { what?: string; acceptFailing?: boolean; how?: string } = {}): RevisionFacts {
+  const what = options.what ?? 'The curve set';
+  const checked = checkCurveSet(input, what);
+  checkSound(checked.set, what);
+  const findings = summarizeFindings(checked.set);
+  checkFailing(findings, options.acceptFailing === true, what, options.how);
+  return { ...checked, findings, acceptedFailing: findings.fail_count > 0 };
 }

@@ -36,6 +36,16 @@ export const ERROR_CODES = {
   'storage-busy': { status: 503, meaning: 'Another process holds the library file for writing; try again in a moment.' },
   'storage-io': { status: 503, meaning: 'The disk reported an input/output error while reading or writing the library file.' },
   'storage-full': { status: 507, meaning: 'The disk (or quota) holding the library file is full; nothing was stored.' },
+  // The library's own finer words (src/library/errors.ts), each with the status of its reason.
+  'revision-required': { status: 428, meaning: 'A new revision must name the revision it edits with If-Match: "<revision>".' },
+  'revision-stale': { status: 412, meaning: 'If-Match names a revision that is no longer the latest; reload the entry and save again. Nothing was stored.' },
+  'other-pump': { status: 409, meaning: 'The curve set is of another pump than the entry (maker, model, size or name differ); save it as a new entry, or add ?as_new_revision=true.' },
+  'failing-set': { status: 400, meaning: 'The curve set has fail findings; fix it, or add ?accept_failing=true to keep it marked as failing.' },
+  'unsound-set': { status: 400, meaning: 'The curve set has unknown units or no fitted head curve, so no duty could be checked against it.' },
+  'import-busy': { status: 409, meaning: 'An import is being written to this library; try again when it has finished.' },
+  'damaged-rows': { status: 409, meaning: 'The library holds damaged rows, so a backup written now could not be imported; run library verify, or export with --skip-damaged.' },
+  'storage-fault': { status: 503, meaning: 'The disk reported an input/output error on the library file; nothing was changed.' },
+  'unusable-file': { status: 500, meaning: 'The library file cannot be used (damaged, or not a Pumpscribe library).' },
   'sheet-quota-exceeded': { status: 507, meaning: "The library's quota for source sheets would be exceeded by this upload." },
 } as const satisfies Record<string, ErrorCodeInfo>;
 
@@ -83,6 +93,8 @@ const STORAGE_LOG: Partial<Record<ErrorCode, 'error' | 'warn'>> = {
   'storage-read-only': 'warn',
   'storage-busy': 'warn',
   'library-damaged': 'error',
+  'storage-fault': 'error',
+  'unusable-file': 'error',
   'sheet-quota-exceeded': 'warn',
 };
 

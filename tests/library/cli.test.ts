@@ -104,7 +104,10 @@ describe('pumpscribe library', async () => {
 
   it('update adds a revision, show prints it, and show --revision 1 the original', async () => {
     const renamed = file('mid2.curveset.json', inventedCurveSet({ ...FAMILIES.mid, name: 'Invented Mid, revised' }));
-    expect((await run('update', midId, renamed, '--library', lib)).out).toMatch(/revision 2/);
+    const refused = await run('update', midId, renamed, '--library', lib);
+    expect(refused.code).toBe(2);
+    expect(refused.err).toMatch(/^pumpscribe: The curve set is for "Invented Mid, revised".*--as-new-revision-of/);
+    expect((await run('add', renamed, '--as-new-revision-of', midId, '--library', lib)).out).toMatch(/revision 2/);
     expect(JSON.parse((await run('show', midId, '--library', lib)).out).pump.name).toBe('Invented Mid, revised');
     expect(JSON.parse((await run('show', midId, '--revision', '1', '--library', lib)).out)).toEqual(JSON.parse(readFileSync(mid, 'utf8')));
     expect((await run('revisions', midId, '--library', lib)).out).toMatch(/\n2 /);

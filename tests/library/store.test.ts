@@ -33,7 +33,8 @@ describe('library store', () => {
     expect(saved.revision).toBe(1);
     expect(JSON.parse(store.get(saved.id).body)).toEqual(set);
     const changed = { ...set, pump: { ...set.pump, name: 'Invented Mid, renamed' } };
-    expect(store.addRevision(saved.id, changed).revision).toBe(2);
+    expect(() => store.addRevision(saved.id, changed)).toThrow(/holds "Invented Mid 80-250"/);
+    expect(store.addRevision(saved.id, changed, { asNewRevision: true }).revision).toBe(2);
     expect(JSON.parse(store.get(saved.id).body).pump.name).toBe('Invented Mid, renamed');
     expect(JSON.parse(store.get(saved.id, 1).body)).toEqual(set);
     expect(store.revisions(saved.id).map((r) => r.revision)).toEqual([1, 2]);

@@ -1,7 +1,13 @@
 /**
  * /api/curvesets — entries, their revisions, archive and restore.
  * A curve set comes back as the exact stored JSON text; which entry and revision it is travels in
- * headers (X-Pumpscribe-Id, X-Pumpscribe-Revision, ETag "id:revision").
+ * headers (X-Pumpscribe-Id, X-Pumpscribe-Revision, ETag "<revision>").
+ *
+ * Writes guard identity: POST creates an entry; PUT adds a revision only with
+ * `If-Match: "<current revision>"` (missing → 428, stale → 412) and only for the same pump
+ * (maker, model, size and name; another pump → 409 unless `?as_new_revision=true`). A set with
+ * `fail` findings is kept only with `?accept_failing=true`. Every answer to a write is
+ * `{ id, revision, saved_at }` with `ETag: "<revision>"`; a refusal stores nothing.
  */
 import type { FastifyInstance, FastifyReply } from 'fastify';
 import type { LibraryStore } from '../../library/store.ts';
@@ -14,7 +20,7 @@ function sendStored(reply: FastifyReply, stored: StoredRevision): FastifyReply {
     .header('X-Pumpscribe-Id', stored.id)
     .header('X-Pumpscribe-Revision', String(stored.revision))
     .header('X-Pumpscribe-Saved-At', stored.saved_at)
-    .header('ETag', `"${stored.id}:${stored.revision}"`)
+    .header('ETag', `"${stored.revision}"`)
     .type('application/json; charset=utf-8');
   if (stored.archived_at) reply.header('X-Pumpscribe-Archived-At', stored.archived_at);
   return reply.send(stored.body);
@@ -35,16 +41,27 @@ export function curveSetRoutes(app: FastifyInstance, store: LibraryStore): void 
 
   app.post('/api/curvesets', async (request, reply) => {
     if (request.body === undefined || request.body === null) throw new LibraryError('Send the curve set as the JSON body.', 'invalid');
-    const saved = store.create(request.body);
-    return reply.code(201).header('Location', `/api/curvesets/${saved.id}`).send(saved);
+    const query = request.query as Query;
+    const saved = store.create(request.body, { acceptFailing: flag(query, 'accept_failing') === true });
+    return reply.code(201).header('Location', `/api/curvesets/${saved.id}`).header('ETag', `"${saved.revision}"`).send(saved);
   });
 
   app.get<{ Params: { id: string } }>('/api/curvesets/:id', async (request, reply) => sendStored(reply, store.get(request.params.id)));
 
-  app.put<{ Params: { id: string } }>('/api/curvesets/:id', async (request) => {
-    if (request.body === undefined || request.body === null) throw new LibraryError('Send the curve set as the JSON body.', 'invalid');
+  app.put<{ Params: { id: string } }>('/api/curvesets/:id', async (request, reply) => {
+    const query = request.query as Query;
+    const asNewRevision = flag(query, 'as_new_revision') === true;
+    const acceptFailing = flag(query, 'accept_failing') === true;
     const expected = expectedRevision(request.headers['if-match']);
-    return store.addRevision(request.params.id, request.body, expected === undefined ? {} : { expectedRevision: expected });
+    if (expected === undefined) {
+      throw new LibraryError(
+        'Say which revision you edited with an If-Match header (If-Match: "3", the ETag you were given), so that nobody else\'s save is overwritten unknowingly; nothing was stored.',
+        'precondition-required',
+      );
+    }
+    if (request.body === undefined || request.body === null) throw new LibraryError('Send the curve set as the JSON body.', 'invalid');
+    const saved = store.addRevision(request.params.id, request.body, { expectedRevision: expected, asNewRevision, acceptFailing });
+    return reply.header('ETag', `"${saved.revision}"`).send(saved);
   });
 
   app.get<{ Params: { id: string } }>('/api/curvesets/:id/summary', async (request) => store.info(request.params.id));

@@ -8,12 +8,16 @@ import type { LibraryStore } from '../../library/store.ts';
 import { LibraryError } from '../../library/errors.ts';
 import { linesOf } from '../../library/lines.ts';
 import { exportLines, importLines } from '../../library/transfer.ts';
+import { flag, type Query } from '../query.ts';
 
 export const NDJSON_TYPES = ['application/x-ndjson', 'application/jsonl', 'application/jsonlines'];
 
 export function transferRoutes(app: FastifyInstance, store: LibraryStore, importLimit: number): void {
   app.get('/api/library/export', async (_request, reply) => {
     const stamp = store.now().slice(0, 10);
+    // Every row is checked before the first byte is sent, so a refusal (damaged rows) is a clean
+    // error reply rather than a cut-off backup that could not be imported.
+    for (const _line of exportLines(store)) void _line;
     const lines = exportLines(store);
     const body = Readable.from(
       (function* () {
@@ -35,7 +39,8 @@ export function transferRoutes(app: FastifyInstance, store: LibraryStore, import
       }
       try {
         // Keep the request stream alive when reading stops early, so that the error reply still reaches the client.
-        return await importLines(store, linesOf(payload.iterator({ destroyOnReturn: false }), importLimit));
+        const acceptFailing = flag(request.query as Query, 'accept_failing') === true;
+        return await importLines(store, linesOf(payload.iterator({ destroyOnReturn: false }), importLimit), { acceptFailing });
       } catch (error) {
         if (error instanceof LibraryError && error.reason === 'too-large') reply.header('Connection', 'close');
         else payload.resume();
