@@ -45,7 +45,6 @@ export const ERROR_CODES = {
   'import-busy': { status: 409, meaning: 'An import is being written to this library; try again when it has finished.' },
   'damaged-rows': { status: 409, meaning: 'The library holds damaged rows, so a backup written now could not be imported; run library verify, or export with --skip-damaged.' },
   'storage-fault': { status: 503, meaning: 'The disk reported an input/output error on the library file; nothing was changed.' },
-  'unusable-file': { status: 500, meaning: 'The library file cannot be used (damaged, or not a Pumpscribe library).' },
   'sheet-quota-exceeded': { status: 507, meaning: "The library's quota for source sheets would be exceeded by this upload." },
 } as const satisfies Record<string, ErrorCodeInfo>;
 
@@ -94,7 +93,6 @@ const STORAGE_LOG: Partial<Record<ErrorCode, 'error' | 'warn'>> = {
   'storage-busy': 'warn',
   'library-damaged': 'error',
   'storage-fault': 'error',
-  'unusable-file': 'error',
   'sheet-quota-exceeded': 'warn',
 };
 

@@ -37,7 +37,7 @@ describe('library API', () => {
     const ids: string[] = [];
     for (const s of sets) ids.push((await postJson(`${server.url}/api/curvesets`, s)).body.id);
     const renamed = { ...sets[1]!, pump: { ...sets[1]!.pump, name: 'Invented Mid, second revision' } };
-    await postJson(`${server.url}/api/curvesets/${ids[1]}`, renamed, 'PUT');
+    await postJson(`${server.url}/api/curvesets/${ids[1]}?as_new_revision=true`, renamed, 'PUT', { 'if-match': '"1"' });
     const before = await Promise.all(ids.map(async (id) => (await json(`${server.url}/api/curvesets/${id}`)).text));
 
     await server.close();
@@ -50,14 +50,14 @@ describe('library API', () => {
     expect(JSON.parse((await json(`${server.url}/api/curvesets/${ids[1]}/revisions/1`)).text)).toEqual(sets[1]);
   });
 
-  it('PUT adds a revision, the revisions list grows, and a stale If-Match gets 409', async () => {
+  it('PUT adds a revision, the revisions list grows, and a stale If-Match gets 412', async () => {
     const set = inventedCurveSet(FAMILIES.small);
     const { id } = (await postJson(`${server.url}/api/curvesets`, set)).body;
     const put = await postJson(`${server.url}/api/curvesets/${id}`, set, 'PUT', { 'if-match': '"1"' });
     expect(put.status).toBe(200);
     expect(put.body).toMatchObject({ id, revision: 2 });
     const stale = await postJson(`${server.url}/api/curvesets/${id}`, set, 'PUT', { 'if-match': '"1"' });
-    expect(stale.status).toBe(409);
+    expect(stale.status).toBe(412);
     expect(stale.body.error).toMatch(/revision 2/);
     const revs = await json(`${server.url}/api/curvesets/${id}/revisions`);
     expect(revs.body.revisions.map((r: { revision: number }) => r.revision)).toEqual([1, 2]);

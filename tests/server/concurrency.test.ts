@@ -26,7 +26,7 @@ function revisionsAreComplete(id: string, count: number): void {
 }
 
 describe('concurrent writers', () => {
-  it('200 concurrent POST and PUT requests all leave their revisions', async () => {
+  it('200 concurrent POST and PUT requests: every POST is kept, and of the PUTs naming one revision exactly one wins, the rest get 412 and store nothing', async () => {
     const base = inventedCurveSet(FAMILIES.mid);
     const targets: string[] = [];
     for (let i = 0; i < 10; i++) targets.push((await postJson(`${server.url}/api/curvesets`, base)).body.id);
@@ -36,24 +36,26 @@ describe('concurrent writers', () => {
       const set = { ...base, pump: { ...base.pump, name: `Invented concurrent ${i}` } };
       requests.push(postJson(`${server.url}/api/curvesets`, set));
       const target = targets[i % targets.length] as string;
-      requests.push(postJson(`${server.url}/api/curvesets/${target}`, { ...set, pump: { ...set.pump, name: `Invented put ${i}` } }, 'PUT'));
+      const put = { ...set, pump: { ...set.pump, name: `Invented put ${i}` } };
+      requests.push(postJson(`${server.url}/api/curvesets/${target}?as_new_revision=true`, put, 'PUT', { 'if-match': '"1"' }));
     }
     const replies = await Promise.all(requests);
-    expect(replies.filter((r) => r.status !== 201 && r.status !== 200)).toEqual([]);
+    expect(replies.filter((r) => r.status !== 201 && r.status !== 200 && r.status !== 412)).toEqual([]);
 
     const created = replies.filter((r) => r.status === 201).map((r) => r.body.id as string);
     expect(new Set(created).size).toBe(100);
     for (const id of created) revisionsAreComplete(id, 1);
-    for (const id of targets) revisionsAreComplete(id, 11);
-    // Each PUT reply names a distinct revision of its target.
-    const putRevisions = replies.filter((r) => r.status === 200).map((r) => `${r.body.id}:${r.body.revision}`);
-    expect(new Set(putRevisions).size).toBe(100);
-    // Every PUT's content is kept under the revision its reply named.
-    for (const r of replies.filter((x) => x.status === 200)) {
+    // No lost update: one PUT per target wins revision 2; every other one was refused.
+    const won = replies.filter((r) => r.status === 200);
+    expect(won.map((r) => r.body.id).sort()).toEqual([...targets].sort());
+    expect(replies.filter((r) => r.status === 412)).toHaveLength(90);
+    for (const id of targets) revisionsAreComplete(id, 2);
+    for (const r of won) {
+      expect(r.body.revision).toBe(2);
       const stored = JSON.parse(server.store.get(r.body.id, r.body.revision).body);
       expect(stored.pump.name).toMatch(/^Invented put \d+$/);
     }
-    expect(server.store.counts()).toMatchObject({ entries: 110, revisions: 210 });
+    expect(server.store.counts()).toMatchObject({ entries: 110, revisions: 120 });
   });
 
   it('a writer in another process and the server never lose a revision of the same entry', async () => {

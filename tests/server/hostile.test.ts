@@ -67,7 +67,7 @@ describe('hostile and malformed requests', () => {
     expect((await postJson(url, negative)).status).toBe(400);
     const extraKey = { ...inventedCurveSet(FAMILIES.small), injected: '<script>' };
     expect((await postJson(url, extraKey)).status).toBe(400);
-    expect((await postJson(`${url}/${keep.body.id}`, { nope: 1 }, 'PUT')).status).toBe(400);
+    expect((await postJson(`${url}/${keep.body.id}`, { nope: 1 }, 'PUT', { 'if-match': '"1"' })).status).toBe(400);
     expect(({} as Record<string, unknown>).admin).toBeUndefined();
     expect(snapshot()).toEqual(before);
   });

@@ -69,7 +69,7 @@ describe('moving a whole library as JSON Lines', () => {
     await postJson(`${server.url}/api/sheets/${sha}/takeoffs`, TAKEOFF);
     const a = (await postJson(`${server.url}/api/curvesets`, inventedCurveSet(FAMILIES.small))).body.id;
     const b = (await postJson(`${server.url}/api/curvesets`, inventedCurveSet(FAMILIES.mid))).body.id;
-    await postJson(`${server.url}/api/curvesets/${b}`, inventedCurveSet({ ...FAMILIES.mid, name: 'Invented Mid r2' }), 'PUT');
+    await postJson(`${server.url}/api/curvesets/${b}?as_new_revision=true`, inventedCurveSet({ ...FAMILIES.mid, name: 'Invented Mid r2' }), 'PUT', { 'if-match': '"1"' });
     await json(`${server.url}/api/curvesets/${a}`, { method: 'DELETE', headers: { 'content-type': 'application/json' } });
 
     const exported = await fetch(`${server.url}/api/library/export`);
@@ -102,8 +102,8 @@ describe('moving a whole library as JSON Lines', () => {
     const other = await startTestServer(join(tmp.dir, 'other.sqlite'));
     try {
       await json(`${other.url}/api/library/import`, { method: 'POST', headers: { 'content-type': 'application/x-ndjson' }, body: text });
-      await postJson(`${other.url}/api/curvesets/${id}`, inventedCurveSet({ ...FAMILIES.small, name: 'Invented Small, edited elsewhere' }), 'PUT');
-      await postJson(`${server.url}/api/curvesets/${id}`, inventedCurveSet({ ...FAMILIES.small, name: 'Invented Small, edited here' }), 'PUT');
+      await postJson(`${other.url}/api/curvesets/${id}?as_new_revision=true`, inventedCurveSet({ ...FAMILIES.small, name: 'Invented Small, edited elsewhere' }), 'PUT', { 'if-match': '"1"' });
+      await postJson(`${server.url}/api/curvesets/${id}?as_new_revision=true`, inventedCurveSet({ ...FAMILIES.small, name: 'Invented Small, edited here' }), 'PUT', { 'if-match': '"1"' });
       const back = await (await fetch(`${server.url}/api/library/export`)).text();
       const res = await json(`${other.url}/api/library/import`, { method: 'POST', headers: { 'content-type': 'application/x-ndjson' }, body: back });
       expect(res.body).toMatchObject({ entries_extended: 1, revisions_added: 1, revisions_already_present: 1 });

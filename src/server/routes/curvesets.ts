@@ -53,7 +53,9 @@ export function curveSetRoutes(app: FastifyInstance, store: LibraryStore): void 
     const asNewRevision = flag(query, 'as_new_revision') === true;
     const acceptFailing = flag(query, 'accept_failing') === true;
     const expected = expectedRevision(request.headers['if-match']);
+    // An unknown entry is a 404 whatever the headers say; only then is the revision asked for.
     if (expected === undefined) {
+      store.info(request.params.id);
       throw new LibraryError(
         'Say which revision you edited with an If-Match header (If-Match: "3", the ETag you were given), so that nobody else\'s save is overwritten unknowingly; nothing was stored.',
         'precondition-required',
