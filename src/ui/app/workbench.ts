@@ -41,6 +41,7 @@ import { DerivedState } from './derive.ts';
 import { bindKeys, SHORTCUTS } from './keys.ts';
 import { SheetFlow } from './sheetFlow.ts';
 import { Downloads } from './downloads.ts';
+import { downloadRecord } from '../views/recordDownload.ts';
 
 export class Workbench implements Bench, ToolHost {
   readonly store = new Store();
@@ -287,6 +288,10 @@ export class Workbench implements Bench, ToolHost {
   setDuty(patch: Partial<DutyForm>): void {
     this.dutyForm = { ...this.dutyForm, ...patch };
     this.requestRender();
+  }
+
+  downloadRecord(paper: 'a4' | 'letter'): void {
+    void downloadRecord({ store: this.store, derived: this.derived, outcome: this.duty.outcome, sheetBytes: this.flow.sheetBytes }, paper);
   }
 
   // ── commands the views call ────────────────────────────────────────────────
