@@ -49,6 +49,17 @@ describe('the selection record in the workbench', () => {
       const cells = rows.nth(i).locator('td');
       shown.push((await cells.nth(1).textContent()) ?? '', (await cells.nth(2).textContent()) ?? '', (await rows.nth(i).locator('td.motor').textContent()) ?? '');
     }
+    // The study on the sheet, switched on and off: the sheet's picture changes and comes back.
+    const stage = page.locator('.stage');
+    const before = await stage.screenshot();
+    await user.click(page.locator('#record-overlay'), 'show the study on the sheet');
+    await page.waitForTimeout(500);
+    const on = await stage.screenshot();
+    await user.screenshot('record-overlay-on');
+    expect(on.equals(before)).toBe(false);
+    await user.click(page.locator('#record-overlay'), 'hide the study on the sheet');
+    await page.waitForTimeout(500);
+    expect((await stage.screenshot()).equals(before)).toBe(true);
     const t0 = Date.now();
     const [download] = await Promise.all([page.waitForEvent('download', { timeout: 60_000 }), user.click(page.locator('#record-a4'), 'download the selection record')]);
     const file = join(dir, download.suggestedFilename());

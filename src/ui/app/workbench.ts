@@ -42,6 +42,7 @@ import { bindKeys, SHORTCUTS } from './keys.ts';
 import { SheetFlow } from './sheetFlow.ts';
 import { Downloads } from './downloads.ts';
 import { downloadRecord } from '../views/recordDownload.ts';
+import { paintStudyOverlay, studyOverlay } from '../views/recordOverlay.ts';
 
 export class Workbench implements Bench, ToolHost {
   readonly store = new Store();
@@ -85,7 +86,7 @@ export class Workbench implements Bench, ToolHost {
         this.parts.top,
         h('div', { class: 'main' }, this.parts.side, h('section', { class: 'stage-wrap' }, stage, this.parts.empty, this.parts.chart, this.parts.keys)),
         this.parts.status));
-    this.canvas = new SheetCanvas(stage, this.worker, (ctx, view) =>
+    this.canvas = new SheetCanvas(stage, this.worker, (ctx, view) => {
       paintScene(ctx, view, {
         draft: this.store.draft,
         session: this.store.session,
@@ -94,8 +95,9 @@ export class Workbench implements Bench, ToolHost {
         preview: this.preview,
         pendingGuides: this.pending,
         proposals: this.sceneProposals(),
-      }),
-    );
+      });
+      if (this.studyOnSheet && this.store.session.step === 'review') paintStudyOverlay(ctx, view, studyOverlay(this.derived.takeoff, this.dutyResult()));
+    });
     this.magnifier = new Magnifier(stage, this.canvas);
     this.tools = { frame: new FrameTool(this), anchor: new AnchorTool(this), trace: new TraceTool(this), pick: new PickTool(this) };
     this.canvas.setInput({
@@ -288,6 +290,18 @@ export class Workbench implements Bench, ToolHost {
   setDuty(patch: Partial<DutyForm>): void {
     this.dutyForm = { ...this.dutyForm, ...patch };
     this.requestRender();
+  }
+
+  studyOnSheet = false;
+
+  showStudyOnSheet(on: boolean): void {
+    this.studyOnSheet = on;
+    this.requestRender();
+  }
+
+  private dutyResult() {
+    const o = this.duty.outcome;
+    return o && 'result' in o ? o.result : null;
   }
 
   downloadRecord(paper: 'a4' | 'letter'): void {

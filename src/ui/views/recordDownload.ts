@@ -19,6 +19,9 @@ export function recordButtons(bench: Bench): HTMLElement | null {
   return h('div', { class: 'record-download' },
     h('h4', null, 'Selection record'),
     h('p', { class: 'hint' }, 'A PDF to file with the project: the sheet with the system curves and operating points drawn on it, the ranked options, the family chart, the findings, NPSH and motor with their cautions, and the provenance.'),
+    h('label', { class: 'toggle' },
+      h('input', { type: 'checkbox', id: 'record-overlay', checked: bench.studyOnSheet, onchange: (e: Event) => bench.showStudyOnSheet((e.target as HTMLInputElement).checked) }),
+      ' Show the study on the sheet (system curves, operating points, duty flow)'),
     h('button', { type: 'button', id: 'record-a4', onclick: () => bench.downloadRecord('a4') }, 'Selection record (A4)'),
     h('button', { type: 'button', id: 'record-letter', onclick: () => bench.downloadRecord('letter') }, 'Selection record (US Letter)'));
 }
