@@ -50,6 +50,7 @@ const COMMANDS: Record<string, () => Promise<Partial<CommandModule>>> = {
   scale: () => import('./commands/scale.ts'),
   serve: () => import('./commands/serve.ts'),
   start: () => import('./commands/start.ts'),
+  study: () => import('./commands/study.ts'),
   takeoff: () => import('./commands/takeoff.ts'),
 };
 

@@ -454,6 +454,11 @@ function npshMotorPages(w: Writer, input: RecordInput) {
   w.para(`Caution (motor): ${MOTOR_CAUTION}`, { font: w.bold, size: 8.5 });
 }
 
+/** A residual to three significant figures; below 0.001 it is written as such (exact anchors leave rounding noise). */
+function small(v: number): string {
+  return Math.abs(v) < 0.001 ? 'below 0.001' : formatNumber(v, 3);
+}
+
 function provenancePages(w: Writer, input: RecordInput) {
   w.newPage('Provenance');
   const { sheet, takeoff, curveSet } = input;
@@ -462,7 +467,7 @@ function provenancePages(w: Writer, input: RecordInput) {
   w.para(`Take-off: ${takeoff.name}${takeoff.date ? `, dated ${takeoff.date}` : ''}; curve set replayed ${curveSet.provenance.created}.`);
   w.para('Calibration of each panel (anchor residuals):', { font: w.bold });
   for (const [id, cal] of input.calibrations) {
-    w.para(`${id}: ${cal.method} fit, ${cal.residuals.length} anchors, rms ${formatNumber(cal.rmsSheet, 3)} and largest ${formatNumber(cal.maxSheet, 3)} sheet units, largest ${formatNumber(cal.maxPercentOfSpan, 3)} % of span${cal.warnings.length ? ` (${cal.warnings.join(' ')})` : ''}.`, { indent: 8, size: 8.5 });
+    w.para(`${id}: ${cal.method} fit, ${cal.residuals.length} anchors, rms ${small(cal.rmsSheet)} and largest ${small(cal.maxSheet)} sheet units, largest ${small(cal.maxPercentOfSpan)} % of span${cal.warnings.length ? ` (${cal.warnings.join(' ')})` : ''}.`, { indent: 8, size: 8.5 });
   }
   w.para(`Study: ${input.view.study.file}. Made by ${TOOL_NAME} ${TOOL_VERSION}${input.created ? ` on ${input.created}` : ''}.`);
   w.para(`Caution: ${PRELIMINARY}`, { font: w.bold, size: 8.5 });
