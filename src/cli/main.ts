@@ -46,6 +46,7 @@ const COMMANDS: Record<string, () => Promise<Partial<CommandModule>>> = {
   export: () => import('./commands/export.ts'),
   library: () => import('./commands/library.ts'),
   panels: () => import('./commands/panels.ts'),
+  report: () => import('./commands/report.ts'),
   scale: () => import('./commands/scale.ts'),
   study: () => import('./commands/study.ts'),
   serve: () => import('./commands/serve.ts'),

@@ -16,7 +16,7 @@ import { importSpecifiers } from '../../src/server/importGraph.ts';
 const ROOT = resolve(import.meta.dirname, '..', '..');
 
 type Layer = 'core' | 'ui' | 'edge' | 'other';
-const CORE = ['units', 'model', 'fit', 'physics', 'duty', 'export', 'demo', 'study', 'digitize'];
+const CORE = ['units', 'model', 'fit', 'physics', 'duty', 'export', 'demo', 'study', 'record', 'digitize'];
 const EDGE = ['cli', 'server', 'library'];
 
 export function layerOf(path: string): Layer {

@@ -65,6 +65,11 @@ export interface Bench {
   /** The duty check of the review: what was typed and what it gave. */
   readonly duty: { form: DutyForm; outcome: DutyOutcome };
   setDuty(patch: Partial<DutyForm>): void;
+  /** Makes the selection record (study on the sheet, PDF) and downloads it. */
+  downloadRecord(paper: 'a4' | 'letter'): void;
+  /** Whether the study is drawn on the sheet, and switching it. */
+  readonly studyOnSheet: boolean;
+  showStudyOnSheet(on: boolean): void;
   /** Anchors proposed from the sheet's text for a panel, if any. */
   proposalFor(panelId: string): AnchorProposal | null;
   useProposal(panelId: string): void;

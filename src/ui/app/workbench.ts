@@ -36,6 +36,8 @@ import { DerivedState } from './derive.ts';
 import { bindKeys, SHORTCUTS } from './keys.ts';
 import { SheetFlow } from './sheetFlow.ts';
 import { Downloads } from './downloads.ts';
+import { downloadRecord } from '../views/recordDownload.ts';
+import { paintStudyOverlay, studyOverlay } from '../views/recordOverlay.ts';
 
 export class Workbench implements Bench {
   readonly store = new Store();
@@ -74,7 +76,7 @@ export class Workbench implements Bench {
         this.parts.top,
         h('div', { class: 'main' }, this.parts.side, h('section', { class: 'stage-wrap' }, stage, this.parts.empty, this.parts.chart, this.parts.keys)),
         this.parts.status));
-    this.canvas = new SheetCanvas(stage, this.worker, (ctx, view) =>
+    this.canvas = new SheetCanvas(stage, this.worker, (ctx, view) => {
       paintScene(ctx, view, {
         draft: this.store.draft,
         session: this.store.session,
@@ -85,8 +87,9 @@ export class Workbench implements Bench {
         pendingGuides: (this.sheetTools as SheetTools | undefined)?.pending ?? [],
         proposals: this.sceneProposals(),
         layers: stepDefinition(this.store.session.step).layers,
-      }),
-    );
+      });
+      if (this.studyOnSheet && this.store.session.step === 'review') paintStudyOverlay(ctx, view, studyOverlay(this.derived.takeoff, this.dutyResult()));
+    });
     this.magnifier = new Magnifier(stage, this.canvas);
     const bench = this;
     this.sheetTools = new SheetTools({
@@ -300,6 +303,22 @@ export class Workbench implements Bench {
   setDuty(patch: Partial<DutyForm>): void {
     this.dutyForm = { ...this.dutyForm, ...patch };
     this.requestRender();
+  }
+
+  studyOnSheet = false;
+
+  showStudyOnSheet(on: boolean): void {
+    this.studyOnSheet = on;
+    this.requestRender();
+  }
+
+  private dutyResult() {
+    const o = this.duty.outcome;
+    return o && 'result' in o ? o.result : null;
+  }
+
+  downloadRecord(paper: 'a4' | 'letter'): void {
+    void downloadRecord({ store: this.store, derived: this.derived, outcome: this.duty.outcome, sheetBytes: this.flow.sheetBytes }, paper);
   }
 
   // ── commands the views call ────────────────────────────────────────────────

@@ -11,6 +11,7 @@ import { traceName } from '../store/actions/traces.ts';
 import { powerUnit, type Draft } from '../store/draft.ts';
 import { chartUnits } from './familyChart.ts';
 import { dutyPanel } from './dutyPanel.ts';
+import { recordButtons } from './recordDownload.ts';
 import { num, SAFETY_SENTENCE, unitText } from './words.ts';
 
 const SEVERITY_WORDS = { fail: 'Fails', warn: 'Check', note: 'Note' } as const;
@@ -84,6 +85,7 @@ export function reviewStep(bench: Bench): HTMLElement {
           h('td', null, m.derived.bep ? num(fromSI(m.derived.bep.head_m, u.head)) : '—'),
           h('td', null, m.derived.bep ? num(m.derived.bep.efficiency * 100, 3) : '—'))))),
     dutyPanel(bench.duty.form, bench.duty.outcome, session.unitSystem, (patch) => bench.setDuty(patch)),
+    recordButtons(bench),
     derived.omitted.length ? h('div', { class: 'omitted' }, h('h4', null, 'Left out for now'), h('ul', null, derived.omitted.map((o) => h('li', null, o)))) : null,
   );
 }

@@ -1,0 +1,139 @@
+/**
+ * The selection record of an invented vector sheet and an invented scan: rendered to PNG by
+ * pdftoppm (poppler-utils; CI must install it), opened by pdf.js without warnings, its text read
+ * back and the figures it shows found in it; made in under 3 s for a four-panel sheet.
+ */
+import { describe, expect, it } from 'vitest';
+import { spawnSync } from 'node:child_process';
+import { existsSync, mkdtempSync, readdirSync, readFileSync, statSync, writeFileSync } from 'node:fs';
+import { createRequire } from 'node:module';
+import { tmpdir } from 'node:os';
+import { dirname, join, resolve } from 'node:path';
+import { makeRecord } from '../../src/record/makeRecord.ts';
+import { PAPER } from '../../src/record/recordPdf.ts';
+import { stringifyCurveSet } from '../../src/model/curvesetIO.ts';
+import { formatNumber } from '../../src/units/index.ts';
+import { studyView } from '../../src/study/view.ts';
+import { studyUnitSystem } from '../../src/study/resolve.ts';
+import { sample, SHEETS, SI_STUDY } from './samples.ts';
+
+const dir = mkdtempSync(join(tmpdir(), 'pumpscribe-record-'));
+const pdftoppm = spawnSync('pdftoppm', ['-v'], { encoding: 'utf8' }).error === undefined;
+if (!pdftoppm) console.warn('pdftoppm is not installed: the PNG rendering checks are skipped. Install poppler-utils (apt-get install -y poppler-utils); CI must install it.');
+
+async function record(name: string, paper: 'a4' | 'letter' = 'a4') {
+  const s = await sample(name);
+  const input = {
+    takeoff: s.takeoff,
+    takeoffName: `${name}.takeoff.json`,
+    sheet: { bytes: s.sheetBytes, name: s.sheetName, sha256: s.sha256, page: 1, width: s.width, height: s.height },
+    calibrations: s.replay.calibrations,
+    curveSet: s.replay.curveSet,
+    result: s.result,
+    studyFile: 'record-test.study.json',
+    paper,
+    created: '2026-01-01T00:00:00.000Z',
+  };
+  await makeRecord(input); // warm: modules and fonts load once per process
+  const t0 = performance.now();
+  const made = await makeRecord(input);
+  return { s, made, ms: performance.now() - t0 };
+}
+
+async function pdfText(bytes: Uint8Array): Promise<{ pages: number; text: string; warnings: string[]; sizes: [number, number][] }> {
+  const pdfjs = await import('pdfjs-dist/legacy/build/pdf.mjs');
+  const root = dirname(createRequire(import.meta.url).resolve('pdfjs-dist/package.json'));
+  const warnings: string[] = [];
+  const log = console.log;
+  const warn = console.warn;
+  console.log = (...a: unknown[]) => warnings.push(a.join(' '));
+  console.warn = (...a: unknown[]) => warnings.push(a.join(' '));
+  try {
+    const doc = await pdfjs.getDocument({ data: bytes.slice(), standardFontDataUrl: `${join(root, 'standard_fonts')}/`, verbosity: 1 }).promise;
+    let text = '';
+    const sizes: [number, number][] = [];
+    for (let i = 1; i <= doc.numPages; i++) {
+      const page = await doc.getPage(i);
+      const vp = page.getViewport({ scale: 1 });
+      sizes.push([vp.width, vp.height]);
+      await page.getOperatorList(); // parses every drawing operator: broken content would warn here
+      const tc = await page.getTextContent();
+      text += `${tc.items.map((it) => ('str' in it ? it.str : '')).join(' ')}\n`;
+    }
+    await doc.destroy();
+    return { pages: doc.numPages, text, warnings, sizes };
+  } finally {
+    console.log = log;
+    console.warn = warn;
+  }
+}
+
+describe.each([
+  ['si-panels-black', 'vector'],
+  ['si-panels-colour-scan', 'scan'],
+])('record of %s (%s)', (name) => {
+  it('is made in under 3 s, opens in pdf.js without warnings, and its text holds the figures it shows', async () => {
+    const { s, made, ms } = await record(name);
+    console.log(`record of ${name}: ${made.pdf.length} bytes in ${ms.toFixed(0)} ms`);
+    expect(ms).toBeLessThan(3000);
+    const file = join(dir, `${name}.pdf`);
+    writeFileSync(file, made.pdf);
+    const got = await pdfText(made.pdf);
+    expect(got.warnings).toEqual([]);
+    expect(got.pages).toBeGreaterThanOrEqual(5);
+    for (const size of got.sizes) expect(size.map(Math.round)).toEqual(PAPER.a4.map(Math.round));
+    const v = studyView(s.result, studyUnitSystem(s.result.study), { file: 'x' });
+    const text = got.text.replace(/\s+/g, ' ');
+    for (const o of v.options) {
+      expect(text).toContain(o.name);
+      expect(text).toContain(formatNumber(o.flow as number, 4)); // operating (duty) flow
+      expect(text).toContain(formatNumber(o.head as number, 4)); // head at the duty
+      expect(text).toContain(o.motor_rating as string); // motor rating
+      const op = o.operating_points.high_static;
+      if (op) expect(text).toContain(`${formatNumber(op.flow as number, 4)} m³/h at ${formatNumber(op.head as number, 4)} m`);
+    }
+    expect(text).toContain(s.sha256);
+    expect(text).toMatch(/verify against certified data and local codes; a licensed professional approves/);
+    // The caution stands on every page.
+    expect(got.text.split('\n').filter((p) => p.includes('a licensed professional approves')).length).toBe(got.pages);
+    if (!pdftoppm) return;
+    const r = spawnSync('pdftoppm', ['-r', '50', '-png', file, join(dir, name)], { encoding: 'utf8' });
+    expect(r.status, r.stderr).toBe(0);
+    expect(r.stderr).toBe('');
+    const pngs = readdirSync(dir).filter((f) => f.startsWith(name) && f.endsWith('.png'));
+    expect(pngs.length).toBe(got.pages);
+    for (const p of pngs) expect(statSync(join(dir, p)).size).toBeGreaterThan(2000);
+  }, 120_000);
+});
+
+it('is made on US Letter when asked', async () => {
+  const { made } = await record('si-panels-black', 'letter');
+  const got = await pdfText(made.pdf);
+  for (const size of got.sizes) expect(size).toEqual([...PAPER.letter]);
+}, 120_000);
+
+describe('pumpscribe report', () => {
+  const run = (...args: string[]) => {
+    const r = spawnSync(process.execPath, [join('node_modules', 'tsx', 'dist', 'cli.mjs'), 'src/cli/main.ts', ...args], { encoding: 'utf8' });
+    return { code: r.status, out: r.stdout, err: r.stderr };
+  };
+  it('writes the record of a take-off and a study', async () => {
+    const s = await sample('si-panels-black');
+    writeFileSync(join(dir, 'sheet.curveset.json'), stringifyCurveSet(s.replay.curveSet));
+    writeFileSync(join(dir, 'record.study.json'), JSON.stringify(SI_STUDY));
+    const out = join(dir, 'cli-record.pdf');
+    const r = run('report', '--takeoff', resolve(SHEETS, 'si-panels-black.takeoff.json'), '--study', join(dir, 'record.study.json'), '-o', out, '--paper', 'letter');
+    expect(r.err).toMatch(/Wrote .*cli-record\.pdf/);
+    expect(r.code).toBe(0);
+    expect(existsSync(out)).toBe(true);
+    const got = await pdfText(new Uint8Array(readFileSync(out)));
+    expect(got.warnings).toEqual([]);
+    expect(got.text).toContain('75 kW');
+  }, 180_000);
+
+  it('refuses a bad paper size with one sentence and exit 2', () => {
+    const r = run('report', '--takeoff', 'x.takeoff.json', '--study', 'y.study.json', '-o', join(dir, 'x.pdf'), '--paper', 'a3');
+    expect(r.code).toBe(2);
+    expect(r.err.trim()).toMatch(/^.*--paper must be "a4" or "letter", not "a3"\.$/);
+  });
+});
