@@ -23,7 +23,7 @@ import { nonOverloadingPower, selectMotor, type MotorSelection, type MotorStanda
 import { annualEnergy, type EnergyResult } from './energy.ts';
 import { EXTRAPOLATION_CAUTION, MOTOR_CAUTION, NPSH_CAUTION, PRELIMINARY, serviceCaution, type Service } from './cautions.ts';
 import { DutyError } from './errors.ts';
-import { belowMinFlow, speedToDutyInFamily } from './speed.ts';
+import { belowMinFlow, curveAtSpeedInFamily, speedToDutyInFamily } from './speed.ts';
 
 export interface DutyCheckInput {
   /** Duty of the whole installation: total flow [m³/s] and head [m]. */
@@ -216,6 +216,7 @@ export function dutyCheck(set: CurveSet, input: DutyCheckInput): DutyCheckReport
 function selectedCurve(set: CurveSet, trim: DutyMatch, density: number): PumpCurve | undefined {
   if (trim.status !== 'meets') return undefined;
   if (trim.method === 'trim' && trim.diameter_m !== undefined) return curveAtDiameter(set, trim.diameter_m, density);
+  if (set.family === 'speed' && trim.speed_rpm !== undefined) return curveAtSpeedInFamily(set, trim.speed_rpm, density).curve;
   const fastest = [...set.members].sort((a, b) => b.speed_rpm - a.speed_rpm)[0];
   if (!fastest || trim.speed_rpm === undefined) return undefined;
   const base = pumpCurveOfMember(fastest, density, set.fluid.density_kg_m3);

@@ -12,6 +12,7 @@ import { pumpCurveAtSpeed, pumpCurveOfMember, type PumpCurve } from './pumpCurve
 import type { CurveSet, Member } from '../model/curveset.ts';
 import { bracketingSpeeds, drawnSpeeds, npsh3ForSpeed, type Npsh3AtSpeed } from '../fit/speedFamily.ts';
 import { evaluateUnchecked } from '../fit/polynomial.ts';
+import { AffinityInputError } from '../fit/affinity.ts';
 import { minFlowAt } from '../fit/speedFamilyLimits.ts';
 import { figuresAt, type PointFigures } from './operatingPoint.ts';
 import { systemHead, type SystemCurve } from './systemCurve.ts';
@@ -148,12 +149,7 @@ export function speedToDutyInFamily(set: CurveSet, system: SystemCurve, flow_m3s
   const ratioToNearer = speed / nearer.speed_rpm;
   const outside = ratioToNearer < SPEED_AFFINITY_BAND[0] || ratioToNearer > SPEED_AFFINITY_BAND[1];
   if (outside) warnings.push(`The speed is more than 20 % from the nearest drawn curve (${nearer.speed_rpm} rpm), where the affinity law is less exact.`);
-  const npsh3 = npsh3ForSpeed(set, speed);
-  const base = pumpCurveAtSpeed(curveOf(nearer), speed);
-  const npshFit = npsh3?.fit;
-  const scaled: PumpCurve = npshFit
-    ? { ...base, npshr: (q: number) => evaluateUnchecked(npshFit, q), validity: { ...base.validity, npshr: npshFit.domain } }
-    : (({ npshr: _n, ...rest }) => rest)(base);
+  const { curve: scaled, npsh3 } = curveAtSpeedInFamily(set, speed, density_kg_m3, nearer);
   if (npsh3?.caution) warnings.push(npsh3.caution);
   return {
     status: 'ok',
@@ -184,4 +180,23 @@ export function belowMinFlow(set: Pick<CurveSet, 'limits'>, point: Pick<PointFig
     `At the duty each pump runs at ${(100 * (point.flow_m3s / min.flow_m3s)).toFixed(0)} % of its minimum continuous flow (${min.basis}): below it the pump recirculates, heats and vibrates; add a bypass or choose a smaller pump.` +
     (min.beyond_line ? ' The duty head lies beyond the ends of the traced minimum-flow line, so its nearest end was used.' : '')
   );
+}
+
+/**
+ * The pump curve of a speed family at speed n [rpm]: head, efficiency and power from the drawn
+ * curve nearest in speed (or `from`), scaled by the speed affinity law (Q ∝ n, H ∝ n², P ∝ n³;
+ * Karassik, Pump Handbook); NPSH3 by `npsh3ForSpeed` (nearest drawn speed at or above, scaled by
+ * n² with a caution), or none when no member has an NPSH3 curve.
+ */
+export function curveAtSpeedInFamily(set: CurveSet, speed_rpm: number, density_kg_m3 = set.fluid.density_kg_m3, from?: Member): { curve: PumpCurve; npsh3?: Npsh3AtSpeed } {
+  const drawn = drawnSpeeds(set);
+  const nearer = from ?? drawn.reduce<Member | undefined>((best, m) => (!best || Math.abs(Math.log(m.speed_rpm / speed_rpm)) < Math.abs(Math.log(best.speed_rpm / speed_rpm)) ? m : best), undefined);
+  if (!nearer) throw new AffinityInputError('This curve set has no fitted head curve at any speed.');
+  const base = pumpCurveAtSpeed(pumpCurveOfMember(nearer, density_kg_m3, set.fluid.density_kg_m3), speed_rpm);
+  const npsh3 = npsh3ForSpeed(set, speed_rpm);
+  const npshFit = npsh3?.fit;
+  const curve: PumpCurve = npshFit
+    ? { ...base, npshr: (q: number) => evaluateUnchecked(npshFit, q), validity: { ...base.validity, npshr: npshFit.domain } }
+    : (({ npshr: _n, ...rest }) => rest)(base);
+  return { curve, ...(npsh3 ? { npsh3 } : {}) };
 }
