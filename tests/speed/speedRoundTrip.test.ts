@@ -70,6 +70,15 @@ describe('a speed family round-trips', () => {
     expect(again.findings.filter((f) => f.severity === 'fail')).toEqual([]);
   });
 
+  it('carries a stated minimum continuous flow through the CSV table', () => {
+    const limited: CurveSet = { ...first, limits: { min_flow: { flow_m3s: 0.006, basis: 'minimum continuous flow stated with the sheet' } } };
+    const csv = curveSetToCsv(limited);
+    expect(csv).toMatch(/^# minimum flow \[m3\/h\]: 21\.6$/m);
+    const again = buildFrom('limited', csv);
+    // 21.6 m³/h = 0.006 m³/s, exact to rounding.
+    expect(Math.abs((again.limits?.min_flow?.flow_m3s ?? 0) / 0.006 - 1)).toBeLessThan(1e-9);
+  });
+
   it('through the library (a real SQLite file): stored and read back unchanged', () => {
     const file = join(dir, 'library.sqlite');
     const store = LibraryStore.open(file);

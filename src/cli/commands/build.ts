@@ -10,6 +10,7 @@ import { canonicalUnits, parseUnit, presetNamed, SG_REFERENCE_DENSITY, toSI } fr
 import { EXIT_FAILED_CHECKS, EXIT_OK, InputError, runCommand } from '../errors.ts';
 import { emitReport, positiveOption, readText, writeTextAtomic } from '../io.ts';
 import { formatReport, reportJson } from '../report.ts';
+import { minFlowLimit } from '../../fit/speedFamilyLimits.ts';
 
 interface BuildOptions {
   output: string;
@@ -143,6 +144,12 @@ function build(file: string, o: BuildOptions): number {
     provenance: { points_file: file === '-' ? 'standard input' : basename(file), notes: [`points table sha256 ${createHash('sha256').update(text).digest('hex')}`] },
     members: [...byDiameter.values()],
   });
+  // A minimum continuous flow stated in the header block ("# minimum flow [gpm]: 120") is kept with the set.
+  const minFlowKey = Object.keys(table.meta).find((k) => /^minimum flow\b/.test(k));
+  const minFlowValue = minFlowKey ? metaNumber(table.meta[minFlowKey]) : undefined;
+  if (minFlowKey && minFlowValue === undefined) throw new InputError(`The "${minFlowKey}" line of the points table ${where} is not a positive number; give the minimum continuous flow as a number.`);
+  const limits = minFlowValue !== undefined ? minFlowLimit(toSI(minFlowValue, parseUnit('flow', /\[(.*)\]/.exec(minFlowKey as string)?.[1] ?? system.flow)), undefined) : undefined;
+  if (limits) set.limits = limits;
   writeTextAtomic(o.output, stringifyCurveSet(set));
   emitReport(o, () => reportJson(set, o.output), () => `${formatReport(set)}Wrote ${o.output === '-' ? 'the curve set to standard output' : o.output}\n`);
   return set.findings.some((f) => f.severity === 'fail') ? EXIT_FAILED_CHECKS : EXIT_OK;
