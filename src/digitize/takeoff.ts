@@ -9,7 +9,8 @@
 import { buildCurveSet, type MemberInput } from '../fit/build.ts';
 import { makeFinding, sortFindings } from '../fit/checks/finding.ts';
 import { CurveSet, type CurvePoint, type Finding, type Quantity } from '../model/curveset.ts';
-import { TakeoffError, type Takeoff, type Trace } from '../model/takeoff.ts';
+import { TakeoffError, takeoffFamily, type Takeoff, type Trace } from '../model/takeoff.ts';
+import { minFlowLimit } from '../fit/speedFamilyLimits.ts';
 import { SG_REFERENCE_DENSITY, toSI, type Unit } from '../units/index.ts';
 import { formatSI } from '../units/format.ts';
 import { arcLengths } from './polyline.ts';
@@ -130,9 +131,10 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
 
   // Data points per diameter and quantity, SI.
   const members = new Map<number, MemberInput>();
+  const family = takeoffFamily(takeoff);
   const memberFor = (diameter: number, unit: Unit) => {
     let m = members.get(diameter);
-    if (!m) members.set(diameter, (m = { diameter_m: toSI(diameter, unit), points: {} }));
+    if (!m) members.set(diameter, (m = family === 'speed' ? { speed_rpm: diameter, points: {} } : { diameter_m: toSI(diameter, unit), points: {} }));
     return m;
   };
   const how = new Map<Quantity, Set<string>>();
@@ -146,16 +148,23 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
     how.set(quantity, ways.add(by));
   };
 
+  const minFlowLine: CurvePoint[] = [];
   for (const outcome of outcomes) {
     const trace = takeoff.traces[outcome.index] as Trace;
     if (trace.iso !== undefined) continue;
+    if (trace.limit === 'min-flow') {
+      const cal = calibrations.get(trace.panel) as Calibration;
+      const u = traceUnits(takeoff, units, trace);
+      minFlowLine.push(...outcome.points.map((p) => cal.toData(p)).map((d) => [toSI(d[0], u.flow), toSI(d[1], u.value)] as CurvePoint));
+      continue;
+    }
     const cal = calibrations.get(trace.panel) as Calibration;
     const u = traceUnits(takeoff, units, trace);
     const raw = outcome.points.map((p) => cal.toData(p)).map((d) => [toSI(d[0], u.flow), toSI(d[1], u.value)] as CurvePoint);
     const pts = keepFlows(raw, (dropped) =>
       note('takeoff.negative-flow', 'warn', `Trace ${outcome.id} (${describeTrace(trace)}): ${dropped} point${dropped === 1 ? '' : 's'} left of zero flow were dropped; check the panel's anchors.`, outcome.id, { dropped }),
     );
-    add(trace.quantity, trace.diameter as number, pts, outcome.how, outcome.id);
+    add(trace.quantity, (trace.diameter ?? trace.speed) as number, pts, outcome.how, outcome.id);
   }
 
   const isoCounts: IsoCount[] = [];
@@ -167,9 +176,9 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
     const heads = outcomes
       .filter((o) => {
         const t = takeoff.traces[o.index] as Trace;
-        return t.panel === trace.panel && t.quantity === 'head' && t.iso === undefined && t.diameter !== undefined;
+        return t.panel === trace.panel && t.quantity === 'head' && t.iso === undefined && (t.diameter ?? t.speed) !== undefined;
       })
-      .map((o) => ({ key: (takeoff.traces[o.index] as Trace).diameter as number, points: o.points }));
+      .map((o) => ({ key: ((takeoff.traces[o.index] as Trace).diameter ?? (takeoff.traces[o.index] as Trace).speed) as number, points: o.points }));
     const crossings = isoCrossings(outcome.points, heads, DEFAULT_TOUCH_TOLERANCE, isoReach(cal, takeoff.panels.find((p) => p.id === trace.panel)?.anchors ?? []));
     const perHead = new Map<number, number>();
     for (const c of crossings) perHead.set(c.key, (perHead.get(c.key) ?? 0) + 1);
@@ -228,7 +237,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
   const built = buildCurveSet({
     pump,
     speed_rpm,
-    family: 'diameter',
+    family,
     fluid: { name: sg === 1 ? 'water' : `liquid of SG ${sg}`, density_kg_m3: sg * SG_REFERENCE_DENSITY, specific_gravity: sg },
     display_units: units.display,
     provenance: {
@@ -243,7 +252,8 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
     members: [...members.entries()].sort((a, b) => b[0] - a[0]).map(([, m]) => m),
     readingAccuracy,
   });
-  const curveSet = CurveSet.parse({ ...built, findings: sortFindings([...built.findings, ...findings]) });
+  const limits = minFlowLimit(takeoff.min_flow !== undefined ? toSI(takeoff.min_flow, units.flow) : undefined, minFlowLine);
+  const curveSet = CurveSet.parse({ ...built, ...(limits ? { limits } : {}), findings: sortFindings([...built.findings, ...findings]) });
   return { curveSet, traces: outcomes, calibrations };
 }
 
@@ -312,6 +322,6 @@ function keepFlows(points: CurvePoint[], dropped: (n: number) => void): CurvePoi
 }
 
 export function describeTrace(trace: Trace): string {
-  const what = trace.iso !== undefined ? `${trace.quantity} iso-trace ${trace.iso}` : `${trace.quantity} at diameter ${trace.diameter}`;
+  const what = trace.iso !== undefined ? `${trace.quantity} iso-trace ${trace.iso}` : trace.speed !== undefined ? `${trace.quantity} at ${trace.speed} rpm` : `${trace.quantity} at diameter ${trace.diameter}`;
   return `${what} on panel "${trace.panel}"`;
 }

@@ -23,6 +23,7 @@ import { nonOverloadingPower, selectMotor, type MotorSelection, type MotorStanda
 import { annualEnergy, type EnergyResult } from './energy.ts';
 import { EXTRAPOLATION_CAUTION, MOTOR_CAUTION, NPSH_CAUTION, PRELIMINARY, serviceCaution, type Service } from './cautions.ts';
 import { DutyError } from './errors.ts';
+import { belowMinFlow, curveAtSpeedInFamily, speedToDutyInFamily } from './speed.ts';
 
 export interface DutyCheckInput {
   /** Duty of the whole installation: total flow [m³/s] and head [m]. */
@@ -148,6 +149,9 @@ export function dutyCheck(set: CurveSet, input: DutyCheckInput): DutyCheckReport
     }
     if (trim.point?.extrapolated.length) warnings.push(EXTRAPOLATION_CAUTION);
     if (trim.outside_affinity_band) warnings.push('The speed lies outside ±20 % of the captured speed, where the affinity law is less exact.');
+    if (trim.warnings) warnings.push(...trim.warnings);
+    const below = belowMinFlow(set, trim.point);
+    if (below) warnings.push(below);
   }
   // The curve the installation runs on: the trimmed (or speed-matched) one; none when the duty cannot be met.
   const selected: PumpCurve | undefined = selectedCurve(set, trim, density);
@@ -180,7 +184,7 @@ export function dutyCheck(set: CurveSet, input: DutyCheckInput): DutyCheckReport
       // The system curve is in TOTAL flow: the speed is found for the combination of `count`
       // pumps at the total duty flow, then each pump's figures are read at its share.
       const single = pumpCurveOfMember(withSheetNpsh3(set, full), density, set.fluid.density_kg_m3);
-      const found = speedToDuty(parallelPumps(single, count), system, input.flow_m3s);
+      const found = set.family === 'speed' && count === 1 ? speedToDutyInFamily(set, system, input.flow_m3s, density) : speedToDuty(parallelPumps(single, count), system, input.flow_m3s);
       report.speed = found.status === 'ok' && count > 1 ? { ...found, point: figuresAt(pumpCurveAtSpeed(single, found.speed_rpm), perPumpFlow) } : found;
     }
   }
@@ -212,6 +216,7 @@ export function dutyCheck(set: CurveSet, input: DutyCheckInput): DutyCheckReport
 function selectedCurve(set: CurveSet, trim: DutyMatch, density: number): PumpCurve | undefined {
   if (trim.status !== 'meets') return undefined;
   if (trim.method === 'trim' && trim.diameter_m !== undefined) return curveAtDiameter(set, trim.diameter_m, density);
+  if (set.family === 'speed' && trim.speed_rpm !== undefined) return curveAtSpeedInFamily(set, trim.speed_rpm, density).curve;
   const fastest = [...set.members].sort((a, b) => b.speed_rpm - a.speed_rpm)[0];
   if (!fastest || trim.speed_rpm === undefined) return undefined;
   const base = pumpCurveOfMember(fastest, density, set.fluid.density_kg_m3);

@@ -14,7 +14,7 @@ import { memberAtDiameter, membersByDiameter } from '../fit/affinity.ts';
 import { familyFigures } from '../fit/checks/speedFigures.ts';
 import { pumpCurveOfMember, type PumpCurve } from './pumpCurve.ts';
 import { figuresAt, type PointFigures } from './operatingPoint.ts';
-import { speedToDuty } from './speed.ts';
+import { speedToDuty, speedToDutyInFamily } from './speed.ts';
 import { systemCurveThroughDuty } from './systemCurve.ts';
 import { trimToDuty, type AffinityParabolaEstimate } from './trim.ts';
 import { DutyError } from './errors.ts';
@@ -65,6 +65,8 @@ export interface DutyMatch {
   trim_extrapolated?: boolean;
   /** Speed outside ±20 % of the captured speed, where the affinity law loses accuracy. */
   outside_affinity_band?: boolean;
+  /** Warnings of a speed family's duty (neighbouring curves disagree, NPSH3 scaled by n², outside the drawn speeds). */
+  warnings?: string[];
   /** Figures at the duty: flow, head, efficiency (fraction), power [W], NPSH3 [m], POR position, Q/Q_BEP. */
   point?: PointFigures;
 }
@@ -139,7 +141,7 @@ function bySpeed(set: CurveSet, duty: DutyRequest, density: number): DutyMatch {
   const fastest = [...set.members].sort((a, b) => b.speed_rpm - a.speed_rpm)[0] as Member;
   const curve = pumpCurveOfMember(fastest, density, set.fluid.density_kg_m3);
   const system = systemCurveThroughDuty(duty.static_head_m ?? 0, duty.flow_m3s, duty.head_m);
-  const result = speedToDuty(curve, system, duty.flow_m3s);
+  const result = set.family === 'speed' && set.members.filter((m) => m.curves.head?.fit).length >= 2 ? speedToDutyInFamily(set, system, duty.flow_m3s, density) : speedToDuty(curve, system, duty.flow_m3s);
   const base = { method: 'speed' as const, ...(fastest.diameter_m !== undefined ? { diameter_m: fastest.diameter_m } : {}) };
   if (result.status !== 'ok') {
     const status = result.reason === 'too-little-head' ? 'above-range' : result.reason === 'too-much-head' ? 'below-range' : duty.flow_m3s >= curve.domain[1] ? 'above-range' : 'below-range';
@@ -151,6 +153,7 @@ function bySpeed(set: CurveSet, duty: DutyRequest, density: number): DutyMatch {
     message: `Running at ${Math.round(result.speed_rpm)} rpm (${(result.ratio * 100).toFixed(1)} % of ${fastest.speed_rpm} rpm) meets the duty${result.outside_affinity_band ? ', outside the ±20 % band where the affinity law is close to exact' : ''}.`,
     speed_rpm: result.speed_rpm,
     outside_affinity_band: result.outside_affinity_band,
+    ...('warnings' in result && Array.isArray(result.warnings) && result.warnings.length ? { warnings: result.warnings as string[] } : {}),
     point: result.point,
   };
 }

@@ -113,6 +113,7 @@ function metaBlock(set: CurveSet, u: ExportUnits, grid: number[], sep: string, d
     ...(set.pump.maker ? [line('maker', set.pump.maker)] : []),
     ...(set.pump.model ? [line('model', set.pump.model)] : []),
     line('speed [rpm]', numberCell(set.speed_rpm, dec)),
+    ...(set.limits?.min_flow?.flow_m3s !== undefined ? [line(`minimum flow [${u.flow.token}]`, numberCell(fromSI(set.limits.min_flow.flow_m3s, u.flow), dec))] : []),
     line('liquid', set.fluid.name),
     line('density [kg/m3]', numberCell(set.fluid.density_kg_m3, dec)),
     line('specific gravity', numberCell(set.fluid.specific_gravity, dec)),

@@ -176,6 +176,22 @@ export const Figures = z.strictObject({
   nss_si: finite.optional(),
 });
 
+/**
+ * Operating limits drawn or stated on the sheet. The minimum continuous flow is a fixed flow, or
+ * a line traced on the head panel ([flow m³/s, head m] points; the limit at a head is the line's
+ * flow there, e.g. a line across the curves of a speed family).
+ */
+export const Limits = z.strictObject({
+  min_flow: z
+    .strictObject({
+      flow_m3s: positive.optional().describe('minimum continuous flow, m³/s'),
+      line: z.array(CurvePoint).min(2).optional().describe('the traced minimum-flow line, [flow m³/s, head m] points'),
+      basis: z.string().describe('where the limit comes from, e.g. "line traced on the sheet"'),
+    })
+    .optional(),
+});
+export type Limits = z.infer<typeof Limits>;
+
 export const CurveSet = z.strictObject({
   format: z.literal(CURVESET_FORMAT),
   version: z.literal(CURVESET_VERSION),
@@ -187,6 +203,7 @@ export const CurveSet = z.strictObject({
   display_units: DisplayUnits,
   members: z.array(Member).min(1),
   figures: Figures.optional(),
+  limits: Limits.optional(),
   findings: z.array(Finding),
 });
 export type CurveSet = z.infer<typeof CurveSet>;

@@ -15,6 +15,10 @@
  * a spreadsheet quoted them) are comments; "# key: value" lines before the table are kept as
  * `meta` (pump, speed [rpm], density [kg/m3], specific gravity, …).
  *
+ * A speed family (one impeller drawn at several speeds) writes `speed` (rpm) in place of
+ * `diameter`: `quantity,speed,flow,value`, or `speed [rpm],flow [gpm],head [ft],…`. A table holds
+ * one family or the other; its rows then carry `speed` and no `diameter`.
+ *
  * Parsing is pure text → rows; units are applied by the caller.
  */
 import { UserError } from './errors.ts';
@@ -28,15 +32,20 @@ export class PointsTableError extends UserError {
 export interface PointsRow {
   line: number;
   quantity: Quantity;
-  diameter: number;
+  /** Impeller diameter in the table's diameter unit (a diameter family). */
+  diameter?: number;
+  /** Speed [rpm] (a speed family: the table's `family` is 'speed'). */
+  speed?: number;
   flow: number;
   value: number;
 }
 
-export type PointsColumn = 'diameter' | 'flow' | Quantity;
+export type PointsColumn = 'diameter' | 'speed' | 'flow' | Quantity;
 
 export interface PointsTable {
   layout: 'long' | 'wide';
+  /** What labels the members: impeller diameters, or speeds (rpm). */
+  family: 'diameter' | 'speed';
   rows: PointsRow[];
   /** Unit tokens written in the header, by column (as written; the caller parses them). */
   units: Partial<Record<PointsColumn, string>>;
@@ -46,6 +55,8 @@ export interface PointsTable {
 }
 
 export const POINTS_HEADER = ['quantity', 'diameter', 'flow', 'value'] as const;
+/** The long header of a speed family. */
+export const SPEED_POINTS_HEADER = ['quantity', 'speed', 'flow', 'value'] as const;
 
 function splitLine(line: string, sep: string): string[] {
   const cells: string[] = [];
@@ -110,16 +121,20 @@ export function readPointsTable(text: string, source = 'The points file'): Point
   const names = header.map((h) => h.name);
   const units: PointsTable['units'] = {};
 
-  const isLong = names.length === 4 && POINTS_HEADER.every((h, i) => names[i] === h);
+  if (names.includes('diameter') && names.includes('speed')) {
+    throw new PointsTableError(`${source} has both a diameter and a speed column; a table holds one family, so keep the diameter column (impellers at one speed) or the speed column (one impeller at several speeds).`);
+  }
+  const isLong = names.length === 4 && (POINTS_HEADER.every((h, i) => names[i] === h) || SPEED_POINTS_HEADER.every((h, i) => names[i] === h));
   const quantityColumns = names.flatMap((n, i) => ((QUANTITIES as readonly string[]).includes(n) ? [i] : []));
-  const isWide = !isLong && names[0] === 'diameter' && names[1] === 'flow' && quantityColumns.length >= 1 && quantityColumns.length === names.length - 2;
+  const isWide = !isLong && (names[0] === 'diameter' || names[0] === 'speed') && names[1] === 'flow' && quantityColumns.length >= 1 && quantityColumns.length === names.length - 2;
+  const family: PointsTable['family'] = names[isLong ? 1 : 0] === 'speed' ? 'speed' : 'diameter';
   if (!isLong && !isWide) {
-    if (names[0] === 'speed') throw new PointsTableError(`${source} is a table of a speed family ("speed" in its first column); build makes families of impeller diameters, so give one diameter column instead.`);
     throw new PointsTableError(`${source} has the header "${headerLine.trim()}"; expected ${expected}.`);
   }
   header.forEach((h, i) => {
     if (!h.unit) return;
     if (isLong && (i === 0 || i === 3)) throw new PointsTableError(`${source}: the "${names[i]}" column cannot carry a unit in a long table; give units of the values with --units or --head/--power/--npsh.`);
+    if (h.name === 'speed' && !/^(rpm|r\/min|min-1|1\/min)$/i.test(h.unit.trim())) throw new PointsTableError(`${source}: the speed column is in "${h.unit}"; give speeds in rpm.`);
     units[h.name as PointsColumn] = h.unit;
   });
 
@@ -142,31 +157,32 @@ export function readPointsTable(text: string, source = 'The points file'): Point
     // Spreadsheets often drop empty cells at the end of a row of a wide table.
     if (!isLong && cells.length >= 2 && cells.length < names.length) cells.push(...Array<string>(names.length - cells.length).fill(''));
     if (cells.length !== names.length) {
-      const what = isLong ? 'quantity, diameter, flow and value' : `the ${names.length} columns of the header`;
+      const what = isLong ? `quantity, ${family}, flow and value` : `the ${names.length} columns of the header`;
       throw new PointsTableError(`Line ${line} has ${cells.length} cells; each row needs ${what}.`);
     }
     const diameterCell = isLong ? (cells[1] as string) : (cells[0] as string);
     const flowCell = isLong ? (cells[2] as string) : (cells[1] as string);
-    const diameter = numberCell(diameterCell, 'diameter', line);
+    const diameter = numberCell(diameterCell, family, line);
     const flow = numberCell(flowCell, 'flow', line);
-    if (!(diameter > 0)) throw new PointsTableError(`Line ${line}: the diameter must be positive, not ${diameter}.`);
+    if (!(diameter > 0)) throw new PointsTableError(`Line ${line}: the ${family} must be positive, not ${diameter}.`);
+    const label = family === 'speed' ? { speed: diameter } : { diameter };
     if (flow < 0) throw new PointsTableError(`Line ${line}: the flow ${flow} is negative; flows start at zero.`);
     if (isLong) {
       const quantity = (cells[0] as string).toLowerCase();
       if (!(QUANTITIES as readonly string[]).includes(quantity)) {
         throw new PointsTableError(`Line ${line}: unknown quantity "${cells[0]}"; use one of ${QUANTITIES.join(', ')}.`);
       }
-      rows.push({ line, quantity: quantity as Quantity, diameter, flow, value: numberCell(cells[3] as string, 'value', line) });
+      rows.push({ line, quantity: quantity as Quantity, ...label, flow, value: numberCell(cells[3] as string, 'value', line) });
     } else {
       for (const c of quantityColumns) {
         const textCell = cells[c] as string;
         if (textCell === '') continue; // outside that curve's range, or no such curve
-        rows.push({ line, quantity: names[c] as Quantity, diameter, flow, value: numberCell(textCell, names[c] as string, line) });
+        rows.push({ line, quantity: names[c] as Quantity, ...label, flow, value: numberCell(textCell, names[c] as string, line) });
       }
     }
   }
   if (rows.length === 0) throw new PointsTableError(`${source} has a header but no points.`);
-  return { layout: isLong ? 'long' : 'wide', rows, units, meta, delimiter };
+  return { layout: isLong ? 'long' : 'wide', family, rows, units, meta, delimiter };
 }
 
 /** The rows alone (long or wide layout). */

@@ -75,7 +75,9 @@ export const Trace = z
     panel: z.string().min(1),
     quantity: TakeoffQuantity,
     diameter: positive.optional().describe('impeller diameter in units.diameter'),
+    speed: positive.optional().describe('speed in rpm, for a sheet drawn for one impeller at several speeds (in place of diameter)'),
     iso: finite.optional().describe('the constant value of an iso-trace (efficiency in %, power in units.power)'),
+    limit: z.enum(['min-flow']).optional().describe('a limit line rather than a curve: min-flow = the minimum-continuous-flow line, traced on a head panel'),
     guides: z.array(SheetXY).optional().describe('clicks on the drawn line, in order along it'),
     points: z.array(SheetXY).optional().describe('explicit points, used as they are'),
     method: CaptureMethod.default('auto').describe('how guides become points: auto = vector on vector sheets, raster otherwise'),
@@ -88,7 +90,9 @@ export const Trace = z
   })
   .refine((t) => (t.guides?.length ?? 0) > 0 || (t.points?.length ?? 0) > 0 || (t.captured?.length ?? 0) > 0, 'a trace needs guides, points or captured points')
   .refine((t) => t.iso === undefined || t.quantity === 'efficiency' || t.quantity === 'power', 'only efficiency and power traces can be iso-traces')
-  .refine((t) => t.iso !== undefined || t.diameter !== undefined, 'a trace needs a diameter, or an iso value for an iso-trace');
+  .refine((t) => t.diameter === undefined || t.speed === undefined, 'a trace carries a diameter or a speed, not both')
+  .refine((t) => t.limit === undefined || (t.quantity === 'head' && t.iso === undefined && t.diameter === undefined && t.speed === undefined), 'a limit line is traced on a head panel and carries no diameter, speed or iso value')
+  .refine((t) => t.limit !== undefined || t.iso !== undefined || t.diameter !== undefined || t.speed !== undefined, 'a trace needs a diameter (or a speed), or an iso value for an iso-trace');
 export type Trace = z.infer<typeof Trace>;
 
 export const TakeoffUnits = z.strictObject({
@@ -121,6 +125,7 @@ export const Takeoff = z.strictObject({
   units: TakeoffUnits,
   panels: z.array(Panel).min(1),
   traces: z.array(Trace).min(1),
+  min_flow: positive.optional().describe('minimum continuous flow of the pump, in units.flow (at pump.speed_rpm for a speed family)'),
   notes: z.array(z.string()).optional(),
 });
 export type Takeoff = z.infer<typeof Takeoff>;
@@ -155,12 +160,22 @@ export function parseTakeoff(raw: unknown): Takeoff {
     if (ids.has(panel.id)) throw new TakeoffError(`Two panels share the id "${panel.id}"; give each panel its own id.`);
     ids.add(panel.id);
   }
+  const byDiameter = takeoff.traces.findIndex((t) => t.diameter !== undefined);
+  const bySpeed = takeoff.traces.findIndex((t) => t.speed !== undefined);
+  if (byDiameter >= 0 && bySpeed >= 0) {
+    throw new TakeoffError(`Trace ${byDiameter + 1} is labelled by diameter and trace ${bySpeed + 1} by speed; a sheet holds one family, so label every trace by diameter (impellers at one speed) or every trace by speed (one impeller at several speeds).`);
+  }
   takeoff.traces.forEach((trace, i) => {
     if (!ids.has(trace.panel)) {
       throw new TakeoffError(`Trace ${i + 1} refers to panel "${trace.panel}", which the take-off does not define; add the panel or fix the name.`);
     }
   });
   return takeoff;
+}
+
+/** Which family a take-off's traces describe: 'speed' when they are labelled by speed. */
+export function takeoffFamily(takeoff: Pick<Takeoff, 'traces'>): 'diameter' | 'speed' {
+  return takeoff.traces.some((t) => t.speed !== undefined) ? 'speed' : 'diameter';
 }
 
 /** The JSON Schema (draft 2020-12) of the take-off file, as accepted on input. */

@@ -21,7 +21,7 @@ import { curveAtDiameter, TRIM_SEARCH_FLOOR } from '../duty/meetDuty.ts';
 import { trimToDuty } from '../duty/trim.ts';
 import { parallelPumps, pumpCurveAtSpeed, pumpCurveOfMember, type PumpCurve } from '../duty/pumpCurve.ts';
 import { figuresAt, operatingPoint, type PointFigures } from '../duty/operatingPoint.ts';
-import { speedToDuty } from '../duty/speed.ts';
+import { speedToDuty, speedToDutyInFamily } from '../duty/speed.ts';
 import { systemHead, type SystemCurve } from '../duty/systemCurve.ts';
 import { runLoss, runsLoss, systemFromLoss, type LiquidFlowProps } from '../duty/pipeRun.ts';
 import { resolveSite } from '../duty/site.ts';
@@ -180,7 +180,9 @@ export function evaluateOption(set: CurveSet, o: ResolvedOption, words: Sentence
   } else {
     const speeds: number[] = [];
     for (const [key, sys] of [['low', sysLow], ['high', sysHigh]] as const) {
-      const s = speedToDuty(combined, sys, Qd);
+      // A speed family with one pump on water: the speed from the bracketing drawn curves (src/duty/speed.ts).
+      const fam = set.family === 'speed' && n === 1 && !viscous ? speedToDutyInFamily(set, sys, Qd, density) : undefined;
+      const s = fam ?? speedToDuty(combined, sys, Qd);
       if (s.status !== 'ok') {
         findings.push({ severity: 'fail', message: `At the ${key} static head no speed meets the duty: ${s.message}` });
         continue;
@@ -190,7 +192,8 @@ export function evaluateOption(set: CurveSet, o: ResolvedOption, words: Sentence
       if (s.ratio > 1 + 1e-9) findings.push({ severity: 'fail', message: `At the ${key} static head the duty needs ${(100 * s.ratio).toFixed(1)} % of rated speed; the drive would have to overspeed the pump.` });
       else if (s.outside_affinity_band) findings.push({ severity: 'warn', message: `At the ${key} static head the speed is ${(100 * s.ratio).toFixed(0)} % of rated, outside ±20 % where the affinity law is close to exact.` });
       if (key === 'high') {
-        const per = figuresAt(pumpCurveAtSpeed(single, s.speed_rpm), qd);
+        const per = fam?.status === 'ok' ? fam.point : figuresAt(pumpCurveAtSpeed(single, s.speed_rpm), qd);
+        if (fam?.status === 'ok') for (const w of fam.warnings) findings.push({ severity: 'warn', message: w });
         result.speed_rpm = s.speed_rpm;
         result.duty = { flow_m3s: Qd, head_m: per.head_m, system_head_m: per.head_m, per_pump: per, ...(per.efficiency !== undefined ? { efficiency: per.efficiency } : {}), ...(per.power_W !== undefined ? { power_W: per.power_W * n } : {}) };
       }

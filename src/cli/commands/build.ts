@@ -10,6 +10,7 @@ import { canonicalUnits, parseUnit, presetNamed, SG_REFERENCE_DENSITY, toSI } fr
 import { EXIT_FAILED_CHECKS, EXIT_OK, InputError, runCommand } from '../errors.ts';
 import { emitReport, positiveOption, readText, writeTextAtomic } from '../io.ts';
 import { formatReport, reportJson } from '../report.ts';
+import { minFlowLimit } from '../../fit/speedFamilyLimits.ts';
 
 interface BuildOptions {
   output: string;
@@ -64,7 +65,10 @@ function build(file: string, o: BuildOptions): number {
   const table = readPointsTable(text, `The points table ${where}`);
   const rows = table.rows;
 
-  const speed = positiveOption(o.speed, '--speed') ?? metaNumber(table.meta['speed [rpm]'] ?? table.meta.speed);
+  const bySpeed = table.family === 'speed';
+  // A speed family is rated at its fastest drawn speed unless told otherwise.
+  const fastest = bySpeed ? Math.max(...rows.map((r) => r.speed ?? 0)) : undefined;
+  const speed = positiveOption(o.speed, '--speed') ?? metaNumber(table.meta['speed [rpm]'] ?? table.meta.speed) ?? fastest;
   if (speed === undefined) throw new InputError(`Give the rated speed with --speed <rpm>; the points table ${where} does not state it.`);
   const sg = positiveOption(o.sg, '--sg') ?? metaNumber(table.meta['specific gravity']) ?? 1;
 
@@ -80,7 +84,7 @@ function build(file: string, o: BuildOptions): number {
   };
   const needed: Array<[keyof typeof chosen, boolean]> = [
     ['flow', true],
-    ['diameter', true],
+    ['diameter', !bySpeed],
     ['head', present.has('head')],
     ['npsh', present.has('npshr')],
     ['power', present.has('power')],
@@ -113,8 +117,8 @@ function build(file: string, o: BuildOptions): number {
   const byDiameter = new Map<number, MemberInput>();
   for (const row of rows) {
     if (row.quantity === 'efficiency' && row.value > 100) throw new InputError(`Line ${row.line}: efficiency ${row.value} is above 100; efficiency is given in %.`);
-    const key = row.diameter;
-    const member = byDiameter.get(key) ?? { diameter_m: toSI(row.diameter, diameterUnit), points: {} };
+    const key = (bySpeed ? row.speed : row.diameter) as number;
+    const member = byDiameter.get(key) ?? (bySpeed ? { speed_rpm: key, points: {} } : { diameter_m: toSI(key, diameterUnit), points: {} });
     byDiameter.set(key, member);
     const list = (member.points[row.quantity] ??= []);
     list.push([toSI(row.flow, flowUnit), toSI(row.value, units[row.quantity])] as CurvePoint);
@@ -125,7 +129,7 @@ function build(file: string, o: BuildOptions): number {
   for (const [label, member] of byDiameter) {
     for (const [quantity, points] of Object.entries(member.points)) {
       const flows = new Set(points.map((p) => p[0])).size;
-      if (flows < 3) throw new InputError(`The ${label} ${diameterUnit.label} ${quantity} curve has ${flows} distinct flow${flows === 1 ? '' : 's'}; at least 3 are needed for a fit. Add points to it in ${where}.`);
+      if (flows < 3) throw new InputError(`The ${label} ${bySpeed ? 'rpm' : diameterUnit.label} ${quantity} curve has ${flows} distinct flow${flows === 1 ? '' : 's'}; at least 3 are needed for a fit. Add points to it in ${where}.`);
     }
   }
 
@@ -135,12 +139,18 @@ function build(file: string, o: BuildOptions): number {
   const set = buildCurveSet({
     pump: { name, ...(maker ? { maker } : {}), ...(model ? { model } : {}) },
     speed_rpm: speed,
-    family: 'diameter',
+    family: bySpeed ? 'speed' : 'diameter',
     fluid: { name: sg === 1 ? 'water' : `liquid of SG ${sg}`, density_kg_m3: sg * SG_REFERENCE_DENSITY, specific_gravity: sg },
     display_units: { flow: system.flow, head: system.head, npsh: system.npsh, power: system.power, diameter: system.diameter },
     provenance: { points_file: file === '-' ? 'standard input' : basename(file), notes: [`points table sha256 ${createHash('sha256').update(text).digest('hex')}`] },
     members: [...byDiameter.values()],
   });
+  // A minimum continuous flow stated in the header block ("# minimum flow [gpm]: 120") is kept with the set.
+  const minFlowKey = Object.keys(table.meta).find((k) => /^minimum flow\b/.test(k));
+  const minFlowValue = minFlowKey ? metaNumber(table.meta[minFlowKey]) : undefined;
+  if (minFlowKey && minFlowValue === undefined) throw new InputError(`The "${minFlowKey}" line of the points table ${where} is not a positive number; give the minimum continuous flow as a number.`);
+  const limits = minFlowValue !== undefined ? minFlowLimit(toSI(minFlowValue, parseUnit('flow', /\[(.*)\]/.exec(minFlowKey as string)?.[1] ?? system.flow)), undefined) : undefined;
+  if (limits) set.limits = limits;
   writeTextAtomic(o.output, stringifyCurveSet(set));
   emitReport(o, () => reportJson(set, o.output), () => `${formatReport(set)}Wrote ${o.output === '-' ? 'the curve set to standard output' : o.output}\n`);
   return set.findings.some((f) => f.severity === 'fail') ? EXIT_FAILED_CHECKS : EXIT_OK;

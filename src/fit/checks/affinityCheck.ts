@@ -23,11 +23,12 @@ import { parabolaCrossing } from '../affinity.ts';
 import { evaluateUnchecked, inDomain } from '../polynomial.ts';
 import type { Display } from './display.ts';
 import { makeFinding } from './finding.ts';
+import { SPEED_METHOD, speedSpanFindings } from '../speedFamilyCheck.ts';
 
 export const AFFINITY_WARN = 0.03;
 export const AFFINITY_FAIL = 0.06;
 const METHOD_TRIM = 'Affinity law for impeller trim (Q ∝ D, H ∝ D²; Karassik, Pump Handbook); limits from ISO 9906 grade 2B head band';
-const METHOD_SPEED = 'Affinity law for speed (Q ∝ n, H ∝ n²; Karassik, Pump Handbook); limits from ISO 9906 grade 2B head band';
+const METHOD_SPEED = `${SPEED_METHOD}; limits from ISO 9906 grade 2B head band`;
 /** Matching points are taken over this part of each curve's flow range. */
 const FRACTIONS = [0.2, 0.3, 0.4, 0.5, 0.6, 0.7, 0.8, 0.9];
 
@@ -169,7 +170,11 @@ export function affinityFindings(set: Pick<CurveSet, 'members' | 'family'>, show
         message:
           `The ${name(worst.item)} head curve disagrees with the affinity law: scaled from ${neighbours}, the predicted head at matching flows is ` +
           `${show.percent(worst.best.cmp.headDeviation)} off the drawn curve${alongParabola(worst.best.cmp, show, 'outlier')}. ` +
-          (Number.isFinite(implied) ? `Its neighbours put this curve at about ${sizeText(implied)}; check the ${bySpeed ? 'speed' : 'diameter'} label and which line was traced.` : 'Check its label and which line was traced.'),
+          (!Number.isFinite(implied)
+            ? 'Check its label and which line was traced.'
+            : bySpeed
+              ? `By its neighbours the ${name(worst.item)} curve fits about ${sizeText(implied)}; check the speed label and which line was traced.`
+              : `Its neighbours put this curve at about ${sizeText(implied)}; check the diameter label and which line was traced.`),
         method,
         figures: {
           head_deviation: worst.best.cmp.headDeviation,
@@ -219,5 +224,6 @@ export function affinityFindings(set: Pick<CurveSet, 'members' | 'family'>, show
       }),
     );
   }
+  findings.push(...speedSpanFindings(set));
   return findings;
 }

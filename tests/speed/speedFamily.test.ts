@@ -1,0 +1,61 @@
+/**
+ * A speed family (one impeller drawn at several speeds) read from a points table: the speed
+ * affinity law (Q ∝ n, H ∝ n²; Karassik, Pump Handbook; Lobanoff & Ross) must pass an exact
+ * invented family and name the curve whose speed label is wrong.
+ */
+import { describe, expect, it } from 'vitest';
+import { inventedSpeedFamily, speedFamilyPointsText } from '../../src/demo/inventedSpeedFamily.ts';
+import { readPointsTable, PointsTableError } from '../../src/model/pointsTable.ts';
+import { buildSpeedSetFromText } from './buildSpeedSet.ts';
+
+describe('a speed family from a points table', () => {
+  it('reads a speed column in place of the diameter column, long and wide', () => {
+    const long = readPointsTable(speedFamilyPointsText(inventedSpeedFamily()));
+    expect(long.family).toBe('speed');
+    expect(new Set(long.rows.map((r) => r.speed))).toEqual(new Set([1450, 1300, 1150, 1000]));
+    expect(long.rows.every((r) => r.diameter === undefined)).toBe(true);
+    const wide = readPointsTable('speed [rpm],flow [m3/h],head [m]\n1450,0,24\n1450,50,22\n');
+    expect(wide.family).toBe('speed');
+    expect(wide.rows[1]).toMatchObject({ speed: 1450, flow: 50, value: 22 });
+  });
+
+  it('refuses a table that mixes diameters and speeds, or gives speed in another unit, with one sentence', () => {
+    expect(() => readPointsTable('diameter [mm],speed [rpm],flow [m3/h],head [m]\n200,1450,0,24\n')).toThrow(PointsTableError);
+    expect(() => readPointsTable('diameter [mm],speed [rpm],flow [m3/h],head [m]\n200,1450,0,24\n')).toThrow(/one family/);
+    expect(() => readPointsTable('speed [Hz],flow [m3/h],head [m]\n50,0,24\n')).toThrow(/rpm/);
+  });
+
+  it('builds the invented four-speed family and passes the speed-affinity check', () => {
+    const set = buildSpeedSetFromText(speedFamilyPointsText(inventedSpeedFamily(), { seed: 5 }));
+    expect(set.family).toBe('speed');
+    expect(set.members.map((m) => m.speed_rpm)).toEqual([1450, 1300, 1150, 1000]);
+    expect(set.findings.filter((f) => f.severity !== 'note')).toEqual([]);
+    const summary = set.findings.find((f) => f.code === 'affinity.summary');
+    expect(summary?.method).toMatch(/Karassik/);
+    // The invented family obeys the law exactly; with 0.2 % reading noise the worst head deviation stays under 1 %.
+    expect(summary?.figures.worst_head_deviation).toBeLessThan(0.01);
+    // Exponent 2 of H ∝ n², within 0.1.
+    expect(Math.abs((summary?.figures.implied_exponent ?? 0) - 2)).toBeLessThan(0.1);
+  });
+
+  it('fails when one curve carries a wrong speed label, and names that curve and the speed it fits', () => {
+    const set = buildSpeedSetFromText(speedFamilyPointsText(inventedSpeedFamily(), { seed: 5, relabel: { 1: 1200 } }));
+    const fails = set.findings.filter((f) => f.severity === 'fail');
+    expect(fails).toHaveLength(1);
+    const f = fails[0]!;
+    expect(f.code).toBe('affinity.outlier');
+    expect(f.subject.speed_rpm).toBe(1200);
+    expect(f.message).toMatch(/^The 1200 rpm head curve/);
+    // The curve was drawn at 1300 rpm: the implied speed is within 2 % of it.
+    expect(Math.abs((f.figures.implied_size ?? 0) / 1300 - 1)).toBeLessThan(0.02);
+    expect(f.message).toMatch(/fits about 1[23]\d\d rpm/);
+  });
+
+  it('warns when neighbouring drawn speeds are more than 20 % apart', () => {
+    const fam = { ...inventedSpeedFamily(), speeds_rpm: [1450, 1000] };
+    const set = buildSpeedSetFromText(speedFamilyPointsText(fam, { seed: 2 }));
+    const span = set.findings.find((f) => f.code === 'affinity.speed-span');
+    expect(span?.severity).toBe('warn');
+    expect(span?.message).toMatch(/1450 rpm and 1000 rpm/);
+  });
+});
