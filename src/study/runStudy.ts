@@ -32,7 +32,14 @@ export function isFailing(r: OptionResult): boolean {
 
 /** Orders option results: sound before failing, then by life-cycle cost (or energy), then by name. */
 export function rankOptions(results: OptionResult[]): OptionResult[] {
-  return [...results].sort((a, b) => Number(isFailing(a)) - Number(isFailing(b)) || rankValue(a) - rankValue(b) || a.name.localeCompare(b.name));
+  // An option without an energy figure (a profile step it cannot deliver) ranks after those with one.
+  const byValue = (a: OptionResult, b: OptionResult) => {
+    const x = rankValue(a);
+    const y = rankValue(b);
+    if (Number.isFinite(x) && Number.isFinite(y)) return x - y;
+    return Number(!Number.isFinite(x)) - Number(!Number.isFinite(y));
+  };
+  return [...results].sort((a, b) => Number(isFailing(a)) - Number(isFailing(b)) || byValue(a, b) || a.name.localeCompare(b.name));
 }
 
 /**
@@ -92,6 +99,8 @@ function whyBestWins(ranked: OptionResult[], byCost: boolean): string {
   const failWords = failed ? ` ${failed} option${failed > 1 ? 's fail' : ' fails'} a check (NPSH, motor, duty or curve set) and rank${failed > 1 ? '' : 's'} last.` : '';
   const next = sound[1];
   if (!next) return `"${best.name}" is the only option that passes every check.${failWords}`;
+  if (!Number.isFinite(value(best))) return `No option that passes every check has a ${measure} figure (see each option's findings), so they are listed by name; "${best.name}" comes first.${failWords}`;
+  if (!Number.isFinite(value(next))) return `"${best.name}" is the only option that passes every check with a ${measure} figure; the others lack one (see their findings).${failWords}`;
   const saving = (value(next) - value(best)) / value(next);
   const parts = [`"${best.name}" wins: the lowest ${measure} of the options that pass every check, ${(100 * saving).toFixed(1)} % below "${next.name}"`];
   if (best.energy && next.energy) parts.push(`it uses ${Math.round(best.energy.kWh).toLocaleString('en')} kWh a year against ${Math.round(next.energy.kWh).toLocaleString('en')}`);

@@ -55,9 +55,9 @@ function expectSound(r: Run, label: string, output?: string): void {
   }
 }
 
-const counts = { tables: 0, sets: 0, takeoffs: 0, transfers: 0 };
+const counts = { tables: 0, sets: 0, takeoffs: 0, transfers: 0, studies: 0 };
 /** Exit codes per kind of input, printed at the end: a fuzz that only ever refuses tests little. */
-const exits: Record<keyof typeof counts, [number, number, number]> = { tables: [0, 0, 0], sets: [0, 0, 0], takeoffs: [0, 0, 0], transfers: [0, 0, 0] };
+const exits: Record<keyof typeof counts, [number, number, number]> = { tables: [0, 0, 0], sets: [0, 0, 0], takeoffs: [0, 0, 0], transfers: [0, 0, 0], studies: [0, 0, 0] };
 const tally = (kind: keyof typeof counts, r: Run) => {
   counts[kind]++;
   (exits[kind] as number[])[r.code] = ((exits[kind] as number[])[r.code] ?? 0) + 1;
@@ -331,18 +331,30 @@ describe(`fuzz (seed ${SEED})`, () => {
     });
   });
 
-  // STUDY FILES JOIN HERE. The `study` command (src/cli/commands/study.ts, another branch)
-  // is not on this branch yet. When it lands, add a case like the ones above: mutate a
-  // committed study file with `mutateJson` and run `study <file>` (and its --json form)
-  // through `runCli` and `expectSound`, about 100 runs, so that the total stays above 500.
-  it.todo('mutated study files: study refuses with a sentence or gives a sound report');
+  it('100 mutated study files: study refuses with a sentence or gives a sound report', async () => {
+    // The study names its curve set by a path relative to the study file: keep both side by side.
+    for (const f of ['invented-si3-si.curveset.json', 'invented-es4-us.curveset.json']) write(f, readFileSync(join(ROOT, 'samples', 'demo', f), 'utf8'));
+    const studies = ['invented-si3.study.json', 'invented-es4.study.json'].map((f) => readFileSync(join(ROOT, 'samples', 'demo', f), 'utf8'));
+    const cases = fc.sample(fc.tuple(fc.nat(), fc.array(jsonPlan, { minLength: 1, maxLength: 3 }), fc.boolean()), { seed: SEED + 4, numRuns: 100 });
+    for (const [k, [which, plans, json]] of cases.entries()) {
+      let text: string;
+      try {
+        text = mutateJson(studies[which % studies.length] as string, plans);
+      } catch {
+        text = '{';
+      }
+      const r = await runCli(['study', write(`s${k}.study.json`, text), ...(json ? ['--json'] : [])]);
+      expectSound(r, `study case ${k} ${JSON.stringify(plans).slice(0, 400)}`);
+      tally('studies', r);
+    }
+  });
 
   it('ran at least 500 cases', () => {
-    const total = counts.tables + counts.sets + counts.takeoffs + counts.transfers;
+    const total = counts.tables + counts.sets + counts.takeoffs + counts.transfers + counts.studies;
     console.log(`fuzz: ${total} runs; exit 0 / 1 / 2 per input: ${Object.entries(exits).map(([k, [a, b, c]]) => `${k} ${a}/${b}/${c}`).join(', ')}`);
     expect(total, JSON.stringify(counts)).toBeGreaterThanOrEqual(500);
     // Each kind must reach real results too, not refusals alone.
-    for (const kind of ['tables', 'sets'] as const) expect(exits[kind][0] + exits[kind][1], kind).toBeGreaterThan(counts[kind] / 5);
+    for (const kind of ['tables', 'sets', 'studies'] as const) expect(exits[kind][0] + exits[kind][1], kind).toBeGreaterThan(counts[kind] / 5);
   });
 });
 

@@ -70,7 +70,7 @@ const [file, id, n] = process.argv.slice(2);
 const store = LibraryStore.open(file);
 const set = JSON.parse(store.get(id).body);
 process.stdout.write('ready\\n');
-for (let i = 0; i < Number(n); i++) store.addRevision(id, { ...set, pump: { ...set.pump, name: 'Invented other process ' + i } });
+for (let i = 0; i < Number(n); i++) store.addRevision(id, { ...set, pump: { ...set.pump, name: 'Invented other process ' + i } }, { asNewRevision: true });
 store.close();
 `,
     );
@@ -82,13 +82,24 @@ store.close();
       child.stdout.on('data', (c: Buffer) => c.toString().includes('ready') && resolve());
       child.on('exit', () => resolve());
     });
-    const puts: Array<Promise<{ status: number }>> = [];
+    // Each server write names the revision it read (If-Match); when the other process got in
+    // between, the answer is 412 and nothing is stored, and the writer reads again and retries.
+    const statuses: number[] = [];
+    let refused = 0; // 412 answers, each followed by a fresh read
     for (let i = 0; i < 60; i++) {
-      puts.push(postJson(`${server.url}/api/curvesets/${id}`, { ...set, pump: { ...set.pump, name: `Invented server ${i}` } }, 'PUT'));
-      if (i % 10 === 0) await new Promise((r) => setTimeout(r, 5));
+      for (let attempt = 0; attempt < 50; attempt++) {
+        const current = (await json(`${server.url}/api/curvesets/${id}`)).headers.get('etag') ?? '';
+        const put = await postJson(`${server.url}/api/curvesets/${id}?as_new_revision=true`, { ...set, pump: { ...set.pump, name: `Invented server ${i}` } }, 'PUT', { 'if-match': current });
+        if (put.status === 412) {
+          refused++;
+          continue;
+        }
+        statuses.push(put.status);
+        break;
+      }
     }
-    const statuses = (await Promise.all(puts)).map((r) => r.status);
     expect(await exited, stderr).toBe(0);
+    expect(statuses.length).toBe(60);
     expect(statuses.every((s) => s === 200)).toBe(true);
     revisionsAreComplete(id, 161);
     const names = server.store.revisions(id).map((r) => JSON.parse(server.store.get(id, r.revision).body).pump.name as string);
