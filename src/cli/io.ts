@@ -10,7 +10,7 @@
  * never leaves a half-written file where a good one was.
  */
 import { existsSync, readFileSync, readSync, renameSync, statSync, writeFileSync, writeSync, unlinkSync } from 'node:fs';
-import { basename, dirname, join } from 'node:path';
+import { basename, dirname, join, resolve } from 'node:path';
 import type { CurveSet } from '../model/curveset.ts';
 import { parseCurveSetJson } from '../model/curvesetIO.ts';
 import { InputError } from './errors.ts';
@@ -162,4 +162,25 @@ export function positiveOption(value: string | undefined, flag: string): number 
   const v = isDecimalText(value) ? Number(value) : Number.NaN; // decimal only: "0x10" is not 16
   if (!Number.isFinite(v) || v <= 0) throw new InputError(`The option ${flag} must be a positive number, not "${value}".`);
   return v;
+}
+
+/**
+ * Curve sets named inside a study file, by paths relative to that file, each read once.
+ * `load` is what the study asks for; `loaded` lists what was read (for the exit code).
+ */
+export function curveSetsBeside(studyFile: string): { load(path: string): CurveSet; loaded(): CurveSet[] } {
+  const base = dirname(resolve(studyFile));
+  const cache = new Map<string, CurveSet>();
+  return {
+    load(path: string): CurveSet {
+      const full = resolve(base, path);
+      let set = cache.get(full);
+      if (!set) {
+        set = readCurveSet(full);
+        cache.set(full, set);
+      }
+      return set;
+    },
+    loaded: () => [...cache.values()],
+  };
 }

@@ -14,13 +14,12 @@ import { loadSheetFileNode } from '../../digitize/loaders/sheetNode.ts';
 import { replayTakeoff } from '../../digitize/takeoff.ts';
 import { parseTakeoff, TakeoffError } from '../../model/takeoff.ts';
 import { parseStudy } from '../../model/study.ts';
-import type { CurveSet } from '../../model/curveset.ts';
 import { failingFindings } from '../../duty/trust.ts';
 import { runStudy } from '../../study/runStudy.ts';
 import { makeRecord, samePump } from '../../record/makeRecord.ts';
 import { PAPER, type Paper } from '../../record/recordPdf.ts';
 import { describeZodError, EXIT_FAILED_CHECKS, EXIT_OK, InputError, runCommand } from '../errors.ts';
-import { isStdio, readCurveSet, readText } from '../io.ts';
+import { curveSetsBeside, isStdio, readText } from '../io.ts';
 
 interface ReportOptions {
   takeoff: string;
@@ -72,17 +71,8 @@ async function report(o: ReportOptions): Promise<number> {
   const sheet = await loadSheetFileNode(sheetPath, { page: takeoff.page });
   try {
     const replay = await replayTakeoff(takeoff, sheet, { takeoffName: basename(o.takeoff), sheetFile: basename(sheetPath) });
-    const base = dirname(resolve(o.study));
-    const cache = new Map<string, CurveSet>();
-    const load = (path: string) => {
-      const full = resolve(base, path);
-      let set = cache.get(full);
-      if (!set) {
-        set = readCurveSet(full);
-        cache.set(full, set);
-      }
-      return set;
-    };
+    const sets = curveSetsBeside(o.study);
+    const load = (path: string) => sets.load(path);
     const result = runStudy(study, load);
     const onSheet = (r: { option: { curveset: string } }) => samePump(load(r.option.curveset), replay.curveSet);
     if (!result.ranked.some(onSheet)) {
@@ -111,7 +101,7 @@ async function report(o: ReportOptions): Promise<number> {
       for (const n of overlay.notes) process.stderr.write(`note: ${n}\n`);
       process.stderr.write(`Wrote ${o.output} (${result.ranked.length} options, ${overlay.panels.length} panels, ${o.paper}).\n`);
     }
-    const setFails = [...cache.values(), replay.curveSet].some((s) => failingFindings(s) !== undefined);
+    const setFails = [...sets.loaded(), replay.curveSet].some((s) => failingFindings(s) !== undefined);
     const noneOk = result.ranked.every((r) => r.findings.some((f) => f.severity === 'fail'));
     return setFails || noneOk ? EXIT_FAILED_CHECKS : EXIT_OK;
   } finally {

@@ -6,17 +6,15 @@
  * 2 for unusable input (one sentence on stderr).
  */
 import type { Command } from 'commander';
-import { dirname, resolve } from 'node:path';
 import { ZodError } from 'zod';
 import { parseStudy } from '../../model/study.ts';
 import { describeZodError } from '../../model/errors.ts';
-import type { CurveSet } from '../../model/curveset.ts';
 import { runStudy } from '../../study/runStudy.ts';
 import { studyUnitSystem } from '../../study/resolve.ts';
 import { studyText, studyView } from '../../study/view.ts';
 import { failingFindings } from '../../duty/trust.ts';
 import { EXIT_FAILED_CHECKS, EXIT_OK, InputError, runCommand } from '../errors.ts';
-import { readCurveSet, readText } from '../io.ts';
+import { curveSetsBeside, readText } from '../io.ts';
 
 export function register(program: Command): void {
   program
@@ -42,20 +40,11 @@ function study(file: string, o: { json?: boolean }): number {
     if (error instanceof ZodError) throw new InputError(describeZodError(error, `The study file "${file}"`));
     throw error;
   }
-  const base = dirname(resolve(file));
-  const cache = new Map<string, CurveSet>();
-  const load = (path: string) => {
-    const full = resolve(base, path);
-    let set = cache.get(full);
-    if (!set) {
-      set = readCurveSet(full);
-      cache.set(full, set);
-    }
-    return set;
-  };
+  const sets = curveSetsBeside(file);
+  const load = (path: string) => sets.load(path);
   const result = runStudy(parsed, load);
   const view = studyView(result, studyUnitSystem(parsed), { file });
   process.stdout.write(o.json ? `${JSON.stringify(view, null, 2)}\n` : studyText(view));
-  const setFails = [...cache.values()].some((s) => failingFindings(s) !== undefined);
+  const setFails = sets.loaded().some((s) => failingFindings(s) !== undefined);
   return setFails || view.result === 'fail' ? EXIT_FAILED_CHECKS : EXIT_OK;
 }

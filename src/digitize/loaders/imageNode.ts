@@ -53,7 +53,7 @@ function checkHeader(bytes: Uint8Array, name: string, limits: SheetLimits, maxSo
   }
 }
 
-/** Interlaced PNGs: decoded by the canvas library, still in this process, drawn at the working size. */
+/** JPEGs and interlaced PNGs: decoded by the canvas library, in this process, drawn at the working size. */
 async function decodeWithCanvas(bytes: Uint8Array, width: number, height: number): Promise<DecodedImage> {
   const { createCanvas, loadImage } = await import('@napi-rs/canvas'); // loaded only when needed: it is a native library
   const image = await loadImage(Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength));
@@ -61,9 +61,13 @@ async function decodeWithCanvas(bytes: Uint8Array, width: number, height: number
   const ctx = canvas.getContext('2d');
   ctx.fillStyle = '#ffffff';
   ctx.fillRect(0, 0, width, height);
-  ctx.imageSmoothingEnabled = true;
-  ctx.imageSmoothingQuality = 'high';
-  ctx.drawImage(image, 0, 0, width, height);
+  if (width === image.width && height === image.height) {
+    ctx.drawImage(image, 0, 0); // at scale 1 no filter touches the pixels, as in the browser
+  } else {
+    ctx.imageSmoothingEnabled = true;
+    ctx.imageSmoothingQuality = 'high';
+    ctx.drawImage(image, 0, 0, width, height);
+  }
   return { width, height, data: new Uint8ClampedArray(ctx.getImageData(0, 0, width, height).data) };
 }
 
@@ -86,7 +90,14 @@ export async function loadImageRasterNode(bytes: Uint8Array, options: ImageNodeO
         decoded = await decodeWithCanvas(bytes, size.width, size.height);
       }
     } else {
-      decoded = await decodeJpeg(bytes, size.width, size.height);
+      // JPEG decoders round differently. The browser decodes with libjpeg-turbo, and so does the
+      // canvas library here, so the workbench and the headless replay follow the same pixels and
+      // give the same curve set (the JavaScript decoder in imageDecode.ts differed by up to 1 %
+      // of a curve's domain on the committed sample scan).
+      // The JavaScript decoder reads the whole file first: a damaged or hostile JPEG is refused
+      // there with a sentence, before the native decoder (which may crash on one) sees it.
+      await decodeJpeg(bytes, size.width, size.height);
+      decoded = await decodeWithCanvas(bytes, size.width, size.height);
     }
   } catch (error) {
     throw damagedImage(name, header.format, error);

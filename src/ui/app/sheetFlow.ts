@@ -9,7 +9,7 @@ import { describeZodError } from '../../model/errors.ts';
 import { choosePage, newSheetDraft, readFromSheet } from '../store/actions/setup.ts';
 import { readHints, type TextItem } from '../geometry/hints.ts';
 import type { Draft, SheetRef } from '../store/draft.ts';
-import { pointsOf } from '../store/draft.ts';
+import { frameOfPanel, pointsOf } from '../store/draft.ts';
 import { fromTakeoffFile } from '../store/takeoffFile.ts';
 import { unitSystemOf, type Step } from '../store/store.ts';
 import { isStep } from '../steps/registry.ts';
@@ -245,7 +245,7 @@ export class SheetFlow {
     for (const [i, t] of missing.entries()) {
       this.progress(`Tracing ${i + 1} of ${missing.length}`, i / missing.length);
       try {
-        const answer = await this.bench.worker.call('capture', { guides: t.guides.map((g) => [g[0], g[1]]), method: t.method, ...(t.extent ? { extent: t.extent } : {}) });
+        const answer = await this.bench.worker.call('capture', { guides: t.guides.map((g) => [g[0], g[1]]), method: t.method, ...(t.extent ? { extent: t.extent } : {}), ...frameOfPanel(this.store.draft.panels, t.panel) });
         const draft = this.store.draft;
         this.store.dispatch(() => ({ draft: { ...draft, traces: draft.traces.map((x) => (x.id === t.id ? { ...x, captured: answer.points } : x)) }, label: 'capture', undoable: false }));
       } catch (error) {

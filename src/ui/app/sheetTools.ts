@@ -12,7 +12,7 @@ import type { Magnifier } from '../canvas/magnifier.ts';
 import { plotsOfFrame, type TextItem } from '../geometry/hints.ts';
 import type { Snap } from '../geometry/snap.ts';
 import { useProposal } from '../store/actions/panels.ts';
-import { frameOf } from '../store/draft.ts';
+import { frameOf, frameOfPanel } from '../store/draft.ts';
 import type { Store } from '../store/store.ts';
 import { snapRadius, type ToolHost } from '../tools/tool.ts';
 import type { AnchorProposal } from '../worker/protocol.ts';
@@ -101,10 +101,10 @@ export class SheetTools implements ToolHost {
     return this.snapNow(at);
   }
 
-  async capture(guides: readonly SheetXY[], method: 'auto' | 'vector' | 'raster', extent?: 'guides' | 'line'): Promise<{ points: SheetXY[]; gaps: string[] }> {
+  async capture(guides: readonly SheetXY[], method: 'auto' | 'vector' | 'raster', extent?: 'guides' | 'line', panel?: string): Promise<{ points: SheetXY[]; gaps: string[] }> {
     this.host.store.setSession({ busy: true, progress: { label: 'Tracing…', fraction: null } });
     try {
-      const answer = await this.host.worker.call('capture', { guides: guides.map((g) => [g[0], g[1]]), method, ...(extent ? { extent } : {}) }, (p) => this.host.store.setSession({ progress: { label: p.label, fraction: p.fraction } }));
+      const answer = await this.host.worker.call('capture', { guides: guides.map((g) => [g[0], g[1]]), method, ...(extent ? { extent } : {}), ...frameOfPanel(this.host.store.draft.panels, panel) }, (p) => this.host.store.setSession({ progress: { label: p.label, fraction: p.fraction } }));
       if (answer.points.length < 2) {
         const why = answer.gaps.length ? ` (${answer.gaps.join(' ')})` : '';
         throw new Error(`No line could be followed from this click${why}; click right on the line, zoom in if lines run close, or add guides with Shift-click.`);

@@ -365,7 +365,7 @@ export class Workbench implements Bench {
   retrace(id: string): void {
     const trace = this.store.draft.traces.find((t) => t.id === id);
     if (!trace || trace.guides.length === 0) return;
-    void this.sheetTools.capture(trace.guides, trace.method, trace.extent).then(
+    void this.sheetTools.capture(trace.guides, trace.method, trace.extent, trace.panel).then(
       ({ points, gaps }) => {
         this.store.dispatch(setGuides(id, trace.guides, points, 're-trace'));
         this.store.say(gaps.length ? gaps.join(' ') : `Re-traced: ${points.length} points.`, gaps.length ? 'caution' : 'done');

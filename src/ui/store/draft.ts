@@ -155,3 +155,9 @@ export function anchorAxis(a: AnchorDraft): 'x' | 'y' {
   if (a.y !== undefined && a.x === undefined) return 'y';
   return a.label?.trim().toLowerCase().startsWith('y') ? 'y' : 'x';
 }
+
+/** The explicit frame of a trace's panel, as a capture request field (the replay uses the same one, never a guessed one). */
+export function frameOfPanel(panels: readonly Pick<PanelDraft, 'id' | 'frame'>[], panel: string | undefined): { frame?: Frame } {
+  const frame = panel === undefined ? undefined : panels.find((p) => p.id === panel)?.frame;
+  return frame ? { frame } : {};
+}

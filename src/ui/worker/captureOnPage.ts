@@ -12,6 +12,6 @@ export async function captureOnPage(session: PageSession, request: CaptureReques
   const guides = request.guides.map((g) => sheetPoint(g[0], g[1]));
   const vector = session.sheet.kind === 'vector-pdf' && request.method !== 'raster';
   progress({ fraction: null, label: vector ? 'Finding the drawn line' : 'Following the line through the picture' });
-  const result = await captureTrace({ guides, method: request.method, extent: request.extent }, { kind: session.sheet.kind, lines: session.lines, raster: session.raster });
+  const result = await captureTrace({ guides, method: request.method, extent: request.extent, frame: request.frame }, { kind: session.sheet.kind, lines: session.lines, raster: session.raster });
   return { points: result.points.map((p) => [p[0], p[1]] as XY), used: result.how === 'vector' ? 'vector' : 'raster', gaps: result.notes };
 }

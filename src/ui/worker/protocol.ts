@@ -18,6 +18,8 @@ export interface CaptureRequest {
   method: 'auto' | 'vector' | 'raster';
   /** The trace's extent, as in the take-off file: from the first guide to the last, or the whole drawn line. */
   extent?: 'guides' | 'line';
+  /** The panel's plot frame, as in the take-off file: a raster trace stops at it, as in the headless replay. */
+  frame?: Rect;
 }
 
 export interface CaptureAnswer {
