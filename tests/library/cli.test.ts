@@ -2,9 +2,8 @@
  * `pumpscribe library …` against a real library file. Most cases run the command in-process (fast);
  * two run the real command line in a child process, to check exit codes and stderr end to end.
  */
-import { afterAll, describe, expect, it, vi } from 'vitest';
-import { Command } from 'commander';
-import { register } from '../../src/cli/commands/library.ts';
+import { afterAll, describe, expect, it } from 'vitest';
+import { runLibrary } from './runCli.ts';
 import { spawnSync } from 'node:child_process';
 import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -21,34 +20,9 @@ function spawnRun(...args: string[]) {
   return { code: r.status, out: r.stdout, err: r.stderr };
 }
 
-class Exit {
-  constructor(readonly code: number) {}
-}
-
 /** Runs `library …` in this process, capturing stdout, stderr and the exit code. */
-async function run(...args: string[]) {
-  const program = new Command('pumpscribe').exitOverride();
-  register(program);
-  let out = '';
-  let err = '';
-  const o = vi.spyOn(process.stdout, 'write').mockImplementation((c: string | Uint8Array) => ((out += String(c)), true));
-  const e = vi.spyOn(process.stderr, 'write').mockImplementation((c: string | Uint8Array) => ((err += String(c)), true));
-  const x = vi.spyOn(process, 'exit').mockImplementation(((code?: number) => {
-    throw new Exit(code ?? 0);
-  }) as never);
-  let code = -1;
-  try {
-    await program.parseAsync(['node', 'pumpscribe', 'library', ...args]);
-  } catch (error) {
-    if (!(error instanceof Exit)) throw error;
-    code = error.code;
-  } finally {
-    o.mockRestore();
-    e.mockRestore();
-    x.mockRestore();
-  }
-  return { code, out, err };
-}
+const run = runLibrary;
+
 function file(name: string, value: unknown): string {
   const p = join(dir, name);
   writeFileSync(p, typeof value === 'string' ? value : JSON.stringify(value, null, 2));
