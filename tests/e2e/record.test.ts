@@ -7,7 +7,8 @@ import { readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { dirname, join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { ARTIFACTS, cleanDir, openBrowser, ROOT, startServer, User, type Browser, type Server } from './harness.ts';
+import { ARTIFACTS, cleanDir, openBrowser, startServer, User, type Browser, type Server } from './harness.ts';
+import { openSampleStudy } from './studyFlow.ts';
 
 const dir = join(ARTIFACTS, 'record');
 let server: Server;
@@ -28,19 +29,7 @@ describe('the selection record in the workbench', () => {
   it('downloads the record after a take-off and a study', async () => {
     const page = browser.page;
     const user = new User(page, dir);
-    await page.goto(server.url);
-    const sheets = join(ROOT, 'samples', 'sheets');
-    await user.chooseFiles(page.locator('#sheet-file'), [join(sheets, 'si-panels-black.pdf'), join(sheets, 'si-panels-black.takeoff.json')], 'sheet and its take-off file');
-    await page.waitForFunction(() => /^Opened /.test(document.querySelector('#message')?.textContent ?? ''), null, { timeout: 120_000 });
-    await page.click('#step-review');
-    await page.waitForSelector('.family-chart', { timeout: 120_000 });
-    // The invented IX-150 family (330 mm, 1480 rpm): 250 m³/h against 30–34 m static.
-    const fields: Record<string, string> = {
-      'duty-flow': '250', 'duty-static': '30', 'duty-static-high': '34', 'duty-temperature': '30', 'duty-suction-static': '1',
-      'duty-suction-diameter': '202.7', 'duty-suction-length': '20', 'duty-suction-k': '1', 'duty-discharge-diameter': '254.5', 'duty-discharge-length': '300', 'duty-discharge-k': '6.5',
-    };
-    for (const [id, value] of Object.entries(fields)) await user.type(page.locator(`#${id}`), value, id);
-    await page.waitForSelector('.study-results table.study-table tbody tr', { timeout: 60_000 });
+    await openSampleStudy(page, user, server.url);
     await user.click(page.locator('#study-add-option'), 'add an option');
     await page.waitForFunction(() => document.querySelectorAll('.study-table tbody tr').length === 2, null, { timeout: 60_000 });
     const rows = page.locator('.study-table tbody tr');

@@ -6,7 +6,8 @@
  */
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { ARTIFACTS, cleanDir, openBrowser, ROOT, startServer, User, type Browser, type Server } from './harness.ts';
+import { ARTIFACTS, cleanDir, openBrowser, startServer, User, type Browser, type Server } from './harness.ts';
+import { openSampleStudy } from './studyFlow.ts';
 
 const dir = join(ARTIFACTS, 'study');
 let server: Server;
@@ -27,19 +28,7 @@ describe('the duty study in the review', () => {
   it('shows the margin, the motor and the allowable elevation for each option, added with a click', async () => {
     const page = browser.page;
     const user = new User(page, dir);
-    await page.goto(server.url);
-    const sheets = join(ROOT, 'samples', 'sheets');
-    await user.chooseFiles(page.locator('#sheet-file'), [join(sheets, 'si-panels-black.pdf'), join(sheets, 'si-panels-black.takeoff.json')], 'sheet and its take-off file');
-    await page.waitForFunction(() => /^Opened /.test(document.querySelector('#message')?.textContent ?? ''), null, { timeout: 120_000 });
-    await page.click('#step-review');
-    await page.waitForSelector('.family-chart', { timeout: 120_000 });
-    // The invented IX-150 family (330 mm, 1480 rpm): 250 m³/h against 30–34 m static, 10 in discharge.
-    const fields: Record<string, string> = {
-      'duty-flow': '250', 'duty-static': '30', 'duty-static-high': '34', 'duty-temperature': '30', 'duty-suction-static': '1',
-      'duty-suction-diameter': '202.7', 'duty-suction-length': '20', 'duty-suction-k': '1', 'duty-discharge-diameter': '254.5', 'duty-discharge-length': '300', 'duty-discharge-k': '6.5',
-    };
-    for (const [id, value] of Object.entries(fields)) await user.type(page.locator(`#${id}`), value, id);
-    await page.waitForSelector('.study-results table.study-table tbody tr', { timeout: 60_000 });
+    await openSampleStudy(page, user, server.url);
     expect(await page.locator('.study-table tbody tr').count()).toBe(1);
 
     await user.click(page.locator('#study-add-option'), 'add an option');
