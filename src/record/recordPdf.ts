@@ -198,7 +198,13 @@ function marker(page: PDFPage, kind: string, x: number, y: number, o: OverlayOpt
   } else if (kind === 'operating-high') page.drawCircle({ x, y, size: 2.8, color: c, borderColor: INK, borderWidth: 0.4 });
   else if (kind === 'operating-low') page.drawCircle({ x, y, size: 2.8, borderColor: c, borderWidth: 1 });
   else page.drawSquare({ x: x - 2.5, y: y - 2.5, size: 5, color: rgb(1, 1, 1), borderColor: c, borderWidth: 1 });
-  if (label) page.drawText(label, { x: x + 4, y: y + 3 - dy, size: 6.5, font, color: c });
+  if (label) {
+    // Black on a white patch: the sheet's own lines do not strike the figure through, and it reads in grey print.
+    const size = 6.5;
+    const tw = font.widthOfTextAtSize(label, size);
+    page.drawRectangle({ x: x + 3.2, y: y + 1.6 - dy, width: tw + 1.6, height: size + 0.4, color: rgb(1, 1, 1), opacity: 0.85 });
+    page.drawText(label, { x: x + 4, y: y + 3 - dy, size, font, color: INK });
+  }
 }
 
 async function sheetPage(w: Writer, input: RecordInput) {
@@ -261,13 +267,17 @@ async function sheetPage(w: Writer, input: RecordInput) {
     }
   }
   w.y = top - s * sheet.height - 8;
-  legend(w, input);
+  legend(w, input, SHEET_LEGEND);
   for (const n of overlay.notes) w.para(n, { size: 8 });
 }
 
-function legend(w: Writer, input: RecordInput) {
+const MARKS_LEGEND = 'filled circle = operating point at the high static head; open circle = at the low static head; cross = duty point';
+const SHEET_LEGEND = `Legend: ${MARKS_LEGEND}; square = value read at the duty flow, labelled with the option\u2019s number. The thinner line is the system at the low static head; the wide pale band is the POR on the option\u2019s own curve (trimmed impeller or reduced speed). Several pumps in parallel: the system is drawn against the flow of one pump.`;
+const CHART_LEGEND = `Legend: ${MARKS_LEGEND}. The thinner line is the system at the low static head; the option\u2019s own curve (trimmed impeller or reduced speed) is drawn in its style. Several pumps in parallel: the system is drawn against the flow of one pump.`;
+
+function legend(w: Writer, input: RecordInput, text: string) {
   const { overlay } = input;
-  w.para('Legend: filled circle = operating point at the high static head; open circle = at the low static head; cross = duty point; square = value read at the duty flow. The thinner line is the system at the low static head; the wide pale band is the POR on the option\u2019s own curve (trimmed impeller or reduced speed). Several pumps in parallel: the system is drawn against the flow of one pump.', { size: 7.5 });
+  w.para(text, { size: 7.5 });
   for (const o of overlay.options) {
     w.need(12);
     w.y -= 11;
@@ -291,21 +301,21 @@ function tablePages(w: Writer, input: RecordInput) {
   w.para(`Units: flow ${lab('flow', u.flow)}, head and NPSH ${lab('head', u.head)}, power ${lab('power', u.power)}, impeller ${lab('diameter', u.diameter)}. Flow and power are totals of all pumps at the duty; head, efficiency, NPSH and motor are per pump.`, { size: 8.5 });
   w.para(`Result: ${v.why}`);
   const f = (x: number | null | undefined, d = 4) => (x === null || x === undefined || !Number.isFinite(x) ? '-' : formatNumber(x, d));
-  const cols: { h: string; w: number; cell: (o: StudyView['options'][number]) => string }[] = [
-    { h: '#', w: 14, cell: (o) => String(o.rank) },
-    { h: 'option', w: 118, cell: (o) => o.name },
-    { h: 'pumps', w: 28, cell: (o) => `${o.pumps}${o.control === 'speed' ? ' VS' : ''}` },
-    { h: 'impeller', w: 38, cell: (o) => f(o.diameter) },
-    { h: 'speed', w: 30, cell: (o) => (o.speed === null ? '-' : String(Math.round(o.speed))) },
-    { h: 'flow', w: 34, cell: (o) => f(o.flow) },
-    { h: 'head', w: 32, cell: (o) => f(o.head) },
-    { h: 'eff %', w: 28, cell: (o) => f(o.efficiency, 3) },
-    { h: 'power', w: 34, cell: (o) => f(o.power) },
-    { h: 'motor', w: 44, cell: (o) => o.motor_rating ?? '-' },
-    { h: 'NPSH ratio', w: 40, cell: (o) => (o.npsh_margin_ratio === null ? '-' : o.npsh_margin_ratio.toFixed(2)) },
-    { h: 'kWh/yr', w: 40, cell: (o) => (o.annual_energy_kwh === null ? '-' : String(Math.round(o.annual_energy_kwh))) },
-    { h: 'LCC', w: 40, cell: (o) => (o.life_cycle_cost === null ? '-' : String(Math.round(o.life_cycle_cost))) },
-    { h: 'result', w: 30, cell: (o) => (o.result === 'fail' ? 'FAIL' : 'ok') },
+  const cols: { h: string; unit: string; w: number; cell: (o: StudyView['options'][number]) => string }[] = [
+    { h: '#', unit: '', w: 14, cell: (o) => String(o.rank) },
+    { h: 'option', unit: '', w: 108, cell: (o) => o.name },
+    { h: 'pumps', unit: '', w: 32, cell: (o) => `${o.pumps}${o.control === 'speed' ? ' VS' : ''}` },
+    { h: 'impeller', unit: lab('diameter', u.diameter), w: 38, cell: (o) => f(o.diameter) },
+    { h: 'speed', unit: 'rpm', w: 30, cell: (o) => (o.speed === null ? '-' : String(Math.round(o.speed))) },
+    { h: 'flow', unit: lab('flow', u.flow), w: 34, cell: (o) => f(o.flow) },
+    { h: 'head', unit: lab('head', u.head), w: 32, cell: (o) => f(o.head) },
+    { h: 'eff', unit: '%', w: 26, cell: (o) => f(o.efficiency, 3) },
+    { h: 'power', unit: lab('power', u.power), w: 34, cell: (o) => f(o.power) },
+    { h: 'motor', unit: '', w: 44, cell: (o) => o.motor_rating ?? '-' },
+    { h: 'NPSHa/', unit: 'NPSH3', w: 36, cell: (o) => (o.npsh_margin_ratio === null ? '-' : o.npsh_margin_ratio.toFixed(2)) },
+    { h: 'energy', unit: 'kWh/yr', w: 40, cell: (o) => (o.annual_energy_kwh === null ? '-' : String(Math.round(o.annual_energy_kwh))) },
+    { h: 'LCC', unit: '', w: 40, cell: (o) => (o.life_cycle_cost === null ? '-' : String(Math.round(o.life_cycle_cost))) },
+    { h: 'result', unit: '', w: 30, cell: (o) => (o.result === 'fail' ? 'FAIL' : 'ok') },
   ];
   const total = cols.reduce((a, c) => a + c.w, 0);
   const k = w.width / total;
@@ -325,6 +335,7 @@ function tablePages(w: Writer, input: RecordInput) {
   };
   w.y -= 4;
   row(cols.map((c) => c.h), w.bold);
+  row(cols.map((c) => c.unit), w.font);
   w.page.drawLine({ start: { x: MARGIN, y: w.y - 3 }, end: { x: MARGIN + w.width, y: w.y - 3 }, thickness: 0.5, color: INK });
   for (const o of v.options) row(cols.map((c) => c.cell(o)), w.font);
   w.y -= 10;
@@ -350,10 +361,10 @@ function chartPage(w: Writer, input: RecordInput) {
     for (const op of [r.operating_points.low, r.operating_points.high]) if (op) qMax = Math.max(qMax, op.flow_m3s / r.pumps);
     hMax = Math.max(hMax, r.duty?.system_head_m ?? 0);
   }
-  const h = Math.min(w.room - 140, w.width * 0.8);
+  const h = Math.min(w.room - 152, w.width * 0.8);
   const left = MARGIN + 40;
   const right = MARGIN + w.width - 10;
-  const topY = w.y - 10;
+  const topY = w.y - 22; // room for the axis title above the frame
   const bottomY = topY - h;
   const xs = niceLinearScale(0, fromSI(qMax * 1.05, flowU), [left, right], 8);
   const ys = niceLinearScale(0, fromSI(hMax * 1.1, headU), [bottomY, topY], 8);
@@ -372,7 +383,7 @@ function chartPage(w: Writer, input: RecordInput) {
   }
   p.drawRectangle({ x: left, y: bottomY, width: right - left, height: topY - bottomY, borderColor: INK, borderWidth: 0.7 });
   p.drawText(clean(`flow of one pump [${flowU.label}]`, w.font), { x: (left + right) / 2 - 40, y: bottomY - 22, size: 8, font: w.font });
-  p.drawText(clean(`head [${headU.label}]`, w.font), { x: MARGIN - 2, y: topY + 4, size: 8, font: w.font });
+  p.drawText(clean(`head [${headU.label}]`, w.font), { x: MARGIN - 2, y: topY + 11, size: 8, font: w.font });
   const inPlot = (q: number, hh: number) => [xs.map(fromSI(q, flowU)), ys.map(fromSI(hh, headU))] as const;
   const clipY = (pt: readonly [number, number]) => pt[1] >= bottomY - 0.01 && pt[1] <= topY + 0.01 && pt[0] <= right + 0.01;
   const pageH = p.getHeight();
@@ -385,7 +396,8 @@ function chartPage(w: Writer, input: RecordInput) {
     const d = path(pts);
     if (d) p.drawSvgPath(d, { x: 0, y: pageH, borderColor: INK, borderWidth: 0.8 });
     const end = pts[pts.length - 1];
-    const dia = m.diameter_m !== undefined ? formatNumber(fromSI(m.diameter_m, parseUnit('diameter', view.units.diameter)), 4) : `${m.speed_rpm} rpm`;
+    const diaU = parseUnit('diameter', view.units.diameter);
+    const dia = clean(m.diameter_m !== undefined ? `${formatNumber(fromSI(m.diameter_m, diaU), 4)} ${diaU.label}` : `${m.speed_rpm} rpm`, w.font);
     if (end && clipY(end)) p.drawText(dia, { x: end[0] + 2, y: end[1] - 2, size: 6.5, font: w.font, color: INK });
   }
   for (const o of overlay.options) {
@@ -413,7 +425,7 @@ function chartPage(w: Writer, input: RecordInput) {
     }
   }
   w.y = bottomY - 30;
-  legend(w, input);
+  legend(w, input, CHART_LEGEND);
   w.para('Black lines: the curve set\u2019s head curves at rated speed, labelled with the impeller diameter. Drawn in the study\u2019s units from the fitted curves, not from the sheet.', { size: 8 });
 }
 
