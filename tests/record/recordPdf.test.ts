@@ -6,20 +6,20 @@
 import { describe, expect, it } from 'vitest';
 import { spawnSync } from 'node:child_process';
 import { existsSync, mkdtempSync, readdirSync, readFileSync, statSync, writeFileSync } from 'node:fs';
-import { createRequire } from 'node:module';
 import { tmpdir } from 'node:os';
-import { dirname, join, resolve } from 'node:path';
+import { join, resolve } from 'node:path';
 import { makeRecord } from '../../src/record/makeRecord.ts';
 import { PAPER } from '../../src/record/recordPdf.ts';
 import { stringifyCurveSet } from '../../src/model/curvesetIO.ts';
 import { formatNumber } from '../../src/units/index.ts';
 import { studyView } from '../../src/study/view.ts';
 import { studyUnitSystem } from '../../src/study/resolve.ts';
+import { hasPdftotext, oneLine, pdfText, popplerText, shownFigures } from './recordText.ts';
 import { sample, SHEETS, SI_STUDY } from './samples.ts';
 
 const dir = mkdtempSync(join(tmpdir(), 'pumpscribe-record-'));
 const pdftoppm = spawnSync('pdftoppm', ['-v'], { encoding: 'utf8' }).error === undefined;
-if (!pdftoppm) console.warn('pdftoppm is not installed: the PNG rendering checks are skipped. Install poppler-utils (apt-get install -y poppler-utils); CI must install it.');
+if (!pdftoppm || !hasPdftotext) console.warn('pdftoppm or pdftotext is not installed: the PNG rendering and poppler text checks are skipped. Install poppler-utils (apt-get install -y poppler-utils); CI must install it.');
 
 async function record(name: string, paper: 'a4' | 'letter' = 'a4') {
   const s = await sample(name);
@@ -40,34 +40,6 @@ async function record(name: string, paper: 'a4' | 'letter' = 'a4') {
   return { s, made, ms: performance.now() - t0 };
 }
 
-async function pdfText(bytes: Uint8Array): Promise<{ pages: number; text: string; warnings: string[]; sizes: [number, number][] }> {
-  const pdfjs = await import('pdfjs-dist/legacy/build/pdf.mjs');
-  const root = dirname(createRequire(import.meta.url).resolve('pdfjs-dist/package.json'));
-  const warnings: string[] = [];
-  const log = console.log;
-  const warn = console.warn;
-  console.log = (...a: unknown[]) => warnings.push(a.join(' '));
-  console.warn = (...a: unknown[]) => warnings.push(a.join(' '));
-  try {
-    const doc = await pdfjs.getDocument({ data: bytes.slice(), standardFontDataUrl: `${join(root, 'standard_fonts')}/`, verbosity: 1 }).promise;
-    let text = '';
-    const sizes: [number, number][] = [];
-    for (let i = 1; i <= doc.numPages; i++) {
-      const page = await doc.getPage(i);
-      const vp = page.getViewport({ scale: 1 });
-      sizes.push([vp.width, vp.height]);
-      await page.getOperatorList(); // parses every drawing operator: broken content would warn here
-      const tc = await page.getTextContent();
-      text += `${tc.items.map((it) => ('str' in it ? it.str : '')).join(' ')}\n`;
-    }
-    await doc.destroy();
-    return { pages: doc.numPages, text, warnings, sizes };
-  } finally {
-    console.log = log;
-    console.warn = warn;
-  }
-}
-
 describe.each([
   ['si-panels-black', 'vector'],
   ['si-panels-colour-scan', 'scan'],
@@ -83,7 +55,7 @@ describe.each([
     expect(got.pages).toBeGreaterThanOrEqual(5);
     for (const size of got.sizes) expect(size.map(Math.round)).toEqual(PAPER.a4.map(Math.round));
     const v = studyView(s.result, studyUnitSystem(s.result.study), { file: 'x' });
-    const text = got.text.replace(/\s+/g, ' ');
+    const text = oneLine(got.pageText.join('\n'));
     for (const o of v.options) {
       expect(text).toContain(o.name);
       expect(text).toContain(formatNumber(o.flow as number, 4)); // operating (duty) flow
@@ -95,8 +67,19 @@ describe.each([
     expect(text).toContain(s.sha256);
     expect(text).toMatch(/verify against certified data and local codes; a licensed professional approves/);
     // The caution stands on every page.
-    expect(got.text.split('\n').filter((p) => p.includes('a licensed professional approves')).length).toBe(got.pages);
-    if (!pdftoppm) return;
+    expect(got.pageText.filter((p) => oneLine(p).includes('a licensed professional approves')).length).toBe(got.pages);
+    // Selectable text: every figure shown is in the text layer, read by pdf.js and by poppler.
+    const figures = shownFigures(s.result, made.overlay);
+    expect(figures.length).toBeGreaterThan(30);
+    for (const figure of figures) expect(text, figure).toContain(figure);
+    if (!pdftoppm || !hasPdftotext) return;
+    const poppler = popplerText(file);
+    expect(poppler.status, poppler.stderr).toBe(0);
+    expect(poppler.stderr).toBe('');
+    expect(poppler.pages.length).toBe(got.pages);
+    const popText = oneLine(poppler.pages.join('\n'));
+    for (const figure of figures) expect(popText, `pdftotext: ${figure}`).toContain(figure);
+    for (const p of poppler.pages) expect(oneLine(p)).toContain('a licensed professional approves');
     const r = spawnSync('pdftoppm', ['-r', '50', '-png', file, join(dir, name)], { encoding: 'utf8' });
     expect(r.status, r.stderr).toBe(0);
     expect(r.stderr).toBe('');
@@ -128,7 +111,7 @@ describe('pumpscribe report', () => {
     expect(existsSync(out)).toBe(true);
     const got = await pdfText(new Uint8Array(readFileSync(out)));
     expect(got.warnings).toEqual([]);
-    expect(got.text).toContain('75 kW');
+    expect(got.pageText.join('\n')).toContain('75 kW');
   }, 180_000);
 
   it('refuses a bad paper size with one sentence and exit 2', () => {
