@@ -12,10 +12,22 @@ import type { DutyOutcome } from './dutyPanel.ts';
 
 export type RecordPaper = 'a4' | 'letter';
 
+/** The record's code (src/record and pdf-lib), loaded once, on first need. */
+let recordCode: Promise<typeof import('../../record/makeRecord.ts')> | null = null;
+function loadRecordCode() {
+  recordCode ??= import('../../record/makeRecord.ts').catch((error: unknown) => {
+    recordCode = null; // a failed load is tried again at the next click
+    throw error;
+  });
+  return recordCode;
+}
+
 /** The buttons beside the study results; nothing until the study has a result. */
 export function recordButtons(bench: Bench): HTMLElement | null {
   const outcome = bench.duty.outcome;
   if (!outcome || !('result' in outcome) || !bench.derived.takeoff) return null;
+  // The study has a result: fetch the record's code while the engineer reads it, so the click only makes the PDF.
+  void loadRecordCode().catch(() => undefined);
   return h('div', { class: 'record-download' },
     h('h4', null, 'Selection record'),
     h('p', { class: 'hint' }, 'A PDF to file with the project: the sheet with the system curves and operating points drawn on it, the ranked options, the family chart, the findings, NPSH and motor with their cautions, and the provenance.'),
@@ -48,7 +60,8 @@ export async function downloadRecord(src: RecordSources, paper: RecordPaper): Pr
     const t0 = performance.now();
     const calibrations = new Map<string, Calibration>();
     for (const panel of takeoff.panels) calibrations.set(panel.id, calibrate(panel.anchors, { xScale: panel.x_scale, yScale: panel.y_scale, panel: panel.id }));
-    const { makeRecord } = await import('../../record/makeRecord.ts');
+    const { makeRecord } = await loadRecordCode();
+    const loaded = performance.now() - t0;
     const now = new Date().toISOString();
     const { pdf } = await makeRecord({
       takeoff,
@@ -71,7 +84,7 @@ export async function downloadRecord(src: RecordSources, paper: RecordPaper): Pr
     a.click();
     a.remove();
     setTimeout(() => URL.revokeObjectURL(url), 10_000);
-    store.say(`Downloaded the selection record (${paper === 'a4' ? 'A4' : 'US Letter'}, made in ${Math.round(performance.now() - t0)} ms).`, 'done');
+    store.say(`Downloaded the selection record (${paper === 'a4' ? 'A4' : 'US Letter'}, made in ${Math.round(performance.now() - t0)} ms, of which ${Math.round(loaded)} ms waiting for the record's code).`, 'done');
   } catch (error) {
     store.say(`No record was made: ${(error as Error).message}`, 'error');
   }
