@@ -7,21 +7,23 @@
  *    code the workbench runs in the page, median of 5 with the spread, A4 and US Letter;
  * 2. the whole `pumpscribe report` command as a user runs it (child process: start-up, load the
  *    sheet, replay the take-off, run the study, make and write the record), median of 3 with the
- *    spread and peak RSS. It runs the prebuilt bundle (built first when it is missing or older
- *    than src/, as `npm install` would), and says so.
+ *    spread, peak RSS and CPU time (user + system, which a busy shared machine inflates less
+ *    than the wall time), interleaved round by round with a bare `node -e 0` as the yardstick of
+ *    how busy the machine is; the load average is printed beside. It runs the prebuilt bundle
+ *    (built first when it is missing or older than src/, as `npm install` would), and says so.
  *
  * The browser side (click to saved file in Chromium) is measured by tests/e2e/record.test.ts.
  * The machines are shared: medians and spreads, not single runs.
  */
 import { spawnSync } from 'node:child_process';
 import { existsSync, mkdtempSync, readdirSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { loadavg, tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { stringifyCurveSet } from '../src/model/curvesetIO.ts';
 import { makeRecord } from '../src/record/makeRecord.ts';
 import type { Paper } from '../src/record/recordPdf.ts';
 import { sample, SHEETS, SI_STUDY } from '../tests/record/samples.ts';
-import { BIN, median, mib, ROOT, runNode, spread } from './processes.ts';
+import { BIN, interleaved, median, mib, ROOT, spread } from './processes.ts';
 
 const TARGET_MS = 3000;
 const ms = (v: number) => `${v.toFixed(v < 10 ? 1 : 0)} ms`;
@@ -44,6 +46,19 @@ function bundleCurrent(): boolean {
     return typeof builtMs === 'number' && existsSync(join(ROOT, 'build', 'cli', 'main.mjs')) && newestSource(join(ROOT, 'src')) <= builtMs;
   } catch {
     return false;
+  }
+}
+
+/** User plus system CPU seconds of one run of `node …args` (GNU time); undefined without it. */
+function cpuSeconds(args: string[]): number | undefined {
+  if (!existsSync('/usr/bin/time')) return undefined;
+  const dir = mkdtempSync(join(tmpdir(), 'pumpscribe-bench-cpu-'));
+  try {
+    spawnSync('/usr/bin/time', ['-f', '%U %S', '-o', join(dir, 't'), process.execPath, ...args], { cwd: ROOT, encoding: 'utf8' });
+    const [u, sys] = readFileSync(join(dir, 't'), 'utf8').trim().split('\n').pop()?.split(' ').map(Number) ?? [];
+    return u !== undefined && sys !== undefined && Number.isFinite(u + sys) ? u + sys : undefined;
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
   }
 }
 
@@ -86,17 +101,21 @@ export default async function bench(): Promise<void> {
       how = b.status === 0 && bundleCurrent() ? 'the prebuilt bundle (built just now: it was missing or older than src/)' : `the TypeScript sources (the bundle could not be built: ${(b.stderr || b.stdout).trim().split('\n')[0]})`;
     }
     process.stdout.write(`2. the whole \`pumpscribe report\` command (child process, ${how}), median of 3 (spread)\n`);
+    process.stdout.write(`   load average ${loadavg().map((l) => l.toFixed(1)).join(', ')} on this machine's cores\n`);
     for (const name of ['si-panels-black', 'si-panels-colour-scan']) {
       const s = await sample(name);
       writeFileSync(join(scratch, 'sheet.curveset.json'), stringifyCurveSet(s.replay.curveSet));
       writeFileSync(join(scratch, 'record.study.json'), JSON.stringify(SI_STUDY));
       const out = join(scratch, `${name}.record.pdf`);
-      const runs = [0, 1, 2].map(() => runNode([BIN, 'report', '--takeoff', join(SHEETS, `${name}.takeoff.json`), '--study', join(scratch, 'record.study.json'), '-o', out, '-q']));
-      const bad = runs.find((r) => r.code !== 0 && r.code !== 1);
-      const wall = median(runs.map((r) => r.ms));
+      const report = [BIN, 'report', '--takeoff', join(SHEETS, `${name}.takeoff.json`), '--study', join(scratch, 'record.study.json'), '-o', out, '-q'];
+      const runs = interleaved({ node: ['-e', '0'], report }, 3);
+      const r = runs.report ?? [];
+      const bad = r.find((c) => c.code !== 0 && c.code !== 1);
+      const wall = median(r.map((c) => c.ms));
       const size = existsSync(out) ? statSync(out).size : 0;
+      const cpu = cpuSeconds(report);
       process.stdout.write(
-        `  ${name.padEnd(30)} ${spread(runs.map((r) => r.ms), ms)}, peak RSS ${mib(Math.max(...runs.map((r) => r.rss ?? 0)) || undefined)}, ${(size / 1024).toFixed(0)} KiB  [${verdict(wall)}]${bad ? `  ← exit ${bad.code}: ${bad.stderr.trim().split('\n')[0]}` : ''}\n`,
+        `  ${name.padEnd(30)} ${spread(r.map((c) => c.ms), ms)} wall, CPU ${cpu === undefined ? 'unknown' : `${cpu.toFixed(2)} s`}, peak RSS ${mib(Math.max(...r.map((c) => c.rss ?? 0)) || undefined)}, ${(size / 1024).toFixed(0)} KiB; \`node -e 0\` ${spread((runs.node ?? []).map((c) => c.ms), ms)}  [${verdict(wall)}]${bad ? `  ← exit ${bad.code}: ${bad.stderr.trim().split('\n')[0]}` : ''}\n`,
       );
     }
   } finally {
