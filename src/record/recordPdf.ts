@@ -251,7 +251,8 @@ async function sheetPage(w: Writer, input: RecordInput) {
       }
     }
     const placed: [number, number][] = [];
-    for (const m of panel.marks) {
+    // Top to bottom, so that labels pushed down to clear each other keep the order of their marks.
+    for (const m of [...panel.marks].sort((a, b) => a.at[1] - b.at[1])) {
       if (!m.inside) continue;
       const o = overlay.options[m.option] as OverlayOption;
       const q = at(m.at);
@@ -451,8 +452,8 @@ function npshMotorPages(w: Writer, input: RecordInput) {
   const f = (x: number | null | undefined, d = 3) => (x === null || x === undefined || !Number.isFinite(x) ? 'not available' : formatNumber(x, d));
   for (const o of v.options) {
     w.para(`${o.rank}. ${o.name}`, { font: w.bold });
-    w.para(`NPSH at the duty: NPSHa ${f(o.npsha)} ${head}, NPSH3 ${f(o.npsh3)} ${head}, ratio ${o.npsh_margin_ratio === null ? 'not available' : o.npsh_margin_ratio.toFixed(2)}.`, { indent: 8 });
-    if (o.run_out) w.para(`At run-out ${f(o.run_out.flow, 4)} ${flow}: NPSHa ${f(o.run_out.npsha)} ${head}, NPSH3 ${f(o.run_out.npsh3)} ${head}, ratio ${o.run_out.npsh_margin_ratio.toFixed(2)} (${o.run_out.basis}).`, { indent: 8 });
+    w.para(`NPSH at the duty: NPSHa ${f(o.npsha)} ${head}, NPSH3 ${f(o.npsh3)} ${head}, margin ratio NPSHa/NPSH3 ${o.npsh_margin_ratio === null ? 'not available' : o.npsh_margin_ratio.toFixed(2)}.`, { indent: 8 });
+    if (o.run_out) w.para(`At run-out ${f(o.run_out.flow, 4)} ${flow}: NPSHa ${f(o.run_out.npsha)} ${head}, NPSH3 ${f(o.run_out.npsh3)} ${head}, margin ratio NPSHa/NPSH3 ${o.run_out.npsh_margin_ratio.toFixed(2)} (${o.run_out.basis}).`, { indent: 8 });
     if (o.max_eye_elevation !== null) w.para(`Highest impeller eye above the lowest suction level: ${f(o.max_eye_elevation)} ${head}.`, { indent: 8 });
     if (o.velocity_head_check) w.para(o.velocity_head_check, { indent: 8, size: 8.5 });
     const r = input.result.ranked[o.rank - 1];

@@ -82,7 +82,7 @@ export function shownFigures(result: StudyResult, overlay: Overlay): string[] {
     if (o.power !== null) out.push(`${formatNumber(o.power, 4)} ${power}`);
     if (o.motor_rating) out.push(o.motor_rating);
     if (o.npsha !== null && o.npsh3 !== null) out.push(`NPSHa ${formatNumber(o.npsha, 3)} ${npsh}, NPSH3 ${formatNumber(o.npsh3, 3)} ${npsh}`);
-    if (o.npsh_margin_ratio !== null) out.push(`ratio ${o.npsh_margin_ratio.toFixed(2)}`);
+    if (o.npsh_margin_ratio !== null) out.push(`margin ratio NPSHa/NPSH3 ${o.npsh_margin_ratio.toFixed(2)}`);
   }
   for (const panel of overlay.panels) {
     for (const m of panel.marks) if (m.kind === 'reading' && m.inside) out.push(`${m.option + 1}: ${m.label.replace(/^.*: /, '')}`);
