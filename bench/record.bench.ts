@@ -22,7 +22,7 @@ import { join } from 'node:path';
 import { stringifyCurveSet } from '../src/model/curvesetIO.ts';
 import { makeRecord } from '../src/record/makeRecord.ts';
 import type { Paper } from '../src/record/recordPdf.ts';
-import { sample, SHEETS, SI_STUDY } from '../tests/record/samples.ts';
+import { recordInput, sample, SHEETS, SI_STUDY } from '../tests/record/samples.ts';
 import { BIN, interleaved, median, mib, ROOT, spread } from './processes.ts';
 
 const TARGET_MS = 3000;
@@ -64,16 +64,7 @@ function cpuSeconds(args: string[]): number | undefined {
 
 async function inProcess(name: string, paper: Paper): Promise<number[]> {
   const s = await sample(name);
-  const input = {
-    takeoff: s.takeoff,
-    takeoffName: `${name}.takeoff.json`,
-    sheet: { bytes: s.sheetBytes, name: s.sheetName, sha256: s.sha256, page: 1, width: s.width, height: s.height },
-    calibrations: s.replay.calibrations,
-    curveSet: s.replay.curveSet,
-    result: s.result,
-    studyFile: 'record.bench.study.json',
-    paper,
-  };
+  const input = recordInput(name, s, paper, 'record.bench.study.json');
   const times: number[] = [];
   for (let i = 0; i < 6; i++) {
     const t0 = performance.now();

@@ -19,7 +19,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { makeRecord } from '../../src/record/makeRecord.ts';
 import { PAPER, type Paper } from '../../src/record/recordPdf.ts';
 import { oneLine, pdfText, shownFigures } from '../record/recordText.ts';
-import { sample } from '../record/samples.ts';
+import { recordInput, sample } from '../record/samples.ts';
 import { ARTIFACTS, cleanDir, openBrowser, type Browser } from './harness.ts';
 
 const dir = join(ARTIFACTS, 'recordViewer');
@@ -41,17 +41,7 @@ let browser: Browser;
 
 async function made(name: string, paper: Paper): Promise<Served> {
   const s = await sample(name);
-  const { pdf, overlay } = await makeRecord({
-    takeoff: s.takeoff,
-    takeoffName: `${name}.takeoff.json`,
-    sheet: { bytes: s.sheetBytes, name: s.sheetName, sha256: s.sha256, page: 1, width: s.width, height: s.height },
-    calibrations: s.replay.calibrations,
-    curveSet: s.replay.curveSet,
-    result: s.result,
-    studyFile: 'record-viewer.study.json',
-    paper,
-    created: '2026-01-01T00:00:00.000Z',
-  });
+  const { pdf, overlay } = await makeRecord(recordInput(name, s, paper, 'record-viewer.study.json', '2026-01-01T00:00:00.000Z'));
   writeFileSync(join(dir, `${name}.${paper}.pdf`), pdf);
   return { name, paper, pdf, figures: shownFigures(s.result, overlay), title: `Selection record: ${s.result.study.name}` };
 }

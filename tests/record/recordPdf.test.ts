@@ -15,7 +15,7 @@ import { formatNumber } from '../../src/units/index.ts';
 import { studyView } from '../../src/study/view.ts';
 import { studyUnitSystem } from '../../src/study/resolve.ts';
 import { hasPdftotext, oneLine, pdfText, popplerText, shownFigures } from './recordText.ts';
-import { sample, SHEETS, SI_STUDY } from './samples.ts';
+import { recordInput, sample, SHEETS, SI_STUDY } from './samples.ts';
 
 const dir = mkdtempSync(join(tmpdir(), 'pumpscribe-record-'));
 const pdftoppm = spawnSync('pdftoppm', ['-v'], { encoding: 'utf8' }).error === undefined;
@@ -23,17 +23,7 @@ if (!pdftoppm || !hasPdftotext) console.warn('pdftoppm or pdftotext is not insta
 
 async function record(name: string, paper: 'a4' | 'letter' = 'a4') {
   const s = await sample(name);
-  const input = {
-    takeoff: s.takeoff,
-    takeoffName: `${name}.takeoff.json`,
-    sheet: { bytes: s.sheetBytes, name: s.sheetName, sha256: s.sha256, page: 1, width: s.width, height: s.height },
-    calibrations: s.replay.calibrations,
-    curveSet: s.replay.curveSet,
-    result: s.result,
-    studyFile: 'record-test.study.json',
-    paper,
-    created: '2026-01-01T00:00:00.000Z',
-  };
+  const input = recordInput(name, s, paper, 'record-test.study.json', '2026-01-01T00:00:00.000Z');
   await makeRecord(input); // warm: modules and fonts load once per process
   const t0 = performance.now();
   const made = await makeRecord(input);

@@ -9,6 +9,8 @@ import { replayTakeoff, type ReplayResult } from '../../src/digitize/takeoff.ts'
 import { parseTakeoff, type Takeoff } from '../../src/model/takeoff.ts';
 import { parseStudy } from '../../src/model/study.ts';
 import { runStudy, type StudyResult } from '../../src/study/runStudy.ts';
+import type { MakeRecordInput } from '../../src/record/makeRecord.ts';
+import type { Paper } from '../../src/record/recordPdf.ts';
 
 export const SHEETS = resolve(import.meta.dirname, '../../samples/sheets');
 
@@ -63,4 +65,19 @@ export function sample(name: string, study: unknown = SI_STUDY): Promise<Sample>
     cache.set(key, p);
   }
   return p;
+}
+
+/** What `makeRecord` takes for a sample: its take-off, sheet, calibrations, curve set and study result. */
+export function recordInput(name: string, s: Sample, paper: Paper, studyFile: string, created?: string): MakeRecordInput {
+  return {
+    takeoff: s.takeoff,
+    takeoffName: `${name}.takeoff.json`,
+    sheet: { bytes: s.sheetBytes, name: s.sheetName, sha256: s.sha256, page: 1, width: s.width, height: s.height },
+    calibrations: s.replay.calibrations,
+    curveSet: s.replay.curveSet,
+    result: s.result,
+    studyFile,
+    paper,
+    ...(created ? { created } : {}),
+  };
 }
