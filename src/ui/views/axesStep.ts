@@ -8,6 +8,7 @@ import type { Quantity } from '../../model/curveset.ts';
 import { removeAnchor, removePanel, setAnchorValue, setAxisScale, setAxisUnit, setPanelPlots } from '../store/actions/panels.ts';
 import { axisUnits, anchorAxis, type PanelDraft } from '../store/draft.ts';
 import { setSheetUnits, SHEET_UNIT_SYSTEMS } from '../store/actions/setup.ts';
+import { typedNumber } from '../store/actions/action.ts';
 import { QUANTITY_NAMES, UNIT_CHOICES, num, unitText } from './words.ts';
 
 const QUANTITIES: Quantity[] = ['head', 'efficiency', 'power', 'npshr'];
@@ -96,8 +97,8 @@ function panelCard(bench: Bench, panel: PanelDraft, cal: CalibrationState | unde
                 placeholder: 'value',
                 'aria-invalid': value === undefined ? 'true' : 'false',
                 onchange: (e: Event) => {
-                  const text = (e.target as HTMLInputElement).value.trim().replace(',', '.');
-                  store.dispatch(setAnchorValue(panel.id, i, axis, text === '' ? undefined : Number(text)));
+                  const text = (e.target as HTMLInputElement).value.trim();
+                  store.dispatch(text === '' ? setAnchorValue(panel.id, i, axis, undefined) : typedNumber(text, `The ${axis} value of anchor ${i + 1}`, (v) => setAnchorValue(panel.id, i, axis, v)));
                 },
               }),
               h('span', { class: 'unit' }, unitText(axisUnits(store.draft.units, panel)[axis]))),
