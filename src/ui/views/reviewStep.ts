@@ -6,13 +6,13 @@ import { sharedCurves, sharedCurveSentence } from '../store/target.ts';
 import { h } from '../dom/h.ts';
 import type { Bench } from '../app/bench.ts';
 import type { Finding } from '../../model/curveset.ts';
-import { fromSI, parseUnit } from '../../units/index.ts';
+import { fromSI, parseUnit, showValue } from '../../units/index.ts';
 import { traceName } from '../store/actions/traces.ts';
 import { powerUnit, type Draft } from '../store/draft.ts';
 import { chartUnits } from './familyChart.ts';
 import { dutyPanel } from './dutyPanel.ts';
 import { recordButtons } from './recordDownload.ts';
-import { num, SAFETY_SENTENCE, unitText } from './words.ts';
+import { num, numIn, numPercent, SAFETY_SENTENCE, unitText } from './words.ts';
 
 const SEVERITY_WORDS = { fail: 'Fails', warn: 'Check', note: 'Note' } as const;
 
@@ -40,7 +40,7 @@ export function reviewStep(bench: Bench): HTMLElement {
     return h('div', { class: 'step-body' },
       h('p', { class: 'hint' }, derived.computing ? 'Fitting the curves…' : derived.problem ?? 'Trace some curves first.'));
   }
-  const u = chartUnits(session.unitSystem);
+  const u = chartUnits(set, session.unitSystem);
   const findings = set.findings;
   const counts = { fail: findings.filter((f) => f.severity === 'fail').length, warn: findings.filter((f) => f.severity === 'warn').length };
   return h('div', { class: 'step-body' },
@@ -65,9 +65,9 @@ export function reviewStep(bench: Bench): HTMLElement {
         const name = traceName(t, unitText(draft.units.diameter), unitText(powerUnit(draft.units)));
         return h('tr', { 'data-key': `r-${t.id}`, class: session.highlightedTrace === t.id ? 'picked' : '' },
           h('th', { scope: 'row' }, h('button', { type: 'button', class: 'link', title: r ? `${r.points} points compared with the fitted curve` : 'no fitted curve yet', onclick: () => bench.showTrace(t.id) }, name)),
-          h('td', null, r ? `${num(r.rms, 2)} ${unitText(r.unit.label || r.unit.token)}` : '—'),
-          h('td', null, r ? `${num(r.max, 2)} ${unitText(r.unit.label || r.unit.token)}` : '—'),
-          h('td', { class: r && r.percentOfSpan > 1 ? 'warn' : '' }, r ? `${num(r.percentOfSpan, 2)} %` : '—'));
+          h('td', null, showValue(r?.rms, unitText(r?.unit.label || r?.unit.token || ''), 2).text),
+          h('td', null, showValue(r?.max, unitText(r?.unit.label || r?.unit.token || ''), 2).text),
+          h('td', { class: r && r.percentOfSpan > 1 ? 'warn' : '' }, showValue(r?.percentOfSpan, '%', 2).text));
       }))),
     h('h4', null, 'Figures per diameter'),
     h('table', { class: 'figures' },
@@ -79,12 +79,12 @@ export function reviewStep(bench: Bench): HTMLElement {
         h('th', { scope: 'col' }, 'BEP efficiency [%]'))),
       h('tbody', null, [...set.members].sort((a, b) => (b.diameter_m ?? 0) - (a.diameter_m ?? 0)).map((m) =>
         h('tr', { 'data-key': `m-${m.diameter_m}` },
-          h('th', { scope: 'row' }, m.diameter_m !== undefined ? num(fromSI(m.diameter_m, u.diameter)) : `${m.speed_rpm} rpm`),
-          h('td', null, m.derived.shutoff_head_m !== undefined ? num(fromSI(m.derived.shutoff_head_m, u.head)) : '—'),
-          h('td', null, m.derived.bep ? num(fromSI(m.derived.bep.flow_m3s, u.flow)) : '—'),
-          h('td', null, m.derived.bep ? num(fromSI(m.derived.bep.head_m, u.head)) : '—'),
-          h('td', null, m.derived.bep ? num(m.derived.bep.efficiency * 100, 3) : '—'))))),
-    dutyPanel(bench.duty.form, bench.duty.outcome, session.unitSystem, (patch) => bench.setDuty(patch)),
+          h('th', { scope: 'row' }, m.diameter_m !== undefined ? numIn(m.diameter_m, u.diameter) : `${num(m.speed_rpm)} rpm`),
+          h('td', null, numIn(m.derived.shutoff_head_m, u.head)),
+          h('td', null, numIn(m.derived.bep?.flow_m3s, u.flow)),
+          h('td', null, numIn(m.derived.bep?.head_m, u.head)),
+          h('td', null, numPercent(m.derived.bep?.efficiency)))))),
+    dutyPanel(set, bench.duty.form, bench.duty.outcome, session.unitSystem, (patch) => bench.setDuty(patch)),
     recordButtons(bench),
     derived.omitted.length ? h('div', { class: 'omitted' }, h('h4', null, 'Left out for now'), h('ul', null, derived.omitted.map((o) => h('li', null, o)))) : null,
   );
