@@ -5,8 +5,9 @@
 import { sharedCurves, sharedCurveSentence } from '../store/target.ts';
 import { h } from '../dom/h.ts';
 import type { Bench } from '../app/bench.ts';
-import type { Finding } from '../../model/curveset.ts';
-import { fromSI, parseUnit, showValue } from '../../units/index.ts';
+import type { CurveSet, Finding } from '../../model/curveset.ts';
+import { tracesOfMember, type TraceMembers } from '../app/review.ts';
+import { showValue } from '../../units/index.ts';
 import { traceName } from '../store/actions/traces.ts';
 import { powerUnit, type Draft } from '../store/draft.ts';
 import { chartUnits } from './familyChart.ts';
@@ -16,20 +17,21 @@ import { num, numIn, numPercent, SAFETY_SENTENCE, unitText } from './words.ts';
 
 const SEVERITY_WORDS = { fail: 'Fails', warn: 'Check', note: 'Note' } as const;
 
-/** The trace a finding is about: named outright, or the one of its quantity and diameter. */
-export function traceOfFinding(draft: Draft, f: Finding): string | null {
+/**
+ * The trace a finding is about: named outright, or the one of its quantity among the traces
+ * the replay put into the finding's member (`traceMembers`; no diameters compared within a tolerance).
+ */
+export function traceOfFinding(draft: Draft, f: Finding, set: CurveSet, traceMembers: TraceMembers): string | null {
   if (f.subject.trace && draft.traces.some((t) => t.id === f.subject.trace)) return f.subject.trace;
   const d = f.subject.diameter_m;
   if (d === undefined) return null;
-  let unit;
-  try {
-    unit = parseUnit('diameter', draft.units.diameter);
-  } catch {
-    return null;
-  }
-  const sameDiameter = draft.traces.filter((t) => t.diameter !== undefined && Math.abs(t.diameter * unit.factor - d) <= 1e-6 * d);
+  // The finding names its member by the member's own diameter, copied as it is.
+  const index = set.members.findIndex((m) => m.diameter_m === d);
+  if (index < 0) return null;
+  const linked = new Set(tracesOfMember(traceMembers, index));
+  const sameMember = draft.traces.filter((t) => t.iso === undefined && linked.has(t.id));
   const quantity = f.subject.quantity ?? 'head';
-  return (sameDiameter.find((t) => t.quantity === quantity) ?? sameDiameter.find((t) => t.quantity === 'head') ?? sameDiameter[0])?.id ?? null;
+  return (sameMember.find((t) => t.quantity === quantity) ?? sameMember.find((t) => t.quantity === 'head') ?? sameMember[0])?.id ?? null;
 }
 
 export function reviewStep(bench: Bench): HTMLElement {
@@ -49,7 +51,7 @@ export function reviewStep(bench: Bench): HTMLElement {
     h('p', { class: 'summary' }, `${set.members.length} diameters · ${counts.fail} failing, ${counts.warn} to check, ${findings.length - counts.fail - counts.warn} notes.`),
     h('h4', null, 'Findings'),
     findings.length === 0 ? h('p', { class: 'hint' }, 'No findings: every check passed.') : h('ol', { class: 'findings' }, findings.map((f) => {
-      const trace = traceOfFinding(draft, f);
+      const trace = traceOfFinding(draft, f, set, derived.traceMembers);
       const picked = trace !== null && session.highlightedTrace === trace;
       return h('li', { class: `finding ${f.severity}${picked ? ' picked' : ''}`, 'data-key': f.id },
         h('span', { class: 'severity' }, SEVERITY_WORDS[f.severity]),
