@@ -13,6 +13,7 @@ import { EMPTY_DUTY, studyOfForm, studySystemOf } from '../../src/ui/views/study
 import { choiceWords } from '../../src/ui/views/words.ts';
 import { migrateSaved, AUTOSAVE_FORMAT, AUTOSAVE_VERSION } from '../../src/ui/persist/records.ts';
 import { draftWithPanel } from './fixtures.ts';
+import { fromTakeoffFile } from '../../src/ui/store/takeoffFile.ts';
 
 const si = parseCurveSetJson(readFileSync('samples/demo/invented-si3-si.curveset.json', 'utf8'), 'demo');
 const litres = { ...si, display_units: { ...si.display_units, flow: 'L/s' } };
@@ -58,5 +59,20 @@ describe('units shown', () => {
     const draft = { ...draftWithPanel(), units: { flow: 'L/s', head: 'm', diameter: 'mm' } };
     const raw = { format: AUTOSAVE_FORMAT, version: AUTOSAVE_VERSION, id: 'a', savedAt: '2026', draft, library: null, step: 'trace', target: { quantity: 'head', lines: 'diameter' }, unitSystem: 'imperial', sheetKey: null };
     expect(migrateSaved(raw, () => 'x')?.unitSystem).toBe('own');
+  });
+});
+
+describe('a panel without traces is taken for what its y unit measures, in any spelling', () => {
+  const sheet = { name: 'invented.pdf', kind: 'pdf' as const, mime: 'application/pdf', page: 1, pageCount: 1, width: 600, height: 800 };
+  const anchors = [{ at: [100, 500], x: 0, y: 0 }, { at: [500, 500], x: 100, y: 0 }, { at: [100, 100], x: 0, y: 50 }];
+  const file = (y: string) => ({
+    format: 'pumpscribe.takeoff', version: 1, sheet: 'invented.pdf', page: 1,
+    pump: { name: 'Invented pump (not a real product)', speed_rpm: 2900, specific_gravity: 1 },
+    units: { flow: 'm3/h', head: 'm', diameter: 'mm' },
+    panels: [{ id: 'h', anchors, x_scale: 'linear', y_scale: 'linear' }, { id: 'p', anchors, x_scale: 'linear', y_scale: 'linear', units: { y } }],
+    traces: [{ id: 't1', panel: 'h', quantity: 'head', diameter: 250, points: [[110, 400], [300, 300]] }],
+  });
+  it.each([['HP', 'power'], ['kw', 'power'], ['bhp', 'power'], ['%', 'efficiency'], ['Percent', 'efficiency'], ['FT', 'head'], ['m', 'head']])('y in "%s" plots %s', (y, plots) => {
+    expect(fromTakeoffFile(file(y), sheet).panels[1]!.plots).toBe(plots);
   });
 });

@@ -8,6 +8,7 @@ import type { CanvasPointer } from '../canvas/sheetCanvas.ts';
 import { addPanel, frameAnchors, nameCorners, type FrameCorners } from '../store/actions/panels.ts';
 import { frameOf, anchorAxis, type AnchorDraft, type Frame, type PanelDraft } from '../store/draft.ts';
 import { screenDistance, snapRadius, type Tool, type ToolHost } from './tool.ts';
+import { roundSignificant } from '../../units/format.ts';
 
 type State = { kind: 'idle' } | { kind: 'dragging'; start: SheetXY; moved: boolean } | { kind: 'second'; start: SheetXY };
 
@@ -38,7 +39,7 @@ export function sharedFlowAnchors(
     const span = Math.abs(x1 - x0);
     const settle = (x: number) => {
       const near = values.reduce((best, v) => (Math.abs(v - x) < Math.abs(best - x) ? v : best), values[0] as number);
-      return Math.abs(near - x) <= 0.005 * span ? near : Number(x.toPrecision(4));
+      return Math.abs(near - x) <= 0.005 * span ? near : roundSignificant(x, 4);
     };
     return [
       { at: corners.bottomLeft, label: 'x left', x: settle(x0) },
