@@ -14,6 +14,8 @@ import { choiceWords } from '../../src/ui/views/words.ts';
 import { migrateSaved, AUTOSAVE_FORMAT, AUTOSAVE_VERSION } from '../../src/ui/persist/records.ts';
 import { draftWithPanel } from './fixtures.ts';
 import { fromTakeoffFile } from '../../src/ui/store/takeoffFile.ts';
+import { setSheetUnits, SHEET_UNIT_SYSTEMS } from '../../src/ui/store/actions/setup.ts';
+import { unitSystemOf } from '../../src/ui/store/store.ts';
 
 const si = parseCurveSetJson(readFileSync('samples/demo/invented-si3-si.curveset.json', 'utf8'), 'demo');
 const litres = { ...si, display_units: { ...si.display_units, flow: 'L/s' } };
@@ -74,5 +76,15 @@ describe('a panel without traces is taken for what its y unit measures, in any s
   });
   it.each([['HP', 'power'], ['kw', 'power'], ['bhp', 'power'], ['%', 'efficiency'], ['Percent', 'efficiency'], ['FT', 'head'], ['m', 'head']])('y in "%s" plots %s', (y, plots) => {
     expect(fromTakeoffFile(file(y), sheet).panels[1]!.plots).toBe(plots);
+  });
+});
+
+describe('choosing L/s as the sheet\'s flow unit', () => {
+  it('changes the record\'s flow unit and panels that followed the old one, and the review then starts in the sheet\'s own units', () => {
+    const before = draftWithPanel();
+    const after = setSheetUnits({ ...before.units, flow: 'L/s' })(before)!.draft;
+    expect(after.units.flow).toBe('L/s');
+    expect(unitSystemOf(after)).toBe('own');
+    expect(unitSystemOf(setSheetUnits(SHEET_UNIT_SYSTEMS.si)(after)!.draft)).toBe('si');
   });
 });
