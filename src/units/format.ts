@@ -127,4 +127,3 @@ export function showChange(ratio: number | null | undefined, decimals = 1): Show
 export function showFixed(value: number | null | undefined, decimals = 1, label = ''): Shown {
   return isFigure(value) ? { ok: true, text: label ? `${formatFixed(value, decimals)} ${label}` : formatFixed(value, decimals) } : NOT_AVAILABLE;
 }
-
