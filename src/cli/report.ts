@@ -1,6 +1,7 @@
 /** The plain-text report of a curve set: figures per member, family figures, findings, cautions. */
 import type { CurveSet, Finding } from '../model/curveset.ts';
 import { displayFor } from '../fit/checks/display.ts';
+import { showFixed } from '../units/format.ts';
 
 export const CAUTION =
   'Caution: preliminary engineering only. Verify curves, NPSH margin and motor sizing against the manufacturer\'s certified data and local codes; have a licensed professional approve the selection.';
@@ -36,7 +37,7 @@ export function formatReport(set: CurveSet): string {
   const fig = set.figures ?? {};
   if (fig.ns_us !== undefined) {
     lines.push('');
-    lines.push(`  Ns ${Math.round(fig.ns_us)} (US), nq ${fig.nq_si?.toFixed(1)} (SI)` + (fig.nss_us !== undefined ? `; Nss ${Math.round(fig.nss_us)} (US)` : ''));
+    lines.push(`  Ns ${Math.round(fig.ns_us)} (US), nq ${showFixed(fig.nq_si, 1).text} (SI)` + (fig.nss_us !== undefined ? `; Nss ${Math.round(fig.nss_us)} (US)` : ''));
   }
   lines.push('');
   const counts = (['fail', 'warn', 'note'] as const).map((s) => `${set.findings.filter((f) => f.severity === s).length} ${s}`).join(', ');

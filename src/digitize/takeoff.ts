@@ -59,7 +59,15 @@ export interface ReplayResult {
   curveSet: CurveSet;
   traces: TraceOutcome[];
   calibrations: ReadonlyMap<string, Calibration>;
+  /**
+   * The trace ↔ member link, as the replay made it: trace id → indexes into `curveSet.members`
+   * of the members its points went into (one for a curve trace; one per head curve crossed for
+   * an iso-trace; an empty list, or no entry, for a trace that added nothing and for a
+   * minimum-flow line). Read it here: no layer rebuilds it by comparing diameters.
+   */
+  traceMembers: ReadonlyMap<string, readonly number[]>;
 }
+
 
 const CAPTURE_ERRORS = ['CaptureError', 'TraceInputError'];
 const METHOD = 'Take-off replay (calibration, capture, iso crossings)';
@@ -138,8 +146,12 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
     return m;
   };
   const how = new Map<Quantity, Set<string>>();
+  /** Trace id → the member keys (diameter or speed, as the take-off writes them) its points went into. */
+  const traceKeys = new Map<string, Set<number>>();
   const add = (quantity: Quantity, diameter: number, pts: CurvePoint[], by: string, trace: string) => {
     const member = memberFor(diameter, units.diameter);
+    const keys = traceKeys.get(trace) ?? new Set<number>();
+    traceKeys.set(trace, keys.add(diameter));
     const list = (member.points[quantity] ??= []);
     for (const p of pts) list.push(p);
     const named = ((member.sources ??= {})[quantity] ??= []); // names a point the fit misses by its trace
@@ -233,6 +245,13 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
     }
   }
 
+  // Members largest first; buildCurveSet keeps them one for one and in this order.
+  const ordered = [...members.entries()].sort((a, b) => b[0] - a[0]);
+  const memberIndex = new Map(ordered.map(([key], i) => [key, i]));
+  const traceMembers = new Map<string, readonly number[]>(
+    outcomes.map((o) => [o.id, [...(traceKeys.get(o.id) ?? [])].map((key) => memberIndex.get(key) as number).sort((a, b) => a - b)]),
+  );
+
   const { speed_rpm, specific_gravity: sg, ...pump } = takeoff.pump;
   const built = buildCurveSet({
     pump,
@@ -249,12 +268,12 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
         ...[...calibrations].map(([id, c]) => `panel "${id}": ${c.projection} calibration, residual ${c.maxPercentOfSpan.toFixed(3)} % of span (${c.residualKind})`),
       ],
     },
-    members: [...members.entries()].sort((a, b) => b[0] - a[0]).map(([, m]) => m),
+    members: ordered.map(([, m]) => m),
     readingAccuracy,
   });
   const limits = minFlowLimit(takeoff.min_flow !== undefined ? toSI(takeoff.min_flow, units.flow) : undefined, minFlowLine);
   const curveSet = CurveSet.parse({ ...built, ...(limits ? { limits } : {}), findings: sortFindings([...built.findings, ...findings]) });
-  return { curveSet, traces: outcomes, calibrations };
+  return { curveSet, traces: outcomes, calibrations, traceMembers };
 }
 
 /**

@@ -6,7 +6,7 @@
  */
 import type { DisplayUnits, Quantity } from '../model/curveset.ts';
 import { TakeoffError, type Takeoff, type Trace } from '../model/takeoff.ts';
-import { parseUnit, type QuantityKind, type Unit } from '../units/index.ts';
+import { defaultPowerToken, parseUnit, QUANTITY_KIND, type Unit } from '../units/index.ts';
 
 export interface ResolvedTakeoffUnits {
   flow: Unit;
@@ -18,8 +18,6 @@ export interface ResolvedTakeoffUnits {
   display: DisplayUnits;
 }
 
-const KIND: Record<Quantity, QuantityKind> = { head: 'head', npshr: 'head', power: 'power', efficiency: 'efficiency' };
-
 export function resolveTakeoffUnits(takeoff: Takeoff): ResolvedTakeoffUnits {
   const u = takeoff.units;
   const flow = parseUnit('flow', u.flow);
@@ -27,7 +25,7 @@ export function resolveTakeoffUnits(takeoff: Takeoff): ResolvedTakeoffUnits {
   const npsh = parseUnit('head', u.npsh ?? u.head);
   const power = u.power !== undefined ? parseUnit('power', u.power) : null;
   const diameter = parseUnit('diameter', u.diameter);
-  const shownPower = power?.token ?? (flow.token === 'gpm' ? 'hp' : 'kW');
+  const shownPower = power?.token ?? defaultPowerToken(flow.token);
   return { flow, head, npsh, power, diameter, display: { flow: flow.token, head: head.token, npsh: npsh.token, power: shownPower, diameter: diameter.token } };
 }
 
@@ -40,7 +38,7 @@ export function traceUnits(takeoff: Takeoff, units: ResolvedTakeoffUnits, trace:
   // An iso-trace's value is its `iso` number (efficiency in %, power in the take-off's power unit);
   // the panel's y unit belongs to the curves it crosses.
   const panelY = trace.iso === undefined ? panel.units?.y : undefined;
-  if (panelY !== undefined) return { flow, value: parseUnit(KIND[q], panelY) };
+  if (panelY !== undefined) return { flow, value: parseUnit(QUANTITY_KIND[q], panelY) };
   switch (q) {
     case 'head':
       return { flow, value: units.head };

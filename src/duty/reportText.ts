@@ -1,5 +1,8 @@
-/** The duty report as readable text: every number with its unit, cautions beside NPSH and motor. */
-import { parseUnit, roundSignificant } from '../units/index.ts';
+/**
+ * The duty report as readable text: every number with its unit, cautions beside NPSH and motor.
+ * Numbers go through the one formatter, which also writes "not available" for a missing figure.
+ */
+import { parseUnit, showFixed, showNumber, showValue } from '../units/index.ts';
 import type { DutyReportView } from './reportView.ts';
 
 export function dutyReportText(v: DutyReportView): string {
@@ -12,14 +15,16 @@ export function dutyReportText(v: DutyReportView): string {
     pressure: parseUnit('pressure', v.units.pressure).label,
     temperature: parseUnit('temperature', v.units.temperature).label,
   };
-  const n = (x: number | null | undefined, unit: string, digits = 4) => (x === null || x === undefined || !Number.isFinite(x) ? '—' : `${roundSignificant(x, digits)} ${unit}`);
-  const pc = (x: number | null | undefined, decimals = 1) => (x === null || x === undefined ? '—' : `${x.toFixed(decimals)} %`);
+  const n = (x: number | null | undefined, unit: string, digits = 4) => showValue(x, unit, digits).text;
+  const pc = (x: number | null | undefined, decimals = 1) => showFixed(x, decimals, '%').text;
+  const ratio = (x: number | null | undefined) => showFixed(x, 2).text;
+  const plain = (x: number | null | undefined) => showNumber(x, 4).text;
   const L: string[] = [];
   L.push(`Duty check — ${v.curve_set.pump} (${v.curve_set.file})`);
   L.push(`Result: ${v.headline}`);
   L.push(`Duty: ${n(v.duty.flow, u.flow)} at ${n(v.duty.head, u.head)}${v.duty.parallel_count > 1 ? `, ${v.duty.parallel_count} pumps in parallel (${n(v.duty.per_pump_flow, u.flow)} each)` : ''}`);
   const s = v.system_curve;
-  L.push(`System curve: H = ${n(s.static_head, u.head)} + ${roundSignificant(s.k, 4)}·Q^${roundSignificant(s.exponent, 4)}  (Q in ${u.flow}, H in ${u.head}; ${s.basis})`);
+  L.push(`System curve: H = ${n(s.static_head, u.head)} + ${plain(s.k)}·Q^${plain(s.exponent)}  (Q in ${u.flow}, H in ${u.head}; ${s.basis})`);
   if (s.fit) L.push(`  fit residuals: rms ${n(s.fit.rms, u.head, 3)}, largest ${n(s.fit.max_residual, u.head, 3)} over ${s.fit.points} points`);
   L.push('');
   L.push(`Operating points on the system curve${v.duty.parallel_count > 1 ? ` (${v.duty.parallel_count} pumps combined)` : ''}:`);
@@ -73,12 +78,12 @@ export function dutyReportText(v: DutyReportView): string {
     L.push(`  guidance: ${v.npsh.rule.basis}`);
     for (const p of v.npsh.points) {
       const verdict = p.verdict === 'meets-guidance' ? 'ok' : p.verdict === 'below-guidance' ? 'BELOW GUIDANCE' : p.verdict === 'cavitation-expected' ? 'CAVITATION' : 'no NPSH3';
-      L.push(`  ${p.where}: NPSHa ${n(p.npsha, u.npsh, 3)}, NPSH3 ${n(p.npshr, u.npsh, 3)}, margin ${n(p.margin, u.npsh, 3)} (ratio ${p.margin_ratio === null ? '—' : p.margin_ratio.toFixed(2)}), needs ${n(p.required_npsha, u.npsh, 3)} — ${verdict}${p.npshr_extrapolated ? ' (NPSH3 extrapolated)' : ''}`);
+      L.push(`  ${p.where}: NPSHa ${n(p.npsha, u.npsh, 3)}, NPSH3 ${n(p.npshr, u.npsh, 3)}, margin ${n(p.margin, u.npsh, 3)} (ratio ${ratio(p.margin_ratio)}), needs ${n(p.required_npsha, u.npsh, 3)} — ${verdict}${p.npshr_extrapolated ? ' (NPSH3 extrapolated)' : ''}`);
     }
     const r = v.npsh.range;
     if (r) {
       const verdict = r.worst_verdict === 'meets-guidance' ? 'ok' : r.worst_verdict === 'below-guidance' ? 'BELOW GUIDANCE' : 'CAVITATION';
-      L.push(`  from minimum flow ${n(r.from_flow, u.flow)} to run-out ${n(r.to_flow, u.flow)} per pump (${r.run_out_basis}): lowest margin at ${n(r.worst_flow, u.flow)}, NPSHa ${n(r.worst_npsha, u.npsh, 3)}, NPSH3 ${n(r.worst_npshr, u.npsh, 3)}, ratio ${r.worst_margin_ratio.toFixed(2)} — ${verdict}${r.npshr_extrapolated ? ' (NPSH3 extrapolated in part)' : ''}`);
+      L.push(`  from minimum flow ${n(r.from_flow, u.flow)} to run-out ${n(r.to_flow, u.flow)} per pump (${r.run_out_basis}): lowest margin at ${n(r.worst_flow, u.flow)}, NPSHa ${n(r.worst_npsha, u.npsh, 3)}, NPSH3 ${n(r.worst_npshr, u.npsh, 3)}, ratio ${ratio(r.worst_margin_ratio)} — ${verdict}${r.npshr_extrapolated ? ' (NPSH3 extrapolated in part)' : ''}`);
       L.push(`  highest allowable impeller-eye elevation above the liquid surface keeping the margin: ${n(r.max_eye_elevation, u.npsh, 3)}${(r.max_eye_elevation ?? 0) < 0 ? ' (negative: the eye must sit below the surface)' : ''}`);
     }
     L.push(`  ${v.npsh.npsh3_basis}`);
@@ -97,7 +102,7 @@ export function dutyReportText(v: DutyReportView): string {
   if (v.energy) {
     const e = v.energy;
     L.push('');
-    L.push(`Energy: ${e.pumps > 1 ? `${e.pumps} pumps, ` : ''}shaft ${n(e.shaft_power, u.power)}, input ${n(e.input_power, u.power)} at ${pc(e.motor_efficiency)} motor efficiency; ${roundSignificant(e.energy_kWh_per_year, 4)} kWh per year over ${e.hours_per_year} h${e.cost_per_year === null ? '' : `, cost ${roundSignificant(e.cost_per_year, 4)} per year at the given tariff`}`);
+    L.push(`Energy: ${e.pumps > 1 ? `${e.pumps} pumps, ` : ''}shaft ${n(e.shaft_power, u.power)}, input ${n(e.input_power, u.power)} at ${pc(e.motor_efficiency)} motor efficiency; ${n(e.energy_kWh_per_year, 'kWh')} per year over ${e.hours_per_year} h${e.cost_per_year === null ? '' : `, cost ${plain(e.cost_per_year)} per year at the given tariff`}`);
   }
   if (v.problems.length) {
     L.push('');

@@ -22,7 +22,7 @@
 import { UserError } from '../model/errors.ts';
 import type { CurveSet, Member, Quantity } from '../model/curveset.ts';
 import { evaluate } from '../fit/polynomial.ts';
-import { fromSI, toSI, type Unit } from '../units/index.ts';
+import { fromSI, roundSignificant, toSI, type Unit } from '../units/index.ts';
 import { cell, exportUnits, unitOf, type ExportUnits } from './unitView.ts';
 
 const COLUMNS: Quantity[] = ['head', 'efficiency', 'power', 'npshr'];
@@ -59,7 +59,7 @@ export function roundStep(end: number, intervals: number): number {
   if (!(raw > 0)) return 1;
   const power = 10 ** Math.floor(Math.log10(raw));
   for (const m of [1, 1.5, 2, 2.5, 3, 4, 5, 6, 8, 10]) {
-    const step = Number((m * power).toPrecision(12));
+    const step = roundSignificant(m * power, 12);
     if (step * intervals >= end * (1 - 1e-12)) return step;
   }
   return 10 * power;
@@ -77,13 +77,13 @@ export function flowGrid(set: CurveSet, flowUnit: Unit, options: Pick<CsvOptions
     if (!(options.flowStep > 0) || !Number.isFinite(options.flowStep)) throw new ExportInputError(`The flow step must be a positive number, not ${options.flowStep}.`);
     const count = Math.floor(end / options.flowStep + 1e-9) + 1;
     if (count > 10000) throw new ExportInputError(`A flow step of ${options.flowStep} ${flowUnit.token} gives ${count} rows per curve, over the limit of 10000; choose a larger step.`);
-    return Array.from({ length: count }, (_, k) => Number((k * options.flowStep!).toPrecision(12)));
+    return Array.from({ length: count }, (_, k) => roundSignificant(k * options.flowStep!, 12));
   }
   const n = options.points ?? 21;
   if (!Number.isInteger(n) || n < 2 || n > 10000) throw new ExportInputError(`The number of points per curve must be a whole number from 2 to 10000, not ${options.points}.`);
   const step = roundStep(end, n - 1);
   const count = Math.min(n, Math.ceil(end / step - 1e-9) + 1); // a round step may reach the end in fewer flows
-  return Array.from({ length: count }, (_, k) => Number((k * step).toPrecision(12)));
+  return Array.from({ length: count }, (_, k) => roundSignificant(k * step, 12));
 }
 
 function checkFormat(options: CsvOptions): { sep: string; dec: string } {

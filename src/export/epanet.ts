@@ -67,9 +67,10 @@ const MAX_ID = 31;
 const DROOP_TOLERANCE = 1e-4;
 
 function defaultFlowUnits(set: CurveSet): InpFlowUnits {
-  const own = set.display_units.flow.toLowerCase();
-  for (const [word, spec] of Object.entries(INP_FLOW_UNITS)) if (spec.flow.toLowerCase() === own) return word as InpFlowUnits;
-  return set.display_units.head === 'ft' ? 'GPM' : 'LPS';
+  // The set's own units, canonical ("usgpm" is gpm, "feet" is ft), from the one unit table.
+  const own = exportUnits(set);
+  for (const [word, spec] of Object.entries(INP_FLOW_UNITS)) if (spec.flow.toLowerCase() === own.flow.token.toLowerCase()) return word as InpFlowUnits;
+  return own.head.token === 'ft' ? 'GPM' : 'LPS';
 }
 
 function inpUnits(word: string): { word: InpFlowUnits; flow: Unit; head: Unit } {

@@ -1,37 +1,24 @@
 /**
- * Unit choices for exports: the `si` or `us` preset, or the curve set's own display units.
+ * Unit choices for exports: the `si` or `us` preset, or the curve set's own display units
+ * ("own", the default). The units come from the one map in src/units (`chosenUnits`,
+ * `unitOfQuantity`); numbers from the one formatter.
  */
 import type { CurveSet, Quantity } from '../model/curveset.ts';
-import { parseUnit, presetNamed, type Unit } from '../units/index.ts';
+import { chosenUnits, formatNumber, unitChoiceNamed, unitOfQuantity, type CurveUnits, type Unit } from '../units/index.ts';
 
-export interface ExportUnits {
-  flow: Unit;
-  head: Unit;
-  npsh: Unit;
-  power: Unit;
-  diameter: Unit;
-  efficiency: Unit;
-}
+export type ExportUnits = CurveUnits;
 
-/** `system` is "si", "us", or undefined for the set's own display units. */
+/** `system` is "si", "us", "own", or undefined for the set's own display units. Throws UnitError for another word. */
 export function exportUnits(set: Pick<CurveSet, 'display_units'>, system?: string): ExportUnits {
-  const base = system ? presetNamed(system) : set.display_units;
-  return {
-    flow: parseUnit('flow', base.flow),
-    head: parseUnit('head', base.head),
-    npsh: parseUnit('head', base.npsh),
-    power: parseUnit('power', base.power),
-    diameter: parseUnit('diameter', base.diameter),
-    efficiency: parseUnit('efficiency', '%'),
-  };
+  return chosenUnits(set.display_units, unitChoiceNamed(system));
 }
 
 export function unitOf(units: ExportUnits, quantity: Quantity): Unit {
-  return quantity === 'npshr' ? units.npsh : quantity === 'efficiency' ? units.efficiency : quantity === 'power' ? units.power : units.head;
+  return unitOfQuantity(units, quantity);
 }
 
-/** Up to 6 significant digits, as plain text. */
+/** Up to 6 significant digits, as plain text; an empty cell for a missing figure (the CSV convention). */
 export function cell(value: number | undefined): string {
   if (value === undefined || !Number.isFinite(value)) return '';
-  return String(Number(value.toPrecision(6)));
+  return formatNumber(value, 6);
 }

@@ -25,6 +25,10 @@ import { evaluateUnchecked, linspace } from './polynomial.ts';
 import { fitPolynomial, type PolynomialFitResult } from './polyfit.ts';
 import { shapeProblems } from './shape.ts';
 import { nestedFTest } from './significance.ts';
+import { formatFixed, formatPrecision, formatValue, NOT_AVAILABLE } from '../units/format.ts';
+import { labelOf } from '../units/convert.ts';
+import { QUANTITY_KIND } from '../units/quantityUnits.ts';
+import { SI_BASE } from '../units/units.ts';
 
 /** "a", "a and b", "a, b and c". */
 function listed(items: readonly string[]): string {
@@ -62,21 +66,20 @@ const F_TEST_LEVEL = 0.05;
 const MEANINGFUL_RMS_DROP = 0.1;
 
 const NAMES: Record<Quantity, string> = { head: 'head', efficiency: 'efficiency', power: 'power', npshr: 'NPSHr' };
-const UNITS: Record<Quantity, string> = { head: 'm', efficiency: '%', power: 'W', npshr: 'm' };
+/** The unit a fit's figures are written in: the SI unit of the quantity (efficiency, a fraction, in %). */
+const figureUnit = (quantity: Quantity): string => (quantity === 'efficiency' ? '%' : labelOf(SI_BASE[QUANTITY_KIND[quantity]]));
 
-/** Two significant figures, no exponent for ordinary magnitudes, trailing zeros kept ("0.30"). */
-function figure(v: number): string {
-  if (v === 0) return '0';
-  if (Math.abs(v) >= 100) return Math.round(v).toString();
-  return v.toPrecision(2);
-}
-
+/**
+ * A figure of a fit (RMS, tolerance, change) in the quantity's SI unit, to two significant figures
+ * with their trailing zeros ("0.30 m"), by the one formatter; "not available" for a non-finite one.
+ */
 export function formatQuantity(quantity: Quantity, v: number): string {
-  return quantity === 'efficiency' ? `${figure(v * 100)} %` : `${figure(v)} ${UNITS[quantity]}`;
+  if (!Number.isFinite(v)) return NOT_AVAILABLE.text;
+  return `${formatPrecision(quantity === 'efficiency' ? v * 100 : v, 2)} ${figureUnit(quantity)}`;
 }
 
 function formatFlow(q: number): string {
-  return `${Number(q.toPrecision(3))} m³/s`;
+  return formatValue(q, labelOf('m3/s'), 3);
 }
 
 /** Fits `points` at the degree the rule above chooses; returns the record with its reason. */
@@ -144,7 +147,7 @@ export function chooseDegree(points: readonly CurvePoint[], quantity: Quantity, 
         simpler,
         candidates,
         false,
-        `degree ${simpler.degree}: RMS ${fmt(simpler.fit.rms)}, just above the ${fmt(tolerance)} reading accuracy, but degree ${good.degree} (RMS ${fmt(good.fit.rms)}) is not significantly better (partial F-test p = ${test.pValue.toFixed(2)}), so the extra terms would only follow the reading noise.`,
+        `degree ${simpler.degree}: RMS ${fmt(simpler.fit.rms)}, just above the ${fmt(tolerance)} reading accuracy, but degree ${good.degree} (RMS ${fmt(good.fit.rms)}) is not significantly better (partial F-test p = ${formatFixed(test.pValue, 2)}), so the extra terms would only follow the reading noise.`,
       );
     }
     return finish(good, candidates, true, reasonWithin(good, candidates, tolerance, fmt));
@@ -265,7 +268,7 @@ function noneWithin(candidates: DegreeCandidate[], tolerance: number, fmt: (v: n
 function validate(points: readonly CurvePoint[], name: string, quantity: Quantity, options: FitCurveOptions): void {
   const { tolerance, maxDegree } = options;
   if (!Number.isFinite(tolerance) || tolerance <= 0) {
-    throw new FitError(`The reading accuracy for the ${name} curve must be a positive number in ${quantity === 'efficiency' ? 'fractions of one' : UNITS[quantity]}; got ${tolerance}.`);
+    throw new FitError(`The reading accuracy for the ${name} curve must be a positive number in ${quantity === 'efficiency' ? 'fractions of one' : figureUnit(quantity)}; got ${tolerance}.`);
   }
   if (maxDegree !== undefined && !Number.isInteger(maxDegree)) {
     throw new FitError(`The highest degree for the ${name} curve must be a whole number; got ${maxDegree}.`);

@@ -3,7 +3,7 @@
  * browser workbench (and without JavaScript). It lists the entries, searches them by text and by
  * duty point, and links to each curve set's JSON. Every stored text passes through `escapeHtml`.
  */
-import { fromSI, presetNamed, resolveUnits, showNumber, type PresetName } from '../units/index.ts';
+import { fromSI, NOT_AVAILABLE, presetNamed, resolveUnits, showNumber, type PresetName } from '../units/index.ts';
 import type { EntryInfo } from '../library/types.ts';
 import { matchSentence, type DutySearchView } from '../library/dutyView.ts';
 
@@ -35,10 +35,10 @@ function entryRows(entries: EntryInfo[], system: PresetName): string {
   const u = resolveUnits(presetNamed(system));
   return entries
     .map((e) => {
-      const dia = e.diameters_m.map((d) => n(fromSI(d, u.diameter), 4)).join(', ') || 'not available';
+      const dia = e.diameters_m.map((d) => n(fromSI(d, u.diameter), 4)).join(', ') || NOT_AVAILABLE.text;
       const flow = `${n(fromSI(e.flow_range_m3s[0], u.flow), 3)} – ${n(fromSI(e.flow_range_m3s[1], u.flow), 3)}`;
       const head = `${n(fromSI(e.head_range_m[0], u.head), 3)} – ${n(fromSI(e.head_range_m[1], u.head), 3)}`;
-      const bep = e.bep ? `${n(fromSI(e.bep.flow_m3s, u.flow), 3)} ${u.flow.label} at ${n(fromSI(e.bep.head_m, u.head), 3)} ${u.head.label}, ${n(e.bep.efficiency * 100, 3)} %` : 'not available';
+      const bep = e.bep ? `${n(fromSI(e.bep.flow_m3s, u.flow), 3)} ${u.flow.label} at ${n(fromSI(e.bep.head_m, u.head), 3)} ${u.head.label}, ${n(e.bep.efficiency * 100, 3)} %` : NOT_AVAILABLE.text;
       return `<tr><td><a href="/api/curvesets/${escapeHtml(e.id)}">${escapeHtml(e.name)}</a></td><td>${escapeHtml(e.maker ?? '')}</td><td>${escapeHtml(e.model ?? '')}</td>
 <td class="num">${n(e.speed_rpm, 5)}</td><td class="num">${escapeHtml(dia)}</td><td class="num">${escapeHtml(flow)}</td><td class="num">${escapeHtml(head)}</td><td>${escapeHtml(bep)}</td>
 <td class="num">${e.revision}</td><td>${escapeHtml(e.updated_at.slice(0, 16).replace('T', ' '))}</td></tr>`;

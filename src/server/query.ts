@@ -1,5 +1,6 @@
 /** Reading query strings and headers strictly: anything unexpected is a 400 with a clear sentence. */
 import { LibraryError } from '../library/errors.ts';
+import { readDecimal } from '../units/readNumber.ts';
 
 export type Query = Record<string, unknown>;
 
@@ -16,15 +17,15 @@ export function text(query: Query, key: string, max = 200): string | undefined {
   return v;
 }
 
-/** A finite decimal number, or undefined when absent or empty. */
+/** A finite decimal number by the one reader (src/units/readNumber.ts), or undefined when absent or empty. */
 export function number(query: Query, key: string, what: string): number | undefined {
   const v = single(query, key);
   if (v === undefined || v.trim() === '') return undefined;
-  const x = Number(v);
-  if (!/^\s*[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?\s*$/.test(v) || !Number.isFinite(x)) {
-    throw new LibraryError(`${what} must be a number, not "${v.slice(0, 40)}".`, 'invalid');
+  try {
+    return readDecimal(v, what);
+  } catch (error) {
+    throw new LibraryError((error as Error).message, 'invalid');
   }
-  return x;
 }
 
 export function required(value: number | undefined, what: string): number {

@@ -7,6 +7,10 @@
  *   say so with one of the `show…` functions instead.
  * - `showNumber`, `showSI`, `showValue` return a typed result: `{ ok: true, text }` or
  *   `{ ok: false, text: 'not available' }`, so a missing figure is visible to the caller and to the reader.
+ *   The formatter owns that mark (`NOT_AVAILABLE.text`): no screen, page or report writes its own
+ *   placeholder ("—", "-", "n/a") for a figure it does not have.
+ * - `formatPrecision` keeps the trailing zeros that show the precision ("0.30 m"), and
+ *   `formatFixed` writes a fixed number of decimals ("0.84"), for texts that have always read so.
  */
 import { fromSI } from './convert.ts';
 import type { Unit } from './units.ts';
@@ -71,6 +75,27 @@ export function formatChange(ratio: number, decimals = 1): string {
   return `${ratio >= 0 ? '+' : '−'}${Math.abs(ratio * 100).toFixed(decimals)} %`;
 }
 
+/**
+ * `value` to `digits` significant figures keeping the trailing zeros that show the precision
+ * ("0.30", "2.0", "48"); a value that needs more whole digits than that is rounded to a whole
+ * number ("148", never "1.5e+2"). An exponent only for magnitudes below 1e-6 ("1.0e-7").
+ */
+export function formatPrecision(value: number, digits = 2): string {
+  requireFinite(value);
+  if (!Number.isInteger(digits) || digits < 1 || digits > 17) throw new RangeError(`Significant figures must be a whole number from 1 to 17, not ${digits}.`);
+  if (value === 0) return '0';
+  if (Math.abs(roundSignificant(value, digits)) >= 10 ** digits) return String(Math.round(value) || 0);
+  return value.toPrecision(digits);
+}
+
+/** `value` with exactly `decimals` decimals ("0.84", "12.0"); "-0.0" is written "0.0". */
+export function formatFixed(value: number, decimals = 1): string {
+  requireFinite(value);
+  if (!Number.isInteger(decimals) || decimals < 0 || decimals > 20) throw new RangeError(`Decimals must be a whole number from 0 to 20, not ${decimals}.`);
+  const text = value.toFixed(decimals);
+  return /^-0(\.0*)?$/.test(text) ? text.slice(1) : text;
+}
+
 const isFigure = (v: number | null | undefined): v is number => typeof v === 'number' && Number.isFinite(v);
 
 /** `formatNumber`, or "not available" for a missing or non-finite figure. */
@@ -96,4 +121,9 @@ export function showPercent(fraction: number | null | undefined, digits = 3): Sh
 /** `formatChange`, or "not available". */
 export function showChange(ratio: number | null | undefined, decimals = 1): Shown {
   return isFigure(ratio) ? { ok: true, text: formatChange(ratio, decimals) } : NOT_AVAILABLE;
+}
+
+/** `formatFixed` with the label beside it ("78.4 %"), or "not available". */
+export function showFixed(value: number | null | undefined, decimals = 1, label = ''): Shown {
+  return isFigure(value) ? { ok: true, text: label ? `${formatFixed(value, decimals)} ${label}` : formatFixed(value, decimals) } : NOT_AVAILABLE;
 }

@@ -31,14 +31,17 @@ export interface CurveUnits {
   efficiency: Unit;
 }
 
+/** The unit kind of each member of a bundle of curve unit tokens (NPSH is a head). */
+export const CURVE_UNIT_KIND: Readonly<Record<keyof CurveUnitTokens, QuantityKind>> = { flow: 'flow', head: 'head', npsh: 'head', power: 'power', diameter: 'diameter' };
+
 /** Parses every token (throws UnitError naming the first bad one); efficiency is in %. */
 export function curveUnits(tokens: CurveUnitTokens): CurveUnits {
   return {
-    flow: parseUnit('flow', tokens.flow),
-    head: parseUnit('head', tokens.head),
-    npsh: parseUnit('head', tokens.npsh),
-    power: parseUnit('power', tokens.power),
-    diameter: parseUnit('diameter', tokens.diameter),
+    flow: parseUnit(CURVE_UNIT_KIND.flow, tokens.flow),
+    head: parseUnit(CURVE_UNIT_KIND.head, tokens.head),
+    npsh: parseUnit(CURVE_UNIT_KIND.npsh, tokens.npsh),
+    power: parseUnit(CURVE_UNIT_KIND.power, tokens.power),
+    diameter: parseUnit(CURVE_UNIT_KIND.diameter, tokens.diameter),
     efficiency: parseUnit('efficiency', '%'),
   };
 }

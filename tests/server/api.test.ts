@@ -111,7 +111,7 @@ describe('library API', () => {
     expect((await json(`${server.url}/api/search?flow=120&head=40`)).status).toBe(400);
     const bad = await json(`${server.url}/api/search?flow=abc&head=40&units=si`);
     expect(bad.status).toBe(400);
-    expect(bad.body.error).toMatch(/flow must be a number/);
+    expect(bad.body.error).toMatch(/flow must be a decimal number/);
     expect((await json(`${server.url}/api/search?flow=120&head=40&units=si&static=50`)).status).toBe(400);
     expect((await json(`${server.url}/api/search?flow=120&head=40&units=metric`)).status).toBe(400);
   });

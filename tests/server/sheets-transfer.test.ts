@@ -127,6 +127,6 @@ describe('the plain library page', () => {
     expect(html).toContain('licensed professional');
     const bad = await fetch(`${server.url}/library?flow=abc&head=40&units=si`);
     expect(bad.status).toBe(400);
-    expect(await bad.text()).toContain('The flow must be a number');
+    expect(await bad.text()).toContain('The flow must be a decimal number');
   });
 });

@@ -26,7 +26,7 @@ describe('the workbench study form', () => {
     expect(options[1]!.name).toBe('Option 2');
     const outcome = runDuty(set, { ...EMPTY_DUTY, flow: '200', head: '60', staticHead: '45', options }, 'si');
     expect(outcome && 'result' in outcome && outcome.result.ranked.length).toBe(2);
-    expect(runDuty(set, { ...EMPTY_DUTY, flow: 'abc' }, 'si')).toEqual({ error: 'Duty flow: "abc" is not a number.' });
+    expect(runDuty(set, { ...EMPTY_DUTY, flow: 'abc' }, 'si')).toEqual({ error: 'Duty flow must be a decimal number such as 12.5 or 1e3, not "abc".' });
     expect(runDuty(set, { ...EMPTY_DUTY, flow: '200', head: '30', staticHead: '45' }, 'si')).toEqual({ error: 'The duty head lies below the static head; the duty head must include the static head, so check both values.' });
   });
 });

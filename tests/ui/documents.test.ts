@@ -51,7 +51,7 @@ describe('the document in the store', () => {
 
   it('starts the review in the sheet\'s own unit system', () => {
     expect(unitSystemOf({ ...draftWithPanel(), units: { flow: 'gpm', head: 'ft', diameter: 'in' } })).toBe('us');
-    expect(unitSystemOf({ ...draftWithPanel(), units: { flow: 'L/s', head: 'm', diameter: 'mm' } })).toBe('si');
+    expect(unitSystemOf({ ...draftWithPanel(), units: { flow: 'L/s', head: 'm', diameter: 'mm' } })).toBe('own');
   });
 });
 

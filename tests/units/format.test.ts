@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { formatChange, formatNumber, formatPercent, formatSI, formatValue, NotFiniteError, parseUnit, roundSignificant, showChange, showNumber, showPercent, showSI, showValue } from '../../src/units/index.ts';
+import { formatChange, formatFixed, formatPrecision, showFixed, formatNumber, formatPercent, formatSI, formatValue, NotFiniteError, parseUnit, roundSignificant, showChange, showNumber, showPercent, showSI, showValue } from '../../src/units/index.ts';
 
 describe('formatNumber(v, digits) writes v to significant figures', () => {
   it('rounds to the significant figures asked for, without trailing zeros', () => {
@@ -82,5 +82,30 @@ describe('showPercent and showChange', () => {
     expect(showChange(-0.05)).toEqual({ ok: true, text: '−5.0 %' });
     expect(showPercent(Number.NaN)).toEqual({ ok: false, text: 'not available' });
     expect(showChange(Number.POSITIVE_INFINITY)).toEqual({ ok: false, text: 'not available' });
+  });
+});
+
+describe('formatPrecision and formatFixed keep the digits that show the precision', () => {
+  it('keeps trailing zeros to the significant figures asked for', () => {
+    expect(formatPrecision(0.3)).toBe('0.30');
+    expect(formatPrecision(2)).toBe('2.0');
+    expect(formatPrecision(48.2)).toBe('48');
+    expect(formatPrecision(0)).toBe('0');
+  });
+  it('rounds a value with more whole digits than that to a whole number, never an exponent', () => {
+    expect(formatPrecision(148.4)).toBe('148');
+    expect(formatPrecision(99.7)).toBe('100');
+    expect(formatPrecision(-1234.6, 3)).toBe('-1235');
+  });
+  it('writes fixed decimals, with "-0.0" as "0.0", and refuses what it cannot write', () => {
+    expect(formatFixed(0.8412, 2)).toBe('0.84');
+    expect(formatFixed(12, 1)).toBe('12.0');
+    expect(formatFixed(-0.01, 1)).toBe('0.0');
+    expect(() => formatFixed(Number.NaN)).toThrow(NotFiniteError);
+    expect(() => formatPrecision(Number.POSITIVE_INFINITY)).toThrow(NotFiniteError);
+  });
+  it('showFixed gives "not available" for a missing figure and the label beside a present one', () => {
+    expect(showFixed(78.44, 1, '%')).toEqual({ ok: true, text: '78.4 %' });
+    expect(showFixed(null, 1, '%')).toEqual({ ok: false, text: 'not available' });
   });
 });

@@ -10,7 +10,7 @@ import { curveSetToEpanet, INP_FLOW_UNITS } from '../../export/epanet.ts';
 import { curveSetView } from '../../export/jsonView.ts';
 import { exportUnits } from '../../export/unitView.ts';
 import type { Finding } from '../../model/curveset.ts';
-import { presetNamed, toSI } from '../../units/index.ts';
+import { toSI, unitChoiceNamed } from '../../units/index.ts';
 import { EXIT_FAILED_CHECKS, EXIT_OK, InputError, runCommand } from '../errors.ts';
 import { emitReport, positiveOption, readCurveSet, writeTextAtomic } from '../io.ts';
 import { formatFindings } from '../report.ts';
@@ -38,7 +38,7 @@ export function register(program: Command): void {
     .description('write a curve set as a CSV table, a curve table, JSON in chosen units, or an EPANET fragment (standard output unless -o)')
     .argument('<set>', 'curve set (*.curveset.json; "-" for standard input)')
     .requiredOption('--format <format>', 'csv (a row per flow per diameter), curve-table (a column per quantity and diameter), json, or epanet')
-    .option('--units <system>', 'si or us (default: the units the set was captured in)')
+    .option('--units <system>', 'own (the units the set was captured in, the default), si or us')
     .option('--points <n>', 'flows of the shared flow grid (csv, curve-table: round step from zero, default 21; epanet: points per curve, default 21)')
     .option('--flow-step <q>', 'step of the shared flow grid, in the table\'s flow unit (csv, curve-table)')
     .option('--delimiter <c>', 'cell delimiter: "," ";" or tab (csv, curve-table)', ',')
@@ -74,7 +74,7 @@ function wholeOption(value: string | undefined, flag: string): number | undefine
 }
 
 function exportSet(file: string, o: ExportOptions): number {
-  if (o.units) presetNamed(o.units);
+  unitChoiceNamed(o.units); // refuses an unknown word before any file is read
   const set = readCurveSet(file);
   const output = o.output ?? '-';
   const points = wholeOption(o.points, '--points');

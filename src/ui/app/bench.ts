@@ -38,6 +38,8 @@ export interface Derived {
   omitted: readonly string[];
   residuals: ReadonlyMap<string, TraceResidual>;
   fits: readonly FitLine[];
+  /** Trace id → indexes of the curve-set members its points went into, as the replay made the link. */
+  traceMembers: ReadonlyMap<string, readonly number[]>;
   /** True while the worker is fitting. */
   computing: boolean;
 }

@@ -19,6 +19,7 @@ export const EMPTY_DERIVED: Derived = {
   omitted: [],
   residuals: new Map(),
   fits: [],
+  traceMembers: new Map(),
   computing: false,
 };
 
@@ -64,27 +65,28 @@ export class DerivedState {
     try {
       ({ takeoff, omitted } = toTakeoffFile(draft));
     } catch (error) {
-      this.current = { ...this.current, takeoff: null, curveSet: null, problem: (error as Error).message, omitted: [], residuals: new Map(), fits: [], computing: false };
+      this.current = { ...this.current, takeoff: null, curveSet: null, problem: (error as Error).message, omitted: [], residuals: new Map(), fits: [], traceMembers: new Map(), computing: false };
       return;
     }
     const serial = ++this.serial;
     this.current = { ...this.current, takeoff, omitted, computing: true };
     this.timer = window.setTimeout(async () => {
       try {
-        const { curveSet } = await this.worker.call('replay', { takeoff, ...this.names() });
+        const { curveSet, traceMembers } = await this.worker.call('replay', { takeoff, ...this.names() });
         if (serial !== this.serial) return;
         const cals = new Map([...calibrations].flatMap(([id, c]) => (c.ok ? [[id, c.calibration] as const] : [])));
         this.current = {
           ...this.current,
           curveSet,
           problem: null,
-          residuals: traceResiduals(draft, takeoff, curveSet, cals),
-          fits: fitLinesOnSheet(takeoff, curveSet, cals),
+          residuals: traceResiduals(draft, takeoff, curveSet, cals, traceMembers),
+          fits: fitLinesOnSheet(takeoff, curveSet, cals, traceMembers),
+          traceMembers,
           computing: false,
         };
       } catch (error) {
         if (serial !== this.serial) return;
-        this.current = { ...this.current, curveSet: null, problem: (error as Error).message, residuals: new Map(), fits: [], computing: false };
+        this.current = { ...this.current, curveSet: null, problem: (error as Error).message, residuals: new Map(), fits: [], traceMembers: new Map(), computing: false };
       }
       this.changed();
     }, 250);

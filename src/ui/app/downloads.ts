@@ -7,6 +7,8 @@ import { curveSetToCsv } from '../../export/csvTable.ts';
 import { toTakeoffFile } from '../store/takeoffFile.ts';
 import type { Store } from '../store/store.ts';
 import type { Derived } from './bench.ts';
+import { chartUnits } from '../views/familyChart.ts';
+import { choiceWords } from '../views/words.ts';
 
 /** What the downloads and the library save need of the workbench. */
 export interface DownloadsHost {
@@ -99,7 +101,7 @@ export class Downloads {
         store.say('Downloaded the curve set.', 'done');
       } else {
         save(curveSetToCsv(set, { system: store.session.unitSystem }), `${this.stem()}.csv`, 'text/csv');
-        store.say(`Downloaded the CSV table in ${store.session.unitSystem.toUpperCase()} units.`, 'done');
+        store.say(`Downloaded the CSV table in ${choiceWords(store.session.unitSystem, chartUnits(set, store.session.unitSystem))}.`, 'done');
       }
     } catch (error) {
       store.say(`Nothing was downloaded: ${(error as Error).message}`, 'error');

@@ -29,9 +29,18 @@ function asSheetPoints(points: readonly SheetXY[]): SheetPoint[] {
   return points.map((p) => sheetPoint(p[0], p[1]));
 }
 
-function memberOf(set: CurveSet, diameter: number, unit: Unit): Member | undefined {
-  const d = toSI(diameter, unit);
-  return set.members.find((m) => m.diameter_m !== undefined && Math.abs(m.diameter_m - d) <= 1e-9 * Math.max(1, d));
+/** The link the replay made from trace id to curve-set members (src/digitize/takeoff.ts, `traceMembers`). */
+export type TraceMembers = ReadonlyMap<string, readonly number[]>;
+
+/** The traces whose points went into member `index` of the curve set (the inverse of `traceMembers`). */
+export function tracesOfMember(traceMembers: TraceMembers, index: number): string[] {
+  return [...traceMembers].filter(([, members]) => members.includes(index)).map(([id]) => id);
+}
+
+/** The member a curve trace's points went into, as the replay linked them. */
+function memberOf(set: CurveSet, traceMembers: TraceMembers, traceId: string): Member | undefined {
+  const index = traceMembers.get(traceId)?.[0];
+  return index === undefined ? undefined : set.members[index];
 }
 
 function valueSpan(fit: PolynomialFit): number {
@@ -47,7 +56,7 @@ function summarise(traceId: string, residualsSI: number[], unit: Unit, fit: Poly
 }
 
 /** Residuals of every trace that has a fitted curve, keyed by trace id. */
-export function traceResiduals(draft: Draft, takeoff: Takeoff, set: CurveSet, calibrations: ReadonlyMap<string, Calibration>): Map<string, TraceResidual> {
+export function traceResiduals(draft: Draft, takeoff: Takeoff, set: CurveSet, calibrations: ReadonlyMap<string, Calibration>, traceMembers: TraceMembers): Map<string, TraceResidual> {
   const units = resolveTakeoffUnits(takeoff);
   const out = new Map<string, TraceResidual>();
   const byId = new Map(draft.traces.map((t) => [t.id, t]));
@@ -58,7 +67,7 @@ export function traceResiduals(draft: Draft, takeoff: Takeoff, set: CurveSet, ca
     if (!cal || !drafted) continue;
     const u = traceUnits(takeoff, units, trace);
     if (trace.iso === undefined) {
-      const member = trace.diameter !== undefined ? memberOf(set, trace.diameter, units.diameter) : undefined;
+      const member = trace.diameter !== undefined ? memberOf(set, traceMembers, id) : undefined;
       const fit = member?.curves[trace.quantity]?.fit;
       if (!fit) continue;
       const residuals = pointsOf(drafted)
@@ -78,7 +87,7 @@ export function traceResiduals(draft: Draft, takeoff: Takeoff, set: CurveSet, ca
     let anyFit: PolynomialFit | undefined;
     for (const c of isoCrossings(asSheetPoints(pointsOf(drafted)), heads)) {
       const head = c.key;
-      const member = memberOf(set, head.diameter as number, units.diameter);
+      const member = memberOf(set, traceMembers, head.id as string);
       const fit = member?.curves[trace.quantity]?.fit;
       if (!fit) continue;
       anyFit ??= fit;
@@ -94,7 +103,7 @@ export function traceResiduals(draft: Draft, takeoff: Takeoff, set: CurveSet, ca
 }
 
 /** The fitted curves drawn back onto the panels they were read from. */
-export function fitLinesOnSheet(takeoff: Takeoff, set: CurveSet, calibrations: ReadonlyMap<string, Calibration>): FitLine[] {
+export function fitLinesOnSheet(takeoff: Takeoff, set: CurveSet, calibrations: ReadonlyMap<string, Calibration>, traceMembers: TraceMembers): FitLine[] {
   const units = resolveTakeoffUnits(takeoff);
   const lines: FitLine[] = [];
   const groups = new Map<string, Trace[]>();
@@ -106,7 +115,7 @@ export function fitLinesOnSheet(takeoff: Takeoff, set: CurveSet, calibrations: R
   for (const traces of groups.values()) {
     const first = traces[0] as Trace;
     const cal = calibrations.get(first.panel);
-    const member = memberOf(set, first.diameter as number, units.diameter);
+    const member = traces.map((t) => memberOf(set, traceMembers, t.id as string)).find((m) => m !== undefined);
     const fit = member?.curves[first.quantity as Quantity]?.fit;
     if (!cal || !fit) continue;
     const u = traceUnits(takeoff, units, first);

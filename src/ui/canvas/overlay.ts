@@ -170,20 +170,21 @@ function paintTrace(ctx: CanvasRenderingContext2D, view: View, trace: TraceDraft
   guides.forEach((g) => paintGuide(ctx, view, g, ink));
 }
 
+/** Starts a path of a cross at (x, y): four arms reaching `reach` px, leaving `hole` px open at the centre. */
+function crossPath(ctx: CanvasRenderingContext2D, x: number, y: number, reach: number, hole = 0): void {
+  ctx.beginPath();
+  for (const [dx, dy] of [[-1, 0], [1, 0], [0, -1], [0, 1]] as const) {
+    ctx.moveTo(x + dx * hole, y + dy * hole);
+    ctx.lineTo(x + dx * reach, y + dy * reach);
+  }
+}
+
 function paintGuide(ctx: CanvasRenderingContext2D, view: View, g: SheetXY, ink: string): void {
   const [x, y] = toScreen(view, g);
   ctx.beginPath();
   ctx.arc(x, y, 6, 0, 2 * Math.PI);
   haloStroke(ctx, ink, 1.5);
-  ctx.beginPath();
-  ctx.moveTo(x - 9, y);
-  ctx.lineTo(x - 3, y);
-  ctx.moveTo(x + 3, y);
-  ctx.lineTo(x + 9, y);
-  ctx.moveTo(x, y - 9);
-  ctx.lineTo(x, y - 3);
-  ctx.moveTo(x, y + 3);
-  ctx.lineTo(x, y + 9);
+  crossPath(ctx, x, y, 9, 3);
   ctx.strokeStyle = ink;
   ctx.lineWidth = 1.5;
   ctx.stroke();
@@ -215,11 +216,7 @@ function paintPreview(ctx: CanvasRenderingContext2D, view: View, preview: Previe
     ctx.fillStyle = 'rgba(255,255,255,0.9)';
     ctx.fill();
     haloStroke(ctx, '#111827', 1.5);
-    ctx.beginPath();
-    ctx.moveTo(x - 3, y);
-    ctx.lineTo(x + 3, y);
-    ctx.moveTo(x, y - 3);
-    ctx.lineTo(x, y + 3);
+    crossPath(ctx, x, y, 3);
     ctx.stroke();
   }
 }
@@ -235,11 +232,7 @@ function paintSnap(ctx: CanvasRenderingContext2D, view: View, at: SheetXY, what:
   // A square reticle marks a point the click will snap to.
   ctx.rect(x - 6, y - 6, 12, 12);
   haloStroke(ctx, '#c2410c', 1.75);
-  ctx.beginPath();
-  ctx.moveTo(x - 11, y);
-  ctx.lineTo(x + 11, y);
-  ctx.moveTo(x, y - 11);
-  ctx.lineTo(x, y + 11);
+  crossPath(ctx, x, y, 11);
   ctx.strokeStyle = '#c2410c';
   ctx.lineWidth = 1;
   ctx.stroke();

@@ -10,10 +10,9 @@ import { CurveSet } from '../../model/curveset.ts';
 import { meetDuty } from '../../duty/meetDuty.ts';
 import { PRELIMINARY } from '../../duty/cautions.ts';
 import { evaluateUnchecked, linspace } from '../../fit/polynomial.ts';
-import { fromSI, toSI } from '../../units/index.ts';
-import { chartUnits, familyChart } from '../views/familyChart.ts';
-import { niceTicks } from '../../units/index.ts';
-import { num, unitText } from '../views/words.ts';
+import { chosenUnits, fromSI, niceLinearScale, NOT_AVAILABLE, presetCurveTokens, readDecimal, toSI, unitChoiceNamed, type UnitChoice } from '../../units/index.ts';
+import { familyChart, polylinePoints } from '../views/familyChart.ts';
+import { num, numIn, numPercent, unitText } from '../views/words.ts';
 
 /**
  * An entry as GET /api/curvesets lists it (SI figures). Written out here rather than imported:
@@ -80,10 +79,11 @@ function failure(root: HTMLElement, title: string, error: unknown): void {
 
 async function showList(root: HTMLElement, p: URLSearchParams): Promise<void> {
   const q = p.get('q') ?? '';
+  // A search spans many curve sets, so it is typed in a preset system (SI unless asked otherwise).
   const units = p.get('units') === 'us' ? 'us' : 'si';
   const flow = p.get('flow') ?? '';
   const head = p.get('head') ?? '';
-  const u = chartUnits(units);
+  const u = chosenUnits(presetCurveTokens(units));
   root.replaceChildren(frame('Library', h('p', { class: 'hint' }, 'Loading…')));
   try {
     const list = await getJson<{ total: number; entries: EntryInfo[] }>(`api/curvesets?limit=500&q=${encodeURIComponent(q)}`);
@@ -115,10 +115,10 @@ async function showList(root: HTMLElement, p: URLSearchParams): Promise<void> {
             h('thead', null, h('tr', null, h('th', { scope: 'col' }, 'Pump'), h('th', { scope: 'col' }, `Diameter [${u.diameter.label}]`), h('th', { scope: 'col' }, 'Efficiency [%]'), h('th', { scope: 'col' }, `Power [${u.power.label}]`), h('th', { scope: 'col' }, `NPSHr [${u.npsh.label}]`), h('th', { scope: 'col' }, 'Against BEP'))),
             h('tbody', null, search.candidates.map((c) => h('tr', null,
               h('th', { scope: 'row' }, h('a', { href: `#/library/${encodeURIComponent(c.id)}` }, c.name)),
-              h('td', null, c.diameter === null ? '—' : num(c.diameter)),
-              h('td', null, c.efficiency === null ? '—' : num(c.efficiency, 3)),
-              h('td', null, c.power === null ? '—' : num(c.power)),
-              h('td', null, c.npshr === null ? '—' : num(c.npshr, 3)),
+              h('td', null, num(c.diameter)),
+              h('td', null, num(c.efficiency, 3)),
+              h('td', null, num(c.power)),
+              h('td', null, num(c.npshr, 3)),
               h('td', null, c.por.flow_to_bep_percent === null ? c.por.position : `${num(c.por.flow_to_bep_percent, 3)} % of BEP flow (${c.por.position} the POR)`))))),
           h('p', { class: 'caution', role: 'note' }, search.notice))
       : search && 'error' in search ? h('p', { class: 'cal bad', role: 'alert' }, search.error) : null;
@@ -133,17 +133,28 @@ async function showList(root: HTMLElement, p: URLSearchParams): Promise<void> {
           h('td', null, h('input', { type: 'checkbox', 'aria-label': `Choose ${e.name} for comparison`, onchange: (ev: Event) => pick(e.id, (ev.target as HTMLInputElement).checked) })),
           h('th', { scope: 'row' }, h('a', { href: `#/library/${encodeURIComponent(e.id)}` }, e.name), e.maker ? h('span', { class: 'hint' }, ` · ${e.maker}`) : null),
           h('td', null, num(e.speed_rpm)),
-          h('td', null, e.diameters_m.map((d) => num(fromSI(d, u.diameter))).join(', ') || '—'),
-          h('td', null, `${num(fromSI(e.flow_range_m3s[0], u.flow))} … ${num(fromSI(e.flow_range_m3s[1], u.flow))}`),
-          h('td', null, e.bep ? `${num(fromSI(e.bep.flow_m3s, u.flow))} at ${num(fromSI(e.bep.head_m, u.head))}, ${num(e.bep.efficiency * 100, 3)} %` : '—'),
+          h('td', null, e.diameters_m.map((d) => numIn(d, u.diameter)).join(', ') || NOT_AVAILABLE.text),
+          h('td', null, `${numIn(e.flow_range_m3s[0], u.flow)} … ${numIn(e.flow_range_m3s[1], u.flow)}`),
+          h('td', null, e.bep ? `${numIn(e.bep.flow_m3s, u.flow)} at ${numIn(e.bep.head_m, u.head)}, ${numPercent(e.bep.efficiency)} %` : NOT_AVAILABLE.text),
           h('td', null, String(e.revision))))))));
   } catch (error) {
     failure(root, 'Library', error);
   }
 }
 
+/** The unit choice a page was asked for; the curve set's own units when none (or an unknown word) was given. */
+function choiceParam(p: URLSearchParams): UnitChoice {
+  try {
+    return unitChoiceNamed(p.get('units') ?? undefined) ?? 'own';
+  } catch {
+    return 'own';
+  }
+}
+
+const CHOICE_NAMES: Record<UnitChoice, string> = { own: 'its own units', si: 'SI units', us: 'US units' };
+
 async function showEntry(root: HTMLElement, id: string, p: URLSearchParams): Promise<void> {
-  const units = p.get('units') === 'us' ? 'us' : 'si';
+  const units = choiceParam(p);
   const revision = p.get('revision');
   root.replaceChildren(frame(id, h('p', { class: 'hint' }, 'Loading…')));
   try {
@@ -162,7 +173,7 @@ async function showEntry(root: HTMLElement, id: string, p: URLSearchParams): Pro
             h('li', null, h('a', { href: `#/library/${encodeURIComponent(id)}?revision=${r.revision}&units=${units}`, 'aria-current': String(r.revision) === (revision ?? String(latest)) ? 'true' : undefined }, `Revision ${r.revision}`), ` — saved ${new Date(r.saved_at).toLocaleString()}, ${num(r.bytes / 1024, 3)} kB`))),
           h('h3', null, 'Findings'),
           h('ul', { class: 'plain' }, set.findings.map((f) => h('li', { class: `finding ${f.severity}` }, h('span', { class: 'severity' }, f.severity), h('span', { class: 'finding-text' }, f.message)))),
-          h('p', null, h('a', { href: `#/library/${encodeURIComponent(id)}?${revision ? `revision=${revision}&` : ''}units=${units === 'si' ? 'us' : 'si'}` }, `Show in ${units === 'si' ? 'US' : 'SI'} units`))))));
+          h('p', null, (['own', 'si', 'us'] as const).filter((c) => c !== units).flatMap((c, k) => [k ? ' · ' : '', h('a', { href: `#/library/${encodeURIComponent(id)}?${revision ? `revision=${revision}&` : ''}units=${c}` }, `Show in ${CHOICE_NAMES[c]}`)]))))));
   } catch (error) {
     failure(root, id, error);
   }
@@ -171,16 +182,29 @@ async function showEntry(root: HTMLElement, id: string, p: URLSearchParams): Pro
 const INKS = ['#1f4fa3', '#a8321f', '#1b7f4b', '#6a3fa0', '#8a5300', '#0d6b6b'];
 
 async function showCompare(root: HTMLElement, p: URLSearchParams): Promise<void> {
+  // Several curve sets side by side: a preset system, SI unless asked otherwise.
   const units = p.get('units') === 'us' ? 'us' : 'si';
-  const u = chartUnits(units);
+  const u = chosenUnits(presetCurveTokens(units));
   const ids = (p.get('ids') ?? '').split(',').filter(Boolean);
-  const flow = Number(p.get('flow'));
-  const head = Number(p.get('head'));
-  const hasDuty = Number.isFinite(flow) && Number.isFinite(head) && flow > 0 && head > 0;
+  const problems: string[] = [];
+  const typed = (key: string, field: string): number | undefined => {
+    const text = p.get(key);
+    if (!text) return undefined;
+    try {
+      return readDecimal(text, field, { sign: 'positive' });
+    } catch (error) {
+      problems.push((error as Error).message);
+      return undefined;
+    }
+  };
+  const flow = typed('flow', 'The duty flow');
+  const head = typed('head', 'The duty head');
+  const hasDuty = flow !== undefined && head !== undefined;
   root.replaceChildren(frame('Compare', h('p', { class: 'hint' }, 'Loading…')));
   try {
     const sets = await Promise.all(ids.map((id) => getJson<unknown>(`api/curvesets/${encodeURIComponent(id)}`).then((raw) => ({ id, set: CurveSet.parse(raw) }))));
     const duty = hasDuty ? { flow_m3s: toSI(flow, u.flow), head_m: toSI(head, u.head) } : null;
+    const problem = problems.length ? h('p', { class: 'cal bad', role: 'alert' }, problems.join(' ')) : null;
     const rows = sets.map(({ id, set }) => ({ id, set, match: duty ? meetDuty(set, duty) : null }));
     root.replaceChildren(frame(`Compare ${sets.length} pumps`,
       h('form', { class: 'library-search', onsubmit: (e: Event) => {
@@ -188,9 +212,10 @@ async function showCompare(root: HTMLElement, p: URLSearchParams): Promise<void>
         const f = new FormData(e.target as HTMLFormElement);
         location.hash = `#/compare?ids=${ids.join(',')}&units=${units}&flow=${encodeURIComponent(String(f.get('flow')))}&head=${encodeURIComponent(String(f.get('head')))}`;
       } },
-        h('div', { class: 'field' }, h('label', { for: 'cmp-flow' }, 'Duty flow'), h('input', { id: 'cmp-flow', name: 'flow', type: 'text', inputmode: 'decimal', value: hasDuty ? String(flow) : '' }), h('span', { class: 'unit' }, unitText(u.flow.label))),
-        h('div', { class: 'field' }, h('label', { for: 'cmp-head' }, 'Duty head'), h('input', { id: 'cmp-head', name: 'head', type: 'text', inputmode: 'decimal', value: hasDuty ? String(head) : '' }), h('span', { class: 'unit' }, u.head.label)),
+        h('div', { class: 'field' }, h('label', { for: 'cmp-flow' }, 'Duty flow'), h('input', { id: 'cmp-flow', name: 'flow', type: 'text', inputmode: 'decimal', value: p.get('flow') ?? '' }), h('span', { class: 'unit' }, unitText(u.flow.label))),
+        h('div', { class: 'field' }, h('label', { for: 'cmp-head' }, 'Duty head'), h('input', { id: 'cmp-head', name: 'head', type: 'text', inputmode: 'decimal', value: p.get('head') ?? '' }), h('span', { class: 'unit' }, u.head.label)),
         h('button', { type: 'submit', class: 'primary' }, 'Compare at this duty')),
+      problem,
       compareChart(rows.map((r) => r.set), duty, units),
       h('table', { class: 'figures compare' },
         h('caption', null, duty ? `Figures at ${num(flow)} ${unitText(u.flow.label)} and ${num(head)} ${u.head.label} (impeller trimmed to the duty)` : 'Type a duty to see the figures there'),
@@ -200,12 +225,12 @@ async function showCompare(root: HTMLElement, p: URLSearchParams): Promise<void>
           const pt = m?.point;
           return h('tr', null,
             h('th', { scope: 'row' }, h('span', { class: 'swatch', style: { background: INKS[i % INKS.length] } }), ' ', h('a', { href: `#/library/${encodeURIComponent(r.id)}` }, r.set.pump.name)),
-            h('td', null, m?.diameter_m !== undefined ? num(fromSI(m.diameter_m, u.diameter)) : '—'),
-            h('td', null, m?.trim_ratio !== undefined ? num(m.trim_ratio * 100, 3) : '—'),
-            h('td', null, pt?.efficiency !== undefined ? num(pt.efficiency * 100, 3) : '—'),
-            h('td', null, pt?.power_W !== undefined ? num(fromSI(pt.power_W, u.power)) : '—'),
-            h('td', null, pt?.npshr_m !== undefined ? num(fromSI(pt.npshr_m, u.npsh), 3) : '—'),
-            h('td', null, pt?.flow_to_bep !== undefined ? `${num(pt.flow_to_bep * 100, 3)} % (${pt.por_position})` : '—'),
+            h('td', null, numIn(m?.diameter_m, u.diameter)),
+            h('td', null, numPercent(m?.trim_ratio)),
+            h('td', null, numPercent(pt?.efficiency)),
+            h('td', null, numIn(pt?.power_W, u.power)),
+            h('td', null, numIn(pt?.npshr_m, u.npsh, 3)),
+            h('td', null, pt?.flow_to_bep !== undefined ? `${numPercent(pt.flow_to_bep)} % (${pt.por_position})` : NOT_AVAILABLE.text),
             h('td', { class: m && m.status !== 'meets' ? 'warn' : '' }, m ? (pt?.extrapolated.length ? `${m.message} Some figures are extrapolated.` : m.message) : ''));
         }))),
       h('p', { class: 'caution', role: 'note' }, PRELIMINARY)));
@@ -216,23 +241,20 @@ async function showCompare(root: HTMLElement, p: URLSearchParams): Promise<void>
 
 /** The head curves of every candidate (each diameter, thin; the largest, bold) with the duty point. */
 function compareChart(sets: CurveSet[], duty: { flow_m3s: number; head_m: number } | null, units: 'si' | 'us'): SVGElement {
-  const u = chartUnits(units);
-  const W = 640;
-  const H = 360;
-  const L = 60;
-  const B = 40;
+  const u = chosenUnits(presetCurveTokens(units));
+  const [W, H, L, B] = [640, 360, 60, 40];
   const curves = sets.flatMap((s, i) => s.members.flatMap((m, k) => (m.curves.head?.fit ? [{ i, k, fit: m.curves.head.fit }] : [])));
   const qMax = Math.max(duty?.flow_m3s ?? 0, ...curves.map((c) => c.fit.domain[1]));
   const hMax = Math.max(duty?.head_m ?? 0, ...curves.map((c) => evaluateUnchecked(c.fit, c.fit.domain[0])));
-  const xt = niceTicks(0, fromSI(qMax, u.flow), 6);
-  const yt = niceTicks(0, fromSI(hMax, u.head), 5);
-  const x = (q: number) => L + ((fromSI(q, u.flow) - xt.lo) / (xt.hi - xt.lo)) * (W - L - 20);
-  const y = (v: number) => H - B - ((fromSI(v, u.head) - yt.lo) / (yt.hi - yt.lo)) * (H - B - 16);
+  const xs = niceLinearScale(0, fromSI(qMax, u.flow), [L, W - 20], 6);
+  const ys = niceLinearScale(0, fromSI(hMax, u.head), [H - B, 16], 5);
+  const x = (q: number) => xs.map(fromSI(q, u.flow));
+  const y = (v: number) => ys.map(fromSI(v, u.head));
   const chart = svg('svg', { viewBox: `0 0 ${W} ${H}`, class: 'family-chart compare-chart', role: 'img', 'aria-label': `Head curves of ${sets.length} pumps${duty ? ' with the duty point' : ''}` });
-  for (const t of xt.ticks) chart.append(svg('line', { x1: x(toSI(t, u.flow)), x2: x(toSI(t, u.flow)), y1: 16, y2: H - B, class: 'grid' }), svg('text', { x: x(toSI(t, u.flow)), y: H - B + 14, class: 'tick', 'text-anchor': 'middle' }, num(t)));
-  for (const t of yt.ticks) chart.append(svg('line', { x1: L, x2: W - 20, y1: y(toSI(t, u.head)), y2: y(toSI(t, u.head)), class: 'grid' }), svg('text', { x: L - 6, y: y(toSI(t, u.head)) + 4, class: 'tick', 'text-anchor': 'end' }, num(t)));
+  for (const t of xs.tickValues) chart.append(svg('line', { x1: xs.map(t), x2: xs.map(t), y1: 16, y2: H - B, class: 'grid' }), svg('text', { x: xs.map(t), y: H - B + 14, class: 'tick', 'text-anchor': 'middle' }, num(t)));
+  for (const t of ys.tickValues) chart.append(svg('line', { x1: L, x2: W - 20, y1: ys.map(t), y2: ys.map(t), class: 'grid' }), svg('text', { x: L - 6, y: ys.map(t) + 4, class: 'tick', 'text-anchor': 'end' }, num(t)));
   for (const c of curves) {
-    const pts = linspace(c.fit.domain[0], c.fit.domain[1], 50).map((q) => `${x(q).toFixed(1)},${y(evaluateUnchecked(c.fit, q)).toFixed(1)}`).join(' ');
+    const pts = polylinePoints(linspace(c.fit.domain[0], c.fit.domain[1], 50).map((q) => [x(q), y(evaluateUnchecked(c.fit, q))] as const));
     chart.append(svg('polyline', { points: pts, class: 'curve', stroke: INKS[c.i % INKS.length], 'stroke-width': c.k === 0 ? 2.2 : 1, fill: 'none' }));
   }
   if (duty) chart.append(svg('rect', { x: x(duty.flow_m3s) - 5, y: y(duty.head_m) - 5, width: 10, height: 10, class: 'op-point' }, svg('title', null, 'Duty point')));

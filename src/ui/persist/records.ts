@@ -4,12 +4,15 @@
  * is offered after a reload, which old ones may go). Pure, so that it is tested without a browser.
  */
 import type { Draft, SheetRef } from '../store/draft.ts';
+import type { UnitChoice } from '../../units/index.ts';
 import { unitSystemOf, type LibraryLink, type Step, type TraceTarget } from '../store/store.ts';
 
 export const AUTOSAVE_FORMAT = 'pumpscribe.autosave';
 export const AUTOSAVE_VERSION = 2;
 /** How many documents a browser keeps; older ones go first, never one open in a tab. */
 export const KEEP_DOCUMENTS = 20;
+
+const UNIT_CHOICES: readonly UnitChoice[] = ['own', 'si', 'us'];
 
 /** One kept document: the take-off record being edited, its library entry and where the engineer was. */
 export interface SavedDocument {
@@ -23,7 +26,7 @@ export interface SavedDocument {
   library: LibraryLink | null;
   step: Step;
   target: TraceTarget;
-  unitSystem: 'si' | 'us';
+  unitSystem: UnitChoice;
   /** Key of the sheet's bytes in the sheet store (the SHA-256 of the sheet). */
   sheetKey: string | null;
 }
@@ -77,7 +80,11 @@ export function migrateSaved(raw: unknown, newId: () => string): SavedDocument |
   // The step is checked against the steps of the workbench when the record is restored.
   if (typeof raw.step !== 'string') return null;
   if (raw.version === 1) return fromV1(raw as unknown as SavedWorkV1, newId());
-  if (raw.version === AUTOSAVE_VERSION && typeof raw.id === 'string' && raw.id) return raw as unknown as SavedDocument;
+  if (raw.version === AUTOSAVE_VERSION && typeof raw.id === 'string' && raw.id) {
+    const doc = raw as unknown as SavedDocument;
+    // A unit choice this version does not know falls back to the sheet's own units.
+    return UNIT_CHOICES.includes(doc.unitSystem) ? doc : { ...doc, unitSystem: unitSystemOf(doc.draft) };
+  }
   return null;
 }
 

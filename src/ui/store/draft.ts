@@ -16,6 +16,7 @@
 import type { z } from 'zod';
 import type { Quantity } from '../../model/curveset.ts';
 import type { Panel, SheetXY, TakeoffPump, TakeoffUnits, Trace } from '../../model/takeoff.ts';
+import { defaultPowerToken } from '../../units/presets.ts';
 
 export type Frame = readonly [left: number, top: number, right: number, bottom: number];
 
@@ -101,7 +102,7 @@ export const EMPTY_DRAFT: Draft = {
 
 /** The power unit numbers are read in: the record's, else what the curve set shows (hp for gpm sheets, kW otherwise). */
 export function powerUnit(units: UnitsDraft): string {
-  return units.power ?? (units.flow === 'gpm' ? 'hp' : 'kW');
+  return units.power ?? defaultPowerToken(units.flow);
 }
 
 /** The NPSH unit: the record's, else the head unit. */

@@ -6,7 +6,8 @@
  */
 import type { Quantity } from '../../model/curveset.ts';
 import type { Action } from './actions/action.ts';
-import { EMPTY_DRAFT, type Draft } from './draft.ts';
+import { EMPTY_DRAFT, npshUnit, powerUnit, type Draft, type UnitsDraft } from './draft.ts';
+import { choiceOf, type CurveUnitTokens, type UnitChoice } from '../../units/index.ts';
 import { commit, redo, replacePresent, startHistory, undo, type History } from './history.ts';
 
 import type { Step } from '../steps/registry.ts';
@@ -52,8 +53,8 @@ export interface Session {
   /** Trace picked out from a finding, drawn emphasised. */
   highlightedTrace: string | null;
   target: TraceTarget;
-  /** How the review and the family chart show numbers. */
-  unitSystem: 'si' | 'us';
+  /** How the review, the family chart and the downloads show numbers: the sheet's own units (the default) or a preset. */
+  unitSystem: UnitChoice;
   message: Message | null;
   progress: { label: string; fraction: number | null } | null;
   /** True while a capture is running in the worker. */
@@ -72,16 +73,24 @@ export const INITIAL_SESSION: Session = {
   selectedPoint: null,
   highlightedTrace: null,
   target: { quantity: 'head', lines: 'diameter' },
-  unitSystem: 'si',
+  unitSystem: 'own',
   message: null,
   progress: null,
   busy: false,
   library: { state: 'idle', text: '' },
 };
 
-/** The unit system the review starts in: the sheet's own (US for gpm sheets, else SI). */
-export function unitSystemOf(draft: Draft): 'si' | 'us' {
-  return draft.units.flow === 'gpm' || draft.units.head === 'ft' ? 'us' : 'si';
+/**
+ * The units the review starts in: the sheet's own. Named by its preset when the sheet's curve
+ * units are exactly a preset's (a gpm, ft, hp, in sheet is "us"), else "own" (an L/s sheet).
+ */
+/** The curve units the sheet's numbers are in, as the curve set will carry them (power and NPSH filled in). */
+export function sheetUnitTokens(units: UnitsDraft): CurveUnitTokens {
+  return { flow: units.flow, head: units.head, npsh: npshUnit(units), power: powerUnit(units), diameter: units.diameter };
+}
+
+export function unitSystemOf(draft: Draft): UnitChoice {
+  return choiceOf(sheetUnitTokens(draft.units));
 }
 
 /** Where a document was last saved in the office library: the entry and the revision it made. */

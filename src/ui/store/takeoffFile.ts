@@ -7,6 +7,7 @@
  */
 import { UserError } from '../../model/errors.ts';
 import type { Quantity } from '../../model/curveset.ts';
+import { parseUnit, type QuantityKind } from '../../units/index.ts';
 import { calibrate } from '../../digitize/calibration.ts';
 import { parseTakeoff, Takeoff, TAKEOFF_FORMAT, TAKEOFF_VERSION, type Panel, type Trace } from '../../model/takeoff.ts';
 import { anchorsWithValues, EMPTY_DRAFT, pointsOf, type Draft, type PanelDraft, type SheetRef, type TraceDraft } from './draft.ts';
@@ -77,15 +78,24 @@ export function toTakeoffFile(draft: Draft): WrittenTakeoff {
 }
 
 /** What a panel plots, judged from the traces on it and then from its y unit. */
+function isUnitOf(kind: QuantityKind, token: string): boolean {
+  try {
+    parseUnit(kind, token);
+    return true;
+  } catch {
+    return false;
+  }
+}
+
 function guessPlots(panel: Panel, traces: readonly Trace[]): Quantity {
   const counts = new Map<Quantity, number>();
   for (const t of traces) if (t.panel === panel.id && t.iso === undefined) counts.set(t.quantity, (counts.get(t.quantity) ?? 0) + 1);
   const top = [...counts.entries()].sort((a, b) => b[1] - a[1])[0];
   if (top) return top[0];
-  const y = panel.units?.y ?? '';
-  if (y === '%') return 'efficiency';
-  if (/^(k?W|hp)$/i.test(y)) return 'power';
-  return 'head';
+  // Else by the kind of the panel's y unit in the one unit table (any case, any alias).
+  const y = panel.units?.y;
+  if (y === undefined) return 'head';
+  return isUnitOf('efficiency', y) ? 'efficiency' : isUnitOf('power', y) ? 'power' : 'head';
 }
 
 /**

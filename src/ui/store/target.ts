@@ -8,6 +8,7 @@ import type { Quantity } from '../../model/curveset.ts';
 import type { SheetXY } from '../../model/takeoff.ts';
 import { frameOf, powerUnit, type Draft, type PanelDraft, type TraceDraft, type UnitsDraft } from './draft.ts';
 import type { Session, TraceTarget } from './store.ts';
+import { QUANTITY_NAMES, QUANTITY_WORDS } from '../views/words.ts';
 
 export const QUANTITY_ORDER: readonly Quantity[] = ['head', 'efficiency', 'power', 'npshr'];
 
@@ -103,15 +104,14 @@ export function targetProblem(draft: Draft, target: TraceTarget): string | null 
   return null;
 }
 
-const NAMES: Record<Quantity, string> = { head: 'head', efficiency: 'efficiency', power: 'power', npshr: 'NPSHr' };
 
 /** "head curve of 250 mm", "70 % efficiency line": the target in words, for the status line. */
 export function targetName(target: TraceTarget, units: UnitsDraft): string {
   if (target.lines === 'iso') {
     const unit = target.quantity === 'efficiency' ? '%' : powerUnit(units);
-    return target.iso === undefined ? `line of constant ${NAMES[target.quantity]}` : `${target.iso} ${unit} ${NAMES[target.quantity]} line`;
+    return target.iso === undefined ? `line of constant ${QUANTITY_WORDS[target.quantity]}` : `${target.iso} ${unit} ${QUANTITY_WORDS[target.quantity]} line`;
   }
-  return target.diameter === undefined ? `${NAMES[target.quantity]} curve` : `${NAMES[target.quantity]} curve of ${target.diameter} ${units.diameter}`;
+  return target.diameter === undefined ? `${QUANTITY_WORDS[target.quantity]} curve` : `${QUANTITY_WORDS[target.quantity]} curve of ${target.diameter} ${units.diameter}`;
 }
 
 /** The target that traces this trace's curve again: its quantity, its diameter (or iso value) and its panel. */
@@ -157,6 +157,6 @@ export function sharedCurves(draft: Draft): { quantity: Quantity; diameter: numb
 
 /** "Head 235 mm has 2 traces (t2, t5): …" — the sentence for a shared curve. */
 export function sharedCurveSentence(g: { quantity: Quantity; diameter: number; ids: string[] }, diameterUnit: string): string {
-  const name = `${NAMES[g.quantity][0]?.toUpperCase()}${NAMES[g.quantity].slice(1)} ${g.diameter} ${diameterUnit}`;
+  const name = `${QUANTITY_NAMES[g.quantity]} ${g.diameter} ${diameterUnit}`;
   return `${name} has ${g.ids.length} traces (${g.ids.join(', ')}); their points are fitted together as one curve. If one belongs to another diameter, relabel or delete it.`;
 }

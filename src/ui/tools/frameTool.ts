@@ -8,10 +8,11 @@ import type { CanvasPointer } from '../canvas/sheetCanvas.ts';
 import { addPanel, frameAnchors, nameCorners, type FrameCorners } from '../store/actions/panels.ts';
 import { frameOf, anchorAxis, type AnchorDraft, type Frame, type PanelDraft } from '../store/draft.ts';
 import { screenDistance, snapRadius, type Tool, type ToolHost } from './tool.ts';
+import { roundSignificant } from '../../units/format.ts';
+import { QUANTITY_WORDS } from '../views/words.ts';
 
 type State = { kind: 'idle' } | { kind: 'dragging'; start: SheetXY; moved: boolean } | { kind: 'second'; start: SheetXY };
 
-const PLOTS = { head: 'head', efficiency: 'efficiency', power: 'power', npshr: 'NPSHr' } as const;
 
 /**
  * Flow values for the bottom corners of a new frame, from a panel already set that shares the
@@ -38,7 +39,7 @@ export function sharedFlowAnchors(
     const span = Math.abs(x1 - x0);
     const settle = (x: number) => {
       const near = values.reduce((best, v) => (Math.abs(v - x) < Math.abs(best - x) ? v : best), values[0] as number);
-      return Math.abs(near - x) <= 0.005 * span ? near : Number(x.toPrecision(4));
+      return Math.abs(near - x) <= 0.005 * span ? near : roundSignificant(x, 4);
     };
     return [
       { at: corners.bottomLeft, label: 'x left', x: settle(x0) },
@@ -56,7 +57,7 @@ export class FrameTool implements Tool {
   constructor(private readonly host: ToolHost) {}
 
   status(): string {
-    const plots = PLOTS[this.host.store.session.framePlots];
+    const plots = QUANTITY_WORDS[this.host.store.session.framePlots];
     if (this.state.kind === 'idle') {
       const more = this.host.store.draft.panels.length > 0 ? ' When every panel is set, go on to “Trace the curves” (3).' : '';
       return `Drag from one corner of the ${plots} plot area to the opposite corner; corners snap to grid-line crossings.${more}`;
@@ -152,7 +153,7 @@ export class FrameTool implements Tool {
     const panel = store.draft.panels[before];
     if (!panel) return;
     store.setSession({ activePanel: panel.id, drawingFrame: false, framePlots: plots });
-    if (titled && titled !== chosen) store.say(`The title beside this frame says it plots ${PLOTS[titled]}; change it in the panel list if not.`, 'info');
+    if (titled && titled !== chosen) store.say(`The title beside this frame says it plots ${QUANTITY_WORDS[titled]}; change it in the panel list if not.`, 'info');
     this.host.afterFrame(panel.id);
   }
 }

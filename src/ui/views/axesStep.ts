@@ -8,6 +8,8 @@ import type { Quantity } from '../../model/curveset.ts';
 import { removeAnchor, removePanel, setAnchorValue, setAxisScale, setAxisUnit, setPanelPlots } from '../store/actions/panels.ts';
 import { axisUnits, anchorAxis, type PanelDraft } from '../store/draft.ts';
 import { setSheetUnits, SHEET_UNIT_SYSTEMS } from '../store/actions/setup.ts';
+import { typedNumber } from '../store/actions/action.ts';
+import { unitSystemOf } from '../store/store.ts';
 import { QUANTITY_NAMES, UNIT_CHOICES, num, unitText } from './words.ts';
 
 const QUANTITIES: Quantity[] = ['head', 'efficiency', 'power', 'npshr'];
@@ -96,8 +98,8 @@ function panelCard(bench: Bench, panel: PanelDraft, cal: CalibrationState | unde
                 placeholder: 'value',
                 'aria-invalid': value === undefined ? 'true' : 'false',
                 onchange: (e: Event) => {
-                  const text = (e.target as HTMLInputElement).value.trim().replace(',', '.');
-                  store.dispatch(setAnchorValue(panel.id, i, axis, text === '' ? undefined : Number(text)));
+                  const text = (e.target as HTMLInputElement).value.trim();
+                  store.dispatch(text === '' ? setAnchorValue(panel.id, i, axis, undefined) : typedNumber(text, `The ${axis} value of anchor ${i + 1}`, (v) => setAnchorValue(panel.id, i, axis, v)));
                 },
               }),
               h('span', { class: 'unit' }, unitText(axisUnits(store.draft.units, panel)[axis]))),
@@ -143,5 +145,10 @@ function sheetUnits(bench: Bench): HTMLElement {
         const u = SHEET_UNIT_SYSTEMS[sys];
         const on = (Object.keys(u) as (keyof typeof u)[]).every((k) => draft.units[k] === u[k]);
         return h('button', { type: 'button', 'data-key': `units-${sys}`, 'aria-pressed': on ? 'true' : 'false', title: `flow ${unitText(u.flow)}, head ${u.head}, power ${u.power}, NPSH ${u.npsh}, diameter ${u.diameter}`, onclick: () => { if (store.dispatch(setSheetUnits(u))) store.setSession({ unitSystem: sys }); } }, `${sys.toUpperCase()} (${unitText(u.flow)}, ${u.head}, ${u.power}, ${u.diameter})`);
-      })));
+      })),
+    // Any other flow unit the sheet is drawn in (L/s, m³/min, imp gpm…): the review then shows the sheet's own units.
+    h('label', { for: 'sheet-flow-unit', class: 'label' }, 'flow in'),
+    h('select', { id: 'sheet-flow-unit', onchange: (e: Event) => {
+      if (store.dispatch(setSheetUnits({ ...draft.units, flow: (e.target as HTMLSelectElement).value }))) store.setSession({ unitSystem: unitSystemOf(store.draft) });
+    } }, UNIT_CHOICES.flow.map((t) => h('option', { value: t, selected: t === draft.units.flow }, unitText(t)))));
 }

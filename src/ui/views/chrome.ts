@@ -3,6 +3,9 @@ import { h } from '../dom/h.ts';
 import type { Bench } from '../app/bench.ts';
 import type { StepDefinition } from '../steps/step.ts';
 import type { Step } from '../steps/registry.ts';
+import type { Draft } from '../store/draft.ts';
+import { unitSystemOf } from '../store/store.ts';
+import type { UnitChoice } from '../../units/index.ts';
 
 export function topBar(bench: Bench, autosaved: string, keysOpen: boolean, toggleKeys: () => void): HTMLElement {
   const { store } = bench;
@@ -17,10 +20,15 @@ export function topBar(bench: Bench, autosaved: string, keysOpen: boolean, toggl
       h('button', { type: 'button', id: 'redo', disabled: !redoLabel, title: redoLabel ? `Redo ${redoLabel} (Ctrl+Shift+Z)` : 'Nothing to redo', 'aria-label': redoLabel ? `Redo ${redoLabel}` : 'Redo', onclick: () => store.redo() }, 'Redo ↷'),
       h('span', { class: 'units-label', id: 'units-shown' }, 'Review in'),
       h('div', { class: 'segmented small', role: 'group', 'aria-labelledby': 'units-shown' },
-        (['si', 'us'] as const).map((s) => h('button', { type: 'button', 'aria-pressed': store.session.unitSystem === s ? 'true' : 'false', onclick: () => store.setSession({ unitSystem: s }) }, s.toUpperCase()))),
+        unitChoices(store.draft, store.session.unitSystem).map((s) => h('button', { type: 'button', 'data-key': `shown-${s}`, 'aria-pressed': store.session.unitSystem === s ? 'true' : 'false', title: s === 'own' ? 'the units the sheet is drawn in' : undefined, onclick: () => store.setSession({ unitSystem: s }) }, s === 'own' ? 'Sheet' : s.toUpperCase()))),
       h('span', { class: 'autosaved', role: 'status' }, autosaved),
       h('button', { type: 'button', id: 'keys', 'aria-expanded': keysOpen ? 'true' : 'false', 'aria-controls': 'keys-help', onclick: toggleKeys }, 'Keys'),
       h('a', { href: '#/library', class: 'nav' }, 'Library')));
+}
+
+/** The unit choices offered: the sheet's own units when they are no preset's (an L/s sheet), then SI and US. */
+function unitChoices(draft: Draft, shown: UnitChoice): UnitChoice[] {
+  return unitSystemOf(draft) === 'own' || shown === 'own' ? ['own', 'si', 'us'] : ['si', 'us'];
 }
 
 /** The list of steps: each one's number, title and summary; the open one with its panel. */

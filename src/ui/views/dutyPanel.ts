@@ -10,12 +10,12 @@ import { h } from '../dom/h.ts';
 import { NPSH_CAUTION, MOTOR_CAUTION, PRELIMINARY, SERVICES, serviceCaution, type Service } from '../../duty/cautions.ts';
 import { systemHead } from '../../duty/systemCurve.ts';
 import type { CurveSet } from '../../model/curveset.ts';
-import { fromSI } from '../../units/index.ts';
+import { NOT_AVAILABLE, type UnitChoice } from '../../units/index.ts';
 import { linspace } from '../../fit/polynomial.ts';
 import { runStudy, isFailing, type StudyResult } from '../../study/runStudy.ts';
 import type { OptionResult } from '../../study/evaluate.ts';
 import { chartUnits, type DutyOverlay } from './familyChart.ts';
-import { num, unitText } from './words.ts';
+import { num, numIn, numPercent, unitText } from './words.ts';
 import { EMPTY_DUTY, nextOption, studyOfForm, type DutyForm, type StudyOptionForm } from './studyForm.ts';
 
 export { EMPTY_DUTY, type DutyForm };
@@ -25,9 +25,9 @@ export type DutyOutcome = { result: StudyResult; overlay: DutyOverlay; service: 
 const SERVICE_WORDS: Record<Service, string> = { general: 'general service', fire: 'fire protection', potable: 'potable water', hazardous: 'hazardous liquid' };
 
 /** Runs the study for the form, or says what is missing or wrong. */
-export function runDuty(set: CurveSet, form: DutyForm, system: 'si' | 'us'): DutyOutcome {
+export function runDuty(set: CurveSet, form: DutyForm, choice: UnitChoice): DutyOutcome {
   try {
-    const study = studyOfForm(form, system);
+    const study = studyOfForm(form, chartUnits(set, choice));
     if (!study) return null;
     const result = runStudy(study, () => set);
     return { result, overlay: overlayOf(set, result), service: form.service };
@@ -65,8 +65,8 @@ function select<T extends string>(id: string, label: string, value: T, choices: 
     h('select', { id, onchange: (e: Event) => onchange((e.target as HTMLSelectElement).value as T) }, choices.map(([v, words]) => h('option', { value: v, selected: v === value }, words))));
 }
 
-export function dutyPanel(form: DutyForm, outcome: DutyOutcome, system: 'si' | 'us', change: (patch: Partial<DutyForm>) => void): HTMLElement {
-  const u = chartUnits(system);
+export function dutyPanel(set: CurveSet, form: DutyForm, outcome: DutyOutcome, choice: UnitChoice, change: (patch: Partial<DutyForm>) => void): HTMLElement {
+  const u = chartUnits(set, choice);
   const flowUnit = unitText(u.flow.label);
   const setOption = (i: number, patch: Partial<StudyOptionForm>) => change({ options: form.options.map((o, j) => (j === i ? { ...o, ...patch } : o)) });
   return h('section', { class: 'duty', 'aria-labelledby': 'duty-title' },
@@ -111,7 +111,6 @@ export function dutyPanel(form: DutyForm, outcome: DutyOutcome, system: 'si' | '
 }
 
 function studyResults(result: StudyResult, service: Service, u: ReturnType<typeof chartUnits>): HTMLElement {
-  const f = (v: number | undefined, unit: Parameters<typeof fromSI>[1], digits = 4) => (v === undefined || !Number.isFinite(v) ? '—' : num(fromSI(v, unit), digits));
   const best = result.ranked[0];
   const code = serviceCaution(service);
   return h('div', { class: 'duty-results study-results' },
@@ -127,18 +126,18 @@ function studyResults(result: StudyResult, service: Service, u: ReturnType<typeo
         return h('tr', { 'data-key': r.name, class: failing ? 'fail' : '' },
           h('td', null, String(i + 1)),
           h('th', { scope: 'row' }, r.name),
-          h('td', null, f(r.duty?.flow_m3s, u.flow)),
-          h('td', null, f(r.duty?.head_m, u.head)),
-          h('td', null, r.duty?.efficiency !== undefined ? num(r.duty.efficiency * 100, 3) : '—'),
-          h('td', null, f(r.duty?.power_W, u.power)),
-          h('td', { class: 'motor' }, r.motor?.selection.rating?.label ?? '—'),
-          h('td', { class: 'npsha' }, f(duty?.npsha_m, u.npsh, 3)),
-          h('td', { class: 'npsh3' }, f(duty?.npsh3_m, u.npsh, 3)),
-          h('td', { class: `margin${duty && duty.judgement.verdict !== 'meets-guidance' ? ' warn' : ''}` }, duty ? num(duty.judgement.ratio, 3) : '—'),
-          h('td', { class: `runout${run && run.judgement.verdict !== 'meets-guidance' ? ' warn' : ''}` }, run ? num(run.judgement.ratio, 3) : '—'),
-          h('td', { class: 'eye' }, f(r.npsh?.max_eye_elevation_m, u.npsh, 3)),
-          h('td', null, r.energy ? num(r.energy.kWh, 4) : '—'),
-          h('td', null, r.lcc ? num(r.lcc.total, 4) : '—'),
+          h('td', null, numIn(r.duty?.flow_m3s, u.flow)),
+          h('td', null, numIn(r.duty?.head_m, u.head)),
+          h('td', null, numPercent(r.duty?.efficiency)),
+          h('td', null, numIn(r.duty?.power_W, u.power)),
+          h('td', { class: 'motor' }, r.motor?.selection.rating?.label ?? NOT_AVAILABLE.text),
+          h('td', { class: 'npsha' }, numIn(duty?.npsha_m, u.npsh, 3)),
+          h('td', { class: 'npsh3' }, numIn(duty?.npsh3_m, u.npsh, 3)),
+          h('td', { class: `margin${duty && duty.judgement.verdict !== 'meets-guidance' ? ' warn' : ''}` }, num(duty?.judgement.ratio, 3)),
+          h('td', { class: `runout${run && run.judgement.verdict !== 'meets-guidance' ? ' warn' : ''}` }, num(run?.judgement.ratio, 3)),
+          h('td', { class: 'eye' }, numIn(r.npsh?.max_eye_elevation_m, u.npsh, 3)),
+          h('td', null, num(r.energy?.kWh, 4)),
+          h('td', null, num(r.lcc?.total, 4)),
           h('td', null, failing ? 'fails' : 'passes'));
       }))),
     h('ul', { class: 'study-findings' }, result.ranked.flatMap((r) => r.findings.filter((x) => x.severity !== 'note').map((x) => h('li', { class: x.severity }, `${r.name}: ${x.message}`)))),

@@ -7,15 +7,20 @@
 import { h, svg } from '../dom/h.ts';
 import { evaluateUnchecked, linspace } from '../../fit/polynomial.ts';
 import type { CurveSet, Member, Quantity } from '../../model/curveset.ts';
-import { curveUnits, fromSI, niceLinearScale, PRESETS, unitOfQuantity, type CurveUnits } from '../../units/index.ts';
+import { chosenUnits, fromSI, niceLinearScale, unitOfQuantity, type CurveUnits, type UnitChoice } from '../../units/index.ts';
 import { QUANTITY_INK } from '../canvas/overlay.ts';
-import { num, QUANTITY_NAMES, SAFETY_SENTENCE, unitText } from './words.ts';
+import { choiceWords, num, QUANTITY_NAMES, SAFETY_SENTENCE, unitText } from './words.ts';
 
 export type ChartUnits = CurveUnits;
 
-/** The units of a preset system. */
-export function chartUnits(system: 'si' | 'us'): ChartUnits {
-  return curveUnits(PRESETS[system]);
+/** The units a chart of `set` shows for a choice: the set's own (the default), or a preset's. */
+export function chartUnits(set: Pick<CurveSet, 'display_units'>, choice: UnitChoice = 'own'): ChartUnits {
+  return chosenUnits(set.display_units, choice);
+}
+
+/** SVG polyline points from pixel positions, to a tenth of a pixel. */
+export function polylinePoints(points: readonly (readonly [number, number])[]): string {
+  return points.map(([px, py]) => `${px.toFixed(1)},${py.toFixed(1)}`).join(' ');
 }
 
 /** Extra lines drawn on the head plot: the system curve and the operating points. */
@@ -26,15 +31,12 @@ export interface DutyOverlay {
   points: { label: string; flow: number; head: number; npshMarginOk?: boolean }[];
 }
 
-const W = 560;
-const PLOT_H = 150;
-const GAP = 26;
-const LEFT = 62;
-const RIGHT = 64;
-const TOP = 14;
+/** The chart's layout in SVG pixels: width, plot height, gap between plots, margins. */
+const LAYOUT = { width: 560, plotHeight: 150, gap: 26, left: 62, right: 64, top: 14 } as const;
+const { width: W, plotHeight: PLOT_H, gap: GAP, left: LEFT, right: RIGHT, top: TOP } = LAYOUT;
 
-export function familyChart(set: CurveSet, system: 'si' | 'us', duty?: DutyOverlay | null, highlight?: { diameter_m?: number; quantity?: Quantity } | null): HTMLElement {
-  const u = chartUnits(system);
+export function familyChart(set: CurveSet, choice: UnitChoice = 'own', duty?: DutyOverlay | null, highlight?: { diameter_m?: number; quantity?: Quantity } | null): HTMLElement {
+  const u = chartUnits(set, choice);
   const quantities = (['head', 'efficiency', 'power', 'npshr'] as Quantity[]).filter((q) => set.members.some((m) => m.curves[q]?.fit));
   const members = [...set.members].sort((a, b) => (b.diameter_m ?? 0) - (a.diameter_m ?? 0));
   const domains = members.flatMap((m) => quantities.flatMap((q) => (m.curves[q]?.fit ? [m.curves[q]!.fit!.domain] : [])));
@@ -44,7 +46,7 @@ export function familyChart(set: CurveSet, system: 'si' | 'us', duty?: DutyOverl
   const xs = niceLinearScale(0, fromSI(qMax, u.flow), [LEFT, LEFT + plotW], 6);
   const x = (qSI: number) => xs.map(fromSI(qSI, u.flow));
   const height = TOP + quantities.length * (PLOT_H + GAP) + 24;
-  const root = svg('svg', { viewBox: `0 0 ${W} ${height}`, class: 'family-chart', role: 'img', 'aria-label': `Family chart: ${quantities.map((q) => QUANTITY_NAMES[q]).join(', ')} against flow for ${members.length} diameters, in ${system.toUpperCase()} units` });
+  const root = svg('svg', { viewBox: `0 0 ${W} ${height}`, class: 'family-chart', role: 'img', 'aria-label': `Family chart: ${quantities.map((q) => QUANTITY_NAMES[q]).join(', ')} against flow for ${members.length} diameters, in ${choiceWords(choice, u)}` });
   quantities.forEach((q, row) => {
     const top = TOP + row * (PLOT_H + GAP);
     const unit = unitOfQuantity(u, q);
@@ -72,9 +74,9 @@ export function familyChart(set: CurveSet, system: 'si' | 'us', duty?: DutyOverl
     members.forEach((m, k) => {
       const fit = m.curves[q]?.fit;
       if (!fit) return;
-      const pts = linspace(fit.domain[0], fit.domain[1], 60).map((f) => `${x(f).toFixed(1)},${y(evaluateUnchecked(fit, f)).toFixed(1)}`);
+      const pts = polylinePoints(linspace(fit.domain[0], fit.domain[1], 60).map((f) => [x(f), y(evaluateUnchecked(fit, f))] as const));
       const emphasised = highlight && highlight.diameter_m === m.diameter_m && (!highlight.quantity || highlight.quantity === q);
-      g.append(svg('polyline', { points: pts.join(' '), class: `curve${emphasised ? ' emphasised' : ''}`, stroke: QUANTITY_INK[q], 'stroke-opacity': String(1 - k * 0.15) }, svg('title', null, `${QUANTITY_NAMES[q]}, ${memberName(m, u)}`)));
+      g.append(svg('polyline', { points: pts, class: `curve${emphasised ? ' emphasised' : ''}`, stroke: QUANTITY_INK[q], 'stroke-opacity': String(1 - k * 0.15) }, svg('title', null, `${QUANTITY_NAMES[q]}, ${memberName(m, u)}`)));
       const end = fit.domain[1];
       labels.push({ x: x(end) + 4, y: y(evaluateUnchecked(fit, end)) + 4, text: memberName(m, u) });
     });
@@ -85,7 +87,7 @@ export function familyChart(set: CurveSet, system: 'si' | 'us', duty?: DutyOverl
         if (bep) g.append(svg('circle', { cx: x(bep.flow_m3s), cy: y(bep.head_m), r: 3.5, class: 'bep' }, svg('title', null, `BEP of ${memberName(m, u)}: ${num(fromSI(bep.flow_m3s, u.flow))} ${unitText(u.flow.label)}, ${num(fromSI(bep.head_m, u.head))} ${u.head.label}, ${num(bep.efficiency * 100, 3)} %`)));
       }
       if (duty) {
-        g.append(svg('polyline', { points: duty.system.map((p) => `${x(p[0]).toFixed(1)},${y(p[1]).toFixed(1)}`).join(' '), class: 'system-curve' }));
+        g.append(svg('polyline', { points: polylinePoints(duty.system.map((p) => [x(p[0]), y(p[1])] as const)), class: 'system-curve' }));
         for (const p of duty.points) g.append(svg('rect', { x: x(p.flow) - 4, y: y(p.head) - 4, width: 8, height: 8, class: `op-point${p.npshMarginOk === false ? ' short' : ''}` }, svg('title', null, `Operating point ${p.label}: ${num(fromSI(p.flow, u.flow))} ${unitText(u.flow.label)}, ${num(fromSI(p.head, u.head))} ${u.head.label}`)));
       }
     }

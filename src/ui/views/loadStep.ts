@@ -2,6 +2,7 @@
 import { h } from '../dom/h.ts';
 import type { Bench } from '../app/bench.ts';
 import { setPump } from '../store/actions/setup.ts';
+import { typedNumber } from '../store/actions/action.ts';
 
 const ACCEPT = '.pdf,.png,.jpg,.jpeg,.json,application/pdf,image/png,image/jpeg,application/json';
 
@@ -47,7 +48,7 @@ export function loadStep(bench: Bench): HTMLElement {
     h('fieldset', { class: 'pump' },
       h('legend', null, 'Pump'),
       field('Name', h('input', { id: 'pump-name', type: 'text', value: draft.pump.name, placeholder: 'e.g. invented end-suction 4-stage', onchange: (e: Event) => store.dispatch(setPump({ name: (e.target as HTMLInputElement).value })) })),
-      field('Specific gravity', h('input', { id: 'pump-sg', type: 'number', min: '0.1', step: 'any', value: String(draft.pump.specific_gravity), onchange: (e: Event) => store.dispatch(setPump({ specific_gravity: Number((e.target as HTMLInputElement).value) })) }), 'of the liquid the sheet is drawn for')),
+      field('Specific gravity', h('input', { id: 'pump-sg', type: 'number', min: '0.1', step: 'any', value: String(draft.pump.specific_gravity), onchange: (e: Event) => store.dispatch(typedNumber((e.target as HTMLInputElement).value, 'Specific gravity', (v) => setPump({ specific_gravity: v }), { sign: 'positive' })) }), 'of the liquid the sheet is drawn for')),
   );
 }
 

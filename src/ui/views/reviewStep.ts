@@ -5,31 +5,33 @@
 import { sharedCurves, sharedCurveSentence } from '../store/target.ts';
 import { h } from '../dom/h.ts';
 import type { Bench } from '../app/bench.ts';
-import type { Finding } from '../../model/curveset.ts';
-import { fromSI, parseUnit } from '../../units/index.ts';
+import type { CurveSet, Finding } from '../../model/curveset.ts';
+import { tracesOfMember, type TraceMembers } from '../app/review.ts';
+import { showValue } from '../../units/index.ts';
 import { traceName } from '../store/actions/traces.ts';
 import { powerUnit, type Draft } from '../store/draft.ts';
 import { chartUnits } from './familyChart.ts';
 import { dutyPanel } from './dutyPanel.ts';
 import { recordButtons } from './recordDownload.ts';
-import { num, SAFETY_SENTENCE, unitText } from './words.ts';
+import { num, numIn, numPercent, SAFETY_SENTENCE, unitText } from './words.ts';
 
 const SEVERITY_WORDS = { fail: 'Fails', warn: 'Check', note: 'Note' } as const;
 
-/** The trace a finding is about: named outright, or the one of its quantity and diameter. */
-export function traceOfFinding(draft: Draft, f: Finding): string | null {
+/**
+ * The trace a finding is about: named outright, or the one of its quantity among the traces
+ * the replay put into the finding's member (`traceMembers`; no diameters compared within a tolerance).
+ */
+export function traceOfFinding(draft: Draft, f: Finding, set: CurveSet, traceMembers: TraceMembers): string | null {
   if (f.subject.trace && draft.traces.some((t) => t.id === f.subject.trace)) return f.subject.trace;
   const d = f.subject.diameter_m;
   if (d === undefined) return null;
-  let unit;
-  try {
-    unit = parseUnit('diameter', draft.units.diameter);
-  } catch {
-    return null;
-  }
-  const sameDiameter = draft.traces.filter((t) => t.diameter !== undefined && Math.abs(t.diameter * unit.factor - d) <= 1e-6 * d);
+  // The finding names its member by the member's own diameter, copied as it is.
+  const index = set.members.findIndex((m) => m.diameter_m === d);
+  if (index < 0) return null;
+  const linked = new Set(tracesOfMember(traceMembers, index));
+  const sameMember = draft.traces.filter((t) => t.iso === undefined && linked.has(t.id));
   const quantity = f.subject.quantity ?? 'head';
-  return (sameDiameter.find((t) => t.quantity === quantity) ?? sameDiameter.find((t) => t.quantity === 'head') ?? sameDiameter[0])?.id ?? null;
+  return (sameMember.find((t) => t.quantity === quantity) ?? sameMember.find((t) => t.quantity === 'head') ?? sameMember[0])?.id ?? null;
 }
 
 export function reviewStep(bench: Bench): HTMLElement {
@@ -40,7 +42,7 @@ export function reviewStep(bench: Bench): HTMLElement {
     return h('div', { class: 'step-body' },
       h('p', { class: 'hint' }, derived.computing ? 'Fitting the curves…' : derived.problem ?? 'Trace some curves first.'));
   }
-  const u = chartUnits(session.unitSystem);
+  const u = chartUnits(set, session.unitSystem);
   const findings = set.findings;
   const counts = { fail: findings.filter((f) => f.severity === 'fail').length, warn: findings.filter((f) => f.severity === 'warn').length };
   return h('div', { class: 'step-body' },
@@ -49,7 +51,7 @@ export function reviewStep(bench: Bench): HTMLElement {
     h('p', { class: 'summary' }, `${set.members.length} diameters · ${counts.fail} failing, ${counts.warn} to check, ${findings.length - counts.fail - counts.warn} notes.`),
     h('h4', null, 'Findings'),
     findings.length === 0 ? h('p', { class: 'hint' }, 'No findings: every check passed.') : h('ol', { class: 'findings' }, findings.map((f) => {
-      const trace = traceOfFinding(draft, f);
+      const trace = traceOfFinding(draft, f, set, derived.traceMembers);
       const picked = trace !== null && session.highlightedTrace === trace;
       return h('li', { class: `finding ${f.severity}${picked ? ' picked' : ''}`, 'data-key': f.id },
         h('span', { class: 'severity' }, SEVERITY_WORDS[f.severity]),
@@ -65,9 +67,9 @@ export function reviewStep(bench: Bench): HTMLElement {
         const name = traceName(t, unitText(draft.units.diameter), unitText(powerUnit(draft.units)));
         return h('tr', { 'data-key': `r-${t.id}`, class: session.highlightedTrace === t.id ? 'picked' : '' },
           h('th', { scope: 'row' }, h('button', { type: 'button', class: 'link', title: r ? `${r.points} points compared with the fitted curve` : 'no fitted curve yet', onclick: () => bench.showTrace(t.id) }, name)),
-          h('td', null, r ? `${num(r.rms, 2)} ${unitText(r.unit.label || r.unit.token)}` : '—'),
-          h('td', null, r ? `${num(r.max, 2)} ${unitText(r.unit.label || r.unit.token)}` : '—'),
-          h('td', { class: r && r.percentOfSpan > 1 ? 'warn' : '' }, r ? `${num(r.percentOfSpan, 2)} %` : '—'));
+          h('td', null, showValue(r?.rms, unitText(r?.unit.label || r?.unit.token || ''), 2).text),
+          h('td', null, showValue(r?.max, unitText(r?.unit.label || r?.unit.token || ''), 2).text),
+          h('td', { class: r && r.percentOfSpan > 1 ? 'warn' : '' }, showValue(r?.percentOfSpan, '%', 2).text));
       }))),
     h('h4', null, 'Figures per diameter'),
     h('table', { class: 'figures' },
@@ -79,12 +81,12 @@ export function reviewStep(bench: Bench): HTMLElement {
         h('th', { scope: 'col' }, 'BEP efficiency [%]'))),
       h('tbody', null, [...set.members].sort((a, b) => (b.diameter_m ?? 0) - (a.diameter_m ?? 0)).map((m) =>
         h('tr', { 'data-key': `m-${m.diameter_m}` },
-          h('th', { scope: 'row' }, m.diameter_m !== undefined ? num(fromSI(m.diameter_m, u.diameter)) : `${m.speed_rpm} rpm`),
-          h('td', null, m.derived.shutoff_head_m !== undefined ? num(fromSI(m.derived.shutoff_head_m, u.head)) : '—'),
-          h('td', null, m.derived.bep ? num(fromSI(m.derived.bep.flow_m3s, u.flow)) : '—'),
-          h('td', null, m.derived.bep ? num(fromSI(m.derived.bep.head_m, u.head)) : '—'),
-          h('td', null, m.derived.bep ? num(m.derived.bep.efficiency * 100, 3) : '—'))))),
-    dutyPanel(bench.duty.form, bench.duty.outcome, session.unitSystem, (patch) => bench.setDuty(patch)),
+          h('th', { scope: 'row' }, m.diameter_m !== undefined ? numIn(m.diameter_m, u.diameter) : `${num(m.speed_rpm)} rpm`),
+          h('td', null, numIn(m.derived.shutoff_head_m, u.head)),
+          h('td', null, numIn(m.derived.bep?.flow_m3s, u.flow)),
+          h('td', null, numIn(m.derived.bep?.head_m, u.head)),
+          h('td', null, numPercent(m.derived.bep?.efficiency)))))),
+    dutyPanel(set, bench.duty.form, bench.duty.outcome, session.unitSystem, (patch) => bench.setDuty(patch)),
     recordButtons(bench),
     derived.omitted.length ? h('div', { class: 'omitted' }, h('h4', null, 'Left out for now'), h('ul', null, derived.omitted.map((o) => h('li', null, o)))) : null,
   );

@@ -1,12 +1,13 @@
 /**
  * The workbench study form: what the engineer typed, turned into a study (the same study file
- * model and engine `pumpscribe study` runs), in the review's unit system. A blank suction or
+ * model and engine `pumpscribe study` runs), typed in the units the review shows (the sheet's
+ * own by default: an L/s sheet is typed in L/s and converted into the study's SI units). A blank suction or
  * discharge pipe is replaced by an equivalent loss through the typed duty point, so that a quick
  * duty (flow, head, static head) still gives a system curve: H = Hs + K·v²/2g, K fixed at the duty.
  */
 import { parseStudy, type Study, type StudyInput } from '../../model/study.ts';
 import { SERVICES, type Service } from '../../duty/cautions.ts';
-import { CELSIUS_ZERO, fromSI, parseUnit, presetNamed, toSI } from '../../units/index.ts';
+import { CELSIUS_ZERO, convert, curveUnits, fromSI, parseUnit, presetCurveTokens, presetNamed, readDecimal, toSI, type CurveUnits, type Unit } from '../../units/index.ts';
 import { STANDARD_GRAVITY } from '../../units/constants.ts';
 
 export interface StudyOptionForm {
@@ -20,7 +21,7 @@ export interface StudyOptionForm {
   pipe: string;
 }
 
-/** What the engineer typed, as typed (numbers in the review's unit system; temperature in °C). */
+/** What the engineer typed, as typed (numbers in the units the review shows; temperature in °C). */
 export interface DutyForm {
   flow: string;
   head: string;
@@ -69,33 +70,50 @@ export class FormError extends Error {
   override name = 'FormError';
 }
 
+/** A typed field by the one number reader (src/units/readNumber.ts); undefined for a blank field. */
 function number(text: string, label: string): number | undefined {
-  const t = text.trim().replace(/^(-?\d+),(\d+)$/, '$1.$2');
-  if (t === '') return undefined;
-  const v = Number(t);
-  if (!Number.isFinite(v)) throw new FormError(`${label}: "${text}" is not a number.`);
-  return v;
+  return text.trim() === '' ? undefined : readDecimal(text, label);
 }
+
+/** The units the form is typed in: those the review shows (flow, head and lengths, diameters). */
+export type FormUnits = Pick<CurveUnits, 'flow' | 'head' | 'diameter'>;
+
+/**
+ * The study system the form's numbers are written into: the preset whose flow, head and diameter
+ * units are the ones shown (so its numbers pass as typed), else SI, into which they are converted.
+ */
+export function studySystemOf(shown: FormUnits): 'si' | 'us' {
+  const us = presetCurveTokens('us');
+  return shown.flow.token === us.flow && shown.head.token === us.head && shown.diameter.token === us.diameter ? 'us' : 'si';
+}
+
+/** A typed value in the shown unit, in the study's unit (unchanged when they are the same unit). */
+const into = (from: Unit, to: Unit) => (v: number | undefined): number | undefined => (v === undefined || from.token === to.token ? v : convert(v, from, to));
 
 /**
  * The study for the form, or null while the duty flow is blank. Throws FormError (one sentence)
  * for a field that is not a number or a duty head below the static head.
  */
-export function studyOfForm(form: DutyForm, system: 'si' | 'us'): Study | null {
+export function studyOfForm(form: DutyForm, typedIn: FormUnits | 'si' | 'us'): Study | null {
+  const shown = typeof typedIn === 'string' ? curveUnits(presetCurveTokens(typedIn)) : typedIn;
+  const system = studySystemOf(shown);
   const units = presetNamed(system);
   const flowU = parseUnit('flow', units.flow);
   const headU = parseUnit('head', units.head);
   const diaU = parseUnit('diameter', units.diameter);
-  const flow = number(form.flow, 'Duty flow');
+  const flowIn = into(shown.flow, flowU);
+  const lengthIn = into(shown.head, headU);
+  const diameterIn = into(shown.diameter, diaU);
+  const flow = flowIn(number(form.flow, 'Duty flow'));
   if (flow === undefined) return null;
   if (!SERVICES.includes(form.service)) throw new FormError(`Unknown service "${form.service}".`);
-  const head = number(form.head, 'Duty head');
-  const sLow = number(form.staticHead, 'Static head') ?? 0;
-  const sHigh = number(form.staticHigh, 'Highest static head') ?? sLow;
+  const head = lengthIn(number(form.head, 'Duty head'));
+  const sLow = lengthIn(number(form.staticHead, 'Static head')) ?? 0;
+  const sHigh = lengthIn(number(form.staticHigh, 'Highest static head')) ?? sLow;
   const tC = number(form.temperatureC, 'Liquid temperature') ?? 20;
   const tUnit = parseUnit('temperature', units.temperature);
   const temperature = fromSI(tC + CELSIUS_ZERO, tUnit);
-  const roughness = number(form.roughness, 'Roughness') ?? (system === 'us' ? 0.045 / 25.4 : 0.045);
+  const roughness = diameterIn(number(form.roughness, 'Roughness')) ?? (system === 'us' ? 0.045 / 25.4 : 0.045);
   const qSI = toSI(flow, flowU);
   /** An equivalent K-only run (length 0, nominal diameter) losing `loss` [study head unit] at flow q [m³/s]. */
   const equivalent = (loss: number, q: number) => {
@@ -105,13 +123,13 @@ export function studyOfForm(form: DutyForm, system: 'si' | 'us'): Study | null {
     return { name: 'equivalent loss through the typed duty', diameter: dNominal, length: 0, roughness: 0, k: (toSI(loss, headU) * 2 * STANDARD_GRAVITY) / (v * v) };
   };
   const pipe = (d: string, l: string, k: string, what: string) => {
-    const dv = number(d, `${what} pipe diameter`);
-    const lv = number(l, `${what} pipe length`);
+    const dv = diameterIn(number(d, `${what} pipe diameter`));
+    const lv = lengthIn(number(l, `${what} pipe length`));
     if (dv === undefined || lv === undefined) return undefined;
     return { diameter: dv, length: lv, roughness, k: number(k, `${what} fittings K`) ?? 0 };
   };
   const suctionPipe = pipe(form.suctionDiameter, form.suctionLength, form.suctionK, 'Suction');
-  const suctionLoss = number(form.suctionLoss, 'Suction loss') ?? 0;
+  const suctionLoss = lengthIn(number(form.suctionLoss, 'Suction loss')) ?? 0;
   const dischargePipe = pipe(form.dischargeDiameter, form.dischargeLength, form.dischargeK, 'Discharge');
   let discharge: StudyInput['discharge']['pipes'] = dischargePipe ? [dischargePipe] : [];
   if (!dischargePipe && head !== undefined) {
@@ -120,8 +138,8 @@ export function studyOfForm(form: DutyForm, system: 'si' | 'us'): Study | null {
   }
   const options = (form.options.length ? form.options : [FIRST_OPTION]).map((o, i) => {
     const name = o.name.trim() || `Option ${i + 1}`;
-    const diameter = number(o.diameter, `${name}: impeller diameter`);
-    const pipeD = number(o.pipe, `${name}: discharge pipe diameter`);
+    const diameter = diameterIn(number(o.diameter, `${name}: impeller diameter`));
+    const pipeD = diameterIn(number(o.pipe, `${name}: discharge pipe diameter`));
     const base = dischargePipe ?? discharge[0];
     return {
       name,
@@ -132,13 +150,13 @@ export function studyOfForm(form: DutyForm, system: 'si' | 'us'): Study | null {
       ...(pipeD !== undefined && base ? { discharge: { pipes: [{ ...base, diameter: pipeD }] } } : {}),
     };
   });
-  const elevation = number(form.elevation, 'Site elevation');
+  const elevation = lengthIn(number(form.elevation, 'Site elevation'));
   const input: StudyInput = {
     units: system,
     liquid: { temperature },
     site: elevation !== undefined ? { elevation } : {},
     duty: { flow, ...(head !== undefined ? { head } : {}) },
-    suction: { surface_above_eye: number(form.suctionStatic, 'Suction static head') ?? 0, pipes: suctionPipe ? [suctionPipe] : suctionLoss > 0 ? [equivalent(suctionLoss, qSI / Number(form.options[0]?.pumps ?? 1))] : [] },
+    suction: { surface_above_eye: lengthIn(number(form.suctionStatic, 'Suction static head')) ?? 0, pipes: suctionPipe ? [suctionPipe] : suctionLoss > 0 ? [equivalent(suctionLoss, qSI / Number(form.options[0]?.pumps ?? 1))] : [] },
     discharge: { static_head: [sLow, sHigh], pipes: discharge },
     curveset: 'this sheet',
     options: options as StudyInput['options'],

@@ -6,7 +6,8 @@ import { h } from '../dom/h.ts';
 import type { Bench } from '../app/bench.ts';
 import type { Quantity } from '../../model/curveset.ts';
 import { parseDiameterList, setDiameters, setPump, setUnits } from '../store/actions/setup.ts';
-import { EditError } from '../store/actions/action.ts';
+import { EditError, typedNumber } from '../store/actions/action.ts';
+import { isDecimalText, readDecimal } from '../../units/readNumber.ts';
 import { discardEdits, removeTrace, setHidden, setLocked, setTraceSpec, traceName } from '../store/actions/traces.ts';
 import { powerUnit, pointsOf, type TraceDraft } from '../store/draft.ts';
 import { afterRemoval, firstUntraced, panelFor, sharedCurves, sharedCurveSentence, targetFor } from '../store/target.ts';
@@ -61,11 +62,11 @@ export function traceStep(bench: Bench): HTMLElement {
         value: target.iso === undefined ? '' : String(target.iso),
         placeholder: target.quantity === 'efficiency' ? 'e.g. 70' : 'e.g. 15',
         onchange: (e: Event) => {
-          const text = (e.target as HTMLInputElement).value.trim().replace(',', '.');
-          const v = Number(text);
-          if (text === '' || !Number.isFinite(v)) {
+          const text = (e.target as HTMLInputElement).value.trim();
+          const v = isDecimalText(text) ? readDecimal(text, 'The value of the line') : undefined;
+          if (v === undefined) {
             store.setSession({ target: { quantity: target.quantity, lines: 'iso' } });
-            if (text !== '') store.say(`"${text}" is not a number; type the value written on the line, e.g. 70.`, 'error');
+            if (text !== '') store.say(`"${text}" is not a decimal number; type the value written on the line, e.g. 70 or 72.5.`, 'error');
           } else store.setSession({ target: { ...target, iso: v } });
         },
       }), target.quantity === 'efficiency' ? '%' : unitText(powerUnit(draft.units)))
@@ -79,7 +80,7 @@ export function traceStep(bench: Bench): HTMLElement {
 
   return h('div', { class: 'step-body' },
     h('div', { class: 'field' }, h('label', { for: 'pump-speed' }, 'Speed'),
-      h('input', { id: 'pump-speed', type: 'number', min: '1', step: 'any', value: String(draft.pump.speed_rpm), onchange: (e: Event) => store.dispatch(setPump({ speed_rpm: Number((e.target as HTMLInputElement).value) })) }),
+      h('input', { id: 'pump-speed', type: 'number', min: '1', step: 'any', value: String(draft.pump.speed_rpm), onchange: (e: Event) => store.dispatch(typedNumber((e.target as HTMLInputElement).value, 'The speed', (v) => setPump({ speed_rpm: v }), { sign: 'positive' })) }),
       h('span', { class: 'unit' }, 'rpm, as stated on the sheet')),
     h('div', { class: 'field' }, h('label', { for: 'diameters' }, 'Impeller diameters'), diameterInput, diameterUnit),
     h('fieldset', { class: 'next' },

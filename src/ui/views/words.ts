@@ -1,6 +1,6 @@
 /** Words used on several screens, in one place so that they read the same everywhere. */
 import type { Quantity } from '../../model/curveset.ts';
-import { labelOf, showNumber, tokensOf } from '../../units/index.ts';
+import { fromSI, labelOf, showNumber, tokensOf, type CurveUnits, type Unit, type UnitChoice } from '../../units/index.ts';
 import type { Step } from '../store/store.ts';
 
 export const STEP_TITLES: Record<Step, string> = {
@@ -12,6 +12,9 @@ export const STEP_TITLES: Record<Step, string> = {
 };
 
 export const QUANTITY_NAMES: Record<Quantity, string> = { head: 'Head', efficiency: 'Efficiency', power: 'Power', npshr: 'NPSHr' };
+
+/** The same names inside a sentence. */
+export const QUANTITY_WORDS: Record<Quantity, string> = { head: 'head', efficiency: 'efficiency', power: 'power', npshr: 'NPSHr' };
 
 /** Units offered per axis: every unit src/units knows for the kind. */
 export const UNIT_CHOICES: Readonly<Record<'flow' | 'head' | 'power' | 'efficiency' | 'diameter', readonly string[]>> = {
@@ -30,4 +33,19 @@ export const SAFETY_SENTENCE = 'Results are for preliminary work. Check them aga
 /** A number for a field or a table, by the one formatter: `digits` significant figures, or "not available". */
 export function num(value: number | null | undefined, digits = 4): string {
   return showNumber(value, digits).text;
+}
+
+/** An SI figure shown in `unit`, the number only (the unit stands in the column head), or "not available". */
+export function numIn(si: number | null | undefined, unit: Unit, digits = 4): string {
+  return showNumber(typeof si === 'number' ? fromSI(si, unit) : si, digits).text;
+}
+
+/** A fraction as a percentage number (the "%" stands in the column head), or "not available". */
+export function numPercent(fraction: number | null | undefined, digits = 3): string {
+  return showNumber(typeof fraction === 'number' ? fraction * 100 : fraction, digits).text;
+}
+
+/** The words for a unit choice: "SI units", "US units", or the set's own units named ("its own units (L/s, m, kW, mm)"). */
+export function choiceWords(choice: UnitChoice, u: Pick<CurveUnits, 'flow' | 'head' | 'power' | 'diameter'>): string {
+  return choice === 'own' ? `its own units (${unitText(u.flow.label)}, ${u.head.label}, ${u.power.label}, ${u.diameter.label})` : `${choice.toUpperCase()} units`;
 }

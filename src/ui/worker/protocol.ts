@@ -53,7 +53,7 @@ export interface Requests {
   /** Panel calibrations proposed from the text layer of a vector page (none for scans). */
   propose: { args: Record<string, never>; result: AnchorProposal[] };
   /** Fits and checks the take-off into a curve set with the saved captures (the headless replay's own code). */
-  replay: { args: { takeoff: Takeoff; sheetFile: string; takeoffName: string }; result: { curveSet: CurveSet; traces: { id: string; how: string; notes: string[] }[] } };
+  replay: { args: { takeoff: Takeoff; sheetFile: string; takeoffName: string }; result: { curveSet: CurveSet; traces: { id: string; how: string; notes: string[] }[]; traceMembers: ReadonlyMap<string, readonly number[]> } };
 }
 
 export type RequestName = keyof Requests;

@@ -4,6 +4,7 @@
  * throws EditError with a sentence for the status line; the draft is then left as it was.
  */
 import { UserError } from '../../../model/errors.ts';
+import { readDecimal, type ReadDecimalOptions } from '../../../units/readNumber.ts';
 import type { Draft } from '../draft.ts';
 
 export interface ActionResult {
@@ -23,6 +24,14 @@ export class EditError extends UserError {
 export function edited(draft: Draft, label: string): ActionResult {
   return { draft, label, undoable: true };
 }
+
+/**
+ * The action for a number typed into a field, read by the one reader (src/units/readNumber.ts):
+ * a text that is not a decimal number (or of the wrong sign) is refused with its sentence, and
+ * the draft stays as it was.
+ */
+export const typedNumber = (text: string, field: string, make: (value: number) => Action, options?: ReadDecimalOptions): Action => (draft) =>
+  make(readDecimal(text, field, options))(draft);
 
 export function requireFinite(value: number, what: string): number {
   if (!Number.isFinite(value)) throw new EditError(`${what} must be a number; type digits such as 120 or 1.5e3.`);

@@ -4,10 +4,11 @@ import type { AxisScaleType, SheetXY } from '../../../model/takeoff.ts';
 import { parseUnit, type QuantityKind } from '../../../units/index.ts';
 import { axisUnits, defaultYUnit, freshId, type AnchorDraft, type Draft, type Frame, type PanelDraft } from '../draft.ts';
 import { edited, EditError, replaceById, requireFinite, type Action } from './action.ts';
+import { QUANTITY_WORDS } from '../../views/words.ts';
+import { QUANTITY_KIND } from '../../../units/quantityUnits.ts';
 
 export type Axis = 'x' | 'y';
 
-const NAMES: Record<Quantity, string> = { head: 'head', efficiency: 'efficiency', power: 'power', npshr: 'NPSHr' };
 
 function normalFrame(a: SheetXY, b: SheetXY): Frame {
   return [Math.min(a[0], b[0]), Math.min(a[1], b[1]), Math.max(a[0], b[0]), Math.max(a[1], b[1])];
@@ -73,7 +74,7 @@ export const addPanel = (spec: NewPanel): Action => (draft) => {
     y_scale: spec.y_scale ?? 'linear',
     units: { x: spec.units?.x ?? draft.units.flow, y: spec.units?.y ?? defaultYUnit(draft.units, spec.plots) },
   };
-  return edited({ ...draft, panels: [...draft.panels, panel] }, `draw ${NAMES[spec.plots]} panel`);
+  return edited({ ...draft, panels: [...draft.panels, panel] }, `draw ${QUANTITY_WORDS[spec.plots]} panel`);
 };
 
 export const removePanel = (id: string): Action => (draft) => {
@@ -84,7 +85,7 @@ export const removePanel = (id: string): Action => (draft) => {
 export const setPanelPlots = (id: string, plots: Quantity): Action => (draft) => {
   const panel = draft.panels.find((p) => p.id === id);
   if (!panel || panel.plots === plots) return null;
-  return edited({ ...draft, panels: replaceById(draft.panels, id, (p) => ({ ...p, plots, units: { ...p.units, y: defaultYUnit(draft.units, plots) } }), 'panel') }, `panel ${id} plots ${NAMES[plots]}`);
+  return edited({ ...draft, panels: replaceById(draft.panels, id, (p) => ({ ...p, plots, units: { ...p.units, y: defaultYUnit(draft.units, plots) } }), 'panel') }, `panel ${id} plots ${QUANTITY_WORDS[plots]}`);
 };
 
 export const setAxisScale = (id: string, axis: Axis, scale: AxisScaleType): Action => (draft) => {
@@ -95,7 +96,7 @@ export const setAxisScale = (id: string, axis: Axis, scale: AxisScaleType): Acti
 
 const AXIS_KIND = {
   x: (): QuantityKind => 'flow',
-  y: (plots: Quantity): QuantityKind => (plots === 'efficiency' ? 'efficiency' : plots === 'power' ? 'power' : 'head'),
+  y: (plots: Quantity): QuantityKind => QUANTITY_KIND[plots],
 };
 
 export const setAxisUnit = (id: string, axis: Axis, token: string): Action => (draft) => {

@@ -1,5 +1,5 @@
 /** Edits of the sheet reference, the pump, the units and the diameter list. */
-import { parseUnit } from '../../../units/index.ts';
+import { CURVE_UNIT_KIND, isDecimalText, parseUnit, presetCurveTokens, readDecimal } from '../../../units/index.ts';
 import { EMPTY_DRAFT, npshUnit, powerUnit, type Draft, type PumpDraft, type SheetRef, type UnitsDraft } from '../draft.ts';
 import { edited, EditError, requirePositive, type Action } from './action.ts';
 
@@ -40,13 +40,11 @@ export const setPump = (patch: Partial<PumpDraft>): Action => (draft) => {
   return edited({ ...draft, pump }, `set pump ${what}`);
 };
 
-const UNIT_KIND: Record<keyof UnitsDraft, 'flow' | 'head' | 'power' | 'diameter'> = { flow: 'flow', head: 'head', power: 'power', npsh: 'head', diameter: 'diameter' };
-
 export const setUnits = (patch: Partial<UnitsDraft>): Action => (draft) => {
   const canonical: Partial<Record<keyof UnitsDraft, string>> = {};
   for (const [key, token] of Object.entries(patch) as [keyof UnitsDraft, string][]) {
     try {
-      canonical[key] = parseUnit(UNIT_KIND[key], token).token;
+      canonical[key] = parseUnit(CURVE_UNIT_KIND[key], token).token;
     } catch (error) {
       throw new EditError((error as Error).message);
     }
@@ -59,8 +57,8 @@ export const setUnits = (patch: Partial<UnitsDraft>): Action => (draft) => {
 /** Diameters typed as one list ("250 235 220 205" or "250, 235"), kept largest first. */
 export function parseDiameterList(text: string): number[] {
   const parts = text.split(/[\s,;]+/).filter(Boolean);
-  const values = parts.map((p) => Number(p.replace(',', '.')));
-  const bad = parts.find((_, i) => !(Number.isFinite(values[i]) && (values[i] as number) > 0));
+  const values = parts.map((p) => (isDecimalText(p) ? readDecimal(p, 'A diameter') : Number.NaN));
+  const bad = parts.find((_, i) => !((values[i] as number) > 0));
   if (bad !== undefined) throw new EditError(`"${bad}" is not a diameter; type the diameters as numbers separated by spaces, e.g. 250 235 220 205.`);
   return [...new Set(values)].sort((a, b) => b - a);
 }
@@ -81,7 +79,7 @@ export const readFromSheet = (found: { speed_rpm?: number; diameters?: readonly 
     for (const [key, token] of Object.entries(found.units) as [keyof UnitsDraft, string | undefined][]) {
       if (token === undefined) continue;
       try {
-        canonical[key] = parseUnit(UNIT_KIND[key], token).token;
+        canonical[key] = parseUnit(CURVE_UNIT_KIND[key], token).token;
       } catch {
         // A unit the sheet names but the tables do not know is left for the engineer to choose.
       }
@@ -94,10 +92,11 @@ export const readFromSheet = (found: { speed_rpm?: number; diameters?: readonly 
 };
 
 /** The unit presets of the trade, as the sheet may be drawn in them. */
-export const SHEET_UNIT_SYSTEMS: Record<'si' | 'us', UnitsDraft> = {
-  si: { flow: 'm3/h', head: 'm', power: 'kW', npsh: 'm', diameter: 'mm' },
-  us: { flow: 'gpm', head: 'ft', power: 'hp', npsh: 'ft', diameter: 'in' },
+const sheetUnitsOf = (name: 'si' | 'us'): UnitsDraft => {
+  const p = presetCurveTokens(name);
+  return { flow: p.flow, head: p.head, power: p.power, npsh: p.npsh, diameter: p.diameter };
 };
+export const SHEET_UNIT_SYSTEMS: Record<'si' | 'us', UnitsDraft> = { si: sheetUnitsOf('si'), us: sheetUnitsOf('us') };
 
 /**
  * The units the whole sheet is drawn in: the draft's units, and the axes of the panels

@@ -3,6 +3,7 @@ import type { Quantity } from '../../../model/curveset.ts';
 import type { SheetXY } from '../../../model/takeoff.ts';
 import { powerUnit, freshId, pointsOf, type CaptureMethod, type Draft, type TraceDraft } from '../draft.ts';
 import { edited, EditError, replaceById, requireFinite, requirePositive, type Action } from './action.ts';
+import { QUANTITY_WORDS } from '../../views/words.ts';
 
 export interface TraceSpec {
   panel: string;
@@ -12,12 +13,11 @@ export interface TraceSpec {
   method?: CaptureMethod;
 }
 
-const NAMES: Record<Quantity, string> = { head: 'head', efficiency: 'efficiency', power: 'power', npshr: 'NPSHr' };
 
 /** "head 250", "efficiency 78 % iso" — how a trace is named on screen and in the undo list. */
 export function traceName(t: Pick<TraceDraft, 'quantity' | 'diameter' | 'iso'>, diameterUnit: string, powerUnit = 'kW'): string {
-  if (t.iso !== undefined) return `${NAMES[t.quantity]} ${t.iso} ${t.quantity === 'efficiency' ? '%' : powerUnit} line`;
-  return `${NAMES[t.quantity]} ${t.diameter ?? '?'} ${diameterUnit}`;
+  if (t.iso !== undefined) return `${QUANTITY_WORDS[t.quantity]} ${t.iso} ${t.quantity === 'efficiency' ? '%' : powerUnit} line`;
+  return `${QUANTITY_WORDS[t.quantity]} ${t.diameter ?? '?'} ${diameterUnit}`;
 }
 
 function checkSpec(draft: Draft, spec: TraceSpec): void {
