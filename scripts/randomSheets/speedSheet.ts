@@ -214,7 +214,7 @@ export async function printSvgToPdf(svg: string, width: number, height: number, 
   const context = await chromium.launchPersistentContext(profile, { executablePath: chromiumPath, headless: true, args: ['--headless', '--no-sandbox', '--disable-gpu', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'] });
   try {
     const page = await context.newPage();
-    await page.setContent(`<!doctype html><html><head><style>@page { size: ${width}px ${height}px; margin: 0 } html, body { margin: 0 }</style></head><body>${svg}</body></html>`);
+    await page.setContent(`<!doctype html><html><head><style>@page { size: ${width}px ${height}px; margin: 0 } html, body { margin: 0 } svg { display: block }</style></head><body>${svg}</body></html>`);
     return new Uint8Array(await page.pdf({ width: `${width}px`, height: `${height}px`, printBackground: true, preferCSSPageSize: true }));
   } finally {
     await context.close();
