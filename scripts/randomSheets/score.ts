@@ -39,6 +39,7 @@ function flagsFor(findings: readonly Finding[], curve: TruthCurve, diameterM: nu
     .filter((f) => {
       const s = f.subject;
       if (s.trace !== undefined) return curve.traces.includes(s.trace);
+      if (curve.speed !== undefined && s.speed_rpm !== undefined) return Math.abs(s.speed_rpm - curve.speed) < 1e-6 && (s.quantity === undefined || s.quantity === curve.quantity);
       if (s.diameter_m !== undefined) return Math.abs(s.diameter_m - diameterM) < 1e-9 && (s.quantity === undefined || s.quantity === curve.quantity);
       return f.severity === 'fail';
     })
