@@ -7,7 +7,7 @@
 import { h } from '../dom/h.ts';
 import type { Bench } from '../app/bench.ts';
 import { parseDiameterList, parseSpeedList, setDiameters, setFamilyKind, setSpeeds, setUnits } from '../store/actions/setup.ts';
-import { EditError } from '../store/actions/action.ts';
+import { EditError, type Action } from '../store/actions/action.ts';
 import type { Draft, FamilyKind } from '../store/draft.ts';
 import { targetFor } from '../store/target.ts';
 import { UNIT_CHOICES, unitText } from './words.ts';
@@ -39,38 +39,27 @@ export function familyKindFields(bench: Bench): HTMLElement[] {
     h('div', { class: 'segmented small', role: 'group', 'aria-labelledby': 'family-kind-label', id: 'family-kind' },
       h('button', { type: 'button', id: 'family-diameters', 'aria-pressed': draft.family === 'speed' ? 'false' : 'true', onclick: () => choose('diameter') }, 'impeller diameters (one speed)'),
       h('button', { type: 'button', id: 'family-speeds', 'aria-pressed': draft.family === 'speed' ? 'true' : 'false', onclick: () => choose('speed') }, 'speeds (one impeller)')));
-  if (draft.family === 'speed') {
-    const speeds = h('input', {
-      id: 'speeds',
+  /** A text field holding the family's list; a typed list is read, set and the next curve proposed. */
+  const listField = (id: string, value: readonly number[], placeholder: string, set: (text: string) => Action) =>
+    h('input', {
+      id,
       type: 'text',
-      value: draft.speeds.join(' '),
-      placeholder: 'e.g. 1450 1200 950, or 100 90 80 70 %',
+      value: value.join(' '),
+      placeholder,
       onchange: (e: Event) => {
         try {
-          const list = parseSpeedList((e.target as HTMLInputElement).value, store.draft.pump.speed_rpm);
-          if (store.dispatch(setSpeeds(list))) retarget();
+          if (store.dispatch(set((e.target as HTMLInputElement).value))) retarget();
         } catch (error) {
           store.say((error as EditError).message, 'error');
         }
       },
     });
+  if (draft.family === 'speed') {
+    const speeds = listField('speeds', draft.speeds, 'e.g. 1450 1200 950, or 100 90 80 70 %', (text) => setSpeeds(parseSpeedList(text, store.draft.pump.speed_rpm)));
     return [question, h('div', { class: 'field' }, h('label', { for: 'speeds' }, 'Speeds'), speeds,
       h('span', { class: 'unit' }, `rpm, or % of the rated ${draft.pump.speed_rpm} rpm`))];
   }
-  const diameters = h('input', {
-    id: 'diameters',
-    type: 'text',
-    value: draft.diameters.join(' '),
-    placeholder: 'e.g. 250 235 220 205',
-    onchange: (e: Event) => {
-      try {
-        const list = parseDiameterList((e.target as HTMLInputElement).value);
-        if (store.dispatch(setDiameters(list))) retarget();
-      } catch (error) {
-        store.say((error as EditError).message, 'error');
-      }
-    },
-  });
+  const diameters = listField('diameters', draft.diameters, 'e.g. 250 235 220 205', (text) => setDiameters(parseDiameterList(text)));
   const unit = h('select', { id: 'diameter-unit', 'aria-label': 'Diameter unit', onchange: (e: Event) => store.dispatch(setUnits({ diameter: (e.target as HTMLSelectElement).value })) },
     UNIT_CHOICES.diameter.map((u) => h('option', { value: u, selected: u === draft.units.diameter }, unitText(u))));
   return [question, h('div', { class: 'field' }, h('label', { for: 'diameters' }, 'Impeller diameters'), diameters, unit)];
