@@ -11,6 +11,7 @@ import { addTrace, setTraceSpec } from '../../src/ui/store/actions/traces.ts';
 import type { Draft } from '../../src/ui/store/draft.ts';
 import { fromTakeoffFile, toTakeoffFile } from '../../src/ui/store/takeoffFile.ts';
 import { nextTarget, targetFor } from '../../src/ui/store/target.ts';
+import { traceOfFinding } from '../../src/ui/views/reviewStep.ts';
 import { draftWithPanel } from '../ui/fixtures.ts';
 
 const apply = (draft: Draft, action: (d: Draft) => { draft: Draft } | null): Draft => action(draft)?.draft ?? draft;
@@ -50,6 +51,9 @@ describe('a speed family in the workbench record', () => {
     expect(back.family).toBe('speed');
     expect(back.speeds).toEqual([1480, 1184]);
     expect(toTakeoffFile(back).takeoff).toEqual(takeoff);
+    // A finding about a speed leads to that speed's trace on the sheet.
+    const finding = { id: 'x', code: 'affinity.outlier', severity: 'fail' as const, subject: { speed_rpm: 1184, quantity: 'head' as const }, message: 'm', method: 'm', figures: {} };
+    expect(traceOfFinding(d, finding)).toBe(d.traces[1]!.id);
   });
 
   it('refuses to change the kind of sheet while traces are labelled by the other kind', () => {
