@@ -42,6 +42,8 @@ export interface LinePlan {
   panel: string;
   quantity: Quantity;
   diameter?: number;
+  /** Speed in rpm, on a sheet of one impeller at several speeds (speedSheet.ts). */
+  speed?: number;
   iso?: number;
   style: LineStyle;
   /** Exact points in flat pixels, dense. */

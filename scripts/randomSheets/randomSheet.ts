@@ -14,6 +14,8 @@ import type { TakeoffInput } from '../../src/model/takeoff.ts';
 export interface TruthCurve {
   quantity: Quantity;
   diameter: number;
+  /** Speed in rpm, for a curve of a speed family (speedSheet.ts). */
+  speed?: number;
   /** How the sheet gives it: a drawn curve, or iso-lines crossing the head curve. */
   source: 'curve' | 'iso';
   /** Flow range to score over, family flow unit (15–95 % of the drawn range, or the crossings' span for iso). */
@@ -33,7 +35,7 @@ export interface RandomSheet {
   truth: TruthCurve[];
 }
 
-function anchorsFor(dice: Dice, panel: PanelPlan, shot: Shot, count: number): NonNullable<TakeoffInput['panels'][number]['anchors']> {
+export function anchorsFor(dice: Dice, panel: PanelPlan, shot: Shot, count: number): NonNullable<TakeoffInput['panels'][number]['anchors']> {
   const xs: number[] = [];
   const ys: number[] = [];
   for (let v = panel.x.min; v <= panel.x.max + 1e-9; v += panel.x.step) xs.push(Number(v.toPrecision(12)));
@@ -58,7 +60,7 @@ function anchorsFor(dice: Dice, panel: PanelPlan, shot: Shot, count: number): No
 }
 
 /** Where a hurried person clicks on a line: 1–3 places, sorted along it, a little off the centre. */
-function guidesFor(dice: Dice, line: LinePlan, crossings: Pt[], shot: Shot): Array<[number, number]> {
+export function guidesFor(dice: Dice, line: LinePlan, crossings: Pt[], shot: Shot): Array<[number, number]> {
   const count = dice.pick([1, 2, 2, 3, 3]);
   const n = line.points.length;
   const at: Pt[] = [];

@@ -39,19 +39,26 @@ function flagsFor(findings: readonly Finding[], curve: TruthCurve, diameterM: nu
     .filter((f) => {
       const s = f.subject;
       if (s.trace !== undefined) return curve.traces.includes(s.trace);
+      if (curve.speed !== undefined && s.speed_rpm !== undefined) return Math.abs(s.speed_rpm - curve.speed) < 1e-6 && (s.quantity === undefined || s.quantity === curve.quantity);
       if (s.diameter_m !== undefined) return Math.abs(s.diameter_m - diameterM) < 1e-9 && (s.quantity === undefined || s.quantity === curve.quantity);
       return f.severity === 'fail';
     })
     .map((f) => f.code);
 }
 
-export function scoreReplay(family: PumpFamily, truth: readonly TruthCurve[], set: CurveSet | { refused: string }): CurveScore[] {
+/** How a speed family (speedSheet.ts) finds a curve's member and its exact value; the diameter bed uses the defaults. */
+export interface TruthSource {
+  member(set: CurveSet, curve: TruthCurve): CurveSet['members'][number] | undefined;
+  value(curve: TruthCurve, q: number): number;
+}
+
+export function scoreReplay(family: PumpFamily, truth: readonly TruthCurve[], set: CurveSet | { refused: string }, source?: TruthSource): CurveScore[] {
   const si = siFactor(family);
   return truth.map((curve) => {
-    const id = `${curve.quantity}-${curve.diameter}${curve.source === 'iso' ? ' (iso)' : ''}`;
+    const id = `${curve.quantity}-${curve.speed ?? curve.diameter}${curve.source === 'iso' ? ' (iso)' : ''}`;
     if ('refused' in set) return { id, quantity: curve.quantity, source: curve.source, error: Infinity, flagged: true, wrong: true, flags: ['refused'] };
     const dM = curve.diameter * si.diameter;
-    const member = set.members.find((m) => m.diameter_m !== undefined && Math.abs(m.diameter_m - dM) < 1e-9);
+    const member = source ? source.member(set, curve) : set.members.find((m) => m.diameter_m !== undefined && Math.abs(m.diameter_m - dM) < 1e-9);
     const fit = member?.curves[curve.quantity]?.fit;
     const toValue = curve.quantity === 'efficiency' ? 0.01 : curve.quantity === 'power' ? si.power : si.head;
     let error = Infinity;
@@ -60,7 +67,7 @@ export function scoreReplay(family: PumpFamily, truth: readonly TruthCurve[], se
       for (let i = 0; i <= 100; i++) {
         const q = curve.range[0] + ((curve.range[1] - curve.range[0]) * i) / 100;
         const read = evaluateUnchecked(fit, q * si.flow) / toValue;
-        const want = exact(family, curve.quantity, curve.diameter, q);
+        const want = source ? source.value(curve, q) : exact(family, curve.quantity, curve.diameter, q);
         error = Math.max(error, (100 * Math.abs(read - want)) / curve.span);
       }
     }

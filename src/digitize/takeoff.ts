@@ -341,6 +341,6 @@ function keepFlows(points: CurvePoint[], dropped: (n: number) => void): CurvePoi
 }
 
 export function describeTrace(trace: Trace): string {
-  const what = trace.iso !== undefined ? `${trace.quantity} iso-trace ${trace.iso}` : trace.speed !== undefined ? `${trace.quantity} at ${trace.speed} rpm` : `${trace.quantity} at diameter ${trace.diameter}`;
+  const what = trace.iso !== undefined ? `${trace.quantity} iso-trace ${trace.iso}` : trace.speed !== undefined ? `${trace.quantity} at ${trace.speed} rpm` : trace.limit === 'min-flow' ? 'minimum-flow line' : `${trace.quantity} at diameter ${trace.diameter}`;
   return `${what} on panel "${trace.panel}"`;
 }

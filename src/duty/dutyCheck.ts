@@ -23,7 +23,7 @@ import { nonOverloadingPower, selectMotor, type MotorSelection, type MotorStanda
 import { annualEnergy, type EnergyResult } from './energy.ts';
 import { EXTRAPOLATION_CAUTION, MOTOR_CAUTION, NPSH_CAUTION, PRELIMINARY, serviceCaution, type Service } from './cautions.ts';
 import { DutyError } from './errors.ts';
-import { belowMinFlow, curveAtSpeedInFamily, speedToDutyInFamily } from './speed.ts';
+import { belowMinFlow, curveAtSpeedInFamily, membersRatedFirst, SPEED_FAMILY_NO_TRIM, speedToDutyInFamily } from './speed.ts';
 
 export interface DutyCheckInput {
   /** Duty of the whole installation: total flow [m³/s] and head [m]. */
@@ -122,7 +122,7 @@ export function dutyCheck(set: CurveSet, input: DutyCheckInput): DutyCheckReport
   if (Math.abs(offCurve) > 0.01) warnings.push(`The duty point lies ${(Math.abs(offCurve) * 100).toFixed(1)} % ${offCurve > 0 ? 'below' : 'above'} the system curve; the trim meets the duty point, and the pump then runs where its curve crosses the system curve.`);
   if (input.static_head_m === undefined && !input.system_points) warnings.push('No static head given: the system curve is taken as pure friction through the duty point (H = k·Q²).');
 
-  const members = membersByDiameter(set).length > 0 ? membersByDiameter(set) : [...set.members].sort((a, b) => b.speed_rpm - a.speed_rpm);
+  const members = membersRatedFirst(set);
   const entryFor = (single: PumpCurve, kind: OperatingPointEntry['kind']): OperatingPointEntry => {
     const result = operatingPoint(parallelPumps(single, count), system);
     const entry: OperatingPointEntry = { kind, label: single.label, result, ...(single.diameter_m !== undefined ? { diameter_m: single.diameter_m } : {}) };
@@ -134,6 +134,7 @@ export function dutyCheck(set: CurveSet, input: DutyCheckInput): DutyCheckReport
   const operating_points = members.map((m) => entryFor(pumpCurveOfMember(withSheetNpsh3(set, m), density, set.fluid.density_kg_m3), 'captured'));
   for (const d of input.extra_diameters_m ?? []) {
     if (!(d > 0)) throw new DutyError(`An impeller diameter to evaluate must be positive, not ${d} m.`);
+    if (set.family === 'speed') throw new DutyError(SPEED_FAMILY_NO_TRIM);
     if (membersByDiameter(set).length === 0) throw new DutyError('This curve set has no impeller diameters, so no trim can be evaluated.');
     const curve = curveAtDiameter(set, d, density);
     operating_points.push(entryFor({ ...curve, label: `trim ${displayFor(set.display_units).diameter(d)}` }, 'trim'));

@@ -12,7 +12,7 @@ import { pumpCurveAtSpeed, pumpCurveOfMember, type PumpCurve } from './pumpCurve
 import type { CurveSet, Member } from '../model/curveset.ts';
 import { bracketingSpeeds, drawnSpeeds, npsh3ForSpeed, type Npsh3AtSpeed } from '../fit/speedFamily.ts';
 import { evaluateUnchecked } from '../fit/polynomial.ts';
-import { AffinityInputError } from '../fit/affinity.ts';
+import { AffinityInputError, membersByDiameter } from '../fit/affinity.ts';
 import { minFlowAt } from '../fit/speedFamilyLimits.ts';
 import { figuresAt, type PointFigures } from './operatingPoint.ts';
 import { systemHead, type SystemCurve } from './systemCurve.ts';
@@ -200,3 +200,21 @@ export function curveAtSpeedInFamily(set: CurveSet, speed_rpm: number, density_k
     : (({ npshr: _n, ...rest }) => rest)(base);
   return { curve, ...(npsh3 ? { npsh3 } : {}) };
 }
+
+/**
+ * The members of a set, rated curve first: a diameter family largest diameter first (fastest
+ * first when no member has a diameter); a speed family fastest first. The members of a speed
+ * family may all carry the one impeller diameter, so the diameter must not decide there.
+ */
+export function membersRatedFirst(set: Pick<CurveSet, 'members' | 'family'>): Member[] {
+  const byDiameter = set.family === 'speed' ? [] : membersByDiameter(set);
+  return byDiameter.length > 0 ? byDiameter : [...set.members].sort((a, b) => b.speed_rpm - a.speed_rpm);
+}
+
+/** The rated member: the largest diameter of a diameter family, the fastest drawn curve of a speed family. */
+export function ratedMember(set: Pick<CurveSet, 'members' | 'family'>): Member {
+  return membersRatedFirst(set)[0] as Member;
+}
+
+/** Why a trim or another impeller diameter cannot be evaluated on a speed family (one sentence). */
+export const SPEED_FAMILY_NO_TRIM = 'This curve set is a speed family (one impeller drawn at several speeds), so no impeller trim or other diameter can be evaluated on it; use speed control or a drawn speed.';

@@ -156,8 +156,9 @@ export function npsh3ForDiameter(set: Pick<CurveSet, 'members'>, diameter_m: num
 }
 
 /** The member with its NPSH3 curve replaced by the sheet's (see `npsh3ForDiameter`); members without a diameter are returned as they are. */
-export function withSheetNpsh3<M extends Member>(set: Pick<CurveSet, 'members'>, member: M): M {
-  if (member.diameter_m === undefined) return member;
+export function withSheetNpsh3<M extends Member>(set: Pick<CurveSet, 'members'> & Partial<Pick<CurveSet, 'family'>>, member: M): M {
+  // A speed family's members may all carry the one impeller diameter: each keeps its own NPSH3.
+  if (member.diameter_m === undefined || set.family === 'speed') return member;
   const source = npsh3ForDiameter(set, member.diameter_m);
   const curves = { ...member.curves };
   if (source) curves.npshr = { points: source.from_diameter_m === member.diameter_m ? member.curves.npshr?.points ?? [] : [], fit: source.fit };

@@ -9,7 +9,8 @@
  * drawn curves by the law is less exact, so a wider step between neighbouring drawn speeds
  * gets a warning rather than silence.
  */
-import type { CurveSet, Finding } from '../model/curveset.ts';
+import type { CurveSet, Finding, Member } from '../model/curveset.ts';
+import { evaluateUnchecked, inDomain } from './polynomial.ts';
 import { makeFinding } from './checks/finding.ts';
 
 /** Neighbouring drawn speeds closer than this ratio (slower / faster) are compared by the law as exact (±20 %, Karassik; Lobanoff & Ross). */
@@ -39,6 +40,81 @@ export function speedSpanFindings(set: Pick<CurveSet, 'members' | 'family'>): Fi
         figures: { speed_ratio: ratio },
       }),
     );
+  }
+  return findings;
+}
+
+/**
+ * Warn limits for one drawn speed's curve against its neighbours scaled by the speed law:
+ * efficiency 5 % of its value and power 8 % of its largest value (the ISO 9906 grade 2B bands
+ * for two readings of one pump, from memory); NPSH3 15 % of its largest value, wider because
+ * the n² law for NPSH3 is only approximate (Karassik, Pump Handbook). Only warnings: the law
+ * itself is not exact, and the curve may be drawn that way; a misread line shows far beyond.
+ */
+export const SPEED_CURVE_WARN: Record<'efficiency' | 'power' | 'npshr', number> = { efficiency: 0.05, power: 0.08, npshr: 0.15 };
+const EXPONENT: Record<'efficiency' | 'power' | 'npshr', number> = { efficiency: 0, power: 3, npshr: 2 };
+const WHAT: Record<'efficiency' | 'power' | 'npshr', string> = { efficiency: 'efficiency', power: 'power', npshr: 'NPSH3' };
+/** Matching flows over this part of the slower curve's drawn range. */
+const SPEED_FRACTIONS = [0.15, 0.25, 0.35, 0.45, 0.55, 0.65, 0.75, 0.85, 0.95];
+
+/**
+ * Largest deviation of member k's curve from member j's scaled to k's speed:
+ * y_k(Q) ≈ (n_k/n_j)^e · y_j(Q·n_j/n_k), e = 0 (η), 3 (P), 2 (NPSH3), as a fraction of k's own
+ * value (η) or of its largest value over the compared flows (P, NPSH3). Undefined when the
+ * two curves share no flows after scaling.
+ */
+function speedCurveDeviation(k: Member, j: Member, quantity: 'efficiency' | 'power' | 'npshr'): number | undefined {
+  const fk = k.curves[quantity]?.fit;
+  const fj = j.curves[quantity]?.fit;
+  if (!fk || !fj) return undefined;
+  const r = k.speed_rpm / j.speed_rpm;
+  const [lo, hi] = fk.domain;
+  const pairs: [number, number][] = [];
+  for (const f of SPEED_FRACTIONS) {
+    const q = lo + f * (hi - lo);
+    if (!inDomain(fj, q / r)) continue;
+    pairs.push([evaluateUnchecked(fk, q), r ** EXPONENT[quantity] * evaluateUnchecked(fj, q / r)]);
+  }
+  if (pairs.length < 3) return undefined;
+  const scale = Math.max(...pairs.map((p) => Math.abs(p[0])));
+  if (!(scale > 0)) return undefined;
+  return Math.max(...pairs.map(([drawn, predicted]) => Math.abs(predicted - drawn) / (quantity === 'efficiency' ? Math.max(Math.abs(drawn), 0.05 * scale) : scale)));
+}
+
+/**
+ * Efficiency, power and NPSH3 of each drawn speed against its two nearest drawn speeds, scaled by
+ * the speed law. A curve is judged by the BETTER of its two agreements (an innocent curve always
+ * has one good neighbour), and one that agrees with neither beyond the limit is named with a
+ * warning: typically a line read off a neighbour where the curves bunch. Nothing for a diameter family.
+ */
+export function speedCurveFindings(set: Pick<CurveSet, 'members' | 'family'>): Finding[] {
+  if (set.family !== 'speed') return [];
+  const findings: Finding[] = [];
+  for (const quantity of ['efficiency', 'power', 'npshr'] as const) {
+    const drawn = set.members.filter((m) => m.curves[quantity]?.fit).sort((a, b) => a.speed_rpm - b.speed_rpm);
+    if (drawn.length < 3) continue;
+    drawn.forEach((m, i) => {
+      // The two nearest drawn speeds (both on one side for the slowest and the fastest), as the head check does.
+      const near = drawn.filter((_, k) => k !== i).sort((x, y) => Math.abs(Math.log(x.speed_rpm / m.speed_rpm)) - Math.abs(Math.log(y.speed_rpm / m.speed_rpm))).slice(0, 2);
+      const devs = near.map((x) => speedCurveDeviation(m, x, quantity)).filter((d): d is number => d !== undefined);
+      if (devs.length === 0) return;
+      const best = Math.min(...devs);
+      if (best <= SPEED_CURVE_WARN[quantity]) return;
+      const share = `${(100 * best).toFixed(1)} %`;
+      findings.push(
+        makeFinding({
+          code: 'affinity.speed-curve',
+          severity: 'warn',
+          member: { speed_rpm: m.speed_rpm },
+          quantity,
+          message:
+            `The ${Math.round(m.speed_rpm)} rpm ${WHAT[quantity]} curve differs by up to ${share} from its neighbouring speeds scaled by the speed affinity law, ` +
+            `more than the ${(100 * SPEED_CURVE_WARN[quantity]).toFixed(0)} % two readings of one pump may differ; check that the trace follows its own line where the curves bunch, and its speed label.`,
+          method: SPEED_METHOD,
+          figures: { deviation: best },
+        }),
+      );
+    });
   }
   return findings;
 }

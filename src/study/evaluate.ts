@@ -21,7 +21,7 @@ import { curveAtDiameter, TRIM_SEARCH_FLOOR } from '../duty/meetDuty.ts';
 import { trimToDuty } from '../duty/trim.ts';
 import { parallelPumps, pumpCurveAtSpeed, pumpCurveOfMember, type PumpCurve } from '../duty/pumpCurve.ts';
 import { figuresAt, operatingPoint, type PointFigures } from '../duty/operatingPoint.ts';
-import { speedToDuty, speedToDutyInFamily } from '../duty/speed.ts';
+import { ratedMember, SPEED_FAMILY_NO_TRIM, speedToDuty, speedToDutyInFamily } from '../duty/speed.ts';
 import { systemHead, type SystemCurve } from '../duty/systemCurve.ts';
 import { runLoss, runsLoss, systemFromLoss, type LiquidFlowProps } from '../duty/pipeRun.ts';
 import { resolveSite } from '../duty/site.ts';
@@ -117,8 +117,9 @@ export function evaluateOption(set: CurveSet, o: ResolvedOption, words: Sentence
   // The impeller, one pump at rated speed (viscosity-corrected when the liquid is viscous).
   let viscous: ViscousFactors | undefined;
   const correct = (c: PumpCurve) => (viscous ? viscousCurve(c, viscous, density) : c);
-  const byDiameter = membersByDiameter(set);
-  const full = (byDiameter[0] ?? [...set.members].sort((a, b) => b.speed_rpm - a.speed_rpm)[0]) as Member;
+  const byDiameter = set.family === 'speed' ? [] : membersByDiameter(set);
+  const full = ratedMember(set);
+  if (set.family === 'speed' && (o.impeller.kind === 'trim' || o.impeller.diameter_m !== undefined)) throw new StudyError2(`Option "${o.name}": ${SPEED_FAMILY_NO_TRIM}`);
   const fullWater = pumpCurveOfMember(withSheetNpsh3(set, full), density, set.fluid.density_kg_m3);
   if (!isWater) {
     const bep = fullWater.bep_flow_m3s;

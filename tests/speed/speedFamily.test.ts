@@ -7,6 +7,7 @@ import { describe, expect, it } from 'vitest';
 import { inventedSpeedFamily, speedFamilyPointsText } from '../../src/demo/inventedSpeedFamily.ts';
 import { readPointsTable, PointsTableError } from '../../src/model/pointsTable.ts';
 import { buildSpeedSetFromText } from './buildSpeedSet.ts';
+import { speedCurveFindings } from '../../src/fit/speedFamilyCheck.ts';
 
 describe('a speed family from a points table', () => {
   it('reads a speed column in place of the diameter column, long and wide', () => {
@@ -57,5 +58,16 @@ describe('a speed family from a points table', () => {
     const span = set.findings.find((f) => f.code === 'affinity.speed-span');
     expect(span?.severity).toBe('warn');
     expect(span?.message).toMatch(/1450 rpm and 1000 rpm/);
+  });
+
+  it('warns when one speed\'s efficiency or power curve was read off a neighbouring line, and names that speed', () => {
+    const set = buildSpeedSetFromText(speedFamilyPointsText(inventedSpeedFamily(), { seed: 5 }));
+    expect(speedCurveFindings(set)).toEqual([]);
+    // The 1150 rpm member given the 1450 rpm member's efficiency and power curves (as when the trace jumped lines).
+    const fast = set.members.find((m) => m.speed_rpm === 1450)!;
+    const misread = { ...set, members: set.members.map((m) => (m.speed_rpm === 1150 ? { ...m, curves: { ...m.curves, efficiency: fast.curves.efficiency!, power: fast.curves.power! } } : m)) };
+    const found = speedCurveFindings(misread);
+    expect(found.map((f) => `${f.subject.speed_rpm} ${f.subject.quantity} ${f.severity}`).sort()).toEqual(['1150 efficiency warn', '1150 power warn']);
+    expect(found[0]!.message).toMatch(/^The 1150 rpm (efficiency|power) curve differs by up to/);
   });
 });

@@ -5,6 +5,7 @@
 import type { Quantity } from '../../model/curveset.ts';
 import { STEP_DEFINITIONS } from '../steps/registry.ts';
 import { targetFor } from '../store/target.ts';
+import { familyLabels } from '../store/draft.ts';
 import type { Store, Step } from '../store/store.ts';
 import type { Tool } from '../tools/tool.ts';
 
@@ -106,7 +107,7 @@ export function bindKeys(bench: KeysHost): void {
       case '[':
       case ']': {
         const { draft, session } = store;
-        const list = draft.diameters;
+        const list = familyLabels(draft);
         if (list.length === 0 || session.target.lines !== 'diameter') return;
         const at = list.indexOf(session.target.diameter ?? NaN);
         const next = list[(at + (event.key === ']' ? 1 : -1) + list.length) % list.length];

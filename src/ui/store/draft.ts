@@ -4,7 +4,9 @@
  * meaning, plus a few typed view-only extras that the file does not carry:
  *   - `sheet`: besides the file's `sheet` (as `sheet.path`) and `page`, what the workbench
  *     knows of the opened file (name, kind, checksum of its bytes, page count and size);
- *   - `diameters`: the family's impeller diameters, to offer as targets;
+ *   - `family`: which kind of sheet it is, impeller diameters at one speed or one impeller at
+ *     several speeds; it decides whether a trace is labelled `diameter` or `speed`;
+ *   - `diameters` / `speeds`: the family's impeller diameters or drawn speeds, to offer as targets;
  *   - per panel `plots`: what it plots; anchors may wait for their value while being placed;
  *   - per trace `hidden` and `locked`; every trace has an id and a (possibly empty) list of guides.
  * Every other field of the record is kept as it came, so a take-off file read and written
@@ -89,13 +91,21 @@ export interface Draft {
   readonly notes?: readonly string[];
   /** View only: the impeller diameters of the family, largest first, in units.diameter. */
   readonly diameters: readonly number[];
+  /** View only: the kind of sheet: impeller diameters at one speed, or one impeller at several speeds. */
+  readonly family: FamilyKind;
+  /** View only: the drawn speeds of a speed family, fastest first, in rpm. */
+  readonly speeds: readonly number[];
 }
+
+export type FamilyKind = 'diameter' | 'speed';
 
 export const EMPTY_DRAFT: Draft = {
   sheet: null,
   pump: { name: '', speed_rpm: 2900, specific_gravity: 1 },
   units: { flow: 'm3/h', head: 'm', power: 'kW', npsh: 'm', diameter: 'mm' },
   diameters: [],
+  family: 'diameter',
+  speeds: [],
   panels: [],
   traces: [],
 };
@@ -161,4 +171,26 @@ export function anchorAxis(a: AnchorDraft): 'x' | 'y' {
 export function frameOfPanel(panels: readonly Pick<PanelDraft, 'id' | 'frame'>[], panel: string | undefined): { frame?: Frame } {
   const frame = panel === undefined ? undefined : panels.find((p) => p.id === panel)?.frame;
   return frame ? { frame } : {};
+}
+
+/** The labels a curve of the sheet can carry: the impeller diameters, or the drawn speeds (rpm) of a speed family. */
+export function familyLabels(draft: Pick<Draft, 'family' | 'diameters' | 'speeds'>): readonly number[] {
+  return draft.family === 'speed' ? draft.speeds : draft.diameters;
+}
+
+/** The label of a trace's curve: its diameter, or its speed (rpm); undefined for iso-lines and limit lines. */
+export function labelOf(t: Pick<TraceDraft, 'diameter' | 'speed'>): number | undefined {
+  return t.diameter ?? t.speed;
+}
+
+/** The record's field for a curve label of this sheet: `diameter` (units.diameter) or `speed` (rpm). */
+export function labelField(draft: Pick<Draft, 'family'>, value: number): { diameter: number } | { speed: number } {
+  return draft.family === 'speed' ? { speed: value } : { diameter: value };
+}
+
+/** The family kind a list of traces is labelled by, or undefined when no trace carries a label yet. */
+export function familyOfTraces(traces: readonly Pick<TraceDraft, 'diameter' | 'speed'>[]): FamilyKind | undefined {
+  if (traces.some((t) => t.speed !== undefined)) return 'speed';
+  if (traces.some((t) => t.diameter !== undefined)) return 'diameter';
+  return undefined;
 }

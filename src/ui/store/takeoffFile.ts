@@ -10,7 +10,7 @@ import type { Quantity } from '../../model/curveset.ts';
 import { parseUnit, type QuantityKind } from '../../units/index.ts';
 import { calibrate } from '../../digitize/calibration.ts';
 import { parseTakeoff, Takeoff, TAKEOFF_FORMAT, TAKEOFF_VERSION, type Panel, type Trace } from '../../model/takeoff.ts';
-import { anchorsWithValues, EMPTY_DRAFT, pointsOf, type Draft, type PanelDraft, type SheetRef, type TraceDraft } from './draft.ts';
+import { anchorsWithValues, EMPTY_DRAFT, familyOfTraces, pointsOf, type Draft, type PanelDraft, type SheetRef, type TraceDraft } from './draft.ts';
 
 export interface WrittenTakeoff {
   takeoff: Takeoff;
@@ -114,6 +114,8 @@ export function fromTakeoffFile(raw: unknown, sheet: Omit<SheetRef, 'path'>): Dr
     ...record,
     sheet: { ...sheet, path, page },
     diameters,
+    family: familyOfTraces(draftTraces) ?? 'diameter',
+    speeds: [...new Set(draftTraces.flatMap((t) => (t.speed !== undefined ? [t.speed] : [])))].sort((a, b) => b - a),
     panels: draftPanels,
     traces: draftTraces,
   };

@@ -6,7 +6,7 @@
  */
 import type { Quantity } from '../../model/curveset.ts';
 import type { SheetXY } from '../../model/takeoff.ts';
-import { frameOf, powerUnit, type Draft, type PanelDraft, type TraceDraft, type UnitsDraft } from './draft.ts';
+import { familyLabels, frameOf, labelOf, powerUnit, type Draft, type FamilyKind, type PanelDraft, type TraceDraft, type UnitsDraft } from './draft.ts';
 import type { Session, TraceTarget } from './store.ts';
 import { QUANTITY_NAMES, QUANTITY_WORDS } from '../views/words.ts';
 
@@ -40,12 +40,12 @@ export function panelAt(draft: Draft, at: SheetXY): PanelDraft | undefined {
 }
 
 function traced(draft: Draft, quantity: Quantity, diameter: number): boolean {
-  return draft.traces.some((t) => t.quantity === quantity && t.iso === undefined && t.diameter === diameter);
+  return draft.traces.some((t) => t.quantity === quantity && t.iso === undefined && labelOf(t) === diameter);
 }
 
 /** The largest diameter not yet traced for the quantity, or undefined when all are. */
 export function firstUntraced(draft: Draft, quantity: Quantity): number | undefined {
-  return draft.diameters.find((d) => !traced(draft, quantity, d));
+  return familyLabels(draft).find((d) => !traced(draft, quantity, d));
 }
 
 /** How efficiency is read on this sheet: as curves on its own panel, or as iso-lines on the head panel. */
@@ -56,7 +56,7 @@ function efficiencyLines(draft: Draft): 'diameter' | 'iso' {
 /** A target for a quantity: its first untraced diameter, or an iso-line. */
 export function targetFor(draft: Draft, quantity: Quantity): TraceTarget {
   if (quantity === 'efficiency' && efficiencyLines(draft) === 'iso') return { quantity, lines: 'iso' };
-  const diameter = firstUntraced(draft, quantity) ?? draft.diameters[0];
+  const diameter = firstUntraced(draft, quantity) ?? familyLabels(draft)[0];
   return diameter === undefined ? { quantity, lines: 'diameter' } : { quantity, lines: 'diameter', diameter };
 }
 
@@ -100,24 +100,24 @@ export function retargetForPanel(draft: Draft, target: TraceTarget, panel: Panel
 export function targetProblem(draft: Draft, target: TraceTarget): string | null {
   if (!panelFor(draft, target)) return `No panel plots ${target.quantity === 'npshr' ? 'NPSHr' : target.quantity} yet; draw its frame in "Set the axes" first.`;
   if (target.lines === 'iso' && target.iso === undefined) return `Type the value of the ${target.quantity} line to trace (for example 70 %).`;
-  if (target.lines === 'diameter' && target.diameter === undefined) return 'Type the impeller diameters of the family first (for example 250 235 220 205).';
+  if (target.lines === 'diameter' && target.diameter === undefined) return draft.family === 'speed' ? 'Type the speeds of the family first (for example 1450 1200 950, or 100 90 80 70 %).' : 'Type the impeller diameters of the family first (for example 250 235 220 205).';
   return null;
 }
 
 
 /** "head curve of 250 mm", "70 % efficiency line": the target in words, for the status line. */
-export function targetName(target: TraceTarget, units: UnitsDraft): string {
+export function targetName(target: TraceTarget, units: UnitsDraft, family: FamilyKind = 'diameter'): string {
   if (target.lines === 'iso') {
     const unit = target.quantity === 'efficiency' ? '%' : powerUnit(units);
     return target.iso === undefined ? `line of constant ${QUANTITY_WORDS[target.quantity]}` : `${target.iso} ${unit} ${QUANTITY_WORDS[target.quantity]} line`;
   }
-  return target.diameter === undefined ? `${QUANTITY_WORDS[target.quantity]} curve` : `${QUANTITY_WORDS[target.quantity]} curve of ${target.diameter} ${units.diameter}`;
+  return target.diameter === undefined ? `${QUANTITY_WORDS[target.quantity]} curve` : `${QUANTITY_WORDS[target.quantity]} curve of ${target.diameter} ${family === 'speed' ? 'rpm' : units.diameter}`;
 }
 
 /** The target that traces this trace's curve again: its quantity, its diameter (or iso value) and its panel. */
-export function targetOfTrace(t: Pick<TraceDraft, 'quantity' | 'diameter' | 'iso' | 'panel'>): TraceTarget {
+export function targetOfTrace(t: Pick<TraceDraft, 'quantity' | 'diameter' | 'speed' | 'iso' | 'panel'>): TraceTarget {
   if (t.iso !== undefined) return { quantity: t.quantity, lines: 'iso', iso: t.iso, panel: t.panel };
-  return { quantity: t.quantity, lines: 'diameter', ...(t.diameter !== undefined ? { diameter: t.diameter } : {}), panel: t.panel };
+  return { quantity: t.quantity, lines: 'diameter', ...(labelOf(t) !== undefined ? { diameter: labelOf(t) as number } : {}), panel: t.panel };
 }
 
 /**
@@ -136,19 +136,20 @@ export function afterRemoval(session: Pick<Session, 'selectedTrace' | 'lastTrace
 /** Traces already filed under the curve a target would trace (same quantity and diameter, not iso-lines). */
 export function tracesOfCurve(draft: Draft, target: Pick<TraceTarget, 'quantity' | 'lines' | 'diameter'>): TraceDraft[] {
   if (target.lines !== 'diameter' || target.diameter === undefined) return [];
-  return draft.traces.filter((t) => t.quantity === target.quantity && t.iso === undefined && t.diameter === target.diameter);
+  return draft.traces.filter((t) => t.quantity === target.quantity && t.iso === undefined && labelOf(t) === target.diameter);
 }
 
 /**
  * Curves with more than one trace: the replay fits their points together as one curve. Said on
  * screen, so that a trace filed under the wrong diameter is never merged silently.
  */
-export function sharedCurves(draft: Draft): { quantity: Quantity; diameter: number; ids: string[] }[] {
-  const groups = new Map<string, { quantity: Quantity; diameter: number; ids: string[] }>();
+export function sharedCurves(draft: Draft): { quantity: Quantity; diameter: number; ids: string[]; rpm?: true }[] {
+  const groups = new Map<string, { quantity: Quantity; diameter: number; ids: string[]; rpm?: true }>();
   for (const t of draft.traces) {
-    if (t.iso !== undefined || t.diameter === undefined) continue;
-    const key = `${t.quantity}|${t.diameter}`;
-    const g = groups.get(key) ?? { quantity: t.quantity, diameter: t.diameter, ids: [] };
+    const label = labelOf(t);
+    if (t.iso !== undefined || label === undefined) continue;
+    const key = `${t.quantity}|${label}`;
+    const g = groups.get(key) ?? { quantity: t.quantity, diameter: label, ids: [], ...(t.speed !== undefined ? { rpm: true as const } : {}) };
     g.ids.push(t.id);
     groups.set(key, g);
   }
@@ -156,7 +157,7 @@ export function sharedCurves(draft: Draft): { quantity: Quantity; diameter: numb
 }
 
 /** "Head 235 mm has 2 traces (t2, t5): …" — the sentence for a shared curve. */
-export function sharedCurveSentence(g: { quantity: Quantity; diameter: number; ids: string[] }, diameterUnit: string): string {
-  const name = `${QUANTITY_NAMES[g.quantity]} ${g.diameter} ${diameterUnit}`;
+export function sharedCurveSentence(g: { quantity: Quantity; diameter: number; ids: string[]; rpm?: true }, diameterUnit: string): string {
+  const name = `${QUANTITY_NAMES[g.quantity]} ${g.diameter} ${g.rpm ? 'rpm' : diameterUnit}`;
   return `${name} has ${g.ids.length} traces (${g.ids.join(', ')}); their points are fitted together as one curve. If one belongs to another diameter, relabel or delete it.`;
 }

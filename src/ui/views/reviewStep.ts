@@ -24,6 +24,8 @@ const SEVERITY_WORDS = { fail: 'Fails', warn: 'Check', note: 'Note' } as const;
 export function traceOfFinding(draft: Draft, f: Finding, set: CurveSet, traceMembers: TraceMembers): string | null {
   if (f.subject.trace && draft.traces.some((t) => t.id === f.subject.trace)) return f.subject.trace;
   const d = f.subject.diameter_m;
+  const bySpeed = d === undefined && f.subject.speed_rpm !== undefined ? draft.traces.filter((t) => t.speed === f.subject.speed_rpm) : [];
+  if (bySpeed.length) return (bySpeed.find((t) => t.quantity === (f.subject.quantity ?? 'head')) ?? bySpeed[0])?.id ?? null;
   if (d === undefined) return null;
   // The finding names its member by the member's own diameter, copied as it is.
   const index = set.members.findIndex((m) => m.diameter_m === d);
@@ -48,7 +50,7 @@ export function reviewStep(bench: Bench): HTMLElement {
   return h('div', { class: 'step-body' },
     h('p', { class: 'caution', role: 'note' }, h('strong', null, 'Caution: '), SAFETY_SENTENCE),
     sharedCurves(draft).map((g) => h('p', { class: 'caution shared-curve', role: 'note' }, sharedCurveSentence(g, unitText(draft.units.diameter)))),
-    h('p', { class: 'summary' }, `${set.members.length} diameters · ${counts.fail} failing, ${counts.warn} to check, ${findings.length - counts.fail - counts.warn} notes.`),
+    h('p', { class: 'summary' }, `${set.members.length} ${set.family === 'speed' ? 'speeds' : 'diameters'} · ${counts.fail} failing, ${counts.warn} to check, ${findings.length - counts.fail - counts.warn} notes.`),
     h('h4', null, 'Findings'),
     findings.length === 0 ? h('p', { class: 'hint' }, 'No findings: every check passed.') : h('ol', { class: 'findings' }, findings.map((f) => {
       const trace = traceOfFinding(draft, f, set, derived.traceMembers);
@@ -74,7 +76,7 @@ export function reviewStep(bench: Bench): HTMLElement {
     h('h4', null, 'Figures per diameter'),
     h('table', { class: 'figures' },
       h('thead', null, h('tr', null,
-        h('th', { scope: 'col' }, `Diameter [${u.diameter.label}]`),
+        h('th', { scope: 'col' }, set.family === 'speed' ? 'Speed [rpm]' : `Diameter [${u.diameter.label}]`),
         h('th', { scope: 'col' }, `Shutoff head [${u.head.label}]`),
         h('th', { scope: 'col' }, `BEP flow [${unitText(u.flow.label)}]`),
         h('th', { scope: 'col' }, `BEP head [${u.head.label}]`),

@@ -1,18 +1,19 @@
 /**
- * Step 3: the diameters of the family, what the next click traces, and the list of traces
+ * Step 3: the kind of family and its diameters or speeds, what the next click traces, and the list of traces
  * with their state (points, residual) and their switches (hide, lock, re-trace, delete).
  */
 import { h } from '../dom/h.ts';
 import type { Bench } from '../app/bench.ts';
 import type { Quantity } from '../../model/curveset.ts';
-import { parseDiameterList, setDiameters, setPump, setUnits } from '../store/actions/setup.ts';
-import { EditError, typedNumber } from '../store/actions/action.ts';
+import { setPump } from '../store/actions/setup.ts';
+import { typedNumber } from '../store/actions/action.ts';
 import { isDecimalText, readDecimal } from '../../units/readNumber.ts';
 import { discardEdits, removeTrace, setHidden, setLocked, setTraceSpec, traceName } from '../store/actions/traces.ts';
-import { powerUnit, pointsOf, type TraceDraft } from '../store/draft.ts';
+import { familyLabels, labelField, labelOf, powerUnit, pointsOf, type TraceDraft } from '../store/draft.ts';
 import { afterRemoval, firstUntraced, panelFor, sharedCurves, sharedCurveSentence, targetFor } from '../store/target.ts';
 import { QUANTITY_INK } from '../canvas/overlay.ts';
-import { QUANTITY_NAMES, UNIT_CHOICES, num, unitText } from './words.ts';
+import { QUANTITY_NAMES, num, unitText } from './words.ts';
+import { familyKindFields, labelUnit, speedText } from './familyKind.ts';
 import { field } from './loadStep.ts';
 
 const ORDER: Quantity[] = ['head', 'efficiency', 'power', 'npshr'];
@@ -21,23 +22,6 @@ export function traceStep(bench: Bench): HTMLElement {
   const { store } = bench;
   const { draft, session } = store;
   const target = session.target;
-  const diameterInput = h('input', {
-    id: 'diameters',
-    type: 'text',
-    value: draft.diameters.join(' '),
-    placeholder: 'e.g. 250 235 220 205',
-    onchange: (e: Event) => {
-      try {
-        const list = parseDiameterList((e.target as HTMLInputElement).value);
-        if (store.dispatch(setDiameters(list))) store.setSession({ target: targetFor(store.draft, store.session.target.quantity) });
-      } catch (error) {
-        store.say((error as EditError).message, 'error');
-      }
-    },
-  });
-  const diameterUnit = h('select', { id: 'diameter-unit', 'aria-label': 'Diameter unit', onchange: (e: Event) => store.dispatch(setUnits({ diameter: (e.target as HTMLSelectElement).value })) },
-    UNIT_CHOICES.diameter.map((u) => h('option', { value: u, selected: u === draft.units.diameter }, unitText(u))));
-
   const quantityButtons = h('div', { class: 'segmented', role: 'group', 'aria-label': 'Quantity to trace next' },
     ORDER.map((q) => h('button', {
       type: 'button',
@@ -50,7 +34,7 @@ export function traceStep(bench: Bench): HTMLElement {
 
   const linesChoice = target.quantity === 'efficiency' || target.quantity === 'power'
     ? h('div', { class: 'segmented small', role: 'group', 'aria-label': 'How the quantity is drawn' },
-        h('button', { type: 'button', 'aria-pressed': target.lines === 'diameter' ? 'true' : 'false', onclick: () => store.setSession({ target: { quantity: target.quantity, lines: 'diameter', ...(firstUntraced(draft, target.quantity) !== undefined ? { diameter: firstUntraced(draft, target.quantity) as number } : {}) } }) }, 'one curve per diameter'),
+        h('button', { type: 'button', 'aria-pressed': target.lines === 'diameter' ? 'true' : 'false', onclick: () => store.setSession({ target: { quantity: target.quantity, lines: 'diameter', ...(firstUntraced(draft, target.quantity) !== undefined ? { diameter: firstUntraced(draft, target.quantity) as number } : {}) } }) }, draft.family === 'speed' ? 'one curve per speed' : 'one curve per diameter'),
         h('button', { type: 'button', 'aria-pressed': target.lines === 'iso' ? 'true' : 'false', onclick: () => store.setSession({ target: { quantity: target.quantity, lines: 'iso' } }) }, 'lines of constant value'))
     : null;
 
@@ -70,19 +54,19 @@ export function traceStep(bench: Bench): HTMLElement {
           } else store.setSession({ target: { ...target, iso: v } });
         },
       }), target.quantity === 'efficiency' ? '%' : unitText(powerUnit(draft.units)))
-    : h('div', { class: 'chips', role: 'group', 'aria-label': 'Diameter to trace next' },
-        draft.diameters.length === 0 ? h('span', { class: 'hint' }, 'Type the diameters above first.') : null,
-        draft.diameters.map((d) => {
-          const done = draft.traces.some((t) => t.quantity === target.quantity && t.iso === undefined && t.diameter === d);
+    : h('div', { class: 'chips', role: 'group', 'aria-label': draft.family === 'speed' ? 'Speed to trace next' : 'Diameter to trace next' },
+        familyLabels(draft).length === 0 ? h('span', { class: 'hint' }, draft.family === 'speed' ? 'Type the speeds above first.' : 'Type the diameters above first.') : null,
+        familyLabels(draft).map((d) => {
+          const done = draft.traces.some((t) => t.quantity === target.quantity && t.iso === undefined && labelOf(t) === d);
           return h('button', { type: 'button', class: `chip${done ? ' done' : ''}`, 'data-key': `d-${d}`, 'aria-pressed': target.diameter === d ? 'true' : 'false', onclick: () => store.setSession({ target: { ...target, lines: 'diameter', diameter: d } }) },
-            `${d} ${unitText(draft.units.diameter)}`, done ? h('span', { class: 'tick', 'aria-label': 'traced' }, ' ✓') : null);
+            draft.family === 'speed' ? speedText(draft, d) : `${d} ${unitText(draft.units.diameter)}`, done ? h('span', { class: 'tick', 'aria-label': 'traced' }, ' ✓') : null);
         }));
 
   return h('div', { class: 'step-body' },
     h('div', { class: 'field' }, h('label', { for: 'pump-speed' }, 'Speed'),
       h('input', { id: 'pump-speed', type: 'number', min: '1', step: 'any', value: String(draft.pump.speed_rpm), onchange: (e: Event) => store.dispatch(typedNumber((e.target as HTMLInputElement).value, 'The speed', (v) => setPump({ speed_rpm: v }), { sign: 'positive' })) }),
       h('span', { class: 'unit' }, 'rpm, as stated on the sheet')),
-    h('div', { class: 'field' }, h('label', { for: 'diameters' }, 'Impeller diameters'), diameterInput, diameterUnit),
+    ...familyKindFields(bench),
     h('fieldset', { class: 'next' },
       h('legend', null, 'Next click traces'),
       quantityButtons,
@@ -120,9 +104,9 @@ function traceRow(bench: Bench, t: TraceDraft, selected: boolean): HTMLElement {
     h('button', { type: 'button', class: 'link trace-name', onclick: () => { store.setSession({ selectedTrace: t.id, selectedPoint: null }); bench.showTrace(t.id); } }, name),
     h('span', { class: 'trace-meta' }, `${count} pts${t.edited ? ', edited' : ''}${r ? ` · ±${num(r.max, 2)} ${unitText(r.unit.token)}` : ''}`),
     h('span', { class: 'trace-actions' },
-      t.iso === undefined && draft.diameters.length > 1
-        ? h('select', { class: 'relabel', 'aria-label': `Diameter of ${name}`, title: 'The diameter this curve belongs to', disabled: t.locked, onchange: (e: Event) => store.dispatch(setTraceSpec(t.id, { diameter: Number((e.target as HTMLSelectElement).value) })) },
-            draft.diameters.map((d) => h('option', { value: String(d), selected: d === t.diameter }, `${d} ${unitText(draft.units.diameter)}`)))
+      t.iso === undefined && t.limit === undefined && familyLabels(draft).length > 1
+        ? h('select', { class: 'relabel', 'aria-label': `${draft.family === 'speed' ? 'Speed' : 'Diameter'} of ${name}`, title: `The ${draft.family === 'speed' ? 'speed' : 'diameter'} this curve belongs to`, disabled: t.locked, onchange: (e: Event) => store.dispatch(setTraceSpec(t.id, labelField(draft, Number((e.target as HTMLSelectElement).value)))) },
+            familyLabels(draft).map((d) => h('option', { value: String(d), selected: d === labelOf(t) }, `${d} ${labelUnit(draft)}`)))
         : null,
       h('button', { type: 'button', class: 'icon', 'aria-pressed': t.hidden ? 'true' : 'false', title: t.hidden ? 'Show this trace' : 'Hide this trace', 'aria-label': `${t.hidden ? 'Show' : 'Hide'} ${name}`, onclick: () => store.dispatch(setHidden(t.id, !t.hidden)) }, t.hidden ? 'show' : 'hide'),
       h('button', { type: 'button', class: 'icon', 'aria-pressed': t.locked ? 'true' : 'false', title: t.locked ? 'Unlock this trace' : 'Lock this trace against edits', 'aria-label': `${t.locked ? 'Unlock' : 'Lock'} ${name}`, onclick: () => store.dispatch(setLocked(t.id, !t.locked)) }, t.locked ? 'unlock' : 'lock'),

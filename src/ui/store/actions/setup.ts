@@ -1,6 +1,6 @@
-/** Edits of the sheet reference, the pump, the units and the diameter list. */
+/** Edits of the sheet reference, the pump, the units, the kind of family and its diameter or speed list. */
 import { CURVE_UNIT_KIND, isDecimalText, parseUnit, presetCurveTokens, readDecimal } from '../../../units/index.ts';
-import { EMPTY_DRAFT, npshUnit, powerUnit, type Draft, type PumpDraft, type SheetRef, type UnitsDraft } from '../draft.ts';
+import { EMPTY_DRAFT, familyOfTraces, npshUnit, powerUnit, type Draft, type FamilyKind, type PumpDraft, type SheetRef, type UnitsDraft } from '../draft.ts';
 import { edited, EditError, requirePositive, type Action } from './action.ts';
 
 /**
@@ -68,6 +68,43 @@ export const setDiameters = (diameters: readonly number[]): Action => (draft) =>
   const next = [...new Set(diameters)].sort((a, b) => b - a);
   if (next.join() === draft.diameters.join()) return null;
   return edited({ ...draft, diameters: next }, 'set diameters');
+};
+
+/**
+ * Speeds typed as one list, in rpm ("1450 1200 950") or in % of the rated speed ("100 90 80 70 %",
+ * "100% 90%"), returned in rpm, fastest first. A percent list needs the rated speed `rated_rpm`.
+ */
+export function parseSpeedList(text: string, rated_rpm: number): number[] {
+  const percent = text.includes('%');
+  const parts = text.replace(/%|rpm|min-1|1\/min/gi, ' ').split(/[\s,;]+/).filter(Boolean);
+  const values = parts.map((p) => (isDecimalText(p) ? readDecimal(p, 'A speed') : Number.NaN));
+  const bad = parts.find((_, i) => !(Number.isFinite(values[i]) && (values[i] as number) > 0));
+  if (bad !== undefined || parts.length === 0) throw new EditError(`"${bad ?? text.trim()}" is not a speed; type the speeds in rpm (e.g. 1450 1200 950) or in % of the rated speed (e.g. 100 90 80 70 %).`);
+  if (percent && !(rated_rpm > 0)) throw new EditError('Type the rated speed first: speeds in % are a share of it.');
+  if (percent && values.some((v) => v > 200)) throw new EditError('A speed in % of the rated speed is at most 200 %; type speeds above that in rpm.');
+  const rpm = values.map((v) => (percent ? Math.round(v * rated_rpm * 10) / 1000 : v));
+  return [...new Set(rpm)].sort((a, b) => b - a);
+}
+
+export const setSpeeds = (speeds: readonly number[]): Action => (draft) => {
+  for (const n of speeds) requirePositive(n, 'Each speed');
+  const next = [...new Set(speeds)].sort((a, b) => b - a);
+  if (next.join() === draft.speeds.join()) return null;
+  return edited({ ...draft, speeds: next }, 'set speeds');
+};
+
+/**
+ * Which kind of sheet it is: impeller diameters at one speed, or one impeller at several speeds.
+ * Refused while traces are labelled by the other kind, so that no curve changes meaning silently.
+ */
+export const setFamilyKind = (family: FamilyKind): Action => (draft) => {
+  if (family === draft.family) return null;
+  const labelled = familyOfTraces(draft.traces);
+  if (labelled !== undefined && labelled !== family) {
+    const count = draft.traces.filter((t) => (labelled === 'speed' ? t.speed : t.diameter) !== undefined).length;
+    throw new EditError(`${count} trace${count === 1 ? ' is' : 's are'} labelled by ${labelled} already; relabel or delete ${count === 1 ? 'it' : 'them'} before calling this sheet a family of ${family === 'speed' ? 'speeds' : 'impeller diameters'}.`);
+  }
+  return edited({ ...draft, family }, family === 'speed' ? 'sheet of one impeller at several speeds' : 'sheet of impeller diameters');
 };
 
 /** Details read from the sheet's text (speed, diameters, units), taken in one undoable step. */

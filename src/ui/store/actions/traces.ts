@@ -1,7 +1,7 @@
 /** Edits of traces and their points (step 3, "Trace the curves"). */
 import type { Quantity } from '../../../model/curveset.ts';
 import type { SheetXY } from '../../../model/takeoff.ts';
-import { powerUnit, freshId, pointsOf, type CaptureMethod, type Draft, type TraceDraft } from '../draft.ts';
+import { powerUnit, freshId, labelField, pointsOf, type CaptureMethod, type Draft, type TraceDraft } from '../draft.ts';
 import { edited, EditError, replaceById, requireFinite, requirePositive, type Action } from './action.ts';
 import { QUANTITY_WORDS } from '../../views/words.ts';
 
@@ -15,8 +15,9 @@ export interface TraceSpec {
 
 
 /** "head 250", "efficiency 78 % iso" — how a trace is named on screen and in the undo list. */
-export function traceName(t: Pick<TraceDraft, 'quantity' | 'diameter' | 'iso'>, diameterUnit: string, powerUnit = 'kW'): string {
+export function traceName(t: Pick<TraceDraft, 'quantity' | 'diameter' | 'speed' | 'iso'>, diameterUnit: string, powerUnit = 'kW'): string {
   if (t.iso !== undefined) return `${QUANTITY_WORDS[t.quantity]} ${t.iso} ${t.quantity === 'efficiency' ? '%' : powerUnit} line`;
+  if (t.speed !== undefined) return `${QUANTITY_WORDS[t.quantity]} ${t.speed} rpm`;
   return `${QUANTITY_WORDS[t.quantity]} ${t.diameter ?? '?'} ${diameterUnit}`;
 }
 
@@ -26,9 +27,9 @@ function checkSpec(draft: Draft, spec: TraceSpec): void {
     requireFinite(spec.iso, 'The iso value');
     if (spec.quantity !== 'efficiency' && spec.quantity !== 'power') throw new EditError('Only efficiency and power can be traced as lines of constant value.');
   } else if (spec.diameter === undefined) {
-    throw new EditError('Choose the impeller diameter of the curve before tracing it.');
+    throw new EditError(draft.family === 'speed' ? 'Choose the speed of the curve before tracing it.' : 'Choose the impeller diameter of the curve before tracing it.');
   } else {
-    requirePositive(spec.diameter, 'The diameter');
+    requirePositive(spec.diameter, draft.family === 'speed' ? 'The speed' : 'The diameter');
   }
 }
 
@@ -49,7 +50,8 @@ export const addTrace = (spec: TraceSpec, guides: readonly SheetXY[], captured: 
     id,
     panel: spec.panel,
     quantity: spec.quantity,
-    ...(spec.iso !== undefined ? { iso: spec.iso } : { diameter: spec.diameter as number }),
+    // `spec.diameter` is the curve's label: a diameter, or a speed (rpm) on a sheet of one impeller at several speeds.
+    ...(spec.iso !== undefined ? { iso: spec.iso } : labelField(draft, spec.diameter as number)),
     guides: [...guides],
     method: spec.method ?? 'auto',
     captured: [...captured],
@@ -77,10 +79,10 @@ export const setGuides = (id: string, guides: readonly SheetXY[], captured: read
   return edited(changeTrace(draft, id, ({ points: _dropped, edited: _edited, captured_by: _by, ...t }) => ({ ...t, guides: [...guides], captured: [...captured] })), label);
 };
 
-export const setTraceSpec = (id: string, spec: Partial<Pick<TraceDraft, 'quantity' | 'diameter' | 'iso' | 'panel' | 'method'>>): Action => (draft) => {
+export const setTraceSpec = (id: string, spec: Partial<Pick<TraceDraft, 'quantity' | 'diameter' | 'speed' | 'iso' | 'panel' | 'method'>>): Action => (draft) => {
   const t = requireEditable(draft, id);
   const merged = { ...t, ...spec };
-  checkSpec(draft, { panel: merged.panel, quantity: merged.quantity, ...(merged.iso !== undefined ? { iso: merged.iso } : {}), ...(merged.diameter !== undefined ? { diameter: merged.diameter } : {}) });
+  checkSpec(draft, { panel: merged.panel, quantity: merged.quantity, ...(merged.iso !== undefined ? { iso: merged.iso } : {}), ...((merged.diameter ?? merged.speed) !== undefined ? { diameter: (merged.diameter ?? merged.speed) as number } : {}) });
   return edited(changeTrace(draft, id, () => merged), `relabel as ${traceName(merged, draft.units.diameter, powerUnit(draft.units))}`);
 };
 
