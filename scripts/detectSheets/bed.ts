@@ -1,0 +1,121 @@
+/**
+ * The automatic take-off on vector sheets of the independent random bed: each sheet printed
+ * by Chromium to a PDF (vectorSheet.ts), read by `detectTakeoff` from a minimal take-off, replayed,
+ * and scored against the exact truth (scripts/randomSheets/score.ts) at 15–95 % of each
+ * curve's flow range, plus what was found against what was drawn: panels, curves, labels.
+ *
+ *   DETECT_SHEETS=40 DETECT_SEED=1 npx tsx scripts/detectSheets/bed.ts
+ *
+ * PDFs are cached in artifacts/detect-sheets/ (not committed).
+ */
+import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import type { Browser } from 'playwright-core';
+import { loadPdfSheetNode } from '../../src/digitize/loaders/pdfNode.ts';
+import { detectTakeoff } from '../../src/digitize/detect/detect.ts';
+import { replayTakeoff } from '../../src/digitize/takeoff.ts';
+import { parseTakeoffToDetect } from '../../src/model/takeoff.ts';
+import { Dice } from '../randomSheets/dice.ts';
+import { planSheet } from '../randomSheets/plan.ts';
+import { scoreReplay } from '../randomSheets/score.ts';
+import { makeVectorSheet, minimalTakeoff, openPrinter, truthOf } from './vectorSheet.ts';
+
+const CACHE = join(import.meta.dirname, '..', '..', 'artifacts', 'detect-sheets', 'bed-v1');
+
+/** The acceptance tolerance: 0.1 % of axis span (efficiency: 0.1 point of 100). */
+export const ACCEPT_PERCENT = 0.1;
+
+export interface SheetOutcome {
+  seed: number;
+  layout: string;
+  panels: { expected: number; found: number };
+  curves: { expected: number; found: number };
+  iso: { expected: number; found: number };
+  questions: string[];
+  worst: number;
+  missing: string[];
+  over: string[];
+  mislabelled: string[];
+  ok: boolean;
+  error?: string;
+}
+
+let printer: Browser | null = null;
+
+async function pdfFor(seed: number): Promise<Uint8Array> {
+  const file = join(CACHE, `${seed}.pdf`);
+  if (existsSync(file)) return new Uint8Array(readFileSync(file));
+  printer ??= await openPrinter();
+  const s = await makeVectorSheet(printer, seed);
+  mkdirSync(CACHE, { recursive: true });
+  writeFileSync(file, s.pdf);
+  return s.pdf;
+}
+
+export async function runSheet(seed: number): Promise<SheetOutcome> {
+  const plan = planSheet(new Dice(seed));
+  const truth = truthOf(plan);
+  const pdf = await pdfFor(seed);
+  const layout = `${plan.family.units} ${plan.efficiencyAs} ${plan.panels.map((p) => p.id).join('+')}`;
+  const expectedCurves = plan.lines.filter((l) => l.diameter !== undefined);
+  const expectedIso = plan.lines.filter((l) => l.iso !== undefined);
+  const base: SheetOutcome = { seed, layout, panels: { expected: plan.panels.length, found: 0 }, curves: { expected: expectedCurves.length, found: 0 }, iso: { expected: expectedIso.length, found: 0 }, questions: [], worst: Infinity, missing: [], over: [], mislabelled: [], ok: false };
+  const sheet = await loadPdfSheetNode(pdf, { name: `${seed}.pdf` });
+  try {
+    const raw = minimalTakeoff(plan, `${seed}.pdf`);
+    const found = await detectTakeoff(parseTakeoffToDetect(raw), raw, sheet);
+    const t = found.takeoff;
+    base.panels.found = found.detection.panels.length;
+    base.questions = found.questions;
+    const curveTraces = t.traces.filter((k) => k.iso === undefined);
+    const isoTraces = t.traces.filter((k) => k.iso !== undefined);
+    base.curves.found = curveTraces.length;
+    base.iso.found = isoTraces.length;
+    // Curves: each drawn (quantity, diameter) found once, nothing else.
+    const key = (q: string, d: number) => `${q}@${d}`;
+    const want = new Set(expectedCurves.map((l) => key(l.quantity, l.diameter as number)));
+    const got = curveTraces.map((k) => key(k.quantity, k.diameter as number));
+    base.missing = [...want].filter((k) => !got.includes(k));
+    base.over = got.filter((k, i) => !want.has(k) || got.indexOf(k) !== i);
+    const wantIso = expectedIso.map((l) => l.iso as number).sort((a, b) => a - b);
+    const gotIso = isoTraces.map((k) => k.iso as number).sort((a, b) => a - b);
+    if (wantIso.join(',') !== gotIso.join(',')) base.mislabelled.push(`iso levels ${gotIso.join(',')} vs drawn ${wantIso.join(',')}`);
+    const replay = await replayTakeoff(t, sheet);
+    const scores = scoreReplay(plan.family, truth, replay.curveSet);
+    base.worst = Math.max(0, ...scores.map((s) => s.error));
+    for (const s of scores) if (!(s.error <= ACCEPT_PERCENT)) base.mislabelled.push(`${s.id} error ${Number.isFinite(s.error) ? s.error.toFixed(3) : 'missing'}`);
+    base.ok = base.panels.found === base.panels.expected && base.missing.length === 0 && base.over.length === 0 && base.mislabelled.length === 0;
+  } catch (error) {
+    base.error = error instanceof Error ? error.message : String(error);
+  } finally {
+    await sheet.close();
+  }
+  return base;
+}
+
+async function main(): Promise<void> {
+  const count = Number(process.env.DETECT_SHEETS ?? 20);
+  const first = Number(process.env.DETECT_SEED ?? 1);
+  const outcomes: SheetOutcome[] = [];
+  for (let seed = first; seed < first + count; seed++) {
+    const o = await runSheet(seed);
+    outcomes.push(o);
+    const line = `${String(seed).padStart(4)} ${o.ok ? 'OK  ' : 'FAIL'} ${o.layout.padEnd(38)} panels ${o.panels.found}/${o.panels.expected} curves ${o.curves.found}/${o.curves.expected} iso ${o.iso.found}/${o.iso.expected} worst ${Number.isFinite(o.worst) ? o.worst.toFixed(3) : '-'} questions ${o.questions.length}`;
+    process.stdout.write(`${line}\n`);
+    if (!o.ok && process.env.DETECT_VERBOSE) {
+      if (o.error) process.stdout.write(`      error: ${o.error}\n`);
+      for (const m of [...o.missing.map((k) => `missing ${k}`), ...o.over.map((k) => `extra ${k}`), ...o.mislabelled]) process.stdout.write(`      ${m}\n`);
+      for (const q of o.questions) process.stdout.write(`      ? ${q}\n`);
+    }
+  }
+  if (printer) await printer.close();
+  const ok = outcomes.filter((o) => o.ok).length;
+  const clean = outcomes.filter((o) => !o.error && o.missing.length === 0 && o.over.length === 0);
+  process.stdout.write(`\n${ok} of ${outcomes.length} sheets fully right (every panel, curve, label; every curve within ${ACCEPT_PERCENT} % of span)\n`);
+  process.stdout.write(`sheets with nothing invented and nothing missed: ${clean.length}; with questions: ${outcomes.filter((o) => o.questions.length > 0).length}; refused: ${outcomes.filter((o) => o.error).length}\n`);
+  const silentWrong = outcomes.filter((o) => !o.ok && o.questions.length === 0 && !o.error);
+  process.stdout.write(`wrong without a question: ${silentWrong.length}${silentWrong.length ? ` (seeds ${silentWrong.map((o) => o.seed).join(', ')})` : ''}\n`);
+  if (process.env.DETECT_DUMP) writeFileSync(process.env.DETECT_DUMP, JSON.stringify(outcomes, null, 1));
+}
+
+if (process.argv[1] && import.meta.url.endsWith(process.argv[1].split('/').pop() as string)) await main();

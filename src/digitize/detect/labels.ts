@@ -1,0 +1,200 @@
+/**
+ * Labels assigned to curves. A diameter (or speed) label sits on its curve (centred on it,
+ * often on a paper-coloured box) or beside the curve's end; an iso label ("75 %") sits on its
+ * iso-line. Each label goes to the nearest curve when that curve is clearly nearer than any
+ * other; otherwise the label is ambiguous and becomes a question.
+ *
+ * Where labels are missing the rules of the trade fill in, and check, what the text leaves out:
+ * - on a head panel, the larger impeller gives more head at every flow, so with as many
+ *   diameters named on the sheet as head curves drawn, the curves ordered by head take the
+ *   diameters ordered by size;
+ * - one impeller's curves end at the same flow on every panel, so a power, NPSHr or efficiency
+ *   curve takes the diameter of the head curve ending at its flow.
+ * A label that disagrees with a rule is not overruled: the curve becomes a question.
+ */
+import { distanceToPolyline } from '../polyline.ts';
+import type { SheetPoint } from '../points.ts';
+import type { SheetText } from '../sheet.ts';
+import type { FoundCurve } from './curves.ts';
+import { yAt } from './curves.ts';
+import { curveLabel, isoLabel, type CurveLabel } from './words.ts';
+
+export interface Labelled {
+  curve: FoundCurve;
+  /** Diameter or speed (in the label's unit), or the iso level in %. */
+  value: number;
+  how: 'label' | 'order' | 'end-flow';
+  confidence: number;
+}
+
+export interface LabelResult {
+  labelled: Labelled[];
+  family: 'diameter' | 'speed';
+  /** Unit of the curve labels ('mm', 'in' or 'rpm'), null when none was read. */
+  unit: CurveLabel['unit'] | null;
+  questions: string[];
+}
+
+interface PlacedLabel {
+  value: number;
+  text: string;
+  centre: SheetPoint;
+  leftMid: SheetPoint;
+  size: number;
+}
+
+const level = (t: SheetText) => Math.abs(Math.sin(t.angle)) < 0.2;
+
+function place(t: SheetText, value: number): PlacedLabel {
+  const y = t.at[1] - 0.35 * t.size;
+  return { value, text: t.text.trim(), centre: [t.at[0] + t.width / 2, y] as unknown as SheetPoint, leftMid: [t.at[0], y] as unknown as SheetPoint, size: t.size };
+}
+
+/** Distance from a label to a curve: on the line, or beside its right end. */
+function reach(label: PlacedLabel, curve: FoundCurve): number {
+  const on = distanceToPolyline(curve.points, label.centre);
+  const end = curve.points[curve.points.length - 1] as SheetPoint;
+  const beside = Math.hypot(label.leftMid[0] - end[0], label.leftMid[1] - end[1]);
+  return Math.min(on, beside);
+}
+
+/** The curve a label belongs to, or the candidates when two are about as near. */
+function nearest(label: PlacedLabel, curves: readonly FoundCurve[]): { curve: FoundCurve | null; candidates: FoundCurve[] } {
+  const ranked = curves.map((c) => ({ c, d: reach(label, c) })).sort((a, b) => a.d - b.d);
+  const best = ranked[0];
+  if (!best || best.d > 1.5 * label.size) return { curve: null, candidates: [] };
+  const next = ranked[1];
+  if (next && next.d - best.d < 0.4 * label.size) return { curve: null, candidates: ranked.filter((r) => r.d - best.d < 0.4 * label.size).map((r) => r.c) };
+  return { curve: best.c, candidates: [best.c] };
+}
+
+export function assignLabels(curves: readonly FoundCurve[], text: readonly SheetText[]): LabelResult {
+  const questions: string[] = [];
+  const curveLabels: { label: PlacedLabel; parsed: CurveLabel }[] = [];
+  const isoLabels: PlacedLabel[] = [];
+  for (const t of text) {
+    if (!level(t)) continue;
+    const parsed = curveLabel(t.text);
+    if (parsed) curveLabels.push({ label: place(t, parsed.value), parsed });
+    const iso = isoLabel(t.text);
+    if (iso !== null) isoLabels.push(place(t, iso));
+  }
+  // One family per sheet: the kind and unit most labels use.
+  const kinds = new Map<string, number>();
+  for (const l of curveLabels) kinds.set(l.parsed.unit, (kinds.get(l.parsed.unit) ?? 0) + 1);
+  const unit = ([...kinds.entries()].sort((a, b) => b[1] - a[1])[0]?.[0] ?? null) as CurveLabel['unit'] | null;
+  const family = unit === 'rpm' ? 'speed' : 'diameter';
+  const familyLabels = curveLabels.filter((l) => l.parsed.unit === unit).map((l) => l.label);
+
+  const direct = new Map<FoundCurve, Set<number>>();
+  const plain = curves.filter((c) => c.kind === 'curve');
+  for (const label of familyLabels) {
+    const { curve, candidates } = nearest(label, plain);
+    if (curve) direct.set(curve, (direct.get(curve) ?? new Set()).add(label.value));
+    else if (candidates.length > 1) questions.push(`The label "${label.text}" stands about as near to ${candidates.length} curves (${candidates.map(describe).join(', ')}); which one does it name?`);
+  }
+  const labelled = new Map<FoundCurve, Labelled>();
+  for (const [curve, values] of direct) {
+    if (values.size > 1) {
+      questions.push(`The ${describe(curve)} carries two labels (${[...values].join(' and ')} ${unit}); which is its own?`);
+      continue;
+    }
+    labelled.set(curve, { curve, value: [...values][0] as number, how: 'label', confidence: 1 });
+  }
+
+  // Head panels: order by head at a flow all curves reach.
+  const named = [...new Set(familyLabels.map((l) => l.value))].sort((a, b) => b - a);
+  const panels = [...new Set(plain.map((c) => c.panel))];
+  for (const panel of panels.filter((p) => p.quantity === 'head')) {
+    const heads = plain.filter((c) => c.panel === panel);
+    const x = 0.5 * Math.min(...heads.map((c) => (c.points[c.points.length - 1] as SheetPoint)[0])) + 0.5 * Math.max(...heads.map((c) => (c.points[0] as SheetPoint)[0]));
+    const byHead = heads.map((c) => ({ c, y: yAt(c.points, x) ?? Infinity })).sort((a, b) => a.y - b.y).map((r) => r.c);
+    // Labels must agree with the order: more head, larger impeller.
+    const withLabels = byHead.filter((c) => labelled.has(c));
+    const values = withLabels.map((c) => labelled.get(c)!.value);
+    const ordered = values.every((v, i) => i === 0 || (family === 'speed' ? v < (values[i - 1] as number) : v < (values[i - 1] as number)));
+    if (!ordered) {
+      questions.push(`The labels on panel "${panel.id}" (${values.join(', ')} ${unit}) do not fall in the order of the curves' heads; check which label names which curve.`);
+      for (const c of withLabels) labelled.delete(c);
+      continue;
+    }
+    if (named.length === byHead.length) {
+      const clash = byHead.some((c, i) => labelled.has(c) && labelled.get(c)!.value !== named[i]);
+      if (clash) {
+        questions.push(`The labels on panel "${panel.id}" do not match the order of its ${byHead.length} curves by head; check which label names which curve.`);
+        continue;
+      }
+      byHead.forEach((c, i) => {
+        if (!labelled.has(c)) labelled.set(c, { curve: c, value: named[i] as number, how: 'order', confidence: 0.8 });
+      });
+    }
+    for (const c of byHead.filter((k) => !labelled.has(k))) {
+      questions.push(named.length === 0
+        ? `The ${describe(c)} has no label and the sheet names no ${family === 'speed' ? 'speeds' : 'impeller diameters'}; which ${family === 'speed' ? 'speed' : 'diameter'} is it?`
+        : `The ${describe(c)} has no label, and the sheet names ${named.length} ${family === 'speed' ? 'speeds' : 'diameters'} for ${byHead.length} head curves; which is it?`);
+    }
+  }
+
+  // Other panels: the head curve ending at the same flow names the curve.
+  const headEnds = plain
+    .filter((c) => c.panel.quantity === 'head' && labelled.has(c))
+    .map((c) => ({ value: labelled.get(c)!.value, flow: endFlow(c) }));
+  for (const panel of panels.filter((p) => p.quantity !== 'head')) {
+    const list = plain.filter((c) => c.panel === panel);
+    const span = spanOf(panel);
+    for (const c of list) {
+      const q = endFlow(c);
+      const near = headEnds.filter((h) => Math.abs(h.flow - q) <= 0.005 * span).sort((a, b) => Math.abs(a.flow - q) - Math.abs(b.flow - q));
+      const byEnd = near.length >= 1 && (near.length === 1 || Math.abs(near[0]!.flow - q) < 0.5 * Math.abs(near[1]!.flow - q)) ? near[0]!.value : null;
+      const own = labelled.get(c);
+      if (own && byEnd !== null && own.value !== byEnd) {
+        questions.push(`The ${describe(c)} is labelled ${own.value} ${unit} but ends at the flow of the ${byEnd} ${unit} head curve; which is it?`);
+        labelled.delete(c);
+      } else if (own && byEnd !== null) {
+        labelled.set(c, { ...own, how: 'label', confidence: 1 });
+      } else if (!own && byEnd !== null) {
+        labelled.set(c, { curve: c, value: byEnd, how: 'end-flow', confidence: 0.9 });
+      } else if (!own) {
+        questions.push(`The ${describe(c)} has no label and ends at no head curve's flow; which ${family === 'speed' ? 'speed' : 'diameter'} is it?`);
+      }
+    }
+    // Two curves of one panel with one value: neither is sure.
+    const seen = new Map<number, FoundCurve[]>();
+    for (const c of list) if (labelled.has(c)) seen.set(labelled.get(c)!.value, [...(seen.get(labelled.get(c)!.value) ?? []), c]);
+    for (const [value, cs] of seen) {
+      if (cs.length < 2) continue;
+      questions.push(`${cs.length} curves of panel "${panel.id}" come out as ${value} ${unit}; which one is it?`);
+      for (const c of cs) labelled.delete(c);
+    }
+  }
+
+  // Iso-lines: the "%" label on the line.
+  const isos = curves.filter((c) => c.kind === 'iso');
+  const isoValues = new Map<FoundCurve, Set<number>>();
+  for (const label of isoLabels) {
+    const { curve, candidates } = nearest(label, isos);
+    if (curve) isoValues.set(curve, (isoValues.get(curve) ?? new Set()).add(label.value));
+    else if (candidates.length > 1) questions.push(`The label "${label.text}" stands about as near to ${candidates.length} iso-lines; which one does it name?`);
+  }
+  for (const c of isos) {
+    const values = isoValues.get(c);
+    if (values?.size === 1) labelled.set(c, { curve: c, value: [...values][0] as number, how: 'label', confidence: 1 });
+    else questions.push(values ? `The ${describe(c)} carries two levels (${[...values].join(' and ')} %); which is its own?` : `The ${describe(c)} has no "%" label; which efficiency does it stand for?`);
+  }
+  return { labelled: [...labelled.values()], family, unit, questions };
+}
+
+function spanOf(panel: FoundCurve['panel']): number {
+  const xs = panel.proposal.x.labels.map((l) => l.value);
+  return Math.max(...xs) - Math.min(...xs);
+}
+
+function endFlow(c: FoundCurve): number {
+  return c.panel.proposal.calibration.toData(c.points[c.points.length - 1] as SheetPoint)[0];
+}
+
+export function describe(c: FoundCurve): string {
+  const a = c.points[0] as SheetPoint;
+  const b = c.points[c.points.length - 1] as SheetPoint;
+  return `${c.kind === 'iso' ? 'iso-line' : `${c.quantity} curve`} on panel "${c.panel.id}" from [${a[0].toFixed(0)}, ${a[1].toFixed(0)}] to [${b[0].toFixed(0)}, ${b[1].toFixed(0)}]`;
+}

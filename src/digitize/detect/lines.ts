@@ -1,0 +1,91 @@
+/**
+ * The drawn lines of a vector sheet that may be curves: every stroked path, the filled
+ * outlines some renderers write for dashed strokes, and the rows of round dots they write for
+ * dotted ones, flattened and joined into whole lines (vectorCapture.ts, strokeJoin.ts).
+ * Grid lines, frames and ticks are level or upright and are left out; so are lines that lie
+ * mostly outside a frame.
+ */
+import { flattenPath, DEFAULT_FLATNESS } from '../flatten.ts';
+import { clipPolyline } from '../polyline.ts';
+import { sheetPoint, type SheetPoint } from '../points.ts';
+import type { VectorPath } from '../sheet.ts';
+import { joinPieces, type Piece, type StrokeLine } from '../strokeJoin.ts';
+import { DEFAULT_JOIN_TOLERANCE, strokePieces } from '../vectorCapture.ts';
+import type { Box } from './panels.ts';
+
+/** Largest dot of a dotted line, in line widths (a round cap of a zero-length dash is one width across). */
+const DOT_SIZE = 2.5;
+
+/** A filled path made of many small rings (a dotted stroke written as its dots): the dots' centres, in drawing order. */
+export function dotPiece(path: VectorPath, flatness = DEFAULT_FLATNESS): Piece | null {
+  if (path.stroke !== null || path.fill === null) return null;
+  const rings = flattenPath(path.segments, flatness);
+  if (rings.length < 5) return null;
+  const centres: SheetPoint[] = [];
+  let size = 0;
+  for (const ring of rings) {
+    const xs = ring.points.map((p) => p[0]);
+    const ys = ring.points.map((p) => p[1]);
+    const w = Math.max(...xs) - Math.min(...xs);
+    const h = Math.max(...ys) - Math.min(...ys);
+    size = Math.max(size, w, h);
+    if (w > DOT_SIZE * Math.max(1, path.lineWidth) + 1 || h > DOT_SIZE * Math.max(1, path.lineWidth) + 1) return null;
+    // A round dot: width and height alike (a dash would be long one way).
+    if (Math.abs(w - h) > 0.35 * Math.max(w, h) + 0.1) return null;
+    centres.push(sheetPoint((Math.max(...xs) + Math.min(...xs)) / 2, (Math.max(...ys) + Math.min(...ys)) / 2));
+  }
+  const parts = path.clip ? clipPolyline(centres, path.clip) : [centres];
+  const points = parts.sort((a, b) => b.length - a.length)[0] ?? [];
+  return points.length >= 2 ? { points, closed: false, style: `${path.fill}|dots`, stroke: path.fill, lineWidth: size } : null;
+}
+
+/** Every joined line of the sheet, dotted ones included. */
+export function sheetLines(paths: readonly VectorPath[]): StrokeLine[] {
+  const dotted = new Set<VectorPath>();
+  const pieces: Piece[] = [];
+  for (const path of paths) {
+    const dots = dotPiece(path);
+    if (dots) {
+      dotted.add(path);
+      pieces.push(dots);
+    }
+  }
+  pieces.push(...strokePieces(paths.filter((p) => !dotted.has(p))));
+  return joinPieces(pieces, DEFAULT_JOIN_TOLERANCE);
+}
+
+/** Inside the box, with `margin` (a fraction of its size) to spare. */
+export function inBox(p: readonly [number, number], box: Box, margin = 0.01): boolean {
+  const mx = margin * (box[2] - box[0]);
+  const my = margin * (box[3] - box[1]);
+  return p[0] >= box[0] - mx && p[0] <= box[2] + mx && p[1] >= box[1] - my && p[1] <= box[3] + my;
+}
+
+/**
+ * The lines of one frame that may be curves: not level or upright, not closed, at least 3 % of
+ * the frame wide or high, most of their length inside the frame; clipped to the frame.
+ */
+export function curvesInFrame(lines: readonly StrokeLine[], frame: Box): SheetPoint[][] {
+  const out: SheetPoint[][] = [];
+  const w = frame[2] - frame[0];
+  const h = frame[3] - frame[1];
+  const clip: Box = [frame[0] - 0.005 * w, frame[1] - 0.005 * h, frame[2] + 0.005 * w, frame[3] + 0.005 * h];
+  for (const line of lines) {
+    if (line.gridLike || line.closed) continue;
+    const [x0, y0, x1, y1] = line.box;
+    if (x1 < frame[0] || x0 > frame[2] || y1 < frame[1] || y0 > frame[3]) continue;
+    const inside = line.points.filter((p) => inBox(p, frame)).length;
+    if (inside < 0.7 * line.points.length) continue;
+    const parts = clipPolyline(line.points, clip).filter((p) => p.length >= 2);
+    for (const part of parts) {
+      const xs = part.map((p) => p[0]);
+      const ys = part.map((p) => p[1]);
+      const spanX = Math.max(...xs) - Math.min(...xs);
+      const spanY = Math.max(...ys) - Math.min(...ys);
+      if (spanX < 0.03 * w && spanY < 0.03 * h) continue;
+      // Left to right, as curves are read.
+      out.push((part[0] as SheetPoint)[0] <= (part[part.length - 1] as SheetPoint)[0] ? part : [...part].reverse());
+    }
+  }
+  return out;
+}
