@@ -88,10 +88,12 @@ export function assignLabels(curves: readonly FoundCurve[], text: readonly Sheet
 
   const direct = new Map<FoundCurve, Set<number>>();
   const plain = curves.filter((c) => c.kind === 'curve');
+  // Labels about as near to two curves wait: the rules below may settle them.
+  const ambiguous: { label: PlacedLabel; candidates: FoundCurve[] }[] = [];
   for (const label of familyLabels) {
     const { curve, candidates } = nearest(label, plain);
     if (curve) direct.set(curve, (direct.get(curve) ?? new Set()).add(label.value));
-    else if (candidates.length > 1) questions.push(`The label "${label.text}" stands about as near to ${candidates.length} curves (${candidates.map(describe).join(', ')}); which one does it name?`);
+    else if (candidates.length > 1) ambiguous.push({ label, candidates });
   }
   const labelled = new Map<FoundCurve, Labelled>();
   for (const [curve, values] of direct) {
@@ -112,7 +114,7 @@ export function assignLabels(curves: readonly FoundCurve[], text: readonly Sheet
     // Labels must agree with the order: more head, larger impeller.
     const withLabels = byHead.filter((c) => labelled.has(c));
     const values = withLabels.map((c) => labelled.get(c)!.value);
-    const ordered = values.every((v, i) => i === 0 || (family === 'speed' ? v < (values[i - 1] as number) : v < (values[i - 1] as number)));
+    const ordered = values.every((v, i) => i === 0 || v < (values[i - 1] as number)); // a higher speed also gives more head
     if (!ordered) {
       questions.push(`The labels on panel "${panel.id}" (${values.join(', ')} ${unit}) do not fall in the order of the curves' heads; check which label names which curve.`);
       for (const c of withLabels) labelled.delete(c);
@@ -144,8 +146,12 @@ export function assignLabels(curves: readonly FoundCurve[], text: readonly Sheet
     const span = spanOf(panel);
     for (const c of list) {
       const q = endFlow(c);
-      const near = headEnds.filter((h) => Math.abs(h.flow - q) <= 0.005 * span).sort((a, b) => Math.abs(a.flow - q) - Math.abs(b.flow - q));
-      const byEnd = near.length >= 1 && (near.length === 1 || Math.abs(near[0]!.flow - q) < 0.5 * Math.abs(near[1]!.flow - q)) ? near[0]!.value : null;
+      // A dashed or dotted line may stop up to one dash short of its end, never beyond it: the
+      // curve belongs to the first head curve ending at or after its own end.
+      const after = headEnds.filter((h) => h.flow >= q - 0.005 * span).sort((a, b) => a.flow - b.flow);
+      const first = after[0];
+      const clear = first !== undefined && first.flow - q <= 0.04 * span && (after[1] === undefined || after[1].flow - q > 2 * Math.max(first.flow - q, 0.005 * span));
+      const byEnd = clear ? first.value : null;
       const own = labelled.get(c);
       if (own && byEnd !== null && own.value !== byEnd) {
         questions.push(`The ${describe(c)} is labelled ${own.value} ${unit} but ends at the flow of the ${byEnd} ${unit} head curve; which is it?`);
@@ -166,6 +172,11 @@ export function assignLabels(curves: readonly FoundCurve[], text: readonly Sheet
       questions.push(`${cs.length} curves of panel "${panel.id}" come out as ${value} ${unit}; which one is it?`);
       for (const c of cs) labelled.delete(c);
     }
+  }
+
+  for (const { label, candidates } of ambiguous) {
+    if (candidates.some((c) => labelled.get(c)?.value === label.value)) continue;
+    questions.push(`The label "${label.text}" stands about as near to ${candidates.length} curves (${candidates.map(describe).join(', ')}); which one does it name?`);
   }
 
   // Iso-lines: the "%" label on the line.
