@@ -135,7 +135,7 @@ async function main(): Promise<void> {
   process.stdout.write(`\n${ok} of ${outcomes.length} sheets fully right (every panel, curve, label found; every detected curve within ${ACCEPT_PERCENT} % of span)\n`);
   const fitOk = outcomes.filter((o) => o.ok && o.worstFit <= ACCEPT_PERCENT).length;
   process.stdout.write(`of those, ${fitOk} also have every fitted curve of the curve set within ${ACCEPT_PERCENT} % of span (efficiency: points)\n`);
-  const unlabelled = outcomes.filter((o) => o.questions.some((q) => q.includes('names no')));
+  const unlabelled = outcomes.filter((o) => o.questions.some((q) => q.includes('names no')) || o.error?.includes('names no'));
   process.stdout.write(`sheets that print no diameter at all (asked, not guessed): ${unlabelled.length}\n`);
   process.stdout.write(`sheets with nothing invented and nothing missed: ${clean.length}; with questions: ${outcomes.filter((o) => o.questions.length > 0).length}; refused: ${outcomes.filter((o) => o.error).length}\n`);
   const silentWrong = outcomes.filter((o) => !o.ok && o.questions.length === 0 && !o.error);

@@ -135,9 +135,9 @@ export async function detectTakeoff(input: TakeoffToDetect, raw: Record<string, 
       method: 'auto',
     });
   }
-  if (traces.length === 0) {
+  if (!traces.some((t) => t.iso === undefined)) {
     const why = questions.length > 0 ? ` It asks: ${questions.join(' ')}` : '';
-    throw new TakeoffError(`The automatic take-off found no curve it could name on page ${input.page} (${detection.panels.length} panels, ${detection.curves.length} lines).${why}`);
+    throw new TakeoffError(`The automatic take-off found no curve whose diameter or speed it could name on page ${input.page} (${detection.panels.length} panels, ${detection.curves.length} lines).${why}`);
   }
   const document: Record<string, unknown> = {
     ...raw,

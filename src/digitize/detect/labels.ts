@@ -60,6 +60,12 @@ function reach(label: PlacedLabel, curve: FoundCurve): number {
 
 /** The curve a label belongs to, or the candidates when two are about as near. */
 function nearest(label: PlacedLabel, curves: readonly FoundCurve[]): { curve: FoundCurve | null; candidates: FoundCurve[] } {
+  // A label written just past one curve's end names that curve, whatever else runs under its letters.
+  const atEnd = curves.filter((c) => {
+    const end = c.points[c.points.length - 1] as SheetPoint;
+    return Math.hypot(label.leftMid[0] - end[0], label.leftMid[1] - end[1]) <= 1.0 * label.size && label.leftMid[0] >= end[0] - 0.2 * label.size;
+  });
+  if (atEnd.length === 1) return { curve: atEnd[0] as FoundCurve, candidates: atEnd };
   const ranked = curves.map((c) => ({ c, d: reach(label, c) })).sort((a, b) => a.d - b.d);
   const best = ranked[0];
   if (!best || best.d > 1.5 * label.size) return { curve: null, candidates: [] };

@@ -113,6 +113,12 @@ export function findPanels(text: readonly SheetText[], paths: readonly VectorPat
       else chosen.push({ frame: p.frame, side: 'left', proposal: p });
     }
   }
+  for (const f of frames) {
+    if (chosen.some((c) => c.frame === f)) continue;
+    // A frame is a plot only when it is large; small boxes (legends, title blocks) are not asked about.
+    if (f[2] - f[0] < 0.25 * Math.max(...frames.map((g) => g[2] - g[0]))) continue;
+    questions.push(`The frame at [${f.map((v) => v.toFixed(0)).join(', ')}] has no tick labels that read as an evenly spaced linear or log axis; place its anchors by hand.`);
+  }
   const titles = text.filter((t) => /[a-z]{3}/i.test(t.text));
   const panels: FoundPanel[] = [];
   const used = new Map<string, number>();
