@@ -139,6 +139,8 @@ export const Takeoff = z.strictObject({
   traces: z.array(Trace).min(1),
   min_flow: positive.optional().describe('minimum continuous flow of the pump, in units.flow (at pump.speed_rpm for a speed family)'),
   notes: z.array(z.string()).optional(),
+  diameters: z.array(positive).min(1).optional().describe('for the automatic take-off: the impeller diameters drawn, in units.diameter, when the sheet does not print them beside its curves'),
+  speeds: z.array(positive).min(1).optional().describe('for the automatic take-off: the speeds drawn (rpm), when the sheet does not print them beside its curves'),
   detected: z
     .strictObject({
       by: z.string().describe('what found the parts, with its version'),

@@ -12,7 +12,7 @@ import { fromSI, parseUnit, toSI, type QuantityKind } from '../../units/index.ts
 import { QUANTITY_KIND } from '../../units/quantityUnits.ts';
 import type { Sheet, SheetText, VectorPath } from '../sheet.ts';
 import { sortCurves, type FoundCurve } from './curves.ts';
-import { assignLabels, describe, type Labelled } from './labels.ts';
+import { assignLabels, describe, type GivenValues, type Labelled } from './labels.ts';
 import { sheetLines } from './lines.ts';
 import { findPanels, type FoundPanel } from './panels.ts';
 
@@ -31,10 +31,10 @@ export interface Detection {
 }
 
 /** Everything the detector finds on a vector page. */
-export function detectSheet(text: readonly SheetText[], paths: readonly VectorPath[]): Detection {
+export function detectSheet(text: readonly SheetText[], paths: readonly VectorPath[], given?: GivenValues): Detection {
   const found = findPanels(text, paths);
   const { curves, questions: curveQuestions } = sortCurves(found.panels, sheetLines(paths));
-  const labels = assignLabels(curves, text);
+  const labels = assignLabels(curves, text, given);
   return {
     panels: found.panels,
     curves,
@@ -76,7 +76,14 @@ export async function detectTakeoff(input: TakeoffToDetect, raw: Record<string, 
   if (sheet.kind !== 'vector-pdf') {
     throw new TakeoffError(`The automatic take-off reads vector PDF sheets only for now, and this sheet is ${sheet.kind === 'image' ? 'an image' : 'a scanned PDF page'}; give the panels and traces in the take-off file.`);
   }
-  const detection = detectSheet(await sheet.text(), await sheet.paths());
+  // Values the engineer gave for a sheet that prints none, in the take-off's diameter unit (or rpm).
+  const dUnit = parseUnit('diameter', input.units.diameter).token;
+  const given: GivenValues | undefined = input.speeds
+    ? { family: 'speed', values: input.speeds, unit: 'rpm' }
+    : input.diameters && (dUnit === 'mm' || dUnit === 'in')
+      ? { family: 'diameter', values: input.diameters, unit: dUnit }
+      : undefined;
+  const detection = detectSheet(await sheet.text(), await sheet.paths(), given);
   const questions = [...detection.questions];
   const userPanels = input.panels ?? [];
   const userTraces = input.traces ?? [];

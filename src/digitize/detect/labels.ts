@@ -74,7 +74,15 @@ function nearest(label: PlacedLabel, curves: readonly FoundCurve[]): { curve: Fo
   return { curve: best.c, candidates: [best.c] };
 }
 
-export function assignLabels(curves: readonly FoundCurve[], text: readonly SheetText[]): LabelResult {
+/** Diameters or speeds the engineer gave for a sheet that does not print them (an answer to the detector's question). */
+export interface GivenValues {
+  family: 'diameter' | 'speed';
+  /** In the take-off's diameter unit, or rpm. */
+  values: readonly number[];
+  unit: CurveLabel['unit'];
+}
+
+export function assignLabels(curves: readonly FoundCurve[], text: readonly SheetText[], given?: GivenValues): LabelResult {
   const questions: string[] = [];
   const curveLabels: { label: PlacedLabel; parsed: CurveLabel }[] = [];
   const isoLabels: PlacedLabel[] = [];
@@ -88,7 +96,7 @@ export function assignLabels(curves: readonly FoundCurve[], text: readonly Sheet
   // One family per sheet: the kind and unit most labels use.
   const kinds = new Map<string, number>();
   for (const l of curveLabels) kinds.set(l.parsed.unit, (kinds.get(l.parsed.unit) ?? 0) + 1);
-  const unit = ([...kinds.entries()].sort((a, b) => b[1] - a[1])[0]?.[0] ?? null) as CurveLabel['unit'] | null;
+  const unit = ([...kinds.entries()].sort((a, b) => b[1] - a[1])[0]?.[0] ?? given?.unit ?? null) as CurveLabel['unit'] | null;
   const family = unit === 'rpm' ? 'speed' : 'diameter';
   const familyLabels = curveLabels.filter((l) => l.parsed.unit === unit).map((l) => l.label);
 
@@ -111,7 +119,9 @@ export function assignLabels(curves: readonly FoundCurve[], text: readonly Sheet
   }
 
   // Head panels: order by head at a flow all curves reach.
-  const named = [...new Set(familyLabels.map((l) => l.value))].sort((a, b) => b - a);
+  // The values the sheet names, or those the engineer gave when it names none.
+  const printed = [...new Set(familyLabels.map((l) => l.value))];
+  const named = (printed.length === 0 && given && given.unit === unit ? [...new Set(given.values)] : printed).sort((a, b) => b - a);
   const panels = [...new Set(plain.map((c) => c.panel))];
   for (const panel of panels.filter((p) => p.quantity === 'head')) {
     const heads = plain.filter((c) => c.panel === panel);
@@ -138,7 +148,7 @@ export function assignLabels(curves: readonly FoundCurve[], text: readonly Sheet
     }
     for (const c of byHead.filter((k) => !labelled.has(k))) {
       questions.push(named.length === 0
-        ? `The ${describe(c)} has no label and the sheet names no ${family === 'speed' ? 'speeds' : 'impeller diameters'}; which ${family === 'speed' ? 'speed' : 'diameter'} is it?`
+        ? `The ${describe(c)} has no label and the sheet names no ${family === 'speed' ? 'speeds' : 'impeller diameters'}; which ${family === 'speed' ? 'speed' : 'diameter'} is it? (Give "${family === 'speed' ? 'speeds' : 'diameters'}" in the take-off file, and the curves take them in order of head.)`
         : `The ${describe(c)} has no label, and the sheet names ${named.length} ${family === 'speed' ? 'speeds' : 'diameters'} for ${byHead.length} head curves; which is it?`);
     }
   }
@@ -193,10 +203,23 @@ export function assignLabels(curves: readonly FoundCurve[], text: readonly Sheet
     if (curve) isoValues.set(curve, (isoValues.get(curve) ?? new Set()).add(label.value));
     else if (candidates.length > 1) questions.push(`The label "${label.text}" stands about as near to ${candidates.length} iso-lines; which one does it name?`);
   }
+  const knownIso = new Map<FoundCurve, number>();
   for (const c of isos) {
     const values = isoValues.get(c);
-    if (values?.size === 1) labelled.set(c, { curve: c, value: [...values][0] as number, how: 'label', confidence: 1 });
-    else questions.push(values ? `The ${describe(c)} carries two levels (${[...values].join(' and ')} %); which is its own?` : `The ${describe(c)} has no "%" label; which efficiency does it stand for?`);
+    if (values?.size === 1) knownIso.set(c, [...values][0] as number);
+    else if (values) questions.push(`The ${describe(c)} carries two levels (${[...values].join(' and ')} %); which is its own?`);
+  }
+  for (const [c, value] of knownIso) labelled.set(c, { curve: c, value, how: 'label', confidence: 1 });
+  const byPanel = new Map<FoundCurve['panel'], FoundCurve[]>();
+  for (const c of isos) byPanel.set(c.panel, [...(byPanel.get(c.panel) ?? []), c]);
+  for (const list of byPanel.values()) {
+    const inferred = inferIsoLevels(list, knownIso);
+    for (const c of list) {
+      if (knownIso.has(c) || isoValues.get(c)?.size) continue;
+      const v = inferred.get(c);
+      if (v !== undefined) labelled.set(c, { curve: c, value: v, how: 'order', confidence: 0.7 });
+      else questions.push(`The ${describe(c)} has no "%" label, and its level does not follow from the labelled ones; which efficiency does it stand for?`);
+    }
   }
   return { labelled: [...labelled.values()], family, unit, questions };
 }
@@ -214,4 +237,50 @@ export function describe(c: FoundCurve): string {
   const a = c.points[0] as SheetPoint;
   const b = c.points[c.points.length - 1] as SheetPoint;
   return `${c.kind === 'iso' ? 'iso-line' : `${c.quantity} curve`} on panel "${c.panel.id}" from [${a[0].toFixed(0)}, ${a[1].toFixed(0)}] to [${b[0].toFixed(0)}, ${b[1].toFixed(0)}]`;
+}
+
+/**
+ * Levels of unlabelled iso-lines from the labelled ones of the same panel. Along the flow axis
+ * efficiency rises to the best point and falls again, so iso-lines ordered by flow carry rising
+ * levels on the left branch and falling ones on the right, and sheets draw them at one even
+ * step. Only what these facts make certain is inferred:
+ * - a labelled line is surely on the left branch when a line right of it has a higher level or
+ *   the same level (the other branch of that level), and on the right branch the other way round;
+ * - the step comes from neighbouring lines both surely on one branch, and all such pairs agree;
+ * - an unlabelled line takes a level only between two sure lines of one branch (and the count
+ *   of lines between them fits the step), or beyond the outermost sure line of a branch, away
+ *   from the peak. Lines near the peak, where the branch is unclear, stay questions.
+ */
+export function inferIsoLevels(lines: readonly FoundCurve[], known: ReadonlyMap<FoundCurve, number>): Map<FoundCurve, number> {
+  const out = new Map<FoundCurve, number>();
+  const meanX = (c: FoundCurve) => c.points.reduce((s, p) => s + p[0], 0) / c.points.length;
+  const order = [...lines].sort((a, b) => meanX(a) - meanX(b));
+  const marks = order.map((c, i) => ({ i, v: known.get(c) })).filter((m): m is { i: number; v: number } => m.v !== undefined);
+  const isLeft = (m: { i: number; v: number }) => marks.some((o) => o.i > m.i && o.v >= m.v);
+  const isRight = (m: { i: number; v: number }) => marks.some((o) => o.i < m.i && o.v >= m.v);
+  const left = marks.filter((m) => isLeft(m) && !isRight(m));
+  const right = marks.filter((m) => isRight(m) && !isLeft(m));
+  // Levels must rise along the left branch and fall along the right one.
+  if (left.some((m, k) => k > 0 && m.v <= left[k - 1]!.v) || right.some((m, k) => k > 0 && m.v >= right[k - 1]!.v)) return out;
+  const steps: number[] = [];
+  for (const branch of [left, right]) for (let k = 1; k < branch.length; k++) if (branch[k]!.i === branch[k - 1]!.i + 1) steps.push(Math.abs(branch[k]!.v - branch[k - 1]!.v));
+  const step = steps[0];
+  if (step === undefined || !(step > 0) || steps.some((s) => Math.abs(s - step) > 1e-6 * step)) return out;
+  const fits = (a: { i: number; v: number }, b: { i: number; v: number }) => Math.abs(Math.abs(b.v - a.v) - step * (b.i - a.i)) <= 1e-6 * step;
+  order.forEach((c, i) => {
+    if (known.has(c)) return;
+    let v: number | null = null;
+    const l0 = left[0];
+    const rN = right[right.length - 1];
+    const la = [...left].reverse().find((m) => m.i < i);
+    const lb = left.find((m) => m.i > i);
+    const ra = [...right].reverse().find((m) => m.i < i);
+    const rb = right.find((m) => m.i > i);
+    if (la && lb && fits(la, lb) && !marks.some((m) => m.i > la.i && m.i < lb.i)) v = la.v + step * (i - la.i);
+    else if (ra && rb && fits(ra, rb) && !marks.some((m) => m.i > ra.i && m.i < rb.i)) v = ra.v - step * (i - ra.i);
+    else if (l0 && i < l0.i && !marks.some((m) => m.i < l0.i)) v = l0.v - step * (l0.i - i);
+    else if (rN && i > rN.i && !marks.some((m) => m.i > rN.i)) v = rN.v - step * (i - rN.i);
+    if (v !== null && v > 0 && v < 100) out.set(c, Math.round(v * 1e6) / 1e6);
+  });
+  return out;
 }

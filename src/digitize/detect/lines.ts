@@ -84,8 +84,33 @@ export function curvesInFrame(lines: readonly StrokeLine[], frame: Box): SheetPo
       const spanY = Math.max(...ys) - Math.min(...ys);
       if (spanX < 0.03 * w && spanY < 0.03 * h) continue;
       // Left to right, as curves are read.
-      out.push((part[0] as SheetPoint)[0] <= (part[part.length - 1] as SheetPoint)[0] ? part : [...part].reverse());
+      const clean = dropSpikes(part);
+      out.push((clean[0] as SheetPoint)[0] <= (clean[clean.length - 1] as SheetPoint)[0] ? clean : [...clean].reverse());
     }
   }
   return out;
+}
+
+/** Distance of b from the chord a–c. */
+function offChord(a: SheetPoint, b: SheetPoint, c: SheetPoint): number {
+  const dx = c[0] - a[0];
+  const dy = c[1] - a[1];
+  const len = Math.hypot(dx, dy);
+  return len > 0 ? Math.abs(dx * (b[1] - a[1]) - dy * (b[0] - a[0])) / len : Math.hypot(b[0] - a[0], b[1] - a[1]);
+}
+
+/**
+ * Drops lone points that jump off a smooth line: a dash written as an outline can give one
+ * centre point off by a fraction of the stroke width where the dash turns a corner of the
+ * path. A point is dropped when it lies more than 0.2 units off the chord of its neighbours
+ * and at least five times further off than either neighbour lies off its own chord.
+ */
+export function dropSpikes(points: readonly SheetPoint[]): SheetPoint[] {
+  if (points.length < 5) return [...points];
+  const off = points.map((p, i) => (i === 0 || i === points.length - 1 ? 0 : offChord(points[i - 1] as SheetPoint, p, points[i + 1] as SheetPoint)));
+  return points.filter((_, i) => {
+    if (i < 2 || i > points.length - 3) return true;
+    const d = off[i] as number;
+    return !(d > 0.2 && d > 5 * Math.max(off[i - 2] as number, off[i + 2] as number));
+  });
 }
