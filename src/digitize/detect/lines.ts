@@ -66,7 +66,7 @@ export function inBox(p: readonly [number, number], box: Box, margin = 0.01): bo
  * the frame wide or high, most of their length inside the frame; clipped to the frame.
  */
 export function curvesInFrame(lines: readonly StrokeLine[], frame: Box): SheetPoint[][] {
-  const out: SheetPoint[][] = [];
+  const out: { points: SheetPoint[]; style: string }[] = [];
   const w = frame[2] - frame[0];
   const h = frame[3] - frame[1];
   const clip: Box = [frame[0] - 0.005 * w, frame[1] - 0.005 * h, frame[2] + 0.005 * w, frame[3] + 0.005 * h];
@@ -85,10 +85,77 @@ export function curvesInFrame(lines: readonly StrokeLine[], frame: Box): SheetPo
       if (spanX < 0.03 * w && spanY < 0.03 * h) continue;
       // Left to right, as curves are read.
       const clean = dropSpikes(part);
-      out.push((clean[0] as SheetPoint)[0] <= (clean[clean.length - 1] as SheetPoint)[0] ? clean : [...clean].reverse());
+      out.push({ points: (clean[0] as SheetPoint)[0] <= (clean[clean.length - 1] as SheetPoint)[0] ? clean : [...clean].reverse(), style: line.style });
     }
   }
-  return out;
+  return mergeBroken(out, frame);
+}
+
+/**
+ * Joins pieces of one curve that the stroke joining left apart (a dashed line whose dashes
+ * did not all meet): pieces of one style where one ends and the next begins a little to its
+ * right, running on in the same direction. Only pairs that choose each other are joined, so
+ * where curves of one style bunch together nothing is joined by chance.
+ */
+export function mergeBroken(pieces: readonly { points: SheetPoint[]; style: string }[], frame: Box): SheetPoint[][] {
+  const list = pieces.map((p) => ({ ...p, alive: true }));
+  const reach = Math.max(12, 0.02 * (frame[2] - frame[0]));
+  for (let round = 0; round < 50; round++) {
+    const best = new Map<number, { j: number; cost: number }>();
+    const bestBack = new Map<number, { i: number; cost: number }>();
+    list.forEach((a, i) => {
+      if (!a.alive) return;
+      list.forEach((b, j) => {
+        if (i === j || !b.alive || a.style !== b.style) return;
+        const end = a.points[a.points.length - 1] as SheetPoint;
+        const start = b.points[0] as SheetPoint;
+        const gx = start[0] - end[0];
+        const gy = start[1] - end[1];
+        const gap = Math.hypot(gx, gy);
+        if (gx < -0.5 || gap > reach) return;
+        const da = direction(a.points, false);
+        const db = direction(b.points, true);
+        if (da[0] * db[0] + da[1] * db[1] < Math.cos((25 * Math.PI) / 180)) return;
+        // The gap itself runs on along both ends.
+        if (gap > 1 && (da[0] * gx + da[1] * gy) / gap < Math.cos((30 * Math.PI) / 180)) return;
+        const cost = gap;
+        if (!best.has(i) || cost < best.get(i)!.cost) best.set(i, { j, cost });
+        if (!bestBack.has(j) || cost < bestBack.get(j)!.cost) bestBack.set(j, { i, cost });
+      });
+    });
+    let merged = false;
+    for (const [i, { j }] of best) {
+      if (bestBack.get(j)?.i !== i || !list[i]!.alive || !list[j]!.alive) continue;
+      list[i]!.points = [...list[i]!.points, ...list[j]!.points];
+      list[j]!.alive = false;
+      merged = true;
+    }
+    if (!merged) break;
+  }
+  return list.filter((p) => p.alive).map((p) => p.points);
+}
+
+/** Unit direction of a left-to-right polyline at its start (or end), over about 6 units. */
+function direction(points: readonly SheetPoint[], atStart: boolean): [number, number] {
+  const n = points.length;
+  const a = (atStart ? points[0] : points[n - 1]) as SheetPoint;
+  let b = a;
+  for (let k = 1; k < n; k++) {
+    b = (atStart ? points[k] : points[n - 1 - k]) as SheetPoint;
+    if (Math.hypot(b[0] - a[0], b[1] - a[1]) >= 6) break;
+  }
+  const dx = atStart ? b[0] - a[0] : a[0] - b[0];
+  const dy = atStart ? b[1] - a[1] : a[1] - b[1];
+  const len = Math.hypot(dx, dy);
+  return len > 0 ? [dx / len, dy / len] : [1, 0];
+}
+
+/** Distance of p from the (unbounded) line through a and b. */
+function offLine(a: SheetPoint, b: SheetPoint, p: SheetPoint): number {
+  const dx = b[0] - a[0];
+  const dy = b[1] - a[1];
+  const len = Math.hypot(dx, dy);
+  return len > 0 ? Math.abs(dx * (p[1] - a[1]) - dy * (p[0] - a[0])) / len : Math.hypot(p[0] - a[0], p[1] - a[1]);
 }
 
 /** Distance of b from the chord a–c. */
@@ -108,8 +175,15 @@ function offChord(a: SheetPoint, b: SheetPoint, c: SheetPoint): number {
 export function dropSpikes(points: readonly SheetPoint[]): SheetPoint[] {
   if (points.length < 5) return [...points];
   const off = points.map((p, i) => (i === 0 || i === points.length - 1 ? 0 : offChord(points[i - 1] as SheetPoint, p, points[i + 1] as SheetPoint)));
+  // An end point is held against the line through its next two neighbours.
+  const n = points.length;
+  const offEnd = (i: number, j: number, k: number) => offLine(points[j] as SheetPoint, points[k] as SheetPoint, points[i] as SheetPoint);
+  const firstOff = offEnd(0, 1, 2);
+  const lastOff = offEnd(n - 1, n - 2, n - 3);
   return points.filter((_, i) => {
-    if (i < 2 || i > points.length - 3) return true;
+    if (i === 0) return !(firstOff > 0.2 && firstOff > 5 * Math.max(off[2] as number, off[3] as number, 0.02));
+    if (i === n - 1) return !(lastOff > 0.2 && lastOff > 5 * Math.max(off[n - 3] as number, off[n - 4] as number, 0.02));
+    if (i < 2 || i > n - 3) return true;
     const d = off[i] as number;
     return !(d > 0.2 && d > 5 * Math.max(off[i - 2] as number, off[i + 2] as number));
   });
