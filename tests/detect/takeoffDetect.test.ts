@@ -29,7 +29,7 @@ describe('pumpscribe takeoff --detect', () => {
     copyFileSync(join(samples, 'us-iso-black-scan.jpg'), join(dir, 'scan.jpg'));
   });
 
-  it('finds panels and traces from sheet, page, speed and units, and --save-points writes the completed take-off back', () => {
+  it('finds panels and traces from sheet, page, speed and units, and --save-points writes the completed take-off back', { timeout: 180_000 }, () => {
     const file = join(dir, 'pump.takeoff.json');
     writeFileSync(file, JSON.stringify(minimal('sheet.pdf'), null, 2));
     const out = join(dir, 'pump.curveset.json');
