@@ -138,8 +138,10 @@ export async function detectTakeoff(input: TakeoffToDetect, raw: Record<string, 
       panel,
       quantity: l.curve.quantity,
       ...(l.curve.kind === 'iso' ? { iso: value } : detection.family === 'speed' ? { speed: value } : { diameter: value }),
-      points: l.curve.points.map((p) => [r4(p[0]), r4(p[1])] as [number, number]),
-      method: 'auto',
+      // Exact geometry of the drawn path: saved as captured vector points, as a vector capture saves them.
+      captured: l.curve.points.map((p) => [r4(p[0]), r4(p[1])] as [number, number]),
+      captured_by: 'vector',
+      method: 'vector',
     });
   }
   if (!traces.some((t) => t.iso === undefined)) {
@@ -148,6 +150,7 @@ export async function detectTakeoff(input: TakeoffToDetect, raw: Record<string, 
   }
   const document: Record<string, unknown> = {
     ...raw,
+    sheet_sha256: sheet.sha256,
     panels,
     traces,
     detected: { by: DETECTOR, questions },
