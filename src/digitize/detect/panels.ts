@@ -11,6 +11,7 @@ import { flattenPath } from '../flatten.ts';
 import type { SheetText, VectorPath } from '../sheet.ts';
 import type { Quantity } from '../../model/curveset.ts';
 import { isFlowTitle, quantityOfTitle, unitOfTitle } from './words.ts';
+import { robustProposal } from './robustAxis.ts';
 
 export type Box = readonly [number, number, number, number];
 
@@ -113,11 +114,18 @@ export function findPanels(text: readonly SheetText[], paths: readonly VectorPat
       else chosen.push({ frame: p.frame, side: 'left', proposal: p });
     }
   }
+  const doubtful = new Map<PanelProposal, string[]>();
   for (const f of frames) {
     if (chosen.some((c) => c.frame === f)) continue;
     // A frame is a plot only when it is large; small boxes (legends, title blocks) are not asked about.
     if (f[2] - f[0] < 0.25 * Math.max(...frames.map((g) => g[2] - g[0]))) continue;
-    questions.push(`The frame at [${f.map((v) => v.toFixed(0)).join(', ')}] has no tick labels that read as an evenly spaced linear or log axis; place its anchors by hand.`);
+    const robust = robustProposal(text, paths, f);
+    if (robust) {
+      chosen.push({ frame: f, side: 'left', proposal: robust.proposal });
+      doubtful.set(robust.proposal, robust.outliers);
+    } else {
+      questions.push(`The frame at [${f.map((v) => v.toFixed(0)).join(', ')}] has no tick labels that read as an evenly spaced linear or log axis; place its anchors by hand.`);
+    }
   }
   const titles = text.filter((t) => /[a-z]{3}/i.test(t.text));
   const panels: FoundPanel[] = [];
@@ -134,6 +142,11 @@ export function findPanels(text: readonly SheetText[], paths: readonly VectorPat
     const labels = Math.min(c.proposal.x.labels.length, c.proposal.y.labels.length);
     const residual = c.proposal.calibration.maxPercentOfSpan;
     let confidence = Math.min(1, 0.5 + 0.1 * labels) * (residual <= 0.05 ? 1 : residual <= 0.3 ? 0.8 : 0.5);
+    const odd = doubtful.get(c.proposal);
+    if (odd) {
+      confidence *= 0.6;
+      questions.push(`Panel "${id}": the tick label${odd.length === 1 ? '' : 's'} ${odd.map((k) => `"${k}"`).join(', ')} do${odd.length === 1 ? 'es' : ''} not fit the evenly spaced axis the other labels make; the panel is calibrated from the others. Is the axis read right?`);
+    }
     if (!quantity) {
       confidence *= 0.5;
       questions.push(`What does the panel at [${c.frame.map((v) => v.toFixed(0)).join(', ')}] plot (its ${c.side} axis title was not read)? Set its quantity in the take-off.`);

@@ -1,0 +1,86 @@
+/**
+ * A frame whose tick labels do not all read as one evenly spaced axis (a label printed
+ * rounded, "3" for 2.5, or a stray number) is calibrated from the labels that agree, and the
+ * ones that do not are named in a question. Linear axes only; a frame where fewer than three
+ * labels on an axis agree, or fewer than 60 % of them, is not calibrated at all.
+ */
+import { numericLabels, straightSegments, type NumericLabel, type PanelProposal, type StraightSegment, type TickLabel } from '../autoCalibrate.ts';
+import { calibrate, type AnchorInput } from '../calibration.ts';
+import type { SheetText, VectorPath } from '../sheet.ts';
+import type { Box } from './panels.ts';
+
+export interface RobustProposal {
+  proposal: PanelProposal;
+  /** Labels left out, as printed, per axis. */
+  outliers: string[];
+}
+
+/** The line a label names: the nearest parallel grid line or tick within half a text height that reaches the frame. */
+function snapTo(label: NumericLabel, lines: readonly StraightSegment[], at: number, lo: number, hi: number): number | null {
+  let best: number | null = null;
+  let off = Infinity;
+  for (const s of lines) {
+    const d = Math.abs(s.at - at);
+    if (d > 0.5 * label.size || d >= off) continue;
+    if (s.to < lo - 1 || s.from > hi + 1) continue;
+    best = s.at;
+    off = d;
+  }
+  return best;
+}
+
+/** The largest set of labels on one straight value-position line, within 0.5 % of their value span. */
+function consensus(labels: readonly TickLabel[]): { inliers: TickLabel[]; outliers: TickLabel[] } | null {
+  if (labels.length < 3) return null;
+  const span = Math.max(...labels.map((l) => l.value)) - Math.min(...labels.map((l) => l.value));
+  if (!(span > 0)) return null;
+  let best: TickLabel[] = [];
+  for (let i = 0; i < labels.length; i++) {
+    for (let j = i + 1; j < labels.length; j++) {
+      const a = labels[i] as TickLabel;
+      const b = labels[j] as TickLabel;
+      if (a.at === b.at || a.value === b.value) continue;
+      const k = (b.value - a.value) / (b.at - a.at);
+      const inliers = labels.filter((l) => Math.abs(a.value + k * (l.at - a.at) - l.value) <= 0.005 * span);
+      if (inliers.length > best.length) best = inliers;
+    }
+  }
+  if (best.length < 3 || best.length < 0.6 * labels.length) return null;
+  return { inliers: best, outliers: labels.filter((l) => !best.includes(l)) };
+}
+
+export function robustProposal(text: readonly SheetText[], paths: readonly VectorPath[], frame: Box): RobustProposal | null {
+  const [l, t, r, b] = frame;
+  const labels = numericLabels(text);
+  const { vertical, horizontal } = straightSegments(paths);
+  const xs: TickLabel[] = [];
+  const ys: TickLabel[] = [];
+  for (const label of labels) {
+    if (label.top >= b && label.top <= b + 2.5 * label.size && label.cx >= l - label.size && label.cx <= r + label.size) {
+      const at = snapTo(label, vertical, label.cx, t, b);
+      if (at !== null) xs.push({ value: label.value, at, text: label.text });
+    } else if (label.right <= l + 0.2 * label.size && label.right >= l - 5 * label.size && label.cy >= t - label.size && label.cy <= b + label.size) {
+      const at = snapTo(label, horizontal, label.cy, l, r);
+      if (at !== null) ys.push({ value: label.value, at, text: label.text });
+    }
+  }
+  const x = consensus(xs);
+  const y = consensus(ys);
+  if (!x || !y) return null;
+  const anchors: AnchorInput[] = [...x.inliers.map((k) => ({ at: [k.at, b] as [number, number], x: k.value })), ...y.inliers.map((k) => ({ at: [l, k.at] as [number, number], y: k.value }))];
+  try {
+    const calibration = calibrate(anchors, { xScale: 'linear', yScale: 'linear' });
+    const proposal: PanelProposal = {
+      frame: [Math.min(...x.inliers.map((k) => k.at)), Math.min(...y.inliers.map((k) => k.at)), Math.max(...x.inliers.map((k) => k.at)), Math.max(...y.inliers.map((k) => k.at))],
+      x: { scale: 'linear', labels: x.inliers },
+      y: { scale: 'linear', labels: y.inliers },
+      anchors,
+      xScale: 'linear',
+      yScale: 'linear',
+      calibration,
+    };
+    return { proposal, outliers: [...x.outliers, ...y.outliers].map((k) => k.text) };
+  } catch {
+    return null;
+  }
+}
