@@ -33,6 +33,8 @@ export interface SheetOutcome {
   curves: { expected: number; found: number };
   iso: { expected: number; found: number };
   questions: string[];
+  /** Tick-label proposals (autoCalibrate.ts, what `panels` prints) that belonged to no frame and were dropped. */
+  dropped: number;
   /** Worst error of the detected curves' points against truth, % of axis span (15–95 % of each curve's flow range). */
   worst: number;
   /** Worst error of the curve set's fitted curves (the fit is the replay's, not the detector's), % of span or points. */
