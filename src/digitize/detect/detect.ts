@@ -122,11 +122,16 @@ export async function detectTakeoff(input: TakeoffToDetect, raw: Record<string, 
     const from = parseUnit('diameter', detection.labelUnit);
     return Number(fromSI(toSI(l.value, from), diameterUnit).toPrecision(10));
   };
+  // Efficiency from iso-lines needs every iso-line of the panel: levels missing on some lines
+  // would leave the curves resting on part of their crossings, so the panel's iso-lines wait.
+  const isoWaiting = new Set<FoundPanel>();
+  for (const c of detection.curves) if (c.kind === 'iso' && !detection.labelled.some((l) => l.curve === c)) isoWaiting.add(c.panel);
+  for (const p of isoWaiting) questions.push(`The efficiency read from the iso-lines of panel "${p.id}" is left out until every iso-line there has its level; answer the questions about them, or trace them by hand.`);
   const traces: NonNullable<TakeoffToDetect['traces']> = [...userTraces];
   const ids = new Set(traces.map((t) => t.id));
   for (const l of [...detection.labelled].sort((a, b) => a.curve.id - b.curve.id)) {
     const panel = panelIds.get(l.curve.panel);
-    if (!panel) continue;
+    if (!panel || (l.curve.kind === 'iso' && isoWaiting.has(l.curve.panel))) continue;
     const value = valueOf(l);
     let id = l.curve.kind === 'iso' ? `iso-${value}` : `${l.curve.quantity}-${value}`;
     for (let k = 2; ids.has(id); k++) id = `${l.curve.kind === 'iso' ? `iso-${value}` : `${l.curve.quantity}-${value}`}-${k}`;
