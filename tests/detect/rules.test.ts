@@ -110,6 +110,20 @@ describe('automatic take-off rules', () => {
     expect(named(d)).toEqual(['head:230:label', 'head:250:label']);
   });
 
+  it('calibrates a frame from its tick labels when one of them is odd, and asks about that one', () => {
+    const h = headPanel([250, 230]);
+    const p = powerPanel([250, 230], ['0', '10', '20', '33', '40']);
+    const labels = [250, 230].map((d) => labelOn(h, 0.6 * end(d), head(d)(0.6 * end(d)), `${d} mm`));
+    const { paths, text } = syntheticSheet([h, p], labels);
+    const d = detectSheet(text, paths);
+    expect(d.panels.map((k) => k.quantity)).toEqual(['head', 'power']);
+    const power = d.panels[1]!;
+    expect(power.proposal.y.labels.map((l) => l.value)).toEqual([40, 20, 10, 0]);
+    expect(power.confidence).toBeLessThan(0.7);
+    expect(d.questions.some((q) => /"33" does not fit/.test(q))).toBe(true);
+    expect(named(d)).toContain('power:250:end-flow');
+  });
+
   it('reads iso levels from "%" labels, infers a level only where branch and step are certain, and asks about the rest', () => {
     const h = headPanel([250, 210]);
     // Invented iso-lines: straight lines from the 210 mm curve up to the 250 mm curve at rising flows.

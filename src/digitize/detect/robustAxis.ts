@@ -1,8 +1,8 @@
 /**
- * A frame whose tick labels do not all read as one evenly spaced axis (a label printed
- * rounded, "3" for 2.5, or a stray number) is calibrated from the labels that agree, and the
- * ones that do not are named in a question. Linear axes only; a frame where fewer than three
- * labels on an axis agree, or fewer than 60 % of them, is not calibrated at all.
+ * A frame whose tick labels do not all read as one evenly spaced axis because of one odd
+ * label (a misprint, a stray number) is calibrated from the labels that agree, and the odd one
+ * is named in a question. Linear axes only; with more than one odd label on an axis, or an odd
+ * label at an end of it, the frame is not calibrated at all (a question asks for its anchors).
  */
 import { numericLabels, straightSegments, type NumericLabel, type PanelProposal, type StraightSegment, type TickLabel } from '../autoCalibrate.ts';
 import { calibrate, type AnchorInput } from '../calibration.ts';
@@ -45,7 +45,11 @@ function consensus(labels: readonly TickLabel[]): { inliers: TickLabel[]; outlie
       if (inliers.length > best.length) best = inliers;
     }
   }
-  if (best.length < 3 || best.length < 0.6 * labels.length) return null;
+  // At most one odd label, and never one at either end of the axis: a consensus of a few among
+  // many can line up by chance, and the ends fix the scale.
+  if (best.length < 3 || best.length < labels.length - 1) return null;
+  const ends = [...labels].sort((a, b) => a.at - b.at);
+  if (!best.includes(ends[0] as TickLabel) || !best.includes(ends[ends.length - 1] as TickLabel)) return null;
   return { inliers: best, outliers: labels.filter((l) => !best.includes(l)) };
 }
 
