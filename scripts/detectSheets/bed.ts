@@ -33,6 +33,8 @@ export interface SheetOutcome {
   curves: { expected: number; found: number };
   iso: { expected: number; found: number };
   questions: string[];
+  /** Time of the detection alone (text, paths, panels, curves, labels), ms. */
+  detectMs: number;
   /** Tick-label proposals (autoCalibrate.ts, what `panels` prints) that belonged to no frame and were dropped. */
   dropped: number;
   /** Worst error of the detected curves' points against truth, % of axis span (15–95 % of each curve's flow range). */
@@ -66,11 +68,13 @@ export async function runSheet(seed: number, answer = false): Promise<SheetOutco
   const layout = `${plan.family.units} ${plan.efficiencyAs} ${plan.panels.map((p) => p.id).join('+')}`;
   const expectedCurves = plan.lines.filter((l) => l.diameter !== undefined);
   const expectedIso = plan.lines.filter((l) => l.iso !== undefined);
-  const base: SheetOutcome = { seed, layout, panels: { expected: plan.panels.length, found: 0 }, curves: { expected: expectedCurves.length, found: 0 }, iso: { expected: expectedIso.length, found: 0 }, questions: [], dropped: 0, worst: Infinity, worstFit: Infinity, missing: [], over: [], mislabelled: [], ok: false };
+  const base: SheetOutcome = { seed, layout, panels: { expected: plan.panels.length, found: 0 }, curves: { expected: expectedCurves.length, found: 0 }, iso: { expected: expectedIso.length, found: 0 }, questions: [], detectMs: NaN, dropped: 0, worst: Infinity, worstFit: Infinity, missing: [], over: [], mislabelled: [], ok: false };
   const sheet = await loadPdfSheetNode(pdf, { name: `${seed}.pdf` });
   try {
     const raw = { ...minimalTakeoff(plan, `${seed}.pdf`), ...(answer ? { diameters: plan.family.diameters } : {}) };
+    const t0 = performance.now();
     const found = await detectTakeoff(parseTakeoffToDetect(raw), raw, sheet);
+    base.detectMs = performance.now() - t0;
     const t = found.takeoff;
     base.panels.found = found.detection.panels.length;
     base.questions = found.questions;
@@ -148,6 +152,8 @@ async function main(): Promise<void> {
   process.stdout.write(`of those, ${fitOk} also have every fitted curve of the curve set within ${ACCEPT_PERCENT} % of span (efficiency: points)\n`);
   process.stdout.write(`sheets that print no diameter at all (asked, not guessed; then run again with the diameters given): ${answered.length}, of which fully right after the answer: ${answered.filter((o) => o.ok).length}\n`);
   process.stdout.write(`sheets with nothing invented and nothing missed: ${clean.length}; with questions: ${outcomes.filter((o) => o.questions.length > 0).length}; refused: ${outcomes.filter((o) => o.error).length}\n`);
+  const ms = outcomes.map((o) => o.detectMs).filter(Number.isFinite).sort((a, b) => a - b);
+  if (ms.length) process.stdout.write(`detection time per sheet (loaded PDF to take-off): p50 ${ms[Math.floor(ms.length / 2)]!.toFixed(0)} ms, max ${ms[ms.length - 1]!.toFixed(0)} ms\n`);
   process.stdout.write(`tick-label proposals dropped as belonging to no frame: ${outcomes.reduce((n, o) => n + o.dropped, 0)} on ${outcomes.filter((o) => o.dropped > 0).length} sheets\n`);
   const silentWrong = outcomes.filter((o) => !o.ok && o.questions.length === 0 && !o.error);
   process.stdout.write(`wrong without a question: ${silentWrong.length}${silentWrong.length ? ` (seeds ${silentWrong.map((o) => o.seed).join(', ')})` : ''}\n`);
