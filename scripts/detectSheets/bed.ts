@@ -61,7 +61,7 @@ async function pdfFor(seed: number): Promise<Uint8Array> {
 }
 
 /** One sheet; with `answer`, the take-off also gives the diameters drawn (the engineer's answer to the detector's question on a sheet that prints none). */
-export async function runSheet(seed: number, answer = false): Promise<SheetOutcome> {
+export async function runSheet(seed: number, answer = false, answerIso = false): Promise<SheetOutcome> {
   const plan = planSheet(new Dice(seed));
   const truth = truthOf(plan);
   const pdf = await pdfFor(seed);
@@ -71,7 +71,8 @@ export async function runSheet(seed: number, answer = false): Promise<SheetOutco
   const base: SheetOutcome = { seed, layout, panels: { expected: plan.panels.length, found: 0 }, curves: { expected: expectedCurves.length, found: 0 }, iso: { expected: expectedIso.length, found: 0 }, questions: [], detectMs: NaN, dropped: 0, worst: Infinity, worstFit: Infinity, missing: [], over: [], mislabelled: [], ok: false };
   const sheet = await loadPdfSheetNode(pdf, { name: `${seed}.pdf` });
   try {
-    const raw = { ...minimalTakeoff(plan, `${seed}.pdf`), ...(answer ? { diameters: plan.family.diameters } : {}) };
+    const isoLevels = [...new Set(plan.lines.flatMap((l) => (l.iso === undefined ? [] : [l.iso])))];
+    const raw = { ...minimalTakeoff(plan, `${seed}.pdf`), ...(answer ? { diameters: plan.family.diameters } : {}), ...(answerIso ? { iso_levels: isoLevels } : {}) };
     const t0 = performance.now();
     const found = await detectTakeoff(parseTakeoffToDetect(raw), raw, sheet);
     base.detectMs = performance.now() - t0;
@@ -129,10 +130,13 @@ async function main(): Promise<void> {
   const answered: SheetOutcome[] = [];
   for (let seed = first; seed < first + count; seed++) {
     let o = await runSheet(seed);
-    if ((o.error ?? '').includes('names no') || o.questions.some((q) => q.includes('names no'))) {
-      // The sheet prints no diameter: the engineer answers the question once, in the take-off file.
-      o = await runSheet(seed, true);
-      o.layout += ' (diameters given)';
+    const asks = (k: SheetOutcome, word: string) => (k.error ?? '').includes(word) || k.questions.some((q) => q.includes(word));
+    const needDiameters = asks(o, 'names no');
+    const needIso = asks(o, 'iso_levels');
+    if (needDiameters || needIso) {
+      // The engineer answers the detector's question once, in the take-off file.
+      o = await runSheet(seed, needDiameters, needIso);
+      o.layout += ` (${[needDiameters ? 'diameters' : '', needIso ? 'iso levels' : ''].filter(Boolean).join(' and ')} given)`;
       answered.push(o);
     }
     outcomes.push(o);
@@ -150,7 +154,8 @@ async function main(): Promise<void> {
   process.stdout.write(`\n${ok} of ${outcomes.length} sheets fully right (every panel, curve, label found; every detected curve within ${ACCEPT_PERCENT} % of span)\n`);
   const fitOk = outcomes.filter((o) => o.ok && o.worstFit <= ACCEPT_PERCENT).length;
   process.stdout.write(`of those, ${fitOk} also have every fitted curve of the curve set within ${ACCEPT_PERCENT} % of span (efficiency: points)\n`);
-  process.stdout.write(`sheets that print no diameter at all (asked, not guessed; then run again with the diameters given): ${answered.length}, of which fully right after the answer: ${answered.filter((o) => o.ok).length}\n`);
+  process.stdout.write(`sheets read without any question: ${outcomes.filter((o) => o.ok && o.questions.length === 0 && !answered.includes(o)).length}\n`);
+  process.stdout.write(`sheets on which the detector asked for the diameters or iso levels (not printed on the sheet) and was run again with the answer: ${answered.length}, of which fully right after the answer: ${answered.filter((o) => o.ok).length}\n`);
   process.stdout.write(`sheets with nothing invented and nothing missed: ${clean.length}; with questions: ${outcomes.filter((o) => o.questions.length > 0).length}; refused: ${outcomes.filter((o) => o.error).length}\n`);
   const ms = outcomes.map((o) => o.detectMs).filter(Number.isFinite).sort((a, b) => a - b);
   if (ms.length) process.stdout.write(`detection time per sheet (loaded PDF to take-off): p50 ${ms[Math.floor(ms.length / 2)]!.toFixed(0)} ms, max ${ms[ms.length - 1]!.toFixed(0)} ms\n`);

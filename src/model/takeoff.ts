@@ -141,6 +141,7 @@ export const Takeoff = z.strictObject({
   notes: z.array(z.string()).optional(),
   diameters: z.array(positive).min(1).optional().describe('for the automatic take-off: the impeller diameters drawn, in units.diameter, when the sheet does not print them beside its curves'),
   speeds: z.array(positive).min(1).optional().describe('for the automatic take-off: the speeds drawn (rpm), when the sheet does not print them beside its curves'),
+  iso_levels: z.array(finite.refine((v) => v > 0 && v < 100, 'must lie between 0 and 100 %')).min(1).optional().describe('for the automatic take-off: every efficiency level (%) drawn as iso-lines, when the sheet does not label each line'),
   detected: z
     .strictObject({
       by: z.string().describe('what found the parts, with its version'),

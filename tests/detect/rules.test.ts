@@ -139,8 +139,20 @@ describe('automatic take-off rules', () => {
       [60, 'label'],
       [65, 'label'],
     ]);
-    // Right of the highest label the line may be the next level up or the far branch: a question each.
-    expect(d.questions.filter((q) => /no "%" label/.test(q))).toHaveLength(2);
+    // Right of the highest label a line may be the next level up or the far branch: one question names both.
+    expect(d.questions.filter((q) => /no "%" label/.test(q))).toEqual([expect.stringMatching(/^2 iso-lines on panel "head" .* levels read \(60, 65 %\)/)]);
+
+    // Given every level drawn (the answer to that question), the lines take them in order of flow.
+    const answered = detectSheet(text, paths, undefined, [60, 65, 70, 75]);
+    expect(answered.labelled.filter((l) => l.curve.kind === 'iso').map((l) => [l.value, l.how]).sort()).toEqual([
+      [60, 'label'],
+      [65, 'label'],
+      [70, 'order'],
+      [75, 'order'],
+    ]);
+    expect(answered.questions).toEqual([]);
+    // A list that disagrees with a label read on the sheet is not applied.
+    expect(detectSheet(text, paths, undefined, [55, 60, 65, 70]).questions.some((q) => /no "%" label/.test(q))).toBe(true);
 
     // With 65, 70 and 75 % labelled, 65 and 70 are surely on the rising branch, one step apart,
     // so the line left of them is surely 60 %.

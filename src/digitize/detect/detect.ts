@@ -31,10 +31,10 @@ export interface Detection {
 }
 
 /** Everything the detector finds on a vector page. */
-export function detectSheet(text: readonly SheetText[], paths: readonly VectorPath[], given?: GivenValues): Detection {
+export function detectSheet(text: readonly SheetText[], paths: readonly VectorPath[], given?: GivenValues, isoLevels?: readonly number[]): Detection {
   const found = findPanels(text, paths);
   const { curves, questions: curveQuestions } = sortCurves(found.panels, sheetLines(paths));
-  const labels = assignLabels(curves, text, given);
+  const labels = assignLabels(curves, text, given, isoLevels);
   return {
     panels: found.panels,
     curves,
@@ -83,7 +83,7 @@ export async function detectTakeoff(input: TakeoffToDetect, raw: Record<string, 
     : input.diameters && (dUnit === 'mm' || dUnit === 'in')
       ? { family: 'diameter', values: input.diameters, unit: dUnit }
       : undefined;
-  const detection = detectSheet(await sheet.text(), await sheet.paths(), given);
+  const detection = detectSheet(await sheet.text(), await sheet.paths(), given, input.iso_levels);
   const questions = [...detection.questions];
   const userPanels = input.panels ?? [];
   const userTraces = input.traces ?? [];

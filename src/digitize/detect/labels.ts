@@ -82,7 +82,7 @@ export interface GivenValues {
   unit: CurveLabel['unit'];
 }
 
-export function assignLabels(curves: readonly FoundCurve[], text: readonly SheetText[], given?: GivenValues): LabelResult {
+export function assignLabels(curves: readonly FoundCurve[], text: readonly SheetText[], given?: GivenValues, isoGiven?: readonly number[]): LabelResult {
   const questions: string[] = [];
   const curveLabels: { label: PlacedLabel; parsed: CurveLabel }[] = [];
   const isoLabels: PlacedLabel[] = [];
@@ -118,6 +118,7 @@ export function assignLabels(curves: readonly FoundCurve[], text: readonly Sheet
     labelled.set(curve, { curve, value: [...values][0] as number, how: 'label', confidence: 1 });
   }
 
+  let unnamedFamily = false;
   // Head panels: order by head at a flow all curves reach.
   // The values the sheet names, or those the engineer gave when it names none.
   const printed = [...new Set(familyLabels.map((l) => l.value))];
@@ -146,10 +147,13 @@ export function assignLabels(curves: readonly FoundCurve[], text: readonly Sheet
         if (!labelled.has(c)) labelled.set(c, { curve: c, value: named[i] as number, how: 'order', confidence: 0.8 });
       });
     }
-    for (const c of byHead.filter((k) => !labelled.has(k))) {
-      questions.push(named.length === 0
-        ? `The ${describe(c)} has no label and the sheet names no ${family === 'speed' ? 'speeds' : 'impeller diameters'}; which ${family === 'speed' ? 'speed' : 'diameter'} is it? (Give "${family === 'speed' ? 'speeds' : 'diameters'}" in the take-off file, and the curves take them in order of head.)`
-        : `The ${describe(c)} has no label, and the sheet names ${named.length} ${family === 'speed' ? 'speeds' : 'diameters'} for ${byHead.length} head curves; which is it?`);
+    const open = byHead.filter((k) => !labelled.has(k));
+    if (open.length > 0 && named.length === 0) {
+      // One question for the whole family: the answer names every curve by the order rule.
+      unnamedFamily = true;
+      questions.push(`The sheet names no ${family === 'speed' ? 'speeds' : 'impeller diameters'} for the ${byHead.length} head curves of panel "${panel.id}"; give them as "${family === 'speed' ? 'speeds' : 'diameters'}" in the take-off file (the curves take them in order of head, and the other panels' curves follow by the flow at which they end).`);
+    } else {
+      for (const c of open) questions.push(`The ${describe(c)} has no label, and the sheet names ${named.length} ${family === 'speed' ? 'speeds' : 'diameters'} for ${byHead.length} head curves; which is it?`);
     }
   }
 
@@ -176,7 +180,7 @@ export function assignLabels(curves: readonly FoundCurve[], text: readonly Sheet
         labelled.set(c, { ...own, how: 'label', confidence: 1 });
       } else if (!own && byEnd !== null) {
         labelled.set(c, { curve: c, value: byEnd, how: 'end-flow', confidence: 0.9 });
-      } else if (!own) {
+      } else if (!own && !unnamedFamily) {
         questions.push(`The ${describe(c)} has no label and ends at no head curve's flow; which ${family === 'speed' ? 'speed' : 'diameter'} is it?`);
       }
     }
@@ -212,13 +216,22 @@ export function assignLabels(curves: readonly FoundCurve[], text: readonly Sheet
   for (const [c, value] of knownIso) labelled.set(c, { curve: c, value, how: 'label', confidence: 1 });
   const byPanel = new Map<FoundCurve['panel'], FoundCurve[]>();
   for (const c of isos) byPanel.set(c.panel, [...(byPanel.get(c.panel) ?? []), c]);
-  for (const list of byPanel.values()) {
+  for (const [panel, list] of byPanel) {
     const inferred = inferIsoLevels(list, knownIso);
+    const fromGiven = isoGiven ? levelsByOrder(list, isoGiven, knownIso) : null;
+    const open: FoundCurve[] = [];
     for (const c of list) {
       if (knownIso.has(c) || isoValues.get(c)?.size) continue;
       const v = inferred.get(c);
-      if (v !== undefined) labelled.set(c, { curve: c, value: v, how: 'order', confidence: 0.7 });
-      else questions.push(`The ${describe(c)} has no "%" label, and its level does not follow from the labelled ones; which efficiency does it stand for?`);
+      const g = fromGiven?.get(c);
+      if (v !== undefined && (g === undefined || g === v)) labelled.set(c, { curve: c, value: v, how: 'order', confidence: 0.7 });
+      else if (v === undefined && g !== undefined) labelled.set(c, { curve: c, value: g, how: 'order', confidence: 0.8 });
+      else open.push(c);
+    }
+    if (open.length > 0) {
+      const read = [...new Set(knownIso.values())].sort((a, b) => a - b);
+      const where = open.map((c) => `[${c.points[0]![0].toFixed(0)}, ${c.points[0]![1].toFixed(0)}]`).join(', ');
+      questions.push(`${open.length} iso-line${open.length === 1 ? '' : 's'} on panel "${panel.id}" (starting at ${where}) carr${open.length === 1 ? 'ies' : 'y'} no "%" label, and the level does not follow from ${read.length ? `the levels read (${read.join(', ')} %)` : 'any level read'}; give every level drawn as "iso_levels" in the take-off file, or trace ${open.length === 1 ? 'it' : 'them'} by hand.`);
     }
   }
   return { labelled: [...labelled.values()], family, unit, questions };
@@ -253,8 +266,7 @@ export function describe(c: FoundCurve): string {
  */
 export function inferIsoLevels(lines: readonly FoundCurve[], known: ReadonlyMap<FoundCurve, number>): Map<FoundCurve, number> {
   const out = new Map<FoundCurve, number>();
-  const meanX = (c: FoundCurve) => c.points.reduce((s, p) => s + p[0], 0) / c.points.length;
-  const order = [...lines].sort((a, b) => meanX(a) - meanX(b));
+  const order = byFlow(lines);
   const marks = order.map((c, i) => ({ i, v: known.get(c) })).filter((m): m is { i: number; v: number } => m.v !== undefined);
   const isLeft = (m: { i: number; v: number }) => marks.some((o) => o.i > m.i && o.v >= m.v);
   const isRight = (m: { i: number; v: number }) => marks.some((o) => o.i < m.i && o.v >= m.v);
@@ -283,4 +295,36 @@ export function inferIsoLevels(lines: readonly FoundCurve[], known: ReadonlyMap<
     if (v !== null && v > 0 && v < 100) out.set(c, Math.round(v * 1e6) / 1e6);
   });
   return out;
+}
+
+/**
+ * Levels of a panel's iso-lines from the full list of levels drawn (the engineer's answer):
+ * ordered by flow, the first lines are the rising branch, one per level, lowest first; the
+ * rest are the falling branch from the highest level down (a falling branch of a low level may
+ * run past the end of the curves and be missing, never one of a high level). Null when the
+ * count of lines does not fit the list, or a level read from a label disagrees.
+ */
+export function levelsByOrder(lines: readonly FoundCurve[], levels: readonly number[], known: ReadonlyMap<FoundCurve, number>): Map<FoundCurve, number> | null {
+  const list = [...new Set(levels)].sort((a, b) => a - b);
+  const order = byFlow(lines);
+  if (order.length < list.length || order.length > 2 * list.length) return null;
+  const out = new Map<FoundCurve, number>();
+  order.forEach((c, i) => out.set(c, i < list.length ? (list[i] as number) : (list[list.length - 1 - (i - list.length)] as number)));
+  for (const [c, v] of known) if (out.has(c) && out.get(c) !== v) return null;
+  return out;
+}
+
+/**
+ * Iso-lines in the order they cross the smallest head curve, left to right: each line's end
+ * lower on the sheet (less head) is where it meets the smallest impeller's curve, which every
+ * iso-line reaches, while a falling branch may stop short of the largest impeller's curve at
+ * the end of the curves.
+ */
+function byFlow(lines: readonly FoundCurve[]): FoundCurve[] {
+  const low = (c: FoundCurve) => {
+    const a = c.points[0] as SheetPoint;
+    const b = c.points[c.points.length - 1] as SheetPoint;
+    return a[1] >= b[1] ? a[0] : b[0];
+  };
+  return [...lines].sort((a, b) => low(a) - low(b));
 }
