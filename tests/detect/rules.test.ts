@@ -32,6 +32,15 @@ const powerPanel = (diameters: number[], yTexts?: string[]): PanelSpec => ({
 const named = (d: ReturnType<typeof detectSheet>) =>
   d.labelled.filter((l) => l.curve.kind === 'curve').map((l) => `${l.curve.quantity}:${l.value}:${l.how}`).sort();
 
+/** A labelled head panel over a power panel whose value ticks are printed as `yTexts`. */
+function withPowerTicks(yTexts: string[]): ReturnType<typeof detectSheet> {
+  const h = headPanel([250, 230]);
+  const p = powerPanel([250, 230], yTexts);
+  const labels = [250, 230].map((d) => labelOn(h, 0.6 * end(d), head(d)(0.6 * end(d)), `${d} mm`));
+  const { paths, text } = syntheticSheet([h, p], labels);
+  return detectSheet(text, paths);
+}
+
 describe('automatic take-off rules', () => {
   it('finds both panels with their quantities and units, and every labelled curve', () => {
     const h = headPanel([250, 230, 210]);
@@ -100,22 +109,14 @@ describe('automatic take-off rules', () => {
   });
 
   it('asks about a frame whose tick labels do not read as an axis, and keeps the rest', () => {
-    const h = headPanel([250, 230]);
-    const p = powerPanel([250, 230], ['0', '13', '7', '31', '40']);
-    const labels = [250, 230].map((d) => labelOn(h, 0.6 * end(d), head(d)(0.6 * end(d)), `${d} mm`));
-    const { paths, text } = syntheticSheet([h, p], labels);
-    const d = detectSheet(text, paths);
+    const d = withPowerTicks(['0', '13', '7', '31', '40']);
     expect(d.panels.map((k) => k.quantity)).toEqual(['head']);
     expect(d.questions.some((q) => /no tick labels that read as an evenly spaced/.test(q))).toBe(true);
     expect(named(d)).toEqual(['head:230:label', 'head:250:label']);
   });
 
   it('calibrates a frame from its tick labels when one of them is odd, and asks about that one', () => {
-    const h = headPanel([250, 230]);
-    const p = powerPanel([250, 230], ['0', '10', '20', '33', '40']);
-    const labels = [250, 230].map((d) => labelOn(h, 0.6 * end(d), head(d)(0.6 * end(d)), `${d} mm`));
-    const { paths, text } = syntheticSheet([h, p], labels);
-    const d = detectSheet(text, paths);
+    const d = withPowerTicks(['0', '10', '20', '33', '40']);
     expect(d.panels.map((k) => k.quantity)).toEqual(['head', 'power']);
     const power = d.panels[1]!;
     expect(power.proposal.y.labels.map((l) => l.value)).toEqual([40, 20, 10, 0]);
