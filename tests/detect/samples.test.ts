@@ -50,6 +50,15 @@ describe.each(['us-iso-colour', 'si-panels-black'])('automatic take-off of %s.pd
         }
       }
 
+      // Detecting again on the completed take-off finds the same parts, not twice as many;
+      // a trace the engineer set is kept and not found again.
+      const mine = { ...found.takeoff.traces[0]!, origin: 'user' as const, id: 'mine' };
+      const redoRaw = { ...found.document, traces: [mine, ...found.takeoff.traces.slice(1)] };
+      const redo = await detectTakeoff(parseTakeoffToDetect(redoRaw), redoRaw, sheet);
+      expect(redo.takeoff.traces).toHaveLength(found.takeoff.traces.length);
+      expect(redo.takeoff.traces.filter((t) => t.origin !== 'detected').map((t) => t.id)).toEqual(['mine']);
+      expect(redo.takeoff.panels).toHaveLength(found.takeoff.panels.length);
+
       const set = (await replayTakeoff(found.takeoff, sheet, { created: '2024-01-01T00:00:00Z' })).curveSet;
       const rows = scoreCurveSet(json(`${name}.truth.json`) as unknown as Truth, set);
       expect(rows.length).toBeGreaterThan(8);

@@ -68,8 +68,10 @@ function unitToken(kind: QuantityKind, token: string | null): string | null {
 }
 
 /**
- * Completes a minimal take-off from the sheet. Panels and traces the input already has are
- * kept as the user set them, and the detector adds none to a take-off that has both.
+ * Completes a minimal take-off from the sheet. Panels and traces the engineer set (origin
+ * absent or "user") are kept, and a curve the engineer traced is not added again; parts of an
+ * earlier detection (origin "detected") are found afresh, so --detect can run again on a saved
+ * take-off.
  * Throws TakeoffError when the sheet is not a vector page or nothing could be found.
  */
 export async function detectTakeoff(input: TakeoffToDetect, raw: Record<string, unknown>, sheet: Sheet): Promise<DetectedTakeoff> {
@@ -85,8 +87,10 @@ export async function detectTakeoff(input: TakeoffToDetect, raw: Record<string, 
       : undefined;
   const detection = detectSheet(await sheet.text(), await sheet.paths(), given, input.iso_levels);
   const questions = [...detection.questions];
-  const userPanels = input.panels ?? [];
-  const userTraces = input.traces ?? [];
+  // Parts the engineer set stay; parts found by an earlier detection are found again.
+  const userPanels = (input.panels ?? []).filter((p) => p.origin !== 'detected');
+  const userTraces = (input.traces ?? []).filter((t) => t.origin !== 'detected');
+  const userKeys = new Set(userTraces.map((t) => `${t.quantity}|${t.iso !== undefined ? `iso ${t.iso}` : (t.diameter ?? t.speed)}`));
   const units = input.units;
 
   const panels: NonNullable<TakeoffToDetect['panels']> = [...userPanels];
@@ -133,6 +137,7 @@ export async function detectTakeoff(input: TakeoffToDetect, raw: Record<string, 
     const panel = panelIds.get(l.curve.panel);
     if (!panel || (l.curve.kind === 'iso' && isoWaiting.has(l.curve.panel))) continue;
     const value = valueOf(l);
+    if (userKeys.has(`${l.curve.quantity}|${l.curve.kind === 'iso' ? `iso ${value}` : value}`)) continue; // the engineer's own trace of it wins
     let id = l.curve.kind === 'iso' ? `iso-${value}` : `${l.curve.quantity}-${value}`;
     for (let k = 2; ids.has(id); k++) id = `${l.curve.kind === 'iso' ? `iso-${value}` : `${l.curve.quantity}-${value}`}-${k}`;
     ids.add(id);
