@@ -125,6 +125,24 @@ describe('automatic take-off rules', () => {
     expect(named(d)).toContain('power:250:end-flow');
   });
 
+  it('reads tick labels printed with too few digits when one axis explains them all, and asks when two could', () => {
+    const h = headPanel([250, 230]);
+    const labels = [250, 230].map((d) => labelOn(h, 0.6 * end(d), head(d)(0.6 * end(d)), `${d} mm`));
+    // Ticks at 0, 2.5, 5, 7.5, 10 printed as 0, 3, 5, 8, 10: only 0, 5, 10 lie on a line that the others round from.
+    const small = { ...powerPanel([250, 230], ['0', '3', '5', '8', '10']), y: { min: 0, max: 10, step: 2.5 }, curves: [] };
+    const one = syntheticSheet([h, small], labels);
+    const d = detectSheet(one.text, one.paths);
+    expect(d.panels.map((k) => k.quantity)).toEqual(['head', 'power']);
+    expect(d.panels[1]!.proposal.y.labels.map((l) => l.value)).toEqual([10, 5, 0]);
+    expect(d.questions).toEqual([]);
+    // Up to 12.5 printed 13: 0, 5, 10 and 3, 8, 13 each explain the others as rounded; the axis is not read.
+    const both = { ...small, y: { min: 0, max: 12.5, step: 2.5 }, yTexts: ['0', '3', '5', '8', '10', '13'] };
+    const two = syntheticSheet([h, both], labels);
+    const d2 = detectSheet(two.text, two.paths);
+    expect(d2.panels.map((k) => k.quantity)).toEqual(['head']);
+    expect(d2.questions.some((q) => /no tick labels that read/.test(q))).toBe(true);
+  });
+
   it('reads iso levels from "%" labels, infers a level only where branch and step are certain, and asks about the rest', () => {
     const h = headPanel([250, 210]);
     // Invented iso-lines: straight lines from the 210 mm curve up to the 250 mm curve at rising flows.

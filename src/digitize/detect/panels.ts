@@ -115,6 +115,7 @@ export function findPanels(text: readonly SheetText[], paths: readonly VectorPat
     }
   }
   const doubtful = new Map<PanelProposal, string[]>();
+  const rounded = new Set<PanelProposal>();
   for (const f of frames) {
     if (chosen.some((c) => c.frame === f)) continue;
     // A frame is a plot only when it is large; small boxes (legends, title blocks) are not asked about.
@@ -122,7 +123,8 @@ export function findPanels(text: readonly SheetText[], paths: readonly VectorPat
     const robust = robustProposal(text, paths, f);
     if (robust) {
       chosen.push({ frame: f, side: 'left', proposal: robust.proposal });
-      doubtful.set(robust.proposal, robust.outliers);
+      if (robust.outliers.length > 0) doubtful.set(robust.proposal, robust.outliers);
+      else rounded.add(robust.proposal);
     } else {
       questions.push(`The frame at [${f.map((v) => v.toFixed(0)).join(', ')}] has no tick labels that read as an evenly spaced linear or log axis; place its anchors by hand.`);
     }
@@ -142,6 +144,8 @@ export function findPanels(text: readonly SheetText[], paths: readonly VectorPat
     const labels = Math.min(c.proposal.x.labels.length, c.proposal.y.labels.length);
     const residual = c.proposal.calibration.maxPercentOfSpan;
     let confidence = Math.min(1, 0.5 + 0.1 * labels) * (residual <= 0.05 ? 1 : residual <= 0.3 ? 0.8 : 0.5);
+    // Rounded tick labels agree with the axis, but the anchors are fewer: a little less sure.
+    if (rounded.has(c.proposal)) confidence *= 0.85;
     const odd = doubtful.get(c.proposal);
     if (odd) {
       confidence *= 0.6;

@@ -3,6 +3,8 @@
  * label (a misprint, a stray number) is calibrated from the labels that agree, and the odd one
  * is named in a question. Linear axes only; with more than one odd label on an axis, or an odd
  * label at an end of it, the frame is not calibrated at all (a question asks for its anchors).
+ * Labels printed with too few digits ("3" for 2.5) are no odd labels: when every label's value
+ * rounds from one straight line that three or more of them meet exactly, those calibrate.
  */
 import { numericLabels, straightSegments, type NumericLabel, type PanelProposal, type StraightSegment, type TickLabel } from '../autoCalibrate.ts';
 import { calibrate, type AnchorInput } from '../calibration.ts';
@@ -13,6 +15,8 @@ export interface RobustProposal {
   proposal: PanelProposal;
   /** Labels left out, as printed, per axis. */
   outliers: string[];
+  /** Labels printed rounded (consistent with the axis, not used as anchors). */
+  rounded: string[];
 }
 
 /** The line a label names: the nearest parallel grid line or tick within half a text height that reaches the frame. */
@@ -53,6 +57,44 @@ function consensus(labels: readonly TickLabel[]): { inliers: TickLabel[]; outlie
   return { inliers: best, outliers: labels.filter((l) => !best.includes(l)) };
 }
 
+/** Half a unit of the last digit a label prints ("3" → 0.5, "2.5" → 0.05). */
+function printedHalfUnit(text: string): number {
+  const m = /[.,](\d+)%?$/.exec(text);
+  return 0.5 * 10 ** -(m ? (m[1] as string).length : 0);
+}
+
+/**
+ * Labels printed with too few digits ("3" and "8" for 2.5 and 7.5): a straight line through
+ * three or more labels that it meets exactly, which every other label's value rounds from.
+ * The exact ones calibrate; the rounded ones only confirm.
+ */
+function roundedConsensus(labels: readonly TickLabel[]): { inliers: TickLabel[]; rounded: TickLabel[] } | null {
+  if (labels.length < 4) return null;
+  const span = Math.max(...labels.map((l) => l.value)) - Math.min(...labels.map((l) => l.value));
+  let best: TickLabel[] = [];
+  // Every line that explains the labels this way; two different ones (0, 5, 10 exact with 3, 8
+  // rounded, or 3, 8, 13 exact with 0, 5, 10 rounded) leave the axis unread.
+  const lines: { k: number; at0: number; exact: TickLabel[] }[] = [];
+  for (let i = 0; i < labels.length; i++) {
+    for (let j = i + 1; j < labels.length; j++) {
+      const a = labels[i] as TickLabel;
+      const b = labels[j] as TickLabel;
+      if (a.at === b.at || a.value === b.value) continue;
+      const k = (b.value - a.value) / (b.at - a.at);
+      const at = (l: TickLabel) => a.value + k * (l.at - a.at);
+      if (!labels.every((l) => Math.abs(at(l) - l.value) <= printedHalfUnit(l.text) + 1e-6 * span)) continue;
+      const exact = labels.filter((l) => Math.abs(at(l) - l.value) <= 1e-3 * span);
+      if (exact.length < 3) continue;
+      lines.push({ k, at0: at(labels[0] as TickLabel), exact });
+      if (exact.length > best.length) best = exact;
+    }
+  }
+  const distinct = lines.filter((l, n) => lines.findIndex((m) => Math.abs(m.k - l.k) <= 1e-9 * Math.abs(l.k) && Math.abs(m.at0 - l.at0) <= 1e-6 * span) === n);
+  if (distinct.length !== 1) return null;
+  if (best.length < 3 || best.length === labels.length) return null;
+  return { inliers: best, rounded: labels.filter((l) => !best.includes(l)) };
+}
+
 export function robustProposal(text: readonly SheetText[], paths: readonly VectorPath[], frame: Box): RobustProposal | null {
   const [l, t, r, b] = frame;
   const labels = numericLabels(text);
@@ -68,8 +110,14 @@ export function robustProposal(text: readonly SheetText[], paths: readonly Vecto
       if (at !== null) ys.push({ value: label.value, at, text: label.text });
     }
   }
-  const x = consensus(xs);
-  const y = consensus(ys);
+  const read = (list: TickLabel[]) => {
+    const c = consensus(list);
+    if (c) return { ...c, rounded: [] as TickLabel[] };
+    const r = roundedConsensus(list);
+    return r ? { inliers: r.inliers, outliers: [] as TickLabel[], rounded: r.rounded } : null;
+  };
+  const x = read(xs);
+  const y = read(ys);
   if (!x || !y) return null;
   const anchors: AnchorInput[] = [...x.inliers.map((k) => ({ at: [k.at, b] as [number, number], x: k.value })), ...y.inliers.map((k) => ({ at: [l, k.at] as [number, number], y: k.value }))];
   try {
@@ -83,7 +131,7 @@ export function robustProposal(text: readonly SheetText[], paths: readonly Vecto
       yScale: 'linear',
       calibration,
     };
-    return { proposal, outliers: [...x.outliers, ...y.outliers].map((k) => k.text) };
+    return { proposal, outliers: [...x.outliers, ...y.outliers].map((k) => k.text), rounded: [...x.rounded, ...y.rounded].map((k) => k.text) };
   } catch {
     return null;
   }
