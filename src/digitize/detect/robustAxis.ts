@@ -33,22 +33,29 @@ function snapTo(label: NumericLabel, lines: readonly StraightSegment[], at: numb
   return best;
 }
 
-/** The largest set of labels on one straight value-position line, within 0.5 % of their value span. */
-function consensus(labels: readonly TickLabel[]): { inliers: TickLabel[]; outliers: TickLabel[] } | null {
-  if (labels.length < 3) return null;
-  const span = Math.max(...labels.map((l) => l.value)) - Math.min(...labels.map((l) => l.value));
-  if (!(span > 0)) return null;
-  let best: TickLabel[] = [];
+/** Calls `visit` with the value-at-position line through each pair of labels (and its slope). */
+function forEachLine(labels: readonly TickLabel[], visit: (at: (l: TickLabel) => number, slope: number) => void): void {
   for (let i = 0; i < labels.length; i++) {
     for (let j = i + 1; j < labels.length; j++) {
       const a = labels[i] as TickLabel;
       const b = labels[j] as TickLabel;
       if (a.at === b.at || a.value === b.value) continue;
       const k = (b.value - a.value) / (b.at - a.at);
-      const inliers = labels.filter((l) => Math.abs(a.value + k * (l.at - a.at) - l.value) <= 0.005 * span);
-      if (inliers.length > best.length) best = inliers;
+      visit((l) => a.value + k * (l.at - a.at), k);
     }
   }
+}
+
+/** The largest set of labels on one straight value-position line, within 0.5 % of their value span. */
+function consensus(labels: readonly TickLabel[]): { inliers: TickLabel[]; outliers: TickLabel[] } | null {
+  if (labels.length < 3) return null;
+  const span = Math.max(...labels.map((l) => l.value)) - Math.min(...labels.map((l) => l.value));
+  if (!(span > 0)) return null;
+  let best: TickLabel[] = [];
+  forEachLine(labels, (at) => {
+    const inliers = labels.filter((l) => Math.abs(at(l) - l.value) <= 0.005 * span);
+    if (inliers.length > best.length) best = inliers;
+  });
   // At most one odd label, and never one at either end of the axis: a consensus of a few among
   // many can line up by chance, and the ends fix the scale.
   if (best.length < 3 || best.length < labels.length - 1) return null;
@@ -75,20 +82,13 @@ function roundedConsensus(labels: readonly TickLabel[]): { inliers: TickLabel[];
   // Every line that explains the labels this way; two different ones (0, 5, 10 exact with 3, 8
   // rounded, or 3, 8, 13 exact with 0, 5, 10 rounded) leave the axis unread.
   const lines: { k: number; at0: number; exact: TickLabel[] }[] = [];
-  for (let i = 0; i < labels.length; i++) {
-    for (let j = i + 1; j < labels.length; j++) {
-      const a = labels[i] as TickLabel;
-      const b = labels[j] as TickLabel;
-      if (a.at === b.at || a.value === b.value) continue;
-      const k = (b.value - a.value) / (b.at - a.at);
-      const at = (l: TickLabel) => a.value + k * (l.at - a.at);
-      if (!labels.every((l) => Math.abs(at(l) - l.value) <= printedHalfUnit(l.text) + 1e-6 * span)) continue;
-      const exact = labels.filter((l) => Math.abs(at(l) - l.value) <= 1e-3 * span);
-      if (exact.length < 3) continue;
-      lines.push({ k, at0: at(labels[0] as TickLabel), exact });
-      if (exact.length > best.length) best = exact;
-    }
-  }
+  forEachLine(labels, (at, k) => {
+    if (!labels.every((l) => Math.abs(at(l) - l.value) <= printedHalfUnit(l.text) + 1e-6 * span)) return;
+    const exact = labels.filter((l) => Math.abs(at(l) - l.value) <= 1e-3 * span);
+    if (exact.length < 3) return;
+    lines.push({ k, at0: at(labels[0] as TickLabel), exact });
+    if (exact.length > best.length) best = exact;
+  });
   const distinct = lines.filter((l, n) => lines.findIndex((m) => Math.abs(m.k - l.k) <= 1e-9 * Math.abs(l.k) && Math.abs(m.at0 - l.at0) <= 1e-6 * span) === n);
   if (distinct.length !== 1) return null;
   if (best.length < 3 || best.length === labels.length) return null;
