@@ -45,8 +45,18 @@ export const Anchor = z
   .refine((a) => a.x !== undefined || a.y !== undefined, 'an anchor needs an x value, a y value or both');
 export type Anchor = z.infer<typeof Anchor>;
 
+/** Who set a part of the take-off: the automatic take-off ('detected') or the engineer ('user', the default when absent). */
+export const PartOrigin = z.enum(['detected', 'user']);
+export type PartOrigin = z.infer<typeof PartOrigin>;
+
+const origin = PartOrigin.optional().describe('who set this part: detected = the automatic take-off (--detect), user = the engineer (the default)');
+const confidence = z.number().min(0).max(1).optional().describe('how sure the automatic take-off is of this part, 0 to 1');
+
 export const Panel = z.strictObject({
   id: z.string().min(1),
+  origin,
+  confidence,
+  quantity: TakeoffQuantity.optional().describe('what the panel plots, as the automatic take-off read it from the axis title'),
   anchors: z.array(Anchor).min(1),
   x_scale: AxisScaleType.default('linear'),
   y_scale: AxisScaleType.default('linear'),
@@ -72,6 +82,8 @@ export const CaptureMethod = z.enum(['auto', 'vector', 'raster']);
 export const Trace = z
   .strictObject({
     id: z.string().optional(),
+    origin,
+    confidence,
     panel: z.string().min(1),
     quantity: TakeoffQuantity,
     diameter: positive.optional().describe('impeller diameter in units.diameter'),
@@ -127,8 +139,33 @@ export const Takeoff = z.strictObject({
   traces: z.array(Trace).min(1),
   min_flow: positive.optional().describe('minimum continuous flow of the pump, in units.flow (at pump.speed_rpm for a speed family)'),
   notes: z.array(z.string()).optional(),
+  diameters: z.array(positive).min(1).optional().describe('for the automatic take-off: the impeller diameters drawn, in units.diameter, when the sheet does not print them beside its curves'),
+  speeds: z.array(positive).min(1).optional().describe('for the automatic take-off: the speeds drawn (rpm), when the sheet does not print them beside its curves'),
+  iso_levels: z.array(finite.refine((v) => v > 0 && v < 100, 'must lie between 0 and 100 %')).min(1).optional().describe('for the automatic take-off: every efficiency level (%) drawn as iso-lines, when the sheet does not label each line'),
+  detected: z
+    .strictObject({
+      by: z.string().describe('what found the parts, with its version'),
+      questions: z.array(z.string()).describe('what the automatic take-off could not decide and asks the engineer (empty when it is sure of everything)'),
+    })
+    .optional()
+    .describe('provenance of an automatic take-off: each panel and trace it found carries origin "detected"'),
 });
 export type Takeoff = z.infer<typeof Takeoff>;
+
+/**
+ * A take-off file for the automatic take-off (`takeoff --detect`): panels and traces are
+ * optional, since the detector finds them; the rest is as in a full take-off.
+ */
+export const TakeoffToDetect = Takeoff.extend({
+  panels: z.array(Panel).optional(),
+  traces: z.array(Trace).optional(),
+});
+export type TakeoffToDetect = z.infer<typeof TakeoffToDetect>;
+
+/** Validates a take-off file for `--detect` (panels and traces may be absent). Throws ZodError or TakeoffError. */
+export function parseTakeoffToDetect(raw: unknown): TakeoffToDetect {
+  return TakeoffToDetect.parse(migrateTakeoff(raw));
+}
 export type TakeoffInput = z.input<typeof Takeoff>;
 
 /** Thrown when a take-off file cannot be used; the message says what to fix. */

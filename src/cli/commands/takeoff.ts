@@ -9,7 +9,8 @@ import { basename, dirname, isAbsolute, resolve } from 'node:path';
 import { ZodError } from 'zod';
 import { replayTakeoff, type TraceOutcome } from '../../digitize/takeoff.ts';
 import { loadSheetFileNode } from '../../digitize/loaders/sheetNode.ts';
-import { parseTakeoff, TakeoffError, TAKEOFF_FORMAT, TAKEOFF_VERSION } from '../../model/takeoff.ts';
+import { parseTakeoff, parseTakeoffToDetect, TakeoffError, TAKEOFF_FORMAT, TAKEOFF_VERSION, type Takeoff } from '../../model/takeoff.ts';
+import { detectTakeoff } from '../../digitize/detect/detect.ts';
 import { stringifyCurveSet } from '../../model/curvesetIO.ts';
 import { describeZodError, EXIT_FAILED_CHECKS, EXIT_OK, InputError, runCommand } from '../errors.ts';
 import { emitReport, isStdio, progressLine, readText, writeTextAtomic } from '../io.ts';
@@ -21,6 +22,7 @@ interface TakeoffOptions {
   useCaptured?: boolean;
   quiet?: boolean;
   json?: boolean;
+  detect?: boolean;
 }
 
 export function register(program: Command): void {
@@ -33,6 +35,7 @@ export function register(program: Command): void {
     .option('--use-captured', 'use the points saved in the take-off file instead of capturing again')
     .option('-q, --quiet', 'print nothing but errors')
     .option('--json', 'print the report (traces, figures, findings) as JSON')
+    .option('--detect', 'find the panels and traces on a vector PDF sheet (the file needs only sheet, page, pump.speed_rpm and units); with --save-points the completed take-off is written back')
     .action((file: string, options: TakeoffOptions) => runCommand(() => takeoff(file, options)));
 }
 
@@ -46,7 +49,7 @@ async function takeoff(file: string, o: TakeoffOptions): Promise<number> {
   }
   let parsed;
   try {
-    parsed = parseTakeoff(raw);
+    parsed = o.detect ? parseTakeoffToDetect(raw) : parseTakeoff(raw);
   } catch (error) {
     if (error instanceof ZodError) throw new InputError(describeZodError(error, `The take-off file "${file}"`));
     throw error;
@@ -57,6 +60,10 @@ async function takeoff(file: string, o: TakeoffOptions): Promise<number> {
   progress.step(`loading ${basename(sheetPath)}`);
   const sheet = await loadSheetFileNode(sheetPath, { page: parsed.page });
   try {
+    const detected = o.detect ? await detectTakeoff(parsed, raw as Record<string, unknown>, sheet) : null; // automatic take-off: src/digitize/detect
+    if (detected) [parsed, raw] = [detected.takeoff, detected.document];
+    for (const q of detected?.questions ?? []) process.stderr.write(`Question: ${q}\n`);
+    parsed = parsed as Takeoff;
     progress.step(`capturing ${parsed.traces.length} trace${parsed.traces.length === 1 ? '' : 's'}, fitting and checking`);
     const result = await replayTakeoff(parsed, sheet, { takeoffName: isStdio(file) ? 'standard input' : basename(file), sheetFile: basename(sheetPath), useCaptured: o.useCaptured ?? false });
     progress.done();
@@ -72,7 +79,7 @@ async function takeoff(file: string, o: TakeoffOptions): Promise<number> {
         return `${formatReport(result.curveSet)}Traces — ${summary}\nWrote ${target}${o.savePoints ? ` and the captured points into ${file}` : ''}\n`;
       },
     );
-    return result.curveSet.findings.some((f) => f.severity === 'fail') ? EXIT_FAILED_CHECKS : EXIT_OK;
+    return result.curveSet.findings.some((f) => f.severity === 'fail') || (detected?.questions.length ?? 0) > 0 ? EXIT_FAILED_CHECKS : EXIT_OK;
   } finally {
     progress.done();
     await sheet.close();

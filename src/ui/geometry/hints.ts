@@ -5,6 +5,9 @@
  * the engineer can see and change; nothing is taken without being shown.
  */
 import type { Quantity } from '../../model/curveset.ts';
+import { curveLabel, quantityOfTitle, SHEET_NUMBER as NUMBER, sheetNumber as toNumber } from '../../digitize/detect/words.ts';
+
+export { quantityOfTitle }; // the title rules live in the core, shared with the automatic take-off
 
 export interface TextItem {
   text: string;
@@ -23,12 +26,6 @@ export interface SheetHints {
   units?: { flow?: string; head?: string; power?: string; npsh?: string };
 }
 
-const NUMBER = String.raw`(\d{1,3}(?:[ ,]\d{3})+|\d+(?:[.,]\d+)?)`;
-
-function toNumber(text: string): number {
-  return Number(text.replace(/[ ,](?=\d{3}\b)/g, '').replace(',', '.'));
-}
-
 export function readHints(items: readonly TextItem[]): SheetHints {
   const all = items.map((t) => t.text).join(' \n ');
   const hints: SheetHints = {};
@@ -39,11 +36,8 @@ export function readHints(items: readonly TextItem[]): SheetHints {
   }
   const diameters = new Map<string, number[]>();
   for (const t of items) {
-    const m = new RegExp(`^(?:Ø|⌀|D\\s*=?)?\\s*${NUMBER}\\s*(mm|in|")$`, 'i').exec(t.text.trim());
-    if (!m) continue;
-    const unit = (m[2] as string).toLowerCase() === 'mm' ? 'mm' : 'in';
-    const v = toNumber(m[1] as string);
-    if (v > 0) diameters.set(unit, [...(diameters.get(unit) ?? []), v]);
+    const label = curveLabel(t.text);
+    if (label?.kind === 'diameter') diameters.set(label.unit, [...(diameters.get(label.unit) ?? []), label.value]);
   }
   const best = [...diameters.entries()].map(([u, vs]) => [u, [...new Set(vs)].sort((a, b) => b - a)] as const).sort((a, b) => b[1].length - a[1].length)[0];
   if (best && best[1].length >= 2 && best[1].length <= 10) {
@@ -63,15 +57,6 @@ export function readHints(items: readonly TextItem[]): SheetHints {
   else if (titled(/power/i, /\bkW\b/i)) units.power = 'kW';
   if (Object.keys(units).length) hints.units = units;
   return hints;
-}
-
-/** What a title says a panel plots, or null. */
-export function quantityOfTitle(text: string): Quantity | null {
-  if (/npsh/i.test(text)) return 'npshr';
-  if (/power|\bbhp\b|\bkW\b|\bhp\b/i.test(text)) return 'power';
-  if (/effic|η/i.test(text)) return 'efficiency';
-  if (/head|\bTDH\b|H\s*\(/i.test(text)) return 'head';
-  return null;
 }
 
 /**

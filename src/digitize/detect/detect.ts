@@ -1,0 +1,172 @@
+/**
+ * The automatic take-off of a vector sheet: panels with their calibrations and quantities,
+ * every curve with its diameter (or speed) or iso level, each with a confidence, and the
+ * questions the detector asks instead of guessing. `detectTakeoff` turns a minimal take-off
+ * (sheet, page, pump speed, units) into a complete one whose found parts carry origin
+ * "detected"; the replay (takeoff.ts) then reads it like any other.
+ *
+ * Pure: the sheet arrives through the Sheet interface. Scans and photos are not read yet.
+ */
+import { TakeoffError, parseTakeoff, type Takeoff, type TakeoffToDetect } from '../../model/takeoff.ts';
+import { fromSI, parseUnit, toSI, type QuantityKind } from '../../units/index.ts';
+import { QUANTITY_KIND } from '../../units/quantityUnits.ts';
+import type { Sheet, SheetText, VectorPath } from '../sheet.ts';
+import { sortCurves, type FoundCurve } from './curves.ts';
+import { assignLabels, describe, type GivenValues, type Labelled } from './labels.ts';
+import { sheetLines } from './lines.ts';
+import { findPanels, type FoundPanel } from './panels.ts';
+
+export const DETECTOR = 'pumpscribe detect 1 (vector sheets)';
+
+export interface Detection {
+  panels: FoundPanel[];
+  curves: FoundCurve[];
+  labelled: Labelled[];
+  family: 'diameter' | 'speed';
+  /** Unit of the curve labels ('mm', 'in', 'rpm'), null when none was read. */
+  labelUnit: string | null;
+  /** Proposals of tick labels that belonged to no frame. */
+  droppedProposals: number;
+  questions: string[];
+}
+
+/** Everything the detector finds on a vector page. */
+export function detectSheet(text: readonly SheetText[], paths: readonly VectorPath[], given?: GivenValues, isoLevels?: readonly number[]): Detection {
+  const found = findPanels(text, paths);
+  const { curves, questions: curveQuestions } = sortCurves(found.panels, sheetLines(paths));
+  const labels = assignLabels(curves, text, given, isoLevels);
+  return {
+    panels: found.panels,
+    curves,
+    labelled: labels.labelled,
+    family: labels.family,
+    labelUnit: labels.unit,
+    droppedProposals: found.dropped,
+    questions: [...found.questions, ...curveQuestions, ...labels.questions],
+  };
+}
+
+export interface DetectedTakeoff {
+  /** The complete take-off, validated. */
+  takeoff: Takeoff;
+  /** The same as a document to save (the input's fields kept, panels and traces added). */
+  document: Record<string, unknown>;
+  detection: Detection;
+  questions: string[];
+}
+
+const r4 = (v: number) => Math.round(v * 1e4) / 1e4;
+
+/** Unit token of a title for a kind, or null when the title names none this tool knows. */
+function unitToken(kind: QuantityKind, token: string | null): string | null {
+  if (token === null) return null;
+  try {
+    return parseUnit(kind, token).token;
+  } catch {
+    return null;
+  }
+}
+
+/**
+ * Completes a minimal take-off from the sheet. Panels and traces the engineer set (origin
+ * absent or "user") are kept, and a curve the engineer traced is not added again; parts of an
+ * earlier detection (origin "detected") are found afresh, so --detect can run again on a saved
+ * take-off.
+ * Throws TakeoffError when the sheet is not a vector page or nothing could be found.
+ */
+export async function detectTakeoff(input: TakeoffToDetect, raw: Record<string, unknown>, sheet: Sheet): Promise<DetectedTakeoff> {
+  if (sheet.kind !== 'vector-pdf') {
+    throw new TakeoffError(`The automatic take-off reads vector PDF sheets only for now, and this sheet is ${sheet.kind === 'image' ? 'an image' : 'a scanned PDF page'}; give the panels and traces in the take-off file.`);
+  }
+  // Values the engineer gave for a sheet that prints none, in the take-off's diameter unit (or rpm).
+  const dUnit = parseUnit('diameter', input.units.diameter).token;
+  const given: GivenValues | undefined = input.speeds
+    ? { family: 'speed', values: input.speeds, unit: 'rpm' }
+    : input.diameters && (dUnit === 'mm' || dUnit === 'in')
+      ? { family: 'diameter', values: input.diameters, unit: dUnit }
+      : undefined;
+  const detection = detectSheet(await sheet.text(), await sheet.paths(), given, input.iso_levels);
+  const questions = [...detection.questions];
+  // Parts the engineer set stay; parts found by an earlier detection are found again.
+  const userPanels = (input.panels ?? []).filter((p) => p.origin !== 'detected');
+  const userTraces = (input.traces ?? []).filter((t) => t.origin !== 'detected');
+  const userKeys = new Set(userTraces.map((t) => `${t.quantity}|${t.iso !== undefined ? `iso ${t.iso}` : (t.diameter ?? t.speed)}`));
+  const units = input.units;
+
+  const panels: NonNullable<TakeoffToDetect['panels']> = [...userPanels];
+  const panelIds = new Map<FoundPanel, string>();
+  for (const p of detection.panels) {
+    if (p.quantity === null) continue;
+    if (!detection.labelled.some((l) => l.curve.panel === p) && p.quantity !== 'head') {
+      // A panel without a curve adds nothing; keep it out of the take-off.
+      continue;
+    }
+    const id = panels.some((k) => k.id === p.id) ? `${p.id}-detected` : p.id;
+    panelIds.set(p, id);
+    const x = unitToken('flow', p.xUnit);
+    const y = p.quantity === 'efficiency' ? '%' : unitToken(QUANTITY_KIND[p.quantity], p.yUnit);
+    if (p.xUnit !== null && x === null) questions.push(`The flow title "${p.flowTitle}" of panel "${id}" names a unit this tool does not know; the take-off's flow unit ${units.flow} is used.`);
+    if (p.xUnit === null) questions.push(`Panel "${id}" has no flow title with a unit; the take-off's flow unit ${units.flow} is used.`);
+    panels.push({
+      id,
+      origin: 'detected',
+      confidence: p.confidence,
+      quantity: p.quantity,
+      anchors: p.proposal.anchors.map((a) => ({ at: [r4(a.at[0]), r4(a.at[1])] as [number, number], ...(a.x !== undefined ? { x: a.x } : {}), ...(a.y !== undefined ? { y: a.y } : {}) })),
+      x_scale: p.proposal.xScale,
+      y_scale: p.proposal.yScale,
+      frame: p.frame.map(r4) as [number, number, number, number],
+      ...(x || y ? { units: { ...(x ? { x } : {}), ...(y ? { y } : {}) } } : {}),
+    });
+  }
+
+  const diameterUnit = parseUnit('diameter', units.diameter);
+  const valueOf = (l: Labelled): number => {
+    if (l.curve.kind === 'iso' || detection.family === 'speed' || detection.labelUnit === null) return l.value;
+    const from = parseUnit('diameter', detection.labelUnit);
+    return Number(fromSI(toSI(l.value, from), diameterUnit).toPrecision(10));
+  };
+  // Efficiency from iso-lines needs every iso-line of the panel: levels missing on some lines
+  // would leave the curves resting on part of their crossings, so the panel's iso-lines wait.
+  const isoWaiting = new Set<FoundPanel>();
+  for (const c of detection.curves) if (c.kind === 'iso' && !detection.labelled.some((l) => l.curve === c)) isoWaiting.add(c.panel);
+  for (const p of isoWaiting) questions.push(`The efficiency read from the iso-lines of panel "${p.id}" is left out until every iso-line there has its level; answer the questions about them, or trace them by hand.`);
+  const traces: NonNullable<TakeoffToDetect['traces']> = [...userTraces];
+  const ids = new Set(traces.map((t) => t.id));
+  for (const l of [...detection.labelled].sort((a, b) => a.curve.id - b.curve.id)) {
+    const panel = panelIds.get(l.curve.panel);
+    if (!panel || (l.curve.kind === 'iso' && isoWaiting.has(l.curve.panel))) continue;
+    const value = valueOf(l);
+    if (userKeys.has(`${l.curve.quantity}|${l.curve.kind === 'iso' ? `iso ${value}` : value}`)) continue; // the engineer's own trace of it wins
+    let id = l.curve.kind === 'iso' ? `iso-${value}` : `${l.curve.quantity}-${value}`;
+    for (let k = 2; ids.has(id); k++) id = `${l.curve.kind === 'iso' ? `iso-${value}` : `${l.curve.quantity}-${value}`}-${k}`;
+    ids.add(id);
+    traces.push({
+      id,
+      origin: 'detected',
+      confidence: l.confidence,
+      panel,
+      quantity: l.curve.quantity,
+      ...(l.curve.kind === 'iso' ? { iso: value } : detection.family === 'speed' ? { speed: value } : { diameter: value }),
+      // Exact geometry of the drawn path: saved as captured vector points, as a vector capture saves them.
+      captured: l.curve.points.map((p) => [r4(p[0]), r4(p[1])] as [number, number]),
+      captured_by: 'vector',
+      method: 'vector',
+    });
+  }
+  if (!traces.some((t) => t.iso === undefined)) {
+    const why = questions.length > 0 ? ` It asks: ${questions.join(' ')}` : '';
+    throw new TakeoffError(`The automatic take-off found no curve whose diameter or speed it could name on page ${input.page} (${detection.panels.length} panels, ${detection.curves.length} lines).${why}`);
+  }
+  const document: Record<string, unknown> = {
+    ...raw,
+    sheet_sha256: sheet.sha256,
+    panels,
+    traces,
+    detected: { by: DETECTOR, questions },
+  };
+  const takeoff = parseTakeoff(document);
+  return { takeoff, document, detection, questions };
+}
+
+export { describe as describeCurve };

@@ -1,0 +1,84 @@
+/**
+ * The levels of iso-lines a sheet does not label, from the ones it does (inferIsoLevels) or
+ * from the full list of levels the engineer gives (levelsByOrder). Both rest on the order of
+ * the lines along the flow axis; see each function for what it takes as certain.
+ */
+import type { SheetPoint } from '../points.ts';
+import type { FoundCurve } from './curves.ts';
+
+/**
+ * Levels of unlabelled iso-lines from the labelled ones of the same panel. Along the flow axis
+ * efficiency rises to the best point and falls again, so iso-lines ordered by flow carry rising
+ * levels on the left branch and falling ones on the right, and sheets draw them at one even
+ * step. Only what these facts make certain is inferred:
+ * - a labelled line is surely on the left branch when a line right of it has a higher level or
+ *   the same level (the other branch of that level), and on the right branch the other way round;
+ * - the step comes from neighbouring lines both surely on one branch, and all such pairs agree;
+ * - an unlabelled line takes a level only between two sure lines of one branch (and the count
+ *   of lines between them fits the step), or beyond the outermost sure line of a branch, away
+ *   from the peak. Lines near the peak, where the branch is unclear, stay questions.
+ */
+export function inferIsoLevels(lines: readonly FoundCurve[], known: ReadonlyMap<FoundCurve, number>): Map<FoundCurve, number> {
+  const out = new Map<FoundCurve, number>();
+  const order = byFlow(lines);
+  const marks = order.map((c, i) => ({ i, v: known.get(c) })).filter((m): m is { i: number; v: number } => m.v !== undefined);
+  const isLeft = (m: { i: number; v: number }) => marks.some((o) => o.i > m.i && o.v >= m.v);
+  const isRight = (m: { i: number; v: number }) => marks.some((o) => o.i < m.i && o.v >= m.v);
+  const left = marks.filter((m) => isLeft(m) && !isRight(m));
+  const right = marks.filter((m) => isRight(m) && !isLeft(m));
+  // Levels must rise along the left branch and fall along the right one.
+  if (left.some((m, k) => k > 0 && m.v <= left[k - 1]!.v) || right.some((m, k) => k > 0 && m.v >= right[k - 1]!.v)) return out;
+  const steps: number[] = [];
+  for (const branch of [left, right]) for (let k = 1; k < branch.length; k++) if (branch[k]!.i === branch[k - 1]!.i + 1) steps.push(Math.abs(branch[k]!.v - branch[k - 1]!.v));
+  const step = steps[0];
+  if (step === undefined || !(step > 0) || steps.some((s) => Math.abs(s - step) > 1e-6 * step)) return out;
+  const fits = (a: { i: number; v: number }, b: { i: number; v: number }) => Math.abs(Math.abs(b.v - a.v) - step * (b.i - a.i)) <= 1e-6 * step;
+  order.forEach((c, i) => {
+    if (known.has(c)) return;
+    let v: number | null = null;
+    const l0 = left[0];
+    const rN = right[right.length - 1];
+    const la = [...left].reverse().find((m) => m.i < i);
+    const lb = left.find((m) => m.i > i);
+    const ra = [...right].reverse().find((m) => m.i < i);
+    const rb = right.find((m) => m.i > i);
+    if (la && lb && fits(la, lb) && !marks.some((m) => m.i > la.i && m.i < lb.i)) v = la.v + step * (i - la.i);
+    else if (ra && rb && fits(ra, rb) && !marks.some((m) => m.i > ra.i && m.i < rb.i)) v = ra.v - step * (i - ra.i);
+    else if (l0 && i < l0.i && !marks.some((m) => m.i < l0.i)) v = l0.v - step * (l0.i - i);
+    else if (rN && i > rN.i && !marks.some((m) => m.i > rN.i)) v = rN.v - step * (i - rN.i);
+    if (v !== null && v > 0 && v < 100) out.set(c, Math.round(v * 1e6) / 1e6);
+  });
+  return out;
+}
+
+/**
+ * Levels of a panel's iso-lines from the full list of levels drawn (the engineer's answer):
+ * ordered by flow, the first lines are the rising branch, one per level, lowest first; the
+ * rest are the falling branch from the highest level down (a falling branch of a low level may
+ * run past the end of the curves and be missing, never one of a high level). Null when the
+ * count of lines does not fit the list, or a level read from a label disagrees.
+ */
+export function levelsByOrder(lines: readonly FoundCurve[], levels: readonly number[], known: ReadonlyMap<FoundCurve, number>): Map<FoundCurve, number> | null {
+  const list = [...new Set(levels)].sort((a, b) => a - b);
+  const order = byFlow(lines);
+  if (order.length < list.length || order.length > 2 * list.length) return null;
+  const out = new Map<FoundCurve, number>();
+  order.forEach((c, i) => out.set(c, i < list.length ? (list[i] as number) : (list[list.length - 1 - (i - list.length)] as number)));
+  for (const [c, v] of known) if (out.has(c) && out.get(c) !== v) return null;
+  return out;
+}
+
+/**
+ * Iso-lines in the order they cross the smallest head curve, left to right: each line's end
+ * lower on the sheet (less head) is where it meets the smallest impeller's curve, which every
+ * iso-line reaches, while a falling branch may stop short of the largest impeller's curve at
+ * the end of the curves.
+ */
+function byFlow(lines: readonly FoundCurve[]): FoundCurve[] {
+  const low = (c: FoundCurve) => {
+    const a = c.points[0] as SheetPoint;
+    const b = c.points[c.points.length - 1] as SheetPoint;
+    return a[1] >= b[1] ? a[0] : b[0];
+  };
+  return [...lines].sort((a, b) => low(a) - low(b));
+}

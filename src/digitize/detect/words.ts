@@ -1,0 +1,66 @@
+/**
+ * What the words of a sheet say: which quantity an axis title names and in which unit, which
+ * titles name the flow axis, and which short texts label a curve (an impeller diameter such as
+ * "330 mm", 13 in or 12.5", a speed such as "1450 rpm") or an iso-line ("75 %"). Pure text
+ * rules; where the words sit is for the callers. The workbench's sheet hints read the same rules.
+ */
+import type { Quantity } from '../../model/curveset.ts';
+
+/** A number as sheets print it: 1,450 or 1 450 or 12.5 or 12,5. */
+export const SHEET_NUMBER = String.raw`(\d{1,3}(?:[ ,]\d{3})+|\d+(?:[.,]\d+)?)`;
+
+/** The value of a number as printed (thousands separators dropped, a decimal comma read as a point). */
+export function sheetNumber(text: string): number {
+  return Number(text.replace(/[ ,](?=\d{3}\b)/g, '').replace(',', '.'));
+}
+
+/** True when a title names the flow axis (flow, capacity, Q), not a plotted quantity. */
+export function isFlowTitle(text: string): boolean {
+  return /\bflow\b|\bcapacity\b|^\s*Q\b|\bQ\s*[([]/i.test(text) && !/npsh|power|effic|head/i.test(text);
+}
+
+/** What a title says a panel plots, or null. */
+export function quantityOfTitle(text: string): Quantity | null {
+  if (isFlowTitle(text)) return null;
+  if (/npsh/i.test(text)) return 'npshr';
+  if (/power|\bbhp\b|\bkW\b|\bhp\b/i.test(text)) return 'power';
+  if (/effic|η/i.test(text)) return 'efficiency';
+  if (/head|\bTDH\b|H\s*\(/i.test(text)) return 'head';
+  return null;
+}
+
+/** The unit a title names in brackets ("Head (ft)" → "ft", "Flow Q [m³/h]" → "m³/h"), or null. */
+export function unitOfTitle(text: string): string | null {
+  const all = [...text.matchAll(/[([]\s*([^()[\]]+?)\s*[)\]]/g)];
+  const last = all.at(-1);
+  return last ? (last[1] as string) : null;
+}
+
+export interface CurveLabel {
+  kind: 'diameter' | 'speed';
+  value: number;
+  /** 'mm' or 'in' for a diameter, 'rpm' for a speed. */
+  unit: 'mm' | 'in' | 'rpm';
+}
+
+/** A diameter or speed label ("Ø330 mm", "13 in", "12.5\"", "1450 rpm"), or null. */
+export function curveLabel(text: string): CurveLabel | null {
+  const t = text.trim();
+  const d = new RegExp(`^(?:Ø|⌀|D\\s*=?)?\\s*${SHEET_NUMBER}\\s*(mm|in|")$`, 'i').exec(t);
+  if (d) {
+    const value = sheetNumber(d[1] as string);
+    return value > 0 ? { kind: 'diameter', value, unit: (d[2] as string).toLowerCase() === 'mm' ? 'mm' : 'in' } : null;
+  }
+  const s = new RegExp(`^(?:n\\s*=?\\s*)?${SHEET_NUMBER}\\s*(?:rpm|r/min|min-1|min⁻¹|1/min)$`, 'i').exec(t);
+  if (s) {
+    const value = sheetNumber(s[1] as string);
+    return value >= 100 && value <= 30000 ? { kind: 'speed', value, unit: 'rpm' } : null;
+  }
+  return null;
+}
+
+/** The level of an iso-efficiency label ("75%", "75 %", "η 75 %"), or null. */
+export function isoLabel(text: string): number | null {
+  const m = /^(?:η\s*=?\s*)?(\d{1,2}(?:[.,]\d+)?)\s*%$/.exec(text.trim());
+  return m ? sheetNumber(m[1] as string) : null;
+}

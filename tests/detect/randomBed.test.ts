@@ -1,0 +1,55 @@
+/**
+ * The automatic take-off on vector sheets of the independent random bed (committed fixtures
+ * printed by Chromium from scripts/randomSheets): from sheet, page, speed and units alone it
+ * finds every panel, every curve with its diameter and every iso level the plan drew, asks
+ * nothing, and every detected curve lies within 0.1 % of its axis span of the exact family at
+ * 15–95 % of the curve's flow range.
+ */
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { detectTakeoff } from '../../src/digitize/detect/detect.ts';
+import { calibrate } from '../../src/digitize/calibration.ts';
+import { loadPdfSheetNode } from '../../src/digitize/loaders/pdfNode.ts';
+import { parseTakeoffToDetect } from '../../src/model/takeoff.ts';
+import { Dice } from '../../scripts/randomSheets/dice.ts';
+import { planSheet } from '../../scripts/randomSheets/plan.ts';
+import { drawnRange, exact } from '../../scripts/randomSheets/pumpFamily.ts';
+import { minimalTakeoff } from '../../scripts/detectSheets/vectorSheet.ts';
+
+const FIXTURES = join(import.meta.dirname, 'fixtures');
+
+describe.each([2, 9, 19, 24])('random vector sheet %i', (seed) => {
+  it('is read whole: every panel, curve, diameter and iso level, each curve within 0.1 % of span', { timeout: 180_000 }, async () => {
+    const plan = planSheet(new Dice(seed));
+    const sheet = await loadPdfSheetNode(new Uint8Array(readFileSync(join(FIXTURES, `random-${seed}.pdf`))), { name: `random-${seed}.pdf` });
+    try {
+      const raw = minimalTakeoff(plan, `random-${seed}.pdf`);
+      const found = await detectTakeoff(parseTakeoffToDetect(raw), raw, sheet);
+      expect(found.questions).toEqual([]);
+      expect(found.detection.panels.map((p) => p.quantity).sort()).toEqual(plan.panels.map((p) => p.quantity).sort());
+      const want = plan.lines.map((l) => (l.iso !== undefined ? `iso ${l.iso}` : `${l.quantity} ${l.diameter}`)).sort();
+      const got = found.takeoff.traces.map((t) => (t.iso !== undefined ? `iso ${t.iso}` : `${t.quantity} ${t.diameter}`)).sort();
+      expect(got).toEqual(want);
+      for (const t of found.takeoff.traces) {
+        if (t.diameter === undefined) continue;
+        const panel = found.takeoff.panels.find((p) => p.id === t.panel)!;
+        const drawn = plan.panels.find((p) => p.quantity === t.quantity)!;
+        const cal = calibrate(panel.anchors, { xScale: panel.x_scale, yScale: panel.y_scale });
+        const [a, b] = drawnRange(plan.family, t.quantity, t.diameter);
+        let worst = 0;
+        let inRange = 0;
+        for (const p of t.captured ?? []) {
+          const [q, v] = cal.toData(p as never);
+          if (q < a + 0.15 * (b - a) || q > a + 0.95 * (b - a)) continue;
+          inRange++;
+          worst = Math.max(worst, (100 * Math.abs(v - exact(plan.family, t.quantity, t.diameter, q))) / (drawn.y.max - drawn.y.min));
+        }
+        expect(inRange, `${t.id} points in range`).toBeGreaterThan(20);
+        expect(worst, `${t.id}: worst ${worst.toFixed(4)} % of span`).toBeLessThan(0.1);
+      }
+    } finally {
+      await sheet.close();
+    }
+  });
+});

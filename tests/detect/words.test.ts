@@ -1,0 +1,44 @@
+import { describe, expect, it } from 'vitest';
+import { curveLabel, isFlowTitle, isoLabel, quantityOfTitle, unitOfTitle } from '../../src/digitize/detect/words.ts';
+
+describe('sheet words', () => {
+  it('quantityOfTitle names what an axis title plots, and nothing for the flow axis', () => {
+    expect(quantityOfTitle('Head (ft)')).toBe('head');
+    expect(quantityOfTitle('Total head H [m]')).toBe('head');
+    expect(quantityOfTitle('Efficiency (%)')).toBe('efficiency');
+    expect(quantityOfTitle('Shaft power (kW)')).toBe('power');
+    expect(quantityOfTitle('NPSHr (m)')).toBe('npshr');
+    expect(quantityOfTitle('Flow Q (m3/h)')).toBeNull();
+    expect(quantityOfTitle('Flow (gpm)')).toBeNull();
+  });
+
+  it('isFlowTitle tells the flow axis title from value titles', () => {
+    expect(isFlowTitle('Flow Q (m3/h)')).toBe(true);
+    expect(isFlowTitle('Capacity [gpm]')).toBe(true);
+    expect(isFlowTitle('Q (L/s)')).toBe(true);
+    expect(isFlowTitle('Head (m)')).toBe(false);
+  });
+
+  it('unitOfTitle reads the unit in brackets', () => {
+    expect(unitOfTitle('Head (ft)')).toBe('ft');
+    expect(unitOfTitle('Flow Q [m³/h]')).toBe('m³/h');
+    expect(unitOfTitle('Head')).toBeNull();
+  });
+
+  it('curveLabel reads diameters in mm or inches and speeds, and refuses other text', () => {
+    expect(curveLabel('330 mm')).toEqual({ kind: 'diameter', value: 330, unit: 'mm' });
+    expect(curveLabel('Ø 250mm')).toEqual({ kind: 'diameter', value: 250, unit: 'mm' });
+    expect(curveLabel('13 in')).toEqual({ kind: 'diameter', value: 13, unit: 'in' });
+    expect(curveLabel('12.25"')).toEqual({ kind: 'diameter', value: 12.25, unit: 'in' });
+    expect(curveLabel('1,450 rpm')).toEqual({ kind: 'speed', value: 1450, unit: 'rpm' });
+    expect(curveLabel('75%')).toBeNull();
+    expect(curveLabel('Head (m)')).toBeNull();
+  });
+
+  it('isoLabel reads an efficiency level, and refuses diameters and plain numbers', () => {
+    expect(isoLabel('75%')).toBe(75);
+    expect(isoLabel('82.5 %')).toBe(82.5);
+    expect(isoLabel('330 mm')).toBeNull();
+    expect(isoLabel('75')).toBeNull();
+  });
+});
