@@ -14,7 +14,7 @@ import type { RasterImage } from '../raster.ts';
 import { checkRasterSize, DEFAULT_SHEET_LIMITS, SheetError, type Sheet, type SheetLimits } from '../sheet.ts';
 import { damagedImage, readImageHeader, type ImageHeader } from './imageHeader.ts';
 import { imageSheet } from './imageSheet.ts';
-import { decodeJpeg, decodePng, PngNotStreamable, type DecodedImage } from './imageDecode.ts';
+import { decodeNative, decodePng, PngNotStreamable, type DecodedImage } from './imageDecode.ts';
 
 /** Largest image accepted at all (pixels of the file, before reduction): about A3 at 900 dpi, or A2 at 600 dpi. */
 export const MAX_SOURCE_PIXELS = 150_000_000;
@@ -53,24 +53,6 @@ function checkHeader(bytes: Uint8Array, name: string, limits: SheetLimits, maxSo
   }
 }
 
-/** JPEGs and interlaced PNGs: decoded by the canvas library, in this process, drawn at the working size. */
-async function decodeWithCanvas(bytes: Uint8Array, width: number, height: number): Promise<DecodedImage> {
-  const { createCanvas, loadImage } = await import('@napi-rs/canvas'); // loaded only when needed: it is a native library
-  const image = await loadImage(Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength));
-  const canvas = createCanvas(width, height);
-  const ctx = canvas.getContext('2d');
-  ctx.fillStyle = '#ffffff';
-  ctx.fillRect(0, 0, width, height);
-  if (width === image.width && height === image.height) {
-    ctx.drawImage(image, 0, 0); // at scale 1 no filter touches the pixels, as in the browser
-  } else {
-    ctx.imageSmoothingEnabled = true;
-    ctx.imageSmoothingQuality = 'high';
-    ctx.drawImage(image, 0, 0, width, height);
-  }
-  return { width, height, data: new Uint8ClampedArray(ctx.getImageData(0, 0, width, height).data) };
-}
-
 /**
  * Decodes a PNG or JPEG file into RGBA pixels, at scale 1 or reduced to the working limit.
  * Throws SheetError for unusable files.
@@ -87,17 +69,15 @@ export async function loadImageRasterNode(bytes: Uint8Array, options: ImageNodeO
         decoded = await decodePng(bytes, size.width, size.height);
       } catch (error) {
         if (!(error instanceof PngNotStreamable)) throw error;
-        decoded = await decodeWithCanvas(bytes, size.width, size.height);
+        decoded = await decodeNative(bytes, header.width, header.height, size.width, size.height);
       }
     } else {
-      // JPEG decoders round differently. The browser decodes with libjpeg-turbo, and so does the
-      // canvas library here, so the workbench and the headless replay follow the same pixels and
-      // give the same curve set (the JavaScript decoder in imageDecode.ts differed by up to 1 %
-      // of a curve's domain on the committed sample scan).
-      // The JavaScript decoder reads the whole file first: a damaged or hostile JPEG is refused
-      // there with a sentence, before the native decoder (which may crash on one) sees it.
-      await decodeJpeg(bytes, size.width, size.height);
-      decoded = await decodeWithCanvas(bytes, size.width, size.height);
+      // JPEG decoders round differently. The browser decodes with libjpeg-turbo, and so does
+      // decodeNative here (the same pixels as the canvas library's decoder, checked by the tests),
+      // so the workbench and the headless replay follow the same pixels and give the same curve
+      // set (a JavaScript decoder differed by up to 1 % of a curve's domain on a sample scan).
+      // The header was checked above; a damaged body is refused by the decoder with a sentence.
+      decoded = await decodeNative(bytes, header.width, header.height, size.width, size.height);
     }
   } catch (error) {
     throw damagedImage(name, header.format, error);
