@@ -11,7 +11,8 @@ import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import sharp from 'sharp';
 import { decodeNative, decodePng } from '../../src/digitize/loaders/imageDecode.ts';
-import { loadImageRasterNode, loadImageSheetNode, workingSize } from '../../src/digitize/loaders/imageNode.ts';
+import { loadImageRasterNode, loadImageSheetNode, readImageRegionNode, workingSize } from '../../src/digitize/loaders/imageNode.ts';
+import { SheetError } from '../../src/digitize/sheet.ts';
 import { seededRandom } from '../../src/demo/random.ts';
 
 function drawing(width: number, height: number, seed: number) {
@@ -127,4 +128,56 @@ describe('decoding in this process', () => {
     expect([sheet.width, sheet.height]).toEqual([w, h]);
     expect((await sheet.render(1)).scale).toBeCloseTo(size.scale, 12);
   }, 60_000);
+
+  it('the working size divides by the smallest whole factor: A3 at 600 dpi is read at 300 dpi', () => {
+    expect(workingSize(3508, 4961, 40e6)).toEqual({ width: 3508, height: 4961, scale: 1, factor: 1 }); // A3 at 300 dpi: as it is
+    const a3 = workingSize(7016, 9921, 40e6); // A3 at 600 dpi, 69.6 megapixels
+    expect([a3.width, a3.height, a3.factor]).toEqual([3508, 4961, 2]);
+    const biggest = workingSize(10000, 15000, 40e6); // 150 megapixels, the largest file accepted
+    expect(biggest.factor).toBe(2);
+    expect(biggest.width * biggest.height).toBeLessThanOrEqual(40e6);
+    expect(workingSize(13000, 13000, 40e6).factor).toBe(3); // 169 Mpx (over the file limit; the rule alone): 1/2 would leave 42.3 Mpx
+  });
+
+  it('a JPEG over the working limit is reduced inside the decoder, keeps its thin lines, and the user is told', async () => {
+    // The limit is lowered to 1 megapixel so that a small file stands for an archive scan.
+    const [w, h] = [2000, 1500];
+    const canvas = createCanvas(w, h);
+    const ctx = canvas.getContext('2d');
+    ctx.fillStyle = '#ffffff';
+    ctx.fillRect(0, 0, w, h);
+    ctx.fillStyle = '#000000';
+    ctx.fillRect(0, 701, w, 2); // a 2-pixel line, as a 0.1 mm line at 600 dpi
+    ctx.fillStyle = '#d00000';
+    ctx.fillRect(1201, 0, 3, h); // a 3-pixel red curve stand-in
+    const bytes = new Uint8Array(canvas.toBuffer('image/jpeg', 92));
+    const notes: string[] = [];
+    const limits = { maxBytes: 50 * 1024 * 1024, maxPixels: 1_000_000 };
+    const image = await loadImageRasterNode(bytes, { limits, name: 'archive.jpg', onNote: (n) => notes.push(n) });
+    expect([image.width, image.height, image.scale]).toEqual([1000, 750, 0.5]);
+    expect(notes).toHaveLength(1);
+    expect(notes[0]).toMatch(/^The image "archive\.jpg" is 2000 × 1500 pixels \(3\.0 megapixels\), over the working limit, so it was read at 1\/2 of its resolution \(1000 × 750, 0\.8 megapixels; a 600-dpi scan is read at 300 dpi\); .*crop the file/);
+    expect(notes[0]!.split('. ').length).toBe(1); // one sentence
+    const px = (x: number, y: number) => [...image.data.subarray((y * 1000 + x) * 4, (y * 1000 + x) * 4 + 3)];
+    // The black line (rows 701–702) straddles working rows 350 and 351: it fades to about half, but stays where it was.
+    expect(Math.min(Math.max(...px(300, 350)), Math.max(...px(300, 351)))).toBeLessThan(160);
+    expect(Math.max(...px(300, 348))).toBeGreaterThan(230); // paper two rows away
+    const red = px(601, 200); // x 1201–1203 → 600.5–601.5
+    expect(red[0]! - red[1]!).toBeGreaterThan(60); // still red, not washed out to paper
+    expect(px(300, 200)).toEqual([255, 255, 255].map((v) => expect.closeTo(v, -1.5) as unknown as number));
+  });
+
+  it('a region re-read at full resolution is the same pixels as the whole file decoded', async () => {
+    const bytes = new Uint8Array(drawing(640, 480, 9).toBuffer('image/jpeg', 90));
+    const whole = await loadImageRasterNode(bytes);
+    const region = await readImageRegionNode(bytes, { left: 101, top: 57, width: 200, height: 120 });
+    expect([region.width, region.height, region.scale]).toEqual([200, 120, 1]);
+    for (let y = 0; y < 120; y++) {
+      const a = region.data.subarray(y * 200 * 4, (y + 1) * 200 * 4);
+      const b = whole.data.subarray(((57 + y) * 640 + 101) * 4, ((57 + y) * 640 + 301) * 4);
+      expect(Buffer.compare(Buffer.from(a), Buffer.from(b))).toBe(0);
+    }
+    await expect(readImageRegionNode(bytes, { left: 600, top: 0, width: 100, height: 10 })).rejects.toThrow(SheetError);
+    await expect(readImageRegionNode(bytes, { left: 600, top: 0, width: 100, height: 10 })).rejects.toThrow(/not inside the image of 640 × 480 pixels; choose a region on the page\.$/);
+  });
 });

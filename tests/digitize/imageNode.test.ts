@@ -79,6 +79,24 @@ describe('loading a scan in Node', () => {
     expect(process.memoryUsage().arrayBuffers - before).toBeLessThan(16 * 1024 * 1024); // nothing page-sized was allocated
   });
 
+  it('refuses a JPEG bomb (30000 × 30000 in its frame header) before decoding', async () => {
+    const bytes = picture(8, 8, 'jpeg');
+    for (let i = 2; i + 9 < bytes.length; i++) {
+      if (bytes[i] === 0xff && bytes[i + 1] === 0xc0) {
+        const view = new DataView(bytes.buffer, bytes.byteOffset + i);
+        view.setUint16(5, 30000); // height
+        view.setUint16(7, 30000); // width
+        break;
+      }
+    }
+    const before = process.memoryUsage();
+    const error = await refusal(loadImageRasterNode(bytes, { name: 'bomb.jpg' }));
+    expect(error.message).toMatch(/bomb\.jpg.*30000 × 30000 pixels \(900\.0 megapixels\), over the 150 megapixel limit; scan the page again at 300 to 600 dpi, or split it into parts, and load that\.$/);
+    const after = process.memoryUsage();
+    expect(after.arrayBuffers - before.arrayBuffers).toBeLessThan(16 * 1024 * 1024);
+    expect(after.rss - before.rss).toBeLessThan(64 * 1024 * 1024); // a decode would take 3.6 GB
+  });
+
   it('refuses a file that is neither PNG nor JPEG', async () => {
     const error = await refusal(loadImageRasterNode(new TextEncoder().encode('hello, not an image')));
     expect(error.message).toMatch(/neither a PNG nor a JPEG/);

@@ -55,7 +55,8 @@ async function takeoff(file: string, o: TakeoffOptions): Promise<number> {
   const sheetPath = isAbsolute(parsed.sheet) ? parsed.sheet : resolve(isStdio(file) ? '.' : dirname(file), parsed.sheet);
   const progress = progressLine(!o.quiet && !o.json && process.stderr.isTTY === true && !process.env.CI);
   progress.step(`loading ${basename(sheetPath)}`);
-  const sheet = await loadSheetFileNode(sheetPath, { page: parsed.page });
+  const notes: string[] = [];
+  const sheet = await loadSheetFileNode(sheetPath, { page: parsed.page, onNote: (sentence) => notes.push(sentence) });
   try {
     progress.step(`capturing ${parsed.traces.length} trace${parsed.traces.length === 1 ? '' : 's'}, fitting and checking`);
     const result = await replayTakeoff(parsed, sheet, { takeoffName: isStdio(file) ? 'standard input' : basename(file), sheetFile: basename(sheetPath), useCaptured: o.useCaptured ?? false });
@@ -65,11 +66,12 @@ async function takeoff(file: string, o: TakeoffOptions): Promise<number> {
     const traces = result.traces.map((t) => ({ id: t.id, points: t.points.length, how: t.fromFile ? 'saved' : t.how, notes: t.notes }));
     emitReport(
       o,
-      () => reportJson(result.curveSet, o.output, { sheet: { file: basename(sheetPath), kind: sheet.kind, sha256: sheet.sha256 }, traces }),
+      () => reportJson(result.curveSet, o.output, { sheet: { file: basename(sheetPath), kind: sheet.kind, sha256: sheet.sha256, ...(notes.length ? { notes } : {}) }, traces }),
       () => {
         const summary = traces.map((t) => `${t.id}: ${t.points} points (${t.how})`).join(', ');
         const target = isStdio(o.output) ? 'the curve set to standard output' : o.output;
-        return `${formatReport(result.curveSet)}Traces — ${summary}\nWrote ${target}${o.savePoints ? ` and the captured points into ${file}` : ''}\n`;
+        const read = notes.map((n) => `Note: ${n}\n`).join('');
+        return `${formatReport(result.curveSet)}${read}Traces — ${summary}\nWrote ${target}${o.savePoints ? ` and the captured points into ${file}` : ''}\n`;
       },
     );
     return result.curveSet.findings.some((f) => f.severity === 'fail') ? EXIT_FAILED_CHECKS : EXIT_OK;

@@ -282,64 +282,41 @@ function nativeJpeg(): Promise<Sharp> {
 }
 
 /**
- * Decodes a JPEG (or a PNG that the streaming decoder above leaves aside: interlaced) of `srcWidth` × `srcHeight` into a `width` × `height` RGBA raster (the source
- * size, or smaller). libjpeg-turbo decodes it, the library browsers use, with the same settings
- * as the canvas library (exact integer IDCT, smooth chroma upsampling): the workbench and the
- * headless replay follow the same pixels. The pixels arrive as a stream of RGB rows in page
- * order and go straight into the working raster (averaged when it is smaller), so the peak is
- * the raster itself plus a few rows — never a second page-sized copy.
+ * Decodes a JPEG (or a PNG that the streaming decoder above leaves aside: interlaced) of
+ * `srcWidth` × `srcHeight` into a `width` × `height` RGBA raster (the file's size, or smaller by
+ * a whole factor). libjpeg-turbo decodes it, the library browsers use, with the same settings as
+ * the canvas library (exact integer IDCT, smooth chroma upsampling; the tests compare pixel for
+ * pixel): the workbench and the headless replay follow the same pixels. The library writes the
+ * RGBA raster itself, reading the file in strips, so the peak is the raster plus a few strips.
+ * A page reduced on load is scaled down inside the decoder (libjpeg-turbo's 1/2, 1/4, 1/8 block
+ * scaling, a low-pass reduction: thin lines fade but never vanish), and any factor left over is
+ * an area-weighted reduction; the file's full-resolution pixels are never held at once.
  */
 export async function decodeNative(bytes: Uint8Array, srcWidth: number, srcHeight: number, width: number, height: number): Promise<DecodedImage> {
+  let pipeline = await nativePipeline(bytes, srcWidth, srcHeight);
+  if (width !== srcWidth || height !== srcHeight) pipeline = pipeline.resize(width, height, { fit: 'fill', kernel: 'linear', fastShrinkOnLoad: true });
+  return rgbaOf(pipeline, width, height);
+}
+
+/** Decodes the region `r` of the file at full resolution (decoding in strips, keeping only the region). */
+export async function decodeNativeRegion(bytes: Uint8Array, srcWidth: number, srcHeight: number, r: { left: number; top: number; width: number; height: number }): Promise<DecodedImage> {
+  return rgbaOf((await nativePipeline(bytes, srcWidth, srcHeight)).extract(r), r.width, r.height);
+}
+
+async function nativePipeline(bytes: Uint8Array, srcWidth: number, srcHeight: number) {
   const sharp = await nativeJpeg();
-  const sink = new RowSink(srcWidth, srcHeight, width, height);
-  const rowBytes = srcWidth * 3;
-  const rgb = new Uint8Array(rowBytes);
-  const rgba = new Uint8Array(srcWidth * 4).fill(255);
-  let filled = 0;
-  const pushRow = (row: Uint8Array): void => {
-    for (let x = 0, i = 0, o = 0; x < srcWidth; x++, i += 3, o += 4) {
-      rgba[o] = row[i] as number;
-      rgba[o + 1] = row[i + 1] as number;
-      rgba[o + 2] = row[i + 2] as number;
-    }
-    sink.push(rgba);
-  };
-  await new Promise<void>((resolve, reject) => {
-    const stream = sharp(Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength), {
-      sequentialRead: true,
-      failOn: 'warning', // a damaged or cut-off file is an error, not a grey band
-      limitInputPixels: srcWidth * srcHeight, // the size the header promised, checked again by the library
-    })
-      .flatten({ background: { r: 255, g: 255, b: 255 } }) // transparent areas on white paper (PNG)
-      .toColourspace('srgb') // grey scans come out as RGB too
-      .removeAlpha()
-      .raw();
-    stream.on('data', (chunk: Buffer) => {
-      try {
-        let at = 0;
-        while (at < chunk.length && sink.rowsSeen < srcHeight) {
-          if (filled === 0 && chunk.length - at >= rowBytes) {
-            pushRow(chunk.subarray(at, at + rowBytes));
-            at += rowBytes;
-            continue;
-          }
-          const take = Math.min(rowBytes - filled, chunk.length - at);
-          rgb.set(chunk.subarray(at, at + take), filled);
-          filled += take;
-          at += take;
-          if (filled === rowBytes) {
-            pushRow(rgb);
-            filled = 0;
-          }
-        }
-      } catch (error) {
-        stream.destroy();
-        reject(error);
-      }
-    });
-    stream.on('error', reject);
-    stream.on('end', () => resolve());
-  });
-  if (sink.rowsSeen !== srcHeight) throw new Error(`the image data holds ${sink.rowsSeen} of ${srcHeight} rows`);
-  return { width, height, data: sink.data };
+  return sharp(Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength), {
+    sequentialRead: true,
+    failOn: 'warning', // a damaged or cut-off file is an error, not a grey band
+    limitInputPixels: srcWidth * srcHeight, // the size the header promised, checked again by the library
+  })
+    .flatten({ background: { r: 255, g: 255, b: 255 } }) // transparent areas on white paper (PNG)
+    .toColourspace('srgb'); // grey scans come out as RGB too
+}
+
+async function rgbaOf(pipeline: import('sharp').Sharp, width: number, height: number): Promise<DecodedImage> {
+  const { data, info } = await pipeline.ensureAlpha(1).raw().toBuffer({ resolveWithObject: true });
+  if (info.width !== width || info.height !== height || info.channels !== 4) throw new Error(`the image data holds ${info.width} × ${info.height} pixels of ${info.channels} channels`);
+  // The library's own output buffer is the raster: no copy.
+  return { width, height, data: new Uint8ClampedArray(data.buffer, data.byteOffset, data.byteLength) };
 }

@@ -14,7 +14,7 @@ import type { RasterImage } from '../raster.ts';
 import { checkRasterSize, DEFAULT_SHEET_LIMITS, SheetError, type Sheet, type SheetLimits } from '../sheet.ts';
 import { damagedImage, readImageHeader, type ImageHeader } from './imageHeader.ts';
 import { imageSheet } from './imageSheet.ts';
-import { decodeNative, decodePng, PngNotStreamable, type DecodedImage } from './imageDecode.ts';
+import { decodeNative, decodeNativeRegion, decodePng, PngNotStreamable, type DecodedImage } from './imageDecode.ts';
 
 /** Largest image accepted at all (pixels of the file, before reduction): about A3 at 900 dpi, or A2 at 600 dpi. */
 export const MAX_SOURCE_PIXELS = 150_000_000;
@@ -25,20 +25,33 @@ export interface ImageNodeOptions {
   name?: string;
   /** Largest image accepted before reduction, pixels (default MAX_SOURCE_PIXELS). */
   maxSourcePixels?: number;
+  /** Told one sentence when the page was read at a reduced resolution (see reductionNote). */
+  onNote?: (sentence: string) => void;
 }
 
-/** The working size of an image: its own, or reduced evenly to fit within `maxPixels`. */
-export function workingSize(width: number, height: number, maxPixels: number): { width: number; height: number; scale: number } {
-  if (width * height <= maxPixels) return { width, height, scale: 1 };
-  let scale = Math.sqrt(maxPixels / (width * height));
-  let w = Math.max(1, Math.floor(width * scale));
-  let h = Math.max(1, Math.floor(height * scale));
-  while (w * h > maxPixels) {
-    scale *= 0.999;
-    w = Math.max(1, Math.floor(width * scale));
-    h = Math.max(1, Math.floor(height * scale));
-  }
-  return { width: w, height: h, scale: w / width };
+/**
+ * The working size of an image: its own, or reduced by the smallest whole factor k (2, 3, …)
+ * that brings it within `maxPixels`. A whole factor keeps k × k file pixels in each working
+ * pixel, so an archive scan at 600 dpi is read at 300 dpi (A3: 69.6 → 17.4 megapixels), a
+ * resolution that resolves a 0.25 mm drawn line (3 pixels) and is what scans are taken at anyway.
+ */
+export function workingSize(width: number, height: number, maxPixels: number): { width: number; height: number; scale: number; factor: number } {
+  if (width * height <= maxPixels) return { width, height, scale: 1, factor: 1 };
+  let k = Math.max(2, Math.ceil(Math.sqrt((width * height) / maxPixels)));
+  while (Math.ceil(width / k) * Math.ceil(height / k) > maxPixels) k++;
+  const w = Math.ceil(width / k);
+  const h = Math.ceil(height / k);
+  return { width: w, height: h, scale: w / width, factor: k };
+}
+
+/** The sentence that tells the user a page was read at a reduced resolution, and what follows from it. */
+export function reductionNote(name: string, header: { width: number; height: number }, size: { width: number; height: number; factor: number }): string {
+  const mp = (w: number, h: number) => ((w * h) / 1e6).toFixed(1);
+  return (
+    `${name} is ${header.width} × ${header.height} pixels (${mp(header.width, header.height)} megapixels), over the working limit, so it was read at 1/${size.factor} of its resolution ` +
+    `(${size.width} × ${size.height}, ${mp(size.width, size.height)} megapixels; a 600-dpi scan is read at ${Math.round(600 / size.factor)} dpi); ` +
+    `anchors, guides and points stay in the file's own pixels; for a finer trace, crop the file to the chart and take that off.`
+  );
 }
 
 /** The header check, with the limit of the source raster and a message that says what to do. */
@@ -58,6 +71,10 @@ function checkHeader(bytes: Uint8Array, name: string, limits: SheetLimits, maxSo
  * Throws SheetError for unusable files.
  */
 export async function loadImageRasterNode(bytes: Uint8Array, options: ImageNodeOptions = {}): Promise<RasterImage> {
+  return (await loadChecked(bytes, options)).image;
+}
+
+async function loadChecked(bytes: Uint8Array, options: ImageNodeOptions): Promise<{ header: ImageHeader; image: RasterImage }> {
   const limits = options.limits ?? DEFAULT_SHEET_LIMITS;
   const name = options.name ? `The image "${options.name}"` : 'The image';
   const header = checkHeader(bytes, name, limits, options.maxSourcePixels ?? Math.max(MAX_SOURCE_PIXELS, limits.maxPixels));
@@ -85,7 +102,8 @@ export async function loadImageRasterNode(bytes: Uint8Array, options: ImageNodeO
   if (decoded.width !== size.width || decoded.height !== size.height) {
     throw new SheetError(`${name} decodes to ${decoded.width} × ${decoded.height} pixels although its header says ${header.width} × ${header.height}; the file is damaged, so scan or export it again.`);
   }
-  return { width: decoded.width, height: decoded.height, data: decoded.data, scale: size.scale };
+  if (size.factor > 1) options.onNote?.(reductionNote(name, header, size));
+  return { header, image: { width: decoded.width, height: decoded.height, data: decoded.data, scale: size.scale } };
 }
 
 /** Resamples a raster by `factor` (smoothing when it shrinks); the result has `scale` pixels per sheet unit. */
@@ -114,9 +132,7 @@ async function resample(image: RasterImage, factor: number, limits: SheetLimits,
  */
 export async function loadImageSheetNode(bytes: Uint8Array, options: ImageNodeOptions = {}): Promise<Sheet> {
   const limits = options.limits ?? DEFAULT_SHEET_LIMITS;
-  const name = options.name ? `The image "${options.name}"` : 'The image';
-  const header = checkHeader(bytes, name, limits, options.maxSourcePixels ?? Math.max(MAX_SOURCE_PIXELS, limits.maxPixels));
-  const image = await loadImageRasterNode(bytes, options);
+  const { header, image } = await loadChecked(bytes, options);
   const sha256 = createHash('sha256').update(bytes).digest('hex');
   const sheet = imageSheet(image, sha256, (scale) => resample(image, scale / image.scale, limits, scale));
   if (image.scale === 1) return sheet;
@@ -129,4 +145,36 @@ export async function loadImageSheetNode(bytes: Uint8Array, options: ImageNodeOp
       return scale >= 1 || Math.abs(scale - image.scale) < 1e-12 ? image : resample(image, scale / image.scale, limits, scale);
     },
   };
+}
+
+/** A rectangle of an image file in its own pixels (sheet units of an image sheet). */
+export interface ImageRegion {
+  left: number;
+  top: number;
+  width: number;
+  height: number;
+}
+
+/**
+ * Re-reads a region of a PNG or JPEG file at its full resolution, for a close trace of a page
+ * that was reduced on load: the file is decoded again in strips down to the region's last row,
+ * and only the region's pixels are kept. The answer's pixel (0, 0) is the file's pixel
+ * (`region.left`, `region.top`); its `scale` is 1. The region must lie inside the file and stay
+ * within the working limit. Throws SheetError with one sentence otherwise.
+ */
+export async function readImageRegionNode(bytes: Uint8Array, region: ImageRegion, options: ImageNodeOptions = {}): Promise<RasterImage> {
+  const limits = options.limits ?? DEFAULT_SHEET_LIMITS;
+  const name = options.name ? `The image "${options.name}"` : 'The image';
+  const header = checkHeader(bytes, name, limits, options.maxSourcePixels ?? Math.max(MAX_SOURCE_PIXELS, limits.maxPixels));
+  const r = { left: Math.floor(region.left), top: Math.floor(region.top), width: Math.ceil(region.width), height: Math.ceil(region.height) };
+  if (!(r.left >= 0 && r.top >= 0 && r.width >= 1 && r.height >= 1 && r.left + r.width <= header.width && r.top + r.height <= header.height)) {
+    throw new SheetError(`The region ${r.width} × ${r.height} at (${r.left}, ${r.top}) is not inside ${name.replace(/^The/, 'the')} of ${header.width} × ${header.height} pixels; choose a region on the page.`);
+  }
+  checkRasterSize(r.width, r.height, limits, 'The region');
+  try {
+    const decoded = await decodeNativeRegion(bytes, header.width, header.height, r);
+    return { ...decoded, scale: 1 };
+  } catch (error) {
+    throw damagedImage(name, header.format, error);
+  }
 }
