@@ -7,7 +7,7 @@
 import type { Command } from 'commander';
 import { basename, dirname, isAbsolute, resolve } from 'node:path';
 import { ZodError } from 'zod';
-import { replayTakeoff, type TraceOutcome } from '../../digitize/takeoff.ts';
+import type { TraceOutcome } from '../../digitize/takeoff.ts';
 import { loadSheetFileNode } from '../../digitize/loaders/sheetNode.ts';
 import { parseTakeoff, TakeoffError, TAKEOFF_FORMAT, TAKEOFF_VERSION } from '../../model/takeoff.ts';
 import { stringifyCurveSet } from '../../model/curvesetIO.ts';
@@ -56,7 +56,11 @@ async function takeoff(file: string, o: TakeoffOptions): Promise<number> {
   const progress = progressLine(!o.quiet && !o.json && process.stderr.isTTY === true && !process.env.CI);
   progress.step(`loading ${basename(sheetPath)}`);
   const notes: string[] = [];
-  const sheet = await loadSheetFileNode(sheetPath, { page: parsed.page, onNote: (sentence) => notes.push(sentence) });
+  // The sheet decodes on a worker thread (JPEG) while the take-off code loads here: both at once.
+  const [sheet, { replayTakeoff }] = await Promise.all([
+    loadSheetFileNode(sheetPath, { page: parsed.page, onNote: (sentence) => notes.push(sentence) }),
+    import('../../digitize/takeoff.ts'),
+  ]);
   try {
     progress.step(`capturing ${parsed.traces.length} trace${parsed.traces.length === 1 ? '' : 's'}, fitting and checking`);
     const result = await replayTakeoff(parsed, sheet, { takeoffName: isStdio(file) ? 'standard input' : basename(file), sheetFile: basename(sheetPath), useCaptured: o.useCaptured ?? false });
