@@ -71,18 +71,25 @@ function startup(): { ms: number; rss: number | undefined } {
   return { ms: median(runs.takeoff!.map((c) => c.ms)), rss: Math.max(...runs.takeoff!.map((c) => c.rss ?? 0)) || undefined };
 }
 
-/** The work itself, in this process and warm: load the sheet and replay the take-off. */
-async function workItself(dir: string, takeoff: Takeoff): Promise<number> {
+/** The work itself, in this process and warm: load the sheet and replay the take-off (median wall and CPU time, ms). */
+async function workItself(dir: string, takeoff: Takeoff): Promise<{ ms: number; cpu: number }> {
   const times: number[] = [];
+  const cpus: number[] = [];
   for (let i = 0; i < 4; i++) {
+    const c0 = process.cpuUsage();
     const [, t] = await timed(async () => {
       const sheet = await loadSheetFileNode(join(dir, takeoff.sheet));
       await replayTakeoff(takeoff, sheet, { created: '2024-01-01T00:00:00Z' });
       await sheet.close();
     });
-    if (i > 0) times.push(t); // the first run warms the JIT up
+    const c = process.cpuUsage(c0);
+    if (i > 0) {
+      // the first run warms the JIT up
+      times.push(t);
+      cpus.push((c.user + c.system) / 1000);
+    }
   }
-  return median(times);
+  return { ms: median(times), cpu: median(cpus) };
 }
 
 /** Trace and capture against a native pass over the page, interleaved round by round. */
@@ -149,15 +156,17 @@ async function benchSheet(dir: string, name: string, targets: SheetTargets, star
   const failed = whole.find((r) => r.code !== 0 && r.code !== 1);
   const wall = median(whole.map((r) => r.ms));
   const rss = Math.max(...whole.map((r) => r.rss ?? 0)) || undefined;
-  const ratio = wall / work;
+  const ratio = wall / work.ms;
+  const cpus = whole.map((r) => r.cpu).filter((c): c is number => c !== undefined);
   const verdict = [
     targets.ratio !== undefined ? (ratio <= targets.ratio ? `≤ ${targets.ratio}× ok` : `over ${targets.ratio}×`) : '',
     rss === undefined ? '' : rss <= targets.rss * 2 ** 20 ? `≤ ${targets.rss} MiB ok` : `over ${targets.rss} MiB`,
   ].filter(Boolean);
   const after = wall - start.ms;
   process.stdout.write(
-    `  whole \`pumpscribe takeoff\`: ${spread(whole.map((r) => r.ms), ms)}, peak RSS ${mib(rss)}; the work itself (load and replay, in process, warm) ${ms(work)}; ratio ${x(ratio)} [${verdict.join(', ')}]${failed ? `  ← exit ${failed.code}: ${failed.stderr.trim()}` : ''}\n` +
-      `  after start-up (whole less \`takeoff --help\`, ${ms(start.ms)}): ${ms(after)}; ratio to the work itself ${x(after / work)}` +
+    `  whole \`pumpscribe takeoff\`: ${spread(whole.map((r) => r.ms), ms)}, peak RSS ${mib(rss)}; the work itself (load and replay, in process, warm) ${ms(work.ms)}; ratio ${x(ratio)} [${verdict.join(', ')}]${failed ? `  ← exit ${failed.code}: ${failed.stderr.trim()}` : ''}\n` +
+      (cpus.length ? `  CPU time (all threads; steadier on a shared machine): whole command ${ms(median(cpus))}, the work itself ${ms(work.cpu)}; ratio ${x(median(cpus) / work.cpu)}\n` : '') +
+      `  after start-up (whole less \`takeoff --help\`, ${ms(start.ms)}): ${ms(after)}; ratio to the work itself ${x(after / work.ms)}` +
       `${targets.afterStartup === undefined ? '' : after < targets.afterStartup ? ` [under ${targets.afterStartup / 1000} s ok]` : ` [over ${targets.afterStartup / 1000} s]`}\n`,
   );
   if (sheet.kind === 'image' || sheet.kind === 'raster-pdf') {
@@ -169,7 +178,7 @@ async function benchSheet(dir: string, name: string, targets: SheetTargets, star
       const source: CaptureSource = { kind: sheet.kind, lines: async () => lines, raster: async () => sheet.render(safeScale(sheet, 4)) };
       for (const t of takeoff.traces) await captureTrace({ guides: t.guides?.map(([gx, gy]) => sheetPoint(gx, gy)), points: t.points?.map(([px, py]) => sheetPoint(px, py)), method: t.method }, source);
     });
-    process.stdout.write(`  capture stage (vector paths): ${ms(capture)}, ${x(capture / work)} of the work\n`);
+    process.stdout.write(`  capture stage (vector paths): ${ms(capture)}, ${x(capture / work.ms)} of the work\n`);
   }
   await sheet.close();
   return rss;
