@@ -1,12 +1,13 @@
 /**
- * In-process decoding of PNG and JPEG scans into one RGBA raster, row by row, so that the only
- * page-sized allocation is the result itself (4 bytes a pixel at the working size):
+ * In-process decoding of PNG and JPEG scans into one RGBA raster, in strips or rows, so that the
+ * only page-sized allocation is the result itself (4 bytes a pixel at the working size):
  *  - PNG: the compressed data is inflated as a stream (node:zlib) and each row is unfiltered
  *    as it arrives (PNG specification, ISO/IEC 15948, section 9), needing two rows at a time;
- *  - JPEG: libjpeg-turbo (through the sharp package) decodes the file as a stream of rows,
- *    the same decoder and settings as the browser's, so the workbench sees the same pixels.
- * A page larger than the working size is reduced while it is decoded, by averaging the source
- * pixels that fall into each working pixel (a box filter), so thin lines fade but never vanish.
+ *    a page larger than the working size is reduced while it is decoded, by averaging the
+ *    source pixels that fall into each working pixel (a box filter), so thin lines fade but
+ *    never vanish;
+ *  - JPEG (and interlaced PNG): libjpeg-turbo, through the sharp package, writes the raster
+ *    itself (decodeNative below): the browser's decoder, so the workbench sees the same pixels.
  * Transparent areas are laid on white paper.
  *
  * The caller has checked the header (size limits) before anything here allocates.

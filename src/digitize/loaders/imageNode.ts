@@ -3,11 +3,13 @@
  *
  * The file is checked before anything is decoded: size of the file, format, and the size of
  * the raster its header announces, against MAX_SOURCE_PIXELS — a decompression bomb (say a
- * 30000 × 30000 header) is refused before a single pixel is allocated. A page over the working
- * limit (`limits.maxPixels`, 40 megapixels) is reduced while it is decoded to the largest size
- * within that limit, so that archive scans (A3 at 600 dpi, about 70 megapixels) load in
- * bounded memory; its sheet units stay the original pixels (the raster's `scale` is below 1),
- * so a take-off's anchors and guides keep their meaning. See imageDecode.ts for the decoders.
+ * 30000 × 30000 header) is refused before a single pixel is allocated, with a sentence that
+ * says what to do. A page over the working limit (`limits.maxPixels`, 40 megapixels) is read at
+ * 1/k of its resolution, k the smallest whole factor that fits (an A3 page at 600 dpi, 69.6
+ * megapixels, is read at 300 dpi), inside the decoder, so archive scans load in bounded memory;
+ * the caller is told in one sentence (`onNote`). Its sheet units stay the file's pixels (the
+ * raster's `scale` is below 1), so a take-off's anchors and guides keep their meaning, and
+ * `readImageRegionNode` re-reads any region at full resolution. See imageDecode.ts for the decoders.
  */
 import { createHash } from 'node:crypto';
 import type { RasterImage } from '../raster.ts';
