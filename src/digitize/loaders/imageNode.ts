@@ -14,12 +14,10 @@
 import { createHash } from 'node:crypto';
 import type { RasterImage } from '../raster.ts';
 import { checkRasterSize, DEFAULT_SHEET_LIMITS, SheetError, type Sheet, type SheetLimits } from '../sheet.ts';
-import { damagedImage, readImageHeader, type ImageHeader } from './imageHeader.ts';
-import { imageSheet } from './imageSheet.ts';
+import { checkSourceHeader, damagedImage, reductionNote, workingSize, type ImageHeader } from './imageHeader.ts';
+export { MAX_SOURCE_PIXELS, reductionNote, workingSize } from './imageHeader.ts';
+import { imageSheet, reducedImageSheet } from './imageSheet.ts';
 import { decodeNative, decodeNativeRegion, decodePng, PngNotStreamable, type DecodedImage } from './imageDecode.ts';
-
-/** Largest image accepted at all (pixels of the file, before reduction): about A3 at 900 dpi, or A2 at 600 dpi. */
-export const MAX_SOURCE_PIXELS = 150_000_000;
 
 export interface ImageNodeOptions {
   limits?: SheetLimits;
@@ -29,43 +27,6 @@ export interface ImageNodeOptions {
   maxSourcePixels?: number;
   /** Told one sentence when the page was read at a reduced resolution (see reductionNote). */
   onNote?: (sentence: string) => void;
-}
-
-/**
- * The working size of an image: its own, or reduced by the smallest whole factor k (2, 3, …)
- * that brings it within `maxPixels`. A whole factor keeps k × k file pixels in each working
- * pixel, so an archive scan at 600 dpi is read at 300 dpi (A3: 69.6 → 17.4 megapixels), a
- * resolution that resolves a 0.25 mm drawn line (3 pixels) and is what scans are taken at anyway.
- */
-export function workingSize(width: number, height: number, maxPixels: number): { width: number; height: number; scale: number; factor: number } {
-  if (width * height <= maxPixels) return { width, height, scale: 1, factor: 1 };
-  let k = Math.max(2, Math.ceil(Math.sqrt((width * height) / maxPixels)));
-  while (Math.ceil(width / k) * Math.ceil(height / k) > maxPixels) k++;
-  const w = Math.ceil(width / k);
-  const h = Math.ceil(height / k);
-  return { width: w, height: h, scale: w / width, factor: k };
-}
-
-/** The sentence that tells the user a page was read at a reduced resolution, and what follows from it. */
-export function reductionNote(name: string, header: { width: number; height: number }, size: { width: number; height: number; factor: number }): string {
-  const mp = (w: number, h: number) => ((w * h) / 1e6).toFixed(1);
-  return (
-    `${name} is ${header.width} × ${header.height} pixels (${mp(header.width, header.height)} megapixels), over the working limit, so it was read at 1/${size.factor} of its resolution ` +
-    `(${size.width} × ${size.height}, ${mp(size.width, size.height)} megapixels; a 600-dpi scan is read at ${Math.round(600 / size.factor)} dpi); ` +
-    `anchors, guides and points stay in the file's own pixels; for a finer trace, crop the file to the chart and take that off.`
-  );
-}
-
-/** The header check, with the limit of the source raster and a message that says what to do. */
-function checkHeader(bytes: Uint8Array, name: string, limits: SheetLimits, maxSourcePixels: number): ImageHeader {
-  try {
-    return readImageHeader(bytes, name, { ...limits, maxPixels: maxSourcePixels });
-  } catch (error) {
-    if (error instanceof SheetError && /megapixel limit/.test(error.message)) {
-      throw new SheetError(error.message.replace(/; use a smaller scale or a smaller image\.$/, '; scan the page again at 300 to 600 dpi, or split it into parts, and load that.'));
-    }
-    throw error;
-  }
 }
 
 /**
@@ -79,7 +40,7 @@ export async function loadImageRasterNode(bytes: Uint8Array, options: ImageNodeO
 async function loadChecked(bytes: Uint8Array, options: ImageNodeOptions): Promise<{ header: ImageHeader; image: RasterImage }> {
   const limits = options.limits ?? DEFAULT_SHEET_LIMITS;
   const name = options.name ? `The image "${options.name}"` : 'The image';
-  const header = checkHeader(bytes, name, limits, options.maxSourcePixels ?? Math.max(MAX_SOURCE_PIXELS, limits.maxPixels));
+  const header = checkSourceHeader(bytes, name, limits, options.maxSourcePixels);
   const size = workingSize(header.width, header.height, limits.maxPixels);
   let decoded: DecodedImage;
   try {
@@ -137,16 +98,7 @@ export async function loadImageSheetNode(bytes: Uint8Array, options: ImageNodeOp
   const { header, image } = await loadChecked(bytes, options);
   const sha256 = createHash('sha256').update(bytes).digest('hex');
   const sheet = imageSheet(image, sha256, (scale) => resample(image, scale / image.scale, limits, scale));
-  if (image.scale === 1) return sheet;
-  return {
-    ...sheet,
-    width: header.width,
-    height: header.height,
-    render: async (scale: number) => {
-      if (!(scale > 0) || !Number.isFinite(scale)) throw new SheetError(`The render scale ${scale} is not a positive number; use 1 for an image at its own resolution.`);
-      return scale >= 1 || Math.abs(scale - image.scale) < 1e-12 ? image : resample(image, scale / image.scale, limits, scale);
-    },
-  };
+  return image.scale === 1 ? sheet : reducedImageSheet(sheet, header, image, (scale) => resample(image, scale / image.scale, limits, scale));
 }
 
 /** A rectangle of an image file in its own pixels (sheet units of an image sheet). */
@@ -167,7 +119,7 @@ export interface ImageRegion {
 export async function readImageRegionNode(bytes: Uint8Array, region: ImageRegion, options: ImageNodeOptions = {}): Promise<RasterImage> {
   const limits = options.limits ?? DEFAULT_SHEET_LIMITS;
   const name = options.name ? `The image "${options.name}"` : 'The image';
-  const header = checkHeader(bytes, name, limits, options.maxSourcePixels ?? Math.max(MAX_SOURCE_PIXELS, limits.maxPixels));
+  const header = checkSourceHeader(bytes, name, limits, options.maxSourcePixels);
   const r = { left: Math.floor(region.left), top: Math.floor(region.top), width: Math.ceil(region.width), height: Math.ceil(region.height) };
   if (!(r.left >= 0 && r.top >= 0 && r.width >= 1 && r.height >= 1 && r.left + r.width <= header.width && r.top + r.height <= header.height)) {
     throw new SheetError(`The region ${r.width} × ${r.height} at (${r.left}, ${r.top}) is not inside ${name.replace(/^The/, 'the')} of ${header.width} × ${header.height} pixels; choose a region on the page.`);
