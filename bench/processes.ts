@@ -16,6 +16,8 @@ export interface ChildRun {
   ms: number;
   /** Peak resident set size, bytes (undefined without GNU time). */
   rss?: number;
+  /** CPU time, user plus system, all threads, ms (undefined without GNU time): steadier than wall time on a shared machine. */
+  cpu?: number;
   code: number | null;
   stderr: string;
 }
@@ -26,17 +28,19 @@ export function runNode(args: string[], options: { input?: string; cwd?: string 
   const report = join(dir, 'time.txt');
   const useTime = existsSync(GNU_TIME);
   const command = useTime ? GNU_TIME : process.execPath;
-  const argv = useTime ? ['-f', '%M', '-o', report, process.execPath, ...args] : args;
+  const argv = useTime ? ['-f', '%M %U %S', '-o', report, process.execPath, ...args] : args;
   const t0 = performance.now();
   const r = spawnSync(command, argv, { cwd: options.cwd ?? ROOT, input: options.input, encoding: 'utf8', maxBuffer: 1 << 28, env: { ...process.env, CI: '1' } });
   const ms = performance.now() - t0;
   let rss: number | undefined;
+  let cpu: number | undefined;
   if (useTime && existsSync(report)) {
-    const kib = Number(readFileSync(report, 'utf8').trim().split('\n').pop());
-    if (Number.isFinite(kib)) rss = kib * 1024;
+    const [kib, user, system] = (readFileSync(report, 'utf8').trim().split('\n').pop() ?? '').split(' ').map(Number);
+    if (Number.isFinite(kib)) rss = (kib as number) * 1024;
+    if (Number.isFinite(user) && Number.isFinite(system)) cpu = ((user as number) + (system as number)) * 1000;
   }
   rmSync(dir, { recursive: true, force: true });
-  return { ms, ...(rss !== undefined ? { rss } : {}), code: r.status, stderr: r.stderr };
+  return { ms, ...(rss !== undefined ? { rss } : {}), ...(cpu !== undefined ? { cpu } : {}), code: r.status, stderr: r.stderr };
 }
 
 export function median(values: number[]): number {

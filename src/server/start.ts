@@ -13,7 +13,8 @@ import { isLoopbackHost, TOKEN_ENV, tokenWeakness } from './security.ts';
 import { DEFAULT_SHEET_QUOTA, parseSize, sizeText } from './quota.ts';
 import { DIST_DIR, PROJECT_ROOT, buildWorkbench, workbenchState } from './workbench.ts';
 
-export const DEFAULT_LIBRARY_FILE = 'pumpscribe-library.sqlite';
+export { DEFAULT_LIBRARY_FILE } from '../library/defaultFile.ts';
+import { DEFAULT_LIBRARY_FILE } from '../library/defaultFile.ts';
 export const DEFAULT_HOST = '127.0.0.1';
 export const DEFAULT_PORT = 5280;
 export const DEMO_DIR = join(PROJECT_ROOT, 'samples', 'demo');

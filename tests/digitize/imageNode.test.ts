@@ -79,6 +79,24 @@ describe('loading a scan in Node', () => {
     expect(process.memoryUsage().arrayBuffers - before).toBeLessThan(16 * 1024 * 1024); // nothing page-sized was allocated
   });
 
+  it('refuses a JPEG bomb (30000 × 30000 in its frame header) before decoding', async () => {
+    const bytes = picture(8, 8, 'jpeg');
+    for (let i = 2; i + 9 < bytes.length; i++) {
+      if (bytes[i] === 0xff && bytes[i + 1] === 0xc0) {
+        const view = new DataView(bytes.buffer, bytes.byteOffset + i);
+        view.setUint16(5, 30000); // height
+        view.setUint16(7, 30000); // width
+        break;
+      }
+    }
+    const before = process.memoryUsage();
+    const error = await refusal(loadImageRasterNode(bytes, { name: 'bomb.jpg' }));
+    expect(error.message).toMatch(/bomb\.jpg.*30000 × 30000 pixels \(900\.0 megapixels\), over the 150 megapixel limit; scan the page again at 300 to 600 dpi, or split it into parts, and load that\.$/);
+    const after = process.memoryUsage();
+    expect(after.arrayBuffers - before.arrayBuffers).toBeLessThan(16 * 1024 * 1024);
+    expect(after.rss - before.rss).toBeLessThan(64 * 1024 * 1024); // a decode would take 3.6 GB
+  });
+
   it('refuses a file that is neither PNG nor JPEG', async () => {
     const error = await refusal(loadImageRasterNode(new TextEncoder().encode('hello, not an image')));
     expect(error.message).toMatch(/neither a PNG nor a JPEG/);
@@ -90,6 +108,24 @@ describe('loading a scan in Node', () => {
       const error = await refusal(loadImageRasterNode(bytes.subarray(0, Math.floor(bytes.length * 0.6))));
       expect(error.message).toMatch(/cut-off/);
     }
+  });
+
+  it('reads a JPEG with stray bytes between its segments, as browsers do', async () => {
+    const bytes = picture(64, 48, 'jpeg');
+    let sos = -1;
+    for (let i = 2; i + 1 < bytes.length; i++) {
+      if (bytes[i] === 0xff && bytes[i + 1] === 0xda) {
+        sos = i;
+        break;
+      }
+    }
+    const stray = new Uint8Array(bytes.length + 3);
+    stray.set(bytes.subarray(0, sos));
+    stray.set([0x00, 0x12, 0x34], sos);
+    stray.set(bytes.subarray(sos), sos + 3);
+    const clean = await loadImageRasterNode(bytes);
+    const image = await loadImageRasterNode(stray);
+    expect(Buffer.compare(Buffer.from(image.data), Buffer.from(clean.data))).toBe(0);
   });
 
   it('turns a JPEG with damaged tables into a sentence instead of a crash', async () => {

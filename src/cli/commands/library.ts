@@ -16,7 +16,7 @@ import { linesOf } from '../../library/lines.ts';
 import { removeLibraryFiles, restoreLibrary } from '../../library/restore.ts';
 import type { DamagedRow } from '../../library/dutySearch.ts';
 import type { EntryInfo } from '../../library/types.ts';
-import { DEFAULT_LIBRARY_FILE } from '../../server/start.ts';
+import { DEFAULT_LIBRARY_FILE } from '../../library/defaultFile.ts'; // not the server's module: it would load the web server
 import { fromSI, parseUnit, presetNamed, resolveUnits, roundSignificant, toSI, type PresetName, type Unit } from '../../units/index.ts';
 import { EXIT_FAILED_CHECKS, EXIT_OK, runCommand } from '../errors.ts';
 import { checkRevision } from '../../library/validate.ts';

@@ -7,7 +7,7 @@
 import type { Command } from 'commander';
 import { basename, dirname, isAbsolute, resolve } from 'node:path';
 import { ZodError } from 'zod';
-import { replayTakeoff, type TraceOutcome } from '../../digitize/takeoff.ts';
+import type { TraceOutcome } from '../../digitize/takeoff.ts';
 import { loadSheetFileNode } from '../../digitize/loaders/sheetNode.ts';
 import { parseTakeoff, parseTakeoffToDetect, TakeoffError, TAKEOFF_FORMAT, TAKEOFF_VERSION, type Takeoff } from '../../model/takeoff.ts';
 import { detectTakeoff } from '../../digitize/detect/detect.ts';
@@ -58,7 +58,12 @@ async function takeoff(file: string, o: TakeoffOptions): Promise<number> {
   const sheetPath = isAbsolute(parsed.sheet) ? parsed.sheet : resolve(isStdio(file) ? '.' : dirname(file), parsed.sheet);
   const progress = progressLine(!o.quiet && !o.json && process.stderr.isTTY === true && !process.env.CI);
   progress.step(`loading ${basename(sheetPath)}`);
-  const sheet = await loadSheetFileNode(sheetPath, { page: parsed.page });
+  const notes: string[] = [];
+  // The sheet decodes on a worker thread (JPEG) while the take-off code loads here: both at once.
+  const [sheet, { replayTakeoff }] = await Promise.all([
+    loadSheetFileNode(sheetPath, { page: parsed.page, onNote: (sentence) => notes.push(sentence) }),
+    import('../../digitize/takeoff.ts'),
+  ]);
   try {
     const detected = o.detect ? await detectTakeoff(parsed, raw as Record<string, unknown>, sheet) : null; // automatic take-off: src/digitize/detect
     if (detected) [parsed, raw] = [detected.takeoff, detected.document];
@@ -72,11 +77,12 @@ async function takeoff(file: string, o: TakeoffOptions): Promise<number> {
     const traces = result.traces.map((t) => ({ id: t.id, points: t.points.length, how: t.fromFile ? 'saved' : t.how, notes: t.notes }));
     emitReport(
       o,
-      () => reportJson(result.curveSet, o.output, { sheet: { file: basename(sheetPath), kind: sheet.kind, sha256: sheet.sha256 }, traces }),
+      () => reportJson(result.curveSet, o.output, { sheet: { file: basename(sheetPath), kind: sheet.kind, sha256: sheet.sha256, ...(notes.length ? { notes } : {}) }, traces }),
       () => {
         const summary = traces.map((t) => `${t.id}: ${t.points} points (${t.how})`).join(', ');
         const target = isStdio(o.output) ? 'the curve set to standard output' : o.output;
-        return `${formatReport(result.curveSet)}Traces — ${summary}\nWrote ${target}${o.savePoints ? ` and the captured points into ${file}` : ''}\n`;
+        const read = notes.map((n) => `Note: ${n}\n`).join('');
+        return `${formatReport(result.curveSet)}${read}Traces — ${summary}\nWrote ${target}${o.savePoints ? ` and the captured points into ${file}` : ''}\n`;
       },
     );
     return result.curveSet.findings.some((f) => f.severity === 'fail') || (detected?.questions.length ?? 0) > 0 ? EXIT_FAILED_CHECKS : EXIT_OK;

@@ -1,17 +1,21 @@
 /**
- * Loads a PNG or JPEG scan as a RasterImage (scale 1) and as a Sheet in the browser, with
+ * Loads a PNG or JPEG scan as a RasterImage and as a Sheet in the browser, with
  * createImageBitmap and an OffscreenCanvas. The same header checks as in Node run first, so
- * an oversized raster is refused before the browser spends memory decoding it.
+ * an oversized raster is refused before the browser spends memory decoding it, and a page over
+ * the working limit is read at the same reduced size as in Node (workingSize: 1/k of its
+ * resolution, the browser scaling it while it decodes), with the same sheet units (the file's pixels).
  */
 import type { RasterImage } from '../raster.ts';
 import { checkRasterSize, DEFAULT_SHEET_LIMITS, SheetError, type Sheet, type SheetLimits } from '../sheet.ts';
-import { damagedImage, readImageHeader } from './imageHeader.ts';
-import { imageSheet } from './imageSheet.ts';
+import { checkSourceHeader, damagedImage, reductionNote, workingSize, type ImageHeader } from './imageHeader.ts';
+import { imageSheet, reducedImageSheet } from './imageSheet.ts';
 
 export interface ImageBrowserOptions {
   limits?: SheetLimits;
   /** Name of the file for messages. */
   name?: string;
+  /** Told one sentence when the page was read at a reduced resolution. */
+  onNote?: (sentence: string) => void;
 }
 
 function drawToRaster(source: CanvasImageSource, width: number, height: number, scale: number): RasterImage {
@@ -25,20 +29,26 @@ function drawToRaster(source: CanvasImageSource, width: number, height: number, 
   return { width, height, data: ctx.getImageData(0, 0, width, height).data, scale };
 }
 
-/** Decodes a PNG or JPEG file into RGBA pixels at scale 1. Throws SheetError for unusable files. */
+/** Decodes a PNG or JPEG file into RGBA pixels, at scale 1 or reduced to the working limit. Throws SheetError for unusable files. */
 export async function loadImageRasterBrowser(bytes: Uint8Array, options: ImageBrowserOptions = {}): Promise<RasterImage> {
+  return (await loadChecked(bytes, options)).image;
+}
+
+async function loadChecked(bytes: Uint8Array, options: ImageBrowserOptions): Promise<{ header: ImageHeader; image: RasterImage }> {
   const limits = options.limits ?? DEFAULT_SHEET_LIMITS;
   const name = options.name ? `The image "${options.name}"` : 'The image';
-  const header = readImageHeader(bytes, name, limits);
+  const header = checkSourceHeader(bytes, name, limits);
+  const size = workingSize(header.width, header.height, limits.maxPixels);
   let bitmap: ImageBitmap;
   try {
     const blob = new Blob([bytes.slice()], { type: header.format === 'png' ? 'image/png' : 'image/jpeg' });
-    bitmap = await createImageBitmap(blob);
+    bitmap = await createImageBitmap(blob, size.factor > 1 ? { resizeWidth: size.width, resizeHeight: size.height, resizeQuality: 'high' } : {});
   } catch (error) {
     throw damagedImage(name, header.format, error);
   }
   try {
-    return drawToRaster(bitmap, bitmap.width, bitmap.height, 1);
+    if (size.factor > 1) options.onNote?.(reductionNote(name, header, size));
+    return { header, image: drawToRaster(bitmap, bitmap.width, bitmap.height, size.scale) };
   } finally {
     bitmap.close();
   }
@@ -52,11 +62,11 @@ async function sha256Hex(bytes: Uint8Array): Promise<string> {
 /** Opens a PNG or JPEG scan as a Sheet of kind 'image' (sheet units are the image's pixels). */
 export async function loadImageSheetBrowser(bytes: Uint8Array, options: ImageBrowserOptions = {}): Promise<Sheet> {
   const limits = options.limits ?? DEFAULT_SHEET_LIMITS;
-  const image = await loadImageRasterBrowser(bytes, options);
+  const { header, image } = await loadChecked(bytes, options);
   const sha256 = await sha256Hex(bytes);
-  return imageSheet(image, sha256, async (scale) => {
-    const w = Math.max(1, Math.round(image.width * scale));
-    const h = Math.max(1, Math.round(image.height * scale));
+  const resample = async (scale: number): Promise<RasterImage> => {
+    const w = Math.max(1, Math.round(header.width * scale));
+    const h = Math.max(1, Math.round(header.height * scale));
     checkRasterSize(w, h, limits, 'The rendered image');
     const bitmap = await createImageBitmap(new ImageData(new Uint8ClampedArray(image.data), image.width, image.height));
     try {
@@ -64,5 +74,7 @@ export async function loadImageSheetBrowser(bytes: Uint8Array, options: ImageBro
     } finally {
       bitmap.close();
     }
-  });
+  };
+  const sheet = imageSheet(image, sha256, resample);
+  return image.scale === 1 ? sheet : reducedImageSheet(sheet, header, image, resample);
 }

@@ -1,13 +1,13 @@
 /**
- * In-process decoding of PNG and JPEG scans into one RGBA raster, row by row, so that the only
- * page-sized allocation is the result itself (4 bytes a pixel at the working size):
+ * In-process decoding of PNG and JPEG scans into one RGBA raster, in strips or rows, so that the
+ * only page-sized allocation is the result itself (4 bytes a pixel at the working size):
  *  - PNG: the compressed data is inflated as a stream (node:zlib) and each row is unfiltered
  *    as it arrives (PNG specification, ISO/IEC 15948, section 9), needing two rows at a time;
- *  - JPEG: pdf.js's JPEG decoder (pure JavaScript, already used for PDFs) decodes the
- *    coefficient blocks (2 bytes a sample), and the colour rows are produced from them here
- *    one at a time (YCbCr → RGB of JFIF / ITU-T T.871), instead of pdf.js's two page-sized copies.
- * A page larger than the working size is reduced while it is decoded, by averaging the source
- * pixels that fall into each working pixel (a box filter), so thin lines fade but never vanish.
+ *    a page larger than the working size is reduced while it is decoded, by averaging the
+ *    source pixels that fall into each working pixel (a box filter), so thin lines fade but
+ *    never vanish;
+ *  - JPEG (and interlaced PNG): libjpeg-turbo, through the sharp package, writes the raster
+ *    itself (decodeNative below): the browser's decoder, so the workbench sees the same pixels.
  * Transparent areas are laid on white paper.
  *
  * The caller has checked the header (size limits) before anything here allocates.
@@ -100,7 +100,7 @@ function u32(bytes: Uint8Array, at: number): number {
 
 const CHANNELS: Record<number, number> = { 0: 1, 2: 3, 3: 1, 4: 2, 6: 4 };
 
-/** Thrown for PNG features this decoder leaves to the canvas decoder (interlaced files). */
+/** Thrown for PNG features this decoder leaves to the native decoder (interlaced files). */
 export class PngNotStreamable extends Error {}
 
 /** Decodes a PNG into a `width` × `height` RGBA raster (the source size, or smaller). */
@@ -268,98 +268,58 @@ export async function decodePng(bytes: Uint8Array, width: number, height: number
   return { width, height, data: sink.data };
 }
 
-interface JpegComponent {
-  output: Int16Array | Uint8Array;
-  scaleX: number;
-  scaleY: number;
-  blocksPerLine: number;
-}
+type Sharp = typeof import('sharp');
+let sharpModule: Promise<Sharp> | null = null;
 
-interface JpegDecoder {
-  width: number;
-  height: number;
-  numComponents: number;
-  components: JpegComponent[];
-  readonly _isColorConversionNeeded: boolean;
-  parse(data: Uint8Array): void;
-  getData(options: { width: number; height: number; forceRGBA: boolean }): Uint8ClampedArray;
-}
-
-let jpegModule: Promise<{ JpegImage: new () => JpegDecoder }> | null = null;
-
-/** Decodes a JPEG into a `width` × `height` RGBA raster (the source size, or smaller). */
-export async function decodeJpeg(bytes: Uint8Array, width: number, height: number): Promise<DecodedImage> {
-  const specifier = 'pdfjs-dist/legacy/image_decoders/pdf.image_decoders.mjs'; // ships no types; the shape used is JpegDecoder above
-  jpegModule ??= import(specifier) as Promise<{ JpegImage: new () => JpegDecoder }>;
-  const { JpegImage } = await jpegModule;
-  const jpeg = new JpegImage();
-  jpeg.parse(bytes);
-  const w = jpeg.width;
-  const h = jpeg.height;
-  const n = jpeg.numComponents;
-  if (n !== 1 && n !== 3) {
-    // CMYK and other rare layouts: pdf.js converts them itself (more memory, but such scans are rare).
-    const rgba = jpeg.getData({ width, height, forceRGBA: true });
-    return { width, height, data: new Uint8ClampedArray(rgba.buffer, rgba.byteOffset, rgba.byteLength) };
-  }
-  const convert = n === 3 && jpeg._isColorConversionNeeded;
-  const sink = new RowSink(w, h, width, height);
-  const row = new Uint8ClampedArray(w * 4);
-  // Where each column's sample sits in a component's block layout (as pdf.js lays out blocks: 8×8, row-major by block).
-  const columns = jpeg.components.map((c) => {
-    const offsets = new Uint32Array(w);
-    for (let x = 0; x < w; x++) {
-      const j = Math.floor(x * c.scaleX);
-      offsets[x] = ((j & ~7) << 3) | (j & 7);
-    }
-    return offsets;
+/** The native JPEG library, loaded on the first JPEG (a take-off of a PDF never loads it). */
+function nativeJpeg(): Promise<Sharp> {
+  sharpModule ??= import('sharp').then((m) => {
+    const sharp = ((m as { default?: Sharp }).default ?? m) as Sharp;
+    sharp.cache(false); // one decode per file: no cache of decoded images kept around
+    sharp.concurrency(1); // the machines are shared; one thread decodes a JPEG in about 0.1 s per 8 megapixels
+    return sharp;
   });
-  const [c0, c1, c2] = jpeg.components as [JpegComponent, JpegComponent?, JpegComponent?];
-  const out0 = c0.output;
-  const col0 = columns[0] as Uint32Array;
-  const rowStart = (c: JpegComponent, y: number) => {
-    const j = Math.floor(y * c.scaleY);
-    return ((c.blocksPerLine + 1) << 3) * (j & ~7) + ((j & 7) << 3);
-  };
-  for (let y = 0; y < h; y++) {
-    const s0 = rowStart(c0, y);
-    if (n === 1) {
-      for (let x = 0; x < w; x++) {
-        const v = out0[s0 + (col0[x] as number)] as number;
-        const o = x * 4;
-        row[o] = v;
-        row[o + 1] = v;
-        row[o + 2] = v;
-        row[o + 3] = 255;
-      }
-    } else {
-      const out1 = (c1 as JpegComponent).output;
-      const out2 = (c2 as JpegComponent).output;
-      const col1 = columns[1] as Uint32Array;
-      const col2 = columns[2] as Uint32Array;
-      const s1 = rowStart(c1 as JpegComponent, y);
-      const s2 = rowStart(c2 as JpegComponent, y);
-      for (let x = 0; x < w; x++) {
-        const a = out0[s0 + (col0[x] as number)] as number;
-        const b = out1[s1 + (col1[x] as number)] as number;
-        const c = out2[s2 + (col2[x] as number)] as number;
-        const o = x * 4;
-        if (convert) {
-          // JFIF YCbCr → RGB (ITU-T T.871, section 7); the row is a clamped array, so 0…255 holds.
-          const cb = b - 128;
-          const cr = c - 128;
-          row[o] = a + 1.402 * cr;
-          row[o + 1] = a - 0.344136 * cb - 0.714136 * cr;
-          row[o + 2] = a + 1.772 * cb;
-        } else {
-          row[o] = a;
-          row[o + 1] = b;
-          row[o + 2] = c;
-        }
-        row[o + 3] = 255;
-      }
-    }
-    sink.push(row);
-  }
-  return { width, height, data: sink.data };
+  return sharpModule;
+}
+
+/**
+ * Decodes a JPEG (or a PNG that the streaming decoder above leaves aside: interlaced) of
+ * `srcWidth` × `srcHeight` into a `width` × `height` RGBA raster (the file's size, or smaller by
+ * a whole factor). libjpeg-turbo decodes it, the library browsers use, with the same settings as
+ * the canvas library (exact integer IDCT, smooth chroma upsampling; the tests compare pixel for
+ * pixel): the workbench and the headless replay follow the same pixels. The library writes the
+ * RGBA raster itself, reading the file in strips, so the peak is the raster plus a few strips.
+ * A page reduced on load is scaled down inside the decoder (libjpeg-turbo's 1/2, 1/4, 1/8 block
+ * scaling, a low-pass reduction: thin lines fade but never vanish), and any factor left over is
+ * an area-weighted reduction; the file's full-resolution pixels are never held at once.
+ */
+export async function decodeNative(bytes: Uint8Array, srcWidth: number, srcHeight: number, width: number, height: number): Promise<DecodedImage> {
+  let pipeline = await nativePipeline(bytes, srcWidth, srcHeight);
+  if (width !== srcWidth || height !== srcHeight) pipeline = pipeline.resize(width, height, { fit: 'fill', kernel: 'linear', fastShrinkOnLoad: true });
+  return rgbaOf(pipeline, width, height);
+}
+
+/** Decodes the region `r` of the file at full resolution (decoding in strips, keeping only the region). */
+export async function decodeNativeRegion(bytes: Uint8Array, srcWidth: number, srcHeight: number, r: { left: number; top: number; width: number; height: number }): Promise<DecodedImage> {
+  return rgbaOf((await nativePipeline(bytes, srcWidth, srcHeight)).extract(r), r.width, r.height);
+}
+
+async function nativePipeline(bytes: Uint8Array, srcWidth: number, srcHeight: number) {
+  const sharp = await nativeJpeg();
+  return sharp(Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength), {
+    sequentialRead: true,
+    // A damaged file is an error; a warning (stray bytes between segments, common from some
+    // scanners) is not, as browsers show such files too. Cut-off files were refused from the header.
+    failOn: 'error',
+    limitInputPixels: srcWidth * srcHeight, // the size the header promised, checked again by the library
+  })
+    .flatten({ background: { r: 255, g: 255, b: 255 } }) // transparent areas on white paper (PNG)
+    .toColourspace('srgb'); // grey scans come out as RGB too
+}
+
+async function rgbaOf(pipeline: import('sharp').Sharp, width: number, height: number): Promise<DecodedImage> {
+  const { data, info } = await pipeline.ensureAlpha(1).raw().toBuffer({ resolveWithObject: true });
+  if (info.width !== width || info.height !== height || info.channels !== 4) throw new Error(`the image data holds ${info.width} × ${info.height} pixels of ${info.channels} channels`);
+  // The library's own output buffer is the raster: no copy.
+  return { width, height, data: new Uint8ClampedArray(data.buffer, data.byteOffset, data.byteLength) };
 }

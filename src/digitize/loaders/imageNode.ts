@@ -3,21 +3,21 @@
  *
  * The file is checked before anything is decoded: size of the file, format, and the size of
  * the raster its header announces, against MAX_SOURCE_PIXELS — a decompression bomb (say a
- * 30000 × 30000 header) is refused before a single pixel is allocated. A page over the working
- * limit (`limits.maxPixels`, 40 megapixels) is reduced while it is decoded to the largest size
- * within that limit, so that archive scans (A3 at 600 dpi, about 70 megapixels) load in
- * bounded memory; its sheet units stay the original pixels (the raster's `scale` is below 1),
- * so a take-off's anchors and guides keep their meaning. See imageDecode.ts for the decoders.
+ * 30000 × 30000 header) is refused before a single pixel is allocated, with a sentence that
+ * says what to do. A page over the working limit (`limits.maxPixels`, 40 megapixels) is read at
+ * 1/k of its resolution, k the smallest whole factor that fits (an A3 page at 600 dpi, 69.6
+ * megapixels, is read at 300 dpi), inside the decoder, so archive scans load in bounded memory;
+ * the caller is told in one sentence (`onNote`). Its sheet units stay the file's pixels (the
+ * raster's `scale` is below 1), so a take-off's anchors and guides keep their meaning, and
+ * `readImageRegionNode` re-reads any region at full resolution. See imageDecode.ts for the decoders.
  */
 import { createHash } from 'node:crypto';
 import type { RasterImage } from '../raster.ts';
 import { checkRasterSize, DEFAULT_SHEET_LIMITS, SheetError, type Sheet, type SheetLimits } from '../sheet.ts';
-import { damagedImage, readImageHeader, type ImageHeader } from './imageHeader.ts';
-import { imageSheet } from './imageSheet.ts';
-import { decodeJpeg, decodePng, PngNotStreamable, type DecodedImage } from './imageDecode.ts';
-
-/** Largest image accepted at all (pixels of the file, before reduction): about A3 at 900 dpi, or A2 at 600 dpi. */
-export const MAX_SOURCE_PIXELS = 150_000_000;
+import { checkSourceHeader, damagedImage, reductionNote, workingSize, type ImageHeader } from './imageHeader.ts';
+export { MAX_SOURCE_PIXELS, reductionNote, workingSize } from './imageHeader.ts';
+import { imageSheet, reducedImageSheet } from './imageSheet.ts';
+import { decodeNative, decodeNativeRegion, decodePng, PngNotStreamable, type DecodedImage } from './imageDecode.ts';
 
 export interface ImageNodeOptions {
   limits?: SheetLimits;
@@ -25,50 +25,8 @@ export interface ImageNodeOptions {
   name?: string;
   /** Largest image accepted before reduction, pixels (default MAX_SOURCE_PIXELS). */
   maxSourcePixels?: number;
-}
-
-/** The working size of an image: its own, or reduced evenly to fit within `maxPixels`. */
-export function workingSize(width: number, height: number, maxPixels: number): { width: number; height: number; scale: number } {
-  if (width * height <= maxPixels) return { width, height, scale: 1 };
-  let scale = Math.sqrt(maxPixels / (width * height));
-  let w = Math.max(1, Math.floor(width * scale));
-  let h = Math.max(1, Math.floor(height * scale));
-  while (w * h > maxPixels) {
-    scale *= 0.999;
-    w = Math.max(1, Math.floor(width * scale));
-    h = Math.max(1, Math.floor(height * scale));
-  }
-  return { width: w, height: h, scale: w / width };
-}
-
-/** The header check, with the limit of the source raster and a message that says what to do. */
-function checkHeader(bytes: Uint8Array, name: string, limits: SheetLimits, maxSourcePixels: number): ImageHeader {
-  try {
-    return readImageHeader(bytes, name, { ...limits, maxPixels: maxSourcePixels });
-  } catch (error) {
-    if (error instanceof SheetError && /megapixel limit/.test(error.message)) {
-      throw new SheetError(error.message.replace(/; use a smaller scale or a smaller image\.$/, '; scan the page again at 300 to 600 dpi, or split it into parts, and load that.'));
-    }
-    throw error;
-  }
-}
-
-/** JPEGs and interlaced PNGs: decoded by the canvas library, in this process, drawn at the working size. */
-async function decodeWithCanvas(bytes: Uint8Array, width: number, height: number): Promise<DecodedImage> {
-  const { createCanvas, loadImage } = await import('@napi-rs/canvas'); // loaded only when needed: it is a native library
-  const image = await loadImage(Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength));
-  const canvas = createCanvas(width, height);
-  const ctx = canvas.getContext('2d');
-  ctx.fillStyle = '#ffffff';
-  ctx.fillRect(0, 0, width, height);
-  if (width === image.width && height === image.height) {
-    ctx.drawImage(image, 0, 0); // at scale 1 no filter touches the pixels, as in the browser
-  } else {
-    ctx.imageSmoothingEnabled = true;
-    ctx.imageSmoothingQuality = 'high';
-    ctx.drawImage(image, 0, 0, width, height);
-  }
-  return { width, height, data: new Uint8ClampedArray(ctx.getImageData(0, 0, width, height).data) };
+  /** Told one sentence when the page was read at a reduced resolution (see reductionNote). */
+  onNote?: (sentence: string) => void;
 }
 
 /**
@@ -76,9 +34,13 @@ async function decodeWithCanvas(bytes: Uint8Array, width: number, height: number
  * Throws SheetError for unusable files.
  */
 export async function loadImageRasterNode(bytes: Uint8Array, options: ImageNodeOptions = {}): Promise<RasterImage> {
+  return (await loadChecked(bytes, options)).image;
+}
+
+async function loadChecked(bytes: Uint8Array, options: ImageNodeOptions): Promise<{ header: ImageHeader; image: RasterImage }> {
   const limits = options.limits ?? DEFAULT_SHEET_LIMITS;
   const name = options.name ? `The image "${options.name}"` : 'The image';
-  const header = checkHeader(bytes, name, limits, options.maxSourcePixels ?? Math.max(MAX_SOURCE_PIXELS, limits.maxPixels));
+  const header = checkSourceHeader(bytes, name, limits, options.maxSourcePixels);
   const size = workingSize(header.width, header.height, limits.maxPixels);
   let decoded: DecodedImage;
   try {
@@ -87,17 +49,15 @@ export async function loadImageRasterNode(bytes: Uint8Array, options: ImageNodeO
         decoded = await decodePng(bytes, size.width, size.height);
       } catch (error) {
         if (!(error instanceof PngNotStreamable)) throw error;
-        decoded = await decodeWithCanvas(bytes, size.width, size.height);
+        decoded = await decodeNative(bytes, header.width, header.height, size.width, size.height);
       }
     } else {
-      // JPEG decoders round differently. The browser decodes with libjpeg-turbo, and so does the
-      // canvas library here, so the workbench and the headless replay follow the same pixels and
-      // give the same curve set (the JavaScript decoder in imageDecode.ts differed by up to 1 %
-      // of a curve's domain on the committed sample scan).
-      // The JavaScript decoder reads the whole file first: a damaged or hostile JPEG is refused
-      // there with a sentence, before the native decoder (which may crash on one) sees it.
-      await decodeJpeg(bytes, size.width, size.height);
-      decoded = await decodeWithCanvas(bytes, size.width, size.height);
+      // JPEG decoders round differently. The browser decodes with libjpeg-turbo, and so does
+      // decodeNative here (the same pixels as the canvas library's decoder, checked by the tests),
+      // so the workbench and the headless replay follow the same pixels and give the same curve
+      // set (a JavaScript decoder differed by up to 1 % of a curve's domain on a sample scan).
+      // The header was checked above; a damaged body is refused by the decoder with a sentence.
+      decoded = await decodeNative(bytes, header.width, header.height, size.width, size.height);
     }
   } catch (error) {
     throw damagedImage(name, header.format, error);
@@ -105,7 +65,8 @@ export async function loadImageRasterNode(bytes: Uint8Array, options: ImageNodeO
   if (decoded.width !== size.width || decoded.height !== size.height) {
     throw new SheetError(`${name} decodes to ${decoded.width} × ${decoded.height} pixels although its header says ${header.width} × ${header.height}; the file is damaged, so scan or export it again.`);
   }
-  return { width: decoded.width, height: decoded.height, data: decoded.data, scale: size.scale };
+  if (size.factor > 1) options.onNote?.(reductionNote(name, header, size));
+  return { header, image: { width: decoded.width, height: decoded.height, data: decoded.data, scale: size.scale } };
 }
 
 /** Resamples a raster by `factor` (smoothing when it shrinks); the result has `scale` pixels per sheet unit. */
@@ -134,19 +95,40 @@ async function resample(image: RasterImage, factor: number, limits: SheetLimits,
  */
 export async function loadImageSheetNode(bytes: Uint8Array, options: ImageNodeOptions = {}): Promise<Sheet> {
   const limits = options.limits ?? DEFAULT_SHEET_LIMITS;
-  const name = options.name ? `The image "${options.name}"` : 'The image';
-  const header = checkHeader(bytes, name, limits, options.maxSourcePixels ?? Math.max(MAX_SOURCE_PIXELS, limits.maxPixels));
-  const image = await loadImageRasterNode(bytes, options);
+  const { header, image } = await loadChecked(bytes, options);
   const sha256 = createHash('sha256').update(bytes).digest('hex');
   const sheet = imageSheet(image, sha256, (scale) => resample(image, scale / image.scale, limits, scale));
-  if (image.scale === 1) return sheet;
-  return {
-    ...sheet,
-    width: header.width,
-    height: header.height,
-    render: async (scale: number) => {
-      if (!(scale > 0) || !Number.isFinite(scale)) throw new SheetError(`The render scale ${scale} is not a positive number; use 1 for an image at its own resolution.`);
-      return scale >= 1 || Math.abs(scale - image.scale) < 1e-12 ? image : resample(image, scale / image.scale, limits, scale);
-    },
-  };
+  return image.scale === 1 ? sheet : reducedImageSheet(sheet, header, image, (scale) => resample(image, scale / image.scale, limits, scale));
+}
+
+/** A rectangle of an image file in its own pixels (sheet units of an image sheet). */
+export interface ImageRegion {
+  left: number;
+  top: number;
+  width: number;
+  height: number;
+}
+
+/**
+ * Re-reads a region of a PNG or JPEG file at its full resolution, for a close trace of a page
+ * that was reduced on load: the file is decoded again in strips down to the region's last row,
+ * and only the region's pixels are kept. The answer's pixel (0, 0) is the file's pixel
+ * (`region.left`, `region.top`); its `scale` is 1. The region must lie inside the file and stay
+ * within the working limit. Throws SheetError with one sentence otherwise.
+ */
+export async function readImageRegionNode(bytes: Uint8Array, region: ImageRegion, options: ImageNodeOptions = {}): Promise<RasterImage> {
+  const limits = options.limits ?? DEFAULT_SHEET_LIMITS;
+  const name = options.name ? `The image "${options.name}"` : 'The image';
+  const header = checkSourceHeader(bytes, name, limits, options.maxSourcePixels);
+  const r = { left: Math.floor(region.left), top: Math.floor(region.top), width: Math.ceil(region.width), height: Math.ceil(region.height) };
+  if (!(r.left >= 0 && r.top >= 0 && r.width >= 1 && r.height >= 1 && r.left + r.width <= header.width && r.top + r.height <= header.height)) {
+    throw new SheetError(`The region ${r.width} × ${r.height} at (${r.left}, ${r.top}) is not inside ${name.replace(/^The/, 'the')} of ${header.width} × ${header.height} pixels; choose a region on the page.`);
+  }
+  checkRasterSize(r.width, r.height, limits, 'The region');
+  try {
+    const decoded = await decodeNativeRegion(bytes, header.width, header.height, r);
+    return { ...decoded, scale: 1 };
+  } catch (error) {
+    throw damagedImage(name, header.format, error);
+  }
 }

@@ -13,6 +13,8 @@ import { looksLikePdf } from './pdfPage.ts';
 export interface SheetFileOptions {
   page?: number;
   limits?: SheetLimits;
+  /** Told one sentence about how the sheet was read when the user should know (a page reduced on load). */
+  onNote?: (sentence: string) => void;
 }
 
 export async function loadSheetFileNode(path: string, options: SheetFileOptions = {}): Promise<Sheet> {
@@ -34,7 +36,8 @@ export async function loadSheetFileNode(path: string, options: SheetFileOptions 
   }
   if (sniffFormat(head)) {
     if (options.page !== undefined && options.page !== 1) throw new SheetError(`The sheet "${name}" is an image with a single page; page ${options.page} does not exist.`);
-    return loadImageSheetNode(new Uint8Array(readFileSync(path)), { name, limits });
+    const bytes = readFileSync(path);
+    return loadImageSheetNode(new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength), { name, limits, ...(options.onNote ? { onNote: options.onNote } : {}) });
   }
   throw new SheetError(`The sheet file "${name}" is neither a PDF nor a PNG or JPEG image; export the sheet in one of those formats.`);
 }
