@@ -10,12 +10,15 @@
  * 3. the growth exponent from N/10 to N: log(t_N / t_N/10) / log(10) (target ≤ 0.5; 1 would be linear).
  *
  * N defaults to 100,000; set PUMPSCRIBE_BENCH_LIBRARY_N (e.g. 2000) for a quick run.
+ * The generated JSON Lines files are kept in bench/.cache/library/ (gitignored) and made again
+ * when missing, so a fresh machine builds them itself; the import is always run and timed.
  */
-import { createWriteStream, mkdtempSync, rmSync, statSync } from 'node:fs';
+import { createWriteStream, existsSync, mkdirSync, mkdtempSync, renameSync, rmSync, statSync } from 'node:fs';
 import { spawnSync } from 'node:child_process';
 import { once } from 'node:events';
 import { tmpdir } from 'node:os';
-import { join } from 'node:path';
+import { dirname, join } from 'node:path';
+import { fileURLToPath } from 'node:url';
 import { inventedCurveSet, type InventedFamily } from '../tests/library/fixtures.ts';
 import { LibraryStore } from '../src/library/store.ts';
 import { EXPORT_FORMAT, EXPORT_VERSION } from '../src/library/transfer.ts';
@@ -27,6 +30,9 @@ const N = Math.max(100, Math.trunc(Number(process.env.PUMPSCRIBE_BENCH_LIBRARY_N
 const SMALL = Math.max(10, Math.round(N / 10));
 const QUERIES = 200;
 const SPEEDS = [1450, 1780, 2900, 3550];
+/** Bump when the invented families or the file layout change, so that stale cached files are not used. */
+const GENERATION = 1;
+const CACHE = join(dirname(fileURLToPath(import.meta.url)), '.cache', 'library');
 
 function percentile(sorted: number[], p: number): number {
   const i = Math.min(sorted.length - 1, Math.max(0, Math.ceil((p / 100) * sorted.length) - 1));
@@ -69,7 +75,7 @@ function randomFamily(random: () => number, i: number): InventedFamily {
 
 /** Writes the N-entry file, and the first N/10 entries to the small file, in one pass. */
 async function writeExports(families: InventedFamily[], large: string, small: string): Promise<void> {
-  const outs = [createWriteStream(large), createWriteStream(small)];
+  const outs = [createWriteStream(`${large}.tmp`), createWriteStream(`${small}.tmp`)];
   const header = `${JSON.stringify({ kind: 'header', format: EXPORT_FORMAT, version: EXPORT_VERSION })}\n`;
   for (const o of outs) o.write(header);
   for (let i = 0; i < families.length; i++) {
@@ -80,6 +86,8 @@ async function writeExports(families: InventedFamily[], large: string, small: st
   }
   for (const o of outs) o.end();
   await Promise.all(outs.map((o) => once(o, 'finish')));
+  renameSync(`${small}.tmp`, small);
+  renameSync(`${large}.tmp`, large);
 }
 
 /** `pumpscribe library import` in its own process, timed, with its peak RSS from /usr/bin/time. */
@@ -154,12 +162,15 @@ export default async function (): Promise<void> {
   try {
     const random = seededRandom(20250101);
     const families = Array.from({ length: N }, (_, i) => randomFamily(random, i));
-    let t = performance.now();
-    const largeFile = join(dir, 'large.jsonl');
-    const smallFile = join(dir, 'small.jsonl');
-    await writeExports(families, largeFile, smallFile);
+    const t = performance.now();
+    mkdirSync(CACHE, { recursive: true });
+    const largeFile = join(CACHE, `entries-${N}-g${GENERATION}.jsonl`);
+    const smallFile = join(CACHE, `entries-${N}-first-${SMALL}-g${GENERATION}.jsonl`);
+    const cached = existsSync(largeFile) && existsSync(smallFile);
+    if (!cached) await writeExports(families, largeFile, smallFile);
     process.stdout.write(
-      `generated ${N} and ${SMALL} invented curve sets (${(statSync(largeFile).size / 2 ** 20).toFixed(0)} MiB and ${(statSync(smallFile).size / 2 ** 20).toFixed(0)} MiB of JSON Lines) in ${f1((performance.now() - t) / 1000)} s\n`,
+      `${cached ? 'cached' : 'generated'} ${N} and ${SMALL} invented curve sets (${(statSync(largeFile).size / 2 ** 20).toFixed(0)} MiB and ${(statSync(smallFile).size / 2 ** 20).toFixed(0)} MiB of JSON Lines)` +
+        `${cached ? ` in ${CACHE}` : ` in ${f1((performance.now() - t) / 1000)} s`}\n`,
     );
 
     const smallLib = join(dir, 'small.sqlite');

@@ -21,6 +21,7 @@ import type { CurveSet } from '../model/curveset.ts';
 import { LibraryError } from './errors.ts';
 import type { LibraryBackend, DutyIndexRow } from './backend.ts';
 import { screenDuty } from './dutyBounds.ts';
+import { cardBound } from './dutyCard.ts';
 
 export type PorPlace = 'below' | 'within' | 'above' | 'unknown';
 
@@ -164,7 +165,7 @@ export function searchByDuty(store: LibraryBackend, duty: Duty, matcher: DutyMat
   for (const failing of [false, true]) {
     const room = limit - ranked.length;
     const tier: DutyCandidate[] = [];
-    type Pending = { row: DutyIndexRow; set: CurveSet; key: number };
+    type Pending = { row: DutyIndexRow; set: CurveSet | null; key: number };
     let pending: Pending[] = [];
     let stopped = false;
     // Can a set with this key still enter the tier's ranking?
@@ -195,18 +196,28 @@ export function searchByDuty(store: LibraryBackend, duty: Duty, matcher: DutyMat
       for (const row of band) {
         if (seen.has(row.id)) continue;
         seen.add(row.id);
-        let set: CurveSet;
-        let screen: ReturnType<typeof screenDuty>;
-        try {
-          set = store.searchSet(row.id, row.revision);
-          screen = screenDuty(set, q, h);
-        } catch (error) {
-          damaged.push({ id: row.id, revision: row.revision, problem: problemOf(error) });
-          continue;
+        let set: CurveSet | null = null;
+        let efficiencyBound: number;
+        let powerBound: number;
+        if (row.card) {
+          // The duty card bounds the set from a few hundred bytes; the search copy is read only if it is evaluated.
+          const bound = cardBound(row.card, q, h);
+          if (bound.reject) continue;
+          ({ efficiencyBound, powerBound } = bound);
+        } else {
+          let screen: ReturnType<typeof screenDuty>;
+          try {
+            set = store.searchSet(row.id, row.revision);
+            screen = screenDuty(set, q, h);
+          } catch (error) {
+            damaged.push({ id: row.id, revision: row.revision, problem: problemOf(error) });
+            continue;
+          }
+          if (!screen) continue;
+          ({ efficiencyBound, powerBound } = screen);
         }
-        if (!screen) continue;
         reachable += 1;
-        pending.push({ row, set, key: byCost ? screen.powerBound : Math.min(screen.efficiencyBound, row.bound) });
+        pending.push({ row, set, key: byCost ? powerBound : Math.min(efficiencyBound, row.bound) });
       }
       pending.sort(byCost ? (x, y) => x.key - y.key : (x, y) => y.key - x.key);
       // Evaluate what no later band can beat: keys at or above this band's floor (all of them for cost).
@@ -218,10 +229,19 @@ export function searchByDuty(store: LibraryBackend, duty: Duty, matcher: DutyMat
           stopped = true;
           break;
         }
+        let set = p.set;
+        if (!set) {
+          try {
+            set = store.searchSet(p.row.id, p.row.revision);
+          } catch (error) {
+            damaged.push({ id: p.row.id, revision: p.row.revision, problem: problemOf(error) });
+            continue;
+          }
+        }
         evaluated += 1;
         let match: DutyAnswer | null;
         try {
-          match = matcher(p.set, duty);
+          match = matcher(set, duty);
         } catch {
           // One curve set the engine cannot read must not sink the whole office search; it is counted.
           failed.push(p.row.id);

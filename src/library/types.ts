@@ -31,6 +31,8 @@ export interface EntryRow {
   fail_codes: string;
   display_units_json: string;
   slices_json: string;
+  /** The duty card of the latest revision (dutyCard.ts), or '' for a set without one. */
+  duty_card: string;
 }
 
 /** The summary of an entry as the API and the CLI show it. */

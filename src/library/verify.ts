@@ -3,7 +3,7 @@
  * damaged row is found before a backup or a search needs it. Checked:
  * - SQLite's own structure check (`PRAGMA quick_check`);
  * - every revision: its text matches its SHA-256, parses, and passes the curve-set schema;
- * - every entry: its summary row (search copy, duty slices, units) parses;
+ * - every entry: its summary row (search copy, duty slices, duty card, units) parses;
  * - every revision has its findings summary;
  * - every sheet's bytes match their SHA-256.
  */
@@ -66,11 +66,11 @@ export function verifyLibrary(db: Database.Database): VerifyReport {
     if (r.summarized === null) bad('it has no findings summary');
   }
   let entries = 0;
-  for (const e of db.prepare('SELECT id, latest_revision, search_json, slices_json, display_units_json, fail_codes, diameters_json FROM entries ORDER BY key').iterate() as Iterable<{
-    id: string; latest_revision: number; search_json: string; slices_json: string; display_units_json: string; fail_codes: string; diameters_json: string;
+  for (const e of db.prepare('SELECT id, latest_revision, search_json, slices_json, display_units_json, fail_codes, diameters_json, duty_card FROM entries ORDER BY key').iterate() as Iterable<{
+    id: string; latest_revision: number; search_json: string; slices_json: string; display_units_json: string; fail_codes: string; diameters_json: string; duty_card: string;
   }>) {
     entries += 1;
-    const broken = (['search_json', 'slices_json', 'display_units_json', 'fail_codes', 'diameters_json'] as const).filter((c) => !parses(e[c]));
+    const broken = (['search_json', 'slices_json', 'display_units_json', 'fail_codes', 'diameters_json', 'duty_card'] as const).filter((c) => !(c === 'duty_card' && e[c] === '') && !parses(e[c]));
     if (broken.length) damaged.push({ kind: 'entry', id: e.id, revision: e.latest_revision, problem: `its summary row cannot be read (${broken.join(', ')})` });
   }
   let sheets = 0;
