@@ -28,8 +28,6 @@ export interface DutyIndexRow {
   bound: number;
   /** The revision's duty card (null for a speed family, or a row whose card is missing or damaged). */
   card: DutyCard | null;
-  /** What a search result shows, read with the row so that no second query is needed. */
-  names: EntryNames;
 }
 
 export interface EntryNames {

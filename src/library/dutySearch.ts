@@ -19,7 +19,7 @@
  */
 import type { CurveSet } from '../model/curveset.ts';
 import { LibraryError } from './errors.ts';
-import type { LibraryBackend, DutyIndexRow } from './backend.ts';
+import type { LibraryBackend, DutyIndexRow, EntryNames } from './backend.ts';
 import { screenDuty } from './dutyBounds.ts';
 import { cardBound } from './dutyCard.ts';
 
@@ -121,8 +121,27 @@ export interface DutySearchResult {
 /** Candidates returned unless the caller asks for more. */
 export const DEFAULT_LIMIT = 10;
 
-/** Edges of the efficiency-bound bands the index is walked in, best first (bounds are fractions; -1: no efficiency curve). */
-const BAND_EDGES = [1e9, ...Array.from({ length: 50 }, (_, i) => 1 - i * 0.01), 0.45, 0.4, 0.3, 0.2, 0.1, 0, -1e9];
+/**
+ * The efficiency-bound bands the index is walked in, best first (bounds are fractions; -1: no
+ * efficiency curve): first everything above 1, then bands that start 1 % wide, get twice as wide
+ * after a band that held fewer entries than are still wanted and half as wide (down to 0.5 %)
+ * after one that held many, so that a sparse library needs few index queries and a dense one
+ * reads few entries it does not need; below zero, one last band.
+ */
+function* efficiencyBands(sizes: () => { rows: number; wanted: number }): Generator<[number, number]> {
+  yield [1, 1e9];
+  let hi = 1;
+  let width = 0.01;
+  while (hi > 0) {
+    const lo = Math.max(0, hi - width);
+    yield [lo, hi];
+    const { rows, wanted } = sizes();
+    if (rows < wanted) width = Math.min(width * 2, 0.2);
+    else if (rows > 4 * wanted) width = Math.max(width / 2, 0.005);
+    hi = lo;
+  }
+  yield [-1e9, 0];
+}
 
 export function checkDuty(duty: Duty): void {
   if (!(Number.isFinite(duty.flow_m3s) && duty.flow_m3s > 0)) throw new LibraryError('The duty flow must be a number greater than zero.', 'invalid');
@@ -160,7 +179,6 @@ export function searchByDuty(store: LibraryBackend, duty: Duty, matcher: DutyMat
   // True when the walk stopped before reading every entry whose boxes hold the duty.
   let cut = false;
   // The cost ranking has no bound in the index (power depends on the duty): it reads every box holding the duty.
-  const edges = byCost ? [1e9, -1e9] : BAND_EDGES;
 
   for (const failing of [false, true]) {
     const room = limit - ranked.length;
@@ -178,9 +196,9 @@ export function searchByDuty(store: LibraryBackend, duty: Duty, matcher: DutyMat
       cut = true;
       continue;
     }
-    for (let b = 0; b + 1 < edges.length && !stopped; b++) {
-      const hi = edges[b] as number;
-      const lo = edges[b + 1] as number;
+    let bandRows = 0;
+    const bands = byCost ? [[-1e9, 1e9] as [number, number]] : efficiencyBands(() => ({ rows: bandRows, wanted: Math.max(1, room - tier.length) }));
+    for (const [lo, hi] of bands) {
       if (!byCost && tier.length >= room && !canEnter(hi)) {
         stopped = true;
         break;
@@ -188,6 +206,7 @@ export function searchByDuty(store: LibraryBackend, duty: Duty, matcher: DutyMat
       let band: DutyIndexRow[];
       try {
         band = store.dutyBand(q, h, lo, hi, failing);
+        bandRows = band.length;
       } catch (error) {
         // A damaged summary row in this band: read the band's rows one by one to name it and go on.
         band = [];
@@ -249,7 +268,15 @@ export function searchByDuty(store: LibraryBackend, duty: Duty, matcher: DutyMat
         }
         if (!match) continue;
         matched += 1;
-        const { fail_count, fail_codes, display_units, ...who } = p.row.names;
+        // Names and marks are read for a match only: the index rows stay narrow.
+        let names: EntryNames;
+        try {
+          names = store.names(p.row.id);
+        } catch (error) {
+          damaged.push({ id: p.row.id, revision: p.row.revision, problem: problemOf(error) });
+          continue;
+        }
+        const { fail_count, fail_codes, display_units, ...who } = names;
         const c: DutyCandidate = { ...who, revision: p.row.revision, ...match, failing: fail_count > 0, fail_codes, display_units };
         if (hours !== undefined && match.power_W !== undefined) {
           c.annual_energy_kWh = (match.power_W * hours) / 1000;

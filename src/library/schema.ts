@@ -138,8 +138,18 @@ const MIGRATIONS: readonly string[] = [
   // bounds a candidate from a few hundred bytes and runs the duty engine only on those that can win.
   // The backfill (backfill.ts) fills it for the rows already there.
   // The index trigger fires only on the columns the index is made of, so filling the card leaves it be.
+  // The cards are copied by triggers into a narrow table beside the duty index: an entry row is
+  // several kilobytes (its search copy), and reading columns past it would walk its overflow pages.
   `
   ALTER TABLE entries ADD COLUMN duty_card TEXT NOT NULL DEFAULT '';
+  CREATE TABLE duty_cards (entry_key INTEGER PRIMARY KEY, entry_id TEXT NOT NULL, revision INTEGER NOT NULL, card TEXT NOT NULL) STRICT;
+  INSERT INTO duty_cards SELECT key, id, latest_revision, duty_card FROM entries;
+  CREATE TRIGGER duty_cards_i AFTER INSERT ON entries BEGIN
+    INSERT INTO duty_cards VALUES (NEW.key, NEW.id, NEW.latest_revision, NEW.duty_card);
+  END;
+  CREATE TRIGGER duty_cards_u AFTER UPDATE OF latest_revision, duty_card ON entries BEGIN
+    INSERT OR REPLACE INTO duty_cards VALUES (NEW.key, NEW.id, NEW.latest_revision, NEW.duty_card);
+  END;
   DROP TRIGGER duty_index_u;
   CREATE TRIGGER duty_index_u AFTER UPDATE OF key, archived_at, fail_count, slices_json ON entries BEGIN
     DELETE FROM duty_index WHERE slice BETWEEN NEW.key * 16 AND NEW.key * 16 + 15;

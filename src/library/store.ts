@@ -311,14 +311,14 @@ export class LibraryStore implements LibraryBackend {
    * sound (`failing` false) or failing ones; each entry once, with its highest bound.
    */
   dutyBand(flowM3s: number, headM: number, lo: number, hi: number, failing: boolean): DutyIndexRow[] {
-    type Raw = { id: string; revision: number; bound: number; duty_card: string; name: string; maker: string | null; model: string | null; rated_speed_rpm: number; fail_count: number; fail_codes: string; display_units_json: string };
+    type Raw = { id: string; revision: number; bound: number; card: string };
     const rows = this.stmts.dutyBand.all({ q: flowM3s, h: headM, lo, hi, failing: failing ? 1 : 0 }) as Raw[];
     const best = new Map<string, Raw>();
     for (const r of rows) {
       const seen = best.get(r.id);
       if (!seen || r.bound > seen.bound) best.set(r.id, r);
     }
-    return [...best.values()].map((r) => ({ id: r.id, revision: r.revision, bound: r.bound, card: parseDutyCard(r.duty_card), names: namesOf(r) }));
+    return [...best.values()].map((r) => ({ id: r.id, revision: r.revision, bound: r.bound, card: parseDutyCard(r.card) }));
   }
 
   /** How many active entries have an index box holding (flow, head). */

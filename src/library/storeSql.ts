@@ -86,9 +86,8 @@ export function prepareStatements(db: Database.Database) {
     event: db.prepare('INSERT INTO entry_events (entry_id, at, event, revision) VALUES (?, ?, ?, ?)'),
     setArchived: db.prepare('UPDATE entries SET archived_at = ? WHERE id = ?'),
     /** Index boxes holding (flow, head) with an efficiency bound in [lo, hi); sound or failing sets. */
-    dutyBand: db.prepare(`SELECT e.id, e.latest_revision AS revision, d.eta_max AS bound, e.duty_card, e.name, e.maker, e.model,
-        e.speed_rpm AS rated_speed_rpm, e.fail_count, e.fail_codes, e.display_units_json
-      FROM duty_index d JOIN entries e ON e.key = d.entry_key
+    dutyBand: db.prepare(`SELECT c.entry_id AS id, c.revision, d.eta_max AS bound, c.card
+      FROM duty_index d JOIN duty_cards c ON c.entry_key = d.entry_key
       WHERE d.flow_min <= @q AND d.flow_max >= @q AND d.head_min <= @h AND d.head_max >= @h
         AND d.eta_max >= @lo AND d.eta_min < @hi AND d.failing = @failing`),
     dutyCount: db.prepare(`SELECT count(DISTINCT entry_key) AS n FROM duty_index
