@@ -18,6 +18,7 @@
 import { createWriteStream, existsSync, mkdirSync, renameSync, rmSync, statSync } from 'node:fs';
 import { spawnSync } from 'node:child_process';
 import { once } from 'node:events';
+import { cpus, loadavg } from 'node:os';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { inventedCurveSet, type InventedFamily } from '../tests/library/fixtures.ts';
@@ -92,16 +93,17 @@ async function writeExports(families: InventedFamily[], large: string, small: st
 }
 
 /** `pumpscribe library import` in its own process, timed, with its peak RSS from /usr/bin/time. */
-function importByCommand(file: string, library: string): { seconds: number; peakMiB: number | null; out: string } {
+function importByCommand(file: string, library: string): { seconds: number; cpuSeconds: number | null; peakMiB: number | null; out: string } {
   for (const f of [library, `${library}-wal`, `${library}-shm`]) rmSync(f, { force: true });
   const args = ['--import', 'tsx', 'src/cli/main.ts', 'library', 'import', file, '--library', library];
   const start = performance.now();
-  let r = spawnSync('/usr/bin/time', ['-f', 'PEAK_RSS_KB=%M', process.execPath, ...args], { encoding: 'utf8', maxBuffer: 64 * 2 ** 20 });
+  let r = spawnSync('/usr/bin/time', ['-f', 'PEAK_RSS_KB=%M CPU_S=%U+%S', process.execPath, ...args], { encoding: 'utf8', maxBuffer: 64 * 2 ** 20 });
   if (r.error) r = spawnSync(process.execPath, args, { encoding: 'utf8' });
   const seconds = (performance.now() - start) / 1000;
   if (r.status !== 0) throw new Error(`import failed (${r.status}): ${r.stderr}`);
   const kb = /PEAK_RSS_KB=(\d+)/.exec(r.stderr ?? '');
-  return { seconds, peakMiB: kb ? Number(kb[1]) / 1024 : null, out: r.stdout.trim() };
+  const cpu = /CPU_S=([\d.]+)\+([\d.]+)/.exec(r.stderr ?? '');
+  return { seconds, cpuSeconds: cpu ? Number(cpu[1]) + Number(cpu[2]) : null, peakMiB: kb ? Number(kb[1]) / 1024 : null, out: r.stdout.trim() };
 }
 
 function dutiesFor(families: InventedFamily[], random: () => number): Duty[] {
@@ -122,6 +124,8 @@ function dutiesFor(families: InventedFamily[], random: () => number): Duty[] {
 
 interface SearchFigures {
   cold: Stats;
+  /** CPU time of the same cold queries (this process, user + system): what the query costs whatever else runs on the machine. */
+  coldCpu: Stats;
   warm: Stats;
   openMs: Stats;
   examined: number;
@@ -131,6 +135,7 @@ interface SearchFigures {
 
 function searchFigures(library: string, duties: Duty[]): SearchFigures {
   const cold: number[] = [];
+  const coldCpu: number[] = [];
   const open: number[] = [];
   let examined = 0;
   let evaluated = 0;
@@ -140,8 +145,11 @@ function searchFigures(library: string, duties: Duty[]): SearchFigures {
     const store = LibraryStore.open(library);
     open.push(performance.now() - t);
     t = performance.now();
+    const c0 = process.cpuUsage();
     const r = searchByDuty(store, d, libraryMatcher);
     cold.push(performance.now() - t);
+    const c1 = process.cpuUsage(c0);
+    coldCpu.push((c1.user + c1.system) / 1000);
     store.close();
     examined += r.examined;
     evaluated += r.evaluated;
@@ -156,10 +164,17 @@ function searchFigures(library: string, duties: Duty[]): SearchFigures {
     warm.push(performance.now() - t);
   }
   store.close();
-  return { cold: stats(cold), warm: stats(warm), openMs: stats(open), examined: examined / duties.length, evaluated: evaluated / duties.length, found };
+  return { cold: stats(cold), coldCpu: stats(coldCpu), warm: stats(warm), openMs: stats(open), examined: examined / duties.length, evaluated: evaluated / duties.length, found };
+}
+
+/** The machine's state, printed beside the figures: on a shared machine they scale with its load. */
+function machineLine(when: string): string {
+  const [one, five] = loadavg();
+  return `machine ${when}: ${cpus().length} CPUs, load average ${one!.toFixed(1)} (1 min), ${five!.toFixed(1)} (5 min)\n`;
 }
 
 export default async function (): Promise<void> {
+  process.stdout.write(machineLine('at the start'));
   {
     const random = seededRandom(20250101);
     const families = Array.from({ length: N }, (_, i) => randomFamily(random, i));
@@ -186,7 +201,8 @@ export default async function (): Promise<void> {
       process.stdout.write('import by "pumpscribe library import" (own process, every set checked, one all-or-nothing transaction):\n');
       for (const [n, r] of [[SMALL, importSmall], [N, importLarge]] as const) {
         process.stdout.write(
-          `  ${String(n).padStart(7)} entries: ${f1(r.seconds)} s wall including start-up (${Math.round(n / r.seconds)} entries/s), peak RSS ${rss(r.peakMiB)}` +
+          `  ${String(n).padStart(7)} entries: ${f1(r.seconds)} s wall including start-up (${Math.round(n / r.seconds)} entries/s; ` +
+            `${r.cpuSeconds === null ? 'CPU time n/a' : `${f1(r.cpuSeconds)} s of CPU, ${Math.round(n / r.cpuSeconds)} entries per CPU-second`}), peak RSS ${rss(r.peakMiB)}` +
             `${n === N ? ` (target ≤ 1024 MiB: ${r.peakMiB !== null && r.peakMiB <= 1024 ? 'met' : 'NOT met'})` : ''}\n`,
         );
       }
@@ -200,6 +216,7 @@ export default async function (): Promise<void> {
     process.stdout.write(`duty search, ${QUERIES} queries, in-process (the same duties at both sizes, all placed among the first ${SMALL} families):\n`);
     for (const [n, s] of [[SMALL, small], [N, large]] as const) {
       process.stdout.write(`  ${String(n).padStart(7)} sets  ${row('cold', s.cold)}   (opening the store: p50 ${f1(s.openMs.p50)} ms)\n`);
+      process.stdout.write(`  ${' '.repeat(12)}  ${row('cold', s.coldCpu)}   (CPU time of the same queries)\n`);
       process.stdout.write(`  ${' '.repeat(12)}  ${row('warm', s.warm)}\n`);
       process.stdout.write(`  ${' '.repeat(12)}  per query: ${s.examined.toFixed(0)} sets' index boxes hold the duty, ${s.evaluated.toFixed(1)} evaluated by the duty engine for the best 10; ${s.found} of ${QUERIES} found a pump\n`);
     }
@@ -213,4 +230,5 @@ export default async function (): Promise<void> {
         `cold p95 at ${N} ≤ 50 ms: ${verdict(large.cold.p95 <= 50)} (${f1(large.cold.p95)})${N === 100_000 ? '' : ` — N is ${N}, not the 100,000 of the targets`}\n`,
     );
   }
+  process.stdout.write(machineLine('at the end'));
 }

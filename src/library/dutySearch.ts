@@ -5,11 +5,13 @@
  * The duty index (dutyIndex.ts) holds, for every active entry, a few boxes in flow and head, each
  * with an upper bound on the efficiency any trim can reach there. A query walks that index in bands
  * of the bound, best first: it reads only the entries whose boxes hold the duty and whose bound can
- * still beat the last place of the ranking. For each, a screen on the captured head curves
- * (dutyBounds.ts) drops those whose diameters cannot reach the duty and tightens the bound; the duty
- * engine's matcher then evaluates the survivors best bound first, and the walk stops when no
- * remaining entry could enter the top `limit`: the ranking is exact without parsing every pump that
- * spans the duty, and with no whole-library cache.
+ * still beat the last place of the ranking. For each, the entry's duty card (dutyCard.ts, a few
+ * hundred bytes kept with its latest revision) finds the trim that meets the duty and bounds its
+ * efficiency tightly, or shows that the set cannot meet it (sets without a card are screened on
+ * their search copy, dutyBounds.ts); the duty engine's matcher then evaluates the survivors best
+ * bound first, and the walk stops when no remaining entry could enter the top `limit`: the ranking
+ * is exactly that of the engine run on every set, the engine runs on little more than `limit` sets,
+ * and no whole-library cache is needed.
  * Sound sets come first; sets kept with `fail` findings are marked and ranked after every sound one.
  * A row that cannot be read is skipped and named in the answer (`damaged`); it never sinks a search.
  * Ranking is by efficiency at the duty, or by annual energy cost when hours and a tariff are given.
@@ -102,7 +104,7 @@ export interface DutySearchResult {
    * taken, since counting every box at 100,000 entries costs more than the search itself).
    */
   examined: number;
-  /** Of the entries read, those whose captured diameters reach the duty. */
+  /** Of the entries read, those that may meet the duty (the others surely cannot, by their duty card or screen). */
   reachable: number;
   /** Entries the duty engine evaluated; the others could not enter the ranking. */
   evaluated: number;

@@ -163,3 +163,22 @@ describe('ranking with duty cards', () => {
     expect(evaluated / 80).toBeLessThan(14);
   });
 });
+
+describe('a duty card that does not match its set', () => {
+  it('is named by verify, since a search trusts the card to decide what to evaluate', () => {
+    const tmp = tempDir('pumpscribe-card-verify-');
+    try {
+      const store = LibraryStore.open(join(tmp.dir, 'library.sqlite'));
+      const random = seededRandom(5);
+      const a = store.create(inventedCurveSet(randomFamily(random, 1))).id;
+      const b = store.create(inventedCurveSet(randomFamily(random, 2))).id;
+      expect(store.verify().damaged).toEqual([]);
+      // Entry a given b's card, by hand (the copy beside the index follows through its trigger).
+      store.db.prepare('UPDATE entries SET duty_card = (SELECT duty_card FROM entries WHERE id = ?) WHERE id = ?').run(b, a);
+      expect(store.verify().damaged).toEqual([{ kind: 'entry', id: a, revision: 1, problem: expect.stringMatching(/duty card does not match/) }]);
+      store.close();
+    } finally {
+      tmp.remove();
+    }
+  });
+});
