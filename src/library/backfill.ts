@@ -10,7 +10,7 @@
 import type Database from 'better-sqlite3';
 import type { CurveSet } from '../model/curveset.ts';
 import { summarizeFindings } from './soundness.ts';
-import { dutyCardText, summaryRow } from './storeSql.ts';
+import { dutyCardBytes, summaryRow } from './storeSql.ts';
 
 export function backfillV2(db: Database.Database): void {
   // In chunks by rowid: one connection cannot write while a read is still stepping, and memory stays small.
@@ -59,7 +59,7 @@ export function backfillV2(db: Database.Database): void {
 /**
  * Version 3: every entry gets the duty card of its latest revision, made from the search copy kept
  * beside it (the fits are the same). In chunks by key, so memory stays small at any size. A row
- * whose search copy cannot be read keeps an empty card: the search then reads the copy itself and
+ * whose search copy cannot be read gets no card: the search then reads the copy itself and
  * names the row as damaged, and `library verify` reports it.
  */
 export function backfillV3(db: Database.Database): void {
@@ -70,11 +70,11 @@ export function backfillV3(db: Database.Database): void {
     const rows = chunk.all(after) as Array<{ key: number; search_json: string }>;
     if (rows.length === 0) return;
     for (const r of rows) {
-      let card = '';
+      let card: Buffer | null = null;
       try {
-        card = dutyCardText(JSON.parse(r.search_json) as CurveSet);
+        card = dutyCardBytes(JSON.parse(r.search_json) as CurveSet);
       } catch {
-        card = '';
+        card = null;
       }
       update.run(card, r.key);
     }

@@ -92,15 +92,56 @@ export function dutyCardOf(set: CurveSet): DutyCard | null {
   return { v: DUTY_CARD_VERSION, m, rho: set.fluid.density_kg_m3 };
 }
 
-/** Reads a stored card; null for an empty, damaged or other-version one (the search then uses the search copy). */
-export function parseDutyCard(text: string | null | undefined): DutyCard | null {
-  if (!text) return null;
-  try {
-    const card = JSON.parse(text) as DutyCard;
-    return card && card.v === DUTY_CARD_VERSION && Array.isArray(card.m) && card.m.length > 0 ? card : null;
-  } catch {
-    return null;
+/**
+ * The stored form of a card: little-endian float64 numbers, read back without parsing text:
+ * [version, density, member count, then per member: diameter, and for head, efficiency and power
+ * the length of its CardFit (0 when absent) followed by its numbers].
+ */
+export function encodeDutyCard(card: DutyCard): Uint8Array {
+  const out: number[] = [card.v, card.rho, card.m.length];
+  for (const [d, head, eta, power] of card.m) {
+    out.push(d);
+    for (const fit of [head, eta, power]) {
+      out.push(fit ? fit.length : 0);
+      if (fit) out.push(...fit);
+    }
   }
+  const bytes = new Uint8Array(out.length * 8);
+  const view = new DataView(bytes.buffer);
+  out.forEach((x, i) => view.setFloat64(i * 8, x, true));
+  return bytes;
+}
+
+/** Reads a stored card; null for a missing, damaged or other-version one (the search then screens the search copy). */
+export function decodeDutyCard(bytes: Uint8Array | null | undefined): DutyCard | null {
+  if (!bytes || bytes.length < 24 || bytes.length % 8 !== 0) return null;
+  const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+  const n = bytes.length / 8;
+  const at = (i: number) => view.getFloat64(i * 8, true);
+  if (at(0) !== DUTY_CARD_VERSION) return null;
+  const count = at(2);
+  if (!Number.isInteger(count) || count < 1 || count > 1000) return null;
+  const m: CardMember[] = [];
+  let i = 3;
+  const fit = (): CardFit | null | undefined => {
+    if (i >= n) return undefined;
+    const len = at(i++);
+    if (len === 0) return null;
+    if (!Number.isInteger(len) || len < 4 || i + len > n) return undefined;
+    const f: CardFit = [];
+    for (let k = 0; k < len; k++) f.push(at(i++));
+    return f;
+  };
+  for (let k = 0; k < count; k++) {
+    if (i >= n) return null;
+    const d = at(i++);
+    const head = fit();
+    const eta = fit();
+    const power = fit();
+    if (!head || eta === undefined || power === undefined) return null;
+    m.push([d, head, eta, power]);
+  }
+  return i === n ? { v: DUTY_CARD_VERSION, m, rho: at(1) } : null;
 }
 
 function value(fit: CardFit, q: number): number {

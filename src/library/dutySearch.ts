@@ -125,21 +125,19 @@ export const DEFAULT_LIMIT = 10;
 
 /**
  * The efficiency-bound bands the index is walked in, best first (bounds are fractions; -1: no
- * efficiency curve): first everything above 1, then bands that start 1 % wide, get twice as wide
- * after a band that held fewer entries than are still wanted and half as wide (down to 0.5 %)
- * after one that held many, so that a sparse library needs few index queries and a dense one
- * reads few entries it does not need; below zero, one last band.
+ * efficiency curve): everything above 1, then bands 1 % wide down to 50 % (0.5 % wide after a band
+ * that held many more entries than are still wanted, so that a dense library reads few entries it
+ * does not need), 5 % wide below, and one last band below zero. Reading an entry costs more than
+ * asking the index once more, so the bands stay narrow.
  */
 function* efficiencyBands(sizes: () => { rows: number; wanted: number }): Generator<[number, number]> {
   yield [1, 1e9];
   let hi = 1;
-  let width = 0.01;
-  while (hi > 0) {
-    const lo = Math.max(0, hi - width);
-    yield [lo, hi];
+  while (hi > 1e-9) {
     const { rows, wanted } = sizes();
-    if (rows < wanted) width = Math.min(width * 2, 0.2);
-    else if (rows > 4 * wanted) width = Math.max(width / 2, 0.005);
+    const width = hi > 0.5 + 1e-9 ? (rows > 4 * wanted ? 0.005 : 0.01) : 0.05;
+    const lo = Math.max(0, Math.round((hi - width) * 1000) / 1000);
+    yield [lo, hi];
     hi = lo;
   }
   yield [-1e9, 0];

@@ -141,8 +141,8 @@ const MIGRATIONS: readonly string[] = [
   // The cards are copied by triggers into a narrow table beside the duty index: an entry row is
   // several kilobytes (its search copy), and reading columns past it would walk its overflow pages.
   `
-  ALTER TABLE entries ADD COLUMN duty_card TEXT NOT NULL DEFAULT '';
-  CREATE TABLE duty_cards (entry_key INTEGER PRIMARY KEY, entry_id TEXT NOT NULL, revision INTEGER NOT NULL, card TEXT NOT NULL) STRICT;
+  ALTER TABLE entries ADD COLUMN duty_card BLOB;
+  CREATE TABLE duty_cards (entry_key INTEGER PRIMARY KEY, entry_id TEXT NOT NULL, revision INTEGER NOT NULL, card BLOB) STRICT;
   INSERT INTO duty_cards SELECT key, id, latest_revision, duty_card FROM entries;
   CREATE TRIGGER duty_cards_i AFTER INSERT ON entries BEGIN
     INSERT INTO duty_cards VALUES (NEW.key, NEW.id, NEW.latest_revision, NEW.duty_card);

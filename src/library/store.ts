@@ -22,7 +22,7 @@ import { checkEntryId, newEntryId } from './ids.ts';
 import { checkLibraryFile, migrate, SCHEMA_VERSION } from './schema.ts';
 import { SheetStore } from './sheets.ts';
 import { searchCopy } from './summary.ts';
-import { parseDutyCard } from './dutyCard.ts';
+import { decodeDutyCard } from './dutyCard.ts';
 import { prepareStatements, summaryRow, type RevisionFacts } from './storeSql.ts';
 import { fullDiskError, storageFault } from './storage.ts';
 import { checkRevision } from './validate.ts';
@@ -311,14 +311,14 @@ export class LibraryStore implements LibraryBackend {
    * sound (`failing` false) or failing ones; each entry once, with its highest bound.
    */
   dutyBand(flowM3s: number, headM: number, lo: number, hi: number, failing: boolean): DutyIndexRow[] {
-    type Raw = { id: string; revision: number; bound: number; card: string };
+    type Raw = { id: string; revision: number; bound: number; card: Buffer | null };
     const rows = this.stmts.dutyBand.all({ q: flowM3s, h: headM, lo, hi, failing: failing ? 1 : 0 }) as Raw[];
     const best = new Map<string, Raw>();
     for (const r of rows) {
       const seen = best.get(r.id);
       if (!seen || r.bound > seen.bound) best.set(r.id, r);
     }
-    return [...best.values()].map((r) => ({ id: r.id, revision: r.revision, bound: r.bound, card: parseDutyCard(r.card) }));
+    return [...best.values()].map((r) => ({ id: r.id, revision: r.revision, bound: r.bound, card: decodeDutyCard(r.card) }));
   }
 
   /** How many active entries have an index box holding (flow, head). */

@@ -6,7 +6,7 @@ import type Database from 'better-sqlite3';
 import type { CurveSet } from '../model/curveset.ts';
 import { searchCopy, summarize } from './summary.ts';
 import { dutySlices } from './dutyIndex.ts';
-import { dutyCardOf } from './dutyCard.ts';
+import { dutyCardOf, encodeDutyCard } from './dutyCard.ts';
 import type { FindingsSummary } from './soundness.ts';
 
 /** A checked revision with everything the store writes beside its text. */
@@ -49,14 +49,14 @@ export function summaryRow(id: string, revision: number, facts: RevisionFacts, a
     fail_codes: JSON.stringify(facts.findings.fail_codes),
     display_units_json: JSON.stringify(facts.set.display_units),
     slices_json: JSON.stringify(dutySlices(facts.set, s)),
-    duty_card: dutyCardText(facts.set),
+    duty_card: dutyCardBytes(facts.set),
   };
 }
 
-/** The stored duty card of a set: its JSON, or '' when the set has none (a speed family). */
-export function dutyCardText(set: CurveSet): string {
+/** The stored duty card of a set (dutyCard.ts), or null when the set has none (a speed family). */
+export function dutyCardBytes(set: CurveSet): Buffer | null {
   const card = dutyCardOf(set);
-  return card ? JSON.stringify(card) : '';
+  return card ? Buffer.from(encodeDutyCard(card)) : null;
 }
 
 const SUMMARY_COLUMNS = [

@@ -32,8 +32,8 @@ export interface EntryRow {
   fail_codes: string;
   display_units_json: string;
   slices_json: string;
-  /** The duty card of the latest revision (dutyCard.ts), or '' for a set without one. */
-  duty_card: string;
+  /** The duty card of the latest revision (dutyCard.ts), or null for a set without one. */
+  duty_card: Buffer | null;
 }
 
 /** The summary of an entry as the API, the CLI and the screens show it (one type, in the model layer). */

@@ -11,7 +11,8 @@
 import type Database from 'better-sqlite3';
 import type { CurveSet } from '../model/curveset.ts';
 import { checkCurveSet, sha256Hex } from './validate.ts';
-import { dutyCardText } from './storeSql.ts';
+import { dutyCardBytes } from './storeSql.ts';
+import { decodeDutyCard } from './dutyCard.ts';
 
 export interface DamagedRecord {
   /** 'revision', 'entry', 'sheet' or 'file'. */
@@ -73,23 +74,25 @@ export function verifyLibrary(db: Database.Database): VerifyReport {
       c.card AS indexed_card, c.revision AS indexed_revision
     FROM entries e LEFT JOIN duty_cards c ON c.entry_key = e.key ORDER BY e.key`);
   for (const e of entryRows.iterate() as Iterable<{
-    id: string; latest_revision: number; search_json: string; slices_json: string; display_units_json: string; fail_codes: string; diameters_json: string; duty_card: string;
-    indexed_card: string | null; indexed_revision: number | null;
+    id: string; latest_revision: number; search_json: string; slices_json: string; display_units_json: string; fail_codes: string; diameters_json: string;
+    duty_card: Buffer | null; indexed_card: Buffer | null; indexed_revision: number | null;
   }>) {
     entries += 1;
-    const broken = (['search_json', 'slices_json', 'display_units_json', 'fail_codes', 'diameters_json', 'duty_card'] as const).filter((c) => !(c === 'duty_card' && e[c] === '') && !parses(e[c]));
+    const broken: string[] = (['search_json', 'slices_json', 'display_units_json', 'fail_codes', 'diameters_json'] as const).filter((c) => !parses(e[c]));
+    if (e.duty_card !== null && !decodeDutyCard(e.duty_card)) broken.push('duty_card');
     if (broken.length) {
       damaged.push({ kind: 'entry', id: e.id, revision: e.latest_revision, problem: `its summary row cannot be read (${broken.join(', ')})` });
       continue;
     }
     // The duty card decides which sets a search evaluates: it must be the card of the set it stands for.
-    let card: string;
+    const same = (a: Buffer | null, b: Buffer | null) => (a === null || b === null ? a === b : a.equals(b));
+    let card: Buffer | null;
     try {
-      card = dutyCardText(JSON.parse(e.search_json) as CurveSet);
+      card = dutyCardBytes(JSON.parse(e.search_json) as CurveSet);
     } catch {
       card = e.duty_card;
     }
-    if (card !== e.duty_card || e.indexed_card !== e.duty_card || e.indexed_revision !== e.latest_revision) {
+    if (!same(card, e.duty_card) || !same(e.indexed_card, e.duty_card) || e.indexed_revision !== e.latest_revision) {
       damaged.push({ kind: 'entry', id: e.id, revision: e.latest_revision, problem: 'its duty card does not match its curve set; a duty search could rank it wrongly' });
     }
   }

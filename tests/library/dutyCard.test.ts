@@ -13,7 +13,7 @@ import { join } from 'node:path';
 import { LibraryStore } from '../../src/library/store.ts';
 import { searchByDuty, type DutyAnswer } from '../../src/library/dutySearch.ts';
 import { libraryMatcher } from '../../src/library/matcher.ts';
-import { cardBound, cardHeadAt, dutyCardOf } from '../../src/library/dutyCard.ts';
+import { cardBound, cardHeadAt, decodeDutyCard, dutyCardOf, encodeDutyCard } from '../../src/library/dutyCard.ts';
 import { curveAtDiameter } from '../../src/duty/meetDuty.ts';
 import { seededRandom } from '../../src/demo/random.ts';
 import type { CurveSet } from '../../src/model/curveset.ts';
@@ -63,6 +63,18 @@ function randomDuty(random: () => number, families: InventedFamily[]) {
 }
 
 describe('duty card bounds', () => {
+  it('are stored as float64 numbers that read back exactly, and a damaged card reads as none', () => {
+    const random = seededRandom(3);
+    for (let i = 0; i < 10; i++) {
+      const card = dutyCardOf(bent(inventedCurveSet(randomFamily(random, i)), random))!;
+      const bytes = encodeDutyCard(card);
+      expect(decodeDutyCard(bytes)).toEqual(card);
+      expect(decodeDutyCard(bytes.slice(0, bytes.length - 8))).toBeNull();
+      expect(decodeDutyCard(bytes.slice(0, 13))).toBeNull();
+    }
+    expect(decodeDutyCard(null)).toBeNull();
+  });
+
   it('compute the trimmed head curve as the duty engine does', () => {
     const random = seededRandom(11);
     for (let i = 0; i < 20; i++) {
