@@ -4,18 +4,24 @@
  *    (`pumpscribe library import`) in its own process: wall time and peak RSS (target ≤ 1 GiB at 100,000);
  * 2. duty search at N/10 and N sets, in-process, 200 duty points (three quarters where some invented
  *    family meets them, one quarter anywhere): p50 / p95 per query
- *    - cold: each query on a freshly opened store (no parsed set in memory; the OS file cache may be warm),
+ *    - cold: each query on a freshly opened store (no parsed set in memory; the OS file cache may be warm;
+ *      the search code compiled by 30 searches of other duties on a store closed before timing),
  *    - warm: all queries on one store after a first pass;
  *    targets: p95 ≤ 20 ms at 10,000, p95 ≤ 50 ms cold at 100,000;
  * 3. the growth exponent from N/10 to N: log(t_N / t_N/10) / log(10) (target ≤ 0.5; 1 would be linear).
  *
  * N defaults to 100,000; set PUMPSCRIBE_BENCH_LIBRARY_N (e.g. 2000) for a quick run.
+ * The generated JSON Lines files and the imported libraries are kept in bench/.cache/library/
+ * (gitignored); the files are made again when missing, so a fresh machine builds them itself. The
+ * import is run and timed every time, unless PUMPSCRIBE_BENCH_LIBRARY_REUSE=1 asks to search the
+ * libraries of an earlier run (the run then says that it did not measure the import).
  */
-import { createWriteStream, mkdtempSync, rmSync, statSync } from 'node:fs';
+import { createWriteStream, existsSync, mkdirSync, renameSync, rmSync, statSync } from 'node:fs';
 import { spawnSync } from 'node:child_process';
 import { once } from 'node:events';
-import { tmpdir } from 'node:os';
-import { join } from 'node:path';
+import { cpus, loadavg } from 'node:os';
+import { dirname, join } from 'node:path';
+import { fileURLToPath } from 'node:url';
 import { inventedCurveSet, type InventedFamily } from '../tests/library/fixtures.ts';
 import { LibraryStore } from '../src/library/store.ts';
 import { EXPORT_FORMAT, EXPORT_VERSION } from '../src/library/transfer.ts';
@@ -26,7 +32,12 @@ import { seededRandom } from '../src/demo/random.ts';
 const N = Math.max(100, Math.trunc(Number(process.env.PUMPSCRIBE_BENCH_LIBRARY_N ?? 100_000)));
 const SMALL = Math.max(10, Math.round(N / 10));
 const QUERIES = 200;
+/** Searches run before timing, for the JavaScript engine to compile the search code. */
+const WARMUP = 30;
 const SPEEDS = [1450, 1780, 2900, 3550];
+/** Bump when the invented families or the file layout change, so that stale cached files are not used. */
+const GENERATION = 1;
+const CACHE = join(dirname(fileURLToPath(import.meta.url)), '.cache', 'library');
 
 function percentile(sorted: number[], p: number): number {
   const i = Math.min(sorted.length - 1, Math.max(0, Math.ceil((p / 100) * sorted.length) - 1));
@@ -69,7 +80,7 @@ function randomFamily(random: () => number, i: number): InventedFamily {
 
 /** Writes the N-entry file, and the first N/10 entries to the small file, in one pass. */
 async function writeExports(families: InventedFamily[], large: string, small: string): Promise<void> {
-  const outs = [createWriteStream(large), createWriteStream(small)];
+  const outs = [createWriteStream(`${large}.tmp`), createWriteStream(`${small}.tmp`)];
   const header = `${JSON.stringify({ kind: 'header', format: EXPORT_FORMAT, version: EXPORT_VERSION })}\n`;
   for (const o of outs) o.write(header);
   for (let i = 0; i < families.length; i++) {
@@ -80,18 +91,22 @@ async function writeExports(families: InventedFamily[], large: string, small: st
   }
   for (const o of outs) o.end();
   await Promise.all(outs.map((o) => once(o, 'finish')));
+  renameSync(`${small}.tmp`, small);
+  renameSync(`${large}.tmp`, large);
 }
 
 /** `pumpscribe library import` in its own process, timed, with its peak RSS from /usr/bin/time. */
-function importByCommand(file: string, library: string): { seconds: number; peakMiB: number | null; out: string } {
+function importByCommand(file: string, library: string): { seconds: number; cpuSeconds: number | null; peakMiB: number | null; out: string } {
+  for (const f of [library, `${library}-wal`, `${library}-shm`]) rmSync(f, { force: true });
   const args = ['--import', 'tsx', 'src/cli/main.ts', 'library', 'import', file, '--library', library];
   const start = performance.now();
-  let r = spawnSync('/usr/bin/time', ['-f', 'PEAK_RSS_KB=%M', process.execPath, ...args], { encoding: 'utf8', maxBuffer: 64 * 2 ** 20 });
+  let r = spawnSync('/usr/bin/time', ['-f', 'PEAK_RSS_KB=%M CPU_S=%U+%S', process.execPath, ...args], { encoding: 'utf8', maxBuffer: 64 * 2 ** 20 });
   if (r.error) r = spawnSync(process.execPath, args, { encoding: 'utf8' });
   const seconds = (performance.now() - start) / 1000;
   if (r.status !== 0) throw new Error(`import failed (${r.status}): ${r.stderr}`);
   const kb = /PEAK_RSS_KB=(\d+)/.exec(r.stderr ?? '');
-  return { seconds, peakMiB: kb ? Number(kb[1]) / 1024 : null, out: r.stdout.trim() };
+  const cpu = /CPU_S=([\d.]+)\+([\d.]+)/.exec(r.stderr ?? '');
+  return { seconds, cpuSeconds: cpu ? Number(cpu[1]) + Number(cpu[2]) : null, peakMiB: kb ? Number(kb[1]) / 1024 : null, out: r.stdout.trim() };
 }
 
 function dutiesFor(families: InventedFamily[], random: () => number): Duty[] {
@@ -112,6 +127,8 @@ function dutiesFor(families: InventedFamily[], random: () => number): Duty[] {
 
 interface SearchFigures {
   cold: Stats;
+  /** CPU time of the same cold queries (this process, user + system): what the query costs whatever else runs on the machine. */
+  coldCpu: Stats;
   warm: Stats;
   openMs: Stats;
   examined: number;
@@ -121,6 +138,7 @@ interface SearchFigures {
 
 function searchFigures(library: string, duties: Duty[]): SearchFigures {
   const cold: number[] = [];
+  const coldCpu: number[] = [];
   const open: number[] = [];
   let examined = 0;
   let evaluated = 0;
@@ -130,8 +148,11 @@ function searchFigures(library: string, duties: Duty[]): SearchFigures {
     const store = LibraryStore.open(library);
     open.push(performance.now() - t);
     t = performance.now();
+    const c0 = process.cpuUsage();
     const r = searchByDuty(store, d, libraryMatcher);
     cold.push(performance.now() - t);
+    const c1 = process.cpuUsage(c0);
+    coldCpu.push((c1.user + c1.system) / 1000);
     store.close();
     examined += r.examined;
     evaluated += r.evaluated;
@@ -146,35 +167,58 @@ function searchFigures(library: string, duties: Duty[]): SearchFigures {
     warm.push(performance.now() - t);
   }
   store.close();
-  return { cold: stats(cold), warm: stats(warm), openMs: stats(open), examined: examined / duties.length, evaluated: evaluated / duties.length, found };
+  return { cold: stats(cold), coldCpu: stats(coldCpu), warm: stats(warm), openMs: stats(open), examined: examined / duties.length, evaluated: evaluated / duties.length, found };
+}
+
+/** The machine's state, printed beside the figures: on a shared machine they scale with its load. */
+function machineLine(when: string): string {
+  const [one, five] = loadavg();
+  return `machine ${when}: ${cpus().length} CPUs, load average ${one!.toFixed(1)} (1 min), ${five!.toFixed(1)} (5 min)\n`;
 }
 
 export default async function (): Promise<void> {
-  const dir = mkdtempSync(join(tmpdir(), 'pumpscribe-bench-library-'));
-  try {
+  process.stdout.write(machineLine('at the start'));
+  {
     const random = seededRandom(20250101);
     const families = Array.from({ length: N }, (_, i) => randomFamily(random, i));
-    let t = performance.now();
-    const largeFile = join(dir, 'large.jsonl');
-    const smallFile = join(dir, 'small.jsonl');
-    await writeExports(families, largeFile, smallFile);
+    const t = performance.now();
+    mkdirSync(CACHE, { recursive: true });
+    const largeFile = join(CACHE, `entries-${N}-g${GENERATION}.jsonl`);
+    const smallFile = join(CACHE, `entries-${N}-first-${SMALL}-g${GENERATION}.jsonl`);
+    const cached = existsSync(largeFile) && existsSync(smallFile);
+    if (!cached) await writeExports(families, largeFile, smallFile);
     process.stdout.write(
-      `generated ${N} and ${SMALL} invented curve sets (${(statSync(largeFile).size / 2 ** 20).toFixed(0)} MiB and ${(statSync(smallFile).size / 2 ** 20).toFixed(0)} MiB of JSON Lines) in ${f1((performance.now() - t) / 1000)} s\n`,
+      `${cached ? 'cached' : 'generated'} ${N} and ${SMALL} invented curve sets (${(statSync(largeFile).size / 2 ** 20).toFixed(0)} MiB and ${(statSync(smallFile).size / 2 ** 20).toFixed(0)} MiB of JSON Lines)` +
+        `${cached ? ` in ${CACHE}` : ` in ${f1((performance.now() - t) / 1000)} s`}\n`,
     );
 
-    const smallLib = join(dir, 'small.sqlite');
-    const largeLib = join(dir, 'large.sqlite');
-    const importSmall = importByCommand(smallFile, smallLib);
-    const importLarge = importByCommand(largeFile, largeLib);
+    const smallLib = join(CACHE, `library-${SMALL}-g${GENERATION}.sqlite`);
+    const largeLib = join(CACHE, `library-${N}-g${GENERATION}.sqlite`);
     const rss = (x: number | null) => (x === null ? 'n/a' : `${x.toFixed(0)} MiB`);
-    process.stdout.write('import by "pumpscribe library import" (own process, checks run on every set, one transaction):\n');
-    process.stdout.write(`  ${String(SMALL).padStart(7)} entries: ${f1(importSmall.seconds)} s, peak RSS ${rss(importSmall.peakMiB)}\n`);
-    process.stdout.write(
-      `  ${String(N).padStart(7)} entries: ${f1(importLarge.seconds)} s (${Math.round(N / importLarge.seconds)} entries/s), peak RSS ${rss(importLarge.peakMiB)}` +
-        ` (target ≤ 1024 MiB: ${importLarge.peakMiB !== null && importLarge.peakMiB <= 1024 ? 'met' : 'NOT met'})\n`,
-    );
+    if (process.env.PUMPSCRIBE_BENCH_LIBRARY_REUSE === '1' && existsSync(smallLib) && existsSync(largeLib)) {
+      // For working on the search only: the import is NOT measured in this run.
+      process.stdout.write(`import NOT run (PUMPSCRIBE_BENCH_LIBRARY_REUSE=1): searching the libraries imported by an earlier run in ${CACHE}\n`);
+    } else {
+      const importSmall = importByCommand(smallFile, smallLib);
+      const importLarge = importByCommand(largeFile, largeLib);
+      process.stdout.write('import by "pumpscribe library import" (own process, every set checked, one all-or-nothing transaction):\n');
+      for (const [n, r] of [[SMALL, importSmall], [N, importLarge]] as const) {
+        process.stdout.write(
+          `  ${String(n).padStart(7)} entries: ${f1(r.seconds)} s wall including start-up (${Math.round(n / r.seconds)} entries/s; ` +
+            `${r.cpuSeconds === null ? 'CPU time n/a' : `${f1(r.cpuSeconds)} s of CPU, ${Math.round(n / r.cpuSeconds)} entries per CPU-second`}), peak RSS ${rss(r.peakMiB)}` +
+            `${n === N ? ` (target ≤ 1024 MiB: ${r.peakMiB !== null && r.peakMiB <= 1024 ? 'met' : 'NOT met'})` : ''}\n`,
+        );
+      }
+    }
 
     const duties = dutiesFor(families.slice(0, SMALL), random);
+    // The code is compiled by the first searches of a process; a running server has long done so.
+    // Warm it on duties of their own, on a store that is closed again: no set stays parsed.
+    const warmup = dutiesFor(families.slice(0, SMALL), seededRandom(7)).slice(0, WARMUP);
+    const warmStore = LibraryStore.open(smallLib);
+    for (const d of warmup) searchByDuty(warmStore, d, libraryMatcher);
+    warmStore.close();
+    process.stdout.write(`(before timing: ${WARMUP} searches of other duties on a store closed again, so that the code is compiled; no cache survives them)\n`);
     const small = searchFigures(smallLib, duties);
     const large = searchFigures(largeLib, duties);
     const exponent = (a: number, b: number) => Math.log(b / a) / Math.log(N / SMALL);
@@ -182,6 +226,7 @@ export default async function (): Promise<void> {
     process.stdout.write(`duty search, ${QUERIES} queries, in-process (the same duties at both sizes, all placed among the first ${SMALL} families):\n`);
     for (const [n, s] of [[SMALL, small], [N, large]] as const) {
       process.stdout.write(`  ${String(n).padStart(7)} sets  ${row('cold', s.cold)}   (opening the store: p50 ${f1(s.openMs.p50)} ms)\n`);
+      process.stdout.write(`  ${' '.repeat(12)}  ${row('cold', s.coldCpu)}   (CPU time of the same queries)\n`);
       process.stdout.write(`  ${' '.repeat(12)}  ${row('warm', s.warm)}\n`);
       process.stdout.write(`  ${' '.repeat(12)}  per query: ${s.examined.toFixed(0)} sets' index boxes hold the duty, ${s.evaluated.toFixed(1)} evaluated by the duty engine for the best 10; ${s.found} of ${QUERIES} found a pump\n`);
     }
@@ -194,7 +239,6 @@ export default async function (): Promise<void> {
       `targets: p95 at ${SMALL} ≤ 20 ms: ${verdict(Math.max(small.cold.p95, small.warm.p95) <= 20)} (cold ${f1(small.cold.p95)}, warm ${f1(small.warm.p95)}); ` +
         `cold p95 at ${N} ≤ 50 ms: ${verdict(large.cold.p95 <= 50)} (${f1(large.cold.p95)})${N === 100_000 ? '' : ` — N is ${N}, not the 100,000 of the targets`}\n`,
     );
-  } finally {
-    rmSync(dir, { recursive: true, force: true });
   }
+  process.stdout.write(machineLine('at the end'));
 }

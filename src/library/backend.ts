@@ -1,11 +1,12 @@
 /**
  * What the rest of Pumpscribe asks of a library store. The SQLite file (store.ts) implements it
  * today; a server database could implement the same calls later (the duty index is a box query on
- * flow, head and an efficiency bound, plus a per-revision summary row: any database with a spatial
- * or plain B-tree index can answer it).
+ * flow, head and an efficiency bound, plus a per-revision summary row and duty card: any database
+ * with a spatial or plain B-tree index can answer it).
  */
 import type { CurveSet } from '../model/curveset.ts';
 import type { EntryInfo, RevisionInfo, SavedRevision, StoredRevision } from './types.ts';
+import type { DutyCard } from './dutyCard.ts';
 
 export interface ListOptions {
   q?: string;
@@ -25,8 +26,8 @@ export interface DutyIndexRow {
   id: string;
   revision: number;
   bound: number;
-  /** What a search result shows, read with the row so that no second query is needed. */
-  names: EntryNames;
+  /** The revision's duty card (null for a speed family, or a row whose card is missing or damaged). */
+  card: DutyCard | null;
 }
 
 export interface EntryNames {

@@ -5,11 +5,13 @@
  * The duty index (dutyIndex.ts) holds, for every active entry, a few boxes in flow and head, each
  * with an upper bound on the efficiency any trim can reach there. A query walks that index in bands
  * of the bound, best first: it reads only the entries whose boxes hold the duty and whose bound can
- * still beat the last place of the ranking. For each, a screen on the captured head curves
- * (dutyBounds.ts) drops those whose diameters cannot reach the duty and tightens the bound; the duty
- * engine's matcher then evaluates the survivors best bound first, and the walk stops when no
- * remaining entry could enter the top `limit`: the ranking is exact without parsing every pump that
- * spans the duty, and with no whole-library cache.
+ * still beat the last place of the ranking. For each, the entry's duty card (dutyCard.ts, a few
+ * hundred bytes kept with its latest revision) finds the trim that meets the duty and bounds its
+ * efficiency tightly, or shows that the set cannot meet it (sets without a card are screened on
+ * their search copy, dutyBounds.ts); the duty engine's matcher then evaluates the survivors best
+ * bound first, and the walk stops when no remaining entry could enter the top `limit`: the ranking
+ * is exactly that of the engine run on every set, the engine runs on little more than `limit` sets,
+ * and no whole-library cache is needed.
  * Sound sets come first; sets kept with `fail` findings are marked and ranked after every sound one.
  * A row that cannot be read is skipped and named in the answer (`damaged`); it never sinks a search.
  * Ranking is by efficiency at the duty, or by annual energy cost when hours and a tariff are given.
@@ -19,8 +21,9 @@
  */
 import type { CurveSet } from '../model/curveset.ts';
 import { LibraryError } from './errors.ts';
-import type { LibraryBackend, DutyIndexRow } from './backend.ts';
+import type { LibraryBackend, DutyIndexRow, EntryNames } from './backend.ts';
 import { screenDuty } from './dutyBounds.ts';
+import { cardBound } from './dutyCard.ts';
 
 export type PorPlace = 'below' | 'within' | 'above' | 'unknown';
 
@@ -101,7 +104,7 @@ export interface DutySearchResult {
    * taken, since counting every box at 100,000 entries costs more than the search itself).
    */
   examined: number;
-  /** Of the entries read, those whose captured diameters reach the duty. */
+  /** Of the entries read, those that may meet the duty (the others surely cannot, by their duty card or screen). */
   reachable: number;
   /** Entries the duty engine evaluated; the others could not enter the ranking. */
   evaluated: number;
@@ -120,8 +123,25 @@ export interface DutySearchResult {
 /** Candidates returned unless the caller asks for more. */
 export const DEFAULT_LIMIT = 10;
 
-/** Edges of the efficiency-bound bands the index is walked in, best first (bounds are fractions; -1: no efficiency curve). */
-const BAND_EDGES = [1e9, ...Array.from({ length: 50 }, (_, i) => 1 - i * 0.01), 0.45, 0.4, 0.3, 0.2, 0.1, 0, -1e9];
+/**
+ * The efficiency-bound bands the index is walked in, best first (bounds are fractions; -1: no
+ * efficiency curve): everything above 1, then bands 1 % wide down to 50 % (0.5 % wide after a band
+ * that held many more entries than are still wanted, so that a dense library reads few entries it
+ * does not need), 5 % wide below, and one last band below zero. Reading an entry costs more than
+ * asking the index once more, so the bands stay narrow.
+ */
+function* efficiencyBands(sizes: () => { rows: number; wanted: number }): Generator<[number, number]> {
+  yield [1, 1e9];
+  let hi = 1;
+  while (hi > 1e-9) {
+    const { rows, wanted } = sizes();
+    const width = hi > 0.5 + 1e-9 ? (rows > 4 * wanted ? 0.005 : 0.01) : 0.05;
+    const lo = Math.max(0, Math.round((hi - width) * 1000) / 1000);
+    yield [lo, hi];
+    hi = lo;
+  }
+  yield [-1e9, 0];
+}
 
 export function checkDuty(duty: Duty): void {
   if (!(Number.isFinite(duty.flow_m3s) && duty.flow_m3s > 0)) throw new LibraryError('The duty flow must be a number greater than zero.', 'invalid');
@@ -159,12 +179,11 @@ export function searchByDuty(store: LibraryBackend, duty: Duty, matcher: DutyMat
   // True when the walk stopped before reading every entry whose boxes hold the duty.
   let cut = false;
   // The cost ranking has no bound in the index (power depends on the duty): it reads every box holding the duty.
-  const edges = byCost ? [1e9, -1e9] : BAND_EDGES;
 
   for (const failing of [false, true]) {
     const room = limit - ranked.length;
     const tier: DutyCandidate[] = [];
-    type Pending = { row: DutyIndexRow; set: CurveSet; key: number };
+    type Pending = { row: DutyIndexRow; set: CurveSet | null; key: number };
     let pending: Pending[] = [];
     let stopped = false;
     // Can a set with this key still enter the tier's ranking?
@@ -177,9 +196,9 @@ export function searchByDuty(store: LibraryBackend, duty: Duty, matcher: DutyMat
       cut = true;
       continue;
     }
-    for (let b = 0; b + 1 < edges.length && !stopped; b++) {
-      const hi = edges[b] as number;
-      const lo = edges[b + 1] as number;
+    let bandRows = 0;
+    const bands = byCost ? [[-1e9, 1e9] as [number, number]] : efficiencyBands(() => ({ rows: bandRows, wanted: Math.max(1, room - tier.length) }));
+    for (const [lo, hi] of bands) {
       if (!byCost && tier.length >= room && !canEnter(hi)) {
         stopped = true;
         break;
@@ -187,6 +206,7 @@ export function searchByDuty(store: LibraryBackend, duty: Duty, matcher: DutyMat
       let band: DutyIndexRow[];
       try {
         band = store.dutyBand(q, h, lo, hi, failing);
+        bandRows = band.length;
       } catch (error) {
         // A damaged summary row in this band: read the band's rows one by one to name it and go on.
         band = [];
@@ -195,18 +215,28 @@ export function searchByDuty(store: LibraryBackend, duty: Duty, matcher: DutyMat
       for (const row of band) {
         if (seen.has(row.id)) continue;
         seen.add(row.id);
-        let set: CurveSet;
-        let screen: ReturnType<typeof screenDuty>;
-        try {
-          set = store.searchSet(row.id, row.revision);
-          screen = screenDuty(set, q, h);
-        } catch (error) {
-          damaged.push({ id: row.id, revision: row.revision, problem: problemOf(error) });
-          continue;
+        let set: CurveSet | null = null;
+        let efficiencyBound: number;
+        let powerBound: number;
+        if (row.card) {
+          // The duty card bounds the set from a few hundred bytes; the search copy is read only if it is evaluated.
+          const bound = cardBound(row.card, q, h);
+          if (bound.reject) continue;
+          ({ efficiencyBound, powerBound } = bound);
+        } else {
+          let screen: ReturnType<typeof screenDuty>;
+          try {
+            set = store.searchSet(row.id, row.revision);
+            screen = screenDuty(set, q, h);
+          } catch (error) {
+            damaged.push({ id: row.id, revision: row.revision, problem: problemOf(error) });
+            continue;
+          }
+          if (!screen) continue;
+          ({ efficiencyBound, powerBound } = screen);
         }
-        if (!screen) continue;
         reachable += 1;
-        pending.push({ row, set, key: byCost ? screen.powerBound : Math.min(screen.efficiencyBound, row.bound) });
+        pending.push({ row, set, key: byCost ? powerBound : Math.min(efficiencyBound, row.bound) });
       }
       pending.sort(byCost ? (x, y) => x.key - y.key : (x, y) => y.key - x.key);
       // Evaluate what no later band can beat: keys at or above this band's floor (all of them for cost).
@@ -218,10 +248,19 @@ export function searchByDuty(store: LibraryBackend, duty: Duty, matcher: DutyMat
           stopped = true;
           break;
         }
+        let set = p.set;
+        if (!set) {
+          try {
+            set = store.searchSet(p.row.id, p.row.revision);
+          } catch (error) {
+            damaged.push({ id: p.row.id, revision: p.row.revision, problem: problemOf(error) });
+            continue;
+          }
+        }
         evaluated += 1;
         let match: DutyAnswer | null;
         try {
-          match = matcher(p.set, duty);
+          match = matcher(set, duty);
         } catch {
           // One curve set the engine cannot read must not sink the whole office search; it is counted.
           failed.push(p.row.id);
@@ -229,7 +268,15 @@ export function searchByDuty(store: LibraryBackend, duty: Duty, matcher: DutyMat
         }
         if (!match) continue;
         matched += 1;
-        const { fail_count, fail_codes, display_units, ...who } = p.row.names;
+        // Names and marks are read for a match only: the index rows stay narrow.
+        let names: EntryNames;
+        try {
+          names = store.names(p.row.id);
+        } catch (error) {
+          damaged.push({ id: p.row.id, revision: p.row.revision, problem: problemOf(error) });
+          continue;
+        }
+        const { fail_count, fail_codes, display_units, ...who } = names;
         const c: DutyCandidate = { ...who, revision: p.row.revision, ...match, failing: fail_count > 0, fail_codes, display_units };
         if (hours !== undefined && match.power_W !== undefined) {
           c.annual_energy_kWh = (match.power_W * hours) / 1000;

@@ -39,19 +39,12 @@ export interface DutyCandidateView {
   units: { flow: string; head: string; diameter: string; power: string; npshr: string };
 }
 
-export interface DutySearchView {
+/** The search's counts and marks, as the search gives them (dutySearch.ts). */
+type SearchCounts = Pick<DutySearchResult, 'ranking' | 'examined' | 'reachable' | 'evaluated' | 'matched' | 'failed' | 'damaged' | 'complete'>;
+
+export interface DutySearchView extends SearchCounts {
   units: { flow: string; head: string; diameter: string; power: string; npshr: string; efficiency: '%' };
   duty: { flow: number; head: number; static_head: number | null };
-  ranking: DutySearchResult['ranking'];
-  examined: number;
-  reachable: number;
-  evaluated: number;
-  matched: number;
-  /** Entries the duty engine could not evaluate (left out). */
-  failed: string[];
-  /** Rows that could not be read (left out); run `library verify`. */
-  damaged: DamagedRow[];
-  complete: boolean;
   candidates: DutyCandidateView[];
   notice: string;
 }

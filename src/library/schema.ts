@@ -7,7 +7,7 @@ import type Database from 'better-sqlite3';
 import { LibraryError } from './errors.ts';
 
 export const LIBRARY_FORMAT = 'pumpscribe.library';
-export const SCHEMA_VERSION = 2;
+export const SCHEMA_VERSION = 3;
 
 const MIGRATIONS: readonly string[] = [
   // 0 → 1
@@ -129,6 +129,29 @@ const MIGRATIONS: readonly string[] = [
       FROM json_each(NEW.slices_json) AS j WHERE NEW.archived_at IS NULL AND j.key < 16;
   END;
   CREATE TRIGGER duty_index_u AFTER UPDATE ON entries BEGIN
+    DELETE FROM duty_index WHERE slice BETWEEN NEW.key * 16 AND NEW.key * 16 + 15;
+    INSERT INTO duty_index SELECT NEW.key * 16 + j.key, j.value ->> 0, j.value ->> 1, j.value ->> 2, j.value ->> 3, j.value ->> 4, j.value ->> 4, NEW.key, NEW.fail_count > 0
+      FROM json_each(NEW.slices_json) AS j WHERE NEW.archived_at IS NULL AND j.key < 16;
+  END;
+  `,
+  // 2 → 3: each entry keeps the duty card of its latest revision (dutyCard.ts), so that a duty search
+  // bounds a candidate from a few hundred bytes and runs the duty engine only on those that can win.
+  // The backfill (backfill.ts) fills it for the rows already there.
+  // The index trigger fires only on the columns the index is made of, so filling the card leaves it be.
+  // The cards are copied by triggers into a narrow table beside the duty index: an entry row is
+  // several kilobytes (its search copy), and reading columns past it would walk its overflow pages.
+  `
+  ALTER TABLE entries ADD COLUMN duty_card BLOB;
+  CREATE TABLE duty_cards (entry_key INTEGER PRIMARY KEY, entry_id TEXT NOT NULL, revision INTEGER NOT NULL, card BLOB) STRICT;
+  INSERT INTO duty_cards SELECT key, id, latest_revision, duty_card FROM entries;
+  CREATE TRIGGER duty_cards_i AFTER INSERT ON entries BEGIN
+    INSERT INTO duty_cards VALUES (NEW.key, NEW.id, NEW.latest_revision, NEW.duty_card);
+  END;
+  CREATE TRIGGER duty_cards_u AFTER UPDATE OF latest_revision, duty_card ON entries BEGIN
+    INSERT OR REPLACE INTO duty_cards VALUES (NEW.key, NEW.id, NEW.latest_revision, NEW.duty_card);
+  END;
+  DROP TRIGGER duty_index_u;
+  CREATE TRIGGER duty_index_u AFTER UPDATE OF key, archived_at, fail_count, slices_json ON entries BEGIN
     DELETE FROM duty_index WHERE slice BETWEEN NEW.key * 16 AND NEW.key * 16 + 15;
     INSERT INTO duty_index SELECT NEW.key * 16 + j.key, j.value ->> 0, j.value ->> 1, j.value ->> 2, j.value ->> 3, j.value ->> 4, j.value ->> 4, NEW.key, NEW.fail_count > 0
       FROM json_each(NEW.slices_json) AS j WHERE NEW.archived_at IS NULL AND j.key < 16;

@@ -22,10 +22,11 @@ import { checkEntryId, newEntryId } from './ids.ts';
 import { checkLibraryFile, migrate, SCHEMA_VERSION } from './schema.ts';
 import { SheetStore } from './sheets.ts';
 import { searchCopy } from './summary.ts';
+import { decodeDutyCard } from './dutyCard.ts';
 import { prepareStatements, summaryRow, type RevisionFacts } from './storeSql.ts';
 import { fullDiskError, storageFault } from './storage.ts';
 import { checkRevision } from './validate.ts';
-import { backfillV2 } from './backfill.ts';
+import { backfillV2, backfillV3 } from './backfill.ts';
 import { verifyLibrary, type VerifyReport } from './verify.ts';
 import { entryInfoOf, type EntryInfo, type EntryRow, type RevisionInfo, type SavedRevision, type StoredRevision } from './types.ts';
 import type { DutyIndexRow, EntryNames, LibraryBackend, ListOptions, WriteOptions } from './backend.ts';
@@ -124,7 +125,7 @@ export class LibraryStore implements LibraryBackend {
         // FULL: a committed revision survives a power cut, not only a process restart.
         db.pragma('synchronous = FULL');
         db.pragma('foreign_keys = ON');
-        migrate(db, this.now(), { 2: backfillV2 });
+        migrate(db, this.now(), { 2: backfillV2, 3: backfillV3 });
       }
     } catch (error) {
       // A refused open leaves nothing behind: no empty library, no -wal or -shm beside someone's file.
@@ -310,14 +311,14 @@ export class LibraryStore implements LibraryBackend {
    * sound (`failing` false) or failing ones; each entry once, with its highest bound.
    */
   dutyBand(flowM3s: number, headM: number, lo: number, hi: number, failing: boolean): DutyIndexRow[] {
-    type Raw = { id: string; revision: number; bound: number; name: string; maker: string | null; model: string | null; rated_speed_rpm: number; fail_count: number; fail_codes: string; display_units_json: string };
+    type Raw = { id: string; revision: number; bound: number; card: Buffer | null };
     const rows = this.stmts.dutyBand.all({ q: flowM3s, h: headM, lo, hi, failing: failing ? 1 : 0 }) as Raw[];
     const best = new Map<string, Raw>();
     for (const r of rows) {
       const seen = best.get(r.id);
       if (!seen || r.bound > seen.bound) best.set(r.id, r);
     }
-    return [...best.values()].map((r) => ({ id: r.id, revision: r.revision, bound: r.bound, names: namesOf(r) }));
+    return [...best.values()].map((r) => ({ id: r.id, revision: r.revision, bound: r.bound, card: decodeDutyCard(r.card) }));
   }
 
   /** How many active entries have an index box holding (flow, head). */

@@ -6,6 +6,7 @@ import type Database from 'better-sqlite3';
 import type { CurveSet } from '../model/curveset.ts';
 import { searchCopy, summarize } from './summary.ts';
 import { dutySlices } from './dutyIndex.ts';
+import { dutyCardOf, encodeDutyCard } from './dutyCard.ts';
 import type { FindingsSummary } from './soundness.ts';
 
 /** A checked revision with everything the store writes beside its text. */
@@ -48,13 +49,21 @@ export function summaryRow(id: string, revision: number, facts: RevisionFacts, a
     fail_codes: JSON.stringify(facts.findings.fail_codes),
     display_units_json: JSON.stringify(facts.set.display_units),
     slices_json: JSON.stringify(dutySlices(facts.set, s)),
+    duty_card: dutyCardBytes(facts.set),
   };
+}
+
+/** The stored duty card of a set (dutyCard.ts), or null when the set has none (a speed family). */
+export function dutyCardBytes(set: CurveSet): Buffer | null {
+  const card = dutyCardOf(set);
+  return card ? Buffer.from(encodeDutyCard(card)) : null;
 }
 
 const SUMMARY_COLUMNS = [
   'latest_revision', 'name', 'maker', 'model', 'size', 'pump_type', 'family', 'speed_rpm', 'diameters_json', 'diameter_min_m',
   'diameter_max_m', 'member_count', 'flow_min_m3s', 'flow_max_m3s', 'head_min_m', 'head_max_m', 'bep_flow_m3s', 'bep_head_m',
   'bep_efficiency', 'search_text', 'search_json', 'updated_at', 'fail_count', 'warn_count', 'fail_codes', 'display_units_json', 'slices_json',
+  'duty_card',
 ];
 
 export function prepareStatements(db: Database.Database) {
@@ -77,9 +86,8 @@ export function prepareStatements(db: Database.Database) {
     event: db.prepare('INSERT INTO entry_events (entry_id, at, event, revision) VALUES (?, ?, ?, ?)'),
     setArchived: db.prepare('UPDATE entries SET archived_at = ? WHERE id = ?'),
     /** Index boxes holding (flow, head) with an efficiency bound in [lo, hi); sound or failing sets. */
-    dutyBand: db.prepare(`SELECT e.id, e.latest_revision AS revision, d.eta_max AS bound, e.name, e.maker, e.model,
-        e.speed_rpm AS rated_speed_rpm, e.fail_count, e.fail_codes, e.display_units_json
-      FROM duty_index d JOIN entries e ON e.key = d.entry_key
+    dutyBand: db.prepare(`SELECT c.entry_id AS id, c.revision, d.eta_max AS bound, c.card
+      FROM duty_index d JOIN duty_cards c ON c.entry_key = d.entry_key
       WHERE d.flow_min <= @q AND d.flow_max >= @q AND d.head_min <= @h AND d.head_max >= @h
         AND d.eta_max >= @lo AND d.eta_min < @hi AND d.failing = @failing`),
     dutyCount: db.prepare(`SELECT count(DISTINCT entry_key) AS n FROM duty_index

@@ -1,4 +1,5 @@
 /** Rows and replies of the library store. Figures are SI, named with their unit. */
+import type { EntryInfo } from '../model/libraryEntry.ts';
 
 /** One row of the `entries` table. */
 export interface EntryRow {
@@ -31,31 +32,12 @@ export interface EntryRow {
   fail_codes: string;
   display_units_json: string;
   slices_json: string;
+  /** The duty card of the latest revision (dutyCard.ts), or null for a set without one. */
+  duty_card: Buffer | null;
 }
 
-/** The summary of an entry as the API and the CLI show it. */
-export interface EntryInfo {
-  id: string;
-  revision: number;
-  name: string;
-  maker: string | null;
-  model: string | null;
-  size: string | null;
-  type: string | null;
-  family: string;
-  speed_rpm: number;
-  diameters_m: number[];
-  flow_range_m3s: [number, number];
-  head_range_m: [number, number];
-  bep: { flow_m3s: number; head_m: number; efficiency: number } | null;
-  created_at: string;
-  updated_at: string;
-  archived_at: string | null;
-  /** The display units the curve set was saved in (its own units). */
-  display_units: Record<string, string>;
-  /** Findings summary of the latest revision; a failing entry is marked and ranked last by duty search. */
-  findings: { fail_count: number; warn_count: number; fail_codes: string[] };
-}
+/** The summary of an entry as the API, the CLI and the screens show it (one type, in the model layer). */
+export type { EntryInfo } from '../model/libraryEntry.ts';
 
 export interface SavedRevision {
   id: string;

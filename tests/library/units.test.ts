@@ -68,7 +68,9 @@ describe('a library of schema version 1', () => {
     const file = join(tmp.dir, 'v1.sqlite');
     copyFileSync(join(import.meta.dirname, 'fixtures', 'v1-library.sqlite'), file);
     const store = LibraryStore.open(file);
-    expect(store.db.pragma('user_version', { simple: true })).toBe(2);
+    expect(store.db.pragma('user_version', { simple: true })).toBe(3);
+    // Schema 3 fills the duty card of every diameter family from its search copy.
+    expect((store.db.prepare(`SELECT count(*) AS n FROM duty_cards WHERE length(card) > 0`).get() as { n: number }).n).toBe(3);
     expect(store.counts()).toEqual({ entries: 3, archived: 0, revisions: 4, sheets: 1 });
     expect(store.verify().damaged).toEqual([]);
     expect(store.revisions('00000000000000a2').map((r) => r.fail_count)).toEqual([0, 0]);

@@ -17,7 +17,7 @@ import { removeLibraryFiles, restoreLibrary } from '../../library/restore.ts';
 import type { DamagedRow } from '../../library/dutySearch.ts';
 import type { EntryInfo } from '../../library/types.ts';
 import { DEFAULT_LIBRARY_FILE } from '../../library/defaultFile.ts'; // not the server's module: it would load the web server
-import { fromSI, parseUnit, presetNamed, resolveUnits, roundSignificant, toSI, type PresetName, type Unit } from '../../units/index.ts';
+import { fromSI, parseUnit, presetNamed, resolveUnits, showNumber, toSI, type PresetName, type Unit } from '../../units/index.ts';
 import { EXIT_FAILED_CHECKS, EXIT_OK, runCommand } from '../errors.ts';
 import { checkRevision } from '../../library/validate.ts';
 import { storageFault } from '../../library/storage.ts';
@@ -52,8 +52,18 @@ async function withLibrary<T>(file: string, create: boolean, body: (store: Libra
   }
 }
 
+/**
+ * Runs a command on an existing library: opens it, runs `body`, closes it; exits 0 unless `body`
+ * returns another code.
+ */
+function onLibrary(file: string, body: (store: LibraryStore) => void | number | Promise<void | number>): Promise<never> {
+  return runCommand(() => withLibrary(file, false, async (store) => (await body(store)) ?? EXIT_OK));
+}
+
+/** A table cell: the figure by the one formatter, or a dash where there is none. */
 function num(value: number | null | undefined, digits = 4): string {
-  return value === null || value === undefined || !Number.isFinite(value) ? '—' : String(roundSignificant(value, digits));
+  const shown = showNumber(value, digits);
+  return shown.ok ? shown.text : '—';
 }
 
 function table(rows: string[][]): string {
@@ -191,18 +201,15 @@ export function register(program: Command): void {
     .option('--units <system>', 'show every entry in si or us units (default: each set in its own units)')
     .option('--json', 'print JSON')
     .action((o: LibraryFlag & { q?: string; archived?: boolean; units?: string; json?: boolean }) =>
-      runCommand(() =>
-        withLibrary(o.library, false, (store) => {
-          const system = o.units === undefined ? 'own' : unitSystemNamed(o.units);
-          const result = store.list({ q: o.q ?? '', archived: o.archived === true, limit: 1000 });
-          if (o.json) out(JSON.stringify(result, null, 2));
-          else {
-            out(result.entries.length ? entryTable(result.entries, system) : 'No entries match.');
-            out(`${result.entries.length} of ${result.total} shown.${store.readonly ? ` (read-only: ${store.readonlyReason})` : ''}`);
-          }
-          return EXIT_OK;
-        }),
-      ),
+      onLibrary(o.library, (store) => {
+        const system = o.units === undefined ? 'own' : unitSystemNamed(o.units);
+        const result = store.list({ q: o.q ?? '', archived: o.archived === true, limit: 1000 });
+        if (o.json) out(JSON.stringify(result, null, 2));
+        else {
+          out(result.entries.length ? entryTable(result.entries, system) : 'No entries match.');
+          out(`${result.entries.length} of ${result.total} shown.${store.readonly ? ` (read-only: ${store.readonlyReason})` : ''}`);
+        }
+      }),
     );
 
   withFile(library.command('find').description('rank the pumps that can meet a duty point (a captured diameter or a trim between them)'))
@@ -215,36 +222,33 @@ export function register(program: Command): void {
     .option('--limit <n>', 'most candidates to show', '10')
     .option('--json', 'print JSON')
     .action((o: LibraryFlag & { flow: string; head: string; units?: string; static?: string; hours?: string; tariff?: string; limit: string; json?: boolean }) =>
-      runCommand(() =>
-        withLibrary(o.library, false, (store) => {
-          const system = o.units === undefined ? null : unitSystemNamed(o.units);
-          const duty = {
-            flow_m3s: dutyFigure(o.flow, '--flow', 'flow', system),
-            head_m: dutyFigure(o.head, '--head', 'head', system),
-            ...(o.static === undefined ? {} : { static_head_m: dutyFigure(o.static, '--static', 'head', system) }),
-          };
-          const hours = positiveOption(o.hours, '--hours');
-          const tariff = o.tariff === undefined ? undefined : Number(o.tariff);
-          if (tariff !== undefined && !Number.isFinite(tariff)) throw new LibraryError(`The option --tariff must be a number, not "${o.tariff}".`, 'invalid');
-          const limit = positiveOption(o.limit, '--limit') as number;
-          const result = searchByDuty(store, duty, libraryMatcher, {
-            ...(hours === undefined ? {} : { hoursPerYear: hours }),
-            ...(tariff === undefined ? {} : { tariffPerKWh: tariff }),
-            limit: Math.trunc(limit),
-          });
-          const dutyUnits = system ?? (/gpm|ft/i.test(`${o.flow} ${o.head}`) ? 'us' : 'si');
-          const view = dutySearchView(result, system ?? 'own', dutyUnits);
-          if (o.json) {
-            out(JSON.stringify(view, null, 2));
-            return EXIT_OK;
-          }
-          const u = view.units;
-          out(`Duty ${num(view.duty.flow)} ${u.flow} at ${num(view.duty.head)} ${u.head}: ${matchSentence(view)}`);
-          if (view.candidates.length) out(searchTable(view));
-          out(view.notice);
+      onLibrary(o.library, (store) => {
+        const system = o.units === undefined ? null : unitSystemNamed(o.units);
+        const duty = {
+          flow_m3s: dutyFigure(o.flow, '--flow', 'flow', system),
+          head_m: dutyFigure(o.head, '--head', 'head', system),
+          ...(o.static === undefined ? {} : { static_head_m: dutyFigure(o.static, '--static', 'head', system) }),
+        };
+        const hours = positiveOption(o.hours, '--hours');
+        const tariff = o.tariff === undefined ? undefined : Number(o.tariff);
+        if (tariff !== undefined && !Number.isFinite(tariff)) throw new LibraryError(`The option --tariff must be a number, not "${o.tariff}".`, 'invalid');
+        const limit = positiveOption(o.limit, '--limit') as number;
+        const result = searchByDuty(store, duty, libraryMatcher, {
+          ...(hours === undefined ? {} : { hoursPerYear: hours }),
+          ...(tariff === undefined ? {} : { tariffPerKWh: tariff }),
+          limit: Math.trunc(limit),
+        });
+        const dutyUnits = system ?? (/gpm|ft/i.test(`${o.flow} ${o.head}`) ? 'us' : 'si');
+        const view = dutySearchView(result, system ?? 'own', dutyUnits);
+        if (o.json) {
+          out(JSON.stringify(view, null, 2));
           return EXIT_OK;
-        }),
-      ),
+        }
+        const u = view.units;
+        out(`Duty ${num(view.duty.flow)} ${u.flow} at ${num(view.duty.head)} ${u.head}: ${matchSentence(view)}`);
+        if (view.candidates.length) out(searchTable(view));
+        out(view.notice);
+      }),
     );
 
   withFile(library.command('show').description('print an entry’s curve set (latest revision unless --revision)').argument('<id>'))
@@ -252,39 +256,30 @@ export function register(program: Command): void {
     .option('--raw', 'print the stored text exactly, without indentation')
     .option('-o, --output <file>', 'write to a file instead')
     .action((id: string, o: LibraryFlag & { revision?: string; raw?: boolean; output?: string }) =>
-      runCommand(() =>
-        withLibrary(o.library, false, (store) => {
-          const rev = positiveOption(o.revision, '--revision');
-          const stored = store.get(entryId(id), rev === undefined ? undefined : Math.trunc(rev));
-          const text = o.raw ? `${stored.body}\n` : `${JSON.stringify(JSON.parse(stored.body), null, 2)}\n`;
-          if (o.output) {
-            writeTextAtomic(o.output, text);
-            out(`wrote ${o.output} (entry ${stored.id} revision ${stored.revision})`);
-          } else process.stdout.write(text);
-          return EXIT_OK;
-        }),
-      ),
+      onLibrary(o.library, (store) => {
+        const rev = positiveOption(o.revision, '--revision');
+        const stored = store.get(entryId(id), rev === undefined ? undefined : Math.trunc(rev));
+        const text = o.raw ? `${stored.body}\n` : `${JSON.stringify(JSON.parse(stored.body), null, 2)}\n`;
+        if (o.output) {
+          writeTextAtomic(o.output, text);
+          out(`wrote ${o.output} (entry ${stored.id} revision ${stored.revision})`);
+        } else process.stdout.write(text);
+      }),
     );
 
   withFile(library.command('revisions').description('list the revisions of an entry').argument('<id>')).action((id: string, o: LibraryFlag) =>
-    runCommand(() =>
-      withLibrary(o.library, false, (store) => {
-        const info = store.info(entryId(id));
-        out(`${info.id}: ${info.name}${info.archived_at ? ` (archived ${info.archived_at})` : ''}`);
-        out(table([['revision', 'saved at', 'bytes', 'sha256'], ...store.revisions(info.id).map((r) => [String(r.revision), r.saved_at, String(r.bytes), r.sha256])]));
-        return EXIT_OK;
-      }),
-    ),
+    onLibrary(o.library, (store) => {
+      const info = store.info(entryId(id));
+      out(`${info.id}: ${info.name}${info.archived_at ? ` (archived ${info.archived_at})` : ''}`);
+      out(table([['revision', 'saved at', 'bytes', 'sha256'], ...store.revisions(info.id).map((r) => [String(r.revision), r.saved_at, String(r.bytes), r.sha256])]));
+    }),
   );
 
   withFile(library.command('archive').description('archive an entry (it stays in the file and can be restored)').argument('<id>')).action((id: string, o: LibraryFlag) =>
-    runCommand(() =>
-      withLibrary(o.library, false, (store) => {
-        const info = store.archive(entryId(id));
-        out(`${info.id} archived at ${info.archived_at}: ${info.name}`);
-        return EXIT_OK;
-      }),
-    ),
+    onLibrary(o.library, (store) => {
+      const info = store.archive(entryId(id));
+      out(`${info.id} archived at ${info.archived_at}: ${info.name}`);
+    }),
   );
 
   withFile(
@@ -317,52 +312,49 @@ export function register(program: Command): void {
     .option('-o, --output <file>', 'file to write (default: standard output)')
     .option('--skip-damaged', 'leave out entries with a damaged revision (named on stderr) instead of refusing')
     .action((o: LibraryFlag & { output?: string; skipDamaged?: boolean }) =>
-      runCommand(() =>
-        withLibrary(o.library, false, async (store) => {
-          const skipped: DamagedRow[] = [];
-          const options = { skipDamaged: o.skipDamaged === true, skipped };
-          const tellSkipped = () => {
-            for (const d of skipped) process.stderr.write(`pumpscribe: left out ${d.id}${d.revision ? ` (revision ${d.revision})` : ''}: ${d.problem}\n`);
-          };
-          if (!o.output) {
-            // Check everything first, so that a refusal never leaves half a backup on standard output.
-            for (const _line of exportLines(store, { skipDamaged: o.skipDamaged === true })) void _line;
-            for (const line of exportLines(store, options)) {
-              if (!process.stdout.write(`${line}\n`)) await once(process.stdout, 'drain');
-            }
-            tellSkipped();
-            return EXIT_OK;
-          }
-          const target = resolve(o.output);
-          if (!existsSync(dirname(target))) throw new LibraryError(`Cannot write "${o.output}": the folder does not exist.`, 'invalid');
-          const tmp = join(dirname(target), `.${basename(target)}.${process.pid}.tmp`);
-          const stream = createWriteStream(tmp);
-          let streamError: unknown = null;
-          stream.on('error', (error) => {
-            streamError = error;
-          });
-          try {
-            for (const line of exportLines(store, options)) {
-              if (streamError) throw streamError;
-              if (!stream.write(`${line}\n`)) await once(stream, 'drain');
-            }
-            stream.end();
-            await once(stream, 'finish');
-            if (streamError) throw streamError;
-            renameSync(tmp, target);
-          } catch (error) {
-            if (!stream.destroyed) {
-              stream.destroy();
-              await once(stream, 'close').catch(() => undefined);
-            }
-            if (existsSync(tmp)) unlinkSync(tmp);
-            throw storageFault(error, target) ?? error;
+      onLibrary(o.library, async (store) => {
+        const skipped: DamagedRow[] = [];
+        const options = { skipDamaged: o.skipDamaged === true, skipped };
+        const tellSkipped = () => {
+          for (const d of skipped) process.stderr.write(`pumpscribe: left out ${d.id}${d.revision ? ` (revision ${d.revision})` : ''}: ${d.problem}\n`);
+        };
+        if (!o.output) {
+          // Check everything first, so that a refusal never leaves half a backup on standard output.
+          for (const _line of exportLines(store, { skipDamaged: o.skipDamaged === true })) void _line;
+          for (const line of exportLines(store, options)) {
+            if (!process.stdout.write(`${line}\n`)) await once(process.stdout, 'drain');
           }
           tellSkipped();
-          out(`wrote ${o.output} (${statSync(target).size} bytes${skipped.length ? `; ${skipped.length} damaged rows left out` : ''})`);
           return EXIT_OK;
-        }),
-      ),
+        }
+        const target = resolve(o.output);
+        if (!existsSync(dirname(target))) throw new LibraryError(`Cannot write "${o.output}": the folder does not exist.`, 'invalid');
+        const tmp = join(dirname(target), `.${basename(target)}.${process.pid}.tmp`);
+        const stream = createWriteStream(tmp);
+        let streamError: unknown = null;
+        stream.on('error', (error) => {
+          streamError = error;
+        });
+        try {
+          for (const line of exportLines(store, options)) {
+            if (streamError) throw streamError;
+            if (!stream.write(`${line}\n`)) await once(stream, 'drain');
+          }
+          stream.end();
+          await once(stream, 'finish');
+          if (streamError) throw streamError;
+          renameSync(tmp, target);
+        } catch (error) {
+          if (!stream.destroyed) {
+            stream.destroy();
+            await once(stream, 'close').catch(() => undefined);
+          }
+          if (existsSync(tmp)) unlinkSync(tmp);
+          throw storageFault(error, target) ?? error;
+        }
+        tellSkipped();
+        out(`wrote ${o.output} (${statSync(target).size} bytes${skipped.length ? `; ${skipped.length} damaged rows left out` : ''})`);
+      }),
     );
 
   withFile(library.command('import').description('add a JSON Lines export to the library, all or nothing').argument('<file>', 'file written by "library export"'))
@@ -384,31 +376,26 @@ export function register(program: Command): void {
   withFile(library.command('verify').description('read every row of the library and name each damaged one (exit 1 when any is)'))
     .option('--json', 'print JSON')
     .action((o: LibraryFlag & { json?: boolean }) =>
-      runCommand(() =>
-        withLibrary(o.library, false, (store) => {
-          const report = store.verify();
-          if (o.json) out(JSON.stringify(report, null, 2));
-          else {
-            for (const d of report.damaged) out(`damaged ${d.kind} ${d.id}${d.revision ? ` revision ${d.revision}` : ''}: ${d.problem}`);
-            out(
-              report.damaged.length
-                ? `${report.damaged.length} damaged row${report.damaged.length === 1 ? '' : 's'} in ${report.entries} entries, ${report.revisions} revisions and ${report.sheets} sheets; "library export --skip-damaged" writes a backup of every sound entry.`
-                : `No damaged rows: ${report.entries} entries, ${report.revisions} revisions and ${report.sheets} sheets read.`,
-            );
-          }
-          return report.damaged.length ? EXIT_FAILED_CHECKS : EXIT_OK;
-        }),
-      ),
+      onLibrary(o.library, (store) => {
+        const report = store.verify();
+        if (o.json) out(JSON.stringify(report, null, 2));
+        else {
+          for (const d of report.damaged) out(`damaged ${d.kind} ${d.id}${d.revision ? ` revision ${d.revision}` : ''}: ${d.problem}`);
+          out(
+            report.damaged.length
+              ? `${report.damaged.length} damaged row${report.damaged.length === 1 ? '' : 's'} in ${report.entries} entries, ${report.revisions} revisions and ${report.sheets} sheets; "library export --skip-damaged" writes a backup of every sound entry.`
+              : `No damaged rows: ${report.entries} entries, ${report.revisions} revisions and ${report.sheets} sheets read.`,
+          );
+        }
+        return report.damaged.length ? EXIT_FAILED_CHECKS : EXIT_OK;
+      }),
     );
 
   withFile(library.command('backup').description('copy the library to a new file while it stays in use (online backup)').argument('<file>', 'backup file to create'))
     .action((file: string, o: LibraryFlag) =>
-      runCommand(() =>
-        withLibrary(o.library, false, async (store) => {
-          const { pages } = await store.backup(resolve(file));
-          out(`backed up ${store.file} to ${resolve(file)} (${pages} pages).`);
-          return EXIT_OK;
-        }),
-      ),
+      onLibrary(o.library, async (store) => {
+        const { pages } = await store.backup(resolve(file));
+        out(`backed up ${store.file} to ${resolve(file)} (${pages} pages).`);
+      }),
     );
 }

@@ -14,24 +14,8 @@ import { chosenUnits, fromSI, niceLinearScale, NOT_AVAILABLE, presetCurveTokens,
 import { familyChart, polylinePoints } from '../views/familyChart.ts';
 import { num, numIn, numPercent, unitText } from '../views/words.ts';
 
-/**
- * An entry as GET /api/curvesets lists it (SI figures). Written out here rather than imported:
- * the screens know the library only by its HTTP answers.
- */
-interface EntryInfo {
-  id: string;
-  revision: number;
-  name: string;
-  maker: string | null;
-  model: string | null;
-  family: string;
-  speed_rpm: number;
-  diameters_m: number[];
-  flow_range_m3s: [number, number];
-  head_range_m: [number, number];
-  bep: { flow_m3s: number; head_m: number; efficiency: number } | null;
-  updated_at: string;
-}
+/** An entry as GET /api/curvesets lists it (SI figures); the screens read it from the HTTP answers. */
+import type { EntryInfo } from '../../model/libraryEntry.ts';
 
 interface Candidate {
   id: string;
