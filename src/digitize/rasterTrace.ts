@@ -634,11 +634,12 @@ function judgeExtension(result: FollowResult, kept: number | undefined, frame: r
 }
 
 /**
- * True when a trace's end lies on the frame's right, top or bottom edge (within two line widths
- * and a few pixels), away from its left edge, where curves start at zero flow.
+ * True when a trace's end lies on the frame's right, top or bottom edge (within four line widths
+ * and at least 14 px: the follower stops a little short of the frame line), away from its left
+ * edge, where curves start at zero flow.
  */
 function atFrameEdge(p: Px, frame: readonly [number, number, number, number], scale: number, width: number): boolean {
-  const m = Math.max(8, 3 * width);
+  const m = Math.max(14, 4 * width);
   const l = Math.min(frame[0], frame[2]) * scale;
   const r = Math.max(frame[0], frame[2]) * scale;
   const t = Math.min(frame[1], frame[3]) * scale;

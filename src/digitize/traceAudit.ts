@@ -66,6 +66,14 @@ export const AXIS_SHARE_MIN = 0.3;
  * change of lines big enough to matter is caught and the scatter of a scan is not.
  */
 export const SMOOTH_PERCENT = 1;
+/**
+ * A followed line that keeps one value, within LEVEL_PERCENT of the value span, over more than
+ * LEVEL_SHARE of the flow axis ran along a grid line: near its peak a head or efficiency curve
+ * stays within that band over a few per cent of the axis only (common practice; a parabola
+ * through a peak falls by a quarter of its curvature times the square of the stretch).
+ */
+export const LEVEL_PERCENT = 0.1;
+export const LEVEL_SHARE = 0.2;
 
 const range = (t: AuditedTrace): [number, number] => [Math.min(...t.flows), Math.max(...t.flows)];
 
@@ -95,6 +103,17 @@ export function auditTraces(traces: readonly AuditedTrace[], flowText: (q: numbe
         trace: t.id,
         message: `Trace ${t.id} (${t.describe}) leaves a smooth curve by ${rough.percent.toFixed(1)} % of the axis span near ${flowText(rough.at)}; it probably changed to another line where lines cross or run together. Add a guide on this line on each side of that place, where it stands alone.`,
         figures: { percent_of_span: rough.percent, at_flow: rough.at },
+      });
+      continue;
+    }
+    const level = levelStretch(t);
+    if (level && t.axisFlow && level.share >= LEVEL_SHARE) {
+      out.push({
+        code: 'takeoff.trace-level',
+        severity: 'fail',
+        trace: t.id,
+        message: `Trace ${t.id} (${t.describe}) runs level from ${flowText(level.from)} to ${flowText(level.to)}, ${Math.round(100 * level.share)} % of its panel's flow axis, as a grid line does and a drawn pump curve does not; it probably followed a grid line. Add a guide near the end of this line where it stands alone.`,
+        figures: { axis_share: level.share },
       });
       continue;
     }
@@ -347,4 +366,31 @@ function valueAt(t: AuditedTrace): (q: number) => number {
     const w = q1 > q0 ? (q - q0) / (q1 - q0) : 0;
     return (vs[lo] as number) * (1 - w) + (vs[hi] as number) * w;
   };
+}
+
+/** The longest stretch of flows over which the trace keeps one value within LEVEL_PERCENT of its span, as a share of the flow axis. */
+function levelStretch(t: AuditedTrace): { from: number; to: number; share: number } | undefined {
+  if (!t.values || !t.valueSpan || !t.axisFlow || t.values.length !== t.flows.length || t.flows.length < 6) return undefined;
+  const axis = Math.abs(t.axisFlow[1] - t.axisFlow[0]);
+  if (!(axis > 0)) return undefined;
+  const order = t.flows.map((_, i) => i).sort((i, j) => (t.flows[i] as number) - (t.flows[j] as number));
+  const qs = order.map((i) => t.flows[i] as number);
+  const vs = order.map((i) => (t.values as readonly number[])[i] as number);
+  const band = (LEVEL_PERCENT / 100) * t.valueSpan;
+  let best: { from: number; to: number; share: number } | undefined;
+  for (let i = 0; i < qs.length; i++) {
+    let lo = vs[i] as number;
+    let hi = lo;
+    let j = i;
+    while (j + 1 < qs.length) {
+      const v = vs[j + 1] as number;
+      if (Math.max(hi, v) - Math.min(lo, v) > band) break;
+      lo = Math.min(lo, v);
+      hi = Math.max(hi, v);
+      j++;
+    }
+    const share = ((qs[j] as number) - (qs[i] as number)) / axis;
+    if (!best || share > best.share) best = { from: qs[i] as number, to: qs[j] as number, share };
+  }
+  return best;
 }

@@ -85,6 +85,17 @@ describe('trace audit', () => {
     expect(auditTraces([trace('e370', 'efficiency', 370, 0, 0.1, { ...axis, flows: q, values: big }), trace('e330', 'efficiency', 330, 0, 0.1, { ...axis, flows: q, values: big })], text)).toEqual([]);
   });
 
+  it('fails a trace that runs level over a fifth of the flow axis (a grid line), and passes a flat-topped head curve', () => {
+    const q = Array.from({ length: 120 }, (_, i) => (0.1 * i) / 119);
+    const axis = { axisFlow: [0, 0.12] as const, valueSpan: 100 };
+    const peaked = q.map((x) => 80 + 100 * x - 1500 * x * x); // peak at 0.033 m³/s, as flat as a drooping head curve gets
+    expect(auditTraces([trace('h370', 'head', 370, 0, 0.1, { ...axis, flows: q, values: peaked })], text)).toEqual([]);
+    const onGrid = peaked.map((v, i) => ((q[i] as number) >= 0.06 ? (peaked[71] as number) : v)); // level at the grid value from 0.06 on
+    const found = auditTraces([trace('h370', 'head', 370, 0, 0.1, { ...axis, flows: q, values: onGrid })], text);
+    expect(found.map((f) => [f.code, f.severity, f.trace])).toEqual([['takeoff.trace-level', 'fail', 'h370']]);
+    expect(found[0]?.message).toMatch(/as a grid line does/);
+  });
+
   it('holds an NPSHr trace to the end of its own diameter\'s head trace', () => {
     const heads = [trace('h370', 'head', 370, 0, 0.1), trace('h330', 'head', 330, 0, 0.089)];
     expect(auditTraces([...heads, trace('n370', 'npshr', 370, 0.02, 0.1), trace('n330', 'npshr', 330, 0.018, 0.089)], text)).toEqual([]);

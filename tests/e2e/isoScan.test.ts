@@ -7,34 +7,19 @@
  * for the diameters the iso-lines reach, and leave no curve wrong without a finding.
  */
 import { join } from 'node:path';
-import { afterAll, afterEach, beforeAll, beforeEach, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { applyH } from '../../scripts/randomSheets/camera.ts';
 import { WRONG_PERCENT, WRONG_POINTS } from '../../scripts/randomSheets/score.ts';
-import { ARTIFACTS, cleanDir, openBrowser, startServer, type Browser, type Server } from './harness.ts';
-import { runBedSheet } from './randomBedFlow.ts';
+import { ARTIFACTS } from './harness.ts';
+import { bedSession } from './randomBedFlow.ts';
 
 const dir = join(ARTIFACTS, 'iso-scan');
-let server: Server;
-let browser: Browser;
-
-beforeAll(async () => {
-  cleanDir(dir);
-  server = await startServer();
-});
-beforeEach(async () => {
-  browser = await openBrowser();
-});
-afterEach(async () => {
-  await browser?.close();
-});
-afterAll(async () => {
-  await server?.stop();
-});
+const session = bedSession(dir);
 
 describe('the take-off workbench on an iso-line scan with guides on the crossings', () => {
   // Seed 54 of the bed: a 150-dpi scan, efficiency as iso-lines, 8 of its 13 iso guides on crossings.
   it('follows the iso-lines from guides on the crossings, matches the headless replay and flags every curve it misses', async () => {
-    const run = await runBedSheet(browser.page, server.url, 54, 'scan', join(dir, 'seed-54'));
+    const run = await session.run(54, 'scan', join(dir, 'seed-54'));
     const { plan, shot, takeoff } = run.sheet;
     expect(plan.efficiencyAs).toBe('iso');
     // The take-off really clicks iso-lines on their crossings with the head curves (within 2 px).

@@ -7,33 +7,18 @@
  * wrong without a finding naming it.
  */
 import { join } from 'node:path';
-import { afterAll, afterEach, beforeAll, beforeEach, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { WRONG_PERCENT, WRONG_POINTS } from '../../scripts/randomSheets/score.ts';
-import { ARTIFACTS, cleanDir, openBrowser, startServer, type Browser, type Server } from './harness.ts';
-import { runBedSheet } from './randomBedFlow.ts';
+import { ARTIFACTS } from './harness.ts';
+import { bedSession } from './randomBedFlow.ts';
 
 const dir = join(ARTIFACTS, 'photo');
-let server: Server;
-let browser: Browser;
-
-beforeAll(async () => {
-  cleanDir(dir);
-  server = await startServer();
-});
-beforeEach(async () => {
-  browser = await openBrowser();
-});
-afterEach(async () => {
-  await browser?.close();
-});
-afterAll(async () => {
-  await server?.stop();
-});
+const session = bedSession(dir);
 
 describe('the take-off workbench on a photo of a printed sheet', () => {
   // Seed 29 of the bed: a photo with 5.6 % keystone, efficiency in its own panel.
   it('calibrates projectively, matches the headless replay and flags every curve it misses', async () => {
-    const run = await runBedSheet(browser.page, server.url, 29, 'photo', join(dir, 'seed-29'));
+    const run = await session.run(29, 'photo', join(dir, 'seed-29'));
     expect(run.sheet.shot.keystone).toBeGreaterThan(0.03);
     // Each panel's calibration is said in the provenance; four anchors on a keystoned photo show perspective.
     const calibrations = (run.workbench.provenance.notes ?? []).filter((n) => /calibration, residual/.test(n));

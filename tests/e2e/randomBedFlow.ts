@@ -9,12 +9,13 @@ import { execFileSync } from 'node:child_process';
 import { readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import type { Page } from 'playwright-core';
+import { afterAll, afterEach, beforeAll, beforeEach } from 'vitest';
 import { parseCurveSetJson } from '../../src/model/curvesetIO.ts';
 import type { CurveSet } from '../../src/model/curveset.ts';
 import { makeRandomSheet, type RandomSheet } from '../../scripts/randomSheets/randomSheet.ts';
 import { scoreReplay, type CurveScore } from '../../scripts/randomSheets/score.ts';
 import { compareCurveSets, type CurveGap } from './compare.ts';
-import { ROOT, settle, User } from './harness.ts';
+import { cleanDir, openBrowser, ROOT, settle, startServer, User, type Browser, type Server } from './harness.ts';
 
 export interface BedRun {
   sheet: RandomSheet;
@@ -23,6 +24,34 @@ export interface BedRun {
   gaps: CurveGap[];
   scores: CurveScore[];
   findings: string[];
+}
+
+/**
+ * One server for the file and a fresh browser for each test, with the artifacts folder emptied
+ * first: call at the top of a test file, then run sheets through `run`.
+ */
+export function bedSession(dir: string): { run(seed: number, kind: 'scan' | 'photo', artifacts: string): Promise<BedRun> } {
+  let server: Server | undefined;
+  let browser: Browser | undefined;
+  beforeAll(async () => {
+    cleanDir(dir);
+    server = await startServer();
+  });
+  beforeEach(async () => {
+    browser = await openBrowser();
+  });
+  afterEach(async () => {
+    await browser?.close();
+  });
+  afterAll(async () => {
+    await server?.stop();
+  });
+  return {
+    run: (seed, kind, artifacts) => {
+      if (!server || !browser) throw new Error('The browser session has not started; call bedSession at the top of the test file.');
+      return runBedSheet(browser.page, server.url, seed, kind, artifacts);
+    },
+  };
 }
 
 export async function runBedSheet(page: Page, url: string, seed: number, kind: 'scan' | 'photo', artifacts: string): Promise<BedRun> {
