@@ -157,6 +157,7 @@ export function auditTraces(traces: readonly AuditedTrace[], flowText: (q: numbe
   }
 
   out.push(...auditNeighbours(curves, flowText));
+  out.push(...auditPeaks(curves));
 
   // A diameter with a head trace but without a quantity that other diameters have.
   const heads = new Set(curves.filter((t) => t.quantity === 'head').map((t) => t.diameter as number));
@@ -393,4 +394,40 @@ function levelStretch(t: AuditedTrace): { from: number; to: number; share: numbe
     if (!best || share > best.share) best = { from: qs[i] as number, to: qs[j] as number, share };
   }
   return best;
+}
+
+/** How far a smaller impeller's best efficiency may stand above a larger one's, % of the value span. */
+export const PEAK_ORDER_PERCENT = 1.5;
+
+/**
+ * Efficiency traces of one panel, held against each other by their peaks: a trimmed impeller
+ * reaches at most the best efficiency of the larger one (affinity keeps efficiency about equal
+ * at corresponding points, and trimming loses a little; common practice). A smaller impeller's
+ * trace peaking clearly higher followed another line or lost its own near the peak.
+ */
+function auditPeaks(curves: readonly AuditedTrace[]): AuditFinding[] {
+  const out: AuditFinding[] = [];
+  const usable = curves.filter((t) => t.quantity === 'efficiency' && t.how === 'raster' && t.values && t.valueSpan && t.values.length > 0);
+  const said = new Set<string>();
+  for (const a of usable) {
+    for (const b of usable) {
+      if (a.panel !== b.panel || !((a.diameter as number) > (b.diameter as number))) continue;
+      const peakA = Math.max(...(a.values as readonly number[]));
+      const peakB = Math.max(...(b.values as readonly number[]));
+      const over = (100 * (peakB - peakA)) / (a.valueSpan as number);
+      if (!(over > PEAK_ORDER_PERCENT)) continue;
+      for (const t of [a, b]) {
+        if (said.has(t.id)) continue;
+        said.add(t.id);
+        out.push({
+          code: 'takeoff.trace-peaks',
+          severity: 'warn',
+          trace: t.id,
+          message: `The efficiency trace ${b.id} (${b.describe}) peaks ${over.toFixed(1)} % of the axis span above trace ${a.id} (${a.describe}), while a trimmed impeller reaches at most the larger one's best efficiency; one of them left its line near the peak. Check both traces and add guides near their peaks where each line stands alone.`,
+          figures: { over_percent_of_span: over },
+        });
+      }
+    }
+  }
+  return out;
 }

@@ -96,6 +96,19 @@ describe('trace audit', () => {
     expect(found[0]?.message).toMatch(/as a grid line does/);
   });
 
+  it('warns of a smaller impeller whose efficiency trace peaks above the larger one\'s, naming both', () => {
+    const q = Array.from({ length: 60 }, (_, i) => (0.1 * i) / 59);
+    const axis = { axisFlow: [0, 0.12] as const, valueSpan: 100, panel: 'eff' };
+    const eta = (top: number, best: number) => q.map((x) => top * (x / best) * (2 - x / best));
+    const pair = (a: number[], b: number[]) => auditTraces([trace('e370', 'efficiency', 370, 0, 0.1, { ...axis, flows: q, values: a }), trace('e330', 'efficiency', 330, 0, 0.1, { ...axis, flows: q, values: b })], text).filter((f) => f.code === 'takeoff.trace-peaks');
+    expect(pair(eta(80, 0.07), eta(78, 0.063))).toEqual([]); // the trim loses two points: as it should
+    const found = pair(eta(80, 0.07), eta(83, 0.063)); // the trim gains three points: one trace is off
+    expect(found.map((f) => [f.severity, f.trace])).toEqual([
+      ['warn', 'e370'],
+      ['warn', 'e330'],
+    ]);
+  });
+
   it('holds an NPSHr trace to the end of its own diameter\'s head trace', () => {
     const heads = [trace('h370', 'head', 370, 0, 0.1), trace('h330', 'head', 330, 0, 0.089)];
     expect(auditTraces([...heads, trace('n370', 'npshr', 370, 0.02, 0.1), trace('n330', 'npshr', 330, 0.018, 0.089)], text)).toEqual([]);
