@@ -691,14 +691,13 @@ function extendToEnds(image: RasterImage, style: LineStyle, path: Px[], maxGap: 
 }
 
 /**
- * The part of an extension that continues the line smoothly: each point must lie within a line
- * width (at least 2 px) of the parabola through the last `window` pixels before it (in the frame
- * of their chord). A drawn curve ends cleanly; what the follower finds beyond its end (a label
- * beside it, a neighbouring line it ran into) bends away, and is cut there. A tighter bar cut
- * sound lines at the scatter of a blurred scan, and the audit judges what is kept.
+ * The part of an extension that continues the line smoothly: each point must lie within about
+ * half a line width of the parabola through the last `window` pixels before it (in the frame of
+ * their chord). A drawn curve ends cleanly; what the follower finds beyond its end (a label
+ * beside it, a neighbouring line it ran into) bends away, and is cut there.
  */
 function keepSmooth(base: readonly Px[], extension: readonly Px[], width: number): Px[] {
-  const limit = Math.max(2, width);
+  const limit = Math.max(1.2, 0.6 * width);
   const window = Math.max(30, 10 * width);
   const all: Px[] = [...base];
   const kept: Px[] = [];
