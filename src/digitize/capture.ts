@@ -6,7 +6,7 @@
  */
 import { captureVector, CaptureError, type VectorCaptureOptions } from './vectorCapture.ts';
 import { arcLengths, resampleEvenly } from './polyline.ts';
-import { traceRaster, type LostStretch, type RasterTraceOptions } from './rasterTrace.ts';
+import { traceRaster, type LostStretch, type RasterTraceOptions, type TraceDoubt } from './rasterTrace.ts';
 import type { SheetPoint } from './points.ts';
 import type { RasterImage } from './raster.ts';
 import type { SheetKind } from './sheet.ts';
@@ -43,6 +43,8 @@ export interface CaptureResult {
   notes: string[];
   /** Stretches a raster capture could not see. */
   lost: LostStretch[];
+  /** Stretches a raster capture followed but cannot vouch for (see `RasterTraceResult.doubts`). */
+  doubts?: TraceDoubt[];
 }
 
 export interface CaptureOptions {
@@ -90,7 +92,7 @@ export async function captureTrace(request: CaptureRequest, source: CaptureSourc
   }
   const traced = traceRaster(await source.raster(), guides, rasterOptions(request, options));
   for (const l of traced.lost) notes.push(`The line was lost near (${l.at[0].toFixed(1)}, ${l.at[1].toFixed(1)}) between guides ${l.between[0]} and ${l.between[1]}: ${l.reason}.`);
-  return { points: traced.lost.length ? traced.points : evenly(traced.points, spacing), how: 'raster', notes, lost: traced.lost };
+  return { points: traced.lost.length ? traced.points : evenly(traced.points, spacing), how: 'raster', notes, lost: traced.lost, doubts: traced.doubts };
 }
 
 function rasterOptions(request: CaptureRequest, options: CaptureOptions): RasterTraceOptions {

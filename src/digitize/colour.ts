@@ -40,8 +40,11 @@ export interface InkModel {
   readonly invNorm: number;
 }
 
-/** Smallest paper-to-line contrast (Euclidean RGB distance, 0–441) that can be followed. */
-export const MIN_CONTRAST = 40;
+/**
+ * Smallest paper-to-line contrast (Euclidean RGB distance, 0–441) that can be followed: a thin
+ * dotted line blurred by a scan keeps little more than this.
+ */
+export const MIN_CONTRAST = 24;
 
 const luma = (r: number, g: number, b: number) => 0.299 * r + 0.587 * g + 0.114 * b;
 

@@ -9,7 +9,7 @@
  * Pure: pixel coordinates in, pixel coordinates out.
  */
 import type { InkModel } from './colour.ts';
-import { findRuns, sampleSection, type ReadCounter, type Run } from './lineProfile.ts';
+import { findRuns, sampleLongSection, sampleSection, type ReadCounter, type Run } from './lineProfile.ts';
 import type { RasterImage } from './raster.ts';
 
 export interface LineStyle {
@@ -25,6 +25,13 @@ export interface LineStyle {
    * compression and need a wider range.
    */
   massRange: readonly [number, number];
+  /**
+   * For a dashed or dotted line: half the longest gap between its dashes plus a pixel. Each
+   * section then takes the most line-like sample within this reach along the line, so the
+   * follower sees the line across its own gaps and does not coast (and drift) at each one.
+   * Absent or 0 for a solid line.
+   */
+  reach?: number;
 }
 
 export interface FollowLimits {
@@ -345,7 +352,8 @@ export function followLine(
       choice = undefined;
     } else {
       const n = Math.min(maxN, Math.ceil((half + extra) / spacing));
-      sampleSection(image, style.model, qx, qy, nx, ny, n, spacing, section, counter);
+      if (style.reach) sampleLongSection(image, style.model, qx, qy, nx, ny, n, spacing, style.reach, section, counter);
+      else sampleSection(image, style.model, qx, qy, nx, ny, n, spacing, section, counter);
       choice = chooseOffset(findRuns(section, n, spacing, style.threshold, runs), style, accept + extra, pick);
     }
     if (choice === 'ambiguous' || (choice === 'found' && !pick.clean)) {

@@ -78,6 +78,42 @@ export function sampleSection(
 }
 
 /**
+ * Like `sampleSection`, for a broken (dashed or dotted) line: each sample is the largest
+ * membership along the line's direction within ±`reach` pixels of the section, so that a
+ * section that falls in a gap between two dashes still sees the line. The direction is the
+ * normal turned back by a quarter turn, (ny, −nx). Reads (2·⌈reach⌉ + 1) times the pixels.
+ */
+export function sampleLongSection(
+  image: RasterImage,
+  model: InkModel,
+  cx: number,
+  cy: number,
+  nx: number,
+  ny: number,
+  n: number,
+  spacing: number,
+  reach: number,
+  out: Float64Array,
+  counter?: ReadCounter,
+): void {
+  const steps = Math.max(1, Math.ceil(reach));
+  const along = reach / steps;
+  const dx = ny;
+  const dy = -nx;
+  for (let k = -n; k <= n; k++) {
+    const o = k * spacing;
+    const x = cx + nx * o;
+    const y = cy + ny * o;
+    let best = 0;
+    for (let j = -steps; j <= steps; j++) {
+      const m = membershipAt(image, model, x + dx * j * along, y + dy * j * along, counter);
+      if (m > best) best = m;
+    }
+    out[k + n] = best;
+  }
+}
+
+/**
  * Splits a sampled section into runs where membership ≥ threshold (into `runs`, whose
  * objects are reused, when given). Each run also takes in the
  * samples just outside it (the anti-aliased fringe below the threshold) so that its centroid

@@ -12,8 +12,8 @@
 import { UserError } from '../model/errors.ts';
 import simplify from 'simplify-js';
 import { colourDistance, estimatePaper, inkModel, membership, MIN_CONTRAST, windowAround, type InkModel, type Rgb } from './colour.ts';
-import { followLine, indexPath, stepping, type FollowLimits, type LineStyle } from './lineFollow.ts';
-import { findRuns, inkAxis, sampleSection, type ReadCounter } from './lineProfile.ts';
+import { followLine, indexPath, stepping, type FollowLimits, type FollowResult, type LineStyle } from './lineFollow.ts';
+import { findRuns, inkAxis, membershipAt, sampleLongSection, sampleSection, type ReadCounter } from './lineProfile.ts';
 import { sheetPoint, type SheetPoint } from './points.ts';
 import type { RasterImage } from './raster.ts';
 
@@ -60,7 +60,12 @@ export interface RasterTraceResult {
   /** Stretches not seen; empty when the line was followed from the first guide to the last. */
   lost: LostStretch[];
   /** The line that was followed, as measured. */
-  line: { colour: Rgb; paper: Rgb; widthPx: number };
+  line: { colour: Rgb; paper: Rgb; widthPx: number; dashed?: boolean };
+  /**
+   * Sentences on stretches that were followed but cannot be vouched for (beyond the guides,
+   * through a bunch or up to the frame): the trace may be right, but a person should look.
+   */
+  doubts: TraceDoubt[];
   /** Pixels read while tracing (each bilinear sample reads four). */
   pixelsRead: number;
 }
@@ -141,9 +146,72 @@ function acquire(image: RasterImage, guide: Px, search: number, options: RasterT
   if (!centre) return undefined;
   const measured = measureAt(image, model, centre, options.widthPx ?? 3);
   if (!measured) return undefined;
-  const width = options.widthPx ?? measured.width;
   const massRange: [number, number] = model.mode === 'achromatic' ? [0.8, 1.35] : [0.55, 1.5];
+  const broken = brokenLine(image, model, measured.centre, measured.width);
+  if (broken) {
+    // A dash or a dot alone says little about the line's direction or width: both are measured
+    // again across the whole pattern, with sections that look along the line over its gaps.
+    const again = measureAt(image, model, measured.centre, measured.width, broken);
+    if (again) {
+      const width = options.widthPx ?? again.width;
+      // Judged alone by the ink near the guide, as a solid line is, so that a guide where a
+      // crossing or a poor colour sample mimics a pattern does not outrank a clean one.
+      return { style: { model, width, threshold: THRESHOLD, massRange, reach: broken.reach }, centre: again.centre, axis: again.axis, isotropy: measured.isotropy };
+    }
+  }
+  const width = options.widthPx ?? measured.width;
   return { style: { model, width, threshold: THRESHOLD, massRange }, centre: measured.centre, axis: measured.axis, isotropy: measured.isotropy };
+}
+
+/** Longest gap between dashes that a broken line may have, in line widths and at least in pixels. */
+const DASH_GAP_WIDTHS = 6;
+const DASH_GAP_MIN_PX = 12;
+
+/**
+ * Whether the line through `centre` is dashed or dotted, and if so the reach along the line
+ * that spans its gaps (half the longest gap plus a pixel). The line's direction comes from
+ * the ink's principal axis over a few dash periods; along it, each position counts as ink when
+ * any sample across the line's width is line-coloured. Two or more gaps between ink, none
+ * longer than a few line widths, make a broken line; a single gap is a label or a crossing.
+ */
+function brokenLine(image: RasterImage, model: InkModel, centre: Px, width: number): { reach: number; axis: Px; isotropy: number } | undefined {
+  const radius = Math.max(14, 6 * width);
+  const axis = inkAxis(image, model, centre[0], centre[1], radius, THRESHOLD);
+  if (!axis || axis.isotropy > 0.3) return undefined;
+  const length = Math.max(40, 16 * width);
+  const spacing = 0.5;
+  const across = Math.max(1, 0.5 * width + 0.5);
+  const on: boolean[] = [];
+  for (let t = -length; t <= length; t += spacing) {
+    let best = 0;
+    for (let s = -across; s <= across; s += 0.5) best = Math.max(best, membershipAt(image, model, centre[0] + axis.dx * t - axis.dy * s, centre[1] + axis.dy * t + axis.dx * s));
+    on.push(best >= THRESHOLD);
+  }
+  // Interior runs of ink and of gaps, pixels.
+  const gaps: number[] = [];
+  const dashes: number[] = [];
+  const first = on.indexOf(true);
+  const last = on.lastIndexOf(true);
+  if (first < 0) return undefined;
+  let run = 0;
+  for (let i = first; i <= last + 1; i++) {
+    const here = i <= last && (on[i] as boolean);
+    if (i > first && here !== (on[i - 1] as boolean)) {
+      (here ? gaps : dashes).push(run * spacing);
+      run = 0;
+    }
+    run++;
+  }
+  dashes.shift(); // the first dash may be cut by the window
+  const real = gaps.filter((g) => g >= 1);
+  if (real.length < 3 || real.length < gaps.length - 1 || dashes.length < 2) return undefined;
+  const median = (v: number[]) => [...v].sort((a, b) => a - b)[Math.floor(v.length / 2)] as number;
+  const longest = Math.max(...real);
+  // A printed pattern repeats: gaps and dashes of about one length each. Noise on a solid
+  // line under a poor colour sample flickers at random lengths.
+  if (longest > 2.5 * median(real) || Math.max(...dashes) > 3 * median(dashes) + 2) return undefined;
+  if (longest > Math.max(DASH_GAP_MIN_PX, DASH_GAP_WIDTHS * width)) return undefined;
+  return { reach: 0.5 * longest + 1, axis: [axis.dx, axis.dy], isotropy: axis.isotropy };
 }
 
 /** The nearest pixel centre to `p` whose membership is at least one half, within `radius`. */
@@ -168,15 +236,18 @@ function nearestInk(image: RasterImage, model: InkModel, p: Px, radius: number):
 }
 
 /** Direction, sub-pixel centre and width of the line through an ink pixel. */
-function measureAt(image: RasterImage, model: InkModel, ink: Px, widthGuess: number): { centre: Px; axis: Px; width: number; isotropy: number } | undefined {
-  const axis = inkAxis(image, model, ink[0], ink[1], Math.max(2.5 * widthGuess, 5), THRESHOLD);
+function measureAt(image: RasterImage, model: InkModel, ink: Px, widthGuess: number, broken?: { reach: number; axis?: Px }): { centre: Px; axis: Px; width: number; isotropy: number } | undefined {
+  const axis = broken?.axis
+    ? { dx: broken.axis[0], dy: broken.axis[1], isotropy: 0 }
+    : inkAxis(image, model, ink[0], ink[1], broken ? Math.max(14, 6 * widthGuess) : Math.max(2.5 * widthGuess, 5), THRESHOLD);
   if (!axis) return undefined;
   const nx = -axis.dy;
   const ny = axis.dx;
   const spacing = 0.5;
   const n = Math.ceil(Math.max(3 * widthGuess, 8) / spacing);
   const section = new Float64Array(2 * n + 1);
-  sampleSection(image, model, ink[0], ink[1], nx, ny, n, spacing, section);
+  if (broken) sampleLongSection(image, model, ink[0], ink[1], nx, ny, n, spacing, broken.reach, section);
+  else sampleSection(image, model, ink[0], ink[1], nx, ny, n, spacing, section);
   const runs = findRuns(section, n, spacing, THRESHOLD);
   let best = runs[0];
   for (const r of runs) if (best && Math.abs(r.centre) < Math.abs(best.centre)) best = r;
@@ -188,7 +259,7 @@ function measureAt(image: RasterImage, model: InkModel, ink: Px, widthGuess: num
 function snap(image: RasterImage, style: LineStyle, guide: Px, search: number): { centre: Px; axis: Px } | undefined {
   const ink = nearestInk(image, style.model, guide, search);
   if (!ink) return undefined;
-  const m = measureAt(image, style.model, ink, style.width);
+  const m = measureAt(image, style.model, ink, style.width, style.reach ? { reach: style.reach } : undefined);
   return m && { centre: m.centre, axis: m.axis };
 }
 
@@ -410,6 +481,7 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
       lost: [{ at: guides[0] as SheetPoint, between: [1, guides.length], reason: `no line stands out from the paper within ${search} px of any guide` }],
       line: { colour: options.colour ?? [0, 0, 0], paper: [255, 255, 255], widthPx: 0 },
       pixelsRead: counter.reads,
+      doubts: [],
     };
   }
   const style = acquired.style;
@@ -424,12 +496,17 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
   });
 
   const path: Px[] = [];
+  const doubts: EndDoubt[] = [];
   if (px.length === 1) {
     const s = snapped[0] as { centre: Px; axis: Px };
     const limits: FollowLimits = { maxGap, maxTravel: 4 * (image.width + image.height) };
     const ahead = followLine(image, style, s.centre, s.axis, undefined, limits, counter);
     const behind = followLine(image, style, s.centre, [-s.axis[0], -s.axis[1]], undefined, limits, counter);
-    path.push(...pairs(behind.points).reverse(), ...pairs(ahead.points).slice(1));
+    const [aheadKept, aheadDoubt] = judgeExtension(ahead, undefined, options.frame, image.scale, style.width);
+    const [behindKept, behindDoubt] = judgeExtension(behind, undefined, options.frame, image.scale, style.width);
+    if (aheadDoubt) doubts.push(aheadDoubt);
+    if (behindDoubt) doubts.push(behindDoubt);
+    path.push(...behindKept.reverse(), s.centre, ...aheadKept);
   } else {
     let heading: Px | undefined;
     for (let i = 0; i + 1 < px.length; i++) {
@@ -491,8 +568,12 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
     }
   }
 
-  if (px.length > 1 && options.extent !== 'guides' && path.length >= 2) extendToEnds(image, style, path, maxGap, options.frame, counter);
+  if (px.length > 1 && options.extent !== 'guides' && path.length >= 2) doubts.push(...extendToEnds(image, style, path, maxGap, options.frame, counter));
   else if (options.frame && path.length >= 2) clipToFrame(path, options.frame, image.scale, style.width);
+
+  if (options.frame && options.extent !== 'guides' && path.length >= 2) {
+    for (const end of [path[0] as Px, path[path.length - 1] as Px]) if (atFrameEdge(end, options.frame, image.scale, style.width)) doubts.push({ at: end, what: 'frame' });
+  }
 
   const thinned = simplify(
     fillGaps(dropOutliers(dropIslands(path, stepping(style.width).step, style.width), Math.max(12, 4 * style.width), Math.max(1.5, 0.5 * style.width)), stepping(style.width).step).map(
@@ -505,9 +586,66 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
   return {
     points: thinned.map((p) => sheetPoint(p.x / image.scale, p.y / image.scale)),
     lost,
-    line: { colour: style.model.line, paper: style.model.paper, widthPx: style.width },
+    line: { colour: style.model.line, paper: style.model.paper, widthPx: style.width, ...(style.reach ? { dashed: true } : {}) },
     pixelsRead: counter.reads,
+    doubts: doubts.map((d) => doubtSentence(d, toSheetPt(d.at))),
   };
+}
+
+/** A finding-worthy doubt about a followed stretch: a stable code and a sentence saying what to do. */
+export interface TraceDoubt {
+  code: 'takeoff.end-at-frame';
+  message: string;
+}
+
+/**
+ * Why a stretch beyond the guides cannot be vouched for: it ran into the panel's frame, which
+ * a pump curve seldom reaches (its end lies inside the chart), so the follower may have left
+ * its line for a grid line or another curve on the way.
+ */
+interface EndDoubt {
+  at: Px;
+  what: 'frame';
+}
+
+function doubtSentence(_d: EndDoubt, at: SheetPoint): TraceDoubt {
+  return {
+    code: 'takeoff.end-at-frame',
+    message: `the trace runs on to the panel's frame near ${fmt(at)}, where a drawn curve seldom ends; check that the line really reaches the frame, or add a guide at the line's end`,
+  };
+}
+
+/**
+ * The points of an extension (a follow beyond the guides) to keep, without its start point,
+ * cut where it leaves the frame, and what casts doubt on them. `kept` limits the points to
+ * those a smoothness test accepted.
+ */
+function judgeExtension(result: FollowResult, kept: number | undefined, frame: readonly [number, number, number, number] | undefined, scale: number, width: number): [Px[], EndDoubt | undefined] {
+  const got = pairs(result.points).slice(1);
+  let inside = got.length;
+  if (frame) {
+    const out = got.findIndex((p) => !insideFramePx(p, frame, scale, width));
+    if (out >= 0) inside = out;
+  }
+  const count = Math.min(inside, kept ?? inside);
+  const points = got.slice(0, count);
+  if (count === 0) return [points, undefined];
+  return [points, undefined];
+}
+
+/**
+ * True when a trace's end lies on the frame's right, top or bottom edge (within four line widths
+ * and at least 14 px: the follower stops a little short of the frame line), away from its left
+ * edge, where curves start at zero flow.
+ */
+function atFrameEdge(p: Px, frame: readonly [number, number, number, number], scale: number, width: number): boolean {
+  const m = Math.max(14, 4 * width);
+  const l = Math.min(frame[0], frame[2]) * scale;
+  const r = Math.max(frame[0], frame[2]) * scale;
+  const t = Math.min(frame[1], frame[3]) * scale;
+  const b = Math.max(frame[1], frame[3]) * scale;
+  if (p[0] < l + 0.03 * (r - l)) return false;
+  return p[0] > r - m || p[1] < t + m || p[1] > b - m;
 }
 
 /** True when a pixel position lies inside the frame (sheet units), with half a line width to spare. */
@@ -531,24 +669,25 @@ function clipToFrame(path: Px[], frame: readonly [number, number, number, number
  * followed along the direction of the last 40 pixels of the path; what the follower accepts
  * before it loses the line for longer than `maxGap` is added, and nothing it only coasted on.
  */
-function extendToEnds(image: RasterImage, style: LineStyle, path: Px[], maxGap: number, frame: readonly [number, number, number, number] | undefined, counter: ReadCounter): void {
+function extendToEnds(image: RasterImage, style: LineStyle, path: Px[], maxGap: number, frame: readonly [number, number, number, number] | undefined, counter: ReadCounter): EndDoubt[] {
   const limits: FollowLimits = { maxGap, maxTravel: 2 * (image.width + image.height) };
+  const doubts: EndDoubt[] = [];
   const outward = (stretch: Px[]): Px[] => {
     const end = stretch[stretch.length - 1] as Px;
     const heading = tangentAt(stretch, stretch.length - 1, 1);
-    const got = pairs(followLine(image, style, end, heading, undefined, limits, counter).points).slice(1);
-    const out: Px[] = [];
-    for (const p of got) {
-      if (frame && !insideFramePx(p, frame, image.scale, style.width)) break;
-      out.push(p);
-    }
-    return out;
+    const result = followLine(image, style, end, heading, undefined, limits, counter);
+    const [inside] = judgeExtension(result, undefined, frame, image.scale, style.width);
+    const smooth = keepSmooth(stretch, inside, style.width);
+    const [kept, doubt] = judgeExtension(result, smooth.length, frame, image.scale, style.width);
+    if (doubt) doubts.push(doubt);
+    return kept;
   };
-  const tail = keepSmooth(path, outward(path), style.width);
-  const head = keepSmooth([...path].reverse(), outward([...path].reverse()), style.width);
+  const tail = outward(path);
+  const head = outward([...path].reverse());
   path.unshift(...head.reverse());
   path.push(...tail);
   if (frame) clipToFrame(path, frame, image.scale, style.width);
+  return doubts;
 }
 
 /**
@@ -614,7 +753,7 @@ export type RasterTraceInput = { points: readonly SheetPoint[] } | { guides: rea
 /** Captures one trace on a raster sheet: explicit points are returned unchanged; guides are followed. */
 export function captureRasterTrace(image: RasterImage, trace: RasterTraceInput, options: RasterTraceOptions = {}): RasterTraceResult {
   if ('points' in trace) {
-    return { points: [...trace.points], lost: [], line: { colour: [0, 0, 0], paper: [255, 255, 255], widthPx: 0 }, pixelsRead: 0 };
+    return { points: [...trace.points], lost: [], line: { colour: [0, 0, 0], paper: [255, 255, 255], widthPx: 0 }, pixelsRead: 0, doubts: [] };
   }
   return traceRaster(image, trace.guides, options);
 }

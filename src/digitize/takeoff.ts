@@ -121,6 +121,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
         const lost = got.lost.length > 0;
         note(lost ? 'takeoff.capture-lost' : 'takeoff.capture-fallback', lost ? 'warn' : 'note', `Trace ${id} (${describeTrace(trace)}): ${got.notes.join(' ')}`, id);
       }
+      for (const doubt of got.doubts ?? []) note(doubt.code, 'warn', `Trace ${id} (${describeTrace(trace)}): ${doubt.message}.`, id);
     }
     checkTracePoints(outcome.points.length, `Trace ${id} (${describeTrace(trace)})`); // model/limits.ts
     checkTotalPoints((pointsSoFar += outcome.points.length), 'The take-off');
@@ -223,6 +224,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
       flows: o.points.map((p) => toSI(cal.toData(p)[0], u.flow)),
       values: panelOf(trace)?.x_scale === 'log' || panelOf(trace)?.y_scale === 'log' ? undefined : o.points.map((p) => cal.toData(p)[1]),
       valueSpan: valueSpan(panelOf(trace)?.anchors ?? []),
+      panel: trace.panel,
       length,
       lostLength: lostLength(o.lost ?? [], trace),
       refusedGuides: (o.lost ?? []).filter((l) => l.between[0] === l.between[1]).length,

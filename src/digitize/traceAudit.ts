@@ -30,6 +30,8 @@ export interface AuditedTrace {
   /** Values of the captured points (panel unit) and the span of the panel's value axis, for the smoothness check. */
   values?: readonly number[] | undefined;
   valueSpan?: number | undefined;
+  /** The panel it was read on: values of traces on different panels do not compare. */
+  panel?: string | undefined;
 }
 
 export interface AuditFinding {
@@ -64,6 +66,14 @@ export const AXIS_SHARE_MIN = 0.3;
  * change of lines big enough to matter is caught and the scatter of a scan is not.
  */
 export const SMOOTH_PERCENT = 1;
+/**
+ * A followed line that keeps one value, within LEVEL_PERCENT of the value span, over more than
+ * LEVEL_SHARE of the flow axis ran along a grid line: near its peak a head or efficiency curve
+ * stays within that band over a few per cent of the axis only (common practice; a parabola
+ * through a peak falls by a quarter of its curvature times the square of the stretch).
+ */
+export const LEVEL_PERCENT = 0.1;
+export const LEVEL_SHARE = 0.2;
 
 const range = (t: AuditedTrace): [number, number] => [Math.min(...t.flows), Math.max(...t.flows)];
 
@@ -96,15 +106,28 @@ export function auditTraces(traces: readonly AuditedTrace[], flowText: (q: numbe
       });
       continue;
     }
+    const level = levelStretch(t);
+    if (level && t.axisFlow && level.share >= LEVEL_SHARE) {
+      out.push({
+        code: 'takeoff.trace-level',
+        severity: 'fail',
+        trace: t.id,
+        message: `Trace ${t.id} (${t.describe}) runs level from ${flowText(level.from)} to ${flowText(level.to)}, ${Math.round(100 * level.share)} % of its panel's flow axis, as a grid line does and a drawn pump curve does not; it probably followed a grid line. Add a guide near the end of this line where it stands alone.`,
+        figures: { axis_share: level.share },
+      });
+      continue;
+    }
     // Coverage against the traces of the same quantity (scaled by diameter, Q ∝ D) and the
     // traces of the same diameter: a followed line that stops early was lost or cut at a label.
     const [q0, q1] = range(t);
     const d = t.diameter as number;
     const same = curves.filter((o) => o !== t && o.quantity === t.quantity);
-    const mine = curves.filter((o) => o !== t && o.diameter === d && o.quantity !== 'npshr');
+    // An NPSHr curve is drawn to the end of its diameter's head curve (common practice), but
+    // the head curve need not be drawn as far as an NPSHr curve drawn for the whole family.
+    const mine = curves.filter((o) => o !== t && o.diameter === d && (t.quantity === 'npshr' ? o.quantity === 'head' : o.quantity !== 'npshr'));
     // The farthest neighbour sets the bar: when several lines were lost alike, a median would
     // excuse them all, and a flag too many costs a look, a miss costs a wrong number.
-    const ends = [...same.map((o) => (range(o)[1] * d) / (o.diameter as number)), ...(t.quantity !== 'npshr' ? mine.map((o) => range(o)[1]) : [])];
+    const ends = [...same.map((o) => (range(o)[1] * d) / (o.diameter as number)), ...mine.map((o) => range(o)[1])];
     const expectedEnd = ends.length > 0 ? Math.max(...ends) : q1;
     const starts = same.map((o) => range(o)[0] / range(o)[1]);
     const expectedStart = starts.length > 0 ? Math.min(...starts) : q0 / q1;
@@ -132,6 +155,9 @@ export function auditTraces(traces: readonly AuditedTrace[], flowText: (q: numbe
       });
     }
   }
+
+  out.push(...auditNeighbours(curves, flowText));
+  out.push(...auditPeaks(curves));
 
   // A diameter with a head trace but without a quantity that other diameters have.
   const heads = new Set(curves.filter((t) => t.quantity === 'head').map((t) => t.diameter as number));
@@ -249,6 +275,158 @@ export function auditIsoCrossings(counts: readonly IsoCount[], headDiameters: re
         severity: 'warn',
         message: `No iso-line meets the head trace of diameter ${d}, so it gets no efficiency from them; extend the iso traces to that head curve or trace its efficiency.`,
       });
+    }
+  }
+  return out;
+}
+
+/**
+ * Share of the value axis within which two traces of different diameters count as lying on one
+ * line, and by which a larger impeller's trace may fall below a smaller one's before the order
+ * is broken (% of span; about two line widths on a printed chart, common practice).
+ */
+export const COINCIDE_PERCENT = 0.3;
+export const ORDER_PERCENT = 1;
+/** Least share of the panel's flow axis over which coinciding or out-of-order traces are said. */
+export const NEIGHBOUR_SHARE = 0.08;
+
+/**
+ * Head and power traces of one panel, held against each other: at any flow a larger impeller
+ * gives more head and takes more power (affinity: H ∝ D², P ∝ D³ at corresponding flows, and
+ * the curves fall with flow), so two traces of different diameters neither lie on one line nor
+ * swap places. Where they do over a stretch, at least one followed another line; both are
+ * named, since either may be the one that left. Efficiency and NPSHr curves of a family may
+ * bunch or cross, so they are not held to this.
+ */
+function auditNeighbours(curves: readonly AuditedTrace[], flowText: (q: number) => string): AuditFinding[] {
+  const out: AuditFinding[] = [];
+  const said = new Set<string>();
+  const usable = curves.filter((t) => (t.quantity === 'head' || t.quantity === 'power') && t.how === 'raster' && t.values && t.valueSpan && t.values.length === t.flows.length && t.axisFlow);
+  for (const a of usable) {
+    for (const b of usable) {
+      if (a === b || a.quantity !== b.quantity || a.panel !== b.panel || !((a.diameter as number) > (b.diameter as number))) continue;
+      const span = a.valueSpan as number;
+      const axis = Math.abs((a.axisFlow as readonly [number, number])[1] - (a.axisFlow as readonly [number, number])[0]);
+      const [a0, a1] = range(a);
+      const [b0, b1] = range(b);
+      const lo = Math.max(a0, b0);
+      const hi = Math.min(a1, b1);
+      if (!(hi - lo > NEIGHBOUR_SHARE * axis)) continue;
+      const va = valueAt(a);
+      const vb = valueAt(b);
+      const n = 60;
+      let together = 0;
+      let swapped = 0;
+      let where = lo;
+      for (let i = 0; i <= n; i++) {
+        const q = lo + ((hi - lo) * i) / n;
+        const d = (100 * (va(q) - vb(q))) / span;
+        if (Math.abs(d) < COINCIDE_PERCENT) together++;
+        else if (d < -ORDER_PERCENT) {
+          swapped++;
+          where = q;
+        }
+      }
+      const share = (hi - lo) / n / axis;
+      const what = together * share >= NEIGHBOUR_SHARE ? 'lie on one line' : swapped * share >= NEIGHBOUR_SHARE ? 'swap places' : undefined;
+      if (!what) continue;
+      for (const t of [a, b]) {
+        if (said.has(t.id)) continue;
+        said.add(t.id);
+        const other = t === a ? b : a;
+        out.push({
+          code: 'takeoff.trace-neighbour',
+          severity: 'fail',
+          trace: t.id,
+          message: `Trace ${t.id} (${t.describe}) and trace ${other.id} (${other.describe}) ${what} over ${Math.round(100 * (what === 'lie on one line' ? together : swapped) * share)} % of the flow axis${what === 'swap places' ? ` (near ${flowText(where)})` : ''}, where a larger impeller's ${t.quantity} lies above a smaller one's everywhere; one of them followed the other's line. Add guides on each line where it stands alone, near both of its ends.`,
+          figures: { share_of_axis: (what === 'lie on one line' ? together : swapped) * share },
+        });
+      }
+    }
+  }
+  return out;
+}
+
+/** The trace's value at a flow, by linear interpolation along its points sorted by flow. */
+function valueAt(t: AuditedTrace): (q: number) => number {
+  const order = t.flows.map((_, i) => i).sort((i, j) => (t.flows[i] as number) - (t.flows[j] as number));
+  const qs = order.map((i) => t.flows[i] as number);
+  const vs = order.map((i) => (t.values as readonly number[])[i] as number);
+  return (q) => {
+    let lo = 0;
+    let hi = qs.length - 1;
+    if (q <= (qs[0] as number)) return vs[0] as number;
+    if (q >= (qs[hi] as number)) return vs[hi] as number;
+    while (hi - lo > 1) {
+      const mid = (lo + hi) >> 1;
+      if ((qs[mid] as number) <= q) lo = mid;
+      else hi = mid;
+    }
+    const q0 = qs[lo] as number;
+    const q1 = qs[hi] as number;
+    const w = q1 > q0 ? (q - q0) / (q1 - q0) : 0;
+    return (vs[lo] as number) * (1 - w) + (vs[hi] as number) * w;
+  };
+}
+
+/** The longest stretch of flows over which the trace keeps one value within LEVEL_PERCENT of its span, as a share of the flow axis. */
+function levelStretch(t: AuditedTrace): { from: number; to: number; share: number } | undefined {
+  if (!t.values || !t.valueSpan || !t.axisFlow || t.values.length !== t.flows.length || t.flows.length < 6) return undefined;
+  const axis = Math.abs(t.axisFlow[1] - t.axisFlow[0]);
+  if (!(axis > 0)) return undefined;
+  const order = t.flows.map((_, i) => i).sort((i, j) => (t.flows[i] as number) - (t.flows[j] as number));
+  const qs = order.map((i) => t.flows[i] as number);
+  const vs = order.map((i) => (t.values as readonly number[])[i] as number);
+  const band = (LEVEL_PERCENT / 100) * t.valueSpan;
+  let best: { from: number; to: number; share: number } | undefined;
+  for (let i = 0; i < qs.length; i++) {
+    let lo = vs[i] as number;
+    let hi = lo;
+    let j = i;
+    while (j + 1 < qs.length) {
+      const v = vs[j + 1] as number;
+      if (Math.max(hi, v) - Math.min(lo, v) > band) break;
+      lo = Math.min(lo, v);
+      hi = Math.max(hi, v);
+      j++;
+    }
+    const share = ((qs[j] as number) - (qs[i] as number)) / axis;
+    if (!best || share > best.share) best = { from: qs[i] as number, to: qs[j] as number, share };
+  }
+  return best;
+}
+
+/** How far a smaller impeller's best efficiency may stand above a larger one's, % of the value span. */
+export const PEAK_ORDER_PERCENT = 1.5;
+
+/**
+ * Efficiency traces of one panel, held against each other by their peaks: a trimmed impeller
+ * reaches at most the best efficiency of the larger one (affinity keeps efficiency about equal
+ * at corresponding points, and trimming loses a little; common practice). A smaller impeller's
+ * trace peaking clearly higher followed another line or lost its own near the peak.
+ */
+function auditPeaks(curves: readonly AuditedTrace[]): AuditFinding[] {
+  const out: AuditFinding[] = [];
+  const usable = curves.filter((t) => t.quantity === 'efficiency' && t.how === 'raster' && t.values && t.valueSpan && t.values.length > 0);
+  const said = new Set<string>();
+  for (const a of usable) {
+    for (const b of usable) {
+      if (a.panel !== b.panel || !((a.diameter as number) > (b.diameter as number))) continue;
+      const peakA = Math.max(...(a.values as readonly number[]));
+      const peakB = Math.max(...(b.values as readonly number[]));
+      const over = (100 * (peakB - peakA)) / (a.valueSpan as number);
+      if (!(over > PEAK_ORDER_PERCENT)) continue;
+      for (const t of [a, b]) {
+        if (said.has(t.id)) continue;
+        said.add(t.id);
+        out.push({
+          code: 'takeoff.trace-peaks',
+          severity: 'warn',
+          trace: t.id,
+          message: `The efficiency trace ${b.id} (${b.describe}) peaks ${over.toFixed(1)} % of the axis span above trace ${a.id} (${a.describe}), while a trimmed impeller reaches at most the larger one's best efficiency; one of them left its line near the peak. Check both traces and add guides near their peaks where each line stands alone.`,
+          figures: { over_percent_of_span: over },
+        });
+      }
     }
   }
   return out;

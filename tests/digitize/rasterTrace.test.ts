@@ -224,4 +224,39 @@ describe('raster line following', () => {
     expect(() => traceRaster(image, [sheetPoint(10, 10), sheetPoint(250, 50)])).toThrow(/Guide 2 at \(250\.0, 50\.0\) lies outside the sheet \(200 × 100\)/);
     expect(() => traceRaster(image, [sheetPoint(Number.NaN, 10)])).toThrow(/not a finite number/);
   });
+
+  it('follows a dashed and a dotted line across their gaps as one line', () => {
+    for (const [pattern, cap] of [[[10, 5], 'butt'], [[0.01, 5], 'round']] as const) {
+      const image = picture(640, 300, (ctx) => {
+        ctx.setLineDash([...pattern]);
+        ctx.lineCap = cap;
+        stroke(ctx, head, 20, 620, '#1f5fbf', 2);
+      });
+      const result = traceRaster(image, [sheetPoint(200, head(200))]);
+      expect(result.line.dashed, `pattern ${pattern.join(' ')}`).toBe(true);
+      expect(result.lost).toEqual([]);
+      // From one guide to both ends of the drawn line (20 to 620 px), on the line.
+      expect(Math.min(...result.points.map((p) => p[0]))).toBeLessThan(30);
+      expect(Math.max(...result.points.map((p) => p[0]))).toBeGreaterThan(605);
+      expect(worstOff(result.points, head)).toBeLessThan(0.6); // px: dash ends and dots move the centroid a little
+    }
+  });
+
+  it('takes a solid line for solid, whatever crosses it', () => {
+    const image = picture(640, 300, (ctx) => {
+      grid(ctx, 640, 300, 40);
+      stroke(ctx, head, 20, 620, '#000000', 1.5);
+    });
+    expect(traceRaster(image, [sheetPoint(200, head(200)), sheetPoint(500, head(500))]).line.dashed).toBeUndefined();
+  });
+
+  it('says when a whole-line trace runs on to the right edge of the panel frame, and not at its left edge', () => {
+    const image = picture(640, 300, (ctx) => stroke(ctx, head, 20, 630, '#000000', 2));
+    const frame = [20, 20, 620, 290] as const;
+    const result = traceRaster(image, [sheetPoint(200, head(200)), sheetPoint(400, head(400))], { frame });
+    expect(result.doubts.map((d) => d.code)).toEqual(['takeoff.end-at-frame']);
+    expect(result.doubts[0]?.message).toMatch(/runs on to the panel's frame near \(6\d\d/);
+    const inside = traceRaster(picture(640, 300, (ctx) => stroke(ctx, head, 20, 560, '#000000', 2)), [sheetPoint(200, head(200)), sheetPoint(400, head(400))], { frame });
+    expect(inside.doubts).toEqual([]);
+  });
 });

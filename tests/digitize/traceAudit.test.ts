@@ -61,6 +61,61 @@ describe('trace audit', () => {
     expect(found.map((f) => [f.code, f.severity, f.trace])).toEqual([['takeoff.trace-jump', 'fail', 'h370']]);
   });
 
+  it('fails head traces of two diameters that lie on one line or swap places, and passes a sound pair', () => {
+    const q = Array.from({ length: 60 }, (_, i) => (0.1 * i) / 59);
+    const axis = { axisFlow: [0, 0.12] as const, valueSpan: 100, panel: 'head' };
+    const big = q.map((x) => 80 - 2000 * x * x);
+    const small = q.map((x) => 65 - 2400 * x * x);
+    const pair = (a: number[], b: number[]) => auditTraces([trace('h370', 'head', 370, 0, 0.1, { ...axis, flows: q, values: a }), trace('h330', 'head', 330, 0, 0.1, { ...axis, flows: q, values: b })], text);
+    expect(pair(big, small)).toEqual([]);
+    // The smaller impeller's trace followed the larger one's line from 0.05 m³/s on.
+    // (Its step onto that line is a jump of its own; the pair is said whatever the step looks like.)
+    const onOne = pair(big, small.map((v, i) => ((q[i] as number) >= 0.05 ? (big[i] as number) : v))).filter((f) => f.code !== 'takeoff.trace-jump');
+    expect(onOne.map((f) => [f.code, f.severity, f.trace])).toEqual([
+      ['takeoff.trace-neighbour', 'fail', 'h370'],
+      ['takeoff.trace-neighbour', 'fail', 'h330'],
+    ]);
+    expect(onOne[0]?.message).toMatch(/lie on one line/);
+    // The larger impeller's trace dropped below the smaller one's: out of order.
+    const swapped = pair(big.map((v, i) => ((q[i] as number) >= 0.06 ? (small[i] as number) - 5 : v)), small).filter((f) => f.code !== 'takeoff.trace-jump');
+    expect(swapped.map((f) => f.code)).toEqual(['takeoff.trace-neighbour', 'takeoff.trace-neighbour']);
+    expect(swapped[0]?.message).toMatch(/swap places/);
+    // Traces on different panels, and efficiency curves (which may bunch), are not compared.
+    expect(auditTraces([trace('h370', 'head', 370, 0, 0.1, { ...axis, flows: q, values: big }), trace('h330', 'head', 330, 0, 0.1, { ...axis, panel: 'other', flows: q, values: big })], text)).toEqual([]);
+    expect(auditTraces([trace('e370', 'efficiency', 370, 0, 0.1, { ...axis, flows: q, values: big }), trace('e330', 'efficiency', 330, 0, 0.1, { ...axis, flows: q, values: big })], text)).toEqual([]);
+  });
+
+  it('fails a trace that runs level over a fifth of the flow axis (a grid line), and passes a flat-topped head curve', () => {
+    const q = Array.from({ length: 120 }, (_, i) => (0.1 * i) / 119);
+    const axis = { axisFlow: [0, 0.12] as const, valueSpan: 100 };
+    const peaked = q.map((x) => 80 + 100 * x - 1500 * x * x); // peak at 0.033 m³/s, as flat as a drooping head curve gets
+    expect(auditTraces([trace('h370', 'head', 370, 0, 0.1, { ...axis, flows: q, values: peaked })], text)).toEqual([]);
+    const onGrid = peaked.map((v, i) => ((q[i] as number) >= 0.06 ? (peaked[71] as number) : v)); // level at the grid value from 0.06 on
+    const found = auditTraces([trace('h370', 'head', 370, 0, 0.1, { ...axis, flows: q, values: onGrid })], text);
+    expect(found.map((f) => [f.code, f.severity, f.trace])).toEqual([['takeoff.trace-level', 'fail', 'h370']]);
+    expect(found[0]?.message).toMatch(/as a grid line does/);
+  });
+
+  it('warns of a smaller impeller whose efficiency trace peaks above the larger one\'s, naming both', () => {
+    const q = Array.from({ length: 60 }, (_, i) => (0.1 * i) / 59);
+    const axis = { axisFlow: [0, 0.12] as const, valueSpan: 100, panel: 'eff' };
+    const eta = (top: number, best: number) => q.map((x) => top * (x / best) * (2 - x / best));
+    const pair = (a: number[], b: number[]) => auditTraces([trace('e370', 'efficiency', 370, 0, 0.1, { ...axis, flows: q, values: a }), trace('e330', 'efficiency', 330, 0, 0.1, { ...axis, flows: q, values: b })], text).filter((f) => f.code === 'takeoff.trace-peaks');
+    expect(pair(eta(80, 0.07), eta(78, 0.063))).toEqual([]); // the trim loses two points: as it should
+    const found = pair(eta(80, 0.07), eta(83, 0.063)); // the trim gains three points: one trace is off
+    expect(found.map((f) => [f.severity, f.trace])).toEqual([
+      ['warn', 'e370'],
+      ['warn', 'e330'],
+    ]);
+  });
+
+  it('holds an NPSHr trace to the end of its own diameter\'s head trace', () => {
+    const heads = [trace('h370', 'head', 370, 0, 0.1), trace('h330', 'head', 330, 0, 0.089)];
+    expect(auditTraces([...heads, trace('n370', 'npshr', 370, 0.02, 0.1), trace('n330', 'npshr', 330, 0.018, 0.089)], text)).toEqual([]);
+    const short = auditTraces([...heads, trace('n370', 'npshr', 370, 0.02, 0.06)], text);
+    expect(short.map((f) => [f.code, f.trace])).toEqual([['takeoff.trace-short', 'n370']]);
+  });
+
   it('leaves vector traces and explicit points alone', () => {
     expect(auditTraces([...family.slice(0, 3), trace('e330', 'efficiency', 330, 0, 0.04, { how: 'vector' })], text)).toEqual([]);
   });
