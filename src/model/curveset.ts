@@ -123,14 +123,19 @@ export const Finding = z.strictObject({
 });
 export type Finding = z.infer<typeof Finding>;
 
-export const Pump = z.strictObject({
-  name: z.string(),
+/** What names a pump beside its name: the one list of identity fields of every record that names a pump. */
+export const pumpIdentityFields = {
   maker: z.string().optional(),
   model: z.string().optional(),
   size: z.string().optional(),
   type: z.string().optional(),
   stages: z.number().int().min(1).optional(),
   suction: z.enum(['single', 'double']).optional(),
+};
+
+export const Pump = z.strictObject({
+  name: z.string(),
+  ...pumpIdentityFields,
 });
 export type Pump = z.infer<typeof Pump>;
 

@@ -12,7 +12,7 @@
  */
 import { UserError } from './errors.ts';
 import { z } from 'zod';
-import { QUANTITIES } from './curveset.ts';
+import { QUANTITIES, pumpIdentityFields } from './curveset.ts';
 
 export const TAKEOFF_FORMAT = 'pumpscribe.takeoff';
 export const TAKEOFF_VERSION = 1;
@@ -119,12 +119,7 @@ export const TakeoffPump = z.strictObject({
   name: z.string().min(1),
   speed_rpm: positive,
   specific_gravity: positive.default(1),
-  maker: z.string().optional(),
-  model: z.string().optional(),
-  size: z.string().optional(),
-  type: z.string().optional(),
-  stages: z.number().int().min(1).optional(),
-  suction: z.enum(['single', 'double']).optional(),
+  ...pumpIdentityFields,
 });
 
 export const Takeoff = z.strictObject({
