@@ -24,6 +24,12 @@ export const HIGH_NS_US_FOR_TRIM = 4500;
 export interface TrimSearch {
   /** The pump curve at impeller diameter d [m] (same speed). */
   curveAt(diameter_m: number): PumpCurve;
+  /**
+   * Optional shortcut: head [m] at diameter d [m] and flow q [m³/s], equal to `curveAt(d).head(q)`
+   * to the last bit, or undefined where `curveAt` must be asked. The search evaluates many
+   * diameters, and building a whole curve for each is most of its cost.
+   */
+  headAt?(diameter_m: number, flow_m3s: number): number | undefined;
   /** Full (largest) diameter [m]. */
   full_diameter_m: number;
   /** Smallest diameter the search may reach [m]. */
@@ -77,7 +83,7 @@ export function trimToDuty(search: TrimSearch, flow_m3s: number, head_m: number)
   const full = search.curveAt(search.full_diameter_m);
   const estimate = affinityParabolaTrim(full, search.full_diameter_m, flow_m3s, head_m);
   const withEstimate = estimate ? { estimate } : {};
-  const gap = (d: number) => search.curveAt(d).head(flow_m3s) - head_m;
+  const gap = (d: number) => (search.headAt?.(d, flow_m3s) ?? search.curveAt(d).head(flow_m3s)) - head_m;
   const gapFull = gap(search.full_diameter_m);
   if (gapFull < 0) {
     return {
