@@ -186,16 +186,18 @@ function trimmedMember(set: Pick<CurveSet, 'members'>, diameter_m: number): Memb
   const dU = upper.diameter_m as number;
   const dL = lower.diameter_m as number;
   const w = (diameter_m - dL) / (dU - dL); // weight of the upper neighbour
-  const a = scaleMemberToDiameter(upper, diameter_m);
-  const b = scaleMemberToDiameter(lower, diameter_m);
+  // Each neighbour scaled to the diameter (as `scaleMemberToDiameter` does); a blended curve
+  // keeps no points, so only the fits are scaled for it.
+  const rU = diameter_m / dU;
+  const rL = diameter_m / dL;
   const curves: Member['curves'] = {};
   for (const q of ['head', 'efficiency', 'power', 'npshr'] as const) {
-    const ca = a.curves[q];
-    const cb = b.curves[q];
-    if (ca?.fit && cb?.fit) curves[q] = { points: [], fit: blendFits(ca.fit, cb.fit, w) };
-    else if (ca || cb) curves[q] = (w >= 0.5 ? ca ?? cb : cb ?? ca) as Curve;
+    const ca = upper.curves[q];
+    const cb = lower.curves[q];
+    if (ca?.fit && cb?.fit) curves[q] = { points: [], fit: blendFits(scaleFit(ca.fit, rU, q), scaleFit(cb.fit, rL, q), w) };
+    else if (ca || cb) curves[q] = (w >= 0.5 ? ca ? scaleCurve(ca, rU, q) : scaleCurve(cb as Curve, rL, q) : cb ? scaleCurve(cb, rL, q) : scaleCurve(ca as Curve, rU, q));
   }
-  return { diameter_m, speed_rpm: upper.speed_rpm, curves, derived: blendDerived(a.derived, b.derived, w), extrapolated: false };
+  return { diameter_m, speed_rpm: upper.speed_rpm, curves, derived: blendDerived(scaleDerived(upper.derived, rU), scaleDerived(lower.derived, rL), w), extrapolated: false };
 }
 
 /**

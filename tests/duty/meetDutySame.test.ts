@@ -6,9 +6,10 @@
  */
 import { describe, expect, it } from 'vitest';
 import { curveAtDiameter, meetDuty, type DutyRequest } from '../../src/duty/meetDuty.ts';
-import { trimmedHeadAt, membersByDiameter } from '../../src/fit/affinity.ts';
+import { memberAtDiameter, trimmedHeadAt, membersByDiameter } from '../../src/fit/affinity.ts';
 import { seededRandom } from '../../src/demo/random.ts';
 import { meetDuty as frozenMeetDuty } from './meetDutySame/frozen/meetDuty.ts';
+import { memberAtDiameter as frozenMemberAtDiameter } from './meetDutySame/frozen/affinity.ts';
 import { curveSetCases, randomDuties } from './meetDutySame/cases.ts';
 
 /** The first difference between two values (numbers compared bit for bit with Object.is), or undefined. */
@@ -94,6 +95,24 @@ describe('meetDuty gives the same answers as before it was made faster', () => {
         if (diff) throw new Error(`${c.name}, duty ${JSON.stringify(duty)}: ${diff}`);
       }
     }
+  });
+});
+
+describe('the trimmed member', () => {
+  it('is the same as before (fits, points, derived figures), at and between the captured diameters and beyond them', () => {
+    const random = seededRandom(9);
+    let compared = 0;
+    for (const c of cases) {
+      const sorted = membersByDiameter(c.set);
+      if (sorted.length === 0) continue;
+      const dFull = sorted[0]!.diameter_m!;
+      for (const d of [...sorted.map((m) => m.diameter_m!), ...Array.from({ length: 100 }, () => dFull * (0.5 + 0.6 * random())), 0, -1]) {
+        const diff = firstDifference(outcome(() => memberAtDiameter(c.set, d)), outcome(() => frozenMemberAtDiameter(c.set, d)));
+        if (diff) throw new Error(`${c.name}, d = ${d}: ${diff}`);
+        compared++;
+      }
+    }
+    expect(compared).toBeGreaterThan(1000);
   });
 });
 

@@ -12,7 +12,7 @@
  * be confirmed against the manufacturer's certified data.
  */
 import type { CurveSet, Member } from '../../../../src/model/curveset.ts';
-import { memberAtDiameter, membersByDiameter } from '../../../../src/fit/affinity.ts';
+import { memberAtDiameter, membersByDiameter } from './affinity.ts';
 import { familyFigures } from '../../../../src/fit/checks/speedFigures.ts';
 import { pumpCurveOfMember, type PumpCurve } from '../../../../src/duty/pumpCurve.ts';
 import { figuresAt, type PointFigures } from '../../../../src/duty/operatingPoint.ts';
