@@ -13,7 +13,7 @@
  * the final trim is the manufacturer's to confirm.
  */
 import type { PumpCurve } from './pumpCurve.ts';
-import { bisect, rootsOn } from './solve.ts';
+import { bisect, lastRootOn } from './solve.ts';
 
 /** Trim ratio below which the trim is flagged (Lobanoff & Ross). */
 export const TRIM_LIMIT_RATIO = 0.8;
@@ -67,8 +67,7 @@ export type TrimResult =
 export function affinityParabolaTrim(full: PumpCurve, full_diameter_m: number, flow_m3s: number, head_m: number): AffinityParabolaEstimate | undefined {
   if (!(flow_m3s > 0) || !(head_m > 0)) return undefined;
   const c = head_m / (flow_m3s * flow_m3s);
-  const roots = rootsOn((q) => full.head(q) - c * q * q, full.domain[0], full.domain[1], 400);
-  const cross = roots[roots.length - 1];
+  const cross = lastRootOn((q) => full.head(q) - c * q * q, full.domain[0], full.domain[1], 400);
   if (cross === undefined || !(cross > 0)) return undefined;
   return { crossing_flow_m3s: cross, diameter_m: (full_diameter_m * flow_m3s) / cross };
 }

@@ -8,6 +8,7 @@ import { describe, expect, it } from 'vitest';
 import { curveAtDiameter, meetDuty, type DutyRequest } from '../../src/duty/meetDuty.ts';
 import { memberAtDiameter, trimmedHeadAt, membersByDiameter } from '../../src/fit/affinity.ts';
 import { seededRandom } from '../../src/demo/random.ts';
+import { lastRootOn, rootsOn } from '../../src/duty/solve.ts';
 import { meetDuty as frozenMeetDuty } from './meetDutySame/frozen/meetDuty.ts';
 import { memberAtDiameter as frozenMemberAtDiameter } from './meetDutySame/frozen/affinity.ts';
 import { curveSetCases, randomDuties } from './meetDutySame/cases.ts';
@@ -159,5 +160,27 @@ describe('the trim head shortcut', () => {
     expect(headAt(0, 0.01)).toBeUndefined();
     expect(headAt(-0.2, 0.01)).toBeUndefined();
     expect(headAt(Number.NaN, 0.01)).toBeUndefined();
+  });
+});
+
+describe('the last root', () => {
+  it('is the last of rootsOn to the last bit, or undefined when rootsOn finds none', () => {
+    const random = seededRandom(21);
+    let found = 0;
+    for (let k = 0; k < 2000; k++) {
+      // Cubics with up to three roots in [0, 1], some roots on a sample exactly, some functions with NaN.
+      const roots = Array.from({ length: 3 }, () => (random() < 0.2 ? Math.round(random() * 40) / 40 : 1.4 * random() - 0.2));
+      const scale = random() < 0.5 ? 1 : -1;
+      const f = k % 50 === 7 ? (x: number) => (x > 0.5 ? Number.NaN : x - 0.3) : (x: number) => scale * (x - roots[0]!) * (x - roots[1]!) * (x - roots[2]!);
+      for (const samples of [0, 1, 40, 400]) {
+        const all = rootsOn(f, 0, 1, samples);
+        const last = lastRootOn(f, 0, 1, samples);
+        if (!Object.is(last, all[all.length - 1])) throw new Error(`roots ${roots.join(', ')}, ${samples} samples: ${last} ≠ ${all[all.length - 1]}`);
+        if (last !== undefined) found++;
+      }
+    }
+    expect(found).toBeGreaterThan(3000);
+    expect(lastRootOn((x) => x, 1, 1)).toBeUndefined();
+    expect(lastRootOn((x) => x, 0, 1)).toBe(0);
   });
 });
