@@ -1,51 +1,19 @@
 /**
  * Invented curve sets and random duties for comparing meetDuty against its frozen copy (not real
  * products): the library's invented families (three or four diameters, one with a power curve
- * only), the demo families read with noise, the committed demo curve sets, a one-diameter set,
- * and the invented variable-speed family.
+ * only, one with head curves only), the duty tests' invented family in several variants (one
+ * diameter, a power curve, head fits of different degrees, NPSH3 on one diameter, members
+ * without a head curve), the committed demo curve sets (read with reading noise), and the
+ * invented variable-speed family.
  */
 import { readFileSync } from 'node:fs';
-import { buildCurveSet, type MemberInput } from '../../../src/fit/build.ts';
-import { inventedSiFamily, inventedUsFamily, type InventedFamily as DemoFamily } from '../../../src/demo/inventedFamily.ts';
 import { inventedSpeedFamily, speedFamilyPointsText } from '../../../src/demo/inventedSpeedFamily.ts';
 import { seededRandom } from '../../../src/demo/random.ts';
-import type { CurvePoint, CurveSet } from '../../../src/model/curveset.ts';
+import type { CurveSet, PolynomialFit } from '../../../src/model/curveset.ts';
 import type { DutyRequest } from '../../../src/duty/meetDuty.ts';
 import { inventedCurveSet as libraryCurveSet, type InventedFamily } from '../../library/fixtures.ts';
 import { inventedCurveSet as dutyCurveSet, inventedMember } from '../inventedFamily.ts';
 import { buildSpeedSetFromText } from '../../speed/buildSpeedSet.ts';
-
-/** A demo family read with reading noise (± noise of the span), as the duty bench builds it. */
-export function noisySet(fam: DemoFamily, seed: number, noise = 0.003): CurveSet {
-  const random = seededRandom(seed);
-  const jitter = (span: number) => (2 * random() - 1) * noise * span;
-  const d0 = fam.diameters_m[0] as number;
-  const members: MemberInput[] = fam.diameters_m.map((d) => {
-    const end = fam.endFlow_m3s * (d / d0);
-    const along = (start: number, f: (q: number) => number, span: number): CurvePoint[] =>
-      Array.from({ length: 15 }, (_, i) => {
-        const q = end * (start + ((1 - start) * i) / 14);
-        return [Math.max(0, q + jitter(fam.spans.flow)), f(q) + jitter(span)] as CurvePoint;
-      });
-    return {
-      diameter_m: d,
-      points: {
-        head: along(0, (q) => fam.head(q, d), fam.spans.head),
-        efficiency: along(0.1, (q) => fam.efficiency(q, d), 1),
-        power: along(0, (q) => fam.power(q, d), fam.spans.power),
-        npshr: along(0.2, (q) => fam.npshr(q, d), fam.spans.npshr),
-      },
-    };
-  });
-  return buildCurveSet({
-    pump: { name: `${fam.name} (invented)` },
-    speed_rpm: fam.speed_rpm,
-    family: 'diameter',
-    fluid: { name: 'water', density_kg_m3: fam.density_kg_m3, specific_gravity: 1 },
-    display_units: { flow: 'm3/h', head: 'm', npsh: 'm', power: 'kW', diameter: 'mm' },
-    members,
-  });
-}
 
 /** A library bench family (log-uniform size), as bench/library.bench.ts draws it. */
 function randomLibraryFamily(random: () => number, i: number): InventedFamily {
@@ -99,8 +67,16 @@ export function curveSetCases(libraryCount = 8): Case[] {
     delete m.curves.npshr;
   }
   sets.push(['library family, head curves only', headOnly]);
-  sets.push(['invented US family, noisy', noisySet(inventedUsFamily(), 1)]);
-  sets.push(['invented SI family, noisy', noisySet(inventedSiFamily(), 3)]);
+  // Head fits of different degrees on neighbouring diameters (a small invented cubic and quartic term).
+  const mixed = dutyCurveSet([0.25, 0.24, 0.23, 0.21]);
+  const extend = (i: number, extra: number[]) => {
+    const fit = mixed.members[i]?.curves.head?.fit as PolynomialFit;
+    fit.coefficients = [...fit.coefficients, ...extra];
+    fit.degree = fit.coefficients.length - 1;
+  };
+  extend(1, [-0.8]);
+  extend(2, [0.5, -0.3]);
+  sets.push(['invented duty-test family, head fits of degree 2, 3, 4 and 2', mixed]);
   sets.push(['invented duty-test family', dutyCurveSet()]);
   sets.push(['invented duty-test family, one diameter', dutyCurveSet([0.25])]);
   const withPower = dutyCurveSet();
