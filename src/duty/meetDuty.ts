@@ -101,8 +101,8 @@ function byTrim(set: CurveSet, duty: DutyRequest, density: number): DutyMatch {
   const full = (sorted[0] as Member).diameter_m as number;
   const smallest = (sorted[sorted.length - 1] as Member).diameter_m as number;
   const ns = familyFigures(set).ns_us;
-  // The search asks for the same few diameters more than once (full, the result): keep the last
-  // curves built. Between them it reads only the head, through the shortcut.
+  // The search asks for the same two diameters more than once (the full one, the result): keep
+  // each curve built. In between it reads only the head, through the shortcut.
   const built = new Map<number, PumpCurve>();
   const curveAt = (d: number): PumpCurve => {
     let curve = built.get(d);
