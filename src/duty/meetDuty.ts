@@ -10,7 +10,7 @@
  * be confirmed against the manufacturer's certified data.
  */
 import type { CurveSet, Member } from '../model/curveset.ts';
-import { memberAtDiameter, membersByDiameter } from '../fit/affinity.ts';
+import { memberAtDiameter, membersByDiameter, trimmedHeadAt } from '../fit/affinity.ts';
 import { familyFigures } from '../fit/checks/speedFigures.ts';
 import { pumpCurveOfMember, type PumpCurve } from './pumpCurve.ts';
 import { figuresAt, type PointFigures } from './operatingPoint.ts';
@@ -101,9 +101,21 @@ function byTrim(set: CurveSet, duty: DutyRequest, density: number): DutyMatch {
   const full = (sorted[0] as Member).diameter_m as number;
   const smallest = (sorted[sorted.length - 1] as Member).diameter_m as number;
   const ns = familyFigures(set).ns_us;
+  // The search asks for the same two diameters more than once (the full one, the result): keep
+  // each curve built. In between it reads only the head, through the shortcut.
+  const built = new Map<number, PumpCurve>();
+  const curveAt = (d: number): PumpCurve => {
+    let curve = built.get(d);
+    if (!curve) {
+      curve = curveAtDiameter(set, d, density);
+      built.set(d, curve);
+    }
+    return curve;
+  };
   const result = trimToDuty(
     {
-      curveAt: (d) => curveAtDiameter(set, d, density),
+      curveAt,
+      headAt: trimmedHeadAt(set),
       full_diameter_m: full,
       min_diameter_m: Math.min(smallest, TRIM_SEARCH_FLOOR * full),
       ...(ns !== undefined ? { ns_us: ns } : {}),
@@ -115,7 +127,7 @@ function byTrim(set: CurveSet, duty: DutyRequest, density: number): DutyMatch {
   if (result.status !== 'ok') {
     return { ...base, status: result.status === 'above-full-diameter' ? 'above-range' : 'below-range', message: result.message };
   }
-  const curve = curveAtDiameter(set, result.diameter_m, density);
+  const curve = curveAt(result.diameter_m);
   const point = figuresAt(curve, duty.flow_m3s);
   const extrapolated = result.diameter_m < smallest * (1 - 1e-9);
   const pct = (result.ratio * 100).toFixed(1);

@@ -22,6 +22,27 @@ export function rootsOn(f: (x: number) => number, a: number, b: number, samples 
   return out;
 }
 
+/**
+ * The largest root `rootsOn(f, a, b, samples)` finds, or undefined when it finds none: the same
+ * value to the last bit (the same sample flows and the same bisection), found by walking the
+ * samples down from b, so that the samples below the last root are never evaluated.
+ */
+export function lastRootOn(f: (x: number) => number, a: number, b: number, samples = 200): number | undefined {
+  if (!(b > a)) return undefined;
+  if (!(samples >= 1)) return f(a) === 0 ? a : undefined;
+  let x1 = a + ((b - a) * samples) / samples;
+  let f1 = f(x1);
+  for (let i = samples; i >= 1; i--) {
+    if (f1 === 0) return x1;
+    const x0 = i === 1 ? a : a + ((b - a) * (i - 1)) / samples;
+    const f0 = f(x0);
+    if (f0 !== 0 && Number.isFinite(f0) && Number.isFinite(f1) && f0 * f1 < 0) return bisect(f, x0, x1, f0);
+    x1 = x0;
+    f1 = f0;
+  }
+  return f1 === 0 ? a : undefined;
+}
+
 /** Bisection on [lo, hi] where f(lo) and f(hi) differ in sign; `flo` saves one evaluation. */
 export function bisect(f: (x: number) => number, lo: number, hi: number, flo = f(lo)): number {
   for (let k = 0; k < 200; k++) {

@@ -13,7 +13,7 @@
  * the final trim is the manufacturer's to confirm.
  */
 import type { PumpCurve } from './pumpCurve.ts';
-import { bisect, rootsOn } from './solve.ts';
+import { bisect, lastRootOn } from './solve.ts';
 
 /** Trim ratio below which the trim is flagged (Lobanoff & Ross). */
 export const TRIM_LIMIT_RATIO = 0.8;
@@ -24,6 +24,12 @@ export const HIGH_NS_US_FOR_TRIM = 4500;
 export interface TrimSearch {
   /** The pump curve at impeller diameter d [m] (same speed). */
   curveAt(diameter_m: number): PumpCurve;
+  /**
+   * Optional shortcut: head [m] at diameter d [m] and flow q [m³/s], equal to `curveAt(d).head(q)`
+   * to the last bit, or undefined where `curveAt` must be asked. The search evaluates many
+   * diameters, and building a whole curve for each is most of its cost.
+   */
+  headAt?(diameter_m: number, flow_m3s: number): number | undefined;
   /** Full (largest) diameter [m]. */
   full_diameter_m: number;
   /** Smallest diameter the search may reach [m]. */
@@ -61,8 +67,7 @@ export type TrimResult =
 export function affinityParabolaTrim(full: PumpCurve, full_diameter_m: number, flow_m3s: number, head_m: number): AffinityParabolaEstimate | undefined {
   if (!(flow_m3s > 0) || !(head_m > 0)) return undefined;
   const c = head_m / (flow_m3s * flow_m3s);
-  const roots = rootsOn((q) => full.head(q) - c * q * q, full.domain[0], full.domain[1], 400);
-  const cross = roots[roots.length - 1];
+  const cross = lastRootOn((q) => full.head(q) - c * q * q, full.domain[0], full.domain[1], 400);
   if (cross === undefined || !(cross > 0)) return undefined;
   return { crossing_flow_m3s: cross, diameter_m: (full_diameter_m * flow_m3s) / cross };
 }
@@ -77,7 +82,7 @@ export function trimToDuty(search: TrimSearch, flow_m3s: number, head_m: number)
   const full = search.curveAt(search.full_diameter_m);
   const estimate = affinityParabolaTrim(full, search.full_diameter_m, flow_m3s, head_m);
   const withEstimate = estimate ? { estimate } : {};
-  const gap = (d: number) => search.curveAt(d).head(flow_m3s) - head_m;
+  const gap = (d: number) => (search.headAt?.(d, flow_m3s) ?? search.curveAt(d).head(flow_m3s)) - head_m;
   const gapFull = gap(search.full_diameter_m);
   if (gapFull < 0) {
     return {

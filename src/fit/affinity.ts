@@ -186,16 +186,80 @@ function trimmedMember(set: Pick<CurveSet, 'members'>, diameter_m: number): Memb
   const dU = upper.diameter_m as number;
   const dL = lower.diameter_m as number;
   const w = (diameter_m - dL) / (dU - dL); // weight of the upper neighbour
-  const a = scaleMemberToDiameter(upper, diameter_m);
-  const b = scaleMemberToDiameter(lower, diameter_m);
+  // Each neighbour scaled to the diameter (as `scaleMemberToDiameter` does); a blended curve
+  // keeps no points, so only the fits are scaled for it.
+  const rU = diameter_m / dU;
+  const rL = diameter_m / dL;
   const curves: Member['curves'] = {};
   for (const q of ['head', 'efficiency', 'power', 'npshr'] as const) {
-    const ca = a.curves[q];
-    const cb = b.curves[q];
-    if (ca?.fit && cb?.fit) curves[q] = { points: [], fit: blendFits(ca.fit, cb.fit, w) };
-    else if (ca || cb) curves[q] = (w >= 0.5 ? ca ?? cb : cb ?? ca) as Curve;
+    const ca = upper.curves[q];
+    const cb = lower.curves[q];
+    if (ca?.fit && cb?.fit) curves[q] = { points: [], fit: blendFits(scaleFit(ca.fit, rU, q), scaleFit(cb.fit, rL, q), w) };
+    else if (ca || cb) curves[q] = (w >= 0.5 ? ca ? scaleCurve(ca, rU, q) : scaleCurve(cb as Curve, rL, q) : cb ? scaleCurve(cb, rL, q) : scaleCurve(ca as Curve, rU, q));
   }
-  return { diameter_m, speed_rpm: upper.speed_rpm, curves, derived: blendDerived(a.derived, b.derived, w), extrapolated: false };
+  return { diameter_m, speed_rpm: upper.speed_rpm, curves, derived: blendDerived(scaleDerived(upper.derived, rU), scaleDerived(lower.derived, rL), w), extrapolated: false };
+}
+
+/**
+ * Head [m] of the trimmed impeller at diameter d [m] and flow q [m³/s], without building the
+ * member: a shortcut for searches that evaluate many diameters (the trim that meets a duty).
+ * It repeats the arithmetic of `memberAtDiameter` → `scaleFit` → `blendFits` →
+ * `evaluateUnchecked` operation by operation, so the value is the same to the last bit
+ * (tests/duty/meetDutySame.test.ts holds it to that).
+ *
+ * Returns a function of (d, q); the function returns undefined whenever the member at d would
+ * not carry a fitted head curve made that way (a neighbour without a head fit, a diameter that
+ * is not positive): the caller then builds the member, which says what is wrong.
+ */
+export function trimmedHeadAt(set: Pick<CurveSet, 'members'>): (diameter_m: number, flow_m3s: number) => number | undefined {
+  const sorted = membersByDiameter(set);
+  const diameters = sorted.map((m) => m.diameter_m as number);
+  const fits = sorted.map((m) => m.curves.head?.fit);
+  const n = sorted.length;
+  const k = VALUE_EXPONENT.head;
+  return (diameter_m, flow_m3s) => {
+    if (n === 0 || !(diameter_m > 0)) return undefined;
+    const dMax = diameters[0] as number;
+    const dMin = diameters[n - 1] as number;
+    // Outside the captured range (or at the largest): the nearest member scaled alone (`scaleFit`).
+    if (diameter_m >= dMax || diameter_m <= dMin) {
+      const j = diameter_m >= dMax ? 0 : n - 1;
+      const fit = fits[j];
+      if (!fit) return undefined;
+      const r = diameter_m / (diameters[j] as number);
+      const f = r ** k;
+      const t = flow_m3s / (fit.flow_scale * r);
+      const c = fit.coefficients;
+      let y = 0;
+      for (let i = c.length - 1; i >= 0; i--) y = y * t + (c[i] as number) * f;
+      return y;
+    }
+    let i = 0;
+    while ((diameters[i + 1] as number) > diameter_m) i++;
+    const dU = diameters[i] as number;
+    const dL = diameters[i + 1] as number;
+    const fa = fits[i];
+    const fb = fits[i + 1];
+    if (dL === diameter_m) return fb ? evaluateUnchecked(fb, flow_m3s) : undefined;
+    if (!fa || !fb) return undefined;
+    const w = (diameter_m - dL) / (dU - dL);
+    const rA = diameter_m / dU;
+    const rB = diameter_m / dL;
+    const gA = rA ** k;
+    const gB = rB ** k;
+    const sA = fa.flow_scale * rA;
+    const ratio = sA / (fb.flow_scale * rB);
+    const ca = fa.coefficients;
+    const cb = fb.coefficients;
+    const t = flow_m3s / sA;
+    let y = 0;
+    for (let j = Math.max(ca.length, cb.length) - 1; j >= 0; j--) {
+      const a = j < ca.length ? (ca[j] as number) * gA : 0;
+      const b = j < cb.length ? (cb[j] as number) * gB : 0;
+      y = y * t + (w * a + (1 - w) * b * ratio ** j);
+    }
+    return y;
+  };
 }
 
 /**
