@@ -89,6 +89,12 @@ export interface Draft {
   readonly panels: readonly PanelDraft[];
   readonly traces: readonly TraceDraft[];
   readonly notes?: readonly string[];
+  /** The record's provenance of an automatic take-off: what found the parts, and what it asks. */
+  readonly detected?: { readonly by: string; readonly questions: readonly string[] };
+  /** The record's efficiency levels drawn as iso-lines, as the engineer gave them to the automatic take-off. */
+  readonly iso_levels?: readonly number[];
+  /** The record's minimum continuous flow, in units.flow. */
+  readonly min_flow?: number;
   /** View only: the impeller diameters of the family, largest first, in units.diameter. */
   readonly diameters: readonly number[];
   /** View only: the kind of sheet: impeller diameters at one speed, or one impeller at several speeds. */

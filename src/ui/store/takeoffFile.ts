@@ -72,7 +72,10 @@ export function toTakeoffFile(draft: Draft): WrittenTakeoff {
     units: { ...draft.units },
     panels,
     traces,
+    ...(draft.min_flow !== undefined ? { min_flow: draft.min_flow } : {}),
     ...(draft.notes ? { notes: [...draft.notes] } : {}),
+    ...(draft.iso_levels ? { iso_levels: [...draft.iso_levels] } : {}),
+    ...(draft.detected ? { detected: { by: draft.detected.by, questions: [...draft.detected.questions] } } : {}),
   };
   return { takeoff: parseTakeoff(Takeoff.parse(raw)), omitted };
 }
