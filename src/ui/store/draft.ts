@@ -135,6 +135,15 @@ export function frameOf(panel: Pick<PanelDraft, 'frame' | 'anchors'>): Frame {
   return [Math.min(...xs), Math.min(...ys), Math.max(...xs), Math.max(...ys)];
 }
 
+/** Shared area of two rectangles [left, top, right, bottom] over the area of their union, 0 to 1. */
+export function frameOverlap(a: readonly number[], b: readonly number[]): number {
+  const w = Math.max(0, Math.min(a[2] as number, b[2] as number) - Math.max(a[0] as number, b[0] as number));
+  const h = Math.max(0, Math.min(a[3] as number, b[3] as number) - Math.max(a[1] as number, b[1] as number));
+  const area = (r: readonly number[]) => Math.max(0, (r[2] as number) - (r[0] as number)) * Math.max(0, (r[3] as number) - (r[1] as number));
+  const union = area(a) + area(b) - w * h;
+  return union > 0 ? (w * h) / union : 0;
+}
+
 /** The units a panel's axes are read in: its own, else the record's by what it plots. */
 export function axisUnits(units: UnitsDraft, panel: Pick<PanelDraft, 'units' | 'plots'>): { x: string; y: string } {
   return { x: panel.units?.x ?? units.flow, y: panel.units?.y ?? defaultYUnit(units, panel.plots) };

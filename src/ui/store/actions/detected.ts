@@ -6,7 +6,7 @@
 import type { Quantity } from '../../../model/curveset.ts';
 import type { Panel, Trace } from '../../../model/takeoff.ts';
 import type { DetectAnswer } from '../../worker/protocol.ts';
-import { familyOfTraces, type Draft, type PanelDraft, type TraceDraft } from '../draft.ts';
+import { familyOfTraces, frameOverlap, type Draft, type PanelDraft, type TraceDraft } from '../draft.ts';
 import type { Action } from './action.ts';
 
 /** The label of a trace's curve for "is it the same curve": quantity and diameter, speed or iso level. */
@@ -17,15 +17,6 @@ function curveKey(t: Pick<Trace, 'quantity' | 'iso' | 'diameter' | 'speed'>): st
 function plotsOf(p: Panel, traces: readonly Trace[]): Quantity {
   if (p.quantity) return p.quantity;
   return traces.find((t) => t.panel === p.id && t.iso === undefined)?.quantity ?? 'head';
-}
-
-/** Shared area of two frames over the area of their union (0 to 1). */
-function overlap(a: readonly number[], b: readonly number[]): number {
-  const w = Math.max(0, Math.min(a[2] as number, b[2] as number) - Math.max(a[0] as number, b[0] as number));
-  const h = Math.max(0, Math.min(a[3] as number, b[3] as number) - Math.max(a[1] as number, b[1] as number));
-  const area = (r: readonly number[]) => Math.max(0, (r[2] as number) - (r[0] as number)) * Math.max(0, (r[3] as number) - (r[1] as number));
-  const union = area(a) + area(b) - w * h;
-  return union > 0 ? (w * h) / union : 0;
 }
 
 /**
@@ -42,7 +33,7 @@ export const applyDetection = (found: DetectAnswer): Action => (draft) => {
   const onUserPanel = new Map<string, string>();
   for (const p of found.panels) {
     const plots = plotsOf(p, found.traces);
-    const same = userPanels.find((u) => u.id === p.id || (u.plots === plots && p.frame && u.frame && overlap(u.frame, p.frame) > 0.5));
+    const same = userPanels.find((u) => u.id === p.id || (u.plots === plots && p.frame && u.frame && frameOverlap(u.frame, p.frame) > 0.5));
     if (same) {
       onUserPanel.set(p.id, same.id);
       continue;
