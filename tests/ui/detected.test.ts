@@ -143,6 +143,32 @@ describe('the questions of the detector', () => {
     expect(store.draft.traces.map((t) => t.diameter)).toEqual([330, 310]);
     expect(detection.question()).toBeNull();
     expect(steps).toEqual(['review']);
+    // The answer is kept with the document: the file carries it, and the next detection uses it.
+    expect(store.draft.labelsGiven).toBe(true);
+    const file = toTakeoffFile(store.draft).takeoff;
+    expect(file.diameters).toEqual([330, 310]);
+    const back = fromTakeoffFile(JSON.parse(JSON.stringify(file)), { name: 'invented.pdf', kind: 'pdf', mime: 'application/pdf', page: 1, pageCount: 1, width: 600, height: 800 });
+    expect(toTakeoffFile(back).takeoff).toEqual(file);
+    replies.push(answer());
+    await detection.run();
+    expect(sent[2]).toMatchObject({ diameters: [330, 310] });
+    expect(sent[2]).not.toHaveProperty('iso_levels');
+  });
+
+  it('keep the iso levels given in the document and in its file', async () => {
+    const store = new Store(empty());
+    const sent: Record<string, unknown>[] = [];
+    const replies = [answer({ questions: ['2 iso-lines on panel "head" carry no "%" label; give every level drawn as "iso_levels".'] }), answer()];
+    const worker = { call: async (_op: string, args: { document: Record<string, unknown> }) => { sent.push(args.document); return replies.shift(); } } as unknown as SheetWorkerClient;
+    const detection = new Detection({ store, worker, vectorReady: () => true, requestRender: () => undefined, goto: () => undefined });
+    await detection.run();
+    expect(detection.question()).toMatchObject({ kind: 'iso', field: expect.stringMatching(/Efficiency levels/) });
+    await detection.answer('70 80');
+    expect(sent[1]).toMatchObject({ iso_levels: [70, 80] });
+    expect(store.draft.iso_levels).toEqual([70, 80]);
+    expect(toTakeoffFile(store.draft).takeoff.iso_levels).toEqual([70, 80]);
+    store.undo();
+    expect(store.draft.iso_levels).toBeUndefined();
   });
 
   it('is refused with a sentence on a page that is not a vector page', async () => {

@@ -6,10 +6,10 @@
  */
 import { TAKEOFF_FORMAT, TAKEOFF_VERSION } from '../../model/takeoff.ts';
 import { readDecimal } from '../../units/readNumber.ts';
-import { applyDetection, answerKind, type AnswerKind } from '../store/actions/detected.ts';
+import { applyDetection, answerKind, type AnswerKind, type DetectionGiven } from '../store/actions/detected.ts';
 import { EditError } from '../store/actions/action.ts';
 import { parseDiameterList } from '../store/actions/setup.ts';
-import type { Draft } from '../store/draft.ts';
+import { familyLabels, type Draft } from '../store/draft.ts';
 import type { Store } from '../store/store.ts';
 import type { SheetWorkerClient } from '../worker/client.ts';
 
@@ -38,8 +38,6 @@ export class Detection {
   running = false;
   /** Index of the question on screen among the document's questions. */
   private index = 0;
-  /** The engineer's answers, given to the next detection. */
-  private answers: { labels?: number[]; iso?: number[] } = {};
 
   constructor(private readonly host: DetectionHost) {}
 
@@ -49,7 +47,6 @@ export class Detection {
 
   /** Forgets the answers and the question shown: a new sheet or page. */
   reset(): void {
-    this.answers = {};
     this.index = 0;
   }
 
@@ -71,10 +68,14 @@ export class Detection {
     this.host.requestRender();
   }
 
-  /** The minimal take-off the detector completes: the sheet, the pump, the units, and the answers. */
-  private document(draft: Draft): Record<string, unknown> {
+  /**
+   * The minimal take-off the detector completes: the sheet, the pump, the units, and the answers
+   * given (now, or kept in the document from an earlier answer).
+   */
+  private document(draft: Draft, given: DetectionGiven): Record<string, unknown> {
     if (!draft.sheet) throw new EditError('Load a sheet first.');
-    const labels = this.answers.labels;
+    const labels = given.labels ?? (draft.labelsGiven && familyLabels(draft).length ? familyLabels(draft) : undefined);
+    const iso = given.iso ?? draft.iso_levels;
     return {
       format: TAKEOFF_FORMAT,
       version: TAKEOFF_VERSION,
@@ -82,13 +83,13 @@ export class Detection {
       page: draft.sheet.page,
       pump: { ...draft.pump, name: draft.pump.name.trim() || 'Unnamed pump' },
       units: { ...draft.units },
-      ...(labels ? (draft.family === 'speed' ? { speeds: labels } : { diameters: labels }) : {}),
-      ...(this.answers.iso ? { iso_levels: this.answers.iso } : draft.iso_levels ? { iso_levels: [...draft.iso_levels] } : {}),
+      ...(labels ? { [draft.family === 'speed' ? 'speeds' : 'diameters']: [...labels] } : {}),
+      ...(iso ? { iso_levels: [...iso] } : {}),
     };
   }
 
   /** Runs the detector and puts what it found into the document (one undoable edit). */
-  async run(): Promise<void> {
+  async run(given: DetectionGiven = {}): Promise<void> {
     const { store } = this.host;
     if (this.running) return;
     if (!this.available) {
@@ -98,14 +99,14 @@ export class Detection {
     this.running = true;
     store.setSession({ busy: true, progress: { label: 'Finding panels and curves', fraction: 0 } });
     try {
-      const found = await this.host.worker.call('detect', { document: this.document(store.draft) }, (p) => store.setSession({ progress: { label: p.label, fraction: p.fraction } }));
+      const found = await this.host.worker.call('detect', { document: this.document(store.draft, given) }, (p) => store.setSession({ progress: { label: p.label, fraction: p.fraction } }));
       this.index = 0;
       if (found.refused !== null && found.panels.length === 0) {
         store.dispatch((draft) => ({ draft: { ...draft, detected: { by: found.by, questions: found.questions } }, label: 'questions of the automatic take-off', undoable: false }));
         store.say(found.questions.length ? `Nothing could be named yet: answer the question below (${found.questions.length}).` : found.refused, 'caution');
         return;
       }
-      store.dispatch(applyDetection(found));
+      store.dispatch(applyDetection(found, given));
       const curves = found.traces.filter((t) => t.iso === undefined).length;
       const isos = found.traces.length - curves;
       const kept = store.draft.traces.filter((t) => t.origin !== 'detected').length + store.draft.panels.filter((p) => p.origin !== 'detected').length;
@@ -124,14 +125,14 @@ export class Detection {
   async answer(text: string): Promise<void> {
     const q = this.question();
     if (!q) return;
+    let given: DetectionGiven;
     try {
-      if (q.kind === 'iso') this.answers.iso = readLevels(text);
-      else this.answers.labels = parseDiameterList(text);
+      given = q.kind === 'iso' ? { iso: readLevels(text) } : { labels: parseDiameterList(text) };
     } catch (error) {
       this.host.store.say((error as Error).message, 'error');
       return;
     }
-    await this.run();
+    await this.run(given);
   }
 }
 

@@ -95,6 +95,11 @@ export interface Draft {
   readonly iso_levels?: readonly number[];
   /** The record's minimum continuous flow, in units.flow. */
   readonly min_flow?: number;
+  /**
+   * View only: true when the family's diameters (or speeds) were given as the answer to the
+   * automatic take-off; the file then carries them as its `diameters` (or `speeds`).
+   */
+  readonly labelsGiven?: boolean;
   /** View only: the impeller diameters of the family, largest first, in units.diameter. */
   readonly diameters: readonly number[];
   /** View only: the kind of sheet: impeller diameters at one speed, or one impeller at several speeds. */

@@ -19,12 +19,18 @@ function plotsOf(p: Panel, traces: readonly Trace[]): Quantity {
   return traces.find((t) => t.panel === p.id && t.iso === undefined)?.quantity ?? 'head';
 }
 
+/** The engineer's answers the detection ran with: the family's labels, the iso levels drawn. */
+export interface DetectionGiven {
+  labels?: readonly number[];
+  iso?: readonly number[];
+}
+
 /**
  * Puts a detection into the document: the parts of an earlier detection go, the engineer's stay,
  * and a found part the engineer already set is not added again (a found panel with the id of
  * one of the engineer's gives way to it, and its curves lie on the engineer's panel).
  */
-export const applyDetection = (found: DetectAnswer): Action => (draft) => {
+export const applyDetection = (found: DetectAnswer, given: DetectionGiven = {}): Action => (draft) => {
   const userPanels = draft.panels.filter((p) => p.origin !== 'detected');
   const userTraces = draft.traces.filter((t) => t.origin !== 'detected');
   const panelIds = new Set(userPanels.map((p) => p.id));
@@ -64,9 +70,11 @@ export const applyDetection = (found: DetectAnswer): Action => (draft) => {
     panels,
     traces,
     family,
-    diameters: family === 'diameter' ? labels('diameter', draft.diameters) : draft.diameters,
-    speeds: family === 'speed' ? labels('speed', draft.speeds) : draft.speeds,
+    diameters: family === 'diameter' ? labels('diameter', given.labels ?? draft.diameters) : draft.diameters,
+    speeds: family === 'speed' ? labels('speed', given.labels ?? draft.speeds) : draft.speeds,
     detected: { by: found.by, questions: [...found.questions] },
+    ...(given.labels ? { labelsGiven: true } : {}),
+    ...(given.iso ? { iso_levels: [...given.iso] } : {}),
   };
   const added = found.panels.length + found.traces.length;
   return { draft: next, label: `find panels and curves (${added} parts)`, undoable: true, keepsOrigin: true };
