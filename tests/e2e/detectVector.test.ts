@@ -17,6 +17,7 @@ import { parseUnit, toSI } from '../../src/units/index.ts';
 import { QUANTITY_KIND } from '../../src/units/quantityUnits.ts';
 import { ARTIFACTS, cleanDir, openBrowser, ROOT, settle, startServer, User, type Browser, type Server } from './harness.ts';
 import { compareCurveSets } from './compare.ts';
+import { makeVectorSheet, minimalTakeoff, openPrinter } from '../../scripts/detectSheets/vectorSheet.ts';
 
 const dir = join(ARTIFACTS, 'detect-vector');
 const SAMPLE = join(ROOT, 'samples', 'sheets', 'si-panels-black');
@@ -190,5 +191,62 @@ describe('finding panels and curves on a vector sheet', () => {
     expect(worstOf(detectGaps)).toBeLessThanOrEqual(0.1);
     expect(handGaps.length).toBe(13);
     expect(worstHand).toBeLessThanOrEqual(0.1);
+  });
+
+  it('asks for the diameters of a sheet that prints none, one question with one field, and reads the sheet again with the answer', async () => {
+    // An INVENTED sheet of the random bed (seed 14: four panels, four diameters, no curve labels), printed by Chromium.
+    const printer = await openPrinter();
+    let sheet: Awaited<ReturnType<typeof makeVectorSheet>>;
+    try {
+      sheet = await makeVectorSheet(printer, 14);
+    } finally {
+      await printer.close();
+    }
+    const sub = join(dir, 'unlabelled');
+    cleanDir(sub);
+    const pdf = join(sub, 'random-14.pdf');
+    writeFileSync(pdf, sheet.pdf);
+    const diameters = [...sheet.plan.family.diameters].sort((a, b) => b - a);
+    expect(sheet.expected.labelled).toBe(false);
+
+    const page = browser.page;
+    const user = new User(page, sub);
+    await page.goto(server.url);
+    await page.waitForSelector('#sheet-file', { state: 'attached' });
+    await user.chooseFiles(page.locator('#sheet-file'), [pdf], 'random-14.pdf');
+    await waitMessage(user, /^Loaded /);
+    await settle(page);
+    await user.click(page.locator('#detect-run'), 'find panels and curves');
+    await waitMessage(user, /^Nothing could be named yet/);
+    await page.locator('#detect-answer').waitFor({ state: 'visible' });
+    const question = (await page.textContent('#detect-question-text')) ?? '';
+    expect(question).toMatch(/names no impeller diameters/);
+    await user.screenshot('question');
+    await user.type(page.locator('#detect-answer'), diameters.join(' '), 'impeller diameters');
+    expect(await waitMessage(user, /^Found |failed/)).toMatch(/^Found 4 panels and 16 curves/);
+    await settle(page);
+    const found = await draftParts(user);
+    expect(found.questions).toEqual([]);
+    expect([...new Set(found.traces.map((t) => t.diameter))].sort((a, b) => (b ?? 0) - (a ?? 0))).toEqual(diameters);
+
+    await user.click(page.locator('#step-save'), 'step 5');
+    const files: Record<string, string> = {};
+    for (const [key, id] of [['curveset', '#download-curveset'], ['takeoff', '#download-takeoff']] as const) {
+      await page.waitForFunction((sel) => !(document.querySelector(sel) as HTMLButtonElement | null)?.disabled, id, { timeout: 60_000 });
+      const [download] = await Promise.all([page.waitForEvent('download'), user.click(page.locator(id), `download ${key}`)]);
+      files[key] = join(sub, download.suggestedFilename());
+      await download.saveAs(files[key] as string);
+    }
+    expect(user.actions).toBeLessThanOrEqual(12);
+    // The take-off file keeps the answer, so the headless take-off reads the sheet the same way.
+    const saved = parseTakeoff(JSON.parse(readFileSync(files.takeoff as string, 'utf8')));
+    expect(saved.diameters).toEqual(diameters);
+    const minimal = join(sub, 'minimal.takeoff.json');
+    writeFileSync(minimal, JSON.stringify({ ...minimalTakeoff(sheet.plan, 'random-14.pdf'), diameters }));
+    const gaps = compareCurveSets(parseCurveSetJson(readFileSync(files.curveset as string, 'utf8')), headless(minimal, 'unlabelled-detected', ['--detect']));
+    const worst = Math.max(...gaps.map((g) => Math.max(g.percentOfSpan, g.domainPercent)));
+    writeFileSync(join(sub, 'figures.json'), `${JSON.stringify({ actions: user.actions, log: user.log, question, worst, gaps }, null, 2)}\n`);
+    expect(gaps.length).toBe(16);
+    expect(worst).toBeLessThanOrEqual(0.1);
   });
 });
