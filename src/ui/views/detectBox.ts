@@ -19,7 +19,9 @@ export function detectBox(bench: Bench): HTMLElement | null {
     h('div', { class: 'buttons' },
       h('button', { type: 'button', id: 'detect-run', class: store.draft.detected ? '' : 'primary', disabled: !d.available || d.running, onclick: () => bench.findPanelsAndCurves() },
         d.running ? 'Finding panels and curves…' : store.draft.detected ? 'Find panels and curves again' : 'Find panels and curves')),
-    h('p', { class: 'hint' }, store.draft.detected
+    h('p', { class: 'hint' }, store.draft.detected && count.found === 0 && q
+      ? 'Nothing could be named yet: the answer below lets the sheet be read again.'
+      : store.draft.detected
       ? `${count.found} part${count.found === 1 ? '' : 's'} found, ${count.set} set by you. A found part you edit becomes yours and is kept when the sheet is read again.`
       : 'Reads the frames, tick labels, drawn curves and their labels from the page; you check and correct what it found.'),
     q ? h('form', {
