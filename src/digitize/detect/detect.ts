@@ -67,6 +67,16 @@ function unitToken(kind: QuantityKind, token: string | null): string | null {
   }
 }
 
+/** Values the engineer gave for a sheet that prints none, in the take-off's diameter unit (or rpm). */
+export function givenValues(input: Pick<TakeoffToDetect, 'units' | 'speeds' | 'diameters'>): GivenValues | undefined {
+  const dUnit = parseUnit('diameter', input.units.diameter).token;
+  return input.speeds
+    ? { family: 'speed', values: input.speeds, unit: 'rpm' }
+    : input.diameters && (dUnit === 'mm' || dUnit === 'in')
+      ? { family: 'diameter', values: input.diameters, unit: dUnit }
+      : undefined;
+}
+
 /**
  * Completes a minimal take-off from the sheet. Panels and traces the engineer set (origin
  * absent or "user") are kept, and a curve the engineer traced is not added again; parts of an
@@ -78,14 +88,7 @@ export async function detectTakeoff(input: TakeoffToDetect, raw: Record<string, 
   if (sheet.kind !== 'vector-pdf') {
     throw new TakeoffError(`The automatic take-off reads vector PDF sheets only for now, and this sheet is ${sheet.kind === 'image' ? 'an image' : 'a scanned PDF page'}; give the panels and traces in the take-off file.`);
   }
-  // Values the engineer gave for a sheet that prints none, in the take-off's diameter unit (or rpm).
-  const dUnit = parseUnit('diameter', input.units.diameter).token;
-  const given: GivenValues | undefined = input.speeds
-    ? { family: 'speed', values: input.speeds, unit: 'rpm' }
-    : input.diameters && (dUnit === 'mm' || dUnit === 'in')
-      ? { family: 'diameter', values: input.diameters, unit: dUnit }
-      : undefined;
-  const detection = detectSheet(await sheet.text(), await sheet.paths(), given, input.iso_levels);
+  const detection = detectSheet(await sheet.text(), await sheet.paths(), givenValues(input), input.iso_levels);
   const questions = [...detection.questions];
   // Parts the engineer set stay; parts found by an earlier detection are found again.
   const userPanels = (input.panels ?? []).filter((p) => p.origin !== 'detected');

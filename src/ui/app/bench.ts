@@ -11,6 +11,7 @@ import type { Store, Step } from '../store/store.ts';
 import type { TraceResidual } from './review.ts';
 import type { AnchorProposal } from '../worker/protocol.ts';
 import type { DutyForm, DutyOutcome } from '../views/dutyPanel.ts';
+import type { OpenQuestion } from './detection.ts';
 
 export interface LoadedSheet {
   name: string;
@@ -75,5 +76,12 @@ export interface Bench {
   /** Anchors proposed from the sheet's text for a panel, if any. */
   proposalFor(panelId: string): AnchorProposal | null;
   useProposal(panelId: string): void;
+  /** The automatic take-off: whether it can run on this page, whether it runs, and the question it asks now. */
+  readonly detect: { available: boolean; running: boolean; question: OpenQuestion | null };
+  /** Finds the panels and curves of a vector page and puts them into the document (one undoable edit). */
+  findPanelsAndCurves(): void;
+  /** Answers the question on screen; the labelling runs again with the answer. */
+  answerQuestion(text: string): void;
+  skipQuestion(): void;
   readonly zoomPercent: number;
 }

@@ -36,6 +36,7 @@ import { DerivedState } from './derive.ts';
 import { bindKeys, SHORTCUTS } from './keys.ts';
 import { SheetFlow } from './sheetFlow.ts';
 import { Downloads } from './downloads.ts';
+import { Detection, type OpenQuestion } from './detection.ts';
 import { downloadRecord } from '../views/recordDownload.ts';
 import { paintStudyOverlay, studyOverlay } from '../views/recordOverlay.ts';
 
@@ -49,6 +50,8 @@ export class Workbench implements Bench {
   readonly magnifier: Magnifier;
   readonly flow: SheetFlow;
   readonly downloads: Downloads;
+  /** "Find panels and curves": the automatic take-off of a vector page, and its questions. */
+  readonly detection: Detection;
   readout = '';
   private readonly derivedState: DerivedState;
   private readonly tools: Record<'frame' | 'anchor' | 'trace' | 'pick', Tool>;
@@ -125,6 +128,13 @@ export class Workbench implements Bench {
     this.canvas.onView(() => this.requestRender('light'));
     this.flow = new SheetFlow(this);
     this.downloads = new Downloads(this);
+    this.detection = new Detection({
+      store: this.store,
+      worker: this.worker,
+      vectorReady: () => this.flow.pageReady && this.flow.sheet?.loadedKind === 'vector-pdf',
+      requestRender: () => this.requestRender(),
+      goto: (step) => this.goto(step),
+    });
     let kept = { step: this.store.session.step, target: this.store.session.target, unitSystem: this.store.session.unitSystem };
     this.store.subscribe((_, reason) => {
       const { step, target, unitSystem } = this.store.session;
@@ -133,7 +143,10 @@ export class Workbench implements Bench {
         kept = { step, target, unitSystem };
         this.flow.autosaveNow();
       }
-      if (reason === 'replace') this.sheetTools.forgetProposals();
+      if (reason === 'replace') {
+        this.sheetTools.forgetProposals();
+        this.detection.reset();
+      }
       if (reason === 'document') this.flow.autosaveNow();
       else if (reason !== 'session') {
         const before = this.calibratedPanels();
@@ -385,6 +398,24 @@ export class Workbench implements Bench {
   zoom(action: 'in' | 'out' | 'fit'): void {
     if (action === 'fit') this.canvas.fitPage();
     else this.canvas.zoomBy(action === 'in' ? 1.25 : 0.8);
+  }
+
+  // ── the automatic take-off ─────────────────────────────────────────────────
+
+  get detect(): { available: boolean; running: boolean; question: OpenQuestion | null } {
+    return { available: this.detection.available, running: this.detection.running, question: this.detection.question() };
+  }
+
+  findPanelsAndCurves(): void {
+    void this.detection.run();
+  }
+
+  answerQuestion(text: string): void {
+    void this.detection.answer(text);
+  }
+
+  skipQuestion(): void {
+    this.detection.skip();
   }
 
   // ── proposals (held by the sheet tools) ───────────────────────────────────

@@ -89,6 +89,17 @@ export interface Draft {
   readonly panels: readonly PanelDraft[];
   readonly traces: readonly TraceDraft[];
   readonly notes?: readonly string[];
+  /** The record's provenance of an automatic take-off: what found the parts, and what it asks. */
+  readonly detected?: { readonly by: string; readonly questions: readonly string[] };
+  /** The record's efficiency levels drawn as iso-lines, as the engineer gave them to the automatic take-off. */
+  readonly iso_levels?: readonly number[];
+  /** The record's minimum continuous flow, in units.flow. */
+  readonly min_flow?: number;
+  /**
+   * View only: true when the family's diameters (or speeds) were given as the answer to the
+   * automatic take-off; the file then carries them as its `diameters` (or `speeds`).
+   */
+  readonly labelsGiven?: boolean;
   /** View only: the impeller diameters of the family, largest first, in units.diameter. */
   readonly diameters: readonly number[];
   /** View only: the kind of sheet: impeller diameters at one speed, or one impeller at several speeds. */
@@ -127,6 +138,15 @@ export function frameOf(panel: Pick<PanelDraft, 'frame' | 'anchors'>): Frame {
   const ys = panel.anchors.map((a) => a.at[1]);
   if (xs.length === 0) return [0, 0, 1, 1];
   return [Math.min(...xs), Math.min(...ys), Math.max(...xs), Math.max(...ys)];
+}
+
+/** Shared area of two rectangles [left, top, right, bottom] over the area of their union, 0 to 1. */
+export function frameOverlap(a: readonly number[], b: readonly number[]): number {
+  const w = Math.max(0, Math.min(a[2] as number, b[2] as number) - Math.max(a[0] as number, b[0] as number));
+  const h = Math.max(0, Math.min(a[3] as number, b[3] as number) - Math.max(a[1] as number, b[1] as number));
+  const area = (r: readonly number[]) => Math.max(0, (r[2] as number) - (r[0] as number)) * Math.max(0, (r[3] as number) - (r[1] as number));
+  const union = area(a) + area(b) - w * h;
+  return union > 0 ? (w * h) / union : 0;
 }
 
 /** The units a panel's axes are read in: its own, else the record's by what it plots. */

@@ -6,6 +6,7 @@
  */
 import type { Quantity } from '../../model/curveset.ts';
 import type { Action } from './actions/action.ts';
+import { markUserEdits } from './actions/detected.ts';
 import { EMPTY_DRAFT, npshUnit, powerUnit, type Draft, type UnitsDraft } from './draft.ts';
 import { choiceOf, type CurveUnitTokens, type UnitChoice } from '../../units/index.ts';
 import { commit, redo, replacePresent, startHistory, undo, type History } from './history.ts';
@@ -178,7 +179,9 @@ export class Store {
       return false;
     }
     if (!result) return false;
-    const history = result.undoable ? commit(this.state.history, result.draft, result.label) : replacePresent(this.state.history, result.draft);
+    // An edit of a found part makes it the engineer's, so that a second detection keeps it.
+    const next = result.undoable && !result.keepsOrigin ? markUserEdits(this.draft, result.draft) : result.draft;
+    const history = result.undoable ? commit(this.state.history, next, result.label) : replacePresent(this.state.history, next);
     this.state = { ...this.state, history };
     this.emit('edit');
     return true;

@@ -10,7 +10,7 @@ import type { Quantity } from '../../model/curveset.ts';
 import { parseUnit, type QuantityKind } from '../../units/index.ts';
 import { calibrate } from '../../digitize/calibration.ts';
 import { parseTakeoff, Takeoff, TAKEOFF_FORMAT, TAKEOFF_VERSION, type Panel, type Trace } from '../../model/takeoff.ts';
-import { anchorsWithValues, EMPTY_DRAFT, familyOfTraces, pointsOf, type Draft, type PanelDraft, type SheetRef, type TraceDraft } from './draft.ts';
+import { anchorsWithValues, EMPTY_DRAFT, familyLabels, familyOfTraces, pointsOf, type Draft, type PanelDraft, type SheetRef, type TraceDraft } from './draft.ts';
 
 export interface WrittenTakeoff {
   takeoff: Takeoff;
@@ -72,7 +72,11 @@ export function toTakeoffFile(draft: Draft): WrittenTakeoff {
     units: { ...draft.units },
     panels,
     traces,
+    ...(draft.min_flow !== undefined ? { min_flow: draft.min_flow } : {}),
     ...(draft.notes ? { notes: [...draft.notes] } : {}),
+    ...(draft.labelsGiven && familyLabels(draft).length ? { [draft.family === 'speed' ? 'speeds' : 'diameters']: [...familyLabels(draft)] } : {}),
+    ...(draft.iso_levels ? { iso_levels: [...draft.iso_levels] } : {}),
+    ...(draft.detected ? { detected: { by: draft.detected.by, questions: [...draft.detected.questions] } } : {}),
   };
   return { takeoff: parseTakeoff(Takeoff.parse(raw)), omitted };
 }
@@ -105,17 +109,18 @@ function guessPlots(panel: Panel, traces: readonly Trace[]): Quantity {
  */
 export function fromTakeoffFile(raw: unknown, sheet: Omit<SheetRef, 'path'>): Draft {
   const file = parseTakeoff(raw);
-  const { format: _format, version: _version, sheet: path, page, panels, traces, ...record } = file;
+  const { format: _format, version: _version, sheet: path, page, panels, traces, diameters: givenDiameters, speeds: givenSpeeds, ...record } = file;
   const draftPanels: PanelDraft[] = panels.map((p) => ({ ...p, plots: guessPlots(p, traces) }));
   const draftTraces: TraceDraft[] = traces.map((t, i) => ({ ...t, id: t.id ?? freshTraceId(traces, i), guides: t.guides ?? [] }));
-  const diameters = [...new Set(draftTraces.flatMap((t) => (t.diameter !== undefined ? [t.diameter] : [])))].sort((a, b) => b - a);
+  const diameters = [...new Set([...(givenDiameters ?? []), ...draftTraces.flatMap((t) => (t.diameter !== undefined ? [t.diameter] : []))])].sort((a, b) => b - a);
   return {
     ...EMPTY_DRAFT,
     ...record,
     sheet: { ...sheet, path, page },
     diameters,
     family: familyOfTraces(draftTraces) ?? 'diameter',
-    speeds: [...new Set(draftTraces.flatMap((t) => (t.speed !== undefined ? [t.speed] : [])))].sort((a, b) => b - a),
+    speeds: [...new Set([...(givenSpeeds ?? []), ...draftTraces.flatMap((t) => (t.speed !== undefined ? [t.speed] : []))])].sort((a, b) => b - a),
+    ...(givenDiameters || givenSpeeds ? { labelsGiven: true } : {}),
     panels: draftPanels,
     traces: draftTraces,
   };

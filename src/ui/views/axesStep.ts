@@ -11,6 +11,7 @@ import { setSheetUnits, SHEET_UNIT_SYSTEMS } from '../store/actions/setup.ts';
 import { typedNumber } from '../store/actions/action.ts';
 import { unitSystemOf } from '../store/store.ts';
 import { QUANTITY_NAMES, UNIT_CHOICES, num, unitText } from './words.ts';
+import { detectBox, originTag } from './detectBox.ts';
 
 const QUANTITIES: Quantity[] = ['head', 'efficiency', 'power', 'npshr'];
 
@@ -27,6 +28,7 @@ export function axesStep(bench: Bench): HTMLElement {
   return h('div', { class: 'step-body' },
     draft.sheet ? null : h('p', { class: 'hint' }, 'Load a sheet first.'),
     sheetUnits(bench),
+    detectBox(bench),
     h('p', { class: 'hint' }, 'For each plot on the sheet: choose what it shows, then drag its frame from corner to corner. The corners become anchors; type the axis values there.'),
     h('div', { class: 'row' }, h('span', { class: 'label' }, 'New panel:'), chooser),
     draft.panels.map((p) => panelCard(bench, p, bench.derived.calibrations.get(p.id))),
@@ -68,7 +70,8 @@ function panelCard(bench: Bench, panel: PanelDraft, cal: CalibrationState | unde
   return h('section', { class: `card panel-card${active ? ' active' : ''}`, 'data-key': `panel-${panel.id}`, 'aria-label': `${QUANTITY_NAMES[panel.plots]} panel` },
     h('header', null,
       h('button', { type: 'button', class: 'link', onclick: () => bench.selectPanel(panel.id), 'aria-expanded': active ? 'true' : 'false' }, `${QUANTITY_NAMES[panel.plots]} panel`),
-      h('span', { class: 'panel-id' }, panel.id)),
+      h('span', { class: 'panel-id' }, panel.id),
+      originTag(panel)),
     residualLine(cal),
     proposalBox(bench, panel),
     active ? [

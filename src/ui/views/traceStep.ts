@@ -15,6 +15,7 @@ import { QUANTITY_INK } from '../canvas/overlay.ts';
 import { QUANTITY_NAMES, num, unitText } from './words.ts';
 import { familyKindFields, labelUnit, speedText } from './familyKind.ts';
 import { field } from './loadStep.ts';
+import { originTag } from './detectBox.ts';
 
 const ORDER: Quantity[] = ['head', 'efficiency', 'power', 'npshr'];
 
@@ -100,8 +101,9 @@ function traceRow(bench: Bench, t: TraceDraft, selected: boolean): HTMLElement {
   const name = traceName(t, unitText(draft.units.diameter), unitText(powerUnit(draft.units)));
   const r = bench.derived.residuals.get(t.id);
   const count = pointsOf(t).length;
-  return h('li', { class: `trace-row${selected ? ' selected' : ''}${t.hidden ? ' hidden-trace' : ''}`, 'data-key': t.id },
+  return h('li', { class: `trace-row${selected ? ' selected' : ''}${t.hidden ? ' hidden-trace' : ''}${t.origin === 'detected' ? ' found' : ''}`, 'data-key': t.id },
     h('button', { type: 'button', class: 'link trace-name', onclick: () => { store.setSession({ selectedTrace: t.id, selectedPoint: null }); bench.showTrace(t.id); } }, name),
+    originTag(t),
     h('span', { class: 'trace-meta' }, `${count} pts${t.edited ? ', edited' : ''}${r ? ` · ±${num(r.max, 2)} ${unitText(r.unit.token)}` : ''}`),
     h('span', { class: 'trace-actions' },
       t.iso === undefined && t.limit === undefined && familyLabels(draft).length > 1

@@ -4,7 +4,7 @@
  */
 import type { SheetKind as LoadedKind } from '../../digitize/sheet.ts';
 import type { CurveSet } from '../../model/curveset.ts';
-import type { Takeoff } from '../../model/takeoff.ts';
+import type { Panel, Takeoff, Trace } from '../../model/takeoff.ts';
 import type { Snap } from '../geometry/snap.ts';
 import type { TextItem } from '../geometry/hints.ts';
 import type { PageSize } from './pdfPages.ts';
@@ -40,6 +40,19 @@ export interface AnchorProposal {
   residual: number;
 }
 
+/** What the automatic take-off found on the chosen page, as take-off records (see src/digitize/detect). */
+export interface DetectAnswer {
+  /** Panels and traces found, each with origin "detected" and a confidence; empty when nothing could be named. */
+  panels: Panel[];
+  traces: Trace[];
+  /** What the detector could not decide and asks the engineer. */
+  questions: string[];
+  /** What found them, with its version. */
+  by: string;
+  /** Why nothing was added, when nothing was (one sentence), else null. */
+  refused: string | null;
+}
+
 export interface Requests {
   open: { args: { bytes: ArrayBuffer; mime: string; name: string }; result: { kind: SheetKind; pages: PageSize[]; sha256: string } };
   render: { args: { page: number; scale: number; rect: Rect }; result: { bitmap: ImageBitmap; scale: number; rect: Rect } };
@@ -52,6 +65,12 @@ export interface Requests {
   words: { args: Record<string, never>; result: TextItem[] };
   /** Panel calibrations proposed from the text layer of a vector page (none for scans). */
   propose: { args: Record<string, never>; result: AnchorProposal[] };
+  /**
+   * Runs the automatic take-off on the chosen vector page. `document` is a take-off without
+   * panels and traces (sheet, page, pump, units, and the engineer's answers: diameters, speeds,
+   * iso_levels).
+   */
+  detect: { args: { document: Record<string, unknown> }; result: DetectAnswer };
   /** Fits and checks the take-off into a curve set with the saved captures (the headless replay's own code). */
   replay: { args: { takeoff: Takeoff; sheetFile: string; takeoffName: string }; result: { curveSet: CurveSet; traces: { id: string; how: string; notes: string[] }[]; traceMembers: ReadonlyMap<string, readonly number[]> } };
 }

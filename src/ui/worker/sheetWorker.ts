@@ -11,6 +11,8 @@ import { openPageSession, sha256Hex, type PageSession } from './pageSession.ts';
 import { captureOnPage } from './captureOnPage.ts';
 import { snapToRaster, snapToStraights } from '../geometry/snap.ts';
 import { replayTakeoff } from '../../digitize/takeoff.ts';
+import { DETECTOR, detectSheet, detectTakeoff, givenValues } from '../../digitize/detect/detect.ts';
+import { parseTakeoffToDetect, TakeoffError } from '../../model/takeoff.ts';
 
 declare const self: DedicatedWorkerGlobalScope;
 
@@ -98,6 +100,23 @@ const handlers: { [K in keyof Requests]: Handler<K> } = {
       })),
     );
     return { result: await proposals };
+  },
+  async detect(args, progress) {
+    const s = requireSession();
+    progress({ fraction: 0.1, label: 'Finding panels and curves: reading the page' });
+    const input = parseTakeoffToDetect(args.document);
+    const [text, paths] = await Promise.all([s.sheet.text(), s.sheet.paths()]);
+    progress({ fraction: 0.3, label: `Finding panels and curves: ${paths.length} strokes, ${text.length} words` });
+    try {
+      const found = await detectTakeoff(input, args.document, s.sheet);
+      progress({ fraction: 0.9, label: 'Finding panels and curves: labelling' });
+      return { result: { panels: found.takeoff.panels, traces: found.takeoff.traces, questions: found.questions, by: DETECTOR, refused: null } };
+    } catch (error) {
+      if (!(error instanceof TakeoffError) || s.sheet.kind !== 'vector-pdf') throw error;
+      // Nothing could be named: the questions still say what the detector needs to know.
+      const { questions } = detectSheet(text, paths, givenValues(input), input.iso_levels);
+      return { result: { panels: [], traces: [], questions, by: DETECTOR, refused: error.message } };
+    }
   },
   async replay(args, progress) {
     progress({ fraction: null, label: 'Fitting and checking the curves' });

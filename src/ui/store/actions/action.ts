@@ -13,6 +13,8 @@ export interface ActionResult {
   readonly label: string;
   /** False for changes that are not edits (such as recording the file's checksum). */
   readonly undoable: boolean;
+  /** True for the edit that puts found parts in: it does not make them the engineer's (see detected.ts). */
+  readonly keepsOrigin?: boolean;
 }
 
 export type Action = (draft: Draft) => ActionResult | null;

@@ -1,0 +1,180 @@
+/**
+ * The automatic take-off in the workbench's document: found parts go in as one undoable edit,
+ * an edit makes a found part the engineer's, a second detection keeps the engineer's parts, the
+ * take-off file keeps the provenance, and the questions are answered one at a time.
+ */
+import { describe, expect, it } from 'vitest';
+import { applyDetection, answerKind, markUserEdits, provenance } from '../../src/ui/store/actions/detected.ts';
+import { moveAnchor } from '../../src/ui/store/actions/panels.ts';
+import { movePoint, setHidden, setTraceSpec } from '../../src/ui/store/actions/traces.ts';
+import { Store } from '../../src/ui/store/store.ts';
+import { fromTakeoffFile, toTakeoffFile } from '../../src/ui/store/takeoffFile.ts';
+import { Detection, readLevels } from '../../src/ui/app/detection.ts';
+import type { DetectAnswer } from '../../src/ui/worker/protocol.ts';
+import type { SheetWorkerClient } from '../../src/ui/worker/client.ts';
+import { draftWithPanel } from './fixtures.ts';
+
+const BY = 'pumpscribe detect 1 (vector sheets)';
+
+/** What the detector answers for an invented two-curve head panel. */
+function answer(extra: Partial<DetectAnswer> = {}): DetectAnswer {
+  return {
+    panels: [{
+      id: 'head', origin: 'detected', confidence: 0.9, quantity: 'head', frame: [100, 100, 500, 400],
+      anchors: [{ at: [100, 400], x: 0 }, { at: [500, 400], x: 400 }, { at: [100, 400], y: 0 }, { at: [100, 100], y: 60 }],
+      x_scale: 'linear', y_scale: 'linear', units: { x: 'm3/h', y: 'm' },
+    }],
+    traces: [330, 310].map((d, i) => ({
+      id: `head-${d}`, origin: 'detected' as const, confidence: 0.8, panel: 'head', quantity: 'head' as const, diameter: d,
+      captured: [[100, 150 + 20 * i], [300, 160 + 20 * i], [450, 200 + 20 * i]] as [number, number][], captured_by: 'vector' as const, method: 'vector' as const,
+    })),
+    questions: [],
+    by: BY,
+    refused: null,
+    ...extra,
+  } as DetectAnswer;
+}
+
+const empty = () => draftWithPanel({ panels: [], diameters: [] });
+
+describe('found parts in the document', () => {
+  it('go in as one undoable edit, marked as found, with the family labels read from them', () => {
+    const store = new Store(empty());
+    expect(store.dispatch(applyDetection(answer()))).toBe(true);
+    const d = store.draft;
+    expect(d.panels.map((p) => [p.id, p.plots, p.origin])).toEqual([['head', 'head', 'detected']]);
+    expect(d.traces.map((t) => [t.id, t.origin, t.confidence, t.guides.length])).toEqual([['head-330', 'detected', 0.8, 0], ['head-310', 'detected', 0.8, 0]]);
+    expect(d.diameters).toEqual([330, 310]);
+    expect(d.detected).toEqual({ by: BY, questions: [] });
+    expect(provenance(d)).toEqual({ found: 3, set: 0 });
+    expect(store.history.past).toHaveLength(1);
+    store.undo();
+    expect(store.draft.traces).toHaveLength(0);
+    expect(store.draft.detected).toBeUndefined();
+  });
+
+  it('become the engineer\'s when edited (points, label, anchors), but not when only hidden', () => {
+    const store = new Store(empty());
+    store.dispatch(applyDetection(answer()));
+    store.dispatch(setHidden('head-310', true));
+    expect(store.draft.traces.find((t) => t.id === 'head-310')?.origin).toBe('detected');
+    store.dispatch(movePoint('head-330', 1, [300, 158]));
+    const moved = store.draft.traces.find((t) => t.id === 'head-330');
+    expect(moved?.origin).toBe('user');
+    expect(moved?.confidence).toBeUndefined();
+    store.dispatch(setTraceSpec('head-310', { diameter: 300 }));
+    expect(store.draft.traces.find((t) => t.id === 'head-310')?.origin).toBe('user');
+    store.dispatch(moveAnchor('head', 3, [100, 101]));
+    expect(store.draft.panels[0]?.origin).toBe('user');
+    expect(provenance(store.draft)).toEqual({ found: 0, set: 3 });
+  });
+
+  it('are replaced by a second detection, which keeps what the engineer set and adds no second copy of it', () => {
+    const store = new Store(empty());
+    store.dispatch(applyDetection(answer()));
+    store.dispatch(movePoint('head-330', 1, [300, 158]));
+    const edited = store.draft.traces.find((t) => t.id === 'head-330');
+    store.dispatch(applyDetection(answer({ questions: ['Which is it?'] })));
+    const d = store.draft;
+    expect(d.traces.map((t) => [t.id, t.origin])).toEqual([['head-330', 'user'], ['head-310', 'detected']]);
+    expect(d.traces[0]).toBe(edited);
+    expect(d.detected?.questions).toEqual(['Which is it?']);
+  });
+
+  it('give way to a panel the engineer drew over the same plot: the found curves lie on it', () => {
+    const mine = draftWithPanel({ diameters: [] }); // head-1, drawn by hand over the same frame
+    const next = applyDetection(answer())(mine)!.draft;
+    expect(next.panels.map((p) => p.id)).toEqual(['head-1']);
+    expect(next.traces.map((t) => t.panel)).toEqual(['head-1', 'head-1']);
+  });
+
+  it('markUserEdits leaves a draft alone when no found part changed', () => {
+    const d = applyDetection(answer())(empty())!.draft;
+    expect(markUserEdits(d, { ...d })).toEqual(d);
+  });
+});
+
+describe('the take-off file of a detection', () => {
+  it('records which parts were found and which the engineer set, and reads them back', () => {
+    const store = new Store(empty());
+    store.dispatch(applyDetection(answer({ questions: ['A question left open.'] })));
+    store.dispatch(movePoint('head-330', 1, [300, 158]));
+    const { takeoff } = toTakeoffFile(store.draft);
+    expect(takeoff.detected).toEqual({ by: BY, questions: ['A question left open.'] });
+    expect(takeoff.panels[0]).toMatchObject({ id: 'head', origin: 'detected', confidence: 0.9, quantity: 'head' });
+    expect(takeoff.traces.map((t) => [t.id, t.origin, t.confidence])).toEqual([['head-330', 'user', undefined], ['head-310', 'detected', 0.8]]);
+    const back = fromTakeoffFile(JSON.parse(JSON.stringify(takeoff)), { name: 'invented.pdf', kind: 'pdf', mime: 'application/pdf', page: 1, pageCount: 1, width: 600, height: 800 });
+    expect(toTakeoffFile(back).takeoff).toEqual(takeoff);
+  });
+});
+
+describe('the questions of the detector', () => {
+  it('are answered by the family labels, or by the iso levels for iso-lines', () => {
+    expect(answerKind('The sheet names no impeller diameters for the 4 head curves of panel "head"; give them as "diameters" in the take-off file.')).toBe('labels');
+    expect(answerKind('2 iso-lines on panel "head" (starting at 120 m3/h) carry no "%" label; give every level drawn as "iso_levels".')).toBe('iso');
+    expect(readLevels('60 70, 75%')).toEqual([60, 70, 75]);
+    expect(() => readLevels('60 120')).toThrow(/between 0 and 100/);
+    expect(() => readLevels('')).toThrow(/efficiency levels/);
+  });
+
+  it('come one at a time, and an answer runs the detection again with it', async () => {
+    const store = new Store(empty());
+    const sent: Record<string, unknown>[] = [];
+    const replies: DetectAnswer[] = [
+      answer({ panels: [], traces: [], questions: ['The sheet names no impeller diameters for the 2 head curves of panel "head".', 'Another question.'], refused: 'Nothing could be named.' }),
+      answer(),
+    ];
+    const worker = { call: async (_op: string, args: { document: Record<string, unknown> }) => { sent.push(args.document); return replies.shift(); } } as unknown as SheetWorkerClient;
+    const steps: string[] = [];
+    const detection = new Detection({ store, worker, vectorReady: () => true, requestRender: () => undefined, goto: (s) => steps.push(s) });
+    await detection.run();
+    expect(store.draft.traces).toHaveLength(0);
+    expect(detection.question()).toMatchObject({ index: 0, count: 2, kind: 'labels', field: 'Impeller diameters (mm), largest first' });
+    detection.skip();
+    expect(detection.question()?.text).toBe('Another question.');
+    detection.skip();
+    expect(detection.question()).toBeNull();
+    detection.reset();
+    await detection.answer('250 x');
+    expect(store.session.message?.text).toMatch(/"x" is not a diameter/);
+    expect(sent).toHaveLength(1);
+    await detection.answer('330, 310');
+    expect(sent[1]).toMatchObject({ sheet: 'invented.pdf', page: 1, units: { diameter: 'mm' }, diameters: [330, 310] });
+    expect(store.draft.traces.map((t) => t.diameter)).toEqual([330, 310]);
+    expect(detection.question()).toBeNull();
+    expect(steps).toEqual(['review']);
+    // The answer is kept with the document: the file carries it, and the next detection uses it.
+    expect(store.draft.labelsGiven).toBe(true);
+    const file = toTakeoffFile(store.draft).takeoff;
+    expect(file.diameters).toEqual([330, 310]);
+    const back = fromTakeoffFile(JSON.parse(JSON.stringify(file)), { name: 'invented.pdf', kind: 'pdf', mime: 'application/pdf', page: 1, pageCount: 1, width: 600, height: 800 });
+    expect(toTakeoffFile(back).takeoff).toEqual(file);
+    replies.push(answer());
+    await detection.run();
+    expect(sent[2]).toMatchObject({ diameters: [330, 310] });
+    expect(sent[2]).not.toHaveProperty('iso_levels');
+  });
+
+  it('keep the iso levels given in the document and in its file', async () => {
+    const store = new Store(empty());
+    const sent: Record<string, unknown>[] = [];
+    const replies = [answer({ questions: ['2 iso-lines on panel "head" carry no "%" label; give every level drawn as "iso_levels".'] }), answer()];
+    const worker = { call: async (_op: string, args: { document: Record<string, unknown> }) => { sent.push(args.document); return replies.shift(); } } as unknown as SheetWorkerClient;
+    const detection = new Detection({ store, worker, vectorReady: () => true, requestRender: () => undefined, goto: () => undefined });
+    await detection.run();
+    expect(detection.question()).toMatchObject({ kind: 'iso', field: expect.stringMatching(/Efficiency levels/) });
+    await detection.answer('70 80');
+    expect(sent[1]).toMatchObject({ iso_levels: [70, 80] });
+    expect(store.draft.iso_levels).toEqual([70, 80]);
+    expect(toTakeoffFile(store.draft).takeoff.iso_levels).toEqual([70, 80]);
+    store.undo();
+    expect(store.draft.iso_levels).toBeUndefined();
+  });
+
+  it('is refused with a sentence on a page that is not a vector page', async () => {
+    const store = new Store(empty());
+    const detection = new Detection({ store, worker: {} as SheetWorkerClient, vectorReady: () => false, requestRender: () => undefined, goto: () => undefined });
+    await detection.run();
+    expect(store.session.message).toMatchObject({ tone: 'caution', text: expect.stringMatching(/vector PDF pages/) });
+  });
+});
