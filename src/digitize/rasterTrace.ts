@@ -725,7 +725,7 @@ function extendToEnds(image: RasterImage, style: LineStyle, path: Px[], maxGap: 
     const heading = tangentAt(stretch, stretch.length - 1, 1);
     const result = followLine(image, style, end, heading, undefined, limits, counter);
     const [inside] = judgeExtension(result, undefined, frame, image.scale, style.width);
-    const smooth = keepSmooth(stretch, inside, style.width, Boolean(style.reach));
+    const smooth = keepSmooth(stretch, inside, style.width);
     const [kept, doubt] = judgeExtension(result, smooth.length, frame, image.scale, style.width);
     if (doubt) doubts.push(doubt);
     return kept;
@@ -744,10 +744,7 @@ function extendToEnds(image: RasterImage, style: LineStyle, path: Px[], maxGap: 
  * their chord). A drawn curve ends cleanly; what the follower finds beyond its end (a label
  * beside it, a neighbouring line it ran into) bends away, and is cut there.
  */
-/** Extra offset allowed per pixel carried across a gap of a dashed line by `keepSmooth` (a slope of about 2°). */
-const GAP_SLACK = 0.035;
-
-export function keepSmooth(base: readonly Px[], extension: readonly Px[], width: number, dashed: boolean): Px[] {
+function keepSmooth(base: readonly Px[], extension: readonly Px[], width: number): Px[] {
   const limit = Math.max(1.2, 0.6 * width);
   const window = Math.max(30, 10 * width);
   const all: Px[] = [...base];
@@ -789,11 +786,7 @@ export function keepSmooth(base: readonly Px[], extension: readonly Px[], width:
         const c = (n * (s2 * y2 - y1 * s3) - s1 * (s1 * y2 - y1 * s2) + y0 * (s1 * s3 - s2 * s2)) / det;
         const t = ((p[0] - last[0]) * ux + (p[1] - last[1]) * uy) / window;
         const y = -(p[0] - last[0]) * uy + (p[1] - last[1]) * ux;
-        // A dashed line's centres scatter at the dash ends, and across a gap (a grid line
-        // crossed at a shallow angle, a label) the parabola fitted to them is carried further
-        // than it was fitted: its error grows with the distance carried.
-        const carried = dashed ? Math.hypot(p[0] - last[0], p[1] - last[1]) : 0;
-        if (Math.abs(y - (a + b * t + c * t * t)) > limit + GAP_SLACK * carried) break;
+        if (Math.abs(y - (a + b * t + c * t * t)) > limit) break;
       }
     }
     all.push(p);

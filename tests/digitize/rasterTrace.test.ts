@@ -2,7 +2,7 @@ import { createCanvas, type SKRSContext2D } from '@napi-rs/canvas';
 import { describe, expect, it } from 'vitest';
 import { sheetPoint, type SheetPoint } from '../../src/digitize/points.ts';
 import type { RasterImage } from '../../src/digitize/raster.ts';
-import { captureRasterTrace, keepSmooth, traceRaster, TraceInputError } from '../../src/digitize/rasterTrace.ts';
+import { captureRasterTrace, traceRaster, TraceInputError } from '../../src/digitize/rasterTrace.ts';
 
 // Small pictures drawn here with a 2D canvas; the tracer itself only ever sees the RGBA buffer.
 function picture(width: number, height: number, draw: (ctx: SKRSContext2D) => void, scale = 1): RasterImage {
@@ -303,16 +303,5 @@ describe('raster line following', () => {
     const result = traceRaster(image, [sheetPoint(200, head(200))]);
     expect(result.line.dashed).toBe(true);
     expect(Math.max(...result.points.map((p) => p[0]))).toBeGreaterThan(600);
-  });
-
-  it('keeps a dashed line\'s extension across a gap within a slope of about 2° of its continuation, a solid line\'s within its width', () => {
-    const base: Array<[number, number]> = [];
-    for (let x = 0; x <= 60; x += 2) base.push([x, 0]);
-    const beyond: Array<[number, number]> = [];
-    for (let x = 124; x <= 160; x += 2) beyond.push([x, 2.5]); // seen again 64 px on, 2.5 px off the straight continuation
-    expect(keepSmooth(base, beyond, 2, true)).toHaveLength(beyond.length);
-    expect(keepSmooth(base, beyond, 2, false)).toHaveLength(0);
-    const away = beyond.map(([x]) => [x, 6] as [number, number]); // a neighbour 6 px off: cut for both
-    expect(keepSmooth(base, away, 2, true)).toHaveLength(0);
   });
 });
