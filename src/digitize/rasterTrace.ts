@@ -163,7 +163,7 @@ function acquire(image: RasterImage, guide: Px, search: number, options: RasterT
   const measured = measureAt(image, model, centre, options.widthPx ?? 3);
   if (!measured) return undefined;
   const massRange: [number, number] = model.mode === 'achromatic' ? [0.8, 1.35] : [0.55, 1.5];
-  const broken = brokenLine(image, model, measured.centre, measured.width, measured);
+  const broken = brokenLine(image, model, measured.centre, measured.width);
   if (broken) {
     // A dash or a dot alone says little about the line's direction or width: both are measured
     // again across the whole pattern, with sections that look along the line over its gaps.
@@ -190,12 +190,9 @@ const DASH_GAP_MIN_PX = 12;
  * any sample across the line's width is line-coloured. Two or more gaps between ink, none
  * longer than a few line widths, make a broken line; a single gap is a label or a crossing.
  */
-function brokenLine(image: RasterImage, model: InkModel, centre: Px, width: number, local?: { axis: Px; isotropy: number }): { reach: number; axis: Px; isotropy: number } | undefined {
+function brokenLine(image: RasterImage, model: InkModel, centre: Px, width: number): { reach: number; axis: Px; isotropy: number } | undefined {
   const radius = Math.max(14, 6 * width);
-  let axis = inkAxis(image, model, centre[0], centre[1], radius, THRESHOLD);
-  // A thin line a few pixels from a grid line of like colour: the wide window sees both and
-  // no direction; the direction of the dash under the guide is then the line's.
-  if ((!axis || axis.isotropy > 0.3) && local && local.isotropy <= 0.3) axis = { ...(axis ?? { mx: centre[0], my: centre[1], mass: 0 }), dx: local.axis[0], dy: local.axis[1], isotropy: local.isotropy };
+  const axis = inkAxis(image, model, centre[0], centre[1], radius, THRESHOLD);
   if (!axis || axis.isotropy > 0.3) return undefined;
   const length = Math.max(40, 16 * width);
   const spacing = 0.5;

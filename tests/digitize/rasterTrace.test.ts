@@ -288,20 +288,4 @@ describe('raster line following', () => {
     expect(result.doubts.map((d) => d.code)).toEqual(['takeoff.guide-in-bunch']);
     expect(result.doubts[0]?.message).toMatch(/^guide 1 near/);
   });
-  it('takes a thin dashed line a few pixels from a grid line for dashed', () => {
-    const image = picture(640, 300, (ctx) => {
-      ctx.strokeStyle = '#606060';
-      ctx.lineWidth = 1;
-      ctx.beginPath();
-      ctx.moveTo(0, head(200) - 9);
-      ctx.lineTo(640, head(200) - 9);
-      ctx.stroke();
-      ctx.setLineDash([7, 4]);
-      ctx.lineCap = 'butt';
-      stroke(ctx, head, 20, 620, '#a0a0a0', 1);
-    });
-    const result = traceRaster(image, [sheetPoint(200, head(200))]);
-    expect(result.line.dashed).toBe(true);
-    expect(Math.max(...result.points.map((p) => p[0]))).toBeGreaterThan(600);
-  });
 });
