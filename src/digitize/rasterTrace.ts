@@ -1,10 +1,12 @@
 /**
  * Raster capture: from guides clicked on a line in a scan (or a rendered raster PDF), follow
- * the line by the colour found under the first guide, from guide to guide, and return its
+ * the line by the colour found under its guides, from guide to guide, and return its
  * centre line in sheet coordinates, thinned to a pixel tolerance that keeps the shape.
  *
- * The line's colour and width are measured under the first guide that sits on ink. Each
- * stretch between two guides is followed forwards; if the line is lost, it is followed
+ * The line's colour and width are measured under every guide; the model kept is the one whose
+ * colour is found at the most guides, then a dashed one, then the one where the line stands most
+ * alone. A guide whose own colour differs from the kept model's sat in a bunch or on a crossing,
+ * and the trace says so. Each stretch between two guides is followed forwards; if the line is lost, it is followed
  * backwards from the far guide, and whatever stays unseen is reported with where it was lost.
  * With a single guide the line is followed both ways until it ends.
  * A trace given as explicit points is used as is. Pure: works on the RGBA buffer only.
@@ -93,6 +95,9 @@ function validateGuides(image: RasterImage, guides: readonly SheetPoint[]): Px[]
   });
 }
 
+/** Radius around a guide within which the ink clicked on is looked for first, pixels. */
+const NEAR_GUIDE_PX = 4;
+
 /** Measures the line under a guide: paper and ink colour, line width, centre and direction. */
 function acquire(image: RasterImage, guide: Px, search: number, options: RasterTraceOptions): { style: LineStyle; centre: Px; axis: Px; isotropy: number } | undefined {
   const paper = estimatePaper(image, guide[0], guide[1], Math.max(2 * search, 16));
@@ -110,6 +115,17 @@ function acquire(image: RasterImage, guide: Px, search: number, options: RasterT
       }
     }
     if (strongest < MIN_CONTRAST) return undefined;
+    // A faint line clicked beside a darker grid line or curve: the contrast that counts is the
+    // strongest close to the guide (where it was clicked), when there is ink there at all.
+    const [nx0, ny0, nx1, ny1] = windowAround(image, guide[0], guide[1], NEAR_GUIDE_PX);
+    let near = 0;
+    for (let y = ny0; y < ny1; y++) {
+      for (let x = nx0; x < nx1; x++) {
+        const i = (y * width + x) * 4;
+        near = Math.max(near, colourDistance(paper, data[i] as number, data[i + 1] as number, data[i + 2] as number));
+      }
+    }
+    if (near >= MIN_CONTRAST) strongest = near;
     // The ink pixel nearest the guide among those with at least half the strongest contrast.
     let best = -1;
     let bestD = Infinity;
@@ -467,9 +483,20 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
   // (least isotropic). A guide inside a bunch or on a crossing samples the other lines too.
   let chosen: ReturnType<typeof acquire>;
   let first = 0;
-  px.forEach((g, i) => {
-    const got = acquire(image, g, search, options);
-    if (got && (!chosen || got.isotropy < chosen.isotropy - 0.02)) {
+  // A dash pattern shows only where a dash and its gaps are seen clearly: one guide that finds
+  // the line broken outweighs others that took it for solid (a blurred dotted line can look
+  // solid under one guide, and a solid model then loses it at the first gap).
+  // A model sampled off the line (a stronger grid line or a neighbour beside the guide) finds
+  // no ink of its colour at most other guides: the model that finds ink at the most guides wins.
+  type Acquired = NonNullable<ReturnType<typeof acquire>>;
+  const broken = (a: Acquired) => (a.style.reach ? 1 : 0);
+  const candidates = px.map((g) => acquire(image, g, search, options));
+  const support = candidates.map((c) => (c && px.length > 1 ? px.filter((g) => nearestInk(image, c.style.model, g, search) !== undefined).length : 0));
+  candidates.forEach((got, i) => {
+    if (!got) return;
+    const s = support[i] as number;
+    const best = support[first - 1] ?? -1;
+    if (!chosen || s > best || (s === best && (broken(got) > broken(chosen) || (broken(got) === broken(chosen) && got.isotropy < chosen.isotropy - 0.02)))) {
       chosen = got;
       first = i + 1;
     }
@@ -497,6 +524,16 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
 
   const path: Px[] = [];
   const doubts: EndDoubt[] = [];
+  // A guide whose own sample is another colour than the line's sits where lines of other
+  // colours bunch or cross: the line was found there by the model of another guide, and nothing
+  // vouches that the trace kept to its own line at that place.
+  if (!options.colour) {
+    const contrast = colourDistance(style.model.paper, ...style.model.line);
+    candidates.forEach((c, i) => {
+      if (!c || i === first - 1 || !snapped[i]) return;
+      if (colourDistance(style.model.line, ...c.style.model.line) > 0.4 * contrast) doubts.push({ at: (snapped[i] as { centre: Px }).centre, what: 'bunch', guide: i + 1 });
+    });
+  }
   if (px.length === 1) {
     const s = snapped[0] as { centre: Px; axis: Px };
     const limits: FollowLimits = { maxGap, maxTravel: 4 * (image.width + image.height) };
@@ -594,7 +631,7 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
 
 /** A finding-worthy doubt about a followed stretch: a stable code and a sentence saying what to do. */
 export interface TraceDoubt {
-  code: 'takeoff.end-at-frame';
+  code: 'takeoff.end-at-frame' | 'takeoff.guide-in-bunch';
   message: string;
 }
 
@@ -605,10 +642,18 @@ export interface TraceDoubt {
  */
 interface EndDoubt {
   at: Px;
-  what: 'frame';
+  what: 'frame' | 'bunch';
+  /** The guide concerned (1-based), for a doubt about a guide. */
+  guide?: number;
 }
 
-function doubtSentence(_d: EndDoubt, at: SheetPoint): TraceDoubt {
+function doubtSentence(d: EndDoubt, at: SheetPoint): TraceDoubt {
+  if (d.what === 'bunch') {
+    return {
+      code: 'takeoff.guide-in-bunch',
+      message: `guide ${d.guide ?? ''} near ${fmt(at)} sits where the line runs together with or crosses other lines (the colour under it is not the line's); check the trace there, or move the guide to where the line stands alone`,
+    };
+  }
   return {
     code: 'takeoff.end-at-frame',
     message: `the trace runs on to the panel's frame near ${fmt(at)}, where a drawn curve seldom ends; check that the line really reaches the frame, or add a guide at the line's end`,

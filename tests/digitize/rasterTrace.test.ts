@@ -259,4 +259,33 @@ describe('raster line following', () => {
     const inside = traceRaster(picture(640, 300, (ctx) => stroke(ctx, head, 20, 560, '#000000', 2)), [sheetPoint(200, head(200)), sheetPoint(400, head(400))], { frame });
     expect(inside.doubts).toEqual([]);
   });
+  it('follows a faint line clicked beside a darker grid line, not the grid line', () => {
+    const image = picture(640, 300, (ctx) => {
+      ctx.strokeStyle = '#303030';
+      ctx.lineWidth = 2;
+      ctx.beginPath();
+      ctx.moveTo(206, 0);
+      ctx.lineTo(206, 300);
+      ctx.stroke();
+      stroke(ctx, head, 20, 620, '#b4b4b4', 1.5);
+    });
+    // One guide on the faint curve, 6 px from the dark grid line.
+    const result = traceRaster(image, [sheetPoint(200, head(200))]);
+    expect(Math.min(...result.points.map((p) => p[0]))).toBeLessThan(40);
+    expect(Math.max(...result.points.map((p) => p[0]))).toBeGreaterThan(600);
+    expect(worstOff(result.points, head)).toBeLessThan(1);
+  });
+
+  it('takes the line model from the guide whose colour is found at the other guides, and doubts a guide that sampled another line', () => {
+    const other = (x: number) => (x < 200 ? head(x) : head(x) + 0.15 * (x - 200));
+    const image = picture(640, 360, (ctx) => {
+      stroke(ctx, head, 20, 620, '#2050d0', 4);
+      stroke(ctx, other, 20, 620, '#d03020', 2); // drawn along the middle of the blue line up to x = 200, then apart
+    });
+    const result = traceRaster(image, [sheetPoint(100, head(100)), sheetPoint(400, head(400)), sheetPoint(550, head(550))]);
+    expect(result.line.colour[2]).toBeGreaterThan(150); // blue, the colour found at guides 2 and 3
+    expect(worstOff(result.points.filter((p) => p[0] > 260), head)).toBeLessThan(0.6);
+    expect(result.doubts.map((d) => d.code)).toEqual(['takeoff.guide-in-bunch']);
+    expect(result.doubts[0]?.message).toMatch(/^guide 1 near/);
+  });
 });
