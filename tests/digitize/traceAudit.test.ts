@@ -116,6 +116,28 @@ describe('trace audit', () => {
     expect(short.map((f) => [f.code, f.trace])).toEqual([['takeoff.trace-short', 'n370']]);
   });
 
+  it('fails an efficiency trace that ends far before the farthest head trace of the family, scaled to its diameter, when its own head trace was lost alike', () => {
+    // Every trace of the smaller impeller stops early, so its neighbours excuse it; the larger
+    // impeller's head curve, scaled by Q ∝ D, says where its efficiency curve should end.
+    const found = auditTraces([trace('h370', 'head', 370, 0, 0.1), trace('e370', 'efficiency', 370, 0, 0.06), trace('h330', 'head', 330, 0, 0.05), trace('e330', 'efficiency', 330, 0, 0.055)], text);
+    const reach = found.filter((f) => f.code === 'takeoff.trace-reach');
+    expect(reach.map((f) => [f.trace, f.severity])).toEqual([['e330', 'fail']]);
+    expect(reach[0]?.message).toMatch(/Trace e330 \(efficiency at diameter 330\) covers flows 0\.000 m³\/s to 0\.055 m³\/s, while the head trace h370 .* suggests an end near 0\.089 m³\/s/);
+    expect(reach[0]?.message).toMatch(/Add a guide near that end of this line where it stands alone/);
+    // Within three quarters of that end the trace passes (sheets may stop efficiency a little early).
+    const ok = auditTraces([trace('h370', 'head', 370, 0, 0.1), trace('e370', 'efficiency', 370, 0, 0.1), trace('h330', 'head', 330, 0, 0.089), trace('e330', 'efficiency', 330, 0, 0.072)], text);
+    expect(ok.filter((f) => f.code === 'takeoff.trace-reach')).toEqual([]);
+  });
+
+  it('fails a trace that starts much later than the earliest of its quantity scaled to its diameter, when the start/end ratios hide it', () => {
+    const heads = [trace('h370', 'head', 370, 0, 0.1), trace('h330', 'head', 330, 0, 0.089)];
+    const found = auditTraces([...heads, trace('n370', 'npshr', 370, 0.02, 0.05), trace('n330', 'npshr', 330, 0.04, 0.089)], text);
+    expect(found.filter((f) => f.code === 'takeoff.trace-reach').map((f) => f.trace)).toEqual(['n330']);
+    expect(found.find((f) => f.trace === 'n330')?.message).toMatch(/suggests a start near 0\.018 m³\/s; the line was probably lost at its low-flow end/);
+    const ok = auditTraces([...heads, trace('n370', 'npshr', 370, 0.02, 0.1), trace('n330', 'npshr', 330, 0.018, 0.089)], text);
+    expect(ok).toEqual([]);
+  });
+
   it('leaves vector traces and explicit points alone', () => {
     expect(auditTraces([...family.slice(0, 3), trace('e330', 'efficiency', 330, 0, 0.04, { how: 'vector' })], text)).toEqual([]);
   });
