@@ -9,7 +9,7 @@
  * drawn curves by the law is less exact, so a wider step between neighbouring drawn speeds
  * gets a warning rather than silence.
  */
-import type { CurveSet, Finding, Member } from '../model/curveset.ts';
+import type { CurveSet, Finding, Member, PolynomialFit } from '../model/curveset.ts';
 import { evaluateUnchecked, inDomain } from './polynomial.ts';
 import { makeFinding } from './checks/finding.ts';
 
@@ -95,8 +95,7 @@ export function speedCurveFindings(set: Pick<CurveSet, 'members' | 'family'>): F
     if (drawn.length < 3) continue;
     drawn.forEach((m, i) => {
       // The two nearest drawn speeds (both on one side for the slowest and the fastest), as the head check does.
-      const near = drawn.filter((_, k) => k !== i).sort((x, y) => Math.abs(Math.log(x.speed_rpm / m.speed_rpm)) - Math.abs(Math.log(y.speed_rpm / m.speed_rpm))).slice(0, 2);
-      const devs = near.map((x) => speedCurveDeviation(m, x, quantity)).filter((d): d is number => d !== undefined);
+      const devs = nearestSpeeds(drawn, i).map((x) => speedCurveDeviation(m, x, quantity)).filter((d): d is number => d !== undefined);
       if (devs.length === 0) return;
       const best = Math.min(...devs);
       if (best <= SPEED_CURVE_WARN[quantity]) return;
@@ -112,6 +111,83 @@ export function speedCurveFindings(set: Pick<CurveSet, 'members' | 'family'>): F
             `more than the ${(100 * SPEED_CURVE_WARN[quantity]).toFixed(0)} % two readings of one pump may differ; check that the trace follows its own line where the curves bunch, and its speed label.`,
           method: SPEED_METHOD,
           figures: { deviation: best },
+        }),
+      );
+    });
+  }
+  return findings;
+}
+
+/**
+ * Largest share of the flow range a drawn speed's curve may lack against a neighbouring speed's
+ * range scaled by Q ∝ n. A maker draws the curves of one impeller at several speeds over
+ * corresponding ranges (the end of curve and the minimum flow follow Q ∝ n; Karassik, Pump
+ * Handbook), so a curve traced over much less than its neighbours' scaled range was cut short:
+ * the line was lost, or ran into a neighbour where the curves bunch. 10 % of the range is about
+ * five times the reading accuracy of a scan's line end (0.5–1 % of the axis, pixel-sized strokes;
+ * common practice) plus the small spread of where a person stops a trace, so a whole trace never
+ * reaches it; a curve cut shorter cannot be read where it is missing, and the check would otherwise
+ * stay silent because every comparison is made over the drawn part only.
+ */
+export const SPEED_RANGE_SHORT = 0.1;
+const RANGE_WHAT: Record<'head' | 'efficiency' | 'power' | 'npshr', string> = { head: 'head', ...WHAT };
+
+/**
+ * Share of the flow range of member j, scaled to member k's speed by Q ∝ n, that k's curve of
+ * `quantity` does not cover (0 when it covers it all); undefined when either curve is missing.
+ */
+export function speedRangeShortfall(k: Member, j: Member, quantity: 'head' | 'efficiency' | 'power' | 'npshr'): number | undefined {
+  const fk = k.curves[quantity]?.fit;
+  const fj = j.curves[quantity]?.fit;
+  if (!fk || !fj) return undefined;
+  const r = k.speed_rpm / j.speed_rpm;
+  const lo = r * fj.domain[0];
+  const hi = r * fj.domain[1];
+  if (!(hi > lo)) return undefined;
+  return (Math.max(0, fk.domain[0] - lo) + Math.max(0, hi - fk.domain[1])) / (hi - lo);
+}
+
+/** The two nearest drawn speeds of `drawn[i]` (both on one side for the slowest and the fastest). */
+function nearestSpeeds(drawn: readonly Member[], i: number): Member[] {
+  const m = drawn[i] as Member;
+  return drawn
+    .filter((_, k) => k !== i)
+    .sort((x, y) => Math.abs(Math.log(x.speed_rpm / m.speed_rpm)) - Math.abs(Math.log(y.speed_rpm / m.speed_rpm)))
+    .slice(0, 2);
+}
+
+/**
+ * Each drawn speed's head, efficiency, power and NPSH3 curve against the flow ranges of its two
+ * nearest drawn speeds scaled by Q ∝ n. A curve that lacks more than `SPEED_RANGE_SHORT` of BOTH
+ * neighbours' scaled ranges (judged by the better one, so a short neighbour does not blame an
+ * innocent curve) is named with a warning: nothing was read where it is missing, and a value
+ * there would be an extrapolation. Nothing for a diameter family.
+ */
+export function speedRangeFindings(set: Pick<CurveSet, 'members' | 'family'>): Finding[] {
+  if (set.family !== 'speed') return [];
+  const findings: Finding[] = [];
+  for (const quantity of ['head', 'efficiency', 'power', 'npshr'] as const) {
+    const drawn = set.members.filter((m) => m.curves[quantity]?.fit).sort((a, b) => a.speed_rpm - b.speed_rpm);
+    if (drawn.length < 2) continue;
+    drawn.forEach((m, i) => {
+      const shorts = nearestSpeeds(drawn, i)
+        .map((x) => speedRangeShortfall(m, x, quantity))
+        .filter((d): d is number => d !== undefined);
+      if (shorts.length === 0) return;
+      const best = Math.min(...shorts);
+      if (best <= SPEED_RANGE_SHORT) return;
+      const fit = m.curves[quantity]?.fit as PolynomialFit;
+      findings.push(
+        makeFinding({
+          code: 'affinity.speed-range',
+          severity: 'warn',
+          member: { speed_rpm: m.speed_rpm },
+          quantity,
+          message:
+            `The ${Math.round(m.speed_rpm)} rpm ${RANGE_WHAT[quantity]} curve covers ${(100 * (1 - best)).toFixed(0)} % or less of the flow range its neighbouring speeds give it by the speed affinity law (Q ∝ n): ` +
+            'it was cut short, so nothing was read where it is missing; trace the line to its drawn ends and check that the trace follows its own line where the curves bunch.',
+          method: SPEED_METHOD,
+          figures: { missing_share: best, flow_from: fit.domain[0], flow_to: fit.domain[1] },
         }),
       );
     });
