@@ -197,33 +197,20 @@ export function speedRangeFindings(set: Pick<CurveSet, 'members' | 'family'>): F
       const best = shorts.length ? Math.min(...shorts) : 0;
       const own = quantity === 'head' ? 0 : ownHeadShortfall(m, fit);
       if (best <= SPEED_RANGE_SHORT && own <= SPEED_RANGE_SHORT) return;
-      if (own > best) {
-        findings.push(
-          makeFinding({
-            code: 'affinity.speed-range',
-            severity: 'warn',
-            member: { speed_rpm: m.speed_rpm },
-            quantity,
-            message:
-              `The ${Math.round(m.speed_rpm)} rpm ${RANGE_WHAT[quantity]} curve ends ${(100 * own).toFixed(0)} % of the head curve's flow range before the ${Math.round(m.speed_rpm)} rpm head curve does, where a sheet draws both to the same end of curve: ` +
-              'it was likely cut short, so nothing was read where it is missing; trace the line to its drawn end and check that the trace follows its own line where the curves bunch.',
-            method: SPEED_METHOD,
-            figures: { missing_share: own, flow_from: fit.domain[0], flow_to: fit.domain[1] },
-          }),
-        );
-        return;
-      }
+      const curve = `The ${Math.round(m.speed_rpm)} rpm ${RANGE_WHAT[quantity]} curve`;
+      const why =
+        own > best
+          ? `${curve} ends ${(100 * own).toFixed(0)} % of the head curve's flow range before the ${Math.round(m.speed_rpm)} rpm head curve does, where a sheet draws both to the same end of curve: it was likely cut short`
+          : `${curve} covers ${(100 * (1 - best)).toFixed(0)} % or less of the flow range its neighbouring speeds give it by the speed affinity law (Q ∝ n): it was cut short`;
       findings.push(
         makeFinding({
           code: 'affinity.speed-range',
           severity: 'warn',
           member: { speed_rpm: m.speed_rpm },
           quantity,
-          message:
-            `The ${Math.round(m.speed_rpm)} rpm ${RANGE_WHAT[quantity]} curve covers ${(100 * (1 - best)).toFixed(0)} % or less of the flow range its neighbouring speeds give it by the speed affinity law (Q ∝ n): ` +
-            'it was cut short, so nothing was read where it is missing; trace the line to its drawn ends and check that the trace follows its own line where the curves bunch.',
+          message: `${why}, so nothing was read where it is missing; trace the line to its drawn ends and check that the trace follows its own line where the curves bunch.`,
           method: SPEED_METHOD,
-          figures: { missing_share: best, flow_from: fit.domain[0], flow_to: fit.domain[1] },
+          figures: { missing_share: Math.max(own, best), flow_from: fit.domain[0], flow_to: fit.domain[1] },
         }),
       );
     });
