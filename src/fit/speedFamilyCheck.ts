@@ -9,7 +9,7 @@
  * drawn curves by the law is less exact, so a wider step between neighbouring drawn speeds
  * gets a warning rather than silence.
  */
-import type { CurveSet, Finding, Member } from '../model/curveset.ts';
+import type { CurveSet, Finding, Member, PolynomialFit } from '../model/curveset.ts';
 import { evaluateUnchecked, inDomain } from './polynomial.ts';
 import { makeFinding } from './checks/finding.ts';
 
@@ -45,13 +45,23 @@ export function speedSpanFindings(set: Pick<CurveSet, 'members' | 'family'>): Fi
 }
 
 /**
- * Warn limits for one drawn speed's curve against its neighbours scaled by the speed law:
- * efficiency 5 % of its value and power 8 % of its largest value (the ISO 9906 grade 2B bands
- * for two readings of one pump, from memory); NPSH3 15 % of its largest value, wider because
- * the n² law for NPSH3 is only approximate (Karassik, Pump Handbook). Only warnings: the law
- * itself is not exact, and the curve may be drawn that way; a misread line shows far beyond.
+ * Warn limits for one drawn speed's curve against its neighbours scaled by the speed law.
+ * The curves of one impeller at several speeds are drawn from one test scaled by the law, or
+ * tested at each speed within ±20 % where the law is close to exact (Karassik, Pump Handbook),
+ * so two neighbours differ by little more than the reading of two lines: about 1 % of the axis
+ * span each on a scan (a stroke is a pixel or two at 200–300 dpi; common practice).
+ * - efficiency 3 % of its value (2 points at 70 %): two readings of 1 point each, plus the
+ *   efficiency drift of up to about a point over a 20 % speed step (from memory);
+ * - power 3 % of its largest value: two readings of about 1.2 % of the largest value (1 % of a
+ *   span drawn about 20 % above the curve), plus that efficiency drift;
+ * - NPSH3 8 % of its largest value, wider because the n² law for NPSH3 is only approximate:
+ *   exponents between about 1.7 and 2.3 are found in tests, ±6 % over a 20 % step (Karassik,
+ *   Pump Handbook; from memory).
+ * Only warnings: the law itself is not exact, and the curve may be drawn that way. Before, these
+ * were the ISO 9906 grade 2B bands (5 % / 8 % / 15 %), which are for two tests of one pump and let
+ * a misread line of 3–5 % of span through.
  */
-export const SPEED_CURVE_WARN: Record<'efficiency' | 'power' | 'npshr', number> = { efficiency: 0.05, power: 0.08, npshr: 0.15 };
+export const SPEED_CURVE_WARN: Record<'efficiency' | 'power' | 'npshr', number> = { efficiency: 0.03, power: 0.03, npshr: 0.08 };
 const EXPONENT: Record<'efficiency' | 'power' | 'npshr', number> = { efficiency: 0, power: 3, npshr: 2 };
 const WHAT: Record<'efficiency' | 'power' | 'npshr', string> = { efficiency: 'efficiency', power: 'power', npshr: 'NPSH3' };
 /** Matching flows over this part of the slower curve's drawn range. */
@@ -63,7 +73,7 @@ const SPEED_FRACTIONS = [0.15, 0.25, 0.35, 0.45, 0.55, 0.65, 0.75, 0.85, 0.95];
  * value (η) or of its largest value over the compared flows (P, NPSH3). Undefined when the
  * two curves share no flows after scaling.
  */
-function speedCurveDeviation(k: Member, j: Member, quantity: 'efficiency' | 'power' | 'npshr'): number | undefined {
+export function speedCurveDeviation(k: Member, j: Member, quantity: 'efficiency' | 'power' | 'npshr'): number | undefined {
   const fk = k.curves[quantity]?.fit;
   const fj = j.curves[quantity]?.fit;
   if (!fk || !fj) return undefined;
@@ -95,8 +105,7 @@ export function speedCurveFindings(set: Pick<CurveSet, 'members' | 'family'>): F
     if (drawn.length < 3) continue;
     drawn.forEach((m, i) => {
       // The two nearest drawn speeds (both on one side for the slowest and the fastest), as the head check does.
-      const near = drawn.filter((_, k) => k !== i).sort((x, y) => Math.abs(Math.log(x.speed_rpm / m.speed_rpm)) - Math.abs(Math.log(y.speed_rpm / m.speed_rpm))).slice(0, 2);
-      const devs = near.map((x) => speedCurveDeviation(m, x, quantity)).filter((d): d is number => d !== undefined);
+      const devs = nearestSpeeds(drawn, i).map((x) => speedCurveDeviation(m, x, quantity)).filter((d): d is number => d !== undefined);
       if (devs.length === 0) return;
       const best = Math.min(...devs);
       if (best <= SPEED_CURVE_WARN[quantity]) return;
@@ -112,6 +121,96 @@ export function speedCurveFindings(set: Pick<CurveSet, 'members' | 'family'>): F
             `more than the ${(100 * SPEED_CURVE_WARN[quantity]).toFixed(0)} % two readings of one pump may differ; check that the trace follows its own line where the curves bunch, and its speed label.`,
           method: SPEED_METHOD,
           figures: { deviation: best },
+        }),
+      );
+    });
+  }
+  return findings;
+}
+
+/**
+ * Largest share of the flow range a drawn speed's curve may lack against a neighbouring speed's
+ * range scaled by Q ∝ n. A maker draws the curves of one impeller at several speeds over
+ * corresponding ranges (the end of curve and the minimum flow follow Q ∝ n; Karassik, Pump
+ * Handbook), so a curve traced over much less than its neighbours' scaled range was cut short:
+ * the line was lost, or ran into a neighbour where the curves bunch. 10 % of the range is about
+ * five times the reading accuracy of a scan's line end (0.5–1 % of the axis, pixel-sized strokes;
+ * common practice) plus the small spread of where a person stops a trace, so a whole trace never
+ * reaches it; a curve cut shorter cannot be read where it is missing, and the check would otherwise
+ * stay silent because every comparison is made over the drawn part only. The same share applies
+ * to the upper end of a speed's efficiency, power and NPSH3 curve against that speed's own head
+ * curve: a sheet draws all curves of one speed to the same end of curve (common practice), and
+ * neighbours cut short together (curves that bunch toward their ends) would not show otherwise.
+ */
+export const SPEED_RANGE_SHORT = 0.1;
+const RANGE_WHAT: Record<'head' | 'efficiency' | 'power' | 'npshr', string> = { head: 'head', ...WHAT };
+
+/**
+ * Share of the flow range of member j, scaled to member k's speed by Q ∝ n, that k's curve of
+ * `quantity` does not cover (0 when it covers it all); undefined when either curve is missing.
+ */
+export function speedRangeShortfall(k: Member, j: Member, quantity: 'head' | 'efficiency' | 'power' | 'npshr'): number | undefined {
+  const fk = k.curves[quantity]?.fit;
+  const fj = j.curves[quantity]?.fit;
+  if (!fk || !fj) return undefined;
+  const r = k.speed_rpm / j.speed_rpm;
+  const lo = r * fj.domain[0];
+  const hi = r * fj.domain[1];
+  if (!(hi > lo)) return undefined;
+  return (Math.max(0, fk.domain[0] - lo) + Math.max(0, hi - fk.domain[1])) / (hi - lo);
+}
+
+/** Share of member m's head-curve flow range beyond the upper end of `fit` (0 when it reaches the head curve's end or m has no head curve). */
+function ownHeadShortfall(m: Member, fit: PolynomialFit): number {
+  const head = m.curves.head?.fit;
+  if (!head || !(head.domain[1] > head.domain[0])) return 0;
+  return Math.max(0, head.domain[1] - fit.domain[1]) / (head.domain[1] - head.domain[0]);
+}
+
+/** The two nearest drawn speeds of `drawn[i]` (both on one side for the slowest and the fastest). */
+function nearestSpeeds(drawn: readonly Member[], i: number): Member[] {
+  const m = drawn[i] as Member;
+  return drawn
+    .filter((_, k) => k !== i)
+    .sort((x, y) => Math.abs(Math.log(x.speed_rpm / m.speed_rpm)) - Math.abs(Math.log(y.speed_rpm / m.speed_rpm)))
+    .slice(0, 2);
+}
+
+/**
+ * Each drawn speed's head, efficiency, power and NPSH3 curve against the flow ranges of its two
+ * nearest drawn speeds scaled by Q ∝ n. A curve that lacks more than `SPEED_RANGE_SHORT` of BOTH
+ * neighbours' scaled ranges (judged by the better one, so a short neighbour does not blame an
+ * innocent curve) is named with a warning: nothing was read where it is missing, and a value
+ * there would be an extrapolation. Nothing for a diameter family.
+ */
+export function speedRangeFindings(set: Pick<CurveSet, 'members' | 'family'>): Finding[] {
+  if (set.family !== 'speed') return [];
+  const findings: Finding[] = [];
+  for (const quantity of ['head', 'efficiency', 'power', 'npshr'] as const) {
+    const drawn = set.members.filter((m) => m.curves[quantity]?.fit).sort((a, b) => a.speed_rpm - b.speed_rpm);
+    if (drawn.length < 2) continue;
+    drawn.forEach((m, i) => {
+      const shorts = nearestSpeeds(drawn, i)
+        .map((x) => speedRangeShortfall(m, x, quantity))
+        .filter((d): d is number => d !== undefined);
+      const fit = m.curves[quantity]?.fit as PolynomialFit;
+      const best = shorts.length ? Math.min(...shorts) : 0;
+      const own = quantity === 'head' ? 0 : ownHeadShortfall(m, fit);
+      if (best <= SPEED_RANGE_SHORT && own <= SPEED_RANGE_SHORT) return;
+      const curve = `The ${Math.round(m.speed_rpm)} rpm ${RANGE_WHAT[quantity]} curve`;
+      const why =
+        own > best
+          ? `${curve} ends ${(100 * own).toFixed(0)} % of the head curve's flow range before the ${Math.round(m.speed_rpm)} rpm head curve does, where a sheet draws both to the same end of curve: it was likely cut short`
+          : `${curve} covers ${(100 * (1 - best)).toFixed(0)} % or less of the flow range its neighbouring speeds give it by the speed affinity law (Q ∝ n): it was cut short`;
+      findings.push(
+        makeFinding({
+          code: 'affinity.speed-range',
+          severity: 'warn',
+          member: { speed_rpm: m.speed_rpm },
+          quantity,
+          message: `${why}, so nothing was read where it is missing; trace the line to its drawn ends and check that the trace follows its own line where the curves bunch.`,
+          method: SPEED_METHOD,
+          figures: { missing_share: Math.max(own, best), flow_from: fit.domain[0], flow_to: fit.domain[1] },
         }),
       );
     });

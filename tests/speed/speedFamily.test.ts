@@ -7,7 +7,7 @@ import { describe, expect, it } from 'vitest';
 import { inventedSpeedFamily, speedFamilyPointsText } from '../../src/demo/inventedSpeedFamily.ts';
 import { readPointsTable, PointsTableError } from '../../src/model/pointsTable.ts';
 import { buildSpeedSetFromText } from './buildSpeedSet.ts';
-import { speedCurveFindings } from '../../src/fit/speedFamilyCheck.ts';
+import { SPEED_RANGE_SHORT, speedCurveFindings, speedRangeFindings } from '../../src/fit/speedFamilyCheck.ts';
 
 describe('a speed family from a points table', () => {
   it('reads a speed column in place of the diameter column, long and wide', () => {
@@ -69,5 +69,31 @@ describe('a speed family from a points table', () => {
     const found = speedCurveFindings(misread);
     expect(found.map((f) => `${f.subject.speed_rpm} ${f.subject.quantity} ${f.severity}`).sort()).toEqual(['1150 efficiency warn', '1150 power warn']);
     expect(found[0]!.message).toMatch(/^The 1150 rpm (efficiency|power) curve differs by up to/);
+  });
+
+  it('warns when one speed\'s curve was traced over much less than its neighbours\' range scaled by Q ∝ n, and names only that speed', () => {
+    const set = buildSpeedSetFromText(speedFamilyPointsText(inventedSpeedFamily(), { seed: 5 }));
+    expect(speedRangeFindings(set)).toEqual([]);
+    // The 1150 rpm power trace stopped at 60 % of its range, as when the line was lost where the curves bunch.
+    const cut = (share: number, speeds = [1150]) => ({
+      ...set,
+      members: set.members.map((m) => {
+        const power = m.curves.power!;
+        const [lo, hi] = power.fit!.domain;
+        return speeds.includes(m.speed_rpm) ? { ...m, curves: { ...m.curves, power: { ...power, fit: { ...power.fit!, domain: [lo, lo + share * (hi - lo)] as [number, number] } } } } : m;
+      }),
+    });
+    const found = speedRangeFindings(cut(0.6));
+    expect(found.map((f) => `${f.subject.speed_rpm} ${f.subject.quantity} ${f.severity}`)).toEqual(['1150 power warn']);
+    expect(found[0]!.figures.missing_share).toBeCloseTo(0.4, 1);
+    expect(found[0]!.message).toMatch(/^The 1150 rpm power curve (covers \d+ % or less of the flow range|ends \d+ % of the head curve's flow range before)/);
+    // Every power curve cut short alike: the neighbours agree, but each ends well before its own speed's head curve.
+    const all = speedRangeFindings(cut(0.6, [1450, 1300, 1150, 1000]));
+    expect(all.map((f) => `${f.subject.speed_rpm} ${f.subject.quantity}`).sort()).toEqual(['1000 power', '1150 power', '1300 power', '1450 power']);
+    expect(all[0]!.message).toMatch(/ends \d+ % of the head curve's flow range before the \d+ rpm head curve does/);
+    // A trace stopped a little short (within the limit) is not named.
+    expect(speedRangeFindings(cut(1 - SPEED_RANGE_SHORT / 2))).toEqual([]);
+    // A diameter family is never judged by the speed law.
+    expect(speedRangeFindings({ ...cut(0.6), family: 'diameter' })).toEqual([]);
   });
 });

@@ -23,7 +23,7 @@ import { parabolaCrossing } from '../affinity.ts';
 import { evaluateUnchecked, inDomain } from '../polynomial.ts';
 import type { Display } from './display.ts';
 import { makeFinding } from './finding.ts';
-import { SPEED_METHOD, speedCurveFindings, speedSpanFindings } from '../speedFamilyCheck.ts';
+import { SPEED_METHOD, speedCurveFindings, speedRangeFindings, speedSpanFindings } from '../speedFamilyCheck.ts';
 
 export const AFFINITY_WARN = 0.03;
 export const AFFINITY_FAIL = 0.06;
@@ -224,6 +224,6 @@ export function affinityFindings(set: Pick<CurveSet, 'members' | 'family'>, show
       }),
     );
   }
-  findings.push(...speedSpanFindings(set), ...speedCurveFindings(set));
+  findings.push(...speedSpanFindings(set), ...speedRangeFindings(set), ...speedCurveFindings(set));
   return findings;
 }
