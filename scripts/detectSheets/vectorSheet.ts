@@ -9,9 +9,9 @@
 import { chromium, type Browser } from 'playwright-core';
 import { Dice } from '../randomSheets/dice.ts';
 import { planSheet, type SheetPlan } from '../randomSheets/plan.ts';
-import { drawnRange, isoFlows, UNIT_NAMES } from '../randomSheets/pumpFamily.ts';
+import { UNIT_NAMES } from '../randomSheets/pumpFamily.ts';
 import { sheetSvg } from '../randomSheets/svg.ts';
-import type { TruthCurve } from '../randomSheets/randomSheet.ts';
+import { truthOf as truthOfPlan, type TruthCurve } from '../randomSheets/randomSheet.ts';
 
 export const CHROMIUM = process.env.PUMPSCRIBE_CHROMIUM ?? '/usr/bin/chromium';
 const FLAGS = ['--headless', '--no-sandbox', '--disable-gpu', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'];
@@ -44,29 +44,9 @@ export async function printSvg(browser: Browser, svg: string, width: number, hei
   }
 }
 
-/** The truth of a plan, as the bed scores it (same rule as randomSheet.ts: 15–95 % of each drawn range). */
+/** The truth of a plan, as the bed scores it (the random bed's own rule), without the bed's trace ids. */
 export function truthOf(plan: SheetPlan): TruthCurve[] {
-  const family = plan.family;
-  const truth: TruthCurve[] = [];
-  for (const line of plan.lines) {
-    if (line.iso !== undefined || line.diameter === undefined) continue;
-    const panel = plan.panels.find((p) => p.id === line.panel)!;
-    const [a, b] = drawnRange(family, line.quantity, line.diameter);
-    truth.push({ quantity: line.quantity, diameter: line.diameter, source: 'curve', range: [a + 0.15 * (b - a), a + 0.95 * (b - a)], span: line.quantity === 'efficiency' ? 100 : panel.y.max - panel.y.min, traces: [] });
-  }
-  const isoLines = plan.lines.filter((l) => l.iso !== undefined);
-  if (isoLines.length > 0) {
-    for (const d of family.diameters) {
-      const flows = isoLines.flatMap((l) => isoFlows(family, d, l.iso as number));
-      if (flows.length < 2) continue;
-      const [a, b] = drawnRange(family, 'head', d);
-      const lo = Math.max(Math.min(...flows), a + 0.15 * (b - a));
-      const hi = Math.min(Math.max(...flows), a + 0.95 * (b - a));
-      if (!(hi > lo)) continue;
-      truth.push({ quantity: 'efficiency', diameter: d, source: 'iso', range: [lo, hi], span: 100, traces: [] });
-    }
-  }
-  return truth;
+  return truthOfPlan(plan).map((t) => ({ ...t, traces: [] }));
 }
 
 export async function makeVectorSheet(browser: Browser, seed: number): Promise<VectorSheet> {

@@ -134,32 +134,7 @@ export async function makeRandomSheet(seed: number, kind: 'scan' | 'photo'): Pro
     });
   }
 
-  const truth: TruthCurve[] = [];
-  for (const line of plan.lines) {
-    if (line.iso !== undefined || line.diameter === undefined) continue;
-    const panel = plan.panels.find((p) => p.id === line.panel) as PanelPlan;
-    const [a, b] = drawnRange(family, line.quantity, line.diameter);
-    truth.push({
-      quantity: line.quantity,
-      diameter: line.diameter,
-      source: 'curve',
-      range: [a + 0.15 * (b - a), a + 0.95 * (b - a)],
-      span: line.quantity === 'efficiency' ? 100 : panel.y.max - panel.y.min,
-      traces: [line.id],
-    });
-  }
-  const isoLines = plan.lines.filter((l) => l.iso !== undefined);
-  if (isoLines.length > 0) {
-    for (const d of family.diameters) {
-      const flows = isoLines.flatMap((l) => isoFlows(family, d, l.iso as number));
-      if (flows.length < 2) continue;
-      const [a, b] = drawnRange(family, 'head', d);
-      const lo = Math.max(Math.min(...flows), a + 0.15 * (b - a));
-      const hi = Math.min(Math.max(...flows), a + 0.95 * (b - a));
-      if (!(hi > lo)) continue;
-      truth.push({ quantity: 'efficiency', diameter: d, source: 'iso', range: [lo, hi], span: 100, traces: [...isoLines.map((l) => l.id), `head-${d}`] });
-    }
-  }
+  const truth = truthOf(plan);
 
   const takeoff: TakeoffInput = {
     sheet: `random-${seed}.jpg`,
@@ -198,4 +173,36 @@ export function calibrationError(plan: SheetPlan, shot: Shot, panelId: string, t
     }
   }
   return worst;
+}
+
+/** The exact truth of a plan as the bed scores it: 15–95 % of each drawn curve's flow range, and efficiency from the iso-lines over the flows where they cross each head curve. */
+export function truthOf(plan: SheetPlan): TruthCurve[] {
+  const family = plan.family;
+  const truth: TruthCurve[] = [];
+  for (const line of plan.lines) {
+    if (line.iso !== undefined || line.diameter === undefined) continue;
+    const panel = plan.panels.find((p) => p.id === line.panel) as PanelPlan;
+    const [a, b] = drawnRange(family, line.quantity, line.diameter);
+    truth.push({
+      quantity: line.quantity,
+      diameter: line.diameter,
+      source: 'curve',
+      range: [a + 0.15 * (b - a), a + 0.95 * (b - a)],
+      span: line.quantity === 'efficiency' ? 100 : panel.y.max - panel.y.min,
+      traces: [line.id],
+    });
+  }
+  const isoLines = plan.lines.filter((l) => l.iso !== undefined);
+  if (isoLines.length > 0) {
+    for (const d of family.diameters) {
+      const flows = isoLines.flatMap((l) => isoFlows(family, d, l.iso as number));
+      if (flows.length < 2) continue;
+      const [a, b] = drawnRange(family, 'head', d);
+      const lo = Math.max(Math.min(...flows), a + 0.15 * (b - a));
+      const hi = Math.min(Math.max(...flows), a + 0.95 * (b - a));
+      if (!(hi > lo)) continue;
+      truth.push({ quantity: 'efficiency', diameter: d, source: 'iso', range: [lo, hi], span: 100, traces: [...isoLines.map((l) => l.id), `head-${d}`] });
+    }
+  }
+  return truth;
 }
