@@ -5,6 +5,7 @@
  */
 import { readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
+import { createCanvas } from '@napi-rs/canvas';
 import { PDFDocument, StandardFonts } from 'pdf-lib';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { ARTIFACTS, cleanDir, openBrowser, settle, startServer, User, type Browser, type Server } from './harness.ts';
@@ -56,6 +57,24 @@ describe('sheets and edits in the browser', () => {
     await page.waitForFunction(() => /^Loaded /.test(document.querySelector('#message')?.textContent ?? ''), null, { timeout: 60_000 });
     expect(await wb((w) => [w.store.draft.sheet?.page, w.store.session.step])).toEqual([2, 'axes']);
   });
+
+  it('says so when a big scan is read at a reduced resolution', async () => {
+    // An invented blank 42-megapixel page: over the 40-megapixel working limit, so it is read at 1/2.
+    const canvas = createCanvas(7000, 6000);
+    const ctx = canvas.getContext('2d');
+    ctx.fillStyle = '#ffffff';
+    ctx.fillRect(0, 0, 7000, 6000);
+    ctx.fillStyle = '#000000';
+    ctx.fillRect(500, 3000, 6000, 4);
+    const file = join(dir, 'invented-big-scan.jpg');
+    writeFileSync(file, canvas.toBuffer('image/jpeg', 80));
+    const page = browser.page;
+    await page.goto(server.url);
+    await page.setInputFiles('#sheet-file', file);
+    await page.waitForFunction(() => /^Loaded /.test(document.querySelector('#message')?.textContent ?? ''), null, { timeout: 120_000 });
+    const message = await page.locator('#message').textContent();
+    expect(message).toMatch(/7000 × 6000 pixels \(42\.0 megapixels\), over the working limit, so it was read at 1\/2 of its resolution/);
+  }, 180_000);
 
   it('opens a sheet dropped on the window', async () => {
     const page = browser.page;

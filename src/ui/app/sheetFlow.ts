@@ -58,6 +58,8 @@ export class SheetFlow {
   private bytes: SheetBytes | null = null;
   /** The text layer of the chosen page (empty for scans). */
   words: TextItem[] = [];
+  /** What the loader said of the page shown (e.g. a big scan read at a reduced resolution). */
+  private pageNotes: readonly string[] = [];
   /** True while autosaved work is being restored. */
   restoring = false;
   /** True once the worker has read the chosen page (captures and snapping work from then on). */
@@ -198,7 +200,8 @@ export class SheetFlow {
     }
     // On a vector page the automatic take-off is offered once, here; the button stays in step 2.
     const next = this.sheet?.loadedKind === 'vector-pdf' ? 'Click “Find panels and curves” to have them found, or draw the frame of the head panel.' : 'Now draw the frame of the head panel.';
-    this.store.say(read.length ? `Loaded ${name}. Read from the sheet: ${read.join('; ')} — check them. ${next}` : `Loaded ${name}. Choose the units on the sheet, then ${next.charAt(0).toLowerCase()}${next.slice(1)}`, 'done');
+    const notes = this.pageNotes.length > 0 ? ` ${this.pageNotes.join(' ')}` : '';
+    this.store.say(`${read.length ? `Loaded ${name}. Read from the sheet: ${read.join('; ')} — check them. ${next}` : `Loaded ${name}. Choose the units on the sheet, then ${next.charAt(0).toLowerCase()}${next.slice(1)}`}${notes}`, notes ? 'caution' : 'done');
   }
 
   private async showPage(page: number): Promise<void> {
@@ -214,6 +217,9 @@ export class SheetFlow {
       ]);
       sheet.loadedKind = read.kind;
       sheet.texts = read.texts;
+      // A big scan read at a reduced resolution is said, as the command line says it.
+      this.pageNotes = read.notes;
+      if (read.notes.length > 0) this.store.say(read.notes.join(' '), 'caution');
       this.words = read.texts > 0 ? await this.bench.worker.call('words', {}) : [];
       this.pageReady = true;
       this.bench.refreshDerived();

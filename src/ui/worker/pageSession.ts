@@ -20,6 +20,8 @@ export interface PageSession {
   lines(): Promise<StrokeLines>;
   straights(): Promise<Straight[]>;
   raster(): Promise<RasterImage>;
+  /** What the loader said of the page in one sentence each, e.g. that a big scan was read at a reduced resolution. */
+  readonly notes: readonly string[];
   close(): Promise<void>;
 }
 
@@ -36,6 +38,7 @@ export const PDF_TRACE_SCALE = 4;
 
 export async function openPageSession(bytes: Uint8Array, kind: 'pdf' | 'image', page: number, name: string, sha256: string): Promise<PageSession> {
   let sheet: Sheet;
+  const notes: string[] = [];
   if (kind === 'pdf') {
     const pdfjs = await loadPdfJs();
     sheet = await openPdfSheet(pdfjs, bytes, {
@@ -46,7 +49,7 @@ export async function openPageSession(bytes: Uint8Array, kind: 'pdf' | 'image', 
       createCanvas: (w, h) => new OffscreenCanvas(w, h) as unknown as { getContext(kind: '2d'): unknown },
     });
   } else {
-    sheet = await loadImageSheetBrowser(bytes, { name });
+    sheet = await loadImageSheetBrowser(bytes, { name, onNote: (sentence) => notes.push(sentence) });
   }
   let lines: Promise<StrokeLines> | null = null;
   let straights: Promise<Straight[]> | null = null;
@@ -67,6 +70,7 @@ export async function openPageSession(bytes: Uint8Array, kind: 'pdf' | 'image', 
   return {
     sheet,
     replaySheet,
+    notes,
     lines: () => (lines ??= sheet.paths().then((p) => strokeLines(p))),
     straights: () => (straights ??= sheet.paths().then((p) => straightPieces(p))),
     raster: cachedRaster,

@@ -58,7 +58,7 @@ export interface Requests {
   render: { args: { page: number; scale: number; rect: Rect }; result: { bitmap: ImageBitmap; scale: number; rect: Rect } };
   thumbnail: { args: { page: number; size: number }; result: { bitmap: ImageBitmap } };
   /** Reads the chosen page for the take-off: vector strokes, text, or pixels. */
-  prepare: { args: { page: number }; result: { kind: LoadedKind; width: number; height: number; texts: number; strokes: number } };
+  prepare: { args: { page: number }; result: { kind: LoadedKind; width: number; height: number; texts: number; strokes: number; notes: readonly string[] } };
   capture: { args: CaptureRequest; result: CaptureAnswer };
   snap: { args: { at: XY; radius: number }; result: Snap | null };
   /** The text layer of the chosen page (empty for scans). */

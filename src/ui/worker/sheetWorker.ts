@@ -73,7 +73,7 @@ const handlers: { [K in keyof Requests]: Handler<K> } = {
       progress({ fraction: 0.7, label: 'Reading the picture' });
       await next.raster();
     }
-    return { result: { kind: next.sheet.kind, width: next.sheet.width, height: next.sheet.height, texts: texts.length, strokes: paths.length } };
+    return { result: { kind: next.sheet.kind, width: next.sheet.width, height: next.sheet.height, texts: texts.length, strokes: paths.length, notes: next.notes } };
   },
   async capture(args, progress) {
     return { result: await captureOnPage(requireSession(), args, progress) };
