@@ -8,32 +8,20 @@
 import { execFileSync } from 'node:child_process';
 import { copyFileSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { parseCurveSetJson } from '../../src/model/curvesetIO.ts';
 import { parseTakeoff } from '../../src/model/takeoff.ts';
 import type { CurveSet, Quantity } from '../../src/model/curveset.ts';
 import { evaluateUnchecked, linspace } from '../../src/fit/polynomial.ts';
 import { parseUnit, toSI } from '../../src/units/index.ts';
 import { QUANTITY_KIND } from '../../src/units/quantityUnits.ts';
-import { ARTIFACTS, cleanDir, openBrowser, ROOT, settle, startServer, User, type Browser, type Server } from './harness.ts';
+import { ARTIFACTS, cleanDir, ROOT, settle, User, workbenchForFile } from './harness.ts';
 import { compareCurveSets } from './compare.ts';
 import { makeVectorSheet, minimalTakeoff, openPrinter } from '../../scripts/detectSheets/vectorSheet.ts';
 
 const dir = join(ARTIFACTS, 'detect-vector');
 const SAMPLE = join(ROOT, 'samples', 'sheets', 'si-panels-black');
-let server: Server;
-let browser: Browser;
-
-beforeAll(async () => {
-  cleanDir(dir);
-  server = await startServer();
-  browser = await openBrowser();
-});
-
-afterAll(async () => {
-  await browser?.close();
-  await server?.stop();
-});
+const live = workbenchForFile(dir);
 
 type Part = { id: string; origin?: string; confidence?: number; diameter?: number; quantity?: string };
 
@@ -89,9 +77,9 @@ function axisGaps(a: CurveSet, b: CurveSet, sample: { units: unknown; panels: { 
 
 describe('finding panels and curves on a vector sheet', () => {
   it('takes a four-panel, four-diameter sheet from drop to saved curve set in at most 12 actions, equal to the headless replay', async () => {
-    const page = browser.page;
+    const page = live.browser.page;
     const user = new User(page, dir);
-    await page.goto(server.url);
+    await page.goto(live.server.url);
     await page.waitForSelector('#sheet-file', { state: 'attached' });
 
     // 1. The sheet is opened; the workbench offers to find the panels and curves.
@@ -209,9 +197,9 @@ describe('finding panels and curves on a vector sheet', () => {
     const diameters = [...sheet.plan.family.diameters].sort((a, b) => b - a);
     expect(sheet.expected.labelled).toBe(false);
 
-    const page = browser.page;
+    const page = live.browser.page;
     const user = new User(page, sub);
-    await page.goto(server.url);
+    await page.goto(live.server.url);
     await page.waitForSelector('#sheet-file', { state: 'attached' });
     await user.chooseFiles(page.locator('#sheet-file'), [pdf], 'random-14.pdf');
     await waitMessage(user, /^Loaded /);

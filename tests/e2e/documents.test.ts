@@ -9,26 +9,14 @@ import { createHash } from 'node:crypto';
 import { copyFileSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import type { Page } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { parseTakeoff } from '../../src/model/takeoff.ts';
-import { ARTIFACTS, cleanDir, openBrowser, ROOT, settle, startServer, User, type Browser, type Server } from './harness.ts';
+import { ARTIFACTS, openBrowser, ROOT, settle, User, workbenchForFile } from './harness.ts';
 import { scanSample, vectorSample } from './samples.ts';
 import { loadSample } from './takeoffFlow.ts';
 
 const dir = join(ARTIFACTS, 'documents');
-let server: Server;
-let browser: Browser;
-
-beforeAll(async () => {
-  cleanDir(dir);
-  server = await startServer();
-  browser = await openBrowser();
-});
-
-afterAll(async () => {
-  await browser?.close();
-  await server?.stop();
-});
+const live = workbenchForFile(dir);
 
 interface Wb {
   store: {
@@ -91,9 +79,9 @@ async function downloadTakeoff(page: Page, name: string): Promise<unknown> {
 
 describe('documents in the workbench', () => {
   it('two pumps saved in one session make two entries, and a reload keeps the entry of its document', async () => {
-    const page = browser.page;
+    const page = live.browser.page;
     const user = new User(page, join(dir, 'library'));
-    await page.goto(server.url);
+    await page.goto(live.server.url);
     const first = loadSample(vectorSample());
     await openTakeoff(page, first.sheetPath, vectorSample());
     const a = await saveToLibrary(page);
@@ -146,7 +134,7 @@ describe('documents in the workbench', () => {
   });
 
   it('a take-off file opened and downloaded again comes back field for field', async () => {
-    const page = browser.page;
+    const page = live.browser.page;
     const user = new User(page, join(dir, 'record'));
     // An invented US take-off using the fields the workbench has no screen for: pump details,
     // a trace's extent and capture method, and no power unit (the power panel names hp itself).
@@ -193,13 +181,13 @@ describe('documents in the workbench', () => {
   });
 
   it('two tabs on two sheets, with edits and reloads in both, lose nothing', async () => {
-    const { context } = browser;
+    const { context } = live.browser;
     const tabA = await context.newPage();
     const tabB = await context.newPage();
     const userA = new User(tabA, join(dir, 'tabs-a'));
     const userB = new User(tabB, join(dir, 'tabs-b'));
-    await tabA.goto(server.url);
-    await tabB.goto(server.url);
+    await tabA.goto(live.server.url);
+    await tabB.goto(live.server.url);
     // Each tab may be offered a kept take-off; both start afresh with a sheet of their own.
     for (const tab of [tabA, tabB]) if (await tab.locator('#restore-no').count()) await tab.click('#restore-no');
     const a = loadSample(vectorSample());
@@ -252,7 +240,7 @@ describe('documents in the workbench', () => {
 
     // A third tab is offered neither of the two open documents.
     const tabC = await context.newPage();
-    await tabC.goto(server.url);
+    await tabC.goto(live.server.url);
     await tabC.waitForFunction(() => !!(window as unknown as { pumpscribe: () => Wb | null }).pumpscribe());
     // Take-offs not open in any tab are kept in this browser (from the tests above): one is offered.
     await tabC.waitForSelector('.restore', { timeout: 30_000 });
@@ -269,9 +257,9 @@ describe('documents in the workbench', () => {
   });
 
   it('deleting a trace and tracing again files the new trace under the diameter chosen', async () => {
-    const page = await browser.context.newPage();
+    const page = await live.browser.context.newPage();
     const user = new User(page, join(dir, 'retrace'));
-    await page.goto(server.url);
+    await page.goto(live.server.url);
     if (await page.locator('#restore-no').count()) await page.click('#restore-no');
     const sample = loadSample(vectorSample());
     await openTakeoff(page, sample.sheetPath, vectorSample());
@@ -320,7 +308,7 @@ describe('documents in the workbench', () => {
         },
       };
       // The library page does not open the workbench's storage, so the old database can be laid down first.
-      await page.goto(`${server.url}#/library`);
+      await page.goto(`${live.server.url}#/library`);
       await page.evaluate(async ({ v1, b64, sha }) => {
         const data = Uint8Array.from(atob(b64), (c) => c.charCodeAt(0));
         await new Promise<void>((resolve, reject) => {
@@ -340,7 +328,7 @@ describe('documents in the workbench', () => {
           };
         });
       }, { v1, b64: bytes.toString('base64'), sha });
-      await page.goto(`${server.url}#/`);
+      await page.goto(`${live.server.url}#/`);
       await page.reload();
       await page.waitForSelector('#restore-yes', { timeout: 30_000 });
       await page.click('#restore-yes');

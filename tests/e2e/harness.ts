@@ -8,6 +8,7 @@ import { existsSync, mkdirSync, mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { chromium, type BrowserContext, type Locator, type Page } from 'playwright-core';
+import { afterAll, beforeAll } from 'vitest';
 
 export const ROOT = join(import.meta.dirname, '..', '..');
 export const ARTIFACTS = join(ROOT, 'artifacts', 'e2e');
@@ -261,4 +262,32 @@ export async function settle(page: Page): Promise<void> {
 export function cleanDir(dir: string): void {
   rmSync(dir, { recursive: true, force: true });
   mkdirSync(dir, { recursive: true });
+}
+
+/**
+ * The workbench server and Chromium for one test file: started once before its tests (after
+ * emptying `dir`, where its screenshots go) and ended after them, server and browser alike.
+ */
+export function workbenchForFile(dir: string, timeoutMs = 600_000): { readonly server: Server; readonly browser: Browser } {
+  let server: Server | undefined;
+  let browser: Browser | undefined;
+  beforeAll(async () => {
+    cleanDir(dir);
+    server = await startServer();
+    browser = await openBrowser();
+  }, timeoutMs);
+  afterAll(async () => {
+    await browser?.close();
+    await server?.stop();
+  });
+  return {
+    get server() {
+      if (!server) throw new Error('The workbench server is not started yet.');
+      return server;
+    },
+    get browser() {
+      if (!browser) throw new Error('The browser is not open yet.');
+      return browser;
+    },
+  };
 }

@@ -9,32 +9,20 @@
  */
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { ARTIFACTS, cleanDir, openBrowser, startServer, User, type Browser, type Server } from './harness.ts';
+import { describe, expect, it } from 'vitest';
+import { ARTIFACTS, User, workbenchForFile } from './harness.ts';
 import { openSampleStudy } from './studyFlow.ts';
 import { PAPER } from '../../src/record/recordPdf.ts';
 import { oneLine, pdfText } from '../record/recordText.ts';
 
 const dir = join(ARTIFACTS, 'record');
-let server: Server;
-let browser: Browser;
-
-beforeAll(async () => {
-  cleanDir(dir);
-  server = await startServer();
-  browser = await openBrowser();
-}, 600_000);
-
-afterAll(async () => {
-  await browser?.close();
-  await server?.stop();
-});
+const live = workbenchForFile(dir);
 
 describe('the selection record in the workbench', () => {
   it('downloads the record after a take-off and a study', async () => {
-    const page = browser.page;
+    const page = live.browser.page;
     const user = new User(page, dir);
-    await openSampleStudy(page, user, server.url);
+    await openSampleStudy(page, user, live.server.url);
     await user.click(page.locator('#study-add-option'), 'add an option');
     await page.waitForFunction(() => document.querySelectorAll('.study-table tbody tr').length === 2, null, { timeout: 60_000 });
     const rows = page.locator('.study-table tbody tr');

@@ -7,32 +7,20 @@ import { readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { createCanvas } from '@napi-rs/canvas';
 import { PDFDocument, StandardFonts } from 'pdf-lib';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { ARTIFACTS, cleanDir, openBrowser, settle, startServer, User, type Browser, type Server } from './harness.ts';
+import { describe, expect, it } from 'vitest';
+import { ARTIFACTS, settle, User, workbenchForFile } from './harness.ts';
 import { vectorSample } from './samples.ts';
 import { loadSample } from './takeoffFlow.ts';
 
 const dir = join(ARTIFACTS, 'handling');
-let server: Server;
-let browser: Browser;
-
-beforeAll(async () => {
-  cleanDir(dir);
-  server = await startServer();
-  browser = await openBrowser();
-});
-
-afterAll(async () => {
-  await browser?.close();
-  await server?.stop();
-});
+const live = workbenchForFile(dir);
 
 type Wb = {
   store: { draft: { sheet: { page: number; name: string } | null; traces: unknown[]; panels: unknown[] }; session: { step: string } };
   canvas: { currentView: { zoom: number } };
   sheet: { thumbnails: Map<number, string> } | null;
 };
-const wb = <T>(read: (w: Wb) => T) => browser.page.evaluate((code) => new Function('w', `return (${code})(w);`)((window as unknown as { pumpscribe: () => Wb }).pumpscribe()), read.toString()) as Promise<T>;
+const wb = <T>(read: (w: Wb) => T) => live.browser.page.evaluate((code) => new Function('w', `return (${code})(w);`)((window as unknown as { pumpscribe: () => Wb }).pumpscribe()), read.toString()) as Promise<T>;
 
 describe('sheets and edits in the browser', () => {
   it('offers the pages of a PDF as pictures and reads the one picked', async () => {
@@ -46,9 +34,9 @@ describe('sheets and edits in the browser', () => {
     const file = join(dir, 'invented-two-pages.pdf');
     writeFileSync(file, await two.save());
 
-    const page = browser.page;
+    const page = live.browser.page;
     const user = new User(page, dir);
-    await page.goto(server.url);
+    await page.goto(live.server.url);
     await page.setInputFiles('#sheet-file', file);
     await page.waitForFunction(() => document.querySelectorAll('.thumb img').length === 2, null, { timeout: 60_000 });
     await user.screenshot('pages-offered');
@@ -68,8 +56,8 @@ describe('sheets and edits in the browser', () => {
     ctx.fillRect(500, 3000, 6000, 4);
     const file = join(dir, 'invented-big-scan.jpg');
     writeFileSync(file, canvas.toBuffer('image/jpeg', 80));
-    const page = browser.page;
-    await page.goto(server.url);
+    const page = live.browser.page;
+    await page.goto(live.server.url);
     await page.setInputFiles('#sheet-file', file);
     await page.waitForFunction(() => /^Loaded /.test(document.querySelector('#message')?.textContent ?? ''), null, { timeout: 120_000 });
     const message = await page.locator('#message').textContent();
@@ -77,7 +65,7 @@ describe('sheets and edits in the browser', () => {
   }, 180_000);
 
   it('opens a sheet dropped on the window', async () => {
-    const page = browser.page;
+    const page = live.browser.page;
     const sample = loadSample(vectorSample());
     const bytes = readFileSync(sample.sheetPath).toString('base64');
     await page.evaluate(({ bytes, name }) => {
@@ -92,7 +80,7 @@ describe('sheets and edits in the browser', () => {
   });
 
   it('refuses a bad file with a sentence and keeps every captured point; undo and redo work from the keyboard', async () => {
-    const page = browser.page;
+    const page = live.browser.page;
     const user = new User(page, dir);
     const sample = loadSample(vectorSample());
     const head = sample.takeoff.panels.find((p) => p.id === 'head')!;
@@ -129,7 +117,7 @@ describe('sheets and edits in the browser', () => {
   });
 
   it('draws the visible part of a PDF sharply when zoomed in past the page drawing', async () => {
-    const page = browser.page;
+    const page = live.browser.page;
     const user = new User(page, dir);
     await page.locator('.stage').focus();
     for (let i = 0; i < 8; i++) await page.keyboard.press('+');

@@ -5,30 +5,18 @@
  * the system curves and the operating points.
  */
 import { join } from 'node:path';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { ARTIFACTS, cleanDir, openBrowser, startServer, User, type Browser, type Server } from './harness.ts';
+import { describe, expect, it } from 'vitest';
+import { ARTIFACTS, User, workbenchForFile } from './harness.ts';
 import { openSampleStudy } from './studyFlow.ts';
 
 const dir = join(ARTIFACTS, 'study');
-let server: Server;
-let browser: Browser;
-
-beforeAll(async () => {
-  cleanDir(dir);
-  server = await startServer();
-  browser = await openBrowser();
-}, 600_000);
-
-afterAll(async () => {
-  await browser?.close();
-  await server?.stop();
-});
+const live = workbenchForFile(dir);
 
 describe('the duty study in the review', () => {
   it('shows the margin, the motor and the allowable elevation for each option, added with a click', async () => {
-    const page = browser.page;
+    const page = live.browser.page;
     const user = new User(page, dir);
-    await openSampleStudy(page, user, server.url);
+    await openSampleStudy(page, user, live.server.url);
     expect(await page.locator('.study-table tbody tr').count()).toBe(1);
 
     await user.click(page.locator('#study-add-option'), 'add an option');
