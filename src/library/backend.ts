@@ -7,6 +7,7 @@
 import type { CurveSet } from '../model/curveset.ts';
 import type { EntryInfo, RevisionInfo, SavedRevision, StoredRevision } from './types.ts';
 import type { DutyCard } from './dutyCard.ts';
+import type { RevisionFacts } from './storeSql.ts';
 
 export interface ListOptions {
   q?: string;
@@ -41,6 +42,37 @@ export interface EntryNames {
   display_units: Record<string, string>;
 }
 
+/** A revision checked by the importer, with the time it was first saved. */
+export interface ImportedRevision {
+  savedAt: string;
+  facts: RevisionFacts;
+}
+
+/**
+ * One import being written (transfer.ts drives it; importJournal.ts is the SQLite side). Work is
+ * written in batches: `commit` makes everything so far durable and starts the next batch. Until
+ * `finish`, every row written is journaled with the import, so `abort` (or, after a crash, the
+ * next open of the library) removes all of it again: to a reader of the finished library an
+ * import is all or nothing.
+ */
+export interface ImportSession {
+  /** Content hashes of an entry's revisions, or null when the library has no such entry. */
+  revisionHashes(id: string): Set<string> | null;
+  createEntry(id: string, createdAt: string, archivedAt: string | null, revisions: ImportedRevision[]): void;
+  /** Appends revisions to an existing entry, numbered after its latest. */
+  appendRevisions(id: string, revisions: ImportedRevision[]): void;
+  /** Stores a sheet unless one with the same SHA-256 is kept; true when it was stored now. */
+  putSheet(bytes: Buffer, name: string | null, storedAt: string): boolean;
+  /** Keeps a take-off file beside its sheet; true when it was stored now. Throws LibraryError for a bad one. */
+  addTakeoff(sheetSha256: string, body: unknown, name: string | null, id: string, savedAt: string): boolean;
+  /** Ends the batch: what was written so far is durable (and still journaled); the next batch begins. */
+  commit(): void;
+  /** Ends the import: the last batch is committed and the journal dropped. */
+  finish(): void;
+  /** Removes everything this import wrote (committed batches included); returns how many entries it touched. */
+  abort(): number;
+}
+
 export interface LibraryBackend {
   readonly readonly: boolean;
   now(): string;
@@ -58,5 +90,7 @@ export interface LibraryBackend {
   dutyCount(flowM3s: number, headM: number): number;
   names(id: string): EntryNames;
   counts(): { entries: number; archived: number; revisions: number; sheets: number };
+  /** Starts an import from `source` (a file name or "upload", shown if it has to be undone later). */
+  beginImport(source: string): ImportSession;
   close(): void;
 }

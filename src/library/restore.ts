@@ -60,7 +60,7 @@ export async function restoreLibrary(source: string, target: string, options: { 
   }
   const to = LibraryStore.open(target);
   try {
-    const report = await importLines(to, linesOf(createReadStream(source)), options);
+    const report = await importLines(to, linesOf(createReadStream(source)), { ...options, source });
     return { kind: 'export', entries: report.entries_created, import: report };
   } catch (error) {
     to.close();

@@ -1,13 +1,14 @@
 /**
  * The library file's tables and their migrations. `PRAGMA user_version` carries the schema
  * version; each migration moves it up by one inside the same transaction as its DDL.
- * Revisions, sheets and take-offs are append-only: triggers refuse UPDATE and DELETE on them.
+ * Revisions, sheets and take-offs are append-only: triggers refuse UPDATE and DELETE on them,
+ * except (from version 4) the rows an unfinished import wrote, while that import is being undone.
  */
 import type Database from 'better-sqlite3';
 import { LibraryError } from './errors.ts';
 
 export const LIBRARY_FORMAT = 'pumpscribe.library';
-export const SCHEMA_VERSION = 3;
+export const SCHEMA_VERSION = 4;
 
 const MIGRATIONS: readonly string[] = [
   // 0 → 1
@@ -155,6 +156,53 @@ const MIGRATIONS: readonly string[] = [
     DELETE FROM duty_index WHERE slice BETWEEN NEW.key * 16 AND NEW.key * 16 + 15;
     INSERT INTO duty_index SELECT NEW.key * 16 + j.key, j.value ->> 0, j.value ->> 1, j.value ->> 2, j.value ->> 3, j.value ->> 4, j.value ->> 4, NEW.key, NEW.fail_count > 0
       FROM json_each(NEW.slices_json) AS j WHERE NEW.archived_at IS NULL AND j.key < 16;
+  END;
+  `,
+  // 3 → 4: imports commit in batches (importJournal.ts). Each import that has not finished has a row
+  // in `imports`; every entry it created, entry it added revisions to, sheet and take-off file it
+  // stored has a row in `import_rows`, written in the same transaction as the data. A finished
+  // import is marked 'finished' with its last batch, then deletes both. An import that fails, or one
+  // found stopped while 'running' (its process gone), is undone:
+  // its state becomes 'undoing', and only then do the append-only triggers let its own rows go.
+  `
+  CREATE TABLE imports (
+    id INTEGER PRIMARY KEY,
+    source TEXT NOT NULL,
+    started_at TEXT NOT NULL,
+    host TEXT NOT NULL,
+    pid INTEGER NOT NULL,
+    state TEXT NOT NULL CHECK (state IN ('running', 'finished', 'undoing')),
+    entries INTEGER NOT NULL DEFAULT 0
+  ) STRICT;
+  CREATE TABLE import_rows (
+    import_id INTEGER NOT NULL REFERENCES imports (id),
+    kind TEXT NOT NULL CHECK (kind IN ('entry', 'revisions', 'sheet', 'takeoff')),
+    key TEXT NOT NULL,
+    before_revision INTEGER,
+    before_updated_at TEXT,
+    PRIMARY KEY (import_id, kind, key)
+  ) STRICT;
+  CREATE INDEX import_rows_key ON import_rows (key, kind);
+  DROP TRIGGER revisions_append_only_d;
+  CREATE TRIGGER revisions_append_only_d BEFORE DELETE ON revisions
+    WHEN NOT EXISTS (SELECT 1 FROM import_rows j JOIN imports i ON i.id = j.import_id
+      WHERE i.state = 'undoing' AND j.key = OLD.entry_id AND (j.kind = 'entry' OR (j.kind = 'revisions' AND OLD.revision > j.before_revision)))
+    BEGIN SELECT RAISE(ABORT, 'revisions are append-only'); END;
+  DROP TRIGGER sheets_append_only_d;
+  CREATE TRIGGER sheets_append_only_d BEFORE DELETE ON sheets
+    WHEN NOT EXISTS (SELECT 1 FROM import_rows j JOIN imports i ON i.id = j.import_id WHERE i.state = 'undoing' AND j.kind = 'sheet' AND j.key = OLD.sha256)
+    BEGIN SELECT RAISE(ABORT, 'sheets are append-only'); END;
+  DROP TRIGGER takeoffs_append_only_d;
+  CREATE TRIGGER takeoffs_append_only_d BEFORE DELETE ON takeoffs
+    WHEN NOT EXISTS (SELECT 1 FROM import_rows j JOIN imports i ON i.id = j.import_id WHERE i.state = 'undoing' AND j.kind = 'takeoff' AND j.key = OLD.id)
+    BEGIN SELECT RAISE(ABORT, 'take-offs are append-only'); END;
+  DROP TRIGGER entries_no_delete;
+  CREATE TRIGGER entries_no_delete BEFORE DELETE ON entries
+    WHEN NOT EXISTS (SELECT 1 FROM import_rows j JOIN imports i ON i.id = j.import_id WHERE i.state = 'undoing' AND j.kind = 'entry' AND j.key = OLD.id)
+    BEGIN SELECT RAISE(ABORT, 'entries are archived, never deleted'); END;
+  CREATE TRIGGER entries_undone AFTER DELETE ON entries BEGIN
+    DELETE FROM duty_index WHERE slice BETWEEN OLD.key * 16 AND OLD.key * 16 + 15;
+    DELETE FROM duty_cards WHERE entry_key = OLD.key;
   END;
   `,
 ];

@@ -23,13 +23,14 @@ import { checkLibraryFile, migrate, SCHEMA_VERSION } from './schema.ts';
 import { SheetStore } from './sheets.ts';
 import { searchCopy } from './summary.ts';
 import { decodeDutyCard } from './dutyCard.ts';
-import { prepareStatements, summaryRow, type RevisionFacts } from './storeSql.ts';
+import { insertRevisionRows, prepareStatements, summaryRow, type RevisionFacts } from './storeSql.ts';
+import { anyImportRows, importBusyError, runningImport, SqliteImport, stoppedImportNotices, undoStoppedImports } from './importJournal.ts';
 import { fullDiskError, storageFault } from './storage.ts';
 import { checkRevision } from './validate.ts';
 import { backfillV2, backfillV3 } from './backfill.ts';
 import { verifyLibrary, type VerifyReport } from './verify.ts';
 import { entryInfoOf, type EntryInfo, type EntryRow, type RevisionInfo, type SavedRevision, type StoredRevision } from './types.ts';
-import type { DutyIndexRow, EntryNames, LibraryBackend, ListOptions, WriteOptions } from './backend.ts';
+import type { DutyIndexRow, EntryNames, ImportSession, LibraryBackend, ListOptions, WriteOptions } from './backend.ts';
 
 export type { ListOptions, WriteOptions } from './backend.ts';
 
@@ -48,6 +49,9 @@ interface InternalOptions extends OpenOptions {
   /** The disk is full: open for reading, and refuse writes by saying so. */
   diskFull?: boolean;
 }
+
+/** Page cache of an import's connection, KiB (peak memory of a 100,000-entry import stays far below 1 GiB). */
+const IMPORT_CACHE_KIB = 192 * 1024;
 
 /** Largest read-only library loaded into memory when its folder cannot hold SQLite's shared-memory file. */
 const READONLY_IN_MEMORY_LIMIT = 1024 * 2 ** 20;
@@ -86,8 +90,10 @@ export class LibraryStore implements LibraryBackend {
   readonly now: () => string;
   private readonly parsed: LruCache<CurveSet>;
   private readonly stmts: ReturnType<typeof prepareStatements>;
-  /** Set while an import holds the file's write lock on its own connection. */
+  /** Set while an import of this process is being written, on its own connection. */
   importing = false;
+  /** Sentences about imports that stopped before they finished (undone when opened for writing). */
+  readonly importNotices: string[] = [];
 
   /** True when opened read-only because the disk is full. */
   readonly diskFull: boolean;
@@ -142,6 +148,8 @@ export class LibraryStore implements LibraryBackend {
       throw new LibraryError(`Cannot open the library file "${file}" (${detail}); check the path and that it is a Pumpscribe library.`, 'unusable-file');
     }
     this.db = db;
+    if (this.readonly) this.importNotices.push(...stoppedImportNotices(db));
+    else this.recoverImports();
     this.parsed = new LruCache<CurveSet>(options.cacheSize ?? 2_000);
     this.sheets = new SheetStore(this.db, this.now, () => this.beforeWrite());
     this.stmts = prepareStatements(this.db);
@@ -171,13 +179,38 @@ export class LibraryStore implements LibraryBackend {
       throw new LibraryError(`The library is read-only because ${this.readonlyReason}, so nothing was changed; it can still be listed and searched. Make it writable to save to it.`, 'read-only');
     }
     if (this.importing) throw new LibraryError('An import is being written to this library; nothing was changed, try again when it has finished.', 'conflict', 'import-busy');
+    if (anyImportRows(this.db)) {
+      const busy = runningImport(this.db);
+      if (busy) throw importBusyError(busy);
+      this.recoverImports();
+    }
+  }
+
+  /** Undoes imports that stopped before they finished (their process is gone); says so in `importNotices`. */
+  private recoverImports(): void {
+    if (!anyImportRows(this.db)) return;
+    try {
+      this.importNotices.push(...undoStoppedImports(this.db));
+    } catch (error) {
+      const fault = storageFault(error, this.file);
+      this.importNotices.push(
+        `An import into this library stopped before it finished, and what it wrote could not be removed yet (${(fault ?? (error as Error)).message.replace(/\.$/, '')}); it is removed the next time the library is opened for writing.`,
+      );
+    }
   }
 
   /** Runs one IMMEDIATE write transaction, turning storage faults into sentences. */
   write<T>(body: () => T): T {
     this.beforeWrite();
     try {
-      return this.db.transaction(body).immediate();
+      return this.db
+        .transaction(() => {
+          // Checked again under the write lock: an import of another process may have begun meanwhile.
+          const busy = anyImportRows(this.db) ? runningImport(this.db) : null;
+          if (busy) throw importBusyError(busy);
+          return body();
+        })
+        .immediate();
     } catch (error) {
       throw storageFault(error, this.file) ?? error;
     }
@@ -365,36 +398,71 @@ export class LibraryStore implements LibraryBackend {
     }
   }
 
-  /** Content hashes of an entry's revisions, or null when the entry does not exist (importer). */
-  revisionHashes(id: string, stmts: ReturnType<typeof prepareStatements> = this.stmts): Set<string> | null {
-    if (!stmts.entry.get(id)) return null;
-    return new Set((stmts.revisions.all(id) as RawRevision[]).map((r) => r.sha256));
+  private insertRevision(id: string, revision: number, at: string, facts: RevisionFacts): void {
+    insertRevisionRows(this.stmts, id, revision, at, facts);
   }
 
-  private insertRevision(id: string, revision: number, at: string, facts: RevisionFacts, stmts = this.stmts): void {
-    const source = facts.set.provenance.source?.sha256 ?? null;
-    stmts.insertRevision.run(id, revision, at, facts.sha256, facts.text, source);
-    stmts.insertRevisionSummary.run(id, revision, facts.findings.fail_count, facts.findings.warn_count, JSON.stringify(facts.findings.fail_codes), facts.acceptedFailing ? 1 : 0);
-  }
-
-  /** Used by the importer, on its own connection inside its transaction. */
-  insertImportedEntry(stmts: ReturnType<typeof prepareStatements>, id: string, createdAt: string, archivedAt: string | null, revisions: Array<{ savedAt: string; facts: RevisionFacts }>): void {
-    const last = revisions[revisions.length - 1];
-    if (!last) return;
-    stmts.insertEntry.run({ ...summaryRow(id, revisions.length, last.facts, last.savedAt), created_at: createdAt, archived_at: archivedAt });
-    revisions.forEach((r, i) => this.insertRevision(id, i + 1, r.savedAt, r.facts, stmts));
-    stmts.event.run(id, this.now(), 'imported', revisions.length);
-  }
-
-  /** Used by the importer: appends revisions to an existing entry, numbering them after its latest. */
-  appendImportedRevisions(stmts: ReturnType<typeof prepareStatements>, id: string, revisions: Array<{ savedAt: string; facts: RevisionFacts }>): void {
-    let n = (stmts.maxRevision.get(id) as { n: number }).n;
-    for (const r of revisions) {
-      n += 1;
-      this.insertRevision(id, n, r.savedAt, r.facts, stmts);
-      stmts.updateSummary.run(summaryRow(id, n, r.facts, this.now()));
+  /**
+   * Starts an import on a connection of its own (importJournal.ts), so that this connection stays
+   * free for reading meanwhile; writes through this store are refused until it ends.
+   */
+  beginImport(source: string): ImportSession {
+    this.beforeWrite();
+    const own = this.file !== ':memory:';
+    let db: Database.Database;
+    try {
+      db = own ? new Database(this.file, { timeout: 10_000, fileMustExist: true }) : this.db;
+      if (own) {
+        db.pragma('synchronous = FULL');
+        db.pragma('foreign_keys = ON');
+      }
+      // A batch touches the duty index and the entry indexes all over; a larger page cache keeps
+      // their pages in memory between batches (bounded: IMPORT_CACHE_KIB).
+      db.pragma(`cache_size = -${IMPORT_CACHE_KIB}`);
+    } catch (error) {
+      throw storageFault(error, this.file) ?? error;
     }
-    if (revisions.length) stmts.event.run(id, this.now(), 'imported', n);
+    let session: SqliteImport;
+    try {
+      session = new SqliteImport(db, source, this.now);
+    } catch (error) {
+      if (own) db.close();
+      throw storageFault(error, this.file) ?? error;
+    }
+    this.importing = true;
+    const end = () => {
+      this.importing = false;
+      if (own && db.open) db.close();
+    };
+    const guard = <T>(body: () => T): T => {
+      try {
+        return body();
+      } catch (error) {
+        throw storageFault(error, this.file) ?? error;
+      }
+    };
+    return {
+      revisionHashes: (id) => guard(() => session.revisionHashes(id)),
+      createEntry: (...a) => guard(() => session.createEntry(...a)),
+      appendRevisions: (...a) => guard(() => session.appendRevisions(...a)),
+      putSheet: (...a) => guard(() => session.putSheet(...a)),
+      addTakeoff: (...a) => guard(() => session.addTakeoff(...a)),
+      commit: () => guard(() => session.commit()),
+      finish: () => {
+        try {
+          guard(() => session.finish());
+        } finally {
+          if (!db.inTransaction) end();
+        }
+      },
+      abort: () => {
+        try {
+          return guard(() => session.abort());
+        } finally {
+          end();
+        }
+      },
+    };
   }
 
   private entryRow(id: string): EntryRow {

@@ -59,6 +59,13 @@ export function dutyCardBytes(set: CurveSet): Buffer | null {
   return card ? Buffer.from(encodeDutyCard(card)) : null;
 }
 
+/** Writes a revision's text and its findings summary. */
+export function insertRevisionRows(stmts: ReturnType<typeof prepareStatements>, id: string, revision: number, at: string, facts: RevisionFacts): void {
+  const source = facts.set.provenance.source?.sha256 ?? null;
+  stmts.insertRevision.run(id, revision, at, facts.sha256, facts.text, source);
+  stmts.insertRevisionSummary.run(id, revision, facts.findings.fail_count, facts.findings.warn_count, JSON.stringify(facts.findings.fail_codes), facts.acceptedFailing ? 1 : 0);
+}
+
 const SUMMARY_COLUMNS = [
   'latest_revision', 'name', 'maker', 'model', 'size', 'pump_type', 'family', 'speed_rpm', 'diameters_json', 'diameter_min_m',
   'diameter_max_m', 'member_count', 'flow_min_m3s', 'flow_max_m3s', 'head_min_m', 'head_max_m', 'bep_flow_m3s', 'bep_head_m',

@@ -8,9 +8,12 @@
  * asked, its entry is left out and named.
  *
  * Import streams: one line is read, checked and written at a time, so memory is bounded by one
- * entry, whatever the file's size. All of it is written inside one IMMEDIATE transaction on its own
- * connection, so it is all or nothing, even when the process is killed in the middle of the write;
- * meanwhile the library stays readable, and writes from this process are refused with a sentence.
+ * entry, whatever the file's size. It is written on its own connection in batches of
+ * IMPORT_BATCH_ENTRIES entries, one transaction each, so the log stays the size of one batch; every
+ * row is journaled with the import (importJournal.ts), so an import that fails removes what it had
+ * committed, and one killed in the middle is removed by the next open of the library for writing:
+ * once it has ended, an import is all or nothing. Meanwhile the library stays readable (readers see
+ * the batches committed so far), and other writes are refused with a sentence.
  * It never overwrites: new ids become new entries with their revision history; revisions of an id
  * already in the library are appended as new revisions unless the same content is already there.
  */
@@ -21,15 +24,13 @@ import { describeZodError } from '../model/errors.ts';
 import { LibraryError } from './errors.ts';
 import { isEntryId, isSha256 } from './ids.ts';
 import type { LibraryStore } from './store.ts';
-import { SheetStore } from './sheets.ts';
-import { prepareStatements, type RevisionFacts } from './storeSql.ts';
-import { storageFault } from './storage.ts';
+import type { ImportedRevision, LibraryBackend } from './backend.ts';
+import { IMPORT_BATCH_ENTRIES, IMPORT_BATCH_BYTES } from './importJournal.ts';
+import type { RevisionFacts } from './storeSql.ts';
 import { checkRevision, checkTakeoff, sha256Hex } from './validate.ts';
 import type { DamagedRow } from './dutySearch.ts';
 
 export const EXPORT_FORMAT = 'pumpscribe.library-export';
-/** Page cache of the import's connection, KiB (peak memory of a 100,000-entry import stays far below 1 GiB). */
-const IMPORT_CACHE_KIB = 192 * 1024;
 export const EXPORT_VERSION = 1;
 
 const iso = z.string().min(1).max(64);
@@ -204,36 +205,28 @@ export interface ImportOptions {
   acceptFailing?: boolean;
   /** Called after each entry is written (progress). */
   onEntry?: (count: number) => void;
+  /** Called after each batch is committed, with the entries written so far (progress; tests stop here). */
+  onBatch?: (count: number) => void;
+  /** Entries per transaction (default IMPORT_BATCH_ENTRIES). */
+  batchEntries?: number;
+  /** Where the lines come from, named if the import has to be undone later (a file name, or "upload"). */
+  source?: string;
 }
 
 /**
- * Reads, checks and writes an export line by line, all inside one transaction on its own connection.
- * Throws LibraryError naming the first bad line; then nothing at all is written.
+ * Reads, checks and writes an export line by line, in batches of transactions (importJournal.ts).
+ * Throws LibraryError naming the first bad line, after removing everything the import had written:
+ * whatever happens, the import is all or nothing once it has ended (a crash is undone at the next open).
  */
-export async function importLines(store: LibraryStore, lines: AsyncIterable<string> | Iterable<string>, options: ImportOptions = {}): Promise<ImportReport> {
-  store.beforeWrite();
+export async function importLines(store: LibraryBackend, lines: AsyncIterable<string> | Iterable<string>, options: ImportOptions = {}): Promise<ImportReport> {
   const report: ImportReport = { entries_created: 0, entries_extended: 0, revisions_added: 0, revisions_already_present: 0, sheets_added: 0, takeoffs_added: 0 };
-  const ownConnection = store.file !== ':memory:';
-  let db: Database.Database;
-  try {
-    db = ownConnection ? new Database(store.file, { timeout: 10_000, fileMustExist: true }) : store.db;
-  } catch (error) {
-    throw storageFault(error, store.file) ?? error;
-  }
-  const stmts = prepareStatements(db);
-  const sheets = new SheetStore(db, store.now);
+  const batchEntries = Math.max(1, Math.trunc(options.batchEntries ?? IMPORT_BATCH_ENTRIES));
+  const session = store.beginImport(options.source ?? 'an import');
   const seenIds = new Set<string>();
-  store.importing = true;
+  let inBatch = 0;
+  let bytesInBatch = 0;
+  let written = 0;
   try {
-    if (ownConnection) {
-      db.pragma('synchronous = FULL');
-      db.pragma('foreign_keys = ON');
-    }
-    // The import's one transaction touches the duty index and the entry indexes all over: with
-    // SQLite's default 2 MiB page cache, a library of 100,000 entries reads most index pages back
-    // from the log for every entry. A larger cache keeps them in memory (bounded: IMPORT_CACHE_KIB).
-    db.pragma(`cache_size = -${IMPORT_CACHE_KIB}`);
-    db.exec('BEGIN IMMEDIATE');
     let n = 0;
     let sawHeader = false;
     for await (const raw of lines) {
@@ -259,10 +252,10 @@ export async function importLines(store: LibraryStore, lines: AsyncIterable<stri
       if (rec.kind === 'sheet') {
         const bytes = Buffer.from(rec.data_base64, 'base64');
         if (sha256Hex(bytes) !== rec.sha256) throw lineError(n, `the sheet's bytes do not match its SHA-256 ${rec.sha256}; the file is damaged.`);
-        if (sheets.put(bytes, rec.name, rec.stored_at).created) report.sheets_added += 1;
+        if (session.putSheet(bytes, rec.name, rec.stored_at)) report.sheets_added += 1;
       } else if (rec.kind === 'takeoff') {
         try {
-          if (sheets.addTakeoff(rec.sheet_sha256, rec.body, rec.name, rec.id, rec.saved_at).created) report.takeoffs_added += 1;
+          if (session.addTakeoff(rec.sheet_sha256, rec.body, rec.name, rec.id, rec.saved_at)) report.takeoffs_added += 1;
         } catch (error) {
           if (!(error instanceof LibraryError)) throw error;
           throw lineError(n, error.message);
@@ -270,7 +263,7 @@ export async function importLines(store: LibraryStore, lines: AsyncIterable<stri
       } else {
         if (seenIds.has(rec.id)) throw lineError(n, `entry ${rec.id} appears twice.`);
         seenIds.add(rec.id);
-        const revisions = [...rec.revisions].sort((a, b) => a.revision - b.revision).map((r) => {
+        const revisions = [...rec.revisions].sort((a, b) => a.revision - b.revision).map((r): ImportedRevision => {
           try {
             const facts: RevisionFacts = checkRevision(r.curveset, {
               what: `Revision ${r.revision} of entry ${rec.id}`,
@@ -282,31 +275,51 @@ export async function importLines(store: LibraryStore, lines: AsyncIterable<stri
             throw lineError(n, error instanceof Error ? error.message : String(error));
           }
         });
-        const known = store.revisionHashes(rec.id, stmts);
+        const known = session.revisionHashes(rec.id);
         if (known === null) {
-          store.insertImportedEntry(stmts, rec.id, rec.created_at, rec.archived_at, revisions);
+          session.createEntry(rec.id, rec.created_at, rec.archived_at, revisions);
           report.entries_created += 1;
           report.revisions_added += revisions.length;
         } else {
           const fresh = revisions.filter((r) => !known.has(r.facts.sha256) && (known.add(r.facts.sha256), true));
           report.revisions_already_present += revisions.length - fresh.length;
           if (fresh.length) {
-            store.appendImportedRevisions(stmts, rec.id, fresh);
+            session.appendRevisions(rec.id, fresh);
             report.entries_extended += 1;
             report.revisions_added += fresh.length;
           }
         }
-        options.onEntry?.(report.entries_created + report.entries_extended);
+        written = report.entries_created + report.entries_extended;
+        options.onEntry?.(written);
+      }
+      inBatch += 1;
+      bytesInBatch += line.length;
+      if (inBatch >= batchEntries || bytesInBatch >= IMPORT_BATCH_BYTES) {
+        session.commit();
+        inBatch = 0;
+        bytesInBatch = 0;
+        options.onBatch?.(written);
       }
     }
     if (!sawHeader) throw new LibraryError('The import is empty; give a file written by "library export".', 'invalid');
-    db.exec('COMMIT');
+    session.finish();
     return report;
   } catch (error) {
-    if (db.inTransaction) db.exec('ROLLBACK');
-    throw storageFault(error, store.file) ?? error;
-  } finally {
-    store.importing = false;
-    if (ownConnection && db.open) db.close();
+    let undone = true;
+    try {
+      session.abort();
+    } catch {
+      undone = false;
+    }
+    const fault = error instanceof LibraryError ? error : null;
+    if (!undone) {
+      const why = fault ? fault.message.replace(/\.$/, '') : error instanceof Error ? error.message : String(error);
+      throw new LibraryError(
+        `The import stopped (${why}), and what it had written could not be removed yet; it is removed the next time the library is opened for writing (for example by "library list"), and then the library is as it was before the import.`,
+        fault?.reason ?? 'invalid',
+        fault?.code,
+      );
+    }
+    throw fault ?? error;
   }
 }

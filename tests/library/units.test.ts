@@ -6,6 +6,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { copyFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { LibraryStore } from '../../src/library/store.ts';
+import { SCHEMA_VERSION } from '../../src/library/schema.ts';
 import { searchByDuty } from '../../src/library/dutySearch.ts';
 import { libraryMatcher } from '../../src/library/matcher.ts';
 import { FAMILIES, inventedCurveSet } from './fixtures.ts';
@@ -68,7 +69,7 @@ describe('a library of schema version 1', () => {
     const file = join(tmp.dir, 'v1.sqlite');
     copyFileSync(join(import.meta.dirname, 'fixtures', 'v1-library.sqlite'), file);
     const store = LibraryStore.open(file);
-    expect(store.db.pragma('user_version', { simple: true })).toBe(3);
+    expect(store.db.pragma('user_version', { simple: true })).toBe(SCHEMA_VERSION);
     // Schema 3 fills the duty card of every diameter family from its search copy.
     expect((store.db.prepare(`SELECT count(*) AS n FROM duty_cards WHERE length(card) > 0`).get() as { n: number }).n).toBe(3);
     expect(store.counts()).toEqual({ entries: 3, archived: 0, revisions: 4, sheets: 1 });

@@ -35,7 +35,9 @@ function openLibrary(file: string, create = false): LibraryStore {
   if (!create && !existsSync(path)) {
     throw new LibraryError(`There is no library file "${path}"; give --library FILE, or create one with "library add" or "library import".`, 'not-found');
   }
-  return LibraryStore.open(path);
+  const store = LibraryStore.open(path);
+  for (const notice of store.importNotices) process.stderr.write(`pumpscribe: ${notice}\n`);
+  return store;
 }
 
 /** Runs `body` on the library; a library file this command created is removed again when it fails. */
@@ -357,13 +359,13 @@ export function register(program: Command): void {
       }),
     );
 
-  withFile(library.command('import').description('add a JSON Lines export to the library, all or nothing').argument('<file>', 'file written by "library export"'))
+  withFile(library.command('import').description('add a JSON Lines export to the library, all or nothing (written in batches; a failed or killed import is removed again)').argument('<file>', 'file written by "library export"'))
     .option('--accept-failing', 'take curve sets whose checks found a fail (they are marked) even where the export does not say so')
     .action((file: string, o: LibraryFlag & { acceptFailing?: boolean }) =>
       runCommand(() => {
         if (!existsSync(file) || statSync(file).isDirectory()) throw new LibraryError(`The import file "${file}" does not exist.`, 'not-found');
         return withLibrary(o.library, true, async (store) => {
-          const report = await importLines(store, linesOf(createReadStream(file)), { acceptFailing: o.acceptFailing === true });
+          const report = await importLines(store, linesOf(createReadStream(file)), { acceptFailing: o.acceptFailing === true, source: basename(file) });
           out(
             `imported: ${report.entries_created} new entries, ${report.entries_extended} entries with new revisions, ${report.revisions_added} revisions added, ` +
               `${report.revisions_already_present} already present, ${report.sheets_added} sheets, ${report.takeoffs_added} take-off files.`,

@@ -40,7 +40,7 @@ export function transferRoutes(app: FastifyInstance, store: LibraryStore, import
       try {
         // Keep the request stream alive when reading stops early, so that the error reply still reaches the client.
         const acceptFailing = flag(request.query as Query, 'accept_failing') === true;
-        return await importLines(store, linesOf(payload.iterator({ destroyOnReturn: false }), importLimit), { acceptFailing });
+        return await importLines(store, linesOf(payload.iterator({ destroyOnReturn: false }), importLimit), { acceptFailing, source: 'an upload to the server' });
       } catch (error) {
         if (error instanceof LibraryError && error.reason === 'too-large') reply.header('Connection', 'close');
         else payload.resume();
