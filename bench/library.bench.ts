@@ -1,7 +1,8 @@
 /**
  * Office pump library at scale, on invented curve sets (not real products), side by side in one run:
  * 1. import — one JSON Lines file of N entries into a new library, by the real command line
- *    (`pumpscribe library import`) in its own process: wall time and peak RSS (target ≤ 1 GiB at 100,000);
+ *    (`pumpscribe library import`) in its own process: wall time, peak RSS (target ≤ 1 GiB at 100,000)
+ *    and peak size of the log (-wal);
  * 2. duty search at N/10 and N sets, in-process, 200 duty points (three quarters where some invented
  *    family meets them, one quarter anywhere): p50 / p95 per query
  *    - cold: each query on a freshly opened store (no parsed set in memory; the OS file cache may be warm;
@@ -10,14 +11,17 @@
  *    targets: p95 ≤ 20 ms at 10,000, p95 ≤ 50 ms cold at 100,000;
  * 3. the growth exponent from N/10 to N: log(t_N / t_N/10) / log(10) (target ≤ 0.5; 1 would be linear).
  *
- * N defaults to 100,000; set PUMPSCRIBE_BENCH_LIBRARY_N (e.g. 2000) for a quick run.
+ * N defaults to 100,000; set PUMPSCRIBE_BENCH_LIBRARY_N (e.g. 2000) for a quick run. The import line
+ * also gives the peak size of the library's log (-wal): with a transaction per batch it stays near
+ * one batch's pages, not the whole import's.
  * The generated JSON Lines files and the imported libraries are kept in bench/.cache/library/
- * (gitignored); the files are made again when missing, so a fresh machine builds them itself. The
+ * (gitignored); the files are made again when missing, so a fresh machine builds them itself, or read
+ * from PUMPSCRIBE_BENCH_LIBRARY_FILES (a folder of an earlier run's files, only read). The
  * import is run and timed every time, unless PUMPSCRIBE_BENCH_LIBRARY_REUSE=1 asks to search the
  * libraries of an earlier run (the run then says that it did not measure the import).
  */
 import { createWriteStream, existsSync, mkdirSync, renameSync, rmSync, statSync } from 'node:fs';
-import { spawnSync } from 'node:child_process';
+import { spawn } from 'node:child_process';
 import { once } from 'node:events';
 import { cpus, loadavg } from 'node:os';
 import { dirname, join } from 'node:path';
@@ -25,6 +29,7 @@ import { fileURLToPath } from 'node:url';
 import { inventedCurveSet, type InventedFamily } from '../tests/library/fixtures.ts';
 import { LibraryStore } from '../src/library/store.ts';
 import { EXPORT_FORMAT, EXPORT_VERSION } from '../src/library/transfer.ts';
+import { IMPORT_BATCH_ENTRIES } from '../src/library/importJournal.ts';
 import { searchByDuty, type Duty } from '../src/library/dutySearch.ts';
 import { libraryMatcher } from '../src/library/matcher.ts';
 import { seededRandom } from '../src/demo/random.ts';
@@ -95,18 +100,38 @@ async function writeExports(families: InventedFamily[], large: string, small: st
   renameSync(`${large}.tmp`, large);
 }
 
-/** `pumpscribe library import` in its own process, timed, with its peak RSS from /usr/bin/time. */
-function importByCommand(file: string, library: string): { seconds: number; cpuSeconds: number | null; peakMiB: number | null; out: string } {
+/**
+ * `pumpscribe library import` in its own process, timed, with its peak RSS from /usr/bin/time and
+ * the peak size of the library's log (-wal), sampled every 50 ms while it runs.
+ */
+async function importByCommand(file: string, library: string): Promise<{ seconds: number; cpuSeconds: number | null; peakMiB: number | null; walPeakMiB: number; out: string }> {
   for (const f of [library, `${library}-wal`, `${library}-shm`]) rmSync(f, { force: true });
   const args = ['--import', 'tsx', 'src/cli/main.ts', 'library', 'import', file, '--library', library];
+  const timed = existsSync('/usr/bin/time');
   const start = performance.now();
-  let r = spawnSync('/usr/bin/time', ['-f', 'PEAK_RSS_KB=%M CPU_S=%U+%S', process.execPath, ...args], { encoding: 'utf8', maxBuffer: 64 * 2 ** 20 });
-  if (r.error) r = spawnSync(process.execPath, args, { encoding: 'utf8' });
+  const child = timed ? spawn('/usr/bin/time', ['-f', 'PEAK_RSS_KB=%M CPU_S=%U+%S', process.execPath, ...args]) : spawn(process.execPath, args);
+  let stdout = '';
+  let stderr = '';
+  child.stdout.on('data', (d: Buffer) => (stdout += d.toString()));
+  child.stderr.on('data', (d: Buffer) => (stderr += d.toString()));
+  let walPeak = 0;
+  const wal = `${library}-wal`;
+  const sample = () => {
+    try {
+      walPeak = Math.max(walPeak, statSync(wal).size);
+    } catch {
+      /* not there yet */
+    }
+  };
+  const timer = setInterval(sample, 50);
+  const [status] = (await once(child, 'close')) as [number | null];
+  clearInterval(timer);
+  sample();
   const seconds = (performance.now() - start) / 1000;
-  if (r.status !== 0) throw new Error(`import failed (${r.status}): ${r.stderr}`);
-  const kb = /PEAK_RSS_KB=(\d+)/.exec(r.stderr ?? '');
-  const cpu = /CPU_S=([\d.]+)\+([\d.]+)/.exec(r.stderr ?? '');
-  return { seconds, cpuSeconds: cpu ? Number(cpu[1]) + Number(cpu[2]) : null, peakMiB: kb ? Number(kb[1]) / 1024 : null, out: r.stdout.trim() };
+  if (status !== 0) throw new Error(`import failed (${status}): ${stderr}`);
+  const kb = /PEAK_RSS_KB=(\d+)/.exec(stderr);
+  const cpu = /CPU_S=([\d.]+)\+([\d.]+)/.exec(stderr);
+  return { seconds, cpuSeconds: cpu ? Number(cpu[1]) + Number(cpu[2]) : null, peakMiB: kb ? Number(kb[1]) / 1024 : null, walPeakMiB: walPeak / 2 ** 20, out: stdout.trim() };
 }
 
 function dutiesFor(families: InventedFamily[], random: () => number): Duty[] {
@@ -183,13 +208,19 @@ export default async function (): Promise<void> {
     const families = Array.from({ length: N }, (_, i) => randomFamily(random, i));
     const t = performance.now();
     mkdirSync(CACHE, { recursive: true });
-    const largeFile = join(CACHE, `entries-${N}-g${GENERATION}.jsonl`);
-    const smallFile = join(CACHE, `entries-${N}-first-${SMALL}-g${GENERATION}.jsonl`);
+    // PUMPSCRIBE_BENCH_LIBRARY_FILES names a folder holding the JSON Lines files of an earlier run
+    // (read only; the libraries are still written to this checkout's cache).
+    const filesDir = process.env.PUMPSCRIBE_BENCH_LIBRARY_FILES || CACHE;
+    const largeFile = join(filesDir, `entries-${N}-g${GENERATION}.jsonl`);
+    const smallFile = join(filesDir, `entries-${N}-first-${SMALL}-g${GENERATION}.jsonl`);
     const cached = existsSync(largeFile) && existsSync(smallFile);
-    if (!cached) await writeExports(families, largeFile, smallFile);
+    if (!cached) {
+      if (filesDir !== CACHE) throw new Error(`PUMPSCRIBE_BENCH_LIBRARY_FILES: ${filesDir} holds no entries-${N}-g${GENERATION}.jsonl and entries-${N}-first-${SMALL}-g${GENERATION}.jsonl`);
+      await writeExports(families, largeFile, smallFile);
+    }
     process.stdout.write(
       `${cached ? 'cached' : 'generated'} ${N} and ${SMALL} invented curve sets (${(statSync(largeFile).size / 2 ** 20).toFixed(0)} MiB and ${(statSync(smallFile).size / 2 ** 20).toFixed(0)} MiB of JSON Lines)` +
-        `${cached ? ` in ${CACHE}` : ` in ${f1((performance.now() - t) / 1000)} s`}\n`,
+        `${cached ? ` in ${filesDir}` : ` in ${f1((performance.now() - t) / 1000)} s`}\n`,
     );
 
     const smallLib = join(CACHE, `library-${SMALL}-g${GENERATION}.sqlite`);
@@ -199,13 +230,14 @@ export default async function (): Promise<void> {
       // For working on the search only: the import is NOT measured in this run.
       process.stdout.write(`import NOT run (PUMPSCRIBE_BENCH_LIBRARY_REUSE=1): searching the libraries imported by an earlier run in ${CACHE}\n`);
     } else {
-      const importSmall = importByCommand(smallFile, smallLib);
-      const importLarge = importByCommand(largeFile, largeLib);
-      process.stdout.write('import by "pumpscribe library import" (own process, every set checked, one all-or-nothing transaction):\n');
+      const importSmall = await importByCommand(smallFile, smallLib);
+      const importLarge = await importByCommand(largeFile, largeLib);
+      process.stdout.write(`import by "pumpscribe library import" (own process, every set checked, a transaction per ${IMPORT_BATCH_ENTRIES} entries, undone as a whole on failure):\n`);
       for (const [n, r] of [[SMALL, importSmall], [N, importLarge]] as const) {
         process.stdout.write(
           `  ${String(n).padStart(7)} entries: ${f1(r.seconds)} s wall including start-up (${Math.round(n / r.seconds)} entries/s; ` +
-            `${r.cpuSeconds === null ? 'CPU time n/a' : `${f1(r.cpuSeconds)} s of CPU, ${Math.round(n / r.cpuSeconds)} entries per CPU-second`}), peak RSS ${rss(r.peakMiB)}` +
+            `${r.cpuSeconds === null ? 'CPU time n/a' : `${f1(r.cpuSeconds)} s of CPU, ${Math.round(n / r.cpuSeconds)} entries per CPU-second`}), peak RSS ${rss(r.peakMiB)}, ` +
+            `log (-wal) peak ${r.walPeakMiB.toFixed(0)} MiB against a library file of ${(statSync(n === N ? largeLib : smallLib).size / 2 ** 20).toFixed(0)} MiB` +
             `${n === N ? ` (target ≤ 1024 MiB: ${r.peakMiB !== null && r.peakMiB <= 1024 ? 'met' : 'NOT met'})` : ''}\n`,
         );
       }
