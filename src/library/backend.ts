@@ -8,6 +8,7 @@ import type { CurveSet } from '../model/curveset.ts';
 import type { EntryInfo, RevisionInfo, SavedRevision, StoredRevision } from './types.ts';
 import type { DutyCard } from './dutyCard.ts';
 import type { RevisionFacts } from './storeSql.ts';
+import type { VerifyReport } from './verify.ts';
 
 export interface ListOptions {
   q?: string;
@@ -73,8 +74,24 @@ export interface ImportSession {
   abort(): number;
 }
 
+/** The stored rows an export writes, read as one consistent snapshot (transfer.ts turns them into lines). */
+export interface ExportSnapshot {
+  counts: { entries: number; revisions: number; sheets: number; takeoffs: number };
+  sheets(): Iterable<{ sha256: string; name: string | null; media_type: string; stored_at: string; bytes: Buffer }>;
+  /** Take-off files with their stored text. */
+  takeoffs(): Iterable<{ id: string; sheet_sha256: string; name: string | null; saved_at: string; body: string }>;
+  /** Every revision of every entry, grouped by entry, oldest revision first. */
+  revisions(): Iterable<{ id: string; created_at: string; archived_at: string | null; revision: number; saved_at: string; sha256: string; body: string; accepted_failing: boolean }>;
+  /** Ends the snapshot (always called, also when the export stops early). */
+  close(): void;
+}
+
 export interface LibraryBackend {
   readonly readonly: boolean;
+  /** Why the library is read-only (a sentence), or null. */
+  readonly readonlyReason: string | null;
+  /** Sentences about imports that stopped before they finished, found when the library was opened. */
+  readonly importNotices: readonly string[];
   now(): string;
   create(input: unknown, options?: WriteOptions & { id?: string }): SavedRevision;
   addRevision(id: string, input: unknown, options?: WriteOptions & { expectedRevision?: number; asNewRevision?: boolean }): SavedRevision;
@@ -90,6 +107,12 @@ export interface LibraryBackend {
   dutyCount(flowM3s: number, headM: number): number;
   names(id: string): EntryNames;
   counts(): { entries: number; archived: number; revisions: number; sheets: number };
+  /** Reads every row and names each damaged one. */
+  verify(): VerifyReport;
+  /** A copy of the whole library in a new file, while it stays in use. */
+  backup(destination: string): Promise<{ pages: number }>;
+  /** A consistent snapshot of everything stored, for an export. */
+  exportSnapshot(): ExportSnapshot;
   /** Starts an import from `source` (a file name or "upload", shown if it has to be undone later). */
   beginImport(source: string): ImportSession;
   close(): void;

@@ -30,7 +30,7 @@ import { checkRevision } from './validate.ts';
 import { backfillV2, backfillV3 } from './backfill.ts';
 import { verifyLibrary, type VerifyReport } from './verify.ts';
 import { entryInfoOf, type EntryInfo, type EntryRow, type RevisionInfo, type SavedRevision, type StoredRevision } from './types.ts';
-import type { DutyIndexRow, EntryNames, ImportSession, LibraryBackend, ListOptions, WriteOptions } from './backend.ts';
+import type { DutyIndexRow, EntryNames, ExportSnapshot, ImportSession, LibraryBackend, ListOptions, WriteOptions } from './backend.ts';
 
 export type { ListOptions, WriteOptions } from './backend.ts';
 
@@ -382,6 +382,52 @@ export class LibraryStore implements LibraryBackend {
       revisions: one('SELECT count(*) AS n FROM revisions'),
       sheets: one('SELECT count(*) AS n FROM sheets'),
     };
+  }
+
+  /**
+   * The rows of an export, read on a connection of its own inside one read transaction (a
+   * consistent snapshot while this connection keeps writing); in memory or read-only, on this one.
+   */
+  exportSnapshot(): ExportSnapshot {
+    const own = this.file !== ':memory:' && !this.readonly;
+    const db = own ? new Database(this.file, { readonly: true }) : this.db;
+    if (own) db.exec('BEGIN');
+    const count = (sql: string) => (db.prepare(sql).get() as { n: number }).n;
+    try {
+      return {
+        counts: {
+          entries: count('SELECT count(*) AS n FROM entries'),
+          revisions: count('SELECT count(*) AS n FROM revisions'),
+          sheets: count('SELECT count(*) AS n FROM sheets'),
+          takeoffs: count('SELECT count(*) AS n FROM takeoffs'),
+        },
+        sheets: () =>
+          db.prepare('SELECT sha256, name, media_type, stored_at, bytes FROM sheets ORDER BY stored_at, sha256').iterate() as Iterable<{
+            sha256: string; name: string | null; media_type: string; stored_at: string; bytes: Buffer;
+          }>,
+        takeoffs: () =>
+          db.prepare('SELECT id, sheet_sha256, name, saved_at, body FROM takeoffs ORDER BY saved_at, id').iterate() as Iterable<{
+            id: string; sheet_sha256: string; name: string | null; saved_at: string; body: string;
+          }>,
+        revisions: function* () {
+          const rows = db
+            .prepare(`SELECT e.id, e.created_at, e.archived_at, r.revision, r.saved_at, r.sha256, r.body, s.accepted_failing
+              FROM entries e JOIN revisions r ON r.entry_id = e.id
+              LEFT JOIN revision_summaries s ON s.entry_id = r.entry_id AND s.revision = r.revision
+              ORDER BY e.key, r.revision`)
+            .iterate() as Iterable<{ id: string; created_at: string; archived_at: string | null; revision: number; saved_at: string; sha256: string; body: string; accepted_failing: number | null }>;
+          for (const r of rows) yield { ...r, accepted_failing: r.accepted_failing === 1 };
+        },
+        close: () => {
+          if (!own) return;
+          if (db.inTransaction) db.exec('COMMIT');
+          db.close();
+        },
+      };
+    } catch (error) {
+      if (own) db.close();
+      throw error;
+    }
   }
 
   /** Online backup to a new file, while other connections keep reading and writing. */

@@ -17,13 +17,11 @@
  * It never overwrites: new ids become new entries with their revision history; revisions of an id
  * already in the library are appended as new revisions unless the same content is already there.
  */
-import Database from 'better-sqlite3';
 import { z } from 'zod';
 import { TOOL_NAME, TOOL_VERSION } from '../version.ts';
 import { describeZodError } from '../model/errors.ts';
 import { LibraryError } from './errors.ts';
 import { isEntryId, isSha256 } from './ids.ts';
-import type { LibraryStore } from './store.ts';
 import type { ImportedRevision, LibraryBackend } from './backend.ts';
 import { IMPORT_BATCH_ENTRIES, IMPORT_BATCH_BYTES } from './importJournal.ts';
 import type { RevisionFacts } from './storeSql.ts';
@@ -97,33 +95,24 @@ export function exportProblem(body: string, sha256: string, acceptFailing: boole
 }
 
 /**
- * The export as lines (each without its newline). Reads from its own connection inside one read
- * transaction, so the export is a consistent snapshot while the server keeps taking writes.
+ * The export as lines (each without its newline), from one consistent snapshot of the store (the
+ * SQLite store reads it on its own connection inside one read transaction, while the server keeps
+ * taking writes).
  * Throws LibraryError (code `damaged-rows`) at the first row import would refuse, unless `skipDamaged`.
  */
-export function* exportLines(store: LibraryStore, options: ExportOptions = {}): Generator<string> {
-  const ownConnection = store.file !== ':memory:' && !store.readonly;
-  const db = ownConnection ? new Database(store.file, { readonly: true }) : store.db;
+export function* exportLines(store: LibraryBackend, options: ExportOptions = {}): Generator<string> {
+  const snapshot = store.exportSnapshot();
   try {
-    if (ownConnection) db.exec('BEGIN');
-    const count = (sql: string) => (db.prepare(sql).get() as { n: number }).n;
     yield JSON.stringify({
       kind: 'header',
       format: EXPORT_FORMAT,
       version: EXPORT_VERSION,
       exported_at: store.now(),
       tool: { name: TOOL_NAME, version: TOOL_VERSION },
-      counts: {
-        entries: count('SELECT count(*) AS n FROM entries'),
-        revisions: count('SELECT count(*) AS n FROM revisions'),
-        sheets: count('SELECT count(*) AS n FROM sheets'),
-        takeoffs: count('SELECT count(*) AS n FROM takeoffs'),
-      },
+      counts: snapshot.counts,
     });
     const sheetsKept = new Set<string>();
-    for (const s of db.prepare('SELECT sha256, name, media_type, stored_at, bytes FROM sheets ORDER BY stored_at, sha256').iterate() as Iterable<{
-      sha256: string; name: string | null; media_type: string; stored_at: string; bytes: Buffer;
-    }>) {
+    for (const s of snapshot.sheets()) {
       if (sha256Hex(s.bytes) !== s.sha256) {
         if (!options.skipDamaged) throw damagedError(`sheet ${s.sha256}`, 'its bytes no longer match its SHA-256');
         options.skipped?.push({ id: `sheet ${s.sha256}`, revision: 0, problem: 'its bytes no longer match its SHA-256' });
@@ -132,9 +121,7 @@ export function* exportLines(store: LibraryStore, options: ExportOptions = {}): 
       sheetsKept.add(s.sha256);
       yield JSON.stringify({ kind: 'sheet', sha256: s.sha256, name: s.name, media_type: s.media_type, stored_at: s.stored_at, data_base64: s.bytes.toString('base64') });
     }
-    for (const t of db.prepare('SELECT id, sheet_sha256, name, saved_at, body FROM takeoffs ORDER BY saved_at, id').iterate() as Iterable<{
-      id: string; sheet_sha256: string; name: string | null; saved_at: string; body: string;
-    }>) {
+    for (const t of snapshot.takeoffs()) {
       let problem: string | null = sheetsKept.has(t.sheet_sha256) ? null : 'its sheet is missing or damaged';
       if (!problem) {
         try {
@@ -150,17 +137,11 @@ export function* exportLines(store: LibraryStore, options: ExportOptions = {}): 
       }
       yield `{"kind":"takeoff","id":${JSON.stringify(t.id)},"sheet_sha256":${JSON.stringify(t.sheet_sha256)},"name":${JSON.stringify(t.name)},"saved_at":${JSON.stringify(t.saved_at)},"body":${t.body}}`;
     }
-    const rows = db
-      .prepare(`SELECT e.id, e.created_at, e.archived_at, r.revision, r.saved_at, r.sha256, r.body, s.accepted_failing
-        FROM entries e JOIN revisions r ON r.entry_id = e.id
-        LEFT JOIN revision_summaries s ON s.entry_id = r.entry_id AND s.revision = r.revision
-        ORDER BY e.key, r.revision`)
-      .iterate() as Iterable<{ id: string; created_at: string; archived_at: string | null; revision: number; saved_at: string; sha256: string; body: string; accepted_failing: number | null }>;
     let currentId: string | null = null;
     let head = '';
     let parts: string[] = [];
     let bad = false;
-    for (const r of rows) {
+    for (const r of snapshot.revisions()) {
       if (currentId !== r.id) {
         if (currentId !== null && !bad) yield `${head}${parts.join(',')}]}`;
         currentId = r.id;
@@ -169,22 +150,18 @@ export function* exportLines(store: LibraryStore, options: ExportOptions = {}): 
         parts = [];
       }
       if (bad) continue;
-      const accept = r.accepted_failing === 1;
-      const problem = exportProblem(r.body, r.sha256, accept);
+      const problem = exportProblem(r.body, r.sha256, r.accepted_failing);
       if (problem) {
         if (!options.skipDamaged) throw damagedError(`entry ${r.id} revision ${r.revision}`, problem);
         options.skipped?.push({ id: r.id, revision: r.revision, problem });
         bad = true;
         continue;
       }
-      parts.push(`{"revision":${r.revision},"saved_at":${JSON.stringify(r.saved_at)},${accept ? '"accept_failing":true,' : ''}"curveset":${r.body}}`);
+      parts.push(`{"revision":${r.revision},"saved_at":${JSON.stringify(r.saved_at)},${r.accepted_failing ? '"accept_failing":true,' : ''}"curveset":${r.body}}`);
     }
     if (currentId !== null && !bad) yield `${head}${parts.join(',')}]}`;
   } finally {
-    if (ownConnection) {
-      if (db.inTransaction) db.exec('COMMIT');
-      db.close();
-    }
+    snapshot.close();
   }
 }
 

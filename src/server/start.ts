@@ -111,6 +111,7 @@ export async function startServer(options: ServeOptions = {}): Promise<RunningSe
   if (!existsSync(join(staticDir, 'index.html'))) staticDir = '';
 
   const store = LibraryStore.open(libraryFile);
+  for (const notice of store.importNotices) say(notice);
   try {
     if (store.isNew) {
       say(`Created a new library file: ${libraryFile}`);

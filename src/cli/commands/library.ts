@@ -1,6 +1,8 @@
 /**
  * `pumpscribe library …` — the office pump library from the command line, on the same store,
  * search and export code as the server. Works while the server runs (SQLite WAL, one writer at a time).
+ * Only opening (and removing a library file a failed command created) knows the store is SQLite;
+ * every command works through LibraryBackend.
  */
 import type { Command } from 'commander';
 import { createReadStream, createWriteStream, existsSync, renameSync, statSync, unlinkSync } from 'node:fs';
@@ -8,6 +10,7 @@ import { basename, dirname, join, resolve } from 'node:path';
 import { once } from 'node:events';
 import { LibraryError } from '../../library/errors.ts';
 import { LibraryStore } from '../../library/store.ts';
+import type { LibraryBackend } from '../../library/backend.ts';
 import { searchByDuty } from '../../library/dutySearch.ts';
 import { libraryMatcher } from '../../library/matcher.ts';
 import { dutyFromDisplay, dutySearchView, matchSentence, unitSystemNamed, type DutySearchView } from '../../library/dutyView.ts';
@@ -41,7 +44,7 @@ function openLibrary(file: string, create = false): LibraryStore {
 }
 
 /** Runs `body` on the library; a library file this command created is removed again when it fails. */
-async function withLibrary<T>(file: string, create: boolean, body: (store: LibraryStore) => T | Promise<T>): Promise<T> {
+async function withLibrary<T>(file: string, create: boolean, body: (store: LibraryBackend) => T | Promise<T>): Promise<T> {
   const store = openLibrary(file, create);
   let ok = false;
   try {
@@ -58,7 +61,7 @@ async function withLibrary<T>(file: string, create: boolean, body: (store: Libra
  * Runs a command on an existing library: opens it, runs `body`, closes it; exits 0 unless `body`
  * returns another code.
  */
-function onLibrary(file: string, body: (store: LibraryStore) => void | number | Promise<void | number>): Promise<never> {
+function onLibrary(file: string, body: (store: LibraryBackend) => void | number | Promise<void | number>): Promise<never> {
   return runCommand(() => withLibrary(file, false, async (store) => (await body(store)) ?? EXIT_OK));
 }
 
@@ -176,7 +179,7 @@ export function register(program: Command): void {
             const saved = store.create(set, { acceptFailing });
             out(`added ${saved.id} revision ${saved.revision}: ${set.pump.name} (${basename(file)})`);
           }
-          out(`Library file: ${store.file}`);
+          out(`Library file: ${resolve(o.library)}`);
           return EXIT_OK;
         });
       }),
@@ -397,7 +400,7 @@ export function register(program: Command): void {
     .action((file: string, o: LibraryFlag) =>
       onLibrary(o.library, async (store) => {
         const { pages } = await store.backup(resolve(file));
-        out(`backed up ${store.file} to ${resolve(file)} (${pages} pages).`);
+        out(`backed up ${resolve(o.library)} to ${resolve(file)} (${pages} pages).`);
       }),
     );
 }

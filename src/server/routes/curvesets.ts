@@ -10,7 +10,7 @@
  * `{ id, revision, saved_at }` with `ETag: "<revision>"`; a refusal stores nothing.
  */
 import type { FastifyInstance, FastifyReply } from 'fastify';
-import type { LibraryStore } from '../../library/store.ts';
+import type { LibraryBackend } from '../../library/backend.ts';
 import type { StoredRevision } from '../../library/types.ts';
 import { LibraryError } from '../../library/errors.ts';
 import { expectedRevision, flag, integer, text, type Query } from '../query.ts';
@@ -26,7 +26,7 @@ function sendStored(reply: FastifyReply, stored: StoredRevision): FastifyReply {
   return reply.send(stored.body);
 }
 
-export function curveSetRoutes(app: FastifyInstance, store: LibraryStore): void {
+export function curveSetRoutes(app: FastifyInstance, store: LibraryBackend): void {
   app.get('/api/curvesets', async (request) => {
     const query = request.query as Query;
     const archivedFlag = text(query, 'archived');

@@ -1,11 +1,11 @@
 /** GET /api/search — rank the library's pumps for a duty point, in the unit system asked for. */
 import type { FastifyInstance } from 'fastify';
-import type { LibraryStore } from '../../library/store.ts';
+import type { LibraryBackend } from '../../library/backend.ts';
 import { searchByDuty, type DutyMatcher } from '../../library/dutySearch.ts';
 import { dutyFromDisplay, dutySearchView, unitSystemNamed } from '../../library/dutyView.ts';
 import { integer, number, required, text, type Query } from '../query.ts';
 
-export function runDutyQuery(store: LibraryStore, matcher: DutyMatcher, query: Query) {
+export function runDutyQuery(store: LibraryBackend, matcher: DutyMatcher, query: Query) {
   const units = unitSystemNamed(text(query, 'units'));
   const flow = required(number(query, 'flow', 'The flow'), 'The flow (flow=…)');
   const head = required(number(query, 'head', 'The head'), 'The head (head=…)');
@@ -22,6 +22,6 @@ export function runDutyQuery(store: LibraryStore, matcher: DutyMatcher, query: Q
   return dutySearchView(result, units);
 }
 
-export function searchRoutes(app: FastifyInstance, store: LibraryStore, matcher: DutyMatcher): void {
+export function searchRoutes(app: FastifyInstance, store: LibraryBackend, matcher: DutyMatcher): void {
   app.get('/api/search', async (request) => runDutyQuery(store, matcher, request.query as Query));
 }

@@ -4,7 +4,7 @@
  */
 import { Readable } from 'node:stream';
 import type { FastifyInstance } from 'fastify';
-import type { LibraryStore } from '../../library/store.ts';
+import type { LibraryBackend } from '../../library/backend.ts';
 import { LibraryError } from '../../library/errors.ts';
 import { linesOf } from '../../library/lines.ts';
 import { exportLines, importLines } from '../../library/transfer.ts';
@@ -12,7 +12,7 @@ import { flag, type Query } from '../query.ts';
 
 export const NDJSON_TYPES = ['application/x-ndjson', 'application/jsonl', 'application/jsonlines'];
 
-export function transferRoutes(app: FastifyInstance, store: LibraryStore, importLimit: number): void {
+export function transferRoutes(app: FastifyInstance, store: LibraryBackend, importLimit: number): void {
   app.get('/api/library/export', async (_request, reply) => {
     const stamp = store.now().slice(0, 10);
     // Every row is checked before the first byte is sent, so a refusal (damaged rows) is a clean
