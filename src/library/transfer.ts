@@ -290,9 +290,12 @@ export async function importLines(store: LibraryBackend, lines: AsyncIterable<st
     }
     const fault = error instanceof LibraryError ? error : null;
     if (!undone) {
+      // Removing rows writes too: on a full disk it may have to wait until there is room again.
       const why = fault ? fault.message.replace(/\.$/, '') : error instanceof Error ? error.message : String(error);
       throw new LibraryError(
-        `The import stopped (${why}), and what it had written could not be removed yet; it is removed the next time the library is opened for writing (for example by "library list"), and then the library is as it was before the import.`,
+        fault?.reason === 'storage-full'
+          ? 'The disk holding the library is full, so the import stopped, and what it had written so far could not be removed yet; free some space, then open the library (for example with "library list"), which removes it, and run the import again.'
+          : `The import stopped (${why}), and what it had written so far could not be removed yet; it is removed the next time the library is opened for writing (for example by "library list"), which leaves the library as it was before the import.`,
         fault?.reason ?? 'invalid',
         fault?.code,
       );

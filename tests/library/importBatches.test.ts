@@ -5,7 +5,7 @@
  * Invented pumps only (fixtures.ts).
  */
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
-import { writeFileSync } from 'node:fs';
+import { mkdirSync, writeFileSync } from 'node:fs';
 import { spawnSync } from 'node:child_process';
 import { join } from 'node:path';
 import { createHash } from 'node:crypto';
@@ -215,6 +215,46 @@ describe('an import that stopped without ending (its process gone)', () => {
     expect(again.out).toMatch(/imported: 7 new entries/);
     expect(store.counts().entries).toBe(8);
   }, 60_000);
+});
+
+const root = process.getuid?.() === 0;
+const sh = (cmd: string, args: string[]) => spawnSync(cmd, args, { stdio: 'ignore' }).status === 0;
+
+describe.skipIf(!root)('a disk that fills up during a later batch (a small tmpfs, needs root to mount)', () => {
+  it('refuses with a full-disk sentence; the batches already committed are removed (at once, or at the first open once there is room); then the import runs whole', async () => {
+    const mnt = join(tmp.dir, 'mnt');
+    mkdirSync(mnt);
+    expect(sh('mount', ['-t', 'tmpfs', '-o', 'size=3m', 'tmpfs', mnt])).toBe(true);
+    try {
+      const file = join(mnt, 'office.sqlite');
+      let target = LibraryStore.open(file, { now: () => AT });
+      target.create(setOf(300));
+      const before = snapshot(target);
+      const batches: number[] = [];
+      const lines = [HEADER, ...entryLines(400)];
+      const error = await importLines(target, lines, { batchEntries: 10, onBatch: (n) => batches.push(n) }).catch((e: unknown) => e);
+      expect(error).toBeInstanceOf(LibraryError);
+      expect((error as LibraryError).code).toBe('storage-full');
+      expect(batches.length).toBeGreaterThan(1);
+      const removedNow = /so nothing was changed; free some space and try again\.$/.test((error as Error).message);
+      if (!removedNow) {
+        // Removing rows needs room in the log too; the sentence says what happens instead.
+        expect((error as Error).message).toBe(
+          'The disk holding the library is full, so the import stopped, and what it had written so far could not be removed yet; free some space, then open the library (for example with "library list"), which removes it, and run the import again.',
+        );
+      }
+      target.close();
+      expect(sh('mount', ['-o', 'remount,size=64m', mnt])).toBe(true);
+      target = LibraryStore.open(file, { now: () => AT });
+      expect(target.importNotices.length).toBe(removedNow ? 0 : 1);
+      expect(snapshot(target)).toEqual(before);
+      expect(target.verify().damaged).toEqual([]);
+      expect((await importLines(target, lines)).entries_created).toBe(400);
+      target.close();
+    } finally {
+      sh('umount', ['-l', mnt]);
+    }
+  });
 });
 
 describe('duplicates and revisions across batches', () => {
