@@ -110,7 +110,7 @@ export function stoppedImportNotices(db: Database.Database): string[] {
     .filter((r) => r.state !== 'finished' && !isRunning(db, r))
     .map(
       (r) =>
-        `An import into this library (from "${r.source}", started ${r.started_at}) stopped before it finished; about ${r.entries} of its entries are in the library ` +
+        `An import into this library (from "${r.source}", started ${r.started_at}) stopped before it finished; ${r.entries} of its entries are in the library ` +
         'until it is opened where it can be written, which removes them.',
     );
 }

@@ -60,6 +60,19 @@ describe('import under kill -9', () => {
     reader.close();
     expect(child.exitCode).toBeNull();
     expect(seen).toBe(1 + IMPORT_BATCH_ENTRIES);
+    // Opened for writing meanwhile, the library leaves the running import alone and refuses writes.
+    const writer = LibraryStore.open(library);
+    expect(writer.importNotices).toEqual([]);
+    let refused: unknown = null;
+    try {
+      writer.create(inventedCurveSet(FAMILIES.large));
+    } catch (error) {
+      refused = error;
+    }
+    writer.close();
+    expect((refused as { code?: string }).code).toBe('import-busy');
+    expect((refused as Error).message).toMatch(/^An import into this library \(from "big\.jsonl", started .*\) is being written; nothing was changed, try again when it has finished\.$/);
+    expect(child.exitCode).toBeNull();
     child.kill('SIGKILL');
     const [code, signal] = (await once(child, 'exit')) as [number | null, string | null];
     expect(code).toBeNull();
