@@ -78,6 +78,27 @@ export function importBusyError(row: ImportRow): LibraryError {
   );
 }
 
+/**
+ * Refuses an export (a snapshot) while an import is unfinished: the snapshot would hold part of it,
+ * without the journal that lets the library remove it, so the backup would be half an import.
+ */
+export function checkNoUnfinishedImport(db: Database.Database): void {
+  const row = importRows(db).find((r) => r.state !== 'finished');
+  if (!row) return;
+  if (isRunning(db, row)) {
+    throw new LibraryError(
+      `An import into this library (from "${row.source}", started ${row.started_at}) is being written; export when it has finished, so that the export holds all of it or none.`,
+      'conflict',
+      'import-busy',
+    );
+  }
+  throw new LibraryError(
+    `An import into this library (from "${row.source}", started ${row.started_at}) stopped before it finished and is not yet removed; open the library where it can be written (for example with "library list"), which removes it, then export.`,
+    'conflict',
+    'import-busy',
+  );
+}
+
 /** True when some import is not yet cleaned up (cheap: the table is empty almost always). */
 export function anyImportRows(db: Database.Database): boolean {
   return db.prepare('SELECT 1 FROM imports LIMIT 1').get() !== undefined;

@@ -24,7 +24,7 @@ import { SheetStore } from './sheets.ts';
 import { searchCopy } from './summary.ts';
 import { decodeDutyCard } from './dutyCard.ts';
 import { insertRevisionRows, prepareStatements, summaryRow, type RevisionFacts } from './storeSql.ts';
-import { anyImportRows, importBusyError, runningImport, SqliteImport, stoppedImportNotices, undoStoppedImports } from './importJournal.ts';
+import { anyImportRows, checkNoUnfinishedImport, importBusyError, runningImport, SqliteImport, stoppedImportNotices, undoStoppedImports } from './importJournal.ts';
 import { fullDiskError, storageFault } from './storage.ts';
 import { checkRevision } from './validate.ts';
 import { backfillV2, backfillV3 } from './backfill.ts';
@@ -394,6 +394,7 @@ export class LibraryStore implements LibraryBackend {
     if (own) db.exec('BEGIN');
     const count = (sql: string) => (db.prepare(sql).get() as { n: number }).n;
     try {
+      checkNoUnfinishedImport(db);
       return {
         counts: {
           entries: count('SELECT count(*) AS n FROM entries'),

@@ -202,6 +202,7 @@ describe('an import that stopped without ending (its process gone)', () => {
     expect(reader.verify().damaged).toEqual([]);
     expect(reader.importNotices).toHaveLength(1);
     expect(reader.importNotices[0]).toMatch(/from "stopped\.jsonl".*stopped before it finished; 6 of its entries are in the library until it is opened where it can be written/);
+    expect(() => [...exportLines(reader)]).toThrow(/stopped before it finished and is not yet removed; open the library where it can be written/);
     reader.close();
 
     const r = await runLibrary('list', '--library', store.file);

@@ -11,7 +11,7 @@ import { createWriteStream, existsSync, statSync } from 'node:fs';
 import { once } from 'node:events';
 import { join } from 'node:path';
 import { LibraryStore } from '../../src/library/store.ts';
-import { EXPORT_FORMAT, EXPORT_VERSION } from '../../src/library/transfer.ts';
+import { EXPORT_FORMAT, EXPORT_VERSION, exportLines } from '../../src/library/transfer.ts';
 import { IMPORT_BATCH_ENTRIES } from '../../src/library/importJournal.ts';
 import Database from 'better-sqlite3';
 import { runLibrary } from './runCli.ts';
@@ -69,6 +69,8 @@ describe('import under kill -9', () => {
     } catch (error) {
       refused = error;
     }
+    // An export now would hold part of the import: refused with a sentence.
+    expect(() => [...exportLines(writer)]).toThrow(/is being written; export when it has finished, so that the export holds all of it or none\.$/);
     writer.close();
     expect((refused as { code?: string }).code).toBe('import-busy');
     expect((refused as Error).message).toMatch(/^An import into this library \(from "big\.jsonl", started .*\) is being written; nothing was changed, try again when it has finished\.$/);
