@@ -33,7 +33,7 @@ export interface FitLine {
   quantity: Quantity;
   /** Sheet points along the fitted curve, inside the fitted range. */
   points: readonly SheetXY[];
-  /** Sheet points beyond the captured range, drawn fainter, when shown at all. */
+  /** What the curve is, as the sheet labels it ("250 mm", "1575 rpm (90 %)"), written at its end. */
   label: string;
 }
 
@@ -196,6 +196,15 @@ function paintFits(ctx: CanvasRenderingContext2D, view: View, fits: readonly Fit
     line(ctx, view, fit.points);
     const emphasised = session.highlightedTrace !== null && fit.traceIds.includes(session.highlightedTrace);
     haloStroke(ctx, FIT_INK, emphasised ? 3 : 1.75, [7, 4]);
+  }
+  // Each fitted curve says what it is at its end, so that a curve filed under the wrong diameter
+  // or speed shows on the sheet beside the sheet's own label.
+  for (const fit of fits) {
+    const end = fit.points[fit.points.length - 1];
+    if (fit.points.length < 2 || !end || !fit.label) continue;
+    const [x, y] = toScreen(view, end);
+    ctx.font = '600 11px system-ui, sans-serif';
+    label(ctx, fit.label, x + 6, y - 4, FIT_INK);
   }
 }
 
