@@ -226,6 +226,10 @@ describe('the workbench on a sheet drawn for one impeller at several speeds', ()
     const duty = page.locator('.duty-results');
     expect(await duty.locator('.study-findings').textContent()).toMatch(/NPSH3 at \d+ rpm is the 1575 rpm curve scaled by \(n\/n_drawn\)²/);
     expect((await duty.locator('p.caution').allTextContents()).join(' ')).toMatch(/^NPSH: .*Motor: /);
+    const notes = (await duty.locator('p.hint').allTextContents()).join(' ');
+    expect(notes).toMatch(/NPSH3 at a speed is read from the drawn curve of the nearest speed at or above it/);
+    expect(notes).not.toMatch(/trim/);
+    expect(await page.locator('#step-review').textContent()).toMatch(/4 speeds, 0 failing/);
     await duty.scrollIntoViewIfNeeded();
     await user.screenshot('duty-between-two-speeds');
 

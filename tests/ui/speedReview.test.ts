@@ -17,6 +17,7 @@ import type { Draft } from '../../src/ui/store/draft.ts';
 import { toTakeoffFile } from '../../src/ui/store/takeoffFile.ts';
 import { chartUnits, memberName } from '../../src/ui/views/familyChart.ts';
 import { curveLabelText, speedWithShare } from '../../src/ui/views/words.ts';
+import { spreadLabels } from '../../src/ui/geometry/labels.ts';
 
 /** The replay reads the captured points only (`useCaptured`); a sheet that is asked for its lines fails the test. */
 function sheetNotNeeded(sha256: string): Sheet {
@@ -74,5 +75,24 @@ describe('the review of a speed family', () => {
     expect(curveLabelText({ speed: 1305 }, 'mm', 1450)).toBe('1305 rpm (90 %)');
     expect(curveLabelText({ diameter: 12.5 }, 'in')).toBe('12.5 in');
     expect(speedWithShare(2610, 2900)).toBe('2610 rpm (90 %)');
+  });
+});
+
+describe('labels at curve ends', () => {
+  it('that would overlap are moved apart; labels side by side keep their place', () => {
+    // The efficiency curves of a speed family end 30 px apart at about the same height.
+    const bunched = [1750, 1575, 1400, 1225].map((n, k) => ({ x: 300 - 30 * k, y: 40 + 0.5 * k, text: `${n} rpm` }));
+    const spread = spreadLabels(bunched, 11, 6.2);
+    const width = (l: { text: string }) => 6.2 * l.text.length;
+    for (const a of spread) {
+      for (const b of spread) {
+        if (a === b) continue;
+        const apart = a.x >= b.x + width(b) || b.x >= a.x + width(a) || Math.abs(a.y - b.y) >= 11;
+        expect(apart, `${a.text} and ${b.text}`).toBe(true);
+      }
+    }
+    expect(new Set(spread.map((l) => l.y)).size).toBeGreaterThan(1);
+    const apart = [{ x: 0, y: 40, text: '1750 rpm' }, { x: 200, y: 41, text: '1575 rpm' }];
+    expect(spreadLabels(apart, 11).map((l) => l.y)).toEqual([40, 41]);
   });
 });

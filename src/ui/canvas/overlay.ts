@@ -8,6 +8,7 @@ import type { SheetXY } from '../../model/takeoff.ts';
 import { frameOf, anchorAxis, pointsOf, type Draft, type PanelDraft, type TraceDraft } from '../store/draft.ts';
 import type { Session } from '../store/store.ts';
 import { toScreen, type View } from './view.ts';
+import { spreadLabels } from '../geometry/labels.ts';
 
 /** Ink of each quantity on the overlay (chosen to read against black and grey print). */
 export const QUANTITY_INK: Record<Quantity, string> = {
@@ -199,13 +200,15 @@ function paintFits(ctx: CanvasRenderingContext2D, view: View, fits: readonly Fit
   }
   // Each fitted curve says what it is at its end, so that a curve filed under the wrong diameter
   // or speed shows on the sheet beside the sheet's own label.
-  for (const fit of fits) {
+  // Ends that bunch (efficiency curves of a speed family end side by side) are spread apart.
+  ctx.font = '600 12px system-ui, sans-serif';
+  const ends = fits.flatMap((fit) => {
     const end = fit.points[fit.points.length - 1];
-    if (fit.points.length < 2 || !end || !fit.label) continue;
+    if (fit.points.length < 2 || !end || !fit.label) return [];
     const [x, y] = toScreen(view, end);
-    ctx.font = '600 11px system-ui, sans-serif';
-    label(ctx, fit.label, x + 6, y - 4, FIT_INK);
-  }
+    return [{ x: x + 6, y: y - 4, text: fit.label, width: ctx.measureText(fit.label).width + 8 }];
+  });
+  for (const l of spreadLabels(ends, 17, Math.max(...ends.map((e) => e.width / e.text.length), 1))) label(ctx, l.text, l.x, l.y, FIT_INK);
 }
 
 function paintPreview(ctx: CanvasRenderingContext2D, view: View, preview: Preview): void {

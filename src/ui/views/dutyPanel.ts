@@ -17,7 +17,8 @@ import type { OptionResult } from '../../study/evaluate.ts';
 import { chartUnits, type DutyOverlay } from './familyChart.ts';
 import { num, numIn, numPercent, unitText } from './words.ts';
 import { EMPTY_DUTY, formOptions, nextOption, studyOfForm, type DutyForm, type FormFamily, type StudyOptionForm } from './studyForm.ts';
-import { bracketingSpeeds } from '../../fit/speedFamily.ts';
+import { bracketingSpeeds, NPSH3_SPEED_RULE } from '../../fit/speedFamily.ts';
+import { NPSH3_TRIM_RULE } from '../../fit/affinity.ts';
 
 export { EMPTY_DUTY, type DutyForm };
 
@@ -187,5 +188,6 @@ function studyResults(set: CurveSet, result: StudyResult, service: Service, u: R
     h('p', { class: 'caution', role: 'note' }, `Motor: ${MOTOR_CAUTION}`),
     code ? h('p', { class: 'caution', role: 'note' }, code) : null,
     h('p', { class: 'caution', role: 'note' }, PRELIMINARY),
-    result.notes.map((n) => h('p', { class: 'hint' }, n)));
+    // On a speed family no impeller is trimmed: the note on NPSH3 is the speed family's rule.
+    result.notes.map((n) => h('p', { class: 'hint' }, set.family === 'speed' && n === NPSH3_TRIM_RULE ? NPSH3_SPEED_RULE : n)));
 }

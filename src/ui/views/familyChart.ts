@@ -11,6 +11,7 @@ import { chosenUnits, fromSI, niceLinearScale, unitOfQuantity, type CurveUnits, 
 import { QUANTITY_INK } from '../canvas/overlay.ts';
 import { choiceWords, curveLabelText, num, QUANTITY_NAMES, SAFETY_SENTENCE, speedWithShare, unitText } from './words.ts';
 import { membersRatedFirst } from '../../duty/speed.ts';
+import { spreadLabels } from '../geometry/labels.ts';
 
 export type ChartUnits = CurveUnits;
 
@@ -120,19 +121,4 @@ export function familyChart(set: CurveSet, choice: UnitChoice = 'own', duty?: Du
 export function memberName(set: Pick<CurveSet, 'family' | 'speed_rpm'>, m: Member, u: ChartUnits, share = false): string {
   if (set.family === 'speed' || m.diameter_m === undefined) return share ? speedWithShare(m.speed_rpm, set.speed_rpm) : curveLabelText({ speed: m.speed_rpm }, '');
   return curveLabelText({ diameter: fromSI(m.diameter_m, u.diameter) }, u.diameter.token);
-}
-
-/**
- * Curve-end labels that would overlap are moved apart: labels whose boxes would touch are
- * spread vertically (at least `gap` px between baselines), keeping their order.
- */
-export function spreadLabels(labels: readonly { x: number; y: number; text: string }[], gap: number): { x: number; y: number; text: string }[] {
-  const out = labels.map((l) => ({ ...l })).sort((a, b) => a.y - b.y);
-  for (let i = 1; i < out.length; i++) {
-    const prev = out[i - 1] as { x: number; y: number };
-    const cur = out[i] as { x: number; y: number };
-    const sideBySide = Math.abs(cur.x - prev.x) > 48;
-    if (!sideBySide && cur.y - prev.y < gap) cur.y = prev.y + gap;
-  }
-  return out;
 }
