@@ -220,6 +220,8 @@ describe('the workbench on a sheet drawn for one impeller at several speeds', ()
     expect(Math.abs(shownSpeed / exactSpeed - 1), `workbench ${shownSpeed} rpm against the exact ${exactSpeed.toFixed(1)} rpm`).toBeLessThan(0.005);
     const sentence = await page.locator('.speed-result').first().textContent();
     expect(sentence).toMatch(/^Variable speed: the pump runs at \d{4} rpm \(\d+(\.\d+)? % of the rated 1750 rpm\) at the highest static head, between the drawn 1400 rpm and 1575 rpm curves\.$/);
+    // The family chart draws the head curve at that speed through the operating point, labelled with it.
+    expect(await page.locator('.family-chart .plot-head .speed-curve-label').allTextContents()).toEqual([`${shownSpeed} rpm`]);
     const npsh3 = figure(await row.locator('td.npsh3').textContent());
     expect(npsh3).toBeGreaterThan(0);
     expect(await row.locator('td.motor').textContent()).toMatch(/kW/);

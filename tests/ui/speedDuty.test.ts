@@ -91,6 +91,21 @@ describe('the duty study of the workbench on a speed family', () => {
     expect(r.motor?.selection.rating).toBeDefined();
   });
 
+  it('draws the head curve at the operating speed through the operating point on the family chart', () => {
+    const outcome = runDuty(set, DUTY, 'own');
+    if (!outcome || !('result' in outcome)) throw new Error('the duty should run');
+    const speed = outcome.result.ranked[0]!.speed_rpm as number;
+    const curves = outcome.overlay.curves ?? [];
+    expect(curves.map((c) => c.label)).toEqual([`Variable speed: ${Math.round(speed)} rpm`]);
+    // The curve passes through the duty (80 m³/h, 13 m) within 0.5 % of head, read between its two nearest drawn points.
+    const q = 80 / 3600;
+    const pts = curves[0]!.points;
+    const k = pts.findIndex((p) => p[0] >= q);
+    const [a, b] = [pts[k - 1]!, pts[k]!];
+    const h = a[1] + ((b[1] - a[1]) * (q - a[0])) / (b[0] - a[0]);
+    expect(Math.abs(h / 13 - 1)).toBeLessThan(0.005);
+  });
+
   it('refuses an option that still asks for a trim, with the study\'s sentence', () => {
     const outcome = runDuty(set, { ...DUTY, options: [FIRST_OPTION] }, 'own');
     expect(outcome && 'error' in outcome ? outcome.error : '').toMatch(/speed family .* no impeller trim/);

@@ -9,6 +9,8 @@
 import { h } from '../dom/h.ts';
 import { NPSH_CAUTION, MOTOR_CAUTION, PRELIMINARY, SERVICES, serviceCaution, type Service } from '../../duty/cautions.ts';
 import { systemHead } from '../../duty/systemCurve.ts';
+import { curveAtSpeedInFamily } from '../../duty/speed.ts';
+import { parallelPumps, pumpCurveAtSpeed } from '../../duty/pumpCurve.ts';
 import type { CurveSet } from '../../model/curveset.ts';
 import { NOT_AVAILABLE, type UnitChoice } from '../../units/index.ts';
 import { linspace } from '../../fit/polynomial.ts';
@@ -56,7 +58,30 @@ function overlayOf(set: CurveSet, result: StudyResult): DutyOverlay {
     const ok = !r.findings.some((f) => f.severity === 'fail' && /NPSH/.test(f.message));
     for (const [key, op] of Object.entries(r.operating_points)) if (op) points.push({ label: `${r.name}, ${key} static`, flow: op.flow_m3s, head: op.head_m, npshMarginOk: ok });
   }
-  return { system: best.systems.low.static_head_m === best.systems.high.static_head_m ? low : [...low, ...high], points };
+  return { system: best.systems.low.static_head_m === best.systems.high.static_head_m ? low : [...low, ...high], points, curves: speedCurves(set, result) };
+}
+
+/**
+ * The head curve each variable-speed option runs on at the highest static head (its pumps
+ * combined), so that its operating point is seen on a curve: on a speed family the drawn curve
+ * nearest in speed scaled by the affinity law (src/duty/speed.ts), else the option's own curve.
+ */
+function speedCurves(set: CurveSet, result: StudyResult): NonNullable<DutyOverlay['curves']> {
+  const curves: NonNullable<DutyOverlay['curves']> = [];
+  for (const r of result.ranked) {
+    const speed = r.operating_points.high?.speed_rpm;
+    if (r.control !== 'speed' || speed === undefined) continue;
+    try {
+      const single = set.family === 'speed' && !r.viscous ? curveAtSpeedInFamily(set, speed).curve : r.curve ? pumpCurveAtSpeed(r.curve, speed) : undefined;
+      if (!single) continue;
+      const combined = parallelPumps(single, r.pumps);
+      const points = linspace(combined.domain[0], combined.domain[1], 40).map((q) => [q, combined.head(q)] as [number, number]);
+      curves.push({ label: `${r.name}: ${num(speed, 4)} rpm`, points });
+    } catch {
+      // A curve that cannot be drawn is left out; the table and its findings still say why.
+    }
+  }
+  return curves;
 }
 
 function input(id: string, label: string, value: string, unit: string, onchange: (v: string) => void, hint?: string): HTMLElement {

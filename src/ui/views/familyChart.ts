@@ -31,6 +31,8 @@ export interface DutyOverlay {
   system: [number, number][];
   /** Operating point per diameter, SI. */
   points: { label: string; flow: number; head: number; npshMarginOk?: boolean }[];
+  /** Head curves at the speeds variable-speed options run at: [flow m³/s, head m] points, labelled with their speed. */
+  curves?: { label: string; points: [number, number][] }[];
 }
 
 /** The chart's layout in SVG pixels: width, plot height, gap between plots, margins. */
@@ -65,7 +67,7 @@ export function familyChart(set: CurveSet, choice: UnitChoice = 'own', duty?: Du
       const fit = m.curves[q]?.fit;
       return fit ? linspace(fit.domain[0], fit.domain[1], 40).map((f) => fromSI(evaluateUnchecked(fit, f), unit)) : [];
     });
-    if (q === 'head' && duty) values.push(...duty.system.map((p) => fromSI(p[1], unit)));
+    if (q === 'head' && duty) values.push(...duty.system.map((p) => fromSI(p[1], unit)), ...(duty.curves ?? []).flatMap((c) => c.points.map((p) => fromSI(p[1], unit))));
     const ys = niceLinearScale(Math.min(0, ...values), Math.max(...values), [top + PLOT_H, top], 4);
     const y = (vSI: number) => ys.map(fromSI(vSI, unit));
     const g = svg('g', { class: `plot plot-${q}` });
@@ -81,7 +83,7 @@ export function familyChart(set: CurveSet, choice: UnitChoice = 'own', duty?: Du
       if (row === quantities.length - 1) g.append(svg('text', { x: xx, y: top + PLOT_H + 14, class: 'tick', 'text-anchor': 'middle' }, num(t, 4)));
     }
     g.append(svg('text', { x: 8, y: top + 12, class: 'axis-title' }, `${QUANTITY_NAMES[q]} [${unitText(unit.label || unit.token)}]`));
-    const labels: { x: number; y: number; text: string }[] = [];
+    const labels: { x: number; y: number; text: string; speed?: true }[] = [];
     members.forEach((m, k) => {
       const fit = m.curves[q]?.fit;
       if (!fit) return;
@@ -92,7 +94,12 @@ export function familyChart(set: CurveSet, choice: UnitChoice = 'own', duty?: Du
       const end = fit.domain[1];
       labels.push({ x: x(end) + 4, y: y(evaluateUnchecked(fit, end)) + 4, text: memberName(set, m, u) });
     });
-    for (const l of spreadLabels(labels, 11)) g.append(svg('text', { x: l.x, y: l.y, class: 'curve-label' }, l.text));
+    // The curve a variable-speed option runs on is labelled with its speed among the drawn ones.
+    for (const c of q === 'head' ? (duty?.curves ?? []) : []) {
+      const end = c.points[c.points.length - 1];
+      if (end) labels.push({ x: x(end[0]) + 4, y: y(end[1]) + 4, text: c.label.replace(/^.*: /, ''), speed: true });
+    }
+    for (const l of spreadLabels(labels, 11)) g.append(svg('text', { x: l.x, y: l.y, class: l.speed ? 'curve-label speed-curve-label' : 'curve-label' }, l.text));
     if (q === 'head') {
       for (const m of members) {
         const bep = m.derived.bep;
@@ -100,6 +107,11 @@ export function familyChart(set: CurveSet, choice: UnitChoice = 'own', duty?: Du
       }
       if (duty) {
         g.append(svg('polyline', { points: polylinePoints(duty.system.map((p) => [x(p[0]), y(p[1])] as const)), class: 'system-curve' }));
+        for (const c of duty.curves ?? []) {
+          const end = c.points[c.points.length - 1];
+          if (!end) continue;
+          g.append(svg('polyline', { points: polylinePoints(c.points.map((p) => [x(p[0]), y(p[1])] as const)), class: 'speed-curve' }, svg('title', null, c.label)));
+        }
         for (const p of duty.points) g.append(svg('rect', { x: x(p.flow) - 4, y: y(p.head) - 4, width: 8, height: 8, class: `op-point${p.npshMarginOk === false ? ' short' : ''}` }, svg('title', null, `Operating point ${p.label}: ${num(fromSI(p.flow, u.flow))} ${unitText(u.flow.label)}, ${num(fromSI(p.head, u.head))} ${u.head.label}`)));
       }
     }
