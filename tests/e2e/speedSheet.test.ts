@@ -246,6 +246,26 @@ describe('the workbench on a sheet drawn for one impeller at several speeds', ()
     await user.click(page.locator('#save-library'), 'save to the library');
     await page.waitForFunction(() => /^Saved to the library as /.test(document.querySelector('#message')?.textContent ?? '') || document.querySelector('#message.error') !== null, null, { timeout: 30_000 });
     expect(await page.textContent('#message')).toMatch(/^Saved to the library as \S+, revision 1\./);
+    const entry = /as (\S+), revision/.exec((await page.textContent('#message')) ?? '')![1]!;
+    // The library's pages in another tab: the entry is a speed family, compared at the duty by its speed, not by a trim.
+    const library = await live.browser.context.newPage();
+    try {
+      await library.goto(`${live.server.url}#/library`);
+      await library.waitForSelector(`tr[data-key="${entry}"]`, { timeout: 30_000 });
+      expect(await library.locator(`tr[data-key="${entry}"] td`).nth(2).textContent()).toBe('one impeller drawn at several speeds');
+      await library.goto(`${live.server.url}#/compare?ids=${entry}&units=si&flow=${flow}&head=${head}`);
+      await library.waitForSelector('table.compare tbody tr', { timeout: 30_000 });
+      const cells = await library.locator('table.compare tbody tr td').allTextContents();
+      const headers = await library.locator('table.compare thead th').allTextContents();
+      const speedCell = Number(cells[headers.indexOf('Speed [rpm]') - 1]);
+      expect(speedCell).toBeGreaterThan(1225);
+      expect(speedCell).toBeLessThan(1750);
+      expect(cells[headers.indexOf('Trim [%]') - 1]).toBe('not available');
+      expect(await library.locator('table.compare caption').textContent()).toMatch(/runs at the speed that meets it, without a trim/);
+      await new User(library, join(dir, 'library')).screenshot('compare-speed-family');
+    } finally {
+      await library.close();
+    }
     const takeoff = JSON.parse(readFileSync(files.takeoff!, 'utf8')) as { traces: { speed?: number; diameter?: number }[]; pump: { speed_rpm: number } };
     expect(takeoff.pump.speed_rpm).toBe(family.speed);
     expect(takeoff.traces.every((t) => t.speed !== undefined && t.diameter === undefined)).toBe(true);
