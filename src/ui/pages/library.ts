@@ -190,7 +190,7 @@ async function showCompare(root: HTMLElement, p: URLSearchParams): Promise<void>
     const duty = hasDuty ? { flow_m3s: toSI(flow, u.flow), head_m: toSI(head, u.head) } : null;
     const problem = problems.length ? h('p', { class: 'cal bad', role: 'alert' }, problems.join(' ')) : null;
     const rows = sets.map(({ id, set }) => ({ id, set, match: duty ? meetDuty(set, duty) : null }));
-    root.replaceChildren(frame(`Compare ${sets.length} pump${sets.length === 1 ? "" : "s"}`,
+    root.replaceChildren(frame(`Compare ${sets.length} pump${sets.length === 1 ? '' : 's'}`,
       h('form', { class: 'library-search', onsubmit: (e: Event) => {
         e.preventDefault();
         const f = new FormData(e.target as HTMLFormElement);
