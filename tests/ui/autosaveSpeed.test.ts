@@ -14,7 +14,7 @@ import { describe, expect, it } from 'vitest';
 import { AUTOSAVE_FORMAT, AUTOSAVE_VERSION, migrateSaved } from '../../src/ui/persist/records.ts';
 import { Store } from '../../src/ui/store/store.ts';
 import { addTrace } from '../../src/ui/store/actions/traces.ts';
-import { targetFor, targetProblem, nextTarget, withLabel, curveTarget } from '../../src/ui/store/target.ts';
+import { curveTarget, nextTarget, sharedCurves, sharedCurveSentence, targetFor, targetName, targetProblem, tracesOfCurve, withLabel } from '../../src/ui/store/target.ts';
 import { toTakeoffFile } from '../../src/ui/store/takeoffFile.ts';
 import { traceStep } from '../../src/ui/steps/trace.ts';
 import { draftWithPanel } from './fixtures.ts';
@@ -105,6 +105,17 @@ describe('the trace target names a diameter or a speed, as the take-off file doe
     const store = new Store(speedDraft());
     store.dispatch(addTrace({ panel: 'head-1', quantity: 'head', speed: 1450 }, [[1, 1]], [[1, 1]]));
     expect(nextTarget(store.draft, { quantity: 'head', lines: 'curve', speed: 1450 })).toEqual({ quantity: 'head', lines: 'curve', speed: 1200 });
+  });
+
+  it('says when two traces are filed under one speed, naming the speed', () => {
+    const store = new Store(speedDraft());
+    store.dispatch(addTrace({ panel: 'head-1', quantity: 'head', speed: 1450 }, [[1, 1]], [[1, 1], [2, 2]]));
+    store.dispatch(addTrace({ panel: 'head-1', quantity: 'head', speed: 1450 }, [[3, 3]], [[3, 3], [4, 4]]));
+    const shared = sharedCurves(store.draft);
+    expect(shared).toEqual([{ quantity: 'head', speed: 1450, ids: ['t1', 't2'] }]);
+    expect(sharedCurveSentence(shared[0]!, 'mm')).toBe('Head 1450 rpm has 2 traces (t1, t2); their points are fitted together as one curve. If one belongs to another speed, relabel or delete it.');
+    expect(tracesOfCurve(store.draft, { quantity: 'head', lines: 'curve', speed: 1450 }).map((t) => t.id)).toEqual(['t1', 't2']);
+    expect(targetName({ quantity: 'head', lines: 'curve', speed: 1450 }, store.draft.units)).toBe('head curve of 1450 rpm');
   });
 
   it('refuses a label of the other kind with a sentence', () => {
