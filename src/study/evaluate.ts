@@ -21,7 +21,7 @@ import { curveAtDiameter, TRIM_SEARCH_FLOOR } from '../duty/meetDuty.ts';
 import { trimToDuty } from '../duty/trim.ts';
 import { parallelPumps, pumpCurveAtSpeed, pumpCurveOfMember, type PumpCurve } from '../duty/pumpCurve.ts';
 import { figuresAt, operatingPoint, type PointFigures } from '../duty/operatingPoint.ts';
-import { ratedMember, SPEED_FAMILY_NO_TRIM, speedToDuty, speedToDutyInFamily } from '../duty/speed.ts';
+import { curveAtSpeedInFamily, ratedMember, SPEED_FAMILY_NO_TRIM, speedToDuty, speedToDutyInFamily } from '../duty/speed.ts';
 import { systemHead, type SystemCurve } from '../duty/systemCurve.ts';
 import { runLoss, runsLoss, systemFromLoss, type LiquidFlowProps } from '../duty/pipeRun.ts';
 import { resolveSite } from '../duty/site.ts';
@@ -229,7 +229,10 @@ function npshSection(o: ResolvedOption, resolved: ReturnType<typeof resolveSite>
     ...(last ? { velocity_head_at: (q: number) => (((4 * q) / (Math.PI * last.diameter_m ** 2)) ** 2) / (2 * STANDARD_GRAVITY) } : {}),
   };
   const rule = npshMarginRule(o.application, familyFigures(set).nss_us);
-  const runCurve = runSpeed < single.speed_rpm * (1 - 1e-12) ? pumpCurveAtSpeed(single, runSpeed) : single;
+  // On a speed family (water) NPSH3 at a reduced speed comes from the nearest drawn speed at or
+  // above it (src/duty/speed.ts, as the duty check reads it), not from the rated curve scaled.
+  const atSpeed = (n: number) => (set.family === 'speed' && !result.viscous ? curveAtSpeedInFamily(set, n, resolved.density_kg_m3).curve : pumpCurveAtSpeed(single, n));
+  const runCurve = runSpeed < single.speed_rpm * (1 - 1e-12) ? atSpeed(runSpeed) : single;
   const alone = operatingPoint(runCurve, sysLow);
   const runOutBasis = alone.status === 'beyond-end-of-curve' ? 'run-out taken at the end of the curve: one pump alone would run past it' : `run-out: one pump ${o.pumps > 1 ? 'of the set ' : ''}running alone at the lowest static head, valve open${o.control === 'speed' ? ', at the highest speed used' : ''}`;
   if (alone.status === 'beyond-end-of-curve') findings.push({ severity: 'warn', message: 'One pump alone at the lowest static head would run beyond the end of its curve; run-out is judged at the end of the curve.' });
@@ -240,7 +243,7 @@ function npshSection(o: ResolvedOption, resolved: ReturnType<typeof resolveSite>
   const lo = Math.max(runCurve.domain[0], Math.min(...minFlows));
   const hi = Math.max(lo, Math.min(runCurve.domain[1], Math.max(runOutFlow, qd)));
   const out: NonNullable<OptionResult['npsh']> = { rule_basis: rule.basis, run_out_basis: runOutBasis };
-  const dutyCurve = o.control === 'speed' && result.speed_rpm ? pumpCurveAtSpeed(single, result.speed_rpm) : single;
+  const dutyCurve = o.control === 'speed' && result.speed_rpm ? atSpeed(result.speed_rpm) : single;
   if (!single.npshr) {
     findings.push({ severity: 'warn', message: 'The curve set has no NPSH3 curve, so the NPSH margin cannot be judged.' });
     return out;

@@ -269,7 +269,7 @@ describe('documents in the workbench', () => {
     const victim = sample.takeoff.traces.find((t) => t.quantity === 'head' && t.diameter === 12)!;
     await page.getByRole('button', { name: `Delete head 12 in`, exact: true }).click();
     await settle(page);
-    expect(await wb(page, (w) => w.store.session.target)).toMatchObject({ quantity: 'head', lines: 'diameter', diameter: 12 });
+    expect(await wb(page, (w) => w.store.session.target)).toMatchObject({ quantity: 'head', lines: 'curve', diameter: 12 });
     await user.screenshot('deleted-head-12');
     await page.locator('.stage').focus();
     await page.click('[data-key="d-12"]');

@@ -12,7 +12,7 @@ import { refusalSentence, LibraryAnswerError } from '../../src/ui/app/downloads.
 import { draftWithPanel } from './fixtures.ts';
 
 function saved(id: string, savedAt: string, extra: Partial<SavedDocument> = {}): SavedDocument {
-  return { format: AUTOSAVE_FORMAT, version: AUTOSAVE_VERSION, id, savedAt, draft: draftWithPanel(), library: null, step: 'trace', target: { quantity: 'head', lines: 'diameter' }, unitSystem: 'si', sheetKey: 'a'.repeat(64), ...extra };
+  return { format: AUTOSAVE_FORMAT, version: AUTOSAVE_VERSION, id, savedAt, draft: draftWithPanel(), library: null, step: 'trace', target: { quantity: 'head', lines: 'curve' }, unitSystem: 'si', sheetKey: 'a'.repeat(64), ...extra };
 }
 
 describe('the document in the store', () => {
@@ -61,7 +61,7 @@ describe('kept records', () => {
     const { path: _path, ...oldSheet } = sheet!;
     const v1 = { format: AUTOSAVE_FORMAT, version: 1, savedAt: '2026-01-01T00:00:00Z', draft: { ...rest, sheet: oldSheet, notes: [] }, step: 'trace', target: { quantity: 'head', lines: 'diameter' }, sheetKey: 'a'.repeat(64) };
     const doc = migrateSaved(v1, () => 'new-id')!;
-    expect(doc).toMatchObject({ version: 2, id: 'new-id', library: null, step: 'trace', unitSystem: 'si' });
+    expect(doc).toMatchObject({ version: AUTOSAVE_VERSION, id: 'new-id', library: null, step: 'trace', unitSystem: 'si', target: { quantity: 'head', lines: 'curve' } });
     expect(doc.draft.sheet).toMatchObject({ path: 'invented.pdf', name: 'invented.pdf' });
     expect(doc.draft.sheet_sha256).toBe('a'.repeat(64));
     expect(doc.draft.notes).toBeUndefined();
@@ -69,7 +69,7 @@ describe('kept records', () => {
 
   it('refuse what is not theirs to read: another format, a newer version, a damaged record', () => {
     expect(migrateSaved(null, () => 'x')).toBeNull();
-    expect(migrateSaved({ ...saved('a', '2026'), version: 3 }, () => 'x')).toBeNull();
+    expect(migrateSaved({ ...saved('a', '2026'), version: AUTOSAVE_VERSION + 1 }, () => 'x')).toBeNull();
     expect(migrateSaved({ ...saved('a', '2026'), format: 'other' }, () => 'x')).toBeNull();
     expect(migrateSaved({ ...saved('a', '2026'), draft: { traces: 3 } }, () => 'x')).toBeNull();
     expect(migrateSaved(saved('a', '2026'), () => 'x')?.id).toBe('a');

@@ -95,7 +95,7 @@ describe('the anchor tool', () => {
 describe('the trace tool', () => {
   it('a click traces the target curve at once and proposes the next diameter', async () => {
     const host = new FakeHost(draftWithPanel());
-    host.store.setSession({ target: { quantity: 'head', lines: 'diameter', diameter: 330 } });
+    host.store.setSession({ target: { quantity: 'head', lines: 'curve', diameter: 330 } });
     const tool = new TraceTool(host);
     expect(tool.status()).toBe('Click on the head curve of 330 mm to trace it.');
     tool.down(pointer(300, 200));
@@ -110,7 +110,7 @@ describe('the trace tool', () => {
 
   it('Shift-click adds a guide to the last trace, in order along the flow axis, and traces again', async () => {
     const host = new FakeHost(draftWithPanel());
-    host.store.setSession({ target: { quantity: 'head', lines: 'diameter', diameter: 330 } });
+    host.store.setSession({ target: { quantity: 'head', lines: 'curve', diameter: 330 } });
     const tool = new TraceTool(host);
     tool.down(pointer(300, 200));
     await settle();
@@ -123,7 +123,7 @@ describe('the trace tool', () => {
 
   it('a click right on a traced line picks that trace instead of tracing it twice', async () => {
     const host = new FakeHost(draftWithPanel());
-    host.store.setSession({ target: { quantity: 'head', lines: 'diameter', diameter: 330 } });
+    host.store.setSession({ target: { quantity: 'head', lines: 'curve', diameter: 330 } });
     const tool = new TraceTool(host);
     tool.down(pointer(300, 200));
     await settle();
@@ -136,7 +136,7 @@ describe('the trace tool', () => {
 
   it('on the selected trace, dragging a point moves it, a press without a move only selects it, Delete removes it', async () => {
     const host = new FakeHost(draftWithPanel());
-    host.store.setSession({ target: { quantity: 'head', lines: 'diameter', diameter: 330 } });
+    host.store.setSession({ target: { quantity: 'head', lines: 'curve', diameter: 330 } });
     const tool = new TraceTool(host);
     tool.down(pointer(300, 200));
     await settle();
@@ -157,7 +157,7 @@ describe('the trace tool', () => {
   it('a guide that finds no line alone is kept, and the status line says how to go on', async () => {
     const host = new FakeHost(draftWithPanel());
     host.tracer = (g) => (g.length < 2 ? [] : [[g[0]![0], g[0]![1]], [g[1]![0], g[1]![1]]]);
-    host.store.setSession({ target: { quantity: 'head', lines: 'diameter', diameter: 330 } });
+    host.store.setSession({ target: { quantity: 'head', lines: 'curve', diameter: 330 } });
     const tool = new TraceTool(host);
     tool.down(pointer(300, 200));
     await settle();
@@ -170,7 +170,7 @@ describe('the trace tool', () => {
 
   it('says what is missing instead of tracing when no diameter is known', async () => {
     const host = new FakeHost(draftWithPanel({ diameters: [] }));
-    host.store.setSession({ target: { quantity: 'head', lines: 'diameter' } });
+    host.store.setSession({ target: { quantity: 'head', lines: 'curve' } });
     const tool = new TraceTool(host);
     tool.down(pointer(300, 200));
     await settle();

@@ -59,7 +59,7 @@ describe('units shown', () => {
 
   it('a kept document with a unit choice this version does not know opens in the sheet\'s own units', () => {
     const draft = { ...draftWithPanel(), units: { flow: 'L/s', head: 'm', diameter: 'mm' } };
-    const raw = { format: AUTOSAVE_FORMAT, version: AUTOSAVE_VERSION, id: 'a', savedAt: '2026', draft, library: null, step: 'trace', target: { quantity: 'head', lines: 'diameter' }, unitSystem: 'imperial', sheetKey: null };
+    const raw = { format: AUTOSAVE_FORMAT, version: AUTOSAVE_VERSION, id: 'a', savedAt: '2026', draft, library: null, step: 'trace', target: { quantity: 'head', lines: 'curve' }, unitSystem: 'imperial', sheetKey: null };
     expect(migrateSaved(raw, () => 'x')?.unitSystem).toBe('own');
   });
 });

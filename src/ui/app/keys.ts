@@ -4,8 +4,8 @@
  */
 import type { Quantity } from '../../model/curveset.ts';
 import { STEP_DEFINITIONS } from '../steps/registry.ts';
-import { targetFor } from '../store/target.ts';
-import { familyLabels } from '../store/draft.ts';
+import { targetFor, withLabel } from '../store/target.ts';
+import { familyLabels, labelOf } from '../store/draft.ts';
 import type { Store, Step } from '../store/store.ts';
 import type { Tool } from '../tools/tool.ts';
 
@@ -108,10 +108,10 @@ export function bindKeys(bench: KeysHost): void {
       case ']': {
         const { draft, session } = store;
         const list = familyLabels(draft);
-        if (list.length === 0 || session.target.lines !== 'diameter') return;
-        const at = list.indexOf(session.target.diameter ?? NaN);
+        if (list.length === 0 || session.target.lines !== 'curve') return;
+        const at = list.indexOf(labelOf(session.target) ?? NaN);
         const next = list[(at + (event.key === ']' ? 1 : -1) + list.length) % list.length];
-        if (next !== undefined) store.setSession({ target: { ...session.target, diameter: next } });
+        if (next !== undefined) store.setSession({ target: withLabel(draft, session.target, next) });
         break;
       }
       default: {

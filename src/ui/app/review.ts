@@ -13,6 +13,7 @@ import type { SheetXY, Takeoff, Trace } from '../../model/takeoff.ts';
 import { fromSI, toSI, type Unit } from '../../units/index.ts';
 import type { FitLine } from '../canvas/overlay.ts';
 import { pointsOf, type Draft } from '../store/draft.ts';
+import { curveLabelText } from '../views/words.ts';
 
 export interface TraceResidual {
   traceId: string;
@@ -67,7 +68,7 @@ export function traceResiduals(draft: Draft, takeoff: Takeoff, set: CurveSet, ca
     if (!cal || !drafted) continue;
     const u = traceUnits(takeoff, units, trace);
     if (trace.iso === undefined) {
-      const member = trace.diameter !== undefined ? memberOf(set, traceMembers, id) : undefined;
+      const member = curveLabel(trace) !== undefined ? memberOf(set, traceMembers, id) : undefined;
       const fit = member?.curves[trace.quantity]?.fit;
       if (!fit) continue;
       const residuals = pointsOf(drafted)
@@ -81,7 +82,7 @@ export function traceResiduals(draft: Draft, takeoff: Takeoff, set: CurveSet, ca
     }
     // An iso-trace: where it crosses each head trace, the fitted curve should read the iso value.
     const heads = takeoff.traces
-      .filter((t) => t.panel === trace.panel && t.quantity === 'head' && t.iso === undefined && t.diameter !== undefined)
+      .filter((t) => t.panel === trace.panel && t.quantity === 'head' && t.iso === undefined && curveLabel(t) !== undefined)
       .map((t) => ({ key: t, points: asSheetPoints(pointsOf(byId.get(t.id as string) ?? drafted)) }));
     const residuals: number[] = [];
     let anyFit: PolynomialFit | undefined;
@@ -102,14 +103,19 @@ export function traceResiduals(draft: Draft, takeoff: Takeoff, set: CurveSet, ca
   return out;
 }
 
-/** The fitted curves drawn back onto the panels they were read from. */
+/** A curve trace's label: its diameter, or its speed on a sheet of speeds; undefined for iso-lines and limit lines. */
+function curveLabel(t: Pick<Trace, 'diameter' | 'speed'>): number | undefined {
+  return t.diameter ?? t.speed;
+}
+
+/** The fitted curves drawn back onto the panels they were read from, each labelled as the sheet labels it ("250 mm", "1575 rpm (90 %)"). */
 export function fitLinesOnSheet(takeoff: Takeoff, set: CurveSet, calibrations: ReadonlyMap<string, Calibration>, traceMembers: TraceMembers): FitLine[] {
   const units = resolveTakeoffUnits(takeoff);
   const lines: FitLine[] = [];
   const groups = new Map<string, Trace[]>();
   for (const t of takeoff.traces) {
-    if (t.iso !== undefined || t.diameter === undefined) continue;
-    const key = `${t.panel}|${t.quantity}|${t.diameter}`;
+    if (t.iso !== undefined || curveLabel(t) === undefined) continue;
+    const key = `${t.panel}|${t.quantity}|${t.diameter ?? ''}|${t.speed ?? ''}`;
     groups.set(key, [...(groups.get(key) ?? []), t]);
   }
   for (const traces of groups.values()) {
@@ -128,7 +134,7 @@ export function fitLinesOnSheet(takeoff: Takeoff, set: CurveSet, calibrations: R
         // A value that cannot sit on a log axis is simply not drawn.
       }
     }
-    lines.push({ traceIds: traces.map((t) => t.id as string), quantity: first.quantity, points, label: `${first.quantity} ${first.diameter}` });
+    lines.push({ traceIds: traces.map((t) => t.id as string), quantity: first.quantity, points, label: curveLabelText(first, takeoff.units.diameter, first.speed !== undefined ? takeoff.pump.speed_rpm : undefined) });
   }
   return lines;
 }

@@ -239,7 +239,7 @@ export class Workbench implements Bench {
     this.parts.chart.hidden = !showChart;
     if (showChart && this.derived.curveSet) {
       const highlighted = this.store.draft.traces.find((t) => t.id === this.store.session.highlightedTrace);
-      const highlight = highlighted?.diameter !== undefined ? { diameter_m: this.diameterSI(highlighted.diameter), quantity: highlighted.quantity } : null;
+      const highlight = highlighted?.diameter !== undefined ? { diameter_m: this.diameterSI(highlighted.diameter), quantity: highlighted.quantity } : highlighted?.speed !== undefined ? { speed_rpm: highlighted.speed, quantity: highlighted.quantity } : null;
       const outcome = this.duty.outcome;
       const overlay = outcome && 'overlay' in outcome ? outcome.overlay : null;
       morph(this.parts.chart, h('section', { class: 'chart-pane', 'aria-label': 'Family chart' }, h('h3', null, overlay ? 'Family chart with the duty' : 'Family chart'), familyChart(this.derived.curveSet, this.store.session.unitSystem, overlay, highlight)));

@@ -8,6 +8,7 @@ import type { SheetXY } from '../../model/takeoff.ts';
 import { frameOf, anchorAxis, pointsOf, type Draft, type PanelDraft, type TraceDraft } from '../store/draft.ts';
 import type { Session } from '../store/store.ts';
 import { toScreen, type View } from './view.ts';
+import { spreadLabels } from '../geometry/labels.ts';
 
 /** Ink of each quantity on the overlay (chosen to read against black and grey print). */
 export const QUANTITY_INK: Record<Quantity, string> = {
@@ -33,7 +34,7 @@ export interface FitLine {
   quantity: Quantity;
   /** Sheet points along the fitted curve, inside the fitted range. */
   points: readonly SheetXY[];
-  /** Sheet points beyond the captured range, drawn fainter, when shown at all. */
+  /** What the curve is, as the sheet labels it ("250 mm", "1575 rpm (90 %)"), written at its end. */
   label: string;
 }
 
@@ -197,6 +198,17 @@ function paintFits(ctx: CanvasRenderingContext2D, view: View, fits: readonly Fit
     const emphasised = session.highlightedTrace !== null && fit.traceIds.includes(session.highlightedTrace);
     haloStroke(ctx, FIT_INK, emphasised ? 3 : 1.75, [7, 4]);
   }
+  // Each fitted curve says what it is at its end, so that a curve filed under the wrong diameter
+  // or speed shows on the sheet beside the sheet's own label.
+  // Ends that bunch (efficiency curves of a speed family end side by side) are spread apart.
+  ctx.font = '600 12px system-ui, sans-serif';
+  const ends = fits.flatMap((fit) => {
+    const end = fit.points[fit.points.length - 1];
+    if (fit.points.length < 2 || !end || !fit.label) return [];
+    const [x, y] = toScreen(view, end);
+    return [{ x: x + 6, y: y - 4, text: fit.label, width: ctx.measureText(fit.label).width + 8 }];
+  });
+  for (const l of spreadLabels(ends, 17, Math.max(...ends.map((e) => e.width / e.text.length), 1))) label(ctx, l.text, l.x, l.y, FIT_INK);
 }
 
 function paintPreview(ctx: CanvasRenderingContext2D, view: View, preview: Preview): void {

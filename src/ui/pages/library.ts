@@ -117,7 +117,7 @@ async function showList(root: HTMLElement, p: URLSearchParams): Promise<void> {
           h('td', null, h('input', { type: 'checkbox', 'aria-label': `Choose ${e.name} for comparison`, onchange: (ev: Event) => pick(e.id, (ev.target as HTMLInputElement).checked) })),
           h('th', { scope: 'row' }, h('a', { href: `#/library/${encodeURIComponent(e.id)}` }, e.name), e.maker ? h('span', { class: 'hint' }, ` · ${e.maker}`) : null),
           h('td', null, num(e.speed_rpm)),
-          h('td', null, e.diameters_m.map((d) => numIn(d, u.diameter)).join(', ') || NOT_AVAILABLE.text),
+          h('td', null, e.family === 'speed' ? 'one impeller drawn at several speeds' : e.diameters_m.map((d) => numIn(d, u.diameter)).join(', ') || NOT_AVAILABLE.text),
           h('td', null, `${numIn(e.flow_range_m3s[0], u.flow)} … ${numIn(e.flow_range_m3s[1], u.flow)}`),
           h('td', null, e.bep ? `${numIn(e.bep.flow_m3s, u.flow)} at ${numIn(e.bep.head_m, u.head)}, ${numPercent(e.bep.efficiency)} %` : NOT_AVAILABLE.text),
           h('td', null, String(e.revision))))))));
@@ -190,7 +190,7 @@ async function showCompare(root: HTMLElement, p: URLSearchParams): Promise<void>
     const duty = hasDuty ? { flow_m3s: toSI(flow, u.flow), head_m: toSI(head, u.head) } : null;
     const problem = problems.length ? h('p', { class: 'cal bad', role: 'alert' }, problems.join(' ')) : null;
     const rows = sets.map(({ id, set }) => ({ id, set, match: duty ? meetDuty(set, duty) : null }));
-    root.replaceChildren(frame(`Compare ${sets.length} pumps`,
+    root.replaceChildren(frame(`Compare ${sets.length} pump${sets.length === 1 ? '' : 's'}`,
       h('form', { class: 'library-search', onsubmit: (e: Event) => {
         e.preventDefault();
         const f = new FormData(e.target as HTMLFormElement);
@@ -202,8 +202,8 @@ async function showCompare(root: HTMLElement, p: URLSearchParams): Promise<void>
       problem,
       compareChart(rows.map((r) => r.set), duty, units),
       h('table', { class: 'figures compare' },
-        h('caption', null, duty ? `Figures at ${num(flow)} ${unitText(u.flow.label)} and ${num(head)} ${u.head.label} (impeller trimmed to the duty)` : 'Type a duty to see the figures there'),
-        h('thead', null, h('tr', null, h('th', { scope: 'col' }, 'Pump'), h('th', { scope: 'col' }, `Diameter [${u.diameter.label}]`), h('th', { scope: 'col' }, 'Trim [%]'), h('th', { scope: 'col' }, 'Efficiency [%]'), h('th', { scope: 'col' }, `Power [${u.power.label}]`), h('th', { scope: 'col' }, `NPSHr [${u.npsh.label}]`), h('th', { scope: 'col' }, 'Against BEP'), h('th', { scope: 'col' }, 'Note'))),
+        h('caption', null, duty ? `Figures at ${num(flow)} ${unitText(u.flow.label)} and ${num(head)} ${u.head.label} (impeller trimmed to the duty${rows.some((r) => r.set.family === 'speed') ? '; a pump drawn at several speeds runs at the speed that meets it, without a trim' : ''})` : 'Type a duty to see the figures there'),
+        h('thead', null, h('tr', null, h('th', { scope: 'col' }, 'Pump'), h('th', { scope: 'col' }, `Diameter [${u.diameter.label}]`), h('th', { scope: 'col' }, 'Trim [%]'), h('th', { scope: 'col' }, 'Speed [rpm]'), h('th', { scope: 'col' }, 'Efficiency [%]'), h('th', { scope: 'col' }, `Power [${u.power.label}]`), h('th', { scope: 'col' }, `NPSHr [${u.npsh.label}]`), h('th', { scope: 'col' }, 'Against BEP'), h('th', { scope: 'col' }, 'Note'))),
         h('tbody', null, rows.map((r, i) => {
           const m = r.match;
           const pt = m?.point;
@@ -211,6 +211,7 @@ async function showCompare(root: HTMLElement, p: URLSearchParams): Promise<void>
             h('th', { scope: 'row' }, h('span', { class: 'swatch', style: { background: INKS[i % INKS.length] } }), ' ', h('a', { href: `#/library/${encodeURIComponent(r.id)}` }, r.set.pump.name)),
             h('td', null, numIn(m?.diameter_m, u.diameter)),
             h('td', null, numPercent(m?.trim_ratio)),
+            h('td', null, num(m?.method === 'speed' ? m.speed_rpm : r.set.speed_rpm)),
             h('td', null, numPercent(pt?.efficiency)),
             h('td', null, numIn(pt?.power_W, u.power)),
             h('td', null, numIn(pt?.npshr_m, u.npsh, 3)),

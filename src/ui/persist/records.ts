@@ -3,12 +3,13 @@
  * one document, its migrations, and the choices made over the kept documents (which one a tab
  * is offered after a reload, which old ones may go). Pure, so that it is tested without a browser.
  */
-import type { Draft, SheetRef } from '../store/draft.ts';
+import { familyOfTraces, type Draft, type SheetRef } from '../store/draft.ts';
 import type { UnitChoice } from '../../units/index.ts';
 import { unitSystemOf, type LibraryLink, type Step, type TraceTarget } from '../store/store.ts';
 
 export const AUTOSAVE_FORMAT = 'pumpscribe.autosave';
-export const AUTOSAVE_VERSION = 2;
+/** 1: one slot; 2: one record per document; 3: the trace target names a diameter or a speed, as a trace does. */
+export const AUTOSAVE_VERSION = 3;
 /** How many documents a browser keeps; older ones go first, never one open in a tab. */
 export const KEEP_DOCUMENTS = 20;
 
@@ -35,20 +36,59 @@ function isObject(v: unknown): v is Record<string, unknown> {
   return v !== null && typeof v === 'object' && !Array.isArray(v);
 }
 
+/**
+ * The trace target of versions 1 and 2: `lines: 'diameter'` for a curve, whose label sat in
+ * `diameter` even on a sheet of speeds (where it held the speed in rpm).
+ */
+interface TraceTargetV2 {
+  quantity: TraceTarget['quantity'];
+  lines: 'diameter' | 'iso';
+  diameter?: number;
+  iso?: number;
+  panel?: string;
+}
+
+/** The version 2 record: a target of the older shape; drafts kept before the family question lack `family` and `speeds`. */
+type SavedDocumentV2 = Omit<SavedDocument, 'version' | 'target' | 'draft'> & {
+  version: 2;
+  target: TraceTargetV2;
+  draft: Omit<Draft, 'family' | 'speeds' | 'diameters'> & Partial<Pick<Draft, 'family' | 'speeds' | 'diameters'>>;
+};
+
 /** The version 1 record: one slot, the older draft shape (sheet without its path, notes always present). */
 interface SavedWorkV1 {
   format: typeof AUTOSAVE_FORMAT;
   version: 1;
   savedAt: string;
-  draft: Omit<Draft, 'sheet' | 'notes'> & { sheet: Omit<SheetRef, 'path'> | null; notes?: string[] };
+  draft: Omit<SavedDocumentV2['draft'], 'sheet' | 'notes'> & { sheet: Omit<SheetRef, 'path'> | null; notes?: string[] };
   step: Step;
-  target: TraceTarget;
+  target: TraceTargetV2;
   sheetKey: string | null;
 }
 
-function fromV1(old: SavedWorkV1, id: string): SavedDocument {
+/**
+ * Version 2 → 3. The draft gets the family kind its traces are labelled by (a draft kept before
+ * the family question is a sheet of diameters unless a trace carries a speed), and the target's
+ * label moves to the field of that kind: on a sheet of speeds the old `diameter` was the speed
+ * in rpm. Traces, guides and captured points are kept as they are.
+ */
+function fromV2(old: SavedDocumentV2): SavedDocument {
+  const family = old.draft.family ?? familyOfTraces(old.draft.traces) ?? 'diameter';
+  const draft: Draft = { ...old.draft, family, speeds: old.draft.speeds ?? [], diameters: old.draft.diameters ?? [] };
+  return { ...old, version: AUTOSAVE_VERSION, draft, target: targetFromV2(old.target, family) };
+}
+
+function targetFromV2(old: TraceTargetV2 | undefined, family: Draft['family']): TraceTarget {
+  if (!isObject(old) || typeof old.quantity !== 'string') return { quantity: 'head', lines: 'curve' };
+  const { lines, diameter, ...rest } = old;
+  if (lines === 'iso') return { ...rest, lines: 'iso' };
+  const label = typeof diameter === 'number' ? (family === 'speed' ? { speed: diameter } : { diameter }) : {};
+  return { ...rest, lines: 'curve', ...label };
+}
+
+function fromV1(old: SavedWorkV1, id: string): SavedDocumentV2 {
   const { sheet, notes, ...rest } = old.draft;
-  const draft: Draft = {
+  const draft: SavedDocumentV2['draft'] = {
     ...rest,
     sheet: sheet ? { ...sheet, path: sheet.name } : null,
     // Version 1 wrote the opened sheet's checksum into every take-off file it made.
@@ -57,14 +97,14 @@ function fromV1(old: SavedWorkV1, id: string): SavedDocument {
   };
   return {
     format: AUTOSAVE_FORMAT,
-    version: AUTOSAVE_VERSION,
+    version: 2,
     id,
     savedAt: old.savedAt,
     draft,
     library: null,
     step: old.step,
     target: old.target,
-    unitSystem: unitSystemOf(draft),
+    unitSystem: unitSystemOf(draft as Draft),
     sheetKey: old.sheetKey,
   };
 }
@@ -79,13 +119,13 @@ export function migrateSaved(raw: unknown, newId: () => string): SavedDocument |
   if (!isObject(raw.draft) || !Array.isArray(raw.draft.traces) || !Array.isArray(raw.draft.panels)) return null;
   // The step is checked against the steps of the workbench when the record is restored.
   if (typeof raw.step !== 'string') return null;
-  if (raw.version === 1) return fromV1(raw as unknown as SavedWorkV1, newId());
-  if (raw.version === AUTOSAVE_VERSION && typeof raw.id === 'string' && raw.id) {
-    const doc = raw as unknown as SavedDocument;
-    // A unit choice this version does not know falls back to the sheet's own units.
-    return UNIT_CHOICES.includes(doc.unitSystem) ? doc : { ...doc, unitSystem: unitSystemOf(doc.draft) };
-  }
-  return null;
+  let doc: SavedDocument;
+  if (raw.version === 1) doc = fromV2(fromV1(raw as unknown as SavedWorkV1, newId()));
+  else if (raw.version === 2 && typeof raw.id === 'string' && raw.id) doc = fromV2(raw as unknown as SavedDocumentV2);
+  else if (raw.version === AUTOSAVE_VERSION && typeof raw.id === 'string' && raw.id) doc = raw as unknown as SavedDocument;
+  else return null;
+  // A unit choice this version does not know falls back to the sheet's own units.
+  return UNIT_CHOICES.includes(doc.unitSystem) ? doc : { ...doc, unitSystem: unitSystemOf(doc.draft) };
 }
 
 /**

@@ -10,7 +10,7 @@ export const reviewStep: StepDefinition<'review'> = {
     if (!d.curveSet) return d.computing ? 'fitting…' : 'nothing to review yet';
     const fails = d.curveSet.findings.filter((f) => f.severity === 'fail').length;
     const warns = d.curveSet.findings.filter((f) => f.severity === 'warn').length;
-    return `${d.curveSet.members.length} diameters, ${fails} failing, ${warns} to check`;
+    return `${d.curveSet.members.length} ${d.curveSet.family === 'speed' ? 'speeds' : 'diameters'}, ${fails} failing, ${warns} to check`;
   },
   body,
   tool: () => 'pick',

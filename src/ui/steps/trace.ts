@@ -1,5 +1,5 @@
 /** Step 3: trace the curves. */
-import { pointsOf } from '../store/draft.ts';
+import { familyLabels, pointsOf } from '../store/draft.ts';
 import { targetFor } from '../store/target.ts';
 import { traceStep as body } from '../views/traceStep.ts';
 import { STEP_TITLES } from '../views/words.ts';
@@ -15,12 +15,14 @@ export const traceStep: StepDefinition<'trace'> = {
   },
   body,
   tool: () => 'trace',
-  // The pending target stays as it was, unless no panel plots it or its diameter is gone.
+  // The pending target stays as it was, unless no panel plots it, or its diameter (or speed) is
+  // gone or is not the kind of label this sheet's curves carry.
   enter: (draft, session) => {
     const t = session.target;
     const drawn = draft.panels.some((p) => p.plots === t.quantity) || (t.lines === 'iso' && draft.panels.some((p) => p.plots === 'head'));
     if (!drawn) return { target: targetFor(draft, draft.panels[0]?.plots ?? 'head') };
-    if (t.lines === 'diameter' && (t.diameter === undefined || !draft.diameters.includes(t.diameter))) return { target: targetFor(draft, t.quantity) };
+    const label = draft.family === 'speed' ? t.speed : t.diameter;
+    if (t.lines === 'curve' && (label === undefined || !familyLabels(draft).includes(label))) return { target: targetFor(draft, t.quantity) };
     return {};
   },
   layers: { anchors: false, traces: true, fits: false },

@@ -15,13 +15,19 @@ import type { Step } from '../steps/registry.ts';
 
 export type { Step };
 
-/** What the next guide click traces. */
+/**
+ * What the next guide click traces. A curve target carries its label as the take-off file's
+ * trace does (src/model/takeoff.ts): an impeller `diameter` (in units.diameter) on a sheet of
+ * diameters, or a `speed` (rpm) on a sheet of one impeller at several speeds — never both.
+ */
 export interface TraceTarget {
   quantity: Quantity;
-  /** 'diameter' for a curve of one impeller diameter; 'iso' for a line of constant efficiency (%) or power. */
-  lines: 'diameter' | 'iso';
-  /** Diameter in the draft's unit, for a 'diameter' target. */
+  /** 'curve' for the curve of one diameter or one speed; 'iso' for a line of constant efficiency (%) or power. */
+  lines: 'curve' | 'iso';
+  /** Impeller diameter in the draft's diameter unit, for a curve target on a sheet of diameters. */
   diameter?: number;
+  /** Speed in rpm, for a curve target on a sheet of speeds. */
+  speed?: number;
   /** The constant of an 'iso' target, once typed. */
   iso?: number;
   /** The panel to trace on; by default the first panel that plots the quantity. */
@@ -73,7 +79,7 @@ export const INITIAL_SESSION: Session = {
   lastTraced: null,
   selectedPoint: null,
   highlightedTrace: null,
-  target: { quantity: 'head', lines: 'diameter' },
+  target: { quantity: 'head', lines: 'curve' },
   unitSystem: 'own',
   message: null,
   progress: null,

@@ -6,7 +6,7 @@
  */
 import type { Quantity } from '../../model/curveset.ts';
 import type { SheetXY } from '../../model/takeoff.ts';
-import { familyLabels, frameOf, labelOf, powerUnit, type Draft, type FamilyKind, type PanelDraft, type TraceDraft, type UnitsDraft } from './draft.ts';
+import { familyLabels, frameOf, labelField, labelOf, powerUnit, type Draft, type PanelDraft, type TraceDraft, type UnitsDraft } from './draft.ts';
 import type { Session, TraceTarget } from './store.ts';
 import { QUANTITY_NAMES, QUANTITY_WORDS } from '../views/words.ts';
 
@@ -39,25 +39,38 @@ export function panelAt(draft: Draft, at: SheetXY): PanelDraft | undefined {
   return holding[0];
 }
 
-function traced(draft: Draft, quantity: Quantity, diameter: number): boolean {
-  return draft.traces.some((t) => t.quantity === quantity && t.iso === undefined && labelOf(t) === diameter);
+function traced(draft: Draft, quantity: Quantity, label: number): boolean {
+  return draft.traces.some((t) => t.quantity === quantity && t.iso === undefined && labelOf(t) === label);
 }
 
-/** The largest diameter not yet traced for the quantity, or undefined when all are. */
+/**
+ * A curve target for the quantity, labelled as this sheet labels its curves: `diameter` on a
+ * sheet of diameters, `speed` (rpm) on a sheet of speeds; without a label while none is known.
+ */
+export function curveTarget(draft: Pick<Draft, 'family'>, quantity: Quantity, label?: number, panel?: string): TraceTarget {
+  return { quantity, lines: 'curve', ...(label !== undefined ? labelField(draft, label) : {}), ...(panel !== undefined ? { panel } : {}) };
+}
+
+/** The same target, now for the curve labelled `label` (a diameter or a speed, as the sheet is drawn). */
+export function withLabel(draft: Pick<Draft, 'family'>, target: TraceTarget, label: number): TraceTarget {
+  const { diameter: _d, speed: _s, iso: _i, ...rest } = target;
+  return { ...rest, lines: 'curve', ...labelField(draft, label) };
+}
+
+/** The largest diameter (or fastest speed) not yet traced for the quantity, or undefined when all are. */
 export function firstUntraced(draft: Draft, quantity: Quantity): number | undefined {
   return familyLabels(draft).find((d) => !traced(draft, quantity, d));
 }
 
 /** How efficiency is read on this sheet: as curves on its own panel, or as iso-lines on the head panel. */
-function efficiencyLines(draft: Draft): 'diameter' | 'iso' {
-  return draft.panels.some((p) => p.plots === 'efficiency') ? 'diameter' : 'iso';
+function efficiencyLines(draft: Draft): 'curve' | 'iso' {
+  return draft.panels.some((p) => p.plots === 'efficiency') ? 'curve' : 'iso';
 }
 
 /** A target for a quantity: its first untraced diameter, or an iso-line. */
 export function targetFor(draft: Draft, quantity: Quantity): TraceTarget {
   if (quantity === 'efficiency' && efficiencyLines(draft) === 'iso') return { quantity, lines: 'iso' };
-  const diameter = firstUntraced(draft, quantity) ?? familyLabels(draft)[0];
-  return diameter === undefined ? { quantity, lines: 'diameter' } : { quantity, lines: 'diameter', diameter };
+  return curveTarget(draft, quantity, firstUntraced(draft, quantity) ?? familyLabels(draft)[0]);
 }
 
 /**
@@ -69,7 +82,7 @@ export function nextTarget(draft: Draft, done: TraceTarget): TraceTarget {
   // Iso-lines come in pairs (either side of the BEP): the same value is proposed again.
   if (done.lines === 'iso') return { ...done };
   const same = firstUntraced(draft, done.quantity);
-  if (same !== undefined) return { quantity: done.quantity, lines: 'diameter', diameter: same };
+  if (same !== undefined) return curveTarget(draft, done.quantity, same);
   const start = QUANTITY_ORDER.indexOf(done.quantity);
   for (let k = 1; k < QUANTITY_ORDER.length; k++) {
     const q = QUANTITY_ORDER[(start + k) % QUANTITY_ORDER.length] as Quantity;
@@ -100,24 +113,25 @@ export function retargetForPanel(draft: Draft, target: TraceTarget, panel: Panel
 export function targetProblem(draft: Draft, target: TraceTarget): string | null {
   if (!panelFor(draft, target)) return `No panel plots ${target.quantity === 'npshr' ? 'NPSHr' : target.quantity} yet; draw its frame in "Set the axes" first.`;
   if (target.lines === 'iso' && target.iso === undefined) return `Type the value of the ${target.quantity} line to trace (for example 70 %).`;
-  if (target.lines === 'diameter' && target.diameter === undefined) return draft.family === 'speed' ? 'Type the speeds of the family first (for example 1450 1200 950, or 100 90 80 70 %).' : 'Type the impeller diameters of the family first (for example 250 235 220 205).';
+  if (target.lines === 'curve' && labelOf(target) === undefined) return draft.family === 'speed' ? 'Type the speeds of the family first (for example 1450 1200 950, or 100 90 80 70 %).' : 'Type the impeller diameters of the family first (for example 250 235 220 205).';
   return null;
 }
 
 
-/** "head curve of 250 mm", "70 % efficiency line": the target in words, for the status line. */
-export function targetName(target: TraceTarget, units: UnitsDraft, family: FamilyKind = 'diameter'): string {
+/** "head curve of 250 mm", "head curve of 1450 rpm", "70 % efficiency line": the target in words, for the status line. */
+export function targetName(target: TraceTarget, units: UnitsDraft): string {
   if (target.lines === 'iso') {
     const unit = target.quantity === 'efficiency' ? '%' : powerUnit(units);
     return target.iso === undefined ? `line of constant ${QUANTITY_WORDS[target.quantity]}` : `${target.iso} ${unit} ${QUANTITY_WORDS[target.quantity]} line`;
   }
-  return target.diameter === undefined ? `${QUANTITY_WORDS[target.quantity]} curve` : `${QUANTITY_WORDS[target.quantity]} curve of ${target.diameter} ${family === 'speed' ? 'rpm' : units.diameter}`;
+  if (target.speed !== undefined) return `${QUANTITY_WORDS[target.quantity]} curve of ${target.speed} rpm`;
+  return target.diameter === undefined ? `${QUANTITY_WORDS[target.quantity]} curve` : `${QUANTITY_WORDS[target.quantity]} curve of ${target.diameter} ${units.diameter}`;
 }
 
-/** The target that traces this trace's curve again: its quantity, its diameter (or iso value) and its panel. */
+/** The target that traces this trace's curve again: its quantity, its diameter or speed (or iso value) and its panel. */
 export function targetOfTrace(t: Pick<TraceDraft, 'quantity' | 'diameter' | 'speed' | 'iso' | 'panel'>): TraceTarget {
   if (t.iso !== undefined) return { quantity: t.quantity, lines: 'iso', iso: t.iso, panel: t.panel };
-  return { quantity: t.quantity, lines: 'diameter', ...(labelOf(t) !== undefined ? { diameter: labelOf(t) as number } : {}), panel: t.panel };
+  return { quantity: t.quantity, lines: 'curve', ...(t.diameter !== undefined ? { diameter: t.diameter } : {}), ...(t.speed !== undefined ? { speed: t.speed } : {}), panel: t.panel };
 }
 
 /**
@@ -133,31 +147,39 @@ export function afterRemoval(session: Pick<Session, 'selectedTrace' | 'lastTrace
   };
 }
 
-/** Traces already filed under the curve a target would trace (same quantity and diameter, not iso-lines). */
-export function tracesOfCurve(draft: Draft, target: Pick<TraceTarget, 'quantity' | 'lines' | 'diameter'>): TraceDraft[] {
-  if (target.lines !== 'diameter' || target.diameter === undefined) return [];
-  return draft.traces.filter((t) => t.quantity === target.quantity && t.iso === undefined && labelOf(t) === target.diameter);
+/** Traces already filed under the curve a target would trace (same quantity, same diameter or speed; not iso-lines). */
+export function tracesOfCurve(draft: Draft, target: Pick<TraceTarget, 'quantity' | 'lines' | 'diameter' | 'speed'>): TraceDraft[] {
+  if (target.lines !== 'curve' || labelOf(target) === undefined) return [];
+  return draft.traces.filter((t) => t.quantity === target.quantity && t.iso === undefined && t.diameter === target.diameter && t.speed === target.speed);
+}
+
+/** A curve drawn by more than one trace: its quantity, its label (diameter or speed) and the traces. */
+export interface SharedCurve {
+  quantity: Quantity;
+  diameter?: number;
+  speed?: number;
+  ids: string[];
 }
 
 /**
  * Curves with more than one trace: the replay fits their points together as one curve. Said on
- * screen, so that a trace filed under the wrong diameter is never merged silently.
+ * screen, so that a trace filed under the wrong diameter (or speed) is never merged silently.
  */
-export function sharedCurves(draft: Draft): { quantity: Quantity; diameter: number; ids: string[]; rpm?: true }[] {
-  const groups = new Map<string, { quantity: Quantity; diameter: number; ids: string[]; rpm?: true }>();
+export function sharedCurves(draft: Draft): SharedCurve[] {
+  const groups = new Map<string, SharedCurve>();
   for (const t of draft.traces) {
-    const label = labelOf(t);
-    if (t.iso !== undefined || label === undefined) continue;
-    const key = `${t.quantity}|${label}`;
-    const g = groups.get(key) ?? { quantity: t.quantity, diameter: label, ids: [], ...(t.speed !== undefined ? { rpm: true as const } : {}) };
+    if (t.iso !== undefined || labelOf(t) === undefined) continue;
+    const key = `${t.quantity}|${t.diameter ?? ''}|${t.speed ?? ''}`;
+    const g = groups.get(key) ?? { quantity: t.quantity, ...(t.diameter !== undefined ? { diameter: t.diameter } : {}), ...(t.speed !== undefined ? { speed: t.speed } : {}), ids: [] };
     g.ids.push(t.id);
     groups.set(key, g);
   }
   return [...groups.values()].filter((g) => g.ids.length > 1);
 }
 
-/** "Head 235 mm has 2 traces (t2, t5): …" — the sentence for a shared curve. */
-export function sharedCurveSentence(g: { quantity: Quantity; diameter: number; ids: string[]; rpm?: true }, diameterUnit: string): string {
-  const name = `${QUANTITY_NAMES[g.quantity]} ${g.diameter} ${g.rpm ? 'rpm' : diameterUnit}`;
-  return `${name} has ${g.ids.length} traces (${g.ids.join(', ')}); their points are fitted together as one curve. If one belongs to another diameter, relabel or delete it.`;
+/** "Head 235 mm has 2 traces (t2, t5): …", "Head 1450 rpm has 2 traces …" — the sentence for a shared curve. */
+export function sharedCurveSentence(g: SharedCurve, diameterUnit: string): string {
+  const bySpeed = g.speed !== undefined;
+  const name = `${QUANTITY_NAMES[g.quantity]} ${bySpeed ? `${g.speed} rpm` : `${g.diameter} ${diameterUnit}`}`;
+  return `${name} has ${g.ids.length} traces (${g.ids.join(', ')}); their points are fitted together as one curve. If one belongs to another ${bySpeed ? 'speed' : 'diameter'}, relabel or delete it.`;
 }

@@ -58,7 +58,7 @@ export class TraceTool implements Tool {
     const problem = targetProblem(draft, session.target);
     if (problem) return problem;
     const extra = selected ? ` Shift-click adds a guide to ${traceName(selected, draft.units.diameter, powerUnit(draft.units))}.` : '';
-    return `Click on the ${targetName(session.target, draft.units, draft.family)} to trace it.${extra}`;
+    return `Click on the ${targetName(session.target, draft.units)} to trace it.${extra}`;
   }
 
   private findHover(p: CanvasPointer): Hover {
@@ -207,7 +207,7 @@ export class TraceTool implements Tool {
       } catch (error) {
         failure = (error as Error).message;
       }
-      const spec = { panel: panel.id, quantity: target.quantity, ...(target.lines === 'iso' ? { iso: target.iso as number } : { diameter: target.diameter as number }) };
+      const spec = { panel: panel.id, quantity: target.quantity, ...(target.lines === 'iso' ? { iso: target.iso as number } : target.speed !== undefined ? { speed: target.speed } : { diameter: target.diameter as number }) };
       const before = this.store.draft.traces.length;
       const already = tracesOfCurve(this.store.draft, target);
       // The guide is kept even when no line was found from it alone: more guides may find it.
@@ -217,7 +217,7 @@ export class TraceTool implements Tool {
         // The new trace is not selected for editing, so that its points do not catch the next click.
         this.store.setSession({ lastTraced: made?.id ?? null, selectedTrace: null, selectedPoint: null, target: next });
         const name = made ? traceName(made, this.store.draft.units.diameter, powerUnit(this.store.draft.units)) : 'the curve';
-        const shared = already.length && made ? ` ${sharedCurveSentence({ quantity: made.quantity, diameter: (made.diameter ?? made.speed) as number, ...(made.speed !== undefined ? { rpm: true as const } : {}), ids: [...already.map((t) => t.id), made.id] }, this.store.draft.units.diameter)}` : '';
+        const shared = already.length && made ? ` ${sharedCurveSentence({ quantity: made.quantity, ...(made.diameter !== undefined ? { diameter: made.diameter } : {}), ...(made.speed !== undefined ? { speed: made.speed } : {}), ids: [...already.map((t) => t.id), made.id] }, this.store.draft.units.diameter)}` : '';
         if (failure) this.store.say(`${failure} The guide for ${name} is kept: Shift-click further guides along its line, or drag this guide onto it.${shared}`, 'caution');
         else if (shared) this.store.say(`Traced ${name}: ${points.length} points.${shared}`, 'caution');
         else if (gaps.length) this.store.say(`Traced ${name} with ${points.length} points, but ${gaps.join(' ')} Add a guide beyond the gap with Shift-click.`, 'caution');

@@ -9,6 +9,8 @@
 import { h } from '../dom/h.ts';
 import { NPSH_CAUTION, MOTOR_CAUTION, PRELIMINARY, SERVICES, serviceCaution, type Service } from '../../duty/cautions.ts';
 import { systemHead } from '../../duty/systemCurve.ts';
+import { curveAtSpeedInFamily } from '../../duty/speed.ts';
+import { parallelPumps, pumpCurveAtSpeed } from '../../duty/pumpCurve.ts';
 import type { CurveSet } from '../../model/curveset.ts';
 import { NOT_AVAILABLE, type UnitChoice } from '../../units/index.ts';
 import { linspace } from '../../fit/polynomial.ts';
@@ -16,7 +18,9 @@ import { runStudy, isFailing, type StudyResult } from '../../study/runStudy.ts';
 import type { OptionResult } from '../../study/evaluate.ts';
 import { chartUnits, type DutyOverlay } from './familyChart.ts';
 import { num, numIn, numPercent, unitText } from './words.ts';
-import { EMPTY_DUTY, nextOption, studyOfForm, type DutyForm, type StudyOptionForm } from './studyForm.ts';
+import { EMPTY_DUTY, formOptions, nextOption, studyOfForm, type DutyForm, type FormFamily, type StudyOptionForm } from './studyForm.ts';
+import { bracketingSpeeds, NPSH3_SPEED_RULE } from '../../fit/speedFamily.ts';
+import { NPSH3_TRIM_RULE } from '../../fit/affinity.ts';
 
 export { EMPTY_DUTY, type DutyForm };
 
@@ -27,13 +31,18 @@ const SERVICE_WORDS: Record<Service, string> = { general: 'general service', fir
 /** Runs the study for the form, or says what is missing or wrong. */
 export function runDuty(set: CurveSet, form: DutyForm, choice: UnitChoice): DutyOutcome {
   try {
-    const study = studyOfForm(form, chartUnits(set, choice));
+    const study = studyOfForm(form, chartUnits(set, choice), familyOf(set));
     if (!study) return null;
     const result = runStudy(study, () => set);
     return { result, overlay: overlayOf(set, result), service: form.service };
   } catch (error) {
     return { error: (error as Error).message };
   }
+}
+
+/** Which kind of family the set is: impeller diameters at one speed, or one impeller drawn at several speeds. */
+function familyOf(set: Pick<CurveSet, 'family'>): FormFamily {
+  return set.family === 'speed' ? 'speed' : 'diameter';
 }
 
 /** The system curves of the best option as one band (low static out, high static back) and every option's operating points. */
@@ -49,7 +58,30 @@ function overlayOf(set: CurveSet, result: StudyResult): DutyOverlay {
     const ok = !r.findings.some((f) => f.severity === 'fail' && /NPSH/.test(f.message));
     for (const [key, op] of Object.entries(r.operating_points)) if (op) points.push({ label: `${r.name}, ${key} static`, flow: op.flow_m3s, head: op.head_m, npshMarginOk: ok });
   }
-  return { system: best.systems.low.static_head_m === best.systems.high.static_head_m ? low : [...low, ...high], points };
+  return { system: best.systems.low.static_head_m === best.systems.high.static_head_m ? low : [...low, ...high], points, curves: speedCurves(set, result) };
+}
+
+/**
+ * The head curve each variable-speed option runs on at the highest static head (its pumps
+ * combined), so that its operating point is seen on a curve: on a speed family the drawn curve
+ * nearest in speed scaled by the affinity law (src/duty/speed.ts), else the option's own curve.
+ */
+function speedCurves(set: CurveSet, result: StudyResult): NonNullable<DutyOverlay['curves']> {
+  const curves: NonNullable<DutyOverlay['curves']> = [];
+  for (const r of result.ranked) {
+    const speed = r.operating_points.high?.speed_rpm;
+    if (r.control !== 'speed' || speed === undefined) continue;
+    try {
+      const single = set.family === 'speed' && !r.viscous ? curveAtSpeedInFamily(set, speed).curve : r.curve ? pumpCurveAtSpeed(r.curve, speed) : undefined;
+      if (!single) continue;
+      const combined = parallelPumps(single, r.pumps);
+      const points = linspace(combined.domain[0], combined.domain[1], 40).map((q) => [q, combined.head(q)] as [number, number]);
+      curves.push({ label: `${r.name}: ${num(speed, 4)} rpm`, points });
+    } catch {
+      // A curve that cannot be drawn is left out; the table and its findings still say why.
+    }
+  }
+  return curves;
 }
 
 function input(id: string, label: string, value: string, unit: string, onchange: (v: string) => void, hint?: string): HTMLElement {
@@ -68,10 +100,17 @@ function select<T extends string>(id: string, label: string, value: T, choices: 
 export function dutyPanel(set: CurveSet, form: DutyForm, outcome: DutyOutcome, choice: UnitChoice, change: (patch: Partial<DutyForm>) => void): HTMLElement {
   const u = chartUnits(set, choice);
   const flowUnit = unitText(u.flow.label);
-  const setOption = (i: number, patch: Partial<StudyOptionForm>) => change({ options: form.options.map((o, j) => (j === i ? { ...o, ...patch } : o)) });
+  const family = familyOf(set);
+  const options = formOptions(form, family);
+  const setOption = (i: number, patch: Partial<StudyOptionForm>) => change({ options: options.map((o, j) => (j === i ? { ...o, ...patch } : o)) });
+  const rated = `${num(set.speed_rpm, 6)} rpm`;
+  const controls = family === 'speed'
+    ? ([['speed', 'variable speed'], ['throttle', `throttling valve, at the rated ${rated}`]] as const)
+    : ([['throttle', 'throttling valve'], ['speed', 'variable speed']] as const);
   return h('section', { class: 'duty', 'aria-labelledby': 'duty-title' },
     h('h4', { id: 'duty-title' }, 'Duty study'),
     h('p', { class: 'hint' }, 'Type the duty and the pipe runs, then add options to compare. Each option is worked out at the lowest and highest static head, with the NPSH margin to run-out, the motor and the life-cycle cost.'),
+    family === 'speed' ? h('p', { class: 'hint', id: 'duty-speed-family' }, `This sheet draws one impeller at ${set.members.length} speeds (rated ${rated}), so no impeller trim is offered: a variable-speed option finds the speed that meets the duty from the drawn speeds on either side of it.`) : null,
     input('duty-flow', 'Duty flow', form.flow, flowUnit, (v) => change({ flow: v })),
     input('duty-head', 'Duty head', form.head, u.head.label, (v) => change({ head: v }), 'from the pipe runs'),
     input('duty-static', 'Static head, lowest', form.staticHead, u.head.label, (v) => change({ staticHead: v })),
@@ -97,28 +136,55 @@ export function dutyPanel(set: CurveSet, form: DutyForm, outcome: DutyOutcome, c
       input('duty-motor-efficiency', 'Motor efficiency', form.motorEfficiency, '%', (v) => change({ motorEfficiency: v }))),
     h('fieldset', { class: 'study-options' },
       h('legend', null, 'Options'),
-      form.options.map((o, i) => h('div', { class: 'study-option', 'data-key': `option-${i}` },
+      options.map((o, i) => h('div', { class: 'study-option', 'data-key': `option-${i}` },
         input(`option-${i}-name`, 'Name', o.name, '', (v) => setOption(i, { name: v })),
-        select(`option-${i}-impeller`, 'Impeller', o.impeller, [['trim', 'trimmed to the duty'], ['drawn', 'drawn (largest, or the diameter)'], ['given', 'given diameter']] as const, (v) => setOption(i, { impeller: v })),
-        o.impeller === 'trim' ? null : input(`option-${i}-diameter`, 'Diameter', o.diameter, u.diameter.label, (v) => setOption(i, { diameter: v })),
+        // A speed family has one impeller: nothing to choose, unless an option still asks for a trim (then the study says why it cannot).
+        family === 'speed' && o.impeller === 'drawn'
+          ? h('div', { class: 'field' }, h('span', { class: 'label' }, 'Impeller'), h('span', { id: `option-${i}-impeller`, class: 'value' }, 'the one drawn (no trim on a speed family)'))
+          : select(`option-${i}-impeller`, 'Impeller', o.impeller, family === 'speed' ? [['drawn', 'the one drawn'], [o.impeller, `${o.impeller === 'trim' ? 'trimmed' : 'given diameter'} (not possible on a speed family)`]] as const : [['trim', 'trimmed to the duty'], ['drawn', 'drawn (largest, or the diameter)'], ['given', 'given diameter']] as const, (v) => setOption(i, { impeller: v })),
+        o.impeller === 'trim' || family === 'speed' ? null : input(`option-${i}-diameter`, 'Diameter', o.diameter, u.diameter.label, (v) => setOption(i, { diameter: v })),
         select(`option-${i}-pumps`, 'Pumps in parallel', o.pumps, [['1', '1'], ['2', '2'], ['3', '3']] as const, (v) => setOption(i, { pumps: v })),
-        select(`option-${i}-control`, 'Control', o.control, [['throttle', 'throttling valve'], ['speed', 'variable speed']] as const, (v) => setOption(i, { control: v })),
+        select(`option-${i}-control`, 'Control', o.control, controls, (v) => setOption(i, { control: v })),
         input(`option-${i}-pipe`, 'Discharge pipe diameter', o.pipe, u.diameter.label, (v) => setOption(i, { pipe: v }), 'as above'),
-        form.options.length > 1 ? h('button', { type: 'button', class: 'remove-option', onclick: () => change({ options: form.options.filter((_, j) => j !== i) }) }, 'Remove') : null)),
-      h('button', { type: 'button', id: 'study-add-option', onclick: () => change({ options: [...form.options, nextOption(form.options)] }) }, 'Add an option')),
+        options.length > 1 ? h('button', { type: 'button', class: 'remove-option', onclick: () => change({ options: options.filter((_, j) => j !== i) }) }, 'Remove') : null)),
+      h('button', { type: 'button', id: 'study-add-option', onclick: () => change({ options: [...options, nextOption(options, family)] }) }, 'Add an option')),
     outcome && 'error' in outcome ? h('p', { class: 'cal bad', role: 'alert' }, outcome.error) : null,
-    outcome && 'result' in outcome ? studyResults(outcome.result, outcome.service, u) : null);
+    outcome && 'result' in outcome ? studyResults(set, outcome.result, outcome.service, u) : null);
 }
 
-function studyResults(result: StudyResult, service: Service, u: ReturnType<typeof chartUnits>): HTMLElement {
+/**
+ * Where a variable-speed option runs, in words: its speed at the lowest and highest static head,
+ * as a share of the rated speed, and on a speed family the drawn speeds on either side of it.
+ */
+export function speedSentence(set: CurveSet, r: OptionResult): string | null {
+  if (r.control !== 'speed') return null;
+  const rated = r.rated_speed_rpm ?? set.speed_rpm;
+  const at = (key: 'low' | 'high') => r.operating_points[key]?.speed_rpm;
+  const high = at('high');
+  const low = at('low');
+  if (high === undefined && low === undefined) return `${r.name}: no speed meets the duty (see below).`;
+  const words = (n: number) => `${num(n, 4)} rpm (${num((100 * n) / rated, 3)} % of the rated ${num(rated, 6)} rpm)`;
+  const where = [high !== undefined ? `${words(high)} at the highest static head` : null, low !== undefined && low !== high ? `${words(low)} at the lowest` : null].filter(Boolean).join(', ');
+  let between = '';
+  if (set.family === 'speed' && high !== undefined) {
+    const { below, above } = bracketingSpeeds(set, high);
+    if (below && above && below !== above) between = `, between the drawn ${num(below.speed_rpm, 6)} rpm and ${num(above.speed_rpm, 6)} rpm curves`;
+    else if (below === above && below) between = `, on the drawn ${num(below.speed_rpm, 6)} rpm curve`;
+    else between = ', outside the drawn speeds (an extrapolation)';
+  }
+  return `${r.name}: the pump${r.pumps > 1 ? 's run' : ' runs'} at ${where}${between}.`;
+}
+
+function studyResults(set: CurveSet, result: StudyResult, service: Service, u: ReturnType<typeof chartUnits>): HTMLElement {
   const best = result.ranked[0];
   const code = serviceCaution(service);
+  const showSpeed = set.family === 'speed' || result.ranked.some((r) => r.control === 'speed');
   return h('div', { class: 'duty-results study-results' },
     h('p', { class: best && !isFailing(best) ? 'summary' : 'summary bad' }, result.why),
     h('table', { class: 'figures study-table' },
       h('caption', { class: 'visually-hidden' }, 'Options ranked by life-cycle cost'),
       h('thead', null, h('tr', null,
-        ['#', 'Option', `Flow [${unitText(u.flow.label)}]`, `Head [${u.head.label}]`, 'Eff. [%]', `Power [${u.power.label}]`, 'Motor', `NPSHa [${u.npsh.label}]`, `NPSH3 [${u.npsh.label}]`, 'Margin ratio', 'Run-out ratio', `Eye at most [${u.npsh.label}] above the lowest level`, 'Energy [kWh/year]', 'Life-cycle cost', 'Result'].map((c) => h('th', { scope: 'col' }, c)))),
+        ['#', 'Option', ...(showSpeed ? ['Speed [rpm]'] : []), `Flow [${unitText(u.flow.label)}]`, `Head [${u.head.label}]`, 'Eff. [%]', `Power [${u.power.label}]`, 'Motor', `NPSHa [${u.npsh.label}]`, `NPSH3 [${u.npsh.label}]`, 'Margin ratio', 'Run-out ratio', `Eye at most [${u.npsh.label}] above the lowest level`, 'Energy [kWh/year]', 'Life-cycle cost', 'Result'].map((c) => h('th', { scope: 'col' }, c)))),
       h('tbody', null, result.ranked.map((r, i) => {
         const duty = r.npsh?.duty;
         const run = r.npsh?.run_out;
@@ -126,6 +192,7 @@ function studyResults(result: StudyResult, service: Service, u: ReturnType<typeo
         return h('tr', { 'data-key': r.name, class: failing ? 'fail' : '' },
           h('td', null, String(i + 1)),
           h('th', { scope: 'row' }, r.name),
+          showSpeed ? h('td', { class: 'speed' }, num(r.control === 'speed' ? r.speed_rpm : r.rated_speed_rpm, 4)) : null,
           h('td', null, numIn(r.duty?.flow_m3s, u.flow)),
           h('td', null, numIn(r.duty?.head_m, u.head)),
           h('td', null, numPercent(r.duty?.efficiency)),
@@ -140,10 +207,12 @@ function studyResults(result: StudyResult, service: Service, u: ReturnType<typeo
           h('td', null, num(r.lcc?.total, 4)),
           h('td', null, failing ? 'fails' : 'passes'));
       }))),
+    result.ranked.map((r) => speedSentence(set, r)).filter((t): t is string => t !== null).map((t) => h('p', { class: 'speed-result' }, t)),
     h('ul', { class: 'study-findings' }, result.ranked.flatMap((r) => r.findings.filter((x) => x.severity !== 'note').map((x) => h('li', { class: x.severity }, `${r.name}: ${x.message}`)))),
     h('p', { class: 'caution', role: 'note' }, `NPSH: ${NPSH_CAUTION}`),
     h('p', { class: 'caution', role: 'note' }, `Motor: ${MOTOR_CAUTION}`),
     code ? h('p', { class: 'caution', role: 'note' }, code) : null,
     h('p', { class: 'caution', role: 'note' }, PRELIMINARY),
-    result.notes.map((n) => h('p', { class: 'hint' }, n)));
+    // On a speed family no impeller is trimmed: the note on NPSH3 is the speed family's rule.
+    result.notes.map((n) => h('p', { class: 'hint' }, set.family === 'speed' && n === NPSH3_TRIM_RULE ? NPSH3_SPEED_RULE : n)));
 }

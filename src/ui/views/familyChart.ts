@@ -9,7 +9,9 @@ import { evaluateUnchecked, linspace } from '../../fit/polynomial.ts';
 import type { CurveSet, Member, Quantity } from '../../model/curveset.ts';
 import { chosenUnits, fromSI, niceLinearScale, unitOfQuantity, type CurveUnits, type UnitChoice } from '../../units/index.ts';
 import { QUANTITY_INK } from '../canvas/overlay.ts';
-import { choiceWords, num, QUANTITY_NAMES, SAFETY_SENTENCE, unitText } from './words.ts';
+import { choiceWords, curveLabelText, num, QUANTITY_NAMES, SAFETY_SENTENCE, speedWithShare, unitText } from './words.ts';
+import { membersRatedFirst } from '../../duty/speed.ts';
+import { spreadLabels } from '../geometry/labels.ts';
 
 export type ChartUnits = CurveUnits;
 
@@ -29,16 +31,27 @@ export interface DutyOverlay {
   system: [number, number][];
   /** Operating point per diameter, SI. */
   points: { label: string; flow: number; head: number; npshMarginOk?: boolean }[];
+  /** Head curves at the speeds variable-speed options run at: [flow m³/s, head m] points, labelled with their speed. */
+  curves?: { label: string; points: [number, number][] }[];
 }
 
 /** The chart's layout in SVG pixels: width, plot height, gap between plots, margins. */
 const LAYOUT = { width: 560, plotHeight: 150, gap: 26, left: 62, right: 64, top: 14 } as const;
 const { width: W, plotHeight: PLOT_H, gap: GAP, left: LEFT, right: RIGHT, top: TOP } = LAYOUT;
 
-export function familyChart(set: CurveSet, choice: UnitChoice = 'own', duty?: DutyOverlay | null, highlight?: { diameter_m?: number; quantity?: Quantity } | null): HTMLElement {
+/** The curve picked out from a finding or a trace: its member by diameter (or by speed on a speed family), and its quantity. */
+export interface ChartHighlight {
+  diameter_m?: number | undefined;
+  speed_rpm?: number | undefined;
+  quantity?: Quantity;
+}
+
+export function familyChart(set: CurveSet, choice: UnitChoice = 'own', duty?: DutyOverlay | null, highlight?: ChartHighlight | null): HTMLElement {
   const u = chartUnits(set, choice);
   const quantities = (['head', 'efficiency', 'power', 'npshr'] as Quantity[]).filter((q) => set.members.some((m) => m.curves[q]?.fit));
-  const members = [...set.members].sort((a, b) => (b.diameter_m ?? 0) - (a.diameter_m ?? 0));
+  // Rated curve first: the largest diameter, or the fastest speed of a speed family.
+  const members = membersRatedFirst(set);
+  const bySpeed = set.family === 'speed';
   const domains = members.flatMap((m) => quantities.flatMap((q) => (m.curves[q]?.fit ? [m.curves[q]!.fit!.domain] : [])));
   if (domains.length === 0) return h('p', { class: 'hint' }, 'No fitted curves yet.');
   const qMax = Math.max(...domains.map((d) => d[1]), ...(duty?.points.map((p) => p.flow) ?? []));
@@ -46,7 +59,7 @@ export function familyChart(set: CurveSet, choice: UnitChoice = 'own', duty?: Du
   const xs = niceLinearScale(0, fromSI(qMax, u.flow), [LEFT, LEFT + plotW], 6);
   const x = (qSI: number) => xs.map(fromSI(qSI, u.flow));
   const height = TOP + quantities.length * (PLOT_H + GAP) + 24;
-  const root = svg('svg', { viewBox: `0 0 ${W} ${height}`, class: 'family-chart', role: 'img', 'aria-label': `Family chart: ${quantities.map((q) => QUANTITY_NAMES[q]).join(', ')} against flow for ${members.length} diameters, in ${choiceWords(choice, u)}` });
+  const root = svg('svg', { viewBox: `0 0 ${W} ${height}`, class: 'family-chart', role: 'img', 'aria-label': `Family chart: ${quantities.map((q) => QUANTITY_NAMES[q]).join(', ')} against flow for ${members.length} ${bySpeed ? 'speeds' : 'diameters'}, in ${choiceWords(choice, u)}` });
   quantities.forEach((q, row) => {
     const top = TOP + row * (PLOT_H + GAP);
     const unit = unitOfQuantity(u, q);
@@ -54,7 +67,7 @@ export function familyChart(set: CurveSet, choice: UnitChoice = 'own', duty?: Du
       const fit = m.curves[q]?.fit;
       return fit ? linspace(fit.domain[0], fit.domain[1], 40).map((f) => fromSI(evaluateUnchecked(fit, f), unit)) : [];
     });
-    if (q === 'head' && duty) values.push(...duty.system.map((p) => fromSI(p[1], unit)));
+    if (q === 'head' && duty) values.push(...duty.system.map((p) => fromSI(p[1], unit)), ...(duty.curves ?? []).flatMap((c) => c.points.map((p) => fromSI(p[1], unit))));
     const ys = niceLinearScale(Math.min(0, ...values), Math.max(...values), [top + PLOT_H, top], 4);
     const y = (vSI: number) => ys.map(fromSI(vSI, unit));
     const g = svg('g', { class: `plot plot-${q}` });
@@ -70,24 +83,35 @@ export function familyChart(set: CurveSet, choice: UnitChoice = 'own', duty?: Du
       if (row === quantities.length - 1) g.append(svg('text', { x: xx, y: top + PLOT_H + 14, class: 'tick', 'text-anchor': 'middle' }, num(t, 4)));
     }
     g.append(svg('text', { x: 8, y: top + 12, class: 'axis-title' }, `${QUANTITY_NAMES[q]} [${unitText(unit.label || unit.token)}]`));
-    const labels: { x: number; y: number; text: string }[] = [];
+    const labels: { x: number; y: number; text: string; speed?: true }[] = [];
     members.forEach((m, k) => {
       const fit = m.curves[q]?.fit;
       if (!fit) return;
       const pts = polylinePoints(linspace(fit.domain[0], fit.domain[1], 60).map((f) => [x(f), y(evaluateUnchecked(fit, f))] as const));
-      const emphasised = highlight && highlight.diameter_m === m.diameter_m && (!highlight.quantity || highlight.quantity === q);
-      g.append(svg('polyline', { points: pts, class: `curve${emphasised ? ' emphasised' : ''}`, stroke: QUANTITY_INK[q], 'stroke-opacity': String(1 - k * 0.15) }, svg('title', null, `${QUANTITY_NAMES[q]}, ${memberName(m, u)}`)));
+      const same = bySpeed ? highlight?.speed_rpm === m.speed_rpm : highlight?.diameter_m === m.diameter_m;
+      const emphasised = highlight && same && (!highlight.quantity || highlight.quantity === q);
+      g.append(svg('polyline', { points: pts, class: `curve${emphasised ? ' emphasised' : ''}`, stroke: QUANTITY_INK[q], 'stroke-opacity': String(1 - k * 0.15) }, svg('title', null, `${QUANTITY_NAMES[q]}, ${memberName(set, m, u, true)}`)));
       const end = fit.domain[1];
-      labels.push({ x: x(end) + 4, y: y(evaluateUnchecked(fit, end)) + 4, text: memberName(m, u) });
+      labels.push({ x: x(end) + 4, y: y(evaluateUnchecked(fit, end)) + 4, text: memberName(set, m, u) });
     });
-    for (const l of spreadLabels(labels, 11)) g.append(svg('text', { x: l.x, y: l.y, class: 'curve-label' }, l.text));
+    // The curve a variable-speed option runs on is labelled with its speed among the drawn ones.
+    for (const c of q === 'head' ? (duty?.curves ?? []) : []) {
+      const end = c.points[c.points.length - 1];
+      if (end) labels.push({ x: x(end[0]) + 4, y: y(end[1]) + 4, text: c.label.replace(/^.*: /, ''), speed: true });
+    }
+    for (const l of spreadLabels(labels, 11)) g.append(svg('text', { x: l.x, y: l.y, class: l.speed ? 'curve-label speed-curve-label' : 'curve-label' }, l.text));
     if (q === 'head') {
       for (const m of members) {
         const bep = m.derived.bep;
-        if (bep) g.append(svg('circle', { cx: x(bep.flow_m3s), cy: y(bep.head_m), r: 3.5, class: 'bep' }, svg('title', null, `BEP of ${memberName(m, u)}: ${num(fromSI(bep.flow_m3s, u.flow))} ${unitText(u.flow.label)}, ${num(fromSI(bep.head_m, u.head))} ${u.head.label}, ${num(bep.efficiency * 100, 3)} %`)));
+        if (bep) g.append(svg('circle', { cx: x(bep.flow_m3s), cy: y(bep.head_m), r: 3.5, class: 'bep' }, svg('title', null, `BEP of ${memberName(set, m, u, true)}: ${num(fromSI(bep.flow_m3s, u.flow))} ${unitText(u.flow.label)}, ${num(fromSI(bep.head_m, u.head))} ${u.head.label}, ${num(bep.efficiency * 100, 3)} %`)));
       }
       if (duty) {
         g.append(svg('polyline', { points: polylinePoints(duty.system.map((p) => [x(p[0]), y(p[1])] as const)), class: 'system-curve' }));
+        for (const c of duty.curves ?? []) {
+          const end = c.points[c.points.length - 1];
+          if (!end) continue;
+          g.append(svg('polyline', { points: polylinePoints(c.points.map((p) => [x(p[0]), y(p[1])] as const)), class: 'speed-curve' }, svg('title', null, c.label)));
+        }
         for (const p of duty.points) g.append(svg('rect', { x: x(p.flow) - 4, y: y(p.head) - 4, width: 8, height: 8, class: `op-point${p.npshMarginOk === false ? ' short' : ''}` }, svg('title', null, `Operating point ${p.label}: ${num(fromSI(p.flow, u.flow))} ${unitText(u.flow.label)}, ${num(fromSI(p.head, u.head))} ${u.head.label}`)));
       }
     }
@@ -99,24 +123,14 @@ export function familyChart(set: CurveSet, choice: UnitChoice = 'own', duty?: Du
   root.append(svg('text', { x: LEFT + plotW / 2, y: height - 2, class: 'axis-title', 'text-anchor': 'middle' }, `Flow [${unitText(u.flow.label)}]`));
   return h('figure', { class: 'family' },
     root,
-    h('figcaption', null, `${set.pump.name} at ${num(set.speed_rpm)} rpm — fitted curves over their captured range only. ${SAFETY_SENTENCE}`));
-}
-
-function memberName(m: Member, u: ChartUnits): string {
-  return m.diameter_m !== undefined ? `${num(fromSI(m.diameter_m, u.diameter), 4)} ${u.diameter.label}` : `${num(m.speed_rpm)} rpm`;
+    h('figcaption', null, `${set.pump.name}${bySpeed ? `, one impeller drawn at ${members.length} speeds (rated ${num(set.speed_rpm, 6)} rpm)` : ` at ${num(set.speed_rpm, 6)} rpm`} — fitted curves over their captured range only. ${SAFETY_SENTENCE}`));
 }
 
 /**
- * Curve-end labels that would overlap are moved apart: labels whose boxes would touch are
- * spread vertically (at least `gap` px between baselines), keeping their order.
+ * A member as the chart labels it: its impeller diameter, or on a speed family its speed
+ * ("1575 rpm"; with `share`, "1575 rpm (90 %)" of the set's rated speed).
  */
-export function spreadLabels(labels: readonly { x: number; y: number; text: string }[], gap: number): { x: number; y: number; text: string }[] {
-  const out = labels.map((l) => ({ ...l })).sort((a, b) => a.y - b.y);
-  for (let i = 1; i < out.length; i++) {
-    const prev = out[i - 1] as { x: number; y: number };
-    const cur = out[i] as { x: number; y: number };
-    const sideBySide = Math.abs(cur.x - prev.x) > 48;
-    if (!sideBySide && cur.y - prev.y < gap) cur.y = prev.y + gap;
-  }
-  return out;
+export function memberName(set: Pick<CurveSet, 'family' | 'speed_rpm'>, m: Member, u: ChartUnits, share = false): string {
+  if (set.family === 'speed' || m.diameter_m === undefined) return share ? speedWithShare(m.speed_rpm, set.speed_rpm) : curveLabelText({ speed: m.speed_rpm }, '');
+  return curveLabelText({ diameter: fromSI(m.diameter_m, u.diameter) }, u.diameter.token);
 }

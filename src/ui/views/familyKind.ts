@@ -10,13 +10,11 @@ import { parseDiameterList, parseSpeedList, setDiameters, setFamilyKind, setSpee
 import { EditError, type Action } from '../store/actions/action.ts';
 import type { Draft, FamilyKind } from '../store/draft.ts';
 import { targetFor } from '../store/target.ts';
-import { UNIT_CHOICES, unitText } from './words.ts';
-import { formatNumber } from '../../units/format.ts';
+import { speedWithShare, UNIT_CHOICES, unitText } from './words.ts';
 
 /** A speed as shown beside its chip: "1305 rpm (90 %)" on a sheet whose rated speed is 1450 rpm. */
 export function speedText(draft: Pick<Draft, 'pump'>, rpm: number): string {
-  const pct = (100 * rpm) / draft.pump.speed_rpm;
-  return `${formatNumber(rpm)} rpm (${formatNumber(pct, 3)} %)`;
+  return speedWithShare(rpm, draft.pump.speed_rpm);
 }
 
 /** The unit a curve label is read in on this sheet. */

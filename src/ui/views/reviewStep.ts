@@ -10,7 +10,8 @@ import { tracesOfMember, type TraceMembers } from '../app/review.ts';
 import { showValue } from '../../units/index.ts';
 import { traceName } from '../store/actions/traces.ts';
 import { powerUnit, type Draft } from '../store/draft.ts';
-import { chartUnits } from './familyChart.ts';
+import { chartUnits, memberName } from './familyChart.ts';
+import { membersRatedFirst } from '../../duty/speed.ts';
 import { dutyPanel } from './dutyPanel.ts';
 import { recordButtons } from './recordDownload.ts';
 import { num, numIn, numPercent, SAFETY_SENTENCE, unitText } from './words.ts';
@@ -73,17 +74,17 @@ export function reviewStep(bench: Bench): HTMLElement {
           h('td', null, showValue(r?.max, unitText(r?.unit.label || r?.unit.token || ''), 2).text),
           h('td', { class: r && r.percentOfSpan > 1 ? 'warn' : '' }, showValue(r?.percentOfSpan, '%', 2).text));
       }))),
-    h('h4', null, 'Figures per diameter'),
+    h('h4', null, set.family === 'speed' ? 'Figures per speed' : 'Figures per diameter'),
     h('table', { class: 'figures' },
       h('thead', null, h('tr', null,
-        h('th', { scope: 'col' }, set.family === 'speed' ? 'Speed [rpm]' : `Diameter [${u.diameter.label}]`),
+        h('th', { scope: 'col' }, set.family === 'speed' ? 'Speed (share of rated)' : `Diameter [${u.diameter.label}]`),
         h('th', { scope: 'col' }, `Shutoff head [${u.head.label}]`),
         h('th', { scope: 'col' }, `BEP flow [${unitText(u.flow.label)}]`),
         h('th', { scope: 'col' }, `BEP head [${u.head.label}]`),
         h('th', { scope: 'col' }, 'BEP efficiency [%]'))),
-      h('tbody', null, [...set.members].sort((a, b) => (b.diameter_m ?? 0) - (a.diameter_m ?? 0)).map((m) =>
-        h('tr', { 'data-key': `m-${m.diameter_m}` },
-          h('th', { scope: 'row' }, m.diameter_m !== undefined ? numIn(m.diameter_m, u.diameter) : `${num(m.speed_rpm)} rpm`),
+      h('tbody', null, membersRatedFirst(set).map((m) =>
+        h('tr', { 'data-key': `m-${set.family === 'speed' ? `${m.speed_rpm}rpm` : m.diameter_m}` },
+          h('th', { scope: 'row' }, set.family === 'speed' || m.diameter_m === undefined ? memberName(set, m, u, true) : numIn(m.diameter_m, u.diameter)),
           h('td', null, numIn(m.derived.shutoff_head_m, u.head)),
           h('td', null, numIn(m.derived.bep?.flow_m3s, u.flow)),
           h('td', null, numIn(m.derived.bep?.head_m, u.head)),

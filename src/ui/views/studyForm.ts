@@ -49,19 +49,42 @@ export interface DutyForm {
 
 export const FIRST_OPTION: StudyOptionForm = { name: 'Trimmed to the duty', impeller: 'trim', diameter: '', pumps: '1', control: 'throttle', pipe: '' };
 
+/** The first option on a speed family (one impeller drawn at several speeds): no trim to offer, the drive finds the speed. */
+export const SPEED_FIRST_OPTION: StudyOptionForm = { name: 'Variable speed', impeller: 'drawn', diameter: '', pumps: '1', control: 'speed', pipe: '' };
+
+/** Which kind of family the form studies: impeller diameters at one speed, or one impeller at several speeds. */
+export type FormFamily = 'diameter' | 'speed';
+
 export const EMPTY_DUTY: DutyForm = {
   flow: '', head: '', staticHead: '', staticHigh: '', service: 'general', temperatureC: '', elevation: '', suctionStatic: '', suctionLoss: '',
   suctionDiameter: '', suctionLength: '', suctionK: '', dischargeDiameter: '', dischargeLength: '', dischargeK: '', roughness: '',
   hours: '6000', tariff: '0.15', motorEfficiency: '94', options: [FIRST_OPTION],
 };
 
-/** The next option a click adds: each click offers another alternative to compare. */
-export function nextOption(options: readonly StudyOptionForm[]): StudyOptionForm {
-  const kinds: Array<Omit<StudyOptionForm, 'name'>> = [
-    { impeller: 'drawn', diameter: '', pumps: '1', control: 'throttle', pipe: '' },
-    { impeller: 'drawn', diameter: '', pumps: '1', control: 'speed', pipe: '' },
-    { impeller: 'trim', diameter: '', pumps: '2', control: 'throttle', pipe: '' },
-  ];
+/**
+ * The options the form works out: those typed, or while the form is untouched its family's first
+ * option — a trim to the duty on a diameter family, variable speed on a speed family, which has
+ * no impeller trim to offer.
+ */
+export function formOptions(form: Pick<DutyForm, 'options'>, family: FormFamily = 'diameter'): StudyOptionForm[] {
+  const first = family === 'speed' ? SPEED_FIRST_OPTION : FIRST_OPTION;
+  if (form.options.length === 0 || form.options === EMPTY_DUTY.options) return [first];
+  return form.options;
+}
+
+/** The next option a click adds: each click offers another alternative to compare (never a trim on a speed family). */
+export function nextOption(options: readonly StudyOptionForm[], family: FormFamily = 'diameter'): StudyOptionForm {
+  const kinds: Array<Omit<StudyOptionForm, 'name'>> = family === 'speed'
+    ? [
+        { impeller: 'drawn', diameter: '', pumps: '1', control: 'throttle', pipe: '' },
+        { impeller: 'drawn', diameter: '', pumps: '2', control: 'speed', pipe: '' },
+        { impeller: 'drawn', diameter: '', pumps: '1', control: 'speed', pipe: '' },
+      ]
+    : [
+        { impeller: 'drawn', diameter: '', pumps: '1', control: 'throttle', pipe: '' },
+        { impeller: 'drawn', diameter: '', pumps: '1', control: 'speed', pipe: '' },
+        { impeller: 'trim', diameter: '', pumps: '2', control: 'throttle', pipe: '' },
+      ];
   const kind = kinds[(options.length - 1 + kinds.length) % kinds.length] as Omit<StudyOptionForm, 'name'>;
   return { name: `Option ${options.length + 1}`, ...kind };
 }
@@ -94,7 +117,7 @@ const into = (from: Unit, to: Unit) => (v: number | undefined): number | undefin
  * The study for the form, or null while the duty flow is blank. Throws FormError (one sentence)
  * for a field that is not a number or a duty head below the static head.
  */
-export function studyOfForm(form: DutyForm, typedIn: FormUnits | 'si' | 'us'): Study | null {
+export function studyOfForm(form: DutyForm, typedIn: FormUnits | 'si' | 'us', family: FormFamily = 'diameter'): Study | null {
   const shown = typeof typedIn === 'string' ? curveUnits(presetCurveTokens(typedIn)) : typedIn;
   const system = studySystemOf(shown);
   const units = presetNamed(system);
@@ -136,7 +159,8 @@ export function studyOfForm(form: DutyForm, typedIn: FormUnits | 'si' | 'us'): S
     if (head < sHigh) throw new FormError('The duty head lies below the static head; the duty head must include the static head, so check both values.');
     if (head > sHigh) discharge = [equivalent(head - sHigh - (suctionPipe ? 0 : suctionLoss), qSI)];
   }
-  const options = (form.options.length ? form.options : [FIRST_OPTION]).map((o, i) => {
+  const chosen = formOptions(form, family);
+  const options = chosen.map((o, i) => {
     const name = o.name.trim() || `Option ${i + 1}`;
     const diameter = diameterIn(number(o.diameter, `${name}: impeller diameter`));
     const pipeD = diameterIn(number(o.pipe, `${name}: discharge pipe diameter`));
@@ -156,7 +180,7 @@ export function studyOfForm(form: DutyForm, typedIn: FormUnits | 'si' | 'us'): S
     liquid: { temperature },
     site: elevation !== undefined ? { elevation } : {},
     duty: { flow, ...(head !== undefined ? { head } : {}) },
-    suction: { surface_above_eye: lengthIn(number(form.suctionStatic, 'Suction static head')) ?? 0, pipes: suctionPipe ? [suctionPipe] : suctionLoss > 0 ? [equivalent(suctionLoss, qSI / Number(form.options[0]?.pumps ?? 1))] : [] },
+    suction: { surface_above_eye: lengthIn(number(form.suctionStatic, 'Suction static head')) ?? 0, pipes: suctionPipe ? [suctionPipe] : suctionLoss > 0 ? [equivalent(suctionLoss, qSI / Number(chosen[0]?.pumps ?? 1))] : [] },
     discharge: { static_head: [sLow, sHigh], pipes: discharge },
     curveset: 'this sheet',
     options: options as StudyInput['options'],

@@ -10,7 +10,7 @@ import { typedNumber } from '../store/actions/action.ts';
 import { isDecimalText, readDecimal } from '../../units/readNumber.ts';
 import { discardEdits, removeTrace, setHidden, setLocked, setTraceSpec, traceName } from '../store/actions/traces.ts';
 import { familyLabels, labelField, labelOf, powerUnit, pointsOf, type TraceDraft } from '../store/draft.ts';
-import { afterRemoval, firstUntraced, panelFor, sharedCurves, sharedCurveSentence, targetFor } from '../store/target.ts';
+import { afterRemoval, curveTarget, firstUntraced, panelFor, sharedCurves, sharedCurveSentence, targetFor, withLabel } from '../store/target.ts';
 import { QUANTITY_INK } from '../canvas/overlay.ts';
 import { QUANTITY_NAMES, num, unitText } from './words.ts';
 import { familyKindFields, labelUnit, speedText } from './familyKind.ts';
@@ -35,7 +35,7 @@ export function traceStep(bench: Bench): HTMLElement {
 
   const linesChoice = target.quantity === 'efficiency' || target.quantity === 'power'
     ? h('div', { class: 'segmented small', role: 'group', 'aria-label': 'How the quantity is drawn' },
-        h('button', { type: 'button', 'aria-pressed': target.lines === 'diameter' ? 'true' : 'false', onclick: () => store.setSession({ target: { quantity: target.quantity, lines: 'diameter', ...(firstUntraced(draft, target.quantity) !== undefined ? { diameter: firstUntraced(draft, target.quantity) as number } : {}) } }) }, draft.family === 'speed' ? 'one curve per speed' : 'one curve per diameter'),
+        h('button', { type: 'button', 'aria-pressed': target.lines === 'curve' ? 'true' : 'false', onclick: () => store.setSession({ target: curveTarget(draft, target.quantity, firstUntraced(draft, target.quantity)) }) }, draft.family === 'speed' ? 'one curve per speed' : 'one curve per diameter'),
         h('button', { type: 'button', 'aria-pressed': target.lines === 'iso' ? 'true' : 'false', onclick: () => store.setSession({ target: { quantity: target.quantity, lines: 'iso' } }) }, 'lines of constant value'))
     : null;
 
@@ -59,7 +59,7 @@ export function traceStep(bench: Bench): HTMLElement {
         familyLabels(draft).length === 0 ? h('span', { class: 'hint' }, draft.family === 'speed' ? 'Type the speeds above first.' : 'Type the diameters above first.') : null,
         familyLabels(draft).map((d) => {
           const done = draft.traces.some((t) => t.quantity === target.quantity && t.iso === undefined && labelOf(t) === d);
-          return h('button', { type: 'button', class: `chip${done ? ' done' : ''}`, 'data-key': `d-${d}`, 'aria-pressed': target.diameter === d ? 'true' : 'false', onclick: () => store.setSession({ target: { ...target, lines: 'diameter', diameter: d } }) },
+          return h('button', { type: 'button', class: `chip${done ? ' done' : ''}`, 'data-key': `d-${d}`, 'aria-pressed': labelOf(target) === d ? 'true' : 'false', onclick: () => store.setSession({ target: withLabel(draft, target, d) }) },
             draft.family === 'speed' ? speedText(draft, d) : `${d} ${unitText(draft.units.diameter)}`, done ? h('span', { class: 'tick', 'aria-label': 'traced' }, ' ✓') : null);
         }));
 
@@ -88,7 +88,7 @@ function traceList(bench: Bench): HTMLElement {
   if (groups.length === 0) return h('p', { class: 'hint' }, 'No traces yet.');
   const shared = sharedCurves(draft);
   return h('div', { class: 'trace-list' },
-    shared.map((g) => h('p', { class: 'shared-curve caution', role: 'note', 'data-key': `shared-${g.quantity}-${g.diameter}` }, sharedCurveSentence(g, unitText(draft.units.diameter)))),
+    shared.map((g) => h('p', { class: 'shared-curve caution', role: 'note', 'data-key': `shared-${g.quantity}-${labelOf(g)}` }, sharedCurveSentence(g, unitText(draft.units.diameter)))),
     groups.map((g) =>
     h('section', { 'data-key': `group-${g.q}`, 'aria-label': `${QUANTITY_NAMES[g.q]} traces` },
       h('h4', null, h('span', { class: 'swatch', style: { background: QUANTITY_INK[g.q] } }), `${QUANTITY_NAMES[g.q]} (${g.traces.length})`),

@@ -49,3 +49,17 @@ export function numPercent(fraction: number | null | undefined, digits = 3): str
 export function choiceWords(choice: UnitChoice, u: Pick<CurveUnits, 'flow' | 'head' | 'power' | 'diameter'>): string {
   return choice === 'own' ? `its own units (${unitText(u.flow.label)}, ${u.head.label}, ${u.power.label}, ${u.diameter.label})` : `${choice.toUpperCase()} units`;
 }
+
+/** "1575 rpm (90 %)": a drawn speed with its share of the rated speed (the pump's `speed_rpm`). */
+export function speedWithShare(rpm: number, ratedRpm: number): string {
+  return `${num(rpm, 6)} rpm (${num((100 * rpm) / ratedRpm, 3)} %)`;
+}
+
+/**
+ * A curve's label on screen, as the sheet labels its curves: "250 mm" for an impeller diameter
+ * (in `diameterUnit`), "1575 rpm" for a speed, or "1575 rpm (90 %)" when the rated speed is given.
+ */
+export function curveLabelText(label: { diameter?: number | undefined; speed?: number | undefined }, diameterUnit: string, ratedRpm?: number): string {
+  if (label.speed !== undefined) return ratedRpm ? speedWithShare(label.speed, ratedRpm) : `${num(label.speed, 6)} rpm`;
+  return `${label.diameter === undefined ? '?' : num(label.diameter)} ${unitText(diameterUnit)}`;
+}

@@ -1,14 +1,18 @@
 /** Edits of traces and their points (step 3, "Trace the curves"). */
 import type { Quantity } from '../../../model/curveset.ts';
 import type { SheetXY } from '../../../model/takeoff.ts';
-import { powerUnit, freshId, labelField, pointsOf, type CaptureMethod, type Draft, type TraceDraft } from '../draft.ts';
+import { powerUnit, freshId, pointsOf, type CaptureMethod, type Draft, type TraceDraft } from '../draft.ts';
 import { edited, EditError, replaceById, requireFinite, requirePositive, type Action } from './action.ts';
 import { QUANTITY_WORDS } from '../../views/words.ts';
 
+/** What a new trace is: its panel and quantity, and its label as the take-off file carries it (a diameter or a speed, or an iso value). */
 export interface TraceSpec {
   panel: string;
   quantity: Quantity;
+  /** Impeller diameter in units.diameter, on a sheet of diameters. */
   diameter?: number;
+  /** Speed in rpm, on a sheet of speeds. */
+  speed?: number;
   iso?: number;
   method?: CaptureMethod;
 }
@@ -26,10 +30,14 @@ function checkSpec(draft: Draft, spec: TraceSpec): void {
   if (spec.iso !== undefined) {
     requireFinite(spec.iso, 'The iso value');
     if (spec.quantity !== 'efficiency' && spec.quantity !== 'power') throw new EditError('Only efficiency and power can be traced as lines of constant value.');
-  } else if (spec.diameter === undefined) {
-    throw new EditError(draft.family === 'speed' ? 'Choose the speed of the curve before tracing it.' : 'Choose the impeller diameter of the curve before tracing it.');
+  } else if (spec.diameter !== undefined && spec.speed !== undefined) {
+    throw new EditError('A curve is labelled by a diameter or by a speed, not both; choose one.');
+  } else if (draft.family === 'speed') {
+    if (spec.speed === undefined) throw new EditError(spec.diameter === undefined ? 'Choose the speed of the curve before tracing it.' : 'This sheet is drawn for speeds (one impeller); choose the speed of the curve in rpm, not a diameter.');
+    requirePositive(spec.speed, 'The speed');
   } else {
-    requirePositive(spec.diameter, draft.family === 'speed' ? 'The speed' : 'The diameter');
+    if (spec.diameter === undefined) throw new EditError(spec.speed === undefined ? 'Choose the impeller diameter of the curve before tracing it.' : 'This sheet is drawn for impeller diameters (one speed); choose the diameter of the curve, not a speed, or say above that the curves are drawn for speeds.');
+    requirePositive(spec.diameter, 'The diameter');
   }
 }
 
@@ -50,8 +58,7 @@ export const addTrace = (spec: TraceSpec, guides: readonly SheetXY[], captured: 
     id,
     panel: spec.panel,
     quantity: spec.quantity,
-    // `spec.diameter` is the curve's label: a diameter, or a speed (rpm) on a sheet of one impeller at several speeds.
-    ...(spec.iso !== undefined ? { iso: spec.iso } : labelField(draft, spec.diameter as number)),
+    ...(spec.iso !== undefined ? { iso: spec.iso } : spec.speed !== undefined ? { speed: spec.speed } : { diameter: spec.diameter as number }),
     guides: [...guides],
     method: spec.method ?? 'auto',
     captured: [...captured],
@@ -82,7 +89,7 @@ export const setGuides = (id: string, guides: readonly SheetXY[], captured: read
 export const setTraceSpec = (id: string, spec: Partial<Pick<TraceDraft, 'quantity' | 'diameter' | 'speed' | 'iso' | 'panel' | 'method'>>): Action => (draft) => {
   const t = requireEditable(draft, id);
   const merged = { ...t, ...spec };
-  checkSpec(draft, { panel: merged.panel, quantity: merged.quantity, ...(merged.iso !== undefined ? { iso: merged.iso } : {}), ...((merged.diameter ?? merged.speed) !== undefined ? { diameter: (merged.diameter ?? merged.speed) as number } : {}) });
+  checkSpec(draft, { panel: merged.panel, quantity: merged.quantity, ...(merged.iso !== undefined ? { iso: merged.iso } : {}), ...(merged.diameter !== undefined ? { diameter: merged.diameter } : {}), ...(merged.speed !== undefined ? { speed: merged.speed } : {}) });
   return edited(changeTrace(draft, id, () => merged), `relabel as ${traceName(merged, draft.units.diameter, powerUnit(draft.units))}`);
 };
 
