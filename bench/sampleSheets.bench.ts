@@ -8,7 +8,8 @@
  *    processes interleaved round by round, median of 7 (target ≤ 3×);
  * 2. per sheet: the whole `pumpscribe takeoff` command (child process: start-up, load, decode,
  *    capture, fit, checks, write) against the work itself (load and replay in this process,
- *    warm), with the command's peak RSS (targets: a four-diameter 300-dpi scan ≤ 3× and
+ *    warm), interleaved round by round, median of 7, with the spread of the per-round ratios
+ *    and the CPU time of both, and the command's peak RSS (targets: a four-diameter 300-dpi scan ≤ 3× and
  *    ≤ 200 MiB; a vector take-off ≤ 200 MiB), and the time after start-up (whole command less
  *    the take-off command's start-up; target for a four-diameter 300-dpi scan < 2 s);
  * 3. per scan: raster trace time and the whole capture stage against a native pass over the
@@ -42,7 +43,7 @@ import { writeSheet } from '../scripts/sheets/makeSheet.ts';
 import { scoreCurveSet } from '../scripts/sheets/score.ts';
 import type { Truth } from '../scripts/sheets/truth.ts';
 import { SAMPLE_VARIANTS } from '../scripts/sheets/variants.ts';
-import { BIN, interleaved, median, mib, ROOT, runNode, spread } from './processes.ts';
+import { BIN, type ChildRun, interleaved, median, mib, ROOT, runNode, spread } from './processes.ts';
 
 const SAMPLES = join(ROOT, 'samples', 'sheets');
 const ms = (v: number) => `${v.toFixed(v < 10 ? 1 : 0)} ms`;
@@ -71,25 +72,37 @@ function startup(): { ms: number; rss: number | undefined } {
   return { ms: median(runs.takeoff!.map((c) => c.ms)), rss: Math.max(...runs.takeoff!.map((c) => c.rss ?? 0)) || undefined };
 }
 
-/** The work itself, in this process and warm: load the sheet and replay the take-off (median wall and CPU time, ms). */
-async function workItself(dir: string, takeoff: Takeoff): Promise<{ ms: number; cpu: number }> {
-  const times: number[] = [];
-  const cpus: number[] = [];
-  for (let i = 0; i < 4; i++) {
-    const c0 = process.cpuUsage();
-    const [, t] = await timed(async () => {
-      const sheet = await loadSheetFileNode(join(dir, takeoff.sheet));
-      await replayTakeoff(takeoff, sheet, { created: '2024-01-01T00:00:00Z' });
-      await sheet.close();
-    });
-    const c = process.cpuUsage(c0);
-    if (i > 0) {
-      // the first run warms the JIT up
-      times.push(t);
-      cpus.push((c.user + c.system) / 1000);
-    }
+/** One run of the work itself, in this process: load the sheet and replay the take-off (wall and CPU time, ms). */
+async function workOnce(dir: string, takeoff: Takeoff): Promise<{ ms: number; cpu: number }> {
+  const c0 = process.cpuUsage();
+  const [, ms] = await timed(async () => {
+    const sheet = await loadSheetFileNode(join(dir, takeoff.sheet));
+    await replayTakeoff(takeoff, sheet, { created: '2024-01-01T00:00:00Z' });
+    await sheet.close();
+  });
+  const c = process.cpuUsage(c0);
+  return { ms, cpu: (c.user + c.system) / 1000 };
+}
+
+/**
+ * The whole command and the work itself side by side: one warm-up run of the work (the JIT warms
+ * up), then ROUNDS rounds of (whole command in a child process, the work in this process), so
+ * that a busy moment of the shared machine falls on both alike. Before, the work was timed first
+ * (3 runs) and the command after it (3 runs): on a loaded machine two scans of the same size got
+ * 5.0× and 1.6× in one run, because the two halves of each ratio had seen different loads. The
+ * yardstick itself is unchanged: the same load and replay, in this process, warm.
+ */
+const ROUNDS = 7;
+
+async function wholeAgainstWork(dir: string, takeoff: Takeoff, args: string[]): Promise<{ whole: ChildRun[]; work: { ms: number; cpu: number }[] }> {
+  await workOnce(dir, takeoff);
+  const whole: ChildRun[] = [];
+  const work: { ms: number; cpu: number }[] = [];
+  for (let round = 0; round < ROUNDS; round++) {
+    whole.push(runNode(args));
+    work.push(await workOnce(dir, takeoff));
   }
-  return { ms: median(times), cpu: median(cpus) };
+  return { whole, work };
 }
 
 /** Trace and capture against a native pass over the page, interleaved round by round. */
@@ -149,10 +162,12 @@ async function benchSheet(dir: string, name: string, targets: SheetTargets, star
   process.stdout.write(`\n${name} (${kind}, ${takeoff.traces.length} traces)\n`);
   process.stdout.write(`  worst error: head ${worst('head')} %, power ${worst('power')} %, NPSHr ${worst('npshr')} % of span; efficiency ${worst('efficiency')} pt${rows.some((r) => r.worst >= r.limit) ? '  ← OVER THE ACCEPTANCE' : ''}\n`);
 
-  const work = await workItself(dir, takeoff);
   const scratch = mkdtempSync(join(tmpdir(), 'pumpscribe-out-'));
   const out = join(scratch, `${name}.bench.curveset.json`);
-  const whole = [0, 1, 2].map(() => runNode([BIN, 'takeoff', takeoffPath, '-o', out, '-q']));
+  const sideBySide = await wholeAgainstWork(dir, takeoff, [BIN, 'takeoff', takeoffPath, '-o', out, '-q']);
+  const whole = sideBySide.whole;
+  const work = { ms: median(sideBySide.work.map((w) => w.ms)), cpu: median(sideBySide.work.map((w) => w.cpu)) };
+  const roundRatios = whole.map((r, i) => r.ms / (sideBySide.work[i] as { ms: number }).ms);
   const failed = whole.find((r) => r.code !== 0 && r.code !== 1);
   const wall = median(whole.map((r) => r.ms));
   const rss = Math.max(...whole.map((r) => r.rss ?? 0)) || undefined;
@@ -164,7 +179,8 @@ async function benchSheet(dir: string, name: string, targets: SheetTargets, star
   ].filter(Boolean);
   const after = wall - start.ms;
   process.stdout.write(
-    `  whole \`pumpscribe takeoff\`: ${spread(whole.map((r) => r.ms), ms)}, peak RSS ${mib(rss)}; the work itself (load and replay, in process, warm) ${ms(work.ms)}; ratio ${x(ratio)} [${verdict.join(', ')}]${failed ? `  ← exit ${failed.code}: ${failed.stderr.trim()}` : ''}\n` +
+    `  whole \`pumpscribe takeoff\` against the work itself (load and replay, in process, warm), interleaved, median of ${ROUNDS}:\n` +
+      `  whole ${spread(whole.map((r) => r.ms), ms)}, peak RSS ${mib(rss)}; the work itself ${spread(sideBySide.work.map((w) => w.ms), ms)}; ratio ${x(ratio)}, per round ${x(Math.min(...roundRatios))}–${x(Math.max(...roundRatios))} [${verdict.join(', ')}]${failed ? `  ← exit ${failed.code}: ${failed.stderr.trim()}` : ''}\n` +
       (cpus.length ? `  CPU time (all threads; steadier on a shared machine): whole command ${ms(median(cpus))}, the work itself ${ms(work.cpu)}; ratio ${x(median(cpus) / work.cpu)}\n` : '') +
       `  after start-up (whole less \`takeoff --help\`, ${ms(start.ms)}): ${ms(after)}; ratio to the work itself ${x(after / work.ms)}` +
       `${targets.afterStartup === undefined ? '' : after < targets.afterStartup ? ` [under ${targets.afterStartup / 1000} s ok]` : ` [over ${targets.afterStartup / 1000} s]`}\n`,
@@ -274,13 +290,20 @@ async function bigPages(dir: string, base: string, start: { rss: number | undefi
   );
 }
 
+/**
+ * SAMPLE_SHEETS_ONLY=300dpi (any part of a sheet's name) runs only the sheets that match, for a
+ * quick look at one figure; the start-up is always measured, the big page only with its scan.
+ */
+const only = process.env.SAMPLE_SHEETS_ONLY;
+const wanted = (name: string) => !only || name.includes(only);
+
 export default async function (): Promise<void> {
   // Measure what users run: the prebuilt command line, rebuilt from the current sources.
   spawnSync(process.execPath, [join(ROOT, 'scripts', 'build-cli.mjs')], { stdio: 'ignore' });
   const start = startup();
 
   process.stdout.write('\nInvented sample sheets\n');
-  for (const v of SAMPLE_VARIANTS) await benchSheet(SAMPLES, v.spec.name, { rss: 200 }, start);
+  for (const v of SAMPLE_VARIANTS) if (wanted(v.spec.name)) await benchSheet(SAMPLES, v.spec.name, { rss: 200 }, start);
 
   const dir = mkdtempSync(join(tmpdir(), 'pumpscribe-bench-'));
   try {
@@ -290,11 +313,12 @@ export default async function (): Promise<void> {
       { spec: { name: 'si-panels-black-300dpi', system: 'si', layout: 'panels', ink: 'black', labelsOnLines: true, seed: 32 }, scan: { dpi: 300, rotationDeg: -1.5, noise: 8, blur: 0.8, jpegQuality: 80, seed: 32 } },
     ] as const;
     for (const v of scans) {
+      if (!wanted(v.spec.name)) continue;
       await writeSheet(dir, { spec: { ...v.spec }, scan: { ...v.scan } });
       await benchSheet(dir, v.spec.name, { ratio: 3, rss: 200, afterStartup: 2000, trace: 2 }, start);
       await memoryPerPixel(dir, v.spec.name);
     }
-    await bigPages(dir, scans[0].spec.name, start);
+    if (wanted(scans[0].spec.name)) await bigPages(dir, scans[0].spec.name, start);
   } finally {
     rmSync(dir, { recursive: true, force: true });
   }

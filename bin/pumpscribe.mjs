@@ -1,18 +1,19 @@
 #!/usr/bin/env node
 /**
- * The `pumpscribe` command. Runs the prebuilt command line (build/cli/main.mjs, made by
- * `npm install` through the `prepare` script, or by `npm run build:cli`) in this process.
+ * The `pumpscribe` command. Runs the prebuilt command line (build/cli/pumpscribe.cjs, made by
+ * `npm install` through the `prepare` script, or by `npm run build:cli`) in this process, with
+ * a V8 code cache (see runBundle.mjs; PUMPSCRIBE_CODE_CACHE=off runs without it).
  * In a developer's checkout where the bundle is missing, or older than a file under src/,
  * it runs the TypeScript sources through tsx instead, so an edit is never silently ignored.
  * PUMPSCRIBE_FROM_SOURCE=1 forces the sources.
  */
 import { spawnSync } from 'node:child_process';
 import { existsSync, readdirSync, readFileSync, statSync } from 'node:fs';
-import { fileURLToPath, pathToFileURL } from 'node:url';
+import { fileURLToPath } from 'node:url';
 import { dirname, join } from 'node:path';
 
 const root = join(dirname(fileURLToPath(import.meta.url)), '..');
-const bundle = join(root, 'build', 'cli', 'main.mjs');
+const bundle = join(root, 'build', 'cli', 'pumpscribe.cjs');
 const sources = join(root, 'src');
 
 /** Newest modification time of a source file that goes into the command line (src/ui is the browser's). */
@@ -43,7 +44,8 @@ function bundleIsCurrent() {
 }
 
 if (bundleIsCurrent()) {
-  await import(pathToFileURL(bundle).href);
+  const { runBundle } = await import('./runBundle.mjs');
+  runBundle(bundle);
 } else {
   const tsx = join(root, 'node_modules', 'tsx', 'dist', 'cli.mjs');
   if (!existsSync(tsx) || !existsSync(join(sources, 'cli', 'main.ts'))) {

@@ -103,4 +103,10 @@ export async function main(argv: string[]): Promise<void> {
   }
 }
 
-await main(process.argv);
+// Not a top-level await: the prebuilt command line is one CommonJS script (scripts/build-cli.mjs).
+// A defect that escapes the command's own handling (runCommand) still ends in exit 3 with one sentence.
+main(process.argv).catch((error: unknown) => {
+  process.stderr.write(`pumpscribe: Unexpected internal error: ${error instanceof Error ? error.message : String(error)}. Please report it with the input that caused it.\n`);
+  if (process.env.PUMPSCRIBE_DEBUG && error instanceof Error) process.stderr.write(`${error.stack}\n`);
+  process.exit(3);
+});

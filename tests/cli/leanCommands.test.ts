@@ -101,6 +101,11 @@ describe('lean commands', () => {
     expect(commands).toEqual(Object.keys(ALLOWED).sort());
   });
 
+  it('a take-off loads the automatic take-off (src/digitize/detect) only with --detect', () => {
+    const { files } = loadedAtStart('src/cli/commands/takeoff.ts');
+    expect(files.filter((f) => f.startsWith('src/digitize/detect/'))).toEqual([]);
+  });
+
   it('a take-off loads pdf.js only for a PDF and the image decoder only for a JPEG (dynamic imports)', () => {
     const dynamic = (file: string) => (inputs[file]?.imports ?? []).filter((i) => i.kind === 'dynamic-import').map((i) => i.path);
     expect(dynamic('src/digitize/loaders/pdfNode.ts')).toContain('pdfjs-dist/legacy/build/pdf.mjs');

@@ -10,7 +10,6 @@ import { ZodError } from 'zod';
 import type { TraceOutcome } from '../../digitize/takeoff.ts';
 import { loadSheetFileNode } from '../../digitize/loaders/sheetNode.ts';
 import { parseTakeoff, parseTakeoffToDetect, TakeoffError, TAKEOFF_FORMAT, TAKEOFF_VERSION, type Takeoff } from '../../model/takeoff.ts';
-import { detectTakeoff } from '../../digitize/detect/detect.ts';
 import { stringifyCurveSet } from '../../model/curvesetIO.ts';
 import { describeZodError, EXIT_FAILED_CHECKS, EXIT_OK, InputError, runCommand } from '../errors.ts';
 import { emitReport, isStdio, progressLine, readText, writeTextAtomic } from '../io.ts';
@@ -59,13 +58,14 @@ async function takeoff(file: string, o: TakeoffOptions): Promise<number> {
   const progress = progressLine(!o.quiet && !o.json && process.stderr.isTTY === true && !process.env.CI);
   progress.step(`loading ${basename(sheetPath)}`);
   const notes: string[] = [];
-  // The sheet decodes on a worker thread (JPEG) while the take-off code loads here: both at once.
+  // The sheet is read and decoded (a JPEG on the decoder's own thread) while the take-off code loads: both at once.
   const [sheet, { replayTakeoff }] = await Promise.all([
     loadSheetFileNode(sheetPath, { page: parsed.page, onNote: (sentence) => notes.push(sentence) }),
     import('../../digitize/takeoff.ts'),
   ]);
   try {
-    const detected = o.detect ? await detectTakeoff(parsed, raw as Record<string, unknown>, sheet) : null; // automatic take-off: src/digitize/detect
+    // The automatic take-off (src/digitize/detect) is loaded only with --detect.
+    const detected = o.detect ? await (await import('../../digitize/detect/detect.ts')).detectTakeoff(parsed, raw as Record<string, unknown>, sheet) : null;
     if (detected) [parsed, raw] = [detected.takeoff, detected.document];
     for (const q of detected?.questions ?? []) process.stderr.write(`Question: ${q}\n`);
     parsed = parsed as Takeoff;
