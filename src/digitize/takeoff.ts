@@ -89,7 +89,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
 
   const calibrations = new Map<string, Calibration>();
   for (const panel of takeoff.panels) {
-    const cal = calibrate(panel.anchors, { xScale: panel.x_scale, yScale: panel.y_scale, panel: panel.id, ...(panel.projection ? { projection: panel.projection } : {}) });
+    const cal = calibrate(panel.anchors, { xScale: panel.x_scale, yScale: panel.y_scale, panel: panel.id, ...(panel.projection ? { projection: panel.projection } : {}), ...(panel.frame ? { frame: panel.frame } : {}) });
     calibrations.set(panel.id, cal);
     for (const w of cal.warnings) note('takeoff.calibration-residual', 'warn', w, undefined, { max_percent_of_span: cal.maxPercentOfSpan, max_sheet: cal.maxSheet });
   }
