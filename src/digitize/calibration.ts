@@ -180,6 +180,7 @@ function affineCalibration(anchors: readonly AnchorInput[], tx: AxisTransform, t
       notices.push(`${where}: three anchors fix an affine map exactly, so neither a misplaced anchor nor the perspective of a photo can show; the residual shown (${expected.toFixed(2)} % of span) is the error expected over the plot from anchors placed within ${ANCHOR_UNCERTAINTY} units. Add a fourth anchor near the free corner of the plot.`);
       return finish('affine', { affine: m }, tx, ty, anchors.map(() => ({ sheet: ANCHOR_UNCERTAINTY, percentOfSpan: expected })), 'none', where, options, notices, expected);
     }
+    else if (!canSeePerspective && !hasQuad(pts)) notices.push(`${where}: no four of the anchors are free of three on one line, so they cannot reveal the perspective of a photo; add an anchor off that line, near a free corner of the plot.`);
     else if (!canSeePerspective) notices.push(`${where}: the anchors lie on two lines (e.g. along the axes), so they cannot reveal the perspective of a photo; add an anchor off those lines (the far corner of the plot).`);
     return finish('affine', { affine: m }, tx, ty, affineResiduals, anchors.length === 3 ? 'none' : 'fit', where, options, notices, expectedError(pts, targets, spanU, spanV, affineFitter, 6, options.frame));
   }

@@ -90,6 +90,11 @@ describe('projective calibration', () => {
     expect(cal.projection).toBe('affine');
     expect(cal.warnings.some((w) => /cannot reveal the perspective/.test(w))).toBe(true);
     expect(() => calibrate(twoLines.map(([x, y]) => ({ at: at(x, y), x, y })), { projection: 'projective' })).toThrow(/not all along two lines from one anchor/);
+    // Four anchors, three of them along the bottom edge: no four can fix a perspective.
+    const threeOnOne: [number, number][] = [[0, 0], [200, 0], [400, 0], [200, 80]];
+    const flatLine = calibrate(threeOnOne.map(([x, y]) => ({ at: at(x, y), x, y })), { panel: 'p' });
+    expect(flatLine.projection).toBe('affine');
+    expect(flatLine.warnings.some((w) => /three on one line, so they cannot reveal the perspective/.test(w))).toBe(true);
   });
 
   it('chooses projective with 5 anchors when the homography fits them far better, even when one of them nearly lines up with two others', () => {
