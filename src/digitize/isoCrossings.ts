@@ -43,7 +43,7 @@ export const REACH_SLACK = 4;
 const MERGE_DISTANCE = 0.05;
 
 /** Unit direction of a polyline leaving through its end (`fromEnd` true) or its start, over about `span` sheet units. */
-function endDirection(points: readonly SheetPoint[], fromEnd: boolean, span: number): [number, number] | undefined {
+export function endDirection(points: readonly SheetPoint[], fromEnd: boolean, span: number): [number, number] | undefined {
   const n = points.length;
   const end = (fromEnd ? points[n - 1] : points[0]) as SheetPoint;
   let k = fromEnd ? n - 2 : 1;

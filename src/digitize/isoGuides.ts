@@ -52,11 +52,32 @@ export function guidesOffCrossings(image: RasterImage, guides: readonly SheetPoi
   return { guides: out, moved };
 }
 
+/** Largest turn, radians, between an iso-trace's direction at its end and the ink it is continued along beyond a head curve (about 35°). */
+const BEYOND_TURN = 0.6;
+
+/**
+ * Where an iso-line goes on beyond a head curve it was followed up to: the trace ended at the
+ * crossing `at` (sheet units) heading `dir` (a unit vector), where the thick head curve stopped
+ * the follower. On a circle a few head widths around the crossing, the ink away from every
+ * head trace that leaves it within BEYOND_TURN of that heading and runs on into the crossing
+ * is the iso-line beyond; a guide there lets the trace go on. Undefined when none is found.
+ */
+export function guideBeyondCrossing(image: RasterImage, at: SheetPoint, dir: readonly [number, number], lines: readonly CrossedLine[]): SheetPoint | undefined {
+  const s = image.scale;
+  const usable = lines.filter((l) => l.points.length >= 2 && l.width > 0);
+  const near = usable.filter((l) => nearestOnPolyline(l.points, at).distance * s <= ON_LINE_WIDTHS * l.width * s + ON_LINE_PX);
+  if (near.length === 0) return undefined;
+  const widest = Math.max(...near.map((l) => l.width * s));
+  const to = offCrossing(image, [at[0] * s, at[1] * s], widest, usable, s, dir);
+  return to && sheetPoint(to[0] / s, to[1] / s);
+}
+
 /**
  * The point, on a circle of a few head widths around `centre` (pixels), where the darkest ink
- * away from every head trace crosses it; undefined when there is none.
+ * away from every head trace crosses it (only within BEYOND_TURN of `heading`, when given);
+ * undefined when there is none.
  */
-function offCrossing(image: RasterImage, centre: readonly [number, number], headWidth: number, lines: readonly CrossedLine[], s: number): [number, number] | undefined {
+function offCrossing(image: RasterImage, centre: readonly [number, number], headWidth: number, lines: readonly CrossedLine[], s: number, heading?: readonly [number, number]): [number, number] | undefined {
   const radius = Math.max(8, 3 * headWidth + 3);
   const paper = estimatePaper(image, centre[0], centre[1], 2 * radius + 8);
   const steps = Math.max(48, Math.ceil((2 * Math.PI * radius) / 0.7));
@@ -100,6 +121,10 @@ function offCrossing(image: RasterImage, centre: readonly [number, number], head
       for (let m = start; m <= end; m++) weight += contrast[(origin + m) % steps]!;
       const mid = sum / weight;
       const angle = (2 * Math.PI * (origin + mid)) / steps;
+      if (heading && Math.cos(angle) * heading[0] + Math.sin(angle) * heading[1] < Math.cos(BEYOND_TURN)) {
+        start = -1;
+        continue;
+      }
       // The iso-line runs on into the crossing: ink all along the ray from the circle inwards.
       // Text, a label or a line passing by the crossing breaks off.
       const reach = rayInk(image, centre, angle, radius, paper, threshold, lines, s);

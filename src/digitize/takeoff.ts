@@ -13,13 +13,13 @@ import { TakeoffError, takeoffFamily, type Takeoff, type Trace } from '../model/
 import { minFlowLimit } from '../fit/speedFamilyLimits.ts';
 import { SG_REFERENCE_DENSITY, toSI, type Unit } from '../units/index.ts';
 import { formatSI } from '../units/format.ts';
-import { arcLengths } from './polyline.ts';
 import type { LostStretch } from './rasterTrace.ts';
 import { auditIsoCrossings, auditTraces, type AuditedTrace, type AuditFinding, type IsoCount } from './traceAudit.ts';
 import { calibrate, type Calibration } from './calibration.ts';
 import { captureTrace, type CaptureOptions, type CaptureResult } from './capture.ts';
-import { DEFAULT_TOUCH_TOLERANCE, isoCrossings, type IsoCrossing } from './isoCrossings.ts';
-import { guidesOffCrossings } from './isoGuides.ts';
+import { DEFAULT_TOUCH_TOLERANCE, endDirection, isoCrossings, REACH_HEAD_WIDTHS, REACH_ISO_WIDTHS, REACH_SLACK, type IsoCrossing } from './isoCrossings.ts';
+import { guideBeyondCrossing, guidesOffCrossings, type CrossedLine } from './isoGuides.ts';
+import { arcLengths, nearestOnPolyline } from './polyline.ts';
 import { sheetPoint, type SheetPoint } from './points.ts';
 import { safeScale, type Sheet } from './sheet.ts';
 import { strokeLines } from './vectorCapture.ts';
@@ -161,11 +161,17 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
       continue;
     }
     const image = await source.raster();
-    const { guides, moved } = guidesOffCrossings(image, guidesOf(trace) ?? [], heads.map((o) => ({ points: o.points, width: o.lineWidth as number })));
+    const lines = heads.map((o) => ({ points: o.points, width: o.lineWidth as number }));
+    const { guides, moved } = guidesOffCrossings(image, guidesOf(trace) ?? [], lines);
     if (moved.length > 0) {
       note('takeoff.guide-on-crossing', 'note', `Iso-trace ${id} (${describeTrace(trace)}): guide${moved.length === 1 ? '' : 's'} ${moved.map((m) => m.index + 1).join(', ')} sat where the iso-line crosses a head curve; the line was sampled a few line widths along the iso-line instead, so that the thick head curve does not lend it its colour and width.`, id);
     }
-    await captureOne(index, trace, guides);
+    const frame = takeoff.panels.find((p) => p.id === trace.panel)?.frame;
+    const through = await throughCrossings(image, guides, lines, frame, (g) => captureTrace({ guides: g, method: trace.method, extent: trace.extent, frame }, source, options.capture).catch(() => undefined));
+    if (through.length > guides.length) {
+      note('takeoff.iso-through-crossing', 'note', `Iso-trace ${id} (${describeTrace(trace)}) stopped where it meets a head curve and was followed on beyond it (${through.length - guides.length} guide${through.length - guides.length === 1 ? '' : 's'} added past the crossing${through.length - guides.length === 1 ? '' : 's'}).`, id);
+    }
+    await captureOne(index, trace, through);
   }
   outcomes.sort((a, b) => a.index - b.index);
 
@@ -309,6 +315,48 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
   const limits = minFlowLimit(takeoff.min_flow !== undefined ? toSI(takeoff.min_flow, units.flow) : undefined, minFlowLine);
   const curveSet = CurveSet.parse({ ...built, ...(limits ? { limits } : {}), findings: sortFindings([...built.findings, ...findings]) });
   return { curveSet, traces: outcomes, calibrations, traceMembers, crossings: crossingsOf };
+}
+
+/**
+ * An iso-line is followed from crossing to crossing: where a followed iso trace ends on a head
+ * curve (the thick curve stops the follower) and the iso-line goes on beyond it, a guide is
+ * added there (isoGuides.ts, `guideBeyondCrossing`) and the line followed again, up to once per
+ * head curve. Returns the guides to trace with.
+ */
+async function throughCrossings(
+  image: RasterImage,
+  start: readonly SheetPoint[],
+  lines: readonly CrossedLine[],
+  frame: readonly [number, number, number, number] | undefined,
+  capture: (guides: readonly SheetPoint[]) => Promise<CaptureResult | undefined>,
+): Promise<SheetPoint[]> {
+  let guides = [...start];
+  for (let round = 0; round < lines.length; round++) {
+    const got = await capture(guides);
+    if (!got || got.how !== 'raster' || got.points.length < 2 || got.lost.length > 0) break;
+    const pts = got.points;
+    const isoWidth = got.lineWidth ?? 0;
+    let added = false;
+    for (const atEnd of [false, true]) {
+      const end = (atEnd ? pts[pts.length - 1] : pts[0]) as SheetPoint;
+      const dir = endDirection(pts, atEnd, Math.max(20, 6 * isoWidth));
+      if (!dir) continue;
+      const crossing = isoCrossings(pts, lines.map((l, key) => ({ key, points: l.points, width: l.width })), DEFAULT_TOUCH_TOLERANCE, 0, isoWidth)
+        .filter((c) => Math.hypot(c.at[0] - end[0], c.at[1] - end[1]) <= REACH_HEAD_WIDTHS * (lines[c.key] as CrossedLine).width + REACH_ISO_WIDTHS * isoWidth + REACH_SLACK)
+        .sort((a, b) => Math.hypot(a.at[0] - end[0], a.at[1] - end[1]) - Math.hypot(b.at[0] - end[0], b.at[1] - end[1]))[0];
+      if (!crossing) continue;
+      // Only towards another head curve: an iso-line ends on the outermost head curves it meets.
+      const ahead: SheetPoint[] = [crossing.at, sheetPoint(crossing.at[0] + 4000 * dir[0], crossing.at[1] + 4000 * dir[1])];
+      const further = lines.some((l, key) => key !== crossing.key && isoCrossings(ahead, [{ key, points: l.points }], 0).length > 0);
+      if (!further) continue;
+      const next = guideBeyondCrossing(image, crossing.at, dir, lines);
+      if (!next || (frame && !insideFrame(next, frame)) || nearestOnPolyline(pts, next).distance < 2) continue;
+      guides = atEnd ? [...guides, next] : [next, ...guides];
+      added = true;
+    }
+    if (!added) break;
+  }
+  return guides;
 }
 
 /**

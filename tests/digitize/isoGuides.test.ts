@@ -1,6 +1,6 @@
 import { createCanvas } from '@napi-rs/canvas';
 import { describe, expect, it } from 'vitest';
-import { guidesOffCrossings } from '../../src/digitize/isoGuides.ts';
+import { guideBeyondCrossing, guidesOffCrossings } from '../../src/digitize/isoGuides.ts';
 import { distanceToPolyline } from '../../src/digitize/polyline.ts';
 import { sheetPoint, type SheetPoint } from '../../src/digitize/points.ts';
 import type { RasterImage } from '../../src/digitize/raster.ts';
@@ -111,5 +111,21 @@ describe('iso-line guides clicked on a crossing with a head curve', () => {
     // The line model is the thin line's (drawn 1 px wide), not the head curve's (3 px).
     expect(traced.line.widthPx).toBeLessThan(2);
     // Sampled on the crossings themselves, the model is the crossing's blot, about 5 px wide.
+  });
+
+  it('finds where an iso-line goes on beyond a head curve its trace stopped at, and nothing against its heading', () => {
+    const lower: F = (x) => head(x) + 90;
+    const lowerPoints = Array.from({ length: 361 }, (_, i) => sheetPoint(20 + i, lower(20 + i)));
+    const image = sheet(head, iso, 110, 250, '#111111', '#222222', 1, lower);
+    const lines = [{ points: headPoints, width: 3 }, { points: lowerPoints, width: 3 }];
+    // The trace came up the iso-line from below and stopped at the lower head curve: heading up and right.
+    const length = Math.hypot(1, 2.2);
+    const up: [number, number] = [1 / length, -2.2 / length];
+    const next = guideBeyondCrossing(image, crossing(lower), up, lines);
+    expect(next).toBeDefined();
+    expect(distanceToPolyline(isoPoints(110, 250), next as SheetPoint)).toBeLessThan(1);
+    expect((next as SheetPoint)[1]).toBeLessThan(crossing(lower)[1]); // beyond, not back
+    // Heading along the head curve (level), no ink but the head curve and the upright grid: nothing.
+    expect(guideBeyondCrossing(image, crossing(head), [1, 0], lines)).toBeUndefined();
   });
 });
