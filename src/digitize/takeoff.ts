@@ -104,7 +104,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
 
   const outcomes: TraceOutcome[] = [];
   let pointsSoFar = 0;
-  const captureOne = async (index: number, trace: Trace, guides: readonly SheetPoint[] | undefined): Promise<void> => {
+  const captureOne = async (index: number, trace: Trace, guides: readonly SheetPoint[] | undefined, captured?: CaptureResult): Promise<void> => {
     const id = trace.id ?? String(index + 1);
     const saved = trace.captured && trace.captured.length > 0 ? trace.captured.map(([x, y]) => sheetPoint(x, y)) : null;
     const hasInput = (trace.points?.length ?? 0) > 0 || (trace.guides?.length ?? 0) > 0;
@@ -112,7 +112,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
     if (saved && (options.useCaptured || !hasInput)) {
       outcome = { index, id, how: trace.captured_by ?? 'saved', fromFile: true, points: saved, notes: [] };
     } else {
-      const got = await captureTrace(
+      const got = captured ?? await captureTrace(
         { points: trace.points?.map(([x, y]) => sheetPoint(x, y)), guides, method: trace.method, extent: trace.extent, frame: takeoff.panels.find((p) => p.id === trace.panel)?.frame },
         source,
         options.capture,
@@ -168,10 +168,11 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
     }
     const frame = takeoff.panels.find((p) => p.id === trace.panel)?.frame;
     const through = await throughCrossings(image, guides, lines, frame, (g) => captureTrace({ guides: g, method: trace.method, extent: trace.extent, frame }, source, options.capture).catch(() => undefined));
-    if (through.length > guides.length) {
-      note('takeoff.iso-through-crossing', 'note', `Iso-trace ${id} (${describeTrace(trace)}) stopped where it meets a head curve and was followed on beyond it (${through.length - guides.length} guide${through.length - guides.length === 1 ? '' : 's'} added past the crossing${through.length - guides.length === 1 ? '' : 's'}).`, id);
+    const added = through.guides.length - guides.length;
+    if (added > 0) {
+      note('takeoff.iso-through-crossing', 'note', `Iso-trace ${id} (${describeTrace(trace)}) stopped where it meets a head curve and was followed on beyond it (${added} guide${added === 1 ? '' : 's'} added past the crossing${added === 1 ? '' : 's'}).`, id);
     }
-    await captureOne(index, trace, through);
+    await captureOne(index, trace, through.guides, through.captured);
   }
   outcomes.sort((a, b) => a.index - b.index);
 
@@ -321,7 +322,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
  * An iso-line is followed from crossing to crossing: where a followed iso trace ends on a head
  * curve (the thick curve stops the follower) and the iso-line goes on beyond it, a guide is
  * added there (isoGuides.ts, `guideBeyondCrossing`) and the line followed again, up to once per
- * head curve. Returns the guides to trace with.
+ * head curve. Returns the guides to trace with, and their capture when it was made.
  */
 async function throughCrossings(
   image: RasterImage,
@@ -329,11 +330,11 @@ async function throughCrossings(
   lines: readonly CrossedLine[],
   frame: readonly [number, number, number, number] | undefined,
   capture: (guides: readonly SheetPoint[]) => Promise<CaptureResult | undefined>,
-): Promise<SheetPoint[]> {
+): Promise<{ guides: SheetPoint[]; captured?: CaptureResult }> {
   let guides = [...start];
   for (let round = 0; round < lines.length; round++) {
     const got = await capture(guides);
-    if (!got || got.how !== 'raster' || got.points.length < 2 || got.lost.length > 0) break;
+    if (!got || got.how !== 'raster' || got.points.length < 2 || got.lost.length > 0) return { guides, ...(got ? { captured: got } : {}) };
     const pts = got.points;
     const isoWidth = got.lineWidth ?? 0;
     let added = false;
@@ -354,9 +355,9 @@ async function throughCrossings(
       guides = atEnd ? [...guides, next] : [next, ...guides];
       added = true;
     }
-    if (!added) break;
+    if (!added) return { guides, captured: got };
   }
-  return guides;
+  return { guides };
 }
 
 /**
