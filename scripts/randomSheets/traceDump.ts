@@ -17,8 +17,8 @@ import { replayTakeoff } from '../../src/digitize/takeoff.ts';
 import { nearestOnPolyline } from '../../src/digitize/polyline.ts';
 import { parseTakeoff, type Trace } from '../../src/model/takeoff.ts';
 import { applyH, decode } from './camera.ts';
-import { toFlat, type PanelPlan, type Pt } from './plan.ts';
-import { exact, isoFlows } from './pumpFamily.ts';
+import type { PanelPlan, Pt } from './plan.ts';
+import { isoFlows } from './pumpFamily.ts';
 import { calibrationError, sheetGeometry } from './randomSheet.ts';
 import { scoreReplay } from './score.ts';
 import { sheetPoint, type SheetPoint } from '../../src/digitize/points.ts';
@@ -102,8 +102,6 @@ async function dump(seed: number, isoOnly: boolean): Promise<void> {
     process.stdout.write(`  ${line.id.padEnd(18)} guides ${guides.map((g) => `(${g[0].toFixed(0)},${g[1].toFixed(0)}) ${nearestOnPolyline(line.points.map(inImage) as unknown as SheetPoint[], g as unknown as SheetPoint).distance.toFixed(1)}px`).join(' ')}${movedNote ? ' moved: ' + movedNote.message.replace(/^.*guides? ([\d, ]+) sat.*$/, '$1') : ''}\n`);
     process.stdout.write(`  ${line.id.padEnd(18)} crossings per head (found/drawn, flow error % of axis): ${parts.join('  ')}; guides on a head line ${onCrossing}/${guides.length}\n`);
   }
-  void exact;
-  void toFlat;
   for (const s of scoreReplay(meta.family, meta.truth, replay.curveSet)) {
     if (isoOnly && s.source !== 'iso') continue;
     if (s.wrong) process.stdout.write(`  WRONG ${s.id} ${Number.isFinite(s.error) ? s.error.toFixed(2) : 'missing'}${s.flagged ? ` flagged (${[...new Set(s.flags)].join(', ')})` : ' UNFLAGGED'}\n`);
