@@ -34,7 +34,8 @@ interface Cached {
   shot: { kind: 'scan' | 'photo'; dpi: number; keystone: number; rotationDeg: number; quality: number; efficiencyAs: string };
 }
 
-async function sheetFor(seed: number, kind: 'scan' | 'photo'): Promise<{ jpeg: Buffer; meta: Cached }> {
+/** Exported for scripts/randomSheets/traceDump.ts (isocal). */
+export async function sheetFor(seed: number, kind: 'scan' | 'photo'): Promise<{ jpeg: Buffer; meta: Cached }> {
   const base = join(CACHE, `${seed}-${kind}`);
   if (existsSync(`${base}.json`) && existsSync(`${base}.jpg`)) return { jpeg: readFileSync(`${base}.jpg`), meta: JSON.parse(readFileSync(`${base}.json`, 'utf8')) as Cached };
   const s = await makeRandomSheet(seed, kind);

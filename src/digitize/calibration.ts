@@ -10,9 +10,14 @@
  * With 4 or more anchors with both values a homography (projective map, homography.ts) is
  * fitted beside the affine map, for photos of a sheet, whose perspective no affine map
  * absorbs. It is chosen when the anchors show perspective (see `chooseProjection`), or when
- * the panel asks for it; the residual shown is then honest: leave-one-out with 5 or more
- * anchors, and with exactly 4 (which fix a homography exactly, so a fit residual would read
- * 0) an estimate of what a placement error of the anchors causes, with a warning to add one.
+ * the panel asks for it. Each anchor's residual is checked honestly: leave-one-out with 5 or
+ * more anchors on a homography; an exactly fixed map (3 anchors affine, 4 projective) cannot
+ * be checked, and says so with a warning to add an anchor.
+ * The residual shown (`maxPercentOfSpan`) is the error the map is expected to make over the
+ * plot (`expectedError`): the anchors' scatter, as their own misfit and a prior for snapped
+ * anchors give it, carried through the fit to the frame's corners. It is never 0 % from an
+ * exactly fixed map, and it predicts the real error of the calibration (within a factor of 3
+ * on 95 % of the panels of the random bed, scripts/randomSheets).
  * `toData` and `toSheet` are exact inverses (up to rounding) on the valid domain.
  */
 import { dataPoint, sheetPoint, type DataPoint, type SheetPoint, type SheetCoordinates, type DataCoordinates } from './points.ts';
@@ -44,8 +49,8 @@ export interface Calibration {
   /**
    * What the residuals are: 'fit' (anchors against the fitted map), 'leave-one-out' (each
    * anchor against the map fitted without it), 'estimated' (4 anchors fix a homography
-   * exactly: the effect of a 0.5-unit placement error), 'none' (3 anchors fix an affine map
-   * exactly: no check at all; the figure is the same estimate).
+   * exactly: each anchor's figure is the expected error), 'none' (3 anchors fix an affine map
+   * exactly: no check at all; the figure is the same expected error).
    */
   readonly residualKind: 'fit' | 'leave-one-out' | 'estimated' | 'none';
   /** Sheet → linear cores as a homography (row-major 3 × 3), when projective. */
@@ -58,8 +63,14 @@ export interface Calibration {
   /** Root-mean-square and largest anchor residual, sheet units. */
   readonly rmsSheet: number;
   readonly maxSheet: number;
-  /** Largest anchor residual in % of span. */
+  /**
+   * The residual shown, % of span. With anchors carrying both values: the expected largest
+   * error of the map over the plot (see `expectedError`), which predicts the real error of the
+   * calibration; with axis anchors: the largest anchor residual.
+   */
   readonly maxPercentOfSpan: number;
+  /** Largest anchor residual in % of span (fit, left out or estimated, as `residualKind` says). */
+  readonly anchorPercentOfSpan: number;
   /** Plain sentences for anchors off by more than the warning threshold. */
   readonly warnings: readonly string[];
   toData(p: SheetCoordinates): DataPoint;
@@ -75,6 +86,8 @@ export interface CalibrateOptions {
   panel?: string;
   /** 'auto' (default): projective when 4 or more anchors show perspective; or force one map. */
   projection?: 'auto' | Projection;
+  /** The panel's plot frame [left, top, right, bottom], sheet units: where the expected error is looked for (default: the anchors' extent). */
+  frame?: readonly [number, number, number, number] | undefined;
 }
 
 /**
@@ -88,6 +101,14 @@ export const PERSPECTIVE_PERCENT = 0.1;
 export const ANCHOR_UNCERTAINTY = 0.5;
 
 export const RESIDUAL_WARN_PERCENT = 0.3;
+/**
+ * The expected error shown is this many standard errors at the worst place of the plot: about
+ * the 95 % two-sided bound of one normal error (common practice), so that the largest of the
+ * errors over the plot, which are strongly correlated, seldom exceeds it and is seldom far below.
+ */
+export const EXPECTED_COVERAGE = 1.13;
+/** Weight, in degrees of freedom, of the prior placement scatter pooled with the anchors' own misfit. */
+export const PRIOR_DOF = 2;
 
 type M6 = [number, number, number, number, number, number];
 
@@ -146,21 +167,22 @@ function affineCalibration(anchors: readonly AnchorInput[], tx: AxisTransform, t
       ? leaveOneOut(anchors.length, (keep) => (hasQuad(keep.map((k) => pts[k] as readonly [number, number])) ? fitHomography(keep.map((k) => pts[k] as readonly [number, number]), keep.map((k) => targets[k] as readonly [number, number])) : undefined), (map, i) => misfit(...applyHomography(map, (pts[i] as readonly [number, number])[0], (pts[i] as readonly [number, number])[1]), i))
       : undefined;
   const affineMax = Math.max(...affineResiduals.map((r) => r.percentOfSpan));
-  const projective = h !== undefined && (wanted === 'projective' || (wanted === 'auto' && chooseProjection(anchors.length, affineMax, looAffine, looProjective)));
+  const fitRms =
+    h && anchors.length >= 5
+      ? { affine: Math.sqrt(sheetRss(pts, targets, (x, y) => applyM(m, x, y)) / (2 * anchors.length - 6)), projective: Math.sqrt(sheetRss(pts, targets, (x, y) => applyHomography(h, x, y)) / (2 * anchors.length - 8)) }
+      : undefined;
+  const projective = h !== undefined && (wanted === 'projective' || (wanted === 'auto' && chooseProjection(anchors.length, affineMax, looAffine, looProjective, fitRms)));
 
   if (!projective) {
     if (anchors.length === 3) {
       // Exactly fixed: a fit residual would read 0 %. Show what a misplaced anchor would do instead.
-      const affineMap = (from: readonly (readonly [number, number])[], to: readonly (readonly [number, number])[]) => {
-        const map = fitAffine(from, to.map((t) => t[0]), to.map((t) => t[1]));
-        return map && ((x: number, y: number) => applyM(map, x, y));
-      };
-      const estimate = placementEffect(pts, targets, spanU, spanV, affineMap);
-      notices.push(`${where}: three anchors fix an affine map exactly, so neither a misplaced anchor nor the perspective of a photo can show; the residual shown (${estimate.toFixed(2)} % of span) is what a ${ANCHOR_UNCERTAINTY}-unit misplacement of an anchor would cause. Add a fourth anchor near the free corner of the plot.`);
-      return finish('affine', { affine: m }, tx, ty, anchors.map(() => ({ sheet: ANCHOR_UNCERTAINTY, percentOfSpan: estimate })), 'none', where, options, notices);
+      const expected = expectedError(pts, targets, spanU, spanV, affineFitter, 6, options.frame);
+      notices.push(`${where}: three anchors fix an affine map exactly, so neither a misplaced anchor nor the perspective of a photo can show; the residual shown (${expected.toFixed(2)} % of span) is the error expected over the plot from anchors placed within ${ANCHOR_UNCERTAINTY} units. Add a fourth anchor near the free corner of the plot.`);
+      return finish('affine', { affine: m }, tx, ty, anchors.map(() => ({ sheet: ANCHOR_UNCERTAINTY, percentOfSpan: expected })), 'none', where, options, notices, expected);
     }
+    else if (!canSeePerspective && !hasQuad(pts)) notices.push(`${where}: no four of the anchors are free of three on one line, so they cannot reveal the perspective of a photo; add an anchor off that line, near a free corner of the plot.`);
     else if (!canSeePerspective) notices.push(`${where}: the anchors lie on two lines (e.g. along the axes), so they cannot reveal the perspective of a photo; add an anchor off those lines (the far corner of the plot).`);
-    return finish('affine', { affine: m }, tx, ty, affineResiduals, anchors.length === 3 ? 'none' : 'fit', where, options, notices);
+    return finish('affine', { affine: m }, tx, ty, affineResiduals, anchors.length === 3 ? 'none' : 'fit', where, options, notices, expectedError(pts, targets, spanU, spanV, affineFitter, 6, options.frame));
   }
   const hi = invertHomography(h);
   let residuals: AnchorResidual[];
@@ -170,25 +192,27 @@ function affineCalibration(anchors: readonly AnchorInput[], tx: AxisTransform, t
     residuals = looProjective.map((r, i) => ({ percentOfSpan: r, sheet: sheetDistance(hi, pts[i] as readonly [number, number], us, vs, i, looProjective, h) }));
   } else {
     kind = 'estimated';
-    const estimate = placementEffect(pts, targets, spanU, spanV, (from, to) => {
-      const map = fitHomography(from, to);
-      return map && ((x: number, y: number) => applyHomography(map, x, y));
-    });
-    residuals = anchors.map(() => ({ sheet: ANCHOR_UNCERTAINTY, percentOfSpan: estimate }));
+    const expected = expectedError(pts, targets, spanU, spanV, projectiveFitter, 8, options.frame);
+    residuals = anchors.map(() => ({ sheet: ANCHOR_UNCERTAINTY, percentOfSpan: expected }));
     const why = anchors.length === 4 ? 'four anchors fix the perspective exactly' : 'leaving out an anchor leaves three of the others on one line';
-    notices.push(`${where}: ${why}, so the calibration cannot be checked; the residual shown (${estimate.toFixed(2)} % of span) is what a ${ANCHOR_UNCERTAINTY}-unit misplacement of an anchor would cause. Add a fifth anchor (a grid crossing inside the plot, off its diagonals) to check it.`);
+    notices.push(`${where}: ${why}, so the calibration cannot be checked; the residual shown (${expected.toFixed(2)} % of span) is the error expected over the plot from anchors placed within ${ANCHOR_UNCERTAINTY} units. Add a fifth anchor (a grid crossing inside the plot, off its diagonals) to check it.`);
   }
-  return finish('affine', { affine: m, homography: h, inverse: hi }, tx, ty, residuals, kind, where, options, notices);
+  return finish('affine', { affine: m, homography: h, inverse: hi }, tx, ty, residuals, kind, where, options, notices, expectedError(pts, targets, spanU, spanV, projectiveFitter, 8, options.frame));
 }
 
 /**
- * Projective when the anchors show perspective: with 5 or more, the homography predicts each
- * left-out anchor clearly better than the affine map (by a third or more); with exactly 4,
- * the affine map misses them by more than placement explains (PERSPECTIVE_PERCENT).
+ * Projective when the anchors show perspective: with exactly 4, the affine map misses them by
+ * more than placement explains (PERSPECTIVE_PERCENT); with 5 or more, the same, and either the
+ * homography fits them with less than half the affine map's scatter per degree of freedom
+ * (`fitRms`, sheet units: the two extra parameters explain what the affine map cannot), or it
+ * predicts each left-out anchor clearly better (by a third or more). Leaving an anchor out of
+ * five leaves four that fix a homography exactly, and often badly (two of them nearly on one
+ * line with a third), so the left-out test alone misses plain perspective.
  */
-export function chooseProjection(anchors: number, affineMax: number, looAffine: number[] | undefined, looProjective: number[] | undefined): boolean {
+export function chooseProjection(anchors: number, affineMax: number, looAffine: number[] | undefined, looProjective: number[] | undefined, fitRms?: { affine: number; projective: number }): boolean {
   if (anchors === 4) return affineMax > PERSPECTIVE_PERCENT;
-  // With 5 or more, only a homography that predicts every left-out anchor may win.
+  if (fitRms && affineMax > PERSPECTIVE_PERCENT && fitRms.projective < 0.5 * fitRms.affine) return true;
+  // Otherwise only a homography that predicts every left-out anchor may win.
   if (!looAffine || !looProjective) return false;
   const a = Math.max(...looAffine);
   const p = Math.max(...looProjective);
@@ -256,42 +280,88 @@ function sheetDistance(hi: H9, at: readonly [number, number], us: readonly numbe
   return Math.max(fitted, (loo[i] as number) * unitsPerPercent);
 }
 
-/**
- * What a placement error of ANCHOR_UNCERTAINTY sheet units at each anchor does to an exactly
- * fixed map (a homography from 4 anchors, an affine map from 3), in % of span: each anchor is moved along x and along y, the map is
- * fixed again, and the largest change over the anchors' hull (its corners and centre) is
- * taken; the independent effects add in quadrature.
- */
+/** A map fitted from anchors to their values, as a function (undefined when the anchors cannot fix one). */
 type Fitter = (from: readonly (readonly [number, number])[], to: readonly (readonly [number, number])[]) => ((x: number, y: number) => [number, number]) | undefined;
 
-function placementEffect(pts: readonly (readonly [number, number])[], targets: readonly (readonly [number, number])[], spanU: number, spanV: number, fit: Fitter): number {
+const affineFitter: Fitter = (from, to) => {
+  const map = fitAffine(from, to.map((t) => t[0]), to.map((t) => t[1]));
+  return map && ((x: number, y: number) => applyM(map, x, y));
+};
+const projectiveFitter: Fitter = (from, to) => {
+  const map = fitHomography(from, to);
+  return map && ((x: number, y: number) => applyHomography(map, x, y));
+};
+
+/**
+ * The calibration's expected largest error over the plot, % of span: the anchors' placement
+ * scatter σ carried through the fit (linear error propagation: each anchor moved along x and
+ * along y, the map fixed again, the changes added in quadrature) to the corners, edge middles
+ * and centre of the frame (or of the anchors' extent), the worst of them, times
+ * EXPECTED_COVERAGE. σ (sheet units) pools the anchors' own misfit to the map, RSS over its
+ * 2n − p degrees of freedom (n anchors, p parameters), with a prior of PRIOR_DOF degrees at
+ * ANCHOR_UNCERTAINTY/√3 (a snap within half a unit either way, uniform): an exactly fixed map
+ * (3 anchors affine, 4 projective) shows the prior alone, and a misfit (a misplaced anchor, or
+ * perspective under an affine map) raises σ and the figure with it.
+ */
+function expectedError(pts: readonly (readonly [number, number])[], targets: readonly (readonly [number, number])[], spanU: number, spanV: number, fit: Fitter, params: number, frame?: readonly [number, number, number, number]): number {
   const base = fit(pts, targets);
   if (!base) return Number.NaN;
-  const xs = pts.map((p) => p[0]);
-  const ys = pts.map((p) => p[1]);
-  const probes: [number, number][] = [
-    [Math.min(...xs), Math.min(...ys)],
-    [Math.max(...xs), Math.min(...ys)],
-    [Math.min(...xs), Math.max(...ys)],
-    [Math.max(...xs), Math.max(...ys)],
-    [(Math.min(...xs) + Math.max(...xs)) / 2, (Math.min(...ys) + Math.max(...ys)) / 2],
-  ];
-  let sum = 0;
+  const rss = sheetRss(pts, targets, base);
+  const dof = Math.max(0, 2 * pts.length - params);
+  const prior = ANCHOR_UNCERTAINTY / Math.sqrt(3);
+  const sigma = Math.sqrt((rss + PRIOR_DOF * prior * prior) / (dof + PRIOR_DOF));
+  const xs = frame ? [Math.min(frame[0], frame[2]), Math.max(frame[0], frame[2])] : [Math.min(...pts.map((p) => p[0])), Math.max(...pts.map((p) => p[0]))];
+  const ys = frame ? [Math.min(frame[1], frame[3]), Math.max(frame[1], frame[3])] : [Math.min(...pts.map((p) => p[1])), Math.max(...pts.map((p) => p[1]))];
+  const probes: [number, number][] = [];
+  for (const fx of [0, 0.5, 1]) for (const fy of [0, 0.5, 1]) probes.push([(xs[0] as number) + fx * ((xs[1] as number) - (xs[0] as number)), (ys[0] as number) + fy * ((ys[1] as number) - (ys[0] as number))]);
+  const at = probes.map(([x, y]) => base(x, y));
+  const varU = new Array<number>(probes.length).fill(0);
+  const varV = new Array<number>(probes.length).fill(0);
+  // A small move keeps the propagation linear; its effect is scaled up to σ.
+  const step = 0.1 * Math.max(sigma, 1e-6);
   for (let k = 0; k < pts.length; k++) {
-    for (const [dx, dy] of [[ANCHOR_UNCERTAINTY, 0], [0, ANCHOR_UNCERTAINTY]] as const) {
+    for (const [dx, dy] of [[step, 0], [0, step]] as const) {
       const moved = pts.map((p, j) => (j === k ? ([p[0] + dx, p[1] + dy] as const) : p));
-      const h = fit(moved, targets);
-      if (!h) return Number.NaN;
-      let worst = 0;
-      for (const [x, y] of probes) {
-        const [u0, v0] = base(x, y);
-        const [u1, v1] = h(x, y);
-        worst = Math.max(worst, 100 * Math.max(Math.abs(u1 - u0) / spanU, Math.abs(v1 - v0) / spanV));
-      }
-      sum += worst * worst;
+      const map = fit(moved, targets);
+      if (!map) return Number.NaN;
+      probes.forEach(([x, y], i) => {
+        const [u1, v1] = map(x, y);
+        const [u0, v0] = at[i] as [number, number];
+        varU[i] = (varU[i] as number) + ((u1 - u0) * (sigma / step)) ** 2;
+        varV[i] = (varV[i] as number) + ((v1 - v0) * (sigma / step)) ** 2;
+      });
     }
   }
-  return Math.sqrt(sum / pts.length);
+  // Per cent of the plot's own spans when the frame is known (the axes as drawn), else of the anchors'.
+  const plotU = frame ? span(at.map((p) => p[0])) : spanU;
+  const plotV = frame ? span(at.map((p) => p[1])) : spanV;
+  let worst = 0;
+  for (let i = 0; i < probes.length; i++) worst = Math.max(worst, Math.sqrt(varU[i] as number) / (plotU > 0 ? plotU : spanU), Math.sqrt(varV[i] as number) / (plotV > 0 ? plotV : spanV));
+  return 100 * EXPECTED_COVERAGE * worst;
+}
+
+/** Sum of the anchors' squared misfits to a map, in sheet units: each data misfit carried back through the map's local Jacobian. */
+function sheetRss(pts: readonly (readonly [number, number])[], targets: readonly (readonly [number, number])[], map: (x: number, y: number) => [number, number]): number {
+  let rss = 0;
+  for (let i = 0; i < pts.length; i++) {
+    const [x, y] = pts[i] as readonly [number, number];
+    const [u, v] = map(x, y);
+    const [ux, vx] = map(x + 1, y);
+    const [uy, vy] = map(x, y + 1);
+    // Solve J·d = (target − mapped) for the sheet displacement d.
+    const du = (targets[i] as readonly [number, number])[0] - u;
+    const dv = (targets[i] as readonly [number, number])[1] - v;
+    const a = ux - u;
+    const b = uy - u;
+    const c = vx - v;
+    const d = vy - v;
+    const det = a * d - b * c;
+    if (det === 0) continue;
+    const dx = (d * du - b * dv) / det;
+    const dy = (a * dv - c * du) / det;
+    rss += dx * dx + dy * dy;
+  }
+  return rss;
 }
 
 /** Least-squares affine map sheet → (u, v); undefined when the points do not determine it. */
@@ -358,12 +428,13 @@ function finish(
   where: string,
   options: CalibrateOptions,
   notices: readonly string[],
+  expected?: number,
 ): Calibration {
   const warnAt = options.warnPercent ?? RESIDUAL_WARN_PERCENT;
   const what = residualKind === 'leave-one-out' ? ' (left out of the fit)' : '';
   const warnings = [
     ...residuals.flatMap((r, i) =>
-      r.percentOfSpan > warnAt && residualKind !== 'estimated'
+      r.percentOfSpan > warnAt && residualKind !== 'estimated' && residualKind !== 'none'
         ? [`${where}: anchor ${i + 1} is off by ${r.percentOfSpan.toFixed(2)} % of the axis span${what} (${r.sheet.toFixed(2)} sheet units), more than ${warnAt} %; check its position and value.`]
         : [],
     ),
@@ -386,7 +457,8 @@ function finish(
     residuals,
     rmsSheet,
     maxSheet: Math.max(0, ...residuals.map((r) => r.sheet)),
-    maxPercentOfSpan: Math.max(0, ...residuals.map((r) => r.percentOfSpan)),
+    maxPercentOfSpan: expected !== undefined && Number.isFinite(expected) ? expected : Math.max(0, ...residuals.map((r) => r.percentOfSpan)),
+    anchorPercentOfSpan: Math.max(0, ...residuals.map((r) => r.percentOfSpan)),
     warnings,
     toData(p) {
       const [u, v] = forward(p[0], p[1]);

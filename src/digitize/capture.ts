@@ -45,6 +45,8 @@ export interface CaptureResult {
   lost: LostStretch[];
   /** Stretches a raster capture followed but cannot vouch for (see `RasterTraceResult.doubts`). */
   doubts?: TraceDoubt[];
+  /** Width of the followed line, sheet units (raster captures only): tolerances near it are set in line widths. */
+  lineWidth?: number;
 }
 
 export interface CaptureOptions {
@@ -90,9 +92,17 @@ export async function captureTrace(request: CaptureRequest, source: CaptureSourc
       notes.push(`No drawn path fitted the guides (${error.message.replace(/;.*$/, '')}); the line was followed on a rendering instead.`);
     }
   }
-  const traced = traceRaster(await source.raster(), guides, rasterOptions(request, options));
+  const image = await source.raster();
+  const traced = traceRaster(image, guides, rasterOptions(request, options));
   for (const l of traced.lost) notes.push(`The line was lost near (${l.at[0].toFixed(1)}, ${l.at[1].toFixed(1)}) between guides ${l.between[0]} and ${l.between[1]}: ${l.reason}.`);
-  return { points: traced.lost.length ? traced.points : evenly(traced.points, spacing), how: 'raster', notes, lost: traced.lost, doubts: traced.doubts };
+  return {
+    points: traced.lost.length ? traced.points : evenly(traced.points, spacing),
+    how: 'raster',
+    notes,
+    lost: traced.lost,
+    doubts: traced.doubts,
+    ...(traced.line.widthPx > 0 ? { lineWidth: traced.line.widthPx / image.scale } : {}),
+  };
 }
 
 function rasterOptions(request: CaptureRequest, options: CaptureOptions): RasterTraceOptions {

@@ -17,6 +17,8 @@ import type { SheetPoint } from './points.ts';
 export interface CrossingTarget<K> {
   key: K;
   points: readonly SheetPoint[];
+  /** Width of the drawn line, sheet units, when known (followed on a raster): the tolerances grow with it. */
+  width?: number | undefined;
 }
 
 export interface IsoCrossing<K> {
@@ -27,11 +29,21 @@ export interface IsoCrossing<K> {
 }
 
 export const DEFAULT_TOUCH_TOLERANCE = 2;
+/**
+ * How far short of a head curve a followed iso-line may stop, in line widths: the thick head
+ * curve hides the iso-line's last pixels (about half a head width and an iso width of blur), and
+ * a guide clicked on the crossing is moved three head widths and a few pixels along the
+ * iso-line (isoGuides.ts), where a trace may stop. Four head widths and two iso widths, plus a
+ * pixel or so of scatter, cover both.
+ */
+export const REACH_HEAD_WIDTHS = 4;
+export const REACH_ISO_WIDTHS = 2;
+export const REACH_SLACK = 4;
 /** Crossings closer than this (sheet units) are one crossing. */
 const MERGE_DISTANCE = 0.05;
 
 /** Unit direction of a polyline leaving through its end (`fromEnd` true) or its start, over about `span` sheet units. */
-function endDirection(points: readonly SheetPoint[], fromEnd: boolean, span: number): [number, number] | undefined {
+export function endDirection(points: readonly SheetPoint[], fromEnd: boolean, span: number): [number, number] | undefined {
   const n = points.length;
   const end = (fromEnd ? points[n - 1] : points[0]) as SheetPoint;
   let k = fromEnd ? n - 2 : 1;
@@ -41,19 +53,23 @@ function endDirection(points: readonly SheetPoint[], fromEnd: boolean, span: num
   return d > 0 ? [(end[0] - from[0]) / d, (end[1] - from[1]) / d] : undefined;
 }
 
-export function isoCrossings<K>(iso: readonly SheetPoint[], targets: readonly CrossingTarget<K>[], touchTolerance = DEFAULT_TOUCH_TOLERANCE, reach = 0): IsoCrossing<K>[] {
+export function isoCrossings<K>(iso: readonly SheetPoint[], targets: readonly CrossingTarget<K>[], touchTolerance = DEFAULT_TOUCH_TOLERANCE, reach = 0, isoWidth = 0): IsoCrossing<K>[] {
   const out: IsoCrossing<K>[] = [];
   if (iso.length < 2) return out;
-  const rays: SheetPoint[][] = [];
-  if (reach > 0) {
-    for (const fromEnd of [false, true]) {
-      const end = (fromEnd ? iso[iso.length - 1] : iso[0]) as SheetPoint;
-      const dir = endDirection(iso, fromEnd, 3 * reach);
-      if (dir) rays.push([end, [end[0] + reach * dir[0], end[1] + reach * dir[1]] as unknown as SheetPoint]);
-    }
-  }
   for (const target of targets) {
     if (target.points.length < 2) continue;
+    // Tolerances in line widths where the widths are known, never below those in data units.
+    const w = target.width ?? 0;
+    const touch = Math.max(touchTolerance, w > 0 ? 0.5 * w + isoWidth + 1 : 0);
+    const far = reach > 0 || w > 0 ? Math.max(reach, w > 0 ? REACH_HEAD_WIDTHS * w + REACH_ISO_WIDTHS * isoWidth + REACH_SLACK : 0) : 0;
+    const rays: SheetPoint[][] = [];
+    if (far > 0) {
+      for (const fromEnd of [false, true]) {
+        const end = (fromEnd ? iso[iso.length - 1] : iso[0]) as SheetPoint;
+        const dir = endDirection(iso, fromEnd, Math.max(3 * far, 6 * isoWidth));
+        if (dir) rays.push([end, [end[0] + far * dir[0], end[1] + far * dir[1]] as unknown as SheetPoint]);
+      }
+    }
     const found: IsoCrossing<K>[] = [];
     for (const c of intersections(iso, target.points)) {
       // A crossing through a vertex of either line can be reported by both of its segments.
@@ -62,15 +78,15 @@ export function isoCrossings<K>(iso: readonly SheetPoint[], targets: readonly Cr
     }
     for (const ray of rays) {
       for (const c of intersections(ray, target.points)) {
-        if (found.some((f) => Math.hypot(f.at[0] - c.point[0], f.at[1] - c.point[1]) <= 2 * Math.max(touchTolerance, 0.25 * reach))) continue;
+        if (found.some((f) => Math.hypot(f.at[0] - c.point[0], f.at[1] - c.point[1]) <= 2 * Math.max(touch, 0.25 * far))) continue;
         found.push({ key: target.key, at: c.point, touching: true });
         break;
       }
     }
     for (const end of [iso[0] as SheetPoint, iso[iso.length - 1] as SheetPoint]) {
       const near = nearestOnPolyline(target.points, end);
-      if (near.distance > touchTolerance) continue;
-      const already = found.some((f) => Math.hypot(f.at[0] - near.point[0], f.at[1] - near.point[1]) <= 2 * touchTolerance);
+      if (near.distance > touch) continue;
+      const already = found.some((f) => Math.hypot(f.at[0] - near.point[0], f.at[1] - near.point[1]) <= 2 * touch);
       if (!already) found.push({ key: target.key, at: near.point, touching: true });
     }
     out.push(...found);

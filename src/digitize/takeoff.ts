@@ -13,12 +13,13 @@ import { TakeoffError, takeoffFamily, type Takeoff, type Trace } from '../model/
 import { minFlowLimit } from '../fit/speedFamilyLimits.ts';
 import { SG_REFERENCE_DENSITY, toSI, type Unit } from '../units/index.ts';
 import { formatSI } from '../units/format.ts';
-import { arcLengths } from './polyline.ts';
 import type { LostStretch } from './rasterTrace.ts';
 import { auditIsoCrossings, auditTraces, type AuditedTrace, type AuditFinding, type IsoCount } from './traceAudit.ts';
 import { calibrate, type Calibration } from './calibration.ts';
 import { captureTrace, type CaptureOptions, type CaptureResult } from './capture.ts';
-import { DEFAULT_TOUCH_TOLERANCE, isoCrossings } from './isoCrossings.ts';
+import { DEFAULT_TOUCH_TOLERANCE, endDirection, isoCrossings, REACH_HEAD_WIDTHS, REACH_ISO_WIDTHS, REACH_SLACK, type IsoCrossing } from './isoCrossings.ts';
+import { guideBeyondCrossing, guidesOffCrossings, type CrossedLine } from './isoGuides.ts';
+import { arcLengths, nearestOnPolyline } from './polyline.ts';
 import { sheetPoint, type SheetPoint } from './points.ts';
 import { safeScale, type Sheet } from './sheet.ts';
 import { strokeLines } from './vectorCapture.ts';
@@ -53,6 +54,8 @@ export interface TraceOutcome {
   notes: string[];
   /** Stretches a raster capture could not see (empty or absent otherwise). */
   lost?: LostStretch[];
+  /** Width of the followed line, sheet units (raster captures only). */
+  lineWidth?: number;
 }
 
 export interface ReplayResult {
@@ -66,6 +69,8 @@ export interface ReplayResult {
    * minimum-flow line). Read it here: no layer rebuilds it by comparing diameters.
    */
   traceMembers: ReadonlyMap<string, readonly number[]>;
+  /** Iso-trace id → where it met each head trace (member key: diameter or speed as the take-off writes it). */
+  crossings: ReadonlyMap<string, readonly IsoCrossing<number>[]>;
 }
 
 
@@ -84,7 +89,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
 
   const calibrations = new Map<string, Calibration>();
   for (const panel of takeoff.panels) {
-    const cal = calibrate(panel.anchors, { xScale: panel.x_scale, yScale: panel.y_scale, panel: panel.id, ...(panel.projection ? { projection: panel.projection } : {}) });
+    const cal = calibrate(panel.anchors, { xScale: panel.x_scale, yScale: panel.y_scale, panel: panel.id, ...(panel.projection ? { projection: panel.projection } : {}), ...(panel.frame ? { frame: panel.frame } : {}) });
     calibrations.set(panel.id, cal);
     for (const w of cal.warnings) note('takeoff.calibration-residual', 'warn', w, undefined, { max_percent_of_span: cal.maxPercentOfSpan, max_sheet: cal.maxSheet });
   }
@@ -99,7 +104,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
 
   const outcomes: TraceOutcome[] = [];
   let pointsSoFar = 0;
-  for (const [index, trace] of takeoff.traces.entries()) {
+  const captureOne = async (index: number, trace: Trace, guides: readonly SheetPoint[] | undefined, captured?: CaptureResult): Promise<void> => {
     const id = trace.id ?? String(index + 1);
     const saved = trace.captured && trace.captured.length > 0 ? trace.captured.map(([x, y]) => sheetPoint(x, y)) : null;
     const hasInput = (trace.points?.length ?? 0) > 0 || (trace.guides?.length ?? 0) > 0;
@@ -107,8 +112,8 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
     if (saved && (options.useCaptured || !hasInput)) {
       outcome = { index, id, how: trace.captured_by ?? 'saved', fromFile: true, points: saved, notes: [] };
     } else {
-      const got = await captureTrace(
-        { points: trace.points?.map(([x, y]) => sheetPoint(x, y)), guides: trace.guides?.map(([x, y]) => sheetPoint(x, y)), method: trace.method, extent: trace.extent, frame: takeoff.panels.find((p) => p.id === trace.panel)?.frame },
+      const got = captured ?? await captureTrace(
+        { points: trace.points?.map(([x, y]) => sheetPoint(x, y)), guides, method: trace.method, extent: trace.extent, frame: takeoff.panels.find((p) => p.id === trace.panel)?.frame },
         source,
         options.capture,
       ).catch((error: unknown) => {
@@ -116,7 +121,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
         if (error instanceof Error && CAPTURE_ERRORS.includes(error.name)) throw new TakeoffError(`Trace ${id} (${describeTrace(trace)}): ${error.message}`);
         throw error;
       });
-      outcome = { index, id, how: got.how, fromFile: false, points: got.points, notes: got.notes, lost: got.lost };
+      outcome = { index, id, how: got.how, fromFile: false, points: got.points, notes: got.notes, lost: got.lost, ...(got.lineWidth ? { lineWidth: got.lineWidth } : {}) };
       if (got.notes.length > 0) {
         const lost = got.lost.length > 0;
         note(lost ? 'takeoff.capture-lost' : 'takeoff.capture-fallback', lost ? 'warn' : 'note', `Trace ${id} (${describeTrace(trace)}): ${got.notes.join(' ')}`, id);
@@ -128,7 +133,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
     if (outcome.points.length < 2) {
       // One trace that found no line must not cost the others: it is a fail, and it adds nothing.
       note('takeoff.trace-empty', 'fail', `Trace ${id} (${describeTrace(trace)}) captured fewer than 2 points, so it adds nothing; place its guides on the line where it stands alone, or give its points.`, id);
-      continue;
+      return;
     }
     const frame = takeoff.panels.find((p) => p.id === trace.panel)?.frame;
     const outside = frame ? outcome.points.filter((p) => !insideFrame(p, frame)).length : 0;
@@ -136,7 +141,40 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
       note('takeoff.outside-frame', 'warn', `Trace ${id} (${describeTrace(trace)}): ${outside} of ${outcome.points.length} captured points lie outside the frame of panel "${trace.panel}"; check that the guides sit on this panel's line.`, id, { outside });
     }
     outcomes.push(outcome);
+  };
+  const guidesOf = (trace: Trace) => trace.guides?.map(([x, y]) => sheetPoint(x, y));
+  // On a scan or photo, iso-traces are captured after the curves: a guide clicked where an
+  // iso-line crosses a traced head curve is moved onto the iso-line alone (isoGuides.ts), so
+  // that its line model is the thin line's and not the thick head curve's.
+  const isoLater = (trace: Trace) => sheet.kind !== 'vector-pdf' && trace.iso !== undefined && trace.method !== 'vector' && (trace.guides?.length ?? 0) > 0;
+  for (const [index, trace] of takeoff.traces.entries()) if (!isoLater(trace)) await captureOne(index, trace, guidesOf(trace));
+  for (const [index, trace] of takeoff.traces.entries()) {
+    if (!isoLater(trace)) continue;
+    const heads = outcomes.filter((o) => {
+      const t = takeoff.traces[o.index] as Trace;
+      return t.panel === trace.panel && t.quantity === 'head' && t.iso === undefined && o.lineWidth !== undefined;
+    });
+    const id = trace.id ?? String(index + 1);
+    const wanted = (trace.points?.length ?? 0) === 0 && !(trace.captured && trace.captured.length > 0 && options.useCaptured);
+    if (heads.length === 0 || !wanted) {
+      await captureOne(index, trace, guidesOf(trace));
+      continue;
+    }
+    const image = await source.raster();
+    const lines = heads.map((o) => ({ points: o.points, width: o.lineWidth as number }));
+    const { guides, moved } = guidesOffCrossings(image, guidesOf(trace) ?? [], lines);
+    if (moved.length > 0) {
+      note('takeoff.guide-on-crossing', 'note', `Iso-trace ${id} (${describeTrace(trace)}): guide${moved.length === 1 ? '' : 's'} ${moved.map((m) => m.index + 1).join(', ')} sat where the iso-line crosses a head curve; the line was sampled a few line widths along the iso-line instead, so that the thick head curve does not lend it its colour and width.`, id);
+    }
+    const frame = takeoff.panels.find((p) => p.id === trace.panel)?.frame;
+    const through = await throughCrossings(image, guides, lines, frame, (g) => captureTrace({ guides: g, method: trace.method, extent: trace.extent, frame }, source, options.capture).catch(() => undefined));
+    const added = through.guides.length - guides.length;
+    if (added > 0) {
+      note('takeoff.iso-through-crossing', 'note', `Iso-trace ${id} (${describeTrace(trace)}) stopped where it meets a head curve and was followed on beyond it (${added} guide${added === 1 ? '' : 's'} added past the crossing${added === 1 ? '' : 's'}).`, id);
+    }
+    await captureOne(index, trace, through.guides, through.captured);
   }
+  outcomes.sort((a, b) => a.index - b.index);
 
   // Data points per diameter and quantity, SI.
   const members = new Map<number, MemberInput>();
@@ -181,6 +219,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
   }
 
   const isoCounts: IsoCount[] = [];
+  const crossingsOf = new Map<string, readonly IsoCrossing<number>[]>();
   for (const outcome of outcomes) {
     const trace = takeoff.traces[outcome.index] as Trace;
     if (trace.iso === undefined) continue;
@@ -191,8 +230,9 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
         const t = takeoff.traces[o.index] as Trace;
         return t.panel === trace.panel && t.quantity === 'head' && t.iso === undefined && (t.diameter ?? t.speed) !== undefined;
       })
-      .map((o) => ({ key: ((takeoff.traces[o.index] as Trace).diameter ?? (takeoff.traces[o.index] as Trace).speed) as number, points: o.points }));
-    const crossings = isoCrossings(outcome.points, heads, DEFAULT_TOUCH_TOLERANCE, isoReach(cal, takeoff.panels.find((p) => p.id === trace.panel)?.anchors ?? []));
+      .map((o) => ({ key: ((takeoff.traces[o.index] as Trace).diameter ?? (takeoff.traces[o.index] as Trace).speed) as number, points: o.points, width: o.lineWidth }));
+    const crossings = isoCrossings(outcome.points, heads, DEFAULT_TOUCH_TOLERANCE, isoReach(cal, takeoff.panels.find((p) => p.id === trace.panel)?.anchors ?? []), outcome.lineWidth ?? 0);
+    crossingsOf.set(outcome.id, crossings);
     const perHead = new Map<number, number>();
     for (const c of crossings) perHead.set(c.key, (perHead.get(c.key) ?? 0) + 1);
     isoCounts.push({ trace: outcome.id, describe: describeTrace(trace), level: trace.iso, perHead });
@@ -275,7 +315,49 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
   });
   const limits = minFlowLimit(takeoff.min_flow !== undefined ? toSI(takeoff.min_flow, units.flow) : undefined, minFlowLine);
   const curveSet = CurveSet.parse({ ...built, ...(limits ? { limits } : {}), findings: sortFindings([...built.findings, ...findings]) });
-  return { curveSet, traces: outcomes, calibrations, traceMembers };
+  return { curveSet, traces: outcomes, calibrations, traceMembers, crossings: crossingsOf };
+}
+
+/**
+ * An iso-line is followed from crossing to crossing: where a followed iso trace ends on a head
+ * curve (the thick curve stops the follower) and the iso-line goes on beyond it, a guide is
+ * added there (isoGuides.ts, `guideBeyondCrossing`) and the line followed again, up to once per
+ * head curve. Returns the guides to trace with, and their capture when it was made.
+ */
+async function throughCrossings(
+  image: RasterImage,
+  start: readonly SheetPoint[],
+  lines: readonly CrossedLine[],
+  frame: readonly [number, number, number, number] | undefined,
+  capture: (guides: readonly SheetPoint[]) => Promise<CaptureResult | undefined>,
+): Promise<{ guides: SheetPoint[]; captured?: CaptureResult }> {
+  let guides = [...start];
+  for (let round = 0; round < lines.length; round++) {
+    const got = await capture(guides);
+    if (!got || got.how !== 'raster' || got.points.length < 2 || got.lost.length > 0) return { guides, ...(got ? { captured: got } : {}) };
+    const pts = got.points;
+    const isoWidth = got.lineWidth ?? 0;
+    let added = false;
+    for (const atEnd of [false, true]) {
+      const end = (atEnd ? pts[pts.length - 1] : pts[0]) as SheetPoint;
+      const dir = endDirection(pts, atEnd, Math.max(20, 6 * isoWidth));
+      if (!dir) continue;
+      const crossing = isoCrossings(pts, lines.map((l, key) => ({ key, points: l.points, width: l.width })), DEFAULT_TOUCH_TOLERANCE, 0, isoWidth)
+        .filter((c) => Math.hypot(c.at[0] - end[0], c.at[1] - end[1]) <= REACH_HEAD_WIDTHS * (lines[c.key] as CrossedLine).width + REACH_ISO_WIDTHS * isoWidth + REACH_SLACK)
+        .sort((a, b) => Math.hypot(a.at[0] - end[0], a.at[1] - end[1]) - Math.hypot(b.at[0] - end[0], b.at[1] - end[1]))[0];
+      if (!crossing) continue;
+      // Only towards another head curve: an iso-line ends on the outermost head curves it meets.
+      const ahead: SheetPoint[] = [crossing.at, sheetPoint(crossing.at[0] + 4000 * dir[0], crossing.at[1] + 4000 * dir[1])];
+      const further = lines.some((l, key) => key !== crossing.key && isoCrossings(ahead, [{ key, points: l.points }], 0).length > 0);
+      if (!further) continue;
+      const next = guideBeyondCrossing(image, crossing.at, dir, lines);
+      if (!next || (frame && !insideFrame(next, frame)) || nearestOnPolyline(pts, next).distance < 2) continue;
+      guides = atEnd ? [...guides, next] : [next, ...guides];
+      added = true;
+    }
+    if (!added) return { guides, captured: got };
+  }
+  return { guides };
 }
 
 /**

@@ -167,6 +167,21 @@ export function auditTraces(traces: readonly AuditedTrace[], flowText: (q: numbe
     }
   }
 
+  // An iso-line bridged over more than the same share of its length: its crossings there are guesses.
+  for (const t of traces) {
+    if (t.iso === undefined || t.how !== 'raster' || t.flows.length < 2) continue;
+    const share = t.length > 0 ? t.lostLength / t.length : 0;
+    if (!(share > LOST_SHARE_FAIL) && t.refusedGuides === 0) continue;
+    const why = t.refusedGuides > 0 ? `${t.refusedGuides} of its guides found no line of its colour near them` : `${Math.round(100 * share)} % of its length was not seen and was bridged`;
+    out.push({
+      code: 'takeoff.trace-untrusted',
+      severity: 'fail',
+      trace: t.id,
+      message: `Iso-trace ${t.id} (${t.describe}) cannot be trusted: ${why}, so where it crosses the head curves there is a guess. Add a guide on the iso-line between each pair of head curves, where it stands alone, or give its points.`,
+      figures: { lost_share: share, refused_guides: t.refusedGuides },
+    });
+  }
+
   out.push(...auditNeighbours(curves, flowText));
   out.push(...auditPeaks(curves));
 
@@ -321,6 +336,26 @@ export function auditIsoCrossings(counts: readonly IsoCount[], headDiameters: re
         ...(traces.length === 1 ? { trace: traces[0] as string } : {}),
         message: `The iso-line${traces.length === 1 ? '' : 's'} ${traces.join(', ')} of level ${level} meet${traces.length === 1 ? 's' : ''} the head trace of diameter ${d} ${n} times, where one level can meet a head curve at most twice; the trace probably followed another line. Place its guides where the iso-line stands alone, between the head curves, rather than on the crossings.`,
         figures: { crossings: n },
+      });
+    }
+  }
+  // A level meets a smaller and a larger head curve but not the one between them: an iso-line
+  // runs across the head curves in order, so that crossing was lost (the head trace stops
+  // short, or the iso trace does).
+  for (const [level, perHead] of byLevel) {
+    const met = [...perHead].filter(([, n]) => n > 0).map(([d]) => d);
+    if (met.length < 2) continue;
+    const lo = Math.min(...met);
+    const hi = Math.max(...met);
+    for (const d of headDiameters) {
+      if (!(d > lo && d < hi) || (perHead.get(d) ?? 0) > 0) continue;
+      const traces = counts.filter((c) => c.level === level).map((c) => c.trace);
+      out.push({
+        code: 'takeoff.iso-gap',
+        severity: 'warn',
+        ...(traces.length === 1 ? { trace: traces[0] as string } : {}),
+        message: `The iso-line${traces.length === 1 ? '' : 's'} ${traces.join(', ')} of level ${level} meet${traces.length === 1 ? 's' : ''} the head traces of diameters ${lo} and ${hi} but not that of diameter ${d} between them, so diameter ${d} lacks that point of efficiency. Check that the head trace of diameter ${d} runs as far as the iso-line, and add a guide on the iso-line next to that head curve.`,
+        figures: { level, diameter: d },
       });
     }
   }

@@ -49,3 +49,23 @@ describe('crossing an iso-trace with the head traces of its panel', () => {
     expect(isoCrossings(line([[50, 50], [60, 60]]), [{ key: 13, points: head13 }])).toEqual([]);
   });
 });
+
+describe('iso crossings with tolerances in line widths', () => {
+  const head = line(Array.from({ length: 51 }, (_, i) => [100 + 8 * i, 100 + 0.0006 * (8 * i) ** 2] as [number, number]));
+  const y = 100 + 0.0006 * 150 ** 2;
+
+  it('extends an iso-trace that stops a few head widths short of a thick head curve', () => {
+    // Stops 14 units below the curve: beyond the 2-unit touch and a 5-unit data reach, within 4 widths of a 3-unit line.
+    const iso = line([[250, y + 80], [250, y + 14]]);
+    expect(isoCrossings(iso, [{ key: 13, points: head }], 2, 5)).toEqual([]);
+    const got = isoCrossings(iso, [{ key: 13, points: head, width: 3 }], 2, 5, 1);
+    expect(got).toHaveLength(1);
+    expect(got[0]!.at[0]).toBeCloseTo(250, 6);
+    expect(got[0]!.at[1]).toBeCloseTo(y, 1);
+  });
+
+  it('does not reach a head curve farther than the widths allow', () => {
+    const iso = line([[250, y + 80], [250, y + 30]]);
+    expect(isoCrossings(iso, [{ key: 13, points: head, width: 3 }], 2, 5, 1)).toEqual([]);
+  });
+});

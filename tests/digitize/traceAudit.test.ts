@@ -161,4 +161,25 @@ describe('trace audit', () => {
       ['takeoff.iso-none-for-diameter', 'warn', undefined],
     ]);
   });
+
+  it('warns of a head curve between two that an iso level meets, where that level found no crossing', () => {
+    const found = auditIsoCrossings(
+      [
+        { trace: 'iso70-left', describe: '', level: 70, perHead: new Map([[370, 1], [290, 1]]) },
+        { trace: 'iso60-left', describe: '', level: 60, perHead: new Map([[370, 1], [330, 1], [290, 1]]) },
+      ],
+      [370, 330, 290],
+    );
+    expect(found.map((f) => [f.code, f.severity, f.trace])).toEqual([['takeoff.iso-gap', 'warn', 'iso70-left']]);
+    expect(found[0]?.message).toMatch(/level 70 meets the head traces of diameters 290 and 370 but not that of diameter 330/);
+    expect(found[0]?.message).toMatch(/add a guide on the iso-line/);
+  });
+
+  it('fails an iso-trace bridged over more than a tenth of its length, naming it', () => {
+    const iso = { ...trace('iso70', 'efficiency', 0, 0.02, 0.08, { lostLength: 80 }), diameter: undefined, iso: 70 };
+    const found = auditTraces([...family, iso], text);
+    expect(found.map((f) => [f.code, f.severity, f.trace])).toEqual([['takeoff.trace-untrusted', 'fail', 'iso70']]);
+    expect(found[0]?.message).toMatch(/^Iso-trace iso70 .* cannot be trusted: 16 % of its length was not seen/);
+    expect(auditTraces([...family, { ...iso, lostLength: 20 }], text)).toEqual([]);
+  });
 });

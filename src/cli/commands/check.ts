@@ -16,10 +16,13 @@ export function register(program: Command): void {
     .action((file: string, options: { json?: boolean }) => runCommand(() => check(file, options)));
 }
 
-/** Fit findings come from the build (the points are gone by now); the rest are recomputed. */
+/**
+ * Fit findings come from the build and take-off findings from the replay (the points and the
+ * sheet are gone by now), so both are kept: an untrusted trace stays a fail; the rest are recomputed.
+ */
 export function recheck(set: CurveSet): CurveSet {
   const { findings, figures } = runChecks(set);
-  const fromBuild = set.findings.filter((f) => f.code.startsWith('fit.'));
+  const fromBuild = set.findings.filter((f) => f.code.startsWith('fit.') || f.code.startsWith('takeoff.'));
   return { ...set, figures, findings: sortFindings([...fromBuild, ...findings]) };
 }
 

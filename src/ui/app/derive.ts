@@ -26,7 +26,7 @@ export const EMPTY_DERIVED: Derived = {
 export function calibrationOf(panel: PanelDraft): CalibrationState {
   const anchors = anchorsWithValues(panel);
   try {
-    return { ok: true, calibration: calibrate(anchors, { xScale: panel.x_scale, yScale: panel.y_scale, panel: panel.id }) };
+    return { ok: true, calibration: calibrate(anchors, { xScale: panel.x_scale, yScale: panel.y_scale, panel: panel.id, ...(panel.projection ? { projection: panel.projection } : {}), ...(panel.frame ? { frame: panel.frame } : {}) }) };
   } catch (error) {
     const missing = panel.anchors.length - anchors.length;
     const reason = missing > 0 ? `Type ${missing === 1 ? 'the value of 1 anchor' : `the values of ${missing} anchors`} to set this panel's axes.` : (error as Error).message;

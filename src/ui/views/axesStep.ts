@@ -58,7 +58,7 @@ function residualLine(state: CalibrationState | undefined): HTMLElement {
   if (!state.ok) return h('p', { class: 'cal bad', role: 'status' }, state.reason);
   const c = state.calibration;
   const tone = c.maxPercentOfSpan > 0.3 || c.residualKind === 'none' || c.residualKind === 'estimated' ? 'warn' : 'good';
-  const kind = { fit: 'largest', 'leave-one-out': 'largest, each anchor left out', estimated: 'estimated, cannot be checked', none: 'cannot be checked' }[c.residualKind];
+  const kind = { fit: 'expected over the plot', 'leave-one-out': 'expected over the plot, each anchor checked left out', estimated: 'expected over the plot, cannot be checked', none: 'expected over the plot, cannot be checked' }[c.residualKind];
   return h('p', { class: `cal ${tone}`, role: 'status' },
     `${c.projection === 'projective' ? 'Projective' : 'Affine'} map. Residual ${num(c.maxPercentOfSpan, 2)} % of span (${kind}), ${num(c.maxSheet, 2)} sheet units`,
     c.warnings.length ? h('span', { class: 'cal-warn' }, ` — ${c.warnings[0]}`) : tone === 'good' ? ' — good' : '');
