@@ -26,6 +26,8 @@ export interface CaptureRequest {
   extent?: 'guides' | 'line' | undefined;
   /** The panel's plot frame [left, top, right, bottom], sheet units: a raster trace stops at it. */
   frame?: readonly [number, number, number, number] | undefined;
+  /** The guides of the sheet's other traces: on vector paths they settle which of several near lines is this trace's. */
+  siblings?: readonly (readonly SheetPoint[])[] | undefined;
 }
 
 export interface CaptureSource {
@@ -69,7 +71,7 @@ export async function captureTrace(request: CaptureRequest, source: CaptureSourc
   const spacing = options.spacing ?? (source.kind === 'image' ? 6 : 2);
   if (vectorPage && method !== 'raster') {
     try {
-      const got = captureVector(await source.lines(), guides, { ...options.vector, wholeLine: request.extent === 'line' });
+      const got = captureVector(await source.lines(), guides, { ...options.vector, wholeLine: request.extent === 'line', ...(request.siblings ? { siblings: request.siblings } : {}) });
       const vector: CaptureResult = { points: evenly(got.points, spacing), how: 'vector', notes, lost: [] };
       if (!got.gridLike || method === 'vector') return vector;
       // Pump curves are never level or upright straight lines: the guides more likely sit on a
