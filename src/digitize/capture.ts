@@ -72,7 +72,7 @@ export async function captureTrace(request: CaptureRequest, source: CaptureSourc
   if (vectorPage && method !== 'raster') {
     try {
       const got = captureVector(await source.lines(), guides, { ...options.vector, wholeLine: request.extent === 'line', ...(request.siblings ? { siblings: request.siblings } : {}) });
-      const vector: CaptureResult = { points: evenly(got.points, spacing), how: 'vector', notes, lost: [] };
+      const vector: CaptureResult = { points: evenly(got.points, spacing), how: 'vector', notes, lost: [], ...(got.ambiguous?.unresolved ? { doubts: [bunchDoubt(got.ambiguous.unresolved)] } : {}) };
       if (!got.gridLike || method === 'vector') return vector;
       // Pump curves are never level or upright straight lines: the guides more likely sit on a
       // curve inside a picture, drawn over by the page's grid. Follow it on a rendering.
@@ -95,6 +95,12 @@ export async function captureTrace(request: CaptureRequest, source: CaptureSourc
   const traced = traceRaster(await source.raster(), guides, rasterOptions(request, options));
   for (const l of traced.lost) notes.push(`The line was lost near (${l.at[0].toFixed(1)}, ${l.at[1].toFixed(1)}) between guides ${l.between[0]} and ${l.between[1]}: ${l.reason}.`);
   return { points: traced.lost.length ? traced.points : evenly(traced.points, spacing), how: 'raster', notes, lost: traced.lost, doubts: traced.doubts };
+}
+
+/** Another drawn line fits the guides about as well, and no other trace claims it: the choice is a guess. */
+function bunchDoubt(others: number): TraceDoubt {
+  const lines = others === 1 ? 'another drawn line passes' : `${others} other drawn lines pass`;
+  return { code: 'takeoff.guide-in-bunch', message: `${lines} about as near its guides as the line taken, and no other trace claims ${others === 1 ? 'it' : 'them'}; add a guide where the lines part, or trace the neighbouring curves too` };
 }
 
 function rasterOptions(request: CaptureRequest, options: CaptureOptions): RasterTraceOptions {

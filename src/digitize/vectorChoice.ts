@@ -78,7 +78,7 @@ export interface Choice {
 export function chooseLine(fits: readonly LineFit[], lines: readonly StrokeLine[], siblings: readonly (readonly SheetPoint[])[], reach: number, ambiguity = DEFAULT_AMBIGUITY): Choice {
   const own = plausible(fits, ambiguity);
   const first = own[0] as LineFit;
-  if (own.length < 2 || siblings.length === 0) return { fit: first, bySiblings: false, unresolved: 0 };
+  if (own.length < 2 || siblings.length === 0) return { fit: first, bySiblings: false, unresolved: own.length - 1 };
   // The other traces' plausible paths; the group is every trace linked to this one through shared paths.
   const options: LineFit[][] = [own];
   const others = siblings.filter((g) => g.length > 0).map((g) => plausible(linesNearGuides(lines, g, reach).fits, ambiguity));

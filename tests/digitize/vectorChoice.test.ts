@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import { captureTrace, type CaptureSource } from '../../src/digitize/capture.ts';
 import { captureVector, strokeLines } from '../../src/digitize/vectorCapture.ts';
 import { distanceToPolyline } from '../../src/digitize/polyline.ts';
 import { sheetPoint, type SheetPoint } from '../../src/digitize/points.ts';
@@ -95,5 +96,14 @@ describe('choosing among near lines by the other traces', () => {
     const got = captureVector(lines, clear, { siblings: guides.filter((_, j) => j !== 1) });
     expect(got.stroke).toBe(COLOURS[1]);
     expect(got.ambiguous).toBeUndefined();
+  });
+
+  it('a trace whose guides fit two paths that nothing settles carries a warning; the other traces lift it', async () => {
+    const source: CaptureSource = { kind: 'vector-pdf', lines: async () => lines, raster: () => Promise.reject(new Error('no rendering in this test')) };
+    const alone = await captureTrace({ guides: own, extent: 'line' }, source);
+    expect(alone.doubts?.map((d) => d.code)).toEqual(['takeoff.guide-in-bunch']);
+    expect(alone.doubts?.[0]?.message).toMatch(/2 other drawn lines pass about as near its guides as the line taken/);
+    const settled = await captureTrace({ guides: own, extent: 'line', siblings: guides.slice(0, 3) }, source);
+    expect(settled.doubts ?? []).toEqual([]);
   });
 });
