@@ -16,6 +16,7 @@ import { join } from 'node:path';
 import { imageSheet } from '../../src/digitize/loaders/imageSheet.ts';
 import { loadPdfSheetNode } from '../../src/digitize/loaders/pdfNode.ts';
 import type { Sheet } from '../../src/digitize/sheet.ts';
+import { sheetPoint } from '../../src/digitize/points.ts';
 import { replayTakeoff } from '../../src/digitize/takeoff.ts';
 import { parseTakeoff } from '../../src/model/takeoff.ts';
 import { decode } from './camera.ts';
@@ -95,6 +96,14 @@ async function main(): Promise<void> {
           process.stdout.write(
             `  ${t.id.padEnd(18)} ${t.how.padEnd(6)} pts ${String(t.points.length).padStart(3)} x ${Math.min(...xs).toFixed(1)}..${Math.max(...xs).toFixed(1)} of ${a.toFixed(1)}..${b.toFixed(1)}  point max ${Math.max(...own).toFixed(2)} p95 ${quantile(own, 0.95).toFixed(2)}  fit ${score?.error.toFixed(2)}${closest !== line.speed ? `  LIES ON ${closest}` : ''}${flag}\n`,
           );
+          if (process.env.SPEED_NOTES) {
+            const guides = (s.takeoff.traces.find((u) => u.id === t.id)?.guides ?? []).map((g) => (cal.toData(sheetPoint(g[0], g[1])) as unknown as [number, number])[0]);
+            process.stdout.write(`      guides at x ${guides.map((g) => g.toFixed(1)).join(', ')}\n`);
+            for (const n of t.notes) process.stdout.write(`      ${n}\n`);
+          }
+        }
+        for (const r of scores.filter((x) => x.source === 'iso')) {
+          process.stdout.write(`  ${r.id.padEnd(18)} from iso-lines  fit ${r.error.toFixed(2)}${r.flagged ? ` flags ${r.flags.join(',')}` : ''}\n`);
         }
       } finally {
         await sheet.close();
