@@ -8,6 +8,9 @@
  *
  *   SPEED_SHEETS=3 SPEED_SEED=1 SPEED_KIND=vector npx tsx scripts/randomSheets/speedDump.ts
  *
+ * SPEED_ONLY=efficiency limits the rows to one quantity, SPEED_NOTES=1 adds the guides' flows and
+ * the capture notes, SPEED_MONO=1 draws every speed in one colour (as the bench does).
+ *
  * Sheets are cached in artifacts/speed-sheets/ (not committed), keyed by seed, kind and options.
  */
 import { createHash } from 'node:crypto';
@@ -29,12 +32,12 @@ const CACHE = 'artifacts/speed-sheets';
 
 /** The bench's options for a seed (bench/speedSheets.bench.ts). */
 export function benchOptions(seed: number, kind: 'vector' | 'scan'): SpeedSheetOptions {
-  return { kind, efficiencyAs: seed % 2 ? 'iso' : 'curves', minFlowLine: seed % 3 === 0 };
+  return { kind, efficiencyAs: seed % 2 ? 'iso' : 'curves', minFlowLine: seed % 3 === 0, ...(process.env.SPEED_MONO === '1' ? { monochrome: true } : {}) };
 }
 
 /** A speed sheet from the cache, or drawn (and cached) when missing. */
 export async function cachedSpeedSheet(seed: number, options: SpeedSheetOptions): Promise<SpeedSheet> {
-  const name = `v${CACHE_VERSION}-${seed}-${options.kind}-${options.efficiencyAs ?? 'curves'}-${options.minFlowLine ? 'min' : 'nomin'}`;
+  const name = `v${CACHE_VERSION}-${seed}-${options.kind}-${options.efficiencyAs ?? 'curves'}-${options.minFlowLine ? 'min' : 'nomin'}${options.monochrome ? '-mono' : ''}`;
   const file = join(CACHE, `${name}.json`);
   if (existsSync(file)) {
     const kept = JSON.parse(readFileSync(file, 'utf8')) as Omit<SpeedSheet, 'bytes'> & { bytes: string };
