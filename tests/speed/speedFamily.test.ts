@@ -96,4 +96,26 @@ describe('a speed family from a points table', () => {
     // A diameter family is never judged by the speed law.
     expect(speedRangeFindings({ ...cut(0.6), family: 'diameter' })).toEqual([]);
   });
+
+  it('warns when one speed\'s curve runs on past the end of curve its own head curve and its neighbours give it, and names only that speed', () => {
+    const set = buildSpeedSetFromText(speedFamilyPointsText(inventedSpeedFamily(), { seed: 5 }));
+    expect(speedRangeFindings(set).filter((f) => f.code === 'affinity.speed-overrun')).toEqual([]);
+    // The 1000 rpm efficiency trace ran on into the 1150 rpm line past its own end of curve, as a follower does where the curves cross.
+    const longer = (share: number) => ({
+      ...set,
+      members: set.members.map((m) => {
+        const eta = m.curves.efficiency!;
+        const [lo, hi] = eta.fit!.domain;
+        return m.speed_rpm === 1000 ? { ...m, curves: { ...m.curves, efficiency: { ...eta, fit: { ...eta.fit!, domain: [lo, hi + share * (hi - lo)] as [number, number] } } } } : m;
+      }),
+    });
+    const found = speedRangeFindings(longer(0.25)).filter((f) => f.code === 'affinity.speed-overrun');
+    expect(found.map((f) => `${f.subject.speed_rpm} ${f.subject.quantity} ${f.severity}`)).toEqual(['1000 efficiency warn']);
+    // 25 % of its own range beyond its end: within a few % of that, as a share of the head curve's or the neighbours' scaled range.
+    expect(found[0]!.figures.overshoot_share).toBeGreaterThan(0.2);
+    expect(found[0]!.figures.overshoot_share).toBeLessThan(0.3);
+    expect(found[0]!.message).toMatch(/^The 1000 rpm efficiency curve runs \d+ % of its flow range past the end of curve/);
+    // A trace that runs a little past its end (within the limit) is not named.
+    expect(speedRangeFindings(longer(SPEED_RANGE_SHORT / 2)).filter((f) => f.code === 'affinity.speed-overrun')).toEqual([]);
+  });
 });
