@@ -160,29 +160,6 @@ export function speedRangeShortfall(k: Member, j: Member, quantity: 'head' | 'ef
   return (Math.max(0, fk.domain[0] - lo) + Math.max(0, hi - fk.domain[1])) / (hi - lo);
 }
 
-/**
- * Share of the flow range of member j, scaled to member k's speed by Q ∝ n, by which k's curve
- * of `quantity` runs past that range's upper end (0 when it ends within it); undefined when
- * either curve is missing.
- */
-export function speedRangeOvershoot(k: Member, j: Member, quantity: 'head' | 'efficiency' | 'power' | 'npshr'): number | undefined {
-  const fk = k.curves[quantity]?.fit;
-  const fj = j.curves[quantity]?.fit;
-  if (!fk || !fj) return undefined;
-  const r = k.speed_rpm / j.speed_rpm;
-  const lo = r * fj.domain[0];
-  const hi = r * fj.domain[1];
-  if (!(hi > lo)) return undefined;
-  return Math.max(0, fk.domain[1] - hi) / (hi - lo);
-}
-
-/** Share of member m's head-curve flow range by which `fit` runs past the head curve's end (0 when it ends within it or m has no head curve). */
-function ownHeadOvershoot(m: Member, fit: PolynomialFit): number {
-  const head = m.curves.head?.fit;
-  if (!head || !(head.domain[1] > head.domain[0])) return 0;
-  return Math.max(0, fit.domain[1] - head.domain[1]) / (head.domain[1] - head.domain[0]);
-}
-
 /** Share of member m's head-curve flow range beyond the upper end of `fit` (0 when it reaches the head curve's end or m has no head curve). */
 function ownHeadShortfall(m: Member, fit: PolynomialFit): number {
   const head = m.curves.head?.fit;
@@ -218,7 +195,7 @@ export function speedRangeFindings(set: Pick<CurveSet, 'members' | 'family'>): F
         .filter((d): d is number => d !== undefined);
       const fit = m.curves[quantity]?.fit as PolynomialFit;
       const curve = `The ${Math.round(m.speed_rpm)} rpm ${RANGE_WHAT[quantity]} curve`;
-      const over = overshootFinding(m, drawn, i, quantity, fit, curve);
+      const over = overrunFinding(set.members, m, quantity, fit, curve);
       if (over) findings.push(over);
       const best = shorts.length ? Math.min(...shorts) : 0;
       const own = quantity === 'head' ? 0 : ownHeadShortfall(m, fit);
@@ -244,20 +221,27 @@ export function speedRangeFindings(set: Pick<CurveSet, 'members' | 'family'>): F
 }
 
 /**
- * The other way round: a curve that runs on past the end of curve its neighbouring speeds give
- * it by Q ∝ n (judged by the nearer agreement, so one long neighbour does not blame it) and past
- * its own head curve's end (a sheet draws all curves of one speed to one end of curve; common
- * practice) by more than `SPEED_RANGE_SHORT` of the range. On a scan the follower then ran on
+ * The other way round: a curve that runs on past the end of curve the rest of the family gives
+ * it. Every curve's end is taken to the rated speed by Q ∝ n; a sheet draws all curves of one
+ * impeller to corresponding ends (common practice; Karassik, Pump Handbook), so a curve whose
+ * end lies more than `SPEED_RANGE_SHORT` beyond the FARTHEST end of all the other curves (any
+ * quantity, any speed) ran on past its own. The farthest other end is the reference so that
+ * curves cut short elsewhere never make a whole curve look long. On a scan the follower then ran
  * into another line where the curves cross or bunch (efficiency curves of a speed family cross
  * near their peaks), and the points beyond the end belong to another speed.
  */
-function overshootFinding(m: Member, drawn: readonly Member[], i: number, quantity: 'head' | 'efficiency' | 'power' | 'npshr', fit: PolynomialFit, curve: string): Finding | undefined {
-  const overs = nearestSpeeds(drawn, i)
-    .map((x) => speedRangeOvershoot(m, x, quantity))
-    .filter((d): d is number => d !== undefined);
-  const beyondNeighbours = overs.length ? Math.min(...overs) : 0;
-  const beyondOwn = quantity === 'head' ? beyondNeighbours : m.curves.head?.fit ? ownHeadOvershoot(m, fit) : beyondNeighbours;
-  const share = Math.min(beyondNeighbours, beyondOwn);
+function overrunFinding(members: readonly Member[], m: Member, quantity: 'head' | 'efficiency' | 'power' | 'npshr', fit: PolynomialFit, curve: string): Finding | undefined {
+  const rated = Math.max(...members.map((x) => x.speed_rpm));
+  const endAtRated = (x: Member, f: PolynomialFit) => (f.domain[1] * rated) / x.speed_rpm;
+  let reference = 0;
+  for (const x of members) {
+    for (const q of ['head', 'efficiency', 'power', 'npshr'] as const) {
+      const f = x.curves[q]?.fit;
+      if (f && !(x === m && q === quantity)) reference = Math.max(reference, endAtRated(x, f));
+    }
+  }
+  if (!(reference > 0)) return undefined;
+  const share = endAtRated(m, fit) / reference - 1;
   if (share <= SPEED_RANGE_SHORT) return undefined;
   return makeFinding({
     code: 'affinity.speed-overrun',
@@ -265,9 +249,9 @@ function overshootFinding(m: Member, drawn: readonly Member[], i: number, quanti
     member: { speed_rpm: m.speed_rpm },
     quantity,
     message:
-      `${curve} runs ${(100 * share).toFixed(0)} % of its flow range past the end of curve ${quantity === 'head' ? 'its neighbouring speeds give it' : 'its own head curve and its neighbouring speeds give it'} by the speed affinity law (Q ∝ n): ` +
+      `${curve} runs ${(100 * share).toFixed(0)} % past the farthest end of curve any other curve of the family reaches, scaled to its speed by the speed affinity law (Q ∝ n): ` +
       'the trace likely ran on into another line where the curves cross or bunch; check where it ends, and end it on its own line.',
     method: SPEED_METHOD,
-    figures: { overshoot_share: share, flow_to: fit.domain[1] },
+    figures: { overrun_share: share, flow_to: fit.domain[1] },
   });
 }
