@@ -7,6 +7,8 @@
  * flagged, wrong (beyond 1 % of span or 2 points, or missing) and wrong but not flagged.
  *
  *   SPEED_SHEETS=10 SPEED_SEED=1 npm run bench -- speedSheets
+ *
+ * SPEED_MONO=1 draws every speed in one colour. Per-trace reasons: scripts/randomSheets/speedDump.ts.
  */
 import { createHash } from 'node:crypto';
 import { decode } from '../scripts/randomSheets/camera.ts';
@@ -47,15 +49,16 @@ const pct = (n: number, of: number) => `${((100 * n) / Math.max(1, of)).toFixed(
 export default async function bench(): Promise<void> {
   const count = Number(process.env.SPEED_SHEETS ?? 10);
   const first = Number(process.env.SPEED_SEED ?? 1);
+  const monochrome = process.env.SPEED_MONO === '1';
   const rows: (CurveScore & { seed: number; kind: string })[] = [];
   for (let seed = first; seed < first + count; seed++) {
     for (const kind of ['vector', 'scan'] as const) {
-      const s = await makeSpeedSheet(seed, { kind, efficiencyAs: seed % 2 ? 'iso' : 'curves', minFlowLine: seed % 3 === 0 });
+      const s = await makeSpeedSheet(seed, { kind, efficiencyAs: seed % 2 ? 'iso' : 'curves', minFlowLine: seed % 3 === 0, ...(monochrome ? { monochrome } : {}) });
       const set = await replay(s);
       for (const r of scoreReplay(s.family, s.truth, set, speedTruthSource(s.family))) rows.push({ ...r, seed, kind });
     }
   }
-  const lines = [`${count} speed sheets from seed ${first}, each as vector PDF and as scan`, 'group                      curves   p50      p95      max      flagged  wrong    wrong+unflagged'];
+  const lines = [`${count} speed sheets from seed ${first}${monochrome ? ' in one colour' : ''}, each as vector PDF and as scan`, 'group                      curves   p50      p95      max      flagged  wrong    wrong+unflagged'];
   const groups = new Map<string, typeof rows>();
   for (const r of rows) {
     const key = `${r.kind}/${r.quantity}${r.source === 'iso' ? ' (iso)' : ''}`;

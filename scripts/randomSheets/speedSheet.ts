@@ -42,6 +42,8 @@ export interface SpeedSheetOptions {
   minFlowLine?: boolean;
   /** Plan resolution of a scan, 200–300 dpi. */
   dpi?: number;
+  /** Every speed's curves in one colour (near-black), as many printed sheets draw them; the dice are thrown as for a coloured sheet. */
+  monochrome?: boolean;
 }
 
 /** An invented impeller drawn at four speeds, each within 20 % of the next (the law's close band). */
@@ -131,7 +133,7 @@ export function planSpeedSheet(dice: Dice, options: SpeedSheetOptions): SheetPla
         panel: panel.id,
         quantity: q,
         speed: n,
-        style: { colour: colours[k % colours.length] as string, width, dash, pattern },
+        style: { colour: options.monochrome ? '#111111' : (colours[k % colours.length] as string), width, dash, pattern },
         points: sample(panel, flows, (f) => exactAtSpeed(family, q, n, f)),
         flows,
         ...(q === 'head' || q === 'power' ? { label: { text: speedLabel(family, n), at: dice.between(0.55, 0.8), mode: 'beside' as const } } : {}),

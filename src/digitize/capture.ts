@@ -26,6 +26,8 @@ export interface CaptureRequest {
   extent?: 'guides' | 'line' | undefined;
   /** The panel's plot frame [left, top, right, bottom], sheet units: a raster trace stops at it. */
   frame?: readonly [number, number, number, number] | undefined;
+  /** The guides of the sheet's other traces: on vector paths they settle which of several near lines is this trace's. */
+  siblings?: readonly (readonly SheetPoint[])[] | undefined;
 }
 
 export interface CaptureSource {
@@ -71,8 +73,8 @@ export async function captureTrace(request: CaptureRequest, source: CaptureSourc
   const spacing = options.spacing ?? (source.kind === 'image' ? 6 : 2);
   if (vectorPage && method !== 'raster') {
     try {
-      const got = captureVector(await source.lines(), guides, { ...options.vector, wholeLine: request.extent === 'line' });
-      const vector: CaptureResult = { points: evenly(got.points, spacing), how: 'vector', notes, lost: [] };
+      const got = captureVector(await source.lines(), guides, { ...options.vector, wholeLine: request.extent === 'line', ...(request.siblings ? { siblings: request.siblings } : {}) });
+      const vector: CaptureResult = { points: evenly(got.points, spacing), how: 'vector', notes, lost: [], ...(got.ambiguous?.unresolved ? { doubts: [bunchDoubt(got.ambiguous.unresolved)] } : {}) };
       if (!got.gridLike || method === 'vector') return vector;
       // Pump curves are never level or upright straight lines: the guides more likely sit on a
       // curve inside a picture, drawn over by the page's grid. Follow it on a rendering.
@@ -103,6 +105,12 @@ export async function captureTrace(request: CaptureRequest, source: CaptureSourc
     doubts: traced.doubts,
     ...(traced.line.widthPx > 0 ? { lineWidth: traced.line.widthPx / image.scale } : {}),
   };
+}
+
+/** Another drawn line fits the guides about as well, and no other trace claims it: the choice is a guess. */
+function bunchDoubt(others: number): TraceDoubt {
+  const lines = others === 1 ? 'another drawn line passes' : `${others} other drawn lines pass`;
+  return { code: 'takeoff.guide-in-bunch', message: `${lines} about as near its guides as the line taken, and no other trace claims ${others === 1 ? 'it' : 'them'}; add a guide where the lines part, or trace the neighbouring curves too` };
 }
 
 function rasterOptions(request: CaptureRequest, options: CaptureOptions): RasterTraceOptions {

@@ -6,6 +6,8 @@
  *    tolerance are joined, preferring the straightest continuation where several ends meet;
  * 3. the joined line that passes near ALL guides wins; straight horizontal or vertical lines and
  *    closed outlines (grid lines, frames) only win when nothing else passes near the guides;
+ *    where several lines pass about equally near (a bunch), the other traces' guides settle
+ *    which line is this trace's (vectorChoice.ts);
  * 4. the line is cut between the first and the last guide (a single guide, or `wholeLine`, takes
  *    it whole);
  * 5. a line the drawing interrupts (for an inline label) is stitched across the gap when no
@@ -18,6 +20,7 @@ import type { SheetPoint } from './points.ts';
 import type { VectorPath } from './sheet.ts';
 import { joinPieces, type Piece, type StrokeLine } from './strokeJoin.ts';
 import { centrelineOf } from './outlines.ts';
+import { chooseLine, linesNearGuides } from './vectorChoice.ts';
 import { stitchAlongGuides } from './stitch.ts';
 
 /** Thrown when no drawn line fits the guides; the message says what to do. */
@@ -34,6 +37,13 @@ export interface VectorCaptureOptions {
   maxGuideDistance?: number;
   /** Take the whole line the guides sit on instead of the stretch from the first guide to the last. */
   wholeLine?: boolean;
+  /**
+   * The guides of the page's other traces. Where several drawn lines pass about equally near
+   * this trace's guides (a bunch), the line the others do not claim is taken (vectorChoice.ts).
+   */
+  siblings?: readonly (readonly SheetPoint[])[];
+  /** Sheet units within which two lines' guide distances count as equal (default DEFAULT_AMBIGUITY). */
+  ambiguity?: number;
 }
 
 export interface VectorCapture {
@@ -47,6 +57,11 @@ export interface VectorCapture {
   pieces: number;
   /** True when the chosen line is straight and level or upright, or a closed outline. */
   gridLike: boolean;
+  /**
+   * Set when another drawn line passed about as near the guides: `bySiblings` when the other
+   * traces' guides settled the choice, `unresolved` the near lines nothing settled.
+   */
+  ambiguous?: { bySiblings: boolean; unresolved: number };
 }
 
 export const DEFAULT_JOIN_TOLERANCE = 0.5;
@@ -94,18 +109,9 @@ export function strokeLines(paths: readonly VectorPath[], options: VectorCapture
 export function captureVector(lines: readonly StrokeLine[], guides: readonly SheetPoint[], options: VectorCaptureOptions = {}): VectorCapture {
   if (guides.length === 0) throw new CaptureError('A vector capture needs at least one guide on the line.');
   const reach = options.maxGuideDistance ?? DEFAULT_MAX_GUIDE_DISTANCE;
-  let best: { line: StrokeLine; positions: PolylinePosition[]; score: number; tie: number } | null = null;
-  let closest = Infinity;
-  for (const line of lines) {
-    if (!nearBox(line.box, guides, reach)) continue;
-    const positions = guides.map((g) => nearestOnPolyline(line.points, g));
-    const worst = Math.max(...positions.map((p) => p.distance));
-    closest = Math.min(closest, worst);
-    if (worst > reach) continue;
-    const score = worst + (line.gridLike ? reach : 0);
-    const tie = positions.reduce((s, p) => s + p.distance, 0);
-    if (!best || score < best.score - 1e-9 || (Math.abs(score - best.score) <= 1e-9 && tie < best.tie)) best = { line, positions, score, tie };
-  }
+  const { fits, closest } = linesNearGuides(lines, guides, reach);
+  const choice = fits.length > 0 ? chooseLine(fits, lines, options.siblings ?? [], reach, options.ambiguity) : null;
+  const best = choice?.fit;
   if (!best) {
     const stitched = stitchAlongGuides(lines, guides, reach);
     if (stitched) {
@@ -134,6 +140,7 @@ export function captureVector(lines: readonly StrokeLine[], guides: readonly She
     lineWidth: line.lineWidth,
     pieces: line.pieces,
     gridLike: line.gridLike,
+    ...(choice && (choice.bySiblings || choice.unresolved > 0) ? { ambiguous: { bySiblings: choice.bySiblings, unresolved: choice.unresolved } } : {}),
   };
 }
 
@@ -145,10 +152,6 @@ function whole(line: StrokeLine, positions: readonly PolylinePosition[]): SheetP
   const first = arcLengthAt(cumulative, positions[0]!);
   const last = arcLengthAt(cumulative, positions[positions.length - 1]!);
   return first <= last ? points : points.reverse();
-}
-
-function nearBox(box: readonly [number, number, number, number], guides: readonly SheetPoint[], reach: number): boolean {
-  return guides.every((g) => g[0] >= box[0] - reach && g[0] <= box[2] + reach && g[1] >= box[1] - reach && g[1] <= box[3] + reach);
 }
 
 /** The stretch between the first and the last guide; on a closed line, the way round that holds the middle guides. */

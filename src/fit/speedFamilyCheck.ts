@@ -194,10 +194,12 @@ export function speedRangeFindings(set: Pick<CurveSet, 'members' | 'family'>): F
         .map((x) => speedRangeShortfall(m, x, quantity))
         .filter((d): d is number => d !== undefined);
       const fit = m.curves[quantity]?.fit as PolynomialFit;
+      const curve = `The ${Math.round(m.speed_rpm)} rpm ${RANGE_WHAT[quantity]} curve`;
+      const over = overrunFinding(set.members, m, quantity, fit, curve);
+      if (over) findings.push(over);
       const best = shorts.length ? Math.min(...shorts) : 0;
       const own = quantity === 'head' ? 0 : ownHeadShortfall(m, fit);
       if (best <= SPEED_RANGE_SHORT && own <= SPEED_RANGE_SHORT) return;
-      const curve = `The ${Math.round(m.speed_rpm)} rpm ${RANGE_WHAT[quantity]} curve`;
       const why =
         own > best
           ? `${curve} ends ${(100 * own).toFixed(0)} % of the head curve's flow range before the ${Math.round(m.speed_rpm)} rpm head curve does, where a sheet draws both to the same end of curve: it was likely cut short`
@@ -216,4 +218,40 @@ export function speedRangeFindings(set: Pick<CurveSet, 'members' | 'family'>): F
     });
   }
   return findings;
+}
+
+/**
+ * The other way round: a curve that runs on past the end of curve the rest of the family gives
+ * it. Every curve's end is taken to the rated speed by Q ∝ n; a sheet draws all curves of one
+ * impeller to corresponding ends (common practice; Karassik, Pump Handbook), so a curve whose
+ * end lies more than `SPEED_RANGE_SHORT` beyond the FARTHEST end of all the other curves (any
+ * quantity, any speed) ran on past its own. The farthest other end is the reference so that
+ * curves cut short elsewhere never make a whole curve look long. On a scan the follower then ran
+ * into another line where the curves cross or bunch (efficiency curves of a speed family cross
+ * near their peaks), and the points beyond the end belong to another speed.
+ */
+function overrunFinding(members: readonly Member[], m: Member, quantity: 'head' | 'efficiency' | 'power' | 'npshr', fit: PolynomialFit, curve: string): Finding | undefined {
+  const rated = Math.max(...members.map((x) => x.speed_rpm));
+  const endAtRated = (x: Member, f: PolynomialFit) => (f.domain[1] * rated) / x.speed_rpm;
+  let reference = 0;
+  for (const x of members) {
+    for (const q of ['head', 'efficiency', 'power', 'npshr'] as const) {
+      const f = x.curves[q]?.fit;
+      if (f && !(x === m && q === quantity)) reference = Math.max(reference, endAtRated(x, f));
+    }
+  }
+  if (!(reference > 0)) return undefined;
+  const share = endAtRated(m, fit) / reference - 1;
+  if (share <= SPEED_RANGE_SHORT) return undefined;
+  return makeFinding({
+    code: 'affinity.speed-overrun',
+    severity: 'warn',
+    member: { speed_rpm: m.speed_rpm },
+    quantity,
+    message:
+      `${curve} runs ${(100 * share).toFixed(0)} % past the farthest end of curve any other curve of the family reaches, scaled to its speed by the speed affinity law (Q ∝ n): ` +
+      'the trace likely ran on into another line where the curves cross or bunch; check where it ends, and end it on its own line.',
+    method: SPEED_METHOD,
+    figures: { overrun_share: share, flow_to: fit.domain[1] },
+  });
 }

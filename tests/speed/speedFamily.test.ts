@@ -96,4 +96,29 @@ describe('a speed family from a points table', () => {
     // A diameter family is never judged by the speed law.
     expect(speedRangeFindings({ ...cut(0.6), family: 'diameter' })).toEqual([]);
   });
+
+  it('warns when one speed\'s curve runs on past the end of curve the rest of the family gives it by Q ∝ n, and names only that speed', () => {
+    const set = buildSpeedSetFromText(speedFamilyPointsText(inventedSpeedFamily(), { seed: 5 }));
+    expect(speedRangeFindings(set).filter((f) => f.code === 'affinity.speed-overrun')).toEqual([]);
+    // The 1000 rpm efficiency trace ran on into the 1150 rpm line past its own end of curve, as a follower does where the curves cross.
+    const longer = (share: number) => ({
+      ...set,
+      members: set.members.map((m) => {
+        const eta = m.curves.efficiency!;
+        const [lo, hi] = eta.fit!.domain;
+        return m.speed_rpm === 1000 ? { ...m, curves: { ...m.curves, efficiency: { ...eta, fit: { ...eta.fit!, domain: [lo, hi + share * (hi - lo)] as [number, number] } } } } : m;
+      }),
+    });
+    const found = speedRangeFindings(longer(0.25)).filter((f) => f.code === 'affinity.speed-overrun');
+    expect(found.map((f) => `${f.subject.speed_rpm} ${f.subject.quantity} ${f.severity}`)).toEqual(['1000 efficiency warn']);
+    // 25 % of its own range beyond its end, against the farthest other end scaled by Q ∝ n: about 20–25 % (the table's curves end a little apart).
+    expect(found[0]!.figures.overrun_share).toBeGreaterThan(0.18);
+    expect(found[0]!.figures.overrun_share).toBeLessThan(0.26);
+    expect(found[0]!.message).toMatch(/^The 1000 rpm efficiency curve runs 2\d % past the farthest end of curve any other curve of the family reaches/);
+    // Other curves cut short do not make a whole curve look long.
+    const shortened = { ...set, members: set.members.map((m) => (m.speed_rpm === 1150 ? { ...m, curves: { ...m.curves, head: { ...m.curves.head!, fit: { ...m.curves.head!.fit!, domain: [0, 0.5 * m.curves.head!.fit!.domain[1]] as [number, number] } } } } : m)) };
+    expect(speedRangeFindings(shortened).filter((f) => f.code === 'affinity.speed-overrun')).toEqual([]);
+    // A trace that runs a little past its end (within the limit) is not named.
+    expect(speedRangeFindings(longer(SPEED_RANGE_SHORT / 2)).filter((f) => f.code === 'affinity.speed-overrun')).toEqual([]);
+  });
 });
