@@ -722,7 +722,7 @@ function extendToEnds(image: RasterImage, style: LineStyle, path: Px[], maxGap: 
     const heading = tangentAt(stretch, stretch.length - 1, 1);
     const result = followLine(image, style, end, heading, undefined, limits, counter);
     const [inside] = judgeExtension(result, undefined, frame, image.scale, style.width);
-    const smooth = keepSmooth(stretch, inside, style.width);
+    const smooth = keepSmooth(stretch, inside, style.width, maxGap);
     const [kept, doubt] = judgeExtension(result, smooth.length, frame, image.scale, style.width);
     if (doubt) doubts.push(doubt);
     return kept;
@@ -737,59 +737,96 @@ function extendToEnds(image: RasterImage, style: LineStyle, path: Px[], maxGap: 
 
 /**
  * The part of an extension that continues the line smoothly: each point must lie within about
- * half a line width of the parabola through the last `window` pixels before it (in the frame of
- * their chord). A drawn curve ends cleanly; what the follower finds beyond its end (a label
- * beside it, a neighbouring line it ran into) bends away, and is cut there.
+ * half a line width of the parabola through the last `window` pixels of accepted line before it
+ * (in the frame of their chord), the tolerance growing slowly with the distance from the last
+ * accepted point. A drawn curve is smooth; what the follower picks up on the way (a label on the
+ * line, a crossing iso-line, a grid line) bends away from that parabola. Such a stretch is left
+ * out when the line is seen again on its own course beyond it, for at least `RESUME_POINTS`
+ * points and `resumeLength` pixels, within `maxSkip` pixels; otherwise the extension is cut at
+ * the stretch's start (the line's own end, or a neighbour it ran into).
  */
-function keepSmooth(base: readonly Px[], extension: readonly Px[], width: number): Px[] {
+function keepSmooth(base: readonly Px[], extension: readonly Px[], width: number, maxSkip: number): Px[] {
   const limit = Math.max(1.2, 0.6 * width);
-  const window = Math.max(30, 10 * width);
+  const window = Math.max(100, 25 * width);
+  const resumeLength = Math.max(10, 4 * width);
   const all: Px[] = [...base];
   const kept: Px[] = [];
+  let resume: Px[] = [];
+  let skippedFrom: Px | undefined;
   for (const p of extension) {
-    let k = all.length - 1;
-    let length = 0;
-    while (k > 0 && length < window) {
-      const a = all[k - 1] as Px;
-      const b = all[k] as Px;
-      length += Math.hypot(b[0] - a[0], b[1] - a[1]);
-      k--;
-    }
-    const first = all[k] as Px;
     const last = all[all.length - 1] as Px;
-    const chord = Math.hypot(last[0] - first[0], last[1] - first[1]);
-    if (all.length - k >= 6 && chord > 0.5 * window) {
-      const ux = (last[0] - first[0]) / chord;
-      const uy = (last[1] - first[1]) / chord;
-      const m = [0, 0, 0, 0, 0, 0, 0, 0];
-      for (let i = k; i < all.length; i++) {
-        const q = all[i] as Px;
-        const t = ((q[0] - last[0]) * ux + (q[1] - last[1]) * uy) / window;
-        const y = -(q[0] - last[0]) * uy + (q[1] - last[1]) * ux;
-        m[0]! += 1;
-        m[1]! += t;
-        m[2]! += t * t;
-        m[3]! += t * t * t;
-        m[4]! += t * t * t * t;
-        m[5]! += y;
-        m[6]! += t * y;
-        m[7]! += t * t * y;
+    const dev = offParabola(all, window, p);
+    const away = Math.hypot(p[0] - last[0], p[1] - last[1]);
+    const tolerance = limit + 0.03 * Math.max(0, away - window / 4);
+    if (dev <= tolerance) {
+      if (!skippedFrom) {
+        all.push(p);
+        kept.push(p);
+        continue;
       }
-      const [n, s1, s2, s3, s4, y0, y1, y2] = m as [number, number, number, number, number, number, number, number];
-      const det = n * (s2 * s4 - s3 * s3) - s1 * (s1 * s4 - s3 * s2) + s2 * (s1 * s3 - s2 * s2);
-      if (Math.abs(det) > 1e-12) {
-        const a = (y0 * (s2 * s4 - s3 * s3) - s1 * (y1 * s4 - s3 * y2) + s2 * (y1 * s3 - s2 * y2)) / det;
-        const b = (n * (y1 * s4 - s3 * y2) - y0 * (s1 * s4 - s3 * s2) + s2 * (s1 * y2 - y1 * s2)) / det;
-        const c = (n * (s2 * y2 - y1 * s3) - s1 * (s1 * y2 - y1 * s2) + y0 * (s1 * s3 - s2 * s2)) / det;
-        const t = ((p[0] - last[0]) * ux + (p[1] - last[1]) * uy) / window;
-        const y = -(p[0] - last[0]) * uy + (p[1] - last[1]) * ux;
-        if (Math.abs(y - (a + b * t + c * t * t)) > limit) break;
+      resume.push(p);
+      const r0 = resume[0] as Px;
+      if (resume.length >= RESUME_POINTS && Math.hypot(p[0] - r0[0], p[1] - r0[1]) >= resumeLength) {
+        all.push(...resume);
+        kept.push(...resume);
+        resume = [];
+        skippedFrom = undefined;
       }
+      continue;
     }
-    all.push(p);
-    kept.push(p);
+    resume = [];
+    skippedFrom ??= last;
+    if (Math.hypot(p[0] - skippedFrom[0], p[1] - skippedFrom[1]) > maxSkip) break;
   }
   return kept;
+}
+
+/** Points seen again on the line's course after a stretch off it, before the line counts as resumed. */
+const RESUME_POINTS = 5;
+
+/**
+ * How far `p` lies off the least-squares parabola through the points of `all` within `window`
+ * pixels (along the path) of its end, in the frame of their chord; 0 when too few points or
+ * too short a chord make the parabola meaningless.
+ */
+function offParabola(all: readonly Px[], window: number, p: Px): number {
+  let k = all.length - 1;
+  let length = 0;
+  while (k > 0 && length < window) {
+    const a = all[k - 1] as Px;
+    const b = all[k] as Px;
+    length += Math.hypot(b[0] - a[0], b[1] - a[1]);
+    k--;
+  }
+  const first = all[k] as Px;
+  const last = all[all.length - 1] as Px;
+  const chord = Math.hypot(last[0] - first[0], last[1] - first[1]);
+  if (all.length - k < 6 || chord <= 0.5 * window) return 0;
+  const ux = (last[0] - first[0]) / chord;
+  const uy = (last[1] - first[1]) / chord;
+  const m = [0, 0, 0, 0, 0, 0, 0, 0];
+  for (let i = k; i < all.length; i++) {
+    const q = all[i] as Px;
+    const t = ((q[0] - last[0]) * ux + (q[1] - last[1]) * uy) / window;
+    const y = -(q[0] - last[0]) * uy + (q[1] - last[1]) * ux;
+    m[0]! += 1;
+    m[1]! += t;
+    m[2]! += t * t;
+    m[3]! += t * t * t;
+    m[4]! += t * t * t * t;
+    m[5]! += y;
+    m[6]! += t * y;
+    m[7]! += t * t * y;
+  }
+  const [n, s1, s2, s3, s4, y0, y1, y2] = m as [number, number, number, number, number, number, number, number];
+  const det = n * (s2 * s4 - s3 * s3) - s1 * (s1 * s4 - s3 * s2) + s2 * (s1 * s3 - s2 * s2);
+  if (Math.abs(det) <= 1e-12) return 0;
+  const a = (y0 * (s2 * s4 - s3 * s3) - s1 * (y1 * s4 - s3 * y2) + s2 * (y1 * s3 - s2 * y2)) / det;
+  const b = (n * (y1 * s4 - s3 * y2) - y0 * (s1 * s4 - s3 * s2) + s2 * (s1 * y2 - y1 * s2)) / det;
+  const c = (n * (s2 * y2 - y1 * s3) - s1 * (s1 * y2 - y1 * s2) + y0 * (s1 * s3 - s2 * s2)) / det;
+  const t = ((p[0] - last[0]) * ux + (p[1] - last[1]) * uy) / window;
+  const y = -(p[0] - last[0]) * uy + (p[1] - last[1]) * ux;
+  return Math.abs(y - (a + b * t + c * t * t));
 }
 
 /** A trace as the take-off file gives it: explicit points (used as is) or guides to follow. */
