@@ -43,6 +43,8 @@ export interface TraceGeometry {
   lost: string[];
   doubts: string[];
   ms: number;
+  /** Pixels read by the trace. */
+  reads: number;
 }
 
 async function sheet(seed: number, kind: 'scan' | 'photo'): Promise<{ jpeg: Buffer; takeoff: TakeoffInput }> {
@@ -109,6 +111,7 @@ export async function dumpSheet(seed: number, png?: string): Promise<TraceGeomet
       lost: got.lost.map((l) => l.reason),
       doubts: got.doubts.map((d) => d.code),
       ms,
+      reads: got.pixelsRead,
     });
     if (png) {
       const xs = [...truth.map((p) => p[0]), ...got.points.map((p) => p[0])];

@@ -14,8 +14,8 @@
 import { UserError } from '../model/errors.ts';
 import simplify from 'simplify-js';
 import { colourDistance, estimatePaper, inkModel, membership, MIN_CONTRAST, windowAround, type InkModel, type Rgb } from './colour.ts';
-import { followLine, indexPath, stepping, type FollowLimits, type FollowResult, type LineStyle } from './lineFollow.ts';
-import { findRuns, inkAxis, membershipAt, sampleLongSection, sampleSection, type ReadCounter } from './lineProfile.ts';
+import { chooseOffset, followLine, indexPath, stepping, type FollowLimits, type FollowResult, type LineStyle, type Pick } from './lineFollow.ts';
+import { findRuns, inkAxis, membershipAt, sampleLongSection, sampleSection, type ReadCounter, type Run } from './lineProfile.ts';
 import { sheetPoint, type SheetPoint } from './points.ts';
 import type { RasterImage } from './raster.ts';
 
@@ -531,19 +531,19 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
     const contrast = colourDistance(style.model.paper, ...style.model.line);
     candidates.forEach((c, i) => {
       if (!c || i === first - 1 || !snapped[i]) return;
-      if (colourDistance(style.model.line, ...c.style.model.line) > 0.4 * contrast) doubts.push({ at: (snapped[i] as { centre: Px }).centre, what: 'bunch', guide: i + 1 });
+      // Either far from the line's colour, or of another hue than the line's (a neighbour of a
+      // similar lightness: the colour model tells hues apart where a plain distance does not).
+      if (colourDistance(style.model.line, ...c.style.model.line) > 0.4 * contrast || membership(style.model, ...c.style.model.line) < GUIDE_MEMBERSHIP) doubts.push({ at: (snapped[i] as { centre: Px }).centre, what: 'bunch', guide: i + 1 });
     });
   }
   if (px.length === 1) {
+    // A short stretch each way from the guide; the line is then followed on to its own ends as
+    // any trace is, with the same smoothness test and the same search beyond a lost stretch.
     const s = snapped[0] as { centre: Px; axis: Px };
-    const limits: FollowLimits = { maxGap, maxTravel: 4 * (image.width + image.height) };
-    const ahead = followLine(image, style, s.centre, s.axis, undefined, limits, counter);
-    const behind = followLine(image, style, s.centre, [-s.axis[0], -s.axis[1]], undefined, limits, counter);
-    const [aheadKept, aheadDoubt] = judgeExtension(ahead, undefined, options.frame, image.scale, style.width);
-    const [behindKept, behindDoubt] = judgeExtension(behind, undefined, options.frame, image.scale, style.width);
-    if (aheadDoubt) doubts.push(aheadDoubt);
-    if (behindDoubt) doubts.push(behindDoubt);
-    path.push(...behindKept.reverse(), s.centre, ...aheadKept);
+    const near: FollowLimits = { maxGap, maxTravel: maxGap + 16 * step };
+    const ahead = followLine(image, style, s.centre, s.axis, undefined, near, counter);
+    const behind = followLine(image, style, s.centre, [-s.axis[0], -s.axis[1]], undefined, near, counter);
+    path.push(...pairs(behind.points).slice(1).reverse(), s.centre, ...pairs(ahead.points).slice(1));
   } else {
     let heading: Px | undefined;
     for (let i = 0; i + 1 < px.length; i++) {
@@ -605,7 +605,18 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
     }
   }
 
-  if (px.length > 1 && options.extent !== 'guides' && path.length >= 2) doubts.push(...extendToEnds(image, style, path, maxGap, options.frame, counter));
+  // Guides clicked where the line runs together with others measure the bunch, not the line: its
+  // width is measured again along the followed stretch, where it mostly stands alone, and a line
+  // found clearly thinner there is traced again with that width.
+  if (options.widthPx === undefined && path.length >= 2) {
+    const along = widthAlong(image, style, path, counter);
+    if (along !== undefined && along < WIDTH_AGAIN * style.width) {
+      const again = traceRaster(image, guides, { ...options, widthPx: along });
+      return { ...again, pixelsRead: again.pixelsRead + counter.reads };
+    }
+  }
+
+  if ((px.length === 1 || options.extent !== 'guides') && path.length >= 2) doubts.push(...extendToEnds(image, style, path, maxGap, options.frame, counter));
   else if (options.frame && path.length >= 2) clipToFrame(path, options.frame, image.scale, style.width);
 
   if (options.frame && options.extent !== 'guides' && path.length >= 2) {
@@ -629,9 +640,46 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
   };
 }
 
+/** Membership in the line's model below which the colour under a guide is another line's. */
+const GUIDE_MEMBERSHIP = 0.6;
+
+/** A line measured along its path thinner than this share of the width under its guides is traced again with the thinner width. */
+const WIDTH_AGAIN = 0.75;
+
+/**
+ * The line's width measured along a followed path: at up to 40 places spread along it, the
+ * mass of the run nearest the path across it, and the lower quartile of those (runs where the
+ * line touches its neighbours are wider, never thinner). Undefined with fewer than 8 places.
+ */
+function widthAlong(image: RasterImage, style: LineStyle, path: readonly Px[], counter: ReadCounter): number | undefined {
+  const { spacing } = stepping(style.width);
+  const n = Math.ceil((2 * style.width + 4) / spacing);
+  const section = new Float64Array(2 * n + 1);
+  const runs: Run[] = [];
+  const masses: number[] = [];
+  const every = Math.max(1, Math.floor(path.length / 40));
+  for (let i = every; i + 1 < path.length; i += every) {
+    const a = path[i - 1] as Px;
+    const b = path[i + 1] as Px;
+    const len = Math.hypot(b[0] - a[0], b[1] - a[1]);
+    if (len === 0) continue;
+    const p = path[i] as Px;
+    const nx = -(b[1] - a[1]) / len;
+    const ny = (b[0] - a[0]) / len;
+    if (style.reach) sampleLongSection(image, style.model, p[0], p[1], nx, ny, n, spacing, style.reach, section, counter);
+    else sampleSection(image, style.model, p[0], p[1], nx, ny, n, spacing, section, counter);
+    let best: Run | undefined;
+    for (const r of findRuns(section, n, spacing, style.threshold, runs)) if (r.start - 1 <= 0 && r.end + 1 >= 0 && (!best || Math.abs(r.centre) < Math.abs(best.centre))) best = r;
+    if (best) masses.push(best.mass);
+  }
+  if (masses.length < 8) return undefined;
+  masses.sort((x, y) => x - y);
+  return Math.max(1, masses[Math.floor(0.25 * (masses.length - 1))] as number);
+}
+
 /** A finding-worthy doubt about a followed stretch: a stable code and a sentence saying what to do. */
 export interface TraceDoubt {
-  code: 'takeoff.end-at-frame' | 'takeoff.guide-in-bunch';
+  code: 'takeoff.end-at-frame' | 'takeoff.guide-in-bunch' | 'takeoff.end-through-bunch';
   message: string;
 }
 
@@ -642,12 +690,18 @@ export interface TraceDoubt {
  */
 interface EndDoubt {
   at: Px;
-  what: 'frame' | 'bunch';
+  what: 'frame' | 'bunch' | 'bunch-end';
   /** The guide concerned (1-based), for a doubt about a guide. */
   guide?: number;
 }
 
 function doubtSentence(d: EndDoubt, at: SheetPoint): TraceDoubt {
+  if (d.what === 'bunch-end') {
+    return {
+      code: 'takeoff.end-through-bunch',
+      message: `beyond its guides the trace runs through a stretch near ${fmt(at)} where the line runs together with other lines of its colour, and may have come out on a neighbour; check the trace's end, or add a guide near the line's end where it stands alone`,
+    };
+  }
   if (d.what === 'bunch') {
     return {
       code: 'takeoff.guide-in-bunch',
@@ -718,14 +772,32 @@ function extendToEnds(image: RasterImage, style: LineStyle, path: Px[], maxGap: 
   const limits: FollowLimits = { maxGap, maxTravel: 2 * (image.width + image.height) };
   const doubts: EndDoubt[] = [];
   const outward = (stretch: Px[]): Px[] => {
-    const end = stretch[stretch.length - 1] as Px;
-    const heading = tangentAt(stretch, stretch.length - 1, 1);
-    const result = followLine(image, style, end, heading, undefined, limits, counter);
-    const [inside] = judgeExtension(result, undefined, frame, image.scale, style.width);
-    const smooth = keepSmooth(stretch, inside, style.width, maxGap);
-    const [kept, doubt] = judgeExtension(result, smooth.length, frame, image.scale, style.width);
-    if (doubt) doubts.push(doubt);
-    return kept;
+    const all: Px[] = [...stretch];
+    const out: Px[] = [];
+    let end = stretch[stretch.length - 1] as Px;
+    let heading = tangentAt(stretch, stretch.length - 1, 1);
+    for (let round = 0; round < MAX_REACQUIRE; round++) {
+      const result = followLine(image, style, end, heading, undefined, limits, counter);
+      const [inside] = judgeExtension(result, undefined, frame, image.scale, style.width);
+      const smooth = keepSmooth(all, inside, style.width, maxGap);
+      // Beyond the guides nothing vouches for the line that came out of a stretch where it ran
+      // together with others of its colour (a bunch): a neighbour may have been taken for it.
+      const crowded = doubts.some((d) => d.what === 'bunch-end') ? undefined : crowdedAt(image, style, smooth, counter);
+      if (crowded) doubts.push({ at: crowded, what: 'bunch-end' });
+      all.push(...smooth);
+      out.push(...smooth);
+      // The follower left the frame or the image on the line's own course: the line ends there.
+      if (smooth.length === inside.length && (inside.length < result.points.length / 2 - 1 || result.reason === 'the line runs off the image')) break;
+      // Otherwise the line was lost (its end, or another line or a grid line that the follower
+      // took for it): look for it again further along its own course.
+      const again = reacquire(image, style, all, maxGap, frame, counter);
+      if (!again) break;
+      end = again.at;
+      heading = again.heading;
+      all.push(end);
+      out.push(end);
+    }
+    return out;
   };
   const tail = outward(path);
   const head = outward([...path].reverse());
@@ -733,6 +805,109 @@ function extendToEnds(image: RasterImage, style: LineStyle, path: Px[], maxGap: 
   path.push(...tail);
   if (frame) clipToFrame(path, frame, image.scale, style.width);
   return doubts;
+}
+
+/**
+ * Where an extension runs through a bunch and goes on beyond it: the first point of a stretch at
+ * least `BUNCH_WIDTHS` line widths long where another clean run of the line's colour and width
+ * lies beside it (within two widths of its edge), when the extension goes on for as long again
+ * after it. There the follower may have come out on a neighbour, and nothing (no guide) vouches
+ * for the line it kept to.
+ */
+function crowdedAt(image: RasterImage, style: LineStyle, points: readonly Px[], counter: ReadCounter): Px | undefined {
+  if (points.length < 3) return undefined;
+  const { spacing } = stepping(style.width);
+  const near = 4 * style.width + 3;
+  const n = Math.ceil((near + style.width) / spacing);
+  const section = new Float64Array(2 * n + 1);
+  const runs: Run[] = [];
+  const lo = style.massRange[0] * style.width;
+  const hi = Math.min(style.massRange[1], 1.2) * style.width;
+  const bunch = BUNCH_WIDTHS * style.width;
+  let start = -1;
+  let startAlong = 0;
+  let along = 0;
+  for (let i = 1; i < points.length; i++) {
+    const a = points[i - 1] as Px;
+    const b = points[i] as Px;
+    const len = Math.hypot(b[0] - a[0], b[1] - a[1]);
+    along += len;
+    if (len === 0) continue;
+    const nx = -(b[1] - a[1]) / len;
+    const ny = (b[0] - a[0]) / len;
+    if (style.reach) sampleLongSection(image, style.model, b[0], b[1], nx, ny, n, spacing, style.reach, section, counter);
+    else sampleSection(image, style.model, b[0], b[1], nx, ny, n, spacing, section, counter);
+    const beside = findRuns(section, n, spacing, style.threshold, runs).some(
+      (r) => (Math.abs(r.centre) > 0.75 * style.width && Math.abs(r.centre) <= near && r.mass >= lo && r.mass <= hi) || (r.start <= 0 && r.end >= 0 && r.mass > 1.6 * style.width && r.mass < 4 * style.width),
+    );
+    if (beside) {
+      if (start < 0) {
+        start = i;
+        startAlong = along;
+      }
+    } else if (start >= 0) {
+      if (along - startAlong >= bunch) {
+        // Out of the bunch: a doubt only when the extension goes on as far again.
+        const rest = pathLength(points, i);
+        if (rest >= bunch) return points[start] as Px;
+      }
+      start = -1;
+    }
+  }
+  return undefined;
+}
+
+/** Length of a path from point k to its end. */
+function pathLength(points: readonly Px[], k: number): number {
+  let total = 0;
+  for (let i = k + 1; i < points.length; i++) total += Math.hypot((points[i] as Px)[0] - (points[i - 1] as Px)[0], (points[i] as Px)[1] - (points[i - 1] as Px)[1]);
+  return total;
+}
+
+/** Length of a stretch, in line widths, where an extension running beside another line of its colour counts as a bunch. */
+const BUNCH_WIDTHS = 10;
+
+/** Times an extension may find its line again after losing it. */
+const MAX_REACQUIRE = 4;
+
+/**
+ * Where the line shows again along its own course beyond the end of `all`: the parabola through
+ * its last stretch is followed on in steps, and at each a section across it looks for one clean
+ * run of the line's colour and width within the tolerance `keepSmooth` allows at that distance,
+ * with no other candidate near. A candidate counts only when the line followed from it for a
+ * short way keeps to the same course. Undefined when nothing within `maxGap` qualifies.
+ */
+function reacquire(image: RasterImage, style: LineStyle, all: readonly Px[], maxGap: number, frame: readonly [number, number, number, number] | undefined, counter: ReadCounter): { at: Px; heading: Px } | undefined {
+  const window = smoothWindow(style.width);
+  const course = parabolaThrough(all, window);
+  if (!course) return undefined;
+  const { step, spacing } = stepping(style.width);
+  const limit = Math.max(1.2, 0.6 * style.width);
+  const runs: Run[] = [];
+  const pick: Pick = { offset: 0, clean: false };
+  const maxN = Math.ceil((limit + 0.03 * maxGap + 2 * style.width + 2) / spacing) + 1;
+  const section = new Float64Array(2 * maxN + 1);
+  for (let d = 2 * step; d <= maxGap; d += step) {
+    const [p, t] = course(d);
+    if (p[0] < 1 || p[1] < 1 || p[0] > image.width - 1 || p[1] > image.height - 1) return undefined;
+    if (frame && !insideFramePx(p, frame, image.scale, style.width)) return undefined;
+    const allowed = limit + 0.03 * Math.max(0, d - window / 4);
+    const n = Math.min(maxN, Math.ceil((allowed + 2 * style.width + 2) / spacing));
+    const nx = -t[1];
+    const ny = t[0];
+    if (style.reach) sampleLongSection(image, style.model, p[0], p[1], nx, ny, n, spacing, style.reach, section, counter);
+    else sampleSection(image, style.model, p[0], p[1], nx, ny, n, spacing, section, counter);
+    if (chooseOffset(findRuns(section, n, spacing, style.threshold, runs), style, allowed, pick) !== 'found' || !pick.clean) continue;
+    const at: Px = [p[0] + nx * pick.offset, p[1] + ny * pick.offset];
+    const probe = followLine(image, style, at, t, undefined, { maxGap: 2 * step, maxTravel: Math.max(24, 8 * style.width) }, counter);
+    const seen = pairs(probe.points);
+    const first = seen[0] as Px;
+    const lastSeen = seen[seen.length - 1] as Px;
+    if (seen.length < RESUME_POINTS || Math.hypot(lastSeen[0] - first[0], lastSeen[1] - first[1]) < Math.max(10, 4 * style.width)) continue;
+    if (keepSmooth(all, seen, style.width, 0).length < seen.length) continue;
+    return { at, heading: t };
+  }
+  return undefined;
 }
 
 /**
@@ -747,7 +922,7 @@ function extendToEnds(image: RasterImage, style: LineStyle, path: Px[], maxGap: 
  */
 function keepSmooth(base: readonly Px[], extension: readonly Px[], width: number, maxSkip: number): Px[] {
   const limit = Math.max(1.2, 0.6 * width);
-  const window = Math.max(100, 25 * width);
+  const window = smoothWindow(width);
   const resumeLength = Math.max(10, 4 * width);
   const all: Px[] = [...base];
   const kept: Px[] = [];
@@ -784,12 +959,45 @@ function keepSmooth(base: readonly Px[], extension: readonly Px[], width: number
 /** Points seen again on the line's course after a stretch off it, before the line counts as resumed. */
 const RESUME_POINTS = 5;
 
+/** Length of line, pixels, over which the smoothness of an extension is judged. */
+const smoothWindow = (width: number) => Math.max(100, 25 * width);
+
 /**
  * How far `p` lies off the least-squares parabola through the points of `all` within `window`
  * pixels (along the path) of its end, in the frame of their chord; 0 when too few points or
  * too short a chord make the parabola meaningless.
  */
 function offParabola(all: readonly Px[], window: number, p: Px): number {
+  const fit = fitParabola(all, window);
+  if (!fit) return 0;
+  const { last, ux, uy, a, b, c } = fit;
+  const t = ((p[0] - last[0]) * ux + (p[1] - last[1]) * uy) / window;
+  const y = -(p[0] - last[0]) * uy + (p[1] - last[1]) * ux;
+  return Math.abs(y - (a + b * t + c * t * t));
+}
+
+/**
+ * The course of the line beyond the end of `all`: for a distance d along the chord of its last
+ * `window` pixels, the point on their least-squares parabola and the unit tangent there.
+ */
+function parabolaThrough(all: readonly Px[], window: number): ((d: number) => [Px, Px]) | undefined {
+  const fit = fitParabola(all, window);
+  if (!fit) return undefined;
+  const { last, ux, uy, a, b, c } = fit;
+  return (d: number) => {
+    const t = d / window;
+    const y = a + b * t + c * t * t;
+    const slope = (b + 2 * c * t) / window;
+    const norm = Math.hypot(1, slope);
+    return [
+      [last[0] + d * ux - y * uy, last[1] + d * uy + y * ux],
+      [(ux - uy * slope) / norm, (uy + ux * slope) / norm],
+    ];
+  };
+}
+
+/** Least-squares parabola y = a + b·t + c·t² (t = along / window) through the last `window` pixels of a path, in the frame of their chord. */
+function fitParabola(all: readonly Px[], window: number): { last: Px; ux: number; uy: number; a: number; b: number; c: number } | undefined {
   let k = all.length - 1;
   let length = 0;
   while (k > 0 && length < window) {
@@ -801,7 +1009,7 @@ function offParabola(all: readonly Px[], window: number, p: Px): number {
   const first = all[k] as Px;
   const last = all[all.length - 1] as Px;
   const chord = Math.hypot(last[0] - first[0], last[1] - first[1]);
-  if (all.length - k < 6 || chord <= 0.5 * window) return 0;
+  if (all.length - k < 6 || chord <= 0.5 * window) return undefined;
   const ux = (last[0] - first[0]) / chord;
   const uy = (last[1] - first[1]) / chord;
   const m = [0, 0, 0, 0, 0, 0, 0, 0];
@@ -820,13 +1028,11 @@ function offParabola(all: readonly Px[], window: number, p: Px): number {
   }
   const [n, s1, s2, s3, s4, y0, y1, y2] = m as [number, number, number, number, number, number, number, number];
   const det = n * (s2 * s4 - s3 * s3) - s1 * (s1 * s4 - s3 * s2) + s2 * (s1 * s3 - s2 * s2);
-  if (Math.abs(det) <= 1e-12) return 0;
+  if (Math.abs(det) <= 1e-12) return undefined;
   const a = (y0 * (s2 * s4 - s3 * s3) - s1 * (y1 * s4 - s3 * y2) + s2 * (y1 * s3 - s2 * y2)) / det;
   const b = (n * (y1 * s4 - s3 * y2) - y0 * (s1 * s4 - s3 * s2) + s2 * (s1 * y2 - y1 * s2)) / det;
   const c = (n * (s2 * y2 - y1 * s3) - s1 * (s1 * y2 - y1 * s2) + y0 * (s1 * s3 - s2 * s2)) / det;
-  const t = ((p[0] - last[0]) * ux + (p[1] - last[1]) * uy) / window;
-  const y = -(p[0] - last[0]) * uy + (p[1] - last[1]) * ux;
-  return Math.abs(y - (a + b * t + c * t * t));
+  return { last, ux, uy, a, b, c };
 }
 
 /** A trace as the take-off file gives it: explicit points (used as is) or guides to follow. */
