@@ -179,6 +179,9 @@ function acquire(image: RasterImage, guide: Px, search: number, options: RasterT
   return { style: { model, width, threshold: THRESHOLD, massRange }, centre: measured.centre, axis: measured.axis, isotropy: measured.isotropy };
 }
 
+/** Least share of the gaps and dashes seen along a broken line that must follow its pattern. */
+const PATTERN_SHARE = 0.7;
+
 /** Longest gap between dashes that a broken line may have, in line widths and at least in pixels. */
 const DASH_GAP_WIDTHS = 6;
 const DASH_GAP_MIN_PX = 12;
@@ -196,7 +199,7 @@ function brokenLine(image: RasterImage, model: InkModel, centre: Px, width: numb
   if (!axis || axis.isotropy > 0.3) return undefined;
   const length = Math.max(40, 16 * width);
   const spacing = 0.5;
-  const across = Math.max(1, 0.5 * width + 0.5);
+  const across = Math.max(1.5, 0.5 * width + 1);
   const on: boolean[] = [];
   for (let t = -length; t <= length; t += spacing) {
     let best = 0;
@@ -220,12 +223,17 @@ function brokenLine(image: RasterImage, model: InkModel, centre: Px, width: numb
   }
   dashes.shift(); // the first dash may be cut by the window
   const real = gaps.filter((g) => g >= 1);
-  if (real.length < 3 || real.length < gaps.length - 1 || dashes.length < 2) return undefined;
+  if (real.length < 3 || dashes.length < 2) return undefined;
   const median = (v: number[]) => [...v].sort((a, b) => a - b)[Math.floor(v.length / 2)] as number;
-  const longest = Math.max(...real);
-  // A printed pattern repeats: gaps and dashes of about one length each. Noise on a solid
-  // line under a poor colour sample flickers at random lengths.
-  if (longest > 2.5 * median(real) || Math.max(...dashes) > 3 * median(dashes) + 2) return undefined;
+  // A printed pattern repeats: most gaps and dashes are of about one length each. A few may not
+  // be (a faint dot lost to the compression, a speck, the line bending out of the window's
+  // band); noise on a solid line under a poor colour sample flickers at random lengths.
+  const gapMedian = median(real);
+  const dashMedian = median(dashes);
+  const regular = real.filter((g) => g >= 0.5 * gapMedian && g <= 1.8 * gapMedian);
+  const regularDashes = dashes.filter((d) => d <= 3 * dashMedian + 2);
+  if (regular.length < 3 || regular.length < PATTERN_SHARE * gaps.length || regularDashes.length < PATTERN_SHARE * dashes.length) return undefined;
+  const longest = Math.max(...regular);
   if (longest > Math.max(DASH_GAP_MIN_PX, DASH_GAP_WIDTHS * width)) return undefined;
   return { reach: 0.5 * longest + 1, axis: [axis.dx, axis.dy], isotropy: axis.isotropy };
 }
@@ -779,7 +787,7 @@ function extendToEnds(image: RasterImage, style: LineStyle, path: Px[], maxGap: 
     for (let round = 0; round < MAX_REACQUIRE; round++) {
       const result = followLine(image, style, end, heading, undefined, limits, counter);
       const [inside] = judgeExtension(result, undefined, frame, image.scale, style.width);
-      const smooth = keepSmooth(all, inside, style.width, maxGap);
+      const smooth = keepSmooth(all, inside, style, maxGap);
       // Beyond the guides nothing vouches for the line that came out of a stretch where it ran
       // together with others of its colour (a bunch): a neighbour may have been taken for it.
       const crowded = doubts.some((d) => d.what === 'bunch-end') ? undefined : crowdedAt(image, style, smooth, counter);
@@ -882,12 +890,13 @@ function reacquire(image: RasterImage, style: LineStyle, all: readonly Px[], max
   const course = parabolaThrough(all, window);
   if (!course) return undefined;
   const { step, spacing } = stepping(style.width);
-  const limit = Math.max(1.2, 0.6 * style.width);
+  const limit = smoothLimit(style);
   const runs: Run[] = [];
   const pick: Pick = { offset: 0, clean: false };
-  const maxN = Math.ceil((limit + 0.03 * maxGap + 2 * style.width + 2) / spacing) + 1;
+  const reach = maxGap;
+  const maxN = Math.ceil((limit + 0.03 * reach + 2 * style.width + 2) / spacing) + 1;
   const section = new Float64Array(2 * maxN + 1);
-  for (let d = 2 * step; d <= maxGap; d += step) {
+  for (let d = 2 * step; d <= reach; d += step) {
     const [p, t] = course(d);
     if (p[0] < 1 || p[1] < 1 || p[0] > image.width - 1 || p[1] > image.height - 1) return undefined;
     if (frame && !insideFramePx(p, frame, image.scale, style.width)) return undefined;
@@ -904,7 +913,7 @@ function reacquire(image: RasterImage, style: LineStyle, all: readonly Px[], max
     const first = seen[0] as Px;
     const lastSeen = seen[seen.length - 1] as Px;
     if (seen.length < RESUME_POINTS || Math.hypot(lastSeen[0] - first[0], lastSeen[1] - first[1]) < Math.max(10, 4 * style.width)) continue;
-    if (keepSmooth(all, seen, style.width, 0).length < seen.length) continue;
+    if (keepSmooth(all, seen, style, 0).length < seen.length) continue;
     return { at, heading: t };
   }
   return undefined;
@@ -920,8 +929,9 @@ function reacquire(image: RasterImage, style: LineStyle, all: readonly Px[], max
  * points and `resumeLength` pixels, within `maxSkip` pixels; otherwise the extension is cut at
  * the stretch's start (the line's own end, or a neighbour it ran into).
  */
-function keepSmooth(base: readonly Px[], extension: readonly Px[], width: number, maxSkip: number): Px[] {
-  const limit = Math.max(1.2, 0.6 * width);
+function keepSmooth(base: readonly Px[], extension: readonly Px[], style: LineStyle, maxSkip: number): Px[] {
+  const width = style.width;
+  const limit = smoothLimit(style);
   const window = smoothWindow(width);
   const resumeLength = Math.max(10, 4 * width);
   const all: Px[] = [...base];
@@ -958,6 +968,13 @@ function keepSmooth(base: readonly Px[], extension: readonly Px[], width: number
 
 /** Points seen again on the line's course after a stretch off it, before the line counts as resumed. */
 const RESUME_POINTS = 5;
+
+/**
+ * How far, pixels, a point of an extension may lie off the parabola through the line before it:
+ * about half a line width; more for a dashed or dotted line, whose centre is found from the dash
+ * nearest each section and wanders by a fraction of a width more.
+ */
+const smoothLimit = (style: LineStyle) => (style.reach ? Math.max(1.6, 0.8 * style.width) : Math.max(1.2, 0.6 * style.width));
 
 /** Length of line, pixels, over which the smoothness of an extension is judged. */
 const smoothWindow = (width: number) => Math.max(100, 25 * width);
