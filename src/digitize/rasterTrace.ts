@@ -613,17 +613,6 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
     }
   }
 
-  // Guides clicked where the line runs together with others measure the bunch, not the line: its
-  // width is measured again along the followed stretch, where it mostly stands alone, and a line
-  // found clearly thinner there is traced again with that width.
-  if (options.widthPx === undefined && path.length >= 2) {
-    const along = widthAlong(image, style, path, counter);
-    if (along !== undefined && along < WIDTH_AGAIN * style.width) {
-      const again = traceRaster(image, guides, { ...options, widthPx: along });
-      return { ...again, pixelsRead: again.pixelsRead + counter.reads };
-    }
-  }
-
   if ((px.length === 1 || options.extent !== 'guides') && path.length >= 2) doubts.push(...extendToEnds(image, style, path, maxGap, options.frame, counter));
   else if (options.frame && path.length >= 2) clipToFrame(path, options.frame, image.scale, style.width);
 
@@ -650,40 +639,6 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
 
 /** Membership in the line's model below which the colour under a guide is another line's. */
 const GUIDE_MEMBERSHIP = 0.6;
-
-/** A line measured along its path thinner than this share of the width under its guides is traced again with the thinner width. */
-const WIDTH_AGAIN = 0.75;
-
-/**
- * The line's width measured along a followed path: at up to 40 places spread along it, the
- * mass of the run nearest the path across it, and the lower quartile of those (runs where the
- * line touches its neighbours are wider, never thinner). Undefined with fewer than 8 places.
- */
-function widthAlong(image: RasterImage, style: LineStyle, path: readonly Px[], counter: ReadCounter): number | undefined {
-  const { spacing } = stepping(style.width);
-  const n = Math.ceil((2 * style.width + 4) / spacing);
-  const section = new Float64Array(2 * n + 1);
-  const runs: Run[] = [];
-  const masses: number[] = [];
-  const every = Math.max(1, Math.floor(path.length / 40));
-  for (let i = every; i + 1 < path.length; i += every) {
-    const a = path[i - 1] as Px;
-    const b = path[i + 1] as Px;
-    const len = Math.hypot(b[0] - a[0], b[1] - a[1]);
-    if (len === 0) continue;
-    const p = path[i] as Px;
-    const nx = -(b[1] - a[1]) / len;
-    const ny = (b[0] - a[0]) / len;
-    if (style.reach) sampleLongSection(image, style.model, p[0], p[1], nx, ny, n, spacing, style.reach, section, counter);
-    else sampleSection(image, style.model, p[0], p[1], nx, ny, n, spacing, section, counter);
-    let best: Run | undefined;
-    for (const r of findRuns(section, n, spacing, style.threshold, runs)) if (r.start - 1 <= 0 && r.end + 1 >= 0 && (!best || Math.abs(r.centre) < Math.abs(best.centre))) best = r;
-    if (best) masses.push(best.mass);
-  }
-  if (masses.length < 8) return undefined;
-  masses.sort((x, y) => x - y);
-  return Math.max(1, masses[Math.floor(0.25 * (masses.length - 1))] as number);
-}
 
 /** A finding-worthy doubt about a followed stretch: a stable code and a sentence saying what to do. */
 export interface TraceDoubt {
