@@ -544,6 +544,12 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
       if (colourDistance(style.model.line, ...c.style.model.line) > 0.4 * contrast || membership(style.model, ...c.style.model.line) < GUIDE_MEMBERSHIP) doubts.push({ at: (snapped[i] as { centre: Px }).centre, what: 'bunch', guide: i + 1 });
     });
   }
+  // No guide where the line stands alone: every guide has other ink running beside the line, so
+  // nothing tells which line of the bunch the trace is on.
+  const placed = snapped.filter((g): g is { centre: Px; axis: Px } => g !== undefined);
+  if (placed.length > 0 && !doubts.some((d) => d.what === 'bunch') && placed.every((g) => inkBeside(image, style, g.centre, g.axis, counter))) {
+    doubts.push({ at: (placed[0] as { centre: Px }).centre, what: 'bunch', guide: snapped.indexOf(placed[0]) + 1 });
+  }
   if (px.length === 1) {
     // A short stretch each way from the guide; the line is then followed on to its own ends as
     // any trace is, with the same smoothness test and the same search beyond a lost stretch.
@@ -635,6 +641,47 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
     pixelsRead: counter.reads,
     doubts: doubts.map((d) => doubtSentence(d, toSheetPt(d.at))),
   };
+}
+
+/**
+ * Whether other ink (of any colour) runs beside the line at `centre`: at the centre and a few
+ * widths either way along `axis`, a section across the line finds, besides the line's own run,
+ * another run of ink within three widths of it, at two of the three places at least (a grid line
+ * crossing the line shows at one place; a line running beside it, at all).
+ */
+function inkBeside(image: RasterImage, style: LineStyle, centre: Px, axis: Px, counter: ReadCounter): boolean {
+  const paper = style.model.paper;
+  const full = colourDistance(paper, ...style.model.line);
+  if (full <= 0) return false;
+  const spacing = 0.5;
+  const near = 3 * style.width + 3;
+  const n = Math.ceil((near + style.width) / spacing);
+  const section = new Float64Array(2 * n + 1);
+  const runs: Run[] = [];
+  const along = 2 * style.width + 4;
+  let crowded = 0;
+  for (const k of [-1, 0, 1]) {
+    const cx = centre[0] + axis[0] * along * k;
+    const cy = centre[1] + axis[1] * along * k;
+    for (let j = -n; j <= n; j++) {
+      const x = Math.floor(cx - axis[1] * j * spacing);
+      const y = Math.floor(cy + axis[0] * j * spacing);
+      if (x < 0 || y < 0 || x >= image.width || y >= image.height) {
+        section[j + n] = 0;
+        continue;
+      }
+      const i = (y * image.width + x) * 4;
+      section[j + n] = Math.min(1, colourDistance(paper, image.data[i] as number, image.data[i + 1] as number, image.data[i + 2] as number) / full);
+    }
+    counter.reads += 2 * n + 1;
+    const found = findRuns(section, n, spacing, style.threshold, runs);
+    let own = -1;
+    found.forEach((r, i) => {
+      if (own < 0 || Math.abs(r.centre) < Math.abs((found[own] as Run).centre)) own = i;
+    });
+    if (found.some((r, i) => i !== own && r.mass >= 0.4 * style.width && Math.abs(r.centre) <= near)) crowded++;
+  }
+  return crowded >= 2;
 }
 
 /** Membership in the line's model below which the colour under a guide is another line's. */
