@@ -935,6 +935,7 @@ function keepSmooth(base: readonly Px[], extension: readonly Px[], style: LineSt
   const width = style.width;
   const limit = smoothLimit(style);
   const window = smoothWindow(width);
+  const shortWindow = Math.max(30, 10 * width);
   const resumeLength = Math.max(10, 4 * width);
   const all: Px[] = [...base];
   const kept: Px[] = [];
@@ -942,7 +943,9 @@ function keepSmooth(base: readonly Px[], extension: readonly Px[], style: LineSt
   let skippedFrom: Px | undefined;
   for (const p of extension) {
     const last = all[all.length - 1] as Px;
-    const dev = offParabola(all, window, p);
+    // Judged on a long stretch (steady over a gap) and on a short one (where the line bends fast,
+    // near an efficiency peak): either may vouch for the point.
+    const dev = Math.min(offParabola(all, window, p), offParabola(all, shortWindow, p));
     const away = Math.hypot(p[0] - last[0], p[1] - last[1]);
     const tolerance = limit + 0.03 * Math.max(0, away - window / 4);
     if (dev <= tolerance) {
