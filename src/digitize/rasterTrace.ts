@@ -786,10 +786,19 @@ function extendToEnds(image: RasterImage, style: LineStyle, path: Px[], maxGap: 
     const out: Px[] = [];
     let end = stretch[stretch.length - 1] as Px;
     let heading = tangentAt(stretch, stretch.length - 1, 1);
+    // Where the line was last found again (an index into `out`), or -1.
+    let resumed = -1;
     for (let round = 0; round < MAX_REACQUIRE; round++) {
       const result = followLine(image, style, end, heading, undefined, limits, counter);
       const [inside] = judgeExtension(result, undefined, frame, image.scale, style.width);
       const smooth = keepSmooth(all, inside, style, maxGap);
+      if (resumed >= 0 && pathLength([end, ...smooth], 0) < Math.max(FOUND_AGAIN_PX, 12 * style.width)) {
+        // What was found again ends soon (a label beside the line's end, a piece of a grid
+        // line): the line ended before the gap. Take the found part back.
+        all.length -= out.length - resumed;
+        out.length = resumed;
+        break;
+      }
       // Beyond the guides nothing vouches for the line that came out of a stretch where it ran
       // together with others of its colour (a bunch): a neighbour may have been taken for it.
       const crowded = doubts.some((d) => d.what === 'bunch-end') ? undefined : crowdedAt(image, style, smooth, counter);
@@ -804,6 +813,7 @@ function extendToEnds(image: RasterImage, style: LineStyle, path: Px[], maxGap: 
       if (!again) break;
       end = again.at;
       heading = again.heading;
+      resumed = out.length;
       all.push(end);
       out.push(end);
     }
@@ -877,6 +887,9 @@ function pathLength(points: readonly Px[], k: number): number {
 /** Length of a stretch, in line widths, where an extension running beside another line of its colour counts as a bunch. */
 const BUNCH_WIDTHS = 10;
 
+/** Least length, pixels (or 12 line widths), of a line found again beyond a gap: a drawn curve goes on, a label's stroke does not. */
+const FOUND_AGAIN_PX = 40;
+
 /** Times an extension may find its line again after losing it. */
 const MAX_REACQUIRE = 4;
 
@@ -940,30 +953,38 @@ function keepSmooth(base: readonly Px[], extension: readonly Px[], style: LineSt
   const all: Px[] = [...base];
   const kept: Px[] = [];
   let resume: Px[] = [];
+  let shortOnly = false;
+  const resumeLengthShort = Math.max(40, 15 * width);
   let skippedFrom: Px | undefined;
   for (const p of extension) {
     const last = all[all.length - 1] as Px;
     // Judged on a long stretch (steady over a gap) and on a short one (where the line bends fast,
-    // near an efficiency peak): either may vouch for the point.
-    const dev = Math.min(offParabola(all, window, p), offParabola(all, shortWindow, p));
+    // near an efficiency peak): either may vouch for the point. A point the short one alone vouches
+    // for after a gap (the label on a line's end also lies after a gap, and bends gently) must hold
+    // for longer before the line counts as found again.
     const away = Math.hypot(p[0] - last[0], p[1] - last[1]);
     const tolerance = limit + 0.03 * Math.max(0, away - window / 4);
-    if (dev <= tolerance) {
-      if (!skippedFrom) {
+    const longOk = offParabola(all, window, p) <= tolerance;
+    if (longOk || offParabola(all, shortWindow, p) <= tolerance) {
+      if (!skippedFrom && (longOk || away <= Math.max(6, 3 * width))) {
         all.push(p);
         kept.push(p);
         continue;
       }
+      skippedFrom ??= last;
       resume.push(p);
+      if (!longOk) shortOnly = true;
       const r0 = resume[0] as Px;
-      if (resume.length >= RESUME_POINTS && Math.hypot(p[0] - r0[0], p[1] - r0[1]) >= resumeLength) {
+      if (resume.length >= RESUME_POINTS && Math.hypot(p[0] - r0[0], p[1] - r0[1]) >= (shortOnly ? resumeLengthShort : resumeLength)) {
         all.push(...resume);
         kept.push(...resume);
         resume = [];
+        shortOnly = false;
         skippedFrom = undefined;
       }
       continue;
     }
+    shortOnly = false;
     resume = [];
     skippedFrom ??= last;
     if (Math.hypot(p[0] - skippedFrom[0], p[1] - skippedFrom[1]) > maxSkip) break;
