@@ -8,7 +8,9 @@
  * alone. A guide whose own colour differs from the kept model's sat in a bunch or on a crossing,
  * and the trace says so. Each stretch between two guides is followed forwards; if the line is lost, it is followed
  * backwards from the far guide, and whatever stays unseen is reported with where it was lost.
- * With a single guide the line is followed both ways until it ends.
+ * Beyond the first and last guide (and both ways from a single guide) the line is followed on to
+ * its own ends: what bends off its course (a label on it, a crossing line) is left out when the
+ * line resumes on its course, and a line lost there is looked for again along its course.
  * A trace given as explicit points is used as is. Pure: works on the RGBA buffer only.
  */
 import { UserError } from '../model/errors.ts';
