@@ -86,6 +86,8 @@ export function residualReport(residuals: readonly Residual[]): string {
 export interface BedRow extends CurveScore {
   seed: number;
   kind: 'scan' | 'photo';
+  /** How the curve's first trace is drawn (for RANDOM_DUMP): dash, width in flat pixels, dpi, colour, and whether its panel's lines bunch. */
+  style?: { dash: string; width: number; dpi: number; mono: boolean; efficiencyAs: string };
 }
 
 export async function runBed(count: number, firstSeed: number, log = true): Promise<{ rows: BedRow[]; residuals: Residual[]; times: number[] }> {
@@ -112,7 +114,12 @@ export async function runBed(count: number, firstSeed: number, log = true): Prom
     }
     times.push(performance.now() - t0);
     const scores = scoreReplay(meta.family, meta.truth, set);
-    for (const s of scores) rows.push({ ...s, seed, kind });
+    const plan = sheetGeometry(seed, kind).plan;
+    meta.truth.forEach((curve, k) => {
+      const line = plan.lines.find((l) => l.id === curve.traces[0]);
+      const style = line ? { dash: line.style.dash, width: Number(line.style.width.toFixed(2)), dpi: plan.dpi, mono: line.style.colour === '#111111', efficiencyAs: plan.efficiencyAs } : undefined;
+      rows.push({ ...(scores[k] as CurveScore), seed, kind, ...(style ? { style } : {}) });
+    });
     if (log && (i + 1) % 20 === 0) process.stdout.write(`  ${i + 1}/${count} sheets\n`);
   }
   return { rows, residuals, times };

@@ -141,13 +141,13 @@ const TURN_SMOOTHING = 0.35;
  * its edges, so both edges offer a candidate. The nearest candidate wins only if the next
  * one is clearly farther; otherwise the follower coasts until the lines have parted.
  */
-interface Pick {
+export interface Pick {
   offset: number;
   /** True when the offset is the centroid of a run of the line's own width, not an edge of a merge. */
   clean: boolean;
 }
 
-function chooseOffset(runs: readonly Run[], style: LineStyle, allowed: number, pick: Pick): 'found' | 'ambiguous' | undefined {
+export function chooseOffset(runs: readonly Run[], style: LineStyle, allowed: number, pick: Pick): 'found' | 'ambiguous' | undefined {
   let first = Infinity;
   let firstOffset = 0;
   let firstClean = false;

@@ -8,14 +8,16 @@
  * alone. A guide whose own colour differs from the kept model's sat in a bunch or on a crossing,
  * and the trace says so. Each stretch between two guides is followed forwards; if the line is lost, it is followed
  * backwards from the far guide, and whatever stays unseen is reported with where it was lost.
- * With a single guide the line is followed both ways until it ends.
+ * Beyond the first and last guide (and both ways from a single guide) the line is followed on to
+ * its own ends: what bends off its course (a label on it, a crossing line) is left out when the
+ * line resumes on its course, and a line lost there is looked for again along its course.
  * A trace given as explicit points is used as is. Pure: works on the RGBA buffer only.
  */
 import { UserError } from '../model/errors.ts';
 import simplify from 'simplify-js';
 import { colourDistance, estimatePaper, inkModel, membership, MIN_CONTRAST, windowAround, type InkModel, type Rgb } from './colour.ts';
-import { followLine, indexPath, stepping, type FollowLimits, type FollowResult, type LineStyle } from './lineFollow.ts';
-import { findRuns, inkAxis, membershipAt, sampleLongSection, sampleSection, type ReadCounter } from './lineProfile.ts';
+import { chooseOffset, followLine, indexPath, stepping, type FollowLimits, type FollowResult, type LineStyle, type Pick } from './lineFollow.ts';
+import { findRuns, inkAxis, membershipAt, sampleLongSection, sampleSection, type ReadCounter, type Run } from './lineProfile.ts';
 import { sheetPoint, type SheetPoint } from './points.ts';
 import type { RasterImage } from './raster.ts';
 
@@ -179,6 +181,9 @@ function acquire(image: RasterImage, guide: Px, search: number, options: RasterT
   return { style: { model, width, threshold: THRESHOLD, massRange }, centre: measured.centre, axis: measured.axis, isotropy: measured.isotropy };
 }
 
+/** Least share of the gaps and dashes seen along a broken line that must follow its pattern. */
+const PATTERN_SHARE = 0.7;
+
 /** Longest gap between dashes that a broken line may have, in line widths and at least in pixels. */
 const DASH_GAP_WIDTHS = 6;
 const DASH_GAP_MIN_PX = 12;
@@ -196,7 +201,7 @@ function brokenLine(image: RasterImage, model: InkModel, centre: Px, width: numb
   if (!axis || axis.isotropy > 0.3) return undefined;
   const length = Math.max(40, 16 * width);
   const spacing = 0.5;
-  const across = Math.max(1, 0.5 * width + 0.5);
+  const across = Math.max(1.5, 0.5 * width + 1);
   const on: boolean[] = [];
   for (let t = -length; t <= length; t += spacing) {
     let best = 0;
@@ -220,12 +225,17 @@ function brokenLine(image: RasterImage, model: InkModel, centre: Px, width: numb
   }
   dashes.shift(); // the first dash may be cut by the window
   const real = gaps.filter((g) => g >= 1);
-  if (real.length < 3 || real.length < gaps.length - 1 || dashes.length < 2) return undefined;
+  if (real.length < 3 || dashes.length < 2) return undefined;
   const median = (v: number[]) => [...v].sort((a, b) => a - b)[Math.floor(v.length / 2)] as number;
-  const longest = Math.max(...real);
-  // A printed pattern repeats: gaps and dashes of about one length each. Noise on a solid
-  // line under a poor colour sample flickers at random lengths.
-  if (longest > 2.5 * median(real) || Math.max(...dashes) > 3 * median(dashes) + 2) return undefined;
+  // A printed pattern repeats: most gaps and dashes are of about one length each. A few may not
+  // be (a faint dot lost to the compression, a speck, the line bending out of the window's
+  // band); noise on a solid line under a poor colour sample flickers at random lengths.
+  const gapMedian = median(real);
+  const dashMedian = median(dashes);
+  const regular = real.filter((g) => g >= 0.5 * gapMedian && g <= 1.8 * gapMedian);
+  const regularDashes = dashes.filter((d) => d <= 3 * dashMedian + 2);
+  if (regular.length < 3 || regular.length < PATTERN_SHARE * gaps.length || regularDashes.length < PATTERN_SHARE * dashes.length) return undefined;
+  const longest = Math.max(...regular);
   if (longest > Math.max(DASH_GAP_MIN_PX, DASH_GAP_WIDTHS * width)) return undefined;
   return { reach: 0.5 * longest + 1, axis: [axis.dx, axis.dy], isotropy: axis.isotropy };
 }
@@ -531,19 +541,25 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
     const contrast = colourDistance(style.model.paper, ...style.model.line);
     candidates.forEach((c, i) => {
       if (!c || i === first - 1 || !snapped[i]) return;
-      if (colourDistance(style.model.line, ...c.style.model.line) > 0.4 * contrast) doubts.push({ at: (snapped[i] as { centre: Px }).centre, what: 'bunch', guide: i + 1 });
+      // Either far from the line's colour, or of another hue than the line's (a neighbour of a
+      // similar lightness: the colour model tells hues apart where a plain distance does not).
+      if (colourDistance(style.model.line, ...c.style.model.line) > 0.4 * contrast || membership(style.model, ...c.style.model.line) < GUIDE_MEMBERSHIP) doubts.push({ at: (snapped[i] as { centre: Px }).centre, what: 'bunch', guide: i + 1 });
     });
   }
+  // No guide where the line stands alone: every guide has other ink running beside the line, so
+  // nothing tells which line of the bunch the trace is on.
+  const placed = snapped.filter((g): g is { centre: Px; axis: Px } => g !== undefined);
+  if (placed.length > 0 && !doubts.some((d) => d.what === 'bunch') && placed.every((g) => inkBeside(image, style, g.centre, g.axis, counter))) {
+    doubts.push({ at: (placed[0] as { centre: Px }).centre, what: 'bunch', guide: snapped.indexOf(placed[0]) + 1 });
+  }
   if (px.length === 1) {
+    // A short stretch each way from the guide; the line is then followed on to its own ends as
+    // any trace is, with the same smoothness test and the same search beyond a lost stretch.
     const s = snapped[0] as { centre: Px; axis: Px };
-    const limits: FollowLimits = { maxGap, maxTravel: 4 * (image.width + image.height) };
-    const ahead = followLine(image, style, s.centre, s.axis, undefined, limits, counter);
-    const behind = followLine(image, style, s.centre, [-s.axis[0], -s.axis[1]], undefined, limits, counter);
-    const [aheadKept, aheadDoubt] = judgeExtension(ahead, undefined, options.frame, image.scale, style.width);
-    const [behindKept, behindDoubt] = judgeExtension(behind, undefined, options.frame, image.scale, style.width);
-    if (aheadDoubt) doubts.push(aheadDoubt);
-    if (behindDoubt) doubts.push(behindDoubt);
-    path.push(...behindKept.reverse(), s.centre, ...aheadKept);
+    const near: FollowLimits = { maxGap, maxTravel: maxGap + 16 * step };
+    const ahead = followLine(image, style, s.centre, s.axis, undefined, near, counter);
+    const behind = followLine(image, style, s.centre, [-s.axis[0], -s.axis[1]], undefined, near, counter);
+    path.push(...pairs(behind.points).slice(1).reverse(), s.centre, ...pairs(ahead.points).slice(1));
   } else {
     let heading: Px | undefined;
     for (let i = 0; i + 1 < px.length; i++) {
@@ -605,7 +621,7 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
     }
   }
 
-  if (px.length > 1 && options.extent !== 'guides' && path.length >= 2) doubts.push(...extendToEnds(image, style, path, maxGap, options.frame, counter));
+  if ((px.length === 1 || options.extent !== 'guides') && path.length >= 2) doubts.push(...extendToEnds(image, style, path, maxGap, options.frame, counter));
   else if (options.frame && path.length >= 2) clipToFrame(path, options.frame, image.scale, style.width);
 
   if (options.frame && options.extent !== 'guides' && path.length >= 2) {
@@ -629,9 +645,53 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
   };
 }
 
+/**
+ * Whether other ink (of any colour) runs beside the line at `centre`: at the centre and a few
+ * widths either way along `axis`, a section across the line finds, besides the line's own run,
+ * another run of ink within three widths of it, at two of the three places at least (a grid line
+ * crossing the line shows at one place; a line running beside it, at all).
+ */
+function inkBeside(image: RasterImage, style: LineStyle, centre: Px, axis: Px, counter: ReadCounter): boolean {
+  const paper = style.model.paper;
+  const full = colourDistance(paper, ...style.model.line);
+  if (full <= 0) return false;
+  const spacing = 0.5;
+  const near = 3 * style.width + 3;
+  const n = Math.ceil((near + style.width) / spacing);
+  const section = new Float64Array(2 * n + 1);
+  const runs: Run[] = [];
+  const along = 2 * style.width + 4;
+  let crowded = 0;
+  for (const k of [-1, 0, 1]) {
+    const cx = centre[0] + axis[0] * along * k;
+    const cy = centre[1] + axis[1] * along * k;
+    for (let j = -n; j <= n; j++) {
+      const x = Math.floor(cx - axis[1] * j * spacing);
+      const y = Math.floor(cy + axis[0] * j * spacing);
+      if (x < 0 || y < 0 || x >= image.width || y >= image.height) {
+        section[j + n] = 0;
+        continue;
+      }
+      const i = (y * image.width + x) * 4;
+      section[j + n] = Math.min(1, colourDistance(paper, image.data[i] as number, image.data[i + 1] as number, image.data[i + 2] as number) / full);
+    }
+    counter.reads += 2 * n + 1;
+    const found = findRuns(section, n, spacing, style.threshold, runs);
+    let own = -1;
+    found.forEach((r, i) => {
+      if (own < 0 || Math.abs(r.centre) < Math.abs((found[own] as Run).centre)) own = i;
+    });
+    if (found.some((r, i) => i !== own && r.mass >= 0.4 * style.width && Math.abs(r.centre) <= near)) crowded++;
+  }
+  return crowded >= 2;
+}
+
+/** Membership in the line's model below which the colour under a guide is another line's. */
+const GUIDE_MEMBERSHIP = 0.6;
+
 /** A finding-worthy doubt about a followed stretch: a stable code and a sentence saying what to do. */
 export interface TraceDoubt {
-  code: 'takeoff.end-at-frame' | 'takeoff.guide-in-bunch';
+  code: 'takeoff.end-at-frame' | 'takeoff.guide-in-bunch' | 'takeoff.end-through-bunch';
   message: string;
 }
 
@@ -642,12 +702,18 @@ export interface TraceDoubt {
  */
 interface EndDoubt {
   at: Px;
-  what: 'frame' | 'bunch';
+  what: 'frame' | 'bunch' | 'bunch-end';
   /** The guide concerned (1-based), for a doubt about a guide. */
   guide?: number;
 }
 
 function doubtSentence(d: EndDoubt, at: SheetPoint): TraceDoubt {
+  if (d.what === 'bunch-end') {
+    return {
+      code: 'takeoff.end-through-bunch',
+      message: `beyond its guides the trace runs through a stretch near ${fmt(at)} where the line runs together with other lines of its colour, and may have come out on a neighbour; check the trace's end, or add a guide near the line's end where it stands alone`,
+    };
+  }
   if (d.what === 'bunch') {
     return {
       code: 'takeoff.guide-in-bunch',
@@ -718,14 +784,42 @@ function extendToEnds(image: RasterImage, style: LineStyle, path: Px[], maxGap: 
   const limits: FollowLimits = { maxGap, maxTravel: 2 * (image.width + image.height) };
   const doubts: EndDoubt[] = [];
   const outward = (stretch: Px[]): Px[] => {
-    const end = stretch[stretch.length - 1] as Px;
-    const heading = tangentAt(stretch, stretch.length - 1, 1);
-    const result = followLine(image, style, end, heading, undefined, limits, counter);
-    const [inside] = judgeExtension(result, undefined, frame, image.scale, style.width);
-    const smooth = keepSmooth(stretch, inside, style.width);
-    const [kept, doubt] = judgeExtension(result, smooth.length, frame, image.scale, style.width);
-    if (doubt) doubts.push(doubt);
-    return kept;
+    const all: Px[] = [...stretch];
+    const out: Px[] = [];
+    let end = stretch[stretch.length - 1] as Px;
+    let heading = tangentAt(stretch, stretch.length - 1, 1);
+    // Where the line was last found again (an index into `out`), or -1.
+    let resumed = -1;
+    for (let round = 0; round < MAX_REACQUIRE; round++) {
+      const result = followLine(image, style, end, heading, undefined, limits, counter);
+      const [inside] = judgeExtension(result, undefined, frame, image.scale, style.width);
+      const smooth = keepSmooth(all, inside, style, maxGap);
+      if (resumed >= 0 && pathLength([end, ...smooth], 0) < Math.max(FOUND_AGAIN_PX, 12 * style.width)) {
+        // What was found again ends soon (a label beside the line's end, a piece of a grid
+        // line): the line ended before the gap. Take the found part back.
+        all.length -= out.length - resumed;
+        out.length = resumed;
+        break;
+      }
+      // Beyond the guides nothing vouches for the line that came out of a stretch where it ran
+      // together with others of its colour (a bunch): a neighbour may have been taken for it.
+      const crowded = doubts.some((d) => d.what === 'bunch-end') ? undefined : crowdedAt(image, style, smooth, counter);
+      if (crowded) doubts.push({ at: crowded, what: 'bunch-end' });
+      all.push(...smooth);
+      out.push(...smooth);
+      // The follower left the frame or the image on the line's own course: the line ends there.
+      if (smooth.length === inside.length && (inside.length < result.points.length / 2 - 1 || result.reason === 'the line runs off the image')) break;
+      // Otherwise the line was lost (its end, or another line or a grid line that the follower
+      // took for it): look for it again further along its own course.
+      const again = reacquire(image, style, all, maxGap, frame, counter);
+      if (!again) break;
+      end = again.at;
+      heading = again.heading;
+      resumed = out.length;
+      all.push(end);
+      out.push(end);
+    }
+    return out;
   };
   const tail = outward(path);
   const head = outward([...path].reverse());
@@ -736,60 +830,254 @@ function extendToEnds(image: RasterImage, style: LineStyle, path: Px[], maxGap: 
 }
 
 /**
- * The part of an extension that continues the line smoothly: each point must lie within about
- * half a line width of the parabola through the last `window` pixels before it (in the frame of
- * their chord). A drawn curve ends cleanly; what the follower finds beyond its end (a label
- * beside it, a neighbouring line it ran into) bends away, and is cut there.
+ * Where an extension runs through a bunch and goes on beyond it: the first point of a stretch at
+ * least `BUNCH_WIDTHS` line widths long where another clean run of the line's colour and width
+ * lies beside it (within two widths of its edge), when the extension goes on for as long again
+ * after it. There the follower may have come out on a neighbour, and nothing (no guide) vouches
+ * for the line it kept to.
  */
-function keepSmooth(base: readonly Px[], extension: readonly Px[], width: number): Px[] {
-  const limit = Math.max(1.2, 0.6 * width);
-  const window = Math.max(30, 10 * width);
+function crowdedAt(image: RasterImage, style: LineStyle, points: readonly Px[], counter: ReadCounter): Px | undefined {
+  if (points.length < 3) return undefined;
+  const { spacing } = stepping(style.width);
+  const near = 4 * style.width + 3;
+  const n = Math.ceil((near + style.width) / spacing);
+  const section = new Float64Array(2 * n + 1);
+  const runs: Run[] = [];
+  const lo = style.massRange[0] * style.width;
+  const hi = Math.min(style.massRange[1], 1.2) * style.width;
+  const bunch = BUNCH_WIDTHS * style.width;
+  let start = -1;
+  let startAlong = 0;
+  let along = 0;
+  for (let i = 1; i < points.length; i++) {
+    const a = points[i - 1] as Px;
+    const b = points[i] as Px;
+    const len = Math.hypot(b[0] - a[0], b[1] - a[1]);
+    along += len;
+    if (len === 0) continue;
+    const nx = -(b[1] - a[1]) / len;
+    const ny = (b[0] - a[0]) / len;
+    if (style.reach) sampleLongSection(image, style.model, b[0], b[1], nx, ny, n, spacing, style.reach, section, counter);
+    else sampleSection(image, style.model, b[0], b[1], nx, ny, n, spacing, section, counter);
+    const beside = findRuns(section, n, spacing, style.threshold, runs).some(
+      (r) => (Math.abs(r.centre) > 0.75 * style.width && Math.abs(r.centre) <= near && r.mass >= lo && r.mass <= hi) || (r.start <= 0 && r.end >= 0 && r.mass > 1.6 * style.width && r.mass < 4 * style.width),
+    );
+    if (beside) {
+      if (start < 0) {
+        start = i;
+        startAlong = along;
+      }
+    } else if (start >= 0) {
+      if (along - startAlong >= bunch) {
+        // Out of the bunch: a doubt only when the extension goes on as far again.
+        const rest = pathLength(points, i);
+        if (rest >= bunch) return points[start] as Px;
+      }
+      start = -1;
+    }
+  }
+  return undefined;
+}
+
+/** Length of a path from point k to its end. */
+function pathLength(points: readonly Px[], k: number): number {
+  let total = 0;
+  for (let i = k + 1; i < points.length; i++) total += Math.hypot((points[i] as Px)[0] - (points[i - 1] as Px)[0], (points[i] as Px)[1] - (points[i - 1] as Px)[1]);
+  return total;
+}
+
+/** Length of a stretch, in line widths, where an extension running beside another line of its colour counts as a bunch. */
+const BUNCH_WIDTHS = 10;
+
+/** Least length, pixels (or 12 line widths), of a line found again beyond a gap: a drawn curve goes on, a label's stroke does not. */
+const FOUND_AGAIN_PX = 40;
+
+/** Times an extension may find its line again after losing it. */
+const MAX_REACQUIRE = 4;
+
+/**
+ * Where the line shows again along its own course beyond the end of `all`: the parabola through
+ * its last stretch is followed on in steps, and at each a section across it looks for one clean
+ * run of the line's colour and width within the tolerance `keepSmooth` allows at that distance,
+ * with no other candidate near. A candidate counts only when the line followed from it for a
+ * short way keeps to the same course. Undefined when nothing within `maxGap` qualifies.
+ */
+function reacquire(image: RasterImage, style: LineStyle, all: readonly Px[], maxGap: number, frame: readonly [number, number, number, number] | undefined, counter: ReadCounter): { at: Px; heading: Px } | undefined {
+  const window = smoothWindow(style.width);
+  const course = parabolaThrough(all, window);
+  if (!course) return undefined;
+  const { step, spacing } = stepping(style.width);
+  const limit = smoothLimit(style);
+  const runs: Run[] = [];
+  const pick: Pick = { offset: 0, clean: false };
+  const reach = maxGap;
+  const maxN = Math.ceil((limit + 0.03 * reach + 2 * style.width + 2) / spacing) + 1;
+  const section = new Float64Array(2 * maxN + 1);
+  for (let d = 2 * step; d <= reach; d += step) {
+    const [p, t] = course(d);
+    if (p[0] < 1 || p[1] < 1 || p[0] > image.width - 1 || p[1] > image.height - 1) return undefined;
+    if (frame && !insideFramePx(p, frame, image.scale, style.width)) return undefined;
+    const allowed = limit + 0.03 * Math.max(0, d - window / 4);
+    const n = Math.min(maxN, Math.ceil((allowed + 2 * style.width + 2) / spacing));
+    const nx = -t[1];
+    const ny = t[0];
+    if (style.reach) sampleLongSection(image, style.model, p[0], p[1], nx, ny, n, spacing, style.reach, section, counter);
+    else sampleSection(image, style.model, p[0], p[1], nx, ny, n, spacing, section, counter);
+    if (chooseOffset(findRuns(section, n, spacing, style.threshold, runs), style, allowed, pick) !== 'found' || !pick.clean) continue;
+    const at: Px = [p[0] + nx * pick.offset, p[1] + ny * pick.offset];
+    const probe = followLine(image, style, at, t, undefined, { maxGap: 2 * step, maxTravel: Math.max(24, 8 * style.width) }, counter);
+    const seen = pairs(probe.points);
+    const first = seen[0] as Px;
+    const lastSeen = seen[seen.length - 1] as Px;
+    if (seen.length < RESUME_POINTS || Math.hypot(lastSeen[0] - first[0], lastSeen[1] - first[1]) < Math.max(10, 4 * style.width)) continue;
+    if (keepSmooth(all, seen, style, 0).length < seen.length) continue;
+    return { at, heading: t };
+  }
+  return undefined;
+}
+
+/**
+ * The part of an extension that continues the line smoothly: each point must lie within about
+ * half a line width of the parabola through the last `window` pixels of accepted line before it
+ * (in the frame of their chord), the tolerance growing slowly with the distance from the last
+ * accepted point. A drawn curve is smooth; what the follower picks up on the way (a label on the
+ * line, a crossing iso-line, a grid line) bends away from that parabola. Such a stretch is left
+ * out when the line is seen again on its own course beyond it, for at least `RESUME_POINTS`
+ * points and `resumeLength` pixels, within `maxSkip` pixels; otherwise the extension is cut at
+ * the stretch's start (the line's own end, or a neighbour it ran into).
+ */
+function keepSmooth(base: readonly Px[], extension: readonly Px[], style: LineStyle, maxSkip: number): Px[] {
+  const width = style.width;
+  const limit = smoothLimit(style);
+  const window = smoothWindow(width);
+  const shortWindow = Math.max(30, 10 * width);
+  const resumeLength = Math.max(10, 4 * width);
   const all: Px[] = [...base];
   const kept: Px[] = [];
+  let resume: Px[] = [];
+  let shortOnly = false;
+  const resumeLengthShort = Math.max(40, 15 * width);
+  let skippedFrom: Px | undefined;
   for (const p of extension) {
-    let k = all.length - 1;
-    let length = 0;
-    while (k > 0 && length < window) {
-      const a = all[k - 1] as Px;
-      const b = all[k] as Px;
-      length += Math.hypot(b[0] - a[0], b[1] - a[1]);
-      k--;
-    }
-    const first = all[k] as Px;
     const last = all[all.length - 1] as Px;
-    const chord = Math.hypot(last[0] - first[0], last[1] - first[1]);
-    if (all.length - k >= 6 && chord > 0.5 * window) {
-      const ux = (last[0] - first[0]) / chord;
-      const uy = (last[1] - first[1]) / chord;
-      const m = [0, 0, 0, 0, 0, 0, 0, 0];
-      for (let i = k; i < all.length; i++) {
-        const q = all[i] as Px;
-        const t = ((q[0] - last[0]) * ux + (q[1] - last[1]) * uy) / window;
-        const y = -(q[0] - last[0]) * uy + (q[1] - last[1]) * ux;
-        m[0]! += 1;
-        m[1]! += t;
-        m[2]! += t * t;
-        m[3]! += t * t * t;
-        m[4]! += t * t * t * t;
-        m[5]! += y;
-        m[6]! += t * y;
-        m[7]! += t * t * y;
+    // Judged on a long stretch (steady over a gap) and on a short one (where the line bends fast,
+    // near an efficiency peak): either may vouch for the point. A point the short one alone vouches
+    // for after a gap (the label on a line's end also lies after a gap, and bends gently) must hold
+    // for longer before the line counts as found again.
+    const away = Math.hypot(p[0] - last[0], p[1] - last[1]);
+    const tolerance = limit + 0.03 * Math.max(0, away - window / 4);
+    const longOk = offParabola(all, window, p) <= tolerance;
+    if (longOk || offParabola(all, shortWindow, p) <= tolerance) {
+      if (!skippedFrom && (longOk || away <= Math.max(6, 3 * width))) {
+        all.push(p);
+        kept.push(p);
+        continue;
       }
-      const [n, s1, s2, s3, s4, y0, y1, y2] = m as [number, number, number, number, number, number, number, number];
-      const det = n * (s2 * s4 - s3 * s3) - s1 * (s1 * s4 - s3 * s2) + s2 * (s1 * s3 - s2 * s2);
-      if (Math.abs(det) > 1e-12) {
-        const a = (y0 * (s2 * s4 - s3 * s3) - s1 * (y1 * s4 - s3 * y2) + s2 * (y1 * s3 - s2 * y2)) / det;
-        const b = (n * (y1 * s4 - s3 * y2) - y0 * (s1 * s4 - s3 * s2) + s2 * (s1 * y2 - y1 * s2)) / det;
-        const c = (n * (s2 * y2 - y1 * s3) - s1 * (s1 * y2 - y1 * s2) + y0 * (s1 * s3 - s2 * s2)) / det;
-        const t = ((p[0] - last[0]) * ux + (p[1] - last[1]) * uy) / window;
-        const y = -(p[0] - last[0]) * uy + (p[1] - last[1]) * ux;
-        if (Math.abs(y - (a + b * t + c * t * t)) > limit) break;
+      skippedFrom ??= last;
+      resume.push(p);
+      if (!longOk) shortOnly = true;
+      const r0 = resume[0] as Px;
+      if (resume.length >= RESUME_POINTS && Math.hypot(p[0] - r0[0], p[1] - r0[1]) >= (shortOnly ? resumeLengthShort : resumeLength)) {
+        all.push(...resume);
+        kept.push(...resume);
+        resume = [];
+        shortOnly = false;
+        skippedFrom = undefined;
       }
+      continue;
     }
-    all.push(p);
-    kept.push(p);
+    shortOnly = false;
+    resume = [];
+    skippedFrom ??= last;
+    if (Math.hypot(p[0] - skippedFrom[0], p[1] - skippedFrom[1]) > maxSkip) break;
   }
   return kept;
+}
+
+/** Points seen again on the line's course after a stretch off it, before the line counts as resumed. */
+const RESUME_POINTS = 5;
+
+/**
+ * How far, pixels, a point of an extension may lie off the parabola through the line before it:
+ * about half a line width; more for a dashed or dotted line, whose centre is found from the dash
+ * nearest each section and wanders by a fraction of a width more.
+ */
+const smoothLimit = (style: LineStyle) => (style.reach ? Math.max(1.6, 0.8 * style.width) : Math.max(1.2, 0.6 * style.width));
+
+/** Length of line, pixels, over which the smoothness of an extension is judged. */
+const smoothWindow = (width: number) => Math.max(100, 25 * width);
+
+/**
+ * How far `p` lies off the least-squares parabola through the points of `all` within `window`
+ * pixels (along the path) of its end, in the frame of their chord; 0 when too few points or
+ * too short a chord make the parabola meaningless.
+ */
+function offParabola(all: readonly Px[], window: number, p: Px): number {
+  const fit = fitParabola(all, window);
+  if (!fit) return 0;
+  const { last, ux, uy, a, b, c } = fit;
+  const t = ((p[0] - last[0]) * ux + (p[1] - last[1]) * uy) / window;
+  const y = -(p[0] - last[0]) * uy + (p[1] - last[1]) * ux;
+  return Math.abs(y - (a + b * t + c * t * t));
+}
+
+/**
+ * The course of the line beyond the end of `all`: for a distance d along the chord of its last
+ * `window` pixels, the point on their least-squares parabola and the unit tangent there.
+ */
+function parabolaThrough(all: readonly Px[], window: number): ((d: number) => [Px, Px]) | undefined {
+  const fit = fitParabola(all, window);
+  if (!fit) return undefined;
+  const { last, ux, uy, a, b, c } = fit;
+  return (d: number) => {
+    const t = d / window;
+    const y = a + b * t + c * t * t;
+    const slope = (b + 2 * c * t) / window;
+    const norm = Math.hypot(1, slope);
+    return [
+      [last[0] + d * ux - y * uy, last[1] + d * uy + y * ux],
+      [(ux - uy * slope) / norm, (uy + ux * slope) / norm],
+    ];
+  };
+}
+
+/** Least-squares parabola y = a + b·t + c·t² (t = along / window) through the last `window` pixels of a path, in the frame of their chord. */
+function fitParabola(all: readonly Px[], window: number): { last: Px; ux: number; uy: number; a: number; b: number; c: number } | undefined {
+  let k = all.length - 1;
+  let length = 0;
+  while (k > 0 && length < window) {
+    const a = all[k - 1] as Px;
+    const b = all[k] as Px;
+    length += Math.hypot(b[0] - a[0], b[1] - a[1]);
+    k--;
+  }
+  const first = all[k] as Px;
+  const last = all[all.length - 1] as Px;
+  const chord = Math.hypot(last[0] - first[0], last[1] - first[1]);
+  if (all.length - k < 6 || chord <= 0.5 * window) return undefined;
+  const ux = (last[0] - first[0]) / chord;
+  const uy = (last[1] - first[1]) / chord;
+  const m = [0, 0, 0, 0, 0, 0, 0, 0];
+  for (let i = k; i < all.length; i++) {
+    const q = all[i] as Px;
+    const t = ((q[0] - last[0]) * ux + (q[1] - last[1]) * uy) / window;
+    const y = -(q[0] - last[0]) * uy + (q[1] - last[1]) * ux;
+    m[0]! += 1;
+    m[1]! += t;
+    m[2]! += t * t;
+    m[3]! += t * t * t;
+    m[4]! += t * t * t * t;
+    m[5]! += y;
+    m[6]! += t * y;
+    m[7]! += t * t * y;
+  }
+  const [n, s1, s2, s3, s4, y0, y1, y2] = m as [number, number, number, number, number, number, number, number];
+  const det = n * (s2 * s4 - s3 * s3) - s1 * (s1 * s4 - s3 * s2) + s2 * (s1 * s3 - s2 * s2);
+  if (Math.abs(det) <= 1e-12) return undefined;
+  const a = (y0 * (s2 * s4 - s3 * s3) - s1 * (y1 * s4 - s3 * y2) + s2 * (y1 * s3 - s2 * y2)) / det;
+  const b = (n * (y1 * s4 - s3 * y2) - y0 * (s1 * s4 - s3 * s2) + s2 * (s1 * y2 - y1 * s2)) / det;
+  const c = (n * (s2 * y2 - y1 * s3) - s1 * (s1 * y2 - y1 * s2) + y0 * (s1 * s3 - s2 * s2)) / det;
+  return { last, ux, uy, a, b, c };
 }
 
 /** A trace as the take-off file gives it: explicit points (used as is) or guides to follow. */

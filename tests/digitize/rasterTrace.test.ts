@@ -242,6 +242,35 @@ describe('raster line following', () => {
     }
   });
 
+  it('runs on past a label written on the line beyond the last guide, to the line\'s own end', () => {
+    const image = picture(640, 360, (ctx) => {
+      stroke(ctx, head, 20, 620, '#c01818', 2);
+      ctx.fillStyle = '#ffffff';
+      ctx.fillRect(430, head(460) - 9, 70, 18);
+      ctx.fillStyle = '#c01818';
+      ctx.font = '14px "Liberation Sans"';
+      ctx.fillText('12.5 in', 436, head(460) + 5);
+    });
+    const result = traceRaster(image, [sheetPoint(100, head(100)), sheetPoint(300, head(300))]);
+    expect(Math.max(...result.points.map((p) => p[0]))).toBeGreaterThan(605); // px: the line's end at 620, beyond the 70-px label
+    expect(worstOff(result.points, head)).toBeLessThan(1); // px: across the label the stretch is bridged smoothly
+  });
+
+  it('keeps a dotted line dotted when a few of its dots are lost near the guide', () => {
+    const image = picture(640, 300, (ctx) => {
+      ctx.setLineDash([0.01, 6]);
+      ctx.lineCap = 'round';
+      stroke(ctx, head, 20, 620, '#d08090', 2.5);
+      ctx.fillStyle = '#ffffff';
+      ctx.fillRect(218, head(222) - 6, 14, 12); // two dots gone, as a poor scan loses faint ones
+    });
+    const result = traceRaster(image, [sheetPoint(200, head(200))]);
+    expect(result.line.dashed).toBe(true);
+    expect(Math.min(...result.points.map((p) => p[0]))).toBeLessThan(30);
+    expect(Math.max(...result.points.map((p) => p[0]))).toBeGreaterThan(605);
+    expect(worstOff(result.points, head)).toBeLessThan(1); // px
+  });
+
   it('takes a solid line for solid, whatever crosses it', () => {
     const image = picture(640, 300, (ctx) => {
       grid(ctx, 640, 300, 40);
