@@ -23,19 +23,22 @@ export async function detectRasterTakeoff(input: TakeoffToDetect, raw: Record<st
   const found = await findRasterPanels(image, reader, progress);
   const questions = [...found.questions];
   const userPanels = (input.panels ?? []).filter((p) => p.origin !== 'detected');
-  const traces = (input.traces ?? []).filter((t) => t.origin !== 'detected');
   const { panels } = takeoffPanels(found.panels, userPanels, input.units, questions);
   const detection: Detection = { panels: found.panels, curves: [], labelled: [], family: 'diameter', labelUnit: null, droppedProposals: 0, questions: found.questions };
   const named = panels.filter((p) => p.origin === 'detected').map((p) => p.id);
+  const all = (input.traces ?? []).filter((t) => t.origin !== 'detected');
+  // A trace on a panel neither given nor found waits, with a question, rather than failing the rest.
+  const orphans = all.filter((t) => !panels.some((p) => p.id === t.panel));
+  const traces = all.filter((t) => !orphans.includes(t));
+  if (orphans.length > 0) {
+    const names = [...new Set(orphans.map((t) => t.panel))];
+    questions.push(`The panel${names.length === 1 ? '' : 's'} ${names.map((n) => `"${n}"`).join(', ')} of the trace${orphans.length === 1 ? '' : 's'} ${orphans.map((t) => `"${t.id}"`).join(', ')} ${names.length === 1 ? 'was' : 'were'} not found on this scan (found: ${named.join(', ') || 'none'}); those traces are left out until the panel is given in the take-off file.`);
+  }
   if (traces.length === 0) {
     const why = questions.length > 0 ? ` It asks: ${questions.join(' ')}` : '';
     throw new TakeoffError(
       `The automatic take-off found ${named.length} panel${named.length === 1 ? '' : 's'} on this scan (${named.join(', ') || 'none calibrated'}) but does not find the curves on scans yet; give each curve as a trace with guides in the take-off file and run --detect again (the panels are found again).${why}`,
     );
-  }
-  const missing = traces.filter((t) => !panels.some((p) => p.id === t.panel)).map((t) => `"${t.id}" (panel "${t.panel}")`);
-  if (missing.length > 0) {
-    throw new TakeoffError(`The trace${missing.length === 1 ? '' : 's'} ${missing.join(', ')} name${missing.length === 1 ? 's' : ''} a panel that was neither given nor found on this scan (found: ${named.join(', ') || 'none'}); give that panel in the take-off file or rename the trace's panel.`);
   }
   const document: Record<string, unknown> = { ...raw, sheet_sha256: sheet.sha256, panels, traces, detected: { by: RASTER_DETECTOR, questions } };
   return { takeoff: parseTakeoff(document), document, detection, questions };

@@ -89,6 +89,10 @@ export function inkBlots(map: InkMap, threshold: number, frames: readonly Box[],
 export function wordsOf(blots: readonly Blot[]): Blot[] {
   const sorted = [...blots].sort((a, b) => a.l - b.l);
   const parent = sorted.map((_, i) => i);
+  const tallest = Math.max(0, ...sorted.map((b) => b.b - b.t));
+  // The common glyph height: a dot joins only a blot of about that height (a digit), never a long upright word.
+  const heights = sorted.map((b) => b.b - b.t).sort((x, y) => x - y);
+  const glyph = heights[Math.floor(heights.length / 2)] ?? 0;
   const find = (i: number): number => (parent[i] === i ? i : (parent[i] = find(parent[i] as number)));
   for (let i = 0; i < sorted.length; i++) {
     const a = sorted[i] as Blot;
@@ -97,11 +101,16 @@ export function wordsOf(blots: readonly Blot[]): Blot[] {
       const c = sorted[j] as Blot;
       const hc = c.b - c.t;
       const tall = Math.max(ha, hc);
-      if (c.l - a.r > 0.6 * tall) break;
+      if (c.l - a.r > 0.6 * tallest) break;
       const overlap = Math.min(a.b, c.b) - Math.max(a.t, c.t);
       if (overlap < 0.5 * Math.min(ha, hc)) continue;
-      // A dot or a comma beside digits joins; two glyph rows of very different heights do not.
-      if (Math.min(ha, hc) > 0.45 * tall && Math.abs(ha - hc) > 0.5 * tall) continue;
+      // A dot, comma or minus beside digits joins (small both ways); otherwise the two must be of
+      // about one height, and the gap is measured by the smaller (a tall blot, such as an upright
+      // title, does not swallow the labels beside it).
+      const small = ha <= hc ? a : c;
+      const dot = Math.min(ha, hc) <= 0.45 * tall && small.r - small.l <= 0.6 * tall && tall <= 1.6 * glyph;
+      if (!dot && Math.abs(ha - hc) > 0.35 * tall) continue;
+      if (c.l - a.r > 0.6 * (dot ? tall : Math.min(ha, hc))) continue;
       parent[find(j)] = find(i);
     }
   }
