@@ -138,8 +138,10 @@ function centreOf(vertical: readonly Rule[], x: number, tol: number, top: number
 
 /**
  * Grid lines across a frame: positions (continuous level coordinates) along x (`'x'`: vertical
- * lines) or y where the mean darkness of the line through the frame stands out from its
- * neighbourhood (a local median over ± `reach` pixels) by more than `minRise`.
+ * lines) or y. A grid line is darker than the paper three pixels to either side along most of
+ * its length, so the median of that contrast along the line stands above `minRise`; a curve
+ * crossing the same row or column darkens only a short stretch and leaves the median at zero.
+ * The position is the darkness-weighted centre of the mean profile around the peak.
  */
 export function gridLines(map: InkMap, frame: Box, along: 'x' | 'y', minRise = 3): number[] {
   const { width, ink } = map;
@@ -150,29 +152,42 @@ export function gridLines(map: InkMap, frame: Box, along: 'x' | 'y', minRise = 3
   const c0 = Math.ceil((along === 'x' ? t : l) + inset);
   const c1 = Math.floor((along === 'x' ? b : r) - inset);
   if (a1 - a0 < 10 || c1 - c0 < 10) return [];
+  const at = along === 'x' ? (p: number, c: number) => ink[c * width + p] as number : (p: number, c: number) => ink[p * width + c] as number;
   const n = a1 - a0;
-  const profile = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
+  const mean = new Float64Array(n);
+  const contrast = new Float64Array(n);
+  const hist = new Uint32Array(512);
+  const count = c1 - c0;
+  for (let i = 3; i < n - 3; i++) {
     const p = a0 + i;
+    hist.fill(0);
     let s = 0;
-    for (let c = c0; c < c1; c++) s += (along === 'x' ? ink[c * width + p] : ink[p * width + c]) as number;
-    profile[i] = s / (c1 - c0);
+    for (let c = c0; c < c1; c++) {
+      const v = at(p, c);
+      s += v;
+      const d = v - ((at(p - 3, c) + at(p + 3, c)) >> 1);
+      hist[Math.max(0, Math.min(511, d + 256))]!++;
+    }
+    mean[i] = s / count;
+    let seen = 0;
+    for (let k = 0; k < 512; k++) {
+      seen += hist[k] as number;
+      if (seen >= count / 2) {
+        contrast[i] = k - 256;
+        break;
+      }
+    }
   }
-  const reach = 6;
   const lines: number[] = [];
-  for (let i = 1; i < n - 1; i++) {
-    const v = profile[i] as number;
-    if (v < (profile[i - 1] as number) || v < (profile[i + 1] as number)) continue;
-    const around: number[] = [];
-    for (let k = Math.max(0, i - reach); k <= Math.min(n - 1, i + reach); k++) if (Math.abs(k - i) > 2) around.push(profile[k] as number);
-    around.sort((x, y) => x - y);
-    const base = around[Math.floor(around.length / 2)] ?? 0;
-    if (v - base < minRise) continue;
-    // Centre of the peak: darkness above the base, over the peak and its two neighbours on each side.
+  for (let i = 4; i < n - 4; i++) {
+    const v = contrast[i] as number;
+    if (v < minRise || v < (contrast[i - 1] as number) || v <= (contrast[i + 1] as number)) continue;
+    // Centre: the mean darkness above the lower of its two shoulders, over the peak ± 2.
+    const base = Math.min(mean[i - 3] as number, mean[i + 3] as number);
     let sw = 0;
     let sp = 0;
-    for (let k = Math.max(0, i - 2); k <= Math.min(n - 1, i + 2); k++) {
-      const w = Math.max(0, (profile[k] as number) - base);
+    for (let k = i - 2; k <= i + 2; k++) {
+      const w = Math.max(0, (mean[k] as number) - base);
       sw += w;
       sp += w * (a0 + k + 0.5);
     }
