@@ -72,11 +72,15 @@ export function inkMap(image: RasterImage): InkMap {
   }
   const ink = new Uint8Array(width * height);
   for (let y = 0; y < height; y++) {
-    const row = Math.min(bh - 1, Math.floor(y / BLOCK)) * bw;
-    for (let x = 0; x < width; x++) {
-      const p = smooth[row + Math.min(bw - 1, Math.floor(x / BLOCK))] as number;
-      const d = p - (lum[y * width + x] as number);
-      ink[y * width + x] = d <= 0 ? 0 : d >= 255 ? 255 : d;
+    const row = Math.min(bh - 1, (y / BLOCK) | 0) * bw;
+    const base = y * width;
+    for (let bx = 0; bx < bw; bx++) {
+      const p = smooth[row + bx] as number;
+      const end = Math.min(width, (bx + 1) * BLOCK);
+      for (let x = bx * BLOCK; x < end; x++) {
+        const d = p - (lum[base + x] as number);
+        ink[base + x] = d <= 0 ? 0 : d;
+      }
     }
   }
   return { width, height, ink };
@@ -176,20 +180,27 @@ export function levelInk(map: InkMap, level: Level): InkMap {
   const s = Math.sin(level.angle);
   const cx = width / 2;
   const cy = height / 2;
+  const w1 = width - 1;
+  const h1 = height - 1;
   for (let v = 0; v < height; v++) {
     // Pixel centres: (u + 0.5, v + 0.5) level ↔ (x + 0.5, y + 0.5) image.
     let x = cx + c * (0.5 - cx) - s * (v + 0.5 - cy) - 0.5;
     let y = cy + s * (0.5 - cx) + c * (v + 0.5 - cy) - 0.5;
+    const row = v * width;
     for (let u = 0; u < width; u++, x += c, y += s) {
-      const x0 = Math.floor(x);
-      const y0 = Math.floor(y);
-      if (x0 < 0 || y0 < 0 || x0 >= width - 1 || y0 >= height - 1) continue;
+      if (x < 0 || y < 0 || x >= w1 || y >= h1) continue;
+      const x0 = x | 0;
+      const y0 = y | 0;
       const fx = x - x0;
       const fy = y - y0;
       const i = y0 * width + x0;
-      const top = (ink[i] as number) + fx * ((ink[i + 1] as number) - (ink[i] as number));
-      const bottom = (ink[i + width] as number) + fx * ((ink[i + width + 1] as number) - (ink[i + width] as number));
-      out[v * width + u] = top + fy * (bottom - top) + 0.5;
+      const a = ink[i] as number;
+      const b = ink[i + 1] as number;
+      const d = ink[i + width] as number;
+      const e = ink[i + width + 1] as number;
+      if ((a | b | d | e) === 0) continue;
+      const top = a + fx * (b - a);
+      out[row + u] = top + fy * (d + fx * (e - d) - top) + 0.5;
     }
   }
   return { width, height, ink: out };

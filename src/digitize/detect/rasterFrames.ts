@@ -157,12 +157,13 @@ export function gridLines(map: InkMap, frame: Box, along: 'x' | 'y', minRise = 3
   const mean = new Float64Array(n);
   const contrast = new Float64Array(n);
   const hist = new Uint32Array(512);
-  const count = c1 - c0;
+  const count = Math.ceil((c1 - c0) / 2);
   for (let i = 3; i < n - 3; i++) {
     const p = a0 + i;
     hist.fill(0);
     let s = 0;
-    for (let c = c0; c < c1; c++) {
+    // Every other pixel along the line: the median needs no more.
+    for (let c = c0; c < c1; c += 2) {
       const v = at(p, c);
       s += v;
       const d = v - ((at(p - 3, c) + at(p + 3, c)) >> 1);
