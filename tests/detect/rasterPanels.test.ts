@@ -116,14 +116,14 @@ describe('an INVENTED scan of the random bed', () => {
     }
   });
 
-  it('a tick label misread in the middle of an axis becomes a question naming it; the panel is still calibrated right from the others', { timeout: 120_000 }, async () => {
+  it('a tick label misread once is read again; the two readings disagree, so the panel asks one question naming both, and is calibrated right', { timeout: 120_000 }, async () => {
     const { plan, shot } = sheetGeometry(seed, 'scan');
     const real = textReaderNode();
     let spoiled = '';
     const reader: TextReader = {
       async read(image, what) {
         const words = await real.read(image, what);
-        if (what !== 'digits') return words;
+        if (what !== 'digits' || spoiled !== '') return words; // the first reading only: a second, larger one reads it right
         // The third label read becomes another number (as a smudge might make it).
         const w = words[2]!;
         spoiled = `${w.text}7`;
@@ -132,7 +132,8 @@ describe('an INVENTED scan of the random bed', () => {
     };
     const found = await findRasterPanels(await load(), reader);
     expect(spoiled).not.toBe('');
-    expect(found.questions.join(' ')).toContain(`"${spoiled}"`);
+    expect(found.questions).toHaveLength(1);
+    expect(found.questions[0]).toMatch(new RegExp(`read two ways \\("${spoiled.replace('.', '\\.')}" then "`));
     expect(found.panels.map((p) => p.quantity).sort()).toEqual(plan.panels.map((p) => p.quantity).sort());
     for (const p of found.panels) {
       const drawn = plan.panels.find((k) => k.quantity === p.quantity)!;

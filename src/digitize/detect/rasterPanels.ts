@@ -188,33 +188,71 @@ export async function findRasterPanels(image: RasterImage, reader: TextReader, p
     if (title) (flowTitleOf.set(f, titleCrops.length), titleCrops.push({ box: grow(title, 3), upright: false }));
   }
   const titleReadings = await readCrops(map, titleCrops, reader, 'words', inkFull);
-  progress(0.9, 'calibrating the panels');
 
   const grids = new Map<Box, { x: number[]; y: number[] }>();
   for (const f of frames) grids.set(f, { x: gridLines(map, f, 'x'), y: gridLines(map, f, 'y') });
-  const unread: string[] = [];
+  // Each axis's labels as a list of words: the flow row of a frame (shared by its two sides), each value column.
+  const axes: { words: Word[]; along: 'x' | 'y'; frame: Box }[] = [];
+  for (const f of frames) axes.push({ words: flowLabels.get(f) ?? [], along: 'x', frame: f });
+  for (const s of sides) axes.push({ words: s.labels, along: 'y', frame: s.frame });
+  const ticksOf = (a: (typeof axes)[number]): { ticks: TickLabel[]; from: Map<TickLabel, Word> } => {
+    const grid = grids.get(a.frame) as { x: number[]; y: number[] };
+    const from = new Map<TickLabel, Word>();
+    const ticks: TickLabel[] = [];
+    for (const w of a.words) {
+      const v = valueOf.get(w);
+      if (!v || v.value === null) continue; // an unreadable label is left out, never guessed
+      const t = { value: v.value, at: a.along === 'x' ? snap(w.cx, grid.x, h) : snap(w.cy, grid.y, h), text: v.text };
+      ticks.push(t);
+      from.set(t, w);
+    }
+    return { ticks, from };
+  };
+  // A second reading, larger, of every label that made an axis doubtful: unread, odd, or on an axis not read.
+  const doubtful = new Set<Word>();
+  for (const a of axes) {
+    const { ticks, from } = ticksOf(a);
+    const read = axisOf(ticks);
+    for (const w of a.words) if (valueOf.get(w)?.value === null) doubtful.add(w);
+    if (!read) for (const w of a.words) doubtful.add(w);
+    else for (const t of read.outliers) doubtful.add(from.get(t) as Word);
+  }
+  const twoWays = new Map<Word, string>();
+  if (doubtful.size > 0) {
+    progress(0.85, 'reading doubtful tick labels again');
+    const list = [...doubtful];
+    const again = await readCrops(map, list.map((w) => ({ box: grow(w, 2), upright: false })), reader, 'digits', inkFull, 64);
+    list.forEach((w, i) => {
+      const second = again[i] as { text: string; confidence: number };
+      const first = valueOf.get(w) as { value: number | null; text: string; confidence: number };
+      const value = parseLabel(second.text);
+      if (value === null || second.text === first.text) return;
+      // The two readings disagree: the second is tried; the panel then asks, whatever it decides.
+      twoWays.set(w, first.text);
+      valueOf.set(w, { value, text: second.text, confidence: second.confidence });
+    });
+  }
+  progress(0.9, 'calibrating the panels');
   const panels: FoundPanel[] = [];
   const used = new Map<string, number>();
   for (const s of sides) {
     const f = s.frame;
-    const grid = grids.get(f) as { x: number[]; y: number[] };
-    const tick = (w: Word, along: 'x' | 'y'): TickLabel | null => {
-      const v = valueOf.get(w);
-      if (!v || v.value === null) {
-        unread.push(v?.text ? `"${v.text}"` : 'an unreadable label');
-        return null;
-      }
-      return { value: v.value, at: along === 'x' ? snap(w.cx, grid.x, h) : snap(w.cy, grid.y, h), text: v.text };
-    };
-    const xs = (flowLabels.get(f) ?? []).map((w) => tick(w, 'x')).filter((k): k is TickLabel => k !== null);
-    const ys = s.labels.map((w) => tick(w, 'y')).filter((k): k is TickLabel => k !== null);
+    const xa = ticksOf(axes.find((a) => a.along === 'x' && a.frame === f) as (typeof axes)[number]);
+    const ya = ticksOf(axes.find((a) => a.words === s.labels) as (typeof axes)[number]);
+    const xs = xa.ticks;
+    const ys = ya.ticks;
     const x = axisOf(xs);
     const y = axisOf(ys);
     const where = `[${f.map((v) => Math.round(v)).join(', ')}]`;
+    const readTwice = (list: TickLabel[], from: Map<TickLabel, Word>) => list.flatMap((t) => {
+      const first = twoWays.get(from.get(t) as Word);
+      return first === undefined ? [] : [`"${first}" then "${t.text}"`];
+    });
     if (!x || !y) {
       questions.push(`The ${s.side} axis of the frame at ${where} (level pixels) has tick labels that were not read as an evenly spaced axis (${!x ? `flow labels read: ${xs.map((k) => k.text).join(' ') || 'none'}` : ''}${!x && !y ? '; ' : ''}${!y ? `value labels read: ${ys.map((k) => k.text).join(' ') || 'none'}` : ''}); place its anchors by hand.`);
       continue;
     }
+    const disagreed = [...readTwice(x.inliers, xa.from), ...readTwice(y.inliers, ya.from)];
     const anchors = crossings(x.inliers, y.inliers, level, image.scale);
     let calibration;
     try {
@@ -247,6 +285,10 @@ export async function findRasterPanels(image: RasterImage, reader: TextReader, p
     if (odd.length > 0) {
       confidence *= 0.6;
       questions.push(`Panel "${id}": the tick label${odd.length === 1 ? '' : 's'} ${odd.map((k) => `"${k.text}"`).join(', ')} read from the scan do${odd.length === 1 ? 'es' : ''} not fit the evenly spaced axis the other labels make; the panel is calibrated from the others. Is the axis read right?`);
+    }
+    if (disagreed.length > 0) {
+      confidence *= 0.7;
+      questions.push(`Panel "${id}": the tick label${disagreed.length === 1 ? ' was' : 's were'} read two ways (${disagreed.join(', ')}); the panel takes the second reading${disagreed.length === 1 ? '' : 's'}, which fit${disagreed.length === 1 ? 's' : ''} the evenly spaced axis of the other labels. Is that what the sheet prints?`);
     }
     if (!quantity) {
       confidence *= 0.5;

@@ -136,20 +136,20 @@ export interface CropReading {
 
 /**
  * Reads crops in one call: each crop enlarged so its height (level text) or width (upright
- * text) is about 40 pixels, drawn dark on white with its ink stretched to full contrast, one
+ * text) is about `across` pixels (40 unless a second reading asks for another size), drawn dark on white with its ink stretched to full contrast, one
  * under another with a line's gap between; the reader's words go back to the crop they lie on.
  */
-export async function readCrops(map: InkMap, crops: readonly Crop[], reader: TextReader, what: 'digits' | 'words', inkFull: number): Promise<CropReading[]> {
+export async function readCrops(map: InkMap, crops: readonly Crop[], reader: TextReader, what: 'digits' | 'words', inkFull: number, across = 40): Promise<CropReading[]> {
   if (crops.length === 0) return [];
   const pad = 6;
   const placed: { y0: number; y1: number; w: number; h: number; k: number }[] = [];
   let y = 20;
   let width = 0;
   for (const c of crops) {
-    const across = c.upright ? c.box.r - c.box.l : c.box.b - c.box.t;
-    const k = Math.max(1, Math.min(4, 40 / Math.max(1, across)));
+    const size = c.upright ? c.box.r - c.box.l : c.box.b - c.box.t;
+    const k = Math.max(1, Math.min(6, across / Math.max(1, size)));
     const w = Math.round((c.upright ? c.box.b - c.box.t : c.box.r - c.box.l) * k) + 2 * pad;
-    const h = Math.round(across * k) + 2 * pad;
+    const h = Math.round(size * k) + 2 * pad;
     placed.push({ y0: y, y1: y + h, w, h, k });
     y += h + Math.max(24, Math.round(0.8 * h));
     width = Math.max(width, w + 40);
