@@ -6,6 +6,7 @@
  * detected calibrations alone; its curves are scored with the bed's own scorer.
  *
  *   DETECT_SCANS=20 DETECT_SEED=1 npx tsx scripts/detectSheets/scanBed.ts
+ *   DETECT_KIND=photo DETECT_SCANS=10 npx tsx scripts/detectSheets/scanBed.ts   (hand-held photos: not read yet, must ask)
  *
  * Per sheet: panels found (right quantity) of those drawn, the real calibration error of each
  * found panel (% of span over a 9 × 9 grid, calibrationError of the bed), questions, the
@@ -45,20 +46,21 @@ export interface ScanOutcome {
   error?: string;
 }
 
-export async function scanFor(seed: number): Promise<{ jpeg: Uint8Array; takeoff: TakeoffInput }> {
-  const file = join(CACHE, `${seed}.jpg`);
-  const meta = join(CACHE, `${seed}.takeoff.json`);
+export async function scanFor(seed: number, kind: 'scan' | 'photo' = 'scan'): Promise<{ jpeg: Uint8Array; takeoff: TakeoffInput }> {
+  const name = kind === 'scan' ? `${seed}` : `${seed}-photo`;
+  const file = join(CACHE, `${name}.jpg`);
+  const meta = join(CACHE, `${name}.takeoff.json`);
   if (existsSync(file) && existsSync(meta)) return { jpeg: new Uint8Array(readFileSync(file)), takeoff: JSON.parse(readFileSync(meta, 'utf8')) as TakeoffInput };
-  const s = await makeRandomSheet(seed, 'scan');
+  const s = await makeRandomSheet(seed, kind);
   mkdirSync(CACHE, { recursive: true });
   writeFileSync(file, s.jpeg);
   writeFileSync(meta, JSON.stringify(s.takeoff));
   return { jpeg: new Uint8Array(s.jpeg), takeoff: s.takeoff };
 }
 
-export async function runScan(seed: number): Promise<ScanOutcome> {
-  const { plan, shot } = sheetGeometry(seed, 'scan');
-  const { jpeg, takeoff } = await scanFor(seed);
+export async function runScan(seed: number, kind: 'scan' | 'photo' = 'scan'): Promise<ScanOutcome> {
+  const { plan, shot } = sheetGeometry(seed, kind);
+  const { jpeg, takeoff } = await scanFor(seed, kind);
   const out: ScanOutcome = { seed, dpi: plan.dpi, turnDeg: shot.rotationDeg, panels: { expected: plan.panels.length, found: 0 }, calibration: {}, questions: [], detectMs: NaN, worstCurve: Infinity, worstGiven: Infinity, wrong: [] };
   const sheet = await loadImageSheetNode(jpeg, { name: `${seed}.jpg` });
   try {
@@ -103,12 +105,13 @@ const q = (values: number[], p: number) => {
 async function main(): Promise<void> {
   const count = Number(process.env.DETECT_SCANS ?? 10);
   const first = Number(process.env.DETECT_SEED ?? 1);
+  const kind = process.env.DETECT_KIND === 'photo' ? 'photo' : 'scan';
   const t0 = performance.now();
   await textReaderNode().read({ width: 8, height: 8, grey: new Uint8Array(64).fill(255) }, 'digits');
   process.stdout.write(`reader start: ${(performance.now() - t0).toFixed(0)} ms (once per process)\n`);
   const outcomes: ScanOutcome[] = [];
   for (let seed = first; seed < first + count; seed++) {
-    const o = await runScan(seed);
+    const o = await runScan(seed, kind);
     outcomes.push(o);
     const cal = Object.entries(o.calibration).map(([k, v]) => `${k} ${v.toFixed(3)}`).join(', ');
     process.stdout.write(`${String(seed).padStart(4)} ${o.dpi} dpi turn ${o.turnDeg.toFixed(2)}° panels ${o.panels.found}/${o.panels.expected} calibration % of span: ${cal || '-'}; questions ${o.questions.length}; curves from the bed's guides, worst: on found panels ${Number.isFinite(o.worstCurve) ? o.worstCurve.toFixed(2) : 'missing'}, on the bed's panels ${Number.isFinite(o.worstGiven) ? o.worstGiven.toFixed(2) : 'missing'}; ${o.detectMs.toFixed(0)} ms${o.error ? `; refused: ${o.error}` : ''}\n`);

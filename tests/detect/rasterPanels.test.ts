@@ -141,3 +141,14 @@ describe('an INVENTED scan of the random bed', () => {
     }
   });
 });
+
+describe('an INVENTED photo of the random bed, taken at an angle', () => {
+  it('is not calibrated from a rectangle it is not: no panel, one question saying why', { timeout: 120_000 }, async () => {
+    const { jpeg } = await scanFor(5, 'photo');
+    const d = await decode(Buffer.from(jpeg));
+    const found = await findRasterPanels({ width: d.width, height: d.height, data: d.data, scale: 1 }, textReaderNode());
+    expect(found.panels).toEqual([]);
+    expect(found.questions).toHaveLength(1);
+    expect(found.questions[0]).toMatch(/not square on the image .* place four anchors/);
+  });
+});

@@ -196,3 +196,33 @@ export function gridLines(map: InkMap, frame: Box, along: 'x' | 'y', minRise = 3
   }
   return lines;
 }
+
+/**
+ * How far a frame is from a rectangle on the level page, pixels: each side's position measured
+ * near its two ends (a fifth to two fifths of the way along), the largest difference. A scan
+ * turned level gives a few tenths; a photo taken at an angle, or a bent page, gives more, and
+ * then the grid crossings are not where a rectangle puts them.
+ */
+export function frameSkew(map: InkMap, frame: Box): number {
+  const [l, t, r, b] = frame;
+  const w = r - l;
+  const h = b - t;
+  const across = (pos: number, from: number, to: number, vertical: boolean): number => {
+    let sw = 0;
+    let sp = 0;
+    for (let k = Math.round(pos) - 4; k <= Math.round(pos) + 4; k++) {
+      let s = 0;
+      for (let a = Math.round(from); a < Math.round(to); a++) s += (vertical ? map.ink[a * map.width + k] : map.ink[k * map.width + a]) as number;
+      sw += s;
+      sp += s * (k + 0.5);
+    }
+    return sw > 0 ? sp / sw : pos;
+  };
+  const diffs = [
+    across(l, t + 0.2 * h, t + 0.4 * h, true) - across(l, b - 0.4 * h, b - 0.2 * h, true),
+    across(r, t + 0.2 * h, t + 0.4 * h, true) - across(r, b - 0.4 * h, b - 0.2 * h, true),
+    across(t, l + 0.2 * w, l + 0.4 * w, false) - across(t, r - 0.4 * w, r - 0.2 * w, false),
+    across(b, l + 0.2 * w, l + 0.4 * w, false) - across(b, r - 0.4 * w, r - 0.2 * w, false),
+  ];
+  return Math.max(...diffs.map(Math.abs));
+}

@@ -17,7 +17,7 @@ import type { RasterImage } from '../raster.ts';
 import type { AxisScaleType } from '../../model/takeoff.ts';
 import { inkMap, levelInk, levelOf, pageAngle, strongInk, type InkMap, type Level } from './ink.ts';
 import type { Box, FoundPanel } from './panels.ts';
-import { findRasterFrames, gridLines, horizontalRules, transpose } from './rasterFrames.ts';
+import { findRasterFrames, frameSkew, gridLines, horizontalRules, transpose } from './rasterFrames.ts';
 import { inkBlots, readCrops, wordsOf, type Blot, type Crop, type TextReader } from './rasterText.ts';
 import { readAxis } from './robustAxis.ts';
 import { quantityOfTitle, SHEET_NUMBER, sheetNumber, unitOfTitle } from './words.ts';
@@ -46,6 +46,9 @@ interface Side {
   /** Upright title crop beyond the labels, when there is ink there. */
   title: Blot | null;
 }
+
+/** Largest difference, pixels, between a frame side's position near its two ends on a level scan (turned scans measure under 0.6). */
+export const MAX_FRAME_SKEW = 1;
 
 const NUMBER = new RegExp(`^[-−]?${SHEET_NUMBER}%?$`);
 
@@ -148,10 +151,17 @@ export async function findRasterPanels(image: RasterImage, reader: TextReader, p
   if (frames.length === 0 || !(h > 0)) {
     return { panels: [], frames, turnDeg, questions: ['No plot frame (four straight rules meeting at the corners) was found on this scan; draw each panel\'s frame and place its anchors by hand.'] };
   }
+  // A frame that is no rectangle on the level page (a photo at an angle, a bent page) would put
+  // its grid crossings where they are not: its panel is not calibrated here, and the sheet asks once.
+  const skewed = frames.map((f) => ({ f, off: frameSkew(map, f) })).filter((k) => k.off > MAX_FRAME_SKEW);
+  if (skewed.length > 0) {
+    questions.push(`The frame${skewed.length === 1 ? '' : 's'} at ${skewed.map((k) => `[${k.f.map((v) => Math.round(v)).join(', ')}]`).join(', ')} (level pixels) ${skewed.length === 1 ? 'is' : 'are'} not square on the image (sides off by up to ${Math.max(...skewed.map((k) => k.off)).toFixed(1)} px: a photo taken at an angle, or a bent page); ${skewed.length === 1 ? 'its panel is' : 'their panels are'} not calibrated from the tick labels, so place four anchors on each by hand (the projective calibration takes them).`);
+  }
+  const square = frames.filter((f) => !skewed.some((k) => k.f === f));
   progress(0.35, 'reading the tick labels');
   const sides: Side[] = [];
   const flowLabels = new Map<Box, Word[]>();
-  for (const f of frames) {
+  for (const f of square) {
     flowLabels.set(f, flowRow(words, f, h));
     for (const side of ['left', 'right'] as const) {
       const labels = valueColumn(words, f, side, h);
@@ -179,7 +189,7 @@ export async function findRasterPanels(image: RasterImage, reader: TextReader, p
   const flowTitleOf = new Map<Box, number>();
   const sideTitleOf = new Map<Side, number>();
   for (const s of sides) if (s.title) (sideTitleOf.set(s, titleCrops.length), titleCrops.push({ box: grow(s.title, 3), upright: true }));
-  for (const f of frames) {
+  for (const f of square) {
     const row = flowLabels.get(f) ?? [];
     const below = row.length ? Math.max(...row.map((w) => w.b)) : f[3];
     const line = words.filter((w) => w.t >= below + 0.1 * h && w.t <= below + 2.5 * h && w.cx >= f[0] && w.cx <= f[2]);
@@ -190,10 +200,10 @@ export async function findRasterPanels(image: RasterImage, reader: TextReader, p
   const titleReadings = await readCrops(map, titleCrops, reader, 'words', inkFull);
 
   const grids = new Map<Box, { x: number[]; y: number[] }>();
-  for (const f of frames) grids.set(f, { x: gridLines(map, f, 'x'), y: gridLines(map, f, 'y') });
+  for (const f of square) grids.set(f, { x: gridLines(map, f, 'x'), y: gridLines(map, f, 'y') });
   // Each axis's labels as a list of words: the flow row of a frame (shared by its two sides), each value column.
   const axes: { words: Word[]; along: 'x' | 'y'; frame: Box }[] = [];
-  for (const f of frames) axes.push({ words: flowLabels.get(f) ?? [], along: 'x', frame: f });
+  for (const f of square) axes.push({ words: flowLabels.get(f) ?? [], along: 'x', frame: f });
   for (const s of sides) axes.push({ words: s.labels, along: 'y', frame: s.frame });
   const ticksOf = (a: (typeof axes)[number]): { ticks: TickLabel[]; from: Map<TickLabel, Word> } => {
     const grid = grids.get(a.frame) as { x: number[]; y: number[] };
