@@ -129,8 +129,9 @@ async function main(): Promise<void> {
   process.stdout.write(`sheets fully right (every panel found, named and within ${SCAN_ACCEPT_PERCENT} %): ${outcomes.filter((o) => o.wrong.length === 0 && !o.error).length} of ${outcomes.length}; refused: ${outcomes.filter((o) => o.error).length}\n`);
   process.stdout.write(`wrong without a question: ${silent.length}${silent.length ? ` (seeds ${silent.map((o) => o.seed).join(', ')})` : ''}\n`);
   process.stdout.write(`detection time per sheet (decoded image to take-off, reader started): p50 ${q(ms, 0.5).toFixed(0)} ms, max ${Math.max(...ms).toFixed(0)} ms\n`);
-  const same = outcomes.filter((o) => o.worstCurve === o.worstGiven || Math.abs(o.worstCurve - o.worstGiven) <= 0.1);
-  process.stdout.write(`replayed curves from the bed's guides: worst per sheet on found panels within 0.1 (% of span or points) of the same guides on the bed's own panels: ${same.length} of ${outcomes.length} (the curve errors are the tracer's, see randomSheets)\n`);
+  const replayed = outcomes.filter((o) => !o.error);
+  const same = replayed.filter((o) => o.worstCurve === o.worstGiven || Math.abs(o.worstCurve - o.worstGiven) <= 0.1);
+  process.stdout.write(`replayed curves from the bed's guides: worst per sheet on found panels within 0.1 (% of span or points) of the same guides on the bed's own panels: ${same.length} of ${replayed.length} replayed (the curve errors are the tracer's, see randomSheets)\n`);
 }
 
 if (process.argv[1] && import.meta.url.endsWith(process.argv[1].split('/').pop() as string)) await main();
