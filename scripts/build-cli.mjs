@@ -38,7 +38,7 @@ await build({
   target: 'node20',
   // Small pure-JavaScript packages are bundled (one file to load instead of hundreds starts
   // faster); native, very large or self-locating packages stay external.
-  external: ['@napi-rs/canvas', 'sharp', 'better-sqlite3', 'pdfjs-dist', 'pdfjs-dist/*', 'fastify', '@fastify/*', 'vite', 'tsx', 'konva', 'konva/*', 'pdf-lib', 'epanet-js'],
+  external: ['@napi-rs/canvas', 'sharp', 'better-sqlite3', 'pdfjs-dist', 'pdfjs-dist/*', 'fastify', '@fastify/*', 'vite', 'tsx', 'konva', 'konva/*', 'pdf-lib', 'epanet-js', 'tesseract.js', '@tesseract.js-data/*'],
   outExtension: { '.js': '.mjs' },
   chunkNames: 'chunk-[hash]',
   sourcemap: 'linked',
