@@ -14,6 +14,9 @@ import { calibrationError, sheetGeometry } from '../../scripts/randomSheets/rand
 import { scanFor } from '../../scripts/detectSheets/scanBed.ts';
 import { closeTextReaderNode, textReaderNode } from '../../src/digitize/loaders/ocrNode.ts';
 import type { RasterImage } from '../../src/digitize/raster.ts';
+import { detectTakeoff } from '../../src/digitize/detect/detect.ts';
+import { imageSheet } from '../../src/digitize/loaders/imageSheet.ts';
+import { parseTakeoffToDetect } from '../../src/model/takeoff.ts';
 
 afterAll(() => closeTextReaderNode());
 
@@ -150,5 +153,25 @@ describe('an INVENTED photo of the random bed, taken at an angle', () => {
     expect(found.panels).toEqual([]);
     expect(found.questions).toHaveLength(1);
     expect(found.questions[0]).toMatch(/not square on the image .* place four anchors/);
+  });
+});
+
+describe('detectTakeoff on a scan', () => {
+  it('completes a take-off that gives only the traces: found panels marked detected, the engineer\'s traces kept; a trace on a panel not found waits with a question', { timeout: 120_000 }, async () => {
+    const { jpeg, takeoff } = await scanFor(3);
+    const d = await decode(Buffer.from(jpeg));
+    const image = { width: d.width, height: d.height, data: d.data, scale: 1 };
+    const sheet = imageSheet(image, 'f'.repeat(64), () => image);
+    const raw: Record<string, unknown> = { ...takeoff, sheet: '3.jpg', traces: [...takeoff.traces, { ...takeoff.traces[0]!, id: 'stray', panel: 'npshr' }] };
+    delete raw.panels;
+    const found = await detectTakeoff(parseTakeoffToDetect(raw), raw, sheet, { reader: textReaderNode() });
+    expect(found.takeoff.panels.map((p) => [p.id, p.origin])).toEqual([
+      ['head', 'detected'],
+      ['power', 'detected'],
+    ]);
+    expect(found.takeoff.traces.map((t) => t.id)).toEqual(takeoff.traces.map((t) => t.id));
+    expect(found.questions).toHaveLength(1);
+    expect(found.questions[0]).toMatch(/"npshr" of the trace "stray" was not found/);
+    expect(found.document.detected).toMatchObject({ by: expect.stringMatching(/scans/) });
   });
 });
