@@ -127,7 +127,7 @@ interface Page {
 function readPage(image: RasterImage): Page {
   const raw = inkMap(image);
   const strong = strongInk(raw);
-  const level = levelOf(pageAngle(raw, strong), raw.width, raw.height);
+  const level = levelOf(pageAngle(raw, 0.6 * strong), raw.width, raw.height);
   const map = levelInk(raw, level);
   const minSide = 0.15 * Math.min(map.width, map.height);
   const frames = findRasterFrames(horizontalRules(map, 0.6 * strong, minSide), horizontalRules(transpose(map), 0.6 * strong, minSide), minSide, 6);
