@@ -37,7 +37,7 @@ if (!existsSync(entry)) {
 }
 
 /** Packages left in node_modules: native, very large or self-locating. */
-const EXTERNAL = ['@napi-rs/canvas', 'sharp', 'better-sqlite3', 'pdfjs-dist', 'pdfjs-dist/*', 'fastify', '@fastify/*', 'vite', 'tsx', 'konva', 'konva/*', 'pdf-lib', 'epanet-js'];
+const EXTERNAL = ['@napi-rs/canvas', 'sharp', 'better-sqlite3', 'pdfjs-dist', 'pdfjs-dist/*', 'fastify', '@fastify/*', 'vite', 'tsx', 'konva', 'konva/*', 'pdf-lib', 'epanet-js', 'tesseract.js', '@tesseract.js-data/*'];
 const isExternal = (path) => EXTERNAL.some((e) => (e.endsWith('/*') ? path.startsWith(e.slice(0, -1)) : path === e || path.startsWith(`${e}/`)));
 
 /** zod's `locales` namespace with English alone (the command line sets no other locale). */

@@ -63,9 +63,11 @@ async function takeoff(file: string, o: TakeoffOptions): Promise<number> {
     loadSheetFileNode(sheetPath, { page: parsed.page, onNote: (sentence) => notes.push(sentence) }),
     import('../../digitize/takeoff.ts'),
   ]);
+  let ocr: typeof import('../../digitize/loaders/ocrNode.ts') | null = null;
   try {
-    // The automatic take-off (src/digitize/detect) is loaded only with --detect.
-    const detected = o.detect ? await (await import('../../digitize/detect/detect.ts')).detectTakeoff(parsed, raw as Record<string, unknown>, sheet) : null;
+    // Scans: tick labels and titles read by tesseract.js (src/digitize/loaders/ocrNode.ts), loaded only here.
+    ocr = o.detect && sheet.kind !== 'vector-pdf' ? await import('../../digitize/loaders/ocrNode.ts') : null;
+    const detected = o.detect ? await (await import('../../digitize/detect/detect.ts')).detectTakeoff(parsed, raw as Record<string, unknown>, sheet, { reader: ocr?.textReaderNode(), progress: (_, what) => progress.step(what) }) : null; // automatic take-off (src/digitize/detect), loaded only with --detect
     if (detected) [parsed, raw] = [detected.takeoff, detected.document];
     for (const q of detected?.questions ?? []) process.stderr.write(`Question: ${q}\n`);
     parsed = parsed as Takeoff;
@@ -88,6 +90,7 @@ async function takeoff(file: string, o: TakeoffOptions): Promise<number> {
     return result.curveSet.findings.some((f) => f.severity === 'fail') || (detected?.questions.length ?? 0) > 0 ? EXIT_FAILED_CHECKS : EXIT_OK;
   } finally {
     progress.done();
+    await ocr?.closeTextReaderNode();
     await sheet.close();
   }
 }

@@ -5,7 +5,8 @@
  * (sheet, page, pump speed, units) into a complete one whose found parts carry origin
  * "detected"; the replay (takeoff.ts) then reads it like any other.
  *
- * Pure: the sheet arrives through the Sheet interface. Scans and photos are not read yet.
+ * Pure: the sheet arrives through the Sheet interface. Scans go to rasterDetect.ts (panels only
+ * for now) when a character reader is handed in.
  */
 import { TakeoffError, parseTakeoff, type Takeoff, type TakeoffToDetect } from '../../model/takeoff.ts';
 import { fromSI, parseUnit, toSI, type QuantityKind } from '../../units/index.ts';
@@ -15,6 +16,9 @@ import { sortCurves, type FoundCurve } from './curves.ts';
 import { assignLabels, describe, type GivenValues, type Labelled } from './labels.ts';
 import { sheetLines } from './lines.ts';
 import { findPanels, type FoundPanel } from './panels.ts';
+import { detectRasterTakeoff } from './rasterDetect.ts';
+import type { DetectProgress } from './rasterPanels.ts';
+import type { TextReader } from './rasterText.ts';
 
 export const DETECTOR = 'pumpscribe detect 1 (vector sheets)';
 
@@ -46,6 +50,12 @@ export function detectSheet(text: readonly SheetText[], paths: readonly VectorPa
   };
 }
 
+export interface DetectOptions {
+  /** The character reader for scans (tick labels and titles); without it a scan is refused. */
+  reader?: TextReader;
+  progress?: DetectProgress;
+}
+
 export interface DetectedTakeoff {
   /** The complete take-off, validated. */
   takeoff: Takeoff;
@@ -67,43 +77,16 @@ function unitToken(kind: QuantityKind, token: string | null): string | null {
   }
 }
 
-/** Values the engineer gave for a sheet that prints none, in the take-off's diameter unit (or rpm). */
-export function givenValues(input: Pick<TakeoffToDetect, 'units' | 'speeds' | 'diameters'>): GivenValues | undefined {
-  const dUnit = parseUnit('diameter', input.units.diameter).token;
-  return input.speeds
-    ? { family: 'speed', values: input.speeds, unit: 'rpm' }
-    : input.diameters && (dUnit === 'mm' || dUnit === 'in')
-      ? { family: 'diameter', values: input.diameters, unit: dUnit }
-      : undefined;
-}
-
 /**
- * Completes a minimal take-off from the sheet. Panels and traces the engineer set (origin
- * absent or "user") are kept, and a curve the engineer traced is not added again; parts of an
- * earlier detection (origin "detected") are found afresh, so --detect can run again on a saved
- * take-off.
- * Throws TakeoffError when the sheet is not a vector page or nothing could be found.
+ * The take-off's panels: the engineer's, then each found panel that says what it plots, with
+ * its anchors, scales, frame and units (a panel without a curve adds nothing, so callers pass
+ * only those worth keeping). Questions about unknown flow units are added to `questions`.
  */
-export async function detectTakeoff(input: TakeoffToDetect, raw: Record<string, unknown>, sheet: Sheet): Promise<DetectedTakeoff> {
-  if (sheet.kind !== 'vector-pdf') {
-    throw new TakeoffError(`The automatic take-off reads vector PDF sheets only for now, and this sheet is ${sheet.kind === 'image' ? 'an image' : 'a scanned PDF page'}; give the panels and traces in the take-off file.`);
-  }
-  const detection = detectSheet(await sheet.text(), await sheet.paths(), givenValues(input), input.iso_levels);
-  const questions = [...detection.questions];
-  // Parts the engineer set stay; parts found by an earlier detection are found again.
-  const userPanels = (input.panels ?? []).filter((p) => p.origin !== 'detected');
-  const userTraces = (input.traces ?? []).filter((t) => t.origin !== 'detected');
-  const userKeys = new Set(userTraces.map((t) => `${t.quantity}|${t.iso !== undefined ? `iso ${t.iso}` : (t.diameter ?? t.speed)}`));
-  const units = input.units;
-
+export function takeoffPanels(found: readonly FoundPanel[], userPanels: NonNullable<TakeoffToDetect['panels']>, units: TakeoffToDetect['units'], questions: string[]): { panels: NonNullable<TakeoffToDetect['panels']>; panelIds: Map<FoundPanel, string> } {
   const panels: NonNullable<TakeoffToDetect['panels']> = [...userPanels];
   const panelIds = new Map<FoundPanel, string>();
-  for (const p of detection.panels) {
+  for (const p of found) {
     if (p.quantity === null) continue;
-    if (!detection.labelled.some((l) => l.curve.panel === p) && p.quantity !== 'head') {
-      // A panel without a curve adds nothing; keep it out of the take-off.
-      continue;
-    }
     const id = panels.some((k) => k.id === p.id) ? `${p.id}-detected` : p.id;
     panelIds.set(p, id);
     const x = unitToken('flow', p.xUnit);
@@ -122,6 +105,45 @@ export async function detectTakeoff(input: TakeoffToDetect, raw: Record<string, 
       ...(x || y ? { units: { ...(x ? { x } : {}), ...(y ? { y } : {}) } } : {}),
     });
   }
+  return { panels, panelIds };
+}
+
+/** Values the engineer gave for a sheet that prints none, in the take-off's diameter unit (or rpm). */
+export function givenValues(input: Pick<TakeoffToDetect, 'units' | 'speeds' | 'diameters'>): GivenValues | undefined {
+  const dUnit = parseUnit('diameter', input.units.diameter).token;
+  return input.speeds
+    ? { family: 'speed', values: input.speeds, unit: 'rpm' }
+    : input.diameters && (dUnit === 'mm' || dUnit === 'in')
+      ? { family: 'diameter', values: input.diameters, unit: dUnit }
+      : undefined;
+}
+
+/**
+ * Completes a minimal take-off from the sheet. Panels and traces the engineer set (origin
+ * absent or "user") are kept, and a curve the engineer traced is not added again; parts of an
+ * earlier detection (origin "detected") are found afresh, so --detect can run again on a saved
+ * take-off.
+ * Throws TakeoffError when the sheet is not a vector page or nothing could be found.
+ */
+export async function detectTakeoff(input: TakeoffToDetect, raw: Record<string, unknown>, sheet: Sheet, options: DetectOptions = {}): Promise<DetectedTakeoff> {
+  if (sheet.kind !== 'vector-pdf') {
+    if (options.reader) return detectRasterTakeoff(input, raw, sheet, options.reader, options.progress);
+    throw new TakeoffError(`The automatic take-off reads scans only with a character reader, and this sheet is ${sheet.kind === 'image' ? 'an image' : 'a scanned PDF page'}; give the panels and traces in the take-off file.`);
+  }
+  const detection = detectSheet(await sheet.text(), await sheet.paths(), givenValues(input), input.iso_levels);
+  const questions = [...detection.questions];
+  // Parts the engineer set stay; parts found by an earlier detection are found again.
+  const userPanels = (input.panels ?? []).filter((p) => p.origin !== 'detected');
+  const userTraces = (input.traces ?? []).filter((t) => t.origin !== 'detected');
+  const userKeys = new Set(userTraces.map((t) => `${t.quantity}|${t.iso !== undefined ? `iso ${t.iso}` : (t.diameter ?? t.speed)}`));
+  const units = input.units;
+
+  const { panels, panelIds } = takeoffPanels(
+    detection.panels.filter((p) => p.quantity === 'head' || detection.labelled.some((l) => l.curve.panel === p)),
+    userPanels,
+    units,
+    questions,
+  );
 
   const diameterUnit = parseUnit('diameter', units.diameter);
   const valueOf = (l: Labelled): number => {

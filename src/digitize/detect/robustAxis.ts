@@ -95,6 +95,17 @@ function roundedConsensus(labels: readonly TickLabel[]): { inliers: TickLabel[];
   return { inliers: best, rounded: labels.filter((l) => !best.includes(l)) };
 }
 
+/**
+ * The labels of one axis read as one evenly spaced linear axis: those that calibrate (inliers),
+ * at most one odd label (never at an end), and labels printed rounded; null when they do not.
+ */
+export function readAxis(list: readonly TickLabel[]): { inliers: TickLabel[]; outliers: TickLabel[]; rounded: TickLabel[] } | null {
+  const c = consensus(list);
+  if (c) return { ...c, rounded: [] };
+  const r = roundedConsensus(list);
+  return r ? { inliers: r.inliers, outliers: [], rounded: r.rounded } : null;
+}
+
 export function robustProposal(text: readonly SheetText[], paths: readonly VectorPath[], frame: Box): RobustProposal | null {
   const [l, t, r, b] = frame;
   const labels = numericLabels(text);
@@ -110,14 +121,8 @@ export function robustProposal(text: readonly SheetText[], paths: readonly Vecto
       if (at !== null) ys.push({ value: label.value, at, text: label.text });
     }
   }
-  const read = (list: TickLabel[]) => {
-    const c = consensus(list);
-    if (c) return { ...c, rounded: [] as TickLabel[] };
-    const r = roundedConsensus(list);
-    return r ? { inliers: r.inliers, outliers: [] as TickLabel[], rounded: r.rounded } : null;
-  };
-  const x = read(xs);
-  const y = read(ys);
+  const x = readAxis(xs);
+  const y = readAxis(ys);
   if (!x || !y) return null;
   const anchors: AnchorInput[] = [...x.inliers.map((k) => ({ at: [k.at, b] as [number, number], x: k.value })), ...y.inliers.map((k) => ({ at: [l, k.at] as [number, number], y: k.value }))];
   try {

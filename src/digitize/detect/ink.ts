@@ -1,0 +1,207 @@
+/**
+ * The ink of a scanned sheet, for the automatic take-off: how much darker than the paper
+ * each pixel is (paper measured block by block, so uneven light does not read as ink), the
+ * small rotation of the page on the scanner glass, and the page turned back level, so that
+ * the frames and grid lines run along rows and columns. A `Level` maps between the level page
+ * and the image's own pixels both ways.
+ *
+ * Pure: works on an RGBA raster.
+ */
+import type { RasterImage } from '../raster.ts';
+
+/** Darkness below the local paper (0 = paper, 255 = black), one byte a pixel, row-major. */
+export interface InkMap {
+  readonly width: number;
+  readonly height: number;
+  readonly ink: Uint8Array;
+}
+
+/** The turn of the page: level coordinates (u, v) ⇄ image pixels (x, y), about the image centre. */
+export interface Level {
+  /** Rotation of the page's horizontal lines in the image, radians (y down: positive leans down to the right). */
+  readonly angle: number;
+  toImage(u: number, v: number): [number, number];
+  toLevel(x: number, y: number): [number, number];
+}
+
+const BLOCK = 48;
+
+/** Darkness of every pixel below the brightness of its block's paper (the 80th percentile of the block's luminance). */
+export function inkMap(image: RasterImage): InkMap {
+  const { width, height, data } = image;
+  const lum = new Uint8Array(width * height);
+  for (let i = 0, o = 0; i < lum.length; i++, o += 4) lum[i] = (77 * (data[o] as number) + 150 * (data[o + 1] as number) + 29 * (data[o + 2] as number)) >> 8;
+  const bw = Math.ceil(width / BLOCK);
+  const bh = Math.ceil(height / BLOCK);
+  const paper = new Float32Array(bw * bh);
+  const hist = new Uint32Array(256);
+  for (let by = 0; by < bh; by++) {
+    for (let bx = 0; bx < bw; bx++) {
+      hist.fill(0);
+      let n = 0;
+      for (let y = by * BLOCK; y < Math.min(height, (by + 1) * BLOCK); y += 2) {
+        for (let x = bx * BLOCK; x < Math.min(width, (bx + 1) * BLOCK); x += 2) {
+          hist[lum[y * width + x] as number]!++;
+          n++;
+        }
+      }
+      let seen = 0;
+      let level = 255;
+      for (let v = 0; v < 256; v++) {
+        seen += hist[v] as number;
+        if (seen >= 0.8 * n) {
+          level = v;
+          break;
+        }
+      }
+      paper[by * bw + bx] = level;
+    }
+  }
+  // A block that is mostly ink (a thick frame corner, a filled legend) takes its neighbours' paper.
+  const smooth = new Float32Array(paper.length);
+  for (let by = 0; by < bh; by++) {
+    for (let bx = 0; bx < bw; bx++) {
+      let best = 0;
+      for (let dy = -1; dy <= 1; dy++) for (let dx = -1; dx <= 1; dx++) {
+        const x = bx + dx;
+        const y = by + dy;
+        if (x >= 0 && y >= 0 && x < bw && y < bh) best = Math.max(best, paper[y * bw + x] as number);
+      }
+      smooth[by * bw + bx] = best;
+    }
+  }
+  const ink = new Uint8Array(width * height);
+  for (let y = 0; y < height; y++) {
+    const row = Math.min(bh - 1, (y / BLOCK) | 0) * bw;
+    const base = y * width;
+    for (let bx = 0; bx < bw; bx++) {
+      const p = smooth[row + bx] as number;
+      const end = Math.min(width, (bx + 1) * BLOCK);
+      for (let x = bx * BLOCK; x < end; x++) {
+        const d = p - (lum[base + x] as number);
+        ink[base + x] = d <= 0 ? 0 : d;
+      }
+    }
+  }
+  return { width, height, ink };
+}
+
+/** The darkness that most ink reaches: half the 99.9th percentile of the inked pixels, at least 40. */
+export function strongInk(map: InkMap): number {
+  const hist = new Uint32Array(256);
+  let n = 0;
+  for (let i = 0; i < map.ink.length; i += 3) {
+    const v = map.ink[i] as number;
+    if (v >= 20) {
+      hist[v]!++;
+      n++;
+    }
+  }
+  let seen = 0;
+  for (let v = 255; v >= 0; v--) {
+    seen += hist[v] as number;
+    if (seen >= 0.001 * n) return Math.max(40, 0.5 * v);
+  }
+  return 40;
+}
+
+/**
+ * The page's rotation, from its dark pixels: the angle (within ±4°) at which their rows pile up
+ * most sharply (the sum of squared row counts is largest), as long straight rules do when level.
+ */
+export function pageAngle(map: InkMap, threshold: number): number {
+  const { width, height, ink } = map;
+  const xs: number[] = [];
+  const ys: number[] = [];
+  // Every row (sampling every other row would favour the level angle, whose bins it fills alternately).
+  for (let y = 0; y < height; y++) {
+    for (let x = y % 3; x < width; x += 3) {
+      if ((ink[y * width + x] as number) >= threshold) {
+        xs.push(x);
+        ys.push(y);
+      }
+    }
+  }
+  if (xs.length < 50) return 0;
+  const bins = new Float64Array(4 * (height + 2 * width));
+  // `per`: bins a pixel (1 for the coarse search, 4 for the fine one, where a quarter pixel over the page's width matters).
+  const score = (a: number, per = 1) => {
+    bins.fill(0);
+    const t = Math.tan(a);
+    const off = width;
+    let s = 0;
+    for (let i = 0; i < xs.length; i++) {
+      const k = Math.round(per * ((ys[i] as number) - (xs[i] as number) * t + off));
+      const c = bins[k] as number;
+      s += 2 * c + 1;
+      bins[k] = c + 1;
+    }
+    return s;
+  };
+  const deg = Math.PI / 180;
+  let best = 0;
+  let bestScore = -1;
+  for (let a = -4; a <= 4 + 1e-9; a += 0.1) {
+    const s = score(a * deg);
+    if (s > bestScore) [best, bestScore] = [a, s];
+  }
+  let fine = best;
+  for (let a = best - 0.1; a <= best + 0.1 + 1e-9; a += 0.01) {
+    const s = score(a * deg);
+    if (s > bestScore) [fine, bestScore] = [a, s];
+  }
+  let finest = fine;
+  let finestScore = -1;
+  for (let a = fine - 0.015; a <= fine + 0.015 + 1e-9; a += 0.0025) {
+    const s = score(a * deg, 4);
+    if (s > finestScore) [finest, finestScore] = [a, s];
+  }
+  return finest * deg;
+}
+
+export function levelOf(angle: number, width: number, height: number): Level {
+  const cx = width / 2;
+  const cy = height / 2;
+  const c = Math.cos(angle);
+  const s = Math.sin(angle);
+  return {
+    angle,
+    toImage: (u, v) => [cx + c * (u - cx) - s * (v - cy), cy + s * (u - cx) + c * (v - cy)],
+    toLevel: (x, y) => [cx + c * (x - cx) + s * (y - cy), cy - s * (x - cx) + c * (y - cy)],
+  };
+}
+
+/** The ink map turned level (bilinear; pixels from outside the image are paper). */
+export function levelInk(map: InkMap, level: Level): InkMap {
+  if (level.angle === 0) return map;
+  const { width, height, ink } = map;
+  const out = new Uint8Array(width * height);
+  const c = Math.cos(level.angle);
+  const s = Math.sin(level.angle);
+  const cx = width / 2;
+  const cy = height / 2;
+  const w1 = width - 1;
+  const h1 = height - 1;
+  for (let v = 0; v < height; v++) {
+    // Pixel centres: (u + 0.5, v + 0.5) level ↔ (x + 0.5, y + 0.5) image.
+    let x = cx + c * (0.5 - cx) - s * (v + 0.5 - cy) - 0.5;
+    let y = cy + s * (0.5 - cx) + c * (v + 0.5 - cy) - 0.5;
+    const row = v * width;
+    for (let u = 0; u < width; u++, x += c, y += s) {
+      if (x < 0 || y < 0 || x >= w1 || y >= h1) continue;
+      const x0 = x | 0;
+      const y0 = y | 0;
+      const fx = x - x0;
+      const fy = y - y0;
+      const i = y0 * width + x0;
+      const a = ink[i] as number;
+      const b = ink[i + 1] as number;
+      const d = ink[i + width] as number;
+      const e = ink[i + width + 1] as number;
+      if ((a | b | d | e) === 0) continue;
+      const top = a + fx * (b - a);
+      out[row + u] = top + fy * (d + fx * (e - d) - top) + 0.5;
+    }
+  }
+  return { width, height, ink: out };
+}

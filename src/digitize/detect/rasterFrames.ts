@@ -1,0 +1,228 @@
+/**
+ * Plot frames and grid lines of a level scan (ink.ts): long straight dark runs along rows
+ * (horizontal rules) and columns (vertical rules); a frame is four rules that meet at their
+ * ends; inside a frame, the grid lines are the columns and rows whose mean darkness stands
+ * above their neighbourhood. Positions are continuous level coordinates (a pixel's centre at
+ * index + 0.5), sub-pixel from the darkness profile across each rule.
+ *
+ * Pure.
+ */
+import type { InkMap } from './ink.ts';
+import type { Box } from './panels.ts';
+
+export interface Rule {
+  /** Position across the rule (y of a horizontal rule, x of a vertical one), continuous. */
+  at: number;
+  from: number;
+  to: number;
+}
+
+/** Horizontal rules: runs of ink of at least `minLength` pixels (gaps up to 2 px bridged), merged over neighbouring rows. */
+export function horizontalRules(map: InkMap, threshold: number, minLength: number): Rule[] {
+  const { width, height, ink } = map;
+  interface Open { from: number; to: number; rows: number[]; last: number }
+  const done: Open[] = [];
+  let open: Open[] = [];
+  for (let y = 0; y < height; y++) {
+    const runs: [number, number][] = [];
+    let start = -1;
+    let lastInk = -10;
+    for (let x = 0; x <= width; x++) {
+      const on = x < width && (ink[y * width + x] as number) >= threshold;
+      if (on) {
+        if (start < 0 || x - lastInk > 3) {
+          if (start >= 0 && lastInk - start + 1 >= minLength) runs.push([start, lastInk + 1]);
+          start = x;
+        }
+        lastInk = x;
+      }
+    }
+    if (start >= 0 && lastInk - start + 1 >= minLength) runs.push([start, lastInk + 1]);
+    const next: Open[] = [];
+    for (const [a, b] of runs) {
+      const o = open.find((k) => Math.min(k.to, b) - Math.max(k.from, a) > 0.5 * Math.min(k.to - k.from, b - a));
+      if (o) {
+        o.from = Math.min(o.from, a);
+        o.to = Math.max(o.to, b);
+        o.rows.push(y);
+        o.last = y;
+        if (!next.includes(o)) next.push(o);
+      } else next.push({ from: a, to: b, rows: [y], last: y });
+    }
+    for (const o of open) if (!next.includes(o)) done.push(o);
+    open = next;
+  }
+  done.push(...open);
+  const rules: Rule[] = [];
+  for (const o of done) {
+    // A rule is thin: a block of many rows is text or a filled area, not a line.
+    if (o.rows.length > 12) continue;
+    rules.push({ at: centreAcross(map, o.rows[0] as number, o.last, o.from, o.to), from: o.from, to: o.to });
+  }
+  return rules;
+}
+
+/** Darkness-weighted centre of the rows [first − 2, last + 2] over the middle of [from, to]. */
+function centreAcross(map: InkMap, first: number, last: number, from: number, to: number): number {
+  const { width, height, ink } = map;
+  const a = Math.round(from + 0.2 * (to - from));
+  const b = Math.round(to - 0.2 * (to - from));
+  let sw = 0;
+  let sy = 0;
+  for (let y = Math.max(0, first - 2); y <= Math.min(height - 1, last + 2); y++) {
+    let s = 0;
+    for (let x = a; x < b; x++) s += ink[y * width + x] as number;
+    sw += s;
+    sy += s * (y + 0.5);
+  }
+  return sw > 0 ? sy / sw : (first + last + 1) / 2;
+}
+
+/** The ink map with rows and columns swapped (vertical rules become horizontal ones). */
+export function transpose(map: InkMap): InkMap {
+  const { width, height, ink } = map;
+  const out = new Uint8Array(width * height);
+  for (let y = 0; y < height; y++) for (let x = 0; x < width; x++) out[x * height + y] = ink[y * width + x] as number;
+  return { width: height, height: width, ink: out };
+}
+
+/**
+ * Frames: a top and a bottom rule of one width, with vertical rules down both ends. A side may
+ * be broken (a curve label's paper box drawn over it), but not where another frame ends: a
+ * break with a rule of the frame's width at its top is the gap between two frames stacked.
+ * A frame inside another (grid lines closing a smaller rectangle with the frame's sides) is
+ * dropped; frames smaller than `minSide` are not plots.
+ */
+export function findRasterFrames(horizontal: readonly Rule[], vertical: readonly Rule[], minSide: number, tol: number): Box[] {
+  const frames: Box[] = [];
+  const near = (a: number, b: number) => Math.abs(a - b) <= tol;
+  const sideHolds = (x: number, top: Rule, bottom: Rule): boolean => {
+    const pieces = vertical.filter((v) => near(v.at, x) && v.to > top.at + tol && v.from < bottom.at - tol).map((v) => [Math.max(top.at, v.from), Math.min(bottom.at, v.to)] as const).sort((p, q) => p[0] - q[0]);
+    const otherRuleAt = (y: number) => horizontal.some((h) => h !== top && h !== bottom && near(h.at, y) && near(h.from, top.from) && near(h.to, top.to));
+    let covered = 0;
+    let reach = top.at;
+    for (const [a, b] of [...pieces, [bottom.at, bottom.at] as const]) {
+      // A break: the gap between two stacked frames has a rule of this width at an end.
+      if (a - reach > 2 * tol && (otherRuleAt(reach) || otherRuleAt(a))) return false;
+      covered += Math.max(0, b - Math.max(a, reach));
+      reach = Math.max(reach, b);
+    }
+    return covered >= 0.7 * (bottom.at - top.at);
+  };
+  for (const top of horizontal) {
+    if (top.to - top.from < minSide) continue;
+    for (const bottom of horizontal) {
+      if (bottom.at - top.at < minSide || !near(bottom.from, top.from) || !near(bottom.to, top.to)) continue;
+      if (!sideHolds((top.from + bottom.from) / 2, top, bottom) || !sideHolds((top.to + bottom.to) / 2, top, bottom)) continue;
+      const left = centreOf(vertical, (top.from + bottom.from) / 2, tol, top.at, bottom.at);
+      const right = centreOf(vertical, (top.to + bottom.to) / 2, tol, top.at, bottom.at);
+      frames.push([left, top.at, right, bottom.at]);
+    }
+  }
+  const inside = (a: Box, b: Box) => a !== b && a[0] >= b[0] - tol && a[1] >= b[1] - tol && a[2] <= b[2] + tol && a[3] <= b[3] + tol;
+  return frames.filter((f) => !frames.some((g) => inside(f, g))).sort((a, b) => a[1] - b[1] || a[0] - b[0]);
+}
+
+/** Length-weighted position of the vertical rules near x between top and bottom. */
+function centreOf(vertical: readonly Rule[], x: number, tol: number, top: number, bottom: number): number {
+  let sw = 0;
+  let sx = 0;
+  for (const v of vertical) {
+    if (Math.abs(v.at - x) > tol) continue;
+    const w = Math.max(0, Math.min(bottom, v.to) - Math.max(top, v.from));
+    sw += w;
+    sx += w * v.at;
+  }
+  return sw > 0 ? sx / sw : x;
+}
+
+/**
+ * Grid lines across a frame: positions (continuous level coordinates) along x (`'x'`: vertical
+ * lines) or y. A grid line is darker than the paper three pixels to either side along most of
+ * its length, so the median of that contrast along the line stands above `minRise`; a curve
+ * crossing the same row or column darkens only a short stretch and leaves the median at zero.
+ * The position is the darkness-weighted centre of the mean profile around the peak.
+ */
+export function gridLines(map: InkMap, frame: Box, along: 'x' | 'y', minRise = 3): number[] {
+  const { width, ink } = map;
+  const [l, t, r, b] = frame;
+  const inset = 4;
+  const a0 = Math.ceil((along === 'x' ? l : t) + inset);
+  const a1 = Math.floor((along === 'x' ? r : b) - inset);
+  const c0 = Math.ceil((along === 'x' ? t : l) + inset);
+  const c1 = Math.floor((along === 'x' ? b : r) - inset);
+  if (a1 - a0 < 10 || c1 - c0 < 10) return [];
+  const at = along === 'x' ? (p: number, c: number) => ink[c * width + p] as number : (p: number, c: number) => ink[p * width + c] as number;
+  const n = a1 - a0;
+  const mean = new Float64Array(n);
+  const contrast = new Float64Array(n);
+  const hist = new Uint32Array(512);
+  const count = Math.ceil((c1 - c0) / 2);
+  for (let i = 3; i < n - 3; i++) {
+    const p = a0 + i;
+    hist.fill(0);
+    let s = 0;
+    // Every other pixel along the line: the median needs no more.
+    for (let c = c0; c < c1; c += 2) {
+      const v = at(p, c);
+      s += v;
+      const d = v - ((at(p - 3, c) + at(p + 3, c)) >> 1);
+      hist[Math.max(0, Math.min(511, d + 256))]!++;
+    }
+    mean[i] = s / count;
+    let seen = 0;
+    for (let k = 0; k < 512; k++) {
+      seen += hist[k] as number;
+      if (seen >= count / 2) {
+        contrast[i] = k - 256;
+        break;
+      }
+    }
+  }
+  const lines: number[] = [];
+  for (let i = 4; i < n - 4; i++) {
+    const v = contrast[i] as number;
+    if (v < minRise || v < (contrast[i - 1] as number) || v <= (contrast[i + 1] as number)) continue;
+    // Centre: the mean darkness above the lower of its two shoulders, over the peak ± 2.
+    const base = Math.min(mean[i - 3] as number, mean[i + 3] as number);
+    let sw = 0;
+    let sp = 0;
+    for (let k = i - 2; k <= i + 2; k++) {
+      const w = Math.max(0, (mean[k] as number) - base);
+      sw += w;
+      sp += w * (a0 + k + 0.5);
+    }
+    lines.push(sw > 0 ? sp / sw : a0 + i + 0.5);
+  }
+  return lines;
+}
+
+/**
+ * How far a frame is from a rectangle on the level page, pixels: each side's position measured
+ * near its two ends (a fifth to two fifths of the way along), the largest difference. A scan
+ * turned level gives a few tenths; a photo taken at an angle, or a bent page, gives more, and
+ * then the grid crossings are not where a rectangle puts them.
+ */
+export function frameSkew(map: InkMap, frame: Box): number {
+  const [l, t, r, b] = frame;
+  const w = r - l;
+  const h = b - t;
+  const across = (pos: number, from: number, to: number, vertical: boolean): number => {
+    let sw = 0;
+    let sp = 0;
+    for (let k = Math.round(pos) - 4; k <= Math.round(pos) + 4; k++) {
+      let s = 0;
+      for (let a = Math.round(from); a < Math.round(to); a++) s += (vertical ? map.ink[a * map.width + k] : map.ink[k * map.width + a]) as number;
+      sw += s;
+      sp += s * (k + 0.5);
+    }
+    return sw > 0 ? sp / sw : pos;
+  };
+  const diffs = [
+    across(l, t + 0.2 * h, t + 0.4 * h, true) - across(l, b - 0.4 * h, b - 0.2 * h, true),
+    across(r, t + 0.2 * h, t + 0.4 * h, true) - across(r, b - 0.4 * h, b - 0.2 * h, true),
+    across(t, l + 0.2 * w, l + 0.4 * w, false) - across(t, r - 0.4 * w, r - 0.2 * w, false),
+    across(b, l + 0.2 * w, l + 0.4 * w, false) - across(b, r - 0.4 * w, r - 0.2 * w, false),
+  ];
+  return Math.max(...diffs.map(Math.abs));
+}

@@ -1,0 +1,342 @@
+/**
+ * Panels found on a scan: the page turned level (ink.ts), plot frames from long rules and
+ * grid lines inside them (rasterFrames.ts), tick labels beside each frame read by the
+ * character reader (rasterText.ts) and put on their grid lines, and each axis calibrated from
+ * the labels that make one evenly spaced axis (robustAxis.ts; log when the labels' logarithms
+ * space evenly). Axis titles are read too, to say what each panel plots.
+ *
+ * The anchors are grid crossings (both values), turned back into the image's own pixels, so
+ * the calibration carries the page's turn. What is doubtful becomes a question, never a guess:
+ * a frame whose labels make no axis, a label that does not fit the others, a title not read.
+ *
+ * Pure: the raster and the reader are handed in.
+ */
+import type { PanelProposal, TickLabel } from '../autoCalibrate.ts';
+import { calibrate, type AnchorInput } from '../calibration.ts';
+import type { RasterImage } from '../raster.ts';
+import type { AxisScaleType } from '../../model/takeoff.ts';
+import { inkMap, levelInk, levelOf, pageAngle, strongInk, type InkMap, type Level } from './ink.ts';
+import type { Box, FoundPanel } from './panels.ts';
+import { findRasterFrames, frameSkew, gridLines, horizontalRules, transpose } from './rasterFrames.ts';
+import { inkBlots, readCrops, wordsOf, type Blot, type Crop, type TextReader } from './rasterText.ts';
+import { readAxis } from './robustAxis.ts';
+import { quantityOfTitle, SHEET_NUMBER, sheetNumber, unitOfTitle } from './words.ts';
+
+export interface RasterPanelsFound {
+  panels: FoundPanel[];
+  /** Frames found, level pixels. */
+  frames: Box[];
+  /** The page's turn on the glass, degrees. */
+  turnDeg: number;
+  questions: string[];
+}
+
+/** Progress of the detection, a fraction 0–1 with what is being done. */
+export type DetectProgress = (fraction: number, what: string) => void;
+
+interface Word extends Blot {
+  cx: number;
+  cy: number;
+}
+
+interface Side {
+  frame: Box;
+  side: 'left' | 'right';
+  labels: Word[];
+  /** Upright title crop beyond the labels, when there is ink there. */
+  title: Blot | null;
+}
+
+/** Largest difference, pixels, between a frame side's position near its two ends on a level scan (turned scans measure under 0.6). */
+export const MAX_FRAME_SKEW = 1;
+
+const NUMBER = new RegExp(`^[-−]?${SHEET_NUMBER}%?$`);
+
+const grow = (b: Blot, by: number): Blot => ({ l: b.l - by, t: b.t - by, r: b.r + by, b: b.b + by });
+
+function union(list: readonly Blot[]): Blot | null {
+  if (list.length === 0) return null;
+  return { l: Math.min(...list.map((k) => k.l)), t: Math.min(...list.map((k) => k.t)), r: Math.max(...list.map((k) => k.r)), b: Math.max(...list.map((k) => k.b)) };
+}
+
+function median(values: readonly number[]): number {
+  const s = [...values].sort((a, b) => a - b);
+  return s.length ? (s[Math.floor(s.length / 2)] as number) : NaN;
+}
+
+/** The label's line: the nearest grid line within a third of the text height, else the label's own middle. */
+function snap(at: number, lines: readonly number[], h: number): number {
+  let best = at;
+  let off = 0.35 * h;
+  for (const g of lines) {
+    const d = Math.abs(g - at);
+    if (d < off) [best, off] = [g, d];
+  }
+  return best;
+}
+
+/** Value labels beside one side of a frame: a column aligned on the edge toward the frame. */
+function valueColumn(words: readonly Word[], frame: Box, side: 'left' | 'right', h: number): Word[] {
+  const [l, t, r, b] = frame;
+  const near = words.filter((w) => w.cy >= t - h && w.cy <= b + h && w.b - w.t <= 1.8 * h && w.b - w.t >= 0.5 * h && (side === 'left' ? w.r <= l - 0.05 * h && w.r >= l - 2.5 * h : w.l >= r + 0.05 * h && w.l <= r + 2.5 * h));
+  if (near.length === 0) return [];
+  const edge = side === 'left' ? Math.max(...near.map((w) => w.r)) : Math.min(...near.map((w) => w.l));
+  return near.filter((w) => Math.abs((side === 'left' ? w.r : w.l) - edge) <= 0.8 * h);
+}
+
+/** Flow labels under a frame: the first row of words below its bottom edge. */
+function flowRow(words: readonly Word[], frame: Box, h: number): Word[] {
+  const [l, , r, b] = frame;
+  const near = words.filter((w) => w.t >= b + 0.1 * h && w.t <= b + 2.5 * h && w.cx >= l - 1.5 * h && w.cx <= r + 1.5 * h && w.b - w.t <= 1.8 * h && w.b - w.t >= 0.5 * h);
+  if (near.length === 0) return [];
+  const top = Math.min(...near.map((w) => w.t));
+  return near.filter((w) => w.t <= top + 0.6 * h);
+}
+
+function parseLabel(text: string): number | null {
+  const t = text.replace(/\s+/g, '').replace('−', '-');
+  if (!NUMBER.test(t)) return null;
+  const v = (t.startsWith('-') ? -1 : 1) * sheetNumber(t.replace(/^-/, '').replace(/%$/, ''));
+  return Number.isFinite(v) ? v : null;
+}
+
+/** An axis from its labels: linear when the values space evenly, log when their logarithms do. */
+function axisOf(labels: readonly TickLabel[]): { scale: AxisScaleType; inliers: TickLabel[]; outliers: TickLabel[] } | null {
+  const lin = readAxis(labels);
+  if (lin) return { scale: 'linear', inliers: lin.inliers, outliers: lin.outliers };
+  if (labels.length >= 3 && labels.every((k) => k.value > 0)) {
+    const log = readAxis(labels.map((k) => ({ ...k, value: Math.log10(k.value) })));
+    if (log) {
+      const back = (list: TickLabel[]) => list.map((k) => labels.find((o) => o.at === k.at && o.text === k.text) as TickLabel);
+      return { scale: 'log', inliers: back(log.inliers), outliers: back(log.outliers) };
+    }
+  }
+  return null;
+}
+
+/** Everything `findRasterPanels` works from: the level ink, the frames, the words. */
+interface Page {
+  map: InkMap;
+  level: Level;
+  strong: number;
+  frames: Box[];
+  words: Word[];
+  h: number;
+}
+
+function readPage(image: RasterImage): Page {
+  const raw = inkMap(image);
+  const strong = strongInk(raw);
+  const level = levelOf(pageAngle(raw, 0.6 * strong), raw.width, raw.height);
+  const map = levelInk(raw, level);
+  const minSide = 0.15 * Math.min(map.width, map.height);
+  const frames = findRasterFrames(horizontalRules(map, 0.6 * strong, minSide), horizontalRules(transpose(map), 0.6 * strong, minSide), minSide, 6);
+  const words = wordsOf(inkBlots(map, 0.6 * strong, frames, Math.round(0.06 * Math.max(map.width, map.height)))).map((w) => ({ ...w, cx: (w.l + w.r) / 2, cy: (w.t + w.b) / 2 }));
+  // Text height: the middle height of the words standing beside the frames.
+  const beside = words.filter((w) => frames.some(([l, t, r, b]) => w.cy >= t - 50 && w.cy <= b + 100 && w.cx >= l - 200 && w.cx <= r + 200 && !(w.cx > l && w.cx < r && w.cy > t && w.cy < b)));
+  const h = median(beside.map((w) => w.b - w.t));
+  return { map, level, strong, frames, words, h };
+}
+
+/**
+ * Panels of a scanned sheet. `image.scale` (pixels per sheet unit) converts the anchors back
+ * to sheet units.
+ */
+export async function findRasterPanels(image: RasterImage, reader: TextReader, progress: DetectProgress = () => undefined): Promise<RasterPanelsFound> {
+  progress(0.05, 'finding the ink and the frames');
+  const page = readPage(image);
+  const { map, level, frames, words, h } = page;
+  const turnDeg = (level.angle * 180) / Math.PI;
+  const questions: string[] = [];
+  if (frames.length === 0 || !(h > 0)) {
+    return { panels: [], frames, turnDeg, questions: ['No plot frame (four straight rules meeting at the corners) was found on this scan; draw each panel\'s frame and place its anchors by hand.'] };
+  }
+  // A frame that is no rectangle on the level page (a photo at an angle, a bent page) would put
+  // its grid crossings where they are not: its panel is not calibrated here, and the sheet asks once.
+  const skewed = frames.map((f) => ({ f, off: frameSkew(map, f) })).filter((k) => k.off > MAX_FRAME_SKEW);
+  if (skewed.length > 0) {
+    questions.push(`The frame${skewed.length === 1 ? '' : 's'} at ${skewed.map((k) => `[${k.f.map((v) => Math.round(v)).join(', ')}]`).join(', ')} (level pixels) ${skewed.length === 1 ? 'is' : 'are'} not square on the image (sides off by up to ${Math.max(...skewed.map((k) => k.off)).toFixed(1)} px: a photo taken at an angle, or a bent page); ${skewed.length === 1 ? 'its panel is' : 'their panels are'} not calibrated from the tick labels, so place four anchors on each by hand (the projective calibration takes them).`);
+  }
+  const square = frames.filter((f) => !skewed.some((k) => k.f === f));
+  progress(0.35, 'reading the tick labels');
+  const sides: Side[] = [];
+  const flowLabels = new Map<Box, Word[]>();
+  for (const f of square) {
+    flowLabels.set(f, flowRow(words, f, h));
+    for (const side of ['left', 'right'] as const) {
+      const labels = valueColumn(words, f, side, h);
+      if (labels.length < 2) continue;
+      // The title stands beyond the labels, written upwards, within the frame's height.
+      const edge = side === 'left' ? Math.min(...labels.map((w) => w.l)) : Math.max(...labels.map((w) => w.r));
+      const beyond = words.filter((w) => w.cy > f[1] && w.cy < f[3] && (side === 'left' ? w.r <= edge - 0.2 * h && w.l >= edge - 5 * h : w.l >= edge + 0.2 * h && w.r <= edge + 5 * h));
+      sides.push({ frame: f, side, labels, title: union(beyond) });
+    }
+  }
+  const digitCrops: Crop[] = [];
+  const owners: Word[] = [];
+  for (const s of sides) for (const w of s.labels) (digitCrops.push({ box: grow(w, 2), upright: false }), owners.push(w));
+  for (const list of flowLabels.values()) for (const w of list) (digitCrops.push({ box: grow(w, 2), upright: false }), owners.push(w));
+  const inkFull = 2 * page.strong;
+  const digitReadings = await readCrops(map, digitCrops, reader, 'digits', inkFull);
+  const valueOf = new Map<Word, { value: number | null; text: string; confidence: number }>();
+  owners.forEach((w, i) => {
+    const r = digitReadings[i] as { text: string; confidence: number };
+    valueOf.set(w, { value: parseLabel(r.text), text: r.text, confidence: r.confidence });
+  });
+
+  progress(0.65, 'reading the axis titles');
+  const titleCrops: Crop[] = [];
+  const flowTitleOf = new Map<Box, number>();
+  const sideTitleOf = new Map<Side, number>();
+  for (const s of sides) if (s.title) (sideTitleOf.set(s, titleCrops.length), titleCrops.push({ box: grow(s.title, 3), upright: true }));
+  for (const f of square) {
+    const row = flowLabels.get(f) ?? [];
+    const below = row.length ? Math.max(...row.map((w) => w.b)) : f[3];
+    const line = words.filter((w) => w.t >= below + 0.1 * h && w.t <= below + 2.5 * h && w.cx >= f[0] && w.cx <= f[2]);
+    const top = line.length ? Math.min(...line.map((w) => w.t)) : 0;
+    const title = union(line.filter((w) => w.t <= top + 0.6 * h));
+    if (title) (flowTitleOf.set(f, titleCrops.length), titleCrops.push({ box: grow(title, 3), upright: false }));
+  }
+  const titleReadings = await readCrops(map, titleCrops, reader, 'words', inkFull);
+
+  const grids = new Map<Box, { x: number[]; y: number[] }>();
+  for (const f of square) grids.set(f, { x: gridLines(map, f, 'x'), y: gridLines(map, f, 'y') });
+  // Each axis's labels as a list of words: the flow row of a frame (shared by its two sides), each value column.
+  const axes: { words: Word[]; along: 'x' | 'y'; frame: Box }[] = [];
+  for (const f of square) axes.push({ words: flowLabels.get(f) ?? [], along: 'x', frame: f });
+  for (const s of sides) axes.push({ words: s.labels, along: 'y', frame: s.frame });
+  const ticksOf = (a: (typeof axes)[number]): { ticks: TickLabel[]; from: Map<TickLabel, Word> } => {
+    const grid = grids.get(a.frame) as { x: number[]; y: number[] };
+    const from = new Map<TickLabel, Word>();
+    const ticks: TickLabel[] = [];
+    for (const w of a.words) {
+      const v = valueOf.get(w);
+      if (!v || v.value === null) continue; // an unreadable label is left out, never guessed
+      const t = { value: v.value, at: a.along === 'x' ? snap(w.cx, grid.x, h) : snap(w.cy, grid.y, h), text: v.text };
+      ticks.push(t);
+      from.set(t, w);
+    }
+    return { ticks, from };
+  };
+  // A second reading, larger, of every label that made an axis doubtful: unread, odd, or on an axis not read.
+  const doubtful = new Set<Word>();
+  for (const a of axes) {
+    const { ticks, from } = ticksOf(a);
+    const read = axisOf(ticks);
+    for (const w of a.words) if (valueOf.get(w)?.value === null) doubtful.add(w);
+    if (!read) for (const w of a.words) doubtful.add(w);
+    else for (const t of read.outliers) doubtful.add(from.get(t) as Word);
+  }
+  const twoWays = new Map<Word, string>();
+  if (doubtful.size > 0) {
+    progress(0.85, 'reading doubtful tick labels again');
+    const list = [...doubtful];
+    const again = await readCrops(map, list.map((w) => ({ box: grow(w, 2), upright: false })), reader, 'digits', inkFull, 64);
+    list.forEach((w, i) => {
+      const second = again[i] as { text: string; confidence: number };
+      const first = valueOf.get(w) as { value: number | null; text: string; confidence: number };
+      const value = parseLabel(second.text);
+      if (value === null || second.text === first.text) return;
+      // The two readings disagree: the second is tried; the panel then asks, whatever it decides.
+      twoWays.set(w, first.text);
+      valueOf.set(w, { value, text: second.text, confidence: second.confidence });
+    });
+  }
+  progress(0.9, 'calibrating the panels');
+  const panels: FoundPanel[] = [];
+  const used = new Map<string, number>();
+  for (const s of sides) {
+    const f = s.frame;
+    const xa = ticksOf(axes.find((a) => a.along === 'x' && a.frame === f) as (typeof axes)[number]);
+    const ya = ticksOf(axes.find((a) => a.words === s.labels) as (typeof axes)[number]);
+    const xs = xa.ticks;
+    const ys = ya.ticks;
+    const x = axisOf(xs);
+    const y = axisOf(ys);
+    const where = `[${f.map((v) => Math.round(v)).join(', ')}]`;
+    const readTwice = (list: TickLabel[], from: Map<TickLabel, Word>) => list.flatMap((t) => {
+      const first = twoWays.get(from.get(t) as Word);
+      return first === undefined ? [] : [`"${first}" then "${t.text}"`];
+    });
+    if (!x || !y) {
+      questions.push(`The ${s.side} axis of the frame at ${where} (level pixels) has tick labels that were not read as an evenly spaced axis (${!x ? `flow labels read: ${xs.map((k) => k.text).join(' ') || 'none'}` : ''}${!x && !y ? '; ' : ''}${!y ? `value labels read: ${ys.map((k) => k.text).join(' ') || 'none'}` : ''}); place its anchors by hand.`);
+      continue;
+    }
+    const disagreed = [...readTwice(x.inliers, xa.from), ...readTwice(y.inliers, ya.from)];
+    const anchors = crossings(x.inliers, y.inliers, level, image.scale);
+    let calibration;
+    try {
+      calibration = calibrate(anchors, { xScale: x.scale, yScale: y.scale });
+    } catch {
+      questions.push(`The frame at ${where} could not be calibrated from its tick labels; place its anchors by hand.`);
+      continue;
+    }
+    const titleIndex = sideTitleOf.get(s);
+    const title = titleIndex !== undefined ? (titleReadings[titleIndex]?.text ?? '') : '';
+    const flowIndex = flowTitleOf.get(f);
+    const flowTitle = flowIndex !== undefined ? (titleReadings[flowIndex]?.text ?? '') : '';
+    const quantity = title ? quantityOfTitle(title) : null;
+    const base = quantity ?? 'panel';
+    const n = (used.get(base) ?? 0) + 1;
+    used.set(base, n);
+    const id = n === 1 ? base : `${base}${n}`;
+    const proposal: PanelProposal = {
+      frame: [Math.min(...x.inliers.map((k) => k.at)), Math.min(...y.inliers.map((k) => k.at)), Math.max(...x.inliers.map((k) => k.at)), Math.max(...y.inliers.map((k) => k.at))],
+      x: { scale: x.scale, labels: x.inliers },
+      y: { scale: y.scale, labels: y.inliers },
+      anchors,
+      xScale: x.scale,
+      yScale: y.scale,
+      calibration,
+    };
+    const residual = calibration.maxPercentOfSpan;
+    let confidence = Math.min(1, 0.4 + 0.08 * Math.min(x.inliers.length, y.inliers.length)) * (residual <= 0.1 ? 1 : residual <= 0.3 ? 0.8 : 0.5);
+    const odd = [...x.outliers, ...y.outliers];
+    if (odd.length > 0) {
+      confidence *= 0.6;
+      questions.push(`Panel "${id}": the tick label${odd.length === 1 ? '' : 's'} ${odd.map((k) => `"${k.text}"`).join(', ')} read from the scan do${odd.length === 1 ? 'es' : ''} not fit the evenly spaced axis the other labels make; the panel is calibrated from the others. Is the axis read right?`);
+    }
+    if (disagreed.length > 0) {
+      confidence *= 0.7;
+      questions.push(`Panel "${id}": the tick label${disagreed.length === 1 ? ' was' : 's were'} read two ways (${disagreed.join(', ')}); the panel takes the second reading${disagreed.length === 1 ? '' : 's'}, which fit${disagreed.length === 1 ? 's' : ''} the evenly spaced axis of the other labels. Is that what the sheet prints?`);
+    }
+    if (!quantity) {
+      confidence *= 0.5;
+      questions.push(`What does the panel at ${where} plot (its ${s.side} axis title was ${title ? `read as "${title}"` : 'not read'})? Set its quantity in the take-off.`);
+    }
+    panels.push({
+      id,
+      quantity,
+      frame: sheetBox(f, level, image.scale),
+      side: s.side,
+      proposal,
+      title: title || null,
+      flowTitle: flowTitle || null,
+      yUnit: title ? unitOfTitle(title) : null,
+      xUnit: flowTitle ? unitOfTitle(flowTitle) : null,
+      confidence: Math.round(confidence * 100) / 100,
+    });
+  }
+  progress(1, 'panels found');
+  return { panels, frames, turnDeg, questions };
+}
+
+/** Anchors at grid crossings: every flow label with the lowest and highest value label, and every value label with the lowest and highest flow label; in sheet units. */
+function crossings(xs: readonly TickLabel[], ys: readonly TickLabel[], level: Level, scale: number): AnchorInput[] {
+  const ends = <T extends TickLabel>(list: readonly T[]) => [...list].sort((a, b) => a.at - b.at).filter((_, i, all) => i === 0 || i === all.length - 1);
+  const pairs = new Map<string, [TickLabel, TickLabel]>();
+  for (const x of xs) for (const y of ends(ys)) pairs.set(`${x.at}|${y.at}`, [x, y]);
+  for (const y of ys) for (const x of ends(xs)) pairs.set(`${x.at}|${y.at}`, [x, y]);
+  return [...pairs.values()].map(([x, y]) => {
+    const [px, py] = level.toImage(x.at, y.at);
+    return { at: [px / scale, py / scale] as [number, number], x: x.value, y: y.value };
+  });
+}
+
+/** The sheet-unit box around a level frame's corners. */
+function sheetBox(f: Box, level: Level, scale: number): Box {
+  const corners = [level.toImage(f[0], f[1]), level.toImage(f[2], f[1]), level.toImage(f[2], f[3]), level.toImage(f[0], f[3])];
+  const xs = corners.map((c) => c[0] / scale);
+  const ys = corners.map((c) => c[1] / scale);
+  return [Math.min(...xs), Math.min(...ys), Math.max(...xs), Math.max(...ys)];
+}

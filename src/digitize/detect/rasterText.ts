@@ -1,0 +1,198 @@
+/**
+ * Text on a level scan, for the tick labels and axis titles: connected blots of ink outside
+ * the frames, grouped into words along rows; crops of those words set one under another on a
+ * clean page (a mosaic) so that one call of the character reader reads them all; and the
+ * reader's words mapped back to their crops.
+ *
+ * The reader itself is handed in (TextReader): the core holds no recogniser, no file and no
+ * worker. The Node one is src/digitize/loaders/ocrNode.ts.
+ *
+ * Pure.
+ */
+import type { InkMap } from './ink.ts';
+import type { Box } from './panels.ts';
+
+/** A grey picture for the reader: one byte a pixel, 255 paper, 0 black. */
+export interface GreyImage {
+  readonly width: number;
+  readonly height: number;
+  readonly grey: Uint8Array;
+}
+
+export interface ReadWord {
+  text: string;
+  /** The reader's own confidence, 0–100. */
+  confidence: number;
+  /** [left, top, right, bottom] in the picture read, pixels. */
+  box: Box;
+}
+
+/** Reads the words of a picture; `digits` limits the reader to the characters of tick labels. */
+export interface TextReader {
+  read(image: GreyImage, what: 'digits' | 'words'): Promise<ReadWord[]>;
+}
+
+/** A blot or a word: box [left, top, right, bottom) in whole level pixels. */
+export interface Blot {
+  l: number;
+  t: number;
+  r: number;
+  b: number;
+}
+
+/** Connected blots of ink (8-neighbours) at or above `threshold`, outside the frames (inset 3 px), at most `maxSize` on a side. */
+export function inkBlots(map: InkMap, threshold: number, frames: readonly Box[], maxSize: number): Blot[] {
+  const { width, height, ink } = map;
+  const seen = new Uint8Array(width * height);
+  for (const [l, t, r, b] of frames) {
+    for (let y = Math.max(0, Math.ceil(t + 3)); y < Math.min(height, Math.floor(b - 3)); y++) seen.fill(1, y * width + Math.max(0, Math.ceil(l + 3)), y * width + Math.min(width, Math.floor(r - 3)));
+  }
+  const blots: Blot[] = [];
+  const stack: number[] = [];
+  for (let i = 0; i < ink.length; i++) {
+    if (seen[i] || (ink[i] as number) < threshold) continue;
+    seen[i] = 1;
+    stack.push(i);
+    let l = width;
+    let t = height;
+    let r = 0;
+    let b = 0;
+    let count = 0;
+    while (stack.length > 0) {
+      const k = stack.pop() as number;
+      const x = k % width;
+      const y = (k - x) / width;
+      count++;
+      if (x < l) l = x;
+      if (x > r) r = x;
+      if (y < t) t = y;
+      if (y > b) b = y;
+      for (let dy = -1; dy <= 1; dy++) {
+        const yy = y + dy;
+        if (yy < 0 || yy >= height) continue;
+        for (let dx = -1; dx <= 1; dx++) {
+          const xx = x + dx;
+          if (xx < 0 || xx >= width) continue;
+          const n = yy * width + xx;
+          if (seen[n] || (ink[n] as number) < threshold) continue;
+          seen[n] = 1;
+          stack.push(n);
+        }
+      }
+    }
+    if (count >= 3 && r - l + 1 <= maxSize && b - t + 1 <= maxSize) blots.push({ l, t, r: r + 1, b: b + 1 });
+  }
+  return blots;
+}
+
+/** Blots joined into words along a row: overlapping rows and a gap under 0.6 of the taller one's height. */
+export function wordsOf(blots: readonly Blot[]): Blot[] {
+  const sorted = [...blots].sort((a, b) => a.l - b.l);
+  const parent = sorted.map((_, i) => i);
+  const tallest = Math.max(0, ...sorted.map((b) => b.b - b.t));
+  // The common glyph height: a dot joins only a blot of about that height (a digit), never a long upright word.
+  const heights = sorted.map((b) => b.b - b.t).sort((x, y) => x - y);
+  const glyph = heights[Math.floor(heights.length / 2)] ?? 0;
+  const find = (i: number): number => (parent[i] === i ? i : (parent[i] = find(parent[i] as number)));
+  for (let i = 0; i < sorted.length; i++) {
+    const a = sorted[i] as Blot;
+    const ha = a.b - a.t;
+    for (let j = i + 1; j < sorted.length; j++) {
+      const c = sorted[j] as Blot;
+      const hc = c.b - c.t;
+      const tall = Math.max(ha, hc);
+      if (c.l - a.r > 0.6 * tallest) break;
+      const overlap = Math.min(a.b, c.b) - Math.max(a.t, c.t);
+      if (overlap < 0.5 * Math.min(ha, hc)) continue;
+      // A dot, comma or minus beside digits joins (small both ways); otherwise the two must be of
+      // about one height, and the gap is measured by the smaller (a tall blot, such as an upright
+      // title, does not swallow the labels beside it).
+      const small = ha <= hc ? a : c;
+      const dot = Math.min(ha, hc) <= 0.45 * tall && small.r - small.l <= 0.6 * tall && tall <= 1.6 * glyph;
+      if (!dot && Math.abs(ha - hc) > 0.35 * tall) continue;
+      if (c.l - a.r > 0.6 * (dot ? tall : Math.min(ha, hc))) continue;
+      parent[find(j)] = find(i);
+    }
+  }
+  const words = new Map<number, Blot>();
+  sorted.forEach((b, i) => {
+    const k = find(i);
+    const w = words.get(k);
+    words.set(k, w ? { l: Math.min(w.l, b.l), t: Math.min(w.t, b.t), r: Math.max(w.r, b.r), b: Math.max(w.b, b.b) } : { ...b });
+  });
+  return [...words.values()];
+}
+
+export interface Crop {
+  box: Blot;
+  /** Turned a quarter clockwise before reading (text written upwards). */
+  upright: boolean;
+}
+
+export interface CropReading {
+  text: string;
+  confidence: number;
+}
+
+/**
+ * Reads crops in one call: each crop enlarged so its height (level text) or width (upright
+ * text) is about `across` pixels (40 unless a second reading asks for another size), drawn dark on white with its ink stretched to full contrast, one
+ * under another with a line's gap between; the reader's words go back to the crop they lie on.
+ */
+export async function readCrops(map: InkMap, crops: readonly Crop[], reader: TextReader, what: 'digits' | 'words', inkFull: number, across = 40): Promise<CropReading[]> {
+  if (crops.length === 0) return [];
+  const pad = 6;
+  const placed: { y0: number; y1: number; w: number; h: number; k: number }[] = [];
+  let y = 20;
+  let width = 0;
+  for (const c of crops) {
+    const size = c.upright ? c.box.r - c.box.l : c.box.b - c.box.t;
+    const k = Math.max(1, Math.min(6, across / Math.max(1, size)));
+    const w = Math.round((c.upright ? c.box.b - c.box.t : c.box.r - c.box.l) * k) + 2 * pad;
+    const h = Math.round(size * k) + 2 * pad;
+    placed.push({ y0: y, y1: y + h, w, h, k });
+    y += h + Math.max(24, Math.round(0.8 * h));
+    width = Math.max(width, w + 40);
+  }
+  const height = y + 20;
+  const grey = new Uint8Array(width * height).fill(255);
+  crops.forEach((c, i) => {
+    const p = placed[i] as (typeof placed)[number];
+    for (let oy = 0; oy < p.h - 2 * pad; oy++) {
+      for (let ox = 0; ox < p.w - 2 * pad; ox++) {
+        // Level crop: (ox, oy) ← (l + ox/k, t + oy/k). Upright crop turned clockwise: (ox, oy) ← (l + oy/k, b − ox/k).
+        const sx = c.upright ? c.box.l + (oy + 0.5) / p.k - 0.5 : c.box.l + (ox + 0.5) / p.k - 0.5;
+        const sy = c.upright ? c.box.b - (ox + 0.5) / p.k - 0.5 : c.box.t + (oy + 0.5) / p.k - 0.5;
+        const v = sample(map, sx, sy);
+        grey[(p.y0 + pad + oy) * width + 20 + pad + ox] = 255 - Math.min(255, Math.round((255 * v) / inkFull));
+      }
+    }
+  });
+  const words = await reader.read({ width, height, grey }, what);
+  const out: CropReading[] = crops.map(() => ({ text: '', confidence: 100 }));
+  const parts: { x: number; text: string; confidence: number }[][] = crops.map(() => []);
+  for (const w of words) {
+    const cy = (w.box[1] + w.box[3]) / 2;
+    const i = placed.findIndex((p) => cy >= p.y0 - 4 && cy <= p.y1 + 4);
+    if (i >= 0) parts[i]!.push({ x: w.box[0], text: w.text, confidence: w.confidence });
+  }
+  parts.forEach((list, i) => {
+    list.sort((a, b) => a.x - b.x);
+    out[i] = { text: list.map((p) => p.text).join(what === 'digits' ? '' : ' ').trim(), confidence: list.length ? Math.min(...list.map((p) => p.confidence)) : 0 };
+  });
+  return out;
+}
+
+function sample(map: InkMap, x: number, y: number): number {
+  const x0 = Math.floor(x);
+  const y0 = Math.floor(y);
+  if (x0 < 0 || y0 < 0 || x0 >= map.width - 1 || y0 >= map.height - 1) return 0;
+  const fx = x - x0;
+  const fy = y - y0;
+  const i = y0 * map.width + x0;
+  const a = map.ink[i] as number;
+  const b = map.ink[i + 1] as number;
+  const c = map.ink[i + map.width] as number;
+  const d = map.ink[i + map.width + 1] as number;
+  return a + fx * (b - a) + fy * (c + fx * (d - c) - a - fx * (b - a));
+}

@@ -1,0 +1,177 @@
+/**
+ * Panels on scans: the page's turn, frames from rules, words from ink blots, and the whole
+ * reading of an INVENTED scan of the independent random bed with tesseract.js (offline): every
+ * panel found with its quantity and calibrated within 0.5 % of span (the issue's scan
+ * tolerance), and a misread tick label turned into a question, never into a silent error.
+ */
+import { afterAll, describe, expect, it } from 'vitest';
+import { inkMap, levelInk, levelOf, pageAngle } from '../../src/digitize/detect/ink.ts';
+import { findRasterFrames, gridLines, horizontalRules, transpose, type Rule } from '../../src/digitize/detect/rasterFrames.ts';
+import { findRasterPanels } from '../../src/digitize/detect/rasterPanels.ts';
+import { wordsOf, type TextReader } from '../../src/digitize/detect/rasterText.ts';
+import { decode } from '../../scripts/randomSheets/camera.ts';
+import { calibrationError, sheetGeometry } from '../../scripts/randomSheets/randomSheet.ts';
+import { scanFor } from '../../scripts/detectSheets/scanBed.ts';
+import { closeTextReaderNode, textReaderNode } from '../../src/digitize/loaders/ocrNode.ts';
+import type { RasterImage } from '../../src/digitize/raster.ts';
+import { detectTakeoff } from '../../src/digitize/detect/detect.ts';
+import { imageSheet } from '../../src/digitize/loaders/imageSheet.ts';
+import { parseTakeoffToDetect } from '../../src/model/takeoff.ts';
+
+afterAll(() => closeTextReaderNode());
+
+/** White page with dark straight lines at `deg` degrees (y down), 2 px thick. */
+function ruled(width: number, height: number, deg: number, rows: number[]): RasterImage {
+  const data = new Uint8ClampedArray(width * height * 4).fill(250);
+  const t = Math.tan((deg * Math.PI) / 180);
+  for (const y0 of rows) {
+    for (let x = 50; x < width - 50; x++) {
+      const yc = y0 + (x - width / 2) * t;
+      for (let y = Math.floor(yc - 2); y <= Math.ceil(yc + 2); y++) {
+        const cover = Math.max(0, Math.min(1, 1.5 - Math.abs(y + 0.5 - yc)));
+        const o = (y * width + x) * 4;
+        for (let c = 0; c < 3; c++) data[o + c] = Math.min(data[o + c] as number, 250 - 230 * cover);
+      }
+    }
+  }
+  return { width, height, data, scale: 1 };
+}
+
+describe('the page turn', () => {
+  it.each([-1.7, -0.3, 0, 0.45, 1.9])('reads a page turned %f° within 0.01°', (deg) => {
+    const image = ruled(1200, 900, deg, [150, 300, 420, 600, 750]);
+    const map = inkMap(image);
+    expect(Math.abs((pageAngle(map, 100) * 180) / Math.PI - deg)).toBeLessThanOrEqual(0.01);
+  });
+
+  it('turning level puts the rules on rows, and the level map maps back to the image', () => {
+    const image = ruled(1200, 900, 1.2, [300, 600]);
+    const map = inkMap(image);
+    const level = levelOf(pageAngle(map, 100), map.width, map.height);
+    const rules = horizontalRules(levelInk(map, level), 100, 600);
+    expect(rules).toHaveLength(2);
+    for (const r of rules) {
+      // The rule's middle maps back onto the drawn line at the image's centre column (within 0.3 px).
+      const [x, y] = level.toImage(600, r.at);
+      const drawn = [300, 600].map((y0) => y0 + (x - 600) * Math.tan((1.2 * Math.PI) / 180));
+      expect(Math.min(...drawn.map((d) => Math.abs(d - y)))).toBeLessThanOrEqual(0.3);
+    }
+  });
+});
+
+describe('frames from rules', () => {
+  const h = (at: number, from: number, to: number): Rule => ({ at, from, to });
+  it('a side broken by a label box still closes the frame; two frames stacked stay two', () => {
+    const horizontal = [h(100, 50, 850), h(400, 50, 850), h(480, 50, 850), h(700, 50, 850)];
+    const vertical = [h(50, 100, 400), h(850, 100, 250), h(850, 310, 400), h(50, 480, 700), h(850, 480, 700)];
+    const frames = findRasterFrames(horizontal, vertical, 100, 6);
+    expect(frames).toEqual([
+      [50, 100, 850, 400],
+      [50, 480, 850, 700],
+    ]);
+  });
+
+  it('grid lines are found where the median contrast along them stands out, not where a curve crosses', () => {
+    const image = ruled(800, 600, 0, [100, 200, 300, 400, 500]);
+    // A curve-like dark stroke along row 250 over a tenth of the width.
+    for (let x = 300; x < 380; x++) for (let y = 249; y <= 251; y++) image.data.fill(20, (y * 800 + x) * 4, (y * 800 + x) * 4 + 3);
+    const lines = gridLines(inkMap(image), [50, 60, 750, 540], 'y');
+    expect(lines.map(Math.round)).toEqual([100, 200, 300, 400, 500]);
+  });
+});
+
+describe('words from blots', () => {
+  it('a decimal point joins its digits; an upright title beside a label does not swallow it', () => {
+    const digits = [
+      { l: 100, t: 50, r: 110, b: 64 },
+      { l: 112, t: 50, r: 122, b: 64 },
+      { l: 124, t: 61, r: 127, b: 64 },
+      { l: 129, t: 50, r: 139, b: 64 },
+    ];
+    const title = { l: 40, t: 20, r: 56, b: 120 };
+    const label = { l: 70, t: 60, r: 90, b: 74 };
+    const glyphs = Array.from({ length: 12 }, (_, i) => ({ l: 300 + 12 * i, t: 200, r: 310 + 12 * i, b: 214 }));
+    const words = wordsOf([...digits, title, label, ...glyphs]);
+    expect(words).toContainEqual({ l: 100, t: 50, r: 139, b: 64 });
+    expect(words).toContainEqual(title);
+    expect(words).toContainEqual(label);
+  });
+});
+
+describe('an INVENTED scan of the random bed', () => {
+  const seed = 3;
+  async function load(): Promise<RasterImage> {
+    const { jpeg } = await scanFor(seed);
+    const d = await decode(Buffer.from(jpeg));
+    return { width: d.width, height: d.height, data: d.data, scale: 1 };
+  }
+
+  it('finds every panel with its quantity, calibrated within 0.5 % of span, asking nothing', { timeout: 120_000 }, async () => {
+    const { plan, shot } = sheetGeometry(seed, 'scan');
+    const found = await findRasterPanels(await load(), textReaderNode());
+    expect(found.questions).toEqual([]);
+    expect(found.panels.map((p) => p.quantity).sort()).toEqual(plan.panels.map((p) => p.quantity).sort());
+    expect(Math.abs(found.turnDeg - shot.rotationDeg)).toBeLessThan(0.05);
+    for (const p of found.panels) {
+      const drawn = plan.panels.find((k) => k.quantity === p.quantity)!;
+      // The real error over a 9 × 9 grid of the panel, against the values the plan drew there.
+      expect(calibrationError(plan, shot, drawn.id, (q) => p.proposal.calibration.toData(q as never) as unknown as readonly [number, number])).toBeLessThan(0.5);
+    }
+  });
+
+  it('a tick label misread once is read again; the two readings disagree, so the panel asks one question naming both, and is calibrated right', { timeout: 120_000 }, async () => {
+    const { plan, shot } = sheetGeometry(seed, 'scan');
+    const real = textReaderNode();
+    let spoiled = '';
+    const reader: TextReader = {
+      async read(image, what) {
+        const words = await real.read(image, what);
+        if (what !== 'digits' || spoiled !== '') return words; // the first reading only: a second, larger one reads it right
+        // The third label read becomes another number (as a smudge might make it).
+        const w = words[2]!;
+        spoiled = `${w.text}7`;
+        return words.map((k) => (k === w ? { ...k, text: spoiled } : k));
+      },
+    };
+    const found = await findRasterPanels(await load(), reader);
+    expect(spoiled).not.toBe('');
+    expect(found.questions).toHaveLength(1);
+    expect(found.questions[0]).toMatch(new RegExp(`read two ways \\("${spoiled.replace('.', '\\.')}" then "`));
+    expect(found.panels.map((p) => p.quantity).sort()).toEqual(plan.panels.map((p) => p.quantity).sort());
+    for (const p of found.panels) {
+      const drawn = plan.panels.find((k) => k.quantity === p.quantity)!;
+      expect(calibrationError(plan, shot, drawn.id, (q) => p.proposal.calibration.toData(q as never) as unknown as readonly [number, number])).toBeLessThan(0.5);
+    }
+  });
+});
+
+describe('an INVENTED photo of the random bed, taken at an angle', () => {
+  it('is not calibrated from a rectangle it is not: no panel, one question saying why', { timeout: 120_000 }, async () => {
+    const { jpeg } = await scanFor(5, 'photo');
+    const d = await decode(Buffer.from(jpeg));
+    const found = await findRasterPanels({ width: d.width, height: d.height, data: d.data, scale: 1 }, textReaderNode());
+    expect(found.panels).toEqual([]);
+    expect(found.questions).toHaveLength(1);
+    expect(found.questions[0]).toMatch(/not square on the image .* place four anchors/);
+  });
+});
+
+describe('detectTakeoff on a scan', () => {
+  it('completes a take-off that gives only the traces: found panels marked detected, the engineer\'s traces kept; a trace on a panel not found waits with a question', { timeout: 120_000 }, async () => {
+    const { jpeg, takeoff } = await scanFor(3);
+    const d = await decode(Buffer.from(jpeg));
+    const image = { width: d.width, height: d.height, data: d.data, scale: 1 };
+    const sheet = imageSheet(image, 'f'.repeat(64), () => image);
+    const raw: Record<string, unknown> = { ...takeoff, sheet: '3.jpg', traces: [...takeoff.traces, { ...takeoff.traces[0]!, id: 'stray', panel: 'npshr' }] };
+    delete raw.panels;
+    const found = await detectTakeoff(parseTakeoffToDetect(raw), raw, sheet, { reader: textReaderNode() });
+    expect(found.takeoff.panels.map((p) => [p.id, p.origin])).toEqual([
+      ['head', 'detected'],
+      ['power', 'detected'],
+    ]);
+    expect(found.takeoff.traces.map((t) => t.id)).toEqual(takeoff.traces.map((t) => t.id));
+    expect(found.questions).toHaveLength(1);
+    expect(found.questions[0]).toMatch(/"npshr" of the trace "stray" was not found/);
+    expect(found.document.detected).toMatchObject({ by: expect.stringMatching(/scans/) });
+  });
+});
