@@ -34,12 +34,13 @@ describe('a speed family in the workbench record', () => {
     d = apply(d, setSpeeds(parseSpeedList('100 90 80 %', 1480)));
     expect(d.speeds).toEqual([1480, 1332, 1184]);
     const first = targetFor(d, 'head');
-    expect(first.diameter).toBe(1480);
-    d = apply(d, addTrace({ panel: 'head-1', quantity: 'head', diameter: first.diameter as number }, [[150, 150]], [[100, 120], [300, 200], [480, 300]]));
+    expect(first.speed).toBe(1480);
+    expect(first.diameter).toBeUndefined();
+    d = apply(d, addTrace({ panel: 'head-1', quantity: 'head', speed: first.speed as number }, [[150, 150]], [[100, 120], [300, 200], [480, 300]]));
     expect(d.traces[0]).toMatchObject({ speed: 1480 });
     expect(d.traces[0]?.diameter).toBeUndefined();
-    expect(nextTarget(d, first).diameter).toBe(1332);
-    d = apply(d, addTrace({ panel: 'head-1', quantity: 'head', diameter: 1332 }, [[150, 170]], [[100, 140], [300, 220], [450, 320]]));
+    expect(nextTarget(d, first).speed).toBe(1332);
+    d = apply(d, addTrace({ panel: 'head-1', quantity: 'head', speed: 1332 }, [[150, 170]], [[100, 140], [300, 220], [450, 320]]));
     // Relabelled in the list of traces: the speed changes, no diameter appears.
     d = apply(d, setTraceSpec(d.traces[1]!.id, { speed: 1184 }));
     expect(d.traces[1]).toMatchObject({ speed: 1184 });
