@@ -10,7 +10,7 @@
 import { CURVESET_FORMAT, CURVESET_VERSION, CurveSet, type Curve, type CurvePoint, type DisplayUnits, type DrawnAs, type Finding, type Fluid, type Member, type Provenance, type Pump, type Quantity } from '../model/curveset.ts';
 import { TOOL_NAME, TOOL_VERSION } from '../version.ts';
 import { displayFor, makeFinding, runChecks, sortFindings } from './checks/index.ts';
-import { fitCurve } from './chooseDegree.ts';
+import { chooseDegree } from './chooseDegree.ts';
 import { deriveFigures } from './derived.ts';
 import { familyFigures } from './checks/speedFigures.ts';
 import { fitEvidenceFindings } from './checks/fitEvidence.ts';
@@ -89,8 +89,11 @@ export function buildCurveSet(input: BuildInput): CurveSet {
       const drawnAs = m.drawnAs?.[quantity];
       const curve: Curve = drawnAs ? { points, drawn_as: drawnAs } : { points };
       try {
-        curve.fit = fitCurve(points, quantity, { tolerance: accuracy[quantity] });
-        fitFindings.push(...fitEvidenceFindings({ member: { ...shell, label: m.label }, quantity, points, fit: curve.fit, tolerance: accuracy[quantity], sources }, show));
+        const choice = chooseDegree(points, quantity, { tolerance: accuracy[quantity] });
+        curve.fit = choice.fit;
+        const refused = choice.withinTolerance ? undefined : choice.candidates.find((c) => c.degree > choice.fit.degree && c.fit && c.withinTolerance && c.problems.length > 0);
+        const refusedForShape = refused?.fit ? { degree: refused.degree, rms: refused.fit.rms, problems: refused.problems } : undefined;
+        fitFindings.push(...fitEvidenceFindings({ member: { ...shell, label: m.label }, quantity, points, fit: curve.fit, tolerance: accuracy[quantity], sources, refusedForShape }, show));
       } catch (error) {
         if (!(error instanceof Error) || error.name !== 'FitError') throw error;
         fitFindings.push(
