@@ -8,21 +8,12 @@ import { describe, expect, it } from 'vitest';
 import { bracketingSpeeds } from '../../src/fit/speedFamily.ts';
 import { evaluateUnchecked } from '../../src/fit/polynomial.ts';
 import { pumpCurveAtSpeed } from '../../src/duty/pumpCurve.ts';
-import { parseStudy } from '../../src/model/study.ts';
 import type { CurveSet } from '../../src/model/curveset.ts';
 import { ownCurve } from '../../src/record/overlay.ts';
 import { runStudy } from '../../src/study/runStudy.ts';
 import { inventedSpeedFamily, speedFamilyPointsText } from '../../src/demo/inventedSpeedFamily.ts';
 import { buildSpeedSetFromText } from './buildSpeedSet.ts';
-import { ISSUE_STUDY } from '../study/issueStudy.ts';
-
-const study = parseStudy({
-  ...ISSUE_STUDY,
-  duty: { flow: 90 },
-  suction: { surface_above_eye: [1.0, 1.0], pipes: [{ diameter: 154.1, length: 10, roughness: 0.045, k: 1.0 }] },
-  discharge: { static_head: [6, 8], pipes: [{ diameter: 154.1, length: 100, roughness: 0.045, k: 3 }] },
-  options: [{ name: 'speed', curveset: 'x', impeller: 'drawn', control: 'speed' }],
-});
+import { SPEED_CONTROL_STUDY as study } from './speedStudyInput.ts';
 
 describe('the own curve of a speed-family option on the sheet', () => {
   it('comes from the nearest drawn speed at or above the duty speed', () => {
