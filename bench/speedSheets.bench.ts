@@ -9,24 +9,15 @@
  *   SPEED_SHEETS=10 SPEED_SEED=1 npm run bench -- speedSheets
  *
  * SPEED_MONO=1 draws every speed in one colour. Per-trace reasons: scripts/randomSheets/speedDump.ts.
+ * Sheets are drawn once and kept in artifacts/speed-sheets/ (the dump's cache), so a second run
+ * measures only the take-off.
  */
-import { createHash } from 'node:crypto';
-import { decode } from '../scripts/randomSheets/camera.ts';
 import { scoreReplay, type CurveScore } from '../scripts/randomSheets/score.ts';
-import { makeSpeedSheet, speedTruthSource, type SpeedSheet } from '../scripts/randomSheets/speedSheet.ts';
-import { imageSheet } from '../src/digitize/loaders/imageSheet.ts';
-import { loadPdfSheetNode } from '../src/digitize/loaders/pdfNode.ts';
-import type { Sheet } from '../src/digitize/sheet.ts';
+import { benchOptions, cachedSpeedSheet, sheetOf } from '../scripts/randomSheets/speedDump.ts';
+import { speedTruthSource, type SpeedSheet } from '../scripts/randomSheets/speedSheet.ts';
 import { replayTakeoff } from '../src/digitize/takeoff.ts';
 import type { CurveSet } from '../src/model/curveset.ts';
 import { parseTakeoff } from '../src/model/takeoff.ts';
-
-async function sheetOf(s: SpeedSheet): Promise<Sheet> {
-  if (s.takeoff.sheet.endsWith('.pdf')) return loadPdfSheetNode(s.bytes);
-  const d = await decode(Buffer.from(s.bytes));
-  const raster = { width: d.width, height: d.height, data: d.data, scale: 1 };
-  return imageSheet(raster, createHash('sha256').update(s.bytes).digest('hex'), () => raster);
-}
 
 async function replay(s: SpeedSheet): Promise<CurveSet | { refused: string }> {
   const sheet = await sheetOf(s);
@@ -53,7 +44,7 @@ export default async function bench(): Promise<void> {
   const rows: (CurveScore & { seed: number; kind: string })[] = [];
   for (let seed = first; seed < first + count; seed++) {
     for (const kind of ['vector', 'scan'] as const) {
-      const s = await makeSpeedSheet(seed, { kind, efficiencyAs: seed % 2 ? 'iso' : 'curves', minFlowLine: seed % 3 === 0, ...(monochrome ? { monochrome } : {}) });
+      const s = await cachedSpeedSheet(seed, benchOptions(seed, kind));
       const set = await replay(s);
       for (const r of scoreReplay(s.family, s.truth, set, speedTruthSource(s.family))) rows.push({ ...r, seed, kind });
     }

@@ -92,9 +92,14 @@ function joinGroup(group: readonly Piece[], tolerance: number, bridge: number): 
           if (e.piece === (ends[j] as End).piece) continue;
           const gap = Math.hypot(e.at[0] - f.at[0], e.at[1] - f.at[1]);
           if (gap > bridge) continue;
+          // A dot (a one-point piece: the last sliver of a dashed line) has no direction; it joins
+          // only on the tangent of a piece that has one, which then decides alone.
+          const eDot = e.out[0] === 0 && e.out[1] === 0;
+          const fDot = f.out[0] === 0 && f.out[1] === 0;
+          if (eDot && fDot) continue;
           // Smooth continuation: the two outward directions point against each other.
           const cos = -(e.out[0] * f.out[0] + e.out[1] * f.out[1]);
-          const turn = Math.acos(Math.max(-1, Math.min(1, cos)));
+          const turn = eDot || fDot ? 0 : Math.acos(Math.max(-1, Math.min(1, cos)));
           if (turn > MAX_TURN) continue;
           const bridged = gap > tolerance;
           const gx = f.at[0] - e.at[0];
@@ -103,7 +108,7 @@ function joinGroup(group: readonly Piece[], tolerance: number, bridge: number): 
           const lateral = Math.max(Math.abs(e.out[0] * gy - e.out[1] * gx), Math.abs(f.out[0] * gy - f.out[1] * gx));
           if (bridged) {
             // A dash gap runs straight on from both ends.
-            if ((e.out[0] * gx + e.out[1] * gy) / gap < BRIDGE_ALIGN || -(f.out[0] * gx + f.out[1] * gy) / gap < BRIDGE_ALIGN) continue;
+            if ((!eDot && (e.out[0] * gx + e.out[1] * gy) / gap < BRIDGE_ALIGN) || (!fDot && -(f.out[0] * gx + f.out[1] * gy) / gap < BRIDGE_ALIGN)) continue;
             if (lateral > Math.max(0.2, 0.15 * gap)) continue;
           }
           // Truest continuation first: on the tangent and heading the same way. Where two curves
@@ -140,11 +145,12 @@ function joinGroup(group: readonly Piece[], tolerance: number, bridge: number): 
       enter = next;
     }
   };
-  // Chains with a free end first, then the remaining cycles.
+  // Chains with a free end first, then the remaining cycles; a dot left alone is no line.
   ends.forEach((e, i) => {
     if (!visited[e.piece] && partner[i] === -1) {
       const { parts, count } = walk(i);
-      lines.push(makeLine(parts, false, open[e.piece] as Piece, count));
+      const line = makeLine(parts, false, open[e.piece] as Piece, count);
+      if (line.points.length >= 2) lines.push(line);
     }
   });
   ends.forEach((e, i) => {

@@ -8,7 +8,7 @@
  */
 import { buildCurveSet, type MemberInput } from '../fit/build.ts';
 import { makeFinding, sortFindings } from '../fit/checks/finding.ts';
-import { CurveSet, type CurvePoint, type Finding, type Quantity } from '../model/curveset.ts';
+import { CurveSet, type CurvePoint, type DrawnAs, type Finding, type Quantity } from '../model/curveset.ts';
 import { TakeoffError, takeoffFamily, type Takeoff, type Trace } from '../model/takeoff.ts';
 import { minFlowLimit } from '../fit/speedFamilyLimits.ts';
 import { SG_REFERENCE_DENSITY, toSI, type Unit } from '../units/index.ts';
@@ -23,6 +23,7 @@ import { arcLengths, nearestOnPolyline } from './polyline.ts';
 import { sheetPoint, type SheetPoint } from './points.ts';
 import { safeScale, type Sheet } from './sheet.ts';
 import { strokeLines } from './vectorCapture.ts';
+import { siblingGuides } from './vectorChoice.ts';
 import type { StrokeLine } from './strokeJoin.ts';
 import { checkTotalPoints, checkTracePoints } from '../model/limits.ts';
 import { resolveTakeoffUnits, traceUnits } from './takeoffUnits.ts';
@@ -105,7 +106,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
   const outcomes: TraceOutcome[] = [];
   let pointsSoFar = 0;
   // Each trace's guides, so a vector capture can tell which of several near lines is whose (vectorChoice.ts).
-  const siblingGuides = takeoff.traces.map((t) => ((t.points?.length ?? 0) > 0 ? [] : (t.guides ?? []).map(([x, y]) => sheetPoint(x, y))));
+  const siblings = siblingGuides(takeoff.traces);
   const captureOne = async (index: number, trace: Trace, guides: readonly SheetPoint[] | undefined, captured?: CaptureResult): Promise<void> => {
     const id = trace.id ?? String(index + 1);
     const saved = trace.captured && trace.captured.length > 0 ? trace.captured.map(([x, y]) => sheetPoint(x, y)) : null;
@@ -115,7 +116,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
       outcome = { index, id, how: trace.captured_by ?? 'saved', fromFile: true, points: saved, notes: [] };
     } else {
       const got = captured ?? await captureTrace(
-        { points: trace.points?.map(([x, y]) => sheetPoint(x, y)), guides, method: trace.method, extent: trace.extent, frame: takeoff.panels.find((p) => p.id === trace.panel)?.frame, siblings: siblingGuides.filter((_, k) => k !== index) },
+        { points: trace.points?.map(([x, y]) => sheetPoint(x, y)), guides, method: trace.method, extent: trace.extent, frame: takeoff.panels.find((p) => p.id === trace.panel)?.frame, siblings: siblings.filter((_, k) => k !== index) },
         source,
         options.capture,
       ).catch((error: unknown) => {
@@ -196,9 +197,12 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
     const list = (member.points[quantity] ??= []);
     for (const p of pts) list.push(p);
     const named = ((member.sources ??= {})[quantity] ??= []); // names a point the fit misses by its trace
-    for (let i = 0; i < pts.length; i++) named.push({ text: `${by === "iso" ? "iso-trace" : "trace"} ${trace}`, trace });
+    for (let i = 0; i < pts.length; i++) named.push({ text: `${by.startsWith('iso') ? 'iso-trace' : 'trace'} ${trace}`, trace });
     const ways = how.get(quantity) ?? new Set<string>();
     how.set(quantity, ways.add(by));
+    const drawn: DrawnAs = by.startsWith('iso') ? 'iso-lines' : 'curve';
+    const had = (member.drawnAs ??= {})[quantity];
+    member.drawnAs[quantity] = had === undefined || had === drawn ? drawn : 'both';
   };
 
   const minFlowLine: CurvePoint[] = [];
@@ -232,7 +236,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
         const t = takeoff.traces[o.index] as Trace;
         return t.panel === trace.panel && t.quantity === 'head' && t.iso === undefined && (t.diameter ?? t.speed) !== undefined;
       })
-      .map((o) => ({ key: ((takeoff.traces[o.index] as Trace).diameter ?? (takeoff.traces[o.index] as Trace).speed) as number, points: o.points, width: o.lineWidth }));
+      .map((o) => ({ key: ((takeoff.traces[o.index] as Trace).diameter ?? (takeoff.traces[o.index] as Trace).speed) as number, points: o.points, width: o.lineWidth, how: o.how }));
     const crossings = isoCrossings(outcome.points, heads, DEFAULT_TOUCH_TOLERANCE, isoReach(cal, takeoff.panels.find((p) => p.id === trace.panel)?.anchors ?? []), outcome.lineWidth ?? 0);
     crossingsOf.set(outcome.id, crossings);
     const perHead = new Map<number, number>();
@@ -242,10 +246,12 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
       note('takeoff.iso-no-crossing', 'warn', `Iso-trace ${outcome.id} (${describeTrace(trace)}) crosses no head trace of panel "${trace.panel}"; it adds no points. Extend it across the head curves or trace those curves.`, outcome.id);
       continue;
     }
+    // A crossing is exact only where both lines are drawn paths; on a scan it is a reading.
+    const exactAt = (key: number) => outcome.how === 'vector' && heads.every((h) => h.key !== key || h.how === 'vector');
     for (const c of crossings) {
       const flow = toSI(cal.toData(c.at)[0], u.flow);
       if (flow < 0) continue;
-      add(trace.quantity, c.key, [[flow, toSI(trace.iso, u.value)]], 'iso', outcome.id);
+      add(trace.quantity, c.key, [[flow, toSI(trace.iso, u.value)]], exactAt(c.key) ? 'iso' : 'iso-read', outcome.id);
     }
   }
 
@@ -282,11 +288,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
 
   const readingAccuracy: Partial<Record<Quantity, number>> = {};
   for (const [quantity, ways] of how) {
-    // Exact vector geometry deserves a tighter reading accuracy than a scan.
-    if ([...ways].every((w) => w === 'vector' || w === 'iso')) {
-      const largest = Math.max(...[...members.values()].flatMap((m) => (m.points[quantity] ?? []).map((p) => Math.abs(p[1]))));
-      readingAccuracy[quantity] = quantity === 'efficiency' ? 0.003 : Math.max(1e-9, 0.0005 * largest);
-    }
+    if ([...ways].every((w) => w === 'vector' || w === 'iso')) readingAccuracy[quantity] = drawingPrecision(quantity, members.values());
   }
 
   // Members largest first; buildCurveSet keeps them one for one and in this order.
@@ -367,6 +369,20 @@ async function throughCrossings(
  * flow span (a tolerance in data units: common practice, about the gap a thick head curve
  * leaves at an iso-line's end on a printed sheet), measured at the middle of the panel.
  */
+/**
+ * The reading accuracy of a quantity read only from drawn paths and their exact crossings: the
+ * precision of the drawing itself, not of an eye. A vector path holds the maker's plotted line
+ * to about 0.01 pt (flatten.ts) and a crossing of two paths is exact; what is left is how finely
+ * the maker plotted the curve, taken as 0.05 % of the quantity's largest value (about 0.15 pt on
+ * a 300-pt panel, below a hairline; common practice). The same for every quantity: efficiency
+ * drawn as a curve or as iso-lines is no coarser than head (a fixed 0.3 points let a parabola
+ * stand 0.22 points off an exactly drawn efficiency curve).
+ */
+function drawingPrecision(quantity: Quantity, members: Iterable<MemberInput>): number {
+  const largest = Math.max(0, ...[...members].flatMap((m) => (m.points[quantity] ?? []).map((p) => Math.abs(p[1]))));
+  return Math.max(1e-9, 0.0005 * largest);
+}
+
 function isoReach(cal: Calibration, anchors: readonly { x?: number | undefined; y?: number | undefined }[]): number {
   const xs = anchors.flatMap((a) => (a.x === undefined ? [] : [a.x]));
   const ys = anchors.flatMap((a) => (a.y === undefined ? [] : [a.y]));

@@ -12,7 +12,7 @@
  * replay choose alike when both hand in the other traces' guides.
  */
 import { nearestOnPolyline, type PolylinePosition } from './polyline.ts';
-import type { SheetPoint } from './points.ts';
+import { sheetPoint, type SheetPoint } from './points.ts';
 import type { StrokeLine } from './strokeJoin.ts';
 
 /**
@@ -21,6 +21,14 @@ import type { StrokeLine } from './strokeJoin.ts';
  * meant for (common practice: a click is good to about ±1 screen pixel, ±1.5 points at 100 %).
  */
 export const DEFAULT_AMBIGUITY = 2;
+/**
+ * The guides the other traces hand in, one list per trace, as the replay and the workbench both
+ * pass them to a capture: a trace given by explicit points claims no path (an empty list).
+ */
+export function siblingGuides(traces: readonly { points?: readonly unknown[] | undefined; guides?: readonly (readonly [number, number])[] | undefined }[]): SheetPoint[][] {
+  return traces.map((t) => ((t.points?.length ?? 0) > 0 ? [] : (t.guides ?? []).map(([x, y]) => sheetPoint(x, y))));
+}
+
 /** Above this many joint choices the group is not searched and each trace keeps its nearest path. */
 const MAX_COMBINATIONS = 50_000;
 

@@ -47,7 +47,8 @@ export function scaleFit(fit: PolynomialFit, r: number, quantity: Quantity): Pol
 export function scaleCurve(curve: Curve, r: number, quantity: Quantity): Curve {
   const f = r ** VALUE_EXPONENT[quantity];
   const points = curve.points.map(([q, y]) => [q * r, y * f] as [number, number]);
-  return curve.fit ? { points, fit: scaleFit(curve.fit, r, quantity) } : { points };
+  const drawn = curve.drawn_as ? { drawn_as: curve.drawn_as } : {};
+  return curve.fit ? { points, fit: scaleFit(curve.fit, r, quantity), ...drawn } : { points, ...drawn };
 }
 
 function scaleCurves(curves: Member['curves'], r: number): Member['curves'] {

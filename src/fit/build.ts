@@ -7,10 +7,10 @@
  * (chooseDegree.ts); a curve that cannot be fitted keeps its points and gets a `fail`
  * finding instead of stopping the build, so no captured work is thrown away.
  */
-import { CURVESET_FORMAT, CURVESET_VERSION, CurveSet, type Curve, type CurvePoint, type DisplayUnits, type Finding, type Fluid, type Member, type Provenance, type Pump, type Quantity } from '../model/curveset.ts';
+import { CURVESET_FORMAT, CURVESET_VERSION, CurveSet, type Curve, type CurvePoint, type DisplayUnits, type DrawnAs, type Finding, type Fluid, type Member, type Provenance, type Pump, type Quantity } from '../model/curveset.ts';
 import { TOOL_NAME, TOOL_VERSION } from '../version.ts';
 import { displayFor, makeFinding, runChecks, sortFindings } from './checks/index.ts';
-import { fitCurve } from './chooseDegree.ts';
+import { chooseDegree } from './chooseDegree.ts';
 import { deriveFigures } from './derived.ts';
 import { familyFigures } from './checks/speedFigures.ts';
 import { fitEvidenceFindings } from './checks/fitEvidence.ts';
@@ -30,6 +30,8 @@ export interface MemberInput {
    * ("trace h12"), so that a point the fit misses can be named as the user knows it.
    */
   sources?: Partial<Record<Quantity, PointSource[]>>;
+  /** How the sheet drew each quantity (a take-off knows; a points table does not), kept in the curve. */
+  drawnAs?: Partial<Record<Quantity, DrawnAs>>;
 }
 
 /** The origin of one point: `text` names it in a sentence ("line 17"); `trace` links the finding to a trace. */
@@ -84,10 +86,14 @@ export function buildCurveSet(input: BuildInput): CurveSet {
       const points = order.map((i) => [...(raw[i] as CurvePoint)] as CurvePoint);
       const given = m.sources?.[quantity];
       const sources = given && given.length === raw.length ? order.map((i) => given[i] as PointSource) : undefined;
-      const curve: Curve = { points };
+      const drawnAs = m.drawnAs?.[quantity];
+      const curve: Curve = drawnAs ? { points, drawn_as: drawnAs } : { points };
       try {
-        curve.fit = fitCurve(points, quantity, { tolerance: accuracy[quantity] });
-        fitFindings.push(...fitEvidenceFindings({ member: { ...shell, label: m.label }, quantity, points, fit: curve.fit, tolerance: accuracy[quantity], sources }, show));
+        const choice = chooseDegree(points, quantity, { tolerance: accuracy[quantity] });
+        curve.fit = choice.fit;
+        const refused = choice.withinTolerance ? undefined : choice.candidates.find((c) => c.degree > choice.fit.degree && c.fit && c.withinTolerance && c.problems.length > 0);
+        const refusedForShape = refused?.fit ? { degree: refused.degree, rms: refused.fit.rms, problems: refused.problems } : undefined;
+        fitFindings.push(...fitEvidenceFindings({ member: { ...shell, label: m.label }, quantity, points, fit: curve.fit, tolerance: accuracy[quantity], sources, refusedForShape }, show));
       } catch (error) {
         if (!(error instanceof Error) || error.name !== 'FitError') throw error;
         fitFindings.push(

@@ -5,7 +5,7 @@
  *
  * Rules (common practice for reading pump curves):
  * - head: no minimum inside the domain; at most one maximum, and only where the captured
- *   points themselves rise toward it from shutoff (a drooping curve); a maximum that stays
+ *   points themselves rise to it from shutoff (a drooping curve); a maximum that stays
  *   within the resolution of the lowest-flow reading counts as level;
  * - efficiency: never negative on the domain; no minimum inside it; at most one maximum (the BEP);
  * - power and NPSHr: at most one extremum inside the domain (power may peak, NPSHr often has a
@@ -101,7 +101,8 @@ export function shapeProblems(
 ): string[] {
   const [a, b] = fit.domain;
   const flat = Math.max(context.tolerance, fit.rms ?? 0);
-  const extrema = interiorExtrema(fit, a, b).filter((e) => e.prominence > flat);
+  const all = interiorExtrema(fit, a, b);
+  const extrema = all.filter((e) => e.prominence > flat);
   const maxima = extrema.filter((e) => e.kind === 'maximum');
   const minima = extrema.filter((e) => e.kind === 'minimum');
   const at = (list: Extremum[]) => list.map((e) => context.formatFlow(e.flow)).join(', ');
@@ -115,15 +116,18 @@ export function shapeProblems(
     // A hump is judged against the reading at the lowest flow, not against the fit there: a
     // coarse fit often sits below its first point. It matters when the fit rises above that
     // reading by more than the resolution, and it is real (a drooping curve) only when the
-    // points themselves rise that much, with at least two of them before the peak.
-    const peak = interiorExtrema(fit, a, b)
+    // points themselves rise to it — the peak stands no more than the resolution above the
+    // highest point — with at least two of them before the peak. (Asking the points to rise by
+    // more than the resolution as well refused a real droop of about the resolution: a drawn
+    // head curve rising 0.011 m to its peak against 0.011 m fell back to a straight line.)
+    const peak = all
       .filter((e) => e.kind === 'maximum')
       .reduce<Extremum | undefined>((best, e) => (best === undefined || e.value > best.value ? e : best), undefined);
     const first = [...context.points].sort((p, r) => p[0] - r[0])[0];
     if (peak && first && peak.value - first[1] > flat) {
       const before = context.points.filter(([q]) => q < peak.flow).length;
-      const dataRise = Math.max(...context.points.map(([, y]) => y)) - first[1];
-      if (before < 2 || dataRise <= flat) problems.push(`a maximum at ${context.formatFlow(peak.flow)} that the points do not rise to from shutoff`);
+      const overshoot = peak.value - Math.max(...context.points.map(([, y]) => y));
+      if (before < 2 || overshoot > flat) problems.push(`a maximum at ${context.formatFlow(peak.flow)} that the points do not rise to from shutoff`);
     }
   }
   if (quantity === 'efficiency') {

@@ -182,12 +182,17 @@ function nearestSpeeds(drawn: readonly Member[], i: number): Member[] {
  * neighbours' scaled ranges (judged by the better one, so a short neighbour does not blame an
  * innocent curve) is named with a warning: nothing was read where it is missing, and a value
  * there would be an extrapolation. Nothing for a diameter family.
+ *
+ * A curve read only from iso-lines (`drawn_as: "iso-lines"`) is neither judged nor a neighbour:
+ * its points end at the last iso-line that crosses the head curve, wherever the end of curve is,
+ * so its range says nothing of a trace cut short (the iso-crossing audit of the take-off counts
+ * the crossings an iso-line missed instead). A curve of unknown origin is judged as a curve.
  */
 export function speedRangeFindings(set: Pick<CurveSet, 'members' | 'family'>): Finding[] {
   if (set.family !== 'speed') return [];
   const findings: Finding[] = [];
   for (const quantity of ['head', 'efficiency', 'power', 'npshr'] as const) {
-    const drawn = set.members.filter((m) => m.curves[quantity]?.fit).sort((a, b) => a.speed_rpm - b.speed_rpm);
+    const drawn = set.members.filter((m) => m.curves[quantity]?.fit && m.curves[quantity]?.drawn_as !== 'iso-lines').sort((a, b) => a.speed_rpm - b.speed_rpm);
     if (drawn.length < 2) continue;
     drawn.forEach((m, i) => {
       const shorts = nearestSpeeds(drawn, i)

@@ -62,9 +62,19 @@ export const PolynomialFit = z.strictObject({
 });
 export type PolynomialFit = z.infer<typeof PolynomialFit>;
 
+/**
+ * How the sheet drew a quantity for one member: as a curve of its own, as iso-lines whose
+ * crossings with the head curve give points (iso-efficiency lines), or both. Checks that judge a
+ * curve's drawn ends need it: points from iso-lines end at the last iso-line crossed, not at the
+ * end of curve. Absent when not known (a points table, a file written before it was kept).
+ */
+export const DrawnAs = z.enum(['curve', 'iso-lines', 'both']);
+export type DrawnAs = z.infer<typeof DrawnAs>;
+
 export const Curve = z.strictObject({
   points: z.array(CurvePoint),
   fit: PolynomialFit.optional(),
+  drawn_as: DrawnAs.optional().describe('how the sheet drew this curve: "curve", "iso-lines" (points where iso-lines cross the head curve) or "both"; absent when not known'),
 });
 export type Curve = z.infer<typeof Curve>;
 

@@ -188,10 +188,14 @@ export function buildOverlay(takeoff: Takeoff, calibrations: ReadonlyMap<string,
   return { panels, options, notes };
 }
 
-/** The option's own head curve when it differs from a drawn one: a trimmed or given impeller, or the speed at the duty. */
+/**
+ * The option's own head curve when it differs from a drawn one: a trimmed or given impeller, or the
+ * speed at the duty. A speed family is drawn at the duty speed from its nearest drawn speed at or
+ * above it (`curve_at_speed`, as the study reads it), not from the rated curve scaled down.
+ */
 export function ownCurve(r: OptionResult): PumpCurve | undefined {
   if (!r.curve) return undefined;
-  if (r.control === 'speed' && r.speed_rpm && Math.abs(r.speed_rpm / r.curve.speed_rpm - 1) > 1e-6) return pumpCurveAtSpeed(r.curve, r.speed_rpm);
+  if (r.control === 'speed' && r.speed_rpm && Math.abs(r.speed_rpm / r.curve.speed_rpm - 1) > 1e-6) return r.curve_at_speed ?? pumpCurveAtSpeed(r.curve, r.speed_rpm);
   return r.option.impeller.kind === 'drawn' ? undefined : r.curve;
 }
 

@@ -21,6 +21,7 @@ import { curveAtDiameter, TRIM_SEARCH_FLOOR } from '../duty/meetDuty.ts';
 import { trimToDuty } from '../duty/trim.ts';
 import { parallelPumps, pumpCurveAtSpeed, pumpCurveOfMember, type PumpCurve } from '../duty/pumpCurve.ts';
 import { figuresAt, operatingPoint, type PointFigures } from '../duty/operatingPoint.ts';
+import { bracketingSpeeds } from '../fit/speedFamily.ts';
 import { curveAtSpeedInFamily, ratedMember, SPEED_FAMILY_NO_TRIM, speedToDuty, speedToDutyInFamily } from '../duty/speed.ts';
 import { systemHead, type SystemCurve } from '../duty/systemCurve.ts';
 import { runLoss, runsLoss, systemFromLoss, type LiquidFlowProps } from '../duty/pipeRun.ts';
@@ -69,6 +70,8 @@ export interface OptionResult {
   findings: StudyFinding[];
   /** For drawing: one pump's curve as run (trimmed or drawn, rated speed), and the two system curves. */
   curve?: PumpCurve;
+  /** For drawing a speed family (water) at the duty speed: the nearest drawn speed at or above it, scaled by the law. */
+  curve_at_speed?: PumpCurve;
   systems: { low: SystemCurve; high: SystemCurve };
 }
 
@@ -200,6 +203,8 @@ export function evaluateOption(set: CurveSet, o: ResolvedOption, words: Sentence
       }
     }
     if (speeds.length) runSpeed = Math.min(single.speed_rpm, Math.max(...speeds));
+    const at = result.speed_rpm;
+    if (set.family === 'speed' && !viscous && at !== undefined) result.curve_at_speed = curveAtSpeedInFamily(set, at, density, bracketingSpeeds(set, at).above).curve;
   }
 
   // Motor: non-overloading to the end of the curve at rated speed (common practice).

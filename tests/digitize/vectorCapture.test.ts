@@ -118,6 +118,27 @@ describe('capturing a drawn line from guides', () => {
     expect(got.points.at(-1)).toEqual([50, 100]);
   });
 
+  it('takes a dashed line written as filled dashes to its last sliver, and a lone sliver is no line', () => {
+    // A line along y = 0.25·x, drawn as filled dashes 4.5 long and 0.84 wide with gaps of 2,
+    // ending in a sliver 0.42 long: shorter than the line is wide, so its own axis runs across it.
+    const [ux, uy] = [1 / Math.hypot(1, 0.25), 0.25 / Math.hypot(1, 0.25)];
+    const w = 0.42;
+    const dash = (s0: number, s1: number): VectorPath => {
+      const at = (s: number, side: number): XY => [s * ux - side * w * uy, s * uy + side * w * ux];
+      const corners = [at(s0, -1), at(s1, -1), at(s1, 1), at(s0, 1)];
+      return { segments: [move(...corners[0]!), ...corners.slice(1).map((c) => line(...c)), { kind: 'close' }], stroke: null, fill: '#1f5fbf', lineWidth: 0, dashed: false };
+    };
+    const dashes = [0, 6.5, 13, 19.5, 26].map((s) => dash(s, s + 4.5));
+    const lines = strokeLines([...dashes, dash(32.5, 32.92)]);
+    const got = captureVector(lines, [P(10 * ux, 10 * uy)]);
+    // Ends at the middle of the last sliver (32.71 along the line), not at the last whole dash (30.5).
+    const end = got.points.at(-1)!;
+    expect(Math.hypot(end[0] - 32.71 * ux, end[1] - 32.71 * uy)).toBeLessThan(0.05);
+    expect(got.pieces).toBe(6);
+    // The sliver alone makes no line of one point.
+    expect(strokeLines([dash(32.5, 32.92)])).toEqual([]);
+  });
+
   it('does not join pieces of different colour', () => {
     const split = strokeLines([
       path([move(0, 0), line(100, 50)], '#ff0000'),

@@ -53,6 +53,10 @@ describe('shape of a fitted curve', () => {
     // Only one point before the peak is not enough to show a droop.
     const onePointBefore: [number, number][] = [[0, 40], [0.3, 40.25], [0.5, 40], [1, 38]];
     expect(shapeProblems(fit, 'head', context(onePointBefore, 0.1))).toHaveLength(1);
+    // Points that rise to the peak, though by no more than the resolution, show a real droop:
+    // the fit's peak stands 0.01 above the highest point, within the 0.245 resolution.
+    const risingByTheResolution: [number, number][] = [[0, 40], [0.1, 40.16], [0.2, 40.24], [0.3, 40.24], [0.5, 40], [1, 38]];
+    expect(shapeProblems(fit, 'head', context(risingByTheResolution, 0.245))).toEqual([]);
     // A rise within the reading accuracy, or within the fit's own RMS, counts as level ground.
     expect(shapeProblems(fit, 'head', context(flatAtShutoff, 0.3))).toEqual([]);
     expect(shapeProblems({ ...fit, rms: 0.3 }, 'head', context(flatAtShutoff, 0.1))).toEqual([]);

@@ -97,6 +97,27 @@ describe('a speed family from a points table', () => {
     expect(speedRangeFindings({ ...cut(0.6), family: 'diameter' })).toEqual([]);
   });
 
+  it('does not blame efficiency read from iso-lines for ending at the last iso-line, and still judges efficiency drawn as curves', () => {
+    const set = buildSpeedSetFromText(speedFamilyPointsText(inventedSpeedFamily(), { seed: 5 }));
+    // Every speed's efficiency ends at 60 % of its range, as where the last iso-line crosses the head curve.
+    const ending = (drawn_as: 'curve' | 'iso-lines' | 'both' | undefined) => ({
+      ...set,
+      members: set.members.map((m) => {
+        const eta = m.curves.efficiency!;
+        const [lo, hi] = eta.fit!.domain;
+        const fit = { ...eta.fit!, domain: [lo, lo + 0.6 * (hi - lo)] as [number, number] };
+        return { ...m, curves: { ...m.curves, efficiency: drawn_as ? { ...eta, fit, drawn_as } : { ...eta, fit } } };
+      }),
+    });
+    const named = (s: ReturnType<typeof ending>) => speedRangeFindings(s).filter((f) => f.code === 'affinity.speed-range').map((f) => `${f.subject.speed_rpm} ${f.subject.quantity}`).sort();
+    expect(named(ending('iso-lines'))).toEqual([]);
+    // Drawn as curves (or both, or not known), a curve ending there was cut short: each speed is named.
+    const all = ['1000 efficiency', '1150 efficiency', '1300 efficiency', '1450 efficiency'];
+    expect(named(ending('curve'))).toEqual(all);
+    expect(named(ending('both'))).toEqual(all);
+    expect(named(ending(undefined))).toEqual(all);
+  });
+
   it('warns when one speed\'s curve runs on past the end of curve the rest of the family gives it by Q ∝ n, and names only that speed', () => {
     const set = buildSpeedSetFromText(speedFamilyPointsText(inventedSpeedFamily(), { seed: 5 }));
     expect(speedRangeFindings(set).filter((f) => f.code === 'affinity.speed-overrun')).toEqual([]);

@@ -4,25 +4,17 @@
  * must agree with the exact invented family's speed at the study's own system head within 0.5 %.
  */
 import { describe, expect, it } from 'vitest';
-import { parseStudy } from '../../src/model/study.ts';
 import { runStudy } from '../../src/study/runStudy.ts';
 import { inventedSpeedFamily, speedFamilyPointsText } from '../../src/demo/inventedSpeedFamily.ts';
 import { buildSpeedSetFromText } from './buildSpeedSet.ts';
-import { ISSUE_STUDY } from '../study/issueStudy.ts';
+import { SPEED_CONTROL_STUDY } from './speedStudyInput.ts';
 
 const fam = inventedSpeedFamily();
 const set = buildSpeedSetFromText(speedFamilyPointsText(fam, { seed: 7 }));
 
 describe('a study on a speed family under speed control', () => {
   it('runs at the exact family speed within 0.5 %, with the NPSH3 caution among the findings', () => {
-    const study = parseStudy({
-      ...ISSUE_STUDY,
-      duty: { flow: 90 },
-      suction: { surface_above_eye: [1.0, 1.0], pipes: [{ diameter: 154.1, length: 10, roughness: 0.045, k: 1.0 }] },
-      discharge: { static_head: [6, 8], pipes: [{ diameter: 154.1, length: 100, roughness: 0.045, k: 3 }] },
-      options: [{ name: 'speed', curveset: 'x', impeller: 'drawn', control: 'speed' }],
-    });
-    const r = runStudy(study, () => set).ranked[0]!;
+    const r = runStudy(SPEED_CONTROL_STUDY, () => set).ranked[0]!;
     const q = 90 / 3600;
     // The system head at the duty at the highest static head, as the study computed it from its pipes.
     const need = r.operating_points.high!.head_m;

@@ -4,7 +4,10 @@
  * - `fit.point-off` (fail): points the curve misses by far more than the reading accuracy,
  *   judged against the curve through the other points (pointEvidence.ts);
  * - `fit.misses-accuracy` (warn / fail): the fit's RMS residual is well above the reading
- *   accuracy it was fitted to.
+ *   accuracy it was fitted to;
+ * - `fit.shape-fallback` (warn): the fit misses the reading accuracy (by less than the
+ *   `fit.misses-accuracy` margin) only because a higher degree that met it had an implausible
+ *   shape (shape.ts): a real fallback to a coarser curve is said, never silent.
  */
 import type { CurvePoint, Finding, Member, PolynomialFit, Quantity } from '../../model/curveset.ts';
 import type { Display } from './display.ts';
@@ -21,6 +24,8 @@ export interface FitEvidenceInput {
   tolerance: number;
   /** Where each point came from, in the order of `points`. */
   sources?: readonly { text: string; trace?: string }[] | undefined;
+  /** The lowest degree above the chosen one that met the reading accuracy but was refused for its shape. */
+  refusedForShape?: { degree: number; rms: number; problems: readonly string[] } | undefined;
 }
 
 const NAMES: Record<Quantity, string> = { head: 'head', efficiency: 'efficiency', power: 'power', npshr: 'NPSHr' };
@@ -95,6 +100,23 @@ export function fitEvidenceFindings(input: FitEvidenceInput, show: Display): Fin
   }
 
   const severity = fitMissesAccuracy(fit, tolerance);
+  const refused = input.refusedForShape;
+  if (!severity && refused && fit.rms > tolerance) {
+    out.push(
+      makeFinding({
+        code: 'fit.shape-fallback',
+        severity: 'warn',
+        member,
+        quantity,
+        message:
+          `The ${name} curve is fitted at degree ${fit.degree}, missing its points by ${differenceText(show, quantity, fit.rms)} RMS, above the ${accuracy} reading accuracy: ` +
+          `degree ${refused.degree} met it (${differenceText(show, quantity, refused.rms)} RMS) but had ${refused.problems.join(' and ')}. ` +
+          'Check the points for a bump where the trace caught another line; if the sheet really draws that shape, read more points along it.',
+        method: 'Lowest plausible degree within the reading accuracy (shape rules of src/fit/shape.ts; common practice)',
+        figures: { degree: fit.degree, rms: fit.rms, refused_degree: refused.degree, refused_rms: refused.rms, reading_accuracy: tolerance },
+      }),
+    );
+  }
   if (severity) {
     out.push(
       makeFinding({

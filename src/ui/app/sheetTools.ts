@@ -18,6 +18,7 @@ import { snapRadius, type ToolHost } from '../tools/tool.ts';
 import type { AnchorProposal } from '../worker/protocol.ts';
 import type { SheetWorkerClient } from '../worker/client.ts';
 import type { SheetKind } from '../../digitize/sheet.ts';
+import { siblingGuides } from '../../digitize/vectorChoice.ts';
 import { num } from '../views/words.ts';
 import type { Derived } from './bench.ts';
 import { bestProposal } from './proposals.ts';
@@ -101,15 +102,16 @@ export class SheetTools implements ToolHost {
     return this.snapNow(at);
   }
 
-  async capture(guides: readonly SheetXY[], method: 'auto' | 'vector' | 'raster', extent?: 'guides' | 'line', panel?: string): Promise<{ points: SheetXY[]; gaps: string[] }> {
+  async capture(guides: readonly SheetXY[], method: 'auto' | 'vector' | 'raster', extent?: 'guides' | 'line', panel?: string, traceId?: string): Promise<{ points: SheetXY[]; gaps: string[] }> {
     this.host.store.setSession({ busy: true, progress: { label: 'Tracing…', fraction: null } });
     try {
-      const answer = await this.host.worker.call('capture', { guides: guides.map((g) => [g[0], g[1]]), method, ...(extent ? { extent } : {}), ...frameOfPanel(this.host.store.draft.panels, panel) }, (p) => this.host.store.setSession({ progress: { label: p.label, fraction: p.fraction } }));
+      const siblings = siblingGuides(this.host.store.draft.traces.filter((t) => t.id !== traceId)).map((g) => g.map((p): [number, number] => [p[0], p[1]]));
+      const answer = await this.host.worker.call('capture', { guides: guides.map((g) => [g[0], g[1]]), method, ...(extent ? { extent } : {}), ...frameOfPanel(this.host.store.draft.panels, panel), siblings }, (p) => this.host.store.setSession({ progress: { label: p.label, fraction: p.fraction } }));
       if (answer.points.length < 2) {
         const why = answer.gaps.length ? ` (${answer.gaps.join(' ')})` : '';
         throw new Error(`No line could be followed from this click${why}; click right on the line, zoom in if lines run close, or add guides with Shift-click.`);
       }
-      return { points: answer.points, gaps: answer.gaps };
+      return { points: answer.points, gaps: [...answer.gaps, ...answer.doubts] };
     } finally {
       this.host.store.setSession({ busy: false, progress: null });
     }

@@ -378,7 +378,7 @@ export class Workbench implements Bench {
   retrace(id: string): void {
     const trace = this.store.draft.traces.find((t) => t.id === id);
     if (!trace || trace.guides.length === 0) return;
-    void this.sheetTools.capture(trace.guides, trace.method, trace.extent, trace.panel).then(
+    void this.sheetTools.capture(trace.guides, trace.method, trace.extent, trace.panel, id).then(
       ({ points, gaps }) => {
         this.store.dispatch(setGuides(id, trace.guides, points, 're-trace'));
         this.store.say(gaps.length ? gaps.join(' ') : `Re-traced: ${points.length} points.`, gaps.length ? 'caution' : 'done');

@@ -247,7 +247,7 @@ export class TraceTool implements Tool {
     this.state = { kind: 'capturing' };
     this.host.setPending(guides);
     try {
-      const { points, gaps } = await this.host.capture(guides, trace.method, trace.extent, trace.panel);
+      const { points, gaps } = await this.host.capture(guides, trace.method, trace.extent, trace.panel, trace.id);
       this.store.dispatch(setGuides(trace.id, guides, points, label));
       if (gaps.length) this.store.say(gaps.join(' '), 'caution');
       else this.store.say(`Re-traced: ${points.length} points.`, 'done');

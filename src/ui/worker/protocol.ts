@@ -20,6 +20,8 @@ export interface CaptureRequest {
   extent?: 'guides' | 'line';
   /** The panel's plot frame, as in the take-off file: a raster trace stops at it, as in the headless replay. */
   frame?: Rect;
+  /** The other traces' guides (vectorChoice.siblingGuides), so that a capture in a bunch takes the path the replay takes. */
+  siblings?: XY[][];
 }
 
 export interface CaptureAnswer {
@@ -28,6 +30,8 @@ export interface CaptureAnswer {
   used: 'vector' | 'raster';
   /** Sentences about stretches the tracer could not see, empty when it followed the line throughout. */
   gaps: string[];
+  /** Sentences about a choice the capture cannot vouch for (another drawn line as near its guides), empty when none. */
+  doubts: string[];
 }
 
 /** A panel calibration read from the text layer (without the calibration's functions). */
