@@ -256,6 +256,34 @@ describe('raster line following', () => {
     expect(worstOff(result.points, head)).toBeLessThan(1); // px: across the label the stretch is bridged smoothly
   });
 
+  it('carries a fast-bending line on across a long break where a label is written on it', () => {
+    const steep = (x: number) => 40 + 0.0011 * (x - 40) ** 2; // bends fast towards run-out
+    const image = picture(640, 460, (ctx) => {
+      stroke(ctx, steep, 20, 620, '#1a1a1a', 2);
+      ctx.fillStyle = '#ffffff';
+      ctx.fillRect(440, steep(440) - 4, 72, steep(512) - steep(440) + 8);
+      ctx.fillStyle = '#1a1a1a';
+      ctx.font = '14px "Liberation Sans"';
+      ctx.fillText('250 mm', 446, (steep(440) + steep(512)) / 2 + 5);
+    });
+    const result = traceRaster(image, [sheetPoint(100, steep(100)), sheetPoint(300, steep(300))]);
+    expect(Math.max(...result.points.map((p) => p[0]))).toBeGreaterThan(605); // px: the line's end at 620, beyond the 72-px break
+    expect(worstOff(result.points.filter((p) => p[0] < 440 || p[0] > 512), steep)).toBeLessThan(1.5); // px: on the line on both sides of the break
+  });
+
+  it('does not run on, unflagged, on to another line of its colour that starts beyond its end', () => {
+    const image = picture(640, 360, (ctx) => {
+      stroke(ctx, head, 20, 400, '#1a1a1a', 1.5);
+      // Another line, 7 px below the first one's course, beginning 40 px beyond its end.
+      stroke(ctx, (x) => head(x) + 7, 440, 620, '#1a1a1a', 1.5);
+    });
+    const result = traceRaster(image, [sheetPoint(100, head(100)), sheetPoint(300, head(300))]);
+    const beyond = Math.max(...result.points.map((p) => p[0])) > 420;
+    // Either the trace ends at its line's end, or it says that it may have gone on along another line.
+    if (beyond) expect(result.doubts.map((d) => d.code)).toContain('takeoff.end-after-gap');
+    expect(Math.max(...result.points.map((p) => p[0]))).toBeGreaterThan(395);
+  });
+
   it('keeps a dotted line dotted when a few of its dots are lost near the guide', () => {
     const image = picture(640, 300, (ctx) => {
       ctx.setLineDash([0.01, 6]);
