@@ -819,6 +819,13 @@ function extendToEnds(image: RasterImage, style: LineStyle, path: Px[], maxGap: 
       // took for it): look for it again further along its own course.
       const again = reacquire(image, style, all, maxGap, frame, counter);
       if (!again) break;
+      // Found beyond a gap's length (past what hid it): another line of its colour close beside
+      // the place would have passed the same test.
+      if (again.far && !doubts.some((d) => d.what === 'gap-beside')) {
+        const probe = pairs(followLine(image, style, again.at, again.heading, undefined, { maxGap: 2 * stepping(style.width).step, maxTravel: pieceLength(style.width) }, counter).points);
+        const lastSeen = all[all.length - 1] as Px;
+        if (probe.length >= 2 && besideAnother(image, style, probe, acrossDrift(style, Math.hypot(again.at[0] - lastSeen[0], again.at[1] - lastSeen[1])), counter)) doubts.push({ at: again.at, what: 'gap-beside' });
+      }
       end = again.at;
       heading = again.heading;
       resumed = out.length;
@@ -906,9 +913,12 @@ const MAX_REACQUIRE = 4;
  * its last stretch is followed on in steps, and at each a section across it looks for one clean
  * run of the line's colour and width within the tolerance `keepSmooth` allows at that distance,
  * with no other candidate near. A candidate counts only when the line followed from it for a
- * short way keeps to the same course. Undefined when nothing within `maxGap` qualifies.
+ * short way keeps to the same course. Where ink lies along the course (a label written over the
+ * line), the search runs on to `maxGap` past it (`OBSTACLE_REACH` gaps at most); a line found
+ * beyond `maxGap` must start right after that ink and head along the course (`FAR_TURN`), and
+ * `far` says so. Undefined when nothing qualifies.
  */
-function reacquire(image: RasterImage, style: LineStyle, all: readonly Px[], maxGap: number, frame: readonly [number, number, number, number] | undefined, counter: ReadCounter): { at: Px; heading: Px } | undefined {
+function reacquire(image: RasterImage, style: LineStyle, all: readonly Px[], maxGap: number, frame: readonly [number, number, number, number] | undefined, counter: ReadCounter): { at: Px; heading: Px; far: boolean } | undefined {
   const window = smoothWindow(style.width);
   const course = parabolaThrough(all, window);
   if (!course) return undefined;
@@ -916,13 +926,24 @@ function reacquire(image: RasterImage, style: LineStyle, all: readonly Px[], max
   const limit = smoothLimit(style);
   const runs: Run[] = [];
   const pick: Pick = { offset: 0, clean: false };
-  const reach = maxGap;
-  const maxN = Math.ceil((limit + 0.03 * reach + 2 * style.width + 2) / spacing) + 1;
+  // Ink on the course (a label written over the line, a crossing, a bunch) hides the line for as
+  // long as it lasts: the search runs a gap beyond it, up to `OBSTACLE_REACH` gaps in all.
+  let reach = maxGap;
+  const farthest = OBSTACLE_REACH * maxGap;
+  let inkFrom = -1;
+  let inkTo = -1;
+  const maxN = Math.ceil((limit + 0.03 * farthest + 2 * style.width + 2) / spacing) + 1;
   const section = new Float64Array(2 * maxN + 1);
   for (let d = 2 * step; d <= reach; d += step) {
     const [p, t] = course(d);
     if (p[0] < 1 || p[1] < 1 || p[0] > image.width - 1 || p[1] > image.height - 1) return undefined;
     if (frame && !insideFramePx(p, frame, image.scale, style.width)) return undefined;
+    if (inkOnCourse(image, style, p, counter)) {
+      if (inkFrom < 0 || d - inkTo > 2 * step) inkFrom = d;
+      inkTo = d;
+      // A stretch of ink along the course, not a line across it: what hides the line.
+      if (inkTo - inkFrom >= Math.max(10, 4 * style.width)) reach = Math.min(farthest, Math.max(reach, inkTo + maxGap));
+    }
     const allowed = limit + 0.03 * Math.max(0, d - window / 4);
     const n = Math.min(maxN, Math.ceil((allowed + 2 * style.width + 2) / spacing));
     const nx = -t[1];
@@ -930,6 +951,9 @@ function reacquire(image: RasterImage, style: LineStyle, all: readonly Px[], max
     if (style.reach) sampleLongSection(image, style.model, p[0], p[1], nx, ny, n, spacing, style.reach, section, counter);
     else sampleSection(image, style.model, p[0], p[1], nx, ny, n, spacing, section, counter);
     if (chooseOffset(findRuns(section, n, spacing, style.threshold, runs), style, allowed, pick) !== 'found' || !pick.clean) continue;
+    // Beyond a gap's length only right after what hid it: a label written over a line is cut out
+    // of it with a small margin, and the line goes on at once.
+    if (d > maxGap && d - inkTo > Math.max(15, 6 * style.width)) continue;
     const at: Px = [p[0] + nx * pick.offset, p[1] + ny * pick.offset];
     const probe = followLine(image, style, at, t, undefined, { maxGap: 2 * step, maxTravel: Math.max(24, 8 * style.width) }, counter);
     const seen = pairs(probe.points);
@@ -937,9 +961,39 @@ function reacquire(image: RasterImage, style: LineStyle, all: readonly Px[], max
     const lastSeen = seen[seen.length - 1] as Px;
     if (seen.length < RESUME_POINTS || Math.hypot(lastSeen[0] - first[0], lastSeen[1] - first[1]) < Math.max(10, 4 * style.width)) continue;
     if (keepSmooth(all, seen, style, 0).length < seen.length) continue;
-    return { at, heading: t };
+    // Past what hid it, the course is predicted far ahead: the piece must also head along it.
+    if (d > maxGap) {
+      const chord = Math.hypot(lastSeen[0] - first[0], lastSeen[1] - first[1]);
+      if (((lastSeen[0] - first[0]) * t[0] + (lastSeen[1] - first[1]) * t[1]) / chord < Math.cos(FAR_TURN)) continue;
+    }
+    return { at, heading: t, far: d > maxGap };
   }
   return undefined;
+}
+
+/** How far, in maximum gaps, the search for a lost line runs on past ink that lies on its course. */
+const OBSTACLE_REACH = 2;
+
+/** Largest angle, radians (about 6°), between the course and a line taken up past what hid it. */
+const FAR_TURN = 0.1;
+
+/**
+ * Whether ink of any colour (at least half the line's contrast with the paper) lies within a
+ * line width (2 px at least) of a point on the line's course.
+ */
+function inkOnCourse(image: RasterImage, style: LineStyle, p: Px, counter: ReadCounter): boolean {
+  const paper = style.model.paper;
+  const wanted = 0.5 * colourDistance(paper, ...style.model.line);
+  const [x0, y0, x1, y1] = windowAround(image, p[0], p[1], Math.max(2, style.width));
+  const { data, width } = image;
+  counter.reads += (x1 - x0) * (y1 - y0);
+  for (let y = y0; y < y1; y++) {
+    for (let x = x0; x < x1; x++) {
+      const i = (y * width + x) * 4;
+      if (colourDistance(paper, data[i] as number, data[i + 1] as number, data[i + 2] as number) >= wanted) return true;
+    }
+  }
+  return false;
 }
 
 /**

@@ -271,6 +271,36 @@ describe('raster line following', () => {
     expect(worstOff(result.points.filter((p) => p[0] < 440 || p[0] > 512), steep)).toBeLessThan(1.5); // px: on the line on both sides of the break
   });
 
+  it('runs on past a label written over a thin line that is longer than the gap it bridges', () => {
+    const image = picture(640, 360, (ctx) => {
+      stroke(ctx, head, 20, 620, '#c01818', 1);
+      // The label's knock-out is 100 px long: twice what a 1-px line bridges on its prediction alone (50 px).
+      ctx.fillStyle = '#ffffff';
+      ctx.fillRect(400, head(400) - 10, 100, head(500) - head(400) + 20);
+      ctx.fillStyle = '#c01818';
+      ctx.font = '20px "Liberation Sans"';
+      ctx.fillText('350 mm', 404, (head(400) + head(500)) / 2 + 7);
+    });
+    const result = traceRaster(image, [sheetPoint(100, head(100)), sheetPoint(300, head(300))]);
+    expect(Math.max(...result.points.map((p) => p[0]))).toBeGreaterThan(605); // px: the line's end at 620, beyond the label
+    expect(worstOff(result.points.filter((p) => p[0] < 400 || p[0] > 500), head)).toBeLessThan(1); // px: on the line on both sides
+  });
+
+  it('does not take up, past a label at a line\'s end, a grid line that crosses its course', () => {
+    const image = picture(640, 360, (ctx) => {
+      grid(ctx, 640, 360, 60);
+      stroke(ctx, head, 20, 400, '#333333', 1);
+      ctx.fillStyle = '#333333';
+      ctx.font = '20px "Liberation Sans"';
+      ctx.fillText('350 mm', 405, head(420) + 7);
+    });
+    const result = traceRaster(image, [sheetPoint(100, head(100)), sheetPoint(300, head(300))]);
+    // Whatever the trace keeps beyond the line's end lies on the line's own course, or the trace says it may not.
+    const beyond = result.points.filter((p) => p[0] > 405);
+    if (beyond.length > 0 && result.doubts.length === 0) expect(worstOff(beyond, head)).toBeLessThan(2);
+    expect(worstOff(result.points.filter((p) => p[0] <= 400), head)).toBeLessThan(1);
+  });
+
   it('does not run on, unflagged, on to another line of its colour that starts beyond its end', () => {
     const image = picture(640, 360, (ctx) => {
       stroke(ctx, head, 20, 400, '#1a1a1a', 1.5);
