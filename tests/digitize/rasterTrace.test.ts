@@ -40,6 +40,15 @@ function grid(ctx: SKRSContext2D, width: number, height: number, every: number):
   }
 }
 
+/** A label written over the line y = f(x) from x0 to x1: the line knocked out (with `margin` px above and below), the text in `colour`. */
+function labelOver(ctx: SKRSContext2D, f: (x: number) => number, x0: number, x1: number, margin: number, colour: string, size: number, text: string): void {
+  ctx.fillStyle = '#ffffff';
+  ctx.fillRect(x0, Math.min(f(x0), f(x1)) - margin, x1 - x0, Math.abs(f(x1) - f(x0)) + 2 * margin);
+  ctx.fillStyle = colour;
+  ctx.font = `${size}px "Liberation Sans"`;
+  ctx.fillText(text, x0 + 5, (f(x0) + f(x1)) / 2 + size / 3);
+}
+
 /** Largest vertical distance of the points from y = f(x). */
 function worstOff(points: readonly SheetPoint[], f: (x: number) => number): number {
   return Math.max(...points.map((p) => Math.abs(p[1] - f(p[0]))));
@@ -260,11 +269,7 @@ describe('raster line following', () => {
     const steep = (x: number) => 40 + 0.0011 * (x - 40) ** 2; // bends fast towards run-out
     const image = picture(640, 460, (ctx) => {
       stroke(ctx, steep, 20, 620, '#1a1a1a', 2);
-      ctx.fillStyle = '#ffffff';
-      ctx.fillRect(440, steep(440) - 4, 72, steep(512) - steep(440) + 8);
-      ctx.fillStyle = '#1a1a1a';
-      ctx.font = '14px "Liberation Sans"';
-      ctx.fillText('250 mm', 446, (steep(440) + steep(512)) / 2 + 5);
+      labelOver(ctx, steep, 440, 512, 4, '#1a1a1a', 14, '250 mm');
     });
     const result = traceRaster(image, [sheetPoint(100, steep(100)), sheetPoint(300, steep(300))]);
     expect(Math.max(...result.points.map((p) => p[0]))).toBeGreaterThan(605); // px: the line's end at 620, beyond the 72-px break
@@ -275,11 +280,7 @@ describe('raster line following', () => {
     const image = picture(640, 360, (ctx) => {
       stroke(ctx, head, 20, 620, '#c01818', 1);
       // The label's knock-out is 100 px long: twice what a 1-px line bridges on its prediction alone (50 px).
-      ctx.fillStyle = '#ffffff';
-      ctx.fillRect(400, head(400) - 10, 100, head(500) - head(400) + 20);
-      ctx.fillStyle = '#c01818';
-      ctx.font = '20px "Liberation Sans"';
-      ctx.fillText('350 mm', 404, (head(400) + head(500)) / 2 + 7);
+      labelOver(ctx, head, 400, 500, 10, '#c01818', 20, '350 mm');
     });
     const result = traceRaster(image, [sheetPoint(100, head(100)), sheetPoint(300, head(300))]);
     expect(Math.max(...result.points.map((p) => p[0]))).toBeGreaterThan(605); // px: the line's end at 620, beyond the label
