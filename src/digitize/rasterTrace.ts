@@ -691,7 +691,7 @@ const GUIDE_MEMBERSHIP = 0.6;
 
 /** A finding-worthy doubt about a followed stretch: a stable code and a sentence saying what to do. */
 export interface TraceDoubt {
-  code: 'takeoff.end-at-frame' | 'takeoff.guide-in-bunch' | 'takeoff.end-through-bunch';
+  code: 'takeoff.end-at-frame' | 'takeoff.guide-in-bunch' | 'takeoff.end-through-bunch' | 'takeoff.end-after-gap';
   message: string;
 }
 
@@ -702,7 +702,7 @@ export interface TraceDoubt {
  */
 interface EndDoubt {
   at: Px;
-  what: 'frame' | 'bunch' | 'bunch-end';
+  what: 'frame' | 'bunch' | 'bunch-end' | 'gap-beside';
   /** The guide concerned (1-based), for a doubt about a guide. */
   guide?: number;
 }
@@ -712,6 +712,12 @@ function doubtSentence(d: EndDoubt, at: SheetPoint): TraceDoubt {
     return {
       code: 'takeoff.end-through-bunch',
       message: `beyond its guides the trace runs through a stretch near ${fmt(at)} where the line runs together with other lines of its colour, and may have come out on a neighbour; check the trace's end, or add a guide near the line's end where it stands alone`,
+    };
+  }
+  if (d.what === 'gap-beside') {
+    return {
+      code: 'takeoff.end-after-gap',
+      message: `beyond its guides the line breaks off and is taken up again near ${fmt(at)} on its own course, but another line of its colour runs close beside it there, and the trace may have gone on along that one; check the trace's end, or add a guide on the line beyond the break`,
     };
   }
   if (d.what === 'bunch') {
@@ -793,7 +799,7 @@ function extendToEnds(image: RasterImage, style: LineStyle, path: Px[], maxGap: 
     for (let round = 0; round < MAX_REACQUIRE; round++) {
       const result = followLine(image, style, end, heading, undefined, limits, counter);
       const [inside] = judgeExtension(result, undefined, frame, image.scale, style.width);
-      const smooth = keepSmooth(all, inside, style, maxGap);
+      const smooth = keepSmooth(all, inside, style, maxGap, { image, counter, doubts });
       if (resumed >= 0 && pathLength([end, ...smooth], 0) < Math.max(FOUND_AGAIN_PX, 12 * style.width)) {
         // What was found again ends soon (a label beside the line's end, a piece of a grid
         // line): the line ended before the gap. Take the found part back.
@@ -813,6 +819,13 @@ function extendToEnds(image: RasterImage, style: LineStyle, path: Px[], maxGap: 
       // took for it): look for it again further along its own course.
       const again = reacquire(image, style, all, maxGap, frame, counter);
       if (!again) break;
+      // Found beyond a gap's length (past what hid it): another line of its colour close beside
+      // the place would have passed the same test.
+      if (again.far && !doubts.some((d) => d.what === 'gap-beside')) {
+        const probe = pairs(followLine(image, style, again.at, again.heading, undefined, { maxGap: 2 * stepping(style.width).step, maxTravel: pieceLength(style.width) }, counter).points);
+        const lastSeen = all[all.length - 1] as Px;
+        if (probe.length >= 2 && besideAnother(image, style, probe, acrossDrift(style, Math.hypot(again.at[0] - lastSeen[0], again.at[1] - lastSeen[1])), counter)) doubts.push({ at: again.at, what: 'gap-beside' });
+      }
       end = again.at;
       heading = again.heading;
       resumed = out.length;
@@ -900,9 +913,12 @@ const MAX_REACQUIRE = 4;
  * its last stretch is followed on in steps, and at each a section across it looks for one clean
  * run of the line's colour and width within the tolerance `keepSmooth` allows at that distance,
  * with no other candidate near. A candidate counts only when the line followed from it for a
- * short way keeps to the same course. Undefined when nothing within `maxGap` qualifies.
+ * short way keeps to the same course. Where ink lies along the course (a label written over the
+ * line), the search runs on to `maxGap` past it (`OBSTACLE_REACH` gaps at most); a line found
+ * beyond `maxGap` must start right after that ink and head along the course (`FAR_TURN`), and
+ * `far` says so. Undefined when nothing qualifies.
  */
-function reacquire(image: RasterImage, style: LineStyle, all: readonly Px[], maxGap: number, frame: readonly [number, number, number, number] | undefined, counter: ReadCounter): { at: Px; heading: Px } | undefined {
+function reacquire(image: RasterImage, style: LineStyle, all: readonly Px[], maxGap: number, frame: readonly [number, number, number, number] | undefined, counter: ReadCounter): { at: Px; heading: Px; far: boolean } | undefined {
   const window = smoothWindow(style.width);
   const course = parabolaThrough(all, window);
   if (!course) return undefined;
@@ -910,13 +926,24 @@ function reacquire(image: RasterImage, style: LineStyle, all: readonly Px[], max
   const limit = smoothLimit(style);
   const runs: Run[] = [];
   const pick: Pick = { offset: 0, clean: false };
-  const reach = maxGap;
-  const maxN = Math.ceil((limit + 0.03 * reach + 2 * style.width + 2) / spacing) + 1;
+  // Ink on the course (a label written over the line, a crossing, a bunch) hides the line for as
+  // long as it lasts: the search runs a gap beyond it, up to `OBSTACLE_REACH` gaps in all.
+  let reach = maxGap;
+  const farthest = OBSTACLE_REACH * maxGap;
+  let inkFrom = -1;
+  let inkTo = -1;
+  const maxN = Math.ceil((limit + 0.03 * farthest + 2 * style.width + 2) / spacing) + 1;
   const section = new Float64Array(2 * maxN + 1);
   for (let d = 2 * step; d <= reach; d += step) {
     const [p, t] = course(d);
     if (p[0] < 1 || p[1] < 1 || p[0] > image.width - 1 || p[1] > image.height - 1) return undefined;
     if (frame && !insideFramePx(p, frame, image.scale, style.width)) return undefined;
+    if (inkOnCourse(image, style, p, counter)) {
+      if (inkFrom < 0 || d - inkTo > 2 * step) inkFrom = d;
+      inkTo = d;
+      // A stretch of ink along the course, not a line across it: what hides the line.
+      if (inkTo - inkFrom >= Math.max(10, 4 * style.width)) reach = Math.min(farthest, Math.max(reach, inkTo + maxGap));
+    }
     const allowed = limit + 0.03 * Math.max(0, d - window / 4);
     const n = Math.min(maxN, Math.ceil((allowed + 2 * style.width + 2) / spacing));
     const nx = -t[1];
@@ -924,6 +951,9 @@ function reacquire(image: RasterImage, style: LineStyle, all: readonly Px[], max
     if (style.reach) sampleLongSection(image, style.model, p[0], p[1], nx, ny, n, spacing, style.reach, section, counter);
     else sampleSection(image, style.model, p[0], p[1], nx, ny, n, spacing, section, counter);
     if (chooseOffset(findRuns(section, n, spacing, style.threshold, runs), style, allowed, pick) !== 'found' || !pick.clean) continue;
+    // Beyond a gap's length only right after what hid it: a label written over a line is cut out
+    // of it with a small margin, and the line goes on at once.
+    if (d > maxGap && d - inkTo > Math.max(15, 6 * style.width)) continue;
     const at: Px = [p[0] + nx * pick.offset, p[1] + ny * pick.offset];
     const probe = followLine(image, style, at, t, undefined, { maxGap: 2 * step, maxTravel: Math.max(24, 8 * style.width) }, counter);
     const seen = pairs(probe.points);
@@ -931,9 +961,39 @@ function reacquire(image: RasterImage, style: LineStyle, all: readonly Px[], max
     const lastSeen = seen[seen.length - 1] as Px;
     if (seen.length < RESUME_POINTS || Math.hypot(lastSeen[0] - first[0], lastSeen[1] - first[1]) < Math.max(10, 4 * style.width)) continue;
     if (keepSmooth(all, seen, style, 0).length < seen.length) continue;
-    return { at, heading: t };
+    // Past what hid it, the course is predicted far ahead: the piece must also head along it.
+    if (d > maxGap) {
+      const chord = Math.hypot(lastSeen[0] - first[0], lastSeen[1] - first[1]);
+      if (((lastSeen[0] - first[0]) * t[0] + (lastSeen[1] - first[1]) * t[1]) / chord < Math.cos(FAR_TURN)) continue;
+    }
+    return { at, heading: t, far: d > maxGap };
   }
   return undefined;
+}
+
+/** How far, in maximum gaps, the search for a lost line runs on past ink that lies on its course. */
+const OBSTACLE_REACH = 2;
+
+/** Largest angle, radians (about 6°), between the course and a line taken up past what hid it. */
+const FAR_TURN = 0.1;
+
+/**
+ * Whether ink of any colour (at least half the line's contrast with the paper) lies within a
+ * line width (2 px at least) of a point on the line's course.
+ */
+function inkOnCourse(image: RasterImage, style: LineStyle, p: Px, counter: ReadCounter): boolean {
+  const paper = style.model.paper;
+  const wanted = 0.5 * colourDistance(paper, ...style.model.line);
+  const [x0, y0, x1, y1] = windowAround(image, p[0], p[1], Math.max(2, style.width));
+  const { data, width } = image;
+  counter.reads += (x1 - x0) * (y1 - y0);
+  for (let y = y0; y < y1; y++) {
+    for (let x = x0; x < x1; x++) {
+      const i = (y * width + x) * 4;
+      if (colourDistance(paper, data[i] as number, data[i + 1] as number, data[i + 2] as number) >= wanted) return true;
+    }
+  }
+  return false;
 }
 
 /**
@@ -942,11 +1002,19 @@ function reacquire(image: RasterImage, style: LineStyle, all: readonly Px[], max
  * (in the frame of their chord), the tolerance growing slowly with the distance from the last
  * accepted point. A drawn curve is smooth; what the follower picks up on the way (a label on the
  * line, a crossing iso-line, a grid line) bends away from that parabola. Such a stretch is left
- * out when the line is seen again on its own course beyond it, for at least `RESUME_POINTS`
- * points and `resumeLength` pixels, within `maxSkip` pixels; otherwise the extension is cut at
- * the stretch's start (the line's own end, or a neighbour it ran into).
+ * out when the line is seen again on its own course beyond it, within `maxSkip` pixels;
+ * otherwise the extension is cut at the stretch's start (the line's own end, or a neighbour it
+ * ran into).
+ *
+ * The line counts as seen again in either of two ways: `RESUME_POINTS` points and `resumeLength`
+ * pixels each close to the parabola (a short break), or, with `across` given, a continuous piece
+ * of ink at least `pieceLength(width)` long that continues the line across the break (see
+ * `continuesAcross`): over a longer break (a label written on the line, a crossing, a worn
+ * stretch of a scan) the parabola alone drifts by more than the point test allows, while the
+ * piece beyond, taken as a whole, still shows the line's own position and direction. A piece
+ * taken up where another line of the colour runs close beside it is kept with a doubt.
  */
-function keepSmooth(base: readonly Px[], extension: readonly Px[], style: LineStyle, maxSkip: number): Px[] {
+function keepSmooth(base: readonly Px[], extension: readonly Px[], style: LineStyle, maxSkip: number, across?: { image: RasterImage; counter: ReadCounter; doubts: EndDoubt[] }): Px[] {
   const width = style.width;
   const limit = smoothLimit(style);
   const window = smoothWindow(width);
@@ -958,8 +1026,36 @@ function keepSmooth(base: readonly Px[], extension: readonly Px[], style: LineSt
   let shortOnly = false;
   const resumeLengthShort = Math.max(40, 15 * width);
   let skippedFrom: Px | undefined;
+  // The continuous piece of ink seen since the line went off course (a candidate for `continuesAcross`).
+  let piece: Px[] = [];
+  const joined = 2.5 * stepping(width).step;
+  const wanted = pieceLength(width);
+  const takeUp = (points: readonly Px[]) => {
+    all.push(...points);
+    kept.push(...points);
+    resume = [];
+    piece = [];
+    shortOnly = false;
+    skippedFrom = undefined;
+  };
   for (const p of extension) {
     const last = all[all.length - 1] as Px;
+    if (across && skippedFrom) {
+      const prev = piece[piece.length - 1];
+      if (prev && Math.hypot(p[0] - prev[0], p[1] - prev[1]) > joined) piece = [];
+      piece.push(p);
+      while (piece.length >= RESUME_POINTS && pathLength(piece, 0) >= wanted) {
+        const verdict = continuesAcross(all, piece, style, across.image, across.counter);
+        if (verdict === 'off') {
+          piece.shift();
+          continue;
+        }
+        if (besideAnother(across.image, style, piece, acrossDrift(style, Math.hypot((piece[0] as Px)[0] - last[0], (piece[0] as Px)[1] - last[1])), across.counter) && !across.doubts.some((d) => d.what === 'gap-beside')) across.doubts.push({ at: piece[0] as Px, what: 'gap-beside' });
+        takeUp(piece);
+        break;
+      }
+      if (!skippedFrom) continue;
+    }
     // Judged on a long stretch (steady over a gap) and on a short one (where the line bends fast,
     // near an efficiency peak): either may vouch for the point. A point the short one alone vouches
     // for after a gap (the label on a line's end also lies after a gap, and bends gently) must hold
@@ -973,25 +1069,177 @@ function keepSmooth(base: readonly Px[], extension: readonly Px[], style: LineSt
         kept.push(p);
         continue;
       }
-      skippedFrom ??= last;
+      if (!skippedFrom) {
+        skippedFrom = last;
+        if (across) piece = [p];
+      }
       resume.push(p);
       if (!longOk) shortOnly = true;
       const r0 = resume[0] as Px;
-      if (resume.length >= RESUME_POINTS && Math.hypot(p[0] - r0[0], p[1] - r0[1]) >= (shortOnly ? resumeLengthShort : resumeLength)) {
-        all.push(...resume);
-        kept.push(...resume);
-        resume = [];
-        shortOnly = false;
-        skippedFrom = undefined;
-      }
+      if (resume.length >= RESUME_POINTS && Math.hypot(p[0] - r0[0], p[1] - r0[1]) >= (shortOnly ? resumeLengthShort : resumeLength)) takeUp(resume);
       continue;
     }
     shortOnly = false;
     resume = [];
-    skippedFrom ??= last;
+    if (!skippedFrom) {
+      skippedFrom = last;
+      if (across) piece = [p];
+    }
     if (Math.hypot(p[0] - skippedFrom[0], p[1] - skippedFrom[1]) > maxSkip) break;
   }
   return kept;
+}
+
+/** Length, pixels, of a continuous piece of ink judged as a whole for continuing a line across a break. */
+const pieceLength = (width: number) => Math.max(30, 10 * width);
+
+/**
+ * Whether `piece` (continuous ink beyond a break) continues the line that `all` ends with, as a
+ * drawn curve runs on across a label or a gap in its ink: the piece runs along the parabola
+ * through the line before the break (the slope of its offsets from it small: `ACROSS_SLOPE`, plus
+ * what half a smoothness limit of scatter at its ends makes of it), near it where it starts
+ * (`acrossDrift`), and carries about as much of the line's colour across it (`ACROSS_INK`). The
+ * parabola carries the line's own bending over the break. The line's last stretch before the
+ * break may be bent by what broke it, so the course is also taken from where that stretch begins.
+ * Only across a break longer than five widths (and 15 px): across a shorter one, the points
+ * themselves are judged (keepSmooth).
+ */
+function continuesAcross(all: readonly Px[], piece: readonly Px[], style: LineStyle, image: RasterImage, counter: ReadCounter): 'on' | 'off' {
+  const a = all[all.length - 1] as Px;
+  const b = piece[0] as Px;
+  if (Math.hypot(b[0] - a[0], b[1] - a[1]) < Math.max(15, 5 * style.width)) return 'off';
+  if (runsOnAcross(all, piece, style)) return sameInk(all, piece, style, image, counter) ? 'on' : 'off';
+  // The line's last stretch before the break may be bent by what broke it (a label's strokes, a
+  // crossing, a guide clicked on the label): judged again from where that stretch begins.
+  const trim = Math.max(12, 4 * style.width);
+  let k = all.length - 1;
+  while (k > 0 && pathLength(all, k - 1) < trim) k--;
+  const earlier = all.slice(0, k);
+  return runsOnAcross(earlier, piece, style) && sameInk(all, piece, style, image, counter) ? 'on' : 'off';
+}
+
+/** The course test of `continuesAcross`: the piece runs along the parabola through the line's end, near it. */
+function runsOnAcross(all: readonly Px[], piece: readonly Px[], style: LineStyle): boolean {
+  const window = smoothWindow(style.width);
+  const fit = fitParabola(all, window);
+  if (!fit) return false;
+  const a = all[all.length - 1] as Px;
+  const b = piece[0] as Px;
+  const z = piece[piece.length - 1] as Px;
+  const chord = Math.hypot(z[0] - b[0], z[1] - b[1]);
+  if (chord <= 0) return false;
+  const gap = Math.hypot(b[0] - a[0], b[1] - a[1]);
+  // Along the course: where the piece starts, seen from the line's end.
+  const along = (b[0] - a[0]) * fit.ux + (b[1] - a[1]) * fit.uy;
+  if (along <= 0) return false;
+  // Signed offsets of the piece's points from the parabola: the piece must run along it (about
+  // parallel) and near it (where it starts, within the drift allowed).
+  const limit = smoothLimit(style);
+  const { ux, uy } = fit;
+  const offsets = piece.map((p) => {
+    const t = ((p[0] - a[0]) * ux + (p[1] - a[1]) * uy) / window;
+    return -(p[0] - a[0]) * uy + (p[1] - a[1]) * ux - (fit.a + fit.b * t + fit.c * t * t);
+  });
+  // Least-squares line through the offsets against the distance along the piece: its level (the
+  // offset where the piece starts) and its slope (the piece's heading against the course's).
+  const along0: number[] = [0];
+  for (let i = 1; i < piece.length; i++) along0.push((along0[i - 1] as number) + Math.hypot((piece[i] as Px)[0] - (piece[i - 1] as Px)[0], (piece[i] as Px)[1] - (piece[i - 1] as Px)[1]));
+  const n = piece.length;
+  const ms = along0.reduce((x, y) => x + y, 0) / n;
+  const mo = offsets.reduce((x, y) => x + y, 0) / n;
+  let sso = 0;
+  let sss = 0;
+  for (let i = 0; i < n; i++) {
+    sso += ((along0[i] as number) - ms) * ((offsets[i] as number) - mo);
+    sss += ((along0[i] as number) - ms) ** 2;
+  }
+  const slope = sss > 0 ? sso / sss : Infinity;
+  const level = mo - slope * ms;
+  return Math.abs(level) <= acrossDrift(style, gap) && Math.abs(slope) <= ACROSS_SLOPE + (0.5 * limit) / chord;
+}
+
+/** The ink test of `continuesAcross`: about as much of the line's colour across the piece as across the line before it. */
+function sameInk(all: readonly Px[], piece: readonly Px[], style: LineStyle, image: RasterImage, counter: ReadCounter): boolean {
+  // The same ink: a lighter or thinner line (a grid line, another curve) that the colour model
+  // still admits carries clearly less of the line's colour across it, a bolder one more.
+  const before = inkAcross(image, style, all.slice(-Math.max(RESUME_POINTS, Math.round(piece.length))), counter);
+  const after = inkAcross(image, style, piece, counter);
+  return before > 0 && after > 0 && after / before >= 1 / ACROSS_INK && after / before <= ACROSS_INK;
+}
+
+/**
+ * How far, pixels, the start of a piece beyond a break of `gap` pixels may lie off the parabola
+ * through the line before it: the smoothness limit, a line width (where the line thins or
+ * thickens at the break, its centre moves), and about 1° of heading per pixel of break (0.02 px/px).
+ */
+const acrossDrift = (style: LineStyle, gap: number) => smoothLimit(style) + style.width + 0.02 * gap;
+
+/** Largest ratio between the ink across a piece beyond a break and across the line before it. */
+const ACROSS_INK = 1.4;
+
+/**
+ * How much of the line's colour a stretch of line carries across it: the median, over up to
+ * seven points, of the mass (membership integrated across, pixels) of the run nearest the point
+ * in a section across the stretch's chord. 0 when no run lies within a width of the points.
+ */
+function inkAcross(image: RasterImage, style: LineStyle, points: readonly Px[], counter: ReadCounter): number {
+  if (points.length < 2) return 0;
+  const { spacing } = stepping(style.width);
+  const n = Math.ceil((2 * style.width + 2) / spacing);
+  const section = new Float64Array(2 * n + 1);
+  const runs: Run[] = [];
+  const b = points[0] as Px;
+  const z = points[points.length - 1] as Px;
+  const chord = Math.hypot(z[0] - b[0], z[1] - b[1]) || 1;
+  const nx = -(z[1] - b[1]) / chord;
+  const ny = (z[0] - b[0]) / chord;
+  const masses: number[] = [];
+  const count = Math.min(7, points.length);
+  for (let k = 0; k < count; k++) {
+    const at = points[Math.floor((k * (points.length - 1)) / Math.max(1, count - 1))] as Px;
+    if (style.reach) sampleLongSection(image, style.model, at[0], at[1], nx, ny, n, spacing, style.reach, section, counter);
+    else sampleSection(image, style.model, at[0], at[1], nx, ny, n, spacing, section, counter);
+    let best: Run | undefined;
+    for (const r of findRuns(section, n, spacing, style.threshold, runs)) if (Math.abs(r.centre) <= style.width + 1 && (!best || Math.abs(r.centre) < Math.abs(best.centre))) best = r;
+    masses.push(best ? best.mass : 0);
+  }
+  masses.sort((x, y) => x - y);
+  return masses[Math.floor(masses.length / 2)] as number;
+}
+
+/**
+ * How much, px per px along it, the offsets of a piece beyond a break from the line's parabola may
+ * grow (its heading differ from the course's: about 2°), besides what half a smoothness limit of
+ * scatter at its ends makes of it.
+ */
+const ACROSS_SLOPE = 0.035;
+
+/**
+ * Whether another line of the traced colour and width runs close beside the start of a piece taken
+ * up across a break (within twice the position tolerance `drift` and two widths, or four widths
+ * and 4 px): the prediction across the break could as well have led to that line, so the piece
+ * may belong to it rather than to the traced one. Sections across the piece at its start and its
+ * middle.
+ */
+function besideAnother(image: RasterImage, style: LineStyle, piece: readonly Px[], drift: number, counter: ReadCounter): boolean {
+  const { spacing } = stepping(style.width);
+  const near = Math.max(4 * style.width + 4, 2 * drift + 2 * style.width);
+  const n = Math.ceil((near + style.width) / spacing);
+  const section = new Float64Array(2 * n + 1);
+  const runs: Run[] = [];
+  const lo = style.massRange[0] * style.width;
+  const hi = Math.min(style.massRange[1], 1.2) * style.width;
+  const b = piece[0] as Px;
+  const z = piece[piece.length - 1] as Px;
+  const chord = Math.hypot(z[0] - b[0], z[1] - b[1]) || 1;
+  const nx = -(z[1] - b[1]) / chord;
+  const ny = (z[0] - b[0]) / chord;
+  for (const at of [b, piece[Math.floor(piece.length / 2)] as Px]) {
+    if (style.reach) sampleLongSection(image, style.model, at[0], at[1], nx, ny, n, spacing, style.reach, section, counter);
+    else sampleSection(image, style.model, at[0], at[1], nx, ny, n, spacing, section, counter);
+    if (findRuns(section, n, spacing, style.threshold, runs).some((r) => Math.abs(r.centre) > 1.25 * style.width && Math.abs(r.centre) <= near && r.mass >= lo && r.mass <= hi)) return true;
+  }
+  return false;
 }
 
 /** Points seen again on the line's course after a stretch off it, before the line counts as resumed. */

@@ -40,6 +40,15 @@ function grid(ctx: SKRSContext2D, width: number, height: number, every: number):
   }
 }
 
+/** A label written over the line y = f(x) from x0 to x1: the line knocked out (with `margin` px above and below), the text in `colour`. */
+function labelOver(ctx: SKRSContext2D, f: (x: number) => number, x0: number, x1: number, margin: number, colour: string, size: number, text: string): void {
+  ctx.fillStyle = '#ffffff';
+  ctx.fillRect(x0, Math.min(f(x0), f(x1)) - margin, x1 - x0, Math.abs(f(x1) - f(x0)) + 2 * margin);
+  ctx.fillStyle = colour;
+  ctx.font = `${size}px "Liberation Sans"`;
+  ctx.fillText(text, x0 + 5, (f(x0) + f(x1)) / 2 + size / 3);
+}
+
 /** Largest vertical distance of the points from y = f(x). */
 function worstOff(points: readonly SheetPoint[], f: (x: number) => number): number {
   return Math.max(...points.map((p) => Math.abs(p[1] - f(p[0]))));
@@ -254,6 +263,56 @@ describe('raster line following', () => {
     const result = traceRaster(image, [sheetPoint(100, head(100)), sheetPoint(300, head(300))]);
     expect(Math.max(...result.points.map((p) => p[0]))).toBeGreaterThan(605); // px: the line's end at 620, beyond the 70-px label
     expect(worstOff(result.points, head)).toBeLessThan(1); // px: across the label the stretch is bridged smoothly
+  });
+
+  it('carries a fast-bending line on across a long break where a label is written on it', () => {
+    const steep = (x: number) => 40 + 0.0011 * (x - 40) ** 2; // bends fast towards run-out
+    const image = picture(640, 460, (ctx) => {
+      stroke(ctx, steep, 20, 620, '#1a1a1a', 2);
+      labelOver(ctx, steep, 440, 512, 4, '#1a1a1a', 14, '250 mm');
+    });
+    const result = traceRaster(image, [sheetPoint(100, steep(100)), sheetPoint(300, steep(300))]);
+    expect(Math.max(...result.points.map((p) => p[0]))).toBeGreaterThan(605); // px: the line's end at 620, beyond the 72-px break
+    expect(worstOff(result.points.filter((p) => p[0] < 440 || p[0] > 512), steep)).toBeLessThan(1.5); // px: on the line on both sides of the break
+  });
+
+  it('runs on past a label written over a thin line that is longer than the gap it bridges', () => {
+    const image = picture(640, 360, (ctx) => {
+      stroke(ctx, head, 20, 620, '#c01818', 1);
+      // The label's knock-out is 100 px long: twice what a 1-px line bridges on its prediction alone (50 px).
+      labelOver(ctx, head, 400, 500, 10, '#c01818', 20, '350 mm');
+    });
+    const result = traceRaster(image, [sheetPoint(100, head(100)), sheetPoint(300, head(300))]);
+    expect(Math.max(...result.points.map((p) => p[0]))).toBeGreaterThan(605); // px: the line's end at 620, beyond the label
+    expect(worstOff(result.points.filter((p) => p[0] < 400 || p[0] > 500), head)).toBeLessThan(1); // px: on the line on both sides
+  });
+
+  it('does not take up, past a label at a line\'s end, a grid line that crosses its course', () => {
+    const image = picture(640, 360, (ctx) => {
+      grid(ctx, 640, 360, 60);
+      stroke(ctx, head, 20, 400, '#333333', 1);
+      ctx.fillStyle = '#333333';
+      ctx.font = '20px "Liberation Sans"';
+      ctx.fillText('350 mm', 405, head(420) + 7);
+    });
+    const result = traceRaster(image, [sheetPoint(100, head(100)), sheetPoint(300, head(300))]);
+    // Whatever the trace keeps beyond the line's end lies on the line's own course, or the trace says it may not.
+    const beyond = result.points.filter((p) => p[0] > 405);
+    if (beyond.length > 0 && result.doubts.length === 0) expect(worstOff(beyond, head)).toBeLessThan(2);
+    expect(worstOff(result.points.filter((p) => p[0] <= 400), head)).toBeLessThan(1);
+  });
+
+  it('does not run on, unflagged, on to another line of its colour that starts beyond its end', () => {
+    const image = picture(640, 360, (ctx) => {
+      stroke(ctx, head, 20, 400, '#1a1a1a', 1.5);
+      // Another line, 7 px below the first one's course, beginning 40 px beyond its end.
+      stroke(ctx, (x) => head(x) + 7, 440, 620, '#1a1a1a', 1.5);
+    });
+    const result = traceRaster(image, [sheetPoint(100, head(100)), sheetPoint(300, head(300))]);
+    const beyond = Math.max(...result.points.map((p) => p[0])) > 420;
+    // Either the trace ends at its line's end, or it says that it may have gone on along another line.
+    if (beyond) expect(result.doubts.map((d) => d.code)).toContain('takeoff.end-after-gap');
+    expect(Math.max(...result.points.map((p) => p[0]))).toBeGreaterThan(395);
   });
 
   it('keeps a dotted line dotted when a few of its dots are lost near the guide', () => {

@@ -72,14 +72,14 @@ export class DerivedState {
     this.current = { ...this.current, takeoff, omitted, computing: true };
     this.timer = window.setTimeout(async () => {
       try {
-        const { curveSet, traceMembers } = await this.worker.call('replay', { takeoff, ...this.names() });
+        const { curveSet, traceMembers, crossings } = await this.worker.call('replay', { takeoff, ...this.names() });
         if (serial !== this.serial) return;
         const cals = new Map([...calibrations].flatMap(([id, c]) => (c.ok ? [[id, c.calibration] as const] : [])));
         this.current = {
           ...this.current,
           curveSet,
           problem: null,
-          residuals: traceResiduals(draft, takeoff, curveSet, cals, traceMembers),
+          residuals: traceResiduals(draft, takeoff, curveSet, cals, traceMembers, crossings),
           fits: fitLinesOnSheet(takeoff, curveSet, cals, traceMembers),
           traceMembers,
           computing: false,

@@ -4,8 +4,7 @@
  * Pure: curve set, take-off and calibrations in; numbers and sheet polylines out.
  */
 import type { Calibration } from '../../digitize/calibration.ts';
-import { isoCrossings } from '../../digitize/isoCrossings.ts';
-import { sheetPoint, type SheetPoint } from '../../digitize/points.ts';
+import type { IsoCrossing } from '../../digitize/isoCrossings.ts';
 import { resolveTakeoffUnits, traceUnits } from '../../digitize/takeoffUnits.ts';
 import { evaluateUnchecked, inDomain, linspace } from '../../fit/polynomial.ts';
 import type { CurveSet, Member, PolynomialFit, Quantity } from '../../model/curveset.ts';
@@ -24,10 +23,6 @@ export interface TraceResidual {
   /** Largest residual in % of the fitted curve's range of values. */
   percentOfSpan: number;
   points: number;
-}
-
-function asSheetPoints(points: readonly SheetXY[]): SheetPoint[] {
-  return points.map((p) => sheetPoint(p[0], p[1]));
 }
 
 /** The link the replay made from trace id to curve-set members (src/digitize/takeoff.ts, `traceMembers`). */
@@ -56,8 +51,15 @@ function summarise(traceId: string, residualsSI: number[], unit: Unit, fit: Poly
   return { traceId, rms: rmsSI / unit.factor, max: maxSI / unit.factor, unit, percentOfSpan: (100 * maxSI) / valueSpan(fit), points: residualsSI.length };
 }
 
-/** Residuals of every trace that has a fitted curve, keyed by trace id. */
-export function traceResiduals(draft: Draft, takeoff: Takeoff, set: CurveSet, calibrations: ReadonlyMap<string, Calibration>, traceMembers: TraceMembers): Map<string, TraceResidual> {
+/** The replay's iso crossings: iso-trace id → where it met each head curve (`ReplayResult.crossings`, key: diameter or speed as the take-off writes it). */
+export type TraceCrossings = ReadonlyMap<string, readonly IsoCrossing<number>[]>;
+
+/**
+ * Residuals of every trace that has a fitted curve, keyed by trace id. An iso-trace's residuals
+ * are taken at the crossings the replay found (`crossings`), with the replay's tolerances, so
+ * that the workbench and the CLI agree on them; an iso-trace the replay gave no crossings has none.
+ */
+export function traceResiduals(draft: Draft, takeoff: Takeoff, set: CurveSet, calibrations: ReadonlyMap<string, Calibration>, traceMembers: TraceMembers, crossings: TraceCrossings = new Map()): Map<string, TraceResidual> {
   const units = resolveTakeoffUnits(takeoff);
   const out = new Map<string, TraceResidual>();
   const byId = new Map(draft.traces.map((t) => [t.id, t]));
@@ -80,15 +82,14 @@ export function traceResiduals(draft: Draft, takeoff: Takeoff, set: CurveSet, ca
       if (r) out.set(id, r);
       continue;
     }
-    // An iso-trace: where it crosses each head trace, the fitted curve should read the iso value.
-    const heads = takeoff.traces
-      .filter((t) => t.panel === trace.panel && t.quantity === 'head' && t.iso === undefined && curveLabel(t) !== undefined)
-      .map((t) => ({ key: t, points: asSheetPoints(pointsOf(byId.get(t.id as string) ?? drafted)) }));
+    // An iso-trace: where the replay found it crossing each head curve, that curve's fitted
+    // efficiency should read the iso value.
+    const heads = takeoff.traces.filter((t) => t.panel === trace.panel && t.quantity === 'head' && t.iso === undefined && curveLabel(t) !== undefined);
     const residuals: number[] = [];
     let anyFit: PolynomialFit | undefined;
-    for (const c of isoCrossings(asSheetPoints(pointsOf(drafted)), heads)) {
-      const head = c.key;
-      const member = memberOf(set, traceMembers, head.id as string);
+    for (const c of crossings.get(id) ?? []) {
+      const head = heads.find((t) => curveLabel(t) === c.key);
+      const member = head ? memberOf(set, traceMembers, head.id as string) : undefined;
       const fit = member?.curves[trace.quantity]?.fit;
       if (!fit) continue;
       anyFit ??= fit;

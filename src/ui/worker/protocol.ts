@@ -4,6 +4,7 @@
  */
 import type { SheetKind as LoadedKind } from '../../digitize/sheet.ts';
 import type { CurveSet } from '../../model/curveset.ts';
+import type { ReplayResult } from '../../digitize/takeoff.ts';
 import type { Panel, Takeoff, Trace } from '../../model/takeoff.ts';
 import type { Snap } from '../geometry/snap.ts';
 import type { TextItem } from '../geometry/hints.ts';
@@ -76,7 +77,7 @@ export interface Requests {
    */
   detect: { args: { document: Record<string, unknown> }; result: DetectAnswer };
   /** Fits and checks the take-off into a curve set with the saved captures (the headless replay's own code). */
-  replay: { args: { takeoff: Takeoff; sheetFile: string; takeoffName: string }; result: { curveSet: CurveSet; traces: { id: string; how: string; notes: string[] }[]; traceMembers: ReadonlyMap<string, readonly number[]> } };
+  replay: { args: { takeoff: Takeoff; sheetFile: string; takeoffName: string }; result: { curveSet: CurveSet; traces: { id: string; how: string; notes: string[] }[]; traceMembers: ReadonlyMap<string, readonly number[]>; crossings: ReplayResult['crossings'] } };
 }
 
 export type RequestName = keyof Requests;

@@ -123,7 +123,7 @@ const handlers: { [K in keyof Requests]: Handler<K> } = {
     // Every trace is captured again from its guides, exactly as the headless replay does, so
     // that the curve set on screen is the one `pumpscribe takeoff` gives for the saved file.
     const result = await replayTakeoff(args.takeoff, requireSession().replaySheet, { sheetFile: args.sheetFile, takeoffName: args.takeoffName });
-    return { result: { curveSet: result.curveSet, traces: result.traces.map((t) => ({ id: t.id, how: t.how, notes: t.notes })), traceMembers: result.traceMembers } };
+    return { result: { curveSet: result.curveSet, traces: result.traces.map((t) => ({ id: t.id, how: t.how, notes: t.notes })), traceMembers: result.traceMembers, crossings: result.crossings } };
   },
 };
 
