@@ -42,6 +42,9 @@ export async function loadPdfSheetNode(bytes: Uint8Array, options: PdfNodeOption
     sha256: sha256Hex(bytes),
     documentOptions: { standardFontDataUrl, cMapUrl, cMapPacked: true, useSystemFonts: false },
     createCanvas: (w, h) => createCanvas(w, h) as unknown as CanvasLike,
+    // A canvas of zero size gives its pixel memory back at once.
+    releaseCanvas: (canvas) => Object.assign(canvas, { width: 0, height: 0 }),
+    cleanupAfterRender: true,
   });
 }
 

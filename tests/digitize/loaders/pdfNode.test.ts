@@ -132,6 +132,31 @@ describe('loading a vector PDF page in Node', () => {
     expect(sheet.kind).toBe('raster-pdf');
     await sheet.close();
   });
+
+  it('renders a scan inside a PDF at most at the resolution of its picture, and says so in the scale', async () => {
+    // A 600 × 800 picture on 300 × 400 pt: 2 pixels per pt. Asked for 4 px/pt, the page comes at 2.
+    const canvas = createCanvas(600, 800);
+    const ctx = canvas.getContext('2d');
+    ctx.fillStyle = '#fff';
+    ctx.fillRect(0, 0, 600, 800);
+    ctx.fillStyle = '#000';
+    ctx.fillRect(100, 390, 400, 20); // a bar across the middle: 40 % of the width, 20 px of the 800
+    const doc = await PDFDocument.create();
+    const page = doc.addPage([300, 400]);
+    page.drawImage(await doc.embedPng(await canvas.encode('png')), { x: 0, y: 0, width: 300, height: 400 });
+    const sheet = await loadPdfSheetNode(await doc.save());
+    expect(sheet.kind).toBe('raster-pdf');
+    const image = await sheet.render(4);
+    expect(image.scale).toBeCloseTo(2, 9);
+    expect([image.width, image.height]).toEqual([600, 800]);
+    const px = (sx: number, sy: number) => image.data[4 * (Math.floor(sy * image.scale) * image.width + Math.floor(sx * image.scale))]!;
+    expect(px(150, 200)).toBeLessThan(60); // the bar, found by sheet coordinates through the scale
+    expect(px(150, 100)).toBeGreaterThan(240);
+    // Below the picture's resolution the asked scale holds; a second rendering still works after the first freed pdf.js's images.
+    const coarse = await sheet.render(1);
+    expect([coarse.width, coarse.height, coarse.scale]).toEqual([300, 400, 1]);
+    await sheet.close();
+  });
 });
 
 describe('refusing unusable PDFs with one clear sentence', () => {
