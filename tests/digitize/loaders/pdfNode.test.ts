@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { createCanvas } from '@napi-rs/canvas';
+import { createCanvas, type SKRSContext2D } from '@napi-rs/canvas';
 import { pushGraphicsState, popGraphicsState, concatTransformationMatrix, degrees } from 'pdf-lib';
 import { loadPdfSheetNode, sha256Hex } from '../../../src/digitize/loaders/pdfNode.ts';
 import { SheetError, type PathSegment } from '../../../src/digitize/sheet.ts';
@@ -114,37 +114,22 @@ describe('loading a vector PDF page in Node', () => {
   });
 
   it('detects a page that is an embedded scan as raster-pdf', async () => {
-    const canvas = createCanvas(300, 200);
-    const ctx = canvas.getContext('2d');
-    ctx.fillStyle = '#fff';
-    ctx.fillRect(0, 0, 300, 200);
-    ctx.strokeStyle = '#000';
-    ctx.beginPath();
-    ctx.moveTo(10, 190);
-    ctx.lineTo(290, 20);
-    ctx.stroke();
-    const png = await canvas.encode('png');
-    const doc = await PDFDocument.create();
-    const page = doc.addPage([612, 792]);
-    const image = await doc.embedPng(png);
-    page.drawImage(image, { x: 10, y: 10, width: 592, height: 772 });
-    const sheet = await loadPdfSheetNode(await doc.save());
+    const bytes = await scanInPdf([300, 200], [612, 792], { x: 10, y: 10, width: 592, height: 772 }, (ctx) => {
+      ctx.beginPath();
+      ctx.moveTo(10, 190);
+      ctx.lineTo(290, 20);
+      ctx.stroke();
+    });
+    const sheet = await loadPdfSheetNode(bytes);
     expect(sheet.kind).toBe('raster-pdf');
     await sheet.close();
   });
 
   it('renders a scan inside a PDF at most at the resolution of its picture, and says so in the scale', async () => {
     // A 600 × 800 picture on 300 × 400 pt: 2 pixels per pt. Asked for 4 px/pt, the page comes at 2.
-    const canvas = createCanvas(600, 800);
-    const ctx = canvas.getContext('2d');
-    ctx.fillStyle = '#fff';
-    ctx.fillRect(0, 0, 600, 800);
-    ctx.fillStyle = '#000';
-    ctx.fillRect(100, 390, 400, 20); // a bar across the middle: 40 % of the width, 20 px of the 800
-    const doc = await PDFDocument.create();
-    const page = doc.addPage([300, 400]);
-    page.drawImage(await doc.embedPng(await canvas.encode('png')), { x: 0, y: 0, width: 300, height: 400 });
-    const sheet = await loadPdfSheetNode(await doc.save());
+    // A bar across the middle: 40 % of the width, 20 px of the 800.
+    const bytes = await scanInPdf([600, 800], [300, 400], { x: 0, y: 0, width: 300, height: 400 }, (ctx) => ctx.fillRect(100, 390, 400, 20));
+    const sheet = await loadPdfSheetNode(bytes);
     expect(sheet.kind).toBe('raster-pdf');
     const image = await sheet.render(4);
     expect(image.scale).toBeCloseTo(2, 9);
@@ -158,6 +143,19 @@ describe('loading a vector PDF page in Node', () => {
     await sheet.close();
   });
 });
+
+/** A PDF page of `page` pt holding one PNG picture of `size` pixels (white, drawn on in black) placed at `place`. */
+async function scanInPdf(size: [number, number], page: [number, number], place: { x: number; y: number; width: number; height: number }, draw: (ctx: SKRSContext2D) => void): Promise<Uint8Array> {
+  const canvas = createCanvas(size[0], size[1]);
+  const ctx = canvas.getContext('2d');
+  ctx.fillStyle = '#fff';
+  ctx.fillRect(0, 0, size[0], size[1]);
+  ctx.fillStyle = ctx.strokeStyle = '#000';
+  draw(ctx);
+  const doc = await PDFDocument.create();
+  doc.addPage(page).drawImage(await doc.embedPng(await canvas.encode('png')), place);
+  return doc.save();
+}
 
 describe('refusing unusable PDFs with one clear sentence', () => {
   it('refuses a file over the size limit before parsing it', async () => {
