@@ -6,6 +6,8 @@ import { SheetError, type PathSegment } from '../../../src/digitize/sheet.ts';
 import { drawPdf, encryptedPdf, PDFDocument, rgb } from '../fixtures/pdfBytes.ts';
 
 const TOL = 1e-3; // sheet units; pdf.js hands coordinates over as 32-bit floats
+/** Node's own `Response` before pdf.js is loaded (pdfNode.ts loads pdf.js beside a stand-in and puts this back). */
+const responseBefore = Object.getOwnPropertyDescriptor(globalThis, 'Response');
 
 function endpoints(segments: readonly PathSegment[]): [number, number][] {
   return segments.flatMap((s) => (s.kind === 'close' ? [] : [[s.to[0], s.to[1]] as [number, number]]));
@@ -98,6 +100,13 @@ describe('loading a vector PDF page in Node', () => {
     expect(label.angle).toBeCloseTo(0, 9);
     expect(text.some((t) => t.text === 'Head')).toBe(true);
     await sheet.close();
+  });
+
+  it('leaves Node\'s own Response in place once pdf.js is loaded', async () => {
+    const sheet = await loadPdfSheetNode(await drawPdf(100, 100, (d) => d.stroke('M 10 10 L 90 90')));
+    await sheet.close();
+    expect(Object.getOwnPropertyDescriptor(globalThis, 'Response')).toEqual(responseBefore);
+    expect(typeof new Response('x').text).toBe('function');
   });
 
   it('renders at any scale into an RGBA raster with dark pixels where lines are drawn', async () => {
