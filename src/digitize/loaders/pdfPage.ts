@@ -53,11 +53,17 @@ export interface OpenPdfOptions {
  * The scale a page is rendered at when `wanted` pixels per sheet unit are asked for. A scan
  * inside a PDF holds no detail finer than its picture's own pixels: it is rendered at most at
  * the picture's resolution (a 200-dpi scan asked for at 4 px/pt, 288 dpi, is rendered at 200 dpi,
- * half the pixels), as an image sheet is read at its own pixels. The raster's `scale` says which.
+ * half the pixels), as an image sheet is read at its own pixels. A coarser picture is still
+ * rendered at `MIN_SCAN_RENDER_SCALE` (200 dpi, the coarsest scans the line following is tried
+ * on) or `wanted` if that is less. The raster's `scale` says which scale was used.
  */
 export function renderScale(kind: Sheet['kind'], wanted: number, pictureScale: number | undefined): number {
-  return kind === 'raster-pdf' && pictureScale !== undefined && pictureScale > 0 && pictureScale < wanted ? pictureScale : wanted;
+  if (kind !== 'raster-pdf' || pictureScale === undefined || !(pictureScale > 0)) return wanted;
+  return Math.min(wanted, Math.max(pictureScale, MIN_SCAN_RENDER_SCALE));
 }
+
+/** 200 dpi in pixels per pt: a scan inside a PDF is never rendered coarser than this (unless asked). */
+export const MIN_SCAN_RENDER_SCALE = 200 / 72;
 
 /** True when the bytes start like a PDF (the header may follow up to 1 KB of junk). */
 export function looksLikePdf(bytes: Uint8Array): boolean {

@@ -135,20 +135,29 @@ describe('loading a vector PDF page in Node', () => {
   });
 
   it('renders a scan inside a PDF at most at the resolution of its picture, and says so in the scale', async () => {
-    // A 600 × 800 picture on 300 × 400 pt: 2 pixels per pt. Asked for 4 px/pt, the page comes at 2.
-    // A bar across the middle: 40 % of the width, 20 px of the 800.
-    const bytes = await scanInPdf([600, 800], [300, 400], { x: 0, y: 0, width: 300, height: 400 }, (ctx) => ctx.fillRect(100, 390, 400, 20));
+    // A 1500 × 2000 picture on 300 × 400 pt: 5 pixels per pt (360 dpi). Asked for 6 px/pt, the page comes at 5.
+    // A bar across the middle: 40 % of the width, 50 px of the 2000.
+    const bytes = await scanInPdf([1500, 2000], [300, 400], { x: 0, y: 0, width: 300, height: 400 }, (ctx) => ctx.fillRect(250, 975, 1000, 50));
     const sheet = await loadPdfSheetNode(bytes);
     expect(sheet.kind).toBe('raster-pdf');
-    const image = await sheet.render(4);
-    expect(image.scale).toBeCloseTo(2, 9);
-    expect([image.width, image.height]).toEqual([600, 800]);
+    const image = await sheet.render(6);
+    expect(image.scale).toBeCloseTo(5, 9);
+    expect([image.width, image.height]).toEqual([1500, 2000]);
     const px = (sx: number, sy: number) => image.data[4 * (Math.floor(sy * image.scale) * image.width + Math.floor(sx * image.scale))]!;
     expect(px(150, 200)).toBeLessThan(60); // the bar, found by sheet coordinates through the scale
     expect(px(150, 100)).toBeGreaterThan(240);
     // Below the picture's resolution the asked scale holds; a second rendering still works after the first freed pdf.js's images.
     const coarse = await sheet.render(1);
     expect([coarse.width, coarse.height, coarse.scale]).toEqual([300, 400, 1]);
+    await sheet.close();
+  });
+
+  it('renders a coarse scan inside a PDF at 200 dpi at least, as asked up to that', async () => {
+    // 300 × 400 pixels on 300 × 400 pt: 72 dpi. Asked for 4 px/pt, the page comes at 200 dpi (200/72 px/pt).
+    const sheet = await loadPdfSheetNode(await scanInPdf([300, 400], [300, 400], { x: 0, y: 0, width: 300, height: 400 }, (ctx) => ctx.fillRect(50, 190, 200, 20)));
+    const image = await sheet.render(4);
+    expect(image.scale).toBeCloseTo(200 / 72, 9);
+    expect(image.width).toBe(Math.ceil(300 * (200 / 72)));
     await sheet.close();
   });
 });
