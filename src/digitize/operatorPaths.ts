@@ -103,6 +103,8 @@ export interface PageContent {
   imageCoverage: number;
   /** Number of pictures painted. */
   images: number;
+  /** Pixels per sheet unit of the picture covering most of the page (the finer of its two axes); absent without pictures of known size. */
+  pictureScale?: number;
 }
 
 /**
@@ -118,6 +120,8 @@ export function readOperatorList(list: OperatorListInput, ops: OperatorCodes, vi
   const paths: VectorPath[] = [];
   let imageArea = 0;
   let images = 0;
+  let pictureScale: number | undefined;
+  let largestPicture = 0;
   const pageArea = Math.max(width * height, 1e-9);
 
   // Annotations (a reviewer's ink, stamps, form fields) are not the sheet's drawing: skipped.
@@ -191,15 +195,29 @@ export function readOperatorList(list: OperatorListInput, ops: OperatorCodes, vi
       case ops.paintInlineImageXObjectGroup:
       case ops.paintImageMaskXObjectGroup: {
         // A picture fills the unit square of its user space.
-        imageArea += clippedArea(multiply(viewport, gs.ctm), width, height);
+        const m = multiply(viewport, gs.ctm);
+        const area = clippedArea(m, width, height);
+        imageArea += area;
         images++;
+        const density = pictureDensity(fn === ops.paintImageXObject ? args?.slice(1, 3) : [(args?.[0] as { width?: unknown } | undefined)?.width, (args?.[0] as { height?: unknown } | undefined)?.height], m);
+        if (density !== undefined && area > largestPicture) [largestPicture, pictureScale] = [area, density];
         break;
       }
       default:
         break;
     }
   }
-  return { paths, imageCoverage: Math.min(1, imageArea / pageArea), images };
+  return { paths, imageCoverage: Math.min(1, imageArea / pageArea), images, ...(pictureScale !== undefined ? { pictureScale } : {}) };
+}
+
+/** Pixels per sheet unit of a picture `[width, height]` pixels painted into the unit square mapped by `m` (the finer axis). */
+function pictureDensity(size: unknown[] | undefined, m: Matrix): number | undefined {
+  const [w, h] = size ?? [];
+  if (typeof w !== 'number' || typeof h !== 'number' || !(w > 0) || !(h > 0)) return undefined;
+  const across = Math.hypot(m[0], m[1]);
+  const down = Math.hypot(m[2], m[3]);
+  if (!(across > 0) || !(down > 0)) return undefined;
+  return Math.max(w / across, h / down);
 }
 
 function isMatrix(v: ArrayLike<unknown>): boolean {

@@ -51,4 +51,19 @@ describe('which command line bin/pumpscribe.mjs runs', () => {
     utimesSync(join(root, 'src', 'cli', 'main.ts'), now, now);
     expect(pumpscribe(['check', 'x'])).toEqual({ code: 0, out: 'sources check x' });
   });
+  it('with the stamp naming the sources of the bundle, those alone: an edit of one runs the sources, a file outside the bundle does not', () => {
+    const stamp = join(root, 'build', 'cli', 'stamp.json');
+    const past = new Date(Date.now() - 60_000);
+    utimesSync(join(root, 'src', 'cli', 'main.ts'), past, past);
+    writeFileSync(join(root, 'src', 'cli', 'unused.ts'), 'export {};\n'); // newer than the stamp, but not in the bundle
+    writeFileSync(stamp, JSON.stringify({ builtMs: Date.now() - 30_000, sources: ['src/cli/main.ts'] }));
+    expect(pumpscribe(['check', 'x'])).toEqual({ code: 0, out: 'bundle check x' });
+    const now = new Date();
+    utimesSync(join(root, 'src', 'cli', 'main.ts'), now, now);
+    expect(pumpscribe(['check', 'x'])).toEqual({ code: 0, out: 'sources check x' });
+    // A listed source that is gone: the bundle is not trusted either.
+    utimesSync(join(root, 'src', 'cli', 'main.ts'), past, past);
+    writeFileSync(stamp, JSON.stringify({ builtMs: Date.now() - 30_000, sources: ['src/cli/main.ts', 'src/cli/gone.ts'] }));
+    expect(pumpscribe(['check', 'x'])).toEqual({ code: 0, out: 'sources check x' });
+  });
 });

@@ -108,7 +108,7 @@ describe('lean commands', () => {
 
   it('a take-off loads pdf.js only for a PDF and the image decoder only for a JPEG (dynamic imports)', () => {
     const dynamic = (file: string) => (inputs[file]?.imports ?? []).filter((i) => i.kind === 'dynamic-import').map((i) => i.path);
-    expect(dynamic('src/digitize/loaders/pdfNode.ts')).toContain('pdfjs-dist/legacy/build/pdf.mjs');
+    expect(dynamic('src/digitize/loaders/pdfNode.ts')).toContain('pdfjs-dist/legacy/build/pdf.min.mjs');
     expect(dynamic('src/digitize/loaders/imageDecode.ts')).toContain('sharp');
   });
 });

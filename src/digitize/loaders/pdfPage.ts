@@ -43,7 +43,27 @@ export interface OpenPdfOptions {
   sha256: string;
   /** Name of the file for messages. */
   name?: string;
+  /** Frees a canvas's pixels at once, not at some later garbage collection. */
+  releaseCanvas?(canvas: CanvasLike): void;
+  /** Drops pdf.js's decoded images of the page after each rendering (a command renders a page once). */
+  cleanupAfterRender?: boolean;
 }
+
+/**
+ * The scale a page is rendered at when `wanted` pixels per sheet unit are asked for. A scan
+ * inside a PDF holds no detail finer than its picture's own pixels: it is rendered at most at
+ * the picture's resolution (a 200-dpi scan asked for at 4 px/pt, 288 dpi, is rendered at 200 dpi,
+ * half the pixels), as an image sheet is read at its own pixels. A coarser picture is still
+ * rendered at `MIN_SCAN_RENDER_SCALE` (200 dpi, the coarsest scans the line following is tried
+ * on) or `wanted` if that is less. The raster's `scale` says which scale was used.
+ */
+export function renderScale(kind: Sheet['kind'], wanted: number, pictureScale: number | undefined): number {
+  if (kind !== 'raster-pdf' || pictureScale === undefined || !(pictureScale > 0)) return wanted;
+  return Math.min(wanted, Math.max(pictureScale, MIN_SCAN_RENDER_SCALE));
+}
+
+/** 200 dpi in pixels per pt: a scan inside a PDF is never rendered coarser than this (unless asked). */
+export const MIN_SCAN_RENDER_SCALE = 200 / 72;
 
 /** True when the bytes start like a PDF (the header may follow up to 1 KB of junk). */
 export function looksLikePdf(bytes: Uint8Array): boolean {
@@ -107,20 +127,27 @@ export async function openPdfSheet(pdfjs: PdfJsModule, bytes: Uint8Array, option
       }
       return textCache;
     },
-    async render(scale: number): Promise<RasterImage> {
-      if (!(scale > 0 && Number.isFinite(scale))) throw new SheetError(`The render scale must be a positive number, not ${scale}.`);
+    async render(wanted: number): Promise<RasterImage> {
+      if (!(wanted > 0 && Number.isFinite(wanted))) throw new SheetError(`The render scale must be a positive number, not ${wanted}.`);
+      const scale = renderScale(kind, wanted, content.pictureScale);
       const vp = page.getViewport({ scale });
       const width = Math.ceil(vp.width);
       const height = Math.ceil(vp.height);
       checkRasterSize(width, height, limits, `Rendering ${name} at scale ${scale}`);
       const canvas = options.createCanvas(width, height);
       const context = canvas.getContext('2d') as PixelReader;
+      let image: { data: Uint8ClampedArray };
       try {
         await page.render({ canvas: null, canvasContext: context as Parameters<typeof page.render>[0]['canvasContext'], viewport: vp }).promise;
+        image = context.getImageData(0, 0, width, height);
       } catch (error) {
         throw describePdfError(error, name);
+      } finally {
+        // The raster holds the page now: the canvas's pixels go back before the trace allocates its own,
+        options.releaseCanvas?.(canvas);
+        // and so do pdf.js's decoded pictures of the page (a later rendering decodes them again).
+        if (options.cleanupAfterRender) page.cleanup();
       }
-      const image = context.getImageData(0, 0, width, height);
       return { width, height, data: new Uint8ClampedArray(image.data.buffer, image.data.byteOffset, image.data.byteLength), scale };
     },
     async close(): Promise<void> {

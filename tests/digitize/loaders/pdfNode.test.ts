@@ -1,11 +1,13 @@
 import { describe, expect, it } from 'vitest';
-import { createCanvas } from '@napi-rs/canvas';
+import { createCanvas, type SKRSContext2D } from '@napi-rs/canvas';
 import { pushGraphicsState, popGraphicsState, concatTransformationMatrix, degrees } from 'pdf-lib';
 import { loadPdfSheetNode, sha256Hex } from '../../../src/digitize/loaders/pdfNode.ts';
 import { SheetError, type PathSegment } from '../../../src/digitize/sheet.ts';
 import { drawPdf, encryptedPdf, PDFDocument, rgb } from '../fixtures/pdfBytes.ts';
 
 const TOL = 1e-3; // sheet units; pdf.js hands coordinates over as 32-bit floats
+/** Node's own `Response` before pdf.js is loaded (pdfNode.ts loads pdf.js beside a stand-in and puts this back). */
+const responseBefore = Object.getOwnPropertyDescriptor(globalThis, 'Response');
 
 function endpoints(segments: readonly PathSegment[]): [number, number][] {
   return segments.flatMap((s) => (s.kind === 'close' ? [] : [[s.to[0], s.to[1]] as [number, number]]));
@@ -100,6 +102,13 @@ describe('loading a vector PDF page in Node', () => {
     await sheet.close();
   });
 
+  it('leaves Node\'s own Response in place once pdf.js is loaded', async () => {
+    const sheet = await loadPdfSheetNode(await drawPdf(100, 100, (d) => d.stroke('M 10 10 L 90 90')));
+    await sheet.close();
+    expect(Object.getOwnPropertyDescriptor(globalThis, 'Response')).toEqual(responseBefore);
+    expect(typeof new Response('x').text).toBe('function');
+  });
+
   it('renders at any scale into an RGBA raster with dark pixels where lines are drawn', async () => {
     const bytes = await drawPdf(200, 100, (d) => d.stroke('M 20 50 L 180 50', rgb(0, 0, 0), 2));
     const sheet = await loadPdfSheetNode(bytes);
@@ -114,25 +123,57 @@ describe('loading a vector PDF page in Node', () => {
   });
 
   it('detects a page that is an embedded scan as raster-pdf', async () => {
-    const canvas = createCanvas(300, 200);
-    const ctx = canvas.getContext('2d');
-    ctx.fillStyle = '#fff';
-    ctx.fillRect(0, 0, 300, 200);
-    ctx.strokeStyle = '#000';
-    ctx.beginPath();
-    ctx.moveTo(10, 190);
-    ctx.lineTo(290, 20);
-    ctx.stroke();
-    const png = await canvas.encode('png');
-    const doc = await PDFDocument.create();
-    const page = doc.addPage([612, 792]);
-    const image = await doc.embedPng(png);
-    page.drawImage(image, { x: 10, y: 10, width: 592, height: 772 });
-    const sheet = await loadPdfSheetNode(await doc.save());
+    const bytes = await scanInPdf([300, 200], [612, 792], { x: 10, y: 10, width: 592, height: 772 }, (ctx) => {
+      ctx.beginPath();
+      ctx.moveTo(10, 190);
+      ctx.lineTo(290, 20);
+      ctx.stroke();
+    });
+    const sheet = await loadPdfSheetNode(bytes);
     expect(sheet.kind).toBe('raster-pdf');
     await sheet.close();
   });
+
+  it('renders a scan inside a PDF at most at the resolution of its picture, and says so in the scale', async () => {
+    // A 1500 × 2000 picture on 300 × 400 pt: 5 pixels per pt (360 dpi). Asked for 6 px/pt, the page comes at 5.
+    // A bar across the middle: 40 % of the width, 50 px of the 2000.
+    const bytes = await scanInPdf([1500, 2000], [300, 400], { x: 0, y: 0, width: 300, height: 400 }, (ctx) => ctx.fillRect(250, 975, 1000, 50));
+    const sheet = await loadPdfSheetNode(bytes);
+    expect(sheet.kind).toBe('raster-pdf');
+    const image = await sheet.render(6);
+    expect(image.scale).toBeCloseTo(5, 9);
+    expect([image.width, image.height]).toEqual([1500, 2000]);
+    const px = (sx: number, sy: number) => image.data[4 * (Math.floor(sy * image.scale) * image.width + Math.floor(sx * image.scale))]!;
+    expect(px(150, 200)).toBeLessThan(60); // the bar, found by sheet coordinates through the scale
+    expect(px(150, 100)).toBeGreaterThan(240);
+    // Below the picture's resolution the asked scale holds; a second rendering still works after the first freed pdf.js's images.
+    const coarse = await sheet.render(1);
+    expect([coarse.width, coarse.height, coarse.scale]).toEqual([300, 400, 1]);
+    await sheet.close();
+  });
+
+  it('renders a coarse scan inside a PDF at 200 dpi at least, as asked up to that', async () => {
+    // 300 × 400 pixels on 300 × 400 pt: 72 dpi. Asked for 4 px/pt, the page comes at 200 dpi (200/72 px/pt).
+    const sheet = await loadPdfSheetNode(await scanInPdf([300, 400], [300, 400], { x: 0, y: 0, width: 300, height: 400 }, (ctx) => ctx.fillRect(50, 190, 200, 20)));
+    const image = await sheet.render(4);
+    expect(image.scale).toBeCloseTo(200 / 72, 9);
+    expect(image.width).toBe(Math.ceil(300 * (200 / 72)));
+    await sheet.close();
+  });
 });
+
+/** A PDF page of `page` pt holding one PNG picture of `size` pixels (white, drawn on in black) placed at `place`. */
+async function scanInPdf(size: [number, number], page: [number, number], place: { x: number; y: number; width: number; height: number }, draw: (ctx: SKRSContext2D) => void): Promise<Uint8Array> {
+  const canvas = createCanvas(size[0], size[1]);
+  const ctx = canvas.getContext('2d');
+  ctx.fillStyle = '#fff';
+  ctx.fillRect(0, 0, size[0], size[1]);
+  ctx.fillStyle = ctx.strokeStyle = '#000';
+  draw(ctx);
+  const doc = await PDFDocument.create();
+  doc.addPage(page).drawImage(await doc.embedPng(await canvas.encode('png')), place);
+  return doc.save();
+}
 
 describe('refusing unusable PDFs with one clear sentence', () => {
   it('refuses a file over the size limit before parsing it', async () => {
