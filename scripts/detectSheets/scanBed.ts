@@ -22,6 +22,7 @@ import { closeTextReaderNode, textReaderNode } from '../../src/digitize/loaders/
 import { replayTakeoff } from '../../src/digitize/takeoff.ts';
 import { parseTakeoff, parseTakeoffToDetect, type TakeoffInput } from '../../src/model/takeoff.ts';
 import { calibrationError, makeRandomSheet, sheetGeometry, truthOf } from '../randomSheets/randomSheet.ts';
+import type { SheetPlan } from '../randomSheets/plan.ts';
 import { scoreReplay } from '../randomSheets/score.ts';
 
 const CACHE = join(import.meta.dirname, '..', '..', 'artifacts', 'detect-sheets', 'scan-v1');
@@ -44,6 +45,26 @@ export interface ScanOutcome {
   worstGiven: number;
   wrong: string[];
   error?: string;
+  /** Curves found on the scan (no traces given), scored against the truth at 15–95 % of each curve's flow range. */
+  curves: CurveOutcome;
+}
+
+export interface CurveOutcome {
+  /** Drawn curves (not iso-lines) of the plan, and how many came back within tolerance. */
+  drawn: number;
+  right: number;
+  /** Error of each found curve, % of span (head, power, NPSHr) or points (efficiency). */
+  errors: { id: string; quantity: string; error: number; flagged: boolean; confidence: number }[];
+  invented: number;
+  missed: number;
+  /** Found with a value that is not the drawn one (a wrong diameter). */
+  mislabelled: number;
+  /** Wrong (beyond tolerance, a wrong name, invented) with neither a finding of the replay, a confidence under 0.5, nor a question. */
+  silent: string[];
+  /** The diameters were given in the take-off, because the sheet prints none on its head curves (the engineer's one answer). */
+  gaveDiameters: boolean;
+  questions: string[];
+  error?: string;
 }
 
 export async function scanFor(seed: number, kind: 'scan' | 'photo' = 'scan'): Promise<{ jpeg: Uint8Array; takeoff: TakeoffInput }> {
@@ -61,7 +82,7 @@ export async function scanFor(seed: number, kind: 'scan' | 'photo' = 'scan'): Pr
 export async function runScan(seed: number, kind: 'scan' | 'photo' = 'scan'): Promise<ScanOutcome> {
   const { plan, shot } = sheetGeometry(seed, kind);
   const { jpeg, takeoff } = await scanFor(seed, kind);
-  const out: ScanOutcome = { seed, dpi: plan.dpi, turnDeg: shot.rotationDeg, panels: { expected: plan.panels.length, found: 0 }, calibration: {}, questions: [], detectMs: NaN, worstCurve: Infinity, worstGiven: Infinity, wrong: [] };
+  const out: ScanOutcome = { seed, dpi: plan.dpi, turnDeg: shot.rotationDeg, panels: { expected: plan.panels.length, found: 0 }, calibration: {}, questions: [], detectMs: NaN, worstCurve: Infinity, worstGiven: Infinity, wrong: [], curves: emptyCurves(plan) };
   const sheet = await loadImageSheetNode(jpeg, { name: `${seed}.jpg` });
   try {
     // The engineer's traces, without the panels: the panels must come from the detector.
@@ -87,12 +108,74 @@ export async function runScan(seed: number, kind: 'scan' | 'photo' = 'scan'): Pr
       const replay = await replayTakeoff(t, sheet, { created: '2026-01-01T00:00:00.000Z' });
       return Math.max(0, ...scoreReplay(plan.family, truthOf(plan), replay.curveSet).map((s) => s.error));
     };
-    out.worstCurve = await worst(found.takeoff);
-    out.worstGiven = await worst(parseTakeoff({ ...takeoff, sheet: `${seed}.jpg` }));
+    if (process.env.DETECT_GUIDES) {
+      out.worstCurve = await worst(found.takeoff);
+      out.worstGiven = await worst(parseTakeoff({ ...takeoff, sheet: `${seed}.jpg` }));
+    }
+    out.curves = await scoreFoundCurves(seed, plan, takeoff, sheet);
   } catch (error) {
     out.error = error instanceof Error ? error.message : String(error);
   } finally {
     await sheet.close();
+  }
+  return out;
+}
+
+function emptyCurves(plan: SheetPlan): CurveOutcome {
+  return { drawn: plan.lines.filter((l) => l.iso === undefined).length, right: 0, errors: [], invented: 0, missed: 0, mislabelled: 0, silent: [], gaveDiameters: false, questions: [] };
+}
+
+/** Tolerances of the acceptance on scans: 0.5 % of span, 1.5 points of efficiency. */
+export const SCAN_CURVE_PERCENT = 0.5;
+export const SCAN_EFFICIENCY_POINTS = 1.5;
+
+/**
+ * The take-off with no panels and no traces: the detector finds both. The diameters are given
+ * only when the sheet prints none beside its head curves (the answer the engineer gives once).
+ */
+async function scoreFoundCurves(seed: number, plan: SheetPlan, takeoff: TakeoffInput, sheet: Awaited<ReturnType<typeof loadImageSheetNode>>): Promise<CurveOutcome> {
+  const out = emptyCurves(plan);
+  const raw: Record<string, unknown> = { ...takeoff, sheet: `${seed}.jpg` };
+  delete raw.panels;
+  delete raw.traces;
+  const headLabels = plan.lines.filter((l) => l.quantity === 'head' && l.iso === undefined && l.label).length;
+  if (headLabels === 0) {
+    raw.diameters = [...plan.family.diameters];
+    out.gaveDiameters = true;
+  }
+  const truth = truthOf(plan).filter((t) => t.source === 'curve');
+  let found;
+  try {
+    found = await detectTakeoff(parseTakeoffToDetect(raw), raw, sheet, { reader: textReaderNode() });
+  } catch (error) {
+    out.error = error instanceof Error ? error.message : String(error);
+    out.missed = truth.length;
+    return out;
+  }
+  out.questions = found.questions;
+  const detected = found.takeoff.traces.filter((t) => t.origin === 'detected');
+  const replay = await replayTakeoff(found.takeoff, sheet, { created: '2026-01-01T00:00:00.000Z' });
+  const scores = scoreReplay(plan.family, truth, replay.curveSet);
+  const asked = found.questions.length > 0;
+  for (const t of truth) {
+    const trace = detected.find((d) => d.quantity === t.quantity && d.diameter === t.diameter);
+    const s = scores.find((k) => k.id === `${t.quantity}-${t.diameter}`);
+    if (!trace || !s) {
+      out.missed++;
+      if (!asked) out.silent.push(`${t.quantity}-${t.diameter} missed`);
+      continue;
+    }
+    const limit = t.quantity === 'efficiency' ? SCAN_EFFICIENCY_POINTS : SCAN_CURVE_PERCENT;
+    const confidence = trace.confidence ?? 1;
+    out.errors.push({ id: s.id, quantity: t.quantity, error: s.error, flagged: s.flagged, confidence });
+    if (s.error <= limit) out.right++;
+    else if (!s.flagged && confidence >= 0.5) out.silent.push(`${s.id} ${s.error.toFixed(2)} off`);
+  }
+  for (const d of detected) {
+    if (truth.some((t) => t.quantity === d.quantity && t.diameter === d.diameter)) continue;
+    if (plan.family.diameters.includes(d.diameter as number)) out.invented++;
+    else out.mislabelled++;
+    if ((d.confidence ?? 1) >= 0.5) out.silent.push(`${d.id} ${plan.family.diameters.includes(d.diameter as number) ? 'invented' : 'mislabelled'}`);
   }
   return out;
 }
@@ -115,7 +198,9 @@ async function main(): Promise<void> {
     outcomes.push(o);
     const cal = Object.entries(o.calibration).map(([k, v]) => `${k} ${v.toFixed(3)}`).join(', ');
     process.stdout.write(`${String(seed).padStart(4)} ${o.dpi} dpi turn ${o.turnDeg.toFixed(2)}° panels ${o.panels.found}/${o.panels.expected} calibration % of span: ${cal || '-'}; questions ${o.questions.length}; curves from the bed's guides, worst: on found panels ${Number.isFinite(o.worstCurve) ? o.worstCurve.toFixed(2) : 'missing'}, on the bed's panels ${Number.isFinite(o.worstGiven) ? o.worstGiven.toFixed(2) : 'missing'}; ${o.detectMs.toFixed(0)} ms${o.error ? `; refused: ${o.error}` : ''}\n`);
-    if (process.env.DETECT_VERBOSE) for (const k of [...o.wrong, ...o.questions.map((x) => `? ${x}`)]) process.stdout.write(`      ${k}\n`);
+    const c = o.curves;
+    process.stdout.write(`       curves found: ${c.right}/${c.drawn} within tolerance, worst ${c.errors.length ? Math.max(...c.errors.map((e) => e.error)).toFixed(2) : '-'}; missed ${c.missed}, invented ${c.invented}, mislabelled ${c.mislabelled}; questions ${c.questions.length}${c.gaveDiameters ? ' (diameters given: no labels on the sheet)' : ''}${c.silent.length ? `; WRONG WITHOUT A FLAG: ${c.silent.join(', ')}` : ''}${c.error ? `; refused: ${c.error.slice(0, 160)}` : ''}\n`);
+    if (process.env.DETECT_VERBOSE) for (const k of [...o.wrong, ...o.questions.map((x) => `? ${x}`), ...c.errors.map((e) => `  ${e.id} ${e.error.toFixed(2)}${e.flagged ? ' flagged' : ''} conf ${e.confidence}`), ...c.questions.map((x) => `?c ${x}`)]) process.stdout.write(`      ${k}\n`);
   }
   await closeTextReaderNode();
   const expected = outcomes.reduce((n, o) => n + o.panels.expected, 0);
@@ -129,6 +214,17 @@ async function main(): Promise<void> {
   process.stdout.write(`sheets fully right (every panel found, named and within ${SCAN_ACCEPT_PERCENT} %): ${outcomes.filter((o) => o.wrong.length === 0 && !o.error).length} of ${outcomes.length}; refused: ${outcomes.filter((o) => o.error).length}\n`);
   process.stdout.write(`wrong without a question: ${silent.length}${silent.length ? ` (seeds ${silent.map((o) => o.seed).join(', ')})` : ''}\n`);
   process.stdout.write(`detection time per sheet (decoded image to take-off, reader started): p50 ${q(ms, 0.5).toFixed(0)} ms, max ${Math.max(...ms).toFixed(0)} ms\n`);
+  const cs = outcomes.map((o) => o.curves);
+  const byKind = (f: (e: CurveOutcome['errors'][number]) => boolean) => cs.flatMap((c) => c.errors.filter(f).map((e) => e.error));
+  const spanErrors = byKind((e) => e.quantity !== 'efficiency');
+  const points = byKind((e) => e.quantity === 'efficiency');
+  const sum = (f: (c: CurveOutcome) => number) => cs.reduce((n, c) => n + f(c), 0);
+  process.stdout.write(`\ncurves found on the scans (no panels, no traces given): ${sum((c) => c.right)} of ${sum((c) => c.drawn)} drawn curves within ${SCAN_CURVE_PERCENT} % of span / ${SCAN_EFFICIENCY_POINTS} points; found ${sum((c) => c.errors.length)}\n`);
+  process.stdout.write(`  error, % of span (head, power, NPSHr): p50 ${q(spanErrors, 0.5).toFixed(3)} p95 ${q(spanErrors, 0.95).toFixed(3)} max ${spanErrors.length ? Math.max(...spanErrors).toFixed(3) : '-'} (${spanErrors.length} curves)\n`);
+  process.stdout.write(`  efficiency curves, points: p50 ${q(points, 0.5).toFixed(2)} p95 ${q(points, 0.95).toFixed(2)} max ${points.length ? Math.max(...points).toFixed(2) : '-'} (${points.length} curves; iso-lines are not read on scans yet)\n`);
+  process.stdout.write(`  missed ${sum((c) => c.missed)}, invented ${sum((c) => c.invented)}, mislabelled ${sum((c) => c.mislabelled)}; refused sheets ${cs.filter((c) => c.error).length}; diameters given on ${cs.filter((c) => c.gaveDiameters).length} sheets without labels\n`);
+  process.stdout.write(`  questions per sheet: ${cs.map((c) => c.questions.length).join(' ')}; sheets with at most one: ${cs.filter((c) => c.questions.length <= 1).length} of ${cs.length}\n`);
+  process.stdout.write(`  WRONG WITHOUT A FLAG: ${sum((c) => c.silent.length)}${cs.some((c) => c.silent.length) ? ` (${outcomes.filter((o) => o.curves.silent.length).map((o) => `${o.seed}: ${o.curves.silent.join(', ')}`).join('; ')})` : ''}\n`);
   const replayed = outcomes.filter((o) => !o.error);
   const same = replayed.filter((o) => o.worstCurve === o.worstGiven || Math.abs(o.worstCurve - o.worstGiven) <= 0.1);
   process.stdout.write(`replayed curves from the bed's guides: worst per sheet on found panels within 0.1 (% of span or points) of the same guides on the bed's own panels: ${same.length} of ${replayed.length} replayed (the curve errors are the tracer's, see randomSheets)\n`);

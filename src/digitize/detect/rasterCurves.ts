@@ -1,0 +1,384 @@
+/**
+ * Curves found on a scan, panel by panel: the lines of each frame (rasterLines.ts), sorted
+ * into curves (a head curve starts at the flow axis; a curve against a second axis in the head
+ * frame starts at the bottom; what else crosses the head curves is an iso-line), with guides
+ * placed where each line stands alone. The guides go to the raster tracer (rasterTrace.ts),
+ * the one follower the manual take-off uses too, and its line is checked against the line
+ * found here: two followers that disagree make a question, never a silent curve.
+ *
+ * Names: the head curves by the labels read beside or on them ("330 mm", 13"), else by the
+ * diameters the engineer gave, in order (the larger impeller gives more head at every flow).
+ * The curves of the other panels take the diameter of the head curve that ends at the same
+ * flow (each impeller's curves are drawn over the same flows on every panel). Each curve
+ * carries a confidence; where a name is doubtful the curve is left out with one question.
+ *
+ * Pure: the raster, the found panels and the character reader are handed in.
+ */
+import type { Quantity } from '../../model/curveset.ts';
+import { captureRasterTrace } from '../rasterTrace.ts';
+import { sheetPoint, type SheetPoint } from '../points.ts';
+import type { RasterImage } from '../raster.ts';
+import type { InkMap, Level } from './ink.ts';
+import type { Box, FoundPanel } from './panels.ts';
+import { gridLines } from './rasterFrames.ts';
+import { alonePlaces, frameLines, trackAt, type Track } from './rasterLines.ts';
+import type { RasterPanelsFound } from './rasterPanels.ts';
+import { inkBlots, readCrops, wordsOf, type Blot, type TextReader } from './rasterText.ts';
+import { curveLabel, SHEET_NUMBER, sheetNumber } from './words.ts';
+
+export interface RasterCurve {
+  panel: FoundPanel;
+  quantity: Quantity;
+  kind: 'curve' | 'iso';
+  /** The line found, level pixels. */
+  track: Track;
+  /** Where the tracer is started, sheet units, in order along the line. */
+  guides: SheetPoint[];
+  /** The tracer's line, sheet units. */
+  traced: SheetPoint[];
+  /** Flow at the line's two ends (the panel's calibration). */
+  flows: [number, number];
+  /** The diameter or speed, or the iso level; undefined until named. */
+  value?: number;
+  /** How the value was found. */
+  named?: 'label' | 'given' | 'end flow';
+  confidence: number;
+}
+
+export interface RasterCurvesFound {
+  curves: RasterCurve[];
+  /** Unit of the labels read ('mm', 'in', 'rpm'), null when none was read. */
+  labelUnit: string | null;
+  family: 'diameter' | 'speed';
+  questions: string[];
+}
+
+export interface RasterCurveOptions {
+  /** Values the engineer gave (the take-off's diameters or speeds), used when no label is read. */
+  given?: { family: 'diameter' | 'speed'; values: readonly number[] };
+  /** Receives lines about what was read (the dump scripts print them). */
+  note?: (line: string) => void;
+}
+
+const NUMBER_ONLY = new RegExp(`^${SHEET_NUMBER}$`);
+
+/** The level page's frame of a panel, and the panels sharing it. */
+function framesOf(found: RasterPanelsFound): { frame: Box; panels: FoundPanel[] }[] {
+  const out: { frame: Box; panels: FoundPanel[] }[] = [];
+  for (const p of found.panels) {
+    const f = found.levelFrames?.get(p);
+    if (!f || p.quantity === null) continue;
+    const k = out.find((o) => o.frame === f);
+    if (k) k.panels.push(p);
+    else out.push({ frame: f, panels: [p] });
+  }
+  return out;
+}
+
+/** Two tracks that run together over most of their common columns are one line: the longer stays. */
+function dropDoubles(tracks: Track[]): Track[] {
+  const keep = [...tracks].sort((a, b) => b.u.length - a.u.length);
+  const out: Track[] = [];
+  for (const t of keep) {
+    const double = out.some((o) => {
+      let near = 0;
+      let n = 0;
+      for (let i = 0; i < t.u.length; i += 4) {
+        const v = trackAt(o, t.u[i] as number);
+        if (v === null) continue;
+        n++;
+        if (Math.abs(v - (t.v[i] as number)) <= 3) near++;
+      }
+      return n > 0.5 * (t.u.length / 4) && near >= 0.8 * n;
+    });
+    if (!double) out.push(t);
+  }
+  return out;
+}
+
+/**
+ * Curves of every found panel. `found` must come from findRasterPanels on the same image
+ * (it carries the level page). Questions say what was left out and why.
+ */
+export async function findRasterCurves(image: RasterImage, found: RasterPanelsFound, reader: TextReader, options: RasterCurveOptions = {}): Promise<RasterCurvesFound> {
+  const questions: string[] = [];
+  const page = found.page;
+  if (!page) return { curves: [], labelUnit: null, family: 'diameter', questions };
+  const { map, level } = page;
+  const toSheet = (u: number, v: number): SheetPoint => {
+    const [x, y] = level.toImage(u, v);
+    return sheetPoint(x / image.scale, y / image.scale);
+  };
+  const toLevel = (p: SheetPoint): [number, number] => level.toLevel(p[0] * image.scale, p[1] * image.scale);
+  const curves: RasterCurve[] = [];
+  const labelsAt: { word: Blot; frame: Box; clean: InkMap; at: [number, number] }[] = [];
+  for (const { frame, panels } of framesOf(found)) {
+    const grid = { x: gridLines(map, frame, 'x'), y: gridLines(map, frame, 'y') };
+    const tracks = dropDoubles(frameLines(map, frame, { threshold: 0.3 * page.strong, grid }));
+    const [l, , r, b] = frame;
+    const fw = r - l;
+    const head = panels.find((p) => p.quantity === 'head');
+    const second = panels.find((p) => p !== head);
+    for (const t of tracks) {
+      const u0 = t.u[0] as number;
+      const v0 = t.v[0] as number;
+      const atAxis = u0 - l <= 0.03 * fw;
+      let panel: FoundPanel | undefined;
+      let kind: 'curve' | 'iso' = 'curve';
+      if (!head) panel = panels[0];
+      else if (atAxis && second && b - v0 <= 0.05 * (b - frame[1])) panel = second;
+      else if (atAxis) panel = head;
+      else [panel, kind] = [head, 'iso'];
+      if (!panel) continue;
+      curves.push({ panel, quantity: kind === 'iso' ? 'efficiency' : (panel.quantity as Quantity), kind, track: t, guides: [], traced: [], flows: [NaN, NaN], confidence: 1 });
+    }
+    if (head) {
+      const found = frameWords(map, frame, page.strong, page.h);
+      labelsAt.push(...found.words.map((word) => ({ word, frame, clean: found.clean, at: found.at })));
+    }
+  }
+
+  // Guides where each line stands alone, and the tracer's line from them.
+  for (const c of curves) {
+    const width = Math.max(2, median(c.track.len));
+    const places = alonePlaces(c.track, Math.max(10, 5 * width), 12, 2);
+    if (places.length === 0) {
+      c.confidence = 0;
+      continue;
+    }
+    c.guides = places.map((p) => toSheet(p.u, p.v));
+    const frame = c.panel.frame;
+    try {
+      const traced = captureRasterTrace(image, { guides: c.guides }, { frame: [frame[0], frame[1], frame[2], frame[3]] });
+      c.traced = traced.points;
+      if (traced.lost.length > 0) c.confidence *= 0.7;
+    } catch {
+      c.confidence = 0;
+      continue;
+    }
+    // The tracer's line against the line found here, over their common columns.
+    let off = 0;
+    let n = 0;
+    for (const p of c.traced) {
+      const [u, v] = toLevel(p);
+      const at = trackAt(c.track, u);
+      if (at === null) continue;
+      n++;
+      if (Math.abs(at - v) > Math.max(3, 1.5 * width)) off++;
+    }
+    if (n < 3 || off > 0.05 * n) c.confidence *= 0.3;
+    const xs = c.traced.map((p) => c.panel.proposal.calibration.toData(p)[0]);
+    c.flows = [Math.min(...xs), Math.max(...xs)];
+  }
+  const usable = curves.filter((c) => c.confidence > 0 && c.kind === 'curve');
+  const isoCount = curves.filter((c) => c.kind === 'iso').length;
+  if (isoCount > 0) questions.push(`${isoCount} line${isoCount === 1 ? '' : 's'} on the head panel neither start${isoCount === 1 ? 's' : ''} at the flow axis nor at the bottom (iso-efficiency lines, or a line the finder broke); efficiency from iso-lines is not read on scans yet, so trace them by hand if they matter.`);
+  const lostCount = curves.filter((c) => c.confidence === 0 && c.kind === 'curve').length;
+  if (lostCount > 0) questions.push(`${lostCount} line${lostCount === 1 ? '' : 's'} found on the panels never stand${lostCount === 1 ? 's' : ''} alone (bunched or crossed all along), so no guide could be placed on ${lostCount === 1 ? 'it' : 'them'}; trace ${lostCount === 1 ? 'it' : 'them'} by hand.`);
+
+  // Names of the head curves: labels read beside them, else the values given, by order.
+  const heads = usable.filter((c) => c.panel.quantity === 'head' && c.kind === 'curve');
+  const named = await nameHeads(heads, labelsAt, page.strong, reader, level, image.scale, options.given, questions, options.note);
+  // The other panels' curves: the head curve ending at the same flow.
+  const others = usable.filter((c) => !heads.includes(c));
+  const flowSpan = (c: RasterCurve) => {
+    const xs = c.panel.proposal.x.labels.map((k) => k.value);
+    return Math.max(...xs) - Math.min(...xs);
+  };
+  for (const c of others) {
+    if (named.values.size === 0) break;
+    const span = flowSpan(c);
+    const ranked = [...named.values.keys()].map((h) => ({ h, d: Math.abs(h.flows[1] - c.flows[1]) / span })).sort((a, b) => a.d - b.d);
+    const best = ranked[0];
+    const next = ranked[1];
+    if (!best || best.d > 0.02 || (next && next.d < 2 * best.d + 0.005)) {
+      questions.push(`A ${c.quantity} curve on panel "${c.panel.id}" ending at flow ${c.flows[1].toPrecision(4)} does not end where exactly one head curve ends${best ? ` (nearest: ${best.h.value} at ${best.h.flows[1].toPrecision(4)})` : ''}; it is left out: trace it by hand with its diameter.`);
+      continue;
+    }
+    c.value = best.h.value;
+    c.named = 'end flow';
+    c.confidence *= best.d <= 0.008 ? 0.95 : 0.8;
+  }
+  // Two curves of one panel with one name: neither is kept.
+  const out = usable.filter((c) => c.value !== undefined);
+  const twice = out.filter((c) => out.some((o) => o !== c && o.panel === c.panel && o.value === c.value));
+  if (twice.length > 0) questions.push(`On panel "${twice[0]!.panel.id}" two curves came out as ${twice[0]!.value}; both are left out: trace them by hand.`);
+  const curvesOut = out.filter((c) => !twice.includes(c));
+  return { curves: curvesOut, labelUnit: named.unit, family: named.family, questions };
+}
+
+function median(values: readonly number[]): number {
+  const s = [...values].sort((a, b) => a - b);
+  return s.length ? (s[s.length >> 1] as number) : NaN;
+}
+
+/** Words inside a frame (level pixels): blots of about the text height joined along rows, the grid taken out first. */
+export function frameWords(map: InkMap, frame: Box, strong: number, h: number): { words: Blot[]; clean: InkMap; at: [number, number] } {
+  const [l, t, r, b] = frame.map(Math.round) as [number, number, number, number];
+  const w = Math.max(0, r - l - 8);
+  const hh = Math.max(0, b - t - 8);
+  const at: [number, number] = [l + 4, t + 4];
+  if (w < 10 || hh < 10 || !(h > 0)) return { words: [], clean: { width: 0, height: 0, ink: new Uint8Array(0) }, at };
+  const ink = new Int16Array(w * hh);
+  for (let y = 0; y < hh; y++) ink.set(map.ink.subarray((t + 4 + y) * map.width + l + 4, (t + 4 + y) * map.width + l + 4 + w), y * w);
+  // A grid line darkens its whole row (or column): the row's median darkness is taken off every
+  // pixel of it, so a label printed over a grid line stands free and the line itself goes.
+  const hist = new Uint32Array(256);
+  const medianOf = (at: (k: number) => number, n: number) => {
+    hist.fill(0);
+    for (let k = 0; k < n; k++) hist[Math.max(0, Math.min(255, at(k)))]!++;
+    let seen = 0;
+    for (let v = 0; v < 256; v++) if ((seen += hist[v] as number) >= n / 2) return v;
+    return 0;
+  };
+  for (let y = 0; y < hh; y++) {
+    const m = medianOf((k) => ink[y * w + k] as number, w);
+    if (m > 0) for (let k = 0; k < w; k++) ink[y * w + k] = (ink[y * w + k] as number) - m;
+  }
+  for (let x = 0; x < w; x++) {
+    const m = medianOf((k) => ink[k * w + x] as number, hh);
+    if (m > 0) for (let k = 0; k < hh; k++) ink[k * w + x] = (ink[k * w + x] as number) - m;
+  }
+  const clean = new Uint8Array(w * hh);
+  for (let i = 0; i < clean.length; i++) clean[i] = Math.max(0, ink[i] as number);
+  const cleanMap: InkMap = { width: w, height: hh, ink: clean };
+  const blots = joinCut(inkBlots(cleanMap, 0.3 * strong, [], Math.round(2 * h)));
+  // Glyphs and the marks beside them (a dot, an inch mark); a word is about the text's height.
+  const words = wordsOf(blots.filter((k) => k.b - k.t >= 0.2 * h || k.r - k.l >= 0.2 * h)).filter((k) => k.b - k.t >= 0.6 * h && k.b - k.t <= 1.6 * h && k.r - k.l >= 0.4 * h && k.r - k.l <= 8 * h);
+  return { words, clean: cleanMap, at };
+}
+
+/** A glyph cut in two by a grid row taken out: pieces one above the other, a few pixels apart, joined again. */
+function joinCut(blots: Blot[]): Blot[] {
+  const out = [...blots].sort((a, b) => a.t - b.t);
+  for (let again = true; again; ) {
+    again = false;
+    for (let i = 0; i < out.length && !again; i++) {
+      for (let j = i + 1; j < out.length; j++) {
+        const a = out[i] as Blot;
+        const c = out[j] as Blot;
+        const overlap = Math.min(a.r, c.r) - Math.max(a.l, c.l);
+        const gap = Math.max(a.t, c.t) - Math.min(a.b, c.b);
+        if (overlap >= 0.5 * Math.min(a.r - a.l, c.r - c.l) && gap <= 5) {
+          out[i] = { l: Math.min(a.l, c.l), t: Math.min(a.t, c.t), r: Math.max(a.r, c.r), b: Math.max(a.b, c.b) };
+          out.splice(j, 1);
+          again = true;
+          break;
+        }
+      }
+    }
+  }
+  return out;
+}
+
+/** A curve's label: "330 mm", 13", "13 in", "1450 rpm", or a bare number. */
+function labelOf(text: string): { value: number; unit: 'mm' | 'in' | 'rpm' | null } | null {
+  const t = text.replace(/[”“″]/g, '"').replace(/\s+/g, ' ').trim();
+  const k = curveLabel(t);
+  if (k) return { value: k.value, unit: k.unit };
+  if (NUMBER_ONLY.test(t)) return { value: sheetNumber(t), unit: null };
+  return null;
+}
+
+async function nameHeads(
+  heads: RasterCurve[],
+  found: { word: Blot; frame: Box; clean: InkMap; at: [number, number] }[],
+  strong: number,
+  reader: TextReader,
+  level: Level,
+  scale: number,
+  given: RasterCurveOptions['given'],
+  questions: string[],
+  note: (line: string) => void = () => undefined,
+): Promise<{ values: Map<RasterCurve, number>; unit: string | null; family: 'diameter' | 'speed' }> {
+  const values = new Map<RasterCurve, number>();
+  if (heads.length === 0) return { values, unit: null, family: given?.family ?? 'diameter' };
+  // Order, top to bottom, checked at every column the curves share: the higher curve stays higher.
+  const lo = Math.max(...heads.map((c) => c.track.u[0] as number));
+  const hi = Math.min(...heads.map((c) => c.track.u[c.track.u.length - 1] as number));
+  const rows = (u: number) => heads.map((c) => trackAt(c.track, u) ?? NaN);
+  const order = [...heads].sort((a, b) => (trackAt(a.track, lo) ?? 0) - (trackAt(b.track, lo) ?? 0));
+  let crossing = false;
+  for (let k = 0; k <= 10 && hi > lo; k++) {
+    const u = lo + ((hi - lo) * k) / 10;
+    const at = rows(u);
+    const sorted = [...heads].sort((a, b) => (at[heads.indexOf(a)] as number) - (at[heads.indexOf(b)] as number));
+    if (sorted.some((c, i) => c !== order[i])) crossing = true;
+  }
+  // Labels read inside the head frame, each on or beside its nearest head curve.
+  // Read on the frame's ink with the grid taken out, one call per frame; then in level pixels.
+  const readings: { text: string }[] = [];
+  const words: { word: Blot }[] = [];
+  for (const clean of new Set(found.map((k) => k.clean))) {
+    const here = found.filter((k) => k.clean === clean);
+    readings.push(...(await readCrops(clean, here.map((w) => ({ box: { l: w.word.l - 2, t: w.word.t - 2, r: w.word.r + 2, b: w.word.b + 2 }, upright: false })), reader, 'words', 2 * strong)));
+    words.push(...here.map((k) => ({ word: { l: k.word.l + k.at[0], t: k.word.t + k.at[1], r: k.word.r + k.at[0], b: k.word.b + k.at[1] } })));
+  }
+  const byCurve = new Map<RasterCurve, { value: number; unit: string | null }[]>();
+  words.forEach((w, i) => {
+    const label = labelOf(readings[i]?.text ?? '');
+    note(`word at [${w.word.l}, ${w.word.t}, ${w.word.r}, ${w.word.b}] read "${readings[i]?.text ?? ''}" → ${label ? `${label.value} ${label.unit ?? ''}` : 'no label'}`);
+    if (!label) return;
+    const cx = (w.word.l + w.word.r) / 2;
+    const cy = (w.word.t + w.word.b) / 2;
+    const hgt = w.word.b - w.word.t;
+    let best: RasterCurve | null = null;
+    let bestD = Infinity;
+    for (const c of heads) {
+      const on = trackAt(c.track, cx);
+      const n = c.track.u.length;
+      const endU = c.track.u[n - 1] as number;
+      const endV = c.track.v[n - 1] as number;
+      // On the line (the label interrupts it), or beside its end (up and to the right).
+      const dOn = on === null ? Infinity : Math.abs(on - cy);
+      const dEnd = Math.hypot(Math.max(0, w.word.l - endU), Math.max(0, endV - w.word.b));
+      const d = Math.min(dOn, w.word.l >= endU - hgt ? dEnd : Infinity);
+      if (d < bestD) [best, bestD] = [c, d];
+    }
+    note(`  nearest head curve ${best ? heads.indexOf(best) : '-'} at ${bestD.toFixed(1)} px (text height ${hgt})`);
+    if (best && bestD <= 1.5 * hgt) byCurve.set(best, [...(byCurve.get(best) ?? []), label]);
+  });
+  const unit = [...byCurve.values()].flat().find((k) => k.unit !== null)?.unit ?? null;
+  const family: 'diameter' | 'speed' = unit === 'rpm' ? 'speed' : unit ? 'diameter' : (given?.family ?? 'diameter');
+  const fromLabels = new Map<RasterCurve, number>();
+  let doubtful = false;
+  for (const [c, list] of byCurve) {
+    const distinct = [...new Set(list.map((k) => k.value))];
+    if (distinct.length === 1) fromLabels.set(c, distinct[0] as number);
+    else doubtful = true;
+  }
+  // The labels must agree with the order: the higher curve, the larger value.
+  const labelled = order.filter((c) => fromLabels.has(c)).map((c) => fromLabels.get(c) as number);
+  const labelsInOrder = labelled.every((v, i) => i === 0 || v < (labelled[i - 1] as number));
+  const where = (c: RasterCurve) => {
+    const n = c.track.u.length;
+    const [x, y] = level.toImage(c.track.u[n >> 1] as number, c.track.v[n >> 1] as number);
+    return `[${(x / scale).toFixed(0)}, ${(y / scale).toFixed(0)}]`;
+  };
+  if (fromLabels.size === heads.length && labelsInOrder && !doubtful && !crossing) {
+    for (const [c, v] of fromLabels) [values.set(c, v), (c.value = v), (c.named = 'label'), (c.confidence *= 0.95)];
+    return { values, unit, family };
+  }
+  const givenValues = given ? [...given.values].sort((a, b) => b - a) : null;
+  if (givenValues && givenValues.length === heads.length && !crossing) {
+    order.forEach((c, i) => {
+      const v = givenValues[i] as number;
+      values.set(c, v);
+      c.value = v;
+      c.named = 'given';
+      // Labels read that disagree with the given value lower the confidence (the engineer is asked once).
+      const read = fromLabels.get(c);
+      c.confidence *= read === undefined || read === v ? 0.9 : 0.5;
+    });
+    const against = order.filter((c) => fromLabels.has(c) && fromLabels.get(c) !== c.value);
+    if (against.length > 0) questions.push(`The labels read beside ${against.length} head curve${against.length === 1 ? '' : 's'} (${against.map((c) => `${fromLabels.get(c)} at ${where(c)}`).join(', ')}) disagree with the values given in order (${givenValues.join(', ')}); the given values are used. Are they in the right order?`);
+    return { values, unit, family: given?.family ?? family };
+  }
+  const readList = order.map((c) => (fromLabels.has(c) ? String(fromLabels.get(c)) : '?')).join(', ');
+  questions.push(
+    crossing
+      ? `The ${heads.length} head curves found cross one another, so their order does not name them; give each curve's diameter by tracing it (labels read, top to bottom: ${readList}).`
+      : `The ${heads.length} head curves found (top to bottom at ${order.map(where).join(', ')}) could not all be named from the labels read (${readList})${givenValues ? ` nor from the ${givenValues.length} values given` : ''}; give the diameters (or speeds) drawn in the take-off ("diameters" or "speeds"), and run --detect again.`,
+  );
+  return { values, unit, family };
+}
