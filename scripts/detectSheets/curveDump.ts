@@ -31,7 +31,7 @@ for (const p of found.panels) {
   seen.add(key);
   const grid = { x: gridLines(page.map, f, 'x'), y: gridLines(page.map, f, 'y') };
   const t0 = performance.now();
-  const tracks = frameLines(page.map, f, { threshold: Number(process.env.T ?? 0.3) * page.strong, grid });
+  const tracks = frameLines(page.map, f, { ceiling: 0.3 * page.strong, grid });
   process.stdout.write(`panel ${p.id} frame ${f.map(Math.round).join(',')} grid ${grid.x.length}x${grid.y.length}: ${tracks.length} tracks in ${(performance.now() - t0).toFixed(0)} ms\n`);
   for (const tr of tracks) process.stdout.write(`   track u ${tr.u[0]!.toFixed(0)}–${tr.u[tr.u.length - 1]!.toFixed(0)} n ${tr.u.length} v ${tr.v[0]!.toFixed(0)}→${tr.v[tr.v.length - 1]!.toFixed(0)}\n`);
   const planPanel = plan.panels.find((q) => q.quantity === p.quantity);
@@ -50,7 +50,19 @@ for (const p of found.panels) {
   }
 }
 const curves = await findRasterCurves(image, found, textReaderNode(), { note: (l) => process.stdout.write(`  ${l}\n`) });
-for (const c of curves.curves) process.stdout.write(`curve ${c.panel.id} ${c.quantity} ${c.value} (${c.named}) conf ${c.confidence.toFixed(2)} flows ${c.flows.map((f) => f.toPrecision(4)).join('–')} guides ${c.guides.map((g) => g.map((v) => v.toFixed(0)).join(',')).join(' ')}\n`);
+const nearestLine = (p: readonly [number, number]) => {
+  let best = { id: '-', d: Infinity };
+  for (const line of plan.lines) for (const q of line.points) {
+    const [x, y] = applyH(shot.h, q);
+    const d = Math.hypot(x - p[0] * image.scale, y - p[1] * image.scale);
+    if (d < best.d) best = { id: line.id, d };
+  }
+  return `${best.id}@${best.d.toFixed(1)}`;
+};
+for (const c of curves.curves) {
+  const tracedOn = c.traced.length ? [c.traced[0]!, c.traced[c.traced.length >> 1]!, c.traced[c.traced.length - 1]!].map(nearestLine).join(' ') : '-';
+  process.stdout.write(`curve ${c.panel.id} ${c.quantity} ${c.value} (${c.named}) conf ${c.confidence.toFixed(2)} flows ${c.flows.map((f) => f.toPrecision(4)).join('–')} guides ${c.guides.map((g) => `${g.map((v) => v.toFixed(0)).join(',')} on ${nearestLine(g)}`).join(' ')}; traced start/middle/end on ${tracedOn}\n`);
+}
 for (const q of curves.questions) process.stdout.write(`? ${q}\n`);
 await sheet.close();
 await closeTextReaderNode();

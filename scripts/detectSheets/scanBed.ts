@@ -61,8 +61,10 @@ export interface CurveOutcome {
   mislabelled: number;
   /** Wrong (beyond tolerance, a wrong name, invented) with neither a finding of the replay, a confidence under 0.5, nor a question. */
   silent: string[];
-  /** The diameters were given in the take-off, because the sheet prints none on its head curves (the engineer's one answer). */
+  /** The diameters were given in the take-off: the detector asked for them (labels missing or not read), and the engineer answered once. */
   gaveDiameters: boolean;
+  /** Head curves named from the labels read on the scan. */
+  namedByLabels: number;
   questions: string[];
   error?: string;
 }
@@ -122,7 +124,7 @@ export async function runScan(seed: number, kind: 'scan' | 'photo' = 'scan'): Pr
 }
 
 function emptyCurves(plan: SheetPlan): CurveOutcome {
-  return { drawn: plan.lines.filter((l) => l.iso === undefined).length, right: 0, errors: [], invented: 0, missed: 0, mislabelled: 0, silent: [], gaveDiameters: false, questions: [] };
+  return { drawn: plan.lines.filter((l) => l.iso === undefined).length, right: 0, errors: [], invented: 0, missed: 0, mislabelled: 0, silent: [], gaveDiameters: false, namedByLabels: 0, questions: [] };
 }
 
 /** Tolerances of the acceptance on scans: 0.5 % of span, 1.5 points of efficiency. */
@@ -130,29 +132,47 @@ export const SCAN_CURVE_PERCENT = 0.5;
 export const SCAN_EFFICIENCY_POINTS = 1.5;
 
 /**
- * The take-off with no panels and no traces: the detector finds both. The diameters are given
- * only when the sheet prints none beside its head curves (the answer the engineer gives once).
+ * The take-off with no panels and no traces: the detector finds both. When it asks for the
+ * diameters (labels missing or not read), the engineer answers once: the run is repeated with
+ * the plan's diameters given, and that question is the sheet's one question.
  */
 async function scoreFoundCurves(seed: number, plan: SheetPlan, takeoff: TakeoffInput, sheet: Awaited<ReturnType<typeof loadImageSheetNode>>): Promise<CurveOutcome> {
   const out = emptyCurves(plan);
   const raw: Record<string, unknown> = { ...takeoff, sheet: `${seed}.jpg` };
   delete raw.panels;
   delete raw.traces;
-  const headLabels = plan.lines.filter((l) => l.quantity === 'head' && l.iso === undefined && l.label).length;
-  if (headLabels === 0) {
+  const truth = truthOf(plan).filter((t) => t.source === 'curve');
+  const askedForValues = (text: string) => /give the diameters \(or speeds\) drawn/.test(text);
+  const run = () => detectTakeoff(parseTakeoffToDetect(raw), raw, sheet, { reader: textReaderNode() });
+  let found;
+  let first: string[] = [];
+  try {
+    found = await run();
+    first = found.questions;
+  } catch (error) {
+    const message = error instanceof Error ? error.message : String(error);
+    if (!askedForValues(message)) {
+      out.error = message;
+      out.missed = truth.length;
+      return out;
+    }
+    first = [message];
+  }
+  if (!found || found.questions.some(askedForValues)) {
     raw.diameters = [...plan.family.diameters];
     out.gaveDiameters = true;
+    try {
+      found = await run();
+    } catch (error) {
+      out.error = error instanceof Error ? error.message : String(error);
+      out.missed = truth.length;
+      out.questions = first;
+      return out;
+    }
   }
-  const truth = truthOf(plan).filter((t) => t.source === 'curve');
-  let found;
-  try {
-    found = await detectTakeoff(parseTakeoffToDetect(raw), raw, sheet, { reader: textReaderNode() });
-  } catch (error) {
-    out.error = error instanceof Error ? error.message : String(error);
-    out.missed = truth.length;
-    return out;
-  }
-  out.questions = found.questions;
+  // The questions of the sheet: the one answered (the diameters), then what the second run still asks.
+  out.questions = out.gaveDiameters ? ['give the diameters drawn', ...found.questions] : found.questions;
+  out.namedByLabels = found.takeoff.traces.filter((t) => t.origin === 'detected' && t.quantity === 'head').length * (out.gaveDiameters ? 0 : 1);
   const detected = found.takeoff.traces.filter((t) => t.origin === 'detected');
   const replay = await replayTakeoff(found.takeoff, sheet, { created: '2026-01-01T00:00:00.000Z' });
   const scores = scoreReplay(plan.family, truth, replay.curveSet);
@@ -199,7 +219,7 @@ async function main(): Promise<void> {
     const cal = Object.entries(o.calibration).map(([k, v]) => `${k} ${v.toFixed(3)}`).join(', ');
     process.stdout.write(`${String(seed).padStart(4)} ${o.dpi} dpi turn ${o.turnDeg.toFixed(2)}° panels ${o.panels.found}/${o.panels.expected} calibration % of span: ${cal || '-'}; questions ${o.questions.length}; curves from the bed's guides, worst: on found panels ${Number.isFinite(o.worstCurve) ? o.worstCurve.toFixed(2) : 'missing'}, on the bed's panels ${Number.isFinite(o.worstGiven) ? o.worstGiven.toFixed(2) : 'missing'}; ${o.detectMs.toFixed(0)} ms${o.error ? `; refused: ${o.error}` : ''}\n`);
     const c = o.curves;
-    process.stdout.write(`       curves found: ${c.right}/${c.drawn} within tolerance, worst ${c.errors.length ? Math.max(...c.errors.map((e) => e.error)).toFixed(2) : '-'}; missed ${c.missed}, invented ${c.invented}, mislabelled ${c.mislabelled}; questions ${c.questions.length}${c.gaveDiameters ? ' (diameters given: no labels on the sheet)' : ''}${c.silent.length ? `; WRONG WITHOUT A FLAG: ${c.silent.join(', ')}` : ''}${c.error ? `; refused: ${c.error.slice(0, 160)}` : ''}\n`);
+    process.stdout.write(`       curves found: ${c.right}/${c.drawn} within tolerance, worst ${c.errors.length ? Math.max(...c.errors.map((e) => e.error)).toFixed(2) : '-'}; missed ${c.missed}, invented ${c.invented}, mislabelled ${c.mislabelled}; questions ${c.questions.length}${c.gaveDiameters ? ' (asked for the diameters, given)' : ` (${c.namedByLabels} head curves named from labels)`}${c.silent.length ? `; WRONG WITHOUT A FLAG: ${c.silent.join(', ')}` : ''}${c.error ? `; refused: ${c.error.slice(0, 160)}` : ''}\n`);
     if (process.env.DETECT_VERBOSE) for (const k of [...o.wrong, ...o.questions.map((x) => `? ${x}`), ...c.errors.map((e) => `  ${e.id} ${e.error.toFixed(2)}${e.flagged ? ' flagged' : ''} conf ${e.confidence}`), ...c.questions.map((x) => `?c ${x}`)]) process.stdout.write(`      ${k}\n`);
   }
   await closeTextReaderNode();
@@ -222,7 +242,7 @@ async function main(): Promise<void> {
   process.stdout.write(`\ncurves found on the scans (no panels, no traces given): ${sum((c) => c.right)} of ${sum((c) => c.drawn)} drawn curves within ${SCAN_CURVE_PERCENT} % of span / ${SCAN_EFFICIENCY_POINTS} points; found ${sum((c) => c.errors.length)}\n`);
   process.stdout.write(`  error, % of span (head, power, NPSHr): p50 ${q(spanErrors, 0.5).toFixed(3)} p95 ${q(spanErrors, 0.95).toFixed(3)} max ${spanErrors.length ? Math.max(...spanErrors).toFixed(3) : '-'} (${spanErrors.length} curves)\n`);
   process.stdout.write(`  efficiency curves, points: p50 ${q(points, 0.5).toFixed(2)} p95 ${q(points, 0.95).toFixed(2)} max ${points.length ? Math.max(...points).toFixed(2) : '-'} (${points.length} curves; iso-lines are not read on scans yet)\n`);
-  process.stdout.write(`  missed ${sum((c) => c.missed)}, invented ${sum((c) => c.invented)}, mislabelled ${sum((c) => c.mislabelled)}; refused sheets ${cs.filter((c) => c.error).length}; diameters given on ${cs.filter((c) => c.gaveDiameters).length} sheets without labels\n`);
+  process.stdout.write(`  missed ${sum((c) => c.missed)}, invented ${sum((c) => c.invented)}, mislabelled ${sum((c) => c.mislabelled)}; refused sheets ${cs.filter((c) => c.error).length}; head curves named from labels read: ${sum((c) => c.namedByLabels)}; sheets where the detector asked for the diameters and got them: ${cs.filter((c) => c.gaveDiameters).length} (of ${cs.length})\n`);
   process.stdout.write(`  questions per sheet: ${cs.map((c) => c.questions.length).join(' ')}; sheets with at most one: ${cs.filter((c) => c.questions.length <= 1).length} of ${cs.length}\n`);
   process.stdout.write(`  WRONG WITHOUT A FLAG: ${sum((c) => c.silent.length)}${cs.some((c) => c.silent.length) ? ` (${outcomes.filter((o) => o.curves.silent.length).map((o) => `${o.seed}: ${o.curves.silent.join(', ')}`).join('; ')})` : ''}\n`);
   const replayed = outcomes.filter((o) => !o.error);

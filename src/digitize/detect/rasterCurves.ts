@@ -30,8 +30,9 @@ export interface RasterCurve {
   panel: FoundPanel;
   quantity: Quantity;
   kind: 'curve' | 'iso';
-  /** The line found, level pixels. */
+  /** The line found, and the frame it was found in, level pixels. */
   track: Track;
+  levelFrame: Box;
   /** Where the tracer is started, sheet units, in order along the line. */
   guides: SheetPoint[];
   /** The tracer's line, sheet units. */
@@ -114,7 +115,10 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
   const labelsAt: { word: Blot; frame: Box; clean: InkMap; at: [number, number] }[] = [];
   for (const { frame, panels } of framesOf(found)) {
     const grid = { x: gridLines(map, frame, 'x'), y: gridLines(map, frame, 'y') };
-    const tracks = dropDoubles(frameLines(map, frame, { threshold: 0.3 * page.strong, grid }));
+    // The words printed in the frame (curve labels) are no line: the lines are followed around them.
+    const printed = frameWords(map, frame, page.strong, page.h);
+    const holes = printed.words.map((w) => [w.l + printed.at[0] - 2, w.t + printed.at[1] - 2, w.r + printed.at[0] + 2, w.b + printed.at[1] + 2] as const);
+    const tracks = dropDoubles(frameLines(map, frame, { ceiling: 0.3 * page.strong, grid, holes }));
     const [l, , r, b] = frame;
     const fw = r - l;
     const head = panels.find((p) => p.quantity === 'head');
@@ -130,18 +134,15 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
       else if (atAxis) panel = head;
       else [panel, kind] = [head, 'iso'];
       if (!panel) continue;
-      curves.push({ panel, quantity: kind === 'iso' ? 'efficiency' : (panel.quantity as Quantity), kind, track: t, guides: [], traced: [], flows: [NaN, NaN], confidence: 1 });
+      curves.push({ panel, quantity: kind === 'iso' ? 'efficiency' : (panel.quantity as Quantity), kind, track: t, levelFrame: frame, guides: [], traced: [], flows: [NaN, NaN], confidence: 1 });
     }
-    if (head) {
-      const found = frameWords(map, frame, page.strong, page.h);
-      labelsAt.push(...found.words.map((word) => ({ word, frame, clean: found.clean, at: found.at })));
-    }
+    if (head) labelsAt.push(...printed.words.map((word) => ({ word, frame, clean: printed.clean, at: printed.at })));
   }
 
   // Guides where each line stands alone, and the tracer's line from them.
   for (const c of curves) {
     const width = Math.max(2, median(c.track.len));
-    const places = alonePlaces(c.track, Math.max(10, 5 * width), 12, 2);
+    const places = alonePlaces(c.track, Math.max(8, 4 * width), 8, 0.15 * (c.levelFrame[2] - c.levelFrame[0]));
     if (places.length === 0) {
       c.confidence = 0;
       continue;
@@ -167,7 +168,10 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
       if (Math.abs(at - v) > Math.max(3, 1.5 * width)) off++;
     }
     if (n < 3 || off > 0.05 * n) c.confidence *= 0.3;
-    const xs = c.traced.map((p) => c.panel.proposal.calibration.toData(p)[0]);
+    // The line's ends, as found here (around the words: the tracer may run on into a label beside the end).
+    const n0 = c.track.u.length - 1;
+    const ends = [toSheet(c.track.u[0] as number, c.track.v[0] as number), toSheet(c.track.u[n0] as number, c.track.v[n0] as number)];
+    const xs = ends.map((p) => c.panel.proposal.calibration.toData(p)[0]);
     c.flows = [Math.min(...xs), Math.max(...xs)];
   }
   const usable = curves.filter((c) => c.confidence > 0 && c.kind === 'curve');
@@ -307,18 +311,26 @@ async function nameHeads(
   }
   // Labels read inside the head frame, each on or beside its nearest head curve.
   // Read on the frame's ink with the grid taken out, one call per frame; then in level pixels.
-  const readings: { text: string }[] = [];
+  // Each word is read twice (as words, for the unit; as digits, for the number): a small label
+  // in colour is often read two ways, and the candidates are sorted out below.
+  const readings: { text: string; digits: string }[] = [];
   const words: { word: Blot }[] = [];
   for (const clean of new Set(found.map((k) => k.clean))) {
     const here = found.filter((k) => k.clean === clean);
-    readings.push(...(await readCrops(clean, here.map((w) => ({ box: { l: w.word.l - 2, t: w.word.t - 2, r: w.word.r + 2, b: w.word.b + 2 }, upright: false })), reader, 'words', 2 * strong)));
+    const crops = here.map((w) => ({ box: { l: w.word.l - 2, t: w.word.t - 2, r: w.word.r + 2, b: w.word.b + 2 }, upright: false }));
+    const asWords = await readCrops(clean, crops, reader, 'words', 2 * strong);
+    const asDigits = await readCrops(clean, crops, reader, 'digits', 2 * strong);
+    asWords.forEach((r, i) => readings.push({ text: r.text, digits: asDigits[i]?.text ?? '' }));
     words.push(...here.map((k) => ({ word: { l: k.word.l + k.at[0], t: k.word.t + k.at[1], r: k.word.r + k.at[0], b: k.word.b + k.at[1] } })));
   }
-  const byCurve = new Map<RasterCurve, { value: number; unit: string | null }[]>();
+  const byCurve = new Map<RasterCurve, Set<number>>();
+  const units: (string | null)[] = [];
   words.forEach((w, i) => {
-    const label = labelOf(readings[i]?.text ?? '');
-    note(`word at [${w.word.l}, ${w.word.t}, ${w.word.r}, ${w.word.b}] read "${readings[i]?.text ?? ''}" → ${label ? `${label.value} ${label.unit ?? ''}` : 'no label'}`);
-    if (!label) return;
+    const reading = readings[i] as { text: string; digits: string };
+    const label = labelOf(reading.text);
+    const candidates = labelCandidates(reading.text, reading.digits);
+    note(`word at [${w.word.l}, ${w.word.t}, ${w.word.r}, ${w.word.b}] read "${reading.text}" / "${reading.digits}" → ${candidates.join(' or ') || 'no label'}`);
+    if (candidates.length === 0) return;
     const cx = (w.word.l + w.word.r) / 2;
     const cy = (w.word.t + w.word.b) / 2;
     const hgt = w.word.b - w.word.t;
@@ -336,49 +348,110 @@ async function nameHeads(
       if (d < bestD) [best, bestD] = [c, d];
     }
     note(`  nearest head curve ${best ? heads.indexOf(best) : '-'} at ${bestD.toFixed(1)} px (text height ${hgt})`);
-    if (best && bestD <= 1.5 * hgt) byCurve.set(best, [...(byCurve.get(best) ?? []), label]);
+    if (!best || bestD > 1.5 * hgt) return;
+    const set = byCurve.get(best) ?? new Set<number>();
+    for (const v of candidates) set.add(v);
+    byCurve.set(best, set);
+    if (label?.unit) units.push(label.unit);
   });
-  const unit = [...byCurve.values()].flat().find((k) => k.unit !== null)?.unit ?? null;
+  const unit = units.find((k) => k !== null) ?? null;
   const family: 'diameter' | 'speed' = unit === 'rpm' ? 'speed' : unit ? 'diameter' : (given?.family ?? 'diameter');
+  // The one naming of every curve the candidates allow: larger values higher, and the shut-off
+  // heads in about the ratio of the values squared (affinity).
+  const shutOff = order.map((c) => shutOffHead(c));
+  const chosen = chooseNames(order.map((c) => [...(byCurve.get(c) ?? [])]), shutOff);
   const fromLabels = new Map<RasterCurve, number>();
-  let doubtful = false;
-  for (const [c, list] of byCurve) {
-    const distinct = [...new Set(list.map((k) => k.value))];
-    if (distinct.length === 1) fromLabels.set(c, distinct[0] as number);
-    else doubtful = true;
-  }
-  // The labels must agree with the order: the higher curve, the larger value.
-  const labelled = order.filter((c) => fromLabels.has(c)).map((c) => fromLabels.get(c) as number);
-  const labelsInOrder = labelled.every((v, i) => i === 0 || v < (labelled[i - 1] as number));
+  if (chosen) order.forEach((c, i) => fromLabels.set(c, chosen[i] as number));
   const where = (c: RasterCurve) => {
     const n = c.track.u.length;
     const [x, y] = level.toImage(c.track.u[n >> 1] as number, c.track.v[n >> 1] as number);
     return `[${(x / scale).toFixed(0)}, ${(y / scale).toFixed(0)}]`;
   };
-  if (fromLabels.size === heads.length && labelsInOrder && !doubtful && !crossing) {
-    for (const [c, v] of fromLabels) [values.set(c, v), (c.value = v), (c.named = 'label'), (c.confidence *= 0.95)];
+  const givenValues = given ? [...given.values].sort((a, b) => b - a) : null;
+  if (chosen && !crossing && !(givenValues && givenValues.join() !== chosen.join())) {
+    // One curve alone has nothing to be checked against: it is named, and the engineer asked once.
+    for (const [c, v] of fromLabels) [values.set(c, v), (c.value = v), (c.named = 'label'), (c.confidence *= heads.length > 1 ? 0.95 : 0.6)];
+    if (heads.length === 1) questions.push(`The one head curve found was read as ${chosen[0]}${unit ? ` ${unit}` : ''} from its label; is that what the sheet prints?`);
     return { values, unit, family };
   }
-  const givenValues = given ? [...given.values].sort((a, b) => b - a) : null;
   if (givenValues && givenValues.length === heads.length && !crossing) {
+    const fit = givenValues.every((v, i) => i === 0 || affinityHolds(givenValues[0] as number, shutOff[0] as number, v, shutOff[i] as number));
     order.forEach((c, i) => {
       const v = givenValues[i] as number;
       values.set(c, v);
       c.value = v;
       c.named = 'given';
-      // Labels read that disagree with the given value lower the confidence (the engineer is asked once).
-      const read = fromLabels.get(c);
-      c.confidence *= read === undefined || read === v ? 0.9 : 0.5;
+      c.confidence *= fit ? 0.9 : 0.4;
     });
-    const against = order.filter((c) => fromLabels.has(c) && fromLabels.get(c) !== c.value);
-    if (against.length > 0) questions.push(`The labels read beside ${against.length} head curve${against.length === 1 ? '' : 's'} (${against.map((c) => `${fromLabels.get(c)} at ${where(c)}`).join(', ')}) disagree with the values given in order (${givenValues.join(', ')}); the given values are used. Are they in the right order?`);
+    if (!fit) questions.push(`The head curves found (top to bottom at ${order.map(where).join(', ')}) do not keep the affinity rule with the values given (${givenValues.join(', ')}): their shut-off heads ${shutOff.map((h) => h.toPrecision(3)).join(', ')} are not near the ratio of the values squared. Is a curve missing, or a value wrong?`);
     return { values, unit, family: given?.family ?? family };
   }
-  const readList = order.map((c) => (fromLabels.has(c) ? String(fromLabels.get(c)) : '?')).join(', ');
+  const readList = order.map((c) => [...(byCurve.get(c) ?? [])].join(' or ') || '?').join(', ');
   questions.push(
     crossing
       ? `The ${heads.length} head curves found cross one another, so their order does not name them; give each curve's diameter by tracing it (labels read, top to bottom: ${readList}).`
       : `The ${heads.length} head curves found (top to bottom at ${order.map(where).join(', ')}) could not all be named from the labels read (${readList})${givenValues ? ` nor from the ${givenValues.length} values given` : ''}; give the diameters (or speeds) drawn in the take-off ("diameters" or "speeds"), and run --detect again.`,
   );
   return { values, unit, family };
+}
+
+/** The value of a label read two ways (as words with its unit, and as digits), or nothing when the two disagree. */
+function labelCandidates(text: string, digits: string): number[] {
+  // Only a whole label counts, its unit read too ("330 mm", 13"): a number alone may be a label
+  // cut short by the grid, or its inch mark read as a digit. The digits reading must agree.
+  const label = labelOf(text);
+  if (!label || label.unit === null) return [];
+  const number = /\d+(?:[.,]\d+)?/.exec(digits.replace(/\s+/g, ''))?.[0];
+  if (number === undefined) return [label.value];
+  const read = sheetNumber(number);
+  return read === label.value || sheetNumber(number.slice(0, -1)) === label.value ? [label.value] : [];
+}
+
+/** The head at the lowest flow of the tracer's line (the shut-off head), or NaN. */
+function shutOffHead(c: RasterCurve): number {
+  let best: SheetPoint | null = null;
+  let bestX = Infinity;
+  for (const p of c.traced) {
+    const x = c.panel.proposal.calibration.toData(p)[0];
+    if (x < bestX) [best, bestX] = [p, x];
+  }
+  return best ? c.panel.proposal.calibration.toData(best)[1] : NaN;
+}
+
+/**
+ * Affinity between two curves of one family: head in proportion to the diameter (or speed)
+ * squared. Trimmed impellers follow it only roughly, so the check takes any exponent from 1.5
+ * to 2.8 (common practice: H ∝ D² for trims; the band is wider so that a sound sheet passes and a misread label fails).
+ */
+export function affinityHolds(v1: number, h1: number, v2: number, h2: number): boolean {
+  if (!(v1 > 0 && v2 > 0 && h1 > 0 && h2 > 0) || v1 === v2) return false;
+  const k = Math.log(h1 / h2) / Math.log(v1 / v2);
+  return k >= 1.5 && k <= 2.8;
+}
+
+/**
+ * The one assignment of values to curves (top to bottom) from each curve's candidates with the
+ * values falling strictly from top to bottom and every pair keeping affinity; null when a curve
+ * has no candidate, when none fits, or when two different ones fit.
+ */
+export function chooseNames(candidates: readonly (readonly number[])[], heads: readonly number[]): number[] | null {
+  if (candidates.some((c) => c.length === 0)) return null;
+  const fits: number[][] = [];
+  const pick: number[] = [];
+  const walk = (i: number): void => {
+    if (fits.length > 1) return;
+    if (i === candidates.length) {
+      fits.push([...pick]);
+      return;
+    }
+    for (const v of candidates[i] as readonly number[]) {
+      if (i > 0 && !(v < (pick[i - 1] as number))) continue;
+      if (pick.some((u, j) => !affinityHolds(u, heads[j] as number, v, heads[i] as number))) continue;
+      pick.push(v);
+      walk(i + 1);
+      pick.pop();
+    }
+  };
+  walk(0);
+  return fits.length === 1 ? (fits[0] as number[]) : null;
 }

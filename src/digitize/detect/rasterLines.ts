@@ -34,10 +34,14 @@ export interface Track {
 }
 
 export interface LinesOptions {
-  /** Darkness at or above which a pixel is ink. */
-  threshold: number;
+  /** Darkness at or above which a pixel is ink; by default half the darkness of the frame's darkest half-percent off the grid, between `floor` and `ceiling`. */
+  threshold?: number;
+  floor?: number;
+  ceiling?: number;
   /** Grid line positions (level pixels): columns of the vertical lines, rows of the horizontal ones. */
   grid: { x: readonly number[]; y: readonly number[] };
+  /** Boxes (level pixels: left, top, right, bottom) whose ink is not line: the words printed in the frame. */
+  holes?: readonly (readonly [number, number, number, number])[];
 }
 
 const INSET = 5;
@@ -71,7 +75,8 @@ function predict(t: Track, u: number): number {
 }
 
 /** Runs of ink in column `u` between rows t and b, looking through the masked (grid) rows. */
-function columnRuns(map: InkMap, u: number, t: number, b: number, masked: Uint8Array, threshold: number, maxLen: number): Run[] {
+function columnRuns(map: InkMap, u: number, t: number, b: number, masked: Uint8Array, threshold: number, maxLen: number, holes: readonly (readonly [number, number, number, number])[]): Run[] {
+  const here = holes.filter((h) => u >= h[0] && u < h[2]);
   const { width, ink } = map;
   const runs: Run[] = [];
   let start = -1;
@@ -89,7 +94,7 @@ function columnRuns(map: InkMap, u: number, t: number, b: number, masked: Uint8A
   };
   for (let v = t; v < b; v++) {
     if (masked[v]) continue;
-    const d = ink[v * width + u] as number;
+    const d = here.some((h) => v >= h[1] && v < h[3]) ? 0 : (ink[v * width + u] as number);
     if (d >= threshold) {
       if (start < 0) start = v;
       last = v;
@@ -125,6 +130,7 @@ export function frameLines(map: InkMap, frame: Box, options: LinesOptions): Trac
   for (const x of options.grid.x) for (let u = Math.floor(x - 2.5); u <= Math.ceil(x + 1.5); u++) if (u >= 0 && u < map.width) maskCols[u] = 1;
   const top = t + INSET;
   const bottom = b - INSET;
+  const threshold = options.threshold ?? lineThreshold(map, [l + INSET, top, r - INSET, bottom], maskRows, maskCols, options.floor ?? 10, options.ceiling ?? 255);
   const active: { track: Track; lastU: number }[] = [];
   const done: Track[] = [];
   const retire = (k: number) => {
@@ -134,7 +140,7 @@ export function frameLines(map: InkMap, frame: Box, options: LinesOptions): Trac
   for (let u = l + INSET; u < r - INSET; u++) {
     for (let k = active.length - 1; k >= 0; k--) if (u - (active[k]!.lastU) > maxGap) retire(k);
     if (maskCols[u]) continue;
-    const runs = columnRuns(map, u, top, bottom, maskRows, options.threshold, Math.max(12, 0.25 * fh));
+    const runs = columnRuns(map, u, top, bottom, maskRows, threshold, Math.max(12, 0.25 * fh), options.holes ?? []);
     const taken = new Set<number>();
     const claims: { k: number; i: number; d: number }[] = [];
     active.forEach((a, k) => {
@@ -189,7 +195,36 @@ export function frameLines(map: InkMap, frame: Box, options: LinesOptions): Trac
     });
   }
   while (active.length) retire(0);
-  return joinPieces(done.filter((tr) => tr.u.length >= 3), maxGap * 4, fh).filter((tr) => (tr.u[tr.u.length - 1] as number) - (tr.u[0] as number) >= minSpan);
+  return joinPieces(done.filter((tr) => tr.u.length >= 3), maxGap * 4, fh).filter((tr) => (tr.u[tr.u.length - 1] as number) - (tr.u[0] as number) >= minSpan && !isRule(tr));
+}
+
+/** A straight level line (a grid line the grid finder missed), not a curve: within 1.5 px of one row all along. */
+function isRule(t: Track): boolean {
+  const mean = t.v.reduce((a, v) => a + v, 0) / t.v.length;
+  return t.v.every((v) => Math.abs(v - mean) <= 1.5);
+}
+
+/**
+ * The ink threshold of a frame: half the darkness reached by its darkest half-percent of pixels
+ * off the grid (the lines drawn cover a few percent of a frame), kept between floor and ceiling.
+ */
+function lineThreshold(map: InkMap, box: [number, number, number, number], maskRows: Uint8Array, maskCols: Uint8Array, floor: number, ceiling: number): number {
+  const hist = new Uint32Array(256);
+  let n = 0;
+  for (let v = box[1]; v < box[3]; v += 2) {
+    if (maskRows[v]) continue;
+    for (let u = box[0]; u < box[2]; u += 2) {
+      if (maskCols[u]) continue;
+      hist[map.ink[v * map.width + u] as number]!++;
+      n++;
+    }
+  }
+  let seen = 0;
+  for (let d = 255; d >= 0; d--) {
+    seen += hist[d] as number;
+    if (seen >= 0.005 * n) return Math.max(floor, Math.min(ceiling, d / 2));
+  }
+  return floor;
 }
 
 /** How many last points two tracks share (same column, same row). */
@@ -271,27 +306,29 @@ export function trackAt(t: Track, u: number): number | null {
 }
 
 /**
- * Places for guides: up to `count` columns of the track where its ink stood alone (at least
- * `room` rows from any other ink) for a stretch of `stretch` columns around, spread over the
- * track; the middle of each such stretch. Fewer (or none) where the line never stands alone.
+ * Places for guides: on the longest stretch where the track's ink stood alone (at least `room`
+ * rows from any other ink, columns no more than 8 apart), one place in its middle, or two at a
+ * quarter and three quarters of it when it is longer than `long` columns. One stretch only: no
+ * crossing lies between the guides, so they cannot sit on two different lines. None when the
+ * longest stretch is shorter than `stretch` columns.
  */
-export function alonePlaces(t: Track, room: number, stretch: number, count: number): { u: number; v: number }[] {
-  const spans: [number, number][] = [];
+export function alonePlaces(t: Track, room: number, stretch: number, long: number): { u: number; v: number }[] {
+  let best: [number, number] | null = null;
   let s = -1;
   for (let i = 0; i <= t.u.length; i++) {
-    const ok = i < t.u.length && (t.room[i] as number) >= room && (i === 0 || (t.u[i] as number) - (t.u[i - 1] as number) <= 3);
+    const ok = i < t.u.length && (t.room[i] as number) >= room && (s < 0 || (t.u[i] as number) - (t.u[i - 1] as number) <= 8);
     if (ok && s < 0) s = i;
     if (!ok && s >= 0) {
-      if ((t.u[i - 1] as number) - (t.u[s] as number) >= stretch) spans.push([s, i - 1]);
-      s = ok ? i : -1;
+      const span = (t.u[i - 1] as number) - (t.u[s] as number);
+      if (span >= stretch && (!best || span > (t.u[best[1]] as number) - (t.u[best[0]] as number))) best = [s, i - 1];
+      s = i < t.u.length && (t.room[i] as number) >= room ? i : -1;
     }
   }
-  if (spans.length === 0) return [];
-  // The longest stretches, then spread: each place at the middle of its stretch.
-  const ranked = [...spans].sort((a, b) => (t.u[b[1]] as number) - (t.u[b[0]] as number) - ((t.u[a[1]] as number) - (t.u[a[0]] as number)));
-  const chosen = ranked.slice(0, count).sort((a, b) => a[0] - b[0]);
-  return chosen.map(([i, j]) => {
-    const k = (i + j) >> 1;
+  if (!best) return [];
+  const [i, j] = best;
+  const at = (f: number) => {
+    const k = Math.round(i + f * (j - i));
     return { u: t.u[k] as number, v: t.v[k] as number };
-  });
+  };
+  return (t.u[j] as number) - (t.u[i] as number) > long ? [at(0.25), at(0.75)] : [at(0.5)];
 }
