@@ -49,7 +49,7 @@ for (const p of found.panels) {
     process.stdout.write(`  ${line.id} (${line.style.dash}, w ${line.style.width.toFixed(1)}, ${line.style.colour}): track ${best.i} median ${best.med.toFixed(1)} worst ${best.max.toFixed(1)} px over ${(100 * best.cover).toFixed(0)} %\n`);
   }
 }
-const curves = await findRasterCurves(image, found, textReaderNode(), { note: (l) => process.stdout.write(`  ${l}\n`) });
+const curves = await findRasterCurves(image, found, textReaderNode(), { ...(process.env.GIVE ? { given: { family: "diameter" as const, values: plan.family.diameters } } : {}), note: (l) => process.stdout.write(`  ${l}\n`) });
 const nearestLine = (p: readonly [number, number]) => {
   let best = { id: '-', d: Infinity };
   for (const line of plan.lines) for (const q of line.points) {

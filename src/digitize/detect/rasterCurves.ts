@@ -142,7 +142,10 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
   // Guides where each line stands alone, and the tracer's line from them.
   for (const c of curves) {
     const width = Math.max(2, median(c.track.len));
-    const places = alonePlaces(c.track, Math.max(8, 4 * width), 8, 0.15 * (c.levelFrame[2] - c.levelFrame[0]));
+    // Head and power curves of one family do not cross (the larger impeller gives more of both at
+    // every flow): their guides may spread over the whole line. Efficiency and NPSHr curves cross.
+    const spread = c.kind === 'curve' && (c.quantity === 'head' || c.quantity === 'power');
+    const places = alonePlaces(c.track, Math.max(8, 4 * width), 8, 0.15 * (c.levelFrame[2] - c.levelFrame[0]), spread);
     if (places.length === 0) {
       c.confidence = 0;
       continue;
@@ -157,17 +160,24 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
       c.confidence = 0;
       continue;
     }
-    // The tracer's line against the line found here, over their common columns.
+    // The tracer's line against the line found here, over their common columns; and the tracer
+    // must not run on far past either end of the line found (into another line, or a label).
     let off = 0;
     let n = 0;
+    let beyond = 0;
+    const fw = c.levelFrame[2] - c.levelFrame[0];
+    const first = c.track.u[0] as number;
+    const last = c.track.u[c.track.u.length - 1] as number;
     for (const p of c.traced) {
       const [u, v] = toLevel(p);
+      if (u < first - 0.03 * fw || u > last + 0.03 * fw) beyond++;
       const at = trackAt(c.track, u);
       if (at === null) continue;
       n++;
       if (Math.abs(at - v) > Math.max(3, 1.5 * width)) off++;
     }
-    if (n < 3 || off > 0.05 * n) c.confidence *= 0.3;
+    if (n < 3 || off > 0.02 * n) c.confidence *= 0.3;
+    if (beyond > 0.05 * c.traced.length) c.confidence *= 0.5;
     // The line's ends, as found here (around the words: the tracer may run on into a label beside the end).
     const n0 = c.track.u.length - 1;
     const ends = [toSheet(c.track.u[0] as number, c.track.v[0] as number), toSheet(c.track.u[n0] as number, c.track.v[n0] as number)];
@@ -192,7 +202,8 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
   for (const c of others) {
     if (named.values.size === 0) break;
     const span = flowSpan(c);
-    const ranked = [...named.values.keys()].map((h) => ({ h, d: Math.abs(h.flows[1] - c.flows[1]) / span })).sort((a, b) => a.d - b.d);
+    // Only a head curve the tracer confirmed is a reference: an unsure one may end on another line.
+    const ranked = [...named.values.keys()].filter((h) => h.confidence >= 0.5).map((h) => ({ h, d: Math.abs(h.flows[1] - c.flows[1]) / span })).sort((a, b) => a.d - b.d);
     const best = ranked[0];
     const next = ranked[1];
     if (!best || best.d > 0.02 || (next && next.d < 2 * best.d + 0.005)) {
@@ -202,6 +213,29 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     c.value = best.h.value;
     c.named = 'end flow';
     c.confidence *= best.d <= 0.008 ? 0.95 : 0.8;
+  }
+  // Power curves of one family do not cross either (common practice: trims at one speed, the
+  // larger impeller takes more power at every flow): names by end flow that break that order go.
+  const powers = others.filter((c) => c.quantity === 'power' && c.value !== undefined);
+  const broken = new Set<RasterCurve>();
+  for (const a of powers) {
+    for (const b of powers) {
+      if (a === b || (a.value as number) <= (b.value as number)) continue;
+      // a has the larger value: it must lie higher (a smaller row) wherever both are drawn.
+      for (let k = 0; k < b.track.u.length; k += 5) {
+        const va = trackAt(a.track, b.track.u[k] as number);
+        if (va !== null && va > (b.track.v[k] as number) + 2) {
+          broken.add(a);
+          broken.add(b);
+          break;
+        }
+      }
+    }
+  }
+  if (broken.size > 0) {
+    const list = [...broken];
+    questions.push(`The power curves named ${list.map((c) => c.value).join(', ')} by where they end do not keep the larger impeller's curve above the smaller one's; they are left out: trace them by hand with their diameters.`);
+    for (const c of list) delete c.value;
   }
   // Two curves of one panel with one name: neither is kept.
   const out = usable.filter((c) => c.value !== undefined);

@@ -32,8 +32,8 @@ export async function detectRasterTakeoff(input: TakeoffToDetect, raw: Record<st
   progress(0.95, 'writing the take-off');
   const questions = [...found.questions, ...curves.questions];
   const userPanels = (input.panels ?? []).filter((p) => p.origin !== 'detected');
-  const withCurves = found.panels.filter((p) => p.quantity === 'head' || curves.curves.some((c) => c.panel === p));
-  const { panels, panelIds } = takeoffPanels(withCurves, userPanels, input.units, questions);
+  // Every found panel is kept: the engineer's traces may rest on one where no curve was found.
+  const { panels, panelIds } = takeoffPanels(found.panels, userPanels, input.units, questions);
   const detection: Detection = { panels: found.panels, curves: [], labelled: [], family: curves.family, labelUnit: curves.labelUnit, droppedProposals: 0, questions };
   const named = panels.filter((p) => p.origin === 'detected').map((p) => p.id);
   const all = (input.traces ?? []).filter((t) => t.origin !== 'detected');

@@ -31,6 +31,8 @@ export interface Track {
   room: number[];
   /** Run length across at each listed column (the line's width where it is level). */
   len: number[];
+  /** Indices where a piece joined after a gap begins (a bunch or crossing lay between): guides never spread across one. */
+  joins?: number[];
 }
 
 export interface LinesOptions {
@@ -74,8 +76,12 @@ function predict(t: Track, u: number): number {
   return c.a + c.b * u;
 }
 
-/** Runs of ink in column `u` between rows t and b, looking through the masked (grid) rows. */
-function columnRuns(map: InkMap, u: number, t: number, b: number, masked: Uint8Array, threshold: number, maxLen: number, holes: readonly (readonly [number, number, number, number])[]): Run[] {
+/**
+ * Runs of ink in column `u` between rows t and b. On a grid row (or column) the grid's own
+ * darkness there (`base`, its median along the frame) is taken off first: a line crossing the
+ * grid, or running along a grid line, still shows; the grid alone does not.
+ */
+function columnRuns(map: InkMap, u: number, t: number, b: number, base: Float32Array, colBase: number, threshold: number, maxLen: number, holes: readonly (readonly [number, number, number, number])[]): Run[] {
   const here = holes.filter((h) => u >= h[0] && u < h[2]);
   const { width, ink } = map;
   const runs: Run[] = [];
@@ -93,8 +99,7 @@ function columnRuns(map: InkMap, u: number, t: number, b: number, masked: Uint8A
     sv = 0;
   };
   for (let v = t; v < b; v++) {
-    if (masked[v]) continue;
-    const d = here.some((h) => v >= h[1] && v < h[3]) ? 0 : (ink[v * width + u] as number);
+    const d = here.some((h) => v >= h[1] && v < h[3]) ? 0 : (ink[v * width + u] as number) - Math.max(colBase, base[v] as number);
     if (d >= threshold) {
       if (start < 0) start = v;
       last = v;
@@ -131,6 +136,11 @@ export function frameLines(map: InkMap, frame: Box, options: LinesOptions): Trac
   const top = t + INSET;
   const bottom = b - INSET;
   const threshold = options.threshold ?? lineThreshold(map, [l + INSET, top, r - INSET, bottom], maskRows, maskCols, options.floor ?? 10, options.ceiling ?? 255);
+  // The grid's darkness along each grid row and column (median over the frame).
+  const rowBase = new Float32Array(map.height);
+  const colBase = new Float32Array(map.width);
+  for (let v = top; v < bottom; v++) if (maskRows[v]) rowBase[v] = medianAlong(map, v, l + INSET, r - INSET, 'row');
+  for (let u = l + INSET; u < r - INSET; u++) if (maskCols[u]) colBase[u] = medianAlong(map, u, top, bottom, 'column');
   const active: { track: Track; lastU: number }[] = [];
   const done: Track[] = [];
   const retire = (k: number) => {
@@ -139,8 +149,7 @@ export function frameLines(map: InkMap, frame: Box, options: LinesOptions): Trac
   };
   for (let u = l + INSET; u < r - INSET; u++) {
     for (let k = active.length - 1; k >= 0; k--) if (u - (active[k]!.lastU) > maxGap) retire(k);
-    if (maskCols[u]) continue;
-    const runs = columnRuns(map, u, top, bottom, maskRows, threshold, Math.max(12, 0.25 * fh), options.holes ?? []);
+    const runs = columnRuns(map, u, top, bottom, rowBase, colBase[u] as number, threshold, Math.max(12, 0.25 * fh), options.holes ?? []);
     const taken = new Set<number>();
     const claims: { k: number; i: number; d: number }[] = [];
     active.forEach((a, k) => {
@@ -196,6 +205,13 @@ export function frameLines(map: InkMap, frame: Box, options: LinesOptions): Trac
   }
   while (active.length) retire(0);
   return joinPieces(done.filter((tr) => tr.u.length >= 3), maxGap * 4, fh).filter((tr) => (tr.u[tr.u.length - 1] as number) - (tr.u[0] as number) >= minSpan && !isRule(tr));
+}
+
+function medianAlong(map: InkMap, at: number, from: number, to: number, along: 'row' | 'column'): number {
+  const values: number[] = [];
+  for (let k = from; k < to; k += 2) values.push(map.ink[along === 'row' ? at * map.width + k : k * map.width + at] as number);
+  values.sort((a, b) => a - b);
+  return values.length ? (values[values.length >> 1] as number) : 0;
 }
 
 /** A straight level line (a grid line the grid finder missed), not a curve: within 1.5 px of one row all along. */
@@ -276,8 +292,9 @@ function joinPieces(pieces: Track[], maxGap: number, fh: number): Track[] {
   const out: Track[] = [];
   for (const start of list) {
     if (prev.has(start)) continue;
-    const t: Track = { u: [], v: [], len: [], room: [] };
+    const t: Track = { u: [], v: [], len: [], room: [], joins: [] };
     for (let p: Track | undefined = start; p; p = next.get(p)) {
+      if (t.u.length > 0) t.joins!.push(t.u.length);
       t.u.push(...p.u);
       t.v.push(...p.v);
       t.len.push(...p.len);
@@ -306,29 +323,37 @@ export function trackAt(t: Track, u: number): number | null {
 }
 
 /**
- * Places for guides: on the longest stretch where the track's ink stood alone (at least `room`
- * rows from any other ink, columns no more than 8 apart), one place in its middle, or two at a
- * quarter and three quarters of it when it is longer than `long` columns. One stretch only: no
- * crossing lies between the guides, so they cannot sit on two different lines. None when the
- * longest stretch is shorter than `stretch` columns.
+ * Places for guides where the track's ink stood alone (at least `room` rows from any other ink,
+ * columns no more than 8 apart), on stretches of at least `stretch` columns. On the longest
+ * stretch: one place in its middle, or two at a quarter and three quarters of it when it is
+ * longer than `long` columns. With `spread` (lines that never cross one another), also the
+ * middle of every other stretch of the same piece (never across a join), up to `most` places
+ * in all; without it the places lie on one stretch, with no crossing between them, so they
+ * cannot sit on two different lines.
  */
-export function alonePlaces(t: Track, room: number, stretch: number, long: number): { u: number; v: number }[] {
-  let best: [number, number] | null = null;
+export function alonePlaces(t: Track, room: number, stretch: number, long: number, spread = false, most = 5): { u: number; v: number }[] {
+  const spans: [number, number][] = [];
   let s = -1;
   for (let i = 0; i <= t.u.length; i++) {
     const ok = i < t.u.length && (t.room[i] as number) >= room && (s < 0 || (t.u[i] as number) - (t.u[i - 1] as number) <= 8);
     if (ok && s < 0) s = i;
     if (!ok && s >= 0) {
-      const span = (t.u[i - 1] as number) - (t.u[s] as number);
-      if (span >= stretch && (!best || span > (t.u[best[1]] as number) - (t.u[best[0]] as number))) best = [s, i - 1];
+      if ((t.u[i - 1] as number) - (t.u[s] as number) >= stretch) spans.push([s, i - 1]);
       s = i < t.u.length && (t.room[i] as number) >= room ? i : -1;
     }
   }
-  if (!best) return [];
-  const [i, j] = best;
-  const at = (f: number) => {
+  if (spans.length === 0) return [];
+  const width = (k: [number, number]) => (t.u[k[1]] as number) - (t.u[k[0]] as number);
+  const longest = spans.reduce((a, b) => (width(b) > width(a) ? b : a));
+  const at = ([i, j]: [number, number], f: number) => {
     const k = Math.round(i + f * (j - i));
     return { u: t.u[k] as number, v: t.v[k] as number };
   };
-  return (t.u[j] as number) - (t.u[i] as number) > long ? [at(0.25), at(0.75)] : [at(0.5)];
+  const places = width(longest) > long ? [at(longest, 0.25), at(longest, 0.75)] : [at(longest, 0.5)];
+  if (spread) {
+    const piece = (i: number) => (t.joins ?? []).filter((j) => j <= i).length;
+    const others = spans.filter((k) => k !== longest && piece(k[0]) === piece(longest[0]) && piece(k[1]) === piece(longest[0])).sort((a, b) => width(b) - width(a)).slice(0, Math.max(0, most - places.length));
+    places.push(...others.map((k) => at(k, 0.5)));
+  }
+  return places.sort((a, b) => a.u - b.u);
 }
