@@ -51,7 +51,10 @@ export interface RasterCurvesFound {
   /** Unit of the labels read ('mm', 'in', 'rpm'), null when none was read. */
   labelUnit: string | null;
   family: 'diameter' | 'speed';
+  /** What the engineer must answer (the names of the curves). */
   questions: string[];
+  /** Parts left out, each one sentence (the caller asks about them together, once). */
+  leftOut: string[];
 }
 
 export interface RasterCurveOptions {
@@ -60,6 +63,9 @@ export interface RasterCurveOptions {
   /** Receives lines about what was read (the dump scripts print them). */
   note?: (line: string) => void;
 }
+
+/** Most lines one frame holds: ten diameters, their iso-lines and a second axis's curves (common practice: sheets draw far fewer). */
+const MAX_LINES = 30;
 
 const NUMBER_ONLY = new RegExp(`^${SHEET_NUMBER}$`);
 
@@ -103,8 +109,10 @@ function dropDoubles(tracks: Track[]): Track[] {
  */
 export async function findRasterCurves(image: RasterImage, found: RasterPanelsFound, reader: TextReader, options: RasterCurveOptions = {}): Promise<RasterCurvesFound> {
   const questions: string[] = [];
+  /** Parts left out for the engineer to trace: said together, as one question, by the caller. */
+  const leftOut: string[] = [];
   const page = found.page;
-  if (!page) return { curves: [], labelUnit: null, family: 'diameter', questions };
+  if (!page) return { curves: [], labelUnit: null, family: 'diameter', questions, leftOut };
   const { map, level } = page;
   const toSheet = (u: number, v: number): SheetPoint => {
     const [x, y] = level.toImage(u, v);
@@ -119,6 +127,11 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     const printed = frameWords(map, frame, page.strong, page.h);
     const holes = printed.words.map((w) => [w.l + printed.at[0] - 2, w.t + printed.at[1] - 2, w.r + printed.at[0] + 2, w.b + printed.at[1] + 2] as const);
     const tracks = dropDoubles(frameLines(map, frame, { ceiling: 0.3 * page.strong, grid, holes }));
+    // More lines than any sheet draws in one frame: the ink was not told from the grid or the noise.
+    if (tracks.length > MAX_LINES) {
+      leftOut.push(`The frame of panel${panels.length === 1 ? '' : 's'} ${panels.map((p) => `"${p.id}"`).join(' and ')} gave ${tracks.length} lines, more than a sheet draws: its curves could not be told from the grid; trace them by hand.`);
+      continue;
+    }
     const [l, , r, b] = frame;
     const fw = r - l;
     const head = panels.find((p) => p.quantity === 'head');
@@ -186,9 +199,9 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
   }
   const usable = curves.filter((c) => c.confidence > 0 && c.kind === 'curve');
   const isoCount = curves.filter((c) => c.kind === 'iso').length;
-  if (isoCount > 0) questions.push(`${isoCount} line${isoCount === 1 ? '' : 's'} on the head panel neither start${isoCount === 1 ? 's' : ''} at the flow axis nor at the bottom (iso-efficiency lines, or a line the finder broke); efficiency from iso-lines is not read on scans yet, so trace them by hand if they matter.`);
+  if (isoCount > 0) leftOut.push(`${isoCount} line${isoCount === 1 ? '' : 's'} on the head panel neither start${isoCount === 1 ? 's' : ''} at the flow axis nor at the bottom (iso-efficiency lines, or a line the finder broke); efficiency from iso-lines is not read on scans yet, so trace them by hand if they matter.`);
   const lostCount = curves.filter((c) => c.confidence === 0 && c.kind === 'curve').length;
-  if (lostCount > 0) questions.push(`${lostCount} line${lostCount === 1 ? '' : 's'} found on the panels never stand${lostCount === 1 ? 's' : ''} alone (bunched or crossed all along), so no guide could be placed on ${lostCount === 1 ? 'it' : 'them'}; trace ${lostCount === 1 ? 'it' : 'them'} by hand.`);
+  if (lostCount > 0) leftOut.push(`${lostCount} line${lostCount === 1 ? '' : 's'} found on the panels never stand${lostCount === 1 ? 's' : ''} alone (bunched or crossed all along), so no guide could be placed on ${lostCount === 1 ? 'it' : 'them'}; trace ${lostCount === 1 ? 'it' : 'them'} by hand.`);
 
   // Names of the head curves: labels read beside them, else the values given, by order.
   const heads = usable.filter((c) => c.panel.quantity === 'head' && c.kind === 'curve');
@@ -207,7 +220,7 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     const best = ranked[0];
     const next = ranked[1];
     if (!best || best.d > 0.02 || (next && next.d < 2 * best.d + 0.005)) {
-      questions.push(`A ${c.quantity} curve on panel "${c.panel.id}" ending at flow ${c.flows[1].toPrecision(4)} does not end where exactly one head curve ends${best ? ` (nearest: ${best.h.value} at ${best.h.flows[1].toPrecision(4)})` : ''}; it is left out: trace it by hand with its diameter.`);
+      leftOut.push(`A ${c.quantity} curve on panel "${c.panel.id}" ending at flow ${c.flows[1].toPrecision(4)} does not end where exactly one head curve ends${best ? ` (nearest: ${best.h.value} at ${best.h.flows[1].toPrecision(4)})` : ''}; it is left out: trace it by hand with its diameter.`);
       continue;
     }
     c.value = best.h.value;
@@ -234,15 +247,15 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
   }
   if (broken.size > 0) {
     const list = [...broken];
-    questions.push(`The power curves named ${list.map((c) => c.value).join(', ')} by where they end do not keep the larger impeller's curve above the smaller one's; they are left out: trace them by hand with their diameters.`);
+    leftOut.push(`The power curves named ${list.map((c) => c.value).join(', ')} by where they end do not keep the larger impeller's curve above the smaller one's; they are left out: trace them by hand with their diameters.`);
     for (const c of list) delete c.value;
   }
   // Two curves of one panel with one name: neither is kept.
   const out = usable.filter((c) => c.value !== undefined);
   const twice = out.filter((c) => out.some((o) => o !== c && o.panel === c.panel && o.value === c.value));
-  if (twice.length > 0) questions.push(`On panel "${twice[0]!.panel.id}" two curves came out as ${twice[0]!.value}; both are left out: trace them by hand.`);
+  if (twice.length > 0) leftOut.push(`On panel "${twice[0]!.panel.id}" two curves came out as ${twice[0]!.value}; both are left out: trace them by hand.`);
   const curvesOut = out.filter((c) => !twice.includes(c));
-  return { curves: curvesOut, labelUnit: named.unit, family: named.family, questions };
+  return { curves: curvesOut, labelUnit: named.unit, family: named.family, questions, leftOut };
 }
 
 function median(values: readonly number[]): number {

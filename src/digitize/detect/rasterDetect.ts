@@ -70,8 +70,11 @@ export async function detectRasterTakeoff(input: TakeoffToDetect, raw: Record<st
       method: 'raster',
     });
   }
+  // What was left out or is unsure, said once: one question for the curves of the sheet.
   const unsure = traces.filter((t) => t.origin === 'detected' && (t.confidence ?? 1) < 0.5);
-  if (unsure.length > 0) questions.push(`The tracer's line and the line found disagree for ${unsure.map((t) => `"${t.id}"`).join(', ')} (confidence under 0.5); look at ${unsure.length === 1 ? 'it' : 'them'} on the sheet before using the curve set.`);
+  const look = [...curves.leftOut];
+  if (unsure.length > 0) look.push(`The tracer's line and the line found disagree for ${unsure.map((t) => `"${t.id}"`).join(', ')} (confidence under 0.5); look at ${unsure.length === 1 ? 'it' : 'them'} on the sheet before using the curve set.`);
+  if (look.length > 0) questions.push(look.length === 1 ? (look[0] as string) : `Some curves need you: ${look.map((k, i) => `(${i + 1}) ${k}`).join(' ')}`);
   if (traces.length === 0) {
     const why = questions.length > 0 ? ` It asks: ${questions.join(' ')}` : '';
     throw new TakeoffError(`The automatic take-off found ${named.length} panel${named.length === 1 ? '' : 's'} on this scan (${named.join(', ') || 'none calibrated'}) but no curve it could name; give the curves as traces with guides in the take-off file, or the diameters drawn ("diameters"), and run --detect again.${why}`);
