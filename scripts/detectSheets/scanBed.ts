@@ -13,6 +13,14 @@
  * detection time (reader already started), and the worst curve error of the replay.
  * "Wrong without a question": a panel missing or mis-named, or calibrated worse than 0.5 % of
  * span, on a sheet where the detector asked nothing. JPEGs are cached in artifacts/detect-sheets/.
+ *
+ * Curves: each scan is also taken off with no panels and no traces given; when the detector asks
+ * for the diameters (labels missing or not read), the plan's diameters are given once and the
+ * run repeated. Each drawn curve (not iso-lines) is scored with the bed's scorer at 15–95 % of
+ * its flow range: within 0.5 % of span (1.5 points of efficiency), missed, invented or
+ * mislabelled; "WRONG WITHOUT A FLAG" is a curve beyond tolerance (or invented, mislabelled,
+ * missed on a sheet that asked nothing) with no finding of the replay, a confidence of 0.5 or
+ * more, and no question. DETECT_GUIDES=1 also replays the bed's own guides on the found panels.
  */
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
