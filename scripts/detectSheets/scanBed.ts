@@ -31,6 +31,9 @@ import { replayTakeoff } from '../../src/digitize/takeoff.ts';
 import { parseTakeoff, parseTakeoffToDetect, type TakeoffInput } from '../../src/model/takeoff.ts';
 import { calibrationError, makeRandomSheet, sheetGeometry, truthOf } from '../randomSheets/randomSheet.ts';
 import type { SheetPlan } from '../randomSheets/plan.ts';
+import type { TruthCurve } from '../randomSheets/randomSheet.ts';
+import { exact, siFactor } from '../randomSheets/pumpFamily.ts';
+import type { CurveSet } from '../../src/model/curveset.ts';
 import { scoreReplay } from '../randomSheets/score.ts';
 
 const CACHE = join(import.meta.dirname, '..', '..', 'artifacts', 'detect-sheets', 'scan-v1');
@@ -65,8 +68,10 @@ export interface CurveOutcome {
   errors: { id: string; quantity: string; error: number; flagged: boolean; confidence: number }[];
   invented: number;
   missed: number;
-  /** Found with a value that is not the drawn one (a wrong diameter). */
+  /** Found with a value that is not the drawn one: a diameter not drawn, or a curve beyond tolerance that fits another diameter's truth (a swapped name). */
   mislabelled: number;
+  /** Drawn, found and within tolerance, by quantity. */
+  byQuantity: Record<string, { drawn: number; found: number; right: number }>;
   /** Wrong (beyond tolerance, a wrong name, invented) with neither a finding of the replay, a confidence under 0.5, nor a question. */
   silent: string[];
   /** The diameters were given in the take-off: the detector asked for them (labels missing or not read), and the engineer answered once. */
@@ -132,7 +137,7 @@ export async function runScan(seed: number, kind: 'scan' | 'photo' = 'scan'): Pr
 }
 
 function emptyCurves(plan: SheetPlan): CurveOutcome {
-  return { drawn: plan.lines.filter((l) => l.iso === undefined).length, right: 0, errors: [], invented: 0, missed: 0, mislabelled: 0, silent: [], gaveDiameters: false, namedByLabels: 0, questions: [] };
+  return { drawn: plan.lines.filter((l) => l.iso === undefined).length, right: 0, errors: [], invented: 0, missed: 0, mislabelled: 0, byQuantity: {}, silent: [], gaveDiameters: false, namedByLabels: 0, questions: [] };
 }
 
 /** Tolerances of the acceptance on scans: 0.5 % of span, 1.5 points of efficiency. */
@@ -197,7 +202,21 @@ async function scoreFoundCurves(seed: number, plan: SheetPlan, takeoff: TakeoffI
     const confidence = trace.confidence ?? 1;
     out.errors.push({ id: s.id, quantity: t.quantity, error: s.error, flagged: s.flagged, confidence });
     if (s.error <= limit) out.right++;
-    else if (!s.flagged && confidence >= 0.5) out.silent.push(`${s.id} ${s.error.toFixed(2)} off`);
+    else {
+      // Beyond tolerance: a swapped name when the curve fits another diameter's truth.
+      const other = truth.find((o) => o !== t && o.quantity === t.quantity && fitsOther(plan, replay.curveSet, t, o, limit));
+      if (other) out.mislabelled++;
+      if (!s.flagged && confidence >= 0.5) out.silent.push(`${s.id} ${s.error.toFixed(2)} off${other ? ` (it is ${other.quantity}-${other.diameter})` : ''}`);
+    }
+  }
+  for (const t of truth) {
+    const k = (out.byQuantity[t.quantity] = out.byQuantity[t.quantity] ?? { drawn: 0, found: 0, right: 0 });
+    k.drawn++;
+    const e = out.errors.find((x) => x.id === `${t.quantity}-${t.diameter}`);
+    if (e) {
+      k.found++;
+      if (e.error <= (t.quantity === 'efficiency' ? SCAN_EFFICIENCY_POINTS : SCAN_CURVE_PERCENT)) k.right++;
+    }
   }
   for (const d of detected) {
     if (truth.some((t) => t.quantity === d.quantity && t.diameter === d.diameter)) continue;
@@ -206,6 +225,16 @@ async function scoreFoundCurves(seed: number, plan: SheetPlan, takeoff: TakeoffI
     if ((d.confidence ?? 1) >= 0.5) out.silent.push(`${d.id} ${plan.family.diameters.includes(d.diameter as number) ? 'invented' : 'mislabelled'}`);
   }
   return out;
+}
+
+/** True when the found curve `t` (its member's fit) lies within `limit` of the exact curve of `o` over o's range. */
+function fitsOther(plan: SheetPlan, set: CurveSet | { refused: string }, t: TruthCurve, o: TruthCurve, limit: number): boolean {
+  const si = siFactor(plan.family);
+  const [score] = scoreReplay(plan.family, [{ ...o, diameter: t.diameter }], set, {
+    member: (s) => s.members.find((m) => m.diameter_m !== undefined && Math.abs(m.diameter_m - t.diameter * si.diameter) < 1e-9),
+    value: (_c, flow) => exact(plan.family, o.quantity, o.diameter, flow),
+  });
+  return score !== undefined && score.error <= limit;
 }
 
 const q = (values: number[], p: number) => {
@@ -252,6 +281,11 @@ async function main(): Promise<void> {
   process.stdout.write(`  efficiency curves, points: p50 ${q(points, 0.5).toFixed(2)} p95 ${q(points, 0.95).toFixed(2)} max ${points.length ? Math.max(...points).toFixed(2) : '-'} (${points.length} curves; iso-lines are not read on scans yet)\n`);
   process.stdout.write(`  missed ${sum((c) => c.missed)}, invented ${sum((c) => c.invented)}, mislabelled ${sum((c) => c.mislabelled)}; refused sheets ${cs.filter((c) => c.error).length}; head curves named from labels read: ${sum((c) => c.namedByLabels)}; sheets where the detector asked for the diameters and got them: ${cs.filter((c) => c.gaveDiameters).length} (of ${cs.length})\n`);
   process.stdout.write(`  questions per sheet: ${cs.map((c) => c.questions.length).join(' ')}; sheets with at most one: ${cs.filter((c) => c.questions.length <= 1).length} of ${cs.length}\n`);
+  for (const quantity of ['head', 'efficiency', 'power', 'npshr']) {
+    const k = cs.map((c) => c.byQuantity[quantity] ?? { drawn: 0, found: 0, right: 0 });
+    const n = (f: (x: { drawn: number; found: number; right: number }) => number) => k.reduce((a, x) => a + f(x), 0);
+    process.stdout.write(`  ${quantity}: drawn ${n((x) => x.drawn)}, found ${n((x) => x.found)}, within tolerance ${n((x) => x.right)}\n`);
+  }
   process.stdout.write(`  WRONG WITHOUT A FLAG: ${sum((c) => c.silent.length)}${cs.some((c) => c.silent.length) ? ` (${outcomes.filter((o) => o.curves.silent.length).map((o) => `${o.seed}: ${o.curves.silent.join(', ')}`).join('; ')})` : ''}\n`);
   const replayed = outcomes.filter((o) => !o.error);
   const same = replayed.filter((o) => o.worstCurve === o.worstGiven || Math.abs(o.worstCurve - o.worstGiven) <= 0.1);
