@@ -155,6 +155,7 @@ async function scoreFoundCurves(seed: number, plan: SheetPlan, takeoff: TakeoffI
   delete raw.panels;
   delete raw.traces;
   const truth = truthOf(plan).filter((t) => t.source === 'curve');
+  out.drawn = truth.length;
   const askedForValues = (text: string) => /give the diameters \(or speeds\) drawn/.test(text);
   const run = () => detectTakeoff(parseTakeoffToDetect(raw), raw, sheet, { reader: textReaderNode() });
   let found;

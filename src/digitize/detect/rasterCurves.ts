@@ -212,8 +212,40 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     const xs = c.panel.proposal.x.labels.map((k) => k.value);
     return Math.max(...xs) - Math.min(...xs);
   };
+  // Power panels: when every head curve is named and confirmed and the panel holds as many power
+  // curves, which never cross, they take the names in order (the larger impeller higher), each
+  // checked against the end flow of its head curve.
+  const confirmed = [...named.values.keys()].filter((h) => h.confidence >= 0.5);
+  const heads0 = usable.filter((c) => c.panel.quantity === 'head' && c.kind === 'curve');
+  for (const panel of new Set(others.filter((c) => c.quantity === 'power').map((c) => c.panel))) {
+    const list = others.filter((c) => c.panel === panel && c.quantity === 'power');
+    if (confirmed.length !== heads0.length || list.length !== confirmed.length) continue;
+    const above = (a: RasterCurve, b: RasterCurve): number | null => {
+      let sum = 0;
+      let n = 0;
+      for (let k = 0; k < a.track.u.length; k += 5) {
+        const vb = trackAt(b.track, a.track.u[k] as number);
+        if (vb === null) continue;
+        const d = (a.track.v[k] as number) - vb;
+        if (Math.abs(d) > 2) (sum += Math.sign(d), n++);
+      }
+      return n === 0 ? null : Math.abs(sum) === n ? Math.sign(sum) : NaN;
+    };
+    const pairs = list.flatMap((a) => list.filter((b) => b !== a).map((b) => above(a, b)));
+    if (pairs.some((k) => k === null || Number.isNaN(k))) continue;
+    const order = [...list].sort((a, b) => above(a, b) as number);
+    const values = confirmed.map((h) => ({ h, v: named.values.get(h) as number })).sort((a, b) => b.v - a.v);
+    const span = flowSpan(list[0] as RasterCurve);
+    if (!order.every((c, i) => Math.abs(c.flows[1] - (values[i] as { h: RasterCurve }).h.flows[1]) / span <= 0.03)) continue;
+    order.forEach((c, i) => {
+      c.value = (values[i] as { v: number }).v;
+      c.named = 'end flow';
+      c.confidence *= 0.95;
+    });
+  }
   for (const c of others) {
     if (named.values.size === 0) break;
+    if (c.value !== undefined) continue;
     const span = flowSpan(c);
     // Only a head curve the tracer confirmed is a reference: an unsure one may end on another line.
     const ranked = [...named.values.keys()].filter((h) => h.confidence >= 0.5).map((h) => ({ h, d: Math.abs(h.flows[1] - c.flows[1]) / span })).sort((a, b) => a.d - b.d);
