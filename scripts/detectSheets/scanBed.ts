@@ -285,7 +285,7 @@ async function main(): Promise<void> {
   for (const quantity of ['head', 'efficiency', 'power', 'npshr']) {
     const k = cs.map((c) => c.byQuantity[quantity] ?? { drawn: 0, found: 0, right: 0 });
     const n = (f: (x: { drawn: number; found: number; right: number }) => number) => k.reduce((a, x) => a + f(x), 0);
-    process.stdout.write(`  ${quantity}: drawn ${n((x) => x.drawn)}, found ${n((x) => x.found)}, within tolerance ${n((x) => x.right)}\n`);
+    process.stdout.write(`  ${quantity} (sheets not refused): drawn ${n((x) => x.drawn)}, found ${n((x) => x.found)}, within tolerance ${n((x) => x.right)}\n`);
   }
   process.stdout.write(`  WRONG WITHOUT A FLAG: ${sum((c) => c.silent.length)}${cs.some((c) => c.silent.length) ? ` (${outcomes.filter((o) => o.curves.silent.length).map((o) => `${o.seed}: ${o.curves.silent.join(', ')}`).join('; ')})` : ''}\n`);
   const replayed = outcomes.filter((o) => !o.error);
