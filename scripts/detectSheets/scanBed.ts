@@ -13,6 +13,14 @@
  * detection time (reader already started), and the worst curve error of the replay.
  * "Wrong without a question": a panel missing or mis-named, or calibrated worse than 0.5 % of
  * span, on a sheet where the detector asked nothing. JPEGs are cached in artifacts/detect-sheets/.
+ *
+ * Curves: each scan is also taken off with no panels and no traces given; when the detector asks
+ * for the diameters (labels missing or not read), the plan's diameters are given once and the
+ * run repeated. Each drawn curve (not iso-lines) is scored with the bed's scorer at 15–95 % of
+ * its flow range: within 0.5 % of span (1.5 points of efficiency), missed, invented or
+ * mislabelled; "WRONG WITHOUT A FLAG" is a curve beyond tolerance (or invented, mislabelled,
+ * missed on a sheet that asked nothing) with no finding of the replay, a confidence of 0.5 or
+ * more, and no question. DETECT_GUIDES=1 also replays the bed's own guides on the found panels.
  */
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
@@ -22,6 +30,10 @@ import { closeTextReaderNode, textReaderNode } from '../../src/digitize/loaders/
 import { replayTakeoff } from '../../src/digitize/takeoff.ts';
 import { parseTakeoff, parseTakeoffToDetect, type TakeoffInput } from '../../src/model/takeoff.ts';
 import { calibrationError, makeRandomSheet, sheetGeometry, truthOf } from '../randomSheets/randomSheet.ts';
+import type { SheetPlan } from '../randomSheets/plan.ts';
+import type { TruthCurve } from '../randomSheets/randomSheet.ts';
+import { exact, siFactor } from '../randomSheets/pumpFamily.ts';
+import type { CurveSet } from '../../src/model/curveset.ts';
 import { scoreReplay } from '../randomSheets/score.ts';
 
 const CACHE = join(import.meta.dirname, '..', '..', 'artifacts', 'detect-sheets', 'scan-v1');
@@ -44,6 +56,30 @@ export interface ScanOutcome {
   worstGiven: number;
   wrong: string[];
   error?: string;
+  /** Curves found on the scan (no traces given), scored against the truth at 15–95 % of each curve's flow range. */
+  curves: CurveOutcome;
+}
+
+export interface CurveOutcome {
+  /** Drawn curves (not iso-lines) of the plan, and how many came back within tolerance. */
+  drawn: number;
+  right: number;
+  /** Error of each found curve, % of span (head, power, NPSHr) or points (efficiency). */
+  errors: { id: string; quantity: string; error: number; flagged: boolean; confidence: number }[];
+  invented: number;
+  missed: number;
+  /** Found with a value that is not the drawn one: a diameter not drawn, or a curve beyond tolerance that fits another diameter's truth (a swapped name). */
+  mislabelled: number;
+  /** Drawn, found and within tolerance, by quantity. */
+  byQuantity: Record<string, { drawn: number; found: number; right: number }>;
+  /** Wrong (beyond tolerance, a wrong name, invented) with neither a finding of the replay, a confidence under 0.5, nor a question. */
+  silent: string[];
+  /** The diameters were given in the take-off: the detector asked for them (labels missing or not read), and the engineer answered once. */
+  gaveDiameters: boolean;
+  /** Head curves named from the labels read on the scan. */
+  namedByLabels: number;
+  questions: string[];
+  error?: string;
 }
 
 export async function scanFor(seed: number, kind: 'scan' | 'photo' = 'scan'): Promise<{ jpeg: Uint8Array; takeoff: TakeoffInput }> {
@@ -61,7 +97,7 @@ export async function scanFor(seed: number, kind: 'scan' | 'photo' = 'scan'): Pr
 export async function runScan(seed: number, kind: 'scan' | 'photo' = 'scan'): Promise<ScanOutcome> {
   const { plan, shot } = sheetGeometry(seed, kind);
   const { jpeg, takeoff } = await scanFor(seed, kind);
-  const out: ScanOutcome = { seed, dpi: plan.dpi, turnDeg: shot.rotationDeg, panels: { expected: plan.panels.length, found: 0 }, calibration: {}, questions: [], detectMs: NaN, worstCurve: Infinity, worstGiven: Infinity, wrong: [] };
+  const out: ScanOutcome = { seed, dpi: plan.dpi, turnDeg: shot.rotationDeg, panels: { expected: plan.panels.length, found: 0 }, calibration: {}, questions: [], detectMs: NaN, worstCurve: Infinity, worstGiven: Infinity, wrong: [], curves: emptyCurves(plan) };
   const sheet = await loadImageSheetNode(jpeg, { name: `${seed}.jpg` });
   try {
     // The engineer's traces, without the panels: the panels must come from the detector.
@@ -87,14 +123,119 @@ export async function runScan(seed: number, kind: 'scan' | 'photo' = 'scan'): Pr
       const replay = await replayTakeoff(t, sheet, { created: '2026-01-01T00:00:00.000Z' });
       return Math.max(0, ...scoreReplay(plan.family, truthOf(plan), replay.curveSet).map((s) => s.error));
     };
-    out.worstCurve = await worst(found.takeoff);
-    out.worstGiven = await worst(parseTakeoff({ ...takeoff, sheet: `${seed}.jpg` }));
+    if (process.env.DETECT_GUIDES) {
+      out.worstCurve = await worst(found.takeoff);
+      out.worstGiven = await worst(parseTakeoff({ ...takeoff, sheet: `${seed}.jpg` }));
+    }
+    out.curves = await scoreFoundCurves(seed, plan, takeoff, sheet);
   } catch (error) {
     out.error = error instanceof Error ? error.message : String(error);
   } finally {
     await sheet.close();
   }
   return out;
+}
+
+function emptyCurves(plan: SheetPlan): CurveOutcome {
+  return { drawn: plan.lines.filter((l) => l.iso === undefined).length, right: 0, errors: [], invented: 0, missed: 0, mislabelled: 0, byQuantity: {}, silent: [], gaveDiameters: false, namedByLabels: 0, questions: [] };
+}
+
+/** Tolerances of the acceptance on scans: 0.5 % of span, 1.5 points of efficiency. */
+export const SCAN_CURVE_PERCENT = 0.5;
+export const SCAN_EFFICIENCY_POINTS = 1.5;
+
+/**
+ * The take-off with no panels and no traces: the detector finds both. When it asks for the
+ * diameters (labels missing or not read), the engineer answers once: the run is repeated with
+ * the plan's diameters given, and that question is the sheet's one question.
+ */
+async function scoreFoundCurves(seed: number, plan: SheetPlan, takeoff: TakeoffInput, sheet: Awaited<ReturnType<typeof loadImageSheetNode>>): Promise<CurveOutcome> {
+  const out = emptyCurves(plan);
+  const raw: Record<string, unknown> = { ...takeoff, sheet: `${seed}.jpg` };
+  delete raw.panels;
+  delete raw.traces;
+  const truth = truthOf(plan).filter((t) => t.source === 'curve');
+  out.drawn = truth.length;
+  const askedForValues = (text: string) => /give the diameters \(or speeds\) drawn/.test(text);
+  const run = () => detectTakeoff(parseTakeoffToDetect(raw), raw, sheet, { reader: textReaderNode() });
+  let found;
+  let first: string[] = [];
+  try {
+    found = await run();
+    first = found.questions;
+  } catch (error) {
+    const message = error instanceof Error ? error.message : String(error);
+    if (!askedForValues(message)) {
+      out.error = message;
+      out.missed = truth.length;
+      return out;
+    }
+    first = [message];
+  }
+  if (!found || found.questions.some(askedForValues)) {
+    raw.diameters = [...plan.family.diameters];
+    out.gaveDiameters = true;
+    try {
+      found = await run();
+    } catch (error) {
+      out.error = error instanceof Error ? error.message : String(error);
+      out.missed = truth.length;
+      out.questions = first;
+      return out;
+    }
+  }
+  // The questions of the sheet: the one answered (the diameters), then what the second run still asks.
+  out.questions = out.gaveDiameters ? ['give the diameters drawn', ...found.questions] : found.questions;
+  out.namedByLabels = found.takeoff.traces.filter((t) => t.origin === 'detected' && t.quantity === 'head').length * (out.gaveDiameters ? 0 : 1);
+  const detected = found.takeoff.traces.filter((t) => t.origin === 'detected');
+  const replay = await replayTakeoff(found.takeoff, sheet, { created: '2026-01-01T00:00:00.000Z' });
+  const scores = scoreReplay(plan.family, truth, replay.curveSet);
+  const asked = found.questions.length > 0;
+  for (const t of truth) {
+    const trace = detected.find((d) => d.quantity === t.quantity && d.diameter === t.diameter);
+    const s = scores.find((k) => k.id === `${t.quantity}-${t.diameter}`);
+    if (!trace || !s) {
+      out.missed++;
+      if (!asked) out.silent.push(`${t.quantity}-${t.diameter} missed`);
+      continue;
+    }
+    const limit = t.quantity === 'efficiency' ? SCAN_EFFICIENCY_POINTS : SCAN_CURVE_PERCENT;
+    const confidence = trace.confidence ?? 1;
+    out.errors.push({ id: s.id, quantity: t.quantity, error: s.error, flagged: s.flagged, confidence });
+    if (s.error <= limit) out.right++;
+    else {
+      // Beyond tolerance: a swapped name when the curve fits another diameter's truth.
+      const other = truth.find((o) => o !== t && o.quantity === t.quantity && fitsOther(plan, replay.curveSet, t, o, limit));
+      if (other) out.mislabelled++;
+      if (!s.flagged && confidence >= 0.5) out.silent.push(`${s.id} ${s.error.toFixed(2)} off${other ? ` (it is ${other.quantity}-${other.diameter})` : ''}`);
+    }
+  }
+  for (const t of truth) {
+    const k = (out.byQuantity[t.quantity] = out.byQuantity[t.quantity] ?? { drawn: 0, found: 0, right: 0 });
+    k.drawn++;
+    const e = out.errors.find((x) => x.id === `${t.quantity}-${t.diameter}`);
+    if (e) {
+      k.found++;
+      if (e.error <= (t.quantity === 'efficiency' ? SCAN_EFFICIENCY_POINTS : SCAN_CURVE_PERCENT)) k.right++;
+    }
+  }
+  for (const d of detected) {
+    if (truth.some((t) => t.quantity === d.quantity && t.diameter === d.diameter)) continue;
+    if (plan.family.diameters.includes(d.diameter as number)) out.invented++;
+    else out.mislabelled++;
+    if ((d.confidence ?? 1) >= 0.5) out.silent.push(`${d.id} ${plan.family.diameters.includes(d.diameter as number) ? 'invented' : 'mislabelled'}`);
+  }
+  return out;
+}
+
+/** True when the found curve `t` (its member's fit) lies within `limit` of the exact curve of `o` over o's range. */
+function fitsOther(plan: SheetPlan, set: CurveSet | { refused: string }, t: TruthCurve, o: TruthCurve, limit: number): boolean {
+  const si = siFactor(plan.family);
+  const [score] = scoreReplay(plan.family, [{ ...o, diameter: t.diameter }], set, {
+    member: (s) => s.members.find((m) => m.diameter_m !== undefined && Math.abs(m.diameter_m - t.diameter * si.diameter) < 1e-9),
+    value: (_c, flow) => exact(plan.family, o.quantity, o.diameter, flow),
+  });
+  return score !== undefined && score.error <= limit;
 }
 
 const q = (values: number[], p: number) => {
@@ -115,7 +256,9 @@ async function main(): Promise<void> {
     outcomes.push(o);
     const cal = Object.entries(o.calibration).map(([k, v]) => `${k} ${v.toFixed(3)}`).join(', ');
     process.stdout.write(`${String(seed).padStart(4)} ${o.dpi} dpi turn ${o.turnDeg.toFixed(2)}° panels ${o.panels.found}/${o.panels.expected} calibration % of span: ${cal || '-'}; questions ${o.questions.length}; curves from the bed's guides, worst: on found panels ${Number.isFinite(o.worstCurve) ? o.worstCurve.toFixed(2) : 'missing'}, on the bed's panels ${Number.isFinite(o.worstGiven) ? o.worstGiven.toFixed(2) : 'missing'}; ${o.detectMs.toFixed(0)} ms${o.error ? `; refused: ${o.error}` : ''}\n`);
-    if (process.env.DETECT_VERBOSE) for (const k of [...o.wrong, ...o.questions.map((x) => `? ${x}`)]) process.stdout.write(`      ${k}\n`);
+    const c = o.curves;
+    process.stdout.write(`       curves found: ${c.right}/${c.drawn} within tolerance, worst ${c.errors.length ? Math.max(...c.errors.map((e) => e.error)).toFixed(2) : '-'}; missed ${c.missed}, invented ${c.invented}, mislabelled ${c.mislabelled}; questions ${c.questions.length}${c.gaveDiameters ? ' (asked for the diameters, given)' : ` (${c.namedByLabels} head curves named from labels)`}${c.silent.length ? `; WRONG WITHOUT A FLAG: ${c.silent.join(', ')}` : ''}${c.error ? `; refused: ${c.error.slice(0, 160)}` : ''}\n`);
+    if (process.env.DETECT_VERBOSE) for (const k of [...o.wrong, ...o.questions.map((x) => `? ${x}`), ...c.errors.map((e) => `  ${e.id} ${e.error.toFixed(2)}${e.flagged ? ' flagged' : ''} conf ${e.confidence}`), ...c.questions.map((x) => `?c ${x}`)]) process.stdout.write(`      ${k}\n`);
   }
   await closeTextReaderNode();
   const expected = outcomes.reduce((n, o) => n + o.panels.expected, 0);
@@ -129,6 +272,22 @@ async function main(): Promise<void> {
   process.stdout.write(`sheets fully right (every panel found, named and within ${SCAN_ACCEPT_PERCENT} %): ${outcomes.filter((o) => o.wrong.length === 0 && !o.error).length} of ${outcomes.length}; refused: ${outcomes.filter((o) => o.error).length}\n`);
   process.stdout.write(`wrong without a question: ${silent.length}${silent.length ? ` (seeds ${silent.map((o) => o.seed).join(', ')})` : ''}\n`);
   process.stdout.write(`detection time per sheet (decoded image to take-off, reader started): p50 ${q(ms, 0.5).toFixed(0)} ms, max ${Math.max(...ms).toFixed(0)} ms\n`);
+  const cs = outcomes.map((o) => o.curves);
+  const byKind = (f: (e: CurveOutcome['errors'][number]) => boolean) => cs.flatMap((c) => c.errors.filter(f).map((e) => e.error));
+  const spanErrors = byKind((e) => e.quantity !== 'efficiency');
+  const points = byKind((e) => e.quantity === 'efficiency');
+  const sum = (f: (c: CurveOutcome) => number) => cs.reduce((n, c) => n + f(c), 0);
+  process.stdout.write(`\ncurves found on the scans (no panels, no traces given): ${sum((c) => c.right)} of ${sum((c) => c.drawn)} drawn curves within ${SCAN_CURVE_PERCENT} % of span / ${SCAN_EFFICIENCY_POINTS} points; found ${sum((c) => c.errors.length)}\n`);
+  process.stdout.write(`  error, % of span (head, power, NPSHr): p50 ${q(spanErrors, 0.5).toFixed(3)} p95 ${q(spanErrors, 0.95).toFixed(3)} max ${spanErrors.length ? Math.max(...spanErrors).toFixed(3) : '-'} (${spanErrors.length} curves)\n`);
+  process.stdout.write(`  efficiency curves, points: p50 ${q(points, 0.5).toFixed(2)} p95 ${q(points, 0.95).toFixed(2)} max ${points.length ? Math.max(...points).toFixed(2) : '-'} (${points.length} curves; iso-lines are not read on scans yet)\n`);
+  process.stdout.write(`  missed ${sum((c) => c.missed)}, invented ${sum((c) => c.invented)}, mislabelled ${sum((c) => c.mislabelled)}; refused sheets ${cs.filter((c) => c.error).length}; head curves named from labels read: ${sum((c) => c.namedByLabels)}; sheets where the detector asked for the diameters and got them: ${cs.filter((c) => c.gaveDiameters).length} (of ${cs.length})\n`);
+  process.stdout.write(`  questions per sheet: ${cs.map((c) => c.questions.length).join(' ')}; sheets with at most one: ${cs.filter((c) => c.questions.length <= 1).length} of ${cs.length}\n`);
+  for (const quantity of ['head', 'efficiency', 'power', 'npshr']) {
+    const k = cs.map((c) => c.byQuantity[quantity] ?? { drawn: 0, found: 0, right: 0 });
+    const n = (f: (x: { drawn: number; found: number; right: number }) => number) => k.reduce((a, x) => a + f(x), 0);
+    process.stdout.write(`  ${quantity} (sheets not refused): drawn ${n((x) => x.drawn)}, found ${n((x) => x.found)}, within tolerance ${n((x) => x.right)}\n`);
+  }
+  process.stdout.write(`  WRONG WITHOUT A FLAG: ${sum((c) => c.silent.length)}${cs.some((c) => c.silent.length) ? ` (${outcomes.filter((o) => o.curves.silent.length).map((o) => `${o.seed}: ${o.curves.silent.join(', ')}`).join('; ')})` : ''}\n`);
   const replayed = outcomes.filter((o) => !o.error);
   const same = replayed.filter((o) => o.worstCurve === o.worstGiven || Math.abs(o.worstCurve - o.worstGiven) <= 0.1);
   process.stdout.write(`replayed curves from the bed's guides: worst per sheet on found panels within 0.1 (% of span or points) of the same guides on the bed's own panels: ${same.length} of ${replayed.length} replayed (the curve errors are the tracer's, see randomSheets)\n`);

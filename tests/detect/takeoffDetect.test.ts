@@ -57,12 +57,12 @@ describe('pumpscribe takeoff --detect', () => {
     expect(set2.members.map((m) => m.curves.head?.fit?.coefficients)).toEqual(set.members.map((m) => m.curves.head?.fit?.coefficients));
   });
 
-  it('on a scan finds the panels but refuses, in one sentence with exit 2, a take-off without traces (curves on scans are not found yet)', { timeout: 60_000 }, () => {
+  it('on a scan whose axis titles are not read, refuses in one sentence with exit 2, saying what it asks', { timeout: 60_000 }, () => {
     const file = join(dir, 'scan.takeoff.json');
     writeFileSync(file, JSON.stringify(minimal('scan.jpg')));
     const run = pumpscribe('takeoff', file, '--detect', '-o', join(dir, 'scan.curveset.json'));
     expect(run.code).toBe(2);
-    expect(run.stderr).toMatch(/found \d+ panels? on this scan .* does not find the curves on scans yet/);
+    expect(run.stderr).toMatch(/found \d+ panels? on this scan .* but no curve it could name; .* It asks: /);
     expect(run.stderr).not.toMatch(/\n\s+at /);
   });
 

@@ -34,7 +34,7 @@ export function register(program: Command): void {
     .option('--use-captured', 'use the points saved in the take-off file instead of capturing again')
     .option('-q, --quiet', 'print nothing but errors')
     .option('--json', 'print the report (traces, figures, findings) as JSON')
-    .option('--detect', 'find the panels and traces on a vector PDF sheet (the file needs only sheet, page, pump.speed_rpm and units); with --save-points the completed take-off is written back')
+    .option('--detect', 'find the panels and curves on the sheet: a vector PDF, or a scan (image or scanned PDF page, tick labels and curve labels read offline; give "diameters" when the sheet prints none); the file needs only sheet, page, pump.speed_rpm and units; what is doubtful is asked, not guessed; with --save-points the completed take-off is written back')
     .action((file: string, options: TakeoffOptions) => runCommand(() => takeoff(file, options)));
 }
 

@@ -5,8 +5,8 @@
  * (sheet, page, pump speed, units) into a complete one whose found parts carry origin
  * "detected"; the replay (takeoff.ts) then reads it like any other.
  *
- * Pure: the sheet arrives through the Sheet interface. Scans go to rasterDetect.ts (panels only
- * for now) when a character reader is handed in.
+ * Pure: the sheet arrives through the Sheet interface. Scans go to rasterDetect.ts (panels, and
+ * curves followed by the raster tracer) when a character reader is handed in.
  */
 import { TakeoffError, parseTakeoff, type Takeoff, type TakeoffToDetect } from '../../model/takeoff.ts';
 import { fromSI, parseUnit, toSI, type QuantityKind } from '../../units/index.ts';

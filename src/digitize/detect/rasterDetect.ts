@@ -1,30 +1,40 @@
 /**
  * The automatic take-off of a scan (an image, or a PDF page that is one picture): panels and
- * their calibrations from the ink and the tick labels read (rasterPanels.ts). Curves are not
- * found on scans yet: the engineer's traces (guides) in the take-off are kept and replayed on
- * the found panels, and a take-off without traces is refused with a sentence saying so.
+ * their calibrations from the ink and the tick labels read (rasterPanels.ts), then the curves
+ * of each panel (rasterCurves.ts): each found curve becomes a trace with guides placed where
+ * its line stands alone, followed by the raster tracer on replay like a trace the engineer
+ * clicked. The engineer's own traces are kept and win over a found curve of the same name.
  *
  * Pure: the sheet and the character reader are handed in.
  */
 import { TakeoffError, parseTakeoff, type TakeoffToDetect } from '../../model/takeoff.ts';
+import { fromSI, parseUnit, toSI } from '../../units/index.ts';
 import { safeScale, type Sheet } from '../sheet.ts';
 import type { DetectedTakeoff, Detection } from './detect.ts';
-import { takeoffPanels } from './detect.ts';
+import { givenValues, takeoffPanels } from './detect.ts';
+import { findRasterCurves } from './rasterCurves.ts';
 import { findRasterPanels, type DetectProgress } from './rasterPanels.ts';
 import type { TextReader } from './rasterText.ts';
 
-export const RASTER_DETECTOR = 'pumpscribe detect 1 (scans: panels only)';
+export const RASTER_DETECTOR = 'pumpscribe detect 2 (scans: panels and curves)';
 
 /** A PDF page that is a scan is rendered at 300 dpi (within the pixel limit). */
 const PDF_SCAN_SCALE = 300 / 72;
 
-export async function detectRasterTakeoff(input: TakeoffToDetect, raw: Record<string, unknown>, sheet: Sheet, reader: TextReader, progress?: DetectProgress): Promise<DetectedTakeoff> {
+const r2 = (v: number) => Math.round(v * 100) / 100;
+
+export async function detectRasterTakeoff(input: TakeoffToDetect, raw: Record<string, unknown>, sheet: Sheet, reader: TextReader, progress: DetectProgress = () => undefined): Promise<DetectedTakeoff> {
   const image = await sheet.render(sheet.kind === 'image' ? 1 : safeScale(sheet, PDF_SCAN_SCALE));
-  const found = await findRasterPanels(image, reader, progress);
-  const questions = [...found.questions];
+  const found = await findRasterPanels(image, reader, (f, what) => progress(0.6 * f, what));
+  progress(0.6, 'finding the curves');
+  const given = givenValues(input);
+  const curves = await findRasterCurves(image, found, reader, given ? { given: { family: given.family, values: given.values } } : {});
+  progress(0.95, 'writing the take-off');
+  const questions = [...found.questions, ...curves.questions];
   const userPanels = (input.panels ?? []).filter((p) => p.origin !== 'detected');
-  const { panels } = takeoffPanels(found.panels, userPanels, input.units, questions);
-  const detection: Detection = { panels: found.panels, curves: [], labelled: [], family: 'diameter', labelUnit: null, droppedProposals: 0, questions: found.questions };
+  // Every found panel is kept: the engineer's traces may rest on one where no curve was found.
+  const { panels, panelIds } = takeoffPanels(found.panels, userPanels, input.units, questions);
+  const detection: Detection = { panels: found.panels, curves: [], labelled: [], family: curves.family, labelUnit: curves.labelUnit, droppedProposals: 0, questions };
   const named = panels.filter((p) => p.origin === 'detected').map((p) => p.id);
   const all = (input.traces ?? []).filter((t) => t.origin !== 'detected');
   // A trace on a panel neither given nor found waits, with a question, rather than failing the rest.
@@ -34,12 +44,42 @@ export async function detectRasterTakeoff(input: TakeoffToDetect, raw: Record<st
     const names = [...new Set(orphans.map((t) => t.panel))];
     questions.push(`The panel${names.length === 1 ? '' : 's'} ${names.map((n) => `"${n}"`).join(', ')} of the trace${orphans.length === 1 ? '' : 's'} ${orphans.map((t) => `"${t.id}"`).join(', ')} ${names.length === 1 ? 'was' : 'were'} not found on this scan (found: ${named.join(', ') || 'none'}); those traces are left out until the panel is given in the take-off file.`);
   }
+  const userKeys = new Set(traces.map((t) => `${t.quantity}|${t.diameter ?? t.speed}`));
+  const diameterUnit = parseUnit('diameter', input.units.diameter);
+  const valueOf = (v: number): number => {
+    if (curves.family === 'speed' || curves.labelUnit === null || curves.labelUnit === 'rpm') return v;
+    return Number(fromSI(toSI(v, parseUnit('diameter', curves.labelUnit)), diameterUnit).toPrecision(10));
+  };
+  const ids = new Set(traces.map((t) => t.id));
+  for (const c of curves.curves) {
+    const panel = panelIds.get(c.panel);
+    if (!panel || c.value === undefined) continue;
+    const value = valueOf(c.value);
+    if (userKeys.has(`${c.quantity}|${value}`)) continue; // the engineer's own trace of it wins
+    let id = `${c.quantity}-${value}`;
+    for (let k = 2; ids.has(id); k++) id = `${c.quantity}-${value}-${k}`;
+    ids.add(id);
+    traces.push({
+      id,
+      origin: 'detected',
+      confidence: Math.round(c.confidence * 100) / 100,
+      panel,
+      quantity: c.quantity,
+      ...(curves.family === 'speed' ? { speed: value } : { diameter: value }),
+      guides: c.guides.map((p) => [r2(p[0]), r2(p[1])] as [number, number]),
+      method: 'raster',
+    });
+  }
+  // What was left out or is unsure, said once: one question for the curves of the sheet.
+  const unsure = traces.filter((t) => t.origin === 'detected' && (t.confidence ?? 1) < 0.5);
+  const look = [...curves.leftOut];
+  if (unsure.length > 0) look.push(`The tracer's line and the line found disagree for ${unsure.map((t) => `"${t.id}"`).join(', ')} (confidence under 0.5); look at ${unsure.length === 1 ? 'it' : 'them'} on the sheet before using the curve set.`);
+  if (look.length > 0) questions.push(look.length === 1 ? (look[0] as string) : `Some curves need you: ${look.map((k, i) => `(${i + 1}) ${k}`).join(' ')}`);
   if (traces.length === 0) {
     const why = questions.length > 0 ? ` It asks: ${questions.join(' ')}` : '';
-    throw new TakeoffError(
-      `The automatic take-off found ${named.length} panel${named.length === 1 ? '' : 's'} on this scan (${named.join(', ') || 'none calibrated'}) but does not find the curves on scans yet; give each curve as a trace with guides in the take-off file and run --detect again (the panels are found again).${why}`,
-    );
+    throw new TakeoffError(`The automatic take-off found ${named.length} panel${named.length === 1 ? '' : 's'} on this scan (${named.join(', ') || 'none calibrated'}) but no curve it could name; give the curves as traces with guides in the take-off file, or the diameters drawn ("diameters"), and run --detect again.${why}`);
   }
+  progress(1, 'done');
   const document: Record<string, unknown> = { ...raw, sheet_sha256: sheet.sha256, panels, traces, detected: { by: RASTER_DETECTOR, questions } };
   return { takeoff: parseTakeoff(document), document, detection, questions };
 }

@@ -29,6 +29,10 @@ export interface RasterPanelsFound {
   /** The page's turn on the glass, degrees. */
   turnDeg: number;
   questions: string[];
+  /** The level page the panels were found on, for finding their curves (rasterCurves.ts). */
+  page?: { map: InkMap; level: Level; strong: number; words: Blot[]; h: number };
+  /** Each found panel's frame in level pixels. */
+  levelFrames?: Map<FoundPanel, Box>;
 }
 
 /** Progress of the detection, a fraction 0–1 with what is being done. */
@@ -244,6 +248,7 @@ export async function findRasterPanels(image: RasterImage, reader: TextReader, p
   }
   progress(0.9, 'calibrating the panels');
   const panels: FoundPanel[] = [];
+  const levelFrames = new Map<FoundPanel, Box>();
   const used = new Map<string, number>();
   for (const s of sides) {
     const f = s.frame;
@@ -304,7 +309,7 @@ export async function findRasterPanels(image: RasterImage, reader: TextReader, p
       confidence *= 0.5;
       questions.push(`What does the panel at ${where} plot (its ${s.side} axis title was ${title ? `read as "${title}"` : 'not read'})? Set its quantity in the take-off.`);
     }
-    panels.push({
+    const panel: FoundPanel = {
       id,
       quantity,
       frame: sheetBox(f, level, image.scale),
@@ -315,10 +320,12 @@ export async function findRasterPanels(image: RasterImage, reader: TextReader, p
       yUnit: title ? unitOfTitle(title) : null,
       xUnit: flowTitle ? unitOfTitle(flowTitle) : null,
       confidence: Math.round(confidence * 100) / 100,
-    });
+    };
+    panels.push(panel);
+    levelFrames.set(panel, f);
   }
   progress(1, 'panels found');
-  return { panels, frames, turnDeg, questions };
+  return { panels, frames, turnDeg, questions, page: { map, level, strong: page.strong, words, h }, levelFrames };
 }
 
 /** Anchors at grid crossings: every flow label with the lowest and highest value label, and every value label with the lowest and highest flow label; in sheet units. */

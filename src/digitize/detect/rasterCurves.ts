@@ -1,0 +1,536 @@
+/**
+ * Curves found on a scan, panel by panel: the lines of each frame (rasterLines.ts), sorted
+ * into curves (a head curve starts at the flow axis; a curve against a second axis in the head
+ * frame starts at the bottom; what else crosses the head curves is an iso-line), with guides
+ * placed where each line stands alone. The guides go to the raster tracer (rasterTrace.ts),
+ * the one follower the manual take-off uses too, and its line is checked against the line
+ * found here: two followers that disagree make a question, never a silent curve.
+ *
+ * Names: the head curves by the labels read beside or on them ("330 mm", 13"), else by the
+ * diameters the engineer gave, in order (the larger impeller gives more head at every flow).
+ * The curves of the other panels take the diameter of the head curve that ends at the same
+ * flow (each impeller's curves are drawn over the same flows on every panel). Each curve
+ * carries a confidence; where a name is doubtful the curve is left out with one question.
+ *
+ * Pure: the raster, the found panels and the character reader are handed in.
+ */
+import type { Quantity } from '../../model/curveset.ts';
+import { captureRasterTrace } from '../rasterTrace.ts';
+import { sheetPoint, type SheetPoint } from '../points.ts';
+import type { RasterImage } from '../raster.ts';
+import type { InkMap, Level } from './ink.ts';
+import type { Box, FoundPanel } from './panels.ts';
+import { gridLines } from './rasterFrames.ts';
+import { alonePlaces, frameLines, trackAt, type Track } from './rasterLines.ts';
+import type { RasterPanelsFound } from './rasterPanels.ts';
+import { inkBlots, readCrops, wordsOf, type Blot, type TextReader } from './rasterText.ts';
+import { curveLabel, SHEET_NUMBER, sheetNumber } from './words.ts';
+
+export interface RasterCurve {
+  panel: FoundPanel;
+  quantity: Quantity;
+  kind: 'curve' | 'iso';
+  /** The line found, and the frame it was found in, level pixels. */
+  track: Track;
+  levelFrame: Box;
+  /** Where the tracer is started, sheet units, in order along the line. */
+  guides: SheetPoint[];
+  /** The tracer's line, sheet units. */
+  traced: SheetPoint[];
+  /** Flow at the line's two ends (the panel's calibration). */
+  flows: [number, number];
+  /** The diameter or speed, or the iso level; undefined until named. */
+  value?: number;
+  /** How the value was found. */
+  named?: 'label' | 'given' | 'end flow';
+  confidence: number;
+}
+
+export interface RasterCurvesFound {
+  curves: RasterCurve[];
+  /** Unit of the labels read ('mm', 'in', 'rpm'), null when none was read. */
+  labelUnit: string | null;
+  family: 'diameter' | 'speed';
+  /** What the engineer must answer (the names of the curves). */
+  questions: string[];
+  /** Parts left out, each one sentence (the caller asks about them together, once). */
+  leftOut: string[];
+}
+
+export interface RasterCurveOptions {
+  /** Values the engineer gave (the take-off's diameters or speeds), used when no label is read. */
+  given?: { family: 'diameter' | 'speed'; values: readonly number[] };
+  /** Receives lines about what was read (the dump scripts print them). */
+  note?: (line: string) => void;
+}
+
+/** Most lines one frame holds: ten diameters, their iso-lines and a second axis's curves (common practice: sheets draw far fewer). */
+const MAX_LINES = 30;
+
+const NUMBER_ONLY = new RegExp(`^${SHEET_NUMBER}$`);
+
+/** The level page's frame of a panel, and the panels sharing it. */
+function framesOf(found: RasterPanelsFound): { frame: Box; panels: FoundPanel[] }[] {
+  const out: { frame: Box; panels: FoundPanel[] }[] = [];
+  for (const p of found.panels) {
+    const f = found.levelFrames?.get(p);
+    if (!f || p.quantity === null) continue;
+    const k = out.find((o) => o.frame === f);
+    if (k) k.panels.push(p);
+    else out.push({ frame: f, panels: [p] });
+  }
+  return out;
+}
+
+/** Two tracks that run together over most of their common columns are one line: the longer stays. */
+function dropDoubles(tracks: Track[]): Track[] {
+  const keep = [...tracks].sort((a, b) => b.u.length - a.u.length);
+  const out: Track[] = [];
+  for (const t of keep) {
+    const double = out.some((o) => {
+      let near = 0;
+      let n = 0;
+      for (let i = 0; i < t.u.length; i += 4) {
+        const v = trackAt(o, t.u[i] as number);
+        if (v === null) continue;
+        n++;
+        if (Math.abs(v - (t.v[i] as number)) <= 3) near++;
+      }
+      return n > 0.5 * (t.u.length / 4) && near >= 0.8 * n;
+    });
+    if (!double) out.push(t);
+  }
+  return out;
+}
+
+/**
+ * Curves of every found panel. `found` must come from findRasterPanels on the same image
+ * (it carries the level page). Questions say what was left out and why.
+ */
+export async function findRasterCurves(image: RasterImage, found: RasterPanelsFound, reader: TextReader, options: RasterCurveOptions = {}): Promise<RasterCurvesFound> {
+  const questions: string[] = [];
+  /** Parts left out for the engineer to trace: said together, as one question, by the caller. */
+  const leftOut: string[] = [];
+  const page = found.page;
+  if (!page) return { curves: [], labelUnit: null, family: 'diameter', questions, leftOut };
+  const { map, level } = page;
+  const toSheet = (u: number, v: number): SheetPoint => {
+    const [x, y] = level.toImage(u, v);
+    return sheetPoint(x / image.scale, y / image.scale);
+  };
+  const toLevel = (p: SheetPoint): [number, number] => level.toLevel(p[0] * image.scale, p[1] * image.scale);
+  const curves: RasterCurve[] = [];
+  const labelsAt: { word: Blot; frame: Box; clean: InkMap; at: [number, number] }[] = [];
+  for (const { frame, panels } of framesOf(found)) {
+    const grid = { x: gridLines(map, frame, 'x'), y: gridLines(map, frame, 'y') };
+    // The words printed in the frame (curve labels) are no line: the lines are followed around them.
+    const printed = frameWords(map, frame, page.strong, page.h);
+    const holes = printed.words.map((w) => [w.l + printed.at[0] - 2, w.t + printed.at[1] - 2, w.r + printed.at[0] + 2, w.b + printed.at[1] + 2] as const);
+    const tracks = dropDoubles(frameLines(map, frame, { ceiling: 0.3 * page.strong, grid, holes }));
+    // More lines than any sheet draws in one frame: the ink was not told from the grid or the noise.
+    if (tracks.length > MAX_LINES) {
+      leftOut.push(`The frame of panel${panels.length === 1 ? '' : 's'} ${panels.map((p) => `"${p.id}"`).join(' and ')} gave ${tracks.length} lines, more than a sheet draws: its curves could not be told from the grid; trace them by hand.`);
+      continue;
+    }
+    const [l, , r, b] = frame;
+    const fw = r - l;
+    const head = panels.find((p) => p.quantity === 'head');
+    const second = panels.find((p) => p !== head);
+    for (const t of tracks) {
+      const u0 = t.u[0] as number;
+      const v0 = t.v[0] as number;
+      const atAxis = u0 - l <= 0.03 * fw;
+      let panel: FoundPanel | undefined;
+      let kind: 'curve' | 'iso' = 'curve';
+      if (!head) panel = panels[0];
+      else if (atAxis && second && b - v0 <= 0.05 * (b - frame[1])) panel = second;
+      else if (atAxis) panel = head;
+      else [panel, kind] = [head, 'iso'];
+      if (!panel) continue;
+      curves.push({ panel, quantity: kind === 'iso' ? 'efficiency' : (panel.quantity as Quantity), kind, track: t, levelFrame: frame, guides: [], traced: [], flows: [NaN, NaN], confidence: 1 });
+    }
+    if (head) labelsAt.push(...printed.words.map((word) => ({ word, frame, clean: printed.clean, at: printed.at })));
+  }
+
+  // Guides where each line stands alone, and the tracer's line from them.
+  for (const c of curves) {
+    const width = Math.max(2, median(c.track.len));
+    // Head and power curves of one family do not cross (the larger impeller gives more of both at
+    // every flow): their guides may spread over the whole line. Efficiency and NPSHr curves cross.
+    const spread = c.kind === 'curve' && (c.quantity === 'head' || c.quantity === 'power');
+    const places = alonePlaces(c.track, Math.max(8, 4 * width), 8, 0.15 * (c.levelFrame[2] - c.levelFrame[0]), spread);
+    if (places.length === 0) {
+      c.confidence = 0;
+      continue;
+    }
+    c.guides = places.map((p) => toSheet(p.u, p.v));
+    const frame = c.panel.frame;
+    try {
+      const traced = captureRasterTrace(image, { guides: c.guides }, { frame: [frame[0], frame[1], frame[2], frame[3]] });
+      c.traced = traced.points;
+      if (traced.lost.length > 0) c.confidence *= 0.7;
+    } catch {
+      c.confidence = 0;
+      continue;
+    }
+    // The tracer's line against the line found here, over their common columns; and the tracer
+    // must not run on far past either end of the line found (into another line, or a label).
+    let off = 0;
+    let n = 0;
+    let beyond = 0;
+    const fw = c.levelFrame[2] - c.levelFrame[0];
+    const first = c.track.u[0] as number;
+    const last = c.track.u[c.track.u.length - 1] as number;
+    for (const p of c.traced) {
+      const [u, v] = toLevel(p);
+      if (u < first - 0.03 * fw || u > last + 0.03 * fw) beyond++;
+      const at = trackAt(c.track, u);
+      if (at === null) continue;
+      n++;
+      if (Math.abs(at - v) > Math.max(3, 1.5 * width)) off++;
+    }
+    if (n < 3 || off > 0.02 * n) c.confidence *= 0.3;
+    if (beyond > 0.05 * c.traced.length) c.confidence *= 0.5;
+    // The line's ends, as found here (around the words: the tracer may run on into a label beside the end).
+    const n0 = c.track.u.length - 1;
+    const ends = [toSheet(c.track.u[0] as number, c.track.v[0] as number), toSheet(c.track.u[n0] as number, c.track.v[n0] as number)];
+    const xs = ends.map((p) => c.panel.proposal.calibration.toData(p)[0]);
+    c.flows = [Math.min(...xs), Math.max(...xs)];
+  }
+  const usable = curves.filter((c) => c.confidence > 0 && c.kind === 'curve');
+  const isoCount = curves.filter((c) => c.kind === 'iso').length;
+  if (isoCount > 0) leftOut.push(`${isoCount} line${isoCount === 1 ? '' : 's'} on the head panel neither start${isoCount === 1 ? 's' : ''} at the flow axis nor at the bottom (iso-efficiency lines, or a line the finder broke); efficiency from iso-lines is not read on scans yet, so trace them by hand if they matter.`);
+  const lostCount = curves.filter((c) => c.confidence === 0 && c.kind === 'curve').length;
+  if (lostCount > 0) leftOut.push(`${lostCount} line${lostCount === 1 ? '' : 's'} found on the panels never stand${lostCount === 1 ? 's' : ''} alone (bunched or crossed all along), so no guide could be placed on ${lostCount === 1 ? 'it' : 'them'}; trace ${lostCount === 1 ? 'it' : 'them'} by hand.`);
+
+  // Names of the head curves: labels read beside them, else the values given, by order.
+  const heads = usable.filter((c) => c.panel.quantity === 'head' && c.kind === 'curve');
+  const named = await nameHeads(heads, labelsAt, page.strong, reader, level, image.scale, options.given, questions, options.note);
+  // The other panels' curves: the head curve ending at the same flow.
+  const others = usable.filter((c) => !heads.includes(c));
+  const flowSpan = (c: RasterCurve) => {
+    const xs = c.panel.proposal.x.labels.map((k) => k.value);
+    return Math.max(...xs) - Math.min(...xs);
+  };
+  // Power panels: when every head curve is named and confirmed and the panel holds as many power
+  // curves, which never cross, they take the names in order (the larger impeller higher), each
+  // checked against the end flow of its head curve.
+  const confirmed = [...named.values.keys()].filter((h) => h.confidence >= 0.5);
+  const heads0 = usable.filter((c) => c.panel.quantity === 'head' && c.kind === 'curve');
+  for (const panel of new Set(others.filter((c) => c.quantity === 'power').map((c) => c.panel))) {
+    const list = others.filter((c) => c.panel === panel && c.quantity === 'power');
+    if (confirmed.length !== heads0.length || list.length !== confirmed.length) continue;
+    const above = (a: RasterCurve, b: RasterCurve): number | null => {
+      let sum = 0;
+      let n = 0;
+      for (let k = 0; k < a.track.u.length; k += 5) {
+        const vb = trackAt(b.track, a.track.u[k] as number);
+        if (vb === null) continue;
+        const d = (a.track.v[k] as number) - vb;
+        if (Math.abs(d) > 2) (sum += Math.sign(d), n++);
+      }
+      return n === 0 ? null : Math.abs(sum) === n ? Math.sign(sum) : NaN;
+    };
+    const pairs = list.flatMap((a) => list.filter((b) => b !== a).map((b) => above(a, b)));
+    if (pairs.some((k) => k === null || Number.isNaN(k))) continue;
+    const order = [...list].sort((a, b) => above(a, b) as number);
+    const values = confirmed.map((h) => ({ h, v: named.values.get(h) as number })).sort((a, b) => b.v - a.v);
+    const span = flowSpan(list[0] as RasterCurve);
+    if (!order.every((c, i) => Math.abs(c.flows[1] - (values[i] as { h: RasterCurve }).h.flows[1]) / span <= 0.03)) continue;
+    order.forEach((c, i) => {
+      c.value = (values[i] as { v: number }).v;
+      c.named = 'end flow';
+      c.confidence *= 0.95;
+    });
+  }
+  for (const c of others) {
+    if (named.values.size === 0) break;
+    if (c.value !== undefined) continue;
+    const span = flowSpan(c);
+    // Only a head curve the tracer confirmed is a reference: an unsure one may end on another line.
+    const ranked = [...named.values.keys()].filter((h) => h.confidence >= 0.5).map((h) => ({ h, d: Math.abs(h.flows[1] - c.flows[1]) / span })).sort((a, b) => a.d - b.d);
+    const best = ranked[0];
+    const next = ranked[1];
+    if (!best || best.d > 0.02 || (next && next.d < 2 * best.d + 0.005)) {
+      leftOut.push(`A ${c.quantity} curve on panel "${c.panel.id}" ending at flow ${c.flows[1].toPrecision(4)} does not end where exactly one head curve ends${best ? ` (nearest: ${best.h.value} at ${best.h.flows[1].toPrecision(4)})` : ''}; it is left out: trace it by hand with its diameter.`);
+      continue;
+    }
+    c.value = best.h.value;
+    c.named = 'end flow';
+    c.confidence *= best.d <= 0.008 ? 0.95 : 0.8;
+  }
+  // Power curves of one family do not cross either (common practice: trims at one speed, the
+  // larger impeller takes more power at every flow): names by end flow that break that order go.
+  const powers = others.filter((c) => c.quantity === 'power' && c.value !== undefined);
+  const broken = new Set<RasterCurve>();
+  for (const a of powers) {
+    for (const b of powers) {
+      if (a === b || (a.value as number) <= (b.value as number)) continue;
+      // a has the larger value: it must lie higher (a smaller row) wherever both are drawn.
+      for (let k = 0; k < b.track.u.length; k += 5) {
+        const va = trackAt(a.track, b.track.u[k] as number);
+        if (va !== null && va > (b.track.v[k] as number) + 2) {
+          broken.add(a);
+          broken.add(b);
+          break;
+        }
+      }
+    }
+  }
+  if (broken.size > 0) {
+    const list = [...broken];
+    leftOut.push(`The power curves named ${list.map((c) => c.value).join(', ')} by where they end do not keep the larger impeller's curve above the smaller one's; they are left out: trace them by hand with their diameters.`);
+    for (const c of list) delete c.value;
+  }
+  // Two curves of one panel with one name: neither is kept.
+  const out = usable.filter((c) => c.value !== undefined);
+  const twice = out.filter((c) => out.some((o) => o !== c && o.panel === c.panel && o.value === c.value));
+  if (twice.length > 0) leftOut.push(`On panel "${twice[0]!.panel.id}" two curves came out as ${twice[0]!.value}; both are left out: trace them by hand.`);
+  const curvesOut = out.filter((c) => !twice.includes(c));
+  return { curves: curvesOut, labelUnit: named.unit, family: named.family, questions, leftOut };
+}
+
+function median(values: readonly number[]): number {
+  const s = [...values].sort((a, b) => a - b);
+  return s.length ? (s[s.length >> 1] as number) : NaN;
+}
+
+/** Words inside a frame (level pixels): blots of about the text height joined along rows, the grid taken out first. */
+export function frameWords(map: InkMap, frame: Box, strong: number, h: number): { words: Blot[]; clean: InkMap; at: [number, number] } {
+  const [l, t, r, b] = frame.map(Math.round) as [number, number, number, number];
+  const w = Math.max(0, r - l - 8);
+  const hh = Math.max(0, b - t - 8);
+  const at: [number, number] = [l + 4, t + 4];
+  if (w < 10 || hh < 10 || !(h > 0)) return { words: [], clean: { width: 0, height: 0, ink: new Uint8Array(0) }, at };
+  const ink = new Int16Array(w * hh);
+  for (let y = 0; y < hh; y++) ink.set(map.ink.subarray((t + 4 + y) * map.width + l + 4, (t + 4 + y) * map.width + l + 4 + w), y * w);
+  // A grid line darkens its whole row (or column): the row's median darkness is taken off every
+  // pixel of it, so a label printed over a grid line stands free and the line itself goes.
+  const hist = new Uint32Array(256);
+  const medianOf = (at: (k: number) => number, n: number) => {
+    hist.fill(0);
+    for (let k = 0; k < n; k++) hist[Math.max(0, Math.min(255, at(k)))]!++;
+    let seen = 0;
+    for (let v = 0; v < 256; v++) if ((seen += hist[v] as number) >= n / 2) return v;
+    return 0;
+  };
+  for (let y = 0; y < hh; y++) {
+    const m = medianOf((k) => ink[y * w + k] as number, w);
+    if (m > 0) for (let k = 0; k < w; k++) ink[y * w + k] = (ink[y * w + k] as number) - m;
+  }
+  for (let x = 0; x < w; x++) {
+    const m = medianOf((k) => ink[k * w + x] as number, hh);
+    if (m > 0) for (let k = 0; k < hh; k++) ink[k * w + x] = (ink[k * w + x] as number) - m;
+  }
+  const clean = new Uint8Array(w * hh);
+  for (let i = 0; i < clean.length; i++) clean[i] = Math.max(0, ink[i] as number);
+  const cleanMap: InkMap = { width: w, height: hh, ink: clean };
+  const blots = joinCut(inkBlots(cleanMap, 0.3 * strong, [], Math.round(2 * h)));
+  // Glyphs and the marks beside them (a dot, an inch mark); a word is about the text's height.
+  const words = wordsOf(blots.filter((k) => k.b - k.t >= 0.2 * h || k.r - k.l >= 0.2 * h)).filter((k) => k.b - k.t >= 0.6 * h && k.b - k.t <= 1.6 * h && k.r - k.l >= 0.4 * h && k.r - k.l <= 8 * h);
+  return { words, clean: cleanMap, at };
+}
+
+/** A glyph cut in two by a grid row taken out: pieces one above the other, a few pixels apart, joined again. */
+function joinCut(blots: Blot[]): Blot[] {
+  const out = [...blots].sort((a, b) => a.t - b.t);
+  for (let again = true; again; ) {
+    again = false;
+    for (let i = 0; i < out.length && !again; i++) {
+      for (let j = i + 1; j < out.length; j++) {
+        const a = out[i] as Blot;
+        const c = out[j] as Blot;
+        const overlap = Math.min(a.r, c.r) - Math.max(a.l, c.l);
+        const gap = Math.max(a.t, c.t) - Math.min(a.b, c.b);
+        if (overlap >= 0.5 * Math.min(a.r - a.l, c.r - c.l) && gap <= 5) {
+          out[i] = { l: Math.min(a.l, c.l), t: Math.min(a.t, c.t), r: Math.max(a.r, c.r), b: Math.max(a.b, c.b) };
+          out.splice(j, 1);
+          again = true;
+          break;
+        }
+      }
+    }
+  }
+  return out;
+}
+
+/** A curve's label: "330 mm", 13", "13 in", "1450 rpm", or a bare number. */
+function labelOf(text: string): { value: number; unit: 'mm' | 'in' | 'rpm' | null } | null {
+  const t = text.replace(/[”“″]/g, '"').replace(/\s+/g, ' ').trim();
+  const k = curveLabel(t);
+  if (k) return { value: k.value, unit: k.unit };
+  if (NUMBER_ONLY.test(t)) return { value: sheetNumber(t), unit: null };
+  return null;
+}
+
+async function nameHeads(
+  heads: RasterCurve[],
+  found: { word: Blot; frame: Box; clean: InkMap; at: [number, number] }[],
+  strong: number,
+  reader: TextReader,
+  level: Level,
+  scale: number,
+  given: RasterCurveOptions['given'],
+  questions: string[],
+  note: (line: string) => void = () => undefined,
+): Promise<{ values: Map<RasterCurve, number>; unit: string | null; family: 'diameter' | 'speed' }> {
+  const values = new Map<RasterCurve, number>();
+  if (heads.length === 0) return { values, unit: null, family: given?.family ?? 'diameter' };
+  // Order, top to bottom, checked at every column the curves share: the higher curve stays higher.
+  const lo = Math.max(...heads.map((c) => c.track.u[0] as number));
+  const hi = Math.min(...heads.map((c) => c.track.u[c.track.u.length - 1] as number));
+  const rows = (u: number) => heads.map((c) => trackAt(c.track, u) ?? NaN);
+  const order = [...heads].sort((a, b) => (trackAt(a.track, lo) ?? 0) - (trackAt(b.track, lo) ?? 0));
+  let crossing = false;
+  for (let k = 0; k <= 10 && hi > lo; k++) {
+    const u = lo + ((hi - lo) * k) / 10;
+    const at = rows(u);
+    const sorted = [...heads].sort((a, b) => (at[heads.indexOf(a)] as number) - (at[heads.indexOf(b)] as number));
+    if (sorted.some((c, i) => c !== order[i])) crossing = true;
+  }
+  // Labels read inside the head frame, each on or beside its nearest head curve.
+  // Read on the frame's ink with the grid taken out, one call per frame; then in level pixels.
+  // Each word is read twice (as words, for the unit; as digits, for the number): a small label
+  // in colour is often read two ways, and the candidates are sorted out below.
+  const readings: { text: string; digits: string }[] = [];
+  const words: { word: Blot }[] = [];
+  for (const clean of new Set(found.map((k) => k.clean))) {
+    const here = found.filter((k) => k.clean === clean);
+    const crops = here.map((w) => ({ box: { l: w.word.l - 2, t: w.word.t - 2, r: w.word.r + 2, b: w.word.b + 2 }, upright: false }));
+    const asWords = await readCrops(clean, crops, reader, 'words', 2 * strong);
+    const asDigits = await readCrops(clean, crops, reader, 'digits', 2 * strong);
+    asWords.forEach((r, i) => readings.push({ text: r.text, digits: asDigits[i]?.text ?? '' }));
+    words.push(...here.map((k) => ({ word: { l: k.word.l + k.at[0], t: k.word.t + k.at[1], r: k.word.r + k.at[0], b: k.word.b + k.at[1] } })));
+  }
+  const byCurve = new Map<RasterCurve, Set<number>>();
+  const units: (string | null)[] = [];
+  words.forEach((w, i) => {
+    const reading = readings[i] as { text: string; digits: string };
+    const label = labelOf(reading.text);
+    const candidates = labelCandidates(reading.text, reading.digits);
+    note(`word at [${w.word.l}, ${w.word.t}, ${w.word.r}, ${w.word.b}] read "${reading.text}" / "${reading.digits}" → ${candidates.join(' or ') || 'no label'}`);
+    if (candidates.length === 0) return;
+    const cx = (w.word.l + w.word.r) / 2;
+    const cy = (w.word.t + w.word.b) / 2;
+    const hgt = w.word.b - w.word.t;
+    let best: RasterCurve | null = null;
+    let bestD = Infinity;
+    for (const c of heads) {
+      const on = trackAt(c.track, cx);
+      const n = c.track.u.length;
+      const endU = c.track.u[n - 1] as number;
+      const endV = c.track.v[n - 1] as number;
+      // On the line (the label interrupts it), or beside its end (up and to the right).
+      const dOn = on === null ? Infinity : Math.abs(on - cy);
+      const dEnd = Math.hypot(Math.max(0, w.word.l - endU), Math.max(0, endV - w.word.b));
+      const d = Math.min(dOn, w.word.l >= endU - hgt ? dEnd : Infinity);
+      if (d < bestD) [best, bestD] = [c, d];
+    }
+    note(`  nearest head curve ${best ? heads.indexOf(best) : '-'} at ${bestD.toFixed(1)} px (text height ${hgt})`);
+    if (!best || bestD > 1.5 * hgt) return;
+    const set = byCurve.get(best) ?? new Set<number>();
+    for (const v of candidates) set.add(v);
+    byCurve.set(best, set);
+    if (label?.unit) units.push(label.unit);
+  });
+  const unit = units.find((k) => k !== null) ?? null;
+  const family: 'diameter' | 'speed' = unit === 'rpm' ? 'speed' : unit ? 'diameter' : (given?.family ?? 'diameter');
+  // The one naming of every curve the candidates allow: larger values higher, and the shut-off
+  // heads in about the ratio of the values squared (affinity).
+  const shutOff = order.map((c) => shutOffHead(c));
+  const chosen = chooseNames(order.map((c) => [...(byCurve.get(c) ?? [])]), shutOff);
+  const fromLabels = new Map<RasterCurve, number>();
+  if (chosen) order.forEach((c, i) => fromLabels.set(c, chosen[i] as number));
+  const where = (c: RasterCurve) => {
+    const n = c.track.u.length;
+    const [x, y] = level.toImage(c.track.u[n >> 1] as number, c.track.v[n >> 1] as number);
+    return `[${(x / scale).toFixed(0)}, ${(y / scale).toFixed(0)}]`;
+  };
+  const givenValues = given ? [...given.values].sort((a, b) => b - a) : null;
+  if (chosen && !crossing && !(givenValues && givenValues.join() !== chosen.join())) {
+    // One curve alone has nothing to be checked against: it is named, and the engineer asked once.
+    for (const [c, v] of fromLabels) [values.set(c, v), (c.value = v), (c.named = 'label'), (c.confidence *= heads.length > 1 ? 0.95 : 0.6)];
+    if (heads.length === 1) questions.push(`The one head curve found was read as ${chosen[0]}${unit ? ` ${unit}` : ''} from its label; is that what the sheet prints?`);
+    return { values, unit, family };
+  }
+  if (givenValues && givenValues.length === heads.length && !crossing) {
+    const fit = givenValues.every((v, i) => i === 0 || affinityHolds(givenValues[0] as number, shutOff[0] as number, v, shutOff[i] as number));
+    order.forEach((c, i) => {
+      const v = givenValues[i] as number;
+      values.set(c, v);
+      c.value = v;
+      c.named = 'given';
+      c.confidence *= fit ? 0.9 : 0.4;
+    });
+    if (!fit) questions.push(`The head curves found (top to bottom at ${order.map(where).join(', ')}) do not keep the affinity rule with the values given (${givenValues.join(', ')}): their shut-off heads ${shutOff.map((h) => h.toPrecision(3)).join(', ')} are not near the ratio of the values squared. Is a curve missing, or a value wrong?`);
+    return { values, unit, family: given?.family ?? family };
+  }
+  const readList = order.map((c) => [...(byCurve.get(c) ?? [])].join(' or ') || '?').join(', ');
+  questions.push(
+    crossing
+      ? `The ${heads.length} head curves found cross one another, so their order does not name them; give each curve's diameter by tracing it (labels read, top to bottom: ${readList}).`
+      : `The ${heads.length} head curves found (top to bottom at ${order.map(where).join(', ')}) could not all be named from the labels read (${readList})${givenValues ? ` nor from the ${givenValues.length} values given` : ''}; give the diameters (or speeds) drawn in the take-off ("diameters" or "speeds"), and run --detect again.`,
+  );
+  return { values, unit, family };
+}
+
+/** The value of a label read two ways (as words with its unit, and as digits), or nothing when the two disagree. */
+function labelCandidates(text: string, digits: string): number[] {
+  // Only a whole label counts, its unit read too ("330 mm", 13"): a number alone may be a label
+  // cut short by the grid, or its inch mark read as a digit. The digits reading must agree.
+  const label = labelOf(text);
+  if (!label || label.unit === null) return [];
+  const number = /\d+(?:[.,]\d+)?/.exec(digits.replace(/\s+/g, ''))?.[0];
+  if (number === undefined) return [label.value];
+  const read = sheetNumber(number);
+  return read === label.value || sheetNumber(number.slice(0, -1)) === label.value ? [label.value] : [];
+}
+
+/** The head at the lowest flow of the tracer's line (the shut-off head), or NaN. */
+function shutOffHead(c: RasterCurve): number {
+  let best: SheetPoint | null = null;
+  let bestX = Infinity;
+  for (const p of c.traced) {
+    const x = c.panel.proposal.calibration.toData(p)[0];
+    if (x < bestX) [best, bestX] = [p, x];
+  }
+  return best ? c.panel.proposal.calibration.toData(best)[1] : NaN;
+}
+
+/**
+ * Affinity between two curves of one family: head in proportion to the diameter (or speed)
+ * squared. Trimmed impellers follow it only roughly, so the check takes any exponent from 1.5
+ * to 2.8 (common practice: H ∝ D² for trims; the band is wider so that a sound sheet passes and a misread label fails).
+ */
+export function affinityHolds(v1: number, h1: number, v2: number, h2: number): boolean {
+  if (!(v1 > 0 && v2 > 0 && h1 > 0 && h2 > 0) || v1 === v2) return false;
+  const k = Math.log(h1 / h2) / Math.log(v1 / v2);
+  return k >= 1.5 && k <= 2.8;
+}
+
+/**
+ * The one assignment of values to curves (top to bottom) from each curve's candidates with the
+ * values falling strictly from top to bottom and every pair keeping affinity; null when a curve
+ * has no candidate, when none fits, or when two different ones fit.
+ */
+export function chooseNames(candidates: readonly (readonly number[])[], heads: readonly number[]): number[] | null {
+  if (candidates.some((c) => c.length === 0)) return null;
+  const fits: number[][] = [];
+  const pick: number[] = [];
+  const walk = (i: number): void => {
+    if (fits.length > 1) return;
+    if (i === candidates.length) {
+      fits.push([...pick]);
+      return;
+    }
+    for (const v of candidates[i] as readonly number[]) {
+      if (i > 0 && !(v < (pick[i - 1] as number))) continue;
+      if (pick.some((u, j) => !affinityHolds(u, heads[j] as number, v, heads[i] as number))) continue;
+      pick.push(v);
+      walk(i + 1);
+      pick.pop();
+    }
+  };
+  walk(0);
+  return fits.length === 1 ? (fits[0] as number[]) : null;
+}

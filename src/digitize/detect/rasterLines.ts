@@ -1,0 +1,359 @@
+/**
+ * The lines drawn inside one frame of a scan, on the level page (ink.ts): the grid is left out
+ * (the rows and columns of its lines, found by rasterFrames.gridLines, are looked through),
+ * each column's ink is cut into runs, and the runs are joined column to column into tracks by
+ * continuity (each track predicts its next row from its own slope). Where two lines cross or
+ * run together, the tracks sharing one run stop being told apart: the younger one is dropped,
+ * and the pieces on either side of the bunch are joined afterwards when one continues the
+ * other's course. A dash pattern's gaps are bridged; text is too short to make a line.
+ *
+ * Each track keeps, column by column, whether its run stood alone (no other ink within a few
+ * line widths across): the places where guides for the tracer can go without doubt.
+ *
+ * Pure: works on the level ink map only.
+ */
+import type { InkMap } from './ink.ts';
+import type { Box } from './panels.ts';
+
+/** One column's piece of ink: its middle row, its length across, its darkness. */
+interface Run {
+  v: number;
+  len: number;
+  /** Rows to the nearest other run of the column (Infinity when alone). */
+  room: number;
+}
+
+export interface Track {
+  /** Columns (level pixels, centres) and the line's middle row at each; bridged columns are not listed. */
+  u: number[];
+  v: number[];
+  /** Rows to the nearest other ink across, at each listed column. */
+  room: number[];
+  /** Run length across at each listed column (the line's width where it is level). */
+  len: number[];
+  /** Indices where a piece joined after a gap begins (a bunch or crossing lay between): guides never spread across one. */
+  joins?: number[];
+}
+
+export interface LinesOptions {
+  /** Darkness at or above which a pixel is ink; by default half the darkness of the frame's darkest half-percent off the grid, between `floor` and `ceiling`. */
+  threshold?: number;
+  floor?: number;
+  ceiling?: number;
+  /** Grid line positions (level pixels): columns of the vertical lines, rows of the horizontal ones. */
+  grid: { x: readonly number[]; y: readonly number[] };
+  /** Boxes (level pixels: left, top, right, bottom) whose ink is not line: the words printed in the frame. */
+  holes?: readonly (readonly [number, number, number, number])[];
+}
+
+const INSET = 5;
+
+/** Slope and intercept of the last points of a track, least squares (v = a + b·u). */
+function course(t: Track, last = 12): { a: number; b: number } {
+  const n = t.u.length;
+  const k0 = Math.max(0, n - last);
+  if (n - k0 < 3) return { a: t.v[n - 1] as number, b: 0 };
+  let su = 0;
+  let sv = 0;
+  let suu = 0;
+  let suv = 0;
+  const m = n - k0;
+  for (let k = k0; k < n; k++) {
+    const u = t.u[k] as number;
+    const v = t.v[k] as number;
+    su += u;
+    sv += v;
+    suu += u * u;
+    suv += u * v;
+  }
+  const d = m * suu - su * su;
+  const b = d === 0 ? 0 : (m * suv - su * sv) / d;
+  return { a: (sv - b * su) / m, b };
+}
+
+function predict(t: Track, u: number): number {
+  const c = course(t);
+  return c.a + c.b * u;
+}
+
+/**
+ * Runs of ink in column `u` between rows t and b. On a grid row (or column) the grid's own
+ * darkness there (`base`, its median along the frame) is taken off first: a line crossing the
+ * grid, or running along a grid line, still shows; the grid alone does not.
+ */
+function columnRuns(map: InkMap, u: number, t: number, b: number, base: Float32Array, colBase: number, threshold: number, maxLen: number, holes: readonly (readonly [number, number, number, number])[]): Run[] {
+  const here = holes.filter((h) => u >= h[0] && u < h[2]);
+  const { width, ink } = map;
+  const runs: Run[] = [];
+  let start = -1;
+  let last = -1;
+  let sw = 0;
+  let sv = 0;
+  const close = () => {
+    if (start >= 0) {
+      const len = last - start + 1;
+      if (len <= maxLen && sw > 0) runs.push({ v: sv / sw, len, room: Infinity });
+    }
+    start = -1;
+    sw = 0;
+    sv = 0;
+  };
+  for (let v = t; v < b; v++) {
+    const d = here.some((h) => v >= h[1] && v < h[3]) ? 0 : (ink[v * width + u] as number) - Math.max(colBase, base[v] as number);
+    if (d >= threshold) {
+      if (start < 0) start = v;
+      last = v;
+      const w = d - threshold + 1;
+      sw += w;
+      sv += w * (v + 0.5);
+    } else close();
+  }
+  close();
+  for (let i = 0; i < runs.length; i++) {
+    const r = runs[i] as Run;
+    const prev = runs[i - 1];
+    const next = runs[i + 1];
+    r.room = Math.min(prev ? r.v - prev.v : Infinity, next ? next.v - r.v : Infinity);
+  }
+  return runs;
+}
+
+/**
+ * The lines of a frame (level pixels), each at least `minSpan` columns wide, left to right.
+ * `maxGap` columns without ink are bridged on the track's course (dashes, labels on the line,
+ * grid columns, crossings).
+ */
+export function frameLines(map: InkMap, frame: Box, options: LinesOptions): Track[] {
+  const [l, t, r, b] = frame.map(Math.round) as [number, number, number, number];
+  const fw = r - l;
+  const fh = b - t;
+  const maxGap = Math.max(8, Math.round(0.03 * fw));
+  const minSpan = 0.12 * fw;
+  const maskRows = new Uint8Array(map.height);
+  const maskCols = new Uint8Array(map.width);
+  for (const y of options.grid.y) for (let v = Math.floor(y - 2.5); v <= Math.ceil(y + 1.5); v++) if (v >= 0 && v < map.height) maskRows[v] = 1;
+  for (const x of options.grid.x) for (let u = Math.floor(x - 2.5); u <= Math.ceil(x + 1.5); u++) if (u >= 0 && u < map.width) maskCols[u] = 1;
+  const top = t + INSET;
+  const bottom = b - INSET;
+  const threshold = options.threshold ?? lineThreshold(map, [l + INSET, top, r - INSET, bottom], maskRows, maskCols, options.floor ?? 10, options.ceiling ?? 255);
+  // The grid's darkness along each grid row and column (median over the frame).
+  const rowBase = new Float32Array(map.height);
+  const colBase = new Float32Array(map.width);
+  for (let v = top; v < bottom; v++) if (maskRows[v]) rowBase[v] = medianAlong(map, v, l + INSET, r - INSET, 'row');
+  for (let u = l + INSET; u < r - INSET; u++) if (maskCols[u]) colBase[u] = medianAlong(map, u, top, bottom, 'column');
+  const active: { track: Track; lastU: number }[] = [];
+  const done: Track[] = [];
+  const retire = (k: number) => {
+    const [a] = active.splice(k, 1);
+    if (a) done.push(a.track);
+  };
+  for (let u = l + INSET; u < r - INSET; u++) {
+    for (let k = active.length - 1; k >= 0; k--) if (u - (active[k]!.lastU) > maxGap) retire(k);
+    const runs = columnRuns(map, u, top, bottom, rowBase, colBase[u] as number, threshold, Math.max(12, 0.25 * fh), options.holes ?? []);
+    const taken = new Set<number>();
+    const claims: { k: number; i: number; d: number }[] = [];
+    active.forEach((a, k) => {
+      const gap = u - a.lastU;
+      const p = predict(a.track, u + 0.5);
+      const c = course(a.track);
+      const tol = 2.5 + 0.5 * (a.track.len[a.track.len.length - 1] ?? 2) + Math.min(6, Math.abs(c.b)) * 1.5 + 0.15 * gap;
+      let best = -1;
+      let bestD = Infinity;
+      runs.forEach((run, i) => {
+        const d = Math.abs(run.v - p);
+        if (d <= tol + 0.5 * run.len && d < bestD) [best, bestD] = [i, d];
+      });
+      if (best >= 0) claims.push({ k, i: best, d: bestD });
+    });
+    for (const c of claims) {
+      const a = active[c.k]!;
+      const run = runs[c.i] as Run;
+      a.track.u.push(u + 0.5);
+      a.track.v.push(run.v);
+      a.track.len.push(run.len);
+      a.track.room.push(run.room);
+      a.lastU = u;
+      taken.add(c.i);
+    }
+    // Two tracks on one run for a while are one line now: the younger (shorter) is let go.
+    const byRun = new Map<number, number[]>();
+    for (const c of claims) byRun.set(c.i, [...(byRun.get(c.i) ?? []), c.k]);
+    const drop = new Set<number>();
+    for (const ks of byRun.values()) {
+      if (ks.length < 2) continue;
+      for (let x = 0; x < ks.length; x++) {
+        for (let y = x + 1; y < ks.length; y++) {
+          const A = active[ks[x] as number]!.track;
+          const B = active[ks[y] as number]!.track;
+          if (sharedTail(A, B) >= 6) drop.add(A.u.length >= B.u.length ? (ks[y] as number) : (ks[x] as number));
+        }
+      }
+    }
+    for (const k of [...drop].sort((x, y) => y - x)) {
+      const a = active[k]!;
+      // The shared tail belongs to the line that goes on; what came before stays a piece.
+      const n = sharedTailOf(a, active.filter((_, j) => j !== k).map((o) => o.track));
+      a.track.u.splice(a.track.u.length - n);
+      a.track.v.splice(a.track.v.length - n);
+      a.track.len.splice(a.track.len.length - n);
+      a.track.room.splice(a.track.room.length - n);
+      retire(k);
+    }
+    runs.forEach((run, i) => {
+      if (!taken.has(i)) active.push({ track: { u: [u + 0.5], v: [run.v], len: [run.len], room: [run.room] }, lastU: u });
+    });
+  }
+  while (active.length) retire(0);
+  return joinPieces(done.filter((tr) => tr.u.length >= 3), maxGap * 4, fh).filter((tr) => (tr.u[tr.u.length - 1] as number) - (tr.u[0] as number) >= minSpan && !isRule(tr));
+}
+
+function medianAlong(map: InkMap, at: number, from: number, to: number, along: 'row' | 'column'): number {
+  const values: number[] = [];
+  for (let k = from; k < to; k += 2) values.push(map.ink[along === 'row' ? at * map.width + k : k * map.width + at] as number);
+  values.sort((a, b) => a - b);
+  return values.length ? (values[values.length >> 1] as number) : 0;
+}
+
+/** A straight level line (a grid line the grid finder missed), not a curve: within 1.5 px of one row all along. */
+function isRule(t: Track): boolean {
+  const mean = t.v.reduce((a, v) => a + v, 0) / t.v.length;
+  return t.v.every((v) => Math.abs(v - mean) <= 1.5);
+}
+
+/**
+ * The ink threshold of a frame: half the darkness reached by its darkest half-percent of pixels
+ * off the grid (the lines drawn cover a few percent of a frame), kept between floor and ceiling.
+ */
+function lineThreshold(map: InkMap, box: [number, number, number, number], maskRows: Uint8Array, maskCols: Uint8Array, floor: number, ceiling: number): number {
+  const hist = new Uint32Array(256);
+  let n = 0;
+  for (let v = box[1]; v < box[3]; v += 2) {
+    if (maskRows[v]) continue;
+    for (let u = box[0]; u < box[2]; u += 2) {
+      if (maskCols[u]) continue;
+      hist[map.ink[v * map.width + u] as number]!++;
+      n++;
+    }
+  }
+  let seen = 0;
+  for (let d = 255; d >= 0; d--) {
+    seen += hist[d] as number;
+    if (seen >= 0.005 * n) return Math.max(floor, Math.min(ceiling, d / 2));
+  }
+  return floor;
+}
+
+/** How many last points two tracks share (same column, same row). */
+function sharedTail(a: Track, b: Track): number {
+  let n = 0;
+  for (let i = a.u.length - 1, j = b.u.length - 1; i >= 0 && j >= 0; i--, j--) {
+    if (a.u[i] !== b.u[j] || Math.abs((a.v[i] as number) - (b.v[j] as number)) > 0.01) break;
+    n++;
+  }
+  return n;
+}
+
+function sharedTailOf(a: { track: Track }, others: readonly Track[]): number {
+  return Math.max(0, ...others.map((o) => sharedTail(a.track, o)));
+}
+
+/**
+ * Pieces joined where one continues another: the next piece starts after the first ends
+ * (within `maxGap` columns), and each one's course, carried to the other's end, meets it
+ * within a few pixels. Each piece joins at most one on either side, the closest first.
+ */
+function joinPieces(pieces: Track[], maxGap: number, fh: number): Track[] {
+  const list = [...pieces].sort((a, b) => (a.u[0] as number) - (b.u[0] as number));
+  const pairs: { a: Track; b: Track; cost: number }[] = [];
+  for (const a of list) {
+    const ea = a.u[a.u.length - 1] as number;
+    const va = a.v[a.v.length - 1] as number;
+    const ca = course(a, 20);
+    for (const b of list) {
+      if (a === b) continue;
+      const sb = b.u[0] as number;
+      const gap = sb - ea;
+      if (gap < 0 || gap > maxGap) continue;
+      const back: Track = { u: b.u.slice(0, 20).reverse(), v: b.v.slice(0, 20).reverse(), len: [], room: [] };
+      const cb = course(back, 20);
+      const miss = Math.max(Math.abs(ca.a + ca.b * sb - (b.v[0] as number)), Math.abs(cb.a + cb.b * ea - va));
+      if (miss > Math.max(3, 0.01 * fh) + 0.05 * gap) continue;
+      pairs.push({ a, b, cost: gap + 10 * miss });
+    }
+  }
+  pairs.sort((x, y) => x.cost - y.cost);
+  const next = new Map<Track, Track>();
+  const prev = new Map<Track, Track>();
+  for (const p of pairs) {
+    if (next.has(p.a) || prev.has(p.b)) continue;
+    next.set(p.a, p.b);
+    prev.set(p.b, p.a);
+  }
+  const out: Track[] = [];
+  for (const start of list) {
+    if (prev.has(start)) continue;
+    const t: Track = { u: [], v: [], len: [], room: [], joins: [] };
+    for (let p: Track | undefined = start; p; p = next.get(p)) {
+      if (t.u.length > 0) t.joins!.push(t.u.length);
+      t.u.push(...p.u);
+      t.v.push(...p.v);
+      t.len.push(...p.len);
+      t.room.push(...p.room);
+    }
+    out.push(t);
+  }
+  return out;
+}
+
+/** The track's row at column u (between its listed columns), or null outside its columns. */
+export function trackAt(t: Track, u: number): number | null {
+  const n = t.u.length;
+  if (n === 0 || u < (t.u[0] as number) || u > (t.u[n - 1] as number)) return null;
+  let lo = 0;
+  let hi = n - 1;
+  while (hi - lo > 1) {
+    const mid = (lo + hi) >> 1;
+    if ((t.u[mid] as number) <= u) lo = mid;
+    else hi = mid;
+  }
+  const u0 = t.u[lo] as number;
+  const u1 = t.u[hi] as number;
+  const f = u1 === u0 ? 0 : (u - u0) / (u1 - u0);
+  return (t.v[lo] as number) + f * ((t.v[hi] as number) - (t.v[lo] as number));
+}
+
+/**
+ * Places for guides where the track's ink stood alone (at least `room` rows from any other ink,
+ * columns no more than 8 apart), on stretches of at least `stretch` columns. On the longest
+ * stretch: one place in its middle, or two at a quarter and three quarters of it when it is
+ * longer than `long` columns. With `spread` (lines that never cross one another), also the
+ * middle of every other stretch of the same piece (never across a join), up to `most` places
+ * in all; without it the places lie on one stretch, with no crossing between them, so they
+ * cannot sit on two different lines.
+ */
+export function alonePlaces(t: Track, room: number, stretch: number, long: number, spread = false, most = 5): { u: number; v: number }[] {
+  const spans: [number, number][] = [];
+  let s = -1;
+  for (let i = 0; i <= t.u.length; i++) {
+    const ok = i < t.u.length && (t.room[i] as number) >= room && (s < 0 || (t.u[i] as number) - (t.u[i - 1] as number) <= 8);
+    if (ok && s < 0) s = i;
+    if (!ok && s >= 0) {
+      if ((t.u[i - 1] as number) - (t.u[s] as number) >= stretch) spans.push([s, i - 1]);
+      s = i < t.u.length && (t.room[i] as number) >= room ? i : -1;
+    }
+  }
+  if (spans.length === 0) return [];
+  const width = (k: [number, number]) => (t.u[k[1]] as number) - (t.u[k[0]] as number);
+  const longest = spans.reduce((a, b) => (width(b) > width(a) ? b : a));
+  const at = ([i, j]: [number, number], f: number) => {
+    const k = Math.round(i + f * (j - i));
+    return { u: t.u[k] as number, v: t.v[k] as number };
+  };
+  const places = width(longest) > long ? [at(longest, 0.25), at(longest, 0.75)] : [at(longest, 0.5)];
+  if (spread) {
+    const piece = (i: number) => (t.joins ?? []).filter((j) => j <= i).length;
+    const others = spans.filter((k) => k !== longest && piece(k[0]) === piece(longest[0]) && piece(k[1]) === piece(longest[0])).sort((a, b) => width(b) - width(a)).slice(0, Math.max(0, most - places.length));
+    places.push(...others.map((k) => at(k, 0.5)));
+  }
+  return places.sort((a, b) => a.u - b.u);
+}

@@ -1,0 +1,122 @@
+/**
+ * Curves on scans: lines followed column by column through a grid, places for guides only
+ * where a line stands alone, names checked by order and affinity, and the whole take-off of an
+ * INVENTED scan of the independent random bed with no panels and no traces given, scored
+ * against the bed's exact truth at 15–95 % of each curve's flow range.
+ */
+import { afterAll, describe, expect, it } from 'vitest';
+import { affinityHolds, chooseNames } from '../../src/digitize/detect/rasterCurves.ts';
+import { alonePlaces, frameLines, trackAt } from '../../src/digitize/detect/rasterLines.ts';
+import type { InkMap } from '../../src/digitize/detect/ink.ts';
+import { detectTakeoff } from '../../src/digitize/detect/detect.ts';
+import { imageSheet } from '../../src/digitize/loaders/imageSheet.ts';
+import { closeTextReaderNode, textReaderNode } from '../../src/digitize/loaders/ocrNode.ts';
+import { replayTakeoff } from '../../src/digitize/takeoff.ts';
+import { parseTakeoffToDetect } from '../../src/model/takeoff.ts';
+import { decode } from '../../scripts/randomSheets/camera.ts';
+import { sheetGeometry, truthOf } from '../../scripts/randomSheets/randomSheet.ts';
+import { scoreReplay } from '../../scripts/randomSheets/score.ts';
+import { scanFor } from '../../scripts/detectSheets/scanBed.ts';
+
+afterAll(() => closeTextReaderNode());
+
+const W = 600;
+const H = 400;
+const FRAME = [50, 50, 550, 350] as const;
+
+/** An ink map with a grid every 50 px (darkness 60, 1 px) and lines y = f(x), 2 px wide, darkness 200; dashed lines leave gaps. */
+function inkWith(lines: { f: (x: number) => number; from?: number; to?: number; dash?: [number, number] }[]): InkMap {
+  const ink = new Uint8Array(W * H);
+  for (let g = 100; g < 550; g += 50) for (let y = 50; y < 350; y++) ink[y * W + g] = 60;
+  for (let g = 100; g < 350; g += 50) for (let x = 50; x < 550; x++) ink[g * W + x] = 60;
+  for (const l of lines) {
+    for (let x = l.from ?? 51; x < (l.to ?? 549); x += 0.25) {
+      if (l.dash && (x - 51) % (l.dash[0] + l.dash[1]) >= l.dash[0]) continue;
+      const y = l.f(x);
+      for (let yy = Math.floor(y - 1); yy <= Math.ceil(y + 1); yy++) {
+        const cover = Math.max(0, Math.min(1, 1.5 - Math.abs(yy + 0.5 - y)));
+        const i = yy * W + Math.floor(x);
+        ink[i] = Math.max(ink[i] as number, Math.round(200 * cover));
+      }
+    }
+  }
+  return { width: W, height: H, ink };
+}
+
+const grid = { x: [100, 150, 200, 250, 300, 350, 400, 450, 500].map((g) => g + 0.5), y: [100, 150, 200, 250, 300].map((g) => g + 0.5) };
+
+describe('lines in a frame', () => {
+  it('three falling curves through a grid come back as three lines, each within a pixel and a half of where it was drawn (the tracer gives the geometry; these are for placing guides); the grid makes none', () => {
+    const curves = [(x: number) => 90 + 0.0006 * (x - 50) ** 2, (x: number) => 150 + 0.0005 * (x - 50) ** 2, (x: number) => 210 + 0.0004 * (x - 50) ** 2];
+    const tracks = frameLines(inkWith(curves.map((f) => ({ f, to: 450 }))), FRAME, { grid, ceiling: 100 });
+    expect(tracks).toHaveLength(3);
+    for (const f of curves) {
+      const t = tracks.find((k) => Math.abs((trackAt(k, 300) ?? 1e9) - f(300)) < 2);
+      expect(t).toBeDefined();
+      let worst = 0;
+      for (let x = 60; x < 440; x += 5) worst = Math.max(worst, Math.abs((trackAt(t!, x) ?? 1e9) - f(x)));
+      expect(worst).toBeLessThan(1.5);
+    }
+  });
+
+  it('a dashed line is one line, its gaps bridged', () => {
+    const f = (x: number) => 200 - 0.2 * (x - 50);
+    const tracks = frameLines(inkWith([{ f, dash: [12, 5] }]), FRAME, { grid, ceiling: 100 });
+    expect(tracks).toHaveLength(1);
+    expect(tracks[0]!.u[0]!).toBeLessThan(70);
+    expect(tracks[0]!.u[tracks[0]!.u.length - 1]!).toBeGreaterThan(530);
+  });
+
+  it('guides go only where a line stands alone; without spreading they lie on one stretch', () => {
+    // Two lines together (1 px apart) up to x = 300, then apart.
+    const a = (x: number) => (x < 300 ? 200 : 200 - 0.5 * (x - 300));
+    const b = (x: number) => (x < 300 ? 201 : 201 + 0.5 * (x - 300));
+    const tracks = frameLines(inkWith([{ f: a }, { f: b }]), FRAME, { grid, ceiling: 100 });
+    for (const t of tracks) {
+      const places = alonePlaces(t, 8, 8, 60);
+      for (const p of places) expect(p.u).toBeGreaterThan(300 + 8 / 0.5 / 2);
+    }
+  });
+});
+
+describe('names of head curves', () => {
+  // Shut-off heads of an INVENTED family following affinity (H ∝ D²): 390 → 60 m.
+  const heads = [390, 346, 302].map((d) => 60 * (d / 390) ** 2);
+  it('the one naming with values falling downwards and heads in the ratio of the values squared', () => {
+    expect(chooseNames([[390], [346], [302]], heads)).toEqual([390, 346, 302]);
+    expect(chooseNames([[390, 39], [346, 34], [302]], heads)).toEqual([390, 346, 302]);
+  });
+  it('no naming when a curve has no label, when the order is broken, or when two namings fit', () => {
+    expect(chooseNames([[390], [], [302]], heads)).toBeNull();
+    expect(chooseNames([[346], [390], [302]], heads)).toBeNull();
+    expect(chooseNames([[390], [346, 345], [302]], heads)).toBeNull();
+  });
+  it('affinity: head in proportion to the diameter squared passes; a label misread by a tenth fails', () => {
+    expect(affinityHolds(390, 60, 346, 60 * (346 / 390) ** 2)).toBe(true);
+    expect(affinityHolds(390, 60, 3460, 60 * (346 / 390) ** 2)).toBe(false);
+    expect(affinityHolds(15.5, 100, 12.2, 100 * (12.25 / 15.5) ** 2)).toBe(true); // a near value is not caught by affinity alone
+    expect(affinityHolds(15.5, 100, 155, 100 * (12.25 / 15.5) ** 2)).toBe(false);
+  });
+});
+
+describe('an INVENTED scan of the random bed, no panels and no traces given', () => {
+  it('finds every head and power curve, named from the diameters given in order, each within 0.5 % of span of the exact truth', { timeout: 180_000 }, async () => {
+    const seed = 3;
+    const { plan } = sheetGeometry(seed, 'scan');
+    const { jpeg, takeoff } = await scanFor(seed);
+    const d = await decode(Buffer.from(jpeg));
+    const image = { width: d.width, height: d.height, data: d.data, scale: 1 };
+    const sheet = imageSheet(image, 'e'.repeat(64), () => image);
+    const raw: Record<string, unknown> = { ...takeoff, sheet: `${seed}.jpg`, diameters: [...plan.family.diameters] };
+    delete raw.panels;
+    delete raw.traces;
+    const found = await detectTakeoff(parseTakeoffToDetect(raw), raw, sheet, { reader: textReaderNode() });
+    const traces = found.takeoff.traces;
+    expect(traces.every((t) => t.origin === 'detected' && (t.guides?.length ?? 0) > 0 && (t.confidence ?? 0) >= 0.5)).toBe(true);
+    expect(traces.map((t) => `${t.quantity}-${t.diameter}`).sort()).toEqual(plan.lines.map((l) => l.id).sort());
+    const replay = await replayTakeoff(found.takeoff, sheet, { created: '2026-01-01T00:00:00.000Z' });
+    const scores = scoreReplay(plan.family, truthOf(plan), replay.curveSet);
+    expect(scores.length).toBe(plan.lines.length);
+    for (const s of scores) expect(s.error, s.id).toBeLessThan(0.5);
+  });
+});
