@@ -8,7 +8,7 @@
  * beyond. Only pixels near the path are read.
  * Pure: pixel coordinates in, pixel coordinates out.
  */
-import { colourDistance, membership, windowAround, type InkModel } from './colour.ts';
+import type { InkModel } from './colour.ts';
 import { findRuns, sampleLongSection, sampleSection, type ReadCounter, type Run } from './lineProfile.ts';
 import type { RasterImage } from './raster.ts';
 
@@ -195,62 +195,6 @@ export function chooseOffset(runs: readonly Run[], style: LineStyle, allowed: nu
   return 'found';
 }
 
-/**
- * Where a coloured line runs over or under a line of another colour at a shallow angle, the
- * blend of the two inks carries less of the line's colour, and its run thins below the mass
- * range for a stretch much longer than the crossing is wide. While the line is being followed
- * (not after a gap), one such thinned run at the prediction (at least `THIN_MASS` of the width,
- * nothing else of the colour in view, other ink beside it: `otherInkAt`) is taken as the line,
- * for at most 30 widths in a row, and only after the line was followed cleanly for a few steps.
- * It is marked not clean (it counts as a disturbed stretch and is left out of gap headings).
- */
-export function thinnedRun(runs: readonly Run[], style: LineStyle, allowed: number, pick: Pick): boolean {
-  let found: Run | undefined;
-  for (const run of runs) {
-    if (run.mass < THIN_MASS * style.width) continue;
-    if (found || run.mass >= style.massRange[0] * style.width || Math.abs(run.centre) > allowed) return false;
-    found = run;
-  }
-  if (!found) return false;
-  // The run's centroid leans towards the side left uncovered: the follower is steered towards it
-  // only slowly (the prediction carries the line's own bending), so that it does not slide on
-  // to the other line.
-  const steer = THIN_STEER * style.width;
-  pick.offset = Math.max(-steer, Math.min(steer, found.centre));
-  pick.clean = false;
-  return true;
-}
-
-/** Largest step across, as a fraction of the width, that a thinned run may steer the follower by. */
-const THIN_STEER = 0.1;
-
-/**
- * Whether ink of another colour (at least half the line's contrast with the paper, little
- * membership in the line's model) lies within a line width and a pixel of (x, y): the other line
- * of a shallow crossing, which a thinned run needs beside it to count as the line (a label or a
- * faded stretch of the line's own colour has none).
- */
-function otherInkAt(image: RasterImage, style: LineStyle, x: number, y: number, counter?: ReadCounter): boolean {
-  const { model } = style;
-  const wanted = 0.5 * colourDistance(model.paper, ...model.line);
-  const [x0, y0, x1, y1] = windowAround(image, x, y, style.width + 1);
-  const { data, width } = image;
-  if (counter) counter.reads += (x1 - x0) * (y1 - y0);
-  for (let j = y0; j < y1; j++) {
-    for (let i = x0; i < x1; i++) {
-      const k = (j * width + i) * 4;
-      const r = data[k] as number;
-      const g = data[k + 1] as number;
-      const b = data[k + 2] as number;
-      if (colourDistance(model.paper, r, g, b) >= wanted && membership(model, r, g, b) < 0.2) return true;
-    }
-  }
-  return false;
-}
-
-/** Least cross-section mass, as a fraction of the width, of a thinned run taken as the line (`thinnedRun`). */
-const THIN_MASS = 0.25;
-
 /** Accepted steps in a row needed before a line found again after a gap is trusted. */
 const CONFIRM_STEPS = 4;
 
@@ -383,9 +327,6 @@ export function followLine(
   let skip = 0;
   let trusted = 0;
   let lastGap: { dx: number; dy: number; turn: number; trusted: number; at: number } | undefined;
-  // Travel on thinned runs in a row (see `thinnedRun`), and the most allowed.
-  let thinned = 0;
-  const maxThinned = Math.max(60, 30 * style.width);
 
   for (;;) {
     const c = Math.cos(turn);
@@ -414,10 +355,6 @@ export function followLine(
       if (style.reach) sampleLongSection(image, style.model, qx, qy, nx, ny, n, spacing, style.reach, section, counter);
       else sampleSection(image, style.model, qx, qy, nx, ny, n, spacing, section, counter);
       choice = chooseOffset(findRuns(section, n, spacing, style.threshold, runs), style, accept + extra, pick);
-      if (choice === undefined && coast === 0 && !style.reach && style.model.mode === 'chromatic' && (thinned > 0 || cleanRun >= CONFIRM_STEPS) && thinned < maxThinned && thinnedRun(runs, style, accept, pick) && otherInkAt(image, style, qx + nx * pick.offset, qy + ny * pick.offset, counter)) {
-        choice = 'found';
-        thinned += step;
-      } else if (choice === 'found') thinned = 0;
     }
     if (choice === 'ambiguous' || (choice === 'found' && !pick.clean)) {
       if (disturbedAt < 0) {

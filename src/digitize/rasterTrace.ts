@@ -796,28 +796,17 @@ function extendToEnds(image: RasterImage, style: LineStyle, path: Px[], maxGap: 
     let heading = tangentAt(stretch, stretch.length - 1, 1);
     // Where the line was last found again (an index into `out`), or -1.
     let resumed = -1;
-    // Where a short piece found again and kept on trial begins (an index into `out`), or -1.
-    let trial = -1;
     for (let round = 0; round < MAX_REACQUIRE; round++) {
       const result = followLine(image, style, end, heading, undefined, limits, counter);
       const [inside] = judgeExtension(result, undefined, frame, image.scale, style.width);
       const smooth = keepSmooth(all, inside, style, maxGap, { image, counter, doubts });
       if (resumed >= 0 && pathLength([end, ...smooth], 0) < Math.max(FOUND_AGAIN_PX, 12 * style.width)) {
-        // What was found again ends soon. Between two crossings (a grid line, then a line of
-        // another colour running close) a piece of the line itself is short too: when it
-        // continues the line across the gap in course and ink, it is kept on trial, and stays
-        // only if the line is found again beyond it as well. Otherwise (a label beside the
-        // line's end, a piece of a grid line) the line ended before the gap: take it back.
-        const before = all.slice(0, all.length - (out.length - resumed));
-        const piece = [end, ...smooth];
-        if (trial < 0 && piece.length >= RESUME_POINTS && onTrial(before, piece, style, image, counter)) trial = resumed;
-        else {
-          const back = trial >= 0 ? trial : resumed;
-          all.length -= out.length - back;
-          out.length = back;
-          break;
-        }
-      } else if (resumed >= 0) trial = -1;
+        // What was found again ends soon (a label beside the line's end, a piece of a grid
+        // line): the line ended before the gap. Take the found part back.
+        all.length -= out.length - resumed;
+        out.length = resumed;
+        break;
+      }
       // Beyond the guides nothing vouches for the line that came out of a stretch where it ran
       // together with others of its colour (a bunch): a neighbour may have been taken for it.
       const crowded = doubts.some((d) => d.what === 'bunch-end') ? undefined : crowdedAt(image, style, smooth, counter);
@@ -829,14 +818,7 @@ function extendToEnds(image: RasterImage, style: LineStyle, path: Px[], maxGap: 
       // Otherwise the line was lost (its end, or another line or a grid line that the follower
       // took for it): look for it again further along its own course.
       const again = reacquire(image, style, all, maxGap, frame, counter);
-      if (!again) {
-        // A short piece kept on trial, and nothing of the line beyond it: take it back.
-        if (trial >= 0) {
-          all.length -= out.length - trial;
-          out.length = trial;
-        }
-        break;
-      }
+      if (!again) break;
       // Found beyond a gap's length (past what hid it): another line of its colour close beside
       // the place would have passed the same test.
       if (again.far && !doubts.some((d) => d.what === 'gap-beside')) {
@@ -1136,25 +1118,8 @@ function continuesAcross(all: readonly Px[], piece: readonly Px[], style: LineSt
   return runsOnAcross(earlier, piece, style) && sameInk(all, piece, style, image, counter) ? 'on' : 'off';
 }
 
-/**
- * Whether a short piece found again beyond a gap may be kept on trial (see `extendToEnds`): it
- * starts near the parabola through the line before the gap and carries the line's ink, as in
- * `continuesAcross`, but its heading may differ by twice as much (`TRIAL_SLACK`), since a short
- * piece between two crossings leans at both its ends. It stays only when the line is found again
- * beyond it on the course it sets.
- */
-function onTrial(all: readonly Px[], piece: readonly Px[], style: LineStyle, image: RasterImage, counter: ReadCounter): boolean {
-  const a = all[all.length - 1] as Px;
-  const b = piece[0] as Px;
-  if (Math.hypot(b[0] - a[0], b[1] - a[1]) < Math.max(15, 5 * style.width)) return false;
-  return runsOnAcross(all, piece, style, TRIAL_SLACK) && sameInk(all, piece, style, image, counter);
-}
-
-/** How much more a short piece on trial may turn from the course than a piece judged at full length. */
-const TRIAL_SLACK = 2;
-
 /** The course test of `continuesAcross`: the piece runs along the parabola through the line's end, near it. */
-function runsOnAcross(all: readonly Px[], piece: readonly Px[], style: LineStyle, slack = 1): boolean {
+function runsOnAcross(all: readonly Px[], piece: readonly Px[], style: LineStyle): boolean {
   const window = smoothWindow(style.width);
   const fit = fitParabola(all, window);
   if (!fit) return false;
@@ -1190,7 +1155,7 @@ function runsOnAcross(all: readonly Px[], piece: readonly Px[], style: LineStyle
   }
   const slope = sss > 0 ? sso / sss : Infinity;
   const level = mo - slope * ms;
-  return Math.abs(level) <= acrossDrift(style, gap) && Math.abs(slope) <= slack * (ACROSS_SLOPE + (0.5 * limit) / chord);
+  return Math.abs(level) <= acrossDrift(style, gap) && Math.abs(slope) <= ACROSS_SLOPE + (0.5 * limit) / chord;
 }
 
 /** The ink test of `continuesAcross`: about as much of the line's colour across the piece as across the line before it. */

@@ -125,22 +125,6 @@ describe('raster line following', () => {
     expect(worstOff(result.points, head)).toBeLessThan(0.8); // px; the 60-px gap is bridged by prediction
   });
 
-  it('holds a coloured line through a shallow crossing with a line of another colour, to its own end', () => {
-    const eff = (x: number) => 320 - 0.9 * (x - 20) + 0.0012 * (x - 20) ** 2; // bending, like an efficiency curve
-    const other = (x: number) => eff(x) + 0.05 * (x - 260); // crosses it at about 3° near x = 260
-    const image = picture(640, 360, (ctx) => {
-      grid(ctx, 640, 360, 50);
-      stroke(ctx, eff, 20, 600, '#2a55c8', 2.5);
-      ctx.globalAlpha = 0.75; // the inks mix where they overlap, as a print and a scan blend them
-      stroke(ctx, other, 120, 420, '#e08a20', 2.5);
-      ctx.globalAlpha = 1;
-    });
-    const result = traceRaster(image, [sheetPoint(80, eff(80))]);
-    const last = result.points[result.points.length - 1] as SheetPoint;
-    expect(last[0]).toBeGreaterThan(590); // px: the line's own end at 600
-    expect(worstOff(result.points, eff)).toBeLessThan(1.5); // px
-  });
-
   it('follows the colour found under the guide, not a darker line running beside it', () => {
     const image = picture(640, 360, (ctx) => {
       stroke(ctx, head, 20, 620, '#2050d0', 3);
