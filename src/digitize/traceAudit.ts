@@ -381,6 +381,13 @@ export const COINCIDE_PERCENT = 0.3;
 export const ORDER_PERCENT = 1;
 /** Least share of the panel's flow axis over which coinciding or out-of-order traces are said. */
 export const NEIGHBOUR_SHARE = 0.08;
+/**
+ * Efficiency and NPSHr traces of different diameters lying on one line over more than this share
+ * of the flows both span, and over more than BUNCH_AXIS_SHARE of the axis, follow one drawn line
+ * (common practice: such curves may run together near shut-off and part well before mid-range).
+ */
+export const BUNCH_COMMON_SHARE = 0.6;
+export const BUNCH_AXIS_SHARE = 0.2;
 
 /**
  * Head and power traces of one panel, held against each other: at any flow a larger impeller
@@ -388,12 +395,14 @@ export const NEIGHBOUR_SHARE = 0.08;
  * the curves fall with flow), so two traces of different diameters neither lie on one line nor
  * swap places. Where they do over a stretch, at least one followed another line; both are
  * named, since either may be the one that left. Efficiency and NPSHr curves of a family may
- * bunch or cross, so they are not held to this.
+ * bunch or cross, so they are not held to order; but two of them that lie on one line over most
+ * of the flows both span (BUNCH_COMMON_SHARE) and over a good part of the axis (BUNCH_AXIS_SHARE)
+ * are one drawn line traced twice: a bunch parts within the first third or so of the flow range.
  */
 function auditNeighbours(curves: readonly AuditedTrace[], flowText: (q: number) => string): AuditFinding[] {
   const out: AuditFinding[] = [];
   const said = new Set<string>();
-  const usable = curves.filter((t) => (t.quantity === 'head' || t.quantity === 'power') && t.how === 'raster' && t.values && t.valueSpan && t.values.length === t.flows.length && t.axisFlow);
+  const usable = curves.filter((t) => t.iso === undefined && t.how === 'raster' && t.values && t.valueSpan && t.values.length === t.flows.length && t.axisFlow);
   for (const a of usable) {
     for (const b of usable) {
       if (a === b || a.quantity !== b.quantity || a.panel !== b.panel || !((a.diameter as number) > (b.diameter as number))) continue;
@@ -420,7 +429,10 @@ function auditNeighbours(curves: readonly AuditedTrace[], flowText: (q: number) 
         }
       }
       const share = (hi - lo) / n / axis;
-      const what = together * share >= NEIGHBOUR_SHARE ? 'lie on one line' : swapped * share >= NEIGHBOUR_SHARE ? 'swap places' : undefined;
+      const ordered = a.quantity === 'head' || a.quantity === 'power';
+      const what = ordered
+        ? together * share >= NEIGHBOUR_SHARE ? 'lie on one line' : swapped * share >= NEIGHBOUR_SHARE ? 'swap places' : undefined
+        : together / (n + 1) >= BUNCH_COMMON_SHARE && together * share >= BUNCH_AXIS_SHARE ? 'lie on one line' : undefined;
       if (!what) continue;
       for (const t of [a, b]) {
         if (said.has(t.id)) continue;
@@ -430,7 +442,9 @@ function auditNeighbours(curves: readonly AuditedTrace[], flowText: (q: number) 
           code: 'takeoff.trace-neighbour',
           severity: 'fail',
           trace: t.id,
-          message: `Trace ${t.id} (${t.describe}) and trace ${other.id} (${other.describe}) ${what} over ${Math.round(100 * (what === 'lie on one line' ? together : swapped) * share)} % of the flow axis${what === 'swap places' ? ` (near ${flowText(where)})` : ''}, where a larger impeller's ${t.quantity} lies above a smaller one's everywhere; one of them followed the other's line. Add guides on each line where it stands alone, near both of its ends.`,
+          message: ordered
+            ? `Trace ${t.id} (${t.describe}) and trace ${other.id} (${other.describe}) ${what} over ${Math.round(100 * (what === 'lie on one line' ? together : swapped) * share)} % of the flow axis${what === 'swap places' ? ` (near ${flowText(where)})` : ''}, where a larger impeller's ${t.quantity} lies above a smaller one's everywhere; one of them followed the other's line. Add guides on each line where it stands alone, near both of its ends.`
+            : `Trace ${t.id} (${t.describe}) and trace ${other.id} (${other.describe}) lie on one line over ${Math.round(100 * together * share)} % of the flow axis, far past where curves of a family run together; one of them followed the other's line. Add guides on each line where it stands alone, near both of its ends.`,
           figures: { share_of_axis: (what === 'lie on one line' ? together : swapped) * share },
         });
       }

@@ -80,9 +80,28 @@ describe('trace audit', () => {
     const swapped = pair(big.map((v, i) => ((q[i] as number) >= 0.06 ? (small[i] as number) - 5 : v)), small).filter((f) => f.code !== 'takeoff.trace-jump');
     expect(swapped.map((f) => f.code)).toEqual(['takeoff.trace-neighbour', 'takeoff.trace-neighbour']);
     expect(swapped[0]?.message).toMatch(/swap places/);
-    // Traces on different panels, and efficiency curves (which may bunch), are not compared.
+    // Traces on different panels are not compared.
     expect(auditTraces([trace('h370', 'head', 370, 0, 0.1, { ...axis, flows: q, values: big }), trace('h330', 'head', 330, 0, 0.1, { ...axis, panel: 'other', flows: q, values: big })], text)).toEqual([]);
-    expect(auditTraces([trace('e370', 'efficiency', 370, 0, 0.1, { ...axis, flows: q, values: big }), trace('e330', 'efficiency', 330, 0, 0.1, { ...axis, flows: q, values: big })], text)).toEqual([]);
+  });
+
+  it('lets efficiency and NPSHr curves bunch near shut-off, and fails two that lie on one line far past it', () => {
+    const q = Array.from({ length: 60 }, (_, i) => (0.1 * i) / 59);
+    const axis = { axisFlow: [0, 0.12] as const, valueSpan: 8, panel: 'npsh' };
+    // Invented NPSHr curves that run together up to a third of the flow range, then part.
+    const base = q.map((x) => 2 + 300 * x * x);
+    const parted = q.map((x, i) => (base[i] as number) + (x > 0.033 ? 40 * (x - 0.033) : 0));
+    const pair = (a: number[], b: number[]) => auditTraces([trace('n370', 'npshr', 370, 0, 0.1, { ...axis, flows: q, values: a }), trace('n330', 'npshr', 330, 0, 0.1, { ...axis, flows: q, values: b })], text).filter((f) => f.code === 'takeoff.trace-neighbour');
+    expect(pair(base, parted)).toEqual([]);
+    // The 370 trace followed the 330 line all the way: one drawn line traced twice.
+    const same = pair(parted, parted);
+    expect(same.map((f) => [f.severity, f.trace])).toEqual([
+      ['fail', 'n370'],
+      ['fail', 'n330'],
+    ]);
+    expect(same[0]?.message).toMatch(/lie on one line over \d+ % of the flow axis, far past where curves of a family run together/);
+    // Efficiency curves are held the same way; iso-lines are not held to it.
+    const eff = auditTraces([trace('e370', 'efficiency', 370, 0, 0.1, { ...axis, flows: q, values: parted }), trace('e330', 'efficiency', 330, 0, 0.1, { ...axis, flows: q, values: parted })], text).filter((f) => f.code === 'takeoff.trace-neighbour');
+    expect(eff).toHaveLength(2);
   });
 
   it('fails a trace that runs level over a fifth of the flow axis (a grid line), and passes a flat-topped head curve', () => {
