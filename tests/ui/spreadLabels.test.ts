@@ -1,0 +1,41 @@
+/**
+ * Curve-end labels moved apart on the family chart and the sheet: no two touching labels stay
+ * touching, order is kept, and a stack of labels whose positions round badly in floating point
+ * still comes to rest (a label at y, moved to y + gap, may read as a hair closer than gap).
+ */
+import { describe, expect, it } from 'vitest';
+import { spreadLabels } from '../../src/ui/geometry/labels.ts';
+
+const label = (y: number, x = 100, text = '250 mm') => ({ x, y, text });
+
+describe('curve-end labels moved apart', () => {
+  it('moves a touching label below the one placed, and leaves labels apart in x alone', () => {
+    const out = spreadLabels([label(100), label(104), label(104, 400)], 11);
+    expect(out.map((l) => [l.x, l.y])).toEqual([
+      [100, 100],
+      [100, 111],
+      [400, 104],
+    ]);
+  });
+
+  it('comes to rest where (y + gap) − y rounds under gap', () => {
+    // (250.10217767961106 + 11) − 250.10217767961106 < 11 in double precision.
+    const y = 250.10217767961106;
+    expect(y + 11 - y).toBeLessThan(11);
+    const out = spreadLabels([label(y), label(y + 1), label(y + 2), label(y + 3)], 11);
+    const ys = out.map((l) => l.y);
+    for (let i = 1; i < ys.length; i++) expect((ys[i] as number) - (ys[i - 1] as number)).toBeGreaterThan(10.99);
+  });
+
+  it('comes to rest on many labels at random places, each clear of the others', () => {
+    let seed = 7;
+    const rand = () => ((seed = (seed * 16807) % 2147483647) / 2147483647);
+    const labels = Array.from({ length: 60 }, () => label(500 * rand(), 100 + 40 * rand(), `${Math.round(200 + 200 * rand())} mm`));
+    const out = spreadLabels(labels, 11);
+    for (const a of out) for (const b of out) {
+      if (a === b) continue;
+      const apartX = a.x >= b.x + b.text.length * 6.2 || b.x >= a.x + a.text.length * 6.2;
+      if (!apartX) expect(Math.abs(a.y - b.y)).toBeGreaterThan(10.99);
+    }
+  });
+});
