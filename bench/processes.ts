@@ -20,6 +20,7 @@ export interface ChildRun {
   cpu?: number;
   code: number | null;
   stderr: string;
+  stdout: string;
 }
 
 /** Runs `node …args` once; stdout is discarded. */
@@ -40,7 +41,7 @@ export function runNode(args: string[], options: { input?: string; cwd?: string 
     if (Number.isFinite(user) && Number.isFinite(system)) cpu = ((user as number) + (system as number)) * 1000;
   }
   rmSync(dir, { recursive: true, force: true });
-  return { ms, ...(rss !== undefined ? { rss } : {}), ...(cpu !== undefined ? { cpu } : {}), code: r.status, stderr: r.stderr };
+  return { ms, ...(rss !== undefined ? { rss } : {}), ...(cpu !== undefined ? { cpu } : {}), code: r.status, stderr: r.stderr, stdout: r.stdout };
 }
 
 export function median(values: number[]): number {

@@ -11,6 +11,7 @@ import type { SheetPoint } from './points.ts';
 import type { RasterImage } from './raster.ts';
 import type { SheetKind } from './sheet.ts';
 import type { StrokeLine } from './strokeJoin.ts';
+import { closeRetrace, type RegionReader } from './closeTrace.ts';
 
 export type CaptureMethod = 'auto' | 'vector' | 'raster';
 
@@ -36,6 +37,8 @@ export interface CaptureSource {
   lines(): Promise<readonly StrokeLine[]>;
   /** A raster of the sheet for line following. */
   raster(): Promise<RasterImage>;
+  /** Reads a part of the page at the file's own resolution, when the raster was reduced on load: traces are then re-traced close (closeTrace.ts). */
+  closeRaster?: RegionReader | undefined;
 }
 
 export interface CaptureResult {
@@ -95,7 +98,13 @@ export async function captureTrace(request: CaptureRequest, source: CaptureSourc
     }
   }
   const image = await source.raster();
-  const traced = traceRaster(image, guides, rasterOptions(request, options));
+  let traced = traceRaster(image, guides, rasterOptions(request, options));
+  let scale = image.scale;
+  if (source.closeRaster && image.scale < 1) {
+    const close = await closeRetrace(traced, image.scale, guides, rasterOptions(request, options), source.closeRaster);
+    if (close.kind === 'close') ({ traced, scale } = close);
+    notes.push(close.note);
+  }
   for (const l of traced.lost) notes.push(`The line was lost near (${l.at[0].toFixed(1)}, ${l.at[1].toFixed(1)}) between guides ${l.between[0]} and ${l.between[1]}: ${l.reason}.`);
   return {
     points: traced.lost.length ? traced.points : evenly(traced.points, spacing),
@@ -103,7 +112,7 @@ export async function captureTrace(request: CaptureRequest, source: CaptureSourc
     notes,
     lost: traced.lost,
     doubts: traced.doubts,
-    ...(traced.line.widthPx > 0 ? { lineWidth: traced.line.widthPx / image.scale } : {}),
+    ...(traced.line.widthPx > 0 ? { lineWidth: traced.line.widthPx / scale } : {}),
   };
 }
 

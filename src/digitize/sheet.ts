@@ -7,6 +7,7 @@
  */
 import { UserError } from '../model/errors.ts';
 import type { SheetPoint } from './points.ts';
+import type { RegionReader } from './closeTrace.ts';
 import type { RasterImage } from './raster.ts';
 
 export type SheetKind = 'vector-pdf' | 'raster-pdf' | 'image';
@@ -63,6 +64,8 @@ export interface Sheet {
   text(): Promise<SheetText[]>;
   /** Frees the loader's resources. */
   close(): Promise<void>;
+  /** A part of the page at the file's own resolution, for a page read reduced on load (closeTrace.ts); absent otherwise. */
+  region?: RegionReader;
 }
 
 /** Thrown for a sheet that cannot be read; the message says what was wrong and what to do. */

@@ -8,7 +8,8 @@
  */
 import { buildCurveSet, type MemberInput } from '../fit/build.ts';
 import { makeFinding, sortFindings } from '../fit/checks/finding.ts';
-import { CurveSet, type CurvePoint, type DrawnAs, type Finding, type Quantity } from '../model/curveset.ts';
+import { z } from 'zod';
+import { Finding as FindingSchema, Limits, type CurvePoint, type CurveSet, type DrawnAs, type Finding, type Quantity } from '../model/curveset.ts';
 import { TakeoffError, takeoffFamily, type Takeoff, type Trace } from '../model/takeoff.ts';
 import { minFlowLimit } from '../fit/speedFamilyLimits.ts';
 import { SG_REFERENCE_DENSITY, toSI, type Unit } from '../units/index.ts';
@@ -29,6 +30,8 @@ import { checkTotalPoints, checkTracePoints } from '../model/limits.ts';
 import { resolveTakeoffUnits, traceUnits } from './takeoffUnits.ts';
 import type { RasterImage } from './raster.ts';
 
+const Findings = z.array(FindingSchema);
+
 export interface ReplayOptions {
   /** File name of the take-off, for provenance. */
   takeoffName?: string;
@@ -41,6 +44,8 @@ export interface ReplayOptions {
   capture?: CaptureOptions;
   /** Pixels per sheet unit when a PDF page must be rendered for line following (default 4). */
   rasterScale?: number;
+  /** Re-trace raster traces at the file's own resolution where the page was read reduced on load (closeTrace.ts). */
+  fullResolution?: boolean;
 }
 
 export interface TraceOutcome {
@@ -101,6 +106,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
     kind: sheet.kind,
     lines: () => (lines ??= sheet.paths().then((p) => strokeLines(p, options.capture?.vector))),
     raster: () => (raster ??= sheet.render(sheet.kind === 'image' ? 1 : safeScale(sheet, options.rasterScale ?? 4))),
+    closeRaster: options.fullResolution ? sheet.region : undefined,
   };
 
   const outcomes: TraceOutcome[] = [];
@@ -318,7 +324,9 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
     readingAccuracy,
   });
   const limits = minFlowLimit(takeoff.min_flow !== undefined ? toSI(takeoff.min_flow, units.flow) : undefined, minFlowLine);
-  const curveSet = CurveSet.parse({ ...built, ...(limits ? { limits } : {}), findings: sortFindings([...built.findings, ...findings]) });
+  // buildCurveSet validated the set; only what is added here is validated again (in schema order: limits, then findings).
+  const { findings: fitted, ...rest } = built;
+  const curveSet: CurveSet = { ...rest, ...(limits ? { limits: Limits.parse(limits) } : {}), findings: Findings.parse(sortFindings([...fitted, ...findings])) };
   return { curveSet, traces: outcomes, calibrations, traceMembers, crossings: crossingsOf };
 }
 

@@ -22,6 +22,7 @@ interface TakeoffOptions {
   quiet?: boolean;
   json?: boolean;
   detect?: boolean;
+  fullResolution?: boolean;
 }
 
 export function register(program: Command): void {
@@ -35,6 +36,7 @@ export function register(program: Command): void {
     .option('-q, --quiet', 'print nothing but errors')
     .option('--json', 'print the report (traces, figures, findings) as JSON')
     .option('--detect', 'find the panels and curves on the sheet: a vector PDF, or a scan (image or scanned PDF page, tick labels and curve labels read offline; give "diameters" when the sheet prints none); the file needs only sheet, page, pump.speed_rpm and units; what is doubtful is asked, not guessed; with --save-points the completed take-off is written back')
+    .option('--full-resolution', "where the page was read at a reduced resolution on load (an image over the 40-megapixel working limit), re-trace each raster trace on the file's own pixels of its panel; a re-trace that does not agree with the working trace is not used, and its note says so")
     .action((file: string, options: TakeoffOptions) => runCommand(() => takeoff(file, options)));
 }
 
@@ -72,7 +74,7 @@ async function takeoff(file: string, o: TakeoffOptions): Promise<number> {
     for (const q of detected?.questions ?? []) process.stderr.write(`Question: ${q}\n`);
     parsed = parsed as Takeoff;
     progress.step(`capturing ${parsed.traces.length} trace${parsed.traces.length === 1 ? '' : 's'}, fitting and checking`);
-    const result = await replayTakeoff(parsed, sheet, { takeoffName: isStdio(file) ? 'standard input' : basename(file), sheetFile: basename(sheetPath), useCaptured: o.useCaptured ?? false });
+    const result = await replayTakeoff(parsed, sheet, { takeoffName: isStdio(file) ? 'standard input' : basename(file), sheetFile: basename(sheetPath), useCaptured: o.useCaptured ?? false, fullResolution: o.fullResolution ?? false });
     progress.done();
     writeTextAtomic(o.output, stringifyCurveSet(result.curveSet));
     if (o.savePoints) writeTextAtomic(file, withCapturedPoints(raw as Record<string, unknown>, result.traces, sheet.sha256));

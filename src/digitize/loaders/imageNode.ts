@@ -12,6 +12,8 @@
  * `readImageRegionNode` re-reads any region at full resolution. See imageDecode.ts for the decoders.
  */
 import { createHash } from 'node:crypto';
+import type { Box, RegionRaster, RegionReader } from '../closeTrace.ts';
+import { sheetPoint } from '../points.ts';
 import type { RasterImage } from '../raster.ts';
 import { checkRasterSize, DEFAULT_SHEET_LIMITS, SheetError, type Sheet, type SheetLimits } from '../sheet.ts';
 import { checkSourceHeader, damagedImage, reductionNote, workingSize, type ImageHeader } from './imageHeader.ts';
@@ -98,7 +100,33 @@ export async function loadImageSheetNode(bytes: Uint8Array, options: ImageNodeOp
   const { header, image } = await loadChecked(bytes, options);
   const sha256 = createHash('sha256').update(bytes).digest('hex');
   const sheet = imageSheet(image, sha256, (scale) => resample(image, scale / image.scale, limits, scale));
-  return image.scale === 1 ? sheet : reducedImageSheet(sheet, header, image, (scale) => resample(image, scale / image.scale, limits, scale));
+  if (image.scale === 1) return sheet;
+  return { ...reducedImageSheet(sheet, header, image, (scale) => resample(image, scale / image.scale, limits, scale)), region: regionReader(bytes, header, options) };
+}
+
+/**
+ * The reduced page's `region`: a box of the file at its own resolution, clamped to the page.
+ * The last box read is kept, so the traces of one panel (which ask for the panel's box) read
+ * the file once; a box over the working limit is answered with a sentence instead.
+ */
+function regionReader(bytes: Uint8Array, header: ImageHeader, options: ImageNodeOptions): RegionReader {
+  const limits = options.limits ?? DEFAULT_SHEET_LIMITS;
+  let last: { key: string; region: Promise<RegionRaster> } | undefined;
+  return async (box: Box) => {
+    const left = Math.max(0, Math.floor(box[0]));
+    const top = Math.max(0, Math.floor(box[1]));
+    const right = Math.min(header.width, Math.ceil(box[2]));
+    const bottom = Math.min(header.height, Math.ceil(box[3]));
+    if (!(right > left && bottom > top)) return 'the part of the page asked for lies outside the image';
+    const pixels = (right - left) * (bottom - top);
+    if (pixels > limits.maxPixels) return `its panel spans ${(pixels / 1e6).toFixed(1)} megapixels at the file's resolution, over the ${(limits.maxPixels / 1e6).toFixed(1)} megapixel working limit; crop the file to the panel and take that off`;
+    const key = `${left},${top},${right},${bottom}`;
+    if (last?.key !== key) {
+      last = undefined; // free the previous panel's pixels before reading the next
+      last = { key, region: readImageRegionNode(bytes, { left, top, width: right - left, height: bottom - top }, options).then((image) => ({ image, origin: sheetPoint(left, top) })) };
+    }
+    return last.region;
+  };
 }
 
 /** A rectangle of an image file in its own pixels (sheet units of an image sheet). */
