@@ -10,7 +10,12 @@ import { z } from 'zod';
 import { UNITS, type QuantityKind } from '../units/units.ts';
 
 export const CURVESET_FORMAT = 'pumpscribe.curveset';
-export const CURVESET_VERSION = 1;
+/**
+ * Version 2 added `drawn_as` on curves (how the sheet drew a curve). Its objects are strict, so a
+ * reader of version 1 would refuse such a file by an unknown key; the version tells it to update
+ * instead. Version 1 files read on (model/curvesetIO.ts, MIGRATIONS).
+ */
+export const CURVESET_VERSION = 2;
 
 // Every rule is written so that z.toJSONSchema carries it into the published schema:
 // z.number() is finite in zod 4, .positive() becomes exclusiveMinimum, .nonnegative() minimum.

@@ -13,9 +13,12 @@ export class CurveSetFormatError extends UserError {
 
 /**
  * Migrations, keyed by the version they upgrade FROM. Each takes the parsed JSON of that
- * version and returns the next version's JSON. Version 1 is the first; none exist yet.
+ * version and returns the next version's JSON.
  */
-export const MIGRATIONS: Record<number, (old: Record<string, unknown>) => Record<string, unknown>> = {};
+export const MIGRATIONS: Record<number, (old: Record<string, unknown>) => Record<string, unknown>> = {
+  // Version 2 only added the optional `drawn_as` of a curve: a version 1 file is a valid version 2 file.
+  1: (old) => ({ ...old, version: 2 }),
+};
 
 function firstIssues(error: ZodError): string {
   return error.issues

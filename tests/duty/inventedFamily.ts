@@ -9,7 +9,7 @@
  * Trims obey the affinity law exactly: H_D(Q) = r²·H(Q/r), η_D(Q) = η(Q/r), r = D/D_full,
  * so H_D(Q) = 50·r² − 12000·Q².
  */
-import type { CurveSet, Member, PolynomialFit } from '../../src/model/curveset.ts';
+import { CURVESET_VERSION, type CurveSet, type Member, type PolynomialFit } from '../../src/model/curveset.ts';
 import type { PumpCurve } from '../../src/duty/pumpCurve.ts';
 import { STANDARD_GRAVITY } from '../../src/units/constants.ts';
 
@@ -94,7 +94,7 @@ export function inventedMember(d: number, withPowerCurve = false): Member {
 export function inventedCurveSet(diameters = [0.25, 0.23, 0.21]): CurveSet {
   return {
     format: 'pumpscribe.curveset',
-    version: 1,
+    version: CURVESET_VERSION,
     pump: { name: 'Invented end-suction pump (test data)', suction: 'single' },
     speed_rpm: SPEED,
     family: 'diameter',

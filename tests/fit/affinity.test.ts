@@ -27,7 +27,7 @@ describe('affinity scaling (Karassik, Pump Handbook: Q ∝ n, H ∝ n², P ∝ n
   it('a whole set converted from 1780 to 1480 rpm (60 Hz to 50 Hz) scales every member and its BEP', () => {
     const m: Member = { ...member(0.25), speed_rpm: 1780, derived: { bep: { flow_m3s: 0.06, head_m: 35, efficiency: 0.8 } } };
     const set = {
-      format: 'pumpscribe.curveset' as const, version: 1 as const, pump: { name: 'Invented' }, speed_rpm: 1780, family: 'diameter' as const,
+      format: 'pumpscribe.curveset' as const, version: 2 as const, pump: { name: 'Invented' }, speed_rpm: 1780, family: 'diameter' as const,
       fluid: { name: 'water', density_kg_m3: 998, specific_gravity: 1 }, provenance: { tool: { name: 't', version: '0' }, created: '2026-01-01T00:00:00Z' },
       display_units: { flow: 'm3/h', head: 'm', npsh: 'm', power: 'kW', diameter: 'mm' }, members: [m], findings: [],
     };

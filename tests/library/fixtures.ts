@@ -10,7 +10,7 @@
  *   P_r(Q) = ρ·g·Q·H_r(Q) / η_r(Q)                  (fitted by a cubic; consistent within its rms)
  * so the curve of any trim r meets (Q, H) when r² = (H + a·Q²) / H0.
  */
-import type { CurveSet, Member, PolynomialFit } from '../../src/model/curveset.ts';
+import { CURVESET_VERSION, type CurveSet, type Member, type PolynomialFit } from '../../src/model/curveset.ts';
 import { fitPolynomial } from '../../src/fit/polyfit.ts';
 import { STANDARD_GRAVITY } from '../../src/units/constants.ts';
 
@@ -152,7 +152,7 @@ export function inventedCurveSet(f: InventedFamily): CurveSet {
   const ratios = [...(f.ratios ?? [1, 0.92, 0.84])].sort((x, y) => y - x);
   return {
     format: 'pumpscribe.curveset',
-    version: 1,
+    version: CURVESET_VERSION,
     pump: {
       name: f.name,
       maker: f.maker ?? 'Invented Test Works',

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
+import { readFileSync } from 'node:fs';
 import { CURVESET_FORMAT, CURVESET_VERSION, CurveSet, type CurveSet as CurveSetT } from '../../src/model/curveset.ts';
 import { parseCurveSetJson, stringifyCurveSet, CurveSetFormatError } from '../../src/model/curvesetIO.ts';
 
@@ -98,6 +99,14 @@ describe('curve-set format', () => {
 
   it('refuses a newer format version instead of guessing', () => {
     expect(() => parseCurveSetJson(JSON.stringify({ format: CURVESET_FORMAT, version: 99 }))).toThrow(/newer than this Pumpscribe reads/);
+  });
+
+  it('reads a version 1 file as version 2 (version 2 only added the optional drawn_as of a curve)', () => {
+    const v2 = readFileSync('samples/demo/invented-si3-si.curveset.json', 'utf8');
+    const v1 = v2.replace(/"version": 2,/, '"version": 1,');
+    expect(v1).not.toBe(v2);
+    expect(parseCurveSetJson(v1)).toEqual(parseCurveSetJson(v2));
+    expect(parseCurveSetJson(v1).version).toBe(CURVESET_VERSION);
   });
 
   it('names the first invalid field', () => {

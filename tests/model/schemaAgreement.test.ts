@@ -7,7 +7,7 @@ import { describe, expect, it } from 'vitest';
 import { readFileSync } from 'node:fs';
 import Ajv2020 from 'ajv/dist/2020.js';
 import { curveSetJsonSchema } from '../../src/model/jsonSchema.ts';
-import { ASCENDING_KEYWORD } from '../../src/model/curveset.ts';
+import { ASCENDING_KEYWORD, CURVESET_VERSION } from '../../src/model/curveset.ts';
 import { toCurveSet } from '../../src/model/curvesetIO.ts';
 import { seededRandom } from '../../src/demo/random.ts';
 
@@ -109,7 +109,7 @@ const MUTATIONS: Array<(doc: Json, rand: () => number) => Json | undefined> = [
   (doc, rand) => {
     const choice = Math.floor(rand() * 6);
     if (choice === 0) return setAt(doc, ['format'], 'pumpscribe.curves');
-    if (choice === 1) return setAt(doc, ['version'], 2);
+    if (choice === 1) return setAt(doc, ['version'], CURVESET_VERSION + 1);
     if (choice === 2) return setAt(doc, ['members'], []);
     if (choice === 3) return setAt(doc, ['pump', 'stages'], rand() < 0.5 ? 0 : 1.5);
     if (choice === 4) return setAt(doc, ['members', 0, 'curves', 'head', 'fit', 'degree'], rand() < 0.5 ? -1 : 2.5);

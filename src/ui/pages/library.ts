@@ -6,7 +6,8 @@
  * Routes: #/library?q=…&flow=…&head=…&units=si · #/library/<id>[?revision=n] · #/compare?ids=a,b&flow=…&head=…&static=…&units=si
  */
 import { h, svg } from '../dom/h.ts';
-import { CurveSet } from '../../model/curveset.ts';
+import type { CurveSet } from '../../model/curveset.ts';
+import { toCurveSet } from '../../model/curvesetIO.ts';
 import { meetDuty } from '../../duty/meetDuty.ts';
 import { PRELIMINARY } from '../../duty/cautions.ts';
 import { evaluateUnchecked, linspace } from '../../fit/polynomial.ts';
@@ -143,7 +144,7 @@ async function showEntry(root: HTMLElement, id: string, p: URLSearchParams): Pro
   root.replaceChildren(frame(id, h('p', { class: 'hint' }, 'Loading…')));
   try {
     const [set, revisions] = await Promise.all([
-      getJson<unknown>(revision ? `api/curvesets/${encodeURIComponent(id)}/revisions/${encodeURIComponent(revision)}` : `api/curvesets/${encodeURIComponent(id)}`).then((raw) => CurveSet.parse(raw)),
+      getJson<unknown>(revision ? `api/curvesets/${encodeURIComponent(id)}/revisions/${encodeURIComponent(revision)}` : `api/curvesets/${encodeURIComponent(id)}`).then((raw) => toCurveSet(raw, 'The stored curve set')),
       getJson<{ revisions: { revision: number; saved_at: string; bytes: number }[] }>(`api/curvesets/${encodeURIComponent(id)}/revisions`),
     ]);
     const latest = Math.max(...revisions.revisions.map((r) => r.revision));
@@ -186,7 +187,7 @@ async function showCompare(root: HTMLElement, p: URLSearchParams): Promise<void>
   const hasDuty = flow !== undefined && head !== undefined;
   root.replaceChildren(frame('Compare', h('p', { class: 'hint' }, 'Loading…')));
   try {
-    const sets = await Promise.all(ids.map((id) => getJson<unknown>(`api/curvesets/${encodeURIComponent(id)}`).then((raw) => ({ id, set: CurveSet.parse(raw) }))));
+    const sets = await Promise.all(ids.map((id) => getJson<unknown>(`api/curvesets/${encodeURIComponent(id)}`).then((raw) => ({ id, set: toCurveSet(raw, `The stored curve set ${id}`) }))));
     const duty = hasDuty ? { flow_m3s: toSI(flow, u.flow), head_m: toSI(head, u.head) } : null;
     const problem = problems.length ? h('p', { class: 'cal bad', role: 'alert' }, problems.join(' ')) : null;
     const rows = sets.map(({ id, set }) => ({ id, set, match: duty ? meetDuty(set, duty) : null }));
