@@ -287,8 +287,11 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
   if (members.size === 0) throw new TakeoffError('The take-off has no trace with a diameter; give each head, power, NPSHr or efficiency trace its impeller diameter.');
 
   const readingAccuracy: Partial<Record<Quantity, number>> = {};
+  const exactQuantities: Quantity[] = [];
   for (const [quantity, ways] of how) {
-    if ([...ways].every((w) => w === 'vector' || w === 'iso')) readingAccuracy[quantity] = drawingPrecision(quantity, members.values());
+    if (![...ways].every((w) => w === 'vector' || w === 'iso')) continue;
+    readingAccuracy[quantity] = drawingPrecision(quantity, members.values());
+    exactQuantities.push(quantity);
   }
 
   // Members largest first; buildCurveSet keeps them one for one and in this order.
@@ -316,6 +319,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
     },
     members: ordered.map(([, m]) => m),
     readingAccuracy,
+    exactQuantities,
   });
   const limits = minFlowLimit(takeoff.min_flow !== undefined ? toSI(takeoff.min_flow, units.flow) : undefined, minFlowLine);
   const curveSet = CurveSet.parse({ ...built, ...(limits ? { limits } : {}), findings: sortFindings([...built.findings, ...findings]) });
