@@ -267,6 +267,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
       describe: describeTrace(trace),
       quantity: trace.quantity,
       diameter: trace.diameter,
+      speed: trace.speed,
       iso: trace.iso,
       how: o.how,
       flows: o.points.map((p) => toSI(cal.toData(p)[0], u.flow)),
