@@ -3,7 +3,7 @@
  * pieces of the same style whose ends coincide within a small tolerance are chained, and where
  * more than two ends meet (a grid crossing, say) the straightest continuation is taken first.
  */
-import type { SheetPoint } from './points.ts';
+import { sheetPoint, type SheetPoint } from './points.ts';
 
 export interface Piece {
   readonly points: readonly SheetPoint[];
@@ -12,6 +12,11 @@ export interface Piece {
   readonly style: string;
   readonly stroke: string | null;
   readonly lineWidth: number;
+  /**
+   * The outline a filled piece was read from. For a dot (a one-point piece standing for a sliver
+   * of a dash) a line it ends runs to the sliver's far edge, not to its middle.
+   */
+  readonly extent?: readonly SheetPoint[];
 }
 
 export interface StrokeLine {
@@ -128,27 +133,31 @@ function joinGroup(group: readonly Piece[], tolerance: number, bridge: number): 
   }
 
   const visited = new Uint8Array(open.length);
-  const walk = (startEnd: number): { parts: SheetPoint[][]; closed: boolean; count: number } => {
+  const walk = (startEnd: number): { parts: SheetPoint[][]; pieces: Piece[]; closed: boolean; count: number } => {
     const parts: SheetPoint[][] = [];
+    const pieces: Piece[] = [];
     let enter = startEnd;
     let count = 0;
     for (;;) {
       const e = ends[enter] as End;
-      if (visited[e.piece]) return { parts, closed: true, count };
+      if (visited[e.piece]) return { parts, pieces, closed: true, count };
       visited[e.piece] = 1;
       count++;
-      const pts = (open[e.piece] as Piece).points;
-      parts.push(e.side === 0 ? [...pts] : [...pts].reverse());
+      const piece = open[e.piece] as Piece;
+      parts.push(e.side === 0 ? [...piece.points] : [...piece.points].reverse());
+      pieces.push(piece);
       const exit = e.piece * 2 + (1 - e.side);
       const next = partner[exit] as number;
-      if (next === -1) return { parts, closed: false, count };
+      if (next === -1) return { parts, pieces, closed: false, count };
       enter = next;
     }
   };
   // Chains with a free end first, then the remaining cycles; a dot left alone is no line.
   ends.forEach((e, i) => {
     if (!visited[e.piece] && partner[i] === -1) {
-      const { parts, count } = walk(i);
+      const { parts, pieces, count } = walk(i);
+      endAtFarEdge(parts, pieces, 'first');
+      endAtFarEdge(parts, pieces, 'last');
       const line = makeLine(parts, false, open[e.piece] as Piece, count);
       if (line.points.length >= 2) lines.push(line);
     }
@@ -160,6 +169,26 @@ function joinGroup(group: readonly Piece[], tolerance: number, bridge: number): 
     }
   });
   return lines;
+}
+
+/**
+ * A dot that ends a chain stands for the last sliver of a dash, and the line's own end is the
+ * sliver's far edge, half a sliver beyond its middle (up to 0.75 line widths): the end is moved
+ * along the way the line arrives at it to the farthest point of the sliver.
+ */
+function endAtFarEdge(parts: SheetPoint[][], pieces: readonly Piece[], which: 'first' | 'last'): void {
+  if (parts.length < 2) return;
+  const k = which === 'last' ? parts.length - 1 : 0;
+  const extent = (pieces[k] as Piece).extent;
+  const dot = (parts[k] as SheetPoint[])[0];
+  if (!extent || extent.length === 0 || (parts[k] as SheetPoint[]).length !== 1 || !dot) return;
+  // The way the line arrives at the dot: out of the neighbouring part at the end facing it.
+  const neighbour = parts[which === 'last' ? k - 1 : 1] as SheetPoint[];
+  const [dx, dy] = outward(neighbour, which === 'last' ? 1 : 0);
+  if (dx === 0 && dy === 0) return;
+  let far = 0;
+  for (const p of extent) far = Math.max(far, (p[0] - dot[0]) * dx + (p[1] - dot[1]) * dy);
+  parts[k] = [sheetPoint(dot[0] + far * dx, dot[1] + far * dy)];
 }
 
 /** Direction out of the piece at one end, taken over about 2 sheet units so that tiny last segments do not mislead. */

@@ -273,6 +273,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
       describe: describeTrace(trace),
       quantity: trace.quantity,
       diameter: trace.diameter,
+      speed: trace.speed,
       iso: trace.iso,
       how: o.how,
       flows: o.points.map((p) => toSI(cal.toData(p)[0], u.flow)),
@@ -293,8 +294,11 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
   if (members.size === 0) throw new TakeoffError('The take-off has no trace with a diameter; give each head, power, NPSHr or efficiency trace its impeller diameter.');
 
   const readingAccuracy: Partial<Record<Quantity, number>> = {};
+  const exactQuantities: Quantity[] = [];
   for (const [quantity, ways] of how) {
-    if ([...ways].every((w) => w === 'vector' || w === 'iso')) readingAccuracy[quantity] = drawingPrecision(quantity, members.values());
+    if (![...ways].every((w) => w === 'vector' || w === 'iso')) continue;
+    readingAccuracy[quantity] = drawingPrecision(quantity, members.values());
+    exactQuantities.push(quantity);
   }
 
   // Members largest first; buildCurveSet keeps them one for one and in this order.
@@ -322,6 +326,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
     },
     members: ordered.map(([, m]) => m),
     readingAccuracy,
+    exactQuantities,
   });
   const limits = minFlowLimit(takeoff.min_flow !== undefined ? toSI(takeoff.min_flow, units.flow) : undefined, minFlowLine);
   // buildCurveSet validated the set; only what is added here is validated again (in schema order: limits, then findings).

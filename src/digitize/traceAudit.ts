@@ -15,6 +15,8 @@ export interface AuditedTrace {
   describe: string;
   quantity: Quantity;
   diameter?: number | undefined;
+  /** Speed in rpm, for a trace of a speed family (one impeller drawn at several speeds) instead of a diameter. */
+  speed?: number | undefined;
   iso?: number | undefined;
   /** How it was captured; only raster traces (followed lines) are held to coverage. */
   how: string;
@@ -76,6 +78,13 @@ export const LEVEL_PERCENT = 0.1;
 export const LEVEL_SHARE = 0.2;
 
 const range = (t: AuditedTrace): [number, number] => [Math.min(...t.flows), Math.max(...t.flows)];
+
+/** The family member a curve trace is drawn for: its diameter, or its speed on a speed family. */
+function memberOf(t: AuditedTrace): { kind: 'diameter' | 'speed'; value: number } | undefined {
+  if (t.diameter !== undefined) return { kind: 'diameter', value: t.diameter };
+  if (t.speed !== undefined) return { kind: 'speed', value: t.speed };
+  return undefined;
+}
 
 export function auditTraces(traces: readonly AuditedTrace[], flowText: (q: number) => string): AuditFinding[] {
   const out: AuditFinding[] = [];
@@ -183,6 +192,10 @@ export function auditTraces(traces: readonly AuditedTrace[], flowText: (q: numbe
   }
 
   out.push(...auditNeighbours(curves, flowText));
+  // A speed family's curves are held to the same rule: Q ∝ n, H ∝ n², P ∝ n³ order them as
+  // Q ∝ D, H ∝ D², P ∝ D³ order a diameter family's, and its efficiency and NPSHr curves may
+  // bunch and part the same way (one family per sheet, so the two kinds never meet here).
+  out.push(...auditNeighbours(traces.filter((t) => t.iso === undefined && t.diameter === undefined && t.speed !== undefined && t.flows.length >= 2), flowText));
   out.push(...auditPeaks(curves));
 
   // A diameter with a head trace but without a quantity that other diameters have.
@@ -402,10 +415,11 @@ export const BUNCH_AXIS_SHARE = 0.2;
 function auditNeighbours(curves: readonly AuditedTrace[], flowText: (q: number) => string): AuditFinding[] {
   const out: AuditFinding[] = [];
   const said = new Set<string>();
-  const usable = curves.filter((t) => t.iso === undefined && t.how === 'raster' && t.values && t.valueSpan && t.values.length === t.flows.length && t.axisFlow);
+  const usable = curves.filter((t) => t.iso === undefined && memberOf(t) !== undefined && t.how === 'raster' && t.values && t.valueSpan && t.values.length === t.flows.length && t.axisFlow);
   for (const a of usable) {
     for (const b of usable) {
-      if (a === b || a.quantity !== b.quantity || a.panel !== b.panel || !((a.diameter as number) > (b.diameter as number))) continue;
+      const [ka, kb] = [memberOf(a), memberOf(b)];
+      if (a === b || a.quantity !== b.quantity || a.panel !== b.panel || !ka || !kb || ka.kind !== kb.kind || !(ka.value > kb.value)) continue;
       const span = a.valueSpan as number;
       const axis = Math.abs((a.axisFlow as readonly [number, number])[1] - (a.axisFlow as readonly [number, number])[0]);
       const [a0, a1] = range(a);
@@ -443,9 +457,13 @@ function auditNeighbours(curves: readonly AuditedTrace[], flowText: (q: number) 
           severity: 'fail',
           trace: t.id,
           message: ordered
-            ? `Trace ${t.id} (${t.describe}) and trace ${other.id} (${other.describe}) ${what} over ${Math.round(100 * (what === 'lie on one line' ? together : swapped) * share)} % of the flow axis${what === 'swap places' ? ` (near ${flowText(where)})` : ''}, where a larger impeller's ${t.quantity} lies above a smaller one's everywhere; one of them followed the other's line. Add guides on each line where it stands alone, near both of its ends.`
+            ? `Trace ${t.id} (${t.describe}) and trace ${other.id} (${other.describe}) ${what} over ${Math.round(100 * (what === 'lie on one line' ? together : swapped) * share)} % of the flow axis${what === 'swap places' ? ` (near ${flowText(where)})` : ''}, where ${ka.kind === 'speed' ? `a faster speed's ${t.quantity} lies above a slower one's` : `a larger impeller's ${t.quantity} lies above a smaller one's`} everywhere; one of them followed the other's line. Add guides on each line where it stands alone, near both of its ends.`
             : `Trace ${t.id} (${t.describe}) and trace ${other.id} (${other.describe}) lie on one line over ${Math.round(100 * together * share)} % of the flow axis, far past where curves of a family run together; one of them followed the other's line. Add guides on each line where it stands alone, near both of its ends.`,
-          figures: { share_of_axis: (what === 'lie on one line' ? together : swapped) * share },
+          figures: {
+            share_of_axis: (what === 'lie on one line' ? together : swapped) * share,
+            // A speed family's traces are named by their speeds (the describe text says them too).
+            ...(ka.kind === 'speed' ? { speed_rpm: (t === a ? ka : kb).value, other_speed_rpm: (t === a ? kb : ka).value } : {}),
+          },
         });
       }
     }

@@ -105,7 +105,7 @@ function dotsOfSlivers(pieces: Piece[]): Piece[] {
     if (length > DOT_LENGTH_IN_WIDTHS * usual) return p;
     const xs = p.points.map((q) => q[0]);
     const ys = p.points.map((q) => q[1]);
-    return { ...p, points: [sheetPoint((Math.min(...xs) + Math.max(...xs)) / 2, (Math.min(...ys) + Math.max(...ys)) / 2)] };
+    return { ...p, points: [sheetPoint((Math.min(...xs) + Math.max(...xs)) / 2, (Math.min(...ys) + Math.max(...ys)) / 2)], extent: p.extent ?? p.points };
   });
 }
 
@@ -118,7 +118,9 @@ function outlinePieces(path: VectorPath, flatness: number): Piece[] {
     const centre = centrelineOf(ring.points) ?? dotOf(ring.points);
     if (!centre) continue;
     const parts = path.clip ? clipPolyline(centre.points, path.clip) : [centre.points];
-    for (const points of parts) out.push({ points, closed: false, style, stroke: path.fill, lineWidth: centre.width });
+    // The outline is kept: should the piece turn out a dot (here or in dotsOfSlivers), a line it
+    // ends runs to the outline's far edge (strokeJoin.ts).
+    for (const points of parts) out.push({ points, closed: false, style, stroke: path.fill, lineWidth: centre.width, extent: ring.points });
   }
   return out;
 }
@@ -128,8 +130,9 @@ function outlinePieces(path: VectorPath, flatness: number): Piece[] {
  * line is wide: typically the last dash of a dashed line written as filled dashes, cut short where
  * the line ends, or the dot of a dash-dot line. Its own axis cannot be trusted (a sliver shorter
  * than the line is wide lies across the line), so it is a dot, one point at the middle of its
- * box, which only ends or bridges a line that has a direction (strokeJoin.ts). Without it a
- * dashed curve stops one dash early (up to 1.7 % of its flow range on the speed sheets).
+ * box, which only ends or bridges a line that has a direction (strokeJoin.ts); a line it ends
+ * runs on to the sliver's far edge. Without it a dashed curve stops one dash early (up to 1.7 %
+ * of its flow range on the speed sheets).
  */
 function dotOf(outline: readonly SheetPoint[], maxWidth = MAX_OUTLINE_WIDTH): { points: SheetPoint[]; width: number } | null {
   if (outline.length < 3) return null;

@@ -54,6 +54,12 @@ export interface BuildInput {
    * what a careful reading of a printed sheet achieves (common practice).
    */
   readingAccuracy?: Partial<Record<Quantity, number>>;
+  /**
+   * Quantities whose points lie exactly on the drawn line (vector paths and their exact
+   * crossings): their reading accuracy is the drawing's precision and bounds every point's
+   * residual, not only the RMS (chooseDegree.ts, `exactPoints`).
+   */
+  exactQuantities?: readonly Quantity[];
 }
 
 const QUANTITY_ORDER: Quantity[] = ['head', 'efficiency', 'power', 'npshr'];
@@ -89,7 +95,7 @@ export function buildCurveSet(input: BuildInput): CurveSet {
       const drawnAs = m.drawnAs?.[quantity];
       const curve: Curve = drawnAs ? { points, drawn_as: drawnAs } : { points };
       try {
-        const choice = chooseDegree(points, quantity, { tolerance: accuracy[quantity] });
+        const choice = chooseDegree(points, quantity, { tolerance: accuracy[quantity], exactPoints: input.exactQuantities?.includes(quantity) ?? false });
         curve.fit = choice.fit;
         const refused = choice.withinTolerance ? undefined : choice.candidates.find((c) => c.degree > choice.fit.degree && c.fit && c.withinTolerance && c.problems.length > 0);
         const refusedForShape = refused?.fit ? { degree: refused.degree, rms: refused.fit.rms, problems: refused.problems } : undefined;

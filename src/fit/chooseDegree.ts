@@ -17,6 +17,13 @@
  * F-test at the 95 % level (significance.ts) or lowers the RMS by less than 10 %. If every
  * added degree still helps, the shape-valid degree with the lowest RMS is taken.
  *
+ * Points that lie exactly on a drawn line (`exactPoints`: vector paths and their exact
+ * crossings) carry no reading noise: what a fit leaves is its own misfit, and a polynomial
+ * short of the curve's shape leaves it where the curve ends (a power curve, Q·H/η, is no
+ * polynomial: degree 5 left 59 W at the end of an 83 kW curve whose RMS was 13 W). For them
+ * the tolerance bounds every point's residual, not only the RMS, and the F-test rules, whose
+ * premise is noise, do not hold a lower degree.
+ *
  * Efficiency is fitted through the origin (no efficiency at zero flow).
  */
 import { PolynomialFit, type CurvePoint, type Quantity } from '../model/curveset.ts';
@@ -40,6 +47,11 @@ export interface FitCurveOptions {
   tolerance: number;
   /** Highest degree to try (default and ceiling 6). */
   maxDegree?: number;
+  /**
+   * The points lie exactly on the drawn line (read from vector paths or their exact crossings),
+   * so `tolerance` is the drawing's precision and bounds the largest residual, not only the RMS.
+   */
+  exactPoints?: boolean;
 }
 
 export interface DegreeCandidate {
@@ -117,6 +129,8 @@ export function chooseDegree(points: readonly CurvePoint[], quantity: Quantity, 
 
   const fmt = (v: number) => formatQuantity(quantity, v);
   const context = { points, tolerance, formatValue: fmt, formatFlow };
+  const exact = options.exactPoints === true;
+  const measure = exactMeasure(exact);
   const candidates: DegreeCandidate[] = [];
   for (let degree = lowest; degree <= highest; degree++) {
     let fit: PolynomialFitResult | undefined;
@@ -130,7 +144,7 @@ export function chooseDegree(points: readonly CurvePoint[], quantity: Quantity, 
       }
       throw error;
     }
-    candidates.push({ degree, fit, withinTolerance: fit.rms <= tolerance, problems: shapeProblems(fit, quantity, context) });
+    candidates.push({ degree, fit, withinTolerance: measure.of(fit) <= tolerance, problems: shapeProblems(fit, quantity, context) });
   }
 
   const usable = (c: DegreeCandidate): c is DegreeCandidate & { fit: PolynomialFitResult } => c.fit !== undefined && c.problems.length === 0;
@@ -140,7 +154,7 @@ export function chooseDegree(points: readonly CurvePoint[], quantity: Quantity, 
   // ends of the range would then exceed the reading accuracy even though the RMS does not.
   const good = valid.find((c) => c.withinTolerance && misfitRemovedByNext(c, candidates, tolerance) === undefined);
   if (good) {
-    const simpler = statisticallyEquivalentLower(good, valid, tolerance);
+    const simpler = exact ? undefined : statisticallyEquivalentLower(good, valid, tolerance);
     if (simpler) {
       const test = nestedFTest(simpler.fit.ssr, good.fit.ssr, good.fit.parameters - simpler.fit.parameters, good.fit.points - good.fit.parameters);
       return finish(
@@ -150,7 +164,7 @@ export function chooseDegree(points: readonly CurvePoint[], quantity: Quantity, 
         `degree ${simpler.degree}: RMS ${fmt(simpler.fit.rms)}, just above the ${fmt(tolerance)} reading accuracy, but degree ${good.degree} (RMS ${fmt(good.fit.rms)}) is not significantly better (partial F-test p = ${formatFixed(test.pValue, 2)}), so the extra terms would only follow the reading noise.`,
       );
     }
-    return finish(good, candidates, true, reasonWithin(good, candidates, tolerance, fmt));
+    return finish(good, candidates, true, reasonWithin(good, candidates, tolerance, fmt, measure));
   }
   if (valid.length === 0) {
     const worst = candidates.map((c) => `degree ${c.degree}: ${listed(c.problems)}`).join('; ');
@@ -162,7 +176,7 @@ export function chooseDegree(points: readonly CurvePoint[], quantity: Quantity, 
     const next = candidates.find((n) => n.degree === c.degree + 1);
     if (!next?.fit) {
       const why = next ? `degree ${next.degree} could not be solved` : ceilingWhy;
-      return finish(c, candidates, false, `${noneWithin(candidates, tolerance, fmt)}; degree ${c.degree} chosen because ${why} (RMS ${fmt(c.fit.rms)}).`);
+      return finish(c, candidates, false, `${noneWithin(candidates, tolerance, fmt, measure)}; degree ${c.degree} chosen because ${why} (RMS ${fmt(c.fit.rms)}).`);
     }
     const test = nestedFTest(c.fit.ssr, next.fit.ssr, next.fit.parameters - c.fit.parameters, next.fit.points - next.fit.parameters);
     // Nested fits never raise the RMS; the clamp only hides rounding.
@@ -173,7 +187,7 @@ export function chooseDegree(points: readonly CurvePoint[], quantity: Quantity, 
         c,
         candidates,
         false,
-        `${noneWithin(candidates, tolerance, fmt)}; degree ${c.degree} chosen because degree ${next.degree} lowered the RMS only from ${fmt(c.fit.rms)} to ${fmt(next.fit.rms)} (${Math.round(drop * 100)} %, ${verdict}).`,
+        `${noneWithin(candidates, tolerance, fmt, measure)}; degree ${c.degree} chosen because degree ${next.degree} lowered the RMS only from ${fmt(c.fit.rms)} to ${fmt(next.fit.rms)} (${Math.round(drop * 100)} %, ${verdict}).`,
       );
     }
   }
@@ -184,7 +198,7 @@ export function chooseDegree(points: readonly CurvePoint[], quantity: Quantity, 
     best,
     candidates,
     false,
-    `${noneWithin(candidates, tolerance, fmt)}; degree ${best.degree} chosen because it has the lowest RMS (${fmt(best.fit.rms)}) among degrees without spurious wiggles${note}.`,
+    `${noneWithin(candidates, tolerance, fmt, measure)}; degree ${best.degree} chosen because it has the lowest RMS (${fmt(best.fit.rms)}) among degrees without spurious wiggles${note}.`,
   );
 }
 
@@ -240,29 +254,44 @@ function finish(chosen: DegreeCandidate & { fit: PolynomialFitResult }, candidat
   return { fit, candidates, withinTolerance };
 }
 
-function reasonWithin(chosen: DegreeCandidate & { fit: PolynomialFitResult }, candidates: DegreeCandidate[], tolerance: number, fmt: (v: number) => string): string {
-  const parts = [`degree ${chosen.degree}: RMS ${fmt(chosen.fit.rms)} within the ${fmt(tolerance)} reading accuracy`];
+/** What the tolerance bounds: the RMS of read points, or the largest residual of exact ones; and its words. */
+interface Measure {
+  of(fit: Pick<PolynomialFitResult, 'rms' | 'max_residual'>): number;
+  /** "RMS", "largest residual". */
+  name: string;
+  /** "reading accuracy", "drawing precision". */
+  accuracy: string;
+}
+
+function exactMeasure(exact: boolean): Measure {
+  return exact
+    ? { of: (f) => f.max_residual, name: 'largest residual', accuracy: 'drawing precision' }
+    : { of: (f) => f.rms, name: 'RMS', accuracy: 'reading accuracy' };
+}
+
+function reasonWithin(chosen: DegreeCandidate & { fit: PolynomialFitResult }, candidates: DegreeCandidate[], tolerance: number, fmt: (v: number) => string, measure: Measure): string {
+  const parts = [`degree ${chosen.degree}: ${measure.name} ${fmt(measure.of(chosen.fit))} within the ${fmt(tolerance)} ${measure.accuracy}`];
   for (const c of candidates.filter((c) => c.degree < chosen.degree).reverse()) {
     if (!c.fit) parts.push(`degree ${c.degree} could not be solved`);
-    else if (!c.withinTolerance && c.degree === chosen.degree - 1) parts.push(`degree ${c.degree} left ${fmt(c.fit.rms)}`);
-    else if (c.withinTolerance && c.problems.length > 0) parts.push(`degree ${c.degree} (RMS ${fmt(c.fit.rms)}) had ${listed(c.problems)}`);
+    else if (!c.withinTolerance && c.degree === chosen.degree - 1) parts.push(`degree ${c.degree} left ${measure.name === 'RMS' ? '' : `a ${measure.name} of `}${fmt(measure.of(c.fit))}`);
+    else if (c.withinTolerance && c.problems.length > 0) parts.push(`degree ${c.degree} (${measure.name} ${fmt(measure.of(c.fit))}) had ${listed(c.problems)}`);
     else if (c.withinTolerance) {
       const change = misfitRemovedByNext({ ...c, fit: c.fit }, candidates, tolerance) ?? NaN;
-      parts.push(`degree ${c.degree} (RMS ${fmt(c.fit.rms)}) left a systematic misfit: degree ${c.degree + 1} improved it significantly and moved the curve by up to ${fmt(change)}`);
+      parts.push(`degree ${c.degree} (${measure.name} ${fmt(measure.of(c.fit))}) left a systematic misfit: degree ${c.degree + 1} improved it significantly and moved the curve by up to ${fmt(change)}`);
     }
   }
   return `${parts.join('; ')}.`;
 }
 
-function noneWithin(candidates: DegreeCandidate[], tolerance: number, fmt: (v: number) => string): string {
+function noneWithin(candidates: DegreeCandidate[], tolerance: number, fmt: (v: number) => string, measure: Measure): string {
   const fitted = candidates.filter((c): c is DegreeCandidate & { fit: PolynomialFitResult } => c.fit !== undefined);
   const withinButImplausible = fitted.filter((c) => c.withinTolerance);
   if (withinButImplausible.length > 0) {
-    const detail = withinButImplausible.map((c) => `degree ${c.degree} reached RMS ${fmt(c.fit.rms)} but had ${listed(c.problems)}`).join('; ');
-    return `no degree within the ${fmt(tolerance)} reading accuracy has a plausible shape (${detail})`;
+    const detail = withinButImplausible.map((c) => `degree ${c.degree} reached ${measure.name} ${fmt(measure.of(c.fit))} but had ${listed(c.problems)}`).join('; ');
+    return `no degree within the ${fmt(tolerance)} ${measure.accuracy} has a plausible shape (${detail})`;
   }
-  const best = fitted.reduce((m, c) => (c.fit.rms < m.fit.rms ? c : m));
-  return `no degree within the ${fmt(tolerance)} reading accuracy (best RMS ${fmt(best.fit.rms)} at degree ${best.degree})`;
+  const best = fitted.reduce((m, c) => (measure.of(c.fit) < measure.of(m.fit) ? c : m));
+  return `no degree within the ${fmt(tolerance)} ${measure.accuracy} (best ${measure.name} ${fmt(measure.of(best.fit))} at degree ${best.degree})`;
 }
 
 function validate(points: readonly CurvePoint[], name: string, quantity: Quantity, options: FitCurveOptions): void {

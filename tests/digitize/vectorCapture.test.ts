@@ -131,10 +131,16 @@ describe('capturing a drawn line from guides', () => {
     const dashes = [0, 6.5, 13, 19.5, 26].map((s) => dash(s, s + 4.5));
     const lines = strokeLines([...dashes, dash(32.5, 32.92)]);
     const got = captureVector(lines, [P(10 * ux, 10 * uy)]);
-    // Ends at the middle of the last sliver (32.71 along the line), not at the last whole dash (30.5).
+    // Ends at the far edge of the last sliver (32.92 along the line, the drawn line's own end),
+    // not at the last whole dash (30.5), nor at the sliver's middle (32.71).
     const end = got.points.at(-1)!;
-    expect(Math.hypot(end[0] - 32.71 * ux, end[1] - 32.71 * uy)).toBeLessThan(0.05);
+    expect(Math.hypot(end[0] - 32.92 * ux, end[1] - 32.92 * uy)).toBeLessThan(0.01);
     expect(got.pieces).toBe(6);
+    // A sliver that starts the line is its start, at the sliver's far edge (−6.92 along the line).
+    const both = captureVector(strokeLines([dash(-6.92, -6.5), ...dashes, dash(32.5, 32.92)]), [P(10 * ux, 10 * uy)]);
+    const ends = [both.points[0]!, both.points.at(-1)!].sort((a, b) => a[0] - b[0]);
+    expect(Math.hypot(ends[0]![0] + 6.92 * ux, ends[0]![1] + 6.92 * uy)).toBeLessThan(0.01);
+    expect(Math.hypot(ends[1]![0] - 32.92 * ux, ends[1]![1] - 32.92 * uy)).toBeLessThan(0.01);
     // The sliver alone makes no line of one point.
     expect(strokeLines([dash(32.5, 32.92)])).toEqual([]);
   });

@@ -221,3 +221,38 @@ describe('noise about the size of the reading accuracy', () => {
     expect(reasons).toMatch(/degree 2/);
   });
 });
+
+describe('points that lie exactly on a drawn line (exactPoints)', () => {
+  // An invented power curve P = ρ·g·Q·H/η drawn exactly (no reading noise): with H and η
+  // polynomials, Q/η is rational, so no polynomial holds it exactly and a low degree leaves its
+  // misfit where the curve ends. 150 points to 0.05 m³/s, largest about 22 kW.
+  // η = 0.84·x(2 − x) with x = Q/Q_best and Q_best = Q_MAX/1.4, so Q/η stays finite at Q = 0.
+  const power = (t: number) => {
+    const x = 1.4 * t;
+    const head = 52 - 20 * t * t;
+    return (998 * 9.80665 * (Q_MAX / 1.4) * head) / (0.84 * (2 - x));
+  };
+  const drawn = invented(power, 0, {}, linspace(0, Q_MAX, 150));
+  const largest = Math.max(...drawn.map((p) => p[1]));
+  // The drawing's precision, 0.05 % of the largest value (src/digitize/takeoff.ts drawingPrecision).
+  const precision = 0.0005 * largest;
+
+  it('bounds the largest residual, not only the RMS, so the curve holds to its end', () => {
+    const byRms = chooseDegree(drawn, 'power', { tolerance: precision });
+    const exact = chooseDegree(drawn, 'power', { tolerance: precision, exactPoints: true });
+    // The RMS rule takes a degree whose RMS is within the precision while a point misses by more.
+    expect(byRms.fit.rms).toBeLessThanOrEqual(precision);
+    expect(byRms.fit.max_residual).toBeGreaterThan(precision);
+    expect(exact.withinTolerance).toBe(true);
+    expect(exact.fit.degree).toBeGreaterThan(byRms.fit.degree);
+    expect(exact.fit.max_residual).toBeLessThanOrEqual(precision);
+    expect(worstDeviation(exact.fit, power)).toBeLessThanOrEqual(precision);
+    expect(exact.fit.reason).toMatch(new RegExp(`^degree ${exact.fit.degree}: largest residual .* within the .* drawing precision; degree ${exact.fit.degree - 1} left a largest residual of `));
+  });
+
+  it('changes nothing for a curve a polynomial draws exactly', () => {
+    const head = invented(quadraticHead, 0, {}, linspace(0, Q_MAX, 150));
+    const fit = fitCurve(head, 'head', { tolerance: 0.0005 * 52, exactPoints: true });
+    expect(fit.degree).toBe(2);
+  });
+});

@@ -98,14 +98,17 @@ describe.skipIf(!hasChromium)('an invented four-speed family drawn by the indepe
     expect(scan.plan.dpi).toBeLessThanOrEqual(300);
   });
 
-  it('vector sheet: every curve within 0.1 % of span, efficiency from the iso-lines within 0.02 points, minimum-flow line kept', () => {
+  it('vector sheet: every curve within 0.02 % of span, efficiency from the iso-lines within 0.02 points, minimum-flow line kept', () => {
     const scores = scoreReplay(vector.family, vector.truth, vectorSet, speedTruthSource(vector.family));
     expect(scores.filter((s) => s.quantity === 'head')).toHaveLength(4);
     expect(scores.filter((s) => s.quantity === 'efficiency' && s.source === 'iso')).toHaveLength(4);
     // Exact crossings of drawn paths are fitted to the drawing's precision (0.05 % of the largest
     // value), not to a reading by eye: with 0.3 points allowed, a parabola stood 0.15 points off.
-    for (const row of scores) expect(row.error, row.id).toBeLessThan(row.quantity === 'efficiency' ? 0.02 : 0.1);
-    for (const m of vectorSet.members) expect(m.curves.efficiency?.fit?.reason, `${m.speed_rpm} rpm`).toMatch(/within the 0\.0[34]\d % reading accuracy/);
+    // The precision bounds every point's residual, not the RMS alone: by RMS a degree-4 power fit
+    // stood 0.023 % of span off at the end of the 3150 rpm curve (0.02 % is a diameter family's).
+    for (const row of scores) expect(row.error, row.id).toBeLessThan(0.02);
+    for (const m of vectorSet.members) expect(m.curves.efficiency?.fit?.reason, `${m.speed_rpm} rpm`).toMatch(/largest residual .* within the 0\.0[34]\d % drawing precision/);
+    for (const m of vectorSet.members) expect(m.curves.power?.fit?.reason, `${m.speed_rpm} rpm`).toMatch(/largest residual .* within the .* drawing precision/);
     // The curve set keeps how the sheet drew each curve, so checks of drawn ends leave iso-line efficiency alone.
     for (const m of vectorSet.members) expect([m.curves.efficiency?.drawn_as, m.curves.head?.drawn_as, m.curves.power?.drawn_as]).toEqual(['iso-lines', 'curve', 'curve']);
     for (const m of scanSet.members) expect(m.curves.efficiency?.drawn_as).toBe('curve');
