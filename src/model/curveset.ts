@@ -11,8 +11,9 @@ import { UNITS, type QuantityKind } from '../units/units.ts';
 
 export const CURVESET_FORMAT = 'pumpscribe.curveset';
 /**
- * Version 2 added `drawn_as` on curves (how the sheet drew a curve). Its objects are strict, so a
- * reader of version 1 would refuse such a file by an unknown key; the version tells it to update
+ * Version 2 holds `drawn_as` on curves (how the sheet drew a curve) and the top-level `limits`
+ * (minimum flow), both added while the version still said 1. The objects are strict, so an early
+ * reader of version 1 refuses such a file by an unknown key; the version now tells it to update
  * instead. Version 1 files read on (model/curvesetIO.ts, MIGRATIONS).
  */
 export const CURVESET_VERSION = 2;

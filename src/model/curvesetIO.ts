@@ -16,7 +16,7 @@ export class CurveSetFormatError extends UserError {
  * version and returns the next version's JSON.
  */
 export const MIGRATIONS: Record<number, (old: Record<string, unknown>) => Record<string, unknown>> = {
-  // Version 2 only added the optional `drawn_as` of a curve: a version 1 file is a valid version 2 file.
+  // Version 2 only names the optional `drawn_as` of a curve and `limits`: a version 1 file is a valid version 2 file.
   1: (old) => ({ ...old, version: 2 }),
 };
 
