@@ -125,7 +125,8 @@ const handlers: { [K in keyof Requests]: Handler<K> } = {
     if (!scan) progress({ fraction: 0.3, label: `Finding panels and curves: ${paths.length} strokes, ${text.length} words` });
     try {
       // A scan is read by the same detector as in Node, with the browser's character reader; its progress goes to the status line.
-      const found = await detectTakeoff(input, args.document, s.replaySheet, scan
+      // On a scan the picture rendered for detection is the one kept for tracing (replaySheet caches it).
+      const found = await detectTakeoff(input, args.document, scan ? s.replaySheet : s.sheet, scan
         ? { reader: readerAt(args.ocr, progress), progress: (fraction, what) => progress({ fraction: 0.1 + 0.85 * fraction, label: `Finding panels and curves: ${what}` }) }
         : {});
       progress({ fraction: 0.97, label: 'Finding panels and curves: labelling' });
