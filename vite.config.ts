@@ -10,44 +10,33 @@ import { defineConfig, type Plugin } from 'vite';
 import { cpSync, existsSync, mkdirSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 
-function copyPdfFonts(): Plugin {
-  let outDir = 'dist';
-  return {
-    name: 'pumpscribe-copy-pdf-fonts',
-    apply: 'build',
-    configResolved(config) {
-      outDir = config.build.outDir;
-    },
-    closeBundle() {
-      const from = join('node_modules', 'pdfjs-dist', 'standard_fonts');
-      if (existsSync(from)) cpSync(from, join(outDir, 'pdfjs', 'standard_fonts'), { recursive: true });
-    },
-  };
-}
-
-/** What the browser's character reader loads, by path under dist/ocr/ (OCR_FILES in ocrBrowser.ts names the same). */
-const OCR_ASSETS: ReadonlyArray<readonly [string, string]> = [
-  [join('tesseract.js', 'dist', 'worker.min.js'), 'worker.min.js'],
-  // tesseract.js picks the fastest core the browser runs (relaxed SIMD, SIMD, plain) from this folder.
-  ...['tesseract-core-relaxedsimd-lstm.wasm.js', 'tesseract-core-simd-lstm.wasm.js', 'tesseract-core-lstm.wasm.js'].map((f) => [join('tesseract.js-core', f), join('core', f)] as const),
-  [join('@tesseract.js-data', 'eng', '4.0.0_best_int', 'eng.traineddata.gz'), join('eng', 'eng.traineddata.gz')],
+/** Files copied from node_modules next to the build: [from under node_modules, to under the build folder]. */
+const BESIDE_BUILD: ReadonlyArray<readonly [string, string]> = [
+  // pdf.js's standard font data, for unembedded fonts (a folder).
+  [join('pdfjs-dist', 'standard_fonts'), join('pdfjs', 'standard_fonts')],
+  // The browser's character reader of scans, under ocr/ (OCR_FILES in ocrBrowser.ts names the same paths).
+  [join('tesseract.js', 'dist', 'worker.min.js'), join('ocr', 'worker.min.js')],
+  // tesseract.js picks the fastest core the browser runs (relaxed SIMD, SIMD, plain) from ocr/core/.
+  ...['tesseract-core-relaxedsimd-lstm.wasm.js', 'tesseract-core-simd-lstm.wasm.js', 'tesseract-core-lstm.wasm.js'].map((f) => [join('tesseract.js-core', f), join('ocr', 'core', f)] as const),
+  [join('@tesseract.js-data', 'eng', '4.0.0_best_int', 'eng.traineddata.gz'), join('ocr', 'eng', 'eng.traineddata.gz')],
 ];
 
-function copyOcrAssets(): Plugin {
+function copyBesideBuild(): Plugin {
   let outDir = 'dist';
   return {
-    name: 'pumpscribe-copy-ocr-assets',
+    name: 'pumpscribe-copy-beside-build',
     apply: 'build',
     configResolved(config) {
       outDir = config.build.outDir;
     },
     closeBundle() {
-      for (const [from, to] of OCR_ASSETS) {
+      for (const [from, to] of BESIDE_BUILD) {
         const source = join('node_modules', from);
-        // A missing file leaves the reader out; the workbench then says so in one sentence when a scan is read.
+        // A missing file is left out: pdf.js then uses its built-in fonts, and the workbench says in
+        // one sentence that scans are read by hand when the reader's files are missing.
         if (!existsSync(source)) continue;
-        mkdirSync(dirname(join(outDir, 'ocr', to)), { recursive: true });
-        cpSync(source, join(outDir, 'ocr', to));
+        mkdirSync(dirname(join(outDir, to)), { recursive: true });
+        cpSync(source, join(outDir, to), { recursive: true });
       }
     },
   };
@@ -65,5 +54,5 @@ export default defineConfig({
     chunkSizeWarningLimit: 600,
   },
   worker: { format: 'es' },
-  plugins: [copyPdfFonts(), copyOcrAssets()],
+  plugins: [copyBesideBuild()],
 });
