@@ -1,5 +1,5 @@
 /**
- * The automatic take-off in step 2: the "Find panels and curves" button of a vector page, and
+ * The automatic take-off in step 2: the "Find panels and curves" button of a page (vector or scan), and
  * the detector's questions, one at a time, each with the one field that answers it. A part the
  * detector found carries a small "found" tag with its confidence in the lists (`originTag`).
  */

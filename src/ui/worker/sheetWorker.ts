@@ -1,5 +1,6 @@
 /**
- * The sheet worker: opens the sheet, draws pages and regions, and runs the tracers, so
+ * The sheet worker: opens the sheet, draws pages and regions, runs the tracers and the automatic
+ * take-off (on scans with the browser's character reader, src/digitize/loaders/ocrBrowser.ts), so
  * that the page stays responsive while it works. Requests are answered in order.
  */
 /// <reference lib="webworker" />
