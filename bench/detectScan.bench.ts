@@ -4,7 +4,8 @@
  * prints the reader's start (once per process), then for three runs the time of each step as
  * the progress callback reports it, and the whole, against the issue's 3 s.
  * Then the same in a Node worker thread (scripts/detectSheets/detectWorker.ts), the progress
- * printed as the worker posts it. The workbench does not run it in its own worker yet.
+ * printed as the worker posts it. The workbench runs the same detector in its sheet worker with
+ * the browser's reader (src/digitize/loaders/ocrBrowser.ts); tests/e2e/detectScan.test.ts times it there.
  *
  *   npm run bench -- detectScan
  */

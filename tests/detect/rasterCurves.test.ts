@@ -5,7 +5,7 @@
  * against the bed's exact truth at 15–95 % of each curve's flow range.
  */
 import { afterAll, describe, expect, it } from 'vitest';
-import { affinityHolds, chooseNames } from '../../src/digitize/detect/rasterCurves.ts';
+import { affinityHolds, chooseNames, joinUnitWords, misreadInchLabel } from '../../src/digitize/detect/rasterCurves.ts';
 import { alonePlaces, frameLines, trackAt } from '../../src/digitize/detect/rasterLines.ts';
 import type { InkMap } from '../../src/digitize/detect/ink.ts';
 import { detectTakeoff } from '../../src/digitize/detect/detect.ts';
@@ -96,6 +96,47 @@ describe('names of head curves', () => {
     expect(affinityHolds(390, 60, 3460, 60 * (346 / 390) ** 2)).toBe(false);
     expect(affinityHolds(15.5, 100, 12.2, 100 * (12.25 / 15.5) ** 2)).toBe(true); // a near value is not caught by affinity alone
     expect(affinityHolds(15.5, 100, 155, 100 * (12.25 / 15.5) ** 2)).toBe(false);
+  });
+});
+
+describe('a label whose unit stands apart from its number', () => {
+  // Boxes as a 300-dpi scan gives them: digits 26 px high, "mm" in small letters 20 px high, 13 px apart.
+  const box = (l: number, t: number, r: number, b: number) => ({ word: { l, t, r, b } });
+  it('is read as one label: the bare number and the unit word just right of it on its row', () => {
+    const words = [box(980, 490, 1037, 516), box(1050, 496, 1104, 516), box(1181, 665, 1237, 691), box(1250, 671, 1304, 690)];
+    const readings = [{ text: '440', digits: '440' }, { text: 'mm', digits: '' }, { text: '408', digits: '408' }, { text: 'mm', digits: '' }];
+    joinUnitWords(words, readings);
+    expect(readings).toEqual([{ text: '440 mm', digits: '440' }, { text: '', digits: '' }, { text: '408 mm', digits: '408' }, { text: '', digits: '' }]);
+  });
+  it('is left apart when the unit word lies on another row, too far right, to the left, or when the number already has a unit', () => {
+    const words = [box(100, 100, 150, 126), box(160, 140, 200, 160), box(300, 100, 350, 126), box(400, 106, 440, 126), box(500, 100, 550, 126), box(455, 106, 495, 126), box(600, 100, 690, 126), box(700, 106, 740, 126)];
+    const readings = [
+      { text: '440', digits: '440' }, { text: 'mm', digits: '' }, // the unit a row lower
+      { text: '408', digits: '408' }, { text: 'mm', digits: '' }, // 50 px apart: more than a digit height
+      { text: '377', digits: '377' }, { text: 'in', digits: '' }, // the unit word on the left
+      { text: '345 mm', digits: '345' }, { text: 'mm', digits: '' }, // a whole label already
+    ];
+    const before = JSON.parse(JSON.stringify(readings));
+    joinUnitWords(words, readings);
+    expect(readings).toEqual(before);
+  });
+});
+
+describe('an inch label whose mark the reader misread', () => {
+  it('is read in inches when the mark came out as a sign, or as a last 7 after a whole number of sixteenths', () => {
+    expect(misreadInchLabel('14°')).toBe(14);
+    expect(misreadInchLabel('12.25*')).toBe(12.25);
+    expect(misreadInchLabel('13.3757')).toBe(13.375);
+    expect(misreadInchLabel('12.257')).toBe(12.25);
+    expect(misreadInchLabel('10.57')).toBe(10.5);
+  });
+  it('is not guessed otherwise: a number that is already sixteenths, a sign after a value too large for inches, a dot lost, a plain number', () => {
+    expect(misreadInchLabel('12.4375')).toBeNull(); // 12 7/16 read whole: no mark to take off
+    expect(misreadInchLabel('155°')).toBeNull(); // 15.5" with its dot lost: no guess
+    expect(misreadInchLabel('105°')).toBeNull();
+    expect(misreadInchLabel('12.3°')).toBeNull(); // not a sixteenth
+    expect(misreadInchLabel('147')).toBeNull(); // 14" or 147 mm: the reading cannot tell
+    expect(misreadInchLabel('330 mm')).toBeNull();
   });
 });
 

@@ -12,6 +12,7 @@ import { fromTakeoffFile, toTakeoffFile } from '../../src/ui/store/takeoffFile.t
 import { Detection, readLevels } from '../../src/ui/app/detection.ts';
 import type { DetectAnswer } from '../../src/ui/worker/protocol.ts';
 import type { SheetWorkerClient } from '../../src/ui/worker/client.ts';
+import { OcrUnavailableError } from '../../src/digitize/loaders/ocrBrowser.ts';
 import { draftWithPanel } from './fixtures.ts';
 
 const BY = 'pumpscribe detect 1 (vector sheets)';
@@ -112,6 +113,11 @@ describe('the questions of the detector', () => {
   it('are answered by the family labels, or by the iso levels for iso-lines', () => {
     expect(answerKind('The sheet names no impeller diameters for the 4 head curves of panel "head"; give them as "diameters" in the take-off file.')).toBe('labels');
     expect(answerKind('2 iso-lines on panel "head" (starting at 120 m3/h) carry no "%" label; give every level drawn as "iso_levels".')).toBe('iso');
+    // Questions that ask for work by hand take no typed answer.
+    expect(answerKind('Some curves need you: (1) 1 line on the head panel neither starts at the flow axis nor at the bottom (iso-efficiency lines, or a line the finder broke); efficiency from iso-lines is not read on scans yet, so trace them by hand if they matter. (2) A power curve on panel "power" ending at flow 113.3 does not end where exactly one head curve ends (nearest: 345 at 166.2); it is left out: trace it by hand with its diameter.')).toBe('none');
+    expect(answerKind('The frame at [10, 20, 300, 400] could not be calibrated from its tick labels; place its anchors by hand.')).toBe('none');
+    expect(answerKind('The efficiency read from the iso-lines of panel "head" is left out until every iso-line there has its level; answer the questions about them, or trace them by hand.')).toBe('none');
+    expect(answerKind('The head curve ending at [400, 300] has no label and ends at no head curve\'s flow; which diameter is it?')).toBe('labels');
     expect(readLevels('60 70, 75%')).toEqual([60, 70, 75]);
     expect(() => readLevels('60 120')).toThrow(/between 0 and 100/);
     expect(() => readLevels('')).toThrow(/efficiency levels/);
@@ -126,7 +132,7 @@ describe('the questions of the detector', () => {
     ];
     const worker = { call: async (_op: string, args: { document: Record<string, unknown> }) => { sent.push(args.document); return replies.shift(); } } as unknown as SheetWorkerClient;
     const steps: string[] = [];
-    const detection = new Detection({ store, worker, vectorReady: () => true, requestRender: () => undefined, goto: (s) => steps.push(s) });
+    const detection = new Detection({ store, worker, pageReady: () => true, ocrBase: () => 'http://127.0.0.1/ocr/', requestRender: () => undefined, goto: (s) => steps.push(s) });
     await detection.run();
     expect(store.draft.traces).toHaveLength(0);
     expect(detection.question()).toMatchObject({ index: 0, count: 2, kind: 'labels', field: 'Impeller diameters (mm), largest first' });
@@ -160,7 +166,7 @@ describe('the questions of the detector', () => {
     const sent: Record<string, unknown>[] = [];
     const replies = [answer({ questions: ['2 iso-lines on panel "head" carry no "%" label; give every level drawn as "iso_levels".'] }), answer()];
     const worker = { call: async (_op: string, args: { document: Record<string, unknown> }) => { sent.push(args.document); return replies.shift(); } } as unknown as SheetWorkerClient;
-    const detection = new Detection({ store, worker, vectorReady: () => true, requestRender: () => undefined, goto: () => undefined });
+    const detection = new Detection({ store, worker, pageReady: () => true, ocrBase: () => 'http://127.0.0.1/ocr/', requestRender: () => undefined, goto: () => undefined });
     await detection.run();
     expect(detection.question()).toMatchObject({ kind: 'iso', field: expect.stringMatching(/Efficiency levels/) });
     await detection.answer('70 80');
@@ -171,10 +177,25 @@ describe('the questions of the detector', () => {
     expect(store.draft.iso_levels).toBeUndefined();
   });
 
-  it('is refused with a sentence on a page that is not a vector page', async () => {
+  it('is refused with a sentence before the page is read', async () => {
     const store = new Store(empty());
-    const detection = new Detection({ store, worker: {} as SheetWorkerClient, vectorReady: () => false, requestRender: () => undefined, goto: () => undefined });
+    const detection = new Detection({ store, worker: {} as SheetWorkerClient, pageReady: () => false, ocrBase: () => 'http://127.0.0.1/ocr/', requestRender: () => undefined, goto: () => undefined });
     await detection.run();
-    expect(store.session.message).toMatchObject({ tone: 'caution', text: expect.stringMatching(/vector PDF pages/) });
+    expect(store.session.message).toMatchObject({ tone: 'caution', text: expect.stringMatching(/wait until its page is read/) });
+  });
+
+  it('on a scan whose text reader cannot be loaded, says so in the reader sentence and leaves the document as it was', async () => {
+    const store = new Store(empty());
+    const sent: { document: Record<string, unknown>; ocr: string }[] = [];
+    const failing = new OcrUnavailableError('worker.min.js answered 404');
+    const worker = { call: async (_op: string, args: { document: Record<string, unknown>; ocr: string }) => { sent.push(args); throw Object.assign(new Error(failing.message), { name: failing.name }); } } as unknown as SheetWorkerClient;
+    const detection = new Detection({ store, worker, pageReady: () => true, ocrBase: () => 'http://127.0.0.1:8080/ocr/', requestRender: () => undefined, goto: () => undefined });
+    const before = store.draft;
+    await detection.run();
+    expect(sent[0]?.ocr).toBe('http://127.0.0.1:8080/ocr/');
+    expect(store.draft).toBe(before);
+    expect(store.session.message).toMatchObject({ tone: 'caution', text: failing.message });
+    expect(failing.message).toMatch(/^The text reader for scans could not be loaded from this server \(worker\.min\.js answered 404\), .*trace the curves by hand\.$/);
+    expect(detection.running).toBe(false);
   });
 });

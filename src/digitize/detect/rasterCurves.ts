@@ -402,11 +402,13 @@ async function nameHeads(
     asWords.forEach((r, i) => readings.push({ text: r.text, digits: asDigits[i]?.text ?? '' }));
     words.push(...here.map((k) => ({ word: { l: k.word.l + k.at[0], t: k.word.t + k.at[1], r: k.word.r + k.at[0], b: k.word.b + k.at[1] } })));
   }
+  joinUnitWords(words, readings, note);
   const byCurve = new Map<RasterCurve, Set<number>>();
   const units: (string | null)[] = [];
   words.forEach((w, i) => {
     const reading = readings[i] as { text: string; digits: string };
-    const label = labelOf(reading.text);
+    if (reading.text === '' && reading.digits === '') return; // a unit word joined to its number
+    const label = scanLabelOf(reading.text);
     const candidates = labelCandidates(reading.text, reading.digits);
     note(`word at [${w.word.l}, ${w.word.t}, ${w.word.r}, ${w.word.b}] read "${reading.text}" / "${reading.digits}" → ${candidates.join(' or ') || 'no label'}`);
     if (candidates.length === 0) return;
@@ -474,11 +476,82 @@ async function nameHeads(
   return { values, unit, family };
 }
 
+/** A curve's label as read on a scan: as printed, or an inch label whose mark the reader misread. */
+function scanLabelOf(text: string): { value: number; unit: 'mm' | 'in' | 'rpm' | null } | null {
+  const label = labelOf(text);
+  if (label?.unit) return label;
+  const inches = misreadInchLabel(text);
+  return inches === null ? label : { value: inches, unit: 'in' };
+}
+
+/** True when a length in inches is a whole number of sixteenths. */
+const inSixteenths = (v: number) => Math.abs(v * 16 - Math.round(v * 16)) < 1e-6;
+
+/**
+ * An inch label as the reader gives it on a scan when it misreads the small inch mark: as a
+ * degree sign or a star ("14°" for 14"), or as a last 7 after the decimals ("13.3757" for
+ * 13.375", "12.257" for 12.25"). Impeller diameters in inches are printed to a sixteenth at
+ * finest (common practice: trims are cut in sixteenths of an inch), so a last 7 is taken for the
+ * mark only when the number without it is a whole number of sixteenths and the number with it is
+ * not; a mark read as a sign counts for values up to 60 in only. Null for anything else. The
+ * naming still needs every head curve's label, the order and the affinity of heads to agree.
+ */
+export function misreadInchLabel(text: string): number | null {
+  const t = text.replace(/\s+/g, '');
+  const sign = /^(\d{1,2}(?:[.,]\d{1,4})?)[°º*]$/.exec(t);
+  if (sign) {
+    const v = sheetNumber(sign[1] as string);
+    return v > 0 && v <= 60 && inSixteenths(v) ? v : null;
+  }
+  const seven = /^(\d{1,2}[.,]\d{1,3})7$/.exec(t);
+  if (seven) {
+    const v = sheetNumber(seven[1] as string);
+    return v > 0 && inSixteenths(v) && !inSixteenths(sheetNumber(t)) ? v : null;
+  }
+  return null;
+}
+
+/** A unit printed after a curve label's number, read alone: "mm", "in", an inch mark, "rpm". */
+const UNIT_WORD = /^(?:mm|in|"|rpm|r\/min|min-1|1\/min)$/i;
+
+/**
+ * A label whose unit stands a little apart from its number ("440  mm" on a scan: the gap is wider
+ * than the words' grouping joins, and the unit's small letters are lower than the digits) is
+ * read as two words; each bare number is joined here with the unit word just right of it on
+ * its row (bottoms within a third of the digits' height, the gap at most one digit height),
+ * so that the label counts as whole. The unit word's reading is emptied; boxes are level pixels.
+ */
+export function joinUnitWords(words: readonly { word: Blot }[], readings: { text: string; digits: string }[], note: (line: string) => void = () => undefined): void {
+  const taken = new Set<number>();
+  words.forEach((w, i) => {
+    const r = readings[i];
+    if (!r || taken.has(i) || !NUMBER_ONLY.test(r.text.replace(/\s+/g, '').trim())) return;
+    const h = w.word.b - w.word.t;
+    let best = -1;
+    let bestGap = Infinity;
+    words.forEach((u, j) => {
+      const ru = readings[j];
+      if (j === i || taken.has(j) || !ru) return;
+      const unit = ru.text.replace(/[”“″]/g, '"').replace(/\s+/g, '');
+      if (!UNIT_WORD.test(unit)) return;
+      const gap = u.word.l - w.word.r;
+      if (gap < -0.2 * h || gap > h || Math.abs(u.word.b - w.word.b) > h / 3 || u.word.t > w.word.b) return;
+      if (gap < bestGap) [best, bestGap] = [j, gap];
+    });
+    if (best < 0) return;
+    const ru = readings[best] as { text: string; digits: string };
+    note(`  "${r.text}" and "${ru.text}" beside it are read as one label`);
+    readings[i] = { text: `${r.text.trim()} ${ru.text.trim()}`, digits: r.digits };
+    readings[best] = { text: '', digits: '' };
+    taken.add(best);
+  });
+}
+
 /** The value of a label read two ways (as words with its unit, and as digits), or nothing when the two disagree. */
 function labelCandidates(text: string, digits: string): number[] {
   // Only a whole label counts, its unit read too ("330 mm", 13"): a number alone may be a label
   // cut short by the grid, or its inch mark read as a digit. The digits reading must agree.
-  const label = labelOf(text);
+  const label = scanLabelOf(text);
   if (!label || label.unit === null) return [];
   const number = /\d+(?:[.,]\d+)?/.exec(digits.replace(/\s+/g, ''))?.[0];
   if (number === undefined) return [label.value];

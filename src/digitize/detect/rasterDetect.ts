@@ -23,6 +23,13 @@ const PDF_SCAN_SCALE = 300 / 72;
 
 const r2 = (v: number) => Math.round(v * 100) / 100;
 
+/** Nothing could be named on the scan: the sentence, and the questions whose answers let it be read again. */
+export class ScanDetectRefused extends TakeoffError {
+  constructor(message: string, readonly questions: readonly string[]) {
+    super(message);
+  }
+}
+
 export async function detectRasterTakeoff(input: TakeoffToDetect, raw: Record<string, unknown>, sheet: Sheet, reader: TextReader, progress: DetectProgress = () => undefined): Promise<DetectedTakeoff> {
   const image = await sheet.render(sheet.kind === 'image' ? 1 : safeScale(sheet, PDF_SCAN_SCALE));
   const found = await findRasterPanels(image, reader, (f, what) => progress(0.6 * f, what));
@@ -77,7 +84,7 @@ export async function detectRasterTakeoff(input: TakeoffToDetect, raw: Record<st
   if (look.length > 0) questions.push(look.length === 1 ? (look[0] as string) : `Some curves need you: ${look.map((k, i) => `(${i + 1}) ${k}`).join(' ')}`);
   if (traces.length === 0) {
     const why = questions.length > 0 ? ` It asks: ${questions.join(' ')}` : '';
-    throw new TakeoffError(`The automatic take-off found ${named.length} panel${named.length === 1 ? '' : 's'} on this scan (${named.join(', ') || 'none calibrated'}) but no curve it could name; give the curves as traces with guides in the take-off file, or the diameters drawn ("diameters"), and run --detect again.${why}`);
+    throw new ScanDetectRefused(`The automatic take-off found ${named.length} panel${named.length === 1 ? '' : 's'} on this scan (${named.join(', ') || 'none calibrated'}) but no curve it could name; give the curves as traces with guides in the take-off file, or the diameters drawn ("diameters"), and run --detect again.${why}`, questions);
   }
   progress(1, 'done');
   const document: Record<string, unknown> = { ...raw, sheet_sha256: sheet.sha256, panels, traces, detected: { by: RASTER_DETECTOR, questions } };

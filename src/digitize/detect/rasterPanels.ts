@@ -21,6 +21,7 @@ import { findRasterFrames, frameSkew, gridLines, horizontalRules, transpose } fr
 import { inkBlots, readCrops, wordsOf, type Blot, type Crop, type TextReader } from './rasterText.ts';
 import { readAxis } from './robustAxis.ts';
 import { quantityOfTitle, SHEET_NUMBER, sheetNumber, unitOfTitle } from './words.ts';
+import { parseUnit } from '../../units/index.ts';
 
 export interface RasterPanelsFound {
   panels: FoundPanel[];
@@ -202,6 +203,17 @@ export async function findRasterPanels(image: RasterImage, reader: TextReader, p
     if (title) (flowTitleOf.set(f, titleCrops.length), titleCrops.push({ box: grow(title, 3), upright: false }));
   }
   const titleReadings = await readCrops(map, titleCrops, reader, 'words', inkFull);
+  // A flow title whose unit was not read as one this tool knows ("(m3)" for "(m³/h)": the small
+  // superscript and the slash are lost at the usual size) is read again larger; the second
+  // reading counts only when it names a known flow unit.
+  const unread = [...flowTitleOf.values()].filter((i) => !knownFlowUnit(titleReadings[i]?.text ?? ''));
+  if (unread.length > 0) {
+    const again = await readCrops(map, unread.map((i) => titleCrops[i] as Crop), reader, 'words', inkFull, 64);
+    unread.forEach((i, k) => {
+      const second = again[k];
+      if (second && knownFlowUnit(second.text)) titleReadings[i] = second;
+    });
+  }
 
   const grids = new Map<Box, { x: number[]; y: number[] }>();
   for (const f of square) grids.set(f, { x: gridLines(map, f, 'x'), y: gridLines(map, f, 'y') });
@@ -346,4 +358,16 @@ function sheetBox(f: Box, level: Level, scale: number): Box {
   const xs = corners.map((c) => c[0] / scale);
   const ys = corners.map((c) => c[1] / scale);
   return [Math.min(...xs), Math.min(...ys), Math.max(...xs), Math.max(...ys)];
+}
+
+/** True when a title names, in brackets, a flow unit this tool knows ("Flow Q (m3/h)"). */
+export function knownFlowUnit(title: string): boolean {
+  const token = unitOfTitle(title);
+  if (token === null) return false;
+  try {
+    parseUnit('flow', token);
+    return true;
+  } catch {
+    return false;
+  }
 }

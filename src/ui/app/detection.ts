@@ -1,7 +1,10 @@
 /**
  * "Find panels and curves": runs the automatic take-off (src/digitize/detect) on the chosen
- * vector page in the sheet worker, with progress on the status line, and puts what it found into
- * the document as one undoable edit. The detector's questions are asked one at a time; an
+ * page in the sheet worker — a vector page, or a scan whose tick labels the browser's character
+ * reader reads (src/digitize/loaders/ocrBrowser.ts, files served from the workbench's own ocr/
+ * folder) — with progress on the status line, and puts what it found into the document as one
+ * undoable edit. When the reader's files cannot be loaded, one sentence says so and the
+ * engineer goes on by hand. The detector's questions are asked one at a time; an
  * answer (the family's labels, or the iso levels drawn) runs the labelling again.
  */
 import { TAKEOFF_FORMAT, TAKEOFF_VERSION } from '../../model/takeoff.ts';
@@ -16,8 +19,10 @@ import type { SheetWorkerClient } from '../worker/client.ts';
 export interface DetectionHost {
   readonly store: Store;
   readonly worker: SheetWorkerClient;
-  /** True once the worker has read the chosen page and it is a vector page. */
-  vectorReady(): boolean;
+  /** True once the worker has read the chosen page (a vector page or a scan). */
+  pageReady(): boolean;
+  /** Absolute URL of the folder the character reader of scans loads its files from. */
+  ocrBase(): string;
   requestRender(): void;
   /** Opens a step of the workbench (the review, once everything was found). */
   goto(step: 'review'): void;
@@ -29,7 +34,7 @@ export interface OpenQuestion {
   index: number;
   count: number;
   kind: AnswerKind;
-  /** What the field asks for, e.g. "Impeller diameters (mm), largest first". */
+  /** What the field asks for, e.g. "Impeller diameters (mm), largest first"; empty when nothing typed answers it (kind "none"). */
   field: string;
 }
 
@@ -42,7 +47,7 @@ export class Detection {
   constructor(private readonly host: DetectionHost) {}
 
   get available(): boolean {
-    return this.host.vectorReady();
+    return this.host.pageReady();
   }
 
   /** Forgets the answers and the question shown: a new sheet or page. */
@@ -56,7 +61,9 @@ export class Detection {
     if (list.length === 0 || this.index >= list.length) return null;
     const text = list[this.index] as string;
     const kind = answerKind(text);
-    const field = kind === 'iso'
+    const field = kind === 'none'
+      ? ''
+      : kind === 'iso'
       ? 'Efficiency levels drawn (%), e.g. 60 70 75 80'
       : draft.family === 'speed' ? 'Speeds drawn (rpm), fastest first' : `Impeller diameters (${draft.units.diameter}), largest first`;
     return { text, index: this.index, count: list.length, kind, field };
@@ -93,13 +100,13 @@ export class Detection {
     const { store } = this.host;
     if (this.running) return;
     if (!this.available) {
-      store.say('Finding panels and curves works on vector PDF pages; on this sheet, draw the frames and trace the curves.', 'caution');
+      store.say('Open a sheet and wait until its page is read; then find the panels and curves, or draw the frames and trace the curves.', 'caution');
       return;
     }
     this.running = true;
     store.setSession({ busy: true, progress: { label: 'Finding panels and curves', fraction: 0 } });
     try {
-      const found = await this.host.worker.call('detect', { document: this.document(store.draft, given) }, (p) => store.setSession({ progress: { label: p.label, fraction: p.fraction } }));
+      const found = await this.host.worker.call('detect', { document: this.document(store.draft, given), ocr: this.host.ocrBase() }, (p) => store.setSession({ progress: { label: p.label, fraction: p.fraction } }));
       this.index = 0;
       if (found.refused !== null && found.panels.length === 0) {
         store.dispatch((draft) => ({ draft: { ...draft, detected: { by: found.by, questions: found.questions } }, label: 'questions of the automatic take-off', undoable: false }));
@@ -114,7 +121,10 @@ export class Detection {
       if (found.questions.length === 0) this.host.goto('review');
       store.say(`Found ${found.panels.length} panel${found.panels.length === 1 ? '' : 's'} and ${curves} curve${curves === 1 ? '' : 's'}${isos ? ` and ${isos} iso-line${isos === 1 ? '' : 's'}` : ''}${kept ? `; ${kept} part${kept === 1 ? '' : 's'} you set kept` : ''}.${asks}`, found.questions.length ? 'caution' : 'done');
     } catch (error) {
-      store.say(`Finding panels and curves failed: ${(error as Error).message}`, 'error');
+      const e = error as Error;
+      // The reader's own sentence says what is missing and that the sheet is read by hand.
+      if (e.name === 'OcrUnavailableError') store.say(e.message, 'caution');
+      else store.say(`Finding panels and curves failed: ${e.message}`, 'error');
     } finally {
       this.running = false;
       store.setSession({ busy: false, progress: null });
@@ -124,7 +134,7 @@ export class Detection {
   /** Reads the answer to the question on screen and runs the labelling again with it. */
   async answer(text: string): Promise<void> {
     const q = this.question();
-    if (!q) return;
+    if (!q || q.kind === 'none') return;
     let given: DetectionGiven;
     try {
       given = q.kind === 'iso' ? { iso: readLevels(text) } : { labels: parseDiameterList(text) };

@@ -199,8 +199,8 @@ export class SheetFlow {
       if (hints.diameters) read.push(`diameters ${d.diameters.join(' ')} ${d.units.diameter}`);
       if (hints.units) read.push(`flow in ${d.units.flow}, head in ${d.units.head}, power in ${d.units.power}`);
     }
-    // On a vector page the automatic take-off is offered once, here; the button stays in step 2.
-    const next = this.sheet?.loadedKind === 'vector-pdf' ? 'Click “Find panels and curves” to have them found, or draw the frame of the head panel.' : 'Now draw the frame of the head panel.';
+    // The automatic take-off is offered once, here (vector pages and scans); the button stays in step 2.
+    const next = 'Click “Find panels and curves” to have them found, or draw the frame of the head panel.';
     const notes = this.pageNotes.length > 0 ? ` ${this.pageNotes.join(' ')}` : '';
     this.store.say(`${read.length ? `Loaded ${name}. Read from the sheet: ${read.join('; ')} — check them. ${next}` : `Loaded ${name}. Choose the units on the sheet, then ${next.charAt(0).toLowerCase()}${next.slice(1)}`}${notes}`, notes ? 'caution' : 'done');
   }

@@ -131,7 +131,8 @@ export class Workbench implements Bench {
     this.detection = new Detection({
       store: this.store,
       worker: this.worker,
-      vectorReady: () => this.flow.pageReady && this.flow.sheet?.loadedKind === 'vector-pdf',
+      pageReady: () => this.flow.pageReady && (this.flow.sheet?.loadedKind ?? null) !== null,
+      ocrBase: () => new URL('ocr/', document.baseURI).href,
       requestRender: () => this.requestRender(),
       goto: (step) => this.goto(step),
     });

@@ -1,5 +1,5 @@
 /**
- * The automatic take-off in step 2: the "Find panels and curves" button of a vector page, and
+ * The automatic take-off in step 2: the "Find panels and curves" button of a page (vector or scan), and
  * the detector's questions, one at a time, each with the one field that answers it. A part the
  * detector found carries a small "found" tag with its confidence in the lists (`originTag`).
  */
@@ -24,7 +24,11 @@ export function detectBox(bench: Bench): HTMLElement | null {
       : store.draft.detected
       ? `${count.found} part${count.found === 1 ? '' : 's'} found, ${count.set} set by you. A found part you edit becomes yours and is kept when the sheet is read again.`
       : 'Reads the frames, tick labels, drawn curves and their labels from the page; you check and correct what it found.'),
-    q ? h('form', {
+    q && q.kind === 'none' ? h('div', { class: 'detect-question', role: 'group', 'aria-label': 'Question of the automatic take-off' },
+      h('p', { class: 'question-text', id: 'detect-question-text' }, q.count > 1 ? `Question ${q.index + 1} of ${q.count}: ${q.text}` : q.text),
+      h('p', { class: 'hint' }, 'Nothing typed here answers this: do it on the sheet with the usual tools, or save what was found.'),
+      q.index + 1 < q.count ? h('div', { class: 'buttons' }, h('button', { type: 'button', id: 'detect-skip', onclick: () => bench.skipQuestion() }, 'Next question')) : null)
+    : q ? h('form', {
       class: 'detect-question', role: 'group', 'aria-label': 'Question of the automatic take-off',
       onsubmit: (e: Event) => {
         e.preventDefault();

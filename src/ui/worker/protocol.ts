@@ -71,11 +71,12 @@ export interface Requests {
   /** Panel calibrations proposed from the text layer of a vector page (none for scans). */
   propose: { args: Record<string, never>; result: AnchorProposal[] };
   /**
-   * Runs the automatic take-off on the chosen vector page. `document` is a take-off without
+   * Runs the automatic take-off on the chosen page (a vector page, or a scan). `document` is a take-off without
    * panels and traces (sheet, page, pump, units, and the engineer's answers: diameters, speeds,
-   * iso_levels).
+   * iso_levels). On a scan the tick labels are read by tesseract.js from the files under `ocr`
+   * (an absolute URL of the workbench's own folder ocr/, see vite.config.ts).
    */
-  detect: { args: { document: Record<string, unknown> }; result: DetectAnswer };
+  detect: { args: { document: Record<string, unknown>; ocr: string }; result: DetectAnswer };
   /** Fits and checks the take-off into a curve set with the saved captures (the headless replay's own code). */
   replay: { args: { takeoff: Takeoff; sheetFile: string; takeoffName: string }; result: { curveSet: CurveSet; traces: { id: string; how: string; notes: string[] }[]; traceMembers: ReadonlyMap<string, readonly number[]>; crossings: ReplayResult['crossings'] } };
 }

@@ -1,5 +1,6 @@
 /**
- * The sheet worker: opens the sheet, draws pages and regions, and runs the tracers, so
+ * The sheet worker: opens the sheet, draws pages and regions, runs the tracers and the automatic
+ * take-off (on scans with the browser's character reader, src/digitize/loaders/ocrBrowser.ts), so
  * that the page stays responsive while it works. Requests are answered in order.
  */
 /// <reference lib="webworker" />
@@ -12,6 +13,8 @@ import { captureOnPage } from './captureOnPage.ts';
 import { snapToRaster, snapToStraights } from '../geometry/snap.ts';
 import { replayTakeoff } from '../../digitize/takeoff.ts';
 import { DETECTOR, detectSheet, detectTakeoff, givenValues } from '../../digitize/detect/detect.ts';
+import { RASTER_DETECTOR, ScanDetectRefused } from '../../digitize/detect/rasterDetect.ts';
+import { textReaderBrowser, type BrowserTextReader } from '../../digitize/loaders/ocrBrowser.ts';
 import { parseTakeoffToDetect, TakeoffError } from '../../model/takeoff.ts';
 
 declare const self: DedicatedWorkerGlobalScope;
@@ -20,6 +23,19 @@ let source: SheetSource | null = null;
 let opened: { bytes: Uint8Array; name: string; sha256: string } | null = null;
 let session: PageSession | null = null;
 let proposals: Promise<AnchorProposal[]> | null = null;
+/** The character reader of scans, started on the first scan detected and kept (its files come from the page's own server). */
+let reader: { base: string; reader: BrowserTextReader } | null = null;
+
+/** The reader whose files lie under `base`, with its start told as progress of the running request. */
+function readerAt(base: string, progress: (p: Progress) => void): BrowserTextReader {
+  if (reader?.base !== base) {
+    void reader?.reader.close();
+    reader = { base, reader: textReaderBrowser({ base, onStart: (fraction, what) => startProgress.current?.({ fraction: null, label: `Finding panels and curves: starting the text reader (${what}${fraction > 0 && fraction < 1 ? ` ${Math.round(fraction * 100)} %` : ''})` }) }) };
+  }
+  startProgress.current = progress;
+  return reader.reader;
+}
+const startProgress: { current: ((p: Progress) => void) | null } = { current: null };
 
 function requireSource(): SheetSource {
   if (!source) throw new Error('No sheet is open in the worker.');
@@ -103,19 +119,27 @@ const handlers: { [K in keyof Requests]: Handler<K> } = {
   },
   async detect(args, progress) {
     const s = requireSession();
-    progress({ fraction: 0.1, label: 'Finding panels and curves: reading the page' });
+    progress({ fraction: 0.02, label: 'Finding panels and curves: reading the page' });
     const input = parseTakeoffToDetect(args.document);
-    const [text, paths] = await Promise.all([s.sheet.text(), s.sheet.paths()]);
-    progress({ fraction: 0.3, label: `Finding panels and curves: ${paths.length} strokes, ${text.length} words` });
+    const scan = s.sheet.kind !== 'vector-pdf';
+    const [text, paths] = scan ? [[], []] : await Promise.all([s.sheet.text(), s.sheet.paths()]);
+    if (!scan) progress({ fraction: 0.3, label: `Finding panels and curves: ${paths.length} strokes, ${text.length} words` });
     try {
-      const found = await detectTakeoff(input, args.document, s.sheet);
-      progress({ fraction: 0.9, label: 'Finding panels and curves: labelling' });
-      return { result: { panels: found.takeoff.panels, traces: found.takeoff.traces, questions: found.questions, by: DETECTOR, refused: null } };
+      // A scan is read by the same detector as in Node, with the browser's character reader; its progress goes to the status line.
+      // On a scan the picture rendered for detection is the one kept for tracing (replaySheet caches it).
+      const found = await detectTakeoff(input, args.document, scan ? s.replaySheet : s.sheet, scan
+        ? { reader: readerAt(args.ocr, progress), progress: (fraction, what) => progress({ fraction: 0.1 + 0.85 * fraction, label: `Finding panels and curves: ${what}` }) }
+        : {});
+      progress({ fraction: 0.97, label: 'Finding panels and curves: labelling' });
+      return { result: { panels: found.takeoff.panels, traces: found.takeoff.traces, questions: found.questions, by: scan ? RASTER_DETECTOR : DETECTOR, refused: null } };
     } catch (error) {
-      if (!(error instanceof TakeoffError) || s.sheet.kind !== 'vector-pdf') throw error;
       // Nothing could be named: the questions still say what the detector needs to know.
+      if (error instanceof ScanDetectRefused) return { result: { panels: [], traces: [], questions: [...error.questions], by: RASTER_DETECTOR, refused: error.message } };
+      if (!(error instanceof TakeoffError) || scan) throw error;
       const { questions } = detectSheet(text, paths, givenValues(input), input.iso_levels);
       return { result: { panels: [], traces: [], questions, by: DETECTOR, refused: error.message } };
+    } finally {
+      startProgress.current = null;
     }
   },
   async replay(args, progress) {

@@ -113,10 +113,15 @@ export function markUserEdits(before: Draft, after: Draft): Draft {
   return { ...after, panels: panels.list, traces: traces.list };
 }
 
-/** What answers a detector's question: the family's labels (diameters or speeds), or the iso levels drawn. */
-export type AnswerKind = 'labels' | 'iso';
+/**
+ * What answers a detector's question: the family's labels (diameters or speeds), the iso levels
+ * drawn, or nothing typed (`none`: the question asks for work by hand on the sheet — a curve to
+ * trace, anchors to place — and a list typed here would not change what is read).
+ */
+export type AnswerKind = 'labels' | 'iso' | 'none';
 
 export function answerKind(question: string): AnswerKind {
+  if (/by hand|place its anchors|look at (it|them)/i.test(question) && !/\b(give|which)\b|\?/i.test(question)) return 'none';
   return /iso[-_ ]?(line|level)/i.test(question) ? 'iso' : 'labels';
 }
 
