@@ -20,7 +20,8 @@ import { describe, expect, it } from 'vitest';
 import { parseCurveSetJson } from '../../src/model/curvesetIO.ts';
 import { parseTakeoff } from '../../src/model/takeoff.ts';
 import type { CurveSet } from '../../src/model/curveset.ts';
-import { ARTIFACTS, ROOT, settle, User, workbenchForFile } from './harness.ts';
+import { draftParts, waitMessage as waitFor } from './detectFlow.ts';
+import { ARTIFACTS, ROOT, saveBoth, settle, User, workbenchForFile } from './harness.ts';
 import { compareCurveSets } from './compare.ts';
 import { scanFor, SCAN_CURVE_PERCENT, SCAN_EFFICIENCY_POINTS } from '../../scripts/detectSheets/scanBed.ts';
 import { minimalTakeoff } from '../../scripts/detectSheets/vectorSheet.ts';
@@ -34,20 +35,7 @@ const live = workbenchForFile(dir);
 /** The acceptance's count of actions on a scan. */
 const MAX_ACTIONS = 18;
 
-type Part = { id: string; origin?: string; confidence?: number; diameter?: number; quantity?: string };
-
-async function draftParts(user: User): Promise<{ panels: Part[]; traces: Part[]; questions: string[] | null }> {
-  return user.page.evaluate(() => {
-    const d = (window as unknown as { pumpscribe: () => { store: { draft: { panels: Part[]; traces: Part[]; detected?: { questions: string[] } } } } }).pumpscribe().store.draft;
-    const pick = (p: Part) => ({ id: p.id, origin: p.origin, confidence: p.confidence, diameter: p.diameter, quantity: p.quantity });
-    return { panels: d.panels.map(pick), traces: d.traces.map(pick), questions: d.detected ? [...d.detected.questions] : null };
-  });
-}
-
-async function waitMessage(user: User, pattern: RegExp, timeout = 300_000): Promise<string> {
-  await user.page.waitForFunction((src) => new RegExp(src).test(document.querySelector('#message')?.textContent ?? ''), pattern.source, { timeout, polling: 200 });
-  return (await user.page.textContent('#message')) ?? '';
-}
+const waitMessage = (user: User, pattern: RegExp, timeout = 300_000) => waitFor(user, pattern, timeout);
 
 /** Waits until the detector has run `count` times since the test began to watch the store. */
 async function runEnded(user: User, count: number): Promise<void> {
@@ -171,16 +159,7 @@ describe('finding panels and curves on a scan', () => {
     await user.screenshot('3-answered');
 
     // 4. Save: the curve set and the take-off file.
-    await user.click(page.locator('#step-save'), 'step 5');
-    const files: Record<string, string> = {};
-    for (const [key, id] of [['curveset', '#download-curveset'], ['takeoff', '#download-takeoff']] as const) {
-      await page.locator(id).waitFor({ state: 'visible' });
-      await page.waitForFunction((sel) => !(document.querySelector(sel) as HTMLButtonElement | null)?.disabled, id, { timeout: 300_000 });
-      const [download] = await Promise.all([page.waitForEvent('download'), user.click(page.locator(id), `download ${key}`)]);
-      const saved = join(dir, download.suggestedFilename());
-      await download.saveAs(saved);
-      files[key] = saved;
-    }
+    const files = await saveBoth(user, page, dir, 300_000);
     await user.screenshot('4-saved');
     writeFileSync(join(dir, 'actions.txt'), `${user.log.join('\n')}\n`);
     expect(user.actions).toBeLessThanOrEqual(MAX_ACTIONS);

@@ -15,7 +15,8 @@ import type { CurveSet, Quantity } from '../../src/model/curveset.ts';
 import { evaluateUnchecked, linspace } from '../../src/fit/polynomial.ts';
 import { parseUnit, toSI } from '../../src/units/index.ts';
 import { QUANTITY_KIND } from '../../src/units/quantityUnits.ts';
-import { ARTIFACTS, cleanDir, ROOT, settle, User, workbenchForFile } from './harness.ts';
+import { draftParts, waitMessage } from './detectFlow.ts';
+import { ARTIFACTS, cleanDir, ROOT, saveBoth, settle, User, workbenchForFile } from './harness.ts';
 import { compareCurveSets } from './compare.ts';
 import { makeVectorSheet, minimalTakeoff, openPrinter } from '../../scripts/detectSheets/vectorSheet.ts';
 
@@ -23,20 +24,6 @@ const dir = join(ARTIFACTS, 'detect-vector');
 const SAMPLE = join(ROOT, 'samples', 'sheets', 'si-panels-black');
 const live = workbenchForFile(dir);
 
-type Part = { id: string; origin?: string; confidence?: number; diameter?: number; quantity?: string };
-
-async function draftParts(user: User): Promise<{ panels: Part[]; traces: Part[]; questions: string[] | null }> {
-  return user.page.evaluate(() => {
-    const d = (window as unknown as { pumpscribe: () => { store: { draft: { panels: Part[]; traces: Part[]; detected?: { questions: string[] } } } } }).pumpscribe().store.draft;
-    const pick = (p: Part) => ({ id: p.id, origin: p.origin, confidence: p.confidence, diameter: p.diameter, quantity: p.quantity });
-    return { panels: d.panels.map(pick), traces: d.traces.map(pick), questions: d.detected ? [...d.detected.questions] : null };
-  });
-}
-
-async function waitMessage(user: User, pattern: RegExp): Promise<string> {
-  await user.page.waitForFunction((src) => new RegExp(src).test(document.querySelector('#message')?.textContent ?? ''), pattern.source, { timeout: 120_000, polling: 100 });
-  return (await user.page.textContent('#message')) ?? '';
-}
 
 function headless(takeoff: string, name: string, flags: string[] = []): CurveSet {
   const out = join(dir, `headless-${name}.curveset.json`);
@@ -131,16 +118,7 @@ describe('finding panels and curves on a vector sheet', () => {
     expect(again.panels.map((p) => p.id).sort()).toEqual(found.panels.map((p) => p.id).sort());
 
     // 3–5. Save: the curve set and the take-off file.
-    await user.click(page.locator('#step-save'), 'step 5');
-    const files: Record<string, string> = {};
-    for (const [key, id] of [['curveset', '#download-curveset'], ['takeoff', '#download-takeoff']] as const) {
-      await page.locator(id).waitFor({ state: 'visible' });
-      await page.waitForFunction((sel) => !(document.querySelector(sel) as HTMLButtonElement | null)?.disabled, id, { timeout: 60_000 });
-      const [download] = await Promise.all([page.waitForEvent('download'), user.click(page.locator(id), `download ${key}`)]);
-      const file = join(dir, download.suggestedFilename());
-      await download.saveAs(file);
-      files[key] = file;
-    }
+    const files = await saveBoth(user, page, dir, 60_000);
     await user.screenshot('5-saved');
     writeFileSync(join(dir, 'actions.txt'), `${user.log.join('\n')}\n`);
     // The second "find" above was a check of the test, not part of the take-off: not counted.
@@ -217,14 +195,7 @@ describe('finding panels and curves on a vector sheet', () => {
     expect(found.questions).toEqual([]);
     expect([...new Set(found.traces.map((t) => t.diameter))].sort((a, b) => (b ?? 0) - (a ?? 0))).toEqual(diameters);
 
-    await user.click(page.locator('#step-save'), 'step 5');
-    const files: Record<string, string> = {};
-    for (const [key, id] of [['curveset', '#download-curveset'], ['takeoff', '#download-takeoff']] as const) {
-      await page.waitForFunction((sel) => !(document.querySelector(sel) as HTMLButtonElement | null)?.disabled, id, { timeout: 60_000 });
-      const [download] = await Promise.all([page.waitForEvent('download'), user.click(page.locator(id), `download ${key}`)]);
-      files[key] = join(sub, download.suggestedFilename());
-      await download.saveAs(files[key] as string);
-    }
+    const files = await saveBoth(user, page, sub, 60_000);
     expect(user.actions).toBeLessThanOrEqual(12);
     // The take-off file keeps the answer, so the headless take-off reads the sheet the same way.
     const saved = parseTakeoff(JSON.parse(readFileSync(files.takeoff as string, 'utf8')));

@@ -291,3 +291,21 @@ export function workbenchForFile(dir: string, timeoutMs = 600_000): { readonly s
     },
   };
 }
+
+/**
+ * Step 5 and the two downloads, as a user does them (three counted actions): the curve set and
+ * the take-off file, each saved into `dir`. Returns their paths by kind.
+ */
+export async function saveBoth(user: User, page: Page, dir: string, timeoutMs: number): Promise<{ curveset: string; takeoff: string }> {
+  await user.click(page.locator('#step-save'), 'step 5');
+  const files: Record<string, string> = {};
+  for (const [key, id] of [['curveset', '#download-curveset'], ['takeoff', '#download-takeoff']] as const) {
+    await page.locator(id).waitFor({ state: 'visible' });
+    await page.waitForFunction((sel) => !(document.querySelector(sel) as HTMLButtonElement | null)?.disabled, id, { timeout: timeoutMs });
+    const [download] = await Promise.all([page.waitForEvent('download'), user.click(page.locator(id), `download ${key}`)]);
+    const saved = join(dir, download.suggestedFilename());
+    await download.saveAs(saved);
+    files[key] = saved;
+  }
+  return { curveset: files.curveset as string, takeoff: files.takeoff as string };
+}
