@@ -45,6 +45,11 @@ export interface RasterTraceOptions {
   extent?: 'guides' | 'line';
   /** Plot frame [left, top, right, bottom] in sheet units: a whole-line trace stops at it. */
   frame?: readonly [number, number, number, number];
+  /**
+   * The guides of the sheet's other traces (`siblingGuides`), sheet units: a line that runs on to
+   * another trace's guide where that line stands alone is that trace's line, not this one's.
+   */
+  siblings?: readonly (readonly SheetPoint[])[];
 }
 
 /** A stretch the tracer could not see. */
@@ -500,13 +505,27 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
   // no ink of its colour at most other guides: the model that finds ink at the most guides wins.
   type Acquired = NonNullable<ReturnType<typeof acquire>>;
   const broken = (a: Acquired) => (a.style.reach ? 1 : 0);
+  // A guide where other lines touch the line (a bunch, a crossing) vouches for a model by half:
+  // its own line may be hidden under the others there, and what it sampled may be another
+  // line's colour. Among models that agree as well with the guides, one sampled where the line
+  // has room of its own wins.
   const candidates = px.map((g) => acquire(image, g, search, options));
-  const support = candidates.map((c) => (c && px.length > 1 ? px.filter((g) => nearestInk(image, c.style.model, g, search) !== undefined).length : 0));
+  const room = candidates.map((c) => (c ? clearance(image, c.style, c.centre, c.axis, counter) : 0));
+  const bunched = candidates.map((c, j) => c !== undefined && (room[j] as number) <= BUNCH_CLEARANCE);
+  const support = candidates.map((c) => (c && px.length > 1 ? px.reduce((sum, g, j) => sum + (nearestInk(image, c.style.model, g, search) !== undefined ? (bunched[j] ? 0.5 : 1) : 0), 0) : 0));
+  // Room counts only where the ink looks like one stroke at all (not a blob of text or a
+  // crossing) and no wider than the thinnest line measured under a guide (not lines run together).
+  const thinnest = Math.min(...candidates.map((c) => c?.style.width ?? Infinity));
+  const solo = (i: number) => {
+    const c = candidates[i] as Acquired;
+    return bunched[i] || c.isotropy > SOLO_ISOTROPY || c.style.width > SOLO_WIDTH * thinnest ? 0 : 1;
+  };
   candidates.forEach((got, i) => {
     if (!got) return;
     const s = support[i] as number;
     const best = support[first - 1] ?? -1;
-    if (!chosen || s > best || (s === best && (broken(got) > broken(chosen) || (broken(got) === broken(chosen) && got.isotropy < chosen.isotropy - 0.02)))) {
+    const tie = chosen && s === best && broken(got) === broken(chosen);
+    if (!chosen || s > best || (s === best && broken(got) > broken(chosen)) || (tie && solo(i) > solo(first - 1)) || (tie && solo(i) === solo(first - 1) && got.isotropy < chosen.isotropy - 0.02)) {
       chosen = got;
       first = i + 1;
     }
@@ -685,6 +704,64 @@ function inkBeside(image: RasterImage, style: LineStyle, centre: Px, axis: Px, c
   }
   return crowded >= 2;
 }
+
+/**
+ * How much room the line has at `centre`, pixels: the least gap, over sections across the line at
+ * the centre and a few widths either way along `axis`, between the edge of the line's own run of
+ * ink (of any colour) and the nearest other run; 0 where the line's run is much wider than the
+ * line (other lines touch it), and the sections' reach (3 widths and 3 px) where nothing lies
+ * beside. A colour sampled where the room is small may be another line's.
+ */
+function clearance(image: RasterImage, style: LineStyle, centre: Px, axis: Px, counter: ReadCounter): number {
+  const paper = style.model.paper;
+  const full = colourDistance(paper, ...style.model.line);
+  const near = 3 * style.width + 3;
+  if (full <= 0) return near;
+  const spacing = 0.5;
+  const n = Math.ceil((near + style.width) / spacing);
+  const section = new Float64Array(2 * n + 1);
+  const runs: Run[] = [];
+  const along = 2 * style.width + 4;
+  let room = near;
+  for (const k of [-1, 0, 1]) {
+    const cx = centre[0] + axis[0] * along * k;
+    const cy = centre[1] + axis[1] * along * k;
+    for (let j = -n; j <= n; j++) {
+      const x = Math.floor(cx - axis[1] * j * spacing);
+      const y = Math.floor(cy + axis[0] * j * spacing);
+      if (x < 0 || y < 0 || x >= image.width || y >= image.height) {
+        section[j + n] = 0;
+        continue;
+      }
+      const i = (y * image.width + x) * 4;
+      section[j + n] = Math.min(1, colourDistance(paper, image.data[i] as number, image.data[i + 1] as number, image.data[i + 2] as number) / full);
+    }
+    counter.reads += 2 * n + 1;
+    const found = findRuns(section, n, spacing, style.threshold, runs);
+    let own: Run | undefined;
+    for (const r of found) if (!own || Math.abs(r.centre) < Math.abs(own.centre)) own = r;
+    if (!own) continue;
+    if (own.mass > WIDE_RUN * style.width) return 0;
+    for (const r of found) {
+      if (r === own || r.mass < 0.4 * style.width) continue;
+      const gap = r.centre > own.centre ? r.lowEdge - own.highEdge : own.lowEdge - r.highEdge;
+      room = Math.min(room, Math.max(0, gap));
+    }
+  }
+  return room;
+}
+
+/** Ink across a line, in its widths, beyond which other lines touch it there. */
+const WIDE_RUN = 1.6;
+
+/** Room beside a guide's line, pixels, up to which other lines touch it: its colour sample counts as taken in a bunch. */
+const BUNCH_CLEARANCE = 0.5;
+
+/** Isotropy of the ink under a guide above which it is not one clean stroke, whatever room it has. */
+const SOLO_ISOTROPY = 0.45;
+
+/** Width of the line under a guide, in the thinnest width measured under any, above which it is lines run together. */
+const SOLO_WIDTH = 1.5;
 
 /** Membership in the line's model below which the colour under a guide is another line's. */
 const GUIDE_MEMBERSHIP = 0.6;
