@@ -20,6 +20,7 @@ import { chooseOffset, followLine, indexPath, stepping, type FollowLimits, type 
 import { findRuns, inkAxis, membershipAt, sampleLongSection, sampleSection, type ReadCounter, type Run } from './lineProfile.ts';
 import { sheetPoint, type SheetPoint } from './points.ts';
 import type { RasterImage } from './raster.ts';
+import { cutFollow, foreignGuides, foreignRun, type Locate, type RoomAt } from './rasterSiblings.ts';
 
 /** Guides or options the tracer cannot use. The message says what to change. */
 export class TraceInputError extends UserError {
@@ -547,6 +548,21 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
   const lost: LostStretch[] = [];
 
   const snapped = px.map((g, i) => (i === first - 1 ? { centre: acquired.centre, axis: acquired.axis } : snap(image, style, g, search)));
+
+  // The other traces' guides: a follow that runs over one where its line stands alone has left
+  // this trace's line for that one, and is cut back to where it joined it.
+  const foreign = foreignGuides(options.siblings, image, px, style.width);
+  const locate: Locate = (g) => snap(image, style, g, search);
+  const roomAt: RoomAt = (centre, axis) => clearance(image, style, centre, axis, counter);
+  const ONTO_OTHER = "the line ran onto another trace's line (over that trace's guide), and was cut back to where it joined it";
+  /** Cuts a follow where it ran onto another trace's line; true when it did. */
+  const keepOffOthers = (result: FollowResult): boolean => {
+    const run = foreignRun(image, style, foreign, pairs(result.points), 1, locate, roomAt, counter);
+    if (run) cutFollow(result, run.start, ONTO_OTHER);
+    return run !== undefined;
+  };
+  /** How many points of an extension to keep before it runs onto another trace's line (all when it does not). */
+  const offOthers = (points: readonly Px[]): number | undefined => foreignRun(image, style, foreign, points, 0, locate, roomAt, counter)?.start;
   snapped.forEach((s, i) => {
     if (!s) lost.push({ at: guides[i] as SheetPoint, between: [i + 1, i + 1], reason: `guide ${i + 1} has no line of the traced colour within ${search.toFixed(0)} px` });
   });
@@ -596,6 +612,10 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
       const axis = a?.axis ?? heading ?? [to[0] - from[0], to[1] - from[1]];
       const h = heading ?? headingTowards(image, style, from, axis, to, counter);
       const fwd = followLine(image, style, from, h, to, limits, counter);
+      // A pass that came to the next guide is vouched for by both guides (another trace's guide on
+      // its way sits on a crossing or where the lines run together); one that did not may have
+      // left its line.
+      const fwdOnto = !fwd.reached && keepOffOthers(fwd);
       path.push(...pairs(fwd.points).slice(1));
       if (fwd.reached) {
         if (b) path.push(to);
@@ -617,15 +637,17 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
       const meetIndex = indexPath(fwd.track, Math.max(2, style.width));
       const backHeading = headingTowards(image, style, to, b.axis, from, counter);
       const bwd = followLine(image, style, to, backHeading, undefined, limits, counter, meetIndex);
+      const bwdOnto = bwd.met === undefined && keepOffOthers(bwd);
       const back = pairs(bwd.points).reverse();
       if (bwd.met !== undefined) {
         path.length = forwardStart - 1 + (fwd.trackPoints[bwd.met] as number);
-      } else if (fwd.merges.length > 0 && bwd.merges.length > 0) {
-        // Neither pass came out of the bundle on the other's line, so each is kept up to where
-        // it entered the bundle, and the two ends are joined smoothly through it: inside the
-        // bundle the line lies within a line width or two of its neighbours.
-        path.length = forwardStart - 1 + (fwd.merges[0] as number);
-        const kept = pairs(bwd.points).slice(0, bwd.merges[0] as number);
+      } else if ((fwd.merges.length > 0 || fwdOnto) && (bwd.merges.length > 0 || bwdOnto)) {
+        // Neither pass came out of the bundle on the other's line (or one ran onto another
+        // trace's line and was cut back), so each is kept up to where it entered the bundle, and
+        // the two ends are joined smoothly through it: inside the bundle the line lies within a
+        // line width or two of its neighbours.
+        path.length = forwardStart - 1 + (fwd.merges[0] ?? fwd.points.length / 2);
+        const kept = pairs(bwd.points).slice(0, bwd.merges[0] ?? bwd.points.length / 2);
         const p0 = path[path.length - 1] as Px;
         const p1 = kept[kept.length - 1] as Px;
         path.push(...bridge(p0, tangentAt(path, path.length - 1, 1), p1, tangentAt(kept, kept.length - 1, -1), stepping(style.width).step));
@@ -640,7 +662,7 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
     }
   }
 
-  if ((px.length === 1 || options.extent !== 'guides') && path.length >= 2) doubts.push(...extendToEnds(image, style, path, maxGap, options.frame, counter));
+  if ((px.length === 1 || options.extent !== 'guides') && path.length >= 2) doubts.push(...extendToEnds(image, style, path, maxGap, options.frame, counter, offOthers));
   else if (options.frame && path.length >= 2) clipToFrame(path, options.frame, image.scale, style.width);
 
   if (options.frame && options.extent !== 'guides' && path.length >= 2) {
@@ -779,12 +801,18 @@ export interface TraceDoubt {
  */
 interface EndDoubt {
   at: Px;
-  what: 'frame' | 'bunch' | 'bunch-end' | 'gap-beside';
+  what: 'frame' | 'bunch' | 'bunch-end' | 'gap-beside' | 'onto-other';
   /** The guide concerned (1-based), for a doubt about a guide. */
   guide?: number;
 }
 
 function doubtSentence(d: EndDoubt, at: SheetPoint): TraceDoubt {
+  if (d.what === 'onto-other') {
+    return {
+      code: 'takeoff.end-through-bunch',
+      message: `beyond its guides the line runs near ${fmt(at)} onto another trace's line (over that trace's guide), and the trace ends there; check the trace's end, or add a guide on the line beyond that place where it stands alone`,
+    };
+  }
   if (d.what === 'bunch-end') {
     return {
       code: 'takeoff.end-through-bunch',
@@ -863,7 +891,15 @@ function clipToFrame(path: Px[], frame: readonly [number, number, number, number
  * followed along the direction of the last 40 pixels of the path; what the follower accepts
  * before it loses the line for longer than `maxGap` is added, and nothing it only coasted on.
  */
-function extendToEnds(image: RasterImage, style: LineStyle, path: Px[], maxGap: number, frame: readonly [number, number, number, number] | undefined, counter: ReadCounter): EndDoubt[] {
+function extendToEnds(
+  image: RasterImage,
+  style: LineStyle,
+  path: Px[],
+  maxGap: number,
+  frame: readonly [number, number, number, number] | undefined,
+  counter: ReadCounter,
+  offOthers: (points: readonly Px[]) => number | undefined = () => undefined,
+): EndDoubt[] {
   const limits: FollowLimits = { maxGap, maxTravel: 2 * (image.width + image.height) };
   const doubts: EndDoubt[] = [];
   const outward = (stretch: Px[]): Px[] => {
@@ -877,6 +913,15 @@ function extendToEnds(image: RasterImage, style: LineStyle, path: Px[], maxGap: 
       const result = followLine(image, style, end, heading, undefined, limits, counter);
       const [inside] = judgeExtension(result, undefined, frame, image.scale, style.width);
       const smooth = keepSmooth(all, inside, style, maxGap, { image, counter, doubts });
+      // Over another trace's guide the extension is on that trace's line: it ends where it joined it.
+      const onto = offOthers(smooth);
+      if (onto !== undefined) {
+        smooth.length = onto;
+        all.push(...smooth);
+        out.push(...smooth);
+        doubts.push({ at: (smooth[smooth.length - 1] ?? end) as Px, what: 'onto-other' });
+        break;
+      }
       if (resumed >= 0 && pathLength([end, ...smooth], 0) < Math.max(FOUND_AGAIN_PX, 12 * style.width)) {
         // What was found again ends soon (a label beside the line's end, a piece of a grid
         // line): the line ended before the gap. Take the found part back.
