@@ -20,6 +20,7 @@ import { chooseOffset, followLine, indexPath, stepping, type FollowLimits, type 
 import { findRuns, inkAxis, membershipAt, sampleLongSection, sampleSection, type ReadCounter, type Run } from './lineProfile.ts';
 import { sheetPoint, type SheetPoint } from './points.ts';
 import type { RasterImage } from './raster.ts';
+import { alongBand } from './rasterBand.ts';
 import { cutFollow, foreignGuides, foreignRun, type Locate, type RoomAt } from './rasterSiblings.ts';
 
 /** Guides or options the tracer cannot use. The message says what to change. */
@@ -650,7 +651,8 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
         const kept = pairs(bwd.points).slice(0, bwd.merges[0] ?? bwd.points.length / 2);
         const p0 = path[path.length - 1] as Px;
         const p1 = kept[kept.length - 1] as Px;
-        path.push(...bridge(p0, tangentAt(path, path.length - 1, 1), p1, tangentAt(kept, kept.length - 1, -1), stepping(style.width).step));
+        // Laid along the bunch's own edges, where they can be seen.
+        path.push(...alongBand(image, style, [p0, ...bridge(p0, tangentAt(path, path.length - 1, 1), p1, tangentAt(kept, kept.length - 1, -1), stepping(style.width).step), p1], counter).slice(1, -1));
         lost.push({ at: toSheetPt(p0), resumedAt: toSheetPt(p1), between: [i + 1, i + 2], reason: 'the line runs together with other lines of its colour here; the stretch is bridged smoothly' });
         back.length = 0;
         back.push(...kept.reverse());
