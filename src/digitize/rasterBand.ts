@@ -38,7 +38,7 @@ export function alongBand(image: RasterImage, style: LineStyle, points: readonly
   // Distances of the line from the bunch's low and high edges at both ends.
   const lowSide0 = -first.low <= first.high;
   const lowSide1 = -last.low <= last.high;
-  return points.map((p, i) => {
+  const laid = points.map((p, i): Px => {
     const band = bands[i];
     if (!band || i === 0 || i === n - 1) return p;
     const t = i / (n - 1);
@@ -46,13 +46,15 @@ export function alongBand(image: RasterImage, style: LineStyle, points: readonly
     if (lowSide0 && lowSide1) offset = band.low + (1 - t) * -first.low + t * -last.low;
     else if (!lowSide0 && !lowSide1) offset = band.high - ((1 - t) * first.high + t * last.high);
     else {
-      const share = (1 - t) * (-first.low / (first.high - first.low)) + t * (-last.low / (last.high - last.low));
+      const shareOf = (b: { low: number; high: number }) => (b.high - b.low > 1e-6 ? -b.low / (b.high - b.low) : 0.5);
+      const share = (1 - t) * shareOf(first) + t * shareOf(last);
       offset = band.low + share * (band.high - band.low);
     }
     const nx = (normals[i] as Px)[0];
     const ny = (normals[i] as Px)[1];
     return [p[0] + nx * offset, p[1] + ny * offset];
   });
+  return laid.every((p) => Number.isFinite(p[0]) && Number.isFinite(p[1])) ? laid : [...points];
 }
 
 /**
