@@ -35,21 +35,23 @@ export function alongBand(image: RasterImage, style: LineStyle, points: readonly
   const first = bands[0];
   const last = bands[n - 1];
   if (!first || !last) return [...points];
-  // Distances of the line from the bunch's low and high edges at both ends.
-  const lowSide0 = -first.low <= first.high;
-  const lowSide1 = -last.low <= last.high;
+  // Which edge of the bunch the line lies beside at each end. An end where the line stands alone
+  // (the bunch there no wider than the line) says nothing: it takes the other end's side. With
+  // no bunch at either end, or the line beside different edges at the two ends, nothing tells
+  // where the line runs inside the bunch, and the bridge is left as it is.
+  const real0 = first.high - first.low >= 0.5 * style.width;
+  const real1 = last.high - last.low >= 0.5 * style.width;
+  if (!real0 && !real1) return [...points];
+  const low0 = -first.low <= first.high;
+  const low1 = -last.low <= last.high;
+  const side0 = real0 ? low0 : low1;
+  const side1 = real1 ? low1 : low0;
+  if (side0 !== side1) return [...points];
   const laid = points.map((p, i): Px => {
     const band = bands[i];
     if (!band || i === 0 || i === n - 1) return p;
     const t = i / (n - 1);
-    let offset: number;
-    if (lowSide0 && lowSide1) offset = band.low + (1 - t) * -first.low + t * -last.low;
-    else if (!lowSide0 && !lowSide1) offset = band.high - ((1 - t) * first.high + t * last.high);
-    else {
-      const shareOf = (b: { low: number; high: number }) => (b.high - b.low > 1e-6 ? -b.low / (b.high - b.low) : 0.5);
-      const share = (1 - t) * shareOf(first) + t * shareOf(last);
-      offset = band.low + share * (band.high - band.low);
-    }
+    const offset = side0 ? band.low + (1 - t) * -first.low + t * -last.low : band.high - ((1 - t) * first.high + t * last.high);
     const nx = (normals[i] as Px)[0];
     const ny = (normals[i] as Px)[1];
     return [p[0] + nx * offset, p[1] + ny * offset];
