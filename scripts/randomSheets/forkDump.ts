@@ -16,30 +16,13 @@ import { sheetPoint } from '../../src/digitize/points.ts';
 import { siblingGuides } from '../../src/digitize/vectorChoice.ts';
 import { applyH, decode } from './camera.ts';
 import { makeRandomSheet, sheetGeometry } from './randomSheet.ts';
+import { nearest } from './traceGeometry.ts';
 import type { TakeoffInput } from '../../src/model/takeoff.ts';
 
 const CACHE = join(import.meta.dirname, '..', '..', 'artifacts', 'random-sheets', 'v1');
 
-type P = readonly [number, number];
 
-function distance(line: readonly P[], p: P): { d: number; k: number } {
-  let bestD = Infinity;
-  let best = 0;
-  for (let k = 0; k + 1 < line.length; k++) {
-    const a = line[k] as P;
-    const b = line[k + 1] as P;
-    const vx = b[0] - a[0];
-    const vy = b[1] - a[1];
-    const l2 = vx * vx + vy * vy || 1;
-    const t = Math.max(0, Math.min(1, ((p[0] - a[0]) * vx + (p[1] - a[1]) * vy) / l2));
-    const d = Math.hypot(a[0] + t * vx - p[0], a[1] + t * vy - p[1]);
-    if (d < bestD) {
-      bestD = d;
-      best = (k + t) / (line.length - 1);
-    }
-  }
-  return { d: bestD, k: best };
-}
+const distance = nearest;
 
 export interface ForkRow {
   seed: number;

@@ -8,7 +8,7 @@
  * beside different edges at the two ends. Pure: pixel coordinates in and out.
  */
 import { colourDistance } from './colour.ts';
-import { findRuns, type ReadCounter, type Run } from './lineProfile.ts';
+import { findRuns, sampleInkSection, type ReadCounter, type Run } from './lineProfile.ts';
 import type { LineStyle } from './lineFollow.ts';
 import type { RasterImage } from './raster.ts';
 
@@ -73,17 +73,7 @@ function bandAt(image: RasterImage, style: LineStyle, p: Px, normal: Px, counter
   const reach = MAX_BAND_WIDTHS * style.width + 4;
   const m = Math.ceil(reach / spacing);
   const section = new Float64Array(2 * m + 1);
-  for (let j = -m; j <= m; j++) {
-    const x = Math.floor(p[0] + normal[0] * j * spacing);
-    const y = Math.floor(p[1] + normal[1] * j * spacing);
-    if (x < 0 || y < 0 || x >= image.width || y >= image.height) {
-      section[j + m] = 0;
-      continue;
-    }
-    const i = (y * image.width + x) * 4;
-    section[j + m] = Math.min(1, colourDistance(paper, image.data[i] as number, image.data[i + 1] as number, image.data[i + 2] as number) / full);
-  }
-  counter.reads += 2 * m + 1;
+  sampleInkSection(image, paper, full, p[0], p[1], normal[0], normal[1], m, spacing, section, counter);
   const runs: Run[] = [];
   let best: Run | undefined;
   for (const r of findRuns(section, m, spacing, style.threshold, runs)) {

@@ -17,7 +17,7 @@ import { UserError } from '../model/errors.ts';
 import simplify from 'simplify-js';
 import { colourDistance, estimatePaper, inkModel, membership, MIN_CONTRAST, windowAround, type InkModel, type Rgb } from './colour.ts';
 import { chooseOffset, followLine, indexPath, stepping, type FollowLimits, type FollowResult, type LineStyle, type Pick } from './lineFollow.ts';
-import { findRuns, inkAxis, membershipAt, sampleLongSection, sampleSection, type ReadCounter, type Run } from './lineProfile.ts';
+import { findRuns, inkAxis, membershipAt, sampleInkSection, sampleLongSection, sampleSection, type ReadCounter, type Run } from './lineProfile.ts';
 import { sheetPoint, type SheetPoint } from './points.ts';
 import type { RasterImage } from './raster.ts';
 import { alongBand } from './rasterBand.ts';
@@ -695,38 +695,39 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
  * crossing the line shows at one place; a line running beside it, at all).
  */
 function inkBeside(image: RasterImage, style: LineStyle, centre: Px, axis: Px, counter: ReadCounter): boolean {
-  const paper = style.model.paper;
-  const full = colourDistance(paper, ...style.model.line);
-  if (full <= 0) return false;
-  const spacing = 0.5;
   const near = 3 * style.width + 3;
-  const n = Math.ceil((near + style.width) / spacing);
-  const section = new Float64Array(2 * n + 1);
-  const runs: Run[] = [];
-  const along = 2 * style.width + 4;
   let crowded = 0;
-  for (const k of [-1, 0, 1]) {
-    const cx = centre[0] + axis[0] * along * k;
-    const cy = centre[1] + axis[1] * along * k;
-    for (let j = -n; j <= n; j++) {
-      const x = Math.floor(cx - axis[1] * j * spacing);
-      const y = Math.floor(cy + axis[0] * j * spacing);
-      if (x < 0 || y < 0 || x >= image.width || y >= image.height) {
-        section[j + n] = 0;
-        continue;
-      }
-      const i = (y * image.width + x) * 4;
-      section[j + n] = Math.min(1, colourDistance(paper, image.data[i] as number, image.data[i + 1] as number, image.data[i + 2] as number) / full);
-    }
-    counter.reads += 2 * n + 1;
-    const found = findRuns(section, n, spacing, style.threshold, runs);
+  const seen = acrossAt(image, style, centre, axis, near, counter, (found) => {
     let own = -1;
     found.forEach((r, i) => {
       if (own < 0 || Math.abs(r.centre) < Math.abs((found[own] as Run).centre)) own = i;
     });
     if (found.some((r, i) => i !== own && r.mass >= 0.4 * style.width && Math.abs(r.centre) <= near)) crowded++;
+    return true;
+  });
+  return seen && crowded >= 2;
+}
+
+/**
+ * Sections of ink of any colour (as a share of the line's contrast with the paper) across the
+ * line at `centre` and two widths and 4 px either way along `axis`, reaching `near` and a width
+ * beyond; `visit` gets each section's runs and stops the walk by returning false. False when the
+ * line has no contrast to measure by.
+ */
+function acrossAt(image: RasterImage, style: LineStyle, centre: Px, axis: Px, near: number, counter: ReadCounter, visit: (found: Run[]) => boolean): boolean {
+  const paper = style.model.paper;
+  const full = colourDistance(paper, ...style.model.line);
+  if (full <= 0) return false;
+  const spacing = 0.5;
+  const n = Math.ceil((near + style.width) / spacing);
+  const section = new Float64Array(2 * n + 1);
+  const runs: Run[] = [];
+  const along = 2 * style.width + 4;
+  for (const k of [-1, 0, 1]) {
+    sampleInkSection(image, paper, full, centre[0] + axis[0] * along * k, centre[1] + axis[1] * along * k, -axis[1], axis[0], n, spacing, section, counter);
+    if (!visit(findRuns(section, n, spacing, style.threshold, runs))) break;
   }
-  return crowded >= 2;
+  return true;
 }
 
 /**
@@ -737,41 +738,23 @@ function inkBeside(image: RasterImage, style: LineStyle, centre: Px, axis: Px, c
  * beside. A colour sampled where the room is small may be another line's.
  */
 function clearance(image: RasterImage, style: LineStyle, centre: Px, axis: Px, counter: ReadCounter): number {
-  const paper = style.model.paper;
-  const full = colourDistance(paper, ...style.model.line);
   const near = 3 * style.width + 3;
-  if (full <= 0) return near;
-  const spacing = 0.5;
-  const n = Math.ceil((near + style.width) / spacing);
-  const section = new Float64Array(2 * n + 1);
-  const runs: Run[] = [];
-  const along = 2 * style.width + 4;
   let room = near;
-  for (const k of [-1, 0, 1]) {
-    const cx = centre[0] + axis[0] * along * k;
-    const cy = centre[1] + axis[1] * along * k;
-    for (let j = -n; j <= n; j++) {
-      const x = Math.floor(cx - axis[1] * j * spacing);
-      const y = Math.floor(cy + axis[0] * j * spacing);
-      if (x < 0 || y < 0 || x >= image.width || y >= image.height) {
-        section[j + n] = 0;
-        continue;
-      }
-      const i = (y * image.width + x) * 4;
-      section[j + n] = Math.min(1, colourDistance(paper, image.data[i] as number, image.data[i + 1] as number, image.data[i + 2] as number) / full);
-    }
-    counter.reads += 2 * n + 1;
-    const found = findRuns(section, n, spacing, style.threshold, runs);
+  acrossAt(image, style, centre, axis, near, counter, (found) => {
     let own: Run | undefined;
     for (const r of found) if (!own || Math.abs(r.centre) < Math.abs(own.centre)) own = r;
-    if (!own) continue;
-    if (own.mass > WIDE_RUN * style.width) return 0;
+    if (!own) return true;
+    if (own.mass > WIDE_RUN * style.width) {
+      room = 0;
+      return false;
+    }
     for (const r of found) {
       if (r === own || r.mass < 0.4 * style.width) continue;
       const gap = r.centre > own.centre ? r.lowEdge - own.highEdge : own.lowEdge - r.highEdge;
       room = Math.min(room, Math.max(0, gap));
     }
-  }
+    return true;
+  });
   return room;
 }
 
