@@ -21,7 +21,6 @@ import type { TakeoffInput } from '../../src/model/takeoff.ts';
 
 const CACHE = join(import.meta.dirname, '..', '..', 'artifacts', 'random-sheets', 'v1');
 
-
 const distance = nearest;
 
 export interface ForkRow {
