@@ -54,7 +54,8 @@ async function sheet(seed: number, kind: 'scan' | 'photo'): Promise<{ jpeg: Buff
   return { jpeg: s.jpeg, takeoff: s.takeoff };
 }
 
-function nearest(truth: ReadonlyArray<readonly [number, number]>, p: readonly [number, number]): { k: number; d: number } {
+/** Distance of `p` from a polyline, and where along it (0–1) the nearest point lies. */
+export function nearest(truth: ReadonlyArray<readonly [number, number]>, p: readonly [number, number]): { k: number; d: number } {
   let best = 0;
   let bestD = Infinity;
   for (let k = 0; k + 1 < truth.length; k++) {

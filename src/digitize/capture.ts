@@ -123,7 +123,7 @@ function bunchDoubt(others: number): TraceDoubt {
 }
 
 function rasterOptions(request: CaptureRequest, options: CaptureOptions): RasterTraceOptions {
-  return { ...options.raster, ...(request.extent ? { extent: request.extent } : {}), ...(request.frame ? { frame: request.frame } : {}) };
+  return { ...options.raster, ...(request.extent ? { extent: request.extent } : {}), ...(request.frame ? { frame: request.frame } : {}), ...(request.siblings ? { siblings: request.siblings } : {}) };
 }
 
 /** Resamples a capture evenly (a point every `spacing` sheet units, at least 30), so fits weigh the curve evenly. */

@@ -78,6 +78,40 @@ export function sampleSection(
 }
 
 /**
+ * Like `sampleSection`, for ink of any colour: each sample is the nearest pixel's colour distance
+ * from the paper as a share of `contrast` (the line's own distance), at most 1; 0 off the image.
+ */
+export function sampleInkSection(
+  image: RasterImage,
+  paper: readonly [number, number, number],
+  contrast: number,
+  cx: number,
+  cy: number,
+  nx: number,
+  ny: number,
+  n: number,
+  spacing: number,
+  out: Float64Array,
+  counter?: ReadCounter,
+): void {
+  const { data, width, height } = image;
+  for (let j = -n; j <= n; j++) {
+    const x = Math.floor(cx + nx * j * spacing);
+    const y = Math.floor(cy + ny * j * spacing);
+    if (x < 0 || y < 0 || x >= width || y >= height) {
+      out[j + n] = 0;
+      continue;
+    }
+    const i = (y * width + x) * 4;
+    const dr = paper[0] - (data[i] as number);
+    const dg = paper[1] - (data[i + 1] as number);
+    const db = paper[2] - (data[i + 2] as number);
+    out[j + n] = Math.min(1, Math.sqrt(dr * dr + dg * dg + db * db) / contrast);
+  }
+  if (counter) counter.reads += 2 * n + 1;
+}
+
+/**
  * Like `sampleSection`, for a broken (dashed or dotted) line: each sample is the largest
  * membership along the line's direction within ±`reach` pixels of the section, so that a
  * section that falls in a gap between two dashes still sees the line. The direction is the

@@ -17,9 +17,11 @@ import { UserError } from '../model/errors.ts';
 import simplify from 'simplify-js';
 import { colourDistance, estimatePaper, inkModel, membership, MIN_CONTRAST, windowAround, type InkModel, type Rgb } from './colour.ts';
 import { chooseOffset, followLine, indexPath, stepping, type FollowLimits, type FollowResult, type LineStyle, type Pick } from './lineFollow.ts';
-import { findRuns, inkAxis, membershipAt, sampleLongSection, sampleSection, type ReadCounter, type Run } from './lineProfile.ts';
+import { findRuns, inkAxis, membershipAt, sampleInkSection, sampleLongSection, sampleSection, type ReadCounter, type Run } from './lineProfile.ts';
 import { sheetPoint, type SheetPoint } from './points.ts';
 import type { RasterImage } from './raster.ts';
+import { alongBand } from './rasterBand.ts';
+import { cutFollow, foreignGuides, foreignRun, type Locate, type RoomAt } from './rasterSiblings.ts';
 
 /** Guides or options the tracer cannot use. The message says what to change. */
 export class TraceInputError extends UserError {
@@ -45,6 +47,11 @@ export interface RasterTraceOptions {
   extent?: 'guides' | 'line';
   /** Plot frame [left, top, right, bottom] in sheet units: a whole-line trace stops at it. */
   frame?: readonly [number, number, number, number];
+  /**
+   * The guides of the sheet's other traces (`siblingGuides`), sheet units: a line that runs on to
+   * another trace's guide where that line stands alone is that trace's line, not this one's.
+   */
+  siblings?: readonly (readonly SheetPoint[])[];
 }
 
 /** A stretch the tracer could not see. */
@@ -500,13 +507,27 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
   // no ink of its colour at most other guides: the model that finds ink at the most guides wins.
   type Acquired = NonNullable<ReturnType<typeof acquire>>;
   const broken = (a: Acquired) => (a.style.reach ? 1 : 0);
+  // A guide where other lines touch the line (a bunch, a crossing) vouches for a model by half:
+  // its own line may be hidden under the others there, and what it sampled may be another
+  // line's colour. Among models that agree as well with the guides, one sampled where the line
+  // has room of its own wins.
   const candidates = px.map((g) => acquire(image, g, search, options));
-  const support = candidates.map((c) => (c && px.length > 1 ? px.filter((g) => nearestInk(image, c.style.model, g, search) !== undefined).length : 0));
+  const room = candidates.map((c) => (c ? clearance(image, c.style, c.centre, c.axis, counter) : 0));
+  const bunched = candidates.map((c, j) => c !== undefined && (room[j] as number) <= BUNCH_CLEARANCE);
+  const support = candidates.map((c) => (c && px.length > 1 ? px.reduce((sum, g, j) => sum + (nearestInk(image, c.style.model, g, search) !== undefined ? (bunched[j] ? 0.5 : 1) : 0), 0) : 0));
+  // Room counts only where the ink looks like one stroke at all (not a blob of text or a
+  // crossing) and no wider than the thinnest line measured under a guide (not lines run together).
+  const thinnest = Math.min(...candidates.map((c) => c?.style.width ?? Infinity));
+  const solo = (i: number) => {
+    const c = candidates[i] as Acquired;
+    return bunched[i] || c.isotropy > SOLO_ISOTROPY || c.style.width > SOLO_WIDTH * thinnest ? 0 : 1;
+  };
   candidates.forEach((got, i) => {
     if (!got) return;
     const s = support[i] as number;
     const best = support[first - 1] ?? -1;
-    if (!chosen || s > best || (s === best && (broken(got) > broken(chosen) || (broken(got) === broken(chosen) && got.isotropy < chosen.isotropy - 0.02)))) {
+    const tie = chosen && s === best && broken(got) === broken(chosen);
+    if (!chosen || s > best || (s === best && broken(got) > broken(chosen)) || (tie && solo(i) > solo(first - 1)) || (tie && solo(i) === solo(first - 1) && got.isotropy < chosen.isotropy - 0.02)) {
       chosen = got;
       first = i + 1;
     }
@@ -528,6 +549,21 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
   const lost: LostStretch[] = [];
 
   const snapped = px.map((g, i) => (i === first - 1 ? { centre: acquired.centre, axis: acquired.axis } : snap(image, style, g, search)));
+
+  // The other traces' guides: a follow that runs over one where its line stands alone has left
+  // this trace's line for that one, and is cut back to where it joined it.
+  const foreign = foreignGuides(options.siblings, image, px, style.width);
+  const locate: Locate = (g) => snap(image, style, g, search);
+  const roomAt: RoomAt = (centre, axis) => clearance(image, style, centre, axis, counter);
+  const ONTO_OTHER = "the line ran onto another trace's line (over that trace's guide), and was cut back to where it joined it";
+  /** Cuts a follow where it ran onto another trace's line; true when it did. */
+  const keepOffOthers = (result: FollowResult): boolean => {
+    const run = foreignRun(image, style, foreign, pairs(result.points), 1, locate, roomAt, counter);
+    if (run) cutFollow(result, run.start, ONTO_OTHER);
+    return run !== undefined;
+  };
+  /** How many points of an extension to keep before it runs onto another trace's line (all when it does not). */
+  const offOthers = (points: readonly Px[]): number | undefined => foreignRun(image, style, foreign, points, 0, locate, roomAt, counter)?.start;
   snapped.forEach((s, i) => {
     if (!s) lost.push({ at: guides[i] as SheetPoint, between: [i + 1, i + 1], reason: `guide ${i + 1} has no line of the traced colour within ${search.toFixed(0)} px` });
   });
@@ -577,6 +613,10 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
       const axis = a?.axis ?? heading ?? [to[0] - from[0], to[1] - from[1]];
       const h = heading ?? headingTowards(image, style, from, axis, to, counter);
       const fwd = followLine(image, style, from, h, to, limits, counter);
+      // A pass that came to the next guide is vouched for by both guides (another trace's guide on
+      // its way sits on a crossing or where the lines run together); one that did not may have
+      // left its line.
+      const fwdOnto = !fwd.reached && keepOffOthers(fwd);
       path.push(...pairs(fwd.points).slice(1));
       if (fwd.reached) {
         if (b) path.push(to);
@@ -598,18 +638,21 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
       const meetIndex = indexPath(fwd.track, Math.max(2, style.width));
       const backHeading = headingTowards(image, style, to, b.axis, from, counter);
       const bwd = followLine(image, style, to, backHeading, undefined, limits, counter, meetIndex);
+      const bwdOnto = bwd.met === undefined && keepOffOthers(bwd);
       const back = pairs(bwd.points).reverse();
       if (bwd.met !== undefined) {
         path.length = forwardStart - 1 + (fwd.trackPoints[bwd.met] as number);
-      } else if (fwd.merges.length > 0 && bwd.merges.length > 0) {
-        // Neither pass came out of the bundle on the other's line, so each is kept up to where
-        // it entered the bundle, and the two ends are joined smoothly through it: inside the
-        // bundle the line lies within a line width or two of its neighbours.
-        path.length = forwardStart - 1 + (fwd.merges[0] as number);
-        const kept = pairs(bwd.points).slice(0, bwd.merges[0] as number);
+      } else if ((fwd.merges.length > 0 || fwdOnto) && (bwd.merges.length > 0 || bwdOnto)) {
+        // Neither pass came out of the bundle on the other's line (or one ran onto another
+        // trace's line and was cut back), so each is kept up to where it entered the bundle, and
+        // the two ends are joined smoothly through it: inside the bundle the line lies within a
+        // line width or two of its neighbours.
+        path.length = forwardStart - 1 + (fwd.merges[0] ?? fwd.points.length / 2);
+        const kept = pairs(bwd.points).slice(0, bwd.merges[0] ?? bwd.points.length / 2);
         const p0 = path[path.length - 1] as Px;
         const p1 = kept[kept.length - 1] as Px;
-        path.push(...bridge(p0, tangentAt(path, path.length - 1, 1), p1, tangentAt(kept, kept.length - 1, -1), stepping(style.width).step));
+        // Laid along the bunch's own edges, where they can be seen.
+        path.push(...alongBand(image, style, [p0, ...bridge(p0, tangentAt(path, path.length - 1, 1), p1, tangentAt(kept, kept.length - 1, -1), stepping(style.width).step), p1], counter).slice(1, -1));
         lost.push({ at: toSheetPt(p0), resumedAt: toSheetPt(p1), between: [i + 1, i + 2], reason: 'the line runs together with other lines of its colour here; the stretch is bridged smoothly' });
         back.length = 0;
         back.push(...kept.reverse());
@@ -621,7 +664,7 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
     }
   }
 
-  if ((px.length === 1 || options.extent !== 'guides') && path.length >= 2) doubts.push(...extendToEnds(image, style, path, maxGap, options.frame, counter));
+  if ((px.length === 1 || options.extent !== 'guides') && path.length >= 2) doubts.push(...extendToEnds(image, style, path, maxGap, options.frame, counter, offOthers));
   else if (options.frame && path.length >= 2) clipToFrame(path, options.frame, image.scale, style.width);
 
   if (options.frame && options.extent !== 'guides' && path.length >= 2) {
@@ -652,39 +695,80 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
  * crossing the line shows at one place; a line running beside it, at all).
  */
 function inkBeside(image: RasterImage, style: LineStyle, centre: Px, axis: Px, counter: ReadCounter): boolean {
-  const paper = style.model.paper;
-  const full = colourDistance(paper, ...style.model.line);
-  if (full <= 0) return false;
-  const spacing = 0.5;
   const near = 3 * style.width + 3;
-  const n = Math.ceil((near + style.width) / spacing);
-  const section = new Float64Array(2 * n + 1);
-  const runs: Run[] = [];
-  const along = 2 * style.width + 4;
   let crowded = 0;
-  for (const k of [-1, 0, 1]) {
-    const cx = centre[0] + axis[0] * along * k;
-    const cy = centre[1] + axis[1] * along * k;
-    for (let j = -n; j <= n; j++) {
-      const x = Math.floor(cx - axis[1] * j * spacing);
-      const y = Math.floor(cy + axis[0] * j * spacing);
-      if (x < 0 || y < 0 || x >= image.width || y >= image.height) {
-        section[j + n] = 0;
-        continue;
-      }
-      const i = (y * image.width + x) * 4;
-      section[j + n] = Math.min(1, colourDistance(paper, image.data[i] as number, image.data[i + 1] as number, image.data[i + 2] as number) / full);
-    }
-    counter.reads += 2 * n + 1;
-    const found = findRuns(section, n, spacing, style.threshold, runs);
+  const seen = acrossAt(image, style, centre, axis, near, counter, (found) => {
     let own = -1;
     found.forEach((r, i) => {
       if (own < 0 || Math.abs(r.centre) < Math.abs((found[own] as Run).centre)) own = i;
     });
     if (found.some((r, i) => i !== own && r.mass >= 0.4 * style.width && Math.abs(r.centre) <= near)) crowded++;
-  }
-  return crowded >= 2;
+    return true;
+  });
+  return seen && crowded >= 2;
 }
+
+/**
+ * Sections of ink of any colour (as a share of the line's contrast with the paper) across the
+ * line at `centre` and two widths and 4 px either way along `axis`, reaching `near` and a width
+ * beyond; `visit` gets each section's runs and stops the walk by returning false. False when the
+ * line has no contrast to measure by.
+ */
+function acrossAt(image: RasterImage, style: LineStyle, centre: Px, axis: Px, near: number, counter: ReadCounter, visit: (found: Run[]) => boolean): boolean {
+  const paper = style.model.paper;
+  const full = colourDistance(paper, ...style.model.line);
+  if (full <= 0) return false;
+  const spacing = 0.5;
+  const n = Math.ceil((near + style.width) / spacing);
+  const section = new Float64Array(2 * n + 1);
+  const runs: Run[] = [];
+  const along = 2 * style.width + 4;
+  for (const k of [-1, 0, 1]) {
+    sampleInkSection(image, paper, full, centre[0] + axis[0] * along * k, centre[1] + axis[1] * along * k, -axis[1], axis[0], n, spacing, section, counter);
+    if (!visit(findRuns(section, n, spacing, style.threshold, runs))) break;
+  }
+  return true;
+}
+
+/**
+ * How much room the line has at `centre`, pixels: the least gap, over sections across the line at
+ * the centre and a few widths either way along `axis`, between the edge of the line's own run of
+ * ink (of any colour) and the nearest other run; 0 where the line's run is much wider than the
+ * line (other lines touch it), and the sections' reach (3 widths and 3 px) where nothing lies
+ * beside. A colour sampled where the room is small may be another line's.
+ */
+function clearance(image: RasterImage, style: LineStyle, centre: Px, axis: Px, counter: ReadCounter): number {
+  const near = 3 * style.width + 3;
+  let room = near;
+  acrossAt(image, style, centre, axis, near, counter, (found) => {
+    let own: Run | undefined;
+    for (const r of found) if (!own || Math.abs(r.centre) < Math.abs(own.centre)) own = r;
+    if (!own) return true;
+    if (own.mass > WIDE_RUN * style.width) {
+      room = 0;
+      return false;
+    }
+    for (const r of found) {
+      if (r === own || r.mass < 0.4 * style.width) continue;
+      const gap = r.centre > own.centre ? r.lowEdge - own.highEdge : own.lowEdge - r.highEdge;
+      room = Math.min(room, Math.max(0, gap));
+    }
+    return true;
+  });
+  return room;
+}
+
+/** Ink across a line, in its widths, beyond which other lines touch it there. */
+const WIDE_RUN = 1.6;
+
+/** Room beside a guide's line, pixels, up to which other lines touch it: its colour sample counts as taken in a bunch. */
+const BUNCH_CLEARANCE = 0.5;
+
+/** Isotropy of the ink under a guide above which it is not one clean stroke, whatever room it has. */
+const SOLO_ISOTROPY = 0.45;
+
+/** Width of the line under a guide, in the thinnest width measured under any, above which it is lines run together. */
+const SOLO_WIDTH = 1.5;
 
 /** Membership in the line's model below which the colour under a guide is another line's. */
 const GUIDE_MEMBERSHIP = 0.6;
@@ -702,12 +786,18 @@ export interface TraceDoubt {
  */
 interface EndDoubt {
   at: Px;
-  what: 'frame' | 'bunch' | 'bunch-end' | 'gap-beside';
+  what: 'frame' | 'bunch' | 'bunch-end' | 'gap-beside' | 'onto-other';
   /** The guide concerned (1-based), for a doubt about a guide. */
   guide?: number;
 }
 
 function doubtSentence(d: EndDoubt, at: SheetPoint): TraceDoubt {
+  if (d.what === 'onto-other') {
+    return {
+      code: 'takeoff.end-through-bunch',
+      message: `beyond its guides the line runs near ${fmt(at)} onto another trace's line (over that trace's guide), and the trace ends there; check the trace's end, or add a guide on the line beyond that place where it stands alone`,
+    };
+  }
   if (d.what === 'bunch-end') {
     return {
       code: 'takeoff.end-through-bunch',
@@ -786,7 +876,15 @@ function clipToFrame(path: Px[], frame: readonly [number, number, number, number
  * followed along the direction of the last 40 pixels of the path; what the follower accepts
  * before it loses the line for longer than `maxGap` is added, and nothing it only coasted on.
  */
-function extendToEnds(image: RasterImage, style: LineStyle, path: Px[], maxGap: number, frame: readonly [number, number, number, number] | undefined, counter: ReadCounter): EndDoubt[] {
+function extendToEnds(
+  image: RasterImage,
+  style: LineStyle,
+  path: Px[],
+  maxGap: number,
+  frame: readonly [number, number, number, number] | undefined,
+  counter: ReadCounter,
+  offOthers: (points: readonly Px[]) => number | undefined = () => undefined,
+): EndDoubt[] {
   const limits: FollowLimits = { maxGap, maxTravel: 2 * (image.width + image.height) };
   const doubts: EndDoubt[] = [];
   const outward = (stretch: Px[]): Px[] => {
@@ -800,6 +898,15 @@ function extendToEnds(image: RasterImage, style: LineStyle, path: Px[], maxGap: 
       const result = followLine(image, style, end, heading, undefined, limits, counter);
       const [inside] = judgeExtension(result, undefined, frame, image.scale, style.width);
       const smooth = keepSmooth(all, inside, style, maxGap, { image, counter, doubts });
+      // Over another trace's guide the extension is on that trace's line: it ends where it joined it.
+      const onto = offOthers(smooth);
+      if (onto !== undefined) {
+        smooth.length = onto;
+        all.push(...smooth);
+        out.push(...smooth);
+        doubts.push({ at: (smooth[smooth.length - 1] ?? end) as Px, what: 'onto-other' });
+        break;
+      }
       if (resumed >= 0 && pathLength([end, ...smooth], 0) < Math.max(FOUND_AGAIN_PX, 12 * style.width)) {
         // What was found again ends soon (a label beside the line's end, a piece of a grid
         // line): the line ended before the gap. Take the found part back.

@@ -1,27 +1,9 @@
-import { createCanvas, type SKRSContext2D } from '@napi-rs/canvas';
+import type { SKRSContext2D } from '@napi-rs/canvas';
 import { describe, expect, it } from 'vitest';
 import { sheetPoint, type SheetPoint } from '../../src/digitize/points.ts';
 import type { RasterImage } from '../../src/digitize/raster.ts';
 import { captureRasterTrace, traceRaster, TraceInputError } from '../../src/digitize/rasterTrace.ts';
-
-// Small pictures drawn here with a 2D canvas; the tracer itself only ever sees the RGBA buffer.
-function picture(width: number, height: number, draw: (ctx: SKRSContext2D) => void, scale = 1): RasterImage {
-  const canvas = createCanvas(width, height);
-  const ctx = canvas.getContext('2d');
-  ctx.fillStyle = '#ffffff';
-  ctx.fillRect(0, 0, width, height);
-  ctx.lineCap = 'round';
-  draw(ctx);
-  return { width, height, data: new Uint8ClampedArray(ctx.getImageData(0, 0, width, height).data), scale };
-}
-
-function stroke(ctx: SKRSContext2D, f: (x: number) => number, x0: number, x1: number, colour: string, width: number): void {
-  ctx.strokeStyle = colour;
-  ctx.lineWidth = width;
-  ctx.beginPath();
-  for (let x = x0; x <= x1; x += 1) (x === x0 ? ctx.moveTo(x, f(x)) : ctx.lineTo(x, f(x)));
-  ctx.stroke();
-}
+import { picture, stroke } from './rasterPictures.ts';
 
 function grid(ctx: SKRSContext2D, width: number, height: number, every: number): void {
   ctx.strokeStyle = '#c8c8c8';
