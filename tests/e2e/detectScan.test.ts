@@ -158,8 +158,20 @@ describe('finding panels and curves on a scan', () => {
     expect(new Set(found.traces.filter((t) => t.quantity === 'head').map((t) => t.diameter))).toEqual(new Set(diameters));
     await user.screenshot('3-answered');
 
+    // Nothing on a scan is read as the pump's speed: the status line says so, and so does step 5
+    // until the speed printed on the sheet is typed in step 3.
+    const rated = (minimalTakeoff(plan, `random-${SEED}.jpg`).pump as { speed_rpm: number }).speed_rpm;
+    expect(await page.textContent('#message')).toMatch(/only the workbench's starting value/);
+    await page.locator('#step-save').click(); // a look by the test, not counted
+    await settle(page);
+    expect(await page.locator('#speed-not-given').count()).toBe(1);
+    await user.click(page.locator('#step-trace'), 'step 3');
+    await user.type(page.locator('#pump-speed'), String(rated), 'speed');
+    await settle(page);
+
     // 4. Save: the curve set and the take-off file.
     const files = await saveBoth(user, page, dir, 300_000);
+    expect(await page.locator('#speed-not-given').count()).toBe(0);
     await user.screenshot('4-saved');
     writeFileSync(join(dir, 'actions.txt'), `${user.log.join('\n')}\n`);
     expect(user.actions).toBeLessThanOrEqual(MAX_ACTIONS);
@@ -175,6 +187,7 @@ describe('finding panels and curves on a scan', () => {
 
     // The curve set equals the headless take-off: of the file just saved, and `--detect` on the scan with the same answer.
     const fromBrowser = parseCurveSetJson(readFileSync(files.curveset as string, 'utf8'));
+    expect(fromBrowser.speed_rpm).toBe(rated);
     const minimal = join(dir, 'minimal.takeoff.json');
     writeFileSync(minimal, JSON.stringify({ format: 'pumpscribe.takeoff', version: 1, ...minimalTakeoff(plan, `random-${SEED}.jpg`), diameters }));
     const replayed = headless(files.takeoff as string, 'saved');

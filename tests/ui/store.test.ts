@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { Store } from '../../src/ui/store/store.ts';
-import { setPump } from '../../src/ui/store/actions/setup.ts';
+import { readFromSheet, setPump } from '../../src/ui/store/actions/setup.ts';
+import { speedNotGiven } from '../../src/ui/views/words.ts';
 import { EMPTY_DRAFT } from '../../src/ui/store/draft.ts';
 
 describe('the workbench store', () => {
@@ -28,8 +29,23 @@ describe('the workbench store', () => {
 
   it('an edit that changes nothing adds no undo step', () => {
     const store = new Store();
-    expect(store.dispatch(setPump({ speed_rpm: EMPTY_DRAFT.pump.speed_rpm }))).toBe(false);
+    expect(store.dispatch(setPump({ name: EMPTY_DRAFT.pump.name }))).toBe(false);
     expect(store.history.past).toHaveLength(0);
+  });
+
+  it('the starting speed is not taken as given: typing it, even unchanged, or reading it from the sheet vouches for it', () => {
+    const store = new Store();
+    expect(store.draft.speedGiven).toBeUndefined();
+    expect(speedNotGiven(store.draft.pump.speed_rpm)).toMatch(/^The pump's speed, 2900 rpm, is only the workbench's starting value: .* Type the speed printed on the sheet in step 3/);
+    expect(store.dispatch(setPump({ speed_rpm: EMPTY_DRAFT.pump.speed_rpm }))).toBe(true);
+    expect(store.draft.speedGiven).toBe(true);
+    expect(store.dispatch(setPump({ speed_rpm: EMPTY_DRAFT.pump.speed_rpm }))).toBe(false);
+    const read = new Store();
+    expect(read.dispatch(readFromSheet({ speed_rpm: 1450 }))).toBe(true);
+    expect(read.draft).toMatchObject({ pump: { speed_rpm: 1450 }, speedGiven: true });
+    const other = new Store();
+    other.dispatch(readFromSheet({ units: { flow: 'gpm' } }));
+    expect(other.draft.speedGiven).toBeUndefined();
   });
 
   it('replacing the draft (a restore) starts a fresh history', () => {

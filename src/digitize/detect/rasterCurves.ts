@@ -26,6 +26,9 @@ import type { RasterPanelsFound } from './rasterPanels.ts';
 import { inkBlots, readCrops, wordsOf, type Blot, type TextReader } from './rasterText.ts';
 import { curveLabel, SHEET_NUMBER, sheetNumber } from './words.ts';
 
+/** A quantity's name with its article, at the start of a sentence. */
+const LEFT_OUT_NAME: Record<Quantity, string> = { head: 'A head', efficiency: 'An efficiency', power: 'A power', npshr: 'An NPSHr' };
+
 export interface RasterCurve {
   panel: FoundPanel;
   quantity: Quantity;
@@ -252,7 +255,8 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     const best = ranked[0];
     const next = ranked[1];
     if (!best || best.d > 0.02 || (next && next.d < 2 * best.d + 0.005)) {
-      leftOut.push(`A ${c.quantity} curve on panel "${c.panel.id}" ending at flow ${c.flows[1].toPrecision(4)} does not end where exactly one head curve ends${best ? ` (nearest: ${best.h.value} at ${best.h.flows[1].toPrecision(4)})` : ''}; it is left out: trace it by hand with its diameter.`);
+      const flow = (q: number) => `${q.toPrecision(4)}${c.panel.xUnit ? ` ${c.panel.xUnit}` : ' on the flow axis'}`;
+      leftOut.push(`${LEFT_OUT_NAME[c.quantity]} curve on panel "${c.panel.id}" ending at ${flow(c.flows[1])} does not end where exactly one head curve ends${best ? ` (nearest: the ${best.h.value} head curve, ending at ${flow(best.h.flows[1])})` : ''}; it is left out: trace it by hand with its diameter.`);
       continue;
     }
     c.value = best.h.value;

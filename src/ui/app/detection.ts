@@ -7,6 +7,7 @@
  * engineer goes on by hand. The detector's questions are asked one at a time; an
  * answer (the family's labels, or the iso levels drawn) runs the labelling again.
  */
+import { speedNotGiven } from '../views/words.ts';
 import { TAKEOFF_FORMAT, TAKEOFF_VERSION } from '../../model/takeoff.ts';
 import { readDecimal } from '../../units/readNumber.ts';
 import { applyDetection, answerKind, type AnswerKind, type DetectionGiven } from '../store/actions/detected.ts';
@@ -119,7 +120,7 @@ export class Detection {
       const kept = store.draft.traces.filter((t) => t.origin !== 'detected').length + store.draft.panels.filter((p) => p.origin !== 'detected').length;
       const asks = found.questions.length ? ` ${found.questions.length} question${found.questions.length === 1 ? '' : 's'} below.` : ' Check them in the review; correct any part with the usual tools.';
       if (found.questions.length === 0) this.host.goto('review');
-      store.say(`Found ${found.panels.length} panel${found.panels.length === 1 ? '' : 's'} and ${curves} curve${curves === 1 ? '' : 's'}${isos ? ` and ${isos} iso-line${isos === 1 ? '' : 's'}` : ''}${kept ? `; ${kept} part${kept === 1 ? '' : 's'} you set kept` : ''}.${asks}`, found.questions.length ? 'caution' : 'done');
+      store.say(`Found ${found.panels.length} panel${found.panels.length === 1 ? '' : 's'} and ${curves} curve${curves === 1 ? '' : 's'}${isos ? ` and ${isos} iso-line${isos === 1 ? '' : 's'}` : ''}${kept ? `; ${kept} part${kept === 1 ? '' : 's'} you set kept` : ''}.${asks}${store.draft.speedGiven ? '' : ` ${speedNotGiven(store.draft.pump.speed_rpm)}`}`, found.questions.length || !store.draft.speedGiven ? 'caution' : 'done');
     } catch (error) {
       const e = error as Error;
       // The reader's own sentence says what is missing and that the sheet is read by hand.

@@ -100,6 +100,11 @@ export interface Draft {
    * automatic take-off; the file then carries them as its `diameters` (or `speeds`).
    */
   readonly labelsGiven?: boolean;
+  /**
+   * View only: the pump's speed was read from the sheet, typed, or loaded with a take-off file.
+   * Unset, `pump.speed_rpm` is still the workbench's starting value, which no sheet vouches for.
+   */
+  readonly speedGiven?: boolean;
   /** View only: the impeller diameters of the family, largest first, in units.diameter. */
   readonly diameters: readonly number[];
   /** View only: the kind of sheet: impeller diameters at one speed, or one impeller at several speeds. */

@@ -121,6 +121,7 @@ export function fromTakeoffFile(raw: unknown, sheet: Omit<SheetRef, 'path'>): Dr
     family: familyOfTraces(draftTraces) ?? 'diameter',
     speeds: [...new Set([...(givenSpeeds ?? []), ...draftTraces.flatMap((t) => (t.speed !== undefined ? [t.speed] : []))])].sort((a, b) => b - a),
     ...(givenDiameters || givenSpeeds ? { labelsGiven: true } : {}),
+    speedGiven: true,
     panels: draftPanels,
     traces: draftTraces,
   };

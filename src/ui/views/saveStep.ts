@@ -2,7 +2,7 @@
 import { h } from '../dom/h.ts';
 import type { Bench } from '../app/bench.ts';
 import { chartUnits } from './familyChart.ts';
-import { choiceWords } from './words.ts';
+import { choiceWords, speedNotGiven } from './words.ts';
 
 export function saveStep(bench: Bench): HTMLElement {
   const { derived, store } = bench;
@@ -13,6 +13,7 @@ export function saveStep(bench: Bench): HTMLElement {
   const hasTakeoff = derived.takeoff !== null;
   return h('div', { class: 'step-body' },
     h('p', { class: 'hint' }, 'The take-off file keeps the anchors, guides and points, so the work can be resumed, checked and replayed. Keep it next to its sheet.'),
+    store.draft.speedGiven ? null : h('p', { class: 'cal bad', id: 'speed-not-given', role: 'alert' }, speedNotGiven(store.draft.pump.speed_rpm)),
     h('div', { class: 'buttons' },
       h('button', { type: 'button', id: 'download-takeoff', class: 'primary', disabled: !hasTakeoff, onclick: () => bench.download('takeoff') }, 'Download the take-off file'),
       h('button', { type: 'button', id: 'download-curveset', disabled: !ready, onclick: () => bench.download('curveset') }, 'Download the curve set'),
@@ -24,3 +25,4 @@ export function saveStep(bench: Bench): HTMLElement {
     h('p', { class: 'hint' }, 'To resume later, open the take-off file together with its sheet in step 1. The work is also kept in this browser after every edit.'),
   );
 }
+

@@ -65,7 +65,7 @@ export function traceStep(bench: Bench): HTMLElement {
 
   return h('div', { class: 'step-body' },
     h('div', { class: 'field' }, h('label', { for: 'pump-speed' }, 'Speed'),
-      h('input', { id: 'pump-speed', type: 'number', min: '1', step: 'any', value: String(draft.pump.speed_rpm), onchange: (e: Event) => store.dispatch(typedNumber((e.target as HTMLInputElement).value, 'The speed', (v) => setPump({ speed_rpm: v }), { sign: 'positive' })) }),
+      h('input', { id: 'pump-speed', type: 'number', min: '1', step: 'any', value: draft.speedGiven ? String(draft.pump.speed_rpm) : '', placeholder: draft.speedGiven ? '' : `${draft.pump.speed_rpm}, not yet given`, onchange: (e: Event) => store.dispatch(typedNumber((e.target as HTMLInputElement).value, 'The speed', (v) => setPump({ speed_rpm: v }), { sign: 'positive' })) }),
       h('span', { class: 'unit' }, 'rpm, as stated on the sheet')),
     ...familyKindFields(bench),
     h('fieldset', { class: 'next' },

@@ -63,3 +63,8 @@ export function curveLabelText(label: { diameter?: number | undefined; speed?: n
   if (label.speed !== undefined) return ratedRpm ? speedWithShare(label.speed, ratedRpm) : `${num(label.speed, 6)} rpm`;
   return `${label.diameter === undefined ? '?' : num(label.diameter)} ${unitText(diameterUnit)}`;
 }
+
+/** The sentence shown while the pump's speed is still the starting value (see Draft.speedGiven). */
+export function speedNotGiven(rpm: number): string {
+  return `The pump's speed, ${rpm} rpm, is only the workbench's starting value: it was neither read from the sheet nor typed. Type the speed printed on the sheet in step 3 (Speed) before you save, since the curve set, its affinity checks and every duty study are at that speed.`;
+}

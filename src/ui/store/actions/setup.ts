@@ -35,9 +35,11 @@ export const setPump = (patch: Partial<PumpDraft>): Action => (draft) => {
   if (patch.speed_rpm !== undefined) requirePositive(patch.speed_rpm, 'The speed');
   if (patch.specific_gravity !== undefined) requirePositive(patch.specific_gravity, 'The specific gravity');
   const pump = { ...draft.pump, ...patch };
-  if (JSON.stringify(pump) === JSON.stringify(draft.pump)) return null;
+  // Typing the speed vouches for it, also when it equals the starting value.
+  const given = patch.speed_rpm !== undefined && !draft.speedGiven;
+  if (JSON.stringify(pump) === JSON.stringify(draft.pump) && !given) return null;
   const what = Object.keys(patch).map((k) => k.replace('_rpm', '').replace('_', ' ')).join(', ');
-  return edited({ ...draft, pump }, `set pump ${what}`);
+  return edited({ ...draft, pump, ...(given ? { speedGiven: true } : {}) }, `set pump ${what}`);
 };
 
 export const setUnits = (patch: Partial<UnitsDraft>): Action => (draft) => {
@@ -110,7 +112,7 @@ export const setFamilyKind = (family: FamilyKind): Action => (draft) => {
 /** Details read from the sheet's text (speed, diameters, units), taken in one undoable step. */
 export const readFromSheet = (found: { speed_rpm?: number; diameters?: readonly number[]; units?: Partial<UnitsDraft> }): Action => (draft) => {
   let next = draft;
-  if (found.speed_rpm !== undefined) next = { ...next, pump: { ...next.pump, speed_rpm: requirePositive(found.speed_rpm, 'The speed') } };
+  if (found.speed_rpm !== undefined) next = { ...next, pump: { ...next.pump, speed_rpm: requirePositive(found.speed_rpm, 'The speed') }, speedGiven: true };
   if (found.units) {
     const canonical: Partial<Record<keyof UnitsDraft, string>> = {};
     for (const [key, token] of Object.entries(found.units) as [keyof UnitsDraft, string | undefined][]) {
