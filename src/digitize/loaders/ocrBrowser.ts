@@ -73,8 +73,9 @@ async function start(options: BrowserReaderOptions): Promise<Worker> {
   const limit = new Promise<never>((_, reject) => {
     timer = setTimeout(() => reject(new OcrUnavailableError(`it did not start within ${START_LIMIT_MS / 1000} s`)), START_LIMIT_MS);
   });
+  let started: Promise<Worker> | undefined;
   try {
-    const started = createWorker('eng', OEM.LSTM_ONLY, {
+    started = createWorker('eng', OEM.LSTM_ONLY, {
       workerPath: new URL(OCR_FILES.worker, base).href,
       corePath: new URL(OCR_FILES.core, base).href,
       langPath: new URL(OCR_FILES.language, base).href.replace(/\/$/, ''),
@@ -91,6 +92,8 @@ async function start(options: BrowserReaderOptions): Promise<Worker> {
     ready = true;
     return worker;
   } catch (error) {
+    // A recogniser that starts after the limit is ended at once, so no worker is left behind.
+    if (!ready) void started?.then((late) => late.terminate(), () => undefined);
     if (error instanceof OcrUnavailableError) throw error;
     // tesseract.js rejects with the worker's error event's message, which may be empty.
     const text = error instanceof Error ? error.message : typeof error === 'string' && error ? error : 'its worker failed to start';
