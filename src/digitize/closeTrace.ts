@@ -47,7 +47,14 @@ export type CloseOutcome = { kind: 'close'; traced: RasterTraceResult; scale: nu
  */
 export async function closeRetrace(working: RasterTraceResult, workingScale: number, guides: readonly SheetPoint[], options: RasterTraceOptions, read: RegionReader): Promise<CloseOutcome> {
   if (working.points.length < 2 || working.lost.length > 0) return { kind: 'kept', note: 'The trace was not re-traced at full resolution, because the working trace is incomplete; add guides where the line was lost.' };
-  const region = await read(regionBox(working.points, guides, options.frame));
+  let region: RegionRaster | string;
+  try {
+    region = await read(regionBox(working.points, guides, options.frame));
+  } catch (error) {
+    // The working trace stands on its own: a file that cannot be read again costs only the refinement.
+    const said = (error as Error).message || 'the file could not be read again';
+    region = said.charAt(0).toLowerCase() + said.slice(1);
+  }
   if (typeof region === 'string') return { kind: 'kept', note: `The trace was not re-traced at full resolution: ${region.replace(/\.$/, '')}.` };
   const [ox, oy] = region.origin;
   const shift = (p: SheetPoint, sign: 1 | -1) => sheetPoint(p[0] + sign * ox, p[1] + sign * oy);

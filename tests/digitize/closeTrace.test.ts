@@ -68,6 +68,13 @@ describe('close re-trace at the file resolution', () => {
     expect(refused).toEqual({ kind: 'kept', note: "The trace was not re-traced at full resolution: its panel spans 52.0 megapixels at the file's resolution, over the 40 megapixel working limit." });
   });
 
+  it('keeps the working trace when reading the file again fails', async () => {
+    const failed = await closeRetrace(first, working.scale, guides, { extent: 'line' }, async () => {
+      throw new Error('The image is a damaged JPEG file and cannot be decoded; scan or export it again.');
+    });
+    expect(failed).toEqual({ kind: 'kept', note: 'The trace was not re-traced at full resolution: the image is a damaged JPEG file and cannot be decoded; scan or export it again.' });
+  });
+
   it('reads the panel frame with a margin, so all traces of a panel share one read', () => {
     expect(regionBox([sheetPoint(10, 10)], [], [100, 50, 1100, 650])).toEqual([70, 32, 1130, 668]);
   });
