@@ -7,7 +7,7 @@
  * (chooseDegree.ts); a curve that cannot be fitted keeps its points and gets a `fail`
  * finding instead of stopping the build, so no captured work is thrown away.
  */
-import { CURVESET_FORMAT, CURVESET_VERSION, CurveSet, type Curve, type CurvePoint, type DisplayUnits, type DrawnAs, type Finding, type Fluid, type Member, type Provenance, type Pump, type Quantity } from '../model/curveset.ts';
+import { CURVESET_FORMAT, CURVESET_VERSION, CurveSet, QUANTITY_WORDS, type Curve, type CurvePoint, type DisplayUnits, type DrawnAs, type Finding, type Fluid, type Member, type Provenance, type Pump, type Quantity } from '../model/curveset.ts';
 import { TOOL_NAME, TOOL_VERSION } from '../version.ts';
 import { displayFor, makeFinding, runChecks, sortFindings } from './checks/index.ts';
 import { chooseDegree } from './chooseDegree.ts';
@@ -63,7 +63,7 @@ export interface BuildInput {
 }
 
 const QUANTITY_ORDER: Quantity[] = ['head', 'efficiency', 'power', 'npshr'];
-const NAMES: Record<Quantity, string> = { head: 'head', efficiency: 'efficiency', power: 'power', npshr: 'NPSHr' };
+const NAMES = QUANTITY_WORDS;
 
 function defaultAccuracy(members: MemberInput[], quantity: Quantity): number {
   if (quantity === 'efficiency') return 0.005;

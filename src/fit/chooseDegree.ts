@@ -26,7 +26,7 @@
  *
  * Efficiency is fitted through the origin (no efficiency at zero flow).
  */
-import { PolynomialFit, type CurvePoint, type Quantity } from '../model/curveset.ts';
+import { PolynomialFit, QUANTITY_WORDS, type CurvePoint, type Quantity } from '../model/curveset.ts';
 import { FitError } from './fitError.ts';
 import { evaluateUnchecked, linspace } from './polynomial.ts';
 import { fitPolynomial, type PolynomialFitResult } from './polyfit.ts';
@@ -77,7 +77,7 @@ const F_TEST_LEVEL = 0.05;
 /** Smallest relative RMS drop that counts as an improvement. */
 const MEANINGFUL_RMS_DROP = 0.1;
 
-const NAMES: Record<Quantity, string> = { head: 'head', efficiency: 'efficiency', power: 'power', npshr: 'NPSHr' };
+const NAMES = QUANTITY_WORDS;
 /** The unit a fit's figures are written in: the SI unit of the quantity (efficiency, a fraction, in %). */
 const figureUnit = (quantity: Quantity): string => (quantity === 'efficiency' ? '%' : labelOf(SI_BASE[QUANTITY_KIND[quantity]]));
 

@@ -45,6 +45,9 @@ export const QUANTITIES = ['head', 'efficiency', 'power', 'npshr'] as const;
 export const Quantity = z.enum(QUANTITIES);
 export type Quantity = z.infer<typeof Quantity>;
 
+/** Each quantity as a word inside a sentence ("the NPSHr curve"); the one map every message uses. */
+export const QUANTITY_WORDS: Readonly<Record<Quantity, string>> = { head: 'head', efficiency: 'efficiency', power: 'power', npshr: 'NPSHr' };
+
 /** A captured point: [flow m³/s, value in SI]. */
 export const CurvePoint = z.tuple([finite, finite]);
 export type CurvePoint = z.infer<typeof CurvePoint>;

@@ -14,7 +14,7 @@
  *
  * Pure: the raster, the found panels and the character reader are handed in.
  */
-import type { Quantity } from '../../model/curveset.ts';
+import { QUANTITY_WORDS, type Quantity } from '../../model/curveset.ts';
 import { captureRasterTrace } from '../rasterTrace.ts';
 import { sheetPoint, type SheetPoint } from '../points.ts';
 import type { RasterImage } from '../raster.ts';
@@ -26,8 +26,6 @@ import type { RasterPanelsFound } from './rasterPanels.ts';
 import { inkBlots, readCrops, wordsOf, type Blot, type TextReader } from './rasterText.ts';
 import { curveLabel, SHEET_NUMBER, sheetNumber } from './words.ts';
 
-/** A quantity's name with its article, at the start of a sentence. */
-const LEFT_OUT_NAME: Record<Quantity, string> = { head: 'A head', efficiency: 'An efficiency', power: 'A power', npshr: 'An NPSHr' };
 
 export interface RasterCurve {
   panel: FoundPanel;
@@ -256,7 +254,7 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     const next = ranked[1];
     if (!best || best.d > 0.02 || (next && next.d < 2 * best.d + 0.005)) {
       const flow = (q: number) => `${q.toPrecision(4)}${c.panel.xUnit ? ` ${c.panel.xUnit}` : ' on the flow axis'}`;
-      leftOut.push(`${LEFT_OUT_NAME[c.quantity]} curve on panel "${c.panel.id}" ending at ${flow(c.flows[1])} does not end where exactly one head curve ends${best ? ` (nearest: the ${best.h.value} head curve, ending at ${flow(best.h.flows[1])})` : ''}; it is left out: trace it by hand with its diameter.`);
+      leftOut.push(`${c.quantity === 'efficiency' || c.quantity === 'npshr' ? 'An' : 'A'} ${QUANTITY_WORDS[c.quantity]} curve on panel "${c.panel.id}" ending at ${flow(c.flows[1])} does not end where exactly one head curve ends${best ? ` (nearest: the ${best.h.value} head curve, ending at ${flow(best.h.flows[1])})` : ''}; it is left out: trace it by hand with its diameter.`);
       continue;
     }
     c.value = best.h.value;

@@ -12,11 +12,11 @@
  *   but this one lacks: the curve's rows were probably given another diameter.
  */
 import type { CurveSet, Finding, Member, Quantity } from '../../model/curveset.ts';
-import { QUANTITIES } from '../../model/curveset.ts';
+import { QUANTITIES, QUANTITY_WORDS } from '../../model/curveset.ts';
 import type { Display } from './display.ts';
 import { makeFinding } from './finding.ts';
 
-const NAMES: Record<Quantity, string> = { head: 'head', efficiency: 'efficiency', power: 'power', npshr: 'NPSHr' };
+const NAMES = QUANTITY_WORDS;
 const METHOD = 'Each impeller of a sheet has a head curve, and the curves drawn for one impeller are drawn for its neighbours (common practice)';
 
 const has = (m: Member, q: Quantity) => (m.curves[q]?.points.length ?? 0) > 0 || m.curves[q]?.fit !== undefined;

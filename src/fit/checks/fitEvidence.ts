@@ -9,7 +9,7 @@
  *   `fit.misses-accuracy` margin) only because a higher degree that met it had an implausible
  *   shape (shape.ts): a real fallback to a coarser curve is said, never silent.
  */
-import type { CurvePoint, Finding, Member, PolynomialFit, Quantity } from '../../model/curveset.ts';
+import { QUANTITY_WORDS, type CurvePoint, type Finding, type Member, type PolynomialFit, type Quantity } from '../../model/curveset.ts';
 import type { Display } from './display.ts';
 import { makeFinding } from './finding.ts';
 import { fitMissesAccuracy, MISS_FAIL, MISS_WARN, OFF_CURVE_FACTOR, pointsOffTheirCurve } from './pointEvidence.ts';
@@ -28,7 +28,7 @@ export interface FitEvidenceInput {
   refusedForShape?: { degree: number; rms: number; problems: readonly string[] } | undefined;
 }
 
-const NAMES: Record<Quantity, string> = { head: 'head', efficiency: 'efficiency', power: 'power', npshr: 'NPSHr' };
+const NAMES = QUANTITY_WORDS;
 /** Points named in one finding; the rest are counted. */
 const NAMED = 3;
 

@@ -11,13 +11,13 @@
  * shifted or copied from another curve does (halving an NPSHr fit misses by about 100 times).
  */
 import type { CurveSet, Finding, Quantity } from '../../model/curveset.ts';
-import { QUANTITIES } from '../../model/curveset.ts';
+import { QUANTITIES, QUANTITY_WORDS } from '../../model/curveset.ts';
 import type { Display } from './display.ts';
 import { makeFinding } from './finding.ts';
 import { valueText } from './fitEvidence.ts';
 import { residualsOf } from './pointEvidence.ts';
 
-const NAMES: Record<Quantity, string> = { head: 'head', efficiency: 'efficiency', power: 'power', npshr: 'NPSHr' };
+const NAMES = QUANTITY_WORDS;
 
 /** The build's default reading accuracy for a quantity of this family (SI). */
 export function defaultReadingAccuracy(set: Pick<CurveSet, 'members'>, quantity: Quantity): number {

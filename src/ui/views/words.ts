@@ -14,7 +14,7 @@ export const STEP_TITLES: Record<Step, string> = {
 export const QUANTITY_NAMES: Record<Quantity, string> = { head: 'Head', efficiency: 'Efficiency', power: 'Power', npshr: 'NPSHr' };
 
 /** The same names inside a sentence. */
-export const QUANTITY_WORDS: Record<Quantity, string> = { head: 'head', efficiency: 'efficiency', power: 'power', npshr: 'NPSHr' };
+export { QUANTITY_WORDS } from '../../model/curveset.ts';
 
 /** Units offered per axis: every unit src/units knows for the kind. */
 export const UNIT_CHOICES: Readonly<Record<'flow' | 'head' | 'power' | 'efficiency' | 'diameter', readonly string[]>> = {
