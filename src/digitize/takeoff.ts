@@ -282,7 +282,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
       panel: trace.panel,
       length,
       lostLength: lostLength(o.lost ?? [], trace),
-      refusedGuides: (o.lost ?? []).filter((l) => l.between[0] === l.between[1]).length,
+      refusedGuides: refusedGuides(o.lost ?? [], o.points, o.lineWidth),
       axisFlow: panelOf(trace)?.x_scale === 'log' ? undefined : axisFlow(panelOf(trace)?.anchors ?? [], u.flow),
     };
   });
@@ -420,6 +420,21 @@ function valueSpan(anchors: readonly { y?: number | undefined }[]): number | und
 function axisFlow(anchors: readonly { x?: number | undefined }[], unit: Unit): [number, number] | undefined {
   const xs = anchors.flatMap((a) => (a.x === undefined ? [] : [toSI(a.x, unit)]));
   return xs.length >= 2 ? [Math.min(...xs), Math.max(...xs)] : undefined;
+}
+
+/** Distance from a refused guide, in widths of the followed line (and at least one sheet unit), within which the trace still honours it. */
+export const REFUSED_GUIDE_WIDTHS = 3;
+
+/**
+ * Guides of a raster capture that found no line of the traced colour near them (a `lost`
+ * entry naming one guide) and that the trace does not pass: the line the user pointed at there
+ * may not be the one followed. A guide the trace passes within REFUSED_GUIDE_WIDTHS line widths
+ * of was refused only because its line was hidden there (under a crossing line, in a dash gap):
+ * the followed line runs where the user placed it, so it does not count.
+ */
+export function refusedGuides(lost: readonly LostStretch[], points: readonly SheetPoint[], lineWidth: number | undefined): number {
+  const near = Math.max(1, REFUSED_GUIDE_WIDTHS * (lineWidth ?? 0));
+  return lost.filter((l) => l.between[0] === l.between[1] && !(lineWidth !== undefined && points.length >= 2 && nearestOnPolyline(points, l.at).distance <= near)).length;
 }
 
 /** Sheet length of the stretches a raster capture did not see: to where it was seen again, or to the next guide. */

@@ -86,11 +86,17 @@ function memberOf(t: AuditedTrace): { kind: 'diameter' | 'speed'; value: number 
   return undefined;
 }
 
+/** A member's diameter or speed, for traces known to have one; Q scales with either. */
+const memberValue = (t: AuditedTrace): number => memberOf(t)?.value as number;
+
 export function auditTraces(traces: readonly AuditedTrace[], flowText: (q: number) => string): AuditFinding[] {
   const out: AuditFinding[] = [];
   const curves = traces.filter((t) => t.iso === undefined && t.diameter !== undefined && t.flows.length >= 2);
+  // A speed family's traces get the same per-trace checks; their coverage is compared within
+  // the speed family, scaled by speed (Q ∝ n, as Q ∝ D for a diameter family).
+  const speedCurves = traces.filter((t) => t.iso === undefined && t.diameter === undefined && t.speed !== undefined && t.flows.length >= 2);
 
-  for (const t of curves) {
+  for (const [family, t] of [...curves.map((t) => [curves, t] as const), ...speedCurves.map((t) => [speedCurves, t] as const)]) {
     if (t.how !== 'raster') continue;
     const share = t.length > 0 ? t.lostLength / t.length : 0;
     if (share > LOST_SHARE_FAIL || t.refusedGuides > 0) {
@@ -129,14 +135,14 @@ export function auditTraces(traces: readonly AuditedTrace[], flowText: (q: numbe
     // Coverage against the traces of the same quantity (scaled by diameter, Q ∝ D) and the
     // traces of the same diameter: a followed line that stops early was lost or cut at a label.
     const [q0, q1] = range(t);
-    const d = t.diameter as number;
-    const same = curves.filter((o) => o !== t && o.quantity === t.quantity);
+    const d = memberValue(t);
+    const same = family.filter((o) => o !== t && o.quantity === t.quantity);
     // An NPSHr curve is drawn to the end of its diameter's head curve (common practice), but
     // the head curve need not be drawn as far as an NPSHr curve drawn for the whole family.
-    const mine = curves.filter((o) => o !== t && o.diameter === d && (t.quantity === 'npshr' ? o.quantity === 'head' : o.quantity !== 'npshr'));
+    const mine = family.filter((o) => o !== t && memberValue(o) === d && (t.quantity === 'npshr' ? o.quantity === 'head' : o.quantity !== 'npshr'));
     // The farthest neighbour sets the bar: when several lines were lost alike, a median would
     // excuse them all, and a flag too many costs a look, a miss costs a wrong number.
-    const ends = [...same.map((o) => (range(o)[1] * d) / (o.diameter as number)), ...mine.map((o) => range(o)[1])];
+    const ends = [...same.map((o) => (range(o)[1] * d) / memberValue(o)), ...mine.map((o) => range(o)[1])];
     const expectedEnd = ends.length > 0 ? Math.max(...ends) : q1;
     const starts = same.map((o) => range(o)[0] / range(o)[1]);
     const expectedStart = starts.length > 0 ? Math.min(...starts) : q0 / q1;
@@ -164,7 +170,7 @@ export function auditTraces(traces: readonly AuditedTrace[], flowText: (q: numbe
       });
       continue;
     }
-    const reach = familyReach(t, curves);
+    const reach = familyReach(t, family);
     if (reach) {
       out.push({
         code: 'takeoff.trace-reach',
@@ -235,31 +241,32 @@ export const REACH_START_SHARE = 0.2;
 function familyReach(t: AuditedTrace, curves: readonly AuditedTrace[]): { why: string; late: boolean; from: number; to: number } | undefined {
   if (t.how !== 'raster') return undefined;
   const [q0, q1] = range(t);
-  const d = t.diameter as number;
+  const d = memberValue(t);
+  const member = t.diameter !== undefined ? 'diameter' : 'speed';
   if (t.quantity === 'efficiency' || t.quantity === 'power') {
     let best: AuditedTrace | undefined;
     let end = 0;
     for (const o of curves) {
       if (o.quantity !== 'head' || o.how !== 'raster') continue;
-      const e = (range(o)[1] * d) / (o.diameter as number);
+      const e = (range(o)[1] * d) / memberValue(o);
       if (e > end) {
         end = e;
         best = o;
       }
     }
-    if (best && q1 < REACH_END_SHARE * end) return { why: `the head trace ${best.id} (${best.describe}), scaled to this diameter,`, late: false, from: q0, to: end };
+    if (best && q1 < REACH_END_SHARE * end) return { why: `the head trace ${best.id} (${best.describe}), scaled to this ${member},`, late: false, from: q0, to: end };
   }
   let first: AuditedTrace | undefined;
   let start = Infinity;
   for (const o of curves) {
     if (o === t || o.quantity !== t.quantity || o.how !== 'raster') continue;
-    const s = (range(o)[0] * d) / (o.diameter as number);
+    const s = (range(o)[0] * d) / memberValue(o);
     if (s < start) {
       start = s;
       first = o;
     }
   }
-  if (first && q0 > start + REACH_START_SHARE * q1) return { why: `the trace ${first.id} (${first.describe}), scaled to this diameter,`, late: true, from: start, to: q1 };
+  if (first && q0 > start + REACH_START_SHARE * q1) return { why: `the trace ${first.id} (${first.describe}), scaled to this ${member},`, late: true, from: start, to: q1 };
   return undefined;
 }
 

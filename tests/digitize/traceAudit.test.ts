@@ -135,6 +135,29 @@ describe('trace audit', () => {
     expect(heads[0]?.message).toMatch(/where a faster speed's head lies above a slower one's everywhere/);
   });
 
+  it('gives a speed family\'s traces the per-trace checks, scaling coverage by speed (Q ∝ n)', () => {
+    const bySpeed = (id: string, quantity: AuditedTrace['quantity'], rpm: number, from: number, to: number, extra: Partial<AuditedTrace> = {}): AuditedTrace => ({
+      ...trace(id, quantity, 0, from, to, extra),
+      diameter: undefined,
+      speed: rpm,
+      describe: `${quantity} at ${rpm} rpm`,
+    });
+    // Invented: 1750 rpm runs to 0.1 m³/s, 1400 rpm to 0.08 (0.1 × 1400/1750).
+    const speeds = [bySpeed('h1750', 'head', 1750, 0, 0.1), bySpeed('h1400', 'head', 1400, 0, 0.08), bySpeed('p1750', 'power', 1750, 0, 0.1), bySpeed('p1400', 'power', 1400, 0, 0.08)];
+    expect(auditTraces(speeds, text)).toEqual([]);
+    // Stopping at 0.05 where Q ∝ n says 0.08: short, named by its speed.
+    const short = auditTraces([...speeds.slice(0, 3), bySpeed('p1400', 'power', 1400, 0, 0.05)], text);
+    expect(short.map((f) => [f.code, f.trace])).toEqual([['takeoff.trace-short', 'p1400']]);
+    expect(short[0]?.message).toMatch(/^Trace p1400 \(power at 1400 rpm\) covers flows/);
+    // Mostly bridged, or a guide that found no line: untrusted, as for a diameter family.
+    const lost = auditTraces([...speeds.slice(0, 3), bySpeed('p1400', 'power', 1400, 0, 0.08, { lostLength: 80 })], text);
+    expect(lost.map((f) => [f.code, f.severity, f.trace])).toEqual([['takeoff.trace-untrusted', 'fail', 'p1400']]);
+    const refused = auditTraces([...speeds.slice(0, 3), bySpeed('p1400', 'power', 1400, 0, 0.08, { refusedGuides: 1 })], text);
+    expect(refused.map((f) => f.code)).toEqual(['takeoff.trace-untrusted']);
+    // A speed trace is never held against a diameter trace.
+    expect(auditTraces([...speeds, trace('h370', 'head', 370, 0, 0.3)], text)).toEqual([]);
+  });
+
   it('fails a trace that runs level over a fifth of the flow axis (a grid line), and passes a flat-topped head curve', () => {
     const q = Array.from({ length: 120 }, (_, i) => (0.1 * i) / 119);
     const axis = { axisFlow: [0, 0.12] as const, valueSpan: 100 };
