@@ -52,6 +52,14 @@ export interface AuditFinding {
 export const LOST_SHARE_FAIL = 0.1;
 /** A trace ending before this share of the end its neighbours imply is cut short (affinity: Q ∝ D). */
 export const END_SHORT_SHARE = 0.85;
+/**
+ * An NPSHr trace ending before this share of its own head trace's end flow is cut short: an
+ * NPSHr curve is drawn to the end of its diameter's head curve (common practice). Closer than
+ * END_SHORT_SHARE, since the bar is one curve of the same member, not the family scaled; set on
+ * the random bed (seeds 1–200, scripts/randomSheets), where it newly flags one wrong trace that
+ * had no finding (NPSHr ending at 0.89 of its head's end) and no sound one.
+ */
+export const NPSHR_HEAD_END_SHARE = 0.95;
 /** A curve starting later than its neighbours by more than this share of its end flow is cut at its start. */
 export const START_LATE_SHARE = 0.15;
 /**
@@ -147,6 +155,9 @@ export function auditTraces(traces: readonly AuditedTrace[], flowText: (q: numbe
     const starts = same.map((o) => range(o)[0] / range(o)[1]);
     const expectedStart = starts.length > 0 ? Math.min(...starts) : q0 / q1;
     const short = q1 < END_SHORT_SHARE * expectedEnd;
+    // An NPSHr trace held against its own head trace, closer than against the family.
+    const headEnd = t.quantity === 'npshr' ? Math.max(0, ...mine.map((o) => range(o)[1])) : 0;
+    const shortOfHead = !short && headEnd > 0 && q1 < NPSHR_HEAD_END_SHARE * headEnd;
     const late = q0 / q1 > expectedStart + START_LATE_SHARE;
     const axis = t.axisFlow ? Math.abs(t.axisFlow[1] - t.axisFlow[0]) : 0;
     if (axis > 0 && q1 - q0 < AXIS_SHARE_MIN * axis) {
@@ -156,6 +167,16 @@ export function auditTraces(traces: readonly AuditedTrace[], flowText: (q: numbe
         trace: t.id,
         message: `Trace ${t.id} (${t.describe}) covers flows ${flowText(q0)} to ${flowText(q1)}, only ${Math.round((100 * (q1 - q0)) / axis)} % of its panel's flow axis; the line was probably lost where it runs together with others, at a label or in a gap. Add a guide near each end of this line where it stands alone, or give its points.`,
         figures: { flow_from: q0, flow_to: q1, axis_share: (q1 - q0) / axis },
+      });
+      continue;
+    }
+    if (shortOfHead && !late && !(axis > 0 && q1 - q0 < AXIS_SHARE_MIN * axis)) {
+      out.push({
+        code: 'takeoff.trace-short',
+        severity: 'fail',
+        trace: t.id,
+        message: `Trace ${t.id} (${t.describe}) ends at ${flowText(q1)}, while the head trace of the same ${t.diameter !== undefined ? 'diameter' : 'speed'} runs to ${flowText(headEnd)}, and an NPSHr curve is drawn to the end of its head curve; the line was probably lost in a gap or where it runs together with others. Add a guide near the end of this line, or give its points; if the sheet itself stops it there, give its points to confirm.`,
+        figures: { flow_from: q0, flow_to: q1, expected_to: headEnd },
       });
       continue;
     }

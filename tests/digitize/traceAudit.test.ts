@@ -135,6 +135,17 @@ describe('trace audit', () => {
     expect(heads[0]?.message).toMatch(/where a faster speed's head lies above a slower one's everywhere/);
   });
 
+  it('fails an NPSHr trace ending before 95 % of its own head trace\'s end, and passes one drawn to it', () => {
+    const heads = [trace('h370', 'head', 370, 0, 0.1), trace('h330', 'head', 330, 0, 0.089)];
+    const npshr = (to: number) => auditTraces([...heads, trace('n370', 'npshr', 370, 0.02, to), trace('n330', 'npshr', 330, 0.018, 0.089)], text);
+    expect(npshr(0.1)).toEqual([]);
+    expect(npshr(0.096)).toEqual([]);
+    // 0.09 of 0.1: within the family's 85 % bar, but short of its own head curve's end.
+    const found = npshr(0.09);
+    expect(found.map((f) => [f.code, f.severity, f.trace])).toEqual([['takeoff.trace-short', 'fail', 'n370']]);
+    expect(found[0]?.message).toMatch(/while the head trace of the same diameter runs to 0\.100 m³\/s/);
+  });
+
   it('gives a speed family\'s traces the per-trace checks, scaling coverage by speed (Q ∝ n)', () => {
     const bySpeed = (id: string, quantity: AuditedTrace['quantity'], rpm: number, from: number, to: number, extra: Partial<AuditedTrace> = {}): AuditedTrace => ({
       ...trace(id, quantity, 0, from, to, extra),
