@@ -223,54 +223,39 @@ const FORK_HISTORY_WIDTHS = 15;
  * fewer than six clean points or too short a chord make the parabola meaningless.
  */
 export function courseOffset(points: readonly number[], clean: readonly boolean[], history: number, qx: number, qy: number, nx: number, ny: number): number | undefined {
-  const count = points.length / 2;
-  let last = count - 1;
-  while (last >= 0 && !clean[last]) last--;
-  if (last < 5) return undefined;
-  const ex = points[last * 2] as number;
-  const ey = points[last * 2 + 1] as number;
-  let k = last;
-  let length = 0;
-  while (k > 0 && length < history) {
-    length += Math.hypot((points[k * 2] as number) - (points[(k - 1) * 2] as number), (points[k * 2 + 1] as number) - (points[(k - 1) * 2 + 1] as number));
-    k--;
-  }
-  const ax = points[k * 2] as number;
-  const ay = points[k * 2 + 1] as number;
-  const chord = Math.hypot(ex - ax, ey - ay);
+  // The last clean point, and the first point of the stretch of `history` pixels that ends there.
+  const end = clean.lastIndexOf(true);
+  if (end < 5) return undefined;
+  const ex = points[2 * end] as number;
+  const ey = points[2 * end + 1] as number;
+  let from = end;
+  for (let along = 0; from > 0 && along < history; from--) along += Math.hypot((points[2 * from] as number) - (points[2 * from - 2] as number), (points[2 * from + 1] as number) - (points[2 * from - 1] as number));
+  const chord = Math.hypot(ex - (points[2 * from] as number), ey - (points[2 * from + 1] as number));
   if (chord < 0.5 * history) return undefined;
+  const ax = points[2 * from] as number;
+  const ay = points[2 * from + 1] as number;
   const ux = (ex - ax) / chord;
   const uy = (ey - ay) / chord;
-  let n = 0;
-  let st = 0;
-  let st2 = 0;
-  let st3 = 0;
-  let st4 = 0;
-  let sy = 0;
-  let sty = 0;
-  let st2y = 0;
-  for (let i = k; i <= last; i++) {
+  // y = c0 + c1·t + c2·t², t = along / chord, y across (v = (−uy, ux)), by least squares.
+  const powers = [0, 0, 0, 0, 0];
+  const moments = [0, 0, 0];
+  for (let i = from; i <= end; i++) {
     if (!clean[i]) continue;
-    const px = (points[i * 2] as number) - ex;
-    const py = (points[i * 2 + 1] as number) - ey;
-    const t = (px * ux + py * uy) / chord;
-    const y = -px * uy + py * ux;
-    n++;
-    st += t;
-    st2 += t * t;
-    st3 += t * t * t;
-    st4 += t * t * t * t;
-    sy += y;
-    sty += t * y;
-    st2y += t * t * y;
+    const dx = (points[i * 2] as number) - ex;
+    const dy = (points[i * 2 + 1] as number) - ey;
+    const t = (dx * ux + dy * uy) / chord;
+    const y = dy * ux - dx * uy;
+    let tp = 1;
+    for (let p = 0; p < 5; p++) {
+      powers[p] = (powers[p] as number) + tp;
+      if (p < 3) moments[p] = (moments[p] as number) + tp * y;
+      tp *= t;
+    }
   }
-  if (n < 6) return undefined;
-  const det3 = (a: number, b: number, c: number, d: number, e: number, f: number, g: number, h: number, i: number) => a * (e * i - f * h) - b * (d * i - f * g) + c * (d * h - e * g);
-  const D = det3(n, st, st2, st, st2, st3, st2, st3, st4);
-  if (Math.abs(D) < 1e-12) return undefined;
-  const a = det3(sy, st, st2, sty, st2, st3, st2y, st3, st4) / D;
-  const b = det3(n, sy, st2, st, sty, st3, st2, st2y, st4) / D;
-  const c = det3(n, st, sy, st, st2, sty, st2, st3, st2y) / D;
+  if ((powers[0] as number) < 6) return undefined;
+  const fit = solveNormal3(powers, moments);
+  if (!fit) return undefined;
+  const [a, b, c] = fit;
   // The section's point along the chord, and the parabola's point there.
   const s = (qx - ex) * ux + (qy - ey) * uy;
   const t = s / chord;
@@ -278,6 +263,20 @@ export function courseOffset(points: readonly number[], clean: readonly boolean[
   const px = ex + s * ux - y * uy;
   const py = ey + s * uy + y * ux;
   return (px - qx) * nx + (py - qy) * ny;
+}
+
+/**
+ * Solves the normal equations of a least-squares parabola, [Σt⁰ Σt¹ Σt²; Σt¹ Σt² Σt³; Σt² Σt³ Σt⁴]·c =
+ * [Σy Σty Σt²y], by Cramer's rule; undefined when the points cannot fix a parabola.
+ */
+function solveNormal3(powers: readonly number[], moments: readonly number[]): [number, number, number] | undefined {
+  const [p0, p1, p2, p3, p4] = powers as [number, number, number, number, number];
+  const [m0, m1, m2] = moments as [number, number, number];
+  // Determinant of the symmetric Hankel matrix with one column replaced by the moments.
+  const det = (a: number, b: number, c: number, d: number, e: number, f: number, g: number, h: number, i: number) => a * (e * i - f * h) - b * (d * i - f * g) + c * (d * h - e * g);
+  const whole = det(p0, p1, p2, p1, p2, p3, p2, p3, p4);
+  if (Math.abs(whole) < 1e-12) return undefined;
+  return [det(m0, p1, p2, m1, p2, p3, m2, p3, p4) / whole, det(p0, m0, p2, p1, m1, p3, p2, m2, p4) / whole, det(p0, p1, m0, p1, p2, m1, p2, p3, m2) / whole];
 }
 
 /** Accepted steps in a row needed before a line found again after a gap is trusted. */
