@@ -140,6 +140,14 @@ const TURN_SMOOTHING = 0.35;
  * lines merging at a shallow crossing: the followed line lies one half-width inside one of
  * its edges, so both edges offer a candidate. The nearest candidate wins only if the next
  * one is clearly farther; otherwise the follower coasts until the lines have parted.
+ *
+ * At a fork (two candidates or more in the section: lines of a bunch that run together and
+ * part), the step's prediction is checked against the line's own course where `course` gives it
+ * (see `courseOffset`): the turning rate behind the prediction is smoothed over a few steps and
+ * lags where lines part at a shallow angle, while the parabola through the line so far carries
+ * its direction and bending on. When the course lies clearly nearer another candidate than the
+ * one the prediction chose, the two disagree about which line this is, and the section counts as
+ * ambiguous: the follower coasts on until the lines have parted far enough to tell.
  */
 export interface Pick {
   offset: number;
@@ -147,52 +155,128 @@ export interface Pick {
   clean: boolean;
 }
 
-export function chooseOffset(runs: readonly Run[], style: LineStyle, allowed: number, pick: Pick): 'found' | 'ambiguous' | undefined {
-  let first = Infinity;
-  let firstOffset = 0;
-  let firstClean = false;
-  let second = Infinity;
+/** Candidate offsets of one section and whether each is a clean centroid (scratch, reused: the follower is synchronous). */
+const candidateOffsets: number[] = [];
+const candidateClean: boolean[] = [];
+
+export function chooseOffset(runs: readonly Run[], style: LineStyle, allowed: number, pick: Pick, course?: () => number | undefined): 'found' | 'ambiguous' | undefined {
   let covered = false;
   const lo = style.massRange[0] * style.width;
   const hi = style.massRange[1] * style.width;
   const cleanHi = Math.min(hi, 1.2 * style.width);
   const half = style.width / 2;
+  candidateOffsets.length = 0;
+  candidateClean.length = 0;
   // Up to two candidates a run: its centroid, or the two edge-derived positions of a merge.
   for (const run of runs) {
     if (run.mass < lo) continue;
-    let a: number;
-    let b = Number.NaN;
-    let clean = false;
     if (run.mass > hi) {
       if (run.start - allowed <= 0 && run.end + allowed >= 0) covered = true;
       if (run.mass > 2.2 * style.width) continue;
-      a = run.lowEdge + half;
-      b = run.highEdge - half;
+      candidateOffsets.push(run.lowEdge + half, run.highEdge - half);
+      candidateClean.push(false, false);
     } else {
-      a = run.centre;
-      clean = run.mass <= cleanHi;
+      candidateOffsets.push(run.centre);
+      candidateClean.push(run.mass <= cleanHi);
     }
-    for (let k = 0; k < 2; k++) {
-      const offset = k === 0 ? a : b;
-      if (Number.isNaN(offset)) continue;
-      const d = Math.abs(offset);
-      if (d < first) {
-        second = first;
-        first = d;
-        firstOffset = offset;
-        firstClean = clean;
-      } else if (d < second) {
-        second = d;
-      }
+  }
+  let first = Infinity;
+  let firstIndex = -1;
+  let second = Infinity;
+  for (let k = 0; k < candidateOffsets.length; k++) {
+    const d = Math.abs(candidateOffsets[k] as number);
+    if (d < first) {
+      second = first;
+      first = d;
+      firstIndex = k;
+    } else if (d < second) {
+      second = d;
     }
   }
   // Ink of the line's kind in view but away from the prediction (a neighbouring line of a
   // bundle) counts as other ink too, not as an empty gap.
   if (first > allowed) return covered || first < Infinity ? 'ambiguous' : undefined;
   if (second < first + 0.75 * style.width) return 'ambiguous';
-  pick.offset = firstOffset;
-  pick.clean = firstClean;
+  const offset = candidateOffsets[firstIndex] as number;
+  if (course && candidateOffsets.length >= 2) {
+    const c = course();
+    if (c !== undefined) {
+      let other = Infinity;
+      for (let k = 0; k < candidateOffsets.length; k++) if (k !== firstIndex) other = Math.min(other, Math.abs((candidateOffsets[k] as number) - c));
+      if (Math.abs(offset - c) > other + 0.75 * style.width) return 'ambiguous';
+    }
+  }
+  pick.offset = offset;
+  pick.clean = candidateClean[firstIndex] as boolean;
   return 'found';
+}
+
+/** Length of the followed line, pixels and line widths (the larger), through which its course at a fork is fitted. */
+const FORK_HISTORY_PX = 40;
+const FORK_HISTORY_WIDTHS = 15;
+
+/**
+ * Where the followed line's own course crosses the section through (qx, qy) along the unit
+ * normal (nx, ny), as an offset along that normal: the least-squares parabola through the clean
+ * points (centroids of runs of the line's own width, not edges of merges) of the last `history`
+ * pixels of the line, in the frame of their chord, carried on to the section. Undefined when
+ * fewer than six clean points or too short a chord make the parabola meaningless.
+ */
+export function courseOffset(points: readonly number[], clean: readonly boolean[], history: number, qx: number, qy: number, nx: number, ny: number): number | undefined {
+  // The last clean point, and the first point of the stretch of `history` pixels that ends there.
+  const end = clean.lastIndexOf(true);
+  if (end < 5) return undefined;
+  const ex = points[2 * end] as number;
+  const ey = points[2 * end + 1] as number;
+  let from = end;
+  for (let along = 0; from > 0 && along < history; from--) along += Math.hypot((points[2 * from] as number) - (points[2 * from - 2] as number), (points[2 * from + 1] as number) - (points[2 * from - 1] as number));
+  const chord = Math.hypot(ex - (points[2 * from] as number), ey - (points[2 * from + 1] as number));
+  if (chord < 0.5 * history) return undefined;
+  const ax = points[2 * from] as number;
+  const ay = points[2 * from + 1] as number;
+  const ux = (ex - ax) / chord;
+  const uy = (ey - ay) / chord;
+  // y = c0 + c1·t + c2·t², t = along / chord, y across (v = (−uy, ux)), by least squares.
+  const powers = [0, 0, 0, 0, 0];
+  const moments = [0, 0, 0];
+  for (let i = from; i <= end; i++) {
+    if (!clean[i]) continue;
+    const dx = (points[i * 2] as number) - ex;
+    const dy = (points[i * 2 + 1] as number) - ey;
+    const t = (dx * ux + dy * uy) / chord;
+    const y = dy * ux - dx * uy;
+    let tp = 1;
+    for (let p = 0; p < 5; p++) {
+      powers[p] = (powers[p] as number) + tp;
+      if (p < 3) moments[p] = (moments[p] as number) + tp * y;
+      tp *= t;
+    }
+  }
+  if ((powers[0] as number) < 6) return undefined;
+  const fit = solveNormal3(powers, moments);
+  if (!fit) return undefined;
+  const [a, b, c] = fit;
+  // The section's point along the chord, and the parabola's point there.
+  const s = (qx - ex) * ux + (qy - ey) * uy;
+  const t = s / chord;
+  const y = a + b * t + c * t * t;
+  const px = ex + s * ux - y * uy;
+  const py = ey + s * uy + y * ux;
+  return (px - qx) * nx + (py - qy) * ny;
+}
+
+/**
+ * Solves the normal equations of a least-squares parabola, [Σt⁰ Σt¹ Σt²; Σt¹ Σt² Σt³; Σt² Σt³ Σt⁴]·c =
+ * [Σy Σty Σt²y], by Cramer's rule; undefined when the points cannot fix a parabola.
+ */
+function solveNormal3(powers: readonly number[], moments: readonly number[]): [number, number, number] | undefined {
+  const [p0, p1, p2, p3, p4] = powers as [number, number, number, number, number];
+  const [m0, m1, m2] = moments as [number, number, number];
+  // Determinant of the symmetric Hankel matrix with one column replaced by the moments.
+  const det = (a: number, b: number, c: number, d: number, e: number, f: number, g: number, h: number, i: number) => a * (e * i - f * h) - b * (d * i - f * g) + c * (d * h - e * g);
+  const whole = det(p0, p1, p2, p1, p2, p3, p2, p3, p4);
+  if (Math.abs(whole) < 1e-12) return undefined;
+  return [det(m0, p1, p2, m1, p2, p3, m2, p3, p4) / whole, det(p0, m0, p2, p1, m1, p3, p2, m2, p4) / whole, det(p0, p1, m0, p1, p2, m1, p2, p3, m2) / whole];
 }
 
 /** Accepted steps in a row needed before a line found again after a gap is trusted. */
@@ -312,6 +396,7 @@ export function followLine(
   };
   const lookback = Math.max(2, Math.ceil(Math.max(6, 2 * style.width) / step));
   const history = Math.max(60, 20 * style.width);
+  const forkHistory = Math.max(FORK_HISTORY_PX, FORK_HISTORY_WIDTHS * style.width);
   const maxN = Math.ceil((half + limits.maxGap * 0.12) / spacing) + 1;
   const section = new Float64Array(2 * maxN + 1);
   const arrive = Math.max(1.5 * step, 0.75 * style.width);
@@ -354,7 +439,7 @@ export function followLine(
       const n = Math.min(maxN, Math.ceil((half + extra) / spacing));
       if (style.reach) sampleLongSection(image, style.model, qx, qy, nx, ny, n, spacing, style.reach, section, counter);
       else sampleSection(image, style.model, qx, qy, nx, ny, n, spacing, section, counter);
-      choice = chooseOffset(findRuns(section, n, spacing, style.threshold, runs), style, accept + extra, pick);
+      choice = chooseOffset(findRuns(section, n, spacing, style.threshold, runs), style, accept + extra, pick, () => courseOffset(points, clean, forkHistory, qx, qy, nx, ny));
     }
     if (choice === 'ambiguous' || (choice === 'found' && !pick.clean)) {
       if (disturbedAt < 0) {

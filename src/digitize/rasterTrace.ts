@@ -513,15 +513,16 @@ export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], o
   // has room of its own wins.
   const candidates = px.map((g) => acquire(image, g, search, options));
   const room = candidates.map((c) => (c ? clearance(image, c.style, c.centre, c.axis, counter) : 0));
-  const bunched = candidates.map((c, j) => c !== undefined && (room[j] as number) <= BUNCH_CLEARANCE);
-  const support = candidates.map((c) => (c && px.length > 1 ? px.reduce((sum, g, j) => sum + (nearestInk(image, c.style.model, g, search) !== undefined ? (bunched[j] ? 0.5 : 1) : 0), 0) : 0));
   // Room counts only where the ink looks like one stroke at all (not a blob of text or a
   // crossing) and no wider than the thinnest line measured under a guide (not lines run together).
   const thinnest = Math.min(...candidates.map((c) => c?.style.width ?? Infinity));
-  const solo = (i: number) => {
-    const c = candidates[i] as Acquired;
-    return bunched[i] || c.isotropy > SOLO_ISOTROPY || c.style.width > SOLO_WIDTH * thinnest ? 0 : 1;
-  };
+  const bunched = candidates.map((c, j) => c !== undefined && ((room[j] as number) <= BUNCH_CLEARANCE || c.isotropy > SOLO_ISOTROPY || c.style.width > SOLO_WIDTH * thinnest));
+  // A model vouched for by a guide finds its ink where the guide was clicked, within about a
+  // line's width: in a bunch, the ink of a neighbour's colour also lies within the search radius
+  // of every guide, and would vouch for any colour sampled there.
+  const vouchRadius = Math.max(VOUCH_MIN_PX, Math.min(search, VOUCH_WIDTHS * thinnest + VOUCH_SLACK_PX));
+  const support = candidates.map((c) => (c && px.length > 1 ? px.reduce((sum, g, j) => sum + (nearestInk(image, c.style.model, g, vouchRadius) !== undefined ? (bunched[j] ? 0.5 : 1) : 0), 0) : 0));
+  const solo = (i: number) => (bunched[i] ? 0 : 1);
   candidates.forEach((got, i) => {
     if (!got) return;
     const s = support[i] as number;
@@ -769,6 +770,15 @@ const SOLO_ISOTROPY = 0.45;
 
 /** Width of the line under a guide, in the thinnest width measured under any, above which it is lines run together. */
 const SOLO_WIDTH = 1.5;
+
+/**
+ * How near a guide's click, pixels, a line model must find its ink for that guide to vouch for
+ * it: three quarters of the thinnest width measured under any guide and 1.5 px (a click's
+ * scatter), and at least 2.5 px.
+ */
+const VOUCH_WIDTHS = 0.75;
+const VOUCH_SLACK_PX = 1.5;
+const VOUCH_MIN_PX = 2.5;
 
 /** Membership in the line's model below which the colour under a guide is another line's. */
 const GUIDE_MEMBERSHIP = 0.6;

@@ -358,4 +358,18 @@ describe('raster line following', () => {
     expect(result.doubts.map((d) => d.code)).toEqual(['takeoff.guide-in-bunch']);
     expect(result.doubts[0]?.message).toMatch(/^guide 1 near/);
   });
+  it('does not take the model of a neighbour that only lies within the search radius of the other guides', () => {
+    // A purple curve; an orange one runs 6 px beside it, then crosses it at a shallow angle,
+    // drawn over it, at x ≈ 400, where the third guide was clicked (its colour sample is orange).
+    const other = (x: number) => (x < 300 ? head(x) + 6 : head(x) + 6 - 0.06 * (x - 300));
+    const image = picture(640, 360, (ctx) => {
+      stroke(ctx, head, 20, 620, '#7030b0', 1.5);
+      stroke(ctx, other, 20, 620, '#e07000', 1.5);
+    });
+    const result = traceRaster(image, [sheetPoint(150, head(150)), sheetPoint(250, head(250)), sheetPoint(400, head(400))]);
+    expect(result.line.colour[2]).toBeGreaterThan(result.line.colour[1] + 40); // purple, not orange
+    expect(worstOff(result.points.filter((p) => p[0] > 480), head)).toBeLessThan(1);
+    // Guide 3, where the orange line hides the purple one, is said to find no line of the colour.
+    expect(result.lost.map((l) => l.between)).toEqual([[3, 3]]);
+  });
 });

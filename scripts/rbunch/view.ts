@@ -1,0 +1,69 @@
+/**
+ * Picture of one trace of the random bed, to see where a trace leaves its line: the sheet
+ * cropped around the drawn line, with the guides (blue), the captured points (red) and the
+ * drawn line (green dots).
+ *
+ *   npx tsx scripts/rbunch/view.ts 12 efficiency-10.5 /tmp/out.png
+ */
+import { createHash } from 'node:crypto';
+import sharp from 'sharp';
+import { sheetFor } from '../../bench/randomSheets.bench.ts';
+import { imageSheet } from '../../src/digitize/loaders/imageSheet.ts';
+import { replayTakeoff } from '../../src/digitize/takeoff.ts';
+import { parseTakeoff, type Trace } from '../../src/model/takeoff.ts';
+import { applyH, decode } from '../randomSheets/camera.ts';
+import { sheetGeometry } from '../randomSheets/randomSheet.ts';
+
+const [seedArg, id, out = '/tmp/view.png', zoomArg = '3'] = process.argv.slice(2);
+const seed = Number(seedArg);
+const zoom = Number(zoomArg);
+const kind = seed % 3 === 2 ? 'photo' : 'scan';
+const { jpeg, meta } = await sheetFor(seed, kind);
+const { plan, shot } = sheetGeometry(seed, kind);
+const decoded = await decode(jpeg);
+const raster = { width: decoded.width, height: decoded.height, data: decoded.data, scale: 1 };
+const sheet = imageSheet(raster, createHash('sha256').update(jpeg).digest('hex'), () => raster);
+const takeoff = parseTakeoff(meta.takeoff);
+const replay = await replayTakeoff(takeoff, sheet);
+const line = plan.lines.find((l) => l.id === id);
+if (!line) throw new Error(`no line ${id}`);
+const truth = line.points.map((p) => applyH(shot.h, p));
+const traced = replay.traces.find((t) => t.id === id)?.points ?? [];
+const guides = (takeoff.traces.find((t) => t.id === id) as Trace | undefined)?.guides ?? [];
+const xs = [...truth.map((p) => p[0]), ...guides.map((g) => g[0]), ...traced.map((p) => p[0])];
+const ys = [...truth.map((p) => p[1]), ...guides.map((g) => g[1]), ...traced.map((p) => p[1])];
+const x0 = Math.max(0, Math.floor(Math.min(...xs) - 20));
+const y0 = Math.max(0, Math.floor(Math.min(...ys) - 20));
+const x1 = Math.min(raster.width, Math.ceil(Math.max(...xs) + 20));
+const y1 = Math.min(raster.height, Math.ceil(Math.max(...ys) + 20));
+const w = (x1 - x0) * zoom;
+const h = (y1 - y0) * zoom;
+const buf = Buffer.alloc(w * h * 4);
+for (let y = 0; y < h; y++) {
+  for (let x = 0; x < w; x++) {
+    const si = ((y0 + Math.floor(y / zoom)) * raster.width + x0 + Math.floor(x / zoom)) * 4;
+    const di = (y * w + x) * 4;
+    buf[di] = raster.data[si] as number;
+    buf[di + 1] = raster.data[si + 1] as number;
+    buf[di + 2] = raster.data[si + 2] as number;
+    buf[di + 3] = 255;
+  }
+}
+const dot = (p: readonly [number, number], rgb: [number, number, number], r: number) => {
+  const cx = (p[0] - x0) * zoom;
+  const cy = (p[1] - y0) * zoom;
+  for (let y = Math.floor(cy - r); y <= cy + r; y++) {
+    for (let x = Math.floor(cx - r); x <= cx + r; x++) {
+      if (x < 0 || y < 0 || x >= w || y >= h) continue;
+      const di = (y * w + x) * 4;
+      buf[di] = rgb[0];
+      buf[di + 1] = rgb[1];
+      buf[di + 2] = rgb[2];
+    }
+  }
+};
+for (const p of truth) dot(p, [0, 200, 0], 0.5);
+for (const p of traced) dot(p, [255, 0, 0], 1);
+for (const g of guides) dot(g, [0, 0, 255], 3);
+await sharp(buf, { raw: { width: w, height: h, channels: 4 } }).png().toFile(out);
+console.log(`${out}: ${w}x${h}, crop ${x0},${y0}–${x1},${y1}; ${guides.length} guides at ${guides.map((g) => `(${g[0].toFixed(0)},${g[1].toFixed(0)})`).join(' ')}`);
