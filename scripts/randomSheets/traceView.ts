@@ -3,7 +3,7 @@
  * cropped around the drawn line, with the guides (blue), the captured points (red) and the
  * drawn line (green dots).
  *
- *   npx tsx scripts/rbunch/view.ts 12 efficiency-10.5 /tmp/out.png
+ *   npx tsx scripts/randomSheets/traceView.ts 12 efficiency-10.5 /tmp/out.png
  */
 import { createHash } from 'node:crypto';
 import sharp from 'sharp';
@@ -11,8 +11,8 @@ import { sheetFor } from '../../bench/randomSheets.bench.ts';
 import { imageSheet } from '../../src/digitize/loaders/imageSheet.ts';
 import { replayTakeoff } from '../../src/digitize/takeoff.ts';
 import { parseTakeoff, type Trace } from '../../src/model/takeoff.ts';
-import { applyH, decode } from '../randomSheets/camera.ts';
-import { sheetGeometry } from '../randomSheets/randomSheet.ts';
+import { applyH, decode } from './camera.ts';
+import { sheetGeometry } from './randomSheet.ts';
 
 const [seedArg, id, out = '/tmp/view.png', zoomArg = '3'] = process.argv.slice(2);
 const seed = Number(seedArg);

@@ -1,16 +1,16 @@
 /**
  * Raster traces of the random bed followed alone, with what each found (points off the drawn
  * line, coverage, the model kept, lost stretches, doubts, time):
- * `npx tsx scripts/rbunch/one.ts 28 efficiency-310 efficiency-259`.
+ * `npx tsx scripts/randomSheets/oneTrace.ts 28 efficiency-310 efficiency-259`.
  */
 import { existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { traceRaster } from '../../src/digitize/rasterTrace.ts';
 import { sheetPoint } from '../../src/digitize/points.ts';
 import { siblingGuides } from '../../src/digitize/vectorChoice.ts';
-import { applyH, decode } from '../randomSheets/camera.ts';
-import { sheetGeometry } from '../randomSheets/randomSheet.ts';
-import { nearest } from '../randomSheets/traceGeometry.ts';
+import { applyH, decode } from './camera.ts';
+import { sheetGeometry } from './randomSheet.ts';
+import { nearest } from './traceGeometry.ts';
 import type { TakeoffInput } from '../../src/model/takeoff.ts';
 
 const [seedArg, ...ids] = process.argv.slice(2);
