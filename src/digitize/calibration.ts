@@ -73,6 +73,10 @@ export interface Calibration {
   readonly anchorPercentOfSpan: number;
   /** Plain sentences for anchors off by more than the warning threshold. */
   readonly warnings: readonly string[];
+  /** True when the anchors cannot reveal the perspective of a photo (three, three on one line, or along two lines) and the map is affine: `borrowPerspective` may lend it another panel's. */
+  readonly perspectiveHidden?: boolean;
+  /** The panel whose projective calibration lent this one the page's perspective (see `borrowPerspective`). */
+  readonly perspectiveFrom?: string;
   toData(p: SheetCoordinates): DataPoint;
   toSheet(d: DataCoordinates): SheetPoint;
 }
@@ -88,6 +92,15 @@ export interface CalibrateOptions {
   projection?: 'auto' | Projection;
   /** The panel's plot frame [left, top, right, bottom], sheet units: where the expected error is looked for (default: the anchors' extent). */
   frame?: readonly [number, number, number, number] | undefined;
+  /** The page's perspective, lent by another panel of the same page (see `borrowPerspective`); used only when this panel's anchors cannot reveal it. */
+  pagePerspective?: PagePerspective | undefined;
+}
+
+/** Another panel's projective map from the sheet (any affine image of the flat page), its name and its residual shown (% of span). */
+export interface PagePerspective {
+  homography: H9;
+  panel: string;
+  percent: number;
 }
 
 /**
@@ -173,16 +186,20 @@ function affineCalibration(anchors: readonly AnchorInput[], tx: AxisTransform, t
       : undefined;
   const projective = h !== undefined && (wanted === 'projective' || (wanted === 'auto' && chooseProjection(anchors.length, affineMax, looAffine, looProjective, fitRms)));
 
+  if (!projective && !canSeePerspective && wanted === 'auto' && options.pagePerspective) {
+    const lent = lentPerspective(pts, us, vs, targets, spanU, spanV, m, tx, ty, where, options, options.pagePerspective);
+    if (lent) return lent;
+  }
   if (!projective) {
     if (anchors.length === 3) {
       // Exactly fixed: a fit residual would read 0 %. Show what a misplaced anchor would do instead.
       const expected = expectedError(pts, targets, spanU, spanV, affineFitter, 6, options.frame);
       notices.push(`${where}: three anchors fix an affine map exactly, so neither a misplaced anchor nor the perspective of a photo can show; the residual shown (${expected.toFixed(2)} % of span) is the error expected over the plot from anchors placed within ${ANCHOR_UNCERTAINTY} units. Add a fourth anchor near the free corner of the plot.`);
-      return finish('affine', { affine: m }, tx, ty, anchors.map(() => ({ sheet: ANCHOR_UNCERTAINTY, percentOfSpan: expected })), 'none', where, options, notices, expected);
+      return { ...finish('affine', { affine: m }, tx, ty, anchors.map(() => ({ sheet: ANCHOR_UNCERTAINTY, percentOfSpan: expected })), 'none', where, options, notices, expected), perspectiveHidden: true };
     }
     else if (!canSeePerspective && !hasQuad(pts)) notices.push(`${where}: no four of the anchors are free of three on one line, so they cannot reveal the perspective of a photo; add an anchor off that line, near a free corner of the plot.`);
     else if (!canSeePerspective) notices.push(`${where}: the anchors lie on two lines (e.g. along the axes), so they cannot reveal the perspective of a photo; add an anchor off those lines (the far corner of the plot).`);
-    return finish('affine', { affine: m }, tx, ty, affineResiduals, anchors.length === 3 ? 'none' : 'fit', where, options, notices, expectedError(pts, targets, spanU, spanV, affineFitter, 6, options.frame));
+    return { ...finish('affine', { affine: m }, tx, ty, affineResiduals, anchors.length === 3 ? 'none' : 'fit', where, options, notices, expectedError(pts, targets, spanU, spanV, affineFitter, 6, options.frame)), perspectiveHidden: !canSeePerspective };
   }
   const hi = invertHomography(h);
   let residuals: AnchorResidual[];
@@ -198,6 +215,101 @@ function affineCalibration(anchors: readonly AnchorInput[], tx: AxisTransform, t
     notices.push(`${where}: ${why}, so the calibration cannot be checked; the residual shown (${expected.toFixed(2)} % of span) is the error expected over the plot from anchors placed within ${ANCHOR_UNCERTAINTY} units. Add a fifth anchor (a grid crossing inside the plot, off its diagonals) to check it.`);
   }
   return finish('affine', { affine: m, homography: h, inverse: hi }, tx, ty, residuals, kind, where, options, notices, expectedError(pts, targets, spanU, spanV, projectiveFitter, 8, options.frame));
+}
+
+/**
+ * A panel whose anchors cannot reveal perspective, calibrated through the page's perspective
+ * lent by another panel of the same photographed sheet. A printed sheet is one plane, so every
+ * panel's map is an affine map of the flat page, and the lender's projective map H_l = A_l · P
+ * (P the photo's perspective, A_l affine). This panel's map is then A · H_l with A affine:
+ * the anchors, carried through H_l, are fitted by an affine map (exactly, with three).
+ *   [u, v, 1]ᵀ ∝ A₃ · H_l · [x, y, 1]ᵀ,   A₃ = [[a0, a2, a4], [a1, a3, a5], [0, 0, 1]].
+ * Valid where H_l stays finite over this panel (its horizon far off the page). The residual
+ * shown adds the lender's to this panel's own expected error: the lent perspective carries the
+ * lender's anchor errors across the page.
+ */
+function lentPerspective(
+  pts: readonly (readonly [number, number])[],
+  us: readonly number[],
+  vs: readonly number[],
+  targets: readonly (readonly [number, number])[],
+  spanU: number,
+  spanV: number,
+  m: M6,
+  tx: AxisTransform,
+  ty: AxisTransform,
+  where: string,
+  options: CalibrateOptions,
+  lent: PagePerspective,
+): Calibration | undefined {
+  const P = lent.homography;
+  const onPage = (x: number, y: number) => applyHomography(P, x, y);
+  const flat = pts.map((p) => onPage(p[0], p[1]));
+  if (!flat.every((f) => Number.isFinite(f[0]) && Number.isFinite(f[1]))) return undefined;
+  const a = fitAffine(flat, us, vs);
+  if (!a) return undefined;
+  const h: H9 = [
+    a[0] * P[0] + a[2] * P[3] + a[4] * P[6], a[0] * P[1] + a[2] * P[4] + a[4] * P[7], a[0] * P[2] + a[2] * P[5] + a[4] * P[8],
+    a[1] * P[0] + a[3] * P[3] + a[5] * P[6], a[1] * P[1] + a[3] * P[4] + a[5] * P[7], a[1] * P[2] + a[3] * P[5] + a[5] * P[8],
+    P[6], P[7], P[8],
+  ];
+  const misfit = (u: number, v: number, i: number) => 100 * Math.max(Math.abs(u - (us[i] as number)) / spanU, Math.abs(v - (vs[i] as number)) / spanV);
+  const residuals = pts.map((p, i) => {
+    const [u, v] = applyHomography(h, p[0], p[1]);
+    return { sheet: Math.sqrt(sheetRss([p], [targets[i] as readonly [number, number]], (x, y) => applyHomography(h, x, y))), percentOfSpan: misfit(u, v, i) };
+  });
+  const lentFitter: Fitter = (from, to) => {
+    const map = fitAffine(from.map((p) => onPage(p[0], p[1])), to.map((t) => t[0]), to.map((t) => t[1]));
+    return map && ((x: number, y: number) => applyM(map, ...onPage(x, y)));
+  };
+  const own = expectedError(pts, targets, spanU, spanV, lentFitter, 6, options.frame);
+  if (!Number.isFinite(own)) return undefined;
+  const expected = own + lent.percent;
+  const notice = `${where}: its anchors cannot reveal the perspective of a photo, so the perspective of the page is taken from panel "${lent.panel}", whose anchors show it (a printed sheet is one plane); the residual shown (${expected.toFixed(2)} % of span) adds that panel's to this one's. Add a fourth anchor near the free corner of this plot to check it.`;
+  return { ...finish('affine', { affine: m, homography: h, inverse: invertHomography(h) }, tx, ty, residuals, pts.length === 3 ? 'none' : 'fit', where, options, [notice], expected), perspectiveFrom: lent.panel };
+}
+
+/**
+ * Lends the page's perspective to the panels whose anchors cannot reveal it. A photo's
+ * perspective is one for the whole sheet: when a panel of the page has a projective map (its
+ * anchors show perspective, or the user asked for it), a panel calibrated affine only because
+ * its anchors could not show perspective (three, or along the axes), and left on 'auto', is
+ * calibrated again through the lender's map (`lentPerspective`). The lender is the projective
+ * panel with the smallest residual shown. Returns the panels calibrated again, by id; every
+ * shell calibrates a page's panels through this, so all show the same maps.
+ */
+export function borrowPerspective(panels: readonly { id: string; anchors: readonly AnchorInput[]; options: CalibrateOptions; calibration: Calibration | undefined }[]): Map<string, Calibration> {
+  const out = new Map<string, Calibration>();
+  const lenders = panels.filter((p) => p.calibration?.projection === 'projective' && p.calibration.homography && p.calibration.perspectiveFrom === undefined);
+  if (lenders.length === 0) return out;
+  const lender = lenders.reduce((a, b) => ((b.calibration as Calibration).maxPercentOfSpan < (a.calibration as Calibration).maxPercentOfSpan ? b : a));
+  const cal = lender.calibration as Calibration;
+  const lent: PagePerspective = { homography: cal.homography as H9, panel: lender.id, percent: cal.maxPercentOfSpan };
+  for (const p of panels) {
+    if (p === lender || !p.calibration?.perspectiveHidden || (p.options.projection ?? 'auto') !== 'auto') continue;
+    try {
+      const again = calibrate(p.anchors, { ...p.options, pagePerspective: lent });
+      if (again.perspectiveFrom !== undefined) out.set(p.id, again);
+    } catch {
+      // The panel keeps its own calibration.
+    }
+  }
+  return out;
+}
+
+/** The calibration options of a take-off panel: its scales, name, projection and frame. */
+export function panelCalibrateOptions(panel: { id: string; x_scale: AxisScaleType; y_scale: AxisScaleType; projection?: 'auto' | Projection | undefined; frame?: readonly [number, number, number, number] | undefined }): CalibrateOptions {
+  return { xScale: panel.x_scale, yScale: panel.y_scale, panel: panel.id, ...(panel.projection ? { projection: panel.projection } : {}), ...(panel.frame ? { frame: panel.frame } : {}) };
+}
+
+/** Calibrates every panel of a take-off's page, lending the page's perspective (`borrowPerspective`); throws the first panel's CalibrationError. */
+export function calibratePanels(panels: readonly { id: string; anchors: readonly AnchorInput[]; x_scale: AxisScaleType; y_scale: AxisScaleType; projection?: 'auto' | Projection | undefined; frame?: readonly [number, number, number, number] | undefined }[]): Map<string, Calibration> {
+  const list = panels.map((p) => {
+    const options = panelCalibrateOptions(p);
+    return { id: p.id, anchors: p.anchors, options, calibration: calibrate(p.anchors, options) };
+  });
+  const lent = borrowPerspective(list);
+  return new Map(list.map((p) => [p.id, lent.get(p.id) ?? p.calibration]));
 }
 
 /**

@@ -16,7 +16,7 @@ import { SG_REFERENCE_DENSITY, toSI, type Unit } from '../units/index.ts';
 import { formatSI } from '../units/format.ts';
 import type { LostStretch } from './rasterTrace.ts';
 import { auditIsoCrossings, auditTraces, type AuditedTrace, type AuditFinding, type IsoCount } from './traceAudit.ts';
-import { calibrate, type Calibration } from './calibration.ts';
+import { calibratePanels, type Calibration } from './calibration.ts';
 import { captureTrace, type CaptureOptions, type CaptureResult } from './capture.ts';
 import { DEFAULT_TOUCH_TOLERANCE, endDirection, isoCrossings, REACH_HEAD_WIDTHS, REACH_ISO_WIDTHS, REACH_SLACK, type IsoCrossing } from './isoCrossings.ts';
 import { guideBeyondCrossing, guidesOffCrossings, type CrossedLine } from './isoGuides.ts';
@@ -93,10 +93,8 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
     note('takeoff.sheet-changed', 'warn', `The sheet is not the one the points were captured from (its SHA-256 differs); check that the anchors and guides still sit on its lines.`);
   }
 
-  const calibrations = new Map<string, Calibration>();
-  for (const panel of takeoff.panels) {
-    const cal = calibrate(panel.anchors, { xScale: panel.x_scale, yScale: panel.y_scale, panel: panel.id, ...(panel.projection ? { projection: panel.projection } : {}), ...(panel.frame ? { frame: panel.frame } : {}) });
-    calibrations.set(panel.id, cal);
+  const calibrations = calibratePanels(takeoff.panels);
+  for (const cal of calibrations.values()) {
     for (const w of cal.warnings) note('takeoff.calibration-residual', 'warn', w, undefined, { max_percent_of_span: cal.maxPercentOfSpan, max_sheet: cal.maxSheet });
   }
 

@@ -3,7 +3,7 @@
  * main thread: it is a few small sums), and the curve set (in the worker, a moment after
  * the last edit, through the headless replay's own code).
  */
-import { calibrate } from '../../digitize/calibration.ts';
+import { borrowPerspective, calibrate, panelCalibrateOptions } from '../../digitize/calibration.ts';
 import type { PanelDraft, Draft } from '../store/draft.ts';
 import { anchorsWithValues } from '../store/draft.ts';
 import { toTakeoffFile } from '../store/takeoffFile.ts';
@@ -26,7 +26,7 @@ export const EMPTY_DERIVED: Derived = {
 export function calibrationOf(panel: PanelDraft): CalibrationState {
   const anchors = anchorsWithValues(panel);
   try {
-    return { ok: true, calibration: calibrate(anchors, { xScale: panel.x_scale, yScale: panel.y_scale, panel: panel.id, ...(panel.projection ? { projection: panel.projection } : {}), ...(panel.frame ? { frame: panel.frame } : {}) }) };
+    return { ok: true, calibration: calibrate(anchors, panelCalibrateOptions(panel)) };
   } catch (error) {
     const missing = panel.anchors.length - anchors.length;
     const reason = missing > 0 ? `Type ${missing === 1 ? 'the value of 1 anchor' : `the values of ${missing} anchors`} to set this panel's axes.` : (error as Error).message;
@@ -57,6 +57,12 @@ export class DerivedState {
       }
       calibrations.set(p.id, c);
     }
+    // The page's perspective, lent to panels whose anchors cannot reveal it (as the replay does).
+    const lent = borrowPerspective(draft.panels.map((p) => {
+      const c = calibrations.get(p.id);
+      return { id: p.id, anchors: anchorsWithValues(p), options: panelCalibrateOptions(p), calibration: c?.ok ? c.calibration : undefined };
+    }));
+    for (const [id, calibration] of lent) calibrations.set(id, { ok: true, calibration });
     this.current = { ...this.current, calibrations };
     window.clearTimeout(this.timer);
     if (!ready) return;

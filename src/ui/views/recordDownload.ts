@@ -3,7 +3,7 @@
  * same code (src/record) from the take-off the review was computed from, its calibrations, the
  * curve set and the duty study on screen. pdf-lib is loaded only when the button is pressed.
  */
-import { calibrate, type Calibration } from '../../digitize/calibration.ts';
+import { calibratePanels } from '../../digitize/calibration.ts';
 import { h } from '../dom/h.ts';
 import type { Bench } from '../app/bench.ts';
 import type { Store } from '../store/store.ts';
@@ -58,8 +58,7 @@ export async function downloadRecord(src: RecordSources, paper: RecordPaper): Pr
   store.say('Making the selection record…', 'info');
   try {
     const t0 = performance.now();
-    const calibrations = new Map<string, Calibration>();
-    for (const panel of takeoff.panels) calibrations.set(panel.id, calibrate(panel.anchors, { xScale: panel.x_scale, yScale: panel.y_scale, panel: panel.id }));
+    const calibrations = calibratePanels(takeoff.panels);
     const { makeRecord } = await loadRecordCode();
     const loaded = performance.now() - t0;
     const now = new Date().toISOString();

@@ -4,7 +4,7 @@
  * Options keep their record line styles and colours.
  */
 import { buildOverlay, type Overlay } from '../../record/overlay.ts';
-import { calibrate, type Calibration } from '../../digitize/calibration.ts';
+import { calibratePanels } from '../../digitize/calibration.ts';
 import type { Takeoff } from '../../model/takeoff.ts';
 import type { StudyResult } from '../../study/runStudy.ts';
 import { toScreen, type View } from '../canvas/view.ts';
@@ -17,8 +17,7 @@ export function studyOverlay(takeoff: Takeoff | null, result: StudyResult | null
   if (memo && memo.takeoff === takeoff && memo.result === result) return memo.overlay;
   let overlay: Overlay | null = null;
   try {
-    const calibrations = new Map<string, Calibration>();
-    for (const panel of takeoff.panels) calibrations.set(panel.id, calibrate(panel.anchors, { xScale: panel.x_scale, yScale: panel.y_scale, panel: panel.id }));
+    const calibrations = calibratePanels(takeoff.panels);
     overlay = buildOverlay(takeoff, calibrations, result, { samples: 80 });
   } catch {
     overlay = null; // an unusable calibration is reported by the axes step already
