@@ -1,0 +1,169 @@
+/**
+ * The line's own look where a whole-line trace runs on beyond its guides: its dash pattern read
+ * from a row of ink samples, and its width and pattern measured again along the stretch already
+ * followed. The model sampled under a guide may be off (a dotted line blurred into a solid stroke
+ * under the guide, or a width taken where the line touched a grid line or a neighbour); along the
+ * followed stretch the line is seen over many widths, and that measure lets the trace go on to
+ * the line's own ends. Pure: works on the RGBA buffer only.
+ */
+import type { InkModel } from './colour.ts';
+import type { LineStyle } from './lineFollow.ts';
+import { findRuns, membershipAt, sampleLongSection, sampleSection, type ReadCounter, type Run } from './lineProfile.ts';
+import type { RasterImage } from './raster.ts';
+
+type Px = [number, number];
+
+/** Least share of the gaps and dashes seen along a broken line that must follow its pattern. */
+const PATTERN_SHARE = 0.7;
+
+/** Longest gap between dashes that a broken line may have, in line widths and at least in pixels. */
+const DASH_GAP_WIDTHS = 6;
+const DASH_GAP_MIN_PX = 12;
+
+/**
+ * The reach that spans the gaps of a broken line (half its longest regular gap plus a pixel),
+ * from a row of samples along it `spacing` pixels apart (true where ink of the line lies), or
+ * undefined when the row shows no dash pattern. Three or more gaps between ink, most of about
+ * one length and none longer than a few line widths, and most dashes of about one length, make
+ * a broken line; a single gap is a label or a crossing, and noise on a solid line flickers at
+ * random lengths.
+ */
+export function dashReach(on: readonly boolean[], spacing: number, width: number): number | undefined {
+  const gaps: number[] = [];
+  const dashes: number[] = [];
+  const first = on.indexOf(true);
+  const last = on.lastIndexOf(true);
+  if (first < 0) return undefined;
+  let run = 0;
+  for (let i = first; i <= last + 1; i++) {
+    const here = i <= last && (on[i] as boolean);
+    if (i > first && here !== (on[i - 1] as boolean)) {
+      (here ? gaps : dashes).push(run * spacing);
+      run = 0;
+    }
+    run++;
+  }
+  dashes.shift(); // the first dash may be cut by the window
+  const real = gaps.filter((g) => g >= 1);
+  if (real.length < 3 || dashes.length < 2) return undefined;
+  const median = (v: number[]) => [...v].sort((a, b) => a - b)[Math.floor(v.length / 2)] as number;
+  const gapMedian = median(real);
+  const dashMedian = median(dashes);
+  const regular = real.filter((g) => g >= 0.5 * gapMedian && g <= 1.8 * gapMedian);
+  const regularDashes = dashes.filter((d) => d <= 3 * dashMedian + 2);
+  if (regular.length < 3 || regular.length < PATTERN_SHARE * gaps.length || regularDashes.length < PATTERN_SHARE * dashes.length) return undefined;
+  const longest = Math.max(...regular);
+  if (longest > Math.max(DASH_GAP_MIN_PX, DASH_GAP_WIDTHS * width)) return undefined;
+  return 0.5 * longest + 1;
+}
+
+/** Length of followed line, pixels (or line widths when more), over which its look is measured again. */
+const MEASURE_PX = 60;
+const MEASURE_WIDTHS = 16;
+
+/** Sections across the followed stretch whose ink gives the line's width. */
+const WIDTH_SECTIONS = 11;
+
+/**
+ * Largest ratio of the measured width to the model's that makes a narrower model worth a try:
+ * above it the follower already sees the line.
+ */
+const WIDTH_CHANGE = 0.75;
+
+/** Points `spacing` apart along a path, from its start. */
+function along(points: readonly Px[], spacing: number): Px[] {
+  const out: Px[] = [];
+  let carry = 0;
+  for (let i = 1; i < points.length; i++) {
+    const a = points[i - 1] as Px;
+    const b = points[i] as Px;
+    const len = Math.hypot(b[0] - a[0], b[1] - a[1]);
+    let t = carry;
+    while (t <= len) {
+      out.push([a[0] + ((b[0] - a[0]) * t) / len, a[1] + ((b[1] - a[1]) * t) / len]);
+      t += spacing;
+    }
+    carry = t - len;
+  }
+  return out;
+}
+
+/** The last `length` pixels of a path (its end last). */
+function lastStretch(points: readonly Px[], length: number): Px[] {
+  let k = points.length - 1;
+  let total = 0;
+  while (k > 0 && total < length) {
+    total += Math.hypot((points[k] as Px)[0] - (points[k - 1] as Px)[0], (points[k] as Px)[1] - (points[k - 1] as Px)[1]);
+    k--;
+  }
+  return points.slice(k);
+}
+
+/**
+ * Whether ink of the line lies across the path at each position `spacing` apart: the most
+ * line-like sample across the line's width (and a pixel) at each.
+ */
+function inkRow(image: RasterImage, model: InkModel, points: readonly Px[], width: number, threshold: number, counter: ReadCounter): { on: boolean[]; spacing: number } {
+  const spacing = 0.5;
+  const across = Math.max(1.5, 0.5 * width + 1);
+  const at = along(points, spacing);
+  const on: boolean[] = [];
+  for (let i = 0; i < at.length; i++) {
+    const a = at[Math.max(0, i - 4)] as Px;
+    const b = at[Math.min(at.length - 1, i + 4)] as Px;
+    const len = Math.hypot(b[0] - a[0], b[1] - a[1]) || 1;
+    const nx = -(b[1] - a[1]) / len;
+    const ny = (b[0] - a[0]) / len;
+    const p = at[i] as Px;
+    let best = 0;
+    for (let s = -across; s <= across; s += 0.5) best = Math.max(best, membershipAt(image, model, p[0] + nx * s, p[1] + ny * s, counter));
+    on.push(best >= threshold);
+  }
+  return { on, spacing };
+}
+
+/**
+ * The line's model measured again along the last stretch of a followed path: its dash pattern
+ * (along the path itself, which knows the line's direction better than the ink around one
+ * guide), and its width (the median mass of the ink run at the path across it, each section
+ * taking the most line-like sample within the pattern's reach). Undefined when the stretch is
+ * too short to measure, shows no ink, or gives the model the follower already has.
+ */
+export function restyleAlong(image: RasterImage, style: LineStyle, path: readonly Px[], counter: ReadCounter): LineStyle | undefined {
+  // Evenly spaced: a stretch bridged between two guides may be a few points far apart.
+  const stretch = along(lastStretch(path, Math.max(MEASURE_PX, MEASURE_WIDTHS * style.width)), 2);
+  if (stretch.length < 5) return undefined;
+  const row = inkRow(image, style.model, stretch, style.width, style.threshold, counter);
+  if (row.on.length < 40) return undefined;
+  const broken = dashReach(row.on, row.spacing, style.width);
+  const reach = broken ?? 0;
+  const spacing = 0.5;
+  const n = Math.ceil((2 * style.width + 3) / spacing);
+  const section = new Float64Array(2 * n + 1);
+  const runs: Run[] = [];
+  const masses: number[] = [];
+  for (let k = 0; k < WIDTH_SECTIONS; k++) {
+    const i = Math.min(stretch.length - 2, Math.floor((k * (stretch.length - 1)) / WIDTH_SECTIONS));
+    const a = stretch[i] as Px;
+    const b = stretch[i + 1] as Px;
+    const len = Math.hypot(b[0] - a[0], b[1] - a[1]);
+    if (len === 0) continue;
+    const nx = -(b[1] - a[1]) / len;
+    const ny = (b[0] - a[0]) / len;
+    if (reach > 0) sampleLongSection(image, style.model, a[0], a[1], nx, ny, n, spacing, reach, section, counter);
+    else sampleSection(image, style.model, a[0], a[1], nx, ny, n, spacing, section, counter);
+    let best: Run | undefined;
+    for (const r of findRuns(section, n, spacing, style.threshold, runs)) if (Math.abs(r.centre) <= 0.5 * style.width + 1 && (!best || Math.abs(r.centre) < Math.abs(best.centre))) best = r;
+    if (best) masses.push(best.mass);
+  }
+  if (masses.length < Math.ceil(WIDTH_SECTIONS / 2)) return undefined;
+  masses.sort((x, y) => x - y);
+  const measured = Math.max(1, masses[Math.floor(masses.length / 2)] as number);
+  // Only a narrower line: a width sampled where the line touched other ink comes out too wide,
+  // while a wider model than the guide's would take neighbours and grid lines for the line.
+  const newWidth = measured < WIDTH_CHANGE * style.width ? measured : style.width;
+  // A pattern read on a short stretch may miss its longest gap: the wider reach is kept.
+  const newReach = Math.max(broken ?? 0, style.reach ?? 0);
+  if (newWidth === style.width && (newReach ?? 0) === (style.reach ?? 0)) return undefined;
+  return { ...style, width: newWidth, ...(newReach ? { reach: newReach } : {}) };
+}
