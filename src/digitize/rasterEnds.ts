@@ -100,14 +100,14 @@ function lastStretch(points: readonly Px[], length: number): Px[] {
 }
 
 /**
- * Whether ink of the line lies across the path at each position `spacing` apart: the most
- * line-like sample across the line's width (and a pixel) at each.
+ * The most line-like sample across the path (within the line's width and a pixel) at each
+ * position `spacing` apart along it.
  */
-function inkRow(image: RasterImage, model: InkModel, points: readonly Px[], width: number, threshold: number, counter: ReadCounter): { on: boolean[]; spacing: number } {
+function peakRow(image: RasterImage, model: InkModel, points: readonly Px[], width: number, counter: ReadCounter): { peaks: number[]; spacing: number } {
   const spacing = 0.5;
   const across = Math.max(1.5, 0.5 * width + 1);
   const at = along(points, spacing);
-  const on: boolean[] = [];
+  const peaks: number[] = [];
   for (let i = 0; i < at.length; i++) {
     const a = at[Math.max(0, i - 4)] as Px;
     const b = at[Math.min(at.length - 1, i + 4)] as Px;
@@ -117,9 +117,26 @@ function inkRow(image: RasterImage, model: InkModel, points: readonly Px[], widt
     const p = at[i] as Px;
     let best = 0;
     for (let s = -across; s <= across; s += 0.5) best = Math.max(best, membershipAt(image, model, p[0] + nx * s, p[1] + ny * s, counter));
-    on.push(best >= threshold);
+    peaks.push(best);
   }
-  return { on, spacing };
+  return { peaks, spacing };
+}
+
+/** Least swing of the peaks along a line, between its dashes and its gaps, that shows a pattern in a blurred line. */
+const MIN_SWING = 0.25;
+
+/**
+ * Ink or gap at each position of a row of peaks. A crisp broken line drops to paper between its
+ * dashes, and the line's own threshold tells them apart; a blurred one (a fine dotted line in a
+ * soft scan) keeps some colour in its gaps, which then stay above that threshold, so where the
+ * peaks swing widely the cut lies halfway between the row's low and high peaks.
+ */
+export function inkOrGap(peaks: readonly number[], threshold: number): boolean[] {
+  const sorted = [...peaks].sort((a, b) => a - b);
+  const lo = sorted[Math.floor(0.1 * (sorted.length - 1))] ?? 0;
+  const hi = sorted[Math.floor(0.9 * (sorted.length - 1))] ?? 0;
+  const cut = hi - lo >= MIN_SWING ? Math.max(threshold, (lo + hi) / 2) : threshold;
+  return peaks.map((p) => p >= cut);
 }
 
 /**
@@ -133,9 +150,9 @@ export function restyleAlong(image: RasterImage, style: LineStyle, path: readonl
   // Evenly spaced: a stretch bridged between two guides may be a few points far apart.
   const stretch = along(lastStretch(path, Math.max(MEASURE_PX, MEASURE_WIDTHS * style.width)), 2);
   if (stretch.length < 5) return undefined;
-  const row = inkRow(image, style.model, stretch, style.width, style.threshold, counter);
-  if (row.on.length < 40) return undefined;
-  const broken = dashReach(row.on, row.spacing, style.width);
+  const row = peakRow(image, style.model, stretch, style.width, counter);
+  if (row.peaks.length < 40) return undefined;
+  const broken = dashReach(inkOrGap(row.peaks, style.threshold), row.spacing, style.width);
   const reach = broken ?? 0;
   const spacing = 0.5;
   const n = Math.ceil((2 * style.width + 3) / spacing);

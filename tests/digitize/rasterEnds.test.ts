@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { sheetPoint, type SheetPoint } from '../../src/digitize/points.ts';
-import { dashReach, restyleAlong } from '../../src/digitize/rasterEnds.ts';
+import { dashReach, inkOrGap, restyleAlong } from '../../src/digitize/rasterEnds.ts';
 import { traceRaster } from '../../src/digitize/rasterTrace.ts';
 import { inkModel } from '../../src/digitize/colour.ts';
 import { picture, stroke } from './rasterPictures.ts';
@@ -27,6 +27,39 @@ describe('the line\'s look along its followed stretch', () => {
     expect(dashReach(oneBreak, 0.5, 2)).toBeUndefined();
     // Gaps far longer than the line's width are not a pattern but breaks (labels, crossings).
     expect(dashReach(row(20, 30, 300), 0.5, 2)).toBeUndefined();
+  });
+
+  it('tells the dots of a blurred dotted line from its gaps, where some colour stays in the gaps', () => {
+    // Peaks along a soft dotted line: 0.9 on each dot, 0.55 between dots, 3 px apart.
+    const peaks: number[] = [];
+    for (let t = 0; t < 80; t += 0.5) peaks.push(t % 3 < 1.5 ? 0.9 : 0.55);
+    // At the line's own threshold (0.4) every position is ink: no pattern shows.
+    expect(dashReach(peaks.map((p) => p >= 0.4), 0.5, 2)).toBeUndefined();
+    const row = inkOrGap(peaks, 0.4);
+    expect(row.filter(Boolean).length).toBeGreaterThan(0.4 * row.length);
+    expect(row.filter(Boolean).length).toBeLessThan(0.6 * row.length);
+    expect(dashReach(row, 0.5, 2)).toBeCloseTo(1.75, 1);
+    // A solid line whose peaks only flicker keeps the line's threshold.
+    const flicker = peaks.map((_, i) => (i % 7 === 0 ? 0.75 : 0.9));
+    expect(inkOrGap(flicker, 0.4).every(Boolean)).toBe(true);
+  });
+
+  it('finds the pattern of a blurred dotted line along the stretch followed', () => {
+    const image = picture(640, 300, (ctx) => {
+      ctx.filter = 'blur(1px)';
+      ctx.setLineDash([0.01, 4]);
+      ctx.lineCap = 'round';
+      stroke(ctx, head, 20, 620, '#222222', 2.5);
+    });
+    const guide = traceRaster(image, [sheetPoint(200, head(200))]);
+    const model = inkModel(guide.line.colour, guide.line.paper);
+    const path: [number, number][] = [];
+    for (let x = 100; x <= 200; x += 2) path.push([x, head(x)]);
+    const solid = { model, width: guide.line.widthPx, threshold: 0.4, massRange: [0.8, 1.35] as const };
+    const again = restyleAlong(image, solid, path, { reads: 0 });
+    expect(again?.reach).toBeGreaterThan(1.5);
+    expect(again?.reach).toBeLessThan(3.5);
+    expect(again?.width).toBeCloseTo(guide.line.widthPx, 1);
   });
 
   it('measures a narrower width along a followed stretch than the model taken under a guide', () => {
