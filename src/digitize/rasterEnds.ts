@@ -169,13 +169,17 @@ export function restyleAlong(image: RasterImage, style: LineStyle, path: readonl
     const ny = (b[0] - a[0]) / len;
     if (reach > 0) sampleLongSection(image, style.model, a[0], a[1], nx, ny, n, spacing, reach, section, counter);
     else sampleSection(image, style.model, a[0], a[1], nx, ny, n, spacing, section, counter);
-    let best: Run | undefined;
-    for (const r of findRuns(section, n, spacing, style.threshold, runs)) if (Math.abs(r.centre) <= 0.5 * style.width + 1 && (!best || Math.abs(r.centre) < Math.abs(best.centre))) best = r;
-    if (best) masses.push(best.mass);
+    // One run of ink where the line is: two there are the line split by another line along it
+    // (its halves are no measure of its width).
+    const here = findRuns(section, n, spacing, style.threshold, runs).filter((r) => Math.abs(r.centre) <= 0.5 * style.width + 1);
+    if (here.length === 1) masses.push((here[0] as Run).mass);
   }
   if (masses.length < Math.ceil(WIDTH_SECTIONS / 2)) return undefined;
   masses.sort((x, y) => x - y);
   const measured = Math.max(1, masses[Math.floor(masses.length / 2)] as number);
+  // A pattern found anew along with a much narrower width is no dotted line but the stretch
+  // wobbling across the edges of a line split by another (each swing of the peaks a false dot).
+  if (broken !== undefined && !style.reach && measured < WIDTH_CHANGE * style.width) return undefined;
   // Only a narrower line: a width sampled where the line touched other ink comes out too wide,
   // while a wider model than the guide's would take neighbours and grid lines for the line.
   const newWidth = measured < WIDTH_CHANGE * style.width ? measured : style.width;
