@@ -104,7 +104,7 @@ function lastStretch(points: readonly Px[], length: number): Px[] {
  * position `spacing` apart along it.
  */
 function peakRow(image: RasterImage, model: InkModel, points: readonly Px[], width: number, counter: ReadCounter): { peaks: number[]; spacing: number } {
-  const spacing = 0.5;
+  const spacing = ROW_SPACING;
   const across = Math.max(1.5, 0.5 * width + 1);
   const at = along(points, spacing);
   const peaks: number[] = [];
@@ -116,11 +116,14 @@ function peakRow(image: RasterImage, model: InkModel, points: readonly Px[], wid
     const ny = (b[0] - a[0]) / len;
     const p = at[i] as Px;
     let best = 0;
-    for (let s = -across; s <= across; s += 0.5) best = Math.max(best, membershipAt(image, model, p[0] + nx * s, p[1] + ny * s, counter));
+    for (let s = -across; s <= across; s += 1) best = Math.max(best, membershipAt(image, model, p[0] + nx * s, p[1] + ny * s, counter));
     peaks.push(best);
   }
   return { peaks, spacing };
 }
+
+/** Spacing, pixels, of the peaks read along a followed stretch: finer than the shortest gap a dash pattern counts (1 px). */
+const ROW_SPACING = 1;
 
 /** Least swing of the peaks along a line, between its dashes and its gaps, that shows a pattern in a blurred line. */
 const MIN_SWING = 0.25;

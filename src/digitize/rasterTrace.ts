@@ -884,7 +884,10 @@ function extendToEnds(
         restyled = true;
         const again = restyleAlong(image, style, all, counter);
         if (again) {
-          const retry = followLine(image, again, end, heading, undefined, limits, counter);
+          // A shorter gap bridged on the try: a line the new model sees shows at once (what hides
+          // it farther on is looked past by the search for the lost line), and a try that finds
+          // nothing ends soon.
+          const retry = followLine(image, again, end, heading, undefined, { ...limits, maxGap: Math.min(maxGap, Math.max(RETRY_GAP_PX, RETRY_GAP_WIDTHS * traced.width)) }, counter);
           const [within] = judgeExtension(retry, undefined, frame, image.scale, again.width);
           const seen: EndDoubt[] = [];
           const kept = keepSmooth(all, within, again, maxGap, { image, counter, doubts: seen });
@@ -1010,6 +1013,10 @@ const BUNCH_WIDTHS = 10;
 
 /** Least length, pixels (or 12 line widths), of a line found again beyond a gap: a drawn curve goes on, a label's stroke does not. */
 const FOUND_AGAIN_PX = 40;
+
+/** Longest gap, pixels (or line widths when more), bridged on the prediction alone on a try with a model measured again. */
+const RETRY_GAP_PX = 40;
+const RETRY_GAP_WIDTHS = 12;
 
 /** Times an extension may find its line again after losing it. */
 const MAX_REACQUIRE = 4;
