@@ -61,6 +61,9 @@ export function dashReach(on: readonly boolean[], spacing: number, width: number
 const MEASURE_PX = 60;
 const MEASURE_WIDTHS = 16;
 
+/** Least number of points, 2 px apart, of a followed stretch measured again (40 px). */
+const MIN_STRETCH_POINTS = 20;
+
 /** Sections across the followed stretch whose ink gives the line's width. */
 const WIDTH_SECTIONS = 11;
 
@@ -103,7 +106,7 @@ function lastStretch(points: readonly Px[], length: number): Px[] {
  * The most line-like sample across the path (within the line's width and a pixel) at each
  * position `spacing` apart along it.
  */
-function peakRow(image: RasterImage, model: InkModel, points: readonly Px[], width: number, counter: ReadCounter): { peaks: number[]; spacing: number } {
+function peakRow(image: RasterImage, model: InkModel, points: readonly Px[], width: number, counter: ReadCounter): { peaks: number[] } {
   const spacing = ROW_SPACING;
   const across = Math.max(1.5, 0.5 * width + 1);
   const at = along(points, spacing);
@@ -119,7 +122,7 @@ function peakRow(image: RasterImage, model: InkModel, points: readonly Px[], wid
     for (let s = -across; s <= across; s += 1) best = Math.max(best, membershipAt(image, model, p[0] + nx * s, p[1] + ny * s, counter));
     peaks.push(best);
   }
-  return { peaks, spacing };
+  return { peaks };
 }
 
 /** Spacing, pixels, of the peaks read along a followed stretch: finer than the shortest gap a dash pattern counts (1 px). */
@@ -145,17 +148,17 @@ export function inkOrGap(peaks: readonly number[], threshold: number): boolean[]
 /**
  * The line's model measured again along the last stretch of a followed path: its dash pattern
  * (along the path itself, which knows the line's direction better than the ink around one
- * guide), and its width (the median mass of the ink run at the path across it, each section
- * taking the most line-like sample within the pattern's reach). Undefined when the stretch is
+ * guide) when the model takes it for solid, and its width (the median mass of the one ink run at
+ * the path across it; on a line found broken here, each section takes the most line-like sample
+ * within the pattern's reach). Undefined when the stretch is
  * too short to measure, shows no ink, or gives the model the follower already has.
  */
 export function restyleAlong(image: RasterImage, style: LineStyle, path: readonly Px[], counter: ReadCounter): LineStyle | undefined {
   // Evenly spaced: a stretch bridged between two guides may be a few points far apart.
   const stretch = along(lastStretch(path, Math.max(MEASURE_PX, MEASURE_WIDTHS * style.width)), 2);
-  if (stretch.length < 5) return undefined;
-  const row = peakRow(image, style.model, stretch, style.width, counter);
-  if (row.peaks.length < 40) return undefined;
-  const broken = dashReach(inkOrGap(row.peaks, style.threshold), row.spacing, style.width);
+  if (stretch.length < MIN_STRETCH_POINTS) return undefined;
+  // A line already known to be broken keeps its pattern; only a solid model's line is read for one.
+  const broken = style.reach ? undefined : dashReach(inkOrGap(peakRow(image, style.model, stretch, style.width, counter).peaks, style.threshold), ROW_SPACING, style.width);
   const reach = broken ?? 0;
   const spacing = 0.5;
   const n = Math.ceil((2 * style.width + 3) / spacing);
@@ -186,8 +189,7 @@ export function restyleAlong(image: RasterImage, style: LineStyle, path: readonl
   // Only a narrower line: a width sampled where the line touched other ink comes out too wide,
   // while a wider model than the guide's would take neighbours and grid lines for the line.
   const newWidth = measured < WIDTH_CHANGE * style.width ? measured : style.width;
-  // A pattern read on a short stretch may miss its longest gap: the wider reach is kept.
-  const newReach = Math.max(broken ?? 0, style.reach ?? 0);
+  const newReach = broken ?? style.reach ?? 0;
   if (newWidth === style.width && (newReach ?? 0) === (style.reach ?? 0)) return undefined;
   return { ...style, width: newWidth, ...(newReach ? { reach: newReach } : {}) };
 }

@@ -1015,8 +1015,8 @@ const BUNCH_WIDTHS = 10;
 const FOUND_AGAIN_PX = 40;
 
 /** Longest gap, pixels (or line widths when more), bridged on the prediction alone on a try with a model measured again. */
-const RETRY_GAP_PX = 40;
-const RETRY_GAP_WIDTHS = 12;
+const RETRY_GAP_PX = 80;
+const RETRY_GAP_WIDTHS = 25;
 
 /** Times an extension may find its line again after losing it. */
 const MAX_REACQUIRE = 4;
