@@ -21,6 +21,7 @@ import { findRuns, inkAxis, membershipAt, sampleInkSection, sampleLongSection, s
 import { sheetPoint, type SheetPoint } from './points.ts';
 import type { RasterImage } from './raster.ts';
 import { alongBand } from './rasterBand.ts';
+import { dashReach, restyleAlong } from './rasterEnds.ts';
 import { cutFollow, foreignGuides, foreignRun, type Locate, type RoomAt } from './rasterSiblings.ts';
 
 /** Guides or options the tracer cannot use. The message says what to change. */
@@ -188,13 +189,6 @@ function acquire(image: RasterImage, guide: Px, search: number, options: RasterT
   return { style: { model, width, threshold: THRESHOLD, massRange }, centre: measured.centre, axis: measured.axis, isotropy: measured.isotropy };
 }
 
-/** Least share of the gaps and dashes seen along a broken line that must follow its pattern. */
-const PATTERN_SHARE = 0.7;
-
-/** Longest gap between dashes that a broken line may have, in line widths and at least in pixels. */
-const DASH_GAP_WIDTHS = 6;
-const DASH_GAP_MIN_PX = 12;
-
 /**
  * Whether the line through `centre` is dashed or dotted, and if so the reach along the line
  * that spans its gaps (half the longest gap plus a pixel). The line's direction comes from
@@ -215,36 +209,9 @@ function brokenLine(image: RasterImage, model: InkModel, centre: Px, width: numb
     for (let s = -across; s <= across; s += 0.5) best = Math.max(best, membershipAt(image, model, centre[0] + axis.dx * t - axis.dy * s, centre[1] + axis.dy * t + axis.dx * s));
     on.push(best >= THRESHOLD);
   }
-  // Interior runs of ink and of gaps, pixels.
-  const gaps: number[] = [];
-  const dashes: number[] = [];
-  const first = on.indexOf(true);
-  const last = on.lastIndexOf(true);
-  if (first < 0) return undefined;
-  let run = 0;
-  for (let i = first; i <= last + 1; i++) {
-    const here = i <= last && (on[i] as boolean);
-    if (i > first && here !== (on[i - 1] as boolean)) {
-      (here ? gaps : dashes).push(run * spacing);
-      run = 0;
-    }
-    run++;
-  }
-  dashes.shift(); // the first dash may be cut by the window
-  const real = gaps.filter((g) => g >= 1);
-  if (real.length < 3 || dashes.length < 2) return undefined;
-  const median = (v: number[]) => [...v].sort((a, b) => a - b)[Math.floor(v.length / 2)] as number;
-  // A printed pattern repeats: most gaps and dashes are of about one length each. A few may not
-  // be (a faint dot lost to the compression, a speck, the line bending out of the window's
-  // band); noise on a solid line under a poor colour sample flickers at random lengths.
-  const gapMedian = median(real);
-  const dashMedian = median(dashes);
-  const regular = real.filter((g) => g >= 0.5 * gapMedian && g <= 1.8 * gapMedian);
-  const regularDashes = dashes.filter((d) => d <= 3 * dashMedian + 2);
-  if (regular.length < 3 || regular.length < PATTERN_SHARE * gaps.length || regularDashes.length < PATTERN_SHARE * dashes.length) return undefined;
-  const longest = Math.max(...regular);
-  if (longest > Math.max(DASH_GAP_MIN_PX, DASH_GAP_WIDTHS * width)) return undefined;
-  return { reach: 0.5 * longest + 1, axis: [axis.dx, axis.dy], isotropy: axis.isotropy };
+  const reach = dashReach(on, spacing, width);
+  if (reach === undefined) return undefined;
+  return { reach, axis: [axis.dx, axis.dy], isotropy: axis.isotropy };
 }
 
 /** The nearest pixel centre to `p` whose membership is at least one half, within `radius`. */
@@ -850,6 +817,14 @@ function judgeExtension(result: FollowResult, kept: number | undefined, frame: r
   return [points, undefined];
 }
 
+/** True when a follow ended after coasting (it lost its line) rather than on the line itself: more than a few steps lie between its last accepted point and where it stopped. */
+function coastedAtEnd(result: FollowResult, width: number): boolean {
+  const n = result.points.length;
+  const m = result.track.length;
+  if (n < 2 || m < 2) return false;
+  return Math.hypot((result.track[m - 2] as number) - (result.points[n - 2] as number), (result.track[m - 1] as number) - (result.points[n - 1] as number)) > 4 * stepping(width).step;
+}
+
 /**
  * True when a trace's end lies on the frame's right, top or bottom edge (within four line widths
  * and at least 14 px: the follower stops a little short of the frame line), away from its left
@@ -888,7 +863,7 @@ function clipToFrame(path: Px[], frame: readonly [number, number, number, number
  */
 function extendToEnds(
   image: RasterImage,
-  style: LineStyle,
+  traced: LineStyle,
   path: Px[],
   maxGap: number,
   frame: readonly [number, number, number, number] | undefined,
@@ -904,10 +879,37 @@ function extendToEnds(
     let heading = tangentAt(stretch, stretch.length - 1, 1);
     // Where the line was last found again (an index into `out`), or -1.
     let resumed = -1;
+    // The model this end is followed with: the trace's, or one measured again along the line.
+    let style = traced;
+    let restyled = false;
     for (let round = 0; round < MAX_REACQUIRE; round++) {
-      const result = followLine(image, style, end, heading, undefined, limits, counter);
-      const [inside] = judgeExtension(result, undefined, frame, image.scale, style.width);
-      const smooth = keepSmooth(all, inside, style, maxGap, { image, counter, doubts });
+      let result = followLine(image, style, end, heading, undefined, limits, counter);
+      let [inside] = judgeExtension(result, undefined, frame, image.scale, style.width);
+      let smooth = keepSmooth(all, inside, style, maxGap, { image, counter, doubts });
+      // Lost on the way (the follower coasted at the end, inside the frame): the model sampled
+      // under a guide may not fit the line here (a dotted line taken for solid, a width taken
+      // where the line touched other ink). The line's look is measured again along what was
+      // followed, once an end, and that model is kept when it follows the line clearly farther.
+      if (!restyled && inside.length >= result.points.length / 2 - 1 && coastedAtEnd(result, style.width)) {
+        restyled = true;
+        const again = restyleAlong(image, style, all, counter);
+        if (again) {
+          // A shorter gap bridged on the try: a line the new model sees shows at once (what hides
+          // it farther on is looked past by the search for the lost line), and a try that finds
+          // nothing ends soon.
+          const retry = followLine(image, again, end, heading, undefined, { ...limits, maxGap: Math.min(maxGap, Math.max(RETRY_GAP_PX, RETRY_GAP_WIDTHS * traced.width)) }, counter);
+          const [within] = judgeExtension(retry, undefined, frame, image.scale, again.width);
+          const seen: EndDoubt[] = [];
+          const kept = keepSmooth(all, within, again, maxGap, { image, counter, doubts: seen });
+          if (pathLength([end, ...kept], 0) > pathLength([end, ...smooth], 0) + Math.max(FOUND_AGAIN_PX, 12 * traced.width)) {
+            style = again;
+            result = retry;
+            inside = within;
+            smooth = kept;
+            doubts.push(...seen);
+          }
+        }
+      }
       // Over another trace's guide the extension is on that trace's line: it ends where it joined it.
       const onto = offOthers(smooth);
       if (onto !== undefined) {
@@ -955,7 +957,7 @@ function extendToEnds(
   const head = outward([...path].reverse());
   path.unshift(...head.reverse());
   path.push(...tail);
-  if (frame) clipToFrame(path, frame, image.scale, style.width);
+  if (frame) clipToFrame(path, frame, image.scale, traced.width);
   return doubts;
 }
 
@@ -1021,6 +1023,10 @@ const BUNCH_WIDTHS = 10;
 
 /** Least length, pixels (or 12 line widths), of a line found again beyond a gap: a drawn curve goes on, a label's stroke does not. */
 const FOUND_AGAIN_PX = 40;
+
+/** Longest gap, pixels (or line widths when more), bridged on the prediction alone on a try with a model measured again. */
+const RETRY_GAP_PX = 80;
+const RETRY_GAP_WIDTHS = 25;
 
 /** Times an extension may find its line again after losing it. */
 const MAX_REACQUIRE = 4;

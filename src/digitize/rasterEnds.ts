@@ -1,0 +1,195 @@
+/**
+ * The line's own look where a whole-line trace runs on beyond its guides: its dash pattern read
+ * from a row of ink samples, and its width and pattern measured again along the stretch already
+ * followed. The model sampled under a guide may be off (a dotted line blurred into a solid stroke
+ * under the guide, or a width taken where the line touched a grid line or a neighbour); along the
+ * followed stretch the line is seen over many widths, and that measure lets the trace go on to
+ * the line's own ends. Pure: works on the RGBA buffer only.
+ */
+import type { InkModel } from './colour.ts';
+import type { LineStyle } from './lineFollow.ts';
+import { findRuns, membershipAt, sampleLongSection, sampleSection, type ReadCounter, type Run } from './lineProfile.ts';
+import type { RasterImage } from './raster.ts';
+
+type Px = [number, number];
+
+/** Least share of the gaps and dashes seen along a broken line that must follow its pattern. */
+const PATTERN_SHARE = 0.7;
+
+/** Longest gap between dashes that a broken line may have, in line widths and at least in pixels. */
+const DASH_GAP_WIDTHS = 6;
+const DASH_GAP_MIN_PX = 12;
+
+/**
+ * The reach that spans the gaps of a broken line (half its longest regular gap plus a pixel),
+ * from a row of samples along it `spacing` pixels apart (true where ink of the line lies), or
+ * undefined when the row shows no dash pattern. Three or more gaps between ink, most of about
+ * one length and none longer than a few line widths, and most dashes of about one length, make
+ * a broken line; a single gap is a label or a crossing, and noise on a solid line flickers at
+ * random lengths.
+ */
+export function dashReach(on: readonly boolean[], spacing: number, width: number): number | undefined {
+  const gaps: number[] = [];
+  const dashes: number[] = [];
+  const first = on.indexOf(true);
+  const last = on.lastIndexOf(true);
+  if (first < 0) return undefined;
+  let run = 0;
+  for (let i = first; i <= last + 1; i++) {
+    const here = i <= last && (on[i] as boolean);
+    if (i > first && here !== (on[i - 1] as boolean)) {
+      (here ? gaps : dashes).push(run * spacing);
+      run = 0;
+    }
+    run++;
+  }
+  dashes.shift(); // the first dash may be cut by the window
+  const real = gaps.filter((g) => g >= 1);
+  if (real.length < 3 || dashes.length < 2) return undefined;
+  const median = (v: number[]) => [...v].sort((a, b) => a - b)[Math.floor(v.length / 2)] as number;
+  const gapMedian = median(real);
+  const dashMedian = median(dashes);
+  const regular = real.filter((g) => g >= 0.5 * gapMedian && g <= 1.8 * gapMedian);
+  const regularDashes = dashes.filter((d) => d <= 3 * dashMedian + 2);
+  if (regular.length < 3 || regular.length < PATTERN_SHARE * gaps.length || regularDashes.length < PATTERN_SHARE * dashes.length) return undefined;
+  const longest = Math.max(...regular);
+  if (longest > Math.max(DASH_GAP_MIN_PX, DASH_GAP_WIDTHS * width)) return undefined;
+  return 0.5 * longest + 1;
+}
+
+/** Length of followed line, pixels (or line widths when more), over which its look is measured again. */
+const MEASURE_PX = 60;
+const MEASURE_WIDTHS = 16;
+
+/** Least number of points, 2 px apart, of a followed stretch measured again (40 px). */
+const MIN_STRETCH_POINTS = 20;
+
+/** Sections across the followed stretch whose ink gives the line's width. */
+const WIDTH_SECTIONS = 11;
+
+/**
+ * Largest ratio of the measured width to the model's that makes a narrower model worth a try:
+ * above it the follower already sees the line.
+ */
+const WIDTH_CHANGE = 0.75;
+
+/** Points `spacing` apart along a path, from its start. */
+function along(points: readonly Px[], spacing: number): Px[] {
+  const out: Px[] = [];
+  let carry = 0;
+  for (let i = 1; i < points.length; i++) {
+    const a = points[i - 1] as Px;
+    const b = points[i] as Px;
+    const len = Math.hypot(b[0] - a[0], b[1] - a[1]);
+    let t = carry;
+    while (t <= len) {
+      out.push([a[0] + ((b[0] - a[0]) * t) / len, a[1] + ((b[1] - a[1]) * t) / len]);
+      t += spacing;
+    }
+    carry = t - len;
+  }
+  return out;
+}
+
+/** The last `length` pixels of a path (its end last). */
+function lastStretch(points: readonly Px[], length: number): Px[] {
+  let k = points.length - 1;
+  let total = 0;
+  while (k > 0 && total < length) {
+    total += Math.hypot((points[k] as Px)[0] - (points[k - 1] as Px)[0], (points[k] as Px)[1] - (points[k - 1] as Px)[1]);
+    k--;
+  }
+  return points.slice(k);
+}
+
+/**
+ * The most line-like sample across the path (within the line's width and a pixel) at each
+ * position `spacing` apart along it.
+ */
+function peakRow(image: RasterImage, model: InkModel, points: readonly Px[], width: number, counter: ReadCounter): { peaks: number[] } {
+  const spacing = ROW_SPACING;
+  const across = Math.max(1.5, 0.5 * width + 1);
+  const at = along(points, spacing);
+  const peaks: number[] = [];
+  for (let i = 0; i < at.length; i++) {
+    const a = at[Math.max(0, i - 4)] as Px;
+    const b = at[Math.min(at.length - 1, i + 4)] as Px;
+    const len = Math.hypot(b[0] - a[0], b[1] - a[1]) || 1;
+    const nx = -(b[1] - a[1]) / len;
+    const ny = (b[0] - a[0]) / len;
+    const p = at[i] as Px;
+    let best = 0;
+    for (let s = -across; s <= across; s += 1) best = Math.max(best, membershipAt(image, model, p[0] + nx * s, p[1] + ny * s, counter));
+    peaks.push(best);
+  }
+  return { peaks };
+}
+
+/** Spacing, pixels, of the peaks read along a followed stretch: finer than the shortest gap a dash pattern counts (1 px). */
+const ROW_SPACING = 1;
+
+/** Least swing of the peaks along a line, between its dashes and its gaps, that shows a pattern in a blurred line. */
+const MIN_SWING = 0.25;
+
+/**
+ * Ink or gap at each position of a row of peaks. A crisp broken line drops to paper between its
+ * dashes, and the line's own threshold tells them apart; a blurred one (a fine dotted line in a
+ * soft scan) keeps some colour in its gaps, which then stay above that threshold, so where the
+ * peaks swing widely the cut lies halfway between the row's low and high peaks.
+ */
+export function inkOrGap(peaks: readonly number[], threshold: number): boolean[] {
+  const sorted = [...peaks].sort((a, b) => a - b);
+  const lo = sorted[Math.floor(0.1 * (sorted.length - 1))] ?? 0;
+  const hi = sorted[Math.floor(0.9 * (sorted.length - 1))] ?? 0;
+  const cut = hi - lo >= MIN_SWING ? Math.max(threshold, (lo + hi) / 2) : threshold;
+  return peaks.map((p) => p >= cut);
+}
+
+/**
+ * The line's model measured again along the last stretch of a followed path: its dash pattern
+ * (along the path itself, which knows the line's direction better than the ink around one
+ * guide) when the model takes it for solid, and its width (the median mass of the one ink run at
+ * the path across it; on a line found broken here, each section takes the most line-like sample
+ * within the pattern's reach). Undefined when the stretch is
+ * too short to measure, shows no ink, or gives the model the follower already has.
+ */
+export function restyleAlong(image: RasterImage, style: LineStyle, path: readonly Px[], counter: ReadCounter): LineStyle | undefined {
+  // Evenly spaced: a stretch bridged between two guides may be a few points far apart.
+  const stretch = along(lastStretch(path, Math.max(MEASURE_PX, MEASURE_WIDTHS * style.width)), 2);
+  if (stretch.length < MIN_STRETCH_POINTS) return undefined;
+  // A line already known to be broken keeps its pattern; only a solid model's line is read for one.
+  const broken = style.reach ? undefined : dashReach(inkOrGap(peakRow(image, style.model, stretch, style.width, counter).peaks, style.threshold), ROW_SPACING, style.width);
+  const reach = broken ?? 0;
+  const spacing = 0.5;
+  const n = Math.ceil((2 * style.width + 3) / spacing);
+  const section = new Float64Array(2 * n + 1);
+  const runs: Run[] = [];
+  const masses: number[] = [];
+  for (let k = 0; k < WIDTH_SECTIONS; k++) {
+    const i = Math.min(stretch.length - 2, Math.floor((k * (stretch.length - 1)) / WIDTH_SECTIONS));
+    const a = stretch[i] as Px;
+    const b = stretch[i + 1] as Px;
+    const len = Math.hypot(b[0] - a[0], b[1] - a[1]);
+    if (len === 0) continue;
+    const nx = -(b[1] - a[1]) / len;
+    const ny = (b[0] - a[0]) / len;
+    if (reach > 0) sampleLongSection(image, style.model, a[0], a[1], nx, ny, n, spacing, reach, section, counter);
+    else sampleSection(image, style.model, a[0], a[1], nx, ny, n, spacing, section, counter);
+    // One run of ink where the line is: two there are the line split by another line along it
+    // (its halves are no measure of its width).
+    const here = findRuns(section, n, spacing, style.threshold, runs).filter((r) => Math.abs(r.centre) <= 0.5 * style.width + 1);
+    if (here.length === 1) masses.push((here[0] as Run).mass);
+  }
+  if (masses.length < Math.ceil(WIDTH_SECTIONS / 2)) return undefined;
+  masses.sort((x, y) => x - y);
+  const measured = Math.max(1, masses[Math.floor(masses.length / 2)] as number);
+  // A pattern found anew along with a much narrower width is no dotted line but the stretch
+  // wobbling across the edges of a line split by another (each swing of the peaks a false dot).
+  if (broken !== undefined && !style.reach && measured < WIDTH_CHANGE * style.width) return undefined;
+  // Only a narrower line: a width sampled where the line touched other ink comes out too wide,
+  // while a wider model than the guide's would take neighbours and grid lines for the line.
+  const newWidth = measured < WIDTH_CHANGE * style.width ? measured : style.width;
+  const newReach = broken ?? style.reach ?? 0;
+  if (newWidth === style.width && (newReach ?? 0) === (style.reach ?? 0)) return undefined;
+  return { ...style, width: newWidth, ...(newReach ? { reach: newReach } : {}) };
+}

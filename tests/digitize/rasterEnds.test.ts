@@ -1,0 +1,87 @@
+import { describe, expect, it } from 'vitest';
+import { sheetPoint, type SheetPoint } from '../../src/digitize/points.ts';
+import { dashReach, inkOrGap, restyleAlong } from '../../src/digitize/rasterEnds.ts';
+import { traceRaster } from '../../src/digitize/rasterTrace.ts';
+import { inkModel } from '../../src/digitize/colour.ts';
+import { picture, stroke } from './rasterPictures.ts';
+
+const head = (x: number) => 80 + 0.0006 * (x - 40) ** 2; // a falling head curve, y down
+
+function worstOff(points: readonly SheetPoint[], f: (x: number) => number): number {
+  return Math.max(...points.map((p) => Math.abs(p[1] - f(p[0]))));
+}
+
+/** A row of samples along a line: `on` px of ink, `off` px of paper, repeated, at 0.5 px spacing. */
+function row(on: number, off: number, length: number): boolean[] {
+  const out: boolean[] = [];
+  for (let t = 0; t < length; t += 0.5) out.push(t % (on + off) < on);
+  return out;
+}
+
+describe('the line\'s look along its followed stretch', () => {
+  it('reads a dash pattern from a row of samples, and no pattern from a solid line or a single break', () => {
+    expect(dashReach(row(8, 4, 80), 0.5, 2)).toBeCloseTo(3, 1); // half the 4 px gap plus a pixel
+    expect(dashReach(row(1, 5, 80), 0.5, 2)).toBeCloseTo(3.5, 1);
+    expect(dashReach(row(80, 0, 80), 0.5, 2)).toBeUndefined();
+    const oneBreak = [...row(30, 0, 30), ...row(0, 10, 10), ...row(30, 0, 30)];
+    expect(dashReach(oneBreak, 0.5, 2)).toBeUndefined();
+    // Gaps far longer than the line's width are not a pattern but breaks (labels, crossings).
+    expect(dashReach(row(20, 30, 300), 0.5, 2)).toBeUndefined();
+  });
+
+  it('tells the dots of a blurred dotted line from its gaps, where some colour stays in the gaps', () => {
+    // Peaks along a soft dotted line: 0.9 on each dot, 0.55 between dots, 3 px apart.
+    const peaks: number[] = [];
+    for (let t = 0; t < 80; t += 0.5) peaks.push(t % 3 < 1.5 ? 0.9 : 0.55);
+    // At the line's own threshold (0.4) every position is ink: no pattern shows.
+    expect(dashReach(peaks.map((p) => p >= 0.4), 0.5, 2)).toBeUndefined();
+    const row = inkOrGap(peaks, 0.4);
+    expect(row.filter(Boolean).length).toBeGreaterThan(0.4 * row.length);
+    expect(row.filter(Boolean).length).toBeLessThan(0.6 * row.length);
+    expect(dashReach(row, 0.5, 2)).toBeCloseTo(1.75, 1);
+    // A solid line whose peaks only flicker keeps the line's threshold.
+    const flicker = peaks.map((_, i) => (i % 7 === 0 ? 0.75 : 0.9));
+    expect(inkOrGap(flicker, 0.4).every(Boolean)).toBe(true);
+  });
+
+  it('finds the pattern of a blurred dotted line along the stretch followed', () => {
+    const image = picture(640, 300, (ctx) => {
+      ctx.filter = 'blur(1px)';
+      ctx.setLineDash([0.01, 4]);
+      ctx.lineCap = 'round';
+      stroke(ctx, head, 20, 620, '#222222', 2.5);
+    });
+    const guide = traceRaster(image, [sheetPoint(200, head(200))]);
+    const model = inkModel(guide.line.colour, guide.line.paper);
+    const path: [number, number][] = [];
+    for (let x = 100; x <= 200; x += 2) path.push([x, head(x)]);
+    const solid = { model, width: guide.line.widthPx, threshold: 0.4, massRange: [0.8, 1.35] as const };
+    const again = restyleAlong(image, solid, path, { reads: 0 });
+    expect(again?.reach).toBeGreaterThan(1.5);
+    expect(again?.reach).toBeLessThan(3.5);
+    expect(again?.width).toBeCloseTo(guide.line.widthPx, 1);
+  });
+
+  it('measures a narrower width along a followed stretch than the model taken under a guide', () => {
+    const image = picture(400, 200, (ctx) => stroke(ctx, head, 20, 380, '#1f5fbf', 2));
+    const model = inkModel([31, 95, 191], [255, 255, 255]);
+    const path: [number, number][] = [];
+    for (let x = 100; x <= 200; x += 2) path.push([x, head(x)]);
+    const wide = { model, width: 5, threshold: 0.4, massRange: [0.55, 1.5] as const };
+    const again = restyleAlong(image, wide, path, { reads: 0 });
+    expect(again?.width).toBeGreaterThan(1.5);
+    expect(again?.width).toBeLessThan(2.6);
+    expect(again?.reach ?? 0).toBe(0);
+    // A model that already fits is left as it is.
+    expect(restyleAlong(image, { ...wide, width: 2 }, path, { reads: 0 })).toBeUndefined();
+  });
+
+  it('follows a line to its ends when the width taken under the guides is too wide for the line elsewhere', () => {
+    const image = picture(640, 300, (ctx) => stroke(ctx, head, 20, 620, '#1f5fbf', 2));
+    // As where a guide sat on the line where it touched a grid line or a neighbour.
+    const result = traceRaster(image, [sheetPoint(200, head(200)), sheetPoint(300, head(300))], { widthPx: 4.5 });
+    expect(Math.min(...result.points.map((p) => p[0]))).toBeLessThan(30);
+    expect(Math.max(...result.points.map((p) => p[0]))).toBeGreaterThan(605);
+    expect(worstOff(result.points, head)).toBeLessThan(1);
+  });
+});
