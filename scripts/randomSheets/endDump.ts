@@ -1,11 +1,11 @@
 /**
  * Where a raster trace of the random bed stops short of its drawn line, and a picture of it:
  * for each named trace, the stretches of the drawn line the trace does not cover (by position
- * along the line), the trace's lost stretches and notes, and a crop (PNG, /tmp/rends-crops)
+ * along the line), the trace's lost stretches and notes, and a crop (PNG, /tmp/pumpscribe-end-crops)
  * around each uncovered stretch's near end with the drawn line (green), the trace (red) and the
  * guides (blue) overlaid.
  *
- *   npx tsx scripts/rends/endDump.ts 12:power-12 24:head-12.625
+ *   npx tsx scripts/randomSheets/endDump.ts 12:power-12 24:head-12.625
  */
 import { createHash } from 'node:crypto';
 import { mkdirSync } from 'node:fs';
@@ -15,11 +15,11 @@ import { imageSheet } from '../../src/digitize/loaders/imageSheet.ts';
 import { replayTakeoff } from '../../src/digitize/takeoff.ts';
 import { nearestOnPolyline } from '../../src/digitize/polyline.ts';
 import { parseTakeoff } from '../../src/model/takeoff.ts';
-import { applyH, decode } from '../randomSheets/camera.ts';
-import { sheetGeometry } from '../randomSheets/randomSheet.ts';
+import { applyH, decode } from './camera.ts';
+import { sheetGeometry } from './randomSheet.ts';
 import type { SheetPoint } from '../../src/digitize/points.ts';
 
-const out = '/tmp/rends-crops';
+const out = '/tmp/pumpscribe-end-crops';
 mkdirSync(out, { recursive: true });
 const bySeed = new Map<number, string[]>();
 for (const a of process.argv.slice(2)) {

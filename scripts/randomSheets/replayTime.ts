@@ -3,14 +3,14 @@
  * process (steadier than the wall clock on a busy machine): for comparing the tracer's speed
  * between two versions, run it alternately with each.
  *
- *   npx tsx scripts/rends/timeReplay.ts 1 20     # seeds 1 to 20
+ *   npx tsx scripts/randomSheets/replayTime.ts 1 20     # seeds 1 to 20
  */
 import { createHash } from 'node:crypto';
 import { sheetFor } from '../../bench/randomSheets.bench.ts';
 import { imageSheet } from '../../src/digitize/loaders/imageSheet.ts';
 import { replayTakeoff } from '../../src/digitize/takeoff.ts';
 import { parseTakeoff } from '../../src/model/takeoff.ts';
-import { decode } from '../randomSheets/camera.ts';
+import { decode } from './camera.ts';
 
 const from = Number(process.argv[2] ?? 1);
 const to = Number(process.argv[3] ?? 20);
