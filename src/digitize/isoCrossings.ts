@@ -8,7 +8,8 @@
  * little short of it (the thick head curve hides its last pixels). Each end is therefore
  * extended along the iso-line's own direction by `reach` sheet units (the caller sets it from
  * a tolerance in data units and line widths); where the extension meets a head trace with no
- * crossing nearby, that is a crossing. Failing that, an end within `touchTolerance` of a head
+ * crossing nearby, that is a crossing. A head curve that ends on an iso-line is met the same
+ * way: each end of a head trace is extended along its own direction by the same reach. Failing that, an end within `touchTolerance` of a head
  * trace counts as a crossing at the nearest point of that trace.
  */
 import { intersections, nearestOnPolyline } from './polyline.ts';
@@ -81,6 +82,19 @@ export function isoCrossings<K>(iso: readonly SheetPoint[], targets: readonly Cr
         if (found.some((f) => Math.hypot(f.at[0] - c.point[0], f.at[1] - c.point[1]) <= 2 * Math.max(touch, 0.25 * far))) continue;
         found.push({ key: target.key, at: c.point, touching: true });
         break;
+      }
+    }
+    // A head curve often ends on an iso-line (the maker stops the curve at its last iso level),
+    // and a followed head curve stops a little short of it: its ends are extended the same way.
+    if (far > 0) {
+      for (const fromEnd of [false, true]) {
+        const end = (fromEnd ? target.points[target.points.length - 1] : target.points[0]) as SheetPoint;
+        const dir = endDirection(target.points, fromEnd, Math.max(far, 6 * w));
+        if (!dir) continue;
+        const ray = [end, [end[0] + far * dir[0], end[1] + far * dir[1]] as unknown as SheetPoint];
+        const c = intersections(ray, iso)[0];
+        if (!c || found.some((f) => Math.hypot(f.at[0] - c.point[0], f.at[1] - c.point[1]) <= 2 * Math.max(touch, 0.25 * far))) continue;
+        found.push({ key: target.key, at: c.point, touching: true });
       }
     }
     for (const end of [iso[0] as SheetPoint, iso[iso.length - 1] as SheetPoint]) {

@@ -4,7 +4,10 @@
  * line model sampled there follows the head curve. A guide within a line width or so of a
  * traced head curve is therefore moved a few head widths along the other ink that leaves the
  * crossing: on a circle around the guide, the ink that lies away from every head trace
- * belongs to the iso-line (or, fainter, to a grid line, which runs level or upright). The
+ * belongs to the iso-line (or, fainter, to a grid line, which runs level or upright). Where the
+ * trace has another guide some way off, the iso-line leaves the crossing towards it (within
+ * BEYOND_TURN), so other ink leaving elsewhere (a curve of another quantity, a label) is not
+ * taken for it; failing a run that way, the darkest run is taken as before. The
  * moved guide sits on the thin line alone, so the model is the thin line's; it still says
  * which line, and the trace runs to the line's own ends as before.
  *
@@ -43,13 +46,38 @@ export function guidesOffCrossings(image: RasterImage, guides: readonly SheetPoi
     const near = usable.filter((l) => nearestOnPolyline(l.points, g).distance * s <= ON_LINE_WIDTHS * l.width * s + ON_LINE_PX);
     if (near.length === 0) return;
     const widest = Math.max(...near.map((l) => l.width * s));
-    const to = offCrossing(image, [g[0] * s, g[1] * s], widest, usable, s);
+    const centre: [number, number] = [g[0] * s, g[1] * s];
+    const heading = towardsNeighbour(guides, index, s, Math.max(8, 3 * widest + 3) * NEIGHBOUR_RADII);
+    const to = (heading && offCrossing(image, centre, widest, usable, s, heading)) ?? offCrossing(image, centre, widest, usable, s);
     if (!to) return;
     const p = sheetPoint(to[0] / s, to[1] / s);
     out[index] = p;
     moved.push({ index, from: g, to: p });
   });
   return { guides: out, moved };
+}
+
+/** A neighbouring guide at least this many circle radii away gives the iso-line's course at a guide on a crossing. */
+const NEIGHBOUR_RADII = 2;
+
+/**
+ * Unit vector, pixels, from guide `index` towards the nearest other guide at least `least`
+ * pixels off: the iso-line runs from a crossing towards the other guides on it, since they sit
+ * on the same line. Undefined when no other guide is that far.
+ */
+function towardsNeighbour(guides: readonly SheetPoint[], index: number, s: number, least: number): [number, number] | undefined {
+  const g = guides[index] as SheetPoint;
+  let best: [number, number] | undefined;
+  let bestD = Infinity;
+  guides.forEach((o, k) => {
+    const dx = (o[0] - g[0]) * s;
+    const dy = (o[1] - g[1]) * s;
+    const d = Math.hypot(dx, dy);
+    if (k === index || d < least || d >= bestD) return;
+    bestD = d;
+    best = [dx / d, dy / d];
+  });
+  return best;
 }
 
 /** Largest turn, radians, between an iso-trace's direction at its end and the ink it is continued along beyond a head curve (about 35°). */

@@ -69,3 +69,26 @@ describe('iso crossings with tolerances in line widths', () => {
     expect(isoCrossings(iso, [{ key: 13, points: head, width: 3 }], 2, 5, 1)).toEqual([]);
   });
 });
+
+describe('a head curve that ends on an iso-line', () => {
+  // A head trace heading right and down that stops 6 units short of an iso-line at x = 300
+  // (the maker ended the curve on the iso-line; the follower lost its last pixels there).
+  const head = line(Array.from({ length: 25 }, (_, i) => [102 + 8 * i, 100 + 0.0006 * (8 * i) ** 2] as [number, number]));
+  const end = head[head.length - 1]!;
+  const iso = line([[end[0] + 6, 40], [end[0] + 6, 400]]);
+
+  it('extends the head trace along its own direction to meet the iso-line', () => {
+    expect(isoCrossings(iso, [{ key: 13, points: head }])).toEqual([]);
+    const got = isoCrossings(iso, [{ key: 13, points: head, width: 2 }], 2, 0, 1);
+    expect(got).toHaveLength(1);
+    expect(got[0]!.touching).toBe(true);
+    expect(got[0]!.at[0]).toBeCloseTo(end[0] + 6, 6);
+    // On the head curve's own continuation: y = 100 + 0.0006·(x − 102)², within its curvature over 6 units.
+    expect(got[0]!.at[1]).toBeCloseTo(100 + 0.0006 * (end[0] + 6 - 102) ** 2, 0);
+  });
+
+  it('does not reach an iso-line farther off than the widths allow', () => {
+    const far = line([[end[0] + 40, 40], [end[0] + 40, 400]]);
+    expect(isoCrossings(far, [{ key: 13, points: head, width: 2 }], 2, 0, 1)).toEqual([]);
+  });
+});

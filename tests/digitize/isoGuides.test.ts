@@ -129,3 +129,34 @@ describe('iso-line guides clicked on a crossing with a head curve', () => {
     expect(guideBeyondCrossing(image, crossing(head), [1, 0], lines)).toBeUndefined();
   });
 });
+
+describe('a guide on a crossing where other ink leaves it too', () => {
+  // A grey iso-line ends on the head curve from below; an untraced black line (a curve of another
+  // quantity, thicker and darker than the iso-line) leaves the same crossing up and to the right.
+  function busySheet(at: SheetPoint): RasterImage {
+    const canvas = createCanvas(400, 300);
+    const ctx = canvas.getContext('2d');
+    ctx.fillStyle = '#ffffff';
+    ctx.fillRect(0, 0, 400, 300);
+    const path = (pts: [number, number][], colour: string, w: number) => {
+      ctx.strokeStyle = colour;
+      ctx.lineWidth = w;
+      ctx.beginPath();
+      pts.forEach(([x, y], k) => (k === 0 ? ctx.moveTo(x, y) : ctx.lineTo(x, y)));
+      ctx.stroke();
+    };
+    path(Array.from({ length: 361 }, (_, i) => [20 + i, head(20 + i)] as [number, number]), '#111111', 3);
+    path(Array.from({ length: 81 }, (_, i) => [150 + ((at[0] - 150) * i) / 80, iso(150 + ((at[0] - 150) * i) / 80)] as [number, number]), '#555555', 1);
+    path([[at[0], at[1]], [at[0] + 45, at[1] - 30]], '#000000', 2);
+    return { width: 400, height: 300, data: new Uint8ClampedArray(ctx.getImageData(0, 0, 400, 300).data), scale: 1 };
+  }
+
+  it('moves the guide along the iso-line towards the trace\'s other guides, not onto the darker line', () => {
+    const at = crossing();
+    const image = busySheet(at);
+    const other = sheetPoint(160, iso(160)); // a second guide further down the same iso-line
+    const { guides, moved } = guidesOffCrossings(image, [at, other], [{ points: headPoints, width: 3 }]);
+    expect(moved.map((m) => m.index)).toEqual([0]);
+    expect(distanceToPolyline(isoPoints(150, at[0]), guides[0] as SheetPoint)).toBeLessThan(1);
+  });
+});
