@@ -252,7 +252,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
     }
     // A crossing is exact only where both lines are drawn paths; on a scan it is a reading.
     const exactAt = (key: number) => outcome.how === 'vector' && heads.every((h) => h.key !== key || h.how === 'vector');
-    for (const c of crossings) {
+    for (const c of readableCrossings(crossings)) {
       const flow = toSI(cal.toData(c.at)[0], u.flow);
       if (flow < 0) continue;
       add(trace.quantity, c.key, [[flow, toSI(trace.iso, u.value)]], exactAt(c.key) ? 'iso' : 'iso-read', outcome.id);
@@ -418,6 +418,17 @@ function valueSpan(anchors: readonly { y?: number | undefined }[]): number | und
 function axisFlow(anchors: readonly { x?: number | undefined }[], unit: Unit): [number, number] | undefined {
   const xs = anchors.flatMap((a) => (a.x === undefined ? [] : [toSI(a.x, unit)]));
   return xs.length >= 2 ? [Math.min(...xs), Math.max(...xs)] : undefined;
+}
+
+/**
+ * The crossings of one iso trace that are readings: one iso-line meets a head curve at most
+ * twice, so more crossings with one head trace are a trace that ran along that head curve, and
+ * none of them is used (the audit names them, `auditIsoCrossings`).
+ */
+export function readableCrossings<K>(crossings: readonly IsoCrossing<K>[]): IsoCrossing<K>[] {
+  const perHead = new Map<K, number>();
+  for (const c of crossings) perHead.set(c.key, (perHead.get(c.key) ?? 0) + 1);
+  return crossings.filter((c) => (perHead.get(c.key) ?? 0) <= 2);
 }
 
 /** Distance from a refused guide, in widths of the followed line (and at least one sheet unit), within which the trace still honours it. */

@@ -371,11 +371,13 @@ export function auditIsoCrossings(counts: readonly IsoCount[], headDiameters: re
     for (const [d, n] of perHead) {
       if (n <= 2) continue;
       const traces = counts.filter((c) => c.level === level).map((c) => c.trace);
+      // A single trace meeting a head curve more than twice adds none of those crossings (takeoff.ts).
+      const dropped = counts.filter((c) => c.level === level && (c.perHead.get(d) ?? 0) > 2).map((c) => c.trace);
       out.push({
         code: 'takeoff.iso-crossings',
         severity: 'fail',
         ...(traces.length === 1 ? { trace: traces[0] as string } : {}),
-        message: `The iso-line${traces.length === 1 ? '' : 's'} ${traces.join(', ')} of level ${level} meet${traces.length === 1 ? 's' : ''} the head trace of diameter ${d} ${n} times, where one level can meet a head curve at most twice; the trace probably followed another line. Place its guides where the iso-line stands alone, between the head curves, rather than on the crossings.`,
+        message: `The iso-line${traces.length === 1 ? '' : 's'} ${traces.join(', ')} of level ${level} meet${traces.length === 1 ? 's' : ''} the head trace of diameter ${d} ${n} times, where one level can meet a head curve at most twice; the trace probably followed another line${dropped.length > 0 ? `; the crossings of ${dropped.join(', ')} with it are left out of the efficiency points` : ''}. Place its guides where the iso-line stands alone, between the head curves, rather than on the crossings.`,
         figures: { crossings: n },
       });
     }

@@ -1,4 +1,4 @@
-/** Which refused guides make a raster trace untrusted (src/digitize/takeoff.ts, `refusedGuides`). */
+/** Which readings of raster traces count (src/digitize/takeoff.ts): refused guides, and iso crossings used as efficiency points. */
 import { describe, expect, it } from 'vitest';
 import { REFUSED_GUIDE_WIDTHS, refusedGuides } from '../../src/digitize/takeoff.ts';
 import { sheetPoint } from '../../src/digitize/points.ts';
@@ -21,5 +21,16 @@ describe('refused guides', () => {
 
   it('never counts a lost stretch between two guides as a refused guide', () => {
     expect(refusedGuides([{ at: sheetPoint(150, 140), between: [1, 2], reason: 'the line was lost' }], points, 2)).toBe(0);
+  });
+});
+
+describe('iso crossings used as efficiency points', () => {
+  it('leaves out every crossing of an iso trace with a head trace it meets more than twice, and keeps the others', async () => {
+    const { readableCrossings } = await import('../../src/digitize/takeoff.ts');
+    const at = (x: number) => sheetPoint(x, 100);
+    // Invented: the trace meets head 370 four times (it ran along it) and head 330 twice (a U-shaped iso-line).
+    const crossings = [370, 330, 370, 370, 330, 370].map((key, i) => ({ key, at: at(10 * i), touching: false }));
+    expect(readableCrossings(crossings).map((c) => c.key)).toEqual([330, 330]);
+    expect(readableCrossings(crossings.filter((c) => c.key === 330))).toHaveLength(2);
   });
 });
