@@ -5,8 +5,8 @@
  * against the bed's exact truth at 15–95 % of each curve's flow range.
  */
 import { afterAll, describe, expect, it } from 'vitest';
-import { affinityHolds, chooseNames, joinUnitWords, misreadInchLabel } from '../../src/digitize/detect/rasterCurves.ts';
-import { alonePlaces, frameLines, trackAt } from '../../src/digitize/detect/rasterLines.ts';
+import { affinityHolds, chooseNames, joinUnitWords, misreadInchLabel, piecesOf } from '../../src/digitize/detect/rasterCurves.ts';
+import { alonePlaces, continuesCourse, frameLines, trackAt, type Track } from '../../src/digitize/detect/rasterLines.ts';
 import type { InkMap } from '../../src/digitize/detect/ink.ts';
 import { detectTakeoff } from '../../src/digitize/detect/detect.ts';
 import { imageSheet } from '../../src/digitize/loaders/imageSheet.ts';
@@ -76,6 +76,66 @@ describe('lines in a frame', () => {
       const places = alonePlaces(t, 8, 8, 60);
       for (const p of places) expect(p.u).toBeGreaterThan(300 + 8 / 0.5 / 2);
     }
+  });
+});
+
+describe('a line carried on past the end found', () => {
+  // A falling, bending curve found from column 60 to 300 (its ink lost there), drawn on to 450.
+  const f = (x: number) => 100 + 0.002 * (x - 50) ** 2;
+  const track: Track = { u: [], v: [], len: [], room: [] };
+  for (let u = 60.5; u <= 300; u++) [track.u.push(u), track.v.push(f(u)), track.len.push(2), track.room.push(50)];
+  const along = (from: number, to: number, g: (x: number) => number) => {
+    const out: [number, number][] = [];
+    for (let x = from; x <= to; x += 3) out.push([x, g(x)]);
+    return out;
+  };
+  it('the rest of the line, on its own bending course, carries it on at either end', () => {
+    expect(continuesCourse(track, along(301, 450, f), 'end', 3, 75)).toBe(true);
+    const head: Track = { u: track.u.filter((u) => u >= 150), v: track.v.filter((_, i) => (track.u[i] as number) >= 150), len: [], room: [] };
+    expect(continuesCourse(head, along(60, 149, f), 'start', 3, 75)).toBe(true);
+  });
+  it('a turn off into a label beside the end, or onto another line, does not; nor a run on twice the stretch judged', () => {
+    // Up and to the right, into a label: 12 px above the course within 20 columns.
+    expect(continuesCourse(track, along(301, 330, (x) => f(x) - 0.6 * (x - 300)), 'end', 3, 75)).toBe(false);
+    // Onto a neighbour 10 px below, from the end on.
+    expect(continuesCourse(track, along(320, 450, (x) => f(x) + 10), 'end', 3, 75)).toBe(false);
+    expect(continuesCourse(track, along(301, 480, f), 'end', 3, 75)).toBe(false);
+    expect(continuesCourse(track, [], 'end', 3, 75)).toBe(false);
+  });
+});
+
+describe('a line found in pieces', () => {
+  const frame = [50, 50, 550, 350] as [number, number, number, number];
+  const line = (f: (x: number) => number, from: number, to: number): Track => {
+    const t: Track = { u: [], v: [], len: [], room: [] };
+    for (let u = from + 0.5; u < to; u++) [t.u.push(u), t.v.push(f(u)), t.len.push(2), t.room.push(50)];
+    return t;
+  };
+  const f = (x: number) => 100 + 0.002 * (x - 50) ** 2;
+  const g = (x: number) => 130 + 0.002 * (x - 50) ** 2;
+  // The tracer's line in sheet units is the level line here (toLevel is the identity).
+  const sheetLine = (h: (x: number) => number, from: number, to: number) => line(h, from, to).u.map((u, i) => [u, line(h, from, to).v[i] as number] as [number, number]);
+  const id = (p: readonly [number, number]) => [p[0], p[1]] as [number, number];
+  it("a piece lying along the tracer's line of a surer line of its frame is that line: dropped; the whole line and its neighbour stay", () => {
+    const whole = { track: line(f, 55, 500), traced: sheetLine(f, 55, 545), confidence: 0.95, levelFrame: frame };
+    const piece = { track: line(f, 380, 470), traced: sheetLine(f, 55, 545), confidence: 0.95, levelFrame: frame };
+    const lost = { track: line(f, 300, 360), traced: [], confidence: 0, levelFrame: frame };
+    const neighbour = { track: line(g, 55, 500), traced: sheetLine(g, 55, 545), confidence: 0.95, levelFrame: frame };
+    const dropped = piecesOf([whole, piece, lost, neighbour] as never, id as never);
+    expect([...dropped]).toEqual([piece, lost]);
+  });
+  it('nothing is dropped along an unsure line, nor along a line of another frame', () => {
+    const unsure = { track: line(f, 55, 500), traced: sheetLine(f, 55, 545), confidence: 0.3, levelFrame: frame };
+    const piece = { track: line(f, 380, 470), traced: [], confidence: 0, levelFrame: frame };
+    expect(piecesOf([unsure, piece] as never, id as never).size).toBe(0);
+    const elsewhere = { track: line(f, 55, 500), traced: sheetLine(f, 55, 545), confidence: 0.95, levelFrame: [50, 50, 550, 350] as [number, number, number, number] };
+    expect(piecesOf([elsewhere, piece] as never, id as never).size).toBe(0);
+  });
+  it("a line whose own tracer keeps to it is no piece of a line whose tracer ran on onto it", () => {
+    // A short line on f's left, its tracer running on and down onto g; g's tracer keeps to g.
+    const runner = { track: line(f, 55, 200), traced: [...sheetLine(f, 55, 200), ...sheetLine(g, 260, 545)], confidence: 0.95, levelFrame: frame };
+    const other = { track: line(g, 300, 500), traced: sheetLine(g, 55, 545), confidence: 0.48, levelFrame: frame };
+    expect(piecesOf([runner, other] as never, id as never).size).toBe(0);
   });
 });
 

@@ -21,7 +21,7 @@ import type { RasterImage } from '../raster.ts';
 import type { InkMap, Level } from './ink.ts';
 import type { Box, FoundPanel } from './panels.ts';
 import { gridLines } from './rasterFrames.ts';
-import { alonePlaces, frameLines, trackAt, type Track } from './rasterLines.ts';
+import { alonePlaces, continuesCourse, frameLines, liesAlong, trackAt, trackOf, type Track } from './rasterLines.ts';
 import type { RasterPanelsFound } from './rasterPanels.ts';
 import { inkBlots, readCrops, wordsOf, type Blot, type TextReader } from './rasterText.ts';
 import { curveLabel, SHEET_NUMBER, sheetNumber } from './words.ts';
@@ -56,6 +56,8 @@ export interface RasterCurvesFound {
   questions: string[];
   /** Parts left out, each one sentence (the caller asks about them together, once). */
   leftOut: string[];
+  /** Every line sorted into a curve or an iso-line, named or not (for the dump scripts). */
+  lines?: RasterCurve[];
 }
 
 export interface RasterCurveOptions {
@@ -175,33 +177,57 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
       continue;
     }
     // The tracer's line against the line found here, over their common columns; and the tracer
-    // must not run on far past either end of the line found (into another line, or a label).
+    // must not run on far past either end of the line found (into another line, or a label),
+    // unless what it adds there carries on the line's own course: the rest of a line the finder
+    // lost in a bunch or at a crossing, which is then the line's true end.
     let off = 0;
     let n = 0;
-    let beyond = 0;
     const fw = c.levelFrame[2] - c.levelFrame[0];
     const first = c.track.u[0] as number;
     const last = c.track.u[c.track.u.length - 1] as number;
+    const past = { start: [] as [number, number][], end: [] as [number, number][] };
+    const tol = Math.max(3, 1.5 * width);
     for (const p of c.traced) {
       const [u, v] = toLevel(p);
-      if (u < first - 0.03 * fw || u > last + 0.03 * fw) beyond++;
+      if (u < first) past.start.push([u, v]);
+      if (u > last) past.end.push([u, v]);
       const at = trackAt(c.track, u);
       if (at === null) continue;
       n++;
-      if (Math.abs(at - v) > Math.max(3, 1.5 * width)) off++;
+      if (Math.abs(at - v) > tol) off++;
     }
     if (n < 3 || off > 0.02 * n) c.confidence *= 0.3;
+    const far = (side: 'start' | 'end') => past[side].filter(([u]) => (side === 'end' ? u > last + 0.03 * fw : u < first - 0.03 * fw)).length;
+    const carriesOn = (side: 'start' | 'end') => continuesCourse(c.track, past[side], side, tol, 0.15 * fw);
+    const runOn = { start: far('start') > 0 && carriesOn('start'), end: far('end') > 0 && carriesOn('end') };
+    const beyond = (runOn.start ? 0 : far('start')) + (runOn.end ? 0 : far('end'));
     if (beyond > 0.05 * c.traced.length) c.confidence *= 0.5;
-    // The line's ends, as found here (around the words: the tracer may run on into a label beside the end).
+    // The line's ends, as found here (around the words: the tracer may run on into a label beside
+    // the end), or the tracer's where it carried the line on.
     const n0 = c.track.u.length - 1;
-    const ends = [toSheet(c.track.u[0] as number, c.track.v[0] as number), toSheet(c.track.u[n0] as number, c.track.v[n0] as number)];
+    const endAt = (side: 'start' | 'end'): SheetPoint => {
+      const run = past[side];
+      if (runOn[side] && run.length > 0) {
+        const [u, v] = run.reduce((a, b) => ((side === 'end' ? b[0] > a[0] : b[0] < a[0]) ? b : a));
+        return toSheet(u, v);
+      }
+      const k = side === 'end' ? n0 : 0;
+      return toSheet(c.track.u[k] as number, c.track.v[k] as number);
+    };
+    const ends = [endAt('start'), endAt('end')];
     const xs = ends.map((p) => c.panel.proposal.calibration.toData(p)[0]);
     c.flows = [Math.min(...xs), Math.max(...xs)];
   }
-  const usable = curves.filter((c) => c.confidence > 0 && c.kind === 'curve');
-  const isoCount = curves.filter((c) => c.kind === 'iso').length;
+  // A line found in pieces (the finder lost it in a bunch, at a crossing or at a label) is one
+  // curve: a piece lying along the tracer's line of a surer (or longer) line of its frame is that
+  // line, already taken, and neither a curve nor a question of its own.
+  const pieces = piecesOf(curves, toLevel);
+  const kept = curves.filter((c) => !pieces.has(c));
+  if (pieces.size > 0) options.note?.(`${pieces.size} line${pieces.size === 1 ? '' : 's'} found lying along the tracer's line of another: pieces of it, dropped`);
+  const usable = kept.filter((c) => c.confidence > 0 && c.kind === 'curve');
+  const isoCount = kept.filter((c) => c.kind === 'iso').length;
   if (isoCount > 0) leftOut.push(`${isoCount} line${isoCount === 1 ? '' : 's'} on the head panel neither start${isoCount === 1 ? 's' : ''} at the flow axis nor at the bottom (iso-efficiency lines, or a line the finder broke); efficiency from iso-lines is not read on scans yet, so trace them by hand if they matter.`);
-  const lostCount = curves.filter((c) => c.confidence === 0 && c.kind === 'curve').length;
+  const lostCount = kept.filter((c) => c.confidence === 0 && c.kind === 'curve').length;
   if (lostCount > 0) leftOut.push(`${lostCount} line${lostCount === 1 ? '' : 's'} found on the panels never stand${lostCount === 1 ? 's' : ''} alone (bunched or crossed all along), so no guide could be placed on ${lostCount === 1 ? 'it' : 'them'}; trace ${lostCount === 1 ? 'it' : 'them'} by hand.`);
 
   // Names of the head curves: labels read beside them, else the values given, by order.
@@ -289,7 +315,32 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
   const twice = out.filter((c) => out.some((o) => o !== c && o.panel === c.panel && o.value === c.value));
   if (twice.length > 0) leftOut.push(`On panel "${twice[0]!.panel.id}" two curves came out as ${twice[0]!.value}; both are left out: trace them by hand.`);
   const curvesOut = out.filter((c) => !twice.includes(c));
-  return { curves: curvesOut, labelUnit: named.unit, family: named.family, questions, leftOut };
+  return { curves: curvesOut, labelUnit: named.unit, family: named.family, questions, leftOut, lines: curves };
+}
+
+/**
+ * The lines that are pieces of another: each lies (80 % of its columns, within its own width or
+ * 3 px) along the tracer's line of a line of the same frame that is surer (confidence 0.5 or more,
+ * and higher) or, as sure, spans more columns; and when it has a tracer's line of its own, the
+ * other line lies along that one too.
+ */
+export function piecesOf(curves: readonly Pick<RasterCurve, 'track' | 'traced' | 'confidence' | 'levelFrame'>[], toLevel: (p: SheetPoint) => [number, number]): Set<Pick<RasterCurve, 'track'>> {
+  const span = (c: Pick<RasterCurve, 'track'>) => (c.track.u[c.track.u.length - 1] as number) - (c.track.u[0] as number);
+  const lines = curves.filter((k) => k.confidence >= 0.5 && k.traced.length > 0).map((k) => ({ k, line: trackOf(k.traced.map(toLevel)) }));
+  const out = new Set<Pick<RasterCurve, 'track'>>();
+  for (const c of curves) {
+    const tol = Math.max(3, 1.5 * Math.max(2, median(c.track.len)));
+    for (const { k, line } of lines) {
+      if (k === c || k.levelFrame !== c.levelFrame || !(k.confidence > c.confidence || (k.confidence === c.confidence && span(k) > span(c)))) continue;
+      // Both ways when the piece has a tracer's line too: a tracer that ran on from one line onto
+      // another does not make the other a piece of it.
+      if (liesAlong(c.track, line, tol) && (c.traced.length === 0 || liesAlong(k.track, trackOf(c.traced.map(toLevel)), tol))) {
+        out.add(c);
+        break;
+      }
+    }
+  }
+  return out;
 }
 
 function median(values: readonly number[]): number {
