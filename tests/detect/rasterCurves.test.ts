@@ -5,7 +5,7 @@
  * against the bed's exact truth at 15–95 % of each curve's flow range.
  */
 import { afterAll, describe, expect, it } from 'vitest';
-import { affinityHolds, chooseNames, joinUnitWords, misreadInchLabel, piecesOf } from '../../src/digitize/detect/rasterCurves.ts';
+import { affinityHolds, chooseNames, frameWords, joinUnitWords, labelCandidates, misreadInchLabel, nearLine, piecesOf } from '../../src/digitize/detect/rasterCurves.ts';
 import { alonePlaces, continuesCourse, frameLines, trackAt, type Track } from '../../src/digitize/detect/rasterLines.ts';
 import type { InkMap } from '../../src/digitize/detect/ink.ts';
 import { detectTakeoff } from '../../src/digitize/detect/detect.ts';
@@ -136,6 +136,42 @@ describe('a line found in pieces', () => {
     const runner = { track: line(f, 55, 200), traced: [...sheetLine(f, 55, 200), ...sheetLine(g, 260, 545)], confidence: 0.95, levelFrame: frame };
     const other = { track: line(g, 300, 500), traced: sheetLine(g, 55, 545), confidence: 0.48, levelFrame: frame };
     expect(piecesOf([runner, other] as never, id as never).size).toBe(0);
+  });
+});
+
+describe('labels touching their line', () => {
+  it('a label printed on a line, its glyphs touching the line on either side, stands free once the line is taken out', () => {
+    const f = (x: number) => 120 + 0.2 * (x - 50);
+    const map = inkWith([{ f, to: 300 }, { f, from: 338 }]);
+    // Three glyphs (8 × 14 px, solid) from x = 300 to 338, centred on the line, touching it.
+    for (let k = 0; k < 3; k++) for (let x = 300 + 15 * k; x < 308 + 15 * k; x++) for (let y = Math.round(f(319)) - 7; y < Math.round(f(319)) + 7; y++) map.ink[y * W + x] = 200;
+    const lines = frameLines(map, FRAME, { grid, ceiling: 100 });
+    const word = (w: { l: number; r: number }, at: [number, number]) => [w.l + at[0], w.r + at[0]];
+    const before = frameWords(map, FRAME, 200, 14);
+    expect(before.words.map((w) => word(w, before.at)).filter(([l]) => (l as number) >= 290 && (l as number) <= 310)).toHaveLength(0);
+    const after = frameWords(map, FRAME, 200, 14, lines);
+    const found = after.words.map((w) => word(w, after.at));
+    expect(found).toHaveLength(1);
+    expect(found[0]![0]).toBeGreaterThanOrEqual(298);
+    expect(found[0]![1]).toBeLessThanOrEqual(342);
+  });
+  it('only a word on a line, or just past its end, is read as a label', () => {
+    const t: Track = { u: [100.5, 200.5, 300.5], v: [200, 180, 160], len: [2, 2, 2], room: [50, 50, 50] };
+    expect(nearLine({ l: 140, t: 182, r: 170, b: 196 }, [t])).toBe(true); // on it
+    expect(nearLine({ l: 306, t: 140, r: 340, b: 156 }, [t])).toBe(true); // beside its end
+    expect(nearLine({ l: 140, t: 120, r: 170, b: 134 }, [t])).toBe(false); // far above it
+    expect(nearLine({ l: 400, t: 140, r: 430, b: 156 }, [t])).toBe(false); // far past its end
+  });
+  it('a bare number counts in the unit of the labels read whole; never without one, and never a number of inches finer than a sixteenth', () => {
+    expect(labelCandidates('214', '214')).toEqual([]);
+    expect(labelCandidates('214', '214', 'mm')).toEqual([214]);
+    expect(labelCandidates('230 mm,', '230,')).toEqual([230]);
+    expect(labelCandidates('- 230 mm', '230')).toEqual([230]);
+    expect(labelCandidates('214', '244', 'mm')).toEqual([]);
+    expect(labelCandidates('9.25', '9.25', 'in')).toEqual([9.25]);
+    expect(labelCandidates('9.3', '9.3', 'in')).toEqual([]);
+    expect(labelCandidates('6.675"', '6.675')).toEqual([]); // a misread 6.625": finer than a sixteenth
+    expect(labelCandidates('6.625"', '6.625')).toEqual([6.625]);
   });
 });
 

@@ -129,6 +129,12 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     // The words printed in the frame (curve labels) are no line: the lines are followed around them.
     const printed = frameWords(map, frame, page.strong, page.h);
     const holes = printed.words.map((w) => [w.l + printed.at[0] - 2, w.t + printed.at[1] - 2, w.r + printed.at[0] + 2, w.b + printed.at[1] + 2] as const);
+    // In a head frame (where the labels name the curves) the labels are looked for once more with
+    // the lines' ink taken out (found without holes), so that a label touching its line stands
+    // free; only words on a line or beside a line's end are read.
+    const bare = panels.some((p) => p.quantity === 'head') ? frameLines(map, frame, { ceiling: 0.3 * page.strong, grid }) : [];
+    const labels = bare.length > 0 ? frameWords(map, frame, page.strong, page.h, bare) : printed;
+    labels.words = labels.words.filter((w) => nearLine({ l: w.l + labels.at[0], t: w.t + labels.at[1], r: w.r + labels.at[0], b: w.b + labels.at[1] }, bare.length > 0 ? bare : []));
     const tracks = dropDoubles(frameLines(map, frame, { ceiling: 0.3 * page.strong, grid, holes }));
     // More lines than any sheet draws in one frame: the ink was not told from the grid or the noise.
     if (tracks.length > MAX_LINES) {
@@ -152,7 +158,7 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
       if (!panel) continue;
       curves.push({ panel, quantity: kind === 'iso' ? 'efficiency' : (panel.quantity as Quantity), kind, track: t, levelFrame: frame, guides: [], traced: [], flows: [NaN, NaN], confidence: 1 });
     }
-    if (head) labelsAt.push(...printed.words.map((word) => ({ word, frame, clean: printed.clean, at: printed.at })));
+    if (head) labelsAt.push(...labels.words.map((word) => ({ word, frame, clean: labels.clean, at: labels.at })));
   }
 
   // Guides where each line stands alone, and the tracer's line from them.
@@ -348,8 +354,13 @@ function median(values: readonly number[]): number {
   return s.length ? (s[s.length >> 1] as number) : NaN;
 }
 
-/** Words inside a frame (level pixels): blots of about the text height joined along rows, the grid taken out first. */
-export function frameWords(map: InkMap, frame: Box, strong: number, h: number): { words: Blot[]; clean: InkMap; at: [number, number] } {
+/**
+ * Words inside a frame (level pixels): blots of about the text height joined along rows, the grid
+ * taken out first. With `lines` (the frame's lines found without holes), their ink is taken out
+ * too where it stands alone across (nothing else within half a text height): a label printed on
+ * a line, or just past its end, touches the line on a scan and would be one blot with it.
+ */
+export function frameWords(map: InkMap, frame: Box, strong: number, h: number, lines: readonly Track[] = []): { words: Blot[]; clean: InkMap; at: [number, number] } {
   const [l, t, r, b] = frame.map(Math.round) as [number, number, number, number];
   const w = Math.max(0, r - l - 8);
   const hh = Math.max(0, b - t - 8);
@@ -377,11 +388,56 @@ export function frameWords(map: InkMap, frame: Box, strong: number, h: number): 
   }
   const clean = new Uint8Array(w * hh);
   for (let i = 0; i < clean.length; i++) clean[i] = Math.max(0, ink[i] as number);
+  // Only whole stretches of a text height or more, column after column: a glyph's stroke the line
+  // finder picked up (the arch of an "m") is short and stays.
+  for (const line of lines) {
+    const width = median(line.len);
+    const thin = (i: number) => (line.room[i] as number) >= 0.5 * h && (line.len[i] as number) <= 2 * width + 1;
+    for (let i = 0; i < line.u.length; ) {
+      if (!thin(i)) {
+        i++;
+        continue;
+      }
+      let j = i;
+      while (j + 1 < line.u.length && thin(j + 1) && (line.u[j + 1] as number) - (line.u[j] as number) <= 1.5) j++;
+      if ((line.u[j] as number) - (line.u[i] as number) >= h) {
+        for (let k = i; k <= j; k++) {
+          const x = Math.floor(line.u[k] as number) - at[0];
+          if (x < 0 || x >= w) continue;
+          const v = (line.v[k] as number) - at[1];
+          const len = line.len[k] as number;
+          for (let y = Math.max(0, Math.floor(v - len / 2 - 1.5)); y <= Math.min(hh - 1, Math.ceil(v + len / 2 + 1.5)); y++) clean[y * w + x] = 0;
+        }
+      }
+      i = j + 1;
+    }
+  }
   const cleanMap: InkMap = { width: w, height: hh, ink: clean };
   const blots = joinCut(inkBlots(cleanMap, 0.3 * strong, [], Math.round(2 * h)));
   // Glyphs and the marks beside them (a dot, an inch mark); a word is about the text's height.
   const words = wordsOf(blots.filter((k) => k.b - k.t >= 0.2 * h || k.r - k.l >= 0.2 * h)).filter((k) => k.b - k.t >= 0.6 * h && k.b - k.t <= 1.6 * h && k.r - k.l >= 0.4 * h && k.r - k.l <= 8 * h);
   return { words, clean: cleanMap, at };
+}
+
+/**
+ * True when a word (level pixels) may be a curve's label: a line passes within a text height of
+ * it across its columns, or a line ends within two text heights left of it (up to below it).
+ * With no lines, every word may be.
+ */
+export function nearLine(word: Blot, lines: readonly Track[]): boolean {
+  if (lines.length === 0) return true;
+  const h = word.b - word.t;
+  const cy = (word.t + word.b) / 2;
+  return lines.some((t) => {
+    for (let u = word.l; u <= word.r; u += 2) {
+      const v = trackAt(t, u);
+      if (v !== null && Math.abs(v - cy) <= h) return true;
+    }
+    const n = t.u.length - 1;
+    const eu = t.u[n] as number;
+    const ev = t.v[n] as number;
+    return eu <= word.r && word.l - eu <= 2 * h && ev >= word.t - h && ev <= word.b + 2 * h;
+  });
 }
 
 /** A glyph cut in two by a grid row taken out: pieces one above the other, a few pixels apart, joined again. */
@@ -458,11 +514,14 @@ async function nameHeads(
   joinUnitWords(words, readings, note);
   const byCurve = new Map<RasterCurve, Set<number>>();
   const units: (string | null)[] = [];
+  // The one unit of the labels read whole (with their unit) in these frames, if they agree.
+  const wholeUnits = new Set(readings.map((r) => (labelCandidates(r.text, r.digits).length > 0 ? scanLabelOf(r.text)?.unit : null)).filter((u): u is 'mm' | 'in' | 'rpm' => !!u));
+  const frameUnit = wholeUnits.size === 1 ? ([...wholeUnits][0] as 'mm' | 'in' | 'rpm') : null;
   words.forEach((w, i) => {
     const reading = readings[i] as { text: string; digits: string };
     if (reading.text === '' && reading.digits === '') return; // a unit word joined to its number
     const label = scanLabelOf(reading.text);
-    const candidates = labelCandidates(reading.text, reading.digits);
+    const candidates = labelCandidates(reading.text, reading.digits, frameUnit);
     note(`word at [${w.word.l}, ${w.word.t}, ${w.word.r}, ${w.word.b}] read "${reading.text}" / "${reading.digits}" → ${candidates.join(' or ') || 'no label'}`);
     if (candidates.length === 0) return;
     const cx = (w.word.l + w.word.r) / 2;
@@ -531,6 +590,9 @@ async function nameHeads(
 
 /** A curve's label as read on a scan: as printed, or an inch label whose mark the reader misread. */
 function scanLabelOf(text: string): { value: number; unit: 'mm' | 'in' | 'rpm' | null } | null {
+  // Specks the reader takes for a mark before or after the label (a comma, a dash: the stub of
+  // the line it is printed on) are no part of it; an inch mark is.
+  text = text.replace(/^[\s,.;:_\-–—'`~|]+|[\s,.;:_\-–—'`~|]+$/g, '');
   const label = labelOf(text);
   if (label?.unit) return label;
   const inches = misreadInchLabel(text);
@@ -600,16 +662,27 @@ export function joinUnitWords(words: readonly { word: Blot }[], readings: { text
   });
 }
 
-/** The value of a label read two ways (as words with its unit, and as digits), or nothing when the two disagree. */
-function labelCandidates(text: string, digits: string): number[] {
+/**
+ * The value of a label read two ways (as words with its unit, and as digits), or nothing when the
+ * two disagree. A bare number counts only when `frameUnit` is given (other labels of the frame
+ * were read whole, all with that one unit); a value in inches only when it is a whole number of
+ * sixteenths.
+ */
+export function labelCandidates(text: string, digits: string, frameUnit: 'mm' | 'in' | 'rpm' | null = null): number[] {
   // Only a whole label counts, its unit read too ("330 mm", 13"): a number alone may be a label
   // cut short by the grid, or its inch mark read as a digit. The digits reading must agree.
-  const label = scanLabelOf(text);
+  // Where the frame's other labels were read whole, the unit of a label whose unit was lost (it
+  // touched the line) is theirs; the naming still needs order and affinity to hold.
+  const read = scanLabelOf(text);
+  const label = read && read.unit === null && frameUnit !== null ? { value: read.value, unit: frameUnit } : read;
   if (!label || label.unit === null) return [];
+  // Impeller diameters in inches are printed to a sixteenth at finest (common practice: trims are
+  // cut in sixteenths): "6.675"" is a misread "6.625"", never a label.
+  if (label.unit === 'in' && !inSixteenths(label.value)) return [];
   const number = /\d+(?:[.,]\d+)?/.exec(digits.replace(/\s+/g, ''))?.[0];
   if (number === undefined) return [label.value];
-  const read = sheetNumber(number);
-  return read === label.value || sheetNumber(number.slice(0, -1)) === label.value ? [label.value] : [];
+  const asDigits = sheetNumber(number);
+  return asDigits === label.value || sheetNumber(number.slice(0, -1)) === label.value ? [label.value] : [];
 }
 
 /** The head at the lowest flow of the tracer's line (the shut-off head), or NaN. */
