@@ -5,7 +5,7 @@
  * against the bed's exact truth at 15–95 % of each curve's flow range.
  */
 import { afterAll, describe, expect, it } from 'vitest';
-import { affinityHolds, chooseNames, frameWords, joinUnitWords, labelCandidates, misreadInchLabel, nearLine, piecesOf } from '../../src/digitize/detect/rasterCurves.ts';
+import { affinityHolds, chooseNames, frameWords, guidePlaces, joinUnitWords, labelCandidates, misreadInchLabel, nearLine, piecesOf } from '../../src/digitize/detect/rasterCurves.ts';
 import { alonePlaces, continuesCourse, frameLines, trackAt, type Track } from '../../src/digitize/detect/rasterLines.ts';
 import type { InkMap } from '../../src/digitize/detect/ink.ts';
 import { detectTakeoff } from '../../src/digitize/detect/detect.ts';
@@ -101,6 +101,23 @@ describe('a line carried on past the end found', () => {
     expect(continuesCourse(track, along(320, 450, (x) => f(x) + 10), 'end', 3, 75)).toBe(false);
     expect(continuesCourse(track, along(301, 480, f), 'end', 3, 75)).toBe(false);
     expect(continuesCourse(track, [], 'end', 3, 75)).toBe(false);
+  });
+});
+
+describe('guides on a line in a bunch', () => {
+  const track = (room: number): Track => {
+    const t: Track = { u: [], v: [], len: [], room: [] };
+    for (let u = 60.5; u < 400; u++) [t.u.push(u), t.v.push(200 - 0.1 * u), t.len.push(2), t.room.push(room)];
+    return t;
+  };
+  it('a line with other ink 7 px away all along gets guides on one stretch, trusted less; one alone is trusted fully; one with ink 4 px away gets none', () => {
+    const bunched = guidePlaces(track(7), 2, 500, true);
+    expect(bunched.places.length).toBeGreaterThan(0);
+    expect(bunched.trust).toBe(0.8);
+    const alone = guidePlaces(track(20), 2, 500, true);
+    expect(alone.places.length).toBeGreaterThan(0);
+    expect(alone.trust).toBe(1);
+    expect(guidePlaces(track(4), 2, 500, true).places).toEqual([]);
   });
 });
 

@@ -167,7 +167,8 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     // Head and power curves of one family do not cross (the larger impeller gives more of both at
     // every flow): their guides may spread over the whole line. Efficiency and NPSHr curves cross.
     const spread = c.kind === 'curve' && (c.quantity === 'head' || c.quantity === 'power');
-    const places = alonePlaces(c.track, Math.max(8, 4 * width), 8, 0.15 * (c.levelFrame[2] - c.levelFrame[0]), spread);
+    const { places, trust } = guidePlaces(c.track, width, c.levelFrame[2] - c.levelFrame[0], spread);
+    c.confidence *= trust;
     if (places.length === 0) {
       c.confidence = 0;
       continue;
@@ -322,6 +323,19 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
   if (twice.length > 0) leftOut.push(`On panel "${twice[0]!.panel.id}" two curves came out as ${twice[0]!.value}; both are left out: trace them by hand.`);
   const curvesOut = out.filter((c) => !twice.includes(c));
   return { curves: curvesOut, labelUnit: named.unit, family: named.family, questions, leftOut, lines: curves };
+}
+
+/**
+ * Where guides go on a line `width` pixels wide in a frame `frameWidth` wide: where it stands alone
+ * (4 widths, at least 8 px, from other ink; spread over the line for lines that never cross),
+ * trusted fully. A line in a bunch all along (the NPSHr curves of a family run close) gets guides
+ * where it has half that room, on one stretch of at least 16 columns only, trusted at 0.8; the
+ * tracer's line must still agree with it. No place at all: none.
+ */
+export function guidePlaces(track: Track, width: number, frameWidth: number, spread: boolean): { places: { u: number; v: number }[]; trust: number } {
+  const places = alonePlaces(track, Math.max(8, 4 * width), 8, 0.15 * frameWidth, spread);
+  if (places.length > 0) return { places, trust: 1 };
+  return { places: alonePlaces(track, Math.max(6, 2.5 * width), 16, 0.15 * frameWidth), trust: 0.8 };
 }
 
 /**
