@@ -189,6 +189,11 @@ describe('labels touching their line', () => {
     expect(labelCandidates('9.3', '9.3', 'in')).toEqual([]);
     expect(labelCandidates('6.675"', '6.675')).toEqual([]); // a misread 6.625": finer than a sixteenth
     expect(labelCandidates('6.625"', '6.625')).toEqual([6.625]);
+    // An inch mark read as a 7 on a whole number: only in a frame labelled in inches, and only past 60 in.
+    expect(labelCandidates('147', '147', 'in')).toEqual([14]);
+    expect(labelCandidates('147', '147', 'mm')).toEqual([147]);
+    expect(labelCandidates('147', '147')).toEqual([]);
+    expect(labelCandidates('57', '57', 'in')).toEqual([57]);
   });
 });
 

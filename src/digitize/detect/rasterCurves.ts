@@ -688,7 +688,12 @@ export function labelCandidates(text: string, digits: string, frameUnit: 'mm' | 
   // Where the frame's other labels were read whole, the unit of a label whose unit was lost (it
   // touched the line) is theirs; the naming still needs order and affinity to hold.
   const read = scanLabelOf(text);
-  const label = read && read.unit === null && frameUnit !== null ? { value: read.value, unit: frameUnit } : read;
+  let label = read && read.unit === null && frameUnit !== null ? { value: read.value, unit: frameUnit } : read;
+  // In a frame labelled in inches, a whole number over 60 ending in 7 is a label whose inch mark was
+  // read as a 7 ("147" for 14"): no impeller is that large (from memory: process pumps' impellers
+  // stay well under 60 in).
+  const whole = /^(\d{1,2})7$/.exec(text.replace(/[\s,.;:_\-–—'`~|]+$/g, '').trim());
+  if (label && read?.unit === null && frameUnit === 'in' && label.value > 60 && whole) label = { value: sheetNumber(whole[1] as string), unit: 'in' };
   if (!label || label.unit === null) return [];
   // Impeller diameters in inches are printed to a sixteenth at finest (common practice: trims are
   // cut in sixteenths): "6.675"" is a misread "6.625"", never a label.
