@@ -133,7 +133,7 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     // the lines' ink taken out (found without holes), so that a label touching its line stands
     // free; only words on a line or beside a line's end are read.
     const bare = panels.some((p) => p.quantity === 'head') ? frameLines(map, frame, { ceiling: 0.3 * page.strong, grid }) : [];
-    const labels = bare.length > 0 ? frameWords(map, frame, page.strong, page.h, bare) : printed;
+    const labels = bare.length > 0 ? frameWords(map, frame, page.strong, page.h, bare, printed) : printed;
     labels.words = labels.words.filter((w) => nearLine({ l: w.l + labels.at[0], t: w.t + labels.at[1], r: w.r + labels.at[0], b: w.b + labels.at[1] }, bare.length > 0 ? bare : []));
     const tracks = dropDoubles(frameLines(map, frame, { ceiling: 0.3 * page.strong, grid, holes }));
     // More lines than any sheet draws in one frame: the ink was not told from the grid or the noise.
@@ -374,12 +374,24 @@ function median(values: readonly number[]): number {
  * too where it stands alone across (nothing else within half a text height): a label printed on
  * a line, or just past its end, touches the line on a scan and would be one blot with it.
  */
-export function frameWords(map: InkMap, frame: Box, strong: number, h: number, lines: readonly Track[] = []): { words: Blot[]; clean: InkMap; at: [number, number] } {
+export function frameWords(map: InkMap, frame: Box, strong: number, h: number, lines: readonly Track[] = [], from?: { clean: InkMap; at: [number, number] }): { words: Blot[]; clean: InkMap; at: [number, number] } {
   const [l, t, r, b] = frame.map(Math.round) as [number, number, number, number];
   const w = Math.max(0, r - l - 8);
   const hh = Math.max(0, b - t - 8);
   const at: [number, number] = [l + 4, t + 4];
   if (w < 10 || hh < 10 || !(h > 0)) return { words: [], clean: { width: 0, height: 0, ink: new Uint8Array(0) }, at };
+  // The same frame's clean ink from an earlier call (`from`) is taken again, copied, not made twice.
+  const clean = from && from.clean.width === w && from.clean.height === hh ? from.clean.ink.slice() : gridFree(map, t, l, w, hh);
+  eraseLines(clean, w, hh, at, lines, h);
+  const cleanMap: InkMap = { width: w, height: hh, ink: clean };
+  const blots = joinCut(inkBlots(cleanMap, 0.3 * strong, [], Math.round(2 * h)));
+  // Glyphs and the marks beside them (a dot, an inch mark); a word is about the text's height.
+  const words = wordsOf(blots.filter((k) => k.b - k.t >= 0.2 * h || k.r - k.l >= 0.2 * h)).filter((k) => k.b - k.t >= 0.6 * h && k.b - k.t <= 1.6 * h && k.r - k.l >= 0.4 * h && k.r - k.l <= 8 * h);
+  return { words, clean: cleanMap, at };
+}
+
+/** The frame's ink inside a 4 px inset (w × hh from row t + 4, column l + 4) with each row's and column's median darkness taken off. */
+function gridFree(map: InkMap, t: number, l: number, w: number, hh: number): Uint8Array {
   const ink = new Int16Array(w * hh);
   for (let y = 0; y < hh; y++) ink.set(map.ink.subarray((t + 4 + y) * map.width + l + 4, (t + 4 + y) * map.width + l + 4 + w), y * w);
   // A grid line darkens its whole row (or column): the row's median darkness is taken off every
@@ -402,6 +414,11 @@ export function frameWords(map: InkMap, frame: Box, strong: number, h: number, l
   }
   const clean = new Uint8Array(w * hh);
   for (let i = 0; i < clean.length; i++) clean[i] = Math.max(0, ink[i] as number);
+  return clean;
+}
+
+/** The lines' ink taken out of a clean frame picture (see frameWords). */
+function eraseLines(clean: Uint8Array, w: number, hh: number, at: [number, number], lines: readonly Track[], h: number): void {
   // Only whole stretches of a text height or more, column after column: a glyph's stroke the line
   // finder picked up (the arch of an "m") is short and stays.
   for (const line of lines) {
@@ -426,11 +443,6 @@ export function frameWords(map: InkMap, frame: Box, strong: number, h: number, l
       i = j + 1;
     }
   }
-  const cleanMap: InkMap = { width: w, height: hh, ink: clean };
-  const blots = joinCut(inkBlots(cleanMap, 0.3 * strong, [], Math.round(2 * h)));
-  // Glyphs and the marks beside them (a dot, an inch mark); a word is about the text's height.
-  const words = wordsOf(blots.filter((k) => k.b - k.t >= 0.2 * h || k.r - k.l >= 0.2 * h)).filter((k) => k.b - k.t >= 0.6 * h && k.b - k.t <= 1.6 * h && k.r - k.l >= 0.4 * h && k.r - k.l <= 8 * h);
-  return { words, clean: cleanMap, at };
 }
 
 /**
