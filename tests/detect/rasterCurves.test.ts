@@ -5,8 +5,8 @@
  * against the bed's exact truth at 15–95 % of each curve's flow range.
  */
 import { afterAll, describe, expect, it } from 'vitest';
-import { affinityHolds, chooseNames, joinUnitWords, misreadInchLabel } from '../../src/digitize/detect/rasterCurves.ts';
-import { alonePlaces, frameLines, trackAt } from '../../src/digitize/detect/rasterLines.ts';
+import { affinityHolds, chooseNames, frameWords, guidePlaces, joinUnitWords, labelCandidates, misreadInchLabel, nearLine, piecesOf } from '../../src/digitize/detect/rasterCurves.ts';
+import { alonePlaces, continuesCourse, frameLines, trackAt, type Track } from '../../src/digitize/detect/rasterLines.ts';
 import type { InkMap } from '../../src/digitize/detect/ink.ts';
 import { detectTakeoff } from '../../src/digitize/detect/detect.ts';
 import { imageSheet } from '../../src/digitize/loaders/imageSheet.ts';
@@ -76,6 +76,124 @@ describe('lines in a frame', () => {
       const places = alonePlaces(t, 8, 8, 60);
       for (const p of places) expect(p.u).toBeGreaterThan(300 + 8 / 0.5 / 2);
     }
+  });
+});
+
+describe('a line carried on past the end found', () => {
+  // A falling, bending curve found from column 60 to 300 (its ink lost there), drawn on to 450.
+  const f = (x: number) => 100 + 0.002 * (x - 50) ** 2;
+  const track: Track = { u: [], v: [], len: [], room: [] };
+  for (let u = 60.5; u <= 300; u++) [track.u.push(u), track.v.push(f(u)), track.len.push(2), track.room.push(50)];
+  const along = (from: number, to: number, g: (x: number) => number) => {
+    const out: [number, number][] = [];
+    for (let x = from; x <= to; x += 3) out.push([x, g(x)]);
+    return out;
+  };
+  it('the rest of the line, on its own bending course, carries it on at either end', () => {
+    expect(continuesCourse(track, along(301, 450, f), 'end', 3, 75)).toBe(true);
+    const head: Track = { u: track.u.filter((u) => u >= 150), v: track.v.filter((_, i) => (track.u[i] as number) >= 150), len: [], room: [] };
+    expect(continuesCourse(head, along(60, 149, f), 'start', 3, 75)).toBe(true);
+  });
+  it('a turn off into a label beside the end, or onto another line, does not; nor a run on twice the stretch judged', () => {
+    // Up and to the right, into a label: 12 px above the course within 20 columns.
+    expect(continuesCourse(track, along(301, 330, (x) => f(x) - 0.6 * (x - 300)), 'end', 3, 75)).toBe(false);
+    // Onto a neighbour 10 px below, from the end on.
+    expect(continuesCourse(track, along(320, 450, (x) => f(x) + 10), 'end', 3, 75)).toBe(false);
+    expect(continuesCourse(track, along(301, 480, f), 'end', 3, 75)).toBe(false);
+    expect(continuesCourse(track, [], 'end', 3, 75)).toBe(false);
+  });
+});
+
+describe('guides on a line in a bunch', () => {
+  const track = (room: number): Track => {
+    const t: Track = { u: [], v: [], len: [], room: [] };
+    for (let u = 60.5; u < 400; u++) [t.u.push(u), t.v.push(200 - 0.1 * u), t.len.push(2), t.room.push(room)];
+    return t;
+  };
+  it('a line with other ink 7 px away all along gets guides on one stretch, trusted less; one alone is trusted fully; one with ink 4 px away gets none', () => {
+    const bunched = guidePlaces(track(7), 2, 500, true);
+    expect(bunched.places.length).toBeGreaterThan(0);
+    expect(bunched.trust).toBe(0.8);
+    const alone = guidePlaces(track(20), 2, 500, true);
+    expect(alone.places.length).toBeGreaterThan(0);
+    expect(alone.trust).toBe(1);
+    expect(guidePlaces(track(4), 2, 500, true).places).toEqual([]);
+  });
+});
+
+describe('a line found in pieces', () => {
+  const frame = [50, 50, 550, 350] as [number, number, number, number];
+  const line = (f: (x: number) => number, from: number, to: number): Track => {
+    const t: Track = { u: [], v: [], len: [], room: [] };
+    for (let u = from + 0.5; u < to; u++) [t.u.push(u), t.v.push(f(u)), t.len.push(2), t.room.push(50)];
+    return t;
+  };
+  const f = (x: number) => 100 + 0.002 * (x - 50) ** 2;
+  const g = (x: number) => 130 + 0.002 * (x - 50) ** 2;
+  // The tracer's line in sheet units is the level line here (toLevel is the identity).
+  const sheetLine = (h: (x: number) => number, from: number, to: number) => line(h, from, to).u.map((u, i) => [u, line(h, from, to).v[i] as number] as [number, number]);
+  const id = (p: readonly [number, number]) => [p[0], p[1]] as [number, number];
+  it("a piece lying along the tracer's line of a surer line of its frame is that line: dropped; the whole line and its neighbour stay", () => {
+    const whole = { track: line(f, 55, 500), traced: sheetLine(f, 55, 545), confidence: 0.95, levelFrame: frame };
+    const piece = { track: line(f, 380, 470), traced: sheetLine(f, 55, 545), confidence: 0.95, levelFrame: frame };
+    const lost = { track: line(f, 300, 360), traced: [], confidence: 0, levelFrame: frame };
+    const neighbour = { track: line(g, 55, 500), traced: sheetLine(g, 55, 545), confidence: 0.95, levelFrame: frame };
+    const dropped = piecesOf([whole, piece, lost, neighbour] as never, id as never);
+    expect([...dropped]).toEqual([piece, lost]);
+  });
+  it('nothing is dropped along an unsure line, nor along a line of another frame', () => {
+    const unsure = { track: line(f, 55, 500), traced: sheetLine(f, 55, 545), confidence: 0.3, levelFrame: frame };
+    const piece = { track: line(f, 380, 470), traced: [], confidence: 0, levelFrame: frame };
+    expect(piecesOf([unsure, piece] as never, id as never).size).toBe(0);
+    const elsewhere = { track: line(f, 55, 500), traced: sheetLine(f, 55, 545), confidence: 0.95, levelFrame: [50, 50, 550, 350] as [number, number, number, number] };
+    expect(piecesOf([elsewhere, piece] as never, id as never).size).toBe(0);
+  });
+  it("a line whose own tracer keeps to it is no piece of a line whose tracer ran on onto it", () => {
+    // A short line on f's left, its tracer running on and down onto g; g's tracer keeps to g.
+    const runner = { track: line(f, 55, 200), traced: [...sheetLine(f, 55, 200), ...sheetLine(g, 260, 545)], confidence: 0.95, levelFrame: frame };
+    const other = { track: line(g, 300, 500), traced: sheetLine(g, 55, 545), confidence: 0.48, levelFrame: frame };
+    expect(piecesOf([runner, other] as never, id as never).size).toBe(0);
+  });
+});
+
+describe('labels touching their line', () => {
+  it('a label printed on a line, its glyphs touching the line on either side, stands free once the line is taken out', () => {
+    const f = (x: number) => 120 + 0.2 * (x - 50);
+    const map = inkWith([{ f, to: 300 }, { f, from: 338 }]);
+    // Three glyphs (8 × 14 px, solid) from x = 300 to 338, centred on the line, touching it.
+    for (let k = 0; k < 3; k++) for (let x = 300 + 15 * k; x < 308 + 15 * k; x++) for (let y = Math.round(f(319)) - 7; y < Math.round(f(319)) + 7; y++) map.ink[y * W + x] = 200;
+    const lines = frameLines(map, FRAME, { grid, ceiling: 100 });
+    const word = (w: { l: number; r: number }, at: [number, number]) => [w.l + at[0], w.r + at[0]];
+    const before = frameWords(map, FRAME, 200, 14);
+    expect(before.words.map((w) => word(w, before.at)).filter(([l]) => (l as number) >= 290 && (l as number) <= 310)).toHaveLength(0);
+    const after = frameWords(map, FRAME, 200, 14, lines);
+    const found = after.words.map((w) => word(w, after.at));
+    expect(found).toHaveLength(1);
+    expect(found[0]![0]).toBeGreaterThanOrEqual(298);
+    expect(found[0]![1]).toBeLessThanOrEqual(342);
+  });
+  it('only a word on a line, or just past its end, is read as a label', () => {
+    const t: Track = { u: [100.5, 200.5, 300.5], v: [200, 180, 160], len: [2, 2, 2], room: [50, 50, 50] };
+    expect(nearLine({ l: 140, t: 182, r: 170, b: 196 }, [t])).toBe(true); // on it
+    expect(nearLine({ l: 306, t: 140, r: 340, b: 156 }, [t])).toBe(true); // beside its end
+    expect(nearLine({ l: 140, t: 120, r: 170, b: 134 }, [t])).toBe(false); // far above it
+    expect(nearLine({ l: 400, t: 140, r: 430, b: 156 }, [t])).toBe(false); // far past its end
+  });
+  it('a bare number counts in the unit of the labels read whole; never without one, and never a number of inches finer than a sixteenth', () => {
+    expect(labelCandidates('214', '214')).toEqual([]);
+    expect(labelCandidates('214', '214', 'mm')).toEqual([214]);
+    expect(labelCandidates('230 mm,', '230,')).toEqual([230]);
+    expect(labelCandidates('- 230 mm', '230')).toEqual([230]);
+    expect(labelCandidates('214', '244', 'mm')).toEqual([]);
+    expect(labelCandidates('9.25', '9.25', 'in')).toEqual([9.25]);
+    expect(labelCandidates('9.3', '9.3', 'in')).toEqual([]);
+    expect(labelCandidates('6.675"', '6.675')).toEqual([]); // a misread 6.625": finer than a sixteenth
+    expect(labelCandidates('6.625"', '6.625')).toEqual([6.625]);
+    // An inch mark read as a 7 on a whole number: only in a frame labelled in inches, and only past 60 in.
+    expect(labelCandidates('147', '147', 'in')).toEqual([14]);
+    expect(labelCandidates('147', '147', 'mm')).toEqual([147]);
+    expect(labelCandidates('147', '147')).toEqual([]);
+    expect(labelCandidates('57', '57', 'in')).toEqual([57]);
   });
 });
 

@@ -183,7 +183,8 @@ describe('finding panels and curves on a scan', () => {
     // The take-off file records what was found and the answer given.
     const savedTakeoff = parseTakeoff(JSON.parse(readFileSync(files.takeoff as string, 'utf8')));
     expect(savedTakeoff.detected?.by).toMatch(/scans/);
-    expect(savedTakeoff.diameters).toEqual(diameters);
+    // The diameters are recorded when they were asked for and given; labels read name the curves without them.
+    if (log.some((q) => q.answered !== null)) expect(savedTakeoff.diameters).toEqual(diameters);
 
     // The curve set equals the headless take-off: of the file just saved, and `--detect` on the scan with the same answer.
     const fromBrowser = parseCurveSetJson(readFileSync(files.curveset as string, 'utf8'));

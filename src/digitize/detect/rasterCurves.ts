@@ -21,7 +21,7 @@ import type { RasterImage } from '../raster.ts';
 import type { InkMap, Level } from './ink.ts';
 import type { Box, FoundPanel } from './panels.ts';
 import { gridLines } from './rasterFrames.ts';
-import { alonePlaces, frameLines, trackAt, type Track } from './rasterLines.ts';
+import { alonePlaces, continuesCourse, frameLines, liesAlong, trackAt, trackOf, type Track } from './rasterLines.ts';
 import type { RasterPanelsFound } from './rasterPanels.ts';
 import { inkBlots, readCrops, wordsOf, type Blot, type TextReader } from './rasterText.ts';
 import { curveLabel, SHEET_NUMBER, sheetNumber } from './words.ts';
@@ -56,6 +56,8 @@ export interface RasterCurvesFound {
   questions: string[];
   /** Parts left out, each one sentence (the caller asks about them together, once). */
   leftOut: string[];
+  /** Every line sorted into a curve or an iso-line, named or not (for the dump scripts). */
+  lines?: RasterCurve[];
 }
 
 export interface RasterCurveOptions {
@@ -127,6 +129,12 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     // The words printed in the frame (curve labels) are no line: the lines are followed around them.
     const printed = frameWords(map, frame, page.strong, page.h);
     const holes = printed.words.map((w) => [w.l + printed.at[0] - 2, w.t + printed.at[1] - 2, w.r + printed.at[0] + 2, w.b + printed.at[1] + 2] as const);
+    // In a head frame (where the labels name the curves) the labels are looked for once more with
+    // the lines' ink taken out (found without holes), so that a label touching its line stands
+    // free; only words on a line or beside a line's end are read.
+    const bare = panels.some((p) => p.quantity === 'head') ? frameLines(map, frame, { ceiling: 0.3 * page.strong, grid }) : [];
+    const labels = bare.length > 0 ? frameWords(map, frame, page.strong, page.h, bare, printed) : printed;
+    labels.words = labels.words.filter((w) => nearLine({ l: w.l + labels.at[0], t: w.t + labels.at[1], r: w.r + labels.at[0], b: w.b + labels.at[1] }, bare.length > 0 ? bare : []));
     const tracks = dropDoubles(frameLines(map, frame, { ceiling: 0.3 * page.strong, grid, holes }));
     // More lines than any sheet draws in one frame: the ink was not told from the grid or the noise.
     if (tracks.length > MAX_LINES) {
@@ -150,7 +158,7 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
       if (!panel) continue;
       curves.push({ panel, quantity: kind === 'iso' ? 'efficiency' : (panel.quantity as Quantity), kind, track: t, levelFrame: frame, guides: [], traced: [], flows: [NaN, NaN], confidence: 1 });
     }
-    if (head) labelsAt.push(...printed.words.map((word) => ({ word, frame, clean: printed.clean, at: printed.at })));
+    if (head) labelsAt.push(...labels.words.map((word) => ({ word, frame, clean: labels.clean, at: labels.at })));
   }
 
   // Guides where each line stands alone, and the tracer's line from them.
@@ -159,7 +167,8 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     // Head and power curves of one family do not cross (the larger impeller gives more of both at
     // every flow): their guides may spread over the whole line. Efficiency and NPSHr curves cross.
     const spread = c.kind === 'curve' && (c.quantity === 'head' || c.quantity === 'power');
-    const places = alonePlaces(c.track, Math.max(8, 4 * width), 8, 0.15 * (c.levelFrame[2] - c.levelFrame[0]), spread);
+    const { places, trust } = guidePlaces(c.track, width, c.levelFrame[2] - c.levelFrame[0], spread);
+    c.confidence *= trust;
     if (places.length === 0) {
       c.confidence = 0;
       continue;
@@ -175,33 +184,57 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
       continue;
     }
     // The tracer's line against the line found here, over their common columns; and the tracer
-    // must not run on far past either end of the line found (into another line, or a label).
+    // must not run on far past either end of the line found (into another line, or a label),
+    // unless what it adds there carries on the line's own course: the rest of a line the finder
+    // lost in a bunch or at a crossing, which is then the line's true end.
     let off = 0;
     let n = 0;
-    let beyond = 0;
     const fw = c.levelFrame[2] - c.levelFrame[0];
     const first = c.track.u[0] as number;
     const last = c.track.u[c.track.u.length - 1] as number;
+    const past = { start: [] as [number, number][], end: [] as [number, number][] };
+    const tol = Math.max(3, 1.5 * width);
     for (const p of c.traced) {
       const [u, v] = toLevel(p);
-      if (u < first - 0.03 * fw || u > last + 0.03 * fw) beyond++;
+      if (u < first) past.start.push([u, v]);
+      if (u > last) past.end.push([u, v]);
       const at = trackAt(c.track, u);
       if (at === null) continue;
       n++;
-      if (Math.abs(at - v) > Math.max(3, 1.5 * width)) off++;
+      if (Math.abs(at - v) > tol) off++;
     }
     if (n < 3 || off > 0.02 * n) c.confidence *= 0.3;
+    const far = (side: 'start' | 'end') => past[side].filter(([u]) => (side === 'end' ? u > last + 0.03 * fw : u < first - 0.03 * fw)).length;
+    const carriesOn = (side: 'start' | 'end') => continuesCourse(c.track, past[side], side, tol, 0.15 * fw);
+    const runOn = { start: far('start') > 0 && carriesOn('start'), end: far('end') > 0 && carriesOn('end') };
+    const beyond = (runOn.start ? 0 : far('start')) + (runOn.end ? 0 : far('end'));
     if (beyond > 0.05 * c.traced.length) c.confidence *= 0.5;
-    // The line's ends, as found here (around the words: the tracer may run on into a label beside the end).
+    // The line's ends, as found here (around the words: the tracer may run on into a label beside
+    // the end), or the tracer's where it carried the line on.
     const n0 = c.track.u.length - 1;
-    const ends = [toSheet(c.track.u[0] as number, c.track.v[0] as number), toSheet(c.track.u[n0] as number, c.track.v[n0] as number)];
+    const endAt = (side: 'start' | 'end'): SheetPoint => {
+      const run = past[side];
+      if (runOn[side] && run.length > 0) {
+        const [u, v] = run.reduce((a, b) => ((side === 'end' ? b[0] > a[0] : b[0] < a[0]) ? b : a));
+        return toSheet(u, v);
+      }
+      const k = side === 'end' ? n0 : 0;
+      return toSheet(c.track.u[k] as number, c.track.v[k] as number);
+    };
+    const ends = [endAt('start'), endAt('end')];
     const xs = ends.map((p) => c.panel.proposal.calibration.toData(p)[0]);
     c.flows = [Math.min(...xs), Math.max(...xs)];
   }
-  const usable = curves.filter((c) => c.confidence > 0 && c.kind === 'curve');
-  const isoCount = curves.filter((c) => c.kind === 'iso').length;
+  // A line found in pieces (the finder lost it in a bunch, at a crossing or at a label) is one
+  // curve: a piece lying along the tracer's line of a surer (or longer) line of its frame is that
+  // line, already taken, and neither a curve nor a question of its own.
+  const pieces = piecesOf(curves, toLevel);
+  const kept = curves.filter((c) => !pieces.has(c));
+  if (pieces.size > 0) options.note?.(`${pieces.size} line${pieces.size === 1 ? '' : 's'} found lying along the tracer's line of another: pieces of it, dropped`);
+  const usable = kept.filter((c) => c.confidence > 0 && c.kind === 'curve');
+  const isoCount = kept.filter((c) => c.kind === 'iso').length;
   if (isoCount > 0) leftOut.push(`${isoCount} line${isoCount === 1 ? '' : 's'} on the head panel neither start${isoCount === 1 ? 's' : ''} at the flow axis nor at the bottom (iso-efficiency lines, or a line the finder broke); efficiency from iso-lines is not read on scans yet, so trace them by hand if they matter.`);
-  const lostCount = curves.filter((c) => c.confidence === 0 && c.kind === 'curve').length;
+  const lostCount = kept.filter((c) => c.confidence === 0 && c.kind === 'curve').length;
   if (lostCount > 0) leftOut.push(`${lostCount} line${lostCount === 1 ? '' : 's'} found on the panels never stand${lostCount === 1 ? 's' : ''} alone (bunched or crossed all along), so no guide could be placed on ${lostCount === 1 ? 'it' : 'them'}; trace ${lostCount === 1 ? 'it' : 'them'} by hand.`);
 
   // Names of the head curves: labels read beside them, else the values given, by order.
@@ -289,7 +322,45 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
   const twice = out.filter((c) => out.some((o) => o !== c && o.panel === c.panel && o.value === c.value));
   if (twice.length > 0) leftOut.push(`On panel "${twice[0]!.panel.id}" two curves came out as ${twice[0]!.value}; both are left out: trace them by hand.`);
   const curvesOut = out.filter((c) => !twice.includes(c));
-  return { curves: curvesOut, labelUnit: named.unit, family: named.family, questions, leftOut };
+  return { curves: curvesOut, labelUnit: named.unit, family: named.family, questions, leftOut, lines: curves };
+}
+
+/**
+ * Where guides go on a line `width` pixels wide in a frame `frameWidth` wide: where it stands alone
+ * (4 widths, at least 8 px, from other ink; spread over the line for lines that never cross),
+ * trusted fully. A line in a bunch all along (the NPSHr curves of a family run close) gets guides
+ * where it has half that room, on one stretch of at least 16 columns only, trusted at 0.8; the
+ * tracer's line must still agree with it. No place at all: none.
+ */
+export function guidePlaces(track: Track, width: number, frameWidth: number, spread: boolean): { places: { u: number; v: number }[]; trust: number } {
+  const places = alonePlaces(track, Math.max(8, 4 * width), 8, 0.15 * frameWidth, spread);
+  if (places.length > 0) return { places, trust: 1 };
+  return { places: alonePlaces(track, Math.max(6, 2.5 * width), 16, 0.15 * frameWidth), trust: 0.8 };
+}
+
+/**
+ * The lines that are pieces of another: each lies (80 % of its columns, within its own width or
+ * 3 px) along the tracer's line of a line of the same frame that is surer (confidence 0.5 or more,
+ * and higher) or, as sure, spans more columns; and when it has a tracer's line of its own, the
+ * other line lies along that one too.
+ */
+export function piecesOf(curves: readonly Pick<RasterCurve, 'track' | 'traced' | 'confidence' | 'levelFrame'>[], toLevel: (p: SheetPoint) => [number, number]): Set<Pick<RasterCurve, 'track'>> {
+  const span = (c: Pick<RasterCurve, 'track'>) => (c.track.u[c.track.u.length - 1] as number) - (c.track.u[0] as number);
+  const lines = curves.filter((k) => k.confidence >= 0.5 && k.traced.length > 0).map((k) => ({ k, line: trackOf(k.traced.map(toLevel)) }));
+  const out = new Set<Pick<RasterCurve, 'track'>>();
+  for (const c of curves) {
+    const tol = Math.max(3, 1.5 * Math.max(2, median(c.track.len)));
+    for (const { k, line } of lines) {
+      if (k === c || k.levelFrame !== c.levelFrame || !(k.confidence > c.confidence || (k.confidence === c.confidence && span(k) > span(c)))) continue;
+      // Both ways when the piece has a tracer's line too: a tracer that ran on from one line onto
+      // another does not make the other a piece of it.
+      if (liesAlong(c.track, line, tol) && (c.traced.length === 0 || liesAlong(k.track, trackOf(c.traced.map(toLevel)), tol))) {
+        out.add(c);
+        break;
+      }
+    }
+  }
+  return out;
 }
 
 function median(values: readonly number[]): number {
@@ -297,13 +368,30 @@ function median(values: readonly number[]): number {
   return s.length ? (s[s.length >> 1] as number) : NaN;
 }
 
-/** Words inside a frame (level pixels): blots of about the text height joined along rows, the grid taken out first. */
-export function frameWords(map: InkMap, frame: Box, strong: number, h: number): { words: Blot[]; clean: InkMap; at: [number, number] } {
+/**
+ * Words inside a frame (level pixels): blots of about the text height joined along rows, the grid
+ * taken out first. With `lines` (the frame's lines found without holes), their ink is taken out
+ * too where it stands alone across (nothing else within half a text height): a label printed on
+ * a line, or just past its end, touches the line on a scan and would be one blot with it.
+ */
+export function frameWords(map: InkMap, frame: Box, strong: number, h: number, lines: readonly Track[] = [], from?: { clean: InkMap; at: [number, number] }): { words: Blot[]; clean: InkMap; at: [number, number] } {
   const [l, t, r, b] = frame.map(Math.round) as [number, number, number, number];
   const w = Math.max(0, r - l - 8);
   const hh = Math.max(0, b - t - 8);
   const at: [number, number] = [l + 4, t + 4];
   if (w < 10 || hh < 10 || !(h > 0)) return { words: [], clean: { width: 0, height: 0, ink: new Uint8Array(0) }, at };
+  // The same frame's clean ink from an earlier call (`from`) is taken again, copied, not made twice.
+  const clean = from && from.clean.width === w && from.clean.height === hh ? from.clean.ink.slice() : gridFree(map, t, l, w, hh);
+  eraseLines(clean, w, hh, at, lines, h);
+  const cleanMap: InkMap = { width: w, height: hh, ink: clean };
+  const blots = joinCut(inkBlots(cleanMap, 0.3 * strong, [], Math.round(2 * h)));
+  // Glyphs and the marks beside them (a dot, an inch mark); a word is about the text's height.
+  const words = wordsOf(blots.filter((k) => k.b - k.t >= 0.2 * h || k.r - k.l >= 0.2 * h)).filter((k) => k.b - k.t >= 0.6 * h && k.b - k.t <= 1.6 * h && k.r - k.l >= 0.4 * h && k.r - k.l <= 8 * h);
+  return { words, clean: cleanMap, at };
+}
+
+/** The frame's ink inside a 4 px inset (w × hh from row t + 4, column l + 4) with each row's and column's median darkness taken off. */
+function gridFree(map: InkMap, t: number, l: number, w: number, hh: number): Uint8Array {
   const ink = new Int16Array(w * hh);
   for (let y = 0; y < hh; y++) ink.set(map.ink.subarray((t + 4 + y) * map.width + l + 4, (t + 4 + y) * map.width + l + 4 + w), y * w);
   // A grid line darkens its whole row (or column): the row's median darkness is taken off every
@@ -326,11 +414,56 @@ export function frameWords(map: InkMap, frame: Box, strong: number, h: number): 
   }
   const clean = new Uint8Array(w * hh);
   for (let i = 0; i < clean.length; i++) clean[i] = Math.max(0, ink[i] as number);
-  const cleanMap: InkMap = { width: w, height: hh, ink: clean };
-  const blots = joinCut(inkBlots(cleanMap, 0.3 * strong, [], Math.round(2 * h)));
-  // Glyphs and the marks beside them (a dot, an inch mark); a word is about the text's height.
-  const words = wordsOf(blots.filter((k) => k.b - k.t >= 0.2 * h || k.r - k.l >= 0.2 * h)).filter((k) => k.b - k.t >= 0.6 * h && k.b - k.t <= 1.6 * h && k.r - k.l >= 0.4 * h && k.r - k.l <= 8 * h);
-  return { words, clean: cleanMap, at };
+  return clean;
+}
+
+/** The lines' ink taken out of a clean frame picture (see frameWords). */
+function eraseLines(clean: Uint8Array, w: number, hh: number, at: [number, number], lines: readonly Track[], h: number): void {
+  // Only whole stretches of a text height or more, column after column: a glyph's stroke the line
+  // finder picked up (the arch of an "m") is short and stays.
+  for (const line of lines) {
+    const width = median(line.len);
+    const thin = (i: number) => (line.room[i] as number) >= 0.5 * h && (line.len[i] as number) <= 2 * width + 1;
+    for (let i = 0; i < line.u.length; ) {
+      if (!thin(i)) {
+        i++;
+        continue;
+      }
+      let j = i;
+      while (j + 1 < line.u.length && thin(j + 1) && (line.u[j + 1] as number) - (line.u[j] as number) <= 1.5) j++;
+      if ((line.u[j] as number) - (line.u[i] as number) >= h) {
+        for (let k = i; k <= j; k++) {
+          const x = Math.floor(line.u[k] as number) - at[0];
+          if (x < 0 || x >= w) continue;
+          const v = (line.v[k] as number) - at[1];
+          const len = line.len[k] as number;
+          for (let y = Math.max(0, Math.floor(v - len / 2 - 1.5)); y <= Math.min(hh - 1, Math.ceil(v + len / 2 + 1.5)); y++) clean[y * w + x] = 0;
+        }
+      }
+      i = j + 1;
+    }
+  }
+}
+
+/**
+ * True when a word (level pixels) may be a curve's label: a line passes within a text height of
+ * it across its columns, or a line ends within two text heights left of it (up to below it).
+ * With no lines, every word may be.
+ */
+export function nearLine(word: Blot, lines: readonly Track[]): boolean {
+  if (lines.length === 0) return true;
+  const h = word.b - word.t;
+  const cy = (word.t + word.b) / 2;
+  return lines.some((t) => {
+    for (let u = word.l; u <= word.r; u += 2) {
+      const v = trackAt(t, u);
+      if (v !== null && Math.abs(v - cy) <= h) return true;
+    }
+    const n = t.u.length - 1;
+    const eu = t.u[n] as number;
+    const ev = t.v[n] as number;
+    return eu <= word.r && word.l - eu <= 2 * h && ev >= word.t - h && ev <= word.b + 2 * h;
+  });
 }
 
 /** A glyph cut in two by a grid row taken out: pieces one above the other, a few pixels apart, joined again. */
@@ -407,11 +540,14 @@ async function nameHeads(
   joinUnitWords(words, readings, note);
   const byCurve = new Map<RasterCurve, Set<number>>();
   const units: (string | null)[] = [];
+  // The one unit of the labels read whole (with their unit) in these frames, if they agree.
+  const wholeUnits = new Set(readings.map((r) => (labelCandidates(r.text, r.digits).length > 0 ? scanLabelOf(r.text)?.unit : null)).filter((u): u is 'mm' | 'in' | 'rpm' => !!u));
+  const frameUnit = wholeUnits.size === 1 ? ([...wholeUnits][0] as 'mm' | 'in' | 'rpm') : null;
   words.forEach((w, i) => {
     const reading = readings[i] as { text: string; digits: string };
     if (reading.text === '' && reading.digits === '') return; // a unit word joined to its number
     const label = scanLabelOf(reading.text);
-    const candidates = labelCandidates(reading.text, reading.digits);
+    const candidates = labelCandidates(reading.text, reading.digits, frameUnit);
     note(`word at [${w.word.l}, ${w.word.t}, ${w.word.r}, ${w.word.b}] read "${reading.text}" / "${reading.digits}" → ${candidates.join(' or ') || 'no label'}`);
     if (candidates.length === 0) return;
     const cx = (w.word.l + w.word.r) / 2;
@@ -480,6 +616,9 @@ async function nameHeads(
 
 /** A curve's label as read on a scan: as printed, or an inch label whose mark the reader misread. */
 function scanLabelOf(text: string): { value: number; unit: 'mm' | 'in' | 'rpm' | null } | null {
+  // Specks the reader takes for a mark before or after the label (a comma, a dash: the stub of
+  // the line it is printed on) are no part of it; an inch mark is.
+  text = text.replace(/^[\s,.;:_\-–—'`~|]+|[\s,.;:_\-–—'`~|]+$/g, '');
   const label = labelOf(text);
   if (label?.unit) return label;
   const inches = misreadInchLabel(text);
@@ -549,16 +688,32 @@ export function joinUnitWords(words: readonly { word: Blot }[], readings: { text
   });
 }
 
-/** The value of a label read two ways (as words with its unit, and as digits), or nothing when the two disagree. */
-function labelCandidates(text: string, digits: string): number[] {
+/**
+ * The value of a label read two ways (as words with its unit, and as digits), or nothing when the
+ * two disagree. A bare number counts only when `frameUnit` is given (other labels of the frame
+ * were read whole, all with that one unit); a value in inches only when it is a whole number of
+ * sixteenths.
+ */
+export function labelCandidates(text: string, digits: string, frameUnit: 'mm' | 'in' | 'rpm' | null = null): number[] {
   // Only a whole label counts, its unit read too ("330 mm", 13"): a number alone may be a label
   // cut short by the grid, or its inch mark read as a digit. The digits reading must agree.
-  const label = scanLabelOf(text);
+  // Where the frame's other labels were read whole, the unit of a label whose unit was lost (it
+  // touched the line) is theirs; the naming still needs order and affinity to hold.
+  const read = scanLabelOf(text);
+  let label = read && read.unit === null && frameUnit !== null ? { value: read.value, unit: frameUnit } : read;
+  // In a frame labelled in inches, a whole number over 60 ending in 7 is a label whose inch mark was
+  // read as a 7 ("147" for 14"): no impeller is that large (from memory: process pumps' impellers
+  // stay well under 60 in).
+  const whole = /^(\d{1,2})7$/.exec(text.replace(/[\s,.;:_\-–—'`~|]+$/g, '').trim());
+  if (label && read?.unit === null && frameUnit === 'in' && label.value > 60 && whole) label = { value: sheetNumber(whole[1] as string), unit: 'in' };
   if (!label || label.unit === null) return [];
+  // Impeller diameters in inches are printed to a sixteenth at finest (common practice: trims are
+  // cut in sixteenths): "6.675"" is a misread "6.625"", never a label.
+  if (label.unit === 'in' && !inSixteenths(label.value)) return [];
   const number = /\d+(?:[.,]\d+)?/.exec(digits.replace(/\s+/g, ''))?.[0];
   if (number === undefined) return [label.value];
-  const read = sheetNumber(number);
-  return read === label.value || sheetNumber(number.slice(0, -1)) === label.value ? [label.value] : [];
+  const asDigits = sheetNumber(number);
+  return asDigits === label.value || sheetNumber(number.slice(0, -1)) === label.value ? [label.value] : [];
 }
 
 /** The head at the lowest flow of the tracer's line (the shut-off head), or NaN. */

@@ -12,6 +12,7 @@
  *
  * Pure: works on the level ink map only.
  */
+import { solveLeastSquares } from '../../fit/leastSquares.ts';
 import type { InkMap } from './ink.ts';
 import type { Box } from './panels.ts';
 
@@ -356,4 +357,79 @@ export function alonePlaces(t: Track, room: number, stretch: number, long: numbe
     places.push(...others.map((k) => at(k, 0.5)));
   }
   return places.sort((a, b) => a.u - b.u);
+}
+
+/**
+ * True when `points` (level pixels: column, row), all past one end of the track (`side`), carry
+ * on its course: each within `tol` pixels, plus 2 % of its distance from the end, of the parabola
+ * fitted to the track's last (or first) `reach` columns, and none farther than twice `reach`
+ * past the end. A line the finder lost in a bunch or at a crossing, which the tracer follows on to
+ * its drawn end, passes; a tracer that turns off into a label or onto another line does not.
+ * False when the track's stretch holds fewer than 8 columns or there is no point to judge.
+ */
+export function continuesCourse(t: Track, points: readonly (readonly [number, number])[], side: 'start' | 'end', tol: number, reach: number): boolean {
+  const n = t.u.length;
+  if (n === 0 || points.length === 0) return false;
+  const endU = (side === 'end' ? t.u[n - 1] : t.u[0]) as number;
+  const sign = side === 'end' ? 1 : -1;
+  // v = a + b·x + c·x² over the stretch, x = (u − endU)·sign in units of `reach` (−1 … 0 on the track).
+  const rows: number[][] = [];
+  const vs: number[] = [];
+  for (let i = 0; i < n; i++) {
+    const x = (((t.u[i] as number) - endU) * sign) / reach;
+    if (x < -1) continue;
+    rows.push([1, x, x * x]);
+    vs.push(t.v[i] as number);
+  }
+  if (rows.length < 8) return false;
+  let coef: number[];
+  try {
+    coef = solveLeastSquares(rows, vs).solution;
+  } catch {
+    return false;
+  }
+  const [a, b, c] = coef as [number, number, number];
+  return points.every(([u, v]) => {
+    const d = (u - endU) * sign;
+    const x = d / reach;
+    if (d < 0 || x > 2) return false;
+    return Math.abs(a + b * x + c * x * x - v) <= tol + 0.02 * d;
+  });
+}
+
+/**
+ * A line as a track from its points (level pixels) in any order along it: sorted by column, one
+ * row per whole column (the mean of the points in it). For testing what lies along a traced line.
+ */
+export function trackOf(points: readonly (readonly [number, number])[]): Track {
+  const byColumn = new Map<number, { sum: number; n: number }>();
+  for (const [u, v] of points) {
+    const k = Math.floor(u);
+    const c = byColumn.get(k) ?? { sum: 0, n: 0 };
+    c.sum += v;
+    c.n++;
+    byColumn.set(k, c);
+  }
+  const t: Track = { u: [], v: [], len: [], room: [] };
+  for (const k of [...byColumn.keys()].sort((a, b) => a - b)) {
+    const c = byColumn.get(k) as { sum: number; n: number };
+    t.u.push(k + 0.5);
+    t.v.push(c.sum / c.n);
+  }
+  return t;
+}
+
+/**
+ * True when the track is a piece of the line `along`: at least `share` of its columns (every
+ * third one) lie within the line's columns and within `tol` rows of it.
+ */
+export function liesAlong(t: Track, along: Track, tol: number, share = 0.8): boolean {
+  let n = 0;
+  let near = 0;
+  for (let i = 0; i < t.u.length; i += 3) {
+    n++;
+    const v = trackAt(along, t.u[i] as number);
+    if (v !== null && Math.abs(v - (t.v[i] as number)) <= tol) near++;
+  }
+  return n > 0 && near >= share * n;
 }
