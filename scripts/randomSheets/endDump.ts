@@ -7,16 +7,11 @@
  *
  *   npx tsx scripts/randomSheets/endDump.ts 12:power-12 24:head-12.625
  */
-import { createHash } from 'node:crypto';
 import { mkdirSync } from 'node:fs';
 import sharp from 'sharp';
-import { sheetFor } from '../../bench/randomSheets.bench.ts';
-import { imageSheet } from '../../src/digitize/loaders/imageSheet.ts';
-import { replayTakeoff } from '../../src/digitize/takeoff.ts';
 import { nearestOnPolyline } from '../../src/digitize/polyline.ts';
-import { parseTakeoff } from '../../src/model/takeoff.ts';
-import { applyH, decode } from './camera.ts';
-import { sheetGeometry } from './randomSheet.ts';
+import { applyH } from './camera.ts';
+import { bedReplay } from './bedReplay.ts';
 import type { SheetPoint } from '../../src/digitize/points.ts';
 
 const out = '/tmp/pumpscribe-end-crops';
@@ -27,16 +22,7 @@ for (const a of process.argv.slice(2)) {
   bySeed.set(Number(s), [...(bySeed.get(Number(s)) ?? []), id ?? '']);
 }
 for (const [seed, ids] of bySeed) {
-  const kind = seed % 3 === 2 ? 'photo' : 'scan';
-  const { jpeg, meta } = await sheetFor(seed, kind);
-  const { plan, shot } = sheetGeometry(seed, kind);
-  const decoded = await decode(jpeg);
-  const raster = { width: decoded.width, height: decoded.height, data: decoded.data, scale: 1 };
-  const sheet = imageSheet(raster, createHash('sha256').update(jpeg).digest('hex'), () => raster);
-  const takeoff = parseTakeoff(meta.takeoff);
-  (globalThis as unknown as { __rdLog: string[] }).__rdLog = [];
-  const replay = await replayTakeoff(takeoff, sheet);
-  const log = (globalThis as unknown as { __rdLog: string[] }).__rdLog;
+  const { plan, shot, raster, takeoff, replay } = await bedReplay(seed);
   for (const id of ids) {
     const line = plan.lines.find((l) => l.id === id);
     const o = replay.traces.find((t) => t.id === id);
@@ -49,9 +35,6 @@ for (const [seed, ids] of bySeed) {
     cov.forEach((c, i) => { if (!c) { const g = gaps[gaps.length - 1]; if (g && g[1] === i - 1) g[1] = i; else gaps.push([i, i]); } });
     console.log(`\n== ${seed} ${id} ${line.style.dash} w${line.style.width.toFixed(2)} ${line.style.colour} truth ${truth.length} pts, trace ${o.points.length} pts; guides ${(t.guides ?? []).map((g) => `(${g[0].toFixed(0)},${g[1].toFixed(0)})`).join(' ')}`);
     console.log(`   truth from (${truth[0]![0].toFixed(0)},${truth[0]![1].toFixed(0)}) to (${truth[truth.length - 1]![0].toFixed(0)},${truth[truth.length - 1]![1].toFixed(0)}); trace from ${o.points[0] ? `(${o.points[0][0].toFixed(0)},${o.points[0][1].toFixed(0)})` : '-'} to ${o.points.length ? `(${o.points[o.points.length - 1]![0].toFixed(0)},${o.points[o.points.length - 1]![1].toFixed(0)})` : '-'}`);
-    const key = `DBG TRACE ${(t.guides ?? []).map((g) => `(${g[0].toFixed(0)},${g[1].toFixed(0)})`).join(' ')}`;
-    const at = log.lastIndexOf(key);
-    if (at >= 0) for (let i = at + 1; i < log.length && !log[i]!.startsWith('DBG TRACE'); i++) console.log('   ' + log[i]);
     for (const g of gaps) console.log(`   uncovered truth ${g[0]}..${g[1]} (${truth[g[0]]![0].toFixed(0)},${truth[g[0]]![1].toFixed(0)})..(${truth[g[1]]![0].toFixed(0)},${truth[g[1]]![1].toFixed(0)})`);
     const offs = o.points.map((p) => nearestOnPolyline(truth, p).distance);
     const bad = offs.map((d, i) => [d, i] as const).filter(([d]) => d > near);

@@ -5,26 +5,15 @@
  *
  *   npx tsx scripts/randomSheets/traceView.ts 12 efficiency-10.5 /tmp/out.png
  */
-import { createHash } from 'node:crypto';
 import sharp from 'sharp';
-import { sheetFor } from '../../bench/randomSheets.bench.ts';
-import { imageSheet } from '../../src/digitize/loaders/imageSheet.ts';
-import { replayTakeoff } from '../../src/digitize/takeoff.ts';
-import { parseTakeoff, type Trace } from '../../src/model/takeoff.ts';
-import { applyH, decode } from './camera.ts';
-import { sheetGeometry } from './randomSheet.ts';
+import type { Trace } from '../../src/model/takeoff.ts';
+import { applyH } from './camera.ts';
+import { bedReplay } from './bedReplay.ts';
 
 const [seedArg, id, out = '/tmp/view.png', zoomArg = '3'] = process.argv.slice(2);
 const seed = Number(seedArg);
 const zoom = Number(zoomArg);
-const kind = seed % 3 === 2 ? 'photo' : 'scan';
-const { jpeg, meta } = await sheetFor(seed, kind);
-const { plan, shot } = sheetGeometry(seed, kind);
-const decoded = await decode(jpeg);
-const raster = { width: decoded.width, height: decoded.height, data: decoded.data, scale: 1 };
-const sheet = imageSheet(raster, createHash('sha256').update(jpeg).digest('hex'), () => raster);
-const takeoff = parseTakeoff(meta.takeoff);
-const replay = await replayTakeoff(takeoff, sheet);
+const { plan, shot, raster, takeoff, replay } = await bedReplay(seed);
 const line = plan.lines.find((l) => l.id === id);
 if (!line) throw new Error(`no line ${id}`);
 const truth = line.points.map((p) => applyH(shot.h, p));
