@@ -302,14 +302,30 @@ export function panelCalibrateOptions(panel: { id: string; x_scale: AxisScaleTyp
   return { xScale: panel.x_scale, yScale: panel.y_scale, panel: panel.id, ...(panel.projection ? { projection: panel.projection } : {}), ...(panel.frame ? { frame: panel.frame } : {}) };
 }
 
-/** Calibrates every panel of a take-off's page, lending the page's perspective (`borrowPerspective`); throws the first panel's CalibrationError. */
-export function calibratePanels(panels: readonly { id: string; anchors: readonly AnchorInput[]; x_scale: AxisScaleType; y_scale: AxisScaleType; projection?: 'auto' | Projection | undefined; frame?: readonly [number, number, number, number] | undefined }[]): Map<string, Calibration> {
+/**
+ * Calibrates every panel of a take-off's page, lending the page's perspective
+ * (`borrowPerspective`). A panel whose anchors cannot define a calibration is in `failed` with
+ * its CalibrationError, so that one panel does not cost the others.
+ */
+export function calibratePanels(panels: readonly { id: string; anchors: readonly AnchorInput[]; x_scale: AxisScaleType; y_scale: AxisScaleType; projection?: 'auto' | Projection | undefined; frame?: readonly [number, number, number, number] | undefined }[]): { calibrations: Map<string, Calibration>; failed: Map<string, CalibrationError> } {
+  const failed = new Map<string, CalibrationError>();
   const list = panels.map((p) => {
     const options = panelCalibrateOptions(p);
-    return { id: p.id, anchors: p.anchors, options, calibration: calibrate(p.anchors, options) };
+    try {
+      return { id: p.id, anchors: p.anchors, options, calibration: calibrate(p.anchors, options) as Calibration | undefined };
+    } catch (error) {
+      if (!(error instanceof CalibrationError)) throw error;
+      failed.set(p.id, error);
+      return { id: p.id, anchors: p.anchors, options, calibration: undefined };
+    }
   });
   const lent = borrowPerspective(list);
-  return new Map(list.map((p) => [p.id, lent.get(p.id) ?? p.calibration]));
+  const calibrations = new Map<string, Calibration>();
+  for (const p of list) {
+    const cal = lent.get(p.id) ?? p.calibration;
+    if (cal) calibrations.set(p.id, cal);
+  }
+  return { calibrations, failed };
 }
 
 /**

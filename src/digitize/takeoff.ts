@@ -93,7 +93,14 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
     note('takeoff.sheet-changed', 'warn', `The sheet is not the one the points were captured from (its SHA-256 differs); check that the anchors and guides still sit on its lines.`);
   }
 
-  const calibrations = calibratePanels(takeoff.panels);
+  // A panel whose anchors define no calibration costs its own traces only: a fail, and the rest
+  // goes on (as a trace that finds no line does); with no panel left there is nothing to read.
+  const { calibrations, failed } = calibratePanels(takeoff.panels);
+  if (calibrations.size === 0 && failed.size > 0) throw [...failed.values()][0] as Error;
+  for (const [id, error] of failed) {
+    const lost = takeoff.traces.filter((t) => t.panel === id).length;
+    note('takeoff.panel-uncalibrated', 'fail', `${error.message} Its ${lost} trace${lost === 1 ? '' : 's'} were left out of the curve set until its anchors are set.`, undefined, { traces_left_out: lost });
+  }
   for (const cal of calibrations.values()) {
     for (const w of cal.warnings) note('takeoff.calibration-residual', 'warn', w, undefined, { max_percent_of_span: cal.maxPercentOfSpan, max_sheet: cal.maxSheet });
   }
@@ -154,9 +161,9 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
   // iso-line crosses a traced head curve is moved onto the iso-line alone (isoGuides.ts), so
   // that its line model is the thin line's and not the thick head curve's.
   const isoLater = (trace: Trace) => sheet.kind !== 'vector-pdf' && trace.iso !== undefined && trace.method !== 'vector' && (trace.guides?.length ?? 0) > 0;
-  for (const [index, trace] of takeoff.traces.entries()) if (!isoLater(trace)) await captureOne(index, trace, guidesOf(trace));
+  for (const [index, trace] of takeoff.traces.entries()) if (!isoLater(trace) && !failed.has(trace.panel)) await captureOne(index, trace, guidesOf(trace));
   for (const [index, trace] of takeoff.traces.entries()) {
-    if (!isoLater(trace)) continue;
+    if (!isoLater(trace) || failed.has(trace.panel)) continue;
     const heads = outcomes.filter((o) => {
       const t = takeoff.traces[o.index] as Trace;
       return t.panel === trace.panel && t.quantity === 'head' && t.iso === undefined && o.lineWidth !== undefined;

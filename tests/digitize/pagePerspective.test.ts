@@ -43,7 +43,7 @@ describe('the page perspective lent between panels', () => {
     expect(alone.perspectiveHidden).toBe(true);
     // Alone, the far corner is off by well over the 1 % of span a reading may be off.
     expect(worstError(alone)).toBeGreaterThan(1);
-    const cals = calibratePanels(panels);
+    const cals = calibratePanels(panels).calibrations;
     const head = cals.get('head') as Calibration;
     const npshr = cals.get('npshr') as Calibration;
     expect(head.projection).toBe('projective');
@@ -61,10 +61,10 @@ describe('the page perspective lent between panels', () => {
   });
 
   it('lends nothing to a panel set to affine, nor when no panel shows perspective (a scan)', () => {
-    expect(calibratePanels([panels[0] as (typeof panels)[0], { ...(panels[1] as (typeof panels)[1]), projection: 'affine' as const }]).get('npshr')?.perspectiveFrom).toBeUndefined();
+    expect(calibratePanels([panels[0] as (typeof panels)[0], { ...(panels[1] as (typeof panels)[1]), projection: "affine" as const }]).calibrations.get('npshr')?.perspectiveFrom).toBeUndefined();
     const flatHead = [[0, 0], [400, 0], [0, 80], [400, 80], [100, 60]].map(([q, h]) => ({ at: headFlat(q as number, h as number), x: q, y: h }));
     const flatNpsh = [[0, 0], [400, 0], [0, 10]].map(([q, n]) => ({ at: npshFlat(q as number, n as number), x: q, y: n }));
-    const scan = calibratePanels([{ ...(panels[0] as (typeof panels)[0]), anchors: flatHead }, { ...(panels[1] as (typeof panels)[1]), anchors: flatNpsh }]);
+    const scan = calibratePanels([{ ...(panels[0] as (typeof panels)[0]), anchors: flatHead }, { ...(panels[1] as (typeof panels)[1]), anchors: flatNpsh }]).calibrations;
     expect(scan.get('head')?.projection).toBe('affine');
     expect(scan.get('npshr')?.perspectiveFrom).toBeUndefined();
     // A panel that reveals its own perspective keeps its own map.

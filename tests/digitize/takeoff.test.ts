@@ -109,6 +109,23 @@ describe('replaying a take-off of a vector sheet headless', () => {
     await sheet.close();
   });
 
+  it('leaves out the traces of a panel whose anchors define no calibration, as a fail, and reads the other panels', async () => {
+    const sheet = await loadSheetFileNode(join(dir, 'sheet.pdf'));
+    const doc = pumpTakeoff('drawn') as { panels: { id: string; anchors: { at: [number, number] }[] }[] };
+    const power = doc.panels.find((p) => p.id === 'power')!;
+    // A hurried slip: every anchor of the power panel on one horizontal line of the sheet.
+    power.anchors = power.anchors.map((a, i) => ({ ...a, at: [100 + 50 * i, 200] as [number, number] }));
+    const { curveSet } = await replayTakeoff(parseTakeoff(doc), sheet);
+    const left = curveSet.findings.filter((f) => f.code === 'takeoff.panel-uncalibrated');
+    expect(left.map((f) => f.severity)).toEqual(['fail']);
+    expect(left[0]?.message).toMatch(/^Panel "power": .* were left out of the curve set until its anchors are set\.$/);
+    expect(curveSet.members.every((m) => m.curves.head !== undefined && m.curves.power === undefined)).toBe(true);
+    // With no panel that can be calibrated there is nothing to read: the replay refuses with the panel's sentence.
+    for (const p of doc.panels) p.anchors = p.anchors.map((a, i) => ({ ...a, at: [100 + 50 * i, 200] as [number, number] }));
+    await expect(replayTakeoff(parseTakeoff(doc), sheet)).rejects.toThrow(/anchors lie on one line/);
+    await sheet.close();
+  });
+
   it('carries the captured points and the sheet SHA-256 in the curve set', async () => {
     const { curveSet } = await replay('drawn');
     expect(curveSet.provenance.source?.sha256).toBe(createHash('sha256').update(pdf).digest('hex'));

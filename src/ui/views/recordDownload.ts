@@ -58,7 +58,7 @@ export async function downloadRecord(src: RecordSources, paper: RecordPaper): Pr
   store.say('Making the selection record…', 'info');
   try {
     const t0 = performance.now();
-    const calibrations = calibratePanels(takeoff.panels);
+    const { calibrations } = calibratePanels(takeoff.panels);
     const { makeRecord } = await loadRecordCode();
     const loaded = performance.now() - t0;
     const now = new Date().toISOString();

@@ -17,7 +17,7 @@ export function studyOverlay(takeoff: Takeoff | null, result: StudyResult | null
   if (memo && memo.takeoff === takeoff && memo.result === result) return memo.overlay;
   let overlay: Overlay | null = null;
   try {
-    const calibrations = calibratePanels(takeoff.panels);
+    const { calibrations } = calibratePanels(takeoff.panels);
     overlay = buildOverlay(takeoff, calibrations, result, { samples: 80 });
   } catch {
     overlay = null; // an unusable calibration is reported by the axes step already
