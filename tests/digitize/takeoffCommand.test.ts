@@ -63,12 +63,27 @@ describe('pumpscribe takeoff', () => {
     expect(run.code).toBe(1);
   });
 
+  it('leaves out a panel whose anchors define no calibration with a fail (exit 1), and writes what the other panels give', () => {
+    const doc = pumpTakeoff('iso') as { panels: { id: string; anchors: unknown[] }[] };
+    (doc.panels.find((p) => p.id === 'power') as { anchors: unknown[] }).anchors = [{ at: [80, 360], x: 0, y: 0 }, { at: [80, 360], x: 1600, y: 0 }, { at: [80, 60], x: 0, y: 200 }];
+    const file = join(dir, 'one-bad-panel.takeoff.json');
+    writeFileSync(file, JSON.stringify(doc));
+    const out = join(dir, 'one-bad-panel.curveset.json');
+    const run = pumpscribe('takeoff', file, '-o', out, '--json');
+    expect(run.code).toBe(1);
+    const set = JSON.parse(readFileSync(out, 'utf8')) as { findings: { code: string; severity: string; message: string }[]; members: { curves: Record<string, unknown> }[] };
+    const left = set.findings.filter((f) => f.code === 'takeoff.panel-uncalibrated');
+    expect(left.map((f) => f.severity)).toEqual(['fail']);
+    expect(left[0]?.message).toMatch(/^Panel "power": anchors 1 and 2 sit on the same sheet point/);
+    expect(set.members.every((m) => m.curves.head !== undefined && m.curves.power === undefined)).toBe(true);
+  });
+
   const bad: [string, (d: Record<string, unknown>) => void, RegExp][] = [
     ['a take-off without panels', (d) => delete d.panels, /^pumpscribe: The take-off file ".*" is not valid — panels:/],
     ['a missing sheet', (d) => (d.sheet = 'nowhere.pdf'), /^pumpscribe: The sheet file ".*nowhere.pdf" does not exist/],
     ['a damaged sheet', (d) => (d.sheet = 'damaged.pdf'), /^pumpscribe: The PDF "damaged.pdf" is damaged/],
     ['an unknown unit', (d) => ((d.units as Record<string, string>).flow = 'furlongs'), /^pumpscribe: Unknown flow unit "furlongs"/],
-    ['degenerate anchors', (d) => ((d.panels as { anchors: unknown[] }[])[0]!.anchors = [{ at: [80, 360], x: 0, y: 0 }, { at: [80, 360], x: 1600, y: 0 }, { at: [80, 60], x: 0, y: 200 }]), /^pumpscribe: Panel "head": anchors 1 and 2 sit on the same sheet point/],
+    ['degenerate anchors on every panel', (d) => (d.panels as { anchors: unknown[] }[]).forEach((p) => (p.anchors = [{ at: [80, 360], x: 0, y: 0 }, { at: [80, 360], x: 1600, y: 0 }, { at: [80, 60], x: 0, y: 200 }])), /^pumpscribe: Panel "head": anchors 1 and 2 sit on the same sheet point/],
     ['guides on no drawn line', (d) => ((d.traces as { guides: number[][]; method?: string }[])[0]!.guides = [[300, 700], [310, 710]]) && (((d.traces as { method?: string }[])[0]!.method = 'vector'), true), /^pumpscribe: Trace H13 \(head at diameter 13 on panel "head"\): No drawn line passes/],
   ];
   for (const [name, spoil, message] of bad) {
@@ -78,7 +93,7 @@ describe('pumpscribe takeoff', () => {
       spoil(doc);
       const file = join(dir, `bad-${name.replace(/\W+/g, '-')}.takeoff.json`);
       writeFileSync(file, JSON.stringify(doc));
-      const out = join(dir, 'never.curveset.json');
+      const out = join(dir, `never-${name.replace(/\W+/g, '-')}.curveset.json`);
       const run = pumpscribe('takeoff', file, '-o', out);
       expect(run.code).toBe(2);
       expect(run.stderr).toMatch(message);
