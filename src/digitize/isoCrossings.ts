@@ -107,3 +107,14 @@ export function isoCrossings<K>(iso: readonly SheetPoint[], targets: readonly Cr
   }
   return out;
 }
+
+/**
+ * The crossings of one iso trace that are readings: one iso-line meets a head curve at most
+ * twice, so more crossings with one head trace are a trace that ran along that head curve, and
+ * none of them is used (the audit names them, `auditIsoCrossings` in traceAudit.ts).
+ */
+export function readableCrossings<K>(crossings: readonly IsoCrossing<K>[]): IsoCrossing<K>[] {
+  const perHead = new Map<K, number>();
+  for (const c of crossings) perHead.set(c.key, (perHead.get(c.key) ?? 0) + 1);
+  return crossings.filter((c) => (perHead.get(c.key) ?? 0) <= 2);
+}

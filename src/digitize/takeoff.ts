@@ -18,7 +18,7 @@ import type { LostStretch } from './rasterTrace.ts';
 import { auditIsoCrossings, auditTraces, type AuditedTrace, type AuditFinding, type IsoCount } from './traceAudit.ts';
 import { calibratePanels, type Calibration } from './calibration.ts';
 import { captureTrace, type CaptureOptions, type CaptureResult } from './capture.ts';
-import { DEFAULT_TOUCH_TOLERANCE, endDirection, isoCrossings, REACH_HEAD_WIDTHS, REACH_ISO_WIDTHS, REACH_SLACK, type IsoCrossing } from './isoCrossings.ts';
+import { DEFAULT_TOUCH_TOLERANCE, endDirection, isoCrossings, REACH_HEAD_WIDTHS, REACH_ISO_WIDTHS, REACH_SLACK, readableCrossings, type IsoCrossing } from './isoCrossings.ts';
 import { guideBeyondCrossing, guidesOffCrossings, type CrossedLine } from './isoGuides.ts';
 import { arcLengths, nearestOnPolyline } from './polyline.ts';
 import { sheetPoint, type SheetPoint } from './points.ts';
@@ -425,17 +425,6 @@ function valueSpan(anchors: readonly { y?: number | undefined }[]): number | und
 function axisFlow(anchors: readonly { x?: number | undefined }[], unit: Unit): [number, number] | undefined {
   const xs = anchors.flatMap((a) => (a.x === undefined ? [] : [toSI(a.x, unit)]));
   return xs.length >= 2 ? [Math.min(...xs), Math.max(...xs)] : undefined;
-}
-
-/**
- * The crossings of one iso trace that are readings: one iso-line meets a head curve at most
- * twice, so more crossings with one head trace are a trace that ran along that head curve, and
- * none of them is used (the audit names them, `auditIsoCrossings`).
- */
-export function readableCrossings<K>(crossings: readonly IsoCrossing<K>[]): IsoCrossing<K>[] {
-  const perHead = new Map<K, number>();
-  for (const c of crossings) perHead.set(c.key, (perHead.get(c.key) ?? 0) + 1);
-  return crossings.filter((c) => (perHead.get(c.key) ?? 0) <= 2);
 }
 
 /** Distance from a refused guide, in widths of the followed line (and at least one sheet unit), within which the trace still honours it. */

@@ -1,4 +1,4 @@
-/** Which readings of raster traces count (src/digitize/takeoff.ts): refused guides, and iso crossings used as efficiency points. */
+/** Which readings of raster traces count: refused guides (takeoff.ts) and iso crossings used as efficiency points (isoCrossings.ts). */
 import { describe, expect, it } from 'vitest';
 import { REFUSED_GUIDE_WIDTHS, refusedGuides } from '../../src/digitize/takeoff.ts';
 import { sheetPoint } from '../../src/digitize/points.ts';
@@ -26,7 +26,7 @@ describe('refused guides', () => {
 
 describe('iso crossings used as efficiency points', () => {
   it('leaves out every crossing of an iso trace with a head trace it meets more than twice, and keeps the others', async () => {
-    const { readableCrossings } = await import('../../src/digitize/takeoff.ts');
+    const { readableCrossings } = await import('../../src/digitize/isoCrossings.ts');
     const at = (x: number) => sheetPoint(x, 100);
     // Invented: the trace meets head 370 four times (it ran along it) and head 330 twice (a U-shaped iso-line).
     const crossings = [370, 330, 370, 370, 330, 370].map((key, i) => ({ key, at: at(10 * i), touching: false }));
