@@ -12,6 +12,7 @@
  * Sheets are drawn once and kept in artifacts/speed-sheets/ (the dump's cache), so a second run
  * measures only the take-off.
  */
+import { writeFileSync } from 'node:fs';
 import { scoreReplay, type CurveScore } from '../scripts/randomSheets/score.ts';
 import { benchOptions, cachedSpeedSheet, sheetOf } from '../scripts/randomSheets/speedDump.ts';
 import { speedTruthSource, type SpeedSheet } from '../scripts/randomSheets/speedSheet.ts';
@@ -63,4 +64,6 @@ export default async function bench(): Promise<void> {
   lines.push(`all curves: ${rows.length}; flagged ${pct(rows.filter((r) => r.flagged).length, rows.length)}; wrong ${pct(rows.filter((r) => r.wrong).length, rows.length)}; WRONG AND UNFLAGGED ${pct(wu.length, rows.length)} (${wu.length})`);
   if (wu.length) lines.push(`wrong-and-unflagged: ${wu.map((r) => `${r.seed}/${r.kind} ${r.id} ${fmt(r.error)}`).join('; ')}`);
   process.stdout.write(`${lines.join('\n')}\n`);
+  // SPEED_DUMP=file.json keeps every row (seed, kind, curve, error, flags) for reading cases one by one.
+  if (process.env.SPEED_DUMP) writeFileSync(process.env.SPEED_DUMP, `${JSON.stringify(rows, null, 1)}\n`);
 }

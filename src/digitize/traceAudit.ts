@@ -223,21 +223,38 @@ export function auditTraces(traces: readonly AuditedTrace[], flowText: (q: numbe
   // Q ∝ D, H ∝ D², P ∝ D³ order a diameter family's, and its efficiency and NPSHr curves may
   // bunch and part the same way (one family per sheet, so the two kinds never meet here).
   out.push(...auditNeighbours(traces.filter((t) => t.iso === undefined && t.diameter === undefined && t.speed !== undefined && t.flows.length >= 2), flowText));
-  out.push(...auditPeaks(curves));
+  out.push(...auditPeaks(curves), ...auditPeaks(speedCurves));
 
-  // A diameter with a head trace but without a quantity that other diameters have.
-  const heads = new Set(curves.filter((t) => t.quantity === 'head').map((t) => t.diameter as number));
+  // A member (diameter, or speed on a speed family) with a head trace but without a quantity
+  // that other members have.
+  const isoGiven = traces.some((t) => t.iso !== undefined && t.quantity === 'efficiency');
+  for (const family of [curves, speedCurves]) out.push(...auditMissingQuantities(family, isoGiven));
+  return out;
+}
+
+/**
+ * A member with a head trace but no trace of a quantity that other members of the same family
+ * have: the sheet draws that quantity, so this member's line was probably not traced. Iso-lines
+ * give efficiency instead of curves, and many sheets draw one NPSHr curve for the whole family,
+ * so a single NPSHr trace is no sign of a miss.
+ */
+function auditMissingQuantities(family: readonly AuditedTrace[], isoGiven: boolean): AuditFinding[] {
+  const out: AuditFinding[] = [];
+  const kind = family.length > 0 ? memberOf(family[0] as AuditedTrace)?.kind : undefined;
+  if (kind === undefined) return out;
+  const heads = new Set(family.filter((t) => t.quantity === 'head').map(memberValue));
   for (const quantity of ['efficiency', 'power', 'npshr'] as const) {
-    const having = new Set(curves.filter((t) => t.quantity === quantity).map((t) => t.diameter as number));
-    const isoGiven = quantity === 'efficiency' && traces.some((t) => t.iso !== undefined && t.quantity === 'efficiency');
-    // Many sheets draw one NPSHr curve for the whole family: a single NPSHr trace is no sign of a miss.
-    if (having.size === 0 || isoGiven || (quantity === 'npshr' && having.size === 1)) continue;
-    for (const d of heads) {
-      if (having.has(d)) continue;
+    const having = new Set(family.filter((t) => t.quantity === quantity).map(memberValue));
+    if (having.size === 0 || (quantity === 'efficiency' && isoGiven) || (quantity === 'npshr' && having.size === 1)) continue;
+    const name = kind === 'speed' ? 'Speed' : 'Diameter';
+    const list = [...having].map((v) => (kind === 'speed' ? `${v} rpm` : String(v))).join(', ');
+    for (const v of heads) {
+      if (having.has(v)) continue;
       out.push({
         code: 'takeoff.quantity-missing',
         severity: 'warn',
-        message: `Diameter ${d} has a head trace but no ${quantity} trace, while diameter${having.size === 1 ? '' : 's'} ${[...having].join(', ')} ha${having.size === 1 ? 's' : 've'} one; trace its ${quantity} line if the sheet draws it.`,
+        message: `${name} ${kind === 'speed' ? `${v} rpm` : v} has a head trace but no ${quantity} trace, while ${name.toLowerCase()}${having.size === 1 ? '' : 's'} ${list} ha${having.size === 1 ? 's' : 've'} one; trace its ${quantity} line if the sheet draws it.`,
+        figures: kind === 'speed' ? { speed_rpm: v } : { diameter: v },
       });
     }
   }
@@ -557,7 +574,10 @@ export const PEAK_ORDER_PERCENT = 1.5;
  * Efficiency traces of one panel, held against each other by their peaks: a trimmed impeller
  * reaches at most the best efficiency of the larger one (affinity keeps efficiency about equal
  * at corresponding points, and trimming loses a little; common practice). A smaller impeller's
- * trace peaking clearly higher followed another line or lost its own near the peak.
+ * trace peaking clearly higher followed another line or lost its own near the peak. On a speed
+ * family the same holds between speeds: a slower speed keeps about the best efficiency of a
+ * faster one and loses a little to friction (common practice), never gains clearly over it.
+ * `curves` holds one family: diameters, or speeds.
  */
 function auditPeaks(curves: readonly AuditedTrace[]): AuditFinding[] {
   const out: AuditFinding[] = [];
@@ -565,7 +585,7 @@ function auditPeaks(curves: readonly AuditedTrace[]): AuditFinding[] {
   const said = new Set<string>();
   for (const a of usable) {
     for (const b of usable) {
-      if (a.panel !== b.panel || !((a.diameter as number) > (b.diameter as number))) continue;
+      if (a.panel !== b.panel || !(memberValue(a) > memberValue(b))) continue;
       const peakA = Math.max(...(a.values as readonly number[]));
       const peakB = Math.max(...(b.values as readonly number[]));
       const over = (100 * (peakB - peakA)) / (a.valueSpan as number);
@@ -577,7 +597,7 @@ function auditPeaks(curves: readonly AuditedTrace[]): AuditFinding[] {
           code: 'takeoff.trace-peaks',
           severity: 'warn',
           trace: t.id,
-          message: `The efficiency trace ${b.id} (${b.describe}) peaks ${over.toFixed(1)} % of the axis span above trace ${a.id} (${a.describe}), while a trimmed impeller reaches at most the larger one's best efficiency; one of them left its line near the peak. Check both traces and add guides near their peaks where each line stands alone.`,
+          message: `The efficiency trace ${b.id} (${b.describe}) peaks ${over.toFixed(1)} % of the axis span above trace ${a.id} (${a.describe}), while ${memberOf(a)?.kind === 'speed' ? 'a slower speed reaches at most the faster one\'s' : 'a trimmed impeller reaches at most the larger one\'s'} best efficiency; one of them left its line near the peak. Check both traces and add guides near their peaks where each line stands alone.`,
           figures: { over_percent_of_span: over },
         });
       }

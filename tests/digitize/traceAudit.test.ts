@@ -169,6 +169,30 @@ describe('trace audit', () => {
     expect(auditTraces([...speeds, trace('h370', 'head', 370, 0, 0.3)], text)).toEqual([]);
   });
 
+  it('holds a speed family to the peak order and to every quantity the other speeds have', () => {
+    const bySpeed = (id: string, quantity: AuditedTrace['quantity'], rpm: number, from: number, to: number, extra: Partial<AuditedTrace> = {}): AuditedTrace => ({
+      ...trace(id, quantity, 0, from, to, extra),
+      diameter: undefined,
+      speed: rpm,
+      describe: `${quantity} at ${rpm} rpm`,
+    });
+    // Invented: efficiency by the speed law, η(Q, n) = η_rated(Q·n_rated/n), peak at 0.07 m³/s at 1750 rpm.
+    const q = Array.from({ length: 60 }, (_, i) => (0.1 * i) / 59);
+    const axis = { axisFlow: [0, 0.12] as const, valueSpan: 100, panel: 'eff' };
+    const eta = (top: number, best: number) => q.map((x) => top * (x / best) * (2 - x / best));
+    const pair = (fast: number[], slow: number[]) =>
+      auditTraces([bySpeed('e1750', 'efficiency', 1750, 0, 0.1, { ...axis, flows: q, values: fast }), bySpeed('e1400', 'efficiency', 1400, 0, 0.1, { ...axis, flows: q, values: slow })], text).filter((f) => f.code === 'takeoff.trace-peaks');
+    expect(pair(eta(80, 0.07), eta(79, 0.056))).toEqual([]); // the slower speed loses a point: as it should
+    const found = pair(eta(80, 0.07), eta(84, 0.056)); // the slower speed gains four points: one trace is off
+    expect(found.map((f) => f.trace)).toEqual(['e1750', 'e1400']);
+    expect(found[0]?.message).toMatch(/while a slower speed reaches at most the faster one's best efficiency/);
+
+    // A speed with a head trace but no power trace, while the other speed has one.
+    const missing = auditTraces([bySpeed('h1750', 'head', 1750, 0, 0.1), bySpeed('h1400', 'head', 1400, 0, 0.08), bySpeed('p1750', 'power', 1750, 0, 0.1)], text);
+    expect(missing.map((f) => [f.code, f.severity, f.figures?.speed_rpm])).toEqual([['takeoff.quantity-missing', 'warn', 1400]]);
+    expect(missing[0]?.message).toMatch(/^Speed 1400 rpm has a head trace but no power trace, while speed 1750 rpm has one/);
+  });
+
   it('fails a trace that runs level over a fifth of the flow axis (a grid line), and passes a flat-topped head curve', () => {
     const q = Array.from({ length: 120 }, (_, i) => (0.1 * i) / 119);
     const axis = { axisFlow: [0, 0.12] as const, valueSpan: 100 };
