@@ -9,6 +9,14 @@ import { spreadLabels } from '../../src/ui/geometry/labels.ts';
 const label = (y: number, x = 100, text = '250 mm') => ({ x, y, text });
 
 describe('curve-end labels moved apart', () => {
+  it('uses a label\'s measured width where it has one: two labels 33 px apart touch when each is 44 px wide', () => {
+    // "279 mm" in a 10.5 px sans-serif font is about 44 px wide; six characters at 6.2 px make only 37.
+    const by = spreadLabels([{ x: 100, y: 100, text: '279 mm', width: 44 }, { x: 133, y: 102, text: '320 mm', width: 44 }], 11);
+    expect(by.map((l) => l.y)).toEqual([100, 111]);
+    const byChars = spreadLabels([label(100, 100, '279 mm'), label(102, 138, '320 mm')], 11);
+    expect(byChars.map((l) => l.y)).toEqual([100, 102]);
+  });
+
   it('moves a touching label below the one placed, and leaves labels apart in x alone', () => {
     const out = spreadLabels([label(100), label(104), label(104, 400)], 11);
     expect(out.map((l) => [l.x, l.y])).toEqual([

@@ -208,7 +208,7 @@ function paintFits(ctx: CanvasRenderingContext2D, view: View, fits: readonly Fit
     const [x, y] = toScreen(view, end);
     return [{ x: x + 6, y: y - 4, text: fit.label, width: ctx.measureText(fit.label).width + 8 }];
   });
-  for (const l of spreadLabels(ends, 17, Math.max(...ends.map((e) => e.width / e.text.length), 1))) label(ctx, l.text, l.x, l.y, FIT_INK);
+  for (const l of spreadLabels(ends, 17)) label(ctx, l.text, l.x, l.y, FIT_INK);
 }
 
 function paintPreview(ctx: CanvasRenderingContext2D, view: View, preview: Preview): void {

@@ -3,16 +3,17 @@
 /**
  * Curve-end labels that would overlap are moved apart: a label whose box would touch one already
  * placed is moved down below it (at least `gap` px between baselines), keeping their order.
- * A label's box is its text at `charWidth` px a character, `gap` px high.
+ * A label's box is `gap` px high and as wide as its `width` (measured in the font it is drawn
+ * in), or, without one, its text at `charWidth` px a character.
  *
  * A label only ever moves down, to just below a placed label it touches, and is then clear of
  * that label for good; so it moves at most once per placed label and the loop ends. The
  * comparison allows for rounding: `(y + gap) - y` may come out a hair under `gap` in floating
  * point, which must not count as touching (it once kept the page busy for ever).
  */
-export function spreadLabels<L extends { x: number; y: number; text: string }>(labels: readonly L[], gap: number, charWidth = 6.2): L[] {
+export function spreadLabels<L extends { x: number; y: number; text: string; width?: number }>(labels: readonly L[], gap: number, charWidth = 6.2): L[] {
   const out = labels.map((l) => ({ ...l })).sort((a, b) => a.y - b.y);
-  const width = (l: L) => l.text.length * charWidth;
+  const width = (l: L) => l.width ?? l.text.length * charWidth;
   const touching = gap - 1e-6 * Math.max(1, Math.abs(gap));
   const placed: L[] = [];
   for (const cur of out) {

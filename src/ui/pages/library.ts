@@ -233,17 +233,19 @@ function compareChart(sets: CurveSet[], duty: { flow_m3s: number; head_m: number
   const qMax = Math.max(duty?.flow_m3s ?? 0, ...curves.map((c) => c.fit.domain[1]));
   const hMax = Math.max(duty?.head_m ?? 0, ...curves.map((c) => evaluateUnchecked(c.fit, c.fit.domain[0])));
   const xs = niceLinearScale(0, fromSI(qMax, u.flow), [L, W - 20], 6);
-  const ys = niceLinearScale(0, fromSI(hMax, u.head), [H - B, 16], 5);
+  // The plot starts 26 px down: the head axis title sits above it, clear of the top tick label.
+  const TOP = 26;
+  const ys = niceLinearScale(0, fromSI(hMax, u.head), [H - B, TOP], 5);
   const x = (q: number) => xs.map(fromSI(q, u.flow));
   const y = (v: number) => ys.map(fromSI(v, u.head));
   const chart = svg('svg', { viewBox: `0 0 ${W} ${H}`, class: 'family-chart compare-chart', role: 'img', 'aria-label': `Head curves of ${sets.length} pumps${duty ? ' with the duty point' : ''}` });
-  for (const t of xs.tickValues) chart.append(svg('line', { x1: xs.map(t), x2: xs.map(t), y1: 16, y2: H - B, class: 'grid' }), svg('text', { x: xs.map(t), y: H - B + 14, class: 'tick', 'text-anchor': 'middle' }, num(t)));
+  for (const t of xs.tickValues) chart.append(svg('line', { x1: xs.map(t), x2: xs.map(t), y1: TOP, y2: H - B, class: 'grid' }), svg('text', { x: xs.map(t), y: H - B + 14, class: 'tick', 'text-anchor': 'middle' }, num(t)));
   for (const t of ys.tickValues) chart.append(svg('line', { x1: L, x2: W - 20, y1: ys.map(t), y2: ys.map(t), class: 'grid' }), svg('text', { x: L - 6, y: ys.map(t) + 4, class: 'tick', 'text-anchor': 'end' }, num(t)));
   for (const c of curves) {
     const pts = polylinePoints(linspace(c.fit.domain[0], c.fit.domain[1], 50).map((q) => [x(q), y(evaluateUnchecked(c.fit, q))] as const));
     chart.append(svg('polyline', { points: pts, class: 'curve', stroke: INKS[c.i % INKS.length], 'stroke-width': c.k === 0 ? 2.2 : 1, fill: 'none' }));
   }
   if (duty) chart.append(svg('rect', { x: x(duty.flow_m3s) - 5, y: y(duty.head_m) - 5, width: 10, height: 10, class: 'op-point' }, svg('title', null, 'Duty point')));
-  chart.append(svg('text', { x: L + (W - L) / 2, y: H - 6, class: 'axis-title', 'text-anchor': 'middle' }, `Flow [${unitText(u.flow.label)}]`), svg('text', { x: 8, y: 12, class: 'axis-title' }, `Head [${u.head.label}]`));
+  chart.append(svg('text', { x: L + (W - L) / 2, y: H - 6, class: 'axis-title', 'text-anchor': 'middle' }, `Flow [${unitText(u.flow.label)}]`), svg('text', { x: L, y: TOP - 9, class: 'axis-title' }, `Head [${u.head.label}]`));
   return chart;
 }

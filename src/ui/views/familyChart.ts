@@ -13,6 +13,12 @@ import { choiceWords, curveLabelText, num, QUANTITY_NAMES, SAFETY_SENTENCE, spee
 import { membersRatedFirst } from '../../duty/speed.ts';
 import { spreadLabels } from '../geometry/labels.ts';
 
+/** A curve label's width in the chart's label font (styles.css: .curve-label 10.5 px, speed labels bold), with a 3 px gap after it. */
+function labelWidth(text: string, bold: boolean): number {
+  return textWidth(text, `${bold ? '600 ' : ''}10.5px system-ui, sans-serif`, 10.5) + 3;
+}
+import { textWidth } from '../dom/textWidth.ts';
+
 export type ChartUnits = CurveUnits;
 
 /** The units a chart of `set` shows for a choice: the set's own (the default), or a preset's. */
@@ -36,7 +42,7 @@ export interface DutyOverlay {
 }
 
 /** The chart's layout in SVG pixels: width, plot height, gap between plots, margins. */
-const LAYOUT = { width: 560, plotHeight: 150, gap: 26, left: 62, right: 64, top: 14 } as const;
+const LAYOUT = { width: 560, plotHeight: 150, gap: 26, left: 62, right: 64, top: 22 } as const;
 const { width: W, plotHeight: PLOT_H, gap: GAP, left: LEFT, right: RIGHT, top: TOP } = LAYOUT;
 
 /** The curve picked out from a finding or a trace: its member by diameter (or by speed on a speed family), and its quantity. */
@@ -82,8 +88,9 @@ export function familyChart(set: CurveSet, choice: UnitChoice = 'own', duty?: Du
       g.append(svg('line', { x1: xx, x2: xx, y1: top, y2: top + PLOT_H, class: 'grid' }));
       if (row === quantities.length - 1) g.append(svg('text', { x: xx, y: top + PLOT_H + 14, class: 'tick', 'text-anchor': 'middle' }, num(t, 4)));
     }
-    g.append(svg('text', { x: 8, y: top + 12, class: 'axis-title' }, `${QUANTITY_NAMES[q]} [${unitText(unit.label || unit.token)}]`));
-    const labels: { x: number; y: number; text: string; speed?: true }[] = [];
+    // Above the plot, clear of the top tick label at the left.
+    g.append(svg('text', { x: LEFT, y: top - 7, class: 'axis-title' }, `${QUANTITY_NAMES[q]} [${unitText(unit.label || unit.token)}]`));
+    const labels: { x: number; y: number; text: string; width: number; speed?: true }[] = [];
     members.forEach((m, k) => {
       const fit = m.curves[q]?.fit;
       if (!fit) return;
@@ -92,12 +99,14 @@ export function familyChart(set: CurveSet, choice: UnitChoice = 'own', duty?: Du
       const emphasised = highlight && same && (!highlight.quantity || highlight.quantity === q);
       g.append(svg('polyline', { points: pts, class: `curve${emphasised ? ' emphasised' : ''}`, stroke: QUANTITY_INK[q], 'stroke-opacity': String(1 - k * 0.15) }, svg('title', null, `${QUANTITY_NAMES[q]}, ${memberName(set, m, u, true)}`)));
       const end = fit.domain[1];
-      labels.push({ x: x(end) + 4, y: y(evaluateUnchecked(fit, end)) + 4, text: memberName(set, m, u) });
+      const text = memberName(set, m, u);
+      labels.push({ x: x(end) + 4, y: y(evaluateUnchecked(fit, end)) + 4, text, width: labelWidth(text, false) });
     });
     // The curve a variable-speed option runs on is labelled with its speed among the drawn ones.
     for (const c of q === 'head' ? (duty?.curves ?? []) : []) {
       const end = c.points[c.points.length - 1];
-      if (end) labels.push({ x: x(end[0]) + 4, y: y(end[1]) + 4, text: c.label.replace(/^.*: /, ''), speed: true });
+      const text = c.label.replace(/^.*: /, '');
+      if (end) labels.push({ x: x(end[0]) + 4, y: y(end[1]) + 4, text, width: labelWidth(text, true), speed: true });
     }
     for (const l of spreadLabels(labels, 11)) g.append(svg('text', { x: l.x, y: l.y, class: l.speed ? 'curve-label speed-curve-label' : 'curve-label' }, l.text));
     if (q === 'head') {
