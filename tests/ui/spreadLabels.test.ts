@@ -9,6 +9,16 @@ import { spreadLabels } from '../../src/ui/geometry/labels.ts';
 const label = (y: number, x = 100, text = '250 mm') => ({ x, y, text });
 
 describe('curve-end labels moved apart', () => {
+  it('keeps labels clear of fixed boxes (a panel\'s name on the sheet), which never move', () => {
+    const fixed = [{ x: 300, y: 50, width: 90 }];
+    const out = spreadLabels([{ x: 320, y: 48, text: '330 mm', width: 50 }, { x: 100, y: 48, text: '310 mm', width: 50 }], 17, undefined, fixed);
+    expect(out.map((l) => [l.text, l.y])).toEqual([
+      ['330 mm', 67],
+      ['310 mm', 48],
+    ]);
+    expect(fixed).toEqual([{ x: 300, y: 50, width: 90 }]);
+  });
+
   it('uses a label\'s measured width where it has one: two labels 33 px apart touch when each is 44 px wide', () => {
     // "279 mm" in a 10.5 px sans-serif font is about 44 px wide; six characters at 6.2 px make only 37.
     const by = spreadLabels([{ x: 100, y: 100, text: '279 mm', width: 44 }, { x: 133, y: 102, text: '320 mm', width: 44 }], 11);

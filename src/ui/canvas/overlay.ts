@@ -8,7 +8,7 @@ import type { SheetXY } from '../../model/takeoff.ts';
 import { frameOf, anchorAxis, pointsOf, type Draft, type PanelDraft, type TraceDraft } from '../store/draft.ts';
 import type { Session } from '../store/store.ts';
 import { toScreen, type View } from './view.ts';
-import { spreadLabels } from '../geometry/labels.ts';
+import { spreadLabels, type LabelBox } from '../geometry/labels.ts';
 
 /** Ink of each quantity on the overlay (chosen to read against black and grey print). */
 export const QUANTITY_INK: Record<Quantity, string> = {
@@ -86,6 +86,19 @@ function label(ctx: CanvasRenderingContext2D, text: string, x: number, y: number
 
 const PANEL_INK = '#0d6b6b';
 
+/** Where a panel's name is drawn: on the frame's top edge at the right, away from the axis labels on the left. */
+function panelBadge(ctx: CanvasRenderingContext2D, view: View, panel: PanelDraft, calibrated: boolean): LabelBox & { text: string } {
+  const [l, t, r] = frameOf(panel);
+  const [, y0] = toScreen(view, [l, t]);
+  const [x1] = toScreen(view, [r, t]);
+  const name = { head: 'Head', efficiency: 'Efficiency', power: 'Power', npshr: 'NPSHr' }[panel.plots];
+  const text = `${name} panel${calibrated ? '' : ' · axes not set'}`;
+  ctx.font = '600 12px system-ui, sans-serif';
+  const w = ctx.measureText(text).width;
+  // The box as `label` paints it: 3 px of background either side.
+  return { text, x: x1 - w - 9, y: y0 + 15, width: w + 6 };
+}
+
 function paintPanel(ctx: CanvasRenderingContext2D, view: View, panel: PanelDraft, active: boolean, calibrated: boolean): void {
   const [l, t, r, b] = frameOf(panel);
   const [x0, y0] = toScreen(view, [l, t]);
@@ -93,13 +106,8 @@ function paintPanel(ctx: CanvasRenderingContext2D, view: View, panel: PanelDraft
   ctx.beginPath();
   ctx.rect(x0, y0, x1 - x0, y1 - y0);
   haloStroke(ctx, PANEL_INK, active ? 2 : 1.25, active ? [] : [6, 4]);
-  const name = { head: 'Head', efficiency: 'Efficiency', power: 'Power', npshr: 'NPSHr' }[panel.plots];
-  const state = calibrated ? '' : ' · axes not set';
-  // The name sits on the frame's top edge at the right, away from the axis labels on the left.
-  const text = `${name} panel${state}`;
-  ctx.font = '600 12px system-ui, sans-serif';
-  const w = ctx.measureText(text).width;
-  label(ctx, text, x1 - w - 6, y0 + 15, '#ffffff', PANEL_INK);
+  const badge = panelBadge(ctx, view, panel, calibrated);
+  label(ctx, badge.text, badge.x + 3, badge.y, '#ffffff', PANEL_INK);
 }
 
 function paintAnchors(ctx: CanvasRenderingContext2D, view: View, panel: PanelDraft, active: boolean): void {
@@ -191,7 +199,7 @@ function paintGuide(ctx: CanvasRenderingContext2D, view: View, g: SheetXY, ink: 
   ctx.stroke();
 }
 
-function paintFits(ctx: CanvasRenderingContext2D, view: View, fits: readonly FitLine[], session: Session): void {
+function paintFits(ctx: CanvasRenderingContext2D, view: View, fits: readonly FitLine[], session: Session, badges: readonly LabelBox[]): void {
   for (const fit of fits) {
     if (fit.points.length < 2) continue;
     line(ctx, view, fit.points);
@@ -208,7 +216,8 @@ function paintFits(ctx: CanvasRenderingContext2D, view: View, fits: readonly Fit
     const [x, y] = toScreen(view, end);
     return [{ x: x + 6, y: y - 4, text: fit.label, width: ctx.measureText(fit.label).width + 8 }];
   });
-  for (const l of spreadLabels(ends, 17)) label(ctx, l.text, l.x, l.y, FIT_INK);
+  // They keep clear of the panels' names too, which curves often end beside.
+  for (const l of spreadLabels(ends, 17, undefined, badges)) label(ctx, l.text, l.x, l.y, FIT_INK);
 }
 
 function paintPreview(ctx: CanvasRenderingContext2D, view: View, preview: Preview): void {
@@ -273,7 +282,7 @@ export function paintScene(ctx: CanvasRenderingContext2D, view: View, scene: Sce
   if (scene.layers.traces) {
     for (const trace of draft.traces) if (!trace.hidden) paintTrace(ctx, view, trace, session, scene.preview);
   }
-  if (scene.layers.fits) paintFits(ctx, view, scene.fits, session);
+  if (scene.layers.fits) paintFits(ctx, view, scene.fits, session, draft.panels.map((p) => panelBadge(ctx, view, p, scene.calibrated.has(p.id))));
   for (const g of scene.pendingGuides) paintGuide(ctx, view, g, '#111827');
   if (scene.preview) paintPreview(ctx, view, scene.preview);
 }
