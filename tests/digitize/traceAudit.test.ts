@@ -16,6 +16,13 @@ const trace = (id: string, quantity: AuditedTrace['quantity'], diameter: number,
   ...extra,
 });
 const text = (q: number) => `${q.toFixed(3)} m³/s`;
+/** A trace of a speed family: named by its speed, no diameter. */
+const bySpeed = (id: string, quantity: AuditedTrace['quantity'], rpm: number, from: number, to: number, extra: Partial<AuditedTrace> = {}): AuditedTrace => ({
+  ...trace(id, quantity, 0, from, to, extra),
+  diameter: undefined,
+  speed: rpm,
+  describe: `${quantity} at ${rpm} rpm`,
+});
 
 describe('trace audit', () => {
   const family = [trace('h370', 'head', 370, 0, 0.1), trace('h330', 'head', 330, 0, 0.089), trace('e370', 'efficiency', 370, 0, 0.1), trace('e330', 'efficiency', 330, 0, 0.089)];
@@ -107,7 +114,7 @@ describe('trace audit', () => {
   it('holds the traces of a speed family to the same rule, naming them by their speeds', () => {
     const q = Array.from({ length: 60 }, (_, i) => (0.1 * i) / 59);
     const axis = { axisFlow: [0, 0.12] as const, valueSpan: 8, panel: 'npsh' };
-    const bySpeed = (id: string, quantity: AuditedTrace['quantity'], rpm: number, values: number[], valueSpan = 8): AuditedTrace => ({
+    const levelTrace = (id: string, quantity: AuditedTrace['quantity'], rpm: number, values: number[], valueSpan = 8): AuditedTrace => ({
       ...trace(id, quantity, 0, 0, 0.1, { ...axis, valueSpan, flows: q, values }),
       diameter: undefined,
       speed: rpm,
@@ -117,12 +124,12 @@ describe('trace audit', () => {
     const base = q.map((x) => 2 + 300 * x * x);
     const parted = q.map((x, i) => (base[i] as number) + (x > 0.033 ? 40 * (x - 0.033) : 0));
     const neighbours = (list: AuditedTrace[]) => auditTraces(list, text).filter((f) => f.code === 'takeoff.trace-neighbour');
-    expect(neighbours([bySpeed('n1750', 'npshr', 1750, parted), bySpeed('n1600', 'npshr', 1600, base)])).toEqual([]);
+    expect(neighbours([levelTrace('n1750', 'npshr', 1750, parted), levelTrace('n1600', 'npshr', 1600, base)])).toEqual([]);
     // Efficiency by the speed law, η(Q, n) = η_rated(Q·n_rated/n): zero together at shut-off, parted past it.
     const eta = (x: number, s: number) => 84 * (x / s / 0.08) * (2 - x / s / 0.08);
-    expect(neighbours([bySpeed('e1750', 'efficiency', 1750, q.map((x) => eta(x, 1)), 100), bySpeed('e1400', 'efficiency', 1400, q.map((x) => eta(x, 0.8)), 100)])).toEqual([]);
+    expect(neighbours([levelTrace('e1750', 'efficiency', 1750, q.map((x) => eta(x, 1)), 100), levelTrace('e1400', 'efficiency', 1400, q.map((x) => eta(x, 0.8)), 100)])).toEqual([]);
     // The 1600 rpm trace followed the 1750 rpm line all the way: one drawn line traced twice.
-    const same = neighbours([bySpeed('n1750', 'npshr', 1750, parted), bySpeed('n1600', 'npshr', 1600, parted)]);
+    const same = neighbours([levelTrace('n1750', 'npshr', 1750, parted), levelTrace('n1600', 'npshr', 1600, parted)]);
     expect(same.map((f) => [f.severity, f.trace, f.figures?.speed_rpm, f.figures?.other_speed_rpm])).toEqual([
       ['fail', 'n1750', 1750, 1600],
       ['fail', 'n1600', 1600, 1750],
@@ -130,7 +137,7 @@ describe('trace audit', () => {
     expect(same[0]?.message).toMatch(/^Trace n1750 \(npshr at 1750 rpm on panel "npsh"\) and trace n1600 \(npshr at 1600 rpm on panel "npsh"\) lie on one line over \d+ % of the flow axis, far past where curves of a family run together/);
     // Head traces of two speeds on one line: a faster speed's head lies above a slower one's (H ∝ n²).
     const head = q.map((x) => 80 - 2000 * x * x);
-    const heads = neighbours([bySpeed('h1750', 'head', 1750, head, 100), bySpeed('h1600', 'head', 1600, head, 100)]);
+    const heads = neighbours([levelTrace('h1750', 'head', 1750, head, 100), levelTrace('h1600', 'head', 1600, head, 100)]);
     expect(heads.map((f) => f.trace)).toEqual(['h1750', 'h1600']);
     expect(heads[0]?.message).toMatch(/where a faster speed's head lies above a slower one's everywhere/);
   });
@@ -147,12 +154,6 @@ describe('trace audit', () => {
   });
 
   it('gives a speed family\'s traces the per-trace checks, scaling coverage by speed (Q ∝ n)', () => {
-    const bySpeed = (id: string, quantity: AuditedTrace['quantity'], rpm: number, from: number, to: number, extra: Partial<AuditedTrace> = {}): AuditedTrace => ({
-      ...trace(id, quantity, 0, from, to, extra),
-      diameter: undefined,
-      speed: rpm,
-      describe: `${quantity} at ${rpm} rpm`,
-    });
     // Invented: 1750 rpm runs to 0.1 m³/s, 1400 rpm to 0.08 (0.1 × 1400/1750).
     const speeds = [bySpeed('h1750', 'head', 1750, 0, 0.1), bySpeed('h1400', 'head', 1400, 0, 0.08), bySpeed('p1750', 'power', 1750, 0, 0.1), bySpeed('p1400', 'power', 1400, 0, 0.08)];
     expect(auditTraces(speeds, text)).toEqual([]);
@@ -170,12 +171,6 @@ describe('trace audit', () => {
   });
 
   it('holds a speed family to the peak order and to every quantity the other speeds have', () => {
-    const bySpeed = (id: string, quantity: AuditedTrace['quantity'], rpm: number, from: number, to: number, extra: Partial<AuditedTrace> = {}): AuditedTrace => ({
-      ...trace(id, quantity, 0, from, to, extra),
-      diameter: undefined,
-      speed: rpm,
-      describe: `${quantity} at ${rpm} rpm`,
-    });
     // Invented: efficiency by the speed law, η(Q, n) = η_rated(Q·n_rated/n), peak at 0.07 m³/s at 1750 rpm.
     const q = Array.from({ length: 60 }, (_, i) => (0.1 * i) / 59);
     const axis = { axisFlow: [0, 0.12] as const, valueSpan: 100, panel: 'eff' };
