@@ -204,8 +204,8 @@ export interface CoursePoint {
 /**
  * Sections across the course ahead that must show one clean run of about one width, narrower than
  * the model's, before that width is taken: enough to outweigh a grid line or a letter of a label
- * crossing the course (each shows at one or two sections), few enough to be found in the first
- * 30 widths after a bunch fans out.
+ * crossing the course (each shows at one or two sections), few enough to be found within the
+ * course's reach (`courseAhead`: 20 widths of the model's) after a bunch fans out.
  */
 const AHEAD_SECTIONS = 6;
 
@@ -220,9 +220,9 @@ const AHEAD_SECTIONS = 6;
 const AHEAD_SHARE = 0.25;
 
 /**
- * Spread allowed among the narrow runs, as a ratio of the largest to the smallest of their middle
- * half: one line's runs agree within compression noise (about 1.3 seen on the bed's scans); a mix
- * of grid lines, letters and line does not.
+ * Spread allowed among the narrow runs of the farther half of the sections, as a ratio of the
+ * upper to the lower quartile of their masses: one line's runs agree within compression noise
+ * (1.1 to 1.3 seen on the bed's scans); a mix of grid lines, letters and line does not.
  */
 const AHEAD_SPREAD = 1.6;
 
