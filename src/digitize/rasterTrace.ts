@@ -895,9 +895,10 @@ function extendToEnds(
         // Measured along what was followed, and else ahead on the line's course: where the trace
         // ends in a bunch, what was followed is the bunch, and the line's own width shows only
         // where it parts from the others.
-        const ahead = courseAhead(all, end, heading, style, maxGap);
-        const tries = [restyleAlong(image, style, all, counter), restyleAhead(image, style, ahead, counter)];
-        for (const [k, again] of tries.entries()) {
+        // Each measured only when the one before gave nothing better.
+        const tries = [() => restyleAlong(image, style, all, counter), () => restyleAhead(image, style, courseAhead(all, end, heading, style, maxGap), counter)];
+        for (const [k, measure] of tries.entries()) {
+          const again = measure();
           if (!again) continue;
           // A shorter gap bridged on the try: a line the new model sees shows at once (what hides
           // it farther on is looked past by the search for the lost line), and a try that finds
