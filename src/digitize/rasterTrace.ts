@@ -896,7 +896,18 @@ function extendToEnds(
         // ends in a bunch, what was followed is the bunch, and the line's own width shows only
         // where it parts from the others.
         // Each measured only when the one before gave nothing better.
-        const tries = [() => restyleAlong(image, style, all, counter), () => restyleAhead(image, style, courseAhead(all, end, heading, style, maxGap), counter)];
+        const tries = [
+          () => restyleAlong(image, style, all, counter),
+          () => restyleAhead(image, style, courseAhead(all, end, heading, style, maxGap), counter),
+          // The dash pattern read along the course ahead, as along a followed stretch: a dashed
+          // line whose guides sat where its pattern did not show, lost at its first gap. Only a
+          // pattern found anew counts here (a width alone is the try before's).
+          () => {
+            if (style.reach) return undefined;
+            const dashed = restyleAlong(image, style, courseAhead(all, end, heading, style, maxGap).map((c) => c.at), counter);
+            return dashed?.reach ? dashed : undefined;
+          },
+        ];
         for (const [k, measure] of tries.entries()) {
           const again = measure();
           if (!again) continue;
@@ -913,9 +924,10 @@ function extendToEnds(
             inside = within;
             smooth = kept;
             doubts.push(...seen);
-            // A model taken ahead, not under a guide, came out of the bunch on the line nearest
-            // the course: nothing vouches that it is this trace's line rather than a neighbour.
-            if (k > 0 && !doubts.some((d) => d.what === 'bunch-end')) doubts.push({ at: end, what: 'bunch-end' });
+            // A width taken ahead, not under a guide, came out of the bunch on the line nearest
+            // the course: nothing vouches that it is this trace's line rather than a neighbour. (A
+            // dash pattern read ahead is held to the line's course as one read along it is.)
+            if (k === 1 && !doubts.some((d) => d.what === 'bunch-end')) doubts.push({ at: end, what: 'bunch-end' });
             break;
           }
         }
