@@ -127,3 +127,20 @@ describe('a trace whose guides sit in a bunch', () => {
     expect(result.doubts.map((d) => d.code)).toContain('takeoff.end-through-bunch');
   });
 });
+
+describe('a trace whose guides sit where the line is solid', () => {
+  it('reads the dash pattern on the course ahead where the line turns dashed, and follows it to its end', () => {
+    // Solid up to x = 150, then dashes of 4 px with gaps of 10 px (wider than the solid model
+    // bridges at once), softly blurred; both guides on the solid part.
+    const image = picture(640, 300, (ctx) => {
+      ctx.filter = 'blur(0.8px)';
+      stroke(ctx, head, 20, 150, '#222222', 2);
+      ctx.setLineDash([4, 10]);
+      stroke(ctx, head, 150, 620, '#222222', 2);
+    });
+    const result = traceRaster(image, [sheetPoint(60, head(60)), sheetPoint(146, head(146))]);
+    expect(result.line.dashed).toBeUndefined(); // the model under the guides is solid
+    expect(Math.max(...result.points.map((p) => p[0]))).toBeGreaterThan(600);
+    expect(worstOff(result.points, head)).toBeLessThan(1.5);
+  });
+});
