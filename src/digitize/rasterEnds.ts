@@ -193,3 +193,79 @@ export function restyleAlong(image: RasterImage, style: LineStyle, path: readonl
   if (newWidth === style.width && (newReach ?? 0) === (style.reach ?? 0)) return undefined;
   return { ...style, width: newWidth, ...(newReach ? { reach: newReach } : {}) };
 }
+
+/** A place on a line's predicted course beyond a followed stretch: the point, the unit tangent there, and how far off it (pixels) the line may lie. */
+export interface CoursePoint {
+  at: Px;
+  tangent: Px;
+  allowed: number;
+}
+
+/**
+ * Sections across the course ahead that must show one clean run of about one width, narrower than
+ * the model's, before that width is taken: enough to outweigh a grid line or a letter of a label
+ * crossing the course (each shows at one or two sections), few enough to be found within the
+ * course's reach (`courseAhead`: 20 widths of the model's) after a bunch fans out.
+ */
+const AHEAD_SECTIONS = 6;
+
+/**
+ * Least share of the sections that see ink near the course whose run is of the narrow width: a
+ * line that stays in the bunch beyond the end (the model's width right after all) shows wide
+ * runs at nearly all of them. A quarter: a dotted or dashed line shows its width only at its
+ * dots (its gaps and the lines still half merged show other runs), and on the bed (seeds 1–80)
+ * a quarter lowered the wrong share where a half did less; what the new width follows must
+ * still continue the line smoothly and farther than before.
+ */
+const AHEAD_SHARE = 0.25;
+
+/**
+ * Spread allowed among the narrow runs of the farther half of the sections, as a ratio of the
+ * upper to the lower quartile of their masses: one line's runs agree within compression noise
+ * (1.1 to 1.3 seen on the bed's scans); a mix of grid lines, letters and line does not.
+ */
+const AHEAD_SPREAD = 1.6;
+
+/**
+ * The line's width measured ahead of a followed stretch, along its predicted course: where a
+ * trace ends in a bunch (the lines of several diameters running together, the width under its
+ * guides that of the bunch), the model's width is too wide for the line where it separates, and
+ * the follower loses it there. Each section across the course takes the one run of the line's
+ * colour within the allowed distance of the course; when most such runs are of one width clearly
+ * narrower than the model's (`WIDTH_CHANGE`), that width is returned. Only narrower: a wider
+ * model would take the bunch or a neighbour for the line. Undefined otherwise.
+ */
+export function restyleAhead(image: RasterImage, style: LineStyle, course: readonly CoursePoint[], counter: ReadCounter): LineStyle | undefined {
+  const spacing = 0.5;
+  const runs: Run[] = [];
+  let seen = 0;
+  const narrow: number[] = [];
+  for (const c of course) {
+    const n = Math.ceil((c.allowed + 2 * style.width + 2) / spacing);
+    const section = new Float64Array(2 * n + 1);
+    const nx = -c.tangent[1];
+    const ny = c.tangent[0];
+    if (style.reach) sampleLongSection(image, style.model, c.at[0], c.at[1], nx, ny, n, spacing, style.reach, section, counter);
+    else sampleSection(image, style.model, c.at[0], c.at[1], nx, ny, n, spacing, section, counter);
+    const near = findRuns(section, n, spacing, style.threshold, runs).filter((r) => Math.abs(r.centre) <= c.allowed);
+    if (near.length === 0) continue;
+    seen++;
+    // Two runs within reach of the course are the lines of the bunch parting: no measure yet.
+    if (near.length !== 1) continue;
+    const mass = (near[0] as Run).mass;
+    if (mass >= MIN_WIDTH_PX && mass < WIDTH_CHANGE * style.width) narrow.push(mass);
+  }
+  if (narrow.length < AHEAD_SECTIONS || narrow.length < AHEAD_SHARE * seen) return undefined;
+  // The lines of a bunch part gradually: near the end the run is still two lines half merged,
+  // and the line's own width shows in the farther half of the sections.
+  const far = narrow.slice(Math.floor(narrow.length / 2)).sort((a, b) => a - b);
+  const q1 = far[Math.floor(0.25 * (far.length - 1))] as number;
+  const q3 = far[Math.ceil(0.75 * (far.length - 1))] as number;
+  if (q3 > AHEAD_SPREAD * q1) return undefined;
+  const measured = Math.max(1, far[Math.floor(far.length / 2)] as number);
+  return { ...style, width: measured };
+}
+
+/** Least mass, pixels, of a run taken for the line ahead: thinner runs are noise or the fringe of a letter. */
+const MIN_WIDTH_PX = 0.6;
+

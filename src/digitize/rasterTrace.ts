@@ -21,7 +21,7 @@ import { findRuns, inkAxis, membershipAt, sampleInkSection, sampleLongSection, s
 import { sheetPoint, type SheetPoint } from './points.ts';
 import type { RasterImage } from './raster.ts';
 import { alongBand } from './rasterBand.ts';
-import { dashReach, restyleAlong } from './rasterEnds.ts';
+import { dashReach, restyleAhead, restyleAlong, type CoursePoint } from './rasterEnds.ts';
 import { cutFollow, foreignGuides, foreignRun, type Locate, type RoomAt } from './rasterSiblings.ts';
 
 /** Guides or options the tracer cannot use. The message says what to change. */
@@ -892,8 +892,25 @@ function extendToEnds(
       // followed, once an end, and that model is kept when it follows the line clearly farther.
       if (!restyled && inside.length >= result.points.length / 2 - 1 && coastedAtEnd(result, style.width)) {
         restyled = true;
-        const again = restyleAlong(image, style, all, counter);
-        if (again) {
+        // Measured along what was followed, and else ahead on the line's course: where the trace
+        // ends in a bunch, what was followed is the bunch, and the line's own width shows only
+        // where it parts from the others.
+        // Each measured only when the one before gave nothing better.
+        const tries = [
+          () => restyleAlong(image, style, all, counter),
+          () => restyleAhead(image, style, courseAhead(all, end, heading, style, maxGap), counter),
+          // The dash pattern read along the course ahead, as along a followed stretch: a dashed
+          // line whose guides sat where its pattern did not show, lost at its first gap. Only a
+          // pattern found anew counts here (a width alone is the try before's).
+          () => {
+            if (style.reach) return undefined;
+            const dashed = restyleAlong(image, style, courseAhead(all, end, heading, style, maxGap).map((c) => c.at), counter);
+            return dashed?.reach ? dashed : undefined;
+          },
+        ];
+        for (const [k, measure] of tries.entries()) {
+          const again = measure();
+          if (!again) continue;
           // A shorter gap bridged on the try: a line the new model sees shows at once (what hides
           // it farther on is looked past by the search for the lost line), and a try that finds
           // nothing ends soon.
@@ -907,6 +924,11 @@ function extendToEnds(
             inside = within;
             smooth = kept;
             doubts.push(...seen);
+            // A width taken ahead, not under a guide, came out of the bunch on the line nearest
+            // the course: nothing vouches that it is this trace's line rather than a neighbour. (A
+            // dash pattern read ahead is held to the line's course as one read along it is.)
+            if (k === 1 && !doubts.some((d) => d.what === 'bunch-end')) doubts.push({ at: end, what: 'bunch-end' });
+            break;
           }
         }
       }
@@ -960,6 +982,33 @@ function extendToEnds(
   if (frame) clipToFrame(path, frame, image.scale, traced.width);
   return doubts;
 }
+
+/**
+ * Places on the line's predicted course beyond `end`, a step apart from two steps out to
+ * `AHEAD_WIDTHS` widths (at least `AHEAD_PX`, at most a gap): on the parabola through the last
+ * stretch of `all`, or straight on along `heading` when that stretch is too short to fit one
+ * (a trace of a single guide lost at once), each with the distance off the course that
+ * `keepSmooth` would allow there.
+ */
+function courseAhead(all: readonly Px[], end: Px, heading: Px, style: LineStyle, maxGap: number): CoursePoint[] {
+  const window = smoothWindow(style.width);
+  const course = parabolaThrough(all, window);
+  const { step } = stepping(style.width);
+  const limit = smoothLimit(style);
+  const reach = Math.min(maxGap, Math.max(AHEAD_PX, AHEAD_WIDTHS * style.width));
+  const out: CoursePoint[] = [];
+  for (let d = 2 * step; d <= reach; d += step) {
+    const [at, tangent] = course ? course(d) : [[end[0] + d * heading[0], end[1] + d * heading[1]] as Px, heading];
+    // Straight on, the line's own bending carries it off the course by more as it goes.
+    const allowed = limit + (course ? 0.03 : 0.08) * Math.max(0, d - window / 4);
+    out.push({ at, tangent, allowed });
+  }
+  return out;
+}
+
+/** Reach, pixels and line widths (the model's, often a bunch's), of the course ahead on which a line's width is measured again. */
+const AHEAD_PX = 60;
+const AHEAD_WIDTHS = 20;
 
 /**
  * Where an extension runs through a bunch and goes on beyond it: the first point of a stretch at

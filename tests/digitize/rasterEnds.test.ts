@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { sheetPoint, type SheetPoint } from '../../src/digitize/points.ts';
-import { dashReach, inkOrGap, restyleAlong } from '../../src/digitize/rasterEnds.ts';
+import { dashReach, inkOrGap, restyleAhead, restyleAlong } from '../../src/digitize/rasterEnds.ts';
 import { traceRaster } from '../../src/digitize/rasterTrace.ts';
 import { inkModel } from '../../src/digitize/colour.ts';
 import { picture, stroke } from './rasterPictures.ts';
@@ -83,5 +83,64 @@ describe('the line\'s look along its followed stretch', () => {
     expect(Math.min(...result.points.map((p) => p[0]))).toBeLessThan(30);
     expect(Math.max(...result.points.map((p) => p[0]))).toBeGreaterThan(605);
     expect(worstOff(result.points, head)).toBeLessThan(1);
+  });
+});
+
+describe('a trace whose guides sit in a bunch', () => {
+  // Three lines of one colour run side by side, touching, up to x = 120 (as NPSHr curves of
+  // several diameters run together at low flow), then fan out either side of the middle one; y down.
+  const base = (x: number) => 280 - 0.0004 * x * x;
+  const line = (k: number) => (x: number) => base(x) - k * (1.8 + 0.0002 * Math.max(0, x - 120) ** 2);
+  const bunch = () =>
+    picture(640, 300, (ctx) => {
+      for (const k of [-1, 0, 1]) stroke(ctx, line(k), 20, 600, '#222222', 2);
+    });
+
+  it('measures the line\'s own width ahead, where the bunch has fanned out, and none where it has not', () => {
+    const image = bunch();
+    const model = inkModel([34, 34, 34], [255, 255, 255]);
+    const wide = { model, width: 5.5, threshold: 0.4, massRange: [0.8, 1.35] as const };
+    const course = (f: (x: number) => number, from: number, to: number) => {
+      const out: { at: [number, number]; tangent: [number, number]; allowed: number }[] = [];
+      for (let x = from; x <= to; x += 3) {
+        const d = Math.hypot(1, f(x + 0.5) - f(x - 0.5));
+        out.push({ at: [x, f(x)], tangent: [1 / d, (f(x + 0.5) - f(x - 0.5)) / d], allowed: 1.5 });
+      }
+      return out;
+    };
+    const again = restyleAhead(image, wide, course(line(1), 250, 400), { reads: 0 });
+    expect(again?.width).toBeGreaterThan(1.5);
+    expect(again?.width).toBeLessThan(2.8);
+    // Inside the bunch every section shows the lines run together: no narrower width.
+    expect(restyleAhead(image, wide, course(line(0), 30, 110), { reads: 0 })).toBeUndefined();
+    // A model of the line's own width is left as it is.
+    expect(restyleAhead(image, { ...wide, width: 2 }, course(line(1), 250, 400), { reads: 0 })).toBeUndefined();
+  });
+
+  it('follows the line on its course out of the bunch to its end, and says the end came out of a bunch', () => {
+    const image = bunch();
+    const result = traceRaster(image, [sheetPoint(60, line(0)(60))]);
+    // The width under the guide is the bunch's, not the line's.
+    expect(result.line.widthPx).toBeGreaterThan(3.5);
+    expect(Math.max(...result.points.map((p) => p[0]))).toBeGreaterThan(580);
+    expect(worstOff(result.points.filter((p) => p[0] > 200), line(0))).toBeLessThan(1.5);
+    expect(result.doubts.map((d) => d.code)).toContain('takeoff.end-through-bunch');
+  });
+});
+
+describe('a trace whose guides sit where the line is solid', () => {
+  it('reads the dash pattern on the course ahead where the line turns dashed, and follows it to its end', () => {
+    // Solid up to x = 150, then dashes of 4 px with gaps of 10 px (wider than the solid model
+    // bridges at once), softly blurred; both guides on the solid part.
+    const image = picture(640, 300, (ctx) => {
+      ctx.filter = 'blur(0.8px)';
+      stroke(ctx, head, 20, 150, '#222222', 2);
+      ctx.setLineDash([4, 10]);
+      stroke(ctx, head, 150, 620, '#222222', 2);
+    });
+    const result = traceRaster(image, [sheetPoint(60, head(60)), sheetPoint(146, head(146))]);
+    expect(result.line.dashed).toBeUndefined(); // the model under the guides is solid
+    expect(Math.max(...result.points.map((p) => p[0]))).toBeGreaterThan(600);
+    expect(worstOff(result.points, head)).toBeLessThan(1.5);
   });
 });
