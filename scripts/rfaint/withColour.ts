@@ -1,0 +1,45 @@
+/**
+ * One random-bed trace followed alone with a given line colour (or "-" for the sampled one), to see whether the follower can keep to the line once the model is right:
+ * `npx tsx scripts/rfaint/withColour.ts 10 250,215,213 efficiency-12.125`. Otherwise as scripts/randomSheets/oneTrace.ts.
+ * line, coverage, the model kept, lost stretches, doubts, time):
+ * `npx tsx scripts/randomSheets/oneTrace.ts 28 efficiency-310 efficiency-259`.
+ */
+import { existsSync, readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { traceRaster } from '../../src/digitize/rasterTrace.ts';
+import { sheetPoint } from '../../src/digitize/points.ts';
+import { siblingGuides } from '../../src/digitize/vectorChoice.ts';
+import { applyH, decode } from '../randomSheets/camera.ts';
+import { sheetGeometry } from '../randomSheets/randomSheet.ts';
+import { nearest } from '../randomSheets/traceGeometry.ts';
+import type { TakeoffInput } from '../../src/model/takeoff.ts';
+
+const [seedArg, colourArg, ...ids] = process.argv.slice(2);
+const colour = colourArg === undefined || colourArg === "-" ? undefined : (colourArg.split(",").map(Number) as [number, number, number]);
+const seed = Number(seedArg);
+const kind = seed % 3 === 2 ? 'photo' : 'scan';
+const base = join(import.meta.dirname, '..', '..', 'artifacts', 'random-sheets', 'v1', `${seed}-${kind}`);
+if (!existsSync(`${base}.jpg`)) throw new Error('sheet not in the cache');
+const jpeg = readFileSync(`${base}.jpg`);
+const takeoff = (JSON.parse(readFileSync(`${base}.json`, 'utf8')) as { takeoff: TakeoffInput }).takeoff;
+const { plan, shot } = sheetGeometry(seed, kind);
+const decoded = await decode(jpeg);
+const image = { width: decoded.width, height: decoded.height, data: decoded.data, scale: 1 };
+const siblings = siblingGuides(takeoff.traces);
+takeoff.traces.forEach((trace, index) => {
+  if (!ids.includes(trace.id as string) || !trace.guides) return;
+  const line = plan.lines.find((l) => l.id === trace.id);
+  if (!line) return;
+  const truth = line.points.map((p) => applyH(shot.h, p));
+  const frame = takeoff.panels.find((p) => p.id === trace.panel)?.frame;
+  console.log(`${trace.id}: drawn ${line.style.colour} ${line.style.dash} w ${line.style.width.toFixed(2)}; guides ${trace.guides.map((g) => `(${g[0].toFixed(0)},${g[1].toFixed(0)}) at ${nearest(truth, g).k.toFixed(2)} off ${nearest(truth, g).d.toFixed(1)}`).join(' ')}`);
+  const t0 = performance.now();
+  const got = traceRaster(image, trace.guides.map(([x, y]) => sheetPoint(x, y)), { ...(colour ? { colour } : {}), ...(frame ? { frame } : {}), siblings: siblings.filter((_, k) => k !== index) });
+  const ms = performance.now() - t0;
+  const near = Math.max(2, line.style.width);
+  const off = got.points.filter((p) => nearest(truth, p).d > near).length;
+  const covered = truth.filter((t) => got.points.length > 1 && nearest(got.points, t).d <= Math.max(3, 2 * line.style.width)).length / truth.length;
+  console.log(`  ${got.points.length} pts, ${off} off, covers ${(100 * covered).toFixed(0)} %, colour ${got.line.colour.map((v) => v.toFixed(0)).join(',')} w ${got.line.widthPx.toFixed(2)}${got.line.dashed ? ' dashed' : ''}, ${ms.toFixed(0)} ms`);
+  for (const l of got.lost) console.log(`  lost ${l.between.join('-')}: ${l.reason}`);
+  for (const d of got.doubts) console.log(`  doubt ${d.code}: ${d.message.slice(0, 100)}`);
+});
