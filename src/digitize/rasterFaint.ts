@@ -46,8 +46,33 @@ const GRID_SHARE = 0.9;
 const INK = 0.4;
 
 /**
- * Whether the ink of `model` at `centre` lies on a grid line: a straight run within 5° of
- * horizontal or vertical, through `centre`, holding the ink over 90 % of 2 × 40 px.
+ * Farthest and nearest offset, pixels, at which a grid line's parallel neighbour is looked for: the
+ * grid of a performance sheet repeats every 2–10 mm (12–120 px at 150–300 dpi), and a neighbour
+ * closer than 3 px is the same line's blur.
+ */
+const GRID_TWIN_MAX_PX = 120;
+const GRID_TWIN_MIN_PX = 3;
+
+/**
+ * Whether the ink of `model` holds along the straight run through (cx, cy) in the direction
+ * (ux, uy): over 90 % of 2 × 40 px, within 1.5 px across.
+ */
+function straightRun(image: RasterImage, model: InkModel, cx: number, cy: number, ux: number, uy: number): boolean {
+  const allowed = Math.floor((1 - GRID_SHARE) * (2 * GRID_HALF_PX + 1));
+  let missed = 0;
+  for (let t = -GRID_HALF_PX; t <= GRID_HALF_PX; t++) {
+    let best = 0;
+    for (let s = -GRID_ACROSS_PX; s <= GRID_ACROSS_PX && best < INK; s += 0.5) best = Math.max(best, membershipAt(image, model, cx + ux * t - uy * s, cy + uy * t + ux * s));
+    if (best < INK && ++missed > allowed) return false;
+  }
+  return true;
+}
+
+/**
+ * Whether the ink of `model` at `centre` is on a grid line: a straight run within 5° of horizontal
+ * or vertical through `centre`, holding the ink over 90 % of 2 × 40 px, with a parallel run of the
+ * same ink 3–120 px to one side (the next line of the grid). A plotted curve may run straight and
+ * level for a while, but it has no parallel twin of its own colour beside it.
  */
 export function onGridLine(image: RasterImage, model: InkModel, centre: readonly [number, number]): boolean {
   for (const vertical of [false, true]) {
@@ -55,18 +80,11 @@ export function onGridLine(image: RasterImage, model: InkModel, centre: readonly
       const a = vertical ? Math.PI / 2 + tilt : tilt;
       const ux = Math.cos(a);
       const uy = Math.sin(a);
-      let held = 0;
-      let total = 0;
-      let missed = 0;
-      const allowed = Math.floor((1 - GRID_SHARE) * (2 * GRID_HALF_PX + 1));
-      for (let t = -GRID_HALF_PX; t <= GRID_HALF_PX && missed <= allowed; t++) {
-        let best = 0;
-        for (let s = -GRID_ACROSS_PX; s <= GRID_ACROSS_PX && best < INK; s += 0.5) best = Math.max(best, membershipAt(image, model, centre[0] + ux * t - uy * s, centre[1] + uy * t + ux * s));
-        total++;
-        if (best >= INK) held++;
-        else missed++;
+      if (!straightRun(image, model, centre[0], centre[1], ux, uy)) continue;
+      for (let d = GRID_TWIN_MIN_PX; d <= GRID_TWIN_MAX_PX; d++) {
+        for (const side of [1, -1]) if (straightRun(image, model, centre[0] - uy * d * side, centre[1] + ux * d * side, ux, uy)) return true;
       }
-      if (missed <= allowed && held >= GRID_SHARE * total) return true;
+      return false;
     }
   }
   return false;
@@ -89,10 +107,11 @@ function chromaOf(paper: Rgb, r: number, g: number, b: number): { cx: number; cy
 
 /**
  * Least chroma, 0–255 units, of ink that counts as coloured: JPEG noise and the colour fringes of
- * its half-resolution chroma give grey ink up to about 5; the palest coloured lines of the random
- * bed (a red 0.8 px wide at 150 dpi on tinted paper) keep 12 or more.
+ * its half-resolution chroma give grey ink up to about 5, and uneven light on tinted paper gives
+ * patches of paper up to about 9 against the paper's mean colour; the palest coloured lines of the
+ * random bed (a red 0.8 px wide at 150 dpi on tinted paper) keep 12 or more.
  */
-const CHROMA_MIN = 8;
+const CHROMA_MIN = 10;
 
 /**
  * Least chroma as a share of the ink's luma for it to count as coloured: grey ink has none, and a

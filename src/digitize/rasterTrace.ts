@@ -179,8 +179,10 @@ function acquire(image: RasterImage, guide: Px, search: number, options: RasterT
     // A grey sample on a grid line, with coloured ink beside the click: the guide sat where a
     // fainter coloured line crosses or runs along the grid, and the line is the coloured one.
     const at = nearestInk(image, model, guide, search);
-    const tinted = at && onGridLine(image, model, at) ? chromaticInk(image, paper, colour, guide, NEAR_GUIDE_PX + FAINT_SLACK_PX) : undefined;
-    if (tinted) model = inkModel(tinted, paper);
+    const grid = at !== undefined && onGridLine(image, model, at);
+    const tinted = grid ? chromaticInk(image, paper, colour, guide, NEAR_GUIDE_PX + FAINT_SLACK_PX) : undefined;
+    const faint = tinted && inkModel(tinted, paper);
+    if (faint && nearestInk(image, faint, guide, NEAR_GUIDE_PX + FAINT_SLACK_PX)) model = faint;
   }
   const centre = nearestInk(image, model, guide, search);
   if (!centre) return undefined;
