@@ -1,8 +1,8 @@
 /**
- * One random-bed trace followed alone with a given line colour (or "-" for the sampled one), to see whether the follower can keep to the line once the model is right:
- * `npx tsx scripts/rfaint/withColour.ts 10 250,215,213 efficiency-12.125`. Otherwise as scripts/randomSheets/oneTrace.ts.
- * line, coverage, the model kept, lost stretches, doubts, time):
- * `npx tsx scripts/randomSheets/oneTrace.ts 28 efficiency-310 efficiency-259`.
+ * One random-bed trace followed alone with a given line colour ("-" for the colour sampled under
+ * its guides), to see whether the follower keeps to the line once the colour model is right; prints
+ * what scripts/randomSheets/oneTrace.ts prints (points off the drawn line, coverage, model, time):
+ * `npx tsx scripts/rfaint/withColour.ts 10 250,215,213 efficiency-12.125`.
  */
 import { existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';

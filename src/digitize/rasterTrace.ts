@@ -22,7 +22,7 @@ import { sheetPoint, type SheetPoint } from './points.ts';
 import type { RasterImage } from './raster.ts';
 import { alongBand } from './rasterBand.ts';
 import { dashReach, restyleAlong } from './rasterEnds.ts';
-import { chromaticInk, onGridLine } from './rasterFaint.ts';
+import { brokenWhereUncovered, chromaticInk, onGridLine } from './rasterFaint.ts';
 import { cutFollow, foreignGuides, foreignRun, type Locate, type RoomAt } from './rasterSiblings.ts';
 
 /** Guides or options the tracer cannot use. The message says what to change. */
@@ -189,7 +189,10 @@ function acquire(image: RasterImage, guide: Px, search: number, options: RasterT
   const measured = measureAt(image, model, centre, options.widthPx ?? 3);
   if (!measured) return undefined;
   const massRange: [number, number] = model.mode === 'achromatic' ? [0.8, 1.35] : [0.55, 1.5];
-  const broken = brokenLine(image, model, measured.centre, measured.width);
+  // A solid line that loses its colour where stronger ink crosses it (a faint line over a dense
+  // grid) is not a dash pattern: its "gaps" are covered by that ink, where a real gap shows paper.
+  const pattern = brokenLine(image, model, measured.centre, measured.width);
+  const broken = pattern && brokenWhereUncovered(image, model, measured.centre, measured.width, pattern.axis, THRESHOLD) !== undefined ? pattern : undefined;
   if (broken) {
     // A dash or a dot alone says little about the line's direction or width: both are measured
     // again across the whole pattern, with sections that look along the line over its gaps.

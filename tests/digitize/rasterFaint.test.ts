@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import type { SKRSContext2D } from '@napi-rs/canvas';
 import { inkModel } from '../../src/digitize/colour.ts';
 import { sheetPoint } from '../../src/digitize/points.ts';
-import { chromaticInk, onGridLine } from '../../src/digitize/rasterFaint.ts';
+import { brokenWhereUncovered, chromaticInk, onGridLine } from '../../src/digitize/rasterFaint.ts';
 import { traceRaster } from '../../src/digitize/rasterTrace.ts';
 import { picture, stroke } from './rasterPictures.ts';
 
@@ -97,5 +97,37 @@ describe('a faint coloured line clicked where it crosses a grey grid line', () =
     expect(Math.max(...xs)).toBeGreaterThan(240);
     // The model is a red one.
     expect(got.line.colour[0] - got.line.colour[1]).toBeGreaterThan(15);
+  });
+});
+
+describe('brokenWhereUncovered: a dash pattern is gaps that show paper', () => {
+  // A faint red level line across a dense grey grid of upright lines 8 px apart: the grid covers the
+  // line at each crossing (the red is lost there), which a dash test that reads only the line's
+  // colour takes for gaps.
+  const level = (dash: number[]) =>
+    picture(240, 60, (ctx: SKRSContext2D) => {
+      ctx.fillStyle = PAPER;
+      ctx.fillRect(0, 0, 240, 60);
+      ctx.lineCap = 'butt';
+      ctx.setLineDash(dash);
+      ctx.strokeStyle = '#f29c94';
+      ctx.lineWidth = 1.2;
+      ctx.beginPath();
+      ctx.moveTo(0, 30.5);
+      ctx.lineTo(240, 30.5);
+      ctx.stroke();
+      // The grid printed over the line: its grey replaces the red where they cross.
+      ctx.fillStyle = '#b8aca4';
+      for (let x = 4; x < 240; x += 8) ctx.fillRect(x, 0, 2, 60);
+    });
+  const red = inkModel([242, 156, 148], [246, 234, 226]);
+
+  it('a solid line whose only breaks are grid crossings is not broken', () => {
+    expect(brokenWhereUncovered(level([]), red, [121, 30.5], 1.2, [1, 0], 0.4)).toBeUndefined();
+  });
+
+  it('a dashed line with gaps of paper between the grid lines is still broken', () => {
+    // Dashes of 5 px and gaps of 3 px: most gaps fall on paper, and the pattern shows.
+    expect(brokenWhereUncovered(level([5, 3]), red, [121, 30.5], 1.2, [1, 0], 0.4)).toBeDefined();
   });
 });
