@@ -5,10 +5,13 @@
  * curve's hue): the line model becomes grey, and the follower runs off along the grid line.
  *
  * Two tests put this right before a model is built: whether the ink of a sampled colour lies on a
- * grid line (a straight, near horizontal or vertical run of it over many line widths, which no
- * plotted curve keeps up), and, if so, the colour of the most chromatic ink near the guide, the
- * coloured line's own colour. Colours are differences from the paper split into luma and chroma,
- * as in `colour.ts`. Pure: works on the RGBA buffer only.
+ * grid line (`onGridLine`: a straight, near horizontal or vertical run of it over many line widths,
+ * with a parallel twin, which no plotted curve has), and, if so, the colour of the most chromatic
+ * ink of the sample's hue near the guide (`chromaticInk`), the coloured line's own colour. A third
+ * (`brokenWhereUncovered`) keeps such a line solid: it loses its colour at every grid line it
+ * crosses, which a dash test that reads only its colour takes for a dash pattern. Colours are
+ * differences from the paper split into luma and chroma, as in `colour.ts`. Pure: works on the
+ * RGBA buffer only.
  */
 import { windowAround, type InkModel, type Rgb } from './colour.ts';
 import { membershipAt } from './lineProfile.ts';
