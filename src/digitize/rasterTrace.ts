@@ -22,6 +22,7 @@ import { sheetPoint, type SheetPoint } from './points.ts';
 import type { RasterImage } from './raster.ts';
 import { alongBand } from './rasterBand.ts';
 import { dashReach, restyleAhead, restyleAlong, type CoursePoint } from './rasterEnds.ts';
+import { brokenWhereUncovered, chromaticInk, onGridLine } from './rasterFaint.ts';
 import { cutFollow, foreignGuides, foreignRun, type Locate, type RoomAt } from './rasterSiblings.ts';
 
 /** Guides or options the tracer cannot use. The message says what to change. */
@@ -108,6 +109,12 @@ function validateGuides(image: RasterImage, guides: readonly SheetPoint[]): Px[]
 /** Radius around a guide within which the ink clicked on is looked for first, pixels. */
 const NEAR_GUIDE_PX = 4;
 
+/**
+ * How much farther than `NEAR_GUIDE_PX` from a guide on a grid line coloured ink is looked for,
+ * pixels: the click's scatter (about a line width, 2 px) where the coloured line leaves the grid line.
+ */
+const FAINT_SLACK_PX = 2;
+
 /** Measures the line under a guide: paper and ink colour, line width, centre and direction. */
 function acquire(image: RasterImage, guide: Px, search: number, options: RasterTraceOptions): { style: LineStyle; centre: Px; axis: Px; isotropy: number } | undefined {
   const paper = estimatePaper(image, guide[0], guide[1], Math.max(2 * search, 16));
@@ -167,13 +174,25 @@ function acquire(image: RasterImage, guide: Px, search: number, options: RasterT
     const chosen = core.filter((c) => c[0] >= 0.8 * top);
     colour = [0, 1, 2].map((k) => chosen.reduce((s, c) => s + (c[k + 1] as number), 0) / chosen.length) as unknown as Rgb;
   }
-  const model = inkModel(colour, paper);
+  let model = inkModel(colour, paper);
+  if (!options.colour && model.mode !== 'chromatic') {
+    // A grey sample on a grid line, with coloured ink beside the click: the guide sat where a
+    // fainter coloured line crosses or runs along the grid, and the line is the coloured one.
+    const at = nearestInk(image, model, guide, search);
+    const grid = at !== undefined && onGridLine(image, model, at);
+    const tinted = grid ? chromaticInk(image, paper, colour, guide, NEAR_GUIDE_PX + FAINT_SLACK_PX) : undefined;
+    const faint = tinted && inkModel(tinted, paper);
+    if (faint && nearestInk(image, faint, guide, NEAR_GUIDE_PX + FAINT_SLACK_PX)) model = faint;
+  }
   const centre = nearestInk(image, model, guide, search);
   if (!centre) return undefined;
   const measured = measureAt(image, model, centre, options.widthPx ?? 3);
   if (!measured) return undefined;
   const massRange: [number, number] = model.mode === 'achromatic' ? [0.8, 1.35] : [0.55, 1.5];
-  const broken = brokenLine(image, model, measured.centre, measured.width);
+  // A solid line that loses its colour where stronger ink crosses it (a faint line over a dense
+  // grid) is not a dash pattern: its "gaps" are covered by that ink, where a real gap shows paper.
+  const pattern = brokenLine(image, model, measured.centre, measured.width);
+  const broken = pattern && brokenWhereUncovered(image, model, measured.centre, measured.width, pattern.axis, THRESHOLD) !== undefined ? pattern : undefined;
   if (broken) {
     // A dash or a dot alone says little about the line's direction or width: both are measured
     // again across the whole pattern, with sections that look along the line over its gaps.
