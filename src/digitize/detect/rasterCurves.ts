@@ -20,6 +20,7 @@ import { sheetPoint, type SheetPoint } from '../points.ts';
 import type { RasterImage } from '../raster.ts';
 import type { InkMap, Level } from './ink.ts';
 import type { Box, FoundPanel } from './panels.ts';
+import { endReferences } from './endFlows.ts';
 import { gridLines } from './rasterFrames.ts';
 import { alonePlaces, continuesCourse, frameLines, liesAlong, trackAt, trackOf, type Track } from './rasterLines.ts';
 import type { RasterPanelsFound } from './rasterPanels.ts';
@@ -277,22 +278,36 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
       c.confidence *= 0.95;
     });
   }
+  // Where each impeller's curves end: a head curve the tracer confirmed gives its own end; an
+  // unsure one (it may end on another line) only where the affinity rule vouches for it, and a
+  // value with no head end of its own is put at k·D when the sheet's head ends keep that rule.
+  const headPanel = [...named.values.keys()][0];
+  const references = headPanel
+    ? endReferences(
+        [...named.values].map(([h, value]) => ({ value, end: h.flows[1], sure: h.confidence >= 0.5 })),
+        options.given && options.given.family === named.family ? options.given.values : [],
+        flowSpan(headPanel),
+      )
+    : [];
   for (const c of others) {
     if (named.values.size === 0) break;
     if (c.value !== undefined) continue;
     const span = flowSpan(c);
-    // Only a head curve the tracer confirmed is a reference: an unsure one may end on another line.
-    const ranked = [...named.values.keys()].filter((h) => h.confidence >= 0.5).map((h) => ({ h, d: Math.abs(h.flows[1] - c.flows[1]) / span })).sort((a, b) => a.d - b.d);
+    // Each value once, by the nearer of its references.
+    const ranked = references
+      .map((r) => ({ r, d: Math.abs(r.end - c.flows[1]) / span }))
+      .sort((a, b) => a.d - b.d)
+      .filter((k, i, all) => all.findIndex((o) => o.r.value === k.r.value) === i);
     const best = ranked[0];
     const next = ranked[1];
     if (!best || best.d > 0.02 || (next && next.d < 2 * best.d + 0.005)) {
       const flow = (q: number) => `${q.toPrecision(4)}${c.panel.xUnit ? ` ${c.panel.xUnit}` : ' on the flow axis'}`;
-      leftOut.push(`${c.quantity === 'efficiency' || c.quantity === 'npshr' ? 'An' : 'A'} ${QUANTITY_WORDS[c.quantity]} curve on panel "${c.panel.id}" ending at ${flow(c.flows[1])} does not end where exactly one head curve ends${best ? ` (nearest: the ${best.h.value} head curve, ending at ${flow(best.h.flows[1])})` : ''}; it is left out: trace it by hand with its diameter.`);
+      leftOut.push(`${c.quantity === 'efficiency' || c.quantity === 'npshr' ? 'An' : 'A'} ${QUANTITY_WORDS[c.quantity]} curve on panel "${c.panel.id}" ending at ${flow(c.flows[1])} does not end where exactly one head curve ends${best ? ` (nearest: the ${best.r.value} head curve, ${best.r.how === 'predicted' ? 'expected to end' : 'ending'} at ${flow(best.r.end)})` : ''}; it is left out: trace it by hand with its diameter.`);
       continue;
     }
-    c.value = best.h.value;
+    c.value = best.r.value;
     c.named = 'end flow';
-    c.confidence *= best.d <= 0.008 ? 0.95 : 0.8;
+    c.confidence *= best.r.how === 'sure' ? (best.d <= 0.008 ? 0.95 : 0.8) : best.d <= 0.008 ? 0.8 : 0.7;
   }
   // Power curves of one family do not cross either (common practice: trims at one speed, the
   // larger impeller takes more power at every flow): names by end flow that break that order go.
