@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { affinityRule, endReferences } from '../../src/digitize/detect/endFlows.ts';
+import { affinityRule, endMatch, endReferences, nameByEnds, type EndReference } from '../../src/digitize/detect/endFlows.ts';
 
 // An invented family: end of curve at 0.2 (m3/h per mm) · D, flow axis 0–100 m3/h, so the
 // tolerance is 1 m3/h. Affinity Q ∝ D for trims (Karassik et al., Pump Handbook; Lobanoff & Ross,
@@ -64,5 +64,32 @@ describe('end flows of the head curves', () => {
 
   it('takes no evidence from two curves of one name', () => {
     expect(affinityRule([{ value: 390, end: 78, sure: true }, { value: 390, end: 78.2, sure: false }], span)).toBeNull();
+  });
+});
+
+describe('names by where a curve ends', () => {
+  const refs: EndReference[] = [
+    { value: 390, end: 78, how: 'sure' },
+    { value: 370, end: 74, how: 'predicted' },
+    { value: 350, end: 70, how: 'sure' },
+  ];
+  it('names a curve ending at exactly one value\'s end, and none between two', () => {
+    expect(endMatch(refs, 74.5, span, 0.02)).toMatchObject({ best: { r: { value: 370 } }, sole: true });
+    expect(endMatch(refs, 72, span, 0.02).sole).toBe(false); // midway between 370 and 350
+    expect(endMatch(refs, 90, span, 0.02).sole).toBe(false); // past every end
+  });
+
+  it('proposes the tracer\'s end only where the line found ends clearly elsewhere, closely, and at a value not taken on the panel', () => {
+    const names = nameByEnds(
+      [
+        { group: 'power', end: 78.2, tracedEnd: 78.1, span }, // the 390 curve
+        { group: 'power', end: 85, tracedEnd: 70.3, span }, // the line found overran; the tracer ends at 350
+        { group: 'power', end: 40, tracedEnd: 78.2, span }, // a piece whose tracer ran on along the 390 line
+        { group: 'npshr', end: 60, tracedEnd: 73, span }, // the tracer's end is near no end closely enough
+        { group: 'npshr', end: 70.1, tracedEnd: 70.1, span, value: 350 }, // named already
+      ],
+      refs,
+    );
+    expect(names.map((n) => (n ? `${n.value} ${n.by}` : null))).toEqual(['390 end flow', '350 traced end', null, null, null]);
   });
 });

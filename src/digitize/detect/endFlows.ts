@@ -95,3 +95,68 @@ export function affinityRule(heads: readonly HeadEnd[], span: number): { k: numb
   if (!((best.members.length >= 2 && sure >= 1) || best.members.length >= 3)) return null;
   return best;
 }
+
+/** Within this share of the flow span a curve's end is at a reference's end. */
+export const END_MATCH_SHARE = 0.02;
+/** Within this share a tracer's end (not the line found's) is at a reference's end: closer, as it names only an unsure proposal. */
+export const TRACED_END_SHARE = 0.008;
+
+/**
+ * The value whose reference lies nearest `end` (each value by the nearer of its references), and
+ * whether it is the only one: within `near` of the span, the next value over twice as far plus
+ * 0.5 % of the span.
+ */
+export function endMatch(references: readonly EndReference[], end: number, span: number, near: number): { best?: { r: EndReference; d: number }; sole: boolean } {
+  const ranked = references
+    .map((r) => ({ r, d: Math.abs(r.end - end) / span }))
+    .sort((a, b) => a.d - b.d)
+    .filter((k, i, all) => all.findIndex((o) => o.r.value === k.r.value) === i);
+  const best = ranked[0];
+  const next = ranked[1];
+  return { ...(best ? { best } : {}), sole: !!best && best.d <= near && !(next && next.d < 2 * best.d + 0.005) };
+}
+
+export interface EndCurve {
+  /** Curves of one group (a panel) never share a name. */
+  group: unknown;
+  /** Flow at the far end of the line found, and of the tracer's line. */
+  end: number;
+  tracedEnd: number;
+  /** The flow axis's span. */
+  span: number;
+  /** A name the curve has already (named otherwise): kept, and taken on its group. */
+  value?: number;
+}
+
+export interface EndName {
+  value: number;
+  /** 'end flow': the line found ends there; 'traced end': only the tracer's line does (an unsure proposal). */
+  by: 'end flow' | 'traced end';
+  reference: EndReference;
+  /** Distance to the reference, share of the span. */
+  share: number;
+}
+
+/**
+ * Names of curves by where they end: first every curve whose line found ends at exactly one
+ * value's reference; then, for the rest, where the tracer's line ends clearly elsewhere (over
+ * END_MATCH_SHARE away) and closely (TRACED_END_SHARE) at exactly one value's reference that no
+ * curve of the group has taken. The line found may overrun the curve's end (into a label, along
+ * another line) or stop short where the tracer carried on; a piece of a line whose tracer ran on
+ * along the whole line would take that line's name, hence the value must be free. Null: unnamed.
+ */
+export function nameByEnds(curves: readonly EndCurve[], references: readonly EndReference[]): (EndName | null)[] {
+  const out: (EndName | null)[] = curves.map((c) => {
+    if (c.value !== undefined) return null;
+    const { best, sole } = endMatch(references, c.end, c.span, END_MATCH_SHARE);
+    return best && sole ? { value: best.r.value, by: 'end flow', reference: best.r, share: best.d } : null;
+  });
+  const valueOf = (i: number) => curves[i]?.value ?? out[i]?.value;
+  curves.forEach((c, i) => {
+    if (c.value !== undefined || out[i] || !Number.isFinite(c.tracedEnd) || !(Math.abs(c.tracedEnd - c.end) > END_MATCH_SHARE * c.span)) return;
+    const { best, sole } = endMatch(references, c.tracedEnd, c.span, TRACED_END_SHARE);
+    if (!best || !sole || curves.some((o, j) => j !== i && o.group === c.group && valueOf(j) === best.r.value)) return;
+    out[i] = { value: best.r.value, by: 'traced end', reference: best.r, share: best.d };
+  });
+  return out;
+}

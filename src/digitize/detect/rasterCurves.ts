@@ -20,7 +20,7 @@ import { sheetPoint, type SheetPoint } from '../points.ts';
 import type { RasterImage } from '../raster.ts';
 import type { InkMap, Level } from './ink.ts';
 import type { Box, FoundPanel } from './panels.ts';
-import { endReferences } from './endFlows.ts';
+import { END_MATCH_SHARE, endMatch, endReferences, nameByEnds } from './endFlows.ts';
 import { gridLines } from './rasterFrames.ts';
 import { alonePlaces, continuesCourse, frameLines, liesAlong, trackAt, trackOf, type Track } from './rasterLines.ts';
 import type { RasterPanelsFound } from './rasterPanels.ts';
@@ -44,7 +44,7 @@ export interface RasterCurve {
   /** The diameter or speed, or the iso level; undefined until named. */
   value?: number;
   /** How the value was found. */
-  named?: 'label' | 'given' | 'end flow';
+  named?: 'label' | 'given' | 'end flow' | 'traced end';
   confidence: number;
 }
 
@@ -289,25 +289,25 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
         flowSpan(headPanel),
       )
     : [];
-  for (const c of others) {
-    if (named.values.size === 0) break;
-    if (c.value !== undefined) continue;
-    const span = flowSpan(c);
-    // Each value once, by the nearer of its references.
-    const ranked = references
-      .map((r) => ({ r, d: Math.abs(r.end - c.flows[1]) / span }))
-      .sort((a, b) => a.d - b.d)
-      .filter((k, i, all) => all.findIndex((o) => o.r.value === k.r.value) === i);
-    const best = ranked[0];
-    const next = ranked[1];
-    if (!best || best.d > 0.02 || (next && next.d < 2 * best.d + 0.005)) {
-      const flow = (q: number) => `${q.toPrecision(4)}${c.panel.xUnit ? ` ${c.panel.xUnit}` : ' on the flow axis'}`;
-      leftOut.push(`${c.quantity === 'efficiency' || c.quantity === 'npshr' ? 'An' : 'A'} ${QUANTITY_WORDS[c.quantity]} curve on panel "${c.panel.id}" ending at ${flow(c.flows[1])} does not end where exactly one head curve ends${best ? ` (nearest: the ${best.r.value} head curve, ${best.r.how === 'predicted' ? 'expected to end' : 'ending'} at ${flow(best.r.end)})` : ''}; it is left out: trace it by hand with its diameter.`);
+  // Names by where each curve ends (the line found's end, else, as an unsure proposal, the tracer's).
+  const waiting = named.values.size === 0 ? [] : others.filter((c) => c.value === undefined);
+  const names = nameByEnds(
+    others.map((c) => ({ group: c.panel, end: c.flows[1], tracedEnd: Math.max(...c.traced.map((p) => c.panel.proposal.calibration.toData(p)[0])), span: flowSpan(c), ...(c.value !== undefined ? { value: c.value } : {}) })),
+    references,
+  );
+  for (const c of waiting) {
+    const name = names[others.indexOf(c)];
+    if (name) {
+      c.value = name.value;
+      c.named = name.by;
+      // A proposal from the tracer's end alone stays unsure: the engineer is asked to look at it.
+      if (name.by === 'traced end') c.confidence = Math.min(0.45, 0.8 * c.confidence);
+      else c.confidence *= name.reference.how === 'sure' ? (name.share <= 0.008 ? 0.95 : 0.8) : name.share <= 0.008 ? 0.8 : 0.7;
       continue;
     }
-    c.value = best.r.value;
-    c.named = 'end flow';
-    c.confidence *= best.r.how === 'sure' ? (best.d <= 0.008 ? 0.95 : 0.8) : best.d <= 0.008 ? 0.8 : 0.7;
+    const best = endMatch(references, c.flows[1], flowSpan(c), END_MATCH_SHARE).best;
+    const flow = (q: number) => `${q.toPrecision(4)}${c.panel.xUnit ? ` ${c.panel.xUnit}` : ' on the flow axis'}`;
+    leftOut.push(`${c.quantity === 'efficiency' || c.quantity === 'npshr' ? 'An' : 'A'} ${QUANTITY_WORDS[c.quantity]} curve on panel "${c.panel.id}" ending at ${flow(c.flows[1])} does not end where exactly one head curve ends${best ? ` (nearest: the ${best.r.value} head curve, ${best.r.how === 'predicted' ? 'expected to end' : 'ending'} at ${flow(best.r.end)})` : ''}; it is left out: trace it by hand with its diameter.`);
   }
   // Power curves of one family do not cross either (common practice: trims at one speed, the
   // larger impeller takes more power at every flow): names by end flow that break that order go.
