@@ -247,14 +247,31 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     const xs = c.panel.proposal.x.labels.map((k) => k.value);
     return Math.max(...xs) - Math.min(...xs);
   };
+  // Where each impeller's curves end: a head curve the tracer confirmed gives its own end; an
+  // unsure one (it may end on another line) only where the affinity rule vouches for it, and a
+  // value with no head end of its own is put at k·D when the sheet's head ends keep that rule.
+  const headPanel = [...named.values.keys()][0];
+  const references = headPanel
+    ? endReferences(
+        [...named.values].map(([h, value]) => ({ value, end: h.flows[1], sure: h.confidence >= 0.5 })),
+        options.given && options.given.family === named.family ? options.given.values : [],
+        flowSpan(headPanel),
+      )
+    : [];
   // Power panels: when every head curve is named and confirmed and the panel holds as many power
   // curves, which never cross, they take the names in order (the larger impeller higher), each
-  // checked against the end flow of its head curve.
+  // checked against the end flow of its head curve. Else, when the panel holds as many power
+  // curves as there are values with an end reference (above), the same by those references.
   const confirmed = [...named.values.keys()].filter((h) => h.confidence >= 0.5);
   const heads0 = usable.filter((c) => c.panel.quantity === 'head' && c.kind === 'curve');
+  const byHeads = confirmed.map((h) => ({ v: named.values.get(h) as number, ends: [h.flows[1]], sure: true })).sort((a, b) => b.v - a.v);
+  const byReferences = [...new Set(references.map((r) => r.value))]
+    .sort((a, b) => b - a)
+    .map((v) => ({ v, ends: references.filter((r) => r.value === v).map((r) => r.end), sure: references.every((r) => r.value !== v || r.how === 'sure') }));
   for (const panel of new Set(others.filter((c) => c.quantity === 'power').map((c) => c.panel))) {
     const list = others.filter((c) => c.panel === panel && c.quantity === 'power');
-    if (confirmed.length !== heads0.length || list.length !== confirmed.length) continue;
+    const values = confirmed.length === heads0.length && list.length === confirmed.length ? byHeads : list.length === byReferences.length && list.length >= 2 ? byReferences : null;
+    if (!values) continue;
     const above = (a: RasterCurve, b: RasterCurve): number | null => {
       let sum = 0;
       let n = 0;
@@ -269,26 +286,15 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     const pairs = list.flatMap((a) => list.filter((b) => b !== a).map((b) => above(a, b)));
     if (pairs.some((k) => k === null || Number.isNaN(k))) continue;
     const order = [...list].sort((a, b) => above(a, b) as number);
-    const values = confirmed.map((h) => ({ h, v: named.values.get(h) as number })).sort((a, b) => b.v - a.v);
     const span = flowSpan(list[0] as RasterCurve);
-    if (!order.every((c, i) => Math.abs(c.flows[1] - (values[i] as { h: RasterCurve }).h.flows[1]) / span <= 0.03)) continue;
+    if (!order.every((c, i) => Math.min(...(values[i] as { ends: number[] }).ends.map((e) => Math.abs(c.flows[1] - e))) / span <= 0.03)) continue;
     order.forEach((c, i) => {
-      c.value = (values[i] as { v: number }).v;
+      const k = values[i] as { v: number; sure: boolean };
+      c.value = k.v;
       c.named = 'end flow';
-      c.confidence *= 0.95;
+      c.confidence *= k.sure ? 0.95 : 0.8;
     });
   }
-  // Where each impeller's curves end: a head curve the tracer confirmed gives its own end; an
-  // unsure one (it may end on another line) only where the affinity rule vouches for it, and a
-  // value with no head end of its own is put at k·D when the sheet's head ends keep that rule.
-  const headPanel = [...named.values.keys()][0];
-  const references = headPanel
-    ? endReferences(
-        [...named.values].map(([h, value]) => ({ value, end: h.flows[1], sure: h.confidence >= 0.5 })),
-        options.given && options.given.family === named.family ? options.given.values : [],
-        flowSpan(headPanel),
-      )
-    : [];
   // Names by where each curve ends (the line found's end, else, as an unsure proposal, the tracer's).
   const waiting = named.values.size === 0 ? [] : others.filter((c) => c.value === undefined);
   const names = nameByEnds(
