@@ -9,8 +9,10 @@
  * Names: the head curves by the labels read beside or on them ("330 mm", 13"), else by the
  * diameters the engineer gave, in order (the larger impeller gives more head at every flow).
  * The curves of the other panels take the diameter of the head curve that ends at the same
- * flow (each impeller's curves are drawn over the same flows on every panel). Each curve
- * carries a confidence; where a name is doubtful the curve is left out with one question.
+ * flow (each impeller's curves are drawn over the same flows on every panel; where each
+ * impeller's curves end, also for head curves the tracer did not confirm, is endFlows.ts). Each
+ * curve carries a confidence; where a name is doubtful the curve is left out, or proposed unsure,
+ * with one question.
  *
  * Pure: the raster, the found panels and the character reader are handed in.
  */
