@@ -9,8 +9,10 @@
  * Names: the head curves by the labels read beside or on them ("330 mm", 13"), else by the
  * diameters the engineer gave, in order (the larger impeller gives more head at every flow).
  * The curves of the other panels take the diameter of the head curve that ends at the same
- * flow (each impeller's curves are drawn over the same flows on every panel). Each curve
- * carries a confidence; where a name is doubtful the curve is left out with one question.
+ * flow (each impeller's curves are drawn over the same flows on every panel; where each
+ * impeller's curves end, also for head curves the tracer did not confirm, is endFlows.ts). Each
+ * curve carries a confidence; where a name is doubtful the curve is left out, or proposed unsure,
+ * with one question.
  *
  * Pure: the raster, the found panels and the character reader are handed in.
  */
@@ -20,6 +22,7 @@ import { sheetPoint, type SheetPoint } from '../points.ts';
 import type { RasterImage } from '../raster.ts';
 import type { InkMap, Level } from './ink.ts';
 import type { Box, FoundPanel } from './panels.ts';
+import { END_MATCH_SHARE, endMatch, endReferences, nameByEnds } from './endFlows.ts';
 import { gridLines } from './rasterFrames.ts';
 import { alonePlaces, continuesCourse, frameLines, liesAlong, trackAt, trackOf, type Track } from './rasterLines.ts';
 import type { RasterPanelsFound } from './rasterPanels.ts';
@@ -43,7 +46,7 @@ export interface RasterCurve {
   /** The diameter or speed, or the iso level; undefined until named. */
   value?: number;
   /** How the value was found. */
-  named?: 'label' | 'given' | 'end flow';
+  named?: 'label' | 'given' | 'end flow' | 'traced end';
   confidence: number;
 }
 
@@ -246,14 +249,31 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     const xs = c.panel.proposal.x.labels.map((k) => k.value);
     return Math.max(...xs) - Math.min(...xs);
   };
+  // Where each impeller's curves end: a head curve the tracer confirmed gives its own end; an
+  // unsure one (it may end on another line) only where the affinity rule vouches for it, and a
+  // value with no head end of its own is put at k·D when the sheet's head ends keep that rule.
+  const headPanel = [...named.values.keys()][0];
+  const references = headPanel
+    ? endReferences(
+        [...named.values].map(([h, value]) => ({ value, end: h.flows[1], sure: h.confidence >= 0.5 })),
+        options.given && options.given.family === named.family ? options.given.values : [],
+        flowSpan(headPanel),
+      )
+    : [];
   // Power panels: when every head curve is named and confirmed and the panel holds as many power
   // curves, which never cross, they take the names in order (the larger impeller higher), each
-  // checked against the end flow of its head curve.
+  // checked against the end flow of its head curve. Else, when the panel holds as many power
+  // curves as there are values with an end reference (above), the same by those references.
   const confirmed = [...named.values.keys()].filter((h) => h.confidence >= 0.5);
   const heads0 = usable.filter((c) => c.panel.quantity === 'head' && c.kind === 'curve');
+  const byHeads = confirmed.map((h) => ({ v: named.values.get(h) as number, ends: [h.flows[1]], sure: true })).sort((a, b) => b.v - a.v);
+  const byReferences = [...new Set(references.map((r) => r.value))]
+    .sort((a, b) => b - a)
+    .map((v) => ({ v, ends: references.filter((r) => r.value === v).map((r) => r.end), sure: references.every((r) => r.value !== v || r.how === 'sure') }));
   for (const panel of new Set(others.filter((c) => c.quantity === 'power').map((c) => c.panel))) {
     const list = others.filter((c) => c.panel === panel && c.quantity === 'power');
-    if (confirmed.length !== heads0.length || list.length !== confirmed.length) continue;
+    const values = confirmed.length === heads0.length && list.length === confirmed.length ? byHeads : list.length === byReferences.length && list.length >= 2 ? byReferences : null;
+    if (!values) continue;
     const above = (a: RasterCurve, b: RasterCurve): number | null => {
       let sum = 0;
       let n = 0;
@@ -268,31 +288,34 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     const pairs = list.flatMap((a) => list.filter((b) => b !== a).map((b) => above(a, b)));
     if (pairs.some((k) => k === null || Number.isNaN(k))) continue;
     const order = [...list].sort((a, b) => above(a, b) as number);
-    const values = confirmed.map((h) => ({ h, v: named.values.get(h) as number })).sort((a, b) => b.v - a.v);
     const span = flowSpan(list[0] as RasterCurve);
-    if (!order.every((c, i) => Math.abs(c.flows[1] - (values[i] as { h: RasterCurve }).h.flows[1]) / span <= 0.03)) continue;
+    if (!order.every((c, i) => Math.min(...(values[i] as { ends: number[] }).ends.map((e) => Math.abs(c.flows[1] - e))) / span <= 0.03)) continue;
     order.forEach((c, i) => {
-      c.value = (values[i] as { v: number }).v;
+      const k = values[i] as { v: number; sure: boolean };
+      c.value = k.v;
       c.named = 'end flow';
-      c.confidence *= 0.95;
+      c.confidence *= k.sure ? 0.95 : 0.8;
     });
   }
-  for (const c of others) {
-    if (named.values.size === 0) break;
-    if (c.value !== undefined) continue;
-    const span = flowSpan(c);
-    // Only a head curve the tracer confirmed is a reference: an unsure one may end on another line.
-    const ranked = [...named.values.keys()].filter((h) => h.confidence >= 0.5).map((h) => ({ h, d: Math.abs(h.flows[1] - c.flows[1]) / span })).sort((a, b) => a.d - b.d);
-    const best = ranked[0];
-    const next = ranked[1];
-    if (!best || best.d > 0.02 || (next && next.d < 2 * best.d + 0.005)) {
-      const flow = (q: number) => `${q.toPrecision(4)}${c.panel.xUnit ? ` ${c.panel.xUnit}` : ' on the flow axis'}`;
-      leftOut.push(`${c.quantity === 'efficiency' || c.quantity === 'npshr' ? 'An' : 'A'} ${QUANTITY_WORDS[c.quantity]} curve on panel "${c.panel.id}" ending at ${flow(c.flows[1])} does not end where exactly one head curve ends${best ? ` (nearest: the ${best.h.value} head curve, ending at ${flow(best.h.flows[1])})` : ''}; it is left out: trace it by hand with its diameter.`);
+  // Names by where each curve ends (the line found's end, else, as an unsure proposal, the tracer's).
+  const waiting = named.values.size === 0 ? [] : others.filter((c) => c.value === undefined);
+  const names = nameByEnds(
+    others.map((c) => ({ group: c.panel, end: c.flows[1], tracedEnd: Math.max(...c.traced.map((p) => c.panel.proposal.calibration.toData(p)[0])), span: flowSpan(c), ...(c.value !== undefined ? { value: c.value } : {}) })),
+    references,
+  );
+  for (const c of waiting) {
+    const name = names[others.indexOf(c)];
+    if (name) {
+      c.value = name.value;
+      c.named = name.by;
+      // A proposal from the tracer's end alone stays unsure: the engineer is asked to look at it.
+      if (name.by === 'traced end') c.confidence = Math.min(0.45, 0.8 * c.confidence);
+      else c.confidence *= name.reference.how === 'sure' ? (name.share <= 0.008 ? 0.95 : 0.8) : name.share <= 0.008 ? 0.8 : 0.7;
       continue;
     }
-    c.value = best.h.value;
-    c.named = 'end flow';
-    c.confidence *= best.d <= 0.008 ? 0.95 : 0.8;
+    const best = endMatch(references, c.flows[1], flowSpan(c), END_MATCH_SHARE).best;
+    const flow = (q: number) => `${q.toPrecision(4)}${c.panel.xUnit ? ` ${c.panel.xUnit}` : ' on the flow axis'}`;
+    leftOut.push(`${c.quantity === 'efficiency' || c.quantity === 'npshr' ? 'An' : 'A'} ${QUANTITY_WORDS[c.quantity]} curve on panel "${c.panel.id}" ending at ${flow(c.flows[1])} does not end where exactly one head curve ends${best ? ` (nearest: the ${best.r.value} head curve, ${best.r.how === 'predicted' ? 'expected to end' : 'ending'} at ${flow(best.r.end)})` : ''}; it is left out: trace it by hand with its diameter.`);
   }
   // Power curves of one family do not cross either (common practice: trims at one speed, the
   // larger impeller takes more power at every flow): names by end flow that break that order go.
