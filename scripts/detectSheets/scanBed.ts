@@ -29,7 +29,8 @@ import { loadImageSheetNode } from '../../src/digitize/loaders/imageNode.ts';
 import { closeTextReaderNode, textReaderNode } from '../../src/digitize/loaders/ocrNode.ts';
 import { replayTakeoff } from '../../src/digitize/takeoff.ts';
 import { parseTakeoff, parseTakeoffToDetect, type TakeoffInput } from '../../src/model/takeoff.ts';
-import { calibrationError, makeRandomSheet, sheetGeometry, truthOf } from '../randomSheets/randomSheet.ts';
+import { calibrationError, sheetGeometry, truthOf } from '../randomSheets/randomSheet.ts';
+import { makeRandomSheetApart } from '../randomSheets/sheetApart.ts';
 import type { SheetPlan } from '../randomSheets/plan.ts';
 import type { TruthCurve } from '../randomSheets/randomSheet.ts';
 import { exact, siFactor } from '../randomSheets/pumpFamily.ts';
@@ -87,7 +88,9 @@ export async function scanFor(seed: number, kind: 'scan' | 'photo' = 'scan'): Pr
   const file = join(CACHE, `${name}.jpg`);
   const meta = join(CACHE, `${name}.takeoff.json`);
   if (existsSync(file) && existsSync(meta)) return { jpeg: new Uint8Array(readFileSync(file)), takeoff: JSON.parse(readFileSync(meta, 'utf8')) as TakeoffInput };
-  const s = await makeRandomSheet(seed, kind);
+  // Drawn in a child process (sheetApart.ts): a rare native crash while drawing is run again
+  // instead of ending the process that asked, a browser test's among them.
+  const s = makeRandomSheetApart(seed, kind);
   mkdirSync(CACHE, { recursive: true });
   writeFileSync(file, s.jpeg);
   writeFileSync(meta, JSON.stringify(s.takeoff));

@@ -3,7 +3,7 @@
  * given): at 11 flows over its scored range, the fitted curve, the nearest traced point and the
  * exact value, % of span. A tool for reading why a confident curve is off, not a score.
  *
- *   npx tsx scripts/detectSheets/rdetect3Profile.ts 52 power-340
+ *   npx tsx scripts/detectSheets/curveProfile.ts 52 power-340
  */
 import { detectTakeoff } from '../../src/digitize/detect/detect.ts';
 import { loadImageSheetNode } from '../../src/digitize/loaders/imageNode.ts';
