@@ -21,7 +21,7 @@ import { findRuns, inkAxis, membershipAt, sampleInkSection, sampleLongSection, s
 import { sheetPoint, type SheetPoint } from './points.ts';
 import type { RasterImage } from './raster.ts';
 import { alongBand } from './rasterBand.ts';
-import { dashReach, restyleAhead, restyleAlong, type CoursePoint } from './rasterEnds.ts';
+import { dashReach, restyleAhead, restyleAlong, solidFrom, type CoursePoint } from './rasterEnds.ts';
 import { cutFollow, foreignGuides, foreignRun, type Locate, type RoomAt } from './rasterSiblings.ts';
 
 /** Guides or options the tracer cannot use. The message says what to change. */
@@ -840,6 +840,16 @@ function atFrameEdge(p: Px, frame: readonly [number, number, number, number], sc
   return p[0] > r - m || p[1] < t + m || p[1] > b - m;
 }
 
+/** True when a pixel position lies within four line widths (at least 14 px, as `atFrameEdge`) of any edge of the frame, the left one included. */
+function nearFrame(p: Px, frame: readonly [number, number, number, number], scale: number, width: number): boolean {
+  const m = Math.max(14, 4 * width);
+  const l = Math.min(frame[0], frame[2]) * scale;
+  const r = Math.max(frame[0], frame[2]) * scale;
+  const t = Math.min(frame[1], frame[3]) * scale;
+  const b = Math.max(frame[1], frame[3]) * scale;
+  return p[0] < l + m || p[0] > r - m || p[1] < t + m || p[1] > b - m;
+}
+
 /** True when a pixel position lies inside the frame (sheet units), with half a line width to spare. */
 function insideFramePx(p: Px, frame: readonly [number, number, number, number], scale: number, width: number): boolean {
   const m = 0.5 * width + 1;
@@ -932,6 +942,13 @@ function extendToEnds(
           }
         }
       }
+      // A broken line's follower that ran on along solid ink to the frame (a grid line of its
+      // grey, taken up beyond the line's end) left the line where the ink turned solid. Only at
+      // the frame: a dotted line drawn along a grid line to its own end reads solid as well, and
+      // there the follower stops at the line's end, inside the frame.
+      const last = smooth[smooth.length - 1];
+      const solid = last && frame && nearFrame(last, frame, image.scale, style.width) ? solidFrom(image, style, stretch, [end, ...smooth], counter) : undefined;
+      if (solid !== undefined) smooth.length = Math.max(0, solid - 1);
       // Over another trace's guide the extension is on that trace's line: it ends where it joined it.
       const onto = offOthers(smooth);
       if (onto !== undefined) {
