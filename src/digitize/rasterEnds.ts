@@ -269,3 +269,69 @@ export function restyleAhead(image: RasterImage, style: LineStyle, course: reado
 /** Least mass, pixels, of a run taken for the line ahead: thinner runs are noise or the fringe of a letter. */
 const MIN_WIDTH_PX = 0.6;
 
+
+/**
+ * Length of the windows, in line widths and at least in pixels, over which an extension of a
+ * broken line is read for solid ink: as long as `brokenLine` reads a pattern under a guide (16
+ * widths, 40 px), so that a dotted line shows several dots and gaps in each window, and a grid
+ * line crossing it (solid over a line width or two) fills only a few of them.
+ */
+const SOLID_WINDOW_WIDTHS = 16;
+const SOLID_WINDOW_PX = 40;
+
+/**
+ * Share of a window's positions above the cut between the line's dots and gaps for the stretch
+ * to count as solid: the gaps of a dotted or dashed line leave a quarter or more of it below,
+ * while a solid stroke in a noisy scan misses a few per cent.
+ */
+const SOLID_SHARE = 0.9;
+
+/**
+ * Where an extension of a broken (dashed or dotted) line runs on along solid ink: the index of
+ * the first point of `points` (ordered outward from the end of `followed`) from which every
+ * window up to the extension's end is ink nearly all along, or undefined when `followed` shows
+ * no dash pattern or the extension ends on gaps. Beyond its own end a dotted line's follower can
+ * take up a grid line of the same grey and run on along it, smoothly enough that no smoothness
+ * test cuts it. A blurred dotted line is often taken for solid under its guides (its gaps keep
+ * some colour), so the pattern is read along the followed stretch, the cut between ink and gap
+ * set from that stretch's own levels: halfway between its low peaks (the gaps, tenth
+ * percentile) and its median (the dots); grid lines crossed on the way read as long dashes and
+ * would lift a cut set from the highest peaks above the dots.
+ */
+export function solidFrom(image: RasterImage, style: LineStyle, followed: readonly Px[], points: readonly Px[], counter: ReadCounter): number | undefined {
+  if (points.length < 2) return undefined;
+  const length = Math.max(SOLID_WINDOW_PX, SOLID_WINDOW_WIDTHS * style.width);
+  const window = Math.ceil(length / ROW_SPACING);
+  const row = along(points, ROW_SPACING);
+  if (row.length < window) return undefined;
+  const behind = along(lastStretch(followed, 2 * length), ROW_SPACING);
+  if (behind.length < 2 * window - 2) return undefined;
+  const levels = peakRow(image, style.model, behind, style.width, counter).peaks;
+  const sorted = [...levels].sort((a, b) => a - b);
+  const gap = sorted[Math.floor(0.1 * (sorted.length - 1))] as number;
+  const dot = sorted[Math.floor(0.5 * (sorted.length - 1))] as number;
+  const cut = Math.max(style.threshold, (gap + dot) / 2);
+  if (dashReach(levels.map((p) => p >= cut), ROW_SPACING, style.width) === undefined) return undefined;
+  const { peaks } = peakRow(image, style.model, row, style.width, counter);
+  // Windows a quarter apart, the last one ending at the extension's end.
+  const starts: number[] = [];
+  for (let start = 0; start + window < peaks.length; start += Math.ceil(window / 4)) starts.push(start);
+  starts.push(peaks.length - window);
+  const solid = (start: number) => peaks.slice(start, start + window).filter((p) => p >= cut).length >= SOLID_SHARE * window;
+  // Only solid ink that the follower kept to until it stopped.
+  let first = starts.length;
+  while (first > 0 && solid(starts[first - 1] as number)) first--;
+  if (first === starts.length) return undefined;
+  // Back from the row's position to the extension's point nearest it.
+  const at = row[starts[first] as number] as Px;
+  let best = 0;
+  let bestD = Infinity;
+  points.forEach((p, i) => {
+    const d = Math.hypot(p[0] - at[0], p[1] - at[1]);
+    if (d < bestD) {
+      bestD = d;
+      best = i;
+    }
+  });
+  return best;
+}

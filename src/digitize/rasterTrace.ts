@@ -21,7 +21,7 @@ import { findRuns, inkAxis, membershipAt, sampleInkSection, sampleLongSection, s
 import { sheetPoint, type SheetPoint } from './points.ts';
 import type { RasterImage } from './raster.ts';
 import { alongBand } from './rasterBand.ts';
-import { dashReach, restyleAhead, restyleAlong, type CoursePoint } from './rasterEnds.ts';
+import { dashReach, restyleAhead, restyleAlong, solidFrom, type CoursePoint } from './rasterEnds.ts';
 import { brokenWhereUncovered, chromaticInk, onGridLine } from './rasterFaint.ts';
 import { cutFollow, foreignGuides, foreignRun, type Locate, type RoomAt } from './rasterSiblings.ts';
 
@@ -845,18 +845,32 @@ function coastedAtEnd(result: FollowResult, width: number): boolean {
 }
 
 /**
- * True when a trace's end lies on the frame's right, top or bottom edge (within four line widths
- * and at least 14 px: the follower stops a little short of the frame line), away from its left
- * edge, where curves start at zero flow.
+ * Distances of a pixel position in from the frame's left, right, top and bottom edges (the frame
+ * in sheet units), the frame's width, and the margin within which an end counts as at an edge:
+ * four line widths and at least 14 px (the follower stops a little short of the frame line).
  */
-function atFrameEdge(p: Px, frame: readonly [number, number, number, number], scale: number, width: number): boolean {
-  const m = Math.max(14, 4 * width);
+function inFromFrame(p: Px, frame: readonly [number, number, number, number], scale: number, width: number): { left: number; right: number; top: number; bottom: number; span: number; margin: number } {
   const l = Math.min(frame[0], frame[2]) * scale;
   const r = Math.max(frame[0], frame[2]) * scale;
   const t = Math.min(frame[1], frame[3]) * scale;
   const b = Math.max(frame[1], frame[3]) * scale;
-  if (p[0] < l + 0.03 * (r - l)) return false;
-  return p[0] > r - m || p[1] < t + m || p[1] > b - m;
+  return { left: p[0] - l, right: r - p[0], top: p[1] - t, bottom: b - p[1], span: r - l, margin: Math.max(14, 4 * width) };
+}
+
+/**
+ * True when a trace's end lies on the frame's right, top or bottom edge (`inFromFrame`'s
+ * margin), away from its left edge, where curves start at zero flow.
+ */
+function atFrameEdge(p: Px, frame: readonly [number, number, number, number], scale: number, width: number): boolean {
+  const d = inFromFrame(p, frame, scale, width);
+  if (d.left < 0.03 * d.span) return false;
+  return d.right < d.margin || d.top < d.margin || d.bottom < d.margin;
+}
+
+/** True when a pixel position lies within `inFromFrame`'s margin of any edge of the frame, the left one included. */
+function nearFrame(p: Px, frame: readonly [number, number, number, number], scale: number, width: number): boolean {
+  const d = inFromFrame(p, frame, scale, width);
+  return Math.min(d.left, d.right, d.top, d.bottom) < d.margin;
 }
 
 /** True when a pixel position lies inside the frame (sheet units), with half a line width to spare. */
@@ -951,6 +965,13 @@ function extendToEnds(
           }
         }
       }
+      // A broken line's follower that ran on along solid ink to the frame (a grid line of its
+      // grey, taken up beyond the line's end) left the line where the ink turned solid. Only at
+      // the frame: a dotted line drawn along a grid line to its own end reads solid as well, and
+      // there the follower stops at the line's end, inside the frame.
+      const last = smooth[smooth.length - 1];
+      const solid = last && frame && nearFrame(last, frame, image.scale, style.width) ? solidFrom(image, style, stretch, [end, ...smooth], counter) : undefined;
+      if (solid !== undefined) smooth.length = Math.max(0, solid - 1);
       // Over another trace's guide the extension is on that trace's line: it ends where it joined it.
       const onto = offOthers(smooth);
       if (onto !== undefined) {

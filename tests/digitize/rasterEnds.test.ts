@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { sheetPoint, type SheetPoint } from '../../src/digitize/points.ts';
-import { dashReach, inkOrGap, restyleAhead, restyleAlong } from '../../src/digitize/rasterEnds.ts';
+import { dashReach, inkOrGap, restyleAhead, restyleAlong, solidFrom } from '../../src/digitize/rasterEnds.ts';
 import { traceRaster } from '../../src/digitize/rasterTrace.ts';
 import { inkModel } from '../../src/digitize/colour.ts';
 import { picture, stroke } from './rasterPictures.ts';
@@ -142,5 +142,44 @@ describe('a trace whose guides sit where the line is solid', () => {
     expect(result.line.dashed).toBeUndefined(); // the model under the guides is solid
     expect(Math.max(...result.points.map((p) => p[0]))).toBeGreaterThan(600);
     expect(worstOff(result.points, head)).toBeLessThan(1.5);
+  });
+});
+
+describe('a dotted line that ends on a grid line of its grey', () => {
+  // A dotted curve starts at x = 100 tangent to a solid horizontal grid line of the same grey,
+  // which runs on to the frame's left edge, and runs to the frame's right edge; softly blurred,
+  // as in a scan. The follower of the dotted line's left end can take up the grid line there.
+  const curve = (x: number) => 200 - 0.0006 * (x - 100) ** 2;
+  const frame = [20, 20, 620, 280] as const;
+  const image = picture(640, 300, (ctx) => {
+    ctx.filter = 'blur(0.8px)';
+    stroke(ctx, () => 200, 20, 620, '#555555', 2);
+    ctx.lineCap = 'round';
+    ctx.setLineDash([0.01, 5]);
+    stroke(ctx, curve, 100, 618, '#555555', 2.5);
+  });
+
+  it('cuts the extension that ran on along the grid line to the frame, and keeps the dotted end at the frame', () => {
+    const result = traceRaster(image, [sheetPoint(300, curve(300)), sheetPoint(450, curve(450))], { frame });
+    // Not along the grid line to the frame's left edge (x = 20).
+    expect(Math.min(...result.points.map((p) => p[0]))).toBeGreaterThan(70);
+    // The dotted end at the right frame edge stays.
+    expect(Math.max(...result.points.map((p) => p[0]))).toBeGreaterThan(590);
+    expect(worstOff(result.points.filter((p) => p[0] > 130), curve)).toBeLessThan(2);
+  });
+
+  it('reads no solid stretch where the extension keeps to the dots', () => {
+    const path: [number, number][] = [];
+    for (let x = 250; x <= 450; x += 2) path.push([x, curve(x)]);
+    const ahead: [number, number][] = [];
+    for (let x = 450; x <= 560; x += 2) ahead.push([x, curve(x)]);
+    const grid: [number, number][] = [];
+    for (let x = 100; x >= 30; x -= 2) grid.push([x, 200]);
+    const guide = traceRaster(image, [sheetPoint(300, curve(300))]);
+    const style = { model: inkModel(guide.line.colour, guide.line.paper), width: guide.line.widthPx, threshold: 0.4, massRange: [0.8, 1.35] as const };
+    expect(solidFrom(image, style, path, ahead, { reads: 0 })).toBeUndefined();
+    // Along the grid line beyond the dotted line's start, solid from the first window on.
+    const back = [...path].reverse();
+    expect(solidFrom(image, style, back, grid, { reads: 0 })).toBe(0);
   });
 });
