@@ -48,16 +48,27 @@ export const MIN_CONTRAST = 24;
 
 const luma = (r: number, g: number, b: number) => 0.299 * r + 0.587 * g + 0.114 * b;
 
+/**
+ * A colour (r, g, b) as its difference from the paper, Δ = paper − colour, split into luma
+ * Y(Δ) and chroma C(Δ) = Δ − Y(Δ)·(1,1,1) (see the file comment), with |C(Δ)|; 0–255 units.
+ */
+export function lumaChroma(paper: Rgb, r: number, g: number, b: number): { luma: number; cx: number; cy: number; cz: number; chroma: number } {
+  const dx = paper[0] - r;
+  const dy = paper[1] - g;
+  const dz = paper[2] - b;
+  const y = luma(dx, dy, dz);
+  const cx = dx - y;
+  const cy = dy - y;
+  const cz = dz - y;
+  return { luma: y, cx, cy, cz, chroma: Math.hypot(cx, cy, cz) };
+}
+
 export function inkModel(line: Rgb, paper: Rgb): InkModel {
   const ax = paper[0] - line[0];
   const ay = paper[1] - line[1];
   const az = paper[2] - line[2];
   const n2 = Math.max(ax * ax + ay * ay + az * az, 1);
-  const y = luma(ax, ay, az);
-  const kx = ax - y;
-  const ky = ay - y;
-  const kz = az - y;
-  const chroma = Math.hypot(kx, ky, kz);
+  const { luma: y, cx: kx, cy: ky, cz: kz, chroma } = lumaChroma(paper, line[0], line[1], line[2]);
   const mode = y < 0.3 * Math.sqrt(n2) ? 'projection' : chroma > 0.25 * y ? 'chromatic' : 'achromatic';
   return {
     line,

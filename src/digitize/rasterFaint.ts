@@ -13,7 +13,7 @@
  * differences from the paper split into luma and chroma, as in `colour.ts`. Pure: works on the
  * RGBA buffer only.
  */
-import { windowAround, type InkModel, type Rgb } from './colour.ts';
+import { lumaChroma, windowAround, type InkModel, type Rgb } from './colour.ts';
 import { membershipAt } from './lineProfile.ts';
 import { dashReach } from './rasterEnds.ts';
 import type { RasterImage } from './raster.ts';
@@ -94,21 +94,6 @@ export function onGridLine(image: RasterImage, model: InkModel, centre: readonly
 }
 
 /**
- * Chroma of a pixel's difference from the paper, 0–255 units, C(Δ) = Δ − Y(Δ)·(1,1,1) with Y the
- * BT.601 luma (as in `colour.ts`), and Y(Δ) itself.
- */
-function chromaOf(paper: Rgb, r: number, g: number, b: number): { cx: number; cy: number; cz: number; chroma: number; luma: number } {
-  const dx = paper[0] - r;
-  const dy = paper[1] - g;
-  const dz = paper[2] - b;
-  const y = 0.299 * dx + 0.587 * dy + 0.114 * dz;
-  const cx = dx - y;
-  const cy = dy - y;
-  const cz = dz - y;
-  return { cx, cy, cz, chroma: Math.hypot(cx, cy, cz), luma: y };
-}
-
-/**
  * Least chroma, 0–255 units, of ink that counts as coloured: JPEG noise and the colour fringes of
  * its half-resolution chroma give grey ink up to about 5, and uneven light on tinted paper gives
  * patches of paper up to about 9 against the paper's mean colour; the palest coloured lines of the
@@ -147,16 +132,16 @@ const CORE_SHARE = 0.8;
 export function chromaticInk(image: RasterImage, paper: Rgb, sample: Rgb, p: readonly [number, number], radius: number): Rgb | undefined {
   const [x0, y0, x1, y1] = windowAround(image, p[0], p[1], radius);
   const { data, width } = image;
-  const hue = chromaOf(paper, ...sample);
+  const hue = lumaChroma(paper, ...sample);
   const sameHue = (c: { cx: number; cy: number; cz: number; chroma: number }, h: { cx: number; cy: number; cz: number; chroma: number }) =>
     c.cx * h.cx + c.cy * h.cy + c.cz * h.cz >= HUE_COS * c.chroma * h.chroma;
-  let top: ReturnType<typeof chromaOf> | undefined;
+  let top: ReturnType<typeof lumaChroma> | undefined;
   let best = -1;
   for (let y = y0; y < y1; y++) {
     for (let x = x0; x < x1; x++) {
       if (Math.hypot(x + 0.5 - p[0], y + 0.5 - p[1]) > radius) continue;
       const i = (y * width + x) * 4;
-      const c = chromaOf(paper, data[i] as number, data[i + 1] as number, data[i + 2] as number);
+      const c = lumaChroma(paper, data[i] as number, data[i + 1] as number, data[i + 2] as number);
       if (c.chroma < CHROMA_MIN || c.chroma < CHROMA_SHARE * Math.abs(c.luma) || (top && c.chroma <= top.chroma)) continue;
       if (hue.chroma >= HUE_MIN && !sameHue(c, hue)) continue;
       top = c;
@@ -173,7 +158,7 @@ export function chromaticInk(image: RasterImage, paper: Rgb, sample: Rgb, p: rea
   for (let y = Math.max(0, by - 2); y <= Math.min(image.height - 1, by + 2); y++) {
     for (let x = Math.max(0, bx - 2); x <= Math.min(width - 1, bx + 2); x++) {
       const i = (y * width + x) * 4;
-      const c = chromaOf(paper, data[i] as number, data[i + 1] as number, data[i + 2] as number);
+      const c = lumaChroma(paper, data[i] as number, data[i + 1] as number, data[i + 2] as number);
       if (c.chroma < CORE_SHARE * top.chroma || !sameHue(c, top)) continue;
       r += data[i] as number;
       g += data[i + 1] as number;
