@@ -1,17 +1,19 @@
 /**
- * The panels of a scan found off the main thread (a Node worker thread), as the workbench will
- * run it in its worker: the main thread posts the decoded image, the worker posts back each
- * progress step and then what it found (panel ids, calibration figures, questions).
- * Used by bench/detectScan.bench.ts.
+ * The whole detection of a scan off the main thread (a Node worker thread), as the workbench runs
+ * it in its sheet worker: the main thread posts the decoded image; the worker finds the panels,
+ * then the curves of those panels, posting each progress step (the panels take the first 60 %,
+ * the curves the rest, the split `detectRasterTakeoff` uses) and then what it found (panel ids,
+ * curves named, questions). Used by bench/detectScan.bench.ts.
  */
 import { parentPort } from 'node:worker_threads';
+import { findRasterCurves } from '../../src/digitize/detect/rasterCurves.ts';
 import { findRasterPanels } from '../../src/digitize/detect/rasterPanels.ts';
 import { closeTextReaderNode, textReaderNode } from '../../src/digitize/loaders/ocrNode.ts';
 
 export type FromWorker =
   | { kind: 'ready' }
   | { kind: 'progress'; fraction: number; what: string }
-  | { kind: 'found'; panels: string[]; questions: string[] }
+  | { kind: 'found'; panels: string[]; curves: number; questions: string[] }
   | { kind: 'failed'; message: string };
 
 export type ToWorker = { kind: 'detect'; width: number; height: number; data: Uint8ClampedArray } | { kind: 'close' };
@@ -29,8 +31,11 @@ if (port) {
       return;
     }
     try {
-      const found = await findRasterPanels({ width: m.width, height: m.height, data: m.data, scale: 1 }, reader, (fraction, what) => port.postMessage({ kind: 'progress', fraction, what } satisfies FromWorker));
-      port.postMessage({ kind: 'found', panels: found.panels.map((p) => p.id), questions: found.questions } satisfies FromWorker);
+      const image = { width: m.width, height: m.height, data: m.data, scale: 1 };
+      const found = await findRasterPanels(image, reader, (fraction, what) => port.postMessage({ kind: 'progress', fraction: 0.6 * fraction, what } satisfies FromWorker));
+      port.postMessage({ kind: 'progress', fraction: 0.6, what: 'finding the curves' } satisfies FromWorker);
+      const curves = await findRasterCurves(image, found, reader);
+      port.postMessage({ kind: 'found', panels: found.panels.map((p) => p.id), curves: curves.curves.length, questions: [...found.questions, ...curves.questions] } satisfies FromWorker);
     } catch (error) {
       port.postMessage({ kind: 'failed', message: error instanceof Error ? error.message : String(error) } satisfies FromWorker);
     }
