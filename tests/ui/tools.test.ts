@@ -25,6 +25,16 @@ describe('the frame tool', () => {
     expect(host.store.session).toMatchObject({ activePanel: 'power-1', drawingFrame: false });
   });
 
+  it('once every panel is calibrated, the status line says to go on to tracing, not to draw another frame', () => {
+    const host = new FakeHost(draftWithPanel());
+    host.store.setSession({ step: 'axes', framePlots: 'head' });
+    const tool = new FrameTool(host);
+    // Not calibrated yet: the frame tool still asks for a drag.
+    expect(tool.status()).toMatch(/^Drag from one corner of the head plot area/);
+    host.flowAt = () => 10;
+    expect(tool.status()).toMatch(/^All 1 panel is calibrated: go on to “Trace the curves” \(3\)/);
+  });
+
   it('a click without a drag places the first corner; the next click the opposite one', async () => {
     const host = new FakeHost(draftWithPanel({ panels: [] }));
     const tool = new FrameTool(host);

@@ -86,7 +86,7 @@ function label(ctx: CanvasRenderingContext2D, text: string, x: number, y: number
 
 const PANEL_INK = '#0d6b6b';
 
-/** Where a panel's name is drawn: on the frame's top edge at the right, away from the axis labels on the left. */
+/** Where a panel's name is drawn: inside the frame's top right corner, away from the axis labels on the left. */
 function panelBadge(ctx: CanvasRenderingContext2D, view: View, panel: PanelDraft, calibrated: boolean): LabelBox & { text: string } {
   const [l, t, r] = frameOf(panel);
   const [, y0] = toScreen(view, [l, t]);
@@ -95,8 +95,10 @@ function panelBadge(ctx: CanvasRenderingContext2D, view: View, panel: PanelDraft
   const text = `${name} panel${calibrated ? '' : ' · axes not set'}`;
   ctx.font = '600 12px system-ui, sans-serif';
   const w = ctx.measureText(text).width;
-  // The box as `label` paints it: 3 px of background either side.
-  return { text, x: x1 - w - 9, y: y0 + 15, width: w + 6 };
+  // The box as `label` paints it (3 px of background either side, 13 px above the baseline to
+  // 4 below) sits inside the frame, clear of the anchor diamonds on its top and right edges
+  // (radius up to 6 px): its top 10 px below the top edge, its right side 10 px left of the right edge.
+  return { text, x: x1 - w - 16, y: y0 + 23, width: w + 6 };
 }
 
 function paintPanel(ctx: CanvasRenderingContext2D, view: View, panel: PanelDraft, active: boolean, calibrated: boolean): void {

@@ -59,7 +59,11 @@ export class FrameTool implements Tool {
   status(): string {
     const plots = QUANTITY_WORDS[this.host.store.session.framePlots];
     if (this.state.kind === 'idle') {
-      const more = this.host.store.draft.panels.length > 0 ? ' When every panel is set, go on to “Trace the curves” (3).' : '';
+      const { panels } = this.host.store.draft;
+      // Every panel calibrated (found by the detector, or set by hand): the next step is tracing, not another frame.
+      const set = panels.filter((p) => { const f = frameOf(p); return this.host.flowAt(p.id, [f[0], f[3]] as SheetXY) !== null; }).length;
+      if (panels.length > 0 && set === panels.length) return `All ${panels.length} panel${panels.length === 1 ? ' is' : 's are'} calibrated: go on to “Trace the curves” (3), or drag over another ${plots} plot area to add a panel.`;
+      const more = panels.length > 0 ? ' When every panel is set, go on to “Trace the curves” (3).' : '';
       return `Drag from one corner of the ${plots} plot area to the opposite corner; corners snap to grid-line crossings.${more}`;
     }
     if (this.state.kind === 'dragging') return 'Release on the opposite corner of the plot area.';
