@@ -22,8 +22,11 @@ import { sheetGeometry } from '../scripts/randomSheets/randomSheet.ts';
 import { scanFor } from '../scripts/detectSheets/scanBed.ts';
 
 export default async function main(): Promise<void> {
+  // The first 300-dpi sheet of the bed with four panels: the whole sheet, on which the
+  // detector finds curves on every panel (seed 16, the first 300-dpi sheet, gets none named, so
+  // its curve step timed little).
   let seed = 1;
-  while (sheetGeometry(seed, 'scan').plan.dpi !== 300) seed++;
+  for (let g = sheetGeometry(seed, 'scan'); g.plan.dpi !== 300 || g.plan.panels.length < 4; g = sheetGeometry(++seed, 'scan'));
   const { plan } = sheetGeometry(seed, 'scan');
   const { jpeg } = await scanFor(seed);
   const d = await decode(Buffer.from(jpeg));
