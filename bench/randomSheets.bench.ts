@@ -113,6 +113,8 @@ export async function runBed(count: number, firstSeed: number, log = true): Prom
       set = { refused: error instanceof Error ? error.message : String(error) };
     }
     times.push(performance.now() - t0);
+    // RANDOM_SETS=dir keeps each replayed curve set (seed.json), for studying findings against the scores offline.
+    if (process.env.RANDOM_SETS) writeFileSync(join(process.env.RANDOM_SETS, `${seed}.json`), JSON.stringify(set));
     const scores = scoreReplay(meta.family, meta.truth, set);
     const plan = sheetGeometry(seed, kind).plan;
     meta.truth.forEach((curve, k) => {
