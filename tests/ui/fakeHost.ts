@@ -45,7 +45,9 @@ export class FakeHost implements ToolHost {
     return { points, gaps: [] };
   }
   magnify() {}
-  flowAt() { return null; }
+  /** What every panel reads as flow at any point: null for uncalibrated panels. */
+  flow: number | null = null;
+  flowAt(): number | null { return this.flow; }
   guessPlots() { return this.plots; }
   afterFrame() {}
   focusAnchorValue(panelId: string, index: number) { this.focused = [panelId, index]; }

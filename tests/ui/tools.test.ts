@@ -31,7 +31,7 @@ describe('the frame tool', () => {
     const tool = new FrameTool(host);
     // Not calibrated yet: the frame tool still asks for a drag.
     expect(tool.status()).toMatch(/^Drag from one corner of the head plot area/);
-    host.flowAt = () => 10;
+    host.flow = 10;
     expect(tool.status()).toMatch(/^All 1 panel is calibrated: go on to “Trace the curves” \(3\)/);
   });
 
