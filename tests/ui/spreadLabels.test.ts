@@ -4,7 +4,7 @@
  * still comes to rest (a label at y, moved to y + gap, may read as a hair closer than gap).
  */
 import { describe, expect, it } from 'vitest';
-import { spreadLabels } from '../../src/ui/geometry/labels.ts';
+import { clearestPlace, segmentTouches, spreadLabels } from '../../src/ui/geometry/labels.ts';
 
 const label = (y: number, x = 100, text = '250 mm') => ({ x, y, text });
 
@@ -55,5 +55,28 @@ describe('curve-end labels moved apart', () => {
       const apartX = a.x >= b.x + b.text.length * 6.2 || b.x >= a.x + a.text.length * 6.2;
       if (!apartX) expect(Math.abs(a.y - b.y)).toBeGreaterThan(10.99);
     }
+  });
+});
+
+describe('the place of a panel name that the lines leave clear', () => {
+  const box = { x: 100, y: 100, width: 50, height: 17 };
+  it('a segment through, into or beside the box is told apart', () => {
+    expect(segmentTouches(box, [90, 105], [160, 110])).toBe(true); // across
+    expect(segmentTouches(box, [120, 108], [300, 300])).toBe(true); // starts inside
+    expect(segmentTouches(box, [90, 90], [160, 95])).toBe(false); // above
+    expect(segmentTouches(box, [160, 90], [170, 130])).toBe(false); // to the right
+    expect(segmentTouches(box, [95, 95], [155, 122])).toBe(true); // corner to corner
+  });
+
+  it('takes the first place no line crosses, else the one crossed least', () => {
+    const topRight = { x: 300, y: 10, width: 80, height: 17 };
+    const topLeft = { x: 10, y: 10, width: 80, height: 17 };
+    // A power curve rising to the top right corner.
+    const power: [number, number][] = [[0, 200], [200, 120], [390, 12]];
+    expect(clearestPlace([topRight, topLeft], [power])).toBe(1);
+    expect(clearestPlace([topRight, topLeft], [])).toBe(0);
+    // Both crossed: the one crossed by fewer segments.
+    const across: [number, number][] = [[0, 20], [400, 20]];
+    expect(clearestPlace([topRight, topLeft], [across, power])).toBe(1);
   });
 });

@@ -8,7 +8,7 @@ import type { SheetXY } from '../../model/takeoff.ts';
 import { frameOf, anchorAxis, pointsOf, type Draft, type PanelDraft, type TraceDraft } from '../store/draft.ts';
 import type { Session } from '../store/store.ts';
 import { toScreen, type View } from './view.ts';
-import { spreadLabels, type LabelBox } from '../geometry/labels.ts';
+import { clearestPlace, spreadLabels, type LabelBox } from '../geometry/labels.ts';
 
 /** Ink of each quantity on the overlay (chosen to read against black and grey print). */
 export const QUANTITY_INK: Record<Quantity, string> = {
@@ -86,29 +86,42 @@ function label(ctx: CanvasRenderingContext2D, text: string, x: number, y: number
 
 const PANEL_INK = '#0d6b6b';
 
-/** Where a panel's name is drawn: inside the frame's top right corner, away from the axis labels on the left. */
-function panelBadge(ctx: CanvasRenderingContext2D, view: View, panel: PanelDraft, calibrated: boolean): LabelBox & { text: string } {
-  const [l, t, r] = frameOf(panel);
-  const [, y0] = toScreen(view, [l, t]);
-  const [x1] = toScreen(view, [r, t]);
+/**
+ * Where a panel's name is drawn: inside the frame, in the corner that the panel's lines (traces
+ * and fitted curves) leave clear, top right first (away from the axis labels on the left), then
+ * top left, bottom right, bottom left. The box as `label` paints it (3 px of background either
+ * side, 13 px above the baseline to 4 below) keeps 10 px inside the frame, clear of the anchor
+ * diamonds on its edges (radius up to 6 px).
+ */
+function panelBadge(ctx: CanvasRenderingContext2D, view: View, panel: PanelDraft, calibrated: boolean, lines: readonly (readonly SheetXY[])[] = []): LabelBox & { text: string } {
+  const [l, t, r, b] = frameOf(panel);
+  const [x0, y0] = toScreen(view, [l, t]);
+  const [x1, y1] = toScreen(view, [r, b]);
   const name = { head: 'Head', efficiency: 'Efficiency', power: 'Power', npshr: 'NPSHr' }[panel.plots];
   const text = `${name} panel${calibrated ? '' : ' · axes not set'}`;
   ctx.font = '600 12px system-ui, sans-serif';
   const w = ctx.measureText(text).width;
-  // The box as `label` paints it (3 px of background either side, 13 px above the baseline to
-  // 4 below) sits inside the frame, clear of the anchor diamonds on its top and right edges
-  // (radius up to 6 px): its top 10 px below the top edge, its right side 10 px left of the right edge.
-  return { text, x: x1 - w - 16, y: y0 + 23, width: w + 6 };
+  const [left, right] = [Math.min(x0, x1), Math.max(x0, x1)];
+  const [top, bottom] = [Math.min(y0, y1), Math.max(y0, y1)];
+  // Baselines: the box's top 10 px below the top edge, or its bottom 10 px above the bottom edge.
+  const places = [
+    { x: right - w - 16, y: top + 23 },
+    { x: left + 10, y: top + 23 },
+    { x: right - w - 16, y: bottom - 14 },
+    { x: left + 10, y: bottom - 14 },
+  ];
+  const onScreen = lines.map((line) => line.map((p) => toScreen(view, p)));
+  const pick = places[clearestPlace(places.map((p) => ({ x: p.x, y: p.y - 13, width: w + 6, height: 17 })), onScreen)] as { x: number; y: number };
+  return { text, x: pick.x, y: pick.y, width: w + 6 };
 }
 
-function paintPanel(ctx: CanvasRenderingContext2D, view: View, panel: PanelDraft, active: boolean, calibrated: boolean): void {
+function paintPanel(ctx: CanvasRenderingContext2D, view: View, panel: PanelDraft, active: boolean, badge: LabelBox & { text: string }): void {
   const [l, t, r, b] = frameOf(panel);
   const [x0, y0] = toScreen(view, [l, t]);
   const [x1, y1] = toScreen(view, [r, b]);
   ctx.beginPath();
   ctx.rect(x0, y0, x1 - x0, y1 - y0);
   haloStroke(ctx, PANEL_INK, active ? 2 : 1.25, active ? [] : [6, 4]);
-  const badge = panelBadge(ctx, view, panel, calibrated);
   label(ctx, badge.text, badge.x + 3, badge.y, '#ffffff', PANEL_INK);
 }
 
@@ -276,15 +289,23 @@ export function paintScene(ctx: CanvasRenderingContext2D, view: View, scene: Sce
   ctx.lineCap = 'round';
   ctx.lineJoin = 'round';
   const showAnchors = scene.layers.anchors;
-  for (const panel of draft.panels) {
-    paintPanel(ctx, view, panel, session.activePanel === panel.id && showAnchors, scene.calibrated.has(panel.id));
+  // Each panel's name goes where the lines drawn over that panel leave room.
+  const badges = draft.panels.map((panel) => {
+    const lines = [
+      ...(scene.layers.traces ? draft.traces.filter((t) => t.panel === panel.id && !t.hidden).map((t) => pointsOf(t)) : []),
+      ...(scene.layers.fits ? scene.fits.filter((f) => f.traceIds.some((id) => draft.traces.find((t) => t.id === id)?.panel === panel.id)).map((f) => f.points) : []),
+    ];
+    return panelBadge(ctx, view, panel, scene.calibrated.has(panel.id), lines);
+  });
+  draft.panels.forEach((panel, i) => {
+    paintPanel(ctx, view, panel, session.activePanel === panel.id && showAnchors, badges[i] as LabelBox & { text: string });
     if (showAnchors) paintAnchors(ctx, view, panel, session.activePanel === panel.id);
-  }
+  });
   if (showAnchors) paintProposals(ctx, view, scene.proposals);
   if (scene.layers.traces) {
     for (const trace of draft.traces) if (!trace.hidden) paintTrace(ctx, view, trace, session, scene.preview);
   }
-  if (scene.layers.fits) paintFits(ctx, view, scene.fits, session, draft.panels.map((p) => panelBadge(ctx, view, p, scene.calibrated.has(p.id))));
+  if (scene.layers.fits) paintFits(ctx, view, scene.fits, session, badges);
   for (const g of scene.pendingGuides) paintGuide(ctx, view, g, '#111827');
   if (scene.preview) paintPreview(ctx, view, scene.preview);
 }

@@ -41,3 +41,52 @@ export function spreadLabels<L extends { x: number; y: number; text: string; wid
   }
   return out;
 }
+
+/** A label box with its height: left, top, width and height, px. */
+export interface Rect {
+  x: number;
+  y: number;
+  width: number;
+  height: number;
+}
+
+/** True when the segment a–b touches the rectangle (Liang–Barsky clipping). */
+export function segmentTouches(r: Rect, a: readonly [number, number], b: readonly [number, number]): boolean {
+  const dx = b[0] - a[0];
+  const dy = b[1] - a[1];
+  let t0 = 0;
+  let t1 = 1;
+  for (const [p, q] of [[-dx, a[0] - r.x], [dx, r.x + r.width - a[0]], [-dy, a[1] - r.y], [dy, r.y + r.height - a[1]]] as const) {
+    if (p === 0) {
+      if (q < 0) return false;
+      continue;
+    }
+    const t = q / p;
+    if (p < 0) t0 = Math.max(t0, t);
+    else t1 = Math.min(t1, t);
+    if (t0 > t1) return false;
+  }
+  return true;
+}
+
+/**
+ * The place, of several in order of preference, that the fewest drawn lines cross: the first
+ * one no line crosses, or else the one crossed by the fewest segments. Used for a panel's name,
+ * which must not hide the curves (power and NPSHr curves end in the frame's top right corner,
+ * head curves start in its top left).
+ */
+export function clearestPlace(places: readonly Rect[], lines: readonly (readonly (readonly [number, number])[])[]): number {
+  let best = 0;
+  let fewest = Infinity;
+  for (let i = 0; i < places.length; i++) {
+    const r = places[i] as Rect;
+    let hits = 0;
+    for (const line of lines) for (let k = 1; k < line.length; k++) if (segmentTouches(r, line[k - 1] as readonly [number, number], line[k] as readonly [number, number])) hits++;
+    if (hits === 0) return i;
+    if (hits < fewest) {
+      fewest = hits;
+      best = i;
+    }
+  }
+  return best;
+}
