@@ -203,8 +203,12 @@ export function clipPolyline(points: readonly SheetPoint[], box: readonly [numbe
   return out;
 }
 
-/** Liang–Barsky: the part of segment a→b inside the box, or null. Unclipped ends are returned as the same objects. */
-function clipSegment(a: SheetPoint, b: SheetPoint, box: readonly [number, number, number, number]): [SheetPoint, SheetPoint] | null {
+/**
+ * Liang–Barsky clipping: the parameters [t0, t1] (0 ≤ t0 ≤ t1 ≤ 1) of the part of segment a→b
+ * inside the box [left, top, right, bottom] (edges included), or null when none of it is. Plain
+ * coordinates, so that sheet points and screen pixels share it.
+ */
+export function segmentInBox(a: readonly [number, number], b: readonly [number, number], box: readonly [number, number, number, number]): [number, number] | null {
   const dx = b[0] - a[0];
   const dy = b[1] - a[1];
   let t0 = 0;
@@ -225,7 +229,15 @@ function clipSegment(a: SheetPoint, b: SheetPoint, box: readonly [number, number
     else t1 = Math.min(t1, r);
     if (t0 > t1) return null;
   }
-  const p = t0 === 0 ? a : sheetPoint(a[0] + t0 * dx, a[1] + t0 * dy);
-  const q = t1 === 1 ? b : sheetPoint(a[0] + t1 * dx, a[1] + t1 * dy);
+  return [t0, t1];
+}
+
+/** The part of segment a→b inside the box, or null. Unclipped ends are returned as the same objects. */
+function clipSegment(a: SheetPoint, b: SheetPoint, box: readonly [number, number, number, number]): [SheetPoint, SheetPoint] | null {
+  const t = segmentInBox(a, b, box);
+  if (!t) return null;
+  const [t0, t1] = t;
+  const p = t0 === 0 ? a : sheetPoint(a[0] + t0 * (b[0] - a[0]), a[1] + t0 * (b[1] - a[1]));
+  const q = t1 === 1 ? b : sheetPoint(a[0] + t1 * (b[0] - a[0]), a[1] + t1 * (b[1] - a[1]));
   return [p, q];
 }

@@ -13,6 +13,7 @@
  */
 import type { Calibration } from '../digitize/calibration.ts';
 import { dataPoint, sheetPoint, type SheetPoint } from '../digitize/points.ts';
+import { clipPolyline } from '../digitize/polyline.ts';
 import { resolveTakeoffUnits, traceUnits } from '../digitize/takeoffUnits.ts';
 import type { Takeoff, Trace } from '../model/takeoff.ts';
 import type { Quantity } from '../model/curveset.ts';
@@ -252,57 +253,3 @@ export function insideRect(p: readonly [number, number], r: readonly [number, nu
   return p[0] >= r[0] - slack && p[0] <= r[2] + slack && p[1] >= r[1] - slack && p[1] <= r[3] + slack;
 }
 
-/** Clips a polyline to an axis-aligned rectangle (Liang–Barsky per segment); returns the visible pieces. */
-export function clipPolyline(points: readonly SheetPoint[], r: readonly [number, number, number, number]): SheetPoint[][] {
-  const pieces: SheetPoint[][] = [];
-  let current: SheetPoint[] = [];
-  const flush = () => {
-    if (current.length >= 2) pieces.push(current);
-    current = [];
-  };
-  for (let i = 1; i < points.length; i++) {
-    const a = points[i - 1] as SheetPoint;
-    const b = points[i] as SheetPoint;
-    const seg = clipSegment(a, b, r);
-    if (!seg) {
-      flush();
-      continue;
-    }
-    const [p, q] = seg;
-    const last = current[current.length - 1];
-    if (!last || Math.hypot(last[0] - p[0], last[1] - p[1]) > 1e-9) {
-      flush();
-      current.push(p);
-    }
-    current.push(q);
-    if (q !== b) flush();
-  }
-  flush();
-  return pieces;
-}
-
-function clipSegment(a: SheetPoint, b: SheetPoint, r: readonly [number, number, number, number]): [SheetPoint, SheetPoint] | null {
-  const dx = b[0] - a[0];
-  const dy = b[1] - a[1];
-  let t0 = 0;
-  let t1 = 1;
-  const edges: [number, number][] = [
-    [-dx, a[0] - r[0]],
-    [dx, r[2] - a[0]],
-    [-dy, a[1] - r[1]],
-    [dy, r[3] - a[1]],
-  ];
-  for (const [p, q] of edges) {
-    if (p === 0) {
-      if (q < 0) return null;
-      continue;
-    }
-    const t = q / p;
-    if (p < 0) t0 = Math.max(t0, t);
-    else t1 = Math.min(t1, t);
-    if (t0 > t1) return null;
-  }
-  const p0 = t0 === 0 ? a : sheetPoint(a[0] + t0 * dx, a[1] + t0 * dy);
-  const p1 = t1 === 1 ? b : sheetPoint(a[0] + t1 * dx, a[1] + t1 * dy);
-  return [p0, p1];
-}

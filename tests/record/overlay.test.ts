@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { buildOverlay, clipPolyline } from '../../src/record/overlay.ts';
+import { buildOverlay } from '../../src/record/overlay.ts';
+import { clipPolyline } from '../../src/digitize/polyline.ts';
 import { systemHead } from '../../src/duty/systemCurve.ts';
 import { fromSI } from '../../src/units/index.ts';
 import { sheetPoint } from '../../src/digitize/points.ts';

@@ -1,4 +1,5 @@
 /** Placing text labels beside curve ends, on the family chart and on the sheet, without overlaps. */
+import { segmentInBox } from '../../digitize/polyline.ts';
 
 /** A label's place: left end and baseline, px, and its width. */
 export interface LabelBox {
@@ -50,23 +51,9 @@ export interface Rect {
   height: number;
 }
 
-/** True when the segment a–b touches the rectangle (Liang–Barsky clipping). */
+/** True when the segment a–b touches the rectangle (Liang–Barsky clipping, `segmentInBox`). */
 export function segmentTouches(r: Rect, a: readonly [number, number], b: readonly [number, number]): boolean {
-  const dx = b[0] - a[0];
-  const dy = b[1] - a[1];
-  let t0 = 0;
-  let t1 = 1;
-  for (const [p, q] of [[-dx, a[0] - r.x], [dx, r.x + r.width - a[0]], [-dy, a[1] - r.y], [dy, r.y + r.height - a[1]]] as const) {
-    if (p === 0) {
-      if (q < 0) return false;
-      continue;
-    }
-    const t = q / p;
-    if (p < 0) t0 = Math.max(t0, t);
-    else t1 = Math.min(t1, t);
-    if (t0 > t1) return false;
-  }
-  return true;
+  return segmentInBox(a, b, [r.x, r.y, r.x + r.width, r.y + r.height]) !== null;
 }
 
 /**
