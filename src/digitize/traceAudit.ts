@@ -186,7 +186,7 @@ export function auditTraces(traces: readonly AuditedTrace[], flowText: (q: numbe
         code: 'takeoff.trace-short',
         severity: 'fail',
         trace: t.id,
-        message: `Trace ${t.id} (${t.describe}) covers flows ${flowText(q0)} to ${flowText(q1)}, short of its line ${where} (its neighbours suggest ${flowText(expectedStart * expectedEnd)} to ${flowText(expectedEnd)}); the line was probably lost where it runs together with others or at a label. Add a guide near each end of this line where it stands alone, or give its points.`,
+        message: `Trace ${t.id} (${t.describe}) covers flows ${flowText(q0)} to ${flowText(q1)}, short of its line ${where} (its neighbours suggest ${flowText(Math.max(0, expectedStart * expectedEnd))} to ${flowText(expectedEnd)}); the line was probably lost where it runs together with others or at a label. Add a guide near each end of this line where it stands alone, or give its points.`,
         figures: { flow_from: q0, flow_to: q1, expected_to: expectedEnd },
       });
       continue;

@@ -48,6 +48,12 @@ describe('trace audit', () => {
     expect(refused.map((f) => f.code)).toEqual(['takeoff.trace-untrusted']);
   });
 
+  it('never suggests a negative flow for a short trace, though a neighbour read a hair left of the flow axis', () => {
+    const found = auditTraces([trace('h370', 'head', 370, -0.0004, 0.1), trace('h330', 'head', 330, 0, 0.05)], text);
+    expect(found.map((f) => [f.code, f.trace])).toEqual([['takeoff.trace-short', 'h330']]);
+    expect(found[0]?.message).toMatch(/its neighbours suggest 0\.000 m³\/s to 0\.089 m³\/s/);
+  });
+
   it('fails a trace spanning less than 30 % of its panel\'s flow axis, even when its neighbours were lost alike', () => {
     const axis = { axisFlow: [0, 0.12] as const };
     const found = auditTraces([trace('h370', 'head', 370, 0.02, 0.045, axis), trace('h330', 'head', 330, 0.02, 0.04, axis)], text);
