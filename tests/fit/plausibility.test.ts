@@ -32,6 +32,15 @@ describe('plausibility findings', () => {
   it('a BEP beyond the captured range warns', () => {
     expect(codes({ head: pts(head), efficiency: pts(eff, linspace(0.005, 0.045, 10)) })).toContain('warn:bep.outside-range');
   });
+  it('a BEP beyond the end of the captured head curve warns that the head at BEP is extrapolated', () => {
+    // Efficiency peaks at 0.06 m³/s; the head curve stops at 0.045 m³/s (a head trace that stopped short).
+    const found = buildCurveSet({ ...base, members: [{ diameter_m: 0.25, points: { head: pts(head, linspace(0, 0.045, 12)), efficiency: pts(eff, flows.slice(1)) } }] }).findings;
+    const f = found.find((x) => x.code === 'bep.beyond-head');
+    expect(f?.severity).toBe('warn');
+    expect(f?.message).toMatch(/BEP \(216 m³\/h\) lies beyond the end of its head curve \(162 m³\/h\)/);
+    // Head captured to the end: no such finding.
+    expect(codes({ head: pts(head), efficiency: pts(eff, flows.slice(1)) })).not.toContain('warn:bep.beyond-head');
+  });
   it('non-positive NPSHr fails and falling NPSHr at high flow warns', () => {
     expect(codes({ head: pts(head), npshr: pts((q) => -1 + 300 * q * q, flows.slice(2)) })).toContain('fail:npshr.non-positive');
     expect(codes({ head: pts(head), npshr: pts((q) => 2 + 100 * q - 900 * q * q, flows.slice(2)) })).toContain('warn:npshr.falling');

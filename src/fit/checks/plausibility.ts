@@ -11,6 +11,8 @@ import { makeFinding } from './finding.ts';
 /** Efficiency above this is not credible for a centrifugal pump (best large pumps reach about 0.92; common practice). */
 export const EFFICIENCY_CEILING = 0.95;
 const SHAPE = 'Curve shape expected of a centrifugal pump (common practice)';
+/** A BEP this share of the head curve's flow span beyond its captured end still reads the head from the fit (common practice: a hair of extrapolation is drawing tolerance). */
+export const BEP_HEAD_SLACK = 0.02;
 
 export function plausibilityFindings(set: Pick<CurveSet, 'members'>, show: Display): Finding[] {
   const out: Finding[] = [];
@@ -93,6 +95,30 @@ function efficiencyShape(m: Member, show: Display): Finding[] {
         figures: { domain_low_m3s: lo, domain_high_m3s: hi },
       }),
     );
+  }
+  // The head at BEP (and POR and specific speed with it) comes from the head fit: beyond the head
+  // curve's captured end it is the polynomial extrapolated, not the sheet. A maker draws head to the
+  // end of curve and efficiency no further (common practice), so a BEP past the head's end also
+  // says a head trace stopped short or the efficiency flows were misread.
+  const bep = m.derived.bep;
+  const headFit = m.curves.head?.fit;
+  if (bep && headFit && !end) {
+    const [hLo, hHi] = headFit.domain;
+    const slack = BEP_HEAD_SLACK * (hHi - hLo);
+    if (bep.flow_m3s > hHi + slack || bep.flow_m3s < hLo - slack) {
+      const beyond = bep.flow_m3s > hHi;
+      out.push(
+        makeFinding({
+          code: 'bep.beyond-head',
+          severity: 'warn',
+          member: m,
+          quantity: 'head',
+          message: `The ${show.member(m)} BEP (${show.flow(bep.flow_m3s)}) lies ${beyond ? `beyond the end of its head curve (${show.flow(hHi)})` : `before the start of its head curve (${show.flow(hLo)})`}: the head at BEP (${show.head(bep.head_m)}), POR and specific speed come from the head curve extrapolated past what was captured and are not reliable. Capture the head curve ${beyond ? 'to its end' : 'from shutoff'}, or check the efficiency curve's flows.`,
+          method: 'BEP head read from the head fit, which is reliable only over its captured flows',
+          figures: { bep_flow_m3s: bep.flow_m3s, head_domain_low_m3s: hLo, head_domain_high_m3s: hHi },
+        }),
+      );
+    }
   }
   // A captured efficiency that does not fall toward zero at zero flow: look at the lowest-flow points.
   const low = [...curve.points].filter((p) => p[0] > 0).sort((a, b) => a[0] - b[0]);
