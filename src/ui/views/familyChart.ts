@@ -44,6 +44,8 @@ export interface DutyOverlay {
 /** The chart's layout in SVG pixels: width, plot height, gap between plots, margins. */
 const LAYOUT = { width: 560, plotHeight: 150, gap: 26, left: 62, right: 64, top: 22 } as const;
 const { width: W, plotHeight: PLOT_H, gap: GAP, left: LEFT, right: RIGHT, top: TOP } = LAYOUT;
+/** Numbers the plot clip paths, whose ids must be unique on the page (two charts may show at once). */
+let clipCount = 0;
 
 /** The curve picked out from a finding or a trace: its member by diameter (or by speed on a speed family), and its quantity. */
 export interface ChartHighlight {
@@ -108,14 +110,16 @@ export function familyChart(set: CurveSet, choice: UnitChoice = 'own', duty?: Du
       const text = c.label.replace(/^.*: /, '');
       if (end) labels.push({ x: x(end[0]) + 4, y: y(end[1]) + 4, text, width: labelWidth(text, true), speed: true });
     }
-    for (const l of spreadLabels(labels, 11)) g.append(svg('text', { x: l.x, y: l.y, class: l.speed ? 'curve-label speed-curve-label' : 'curve-label' }, l.text));
     if (q === 'head') {
       for (const m of members) {
         const bep = m.derived.bep;
         if (bep) g.append(svg('circle', { cx: x(bep.flow_m3s), cy: y(bep.head_m), r: 3.5, class: 'bep' }, svg('title', null, `BEP of ${memberName(set, m, u, true)}: ${num(fromSI(bep.flow_m3s, u.flow))} ${unitText(u.flow.label)}, ${num(fromSI(bep.head_m, u.head))} ${u.head.label}, ${num(bep.efficiency * 100, 3)} %`)));
       }
       if (duty) {
-        g.append(svg('polyline', { points: polylinePoints(duty.system.map((p) => [x(p[0]), y(p[1])] as const)), class: 'system-curve' }));
+        // The system curve runs on past the pump curves; it is cut at the plot's edges, clear of the curve labels.
+        const clip = `family-plot-clip-${++clipCount}`;
+        g.append(svg('clipPath', { id: clip }, svg('rect', { x: LEFT, y: top, width: plotW, height: PLOT_H })));
+        g.append(svg('polyline', { points: polylinePoints(duty.system.map((p) => [x(p[0]), y(p[1])] as const)), class: 'system-curve', 'clip-path': `url(#${clip})` }));
         for (const c of duty.curves ?? []) {
           const end = c.points[c.points.length - 1];
           if (!end) continue;
@@ -124,6 +128,10 @@ export function familyChart(set: CurveSet, choice: UnitChoice = 'own', duty?: Du
         for (const p of duty.points) g.append(svg('rect', { x: x(p.flow) - 4, y: y(p.head) - 4, width: 8, height: 8, class: `op-point${p.npshMarginOk === false ? ' short' : ''}` }, svg('title', null, `Operating point ${p.label}: ${num(fromSI(p.flow, u.flow))} ${unitText(u.flow.label)}, ${num(fromSI(p.head, u.head))} ${u.head.label}`)));
       }
     }
+    // Curve-end labels go on top (their halo keeps them legible over the system curve), clear of the
+    // operating points, which often sit at a curve's end.
+    const marks = q === 'head' && duty ? duty.points.map((p) => ({ x: x(p.flow) - 4, y: y(p.head) + 4, width: 8 })) : [];
+    for (const l of spreadLabels(labels, 11, undefined, marks)) g.append(svg('text', { x: l.x, y: l.y, class: l.speed ? 'curve-label speed-curve-label' : 'curve-label' }, l.text));
     if (q === 'npshr' || q === 'power') {
       g.append(svg('text', { x: LEFT + plotW, y: top + PLOT_H + (row === quantities.length - 1 ? 28 : 12), class: 'caution-note', 'text-anchor': 'end' }, q === 'npshr' ? 'NPSHr: preliminary — check against certified data' : 'Power: preliminary — size motors from certified data'));
     }
