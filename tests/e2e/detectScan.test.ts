@@ -158,16 +158,14 @@ describe('finding panels and curves on a scan', () => {
     expect(new Set(found.traces.filter((t) => t.quantity === 'head').map((t) => t.diameter))).toEqual(new Set(diameters));
     await user.screenshot('3-answered');
 
-    // Nothing on a scan is read as the pump's speed: the status line says so, and so does step 5
-    // until the speed printed on the sheet is typed in step 3.
+    // The pump's speed is read from the scan's title by the same character reader: the status line
+    // says so, and step 5 has no warning that the speed is only the starting value.
     const rated = (minimalTakeoff(plan, `random-${SEED}.jpg`).pump as { speed_rpm: number }).speed_rpm;
-    expect(await page.textContent('#message')).toMatch(/only the workbench's starting value/);
+    expect(await page.textContent('#message')).toMatch(new RegExp(`The pump's speed, ${rated} rpm, was read from the sheet`));
     await page.locator('#step-save').click(); // a look by the test, not counted
     await settle(page);
-    expect(await page.locator('#speed-not-given').count()).toBe(1);
-    await user.click(page.locator('#step-trace'), 'step 3');
-    await user.type(page.locator('#pump-speed'), String(rated), 'speed');
-    await settle(page);
+    expect(await page.locator('#speed-not-given').count()).toBe(0);
+    expect(await page.evaluate(() => (window as unknown as { pumpscribe: () => { store: { draft: { pump: { speed_rpm: number }; speedGiven: boolean } } } }).pumpscribe().store.draft)).toMatchObject({ pump: { speed_rpm: rated }, speedGiven: true });
 
     // 4. Save: the curve set and the take-off file.
     const files = await saveBoth(user, page, dir, 300_000);

@@ -71,6 +71,11 @@ async function takeoff(file: string, o: TakeoffOptions): Promise<number> {
     ocr = o.detect && sheet.kind !== 'vector-pdf' ? await import('../../digitize/loaders/ocrNode.ts') : null;
     const detected = o.detect ? await (await import('../../digitize/detect/detect.ts')).detectTakeoff(parsed, raw as Record<string, unknown>, sheet, { reader: ocr?.textReaderNode(), progress: (_, what) => progress.step(what) }) : null; // automatic take-off (src/digitize/detect), loaded only with --detect
     if (detected) [parsed, raw] = [detected.takeoff, detected.document];
+    // A scan that prints a speed other than the file's pump.speed_rpm asks (the affinity checks and specific speed rest on it).
+    if (detected?.speedRead) {
+      const { speedDisagrees, speedMismatchSentence } = await import('../../digitize/detect/sheetSpeed.ts');
+      if (speedDisagrees(detected.speedRead.rpm, parsed.pump.speed_rpm)) detected.questions.push(speedMismatchSentence(detected.speedRead, parsed.pump.speed_rpm));
+    }
     for (const q of detected?.questions ?? []) process.stderr.write(`Question: ${q}\n`);
     parsed = parsed as Takeoff;
     progress.step(`capturing ${parsed.traces.length} trace${parsed.traces.length === 1 ? '' : 's'}, fitting and checking`);

@@ -19,6 +19,7 @@ import { findPanels, type FoundPanel } from './panels.ts';
 import { detectRasterTakeoff } from './rasterDetect.ts';
 import type { DetectProgress } from './rasterPanels.ts';
 import type { TextReader } from './rasterText.ts';
+import type { SpeedRead } from './sheetSpeed.ts';
 
 export const DETECTOR = 'pumpscribe detect 1 (vector sheets)';
 
@@ -63,6 +64,8 @@ export interface DetectedTakeoff {
   document: Record<string, unknown>;
   detection: Detection;
   questions: string[];
+  /** The pump's speed as a scanned sheet prints it (title or footer), when one was read. */
+  speedRead?: SpeedRead;
 }
 
 const r4 = (v: number) => Math.round(v * 1e4) / 1e4;

@@ -7,6 +7,7 @@
  *
  * Pure: the sheet and the character reader are handed in.
  */
+import { readSheetSpeed } from './sheetSpeed.ts';
 import { TakeoffError, parseTakeoff, type TakeoffToDetect } from '../../model/takeoff.ts';
 import { fromSI, parseUnit, toSI } from '../../units/index.ts';
 import { safeScale, type Sheet } from '../sheet.ts';
@@ -33,6 +34,8 @@ export class ScanDetectRefused extends TakeoffError {
 export async function detectRasterTakeoff(input: TakeoffToDetect, raw: Record<string, unknown>, sheet: Sheet, reader: TextReader, progress: DetectProgress = () => undefined): Promise<DetectedTakeoff> {
   const image = await sheet.render(sheet.kind === 'image' ? 1 : safeScale(sheet, PDF_SCAN_SCALE));
   const found = await findRasterPanels(image, reader, (f, what) => progress(0.6 * f, what));
+  // The speed the sheet prints (its title or footer), to fill in or check the speed given.
+  const speedRead = await readSheetSpeed(found, reader);
   progress(0.6, 'finding the curves');
   const given = givenValues(input);
   const curves = await findRasterCurves(image, found, reader, given ? { given: { family: given.family, values: given.values } } : {});
@@ -88,5 +91,5 @@ export async function detectRasterTakeoff(input: TakeoffToDetect, raw: Record<st
   }
   progress(1, 'done');
   const document: Record<string, unknown> = { ...raw, sheet_sha256: sheet.sha256, panels, traces, detected: { by: RASTER_DETECTOR, questions } };
-  return { takeoff: parseTakeoff(document), document, detection, questions };
+  return { takeoff: parseTakeoff(document), document, detection, questions, ...(speedRead ? { speedRead } : {}) };
 }

@@ -12,7 +12,8 @@ import { TAKEOFF_FORMAT, TAKEOFF_VERSION } from '../../model/takeoff.ts';
 import { readDecimal } from '../../units/readNumber.ts';
 import { applyDetection, answerKind, type AnswerKind, type DetectionGiven } from '../store/actions/detected.ts';
 import { EditError } from '../store/actions/action.ts';
-import { parseDiameterList } from '../store/actions/setup.ts';
+import { parseDiameterList, readFromSheet } from '../store/actions/setup.ts';
+import { speedDisagrees, speedMismatchSentence } from '../../digitize/detect/sheetSpeed.ts';
 import { familyLabels, type Draft } from '../store/draft.ts';
 import type { Store } from '../store/store.ts';
 import type { SheetWorkerClient } from '../worker/client.ts';
@@ -115,12 +116,22 @@ export class Detection {
         return;
       }
       store.dispatch(applyDetection(found, given));
+      // The speed the scan prints fills in a speed not yet given; one that disagrees with the speed given is said.
+      let speedWords = '';
+      let speedOff = false;
+      if (found.speedRead && !store.draft.speedGiven) {
+        store.dispatch(readFromSheet({ speed_rpm: found.speedRead.rpm }));
+        speedWords = ` The pump's speed, ${found.speedRead.rpm} rpm, was read from the sheet ("${found.speedRead.text}").`;
+      } else if (found.speedRead && speedDisagrees(found.speedRead.rpm, store.draft.pump.speed_rpm)) {
+        speedWords = ` ${speedMismatchSentence(found.speedRead, store.draft.pump.speed_rpm)}`;
+        speedOff = true;
+      }
       const curves = found.traces.filter((t) => t.iso === undefined).length;
       const isos = found.traces.length - curves;
       const kept = store.draft.traces.filter((t) => t.origin !== 'detected').length + store.draft.panels.filter((p) => p.origin !== 'detected').length;
       const asks = found.questions.length ? ` ${found.questions.length} question${found.questions.length === 1 ? '' : 's'} below.` : ' Check them in the review; correct any part with the usual tools.';
       if (found.questions.length === 0) this.host.goto('review');
-      store.say(`Found ${found.panels.length} panel${found.panels.length === 1 ? '' : 's'} and ${curves} curve${curves === 1 ? '' : 's'}${isos ? ` and ${isos} iso-line${isos === 1 ? '' : 's'}` : ''}${kept ? `; ${kept} part${kept === 1 ? '' : 's'} you set kept` : ''}.${asks}${store.draft.speedGiven ? '' : ` ${speedNotGiven(store.draft.pump.speed_rpm)}`}`, found.questions.length || !store.draft.speedGiven ? 'caution' : 'done');
+      store.say(`Found ${found.panels.length} panel${found.panels.length === 1 ? '' : 's'} and ${curves} curve${curves === 1 ? '' : 's'}${isos ? ` and ${isos} iso-line${isos === 1 ? '' : 's'}` : ''}${kept ? `; ${kept} part${kept === 1 ? '' : 's'} you set kept` : ''}.${asks}${speedWords}${store.draft.speedGiven ? '' : ` ${speedNotGiven(store.draft.pump.speed_rpm)}`}`, found.questions.length || !store.draft.speedGiven || speedOff ? 'caution' : 'done');
     } catch (error) {
       const e = error as Error;
       // The reader's own sentence says what is missing and that the sheet is read by hand.

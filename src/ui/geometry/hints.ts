@@ -5,7 +5,8 @@
  * the engineer can see and change; nothing is taken without being shown.
  */
 import type { Quantity } from '../../model/curveset.ts';
-import { curveLabel, quantityOfTitle, SHEET_NUMBER as NUMBER, sheetNumber as toNumber } from '../../digitize/detect/words.ts';
+import { curveLabel, quantityOfTitle } from '../../digitize/detect/words.ts';
+import { speedInText } from '../../digitize/detect/sheetSpeed.ts';
 
 export { quantityOfTitle }; // the title rules live in the core, shared with the automatic take-off
 
@@ -29,11 +30,8 @@ export interface SheetHints {
 export function readHints(items: readonly TextItem[]): SheetHints {
   const all = items.map((t) => t.text).join(' \n ');
   const hints: SheetHints = {};
-  const speed = new RegExp(`${NUMBER}\\s*(?:rpm|r/min|min-1|min⁻¹|1/min)`, 'i').exec(all);
-  if (speed) {
-    const v = toNumber(speed[1] as string);
-    if (v >= 100 && v <= 30000) hints.speed_rpm = v;
-  }
+  const speed = speedInText(all);
+  if (speed !== undefined) hints.speed_rpm = speed;
   const diameters = new Map<string, number[]>();
   for (const t of items) {
     const label = curveLabel(t.text);

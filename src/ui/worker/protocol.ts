@@ -56,6 +56,8 @@ export interface DetectAnswer {
   by: string;
   /** Why nothing was added, when nothing was (one sentence), else null. */
   refused: string | null;
+  /** The pump's speed as a scanned sheet prints it, when its title or footer was read. */
+  speedRead?: { rpm: number; text: string };
 }
 
 export interface Requests {
