@@ -1,4 +1,5 @@
 /** The plain-text report of a curve set: figures per member, family figures, findings, cautions. */
+import { bepDoubted } from '../fit/checks/plausibility.ts';
 import type { CurveSet, Finding } from '../model/curveset.ts';
 import { displayFor } from '../fit/checks/display.ts';
 import { showFixed } from '../units/format.ts';
@@ -13,9 +14,6 @@ export function formatFindings(findings: readonly Finding[]): string[] {
   return findings.map((f) => `  ${MARK[f.severity].padEnd(4)}  ${f.message}\n        [${f.id}; ${f.method}]`);
 }
 
-/** Findings that say a member's BEP (and POR, specific speed) cannot be relied on. */
-const BEP_DOUBTS = new Set(['bep.outside-range', 'bep.beyond-head']);
-
 export function formatReport(set: CurveSet): string {
   const show = displayFor(set.display_units);
   const lines: string[] = [];
@@ -28,7 +26,7 @@ export function formatReport(set: CurveSet): string {
     const parts: string[] = [];
     if (d.shutoff_head_m !== undefined) parts.push(`shutoff ${show.head(d.shutoff_head_m)}`);
     // A BEP the findings doubt (peak not captured, or past the head curve's end) is marked where it is printed.
-    const doubted = set.findings.some((f) => BEP_DOUBTS.has(f.code) && f.severity !== 'note' && f.subject.diameter_m === m.diameter_m && (m.diameter_m !== undefined || f.subject.speed_rpm === m.speed_rpm));
+    const doubted = bepDoubted(set.findings, m);
     if (d.bep) parts.push(`BEP ${show.flow(d.bep.flow_m3s)} at ${show.head(d.bep.head_m)}, ${show.efficiency(d.bep.efficiency)}${doubted ? ' (not reliable: see the findings)' : ''}`);
     if (d.por) parts.push(`POR ${show.flow(d.por.min_m3s)}–${show.flow(d.por.max_m3s)}`);
     if (d.end_of_curve_m3s !== undefined) parts.push(`end of curve ${show.flow(d.end_of_curve_m3s)}`);

@@ -14,6 +14,14 @@ const SHAPE = 'Curve shape expected of a centrifugal pump (common practice)';
 /** A BEP this share of the head curve's flow span beyond its captured end still reads the head from the fit (common practice: a hair of extrapolation is drawing tolerance). */
 export const BEP_HEAD_SLACK = 0.02;
 
+/** Findings that say a member's BEP (and its POR and specific speed) cannot be relied on. */
+const BEP_DOUBTS = new Set(['bep.outside-range', 'bep.beyond-head']);
+
+/** True when a warn or fail of the set doubts this member's BEP: every shell marks such a BEP where it shows it. */
+export function bepDoubted(findings: readonly Finding[], m: Pick<Member, 'diameter_m' | 'speed_rpm'>): boolean {
+  return findings.some((f) => BEP_DOUBTS.has(f.code) && f.severity !== 'note' && f.subject.diameter_m === m.diameter_m && (m.diameter_m !== undefined || f.subject.speed_rpm === m.speed_rpm));
+}
+
 export function plausibilityFindings(set: Pick<CurveSet, 'members'>, show: Display): Finding[] {
   const out: Finding[] = [];
   for (const m of set.members) {

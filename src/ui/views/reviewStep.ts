@@ -2,6 +2,7 @@
  * Step 4: findings in plain sentences, each linked to its trace; residuals per trace; the
  * figures of each diameter. The family chart itself sits beside the sheet.
  */
+import { bepDoubted } from '../../fit/checks/plausibility.ts';
 import { sharedCurves, sharedCurveSentence } from '../store/target.ts';
 import { h } from '../dom/h.ts';
 import type { Bench } from '../app/bench.ts';
@@ -82,13 +83,16 @@ export function reviewStep(bench: Bench): HTMLElement {
         h('th', { scope: 'col' }, `BEP flow [${unitText(u.flow.label)}]`),
         h('th', { scope: 'col' }, `BEP head [${u.head.label}]`),
         h('th', { scope: 'col' }, 'BEP efficiency [%]'))),
-      h('tbody', null, membersRatedFirst(set).map((m) =>
-        h('tr', { 'data-key': `m-${set.family === 'speed' ? `${m.speed_rpm}rpm` : m.diameter_m}` },
+      h('tbody', null, membersRatedFirst(set).map((m) => {
+        // A BEP the findings doubt (peak not captured, or past the head curve's end) is marked, as the text report does.
+        const doubt = bepDoubted(set.findings, m) ? { class: 'warn', title: 'Not reliable: see the findings on this BEP' } : null;
+        return h('tr', { 'data-key': `m-${set.family === 'speed' ? `${m.speed_rpm}rpm` : m.diameter_m}` },
           h('th', { scope: 'row' }, set.family === 'speed' || m.diameter_m === undefined ? memberName(set, m, u, true) : numIn(m.diameter_m, u.diameter)),
           h('td', null, numIn(m.derived.shutoff_head_m, u.head)),
-          h('td', null, numIn(m.derived.bep?.flow_m3s, u.flow)),
-          h('td', null, numIn(m.derived.bep?.head_m, u.head)),
-          h('td', null, numPercent(m.derived.bep?.efficiency)))))),
+          h('td', doubt, numIn(m.derived.bep?.flow_m3s, u.flow)),
+          h('td', doubt, numIn(m.derived.bep?.head_m, u.head)),
+          h('td', doubt, numPercent(m.derived.bep?.efficiency)));
+      }))),
     dutyPanel(set, bench.duty.form, bench.duty.outcome, session.unitSystem, (patch) => bench.setDuty(patch)),
     recordButtons(bench),
     derived.omitted.length ? h('div', { class: 'omitted' }, h('h4', null, 'Left out for now'), h('ul', null, derived.omitted.map((o) => h('li', null, o)))) : null,
