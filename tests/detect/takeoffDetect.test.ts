@@ -57,6 +57,15 @@ describe('pumpscribe takeoff --detect', () => {
     expect(set2.members.map((m) => m.curves.head?.fit?.coefficients)).toEqual(set.members.map((m) => m.curves.head?.fit?.coefficients));
   });
 
+  it('a speed given that is not the speed the sheet prints is a question, exit 1, written into the take-off', { timeout: 180_000 }, () => {
+    const file = join(dir, 'speed.takeoff.json');
+    writeFileSync(file, JSON.stringify({ ...minimal('sheet.pdf'), pump: { name: 'Invented pump (not a real product)', speed_rpm: 1750 } }, null, 2));
+    const run = pumpscribe('takeoff', file, '--detect', '-o', join(dir, 'speed.curveset.json'), '--save-points', '-q');
+    expect(run.code).toBe(1);
+    expect(run.stderr).toMatch(/^Question: The sheet prints 1780 rpm \(".*1780 rpm.*"\), but the speed given is 1750 rpm; check the pump's speed/m);
+    expect(parseTakeoff(JSON.parse(readFileSync(file, 'utf8'))).detected?.questions.some((q) => /The sheet prints 1780 rpm/.test(q))).toBe(true);
+  });
+
   it('on a scan whose axis titles are not read, refuses in one sentence with exit 2, saying what it asks', { timeout: 60_000 }, () => {
     const file = join(dir, 'scan.takeoff.json');
     writeFileSync(file, JSON.stringify(minimal('scan.jpg')));

@@ -19,7 +19,7 @@ import { findPanels, type FoundPanel } from './panels.ts';
 import { detectRasterTakeoff } from './rasterDetect.ts';
 import type { DetectProgress } from './rasterPanels.ts';
 import type { TextReader } from './rasterText.ts';
-import type { SpeedRead } from './sheetSpeed.ts';
+import { speedOfTextItems, type SpeedRead } from './sheetSpeed.ts';
 
 export const DETECTOR = 'pumpscribe detect 1 (vector sheets)';
 
@@ -64,7 +64,7 @@ export interface DetectedTakeoff {
   document: Record<string, unknown>;
   detection: Detection;
   questions: string[];
-  /** The pump's speed as a scanned sheet prints it (title or footer), when one was read. */
+  /** The pump's speed as the sheet prints it (a vector page's text; a scan's title or footer), when one was read. */
   speedRead?: SpeedRead;
 }
 
@@ -133,7 +133,9 @@ export async function detectTakeoff(input: TakeoffToDetect, raw: Record<string, 
     if (options.reader) return detectRasterTakeoff(input, raw, sheet, options.reader, options.progress);
     throw new TakeoffError(`The automatic take-off reads scans only with a character reader, and this sheet is ${sheet.kind === 'image' ? 'an image' : 'a scanned PDF page'}; give the panels and traces in the take-off file.`);
   }
-  const detection = detectSheet(await sheet.text(), await sheet.paths(), givenValues(input), input.iso_levels);
+  const text = await sheet.text();
+  const detection = detectSheet(text, await sheet.paths(), givenValues(input), input.iso_levels);
+  const speedRead = speedOfTextItems(text.map((t) => t.text));
   const questions = [...detection.questions];
   // Parts the engineer set stay; parts found by an earlier detection are found again.
   const userPanels = (input.panels ?? []).filter((p) => p.origin !== 'detected');
@@ -194,7 +196,7 @@ export async function detectTakeoff(input: TakeoffToDetect, raw: Record<string, 
     detected: { by: DETECTOR, questions },
   };
   const takeoff = parseTakeoff(document);
-  return { takeoff, document, detection, questions };
+  return { takeoff, document, detection, questions, ...(speedRead ? { speedRead } : {}) };
 }
 
 export { describe as describeCurve };

@@ -1,6 +1,6 @@
 /**
  * The pump's speed as the sheet prints it ("1450 rpm", "2950 r/min", "n = 1450 1/min"): read from
- * the text layer of a vector page (the workbench's sheet hints) or, on a scan, from the lines of
+ * the text layer of a vector page (the workbench's sheet hints and the automatic take-off) or, on a scan, from the lines of
  * text above the top plot frame and below the bottom one (title, subtitle, footer), read by the
  * character reader. The speed sets the affinity law's reference and the specific speed, so a
  * speed taken for granted (the workbench's starting value) or mistyped is a wrong number with no
@@ -33,6 +33,14 @@ export function speedsInText(text: string): number[] {
 export function speedInText(text: string): number | undefined {
   const found = [...new Set(speedsInText(text))];
   return found.length === 1 ? found[0] : undefined;
+}
+
+/** The one speed a vector page's text prints (its items joined, since "1480" and "rpm" may be items of their own), with the item it stands in. */
+export function speedOfTextItems(items: readonly string[]): SpeedRead | undefined {
+  const rpm = speedInText(items.join(' \n '));
+  if (rpm === undefined) return undefined;
+  const item = items.find((t) => speedsInText(t).includes(rpm)) ?? items.find((t) => t.includes(String(rpm)));
+  return { rpm, text: (item ?? `${rpm} rpm`).trim() };
 }
 
 /** True when a speed given differs from the speed the sheet prints by more than rounding. */

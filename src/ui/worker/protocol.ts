@@ -56,7 +56,7 @@ export interface DetectAnswer {
   by: string;
   /** Why nothing was added, when nothing was (one sentence), else null. */
   refused: string | null;
-  /** The pump's speed as a scanned sheet prints it, when its title or footer was read. */
+  /** The pump's speed as the sheet prints it (a vector page's text, a scan's title or footer), when one was read. */
   speedRead?: { rpm: number; text: string };
 }
 
