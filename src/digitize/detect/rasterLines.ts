@@ -78,9 +78,22 @@ function predict(t: Track, u: number): number {
 }
 
 /**
+ * The grid's own darkness at a pixel on grid row darkness `row` and grid column darkness `col`
+ * (0 off the grid): where a row and a column cross, the two lines lie one over the other and
+ * each lets through its share of the light, so the crossing is darker than either line,
+ * 1 − (1 − r)(1 − c) in shares of full black. Taking off only the darker of the two left every
+ * crossing of a faint-lined sheet's grid as a dot of ink, and the dots, a grid cell apart,
+ * chained into false lines along the grid rows and across the cells.
+ */
+export function gridDarkness(row: number, col: number): number {
+  return row + col - (row * col) / 255;
+}
+
+/**
  * Runs of ink in column `u` between rows t and b. On a grid row (or column) the grid's own
- * darkness there (`base`, its median along the frame) is taken off first: a line crossing the
- * grid, or running along a grid line, still shows; the grid alone does not.
+ * darkness there (`base`, its median along the frame; both where they cross, gridDarkness) is
+ * taken off first: a line crossing the grid, or running along a grid line, still shows; the
+ * grid alone does not.
  */
 function columnRuns(map: InkMap, u: number, t: number, b: number, base: Float32Array, colBase: number, threshold: number, maxLen: number, holes: readonly (readonly [number, number, number, number])[]): Run[] {
   const here = holes.filter((h) => u >= h[0] && u < h[2]);
@@ -100,7 +113,7 @@ function columnRuns(map: InkMap, u: number, t: number, b: number, base: Float32A
     sv = 0;
   };
   for (let v = t; v < b; v++) {
-    const d = here.some((h) => v >= h[1] && v < h[3]) ? 0 : (ink[v * width + u] as number) - Math.max(colBase, base[v] as number);
+    const d = here.some((h) => v >= h[1] && v < h[3]) ? 0 : (ink[v * width + u] as number) - gridDarkness(base[v] as number, colBase);
     if (d >= threshold) {
       if (start < 0) start = v;
       last = v;
