@@ -242,7 +242,7 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
 
   // Names of the head curves: labels read beside them, else the values given, by order.
   const heads = usable.filter((c) => c.panel.quantity === 'head' && c.kind === 'curve');
-  const named = await nameHeads(heads, labelsAt, page.strong, reader, level, image.scale, options.given, questions, options.note);
+  const named = await nameHeads(heads, labelsAt, page.strong, reader, level, image.scale, options.given, questions, leftOut, options.note);
   // The other panels' curves: the head curve ending at the same flow.
   const others = usable.filter((c) => !heads.includes(c));
   const flowSpan = (c: RasterCurve) => {
@@ -530,6 +530,7 @@ async function nameHeads(
   scale: number,
   given: RasterCurveOptions['given'],
   questions: string[],
+  leftOut: string[],
   note: (line: string) => void = () => undefined,
 ): Promise<{ values: Map<RasterCurve, number>; unit: string | null; family: 'diameter' | 'speed' }> {
   const values = new Map<RasterCurve, number>();
@@ -626,6 +627,24 @@ async function nameHeads(
       c.confidence *= fit ? 0.9 : 0.4;
     });
     if (!fit) questions.push(`The head curves found (top to bottom at ${order.map(where).join(', ')}) do not keep the affinity rule with the values given (${givenValues.join(', ')}): their shut-off heads ${shutOff.map((h) => h.toPrecision(3)).join(', ')} are not near the ratio of the values squared. Is a curve missing, or a value wrong?`);
+    return { values, unit, family: given?.family ?? family };
+  }
+  // As many values given as head curves found, but not the same number: the one matching that
+  // keeps the order and the affinity rule names the curves; what has no partner is said.
+  const matched = givenValues && givenValues.length !== heads.length && !crossing ? matchByAffinity(shutOff, givenValues) : null;
+  if (matched && givenValues) {
+    order.forEach((c, i) => {
+      const v = matched[i];
+      if (v === undefined) return;
+      values.set(c, v);
+      c.value = v;
+      c.named = 'given';
+      c.confidence *= 0.85;
+    });
+    const missing = givenValues.filter((v) => !matched.includes(v));
+    const extra = order.filter((_, i) => matched[i] === undefined);
+    if (missing.length > 0) leftOut.push(`${heads.length} head curve${heads.length === 1 ? '' : 's'} found for the ${givenValues.length} values given; by the affinity rule they are ${matched.join(', ')}, and no head curve was found for ${missing.join(', ')}: trace ${missing.length === 1 ? 'it' : 'them'} by hand.`);
+    if (extra.length > 0) leftOut.push(`${heads.length} lines start at the flow axis of the head panel for the ${givenValues.length} values given; by the affinity rule ${extra.length === 1 ? 'the one' : 'those'} at ${extra.map(where).join(', ')} ${extra.length === 1 ? 'is' : 'are'} not one of them and ${extra.length === 1 ? 'is' : 'are'} left out.`);
     return { values, unit, family: given?.family ?? family };
   }
   const readList = order.map((c) => [...(byCurve.get(c) ?? [])].join(' or ') || '?').join(', ');
@@ -759,6 +778,47 @@ export function affinityHolds(v1: number, h1: number, v2: number, h2: number): b
   if (!(v1 > 0 && v2 > 0 && h1 > 0 && h2 > 0) || v1 === v2) return false;
   const k = Math.log(h1 / h2) / Math.log(v1 / v2);
   return k >= 1.5 && k <= 2.8;
+}
+
+/**
+ * Head curves (their shut-off heads, top to bottom) and the values given when their numbers
+ * differ by one or two: the one matching of curves to values, larger values higher, every
+ * matched pair keeping affinity, with each value on one curve at most and each curve on one
+ * value at most, that matches as many as the fewer of the two. Per curve its value, undefined
+ * for a curve left without one (a line at the flow axis that is no head curve of the family).
+ * Null when fewer than two would be matched, when none fits, or when two matchings fit.
+ */
+export function matchByAffinity(heads: readonly number[], values: readonly number[]): (number | undefined)[] | null {
+  const n = heads.length;
+  const want = Math.min(n, values.length);
+  if (want < 2 || Math.abs(n - values.length) > 2 || values.length === n) return null;
+  const sorted = [...values].sort((a, b) => b - a);
+  const fits: (number | undefined)[][] = [];
+  const pick: (number | undefined)[] = [];
+  // Curve i takes value j or later, or (while curves may still be spared) none.
+  const walk = (i: number, j: number, made: number): void => {
+    if (fits.length > 1) return;
+    if (i === n) {
+      if (made === want) fits.push([...pick]);
+      return;
+    }
+    if (made + (n - i) < want) return;
+    for (let k = j; k < sorted.length; k++) {
+      const v = sorted[k] as number;
+      if (pick.some((u, m) => u !== undefined && !affinityHolds(u, heads[m] as number, v, heads[i] as number))) continue;
+      if (!(heads[i] as number > 0)) continue;
+      pick.push(v);
+      walk(i + 1, k + 1, made + 1);
+      pick.pop();
+    }
+    if (n > values.length) {
+      pick.push(undefined);
+      walk(i + 1, j, made);
+      pick.pop();
+    }
+  };
+  walk(0, 0, 0);
+  return fits.length === 1 ? (fits[0] as (number | undefined)[]) : null;
 }
 
 /**

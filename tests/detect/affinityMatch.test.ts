@@ -1,0 +1,37 @@
+/**
+ * Head curves found and values given that differ in number: the affinity rule (head in
+ * proportion to the diameter squared) matches them, or nothing is named. INVENTED heads.
+ */
+import { describe, expect, it } from 'vitest';
+import { matchByAffinity } from '../../src/digitize/detect/rasterCurves.ts';
+
+const headOf = (d: number) => 0.4 * d * d; // shut-off head of an INVENTED family, m, for a diameter in inches
+
+describe('head curves matched to the values given by affinity', () => {
+  it('three curves for four values: the value with no curve is found, the rest named in order', () => {
+    const values = [15.5, 14.375, 13.375, 12.25];
+    expect(matchByAffinity([15.5, 13.375, 12.25].map(headOf), values)).toEqual([15.5, 13.375, 12.25]);
+    expect(matchByAffinity([15.5, 14.375, 12.25].map(headOf), values)).toEqual([15.5, 14.375, 12.25]);
+    // The top (or bottom) curve missing cannot be told from every name shifted by one (the heads
+    // keep the rule either way, the values being evenly stepped): nothing is named.
+    expect(matchByAffinity([14.375, 13.375, 12.25].map(headOf), values)).toBeNull();
+  });
+
+  it('five lines at the flow axis for four values: the one that is no head curve of the family is left without a value', () => {
+    const values = [10, 9, 8, 7];
+    // A line at a head no diameter of the list gives (the rule would need a 3.3 exponent).
+    const heads = [headOf(10), headOf(9), 0.4 * 8.8 ** 2 * 0.92, headOf(8), headOf(7)];
+    expect(matchByAffinity(heads, values)).toEqual([10, 9, undefined, 8, 7]);
+  });
+
+  it('nothing is named when two matchings fit, when none fits, with one curve only, or when the numbers agree', () => {
+    // Values so close that skipping either middle one keeps the rule: two fits.
+    expect(matchByAffinity([headOf(10), headOf(7)], [10, 9.9, 9.8, 7])).toBeNull();
+    // Heads that break the rule with every value.
+    expect(matchByAffinity([100, 20], [10, 9.5, 9])).toBeNull();
+    expect(matchByAffinity([headOf(10)], [10, 9])).toBeNull();
+    expect(matchByAffinity([headOf(10), headOf(9)], [10, 9])).toBeNull();
+    // A shut-off head not read (no traced line) names nothing.
+    expect(matchByAffinity([headOf(10), NaN, headOf(8)], [10, 9, 8, 7])).toBeNull();
+  });
+});
