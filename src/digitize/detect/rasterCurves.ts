@@ -212,6 +212,9 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     const runOn = { start: far('start') > 0 && carriesOn('start'), end: far('end') > 0 && carriesOn('end') };
     const beyond = (runOn.start ? 0 : far('start')) + (runOn.end ? 0 : far('end'));
     if (beyond > 0.05 * c.traced.length) c.confidence *= 0.5;
+    // Lines that may cross (efficiency, NPSHr): where the tracer carried the line on past its end
+    // along another line found in the frame, the course cannot tell which of the two it kept.
+    if (!spread && ((runOn.start && bunchedRun(past.start, c, curves, tol)) || (runOn.end && bunchedRun(past.end, c, curves, tol)))) c.confidence = Math.min(c.confidence, 0.45);
     // The line's ends, as found here (around the words: the tracer may run on into a label beside
     // the end), or the tracer's where it carried the line on.
     const n0 = c.track.u.length - 1;
@@ -346,6 +349,21 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
   if (twice.length > 0) leftOut.push(`On panel "${twice[0]!.panel.id}" two curves came out as ${twice[0]!.value}; both are left out: trace them by hand.`);
   const curvesOut = out.filter((c) => !twice.includes(c));
   return { curves: curvesOut, labelUnit: named.unit, family: named.family, questions, leftOut, lines: curves };
+}
+
+/**
+ * True when a third or more of `points` (level pixels, the tracer's line carried on past an end
+ * of `c`'s line) lie within `tol` rows of another line found in the same frame: the tracer went
+ * on through a bunch, where keeping to one's course does not tell the lines apart.
+ */
+export function bunchedRun(points: readonly (readonly [number, number])[], c: Pick<RasterCurve, 'track' | 'levelFrame'>, all: readonly Pick<RasterCurve, 'track' | 'levelFrame'>[], tol: number): boolean {
+  if (points.length === 0) return false;
+  const others = all.filter((o) => o !== c && o.levelFrame === c.levelFrame && o.track !== c.track);
+  const near = points.filter(([u, v]) => others.some((o) => {
+    const at = trackAt(o.track, u);
+    return at !== null && Math.abs(at - v) <= tol;
+  })).length;
+  return near >= points.length / 3;
 }
 
 /**

@@ -1,9 +1,11 @@
 /**
- * Head curves found and values given that differ in number: the affinity rule (head in
- * proportion to the diameter squared) matches them, or nothing is named. INVENTED heads.
+ * Naming the curves of a scan: head curves found and values given that differ in number are
+ * matched by the affinity rule (head in proportion to the diameter squared) or not at all; a
+ * crossing line carried on through a bunch is unsure. INVENTED heads and lines.
  */
 import { describe, expect, it } from 'vitest';
-import { matchByAffinity } from '../../src/digitize/detect/rasterCurves.ts';
+import { bunchedRun, matchByAffinity } from '../../src/digitize/detect/rasterCurves.ts';
+import type { Track } from '../../src/digitize/detect/rasterLines.ts';
 
 const headOf = (d: number) => 0.4 * d * d; // shut-off head of an INVENTED family, m, for a diameter in inches
 
@@ -33,5 +35,26 @@ describe('head curves matched to the values given by affinity', () => {
     expect(matchByAffinity([headOf(10), headOf(9)], [10, 9])).toBeNull();
     // A shut-off head not read (no traced line) names nothing.
     expect(matchByAffinity([headOf(10), NaN, headOf(8)], [10, 9, 8, 7])).toBeNull();
+  });
+});
+
+describe("a tracer's line carried on past a line's end through a bunch", () => {
+  const frame = [0, 0, 400, 300] as const;
+  const line = (from: number, to: number, f: (u: number) => number) => {
+    const t: Track = { u: [], v: [], len: [], room: [] };
+    for (let u = from; u <= to; u++) (t.u.push(u + 0.5), t.v.push(f(u + 0.5)));
+    return { track: t, levelFrame: frame };
+  };
+  it('is in a bunch when a third of it runs along another line found in the frame; alone, or along a line of another frame, it is not', () => {
+    const mine = line(100, 300, (u) => 200 - 0.2 * u);
+    const other = line(0, 300, (u) => 182 - 0.15 * u);
+    // Carried on to the left, onto where the other line runs 2 px away.
+    const run = [...Array(30).keys()].map((k) => [70 + k, 182 - 0.15 * (70 + k) + 2] as const);
+    expect(bunchedRun(run, mine, [mine, other], 3)).toBe(true);
+    expect(bunchedRun(run, mine, [mine], 3)).toBe(false);
+    expect(bunchedRun(run, mine, [mine, { ...other, levelFrame: [0, 0, 400, 301] as const }], 3)).toBe(false);
+    const alone = [...Array(30).keys()].map((k) => [70 + k, 200 - 0.2 * (70 + k)] as const);
+    expect(bunchedRun(alone, mine, [mine, other], 3)).toBe(false);
+    expect(bunchedRun([], mine, [mine, other], 3)).toBe(false);
   });
 });
