@@ -4,7 +4,7 @@
  * crossing line carried on through a bunch is unsure. INVENTED heads and lines.
  */
 import { describe, expect, it } from 'vitest';
-import { bunchedRun, matchByAffinity } from '../../src/digitize/detect/rasterCurves.ts';
+import { bunchedRun, courseBreak, matchByAffinity } from '../../src/digitize/detect/rasterCurves.ts';
 import type { Track } from '../../src/digitize/detect/rasterLines.ts';
 
 const headOf = (d: number) => 0.4 * d * d; // shut-off head of an INVENTED family, m, for a diameter in inches
@@ -56,5 +56,26 @@ describe("a tracer's line carried on past a line's end through a bunch", () => {
     const alone = [...Array(30).keys()].map((k) => [70 + k, 200 - 0.2 * (70 + k)] as const);
     expect(bunchedRun(alone, mine, [mine, other], 3)).toBe(false);
     expect(bunchedRun([], mine, [mine, other], 3)).toBe(false);
+  });
+});
+
+describe('a head line that turns off its course', () => {
+  const track = (f: (u: number) => number, from = 0, to = 800) => {
+    const t: Track = { u: [], v: [], len: [], room: [] };
+    for (let u = from; u < to; u++) (t.u.push(u + 0.5), t.v.push(f(u + 0.5)));
+    return t;
+  };
+  const head = (u: number) => 100 + 0.0003 * u * u;
+  it('is cut where it leaves its course onto a line crossing at a shallow angle', () => {
+    // From column 600 on, the line found follows an iso-line falling 0.15 px a column faster.
+    const t = track((u) => (u < 600 ? head(u) : head(u) + 0.15 * (u - 600)));
+    const cut = courseBreak(t, 3, 120);
+    expect(cut).not.toBeNull();
+    expect(t.u[cut!]!).toBeGreaterThan(570);
+    expect(t.u[cut!]!).toBeLessThan(640);
+  });
+  it('is not cut along its own course, nor at a label or crossing a few columns long', () => {
+    expect(courseBreak(track(head), 3, 120)).toBeNull();
+    expect(courseBreak(track((u) => (u > 400 && u < 406 ? head(u) + 9 : head(u))), 3, 120)).toBeNull();
   });
 });

@@ -24,7 +24,7 @@ import type { InkMap, Level } from './ink.ts';
 import type { Box, FoundPanel } from './panels.ts';
 import { END_MATCH_SHARE, endMatch, endReferences, nameByEnds } from './endFlows.ts';
 import { gridLines } from './rasterFrames.ts';
-import { alonePlaces, continuesCourse, frameLines, liesAlong, trackAt, trackOf, type Track } from './rasterLines.ts';
+import { alonePlaces, continuesCourse, frameLines, liesAlong, offCourse, trackAt, trackOf, type Track } from './rasterLines.ts';
 import type { RasterPanelsFound } from './rasterPanels.ts';
 import { inkBlots, readCrops, wordsOf, type Blot, type TextReader } from './rasterText.ts';
 import { curveLabel, SHEET_NUMBER, sheetNumber } from './words.ts';
@@ -170,6 +170,12 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     // Head and power curves of one family do not cross (the larger impeller gives more of both at
     // every flow): their guides may spread over the whole line. Efficiency and NPSHr curves cross.
     const spread = c.kind === 'curve' && (c.quantity === 'head' || c.quantity === 'power');
+    // A head curve's line that turns off its own course (onto an iso-line crossing it at a
+    // shallow angle) ends there: spread guides past the turn would sit on the other line.
+    if (spread && c.quantity === 'head') {
+      const cut = courseBreak(c.track, Math.max(3, 1.5 * width), 0.15 * (c.levelFrame[2] - c.levelFrame[0]));
+      if (cut !== null) c.track = cutTrack(c.track, cut);
+    }
     const { places, trust } = guidePlaces(c.track, width, c.levelFrame[2] - c.levelFrame[0], spread);
     c.confidence *= trust;
     if (places.length === 0) {
@@ -349,6 +355,38 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
   if (twice.length > 0) leftOut.push(`On panel "${twice[0]!.panel.id}" two curves came out as ${twice[0]!.value}; both are left out: trace them by hand.`);
   const curvesOut = out.filter((c) => !twice.includes(c));
   return { curves: curvesOut, labelUnit: named.unit, family: named.family, questions, leftOut, lines: curves };
+}
+
+/**
+ * The first index of the track (looked at every 4 columns, once `reach` columns lie behind) from
+ * which the line leaves the course of the `reach` columns before it (offCourse, robust) for good:
+ * over the next half of `reach` columns, two points in five or more lie farther than `tol` from
+ * the course, and so do all of the last quarter (a label or a crossing on the line, a few columns
+ * long, is no turn). Where
+ * the line turned off onto another; null when it never does.
+ */
+export function courseBreak(t: Track, tol: number, reach: number): number | null {
+  const n = t.u.length;
+  if (n < 16) return null;
+  const u0 = t.u[0] as number;
+  for (let i = 0; i < n; i++) {
+    const u = t.u[i] as number;
+    if (u - u0 < reach || (i > 0 && Math.floor(u / 4) === Math.floor((t.u[i - 1] as number) / 4))) continue;
+    const ahead: [number, number][] = [];
+    for (let k = i + 1; k < n && (t.u[k] as number) - u <= reach / 2; k++) ahead.push([t.u[k] as number, t.v[k] as number]);
+    if (ahead.length < 8) break;
+    const off = offCourse(cutTrack(t, i + 1), 'end', reach, true);
+    if (!off) continue;
+    const far = ahead.map(([au, av]) => off(au, av) > tol);
+    const tail = far.slice(Math.floor(0.75 * far.length));
+    if (far.filter(Boolean).length >= 0.4 * far.length && tail.every(Boolean)) return i + 1;
+  }
+  return null;
+}
+
+/** The track's first `n` columns. */
+function cutTrack(t: Track, n: number): Track {
+  return { u: t.u.slice(0, n), v: t.v.slice(0, n), room: t.room.slice(0, n), len: t.len.slice(0, n), ...(t.joins ? { joins: t.joins.filter((j) => j < n) } : {}) };
 }
 
 /**

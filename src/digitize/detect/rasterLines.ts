@@ -381,8 +381,20 @@ export function alonePlaces(t: Track, room: number, stretch: number, long: numbe
  * False when the track's stretch holds fewer than 8 columns or there is no point to judge.
  */
 export function continuesCourse(t: Track, points: readonly (readonly [number, number])[], side: 'start' | 'end', tol: number, reach: number): boolean {
+  if (points.length === 0) return false;
+  const off = offCourse(t, side, reach);
+  return off !== null && points.every(([u, v]) => off(u, v) <= tol);
+}
+
+/**
+ * The course of the track's last (or first) `reach` columns, a parabola, carried on past that end:
+ * for a point (column, row) past the end, how far it lies from the course less 2 % of its distance
+ * from the end (Infinity before the end or farther than twice `reach` past it). Null when the
+ * stretch holds fewer than 8 columns.
+ */
+export function offCourse(t: Track, side: 'start' | 'end', reach: number, robust = false): ((u: number, v: number) => number) | null {
   const n = t.u.length;
-  if (n === 0 || points.length === 0) return false;
+  if (n === 0) return null;
   const endU = (side === 'end' ? t.u[n - 1] : t.u[0]) as number;
   const sign = side === 'end' ? 1 : -1;
   // v = a + b·x + c·x² over the stretch, x = (u − endU)·sign in units of `reach` (−1 … 0 on the track).
@@ -394,20 +406,33 @@ export function continuesCourse(t: Track, points: readonly (readonly [number, nu
     rows.push([1, x, x * x]);
     vs.push(t.v[i] as number);
   }
-  if (rows.length < 8) return false;
+  if (rows.length < 8) return null;
   let coef: number[];
   try {
     coef = solveLeastSquares(rows, vs).solution;
   } catch {
-    return false;
+    return null;
+  }
+  // Robust: fitted again without the columns more than 2 px off the first fit (a label or a
+  // crossing on the stretch pulls a least-squares course off where it is short).
+  if (robust) {
+    const [a0, b0, c0] = coef as [number, number, number];
+    const keep = rows.map((r, k) => Math.abs(a0 + b0 * (r[1] as number) + c0 * (r[1] as number) ** 2 - (vs[k] as number)) <= 2);
+    if (keep.filter(Boolean).length >= 8 && keep.some((k) => !k)) {
+      try {
+        coef = solveLeastSquares(rows.filter((_, k) => keep[k]), vs.filter((_, k) => keep[k])).solution;
+      } catch {
+        return null;
+      }
+    }
   }
   const [a, b, c] = coef as [number, number, number];
-  return points.every(([u, v]) => {
+  return (u, v) => {
     const d = (u - endU) * sign;
     const x = d / reach;
-    if (d < 0 || x > 2) return false;
-    return Math.abs(a + b * x + c * x * x - v) <= tol + 0.02 * d;
-  });
+    if (d < 0 || x > 2) return Infinity;
+    return Math.abs(a + b * x + c * x * x - v) - 0.02 * d;
+  };
 }
 
 /**
