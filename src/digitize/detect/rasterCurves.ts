@@ -164,6 +164,7 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     if (head) labelsAt.push(...labels.words.map((word) => ({ word, frame, clean: labels.clean, at: labels.at })));
   }
 
+  bandsHaveNoRoom(curves);
   // Guides where each line stands alone, and the tracer's line from them.
   for (const c of curves) {
     const width = Math.max(2, median(c.track.len));
@@ -387,6 +388,20 @@ export function courseBreak(t: Track, tol: number, reach: number): number | null
 /** The track's first `n` columns. */
 function cutTrack(t: Track, n: number): Track {
   return { u: t.u.slice(0, n), v: t.v.slice(0, n), room: t.room.slice(0, n), len: t.len.slice(0, n), ...(t.joins ? { joins: t.joins.filter((j) => j < n) } : {}) };
+}
+
+/**
+ * The width of one line in each frame is the median of its lines' widths; a column where a line's
+ * ink is more than twice that (and a pixel) across is several lines run together (a bunch drawn
+ * as one band), never a line standing alone: its room is set to 0, so no guide goes there.
+ */
+export function bandsHaveNoRoom(curves: Pick<RasterCurve, 'track' | 'levelFrame'>[]): void {
+  const frameWidth = new Map<Box, number>();
+  for (const f of new Set(curves.map((c) => c.levelFrame))) frameWidth.set(f, median(curves.filter((c) => c.levelFrame === f).map((c) => median(c.track.len))));
+  for (const c of curves) {
+    const most = 2 * Math.max(2, frameWidth.get(c.levelFrame) as number) + 1;
+    if (c.track.len.some((k) => k > most)) c.track = { ...c.track, room: c.track.room.map((r, i) => ((c.track.len[i] as number) > most ? 0 : r)) };
+  }
 }
 
 /**

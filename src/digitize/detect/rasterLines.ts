@@ -338,7 +338,7 @@ export function trackAt(t: Track, u: number): number | null {
 
 /**
  * Places for guides where the track's ink stood alone (at least `room` rows from any other ink,
- * columns no more than 8 apart), on stretches of at least `stretch` columns. On the longest
+ * columns no more than 8 apart, no step off the line's course between them), on stretches of at least `stretch` columns. On the longest
  * stretch: one place in its middle, or two at a quarter and three quarters of it when it is
  * longer than `long` columns. With `spread` (lines that never cross one another), also the
  * middle of every other stretch of the same piece (never across a join), up to `most` places
@@ -348,8 +348,16 @@ export function trackAt(t: Track, u: number): number | null {
 export function alonePlaces(t: Track, room: number, stretch: number, long: number, spread = false, most = 5): { u: number; v: number }[] {
   const spans: [number, number][] = [];
   let s = -1;
+  // A step off the course of the columns before (the finder passed onto another line across a
+  // short gap) ends a stretch as a gap does: guides on either side could sit on two lines.
+  const stepOff = (i: number): boolean => {
+    if (i < 5) return false;
+    const du = (t.u[i] as number) - (t.u[i - 1] as number);
+    const slope = ((t.v[i - 1] as number) - (t.v[i - 5] as number)) / ((t.u[i - 1] as number) - (t.u[i - 5] as number));
+    return Math.abs((t.v[i] as number) - (t.v[i - 1] as number) - slope * du) > 2.5 + 0.2 * du;
+  };
   for (let i = 0; i <= t.u.length; i++) {
-    const ok = i < t.u.length && (t.room[i] as number) >= room && (s < 0 || (t.u[i] as number) - (t.u[i - 1] as number) <= 8);
+    const ok = i < t.u.length && (t.room[i] as number) >= room && (s < 0 || ((t.u[i] as number) - (t.u[i - 1] as number) <= 8 && !stepOff(i)));
     if (ok && s < 0) s = i;
     if (!ok && s >= 0) {
       if ((t.u[i - 1] as number) - (t.u[s] as number) >= stretch) spans.push([s, i - 1]);
