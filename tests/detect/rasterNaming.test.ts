@@ -4,8 +4,8 @@
  * crossing line carried on through a bunch is unsure. INVENTED heads and lines.
  */
 import { describe, expect, it } from 'vitest';
-import { bunchedRun, courseBreak, matchByAffinity } from '../../src/digitize/detect/rasterCurves.ts';
-import type { Track } from '../../src/digitize/detect/rasterLines.ts';
+import { bandsHaveNoRoom, bunchedRun, courseBreak, matchByAffinity } from '../../src/digitize/detect/rasterCurves.ts';
+import { alonePlaces, type Track } from '../../src/digitize/detect/rasterLines.ts';
 
 const headOf = (d: number) => 0.4 * d * d; // shut-off head of an INVENTED family, m, for a diameter in inches
 
@@ -77,5 +77,33 @@ describe('a head line that turns off its course', () => {
   it('is not cut along its own course, nor at a label or crossing a few columns long', () => {
     expect(courseBreak(track(head), 3, 120)).toBeNull();
     expect(courseBreak(track((u) => (u > 400 && u < 406 ? head(u) + 9 : head(u))), 3, 120)).toBeNull();
+  });
+});
+
+describe('guides never in a band of lines run together, nor across a step onto another line', () => {
+  const frame = [0, 0, 600, 300] as const;
+  const lineOf = (n: number, len: (u: number) => number, v: (u: number) => number = (u) => 150 - 0.1 * u) => {
+    const t: Track = { u: [], v: [], len: [], room: [] };
+    for (let u = 0; u < n; u++) (t.u.push(u + 0.5), t.v.push(v(u + 0.5)), t.len.push(len(u)), t.room.push(Infinity));
+    return t;
+  };
+  it('a line whose ink is a band five lines wide over its first half gets guides only on its second half', () => {
+    const band = { track: lineOf(500, (u) => (u < 250 ? 12 : 2)), levelFrame: frame };
+    const others = [1, 2, 3].map(() => ({ track: lineOf(300, () => 2), levelFrame: frame }));
+    const curves = [band, ...others];
+    bandsHaveNoRoom(curves);
+    const places = alonePlaces(band.track, 8, 8, 90);
+    expect(places.length).toBeGreaterThan(0);
+    for (const p of places) expect(p.u).toBeGreaterThan(250);
+    for (const o of others) expect(o.track.room.every((r) => r === Infinity)).toBe(true);
+  });
+  it('a line that steps 9 px onto another across a short gap has its guides on one side of the step', () => {
+    const t = lineOf(500, () => 2, (u) => (u < 300 ? 150 - 0.1 * u : 150 - 0.1 * u - 9));
+    const places = alonePlaces(t, 8, 8, 90);
+    expect(places.length).toBe(2);
+    expect(places.every((p) => p.u < 300) || places.every((p) => p.u > 300)).toBe(true);
+    // Without the step, the guides lie a quarter and three quarters along the whole line.
+    const smooth = alonePlaces(lineOf(500, () => 2), 8, 8, 90);
+    expect(smooth.some((p) => p.u < 300) && smooth.some((p) => p.u > 300)).toBe(true);
   });
 });
