@@ -4,7 +4,8 @@
  * crossing line carried on through a bunch is unsure. INVENTED heads and lines.
  */
 import { describe, expect, it } from 'vitest';
-import { bandsHaveNoRoom, bunchedRun, courseBreak, matchByAffinity } from '../../src/digitize/detect/rasterCurves.ts';
+import { bandsHaveNoRoom, bunchedRun, courseBreak, matchByAffinity, missingCurves } from '../../src/digitize/detect/rasterCurves.ts';
+import type { FoundPanel } from '../../src/digitize/detect/panels.ts';
 import { alonePlaces, type Track } from '../../src/digitize/detect/rasterLines.ts';
 
 const headOf = (d: number) => 0.4 * d * d; // shut-off head of an INVENTED family, m, for a diameter in inches
@@ -105,5 +106,21 @@ describe('guides never in a band of lines run together, nor across a step onto a
     // Without the step, the guides lie a quarter and three quarters along the whole line.
     const smooth = alonePlaces(lineOf(500, () => 2), 8, 8, 90);
     expect(smooth.some((p) => p.u < 300) && smooth.some((p) => p.u > 300)).toBe(true);
+  });
+});
+
+describe('curves missing on a panel', () => {
+  it('each panel other than the head panel says which of the values named has no curve on it', () => {
+    const panel = (id: string, quantity: FoundPanel['quantity']) => ({ id, quantity }) as FoundPanel;
+    const head = panel('head', 'head');
+    const eff = panel('efficiency', 'efficiency');
+    const power = panel('power', 'power');
+    const curves = [{ panel: eff, value: 13.125 }, ...[14, 13.125, 12.375, 11.5].map((value) => ({ panel: power, value }))];
+    const out = missingCurves([head, eff, power], curves, [14, 13.125, 12.375, 11.5]);
+    expect(out).toHaveLength(1);
+    expect(out[0]).toContain('"efficiency"');
+    expect(out[0]).toContain('14, 12.375, 11.5');
+    expect(missingCurves([head, power], curves, [14, 13.125, 12.375, 11.5])).toEqual([]);
+    expect(missingCurves([head, eff], [], [14])).toHaveLength(1);
   });
 });

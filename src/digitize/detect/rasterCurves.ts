@@ -355,6 +355,10 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
   const twice = out.filter((c) => out.some((o) => o !== c && o.panel === c.panel && o.value === c.value));
   if (twice.length > 0) leftOut.push(`On panel "${twice[0]!.panel.id}" two curves came out as ${twice[0]!.value}; both are left out: trace them by hand.`);
   const curvesOut = out.filter((c) => !twice.includes(c));
+  // Every value named on the head panel (or given) should have its curve on each other panel
+  // found: what has none is said, so that a curve missing is never missing in silence.
+  const known = [...new Set([...named.values.values(), ...(options.given && options.given.family === named.family ? options.given.values : [])])].sort((a, b) => b - a);
+  if (known.length > 0) leftOut.push(...missingCurves(framesOf(found).flatMap((f) => f.panels), curvesOut, known));
   return { curves: curvesOut, labelUnit: named.unit, family: named.family, questions, leftOut, lines: curves };
 }
 
@@ -402,6 +406,21 @@ export function bandsHaveNoRoom(curves: Pick<RasterCurve, 'track' | 'levelFrame'
     const most = 2 * Math.max(2, frameWidth.get(c.levelFrame) as number) + 1;
     if (c.track.len.some((k) => k > most)) c.track = { ...c.track, room: c.track.room.map((r, i) => ((c.track.len[i] as number) > most ? 0 : r)) };
   }
+}
+
+/**
+ * One sentence per panel other than the head panel (each found panel with a quantity) that has
+ * no curve for some of the values `known` (named on the head panel, or given): which ones.
+ */
+export function missingCurves(panels: readonly FoundPanel[], curves: readonly Pick<RasterCurve, 'panel' | 'value'>[], known: readonly number[]): string[] {
+  const out: string[] = [];
+  for (const p of panels) {
+    if (p.quantity === null || p.quantity === 'head') continue;
+    const missing = known.filter((v) => !curves.some((c) => c.panel === p && c.value === v));
+    if (missing.length === 0) continue;
+    out.push(`On panel "${p.id}" no ${QUANTITY_WORDS[p.quantity]} curve was found for ${missing.join(', ')}: trace ${missing.length === 1 ? 'it' : 'them'} by hand if the sheet draws ${missing.length === 1 ? 'it' : 'them'}.`);
+  }
+  return out;
 }
 
 /**
