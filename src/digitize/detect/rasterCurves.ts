@@ -24,7 +24,7 @@ import type { InkMap, Level } from './ink.ts';
 import type { Box, FoundPanel } from './panels.ts';
 import { END_MATCH_SHARE, endMatch, endReferences, nameByEnds } from './endFlows.ts';
 import { gridLines } from './rasterFrames.ts';
-import { alonePlaces, continuesCourse, frameLines, liesAlong, trackAt, trackOf, type Track } from './rasterLines.ts';
+import { alonePlaces, continuesCourse, frameLines, liesAlong, offCourse, trackAt, trackOf, type Track } from './rasterLines.ts';
 import type { RasterPanelsFound } from './rasterPanels.ts';
 import { inkBlots, readCrops, wordsOf, type Blot, type TextReader } from './rasterText.ts';
 import { curveLabel, SHEET_NUMBER, sheetNumber } from './words.ts';
@@ -164,12 +164,19 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     if (head) labelsAt.push(...labels.words.map((word) => ({ word, frame, clean: labels.clean, at: labels.at })));
   }
 
+  bandsHaveNoRoom(curves);
   // Guides where each line stands alone, and the tracer's line from them.
   for (const c of curves) {
     const width = Math.max(2, median(c.track.len));
     // Head and power curves of one family do not cross (the larger impeller gives more of both at
     // every flow): their guides may spread over the whole line. Efficiency and NPSHr curves cross.
     const spread = c.kind === 'curve' && (c.quantity === 'head' || c.quantity === 'power');
+    // A head curve's line that turns off its own course (onto an iso-line crossing it at a
+    // shallow angle) ends there: spread guides past the turn would sit on the other line.
+    if (spread && c.quantity === 'head') {
+      const cut = courseBreak(c.track, Math.max(3, 1.5 * width), 0.15 * (c.levelFrame[2] - c.levelFrame[0]));
+      if (cut !== null) c.track = cutTrack(c.track, cut);
+    }
     const { places, trust } = guidePlaces(c.track, width, c.levelFrame[2] - c.levelFrame[0], spread);
     c.confidence *= trust;
     if (places.length === 0) {
@@ -212,6 +219,9 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     const runOn = { start: far('start') > 0 && carriesOn('start'), end: far('end') > 0 && carriesOn('end') };
     const beyond = (runOn.start ? 0 : far('start')) + (runOn.end ? 0 : far('end'));
     if (beyond > 0.05 * c.traced.length) c.confidence *= 0.5;
+    // Lines that may cross (efficiency, NPSHr): where the tracer carried the line on past its end
+    // along another line found in the frame, the course cannot tell which of the two it kept.
+    if (!spread && ((runOn.start && bunchedRun(past.start, c, curves, tol)) || (runOn.end && bunchedRun(past.end, c, curves, tol)))) c.confidence = Math.min(c.confidence, 0.45);
     // The line's ends, as found here (around the words: the tracer may run on into a label beside
     // the end), or the tracer's where it carried the line on.
     const n0 = c.track.u.length - 1;
@@ -242,7 +252,7 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
 
   // Names of the head curves: labels read beside them, else the values given, by order.
   const heads = usable.filter((c) => c.panel.quantity === 'head' && c.kind === 'curve');
-  const named = await nameHeads(heads, labelsAt, page.strong, reader, level, image.scale, options.given, questions, options.note);
+  const named = await nameHeads(heads, labelsAt, page.strong, reader, level, image.scale, options.given, questions, leftOut, options.note);
   // The other panels' curves: the head curve ending at the same flow.
   const others = usable.filter((c) => !heads.includes(c));
   const flowSpan = (c: RasterCurve) => {
@@ -345,7 +355,87 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
   const twice = out.filter((c) => out.some((o) => o !== c && o.panel === c.panel && o.value === c.value));
   if (twice.length > 0) leftOut.push(`On panel "${twice[0]!.panel.id}" two curves came out as ${twice[0]!.value}; both are left out: trace them by hand.`);
   const curvesOut = out.filter((c) => !twice.includes(c));
+  // Every value named on the head panel (or given) should have its curve on each other panel
+  // found: what has none is said, so that a curve missing is never missing in silence.
+  const known = [...new Set([...named.values.values(), ...(options.given && options.given.family === named.family ? options.given.values : [])])].sort((a, b) => b - a);
+  if (known.length > 0) leftOut.push(...missingCurves(framesOf(found).flatMap((f) => f.panels), curvesOut, known));
   return { curves: curvesOut, labelUnit: named.unit, family: named.family, questions, leftOut, lines: curves };
+}
+
+/**
+ * The first index of the track (looked at every 4 columns, once `reach` columns lie behind) from
+ * which the line leaves the course of the `reach` columns before it (offCourse, robust) for good:
+ * over the next half of `reach` columns, two points in five or more lie farther than `tol` from
+ * the course, and so do all of the last quarter (a label or a crossing on the line, a few columns
+ * long, is no turn). Where
+ * the line turned off onto another; null when it never does.
+ */
+export function courseBreak(t: Track, tol: number, reach: number): number | null {
+  const n = t.u.length;
+  if (n < 16) return null;
+  const u0 = t.u[0] as number;
+  for (let i = 0; i < n; i++) {
+    const u = t.u[i] as number;
+    if (u - u0 < reach || (i > 0 && Math.floor(u / 4) === Math.floor((t.u[i - 1] as number) / 4))) continue;
+    const ahead: [number, number][] = [];
+    for (let k = i + 1; k < n && (t.u[k] as number) - u <= reach / 2; k++) ahead.push([t.u[k] as number, t.v[k] as number]);
+    if (ahead.length < 8) break;
+    const off = offCourse(cutTrack(t, i + 1), 'end', reach, true);
+    if (!off) continue;
+    const far = ahead.map(([au, av]) => off(au, av) > tol);
+    const tail = far.slice(Math.floor(0.75 * far.length));
+    if (far.filter(Boolean).length >= 0.4 * far.length && tail.every(Boolean)) return i + 1;
+  }
+  return null;
+}
+
+/** The track's first `n` columns. */
+function cutTrack(t: Track, n: number): Track {
+  return { u: t.u.slice(0, n), v: t.v.slice(0, n), room: t.room.slice(0, n), len: t.len.slice(0, n), ...(t.joins ? { joins: t.joins.filter((j) => j < n) } : {}) };
+}
+
+/**
+ * The width of one line in each frame is the median of its lines' widths; a column where a line's
+ * ink is more than twice that (and a pixel) across is several lines run together (a bunch drawn
+ * as one band), never a line standing alone: its room is set to 0, so no guide goes there.
+ */
+export function bandsHaveNoRoom(curves: Pick<RasterCurve, 'track' | 'levelFrame'>[]): void {
+  const frameWidth = new Map<Box, number>();
+  for (const f of new Set(curves.map((c) => c.levelFrame))) frameWidth.set(f, median(curves.filter((c) => c.levelFrame === f).map((c) => median(c.track.len))));
+  for (const c of curves) {
+    const most = 2 * Math.max(2, frameWidth.get(c.levelFrame) as number) + 1;
+    if (c.track.len.some((k) => k > most)) c.track = { ...c.track, room: c.track.room.map((r, i) => ((c.track.len[i] as number) > most ? 0 : r)) };
+  }
+}
+
+/**
+ * One sentence per panel other than the head panel (each found panel with a quantity) that has
+ * no curve for some of the values `known` (named on the head panel, or given): which ones.
+ */
+export function missingCurves(panels: readonly FoundPanel[], curves: readonly Pick<RasterCurve, 'panel' | 'value'>[], known: readonly number[]): string[] {
+  const out: string[] = [];
+  for (const p of panels) {
+    if (p.quantity === null || p.quantity === 'head') continue;
+    const missing = known.filter((v) => !curves.some((c) => c.panel === p && c.value === v));
+    if (missing.length === 0) continue;
+    out.push(`On panel "${p.id}" no ${QUANTITY_WORDS[p.quantity]} curve was found for ${missing.join(', ')}: trace ${missing.length === 1 ? 'it' : 'them'} by hand if the sheet draws ${missing.length === 1 ? 'it' : 'them'}.`);
+  }
+  return out;
+}
+
+/**
+ * True when a third or more of `points` (level pixels, the tracer's line carried on past an end
+ * of `c`'s line) lie within `tol` rows of another line found in the same frame: the tracer went
+ * on through a bunch, where keeping to one's course does not tell the lines apart.
+ */
+export function bunchedRun(points: readonly (readonly [number, number])[], c: Pick<RasterCurve, 'track' | 'levelFrame'>, all: readonly Pick<RasterCurve, 'track' | 'levelFrame'>[], tol: number): boolean {
+  if (points.length === 0) return false;
+  const others = all.filter((o) => o !== c && o.levelFrame === c.levelFrame && o.track !== c.track);
+  const near = points.filter(([u, v]) => others.some((o) => {
+    const at = trackAt(o.track, u);
+    return at !== null && Math.abs(at - v) <= tol;
+  })).length;
+  return near >= points.length / 3;
 }
 
 /**
@@ -530,6 +620,7 @@ async function nameHeads(
   scale: number,
   given: RasterCurveOptions['given'],
   questions: string[],
+  leftOut: string[],
   note: (line: string) => void = () => undefined,
 ): Promise<{ values: Map<RasterCurve, number>; unit: string | null; family: 'diameter' | 'speed' }> {
   const values = new Map<RasterCurve, number>();
@@ -626,6 +717,24 @@ async function nameHeads(
       c.confidence *= fit ? 0.9 : 0.4;
     });
     if (!fit) questions.push(`The head curves found (top to bottom at ${order.map(where).join(', ')}) do not keep the affinity rule with the values given (${givenValues.join(', ')}): their shut-off heads ${shutOff.map((h) => h.toPrecision(3)).join(', ')} are not near the ratio of the values squared. Is a curve missing, or a value wrong?`);
+    return { values, unit, family: given?.family ?? family };
+  }
+  // As many values given as head curves found, but not the same number: the one matching that
+  // keeps the order and the affinity rule names the curves; what has no partner is said.
+  const matched = givenValues && givenValues.length !== heads.length && !crossing ? matchByAffinity(shutOff, givenValues) : null;
+  if (matched && givenValues) {
+    order.forEach((c, i) => {
+      const v = matched[i];
+      if (v === undefined) return;
+      values.set(c, v);
+      c.value = v;
+      c.named = 'given';
+      c.confidence *= 0.85;
+    });
+    const missing = givenValues.filter((v) => !matched.includes(v));
+    const extra = order.filter((_, i) => matched[i] === undefined);
+    if (missing.length > 0) leftOut.push(`${heads.length} head curve${heads.length === 1 ? '' : 's'} found for the ${givenValues.length} values given; by the affinity rule they are ${matched.join(', ')}, and no head curve was found for ${missing.join(', ')}: trace ${missing.length === 1 ? 'it' : 'them'} by hand.`);
+    if (extra.length > 0) leftOut.push(`${heads.length} lines start at the flow axis of the head panel for the ${givenValues.length} values given; by the affinity rule ${extra.length === 1 ? 'the one' : 'those'} at ${extra.map(where).join(', ')} ${extra.length === 1 ? 'is' : 'are'} not one of them and ${extra.length === 1 ? 'is' : 'are'} left out.`);
     return { values, unit, family: given?.family ?? family };
   }
   const readList = order.map((c) => [...(byCurve.get(c) ?? [])].join(' or ') || '?').join(', ');
@@ -759,6 +868,47 @@ export function affinityHolds(v1: number, h1: number, v2: number, h2: number): b
   if (!(v1 > 0 && v2 > 0 && h1 > 0 && h2 > 0) || v1 === v2) return false;
   const k = Math.log(h1 / h2) / Math.log(v1 / v2);
   return k >= 1.5 && k <= 2.8;
+}
+
+/**
+ * Head curves (their shut-off heads, top to bottom) and the values given when their numbers
+ * differ by one or two: the one matching of curves to values, larger values higher, every
+ * matched pair keeping affinity, with each value on one curve at most and each curve on one
+ * value at most, that matches as many as the fewer of the two. Per curve its value, undefined
+ * for a curve left without one (a line at the flow axis that is no head curve of the family).
+ * Null when fewer than two would be matched, when none fits, or when two matchings fit.
+ */
+export function matchByAffinity(heads: readonly number[], values: readonly number[]): (number | undefined)[] | null {
+  const n = heads.length;
+  const want = Math.min(n, values.length);
+  if (want < 2 || Math.abs(n - values.length) > 2 || values.length === n) return null;
+  const sorted = [...values].sort((a, b) => b - a);
+  const fits: (number | undefined)[][] = [];
+  const pick: (number | undefined)[] = [];
+  // Curve i takes value j or later, or (while curves may still be spared) none.
+  const walk = (i: number, j: number, made: number): void => {
+    if (fits.length > 1) return;
+    if (i === n) {
+      if (made === want) fits.push([...pick]);
+      return;
+    }
+    if (made + (n - i) < want) return;
+    for (let k = j; k < sorted.length; k++) {
+      const v = sorted[k] as number;
+      if (pick.some((u, m) => u !== undefined && !affinityHolds(u, heads[m] as number, v, heads[i] as number))) continue;
+      if (!(heads[i] as number > 0)) continue;
+      pick.push(v);
+      walk(i + 1, k + 1, made + 1);
+      pick.pop();
+    }
+    if (n > values.length) {
+      pick.push(undefined);
+      walk(i + 1, j, made);
+      pick.pop();
+    }
+  };
+  walk(0, 0, 0);
+  return fits.length === 1 ? (fits[0] as (number | undefined)[]) : null;
 }
 
 /**

@@ -78,9 +78,22 @@ function predict(t: Track, u: number): number {
 }
 
 /**
+ * The grid's own darkness at a pixel on grid row darkness `row` and grid column darkness `col`
+ * (0 off the grid): where a row and a column cross, the two lines lie one over the other and
+ * each lets through its share of the light, so the crossing is darker than either line,
+ * 1 − (1 − r)(1 − c) in shares of full black. Taking off only the darker of the two left every
+ * crossing of a faint-lined sheet's grid as a dot of ink, and the dots, a grid cell apart,
+ * chained into false lines along the grid rows and across the cells.
+ */
+export function gridDarkness(row: number, col: number): number {
+  return row + col - (row * col) / 255;
+}
+
+/**
  * Runs of ink in column `u` between rows t and b. On a grid row (or column) the grid's own
- * darkness there (`base`, its median along the frame) is taken off first: a line crossing the
- * grid, or running along a grid line, still shows; the grid alone does not.
+ * darkness there (`base`, its median along the frame; both where they cross, gridDarkness) is
+ * taken off first: a line crossing the grid, or running along a grid line, still shows; the
+ * grid alone does not.
  */
 function columnRuns(map: InkMap, u: number, t: number, b: number, base: Float32Array, colBase: number, threshold: number, maxLen: number, holes: readonly (readonly [number, number, number, number])[]): Run[] {
   const here = holes.filter((h) => u >= h[0] && u < h[2]);
@@ -100,7 +113,7 @@ function columnRuns(map: InkMap, u: number, t: number, b: number, base: Float32A
     sv = 0;
   };
   for (let v = t; v < b; v++) {
-    const d = here.some((h) => v >= h[1] && v < h[3]) ? 0 : (ink[v * width + u] as number) - Math.max(colBase, base[v] as number);
+    const d = here.some((h) => v >= h[1] && v < h[3]) ? 0 : (ink[v * width + u] as number) - gridDarkness(base[v] as number, colBase);
     if (d >= threshold) {
       if (start < 0) start = v;
       last = v;
@@ -325,7 +338,7 @@ export function trackAt(t: Track, u: number): number | null {
 
 /**
  * Places for guides where the track's ink stood alone (at least `room` rows from any other ink,
- * columns no more than 8 apart), on stretches of at least `stretch` columns. On the longest
+ * columns no more than 8 apart, no step off the line's course between them), on stretches of at least `stretch` columns. On the longest
  * stretch: one place in its middle, or two at a quarter and three quarters of it when it is
  * longer than `long` columns. With `spread` (lines that never cross one another), also the
  * middle of every other stretch of the same piece (never across a join), up to `most` places
@@ -335,8 +348,16 @@ export function trackAt(t: Track, u: number): number | null {
 export function alonePlaces(t: Track, room: number, stretch: number, long: number, spread = false, most = 5): { u: number; v: number }[] {
   const spans: [number, number][] = [];
   let s = -1;
+  // A step off the course of the columns before (the finder passed onto another line across a
+  // short gap) ends a stretch as a gap does: guides on either side could sit on two lines.
+  const stepOff = (i: number): boolean => {
+    if (i < 5) return false;
+    const du = (t.u[i] as number) - (t.u[i - 1] as number);
+    const slope = ((t.v[i - 1] as number) - (t.v[i - 5] as number)) / ((t.u[i - 1] as number) - (t.u[i - 5] as number));
+    return Math.abs((t.v[i] as number) - (t.v[i - 1] as number) - slope * du) > 2.5 + 0.2 * du;
+  };
   for (let i = 0; i <= t.u.length; i++) {
-    const ok = i < t.u.length && (t.room[i] as number) >= room && (s < 0 || (t.u[i] as number) - (t.u[i - 1] as number) <= 8);
+    const ok = i < t.u.length && (t.room[i] as number) >= room && (s < 0 || ((t.u[i] as number) - (t.u[i - 1] as number) <= 8 && !stepOff(i)));
     if (ok && s < 0) s = i;
     if (!ok && s >= 0) {
       if ((t.u[i - 1] as number) - (t.u[s] as number) >= stretch) spans.push([s, i - 1]);
@@ -368,8 +389,20 @@ export function alonePlaces(t: Track, room: number, stretch: number, long: numbe
  * False when the track's stretch holds fewer than 8 columns or there is no point to judge.
  */
 export function continuesCourse(t: Track, points: readonly (readonly [number, number])[], side: 'start' | 'end', tol: number, reach: number): boolean {
+  if (points.length === 0) return false;
+  const off = offCourse(t, side, reach);
+  return off !== null && points.every(([u, v]) => off(u, v) <= tol);
+}
+
+/**
+ * The course of the track's last (or first) `reach` columns, a parabola, carried on past that end:
+ * for a point (column, row) past the end, how far it lies from the course less 2 % of its distance
+ * from the end (Infinity before the end or farther than twice `reach` past it). Null when the
+ * stretch holds fewer than 8 columns.
+ */
+export function offCourse(t: Track, side: 'start' | 'end', reach: number, robust = false): ((u: number, v: number) => number) | null {
   const n = t.u.length;
-  if (n === 0 || points.length === 0) return false;
+  if (n === 0) return null;
   const endU = (side === 'end' ? t.u[n - 1] : t.u[0]) as number;
   const sign = side === 'end' ? 1 : -1;
   // v = a + b·x + c·x² over the stretch, x = (u − endU)·sign in units of `reach` (−1 … 0 on the track).
@@ -381,20 +414,33 @@ export function continuesCourse(t: Track, points: readonly (readonly [number, nu
     rows.push([1, x, x * x]);
     vs.push(t.v[i] as number);
   }
-  if (rows.length < 8) return false;
+  if (rows.length < 8) return null;
   let coef: number[];
   try {
     coef = solveLeastSquares(rows, vs).solution;
   } catch {
-    return false;
+    return null;
+  }
+  // Robust: fitted again without the columns more than 2 px off the first fit (a label or a
+  // crossing on the stretch pulls a least-squares course off where it is short).
+  if (robust) {
+    const [a0, b0, c0] = coef as [number, number, number];
+    const keep = rows.map((r, k) => Math.abs(a0 + b0 * (r[1] as number) + c0 * (r[1] as number) ** 2 - (vs[k] as number)) <= 2);
+    if (keep.filter(Boolean).length >= 8 && keep.some((k) => !k)) {
+      try {
+        coef = solveLeastSquares(rows.filter((_, k) => keep[k]), vs.filter((_, k) => keep[k])).solution;
+      } catch {
+        return null;
+      }
+    }
   }
   const [a, b, c] = coef as [number, number, number];
-  return points.every(([u, v]) => {
+  return (u, v) => {
     const d = (u - endU) * sign;
     const x = d / reach;
-    if (d < 0 || x > 2) return false;
-    return Math.abs(a + b * x + c * x * x - v) <= tol + 0.02 * d;
-  });
+    if (d < 0 || x > 2) return Infinity;
+    return Math.abs(a + b * x + c * x * x - v) - 0.02 * d;
+  };
 }
 
 /**

@@ -1,0 +1,126 @@
+/**
+ * Naming the curves of a scan: head curves found and values given that differ in number are
+ * matched by the affinity rule (head in proportion to the diameter squared) or not at all; a
+ * crossing line carried on through a bunch is unsure. INVENTED heads and lines.
+ */
+import { describe, expect, it } from 'vitest';
+import { bandsHaveNoRoom, bunchedRun, courseBreak, matchByAffinity, missingCurves } from '../../src/digitize/detect/rasterCurves.ts';
+import type { FoundPanel } from '../../src/digitize/detect/panels.ts';
+import { alonePlaces, type Track } from '../../src/digitize/detect/rasterLines.ts';
+
+const headOf = (d: number) => 0.4 * d * d; // shut-off head of an INVENTED family, m, for a diameter in inches
+
+describe('head curves matched to the values given by affinity', () => {
+  it('three curves for four values: the value with no curve is found, the rest named in order', () => {
+    const values = [15.5, 14.375, 13.375, 12.25];
+    expect(matchByAffinity([15.5, 13.375, 12.25].map(headOf), values)).toEqual([15.5, 13.375, 12.25]);
+    expect(matchByAffinity([15.5, 14.375, 12.25].map(headOf), values)).toEqual([15.5, 14.375, 12.25]);
+    // The top (or bottom) curve missing cannot be told from every name shifted by one (the heads
+    // keep the rule either way, the values being evenly stepped): nothing is named.
+    expect(matchByAffinity([14.375, 13.375, 12.25].map(headOf), values)).toBeNull();
+  });
+
+  it('five lines at the flow axis for four values: the one that is no head curve of the family is left without a value', () => {
+    const values = [10, 9, 8, 7];
+    // A line at a head no diameter of the list gives (the rule would need a 3.3 exponent).
+    const heads = [headOf(10), headOf(9), 0.4 * 8.8 ** 2 * 0.92, headOf(8), headOf(7)];
+    expect(matchByAffinity(heads, values)).toEqual([10, 9, undefined, 8, 7]);
+  });
+
+  it('nothing is named when two matchings fit, when none fits, with one curve only, or when the numbers agree', () => {
+    // Values so close that skipping either middle one keeps the rule: two fits.
+    expect(matchByAffinity([headOf(10), headOf(7)], [10, 9.9, 9.8, 7])).toBeNull();
+    // Heads that break the rule with every value.
+    expect(matchByAffinity([100, 20], [10, 9.5, 9])).toBeNull();
+    expect(matchByAffinity([headOf(10)], [10, 9])).toBeNull();
+    expect(matchByAffinity([headOf(10), headOf(9)], [10, 9])).toBeNull();
+    // A shut-off head not read (no traced line) names nothing.
+    expect(matchByAffinity([headOf(10), NaN, headOf(8)], [10, 9, 8, 7])).toBeNull();
+  });
+});
+
+describe("a tracer's line carried on past a line's end through a bunch", () => {
+  const frame = [0, 0, 400, 300] as const;
+  const line = (from: number, to: number, f: (u: number) => number) => {
+    const t: Track = { u: [], v: [], len: [], room: [] };
+    for (let u = from; u <= to; u++) (t.u.push(u + 0.5), t.v.push(f(u + 0.5)));
+    return { track: t, levelFrame: frame };
+  };
+  it('is in a bunch when a third of it runs along another line found in the frame; alone, or along a line of another frame, it is not', () => {
+    const mine = line(100, 300, (u) => 200 - 0.2 * u);
+    const other = line(0, 300, (u) => 182 - 0.15 * u);
+    // Carried on to the left, onto where the other line runs 2 px away.
+    const run = [...Array(30).keys()].map((k) => [70 + k, 182 - 0.15 * (70 + k) + 2] as const);
+    expect(bunchedRun(run, mine, [mine, other], 3)).toBe(true);
+    expect(bunchedRun(run, mine, [mine], 3)).toBe(false);
+    expect(bunchedRun(run, mine, [mine, { ...other, levelFrame: [0, 0, 400, 301] as const }], 3)).toBe(false);
+    const alone = [...Array(30).keys()].map((k) => [70 + k, 200 - 0.2 * (70 + k)] as const);
+    expect(bunchedRun(alone, mine, [mine, other], 3)).toBe(false);
+    expect(bunchedRun([], mine, [mine, other], 3)).toBe(false);
+  });
+});
+
+describe('a head line that turns off its course', () => {
+  const track = (f: (u: number) => number, from = 0, to = 800) => {
+    const t: Track = { u: [], v: [], len: [], room: [] };
+    for (let u = from; u < to; u++) (t.u.push(u + 0.5), t.v.push(f(u + 0.5)));
+    return t;
+  };
+  const head = (u: number) => 100 + 0.0003 * u * u;
+  it('is cut where it leaves its course onto a line crossing at a shallow angle', () => {
+    // From column 600 on, the line found follows an iso-line falling 0.15 px a column faster.
+    const t = track((u) => (u < 600 ? head(u) : head(u) + 0.15 * (u - 600)));
+    const cut = courseBreak(t, 3, 120);
+    expect(cut).not.toBeNull();
+    expect(t.u[cut!]!).toBeGreaterThan(570);
+    expect(t.u[cut!]!).toBeLessThan(640);
+  });
+  it('is not cut along its own course, nor at a label or crossing a few columns long', () => {
+    expect(courseBreak(track(head), 3, 120)).toBeNull();
+    expect(courseBreak(track((u) => (u > 400 && u < 406 ? head(u) + 9 : head(u))), 3, 120)).toBeNull();
+  });
+});
+
+describe('guides never in a band of lines run together, nor across a step onto another line', () => {
+  const frame = [0, 0, 600, 300] as const;
+  const lineOf = (n: number, len: (u: number) => number, v: (u: number) => number = (u) => 150 - 0.1 * u) => {
+    const t: Track = { u: [], v: [], len: [], room: [] };
+    for (let u = 0; u < n; u++) (t.u.push(u + 0.5), t.v.push(v(u + 0.5)), t.len.push(len(u)), t.room.push(Infinity));
+    return t;
+  };
+  it('a line whose ink is a band five lines wide over its first half gets guides only on its second half', () => {
+    const band = { track: lineOf(500, (u) => (u < 250 ? 12 : 2)), levelFrame: frame };
+    const others = [1, 2, 3].map(() => ({ track: lineOf(300, () => 2), levelFrame: frame }));
+    const curves = [band, ...others];
+    bandsHaveNoRoom(curves);
+    const places = alonePlaces(band.track, 8, 8, 90);
+    expect(places.length).toBeGreaterThan(0);
+    for (const p of places) expect(p.u).toBeGreaterThan(250);
+    for (const o of others) expect(o.track.room.every((r) => r === Infinity)).toBe(true);
+  });
+  it('a line that steps 9 px onto another across a short gap has its guides on one side of the step', () => {
+    const t = lineOf(500, () => 2, (u) => (u < 300 ? 150 - 0.1 * u : 150 - 0.1 * u - 9));
+    const places = alonePlaces(t, 8, 8, 90);
+    expect(places.length).toBe(2);
+    expect(places.every((p) => p.u < 300) || places.every((p) => p.u > 300)).toBe(true);
+    // Without the step, the guides lie a quarter and three quarters along the whole line.
+    const smooth = alonePlaces(lineOf(500, () => 2), 8, 8, 90);
+    expect(smooth.some((p) => p.u < 300) && smooth.some((p) => p.u > 300)).toBe(true);
+  });
+});
+
+describe('curves missing on a panel', () => {
+  it('each panel other than the head panel says which of the values named has no curve on it', () => {
+    const panel = (id: string, quantity: FoundPanel['quantity']) => ({ id, quantity }) as FoundPanel;
+    const head = panel('head', 'head');
+    const eff = panel('efficiency', 'efficiency');
+    const power = panel('power', 'power');
+    const curves = [{ panel: eff, value: 13.125 }, ...[14, 13.125, 12.375, 11.5].map((value) => ({ panel: power, value }))];
+    const out = missingCurves([head, eff, power], curves, [14, 13.125, 12.375, 11.5]);
+    expect(out).toHaveLength(1);
+    expect(out[0]).toContain('"efficiency"');
+    expect(out[0]).toContain('14, 12.375, 11.5');
+    expect(missingCurves([head, power], curves, [14, 13.125, 12.375, 11.5])).toEqual([]);
+    expect(missingCurves([head, eff], [], [14])).toHaveLength(1);
+  });
+});
