@@ -1030,9 +1030,10 @@ function extendToEnds(
         // once where it entered it, and followed into it again).
         const past = upTo === all.length ? 0 : Math.hypot((all[all.length - 1] as Px)[0] - (base[base.length - 1] as Px)[0], (all[all.length - 1] as Px)[1] - (base[base.length - 1] as Px)[1]);
         again = reacquire(image, style, base, maxGap + past, frame, counter, past);
-        // Past the bunch only within a gap of it: ink along the cut course (the bunch itself) would
-        // carry the search on far beyond.
-        if (again?.far && upTo < all.length) again = undefined;
+        // Past the bunch only within a gap of it (ink along the cut course, the bunch itself, would
+        // carry the search on far beyond),
+        // and, as a line taken up beyond a bunch, running on along that course with the same ink.
+        if (again && upTo < all.length && (again.far || !runsOn(base)(again))) again = undefined;
         if (again) {
           kept = upTo;
           break;
