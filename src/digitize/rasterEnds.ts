@@ -363,6 +363,10 @@ const BUNCH_INK_SHARE = 0.7;
  */
 const LONE_TURN = 0.08;
 
+/** Most extra distance, pixels and line widths (the larger), that `LONE_TURN` adds to the course's tolerance. */
+const LONE_MAX_PX = 8;
+const LONE_MAX_WIDTHS = 4;
+
 /** What `throughBunch` found beyond a bunch: where the line stands apart again, and how far along the course (index). */
 export interface BeyondBunch {
   at: Px;
@@ -415,7 +419,7 @@ export function throughBunch(
     const c = course[k] as CoursePoint;
     if (k > 0) along += step;
     // A run alone in a wide window may lie off the predicted course by a few degrees more.
-    const alone = c.allowed + LONE_TURN * along;
+    const alone = c.allowed + Math.min(LONE_TURN * along, Math.max(LONE_MAX_PX, LONE_MAX_WIDTHS * w));
     const n = Math.ceil((alone + separation + 2 * w + 2) / spacing);
     const section = new Float64Array(2 * n + 1);
     const nx = -c.tangent[1];
@@ -424,6 +428,9 @@ export function throughBunch(
     else sampleSection(image, style.model, c.at[0], c.at[1], nx, ny, n, spacing, section, counter);
     const found = findRuns(section, n, spacing, style.threshold, runs).filter((r) => r.mass >= lo);
     if (found.some((r) => r.start - alone <= 0 && r.end + alone >= 0) || inkAt(c.at)) inked++;
+    // A line lost in a bunch has the bunch's ink on its course from where it was lost; paper
+    // there is the line's own end, and the course is read no farther.
+    if (k + 1 === quiet && inked < BUNCH_INK_SHARE * quiet) return undefined;
     const tolerance = Math.max(1, 0.5 * w) + 0.1 * step * (k - lastGood);
     // On a line already seen apart: the run that continues it (its own gaps, a crossing grid line
     // or a faint stretch are passed over for a short while; a line beside it ends the stretch).

@@ -1022,7 +1022,7 @@ function extendToEnds(
       // Looked for again along the line's course from before the last follow ran into other ink
       // of its colour for good (inside a bunch the follower keeps to the bunch's middle, and that
       // course leads out of it between the lines), else from where the follow was cut.
-      const cutMerge = mergedFrom < all.length && mergedFrom >= all.length - out.length + 2 && pathLength(all, mergedFrom - 1) >= Math.max(MERGE_CUT_PX, MERGE_CUT_WIDTHS * style.width);
+      const cutMerge = style.width <= BUNCH_MODEL_PX && mergedFrom < all.length && mergedFrom >= all.length - out.length + 2 && pathLength(all, mergedFrom - 1) >= Math.max(MERGE_CUT_PX, MERGE_CUT_WIDTHS * style.width);
       for (const upTo of cutMerge ? [mergedFrom, all.length] : [all.length]) {
         const base = upTo === all.length ? all : all.slice(0, upTo);
         if (base.length < 2) continue;
@@ -1041,8 +1041,10 @@ function extendToEnds(
         // Not found again alone on its course: the line may run on inside a bunch (lines of its
         // colour running together with it or crossing it at a shallow angle). It is carried on
         // along its course and taken up where it stands apart again, with a doubt.
+        // A model as wide as a bunch (sampled where the lines run together) tells no line in it apart.
+        if (style.width > BUNCH_MODEL_PX) continue;
         const from = base[base.length - 1] as Px;
-        const course = courseAhead(base, from, tangentAt(base, base.length - 1, 1), style, maxGap, Math.max(BUNCH_REACH_PX, 2 * maxGap)).filter((c) => !frame || insideFramePx(c.at, frame, image.scale, style.width));
+        const course = courseAhead(base, from, tangentAt(base, base.length - 1, 1), style, maxGap, BUNCH_REACH_PX).filter((c) => !frame || insideFramePx(c.at, frame, image.scale, style.width));
         beyond = throughBunch(image, style, inImage(image, course), counter, (p) => inkOnCourse(image, style, p, counter), runsOn(base));
         if (beyond) {
           kept = upTo;
@@ -1126,8 +1128,11 @@ function inImage(image: RasterImage, course: readonly CoursePoint[]): CoursePoin
 const MERGE_CUT_PX = 30;
 const MERGE_CUT_WIDTHS = 10;
 
-/** Least length, pixels, of course along which a line lost in a bunch is looked for where it stands apart again. */
+/** Length, pixels, of course along which a line lost in a bunch is looked for where it stands apart again. */
 const BUNCH_REACH_PX = 300;
+
+/** Widest line model, pixels, that a line is carried through a bunch with: drawn curves are a few pixels wide at 300 dpi. */
+const BUNCH_MODEL_PX = 8;
 
 /** Reach, pixels and line widths (the model's, often a bunch's), of the course ahead on which a line's width is measured again. */
 const AHEAD_PX = 60;
