@@ -2,7 +2,7 @@
  * The line model each raster efficiency and NPSHr trace of the random bed keeps, against the
  * drawn line's colour: where the colour kept is of another hue than the drawn line's, the model
  * was sampled on a neighbour or a bunch. Prints one row a trace (seed, id, drawn colour, kept
- * colour, the cosine between the two colours' offsets from the paper, kept width, covered
+ * colour, the cosine between the two colours' chroma (NaN for a grey line), kept width, covered
  * share of the drawn line):
  *
  *   RB_SHEETS=40 RB_SEED=1 npx tsx scripts/rbunchModel.ts
@@ -37,9 +37,12 @@ for (let seed = first; seed < first + count; seed++) {
     const frame = takeoff.panels.find((p) => p.id === trace.panel)?.frame;
     const got = traceRaster(image, trace.guides.map(([x, y]) => sheetPoint(x, y)), { ...(frame ? { frame } : {}), siblings: siblings.filter((_, k) => k !== index) });
     const hex = line.style.colour;
-    const drawn = [1, 3, 5].map((i) => parseInt(hex.slice(i, i + 2), 16) - 255);
-    const kept = got.line.colour.map((v, i) => v - (got.line.paper[i] as number));
-    const dot = drawn.reduce((s, v, i) => s + v * (kept[i] as number), 0) / (Math.hypot(...drawn) * Math.hypot(...kept) || 1);
+    // Hue compared on the chroma alone (each colour less its grey mean): a grey line has none.
+    const chroma = (c: readonly number[]) => c.map((v) => v - (c[0]! + c[1]! + c[2]!) / 3);
+    const drawn = chroma([1, 3, 5].map((i) => parseInt(hex.slice(i, i + 2), 16)));
+    const kept = chroma(got.line.colour);
+    const norm = Math.hypot(...drawn) * Math.hypot(...kept);
+    const dot = norm > 0 ? drawn.reduce((s, v, i) => s + v * (kept[i] as number), 0) / norm : NaN;
     const ks = got.points.map((p) => nearest(truth, p as unknown as readonly [number, number]).k);
     const from = ks.length ? Math.min(...ks) : 0;
     const to = ks.length ? Math.max(...ks) : 0;
