@@ -335,3 +335,155 @@ export function solidFrom(image: RasterImage, style: LineStyle, followed: readon
   });
   return best;
 }
+
+/**
+ * Sections of a line seen apart from the others in a row, in line widths and at least in pixels
+ * of course, before it counts as out of the bunch: the lines of a bunch part gradually, and a
+ * single clean section is as often a gap between two of them.
+ */
+const APART_WIDTHS = 6;
+const APART_PX = 15;
+
+/** Least distance, in line widths and at least in pixels, between the line and any other ink beside it for the line to stand apart. */
+const APART_SEPARATION_WIDTHS = 2.5;
+const APART_SEPARATION_PX = 4;
+
+/**
+ * Least share of the sections between a trace's end and where the line is taken up again that
+ * must show ink on the course: a line followed through a bunch has ink all along it; one that
+ * ended and has empty paper ahead has none, and is not carried on.
+ */
+const BUNCH_INK_SHARE = 0.7;
+
+/**
+ * Extra distance off the predicted course, per pixel along it (about 5°), within which a run of the
+ * line's colour that is the only one in its section is taken for the line: over a long bunch
+ * the course predicted from before it drifts from the line, and on a coloured sheet the other
+ * lines of the bunch do not show in the line's colour at all.
+ */
+const LONE_TURN = 0.08;
+
+/** Most extra distance, pixels and line widths (the larger), that `LONE_TURN` adds to the course's tolerance. */
+const LONE_MAX_PX = 8;
+const LONE_MAX_WIDTHS = 4;
+
+/** What `throughBunch` found beyond a bunch: where the line stands apart again, and how far along the course (index). */
+export interface BeyondBunch {
+  at: Px;
+  heading: Px;
+  index: number;
+}
+
+/**
+ * Where a line that ran into a bunch (lines of its colour running together with it, or crossing
+ * it at a shallow angle) comes out of it, found by continuity of course: along the course
+ * predicted from where the line was seen last (`course`, its tolerance growing with the
+ * distance), each section across it is read for runs of the line's colour. Inside the bunch the
+ * runs near the course are wider than the line (lines merged) or several close together; where
+ * the lines part, the run nearest the course is of about the line's width and no other ink lies
+ * within `APART_SEPARATION_WIDTHS` of it. The line counts as out of the bunch when that holds
+ * for `APART_WIDTHS` in a row, the run's offset moving smoothly, and the nearest run is clearly
+ * nearer the course than any other (else nothing tells which of the parting lines it is, and the
+ * search ends: a stop with its doubt beats a wrong line). Undefined as well when the course
+ * shows no bunch (paper ahead: the line ended), and when the lines have not parted within the
+ * course. The ink model carries the colour: on a coloured sheet only lines of about the line's
+ * colour show in the sections.
+ */
+export function throughBunch(
+  image: RasterImage,
+  style: LineStyle,
+  course: readonly CoursePoint[],
+  counter: ReadCounter,
+  inkAt: (p: Px) => boolean,
+  holds: (found: BeyondBunch) => boolean,
+): BeyondBunch | undefined {
+  if (course.length < 2) return undefined;
+  const spacing = style.width < 2.5 ? 0.5 : 1;
+  const runs: Run[] = [];
+  const w = style.width;
+  const step = Math.hypot((course[1] as CoursePoint).at[0] - (course[0] as CoursePoint).at[0], (course[1] as CoursePoint).at[1] - (course[0] as CoursePoint).at[1]) || 1;
+  const need = Math.max(3, Math.ceil(Math.max(APART_PX, APART_WIDTHS * w) / step));
+  const separation = Math.max(APART_SEPARATION_PX, APART_SEPARATION_WIDTHS * w);
+  const lo = 0.5 * w;
+  const hi = 1.5 * w;
+  let inked = 0;
+  let apart = 0;
+  let firstApart = -1;
+  let lastOffset = 0;
+  let firstOffset = 0;
+  let lastGood = -1;
+  // Sections in a row with nothing in view that a line standing apart may pass (its own gaps).
+  const quiet = Math.max(2, Math.ceil(Math.max(12, 4 * w, 2 * (style.reach ?? 0)) / step));
+  let along = 0;
+  for (let k = 0; k < course.length; k++) {
+    const c = course[k] as CoursePoint;
+    if (k > 0) along += step;
+    // A run alone in a wide window may lie off the predicted course by a few degrees more.
+    const alone = c.allowed + Math.min(LONE_TURN * along, Math.max(LONE_MAX_PX, LONE_MAX_WIDTHS * w));
+    const n = Math.ceil((alone + separation + 2 * w + 2) / spacing);
+    const section = new Float64Array(2 * n + 1);
+    const nx = -c.tangent[1];
+    const ny = c.tangent[0];
+    if (style.reach) sampleLongSection(image, style.model, c.at[0], c.at[1], nx, ny, n, spacing, style.reach, section, counter);
+    else sampleSection(image, style.model, c.at[0], c.at[1], nx, ny, n, spacing, section, counter);
+    const found = findRuns(section, n, spacing, style.threshold, runs).filter((r) => r.mass >= lo);
+    if (found.some((r) => r.start - alone <= 0 && r.end + alone >= 0) || inkAt(c.at)) inked++;
+    // A line lost in a bunch has the bunch's ink on its course from where it was lost; paper
+    // there is the line's own end, and the course is read no farther.
+    if (k + 1 === quiet && inked < BUNCH_INK_SHARE * quiet) return undefined;
+    const tolerance = Math.max(1, 0.5 * w) + 0.1 * step * (k - lastGood);
+    // On a line already seen apart: the run that continues it (its own gaps, a crossing grid line
+    // or a faint stretch are passed over for a short while; a line beside it ends the stretch).
+    if (apart > 0) {
+      let next: Run | undefined;
+      for (const r of found) if (Math.abs(r.centre - lastOffset) <= tolerance && (!next || Math.abs(r.centre - lastOffset) < Math.abs(next.centre - lastOffset))) next = r;
+      const n2 = next;
+      const beside = n2 !== undefined && found.some((r) => r !== n2 && Math.abs(r.centre - n2.centre) < separation && r.mass >= lo);
+      if (beside) {
+        apart = 0;
+        firstApart = -1;
+        continue;
+      }
+      if (!n2 || n2.mass > hi) {
+        if (k - lastGood > quiet) {
+          apart = 0;
+          firstApart = -1;
+        }
+        continue;
+      }
+      lastOffset = n2.centre;
+      lastGood = k;
+      apart++;
+    } else {
+      // The run nearest the course, and the nearest other ink to it and to the course.
+      let best: Run | undefined;
+      for (const r of found) if (!best || Math.abs(r.centre) < Math.abs(best.centre)) best = r;
+      if (!best) continue;
+      const b = best;
+      const others = found.filter((r) => r !== b);
+      const rival = others.reduce((m, r) => Math.min(m, Math.abs(r.centre)), Infinity);
+      // Off the course by more than its tolerance only when no other line is in view.
+      const reach = others.every((r) => r.mass < lo) ? alone : c.allowed;
+      if (Math.abs(b.centre) > reach || b.mass < lo || b.mass > hi) continue;
+      if (others.some((r) => Math.abs(r.centre - b.centre) < separation)) continue;
+      if (rival - Math.abs(b.centre) < Math.max(1.5 * w, 2)) continue;
+      firstApart = k;
+      firstOffset = b.centre;
+      lastOffset = b.centre;
+      lastGood = k;
+      apart = 1;
+    }
+    if (apart >= need) {
+      // A bunch passed on the way: ink on the course most of the way to where the line stands apart.
+      if (firstApart < 2 || inked < BUNCH_INK_SHARE * (k + 1)) return undefined;
+      const at = course[firstApart] as CoursePoint;
+      const found: BeyondBunch = { at: [at.at[0] - at.tangent[1] * firstOffset, at.at[1] + at.tangent[0] * firstOffset], heading: at.tangent, index: firstApart };
+      if (holds(found)) return found;
+      // Not a line that runs on from there (a fragment, a letter, a line too faint to follow):
+      // looked for farther along the course.
+      apart = 0;
+      firstApart = -1;
+    }
+  }
+  return undefined;
+}

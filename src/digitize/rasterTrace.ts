@@ -21,7 +21,7 @@ import { findRuns, inkAxis, membershipAt, sampleInkSection, sampleLongSection, s
 import { sheetPoint, type SheetPoint } from './points.ts';
 import type { RasterImage } from './raster.ts';
 import { alongBand } from './rasterBand.ts';
-import { dashReach, restyleAhead, restyleAlong, solidFrom, type CoursePoint } from './rasterEnds.ts';
+import { dashReach, restyleAhead, restyleAlong, solidFrom, throughBunch, type BeyondBunch, type CoursePoint } from './rasterEnds.ts';
 import { brokenWhereUncovered, chromaticInk, onGridLine } from './rasterFaint.ts';
 import { cutFollow, foreignGuides, foreignRun, type Locate, type RoomAt } from './rasterSiblings.ts';
 
@@ -1001,14 +1001,74 @@ function extendToEnds(
       // together with others of its colour (a bunch): a neighbour may have been taken for it.
       const crowded = doubts.some((d) => d.what === 'bunch-end') ? undefined : crowdedAt(image, style, smooth, counter);
       if (crowded) doubts.push({ at: crowded, what: 'bunch-end' });
+      // Where the last follow ran into other ink of the line's colour for good (a merge it did not
+      // come out of): the course there is the bunch's, not the line's.
+      const mergedFrom = result.merges.length > 0 && (result.merges[result.merges.length - 1] as number) - 1 < smooth.length ? all.length + Math.max(0, (result.merges[result.merges.length - 1] as number) - 1) : all.length;
       all.push(...smooth);
       out.push(...smooth);
       // The follower left the frame or the image on the line's own course: the line ends there.
       if (smooth.length === inside.length && (inside.length < result.points.length / 2 - 1 || result.reason === 'the line runs off the image')) break;
       // Otherwise the line was lost (its end, or another line or a grid line that the follower
       // took for it): look for it again further along its own course.
-      const again = reacquire(image, style, all, maxGap, frame, counter);
+      // A line taken up beyond a bunch runs on from there for a piece's length, along the course
+      // from before the bunch (near it and about parallel) and with the same ink.
+      const runsOn = (base: readonly Px[]) => (found: { at: Px; heading: Px }) => {
+        const probe = pairs(followLine(image, style, found.at, found.heading, undefined, { maxGap: 2 * stepping(style.width).step, maxTravel: 2 * pieceLength(style.width) }, counter).points);
+        return pathLength(probe, 0) >= pieceLength(style.width) && continuesAcross(base, probe, style, image, counter) === 'on';
+      };
+      let again: ReturnType<typeof reacquire>;
+      let beyond: BeyondBunch | undefined;
+      let kept = all.length;
+      // Looked for again along the line's course from before the last follow ran into other ink
+      // of its colour for good (inside a bunch the follower keeps to the bunch's middle, and that
+      // course leads out of it between the lines), else from where the follow was cut.
+      const cutMerge = style.width <= BUNCH_MODEL_PX && mergedFrom < all.length && mergedFrom >= all.length - out.length + 2 && pathLength(all, mergedFrom - 1) >= Math.max(MERGE_CUT_PX, MERGE_CUT_WIDTHS * style.width);
+      for (const upTo of cutMerge ? [mergedFrom, all.length] : [all.length]) {
+        const base = upTo === all.length ? all : all.slice(0, upTo);
+        if (base.length < 2) continue;
+        // From the cut course, only past the bunch the follow ran into (the line is seen again at
+        // once where it entered it, and followed into it again).
+        const past = upTo === all.length ? 0 : Math.hypot((all[all.length - 1] as Px)[0] - (base[base.length - 1] as Px)[0], (all[all.length - 1] as Px)[1] - (base[base.length - 1] as Px)[1]);
+        again = reacquire(image, style, base, maxGap + past, frame, counter, past);
+        // Past the bunch only within a gap of it (ink along the cut course, the bunch itself, would
+        // carry the search on far beyond),
+        // and, as a line taken up beyond a bunch, running on along that course with the same ink.
+        if (again && upTo < all.length && (again.far || !runsOn(base)(again))) again = undefined;
+        if (again) {
+          kept = upTo;
+          break;
+        }
+        // Not found again alone on its course: the line may run on inside a bunch (lines of its
+        // colour running together with it or crossing it at a shallow angle). It is carried on
+        // along its course and taken up where it stands apart again, with a doubt.
+        // A model as wide as a bunch (sampled where the lines run together) tells no line in it apart.
+        if (style.width > BUNCH_MODEL_PX) continue;
+        const from = base[base.length - 1] as Px;
+        const course = courseAhead(base, from, tangentAt(base, base.length - 1, 1), style, maxGap, BUNCH_REACH_PX).filter((c) => !frame || insideFramePx(c.at, frame, image.scale, style.width));
+        beyond = throughBunch(image, style, inImage(image, course), counter, (p) => inkOnCourse(image, style, p, counter), runsOn(base));
+        if (beyond) {
+          kept = upTo;
+          break;
+        }
+      }
+      if (!again && !beyond) break;
+      const cut = kept < all.length;
+      out.length -= all.length - kept;
+      all.length = kept;
+      if (beyond) {
+        const last = all[all.length - 1] as Px;
+        resumed = out.length;
+        const carried = bridge(last, tangentAt(all, all.length - 1, 1), beyond.at, beyond.heading, stepping(style.width).step);
+        if (!doubts.some((d) => d.what === 'bunch-end')) doubts.push({ at: last, what: 'bunch-end' });
+        all.push(...carried, beyond.at);
+        out.push(...carried, beyond.at);
+        end = beyond.at;
+        heading = beyond.heading;
+        continue;
+      }
       if (!again) break;
+      // Taken up past a bunch on the course from before it: nothing vouches that it came out on its own line.
+      if (cut && !doubts.some((d) => d.what === 'bunch-end')) doubts.push({ at: all[all.length - 1] as Px, what: 'bunch-end' });
       // Found beyond a gap's length (past what hid it): another line of its colour close beside
       // the place would have passed the same test.
       if (again.far && !doubts.some((d) => d.what === 'gap-beside')) {
@@ -1039,12 +1099,12 @@ function extendToEnds(
  * (a trace of a single guide lost at once), each with the distance off the course that
  * `keepSmooth` would allow there.
  */
-function courseAhead(all: readonly Px[], end: Px, heading: Px, style: LineStyle, maxGap: number): CoursePoint[] {
+function courseAhead(all: readonly Px[], end: Px, heading: Px, style: LineStyle, maxGap: number, length?: number): CoursePoint[] {
   const window = smoothWindow(style.width);
   const course = parabolaThrough(all, window);
   const { step } = stepping(style.width);
   const limit = smoothLimit(style);
-  const reach = Math.min(maxGap, Math.max(AHEAD_PX, AHEAD_WIDTHS * style.width));
+  const reach = length ?? Math.min(maxGap, Math.max(AHEAD_PX, AHEAD_WIDTHS * style.width));
   const out: CoursePoint[] = [];
   for (let d = 2 * step; d <= reach; d += step) {
     const [at, tangent] = course ? course(d) : [[end[0] + d * heading[0], end[1] + d * heading[1]] as Px, heading];
@@ -1054,6 +1114,25 @@ function courseAhead(all: readonly Px[], end: Px, heading: Px, style: LineStyle,
   }
   return out;
 }
+
+/** The course points that lie inside the image (a section there reads only pixels of the image), up to the first that does not. */
+function inImage(image: RasterImage, course: readonly CoursePoint[]): CoursePoint[] {
+  const k = course.findIndex((c) => c.at[0] < 1 || c.at[1] < 1 || c.at[0] > image.width - 1 || c.at[1] > image.height - 1);
+  return k < 0 ? [...course] : course.slice(0, k);
+}
+
+/**
+ * Least length, pixels and line widths, of the stretch a follow ran inside a bunch for its
+ * course to be taken from before it: a shorter stretch bends the course little.
+ */
+const MERGE_CUT_PX = 30;
+const MERGE_CUT_WIDTHS = 10;
+
+/** Length, pixels, of course along which a line lost in a bunch is looked for where it stands apart again. */
+const BUNCH_REACH_PX = 300;
+
+/** Widest line model, pixels, that a line is carried through a bunch with: drawn curves are a few pixels wide at 300 dpi. */
+const BUNCH_MODEL_PX = 8;
 
 /** Reach, pixels and line widths (the model's, often a bunch's), of the course ahead on which a line's width is measured again. */
 const AHEAD_PX = 60;
@@ -1139,7 +1218,7 @@ const MAX_REACQUIRE = 4;
  * beyond `maxGap` must start right after that ink and head along the course (`FAR_TURN`), and
  * `far` says so. Undefined when nothing qualifies.
  */
-function reacquire(image: RasterImage, style: LineStyle, all: readonly Px[], maxGap: number, frame: readonly [number, number, number, number] | undefined, counter: ReadCounter): { at: Px; heading: Px; far: boolean } | undefined {
+function reacquire(image: RasterImage, style: LineStyle, all: readonly Px[], maxGap: number, frame: readonly [number, number, number, number] | undefined, counter: ReadCounter, beyond = 0): { at: Px; heading: Px; far: boolean } | undefined {
   const window = smoothWindow(style.width);
   const course = parabolaThrough(all, window);
   if (!course) return undefined;
@@ -1165,6 +1244,9 @@ function reacquire(image: RasterImage, style: LineStyle, all: readonly Px[], max
       // A stretch of ink along the course, not a line across it: what hides the line.
       if (inkTo - inkFrom >= Math.max(10, 4 * style.width)) reach = Math.min(farthest, Math.max(reach, inkTo + maxGap));
     }
+    // Within `beyond` of the end only ink on the course is noted (a line taken up there would be
+    // the bunch the trace was cut back from).
+    if (d < beyond) continue;
     const allowed = limit + 0.03 * Math.max(0, d - window / 4);
     const n = Math.min(maxN, Math.ceil((allowed + 2 * style.width + 2) / spacing));
     const nx = -t[1];
@@ -1520,6 +1602,7 @@ function fitParabola(all: readonly Px[], window: number): { last: Px; ux: number
     length += Math.hypot(b[0] - a[0], b[1] - a[1]);
     k--;
   }
+  if (all.length < 2) return undefined;
   const first = all[k] as Px;
   const last = all[all.length - 1] as Px;
   const chord = Math.hypot(last[0] - first[0], last[1] - first[1]);

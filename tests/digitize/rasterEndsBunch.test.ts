@@ -1,0 +1,40 @@
+import { describe, expect, it } from 'vitest';
+import { traceRaster } from '../../src/digitize/rasterTrace.ts';
+import { sheetPoint } from '../../src/digitize/points.ts';
+import { picture, stroke } from './rasterPictures.ts';
+
+// Two lines of one colour that meet at a shallow angle and run together for longer than the
+// follower bridges on its prediction alone (its gap, 50 line widths), then part again.
+const guided = (x: number) => 200 + 0.0002 * (x - 40) ** 2; // bends gently down, y down
+const other = (x: number) => guided(x) - 0.035 * (x - 330); // crosses it at x = 330, about 2°
+
+describe('a whole-line trace through a bunch', () => {
+  it('follows the guided line through a shallow crossing to its far end, with a doubt naming the bunch', () => {
+    const image = picture(640, 320, (ctx) => {
+      stroke(ctx, guided, 40, 600, '#222222', 2);
+      stroke(ctx, other, 60, 600, '#222222', 2);
+    });
+    const got = traceRaster(image, [sheetPoint(80, guided(80)), sheetPoint(120, guided(120))]);
+    const xs = got.points.map((p) => p[0]);
+    expect(Math.max(...xs)).toBeGreaterThan(585);
+    expect(Math.min(...xs)).toBeLessThan(55);
+    // On the guided line all along, the far side included (the other line lies 8 px off at x = 560).
+    for (const p of got.points) if (p[0] > 460) expect(Math.abs(p[1] - guided(p[0]))).toBeLessThan(2);
+    expect(got.doubts.map((d) => d.code)).toContain('takeoff.end-through-bunch');
+  });
+
+  it('stops where the lines part evenly about its course, rather than pick one', () => {
+    // The guided line runs straight; two lines leave the bunch one each side of it, and the
+    // guided line itself ends inside the bunch: nothing tells which one is its continuation.
+    const straight = (x: number) => 200;
+    const image = picture(640, 320, (ctx) => {
+      stroke(ctx, straight, 40, 330, '#222222', 2);
+      stroke(ctx, (x) => 200 - 0.02 * (x - 300) * (x > 300 ? 1 : 0), 250, 600, '#222222', 2);
+      stroke(ctx, (x) => 200 + 0.02 * (x - 300) * (x > 300 ? 1 : 0), 250, 600, '#222222', 2);
+    });
+    const got = traceRaster(image, [sheetPoint(80, 200), sheetPoint(120, 200)]);
+    // It stops in the bunch: on neither branch beyond it.
+    expect(Math.max(...got.points.map((p) => p[0]))).toBeLessThan(400);
+    expect(Math.min(...got.points.map((p) => p[0]))).toBeLessThan(55);
+  });
+});
