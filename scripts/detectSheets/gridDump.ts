@@ -1,15 +1,15 @@
 /**
  * The grid of one bed scan's frames against the lines found there (a tool for reading the line
- * finder, rdetect4): grid rows and columns found, and the ink around a few grid crossings.
+ * finder): grid rows and columns found, and the ink around a few grid crossings.
  *
- *   npx tsx scripts/rdetect4-grid.ts 16
+ *   npx tsx scripts/detectSheets/gridDump.ts 16
  */
-import { loadImageSheetNode } from '../src/digitize/loaders/imageNode.ts';
-import { closeTextReaderNode, textReaderNode } from '../src/digitize/loaders/ocrNode.ts';
-import { findRasterPanels } from '../src/digitize/detect/rasterPanels.ts';
-import { gridLines } from '../src/digitize/detect/rasterFrames.ts';
-import { frameLines } from '../src/digitize/detect/rasterLines.ts';
-import { scanFor } from './detectSheets/scanBed.ts';
+import { loadImageSheetNode } from '../../src/digitize/loaders/imageNode.ts';
+import { closeTextReaderNode, textReaderNode } from '../../src/digitize/loaders/ocrNode.ts';
+import { findRasterPanels } from '../../src/digitize/detect/rasterPanels.ts';
+import { gridLines } from '../../src/digitize/detect/rasterFrames.ts';
+import { frameLines } from '../../src/digitize/detect/rasterLines.ts';
+import { scanFor } from './scanBed.ts';
 
 const seed = Number(process.argv[2] ?? 1);
 const { jpeg } = await scanFor(seed);

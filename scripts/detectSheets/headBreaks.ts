@@ -1,11 +1,11 @@
-/** Where courseBreak cuts the head tracks of one bed scan (rdetect4 diagnostic): npx tsx scripts/rdetect4-break.ts 45 */
-import { loadImageSheetNode } from '../src/digitize/loaders/imageNode.ts';
-import { closeTextReaderNode, textReaderNode } from '../src/digitize/loaders/ocrNode.ts';
-import { findRasterPanels } from '../src/digitize/detect/rasterPanels.ts';
-import { gridLines } from '../src/digitize/detect/rasterFrames.ts';
-import { frameLines } from '../src/digitize/detect/rasterLines.ts';
-import { courseBreak } from '../src/digitize/detect/rasterCurves.ts';
-import { scanFor } from './detectSheets/scanBed.ts';
+/** Where courseBreak cuts the head tracks of one bed scan (a diagnostic of the scan line finder): npx tsx scripts/detectSheets/headBreaks.ts 45 */
+import { loadImageSheetNode } from '../../src/digitize/loaders/imageNode.ts';
+import { closeTextReaderNode, textReaderNode } from '../../src/digitize/loaders/ocrNode.ts';
+import { findRasterPanels } from '../../src/digitize/detect/rasterPanels.ts';
+import { gridLines } from '../../src/digitize/detect/rasterFrames.ts';
+import { frameLines } from '../../src/digitize/detect/rasterLines.ts';
+import { courseBreak } from '../../src/digitize/detect/rasterCurves.ts';
+import { scanFor } from './scanBed.ts';
 
 const seed = Number(process.argv[2] ?? 45);
 const { jpeg } = await scanFor(seed);

@@ -5,23 +5,23 @@
  * colour, the cosine between the two colours' chroma (NaN for a grey line), kept width, covered
  * share of the drawn line):
  *
- *   RB_SHEETS=40 RB_SEED=1 npx tsx scripts/rbunchModel.ts
+ *   MODEL_SHEETS=40 MODEL_SEED=1 npx tsx scripts/randomSheets/lineModels.ts
  */
 import { existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { traceRaster } from '../src/digitize/rasterTrace.ts';
-import { sheetPoint } from '../src/digitize/points.ts';
-import { siblingGuides } from '../src/digitize/vectorChoice.ts';
-import { applyH, decode } from './randomSheets/camera.ts';
-import { sheetGeometry } from './randomSheets/randomSheet.ts';
-import { nearest } from './randomSheets/traceGeometry.ts';
-import type { TakeoffInput } from '../src/model/takeoff.ts';
+import { traceRaster } from '../../src/digitize/rasterTrace.ts';
+import { sheetPoint } from '../../src/digitize/points.ts';
+import { siblingGuides } from '../../src/digitize/vectorChoice.ts';
+import { applyH, decode } from './camera.ts';
+import { sheetGeometry } from './randomSheet.ts';
+import { nearest } from './traceGeometry.ts';
+import type { TakeoffInput } from '../../src/model/takeoff.ts';
 
-const count = Number(process.env.RB_SHEETS ?? 40);
-const first = Number(process.env.RB_SEED ?? 1);
+const count = Number(process.env.MODEL_SHEETS ?? 40);
+const first = Number(process.env.MODEL_SEED ?? 1);
 for (let seed = first; seed < first + count; seed++) {
   const kind = seed % 3 === 2 ? 'photo' : 'scan';
-  const base = join(import.meta.dirname, '..', 'artifacts', 'random-sheets', 'v1', `${seed}-${kind}`);
+  const base = join(import.meta.dirname, '..', '..', 'artifacts', 'random-sheets', 'v1', `${seed}-${kind}`);
   if (!existsSync(`${base}.jpg`)) continue;
   const takeoff = (JSON.parse(readFileSync(`${base}.json`, 'utf8')) as { takeoff: TakeoffInput }).takeoff;
   const { plan, shot } = sheetGeometry(seed, kind);
