@@ -2,7 +2,7 @@
  * The whole detection of a scan off the main thread (a Node worker thread), as the workbench runs
  * it in its sheet worker: the main thread posts the decoded image; the worker finds the panels,
  * then the curves of those panels, posting each progress step (the panels take the first 60 %,
- * the curves the rest, the split `detectRasterTakeoff` uses) and then what it found (panel ids,
+ * the curves the rest, each frame, line and label step posted, as in `detectRasterTakeoff`) and then what it found (panel ids,
  * curves named, questions). Used by bench/detectScan.bench.ts.
  */
 import { parentPort } from 'node:worker_threads';
@@ -34,7 +34,7 @@ if (port) {
       const image = { width: m.width, height: m.height, data: m.data, scale: 1 };
       const found = await findRasterPanels(image, reader, (fraction, what) => port.postMessage({ kind: 'progress', fraction: 0.6 * fraction, what } satisfies FromWorker));
       port.postMessage({ kind: 'progress', fraction: 0.6, what: 'finding the curves' } satisfies FromWorker);
-      const curves = await findRasterCurves(image, found, reader);
+      const curves = await findRasterCurves(image, found, reader, { progress: (fraction, what) => port.postMessage({ kind: 'progress', fraction: 0.6 + 0.4 * fraction, what } satisfies FromWorker) });
       port.postMessage({ kind: 'found', panels: found.panels.map((p) => p.id), curves: curves.curves.length, questions: [...found.questions, ...curves.questions] } satisfies FromWorker);
     } catch (error) {
       port.postMessage({ kind: 'failed', message: error instanceof Error ? error.message : String(error) } satisfies FromWorker);

@@ -68,6 +68,8 @@ export interface RasterCurveOptions {
   given?: { family: 'diameter' | 'speed'; values: readonly number[] };
   /** Receives lines about what was read (the dump scripts print them). */
   note?: (line: string) => void;
+  /** Progress within this step, 0–1 with what is being done (lines found per frame, lines followed, labels read). */
+  progress?: (fraction: number, what: string) => void;
 }
 
 /** Most lines one frame holds: ten diameters, their iso-lines and a second axis's curves (common practice: sheets draw far fewer). */
@@ -127,7 +129,9 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
   const toLevel = (p: SheetPoint): [number, number] => level.toLevel(p[0] * image.scale, p[1] * image.scale);
   const curves: RasterCurve[] = [];
   const labelsAt: { word: Blot; frame: Box; clean: InkMap; at: [number, number] }[] = [];
-  for (const { frame, panels } of framesOf(found)) {
+  const frames = framesOf(found);
+  for (const [k, { frame, panels }] of frames.entries()) {
+    options.progress?.((0.4 * k) / frames.length, `finding the lines in frame ${k + 1} of ${frames.length}`);
     const grid = { x: gridLines(map, frame, 'x'), y: gridLines(map, frame, 'y') };
     // The words printed in the frame (curve labels) are no line: the lines are followed around them.
     const printed = frameWords(map, frame, page.strong, page.h);
@@ -166,7 +170,8 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
 
   bandsHaveNoRoom(curves);
   // Guides where each line stands alone, and the tracer's line from them.
-  for (const c of curves) {
+  for (const [i, c] of curves.entries()) {
+    options.progress?.(0.4 + (0.45 * i) / curves.length, `following line ${i + 1} of ${curves.length}`);
     const width = Math.max(2, median(c.track.len));
     // Head and power curves of one family do not cross (the larger impeller gives more of both at
     // every flow): their guides may spread over the whole line. Efficiency and NPSHr curves cross.
@@ -252,6 +257,7 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
 
   // Names of the head curves: labels read beside them, else the values given, by order.
   const heads = usable.filter((c) => c.panel.quantity === 'head' && c.kind === 'curve');
+  options.progress?.(0.85, 'reading the curve labels');
   const named = await nameHeads(heads, labelsAt, page.strong, reader, level, image.scale, options.given, questions, leftOut, options.note);
   // The other panels' curves: the head curve ending at the same flow.
   const others = usable.filter((c) => !heads.includes(c));

@@ -38,7 +38,7 @@ export async function detectRasterTakeoff(input: TakeoffToDetect, raw: Record<st
   const speedRead = await readSheetSpeed(found, reader);
   progress(0.6, 'finding the curves');
   const given = givenValues(input);
-  const curves = await findRasterCurves(image, found, reader, given ? { given: { family: given.family, values: given.values } } : {});
+  const curves = await findRasterCurves(image, found, reader, { ...(given ? { given: { family: given.family, values: given.values } } : {}), progress: (f, what) => progress(0.6 + 0.35 * f, what) });
   progress(0.95, 'writing the take-off');
   const questions = [...found.questions, ...curves.questions];
   const userPanels = (input.panels ?? []).filter((p) => p.origin !== 'detected');
