@@ -1,9 +1,11 @@
 /**
  * The lines found in each raster panel of one bed scan, against the plan's lines: for each
  * drawn line, the found track nearest to it and how far (level pixels, median and worst over
- * the track's common columns). A tool for reading the line finder, not a score.
+ * the track's common columns). A tool for reading the line finder, not a score. With GRID=1 it
+ * also prints each frame's grid rows and columns, each track's share on a grid column, and the
+ * ink across a grid crossing (a faint grid whose crossings chain into false lines shows there).
  *
- *   npx tsx scripts/detectSheets/curveDump.ts 3
+ *   [GRID=1] npx tsx scripts/detectSheets/curveDump.ts 3
  */
 import { loadImageSheetNode } from '../../src/digitize/loaders/imageNode.ts';
 import { closeTextReaderNode, textReaderNode } from '../../src/digitize/loaders/ocrNode.ts';
@@ -33,7 +35,19 @@ for (const p of found.panels) {
   const t0 = performance.now();
   const tracks = frameLines(page.map, f, { ceiling: 0.3 * page.strong, grid });
   process.stdout.write(`panel ${p.id} frame ${f.map(Math.round).join(',')} grid ${grid.x.length}x${grid.y.length}: ${tracks.length} tracks in ${(performance.now() - t0).toFixed(0)} ms\n`);
-  for (const tr of tracks) process.stdout.write(`   track u ${tr.u[0]!.toFixed(0)}–${tr.u[tr.u.length - 1]!.toFixed(0)} n ${tr.u.length} v ${tr.v[0]!.toFixed(0)}→${tr.v[tr.v.length - 1]!.toFixed(0)}\n`);
+  // GRID=1: the grid rows and columns found, each track's share on a grid column, and the ink across a grid crossing.
+  const onColumns = (tr: (typeof tracks)[number]) => (process.env.GRID ? ` cover ${(tr.u.length / (tr.u[tr.u.length - 1]! - tr.u[0]! + 1)).toFixed(2)} on grid columns ${(tr.u.filter((u) => grid.x.some((x) => Math.abs(x - u) <= 4)).length / tr.u.length).toFixed(2)}` : '');
+  for (const tr of tracks) process.stdout.write(`   track u ${tr.u[0]!.toFixed(0)}–${tr.u[tr.u.length - 1]!.toFixed(0)} n ${tr.u.length} v ${tr.v[0]!.toFixed(0)}→${tr.v[tr.v.length - 1]!.toFixed(0)}${onColumns(tr)}\n`);
+  if (process.env.GRID && grid.x.length > 0 && grid.y.length > 0) {
+    process.stdout.write(`  grid x ${grid.x.map((v) => v.toFixed(1)).join(' ')}\n  grid y ${grid.y.map((v) => v.toFixed(1)).join(' ')}\n`);
+    const gy = Math.round(grid.y[grid.y.length >> 1]!);
+    const gx = Math.round(grid.x[grid.x.length >> 1]!);
+    for (const [u0, where] of [[gx, 'at a crossing'], [gx + 15, 'between crossings']] as const) {
+      const col: number[] = [];
+      for (let v = gy - 5; v <= gy + 5; v++) col.push(page.map.ink[v * page.map.width + u0]!);
+      process.stdout.write(`  ink down column ${u0} (${where}), rows ${gy - 5}–${gy + 5}: ${col.join(' ')}\n`);
+    }
+  }
   const planPanel = plan.panels.find((q) => q.quantity === p.quantity);
   for (const line of plan.lines.filter((l) => planPanel && l.panel === planPanel.id || (p.quantity === 'head' && l.iso !== undefined))) {
     const pts = line.points.map((q) => { const [x, y] = applyH(shot.h, q); return page.level.toLevel(x, y); });
