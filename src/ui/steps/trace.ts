@@ -11,7 +11,9 @@ export const traceStep: StepDefinition<'trace'> = {
   summary: ({ store }) => {
     const { traces } = store.draft;
     if (traces.length === 0) return 'no traces yet';
-    return `${traces.length} traces, ${traces.reduce((s, t) => s + pointsOf(t).length, 0)} points`;
+    const points = traces.reduce((s, t) => s + pointsOf(t).length, 0);
+    // Found raster traces keep only their guides (the points are captured when the curves are fitted): "0 points" would read as nothing traced.
+    return points > 0 ? `${traces.length} traces, ${points} points` : `${traces.length} trace${traces.length === 1 ? '' : 's'} from guides`;
   },
   body,
   tool: () => 'trace',

@@ -4,6 +4,7 @@
  * polynomials inside their fitted range only — nothing extrapolated is drawn. An optional
  * duty view adds the system curve and the operating point of each diameter.
  */
+import { bepDoubted } from '../../fit/checks/plausibility.ts';
 import { h, svg } from '../dom/h.ts';
 import { evaluateUnchecked, linspace } from '../../fit/polynomial.ts';
 import type { CurveSet, Member, Quantity } from '../../model/curveset.ts';
@@ -113,7 +114,9 @@ export function familyChart(set: CurveSet, choice: UnitChoice = 'own', duty?: Du
     if (q === 'head') {
       for (const m of members) {
         const bep = m.derived.bep;
-        if (bep) g.append(svg('circle', { cx: x(bep.flow_m3s), cy: y(bep.head_m), r: 3.5, class: 'bep' }, svg('title', null, `BEP of ${memberName(set, m, u, true)}: ${num(fromSI(bep.flow_m3s, u.flow))} ${unitText(u.flow.label)}, ${num(fromSI(bep.head_m, u.head))} ${u.head.label}, ${num(bep.efficiency * 100, 3)} %`)));
+        // A BEP the findings doubt (peak not captured, or past the head curve's end) is drawn dashed, and its title says so.
+        const doubted = bep ? bepDoubted(set.findings, m) : false;
+        if (bep) g.append(svg('circle', { cx: x(bep.flow_m3s), cy: y(bep.head_m), r: 3.5, class: doubted ? 'bep doubted' : 'bep' }, svg('title', null, `BEP of ${memberName(set, m, u, true)}: ${num(fromSI(bep.flow_m3s, u.flow))} ${unitText(u.flow.label)}, ${num(fromSI(bep.head_m, u.head))} ${u.head.label}, ${num(bep.efficiency * 100, 3)} %${doubted ? ' (not reliable: see the findings)' : ''}`)));
       }
       if (duty) {
         // The system curve runs on past the pump curves; it is cut at the plot's edges, clear of the curve labels.
