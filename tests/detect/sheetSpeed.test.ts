@@ -21,6 +21,9 @@ describe('a speed in a line of text', () => {
     expect(speedsInText('Speed 1450 1/min, impeller 250 mm')).toEqual([1450]);
     expect(speedsInText('1480 min-1')).toEqual([1480]);
     expect(speedsInText('1750RPM')).toEqual([1750]);
+    expect(speedsInText('n = 1480 min⁻¹')).toEqual([1480]);
+    expect(speedsInText('1480 min⁻¹, 250 mm')).toEqual([1480]);
+    expect(speedsInText('1450 rpms')).toEqual([]); // not a unit this rule knows
   });
 
   it('takes no model number, year or diameter for a speed, and no speed from two that differ', () => {

@@ -17,7 +17,7 @@ export const SPEED_AGREE_SHARE = 0.005;
 /** At most this many text lines are read beyond the frames: a title block, not a page of notes. */
 const MAX_LINES = 6;
 
-const SPEED_TEXT = new RegExp(`${SHEET_NUMBER}\\s*(?:rpm|r\\s*/\\s*min|min\\s*-\\s*1|min⁻¹|1\\s*/\\s*min)\\b`, 'gi');
+const SPEED_TEXT = new RegExp(`${SHEET_NUMBER}\\s*(?:rpm|r\\s*/\\s*min|min\\s*-\\s*1|min⁻¹|1\\s*/\\s*min)(?![a-z])`, 'gi');
 
 /** Every shaft speed a text prints ("1450 rpm", "2 950 r/min", "1450 1/min"), rpm, in order. */
 export function speedsInText(text: string): number[] {
