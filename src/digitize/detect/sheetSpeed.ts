@@ -10,11 +10,11 @@ import type { RasterPanelsFound } from './rasterPanels.ts';
 import { readCrops, type Blot, type TextReader } from './rasterText.ts';
 import { SHEET_NUMBER, sheetNumber } from './words.ts';
 
-/** Speeds outside this range (rpm) are not a pump's shaft speed (a model number, a year). */
+/** Speeds outside this range (rpm) are not a pump's shaft speed but a model number or a year (common practice: centrifugal pumps run from a few hundred to some tens of thousands of rpm). */
 const SPEED_RANGE = [100, 30000] as const;
-/** A speed given that differs from the one printed by more than this share is said (rounding on a sheet is 1 rpm in 1000 or better). */
+/** A speed given that differs from the one printed by more than this share is said (common practice: a sheet rounds its speed to 1 rpm in 1000 or better, and 0.5 % of speed moves head by 1 %). */
 export const SPEED_AGREE_SHARE = 0.005;
-/** At most this many text lines are read beyond the frames: a title block, not a page of notes. */
+/** At most this many text lines are read beyond the frames: a title block, not a page of notes (our own limit, for the reading time). */
 const MAX_LINES = 6;
 
 const SPEED_TEXT = new RegExp(`${SHEET_NUMBER}\\s*(?:rpm|r\\s*/\\s*min|min\\s*-\\s*1|min⁻¹|1\\s*/\\s*min)(?![a-z])`, 'gi');
