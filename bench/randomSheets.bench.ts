@@ -11,6 +11,7 @@
  *
  * Sheets are cached in artifacts/random-sheets/ (not committed), keyed by seed and kind.
  */
+import { RENDER_VERSION } from '../scripts/randomSheets/svg.ts';
 import { createHash } from 'node:crypto';
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
@@ -24,7 +25,7 @@ import type { PumpFamily } from '../scripts/randomSheets/pumpFamily.ts';
 import { scoreReplay, type CurveScore } from '../scripts/randomSheets/score.ts';
 
 /** Bump when the generator changes, so that cached sheets are drawn again. */
-const GENERATOR = 'v1';
+const GENERATOR = RENDER_VERSION;
 const CACHE = join(import.meta.dirname, '..', 'artifacts', 'random-sheets', GENERATOR);
 
 interface Cached {

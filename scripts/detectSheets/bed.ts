@@ -8,6 +8,7 @@
  *
  * PDFs are cached in artifacts/detect-sheets/ (not committed).
  */
+import { RENDER_VERSION } from '../randomSheets/svg.ts';
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import type { Browser } from 'playwright-core';
@@ -21,7 +22,7 @@ import { planSheet } from '../randomSheets/plan.ts';
 import { scoreReplay } from '../randomSheets/score.ts';
 import { makeVectorSheet, minimalTakeoff, openPrinter, truthOf } from './vectorSheet.ts';
 
-const CACHE = join(import.meta.dirname, '..', '..', 'artifacts', 'detect-sheets', 'bed-v1');
+const CACHE = join(import.meta.dirname, '..', '..', 'artifacts', 'detect-sheets', `bed-${RENDER_VERSION}`);
 
 /** The acceptance tolerance: 0.1 % of axis span (efficiency: 0.1 point of 100). */
 export const ACCEPT_PERCENT = 0.1;

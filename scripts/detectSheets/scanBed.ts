@@ -22,6 +22,7 @@
  * missed on a sheet that asked nothing) with no finding of the replay, a confidence of 0.5 or
  * more, and no question. DETECT_GUIDES=1 also replays the bed's own guides on the found panels.
  */
+import { RENDER_VERSION } from '../randomSheets/svg.ts';
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { detectTakeoff } from '../../src/digitize/detect/detect.ts';
@@ -37,7 +38,7 @@ import { exact, siFactor } from '../randomSheets/pumpFamily.ts';
 import type { CurveSet } from '../../src/model/curveset.ts';
 import { scoreReplay } from '../randomSheets/score.ts';
 
-const CACHE = join(import.meta.dirname, '..', '..', 'artifacts', 'detect-sheets', 'scan-v1');
+const CACHE = join(import.meta.dirname, '..', '..', 'artifacts', 'detect-sheets', `scan-${RENDER_VERSION}`);
 
 /** The acceptance tolerance on scans: 0.5 % of axis span. */
 export const SCAN_ACCEPT_PERCENT = 0.5;

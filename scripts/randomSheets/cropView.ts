@@ -2,6 +2,7 @@
  * A zoomed crop of a random-bed sheet around a point, to look at what a guide sits on:
  * `npx tsx scripts/randomSheets/cropView.ts 10 223 810 /tmp/crop.png [radius] [zoom]`; the point is marked blue.
  */
+import { RENDER_VERSION } from './svg.ts';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import sharp from 'sharp';
@@ -10,7 +11,7 @@ import { decode } from './camera.ts';
 const [seedArg, xArg, yArg, out = '/tmp/crop.png', rArg = '40', zArg = '8'] = process.argv.slice(2);
 const seed = Number(seedArg);
 const kind = seed % 3 === 2 ? 'photo' : 'scan';
-const decoded = await decode(readFileSync(join(import.meta.dirname, '..', '..', 'artifacts', 'random-sheets', 'v1', `${seed}-${kind}.jpg`)));
+const decoded = await decode(readFileSync(join(import.meta.dirname, '..', '..', 'artifacts', 'random-sheets', RENDER_VERSION, `${seed}-${kind}.jpg`)));
 const cx = Math.floor(Number(xArg));
 const cy = Math.floor(Number(yArg));
 const r = Number(rArg);

@@ -9,6 +9,7 @@
  *
  * `--all` lists every trace, not only those more than 30 % off their own line.
  */
+import { RENDER_VERSION } from './svg.ts';
 import { existsSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { traceRaster } from '../../src/digitize/rasterTrace.ts';
@@ -19,7 +20,7 @@ import { makeRandomSheet, sheetGeometry } from './randomSheet.ts';
 import { nearest } from './traceGeometry.ts';
 import type { TakeoffInput } from '../../src/model/takeoff.ts';
 
-const CACHE = join(import.meta.dirname, '..', '..', 'artifacts', 'random-sheets', 'v1');
+const CACHE = join(import.meta.dirname, '..', '..', 'artifacts', 'random-sheets', RENDER_VERSION);
 
 const distance = nearest;
 

@@ -7,6 +7,7 @@
  *
  *   MODEL_SHEETS=40 MODEL_SEED=1 npx tsx scripts/randomSheets/lineModels.ts
  */
+import { RENDER_VERSION } from './svg.ts';
 import { existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { traceRaster } from '../../src/digitize/rasterTrace.ts';
@@ -21,7 +22,7 @@ const count = Number(process.env.MODEL_SHEETS ?? 40);
 const first = Number(process.env.MODEL_SEED ?? 1);
 for (let seed = first; seed < first + count; seed++) {
   const kind = seed % 3 === 2 ? 'photo' : 'scan';
-  const base = join(import.meta.dirname, '..', '..', 'artifacts', 'random-sheets', 'v1', `${seed}-${kind}`);
+  const base = join(import.meta.dirname, '..', '..', 'artifacts', 'random-sheets', RENDER_VERSION, `${seed}-${kind}`);
   if (!existsSync(`${base}.jpg`)) continue;
   const takeoff = (JSON.parse(readFileSync(`${base}.json`, 'utf8')) as { takeoff: TakeoffInput }).takeoff;
   const { plan, shot } = sheetGeometry(seed, kind);

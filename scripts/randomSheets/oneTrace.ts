@@ -3,6 +3,7 @@
  * line, coverage, the model kept, lost stretches, doubts, time):
  * `npx tsx scripts/randomSheets/oneTrace.ts 28 efficiency-310 efficiency-259`.
  */
+import { RENDER_VERSION } from './svg.ts';
 import { existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { traceRaster } from '../../src/digitize/rasterTrace.ts';
@@ -16,7 +17,7 @@ import type { TakeoffInput } from '../../src/model/takeoff.ts';
 const [seedArg, ...ids] = process.argv.slice(2);
 const seed = Number(seedArg);
 const kind = seed % 3 === 2 ? 'photo' : 'scan';
-const base = join(import.meta.dirname, '..', '..', 'artifacts', 'random-sheets', 'v1', `${seed}-${kind}`);
+const base = join(import.meta.dirname, '..', '..', 'artifacts', 'random-sheets', RENDER_VERSION, `${seed}-${kind}`);
 if (!existsSync(`${base}.jpg`)) throw new Error('sheet not in the cache');
 const jpeg = readFileSync(`${base}.jpg`);
 const takeoff = (JSON.parse(readFileSync(`${base}.json`, 'utf8')) as { takeoff: TakeoffInput }).takeoff;

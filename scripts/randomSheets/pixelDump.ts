@@ -3,6 +3,7 @@
  * `npx tsx scripts/randomSheets/pixelDump.ts 10 223 810 [radius]` prints each pixel as hex, and the
  * paper estimate around the point.
  */
+import { RENDER_VERSION } from './svg.ts';
 import { existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { decode } from './camera.ts';
@@ -11,7 +12,7 @@ import { estimatePaper } from '../../src/digitize/colour.ts';
 const [seedArg, xArg, yArg, rArg = '7'] = process.argv.slice(2);
 const seed = Number(seedArg);
 const kind = seed % 3 === 2 ? 'photo' : 'scan';
-const base = join(import.meta.dirname, '..', '..', 'artifacts', 'random-sheets', 'v1', `${seed}-${kind}`);
+const base = join(import.meta.dirname, '..', '..', 'artifacts', 'random-sheets', RENDER_VERSION, `${seed}-${kind}`);
 if (!existsSync(`${base}.jpg`)) throw new Error('sheet not in the cache');
 const decoded = await decode(readFileSync(`${base}.jpg`));
 const image = { width: decoded.width, height: decoded.height, data: decoded.data, scale: 1 };

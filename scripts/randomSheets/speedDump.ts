@@ -13,6 +13,7 @@
  *
  * Sheets are cached in artifacts/speed-sheets/ (not committed), keyed by seed, kind and options.
  */
+import { RENDER_VERSION } from './svg.ts';
 import { createHash } from 'node:crypto';
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
@@ -28,7 +29,7 @@ import { drawnRangeAtSpeed, exactAtSpeed, makeSpeedSheet, speedTruthSource, type
 
 /** Bump when the generator changes, so that cached sheets are drawn again. */
 const CACHE_VERSION = 1;
-const CACHE = 'artifacts/speed-sheets';
+const CACHE = `artifacts/speed-sheets/${RENDER_VERSION}`;
 
 /** The bench's options for a seed (bench/speedSheets.bench.ts). */
 export function benchOptions(seed: number, kind: 'vector' | 'scan'): SpeedSheetOptions {

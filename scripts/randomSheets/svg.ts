@@ -8,6 +8,20 @@
 import { UNIT_NAMES } from './pumpFamily.ts';
 import type { LinePlan, PanelPlan, SheetPlan } from './plan.ts';
 
+/**
+ * The version of what this renderer draws. Every cache of rendered sheets (artifacts/random-sheets,
+ * artifacts/detect-sheets, artifacts/speed-sheets) is keyed by it: bump it when a sheet's
+ * picture changes, so that no bed scores a stale picture.
+ * v2: tick labels carry the step's decimals (a 2.5 step printed "13" for 12.5 in v1).
+ */
+export const RENDER_VERSION = 'v2';
+
+/** The decimals a tick label needs for every multiple of this step to print exactly (2.5 → 1, 0.25 → 2). */
+export function tickDecimals(step: number): number {
+  for (let d = 0; d < 4; d++) if (Math.abs(step * 10 ** d - Math.round(step * 10 ** d)) < 1e-6 * Math.max(1, step * 10 ** d)) return d;
+  return 4;
+}
+
 const esc = (s: string) => s.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/"/g, '&quot;');
 const n = (v: number) => Number(v.toFixed(2));
 
@@ -17,7 +31,6 @@ function gridAndAxes(plan: SheetPlan, panel: PanelPlan, out: string[]): void {
   const { x, y } = panel;
   const xAt = (v: number) => l + ((v - x.min) / (x.max - x.min)) * (r - l);
   const yAt = (v: number) => b - ((v - y.min) / (y.max - y.min)) * (b - t);
-  const digits = (step: number) => (step >= 1 ? 0 : step >= 0.1 ? 1 : 2);
   if (panel.side === 'left') {
     const g = plan.grid;
     if (g.minor > 0) {
@@ -28,7 +41,7 @@ function gridAndAxes(plan: SheetPlan, panel: PanelPlan, out: string[]): void {
     }
     for (let v = x.min; v <= x.max + 1e-9; v += x.step) {
       out.push(`<line x1="${n(xAt(v))}" y1="${n(t)}" x2="${n(xAt(v))}" y2="${n(b)}" stroke="${g.colour}" stroke-width="${n(g.width)}"/>`);
-      out.push(`<text x="${n(xAt(v))}" y="${n(b + 1.3 * fs)}" font-size="${n(fs)}" text-anchor="middle" font-family="sans-serif">${v.toFixed(digits(x.step))}</text>`);
+      out.push(`<text x="${n(xAt(v))}" y="${n(b + 1.3 * fs)}" font-size="${n(fs)}" text-anchor="middle" font-family="sans-serif">${v.toFixed(tickDecimals(x.step))}</text>`);
     }
     for (let v = y.min; v <= y.max + 1e-9; v += y.step) {
       out.push(`<line x1="${n(l)}" y1="${n(yAt(v))}" x2="${n(r)}" y2="${n(yAt(v))}" stroke="${g.colour}" stroke-width="${n(g.width)}"/>`);
@@ -41,7 +54,7 @@ function gridAndAxes(plan: SheetPlan, panel: PanelPlan, out: string[]): void {
   const title = { head: `Head (${u.head})`, efficiency: 'Efficiency (%)', power: `Power (${u.power})`, npshr: `NPSHr (${u.npsh})` }[panel.quantity];
   const xText = panel.side === 'left' ? l - 0.4 * fs : r + 0.4 * fs;
   for (let v = y.min; v <= y.max + 1e-9; v += y.step) {
-    out.push(`<text x="${n(xText)}" y="${n(yAt(v) + 0.35 * fs)}" font-size="${n(fs)}" text-anchor="${panel.side === 'left' ? 'end' : 'start'}" font-family="sans-serif">${v.toFixed(digits(y.step))}</text>`);
+    out.push(`<text x="${n(xText)}" y="${n(yAt(v) + 0.35 * fs)}" font-size="${n(fs)}" text-anchor="${panel.side === 'left' ? 'end' : 'start'}" font-family="sans-serif">${v.toFixed(tickDecimals(y.step))}</text>`);
   }
   const tx = panel.side === 'left' ? l - 3.2 * fs : r + 3.2 * fs;
   out.push(`<text x="${n(tx)}" y="${n((t + b) / 2)}" font-size="${n(fs)}" text-anchor="middle" font-family="sans-serif" transform="rotate(-90 ${n(tx)} ${n((t + b) / 2)})">${esc(title)}</text>`);

@@ -10,6 +10,7 @@
  * With --png it writes artifacts/trace-<seed>-<trace>.png: the sheet around the line, the truth
  * in green, the guides in blue, the trace in red.
  */
+import { RENDER_VERSION } from './svg.ts';
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { createCanvas } from '@napi-rs/canvas';
@@ -19,7 +20,7 @@ import { applyH, decode } from './camera.ts';
 import { makeRandomSheet, sheetGeometry } from './randomSheet.ts';
 import type { TakeoffInput } from '../../src/model/takeoff.ts';
 
-const CACHE = join(import.meta.dirname, '..', '..', 'artifacts', 'random-sheets', 'v1');
+const CACHE = join(import.meta.dirname, '..', '..', 'artifacts', 'random-sheets', RENDER_VERSION);
 
 export interface TraceGeometry {
   seed: number;
