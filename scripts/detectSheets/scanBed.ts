@@ -80,6 +80,8 @@ export interface CurveOutcome {
   gaveDiameters: boolean;
   /** Head curves named from the labels read on the scan. */
   namedByLabels: number;
+  /** Efficiency from iso-lines, per diameter (sheets that draw iso-lines): drawn, found (an efficiency curve came back), within tolerance, and each error in points. */
+  iso: { drawn: number; found: number; right: number; errors: number[] };
   questions: string[];
   error?: string;
 }
@@ -141,11 +143,12 @@ export async function runScan(seed: number, kind: 'scan' | 'photo' = 'scan'): Pr
 }
 
 function emptyCurves(plan: SheetPlan): CurveOutcome {
-  return { drawn: plan.lines.filter((l) => l.iso === undefined).length, right: 0, errors: [], invented: 0, missed: 0, mislabelled: 0, byQuantity: {}, silent: [], gaveDiameters: false, namedByLabels: 0, questions: [] };
+  return { drawn: plan.lines.filter((l) => l.iso === undefined).length, right: 0, errors: [], invented: 0, missed: 0, mislabelled: 0, byQuantity: {}, silent: [], gaveDiameters: false, namedByLabels: 0, iso: { drawn: 0, found: 0, right: 0, errors: [] }, questions: [] };
 }
 
-/** Tolerances of the acceptance on scans: 0.5 % of span, 1.5 points of efficiency. */
+/** Tolerances of the acceptance on scans: 0.5 % of span, 1.5 points of efficiency from curves, 2 points from iso-lines. */
 export const SCAN_CURVE_PERCENT = 0.5;
+export const SCAN_ISO_POINTS = 2;
 export const SCAN_EFFICIENCY_POINTS = 1.5;
 
 /**
@@ -159,7 +162,9 @@ async function scoreFoundCurves(seed: number, plan: SheetPlan, takeoff: TakeoffI
   delete raw.panels;
   delete raw.traces;
   const truth = truthOf(plan).filter((t) => t.source === 'curve');
+  const isoTruth = truthOf(plan).filter((t) => t.source === 'iso');
   out.drawn = truth.length;
+  out.iso.drawn = isoTruth.length;
   const askedForValues = (text: string) => /give the diameters \(or speeds\) drawn/.test(text);
   const run = () => detectTakeoff(parseTakeoffToDetect(raw), raw, sheet, { reader: textReaderNode() });
   let found;
@@ -223,7 +228,17 @@ async function scoreFoundCurves(seed: number, plan: SheetPlan, takeoff: TakeoffI
       if (e.error <= (t.quantity === 'efficiency' ? SCAN_EFFICIENCY_POINTS : SCAN_CURVE_PERCENT)) k.right++;
     }
   }
+  // Efficiency from the iso-lines, per diameter, within 2 points (the acceptance on scans).
+  const isoTraces = detected.filter((d) => d.iso !== undefined);
+  for (const s of scoreReplay(plan.family, isoTruth, replay.curveSet)) {
+    if (!Number.isFinite(s.error)) continue;
+    out.iso.found++;
+    out.iso.errors.push(s.error);
+    if (s.error <= SCAN_ISO_POINTS) out.iso.right++;
+    else if (!s.flagged && !asked && isoTraces.every((d) => (d.confidence ?? 1) >= 0.5)) out.silent.push(`${s.id} from iso-lines ${s.error.toFixed(2)} points off`);
+  }
   for (const d of detected) {
+    if (d.iso !== undefined) continue;
     if (truth.some((t) => t.quantity === d.quantity && t.diameter === d.diameter)) continue;
     if (plan.family.diameters.includes(d.diameter as number)) out.invented++;
     else out.mislabelled++;
@@ -261,7 +276,7 @@ async function main(): Promise<void> {
     const cal = Object.entries(o.calibration).map(([k, v]) => `${k} ${v.toFixed(3)}`).join(', ');
     process.stdout.write(`${String(seed).padStart(4)} ${o.dpi} dpi turn ${o.turnDeg.toFixed(2)}° panels ${o.panels.found}/${o.panels.expected} calibration % of span: ${cal || '-'}; questions ${o.questions.length}; curves from the bed's guides, worst: on found panels ${Number.isFinite(o.worstCurve) ? o.worstCurve.toFixed(2) : 'missing'}, on the bed's panels ${Number.isFinite(o.worstGiven) ? o.worstGiven.toFixed(2) : 'missing'}; ${o.detectMs.toFixed(0)} ms${o.error ? `; refused: ${o.error}` : ''}\n`);
     const c = o.curves;
-    process.stdout.write(`       curves found: ${c.right}/${c.drawn} within tolerance, worst ${c.errors.length ? Math.max(...c.errors.map((e) => e.error)).toFixed(2) : '-'}; missed ${c.missed}, invented ${c.invented}, mislabelled ${c.mislabelled}; questions ${c.questions.length}${c.gaveDiameters ? ' (asked for the diameters, given)' : ` (${c.namedByLabels} head curves named from labels)`}${c.silent.length ? `; WRONG WITHOUT A FLAG: ${c.silent.join(', ')}` : ''}${c.error ? `; refused: ${c.error.slice(0, 160)}` : ''}\n`);
+    process.stdout.write(`       curves found: ${c.right}/${c.drawn} within tolerance${c.iso.drawn ? `, iso efficiency ${c.iso.right}/${c.iso.drawn} (found ${c.iso.found}${c.iso.errors.length ? `, worst ${Math.max(...c.iso.errors).toFixed(2)} points` : ''})` : ''}, worst ${c.errors.length ? Math.max(...c.errors.map((e) => e.error)).toFixed(2) : '-'}; missed ${c.missed}, invented ${c.invented}, mislabelled ${c.mislabelled}; questions ${c.questions.length}${c.gaveDiameters ? ' (asked for the diameters, given)' : ` (${c.namedByLabels} head curves named from labels)`}${c.silent.length ? `; WRONG WITHOUT A FLAG: ${c.silent.join(', ')}` : ''}${c.error ? `; refused: ${c.error.slice(0, 160)}` : ''}\n`);
     if (process.env.DETECT_VERBOSE) for (const k of [...o.wrong, ...o.questions.map((x) => `? ${x}`), ...c.errors.map((e) => `  ${e.id} ${e.error.toFixed(2)}${e.flagged ? ' flagged' : ''} conf ${e.confidence}`), ...c.questions.map((x) => `?c ${x}`)]) process.stdout.write(`      ${k}\n`);
   }
   await closeTextReaderNode();
@@ -283,7 +298,9 @@ async function main(): Promise<void> {
   const sum = (f: (c: CurveOutcome) => number) => cs.reduce((n, c) => n + f(c), 0);
   process.stdout.write(`\ncurves found on the scans (no panels, no traces given): ${sum((c) => c.right)} of ${sum((c) => c.drawn)} drawn curves within ${SCAN_CURVE_PERCENT} % of span / ${SCAN_EFFICIENCY_POINTS} points; found ${sum((c) => c.errors.length)}\n`);
   process.stdout.write(`  error, % of span (head, power, NPSHr): p50 ${q(spanErrors, 0.5).toFixed(3)} p95 ${q(spanErrors, 0.95).toFixed(3)} max ${spanErrors.length ? Math.max(...spanErrors).toFixed(3) : '-'} (${spanErrors.length} curves)\n`);
-  process.stdout.write(`  efficiency curves, points: p50 ${q(points, 0.5).toFixed(2)} p95 ${q(points, 0.95).toFixed(2)} max ${points.length ? Math.max(...points).toFixed(2) : '-'} (${points.length} curves; iso-lines are not read on scans yet)\n`);
+  process.stdout.write(`  efficiency curves, points: p50 ${q(points, 0.5).toFixed(2)} p95 ${q(points, 0.95).toFixed(2)} max ${points.length ? Math.max(...points).toFixed(2) : '-'} (${points.length} curves)\n`);
+  const isoErrors = cs.flatMap((c) => c.iso.errors);
+  process.stdout.write(`  efficiency from iso-lines, per diameter: drawn ${sum((c) => c.iso.drawn)} (on ${cs.filter((c) => c.iso.drawn > 0).length} sheets), found ${sum((c) => c.iso.found)}, within ${SCAN_ISO_POINTS} points ${sum((c) => c.iso.right)}; points p50 ${q(isoErrors, 0.5).toFixed(2)} p95 ${q(isoErrors, 0.95).toFixed(2)} max ${isoErrors.length ? Math.max(...isoErrors).toFixed(2) : '-'}\n`);
   process.stdout.write(`  missed ${sum((c) => c.missed)}, invented ${sum((c) => c.invented)}, mislabelled ${sum((c) => c.mislabelled)}; refused sheets ${cs.filter((c) => c.error).length}; head curves named from labels read: ${sum((c) => c.namedByLabels)}; sheets where the detector asked for the diameters and got them: ${cs.filter((c) => c.gaveDiameters).length} (of ${cs.length})\n`);
   process.stdout.write(`  questions per sheet: ${cs.map((c) => c.questions.length).join(' ')}; sheets with at most one: ${cs.filter((c) => c.questions.length <= 1).length} of ${cs.length}\n`);
   for (const quantity of ['head', 'efficiency', 'power', 'npshr']) {

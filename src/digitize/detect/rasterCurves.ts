@@ -25,6 +25,7 @@ import type { Box, FoundPanel } from './panels.ts';
 import { END_MATCH_SHARE, endMatch, endReferences, nameByEnds } from './endFlows.ts';
 import { gridLines } from './rasterFrames.ts';
 import { alonePlaces, continuesCourse, frameLines, liesAlong, offCourse, trackAt, trackOf, type Track } from './rasterLines.ts';
+import { isoLevelsOnScan, wordsOnIsoLines } from './rasterIso.ts';
 import type { RasterPanelsFound } from './rasterPanels.ts';
 import { inkBlots, readCrops, wordsOf, type Blot, type TextReader } from './rasterText.ts';
 import { curveLabel, SHEET_NUMBER, sheetNumber } from './words.ts';
@@ -250,8 +251,7 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
   const kept = curves.filter((c) => !pieces.has(c));
   if (pieces.size > 0) options.note?.(`${pieces.size} line${pieces.size === 1 ? '' : 's'} found lying along the tracer's line of another: pieces of it, dropped`);
   const usable = kept.filter((c) => c.confidence > 0 && c.kind === 'curve');
-  const isoCount = kept.filter((c) => c.kind === 'iso').length;
-  if (isoCount > 0) leftOut.push(`${isoCount} line${isoCount === 1 ? '' : 's'} on the head panel neither start${isoCount === 1 ? 's' : ''} at the flow axis nor at the bottom (iso-efficiency lines, or a line the finder broke); efficiency from iso-lines is not read on scans yet, so trace them by hand if they matter.`);
+  const isos = kept.filter((c) => c.kind === 'iso');
   const lostCount = kept.filter((c) => c.confidence === 0 && c.kind === 'curve').length;
   if (lostCount > 0) leftOut.push(`${lostCount} line${lostCount === 1 ? '' : 's'} found on the panels never stand${lostCount === 1 ? 's' : ''} alone (bunched or crossed all along), so no guide could be placed on ${lostCount === 1 ? 'it' : 'them'}; trace ${lostCount === 1 ? 'it' : 'them'} by hand.`);
 
@@ -259,6 +259,23 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
   const heads = usable.filter((c) => c.panel.quantity === 'head' && c.kind === 'curve');
   options.progress?.(0.85, 'reading the curve labels');
   const named = await nameHeads(heads, labelsAt, page.strong, reader, level, image.scale, options.given, questions, leftOut, options.note);
+  // The iso-lines' levels, from the "%" labels on them (rasterIso.ts).
+  const isoNamed: RasterCurve[] = [];
+  const unfollowed = isos.filter((c) => c.confidence === 0 || c.guides.length === 0 || c.traced.length < 2);
+  if (unfollowed.length > 0) {
+    const id = (isos[0] as RasterCurve).panel.id;
+    leftOut.push(`${unfollowed.length} of the ${isos.length} iso-lines on panel "${id}" could not be followed (nowhere do they stand alone); efficiency from the iso-lines is left out: trace them by hand.`);
+  } else if (isos.length > 0) {
+    const onLines = wordsOnIsoLines(labelsAt, isos, heads);
+    const iso = await isoLevelsOnScan(isos, onLines, reader, 2 * page.strong, (isos[0] as RasterCurve).panel.id, options.note);
+    if (iso.missing) leftOut.push(iso.missing);
+    for (const [c, v] of iso.levels) {
+      c.value = v;
+      c.named = 'label';
+      c.confidence = iso.single.has(c) ? Math.min(0.45, c.confidence) : 0.95 * c.confidence;
+      isoNamed.push(c);
+    }
+  }
   // The other panels' curves: the head curve ending at the same flow.
   const others = usable.filter((c) => !heads.includes(c));
   const flowSpan = (c: RasterCurve) => {
@@ -365,6 +382,7 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
   // found: what has none is said, so that a curve missing is never missing in silence.
   const known = [...new Set([...named.values.values(), ...(options.given && options.given.family === named.family ? options.given.values : [])])].sort((a, b) => b - a);
   if (known.length > 0) leftOut.push(...missingCurves(framesOf(found).flatMap((f) => f.panels), curvesOut, known));
+  curvesOut.push(...isoNamed);
   return { curves: curvesOut, labelUnit: named.unit, family: named.family, questions, leftOut, lines: curves };
 }
 

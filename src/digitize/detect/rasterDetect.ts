@@ -54,7 +54,8 @@ export async function detectRasterTakeoff(input: TakeoffToDetect, raw: Record<st
     const names = [...new Set(orphans.map((t) => t.panel))];
     questions.push(`The panel${names.length === 1 ? '' : 's'} ${names.map((n) => `"${n}"`).join(', ')} of the trace${orphans.length === 1 ? '' : 's'} ${orphans.map((t) => `"${t.id}"`).join(', ')} ${names.length === 1 ? 'was' : 'were'} not found on this scan (found: ${named.join(', ') || 'none'}); those traces are left out until the panel is given in the take-off file.`);
   }
-  const userKeys = new Set(traces.map((t) => `${t.quantity}|${t.diameter ?? t.speed}`));
+  const keyOf = (quantity: string, value: number | undefined, iso: boolean) => `${quantity}|${iso ? 'iso ' : ''}${value}`;
+  const userKeys = new Set(traces.map((t) => (t.iso !== undefined ? keyOf(t.quantity, t.iso, true) : keyOf(t.quantity, t.diameter ?? t.speed, false))));
   const diameterUnit = parseUnit('diameter', input.units.diameter);
   const valueOf = (v: number): number => {
     if (curves.family === 'speed' || curves.labelUnit === null || curves.labelUnit === 'rpm') return v;
@@ -64,10 +65,12 @@ export async function detectRasterTakeoff(input: TakeoffToDetect, raw: Record<st
   for (const c of curves.curves) {
     const panel = panelIds.get(c.panel);
     if (!panel || c.value === undefined) continue;
-    const value = valueOf(c.value);
-    if (userKeys.has(`${c.quantity}|${value}`)) continue; // the engineer's own trace of it wins
-    let id = `${c.quantity}-${value}`;
-    for (let k = 2; ids.has(id); k++) id = `${c.quantity}-${value}-${k}`;
+    const iso = c.kind === 'iso';
+    const value = iso ? c.value : valueOf(c.value);
+    if (userKeys.has(keyOf(c.quantity, value, iso))) continue; // the engineer's own trace of it wins
+    const base = iso ? `iso-${value}` : `${c.quantity}-${value}`;
+    let id = base;
+    for (let k = 2; ids.has(id); k++) id = `${base}-${k}`;
     ids.add(id);
     traces.push({
       id,
@@ -75,7 +78,7 @@ export async function detectRasterTakeoff(input: TakeoffToDetect, raw: Record<st
       confidence: Math.round(c.confidence * 100) / 100,
       panel,
       quantity: c.quantity,
-      ...(curves.family === 'speed' ? { speed: value } : { diameter: value }),
+      ...(iso ? { iso: value } : curves.family === 'speed' ? { speed: value } : { diameter: value }),
       guides: c.guides.map((p) => [r2(p[0]), r2(p[1])] as [number, number]),
       method: 'raster',
     });
