@@ -4,7 +4,10 @@
  * the lines along the flow axis; see each function for what it takes as certain.
  */
 import type { SheetPoint } from '../points.ts';
-import type { FoundCurve } from './curves.ts';
+/** What the order needs of a line: its points, sheet units (a found vector path, or a scan's tracer's line). */
+export interface IsoShape {
+  points: readonly SheetPoint[];
+}
 
 /**
  * Levels of unlabelled iso-lines from the labelled ones of the same panel. Along the flow axis
@@ -18,8 +21,8 @@ import type { FoundCurve } from './curves.ts';
  *   of lines between them fits the step), or beyond the outermost sure line of a branch, away
  *   from the peak. Lines near the peak, where the branch is unclear, stay questions.
  */
-export function inferIsoLevels(lines: readonly FoundCurve[], known: ReadonlyMap<FoundCurve, number>): Map<FoundCurve, number> {
-  const out = new Map<FoundCurve, number>();
+export function inferIsoLevels<C extends IsoShape>(lines: readonly C[], known: ReadonlyMap<C, number>): Map<C, number> {
+  const out = new Map<C, number>();
   const order = byFlow(lines);
   const marks = order.map((c, i) => ({ i, v: known.get(c) })).filter((m): m is { i: number; v: number } => m.v !== undefined);
   const isLeft = (m: { i: number; v: number }) => marks.some((o) => o.i > m.i && o.v >= m.v);
@@ -58,11 +61,11 @@ export function inferIsoLevels(lines: readonly FoundCurve[], known: ReadonlyMap<
  * run past the end of the curves and be missing, never one of a high level). Null when the
  * count of lines does not fit the list, or a level read from a label disagrees.
  */
-export function levelsByOrder(lines: readonly FoundCurve[], levels: readonly number[], known: ReadonlyMap<FoundCurve, number>): Map<FoundCurve, number> | null {
+export function levelsByOrder<C extends IsoShape>(lines: readonly C[], levels: readonly number[], known: ReadonlyMap<C, number>): Map<C, number> | null {
   const list = [...new Set(levels)].sort((a, b) => a - b);
   const order = byFlow(lines);
   if (order.length < list.length || order.length > 2 * list.length) return null;
-  const out = new Map<FoundCurve, number>();
+  const out = new Map<C, number>();
   order.forEach((c, i) => out.set(c, i < list.length ? (list[i] as number) : (list[list.length - 1 - (i - list.length)] as number)));
   for (const [c, v] of known) if (out.has(c) && out.get(c) !== v) return null;
   return out;
@@ -74,8 +77,8 @@ export function levelsByOrder(lines: readonly FoundCurve[], levels: readonly num
  * iso-line reaches, while a falling branch may stop short of the largest impeller's curve at
  * the end of the curves.
  */
-function byFlow(lines: readonly FoundCurve[]): FoundCurve[] {
-  const low = (c: FoundCurve) => {
+function byFlow<C extends IsoShape>(lines: readonly C[]): C[] {
+  const low = (c: C) => {
     const a = c.points[0] as SheetPoint;
     const b = c.points[c.points.length - 1] as SheetPoint;
     return a[1] >= b[1] ? a[0] : b[0];

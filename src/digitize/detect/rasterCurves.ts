@@ -25,7 +25,7 @@ import type { Box, FoundPanel } from './panels.ts';
 import { END_MATCH_SHARE, endMatch, endReferences, nameByEnds } from './endFlows.ts';
 import { gridLines } from './rasterFrames.ts';
 import { alonePlaces, continuesCourse, frameLines, liesAlong, offCourse, trackAt, trackOf, type Track } from './rasterLines.ts';
-import { isoLevelsOnScan, wordsOnIsoLines } from './rasterIso.ts';
+import { distanceToTrack, isoLevelsOnScan, isoPiecesAcross, steepLines, transposeBox, wordsOnIsoLines, type FrameWord } from './rasterIso.ts';
 import type { RasterPanelsFound } from './rasterPanels.ts';
 import { inkBlots, readCrops, wordsOf, type Blot, type TextReader } from './rasterText.ts';
 import { curveLabel, SHEET_NUMBER, sheetNumber } from './words.ts';
@@ -35,9 +35,11 @@ export interface RasterCurve {
   panel: FoundPanel;
   quantity: Quantity;
   kind: 'curve' | 'iso';
-  /** The line found, and the frame it was found in, level pixels. */
+  /** The line found, and the frame it was found in, level pixels (with `transposed`, both turned over the diagonal: see rasterIso.ts). */
   track: Track;
   levelFrame: Box;
+  /** A steep iso-line found on the transposed ink: its track's `u` are rows, its `v` columns. */
+  transposed?: boolean;
   /** Where the tracer is started, sheet units, in order along the line. */
   guides: SheetPoint[];
   /** The tracer's line, sheet units. */
@@ -129,6 +131,7 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
   };
   const toLevel = (p: SheetPoint): [number, number] => level.toLevel(p[0] * image.scale, p[1] * image.scale);
   const curves: RasterCurve[] = [];
+  const isoWordsAt: FrameWord[] = [];
   const labelsAt: { word: Blot; frame: Box; clean: InkMap; at: [number, number] }[] = [];
   const frames = framesOf(found);
   for (const [k, { frame, panels }] of frames.entries()) {
@@ -142,6 +145,7 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     // free; only words on a line or beside a line's end are read.
     const bare = panels.some((p) => p.quantity === 'head') ? frameLines(map, frame, { ceiling: 0.3 * page.strong, grid }) : [];
     const labels = bare.length > 0 ? frameWords(map, frame, page.strong, page.h, bare, printed) : printed;
+    const everyWord = labels.words;
     labels.words = labels.words.filter((w) => nearLine({ l: w.l + labels.at[0], t: w.t + labels.at[1], r: w.r + labels.at[0], b: w.b + labels.at[1] }, bare.length > 0 ? bare : []));
     const tracks = dropDoubles(frameLines(map, frame, { ceiling: 0.3 * page.strong, grid, holes }));
     // More lines than any sheet draws in one frame: the ink was not told from the grid or the noise.
@@ -166,6 +170,24 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
       if (!panel) continue;
       curves.push({ panel, quantity: kind === 'iso' ? 'efficiency' : (panel.quantity as Quantity), kind, track: t, levelFrame: frame, guides: [], traced: [], flows: [NaN, NaN], confidence: 1 });
     }
+    // Iso-lines cross the head curves steeply: the branch of one that the column-by-column finder
+    // cannot follow is looked for on the ink turned over its diagonal.
+    if (head) {
+      const steep = steepLines(map, frame, { ceiling: 0.3 * page.strong, grid, holes }, tracks);
+      const frameT = transposeBox(frame);
+      if (steep.length <= MAX_LINES) {
+        for (const t of steep) curves.push({ panel: head, quantity: 'efficiency', kind: 'iso', track: t, levelFrame: frameT, transposed: true, guides: [], traced: [], flows: [NaN, NaN], confidence: 1 });
+        // The words on those lines, for their levels only (the head curves' names never rest on them).
+        const kept = new Set(labels.words);
+        for (const word of everyWord) {
+          if (kept.has(word)) continue;
+          const cx = (word.l + word.r) / 2 + labels.at[0];
+          const cy = (word.t + word.b) / 2 + labels.at[1];
+          if (steep.some((t) => distanceToTrack(t, cy, cx) <= 1.5 * (word.b - word.t))) isoWordsAt.push({ word, clean: labels.clean, at: labels.at });
+        }
+      }
+      options.note?.(`${steep.length} steep line${steep.length === 1 ? '' : 's'} found on the turned ink of the head frame`);
+    }
     if (head) labelsAt.push(...labels.words.map((word) => ({ word, frame, clean: labels.clean, at: labels.at })));
   }
 
@@ -189,7 +211,13 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
       c.confidence = 0;
       continue;
     }
-    c.guides = places.map((p) => toSheet(p.u, p.v));
+    // A turned line's track speaks in turned coordinates: (u, v) are (row, column).
+    const toLine = c.transposed ? (p: SheetPoint): [number, number] => {
+      const [u, v] = toLevel(p);
+      return [v, u];
+    } : toLevel;
+    const fromLine = (u: number, v: number) => (c.transposed ? toSheet(v, u) : toSheet(u, v));
+    c.guides = places.map((p) => fromLine(p.u, p.v));
     const frame = c.panel.frame;
     try {
       const traced = captureRasterTrace(image, { guides: c.guides }, { frame: [frame[0], frame[1], frame[2], frame[3]] });
@@ -211,7 +239,7 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     const past = { start: [] as [number, number][], end: [] as [number, number][] };
     const tol = Math.max(3, 1.5 * width);
     for (const p of c.traced) {
-      const [u, v] = toLevel(p);
+      const [u, v] = toLine(p);
       if (u < first) past.start.push([u, v]);
       if (u > last) past.end.push([u, v]);
       const at = trackAt(c.track, u);
@@ -235,10 +263,10 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
       const run = past[side];
       if (runOn[side] && run.length > 0) {
         const [u, v] = run.reduce((a, b) => ((side === 'end' ? b[0] > a[0] : b[0] < a[0]) ? b : a));
-        return toSheet(u, v);
+        return fromLine(u, v);
       }
       const k = side === 'end' ? n0 : 0;
-      return toSheet(c.track.u[k] as number, c.track.v[k] as number);
+      return fromLine(c.track.u[k] as number, c.track.v[k] as number);
     };
     const ends = [endAt('start'), endAt('end')];
     const xs = ends.map((p) => c.panel.proposal.calibration.toData(p)[0]);
@@ -247,7 +275,13 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
   // A line found in pieces (the finder lost it in a bunch, at a crossing or at a label) is one
   // curve: a piece lying along the tracer's line of a surer (or longer) line of its frame is that
   // line, already taken, and neither a curve nor a question of its own.
-  const pieces = piecesOf(curves, toLevel);
+  const turnedLevel = (p: SheetPoint): [number, number] => {
+    const [u, v] = toLevel(p);
+    return [v, u];
+  };
+  const pieces = new Set([...piecesOf(curves.filter((c) => !c.transposed), toLevel), ...piecesOf(curves.filter((c) => c.transposed), turnedLevel)]);
+  // A steep branch and a shallow one found apart may be one iso-line: the tracer's line of one runs along the other.
+  for (const c of isoPiecesAcross(curves.filter((k) => k.kind === 'iso' && !pieces.has(k)), toLevel)) pieces.add(c);
   const kept = curves.filter((c) => !pieces.has(c));
   if (pieces.size > 0) options.note?.(`${pieces.size} line${pieces.size === 1 ? '' : 's'} found lying along the tracer's line of another: pieces of it, dropped`);
   const usable = kept.filter((c) => c.confidence > 0 && c.kind === 'curve');
@@ -261,18 +295,22 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
   const named = await nameHeads(heads, labelsAt, page.strong, reader, level, image.scale, options.given, questions, leftOut, options.note);
   // The iso-lines' levels, from the "%" labels on them (rasterIso.ts).
   const isoNamed: RasterCurve[] = [];
+  // A line the tracer could not follow is left out, said once; the levels of the others are then unsure.
   const unfollowed = isos.filter((c) => c.confidence === 0 || c.guides.length === 0 || c.traced.length < 2);
+  const followed = isos.filter((c) => !unfollowed.includes(c));
   if (unfollowed.length > 0) {
     const id = (isos[0] as RasterCurve).panel.id;
-    leftOut.push(`${unfollowed.length} of the ${isos.length} iso-lines on panel "${id}" could not be followed (nowhere do they stand alone); efficiency from the iso-lines is left out: trace them by hand.`);
-  } else if (isos.length > 0) {
-    const onLines = wordsOnIsoLines(labelsAt, isos, heads);
-    const iso = await isoLevelsOnScan(isos, onLines, reader, 2 * page.strong, (isos[0] as RasterCurve).panel.id, options.note);
+    leftOut.push(`${unfollowed.length} of the ${isos.length} iso-lines found on panel "${id}" could not be followed (nowhere ${unfollowed.length === 1 ? 'does it' : 'do they'} stand alone); ${unfollowed.length === 1 ? 'it is' : 'they are'} left out${followed.length > 0 ? ', and the levels of the others are unsure' : ''}: trace ${unfollowed.length === 1 ? 'it' : 'them'} by hand with ${unfollowed.length === 1 ? 'its level' : 'their levels'}.`);
+  }
+  if (followed.length > 0) {
+    // Words are placed among all the lines found (a label on a line left out names nothing else).
+    const onLines = new Map([...wordsOnIsoLines([...labelsAt, ...isoWordsAt], isos, heads)].filter(([, c]) => followed.includes(c)));
+    const iso = await isoLevelsOnScan(followed, onLines, reader, 2 * page.strong, (followed[0] as RasterCurve).panel.id, options.note);
     if (iso.missing) leftOut.push(iso.missing);
     for (const [c, v] of iso.levels) {
       c.value = v;
       c.named = 'label';
-      c.confidence = iso.single.has(c) ? Math.min(0.45, c.confidence) : 0.95 * c.confidence;
+      c.confidence = iso.unsure.has(c) || unfollowed.length > 0 ? Math.min(0.45, c.confidence) : 0.95 * c.confidence;
       isoNamed.push(c);
     }
   }

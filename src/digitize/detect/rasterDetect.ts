@@ -86,7 +86,16 @@ export async function detectRasterTakeoff(input: TakeoffToDetect, raw: Record<st
   // What was left out or is unsure, said once: one question for the curves of the sheet.
   const unsure = traces.filter((t) => t.origin === 'detected' && (t.confidence ?? 1) < 0.5);
   const look = [...curves.leftOut];
-  if (unsure.length > 0) look.push(`The tracer's line and the line found disagree for ${unsure.map((t) => `"${t.id}"`).join(', ')} (confidence under 0.5); look at ${unsure.length === 1 ? 'it' : 'them'} on the sheet before using the curve set.`);
+  if (unsure.length > 0) {
+    const curvesUnsure = unsure.filter((t) => t.iso === undefined);
+    const isoUnsure = unsure.filter((t) => t.iso !== undefined);
+    const list = (ts: typeof unsure) => ts.map((t) => `"${t.id}"`).join(', ');
+    const why = [
+      ...(curvesUnsure.length > 0 ? [`the tracer's line and the line found disagree for ${list(curvesUnsure)}`] : []),
+      ...(isoUnsure.length > 0 ? [`the iso level${isoUnsure.length === 1 ? '' : 's'} of ${list(isoUnsure)} ${isoUnsure.length === 1 ? 'was' : 'were'} not read on both branches of ${isoUnsure.length === 1 ? 'its' : 'their'} level, or came from the order of the lines`] : []),
+    ];
+    look.push(`${why.join('; ').replace(/^./, (c) => c.toUpperCase())} (confidence under 0.5); look at ${unsure.length === 1 ? 'it' : 'them'} on the sheet before using the curve set.`);
+  }
   if (look.length > 0) questions.push(look.length === 1 ? (look[0] as string) : `Some curves need you: ${look.map((k, i) => `(${i + 1}) ${k}`).join(' ')}`);
   if (traces.length === 0) {
     const why = questions.length > 0 ? ` It asks: ${questions.join(' ')}` : '';

@@ -3,20 +3,24 @@
  * level each line carries, and what stays unknown.
  *
  * A line of the head frame that starts neither at the flow axis nor at the bottom is taken for
- * an iso-line (rasterCurves.ts). Its level comes only from the label printed on it ("64%", read
- * as words and as digits, the two readings agreeing, the label's middle on the line). On a scan
- * the line finder may miss an iso-line (a steep branch, a line lost in the grid), so the order of
- * the lines found along the flow axis names nothing: a level inferred by order, as on a vector
- * sheet (isoLevels.ts), would take the level of a line that was not found. Efficiency from
- * iso-lines rests on every line found in the panel: when one has no level, none is used and the
- * engineer is told once. A level found on one line only (its other branch not found) is kept
- * but unsure, so that the engineer looks at it.
+ * an iso-line (rasterCurves.ts); a steep branch, which the column-by-column line finder cannot
+ * follow, is found on the ink turned over its diagonal (steepLines), and the pieces of one line
+ * found both ways are joined (isoPiecesAcross). A line's level comes from the label printed on
+ * it ("64%", read as words and as digits, the two readings agreeing, the label's middle on the
+ * line). An unlabelled line takes its level from the labelled ones by their order along the flow
+ * axis (isoLevels.ts, as on a vector sheet), but on a scan a line the finder missed would shift
+ * that order, so such a level is unsure, and so is a level found on one line only (its other
+ * branch not found): the engineer is asked to look at them. A line left without a level is left
+ * out, said in one sentence, and the levels of the others are then all unsure: the efficiency
+ * they give rests on part of the crossings.
  *
  * Pure: the reader is handed in.
  */
 import type { SheetPoint } from '../points.ts';
 import type { InkMap } from './ink.ts';
-import type { Track } from './rasterLines.ts';
+import { inferIsoLevels } from './isoLevels.ts';
+import type { Box } from './panels.ts';
+import { frameLines, type LinesOptions, type Track } from './rasterLines.ts';
 import { readCrops, type Blot, type TextReader } from './rasterText.ts';
 
 /** A word found in a frame: its box in the frame's cleaned ink (`clean`, offset `at` on the level page). */
@@ -26,10 +30,73 @@ export interface FrameWord {
   at: [number, number];
 }
 
-/** An iso-line as this file needs it: the line found (level pixels) and the tracer's line (sheet units). */
+/**
+ * An iso-line as this file needs it: the line found (level pixels; with `transposed`, found on
+ * the page turned over its diagonal, so its `u` are rows and its `v` columns) and the tracer's
+ * line (sheet units).
+ */
 export interface IsoLine {
   track: Track;
   traced: readonly SheetPoint[];
+  transposed?: boolean;
+}
+
+/**
+ * The ink of a box (level pixels) turned over its diagonal, rows becoming columns, and shrunk by
+ * `factor` (each pixel the darkest of its factor × factor block, so a thin line stays): a steep
+ * line becomes a shallow one, which the column-by-column line finder follows. Pixel (i, j) of
+ * the result covers turned coordinates (top + i·factor, left + j·factor).
+ */
+export function turnedInk(map: InkMap, box: Box, factor: number): InkMap {
+  const [l, t, r, b] = box.map(Math.round) as [number, number, number, number];
+  const width = Math.max(1, Math.ceil((b - t) / factor));
+  const height = Math.max(1, Math.ceil((r - l) / factor));
+  const out = new Uint8Array(width * height);
+  for (let y = Math.max(0, t); y < Math.min(map.height, b); y++) {
+    const i = Math.floor((y - t) / factor);
+    const row = y * map.width;
+    for (let x = Math.max(0, l); x < Math.min(map.width, r); x++) {
+      const k = Math.floor((x - l) / factor) * width + i;
+      const d = map.ink[row + x] as number;
+      if (d > (out[k] as number)) out[k] = d;
+    }
+  }
+  return { width, height, ink: out };
+}
+
+/** A box (left, top, right, bottom) turned over the diagonal. */
+export const transposeBox = (b: Box | readonly [number, number, number, number]): Box => [b[1], b[0], b[3], b[2]];
+
+/** Shrinking of the turned ink for the steep-line pass: frames wider than this (level pixels) are looked at in 2 × 2 blocks. */
+const SHRINK_ABOVE = 1200;
+
+/**
+ * The steep lines of a frame, in turned coordinates (see IsoLine): lines found on the turned ink
+ * of the frame (turnedInk, shrunk by 2 on large frames), except those that run along a line the
+ * normal pass found (`normal`, level coordinates): a line at about 45° is found both ways.
+ */
+export function steepLines(map: InkMap, frame: Box, options: LinesOptions, normal: readonly Track[]): Track[] {
+  const [l, t, r, b] = frame;
+  const f = r - l > SHRINK_ABOVE ? 2 : 1;
+  const small = turnedInk(map, frame, f);
+  // Level (x, y) → small turned pixel: column (y − top)/f, row (x − left)/f.
+  const turnedGrid = { x: options.grid.y.map((y) => (y - t) / f), y: options.grid.x.map((x) => (x - l) / f) };
+  const holes = options.holes?.map((h) => [(h[1] - t) / f, (h[0] - l) / f, (h[3] - t) / f, (h[2] - l) / f] as const);
+  const found = frameLines(small, [0, 0, small.width, small.height], { ...options, grid: turnedGrid, ...(holes ? { holes } : {}) });
+  // Back to full-size turned coordinates: u a row, v a column of the level page.
+  const tracks = found.map((k) => ({
+    ...k,
+    u: k.u.map((u) => t + u * f),
+    v: k.v.map((v) => l + v * f),
+    room: k.room.map((x) => x * f),
+    len: k.len.map((x) => x * f),
+  }));
+  return tracks.filter((k) => {
+    let near = 0;
+    let n = 0;
+    for (let i = 0; i < k.u.length; i += 4, n++) if (normal.some((o) => distanceToTrack(o, k.v[i] as number, k.u[i] as number) <= 3)) near++;
+    return near < 0.5 * n;
+  });
 }
 
 /**
@@ -99,7 +166,7 @@ export function wordsOnIsoLines<L extends IsoLine>(words: readonly FrameWord[], 
     let bestD = Infinity;
     let second = Infinity;
     for (const c of isos) {
-      const d = distanceToTrack(c.track, cx, cy);
+      const d = c.transposed ? distanceToTrack(c.track, cy, cx) : distanceToTrack(c.track, cx, cy);
       if (d < bestD) [second, bestD, best] = [bestD, d, c];
       else if (d < second) second = d;
     }
@@ -111,18 +178,15 @@ export function wordsOnIsoLines<L extends IsoLine>(words: readonly FrameWord[], 
 }
 
 export interface IsoLevels<L> {
-  /** Every iso-line's level, or empty when some line has none (then `missing` says so). */
+  /** The level of every iso-line that has one (when some line has none, `missing` says so). */
   levels: Map<L, number>;
-  /** Levels found on one line only (the other branch not found): kept, but unsure. */
-  single: Set<L>;
+  /** Levels inferred by order, or found on one line only (the other branch not found): kept, but unsure. */
+  unsure: Set<L>;
   /** One sentence for the engineer when the levels are incomplete or disagree; null when all are known. */
   missing: string | null;
 }
 
-/**
- * Levels of the iso-lines of one head panel, read from their labels (`onLines`, each word's
- * line). Every line has a level, or none is returned.
- */
+/** Levels of the iso-lines of one head panel, from their labels (`onLines`, each word's line) and their order. */
 export async function isoLevelsOnScan<L extends IsoLine>(
   isos: readonly L[],
   onLines: ReadonlyMap<FrameWord, L>,
@@ -132,8 +196,8 @@ export async function isoLevelsOnScan<L extends IsoLine>(
   note: (line: string) => void = () => undefined,
 ): Promise<IsoLevels<L>> {
   const levels = new Map<L, number>();
-  const single = new Set<L>();
-  if (isos.length === 0) return { levels, single, missing: null };
+  const unsure = new Set<L>();
+  if (isos.length === 0) return { levels, unsure, missing: null };
   // Read the words on the lines, one call per cleaned frame, as words and as digits.
   const read = new Map<L, Set<number>>();
   const byClean = new Map<InkMap, FrameWord[]>();
@@ -157,9 +221,69 @@ export async function isoLevelsOnScan<L extends IsoLine>(
   const known = new Map<L, number>();
   for (const [line, set] of read) if (set.size === 1) known.set(line, [...set][0] as number);
   for (const [c, v] of known) levels.set(c, v);
-  for (const [c, v] of known) if ([...known.values()].filter((k) => k === v).length === 1) single.add(c);
-  if (levels.size === isos.length) return { levels, single, missing: null };
+  // The rest by order along the flow axis, from the tracer's lines.
+  if (levels.size < isos.length && known.size > 0) {
+    const shapes = isos.map((line) => ({ line, points: line.traced }));
+    if (shapes.every((k) => k.points.length >= 2)) {
+      const knownShapes = new Map(shapes.filter((k) => known.has(k.line)).map((k) => [k, known.get(k.line) as number]));
+      for (const [k, v] of inferIsoLevels(shapes, knownShapes)) {
+        levels.set(k.line, v);
+        unsure.add(k.line);
+        note(`iso-line without a label takes ${v} % by order`);
+      }
+    }
+  }
+  for (const [c, v] of levels) if ([...levels.values()].filter((k) => k === v).length === 1) unsure.add(c);
+  if (levels.size === isos.length) return { levels, unsure, missing: null };
   const readList = [...new Set(known.values())].sort((a, b) => a - b);
-  const missing = `${isos.length - levels.size} of the ${isos.length} iso-lines found on panel "${panelId}" ${isos.length - levels.size === 1 ? 'has' : 'have'} no "%" label read on ${isos.length - levels.size === 1 ? 'it' : 'them'}${readList.length > 0 ? ` (levels read: ${readList.map((v) => `${v} %`).join(', ')})` : ''}; efficiency from the iso-lines is left out: trace them by hand with their levels.`;
-  return { levels: new Map(), single: new Set(), missing };
+  const missing = `${isos.length - levels.size} of the ${isos.length} iso-lines found on panel "${panelId}" ${isos.length - levels.size === 1 ? 'has' : 'have'} no level (no "%" label read on ${isos.length - levels.size === 1 ? 'it' : 'them'}, and the order of the lines does not give one)${readList.length > 0 ? ` (levels read: ${readList.map((v) => `${v} %`).join(', ')})` : ''}; ${isos.length - levels.size === 1 ? 'it is' : 'they are'} left out${levels.size > 0 ? ', and the levels of the others are unsure (their efficiency rests on part of the crossings): look at them' : ''}; trace what is missing by hand with its level.`;
+  for (const c of levels.keys()) unsure.add(c);
+  return { levels, unsure, missing };
+}
+
+/** A polyline (level pixels) as a track, for distanceToTrack: points in the order given. */
+const polyline = (points: readonly (readonly [number, number])[]): Track => ({ u: points.map((p) => p[0]), v: points.map((p) => p[1]), room: [], len: [] });
+
+/** A found line's points in level pixels, whichever way it was found. */
+const levelPoints = (c: IsoLine): [number, number][] => c.track.u.map((u, i) => (c.transposed ? [c.track.v[i] as number, u] : [u, c.track.v[i] as number]));
+
+/** Share of `points` within `tol` of the polyline `line`, looked at every 3rd point. */
+function shareAlong(points: readonly (readonly [number, number])[], line: Track, tol: number): number {
+  let near = 0;
+  let n = 0;
+  for (let i = 0; i < points.length; i += 3, n++) {
+    const [x, y] = points[i] as [number, number];
+    if (distanceToTrack(line, x, y) <= tol) near++;
+  }
+  return n === 0 ? 0 : near / n;
+}
+
+/**
+ * Iso-lines found in pieces across the two passes (a steep branch on the turned ink, its shallow
+ * rest on the page): a line whose points lie (80 %, within 3 px) along the tracer's line of a
+ * surer one, or of an equally sure one whose tracer's line is longer, is a piece of it; when it
+ * has a tracer's line of its own, the other line lies along that one too (a tracer that ran on
+ * from one line onto another does not make the other a piece of it).
+ */
+export function isoPiecesAcross<L extends IsoLine & { confidence: number }>(isos: readonly L[], toLevel: (p: SheetPoint) => [number, number]): Set<L> {
+  const traced = new Map(isos.map((c) => [c, c.traced.map(toLevel)]));
+  const length = (c: L) => {
+    const p = traced.get(c) as [number, number][];
+    let s = 0;
+    for (let i = 1; i < p.length; i++) s += Math.hypot((p[i] as [number, number])[0] - (p[i - 1] as [number, number])[0], (p[i] as [number, number])[1] - (p[i - 1] as [number, number])[1]);
+    return s;
+  };
+  const out = new Set<L>();
+  for (const c of isos) {
+    for (const k of isos) {
+      if (k === c || out.has(k) || !(k.confidence >= 0.5) || (traced.get(k) as []).length < 2) continue;
+      if (!(k.confidence > c.confidence || (k.confidence === c.confidence && length(k) > length(c)))) continue;
+      if (shareAlong(levelPoints(c), polyline(traced.get(k) as [number, number][]), 3) < 0.8) continue;
+      const own = traced.get(c) as [number, number][];
+      if (own.length >= 2 && shareAlong(levelPoints(k), polyline(own), 3) < 0.8) continue;
+      out.add(c);
+      break;
+    }
+  }
+  return out;
 }
