@@ -103,7 +103,30 @@ export function readAxis(list: readonly TickLabel[]): { inliers: TickLabel[]; ou
   const c = consensus(list);
   if (c) return { ...c, rounded: [] };
   const r = roundedConsensus(list);
-  return r ? { inliers: r.inliers, outliers: [], rounded: r.rounded } : null;
+  if (r) return { inliers: r.inliers, outliers: [], rounded: r.rounded };
+  const restored = pointsRestored(list);
+  const p = restored ? consensus(restored) : null;
+  // Only when every label then lies on one evenly spaced axis: a restored point is a reading, not a print.
+  return p && p.outliers.length === 0 ? { ...p, rounded: [] } : null;
+}
+
+/**
+ * Labels whose decimal point the reader lost on a scan ("75" for 7.5 beside "10.0"): when some
+ * labels of the axis print d decimals, a label read as d + 1 or more digits without a point is
+ * taken as that number over 10^d. Null when no label prints a point, or none lost one. The
+ * caller accepts the result only when every label then lies on one evenly spaced axis.
+ */
+export function pointsRestored(labels: readonly TickLabel[]): TickLabel[] | null {
+  const decimals = new Set(labels.map((l) => /^-?\d+[.,](\d+)$/.exec(l.text.trim())?.[1]?.length).filter((d): d is number => d !== undefined));
+  if (decimals.size !== 1) return null;
+  const d = [...decimals][0] as number;
+  let changed = false;
+  const out = labels.map((l) => {
+    if (!new RegExp(`^-?\\d{${d + 1},}$`).test(l.text.trim())) return l;
+    changed = true;
+    return { ...l, value: l.value / 10 ** d };
+  });
+  return changed ? out : null;
 }
 
 export function robustProposal(text: readonly SheetText[], paths: readonly VectorPath[], frame: Box): RobustProposal | null {
