@@ -300,7 +300,7 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
   const followed = isos.filter((c) => !unfollowed.includes(c));
   if (unfollowed.length > 0) {
     const id = (isos[0] as RasterCurve).panel.id;
-    leftOut.push(`${unfollowed.length} of the ${isos.length} iso-lines found on panel "${id}" could not be followed (nowhere ${unfollowed.length === 1 ? 'does it' : 'do they'} stand alone); ${unfollowed.length === 1 ? 'it is' : 'they are'} left out${followed.length > 0 ? ', and the levels of the others are unsure' : ''}: trace ${unfollowed.length === 1 ? 'it' : 'them'} by hand with ${unfollowed.length === 1 ? 'its level' : 'their levels'}.`);
+    leftOut.push(`${unfollowed.length} of the ${isos.length} lines on panel "${id}" that start neither at the flow axis nor at the bottom (iso-lines, or pieces of a curve the finder broke) could not be followed (nowhere ${unfollowed.length === 1 ? 'does it' : 'do they'} stand alone); ${unfollowed.length === 1 ? 'it is' : 'they are'} left out${followed.length > 0 ? ', and the levels of the others are unsure' : ''}: trace ${unfollowed.length === 1 ? 'it' : 'them'} by hand with ${unfollowed.length === 1 ? 'its level' : 'their levels'}.`);
   }
   if (followed.length > 0) {
     // Words are placed among all the lines found (a label on a line left out names nothing else).

@@ -236,7 +236,7 @@ export async function isoLevelsOnScan<L extends IsoLine>(
   for (const [c, v] of levels) if ([...levels.values()].filter((k) => k === v).length === 1) unsure.add(c);
   if (levels.size === isos.length) return { levels, unsure, missing: null };
   const readList = [...new Set(known.values())].sort((a, b) => a - b);
-  const missing = `${isos.length - levels.size} of the ${isos.length} iso-lines found on panel "${panelId}" ${isos.length - levels.size === 1 ? 'has' : 'have'} no level (no "%" label read on ${isos.length - levels.size === 1 ? 'it' : 'them'}, and the order of the lines does not give one)${readList.length > 0 ? ` (levels read: ${readList.map((v) => `${v} %`).join(', ')})` : ''}; ${isos.length - levels.size === 1 ? 'it is' : 'they are'} left out${levels.size > 0 ? ', and the levels of the others are unsure (their efficiency rests on part of the crossings): look at them' : ''}; trace what is missing by hand with its level.`;
+  const missing = `${isos.length - levels.size} of the ${isos.length} lines on panel "${panelId}" that start neither at the flow axis nor at the bottom (iso-lines, or pieces of a curve the finder broke) ${isos.length - levels.size === 1 ? 'has' : 'have'} no level (no "%" label read on ${isos.length - levels.size === 1 ? 'it' : 'them'}, and the order of the lines does not tell it)${readList.length > 0 ? ` (levels read: ${readList.map((v) => `${v} %`).join(', ')})` : ''}; ${isos.length - levels.size === 1 ? 'it is' : 'they are'} left out${levels.size > 0 ? ', and the levels of the others are unsure (their efficiency rests on part of the crossings): look at them' : ''}; trace what is missing by hand with its level.`;
   for (const c of levels.keys()) unsure.add(c);
   return { levels, unsure, missing };
 }
