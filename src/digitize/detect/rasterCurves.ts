@@ -132,7 +132,7 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
   const frames = framesOf(found);
   for (const [k, { frame, panels }] of frames.entries()) {
     options.progress?.((0.4 * k) / frames.length, `finding the lines in frame ${k + 1} of ${frames.length}`);
-    const grid = { x: gridLines(map, frame, 'x'), y: gridLines(map, frame, 'y') };
+    const grid = page.grids?.get(frame) ?? { x: gridLines(map, frame, 'x'), y: gridLines(map, frame, 'y') };
     // The words printed in the frame (curve labels) are no line: the lines are followed around them.
     const printed = frameWords(map, frame, page.strong, page.h);
     const holes = printed.words.map((w) => [w.l + printed.at[0] - 2, w.t + printed.at[1] - 2, w.r + printed.at[0] + 2, w.b + printed.at[1] + 2] as const);

@@ -30,8 +30,8 @@ export interface RasterPanelsFound {
   /** The page's turn on the glass, degrees. */
   turnDeg: number;
   questions: string[];
-  /** The level page the panels were found on, for finding their curves (rasterCurves.ts). */
-  page?: { map: InkMap; level: Level; strong: number; words: Blot[]; h: number };
+  /** The level page the panels were found on, for finding their curves (rasterCurves.ts), with the grid lines of each frame calibrated (rasterFrames.gridLines), so they are not found twice. */
+  page?: { map: InkMap; level: Level; strong: number; words: Blot[]; h: number; grids?: Map<Box, { x: number[]; y: number[] }> };
   /** Each found panel's frame in level pixels. */
   levelFrames?: Map<FoundPanel, Box>;
 }
@@ -337,7 +337,7 @@ export async function findRasterPanels(image: RasterImage, reader: TextReader, p
     levelFrames.set(panel, f);
   }
   progress(1, 'panels found');
-  return { panels, frames, turnDeg, questions, page: { map, level, strong: page.strong, words, h }, levelFrames };
+  return { panels, frames, turnDeg, questions, page: { map, level, strong: page.strong, words, h, grids }, levelFrames };
 }
 
 /** Anchors at grid crossings: every flow label with the lowest and highest value label, and every value label with the lowest and highest flow label; in sheet units. */
