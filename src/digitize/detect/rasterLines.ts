@@ -72,11 +72,6 @@ function course(t: Track, last = 12): { a: number; b: number } {
   return { a: (sv - b * su) / m, b };
 }
 
-function predict(t: Track, u: number): number {
-  const c = course(t);
-  return c.a + c.b * u;
-}
-
 /**
  * The grid's own darkness at a pixel on grid row darkness `row` and grid column darkness `col`
  * (0 off the grid): where a row and a column cross, the two lines lie one over the other and
@@ -90,14 +85,13 @@ export function gridDarkness(row: number, col: number): number {
 }
 
 /**
- * Runs of ink in column `u` between rows t and b. On a grid row (or column) the grid's own
+ * Runs of ink in column `u` between rows t and b (`column`: its pixels from row t). On a grid row (or column) the grid's own
  * darkness there (`base`, its median along the frame; both where they cross, gridDarkness) is
  * taken off first: a line crossing the grid, or running along a grid line, still shows; the
  * grid alone does not.
  */
-function columnRuns(map: InkMap, u: number, t: number, b: number, base: Float32Array, colBase: number, threshold: number, maxLen: number, holes: readonly (readonly [number, number, number, number])[]): Run[] {
+function columnRuns(column: Uint8Array, u: number, t: number, b: number, base: Float32Array, colBase: number, threshold: number, maxLen: number, holes: readonly (readonly [number, number, number, number])[]): Run[] {
   const here = holes.filter((h) => u >= h[0] && u < h[2]);
-  const { width, ink } = map;
   const runs: Run[] = [];
   let start = -1;
   let last = -1;
@@ -113,7 +107,7 @@ function columnRuns(map: InkMap, u: number, t: number, b: number, base: Float32A
     sv = 0;
   };
   for (let v = t; v < b; v++) {
-    const d = here.some((h) => v >= h[1] && v < h[3]) ? 0 : (ink[v * width + u] as number) - gridDarkness(base[v] as number, colBase);
+    const d = here.length > 0 && here.some((h) => v >= h[1] && v < h[3]) ? 0 : (column[v - t] as number) - gridDarkness(base[v] as number, colBase);
     if (d >= threshold) {
       if (start < 0) start = v;
       last = v;
@@ -161,15 +155,19 @@ export function frameLines(map: InkMap, frame: Box, options: LinesOptions): Trac
     const [a] = active.splice(k, 1);
     if (a) done.push(a.track);
   };
+  // The frame's columns, each one's pixels in a row (read column after column below).
+  const columns = frameColumns(map, l + INSET, r - INSET, top, bottom);
+  const rows = bottom - top;
   for (let u = l + INSET; u < r - INSET; u++) {
     for (let k = active.length - 1; k >= 0; k--) if (u - (active[k]!.lastU) > maxGap) retire(k);
-    const runs = columnRuns(map, u, top, bottom, rowBase, colBase[u] as number, threshold, Math.max(12, 0.25 * fh), options.holes ?? []);
+    const k0 = (u - l - INSET) * rows;
+    const runs = columnRuns(columns.subarray(k0, k0 + rows), u, top, bottom, rowBase, colBase[u] as number, threshold, Math.max(12, 0.25 * fh), options.holes ?? []);
     const taken = new Set<number>();
     const claims: { k: number; i: number; d: number }[] = [];
     active.forEach((a, k) => {
       const gap = u - a.lastU;
-      const p = predict(a.track, u + 0.5);
       const c = course(a.track);
+      const p = c.a + c.b * (u + 0.5);
       const tol = 2.5 + 0.5 * (a.track.len[a.track.len.length - 1] ?? 2) + Math.min(6, Math.abs(c.b)) * 1.5 + 0.15 * gap;
       let best = -1;
       let bestD = Infinity;
@@ -221,11 +219,36 @@ export function frameLines(map: InkMap, frame: Box, options: LinesOptions): Trac
   return joinPieces(done.filter((tr) => tr.u.length >= 3), maxGap * 4, fh).filter((tr) => (tr.u[tr.u.length - 1] as number) - (tr.u[0] as number) >= minSpan && !isRule(tr));
 }
 
+/** The ink of columns [c0, c1) between rows [r0, r1), column after column (read in tiles, so that both sides stay in the cache). */
+function frameColumns(map: InkMap, c0: number, c1: number, r0: number, r1: number): Uint8Array {
+  const { width, ink } = map;
+  const rows = Math.max(0, r1 - r0);
+  const out = new Uint8Array(Math.max(0, c1 - c0) * rows);
+  const TILE = 64;
+  for (let y0 = r0; y0 < r1; y0 += TILE) {
+    const y1 = Math.min(r1, y0 + TILE);
+    for (let x0 = c0; x0 < c1; x0 += TILE) {
+      const x1 = Math.min(c1, x0 + TILE);
+      for (let y = y0; y < y1; y++) {
+        const from = y * width;
+        const to = y - r0;
+        for (let x = x0; x < x1; x++) out[(x - c0) * rows + to] = ink[from + x] as number;
+      }
+    }
+  }
+  return out;
+}
+
 function medianAlong(map: InkMap, at: number, from: number, to: number, along: 'row' | 'column'): number {
-  const values: number[] = [];
-  for (let k = from; k < to; k += 2) values.push(map.ink[along === 'row' ? at * map.width + k : k * map.width + at] as number);
-  values.sort((a, b) => a - b);
-  return values.length ? (values[values.length >> 1] as number) : 0;
+  // The median of every other pixel, counted by darkness (the upper middle of an even count).
+  const hist = new Uint32Array(256);
+  let n = 0;
+  for (let k = from; k < to; k += 2, n++) hist[map.ink[along === 'row' ? at * map.width + k : k * map.width + at] as number]!++;
+  if (n === 0) return 0;
+  const middle = n >> 1;
+  let seen = 0;
+  for (let v = 0; v < 256; v++) if ((seen += hist[v] as number) > middle) return v;
+  return 0;
 }
 
 /** A straight level line (a grid line the grid finder missed), not a curve: within 1.5 px of one row all along. */
