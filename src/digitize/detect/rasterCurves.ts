@@ -386,7 +386,7 @@ export function courseBreak(t: Track, tol: number, reach: number): number | null
     const ahead: [number, number][] = [];
     for (let k = i + 1; k < n && (t.u[k] as number) - u <= reach / 2; k++) ahead.push([t.u[k] as number, t.v[k] as number]);
     if (ahead.length < 8) break;
-    const off = offCourse(cutTrack(t, i + 1), 'end', reach, true);
+    const off = offCourse(cutTrack(t, i + 1), 'end', reach, true, tol);
     if (!off) continue;
     const far = ahead.map(([au, av]) => off(au, av) > tol);
     const tail = far.slice(Math.floor(0.75 * far.length));

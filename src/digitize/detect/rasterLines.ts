@@ -422,22 +422,57 @@ export function continuesCourse(t: Track, points: readonly (readonly [number, nu
  * for a point (column, row) past the end, how far it lies from the course less 2 % of its distance
  * from the end (Infinity before the end or farther than twice `reach` past it). Null when the
  * stretch holds fewer than 8 columns.
+ *
+ * With `near` (the distance the caller compares with), the parabola is first fitted by the normal
+ * equations, which is many times quicker than the QR fit (solveLeastSquares) and agrees with it to
+ * far under `DECIDE_MARGIN`; wherever a decision lies within that margin of its threshold (a
+ * column kept by the robust fit, a distance against `near`), the QR fit is made and used, so every
+ * decision is the QR fit's. Distances far from `near` may then differ from the QR fit's in their
+ * last digits.
  */
-export function offCourse(t: Track, side: 'start' | 'end', reach: number, robust = false): ((u: number, v: number) => number) | null {
+export function offCourse(t: Track, side: 'start' | 'end', reach: number, robust = false, near?: number): ((u: number, v: number) => number) | null {
   const n = t.u.length;
   if (n === 0) return null;
   const endU = (side === 'end' ? t.u[n - 1] : t.u[0]) as number;
   const sign = side === 'end' ? 1 : -1;
   // v = a + b·x + c·x² over the stretch, x = (u − endU)·sign in units of `reach` (−1 … 0 on the track).
-  const rows: number[][] = [];
+  const xs: number[] = [];
   const vs: number[] = [];
   for (let i = 0; i < n; i++) {
     const x = (((t.u[i] as number) - endU) * sign) / reach;
     if (x < -1) continue;
-    rows.push([1, x, x * x]);
+    xs.push(x);
     vs.push(t.v[i] as number);
   }
-  if (rows.length < 8) return null;
+  if (xs.length < 8) return null;
+  let sure = near === undefined;
+  let coef = sure ? null : quickCourse(xs, vs, robust);
+  if (!coef) {
+    coef = exactCourse(xs, vs, robust);
+    sure = true;
+  }
+  if (!coef) return null;
+  let [a, b, c] = coef;
+  return (u, v) => {
+    const d = (u - endU) * sign;
+    const x = d / reach;
+    if (d < 0 || x > 2) return Infinity;
+    const off = Math.abs(a + b * x + c * x * x - v) - 0.02 * d;
+    if (sure || Math.abs(off - (near as number)) > DECIDE_MARGIN) return off;
+    // Near the threshold: the QR fit decides (it exists: the quick fit was well conditioned).
+    sure = true;
+    const exact = exactCourse(xs, vs, robust);
+    if (exact) [a, b, c] = exact;
+    return Math.abs(a + b * x + c * x * x - v) - 0.02 * d;
+  };
+}
+
+/** Pixels within which a decision on the quick fit of a course is left to the QR fit (offCourse). */
+const DECIDE_MARGIN = 1e-4;
+
+/** The parabola's coefficients by QR (solveLeastSquares), fitted again without the columns more than 2 px off when `robust`; null when the columns define none. */
+function exactCourse(xs: readonly number[], vs: readonly number[], robust: boolean): [number, number, number] | null {
+  const rows = xs.map((x) => [1, x, x * x]);
   let coef: number[];
   try {
     coef = solveLeastSquares(rows, vs).solution;
@@ -457,13 +492,67 @@ export function offCourse(t: Track, side: 'start' | 'end', reach: number, robust
       }
     }
   }
-  const [a, b, c] = coef as [number, number, number];
-  return (u, v) => {
-    const d = (u - endU) * sign;
-    const x = d / reach;
-    if (d < 0 || x > 2) return Infinity;
-    return Math.abs(a + b * x + c * x * x - v) - 0.02 * d;
-  };
+  return coef as [number, number, number];
+}
+
+/**
+ * The same parabola by the normal equations (3 × 3, by the adjugate), or null when the QR fit must
+ * decide: the equations are not well conditioned (1-norm condition over 1e6, where their answer
+ * could stray from the QR fit's by more than a millionth of a pixel), or a column lies within
+ * `DECIDE_MARGIN` of the robust fit's 2 px.
+ */
+function quickCourse(xs: readonly number[], vs: readonly number[], robust: boolean): [number, number, number] | null {
+  const first = normalFit(xs, vs, null);
+  if (!first || !robust) return first;
+  const [a0, b0, c0] = first;
+  const keep: boolean[] = [];
+  let kept = 0;
+  for (let k = 0; k < xs.length; k++) {
+    const x = xs[k] as number;
+    const r = Math.abs(a0 + b0 * x + c0 * x * x - (vs[k] as number));
+    if (Math.abs(r - 2) <= DECIDE_MARGIN) return null;
+    keep.push(r <= 2);
+    if (r <= 2) kept++;
+  }
+  return kept >= 8 && kept < xs.length ? normalFit(xs, vs, keep) : first;
+}
+
+function normalFit(xs: readonly number[], vs: readonly number[], keep: readonly boolean[] | null): [number, number, number] | null {
+  let s0 = 0;
+  let s1 = 0;
+  let s2 = 0;
+  let s3 = 0;
+  let s4 = 0;
+  let t0 = 0;
+  let t1 = 0;
+  let t2 = 0;
+  for (let k = 0; k < xs.length; k++) {
+    if (keep && !keep[k]) continue;
+    const x = xs[k] as number;
+    const v = vs[k] as number;
+    const x2 = x * x;
+    s0 += 1;
+    s1 += x;
+    s2 += x2;
+    s3 += x2 * x;
+    s4 += x2 * x2;
+    t0 += v;
+    t1 += v * x;
+    t2 += v * x2;
+  }
+  // M = [[s0 s1 s2] [s1 s2 s3] [s2 s3 s4]], symmetric: its inverse is the adjugate over the determinant.
+  const i00 = s2 * s4 - s3 * s3;
+  const i01 = s2 * s3 - s1 * s4;
+  const i02 = s1 * s3 - s2 * s2;
+  const i11 = s0 * s4 - s2 * s2;
+  const i12 = s1 * s2 - s0 * s3;
+  const i22 = s0 * s2 - s1 * s1;
+  const det = s0 * i00 + s1 * i01 + s2 * i02;
+  if (!(Math.abs(det) > 0)) return null;
+  const normM = Math.max(Math.abs(s0) + Math.abs(s1) + Math.abs(s2), Math.abs(s1) + Math.abs(s2) + Math.abs(s3), Math.abs(s2) + Math.abs(s3) + Math.abs(s4));
+  const normInv = Math.max(Math.abs(i00) + Math.abs(i01) + Math.abs(i02), Math.abs(i01) + Math.abs(i11) + Math.abs(i12), Math.abs(i02) + Math.abs(i12) + Math.abs(i22)) / Math.abs(det);
+  if (!(normM * normInv <= 1e6)) return null;
+  return [(i00 * t0 + i01 * t1 + i02 * t2) / det, (i01 * t0 + i11 * t1 + i12 * t2) / det, (i02 * t0 + i12 * t1 + i22 * t2) / det];
 }
 
 /**
