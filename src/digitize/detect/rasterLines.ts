@@ -106,15 +106,19 @@ function columnRuns(column: Uint8Array, u: number, t: number, b: number, base: F
     sw = 0;
     sv = 0;
   };
+  // The grid's darkness is never negative: a pixel lighter than a threshold above zero is no ink
+  // whatever is taken off (most pixels are paper).
+  const paperBelow = threshold > 0 ? threshold : -Infinity;
   for (let v = t; v < b; v++) {
-    const d = here.length > 0 && here.some((h) => v >= h[1] && v < h[3]) ? 0 : (column[v - t] as number) - gridDarkness(base[v] as number, colBase);
+    const pixel = column[v - t] as number;
+    const d = pixel < paperBelow || (here.length > 0 && here.some((h) => v >= h[1] && v < h[3])) ? 0 : pixel - gridDarkness(base[v] as number, colBase);
     if (d >= threshold) {
       if (start < 0) start = v;
       last = v;
       const w = d - threshold + 1;
       sw += w;
       sv += w * (v + 0.5);
-    } else close();
+    } else if (start >= 0) close();
   }
   close();
   for (let i = 0; i < runs.length; i++) {
