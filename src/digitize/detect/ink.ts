@@ -70,7 +70,8 @@ export function inkMap(image: RasterImage): InkMap {
       smooth[by * bw + bx] = best;
     }
   }
-  const ink = new Uint8Array(width * height);
+  // Each pixel's darkness is written over its own luminance, read last here.
+  const ink = lum;
   for (let y = 0; y < height; y++) {
     const row = Math.min(bh - 1, (y / BLOCK) | 0) * bw;
     const base = y * width;
@@ -111,18 +112,20 @@ export function strongInk(map: InkMap): number {
  */
 export function pageAngle(map: InkMap, threshold: number): number {
   const { width, height, ink } = map;
-  const xs: number[] = [];
-  const ys: number[] = [];
+  let count = 0;
   // Every row (sampling every other row would favour the level angle, whose bins it fills alternately).
-  for (let y = 0; y < height; y++) {
+  for (let y = 0; y < height; y++) for (let x = y % 3; x < width; x += 3) if ((ink[y * width + x] as number) >= threshold) count++;
+  if (count < 50) return 0;
+  const xs = new Float64Array(count);
+  const ys = new Float64Array(count);
+  for (let y = 0, k = 0; y < height; y++) {
     for (let x = y % 3; x < width; x += 3) {
       if ((ink[y * width + x] as number) >= threshold) {
-        xs.push(x);
-        ys.push(y);
+        xs[k] = x;
+        ys[k++] = y;
       }
     }
   }
-  if (xs.length < 50) return 0;
   const bins = new Float64Array(4 * (height + 2 * width));
   // `per`: bins a pixel (1 for the coarse search, 4 for the fine one, where a quarter pixel over the page's width matters).
   const score = (a: number, per = 1) => {

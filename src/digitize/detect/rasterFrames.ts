@@ -82,7 +82,15 @@ function centreAcross(map: InkMap, first: number, last: number, from: number, to
 export function transpose(map: InkMap): InkMap {
   const { width, height, ink } = map;
   const out = new Uint8Array(width * height);
-  for (let y = 0; y < height; y++) for (let x = 0; x < width; x++) out[x * height + y] = ink[y * width + x] as number;
+  // In tiles, so that both the rows read and the rows written stay in the cache.
+  const TILE = 64;
+  for (let y0 = 0; y0 < height; y0 += TILE) {
+    const y1 = Math.min(height, y0 + TILE);
+    for (let x0 = 0; x0 < width; x0 += TILE) {
+      const x1 = Math.min(width, x0 + TILE);
+      for (let y = y0; y < y1; y++) for (let x = x0; x < x1; x++) out[x * height + y] = ink[y * width + x] as number;
+    }
+  }
   return { width: height, height: width, ink: out };
 }
 
