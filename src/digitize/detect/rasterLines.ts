@@ -84,6 +84,11 @@ export function gridDarkness(row: number, col: number): number {
   return row + col - (row * col) / 255;
 }
 
+function inHole(here: readonly (readonly [number, number, number, number])[], v: number): boolean {
+  for (const h of here) if (v >= h[1] && v < h[3]) return true;
+  return false;
+}
+
 /**
  * Runs of ink in column `u` between rows t and b (`column`: its pixels from row t). On a grid row (or column) the grid's own
  * darkness there (`base`, its median along the frame; both where they cross, gridDarkness) is
@@ -97,30 +102,29 @@ function columnRuns(column: Uint8Array, u: number, t: number, b: number, base: F
   let last = -1;
   let sw = 0;
   let sv = 0;
-  const close = () => {
-    if (start >= 0) {
-      const len = last - start + 1;
-      if (len <= maxLen && sw > 0) runs.push({ v: sv / sw, len, room: Infinity });
-    }
-    start = -1;
-    sw = 0;
-    sv = 0;
-  };
   // The grid's darkness is never negative: a pixel lighter than a threshold above zero is no ink
-  // whatever is taken off (most pixels are paper).
+  // whatever is taken off (most pixels are paper). No closure in this loop: it runs for every
+  // pixel of the frame.
   const paperBelow = threshold > 0 ? threshold : -Infinity;
-  for (let v = t; v < b; v++) {
-    const pixel = column[v - t] as number;
-    const d = pixel < paperBelow || (here.length > 0 && here.some((h) => v >= h[1] && v < h[3])) ? 0 : pixel - gridDarkness(base[v] as number, colBase);
-    if (d >= threshold) {
+  for (let v = t; v <= b; v++) {
+    // Past the last row, the run still open ends.
+    const pixel = v < b ? (column[v - t] as number) : -1;
+    const d = v === b || pixel < paperBelow || (here.length > 0 && inHole(here, v)) ? 0 : pixel - gridDarkness(base[v] as number, colBase);
+    if (v < b && d >= threshold) {
       if (start < 0) start = v;
       last = v;
       const w = d - threshold + 1;
       sw += w;
       sv += w * (v + 0.5);
-    } else if (start >= 0) close();
+    } else if (start >= 0) {
+      // A run ends: kept unless it is too long across for a line.
+      const len = last - start + 1;
+      if (len <= maxLen && sw > 0) runs.push({ v: sv / sw, len, room: Infinity });
+      start = -1;
+      sw = 0;
+      sv = 0;
+    }
   }
-  close();
   for (let i = 0; i < runs.length; i++) {
     const r = runs[i] as Run;
     const prev = runs[i - 1];
