@@ -511,40 +511,40 @@ export function frameWords(map: InkMap, frame: Box, strong: number, h: number, l
 
 /** The frame's ink inside a 4 px inset (w × hh from row t + 4, column l + 4) with each row's and column's median darkness taken off. */
 function gridFree(map: InkMap, t: number, l: number, w: number, hh: number): Uint8Array {
-  const ink = new Int16Array(w * hh);
-  for (let y = 0; y < hh; y++) ink.set(map.ink.subarray((t + 4 + y) * map.width + l + 4, (t + 4 + y) * map.width + l + 4 + w), y * w);
   // A grid line darkens its whole row (or column): the row's median darkness is taken off every
-  // pixel of it, so a label printed over a grid line stands free and the line itself goes.
-  // Medians by count of darkness (clamped to 0–255), the columns' `BLOCK` at a time so that
-  // each row is read once per block.
-  const BLOCK = 64;
-  const hist = new Uint32Array(256 * BLOCK);
-  const medianAt = (h0: number, n: number): number => {
+  // pixel of it, so a label printed over a grid line stands free and the line itself goes; then
+  // each column's median (of the rows' remainders, counted 0–255) likewise. Three passes, row by
+  // row: each row's median; the row's remainder kept and counted per column; the columns' taken off.
+  const rowHist = new Uint32Array(256);
+  const colHist = new Uint32Array(256 * w);
+  const ink = new Int16Array(w * hh);
+  const medianOf = (hist: Uint32Array, h0: number, n: number): number => {
     let seen = 0;
     for (let v = 0; v < 256; v++) if ((seen += hist[h0 + v] as number) >= n / 2) return v;
     return 0;
   };
   for (let y = 0; y < hh; y++) {
-    hist.fill(0, 0, 256);
+    const from = (t + 4 + y) * map.width + l + 4;
+    rowHist.fill(0);
+    for (let k = 0; k < w; k++) rowHist[map.ink[from + k] as number]!++;
+    const m = medianOf(rowHist, 0, w);
     const row = y * w;
-    for (let k = 0; k < w; k++) hist[Math.max(0, Math.min(255, ink[row + k] as number))]!++;
-    const m = medianAt(0, w);
-    if (m > 0) for (let k = 0; k < w; k++) ink[row + k] = (ink[row + k] as number) - m;
-  }
-  for (let x0 = 0; x0 < w; x0 += BLOCK) {
-    const x1 = Math.min(w, x0 + BLOCK);
-    hist.fill(0);
-    for (let k = 0; k < hh; k++) {
-      const row = k * w;
-      for (let x = x0; x < x1; x++) hist[(x - x0) * 256 + Math.max(0, Math.min(255, ink[row + x] as number))]!++;
-    }
-    for (let x = x0; x < x1; x++) {
-      const m = medianAt((x - x0) * 256, hh);
-      if (m > 0) for (let k = 0; k < hh; k++) ink[k * w + x] = (ink[k * w + x] as number) - m;
+    for (let k = 0; k < w; k++) {
+      const v = (map.ink[from + k] as number) - (m > 0 ? m : 0);
+      ink[row + k] = v;
+      colHist[k * 256 + (v < 0 ? 0 : v)]!++;
     }
   }
+  const colMedian = new Int16Array(w);
+  for (let x = 0; x < w; x++) colMedian[x] = medianOf(colHist, x * 256, hh);
   const clean = new Uint8Array(w * hh);
-  for (let i = 0; i < clean.length; i++) clean[i] = Math.max(0, ink[i] as number);
+  for (let y = 0; y < hh; y++) {
+    const row = y * w;
+    for (let x = 0; x < w; x++) {
+      const v = (ink[row + x] as number) - (colMedian[x] as number);
+      clean[row + x] = v > 0 ? v : 0;
+    }
+  }
   return clean;
 }
 
