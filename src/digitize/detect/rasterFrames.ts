@@ -20,10 +20,7 @@ export interface Rule {
 /** Horizontal rules: runs of ink of at least `minLength` pixels (gaps up to 2 px bridged), merged over neighbouring rows. */
 export function horizontalRules(map: InkMap, threshold: number, minLength: number): Rule[] {
   const { width, height, ink } = map;
-  interface Open { from: number; to: number; rows: number[]; last: number }
-  const done: Open[] = [];
-  let open: Open[] = [];
-  for (let y = 0; y < height; y++) {
+  const runsOf = (y: number): [number, number][] => {
     const runs: [number, number][] = [];
     let start = -1;
     let lastInk = -10;
@@ -38,6 +35,53 @@ export function horizontalRules(map: InkMap, threshold: number, minLength: numbe
       }
     }
     if (start >= 0 && lastInk - start + 1 >= minLength) runs.push([start, lastInk + 1]);
+    return runs;
+  };
+  return mergedRules(height, runsOf, (first, last, from, to) => centreAcross(map, first, last, from, to));
+}
+
+/**
+ * Vertical rules, as horizontalRules finds them on the map turned (rows and columns swapped,
+ * `transpose`), without turning it: every column's runs are gathered in one pass down the rows.
+ * Positions: `at` is a column, `from` and `to` rows.
+ */
+export function verticalRules(map: InkMap, threshold: number, minLength: number): Rule[] {
+  const { width, height, ink } = map;
+  const start = new Int32Array(width).fill(-1);
+  const lastInk = new Int32Array(width).fill(-10);
+  const runs: [number, number][][] = Array.from({ length: width }, () => []);
+  for (let y = 0; y < height; y++) {
+    const row = y * width;
+    for (let x = 0; x < width; x++) {
+      if ((ink[row + x] as number) < threshold) continue;
+      const s = start[x] as number;
+      const last = lastInk[x] as number;
+      if (s < 0 || y - last > 3) {
+        if (s >= 0 && last - s + 1 >= minLength) runs[x]!.push([s, last + 1]);
+        start[x] = y;
+      }
+      lastInk[x] = y;
+    }
+  }
+  for (let x = 0; x < width; x++) {
+    const s = start[x] as number;
+    const last = lastInk[x] as number;
+    if (s >= 0 && last - s + 1 >= minLength) runs[x]!.push([s, last + 1]);
+  }
+  return mergedRules(width, (x) => runs[x] as [number, number][], (first, last, from, to) => centreAlong(map, first, last, from, to));
+}
+
+/**
+ * Runs of lines 0 … count − 1 (rows, or columns) merged over neighbouring lines into rules: a run
+ * overlapping an open rule by half the shorter joins it; rules more than 12 lines thick are text
+ * or filled areas, not rules. `centre` gives a rule's position across.
+ */
+function mergedRules(count: number, runsOf: (line: number) => [number, number][], centre: (first: number, last: number, from: number, to: number) => number): Rule[] {
+  interface Open { from: number; to: number; rows: number[]; last: number }
+  const done: Open[] = [];
+  let open: Open[] = [];
+  for (let y = 0; y < count; y++) {
+    const runs = runsOf(y);
     const next: Open[] = [];
     for (const [a, b] of runs) {
       const o = open.find((k) => Math.min(k.to, b) - Math.max(k.from, a) > 0.5 * Math.min(k.to - k.from, b - a));
@@ -57,9 +101,25 @@ export function horizontalRules(map: InkMap, threshold: number, minLength: numbe
   for (const o of done) {
     // A rule is thin: a block of many rows is text or a filled area, not a line.
     if (o.rows.length > 12) continue;
-    rules.push({ at: centreAcross(map, o.rows[0] as number, o.last, o.from, o.to), from: o.from, to: o.to });
+    rules.push({ at: centre(o.rows[0] as number, o.last, o.from, o.to), from: o.from, to: o.to });
   }
   return rules;
+}
+
+/** Darkness-weighted centre of the columns [first − 2, last + 2] over the middle of the rows [from, to] (centreAcross on the map turned). */
+function centreAlong(map: InkMap, first: number, last: number, from: number, to: number): number {
+  const { width, ink } = map;
+  const a = Math.round(from + 0.2 * (to - from));
+  const b = Math.round(to - 0.2 * (to - from));
+  let sw = 0;
+  let sx = 0;
+  for (let x = Math.max(0, first - 2); x <= Math.min(width - 1, last + 2); x++) {
+    let s = 0;
+    for (let y = a; y < b; y++) s += ink[y * width + x] as number;
+    sw += s;
+    sx += s * (x + 0.5);
+  }
+  return sw > 0 ? sx / sw : (first + last + 1) / 2;
 }
 
 /** Darkness-weighted centre of the rows [first − 2, last + 2] over the middle of [from, to]. */
