@@ -26,11 +26,21 @@ export interface Level {
 
 const BLOCK = 48;
 
+/** True when the machine stores a word's low byte first. */
+const LITTLE_ENDIAN = new Uint8Array(new Uint32Array([1]).buffer)[0] === 1;
+
 /** Darkness of every pixel below the brightness of its block's paper (the 80th percentile of the block's luminance). */
 export function inkMap(image: RasterImage): InkMap {
   const { width, height, data } = image;
   const lum = new Uint8Array(width * height);
-  for (let i = 0, o = 0; i < lum.length; i++, o += 4) lum[i] = (77 * (data[o] as number) + 150 * (data[o + 1] as number) + 29 * (data[o + 2] as number)) >> 8;
+  // A pixel read as one word (red in its low byte on a little-endian machine) where the RGBA bytes allow it.
+  const words = LITTLE_ENDIAN && data.byteOffset % 4 === 0 && data.length >= 4 * lum.length ? new Uint32Array(data.buffer, data.byteOffset, lum.length) : null;
+  if (words) {
+    for (let i = 0; i < lum.length; i++) {
+      const p = words[i] as number;
+      lum[i] = (77 * (p & 255) + 150 * ((p >>> 8) & 255) + 29 * ((p >>> 16) & 255)) >> 8;
+    }
+  } else for (let i = 0, o = 0; i < lum.length; i++, o += 4) lum[i] = (77 * (data[o] as number) + 150 * (data[o + 1] as number) + 29 * (data[o + 2] as number)) >> 8;
   const bw = Math.ceil(width / BLOCK);
   const bh = Math.ceil(height / BLOCK);
   const paper = new Float32Array(bw * bh);
@@ -76,7 +86,8 @@ export function inkMap(image: RasterImage): InkMap {
     const row = Math.min(bh - 1, (y / BLOCK) | 0) * bw;
     const base = y * width;
     for (let bx = 0; bx < bw; bx++) {
-      const p = smooth[row + bx] as number;
+      // A whole level: the paper is a luminance value.
+      const p = (smooth[row + bx] as number) | 0;
       const end = Math.min(width, (bx + 1) * BLOCK);
       for (let x = bx * BLOCK; x < end; x++) {
         const d = p - (lum[base + x] as number);
