@@ -26,11 +26,21 @@ export interface Level {
 
 const BLOCK = 48;
 
+/** True when the machine stores a word's low byte first. */
+const LITTLE_ENDIAN = new Uint8Array(new Uint32Array([1]).buffer)[0] === 1;
+
 /** Darkness of every pixel below the brightness of its block's paper (the 80th percentile of the block's luminance). */
 export function inkMap(image: RasterImage): InkMap {
   const { width, height, data } = image;
   const lum = new Uint8Array(width * height);
-  for (let i = 0, o = 0; i < lum.length; i++, o += 4) lum[i] = (77 * (data[o] as number) + 150 * (data[o + 1] as number) + 29 * (data[o + 2] as number)) >> 8;
+  // A pixel read as one word (red in its low byte on a little-endian machine) where the RGBA bytes allow it.
+  const words = LITTLE_ENDIAN && data.byteOffset % 4 === 0 && data.length >= 4 * lum.length ? new Uint32Array(data.buffer, data.byteOffset, lum.length) : null;
+  if (words) {
+    for (let i = 0; i < lum.length; i++) {
+      const p = words[i] as number;
+      lum[i] = (77 * (p & 255) + 150 * ((p >>> 8) & 255) + 29 * ((p >>> 16) & 255)) >> 8;
+    }
+  } else for (let i = 0, o = 0; i < lum.length; i++, o += 4) lum[i] = (77 * (data[o] as number) + 150 * (data[o + 1] as number) + 29 * (data[o + 2] as number)) >> 8;
   const bw = Math.ceil(width / BLOCK);
   const bh = Math.ceil(height / BLOCK);
   const paper = new Float32Array(bw * bh);
@@ -70,12 +80,14 @@ export function inkMap(image: RasterImage): InkMap {
       smooth[by * bw + bx] = best;
     }
   }
-  const ink = new Uint8Array(width * height);
+  // Each pixel's darkness is written over its own luminance, read last here.
+  const ink = lum;
   for (let y = 0; y < height; y++) {
     const row = Math.min(bh - 1, (y / BLOCK) | 0) * bw;
     const base = y * width;
     for (let bx = 0; bx < bw; bx++) {
-      const p = smooth[row + bx] as number;
+      // A whole level: the paper is a luminance value.
+      const p = (smooth[row + bx] as number) | 0;
       const end = Math.min(width, (bx + 1) * BLOCK);
       for (let x = bx * BLOCK; x < end; x++) {
         const d = p - (lum[base + x] as number);
@@ -111,18 +123,20 @@ export function strongInk(map: InkMap): number {
  */
 export function pageAngle(map: InkMap, threshold: number): number {
   const { width, height, ink } = map;
-  const xs: number[] = [];
-  const ys: number[] = [];
+  let count = 0;
   // Every row (sampling every other row would favour the level angle, whose bins it fills alternately).
-  for (let y = 0; y < height; y++) {
+  for (let y = 0; y < height; y++) for (let x = y % 3; x < width; x += 3) if ((ink[y * width + x] as number) >= threshold) count++;
+  if (count < 50) return 0;
+  const xs = new Float64Array(count);
+  const ys = new Float64Array(count);
+  for (let y = 0, k = 0; y < height; y++) {
     for (let x = y % 3; x < width; x += 3) {
       if ((ink[y * width + x] as number) >= threshold) {
-        xs.push(x);
-        ys.push(y);
+        xs[k] = x;
+        ys[k++] = y;
       }
     }
   }
-  if (xs.length < 50) return 0;
   const bins = new Float64Array(4 * (height + 2 * width));
   // `per`: bins a pixel (1 for the coarse search, 4 for the fine one, where a quarter pixel over the page's width matters).
   const score = (a: number, per = 1) => {

@@ -136,7 +136,7 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
   const frames = framesOf(found);
   for (const [k, { frame, panels }] of frames.entries()) {
     options.progress?.((0.4 * k) / frames.length, `finding the lines in frame ${k + 1} of ${frames.length}`);
-    const grid = { x: gridLines(map, frame, 'x'), y: gridLines(map, frame, 'y') };
+    const grid = page.grids?.get(frame) ?? { x: gridLines(map, frame, 'x'), y: gridLines(map, frame, 'y') };
     // The words printed in the frame (curve labels) are no line: the lines are followed around them.
     const printed = frameWords(map, frame, page.strong, page.h);
     const holes = printed.words.map((w) => [w.l + printed.at[0] - 2, w.t + printed.at[1] - 2, w.r + printed.at[0] + 2, w.b + printed.at[1] + 2] as const);
@@ -442,7 +442,7 @@ export function courseBreak(t: Track, tol: number, reach: number): number | null
     const ahead: [number, number][] = [];
     for (let k = i + 1; k < n && (t.u[k] as number) - u <= reach / 2; k++) ahead.push([t.u[k] as number, t.v[k] as number]);
     if (ahead.length < 8) break;
-    const off = offCourse(cutTrack(t, i + 1), 'end', reach, true);
+    const off = offCourse(cutTrack(t, i + 1), 'end', reach, true, tol);
     if (!off) continue;
     const far = ahead.map(([au, av]) => off(au, av) > tol);
     const tail = far.slice(Math.floor(0.75 * far.length));
@@ -567,28 +567,40 @@ export function frameWords(map: InkMap, frame: Box, strong: number, h: number, l
 
 /** The frame's ink inside a 4 px inset (w × hh from row t + 4, column l + 4) with each row's and column's median darkness taken off. */
 function gridFree(map: InkMap, t: number, l: number, w: number, hh: number): Uint8Array {
-  const ink = new Int16Array(w * hh);
-  for (let y = 0; y < hh; y++) ink.set(map.ink.subarray((t + 4 + y) * map.width + l + 4, (t + 4 + y) * map.width + l + 4 + w), y * w);
   // A grid line darkens its whole row (or column): the row's median darkness is taken off every
-  // pixel of it, so a label printed over a grid line stands free and the line itself goes.
-  const hist = new Uint32Array(256);
-  const medianOf = (at: (k: number) => number, n: number) => {
-    hist.fill(0);
-    for (let k = 0; k < n; k++) hist[Math.max(0, Math.min(255, at(k)))]!++;
+  // pixel of it, so a label printed over a grid line stands free and the line itself goes; then
+  // each column's median (of the rows' remainders, counted 0–255) likewise. Three passes, row by
+  // row: each row's median; the row's remainder kept and counted per column; the columns' taken off.
+  const rowHist = new Uint32Array(256);
+  const colHist = new Uint32Array(256 * w);
+  const ink = new Int16Array(w * hh);
+  const medianOf = (hist: Uint32Array, h0: number, n: number): number => {
     let seen = 0;
-    for (let v = 0; v < 256; v++) if ((seen += hist[v] as number) >= n / 2) return v;
+    for (let v = 0; v < 256; v++) if ((seen += hist[h0 + v] as number) >= n / 2) return v;
     return 0;
   };
   for (let y = 0; y < hh; y++) {
-    const m = medianOf((k) => ink[y * w + k] as number, w);
-    if (m > 0) for (let k = 0; k < w; k++) ink[y * w + k] = (ink[y * w + k] as number) - m;
+    const from = (t + 4 + y) * map.width + l + 4;
+    rowHist.fill(0);
+    for (let k = 0; k < w; k++) rowHist[map.ink[from + k] as number]!++;
+    const m = medianOf(rowHist, 0, w);
+    const row = y * w;
+    for (let k = 0; k < w; k++) {
+      const v = (map.ink[from + k] as number) - (m > 0 ? m : 0);
+      ink[row + k] = v;
+      colHist[k * 256 + (v < 0 ? 0 : v)]!++;
+    }
   }
-  for (let x = 0; x < w; x++) {
-    const m = medianOf((k) => ink[k * w + x] as number, hh);
-    if (m > 0) for (let k = 0; k < hh; k++) ink[k * w + x] = (ink[k * w + x] as number) - m;
-  }
+  const colMedian = new Int16Array(w);
+  for (let x = 0; x < w; x++) colMedian[x] = medianOf(colHist, x * 256, hh);
   const clean = new Uint8Array(w * hh);
-  for (let i = 0; i < clean.length; i++) clean[i] = Math.max(0, ink[i] as number);
+  for (let y = 0; y < hh; y++) {
+    const row = y * w;
+    for (let x = 0; x < w; x++) {
+      const v = (ink[row + x] as number) - (colMedian[x] as number);
+      clean[row + x] = v > 0 ? v : 0;
+    }
+  }
   return clean;
 }
 

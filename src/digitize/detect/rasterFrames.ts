@@ -20,10 +20,7 @@ export interface Rule {
 /** Horizontal rules: runs of ink of at least `minLength` pixels (gaps up to 2 px bridged), merged over neighbouring rows. */
 export function horizontalRules(map: InkMap, threshold: number, minLength: number): Rule[] {
   const { width, height, ink } = map;
-  interface Open { from: number; to: number; rows: number[]; last: number }
-  const done: Open[] = [];
-  let open: Open[] = [];
-  for (let y = 0; y < height; y++) {
+  const runsOf = (y: number): [number, number][] => {
     const runs: [number, number][] = [];
     let start = -1;
     let lastInk = -10;
@@ -38,6 +35,53 @@ export function horizontalRules(map: InkMap, threshold: number, minLength: numbe
       }
     }
     if (start >= 0 && lastInk - start + 1 >= minLength) runs.push([start, lastInk + 1]);
+    return runs;
+  };
+  return mergedRules(height, runsOf, (first, last, from, to) => centreAcross(map, first, last, from, to));
+}
+
+/**
+ * Vertical rules, as horizontalRules finds them on the map turned (rows and columns swapped,
+ * `transpose`), without turning it: every column's runs are gathered in one pass down the rows.
+ * Positions: `at` is a column, `from` and `to` rows.
+ */
+export function verticalRules(map: InkMap, threshold: number, minLength: number): Rule[] {
+  const { width, height, ink } = map;
+  const start = new Int32Array(width).fill(-1);
+  const lastInk = new Int32Array(width).fill(-10);
+  const runs: [number, number][][] = Array.from({ length: width }, () => []);
+  for (let y = 0; y < height; y++) {
+    const row = y * width;
+    for (let x = 0; x < width; x++) {
+      if ((ink[row + x] as number) < threshold) continue;
+      const s = start[x] as number;
+      const last = lastInk[x] as number;
+      if (s < 0 || y - last > 3) {
+        if (s >= 0 && last - s + 1 >= minLength) runs[x]!.push([s, last + 1]);
+        start[x] = y;
+      }
+      lastInk[x] = y;
+    }
+  }
+  for (let x = 0; x < width; x++) {
+    const s = start[x] as number;
+    const last = lastInk[x] as number;
+    if (s >= 0 && last - s + 1 >= minLength) runs[x]!.push([s, last + 1]);
+  }
+  return mergedRules(width, (x) => runs[x] as [number, number][], (first, last, from, to) => centreAlong(map, first, last, from, to));
+}
+
+/**
+ * Runs of lines 0 … count − 1 (rows, or columns) merged over neighbouring lines into rules: a run
+ * overlapping an open rule by half the shorter joins it; rules more than 12 lines thick are text
+ * or filled areas, not rules. `centre` gives a rule's position across.
+ */
+function mergedRules(count: number, runsOf: (line: number) => [number, number][], centre: (first: number, last: number, from: number, to: number) => number): Rule[] {
+  interface Open { from: number; to: number; rows: number[]; last: number }
+  const done: Open[] = [];
+  let open: Open[] = [];
+  for (let y = 0; y < count; y++) {
+    const runs = runsOf(y);
     const next: Open[] = [];
     for (const [a, b] of runs) {
       const o = open.find((k) => Math.min(k.to, b) - Math.max(k.from, a) > 0.5 * Math.min(k.to - k.from, b - a));
@@ -57,9 +101,25 @@ export function horizontalRules(map: InkMap, threshold: number, minLength: numbe
   for (const o of done) {
     // A rule is thin: a block of many rows is text or a filled area, not a line.
     if (o.rows.length > 12) continue;
-    rules.push({ at: centreAcross(map, o.rows[0] as number, o.last, o.from, o.to), from: o.from, to: o.to });
+    rules.push({ at: centre(o.rows[0] as number, o.last, o.from, o.to), from: o.from, to: o.to });
   }
   return rules;
+}
+
+/** Darkness-weighted centre of the columns [first − 2, last + 2] over the middle of the rows [from, to] (centreAcross on the map turned). */
+function centreAlong(map: InkMap, first: number, last: number, from: number, to: number): number {
+  const { width, ink } = map;
+  const a = Math.round(from + 0.2 * (to - from));
+  const b = Math.round(to - 0.2 * (to - from));
+  let sw = 0;
+  let sx = 0;
+  for (let x = Math.max(0, first - 2); x <= Math.min(width - 1, last + 2); x++) {
+    let s = 0;
+    for (let y = a; y < b; y++) s += ink[y * width + x] as number;
+    sw += s;
+    sx += s * (x + 0.5);
+  }
+  return sw > 0 ? sx / sw : (first + last + 1) / 2;
 }
 
 /** Darkness-weighted centre of the rows [first − 2, last + 2] over the middle of [from, to]. */
@@ -82,7 +142,15 @@ function centreAcross(map: InkMap, first: number, last: number, from: number, to
 export function transpose(map: InkMap): InkMap {
   const { width, height, ink } = map;
   const out = new Uint8Array(width * height);
-  for (let y = 0; y < height; y++) for (let x = 0; x < width; x++) out[x * height + y] = ink[y * width + x] as number;
+  // In tiles, so that both the rows read and the rows written stay in the cache.
+  const TILE = 64;
+  for (let y0 = 0; y0 < height; y0 += TILE) {
+    const y1 = Math.min(height, y0 + TILE);
+    for (let x0 = 0; x0 < width; x0 += TILE) {
+      const x1 = Math.min(width, x0 + TILE);
+      for (let y = y0; y < y1; y++) for (let x = x0; x < x1; x++) out[x * height + y] = ink[y * width + x] as number;
+    }
+  }
   return { width: height, height: width, ink: out };
 }
 
@@ -152,30 +220,50 @@ export function gridLines(map: InkMap, frame: Box, along: 'x' | 'y', minRise = 3
   const c0 = Math.ceil((along === 'x' ? t : l) + inset);
   const c1 = Math.floor((along === 'x' ? b : r) - inset);
   if (a1 - a0 < 10 || c1 - c0 < 10) return [];
-  const at = along === 'x' ? (p: number, c: number) => ink[c * width + p] as number : (p: number, c: number) => ink[p * width + c] as number;
   const n = a1 - a0;
   const mean = new Float64Array(n);
   const contrast = new Float64Array(n);
-  const hist = new Uint32Array(512);
   const count = Math.ceil((c1 - c0) / 2);
-  for (let i = 3; i < n - 3; i++) {
-    const p = a0 + i;
+  // Per position along the frame: the darkness summed and a histogram of the contrast (the pixel
+  // against the mean of the pixels three to either side across the line), every other pixel along
+  // the line: the median needs no more. Positions are taken `BLOCK` at a time, each row of
+  // the image read once per block, so that upright lines do not walk down columns.
+  const BLOCK = along === 'x' ? 64 : 1;
+  const hist = new Uint32Array(512 * BLOCK);
+  const sums = new Float64Array(BLOCK);
+  for (let i0 = 3; i0 < n - 3; i0 += BLOCK) {
+    const i1 = Math.min(n - 3, i0 + BLOCK);
     hist.fill(0);
-    let s = 0;
-    // Every other pixel along the line: the median needs no more.
-    for (let c = c0; c < c1; c += 2) {
-      const v = at(p, c);
-      s += v;
-      const d = v - ((at(p - 3, c) + at(p + 3, c)) >> 1);
-      hist[Math.max(0, Math.min(511, d + 256))]!++;
+    sums.fill(0);
+    if (along === 'x') {
+      for (let c = c0; c < c1; c += 2) {
+        const row = c * width + a0;
+        for (let i = i0; i < i1; i++) {
+          const v = ink[row + i] as number;
+          sums[i - i0] = (sums[i - i0] as number) + v;
+          const d = v - (((ink[row + i - 3] as number) + (ink[row + i + 3] as number)) >> 1);
+          hist[(i - i0) * 512 + Math.max(0, Math.min(511, d + 256))]!++;
+        }
+      }
+    } else {
+      const p = (a0 + i0) * width;
+      for (let c = c0; c < c1; c += 2) {
+        const v = ink[p + c] as number;
+        sums[0] = (sums[0] as number) + v;
+        const d = v - (((ink[p - 3 * width + c] as number) + (ink[p + 3 * width + c] as number)) >> 1);
+        hist[Math.max(0, Math.min(511, d + 256))]!++;
+      }
     }
-    mean[i] = s / count;
-    let seen = 0;
-    for (let k = 0; k < 512; k++) {
-      seen += hist[k] as number;
-      if (seen >= count / 2) {
-        contrast[i] = k - 256;
-        break;
+    for (let i = i0; i < i1; i++) {
+      mean[i] = (sums[i - i0] as number) / count;
+      let seen = 0;
+      const h0 = (i - i0) * 512;
+      for (let k = 0; k < 512; k++) {
+        seen += hist[h0 + k] as number;
+        if (seen >= count / 2) {
+          contrast[i] = k - 256;
+          break;
+        }
       }
     }
   }

@@ -72,11 +72,6 @@ function course(t: Track, last = 12): { a: number; b: number } {
   return { a: (sv - b * su) / m, b };
 }
 
-function predict(t: Track, u: number): number {
-  const c = course(t);
-  return c.a + c.b * u;
-}
-
 /**
  * The grid's own darkness at a pixel on grid row darkness `row` and grid column darkness `col`
  * (0 off the grid): where a row and a column cross, the two lines lie one over the other and
@@ -89,40 +84,47 @@ export function gridDarkness(row: number, col: number): number {
   return row + col - (row * col) / 255;
 }
 
+function inHole(here: readonly (readonly [number, number, number, number])[], v: number): boolean {
+  for (const h of here) if (v >= h[1] && v < h[3]) return true;
+  return false;
+}
+
 /**
- * Runs of ink in column `u` between rows t and b. On a grid row (or column) the grid's own
+ * Runs of ink in column `u` between rows t and b (`column`: its pixels from row t). On a grid row (or column) the grid's own
  * darkness there (`base`, its median along the frame; both where they cross, gridDarkness) is
  * taken off first: a line crossing the grid, or running along a grid line, still shows; the
  * grid alone does not.
  */
-function columnRuns(map: InkMap, u: number, t: number, b: number, base: Float32Array, colBase: number, threshold: number, maxLen: number, holes: readonly (readonly [number, number, number, number])[]): Run[] {
+function columnRuns(column: Uint8Array, u: number, t: number, b: number, base: Float32Array, colBase: number, threshold: number, maxLen: number, holes: readonly (readonly [number, number, number, number])[]): Run[] {
   const here = holes.filter((h) => u >= h[0] && u < h[2]);
-  const { width, ink } = map;
   const runs: Run[] = [];
   let start = -1;
   let last = -1;
   let sw = 0;
   let sv = 0;
-  const close = () => {
-    if (start >= 0) {
-      const len = last - start + 1;
-      if (len <= maxLen && sw > 0) runs.push({ v: sv / sw, len, room: Infinity });
-    }
-    start = -1;
-    sw = 0;
-    sv = 0;
-  };
-  for (let v = t; v < b; v++) {
-    const d = here.some((h) => v >= h[1] && v < h[3]) ? 0 : (ink[v * width + u] as number) - gridDarkness(base[v] as number, colBase);
-    if (d >= threshold) {
+  // The grid's darkness is never negative: a pixel lighter than a threshold above zero is no ink
+  // whatever is taken off (most pixels are paper). No closure in this loop: it runs for every
+  // pixel of the frame.
+  const paperBelow = threshold > 0 ? threshold : -Infinity;
+  for (let v = t; v <= b; v++) {
+    // Past the last row, the run still open ends.
+    const pixel = v < b ? (column[v - t] as number) : -1;
+    const d = v === b || pixel < paperBelow || (here.length > 0 && inHole(here, v)) ? 0 : pixel - gridDarkness(base[v] as number, colBase);
+    if (v < b && d >= threshold) {
       if (start < 0) start = v;
       last = v;
       const w = d - threshold + 1;
       sw += w;
       sv += w * (v + 0.5);
-    } else close();
+    } else if (start >= 0) {
+      // A run ends: kept unless it is too long across for a line.
+      const len = last - start + 1;
+      if (len <= maxLen && sw > 0) runs.push({ v: sv / sw, len, room: Infinity });
+      start = -1;
+      sw = 0;
+      sv = 0;
+    }
   }
-  close();
   for (let i = 0; i < runs.length; i++) {
     const r = runs[i] as Run;
     const prev = runs[i - 1];
@@ -161,15 +163,19 @@ export function frameLines(map: InkMap, frame: Box, options: LinesOptions): Trac
     const [a] = active.splice(k, 1);
     if (a) done.push(a.track);
   };
+  // The frame's columns, each one's pixels in a row (read column after column below).
+  const columns = frameColumns(map, l + INSET, r - INSET, top, bottom);
+  const rows = bottom - top;
   for (let u = l + INSET; u < r - INSET; u++) {
     for (let k = active.length - 1; k >= 0; k--) if (u - (active[k]!.lastU) > maxGap) retire(k);
-    const runs = columnRuns(map, u, top, bottom, rowBase, colBase[u] as number, threshold, Math.max(12, 0.25 * fh), options.holes ?? []);
+    const k0 = (u - l - INSET) * rows;
+    const runs = columnRuns(columns.subarray(k0, k0 + rows), u, top, bottom, rowBase, colBase[u] as number, threshold, Math.max(12, 0.25 * fh), options.holes ?? []);
     const taken = new Set<number>();
     const claims: { k: number; i: number; d: number }[] = [];
     active.forEach((a, k) => {
       const gap = u - a.lastU;
-      const p = predict(a.track, u + 0.5);
       const c = course(a.track);
+      const p = c.a + c.b * (u + 0.5);
       const tol = 2.5 + 0.5 * (a.track.len[a.track.len.length - 1] ?? 2) + Math.min(6, Math.abs(c.b)) * 1.5 + 0.15 * gap;
       let best = -1;
       let bestD = Infinity;
@@ -221,11 +227,36 @@ export function frameLines(map: InkMap, frame: Box, options: LinesOptions): Trac
   return joinPieces(done.filter((tr) => tr.u.length >= 3), maxGap * 4, fh).filter((tr) => (tr.u[tr.u.length - 1] as number) - (tr.u[0] as number) >= minSpan && !isRule(tr));
 }
 
+/** The ink of columns [c0, c1) between rows [r0, r1), column after column (read in tiles, so that both sides stay in the cache). */
+function frameColumns(map: InkMap, c0: number, c1: number, r0: number, r1: number): Uint8Array {
+  const { width, ink } = map;
+  const rows = Math.max(0, r1 - r0);
+  const out = new Uint8Array(Math.max(0, c1 - c0) * rows);
+  const TILE = 64;
+  for (let y0 = r0; y0 < r1; y0 += TILE) {
+    const y1 = Math.min(r1, y0 + TILE);
+    for (let x0 = c0; x0 < c1; x0 += TILE) {
+      const x1 = Math.min(c1, x0 + TILE);
+      for (let y = y0; y < y1; y++) {
+        const from = y * width;
+        const to = y - r0;
+        for (let x = x0; x < x1; x++) out[(x - c0) * rows + to] = ink[from + x] as number;
+      }
+    }
+  }
+  return out;
+}
+
 function medianAlong(map: InkMap, at: number, from: number, to: number, along: 'row' | 'column'): number {
-  const values: number[] = [];
-  for (let k = from; k < to; k += 2) values.push(map.ink[along === 'row' ? at * map.width + k : k * map.width + at] as number);
-  values.sort((a, b) => a - b);
-  return values.length ? (values[values.length >> 1] as number) : 0;
+  // The median of every other pixel, counted by darkness (the upper middle of an even count).
+  const hist = new Uint32Array(256);
+  let n = 0;
+  for (let k = from; k < to; k += 2, n++) hist[map.ink[along === 'row' ? at * map.width + k : k * map.width + at] as number]!++;
+  if (n === 0) return 0;
+  const middle = n >> 1;
+  let seen = 0;
+  for (let v = 0; v < 256; v++) if ((seen += hist[v] as number) > middle) return v;
+  return 0;
 }
 
 /** A straight level line (a grid line the grid finder missed), not a curve: within 1.5 px of one row all along. */
@@ -399,22 +430,57 @@ export function continuesCourse(t: Track, points: readonly (readonly [number, nu
  * for a point (column, row) past the end, how far it lies from the course less 2 % of its distance
  * from the end (Infinity before the end or farther than twice `reach` past it). Null when the
  * stretch holds fewer than 8 columns.
+ *
+ * With `near` (the distance the caller compares with), the parabola is first fitted by the normal
+ * equations, which is many times quicker than the QR fit (solveLeastSquares) and agrees with it to
+ * far under `DECIDE_MARGIN`; wherever a decision lies within that margin of its threshold (a
+ * column kept by the robust fit, a distance against `near`), the QR fit is made and used, so every
+ * decision is the QR fit's. Distances far from `near` may then differ from the QR fit's in their
+ * last digits.
  */
-export function offCourse(t: Track, side: 'start' | 'end', reach: number, robust = false): ((u: number, v: number) => number) | null {
+export function offCourse(t: Track, side: 'start' | 'end', reach: number, robust = false, near?: number): ((u: number, v: number) => number) | null {
   const n = t.u.length;
   if (n === 0) return null;
   const endU = (side === 'end' ? t.u[n - 1] : t.u[0]) as number;
   const sign = side === 'end' ? 1 : -1;
   // v = a + b·x + c·x² over the stretch, x = (u − endU)·sign in units of `reach` (−1 … 0 on the track).
-  const rows: number[][] = [];
+  const xs: number[] = [];
   const vs: number[] = [];
   for (let i = 0; i < n; i++) {
     const x = (((t.u[i] as number) - endU) * sign) / reach;
     if (x < -1) continue;
-    rows.push([1, x, x * x]);
+    xs.push(x);
     vs.push(t.v[i] as number);
   }
-  if (rows.length < 8) return null;
+  if (xs.length < 8) return null;
+  let sure = near === undefined;
+  let coef = sure ? null : quickCourse(xs, vs, robust);
+  if (!coef) {
+    coef = exactCourse(xs, vs, robust);
+    sure = true;
+  }
+  if (!coef) return null;
+  let [a, b, c] = coef;
+  return (u, v) => {
+    const d = (u - endU) * sign;
+    const x = d / reach;
+    if (d < 0 || x > 2) return Infinity;
+    const off = Math.abs(a + b * x + c * x * x - v) - 0.02 * d;
+    if (sure || Math.abs(off - (near as number)) > DECIDE_MARGIN) return off;
+    // Near the threshold: the QR fit decides (it exists: the quick fit was well conditioned).
+    sure = true;
+    const exact = exactCourse(xs, vs, robust);
+    if (exact) [a, b, c] = exact;
+    return Math.abs(a + b * x + c * x * x - v) - 0.02 * d;
+  };
+}
+
+/** Pixels within which a decision on the quick fit of a course is left to the QR fit (offCourse). */
+const DECIDE_MARGIN = 1e-4;
+
+/** The parabola's coefficients by QR (solveLeastSquares), fitted again without the columns more than 2 px off when `robust`; null when the columns define none. */
+function exactCourse(xs: readonly number[], vs: readonly number[], robust: boolean): [number, number, number] | null {
+  const rows = xs.map((x) => [1, x, x * x]);
   let coef: number[];
   try {
     coef = solveLeastSquares(rows, vs).solution;
@@ -434,13 +500,67 @@ export function offCourse(t: Track, side: 'start' | 'end', reach: number, robust
       }
     }
   }
-  const [a, b, c] = coef as [number, number, number];
-  return (u, v) => {
-    const d = (u - endU) * sign;
-    const x = d / reach;
-    if (d < 0 || x > 2) return Infinity;
-    return Math.abs(a + b * x + c * x * x - v) - 0.02 * d;
-  };
+  return coef as [number, number, number];
+}
+
+/**
+ * The same parabola by the normal equations (3 × 3, by the adjugate), or null when the QR fit must
+ * decide: the equations are not well conditioned (1-norm condition over 1e6, where their answer
+ * could stray from the QR fit's by more than a millionth of a pixel), or a column lies within
+ * `DECIDE_MARGIN` of the robust fit's 2 px.
+ */
+function quickCourse(xs: readonly number[], vs: readonly number[], robust: boolean): [number, number, number] | null {
+  const first = normalFit(xs, vs, null);
+  if (!first || !robust) return first;
+  const [a0, b0, c0] = first;
+  const keep: boolean[] = [];
+  let kept = 0;
+  for (let k = 0; k < xs.length; k++) {
+    const x = xs[k] as number;
+    const r = Math.abs(a0 + b0 * x + c0 * x * x - (vs[k] as number));
+    if (Math.abs(r - 2) <= DECIDE_MARGIN) return null;
+    keep.push(r <= 2);
+    if (r <= 2) kept++;
+  }
+  return kept >= 8 && kept < xs.length ? normalFit(xs, vs, keep) : first;
+}
+
+function normalFit(xs: readonly number[], vs: readonly number[], keep: readonly boolean[] | null): [number, number, number] | null {
+  let s0 = 0;
+  let s1 = 0;
+  let s2 = 0;
+  let s3 = 0;
+  let s4 = 0;
+  let t0 = 0;
+  let t1 = 0;
+  let t2 = 0;
+  for (let k = 0; k < xs.length; k++) {
+    if (keep && !keep[k]) continue;
+    const x = xs[k] as number;
+    const v = vs[k] as number;
+    const x2 = x * x;
+    s0 += 1;
+    s1 += x;
+    s2 += x2;
+    s3 += x2 * x;
+    s4 += x2 * x2;
+    t0 += v;
+    t1 += v * x;
+    t2 += v * x2;
+  }
+  // M = [[s0 s1 s2] [s1 s2 s3] [s2 s3 s4]], symmetric: its inverse is the adjugate over the determinant.
+  const i00 = s2 * s4 - s3 * s3;
+  const i01 = s2 * s3 - s1 * s4;
+  const i02 = s1 * s3 - s2 * s2;
+  const i11 = s0 * s4 - s2 * s2;
+  const i12 = s1 * s2 - s0 * s3;
+  const i22 = s0 * s2 - s1 * s1;
+  const det = s0 * i00 + s1 * i01 + s2 * i02;
+  if (!(Math.abs(det) > 0)) return null;
+  const normM = Math.max(Math.abs(s0) + Math.abs(s1) + Math.abs(s2), Math.abs(s1) + Math.abs(s2) + Math.abs(s3), Math.abs(s2) + Math.abs(s3) + Math.abs(s4));
+  const normInv = Math.max(Math.abs(i00) + Math.abs(i01) + Math.abs(i02), Math.abs(i01) + Math.abs(i11) + Math.abs(i12), Math.abs(i02) + Math.abs(i12) + Math.abs(i22)) / Math.abs(det);
+  if (!(normM * normInv <= 1e6)) return null;
+  return [(i00 * t0 + i01 * t1 + i02 * t2) / det, (i01 * t0 + i11 * t1 + i12 * t2) / det, (i02 * t0 + i12 * t1 + i22 * t2) / det];
 }
 
 /**

@@ -17,7 +17,7 @@ import type { RasterImage } from '../raster.ts';
 import type { AxisScaleType } from '../../model/takeoff.ts';
 import { inkMap, levelInk, levelOf, pageAngle, strongInk, type InkMap, type Level } from './ink.ts';
 import type { Box, FoundPanel } from './panels.ts';
-import { findRasterFrames, frameSkew, gridLines, horizontalRules, transpose } from './rasterFrames.ts';
+import { findRasterFrames, frameSkew, gridLines, horizontalRules, verticalRules } from './rasterFrames.ts';
 import { inkBlots, readCrops, wordsOf, type Blot, type Crop, type TextReader } from './rasterText.ts';
 import { readAxis } from './robustAxis.ts';
 import { quantityOfTitle, SHEET_NUMBER, sheetNumber, unitOfTitle } from './words.ts';
@@ -30,8 +30,8 @@ export interface RasterPanelsFound {
   /** The page's turn on the glass, degrees. */
   turnDeg: number;
   questions: string[];
-  /** The level page the panels were found on, for finding their curves (rasterCurves.ts). */
-  page?: { map: InkMap; level: Level; strong: number; words: Blot[]; h: number };
+  /** The level page the panels were found on, for finding their curves (rasterCurves.ts), with the grid lines of each frame calibrated (rasterFrames.gridLines), so they are not found twice. */
+  page?: { map: InkMap; level: Level; strong: number; words: Blot[]; h: number; grids?: Map<Box, { x: number[]; y: number[] }> };
   /** Each found panel's frame in level pixels. */
   levelFrames?: Map<FoundPanel, Box>;
 }
@@ -135,7 +135,7 @@ function readPage(image: RasterImage): Page {
   const level = levelOf(pageAngle(raw, 0.6 * strong), raw.width, raw.height);
   const map = levelInk(raw, level);
   const minSide = 0.15 * Math.min(map.width, map.height);
-  const frames = findRasterFrames(horizontalRules(map, 0.6 * strong, minSide), horizontalRules(transpose(map), 0.6 * strong, minSide), minSide, 6);
+  const frames = findRasterFrames(horizontalRules(map, 0.6 * strong, minSide), verticalRules(map, 0.6 * strong, minSide), minSide, 6);
   const words = wordsOf(inkBlots(map, 0.6 * strong, frames, Math.round(0.06 * Math.max(map.width, map.height)))).map((w) => ({ ...w, cx: (w.l + w.r) / 2, cy: (w.t + w.b) / 2 }));
   // Text height: the middle height of the words standing beside the frames.
   const beside = words.filter((w) => frames.some(([l, t, r, b]) => w.cy >= t - 50 && w.cy <= b + 100 && w.cx >= l - 200 && w.cx <= r + 200 && !(w.cx > l && w.cx < r && w.cy > t && w.cy < b)));
@@ -337,7 +337,7 @@ export async function findRasterPanels(image: RasterImage, reader: TextReader, p
     levelFrames.set(panel, f);
   }
   progress(1, 'panels found');
-  return { panels, frames, turnDeg, questions, page: { map, level, strong: page.strong, words, h }, levelFrames };
+  return { panels, frames, turnDeg, questions, page: { map, level, strong: page.strong, words, h, grids }, levelFrames };
 }
 
 /** Anchors at grid crossings: every flow label with the lowest and highest value label, and every value label with the lowest and highest flow label; in sheet units. */
