@@ -6,8 +6,9 @@
  */
 import { afterAll, describe, expect, it } from 'vitest';
 import { detectTakeoff } from '../../src/digitize/detect/detect.ts';
-import { distanceToTrack, isoLevelOf, isoLevelRead, wordsOnIsoLines, type FrameWord } from '../../src/digitize/detect/rasterIso.ts';
-import type { Track } from '../../src/digitize/detect/rasterLines.ts';
+import type { InkMap } from '../../src/digitize/detect/ink.ts';
+import { distanceToTrack, isoLevelOf, isoLevelRead, steepLines, transposeBox, turnedInk, wordsOnIsoLines, type FrameWord } from '../../src/digitize/detect/rasterIso.ts';
+import { frameLines, type Track } from '../../src/digitize/detect/rasterLines.ts';
 import { loadImageSheetNode } from '../../src/digitize/loaders/imageNode.ts';
 import { closeTextReaderNode, textReaderNode } from '../../src/digitize/loaders/ocrNode.ts';
 import { parseTakeoffToDetect } from '../../src/model/takeoff.ts';
@@ -95,5 +96,51 @@ describe('iso-lines on a scan of the random bed', () => {
         expect(found.questions.join(' ')).toContain(`"${t.id}"`);
       }
     }
+  });
+});
+
+describe('steep lines on the turned ink', () => {
+  /** A 600 × 400 frame of paper with lines of ink 3 px wide drawn from point to point. */
+  function picture(lines: [number, number, number, number][]): InkMap {
+    const width = 700;
+    const height = 500;
+    const ink = new Uint8Array(width * height);
+    for (const [x0, y0, x1, y1] of lines) {
+      const n = Math.ceil(Math.hypot(x1 - x0, y1 - y0) * 2);
+      for (let k = 0; k <= n; k++) {
+        const x = x0 + ((x1 - x0) * k) / n;
+        const y = y0 + ((y1 - y0) * k) / n;
+        for (let dy = -1; dy <= 1; dy++) for (let dx = -1; dx <= 1; dx++) ink[Math.round(y + dy) * width + Math.round(x + dx)] = 200;
+      }
+    }
+    return { width, height, ink };
+  }
+  const frame = [50, 50, 650, 450] as const;
+
+  it('finds a line falling 8 rows per column, which spans too few columns for the normal pass, and not a shallow one', () => {
+    const map = picture([[300, 80, 340, 400], [60, 300, 640, 200]]);
+    const grid = { x: [], y: [] };
+    const normal = frameLines(map, frame, { grid });
+    // The shallow line is found by the normal pass; the steep one is not.
+    expect(normal.length).toBe(1);
+    const steep = steepLines(map, frame, { grid }, normal);
+    expect(steep.length).toBe(1);
+    const t = steep[0]!;
+    // Turned coordinates: u runs down the rows, v across the columns; the line is x = 300 + (y − 80)·40/320.
+    for (let i = 0; i < t.u.length; i += 10) {
+      const y = t.u[i]!;
+      if (y < 100 || y > 380) continue;
+      expect(Math.abs(t.v[i]! - (300 + ((y - 80) * 40) / 320))).toBeLessThan(2);
+    }
+    expect(t.u[t.u.length - 1]! - t.u[0]!).toBeGreaterThan(250);
+  });
+
+  it('turns a box and shrinks the ink by keeping each block\'s darkest pixel', () => {
+    expect(transposeBox([1, 2, 3, 4])).toEqual([2, 1, 4, 3]);
+    const map: InkMap = { width: 4, height: 2, ink: new Uint8Array([0, 9, 0, 0, 0, 0, 0, 5]) };
+    const small = turnedInk(map, [0, 0, 4, 2], 2);
+    // Turned: 1 column (rows 0–1) × 2 rows (columns 0–1, 2–3); darkest of each 2 × 2 block.
+    expect([small.width, small.height]).toEqual([1, 2]);
+    expect([...small.ink]).toEqual([9, 5]);
   });
 });
