@@ -27,7 +27,7 @@ import { gridLines } from './rasterFrames.ts';
 import { alonePlaces, continuesCourse, frameLines, liesAlong, offCourse, trackAt, trackOf, type Track } from './rasterLines.ts';
 import type { RasterPanelsFound } from './rasterPanels.ts';
 import { inkBlots, labelPicture, readCrops, wordsOf, type Blot, type TextReader } from './rasterText.ts';
-import { curveLabel, SHEET_NUMBER, sheetNumber } from './words.ts';
+import { curveLabel, isoLabel, SHEET_NUMBER, sheetNumber } from './words.ts';
 
 
 export interface RasterCurve {
@@ -661,13 +661,15 @@ async function nameHeads(
   }
   joinUnitWords(words, readings, note);
   // Where each head curve ends, level pixels: the line found's end, and the tracer's (a line found
-  // may stop short of its end at an iso-line or a label; the tracer follows on to it).
+  // may stop short of its end at an iso-line or a label; the tracer follows on to it) where the
+  // tracer kept to the line found (confidence 0.5 or more: a tracer that ran off names nothing).
+  const sureTrace = (c: RasterCurve) => (c.confidence >= 0.5 ? c.traced : []);
   const ends = new Map(
     heads.map((c) => {
       const n = c.track.u.length;
       const list: [number, number][] = [[c.track.u[n - 1] as number, c.track.v[n - 1] as number]];
       let far: [number, number] | null = null;
-      for (const p of c.traced) {
+      for (const p of sureTrace(c)) {
         const q = level.toLevel(p[0] * scale, p[1] * scale);
         if (!far || q[0] > far[0]) far = q;
       }
@@ -675,6 +677,17 @@ async function nameHeads(
       return [c, list] as const;
     }),
   );
+  // The tracer's line in level pixels, by column: it runs on through a label the line found leaves a gap at.
+  const tracedLevel = new Map(heads.map((c) => [c, sureTrace(c).map((p) => level.toLevel(p[0] * scale, p[1] * scale)).sort((a, b) => a[0] - b[0])] as const));
+  const tracedAt = (c: RasterCurve, u: number): number | null => {
+    const pts = tracedLevel.get(c) ?? [];
+    for (let k = 1; k < pts.length; k++) {
+      const [u0, v0] = pts[k - 1] as [number, number];
+      const [u1, v1] = pts[k] as [number, number];
+      if (u0 <= u && u <= u1 && u1 - u0 < 20) return u1 > u0 ? v0 + ((v1 - v0) * (u - u0)) / (u1 - u0) : v0;
+    }
+    return null;
+  };
   // The head curve a word is on (the label interrupts the line) or beside the end of (up and to the right).
   const nearestHead = (word: Blot): { curve: RasterCurve | null; d: number } => {
     const cx = (word.l + word.r) / 2;
@@ -684,7 +697,8 @@ async function nameHeads(
     let bestD = Infinity;
     for (const c of heads) {
       const on = trackAt(c.track, cx);
-      const dOn = on === null ? Infinity : Math.abs(on - cy);
+      const traced = tracedAt(c, cx);
+      const dOn = Math.min(on === null ? Infinity : Math.abs(on - cy), traced === null ? Infinity : Math.abs(traced - cy));
       let dEnd = Infinity;
       for (const [endU, endV] of ends.get(c) ?? []) {
         if (word.l >= endU - hgt) dEnd = Math.min(dEnd, Math.hypot(Math.max(0, word.l - endU), Math.max(0, endV - word.b)));
@@ -714,10 +728,9 @@ async function nameHeads(
     if (reading.text === '' && reading.digits === '') return; // a unit word joined to its number
     const label = scanLabelOf(reading.text);
     const candidates = labelCandidates(reading.text, reading.digits, frameUnit);
-    note(`${again ? 'read again: ' : ''}word at [${w.word.l}, ${w.word.t}, ${w.word.r}, ${w.word.b}] read "${reading.text}" / "${reading.digits}" → ${candidates.join(' or ') || 'no label'}`);
-    if (candidates.length === 0) return;
     const hgt = w.word.b - w.word.t;
-    note(`  nearest head curve ${at.curve ? heads.indexOf(at.curve) : '-'} at ${at.d.toFixed(1)} px (text height ${hgt})`);
+    note(`${again ? 'read again: ' : ''}word at [${w.word.l}, ${w.word.t}, ${w.word.r}, ${w.word.b}] read "${reading.text}" / "${reading.digits}" → ${candidates.join(' or ') || 'no label'}; nearest head curve ${at.curve ? order.indexOf(at.curve) : '-'} (top to bottom) at ${at.d.toFixed(1)} px (text height ${hgt})`);
+    if (candidates.length === 0) return;
     if (!at.curve || at.d > 1.5 * hgt) return;
     const set = byCurve.get(at.curve) ?? new Set<number>();
     for (const v of candidates) set.add(v);
@@ -733,18 +746,18 @@ async function nameHeads(
   // that reading gives joins the candidates. Only here: a sheet named at once pays no second reading.
   if (!chosen && !crossing) {
     // Read again: a word on or beside a head curve that was not read as a whole label (number and
-    // unit, both readings agreeing), nor as an iso label ("75 %").
+    // unit, both readings agreeing), nor as an iso label ("75 %"; "122%" is an inch label's mark misread).
     const again = words
       .map((w, i) => ({ w, i, r: readings[i] as { text: string; digits: string } }))
-      .filter(({ w, i, r }) => (near[i] as { d: number }).d <= 1.5 * (w.word.b - w.word.t) && !/%/.test(r.text + r.digits) && !(scanLabelOf(r.text)?.unit && labelCandidates(r.text, r.digits).length > 0));
+      .filter(({ w, i, r }) => (near[i] as { d: number }).d <= 1.5 * (w.word.b - w.word.t) && isoLabel(r.text) === null && !(scanLabelOf(r.text)?.unit && labelCandidates(r.text, r.digits).length > 0));
     const second: { text: string; digits: string }[] = [];
     const reread: { word: Blot }[] = [];
     for (const plain of new Set(again.map((k) => k.w.plain))) {
       const here = again.filter((k) => k.w.plain === plain);
       const picture = labelPicture(image, level, raw, plain, here[0]!.w.at, here.map((k) => k.w.word));
       if (picture.crops.length !== here.length) continue;
-      const asWords = await readCrops(picture.map, picture.crops, reader, 'words', 255, 48);
-      const asDigits = await readCrops(picture.map, picture.crops, reader, 'digits', 255, 48);
+      const asWords = await readCrops(picture.map, picture.crops, reader, 'words', 255, 64);
+      const asDigits = await readCrops(picture.map, picture.crops, reader, 'digits', 255, 64);
       asWords.forEach((r, j) => second.push({ text: r.text, digits: asDigits[j]?.text ?? '' }));
       reread.push(...here.map((k, j) => ({ word: picture.boxes[j] ?? k.w.word, i: k.i })));
     }
