@@ -745,11 +745,13 @@ async function nameHeads(
   // widened over the print beside them and in the colour of their ink (labelPicture), and what
   // that reading gives joins the candidates. Only here: a sheet named at once pays no second reading.
   if (!chosen && !crossing) {
-    // Read again: a word on or beside a head curve that was not read as a whole label (number and
-    // unit, both readings agreeing), nor as an iso label ("75 %"; "122%" is an inch label's mark misread).
+    // Read again: a word on or beside a head curve whose first reading has a digit (a word read as
+    // letters alone is seldom a label: reading it again costs more than it gives) and that was not
+    // read as a whole label (number and unit, both readings agreeing), nor as an iso label ("75 %";
+    // "122%" is an inch label's mark misread).
     const again = words
       .map((w, i) => ({ w, i, r: readings[i] as { text: string; digits: string } }))
-      .filter(({ w, i, r }) => (near[i] as { d: number }).d <= 1.5 * (w.word.b - w.word.t) && isoLabel(r.text) === null && !(scanLabelOf(r.text)?.unit && labelCandidates(r.text, r.digits).length > 0));
+      .filter(({ w, i, r }) => (near[i] as { d: number }).d <= 1.5 * (w.word.b - w.word.t) && /\d/.test(r.text + r.digits) && isoLabel(r.text) === null && !(scanLabelOf(r.text)?.unit && labelCandidates(r.text, r.digits).length > 0));
     const second: { text: string; digits: string }[] = [];
     const reread: { word: Blot }[] = [];
     for (const plain of new Set(again.map((k) => k.w.plain))) {
