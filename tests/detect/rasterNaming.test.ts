@@ -4,7 +4,9 @@
  * crossing line carried on through a bunch is unsure. INVENTED heads and lines.
  */
 import { describe, expect, it } from 'vitest';
-import { bandsHaveNoRoom, bunchedRun, courseBreak, matchByAffinity, missingCurves } from '../../src/digitize/detect/rasterCurves.ts';
+import { bandsHaveNoRoom, bunchedRun, chooseNames, courseBreak, labelCandidates, matchByAffinity, missingCurves, pointLost } from '../../src/digitize/detect/rasterCurves.ts';
+import { inkMap, levelOf } from '../../src/digitize/detect/ink.ts';
+import { labelPicture } from '../../src/digitize/detect/rasterText.ts';
 import type { FoundPanel } from '../../src/digitize/detect/panels.ts';
 import { alonePlaces, type Track } from '../../src/digitize/detect/rasterLines.ts';
 
@@ -122,5 +124,77 @@ describe('curves missing on a panel', () => {
     expect(out[0]).toContain('14, 12.375, 11.5');
     expect(missingCurves([head, power], curves, [14, 13.125, 12.375, 11.5])).toEqual([]);
     expect(missingCurves([head, eff], [], [14])).toHaveLength(1);
+  });
+});
+
+describe('labels read again where the first reading named no curve', () => {
+  it('an inch label whose decimal point was lost: each place of a point giving sixteenths, never a trailing zero, never without inches', () => {
+    expect(labelCandidates('155°', '155')).toEqual([15.5]); // the mark read as a degree sign
+    expect(labelCandidates('155', '155', 'in')).toEqual([15.5]);
+    expect(labelCandidates('105°', '1057')).toEqual([10.5]); // the mark read as a 7 by the digits reading
+    expect(labelCandidates('95', '95', 'in')).toEqual([9.5]);
+    expect(labelCandidates('13375', '13375', 'in')).toEqual([13.375]);
+    expect(labelCandidates('155', '155')).toEqual([]); // no inches read anywhere
+    expect(labelCandidates('155', '155', 'mm')).toEqual([155]);
+    expect(labelCandidates('155', '165', 'in')).toEqual([]); // the two readings disagree
+    expect(pointLost('230', '230', 'in')).toEqual([]); // "23.0"" is not printed
+    expect(pointLost('1013', '1013', 'in')).toEqual([]); // no point gives sixteenths
+    expect(pointLost('57', '57', 'in')).toEqual([]); // a whole number of inches as read
+  });
+  it('a label whose unit word was read but its number garbled takes the digits reading, in a millimetre frame only', () => {
+    expect(labelCandidates('19°" mm,', '197,', 'mm')).toEqual([197]);
+    expect(labelCandidates('19°" mm,', '197,')).toEqual([]);
+    expect(labelCandidates('19°" mm,', '197,', 'in')).toEqual([]);
+    expect(labelCandidates('19° mm', '', 'mm')).toEqual([]);
+  });
+  it('a millimetre unit misread ("175 mn") leaves a bare number, counted only in a frame read in millimetres', () => {
+    expect(labelCandidates('175 mn', '175', 'mm')).toEqual([175]);
+    expect(labelCandidates('175 mn', '175')).toEqual([]);
+    expect(labelCandidates('175 mx', '175', 'mm')).toEqual([]);
+  });
+  it('several readings of one label are candidates, and order with affinity picks the one consistent set', () => {
+    // INVENTED shut-off heads following H ∝ D²: 230 → 50 m.
+    const heads = [230, 214, 197, 181].map((d) => 50 * (d / 230) ** 2);
+    expect(chooseNames([[230], [214], [19, 197], [181]], heads)).toEqual([230, 214, 197, 181]);
+    // Both readings of the third label fit the order (a digit misread): two namings, none chosen.
+    expect(chooseNames([[230], [214], [197, 194], [181]], heads)).toBeNull();
+  });
+
+  describe('the label picture', () => {
+    // An INVENTED strip of a scan: white paper, a grey grid column at x 48–51, an orange glyph
+    // (a block 20 × 20) across it, a small orange mark 6 px right of the glyph (a unit), and an
+    // orange line's stub (3 px thick) from x 84 on.
+    const W = 200;
+    const H = 60;
+    const data = new Uint8ClampedArray(W * H * 4).fill(255);
+    const paint = (x0: number, x1: number, y0: number, y1: number, rgb: [number, number, number]) => {
+      for (let y = y0; y < y1; y++) for (let x = x0; x < x1; x++) data.set(rgb, 4 * (y * W + x));
+    };
+    const orange: [number, number, number] = [224, 123, 0];
+    paint(48, 52, 0, H, [190, 190, 190]);
+    paint(40, 60, 20, 40, orange);
+    paint(66, 72, 24, 30, orange);
+    paint(84, 160, 29, 32, orange);
+    const image = { width: W, height: H, data, scale: 1 };
+    const raw = inkMap(image);
+    // The grid-free ink: the grid column's own darkness taken off its columns (as the frame's
+    // row and column medians are), which leaves the glyph faint where it crosses the grid.
+    const grid = raw.ink[5 * W + 49] as number;
+    const plain = { width: W, height: H, ink: raw.ink.map((v, i) => (i % W >= 48 && i % W < 52 ? Math.max(0, v - grid) : v)) };
+    const word = { l: 40, t: 20, r: 60, b: 40 };
+    const picture = labelPicture(image, levelOf(0, W, H), raw, plain, [0, 0], [word]);
+    it('widens the box over the mark beside the word, and stops before a line', () => {
+      expect(picture.boxes).toHaveLength(1);
+      expect(picture.boxes[0]!.r).toBeGreaterThanOrEqual(72);
+      expect(picture.boxes[0]!.r).toBeLessThanOrEqual(86);
+    });
+    it('shows coloured print as dark as its darkest channel, also where it crosses the grid', () => {
+      const crop = picture.crops[0]!;
+      const at = (x: number, y: number) => picture.map.ink[(crop.box.t + y - picture.boxes[0]!.t) * picture.map.width + (x - (picture.boxes[0]!.l - crop.box.l))] as number;
+      expect(plain.ink[30 * W + 50]).toBeLessThan(0.5 * (raw.ink[30 * W + 44] as number));
+      expect(at(44, 30)).toBeGreaterThan(200);
+      expect(at(50, 30)).toBeGreaterThan(170); // the grid-free ink kept under half of it
+      expect(at(64, 30)).toBeLessThan(40); // paper between glyph and mark
+    });
   });
 });

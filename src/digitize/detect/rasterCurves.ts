@@ -27,8 +27,8 @@ import { gridLines } from './rasterFrames.ts';
 import { alonePlaces, continuesCourse, frameLines, liesAlong, offCourse, trackAt, trackOf, type Track } from './rasterLines.ts';
 import { distanceToTrack, isoLevelsOnScan, isoPiecesAcross, steepLines, transposeBox, wordsOnIsoLines, type FrameWord } from './rasterIso.ts';
 import type { RasterPanelsFound } from './rasterPanels.ts';
-import { inkBlots, readCrops, wordsOf, type Blot, type TextReader } from './rasterText.ts';
-import { curveLabel, SHEET_NUMBER, sheetNumber } from './words.ts';
+import { inkBlots, labelPicture, readCrops, wordsOf, type Blot, type TextReader } from './rasterText.ts';
+import { curveLabel, isoLabel, SHEET_NUMBER, sheetNumber } from './words.ts';
 
 
 export interface RasterCurve {
@@ -132,7 +132,7 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
   const toLevel = (p: SheetPoint): [number, number] => level.toLevel(p[0] * image.scale, p[1] * image.scale);
   const curves: RasterCurve[] = [];
   const isoWordsAt: FrameWord[] = [];
-  const labelsAt: { word: Blot; frame: Box; clean: InkMap; at: [number, number] }[] = [];
+  const labelsAt: { word: Blot; frame: Box; clean: InkMap; plain: InkMap; at: [number, number] }[] = [];
   const frames = framesOf(found);
   for (const [k, { frame, panels }] of frames.entries()) {
     options.progress?.((0.4 * k) / frames.length, `finding the lines in frame ${k + 1} of ${frames.length}`);
@@ -188,7 +188,7 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
       }
       options.note?.(`${steep.length} steep line${steep.length === 1 ? '' : 's'} found on the turned ink of the head frame`);
     }
-    if (head) labelsAt.push(...labels.words.map((word) => ({ word, frame, clean: labels.clean, at: labels.at })));
+    if (head) labelsAt.push(...labels.words.map((word) => ({ word, frame, clean: labels.clean, plain: printed.clean, at: labels.at })));
   }
 
   bandsHaveNoRoom(curves);
@@ -292,7 +292,7 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
   // Names of the head curves: labels read beside them, else the values given, by order.
   const heads = usable.filter((c) => c.panel.quantity === 'head' && c.kind === 'curve');
   options.progress?.(0.85, 'reading the curve labels');
-  const named = await nameHeads(heads, labelsAt, page.strong, reader, level, image.scale, options.given, questions, leftOut, options.note);
+  const named = await nameHeads(heads, labelsAt, page.strong, reader, image, map, level, image.scale, options.given, questions, leftOut, options.note);
   // The iso-lines' levels, from the "%" labels on them (rasterIso.ts).
   const isoNamed: RasterCurve[] = [];
   // A line the tracer could not follow is left out, said once; the levels of the others are then unsure.
@@ -687,9 +687,11 @@ function labelOf(text: string): { value: number; unit: 'mm' | 'in' | 'rpm' | nul
 
 async function nameHeads(
   heads: RasterCurve[],
-  found: { word: Blot; frame: Box; clean: InkMap; at: [number, number] }[],
+  found: { word: Blot; frame: Box; clean: InkMap; plain: InkMap; at: [number, number] }[],
   strong: number,
   reader: TextReader,
+  image: RasterImage,
+  raw: InkMap,
   level: Level,
   scale: number,
   given: RasterCurveOptions['given'],
@@ -716,57 +718,131 @@ async function nameHeads(
   // Each word is read twice (as words, for the unit; as digits, for the number): a small label
   // in colour is often read two ways, and the candidates are sorted out below.
   const readings: { text: string; digits: string }[] = [];
-  const words: { word: Blot }[] = [];
+  const words: { word: Blot; plain: InkMap; at: [number, number] }[] = [];
   for (const clean of new Set(found.map((k) => k.clean))) {
     const here = found.filter((k) => k.clean === clean);
     const crops = here.map((w) => ({ box: { l: w.word.l - 2, t: w.word.t - 2, r: w.word.r + 2, b: w.word.b + 2 }, upright: false }));
     const asWords = await readCrops(clean, crops, reader, 'words', 2 * strong);
     const asDigits = await readCrops(clean, crops, reader, 'digits', 2 * strong);
     asWords.forEach((r, i) => readings.push({ text: r.text, digits: asDigits[i]?.text ?? '' }));
-    words.push(...here.map((k) => ({ word: { l: k.word.l + k.at[0], t: k.word.t + k.at[1], r: k.word.r + k.at[0], b: k.word.b + k.at[1] } })));
+    words.push(...here.map((k) => ({ word: { l: k.word.l + k.at[0], t: k.word.t + k.at[1], r: k.word.r + k.at[0], b: k.word.b + k.at[1] }, plain: k.plain, at: k.at })));
   }
   joinUnitWords(words, readings, note);
-  const byCurve = new Map<RasterCurve, Set<number>>();
-  const units: (string | null)[] = [];
-  // The one unit of the labels read whole (with their unit) in these frames, if they agree.
-  const wholeUnits = new Set(readings.map((r) => (labelCandidates(r.text, r.digits).length > 0 ? scanLabelOf(r.text)?.unit : null)).filter((u): u is 'mm' | 'in' | 'rpm' => !!u));
-  const frameUnit = wholeUnits.size === 1 ? ([...wholeUnits][0] as 'mm' | 'in' | 'rpm') : null;
-  words.forEach((w, i) => {
-    const reading = readings[i] as { text: string; digits: string };
-    if (reading.text === '' && reading.digits === '') return; // a unit word joined to its number
-    const label = scanLabelOf(reading.text);
-    const candidates = labelCandidates(reading.text, reading.digits, frameUnit);
-    note(`word at [${w.word.l}, ${w.word.t}, ${w.word.r}, ${w.word.b}] read "${reading.text}" / "${reading.digits}" → ${candidates.join(' or ') || 'no label'}`);
-    if (candidates.length === 0) return;
-    const cx = (w.word.l + w.word.r) / 2;
-    const cy = (w.word.t + w.word.b) / 2;
-    const hgt = w.word.b - w.word.t;
+  // Where each head curve ends, level pixels: the line found's end, and the tracer's (a line found
+  // may stop short of its end at an iso-line or a label; the tracer follows on to it) where the
+  // tracer kept to the line found (confidence 0.5 or more: a tracer that ran off names nothing).
+  const sureTrace = (c: RasterCurve) => (c.confidence >= 0.5 ? c.traced : []);
+  const ends = new Map(
+    heads.map((c) => {
+      const n = c.track.u.length;
+      const list: [number, number][] = [[c.track.u[n - 1] as number, c.track.v[n - 1] as number]];
+      let far: [number, number] | null = null;
+      for (const p of sureTrace(c)) {
+        const q = level.toLevel(p[0] * scale, p[1] * scale);
+        if (!far || q[0] > far[0]) far = q;
+      }
+      if (far && far[0] > (list[0] as [number, number])[0]) list.push(far);
+      return [c, list] as const;
+    }),
+  );
+  // The tracer's line in level pixels, by column: it runs on through a label the line found leaves a gap at.
+  const tracedLevel = new Map(heads.map((c) => [c, sureTrace(c).map((p) => level.toLevel(p[0] * scale, p[1] * scale)).sort((a, b) => a[0] - b[0])] as const));
+  const tracedAt = (c: RasterCurve, u: number): number | null => {
+    const pts = tracedLevel.get(c) ?? [];
+    for (let k = 1; k < pts.length; k++) {
+      const [u0, v0] = pts[k - 1] as [number, number];
+      const [u1, v1] = pts[k] as [number, number];
+      if (u0 <= u && u <= u1 && u1 - u0 < 20) return u1 > u0 ? v0 + ((v1 - v0) * (u - u0)) / (u1 - u0) : v0;
+    }
+    return null;
+  };
+  // The head curve a word is on (the label interrupts the line) or beside the end of (up and to the right).
+  const nearestHead = (word: Blot): { curve: RasterCurve | null; d: number } => {
+    const cx = (word.l + word.r) / 2;
+    const cy = (word.t + word.b) / 2;
+    const hgt = word.b - word.t;
     let best: RasterCurve | null = null;
     let bestD = Infinity;
     for (const c of heads) {
       const on = trackAt(c.track, cx);
-      const n = c.track.u.length;
-      const endU = c.track.u[n - 1] as number;
-      const endV = c.track.v[n - 1] as number;
-      // On the line (the label interrupts it), or beside its end (up and to the right).
-      const dOn = on === null ? Infinity : Math.abs(on - cy);
-      const dEnd = Math.hypot(Math.max(0, w.word.l - endU), Math.max(0, endV - w.word.b));
-      const d = Math.min(dOn, w.word.l >= endU - hgt ? dEnd : Infinity);
+      const traced = tracedAt(c, cx);
+      const dOn = Math.min(on === null ? Infinity : Math.abs(on - cy), traced === null ? Infinity : Math.abs(traced - cy));
+      let dEnd = Infinity;
+      for (const [endU, endV] of ends.get(c) ?? []) {
+        if (word.l >= endU - hgt) dEnd = Math.min(dEnd, Math.hypot(Math.max(0, word.l - endU), Math.max(0, endV - word.b)));
+      }
+      const d = Math.min(dOn, dEnd);
       if (d < bestD) [best, bestD] = [c, d];
     }
-    note(`  nearest head curve ${best ? heads.indexOf(best) : '-'} at ${bestD.toFixed(1)} px (text height ${hgt})`);
-    if (!best || bestD > 1.5 * hgt) return;
-    const set = byCurve.get(best) ?? new Set<number>();
+    return { curve: best, d: bestD };
+  };
+  const byCurve = new Map<RasterCurve, Set<number>>();
+  const units: (string | null)[] = [];
+  // The one unit of the labels read whole (with their unit) in these frames, if they agree.
+  // A unit read on one label only, against two or more read on the others, is a misreading (an
+  // inch mark seen in a stray speck): the frame's unit is the one read at least twice as often as any other.
+  const unitOf = (list: readonly { text: string; digits: string }[]) => {
+    const count = new Map<'mm' | 'in' | 'rpm', number>();
+    for (const r of list) {
+      const u = labelCandidates(r.text, r.digits).length > 0 ? scanLabelOf(r.text)?.unit : null;
+      if (u) count.set(u, (count.get(u) ?? 0) + 1);
+    }
+    const ranked = [...count].sort((a, b) => b[1] - a[1]);
+    return ranked[0] && (ranked[1] === undefined || ranked[0][1] >= 2 * ranked[1][1]) ? ranked[0][0] : null;
+  };
+  let frameUnit = unitOf(readings);
+  const near = words.map((w) => nearestHead(w.word));
+  const take = (w: { word: Blot }, reading: { text: string; digits: string }, at: { curve: RasterCurve | null; d: number }, again: boolean) => {
+    if (reading.text === '' && reading.digits === '') return; // a unit word joined to its number
+    const label = scanLabelOf(reading.text);
+    const candidates = labelCandidates(reading.text, reading.digits, frameUnit);
+    const hgt = w.word.b - w.word.t;
+    note(`${again ? 'read again: ' : ''}word at [${w.word.l}, ${w.word.t}, ${w.word.r}, ${w.word.b}] read "${reading.text}" / "${reading.digits}" → ${candidates.join(' or ') || 'no label'}; nearest head curve ${at.curve ? order.indexOf(at.curve) : '-'} (top to bottom) at ${at.d.toFixed(1)} px (text height ${hgt})`);
+    if (candidates.length === 0) return;
+    if (!at.curve || at.d > 1.5 * hgt) return;
+    const set = byCurve.get(at.curve) ?? new Set<number>();
     for (const v of candidates) set.add(v);
-    byCurve.set(best, set);
+    byCurve.set(at.curve, set);
     if (label?.unit) units.push(label.unit);
-  });
+  };
+  words.forEach((w, i) => take(w, readings[i] as { text: string; digits: string }, near[i] as { curve: RasterCurve | null; d: number }, false));
+  const shutOff = order.map((c) => shutOffHead(c));
+  const choose = () => chooseNames(order.map((c) => [...(byCurve.get(c) ?? [])]), shutOff);
+  let chosen = crossing ? null : choose();
+  // No naming from the first reading: the words on or beside a head curve are read once more,
+  // widened over the print beside them and in the colour of their ink (labelPicture), and what
+  // that reading gives joins the candidates. Only here: a sheet named at once pays no second reading.
+  if (!chosen && !crossing) {
+    // Read again: a word on or beside a head curve whose first reading has a digit (a word read as
+    // letters alone is seldom a label: reading it again costs more than it gives) and that was not
+    // read as a whole label (number and unit, both readings agreeing), nor as an iso label ("75 %";
+    // "122%" is an inch label's mark misread).
+    const again = words
+      .map((w, i) => ({ w, i, r: readings[i] as { text: string; digits: string } }))
+      .filter(({ w, i, r }) => (near[i] as { d: number }).d <= 1.5 * (w.word.b - w.word.t) && /\d/.test(r.text + r.digits) && isoLabel(r.text) === null && !(scanLabelOf(r.text)?.unit && labelCandidates(r.text, r.digits).length > 0));
+    const second: { text: string; digits: string }[] = [];
+    const reread: { word: Blot }[] = [];
+    for (const plain of new Set(again.map((k) => k.w.plain))) {
+      const here = again.filter((k) => k.w.plain === plain);
+      const picture = labelPicture(image, level, raw, plain, here[0]!.w.at, here.map((k) => k.w.word));
+      if (picture.crops.length !== here.length) continue;
+      const asWords = await readCrops(picture.map, picture.crops, reader, 'words', 255, 64);
+      const asDigits = await readCrops(picture.map, picture.crops, reader, 'digits', 255, 64);
+      asWords.forEach((r, j) => second.push({ text: r.text, digits: asDigits[j]?.text ?? '' }));
+      reread.push(...here.map((k, j) => ({ word: picture.boxes[j] ?? k.w.word, i: k.i })));
+    }
+    if (second.length > 0) {
+      frameUnit = unitOf([...readings, ...second]);
+      // The first readings' bare numbers count too once the second reading found the frame's unit.
+      words.forEach((w, i) => take(w, readings[i] as { text: string; digits: string }, near[i] as { curve: RasterCurve | null; d: number }, true));
+      reread.forEach((w, j) => take(w, second[j] as { text: string; digits: string }, nearestHead(w.word), true));
+      chosen = choose();
+    }
+  }
   const unit = units.find((k) => k !== null) ?? null;
   const family: 'diameter' | 'speed' = unit === 'rpm' ? 'speed' : unit ? 'diameter' : (given?.family ?? 'diameter');
-  // The one naming of every curve the candidates allow: larger values higher, and the shut-off
-  // heads in about the ratio of the values squared (affinity).
-  const shutOff = order.map((c) => shutOffHead(c));
-  const chosen = chooseNames(order.map((c) => [...(byCurve.get(c) ?? [])]), shutOff);
+  // The one naming of every curve the candidates allow (chosen above): larger values higher, and
+  // the shut-off heads in about the ratio of the values squared (affinity).
   const fromLabels = new Map<RasterCurve, number>();
   if (chosen) order.forEach((c, i) => fromLabels.set(c, chosen[i] as number));
   const where = (c: RasterCurve) => {
@@ -828,7 +904,11 @@ function scanLabelOf(text: string): { value: number; unit: 'mm' | 'in' | 'rpm' |
   const label = labelOf(text);
   if (label?.unit) return label;
   const inches = misreadInchLabel(text);
-  return inches === null ? label : { value: inches, unit: 'in' };
+  if (inches !== null) return { value: inches, unit: 'in' };
+  // "175 mn", "160 rm": a millimetre unit misread is no unit, and the number stands alone (it
+  // counts only where the frame's other labels were read whole, with their unit).
+  const unitLost = new RegExp(`^${SHEET_NUMBER}\\s+[mnr]{2,3}$`, 'i').exec(text);
+  return label ?? (unitLost ? { value: sheetNumber(unitLost[1] as string), unit: null } : null);
 }
 
 /** True when a length in inches is a whole number of sixteenths. */
@@ -912,7 +992,7 @@ export function labelCandidates(text: string, digits: string, frameUnit: 'mm' | 
   // stay well under 60 in).
   const whole = /^(\d{1,2})7$/.exec(text.replace(/[\s,.;:_\-–—'`~|]+$/g, '').trim());
   if (label && read?.unit === null && frameUnit === 'in' && label.value > 60 && whole) label = { value: sheetNumber(whole[1] as string), unit: 'in' };
-  if (!label || label.unit === null) return [];
+  if (!label || label.unit === null || (label.unit === 'in' && label.value > MAX_INCHES)) return [...pointLost(text, digits, frameUnit), ...digitsWithUnit(text, digits, frameUnit)];
   // Impeller diameters in inches are printed to a sixteenth at finest (common practice: trims are
   // cut in sixteenths): "6.675"" is a misread "6.625"", never a label.
   if (label.unit === 'in' && !inSixteenths(label.value)) return [];
@@ -920,6 +1000,50 @@ export function labelCandidates(text: string, digits: string, frameUnit: 'mm' | 
   if (number === undefined) return [label.value];
   const asDigits = sheetNumber(number);
   return asDigits === label.value || sheetNumber(number.slice(0, -1)) === label.value ? [label.value] : [];
+}
+
+/** The largest impeller diameter in inches a label may give (from memory: process pumps' impellers stay well under 60 in). */
+const MAX_INCHES = 60;
+
+/**
+ * An inch label whose decimal point the reader lost (the point is a speck of a few pixels on a
+ * scan): "155°" or "155" in a frame labelled in inches for 15.5", "1057" for 10.5" with its mark
+ * read as a 7. Only a number of two to five digits with no point, too large for inches as read
+ * (over MAX_INCHES), marked as inches (a mark read as °, *, " or "in") or in a frame whose labels
+ * were read in inches; each place of a point, one to three decimals, that gives a whole number of
+ * sixteenths from 2 in to MAX_INCHES is a candidate (no trailing zero after the point), when
+ * the digits reading has the same digits (or none). The naming still needs order and affinity to pick one set, and only one.
+ */
+export function pointLost(text: string, digits: string, frameUnit: 'mm' | 'in' | 'rpm' | null): number[] {
+  const t = text.replace(/[”“″]/g, '"').replace(/^[\s,.;:_\-–—'`~|]+|[\s,.;:_\-–—'`~|]+$/g, '');
+  const m = /^(\d{2,5})\s*([°º*"]|in)?$/.exec(t);
+  if (!m || (m[2] === undefined && frameUnit !== 'in')) return [];
+  const read = m[1] as string;
+  const digitsRead = digits.replace(/\D+/g, '');
+  const out = new Set<number>();
+  // As read, or with a last 7 that was the inch mark.
+  for (const n of read.endsWith('7') ? [read, read.slice(0, -1)] : [read]) {
+    if (Number(n) <= MAX_INCHES || (digitsRead !== '' && !digitsRead.startsWith(n))) continue;
+    // A sheet prints no trailing zero after a point ("23"", never "23.0"").
+    for (let k = 1; k <= 3 && k < n.length && !n.endsWith('0'); k++) {
+      const v = Number(`${n.slice(0, n.length - k)}.${n.slice(n.length - k)}`);
+      if (v >= 2 && v <= MAX_INCHES && inSixteenths(v)) out.add(v);
+    }
+  }
+  return [...out];
+}
+
+/**
+ * A label whose words reading kept the frame's unit word but garbled the number ("19°" mm" for
+ * 197 mm: a digit next to the unit misread as a mark) while the digits reading gives a whole
+ * number: the digits reading's value, in millimetres only (a whole number; an inch label's
+ * decimals are too easily lost to trust the digits alone). One candidate among the others: the
+ * naming still needs order and affinity to pick one set, and only one.
+ */
+function digitsWithUnit(text: string, digits: string, frameUnit: 'mm' | 'in' | 'rpm' | null): number[] {
+  if (frameUnit !== 'mm' || !/\bmm\b/i.test(text)) return [];
+  const n = /^\D*(\d{2,4})\D*$/.exec(digits.replace(/\s+/g, ''));
+  return n ? [Number(n[1])] : [];
 }
 
 /** The head at the lowest flow of the tracer's line (the shut-off head), or NaN. */

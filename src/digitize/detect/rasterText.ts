@@ -9,7 +9,8 @@
  *
  * Pure.
  */
-import type { InkMap } from './ink.ts';
+import type { RasterImage } from '../raster.ts';
+import type { InkMap, Level } from './ink.ts';
 import type { Box } from './panels.ts';
 
 /** A grey picture for the reader: one byte a pixel, 255 paper, 0 black. */
@@ -195,4 +196,139 @@ function sample(map: InkMap, x: number, y: number): number {
   const c = map.ink[i + map.width] as number;
   const d = map.ink[i + map.width + 1] as number;
   return a + fx * (b - a) + fy * (c + fx * (d - c) - a - fx * (b - a));
+}
+
+/**
+ * Labels read again, more carefully, where the first reading named no curve: each label's box
+ * widened right over the ink beside it on its row (a unit, an inch mark or the decimals the word
+ * grouping left apart: "8." and "625"", "19" and "7 mm"), the ink taken from the picture's
+ * colour (coloured print counts as dark as its darkest colour channel shows it, not as its
+ * brightness: orange text is nearly black on the blue channel) less the grid's darkness (the
+ * level ink `raw` less the grid-free ink `plain`, which starts at level column `at[0]`, row
+ * `at[1]`: the grid is grey, so a stroke of coloured print crossing a grid line keeps what the
+ * grid-free ink lost of it), each crop stretched to its own full contrast. Returns a picture of
+ * the crops one under another and the crops in it, for `readCrops` with full ink 255, and each
+ * label's widened box. Boxes are level pixels; `level` maps them to the image's pixels.
+ */
+export function labelPicture(image: RasterImage, level: Level, raw: InkMap, plain: InkMap, at: readonly [number, number], boxes: readonly Blot[]): { map: InkMap; crops: Crop[]; boxes: Blot[] } {
+  const parts: { l: number; t: number; w: number; h: number; ink: Uint8Array; cl: number; cr: number }[] = [];
+  for (const word of boxes) {
+    const h = Math.max(4, word.b - word.t);
+    // The word's row, from a little left of it to three text heights right.
+    const l = Math.max(at[0], Math.floor(word.l - 3));
+    const r = Math.min(at[0] + plain.width, Math.ceil(word.r + 3 * h));
+    const t = Math.max(at[1], Math.floor(word.t - 0.25 * h));
+    const b = Math.min(at[1] + plain.height, Math.ceil(word.b + 0.25 * h));
+    const w = Math.max(1, r - l);
+    const hh = Math.max(1, b - t);
+    const ink = colourInk(image, level, raw, plain, at, l, t, w, hh);
+    // Full contrast: the crop's own dark ink (the 98th percentile of its inked pixels).
+    const full = Math.max(24, percentileInk(ink, 0.98));
+    for (let i = 0; i < ink.length; i++) ink[i] = Math.min(255, Math.round(((ink[i] as number) * 255) / full));
+    const right = labelRight(ink, w, hh, word.r - l, h);
+    parts.push({ l, t, w, h: hh, ink, cl: 0, cr: Math.min(w, right + 2) });
+  }
+  const width = Math.max(1, ...parts.map((p) => p.w));
+  const height = Math.max(1, parts.reduce((s, p) => s + p.h + 4, 0));
+  const out = new Uint8Array(width * height);
+  const crops: Crop[] = [];
+  let y = 0;
+  for (const p of parts) {
+    for (let k = 0; k < p.h; k++) out.set(p.ink.subarray(k * p.w, (k + 1) * p.w), (y + k) * width);
+    crops.push({ box: { l: p.cl, t: y, r: p.cr, b: y + p.h }, upright: false });
+    y += p.h + 4;
+  }
+  return { map: { width, height, ink: out }, crops, boxes: parts.map((p) => ({ l: p.l + p.cl, t: p.t, r: p.l + p.cr, b: p.t + p.h })) };
+}
+
+/**
+ * The darkness of a region (w × hh from level column l, row t) on its darkest colour channel,
+ * each channel against the region's paper (its 85th percentile), less the grid's darkness there
+ * (`raw` less `plain`; see labelPicture).
+ */
+function colourInk(image: RasterImage, level: Level, raw: InkMap, plain: InkMap, at: readonly [number, number], l: number, t: number, w: number, hh: number): Uint8Array {
+  const rgb = new Float32Array(3 * w * hh);
+  const { width, height, data } = image;
+  for (let y = 0; y < hh; y++) {
+    for (let x = 0; x < w; x++) {
+      const [ix, iy] = level.toImage(l + x + 0.5, t + y + 0.5);
+      const x0 = Math.max(0, Math.min(width - 2, Math.floor(ix - 0.5)));
+      const y0 = Math.max(0, Math.min(height - 2, Math.floor(iy - 0.5)));
+      const fx = Math.max(0, Math.min(1, ix - 0.5 - x0));
+      const fy = Math.max(0, Math.min(1, iy - 0.5 - y0));
+      for (let c = 0; c < 3; c++) {
+        const i = 4 * (y0 * width + x0) + c;
+        const a = data[i] as number;
+        const b = data[i + 4] as number;
+        const d = data[i + 4 * width] as number;
+        const e = data[i + 4 * width + 4] as number;
+        const top = a + fx * (b - a);
+        rgb[3 * (y * w + x) + c] = top + fy * (d + fx * (e - d) - top);
+      }
+    }
+  }
+  const paper = [0, 1, 2].map((c) => {
+    const vs: number[] = [];
+    for (let i = c; i < rgb.length; i += 3) vs.push(rgb[i] as number);
+    vs.sort((p, q) => p - q);
+    return vs[Math.floor(0.85 * (vs.length - 1))] as number;
+  }) as [number, number, number];
+  const ink = new Uint8Array(w * hh);
+  for (let y = 0; y < hh; y++) {
+    for (let x = 0; x < w; x++) {
+      const u = l + x;
+      const v = t + y;
+      const grid = Math.max(0, (raw.ink[v * raw.width + u] as number) - (plain.ink[(v - at[1]) * plain.width + (u - at[0])] as number));
+      const k = 3 * (y * w + x);
+      const dark = Math.max(paper[0] - (rgb[k] as number), paper[1] - (rgb[k + 1] as number), paper[2] - (rgb[k + 2] as number));
+      ink[y * w + x] = Math.max(0, Math.min(255, Math.round(dark - grid)));
+    }
+  }
+  return ink;
+}
+
+function percentileInk(ink: Uint8Array, q: number): number {
+  const hist = new Uint32Array(256);
+  let n = 0;
+  for (const v of ink) if (v > 0) (hist[v]!++, n++);
+  let seen = 0;
+  for (let v = 0; v < 256; v++) if ((seen += hist[v] as number) >= q * n) return v;
+  return 255;
+}
+
+/**
+ * The right end of a label in its region (ink at full contrast): from the word's right column
+ * `wr`, widened over inked columns with gaps of at most 0.6 text heights, up to where a line
+ * begins: a run of columns whose ink is thin across (under 0.4 text heights) and longer than 0.8
+ * text heights is a line's stub, not print.
+ */
+function labelRight(ink: Uint8Array, w: number, hh: number, wr: number, h: number): number {
+  const extent = new Float32Array(w);
+  for (let x = 0; x < w; x++) {
+    let top = -1;
+    let bottom = -1;
+    for (let y = 0; y < hh; y++) {
+      if ((ink[y * w + x] as number) < 96) continue;
+      if (top < 0) top = y;
+      bottom = y;
+    }
+    extent[x] = top < 0 ? 0 : bottom - top + 1;
+  }
+  const thin = (x: number) => (extent[x] as number) > 0 && (extent[x] as number) < 0.4 * h;
+  const lineFrom = (x: number) => {
+    let n = 0;
+    for (let k = x; k < w && thin(k); k++) n++;
+    return n > 0.8 * h;
+  };
+  let r = Math.max(0, Math.min(w, Math.round(wr)));
+  for (let x = r, gap = 0; x < w; x++) {
+    if ((extent[x] as number) === 0) {
+      if (++gap > 0.6 * h) break;
+      continue;
+    }
+    if (lineFrom(x)) break;
+    gap = 0;
+    r = x + 1;
+  }
+  return r;
 }
