@@ -122,6 +122,28 @@ export function givenValues(input: Pick<TakeoffToDetect, 'units' | 'speeds' | 'd
 }
 
 /**
+ * The question when the diameters given and the labels the sheet prints are in different units
+ * ("15.5" and "12.625" given in a take-off in mm, labels read 15.5"): the values were typed in
+ * the sheet's unit while the take-off names another, a slip that would put 15.5 mm impellers in
+ * the curve set. Where no label unit was read, diameters that no impeller of these sheets has in
+ * the take-off's unit (all under 40 mm, or all over 60 in; common practice: catalogue impellers
+ * run from about 80 to 800 mm) are asked about too. Null when nothing was given or all agrees.
+ */
+export function givenUnitQuestion(labelUnit: string | null, input: Pick<TakeoffToDetect, 'units' | 'diameters'>): string | null {
+  if (!input.diameters || input.diameters.length === 0) return null;
+  const unit = parseUnit('diameter', input.units.diameter).token;
+  const words = (u: string) => (u === 'in' ? 'inches' : u === 'mm' ? 'millimetres' : u);
+  if (labelUnit !== 'mm' && labelUnit !== 'in') {
+    const small = unit === 'mm' && Math.max(...input.diameters) < 40;
+    const large = unit === 'in' && Math.min(...input.diameters) > 60;
+    if (!small && !large) return null;
+    return `The diameters given (${input.diameters.join(', ')}) are ${small ? 'too small for impellers in millimetres' : 'too large for impellers in inches'}, the take-off's diameter unit; were they typed in ${small ? 'inches' : 'millimetres'}? Set the diameter unit to the sheet's, or give the diameters in ${unit}, and run --detect again.`;
+  }
+  if (unit === labelUnit) return null;
+  return `The sheet labels its curves in ${words(labelUnit)}, but the take-off's diameters are in ${words(unit)}, so the diameters given (${input.diameters.join(', ')}) were taken as ${unit}; set the diameter unit to ${labelUnit} (the sheet's units), or give the diameters in ${unit}, and run --detect again.`;
+}
+
+/**
  * Completes a minimal take-off from the sheet. Panels and traces the engineer set (origin
  * absent or "user") are kept, and a curve the engineer traced is not added again; parts of an
  * earlier detection (origin "detected") are found afresh, so --detect can run again on a saved
@@ -137,6 +159,8 @@ export async function detectTakeoff(input: TakeoffToDetect, raw: Record<string, 
   const detection = detectSheet(text, await sheet.paths(), givenValues(input), input.iso_levels);
   const speedRead = speedOfTextItems(text.map((t) => t.text));
   const questions = [...detection.questions];
+  const unitSlip = givenUnitQuestion(detection.labelUnit, input);
+  if (unitSlip) questions.push(unitSlip);
   // Parts the engineer set stay; parts found by an earlier detection are found again.
   const userPanels = (input.panels ?? []).filter((p) => p.origin !== 'detected');
   const userTraces = (input.traces ?? []).filter((t) => t.origin !== 'detected');

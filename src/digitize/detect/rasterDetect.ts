@@ -12,7 +12,7 @@ import { TakeoffError, parseTakeoff, type TakeoffToDetect } from '../../model/ta
 import { fromSI, parseUnit, toSI } from '../../units/index.ts';
 import { safeScale, type Sheet } from '../sheet.ts';
 import type { DetectedTakeoff, Detection } from './detect.ts';
-import { givenValues, takeoffPanels } from './detect.ts';
+import { givenUnitQuestion, givenValues, takeoffPanels } from './detect.ts';
 import { findRasterCurves } from './rasterCurves.ts';
 import { findRasterPanels, type DetectProgress } from './rasterPanels.ts';
 import type { TextReader } from './rasterText.ts';
@@ -41,6 +41,8 @@ export async function detectRasterTakeoff(input: TakeoffToDetect, raw: Record<st
   const curves = await findRasterCurves(image, found, reader, { ...(given ? { given: { family: given.family, values: given.values } } : {}), progress: (f, what) => progress(0.6 + 0.35 * f, what) });
   progress(0.95, 'writing the take-off');
   const questions = [...found.questions, ...curves.questions];
+  const unitSlip = givenUnitQuestion(curves.labelUnit, input);
+  if (unitSlip) questions.push(unitSlip);
   const userPanels = (input.panels ?? []).filter((p) => p.origin !== 'detected');
   // Every found panel is kept: the engineer's traces may rest on one where no curve was found.
   const { panels, panelIds } = takeoffPanels(found.panels, userPanels, input.units, questions);

@@ -1,0 +1,50 @@
+/**
+ * Diameters typed in the sheet's unit while the take-off names another (15.5 and 12.625 given in
+ * a take-off in mm, the sheet labelled in inches) are a slip that would put 15.5 mm impellers in
+ * the curve set: the detector asks, never names silently.
+ */
+import { afterAll, describe, expect, it } from 'vitest';
+import { detectTakeoff, givenUnitQuestion } from '../../src/digitize/detect/detect.ts';
+import { loadImageSheetNode } from '../../src/digitize/loaders/imageNode.ts';
+import { closeTextReaderNode, textReaderNode } from '../../src/digitize/loaders/ocrNode.ts';
+import { parseTakeoffToDetect } from '../../src/model/takeoff.ts';
+import { sheetGeometry } from '../../scripts/randomSheets/randomSheet.ts';
+import { scanFor } from '../../scripts/detectSheets/scanBed.ts';
+
+afterAll(async () => closeTextReaderNode());
+
+const si = { flow: 'm3/h', head: 'm', power: 'kW', diameter: 'mm' };
+const us = { flow: 'gpm', head: 'ft', power: 'hp', diameter: 'in' };
+
+describe('the unit of the diameters given', () => {
+  it('asks when the labels read are in another unit than the take-off\'s diameters', () => {
+    expect(givenUnitQuestion('in', { units: si, diameters: [15.5, 12.625] })).toMatch(/labels its curves in inches.*diameters are in millimetres.*\(15\.5, 12\.625\) were taken as mm/);
+    expect(givenUnitQuestion('mm', { units: us, diameters: [390, 346] })).toMatch(/in millimetres.*in inches/);
+  });
+
+  it('asks, with no label read, when the values fit no impeller in the take-off\'s unit', () => {
+    expect(givenUnitQuestion(null, { units: si, diameters: [15.5, 12.625] })).toMatch(/too small for impellers in millimetres.*typed in inches/);
+    expect(givenUnitQuestion(null, { units: us, diameters: [390, 346] })).toMatch(/too large for impellers in inches.*typed in millimetres/);
+    expect(givenUnitQuestion(null, { units: us, diameters: [15.5, 12.625] })).toBeNull();
+  });
+
+  it('says nothing when they agree, when no label unit was read, or when nothing was given', () => {
+    expect(givenUnitQuestion('in', { units: us, diameters: [15.5] })).toBeNull();
+    expect(givenUnitQuestion(null, { units: si, diameters: [250, 230] })).toBeNull();
+    expect(givenUnitQuestion('rpm', { units: us, diameters: [15.5] })).toBeNull();
+    expect(givenUnitQuestion('in', { units: si })).toBeNull();
+  });
+
+  it('on a US scan of the random bed taken off with SI units and the inch values typed, the detector asks', { timeout: 180_000 }, async () => {
+    const seed = 24;
+    const { plan } = sheetGeometry(seed, 'scan');
+    expect(plan.family.units).toBe('us');
+    const { jpeg, takeoff } = await scanFor(seed);
+    const sheet = await loadImageSheetNode(jpeg, { name: `${seed}.jpg` });
+    const raw: Record<string, unknown> = { ...takeoff, sheet: `${seed}.jpg`, units: si, diameters: [...plan.family.diameters] };
+    delete raw.panels;
+    delete raw.traces;
+    const found = await detectTakeoff(parseTakeoffToDetect(raw), raw, sheet, { reader: textReaderNode() });
+    expect(found.questions.some((q) => /labels its curves in inches/.test(q))).toBe(true);
+  });
+});
