@@ -5,25 +5,16 @@
  *
  *   npx tsx scripts/detectSheets/curveProfile.ts 52 power-340
  */
-import { detectTakeoff } from '../../src/digitize/detect/detect.ts';
-import { loadImageSheetNode } from '../../src/digitize/loaders/imageNode.ts';
-import { closeTextReaderNode, textReaderNode } from '../../src/digitize/loaders/ocrNode.ts';
+import { closeTextReaderNode } from '../../src/digitize/loaders/ocrNode.ts';
 import { replayTakeoff } from '../../src/digitize/takeoff.ts';
 import { evaluateUnchecked } from '../../src/fit/polynomial.ts';
-import { parseTakeoffToDetect } from '../../src/model/takeoff.ts';
 import { exact, siFactor } from '../randomSheets/pumpFamily.ts';
-import { sheetGeometry, truthOf } from '../randomSheets/randomSheet.ts';
-import { scanFor } from './scanBed.ts';
+import { truthOf } from '../randomSheets/randomSheet.ts';
+import { detectBedScan } from './scanBed.ts';
 
 const seed = Number(process.argv[2] ?? 52);
 const id = process.argv[3] ?? 'power-340';
-const { plan } = sheetGeometry(seed, 'scan');
-const { jpeg, takeoff } = await scanFor(seed);
-const sheet = await loadImageSheetNode(jpeg, { name: `${seed}.jpg` });
-const raw: Record<string, unknown> = { ...takeoff, sheet: `${seed}.jpg`, diameters: [...plan.family.diameters] };
-delete raw.panels;
-delete raw.traces;
-const found = await detectTakeoff(parseTakeoffToDetect(raw), raw, sheet, { reader: textReaderNode() });
+const { plan, sheet, found } = await detectBedScan(seed);
 const replay = await replayTakeoff(found.takeoff, sheet, { created: '2026-01-01T00:00:00.000Z' });
 if ('refused' in replay.curveSet) throw new Error('refused');
 const truth = truthOf(plan).find((t) => `${t.quantity}-${t.diameter}` === id);

@@ -22,7 +22,6 @@
  * missed on a sheet that asked nothing) with no finding of the replay, a confidence of 0.5 or
  * more, and no question. DETECT_GUIDES=1 also replays the bed's own guides on the found panels.
  */
-import { RENDER_VERSION } from '../randomSheets/svg.ts';
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { detectTakeoff } from '../../src/digitize/detect/detect.ts';
@@ -37,6 +36,7 @@ import type { TruthCurve } from '../randomSheets/randomSheet.ts';
 import { exact, siFactor } from '../randomSheets/pumpFamily.ts';
 import type { CurveSet } from '../../src/model/curveset.ts';
 import { scoreReplay } from '../randomSheets/score.ts';
+import { RENDER_VERSION } from '../randomSheets/svg.ts';
 
 const CACHE = join(import.meta.dirname, '..', '..', 'artifacts', 'detect-sheets', `scan-${RENDER_VERSION}`);
 
@@ -261,6 +261,21 @@ const q = (values: number[], p: number) => {
   const s = [...values].sort((a, b) => a - b);
   return s.length ? (s[Math.min(s.length - 1, Math.floor(p * s.length))] as number) : NaN;
 };
+
+/**
+ * The automatic take-off of bed scan `seed` with no panels and no traces, the plan's diameters
+ * given (as the engineer answers once), and `changes` laid over the take-off (other units, say).
+ */
+export async function detectBedScan(seed: number, changes: Record<string, unknown> = {}): Promise<{ plan: SheetPlan; sheet: Awaited<ReturnType<typeof loadImageSheetNode>>; found: Awaited<ReturnType<typeof detectTakeoff>> }> {
+  const { plan } = sheetGeometry(seed, 'scan');
+  const { jpeg, takeoff } = await scanFor(seed);
+  const sheet = await loadImageSheetNode(jpeg, { name: `${seed}.jpg` });
+  const raw: Record<string, unknown> = { ...takeoff, sheet: `${seed}.jpg`, diameters: [...plan.family.diameters], ...changes };
+  delete raw.panels;
+  delete raw.traces;
+  const found = await detectTakeoff(parseTakeoffToDetect(raw), raw, sheet, { reader: textReaderNode() });
+  return { plan, sheet, found };
+}
 
 async function main(): Promise<void> {
   const count = Number(process.env.DETECT_SCANS ?? 10);

@@ -4,12 +4,9 @@
  * the curve set: the detector asks, never names silently.
  */
 import { afterAll, describe, expect, it } from 'vitest';
-import { detectTakeoff, givenUnitQuestion } from '../../src/digitize/detect/detect.ts';
-import { loadImageSheetNode } from '../../src/digitize/loaders/imageNode.ts';
-import { closeTextReaderNode, textReaderNode } from '../../src/digitize/loaders/ocrNode.ts';
-import { parseTakeoffToDetect } from '../../src/model/takeoff.ts';
-import { sheetGeometry } from '../../scripts/randomSheets/randomSheet.ts';
-import { scanFor } from '../../scripts/detectSheets/scanBed.ts';
+import { givenUnitQuestion } from '../../src/digitize/detect/detect.ts';
+import { closeTextReaderNode } from '../../src/digitize/loaders/ocrNode.ts';
+import { detectBedScan } from '../../scripts/detectSheets/scanBed.ts';
 
 afterAll(async () => closeTextReaderNode());
 
@@ -36,15 +33,8 @@ describe('the unit of the diameters given', () => {
   });
 
   it('on a US scan of the random bed taken off with SI units and the inch values typed, the detector asks', { timeout: 180_000 }, async () => {
-    const seed = 24;
-    const { plan } = sheetGeometry(seed, 'scan');
+    const { plan, found } = await detectBedScan(24, { units: si });
     expect(plan.family.units).toBe('us');
-    const { jpeg, takeoff } = await scanFor(seed);
-    const sheet = await loadImageSheetNode(jpeg, { name: `${seed}.jpg` });
-    const raw: Record<string, unknown> = { ...takeoff, sheet: `${seed}.jpg`, units: si, diameters: [...plan.family.diameters] };
-    delete raw.panels;
-    delete raw.traces;
-    const found = await detectTakeoff(parseTakeoffToDetect(raw), raw, sheet, { reader: textReaderNode() });
     expect(found.questions.some((q) => /labels its curves in inches/.test(q))).toBe(true);
   });
 });

@@ -5,15 +5,11 @@
  * the sheet does not draw.
  */
 import { afterAll, describe, expect, it } from 'vitest';
-import { detectTakeoff } from '../../src/digitize/detect/detect.ts';
 import type { InkMap } from '../../src/digitize/detect/ink.ts';
 import { distanceToTrack, isoLevelOf, isoLevelRead, steepLines, transposeBox, turnedInk, wordsOnIsoLines, type FrameWord } from '../../src/digitize/detect/rasterIso.ts';
 import { frameLines, type Track } from '../../src/digitize/detect/rasterLines.ts';
-import { loadImageSheetNode } from '../../src/digitize/loaders/imageNode.ts';
-import { closeTextReaderNode, textReaderNode } from '../../src/digitize/loaders/ocrNode.ts';
-import { parseTakeoffToDetect } from '../../src/model/takeoff.ts';
-import { sheetGeometry } from '../../scripts/randomSheets/randomSheet.ts';
-import { scanFor } from '../../scripts/detectSheets/scanBed.ts';
+import { closeTextReaderNode } from '../../src/digitize/loaders/ocrNode.ts';
+import { detectBedScan } from '../../scripts/detectSheets/scanBed.ts';
 
 afterAll(async () => closeTextReaderNode());
 
@@ -75,15 +71,8 @@ describe('iso labels', () => {
 
 describe('iso-lines on a scan of the random bed', () => {
   it('seed 24: levels from labels only, each a level the sheet draws; one-branch levels unsure', { timeout: 180_000 }, async () => {
-    const seed = 24;
-    const { plan } = sheetGeometry(seed, 'scan');
+    const { plan, found } = await detectBedScan(24);
     const drawnLevels = new Set(plan.lines.filter((l) => l.iso !== undefined).map((l) => l.iso));
-    const { jpeg, takeoff } = await scanFor(seed);
-    const sheet = await loadImageSheetNode(jpeg, { name: `${seed}.jpg` });
-    const raw: Record<string, unknown> = { ...takeoff, sheet: `${seed}.jpg`, diameters: [...plan.family.diameters] };
-    delete raw.panels;
-    delete raw.traces;
-    const found = await detectTakeoff(parseTakeoffToDetect(raw), raw, sheet, { reader: textReaderNode() });
     const iso = found.takeoff.traces.filter((t) => t.iso !== undefined);
     expect(iso.length).toBeGreaterThan(0);
     for (const t of iso) expect(drawnLevels.has(t.iso)).toBe(true);
