@@ -22,6 +22,7 @@ import { inferIsoLevels } from './isoLevels.ts';
 import type { Box } from './panels.ts';
 import { frameLines, type LinesOptions, type Track } from './rasterLines.ts';
 import { readCrops, type Blot, type TextReader } from './rasterText.ts';
+import { isoLabel, sheetNumber } from './words.ts';
 
 /** A word found in a frame: its box in the frame's cleaned ink (`clean`, offset `at` on the level page). */
 export interface FrameWord {
@@ -100,15 +101,13 @@ export function steepLines(map: InkMap, frame: Box, options: LinesOptions, norma
 }
 
 /**
- * The level of an iso-line's label as read: "64%", "64 %", "η 64%", "64.5%"; null for anything
- * else. Levels lie between 0 and 100 % (exclusive).
+ * The level of an iso-line's label as read on a scan (isoLabel, the one rule for "64%", "64 %",
+ * "η 64%"), without the specks at its ends; null for anything else or outside 0–100 %.
  */
 export function isoLevelOf(text: string): number | null {
-  const t = text.replace(/\s+/g, '').replace(/^[,.;:_\-–—'`~|]+|[,.;:_\-–—'`~|]+$/g, '');
-  const m = /^(?:η=?)?(\d{1,2}(?:[.,]\d)?)%$/.exec(t);
-  if (!m) return null;
-  const v = Number((m[1] as string).replace(',', '.'));
-  return v > 0 && v < 100 ? v : null;
+  // Specks the reader takes for marks at either end (the stub of the line the label sits on) are no part of it.
+  const v = isoLabel(text.replace(/^[\s,.;:_\-–—'`~|]+|[\s,.;:_\-–—'`~|]+$/g, ''));
+  return v !== null && v > 0 && v < 100 ? v : null;
 }
 
 /**
@@ -121,8 +120,7 @@ export function isoLevelRead(text: string, digits: string): number | null {
   if (level === null) return null;
   const number = /\d+(?:[.,]\d+)?/.exec(digits.replace(/\s+/g, ''))?.[0];
   if (number === undefined) return level;
-  const asDigits = (s: string) => Number(s.replace(',', '.'));
-  return asDigits(number) === level || asDigits(number.slice(0, -1)) === level ? level : null;
+  return sheetNumber(number) === level || sheetNumber(number.slice(0, -1)) === level ? level : null;
 }
 
 /** Distance (level pixels) from a point to the polyline of a track. */
