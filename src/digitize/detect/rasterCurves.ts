@@ -304,7 +304,7 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
   }
   if (followed.length > 0) {
     // Words are placed among all the lines found (a label on a line left out names nothing else).
-    const onLines = new Map([...wordsOnIsoLines([...labelsAt, ...isoWordsAt], isos, heads)].filter(([, c]) => followed.includes(c)));
+    const onLines = new Map([...wordsOnIsoLines([...labelsAt, ...isoWordsAt], isos, heads, options.note)].filter(([, c]) => followed.includes(c)));
     const iso = await isoLevelsOnScan(followed, onLines, reader, 2 * page.strong, (followed[0] as RasterCurve).panel.id, options.note);
     if (iso.missing) leftOut.push(iso.missing);
     for (const [c, v] of iso.levels) {

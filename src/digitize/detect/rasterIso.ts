@@ -152,7 +152,7 @@ const onPage = (w: FrameWord): Blot => ({ l: w.word.l + w.at[0], t: w.word.t + w
  * so the word's middle lies on the line (within `ON_LINE` of the text height), nearer to it than
  * to any head curve, and far nearer to it than to any other iso-line.
  */
-export function wordsOnIsoLines<L extends IsoLine>(words: readonly FrameWord[], isos: readonly L[], heads: readonly { track: Track }[]): Map<FrameWord, L> {
+export function wordsOnIsoLines<L extends IsoLine>(words: readonly FrameWord[], isos: readonly L[], heads: readonly { track: Track }[], note: (line: string) => void = () => undefined): Map<FrameWord, L> {
   const out = new Map<FrameWord, L>();
   if (isos.length === 0) return out;
   for (const w of words) {
@@ -170,7 +170,9 @@ export function wordsOnIsoLines<L extends IsoLine>(words: readonly FrameWord[], 
     }
     const head = Math.min(Infinity, ...heads.map((h) => distanceToTrack(h.track, cx, cy)));
     // On an iso-line, nearer it than any head curve, and not halfway between two iso-lines.
-    if (best && bestD <= ON_LINE * hgt && bestD < head && second > 3 * bestD + 2) out.set(w, best);
+    const on = best !== null && bestD <= ON_LINE * hgt && bestD < head && second > 3 * bestD + 2;
+    note(`word at [${b.l}, ${b.t}, ${b.r}, ${b.b}]: nearest iso-line ${bestD.toFixed(1)} px, next ${second.toFixed(1)} px, head curve ${head.toFixed(1)} px (text height ${hgt}) → ${on ? 'on an iso-line' : 'not an iso label'}`);
+    if (on && best) out.set(w, best);
   }
   return out;
 }
