@@ -75,9 +75,6 @@ export interface RasterCurveOptions {
   progress?: (fraction: number, what: string) => void;
 }
 
-/** Least share of its box a run-together word's ink fills (common practice for print; a line's stretch of the same box fills well under it). */
-const WORD_FILL = 0.25;
-
 /** Most lines one frame holds: ten diameters, their iso-lines and a second axis's curves (common practice: sheets draw far fewer). */
 const MAX_LINES = 30;
 
@@ -562,8 +559,7 @@ export function frameWords(map: InkMap, frame: Box, strong: number, h: number, l
   const clean = from && from.clean.width === w && from.clean.height === hh ? from.clean.ink.slice() : gridFree(map, t, l, w, hh);
   eraseLines(clean, w, hh, at, lines, h);
   const cleanMap: InkMap = { width: w, height: hh, ink: clean };
-  // A label whose glyphs the scan ran together ("69%" as one blot) is wider than two text heights.
-  const blots = joinCut(inkBlots(cleanMap, 0.3 * strong, [], Math.round(2 * h), { minHeight: 0.6 * h, maxHeight: 1.6 * h, maxWidth: 4 * h, fill: WORD_FILL }));
+  const blots = joinCut(inkBlots(cleanMap, 0.3 * strong, [], Math.round(2 * h)));
   // Glyphs and the marks beside them (a dot, an inch mark); a word is about the text's height.
   const words = wordsOf(blots.filter((k) => k.b - k.t >= 0.2 * h || k.r - k.l >= 0.2 * h)).filter((k) => k.b - k.t >= 0.6 * h && k.b - k.t <= 1.6 * h && k.r - k.l >= 0.4 * h && k.r - k.l <= 8 * h);
   return { words, clean: cleanMap, at };
