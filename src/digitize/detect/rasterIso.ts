@@ -17,6 +17,7 @@
  * Pure: the reader is handed in.
  */
 import type { SheetPoint } from '../points.ts';
+import { distanceToPolyline } from '../polyline.ts';
 import type { InkMap } from './ink.ts';
 import { inferIsoLevels } from './isoLevels.ts';
 import type { Box } from './panels.ts';
@@ -123,22 +124,17 @@ export function isoLevelRead(text: string, digits: string): number | null {
   return sheetNumber(number) === level || sheetNumber(number.slice(0, -1)) === level ? level : null;
 }
 
-/** Distance (level pixels) from a point to the polyline of a track. */
+/** A track's points as a polyline, made once per track. */
+const trackPoints = new WeakMap<Track, [number, number][]>();
+function pointsOf(t: Track): [number, number][] {
+  let p = trackPoints.get(t);
+  if (!p) trackPoints.set(t, (p = t.u.map((u, i) => [u, t.v[i] as number])));
+  return p;
+}
+
+/** Distance (level pixels) from a point to the polyline of a track (the one polyline rule, polyline.ts). */
 export function distanceToTrack(t: Track, x: number, y: number): number {
-  let best = Infinity;
-  const n = t.u.length;
-  if (n === 1) return Math.hypot((t.u[0] as number) - x, (t.v[0] as number) - y);
-  for (let i = 1; i < n; i++) {
-    const ax = t.u[i - 1] as number;
-    const ay = t.v[i - 1] as number;
-    const dx = (t.u[i] as number) - ax;
-    const dy = (t.v[i] as number) - ay;
-    const len2 = dx * dx + dy * dy;
-    const s = len2 === 0 ? 0 : Math.max(0, Math.min(1, ((x - ax) * dx + (y - ay) * dy) / len2));
-    const d = Math.hypot(ax + s * dx - x, ay + s * dy - y);
-    if (d < best) best = d;
-  }
-  return best;
+  return t.u.length === 0 ? Infinity : distanceToPolyline(pointsOf(t), [x, y]);
 }
 
 /** How far a label's middle may lie from its line, in text heights (the line runs through the label's box). */
@@ -241,19 +237,16 @@ export async function isoLevelsOnScan<L extends IsoLine>(
   return { levels, unsure, missing };
 }
 
-/** A polyline (level pixels) as a track, for distanceToTrack: points in the order given. */
-const polyline = (points: readonly (readonly [number, number])[]): Track => ({ u: points.map((p) => p[0]), v: points.map((p) => p[1]), room: [], len: [] });
-
 /** A found line's points in level pixels, whichever way it was found. */
 const levelPoints = (c: IsoLine): [number, number][] => c.track.u.map((u, i) => (c.transposed ? [c.track.v[i] as number, u] : [u, c.track.v[i] as number]));
 
 /** Share of `points` within `tol` of the polyline `line`, looked at every 3rd point. */
-function shareAlong(points: readonly (readonly [number, number])[], line: Track, tol: number): number {
+function shareAlong(points: readonly (readonly [number, number])[], line: readonly (readonly [number, number])[], tol: number): number {
   let near = 0;
   let n = 0;
   for (let i = 0; i < points.length; i += 3, n++) {
     const [x, y] = points[i] as [number, number];
-    if (distanceToTrack(line, x, y) <= tol) near++;
+    if (distanceToPolyline(line, [x, y]) <= tol) near++;
   }
   return n === 0 ? 0 : near / n;
 }
@@ -278,9 +271,9 @@ export function isoPiecesAcross<L extends IsoLine & { confidence: number }>(isos
     for (const k of isos) {
       if (k === c || out.has(k) || !(k.confidence >= 0.5) || (traced.get(k) as []).length < 2) continue;
       if (!(k.confidence > c.confidence || (k.confidence === c.confidence && length(k) > length(c)))) continue;
-      if (shareAlong(levelPoints(c), polyline(traced.get(k) as [number, number][]), 3) < 0.8) continue;
+      if (shareAlong(levelPoints(c), traced.get(k) as [number, number][], 3) < 0.8) continue;
       const own = traced.get(c) as [number, number][];
-      if (own.length >= 2 && shareAlong(levelPoints(k), polyline(own), 3) < 0.8) continue;
+      if (own.length >= 2 && shareAlong(levelPoints(k), own, 3) < 0.8) continue;
       out.add(c);
       break;
     }
