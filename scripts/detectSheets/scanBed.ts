@@ -6,7 +6,7 @@
  * detected calibrations alone; its curves are scored with the bed's own scorer.
  *
  *   DETECT_SCANS=20 DETECT_SEED=1 npx tsx scripts/detectSheets/scanBed.ts
- *   DETECT_KIND=photo DETECT_SCANS=10 npx tsx scripts/detectSheets/scanBed.ts   (hand-held photos: not read yet, must ask)
+ *   DETECT_KIND=photo DETECT_SCANS=10 npx tsx scripts/detectSheets/scanBed.ts   (hand-held photos: the page squared from its own lines, keystone.ts)
  *
  * Per sheet: panels found (right quantity) of those drawn, the real calibration error of each
  * found panel (% of span over a 9 × 9 grid, calibrationError of the bed), questions, the

@@ -25,7 +25,8 @@ export function invertHomography(h: H9): H9 {
   return [A / det, (c * k - b * l) / det, (b * f - c * e) / det, B / det, (a * l - c * g) / det, (c * d - a * f) / det, C / det, (b * g - a * k) / det, (a * e - b * d) / det];
 }
 
-function multiply(p: H9, q: H9): H9 {
+/** The product p · q: the map q, then p. */
+export function multiplyHomography(p: H9, q: H9): H9 {
   const out: number[] = [];
   for (let r = 0; r < 3; r++) for (let c = 0; c < 3; c++) out.push((p[r * 3] as number) * (q[c] as number) + (p[r * 3 + 1] as number) * (q[3 + c] as number) + (p[r * 3 + 2] as number) * (q[6 + c] as number));
   return out as unknown as H9;
@@ -95,7 +96,7 @@ export function fitHomography(from: readonly P[], to: readonly P[]): H9 | undefi
   const h = solve(ata, atb);
   if (!h || !h.every(Number.isFinite)) return undefined;
   const hn = [...h, 1] as unknown as H9;
-  const out = multiply(multiply(invertHomography(tt), hn), tf);
+  const out = multiplyHomography(multiplyHomography(invertHomography(tt), hn), tf);
   const s = out[8];
   if (!Number.isFinite(s) || Math.abs(s) < 1e-300) return undefined;
   return out.map((v) => v / s) as unknown as H9;

@@ -7,6 +7,7 @@
  *
  * Pure: works on an RGBA raster.
  */
+import type { H9 } from '../homography.ts';
 import type { RasterImage } from '../raster.ts';
 
 /** Darkness below the local paper (0 = paper, 255 = black), one byte a pixel, row-major. */
@@ -22,6 +23,8 @@ export interface Level {
   readonly angle: number;
   toImage(u: number, v: number): [number, number];
   toLevel(x: number, y: number): [number, number];
+  /** For a photographed page squared again (keystone.ts): the whole map from level pixels to image pixels. */
+  readonly homography?: H9;
 }
 
 const BLOCK = 48;
@@ -122,11 +125,20 @@ export function strongInk(map: InkMap): number {
  * most sharply (the sum of squared row counts is largest), as long straight rules do when level.
  */
 export function pageAngle(map: InkMap, threshold: number): number {
+  return dominantAngle(map, threshold).angle;
+}
+
+/**
+ * `pageAngle` with how sharply the dark pixels pile up at it: the coarse search's best score
+ * over its mean score across the ±4° searched (1 for ink with no straight lines, several for
+ * long rules). Angle in radians; `sharpness` 0 when there is too little ink to tell.
+ */
+export function dominantAngle(map: InkMap, threshold: number): { angle: number; sharpness: number } {
   const { width, height, ink } = map;
   let count = 0;
   // Every row (sampling every other row would favour the level angle, whose bins it fills alternately).
   for (let y = 0; y < height; y++) for (let x = y % 3; x < width; x += 3) if ((ink[y * width + x] as number) >= threshold) count++;
-  if (count < 50) return 0;
+  if (count < 50) return { angle: 0, sharpness: 0 };
   const xs = new Float64Array(count);
   const ys = new Float64Array(count);
   for (let y = 0, k = 0; y < height; y++) {
@@ -155,8 +167,12 @@ export function pageAngle(map: InkMap, threshold: number): number {
   const deg = Math.PI / 180;
   let best = 0;
   let bestScore = -1;
+  let sum = 0;
+  let tried = 0;
   for (let a = -4; a <= 4 + 1e-9; a += 0.1) {
     const s = score(a * deg);
+    sum += s;
+    tried++;
     if (s > bestScore) [best, bestScore] = [a, s];
   }
   let fine = best;
@@ -170,7 +186,7 @@ export function pageAngle(map: InkMap, threshold: number): number {
     const s = score(a * deg, 4);
     if (s > finestScore) [finest, finestScore] = [a, s];
   }
-  return finest * deg;
+  return { angle: finest * deg, sharpness: bestScore / (sum / tried) };
 }
 
 export function levelOf(angle: number, width: number, height: number): Level {
@@ -187,6 +203,7 @@ export function levelOf(angle: number, width: number, height: number): Level {
 
 /** The ink map turned level (bilinear; pixels from outside the image are paper). */
 export function levelInk(map: InkMap, level: Level): InkMap {
+  if (level.homography) return squaredInk(map, level.homography);
   if (level.angle === 0) return map;
   const { width, height, ink } = map;
   const out = new Uint8Array(width * height);
@@ -203,6 +220,40 @@ export function levelInk(map: InkMap, level: Level): InkMap {
     const row = v * width;
     for (let u = 0; u < width; u++, x += c, y += s) {
       if (x < 0 || y < 0 || x >= w1 || y >= h1) continue;
+      const x0 = x | 0;
+      const y0 = y | 0;
+      const fx = x - x0;
+      const fy = y - y0;
+      const i = y0 * width + x0;
+      const a = ink[i] as number;
+      const b = ink[i + 1] as number;
+      const d = ink[i + width] as number;
+      const e = ink[i + width + 1] as number;
+      if ((a | b | d | e) === 0) continue;
+      const top = a + fx * (b - a);
+      out[row + u] = top + fy * (d + fx * (e - d) - top) + 0.5;
+    }
+  }
+  return { width, height, ink: out };
+}
+
+/** The ink map seen through a homography from level pixels to image pixels (bilinear; pixels from outside the image are paper). */
+function squaredInk(map: InkMap, h: H9): InkMap {
+  const { width, height, ink } = map;
+  const out = new Uint8Array(width * height);
+  const [h0, h1, h2, h3, h4, h5, h6, h7, h8] = h;
+  const w1 = width - 1;
+  const ht1 = height - 1;
+  for (let v = 0; v < height; v++) {
+    const row = v * width;
+    const vc = v + 0.5;
+    for (let u = 0; u < width; u++) {
+      // Pixel centres: (u + 0.5, v + 0.5) level ↔ (x + 0.5, y + 0.5) image.
+      const uc = u + 0.5;
+      const w = h6 * uc + h7 * vc + h8;
+      const x = (h0 * uc + h1 * vc + h2) / w - 0.5;
+      const y = (h3 * uc + h4 * vc + h5) / w - 0.5;
+      if (!(x >= 0 && y >= 0 && x < w1 && y < ht1)) continue;
       const x0 = x | 0;
       const y0 = y | 0;
       const fx = x - x0;

@@ -18,6 +18,7 @@ import type { AxisScaleType } from '../../model/takeoff.ts';
 import { inkMap, levelInk, levelOf, pageAngle, strongInk, type InkMap, type Level } from './ink.ts';
 import type { Box, FoundPanel } from './panels.ts';
 import { findRasterFrames, frameSkew, gridLines, horizontalRules, verticalRules } from './rasterFrames.ts';
+import { squarePage } from './keystone.ts';
 import { inkBlots, readCrops, wordsOf, type Blot, type Crop, type TextReader } from './rasterText.ts';
 import { readAxis } from './robustAxis.ts';
 import { quantityOfTitle, SHEET_NUMBER, sheetNumber, unitOfTitle } from './words.ts';
@@ -132,10 +133,27 @@ interface Page {
 function readPage(image: RasterImage): Page {
   const raw = inkMap(image);
   const strong = strongInk(raw);
-  const level = levelOf(pageAngle(raw, 0.6 * strong), raw.width, raw.height);
-  const map = levelInk(raw, level);
+  const angle = pageAngle(raw, 0.6 * strong);
+  let level = levelOf(angle, raw.width, raw.height);
+  let map = levelInk(raw, level);
   const minSide = 0.15 * Math.min(map.width, map.height);
-  const frames = findRasterFrames(horizontalRules(map, 0.6 * strong, minSide), verticalRules(map, 0.6 * strong, minSide), minSide, 6);
+  const framesOn = (m: InkMap) => findRasterFrames(horizontalRules(m, 0.6 * strong, minSide), verticalRules(m, 0.6 * strong, minSide), minSide, 6);
+  const squareFrames = (m: InkMap, list: readonly Box[]) => list.filter((f) => frameSkew(m, f) <= MAX_FRAME_SKEW).length;
+  let frames = framesOn(map);
+  // A photo taken at an angle: no frame found, or frames that are no rectangles on the turned
+  // page. The page is squared from its own lines (keystone.ts) and kept so when more frames
+  // come out square.
+  if (frames.length === 0 || squareFrames(map, frames) < frames.length) {
+    const squared = squarePage(raw, map, angle, 0.6 * strong, minSide);
+    if (squared) {
+      const again = framesOn(squared.map);
+      if (squareFrames(squared.map, again) > squareFrames(map, frames)) {
+        level = squared.level;
+        map = squared.map;
+        frames = again;
+      }
+    }
+  }
   const words = wordsOf(inkBlots(map, 0.6 * strong, frames, Math.round(0.06 * Math.max(map.width, map.height)))).map((w) => ({ ...w, cx: (w.l + w.r) / 2, cy: (w.t + w.b) / 2 }));
   // Text height: the middle height of the words standing beside the frames.
   const beside = words.filter((w) => frames.some(([l, t, r, b]) => w.cy >= t - 50 && w.cy <= b + 100 && w.cx >= l - 200 && w.cx <= r + 200 && !(w.cx > l && w.cx < r && w.cy > t && w.cy < b)));
