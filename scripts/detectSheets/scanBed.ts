@@ -17,7 +17,8 @@
  * Curves: each scan is also taken off with no panels and no traces given; when the detector asks
  * for the diameters (labels missing or not read), the plan's diameters are given once and the
  * run repeated. Each drawn curve (not iso-lines) is scored with the bed's scorer at 15–95 % of
- * its flow range: within 0.5 % of span (1.5 points of efficiency), missed, invented or
+ * its flow range: within 0.5 % of span (1.5 points of efficiency; on photos 1 % and 2 points,
+ * the photo acceptance), missed, invented or
  * mislabelled; "WRONG WITHOUT A FLAG" is a curve beyond tolerance (or invented, mislabelled,
  * missed on a sheet that asked nothing) with no finding of the replay, a confidence of 0.5 or
  * more, and no question. DETECT_GUIDES=1 also replays the bed's own guides on the found panels.
@@ -133,7 +134,7 @@ export async function runScan(seed: number, kind: 'scan' | 'photo' = 'scan'): Pr
       out.worstCurve = await worst(found.takeoff);
       out.worstGiven = await worst(parseTakeoff({ ...takeoff, sheet: `${seed}.jpg` }));
     }
-    out.curves = await scoreFoundCurves(seed, plan, takeoff, sheet);
+    out.curves = await scoreFoundCurves(seed, plan, takeoff, sheet, kind);
   } catch (error) {
     out.error = error instanceof Error ? error.message : String(error);
   } finally {
@@ -151,13 +152,19 @@ export const SCAN_CURVE_PERCENT = 0.5;
 export const SCAN_ISO_POINTS = 2;
 export const SCAN_EFFICIENCY_POINTS = 1.5;
 
+/** The tolerances a kind of sheet is held to: a scan's above; a hand-held photo's those of its own acceptance, 1 % of span and 2 points of efficiency. */
+export function curveTolerance(kind: 'scan' | 'photo'): { percent: number; points: number; isoPoints: number } {
+  return kind === 'scan' ? { percent: SCAN_CURVE_PERCENT, points: SCAN_EFFICIENCY_POINTS, isoPoints: SCAN_ISO_POINTS } : { percent: 1, points: 2, isoPoints: 2 };
+}
+
 /**
  * The take-off with no panels and no traces: the detector finds both. When it asks for the
  * diameters (labels missing or not read), the engineer answers once: the run is repeated with
  * the plan's diameters given, and that question is the sheet's one question.
  */
-async function scoreFoundCurves(seed: number, plan: SheetPlan, takeoff: TakeoffInput, sheet: Awaited<ReturnType<typeof loadImageSheetNode>>): Promise<CurveOutcome> {
+async function scoreFoundCurves(seed: number, plan: SheetPlan, takeoff: TakeoffInput, sheet: Awaited<ReturnType<typeof loadImageSheetNode>>, kind: 'scan' | 'photo'): Promise<CurveOutcome> {
   const out = emptyCurves(plan);
+  const tol = curveTolerance(kind);
   const raw: Record<string, unknown> = { ...takeoff, sheet: `${seed}.jpg` };
   delete raw.panels;
   delete raw.traces;
@@ -208,7 +215,7 @@ async function scoreFoundCurves(seed: number, plan: SheetPlan, takeoff: TakeoffI
       if (!asked) out.silent.push(`${t.quantity}-${t.diameter} missed`);
       continue;
     }
-    const limit = t.quantity === 'efficiency' ? SCAN_EFFICIENCY_POINTS : SCAN_CURVE_PERCENT;
+    const limit = t.quantity === 'efficiency' ? tol.points : tol.percent;
     const confidence = trace.confidence ?? 1;
     out.errors.push({ id: s.id, quantity: t.quantity, error: s.error, flagged: s.flagged, confidence });
     if (s.error <= limit) out.right++;
@@ -225,7 +232,7 @@ async function scoreFoundCurves(seed: number, plan: SheetPlan, takeoff: TakeoffI
     const e = out.errors.find((x) => x.id === `${t.quantity}-${t.diameter}`);
     if (e) {
       k.found++;
-      if (e.error <= (t.quantity === 'efficiency' ? SCAN_EFFICIENCY_POINTS : SCAN_CURVE_PERCENT)) k.right++;
+      if (e.error <= (t.quantity === 'efficiency' ? tol.points : tol.percent)) k.right++;
     }
   }
   // Efficiency from the iso-lines, per diameter, within 2 points (the acceptance on scans).
@@ -234,7 +241,7 @@ async function scoreFoundCurves(seed: number, plan: SheetPlan, takeoff: TakeoffI
     if (!Number.isFinite(s.error)) continue;
     out.iso.found++;
     out.iso.errors.push(s.error);
-    if (s.error <= SCAN_ISO_POINTS) out.iso.right++;
+    if (s.error <= tol.isoPoints) out.iso.right++;
     else if (!s.flagged && !asked && isoTraces.every((d) => (d.confidence ?? 1) >= 0.5)) out.silent.push(`${s.id} from iso-lines ${s.error.toFixed(2)} points off`);
   }
   for (const d of detected) {
@@ -311,11 +318,11 @@ async function main(): Promise<void> {
   const spanErrors = byKind((e) => e.quantity !== 'efficiency');
   const points = byKind((e) => e.quantity === 'efficiency');
   const sum = (f: (c: CurveOutcome) => number) => cs.reduce((n, c) => n + f(c), 0);
-  process.stdout.write(`\ncurves found on the scans (no panels, no traces given): ${sum((c) => c.right)} of ${sum((c) => c.drawn)} drawn curves within ${SCAN_CURVE_PERCENT} % of span / ${SCAN_EFFICIENCY_POINTS} points; found ${sum((c) => c.errors.length)}\n`);
+  process.stdout.write(`\ncurves found on the scans (no panels, no traces given): ${sum((c) => c.right)} of ${sum((c) => c.drawn)} drawn curves within ${curveTolerance(kind).percent} % of span / ${curveTolerance(kind).points} points; found ${sum((c) => c.errors.length)}\n`);
   process.stdout.write(`  error, % of span (head, power, NPSHr): p50 ${q(spanErrors, 0.5).toFixed(3)} p95 ${q(spanErrors, 0.95).toFixed(3)} max ${spanErrors.length ? Math.max(...spanErrors).toFixed(3) : '-'} (${spanErrors.length} curves)\n`);
   process.stdout.write(`  efficiency curves, points: p50 ${q(points, 0.5).toFixed(2)} p95 ${q(points, 0.95).toFixed(2)} max ${points.length ? Math.max(...points).toFixed(2) : '-'} (${points.length} curves)\n`);
   const isoErrors = cs.flatMap((c) => c.iso.errors);
-  process.stdout.write(`  efficiency from iso-lines, per diameter: drawn ${sum((c) => c.iso.drawn)} (on ${cs.filter((c) => c.iso.drawn > 0).length} sheets), found ${sum((c) => c.iso.found)}, within ${SCAN_ISO_POINTS} points ${sum((c) => c.iso.right)}; points p50 ${q(isoErrors, 0.5).toFixed(2)} p95 ${q(isoErrors, 0.95).toFixed(2)} max ${isoErrors.length ? Math.max(...isoErrors).toFixed(2) : '-'}\n`);
+  process.stdout.write(`  efficiency from iso-lines, per diameter: drawn ${sum((c) => c.iso.drawn)} (on ${cs.filter((c) => c.iso.drawn > 0).length} sheets), found ${sum((c) => c.iso.found)}, within ${curveTolerance(kind).isoPoints} points ${sum((c) => c.iso.right)}; points p50 ${q(isoErrors, 0.5).toFixed(2)} p95 ${q(isoErrors, 0.95).toFixed(2)} max ${isoErrors.length ? Math.max(...isoErrors).toFixed(2) : '-'}\n`);
   process.stdout.write(`  missed ${sum((c) => c.missed)}, invented ${sum((c) => c.invented)}, mislabelled ${sum((c) => c.mislabelled)}; refused sheets ${cs.filter((c) => c.error).length}; head curves named from labels read: ${sum((c) => c.namedByLabels)}; sheets where the detector asked for the diameters and got them: ${cs.filter((c) => c.gaveDiameters).length} (of ${cs.length})\n`);
   process.stdout.write(`  questions per sheet: ${cs.map((c) => c.questions.length).join(' ')}; sheets with at most one: ${cs.filter((c) => c.questions.length <= 1).length} of ${cs.length}\n`);
   for (const quantity of ['head', 'efficiency', 'power', 'npshr']) {

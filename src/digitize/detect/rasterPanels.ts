@@ -56,6 +56,9 @@ interface Side {
 /** Largest difference, pixels, between a frame side's position near its two ends on a level scan (turned scans measure under 0.6). */
 export const MAX_FRAME_SKEW = 1;
 
+/** Darkness, as a share of the page's strong ink, from which a pixel counts for the keystone's lines: low enough to take a faint grid's lines too, which carry most of a photo's perspective. */
+const KEYSTONE_INK = 0.35;
+
 const NUMBER = new RegExp(`^[-−]?${SHEET_NUMBER}%?$`);
 
 const grow = (b: Blot, by: number): Blot => ({ l: b.l - by, t: b.t - by, r: b.r + by, b: b.b + by });
@@ -144,7 +147,7 @@ function readPage(image: RasterImage): Page {
   // page. The page is squared from its own lines (keystone.ts) and kept so when more frames
   // come out square.
   if (frames.length === 0 || squareFrames(map, frames) < frames.length) {
-    const squared = squarePage(raw, map, angle, 0.6 * strong, minSide);
+    const squared = squarePage(raw, map, angle, KEYSTONE_INK * strong, minSide);
     if (squared) {
       const again = framesOn(squared.map);
       if (squareFrames(squared.map, again) > squareFrames(map, frames)) {
