@@ -275,7 +275,9 @@ export async function findRasterPanels(image: RasterImage, reader: TextReader, p
       const value = parseLabel(second.text);
       if (value === null || second.text === first.text) return;
       // The two readings disagree: the second is tried; the panel then asks, whatever it decides.
-      twoWays.set(w, first.text);
+      // A label the first reading left blank and the larger one reads is read once, not two ways:
+      // it still has to fit the evenly spaced axis of the others (an outlier asks below).
+      if (first.text.trim() !== '') twoWays.set(w, first.text);
       valueOf.set(w, { value, text: second.text, confidence: second.confidence });
     });
   }
