@@ -5,7 +5,7 @@
  * white, the found word boxes outlined grey) as DIR/SEED-LABEL.png. A tool for reading the
  * label reader, not a score.
  *
- *   [CROPS=/tmp/label-crops] npx tsx scripts/detectSheets/labelDump.ts 2 3 36
+ *   [CROPS=/tmp/label-crops] [DETECT_KIND=photo] npx tsx scripts/detectSheets/labelDump.ts 2 3 36
  */
 import { mkdirSync } from 'node:fs';
 import sharp from 'sharp';
@@ -18,12 +18,14 @@ import { sheetGeometry } from '../randomSheets/randomSheet.ts';
 import { scanFor } from './scanBed.ts';
 
 const seeds = process.argv.slice(2).map(Number);
+/** DETECT_KIND=photo reads the bed's hand-held photos of the same sheets. */
+const kind = process.env.DETECT_KIND === 'photo' ? 'photo' : 'scan';
 const cropDir = process.env.CROPS;
 if (cropDir) mkdirSync(cropDir, { recursive: true });
 const reader = textReaderNode();
 for (const seed of seeds) {
-  const { plan, shot } = sheetGeometry(seed, 'scan');
-  const { jpeg } = await scanFor(seed);
+  const { plan, shot } = sheetGeometry(seed, kind);
+  const { jpeg } = await scanFor(seed, kind);
   const sheet = await loadImageSheetNode(jpeg, { name: `${seed}.jpg` });
   const image = await sheet.render(1);
   const found = await findRasterPanels(image, reader);

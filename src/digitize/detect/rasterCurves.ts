@@ -416,6 +416,8 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
   const twice = out.filter((c) => out.some((o) => o !== c && o.panel === c.panel && o.value === c.value));
   if (twice.length > 0) leftOut.push(`On panel "${twice[0]!.panel.id}" two curves came out as ${twice[0]!.value}; both are left out: trace them by hand.`);
   const curvesOut = out.filter((c) => !twice.includes(c));
+  // A value read from a label the reader was unsure of: every curve named after it is unsure too.
+  if (named.doubtful) for (const c of curvesOut) if (named.doubtful.has(c.value as number)) c.confidence = Math.min(0.45, c.confidence);
   // Every value named on the head panel (or given) should have its curve on each other panel
   // found: what has none is said, so that a curve missing is never missing in silence.
   const known = [...new Set([...named.values.values(), ...(options.given && options.given.family === named.family ? options.given.values : [])])].sort((a, b) => b - a);
@@ -685,6 +687,27 @@ function labelOf(text: string): { value: number; unit: 'mm' | 'in' | 'rpm' | nul
   return null;
 }
 
+/** A label word read twice (as words, with its unit; as digits), with the reader's own confidence in the first reading, 0–100. */
+interface LabelReading {
+  text: string;
+  digits: string;
+  confidence: number;
+}
+
+/**
+ * A head label that names a curve is doubted when the reader's own confidence in it (0–100) is
+ * under LABEL_READ_SURE and more than LABEL_READ_GAP under the middle of the other labels of the
+ * sheet that name curves (three or more): printed alike, they should read alike. On the bed's
+ * seeds 1–40 the labels read right with a millimetre unit came back at 90 or more, while an inch
+ * mark or a comma lowers a right label's confidence (29–77) for all the labels of a sheet alike;
+ * the digit misread on photo 66 ("328 mm" for 329 mm) came back at 59 against 95–96 for its
+ * four siblings, and its digits one by one at 97 or more. Order and affinity cannot tell a 9
+ * from an 8; a right label doubted costs a question, a wrong one taken is a wrong curve set.
+ */
+export const LABEL_READ_SURE = 80;
+/** See LABEL_READ_SURE. */
+export const LABEL_READ_GAP = 25;
+
 async function nameHeads(
   heads: RasterCurve[],
   found: { word: Blot; frame: Box; clean: InkMap; plain: InkMap; at: [number, number] }[],
@@ -698,7 +721,7 @@ async function nameHeads(
   questions: string[],
   leftOut: string[],
   note: (line: string) => void = () => undefined,
-): Promise<{ values: Map<RasterCurve, number>; unit: string | null; family: 'diameter' | 'speed' }> {
+): Promise<{ values: Map<RasterCurve, number>; unit: string | null; family: 'diameter' | 'speed'; doubtful?: ReadonlySet<number> }> {
   const values = new Map<RasterCurve, number>();
   if (heads.length === 0) return { values, unit: null, family: given?.family ?? 'diameter' };
   // Order, top to bottom, checked at every column the curves share: the higher curve stays higher.
@@ -717,14 +740,14 @@ async function nameHeads(
   // Read on the frame's ink with the grid taken out, one call per frame; then in level pixels.
   // Each word is read twice (as words, for the unit; as digits, for the number): a small label
   // in colour is often read two ways, and the candidates are sorted out below.
-  const readings: { text: string; digits: string }[] = [];
+  const readings: LabelReading[] = [];
   const words: { word: Blot; plain: InkMap; at: [number, number] }[] = [];
   for (const clean of new Set(found.map((k) => k.clean))) {
     const here = found.filter((k) => k.clean === clean);
     const crops = here.map((w) => ({ box: { l: w.word.l - 2, t: w.word.t - 2, r: w.word.r + 2, b: w.word.b + 2 }, upright: false }));
     const asWords = await readCrops(clean, crops, reader, 'words', 2 * strong);
     const asDigits = await readCrops(clean, crops, reader, 'digits', 2 * strong);
-    asWords.forEach((r, i) => readings.push({ text: r.text, digits: asDigits[i]?.text ?? '' }));
+    asWords.forEach((r, i) => readings.push({ text: r.text, digits: asDigits[i]?.text ?? '', confidence: r.confidence }));
     words.push(...here.map((k) => ({ word: { l: k.word.l + k.at[0], t: k.word.t + k.at[1], r: k.word.r + k.at[0], b: k.word.b + k.at[1] }, plain: k.plain, at: k.at })));
   }
   joinUnitWords(words, readings, note);
@@ -777,6 +800,8 @@ async function nameHeads(
     return { curve: best, d: bestD };
   };
   const byCurve = new Map<RasterCurve, Set<number>>();
+  /** Per curve and value: the surest reading that gave it (the reader's own confidence, 0–100) and its text. */
+  const certainty = new Map<RasterCurve, Map<number, { confidence: number; text: string }>>();
   const units: (string | null)[] = [];
   // The one unit of the labels read whole (with their unit) in these frames, if they agree.
   // A unit read on one label only, against two or more read on the others, is a misreading (an
@@ -792,7 +817,7 @@ async function nameHeads(
   };
   let frameUnit = unitOf(readings);
   const near = words.map((w) => nearestHead(w.word));
-  const take = (w: { word: Blot }, reading: { text: string; digits: string }, at: { curve: RasterCurve | null; d: number }, again: boolean) => {
+  const take = (w: { word: Blot }, reading: LabelReading, at: { curve: RasterCurve | null; d: number }, again: boolean) => {
     if (reading.text === '' && reading.digits === '') return; // a unit word joined to its number
     const label = scanLabelOf(reading.text);
     const candidates = labelCandidates(reading.text, reading.digits, frameUnit);
@@ -803,9 +828,12 @@ async function nameHeads(
     const set = byCurve.get(at.curve) ?? new Set<number>();
     for (const v of candidates) set.add(v);
     byCurve.set(at.curve, set);
+    const sure = certainty.get(at.curve) ?? new Map<number, { confidence: number; text: string }>();
+    for (const v of candidates) if (!((sure.get(v)?.confidence ?? -1) >= reading.confidence)) sure.set(v, { confidence: reading.confidence, text: reading.text });
+    certainty.set(at.curve, sure);
     if (label?.unit) units.push(label.unit);
   };
-  words.forEach((w, i) => take(w, readings[i] as { text: string; digits: string }, near[i] as { curve: RasterCurve | null; d: number }, false));
+  words.forEach((w, i) => take(w, readings[i] as LabelReading, near[i] as { curve: RasterCurve | null; d: number }, false));
   const shutOff = order.map((c) => shutOffHead(c));
   const choose = () => chooseNames(order.map((c) => [...(byCurve.get(c) ?? [])]), shutOff);
   let chosen = crossing ? null : choose();
@@ -818,9 +846,9 @@ async function nameHeads(
     // read as a whole label (number and unit, both readings agreeing), nor as an iso label ("75 %";
     // "122%" is an inch label's mark misread).
     const again = words
-      .map((w, i) => ({ w, i, r: readings[i] as { text: string; digits: string } }))
+      .map((w, i) => ({ w, i, r: readings[i] as LabelReading }))
       .filter(({ w, i, r }) => (near[i] as { d: number }).d <= 1.5 * (w.word.b - w.word.t) && /\d/.test(r.text + r.digits) && isoLabel(r.text) === null && !(scanLabelOf(r.text)?.unit && labelCandidates(r.text, r.digits).length > 0));
-    const second: { text: string; digits: string }[] = [];
+    const second: LabelReading[] = [];
     const reread: { word: Blot }[] = [];
     for (const plain of new Set(again.map((k) => k.w.plain))) {
       const here = again.filter((k) => k.w.plain === plain);
@@ -828,14 +856,14 @@ async function nameHeads(
       if (picture.crops.length !== here.length) continue;
       const asWords = await readCrops(picture.map, picture.crops, reader, 'words', 255, 64);
       const asDigits = await readCrops(picture.map, picture.crops, reader, 'digits', 255, 64);
-      asWords.forEach((r, j) => second.push({ text: r.text, digits: asDigits[j]?.text ?? '' }));
+      asWords.forEach((r, j) => second.push({ text: r.text, digits: asDigits[j]?.text ?? '', confidence: r.confidence }));
       reread.push(...here.map((k, j) => ({ word: picture.boxes[j] ?? k.w.word, i: k.i })));
     }
     if (second.length > 0) {
       frameUnit = unitOf([...readings, ...second]);
       // The first readings' bare numbers count too once the second reading found the frame's unit.
-      words.forEach((w, i) => take(w, readings[i] as { text: string; digits: string }, near[i] as { curve: RasterCurve | null; d: number }, true));
-      reread.forEach((w, j) => take(w, second[j] as { text: string; digits: string }, nearestHead(w.word), true));
+      words.forEach((w, i) => take(w, readings[i] as LabelReading, near[i] as { curve: RasterCurve | null; d: number }, true));
+      reread.forEach((w, j) => take(w, second[j] as LabelReading, nearestHead(w.word), true));
       chosen = choose();
     }
   }
@@ -855,7 +883,20 @@ async function nameHeads(
     // One curve alone has nothing to be checked against: it is named, and the engineer asked once.
     for (const [c, v] of fromLabels) [values.set(c, v), (c.value = v), (c.named = 'label'), (c.confidence *= heads.length > 1 ? 0.95 : 0.6)];
     if (heads.length === 1) questions.push(`The one head curve found was read as ${chosen[0]}${unit ? ` ${unit}` : ''} from its label; is that what the sheet prints?`);
-    return { values, unit, family };
+    // A label the reader itself was unsure of (a 9 read as an 8 on a blurred photo keeps order and
+    // affinity): its curve, and every curve named after it, is proposed unsure, and the sheet asks.
+    const doubtful = new Set<number>();
+    const doubts: string[] = [];
+    const surest = [...fromLabels].map(([c, v]) => certainty.get(c)?.get(v)?.confidence ?? NaN).filter(Number.isFinite).sort((a, b) => a - b);
+    const typical = surest.length >= 3 ? (surest[surest.length >> 1] as number) : NaN;
+    for (const [c, v] of fromLabels) {
+      const read = certainty.get(c)?.get(v);
+      if (!read || !(read.confidence < LABEL_READ_SURE && read.confidence < typical - LABEL_READ_GAP)) continue;
+      doubtful.add(v);
+      doubts.push(`"${read.text.trim()}" at ${where(c)} (${read.confidence.toFixed(0)} of 100)`);
+    }
+    if (doubts.length > 0) questions.push(`The label${doubts.length === 1 ? '' : 's'} ${doubts.join(', ')} ${doubts.length === 1 ? 'was' : 'were'} read with little certainty; ${doubts.length === 1 ? 'its head curve and the curves named after it are' : 'their head curves and the curves named after them are'} proposed unsure. Is ${[...doubtful].join(', ')} what the sheet prints?`);
+    return { values, unit, family, doubtful };
   }
   if (givenValues && givenValues.length === heads.length && !crossing) {
     const fit = givenValues.every((v, i) => i === 0 || affinityHolds(givenValues[0] as number, shutOff[0] as number, v, shutOff[i] as number));
@@ -948,7 +989,7 @@ const UNIT_WORD = /^(?:mm|in|"|rpm|r\/min|min-1|1\/min)$/i;
  * its row (bottoms within a third of the digits' height, the gap at most one digit height),
  * so that the label counts as whole. The unit word's reading is emptied; boxes are level pixels.
  */
-export function joinUnitWords(words: readonly { word: Blot }[], readings: { text: string; digits: string }[], note: (line: string) => void = () => undefined): void {
+export function joinUnitWords(words: readonly { word: Blot }[], readings: { text: string; digits: string; confidence?: number }[], note: (line: string) => void = () => undefined): void {
   const taken = new Set<number>();
   words.forEach((w, i) => {
     const r = readings[i];
@@ -966,10 +1007,11 @@ export function joinUnitWords(words: readonly { word: Blot }[], readings: { text
       if (gap < bestGap) [best, bestGap] = [j, gap];
     });
     if (best < 0) return;
-    const ru = readings[best] as { text: string; digits: string };
+    const ru = readings[best] as { text: string; digits: string; confidence?: number };
     note(`  "${r.text}" and "${ru.text}" beside it are read as one label`);
-    readings[i] = { text: `${r.text.trim()} ${ru.text.trim()}`, digits: r.digits };
-    readings[best] = { text: '', digits: '' };
+    const confidence = r.confidence === undefined || ru.confidence === undefined ? (r.confidence ?? ru.confidence) : Math.min(r.confidence, ru.confidence);
+    readings[i] = { text: `${r.text.trim()} ${ru.text.trim()}`, digits: r.digits, ...(confidence !== undefined ? { confidence } : {}) };
+    readings[best] = { text: '', digits: '', ...(confidence !== undefined ? { confidence } : {}) };
     taken.add(best);
   });
 }
