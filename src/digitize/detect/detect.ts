@@ -88,14 +88,17 @@ function unitToken(kind: QuantityKind, token: string | null): string | null {
 export function takeoffPanels(found: readonly FoundPanel[], userPanels: NonNullable<TakeoffToDetect['panels']>, units: TakeoffToDetect['units'], questions: string[]): { panels: NonNullable<TakeoffToDetect['panels']>; panelIds: Map<FoundPanel, string> } {
   const panels: NonNullable<TakeoffToDetect['panels']> = [...userPanels];
   const panelIds = new Map<FoundPanel, string>();
+  // The flow unit is one question for the sheet, however many panels' titles leave it open.
+  const unknownFlow: string[] = [];
+  const noFlow: string[] = [];
   for (const p of found) {
     if (p.quantity === null) continue;
     const id = panels.some((k) => k.id === p.id) ? `${p.id}-detected` : p.id;
     panelIds.set(p, id);
     const x = unitToken('flow', p.xUnit);
     const y = p.quantity === 'efficiency' ? '%' : unitToken(QUANTITY_KIND[p.quantity], p.yUnit);
-    if (p.xUnit !== null && x === null) questions.push(`The flow title "${p.flowTitle}" of panel "${id}" names a unit this tool does not know; the take-off's flow unit ${units.flow} is used.`);
-    if (p.xUnit === null) questions.push(`Panel "${id}" has no flow title with a unit; the take-off's flow unit ${units.flow} is used.`);
+    if (p.xUnit !== null && x === null) unknownFlow.push(`"${p.flowTitle}" of panel "${id}"`);
+    if (p.xUnit === null) noFlow.push(`"${id}"`);
     panels.push({
       id,
       origin: 'detected',
@@ -108,6 +111,11 @@ export function takeoffPanels(found: readonly FoundPanel[], userPanels: NonNulla
       ...(x || y ? { units: { ...(x ? { x } : {}), ...(y ? { y } : {}) } } : {}),
     });
   }
+  const open = [
+    ...(unknownFlow.length > 0 ? [`the flow title${unknownFlow.length === 1 ? '' : 's'} ${unknownFlow.join(', ')} ${unknownFlow.length === 1 ? 'names' : 'name'} a unit this tool does not know`] : []),
+    ...(noFlow.length > 0 ? [`panel${noFlow.length === 1 ? '' : 's'} ${noFlow.join(', ')} ${noFlow.length === 1 ? 'has' : 'have'} no flow title with a unit`] : []),
+  ];
+  if (open.length > 0) questions.push(`${open.join(', and ').replace(/^./, (c) => c.toUpperCase())}; the take-off's flow unit ${units.flow} is used. Is that the sheet's?`);
   return { panels, panelIds };
 }
 
