@@ -20,15 +20,35 @@ export interface IsoShape {
  * - an unlabelled line takes a level only between two sure lines of one branch (and the count
  *   of lines between them fits the step), or beyond the outermost sure line of a branch, away
  *   from the peak. Lines near the peak, where the branch is unclear, stay questions.
+ * With `adjacent` (a scan, where every level inferred is unsure anyway), a labelled line next to a
+ * surely left one (no line between) with a higher level is on the left branch too, and one next
+ * to a surely right one with a higher level on the right branch: were it on the other branch, its
+ * twin of the same level would lie between them. This holds only when no line between was
+ * missed, which is why it is not taken on a vector sheet, where order gives a level held sure.
  */
-export function inferIsoLevels<C extends IsoShape>(lines: readonly C[], known: ReadonlyMap<C, number>): Map<C, number> {
+export function inferIsoLevels<C extends IsoShape>(lines: readonly C[], known: ReadonlyMap<C, number>, options: { adjacent?: boolean } = {}): Map<C, number> {
   const out = new Map<C, number>();
   const order = byFlow(lines);
   const marks = order.map((c, i) => ({ i, v: known.get(c) })).filter((m): m is { i: number; v: number } => m.v !== undefined);
   const isLeft = (m: { i: number; v: number }) => marks.some((o) => o.i > m.i && o.v >= m.v);
   const isRight = (m: { i: number; v: number }) => marks.some((o) => o.i < m.i && o.v >= m.v);
-  const left = marks.filter((m) => isLeft(m) && !isRight(m));
-  const right = marks.filter((m) => isRight(m) && !isLeft(m));
+  const sureLeft = new Set(marks.filter((m) => isLeft(m) && !isRight(m)));
+  const sureRight = new Set(marks.filter((m) => isRight(m) && !isLeft(m)));
+  for (let grew = options.adjacent === true; grew; ) {
+    grew = false;
+    for (const m of marks) {
+      if (sureLeft.has(m) || sureRight.has(m)) continue;
+      const before = marks.find((o) => o.i === m.i - 1);
+      const after = marks.find((o) => o.i === m.i + 1);
+      const toLeft = before !== undefined && sureLeft.has(before) && before.v < m.v;
+      const toRight = after !== undefined && sureRight.has(after) && after.v < m.v;
+      if (toLeft === toRight) continue;
+      (toLeft ? sureLeft : sureRight).add(m);
+      grew = true;
+    }
+  }
+  const left = marks.filter((m) => sureLeft.has(m));
+  const right = marks.filter((m) => sureRight.has(m));
   // Levels must rise along the left branch and fall along the right one.
   if (left.some((m, k) => k > 0 && m.v <= left[k - 1]!.v) || right.some((m, k) => k > 0 && m.v >= right[k - 1]!.v)) return out;
   const steps: number[] = [];

@@ -186,7 +186,11 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
           if (steep.some((t) => distanceToTrack(t, cy, cx) <= 1.5 * (word.b - word.t))) isoWordsAt.push({ word, clean: labels.clean, at: labels.at });
         }
       }
-      options.note?.(`${steep.length} steep line${steep.length === 1 ? '' : 's'} found on the turned ink of the head frame`);
+      // Labels whose glyphs the scan ran together, which frameWords drops: for the iso levels only.
+      const overlaps = (a: Blot, c: Blot) => a.l < c.r && c.l < a.r && a.t < c.b && c.t < a.b;
+      const joined = runTogetherWords(labels.clean, page.strong, page.h).filter((w) => !everyWord.some((k) => overlaps(k, w) && k.r - k.l >= w.r - w.l));
+      for (const word of joined) isoWordsAt.push({ word, clean: labels.clean, at: labels.at });
+      options.note?.(`${steep.length} steep line${steep.length === 1 ? '' : 's'} found on the turned ink of the head frame${joined.length > 0 ? `; ${joined.length} word${joined.length === 1 ? '' : 's'} of glyphs run together looked at for iso labels` : ''}`);
     }
     if (head) labelsAt.push(...labels.words.map((word) => ({ word, frame, clean: labels.clean, plain: printed.clean, at: labels.at })));
   }
@@ -305,7 +309,7 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
   if (followed.length > 0) {
     // Words are placed among all the lines found (a label on a line left out names nothing else).
     const onLines = new Map([...wordsOnIsoLines([...labelsAt, ...isoWordsAt], isos, heads, options.note)].filter(([, c]) => followed.includes(c)));
-    const iso = await isoLevelsOnScan(followed, onLines, reader, 2 * page.strong, (followed[0] as RasterCurve).panel.id, options.note);
+    const iso = await isoLevelsOnScan(followed, onLines, reader, 2 * page.strong, (followed[0] as RasterCurve).panel.id, options.note, page.h);
     if (iso.missing) leftOut.push(iso.missing);
     for (const [c, v] of iso.levels) {
       c.value = v;
@@ -563,6 +567,27 @@ export function frameWords(map: InkMap, frame: Box, strong: number, h: number, l
   // Glyphs and the marks beside them (a dot, an inch mark); a word is about the text's height.
   const words = wordsOf(blots.filter((k) => k.b - k.t >= 0.2 * h || k.r - k.l >= 0.2 * h)).filter((k) => k.b - k.t >= 0.6 * h && k.b - k.t <= 1.6 * h && k.r - k.l >= 0.4 * h && k.r - k.l <= 8 * h);
   return { words, clean: cleanMap, at };
+}
+
+/** Least share of its box a run-together label's ink fills (print at 180–300 dpi fills about a fifth; a thin line's stretch across the same box under a tenth). */
+const WORD_FILL = 0.15;
+
+/**
+ * Words of a clean frame picture (frameWords' `clean`) holding a blot wider than two text heights
+ * yet as tall as text and filled like print: labels whose glyphs the scan ran together ("69%" as
+ * one blot, or two labels printed side by side touching). frameWords drops such blots; these
+ * words are looked at for iso labels only (wordsOnIsoLines splits one that several iso-lines
+ * cross), so the curve labels and the line finder's holes stay as they are.
+ */
+export function runTogetherWords(clean: InkMap, strong: number, h: number): Blot[] {
+  if (clean.width === 0 || !(h > 0)) return [];
+  const all = inkBlots(clean, 0.3 * strong, [], Math.round(2 * h), { minHeight: 0.6 * h, maxHeight: 1.6 * h, maxWidth: 8 * h, fill: WORD_FILL });
+  const wide = all.filter((k) => k.r - k.l > Math.round(2 * h));
+  if (wide.length === 0) return [];
+  // Glyphs cut by a grid row are joined again, but a wide blot takes no line stub above or below it.
+  const blots = [...joinCut(all.filter((k) => !wide.includes(k))), ...wide];
+  const words = wordsOf(blots.filter((k) => k.b - k.t >= 0.2 * h || k.r - k.l >= 0.2 * h)).filter((k) => k.b - k.t >= 0.6 * h && k.b - k.t <= 1.6 * h && k.r - k.l <= 8 * h);
+  return words.filter((w) => wide.some((k) => k.l >= w.l && k.r <= w.r && k.t >= w.t && k.b <= w.b));
 }
 
 /** The frame's ink inside a 4 px inset (w × hh from row t + 4, column l + 4) with each row's and column's median darkness taken off. */

@@ -143,10 +143,56 @@ export const ON_LINE = 0.6;
 /** A word's box on the level page. */
 const onPage = (w: FrameWord): Blot => ({ l: w.word.l + w.at[0], t: w.word.t + w.at[1], r: w.word.r + w.at[0], b: w.word.b + w.at[1] });
 
+/** How near an iso-line must pass to a point of a word's middle row to cross the word there, in text heights. */
+export const CROSSES = 0.25;
+
+/**
+ * Where iso-lines cross a word along its middle row (page columns, left to right): a line
+ * passing within `CROSSES` of the text height of a point of that row, nearer there than any head
+ * curve. Labels printed side by side that the scan ran together make one word crossed by each
+ * of their lines, each label centred on its own line.
+ */
+export function crossingsOfWord<L extends IsoLine>(b: Blot, isos: readonly L[], heads: readonly { track: Track }[]): { line: L; x: number }[] {
+  const cy = (b.t + b.b) / 2;
+  const tol = Math.max(2, CROSSES * (b.b - b.t));
+  const out: { line: L; x: number }[] = [];
+  for (const c of isos) {
+    let best = { d: Infinity, x: NaN };
+    for (let x = b.l; x <= b.r; x++) {
+      const d = c.transposed ? distanceToTrack(c.track, cy, x) : distanceToTrack(c.track, x, cy);
+      if (d < best.d) best = { d, x };
+    }
+    if (best.d > tol) continue;
+    if (heads.some((h) => distanceToTrack(h.track, best.x, cy) <= best.d)) continue;
+    out.push({ line: c, x: best.x });
+  }
+  return out.sort((a, k) => a.x - k.x);
+}
+
+/**
+ * A word crossed by several iso-lines (crossingsOfWord), cut between them: each part, from
+ * halfway to the previous crossing to halfway to the next (the word's own ends outside), is the
+ * label of the line crossing it. Null when fewer than two lines cross it or a part is narrower
+ * than the text is high (no label of a level fits there).
+ */
+export function splitAcross<L extends IsoLine>(w: FrameWord, isos: readonly L[], heads: readonly { track: Track }[]): { part: FrameWord; line: L }[] | null {
+  const b = onPage(w);
+  const hgt = b.b - b.t;
+  const cross = crossingsOfWord(b, isos, heads);
+  if (cross.length < 2) return null;
+  const cuts = [b.l, ...cross.slice(1).map((c, i) => Math.round((c.x + (cross[i] as { x: number }).x) / 2)), b.r];
+  // A cut inside the word is kept clear of by the reading's margin (2 px, isoLevelsOnScan): no part shows its neighbour's last stroke.
+  const last = cross.length - 1;
+  const parts = cross.map((c, i) => ({ line: c.line, l: (cuts[i] as number) + (i > 0 ? 2 : 0), r: (cuts[i + 1] as number) - (i < last ? 2 : 0) }));
+  if (parts.some((p) => p.r - p.l < hgt)) return null;
+  return parts.map((p) => ({ line: p.line, part: { ...w, word: { l: p.l - w.at[0], t: w.word.t, r: p.r - w.at[0], b: w.word.b } } }));
+}
+
 /**
  * The words of the head frame that sit on an iso-line: a label printed on a line interrupts it,
  * so the word's middle lies on the line (within `ON_LINE` of the text height), nearer to it than
- * to any head curve, and far nearer to it than to any other iso-line.
+ * to any head curve, and far nearer to it than to any other iso-line. A word that is none of
+ * these but is crossed by several iso-lines is cut between them (splitAcross), a part per line.
  */
 export function wordsOnIsoLines<L extends IsoLine>(words: readonly FrameWord[], isos: readonly L[], heads: readonly { track: Track }[], note: (line: string) => void = () => undefined): Map<FrameWord, L> {
   const out = new Map<FrameWord, L>();
@@ -167,8 +213,10 @@ export function wordsOnIsoLines<L extends IsoLine>(words: readonly FrameWord[], 
     const head = Math.min(Infinity, ...heads.map((h) => distanceToTrack(h.track, cx, cy)));
     // On an iso-line, nearer it than any head curve, and not halfway between two iso-lines.
     const on = best !== null && bestD <= ON_LINE * hgt && bestD < head && second > 3 * bestD + 2;
-    note(`word at [${b.l}, ${b.t}, ${b.r}, ${b.b}]: nearest iso-line ${bestD.toFixed(1)} px, next ${second.toFixed(1)} px, head curve ${head.toFixed(1)} px (text height ${hgt}) → ${on ? 'on an iso-line' : 'not an iso label'}`);
+    const split = on ? null : splitAcross(w, isos, heads);
+    note(`word at [${b.l}, ${b.t}, ${b.r}, ${b.b}]: nearest iso-line ${bestD.toFixed(1)} px, next ${second.toFixed(1)} px, head curve ${head.toFixed(1)} px (text height ${hgt}) → ${on ? 'on an iso-line' : split ? `crossed by ${split.length} iso-lines, cut at ${split.slice(1).map((p) => p.part.word.l + w.at[0]).join(', ')}` : 'not an iso label'}`);
     if (on && best) out.set(w, best);
+    for (const p of split ?? []) out.set(p.part, p.line);
   }
   return out;
 }
@@ -190,6 +238,7 @@ export async function isoLevelsOnScan<L extends IsoLine>(
   inkFull: number,
   panelId: string,
   note: (line: string) => void = () => undefined,
+  textHeight = 0,
 ): Promise<IsoLevels<L>> {
   const levels = new Map<L, number>();
   const unsure = new Set<L>();
@@ -217,12 +266,16 @@ export async function isoLevelsOnScan<L extends IsoLine>(
   const known = new Map<L, number>();
   for (const [line, set] of read) if (set.size === 1) known.set(line, [...set][0] as number);
   for (const [c, v] of known) levels.set(c, v);
-  // The rest by order along the flow axis, from the tracer's lines.
-  if (levels.size < isos.length && known.size > 0) {
+  // The rest by order along the flow axis, from the tracer's lines; not when one line runs on into
+  // another (pieces of one line, linesMeeting, with the page's text height): the order would count
+  // a line twice.
+  const meeting = levels.size < isos.length && known.size > 0 ? linesMeeting(isos, textHeight) : null;
+  if (meeting) note(`an iso-line runs on into another at [${meeting.map((v) => v.toFixed(0)).join(', ')}] (pieces of one line?): no level is taken by order`);
+  if (levels.size < isos.length && known.size > 0 && !meeting) {
     const shapes = isos.map((line) => ({ line, points: line.traced }));
     if (shapes.every((k) => k.points.length >= 2)) {
       const knownShapes = new Map(shapes.filter((k) => known.has(k.line)).map((k) => [k, known.get(k.line) as number]));
-      for (const [k, v] of inferIsoLevels(shapes, knownShapes)) {
+      for (const [k, v] of inferIsoLevels(shapes, knownShapes, { adjacent: true })) {
         levels.set(k.line, v);
         unsure.add(k.line);
         note(`iso-line without a label takes ${v} % by order`);
@@ -239,6 +292,34 @@ export async function isoLevelsOnScan<L extends IsoLine>(
 
 /** A found line's points in level pixels, whichever way it was found. */
 const levelPoints = (c: IsoLine): [number, number][] => c.track.u.map((u, i) => (c.transposed ? [c.track.v[i] as number, u] : [u, c.track.v[i] as number]));
+
+/** How near the lower end of one found line and the upper end of another lie when they are one line's pieces, in text heights (a label's gap is about one and a quarter). */
+export const MEET_HEIGHTS = 1.5;
+
+/**
+ * Where one found iso-line runs on into another: the lower end of one (on the level page) lies
+ * within `MEET_HEIGHTS` text heights of the upper end of the other, as the pieces of a line the
+ * finder broke (at its label, or where its steep and shallow passes met) or of a head curve
+ * broken at a crossing. Two iso-lines of different levels never do: those lying side by side
+ * end side by side (both lower ends on the smallest impeller's curve). Null when none does.
+ */
+export function linesMeeting(isos: readonly IsoLine[], textHeight: number): [number, number] | null {
+  const ends = isos.map((c) => {
+    const p = levelPoints(c);
+    const a = p[0];
+    const b = p[p.length - 1];
+    if (!a || !b || p.length < 2) return null;
+    return a[1] <= b[1] ? { upper: a, lower: b } : { upper: b, lower: a };
+  });
+  const reach = MEET_HEIGHTS * textHeight;
+  for (const [i, a] of ends.entries()) {
+    for (const [j, b] of ends.entries()) {
+      if (!a || !b || i === j) continue;
+      if (Math.hypot(a.lower[0] - b.upper[0], a.lower[1] - b.upper[1]) <= reach) return a.lower;
+    }
+  }
+  return null;
+}
 
 /** Share of `points` within `tol` of the polyline `line`, looked at every 3rd point. */
 function shareAlong(points: readonly (readonly [number, number])[], line: readonly (readonly [number, number])[], tol: number): number {
