@@ -62,8 +62,10 @@ for (const seed of seeds.length ? seeds : [1]) {
     const verdict = c.value === undefined ? 'NO LEVEL' : best.iso === undefined ? 'level on a head piece' : c.value === best.iso ? 'right' : 'WRONG level';
     const a = pts[0]!;
     const b = pts[pts.length - 1]!;
+    const t = c.traced.map((p) => page.level.toLevel(p[0] * image.scale, p[1] * image.scale));
+    const tracedEnds = t.length >= 2 ? ` traced [${t[0]!.map((v) => v.toFixed(0)).join(',')}]→[${t[t.length - 1]!.map((v) => v.toFixed(0)).join(',')}]` : '';
     process.stdout.write(
-      `  ${c.transposed ? 'steep  ' : 'shallow'} [${a.map((v) => v.toFixed(0)).join(',')}]→[${b.map((v) => v.toFixed(0)).join(',')}] on ${best.id} (${best.med.toFixed(1)} px${best.iso === undefined ? ', a head curve' : `, level ${best.iso}`}) ${followed ? 'followed' : 'NOT FOLLOWED'} conf ${c.confidence.toFixed(2)} level ${c.value ?? '-'}${kept ? '' : ' (not out)'} → ${verdict}\n`,
+      `  ${c.transposed ? 'steep  ' : 'shallow'} [${a.map((v) => v.toFixed(0)).join(',')}]→[${b.map((v) => v.toFixed(0)).join(',')}] on ${best.id} (${best.med.toFixed(1)} px${best.iso === undefined ? ', a head curve' : `, level ${best.iso}`}) ${followed ? 'followed' : 'NOT FOLLOWED'} conf ${c.confidence.toFixed(2)} level ${c.value ?? '-'}${kept ? '' : ' (not out)'} → ${verdict}${tracedEnds}\n`,
     );
   }
   for (const d of isoDrawn) if (!covered.has(d.line.id)) process.stdout.write(`  drawn ${d.line.id}${d.line.label ? ` (label "${d.line.label.text}")` : ' (no label)'}: no iso-line found on it\n`);

@@ -7,7 +7,7 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import type { InkMap } from '../../src/digitize/detect/ink.ts';
 import { crossingsOfWord, distanceToTrack, isoLevelOf, isoLevelRead, linesMeeting, splitAcross, steepLines, transposeBox, turnedInk, wordsOnIsoLines, type FrameWord } from '../../src/digitize/detect/rasterIso.ts';
-import { inferIsoLevels } from '../../src/digitize/detect/isoLevels.ts';
+import { inferIsoLevels, sideBySide } from '../../src/digitize/detect/isoLevels.ts';
 import { runTogetherWords } from '../../src/digitize/detect/rasterCurves.ts';
 import { sheetPoint } from '../../src/digitize/points.ts';
 import { frameLines, type Track } from '../../src/digitize/detect/rasterLines.ts';
@@ -135,6 +135,18 @@ describe('iso levels by order on a scan', () => {
   it('does not when an unlabelled line lies between the two (it may be the twin of the higher level)', () => {
     const known = new Map([[lines[1]!, 40], [lines[3]!, 44]]);
     expect(inferIsoLevels(lines, known, { adjacent: true }).size).toBe(0);
+  });
+
+  it('orders lines by where they stand side by side, not by a lower end that wandered off', () => {
+    // Line 2 (44 %) wanders left at its lower end, past line 1's: by lower ends it would come first.
+    const wandered = [...lines];
+    wandered[2] = { points: [sheetPoint(150, 500), sheetPoint(300, 450), sheetPoint(320, 100)] };
+    expect(sideBySide(wandered[1]!.points, wandered[2]!.points)).toBe(1);
+    expect(sideBySide(wandered[2]!.points, wandered[1]!.points)).toBe(-1);
+    expect(sideBySide(lines[0]!.points, [sheetPoint(0, 700), sheetPoint(10, 600)])).toBe(0); // no common height
+    const known = new Map([[wandered[1]!, 40], [wandered[2]!, 44]]);
+    const out = inferIsoLevels(wandered, known, { adjacent: true });
+    expect([...out].map(([c, v]) => [wandered.indexOf(c), v])).toEqual([[0, 36]]);
   });
 
   it('takes the right branch the same way, falling away from the peak', () => {

@@ -95,7 +95,9 @@ export function levelsByOrder<C extends IsoShape>(lines: readonly C[], levels: r
  * Iso-lines in the order they cross the smallest head curve, left to right: each line's end
  * lower on the sheet (less head) is where it meets the smallest impeller's curve, which every
  * iso-line reaches, while a falling branch may stop short of the largest impeller's curve at
- * the end of the curves.
+ * the end of the curves. Two lines that reach common heights are put in the order they stand
+ * side by side there (iso-lines of one panel never cross), so a line that stops short of the
+ * smallest curve, or a scan's line that wanders off at its end, does not move in the order.
  */
 function byFlow<C extends IsoShape>(lines: readonly C[]): C[] {
   const low = (c: C) => {
@@ -103,5 +105,52 @@ function byFlow<C extends IsoShape>(lines: readonly C[]): C[] {
     const b = c.points[c.points.length - 1] as SheetPoint;
     return a[1] >= b[1] ? a[0] : b[0];
   };
-  return [...lines].sort((a, b) => low(a) - low(b));
+  const out = [...lines].sort((a, b) => low(a) - low(b));
+  // Neighbours standing the other way round at their common heights change places (a few passes).
+  for (let pass = 0; pass < out.length; pass++) {
+    let moved = false;
+    for (let k = 1; k < out.length; k++) {
+      if (sideBySide((out[k - 1] as C).points, (out[k] as C).points) < 0) {
+        [out[k - 1], out[k]] = [out[k] as C, out[k - 1] as C];
+        moved = true;
+      }
+    }
+    if (!moved) break;
+  }
+  return out;
+}
+
+/**
+ * Which of two lines stands left at the heights both reach (looked at in 12 steps over their
+ * common heights): 1 when `a` is left of `b` at most of them, −1 when right, 0 when they reach no
+ * common height or stand even.
+ */
+export function sideBySide(a: readonly SheetPoint[], b: readonly SheetPoint[]): number {
+  const span = (p: readonly SheetPoint[]) => [Math.min(...p.map((q) => q[1])), Math.max(...p.map((q) => q[1]))] as const;
+  const [a0, a1] = span(a);
+  const [b0, b1] = span(b);
+  const lo = Math.max(a0, b0);
+  const hi = Math.min(a1, b1);
+  if (!(hi > lo)) return 0;
+  let left = 0;
+  let right = 0;
+  for (let i = 0; i <= 12; i++) {
+    const y = lo + ((hi - lo) * i) / 12;
+    const xa = xAtHeight(a, y);
+    const xb = xAtHeight(b, y);
+    if (xa === null || xb === null) continue;
+    if (xa < xb) left++;
+    else if (xa > xb) right++;
+  }
+  return left > right ? 1 : right > left ? -1 : 0;
+}
+
+/** Where a line first reaches height y (sheet units), by straight pieces between its points; null when it never does. */
+function xAtHeight(points: readonly SheetPoint[], y: number): number | null {
+  for (let i = 1; i < points.length; i++) {
+    const [x0, y0] = points[i - 1] as SheetPoint;
+    const [x1, y1] = points[i] as SheetPoint;
+    if ((y0 <= y && y <= y1) || (y1 <= y && y <= y0)) return y1 === y0 ? x0 : x0 + ((x1 - x0) * (y - y0)) / (y1 - y0);
+  }
+  return null;
 }

@@ -16,7 +16,7 @@
  *
  * Pure: the reader is handed in.
  */
-import type { SheetPoint } from '../points.ts';
+import { sheetPoint, type SheetPoint } from '../points.ts';
 import { distanceToPolyline } from '../polyline.ts';
 import type { InkMap } from './ink.ts';
 import { inferIsoLevels } from './isoLevels.ts';
@@ -266,20 +266,30 @@ export async function isoLevelsOnScan<L extends IsoLine>(
   const known = new Map<L, number>();
   for (const [line, set] of read) if (set.size === 1) known.set(line, [...set][0] as number);
   for (const [c, v] of known) levels.set(c, v);
-  // The rest by order along the flow axis, from the tracer's lines; not when one line runs on into
-  // another (pieces of one line, linesMeeting, with the page's text height): the order would count
-  // a line twice.
+  // The rest by order along the flow axis, taken twice: from the tracer's lines and from the lines
+  // found (level pixels, y down as on the sheet); a level is kept only where both orders give it
+  // (a tracer's line that stopped short or ran on moves its end and shifts its order). Not when
+  // one line runs on into another (pieces of one line, linesMeeting, with the page's text
+  // height): the order would count a line twice.
   const meeting = levels.size < isos.length && known.size > 0 ? linesMeeting(isos, textHeight) : null;
   if (meeting) note(`an iso-line runs on into another at [${meeting.map((v) => v.toFixed(0)).join(', ')}] (pieces of one line?): no level is taken by order`);
   if (levels.size < isos.length && known.size > 0 && !meeting) {
-    const shapes = isos.map((line) => ({ line, points: line.traced }));
-    if (shapes.every((k) => k.points.length >= 2)) {
+    const byOrder = (points: (line: L) => readonly SheetPoint[]): Map<L, number> => {
+      const shapes = isos.map((line) => ({ line, points: points(line) }));
+      if (shapes.some((k) => k.points.length < 2)) return new Map();
       const knownShapes = new Map(shapes.filter((k) => known.has(k.line)).map((k) => [k, known.get(k.line) as number]));
-      for (const [k, v] of inferIsoLevels(shapes, knownShapes, { adjacent: true })) {
-        levels.set(k.line, v);
-        unsure.add(k.line);
-        note(`iso-line without a label takes ${v} % by order`);
+      return new Map([...inferIsoLevels(shapes, knownShapes, { adjacent: true })].map(([k, v]) => [k.line, v]));
+    };
+    const traced = byOrder((line) => line.traced);
+    const found = byOrder((line) => levelPoints(line).map(([x, y]) => sheetPoint(x, y)));
+    for (const [line, v] of traced) {
+      if (found.get(line) !== v) {
+        note(`iso-line without a label: ${v} % by the order of the tracer's lines, ${found.get(line) ?? 'none'} by the lines found; no level by order`);
+        continue;
       }
+      levels.set(line, v);
+      unsure.add(line);
+      note(`iso-line without a label takes ${v} % by order`);
     }
   }
   for (const [c, v] of levels) if ([...levels.values()].filter((k) => k === v).length === 1) unsure.add(c);
