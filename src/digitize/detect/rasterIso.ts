@@ -137,6 +137,11 @@ export function distanceToTrack(t: Track, x: number, y: number): number {
   return t.u.length === 0 ? Infinity : distanceToPolyline(pointsOf(t), [x, y]);
 }
 
+/** Text height (pixels of the reader's picture) at which an iso label that gave no level is read again: twice the usual 40. */
+export const AGAIN_ACROSS = 80;
+/** Least width of a word read again, in its heights: two glyphs and a "%" are about two. */
+const AGAIN_WIDTH = 1.5;
+
 /** How far a label's middle may lie from its line, in text heights (the line runs through the label's box). */
 export const ON_LINE = 0.6;
 
@@ -243,24 +248,34 @@ export async function isoLevelsOnScan<L extends IsoLine>(
   const levels = new Map<L, number>();
   const unsure = new Set<L>();
   if (isos.length === 0) return { levels, unsure, missing: null };
-  // Read the words on the lines, one call per cleaned frame, as words and as digits.
+  // Read the words on the lines, one call per cleaned frame, as words and as digits; a word that
+  // gives no level is read once more alone and larger (`AGAIN_ACROSS` pixels of text height): a
+  // small, blurred label the reader passes over at the usual size among the others. Both readings
+  // must agree each time.
   const read = new Map<L, Set<number>>();
   const byClean = new Map<InkMap, FrameWord[]>();
   for (const w of onLines.keys()) byClean.set(w.clean, [...(byClean.get(w.clean) ?? []), w]);
-  for (const [clean, list] of byClean) {
+  const readWords = async (clean: InkMap, list: readonly FrameWord[], across?: number): Promise<FrameWord[]> => {
     const crops = list.map((w) => ({ box: { l: w.word.l - 2, t: w.word.t - 2, r: w.word.r + 2, b: w.word.b + 2 }, upright: false }));
-    const asWords = await readCrops(clean, crops, reader, 'words', inkFull);
-    const asDigits = await readCrops(clean, crops, reader, 'digits', inkFull);
+    const asWords = await readCrops(clean, crops, reader, 'words', inkFull, across);
+    const asDigits = await readCrops(clean, crops, reader, 'digits', inkFull, across);
+    const unread: FrameWord[] = [];
     list.forEach((w, i) => {
       const text = asWords[i]?.text ?? '';
       const digits = asDigits[i]?.text ?? '';
       const level = isoLevelRead(text, digits);
       const b = onPage(w);
-      note(`iso label at [${b.l}, ${b.t}, ${b.r}, ${b.b}] read "${text}" / "${digits}" → ${level ?? 'no level'}`);
-      if (level === null) return;
+      note(`${across ? 'read again alone, larger: ' : ''}iso label at [${b.l}, ${b.t}, ${b.r}, ${b.b}] read "${text}" / "${digits}" → ${level ?? 'no level'}`);
+      if (level === null) return void unread.push(w);
       const line = onLines.get(w) as L;
       read.set(line, (read.get(line) ?? new Set()).add(level));
     });
+    return unread;
+  };
+  for (const [clean, list] of byClean) {
+    const unread = await readWords(clean, list);
+    // Only a word wide enough for a level and its "%" (specks and stubs the first reading found empty are not read again).
+    for (const w of unread) if (w.word.r - w.word.l >= AGAIN_WIDTH * (w.word.b - w.word.t)) await readWords(clean, [w], AGAIN_ACROSS);
   }
   // A line whose labels disagree has no level read.
   const known = new Map<L, number>();
