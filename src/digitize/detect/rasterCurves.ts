@@ -307,9 +307,11 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     leftOut.push(`${unfollowed.length} of the ${isos.length} lines on panel "${id}" that start neither at the flow axis nor at the bottom (iso-lines, or pieces of a curve the finder broke) could not be followed (nowhere ${unfollowed.length === 1 ? 'does it' : 'do they'} stand alone); ${unfollowed.length === 1 ? 'it is' : 'they are'} left out${followed.length > 0 ? ', and the levels of the others are unsure' : ''}: trace ${unfollowed.length === 1 ? 'it' : 'them'} by hand with ${unfollowed.length === 1 ? 'its level' : 'their levels'}.`);
   }
   if (followed.length > 0) {
-    // Words are placed among all the lines found (a label on a line left out names nothing else).
-    const onLines = new Map([...wordsOnIsoLines([...labelsAt, ...isoWordsAt], isos, heads, options.note)].filter(([, c]) => followed.includes(c)));
-    const iso = await isoLevelsOnScan(followed, onLines, reader, 2 * page.strong, (followed[0] as RasterCurve).panel.id, options.note, page.h);
+    // Words are placed among all the lines found; a label on a line left out names nothing else,
+    // but marks the order the unlabelled lines' levels are taken from.
+    const onLines = wordsOnIsoLines([...labelsAt, ...isoWordsAt], isos, heads, options.note);
+    const onSheet = (c: RasterCurve) => c.track.u.map((u, i) => (c.transposed ? toSheet(c.track.v[i] as number, u) : toSheet(u, c.track.v[i] as number)));
+    const iso = await isoLevelsOnScan(followed, onLines, reader, 2 * page.strong, (followed[0] as RasterCurve).panel.id, options.note, page.h, { lines: unfollowed, onSheet });
     if (iso.missing) leftOut.push(iso.missing);
     for (const [c, v] of iso.levels) {
       c.value = v;

@@ -244,8 +244,12 @@ export async function isoLevelsOnScan<L extends IsoLine>(
   panelId: string,
   note: (line: string) => void = () => undefined,
   textHeight = 0,
+  lost: { lines: readonly L[]; onSheet: (line: L) => SheetPoint[] } = { lines: [], onSheet: () => [] },
 ): Promise<IsoLevels<L>> {
   const levels = new Map<L, number>();
+  // Lines the tracer could not follow (`lost`) get no level, but they stand in the order, and
+  // their labels mark it: leaving them out would shift the order of the others.
+  const all = [...isos, ...lost.lines];
   const unsure = new Set<L>();
   if (isos.length === 0) return { levels, unsure, missing: null };
   // Read the words on the lines, one call per cleaned frame, as words and as digits; a word that
@@ -280,24 +284,26 @@ export async function isoLevelsOnScan<L extends IsoLine>(
   // A line whose labels disagree has no level read.
   const known = new Map<L, number>();
   for (const [line, set] of read) if (set.size === 1) known.set(line, [...set][0] as number);
-  for (const [c, v] of known) levels.set(c, v);
+  for (const [c, v] of known) if (isos.includes(c)) levels.set(c, v);
   // The rest by order along the flow axis, taken twice: from the tracer's lines and from the lines
   // found (level pixels, y down as on the sheet); a level is kept only where both orders give it
   // (a tracer's line that stopped short or ran on moves its end and shifts its order). Not when
   // one line runs on into another (pieces of one line, linesMeeting, with the page's text
   // height): the order would count a line twice.
-  const meeting = levels.size < isos.length && known.size > 0 ? linesMeeting(isos, textHeight) : null;
+  const meeting = levels.size < isos.length && known.size > 0 ? linesMeeting(all, textHeight) : null;
   if (meeting) note(`an iso-line runs on into another at [${meeting.map((v) => v.toFixed(0)).join(', ')}] (pieces of one line?): no level is taken by order`);
   if (levels.size < isos.length && known.size > 0 && !meeting) {
     const byOrder = (points: (line: L) => readonly SheetPoint[]): Map<L, number> => {
-      const shapes = isos.map((line) => ({ line, points: points(line) }));
+      const shapes = all.map((line) => ({ line, points: points(line) }));
       if (shapes.some((k) => k.points.length < 2)) return new Map();
       const knownShapes = new Map(shapes.filter((k) => known.has(k.line)).map((k) => [k, known.get(k.line) as number]));
       return new Map([...inferIsoLevels(shapes, knownShapes, { adjacent: true })].map(([k, v]) => [k.line, v]));
     };
-    const traced = byOrder((line) => line.traced);
+    // A lost line has no tracer's line: it stands in the tracer's order by the line found.
+    const traced = byOrder((line) => (isos.includes(line) ? line.traced : lost.onSheet(line)));
     const found = byOrder((line) => levelPoints(line).map(([x, y]) => sheetPoint(x, y)));
     for (const [line, v] of traced) {
+      if (!isos.includes(line)) continue;
       if (found.get(line) !== v) {
         note(`iso-line without a label: ${v} % by the order of the tracer's lines, ${found.get(line) ?? 'none'} by the lines found; no level by order`);
         continue;
