@@ -6,10 +6,11 @@
  */
 import { afterAll, describe, expect, it } from 'vitest';
 import type { InkMap } from '../../src/digitize/detect/ink.ts';
-import { crossingsOfWord, distanceToTrack, isoLevelOf, isoLevelRead, linesMeeting, splitAcross, steepLines, transposeBox, turnedInk, wordsOnIsoLines, type FrameWord } from '../../src/digitize/detect/rasterIso.ts';
+import { crossingsOfWord, distanceToTrack, isoLevelOf, isoLevelRead, isoLevelsOnScan, linesMeeting, splitAcross, steepLines, transposeBox, turnedInk, wordsOnIsoLines, type FrameWord } from '../../src/digitize/detect/rasterIso.ts';
 import { inferIsoLevels, sideBySide } from '../../src/digitize/detect/isoLevels.ts';
 import { runTogetherWords } from '../../src/digitize/detect/rasterCurves.ts';
-import { sheetPoint } from '../../src/digitize/points.ts';
+import { sheetPoint, type SheetPoint } from '../../src/digitize/points.ts';
+import type { TextReader } from '../../src/digitize/detect/rasterText.ts';
 import { frameLines, type Track } from '../../src/digitize/detect/rasterLines.ts';
 import { closeTextReaderNode } from '../../src/digitize/loaders/ocrNode.ts';
 import { detectBedScan } from '../../scripts/detectSheets/scanBed.ts';
@@ -181,6 +182,59 @@ describe('iso-lines in pieces', () => {
     const upperT = { ...through([100, 300], [250, 280]), transposed: true };
     const lowerT = { ...through([265, 279], [400, 260]), transposed: true };
     expect(linesMeeting([upperT, lowerT], 20)).toEqual([280, 250]);
+  });
+});
+
+describe('iso levels on a scan, with a line the tracer lost', () => {
+  /** A reader that knows each label by its ink: the darkest grey of each band of rows in the picture names the text. */
+  const reader = (texts: ReadonlyMap<number, string>): TextReader => ({
+    read: async ({ width, height, grey }) => {
+      const out: { text: string; confidence: number; box: [number, number, number, number] }[] = [];
+      let top = -1;
+      let darkest = 255;
+      for (let y = 0; y <= height; y++) {
+        let row = 255;
+        if (y < height) for (let x = 0; x < width; x++) row = Math.min(row, grey[y * width + x] as number);
+        if (row < 250) [top, darkest] = [top < 0 ? y : top, Math.min(darkest, row)];
+        else if (top >= 0) {
+          const key = [...texts.keys()].find((g) => Math.abs(g - darkest) <= 10);
+          if (key !== undefined) out.push({ text: texts.get(key) as string, confidence: 90, box: [0, top, width, y] });
+          [top, darkest] = [-1, 255];
+        }
+      }
+      return out;
+    },
+  });
+  /** A line found on the page (u columns, v rows) from its lower end to its upper end, and the tracer's line on it (sheet = level pixels here). */
+  const isoLine = (x0: number, y0: number, x1: number, y1: number, traced = true) => {
+    const n = 40;
+    const pts: [number, number][] = Array.from({ length: n + 1 }, (_, i) => [x0 + ((x1 - x0) * i) / n, y0 + ((y1 - y0) * i) / n]);
+    pts.sort((a, b) => a[0] - b[0]);
+    return { track: { u: pts.map((p) => p[0]), v: pts.map((p) => p[1]), room: pts.map(() => 20), len: pts.map(() => 2), joins: [] } as unknown as Track, traced: traced ? pts.map(([x, y]) => sheetPoint(x, y)) : ([] as SheetPoint[]) };
+  };
+  // Left branch 70 %, 72 %; right branch 72 % (lost by the tracer), 70 % (no label).
+  const a = isoLine(100, 500, 120, 100);
+  const b = isoLine(200, 500, 220, 100);
+  const c = isoLine(300, 500, 400, 300, false);
+  const d = isoLine(400, 500, 500, 300);
+  const ink = new Uint8Array(600 * 600);
+  const clean: InkMap = { width: 600, height: 600, ink };
+  const label = (cx: number, cy: number, v: number): FrameWord => {
+    for (let y = cy - 10; y < cy + 10; y++) for (let x = cx - 20; x < cx + 20; x++) ink[y * 600 + x] = v;
+    return { word: { l: cx - 20, t: cy - 10, r: cx + 20, b: cy + 10 }, clean, at: [0, 0] };
+  };
+  const onLines = new Map<FrameWord, typeof a>([[label(110, 300, 100), a], [label(210, 300, 150), b], [label(350, 400, 200), c]]);
+  const texts = new Map([[155, '70%'], [105, '72%'], [55, '72%']]);
+  const onSheet = (line: typeof a) => line.track.u.map((u, i) => sheetPoint(u, line.track.v[i] as number));
+
+  it('takes the unlabelled right line\'s level by order only with the lost line standing in the order', async () => {
+    const withLost = await isoLevelsOnScan([a, b, d], onLines, reader(texts), 255, 'head', undefined, 20, { lines: [c], onSheet });
+    expect([withLost.levels.get(a), withLost.levels.get(b), withLost.levels.get(d)]).toEqual([70, 72, 70]);
+    expect(withLost.levels.has(c)).toBe(false); // a lost line gets no level
+    expect(withLost.unsure.has(d)).toBe(true); // by order: unsure
+    const without = await isoLevelsOnScan([a, b, d], new Map([...onLines].filter(([, l]) => l !== c)), reader(texts), 255, 'head', undefined, 20);
+    expect(without.levels.has(d)).toBe(false);
+    expect(without.missing).toContain('1 of the 3 lines');
   });
 });
 
