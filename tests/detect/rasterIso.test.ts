@@ -88,6 +88,7 @@ describe('labels run together', () => {
     // Cut at 175, each side kept 2 px clear of the cut (the reading's margin).
     expect(parts.map(([w, l]) => [w.word.l, w.word.r, l])).toEqual([[128, 173, isoA], [177, 222, isoB]]);
     expect(parts.every(([w]) => w.word.t === 240 && w.word.b === 260)).toBe(true);
+    expect(parts.every(([w]) => w.confirm === true)).toBe(true); // weaker evidence: read twice
   });
 
   it('does not cut a word crossed once, nor one whose parts are narrower than the text is high', () => {
@@ -226,6 +227,26 @@ describe('iso levels on a scan, with a line the tracer lost', () => {
   const onLines = new Map<FrameWord, typeof a>([[label(110, 300, 100), a], [label(210, 300, 150), b], [label(350, 400, 200), c]]);
   const texts = new Map([[155, '70%'], [105, '72%'], [55, '72%']]);
   const onSheet = (line: typeof a) => line.track.u.map((u, i) => sheetPoint(u, line.track.v[i] as number));
+
+  it('takes the level of a word of weaker evidence only when its reading alone and larger agrees', async () => {
+    // The reader gives "72%" for the ink of b's label at the usual size, and "SS" when it is read larger.
+    const sized: TextReader = {
+      read: async (image, what) => {
+        const words = await reader(texts).read(image, what);
+        return words.map((w) => (w.box[3] - w.box[1] > 50 && w.text === '72%' ? { ...w, text: 'SS' } : w));
+      },
+    };
+    const [wa, wb] = [...onLines.keys()] as [FrameWord, FrameWord];
+    const plain = new Map([[wa, a], [wb, b]]);
+    const plainRead = await isoLevelsOnScan([a, b], plain, sized, 255, 'head', undefined, 20);
+    expect(plainRead.levels.get(b)).toBe(72); // read once at the usual size: taken
+    const weak = new Map([[wa, a], [{ ...wb, confirm: true }, b]]);
+    const weakRead = await isoLevelsOnScan([a, b], weak, sized, 255, 'head', undefined, 20);
+    expect(weakRead.levels.get(a)).toBe(70);
+    expect(weakRead.levels.has(b)).toBe(false); // "72%" then "SS": not confirmed
+    const agreed = await isoLevelsOnScan([a, b], weak, reader(texts), 255, 'head', undefined, 20);
+    expect(agreed.levels.get(b)).toBe(72);
+  });
 
   it('takes the unlabelled right line\'s level by order only with the lost line standing in the order', async () => {
     const withLost = await isoLevelsOnScan([a, b, d], onLines, reader(texts), 255, 'head', undefined, 20, { lines: [c], onSheet });

@@ -189,7 +189,7 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
       // Labels whose glyphs the scan ran together, which frameWords drops: for the iso levels only.
       const overlaps = (a: Blot, c: Blot) => a.l < c.r && c.l < a.r && a.t < c.b && c.t < a.b;
       const joined = runTogetherWords(labels.clean, page.strong, page.h).filter((w) => !everyWord.some((k) => overlaps(k, w) && k.r - k.l >= w.r - w.l));
-      for (const word of joined) isoWordsAt.push({ word, clean: labels.clean, at: labels.at });
+      for (const word of joined) isoWordsAt.push({ word, clean: labels.clean, at: labels.at, confirm: true });
       options.note?.(`${steep.length} steep line${steep.length === 1 ? '' : 's'} found on the turned ink of the head frame${joined.length > 0 ? `; ${joined.length} word${joined.length === 1 ? '' : 's'} of glyphs run together looked at for iso labels` : ''}`);
     }
     if (head) labelsAt.push(...labels.words.map((word) => ({ word, frame, clean: labels.clean, plain: printed.clean, at: labels.at })));

@@ -30,6 +30,11 @@ export interface FrameWord {
   word: Blot;
   clean: InkMap;
   at: [number, number];
+  /**
+   * Weaker evidence of a label: a word found only as glyphs run together, or a part of a word cut
+   * between iso-lines. Its level counts only when a second reading, alone and larger, agrees.
+   */
+  confirm?: boolean;
 }
 
 /**
@@ -190,7 +195,7 @@ export function splitAcross<L extends IsoLine>(w: FrameWord, isos: readonly L[],
   const last = cross.length - 1;
   const parts = cross.map((c, i) => ({ line: c.line, l: (cuts[i] as number) + (i > 0 ? 2 : 0), r: (cuts[i + 1] as number) - (i < last ? 2 : 0) }));
   if (parts.some((p) => p.r - p.l < hgt)) return null;
-  return parts.map((p) => ({ line: p.line, part: { ...w, word: { l: p.l - w.at[0], t: w.word.t, r: p.r - w.at[0], b: w.word.b } } }));
+  return parts.map((p) => ({ line: p.line, part: { ...w, word: { l: p.l - w.at[0], t: w.word.t, r: p.r - w.at[0], b: w.word.b }, confirm: true } }));
 }
 
 /**
@@ -252,34 +257,46 @@ export async function isoLevelsOnScan<L extends IsoLine>(
   const all = [...isos, ...lost.lines];
   const unsure = new Set<L>();
   if (isos.length === 0) return { levels, unsure, missing: null };
-  // Read the words on the lines, one call per cleaned frame, as words and as digits; a word that
-  // gives no level is read once more alone and larger (`AGAIN_ACROSS` pixels of text height): a
-  // small, blurred label the reader passes over at the usual size among the others. Both readings
-  // must agree each time.
+  // Read the words on the lines, one call per cleaned frame, as words and as digits (the two must
+  // agree each time). A word that gives no level is read once more alone and larger
+  // (`AGAIN_ACROSS` pixels of text height): a small, blurred label the reader passes over at the
+  // usual size among the others. A word of weaker evidence (`confirm`) is read so too, and its
+  // level counts only when both readings give it.
   const read = new Map<L, Set<number>>();
   const byClean = new Map<InkMap, FrameWord[]>();
   for (const w of onLines.keys()) byClean.set(w.clean, [...(byClean.get(w.clean) ?? []), w]);
-  const readWords = async (clean: InkMap, list: readonly FrameWord[], across?: number): Promise<FrameWord[]> => {
+  const readWords = async (clean: InkMap, list: readonly FrameWord[], across?: number): Promise<(number | null)[]> => {
     const crops = list.map((w) => ({ box: { l: w.word.l - 2, t: w.word.t - 2, r: w.word.r + 2, b: w.word.b + 2 }, upright: false }));
     const asWords = await readCrops(clean, crops, reader, 'words', inkFull, across);
     const asDigits = await readCrops(clean, crops, reader, 'digits', inkFull, across);
-    const unread: FrameWord[] = [];
-    list.forEach((w, i) => {
+    return list.map((w, i) => {
       const text = asWords[i]?.text ?? '';
       const digits = asDigits[i]?.text ?? '';
       const level = isoLevelRead(text, digits);
       const b = onPage(w);
-      note(`${across ? 'read again alone, larger: ' : ''}iso label at [${b.l}, ${b.t}, ${b.r}, ${b.b}] read "${text}" / "${digits}" → ${level ?? 'no level'}`);
-      if (level === null) return void unread.push(w);
-      const line = onLines.get(w) as L;
-      read.set(line, (read.get(line) ?? new Set()).add(level));
+      note(`${across ? 'read again alone, larger: ' : ''}iso label at [${b.l}, ${b.t}, ${b.r}, ${b.b}]${w.confirm ? ' (glyphs run together or cut between lines)' : ''} read "${text}" / "${digits}" → ${level ?? 'no level'}`);
+      return level;
     });
-    return unread;
+  };
+  const take = (w: FrameWord, level: number) => {
+    const line = onLines.get(w) as L;
+    read.set(line, (read.get(line) ?? new Set()).add(level));
   };
   for (const [clean, list] of byClean) {
-    const unread = await readWords(clean, list);
-    // Only a word wide enough for a level and its "%" (specks and stubs the first reading found empty are not read again).
-    for (const w of unread) if (w.word.r - w.word.l >= AGAIN_WIDTH * (w.word.b - w.word.t)) await readWords(clean, [w], AGAIN_ACROSS);
+    const first = await readWords(clean, list);
+    for (const [i, w] of list.entries()) {
+      const level = first[i] as number | null;
+      // Only a word wide enough for a level and its "%" is read again (specks and stubs are not).
+      const again = level !== null ? w.confirm === true : w.confirm !== true && w.word.r - w.word.l >= AGAIN_WIDTH * (w.word.b - w.word.t);
+      if (!again) {
+        if (level !== null) take(w, level);
+        continue;
+      }
+      const [second] = await readWords(clean, [w], AGAIN_ACROSS);
+      if (level === null && second !== null && second !== undefined) take(w, second);
+      else if (level !== null && second === level) take(w, level);
+      else if (level !== null) note(`the level ${level} % of a word of glyphs run together or cut between lines is not confirmed read alone and larger; not taken`);
+    }
   }
   // A line whose labels disagree has no level read.
   const known = new Map<L, number>();
