@@ -6,7 +6,7 @@
  */
 import { afterAll, describe, expect, it } from 'vitest';
 import type { InkMap } from '../../src/digitize/detect/ink.ts';
-import { crossingsOfWord, distanceToTrack, isoLevelOf, isoLevelRead, isoLevelsOnScan, linesMeeting, splitAcross, steepLines, transposeBox, turnedInk, wordsOnIsoLines, type FrameWord } from '../../src/digitize/detect/rasterIso.ts';
+import { crossingsOfWord, distanceToTrack, headPieces, isoLevelOf, isoLevelRead, isoLevelsOnScan, linesMeeting, splitAcross, steepLines, transposeBox, turnedInk, wordsOnIsoLines, type FrameWord } from '../../src/digitize/detect/rasterIso.ts';
 import { inferIsoLevels, sideBySide } from '../../src/digitize/detect/isoLevels.ts';
 import { runTogetherWords } from '../../src/digitize/detect/rasterCurves.ts';
 import { sheetPoint, type SheetPoint } from '../../src/digitize/points.ts';
@@ -256,6 +256,19 @@ describe('iso levels on a scan, with a line the tracer lost', () => {
     const without = await isoLevelsOnScan([a, b, d], new Map([...onLines].filter(([, l]) => l !== c)), reader(texts), 255, 'head', undefined, 20);
     expect(without.levels.has(d)).toBe(false);
     expect(without.missing).toContain('1 of the 3 lines');
+  });
+});
+
+describe('head-curve pieces sorted as iso-lines', () => {
+  it('drops a line lying along a head curve\'s tracer\'s line, and keeps an iso-line crossing it', () => {
+    const headTraced = Array.from({ length: 101 }, (_, i) => sheetPoint(100 + 5 * i, 200 + i)); // falling gently, sheet = level here
+    const piece = { track: line(400, 260, 550, 290), traced: [] as SheetPoint[] }; // the head curve's own course past a break
+    const iso = { track: line(300, 100, 330, 400), traced: [] as SheetPoint[] }; // steep, crossing it once
+    const beside = { track: line(400, 268, 550, 298), traced: [] as SheetPoint[] }; // 8 px below: another line
+    const toLevel = (p: SheetPoint): [number, number] => [p[0], p[1]];
+    const out = headPieces([piece, iso, beside], [{ traced: headTraced }], toLevel);
+    expect([...out]).toEqual([piece]);
+    expect(headPieces([piece], [{ traced: [] }], toLevel).size).toBe(0); // no tracer's line: nothing to lie along
   });
 });
 

@@ -25,7 +25,7 @@ import type { Box, FoundPanel } from './panels.ts';
 import { END_MATCH_SHARE, endMatch, endReferences, nameByEnds } from './endFlows.ts';
 import { gridLines } from './rasterFrames.ts';
 import { alonePlaces, continuesCourse, frameLines, liesAlong, offCourse, trackAt, trackOf, type Track } from './rasterLines.ts';
-import { distanceToTrack, isoLevelsOnScan, isoPiecesAcross, steepLines, transposeBox, wordsOnIsoLines, type FrameWord } from './rasterIso.ts';
+import { distanceToTrack, headPieces, isoLevelsOnScan, isoPiecesAcross, steepLines, transposeBox, wordsOnIsoLines, type FrameWord } from './rasterIso.ts';
 import type { RasterPanelsFound } from './rasterPanels.ts';
 import { inkBlots, labelPicture, readCrops, wordsOf, type Blot, type TextReader } from './rasterText.ts';
 import { curveLabel, isoLabel, SHEET_NUMBER, sheetNumber } from './words.ts';
@@ -289,12 +289,16 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
   const kept = curves.filter((c) => !pieces.has(c));
   if (pieces.size > 0) options.note?.(`${pieces.size} line${pieces.size === 1 ? '' : 's'} found lying along the tracer's line of another: pieces of it, dropped`);
   const usable = kept.filter((c) => c.confidence > 0 && c.kind === 'curve');
-  const isos = kept.filter((c) => c.kind === 'iso');
+  const sortedIso = kept.filter((c) => c.kind === 'iso');
   const lostCount = kept.filter((c) => c.confidence === 0 && c.kind === 'curve').length;
   if (lostCount > 0) leftOut.push(`${lostCount} line${lostCount === 1 ? '' : 's'} found on the panels never stand${lostCount === 1 ? 's' : ''} alone (bunched or crossed all along), so no guide could be placed on ${lostCount === 1 ? 'it' : 'them'}; trace ${lostCount === 1 ? 'it' : 'them'} by hand.`);
 
   // Names of the head curves: labels read beside them, else the values given, by order.
   const heads = usable.filter((c) => c.panel.quantity === 'head' && c.kind === 'curve');
+  // A line sorted as an iso-line that the tracer's line of a head curve runs along is a piece of that head curve, already traced.
+  const onHeads = headPieces(sortedIso, heads, toLevel);
+  if (onHeads.size > 0) options.note?.(`${onHeads.size} line${onHeads.size === 1 ? '' : 's'} sorted as iso-line${onHeads.size === 1 ? '' : 's'} lying along a head curve's tracer's line: piece${onHeads.size === 1 ? '' : 's'} of it, dropped`);
+  const isos = sortedIso.filter((c) => !onHeads.has(c));
   options.progress?.(0.85, 'reading the curve labels');
   const named = await nameHeads(heads, labelsAt, page.strong, reader, image, map, level, image.scale, options.given, questions, leftOut, options.note);
   // The iso-lines' levels, from the "%" labels on them (rasterIso.ts).

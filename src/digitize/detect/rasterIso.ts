@@ -381,6 +381,18 @@ function shareAlong(points: readonly (readonly [number, number])[], line: readon
 }
 
 /**
+ * Lines sorted as iso-lines that are pieces of a head curve: 80 % of the line found lies within
+ * 3 px of a head curve's tracer's line (level pixels). An iso-line crosses the head curves and
+ * shares only a few points with any of them; a head curve the finder broke (at a label, or where
+ * an iso-line crosses it at a shallow angle) leaves a piece starting off the flow axis, which the
+ * head curve's own tracer's line runs along.
+ */
+export function headPieces<L extends IsoLine>(isos: readonly L[], heads: readonly { traced: readonly SheetPoint[] }[], toLevel: (p: SheetPoint) => [number, number]): Set<L> {
+  const lines = heads.filter((h) => h.traced.length >= 2).map((h) => h.traced.map(toLevel));
+  return new Set(isos.filter((c) => lines.some((line) => shareAlong(levelPoints(c), line, 3) >= 0.8)));
+}
+
+/**
  * Iso-lines found in pieces across the two passes (a steep branch on the turned ink, its shallow
  * rest on the page): a line whose points lie (80 %, within 3 px) along the tracer's line of a
  * surer one, or of an equally sure one whose tracer's line is longer, is a piece of it; when it
