@@ -20,15 +20,35 @@ export interface IsoShape {
  * - an unlabelled line takes a level only between two sure lines of one branch (and the count
  *   of lines between them fits the step), or beyond the outermost sure line of a branch, away
  *   from the peak. Lines near the peak, where the branch is unclear, stay questions.
+ * With `adjacent` (a scan, where every level inferred is unsure anyway), a labelled line next to a
+ * surely left one (no line between) with a higher level is on the left branch too, and one next
+ * to a surely right one with a higher level on the right branch: were it on the other branch, its
+ * twin of the same level would lie between them. This holds only when no line between was
+ * missed, which is why it is not taken on a vector sheet, where order gives a level held sure.
  */
-export function inferIsoLevels<C extends IsoShape>(lines: readonly C[], known: ReadonlyMap<C, number>): Map<C, number> {
+export function inferIsoLevels<C extends IsoShape>(lines: readonly C[], known: ReadonlyMap<C, number>, options: { adjacent?: boolean } = {}): Map<C, number> {
   const out = new Map<C, number>();
   const order = byFlow(lines);
   const marks = order.map((c, i) => ({ i, v: known.get(c) })).filter((m): m is { i: number; v: number } => m.v !== undefined);
   const isLeft = (m: { i: number; v: number }) => marks.some((o) => o.i > m.i && o.v >= m.v);
   const isRight = (m: { i: number; v: number }) => marks.some((o) => o.i < m.i && o.v >= m.v);
-  const left = marks.filter((m) => isLeft(m) && !isRight(m));
-  const right = marks.filter((m) => isRight(m) && !isLeft(m));
+  const sureLeft = new Set(marks.filter((m) => isLeft(m) && !isRight(m)));
+  const sureRight = new Set(marks.filter((m) => isRight(m) && !isLeft(m)));
+  for (let grew = options.adjacent === true; grew; ) {
+    grew = false;
+    for (const m of marks) {
+      if (sureLeft.has(m) || sureRight.has(m)) continue;
+      const before = marks.find((o) => o.i === m.i - 1);
+      const after = marks.find((o) => o.i === m.i + 1);
+      const toLeft = before !== undefined && sureLeft.has(before) && before.v < m.v;
+      const toRight = after !== undefined && sureRight.has(after) && after.v < m.v;
+      if (toLeft === toRight) continue;
+      (toLeft ? sureLeft : sureRight).add(m);
+      grew = true;
+    }
+  }
+  const left = marks.filter((m) => sureLeft.has(m));
+  const right = marks.filter((m) => sureRight.has(m));
   // Levels must rise along the left branch and fall along the right one.
   if (left.some((m, k) => k > 0 && m.v <= left[k - 1]!.v) || right.some((m, k) => k > 0 && m.v >= right[k - 1]!.v)) return out;
   const steps: number[] = [];
@@ -75,7 +95,9 @@ export function levelsByOrder<C extends IsoShape>(lines: readonly C[], levels: r
  * Iso-lines in the order they cross the smallest head curve, left to right: each line's end
  * lower on the sheet (less head) is where it meets the smallest impeller's curve, which every
  * iso-line reaches, while a falling branch may stop short of the largest impeller's curve at
- * the end of the curves.
+ * the end of the curves. Two lines that reach common heights are put in the order they stand
+ * side by side there (iso-lines of one panel never cross), so a line that stops short of the
+ * smallest curve, or a scan's line that wanders off at its end, does not move in the order.
  */
 function byFlow<C extends IsoShape>(lines: readonly C[]): C[] {
   const low = (c: C) => {
@@ -83,5 +105,52 @@ function byFlow<C extends IsoShape>(lines: readonly C[]): C[] {
     const b = c.points[c.points.length - 1] as SheetPoint;
     return a[1] >= b[1] ? a[0] : b[0];
   };
-  return [...lines].sort((a, b) => low(a) - low(b));
+  const out = [...lines].sort((a, b) => low(a) - low(b));
+  // Neighbours standing the other way round at their common heights change places (a few passes).
+  for (let pass = 0; pass < out.length; pass++) {
+    let moved = false;
+    for (let k = 1; k < out.length; k++) {
+      if (sideBySide((out[k - 1] as C).points, (out[k] as C).points) < 0) {
+        [out[k - 1], out[k]] = [out[k] as C, out[k - 1] as C];
+        moved = true;
+      }
+    }
+    if (!moved) break;
+  }
+  return out;
+}
+
+/**
+ * Which of two lines stands left at the heights both reach (looked at in 12 steps over their
+ * common heights): 1 when `a` is left of `b` at most of them, −1 when right, 0 when they reach no
+ * common height or stand even.
+ */
+export function sideBySide(a: readonly SheetPoint[], b: readonly SheetPoint[]): number {
+  const span = (p: readonly SheetPoint[]) => [Math.min(...p.map((q) => q[1])), Math.max(...p.map((q) => q[1]))] as const;
+  const [a0, a1] = span(a);
+  const [b0, b1] = span(b);
+  const lo = Math.max(a0, b0);
+  const hi = Math.min(a1, b1);
+  if (!(hi > lo)) return 0;
+  let left = 0;
+  let right = 0;
+  for (let i = 0; i <= 12; i++) {
+    const y = lo + ((hi - lo) * i) / 12;
+    const xa = xAtHeight(a, y);
+    const xb = xAtHeight(b, y);
+    if (xa === null || xb === null) continue;
+    if (xa < xb) left++;
+    else if (xa > xb) right++;
+  }
+  return left > right ? 1 : right > left ? -1 : 0;
+}
+
+/** Where a line first reaches height y (sheet units), by straight pieces between its points; null when it never does. */
+function xAtHeight(points: readonly SheetPoint[], y: number): number | null {
+  for (let i = 1; i < points.length; i++) {
+    const [x0, y0] = points[i - 1] as SheetPoint;
+    const [x1, y1] = points[i] as SheetPoint;
+    if ((y0 <= y && y <= y1) || (y1 <= y && y <= y0)) return y1 === y0 ? x0 : x0 + ((x1 - x0) * (y - y0)) / (y1 - y0);
+  }
+  return null;
 }

@@ -25,7 +25,7 @@ import type { Box, FoundPanel } from './panels.ts';
 import { END_MATCH_SHARE, endMatch, endReferences, nameByEnds } from './endFlows.ts';
 import { gridLines } from './rasterFrames.ts';
 import { alonePlaces, continuesCourse, frameLines, liesAlong, offCourse, trackAt, trackOf, type Track } from './rasterLines.ts';
-import { distanceToTrack, isoLevelsOnScan, isoPiecesAcross, steepLines, transposeBox, wordsOnIsoLines, type FrameWord } from './rasterIso.ts';
+import { distanceToTrack, headPieces, isoLevelsOnScan, isoPiecesAcross, steepLines, transposeBox, wordsOnIsoLines, type FrameWord } from './rasterIso.ts';
 import type { RasterPanelsFound } from './rasterPanels.ts';
 import { inkBlots, labelPicture, readCrops, wordsOf, type Blot, type TextReader } from './rasterText.ts';
 import { curveLabel, isoLabel, SHEET_NUMBER, sheetNumber } from './words.ts';
@@ -186,7 +186,11 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
           if (steep.some((t) => distanceToTrack(t, cy, cx) <= 1.5 * (word.b - word.t))) isoWordsAt.push({ word, clean: labels.clean, at: labels.at });
         }
       }
-      options.note?.(`${steep.length} steep line${steep.length === 1 ? '' : 's'} found on the turned ink of the head frame`);
+      // Labels whose glyphs the scan ran together, which frameWords drops: for the iso levels only.
+      const overlaps = (a: Blot, c: Blot) => a.l < c.r && c.l < a.r && a.t < c.b && c.t < a.b;
+      const joined = runTogetherWords(labels.clean, page.strong, page.h).filter((w) => !everyWord.some((k) => overlaps(k, w) && k.r - k.l >= w.r - w.l));
+      for (const word of joined) isoWordsAt.push({ word, clean: labels.clean, at: labels.at, confirm: true });
+      options.note?.(`${steep.length} steep line${steep.length === 1 ? '' : 's'} found on the turned ink of the head frame${joined.length > 0 ? `; ${joined.length} word${joined.length === 1 ? '' : 's'} of glyphs run together looked at for iso labels` : ''}`);
     }
     if (head) labelsAt.push(...labels.words.map((word) => ({ word, frame, clean: labels.clean, plain: printed.clean, at: labels.at })));
   }
@@ -285,12 +289,16 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
   const kept = curves.filter((c) => !pieces.has(c));
   if (pieces.size > 0) options.note?.(`${pieces.size} line${pieces.size === 1 ? '' : 's'} found lying along the tracer's line of another: pieces of it, dropped`);
   const usable = kept.filter((c) => c.confidence > 0 && c.kind === 'curve');
-  const isos = kept.filter((c) => c.kind === 'iso');
+  const sortedIso = kept.filter((c) => c.kind === 'iso');
   const lostCount = kept.filter((c) => c.confidence === 0 && c.kind === 'curve').length;
   if (lostCount > 0) leftOut.push(`${lostCount} line${lostCount === 1 ? '' : 's'} found on the panels never stand${lostCount === 1 ? 's' : ''} alone (bunched or crossed all along), so no guide could be placed on ${lostCount === 1 ? 'it' : 'them'}; trace ${lostCount === 1 ? 'it' : 'them'} by hand.`);
 
   // Names of the head curves: labels read beside them, else the values given, by order.
   const heads = usable.filter((c) => c.panel.quantity === 'head' && c.kind === 'curve');
+  // A line sorted as an iso-line that the tracer's line of a head curve runs along is a piece of that head curve, already traced.
+  const onHeads = headPieces(sortedIso, heads, toLevel);
+  if (onHeads.size > 0) options.note?.(`${onHeads.size} line${onHeads.size === 1 ? '' : 's'} sorted as iso-line${onHeads.size === 1 ? '' : 's'} lying along a head curve's tracer's line: piece${onHeads.size === 1 ? '' : 's'} of it, dropped`);
+  const isos = sortedIso.filter((c) => !onHeads.has(c));
   options.progress?.(0.85, 'reading the curve labels');
   const named = await nameHeads(heads, labelsAt, page.strong, reader, image, map, level, image.scale, options.given, questions, leftOut, options.note);
   // The iso-lines' levels, from the "%" labels on them (rasterIso.ts).
@@ -303,9 +311,11 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     leftOut.push(`${unfollowed.length} of the ${isos.length} lines on panel "${id}" that start neither at the flow axis nor at the bottom (iso-lines, or pieces of a curve the finder broke) could not be followed (nowhere ${unfollowed.length === 1 ? 'does it' : 'do they'} stand alone); ${unfollowed.length === 1 ? 'it is' : 'they are'} left out${followed.length > 0 ? ', and the levels of the others are unsure' : ''}: trace ${unfollowed.length === 1 ? 'it' : 'them'} by hand with ${unfollowed.length === 1 ? 'its level' : 'their levels'}.`);
   }
   if (followed.length > 0) {
-    // Words are placed among all the lines found (a label on a line left out names nothing else).
-    const onLines = new Map([...wordsOnIsoLines([...labelsAt, ...isoWordsAt], isos, heads, options.note)].filter(([, c]) => followed.includes(c)));
-    const iso = await isoLevelsOnScan(followed, onLines, reader, 2 * page.strong, (followed[0] as RasterCurve).panel.id, options.note);
+    // Words are placed among all the lines found; a label on a line left out names nothing else,
+    // but marks the order the unlabelled lines' levels are taken from.
+    const onLines = wordsOnIsoLines([...labelsAt, ...isoWordsAt], isos, heads, options.note);
+    const onSheet = (c: RasterCurve) => c.track.u.map((u, i) => (c.transposed ? toSheet(c.track.v[i] as number, u) : toSheet(u, c.track.v[i] as number)));
+    const iso = await isoLevelsOnScan(followed, onLines, reader, 2 * page.strong, (followed[0] as RasterCurve).panel.id, options.note, page.h, { lines: unfollowed, onSheet });
     if (iso.missing) leftOut.push(iso.missing);
     for (const [c, v] of iso.levels) {
       c.value = v;
@@ -565,6 +575,27 @@ export function frameWords(map: InkMap, frame: Box, strong: number, h: number, l
   // Glyphs and the marks beside them (a dot, an inch mark); a word is about the text's height.
   const words = wordsOf(blots.filter((k) => k.b - k.t >= 0.2 * h || k.r - k.l >= 0.2 * h)).filter((k) => k.b - k.t >= 0.6 * h && k.b - k.t <= 1.6 * h && k.r - k.l >= 0.4 * h && k.r - k.l <= 8 * h);
   return { words, clean: cleanMap, at };
+}
+
+/** Least share of its box a run-together label's ink fills (print at 180–300 dpi fills about a fifth; a thin line's stretch across the same box under a tenth). */
+const WORD_FILL = 0.15;
+
+/**
+ * Words of a clean frame picture (frameWords' `clean`) holding a blot wider than two text heights
+ * yet as tall as text and filled like print: labels whose glyphs the scan ran together ("69%" as
+ * one blot, or two labels printed side by side touching). frameWords drops such blots; these
+ * words are looked at for iso labels only (wordsOnIsoLines splits one that several iso-lines
+ * cross), so the curve labels and the line finder's holes stay as they are.
+ */
+export function runTogetherWords(clean: InkMap, strong: number, h: number): Blot[] {
+  if (clean.width === 0 || !(h > 0)) return [];
+  const all = inkBlots(clean, 0.3 * strong, [], Math.round(2 * h), { minHeight: 0.6 * h, maxHeight: 1.6 * h, maxWidth: 8 * h, fill: WORD_FILL });
+  const wide = all.filter((k) => k.r - k.l > Math.round(2 * h));
+  if (wide.length === 0) return [];
+  // Glyphs cut by a grid row are joined again, but a wide blot takes no line stub above or below it.
+  const blots = [...joinCut(all.filter((k) => !wide.includes(k))), ...wide];
+  const words = wordsOf(blots.filter((k) => k.b - k.t >= 0.2 * h || k.r - k.l >= 0.2 * h)).filter((k) => k.b - k.t >= 0.6 * h && k.b - k.t <= 1.6 * h && k.r - k.l <= 8 * h);
+  return words.filter((w) => wide.some((k) => k.l >= w.l && k.r <= w.r && k.t >= w.t && k.b <= w.b));
 }
 
 /** The frame's ink inside a 4 px inset (w × hh from row t + 4, column l + 4) with each row's and column's median darkness taken off. */

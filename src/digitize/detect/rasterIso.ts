@@ -16,7 +16,7 @@
  *
  * Pure: the reader is handed in.
  */
-import type { SheetPoint } from '../points.ts';
+import { sheetPoint, type SheetPoint } from '../points.ts';
 import { distanceToPolyline } from '../polyline.ts';
 import type { InkMap } from './ink.ts';
 import { inferIsoLevels } from './isoLevels.ts';
@@ -30,6 +30,11 @@ export interface FrameWord {
   word: Blot;
   clean: InkMap;
   at: [number, number];
+  /**
+   * Weaker evidence of a label: a word found only as glyphs run together, or a part of a word cut
+   * between iso-lines. Its level counts only when a second reading, alone and larger, agrees.
+   */
+  confirm?: boolean;
 }
 
 /**
@@ -137,16 +142,67 @@ export function distanceToTrack(t: Track, x: number, y: number): number {
   return t.u.length === 0 ? Infinity : distanceToPolyline(pointsOf(t), [x, y]);
 }
 
+/** Text height (pixels of the reader's picture) at which an iso label that gave no level is read again: twice the usual 40. */
+export const AGAIN_ACROSS = 80;
+/** Least width of a word read again, in its heights: two glyphs and a "%" are about two. */
+const AGAIN_WIDTH = 1.5;
+
 /** How far a label's middle may lie from its line, in text heights (the line runs through the label's box). */
 export const ON_LINE = 0.6;
 
 /** A word's box on the level page. */
 const onPage = (w: FrameWord): Blot => ({ l: w.word.l + w.at[0], t: w.word.t + w.at[1], r: w.word.r + w.at[0], b: w.word.b + w.at[1] });
 
+/** How near an iso-line must pass to a point of a word's middle row to cross the word there, in text heights. */
+export const CROSSES = 0.25;
+
+/**
+ * Where iso-lines cross a word along its middle row (page columns, left to right): a line
+ * passing within `CROSSES` of the text height of a point of that row, nearer there than any head
+ * curve. Labels printed side by side that the scan ran together make one word crossed by each
+ * of their lines, each label centred on its own line.
+ */
+export function crossingsOfWord<L extends IsoLine>(b: Blot, isos: readonly L[], heads: readonly { track: Track }[]): { line: L; x: number }[] {
+  const cy = (b.t + b.b) / 2;
+  const tol = Math.max(2, CROSSES * (b.b - b.t));
+  const out: { line: L; x: number }[] = [];
+  for (const c of isos) {
+    let best = { d: Infinity, x: NaN };
+    for (let x = b.l; x <= b.r; x++) {
+      const d = c.transposed ? distanceToTrack(c.track, cy, x) : distanceToTrack(c.track, x, cy);
+      if (d < best.d) best = { d, x };
+    }
+    if (best.d > tol) continue;
+    if (heads.some((h) => distanceToTrack(h.track, best.x, cy) <= best.d)) continue;
+    out.push({ line: c, x: best.x });
+  }
+  return out.sort((a, k) => a.x - k.x);
+}
+
+/**
+ * A word crossed by several iso-lines (crossingsOfWord), cut between them: each part, from
+ * halfway to the previous crossing to halfway to the next (the word's own ends outside), is the
+ * label of the line crossing it. Null when fewer than two lines cross it or a part is narrower
+ * than the text is high (no label of a level fits there).
+ */
+export function splitAcross<L extends IsoLine>(w: FrameWord, isos: readonly L[], heads: readonly { track: Track }[]): { part: FrameWord; line: L }[] | null {
+  const b = onPage(w);
+  const hgt = b.b - b.t;
+  const cross = crossingsOfWord(b, isos, heads);
+  if (cross.length < 2) return null;
+  const cuts = [b.l, ...cross.slice(1).map((c, i) => Math.round((c.x + (cross[i] as { x: number }).x) / 2)), b.r];
+  // A cut inside the word is kept clear of by the reading's margin (2 px, isoLevelsOnScan): no part shows its neighbour's last stroke.
+  const last = cross.length - 1;
+  const parts = cross.map((c, i) => ({ line: c.line, l: (cuts[i] as number) + (i > 0 ? 2 : 0), r: (cuts[i + 1] as number) - (i < last ? 2 : 0) }));
+  if (parts.some((p) => p.r - p.l < hgt)) return null;
+  return parts.map((p) => ({ line: p.line, part: { ...w, word: { l: p.l - w.at[0], t: w.word.t, r: p.r - w.at[0], b: w.word.b }, confirm: true } }));
+}
+
 /**
  * The words of the head frame that sit on an iso-line: a label printed on a line interrupts it,
  * so the word's middle lies on the line (within `ON_LINE` of the text height), nearer to it than
- * to any head curve, and far nearer to it than to any other iso-line.
+ * to any head curve, and far nearer to it than to any other iso-line. A word that is none of
+ * these but is crossed by several iso-lines is cut between them (splitAcross), a part per line.
  */
 export function wordsOnIsoLines<L extends IsoLine>(words: readonly FrameWord[], isos: readonly L[], heads: readonly { track: Track }[], note: (line: string) => void = () => undefined): Map<FrameWord, L> {
   const out = new Map<FrameWord, L>();
@@ -167,8 +223,10 @@ export function wordsOnIsoLines<L extends IsoLine>(words: readonly FrameWord[], 
     const head = Math.min(Infinity, ...heads.map((h) => distanceToTrack(h.track, cx, cy)));
     // On an iso-line, nearer it than any head curve, and not halfway between two iso-lines.
     const on = best !== null && bestD <= ON_LINE * hgt && bestD < head && second > 3 * bestD + 2;
-    note(`word at [${b.l}, ${b.t}, ${b.r}, ${b.b}]: nearest iso-line ${bestD.toFixed(1)} px, next ${second.toFixed(1)} px, head curve ${head.toFixed(1)} px (text height ${hgt}) → ${on ? 'on an iso-line' : 'not an iso label'}`);
+    const split = on ? null : splitAcross(w, isos, heads);
+    note(`word at [${b.l}, ${b.t}, ${b.r}, ${b.b}]: nearest iso-line ${bestD.toFixed(1)} px, next ${second.toFixed(1)} px, head curve ${head.toFixed(1)} px (text height ${hgt}) → ${on ? 'on an iso-line' : split ? `crossed by ${split.length} iso-lines, cut at ${split.slice(1).map((p) => p.part.word.l + w.at[0]).join(', ')}` : 'not an iso label'}`);
     if (on && best) out.set(w, best);
+    for (const p of split ?? []) out.set(p.part, p.line);
   }
   return out;
 }
@@ -190,43 +248,86 @@ export async function isoLevelsOnScan<L extends IsoLine>(
   inkFull: number,
   panelId: string,
   note: (line: string) => void = () => undefined,
+  textHeight = 0,
+  lost: { lines: readonly L[]; onSheet: (line: L) => SheetPoint[] } = { lines: [], onSheet: () => [] },
 ): Promise<IsoLevels<L>> {
   const levels = new Map<L, number>();
+  // Lines the tracer could not follow (`lost`) get no level, but they stand in the order, and
+  // their labels mark it: leaving them out would shift the order of the others.
+  const all = [...isos, ...lost.lines];
   const unsure = new Set<L>();
   if (isos.length === 0) return { levels, unsure, missing: null };
-  // Read the words on the lines, one call per cleaned frame, as words and as digits.
+  // Read the words on the lines, one call per cleaned frame, as words and as digits (the two must
+  // agree each time). A word that gives no level is read once more alone and larger
+  // (`AGAIN_ACROSS` pixels of text height): a small, blurred label the reader passes over at the
+  // usual size among the others. A word of weaker evidence (`confirm`) is read so too, and its
+  // level counts only when both readings give it.
   const read = new Map<L, Set<number>>();
   const byClean = new Map<InkMap, FrameWord[]>();
   for (const w of onLines.keys()) byClean.set(w.clean, [...(byClean.get(w.clean) ?? []), w]);
-  for (const [clean, list] of byClean) {
+  const readWords = async (clean: InkMap, list: readonly FrameWord[], across?: number): Promise<(number | null)[]> => {
     const crops = list.map((w) => ({ box: { l: w.word.l - 2, t: w.word.t - 2, r: w.word.r + 2, b: w.word.b + 2 }, upright: false }));
-    const asWords = await readCrops(clean, crops, reader, 'words', inkFull);
-    const asDigits = await readCrops(clean, crops, reader, 'digits', inkFull);
-    list.forEach((w, i) => {
+    const asWords = await readCrops(clean, crops, reader, 'words', inkFull, across);
+    const asDigits = await readCrops(clean, crops, reader, 'digits', inkFull, across);
+    return list.map((w, i) => {
       const text = asWords[i]?.text ?? '';
       const digits = asDigits[i]?.text ?? '';
       const level = isoLevelRead(text, digits);
       const b = onPage(w);
-      note(`iso label at [${b.l}, ${b.t}, ${b.r}, ${b.b}] read "${text}" / "${digits}" → ${level ?? 'no level'}`);
-      if (level === null) return;
-      const line = onLines.get(w) as L;
-      read.set(line, (read.get(line) ?? new Set()).add(level));
+      note(`${across ? 'read again alone, larger: ' : ''}iso label at [${b.l}, ${b.t}, ${b.r}, ${b.b}]${w.confirm ? ' (glyphs run together or cut between lines)' : ''} read "${text}" / "${digits}" → ${level ?? 'no level'}`);
+      return level;
     });
+  };
+  const take = (w: FrameWord, level: number) => {
+    const line = onLines.get(w) as L;
+    read.set(line, (read.get(line) ?? new Set()).add(level));
+  };
+  for (const [clean, list] of byClean) {
+    const first = await readWords(clean, list);
+    for (const [i, w] of list.entries()) {
+      const level = first[i] as number | null;
+      // Only a word wide enough for a level and its "%" is read again (specks and stubs are not).
+      const again = level !== null ? w.confirm === true : w.confirm !== true && w.word.r - w.word.l >= AGAIN_WIDTH * (w.word.b - w.word.t);
+      if (!again) {
+        if (level !== null) take(w, level);
+        continue;
+      }
+      const [second] = await readWords(clean, [w], AGAIN_ACROSS);
+      if (level === null && second !== null && second !== undefined) take(w, second);
+      else if (level !== null && second === level) take(w, level);
+      else if (level !== null) note(`the level ${level} % of a word of glyphs run together or cut between lines is not confirmed read alone and larger; not taken`);
+    }
   }
   // A line whose labels disagree has no level read.
   const known = new Map<L, number>();
   for (const [line, set] of read) if (set.size === 1) known.set(line, [...set][0] as number);
-  for (const [c, v] of known) levels.set(c, v);
-  // The rest by order along the flow axis, from the tracer's lines.
-  if (levels.size < isos.length && known.size > 0) {
-    const shapes = isos.map((line) => ({ line, points: line.traced }));
-    if (shapes.every((k) => k.points.length >= 2)) {
+  for (const [c, v] of known) if (isos.includes(c)) levels.set(c, v);
+  // The rest by order along the flow axis, taken twice: from the tracer's lines and from the lines
+  // found (level pixels, y down as on the sheet); a level is kept only where both orders give it
+  // (a tracer's line that stopped short or ran on moves its end and shifts its order). Not when
+  // one line runs on into another (pieces of one line, linesMeeting, with the page's text
+  // height): the order would count a line twice.
+  const meeting = levels.size < isos.length && known.size > 0 ? linesMeeting(all, textHeight) : null;
+  if (meeting) note(`an iso-line runs on into another at [${meeting.map((v) => v.toFixed(0)).join(', ')}] (pieces of one line?): no level is taken by order`);
+  if (levels.size < isos.length && known.size > 0 && !meeting) {
+    const byOrder = (points: (line: L) => readonly SheetPoint[]): Map<L, number> => {
+      const shapes = all.map((line) => ({ line, points: points(line) }));
+      if (shapes.some((k) => k.points.length < 2)) return new Map();
       const knownShapes = new Map(shapes.filter((k) => known.has(k.line)).map((k) => [k, known.get(k.line) as number]));
-      for (const [k, v] of inferIsoLevels(shapes, knownShapes)) {
-        levels.set(k.line, v);
-        unsure.add(k.line);
-        note(`iso-line without a label takes ${v} % by order`);
+      return new Map([...inferIsoLevels(shapes, knownShapes, { adjacent: true })].map(([k, v]) => [k.line, v]));
+    };
+    // A lost line has no tracer's line: it stands in the tracer's order by the line found.
+    const traced = byOrder((line) => (isos.includes(line) ? line.traced : lost.onSheet(line)));
+    const found = byOrder((line) => levelPoints(line).map(([x, y]) => sheetPoint(x, y)));
+    for (const [line, v] of traced) {
+      if (!isos.includes(line)) continue;
+      if (found.get(line) !== v) {
+        note(`iso-line without a label: ${v} % by the order of the tracer's lines, ${found.get(line) ?? 'none'} by the lines found; no level by order`);
+        continue;
       }
+      levels.set(line, v);
+      unsure.add(line);
+      note(`iso-line without a label takes ${v} % by order`);
     }
   }
   for (const [c, v] of levels) if ([...levels.values()].filter((k) => k === v).length === 1) unsure.add(c);
@@ -240,6 +341,34 @@ export async function isoLevelsOnScan<L extends IsoLine>(
 /** A found line's points in level pixels, whichever way it was found. */
 const levelPoints = (c: IsoLine): [number, number][] => c.track.u.map((u, i) => (c.transposed ? [c.track.v[i] as number, u] : [u, c.track.v[i] as number]));
 
+/** How near the lower end of one found line and the upper end of another lie when they are one line's pieces, in text heights (a label's gap is about one and a quarter). */
+export const MEET_HEIGHTS = 1.5;
+
+/**
+ * Where one found iso-line runs on into another: the lower end of one (on the level page) lies
+ * within `MEET_HEIGHTS` text heights of the upper end of the other, as the pieces of a line the
+ * finder broke (at its label, or where its steep and shallow passes met) or of a head curve
+ * broken at a crossing. Two iso-lines of different levels never do: those lying side by side
+ * end side by side (both lower ends on the smallest impeller's curve). Null when none does.
+ */
+export function linesMeeting(isos: readonly IsoLine[], textHeight: number): [number, number] | null {
+  const ends = isos.map((c) => {
+    const p = levelPoints(c);
+    const a = p[0];
+    const b = p[p.length - 1];
+    if (!a || !b || p.length < 2) return null;
+    return a[1] <= b[1] ? { upper: a, lower: b } : { upper: b, lower: a };
+  });
+  const reach = MEET_HEIGHTS * textHeight;
+  for (const [i, a] of ends.entries()) {
+    for (const [j, b] of ends.entries()) {
+      if (!a || !b || i === j) continue;
+      if (Math.hypot(a.lower[0] - b.upper[0], a.lower[1] - b.upper[1]) <= reach) return a.lower;
+    }
+  }
+  return null;
+}
+
 /** Share of `points` within `tol` of the polyline `line`, looked at every 3rd point. */
 function shareAlong(points: readonly (readonly [number, number])[], line: readonly (readonly [number, number])[], tol: number): number {
   let near = 0;
@@ -249,6 +378,18 @@ function shareAlong(points: readonly (readonly [number, number])[], line: readon
     if (distanceToPolyline(line, [x, y]) <= tol) near++;
   }
   return n === 0 ? 0 : near / n;
+}
+
+/**
+ * Lines sorted as iso-lines that are pieces of a head curve: 80 % of the line found lies within
+ * 3 px of a head curve's tracer's line (level pixels). An iso-line crosses the head curves and
+ * shares only a few points with any of them; a head curve the finder broke (at a label, or where
+ * an iso-line crosses it at a shallow angle) leaves a piece starting off the flow axis, which the
+ * head curve's own tracer's line runs along.
+ */
+export function headPieces<L extends IsoLine>(isos: readonly L[], heads: readonly { traced: readonly SheetPoint[] }[], toLevel: (p: SheetPoint) => [number, number]): Set<L> {
+  const lines = heads.filter((h) => h.traced.length >= 2).map((h) => h.traced.map(toLevel));
+  return new Set(isos.filter((c) => lines.some((line) => shareAlong(levelPoints(c), line, 3) >= 0.8)));
 }
 
 /**

@@ -41,8 +41,15 @@ export interface Blot {
   b: number;
 }
 
-/** Connected blots of ink (8-neighbours) at or above `threshold`, outside the frames (inset 3 px), at most `maxSize` on a side. */
-export function inkBlots(map: InkMap, threshold: number, frames: readonly Box[], maxSize: number): Blot[] {
+/**
+ * Connected blots of ink (8-neighbours) at or above `threshold`, outside the frames (inset 3 px),
+ * at most `maxSize` on a side. With `word`, a wider blot is kept too when it is as tall as a line
+ * of text, no wider than `word.maxWidth` and filled like print (`word.fill` of its box or more):
+ * labels whose glyphs the scan ran together, never a stretch of a thin line. Only the iso labels
+ * are looked for so (rasterCurves.ts, `runTogetherWords`); the curve labels and the line finder's
+ * holes keep the size limit.
+ */
+export function inkBlots(map: InkMap, threshold: number, frames: readonly Box[], maxSize: number, word?: { minHeight: number; maxHeight: number; maxWidth: number; fill: number }): Blot[] {
   const { width, height, ink } = map;
   const seen = new Uint8Array(width * height);
   for (const [l, t, r, b] of frames) {
@@ -81,7 +88,10 @@ export function inkBlots(map: InkMap, threshold: number, frames: readonly Box[],
         }
       }
     }
-    if (count >= 3 && r - l + 1 <= maxSize && b - t + 1 <= maxSize) blots.push({ l, t, r: r + 1, b: b + 1 });
+    const bw = r - l + 1;
+    const bh = b - t + 1;
+    const wordLike = word !== undefined && bh >= word.minHeight && bh <= word.maxHeight && bw <= word.maxWidth && count >= word.fill * bw * bh;
+    if (count >= 3 && ((bw <= maxSize && bh <= maxSize) || wordLike)) blots.push({ l, t, r: r + 1, b: b + 1 });
   }
   return blots;
 }
