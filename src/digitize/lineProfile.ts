@@ -25,10 +25,39 @@ export interface ReadCounter {
 
 /**
  * Membership at (x, y) by bilinear interpolation of the colour; 0 outside the image.
+ * Called for nearly every sample a tracer takes: the four pixels inside the image are read by a
+ * small function of their own (which the engine inlines), the image's edges by `membershipAtEdge`.
  */
 export function membershipAt(image: RasterImage, model: InkModel, x: number, y: number, counter?: ReadCounter): number {
   const u = x - 0.5;
   const v = y - 0.5;
+  const i0 = Math.floor(u);
+  const j0 = Math.floor(v);
+  const width = image.width;
+  if (i0 >= 0 && j0 >= 0 && i0 + 1 < width && j0 + 1 < image.height) {
+    if (counter) counter.reads += 4;
+    return membershipInside(image.data, model, (j0 * width + i0) * 4, width * 4, u - i0, v - j0);
+  }
+  return membershipAtEdge(image, model, u, v, counter);
+}
+
+/** Bilinear membership from the four pixels at byte `a` (top left), `a + 4`, `a + row`, `a + row + 4`. */
+function membershipInside(data: Uint8ClampedArray, model: InkModel, a: number, row: number, fx: number, fy: number): number {
+  const b = a + 4;
+  const c = a + row;
+  const d = c + 4;
+  const w00 = (1 - fx) * (1 - fy);
+  const w10 = fx * (1 - fy);
+  const w01 = (1 - fx) * fy;
+  const w11 = fx * fy;
+  const r = w00 * (data[a] as number) + w10 * (data[b] as number) + w01 * (data[c] as number) + w11 * (data[d] as number);
+  const g = w00 * (data[a + 1] as number) + w10 * (data[b + 1] as number) + w01 * (data[c + 1] as number) + w11 * (data[d + 1] as number);
+  const bl = w00 * (data[a + 2] as number) + w10 * (data[b + 2] as number) + w01 * (data[c + 2] as number) + w11 * (data[d + 2] as number);
+  return membership(model, r, g, bl);
+}
+
+/** `membershipAt` where the four pixels reach past the image's edge: the edge pixels stand in; 0 beyond. */
+function membershipAtEdge(image: RasterImage, model: InkModel, u: number, v: number, counter?: ReadCounter): number {
   let i0 = Math.floor(u);
   let j0 = Math.floor(v);
   const fx = u - i0;
@@ -145,6 +174,16 @@ export function sampleLongSection(
     }
     out[k + n] = best;
   }
+}
+
+/**
+ * The offsets −across, −across + 0.5, … up to across (each the sum the loop over them would
+ * reach), nearest 0 first: where any sample across a line will do, the middle is likeliest ink.
+ */
+export function centreFirst(across: number): number[] {
+  const offsets: number[] = [];
+  for (let s = -across; s <= across; s += 0.5) offsets.push(s);
+  return offsets.sort((a, b) => Math.abs(a) - Math.abs(b));
 }
 
 /**
