@@ -109,6 +109,12 @@ export function membership(model: InkModel, r: number, g: number, b: number): nu
 
 const clamp01 = (m: number) => (m <= 0 ? 0 : m >= 1 ? 1 : m);
 
+/**
+ * A margin far above the rounding of a few operations: a squared comparison that clears it by
+ * this factor decides a sign exactly as the rooted one would.
+ */
+const SURE = 1 + 1e-9;
+
 /** A coloured line: the luma share, held to the chroma pointing the line's way (Δ = paper − colour). */
 function chromaticMembership(model: InkModel, dx: number, dy: number, dz: number): number {
   const y = 0.299 * dx + 0.587 * dy + 0.114 * dz;
@@ -136,7 +142,10 @@ function achromaticMembership(model: InkModel, dx: number, dy: number, dz: numbe
   const kx = dx - y;
   const ky = dy - y;
   const kz = dz - y;
-  return clamp01(t - 1.5 * Math.sqrt(kx * kx + ky * ky + kz * kz) * model.invLuma);
+  const k2 = kx * kx + ky * ky + kz * kz;
+  // Chroma clearly outweighing the luma share (most paper pixels) gives 0 without the root.
+  if (2.25 * k2 * model.invLuma * model.invLuma > t * t * SURE) return 0;
+  return clamp01(t - 1.5 * Math.sqrt(k2) * model.invLuma);
 }
 
 /** A line of little luma contrast: the projection onto the paper → line segment, less the distance off it. */
