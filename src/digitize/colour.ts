@@ -110,8 +110,8 @@ export function membership(model: InkModel, r: number, g: number, b: number): nu
 const clamp01 = (m: number) => (m <= 0 ? 0 : m >= 1 ? 1 : m);
 
 /**
- * A margin far above the rounding of a few operations: a squared comparison that clears it by
- * this factor decides a sign exactly as the rooted one would.
+ * A margin far above the rounding of a few operations: a comparison without root or division
+ * that clears it by this factor decides exactly as the full computation would.
  */
 const SURE = 1 + 1e-9;
 
@@ -124,10 +124,12 @@ function chromaticMembership(model: InkModel, dx: number, dy: number, dz: number
   const ky = dy - y;
   const kz = dz - y;
   const along = kx * model.cx + ky * model.cy + kz * model.cz;
+  const a = along * model.invChroma;
+  // Chroma clearly short of the line's way (the ramp is 0 below a / t = 0.1): 0 without the root.
+  if (a * SURE < 0.1 * t) return 0;
   const ox = kx - along * model.cx;
   const oy = ky - along * model.cy;
   const oz = kz - along * model.cz;
-  const a = along * model.invChroma;
   const o = Math.sqrt(ox * ox + oy * oy + oz * oz) * model.invChroma;
   const ratio = a / t;
   const ramp = ratio <= 0.1 ? 0 : ratio >= 0.35 ? 1 : (ratio - 0.1) / 0.25;
