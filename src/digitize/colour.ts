@@ -107,6 +107,19 @@ export function membership(model: InkModel, r: number, g: number, b: number): nu
   return projectionMembership(model, dx, dy, dz);
 }
 
+/**
+ * The colour's darkness share: t of the file comment (for the projection fallback, the projection
+ * onto the paper → line segment). Linear in the colour, and membership never exceeds it, so a
+ * mix of pixels none of which reaches a share cannot reach that membership either.
+ */
+export function darknessShare(model: InkModel, r: number, g: number, b: number): number {
+  const dx = model.paperR - r;
+  const dy = model.paperG - g;
+  const dz = model.paperB - b;
+  if (model.mode === 'projection') return (dx * model.ax + dy * model.ay + dz * model.az) * model.invNorm2;
+  return (0.299 * dx + 0.587 * dy + 0.114 * dz) * model.invLuma;
+}
+
 const clamp01 = (m: number) => (m <= 0 ? 0 : m >= 1 ? 1 : m);
 
 /**

@@ -4,7 +4,7 @@
  * and its mass (Σ membership × spacing, about the line's width in pixels).
  * Coordinates are pixel coordinates with the centre of the first pixel at (0.5, 0.5).
  */
-import { membership, type InkModel } from './colour.ts';
+import { darknessShare, membership, type InkModel } from './colour.ts';
 import type { RasterImage } from './raster.ts';
 
 /** A stretch of line-coloured samples across a section. Offsets are in pixels from the section centre. */
@@ -83,6 +83,28 @@ function membershipAtEdge(image: RasterImage, model: InkModel, u: number, v: num
   const bl = w00 * (data[a + 2] as number) + w10 * (data[b + 2] as number) + w01 * (data[c + 2] as number) + w11 * (data[d + 2] as number);
   if (counter) counter.reads += 4;
   return membership(model, r, g, bl);
+}
+
+/**
+ * Whether any `membershipAt` sample within the box [x0, x1] × [y0, y1] could reach `threshold`:
+ * a sample mixes four pixels with weights that sum to one, and membership never exceeds the
+ * darkness share (`darknessShare`, linear in the colour), so when no pixel such a sample reads
+ * comes within a margin far above rounding of the threshold, no sample does. Reads each pixel once.
+ */
+export function inkPossible(image: RasterImage, model: InkModel, x0: number, y0: number, x1: number, y1: number, threshold: number): boolean {
+  const { width, height, data } = image;
+  const i0 = Math.max(0, Math.floor(x0 - 0.5));
+  const j0 = Math.max(0, Math.floor(y0 - 0.5));
+  const i1 = Math.min(width - 1, Math.floor(x1 - 0.5) + 1);
+  const j1 = Math.min(height - 1, Math.floor(y1 - 0.5) + 1);
+  const below = threshold - 1e-9;
+  for (let j = j0; j <= j1; j++) {
+    for (let i = i0; i <= i1; i++) {
+      const k = (j * width + i) * 4;
+      if (darknessShare(model, data[k] as number, data[k + 1] as number, data[k + 2] as number) >= below) return true;
+    }
+  }
+  return false;
 }
 
 /**

@@ -14,7 +14,7 @@
  * RGBA buffer only.
  */
 import { lumaChroma, windowAround, type InkModel, type Rgb } from './colour.ts';
-import { centreFirst, membershipAt } from './lineProfile.ts';
+import { centreFirst, inkPossible, membershipAt } from './lineProfile.ts';
 import { dashReach } from './rasterEnds.ts';
 import type { RasterImage } from './raster.ts';
 
@@ -56,7 +56,7 @@ const INK = 0.4;
 const GRID_TWIN_MAX_PX = 120;
 const GRID_TWIN_MIN_PX = 3;
 
-/** The offsets across a grid run, every 0.5 px, the middle first (any one with ink will do). */
+/** The offsets across a grid run, every 0.5 px, the middle (0) first (any one with ink will do). */
 const GRID_ACROSS = centreFirst(GRID_ACROSS_PX);
 
 /**
@@ -66,12 +66,19 @@ const GRID_ACROSS = centreFirst(GRID_ACROSS_PX);
 function straightRun(image: RasterImage, model: InkModel, cx: number, cy: number, ux: number, uy: number): boolean {
   const allowed = Math.floor((1 - GRID_SHARE) * (2 * GRID_HALF_PX + 1));
   let missed = 0;
+  // The box the samples across fall in, a little wider than they reach.
+  const ex = Math.abs(uy) * GRID_ACROSS_PX + 0.01;
+  const ey = Math.abs(ux) * GRID_ACROSS_PX + 0.01;
   for (let t = -GRID_HALF_PX; t <= GRID_HALF_PX; t++) {
-    let ink = false;
-    for (const s of GRID_ACROSS) {
-      if (membershipAt(image, model, cx + ux * t - uy * s, cy + uy * t + ux * s) >= INK) {
-        ink = true;
-        break;
+    // The middle sample first; past it, the samples across only where their pixels could hold ink.
+    let ink = membershipAt(image, model, cx + ux * t, cy + uy * t) >= INK;
+    if (!ink && inkPossible(image, model, cx + ux * t - ex, cy + uy * t - ey, cx + ux * t + ex, cy + uy * t + ey, INK)) {
+      for (let k = 1; k < GRID_ACROSS.length; k++) {
+        const s = GRID_ACROSS[k] as number;
+        if (membershipAt(image, model, cx + ux * t - uy * s, cy + uy * t + ux * s) >= INK) {
+          ink = true;
+          break;
+        }
       }
     }
     if (!ink && ++missed > allowed) return false;

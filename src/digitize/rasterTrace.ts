@@ -260,6 +260,8 @@ function nearestInk(image: RasterImage, model: InkModel, p: Px, radius: number):
       const i = (y * width + x) * 4;
       const dx = x + 0.5 - p[0];
       const dy = y + 0.5 - p[1];
+      // Clearly farther than the best (squared, with a margin far above rounding): no root taken.
+      if (dx * dx + dy * dy > bestD * bestD * (1 + 1e-9)) continue;
       const d = Math.hypot(dx, dy);
       if (d >= bestD) continue;
       if (membership(model, data[i] as number, data[i + 1] as number, data[i + 2] as number) < 0.5) continue;
