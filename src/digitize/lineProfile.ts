@@ -122,10 +122,25 @@ export function sampleSection(
   out: Float64Array,
   counter?: ReadCounter,
 ): void {
+  // `membershipAt` for each sample, with the image's size read once and the pixels read counted
+  // once for the section (samples off the image's edges go through `membershipAtEdge`, which counts its own).
+  const { width, height, data } = image;
+  const row = width * 4;
+  let inside = 0;
   for (let k = -n; k <= n; k++) {
     const o = k * spacing;
-    out[k + n] = membershipAt(image, model, cx + nx * o, cy + ny * o, counter);
+    const u = cx + nx * o - 0.5;
+    const v = cy + ny * o - 0.5;
+    const i0 = Math.floor(u);
+    const j0 = Math.floor(v);
+    if (i0 >= 0 && j0 >= 0 && i0 + 1 < width && j0 + 1 < height) {
+      inside++;
+      out[k + n] = membershipInside(data, model, j0 * row + i0 * 4, row, u - i0, v - j0);
+    } else {
+      out[k + n] = membershipAtEdge(image, model, u, v, counter);
+    }
   }
+  if (counter) counter.reads += 4 * inside;
 }
 
 /**
