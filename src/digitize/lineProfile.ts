@@ -269,7 +269,7 @@ export function findRuns(values: Float64Array, n: number, spacing: number, thres
     runs[used++] = run;
     k = end + 1;
   }
-  runs.length = used;
+  if (runs.length !== used) runs.length = used; // only when it changes: setting the length takes a slow path
   return runs;
 }
 
