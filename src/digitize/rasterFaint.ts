@@ -70,11 +70,11 @@ function straightRun(image: RasterImage, model: InkModel, cx: number, cy: number
   const ex = Math.abs(uy) * GRID_ACROSS_PX + 0.01;
   const ey = Math.abs(ux) * GRID_ACROSS_PX + 0.01;
   for (let t = -GRID_HALF_PX; t <= GRID_HALF_PX; t++) {
-    // The middle sample first; past it, the samples across only where their pixels could hold ink.
-    let ink = membershipAt(image, model, cx + ux * t, cy + uy * t) >= INK;
-    if (!ink && inkPossible(image, model, cx + ux * t - ex, cy + uy * t - ey, cx + ux * t + ex, cy + uy * t + ey, INK)) {
-      for (let k = 1; k < GRID_ACROSS.length; k++) {
-        const s = GRID_ACROSS[k] as number;
+    // The samples across only where their pixels could hold ink (most places looked at for a
+    // grid line's twin are paper), the middle one first.
+    let ink = false;
+    if (inkPossible(image, model, cx + ux * t - ex, cy + uy * t - ey, cx + ux * t + ex, cy + uy * t + ey, INK)) {
+      for (const s of GRID_ACROSS) {
         if (membershipAt(image, model, cx + ux * t - uy * s, cy + uy * t + ux * s) >= INK) {
           ink = true;
           break;
