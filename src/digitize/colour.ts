@@ -23,6 +23,10 @@ export type Rgb = readonly [number, number, number];
 export interface InkModel {
   readonly line: Rgb;
   readonly paper: Rgb;
+  /** The paper's channels again, as plain numbers (read for every sample). */
+  readonly paperR: number;
+  readonly paperG: number;
+  readonly paperB: number;
   /** paper − line. */
   readonly ax: number;
   readonly ay: number;
@@ -73,6 +77,9 @@ export function inkModel(line: Rgb, paper: Rgb): InkModel {
   return {
     line,
     paper,
+    paperR: paper[0],
+    paperG: paper[1],
+    paperB: paper[2],
     ax,
     ay,
     az,
@@ -87,38 +94,80 @@ export function inkModel(line: Rgb, paper: Rgb): InkModel {
   };
 }
 
-/** Membership 0…1 of the colour (r, g, b) in the line (see the file comment). */
+/**
+ * Membership 0…1 of the colour (r, g, b) in the line (see the file comment). Called for every
+ * sample a tracer takes: each mode is its own small function, so that the engine can inline it.
+ */
 export function membership(model: InkModel, r: number, g: number, b: number): number {
-  const dx = model.paper[0] - r;
-  const dy = model.paper[1] - g;
-  const dz = model.paper[2] - b;
-  let m: number;
-  if (model.mode === 'projection') {
-    const t = (dx * model.ax + dy * model.ay + dz * model.az) * model.invNorm2;
-    const s = Math.hypot(dx - t * model.ax, dy - t * model.ay, dz - t * model.az) * model.invNorm;
-    m = t - 2 * s;
-  } else {
-    const y = 0.299 * dx + 0.587 * dy + 0.114 * dz;
-    const t = y * model.invLuma;
-    if (t <= 0) return 0;
-    const kx = dx - y;
-    const ky = dy - y;
-    const kz = dz - y;
-    if (model.mode === 'achromatic') {
-      m = t - 1.5 * Math.sqrt(kx * kx + ky * ky + kz * kz) * model.invLuma;
-    } else {
-      const along = kx * model.cx + ky * model.cy + kz * model.cz;
-      const ox = kx - along * model.cx;
-      const oy = ky - along * model.cy;
-      const oz = kz - along * model.cz;
-      const a = along * model.invChroma;
-      const o = Math.sqrt(ox * ox + oy * oy + oz * oz) * model.invChroma;
-      const ratio = a / t;
-      const ramp = ratio <= 0.1 ? 0 : ratio >= 0.35 ? 1 : (ratio - 0.1) / 0.25;
-      m = (t > 1 ? 1 : t) * ramp - 1.5 * o;
-    }
-  }
-  return m <= 0 ? 0 : m >= 1 ? 1 : m;
+  const dx = model.paperR - r;
+  const dy = model.paperG - g;
+  const dz = model.paperB - b;
+  if (model.mode === 'chromatic') return chromaticMembership(model, dx, dy, dz);
+  if (model.mode === 'achromatic') return achromaticMembership(model, dx, dy, dz);
+  return projectionMembership(model, dx, dy, dz);
+}
+
+/**
+ * The colour's darkness share: t of the file comment (for the projection fallback, the projection
+ * onto the paper → line segment). Linear in the colour, and membership never exceeds it, so a
+ * mix of pixels none of which reaches a share cannot reach that membership either.
+ */
+export function darknessShare(model: InkModel, r: number, g: number, b: number): number {
+  const dx = model.paperR - r;
+  const dy = model.paperG - g;
+  const dz = model.paperB - b;
+  if (model.mode === 'projection') return (dx * model.ax + dy * model.ay + dz * model.az) * model.invNorm2;
+  return (0.299 * dx + 0.587 * dy + 0.114 * dz) * model.invLuma;
+}
+
+const clamp01 = (m: number) => (m <= 0 ? 0 : m >= 1 ? 1 : m);
+
+/**
+ * A margin far above the rounding of a few operations: a comparison without root or division
+ * that clears it by this factor decides exactly as the full computation would.
+ */
+const SURE = 1 + 1e-9;
+
+/** A coloured line: the luma share, held to the chroma pointing the line's way (Δ = paper − colour). */
+function chromaticMembership(model: InkModel, dx: number, dy: number, dz: number): number {
+  const y = 0.299 * dx + 0.587 * dy + 0.114 * dz;
+  const t = y * model.invLuma;
+  if (t <= 0) return 0;
+  const kx = dx - y;
+  const ky = dy - y;
+  const kz = dz - y;
+  const along = kx * model.cx + ky * model.cy + kz * model.cz;
+  const a = along * model.invChroma;
+  // Chroma clearly short of the line's way (the ramp is 0 below a / t = 0.1): 0 without the root.
+  if (a * SURE < 0.1 * t) return 0;
+  const ox = kx - along * model.cx;
+  const oy = ky - along * model.cy;
+  const oz = kz - along * model.cz;
+  const o = Math.sqrt(ox * ox + oy * oy + oz * oz) * model.invChroma;
+  const ratio = a / t;
+  const ramp = ratio <= 0.1 ? 0 : ratio >= 0.35 ? 1 : (ratio - 0.1) / 0.25;
+  return clamp01((t > 1 ? 1 : t) * ramp - 1.5 * o);
+}
+
+/** A black or grey line: the luma share less any chroma. */
+function achromaticMembership(model: InkModel, dx: number, dy: number, dz: number): number {
+  const y = 0.299 * dx + 0.587 * dy + 0.114 * dz;
+  const t = y * model.invLuma;
+  if (t <= 0) return 0;
+  const kx = dx - y;
+  const ky = dy - y;
+  const kz = dz - y;
+  const k2 = kx * kx + ky * ky + kz * kz;
+  // Chroma clearly outweighing the luma share (most paper pixels) gives 0 without the root.
+  if (2.25 * k2 * model.invLuma * model.invLuma > t * t * SURE) return 0;
+  return clamp01(t - 1.5 * Math.sqrt(k2) * model.invLuma);
+}
+
+/** A line of little luma contrast: the projection onto the paper → line segment, less the distance off it. */
+function projectionMembership(model: InkModel, dx: number, dy: number, dz: number): number {
+  const t = (dx * model.ax + dy * model.ay + dz * model.az) * model.invNorm2;
+  const s = Math.hypot(dx - t * model.ax, dy - t * model.ay, dz - t * model.az) * model.invNorm;
+  return clamp01(t - 2 * s);
 }
 
 /** Euclidean RGB distance. */

@@ -165,8 +165,9 @@ export function chooseOffset(runs: readonly Run[], style: LineStyle, allowed: nu
   const hi = style.massRange[1] * style.width;
   const cleanHi = Math.min(hi, 1.2 * style.width);
   const half = style.width / 2;
-  candidateOffsets.length = 0;
-  candidateClean.length = 0;
+  // Emptied only when not empty already (setting the length goes through a slow path even when it does not change it).
+  if (candidateOffsets.length !== 0) candidateOffsets.length = 0;
+  if (candidateClean.length !== 0) candidateClean.length = 0;
   // Up to two candidates a run: its centroid, or the two edge-derived positions of a merge.
   for (const run of runs) {
     if (run.mass < lo) continue;

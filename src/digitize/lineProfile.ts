@@ -4,7 +4,7 @@
  * and its mass (Σ membership × spacing, about the line's width in pixels).
  * Coordinates are pixel coordinates with the centre of the first pixel at (0.5, 0.5).
  */
-import { membership, type InkModel } from './colour.ts';
+import { darknessShare, membership, type InkModel } from './colour.ts';
 import type { RasterImage } from './raster.ts';
 
 /** A stretch of line-coloured samples across a section. Offsets are in pixels from the section centre. */
@@ -25,10 +25,39 @@ export interface ReadCounter {
 
 /**
  * Membership at (x, y) by bilinear interpolation of the colour; 0 outside the image.
+ * Called for nearly every sample a tracer takes: the four pixels inside the image are read by a
+ * small function of their own (which the engine inlines), the image's edges by `membershipAtEdge`.
  */
 export function membershipAt(image: RasterImage, model: InkModel, x: number, y: number, counter?: ReadCounter): number {
   const u = x - 0.5;
   const v = y - 0.5;
+  const i0 = Math.floor(u);
+  const j0 = Math.floor(v);
+  const width = image.width;
+  if (i0 >= 0 && j0 >= 0 && i0 + 1 < width && j0 + 1 < image.height) {
+    if (counter) counter.reads += 4;
+    return membershipInside(image.data, model, (j0 * width + i0) * 4, width * 4, u - i0, v - j0);
+  }
+  return membershipAtEdge(image, model, u, v, counter);
+}
+
+/** Bilinear membership from the four pixels at byte `a` (top left), `a + 4`, `a + row`, `a + row + 4`. */
+function membershipInside(data: Uint8ClampedArray, model: InkModel, a: number, row: number, fx: number, fy: number): number {
+  const b = a + 4;
+  const c = a + row;
+  const d = c + 4;
+  const w00 = (1 - fx) * (1 - fy);
+  const w10 = fx * (1 - fy);
+  const w01 = (1 - fx) * fy;
+  const w11 = fx * fy;
+  const r = w00 * (data[a] as number) + w10 * (data[b] as number) + w01 * (data[c] as number) + w11 * (data[d] as number);
+  const g = w00 * (data[a + 1] as number) + w10 * (data[b + 1] as number) + w01 * (data[c + 1] as number) + w11 * (data[d + 1] as number);
+  const bl = w00 * (data[a + 2] as number) + w10 * (data[b + 2] as number) + w01 * (data[c + 2] as number) + w11 * (data[d + 2] as number);
+  return membership(model, r, g, bl);
+}
+
+/** `membershipAt` where the four pixels reach past the image's edge: the edge pixels stand in; 0 beyond. */
+function membershipAtEdge(image: RasterImage, model: InkModel, u: number, v: number, counter?: ReadCounter): number {
   let i0 = Math.floor(u);
   let j0 = Math.floor(v);
   const fx = u - i0;
@@ -57,6 +86,28 @@ export function membershipAt(image: RasterImage, model: InkModel, x: number, y: 
 }
 
 /**
+ * Whether any `membershipAt` sample within the box [x0, x1] × [y0, y1] could reach `threshold`:
+ * a sample mixes four pixels with weights that sum to one, and membership never exceeds the
+ * darkness share (`darknessShare`, linear in the colour), so when no pixel such a sample reads
+ * comes within a margin far above rounding of the threshold, no sample does. Reads each pixel once.
+ */
+export function inkPossible(image: RasterImage, model: InkModel, x0: number, y0: number, x1: number, y1: number, threshold: number): boolean {
+  const { width, height, data } = image;
+  const i0 = Math.max(0, Math.floor(x0 - 0.5));
+  const j0 = Math.max(0, Math.floor(y0 - 0.5));
+  const i1 = Math.min(width - 1, Math.floor(x1 - 0.5) + 1);
+  const j1 = Math.min(height - 1, Math.floor(y1 - 0.5) + 1);
+  const below = threshold - 1e-9;
+  for (let j = j0; j <= j1; j++) {
+    for (let i = i0; i <= i1; i++) {
+      const k = (j * width + i) * 4;
+      if (darknessShare(model, data[k] as number, data[k + 1] as number, data[k + 2] as number) >= below) return true;
+    }
+  }
+  return false;
+}
+
+/**
  * Samples membership at centre + k·spacing·normal for k = −n…n into `out` (length 2n+1).
  */
 export function sampleSection(
@@ -71,10 +122,25 @@ export function sampleSection(
   out: Float64Array,
   counter?: ReadCounter,
 ): void {
+  // `membershipAt` for each sample, with the image's size read once and the pixels read counted
+  // once for the section (samples off the image's edges go through `membershipAtEdge`, which counts its own).
+  const { width, height, data } = image;
+  const row = width * 4;
+  let inside = 0;
   for (let k = -n; k <= n; k++) {
     const o = k * spacing;
-    out[k + n] = membershipAt(image, model, cx + nx * o, cy + ny * o, counter);
+    const u = cx + nx * o - 0.5;
+    const v = cy + ny * o - 0.5;
+    const i0 = Math.floor(u);
+    const j0 = Math.floor(v);
+    if (i0 >= 0 && j0 >= 0 && i0 + 1 < width && j0 + 1 < height) {
+      inside++;
+      out[k + n] = membershipInside(data, model, j0 * row + i0 * 4, row, u - i0, v - j0);
+    } else {
+      out[k + n] = membershipAtEdge(image, model, u, v, counter);
+    }
   }
+  if (counter) counter.reads += 4 * inside;
 }
 
 /**
@@ -148,6 +214,16 @@ export function sampleLongSection(
 }
 
 /**
+ * The offsets −across, −across + 0.5, … up to across (each the sum the loop over them would
+ * reach), nearest 0 first: where any sample across a line will do, the middle is likeliest ink.
+ */
+export function centreFirst(across: number): number[] {
+  const offsets: number[] = [];
+  for (let s = -across; s <= across; s += 0.5) offsets.push(s);
+  return offsets.sort((a, b) => Math.abs(a) - Math.abs(b));
+}
+
+/**
  * Splits a sampled section into runs where membership ≥ threshold (into `runs`, whose
  * objects are reused, when given). Each run also takes in the
  * samples just outside it (the anti-aliased fringe below the threshold) so that its centroid
@@ -193,7 +269,7 @@ export function findRuns(values: Float64Array, n: number, spacing: number, thres
     runs[used++] = run;
     k = end + 1;
   }
-  runs.length = used;
+  if (runs.length !== used) runs.length = used; // only when it changes: setting the length takes a slow path
   return runs;
 }
 

@@ -240,9 +240,11 @@ export function restyleAhead(image: RasterImage, style: LineStyle, course: reado
   const runs: Run[] = [];
   let seen = 0;
   const narrow: number[] = [];
+  // One buffer for all sections, grown when one is wider (each section is read over its own 2n + 1 samples).
+  let section = new Float64Array(0);
   for (const c of course) {
     const n = Math.ceil((c.allowed + 2 * style.width + 2) / spacing);
-    const section = new Float64Array(2 * n + 1);
+    if (section.length < 2 * n + 1) section = new Float64Array(2 * n + 1);
     const nx = -c.tangent[1];
     const ny = c.tangent[0];
     if (style.reach) sampleLongSection(image, style.model, c.at[0], c.at[1], nx, ny, n, spacing, style.reach, section, counter);
@@ -415,13 +417,15 @@ export function throughBunch(
   // Sections in a row with nothing in view that a line standing apart may pass (its own gaps).
   const quiet = Math.max(2, Math.ceil(Math.max(12, 4 * w, 2 * (style.reach ?? 0)) / step));
   let along = 0;
+  // One buffer for all sections, grown when one is wider (each section is read over its own 2n + 1 samples).
+  let section = new Float64Array(0);
   for (let k = 0; k < course.length; k++) {
     const c = course[k] as CoursePoint;
     if (k > 0) along += step;
     // A run alone in a wide window may lie off the predicted course by a few degrees more.
     const alone = c.allowed + Math.min(LONE_TURN * along, Math.max(LONE_MAX_PX, LONE_MAX_WIDTHS * w));
     const n = Math.ceil((alone + separation + 2 * w + 2) / spacing);
-    const section = new Float64Array(2 * n + 1);
+    if (section.length < 2 * n + 1) section = new Float64Array(2 * n + 1);
     const nx = -c.tangent[1];
     const ny = c.tangent[0];
     if (style.reach) sampleLongSection(image, style.model, c.at[0], c.at[1], nx, ny, n, spacing, style.reach, section, counter);

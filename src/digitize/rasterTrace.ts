@@ -17,7 +17,7 @@ import { UserError } from '../model/errors.ts';
 import simplify from 'simplify-js';
 import { colourDistance, estimatePaper, inkModel, membership, MIN_CONTRAST, windowAround, type InkModel, type Rgb } from './colour.ts';
 import { chooseOffset, followLine, indexPath, stepping, type FollowLimits, type FollowResult, type LineStyle, type Pick } from './lineFollow.ts';
-import { findRuns, inkAxis, membershipAt, sampleInkSection, sampleLongSection, sampleSection, type ReadCounter, type Run } from './lineProfile.ts';
+import { centreFirst, findRuns, inkAxis, membershipAt, sampleInkSection, sampleLongSection, sampleSection, type ReadCounter, type Run } from './lineProfile.ts';
 import { sheetPoint, type SheetPoint } from './points.ts';
 import type { RasterImage } from './raster.ts';
 import { alongBand } from './rasterBand.ts';
@@ -232,10 +232,17 @@ function brokenLine(image: RasterImage, model: InkModel, centre: Px, width: numb
   const spacing = 0.5;
   const across = Math.max(1.5, 0.5 * width + 1);
   const on: boolean[] = [];
+  const offsets = centreFirst(across);
   for (let t = -length; t <= length; t += spacing) {
-    let best = 0;
-    for (let s = -across; s <= across; s += 0.5) best = Math.max(best, membershipAt(image, model, centre[0] + axis.dx * t - axis.dy * s, centre[1] + axis.dy * t + axis.dx * s));
-    on.push(best >= THRESHOLD);
+    // Whether any sample across is line-coloured: looked at from the middle out, stopping at the first.
+    let ink = false;
+    for (const s of offsets) {
+      if (membershipAt(image, model, centre[0] + axis.dx * t - axis.dy * s, centre[1] + axis.dy * t + axis.dx * s) >= THRESHOLD) {
+        ink = true;
+        break;
+      }
+    }
+    on.push(ink);
   }
   const reach = dashReach(on, spacing, width);
   if (reach === undefined) return undefined;
@@ -253,6 +260,8 @@ function nearestInk(image: RasterImage, model: InkModel, p: Px, radius: number):
       const i = (y * width + x) * 4;
       const dx = x + 0.5 - p[0];
       const dy = y + 0.5 - p[1];
+      // Clearly farther than the best (squared, with a margin far above rounding): no root taken.
+      if (dx * dx + dy * dy > bestD * bestD * (1 + 1e-9)) continue;
       const d = Math.hypot(dx, dy);
       if (d >= bestD) continue;
       if (membership(model, data[i] as number, data[i + 1] as number, data[i + 2] as number) < 0.5) continue;
