@@ -220,21 +220,27 @@ export function levelInk(map: InkMap, level: Level): InkMap {
     const row = v * width;
     for (let u = 0; u < width; u++, x += c, y += s) {
       if (x < 0 || y < 0 || x >= w1 || y >= h1) continue;
-      const x0 = x | 0;
-      const y0 = y | 0;
-      const fx = x - x0;
-      const fy = y - y0;
-      const i = y0 * width + x0;
-      const a = ink[i] as number;
-      const b = ink[i + 1] as number;
-      const d = ink[i + width] as number;
-      const e = ink[i + width + 1] as number;
-      if ((a | b | d | e) === 0) continue;
-      const top = a + fx * (b - a);
-      out[row + u] = top + fy * (d + fx * (e - d) - top) + 0.5;
+      const k = bilinear(ink, width, x, y);
+      if (k !== 0) out[row + u] = k;
     }
   }
   return { width, height, ink: out };
+}
+
+/** Darkness at (x, y) of an ink map `width` wide, bilinear between the four pixels around it (0 ≤ x < width − 1, y likewise), rounded on storing; 0 where all four are paper. */
+function bilinear(ink: Uint8Array, width: number, x: number, y: number): number {
+  const x0 = x | 0;
+  const y0 = y | 0;
+  const fx = x - x0;
+  const fy = y - y0;
+  const i = y0 * width + x0;
+  const a = ink[i] as number;
+  const b = ink[i + 1] as number;
+  const d = ink[i + width] as number;
+  const e = ink[i + width + 1] as number;
+  if ((a | b | d | e) === 0) return 0;
+  const top = a + fx * (b - a);
+  return top + fy * (d + fx * (e - d) - top) + 0.5;
 }
 
 /** The ink map seen through a homography from level pixels to image pixels (bilinear; pixels from outside the image are paper). */
@@ -254,18 +260,8 @@ function squaredInk(map: InkMap, h: H9): InkMap {
       const x = (h0 * uc + h1 * vc + h2) / w - 0.5;
       const y = (h3 * uc + h4 * vc + h5) / w - 0.5;
       if (!(x >= 0 && y >= 0 && x < w1 && y < ht1)) continue;
-      const x0 = x | 0;
-      const y0 = y | 0;
-      const fx = x - x0;
-      const fy = y - y0;
-      const i = y0 * width + x0;
-      const a = ink[i] as number;
-      const b = ink[i + 1] as number;
-      const d = ink[i + width] as number;
-      const e = ink[i + width + 1] as number;
-      if ((a | b | d | e) === 0) continue;
-      const top = a + fx * (b - a);
-      out[row + u] = top + fy * (d + fx * (e - d) - top) + 0.5;
+      const k = bilinear(ink, width, x, y);
+      if (k !== 0) out[row + u] = k;
     }
   }
   return { width, height, ink: out };
