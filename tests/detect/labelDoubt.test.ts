@@ -62,6 +62,11 @@ describe('a head label read with little certainty', () => {
     const named = unsure.takeoff.traces.filter((t) => t.diameter === value);
     expect(named.length).toBeGreaterThanOrEqual(2); // its head curve and at least one curve of another panel
     for (const t of named) expect(t.confidence).toBeLessThan(0.5);
+    // Their doubt is the label's, said in its own question: the tracer is not blamed for them.
+    const sureBefore = named.filter((t) => (plain.takeoff.traces.find((k) => k.id === t.id)?.confidence ?? 0) >= 0.5);
+    expect(sureBefore.length).toBeGreaterThan(0);
+    const blamed = unsure.questions.join(' ').match(/disagree for ([^(]*)\(/)?.[1] ?? '';
+    for (const t of sureBefore) expect(blamed).not.toContain(`"${t.id}"`);
     // The other curves keep their confidence.
     for (const t of unsure.takeoff.traces.filter((k) => k.diameter !== value)) {
       const before = plain.takeoff.traces.find((k) => k.id === t.id);

@@ -51,6 +51,8 @@ export interface RasterCurve {
   /** How the value was found. */
   named?: 'label' | 'given' | 'end flow' | 'traced end';
   confidence: number;
+  /** True when the curve is unsure only because the label of its value was read with little certainty (its own question says so). */
+  labelDoubt?: boolean;
 }
 
 export interface RasterCurvesFound {
@@ -427,7 +429,13 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
   if (twice.length > 0) leftOut.push(`On panel "${twice[0]!.panel.id}" two curves came out as ${twice[0]!.value}; both are left out: trace them by hand.`);
   const curvesOut = out.filter((c) => !twice.includes(c));
   // A value read from a label the reader was unsure of: every curve named after it is unsure too.
-  if (named.doubtful) for (const c of curvesOut) if (named.doubtful.has(c.value as number)) c.confidence = Math.min(0.45, c.confidence);
+  if (named.doubtful) {
+    for (const c of curvesOut) {
+      if (!named.doubtful.has(c.value as number)) continue;
+      if (c.confidence >= 0.5) c.labelDoubt = true;
+      c.confidence = Math.min(0.45, c.confidence);
+    }
+  }
   // Every value named on the head panel (or given) should have its curve on each other panel
   // found: what has none is said, so that a curve missing is never missing in silence.
   const known = [...new Set([...named.values.values(), ...(options.given && options.given.family === named.family ? options.given.values : [])])].sort((a, b) => b - a);

@@ -64,6 +64,8 @@ export async function detectRasterTakeoff(input: TakeoffToDetect, raw: Record<st
     return Number(fromSI(toSI(v, parseUnit('diameter', curves.labelUnit)), diameterUnit).toPrecision(10));
   };
   const ids = new Set(traces.map((t) => t.id));
+  /** Traces unsure only for the label of their value, which its own question names. */
+  const labelDoubt = new Set<string>();
   for (const c of curves.curves) {
     const panel = panelIds.get(c.panel);
     if (!panel || c.value === undefined) continue;
@@ -74,6 +76,7 @@ export async function detectRasterTakeoff(input: TakeoffToDetect, raw: Record<st
     let id = base;
     for (let k = 2; ids.has(id); k++) id = `${base}-${k}`;
     ids.add(id);
+    if (c.labelDoubt) labelDoubt.add(id);
     traces.push({
       id,
       origin: 'detected',
@@ -88,15 +91,16 @@ export async function detectRasterTakeoff(input: TakeoffToDetect, raw: Record<st
   // What was left out or is unsure, said once: one question for the curves of the sheet.
   const unsure = traces.filter((t) => t.origin === 'detected' && (t.confidence ?? 1) < 0.5);
   const look = [...curves.leftOut];
-  if (unsure.length > 0) {
-    const curvesUnsure = unsure.filter((t) => t.iso === undefined);
+  const saidAlready = (t: (typeof unsure)[number]) => t.id !== undefined && labelDoubt.has(t.id);
+  if (unsure.some((t) => !saidAlready(t))) {
+    const curvesUnsure = unsure.filter((t) => t.iso === undefined && !saidAlready(t));
     const isoUnsure = unsure.filter((t) => t.iso !== undefined);
     const list = (ts: typeof unsure) => ts.map((t) => `"${t.id}"`).join(', ');
     const why = [
       ...(curvesUnsure.length > 0 ? [`the tracer's line and the line found disagree for ${list(curvesUnsure)}`] : []),
       ...(isoUnsure.length > 0 ? [`the iso level${isoUnsure.length === 1 ? '' : 's'} of ${list(isoUnsure)} ${isoUnsure.length === 1 ? 'was' : 'were'} not read on both branches of ${isoUnsure.length === 1 ? 'its' : 'their'} level, or came from the order of the lines`] : []),
     ];
-    look.push(`${why.join('; ').replace(/^./, (c) => c.toUpperCase())} (confidence under 0.5); look at ${unsure.length === 1 ? 'it' : 'them'} on the sheet before using the curve set.`);
+    look.push(`${why.join('; ').replace(/^./, (c) => c.toUpperCase())} (confidence under 0.5); look at ${curvesUnsure.length + isoUnsure.length === 1 ? 'it' : 'them'} on the sheet before using the curve set.`);
   }
   if (look.length > 0) questions.push(look.length === 1 ? (look[0] as string) : `Some curves need you: ${look.map((k, i) => `(${i + 1}) ${k}`).join(' ')}`);
   if (traces.length === 0) {
