@@ -43,9 +43,11 @@ export function membershipAt(image: RasterImage, model: InkModel, x: number, y: 
 
 /** Bilinear membership from the four pixels at byte `a` (top left), `a + 4`, `a + row`, `a + row + 4`. */
 function membershipInside(data: Uint8ClampedArray, model: InkModel, a: number, row: number, fx: number, fy: number): number {
-  const b = a + 4;
-  const c = a + row;
-  const d = c + 4;
+  return blendedMembership(data, model, a, a + 4, a + row, a + row + 4, fx, fy);
+}
+
+/** Membership of the colour blended from the pixels at bytes a (top left), b (top right), c (bottom left), d (bottom right) with the fractions fx, fy. */
+function blendedMembership(data: Uint8ClampedArray, model: InkModel, a: number, b: number, c: number, d: number, fx: number, fy: number): number {
   const w00 = (1 - fx) * (1 - fy);
   const w10 = fx * (1 - fy);
   const w01 = (1 - fx) * fy;
@@ -74,15 +76,8 @@ function membershipAtEdge(image: RasterImage, model: InkModel, u: number, v: num
   const b = (j0 * width + i1) * 4;
   const c = (j1 * width + i0) * 4;
   const d = (j1 * width + i1) * 4;
-  const w00 = (1 - fx) * (1 - fy);
-  const w10 = fx * (1 - fy);
-  const w01 = (1 - fx) * fy;
-  const w11 = fx * fy;
-  const r = w00 * (data[a] as number) + w10 * (data[b] as number) + w01 * (data[c] as number) + w11 * (data[d] as number);
-  const g = w00 * (data[a + 1] as number) + w10 * (data[b + 1] as number) + w01 * (data[c + 1] as number) + w11 * (data[d + 1] as number);
-  const bl = w00 * (data[a + 2] as number) + w10 * (data[b + 2] as number) + w01 * (data[c + 2] as number) + w11 * (data[d + 2] as number);
   if (counter) counter.reads += 4;
-  return membership(model, r, g, bl);
+  return blendedMembership(data, model, a, b, c, d, fx, fy);
 }
 
 /**
