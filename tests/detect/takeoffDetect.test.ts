@@ -63,6 +63,8 @@ describe('pumpscribe takeoff --detect', () => {
     const run = pumpscribe('takeoff', file, '--detect', '-o', join(dir, 'speed.curveset.json'), '--save-points', '-q');
     expect(run.code).toBe(1);
     expect(run.stderr).toMatch(/^Question: The sheet prints 1780 rpm \(".*1780 rpm.*"\), but the speed given is 1750 rpm; check the pump's speed/m);
+    // How to answer on the command line is said once, after the questions (they are the workbench's too).
+    expect(run.stderr.match(/^To answer: .*--detect again\.$/gm)).toHaveLength(1);
     expect(parseTakeoff(JSON.parse(readFileSync(file, 'utf8'))).detected?.questions.some((q) => /The sheet prints 1780 rpm/.test(q))).toBe(true);
   });
 

@@ -116,6 +116,10 @@ describe('the questions of the detector', () => {
     // Questions that ask for work by hand take no typed answer.
     expect(answerKind('Some curves need you: (1) 1 of the 3 lines on panel "head" that start neither at the flow axis nor at the bottom (iso-lines, or pieces of a curve the finder broke) has no level (no "%" label read on it, and the order of the lines does not tell it) (levels read: 64 %, 68 %); it is left out, and the levels of the others are unsure (their efficiency rests on part of the crossings): look at them; trace what is missing by hand with its level. (2) A power curve on panel "power" ending at 113.3 m3/h does not end where exactly one head curve ends (nearest: the 345 head curve, ending at 166.2 m3/h); it is left out: trace it by hand with its diameter.')).toBe('none');
     expect(answerKind('The frame at [10, 20, 300, 400] could not be calibrated from its tick labels; place its anchors by hand.')).toBe('none');
+    // The flow unit is set with the sheet's units, not typed as diameters.
+    expect(answerKind('The flow titles "Flow Q (mam)" of panel "head", "Flow Q (m3/m)" of panel "power" name a unit this tool does not know; the take-off\'s flow unit m3/h is used. Is that the sheet\'s?')).toBe('none');
+    // A doubted label is answered with the values the sheet prints.
+    expect(answerKind('The label "328 mm" at [332, 407] (59 of 100) was read with little certainty; its head curve and the curves named after it are proposed unsure. Is 328 what the sheet prints?')).toBe('labels');
     expect(answerKind('The efficiency read from the iso-lines of panel "head" is left out until every iso-line there has its level; answer the questions about them, or trace them by hand.')).toBe('none');
     expect(answerKind('The head curve ending at [400, 300] has no label and ends at no head curve\'s flow; which diameter is it?')).toBe('labels');
     expect(readLevels('60 70, 75%')).toEqual([60, 70, 75]);

@@ -77,6 +77,8 @@ async function takeoff(file: string, o: TakeoffOptions): Promise<number> {
       if (speedDisagrees(detected.speedRead.rpm, parsed.pump.speed_rpm)) detected.questions.push(speedMismatchSentence(detected.speedRead, parsed.pump.speed_rpm));
     }
     for (const q of detected?.questions ?? []) process.stderr.write(`Question: ${q}\n`);
+    // The questions are the detector's, shared with the workbench; how to answer them here is said once.
+    if (detected && detected.questions.length > 0) process.stderr.write('To answer: give the values asked for in the take-off file ("diameters", "speeds" or "iso_levels"), or the panels and traces by hand, and run the take-off with --detect again.\n');
     parsed = parsed as Takeoff;
     progress.step(`capturing ${parsed.traces.length} trace${parsed.traces.length === 1 ? '' : 's'}, fitting and checking`);
     const result = await replayTakeoff(parsed, sheet, { takeoffName: isStdio(file) ? 'standard input' : basename(file), sheetFile: basename(sheetPath), useCaptured: o.useCaptured ?? false, fullResolution: o.fullResolution ?? false });

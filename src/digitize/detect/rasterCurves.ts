@@ -971,7 +971,7 @@ async function nameHeads(
   questions.push(
     crossing
       ? `The ${heads.length} head curves found cross one another, so their order does not name them; give each curve's diameter by tracing it (labels read, top to bottom: ${readList}).`
-      : `The ${heads.length} head curves found (top to bottom at ${order.map(where).join(', ')}) could not all be named from the labels read (${readList})${givenValues ? ` nor from the ${givenValues.length} values given` : ''}; give the diameters (or speeds) drawn in the take-off ("diameters" or "speeds"), and run --detect again.`,
+      : `The ${heads.length} head curves found (top to bottom at ${order.map(where).join(', ')}) could not all be named from the labels read (${readList})${givenValues ? ` nor from the ${givenValues.length} values given` : ''}; give the diameters (or speeds) drawn, largest first.`,
   );
   return { values, unit, family };
 }
