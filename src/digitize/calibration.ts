@@ -24,6 +24,7 @@ import { dataPoint, sheetPoint, type DataPoint, type SheetPoint, type SheetCoord
 import { axisTransform, CalibrationError, type AxisTransform } from './axis.ts';
 import type { AxisScaleType } from '../model/takeoff.ts';
 import { applyHomography, fitHomography, invertHomography, threeOnALine, type H9 } from './homography.ts';
+import { principalAxis } from './polyline.ts';
 
 export { CalibrationError } from './axis.ts';
 
@@ -626,24 +627,13 @@ function spreadRatio(points: readonly (readonly [number, number])[]): number {
 }
 
 function covariance(points: readonly (readonly [number, number])[]): [number, number, number] {
-  const n = points.length;
-  const mx = points.reduce((s, p) => s + p[0], 0) / n;
-  const my = points.reduce((s, p) => s + p[1], 0) / n;
-  let sxx = 0;
-  let sxy = 0;
-  let syy = 0;
-  for (const p of points) {
-    sxx += (p[0] - mx) ** 2;
-    sxy += (p[0] - mx) * (p[1] - my);
-    syy += (p[1] - my) ** 2;
-  }
+  const { sxx, sxy, syy } = principalAxis(points);
   return [sxx, sxy, syy];
 }
 
 /** Unit vector along the points' main direction (from the first point's side to the last's). */
 function principalDirection(points: readonly (readonly [number, number])[]): [number, number] {
-  const [sxx, sxy, syy] = covariance(points);
-  const angle = 0.5 * Math.atan2(2 * sxy, sxx - syy);
+  const { angle } = principalAxis(points);
   let d: [number, number] = [Math.cos(angle), Math.sin(angle)];
   const first = points[0] as readonly [number, number];
   const last = points[points.length - 1] as readonly [number, number];

@@ -7,6 +7,26 @@ import { sheetPoint, type SheetPoint } from './points.ts';
 
 type XY = readonly [number, number];
 
+/**
+ * The points' centre, second moments about it and principal axis: the direction of the straight
+ * line through them by total least squares, angle = ½·atan2(2·sxy, sxx − syy), radians from the
+ * x axis in (−π/2, π/2].
+ */
+export function principalAxis(points: readonly XY[]): { centre: [number, number]; sxx: number; sxy: number; syy: number; angle: number } {
+  const n = points.length;
+  const mx = points.reduce((s, p) => s + p[0], 0) / n;
+  const my = points.reduce((s, p) => s + p[1], 0) / n;
+  let sxx = 0;
+  let sxy = 0;
+  let syy = 0;
+  for (const p of points) {
+    sxx += (p[0] - mx) ** 2;
+    sxy += (p[0] - mx) * (p[1] - my);
+    syy += (p[1] - my) ** 2;
+  }
+  return { centre: [mx, my], sxx, sxy, syy, angle: 0.5 * Math.atan2(2 * sxy, sxx - syy) };
+}
+
 /** A position on a polyline: segment index i (from point i to i+1) and fraction t along it. */
 export interface PolylinePosition {
   readonly segment: number;

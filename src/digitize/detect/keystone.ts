@@ -32,6 +32,7 @@
  */
 import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
 import { applyHomography, invertHomography, multiplyHomography, type H9 } from '../homography.ts';
+import { principalAxis } from '../polyline.ts';
 import { dominantAngle, levelInk, type InkMap, type Level } from './ink.ts';
 import { horizontalRules, transpose, verticalRules, type Rule } from './rasterFrames.ts';
 
@@ -152,7 +153,7 @@ function vanishingPoint(samples: readonly LineSample[], cx: number, cy: number, 
   return { v: fit(kept), kept };
 }
 
-/** What the keystone measurement found: the vanishing points (normalised coordinates) and how far the directions spread across the page. */
+/** What the keystone measurement found: the squaring homography, how far the directions spread across the page, and what it rests on. */
 export interface Keystone {
   /** The homography from the level map's pixels to the squared page's (same size, same centre). */
   square: H9;
@@ -258,18 +259,10 @@ export function ruleSamples(map: InkMap, rules: readonly Rule[], family: 'level'
 /** A straight line through points by total least squares, refitted without the points more than 1 px off; null when fewer than 20 points hold or they are not straight (RMS over 0.5 px). */
 function straightLine(points: readonly [number, number][]): { x: number; y: number; angle: number } | null {
   const fit = (list: readonly [number, number][]) => {
-    const n = list.length;
-    const mx = list.reduce((t, p) => t + p[0], 0) / n;
-    const my = list.reduce((t, p) => t + p[1], 0) / n;
-    let sxx = 0;
-    let syy = 0;
-    let sxy = 0;
-    for (const [x, y] of list) {
-      sxx += (x - mx) ** 2;
-      syy += (y - my) ** 2;
-      sxy += (x - mx) * (y - my);
-    }
-    const angle = 0.5 * Math.atan2(2 * sxy, sxx - syy);
+    const {
+      centre: [mx, my],
+      angle,
+    } = principalAxis(list);
     const off = (p: readonly [number, number]) => Math.abs(-(p[0] - mx) * Math.sin(angle) + (p[1] - my) * Math.cos(angle));
     return { x: mx, y: my, angle, off };
   };
