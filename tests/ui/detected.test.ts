@@ -118,6 +118,8 @@ describe('the questions of the detector', () => {
     expect(answerKind('The frame at [10, 20, 300, 400] could not be calibrated from its tick labels; place its anchors by hand.')).toBe('none');
     // The flow unit is set with the sheet's units, not typed as diameters.
     expect(answerKind('The flow titles "Flow Q (mam)" of panel "head", "Flow Q (m3/m)" of panel "power" name a unit this tool does not know; the take-off\'s flow unit m3/h is used. Is that the sheet\'s?')).toBe('none');
+    // What a panel plots is set on the panel, not typed as diameters.
+    expect(answerKind('What does the panel at [183, 256, 1600, 889] plot (its left axis title was not read)? Set its quantity (head, efficiency, power or NPSHr) on the panel.')).toBe('none');
     // A doubted label is answered with the values the sheet prints.
     expect(answerKind('The label "328 mm" at [332, 407] (59 of 100) was read with little certainty; its head curve and the curves named after it are proposed unsure. Is 328 what the sheet prints?')).toBe('labels');
     expect(answerKind('The efficiency read from the iso-lines of panel "head" is left out until every iso-line there has its level; answer the questions about them, or trace them by hand.')).toBe('none');

@@ -153,7 +153,7 @@ export function findPanels(text: readonly SheetText[], paths: readonly VectorPat
     }
     if (!quantity) {
       confidence *= 0.5;
-      questions.push(`What does the panel at [${c.frame.map((v) => v.toFixed(0)).join(', ')}] plot (its ${c.side} axis title was not read)? Set its quantity in the take-off.`);
+      questions.push(`What does the panel at [${c.frame.map((v) => v.toFixed(0)).join(', ')}] plot (its ${c.side} axis title was not read)? Set its quantity (head, efficiency, power or NPSHr) on the panel.`);
     }
     panels.push({
       id,

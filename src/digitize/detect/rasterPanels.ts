@@ -342,7 +342,7 @@ export async function findRasterPanels(image: RasterImage, reader: TextReader, p
     }
     if (!quantity) {
       confidence *= 0.5;
-      questions.push(`What does the panel at ${where} plot (its ${s.side} axis title was ${title ? `read as "${title}"` : 'not read'})? Set its quantity in the take-off.`);
+      questions.push(`What does the panel at ${where} plot (its ${s.side} axis title was ${title ? `read as "${title}"` : 'not read'})? Set its quantity (head, efficiency, power or NPSHr) on the panel.`);
     }
     const panel: FoundPanel = {
       id,

@@ -122,8 +122,8 @@ export type AnswerKind = 'labels' | 'iso' | 'none';
 
 export function answerKind(question: string): AnswerKind {
   if (/by hand|place its anchors|look at (it|them)/i.test(question) && !/\b(give|which)\b|\?/i.test(question)) return 'none';
-  // The flow unit is set with the units of step 2, not typed as values.
-  if (/flow unit/i.test(question) && !/diameters|speeds|iso/i.test(question)) return 'none';
+  // The flow unit is set with the units of step 2, and what a panel plots with the panel tools, not typed as values.
+  if (/flow unit|^What does the panel/i.test(question) && !/diameters|speeds|iso/i.test(question)) return 'none';
   return /iso[-_ ]?(line|level)/i.test(question) ? 'iso' : 'labels';
 }
 
