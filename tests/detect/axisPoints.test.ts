@@ -25,6 +25,17 @@ describe('tick labels with a lost decimal point', () => {
     expect(pointsRestored(labels(['0.0', '0.25', '50', '75']))).toBeNull();
   });
 
+  it('restores the points where two labels print one and the axis needs an odd label without them', () => {
+    // "0.0 25 5.0 75": read as printed, 0, 25, 75 make an axis with "5.0" odd; restored, every label fits.
+    const axis = readAxis(labels(['0.0', '25', '5.0', '75']));
+    expect(axis!.inliers.map((l) => l.value)).toEqual([0, 2.5, 5, 7.5]);
+    expect(axis!.outliers).toEqual([]);
+    // One label with a point is not enough to overrule the others: "5.0" stays the odd one.
+    const one = readAxis(labels(['0', '25', '5.0', '75']));
+    expect(one!.inliers.map((l) => l.value)).toEqual([0, 25, 75]);
+    expect(one!.outliers.map((l) => l.text)).toEqual(['5.0']);
+  });
+
   it('keeps an axis that reads right as it is', () => {
     const axis = readAxis(labels(['0', '25', '50', '75', '100']));
     expect(axis!.inliers.map((l) => l.value)).toEqual([0, 25, 50, 75, 100]);

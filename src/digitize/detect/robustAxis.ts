@@ -101,6 +101,14 @@ function roundedConsensus(labels: readonly TickLabel[]): { inliers: TickLabel[];
  */
 export function readAxis(list: readonly TickLabel[]): { inliers: TickLabel[]; outliers: TickLabel[]; rounded: TickLabel[] } | null {
   const c = consensus(list);
+  // An axis read whole only with an odd label out, where two or more labels print a decimal point
+  // and restoring the points lost on the others puts every label on it ("0.0 25 5.0 75": 0, 2.5,
+  // 5, 7.5, not 0, 25, 75 with "5.0" odd): two printed points outweigh one odd label.
+  if (c && c.outliers.length > 0 && list.filter((l) => /^-?\d+[.,]\d+$/.test(l.text.trim())).length >= 2) {
+    const restored = pointsRestored(list);
+    const p = restored ? consensus(restored) : null;
+    if (p && p.outliers.length === 0) return { ...p, rounded: [] };
+  }
   if (c) return { ...c, rounded: [] };
   const r = roundedConsensus(list);
   if (r) return { inliers: r.inliers, outliers: [], rounded: r.rounded };
