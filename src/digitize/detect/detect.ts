@@ -27,6 +27,8 @@ export interface Detection {
   panels: FoundPanel[];
   curves: FoundCurve[];
   labelled: Labelled[];
+  /** Lines labelled as the minimum continuous flow, kept as limit traces. */
+  minFlow: FoundCurve[];
   family: 'diameter' | 'speed';
   /** Unit of the curve labels ('mm', 'in', 'rpm'), null when none was read. */
   labelUnit: string | null;
@@ -36,14 +38,15 @@ export interface Detection {
 }
 
 /** Everything the detector finds on a vector page. */
-export function detectSheet(text: readonly SheetText[], paths: readonly VectorPath[], given?: GivenValues, isoLevels?: readonly number[]): Detection {
+export function detectSheet(text: readonly SheetText[], paths: readonly VectorPath[], given?: GivenValues, isoLevels?: readonly number[], ratedRpm?: number): Detection {
   const found = findPanels(text, paths);
   const { curves, questions: curveQuestions } = sortCurves(found.panels, sheetLines(paths));
-  const labels = assignLabels(curves, text, given, isoLevels);
+  const labels = assignLabels(curves, text, given, isoLevels, ratedRpm);
   return {
     panels: found.panels,
     curves,
     labelled: labels.labelled,
+    minFlow: labels.minFlow,
     family: labels.family,
     labelUnit: labels.unit,
     droppedProposals: found.dropped,
@@ -164,7 +167,7 @@ export async function detectTakeoff(input: TakeoffToDetect, raw: Record<string, 
     throw new TakeoffError(`The automatic take-off reads scans only with a character reader, and this sheet is ${sheet.kind === 'image' ? 'an image' : 'a scanned PDF page'}; give the panels and traces in the take-off file.`);
   }
   const text = await sheet.text();
-  const detection = detectSheet(text, await sheet.paths(), givenValues(input), input.iso_levels);
+  const detection = detectSheet(text, await sheet.paths(), givenValues(input), input.iso_levels, input.pump.speed_rpm);
   const speedRead = speedOfTextItems(text.map((t) => t.text));
   const questions = [...detection.questions];
   const unitSlip = givenUnitQuestion(detection.labelUnit, input);
@@ -191,7 +194,7 @@ export async function detectTakeoff(input: TakeoffToDetect, raw: Record<string, 
   // Efficiency from iso-lines needs every iso-line of the panel: levels missing on some lines
   // would leave the curves resting on part of their crossings, so the panel's iso-lines wait.
   const isoWaiting = new Set<FoundPanel>();
-  for (const c of detection.curves) if (c.kind === 'iso' && !detection.labelled.some((l) => l.curve === c)) isoWaiting.add(c.panel);
+  for (const c of detection.curves) if (c.kind === 'iso' && !detection.minFlow.includes(c) && !detection.labelled.some((l) => l.curve === c)) isoWaiting.add(c.panel);
   for (const p of isoWaiting) questions.push(`The efficiency read from the iso-lines of panel "${p.id}" is left out until every iso-line there has its level; answer the questions about them, or trace them by hand.`);
   const traces: NonNullable<TakeoffToDetect['traces']> = [...userTraces];
   const ids = new Set(traces.map((t) => t.id));
@@ -216,7 +219,16 @@ export async function detectTakeoff(input: TakeoffToDetect, raw: Record<string, 
       method: 'vector',
     });
   }
-  if (!traces.some((t) => t.iso === undefined)) {
+  // The minimum-flow line, once per panel, unless the engineer traced it.
+  for (const c of detection.minFlow) {
+    const panel = panelIds.get(c.panel);
+    if (!panel || traces.some((t) => t.limit === 'min-flow' && t.panel === panel)) continue;
+    let id = 'min-flow';
+    for (let k = 2; ids.has(id); k++) id = `min-flow-${k}`;
+    ids.add(id);
+    traces.push({ id, origin: 'detected', confidence: 0.9, panel, quantity: 'head', limit: 'min-flow', captured: c.points.map((p) => [r4(p[0]), r4(p[1])] as [number, number]), captured_by: 'vector', method: 'vector' });
+  }
+  if (!traces.some((t) => t.iso === undefined && t.limit === undefined)) {
     const why = questions.length > 0 ? ` It asks: ${questions.join(' ')}` : '';
     throw new TakeoffError(`The automatic take-off found no curve whose diameter or speed it could name on page ${input.page} (${detection.panels.length} panels, ${detection.curves.length} lines).${why}`);
   }

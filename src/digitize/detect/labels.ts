@@ -17,7 +17,7 @@ import type { SheetPoint } from '../points.ts';
 import type { SheetText } from '../sheet.ts';
 import type { FoundCurve } from './curves.ts';
 import { yAt } from './curves.ts';
-import { curveLabel, isoLabel, type CurveLabel } from './words.ts';
+import { curveLabel, isoLabel, minFlowLabel, speedShareLabel, type CurveLabel } from './words.ts';
 import { inferIsoLevels, levelsByOrder } from './isoLevels.ts';
 
 export interface Labelled {
@@ -33,10 +33,12 @@ export interface LabelResult {
   family: 'diameter' | 'speed';
   /** Unit of the curve labels ('mm', 'in' or 'rpm'), null when none was read. */
   unit: CurveLabel['unit'] | null;
+  /** Lines across the curves labelled as the minimum continuous flow ("min. flow"): limits, not iso-lines. */
+  minFlow: FoundCurve[];
   questions: string[];
 }
 
-interface PlacedLabel {
+export interface PlacedLabel {
   value: number;
   text: string;
   centre: SheetPoint;
@@ -83,16 +85,55 @@ export interface GivenValues {
   unit: CurveLabel['unit'];
 }
 
-export function assignLabels(curves: readonly FoundCurve[], text: readonly SheetText[], given?: GivenValues, isoGiven?: readonly number[]): LabelResult {
+/**
+ * Speeds printed as shares of the rated speed ("100 %", "90 %", "80 %" beside the curves of a
+ * speed family). A "%" label is a speed only when it stands by a curve rather than on an
+ * iso-line, the sheet prints no other curve label, and one of them reads 100 %: no pump is 100 %
+ * efficient, so a 100 % label can only be the rated speed. Each becomes its speed in rpm from the
+ * rated speed of the take-off (`pump.speed_rpm`). Without a 100 % label the "%" labels stay iso
+ * levels, and the curves unnamed are asked for as usual.
+ */
+export function speedShares(
+  shares: readonly { label: PlacedLabel; share: number }[],
+  curves: readonly FoundCurve[],
+  ratedRpm: number | undefined,
+): { label: PlacedLabel; parsed: CurveLabel }[] {
+  if (ratedRpm === undefined || !(ratedRpm > 0)) return [];
+  const plain = curves.filter((c) => c.kind === 'curve');
+  const isos = curves.filter((c) => c.kind === 'iso');
+  const byCurve = shares.filter(({ label }) => {
+    const { curve } = nearest(label, plain);
+    if (!curve) return false;
+    const onIso = Math.min(Infinity, ...isos.map((c) => distanceToPolyline(c.points, label.centre)));
+    return reach(label, curve) + 0.4 * label.size < onIso;
+  });
+  if (!byCurve.some((s) => Math.abs(s.share - 100) < 1e-9)) return [];
+  return byCurve.map(({ label, share }) => {
+    const rpm = (share / 100) * ratedRpm;
+    return { label: { ...label, value: rpm }, parsed: { kind: 'speed', value: rpm, unit: 'rpm' } };
+  });
+}
+
+export function assignLabels(curves: readonly FoundCurve[], text: readonly SheetText[], given?: GivenValues, isoGiven?: readonly number[], ratedRpm?: number): LabelResult {
   const questions: string[] = [];
   const curveLabels: { label: PlacedLabel; parsed: CurveLabel }[] = [];
-  const isoLabels: PlacedLabel[] = [];
+  let isoLabels: PlacedLabel[] = [];
+  const shares: { label: PlacedLabel; share: number }[] = [];
+  const minFlowLabels: PlacedLabel[] = [];
   for (const t of text) {
     if (!level(t)) continue;
+    if (minFlowLabel(t.text)) minFlowLabels.push(place(t, NaN));
     const parsed = curveLabel(t.text);
     if (parsed) curveLabels.push({ label: place(t, parsed.value), parsed });
     const iso = isoLabel(t.text);
     if (iso !== null) isoLabels.push(place(t, iso));
+    const share = speedShareLabel(t.text);
+    if (share !== null) shares.push({ label: place(t, share), share });
+  }
+  if (curveLabels.length === 0) {
+    const speeds = speedShares(shares, curves, ratedRpm);
+    curveLabels.push(...speeds);
+    isoLabels = isoLabels.filter((l) => !speeds.some((k) => k.label.centre[0] === l.centre[0] && k.label.centre[1] === l.centre[1]));
   }
   // One family per sheet: the kind and unit most labels use.
   const kinds = new Map<string, number>();
@@ -200,8 +241,14 @@ export function assignLabels(curves: readonly FoundCurve[], text: readonly Sheet
     questions.push(`The label "${label.text}" stands about as near to ${candidates.length} curves (${candidates.map(describe).join(', ')}); which one does it name?`);
   }
 
+  // A line across the head curves labelled "min. flow" is the minimum-flow limit, not an iso-line.
+  const minFlow = new Set<FoundCurve>();
+  for (const label of minFlowLabels) {
+    const { curve } = nearest(label, curves.filter((c) => c.kind === 'iso'));
+    if (curve) minFlow.add(curve);
+  }
   // Iso-lines: the "%" label on the line.
-  const isos = curves.filter((c) => c.kind === 'iso');
+  const isos = curves.filter((c) => c.kind === 'iso' && !minFlow.has(c));
   const isoValues = new Map<FoundCurve, Set<number>>();
   for (const label of isoLabels) {
     const { curve, candidates } = nearest(label, isos);
@@ -235,7 +282,7 @@ export function assignLabels(curves: readonly FoundCurve[], text: readonly Sheet
       questions.push(`${open.length} iso-line${open.length === 1 ? '' : 's'} on panel "${panel.id}" (starting at ${where}) carr${open.length === 1 ? 'ies' : 'y'} no "%" label, and the level does not follow from ${read.length ? `the levels read (${read.join(', ')} %)` : 'any level read'}; give every level drawn as "iso_levels" in the take-off file, or trace ${open.length === 1 ? 'it' : 'them'} by hand.`);
     }
   }
-  return { labelled: [...labelled.values()], family, unit, questions };
+  return { labelled: [...labelled.values()], family, unit, minFlow: [...minFlow], questions };
 }
 
 function spanOf(panel: FoundCurve['panel']): number {

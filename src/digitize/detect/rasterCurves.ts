@@ -28,7 +28,7 @@ import { alonePlaces, continuesCourse, frameLines, liesAlong, offCourse, trackAt
 import { distanceToTrack, headPieces, isoLevelsOnScan, isoPiecesAcross, steepLines, transposeBox, wordsOnIsoLines, type FrameWord } from './rasterIso.ts';
 import type { RasterPanelsFound } from './rasterPanels.ts';
 import { inkBlots, labelPicture, readCrops, wordsOf, type Blot, type TextReader } from './rasterText.ts';
-import { curveLabel, isoLabel, SHEET_NUMBER, sheetNumber } from './words.ts';
+import { curveLabel, isoLabel, SHEET_NUMBER, sheetNumber, speedShareLabel } from './words.ts';
 
 
 export interface RasterCurve {
@@ -71,6 +71,8 @@ export interface RasterCurvesFound {
 export interface RasterCurveOptions {
   /** Values the engineer gave (the take-off's diameters or speeds), used when no label is read. */
   given?: { family: 'diameter' | 'speed'; values: readonly number[] };
+  /** The rated speed of the take-off (pump.speed_rpm), rpm: a speed family labelled "100 %", "90 %" … is named from it. */
+  ratedRpm?: number;
   /** Receives lines about what was read (the dump scripts print them). */
   note?: (line: string) => void;
   /** Progress within this step, 0–1 with what is being done (lines found per frame, lines followed, labels read). */
@@ -302,7 +304,7 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
   if (onHeads.size > 0) options.note?.(`${onHeads.size} line${onHeads.size === 1 ? '' : 's'} sorted as iso-line${onHeads.size === 1 ? '' : 's'} lying along a head curve's tracer's line: piece${onHeads.size === 1 ? '' : 's'} of it, dropped`);
   const isos = sortedIso.filter((c) => !onHeads.has(c));
   options.progress?.(0.85, 'reading the curve labels');
-  const named = await nameHeads(heads, labelsAt, page.strong, reader, image, map, level, image.scale, options.given, questions, leftOut, options.note);
+  const named = await nameHeads(heads, labelsAt, page.strong, reader, image, map, level, image.scale, options.given, options.ratedRpm, questions, leftOut, options.note);
   // The iso-lines' levels, from the "%" labels on them (rasterIso.ts).
   const isoNamed: RasterCurve[] = [];
   // A line the tracer could not follow is left out, said once; the levels of the others are then unsure.
@@ -757,6 +759,7 @@ async function nameHeads(
   level: Level,
   scale: number,
   given: RasterCurveOptions['given'],
+  ratedRpm: number | undefined,
   questions: string[],
   leftOut: string[],
   note: (line: string) => void = () => undefined,
@@ -856,10 +859,23 @@ async function nameHeads(
   };
   let frameUnit = unitOf(readings);
   const near = words.map((w) => nearestHead(w.word));
+  // A speed family labelled in shares of the rated speed ("100 %", "90 %" …, labels.ts
+  // speedShares): only when a "100 %" stands by a head curve (no pump is 100 % efficient, so it
+  // is no iso level) and the rated speed is known. The shares then name speeds in rpm.
+  const shareOf = (r: LabelReading): number | null => {
+    const share = speedShareLabel(r.text.replace(/^[\s,.;:_\-–—'`~|]+|[\s,.;:_\-–—'`~|]+$/g, ''));
+    const digits = /\d+(?:[.,]\d+)?/.exec(r.digits.replace(/\s+/g, ''))?.[0];
+    return share !== null && (digits === undefined || sheetNumber(digits) === share) ? share : null;
+  };
+  const byShares =
+    ratedRpm !== undefined && ratedRpm > 0 && frameUnit === null &&
+    words.some((w, i) => shareOf(readings[i] as LabelReading) === 100 && (near[i] as { d: number }).d <= 1.5 * (w.word.b - w.word.t));
+  if (byShares) note(`a "100 %" label stands by a head curve: the "%" labels by the head curves are taken as shares of the rated ${ratedRpm} rpm`);
   const take = (w: { word: Blot }, reading: LabelReading, at: { curve: RasterCurve | null; d: number }, again: boolean) => {
     if (reading.text === '' && reading.digits === '') return; // a unit word joined to its number
-    const label = scanLabelOf(reading.text);
-    const candidates = labelCandidates(reading.text, reading.digits, frameUnit);
+    const share = byShares ? shareOf(reading) : null;
+    const label = share !== null ? { value: (share / 100) * (ratedRpm as number), unit: 'rpm' as const } : scanLabelOf(reading.text);
+    const candidates = share !== null ? [label!.value] : labelCandidates(reading.text, reading.digits, frameUnit);
     const hgt = w.word.b - w.word.t;
     note(`${again ? 'read again: ' : ''}word at [${w.word.l}, ${w.word.t}, ${w.word.r}, ${w.word.b}] read "${reading.text}" / "${reading.digits}" → ${candidates.join(' or ') || 'no label'}; nearest head curve ${at.curve ? order.indexOf(at.curve) : '-'} (top to bottom) at ${at.d.toFixed(1)} px (text height ${hgt})`);
     if (candidates.length === 0) return;

@@ -38,7 +38,7 @@ export async function detectRasterTakeoff(input: TakeoffToDetect, raw: Record<st
   const speedRead = await readSheetSpeed(found, reader);
   progress(0.6, 'finding the curves');
   const given = givenValues(input);
-  const curves = await findRasterCurves(image, found, reader, { ...(given ? { given: { family: given.family, values: given.values } } : {}), progress: (f, what) => progress(0.6 + 0.35 * f, what) });
+  const curves = await findRasterCurves(image, found, reader, { ...(given ? { given: { family: given.family, values: given.values } } : {}), ratedRpm: input.pump.speed_rpm, progress: (f, what) => progress(0.6 + 0.35 * f, what) });
   progress(0.95, 'writing the take-off');
   const questions = [...found.questions, ...curves.questions];
   const unitSlip = givenUnitQuestion(curves.labelUnit, input);
@@ -46,7 +46,7 @@ export async function detectRasterTakeoff(input: TakeoffToDetect, raw: Record<st
   const userPanels = (input.panels ?? []).filter((p) => p.origin !== 'detected');
   // Every found panel is kept: the engineer's traces may rest on one where no curve was found.
   const { panels, panelIds } = takeoffPanels(found.panels, userPanels, input.units, questions);
-  const detection: Detection = { panels: found.panels, curves: [], labelled: [], family: curves.family, labelUnit: curves.labelUnit, droppedProposals: 0, questions };
+  const detection: Detection = { panels: found.panels, curves: [], labelled: [], minFlow: [], family: curves.family, labelUnit: curves.labelUnit, droppedProposals: 0, questions };
   const named = panels.filter((p) => p.origin === 'detected').map((p) => p.id);
   const all = (input.traces ?? []).filter((t) => t.origin !== 'detected');
   // A trace on a panel neither given nor found waits, with a question, rather than failing the rest.

@@ -59,6 +59,19 @@ export function curveLabel(text: string): CurveLabel | null {
   return null;
 }
 
+/** True when a text names a minimum-continuous-flow line ("min. flow", "minimum flow", "Qmin", "min. continuous flow"). */
+export function minFlowLabel(text: string): boolean {
+  return /^(?:min(?:imum)?\.?\s*(?:cont(?:inuous|\.)?\s*)?flow|q\s*_?\s*min|mcf)\.?$/i.test(text.trim());
+}
+
+/** The share of rated speed a speed label prints ("90 %", "n = 90 %", "90 % n"), 20–120 %, or null. Whether a "%" label names a speed or an iso level is for its place on the sheet to say (labels.ts speedShares). */
+export function speedShareLabel(text: string): number | null {
+  const m = /^(?:n\s*=?\s*)?(\d{2,3}(?:[.,]\d+)?)\s*%(?:\s*n)?$/i.exec(text.trim());
+  if (!m) return null;
+  const v = sheetNumber(m[1] as string);
+  return v >= 20 && v <= 120 ? v : null;
+}
+
 /** The level of an iso-efficiency label ("75%", "75 %", "η 75 %"), or null. */
 export function isoLabel(text: string): number | null {
   const m = /^(?:η\s*=?\s*)?(\d{1,2}(?:[.,]\d+)?)\s*%$/.exec(text.trim());

@@ -136,7 +136,7 @@ const handlers: { [K in keyof Requests]: Handler<K> } = {
       // Nothing could be named: the questions still say what the detector needs to know.
       if (error instanceof ScanDetectRefused) return { result: { panels: [], traces: [], questions: [...error.questions], by: RASTER_DETECTOR, refused: error.message } };
       if (!(error instanceof TakeoffError) || scan) throw error;
-      const { questions } = detectSheet(text, paths, givenValues(input), input.iso_levels);
+      const { questions } = detectSheet(text, paths, givenValues(input), input.iso_levels, input.pump.speed_rpm);
       return { result: { panels: [], traces: [], questions, by: DETECTOR, refused: error.message } };
     } finally {
       startProgress.current = null;
