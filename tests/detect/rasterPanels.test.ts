@@ -4,6 +4,8 @@
  * panel found with its quantity and calibrated within 0.5 % of span (the issue's scan
  * tolerance), and a misread tick label turned into a question, never into a silent error.
  */
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { inkMap, levelInk, levelOf, pageAngle } from '../../src/digitize/detect/ink.ts';
 import { findRasterFrames, gridLines, horizontalRules, transpose, type Rule } from '../../src/digitize/detect/rasterFrames.ts';
@@ -203,6 +205,32 @@ describe('the flow title of a scan', () => {
     expect(knownFlowUnit('Flow Q (m3)')).toBe(false);
     expect(knownFlowUnit('Flow Q (m3/h)')).toBe(true);
     expect(knownFlowUnit('Flow Q')).toBe(false);
+  });
+});
+
+describe('the committed INVENTED sample scan with its axis titles above the frames', () => {
+  it('finds all four panels, the low NPSHr strip too, names each from the title over its corner, and takes no value title for a flow title', { timeout: 120_000 }, async () => {
+    const root = join(import.meta.dirname, '..', '..', 'samples', 'sheets');
+    const d = await decode(readFileSync(join(root, 'si-panels-colour-scan.jpg')));
+    const found = await findRasterPanels({ width: d.width, height: d.height, data: d.data, scale: 1 }, textReaderNode());
+    // "Head (m)", "Efficiency (%)", "Shaft power (kW)" and "NPSHr (m)" stand level over each frame's top left corner.
+    expect(found.panels.map((p) => p.quantity)).toEqual(['head', 'efficiency', 'power', 'npshr']);
+    expect(found.panels.map((p) => p.yUnit)).toEqual(['m', '%', 'kW', 'm']);
+    // Under the flow labels of the upper panels stands the next panel's title, which names no flow unit.
+    for (const p of found.panels.slice(0, 3)) expect(p.flowTitle).toBeNull();
+    // Each panel against the hand-placed anchors of the committed take-off: within 0.5 % of span.
+    const takeoff = JSON.parse(readFileSync(join(root, 'si-panels-colour-scan.takeoff.json'), 'utf8')) as { panels: { anchors: { at: [number, number]; x?: number; y?: number }[] }[] };
+    found.panels.forEach((p, i) => {
+      const anchors = takeoff.panels[i]!.anchors;
+      const xs = anchors.filter((a) => a.x !== undefined).map((a) => a.x as number);
+      const ys = anchors.filter((a) => a.y !== undefined).map((a) => a.y as number);
+      const [xSpan, ySpan] = [Math.max(...xs) - Math.min(...xs), Math.max(...ys) - Math.min(...ys)];
+      for (const a of anchors) {
+        const [x, y] = p.proposal.calibration.toData(a.at as never) as unknown as [number, number];
+        if (a.x !== undefined) expect((100 * Math.abs(x - a.x)) / xSpan, `${p.id} x at ${a.at}`).toBeLessThan(0.5);
+        if (a.y !== undefined) expect((100 * Math.abs(y - a.y)) / ySpan, `${p.id} y at ${a.at}`).toBeLessThan(0.5);
+      }
+    });
   });
 });
 

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { curveLabel, isFlowTitle, isoLabel, quantityOfTitle, unitOfTitle } from '../../src/digitize/detect/words.ts';
+import { curveLabel, isFlowTitle, isoLabel, minFlowLabel, quantityOfTitle, speedShareLabel, unitOfTitle } from '../../src/digitize/detect/words.ts';
+import { valueAxisTitle } from '../../src/digitize/detect/rasterPanels.ts';
 
 describe('sheet words', () => {
   it('quantityOfTitle names what an axis title plots, and nothing for the flow axis', () => {
@@ -40,5 +41,29 @@ describe('sheet words', () => {
     expect(isoLabel('82.5 %')).toBe(82.5);
     expect(isoLabel('330 mm')).toBeNull();
     expect(isoLabel('75')).toBeNull();
+  });
+  it('speedShareLabel reads a share of rated speed, and leaves diameters, speeds and odd shares alone', () => {
+    expect(speedShareLabel('100 %')).toBe(100);
+    expect(speedShareLabel('90%')).toBe(90);
+    expect(speedShareLabel('n = 80 %')).toBe(80);
+    expect(speedShareLabel('72.5 %')).toBe(72.5);
+    expect(speedShareLabel('1450 rpm')).toBeNull();
+    expect(speedShareLabel('330 mm')).toBeNull();
+    expect(speedShareLabel('5 %')).toBeNull();
+    expect(speedShareLabel('150 %')).toBeNull();
+  });
+
+  it('minFlowLabel reads the names of a minimum-flow line, and nothing else', () => {
+    for (const t of ['min. flow', 'Min flow', 'minimum flow', 'Min. continuous flow', 'Qmin', 'MCF']) expect(minFlowLabel(t), t).toBe(true);
+    for (const t of ['Flow Q (m3/h)', 'min', '75 %', 'max. flow']) expect(minFlowLabel(t), t).toBe(false);
+  });
+
+  it('valueAxisTitle tells a value axis title read under a flow axis from a flow title', () => {
+    expect(valueAxisTitle('NPSHr (m)')).toBe(true);
+    expect(valueAxisTitle('(m)')).toBe(true);
+    expect(valueAxisTitle('(kW)')).toBe(true);
+    expect(valueAxisTitle('Flow (m3/h)')).toBe(false);
+    expect(valueAxisTitle('Flow (mh)')).toBe(false);
+    expect(valueAxisTitle('')).toBe(false);
   });
 });

@@ -159,9 +159,9 @@ export function transpose(map: InkMap): InkMap {
  * be broken (a curve label's paper box drawn over it), but not where another frame ends: a
  * break with a rule of the frame's width at its top is the gap between two frames stacked.
  * A frame inside another (grid lines closing a smaller rectangle with the frame's sides) is
- * dropped; frames smaller than `minSide` are not plots.
+ * dropped; frames narrower than `minSide` or lower than `minHeight` are not plots.
  */
-export function findRasterFrames(horizontal: readonly Rule[], vertical: readonly Rule[], minSide: number, tol: number): Box[] {
+export function findRasterFrames(horizontal: readonly Rule[], vertical: readonly Rule[], minSide: number, tol: number, minHeight = minSide): Box[] {
   const frames: Box[] = [];
   const near = (a: number, b: number) => Math.abs(a - b) <= tol;
   const sideHolds = (x: number, top: Rule, bottom: Rule): boolean => {
@@ -180,7 +180,7 @@ export function findRasterFrames(horizontal: readonly Rule[], vertical: readonly
   for (const top of horizontal) {
     if (top.to - top.from < minSide) continue;
     for (const bottom of horizontal) {
-      if (bottom.at - top.at < minSide || !near(bottom.from, top.from) || !near(bottom.to, top.to)) continue;
+      if (bottom.at - top.at < minHeight || !near(bottom.from, top.from) || !near(bottom.to, top.to)) continue;
       if (!sideHolds((top.from + bottom.from) / 2, top, bottom) || !sideHolds((top.to + bottom.to) / 2, top, bottom)) continue;
       const left = centreOf(vertical, (top.from + bottom.from) / 2, tol, top.at, bottom.at);
       const right = centreOf(vertical, (top.to + bottom.to) / 2, tol, top.at, bottom.at);

@@ -49,8 +49,10 @@ interface Side {
   frame: Box;
   side: 'left' | 'right';
   labels: Word[];
-  /** Upright title crop beyond the labels, when there is ink there. */
+  /** Title crop: upright beyond the labels, or level above the frame's corner on that side; null when there is no ink there. */
   title: Blot | null;
+  /** True when the title is written upwards beside the labels, false when it stands level above the frame. */
+  upright: boolean;
 }
 
 /** Largest difference, pixels, between a frame side's position near its two ends on a level scan (turned scans measure under 0.6). */
@@ -91,6 +93,34 @@ function valueColumn(words: readonly Word[], frame: Box, side: 'left' | 'right',
   if (near.length === 0) return [];
   const edge = side === 'left' ? Math.max(...near.map((w) => w.r)) : Math.min(...near.map((w) => w.l));
   return near.filter((w) => Math.abs((side === 'left' ? w.r : w.l) - edge) <= 0.8 * h);
+}
+
+/**
+ * A value axis's title written level above the frame, at the corner of its side ("Head (m)" over
+ * the top left corner, as many sheets print it): the line of words nearest above the frame's top
+ * edge, starting within a few text heights of the corner and reaching no further than the
+ * frame's middle (a centred sheet title or the flow title of a panel above is no axis title).
+ * Tick labels are left out. Null when no such line is there.
+ */
+function titleAbove(words: readonly Word[], frame: Box, side: 'left' | 'right', h: number, ticks: ReadonlySet<Word>): Blot | null {
+  const [l, t, r] = frame;
+  const mid = (l + r) / 2;
+  const near = words.filter(
+    (w) => !ticks.has(w) && w.b <= t + 0.3 * h && w.b >= t - 2.5 * h && w.b - w.t <= 2.5 * h && (side === 'left' ? w.l >= l - 6 * h && w.r <= mid : w.r <= r + 6 * h && w.l >= mid),
+  );
+  if (near.length === 0) return null;
+  // The line nearest the frame, its words joined from the corner outwards with gaps under two text heights.
+  const bottom = Math.max(...near.map((w) => w.b));
+  const line = near.filter((w) => w.b >= bottom - 0.6 * h).sort((a, b) => (side === 'left' ? a.l - b.l : b.r - a.r));
+  const first = line[0] as Word;
+  if (side === 'left' ? first.l > l + 3 * h : first.r < r - 3 * h) return null;
+  const kept = [first];
+  for (const w of line.slice(1)) {
+    const last = kept[kept.length - 1] as Word;
+    if (side === 'left' ? w.l - last.r > 2 * h : last.l - w.r > 2 * h) break;
+    kept.push(w);
+  }
+  return union(kept);
 }
 
 /** Flow labels under a frame: the first row of words below its bottom edge. */
@@ -140,7 +170,16 @@ function readPage(image: RasterImage): Page {
   let level = levelOf(angle, raw.width, raw.height);
   let map = levelInk(raw, level);
   const minSide = 0.15 * Math.min(map.width, map.height);
-  const framesOn = (m: InkMap) => findRasterFrames(horizontalRules(m, 0.6 * strong, minSide), verticalRules(m, 0.6 * strong, minSide), minSide, 6);
+  // A panel may be wide and low (an NPSHr strip under the others: a tenth of the page high), so
+  // its sides need only half the length its top and bottom need; but only a low frame stacked
+  // with a full-sized one (the same left and right edges) is taken for a panel: alone, a low
+  // box is a title block or a table as often.
+  const minHeight = 0.5 * minSide;
+  const framesOn = (m: InkMap) => {
+    const all = findRasterFrames(horizontalRules(m, 0.6 * strong, minSide), verticalRules(m, 0.6 * strong, minHeight), minSide, 6, minHeight);
+    const full = all.filter((f) => f[3] - f[1] >= minSide);
+    return all.filter((f) => f[3] - f[1] >= minSide || full.some((g) => Math.abs(g[0] - f[0]) <= 6 && Math.abs(g[2] - f[2]) <= 6));
+  };
   const squareFrames = (m: InkMap, list: readonly Box[]) => list.filter((f) => frameSkew(m, f) <= MAX_FRAME_SKEW).length;
   let frames = framesOn(map);
   // A photo taken at an angle: no frame found, or frames that are no rectangles on the turned
@@ -187,15 +226,17 @@ export async function findRasterPanels(image: RasterImage, reader: TextReader, p
   progress(0.35, 'reading the tick labels');
   const sides: Side[] = [];
   const flowLabels = new Map<Box, Word[]>();
+  for (const f of square) flowLabels.set(f, flowRow(words, f, h));
+  const tickWords = new Set([...flowLabels.values()].flat());
   for (const f of square) {
-    flowLabels.set(f, flowRow(words, f, h));
     for (const side of ['left', 'right'] as const) {
       const labels = valueColumn(words, f, side, h);
       if (labels.length < 2) continue;
       // The title stands beyond the labels, written upwards, within the frame's height.
       const edge = side === 'left' ? Math.min(...labels.map((w) => w.l)) : Math.max(...labels.map((w) => w.r));
       const beyond = words.filter((w) => w.cy > f[1] && w.cy < f[3] && (side === 'left' ? w.r <= edge - 0.2 * h && w.l >= edge - 5 * h : w.l >= edge + 0.2 * h && w.r <= edge + 5 * h));
-      sides.push({ frame: f, side, labels, title: union(beyond) });
+      const upright = union(beyond);
+      sides.push({ frame: f, side, labels, ...(upright ? { title: upright, upright: true } : { title: titleAbove(words, f, side, h, new Set([...tickWords, ...labels])), upright: false }) });
     }
   }
   const digitCrops: Crop[] = [];
@@ -214,11 +255,13 @@ export async function findRasterPanels(image: RasterImage, reader: TextReader, p
   const titleCrops: Crop[] = [];
   const flowTitleOf = new Map<Box, number>();
   const sideTitleOf = new Map<Side, number>();
-  for (const s of sides) if (s.title) (sideTitleOf.set(s, titleCrops.length), titleCrops.push({ box: grow(s.title, 3), upright: true }));
+  for (const s of sides) if (s.title) (sideTitleOf.set(s, titleCrops.length), titleCrops.push({ box: grow(s.title, 3), upright: s.upright }));
+  const titlesAbove = frames.flatMap((f) => (['left', 'right'] as const).map((side) => titleAbove(words, f, side, h, tickWords))).filter((k): k is Blot => k !== null);
   for (const f of square) {
     const row = flowLabels.get(f) ?? [];
     const below = row.length ? Math.max(...row.map((w) => w.b)) : f[3];
-    const line = words.filter((w) => w.t >= below + 0.1 * h && w.t <= below + 2.5 * h && w.cx >= f[0] && w.cx <= f[2]);
+    // A title written above the frame of a panel below is that panel's, not this flow axis's.
+    const line = words.filter((w) => w.t >= below + 0.1 * h && w.t <= below + 2.5 * h && w.cx >= f[0] && w.cx <= f[2] && !titlesAbove.some((k) => w.cx >= k.l && w.cx <= k.r && w.cy >= k.t && w.cy <= k.b));
     const top = line.length ? Math.min(...line.map((w) => w.t)) : 0;
     const title = union(line.filter((w) => w.t <= top + 0.6 * h));
     if (title) (flowTitleOf.set(f, titleCrops.length), titleCrops.push({ box: grow(title, 3), upright: false }));
@@ -314,7 +357,9 @@ export async function findRasterPanels(image: RasterImage, reader: TextReader, p
     const titleIndex = sideTitleOf.get(s);
     const title = titleIndex !== undefined ? (titleReadings[titleIndex]?.text ?? '') : '';
     const flowIndex = flowTitleOf.get(f);
-    const flowTitle = flowIndex !== undefined ? (titleReadings[flowIndex]?.text ?? '') : '';
+    const flowRead = flowIndex !== undefined ? (titleReadings[flowIndex]?.text ?? '') : '';
+    // A line under the flow labels that titles a value axis ("NPSHr (m)" above the panel below) is no flow title.
+    const flowTitle = valueAxisTitle(flowRead) ? '' : flowRead;
     const quantity = title ? quantityOfTitle(title) : null;
     const base = quantity ?? 'panel';
     const n = (used.get(base) ?? 0) + 1;
@@ -359,6 +404,7 @@ export async function findRasterPanels(image: RasterImage, reader: TextReader, p
     panels.push(panel);
     levelFrames.set(panel, f);
   }
+  sharedFlowTitles(panels, levelFrames, h);
   progress(1, 'panels found');
   return { panels, frames, turnDeg, questions, page: { map, level, strong: page.strong, words, h, grids }, levelFrames };
 }
@@ -381,6 +427,48 @@ function sheetBox(f: Box, level: Level, scale: number): Box {
   const xs = corners.map((c) => c[0] / scale);
   const ys = corners.map((c) => c[1] / scale);
   return [Math.min(...xs), Math.min(...ys), Math.max(...xs), Math.max(...ys)];
+}
+
+/**
+ * Panels stacked over one flow axis often print its title once, under the lowest: a panel
+ * without a flow title takes the one title read under a panel whose flow labels are the same
+ * values at the same places (within a text height `h`, level pixels), when no other flow unit
+ * was read on the sheet. Changes `panels` in place.
+ */
+export function sharedFlowTitles(panels: FoundPanel[], frames: ReadonlyMap<FoundPanel, Box>, h: number): void {
+  const titled = panels.filter((p) => p.flowTitle !== null && knownFlowUnit(p.flowTitle));
+  if (new Set(titled.map((p) => p.xUnit)).size !== 1) return;
+  const byPlace = (list: readonly TickLabel[]) => [...list].sort((m, n) => m.at - n.at);
+  for (const p of panels) {
+    const pf = frames.get(p);
+    if (p.flowTitle !== null || !pf) continue;
+    const same = titled.find((q) => {
+      const qf = frames.get(q);
+      if (!qf) return false;
+      const a = byPlace(p.proposal.x.labels);
+      const b = byPlace(q.proposal.x.labels);
+      return Math.abs(pf[0] - qf[0]) <= h && Math.abs(pf[2] - qf[2]) <= h && a.length === b.length && a.every((k, i) => k.value === b[i]?.value && Math.abs(k.at - (b[i] as TickLabel).at) <= h);
+    });
+    if (same) Object.assign(p, { flowTitle: same.flowTitle, xUnit: same.xUnit });
+  }
+}
+
+/** True when a title is a value axis's rather than a flow axis's: it names no flow unit, and names a value quantity or a unit of head, power or efficiency ("NPSHr (m)", "(kW)"). */
+export function valueAxisTitle(title: string): boolean {
+  if (title === '' || knownFlowUnit(title)) return false;
+  if (quantityOfTitle(title) !== null) return true;
+  const token = unitOfTitle(title);
+  if (token === null) return false;
+  if (token.trim() === '%') return true;
+  for (const kind of ['head', 'power'] as const) {
+    try {
+      parseUnit(kind, token);
+      return true;
+    } catch {
+      // not a unit of this kind
+    }
+  }
+  return false;
 }
 
 /** True when a title names, in brackets, a flow unit this tool knows ("Flow Q (m3/h)"). */
