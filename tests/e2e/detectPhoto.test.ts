@@ -50,9 +50,11 @@ describe('finding panels and curves on a photo taken at an angle', () => {
     await user.screenshot('1-found');
     const found = await draftParts(user);
     expect(found.panels.map((p) => p.quantity).sort()).toEqual(plan.panels.map((p) => p.quantity).sort());
-    // Labels read in the sheet's unit (inches here) land in the take-off's own (the workbench's, mm unless set).
+    // The record takes the units the sheet prints (its labels in inches here, not the workbench's starting mm).
     const draftUnit = await page.evaluate(() => (window as unknown as { pumpscribe: () => { store: { draft: { units: { diameter: string } } } } }).pumpscribe().store.draft.units.diameter);
     const sheetUnit = plan.family.units === 'us' ? 'in' : 'mm';
+    expect(draftUnit).toBe(sheetUnit);
+    if (sheetUnit === 'in') expect(said).toMatch(/Units taken from the sheet: flow gpm, head ft, .*diameter in\./);
     const named = found.traces.filter((t) => t.quantity === 'head').map((t) => t.diameter as number).sort((a, b) => b - a);
     const drawn = plan.family.diameters.map((d) => convert(d, parseUnit('diameter', sheetUnit), parseUnit('diameter', draftUnit))).sort((a, b) => b - a);
     expect(named).toHaveLength(drawn.length);

@@ -4,7 +4,8 @@
  * take-off file keeps the provenance, and the questions are answered one at a time.
  */
 import { describe, expect, it } from 'vitest';
-import { applyDetection, answerKind, markUserEdits, provenance } from '../../src/ui/store/actions/detected.ts';
+import { adoptSheetUnits, applyDetection, answerKind, markUserEdits, provenance } from '../../src/ui/store/actions/detected.ts';
+import { sheetUnitsRead } from '../../src/digitize/detect/detect.ts';
 import { moveAnchor } from '../../src/ui/store/actions/panels.ts';
 import { movePoint, setHidden, setTraceSpec } from '../../src/ui/store/actions/traces.ts';
 import { Store } from '../../src/ui/store/store.ts';
@@ -205,3 +206,49 @@ describe('the questions of the detector', () => {
     expect(detection.running).toBe(false);
   });
 });
+
+describe('the units the sheet prints', () => {
+  /** An invented US sheet found with its diameters converted into the record's millimetres (10.5 in = 266.7 mm). */
+  const usAnswer = () => {
+    const a = answer();
+    a.panels[0]!.units = { x: 'gpm', y: 'ft' };
+    a.traces.forEach((t, i) => (t.diameter = [266.7, 254][i]));
+    return a;
+  };
+
+  it('are read from the found panels and the diameter labels, and only where every panel says the same', () => {
+    const panels = [
+      { origin: 'detected' as const, quantity: 'head' as const, units: { x: 'gpm', y: 'ft' } },
+      { origin: 'detected' as const, quantity: 'power' as const, units: { x: 'gpm', y: 'hp' } },
+      { origin: 'detected' as const, quantity: 'npshr' as const, units: { x: 'gpm' } },
+    ];
+    expect(sheetUnitsRead(panels, 'in')).toEqual({ flow: 'gpm', head: 'ft', power: 'hp', diameter: 'in' });
+    // A flow title left unread on one panel leaves the flow unit open; user panels do not count.
+    expect(sheetUnitsRead([...panels, { origin: 'detected', quantity: 'head', units: { y: 'ft' } }], null)).toEqual({ head: 'ft', power: 'hp' });
+    expect(sheetUnitsRead([{ origin: 'user', quantity: 'head', units: { x: 'm3/h', y: 'm' } }], 'rpm')).toEqual({});
+  });
+
+  it("become the record's after a detection, the found diameters converted, as one undoable edit", () => {
+    const store = new Store(empty());
+    store.dispatch(applyDetection(usAnswer()));
+    expect(store.draft.units.diameter).toBe('mm');
+    expect(store.dispatch(adoptSheetUnits({ flow: 'gpm', head: 'ft', diameter: 'in' }))).toBe(true);
+    const d = store.draft;
+    expect([d.units.flow, d.units.head, d.units.diameter]).toEqual(['gpm', 'ft', 'in']);
+    expect(d.traces.map((t) => [t.diameter, t.origin])).toEqual([[10.5, 'detected'], [10, 'detected']]);
+    expect(d.diameters).toEqual([10.5, 10]);
+    store.undo();
+    expect(store.draft.units.diameter).toBe('mm');
+    expect(store.draft.traces.map((t) => t.diameter)).toEqual([266.7, 254]);
+  });
+
+  it('leave the record alone when the engineer set parts in its units, or when nothing differs', () => {
+    const store = new Store(draftWithPanel({ diameters: [] }));
+    store.dispatch(applyDetection(usAnswer()));
+    expect(store.dispatch(adoptSheetUnits({ flow: 'gpm', diameter: 'in' }))).toBe(false);
+    const same = new Store(empty());
+    same.dispatch(applyDetection(answer()));
+    expect(same.dispatch(adoptSheetUnits({ flow: 'm3/h', head: 'm', diameter: 'mm' }))).toBe(false);
+  });
+});
+

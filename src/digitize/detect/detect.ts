@@ -8,7 +8,7 @@
  * Pure: the sheet arrives through the Sheet interface. Scans go to rasterDetect.ts (panels, and
  * curves followed by the raster tracer) when a character reader is handed in.
  */
-import { TakeoffError, parseTakeoff, type Takeoff, type TakeoffToDetect } from '../../model/takeoff.ts';
+import { TakeoffError, parseTakeoff, type Panel, type Takeoff, type TakeoffToDetect } from '../../model/takeoff.ts';
 import { fromSI, parseUnit, toSI, type QuantityKind } from '../../units/index.ts';
 import { QUANTITY_KIND } from '../../units/quantityUnits.ts';
 import type { Sheet, SheetText, VectorPath } from '../sheet.ts';
@@ -69,6 +69,37 @@ export interface DetectedTakeoff {
   questions: string[];
   /** The pump's speed as the sheet prints it (a vector page's text; a scan's title or footer), when one was read. */
   speedRead?: SpeedRead;
+  /** The units the sheet prints, where its titles and labels say so without disagreeing (sheetUnitsRead). */
+  sheetUnits: SheetUnits;
+}
+
+/** Units a sheet prints, by the take-off's unit fields; a field is absent where the sheet does not say, or says two things. */
+export type SheetUnits = Partial<Record<'flow' | 'head' | 'power' | 'npsh' | 'diameter', string>>;
+
+/**
+ * The units the sheet is drawn in, from what the detection read: the flow unit all found panels'
+ * flow titles agree on, the value units of the head, power and NPSHr panels, and the unit of
+ * the diameter labels. A quantity whose panels name two units, or where one panel names none,
+ * is left out. The take-off's own
+ * values stay in its units; a shell may offer to show the sheet's (the workbench does).
+ */
+export function sheetUnitsRead(panels: readonly Pick<Panel, 'origin' | 'quantity' | 'units'>[], labelUnit: string | null): SheetUnits {
+  const found = panels.filter((p) => p.origin === 'detected');
+  // One unit for a quantity only when every panel of it names that unit: a panel that names none
+  // is read in the take-off's unit, so a change of that unit would change its reading.
+  const one = (values: (string | undefined)[]): string | undefined => {
+    const set = new Set(values);
+    return set.size === 1 && !set.has(undefined) ? [...set][0] : undefined;
+  };
+  const out: SheetUnits = {};
+  const flow = one(found.map((p) => p.units?.x));
+  if (flow) out.flow = flow;
+  for (const [key, quantity] of [['head', 'head'], ['power', 'power'], ['npsh', 'npshr']] as const) {
+    const unit = one(found.filter((p) => p.quantity === quantity).map((p) => p.units?.y));
+    if (unit) out[key] = unit;
+  }
+  if (labelUnit === 'mm' || labelUnit === 'in') out.diameter = labelUnit;
+  return out;
 }
 
 const r4 = (v: number) => Math.round(v * 1e4) / 1e4;
@@ -240,7 +271,7 @@ export async function detectTakeoff(input: TakeoffToDetect, raw: Record<string, 
     detected: { by: DETECTOR, questions },
   };
   const takeoff = parseTakeoff(document);
-  return { takeoff, document, detection, questions, ...(speedRead ? { speedRead } : {}) };
+  return { takeoff, document, detection, questions, ...(speedRead ? { speedRead } : {}), sheetUnits: sheetUnitsRead(takeoff.panels, detection.labelUnit) };
 }
 
 export { describe as describeCurve };

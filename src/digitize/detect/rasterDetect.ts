@@ -11,8 +11,7 @@ import { readSheetSpeed } from './sheetSpeed.ts';
 import { TakeoffError, parseTakeoff, type TakeoffToDetect } from '../../model/takeoff.ts';
 import { fromSI, parseUnit, toSI } from '../../units/index.ts';
 import { safeScale, type Sheet } from '../sheet.ts';
-import type { DetectedTakeoff, Detection } from './detect.ts';
-import { givenUnitQuestion, givenValues, takeoffPanels } from './detect.ts';
+import { givenUnitQuestion, givenValues, sheetUnitsRead, takeoffPanels, type DetectedTakeoff, type Detection } from './detect.ts';
 import { findRasterCurves } from './rasterCurves.ts';
 import { findRasterPanels, type DetectProgress } from './rasterPanels.ts';
 import type { TextReader } from './rasterText.ts';
@@ -109,5 +108,6 @@ export async function detectRasterTakeoff(input: TakeoffToDetect, raw: Record<st
   }
   progress(1, 'done');
   const document: Record<string, unknown> = { ...raw, sheet_sha256: sheet.sha256, panels, traces, detected: { by: RASTER_DETECTOR, questions } };
-  return { takeoff: parseTakeoff(document), document, detection, questions, ...(speedRead ? { speedRead } : {}) };
+  const takeoff = parseTakeoff(document);
+  return { takeoff, document, detection, questions, ...(speedRead ? { speedRead } : {}), sheetUnits: sheetUnitsRead(takeoff.panels, curves.labelUnit) };
 }

@@ -10,12 +10,12 @@
 import { speedNotGiven } from '../views/words.ts';
 import { TAKEOFF_FORMAT, TAKEOFF_VERSION } from '../../model/takeoff.ts';
 import { readDecimal } from '../../units/readNumber.ts';
-import { applyDetection, answerKind, type AnswerKind, type DetectionGiven } from '../store/actions/detected.ts';
+import { adoptSheetUnits, applyDetection, answerKind, type AnswerKind, type DetectionGiven } from '../store/actions/detected.ts';
 import { EditError } from '../store/actions/action.ts';
 import { parseDiameterList, readFromSheet } from '../store/actions/setup.ts';
 import { speedDisagrees, speedMismatchSentence } from '../../digitize/detect/sheetSpeed.ts';
 import { familyLabels, type Draft } from '../store/draft.ts';
-import type { Store } from '../store/store.ts';
+import { unitSystemOf, type Store } from '../store/store.ts';
 import type { SheetWorkerClient } from '../worker/client.ts';
 
 export interface DetectionHost {
@@ -116,6 +116,13 @@ export class Detection {
         return;
       }
       store.dispatch(applyDetection(found, given));
+      // The record takes the units the sheet prints while nothing of the engineer's is in it; the review follows.
+      let unitWords = '';
+      if (found.sheetUnits && store.dispatch(adoptSheetUnits(found.sheetUnits))) {
+        const u = store.draft.units;
+        store.setSession({ unitSystem: unitSystemOf(store.draft) });
+        unitWords = ` Units taken from the sheet: flow ${u.flow}, head ${u.head}${u.power ? `, power ${u.power}` : ''}, diameter ${u.diameter}.`;
+      }
       // The speed the scan prints fills in a speed not yet given; one that disagrees with the speed given is said.
       let speedWords = '';
       let speedOff = false;
@@ -131,7 +138,7 @@ export class Detection {
       const kept = store.draft.traces.filter((t) => t.origin !== 'detected').length + store.draft.panels.filter((p) => p.origin !== 'detected').length;
       const asks = found.questions.length ? ` ${found.questions.length} question${found.questions.length === 1 ? '' : 's'} below.` : ' Check them in the review; correct any part with the usual tools.';
       if (found.questions.length === 0) this.host.goto('review');
-      store.say(`Found ${found.panels.length} panel${found.panels.length === 1 ? '' : 's'} and ${curves} curve${curves === 1 ? '' : 's'}${isos ? ` and ${isos} iso-line${isos === 1 ? '' : 's'}` : ''}${kept ? `; ${kept} part${kept === 1 ? '' : 's'} you set kept` : ''}.${asks}${speedWords}${store.draft.speedGiven ? '' : ` ${speedNotGiven(store.draft.pump.speed_rpm)}`}`, found.questions.length || !store.draft.speedGiven || speedOff ? 'caution' : 'done');
+      store.say(`Found ${found.panels.length} panel${found.panels.length === 1 ? '' : 's'} and ${curves} curve${curves === 1 ? '' : 's'}${isos ? ` and ${isos} iso-line${isos === 1 ? '' : 's'}` : ''}${kept ? `; ${kept} part${kept === 1 ? '' : 's'} you set kept` : ''}.${asks}${unitWords}${speedWords}${store.draft.speedGiven ? '' : ` ${speedNotGiven(store.draft.pump.speed_rpm)}`}`, found.questions.length || !store.draft.speedGiven || speedOff ? 'caution' : 'done');
     } catch (error) {
       const e = error as Error;
       // The reader's own sentence says what is missing and that the sheet is read by hand.

@@ -10,6 +10,7 @@ import type { Snap } from '../geometry/snap.ts';
 import type { TextItem } from '../geometry/hints.ts';
 import type { PageSize } from './pdfPages.ts';
 import type { SheetKind } from './sheetSource.ts';
+import type { SheetUnits } from '../../digitize/detect/detect.ts';
 
 export type Rect = readonly [number, number, number, number];
 export type XY = [number, number];
@@ -58,6 +59,8 @@ export interface DetectAnswer {
   refused: string | null;
   /** The pump's speed as the sheet prints it (a vector page's text, a scan's title or footer), when one was read. */
   speedRead?: { rpm: number; text: string };
+  /** The units the sheet prints, where its titles and labels say so (flow, head, power, npsh, diameter). */
+  sheetUnits?: SheetUnits;
 }
 
 export interface Requests {

@@ -131,7 +131,7 @@ const handlers: { [K in keyof Requests]: Handler<K> } = {
         ? { reader: readerAt(args.ocr, progress), progress: (fraction, what) => progress({ fraction: 0.1 + 0.85 * fraction, label: `Finding panels and curves: ${what}` }) }
         : {});
       progress({ fraction: 0.97, label: 'Finding panels and curves: labelling' });
-      return { result: { panels: found.takeoff.panels, traces: found.takeoff.traces, questions: found.questions, by: scan ? RASTER_DETECTOR : DETECTOR, refused: null, ...(found.speedRead ? { speedRead: found.speedRead } : {}) } };
+      return { result: { panels: found.takeoff.panels, traces: found.takeoff.traces, questions: found.questions, by: scan ? RASTER_DETECTOR : DETECTOR, refused: null, ...(found.speedRead ? { speedRead: found.speedRead } : {}), sheetUnits: found.sheetUnits } };
     } catch (error) {
       // Nothing could be named: the questions still say what the detector needs to know.
       if (error instanceof ScanDetectRefused) return { result: { panels: [], traces: [], questions: [...error.questions], by: RASTER_DETECTOR, refused: error.message } };

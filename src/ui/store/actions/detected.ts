@@ -3,7 +3,9 @@
  * what the engineer set; an edit of a found part makes it the engineer's; a second detection
  * replaces the found parts and keeps the engineer's.
  */
+import type { SheetUnits } from '../../../digitize/detect/detect.ts';
 import type { Quantity } from '../../../model/curveset.ts';
+import { CURVE_UNIT_KIND, fromSI, parseUnit, toSI } from '../../../units/index.ts';
 import type { Panel, Trace } from '../../../model/takeoff.ts';
 import type { DetectAnswer } from '../../worker/protocol.ts';
 import { familyOfTraces, frameOverlap, type Draft, type PanelDraft, type TraceDraft } from '../draft.ts';
@@ -78,6 +80,38 @@ export const applyDetection = (found: DetectAnswer, given: DetectionGiven = {}):
   };
   const added = found.panels.length + found.traces.length;
   return { draft: next, label: `find panels and curves (${added} parts)`, undoable: true, keepsOrigin: true };
+};
+
+/**
+ * After a detection, the record takes the units the sheet prints (flow, head, power, NPSH,
+ * diameter), so that the review and the saved take-off speak the sheet's units (10.5 in, not
+ * 266.7 mm). Only while the record holds nothing the engineer set in the old units: no panel or
+ * trace of their own, no minimum flow typed. The found panels read their axes in their own
+ * units, so only the diameters change number: converted to the sheet's unit. Null when nothing
+ * changes or the engineer's own parts are there.
+ */
+export const adoptSheetUnits = (units: SheetUnits): Action => (draft) => {
+  if (draft.panels.some((p) => p.origin !== 'detected') || draft.traces.some((t) => t.origin !== 'detected') || draft.min_flow !== undefined) return null;
+  const canonical: Partial<Record<keyof SheetUnits, string>> = {};
+  for (const [key, token] of Object.entries(units) as [keyof SheetUnits, string | undefined][]) {
+    if (token === undefined) continue;
+    try {
+      canonical[key] = parseUnit(CURVE_UNIT_KIND[key], token).token;
+    } catch {
+      // A unit the tables do not know stays the engineer's to choose.
+    }
+  }
+  const next = { ...draft.units, ...canonical };
+  if (JSON.stringify(next) === JSON.stringify(draft.units)) return null;
+  const [from, to] = [parseUnit('diameter', draft.units.diameter), parseUnit('diameter', next.diameter)];
+  const convert = (d: number) => (from.token === to.token ? d : Number(fromSI(toSI(d, from), to).toPrecision(10)));
+  const traces = draft.traces.map((t) => (t.diameter === undefined ? t : { ...t, diameter: convert(t.diameter) }));
+  return {
+    draft: { ...draft, units: next, traces, diameters: draft.diameters.map(convert) },
+    label: 'take the units the sheet prints',
+    undoable: true,
+    keepsOrigin: true,
+  };
 };
 
 /** View-only fields of a part: changing them is not an edit of what was found. */
