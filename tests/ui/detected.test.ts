@@ -212,7 +212,7 @@ describe('the units the sheet prints', () => {
   const usAnswer = () => {
     const a = answer();
     a.panels[0]!.units = { x: 'gpm', y: 'ft' };
-    a.traces.forEach((t, i) => (t.diameter = [266.7, 254][i]));
+    a.traces.forEach((t, i) => Object.assign(t, { id: `head-${[266.7, 254][i]}`, diameter: [266.7, 254][i] }));
     return a;
   };
 
@@ -235,7 +235,7 @@ describe('the units the sheet prints', () => {
     expect(store.dispatch(adoptSheetUnits({ flow: 'gpm', head: 'ft', diameter: 'in' }))).toBe(true);
     const d = store.draft;
     expect([d.units.flow, d.units.head, d.units.diameter]).toEqual(['gpm', 'ft', 'in']);
-    expect(d.traces.map((t) => [t.diameter, t.origin])).toEqual([[10.5, 'detected'], [10, 'detected']]);
+    expect(d.traces.map((t) => [t.id, t.diameter, t.origin])).toEqual([['head-10.5', 10.5, 'detected'], ['head-10', 10, 'detected']]);
     expect(d.diameters).toEqual([10.5, 10]);
     store.undo();
     expect(store.draft.units.diameter).toBe('mm');

@@ -105,7 +105,15 @@ export const adoptSheetUnits = (units: SheetUnits): Action => (draft) => {
   if (JSON.stringify(next) === JSON.stringify(draft.units)) return null;
   const [from, to] = [parseUnit('diameter', draft.units.diameter), parseUnit('diameter', next.diameter)];
   const convert = (d: number) => (from.token === to.token ? d : Number(fromSI(toSI(d, from), to).toPrecision(10)));
-  const traces = draft.traces.map((t) => (t.diameter === undefined ? t : { ...t, diameter: convert(t.diameter) }));
+  // A found trace named after its diameter ("head-266.7") takes the converted name ("head-10.5").
+  const traces = draft.traces.map((t) => {
+    if (t.diameter === undefined) return t;
+    const diameter = convert(t.diameter);
+    const named = `${t.quantity}-${t.diameter}`;
+    const id = t.id === named || t.id.startsWith(`${named}-`) ? `${t.quantity}-${diameter}${t.id.slice(named.length)}` : t.id;
+    return { ...t, id, diameter };
+  });
+  if (new Set(traces.map((t) => t.id)).size !== traces.length) return null;
   return {
     draft: { ...draft, units: next, traces, diameters: draft.diameters.map(convert) },
     label: 'take the units the sheet prints',
