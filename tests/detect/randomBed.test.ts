@@ -53,3 +53,28 @@ describe.each([2, 9, 19, 24])('random vector sheet %i', (seed) => {
     }
   });
 });
+
+describe('random vector sheet 60, its iso labels crowded', () => {
+  // Two "%" labels stand by one right-branch iso-line: its own 72 % and the 69 % of a stub of a
+  // few points that hides under its label. Given the levels drawn, the order of the lines settles
+  // the line as 72 %, and the 69 % label, left without a line, is asked about.
+  it('settles the line with two labels by the order of the lines, and asks about the label left over', { timeout: 180_000 }, async () => {
+    const seed = 60;
+    const plan = planSheet(new Dice(seed));
+    const sheet = await loadPdfSheetNode(new Uint8Array(readFileSync(join(FIXTURES, `random-${seed}.pdf`))), { name: `random-${seed}.pdf` });
+    try {
+      const levels = [...new Set(plan.lines.flatMap((l) => (l.iso === undefined ? [] : [l.iso])))];
+      const raw = { ...minimalTakeoff(plan, `random-${seed}.pdf`), iso_levels: levels };
+      const found = await detectTakeoff(parseTakeoffToDetect(raw), raw, sheet);
+      expect(found.questions).toHaveLength(1);
+      expect(found.questions[0]).toMatch(/^The label "69%" at .* the order of the lines gives as 72 %, and no iso-line found near it carries 69 %/);
+      const got = found.takeoff.traces.filter((t) => t.iso !== undefined).map((t) => t.iso).sort();
+      const drawn = plan.lines.filter((l) => l.iso !== undefined).map((l) => l.iso).sort();
+      // Every drawn level but the hidden stub's second 69 %.
+      expect(got).toEqual([63, 66, 69, 72, 72, 75, 75]);
+      expect(drawn).toEqual([63, 66, 69, 69, 72, 72, 75, 75]);
+    } finally {
+      await sheet.close();
+    }
+  });
+});

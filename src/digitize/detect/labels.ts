@@ -250,18 +250,22 @@ export function assignLabels(curves: readonly FoundCurve[], text: readonly Sheet
   // Iso-lines: the "%" label on the line.
   const isos = curves.filter((c) => c.kind === 'iso' && !minFlow.has(c));
   const isoValues = new Map<FoundCurve, Set<number>>();
+  const isoLabelsOn = new Map<FoundCurve, PlacedLabel[]>();
   for (const label of isoLabels) {
     const { curve, candidates } = nearest(label, isos);
-    if (curve) isoValues.set(curve, (isoValues.get(curve) ?? new Set()).add(label.value));
+    if (curve) {
+      isoValues.set(curve, (isoValues.get(curve) ?? new Set()).add(label.value));
+      isoLabelsOn.set(curve, [...(isoLabelsOn.get(curve) ?? []), label]);
+    }
     else if (candidates.length > 1) questions.push(`The label "${label.text}" stands about as near to ${candidates.length} iso-lines; which one does it name?`);
   }
   const knownIso = new Map<FoundCurve, number>();
   for (const c of isos) {
     const values = isoValues.get(c);
     if (values?.size === 1) knownIso.set(c, [...values][0] as number);
-    else if (values) questions.push(`The ${describe(c)} carries two levels (${[...values].join(' and ')} %); which is its own?`);
   }
   for (const [c, value] of knownIso) labelled.set(c, { curve: c, value, how: 'label', confidence: 1 });
+  const settled: { curve: FoundCurve; level: number }[] = [];
   const byPanel = new Map<FoundCurve['panel'], FoundCurve[]>();
   for (const c of isos) byPanel.set(c.panel, [...(byPanel.get(c.panel) ?? []), c]);
   for (const [panel, list] of byPanel) {
@@ -269,9 +273,21 @@ export function assignLabels(curves: readonly FoundCurve[], text: readonly Sheet
     const fromGiven = isoGiven ? levelsByOrder(list, isoGiven, knownIso) : null;
     const open: FoundCurve[] = [];
     for (const c of list) {
-      if (knownIso.has(c) || isoValues.get(c)?.size) continue;
+      if (knownIso.has(c)) continue;
       const v = inferred.get(c);
       const g = fromGiven?.get(c);
+      const two = isoValues.get(c);
+      if (two?.size) {
+        // Two labels crowd one line (the other line's label printed close by): the level the
+        // order gives (from the other lines' labels, or the levels given) settles it when it is
+        // one of the two and the order does not say otherwise; else the engineer is asked.
+        const pick = [g, v].find((k) => k !== undefined && two.has(k));
+        if (pick !== undefined && (v === undefined || v === pick) && (g === undefined || g === pick)) {
+          labelled.set(c, { curve: c, value: pick, how: 'order', confidence: 0.8 });
+          settled.push({ curve: c, level: pick });
+        } else questions.push(`The ${describe(c)} carries two levels (${[...two].join(' and ')} %); which is its own?`);
+        continue;
+      }
       if (v !== undefined && (g === undefined || g === v)) labelled.set(c, { curve: c, value: v, how: 'order', confidence: 0.7 });
       else if (v === undefined && g !== undefined) labelled.set(c, { curve: c, value: g, how: 'order', confidence: 0.8 });
       else open.push(c);
@@ -280,6 +296,15 @@ export function assignLabels(curves: readonly FoundCurve[], text: readonly Sheet
       const read = [...new Set(knownIso.values())].sort((a, b) => a - b);
       const where = open.map((c) => `[${c.points[0]![0].toFixed(0)}, ${c.points[0]![1].toFixed(0)}]`).join(', ');
       questions.push(`${open.length} iso-line${open.length === 1 ? '' : 's'} on panel "${panel.id}" (starting at ${where}) carr${open.length === 1 ? 'ies' : 'y'} no "%" label, and the level does not follow from ${read.length ? `the levels read (${read.join(', ')} %)` : 'any level read'}; give every level drawn as "iso_levels" in the take-off file, or trace ${open.length === 1 ? 'it' : 'them'} by hand.`);
+    }
+  }
+  // The other label by a line settled by order names a line of its own: one found near it with
+  // that level, else a line the detector did not find (a short stub hidden under its label).
+  for (const { curve, level } of settled) {
+    for (const label of isoLabelsOn.get(curve) ?? []) {
+      if (label.value === level) continue;
+      const own = isos.some((k) => k !== curve && labelled.get(k)?.value === label.value && distanceToPolyline(k.points, label.centre) <= 2.5 * label.size);
+      if (!own) questions.push(`The label "${label.text}" at [${label.centre[0].toFixed(0)}, ${label.centre[1].toFixed(0)}] stands by the ${describe(curve)}, whose level the order of the lines gives as ${level} %, and no iso-line found near it carries ${label.value} %: trace that line by hand if the sheet draws one (a short line may hide under its label).`);
     }
   }
   return { labelled: [...labelled.values()], family, unit, minFlow: [...minFlow], questions };
