@@ -17,6 +17,12 @@ export interface Piece {
    * of a dash) a line it ends runs to the sliver's far edge, not to its middle.
    */
   readonly extent?: readonly SheetPoint[];
+  /**
+   * Index of the drawn path the piece came from. The dashes one path holds are one stroke: they
+   * join one another before any dash of another path (bunched dashed curves, each drawn as one
+   * path of many dashes, would otherwise swap dashes where they run close).
+   */
+  readonly path?: number;
 }
 
 export interface StrokeLine {
@@ -40,6 +46,8 @@ const MAX_TURN = (60 * Math.PI) / 180;
  * (sheet units) are bridged when the gap runs along both ends' directions, as a dash gap does.
  */
 export const DEFAULT_BRIDGE = 8;
+/** Added to the cost of joining pieces of two drawn paths that each hold several: every join within a path comes first. */
+const CROSS_PATH = 1e6;
 const BRIDGE_ALIGN = Math.cos((20 * Math.PI) / 180);
 
 export function joinPieces(pieces: readonly Piece[], tolerance: number, bridge = DEFAULT_BRIDGE): StrokeLine[] {
@@ -85,6 +93,10 @@ function joinGroup(group: readonly Piece[], tolerance: number, bridge: number): 
     if (list) list.push(i);
     else grid.set(k, [i]);
   });
+  // Pieces per drawn path: a path of two or more pieces is one stroke written in parts.
+  const perPath = new Map<number, number>();
+  for (const p of open) if (p.path !== undefined) perPath.set(p.path, (perPath.get(p.path) ?? 0) + 1);
+  const apart = (a: Piece, b: Piece) => a.path !== undefined && b.path !== undefined && a.path !== b.path && (perPath.get(a.path) ?? 0) > 1 && (perPath.get(b.path) ?? 0) > 1;
   const candidates: { i: number; j: number; cost: number }[] = [];
   ends.forEach((e, i) => {
     const cx = Math.floor(e.at[0] / cell);
@@ -119,7 +131,8 @@ function joinGroup(group: readonly Piece[], tolerance: number, bridge: number): 
           // Truest continuation first: on the tangent and heading the same way. Where two curves
           // cross, the other curve's piece may lie on the tangent too, but heads off at the crossing
           // angle; where ends coincide (a grid crossing), the straightest way on wins.
-          candidates.push({ i, j, cost: lateral + Math.max(gap, 1) * turn + (bridged ? 0.01 : 0) });
+          // Ends of two strokes each written in parts join only after every join within a stroke.
+          candidates.push({ i, j, cost: lateral + Math.max(gap, 1) * turn + (bridged ? 0.01 : 0) + (apart(open[e.piece] as Piece, open[f.piece] as Piece) ? CROSS_PATH : 0) });
         }
       }
     }

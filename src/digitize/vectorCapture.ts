@@ -70,19 +70,19 @@ export const DEFAULT_MAX_GUIDE_DISTANCE = 8;
 /** Flattened, style-keyed pieces of all stroked paths of a page (compute once, capture many). */
 export function strokePieces(paths: readonly VectorPath[], flatness = DEFAULT_FLATNESS): Piece[] {
   const pieces: Piece[] = [];
-  for (const path of paths) {
+  paths.forEach((path, index) => {
     if (path.stroke === null) {
-      if (path.fill !== null) pieces.push(...outlinePieces(path, flatness));
-      continue;
+      if (path.fill !== null) pieces.push(...outlinePieces(path, flatness, index));
+      return;
     }
     const style = `${path.stroke}|${path.lineWidth.toFixed(3)}|${path.dashed ? 'dash' : 'solid'}`;
     for (const line of flattenPath(path.segments, flatness)) {
       // Only what the clipping area lets the page show was drawn.
       const parts = path.clip ? clipPolyline(line.points, path.clip) : [line.points];
       const whole = parts.length === 1 && parts[0]!.length === line.points.length;
-      for (const points of parts) pieces.push({ points, closed: line.closed && whole, style, stroke: path.stroke, lineWidth: path.lineWidth });
+      for (const points of parts) pieces.push({ points, closed: line.closed && whole, style, stroke: path.stroke, lineWidth: path.lineWidth, path: index });
     }
-  }
+  });
   return dotsOfSlivers(pieces);
 }
 
@@ -110,7 +110,7 @@ function dotsOfSlivers(pieces: Piece[]): Piece[] {
 }
 
 /** Centre lines of the thin filled outlines of a path (strokes some programs write as fills). */
-function outlinePieces(path: VectorPath, flatness: number): Piece[] {
+function outlinePieces(path: VectorPath, flatness: number, index: number): Piece[] {
   const out: Piece[] = [];
   const style = `${path.fill}|outline`;
   for (const ring of flattenPath(path.segments, flatness)) {
@@ -120,7 +120,7 @@ function outlinePieces(path: VectorPath, flatness: number): Piece[] {
     const parts = path.clip ? clipPolyline(centre.points, path.clip) : [centre.points];
     // The outline is kept: should the piece turn out a dot (here or in dotsOfSlivers), a line it
     // ends runs to the outline's far edge (strokeJoin.ts).
-    for (const points of parts) out.push({ points, closed: false, style, stroke: path.fill, lineWidth: centre.width, extent: ring.points });
+    for (const points of parts) out.push({ points, closed: false, style, stroke: path.fill, lineWidth: centre.width, extent: ring.points, path: index });
   }
   return out;
 }

@@ -68,13 +68,18 @@ describe('pumpscribe takeoff --detect', () => {
     expect(parseTakeoff(JSON.parse(readFileSync(file, 'utf8'))).detected?.questions.some((q) => /The sheet prints 1780 rpm/.test(q))).toBe(true);
   });
 
-  it('on a scan whose axis titles are not read, refuses in one sentence with exit 2, saying what it asks', { timeout: 60_000 }, () => {
+  it('on the committed scan, whose axis titles stand over the frames, names the panels and the head curves, and exits 1 while its questions are open', { timeout: 60_000 }, () => {
     const file = join(dir, 'scan.takeoff.json');
     writeFileSync(file, JSON.stringify(minimal('scan.jpg')));
-    const run = pumpscribe('takeoff', file, '--detect', '-o', join(dir, 'scan.curveset.json'));
-    expect(run.code).toBe(2);
-    expect(run.stderr).toMatch(/found \d+ panels? on this scan .* but no curve it could name; .* It asks: /);
+    const out = join(dir, 'scan.curveset.json');
+    const run = pumpscribe('takeoff', file, '--detect', '-o', out);
+    expect(run.code).toBe(1);
+    expect(run.stderr).toMatch(/^Question: /m);
     expect(run.stderr).not.toMatch(/\n\s+at /);
+    const set = CurveSet.parse(JSON.parse(readFileSync(out, 'utf8')));
+    // The INVENTED sample draws 13, 12, 11 and 10 in impellers (its truth file).
+    expect(set.members.map((m) => Math.round(((m.diameter_m as number) / 0.0254) * 1000) / 1000)).toEqual([13, 12, 11, 10]);
+    expect(set.members.every((m) => m.curves.head !== undefined)).toBe(true);
   });
 
   it('without --detect a take-off without panels is refused as before', () => {
