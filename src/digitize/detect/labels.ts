@@ -256,8 +256,7 @@ export function assignLabels(curves: readonly FoundCurve[], text: readonly Sheet
     if (curve) {
       isoValues.set(curve, (isoValues.get(curve) ?? new Set()).add(label.value));
       isoLabelsOn.set(curve, [...(isoLabelsOn.get(curve) ?? []), label]);
-    }
-    else if (candidates.length > 1) questions.push(`The label "${label.text}" stands about as near to ${candidates.length} iso-lines; which one does it name?`);
+    } else if (candidates.length > 1) questions.push(`The label "${label.text}" stands about as near to ${candidates.length} iso-lines; which one does it name?`);
   }
   const knownIso = new Map<FoundCurve, number>();
   for (const c of isos) {
