@@ -296,7 +296,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
   const headDiameters = [...new Set(audited.filter((t) => t.quantity === 'head' && t.iso === undefined && t.diameter !== undefined).map((t) => t.diameter as number))];
   auditIsoCrossings(isoCounts, headDiameters).forEach(said);
 
-  if (members.size === 0) throw new TakeoffError('The take-off has no trace with a diameter; give each head, power, NPSHr or efficiency trace its impeller diameter.');
+  if (members.size === 0) throw new TakeoffError('The take-off has no trace with a diameter or a speed; give each head, power, NPSHr or efficiency trace its impeller diameter (or its speed, on a sheet drawn for one impeller at several speeds).');
 
   const readingAccuracy: Partial<Record<Quantity, number>> = {};
   const exactQuantities: Quantity[] = [];
