@@ -177,11 +177,14 @@ function acquire(image: RasterImage, guide: Px, search: number, options: RasterT
   let model = inkModel(colour, paper);
   // Whether the guide sat on a grid line and the model was taken from the coloured ink beside it.
   let onGrid = false;
-  if (!options.colour && model.mode !== 'chromatic') {
+  // The sample read as grey unless its hue is strong: a grey grid line mixed with a little of a
+  // faint line's hue keeps a weak hue, and is told by the grey ink it holds.
+  const grey = inkModel(colour, paper, false);
+  if (!options.colour && grey.mode !== 'chromatic') {
     // A grey sample on a grid line, with coloured ink beside the click: the guide sat where a
     // fainter coloured line crosses or runs along the grid, and the line is the coloured one.
-    const at = nearestInk(image, model, guide, search);
-    const grid = at !== undefined && onGridLine(image, model, at);
+    const at = nearestInk(image, grey, guide, search);
+    const grid = at !== undefined && onGridLine(image, grey, at);
     const tinted = grid ? chromaticInk(image, paper, colour, guide, NEAR_GUIDE_PX + FAINT_SLACK_PX) : undefined;
     const faint = tinted && inkModel(tinted, paper);
     if (faint && nearestInk(image, faint, guide, NEAR_GUIDE_PX + FAINT_SLACK_PX)) {
