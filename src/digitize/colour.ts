@@ -41,6 +41,11 @@ export interface InkModel {
   readonly cy: number;
   readonly cz: number;
   readonly invChroma: number;
+  /**
+   * 1 / the chroma against which chroma off the line's way counts: the line's own, and at least a
+   * quarter of its luma (see `WEAK_CHROMATIC_SHARE`).
+   */
+  readonly invOff: number;
   /** For the projection fallback: 1/|paper − line|² and 1/|paper − line|. */
   readonly invNorm2: number;
   readonly invNorm: number;
@@ -82,8 +87,13 @@ const CHROMATIC_SHARE = 0.25;
  * often under a quarter of its luma; read as grey, its model takes the grey grid and black lines
  * for the line wherever they are about as dark. Grey ink keeps under 5 of chroma in JPEG noise
  * and colour fringes, and the black lines of the random bed's one-colour sheets, sampled on tinted
- * paper, keep under 8 % of their luma (254 of 255 traces), so neither reaches this. On the random bed (seeds 1–100) holding such a line to its hue left 16 fewer of
- * 1085 curves wrong (24 right that were wrong, 8 wrong that were right, all flagged).
+ * paper, keep under 8 % of their luma (254 of 255 traces), so neither reaches this. Chroma off
+ * the line's way is held against at least a quarter of the luma (`invOff`), not against so weak a
+ * hue: else JPEG chroma noise, a good share of a weak hue, counts against the line's own pixels
+ * and the line is lost where it crosses the grid. The tracer holds a sample to a weak hue only
+ * where the line is dashed or dotted and the ink around the click keeps colour (`acquire` in
+ * rasterTrace.ts); on the random bed (seeds 1–100) that leaves 9 fewer of 1085 curves wrong (11
+ * right that were wrong, 2 wrong that were right, both flagged).
  */
 const WEAK_CHROMATIC_SHARE = 0.12;
 const WEAK_CHROMA_MIN = 8;
@@ -116,6 +126,7 @@ export function inkModel(line: Rgb, paper: Rgb, weakHue = true): InkModel {
     cy: chroma > 0 ? ky / chroma : 0,
     cz: chroma > 0 ? kz / chroma : 0,
     invChroma: chroma > 0 ? 1 / chroma : 0,
+    invOff: chroma > 0 ? 1 / Math.max(chroma, CHROMATIC_SHARE * y) : 0,
     invNorm2: 1 / n2,
     invNorm: 1 / Math.sqrt(n2),
   };
@@ -170,7 +181,7 @@ function chromaticMembership(model: InkModel, dx: number, dy: number, dz: number
   const ox = kx - along * model.cx;
   const oy = ky - along * model.cy;
   const oz = kz - along * model.cz;
-  const o = Math.sqrt(ox * ox + oy * oy + oz * oz) * model.invChroma;
+  const o = Math.sqrt(ox * ox + oy * oy + oz * oz) * model.invOff;
   const ratio = a / t;
   const ramp = ratio <= 0.1 ? 0 : ratio >= 0.35 ? 1 : (ratio - 0.1) / 0.25;
   return clamp01((t > 1 ? 1 : t) * ramp - 1.5 * o);

@@ -223,10 +223,17 @@ function acquire(image: RasterImage, guide: Px, search: number, options: RasterT
       onGrid = true;
     }
   }
-  // A weak hue is a faint coloured line's own where the ink on either side of the click keeps
-  // colour; where it is mostly grey, the click is on a grey line that took the hue from a coloured
-  // line it crosses or runs along there, and the sample is read as grey, as a weak hue always was.
-  if (!options.colour && !onGrid && model.mode === 'chromatic' && grey.mode !== 'chromatic' && greyInkAround(image, grey, colour, guide, NEAR_GUIDE_PX, search)) model = grey;
+  // A weak hue is held only for a dashed or dotted line: a dot or a short dash blurs into the paper
+  // and keeps little of its colour, while a solid line sampled with a weak hue is most often of a
+  // dull colour (brown, olive), which its grey reading follows as well. And it is a faint line's own
+  // only where the ink on either side of the click keeps colour; where that ink is mostly grey, the
+  // click is on a grey line that took the hue from a coloured line it crosses or runs along there.
+  // Either way the sample is read as grey, as a weak hue always was.
+  if (!options.colour && !onGrid && model.mode === 'chromatic' && grey.mode !== 'chromatic') {
+    const at = nearestInk(image, model, guide, search);
+    const stroke = at && measureAt(image, model, at, options.widthPx ?? 3);
+    if (!stroke || !brokenLine(image, model, stroke.centre, stroke.width) || greyInkAround(image, grey, colour, guide, NEAR_GUIDE_PX, search)) model = grey;
+  }
   const centre = nearestInk(image, model, guide, search);
   if (!centre) return undefined;
   const measured = measureAt(image, model, centre, options.widthPx ?? 3);
