@@ -15,7 +15,7 @@
  */
 import { UserError } from '../model/errors.ts';
 import simplify from 'simplify-js';
-import { colourDistance, estimatePaper, inkModel, membership, MIN_CONTRAST, windowAround, type InkModel, type Rgb } from './colour.ts';
+import { colourDistance, estimatePaper, inkModel, lumaChroma, membership, MIN_CONTRAST, windowAround, type InkModel, type Rgb } from './colour.ts';
 import { chooseOffset, followLine, indexPath, stepping, type FollowLimits, type FollowResult, type LineStyle, type Pick } from './lineFollow.ts';
 import { centreFirst, findRuns, inkAxis, membershipAt, sampleInkSection, sampleLongSection, sampleSection, type ReadCounter, type Run } from './lineProfile.ts';
 import { sheetPoint, type SheetPoint } from './points.ts';
@@ -115,6 +115,37 @@ const NEAR_GUIDE_PX = 4;
  */
 const FAINT_SLACK_PX = 2;
 
+/**
+ * Whether the ink around a guide whose sample has a weak hue is mostly grey: of the pixels between
+ * `inner` and `outer` px of the guide that the grey reading of the sample counts as ink, over half
+ * keep under a third of the sample's chroma as a share of luma (grey, not of another hue). A
+ * faint coloured line keeps its hue on either side of the click; a grey line clicked where it
+ * crosses or runs along a coloured one takes a weak hue from that line at the click alone.
+ */
+function greyInkAround(image: RasterImage, grey: InkModel, sample: Rgb, guide: Px, inner: number, outer: number): boolean {
+  const hue = lumaChroma(grey.paper, ...sample);
+  const share = hue.chroma / hue.luma;
+  const [x0, y0, x1, y1] = windowAround(image, guide[0], guide[1], outer);
+  const { data, width } = image;
+  let ink = 0;
+  let plain = 0;
+  for (let y = y0; y < y1; y++) {
+    for (let x = x0; x < x1; x++) {
+      const d = Math.hypot(x + 0.5 - guide[0], y + 0.5 - guide[1]);
+      if (d < inner || d > outer) continue;
+      const i = (y * width + x) * 4;
+      const r = data[i] as number;
+      const g = data[i + 1] as number;
+      const b = data[i + 2] as number;
+      if (membership(grey, r, g, b) < 0.5) continue;
+      ink++;
+      const c = lumaChroma(grey.paper, r, g, b);
+      if (c.chroma < (share / 3) * c.luma) plain++;
+    }
+  }
+  return ink > 0 && plain > 0.5 * ink;
+}
+
 /** Measures the line under a guide: paper and ink colour, line width, centre and direction. */
 function acquire(image: RasterImage, guide: Px, search: number, options: RasterTraceOptions): { style: LineStyle; centre: Px; axis: Px; isotropy: number } | undefined {
   const paper = estimatePaper(image, guide[0], guide[1], Math.max(2 * search, 16));
@@ -177,17 +208,31 @@ function acquire(image: RasterImage, guide: Px, search: number, options: RasterT
   let model = inkModel(colour, paper);
   // Whether the guide sat on a grid line and the model was taken from the coloured ink beside it.
   let onGrid = false;
-  if (!options.colour && model.mode !== 'chromatic') {
+  // The sample read as grey unless its hue is strong: a grey grid line mixed with a little of a
+  // faint line's hue keeps a weak hue, and is told by the grey ink it holds.
+  const grey = inkModel(colour, paper, false);
+  if (!options.colour && grey.mode !== 'chromatic') {
     // A grey sample on a grid line, with coloured ink beside the click: the guide sat where a
     // fainter coloured line crosses or runs along the grid, and the line is the coloured one.
-    const at = nearestInk(image, model, guide, search);
-    const grid = at !== undefined && onGridLine(image, model, at);
+    const at = nearestInk(image, grey, guide, search);
+    const grid = at !== undefined && onGridLine(image, grey, at);
     const tinted = grid ? chromaticInk(image, paper, colour, guide, NEAR_GUIDE_PX + FAINT_SLACK_PX) : undefined;
     const faint = tinted && inkModel(tinted, paper);
     if (faint && nearestInk(image, faint, guide, NEAR_GUIDE_PX + FAINT_SLACK_PX)) {
       model = faint;
       onGrid = true;
     }
+  }
+  // A weak hue is held only for a dashed or dotted line: a dot or a short dash blurs into the paper
+  // and keeps little of its colour, while a solid line sampled with a weak hue is most often of a
+  // dull colour (brown, olive), which its grey reading follows as well. And it is a faint line's own
+  // only where the ink on either side of the click keeps colour; where that ink is mostly grey, the
+  // click is on a grey line that took the hue from a coloured line it crosses or runs along there.
+  // Either way the sample is read as grey, as a weak hue always was.
+  if (!options.colour && !onGrid && model.mode === 'chromatic' && grey.mode !== 'chromatic') {
+    const at = nearestInk(image, model, guide, search);
+    const stroke = at && measureAt(image, model, at, options.widthPx ?? 3);
+    if (!stroke || !brokenLine(image, model, stroke.centre, stroke.width) || greyInkAround(image, grey, colour, guide, NEAR_GUIDE_PX, search)) model = grey;
   }
   const centre = nearestInk(image, model, guide, search);
   if (!centre) return undefined;
