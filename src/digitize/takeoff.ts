@@ -132,27 +132,27 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
         options.capture,
       ).catch((error: unknown) => {
         // Say which trace could not be captured; other errors pass through unchanged.
-        if (error instanceof Error && CAPTURE_ERRORS.includes(error.name)) throw new TakeoffError(`Trace ${id} (${describeTrace(trace)}): ${error.message}`);
+        if (error instanceof Error && CAPTURE_ERRORS.includes(error.name)) throw new TakeoffError(`Trace ${id} (${describeTrace(trace, takeoff.units.diameter)}): ${error.message}`);
         throw error;
       });
       outcome = { index, id, how: got.how, fromFile: false, points: got.points, notes: got.notes, lost: got.lost, ...(got.lineWidth ? { lineWidth: got.lineWidth } : {}) };
       if (got.notes.length > 0) {
         const lost = got.lost.length > 0;
-        note(lost ? 'takeoff.capture-lost' : 'takeoff.capture-fallback', lost ? 'warn' : 'note', `Trace ${id} (${describeTrace(trace)}): ${got.notes.join(' ')}`, id);
+        note(lost ? 'takeoff.capture-lost' : 'takeoff.capture-fallback', lost ? 'warn' : 'note', `Trace ${id} (${describeTrace(trace, takeoff.units.diameter)}): ${got.notes.join(' ')}`, id);
       }
-      for (const doubt of got.doubts ?? []) note(doubt.code, 'warn', `Trace ${id} (${describeTrace(trace)}): ${doubt.message}.`, id);
+      for (const doubt of got.doubts ?? []) note(doubt.code, 'warn', `Trace ${id} (${describeTrace(trace, takeoff.units.diameter)}): ${doubt.message}.`, id);
     }
-    checkTracePoints(outcome.points.length, `Trace ${id} (${describeTrace(trace)})`); // model/limits.ts
+    checkTracePoints(outcome.points.length, `Trace ${id} (${describeTrace(trace, takeoff.units.diameter)})`); // model/limits.ts
     checkTotalPoints((pointsSoFar += outcome.points.length), 'The take-off');
     if (outcome.points.length < 2) {
       // One trace that found no line must not cost the others: it is a fail, and it adds nothing.
-      note('takeoff.trace-empty', 'fail', `Trace ${id} (${describeTrace(trace)}) captured fewer than 2 points, so it adds nothing; place its guides on the line where it stands alone, or give its points.`, id);
+      note('takeoff.trace-empty', 'fail', `Trace ${id} (${describeTrace(trace, takeoff.units.diameter)}) captured fewer than 2 points, so it adds nothing; place its guides on the line where it stands alone, or give its points.`, id);
       return;
     }
     const frame = takeoff.panels.find((p) => p.id === trace.panel)?.frame;
     const outside = frame ? outcome.points.filter((p) => !insideFrame(p, frame)).length : 0;
     if (outside > 0) {
-      note('takeoff.outside-frame', 'warn', `Trace ${id} (${describeTrace(trace)}): ${outside} of ${outcome.points.length} captured points lie outside the frame of panel "${trace.panel}"; check that the guides sit on this panel's line.`, id, { outside });
+      note('takeoff.outside-frame', 'warn', `Trace ${id} (${describeTrace(trace, takeoff.units.diameter)}): ${outside} of ${outcome.points.length} captured points lie outside the frame of panel "${trace.panel}"; check that the guides sit on this panel's line.`, id, { outside });
     }
     outcomes.push(outcome);
   };
@@ -178,13 +178,13 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
     const lines = heads.map((o) => ({ points: o.points, width: o.lineWidth as number }));
     const { guides, moved } = guidesOffCrossings(image, guidesOf(trace) ?? [], lines);
     if (moved.length > 0) {
-      note('takeoff.guide-on-crossing', 'note', `Iso-trace ${id} (${describeTrace(trace)}): guide${moved.length === 1 ? '' : 's'} ${moved.map((m) => m.index + 1).join(', ')} sat where the iso-line crosses a head curve; the line was sampled a few line widths along the iso-line instead, so that the thick head curve does not lend it its colour and width.`, id);
+      note('takeoff.guide-on-crossing', 'note', `Iso-trace ${id} (${describeTrace(trace, takeoff.units.diameter)}): guide${moved.length === 1 ? '' : 's'} ${moved.map((m) => m.index + 1).join(', ')} sat where the iso-line crosses a head curve; the line was sampled a few line widths along the iso-line instead, so that the thick head curve does not lend it its colour and width.`, id);
     }
     const frame = takeoff.panels.find((p) => p.id === trace.panel)?.frame;
     const through = await throughCrossings(image, guides, lines, frame, (g) => captureTrace({ guides: g, method: trace.method, extent: trace.extent, frame }, source, options.capture).catch(() => undefined));
     const added = through.guides.length - guides.length;
     if (added > 0) {
-      note('takeoff.iso-through-crossing', 'note', `Iso-trace ${id} (${describeTrace(trace)}) stopped where it meets a head curve and was followed on beyond it (${added} guide${added === 1 ? '' : 's'} added past the crossing${added === 1 ? '' : 's'}).`, id);
+      note('takeoff.iso-through-crossing', 'note', `Iso-trace ${id} (${describeTrace(trace, takeoff.units.diameter)}) stopped where it meets a head curve and was followed on beyond it (${added} guide${added === 1 ? '' : 's'} added past the crossing${added === 1 ? '' : 's'}).`, id);
     }
     await captureOne(index, trace, through.guides, through.captured);
   }
@@ -230,7 +230,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
     const u = traceUnits(takeoff, units, trace);
     const raw = outcome.points.map((p) => cal.toData(p)).map((d) => [toSI(d[0], u.flow), toSI(d[1], u.value)] as CurvePoint);
     const pts = keepFlows(raw, (dropped) =>
-      note('takeoff.negative-flow', 'warn', `Trace ${outcome.id} (${describeTrace(trace)}): ${dropped} point${dropped === 1 ? '' : 's'} left of zero flow were dropped; check the panel's anchors.`, outcome.id, { dropped }),
+      note('takeoff.negative-flow', 'warn', `Trace ${outcome.id} (${describeTrace(trace, takeoff.units.diameter)}): ${dropped} point${dropped === 1 ? '' : 's'} left of zero flow were dropped; check the panel's anchors.`, outcome.id, { dropped }),
     );
     add(trace.quantity, (trace.diameter ?? trace.speed) as number, pts, outcome.how, outcome.id);
   }
@@ -252,9 +252,9 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
     crossingsOf.set(outcome.id, crossings);
     const perHead = new Map<number, number>();
     for (const c of crossings) perHead.set(c.key, (perHead.get(c.key) ?? 0) + 1);
-    isoCounts.push({ trace: outcome.id, describe: describeTrace(trace), level: trace.iso, perHead });
+    isoCounts.push({ trace: outcome.id, describe: describeTrace(trace, takeoff.units.diameter), level: trace.iso, perHead });
     if (crossings.length === 0) {
-      note('takeoff.iso-no-crossing', 'warn', `Iso-trace ${outcome.id} (${describeTrace(trace)}) crosses no head trace of panel "${trace.panel}"; it adds no points. Extend it across the head curves or trace those curves.`, outcome.id);
+      note('takeoff.iso-no-crossing', 'warn', `Iso-trace ${outcome.id} (${describeTrace(trace, takeoff.units.diameter)}) crosses no head trace of panel "${trace.panel}"; it adds no points. Extend it across the head curves or trace those curves.`, outcome.id);
       continue;
     }
     // A crossing is exact only where both lines are drawn paths; on a scan it is a reading.
@@ -275,7 +275,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
     const length = o.points.length >= 2 ? (arcLengths(o.points).at(-1) as number) : 0;
     return {
       id: o.id,
-      describe: describeTrace(trace),
+      describe: describeTrace(trace, takeoff.units.diameter),
       quantity: trace.quantity,
       diameter: trace.diameter,
       speed: trace.speed,
@@ -475,7 +475,8 @@ function keepFlows(points: CurvePoint[], dropped: (n: number) => void): CurvePoi
   return out;
 }
 
-export function describeTrace(trace: Trace): string {
-  const what = trace.iso !== undefined ? `${trace.quantity} iso-trace ${trace.iso}` : trace.speed !== undefined ? `${trace.quantity} at ${trace.speed} rpm` : trace.limit === 'min-flow' ? 'minimum-flow line' : `${trace.quantity} at diameter ${trace.diameter}`;
+/** A trace in words: what it plots and at which diameter (in the take-off's `diameterUnit`, when given), speed or iso level, and its panel. */
+export function describeTrace(trace: Trace, diameterUnit?: string): string {
+  const what = trace.iso !== undefined ? `${trace.quantity} iso-trace ${trace.iso} %` : trace.speed !== undefined ? `${trace.quantity} at ${trace.speed} rpm` : trace.limit === 'min-flow' ? 'minimum-flow line' : `${trace.quantity} at diameter ${trace.diameter}${diameterUnit ? ` ${diameterUnit}` : ''}`;
   return `${what} on panel "${trace.panel}"`;
 }

@@ -84,7 +84,7 @@ describe('pumpscribe takeoff', () => {
     ['a damaged sheet', (d) => (d.sheet = 'damaged.pdf'), /^pumpscribe: The PDF "damaged.pdf" is damaged/],
     ['an unknown unit', (d) => ((d.units as Record<string, string>).flow = 'furlongs'), /^pumpscribe: Unknown flow unit "furlongs"/],
     ['degenerate anchors on every panel', (d) => (d.panels as { anchors: unknown[] }[]).forEach((p) => (p.anchors = [{ at: [80, 360], x: 0, y: 0 }, { at: [80, 360], x: 1600, y: 0 }, { at: [80, 60], x: 0, y: 200 }])), /^pumpscribe: Panel "head": anchors 1 and 2 sit on the same sheet point/],
-    ['guides on no drawn line', (d) => ((d.traces as { guides: number[][]; method?: string }[])[0]!.guides = [[300, 700], [310, 710]]) && (((d.traces as { method?: string }[])[0]!.method = 'vector'), true), /^pumpscribe: Trace H13 \(head at diameter 13 on panel "head"\): No drawn line passes/],
+    ['guides on no drawn line', (d) => ((d.traces as { guides: number[][]; method?: string }[])[0]!.guides = [[300, 700], [310, 710]]) && (((d.traces as { method?: string }[])[0]!.method = 'vector'), true), /^pumpscribe: Trace H13 \(head at diameter 13 in on panel "head"\): No drawn line passes/],
   ];
   for (const [name, spoil, message] of bad) {
     it(`gives one sentence and exit 2 for ${name}`, () => {
