@@ -325,16 +325,15 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     const iso = await isoLevelsOnScan(followed, onLines, reader, 2 * page.strong, (followed[0] as RasterCurve).panel.id, options.note, page.h, { lines: unfollowed, onSheet });
     // The levels the engineer gave (`iso_levels`) name the lines still without one by the order
     // of all the lines found (isoLevels.ts levelsByOrder: the rising branch lowest first, then the
-    // falling one), when their count fits the list and every level read (one at least) agrees.
-    // Unsure: a line the finder missed, or one it broke in two, would shift the order.
+    // falling one), when their count fits the list and every level read agrees. Unsure: a line
+    // the finder missed, or one it broke in two, would shift the order.
     const byOrder = new Map<RasterCurve, number>();
     if (iso.missing && options.isoLevels && options.isoLevels.length > 0) {
       const shapes = isos.map((c) => ({ c, points: onSheet(c) }));
       const known = new Map(shapes.filter((k) => iso.levels.has(k.c)).map((k) => [k, iso.levels.get(k.c) as number] as const));
-      // At least one level read on a line must agree with the order: with none, nothing anchors it.
-      const order = known.size > 0 ? levelsByOrder(shapes, options.isoLevels, known) : null;
+      const order = levelsByOrder(shapes, options.isoLevels, known);
       for (const [k, v] of order ?? []) if (followed.includes(k.c) && !iso.levels.has(k.c)) byOrder.set(k.c, v);
-      options.note?.(order ? `iso levels given: ${byOrder.size} line${byOrder.size === 1 ? '' : 's'} named by the order of the ${isos.length} lines` : `iso levels given (${options.isoLevels.join(', ')}): the ${isos.length} lines found do not fit them in order, or no level read anchors it; no level taken`);
+      options.note?.(order ? `iso levels given: ${byOrder.size} line${byOrder.size === 1 ? '' : 's'} named by the order of the ${isos.length} lines` : `iso levels given (${options.isoLevels.join(', ')}): the ${isos.length} lines found do not fit them in order; no level taken`);
     }
     const stillMissing = followed.filter((c) => !iso.levels.has(c) && !byOrder.has(c)).length;
     if (iso.missing && stillMissing > 0) leftOut.push(options.isoLevels?.length ? iso.missing : iso.missing.replace(/; trace what is missing by hand with its level\.$/, '; give every level drawn as "iso_levels", or trace what is missing by hand with its level.'));
