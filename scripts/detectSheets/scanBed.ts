@@ -22,7 +22,6 @@
  * mislabelled; "WRONG WITHOUT A FLAG" is a curve beyond tolerance (or invented, mislabelled,
  * missed on a sheet that asked nothing) with no finding of the replay, a confidence of 0.5 or
  * more, and no question. DETECT_GUIDES=1 also replays the bed's own guides on the found panels.
- * DETECT_ANSWER_ISO=1 also gives the iso levels drawn when the detector asks for them.
  */
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
@@ -80,8 +79,6 @@ export interface CurveOutcome {
   silent: string[];
   /** The diameters were given in the take-off: the detector asked for them (labels missing or not read), and the engineer answered once. */
   gaveDiameters: boolean;
-  /** The iso levels drawn were given when asked (DETECT_ANSWER_ISO=1). */
-  gaveIso?: boolean;
   /** Head curves named from the labels read on the scan. */
   namedByLabels: number;
   /** Efficiency from iso-lines, per diameter (sheets that draw iso-lines): drawn, found (an efficiency curve came back), within tolerance, and each error in points. */
@@ -203,22 +200,8 @@ async function scoreFoundCurves(seed: number, plan: SheetPlan, takeoff: TakeoffI
       return out;
     }
   }
-  // With DETECT_ANSWER_ISO=1 the iso levels drawn are given too when the detector asks for them
-  // (a line without a level it could not read), as the engineer answers once.
-  const askedForIso = (text: string) => /"iso_levels"/.test(text);
-  if (process.env.DETECT_ANSWER_ISO === '1' && found.questions.some(askedForIso) && isoTruth.length > 0) {
-    raw.iso_levels = [...new Set(plan.lines.flatMap((l) => (l.iso === undefined ? [] : [l.iso])))];
-    out.gaveIso = true;
-    try {
-      found = await run();
-    } catch (error) {
-      out.error = error instanceof Error ? error.message : String(error);
-      out.missed = truth.length;
-      return out;
-    }
-  }
-  // The questions of the sheet: the ones answered (the diameters, the iso levels), then what the last run still asks.
-  out.questions = [...(out.gaveDiameters ? ['give the diameters drawn'] : []), ...(out.gaveIso ? ['give the iso levels drawn'] : []), ...found.questions];
+  // The questions of the sheet: the one answered (the diameters), then what the second run still asks.
+  out.questions = out.gaveDiameters ? ['give the diameters drawn', ...found.questions] : found.questions;
   out.namedByLabels = found.takeoff.traces.filter((t) => t.origin === 'detected' && t.quantity === 'head').length * (out.gaveDiameters ? 0 : 1);
   const detected = found.takeoff.traces.filter((t) => t.origin === 'detected');
   const replay = await replayTakeoff(found.takeoff, sheet, { created: '2026-01-01T00:00:00.000Z' });

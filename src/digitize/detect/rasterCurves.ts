@@ -29,7 +29,6 @@ import { distanceToTrack, headPieces, isoLevelsOnScan, isoPiecesAcross, steepLin
 import type { RasterPanelsFound } from './rasterPanels.ts';
 import { inkBlots, labelPicture, readCrops, wordsOf, type Blot, type TextReader } from './rasterText.ts';
 import { curveLabel, isoLabel, SHEET_NUMBER, sheetNumber, speedShareLabel } from './words.ts';
-import { levelsByOrder } from './isoLevels.ts';
 
 
 export interface RasterCurve {
@@ -72,8 +71,6 @@ export interface RasterCurvesFound {
 export interface RasterCurveOptions {
   /** Values the engineer gave (the take-off's diameters or speeds), used when no label is read. */
   given?: { family: 'diameter' | 'speed'; values: readonly number[] };
-  /** Every iso level drawn, as the engineer gave them (the take-off's `iso_levels`): lines without a "%" label read take theirs by order. */
-  isoLevels?: readonly number[];
   /** The rated speed of the take-off (pump.speed_rpm), rpm: a speed family labelled "100 %", "90 %" … is named from it. */
   ratedRpm?: number;
   /** Receives lines about what was read (the dump scripts print them). */
@@ -323,24 +320,11 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     const onLines = wordsOnIsoLines([...labelsAt, ...isoWordsAt], isos, heads, options.note);
     const onSheet = (c: RasterCurve) => c.track.u.map((u, i) => (c.transposed ? toSheet(c.track.v[i] as number, u) : toSheet(u, c.track.v[i] as number)));
     const iso = await isoLevelsOnScan(followed, onLines, reader, 2 * page.strong, (followed[0] as RasterCurve).panel.id, options.note, page.h, { lines: unfollowed, onSheet });
-    // The levels the engineer gave (`iso_levels`) name the lines still without one by the order
-    // of all the lines found (isoLevels.ts levelsByOrder: the rising branch lowest first, then the
-    // falling one), when their count fits the list and every level read agrees. Unsure: a line
-    // the finder missed, or one it broke in two, would shift the order.
-    const byOrder = new Map<RasterCurve, number>();
-    if (iso.missing && options.isoLevels && options.isoLevels.length > 0) {
-      const shapes = isos.map((c) => ({ c, points: onSheet(c) }));
-      const known = new Map(shapes.filter((k) => iso.levels.has(k.c)).map((k) => [k, iso.levels.get(k.c) as number] as const));
-      const order = levelsByOrder(shapes, options.isoLevels, known);
-      for (const [k, v] of order ?? []) if (followed.includes(k.c) && !iso.levels.has(k.c)) byOrder.set(k.c, v);
-      options.note?.(order ? `iso levels given: ${byOrder.size} line${byOrder.size === 1 ? '' : 's'} named by the order of the ${isos.length} lines` : `iso levels given (${options.isoLevels.join(', ')}): the ${isos.length} lines found do not fit them in order; no level taken`);
-    }
-    const stillMissing = followed.filter((c) => !iso.levels.has(c) && !byOrder.has(c)).length;
-    if (iso.missing && stillMissing > 0) leftOut.push(options.isoLevels?.length ? iso.missing : iso.missing.replace(/; trace what is missing by hand with its level\.$/, '; give every level drawn as "iso_levels", or trace what is missing by hand with its level.'));
-    for (const [c, v] of [...iso.levels, ...byOrder]) {
+    if (iso.missing) leftOut.push(iso.missing);
+    for (const [c, v] of iso.levels) {
       c.value = v;
-      c.named = iso.levels.has(c) ? 'label' : 'given';
-      c.confidence = iso.unsure.has(c) || unfollowed.length > 0 || byOrder.has(c) || byOrder.size > 0 ? Math.min(0.45, c.confidence) : 0.95 * c.confidence;
+      c.named = 'label';
+      c.confidence = iso.unsure.has(c) || unfollowed.length > 0 ? Math.min(0.45, c.confidence) : 0.95 * c.confidence;
       isoNamed.push(c);
     }
   }
