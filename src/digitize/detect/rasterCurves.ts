@@ -28,7 +28,7 @@ import { alonePlaces, continuesCourse, frameLines, liesAlong, offCourse, trackAt
 import { distanceToTrack, headPieces, isoLevelsOnScan, isoPiecesAcross, steepLines, transposeBox, wordsOnIsoLines, type FrameWord } from './rasterIso.ts';
 import type { RasterPanelsFound } from './rasterPanels.ts';
 import { inkBlots, labelPicture, readCrops, wordsOf, type Blot, type TextReader } from './rasterText.ts';
-import { curveLabel, isoLabel, SHEET_NUMBER, sheetNumber, speedShareLabel } from './words.ts';
+import { curveLabel, isoLabel, SHEET_NUMBER, sheetNumber, speedShareLabel, trimSpecks } from './words.ts';
 
 
 export interface RasterCurve {
@@ -863,7 +863,7 @@ async function nameHeads(
   // speedShares): only when a "100 %" stands by a head curve (no pump is 100 % efficient, so it
   // is no iso level) and the rated speed is known. The shares then name speeds in rpm.
   const shareOf = (r: LabelReading): number | null => {
-    const share = speedShareLabel(r.text.replace(/^[\s,.;:_\-–—'`~|]+|[\s,.;:_\-–—'`~|]+$/g, ''));
+    const share = speedShareLabel(trimSpecks(r.text));
     const digits = /\d+(?:[.,]\d+)?/.exec(r.digits.replace(/\s+/g, ''))?.[0];
     return share !== null && (digits === undefined || sheetNumber(digits) === share) ? share : null;
   };
@@ -996,7 +996,7 @@ async function nameHeads(
 function scanLabelOf(text: string): { value: number; unit: 'mm' | 'in' | 'rpm' | null } | null {
   // Specks the reader takes for a mark before or after the label (a comma, a dash: the stub of
   // the line it is printed on) are no part of it; an inch mark is.
-  text = text.replace(/^[\s,.;:_\-–—'`~|]+|[\s,.;:_\-–—'`~|]+$/g, '');
+  text = trimSpecks(text);
   const label = labelOf(text);
   if (label?.unit) return label;
   const inches = misreadInchLabel(text);
@@ -1112,7 +1112,7 @@ const MAX_INCHES = 60;
  * the digits reading has the same digits (or none). The naming still needs order and affinity to pick one set, and only one.
  */
 export function pointLost(text: string, digits: string, frameUnit: 'mm' | 'in' | 'rpm' | null): number[] {
-  const t = text.replace(/[”“″]/g, '"').replace(/^[\s,.;:_\-–—'`~|]+|[\s,.;:_\-–—'`~|]+$/g, '');
+  const t = trimSpecks(text.replace(/[”“″]/g, '"'));
   const m = /^(\d{2,5})\s*([°º*"]|in)?$/.exec(t);
   if (!m || (m[2] === undefined && frameUnit !== 'in')) return [];
   const read = m[1] as string;

@@ -23,7 +23,7 @@ import { inferIsoLevels } from './isoLevels.ts';
 import type { Box } from './panels.ts';
 import { frameLines, type LinesOptions, type Track } from './rasterLines.ts';
 import { readCrops, type Blot, type TextReader } from './rasterText.ts';
-import { isoLabel, sheetNumber } from './words.ts';
+import { isoLabel, sheetNumber, trimSpecks } from './words.ts';
 
 /** A word found in a frame: its box in the frame's cleaned ink (`clean`, offset `at` on the level page). */
 export interface FrameWord {
@@ -112,7 +112,7 @@ export function steepLines(map: InkMap, frame: Box, options: LinesOptions, norma
  */
 export function isoLevelOf(text: string): number | null {
   // Specks the reader takes for marks at either end (the stub of the line the label sits on) are no part of it.
-  const v = isoLabel(text.replace(/^[\s,.;:_\-–—'`~|]+|[\s,.;:_\-–—'`~|]+$/g, ''));
+  const v = isoLabel(trimSpecks(text));
   return v !== null && v > 0 && v < 100 ? v : null;
 }
 

@@ -59,6 +59,14 @@ export function curveLabel(text: string): CurveLabel | null {
   return null;
 }
 
+/**
+ * A word read on a scan without the specks the reader takes for marks before or after it (a
+ * comma, a dash, a stroke: the stub of the line the label is printed on). An inch mark stays.
+ */
+export function trimSpecks(text: string): string {
+  return text.replace(/^[\s,.;:_\-–—'`~|]+|[\s,.;:_\-–—'`~|]+$/g, '');
+}
+
 /** True when a text names a minimum-continuous-flow line ("min. flow", "minimum flow", "Qmin", "min. continuous flow"). */
 export function minFlowLabel(text: string): boolean {
   return /^(?:min(?:imum)?\.?\s*(?:cont(?:inuous|\.)?\s*)?flow|q\s*_?\s*min|mcf)\.?$/i.test(text.trim());
