@@ -48,8 +48,9 @@ export function centrelineOf(outline: readonly SheetPoint[], maxWidth = MAX_OUTL
   }
   // The two farthest corners lie at the two ends. A butt or square cap is an edge about as long
   // as the stroke is wide, and the end of the centre line is its middle; a round cap ends in a tip.
-  const endA = capAt(ring, ia, width);
-  const endB = capAt(ring, ib, width);
+  const axis: [number, number] = [(ring[ib] as SheetPoint)[0] - (ring[ia] as SheetPoint)[0], (ring[ib] as SheetPoint)[1] - (ring[ia] as SheetPoint)[1]];
+  const endA = capAt(ring, ia, width, axis);
+  const endB = capAt(ring, ib, width, axis);
   const inB = (k: number) => endB.includes(k);
   const walk = (from: number, step: 1 | -1): SheetPoint[] => {
     const side: SheetPoint[] = [];
@@ -74,30 +75,70 @@ export function centrelineOf(outline: readonly SheetPoint[], maxWidth = MAX_OUTL
   return { points, width };
 }
 
-/** The corner(s) of one end: the corner and its neighbour across a cap edge, or the corner alone (a tip). */
-function capAt(ring: readonly SheetPoint[], i: number, width: number): number[] {
+/**
+ * The corner(s) of one end: the corner and its neighbour across a cap edge, or the corner alone
+ * (a tip). A cap edge lies across the strip, `axis` its way from one end to the other, and is
+ * about as long as the strip is wide; of two such edges the one squarer to the axis is the cap
+ * (the side's first edge can be as short as the cap where the outline turns at a join).
+ */
+function capAt(ring: readonly SheetPoint[], i: number, width: number, axis: readonly [number, number]): number[] {
   const n = ring.length;
   const prev = (i - 1 + n) % n;
   const next = (i + 1) % n;
   const d = (a: number, b: number) => Math.hypot((ring[a] as SheetPoint)[0] - (ring[b] as SheetPoint)[0], (ring[a] as SheetPoint)[1] - (ring[b] as SheetPoint)[1]);
-  const capLike = (len: number) => len >= 0.7 * width && len <= 1.3 * width;
-  const toNext = d(i, next);
-  const toPrev = d(i, prev);
-  const nextCap = capLike(toNext);
-  const prevCap = capLike(toPrev);
-  if (nextCap && (!prevCap || Math.abs(toNext - width) <= Math.abs(toPrev - width))) return [i, next];
+  const along = Math.hypot(axis[0], axis[1]) || 1;
+  /** |cos| of the edge i→k against the axis: 0 square across, 1 along. */
+  const slant = (k: number) => Math.abs(((ring[k] as SheetPoint)[0] - (ring[i] as SheetPoint)[0]) * axis[0] + ((ring[k] as SheetPoint)[1] - (ring[i] as SheetPoint)[1]) * axis[1]) / (along * (d(i, k) || 1));
+  const capLike = (k: number) => d(i, k) >= 0.7 * width && d(i, k) <= CAP_LONGEST * width && slant(k) <= CAP_SLANT;
+  const nextCap = capLike(next);
+  const prevCap = capLike(prev);
+  if (nextCap && (!prevCap || slant(next) <= slant(prev))) return [i, next];
   if (prevCap) return [prev, i];
   return [i];
 }
 
-/** The ring without a repeated closing point. */
+/**
+ * A cap edge may be this many times the strip's width (estimated from its area and perimeter,
+ * which a join inside the outline makes small), and lies across the strip's end-to-end way
+ * within this |cos| (a short strip's farthest corners lie on a diagonal, off its axis).
+ */
+const CAP_LONGEST = 1.6;
+const CAP_SLANT = 0.6;
+
+/** Corners closer than this (sheet units) are one corner: a ring closed a hair off its start. */
+const SAME_CORNER = 1e-3;
+
+/** A corner where the outline turns by less than this sine lies on a straight edge. */
+const STRAIGHT_SINE = 1e-3;
+
+/**
+ * The ring's corners: without a repeated closing point, nor one a hair off its start, nor
+ * corners on a straight edge (a cap edge written in two halves). Either would hide a butt cap,
+ * and the centre line would then start at the cap's corner instead of its middle.
+ */
 function openRing(points: readonly SheetPoint[]): SheetPoint[] {
-  const out = [...points];
+  const out: SheetPoint[] = [];
+  for (const p of points) {
+    const last = out[out.length - 1];
+    if (!last || Math.hypot(p[0] - last[0], p[1] - last[1]) > SAME_CORNER) out.push(p);
+  }
   while (out.length > 1) {
     const first = out[0] as SheetPoint;
     const last = out[out.length - 1] as SheetPoint;
-    if (first[0] === last[0] && first[1] === last[1]) out.pop();
+    if (Math.hypot(first[0] - last[0], first[1] - last[1]) <= SAME_CORNER) out.pop();
     else break;
+  }
+  for (let k = 0; out.length > 3 && k < out.length; ) {
+    const a = out[(k - 1 + out.length) % out.length] as SheetPoint;
+    const b = out[k] as SheetPoint;
+    const c = out[(k + 1) % out.length] as SheetPoint;
+    const ux = b[0] - a[0];
+    const uy = b[1] - a[1];
+    const vx = c[0] - b[0];
+    const vy = c[1] - b[1];
+    const straight = Math.abs(ux * vy - uy * vx) <= STRAIGHT_SINE * Math.hypot(ux, uy) * Math.hypot(vx, vy) && ux * vx + uy * vy > 0;
+    if (straight) out.splice(k, 1);
+    else k++;
   }
   return out;
 }

@@ -65,3 +65,42 @@ describe('lines drawn as filled outlines', () => {
     }
   });
 });
+
+describe('the ends of a filled dash', () => {
+  // A straight dash 6 long and 1 wide at −20°, butt caps: its centre line starts and ends at the
+  // middles of its caps, however the outline's corners are written.
+  const ang = -0.35;
+  const [ux, uy, nx, ny] = [Math.cos(ang), Math.sin(ang), -Math.sin(ang), Math.cos(ang)];
+  const corners = [P(0, 0), P(6 * ux, 6 * uy), P(6 * ux + nx, 6 * uy + ny), P(nx, ny)];
+  const start = P(nx / 2, ny / 2);
+  const end = P(6 * ux + nx / 2, 6 * uy + ny / 2);
+  const near = (a: SheetPoint | undefined, b: SheetPoint) => Math.hypot(a![0] - b[0], a![1] - b[1]);
+
+  it('starts at the middle of the cap when the ring is closed a hair off its first corner', () => {
+    const line = centrelineOf([...corners, P(1e-4, 0)])!;
+    expect(near(line.points[0], start)).toBeLessThan(1e-9);
+    expect(near(line.points.at(-1), end)).toBeLessThan(1e-9);
+  });
+
+  it('ends at the middle of a cap edge written in two halves', () => {
+    const half = P((corners[1]![0] + corners[2]![0]) / 2, (corners[1]![1] + corners[2]![1]) / 2);
+    const line = centrelineOf([corners[0]!, corners[1]!, half, corners[2]!, corners[3]!])!;
+    expect(near(line.points[0], start)).toBeLessThan(1e-9);
+    expect(near(line.points.at(-1), end)).toBeLessThan(1e-9);
+  });
+
+  it('tells the cap from a side edge as short as it, where the outline turns at a join', () => {
+    // The outline of one dash of an invented test sheet's dashed NPSHr curve, a join of the
+    // drawn polyline inside it (seed 133 of the vector bed): its first side edge (1.05 long) is
+    // nearer the width its area gives (1.27) than its cap (1.54). The centre line used to start
+    // at the cap's corner, 0.8 off the line; it starts at the cap's middle.
+    const ring = [
+      [469.04775572489734, 843.7943679180717], [470.02979608925244, 843.433467054203], [471.2799028486881, 842.9692947102623], [472.523509364254, 842.5048477081299],
+      [473.7774155620079, 842.0393020732307], [474.04497841707035, 842.7600051682014], [473.61857157448577, 842.1203262397765], [473.6187089035816, 842.120234687046],
+      [474.4715225887508, 843.3995925438957], [474.471385259655, 843.3996840966263], [474.3125412721329, 843.4807082631721], [473.0614732090263, 843.9451552653045],
+      [471.8150285588131, 844.4107009002037], [470.5601610573883, 844.8765211932945], [469.5781206930332, 845.2374220571633], [469.04775572489734, 843.7943679180717],
+    ].map(([x, y]) => P(x!, y!));
+    const line = centrelineOf(ring)!;
+    expect(near(line.points[0], P((469.04775572489734 + 469.5781206930332) / 2, (843.7943679180717 + 845.2374220571633) / 2))).toBeLessThan(1e-9);
+  });
+});

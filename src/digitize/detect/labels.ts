@@ -53,6 +53,13 @@ function place(t: SheetText, value: number): PlacedLabel {
   return { value, text: t.text.trim(), centre: [t.at[0] + t.width / 2, y] as unknown as SheetPoint, leftMid: [t.at[0], y] as unknown as SheetPoint, size: t.size };
 }
 
+/**
+ * A label this many of its heights from a head curve's end, past it, may be that curve's, though
+ * another curve runs under its letters: held only where that other curve ends at another head
+ * curve's flow.
+ */
+const HEAD_END_REACH = 1.6;
+
 /** Distance from a label to a curve: on the line, or beside its right end. */
 function reach(label: PlacedLabel, curve: FoundCurve): number {
   const on = distanceToPolyline(curve.points, label.centre);
@@ -143,13 +150,17 @@ export function assignLabels(curves: readonly FoundCurve[], text: readonly Sheet
   const familyLabels = curveLabels.filter((l) => l.parsed.unit === unit).map((l) => l.label);
 
   const direct = new Map<FoundCurve, Set<number>>();
+  // The label that named each curve by place (the last, where two did: those are asked about).
+  const placedBy = new Map<FoundCurve, PlacedLabel>();
   const plain = curves.filter((c) => c.kind === 'curve');
   // Labels about as near to two curves wait: the rules below may settle them.
   const ambiguous: { label: PlacedLabel; candidates: FoundCurve[] }[] = [];
   for (const label of familyLabels) {
     const { curve, candidates } = nearest(label, plain);
-    if (curve) direct.set(curve, (direct.get(curve) ?? new Set()).add(label.value));
-    else if (candidates.length > 1) ambiguous.push({ label, candidates });
+    if (curve) {
+      direct.set(curve, (direct.get(curve) ?? new Set()).add(label.value));
+      placedBy.set(curve, label);
+    } else if (candidates.length > 1) ambiguous.push({ label, candidates });
   }
   const labelled = new Map<FoundCurve, Labelled>();
   for (const [curve, values] of direct) {
@@ -199,6 +210,15 @@ export function assignLabels(curves: readonly FoundCurve[], text: readonly Sheet
     }
   }
 
+  /** Whether `label` stands just past the end of a head curve named `value` (within HEAD_END_REACH label heights). */
+  const labelOfHeadEnd = (label: PlacedLabel | undefined, value: number): boolean =>
+    label !== undefined &&
+    plain.some((h) => {
+      if (h.panel.quantity !== 'head' || labelled.get(h)?.value !== value) return false;
+      const end = h.points[h.points.length - 1] as SheetPoint;
+      return Math.hypot(label.leftMid[0] - end[0], label.leftMid[1] - end[1]) <= HEAD_END_REACH * label.size && label.leftMid[0] >= end[0] - 0.2 * label.size;
+    });
+
   // Other panels: the head curve ending at the same flow names the curve.
   const headEnds = plain
     .filter((c) => c.panel.quantity === 'head' && labelled.has(c))
@@ -215,7 +235,11 @@ export function assignLabels(curves: readonly FoundCurve[], text: readonly Sheet
       const clear = first !== undefined && first.flow - q <= 0.04 * span && (after[1] === undefined || after[1].flow - q > 2 * Math.max(first.flow - q, 0.005 * span));
       const byEnd = clear ? first.value : null;
       const own = labelled.get(c);
-      if (own && byEnd !== null && own.value !== byEnd) {
+      if (own && byEnd !== null && own.value !== byEnd && own.how === 'label' && labelOfHeadEnd(placedBy.get(c), own.value)) {
+        // The label stands just past the end of the head curve of its value, and this curve, which
+        // runs under it, ends clearly at another head curve's flow: the label is the head curve's.
+        labelled.set(c, { curve: c, value: byEnd, how: 'end-flow', confidence: 0.9 });
+      } else if (own && byEnd !== null && own.value !== byEnd) {
         questions.push(`The ${describe(c)} is labelled ${own.value} ${unit} but ends at the flow of the ${byEnd} ${unit} head curve; which is it?`);
         labelled.delete(c);
       } else if (own && byEnd !== null) {
