@@ -86,3 +86,25 @@ describe('random vector sheet 60, its iso labels crowded', () => {
     }
   });
 });
+
+describe('random vector sheet 205, an iso-line stub under its label', () => {
+  // The right branch of the 52 % iso-line only clips the lowest head curve's end, a stub of a few
+  // points under its own "52%" label. Given the levels drawn, the three lines found are named, and
+  // the label standing by no line found is asked about rather than passed over in silence.
+  it('names the lines found and asks about the label that stands by none', { timeout: 180_000 }, async () => {
+    const seed = 205;
+    const plan = planSheet(new Dice(seed));
+    const sheet = await loadPdfSheetNode(new Uint8Array(readFileSync(join(FIXTURES, `random-${seed}.pdf`))), { name: `random-${seed}.pdf` });
+    try {
+      const levels = [...new Set(plan.lines.flatMap((l) => (l.iso === undefined ? [] : [l.iso])))];
+      const raw = { ...minimalTakeoff(plan, `random-${seed}.pdf`), iso_levels: levels };
+      const found = await detectTakeoff(parseTakeoffToDetect(raw), raw, sheet);
+      expect(found.questions).toHaveLength(1);
+      expect(found.questions[0]).toMatch(/^The label "52%" at \[\d+, \d+\] stands by no iso-line found: trace that line by hand/);
+      expect(found.takeoff.traces.filter((t) => t.iso !== undefined).map((t) => t.iso).sort()).toEqual([52, 56, 56]);
+      expect(plan.lines.filter((l) => l.iso !== undefined).map((l) => l.iso).sort()).toEqual([52, 52, 56, 56]);
+    } finally {
+      await sheet.close();
+    }
+  });
+});

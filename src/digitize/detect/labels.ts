@@ -273,6 +273,7 @@ export function assignLabels(curves: readonly FoundCurve[], text: readonly Sheet
   }
   // Iso-lines: the "%" label on the line.
   const isos = curves.filter((c) => c.kind === 'iso' && !minFlow.has(c));
+  const headFrames = [...new Set(curves.filter((c) => c.panel.quantity === 'head').map((c) => c.panel.frame))];
   const isoValues = new Map<FoundCurve, Set<number>>();
   const isoLabelsOn = new Map<FoundCurve, PlacedLabel[]>();
   for (const label of isoLabels) {
@@ -281,6 +282,11 @@ export function assignLabels(curves: readonly FoundCurve[], text: readonly Sheet
       isoValues.set(curve, (isoValues.get(curve) ?? new Set()).add(label.value));
       isoLabelsOn.set(curve, [...(isoLabelsOn.get(curve) ?? []), label]);
     } else if (candidates.length > 1) questions.push(`The label "${label.text}" stands about as near to ${candidates.length} iso-lines; which one does it name?`);
+    else if (isos.length > 0 && headFrames.some((f) => label.centre[0] > f[0] && label.centre[0] < f[2] && label.centre[1] > f[1] && label.centre[1] < f[3])) {
+      // A level printed inside a head panel by no line found: its line was not found (a short
+      // stub across the last head curve hides under its label), and that level's crossings there are missing.
+      questions.push(`The label "${label.text}" at [${label.centre[0].toFixed(0)}, ${label.centre[1].toFixed(0)}] stands by no iso-line found: trace that line by hand if the sheet draws one (a short line may hide under its label).`);
+    }
   }
   const knownIso = new Map<FoundCurve, number>();
   for (const c of isos) {
