@@ -24,8 +24,15 @@ export interface FoundCurve {
 const startsAtFlowAxis = (pts: readonly SheetPoint[], f: Box) => (pts[0] as SheetPoint)[0] - f[0] <= 0.02 * (f[2] - f[0]);
 const startsAtBottom = (pts: readonly SheetPoint[], f: Box) => f[3] - (pts[0] as SheetPoint)[1] <= 0.04 * (f[3] - f[1]);
 
-export function sortCurves(panels: readonly FoundPanel[], lines: readonly StrokeLine[]): { curves: FoundCurve[]; questions: string[] } {
+/**
+ * The curves of the panels' frames, sorted into head curves, other curves and iso-lines, and
+ * `stubs`: lines too short to be read as curves that meet a head curve on a panel with iso-lines
+ * (the end of an iso-line clipping a head curve's end; `labelledStubs` in labels.ts reads those
+ * that carry a "%" label, and the others are asked about).
+ */
+export function sortCurves(panels: readonly FoundPanel[], lines: readonly StrokeLine[]): { curves: FoundCurve[]; stubs: FoundCurve[]; questions: string[] } {
   const curves: FoundCurve[] = [];
+  const stubs: FoundCurve[] = [];
   const questions: string[] = [];
   const frames = [...new Set(panels.map((p) => p.frame))];
   let id = 0;
@@ -35,7 +42,8 @@ export function sortCurves(panels: readonly FoundPanel[], lines: readonly Stroke
     const head = here.find((p) => p.quantity === 'head');
     const eff = here.find((p) => p.quantity === 'efficiency');
     const isoCandidates: SheetPoint[][] = [];
-    for (const points of curvesInFrame(lines, frame)) {
+    const short: SheetPoint[][] = [];
+    for (const points of curvesInFrame(lines, frame, short)) {
       const add = (panel: FoundPanel, kind: 'curve' | 'iso') => curves.push({ id: id++, panel, quantity: kind === 'iso' ? 'efficiency' : (panel.quantity as Quantity), kind, points });
       if (here.length === 1 && !head) {
         add(here[0] as FoundPanel, 'curve');
@@ -56,8 +64,18 @@ export function sortCurves(panels: readonly FoundPanel[], lines: readonly Stroke
       if (touches >= 1) curves.push({ id: id++, panel: head, quantity: 'efficiency', kind: 'iso', points });
       else questions.push(`A line on panel "${head.id}" from [${fmtPt(points[0] as SheetPoint)}] to [${fmtPt(points[points.length - 1] as SheetPoint)}] is neither a head curve nor an iso-line crossing them; trace it by hand if it matters.`);
     }
+    // Where iso-lines cross the head curves, a line too short to read that meets a head curve is
+    // likely an iso-line's end clipping that curve: its crossing is an efficiency point.
+    if (curves.some((c) => c.panel === head && c.kind === 'iso')) {
+      const near = 0.01 * (frame[3] - frame[1]);
+      for (const points of short) {
+        if (heads.some((h) => crosses(h.points, points) || points.some((p) => distanceToPolyline(h.points, p) <= near) || distanceToPolyline(points, h.points[h.points.length - 1] as SheetPoint) <= near)) {
+          stubs.push({ id: id++, panel: head, quantity: 'efficiency', kind: 'iso', points });
+        }
+      }
+    }
   }
-  return { curves, questions };
+  return { curves, stubs, questions };
 }
 
 function fmtPt(p: SheetPoint): string {

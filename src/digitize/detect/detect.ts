@@ -13,7 +13,7 @@ import { fromSI, parseUnit, toSI, type QuantityKind } from '../../units/index.ts
 import { QUANTITY_KIND } from '../../units/quantityUnits.ts';
 import type { Sheet, SheetText, VectorPath } from '../sheet.ts';
 import { sortCurves, type FoundCurve } from './curves.ts';
-import { assignLabels, describe, type GivenValues, type Labelled } from './labels.ts';
+import { assignLabels, labelledStubs, describe, type GivenValues, type Labelled } from './labels.ts';
 import { sheetLines } from './lines.ts';
 import { findPanels, type FoundPanel } from './panels.ts';
 import { detectRasterTakeoff } from './rasterDetect.ts';
@@ -40,7 +40,10 @@ export interface Detection {
 /** Everything the detector finds on a vector page. */
 export function detectSheet(text: readonly SheetText[], paths: readonly VectorPath[], given?: GivenValues, isoLevels?: readonly number[], ratedRpm?: number): Detection {
   const found = findPanels(text, paths);
-  const { curves, questions: curveQuestions } = sortCurves(found.panels, sheetLines(paths));
+  const sorted = sortCurves(found.panels, sheetLines(paths));
+  const stubs = labelledStubs(sorted.stubs, sorted.curves, text);
+  const curves = [...sorted.curves, ...stubs.read];
+  const curveQuestions = [...sorted.questions, ...stubs.questions];
   const labels = assignLabels(curves, text, given, isoLevels, ratedRpm);
   return {
     panels: found.panels,

@@ -121,6 +121,30 @@ export function speedShares(
   });
 }
 
+/**
+ * The iso-line stubs (`sortCurves`) that carry a "%" label: the label's middle lies on the stub,
+ * within `STUB_LABEL_REACH` of the label's height, and nearer it than any iso-line found. Each is
+ * read as an iso-line (its label names its level); the others are asked about, one sentence each.
+ */
+export function labelledStubs(stubs: readonly FoundCurve[], curves: readonly FoundCurve[], text: readonly SheetText[]): { read: FoundCurve[]; questions: string[] } {
+  const labels = text.filter((t) => level(t) && isoLabel(t.text) !== null).map((t) => place(t, isoLabel(t.text) as number));
+  const isos = curves.filter((c) => c.kind === 'iso');
+  const read = stubs.filter((stub) =>
+    labels.some((label) => {
+      const d = distanceToPolyline(stub.points, label.centre);
+      return d <= STUB_LABEL_REACH * label.size && isos.every((c) => c.panel !== stub.panel || distanceToPolyline(c.points, label.centre) > d);
+    }),
+  );
+  const at = (p: SheetPoint) => `${p[0].toFixed(0)}, ${p[1].toFixed(0)}`;
+  const questions = stubs
+    .filter((s) => !read.includes(s))
+    .map((s) => `A short line on panel "${s.panel.id}" from [${at(s.points[0] as SheetPoint)}] to [${at(s.points[s.points.length - 1] as SheetPoint)}] meets a head curve, too short to be read as an iso-line and with no "%" label on it; if it is the end of one, trace it by hand with its level (its crossing gives an efficiency point).`);
+  return { read, questions };
+}
+
+/** How far from a stub, in label heights, the middle of the "%" label that names it may lie. */
+const STUB_LABEL_REACH = 0.8;
+
 export function assignLabels(curves: readonly FoundCurve[], text: readonly SheetText[], given?: GivenValues, isoGiven?: readonly number[], ratedRpm?: number): LabelResult {
   const questions: string[] = [];
   const curveLabels: { label: PlacedLabel; parsed: CurveLabel }[] = [];

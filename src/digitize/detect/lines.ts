@@ -65,7 +65,7 @@ export function inBox(p: readonly [number, number], box: Box, margin = 0.01): bo
  * The lines of one frame that may be curves: not level or upright, not closed, at least 3 % of
  * the frame wide or high, most of their length inside the frame; clipped to the frame.
  */
-export function curvesInFrame(lines: readonly StrokeLine[], frame: Box): SheetPoint[][] {
+export function curvesInFrame(lines: readonly StrokeLine[], frame: Box, stubs?: SheetPoint[][]): SheetPoint[][] {
   const out: { points: SheetPoint[]; style: string }[] = [];
   const w = frame[2] - frame[0];
   const h = frame[3] - frame[1];
@@ -82,7 +82,12 @@ export function curvesInFrame(lines: readonly StrokeLine[], frame: Box): SheetPo
       const ys = part.map((p) => p[1]);
       const spanX = Math.max(...xs) - Math.min(...xs);
       const spanY = Math.max(...ys) - Math.min(...ys);
-      if (spanX < 0.03 * w && spanY < 0.03 * h) continue;
+      if (spanX < 0.03 * w && spanY < 0.03 * h) {
+        // Too short to be read as a curve; handed back (when asked) so that a stub of an
+        // iso-line crossing a head curve is not passed over in silence.
+        stubs?.push(part);
+        continue;
+      }
       // Left to right, as curves are read.
       const clean = dropSpikes(part);
       out.push({ points: (clean[0] as SheetPoint)[0] <= (clean[clean.length - 1] as SheetPoint)[0] ? clean : [...clean].reverse(), style: line.style });
