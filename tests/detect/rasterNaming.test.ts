@@ -4,7 +4,7 @@
  * crossing line carried on through a bunch is unsure. INVENTED heads and lines.
  */
 import { describe, expect, it } from 'vitest';
-import { bandsHaveNoRoom, bunchedRun, chooseNames, courseBreak, labelCandidates, matchByAffinity, missingCurves, pointLost } from '../../src/digitize/detect/rasterCurves.ts';
+import { bandsHaveNoRoom, bunchedRun, chooseNames, continuationOf, courseBreak, joinTracks, labelCandidates, matchByAffinity, missingCurves, pointLost } from '../../src/digitize/detect/rasterCurves.ts';
 import { inkMap, levelOf } from '../../src/digitize/detect/ink.ts';
 import { labelPicture } from '../../src/digitize/detect/rasterText.ts';
 import type { FoundPanel } from '../../src/digitize/detect/panels.ts';
@@ -196,5 +196,33 @@ describe('labels read again where the first reading named no curve', () => {
       expect(at(50, 30)).toBeGreaterThan(170); // the grid-free ink kept under half of it
       expect(at(64, 30)).toBeLessThan(40); // paper between glyph and mark
     });
+  });
+});
+
+describe('a head line broken by a label printed on it', () => {
+  const track = (f: (u: number) => number, from: number, to: number) => {
+    const t: Track = { u: [], v: [], len: [], room: [] };
+    for (let u = from; u < to; u++) (t.u.push(u + 0.5), t.v.push(f(u + 0.5)), t.len.push(2), t.room.push(20));
+    return t;
+  };
+  const head = (u: number) => 100 + 0.0003 * u * u;
+  const iso = (u: number) => 40 + 0.6 * u;
+  it('is joined to the line that carries its course on past the label', () => {
+    // The head line stops at a label over columns 500-540 and goes on beyond it; an iso-line
+    // crossing near there starts past the label too, off the course.
+    const before = track(head, 0, 500);
+    const beyond = { track: track(head, 540, 900) };
+    const crossing = { track: track(iso, 520, 700) };
+    expect(continuationOf(before, [crossing, beyond], 2, 1000)).toBe(beyond);
+    const joined = joinTracks(before, beyond.track);
+    expect(joined.u).toHaveLength(860);
+    expect(joined.joins).toEqual([500]);
+  });
+  it('is not joined to a line off its course, nor to one starting beyond a label\'s length', () => {
+    const before = track(head, 0, 500);
+    expect(continuationOf(before, [{ track: track((u) => head(u) + 12, 540, 900) }], 2, 1000)).toBeUndefined();
+    expect(continuationOf(before, [{ track: track(head, 600, 900) }], 2, 1000)).toBeUndefined();
+    // Two lines on the course: which one goes on is not clear, and neither is joined.
+    expect(continuationOf(before, [{ track: track(head, 540, 900) }, { track: track((u) => head(u) + 1, 545, 900) }], 2, 1000)).toBeUndefined();
   });
 });

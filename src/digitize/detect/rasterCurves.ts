@@ -199,6 +199,27 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     if (head) labelsAt.push(...labels.words.map((word) => ({ word, frame, clean: labels.clean, plain: printed.clean, at: labels.at })));
   }
 
+  // A head line broken by a label printed on it (or cut where the finder ran on along an iso-line
+  // from the label) goes on beyond the label as a line that starts off the flow axis, which would
+  // be sorted as an iso-line: joined back where that line carries on the head line's course.
+  for (const c of curves) {
+    if (c.kind !== 'curve' || c.quantity !== 'head' || c.transposed) continue;
+    const width = Math.max(2, median(c.track.len));
+    const fw = c.levelFrame[2] - c.levelFrame[0];
+    const cut = courseBreak(c.track, Math.max(3, 1.5 * width), 0.15 * fw);
+    if (cut !== null) c.track = cutTrack(c.track, cut);
+    // An iso-line's branch that starts just past the head line's end and runs along its course
+    // crosses the other head lines, and a piece of another head line lies along it: the head
+    // line's own rest does neither.
+    const others = curves.filter((k) => k !== c && k.kind === 'curve' && k.quantity === 'head' && !k.transposed && k.levelFrame === c.levelFrame).map((k) => k.track);
+    for (;;) {
+      const rest = continuationOf(c.track, curves.filter((k) => k.kind === 'iso' && !k.transposed && k.levelFrame === c.levelFrame && !others.some((o) => tracksCross(o, k.track) || liesAlong(k.track, o, Math.max(3, 1.5 * width), ALONG_OTHER_SHARE))), width, fw);
+      if (!rest) break;
+      c.track = joinTracks(c.track, rest.track);
+      curves.splice(curves.indexOf(rest), 1);
+    }
+  }
+
   bandsHaveNoRoom(curves);
   // Guides where each line stands alone, and the tracer's line from them.
   for (const [i, c] of curves.entries()) {
@@ -207,12 +228,6 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     // Head and power curves of one family do not cross (the larger impeller gives more of both at
     // every flow): their guides may spread over the whole line. Efficiency and NPSHr curves cross.
     const spread = c.kind === 'curve' && (c.quantity === 'head' || c.quantity === 'power');
-    // A head curve's line that turns off its own course (onto an iso-line crossing it at a
-    // shallow angle) ends there: spread guides past the turn would sit on the other line.
-    if (spread && c.quantity === 'head') {
-      const cut = courseBreak(c.track, Math.max(3, 1.5 * width), 0.15 * (c.levelFrame[2] - c.levelFrame[0]));
-      if (cut !== null) c.track = cutTrack(c.track, cut);
-    }
     const { places, trust } = guidePlaces(c.track, width, c.levelFrame[2] - c.levelFrame[0], spread);
     c.confidence *= trust;
     if (places.length === 0) {
@@ -471,6 +486,61 @@ export function courseBreak(t: Track, tol: number, reach: number): number | null
     if (far.filter(Boolean).length >= 0.4 * far.length && tail.every(Boolean)) return i + 1;
   }
   return null;
+}
+
+/**
+ * The one line of `others` that carries a head line's track on past its end: it starts past the
+ * end within `JOIN_GAP_SHARE` of the frame's width (a label's length), and its first columns, up
+ * to a tenth of the frame's width and at least `JOIN_LENGTH_SHARE` of it, lie on the course of
+ * the track's last columns (continuesCourse). Undefined when none does, or more than one.
+ */
+export function continuationOf<T extends { track: Track }>(t: Track, others: readonly T[], width: number, fw: number): T | undefined {
+  const end = t.u[t.u.length - 1] as number;
+  const tol = Math.max(3, 1.5 * width);
+  const found = others.filter((k) => {
+    const u0 = k.track.u[0] as number;
+    const u1 = k.track.u[k.track.u.length - 1] as number;
+    if (u0 <= end || u0 - end > JOIN_GAP_SHARE * fw || u1 - u0 < JOIN_LENGTH_SHARE * fw) return false;
+    // A head line falls with flow past a label; a level line there is a grid line's remnant.
+    if (((k.track.v[k.track.v.length - 1] as number) - (k.track.v[0] as number)) / (u1 - u0) < JOIN_FALL) return false;
+    const first: [number, number][] = [];
+    for (let i = 0; i < k.track.u.length && (k.track.u[i] as number) - u0 <= 0.1 * fw; i++) first.push([k.track.u[i] as number, k.track.v[i] as number]);
+    return continuesCourse(t, first, 'end', tol, 0.15 * fw);
+  });
+  return found.length === 1 ? found[0] : undefined;
+}
+
+/** How far past a head line's end, in frame widths, its continuation beyond a label may start. */
+const JOIN_GAP_SHARE = 0.06;
+/** Share of its columns along another head line that makes a line no head line's continuation (a piece of that other line). */
+const ALONG_OTHER_SHARE = 0.1;
+/** Rows a continuation must fall per column (on the level frame): a head curve falls past the labels on it, a grid line does not. */
+const JOIN_FALL = 0.03;
+/** How long, in frame widths, a continuation must be to be joined. */
+const JOIN_LENGTH_SHARE = 0.05;
+
+/** True when one track passes from one side of the other to the other side over their common columns. */
+export function tracksCross(a: Track, b: Track): boolean {
+  let side = 0;
+  for (let i = 0; i < b.u.length; i++) {
+    const at = trackAt(a, b.u[i] as number);
+    if (at === null) continue;
+    const s = Math.sign((b.v[i] as number) - at);
+    if (s !== 0 && side !== 0 && s !== side) return true;
+    if (s !== 0) side = s;
+  }
+  return false;
+}
+
+/** Two tracks one after the other as one, the join marked (guides are not spread across it). */
+export function joinTracks(a: Track, b: Track): Track {
+  return {
+    u: [...a.u, ...b.u],
+    v: [...a.v, ...b.v],
+    room: [...a.room, ...b.room],
+    len: [...a.len, ...b.len],
+    joins: [...(a.joins ?? []), a.u.length, ...(b.joins ?? []).map((j) => j + a.u.length)],
+  };
 }
 
 /** The track's first `n` columns. */
