@@ -62,26 +62,34 @@ describe.each([2, 9, 19, 24, 108, 133, 140])('random vector sheet %i', (seed) =>
   });
 });
 
+/**
+ * Detects the fixture of bed seed `seed` with the iso levels the plan drew given (as the engineer
+ * answers the detector's question), and hands the detection and the levels drawn (sorted) to `check`.
+ */
+async function withLevelsGiven(seed: number, check: (found: Awaited<ReturnType<typeof detectTakeoff>>, drawn: number[]) => void): Promise<void> {
+  const plan = planSheet(new Dice(seed));
+  const sheet = await loadPdfSheetNode(new Uint8Array(readFileSync(join(FIXTURES, `random-${seed}.pdf`))), { name: `random-${seed}.pdf` });
+  try {
+    const drawn = plan.lines.flatMap((l) => (l.iso === undefined ? [] : [l.iso])).sort();
+    const raw = { ...minimalTakeoff(plan, `random-${seed}.pdf`), iso_levels: [...new Set(drawn)] };
+    check(await detectTakeoff(parseTakeoffToDetect(raw), raw, sheet), drawn);
+  } finally {
+    await sheet.close();
+  }
+}
+
+const isoLevelsOf = (found: Awaited<ReturnType<typeof detectTakeoff>>) => found.takeoff.traces.flatMap((t) => (t.iso === undefined ? [] : [t.iso])).sort();
+
 // Seeds 60 and 205 end an iso-line's right branch in a stub of a few points clipping the lowest
 // head curve's end, under its own "%" label (at 60 beside another line's label): too short to be
-// read as a curve, the stub carries its label and is read as that level's line. Their levels are
-// given, as the engineer answers the detector's question.
+// read as a curve, the stub carries its label and is read as that level's line.
 describe.each([60, 205])('random vector sheet %i, an iso-line stub under its label', (seed) => {
   it('reads the stub as its label\'s level, with every other line, and asks nothing', { timeout: 180_000 }, async () => {
-    const plan = planSheet(new Dice(seed));
-    const sheet = await loadPdfSheetNode(new Uint8Array(readFileSync(join(FIXTURES, `random-${seed}.pdf`))), { name: `random-${seed}.pdf` });
-    try {
-      const levels = [...new Set(plan.lines.flatMap((l) => (l.iso === undefined ? [] : [l.iso])))];
-      const raw = { ...minimalTakeoff(plan, `random-${seed}.pdf`), iso_levels: levels };
-      const found = await detectTakeoff(parseTakeoffToDetect(raw), raw, sheet);
+    await withLevelsGiven(seed, (found, drawn) => {
       expect(found.questions).toEqual([]);
-      const got = found.takeoff.traces.filter((t) => t.iso !== undefined).map((t) => t.iso).sort();
-      const drawn = plan.lines.filter((l) => l.iso !== undefined).map((l) => l.iso).sort();
-      expect(got).toEqual(drawn);
+      expect(isoLevelsOf(found)).toEqual(drawn);
       expect(drawn).toEqual(seed === 60 ? [63, 66, 69, 69, 72, 72, 75, 75] : [52, 52, 56, 56]);
-    } finally {
-      await sheet.close();
-    }
+    });
   });
 });
 
@@ -89,19 +97,11 @@ describe('random vector sheet 244, an iso-line stub with no label', () => {
   // The right branch of the 60 % iso-line ends in a stub clipping the lowest head curve's end,
   // with no label on it: the level does not follow, so the stub is asked about, not passed over.
   it('asks about the stub, one sentence', { timeout: 180_000 }, async () => {
-    const seed = 244;
-    const plan = planSheet(new Dice(seed));
-    const sheet = await loadPdfSheetNode(new Uint8Array(readFileSync(join(FIXTURES, `random-${seed}.pdf`))), { name: `random-${seed}.pdf` });
-    try {
-      const levels = [...new Set(plan.lines.flatMap((l) => (l.iso === undefined ? [] : [l.iso])))];
-      const raw = { ...minimalTakeoff(plan, `random-${seed}.pdf`), iso_levels: levels };
-      const found = await detectTakeoff(parseTakeoffToDetect(raw), raw, sheet);
+    await withLevelsGiven(244, (found, drawn) => {
       expect(found.questions).toHaveLength(1);
       expect(found.questions[0]).toMatch(/^A short line on panel "head" from \[\d+, \d+\] to \[\d+, \d+\] meets a head curve, too short to be read as an iso-line and with no "%" label on it/);
-      expect(found.takeoff.traces.filter((t) => t.iso !== undefined).map((t) => t.iso).sort()).toEqual([54, 57, 60, 63, 63]);
-      expect(plan.lines.filter((l) => l.iso !== undefined).map((l) => l.iso).sort()).toEqual([54, 57, 60, 60, 63, 63]);
-    } finally {
-      await sheet.close();
-    }
+      expect(isoLevelsOf(found)).toEqual([54, 57, 60, 63, 63]);
+      expect(drawn).toEqual([54, 57, 60, 60, 63, 63]);
+    });
   });
 });
