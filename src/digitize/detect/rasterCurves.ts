@@ -532,15 +532,15 @@ export function tracksCross(a: Track, b: Track): boolean {
   return false;
 }
 
-/** Two tracks one after the other as one, the join marked (guides are not spread across it). */
+/**
+ * Two tracks one after the other as one line. The place they meet is not marked as a join (the
+ * finder's joins across a bunch, which guides are not spread across): the course vouched that
+ * they are one line, and guides on both sides of the label keep the tracer on it where a bunch
+ * crosses near the label.
+ */
 export function joinTracks(a: Track, b: Track): Track {
-  return {
-    u: [...a.u, ...b.u],
-    v: [...a.v, ...b.v],
-    room: [...a.room, ...b.room],
-    len: [...a.len, ...b.len],
-    joins: [...(a.joins ?? []), a.u.length, ...(b.joins ?? []).map((j) => j + a.u.length)],
-  };
+  const joins = [...(a.joins ?? []), ...(b.joins ?? []).map((j) => j + a.u.length)];
+  return { u: [...a.u, ...b.u], v: [...a.v, ...b.v], room: [...a.room, ...b.room], len: [...a.len, ...b.len], ...(joins.length > 0 ? { joins } : {}) };
 }
 
 /** The track's first `n` columns. */
