@@ -121,13 +121,21 @@ export function speedShares(
   });
 }
 
+/** The level "%" labels of a page, placed, in the text's order. */
+function placedIsoLabels(text: readonly SheetText[]): PlacedLabel[] {
+  return text.flatMap((t) => {
+    const iso = level(t) ? isoLabel(t.text) : null;
+    return iso === null ? [] : [place(t, iso)];
+  });
+}
+
 /**
  * The iso-line stubs (`sortCurves`) that carry a "%" label: the label's middle lies on the stub,
  * within `STUB_LABEL_REACH` of the label's height, and nearer it than any iso-line found. Each is
  * read as an iso-line (its label names its level); the others are asked about, one sentence each.
  */
 export function labelledStubs(stubs: readonly FoundCurve[], curves: readonly FoundCurve[], text: readonly SheetText[]): { read: FoundCurve[]; questions: string[] } {
-  const labels = text.filter((t) => level(t) && isoLabel(t.text) !== null).map((t) => place(t, isoLabel(t.text) as number));
+  const labels = placedIsoLabels(text);
   const isos = curves.filter((c) => c.kind === 'iso');
   const read = stubs.filter((stub) =>
     labels.some((label) => {
@@ -148,7 +156,7 @@ const STUB_LABEL_REACH = 0.8;
 export function assignLabels(curves: readonly FoundCurve[], text: readonly SheetText[], given?: GivenValues, isoGiven?: readonly number[], ratedRpm?: number): LabelResult {
   const questions: string[] = [];
   const curveLabels: { label: PlacedLabel; parsed: CurveLabel }[] = [];
-  let isoLabels: PlacedLabel[] = [];
+  let isoLabels = placedIsoLabels(text);
   const shares: { label: PlacedLabel; share: number }[] = [];
   const minFlowLabels: PlacedLabel[] = [];
   for (const t of text) {
@@ -156,8 +164,6 @@ export function assignLabels(curves: readonly FoundCurve[], text: readonly Sheet
     if (minFlowLabel(t.text)) minFlowLabels.push(place(t, NaN));
     const parsed = curveLabel(t.text);
     if (parsed) curveLabels.push({ label: place(t, parsed.value), parsed });
-    const iso = isoLabel(t.text);
-    if (iso !== null) isoLabels.push(place(t, iso));
     const share = speedShareLabel(t.text);
     if (share !== null) shares.push({ label: place(t, share), share });
   }
