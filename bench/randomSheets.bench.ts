@@ -17,10 +17,10 @@ import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { imageSheet } from '../src/digitize/loaders/imageSheet.ts';
 import { replayTakeoff } from '../src/digitize/takeoff.ts';
-import { parseTakeoff } from '../src/model/takeoff.ts';
+import { parseTakeoff, type TakeoffInput } from '../src/model/takeoff.ts';
 import type { CurveSet } from '../src/model/curveset.ts';
 import { decode } from '../scripts/randomSheets/camera.ts';
-import { calibrationError, makeRandomSheet, sheetGeometry, type TruthCurve } from '../scripts/randomSheets/randomSheet.ts';
+import { calibrationError, makeRandomSheet, sheetGeometry, withCarefulGuides, type TruthCurve } from '../scripts/randomSheets/randomSheet.ts';
 import type { PumpFamily } from '../scripts/randomSheets/pumpFamily.ts';
 import { scoreReplay, type CurveScore } from '../scripts/randomSheets/score.ts';
 
@@ -95,6 +95,8 @@ export async function runBed(count: number, firstSeed: number, log = true): Prom
   const rows: BedRow[] = [];
   const residuals: Residual[] = [];
   const times: number[] = [];
+  // RANDOM_GUIDES=careful: every guide where its line stands alone (the person did their part).
+  const careful = process.env.RANDOM_GUIDES === 'careful';
   for (let i = 0; i < count; i++) {
     const seed = firstSeed + i;
     const kind = seed % 3 === 2 ? 'photo' : 'scan';
@@ -105,7 +107,7 @@ export async function runBed(count: number, firstSeed: number, log = true): Prom
     let set: CurveSet | { refused: string };
     const t0 = performance.now();
     try {
-      const replay = await replayTakeoff(parseTakeoff(meta.takeoff), sheet);
+      const replay = await replayTakeoff(parseTakeoff(careful ? withCarefulGuides(meta.takeoff as TakeoffInput, seed, kind) : meta.takeoff), sheet);
       set = replay.curveSet;
       // What the screen shows for the calibration, against the real error of the calibration alone.
       const geometry = sheetGeometry(seed, kind);

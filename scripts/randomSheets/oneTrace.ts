@@ -10,7 +10,7 @@ import { traceRaster } from '../../src/digitize/rasterTrace.ts';
 import { sheetPoint } from '../../src/digitize/points.ts';
 import { siblingGuides } from '../../src/digitize/vectorChoice.ts';
 import { applyH, decode } from './camera.ts';
-import { sheetGeometry } from './randomSheet.ts';
+import { sheetGeometry, withCarefulGuides } from './randomSheet.ts';
 import { nearest } from './traceGeometry.ts';
 import type { TakeoffInput } from '../../src/model/takeoff.ts';
 
@@ -20,7 +20,9 @@ const kind = seed % 3 === 2 ? 'photo' : 'scan';
 const base = join(import.meta.dirname, '..', '..', 'artifacts', 'random-sheets', RENDER_VERSION, `${seed}-${kind}`);
 if (!existsSync(`${base}.jpg`)) throw new Error('sheet not in the cache');
 const jpeg = readFileSync(`${base}.jpg`);
-const takeoff = (JSON.parse(readFileSync(`${base}.json`, 'utf8')) as { takeoff: TakeoffInput }).takeoff;
+const stored = (JSON.parse(readFileSync(`${base}.json`, 'utf8')) as { takeoff: TakeoffInput }).takeoff;
+// RANDOM_GUIDES=careful: the guides placed where each line stands alone, as the bench's careful view.
+const takeoff = process.env.RANDOM_GUIDES === 'careful' ? withCarefulGuides(stored, seed, kind) : stored;
 const { plan, shot } = sheetGeometry(seed, kind);
 const decoded = await decode(jpeg);
 const image = { width: decoded.width, height: decoded.height, data: decoded.data, scale: 1 };

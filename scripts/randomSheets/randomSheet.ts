@@ -102,6 +102,42 @@ export function guidesFor(dice: Dice, line: LinePlan, crossings: Pt[], shot: Sho
   return at.map((p) => applyH(shot.h, p));
 }
 
+/** Room a careful guide leaves to every other line of its panel: line widths, plus pixels. */
+const CAREFUL_ROOM_WIDTHS = 4;
+const CAREFUL_ROOM_PX = 8;
+
+/**
+ * Where a careful person clicks on a line: `count` places spread evenly over the stretches where
+ * no other line of the panel passes within a few line widths (the line stands alone there), on the
+ * line's centre; the hurried guides (guidesFor) are kept for a line that never stands alone.
+ * Flat page pixels, mapped through the camera. A second view of the bed: what the tracer does
+ * when the person did their part, apart from where a hurried click put it.
+ */
+export function carefulGuides(plan: SheetPlan, line: LinePlan, shot: Shot, count = 3): Array<[number, number]> | undefined {
+  const others = plan.lines.filter((l) => l !== line && l.panel === line.panel);
+  const room = CAREFUL_ROOM_WIDTHS * line.style.width + CAREFUL_ROOM_PX;
+  const alone: number[] = [];
+  line.points.forEach((p, k) => {
+    const clear = others.every((o) => o.points.every((q) => Math.abs(q[0] - p[0]) > room || Math.hypot(q[0] - p[0], q[1] - p[1]) >= room));
+    if (clear) alone.push(k);
+  });
+  if (alone.length < count) return undefined;
+  return Array.from({ length: count }, (_, j) => applyH(shot.h, line.points[alone[Math.floor(((j + 0.5) / count) * alone.length)] as number] as Pt));
+}
+
+/** The sheet's take-off with every raster trace's guides placed carefully (carefulGuides), where a line stands alone anywhere. */
+export function withCarefulGuides(takeoff: TakeoffInput, seed: number, kind: 'scan' | 'photo'): TakeoffInput {
+  const { plan, shot } = sheetGeometry(seed, kind);
+  return {
+    ...takeoff,
+    traces: takeoff.traces.map((t) => {
+      const line = plan.lines.find((l) => l.id === t.id);
+      const guides = line && t.guides ? carefulGuides(plan, line, shot) : undefined;
+      return guides ? { ...t, guides } : t;
+    }),
+  };
+}
+
 export async function makeRandomSheet(seed: number, kind: 'scan' | 'photo'): Promise<RandomSheet> {
   const dice = new Dice(seed);
   const plan = planSheet(dice);

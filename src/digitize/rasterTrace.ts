@@ -20,6 +20,7 @@ import { chooseOffset, followLine, indexPath, stepping, type FollowLimits, type 
 import { centreFirst, findRuns, inkAxis, membershipAt, sampleInkSection, sampleLongSection, sampleSection, type ReadCounter, type Run } from './lineProfile.ts';
 import { sheetPoint, type SheetPoint } from './points.ts';
 import type { RasterImage } from './raster.ts';
+import { withoutGrid } from './gridLines.ts';
 import { alongBand } from './rasterBand.ts';
 import { dashReach, restyleAhead, restyleAlong, solidFrom, throughBunch, type BeyondBunch, type CoursePoint } from './rasterEnds.ts';
 import { brokenWhereUncovered, chromaticInk, onGridLine } from './rasterFaint.ts';
@@ -84,6 +85,9 @@ export interface RasterTraceResult {
 }
 
 const THRESHOLD = 0.4;
+
+/** How far beyond the frame the grid is taken out, pixels (the frame's own lines with it). */
+const GRID_MARGIN_PX = 4;
 
 type Px = [number, number];
 
@@ -538,7 +542,11 @@ function pairs(flat: number[]): Px[] {
 }
 
 /** Follows a line through a raster from guide to guide (see the file comment). */
-export function traceRaster(image: RasterImage, guides: readonly SheetPoint[], options: RasterTraceOptions = {}): RasterTraceResult {
+export function traceRaster(original: RasterImage, guides: readonly SheetPoint[], options: RasterTraceOptions = {}): RasterTraceResult {
+  const f = options.frame;
+  // The printed grid is taken out of the frame first (gridLines.ts): a thin curve is then not
+  // taken for a grid line where it runs along or across one.
+  const image = f ? withoutGrid(original, [f[0] * original.scale - GRID_MARGIN_PX, f[1] * original.scale - GRID_MARGIN_PX, f[2] * original.scale + GRID_MARGIN_PX, f[3] * original.scale + GRID_MARGIN_PX]) : original;
   const px = validateGuides(image, guides);
   const counter: ReadCounter = { reads: 0 };
   const toSheetPt = (p: Px) => sheetPoint(p[0] / image.scale, p[1] / image.scale);
@@ -1239,6 +1247,8 @@ function crowdedAt(image: RasterImage, style: LineStyle, points: readonly Px[], 
       start = -1;
     }
   }
+  // Ends inside the bunch: the line it ends on may be a neighbour that ran on beside it.
+  if (start >= 0 && along - startAlong >= bunch) return points[start] as Px;
   return undefined;
 }
 

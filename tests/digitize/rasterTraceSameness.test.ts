@@ -99,8 +99,9 @@ const COLOUR_PANELS: Record<string, string> = {
   'head-330 among': 'e3ace03c096323e9',
   'power-330 alone': '9380765f053e0397',
   'power-330 among': '9380765f053e0397',
-  'efficiency-330 alone': '1594ec59edfae072',
-  'efficiency-330 among': '1594ec59edfae072',
+  // A bunch-end doubt since an extension that ends inside a bunch is doubted too (it may end on a neighbour).
+  'efficiency-330 alone': '82ddd3ead1305f00',
+  'efficiency-330 among': '82ddd3ead1305f00',
   'head-310 alone': '030d0df4906b6245',
   'head-310 among': '030d0df4906b6245',
   'power-310 alone': 'a04d72cf6b17e4bb',
