@@ -122,9 +122,21 @@ function lumaPass(data: Uint8ClampedArray): number {
 async function traceAgainstNative(takeoff: Takeoff, image: RasterImage, traceTarget?: number): Promise<void> {
   const copy = new Uint8ClampedArray(image.data.length);
   const source: CaptureSource = { kind: 'image', lines: async () => [], raster: async () => image };
+  // The frame as the replay passes it (the sample take-offs give none: their traces run without a
+  // frame and keep the grid). `framed` is the second view: each panel framed by its anchors' box
+  // (they stand at the plot's corners), as a take-off with frames is traced, grid taken out.
+  const frameOf = (t: Takeoff['traces'][number], framed = false) => {
+    const panel = takeoff.panels.find((p) => p.id === t.panel);
+    if (panel?.frame) return { frame: panel.frame };
+    if (!framed || !panel) return {};
+    const xs = panel.anchors.map((a) => a.at[0]);
+    const ys = panel.anchors.map((a) => a.at[1]);
+    return { frame: [Math.min(...xs), Math.min(...ys), Math.max(...xs), Math.max(...ys)] as const };
+  };
   const native: number[] = [];
   const reading: number[] = [];
   const trace: number[] = [];
+  const framedTrace: number[] = [];
   const capture: number[] = [];
   let sink = 0;
   for (let round = 0; round < 10; round++) {
@@ -133,16 +145,27 @@ async function traceAgainstNative(takeoff: Takeoff, image: RasterImage, traceTar
     const t0 = performance.now();
     copy.set(image.data);
     const t1 = performance.now();
-    for (const t of takeoff.traces) if (t.guides) traceRaster(image, t.guides.map(([gx, gy]) => sheetPoint(gx, gy)));
+    // Each round on a fresh image object, with the panels' frames as the replay passes them: the
+    // grid of each panel is found and taken out once a round (gridLines.ts keeps it per image).
+    const fresh = { ...image };
+    const freshSource: CaptureSource = { ...source, raster: async () => ({ ...image }) };
+    for (const t of takeoff.traces) if (t.guides) traceRaster(fresh, t.guides.map(([gx, gy]) => sheetPoint(gx, gy)), { ...frameOf(t) });
     const t2 = performance.now();
+    const freshFramed = { ...image };
+    const f0 = performance.now();
+    for (const t of takeoff.traces) if (t.guides) traceRaster(freshFramed, t.guides.map(([gx, gy]) => sheetPoint(gx, gy)), { ...frameOf(t, true) });
+    const f1 = performance.now();
+    const captured = await freshSource.raster();
+    const once: CaptureSource = { ...source, raster: async () => captured };
     for (const t of takeoff.traces) {
-      await captureTrace({ guides: t.guides?.map(([gx, gy]) => sheetPoint(gx, gy)), points: t.points?.map(([px, py]) => sheetPoint(px, py)), method: t.method }, source);
+      await captureTrace({ guides: t.guides?.map(([gx, gy]) => sheetPoint(gx, gy)), points: t.points?.map(([px, py]) => sheetPoint(px, py)), method: t.method, ...frameOf(t) }, once);
     }
     const t3 = performance.now();
     if (round === 0) continue; // warm-up
     native.push(t1 - t0);
     reading.push(t0 - r0);
     trace.push(t2 - t1);
+    framedTrace.push(f1 - f0);
     capture.push(t3 - t2);
   }
   const n = median(native);
@@ -156,6 +179,7 @@ async function traceAgainstNative(takeoff: Takeoff, image: RasterImage, traceTar
       `  reading pass (luma of every pixel, one loop; mean luma ${(sink / 10 / (image.width * image.height)).toFixed(0)}): ${spread(reading, ms)}\n` +
       `  raster trace (all ${takeoff.traces.length} traces): ${spread(trace, ms)}; ratio to the native copy ${x(median(trace) / n)}, per round ${x(Math.min(...ratios))}–${x(Math.max(...ratios))}${verdict(median(trace) / n, 'the copy')}; ` +
       `to the reading pass ${x(median(trace) / rd)}, per round ${x(Math.min(...readRatios))}–${x(Math.max(...readRatios))}${verdict(median(trace) / rd, 'the reading pass')}\n` +
+      `  raster trace with each panel framed by its anchors (the grid of each frame found and taken out once a round, gridLines.ts): ${spread(framedTrace, ms)}; to the reading pass ${x(median(framedTrace) / rd)}${verdict(median(framedTrace) / rd, 'the reading pass')}\n` +
       `  capture stage (trace, thinning, spacing): ${spread(capture, ms)}; ratio ${x(median(capture) / n)}, per round ${x(Math.min(...captureRatios))}–${x(Math.max(...captureRatios))}; capture/trace ${x(median(capture) / median(trace))}\n`,
   );
 }

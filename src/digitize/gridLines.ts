@@ -336,15 +336,13 @@ function crossSection(dens3: Float32Array, [l, t, r, b]: Box, vertical: boolean,
 }
 
 /**
- * Takes the grid lines out of `data` (a copy of the image's pixels, same size) inside the box:
+ * Takes the grid lines out of `data` (the image's pixels or a copy of them, same size) inside the box:
  * each pixel within a line's reach loses that line's density at its offset, per channel, never
  * becoming lighter than the paper. Where two lines cross, each takes its own share.
  */
 export function removeGrid(image: RasterImage, data: Uint8ClampedArray, box: Box): GridLine[] {
   const { lines, dens3, box: [l, t, r, b] } = gridIn(image, box);
   const w = r - l;
-  // Density taken off each pixel and channel so far (lines crossing take their shares in turn).
-  const taken = new Float32Array(dens3.length);
   for (const line of lines) {
     const offsets = line.profile.length / 3;
     const [u0, u1, v0, v1] = line.vertical ? [t, b, l, r] : [l, r, t, b];
@@ -364,11 +362,9 @@ export function removeGrid(image: RasterImage, data: Uint8ClampedArray, box: Box
           if (g <= 0 || before <= 0) continue;
           const off = Math.min(before, g);
           dens3[d3 + c] = before - off;
-          const total = (taken[d3 + c] as number) + off;
-          taken[d3 + c] = total;
-          // v + 1 = (paper + 1)·e^(−density): lighter than the image's own pixel by all the density
-          // taken off here (written from the image, so a box cleaned twice is not lightened twice).
-          data[o + c] = Math.min(255, Math.round(((image.data[o + c] as number) + 1) * expOf(total) - 1));
+          // v + 1 = (paper + 1)·e^(−density): lighter by the density taken off (lines crossing take
+          // their shares in turn).
+          data[o + c] = Math.min(255, Math.round(((data[o + c] as number) + 1) * expOf(off) - 1));
         }
       }
     }
@@ -407,7 +403,9 @@ export function withoutGrid(image: RasterImage, box: Box): RasterImage {
   const same = [...entry.boxes].some((b) => b.every((v, i) => Math.abs(v - (box[i] as number)) <= SAME_BOX_PX));
   if (!same) {
     entry.boxes.push([...box]);
-    removeGrid(image, entry.image.data as Uint8ClampedArray, box);
+    // Found on the copy as cleaned so far: where a box overlaps one cleaned before, no grid is
+    // left there to find, and nothing is taken out twice.
+    removeGrid(entry.image, entry.image.data as Uint8ClampedArray, box);
   }
   return entry.image;
 }

@@ -50,6 +50,7 @@ export interface RasterTraceOptions {
   extent?: 'guides' | 'line';
   /** Plot frame [left, top, right, bottom] in sheet units: a whole-line trace stops at it. */
   frame?: readonly [number, number, number, number];
+
   /**
    * The guides of the sheet's other traces (`siblingGuides`), sheet units: a line that runs on to
    * another trace's guide where that line stands alone is that trace's line, not this one's.
@@ -545,7 +546,7 @@ function pairs(flat: number[]): Px[] {
 export function traceRaster(original: RasterImage, guides: readonly SheetPoint[], options: RasterTraceOptions = {}): RasterTraceResult {
   const f = options.frame;
   // The printed grid is taken out of the frame first (gridLines.ts): a thin curve is then not
-  // taken for a grid line where it runs along or across one.
+  // taken for a grid line where it runs along or across one. Without a frame the grid stays.
   const image = f ? withoutGrid(original, [f[0] * original.scale - GRID_MARGIN_PX, f[1] * original.scale - GRID_MARGIN_PX, f[2] * original.scale + GRID_MARGIN_PX, f[3] * original.scale + GRID_MARGIN_PX]) : original;
   const px = validateGuides(image, guides);
   const counter: ReadCounter = { reads: 0 };
