@@ -61,25 +61,34 @@ const LN = Float32Array.from({ length: 256 }, (_, v) => -Math.log((v + 1) / 256)
 type Box = readonly [number, number, number, number];
 
 /**
- * The box's optical density per channel against the local paper (each channel's 60th percentile
- * over blocks of `PAPER_BLOCK_PX`, bilinear between block centres, for uneven light): box-sized,
- * three values a pixel, never below 0.
+ * The paper under a box: each channel's `PAPER_SHARE` percentile over blocks of `PAPER_BLOCK_PX`
+ * (every other pixel of every other row read: the paper is most of a block), as densities (LN),
+ * for densities against the local paper under uneven light. `at` gives a pixel's paper density:
+ * its block's (light varies slowly, and a step of a level or two at a block's side is far below
+ * any line's density).
  */
-function densityPicture(image: RasterImage, [l, t, r, b]: Box): Float32Array {
-  const w = r - l;
-  const h = b - t;
-  const cols = Math.max(1, Math.ceil(w / PAPER_BLOCK_PX));
-  const rows = Math.max(1, Math.ceil(h / PAPER_BLOCK_PX));
+interface Paper {
+  at(x: number, y: number, c: number): number;
+  /** The index in `values` of the pixel's block's first channel. */
+  block(x: number, y: number): number;
+  values: Float32Array;
+}
+
+function paperUnder(image: RasterImage, [l, t, r, b]: Box): Paper {
+  const cols = Math.max(1, Math.ceil((r - l) / PAPER_BLOCK_PX));
+  const rows = Math.max(1, Math.ceil((b - t) / PAPER_BLOCK_PX));
   const paper = new Float32Array(cols * rows * 3);
   const hist = new Uint32Array(256 * 3);
   for (let j = 0; j < rows; j++) {
     for (let i = 0; i < cols; i++) {
       hist.fill(0);
       let n = 0;
-      for (let y = t + j * PAPER_BLOCK_PX; y < Math.min(b, t + (j + 1) * PAPER_BLOCK_PX); y++) {
-        for (let x = l + i * PAPER_BLOCK_PX; x < Math.min(r, l + (i + 1) * PAPER_BLOCK_PX); x++) {
+      for (let y = t + j * PAPER_BLOCK_PX; y < Math.min(b, t + (j + 1) * PAPER_BLOCK_PX); y += 2) {
+        for (let x = l + i * PAPER_BLOCK_PX; x < Math.min(r, l + (i + 1) * PAPER_BLOCK_PX); x += 2) {
           const o = 4 * (y * image.width + x);
-          for (let c = 0; c < 3; c++) hist[c * 256 + (image.data[o + c] as number)]!++;
+          hist[image.data[o] as number]!++;
+          hist[256 + (image.data[o + 1] as number)]!++;
+          hist[512 + (image.data[o + 2] as number)]!++;
           n++;
         }
       }
@@ -91,27 +100,16 @@ function densityPicture(image: RasterImage, [l, t, r, b]: Box): Float32Array {
       }
     }
   }
-  const out = new Float32Array(w * h * 3);
-  // Between block centres linearly down the rows; across, each block's own (light varies slowly,
-  // and a step of a level or two at a block's side is far below any line's density).
-  const row = new Float32Array(cols * 3);
-  for (let y = 0; y < h; y++) {
-    const fy = Math.min(rows - 1, Math.max(0, y / PAPER_BLOCK_PX - 0.5));
-    const j0 = Math.floor(fy);
-    const j1 = Math.min(rows - 1, j0 + 1);
-    const v = fy - j0;
-    for (let k = 0; k < cols * 3; k++) row[k] = (1 - v) * (paper[j0 * cols * 3 + k] as number) + v * (paper[j1 * cols * 3 + k] as number);
-    let o = 4 * ((t + y) * image.width + l);
-    let d = 3 * y * w;
-    for (let x = 0; x < w; x++, o += 4, d += 3) {
-      const a = 3 * ((x / PAPER_BLOCK_PX) | 0);
-      for (let c = 0; c < 3; c++) {
-        const density = (LN[image.data[o + c] as number] as number) - (row[a + c] as number);
-        out[d + c] = density > 0 ? density : 0;
-      }
-    }
-  }
-  return out;
+  const block = (x: number, y: number) => {
+    let i = ((x - l) / PAPER_BLOCK_PX) | 0;
+    let j = ((y - t) / PAPER_BLOCK_PX) | 0;
+    if (i < 0) i = 0;
+    else if (i >= cols) i = cols - 1;
+    if (j < 0) j = 0;
+    else if (j >= rows) j = rows - 1;
+    return 3 * (j * cols + i);
+  };
+  return { at: (x, y, c) => paper[block(x, y) + c] as number, block, values: paper };
 }
 
 /** Median of the first `n` values; reorders them (selection in place, Hoare's partition). */
@@ -258,25 +256,34 @@ export function findGridLines(image: RasterImage, box: Box): GridLine[] {
 }
 
 /** The grid lines of the box and the box's density picture they were found on. */
-function gridIn(image: RasterImage, box: Box): { lines: GridLine[]; dens3: Float32Array; box: [number, number, number, number] } {
+function gridIn(image: RasterImage, box: Box): { lines: GridLine[]; paper: Paper; box: [number, number, number, number] } {
   const l = Math.max(0, Math.floor(box[0]));
   const t = Math.max(0, Math.floor(box[1]));
   const r = Math.min(image.width, Math.ceil(box[2]));
   const b = Math.min(image.height, Math.ceil(box[3]));
   const w = r - l;
   const h = b - t;
-  if (w < 6 * STRIP_PX || h < 6 * STRIP_PX) return { lines: [], dens3: new Float32Array(0), box: [l, t, r, b] };
-  const dens3 = densityPicture(image, [l, t, r, b]);
-  // Lines are found on the luma density at half resolution (each value the mean of 2 × 2 pixels):
-  // a quarter of the work, and a grid line 1–3 px wide still stands out in it.
+  const paper = paperUnder(image, [l, t, r, b]);
+  if (w < 6 * STRIP_PX || h < 6 * STRIP_PX) return { lines: [], paper, box: [l, t, r, b] };
+  // Lines are found on the luma density at half resolution (each value the density of the mean
+  // of 2 × 2 pixels against the paper's): a quarter of the work, and a grid line 1–3 px wide
+  // still stands out in it.
   const hw = w >> 1;
   const hh = h >> 1;
   const dens = new Float32Array(hw * hh);
+  const data = image.data;
   for (let y = 0; y < hh; y++) {
+    const py = t + 2 * y;
+    const paperLuma = (x: number) => (paper.at(x, py, 0) + paper.at(x, py, 1) + paper.at(x, py, 2)) / 3;
+    let blockPaper = 0;
     for (let x = 0; x < hw; x++) {
-      const k = 3 * (2 * y * w + 2 * x);
-      const m = k + 3 * w;
-      dens[y * hw + x] = ((dens3[k] as number) + (dens3[k + 1] as number) + (dens3[k + 2] as number) + (dens3[k + 3] as number) + (dens3[k + 4] as number) + (dens3[k + 5] as number) + (dens3[m] as number) + (dens3[m + 1] as number) + (dens3[m + 2] as number) + (dens3[m + 3] as number) + (dens3[m + 4] as number) + (dens3[m + 5] as number)) / 12;
+      const px = l + 2 * x;
+      if ((x & 31) === 0) blockPaper = paperLuma(px);
+      const o = 4 * (py * image.width + px);
+      const m = o + 4 * image.width;
+      const sum = (data[o] as number) + (data[o + 1] as number) + (data[o + 2] as number) + (data[o + 4] as number) + (data[o + 5] as number) + (data[o + 6] as number) + (data[m] as number) + (data[m + 1] as number) + (data[m + 2] as number) + (data[m + 4] as number) + (data[m + 5] as number) + (data[m + 6] as number);
+      const d = (LN[Math.round(sum / 12)] as number) - blockPaper;
+      dens[y * hw + x] = d > 0 ? d : 0;
     }
   }
   const found: GridLine[] = [];
@@ -291,42 +298,44 @@ function gridIn(image: RasterImage, box: Box): { lines: GridLine[]; dens3: Float
       const gaps = [lines[k - 1], lines[k + 1]].filter((n): n is { a: number; b: number } => n !== undefined).map((n) => Math.abs(n.a - line.a));
       const reach = Math.min(MAX_REACH_PX, ...gaps.map((g) => 0.45 * g));
       if (reach < 1) return;
-      found.push({ vertical, a, b: line.b, reach, profile: crossSection(dens3, [l, t, r, b], vertical, a, line.b, reach) });
+      found.push({ vertical, a, b: line.b, reach, profile: crossSection(image, paper, [l, t, r, b], vertical, a, line.b, reach) });
     });
   }
-  return { lines: found, dens3, box: [l, t, r, b] };
+  return { lines: found, paper, box: [l, t, r, b] };
 }
 
 /** Step along a line between the samples of its cross-section, pixels (the median needs no more). */
-const SECTION_STEP_PX = 4;
+const SECTION_STEP_PX = 5;
 
 /** The median density per channel at each offset from a line, along its whole length inside the box. */
-function crossSection(dens3: Float32Array, [l, t, r, b]: Box, vertical: boolean, a: number, slope: number, reach: number): Float32Array {
-  const w = r - l;
-  const h = b - t;
+function crossSection(image: RasterImage, paper: Paper, [l, t, r, b]: Box, vertical: boolean, a: number, slope: number, reach: number): Float32Array {
   const offsets = Math.round((2 * reach) / PROFILE_STEP) + 1;
   const [u0, u1] = vertical ? [t, b] : [l, r];
   const profile = new Float32Array(3 * offsets);
   const size = Math.ceil((u1 - u0) / SECTION_STEP_PX) + 1;
   const samples: Float32Array[] = [new Float32Array(size), new Float32Array(size), new Float32Array(size)];
+  const { data, width } = image;
   for (let k = 0; k < offsets; k++) {
     const off = -reach + k * PROFILE_STEP;
     let n = 0;
     for (let u = u0; u < u1; u += SECTION_STEP_PX) {
       const v = a + slope * u + off;
-      const x = (vertical ? v : u) - l;
-      const y = (vertical ? u : v) - t;
+      const x = vertical ? v : u;
+      const y = vertical ? u : v;
       const x0 = Math.floor(x);
       const y0 = Math.floor(y);
-      if (x0 < 0 || y0 < 0 || x0 + 1 >= w || y0 + 1 >= h) continue;
+      if (x0 < l || y0 < t || x0 + 1 >= r || y0 + 1 >= b) continue;
       const fx = x - x0;
       const fy = y - y0;
-      const i00 = 3 * (y0 * w + x0);
-      const i01 = i00 + 3 * w;
+      const pb = paper.block(x0, y0);
+      const o = 4 * (y0 * width + x0);
+      const o2 = o + 4 * width;
       for (let c = 0; c < 3; c++) {
-        const top = (1 - fx) * (dens3[i00 + c] as number) + fx * (dens3[i00 + 3 + c] as number);
-        const bottom = (1 - fx) * (dens3[i01 + c] as number) + fx * (dens3[i01 + 3 + c] as number);
-        (samples[c] as Float32Array)[n] = (1 - fy) * top + fy * bottom;
+        // Bilinear in density between the four pixels (paper of the first one's block).
+        const top = (1 - fx) * (LN[data[o + c] as number] as number) + fx * (LN[data[o + 4 + c] as number] as number);
+        const bottom = (1 - fx) * (LN[data[o2 + c] as number] as number) + fx * (LN[data[o2 + 4 + c] as number] as number);
+        const d = (1 - fy) * top + fy * bottom - (paper.values[pb + c] as number);
+        (samples[c] as Float32Array)[n] = d > 0 ? d : 0;
       }
       n++;
     }
@@ -341,8 +350,7 @@ function crossSection(dens3: Float32Array, [l, t, r, b]: Box, vertical: boolean,
  * becoming lighter than the paper. Where two lines cross, each takes its own share.
  */
 export function removeGrid(image: RasterImage, data: Uint8ClampedArray, box: Box): GridLine[] {
-  const { lines, dens3, box: [l, t, r, b] } = gridIn(image, box);
-  const w = r - l;
+  const { lines, paper, box: [l, t, r, b] } = gridIn(image, box);
   for (const line of lines) {
     const offsets = line.profile.length / 3;
     const [u0, u1, v0, v1] = line.vertical ? [t, b, l, r] : [l, r, t, b];
@@ -353,18 +361,18 @@ export function removeGrid(image: RasterImage, data: Uint8ClampedArray, box: Box
         const k0 = Math.max(0, Math.min(offsets - 1, Math.floor(k)));
         const k1 = Math.min(offsets - 1, k0 + 1);
         const f = k - k0;
-        const [x, y] = line.vertical ? [v, u] : [u, v];
+        const x = line.vertical ? v : u;
+        const y = line.vertical ? u : v;
         const o = 4 * (y * image.width + x);
-        const d3 = 3 * ((y - t) * w + x - l);
+        const pb = paper.block(x, y);
         for (let c = 0; c < 3; c++) {
           const g = (1 - f) * (line.profile[3 * k0 + c] as number) + f * (line.profile[3 * k1 + c] as number);
-          const before = dens3[d3 + c] as number;
-          if (g <= 0 || before <= 0) continue;
-          const off = Math.min(before, g);
-          dens3[d3 + c] = before - off;
-          // v + 1 = (paper + 1)·e^(−density): lighter by the density taken off (lines crossing take
-          // their shares in turn).
-          data[o + c] = Math.min(255, Math.round(((data[o + c] as number) + 1) * expOf(off) - 1));
+          if (g <= 0) continue;
+          // The density left in `data` (lines crossing take their shares in turn), never below the paper.
+          const before = (LN[data[o + c] as number] as number) - (paper.values[pb + c] as number);
+          if (before <= 0) continue;
+          // v + 1 = (paper + 1)·e^(−density): lighter by the density taken off.
+          data[o + c] = Math.min(255, Math.round(((data[o + c] as number) + 1) * expOf(Math.min(before, g)) - 1));
         }
       }
     }
