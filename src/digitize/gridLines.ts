@@ -203,11 +203,9 @@ function linesOf(dens: Float32Array, w: number, h: number, vertical: boolean): {
         }
       }
       if (best) {
-        const end = best.points[best.points.length - 1] as { u: number; v: number };
         // The slope over the chain's whole length so far (a peak moved by a crossing curve bends it little).
         const start = best.points[0] as { u: number; v: number };
         best.slope = best.points.length >= 3 ? (p.v - start.v) / (u - start.u) : 0;
-        void end;
         best.points.push({ u, v: p.v });
         best.last = s;
         taken.add(best);

@@ -50,7 +50,6 @@ export interface RasterTraceOptions {
   extent?: 'guides' | 'line';
   /** Plot frame [left, top, right, bottom] in sheet units: a whole-line trace stops at it. */
   frame?: readonly [number, number, number, number];
-
   /**
    * The guides of the sheet's other traces (`siblingGuides`), sheet units: a line that runs on to
    * another trace's guide where that line stands alone is that trace's line, not this one's.
