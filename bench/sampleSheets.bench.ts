@@ -148,14 +148,13 @@ async function traceAgainstNative(takeoff: Takeoff, image: RasterImage, traceTar
     // Each round on a fresh image object, with the panels' frames as the replay passes them: the
     // grid of each panel is found and taken out once a round (gridLines.ts keeps it per image).
     const fresh = { ...image };
-    const freshSource: CaptureSource = { ...source, raster: async () => ({ ...image }) };
     for (const t of takeoff.traces) if (t.guides) traceRaster(fresh, t.guides.map(([gx, gy]) => sheetPoint(gx, gy)), { ...frameOf(t) });
     const t2 = performance.now();
     const freshFramed = { ...image };
     const f0 = performance.now();
     for (const t of takeoff.traces) if (t.guides) traceRaster(freshFramed, t.guides.map(([gx, gy]) => sheetPoint(gx, gy)), { ...frameOf(t, true) });
     const f1 = performance.now();
-    const captured = await freshSource.raster();
+    const captured = { ...image };
     const once: CaptureSource = { ...source, raster: async () => captured };
     for (const t of takeoff.traces) {
       await captureTrace({ guides: t.guides?.map(([gx, gy]) => sheetPoint(gx, gy)), points: t.points?.map(([px, py]) => sheetPoint(px, py)), method: t.method, ...frameOf(t) }, once);

@@ -63,13 +63,11 @@ type Box = readonly [number, number, number, number];
 /**
  * The paper under a box: each channel's `PAPER_SHARE` percentile over blocks of `PAPER_BLOCK_PX`
  * (every other pixel of every other row read: the paper is most of a block), as densities (LN),
- * for densities against the local paper under uneven light. `at` gives a pixel's paper density:
- * its block's (light varies slowly, and a step of a level or two at a block's side is far below
- * any line's density).
+ * for densities against the local paper under uneven light. A pixel's paper is its block's
+ * (light varies slowly, and a step of a level or two at a block's side is far below any line's
+ * density): channel c of pixel (x, y) is `values[block(x, y) + c]`.
  */
 interface Paper {
-  at(x: number, y: number, c: number): number;
-  /** The index in `values` of the pixel's block's first channel. */
   block(x: number, y: number): number;
   values: Float32Array;
 }
@@ -109,7 +107,7 @@ function paperUnder(image: RasterImage, [l, t, r, b]: Box): Paper {
     else if (j >= rows) j = rows - 1;
     return 3 * (j * cols + i);
   };
-  return { at: (x, y, c) => paper[block(x, y) + c] as number, block, values: paper };
+  return { block, values: paper };
 }
 
 /** Median of the first `n` values; reorders them (selection in place, Hoare's partition). */
@@ -141,9 +139,9 @@ function median(values: Float32Array, n: number): number {
 }
 
 /**
- * Grid lines of one orientation in the box: `vertical` false finds lines running across (left to
- * right), true lines running down. Works on a density picture `dens` of the box (luma density
- * against the local paper, row-major, box-sized).
+ * Grid lines of one orientation in a density picture `dens` (w × h, row-major, luma density
+ * against the local paper): `vertical` false finds lines running across (left to right), true
+ * lines running down. Positions in the picture's own pixels.
  */
 function linesOf(dens: Float32Array, w: number, h: number, vertical: boolean): { a: number; b: number }[] {
   // In the line's own frame: u runs along the line, v across it.
@@ -180,7 +178,7 @@ function linesOf(dens: Float32Array, w: number, h: number, vertical: boolean): {
     }
     peaks.push(found);
   }
-  // Chains of peaks, strip to strip, each with its running slope.
+  // Chains of peaks, strip to strip, each with its slope over its length so far.
   interface Chain {
     points: { u: number; v: number }[];
     slope: number;
@@ -253,7 +251,7 @@ export function findGridLines(image: RasterImage, box: Box): GridLine[] {
   return gridIn(image, box).lines;
 }
 
-/** The grid lines of the box and the box's density picture they were found on. */
+/** The grid lines of the box (clamped to the image, whole pixels) and the paper under it. */
 function gridIn(image: RasterImage, box: Box): { lines: GridLine[]; paper: Paper; box: [number, number, number, number] } {
   const l = Math.max(0, Math.floor(box[0]));
   const t = Math.max(0, Math.floor(box[1]));
@@ -272,7 +270,10 @@ function gridIn(image: RasterImage, box: Box): { lines: GridLine[]; paper: Paper
   const data = image.data;
   for (let y = 0; y < hh; y++) {
     const py = t + 2 * y;
-    const paperLuma = (x: number) => (paper.at(x, py, 0) + paper.at(x, py, 1) + paper.at(x, py, 2)) / 3;
+    const paperLuma = (x: number) => {
+      const pb = paper.block(x, py);
+      return ((paper.values[pb] as number) + (paper.values[pb + 1] as number) + (paper.values[pb + 2] as number)) / 3;
+    };
     let blockPaper = 0;
     for (let x = 0; x < hw; x++) {
       const px = l + 2 * x;
@@ -406,7 +407,7 @@ export function withoutGrid(image: RasterImage, box: Box): RasterImage {
   }
   // A box about the same as one cleaned already (the same panel framed a little differently) is
   // that one: cleaning it again would only move the lines found by a fraction of a pixel.
-  const same = [...entry.boxes].some((b) => b.every((v, i) => Math.abs(v - (box[i] as number)) <= SAME_BOX_PX));
+  const same = entry.boxes.some((b) => b.every((v, i) => Math.abs(v - (box[i] as number)) <= SAME_BOX_PX));
   if (!same) {
     entry.boxes.push([...box]);
     // Found on the copy as cleaned so far: where a box overlaps one cleaned before, no grid is

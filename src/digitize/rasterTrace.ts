@@ -1201,11 +1201,11 @@ const AHEAD_PX = 60;
 const AHEAD_WIDTHS = 20;
 
 /**
- * Where an extension runs through a bunch and goes on beyond it: the first point of a stretch at
- * least `BUNCH_WIDTHS` line widths long where another clean run of the line's colour and width
- * lies beside it (within two widths of its edge), when the extension goes on for as long again
- * after it. There the follower may have come out on a neighbour, and nothing (no guide) vouches
- * for the line it kept to.
+ * Where an extension runs through a bunch: the first point of a stretch at least `BUNCH_WIDTHS`
+ * line widths long where another clean run of the line's colour and width lies beside it (within
+ * two widths of its edge), when the extension goes on for as long again after it, or ends inside
+ * it. There the follower may have come out on a neighbour, or ended on one, and nothing (no guide)
+ * vouches for the line it kept to.
  */
 function crowdedAt(image: RasterImage, style: LineStyle, points: readonly Px[], counter: ReadCounter): Px | undefined {
   if (points.length < 3) return undefined;
