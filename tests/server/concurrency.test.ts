@@ -70,7 +70,15 @@ const [file, id, n] = process.argv.slice(2);
 const store = LibraryStore.open(file);
 const set = JSON.parse(store.get(id).body);
 process.stdout.write('ready\\n');
-for (let i = 0; i < Number(n); i++) store.addRevision(id, { ...set, pump: { ...set.pump, name: 'Invented other process ' + i } }, { asNewRevision: true });
+const write = (i) => store.addRevision(id, { ...set, pump: { ...set.pump, name: 'Invented other process ' + i } }, { asNewRevision: true });
+const half = Math.floor(Number(n) / 2);
+for (let i = 0; i < half; i++) write(i);
+// Wait (at most 20 s) until the server has written one revision, so the two writers overlap
+// on any machine rather than this process finishing before the server starts.
+const pause = new Int32Array(new SharedArrayBuffer(4));
+const serverWrote = () => store.revisions(id).some((r) => JSON.parse(store.get(id, r.revision).body).pump.name.startsWith('Invented server'));
+for (let waited = 0; waited < 4000 && !serverWrote(); waited++) Atomics.wait(pause, 0, 0, 5);
+for (let i = half; i < Number(n); i++) write(i);
 store.close();
 `,
     );
@@ -105,7 +113,8 @@ store.close();
     const names = server.store.revisions(id).map((r) => JSON.parse(server.store.get(id, r.revision).body).pump.name as string);
     expect(names.filter((n) => n.startsWith('Invented other process')).length).toBe(100);
     expect(names.filter((n) => n.startsWith('Invented server')).length).toBe(60);
-    // The two writers really overlapped: their revisions interleave rather than forming two blocks.
+    // The two writers really overlapped (the other process waits for the server's first revision
+    // before writing its second half): their revisions interleave rather than forming two blocks.
     const switches = names.slice(2).filter((n, i) => n.slice(0, 12) !== names[i + 1]!.slice(0, 12)).length;
     expect(switches).toBeGreaterThan(1);
     expect((await json(`${server.url}/api/curvesets/${id}`)).status).toBe(200);
