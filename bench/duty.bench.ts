@@ -5,7 +5,9 @@
  *    invented family (bisection on its exact head);
  * 2. speed — meetDuty calls per second (what the library's duty search pays per curve set);
  * 3. the engine's operating point against EPANET (epanet-js) on the same network, and the time
- *    of each.
+ *    of each;
+ * 4. a whole study of twelve options (2 pipe sizes × 3 impellers × 1–2 pumps, tests/study/
+ *    studyCases.ts) after start-up, median of 7 (target: under 1 s).
  */
 import { Project, Workspace, LinkProperty, InitHydOption } from 'epanet-js';
 import { buildCurveSet, type MemberInput } from '../src/fit/build.ts';
@@ -15,6 +17,8 @@ import { meetDuty } from '../src/duty/meetDuty.ts';
 import { operatingPoint } from '../src/duty/operatingPoint.ts';
 import { pumpCurveOfMember } from '../src/duty/pumpCurve.ts';
 import type { CurveSet, CurvePoint } from '../src/model/curveset.ts';
+import { runStudy } from '../src/study/runStudy.ts';
+import { siSet, twelveOptionStudy } from '../tests/study/studyCases.ts';
 
 function noisySet(fam: InventedFamily, seed: number, noise = 0.003): CurveSet {
   const random = seededRandom(seed);
@@ -131,8 +135,23 @@ async function againstEpanet(): Promise<void> {
   console.log(`   time per solve: engine ${tOurs.toFixed(3)} ms, EPANET ${tEpanet.toFixed(3)} ms (open+solve+close), ratio ${(tEpanet / tOurs).toFixed(1)}`);
 }
 
+function studyTime(): void {
+  const s = twelveOptionStudy();
+  runStudy(s, () => siSet); // start-up: module loading and JIT
+  const times: number[] = [];
+  for (let i = 0; i < 7; i++) {
+    const t0 = performance.now();
+    runStudy(s, () => siSet);
+    times.push(performance.now() - t0);
+  }
+  times.sort((a, b) => a - b);
+  const med = times[3] as number;
+  console.log(`4. Study of twelve options: median ${med.toFixed(1)} ms of 7 (${(times[0] as number).toFixed(1)}–${(times[6] as number).toFixed(1)} ms), ${med < 1000 ? 'under 1 s ok' : 'OVER 1 s'}`);
+}
+
 export default async function (): Promise<void> {
   trimAccuracy();
   speed();
   await againstEpanet();
+  studyTime();
 }

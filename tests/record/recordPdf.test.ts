@@ -24,20 +24,16 @@ if (!pdftoppm || !hasPdftotext) console.warn('pdftoppm or pdftotext is not insta
 async function record(name: string, paper: 'a4' | 'letter' = 'a4') {
   const s = await sample(name);
   const input = recordInput(name, s, paper, 'record-test.study.json', '2026-01-01T00:00:00.000Z');
-  await makeRecord(input); // warm: modules and fonts load once per process
-  const t0 = performance.now();
   const made = await makeRecord(input);
-  return { s, made, ms: performance.now() - t0 };
+  return { s, made };
 }
 
 describe.each([
   ['si-panels-black', 'vector'],
   ['si-panels-colour-scan', 'scan'],
 ])('record of %s (%s)', (name) => {
-  it('is made in under 3 s, opens in pdf.js without warnings, and its text holds the figures it shows', async () => {
-    const { s, made, ms } = await record(name);
-    console.log(`record of ${name}: ${made.pdf.length} bytes in ${ms.toFixed(0)} ms`);
-    expect(ms).toBeLessThan(3000);
+  it('opens in pdf.js without warnings, and its text holds the figures it shows (its time: `npm run bench -- record`)', async () => {
+    const { s, made } = await record(name);
     const file = join(dir, `${name}.pdf`);
     writeFileSync(file, made.pdf);
     const got = await pdfText(made.pdf);
