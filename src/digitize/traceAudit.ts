@@ -60,6 +60,15 @@ export const END_SHORT_SHARE = 0.85;
  * had no finding (NPSHr ending at 0.89 of its head's end) and no sound one.
  */
 export const NPSHR_HEAD_END_SHARE = 0.95;
+/**
+ * An NPSHr trace starting later than this share of its own head trace's end flow is reported:
+ * makers draw NPSHr from shut-off or from the low end of the allowable operating range, within
+ * the first third or so of the flow axis (common practice). When every NPSHr line of a sheet
+ * fades at low flow alike, the family comparison (START_LATE_SHARE) sees nothing, and the
+ * curve set would silently extrapolate the lost stretch. A warning, not a fail: a sheet may
+ * draw NPSHr from mid-range only.
+ */
+export const NPSHR_START_SHARE = 0.45;
 /** A curve starting later than its neighbours by more than this share of its end flow is cut at its start. */
 export const START_LATE_SHARE = 0.15;
 /**
@@ -190,6 +199,15 @@ export function auditTraces(traces: readonly AuditedTrace[], flowText: (q: numbe
         figures: { flow_from: q0, flow_to: q1, expected_to: expectedEnd },
       });
       continue;
+    }
+    if (t.quantity === 'npshr' && headEnd > 0 && q0 > NPSHR_START_SHARE * headEnd) {
+      out.push({
+        code: 'takeoff.npshr-start-late',
+        severity: 'warn',
+        trace: t.id,
+        message: `Trace ${t.id} (${t.describe}) starts at ${flowText(q0)}, ${Math.round((100 * q0) / headEnd)} % of the way to the end of the head trace of the same ${t.diameter !== undefined ? 'diameter' : 'speed'} (${flowText(headEnd)}), while an NPSHr curve is usually drawn from shut-off or the low end of the operating range; below that flow its NPSHr is extrapolated. If the sheet's line starts lower, add a guide near its low-flow end; if the sheet starts it there, give its points to confirm.`,
+        figures: { flow_from: q0, head_to: headEnd },
+      });
     }
     const reach = familyReach(t, family);
     if (reach) {

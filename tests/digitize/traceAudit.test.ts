@@ -159,6 +159,19 @@ describe('trace audit', () => {
     expect(found[0]?.message).toMatch(/while the head trace of the same diameter runs to 0\.100 m³\/s/);
   });
 
+  it('warns of NPSHr traces that all start past 45 % of their head curves\' ends, where the family comparison sees nothing', () => {
+    const heads = [trace('h370', 'head', 370, 0, 0.1), trace('h330', 'head', 330, 0, 0.089)];
+    // Both NPSHr lines faded alike below mid-range: each starts as late as the other.
+    const found = auditTraces([...heads, trace('n370', 'npshr', 370, 0.055, 0.1), trace('n330', 'npshr', 330, 0.049, 0.089)], text);
+    expect(found.map((f) => [f.code, f.severity, f.trace])).toEqual([
+      ['takeoff.npshr-start-late', 'warn', 'n370'],
+      ['takeoff.npshr-start-late', 'warn', 'n330'],
+    ]);
+    expect(found[0]?.message).toMatch(/starts at 0\.055 m³\/s, 55 % of the way to the end of the head trace of the same diameter \(0\.100 m³\/s\).*below that flow its NPSHr is extrapolated/);
+    // From 40 % of the head's end: no warning.
+    expect(auditTraces([...heads, trace('n370', 'npshr', 370, 0.04, 0.1), trace('n330', 'npshr', 330, 0.035, 0.089)], text)).toEqual([]);
+  });
+
   it('gives a speed family\'s traces the per-trace checks, scaling coverage by speed (Q ∝ n)', () => {
     // Invented: 1750 rpm runs to 0.1 m³/s, 1400 rpm to 0.08 (0.1 × 1400/1750).
     const speeds = [bySpeed('h1750', 'head', 1750, 0, 0.1), bySpeed('h1400', 'head', 1400, 0, 0.08), bySpeed('p1750', 'power', 1750, 0, 0.1), bySpeed('p1400', 'power', 1400, 0, 0.08)];
