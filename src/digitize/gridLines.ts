@@ -14,6 +14,10 @@
  * add, and a curve much darker than the grid keeps most of its own. Where a curve is no darker
  * than the grid it crosses, it fades over the crossing, and the tracer bridges the short gap.
  *
+ * The cost is kept to a few passes over the frame's pixels: lines are found on bytes (the median
+ * of a strip is a byte's, its density looked up), the paper is counted on a quarter of the
+ * pixels, and taking a line out reads its e^density from a table made once per line.
+ *
  * Pure: works on the RGBA buffer only.
  */
 import type { RasterImage } from './raster.ts';
@@ -50,13 +54,19 @@ const MAX_SLOPE = 0.1;
 /** Largest half-width of a cross-section, pixels, and the step of its offsets. */
 const MAX_REACH_PX = 6;
 const PROFILE_STEP = 0.5;
+/** Steps per pixel of the offsets at which a line's e^density is tabled for taking it out: a pixel takes the nearest step's (one table per line instead of an exponential per pixel; the up to 1/128 px this moves a pixel changes its byte by a few grey levels at most, at a line's sharp sides only). */
+const REMOVAL_STEPS_PX = 64;
 /** Share of a block's pixels at or darker than its paper colour (grid and curves darken well under 40 % of a block). */
 const PAPER_SHARE = 0.6;
-/** Side of the blocks over which the paper colour is estimated, pixels (uneven light varies slowly). */
-const PAPER_BLOCK_PX = 64;
+/** Side of the blocks over which the paper colour is estimated, pixels (uneven light varies slowly), and its log2 (a block's index by a shift). */
+const PAPER_BLOCK_SHIFT = 6;
+const PAPER_BLOCK_PX = 1 << PAPER_BLOCK_SHIFT;
 
 /** −ln((v + 1) / 256) for each byte value: a density table, so that density = LN[v] − LN[paper]. */
 const LN = Float32Array.from({ length: 256 }, (_, v) => -Math.log((v + 1) / 256));
+
+/** The rounded mean of 12 bytes from their sum (the 2 × 2 pixels' three channels of the half-resolution picture). */
+const MEAN_OF_12 = Uint8Array.from({ length: 12 * 255 + 1 }, (_, sum) => Math.round(sum / 12));
 
 type Box = readonly [number, number, number, number];
 
@@ -65,55 +75,95 @@ type Box = readonly [number, number, number, number];
  * (every other pixel of every other row read: the paper is most of a block), as densities (LN),
  * for densities against the local paper under uneven light. A pixel's paper is its block's
  * (light varies slowly, and a step of a level or two at a block's side is far below any line's
- * density): channel c of pixel (x, y) is `values[block(x, y) + c]`.
+ * density): channel c of pixel (x, y) in the box is `values[3 · (j · cols + i) + c]`, with i and j
+ * the block's column and row, `(x − l) >> PAPER_BLOCK_SHIFT` and `(y − t) >> PAPER_BLOCK_SHIFT`.
  */
 interface Paper {
-  block(x: number, y: number): number;
+  /** The box's left and top, pixels. */
+  l: number;
+  t: number;
+  cols: number;
+  rows: number;
   values: Float32Array;
+  /** The paper's bytes, as `values` (its densities) are laid out. */
+  bytes: Uint8Array;
 }
 
+/** The paper under the box (pixels: left, top, right, bottom; whole pixels inside the image). */
 function paperUnder(image: RasterImage, [l, t, r, b]: Box): Paper {
   const cols = Math.max(1, Math.ceil((r - l) / PAPER_BLOCK_PX));
   const rows = Math.max(1, Math.ceil((b - t) / PAPER_BLOCK_PX));
   const paper = new Float32Array(cols * rows * 3);
-  const hist = new Uint32Array(256 * 3);
+  const bytes = new Uint8Array(cols * rows * 3);
+  // Two histograms a channel, for pixels in turn: counting the same value twice running
+  // (the paper) waits on the count before.
+  const counts = new Uint32Array(6 * 256);
+  const data = image.data;
   for (let j = 0; j < rows; j++) {
+    const y1 = Math.min(b, t + (j + 1) * PAPER_BLOCK_PX);
     for (let i = 0; i < cols; i++) {
-      hist.fill(0);
+      counts.fill(0);
+      const x0 = l + i * PAPER_BLOCK_PX;
+      const x1 = Math.min(r, x0 + PAPER_BLOCK_PX);
       let n = 0;
-      for (let y = t + j * PAPER_BLOCK_PX; y < Math.min(b, t + (j + 1) * PAPER_BLOCK_PX); y += 2) {
-        for (let x = l + i * PAPER_BLOCK_PX; x < Math.min(r, l + (i + 1) * PAPER_BLOCK_PX); x += 2) {
-          const o = 4 * (y * image.width + x);
-          hist[image.data[o] as number]!++;
-          hist[256 + (image.data[o + 1] as number)]!++;
-          hist[512 + (image.data[o + 2] as number)]!++;
+      for (let y = t + j * PAPER_BLOCK_PX; y < y1; y += 2) {
+        const end = 4 * (y * image.width + x1);
+        let o = 4 * (y * image.width + x0);
+        for (; o + 8 < end; o += 16) {
+          counts[data[o] as number]!++;
+          counts[256 + (data[o + 1] as number)]!++;
+          counts[512 + (data[o + 2] as number)]!++;
+          counts[768 + (data[o + 8] as number)]!++;
+          counts[1024 + (data[o + 9] as number)]!++;
+          counts[1280 + (data[o + 10] as number)]!++;
+          n += 2;
+        }
+        if (o < end) {
+          counts[data[o] as number]!++;
+          counts[256 + (data[o + 1] as number)]!++;
+          counts[512 + (data[o + 2] as number)]!++;
           n++;
         }
       }
+      const need = PAPER_SHARE * n;
+      const at = 3 * (j * cols + i);
       for (let c = 0; c < 3; c++) {
-        let seen = 0;
-        let v = 0;
-        for (; v < 255; v++) if ((seen += hist[c * 256 + v] as number) >= PAPER_SHARE * n) break;
-        paper[3 * (j * cols + i) + c] = LN[v] as number;
+        bytes[at + c] = percentile(counts, 256 * c, 256 * (c + 3), n, need);
+        paper[at + c] = LN[bytes[at + c] as number] as number;
       }
     }
   }
-  const block = (x: number, y: number) => {
-    let i = ((x - l) / PAPER_BLOCK_PX) | 0;
-    let j = ((y - t) / PAPER_BLOCK_PX) | 0;
-    if (i < 0) i = 0;
-    else if (i >= cols) i = cols - 1;
-    if (j < 0) j = 0;
-    else if (j >= rows) j = rows - 1;
-    return 3 * (j * cols + i);
-  };
-  return { block, values: paper };
+  return { l, t, cols, rows, values: paper, bytes };
 }
 
-/** Median of the first `n` values; reorders them (selection in place, Hoare's partition). */
+/**
+ * The least byte value at which the running count of two histograms of `n` values together (at
+ * `first` and `second` in `counts`) reaches `need`: counted down from 255, where the paper is.
+ */
+function percentile(counts: Uint32Array, first: number, second: number, n: number, need: number): number {
+  // `seen` is the count at or below v.
+  let seen = n;
+  let v = 255;
+  while (v > 0) {
+    const below = seen - (counts[first + v] as number) - (counts[second + v] as number);
+    if (below < need) break;
+    seen = below;
+    v--;
+  }
+  return v;
+}
+
+/**
+ * Median of the first `n` values, none below zero (densities over the paper); reorders them
+ * (selection in place, Hoare's partition). Over paper most values are zero, and then so is the
+ * median: zeros are counted first.
+ */
 function median(values: Float32Array, n: number): number {
   if (n <= 0) return 0;
   const k = n >> 1;
+  let zeros = 0;
+  for (let i = 0; i < n; i++) if ((values[i] as number) === 0) zeros++;
+  if (zeros > k) return 0;
   let lo = 0;
   let hi = n - 1;
   while (lo < hi) {
@@ -139,24 +189,112 @@ function median(values: Float32Array, n: number): number {
 }
 
 /**
- * Grid lines of one orientation in a density picture `dens` (w × h, row-major, luma density
- * against the local paper): `vertical` false finds lines running across (left to right), true
- * lines running down. Positions in the picture's own pixels.
+ * The eighth smallest of 16 bytes `values[o]`, `values[o + step]`, …: the low median, so that the
+ * density of the median byte is the median density (density falls as the byte rises). Each half
+ * of 8 is sorted by a sorting network, then the two sorted halves give their eighth smallest as
+ * the least over i of max(first[i − 1], second[7 − i]).
  */
-function linesOf(dens: Float32Array, w: number, h: number, vertical: boolean): { a: number; b: number }[] {
+function lowMedian16(values: Uint8Array, o: number, step: number): number {
+  let a0 = values[o] as number;
+  let a1 = values[o + step] as number;
+  let a2 = values[o + 2 * step] as number;
+  let a3 = values[o + 3 * step] as number;
+  let a4 = values[o + 4 * step] as number;
+  let a5 = values[o + 5 * step] as number;
+  let a6 = values[o + 6 * step] as number;
+  let a7 = values[o + 7 * step] as number;
+  let b0 = values[o + 8 * step] as number;
+  let b1 = values[o + 9 * step] as number;
+  let b2 = values[o + 10 * step] as number;
+  let b3 = values[o + 11 * step] as number;
+  let b4 = values[o + 12 * step] as number;
+  let b5 = values[o + 13 * step] as number;
+  let b6 = values[o + 14 * step] as number;
+  let b7 = values[o + 15 * step] as number;
+  let m: number;
+  // Sorting network of 8 (19 compare-exchanges), on each half.
+  if (a0 > a2) { m = a0; a0 = a2; a2 = m; }
+  if (a1 > a3) { m = a1; a1 = a3; a3 = m; }
+  if (a4 > a6) { m = a4; a4 = a6; a6 = m; }
+  if (a5 > a7) { m = a5; a5 = a7; a7 = m; }
+  if (a0 > a4) { m = a0; a0 = a4; a4 = m; }
+  if (a1 > a5) { m = a1; a1 = a5; a5 = m; }
+  if (a2 > a6) { m = a2; a2 = a6; a6 = m; }
+  if (a3 > a7) { m = a3; a3 = a7; a7 = m; }
+  if (a0 > a1) { m = a0; a0 = a1; a1 = m; }
+  if (a2 > a3) { m = a2; a2 = a3; a3 = m; }
+  if (a4 > a5) { m = a4; a4 = a5; a5 = m; }
+  if (a6 > a7) { m = a6; a6 = a7; a7 = m; }
+  if (a2 > a4) { m = a2; a2 = a4; a4 = m; }
+  if (a3 > a5) { m = a3; a3 = a5; a5 = m; }
+  if (a1 > a4) { m = a1; a1 = a4; a4 = m; }
+  if (a3 > a6) { m = a3; a3 = a6; a6 = m; }
+  if (a1 > a2) { m = a1; a1 = a2; a2 = m; }
+  if (a3 > a4) { m = a3; a3 = a4; a4 = m; }
+  if (a5 > a6) { m = a5; a5 = a6; a6 = m; }
+  if (b0 > b2) { m = b0; b0 = b2; b2 = m; }
+  if (b1 > b3) { m = b1; b1 = b3; b3 = m; }
+  if (b4 > b6) { m = b4; b4 = b6; b6 = m; }
+  if (b5 > b7) { m = b5; b5 = b7; b7 = m; }
+  if (b0 > b4) { m = b0; b0 = b4; b4 = m; }
+  if (b1 > b5) { m = b1; b1 = b5; b5 = m; }
+  if (b2 > b6) { m = b2; b2 = b6; b6 = m; }
+  if (b3 > b7) { m = b3; b3 = b7; b7 = m; }
+  if (b0 > b1) { m = b0; b0 = b1; b1 = m; }
+  if (b2 > b3) { m = b2; b2 = b3; b3 = m; }
+  if (b4 > b5) { m = b4; b4 = b5; b5 = m; }
+  if (b6 > b7) { m = b6; b6 = b7; b7 = m; }
+  if (b2 > b4) { m = b2; b2 = b4; b4 = m; }
+  if (b3 > b5) { m = b3; b3 = b5; b5 = m; }
+  if (b1 > b4) { m = b1; b1 = b4; b4 = m; }
+  if (b3 > b6) { m = b3; b3 = b6; b6 = m; }
+  if (b1 > b2) { m = b1; b1 = b2; b2 = m; }
+  if (b3 > b4) { m = b3; b3 = b4; b4 = m; }
+  if (b5 > b6) { m = b5; b5 = b6; b6 = m; }
+  // The eighth smallest of both: i of the first half's below it and 8 − i of the second's.
+  let best = b7 < a7 ? b7 : a7;
+  m = a0 > b6 ? a0 : b6;
+  if (m < best) best = m;
+  m = a1 > b5 ? a1 : b5;
+  if (m < best) best = m;
+  m = a2 > b4 ? a2 : b4;
+  if (m < best) best = m;
+  m = a3 > b3 ? a3 : b3;
+  if (m < best) best = m;
+  m = a4 > b2 ? a4 : b2;
+  if (m < best) best = m;
+  m = a5 > b1 ? a5 : b1;
+  if (m < best) best = m;
+  m = a6 > b0 ? a6 : b0;
+  if (m < best) best = m;
+  return best;
+}
+
+/**
+ * Grid lines of one orientation in a half-resolution picture `luma` (w × h, row-major, luma
+ * bytes) over paper of luma density `paperLuma` per paper block (`cols` blocks a row, each
+ * `PAPER_BLOCK_PX / 2` values wide): `vertical` false finds lines running across (left to right),
+ * true lines running down. Positions in the picture's own pixels.
+ */
+function linesOf(luma: Uint8Array, w: number, h: number, paperLuma: Float64Array, cols: number, vertical: boolean): { a: number; b: number }[] {
   // In the line's own frame: u runs along the line, v across it.
   const along = vertical ? h : w;
   const across = vertical ? w : h;
-  const at = (u: number, v: number) => (vertical ? (dens[u * w + v] as number) : (dens[v * w + u] as number));
   const strips = Math.floor(along / STRIP_PX);
   if (strips < 3) return [];
+  // A strip lies inside one column (one row) of paper blocks: its paper is one value per v.
+  const blockShift = Math.log2(PAPER_BLOCK_PX / 2);
   const peaks: { s: number; v: number }[][] = [];
-  const column = new Float32Array(STRIP_PX);
   const profile = new Float32Array(across);
+  const blockRows = paperLuma.length / cols;
   for (let s = 0; s < strips; s++) {
+    // The strip's median density at each v: that of its low median byte, over the paper.
+    const stripBlock = Math.min((s * STRIP_PX) >> blockShift, (vertical ? blockRows : cols) - 1);
     for (let v = 0; v < across; v++) {
-      for (let k = 0; k < STRIP_PX; k++) column[k] = at(s * STRIP_PX + k, v);
-      profile[v] = median(column, STRIP_PX);
+      const vBlock = Math.min(v >> blockShift, (vertical ? cols : blockRows) - 1);
+      const byte = vertical ? lowMedian16(luma, s * STRIP_PX * w + v, w) : lowMedian16(luma, v * w + s * STRIP_PX, 1);
+      const d = (LN[byte] as number) - (paperLuma[vertical ? stripBlock * cols + vBlock : vBlock * cols + stripBlock] as number);
+      profile[v] = d > 0 ? d : 0;
     }
     const base = median(profile.slice(), across);
     const spread = median(profile.map((p) => Math.abs(p - base)), across);
@@ -183,16 +321,20 @@ function linesOf(dens: Float32Array, w: number, h: number, vertical: boolean): {
     points: { u: number; v: number }[];
     slope: number;
     last: number;
+    /** The strip whose peak it took last (a chain takes one peak a strip). */
+    taken: number;
   }
   const chains: Chain[] = [];
+  // The chains a peak may still link to (missed no more than `LINK_SKIP` strips), in the order made.
+  let live: Chain[] = [];
   for (let s = 0; s < strips; s++) {
     const u = s * STRIP_PX + STRIP_PX / 2;
-    const taken = new Set<Chain>();
+    live = live.filter((c) => s - c.last <= LINK_SKIP + 1);
     for (const p of peaks[s] as { s: number; v: number }[]) {
       let best: Chain | undefined;
       let bestD = Infinity;
-      for (const c of chains) {
-        if (taken.has(c) || s - c.last > LINK_SKIP + 1) continue;
+      for (const c of live) {
+        if (c.taken === s) continue;
         const end = c.points[c.points.length - 1] as { u: number; v: number };
         const d = Math.abs(p.v - (end.v + c.slope * (u - end.u)));
         if (d <= LINK_PX + 0.2 * (s - c.last) && d < bestD) {
@@ -206,11 +348,11 @@ function linesOf(dens: Float32Array, w: number, h: number, vertical: boolean): {
         best.slope = best.points.length >= 3 ? (p.v - start.v) / (u - start.u) : 0;
         best.points.push({ u, v: p.v });
         best.last = s;
-        taken.add(best);
+        best.taken = s;
       } else {
-        const c: Chain = { points: [{ u, v: p.v }], slope: 0, last: s };
+        const c: Chain = { points: [{ u, v: p.v }], slope: 0, last: s, taken: s };
         chains.push(c);
-        taken.add(c);
+        live.push(c);
       }
     }
   }
@@ -263,32 +405,28 @@ function gridIn(image: RasterImage, box: Box): { lines: GridLine[]; paper: Paper
   if (w < 6 * STRIP_PX || h < 6 * STRIP_PX) return { lines: [], paper, box: [l, t, r, b] };
   // Lines are found on the luma density at half resolution (each value the density of the mean
   // of 2 × 2 pixels against the paper's): a quarter of the work, and a grid line 1–3 px wide
-  // still stands out in it.
+  // still stands out in it. The picture keeps the mean's byte; its density is taken per strip
+  // median (linesOf), the paper being one value over each strip.
   const hw = w >> 1;
   const hh = h >> 1;
-  const dens = new Float32Array(hw * hh);
+  const luma = new Uint8Array(hw * hh);
   const data = image.data;
+  const rowBytes = 4 * image.width;
   for (let y = 0; y < hh; y++) {
-    const py = t + 2 * y;
-    const paperLuma = (x: number) => {
-      const pb = paper.block(x, py);
-      return ((paper.values[pb] as number) + (paper.values[pb + 1] as number) + (paper.values[pb + 2] as number)) / 3;
-    };
-    let blockPaper = 0;
-    for (let x = 0; x < hw; x++) {
-      const px = l + 2 * x;
-      if ((x & 31) === 0) blockPaper = paperLuma(px);
-      const o = 4 * (py * image.width + px);
-      const m = o + 4 * image.width;
-      const sum = (data[o] as number) + (data[o + 1] as number) + (data[o + 2] as number) + (data[o + 4] as number) + (data[o + 5] as number) + (data[o + 6] as number) + (data[m] as number) + (data[m + 1] as number) + (data[m + 2] as number) + (data[m + 4] as number) + (data[m + 5] as number) + (data[m + 6] as number);
-      const d = (LN[Math.round(sum / 12)] as number) - blockPaper;
-      dens[y * hw + x] = d > 0 ? d : 0;
+    let o = rowBytes * (t + 2 * y) + 4 * l;
+    const end = o + 8 * hw;
+    let at = y * hw;
+    for (; o < end; o += 8) {
+      const m = o + rowBytes;
+      luma[at++] = MEAN_OF_12[(data[o] as number) + (data[o + 1] as number) + (data[o + 2] as number) + (data[o + 4] as number) + (data[o + 5] as number) + (data[o + 6] as number) + (data[m] as number) + (data[m + 1] as number) + (data[m + 2] as number) + (data[m + 4] as number) + (data[m + 5] as number) + (data[m + 6] as number)] as number;
     }
   }
+  const paperLuma = new Float64Array(paper.cols * paper.rows);
+  for (let k = 0; k < paperLuma.length; k++) paperLuma[k] = ((paper.values[3 * k] as number) + (paper.values[3 * k + 1] as number) + (paper.values[3 * k + 2] as number)) / 3;
   const found: GridLine[] = [];
   for (const vertical of [false, true]) {
     // Half-resolution value i is centred on pixel 2i + ½: v = a + b·u there is v = 2a + ½ − ½b + b·u here.
-    const lines = linesOf(dens, hw, hh, vertical).map((q) => ({ a: 2 * q.a + 0.5 - 0.5 * q.b, b: q.b }));
+    const lines = linesOf(luma, hw, hh, paperLuma, paper.cols, vertical).map((q) => ({ a: 2 * q.a + 0.5 - 0.5 * q.b, b: q.b }));
     lines.forEach((line, k) => {
       // Box-relative to image pixels: v = a + b·u in the box becomes, in the image, v + origin.
       const [u0, v0] = vertical ? [t, l] : [l, t];
@@ -306,77 +444,146 @@ function gridIn(image: RasterImage, box: Box): { lines: GridLine[]; paper: Paper
 /** Step along a line between the samples of its cross-section, pixels (the median needs no more). */
 const SECTION_STEP_PX = 5;
 
-/** The median density per channel at each offset from a line, along its whole length inside the box. */
+/**
+ * The median density per channel at each offset from a line, along its whole length inside the
+ * box. A sample lies on a whole pixel along the line, so it is interpolated across the line only.
+ */
 function crossSection(image: RasterImage, paper: Paper, [l, t, r, b]: Box, vertical: boolean, a: number, slope: number, reach: number): Float32Array {
   const offsets = Math.round((2 * reach) / PROFILE_STEP) + 1;
   const [u0, u1] = vertical ? [t, b] : [l, r];
   const profile = new Float32Array(3 * offsets);
   const size = Math.ceil((u1 - u0) / SECTION_STEP_PX) + 1;
-  const samples: Float32Array[] = [new Float32Array(size), new Float32Array(size), new Float32Array(size)];
+  // Samples of offset k, channel c at [(3k + c)·size …], `counts[k]` of them.
+  const samples = new Float32Array(3 * offsets * size);
+  const counts = new Int32Array(offsets);
   const { data, width } = image;
-  for (let k = 0; k < offsets; k++) {
-    const off = -reach + k * PROFILE_STEP;
-    let n = 0;
-    for (let u = u0; u < u1; u += SECTION_STEP_PX) {
-      const v = a + slope * u + off;
-      const x = vertical ? v : u;
-      const y = vertical ? u : v;
-      const x0 = Math.floor(x);
-      const y0 = Math.floor(y);
+  // One pixel across the line in the image's bytes: along a row for upright lines, down a column otherwise.
+  const across = vertical ? 4 : 4 * width;
+  const offs = Float64Array.from({ length: offsets }, (_, k) => -reach + k * PROFILE_STEP);
+  const paperValues = paper.values;
+  for (let u = u0; u < u1; u += SECTION_STEP_PX) {
+    const centre = a + slope * u;
+    for (let k = 0; k < offsets; k++) {
+      const v = centre + (offs[k] as number);
+      const v0 = Math.floor(v);
+      const x0 = vertical ? v0 : u;
+      const y0 = vertical ? u : v0;
       if (x0 < l || y0 < t || x0 + 1 >= r || y0 + 1 >= b) continue;
-      const fx = x - x0;
-      const fy = y - y0;
-      const pb = paper.block(x0, y0);
+      const f = v - v0;
+      // The paper of the first pixel's block (inside the box: no block off it).
+      const pb = 3 * (((y0 - t) >> PAPER_BLOCK_SHIFT) * paper.cols + ((x0 - l) >> PAPER_BLOCK_SHIFT));
       const o = 4 * (y0 * width + x0);
-      const o2 = o + 4 * width;
-      for (let c = 0; c < 3; c++) {
-        // Bilinear in density between the four pixels (paper of the first one's block).
-        const top = (1 - fx) * (LN[data[o + c] as number] as number) + fx * (LN[data[o + 4 + c] as number] as number);
-        const bottom = (1 - fx) * (LN[data[o2 + c] as number] as number) + fx * (LN[data[o2 + 4 + c] as number] as number);
-        const d = (1 - fy) * top + fy * bottom - (paper.values[pb + c] as number);
-        (samples[c] as Float32Array)[n] = d > 0 ? d : 0;
-      }
-      n++;
+      const o2 = o + across;
+      const n = counts[k] as number;
+      const e = 1 - f;
+      const at = 3 * k * size + n;
+      // Linear in density between the two pixels, per channel.
+      const d0 = e * (LN[data[o] as number] as number) + f * (LN[data[o2] as number] as number) - (paperValues[pb] as number);
+      const d1 = e * (LN[data[o + 1] as number] as number) + f * (LN[data[o2 + 1] as number] as number) - (paperValues[pb + 1] as number);
+      const d2 = e * (LN[data[o + 2] as number] as number) + f * (LN[data[o2 + 2] as number] as number) - (paperValues[pb + 2] as number);
+      samples[at] = d0 > 0 ? d0 : 0;
+      samples[at + size] = d1 > 0 ? d1 : 0;
+      samples[at + 2 * size] = d2 > 0 ? d2 : 0;
+      counts[k] = n + 1;
     }
-    for (let c = 0; c < 3; c++) profile[3 * k + c] = median(samples[c] as Float32Array, n);
+  }
+  for (let k = 0; k < offsets; k++) {
+    for (let c = 0; c < 3; c++) profile[3 * k + c] = median(samples.subarray((3 * k + c) * size, (3 * k + c + 1) * size), counts[k] as number);
   }
   return profile;
 }
 
 /**
  * Takes the grid lines out of `data` (the image's pixels or a copy of them, same size) inside the box:
- * each pixel within a line's reach loses that line's density at its offset, per channel, never
- * becoming lighter than the paper. Where two lines cross, each takes its own share.
+ * each pixel within a line's reach loses that line's density at its offset (the nearest of the
+ * line's `REMOVAL_STEPS_PX` steps a pixel), per channel, never becoming lighter than the paper.
+ * Where two lines cross, each takes its own share.
  */
 export function removeGrid(image: RasterImage, data: Uint8ClampedArray, box: Box): GridLine[] {
   const { lines, paper, box: [l, t, r, b] } = gridIn(image, box);
+  const width = image.width;
+  const paperBytes = paper.bytes;
+  for (const p of paperBytes) fadeTo(p);
   for (const line of lines) {
-    const offsets = line.profile.length / 3;
-    const [u0, u1, v0, v1] = line.vertical ? [t, b, l, r] : [l, r, t, b];
+    const { profile, reach, vertical } = line;
+    const offsets = profile.length / 3;
+    // The offsets where the cross-section has density: a pixel more than a step beyond them
+    // interpolates between zeros and loses nothing.
+    let first = -1;
+    let last = -1;
+    for (let k = 0; k < offsets; k++) {
+      if ((profile[3 * k] as number) > 0 || (profile[3 * k + 1] as number) > 0 || (profile[3 * k + 2] as number) > 0) {
+        if (first < 0) first = k;
+        last = k;
+      }
+    }
+    if (first < 0) continue;
+    // e^density per channel at offsets from −reach in steps of 1 / `REMOVAL_STEPS_PX` pixel,
+    // interpolated between the cross-section's offsets.
+    const steps = Math.ceil(2 * reach * REMOVAL_STEPS_PX) + 2;
+    const gains = new Float64Array(3 * steps);
+    for (let q = 0; q < steps; q++) {
+      const k = q / (REMOVAL_STEPS_PX * PROFILE_STEP);
+      const k0 = Math.min(offsets - 1, Math.floor(k));
+      const k1 = Math.min(offsets - 1, k0 + 1);
+      const f = k - k0;
+      for (let c = 0; c < 3; c++) {
+        const g = (1 - f) * (profile[3 * k0 + c] as number) + f * (profile[3 * k1 + c] as number);
+        gains[3 * q + c] = expOf(g > 0 ? g : 0);
+      }
+    }
+    const [u0, u1, v0, v1] = vertical ? [t, b, l, r] : [l, r, t, b];
+    // Bytes from one pixel to the next along the line and across it.
+    const [alongBytes, acrossBytes] = vertical ? [4 * width, 4] : [4, 4 * width];
+    // Paper blocks from one block to the next along the line and across it.
+    const [alongBlocks, acrossBlocks] = vertical ? [3 * paper.cols, 3] : [3, 3 * paper.cols];
+    const firstByte = 4 * (t * width + l);
     for (let u = u0; u < u1; u++) {
       const centre = line.a + line.b * u;
-      for (let v = Math.max(v0, Math.ceil(centre - line.reach)); v <= Math.min(v1 - 1, Math.floor(centre + line.reach)); v++) {
-        const k = (v - centre + line.reach) / PROFILE_STEP;
-        const k0 = Math.max(0, Math.min(offsets - 1, Math.floor(k)));
-        const k1 = Math.min(offsets - 1, k0 + 1);
-        const f = k - k0;
-        const x = line.vertical ? v : u;
-        const y = line.vertical ? u : v;
-        const o = 4 * (y * image.width + x);
-        const pb = paper.block(x, y);
-        for (let c = 0; c < 3; c++) {
-          const g = (1 - f) * (line.profile[3 * k0 + c] as number) + f * (line.profile[3 * k1 + c] as number);
-          if (g <= 0) continue;
-          // The density left in `data` (lines crossing take their shares in turn), never below the paper.
-          const before = (LN[data[o + c] as number] as number) - (paper.values[pb + c] as number);
-          if (before <= 0) continue;
-          // v + 1 = (paper + 1)·e^(−density): lighter by the density taken off.
-          data[o + c] = Math.min(255, Math.round(((data[o + c] as number) + 1) * expOf(Math.min(before, g)) - 1));
-        }
+      // A pixel to spare each way of the offsets with density, against rounding at their ends.
+      const from = Math.max(v0, Math.ceil(centre - reach), Math.ceil(centre - reach + (first - 1) * PROFILE_STEP) - 1);
+      const to = Math.min(v1 - 1, Math.floor(centre + reach), Math.floor(centre - reach + (last + 1) * PROFILE_STEP) + 1);
+      const rowByte = firstByte + (u - u0) * alongBytes;
+      const rowBlock = ((u - u0) >> PAPER_BLOCK_SHIFT) * alongBlocks;
+      for (let v = from; v <= to; v++) {
+        const q = 3 * Math.min(steps - 1, ((v - centre + reach) * REMOVAL_STEPS_PX + 0.5) | 0);
+        const pb = rowBlock + ((v - v0) >> PAPER_BLOCK_SHIFT) * acrossBlocks;
+        const o = rowByte + (v - v0) * acrossBytes;
+        // Per channel, without branches (whether a byte is darker than its paper is a toss-up):
+        // lighter by the line's density there, but no lighter than the paper (the density left
+        // in `data` over the paper: lines crossing take their shares in turn). Lighter is
+        // monotone in the density, so the lesser density gives the darker byte. The store into
+        // the byte array rounds (halves to even) and holds to 255.
+        let byte = data[o] as number;
+        data[o] = Math.min(FADED[(paperBytes[pb] as number) * 256 + byte] as number, (byte + 1) * (gains[q] as number) - 1);
+        byte = data[o + 1] as number;
+        data[o + 1] = Math.min(FADED[(paperBytes[pb + 1] as number) * 256 + byte] as number, (byte + 1) * (gains[q + 1] as number) - 1);
+        byte = data[o + 2] as number;
+        data[o + 2] = Math.min(FADED[(paperBytes[pb + 2] as number) * 256 + byte] as number, (byte + 1) * (gains[q + 2] as number) - 1);
       }
     }
   }
   return lines;
+}
+
+/** A byte lighter by density `d`: v + 1 = (paper + 1)·e^(−density), so v + 1 grows by e^d. */
+function lighter(byte: number, d: number): number {
+  return Math.min(255, Math.round((byte + 1) * expOf(d) - 1));
+}
+
+/**
+ * Bytes with all their density over a paper byte taken off (about the paper's byte; a byte at or
+ * lighter than the paper's is kept), per paper byte and byte: at `paper · 256 + byte`, the rows
+ * filled as their paper bytes are first met (`fadeTo`).
+ */
+const FADED = new Uint8Array(256 * 256);
+const fadedRows = new Uint8Array(256);
+
+/** Fills the row of `FADED` for a paper byte, if not yet filled. */
+function fadeTo(paperByte: number): void {
+  if (fadedRows[paperByte]) return;
+  for (let byte = 0; byte < 256; byte++) FADED[paperByte * 256 + byte] = byte < paperByte ? lighter(byte, (LN[byte] as number) - (LN[paperByte] as number)) : byte;
+  fadedRows[paperByte] = 1;
 }
 
 /** e^d for densities 0–8 in steps of 1/256, linear between steps (to well under a grey level). */
