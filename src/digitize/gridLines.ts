@@ -155,17 +155,22 @@ function percentile(counts: Uint32Array, first: number, second: number, n: numbe
 
 /**
  * Median of the first `n` values, none below zero (densities over the paper); reorders them
- * (selection in place, Hoare's partition). Over paper most values are zero, and then so is the
- * median: zeros are counted first.
+ * (selection in place, Hoare's partition). Over paper many values are zero (often most, and then
+ * so is the median): the selection runs on the others only.
  */
 function median(values: Float32Array, n: number): number {
   if (n <= 0) return 0;
-  const k = n >> 1;
-  let zeros = 0;
-  for (let i = 0; i < n; i++) if ((values[i] as number) === 0) zeros++;
-  if (zeros > k) return 0;
+  // The values above zero are moved to the front; the median is zero or the (k − zeros)th of them.
+  let above = 0;
+  for (let i = 0; i < n; i++) {
+    const value = values[i] as number;
+    values[above] = value;
+    above += value > 0 ? 1 : 0;
+  }
+  const k = (n >> 1) - (n - above);
+  if (k < 0) return 0;
   let lo = 0;
-  let hi = n - 1;
+  let hi = above - 1;
   while (lo < hi) {
     const pivot = values[(lo + hi) >> 1] as number;
     let i = lo;
@@ -286,6 +291,8 @@ function linesOf(luma: Uint8Array, w: number, h: number, paperLuma: Float64Array
   const blockShift = Math.log2(PAPER_BLOCK_PX / 2);
   const peaks: { s: number; v: number }[][] = [];
   const profile = new Float32Array(across);
+  // The profile's copy reordered by the medians of its values and of their distances from the baseline.
+  const scratch = new Float32Array(across);
   const blockRows = paperLuma.length / cols;
   for (let s = 0; s < strips; s++) {
     // The strip's median density at each v: that of its low median byte, over the paper.
@@ -296,8 +303,10 @@ function linesOf(luma: Uint8Array, w: number, h: number, paperLuma: Float64Array
       const d = (LN[byte] as number) - (paperLuma[vertical ? stripBlock * cols + vBlock : vBlock * cols + stripBlock] as number);
       profile[v] = d > 0 ? d : 0;
     }
-    const base = median(profile.slice(), across);
-    const spread = median(profile.map((p) => Math.abs(p - base)), across);
+    scratch.set(profile);
+    const base = median(scratch, across);
+    for (let v = 0; v < across; v++) scratch[v] = Math.abs((profile[v] as number) - base);
+    const spread = median(scratch, across);
     const floor = base + Math.max(PEAK_DENSITY, PEAK_SPREADS * spread);
     const found: { s: number; v: number }[] = [];
     // A peak is the highest within two values each way (the box's edges count as low).
@@ -441,6 +450,9 @@ function gridIn(image: RasterImage, box: Box): { lines: GridLine[]; paper: Paper
   return { lines: found, paper, box: [l, t, r, b] };
 }
 
+/** Room for the samples of a cross-section, kept from one line to the next (each line's are written before they are read). */
+let sectionSamples = new Float32Array(0);
+
 /** Step along a line between the samples of its cross-section, pixels (the median needs no more). */
 const SECTION_STEP_PX = 5;
 
@@ -454,7 +466,8 @@ function crossSection(image: RasterImage, paper: Paper, [l, t, r, b]: Box, verti
   const profile = new Float32Array(3 * offsets);
   const size = Math.ceil((u1 - u0) / SECTION_STEP_PX) + 1;
   // Samples of offset k, channel c at [(3k + c)·size …], `counts[k]` of them.
-  const samples = new Float32Array(3 * offsets * size);
+  if (sectionSamples.length < 3 * offsets * size) sectionSamples = new Float32Array(3 * offsets * size);
+  const samples = sectionSamples;
   const counts = new Int32Array(offsets);
   const { data, width } = image;
   // One pixel across the line in the image's bytes: along a row for upright lines, down a column otherwise.
@@ -545,21 +558,31 @@ export function removeGrid(image: RasterImage, data: Uint8ClampedArray, box: Box
       const to = Math.min(v1 - 1, Math.floor(centre + reach), Math.floor(centre - reach + (last + 1) * PROFILE_STEP) + 1);
       const rowByte = firstByte + (u - u0) * alongBytes;
       const rowBlock = ((u - u0) >> PAPER_BLOCK_SHIFT) * alongBlocks;
-      for (let v = from; v <= to; v++) {
-        const q = 3 * Math.min(steps - 1, ((v - centre + reach) * REMOVAL_STEPS_PX + 0.5) | 0);
-        const pb = rowBlock + ((v - v0) >> PAPER_BLOCK_SHIFT) * acrossBlocks;
-        const o = rowByte + (v - v0) * acrossBytes;
-        // Per channel, without branches (whether a byte is darker than its paper is a toss-up):
-        // lighter by the line's density there, but no lighter than the paper (the density left
-        // in `data` over the paper: lines crossing take their shares in turn). Lighter is
-        // monotone in the density, so the lesser density gives the darker byte. The store into
-        // the byte array rounds (halves to even) and holds to 255.
-        let byte = data[o] as number;
-        data[o] = Math.min(FADED[(paperBytes[pb] as number) * 256 + byte] as number, (byte + 1) * (gains[q] as number) - 1);
-        byte = data[o + 1] as number;
-        data[o + 1] = Math.min(FADED[(paperBytes[pb + 1] as number) * 256 + byte] as number, (byte + 1) * (gains[q + 1] as number) - 1);
-        byte = data[o + 2] as number;
-        data[o + 2] = Math.min(FADED[(paperBytes[pb + 2] as number) * 256 + byte] as number, (byte + 1) * (gains[q + 2] as number) - 1);
+      // The run of pixels across the line lies in one or two paper blocks: taken in one piece
+      // per block, its paper hoisted.
+      for (let start = from; start <= to; ) {
+        const block = (start - v0) >> PAPER_BLOCK_SHIFT;
+        const end = Math.min(to, v0 + ((block + 1) << PAPER_BLOCK_SHIFT) - 1);
+        const pb = rowBlock + block * acrossBlocks;
+        const red = (paperBytes[pb] as number) * 256;
+        const green = (paperBytes[pb + 1] as number) * 256;
+        const blue = (paperBytes[pb + 2] as number) * 256;
+        let o = rowByte + (start - v0) * acrossBytes;
+        for (let v = start; v <= end; v++, o += acrossBytes) {
+          const q = 3 * Math.min(steps - 1, ((v - centre + reach) * REMOVAL_STEPS_PX + 0.5) | 0);
+          // Per channel, without branches (whether a byte is darker than its paper is a toss-up):
+          // lighter by the line's density there, but no lighter than the paper (the density left
+          // in `data` over the paper: lines crossing take their shares in turn). Lighter is
+          // monotone in the density, so the lesser density gives the darker byte. The store into
+          // the byte array rounds (halves to even) and holds to 255.
+          let byte = data[o] as number;
+          data[o] = Math.min(FADED[red + byte] as number, (byte + 1) * (gains[q] as number) - 1);
+          byte = data[o + 1] as number;
+          data[o + 1] = Math.min(FADED[green + byte] as number, (byte + 1) * (gains[q + 1] as number) - 1);
+          byte = data[o + 2] as number;
+          data[o + 2] = Math.min(FADED[blue + byte] as number, (byte + 1) * (gains[q + 2] as number) - 1);
+        }
+        start = end + 1;
       }
     }
   }
