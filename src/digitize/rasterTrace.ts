@@ -19,6 +19,7 @@ import { colourDistance, estimatePaper, inkModel, lumaChroma, membership, MIN_CO
 import { chooseOffset, followLine, indexPath, stepping, type FollowLimits, type FollowResult, type LineStyle, type Pick } from './lineFollow.ts';
 import { centreFirst, findRuns, inkAxis, membershipAt, sampleInkSection, sampleLongSection, sampleSection, type ReadCounter, type Run } from './lineProfile.ts';
 import { sheetPoint, type SheetPoint } from './points.ts';
+import { resampleEvenly } from './polyline.ts';
 import type { RasterImage } from './raster.ts';
 import { withoutGrid } from './gridLines.ts';
 import { alongBand } from './rasterBand.ts';
@@ -1148,6 +1149,22 @@ function extendToEnds(
   };
   const tail = outward(path);
   const head = outward([...path].reverse());
+  // Each end's whole stretch beyond its outermost guide, not only each piece followed on it: a
+  // line that runs together with a neighbour from the guide to its end came out of no bunch
+  // and ended in none piece by piece, yet nothing tells the two lines apart there.
+  if (!doubts.some((d) => d.what === 'bunch-end')) {
+    const step = stepping(traced.width).step;
+    for (const stretch of [[path[path.length - 1] as Px, ...tail], [path[0] as Px, ...head]]) {
+      // Looked at a step apart along the stretch: a follow across a dotted line's gaps keeps few points.
+      const count = Math.ceil(pathLength(stretch, 0) / step) + 1;
+      const dense = stretch.length >= 2 ? resampleEvenly(stretch.map(([x, y]) => sheetPoint(x, y)), Math.max(2, count)).map((q): Px => [q[0], q[1]]) : stretch;
+      const crowded = crowdedAt(image, traced, dense, counter);
+      if (crowded) {
+        doubts.push({ at: crowded, what: 'bunch-end' });
+        break;
+      }
+    }
+  }
   path.unshift(...head.reverse());
   path.push(...tail);
   if (frame) clipToFrame(path, frame, image.scale, traced.width);

@@ -2,6 +2,9 @@ import { describe, expect, it } from 'vitest';
 import { traceRaster } from '../../src/digitize/rasterTrace.ts';
 import { sheetPoint } from '../../src/digitize/points.ts';
 import { picture, stroke } from './rasterPictures.ts';
+import { loadImageRasterNode } from '../../src/digitize/loaders/imageNode.ts';
+import { siblingGuides } from '../../src/digitize/vectorChoice.ts';
+import { makeRandomSheet } from '../../scripts/randomSheets/randomSheet.ts';
 
 // Two lines of one colour that meet at a shallow angle and run together for longer than the
 // follower bridges on its prediction alone (its gap, 50 line widths), then part again.
@@ -36,5 +39,21 @@ describe('a whole-line trace through a bunch', () => {
     // It stops in the bunch: on neither branch beyond it.
     expect(Math.max(...got.points.map((p) => p[0]))).toBeLessThan(400);
     expect(Math.min(...got.points.map((p) => p[0]))).toBeLessThan(55);
+  });
+});
+
+describe('an end that runs together with a neighbour from its outermost guide on', () => {
+  it('says so, though the follow across a dotted line\'s gaps keeps few points there (random bed scan 319, NPSHr 8.875 in)', async () => {
+    // Invented sheet of the random bed: three black dotted NPSHr lines that run together below
+    // mid-flow; the hurried guide at a quarter of the line sits where they touch, and the trace
+    // from it to the line's start lies on the bunch, up to 1.8 % of span off its own line.
+    const s = await makeRandomSheet(319, 'scan');
+    const image = await loadImageRasterNode(s.jpeg);
+    const index = s.takeoff.traces.findIndex((t) => t.id === 'npshr-8.875');
+    const trace = s.takeoff.traces[index]!;
+    const siblings = siblingGuides(s.takeoff.traces).filter((_, k) => k !== index);
+    const frame = s.takeoff.panels.find((p) => p.id === trace.panel)?.frame;
+    const got = traceRaster(image, (trace.guides ?? []).map(([x, y]) => sheetPoint(x, y)), { siblings, ...(frame ? { frame } : {}) });
+    expect(got.doubts.map((d) => d.code)).toContain('takeoff.end-through-bunch');
   });
 });
