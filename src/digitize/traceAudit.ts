@@ -62,7 +62,7 @@ export const END_SHORT_SHARE = 0.85;
 export const NPSHR_HEAD_END_SHARE = 0.95;
 /**
  * An NPSHr trace starting later than this share of its own head trace's end flow is reported:
- * makers draw NPSHr from shut-off or from the low end of the allowable operating range, within
+ * makers draw NPSHr from zero flow or from the low end of the allowable operating region, within
  * the first third or so of the flow axis (common practice). When every NPSHr line of a sheet
  * fades at low flow alike, the family comparison (START_LATE_SHARE) sees nothing, and the
  * curve set would silently extrapolate the lost stretch. A warning, not a fail: a sheet may
@@ -205,7 +205,7 @@ export function auditTraces(traces: readonly AuditedTrace[], flowText: (q: numbe
         code: 'takeoff.npshr-start-late',
         severity: 'warn',
         trace: t.id,
-        message: `Trace ${t.id} (${t.describe}) starts at ${flowText(q0)}, ${Math.round((100 * q0) / headEnd)} % of the way to the end of the head trace of the same ${t.diameter !== undefined ? 'diameter' : 'speed'} (${flowText(headEnd)}), while an NPSHr curve is usually drawn from shut-off or the low end of the operating range; below that flow its NPSHr is extrapolated. If the sheet's line starts lower, add a guide near its low-flow end; if the sheet starts it there, give its points to confirm.`,
+        message: `Trace ${t.id} (${t.describe}) starts at ${flowText(q0)}, ${Math.round((100 * q0) / headEnd)} % of the way to the end of the head trace of the same ${t.diameter !== undefined ? 'diameter' : 'speed'} (${flowText(headEnd)}), while an NPSHr curve is usually drawn from zero flow or from the low end of the allowable operating region; below that flow its NPSHr is extrapolated. If the sheet's line starts lower, add a guide near its low-flow end; if the sheet starts it there, give its points to confirm.`,
         figures: { flow_from: q0, head_to: headEnd },
       });
     }
