@@ -57,3 +57,30 @@ describe('an end that runs together with a neighbour from its outermost guide on
     expect(got.doubts.map((d) => d.code)).toContain('takeoff.end-through-bunch');
   });
 });
+
+describe('a guide the finished trace does not pass over', () => {
+  it('is said, where the clicked line runs together with a neighbour (random bed scan 88, efficiency 242)', async () => {
+    // Invented sheet of the random bed: two black dashed efficiency lines 4–6 px apart at low
+    // flow; the hurried guides at 6 % and 57 % of the line sit on it, but the line model sampled
+    // over both lines is twice as wide, and the trace runs between them, 3.3 px off the first
+    // guide and 2.35 points of efficiency off its line.
+    const s = await makeRandomSheet(88, 'scan');
+    const image = await loadImageRasterNode(s.jpeg);
+    const index = s.takeoff.traces.findIndex((t) => t.id === 'efficiency-242');
+    const trace = s.takeoff.traces[index]!;
+    const siblings = siblingGuides(s.takeoff.traces).filter((_, k) => k !== index);
+    const frame = s.takeoff.panels.find((p) => p.id === trace.panel)?.frame;
+    const got = traceRaster(image, (trace.guides ?? []).map(([x, y]) => sheetPoint(x, y)), { siblings, ...(frame ? { frame } : {}) });
+    const missed = got.doubts.filter((d) => d.code === 'takeoff.guide-missed');
+    expect(missed.length).toBeGreaterThan(0);
+    expect(missed[0]?.message).toMatch(/^the trace does not pass over guide 1 near/);
+  });
+
+  it('is not said of a trace on a line that stands alone, its guides clicked a pixel off', () => {
+    const line = (x: number) => 150 + 0.0008 * (x - 300) ** 2;
+    const image = picture(640, 320, (ctx) => stroke(ctx, line, 40, 600, '#1f5fbf', 2));
+    const got = traceRaster(image, [sheetPoint(120, line(120) + 1), sheetPoint(300, line(300) - 1), sheetPoint(480, line(480) + 1)]);
+    expect(got.doubts.map((d) => d.code)).not.toContain('takeoff.guide-missed');
+    expect(got.points.length).toBeGreaterThan(5);
+  });
+});
