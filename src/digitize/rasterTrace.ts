@@ -739,12 +739,14 @@ export function traceRaster(original: RasterImage, guides: readonly SheetPoint[]
   );
   // A guide the finished trace does not pass over: the line clicked on there ran together with
   // a neighbour (one line model sampled over both, or a bridge laid along the other), and the
-  // trace may lie on the neighbour or between the two at that place.
+  // trace may lie on the neighbour or between the two at that place. A guide already doubted as
+  // sitting in a bunch is not said twice.
   if (thinned.length >= 2) {
     const course = thinned.map((p): Px => [p.x, p.y]);
     const miss = Math.max(GUIDE_MISS_PX, GUIDE_MISS_WIDTHS * style.width);
     px.forEach((g, i) => {
-      if (snapped[i] && distanceToPolyline(course, g) > miss) doubts.push({ at: g, what: 'missed', guide: i + 1 });
+      if (!snapped[i] || doubts.some((d) => d.what === 'bunch' && d.guide === i + 1)) return;
+      if (distanceToPolyline(course, g) > miss) doubts.push({ at: g, what: 'missed', guide: i + 1 });
     });
   }
   void step;

@@ -42,18 +42,23 @@ describe('a whole-line trace through a bunch', () => {
   });
 });
 
+/** One trace of a random-bed scan followed with the bed's own (hurried) guides, the other traces' guides and its panel's frame, as the replay does. */
+async function bedTrace(seed: number, id: string) {
+  const s = await makeRandomSheet(seed, 'scan');
+  const image = await loadImageRasterNode(s.jpeg);
+  const index = s.takeoff.traces.findIndex((t) => t.id === id);
+  const trace = s.takeoff.traces[index]!;
+  const siblings = siblingGuides(s.takeoff.traces).filter((_, k) => k !== index);
+  const frame = s.takeoff.panels.find((p) => p.id === trace.panel)?.frame;
+  return traceRaster(image, (trace.guides ?? []).map(([x, y]) => sheetPoint(x, y)), { siblings, ...(frame ? { frame } : {}) });
+}
+
 describe('an end that runs together with a neighbour from its outermost guide on', () => {
   it('says so, though the follow across a dotted line\'s gaps keeps few points there (random bed scan 319, NPSHr 8.875 in)', async () => {
     // Invented sheet of the random bed: three black dotted NPSHr lines that run together below
     // mid-flow; the hurried guide at a quarter of the line sits where they touch, and the trace
     // from it to the line's start lies on the bunch, up to 1.8 % of span off its own line.
-    const s = await makeRandomSheet(319, 'scan');
-    const image = await loadImageRasterNode(s.jpeg);
-    const index = s.takeoff.traces.findIndex((t) => t.id === 'npshr-8.875');
-    const trace = s.takeoff.traces[index]!;
-    const siblings = siblingGuides(s.takeoff.traces).filter((_, k) => k !== index);
-    const frame = s.takeoff.panels.find((p) => p.id === trace.panel)?.frame;
-    const got = traceRaster(image, (trace.guides ?? []).map(([x, y]) => sheetPoint(x, y)), { siblings, ...(frame ? { frame } : {}) });
+    const got = await bedTrace(319, 'npshr-8.875');
     expect(got.doubts.map((d) => d.code)).toContain('takeoff.end-through-bunch');
   });
 });
@@ -64,13 +69,7 @@ describe('a guide the finished trace does not pass over', () => {
     // flow; the hurried guides at 6 % and 57 % of the line sit on it, but the line model sampled
     // over both lines is twice as wide, and the trace runs between them, 3.3 px off the first
     // guide and 2.35 points of efficiency off its line.
-    const s = await makeRandomSheet(88, 'scan');
-    const image = await loadImageRasterNode(s.jpeg);
-    const index = s.takeoff.traces.findIndex((t) => t.id === 'efficiency-242');
-    const trace = s.takeoff.traces[index]!;
-    const siblings = siblingGuides(s.takeoff.traces).filter((_, k) => k !== index);
-    const frame = s.takeoff.panels.find((p) => p.id === trace.panel)?.frame;
-    const got = traceRaster(image, (trace.guides ?? []).map(([x, y]) => sheetPoint(x, y)), { siblings, ...(frame ? { frame } : {}) });
+    const got = await bedTrace(88, 'efficiency-242');
     const missed = got.doubts.filter((d) => d.code === 'takeoff.guide-missed');
     expect(missed.length).toBeGreaterThan(0);
     expect(missed[0]?.message).toMatch(/^the trace does not pass over guide 1 near/);
