@@ -45,6 +45,13 @@ const LINK_PX = 1;
 const LINK_SKIP = 6;
 /** Least share of the frame's strips a grid line is seen in. */
 const SPAN_SHARE = 0.7;
+/**
+ * Strips from each side of the frame within which a grid line is first and last seen (as many as a
+ * chain may miss in a row, and one): a grid line runs from side to side, while a straight curve
+ * (a power line, an iso-line) that crosses most of a wide frame starts or ends inside it and is no
+ * grid line, however straight.
+ */
+const SIDE_STRIPS = LINK_SKIP + 1;
 /** Largest root-mean-square distance of a chain's peaks from its straight line, half-resolution pixels (a curve bends away). */
 const STRAIGHT_PX = 0.35;
 /** A strip's peak farther than this from the chain's first line is left out of its second fit, half-resolution pixels. */
@@ -389,6 +396,15 @@ function linesOf(luma: Uint8Array, w: number, h: number, paperLuma: Float64Array
     if (kept.length < SPAN_SHARE * strips) continue;
     const line = fit(kept);
     if (line.rms > STRAIGHT_PX || Math.abs(line.b) > MAX_SLOPE) continue;
+    // Seen near both sides of the frame: a strip's peak on the line within the first and the last
+    // `SIDE_STRIPS` strips (any chain's: a curve running along the grid line for a stretch can
+    // break its chain in two).
+    const onLine = (s: number) => (peaks[s] as { v: number }[]).some((p) => Math.abs(p.v - line.a - line.b * (s * STRIP_PX + STRIP_PX / 2)) <= OUTLIER_PX);
+    let near = false;
+    for (let s = 0; s < Math.min(strips, SIDE_STRIPS) && !near; s++) near = onLine(s);
+    let far = false;
+    for (let s = strips - 1; s >= Math.max(0, strips - SIDE_STRIPS) && !far; s--) far = onLine(s);
+    if (!near || !far) continue;
     out.push({ a: line.a, b: line.b });
   }
   return out.sort((p, q) => p.a - q.a);

@@ -9,6 +9,8 @@ import type { RasterImage } from '../../src/digitize/raster.ts';
 const PAPER = [236, 234, 226] as const;
 const GRID = [150, 150, 150] as const;
 const W = 420;
+/** Width of the pictures drawn, unless a test asks for a wider one. */
+const WIDE = W;
 const H = 300;
 const TURN = Math.tan((1 * Math.PI) / 180);
 const SPACING = 24;
@@ -26,7 +28,7 @@ interface Drawn {
 }
 
 /** Paper, a grid of grey lines 2 px wide every SPACING px turned by 1°, and optionally a black curve 1.5 px wide over it. */
-function draw(withCurve: boolean, extra?: (x: number, y: number) => number): Drawn {
+function draw(withCurve: boolean, extra?: (x: number, y: number) => number, W = WIDE): Drawn {
   const data = new Uint8ClampedArray(W * H * 4);
   const curveDistance = (x: number, y: number) => Math.abs(y - curveY(x)) / Math.sqrt(1 + (0.0024 * (x - 30)) ** 2);
   for (let y = 0; y < H; y++) {
@@ -82,6 +84,24 @@ describe('findGridLines', () => {
       expect(Math.abs(Math.abs(l.b) - TURN)).toBeLessThan(0.003);
       expect(plain.some((p) => p.vertical === l.vertical && Math.abs(p.a - l.a) < 0.5)).toBe(true);
     }
+  });
+
+  it('does not take a straight curve that crosses most of the box but ends inside it for a grid line', () => {
+    // A power line drawn straight, from the box's left side to 72 % across, turned as little as a
+    // grid line may be (about 1.1°): straight enough and long enough for a grid line, but a grid
+    // line runs from side to side. Taken out as grid, the curve would be wiped from the picture.
+    // A panel 1200 px wide: 36 strips, the line seen in the first 27 (a grid line is seen within 7 of each side).
+    const wide = 1200;
+    const box = [10, 10, wide - 10, H - 10] as const;
+    const ends = 10 + 0.72 * (wide - 20);
+    const straight = (x: number, y: number) => (x > ends ? 0 : cover(Math.abs(y - (150 + 0.02 * x)), 2));
+    const plain = findGridLines(draw(false, undefined, wide).image, box);
+    const lines = findGridLines(draw(false, straight, wide).image, box);
+    expect(plain.filter((l) => !l.vertical).length).toBeGreaterThan(5);
+    expect(lines.length).toBeGreaterThanOrEqual(plain.length - 1);
+    for (const l of lines) expect(plain.some((p) => p.vertical === l.vertical && Math.abs(p.a - l.a) < 0.5)).toBe(true);
+    // Nothing found along the straight line: every line across lies off it at mid-box.
+    for (const l of lines.filter((q) => !q.vertical)) expect(Math.abs(l.a + l.b * 200 - (150 + 0.02 * 200))).toBeGreaterThan(3);
   });
 
   it('finds nothing in a box too small to hold three strips, or on bare paper', () => {
