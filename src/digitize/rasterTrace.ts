@@ -723,6 +723,12 @@ export function traceRaster(original: RasterImage, guides: readonly SheetPoint[]
     }
   }
 
+  // Between the guides, a stretch the trace holds no point over, longer than the follower carries
+  // a line unseen or than `UNSEEN_PX`, and not said to be lost: the follower coasted there on its
+  // prediction (the forward pass keeps no points where it coasts, and the backward pass may meet
+  // its track far beyond its last point seen), or a bunch's model took the whole bunch for the line.
+  const unseen = unseenBetweenGuides(path, px, Math.min(maxGap, UNSEEN_PX), lost);
+  if (unseen) doubts.push(unseen);
   if ((px.length === 1 || options.extent !== 'guides') && path.length >= 2) doubts.push(...extendToEnds(image, style, path, maxGap, options.frame, counter, offOthers));
   else if (options.frame && path.length >= 2) clipToFrame(path, options.frame, image.scale, style.width);
 
@@ -866,8 +872,45 @@ const GUIDE_MEMBERSHIP = 0.6;
 
 /** A finding-worthy doubt about a followed stretch: a stable code and a sentence saying what to do. */
 export interface TraceDoubt {
-  code: 'takeoff.end-at-frame' | 'takeoff.guide-in-bunch' | 'takeoff.guide-missed' | 'takeoff.end-through-bunch' | 'takeoff.end-after-gap';
+  code: 'takeoff.end-at-frame' | 'takeoff.guide-in-bunch' | 'takeoff.guide-missed' | 'takeoff.end-through-bunch' | 'takeoff.end-after-gap' | 'takeoff.stretch-unseen';
   message: string;
+}
+
+/** Longest stretch between guides a trace may hold no point over without saying so, pixels (the random bed: longer chords through bunches went wrong unseen). */
+const UNSEEN_PX = 140;
+
+/**
+ * The first stretch between the outermost guides over which `path` holds no point for more than
+ * `limit` pixels, unless a lost stretch between the same guides was recorded: a doubt at its start.
+ */
+function unseenBetweenGuides(path: readonly Px[], guides: readonly Px[], limit: number, lost: readonly LostStretch[]): EndDoubt | undefined {
+  if (path.length < 2 || guides.length < 2) return undefined;
+  // Each guide's place on the path: the index of the nearest point.
+  const places = guides.map((g) => {
+    let best = 0;
+    let bestD = Infinity;
+    path.forEach((q, k) => {
+      const d = (q[0] - g[0]) ** 2 + (q[1] - g[1]) ** 2;
+      if (d < bestD) {
+        bestD = d;
+        best = k;
+      }
+    });
+    return best;
+  });
+  const first = Math.min(...places);
+  const last = Math.max(...places);
+  for (let k = first + 1; k <= last; k++) {
+    const a = path[k - 1] as Px;
+    const b = path[k] as Px;
+    if (Math.hypot(b[0] - a[0], b[1] - a[1]) <= limit) continue;
+    // The guides on either side of the stretch, in the order given (1-based).
+    const before = places.reduce((g, p, i) => (p < k && (g < 0 || p >= (places[g] as number)) ? i : g), -1);
+    const guide = before < 0 ? 1 : before + 1;
+    if (lost.some((l) => l.between[0] === guide || l.between[1] === guide + 1)) continue;
+    return { at: a, what: 'unseen', guide };
+  }
+  return undefined;
 }
 
 /**
@@ -877,7 +920,7 @@ export interface TraceDoubt {
  */
 interface EndDoubt {
   at: Px;
-  what: 'frame' | 'bunch' | 'bunch-end' | 'gap-beside' | 'onto-other' | 'missed';
+  what: 'frame' | 'bunch' | 'bunch-end' | 'gap-beside' | 'onto-other' | 'missed' | 'unseen';
   /** The guide concerned (1-based), for a doubt about a guide. */
   guide?: number;
 }
@@ -905,6 +948,12 @@ function doubtSentence(d: EndDoubt, at: SheetPoint): TraceDoubt {
     return {
       code: 'takeoff.guide-missed',
       message: `the trace does not pass over guide ${d.guide ?? ''} near ${fmt(at)}: the line clicked on there runs together with another, and the trace may lie on the other line or between the two; check the trace there, or move the guide to where the line stands alone`,
+    };
+  }
+  if (d.what === 'unseen') {
+    return {
+      code: 'takeoff.stretch-unseen',
+      message: `after guide ${d.guide ?? ''} near ${fmt(at)} the trace holds no point of the line over a stretch longer than the tracer carries a line unseen (the line runs together with other lines there, or is hidden), so part of the trace between guides ${d.guide ?? ''} and ${(d.guide ?? 0) + 1} is a guess; check the trace there, or add a guide where the line stands alone`,
     };
   }
   if (d.what === 'bunch') {
