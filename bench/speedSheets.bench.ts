@@ -8,13 +8,15 @@
  *
  *   SPEED_SHEETS=10 SPEED_SEED=1 npm run bench -- speedSheets
  *
- * SPEED_MONO=1 draws every speed in one colour. Per-trace reasons: scripts/randomSheets/speedDump.ts.
+ * SPEED_GUIDES=careful places every scan trace's guides where its line stands alone instead
+ * (carefulGuides, as the random bed's careful view): what the tracer does when the person did
+ * their part. SPEED_MONO=1 draws every speed in one colour. Per-trace reasons: scripts/randomSheets/speedDump.ts.
  * Sheets are drawn once and kept in artifacts/speed-sheets/ (the dump's cache), so a second run
  * measures only the take-off.
  */
 import { writeFileSync } from 'node:fs';
 import { scoreReplay, type CurveScore } from '../scripts/randomSheets/score.ts';
-import { benchOptions, cachedSpeedSheet, sheetOf } from '../scripts/randomSheets/speedDump.ts';
+import { benchOptions, cachedSpeedSheet, sheetOf, withCarefulGuides } from '../scripts/randomSheets/speedDump.ts';
 import { speedTruthSource, type SpeedSheet } from '../scripts/randomSheets/speedSheet.ts';
 import { replayTakeoff } from '../src/digitize/takeoff.ts';
 import type { CurveSet } from '../src/model/curveset.ts';
@@ -42,15 +44,17 @@ export default async function bench(): Promise<void> {
   const count = Number(process.env.SPEED_SHEETS ?? 10);
   const first = Number(process.env.SPEED_SEED ?? 1);
   const monochrome = process.env.SPEED_MONO === '1';
+  const careful = process.env.SPEED_GUIDES === 'careful';
   const rows: (CurveScore & { seed: number; kind: string })[] = [];
   for (let seed = first; seed < first + count; seed++) {
     for (const kind of ['vector', 'scan'] as const) {
-      const s = await cachedSpeedSheet(seed, benchOptions(seed, kind));
+      const drawn = await cachedSpeedSheet(seed, benchOptions(seed, kind));
+      const s = careful ? withCarefulGuides(drawn) : drawn;
       const set = await replay(s);
       for (const r of scoreReplay(s.family, s.truth, set, speedTruthSource(s.family))) rows.push({ ...r, seed, kind });
     }
   }
-  const lines = [`${count} speed sheets from seed ${first}${monochrome ? ' in one colour' : ''}, each as vector PDF and as scan`, 'group                      curves   p50      p95      max      flagged  wrong    wrong+unflagged'];
+  const lines = [`${count} speed sheets from seed ${first}${monochrome ? ' in one colour' : ''}, each as vector PDF and as scan${careful ? ', guides placed carefully' : ''}`, 'group                      curves   p50      p95      max      flagged  wrong    wrong+unflagged'];
   const groups = new Map<string, typeof rows>();
   for (const r of rows) {
     const key = `${r.kind}/${r.quantity}${r.source === 'iso' ? ' (iso)' : ''}`;

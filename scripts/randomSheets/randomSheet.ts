@@ -106,23 +106,51 @@ export function guidesFor(dice: Dice, line: LinePlan, crossings: Pt[], shot: Sho
 const CAREFUL_ROOM_WIDTHS = 4;
 const CAREFUL_ROOM_PX = 8;
 
+/** Least share of a line's length its stand-alone stretches must span for the careful guides to keep to them. */
+const CAREFUL_ALONE_SHARE = 0.25;
+
 /**
  * Where a careful person clicks on a line: `count` places spread evenly over the stretches where
  * no other line of the panel passes within a few line widths (the line stands alone there), on the
- * line's centre; the hurried guides (guidesFor) are kept for a line that never stands alone.
- * Flat page pixels, mapped through the camera. A second view of the bed: what the tracer does
- * when the person did their part, apart from where a hurried click put it.
+ * line's centre. Where those stretches span less than `CAREFUL_ALONE_SHARE` of the line (lines
+ * drawn close side by side all along), the person spreads the clicks along the line instead, each
+ * where the line has the most room within its share of the line's length. The hurried guides
+ * (guidesFor) are kept for a line too short for that. Flat page pixels, mapped through the
+ * camera. A second view of the bed: what the tracer does when the person did their part, apart
+ * from where a hurried click put it.
  */
 export function carefulGuides(plan: SheetPlan, line: LinePlan, shot: Shot, count = 3): Array<[number, number]> | undefined {
   const others = plan.lines.filter((l) => l !== line && l.panel === line.panel);
   const room = CAREFUL_ROOM_WIDTHS * line.style.width + CAREFUL_ROOM_PX;
-  const alone: number[] = [];
-  line.points.forEach((p, k) => {
-    const clear = others.every((o) => o.points.every((q) => Math.abs(q[0] - p[0]) > room || Math.hypot(q[0] - p[0], q[1] - p[1]) >= room));
-    if (clear) alone.push(k);
+  const points = line.points;
+  if (points.length < 2 * count) return undefined;
+  // Room at each point: the distance to the nearest point of another line (as far as `reach` looks).
+  const reach = 4 * room;
+  const clearance = points.map((p) => {
+    let best = reach;
+    for (const o of others) for (const q of o.points) if (Math.abs(q[0] - p[0]) < best && Math.abs(q[1] - p[1]) < best) best = Math.min(best, Math.hypot(q[0] - p[0], q[1] - p[1]));
+    return best;
   });
-  if (alone.length < count) return undefined;
-  return Array.from({ length: count }, (_, j) => applyH(shot.h, line.points[alone[Math.floor(((j + 0.5) / count) * alone.length)] as number] as Pt));
+  const along = [0];
+  for (let k = 1; k < points.length; k++) along.push((along[k - 1] as number) + Math.hypot((points[k] as Pt)[0] - (points[k - 1] as Pt)[0], (points[k] as Pt)[1] - (points[k - 1] as Pt)[1]));
+  const length = along[along.length - 1] as number;
+  const alone = points.map((_, k) => k).filter((k) => (clearance[k] as number) >= room);
+  const spanned = alone.length > 0 ? (along[alone[alone.length - 1] as number] as number) - (along[alone[0] as number] as number) : 0;
+  const at = (k: number) => applyH(shot.h, points[k] as Pt);
+  if (alone.length >= count && spanned >= CAREFUL_ALONE_SHARE * length) return Array.from({ length: count }, (_, j) => at(alone[Math.floor(((j + 0.5) / count) * alone.length)] as number));
+  // Spread along the line: in each share of its length, the point with the most room (the share's middle among equals).
+  return Array.from({ length: count }, (_, j) => {
+    const from = (j / count) * length;
+    const to = ((j + 1) / count) * length;
+    const mid = (from + to) / 2;
+    let best = -1;
+    for (let k = 0; k < points.length; k++) {
+      const s = along[k] as number;
+      if (s < from || s > to) continue;
+      if (best < 0 || (clearance[k] as number) > (clearance[best] as number) + 0.5 || (Math.abs((clearance[k] as number) - (clearance[best] as number)) <= 0.5 && Math.abs(s - mid) < Math.abs((along[best] as number) - mid))) best = k;
+    }
+    return at(Math.max(0, best));
+  });
 }
 
 /** The sheet's take-off with every raster trace's guides placed carefully (carefulGuides), where a line stands alone anywhere. */

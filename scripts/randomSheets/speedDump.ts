@@ -24,6 +24,7 @@ import { sheetPoint } from '../../src/digitize/points.ts';
 import { replayTakeoff } from '../../src/digitize/takeoff.ts';
 import { parseTakeoff } from '../../src/model/takeoff.ts';
 import { decode } from './camera.ts';
+import { carefulGuides } from './randomSheet.ts';
 import { scoreReplay } from './score.ts';
 import { drawnRangeAtSpeed, exactAtSpeed, makeSpeedSheet, speedTruthSource, type SpeedSheet, type SpeedSheetOptions } from './speedSheet.ts';
 
@@ -34,6 +35,17 @@ const CACHE = `artifacts/speed-sheets/${RENDER_VERSION}`;
 /** The bench's options for a seed (bench/speedSheets.bench.ts). */
 export function benchOptions(seed: number, kind: 'vector' | 'scan'): SpeedSheetOptions {
   return { kind, efficiencyAs: seed % 2 ? 'iso' : 'curves', minFlowLine: seed % 3 === 0, ...(process.env.SPEED_MONO === '1' ? { monochrome: true } : {}) };
+}
+
+/** The sheet's take-off with each scan trace's guides placed carefully where its line stands alone (vector guides are kept: they snap to the drawn paths). */
+export function withCarefulGuides(s: SpeedSheet): SpeedSheet {
+  if (s.takeoff.sheet.endsWith('.pdf')) return s;
+  const traces = s.takeoff.traces.map((t) => {
+    const line = s.plan.lines.find((l) => l.id === t.id);
+    const guides = line && t.guides ? carefulGuides(s.plan, line, s.shot) : undefined;
+    return guides ? { ...t, guides } : t;
+  });
+  return { ...s, takeoff: { ...s.takeoff, traces } };
 }
 
 /** A speed sheet from the cache, or drawn (and cached) when missing. */

@@ -3,19 +3,21 @@
  * bed: the sheet cropped around the trace, its guides (blue), the replay's points (red) and the
  * drawn lines of every speed of the same quantity (green for the trace's own, yellow the others).
  *
- *   SPEED_KIND=scan npx tsx scripts/randomSheets/speedView.ts 10 efficiency-1450 /tmp/out.png [zoom]
+ *   SPEED_KIND=scan [SPEED_GUIDES=careful] npx tsx scripts/randomSheets/speedView.ts 10 efficiency-1450 /tmp/out.png [zoom]
  */
 import { replayTakeoff } from '../../src/digitize/takeoff.ts';
 import { parseTakeoff } from '../../src/model/takeoff.ts';
 import { applyH, decode } from './camera.ts';
-import { benchOptions, cachedSpeedSheet, sheetOf } from './speedDump.ts';
+import { benchOptions, cachedSpeedSheet, sheetOf, withCarefulGuides } from './speedDump.ts';
 import { markedCrop } from './markedCrop.ts';
 
 const [seedArg, id, out = '/tmp/speed-view.png', zoomArg = '1'] = process.argv.slice(2);
 const seed = Number(seedArg);
 const zoom = Number(zoomArg);
 const kind = (process.env.SPEED_KIND ?? 'scan') as 'scan' | 'vector';
-const s = await cachedSpeedSheet(seed, benchOptions(seed, kind));
+// SPEED_GUIDES=careful: the guides placed where each line stands alone, as the bench's careful view.
+const drawn = await cachedSpeedSheet(seed, benchOptions(seed, kind));
+const s = process.env.SPEED_GUIDES === 'careful' ? withCarefulGuides(drawn) : drawn;
 const sheet = await sheetOf(s);
 const result = await replayTakeoff(parseTakeoff(s.takeoff), sheet, { created: '2026-01-01T00:00:00.000Z' });
 await sheet.close();
