@@ -49,8 +49,8 @@ export const SI_BASE: Readonly<Record<QuantityKind, string>> = {
 
 export const UNITS: readonly Unit[] = [
   unit('m3/s', 'flow', 'm³/s', 1, ['m³/s', 'cms']),
-  unit('m3/h', 'flow', 'm³/h', 1 / 3600, ['m³/h', 'm3/hr', 'm³/hr', 'cmh']),
-  unit('L/s', 'flow', 'L/s', 1e-3, ['l/s', 'lps']),
+  unit('m3/h', 'flow', 'm³/h', 1 / 3600, ['m³/h', 'm3/hr', 'm³/hr', 'm3/hour', 'm³/hour', 'cmh']),
+  unit('L/s', 'flow', 'L/s', 1e-3, ['l/s', 'l/sec', 'lps']),
   unit('L/min', 'flow', 'L/min', 1e-3 / 60, ['l/min', 'lpm']),
   unit('m3/min', 'flow', 'm³/min', 1 / 60, ['m³/min']),
   unit('gpm', 'flow', 'gpm', US_GALLON / 60, ['usgpm', 'us gpm', 'gal/min']),

@@ -13,6 +13,18 @@ describe('sheet words', () => {
     expect(quantityOfTitle('Flow (gpm)')).toBeNull();
   });
 
+  it('quantityOfTitle reads "Efficiency" with a letter or two misread, as a 150-dpi scan prints its "ffi"', () => {
+    // Read so from random-bed detection scan 70 (an INVENTED sheet): the panel went unnamed.
+    expect(quantityOfTitle('Efciency (W)')).toBe('efficiency');
+    expect(quantityOfTitle('Eficiency (%)')).toBe('efficiency');
+    // The abbreviation many sheets print is read; a short word is not stretched to a title word,
+    // nor is the flow title.
+    expect(quantityOfTitle('Eff. (%)')).toBe('efficiency');
+    expect(quantityOfTitle('Effort (N)')).toBeNull();
+    expect(quantityOfTitle('Frequency (Hz)')).toBeNull();
+    expect(quantityOfTitle('Flow Q (m3/h)')).toBeNull();
+  });
+
   it('isFlowTitle tells the flow axis title from value titles', () => {
     expect(isFlowTitle('Flow Q (m3/h)')).toBe(true);
     expect(isFlowTitle('Capacity [gpm]')).toBe(true);

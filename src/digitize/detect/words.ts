@@ -24,9 +24,28 @@ export function quantityOfTitle(text: string): Quantity | null {
   if (isFlowTitle(text)) return null;
   if (/npsh/i.test(text)) return 'npshr';
   if (/power|\bbhp\b|\bkW\b|\bhp\b/i.test(text)) return 'power';
-  if (/effic|η/i.test(text)) return 'efficiency';
+  if (/effic|\beff\b|η/i.test(text)) return 'efficiency';
   if (/head|\bTDH\b|H\s*\(/i.test(text)) return 'head';
+  // A long title word read with a letter or two lost or changed (on a scan the "ffi" of
+  // "Efficiency" often prints as one glyph and is read as "f" or "fi").
+  for (const word of text.toLowerCase().match(/[a-z]+/g) ?? []) {
+    for (const [name, quantity] of MISREAD_TITLE_WORDS) if (word.length >= name.length - 2 && editDistance(word, name) <= 2) return quantity;
+  }
   return null;
+}
+
+/** Title words long enough to be told apart with two letters misread. */
+const MISREAD_TITLE_WORDS: ReadonlyArray<readonly [string, Quantity]> = [['efficiency', 'efficiency']];
+
+/** Least number of single-letter insertions, deletions and substitutions turning `a` into `b` (Levenshtein). */
+export function editDistance(a: string, b: string): number {
+  let previous = Array.from({ length: b.length + 1 }, (_, j) => j);
+  for (let i = 1; i <= a.length; i++) {
+    const current = [i];
+    for (let j = 1; j <= b.length; j++) current[j] = Math.min((previous[j] as number) + 1, (current[j - 1] as number) + 1, (previous[j - 1] as number) + (a[i - 1] === b[j - 1] ? 0 : 1));
+    previous = current;
+  }
+  return previous[b.length] as number;
 }
 
 /** The unit a title names in brackets ("Head (ft)" → "ft", "Flow Q [m³/h]" → "m³/h"), or null. */
