@@ -325,6 +325,10 @@ async function main(): Promise<void> {
   process.stdout.write(`  efficiency from iso-lines, per diameter: drawn ${sum((c) => c.iso.drawn)} (on ${cs.filter((c) => c.iso.drawn > 0).length} sheets), found ${sum((c) => c.iso.found)}, within ${curveTolerance(kind).isoPoints} points ${sum((c) => c.iso.right)}; points p50 ${q(isoErrors, 0.5).toFixed(2)} p95 ${q(isoErrors, 0.95).toFixed(2)} max ${isoErrors.length ? Math.max(...isoErrors).toFixed(2) : '-'}\n`);
   process.stdout.write(`  missed ${sum((c) => c.missed)}, invented ${sum((c) => c.invented)}, mislabelled ${sum((c) => c.mislabelled)}; refused sheets ${cs.filter((c) => c.error).length}; head curves named from labels read: ${sum((c) => c.namedByLabels)}; sheets where the detector asked for the diameters and got them: ${cs.filter((c) => c.gaveDiameters).length} (of ${cs.length})\n`);
   process.stdout.write(`  questions per sheet: ${cs.map((c) => c.questions.length).join(' ')}; sheets with at most one: ${cs.filter((c) => c.questions.length <= 1).length} of ${cs.length}\n`);
+  // The automatic take-off's acceptance speaks of 200–300-dpi scans: the same figures for those alone.
+  const fine = outcomes.filter((o) => o.dpi >= 200).map((o) => o.curves);
+  const fineSum = (f: (c: CurveOutcome) => number) => fine.reduce((n, c) => n + f(c), 0);
+  process.stdout.write(`  of which 200–300 dpi (${fine.length} sheets): ${fineSum((c) => c.right)} of ${fineSum((c) => c.drawn)} curves within tolerance, missed ${fineSum((c) => c.missed)}, iso efficiency within ${curveTolerance(kind).isoPoints} points ${fineSum((c) => c.iso.right)} of ${fineSum((c) => c.iso.drawn)}; sheets with at most one question ${fine.filter((c) => c.questions.length <= 1).length}; asked for the diameters ${fine.filter((c) => c.gaveDiameters).length}\n`);
   for (const quantity of ['head', 'efficiency', 'power', 'npshr']) {
     const k = cs.map((c) => c.byQuantity[quantity] ?? { drawn: 0, found: 0, right: 0 });
     const n = (f: (x: { drawn: number; found: number; right: number }) => number) => k.reduce((a, x) => a + f(x), 0);
