@@ -77,6 +77,8 @@ export interface CurveOutcome {
   byQuantity: Record<string, { drawn: number; found: number; right: number }>;
   /** Wrong (beyond tolerance, a wrong name, invented) with neither a finding of the replay, a confidence under 0.5, nor a question. */
   silent: string[];
+  /** The iso levels were given in the take-off: the detector asked for them (iso-lines left without a level), and the engineer answered once. */
+  gaveLevels?: boolean;
   /** The diameters were given in the take-off: the detector asked for them (labels missing or not read), and the engineer answered once. */
   gaveDiameters: boolean;
   /** Head curves named from the labels read on the scan. */
@@ -159,8 +161,9 @@ export function curveTolerance(kind: 'scan' | 'photo'): { percent: number; point
 
 /**
  * The take-off with no panels and no traces: the detector finds both. When it asks for the
- * diameters (labels missing or not read), the engineer answers once: the run is repeated with
- * the plan's diameters given, and that question is the sheet's one question.
+ * diameters (labels missing or not read), or for the iso levels (lines left without one), the
+ * engineer answers once, in the take-off file: the run is repeated with the plan's diameters,
+ * or every level it draws as iso-lines, given. Each list asked for counts as one question.
  */
 async function scoreFoundCurves(seed: number, plan: SheetPlan, takeoff: TakeoffInput, sheet: Awaited<ReturnType<typeof loadImageSheetNode>>, kind: 'scan' | 'photo'): Promise<CurveOutcome> {
   const out = emptyCurves(plan);
@@ -173,6 +176,7 @@ async function scoreFoundCurves(seed: number, plan: SheetPlan, takeoff: TakeoffI
   out.drawn = truth.length;
   out.iso.drawn = isoTruth.length;
   const askedForValues = (text: string) => /give the diameters \(or speeds\) drawn/.test(text);
+  const askedForLevels = (text: string) => /"iso_levels"/.test(text);
   const run = () => detectTakeoff(parseTakeoffToDetect(raw), raw, sheet, { reader: textReaderNode() });
   let found;
   let first: string[] = [];
@@ -181,16 +185,24 @@ async function scoreFoundCurves(seed: number, plan: SheetPlan, takeoff: TakeoffI
     first = found.questions;
   } catch (error) {
     const message = error instanceof Error ? error.message : String(error);
-    if (!askedForValues(message)) {
+    if (!askedForValues(message) && !askedForLevels(message)) {
       out.error = message;
       out.missed = truth.length;
       return out;
     }
     first = [message];
   }
-  if (!found || found.questions.some(askedForValues)) {
-    raw.diameters = [...plan.family.diameters];
-    out.gaveDiameters = true;
+  const levels = [...new Set(plan.lines.flatMap((l) => (l.iso === undefined ? [] : [l.iso])))];
+  const askLevels = levels.length > 0 && first.some(askedForLevels);
+  if (!found || first.some(askedForValues) || askLevels) {
+    if (first.some(askedForValues)) {
+      raw.diameters = [...plan.family.diameters];
+      out.gaveDiameters = true;
+    }
+    if (askLevels) {
+      raw.iso_levels = levels;
+      out.gaveLevels = true;
+    }
     try {
       found = await run();
     } catch (error) {
@@ -200,8 +212,8 @@ async function scoreFoundCurves(seed: number, plan: SheetPlan, takeoff: TakeoffI
       return out;
     }
   }
-  // The questions of the sheet: the one answered (the diameters), then what the second run still asks.
-  out.questions = out.gaveDiameters ? ['give the diameters drawn', ...found.questions] : found.questions;
+  // The questions of the sheet: those answered (the diameters, the iso levels), then what the second run still asks.
+  out.questions = [...(out.gaveDiameters ? ['give the diameters drawn'] : []), ...(out.gaveLevels ? ['give the iso levels drawn'] : []), ...found.questions];
   out.namedByLabels = found.takeoff.traces.filter((t) => t.origin === 'detected' && t.quantity === 'head').length * (out.gaveDiameters ? 0 : 1);
   const detected = found.takeoff.traces.filter((t) => t.origin === 'detected');
   const replay = await replayTakeoff(found.takeoff, sheet, { created: '2026-01-01T00:00:00.000Z' });
@@ -323,7 +335,7 @@ async function main(): Promise<void> {
   process.stdout.write(`  efficiency curves, points: p50 ${q(points, 0.5).toFixed(2)} p95 ${q(points, 0.95).toFixed(2)} max ${points.length ? Math.max(...points).toFixed(2) : '-'} (${points.length} curves)\n`);
   const isoErrors = cs.flatMap((c) => c.iso.errors);
   process.stdout.write(`  efficiency from iso-lines, per diameter: drawn ${sum((c) => c.iso.drawn)} (on ${cs.filter((c) => c.iso.drawn > 0).length} sheets), found ${sum((c) => c.iso.found)}, within ${curveTolerance(kind).isoPoints} points ${sum((c) => c.iso.right)}; points p50 ${q(isoErrors, 0.5).toFixed(2)} p95 ${q(isoErrors, 0.95).toFixed(2)} max ${isoErrors.length ? Math.max(...isoErrors).toFixed(2) : '-'}\n`);
-  process.stdout.write(`  missed ${sum((c) => c.missed)}, invented ${sum((c) => c.invented)}, mislabelled ${sum((c) => c.mislabelled)}; refused sheets ${cs.filter((c) => c.error).length}; head curves named from labels read: ${sum((c) => c.namedByLabels)}; sheets where the detector asked for the diameters and got them: ${cs.filter((c) => c.gaveDiameters).length} (of ${cs.length})\n`);
+  process.stdout.write(`  missed ${sum((c) => c.missed)}, invented ${sum((c) => c.invented)}, mislabelled ${sum((c) => c.mislabelled)}; refused sheets ${cs.filter((c) => c.error).length}; head curves named from labels read: ${sum((c) => c.namedByLabels)}; sheets where the detector asked for the diameters and got them: ${cs.filter((c) => c.gaveDiameters).length} (of ${cs.length}); for the iso levels: ${cs.filter((c) => c.gaveLevels).length}\n`);
   process.stdout.write(`  questions per sheet: ${cs.map((c) => c.questions.length).join(' ')}; sheets with at most one: ${cs.filter((c) => c.questions.length <= 1).length} of ${cs.length}\n`);
   // The automatic take-off's acceptance speaks of 200–300-dpi scans: the same figures for those alone.
   const fine = outcomes.filter((o) => o.dpi >= 200).map((o) => o.curves);

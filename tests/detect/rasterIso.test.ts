@@ -7,7 +7,7 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import type { InkMap } from '../../src/digitize/detect/ink.ts';
 import { crossingsOfWord, distanceToTrack, headPieces, isoLevelOf, isoLevelRead, isoLevelsOnScan, linesMeeting, splitAcross, steepLines, transposeBox, turnedInk, wordsOnIsoLines, type FrameWord } from '../../src/digitize/detect/rasterIso.ts';
-import { inferIsoLevels, sideBySide } from '../../src/digitize/detect/isoLevels.ts';
+import { inferIsoLevels, levelsFromList, sideBySide } from '../../src/digitize/detect/isoLevels.ts';
 import { runTogetherWords } from '../../src/digitize/detect/rasterCurves.ts';
 import { sheetPoint, type SheetPoint } from '../../src/digitize/points.ts';
 import type { TextReader } from '../../src/digitize/detect/rasterText.ts';
@@ -159,6 +159,26 @@ describe('iso levels by order on a scan', () => {
   });
 });
 
+describe('iso levels from the list the engineer gives, on a scan', () => {
+  /** Lines ordered by flow: each a short upright stroke at its column. */
+  const lines = [100, 200, 300, 400, 500, 600].map((x) => ({ points: [sheetPoint(x, 500), sheetPoint(x + 20, 100)] }));
+
+  it('names every line by order, and vouches for the order only when both branches of every level were found', () => {
+    const full = levelsFromList(lines, [60, 70, 75], new Map([[lines[1]!, 70]]));
+    expect(full?.full).toBe(true);
+    expect(lines.map((c) => full?.levels.get(c))).toEqual([60, 70, 75, 75, 70, 60]);
+    // Five lines for three levels: one may have been missed, and the order then shifts.
+    const five = levelsFromList(lines.slice(0, 5), [60, 70, 75], new Map());
+    expect(five?.full).toBe(false);
+  });
+
+  it('gives nothing when a label read disagrees with the order (a line was missed before it)', () => {
+    // Drawn 60, 70, 75 left and 75, 70 right; the 70 left line missed: the 75 left line is second.
+    const found = lines.slice(0, 4);
+    expect(levelsFromList(found, [60, 70, 75], new Map([[found[1]!, 75]]))).toBeNull();
+  });
+});
+
 describe('iso-lines in pieces', () => {
   /** A found line through the level points given, as the normal pass finds it (u columns, v rows). */
   const through = (...pts: [number, number][]) => ({ track: { u: pts.map((p) => p[0]), v: pts.map((p) => p[1]), room: pts.map(() => 20), len: pts.map(() => 2), joins: [] } as unknown as Track, traced: [] });
@@ -287,6 +307,25 @@ describe('iso-lines on a scan of the random bed', () => {
         expect(t.confidence).toBeLessThan(0.5);
         expect(found.questions.join(' ')).toContain(`"${t.id}"`);
       }
+    }
+  });
+});
+
+describe('iso levels the engineer gives for a scan', () => {
+  it('seed 23: the unlabelled lines take their levels from the list, by order, unsure; without the list they are left out', { timeout: 180_000 }, async () => {
+    // INVENTED bed scan: five left-branch iso-lines 40 … 60 %, labels printed on three, two read.
+    const { plan, found: bare } = await detectBedScan(23);
+    const drawn = [...new Set(plan.lines.filter((l) => l.iso !== undefined).map((l) => l.iso as number))].sort((a, b) => a - b);
+    expect(drawn).toEqual([40, 45, 50, 55, 60]);
+    const levelsOf = (f: typeof bare) => f.takeoff.traces.filter((t) => t.iso !== undefined).map((t) => t.iso as number).sort((a, b) => a - b);
+    expect(levelsOf(bare).length).toBeLessThan(5);
+    expect(bare.questions.join(' ')).toContain('"iso_levels"');
+    const { found } = await detectBedScan(23, { iso_levels: drawn });
+    expect(levelsOf(found)).toEqual(drawn);
+    // Fewer lines than both branches of every level: one may have been missed, so the order's levels are unsure and asked about.
+    for (const t of found.takeoff.traces.filter((k) => k.iso !== undefined && !levelsOf(bare).includes(k.iso as number))) {
+      expect(t.confidence).toBeLessThan(0.5);
+      expect(found.questions.join(' ')).toContain(`"${t.id}"`);
     }
   });
 });

@@ -92,6 +92,18 @@ export function levelsByOrder<C extends IsoShape>(lines: readonly C[], levels: r
 }
 
 /**
+ * Levels from the full list given (levelsByOrder), and whether the lines are all there (`full`:
+ * both branches of every level, twice as many lines as levels). On a scan the finder may miss a
+ * line, which shifts the lines after it in the order; labels read that still agree do not prove
+ * none was missed (past the best point the levels fall again, and a shifted line can land on its
+ * own level's twin), so only a full count vouches for the order.
+ */
+export function levelsFromList<C extends IsoShape>(lines: readonly C[], levels: readonly number[], known: ReadonlyMap<C, number>): { levels: Map<C, number>; full: boolean } | null {
+  const byList = levelsByOrder(lines, levels, known);
+  return byList ? { levels: byList, full: lines.length === 2 * new Set(levels).size } : null;
+}
+
+/**
  * Iso-lines in the order they cross the smallest head curve, left to right: each line's end
  * lower on the sheet (less head) is where it meets the smallest impeller's curve, which every
  * iso-line reaches, while a falling branch may stop short of the largest impeller's curve at

@@ -73,6 +73,8 @@ export interface RasterCurveOptions {
   given?: { family: 'diameter' | 'speed'; values: readonly number[] };
   /** The rated speed of the take-off (pump.speed_rpm), rpm: a speed family labelled "100 %", "90 %" … is named from it. */
   ratedRpm?: number;
+  /** Every efficiency level drawn as iso-lines, as the engineer gave them (the take-off's iso_levels): unlabelled iso-lines take theirs by order. */
+  isoLevels?: readonly number[];
   /** Receives lines about what was read (the dump scripts print them). */
   note?: (line: string) => void;
   /** Progress within this step, 0–1 with what is being done (lines found per frame, lines followed, labels read). */
@@ -334,7 +336,7 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     // but marks the order the unlabelled lines' levels are taken from.
     const onLines = wordsOnIsoLines([...labelsAt, ...isoWordsAt], isos, heads, options.note);
     const onSheet = (c: RasterCurve) => c.track.u.map((u, i) => (c.transposed ? toSheet(c.track.v[i] as number, u) : toSheet(u, c.track.v[i] as number)));
-    const iso = await isoLevelsOnScan(followed, onLines, reader, 2 * page.strong, (followed[0] as RasterCurve).panel.id, options.note, page.h, { lines: unfollowed, onSheet });
+    const iso = await isoLevelsOnScan(followed, onLines, reader, 2 * page.strong, (followed[0] as RasterCurve).panel.id, options.note, page.h, { lines: unfollowed, onSheet }, options.isoLevels);
     if (iso.missing) leftOut.push(iso.missing);
     for (const [c, v] of iso.levels) {
       c.value = v;

@@ -37,7 +37,7 @@ export async function detectRasterTakeoff(input: TakeoffToDetect, raw: Record<st
   const speedRead = await readSheetSpeed(found, reader);
   progress(0.6, 'finding the curves');
   const given = givenValues(input);
-  const curves = await findRasterCurves(image, found, reader, { ...(given ? { given: { family: given.family, values: given.values } } : {}), ratedRpm: input.pump.speed_rpm, progress: (f, what) => progress(0.6 + 0.35 * f, what) });
+  const curves = await findRasterCurves(image, found, reader, { ...(given ? { given: { family: given.family, values: given.values } } : {}), ratedRpm: input.pump.speed_rpm, ...(input.iso_levels ? { isoLevels: input.iso_levels } : {}), progress: (f, what) => progress(0.6 + 0.35 * f, what) });
   progress(0.95, 'writing the take-off');
   const questions = [...found.questions, ...curves.questions];
   const unitSlip = givenUnitQuestion(curves.labelUnit, input);

@@ -19,7 +19,7 @@
 import { sheetPoint, type SheetPoint } from '../points.ts';
 import { distanceToPolyline } from '../polyline.ts';
 import type { InkMap } from './ink.ts';
-import { inferIsoLevels } from './isoLevels.ts';
+import { inferIsoLevels, levelsFromList } from './isoLevels.ts';
 import type { Box } from './panels.ts';
 import { frameLines, type LinesOptions, type Track } from './rasterLines.ts';
 import { readCrops, type Blot, type TextReader } from './rasterText.ts';
@@ -250,6 +250,7 @@ export async function isoLevelsOnScan<L extends IsoLine>(
   note: (line: string) => void = () => undefined,
   textHeight = 0,
   lost: { lines: readonly L[]; onSheet: (line: L) => SheetPoint[] } = { lines: [], onSheet: () => [] },
+  given: readonly number[] = [],
 ): Promise<IsoLevels<L>> {
   const levels = new Map<L, number>();
   // Lines the tracer could not follow (`lost`) get no level, but they stand in the order, and
@@ -330,10 +331,35 @@ export async function isoLevelsOnScan<L extends IsoLine>(
       note(`iso-line without a label takes ${v} % by order`);
     }
   }
+  // Every level drawn, given by the engineer (the take-off's iso_levels): the lines still without
+  // a level take theirs from the list by order, from the tracer's lines and from the lines found
+  // alike; such a level is sure only when both branches of every level were found (levelsFromList).
+  let listNote = '';
+  if (given.length > 0 && levels.size < isos.length && !meeting) {
+    const fromList = (points: (line: L) => readonly SheetPoint[]) => {
+      const shapes = all.map((line) => ({ line, points: points(line) }));
+      if (shapes.some((k) => k.points.length < 2)) return null;
+      const knownShapes = new Map(shapes.filter((k) => known.has(k.line)).map((k) => [k, known.get(k.line) as number]));
+      const got = levelsFromList(shapes, given, knownShapes);
+      return got ? { levels: new Map([...got.levels].map(([k, v]) => [k.line, v])), full: got.full } : null;
+    };
+    const traced = fromList((line) => (isos.includes(line) ? line.traced : lost.onSheet(line)));
+    const found = fromList((line) => levelPoints(line).map(([x, y]) => sheetPoint(x, y)));
+    if (!traced || !found) listNote = ` (the ${given.length} levels given, ${given.join(', ')} %, do not fit the ${all.length} lines found in their order${known.size > 0 ? ' and the labels read' : ''}: a line may be missing)`;
+    else {
+      for (const line of isos) {
+        const v = traced.levels.get(line);
+        if (levels.has(line) || v === undefined || found.levels.get(line) !== v) continue;
+        levels.set(line, v);
+        if (!traced.full) unsure.add(line);
+        note(`iso-line without a label takes ${v} % from the levels given, by order${unsure.has(line) ? ' (unsure: fewer lines found than both branches of every level, so one may be missing)' : ''}`);
+      }
+    }
+  }
   for (const [c, v] of levels) if ([...levels.values()].filter((k) => k === v).length === 1) unsure.add(c);
   if (levels.size === isos.length) return { levels, unsure, missing: null };
   const readList = [...new Set(known.values())].sort((a, b) => a - b);
-  const missing = `${isos.length - levels.size} of the ${isos.length} lines on panel "${panelId}" that start neither at the flow axis nor at the bottom (iso-lines, or pieces of a curve the finder broke) ${isos.length - levels.size === 1 ? 'has' : 'have'} no level (no "%" label read on ${isos.length - levels.size === 1 ? 'it' : 'them'}, and the order of the lines does not tell it)${readList.length > 0 ? ` (levels read: ${readList.map((v) => `${v} %`).join(', ')})` : ''}; ${isos.length - levels.size === 1 ? 'it is' : 'they are'} left out${levels.size > 0 ? ', and the levels of the others are unsure (their efficiency rests on part of the crossings): look at them' : ''}; trace what is missing by hand with its level.`;
+  const missing = `${isos.length - levels.size} of the ${isos.length} lines on panel "${panelId}" that start neither at the flow axis nor at the bottom (iso-lines, or pieces of a curve the finder broke) ${isos.length - levels.size === 1 ? 'has' : 'have'} no level (no "%" label read on ${isos.length - levels.size === 1 ? 'it' : 'them'}, and the order of the lines does not tell it)${readList.length > 0 ? ` (levels read: ${readList.map((v) => `${v} %`).join(', ')})` : ''}${listNote}; ${isos.length - levels.size === 1 ? 'it is' : 'they are'} left out${levels.size > 0 ? ', and the levels of the others are unsure (their efficiency rests on part of the crossings): look at them' : ''}; ${given.length > 0 ? 'check the levels given, or trace what is missing by hand with its level' : 'give every efficiency level drawn as iso-lines ("iso_levels" in the take-off file), or trace what is missing by hand with its level'}.`;
   for (const c of levels.keys()) unsure.add(c);
   return { levels, unsure, missing };
 }
