@@ -1298,8 +1298,9 @@ const AHEAD_WIDTHS = 20;
 /**
  * Where an extension runs through a bunch: the first point of a stretch at least `BUNCH_WIDTHS`
  * line widths long where another clean run of the line's colour and width lies beside it (within
- * two widths of its edge), when the extension goes on for as long again after it, or ends inside
- * it. There the follower may have come out on a neighbour, or ended on one, and nothing (no guide)
+ * two widths of its edge), whether the extension goes on after it, ends inside it, or ends a
+ * little past it (a label or a gap between, then a short piece: that piece may be a neighbour's).
+ * There the follower may have come out on a neighbour, or ended on one, and nothing (no guide)
  * vouches for the line it kept to.
  */
 function crowdedAt(image: RasterImage, style: LineStyle, points: readonly Px[], counter: ReadCounter): Px | undefined {
@@ -1334,11 +1335,8 @@ function crowdedAt(image: RasterImage, style: LineStyle, points: readonly Px[], 
         startAlong = along;
       }
     } else if (start >= 0) {
-      if (along - startAlong >= bunch) {
-        // Out of the bunch: a doubt only when the extension goes on as far again.
-        const rest = pathLength(points, i);
-        if (rest >= bunch) return points[start] as Px;
-      }
+      // Out of a bunch long enough to count: a doubt, whatever follows.
+      if (along - startAlong >= bunch) return points[start] as Px;
       start = -1;
     }
   }

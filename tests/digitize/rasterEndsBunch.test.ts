@@ -67,6 +67,17 @@ describe('an end that runs together with a neighbour from its outermost guide on
   });
 });
 
+describe('an end that comes out of a bunch and ends a little past it', () => {
+  it('says so, though only a short piece follows the bunch (random bed scan 382, NPSHr 12.625 in)', async () => {
+    // Invented sheet of the random bed: four black dashed NPSHr lines run together at low flow,
+    // a diameter label printed over them. From its one hurried guide the trace runs down past the
+    // label, onto a neighbour in the bunch, and ends a short gap beyond it: 1.6 % of span off its
+    // own line, and the bunch was not said because no long stretch followed it.
+    const got = await bedTrace(382, 'npshr-12.625');
+    expect(got.doubts.map((d) => d.code)).toContain('takeoff.end-through-bunch');
+  });
+});
+
 describe('a guide the finished trace does not pass over', () => {
   it('is said, where the clicked line runs together with a neighbour (random bed scan 88, efficiency 242)', async () => {
     // Invented sheet of the random bed: two black dashed efficiency lines 4–6 px apart at low
