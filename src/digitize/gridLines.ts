@@ -52,6 +52,14 @@ const SPAN_SHARE = 0.7;
  * grid line, however straight.
  */
 const SIDE_STRIPS = LINK_SKIP + 1;
+/**
+ * A line whose densities spread over more than this share of their mean (`hueOf`), and over
+ * `COLOURED_OVER` times the panel's typical grid line's (at least `HUE_FLOOR`), is coloured ink
+ * apart from the grid's: an orange line spreads over 2 and more, a grey grid line on a scan about 0.1–0.3.
+ */
+const COLOURED_HUE = 0.8;
+const COLOURED_OVER = 3;
+const HUE_FLOOR = 0.2;
 /** Largest root-mean-square distance of a chain's peaks from its straight line, half-resolution pixels (a curve bends away). */
 const STRAIGHT_PX = 0.35;
 /** A strip's peak farther than this from the chain's first line is left out of its second fit, half-resolution pixels. */
@@ -463,7 +471,22 @@ function gridIn(image: RasterImage, box: Box): { lines: GridLine[]; paper: Paper
       found.push({ vertical, a, b: line.b, reach, profile: crossSection(image, paper, [l, t, r, b], vertical, a, line.b, reach) });
     });
   }
-  return { lines: found, paper, box: [l, t, r, b] };
+  // A grid is printed in one ink. A line much more coloured than the panel's typical grid line is a
+  // straight curve (a coloured power line whose label at its end stands in for the frame's side).
+  const hues = found.map(hueOf);
+  const typical = [...hues].sort((p, q) => p - q)[hues.length >> 1] ?? 0;
+  const kept = found.filter((_, k) => !((hues[k] as number) > COLOURED_HUE && (hues[k] as number) > COLOURED_OVER * Math.max(typical, HUE_FLOOR)));
+  return { lines: kept, paper, box: [l, t, r, b] };
+}
+
+/** How coloured a line's ink is: at its darkest offset, the spread of the three densities over their mean (0 for a grey line). */
+function hueOf(line: GridLine): number {
+  const { profile } = line;
+  let best = 0;
+  for (let k = 0; k < profile.length; k += 3) if ((profile[k] as number) + (profile[k + 1] as number) + (profile[k + 2] as number) > (profile[best] as number) + (profile[best + 1] as number) + (profile[best + 2] as number)) best = k;
+  const d = [profile[best] as number, profile[best + 1] as number, profile[best + 2] as number];
+  const mean = (d[0]! + d[1]! + d[2]!) / 3;
+  return mean > 0 ? (Math.max(...d) - Math.min(...d)) / mean : 0;
 }
 
 /** Room for the samples of a cross-section, kept from one line to the next (each line's are written before they are read). */

@@ -104,6 +104,39 @@ describe('findGridLines', () => {
     for (const l of lines.filter((q) => !q.vertical)) expect(Math.abs(l.a + l.b * 200 - (150 + 0.02 * 200))).toBeGreaterThan(3);
   });
 
+  it('does not take a straight coloured line across the whole box for a grid line of a grey grid', () => {
+    // An orange power line drawn straight from side to side (or with its label standing in for
+    // the last stretch): long, straight and level enough for a grid line, but not in the grid's ink.
+    const { image } = draw(false);
+    const orange = [224, 123, 0];
+    for (let y = 0; y < H; y++) {
+      for (let x = 0; x < W; x++) {
+        const ink = cover(Math.abs(y - (150 + 0.02 * x)), 2);
+        for (let c = 0; c < 3; c++) {
+          const o = 4 * (y * W + x) + c;
+          image.data[o] = Math.round((image.data[o] as number) * (1 - ink) + (orange[c] as number) * ink);
+        }
+      }
+    }
+    const plain = findGridLines(draw(false).image, BOX);
+    const lines = findGridLines(image, BOX);
+    expect(lines.length).toBeGreaterThanOrEqual(plain.length - 1);
+    for (const l of lines) expect(plain.some((p) => p.vertical === l.vertical && Math.abs(p.a - l.a) < 0.5)).toBe(true);
+    for (const l of lines.filter((q) => !q.vertical)) expect(Math.abs(l.a + l.b * 200 - (150 + 0.02 * 200))).toBeGreaterThan(3);
+  });
+
+  it('still finds every line of a grid printed in a colour', () => {
+    // The same grid in green: each pixel's darkness kept in red and blue and a third of it in green.
+    const { image } = draw(false);
+    for (let o = 0; o < image.data.length; o += 4) {
+      for (let c = 0; c < 3; c++) {
+        const dark = (PAPER[c] as number) - (image.data[o + c] as number);
+        image.data[o + c] = Math.round((PAPER[c] as number) - (c === 1 ? 0.35 : 1) * dark);
+      }
+    }
+    expect(findGridLines(image, BOX).length).toBe(findGridLines(draw(false).image, BOX).length);
+  });
+
   it('finds nothing in a box too small to hold three strips, or on bare paper', () => {
     expect(findGridLines(draw(true).image, [0, 0, 60, 60])).toEqual([]);
     const bare = new Uint8ClampedArray(W * H * 4).fill(230);
