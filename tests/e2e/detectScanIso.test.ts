@@ -81,6 +81,8 @@ describe('answering the iso levels of a scan in the workbench', () => {
     await runEnded(user, 2);
     await settle(page);
     await user.screenshot('2-answered');
+    // The status line counts what was found in one plain list.
+    expect(await page.textContent('#message')).toMatch(/^Found 3 panels, \d+ curves and 5 iso-lines\./);
 
     const after = await isoParts(user);
     expect(after.iso.map((t) => t.iso).sort((a, b) => (a as number) - (b as number))).toEqual(levels);

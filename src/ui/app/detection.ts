@@ -138,7 +138,7 @@ export class Detection {
       const kept = store.draft.traces.filter((t) => t.origin !== 'detected').length + store.draft.panels.filter((p) => p.origin !== 'detected').length;
       const asks = found.questions.length ? ` ${found.questions.length} question${found.questions.length === 1 ? '' : 's'} below.` : ' Check them in the review; correct any part with the usual tools.';
       if (found.questions.length === 0) this.host.goto('review');
-      store.say(`Found ${found.panels.length} panel${found.panels.length === 1 ? '' : 's'} and ${curves} curve${curves === 1 ? '' : 's'}${isos ? ` and ${isos} iso-line${isos === 1 ? '' : 's'}` : ''}${kept ? `; ${kept} part${kept === 1 ? '' : 's'} you set kept` : ''}.${asks}${unitWords}${speedWords}${store.draft.speedGiven ? '' : ` ${speedNotGiven(store.draft.pump.speed_rpm)}`}`, found.questions.length || !store.draft.speedGiven || speedOff ? 'caution' : 'done');
+      store.say(`Found ${found.panels.length} panel${found.panels.length === 1 ? '' : 's'}${isos ? ',' : ' and'} ${curves} curve${curves === 1 ? '' : 's'}${isos ? ` and ${isos} iso-line${isos === 1 ? '' : 's'}` : ''}${kept ? `; ${kept} part${kept === 1 ? '' : 's'} you set kept` : ''}.${asks}${unitWords}${speedWords}${store.draft.speedGiven ? '' : ` ${speedNotGiven(store.draft.pump.speed_rpm)}`}`, found.questions.length || !store.draft.speedGiven || speedOff ? 'caution' : 'done');
     } catch (error) {
       const e = error as Error;
       // The reader's own sentence says what is missing and that the sheet is read by hand.
