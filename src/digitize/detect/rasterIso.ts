@@ -308,14 +308,19 @@ export async function isoLevelsOnScan<L extends IsoLine>(
   // (a tracer's line that stopped short or ran on moves its end and shifts its order). Not when
   // one line runs on into another (pieces of one line, linesMeeting, with the page's text
   // height): the order would count a line twice.
-  const meeting = levels.size < isos.length && known.size > 0 ? linesMeeting(all, textHeight) : null;
+  const meeting = levels.size < isos.length && (known.size > 0 || given.length > 0) ? linesMeeting(all, textHeight) : null;
+  // The lines as the order reads them (the tracer's or the found ones), and the labelled among them;
+  // null when a line has too few points to stand in the order.
+  const shapesOf = (points: (line: L) => readonly SheetPoint[]) => {
+    const shapes = all.map((line) => ({ line, points: points(line) }));
+    if (shapes.some((k) => k.points.length < 2)) return null;
+    return { shapes, known: new Map(shapes.filter((k) => known.has(k.line)).map((k) => [k, known.get(k.line) as number])) };
+  };
   if (meeting) note(`an iso-line runs on into another at [${meeting.map((v) => v.toFixed(0)).join(', ')}] (pieces of one line?): no level is taken by order`);
   if (levels.size < isos.length && known.size > 0 && !meeting) {
     const byOrder = (points: (line: L) => readonly SheetPoint[]): Map<L, number> => {
-      const shapes = all.map((line) => ({ line, points: points(line) }));
-      if (shapes.some((k) => k.points.length < 2)) return new Map();
-      const knownShapes = new Map(shapes.filter((k) => known.has(k.line)).map((k) => [k, known.get(k.line) as number]));
-      return new Map([...inferIsoLevels(shapes, knownShapes, { adjacent: true })].map(([k, v]) => [k.line, v]));
+      const o = shapesOf(points);
+      return o ? new Map([...inferIsoLevels(o.shapes, o.known, { adjacent: true })].map(([k, v]) => [k.line, v])) : new Map();
     };
     // A lost line has no tracer's line: it stands in the tracer's order by the line found.
     const traced = byOrder((line) => (isos.includes(line) ? line.traced : lost.onSheet(line)));
@@ -337,10 +342,8 @@ export async function isoLevelsOnScan<L extends IsoLine>(
   let listNote = '';
   if (given.length > 0 && levels.size < isos.length && !meeting) {
     const fromList = (points: (line: L) => readonly SheetPoint[]) => {
-      const shapes = all.map((line) => ({ line, points: points(line) }));
-      if (shapes.some((k) => k.points.length < 2)) return null;
-      const knownShapes = new Map(shapes.filter((k) => known.has(k.line)).map((k) => [k, known.get(k.line) as number]));
-      const got = levelsFromList(shapes, given, knownShapes);
+      const o = shapesOf(points);
+      const got = o ? levelsFromList(o.shapes, given, o.known) : null;
       return got ? { levels: new Map([...got.levels].map(([k, v]) => [k.line, v])), full: got.full } : null;
     };
     const traced = fromList((line) => (isos.includes(line) ? line.traced : lost.onSheet(line)));
