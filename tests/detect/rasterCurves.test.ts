@@ -5,7 +5,7 @@
  * against the bed's exact truth at 15–95 % of each curve's flow range.
  */
 import { afterAll, describe, expect, it } from 'vitest';
-import { affinityHolds, chooseNames, frameWords, guidePlaces, joinUnitWords, labelCandidates, misreadInchLabel, nearLine, piecesOf } from '../../src/digitize/detect/rasterCurves.ts';
+import { affinityHolds, chooseNames, frameWords, guidePlaces, joinPointWords, joinUnitWords, labelCandidates, labelUnits, misreadInchLabel, nearLine, piecesOf } from '../../src/digitize/detect/rasterCurves.ts';
 import { alonePlaces, continuesCourse, frameLines, trackAt, type Track } from '../../src/digitize/detect/rasterLines.ts';
 import type { InkMap } from '../../src/digitize/detect/ink.ts';
 import { detectTakeoff } from '../../src/digitize/detect/detect.ts';
@@ -237,6 +237,39 @@ describe('a label whose unit stands apart from its number', () => {
     const before = JSON.parse(JSON.stringify(readings));
     joinUnitWords(words, readings);
     expect(readings).toEqual(before);
+  });
+});
+
+describe('an inch label whose decimal point the scan lost', () => {
+  // Boxes as a 240-dpi scan in a serif face gave them: "8.125"" read as "8" and "125"", 11 px apart, digits 17 px high.
+  const box = (l: number, t: number, r: number, b: number) => ({ word: { l, t, r, b } });
+  it('is read as one number with a point between the bare whole number and the digits just right of it', () => {
+    const readings = [{ text: '8', digits: '8' }, { text: '125"', digits: '125' }];
+    joinPointWords([box(886, 699, 898, 716), box(909, 699, 955, 716)], readings);
+    expect(readings).toEqual([{ text: '8.125"', digits: '8.125' }, { text: '', digits: '' }]);
+    expect(labelCandidates(readings[0]!.text, readings[0]!.digits)).toEqual([8.125]);
+  });
+  it('is left apart on another row, too far right, or when either word is no bare number', () => {
+    const words = [box(100, 100, 112, 117), box(200, 100, 240, 117), box(300, 100, 312, 117), box(315, 130, 350, 147), box(400, 100, 436, 117), box(440, 100, 480, 117), box(500, 100, 512, 117), box(515, 100, 560, 117)];
+    const readings = [
+      { text: '8', digits: '8' }, { text: '125"', digits: '125' }, // 88 px apart: more than a digit height
+      { text: '9', digits: '9' }, { text: '5"', digits: '5' }, // a row lower
+      { text: '230', digits: '230' }, { text: 'mm', digits: '' }, // three digits: a whole label, its unit beside
+      { text: '8', digits: '8' }, { text: '12.5"', digits: '125' }, // the word right of it has its own point
+    ];
+    const before = JSON.parse(JSON.stringify(readings));
+    joinPointWords(words, readings);
+    expect(readings).toEqual(before);
+  });
+});
+
+describe('the unit of the curve labels read', () => {
+  it('is sure only when two words or more give it and none another; a word read twice counts once', () => {
+    expect(labelUnits(new Map())).toEqual({ unit: null, surely: null });
+    // "197 mm" read "19°" on one word, the other labels read without a unit: said only where the labels name the curves.
+    expect(labelUnits(new Map([[2, new Set(['in'])]]))).toEqual({ unit: 'in', surely: null });
+    expect(labelUnits(new Map([[0, new Set(['mm'])], [1, new Set(['mm'])]]))).toEqual({ unit: 'mm', surely: 'mm' });
+    expect(labelUnits(new Map([[0, new Set(['mm'])], [1, new Set(['mm'])], [2, new Set(['in'])]]))).toEqual({ unit: 'mm', surely: null });
   });
 });
 

@@ -57,8 +57,13 @@ export interface RasterCurve {
 
 export interface RasterCurvesFound {
   curves: RasterCurve[];
-  /** Unit of the labels read ('mm', 'in', 'rpm'), null when none was read. */
+  /**
+   * Unit of the labels read ('mm', 'in', 'rpm'), null when none was read surely: the unit of the
+   * labels that named the curves, or one read on at least two labels and no other unit read.
+   */
   labelUnit: string | null;
+  /** Unit of the curves' values: the labels' where labels named them, null where the values given did (already in the take-off's unit). */
+  valueUnit: string | null;
   family: 'diameter' | 'speed';
   /** What the engineer must answer (the names of the curves). */
   questions: string[];
@@ -129,7 +134,7 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
   /** Parts left out for the engineer to trace: said together, as one question, by the caller. */
   const leftOut: string[] = [];
   const page = found.page;
-  if (!page) return { curves: [], labelUnit: null, family: 'diameter', questions, leftOut };
+  if (!page) return { curves: [], labelUnit: null, valueUnit: null, family: 'diameter', questions, leftOut };
   const { map, level } = page;
   const toSheet = (u: number, v: number): SheetPoint => {
     const [x, y] = level.toImage(u, v);
@@ -460,7 +465,7 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
   const known = [...new Set([...named.values.values(), ...(options.given && options.given.family === named.family ? options.given.values : [])])].sort((a, b) => b - a);
   if (known.length > 0) leftOut.push(...missingCurves(framesOf(found).flatMap((f) => f.panels), curvesOut, known));
   curvesOut.push(...isoNamed);
-  return { curves: curvesOut, labelUnit: named.unit, family: named.family, questions, leftOut, lines: curves };
+  return { curves: curvesOut, labelUnit: named.unit, valueUnit: named.byLabels ? named.unit : null, family: named.family, questions, leftOut, lines: curves };
 }
 
 /**
@@ -835,9 +840,9 @@ async function nameHeads(
   questions: string[],
   leftOut: string[],
   note: (line: string) => void = () => undefined,
-): Promise<{ values: Map<RasterCurve, number>; unit: string | null; family: 'diameter' | 'speed'; doubtful?: ReadonlySet<number> }> {
+): Promise<{ values: Map<RasterCurve, number>; unit: string | null; byLabels: boolean; family: 'diameter' | 'speed'; doubtful?: ReadonlySet<number> }> {
   const values = new Map<RasterCurve, number>();
-  if (heads.length === 0) return { values, unit: null, family: given?.family ?? 'diameter' };
+  if (heads.length === 0) return { values, unit: null, byLabels: false, family: given?.family ?? 'diameter' };
   // Order, top to bottom, checked at every column the curves share: the higher curve stays higher.
   const lo = Math.max(...heads.map((c) => c.track.u[0] as number));
   const hi = Math.min(...heads.map((c) => c.track.u[c.track.u.length - 1] as number));
@@ -864,6 +869,7 @@ async function nameHeads(
     asWords.forEach((r, i) => readings.push({ text: r.text, digits: asDigits[i]?.text ?? '', confidence: r.confidence }));
     words.push(...here.map((k) => ({ word: { l: k.word.l + k.at[0], t: k.word.t + k.at[1], r: k.word.r + k.at[0], b: k.word.b + k.at[1] }, plain: k.plain, at: k.at })));
   }
+  joinPointWords(words, readings, note);
   joinUnitWords(words, readings, note);
   // Where each head curve ends, level pixels: the line found's end, and the tracer's (a line found
   // may stop short of its end at an iso-line or a label; the tracer follows on to it) where the
@@ -916,7 +922,8 @@ async function nameHeads(
   const byCurve = new Map<RasterCurve, Set<number>>();
   /** Per curve and value: the surest reading that gave it (the reader's own confidence, 0–100) and its text. */
   const certainty = new Map<RasterCurve, Map<number, { confidence: number; text: string }>>();
-  const units: (string | null)[] = [];
+  // The units read, per word (a word read again, or its first reading taken again, counts once).
+  const unitsOf = new Map<number, Set<string>>();
   // The one unit of the labels read whole (with their unit) in these frames, if they agree.
   // A unit read on one label only, against two or more read on the others, is a misreading (an
   // inch mark seen in a stray speck): the frame's unit is the one read at least twice as often as any other.
@@ -943,7 +950,7 @@ async function nameHeads(
     ratedRpm !== undefined && ratedRpm > 0 && frameUnit === null &&
     words.some((w, i) => shareOf(readings[i] as LabelReading) === 100 && (near[i] as { d: number }).d <= 1.5 * (w.word.b - w.word.t));
   if (byShares) note(`a "100 %" label stands by a head curve: the "%" labels by the head curves are taken as shares of the rated ${ratedRpm} rpm`);
-  const take = (w: { word: Blot }, reading: LabelReading, at: { curve: RasterCurve | null; d: number }, again: boolean) => {
+  const take = (w: { word: Blot }, reading: LabelReading, at: { curve: RasterCurve | null; d: number }, again: boolean, index: number) => {
     if (reading.text === '' && reading.digits === '') return; // a unit word joined to its number
     const share = byShares ? shareOf(reading) : null;
     const label = share !== null ? { value: (share / 100) * (ratedRpm as number), unit: 'rpm' as const } : scanLabelOf(reading.text);
@@ -958,9 +965,9 @@ async function nameHeads(
     const sure = certainty.get(at.curve) ?? new Map<number, { confidence: number; text: string }>();
     for (const v of candidates) if (!((sure.get(v)?.confidence ?? -1) >= reading.confidence)) sure.set(v, { confidence: reading.confidence, text: reading.text });
     certainty.set(at.curve, sure);
-    if (label?.unit) units.push(label.unit);
+    if (label?.unit) unitsOf.set(index, (unitsOf.get(index) ?? new Set<string>()).add(label.unit));
   };
-  words.forEach((w, i) => take(w, readings[i] as LabelReading, near[i] as { curve: RasterCurve | null; d: number }, false));
+  words.forEach((w, i) => take(w, readings[i] as LabelReading, near[i] as { curve: RasterCurve | null; d: number }, false, i));
   const shutOff = order.map((c) => shutOffHead(c));
   const choose = () => chooseNames(order.map((c) => [...(byCurve.get(c) ?? [])]), shutOff);
   let chosen = crossing ? null : choose();
@@ -976,7 +983,7 @@ async function nameHeads(
       .map((w, i) => ({ w, i, r: readings[i] as LabelReading }))
       .filter(({ w, i, r }) => (near[i] as { d: number }).d <= 1.5 * (w.word.b - w.word.t) && /\d/.test(r.text + r.digits) && isoLabel(r.text) === null && !(scanLabelOf(r.text)?.unit && labelCandidates(r.text, r.digits).length > 0));
     const second: LabelReading[] = [];
-    const reread: { word: Blot }[] = [];
+    const reread: { word: Blot; i: number }[] = [];
     for (const plain of new Set(again.map((k) => k.w.plain))) {
       const here = again.filter((k) => k.w.plain === plain);
       const picture = labelPicture(image, level, raw, plain, here[0]!.w.at, here.map((k) => k.w.word));
@@ -989,12 +996,12 @@ async function nameHeads(
     if (second.length > 0) {
       frameUnit = unitOf([...readings, ...second]);
       // The first readings' bare numbers count too once the second reading found the frame's unit.
-      words.forEach((w, i) => take(w, readings[i] as LabelReading, near[i] as { curve: RasterCurve | null; d: number }, true));
-      reread.forEach((w, j) => take(w, second[j] as LabelReading, nearestHead(w.word), true));
+      words.forEach((w, i) => take(w, readings[i] as LabelReading, near[i] as { curve: RasterCurve | null; d: number }, true, i));
+      reread.forEach((w, j) => take(w, second[j] as LabelReading, nearestHead(w.word), true, w.i));
       chosen = choose();
     }
   }
-  const unit = units.find((k) => k !== null) ?? null;
+  const { unit, surely } = labelUnits(unitsOf);
   const family: 'diameter' | 'speed' = unit === 'rpm' ? 'speed' : unit ? 'diameter' : (given?.family ?? 'diameter');
   // The one naming of every curve the candidates allow (chosen above): larger values higher, and
   // the shut-off heads in about the ratio of the values squared (affinity).
@@ -1023,7 +1030,7 @@ async function nameHeads(
       doubts.push(`"${read.text.trim()}" at ${where(c)} (${read.confidence.toFixed(0)} of 100)`);
     }
     if (doubts.length > 0) questions.push(`The label${doubts.length === 1 ? '' : 's'} ${doubts.join(', ')} ${doubts.length === 1 ? 'was' : 'were'} read with little certainty; ${doubts.length === 1 ? 'its head curve and the curves named after it are' : 'their head curves and the curves named after them are'} proposed unsure. Is ${[...doubtful].join(', ')} what the sheet prints?`);
-    return { values, unit, family, doubtful };
+    return { values, unit, byLabels: true, family, doubtful };
   }
   if (givenValues && givenValues.length === heads.length && !crossing) {
     const fit = givenValues.every((v, i) => i === 0 || affinityHolds(givenValues[0] as number, shutOff[0] as number, v, shutOff[i] as number));
@@ -1035,7 +1042,7 @@ async function nameHeads(
       c.confidence *= fit ? 0.9 : 0.4;
     });
     if (!fit) questions.push(`The head curves found (top to bottom at ${order.map(where).join(', ')}) do not keep the affinity rule with the values given (${givenValues.join(', ')}): their shut-off heads ${shutOff.map((h) => h.toPrecision(3)).join(', ')} are not near the ratio of the values squared. Is a curve missing, or a value wrong?`);
-    return { values, unit, family: given?.family ?? family };
+    return { values, unit: surely, byLabels: false, family: given?.family ?? family };
   }
   // As many values given as head curves found, but not the same number: the one matching that
   // keeps the order and the affinity rule names the curves; what has no partner is said.
@@ -1053,7 +1060,7 @@ async function nameHeads(
     const extra = order.filter((_, i) => matched[i] === undefined);
     if (missing.length > 0) leftOut.push(`${heads.length} head curve${heads.length === 1 ? '' : 's'} found for the ${givenValues.length} values given; by the affinity rule they are ${matched.join(', ')}, and no head curve was found for ${missing.join(', ')}: trace ${missing.length === 1 ? 'it' : 'them'} by hand.`);
     if (extra.length > 0) leftOut.push(`${heads.length} lines start at the flow axis of the head panel for the ${givenValues.length} values given; by the affinity rule ${extra.length === 1 ? 'the one' : 'those'} at ${extra.map(where).join(', ')} ${extra.length === 1 ? 'is' : 'are'} not one of them and ${extra.length === 1 ? 'is' : 'are'} left out.`);
-    return { values, unit, family: given?.family ?? family };
+    return { values, unit: surely, byLabels: false, family: given?.family ?? family };
   }
   const readList = order.map((c) => [...(byCurve.get(c) ?? [])].join(' or ') || '?').join(', ');
   questions.push(
@@ -1061,7 +1068,7 @@ async function nameHeads(
       ? `The ${heads.length} head curves found cross one another, so their order does not name them; give each curve's diameter by tracing it (labels read, top to bottom: ${readList}).`
       : `The ${heads.length} head curves found (top to bottom at ${order.map(where).join(', ')}) could not all be named from the labels read (${readList})${givenValues ? ` nor from the ${givenValues.length} values given` : ''}; give the diameters (or speeds) drawn, largest first.`,
   );
-  return { values, unit, family };
+  return { values, unit: surely, byLabels: false, family };
 }
 
 /** A curve's label as read on a scan: as printed, or an inch label whose mark the reader misread. */
@@ -1104,6 +1111,57 @@ export function misreadInchLabel(text: string): number | null {
     return v > 0 && inSixteenths(v) && !inSixteenths(sheetNumber(t)) ? v : null;
   }
   return null;
+}
+
+/**
+ * The unit of a frame's curve labels from the units read on each word (a word read twice counts
+ * once): `unit`, the first read, serves where the labels named the curves (order and affinity
+ * vouch for them); `surely` is that unit only when two words or more gave it and none gave
+ * another. Where the labels did not name the curves, only `surely` is said and asked about: one
+ * inch label may be a millimetre label's "197 mm" read "19°" (a scan in a serif face), and the
+ * diameters given would then be taken for inches.
+ */
+export function labelUnits(perWord: ReadonlyMap<number, ReadonlySet<string>>): { unit: string | null; surely: string | null } {
+  const units = [...perWord.values()].flatMap((u) => [...u]);
+  const unit = units[0] ?? null;
+  const surely = unit !== null && units.filter((k) => k === unit).length >= 2 && units.every((k) => k === unit) ? unit : null;
+  return { unit, surely };
+}
+
+/**
+ * An inch label with a decimal point ("8.125"") whose point the scan lost is read as two words,
+ * a bare whole number ("8") and the rest ("125"" or "125"): read alone, the first names an 8 in
+ * curve, the second a 12.5 in one. A bare whole number of one or two digits with a word of one to
+ * three digits (and perhaps an inch mark) just right of it on its row (bottoms within a third of
+ * the digits' height, the gap at most one digit height) is read as one number with a point
+ * between; the second word's reading is emptied. Boxes are level pixels.
+ */
+export function joinPointWords(words: readonly { word: Blot }[], readings: { text: string; digits: string; confidence?: number }[], note: (line: string) => void = () => undefined): void {
+  const taken = new Set<number>();
+  words.forEach((w, i) => {
+    const r = readings[i];
+    if (!r || taken.has(i) || !/^\d{1,2}$/.test(r.text.replace(/\s+/g, ''))) return;
+    const h = w.word.b - w.word.t;
+    let best = -1;
+    let bestGap = Infinity;
+    words.forEach((u, j) => {
+      const ru = readings[j];
+      if (j === i || taken.has(j) || !ru || !/^\d{1,3}(?:"|”|“|″)?$/.test(ru.text.replace(/\s+/g, ''))) return;
+      const gap = u.word.l - w.word.r;
+      if (gap < 0 || gap > h || Math.abs(u.word.b - w.word.b) > h / 3 || u.word.t > w.word.b) return;
+      if (gap < bestGap) [best, bestGap] = [j, gap];
+    });
+    if (best < 0) return;
+    const ru = readings[best] as { text: string; digits: string; confidence?: number };
+    const whole = r.text.replace(/\s+/g, '');
+    const rest = ru.text.replace(/\s+/g, '');
+    const fraction = /^\d+/.exec(rest)?.[0] ?? '';
+    note(`  "${r.text}" and "${ru.text}" beside it are read as one number, its point lost: "${whole}.${rest}"`);
+    const confidence = r.confidence === undefined || ru.confidence === undefined ? (r.confidence ?? ru.confidence) : Math.min(r.confidence, ru.confidence);
+    readings[i] = { text: `${whole}.${rest}`, digits: `${whole}.${fraction}`, ...(confidence !== undefined ? { confidence } : {}) };
+    readings[best] = { text: '', digits: '', ...(confidence !== undefined ? { confidence } : {}) };
+    taken.add(best);
+  });
 }
 
 /** A unit printed after a curve label's number, read alone: "mm", "in", an inch mark, "rpm". */

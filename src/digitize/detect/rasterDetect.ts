@@ -59,8 +59,8 @@ export async function detectRasterTakeoff(input: TakeoffToDetect, raw: Record<st
   const userKeys = new Set(traces.map((t) => (t.iso !== undefined ? keyOf(t.quantity, t.iso, true) : keyOf(t.quantity, t.diameter ?? t.speed, false))));
   const diameterUnit = parseUnit('diameter', input.units.diameter);
   const valueOf = (v: number): number => {
-    if (curves.family === 'speed' || curves.labelUnit === null || curves.labelUnit === 'rpm') return v;
-    return Number(fromSI(toSI(v, parseUnit('diameter', curves.labelUnit)), diameterUnit).toPrecision(10));
+    if (curves.family === 'speed' || curves.valueUnit === null || curves.valueUnit === 'rpm') return v;
+    return Number(fromSI(toSI(v, parseUnit('diameter', curves.valueUnit)), diameterUnit).toPrecision(10));
   };
   const ids = new Set(traces.map((t) => t.id));
   /** Traces unsure only for the label of their value, which its own question names. */
