@@ -263,6 +263,16 @@ describe('an inch label whose decimal point the scan lost', () => {
   });
 });
 
+describe('an inch mark read as "%"', () => {
+  it('is an inch label beside a head curve only in a frame labelled in inches, for a small whole number of sixteenths', () => {
+    expect(labelCandidates('10.5%', '10.5%', 'in')).toEqual([10.5]);
+    expect(labelCandidates('10.5%', '10.5%', null)).toEqual([]); // no inch labels read: a level, or nothing
+    expect(labelCandidates('10.5%', '10.5%', 'mm')).toEqual([]);
+    expect(labelCandidates('50%', '50%', 'in')).toEqual([]); // an iso level
+    expect(labelCandidates('10.3%', '10.3%', 'in')).toEqual([]); // no whole number of sixteenths
+  });
+});
+
 describe('the unit of the curve labels read', () => {
   it('is sure only when two words or more give it and none another; a word read twice counts once', () => {
     expect(labelUnits(new Map())).toEqual({ unit: null, surely: null });

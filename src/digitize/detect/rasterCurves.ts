@@ -1212,6 +1212,14 @@ export function labelCandidates(text: string, digits: string, frameUnit: 'mm' | 
   // cut short by the grid, or its inch mark read as a digit. The digits reading must agree.
   // Where the frame's other labels were read whole, the unit of a label whose unit was lost (it
   // touched the line) is theirs; the naming still needs order and affinity to hold.
+  // In a frame whose other labels were read in inches, a "%" after a small whole number of
+  // sixteenths is the inch mark misread ("10.5%" for 10.5"): iso-efficiency levels under 30 %
+  // are not drawn (common practice: iso-lines run from about 40 to 85 %).
+  const percent = frameUnit === 'in' ? /^(\d{1,2}(?:[.,]\d{1,4})?)%$/.exec(text.replace(/\s+/g, '')) : null;
+  if (percent) {
+    const v = sheetNumber(percent[1] as string);
+    return v > 0 && v < PERCENT_INCH_MAX && inSixteenths(v) ? [v] : [];
+  }
   const read = scanLabelOf(text);
   let label = read && read.unit === null && frameUnit !== null ? { value: read.value, unit: frameUnit } : read;
   // In a frame labelled in inches, a whole number over 60 ending in 7 is a label whose inch mark was
@@ -1228,6 +1236,9 @@ export function labelCandidates(text: string, digits: string, frameUnit: 'mm' | 
   const asDigits = sheetNumber(number);
   return asDigits === label.value || sheetNumber(number.slice(0, -1)) === label.value ? [label.value] : [];
 }
+
+/** Below this, a "%" label beside a head curve in a frame labelled in inches is an inch label whose mark was misread. */
+const PERCENT_INCH_MAX = 30;
 
 /** The largest impeller diameter in inches a label may give (from memory: process pumps' impellers stay well under 60 in). */
 const MAX_INCHES = 60;
