@@ -41,6 +41,7 @@ takeoff.traces.forEach((trace, index) => {
   const off = got.points.filter((p) => nearest(truth, p).d > near).length;
   const covered = truth.filter((t) => got.points.length > 1 && nearest(got.points, t).d <= Math.max(3, 2 * line.style.width)).length / truth.length;
   console.log(`  ${got.points.length} pts, ${off} off, covers ${(100 * covered).toFixed(0)} %, colour ${got.line.colour.map((v) => v.toFixed(0)).join(',')} w ${got.line.widthPx.toFixed(2)}${got.line.dashed ? ' dashed' : ''}, ${ms.toFixed(0)} ms`);
+  if (process.env.SHOW_OFF) for (const p of got.points) { const n = nearest(truth, p); if (n.d > near) console.log(`    off (${p[0].toFixed(0)},${p[1].toFixed(0)}) at ${n.k.toFixed(2)} by ${n.d.toFixed(1)}`); }
   for (const l of got.lost) console.log(`  lost ${l.between.join('-')}: ${l.reason}`);
   for (const d of got.doubts) console.log(`  doubt ${d.code}: ${d.message.slice(0, 100)}`);
 });

@@ -564,7 +564,6 @@ export function traceRaster(original: RasterImage, guides: readonly SheetPoint[]
   // A model sampled off the line (a stronger grid line or a neighbour beside the guide) finds
   // no ink of its colour at most other guides: the model that finds ink at the most guides wins.
   type Acquired = NonNullable<ReturnType<typeof acquire>>;
-  const broken = (a: Acquired) => (a.style.reach ? 1 : 0);
   // A guide where other lines touch the line (a bunch, a crossing) vouches for a model by half:
   // its own line may be hidden under the others there, and what it sampled may be another
   // line's colour. Among models that agree as well with the guides, one sampled where the line
@@ -575,6 +574,11 @@ export function traceRaster(original: RasterImage, guides: readonly SheetPoint[]
   // crossing) and no wider than the thinnest line measured under a guide (not lines run together).
   const thinnest = Math.min(...candidates.map((c) => c?.style.width ?? Infinity));
   const bunched = candidates.map((c, j) => c !== undefined && ((room[j] as number) <= BUNCH_CLEARANCE || c.isotropy > SOLO_ISOTROPY || c.style.width > SOLO_WIDTH * thinnest));
+  // A dash pattern counts only where the ink under the guide looks like one stroke of the line's
+  // width: lines run together (wider than the thinnest line sampled, and no clean stroke) show
+  // gaps where their dashes fall out of step, and a model of the bunch would follow the bunch.
+  const blob = (a: Acquired) => a.isotropy > SOLO_ISOTROPY && a.style.width > BLOB_WIDTH * thinnest;
+  const broken = (a: Acquired) => (a.style.reach && !blob(a) ? 1 : 0);
   // A model vouched for by a guide finds its ink where the guide was clicked, within about a
   // line's width: in a bunch, the ink of a neighbour's colour also lies within the search radius
   // of every guide, and would vouch for any colour sampled there.
@@ -642,10 +646,14 @@ export function traceRaster(original: RasterImage, guides: readonly SheetPoint[]
     });
   }
   // No guide where the line stands alone: every guide has other ink running beside the line, so
-  // nothing tells which line of the bunch the trace is on.
+  // nothing tells which line of the bunch the trace is on. A lone guide where other lines touch
+  // the line (no room beside it) says so too: no other guide vouches for the line taken there,
+  // and a model sampled over lines run together follows the bunch (random bed, hurried guides,
+  // fresh seeds 441-640: a faint dotted NPSHr line clicked once in its low-flow bunch, 10.6 % of
+  // span off, had said nothing).
   const placed = snapped.filter((g): g is { centre: Px; axis: Px } => g !== undefined);
-  if (placed.length > 0 && !doubts.some((d) => d.what === 'bunch') && placed.every((g) => inkBeside(image, style, g.centre, g.axis, counter))) {
-    doubts.push({ at: (placed[0] as { centre: Px }).centre, what: 'bunch', guide: snapped.indexOf(placed[0]) + 1 });
+  if (placed.length > 0 && !doubts.some((d) => d.what === 'bunch') && placed.every((g) => inkBeside(image, style, g.centre, g.axis, counter) || (px.length === 1 && clearance(image, style, g.centre, g.axis, counter) <= BUNCH_CLEARANCE))) {
+    doubts.push({ at: (placed[0] as { centre: Px }).centre, what: 'no-room', guide: snapped.indexOf(placed[0]) + 1, count: placed.length });
   }
   if (px.length === 1) {
     // A short stretch each way from the guide; the line is then followed on to its own ends as
@@ -751,7 +759,7 @@ export function traceRaster(original: RasterImage, guides: readonly SheetPoint[]
     const course = thinned.map((p): Px => [p.x, p.y]);
     const miss = Math.max(GUIDE_MISS_PX, GUIDE_MISS_WIDTHS * style.width);
     px.forEach((g, i) => {
-      if (!snapped[i] || doubts.some((d) => d.what === 'bunch' && d.guide === i + 1)) return;
+      if (!snapped[i] || doubts.some((d) => (d.what === 'bunch' || d.what === 'no-room') && d.guide === i + 1)) return;
       if (distanceToPolyline(course, g) > miss) doubts.push({ at: g, what: 'missed', guide: i + 1 });
     });
   }
@@ -844,6 +852,13 @@ const BUNCH_CLEARANCE = 0.5;
 /** Isotropy of the ink under a guide above which it is not one clean stroke, whatever room it has. */
 const SOLO_ISOTROPY = 0.45;
 
+/**
+ * Width of a dashed sample, in the thinnest width measured under any guide, above which (and not
+ * one clean stroke) it is lines run together, whose dashes fall out of step: a thin dashed line's
+ * own sample measures up to about twice the width of a solid sample of it.
+ */
+const BLOB_WIDTH = 3;
+
 /** Width of the line under a guide, in the thinnest width measured under any, above which it is lines run together. */
 const SOLO_WIDTH = 1.5;
 
@@ -920,9 +935,11 @@ function unseenBetweenGuides(path: readonly Px[], guides: readonly Px[], limit: 
  */
 interface EndDoubt {
   at: Px;
-  what: 'frame' | 'bunch' | 'bunch-end' | 'gap-beside' | 'onto-other' | 'missed' | 'unseen';
+  what: 'frame' | 'bunch' | 'no-room' | 'bunch-end' | 'gap-beside' | 'onto-other' | 'missed' | 'unseen';
   /** The guide concerned (1-based), for a doubt about a guide. */
   guide?: number;
+  /** How many guides the doubt holds for. */
+  count?: number;
 }
 
 function doubtSentence(d: EndDoubt, at: SheetPoint): TraceDoubt {
@@ -954,6 +971,12 @@ function doubtSentence(d: EndDoubt, at: SheetPoint): TraceDoubt {
     return {
       code: 'takeoff.stretch-unseen',
       message: `after guide ${d.guide ?? ''} near ${fmt(at)} the trace holds no point of the line over a stretch longer than the tracer carries a line unseen (the line runs together with other lines there, or is hidden), so part of the trace between guides ${d.guide ?? ''} and ${(d.guide ?? 0) + 1} is a guess; check the trace there, or add a guide where the line stands alone`,
+    };
+  }
+  if (d.what === 'no-room') {
+    return {
+      code: 'takeoff.guide-in-bunch',
+      message: `${(d.count ?? 1) > 1 ? `no guide sits where the line stands alone: at every guide (the first near ${fmt(at)})` : `the one guide, near ${fmt(at)}, sits where`} other lines touch the line or run close beside it, so nothing tells which line of the bunch the trace is on; check the trace, or add a guide where the line stands alone`,
     };
   }
   if (d.what === 'bunch') {

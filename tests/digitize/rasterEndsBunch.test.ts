@@ -112,3 +112,23 @@ describe('a stretch between guides over which the line was not seen', () => {
     expect(unseen[0]?.message).toMatch(/^after guide 2 near .* part of the trace between guides 2 and 3 is a guess/);
   });
 });
+
+describe('a lone guide where other lines touch the line', () => {
+  it('is said: nothing tells which line of the bunch the trace is on (random bed photo 521, NPSHr 9.125 in, hurried guides)', async () => {
+    // Five faint dotted NPSHr lines run together at low flow; the one guide on this line sits
+    // there, with no room beside it. The trace ran out along a neighbour, 10.6 % of span off.
+    const got = await bedTrace(521, 'npshr-9.125', { kind: 'photo' });
+    const doubt = got.doubts.find((d) => d.code === 'takeoff.guide-in-bunch');
+    expect(doubt?.message).toMatch(/^the one guide, near .* sits where other lines touch the line/);
+  });
+});
+
+describe('the line model where a dashed line is clicked inside a bunch and where it stands alone', () => {
+  it('is sampled on the clean stroke, not on the bunch whose dashes fall out of step (random bed scan 552, NPSHr 212 mm, hurried guides)', async () => {
+    // Guide 1 sits where four dashed NPSHr lines run together (its sample measured 8.8 px wide,
+    // dashed); guides 2 and 3 on the line alone (1.4 and 1.9 px). The bunch's model had taken the
+    // trace along a lower line, 1.5 % of span off, unflagged.
+    const got = await bedTrace(552, 'npshr-212');
+    expect(got.line.widthPx).toBeLessThan(3);
+  });
+});
