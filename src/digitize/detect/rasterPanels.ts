@@ -140,9 +140,9 @@ function parseLabel(text: string): number | null {
 }
 
 /** An axis from its labels: linear when the values space evenly, log when their logarithms do. */
-function axisOf(labels: readonly TickLabel[]): { scale: AxisScaleType; inliers: TickLabel[]; outliers: TickLabel[] } | null {
+function axisOf(labels: readonly TickLabel[]): { scale: AxisScaleType; inliers: TickLabel[]; outliers: TickLabel[]; fragments?: TickLabel[] } | null {
   const lin = readAxis(labels);
-  if (lin) return { scale: 'linear', inliers: lin.inliers, outliers: lin.outliers };
+  if (lin) return { scale: 'linear', inliers: lin.inliers, outliers: lin.outliers, ...(lin.fragments ? { fragments: lin.fragments } : {}) };
   if (labels.length >= 3 && labels.every((k) => k.value > 0)) {
     const log = readAxis(labels.map((k) => ({ ...k, value: Math.log10(k.value) })));
     if (log) {
@@ -376,7 +376,8 @@ export async function findRasterPanels(image: RasterImage, reader: TextReader, p
     };
     const residual = calibration.maxPercentOfSpan;
     let confidence = Math.min(1, 0.4 + 0.08 * Math.min(x.inliers.length, y.inliers.length)) * (residual <= 0.1 ? 1 : residual <= 0.3 ? 0.8 : 0.5);
-    const odd = [...x.outliers, ...y.outliers];
+    // Pieces of a label on the axis read apart from it (fragments) are no odd labels to ask about.
+    const odd = [...x.outliers, ...y.outliers].filter((k) => !(x.fragments ?? []).includes(k) && !(y.fragments ?? []).includes(k));
     if (odd.length > 0) {
       confidence *= 0.6;
       questions.push(`Panel "${id}": the tick label${odd.length === 1 ? '' : 's'} ${odd.map((k) => `"${k.text}"`).join(', ')} read from the scan do${odd.length === 1 ? 'es' : ''} not fit the evenly spaced axis the other labels make; the panel is calibrated from the others. Is the axis read right?`);

@@ -46,8 +46,17 @@ function forEachLine(labels: readonly TickLabel[], visit: (at: (l: TickLabel) =>
   }
 }
 
-/** The largest set of labels on one straight value-position line, within 0.5 % of their value span. */
-function consensus(labels: readonly TickLabel[]): { inliers: TickLabel[]; outliers: TickLabel[] } | null {
+/**
+ * The largest set of labels on one straight value-position line, within 0.5 % of their value
+ * span, and the labels off it. At most one odd label, and never one at either end of the axis:
+ * a consensus of a few among many can line up by chance, and the ends fix the scale. Where five
+ * labels or more agree, odd labels are looked at more closely (a scan in a serif face reads "200"
+ * as "2" and "00", "500" also as a stray "4"): pieces lying within `FRAGMENT_SPACING` of the
+ * labels' spacing of one another count as one odd label, and pieces that close to a label on the
+ * line are `fragments` of it (a second reading of the same print, asked about by nobody); up to
+ * a third as many odd labels as labels on the line are then allowed.
+ */
+function consensus(labels: readonly TickLabel[]): { inliers: TickLabel[]; outliers: TickLabel[]; fragments: TickLabel[] } | null {
   if (labels.length < 3) return null;
   const span = Math.max(...labels.map((l) => l.value)) - Math.min(...labels.map((l) => l.value));
   if (!(span > 0)) return null;
@@ -56,13 +65,38 @@ function consensus(labels: readonly TickLabel[]): { inliers: TickLabel[]; outlie
     const inliers = labels.filter((l) => Math.abs(at(l) - l.value) <= 0.005 * span);
     if (inliers.length > best.length) best = inliers;
   });
-  // At most one odd label, and never one at either end of the axis: a consensus of a few among
-  // many can line up by chance, and the ends fix the scale.
-  if (best.length < 3 || best.length < labels.length - 1) return null;
+  if (best.length < 3) return null;
   const ends = [...labels].sort((a, b) => a.at - b.at);
   if (!best.includes(ends[0] as TickLabel) || !best.includes(ends[ends.length - 1] as TickLabel)) return null;
-  return { inliers: best, outliers: labels.filter((l) => !best.includes(l)) };
+  const outliers = labels.filter((l) => !best.includes(l));
+  if (outliers.length === 0) return { inliers: best, outliers, fragments: [] };
+  const onLine = [...best].sort((a, b) => a.at - b.at);
+  const spacing = Math.min(...onLine.slice(1).map((l, i) => Math.abs(l.at - (onLine[i] as TickLabel).at)));
+  const near = FRAGMENT_SPACING * spacing;
+  const fragments = outliers.filter((o) => best.some((l) => Math.abs(l.at - o.at) <= near));
+  const rest = outliers.filter((o) => !fragments.includes(o)).sort((a, b) => a.at - b.at);
+  const clusters: TickLabel[][] = [];
+  rest.forEach((o, i) => {
+    if (i === 0 || Math.abs(o.at - (rest[i - 1] as TickLabel).at) > near) clusters.push([o]);
+    else (clusters[clusters.length - 1] as TickLabel[]).push(o);
+  });
+  // Pieces that read as the number the line gives there once joined ("2" "00" for 200) are one
+  // label read apart: no odd label (though not exact enough in place to calibrate).
+  const line = (l: TickLabel) => (onLine[0] as TickLabel).value + (((onLine[onLine.length - 1] as TickLabel).value - (onLine[0] as TickLabel).value) * (l.at - (onLine[0] as TickLabel).at)) / ((onLine[onLine.length - 1] as TickLabel).at - (onLine[0] as TickLabel).at);
+  const odd = clusters.filter((c) => {
+    if (c.length < 2) return true;
+    const joined = Number(c.map((k) => k.text.trim()).join(''));
+    const middle = c.reduce((sum, k) => sum + k.at, 0) / c.length;
+    if (!Number.isFinite(joined) || Math.abs(line({ ...(c[0] as TickLabel), at: middle }) - joined) > 0.01 * span) return true;
+    fragments.push(...c);
+    return false;
+  });
+  if (best.length < 5) return outliers.length <= 1 ? { inliers: best, outliers, fragments: [] } : null;
+  return odd.length <= Math.floor(best.length / 3) ? { inliers: best, outliers, fragments } : null;
 }
+
+/** Share of the spacing of the labels on the axis within which pieces read apart are one print. */
+const FRAGMENT_SPACING = 0.3;
 
 /** Half a unit of the last digit a label prints ("3" → 0.5, "2.5" → 0.05). */
 function printedHalfUnit(text: string): number {
@@ -99,7 +133,7 @@ function roundedConsensus(labels: readonly TickLabel[]): { inliers: TickLabel[];
  * The labels of one axis read as one evenly spaced linear axis: those that calibrate (inliers),
  * at most one odd label (never at an end), and labels printed rounded; null when they do not.
  */
-export function readAxis(list: readonly TickLabel[]): { inliers: TickLabel[]; outliers: TickLabel[]; rounded: TickLabel[] } | null {
+export function readAxis(list: readonly TickLabel[]): { inliers: TickLabel[]; outliers: TickLabel[]; rounded: TickLabel[]; fragments?: TickLabel[] } | null {
   const c = consensus(list);
   // An axis read whole only with an odd label out, where two or more labels print a decimal point
   // and restoring the points lost on the others puts every label on it ("0.0 25 5.0 75": 0, 2.5,
