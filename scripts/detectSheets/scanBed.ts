@@ -39,7 +39,8 @@ import type { CurveSet } from '../../src/model/curveset.ts';
 import { scoreReplay } from '../randomSheets/score.ts';
 import { RENDER_VERSION } from '../randomSheets/svg.ts';
 
-const CACHE = join(import.meta.dirname, '..', '..', 'artifacts', 'detect-sheets', `scan-${RENDER_VERSION}`);
+/** Where the rendered scans are kept; DETECT_CACHE=DIR reads and writes another folder (sheets rendered with other fonts, say). */
+const CACHE = process.env.DETECT_CACHE ?? join(import.meta.dirname, '..', '..', 'artifacts', 'detect-sheets', `scan-${RENDER_VERSION}`);
 
 /** The acceptance tolerance on scans: 0.5 % of axis span. */
 export const SCAN_ACCEPT_PERCENT = 0.5;
