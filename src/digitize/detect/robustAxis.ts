@@ -1,8 +1,9 @@
 /**
  * A frame whose tick labels do not all read as one evenly spaced axis because of one odd
  * label (a misprint, a stray number) is calibrated from the labels that agree, and the odd one
- * is named in a question. Linear axes only; with more than one odd label on an axis, or an odd
- * label at an end of it, the frame is not calibrated at all (a question asks for its anchors).
+ * is named in a question. Linear axes only; with more odd labels on an axis than `consensus`
+ * allows, or an odd label at an end of it, the frame is not calibrated at all (a question asks
+ * for its anchors).
  * Labels printed with too few digits ("3" for 2.5) are no odd labels: when every label's value
  * rounds from one straight line that three or more of them meet exactly, those calibrate.
  */
@@ -131,7 +132,9 @@ function roundedConsensus(labels: readonly TickLabel[]): { inliers: TickLabel[];
 
 /**
  * The labels of one axis read as one evenly spaced linear axis: those that calibrate (inliers),
- * at most one odd label (never at an end), and labels printed rounded; null when they do not.
+ * the odd labels (one at most, or a third as many as agree where five or more do; never at an
+ * end; `fragments` among them are pieces of a label read apart), and labels printed rounded;
+ * null when they do not.
  */
 export function readAxis(list: readonly TickLabel[]): { inliers: TickLabel[]; outliers: TickLabel[]; rounded: TickLabel[]; fragments?: TickLabel[] } | null {
   const c = consensus(list);
