@@ -1136,29 +1136,49 @@ export function labelUnits(perWord: ReadonlyMap<number, ReadonlySet<string>>): {
  * the digits' height, the gap at most one digit height) is read as one number with a point
  * between; the second word's reading is emptied. Boxes are level pixels.
  */
-export function joinPointWords(words: readonly { word: Blot }[], readings: { text: string; digits: string; confidence?: number }[], note: (line: string) => void = () => undefined): void {
+export function joinPointWords(words: readonly { word: Blot }[], readings: WordReading[], note: (line: string) => void = () => undefined): void {
+  joinRightNeighbour(words, readings, {
+    first: (text) => /^\d{1,2}$/.test(text.replace(/\s+/g, '')),
+    second: (text) => /^\d{1,3}(?:"|”|“|″)?$/.test(text.replace(/\s+/g, '')),
+    overlap: 0,
+    join: (r, ru) => {
+      const whole = r.text.replace(/\s+/g, '');
+      const rest = ru.text.replace(/\s+/g, '');
+      note(`  "${r.text}" and "${ru.text}" beside it are read as one number, its point lost: "${whole}.${rest}"`);
+      return { text: `${whole}.${rest}`, digits: `${whole}.${/^\d+/.exec(rest)?.[0] ?? ''}` };
+    },
+  });
+}
+
+/** A word's two readings (as words, and as digits) and the reader's confidence. */
+type WordReading = { text: string; digits: string; confidence?: number };
+
+/**
+ * Joins each word whose reading `first` accepts with the nearest word just right of it on its row
+ * whose reading `second` accepts (bottoms within a third of the first word's height, the gap at
+ * most that height and no more than `overlap` of it negative): the first word takes the joined
+ * reading, with the lower of the two confidences, and the second's reading is emptied. Each
+ * word is joined once. Boxes are level pixels.
+ */
+function joinRightNeighbour(words: readonly { word: Blot }[], readings: WordReading[], rule: { first: (text: string) => boolean; second: (text: string) => boolean; overlap: number; join: (r: WordReading, ru: WordReading) => { text: string; digits: string } }): void {
   const taken = new Set<number>();
   words.forEach((w, i) => {
     const r = readings[i];
-    if (!r || taken.has(i) || !/^\d{1,2}$/.test(r.text.replace(/\s+/g, ''))) return;
+    if (!r || taken.has(i) || !rule.first(r.text)) return;
     const h = w.word.b - w.word.t;
     let best = -1;
     let bestGap = Infinity;
     words.forEach((u, j) => {
       const ru = readings[j];
-      if (j === i || taken.has(j) || !ru || !/^\d{1,3}(?:"|”|“|″)?$/.test(ru.text.replace(/\s+/g, ''))) return;
+      if (j === i || taken.has(j) || !ru || !rule.second(ru.text)) return;
       const gap = u.word.l - w.word.r;
-      if (gap < 0 || gap > h || Math.abs(u.word.b - w.word.b) > h / 3 || u.word.t > w.word.b) return;
+      if (gap < -rule.overlap * h || gap > h || Math.abs(u.word.b - w.word.b) > h / 3 || u.word.t > w.word.b) return;
       if (gap < bestGap) [best, bestGap] = [j, gap];
     });
     if (best < 0) return;
-    const ru = readings[best] as { text: string; digits: string; confidence?: number };
-    const whole = r.text.replace(/\s+/g, '');
-    const rest = ru.text.replace(/\s+/g, '');
-    const fraction = /^\d+/.exec(rest)?.[0] ?? '';
-    note(`  "${r.text}" and "${ru.text}" beside it are read as one number, its point lost: "${whole}.${rest}"`);
+    const ru = readings[best] as WordReading;
     const confidence = r.confidence === undefined || ru.confidence === undefined ? (r.confidence ?? ru.confidence) : Math.min(r.confidence, ru.confidence);
-    readings[i] = { text: `${whole}.${rest}`, digits: `${whole}.${fraction}`, ...(confidence !== undefined ? { confidence } : {}) };
+    readings[i] = { ...rule.join(r, ru), ...(confidence !== undefined ? { confidence } : {}) };
     readings[best] = { text: '', digits: '', ...(confidence !== undefined ? { confidence } : {}) };
     taken.add(best);
   });
@@ -1174,30 +1194,15 @@ const UNIT_WORD = /^(?:mm|in|"|rpm|r\/min|min-1|1\/min)$/i;
  * its row (bottoms within a third of the digits' height, the gap at most one digit height),
  * so that the label counts as whole. The unit word's reading is emptied; boxes are level pixels.
  */
-export function joinUnitWords(words: readonly { word: Blot }[], readings: { text: string; digits: string; confidence?: number }[], note: (line: string) => void = () => undefined): void {
-  const taken = new Set<number>();
-  words.forEach((w, i) => {
-    const r = readings[i];
-    if (!r || taken.has(i) || !NUMBER_ONLY.test(r.text.replace(/\s+/g, '').trim())) return;
-    const h = w.word.b - w.word.t;
-    let best = -1;
-    let bestGap = Infinity;
-    words.forEach((u, j) => {
-      const ru = readings[j];
-      if (j === i || taken.has(j) || !ru) return;
-      const unit = ru.text.replace(/[”“″]/g, '"').replace(/\s+/g, '');
-      if (!UNIT_WORD.test(unit)) return;
-      const gap = u.word.l - w.word.r;
-      if (gap < -0.2 * h || gap > h || Math.abs(u.word.b - w.word.b) > h / 3 || u.word.t > w.word.b) return;
-      if (gap < bestGap) [best, bestGap] = [j, gap];
-    });
-    if (best < 0) return;
-    const ru = readings[best] as { text: string; digits: string; confidence?: number };
-    note(`  "${r.text}" and "${ru.text}" beside it are read as one label`);
-    const confidence = r.confidence === undefined || ru.confidence === undefined ? (r.confidence ?? ru.confidence) : Math.min(r.confidence, ru.confidence);
-    readings[i] = { text: `${r.text.trim()} ${ru.text.trim()}`, digits: r.digits, ...(confidence !== undefined ? { confidence } : {}) };
-    readings[best] = { text: '', digits: '', ...(confidence !== undefined ? { confidence } : {}) };
-    taken.add(best);
+export function joinUnitWords(words: readonly { word: Blot }[], readings: WordReading[], note: (line: string) => void = () => undefined): void {
+  joinRightNeighbour(words, readings, {
+    first: (text) => NUMBER_ONLY.test(text.replace(/\s+/g, '').trim()),
+    second: (text) => UNIT_WORD.test(text.replace(/[”“″]/g, '"').replace(/\s+/g, '')),
+    overlap: 0.2,
+    join: (r, ru) => {
+      note(`  "${r.text}" and "${ru.text}" beside it are read as one label`);
+      return { text: `${r.text.trim()} ${ru.text.trim()}`, digits: r.digits };
+    },
   });
 }
 

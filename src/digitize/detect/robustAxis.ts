@@ -62,9 +62,10 @@ function consensus(labels: readonly TickLabel[]): { inliers: TickLabel[]; outlie
   const span = Math.max(...labels.map((l) => l.value)) - Math.min(...labels.map((l) => l.value));
   if (!(span > 0)) return null;
   let best: TickLabel[] = [];
+  let line: (l: TickLabel) => number = () => NaN;
   forEachLine(labels, (at) => {
     const inliers = labels.filter((l) => Math.abs(at(l) - l.value) <= 0.005 * span);
-    if (inliers.length > best.length) best = inliers;
+    if (inliers.length > best.length) [best, line] = [inliers, at];
   });
   if (best.length < 3) return null;
   const ends = [...labels].sort((a, b) => a.at - b.at);
@@ -83,7 +84,6 @@ function consensus(labels: readonly TickLabel[]): { inliers: TickLabel[]; outlie
   });
   // Pieces that read as the number the line gives there once joined ("2" "00" for 200) are one
   // label read apart: no odd label (though not exact enough in place to calibrate).
-  const line = (l: TickLabel) => (onLine[0] as TickLabel).value + (((onLine[onLine.length - 1] as TickLabel).value - (onLine[0] as TickLabel).value) * (l.at - (onLine[0] as TickLabel).at)) / ((onLine[onLine.length - 1] as TickLabel).at - (onLine[0] as TickLabel).at);
   const odd = clusters.filter((c) => {
     if (c.length < 2) return true;
     const joined = Number(c.map((k) => k.text.trim()).join(''));
