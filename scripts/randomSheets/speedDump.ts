@@ -8,6 +8,7 @@
  *
  *   SPEED_SHEETS=3 SPEED_SEED=1 SPEED_KIND=vector npx tsx scripts/randomSheets/speedDump.ts
  *
+ * SPEED_GUIDES=careful places the scan guides where each line stands alone (as the bench's careful view).
  * SPEED_ONLY=efficiency limits the rows to one quantity, SPEED_NOTES=1 adds the guides' flows and
  * the capture notes, SPEED_MONO=1 draws every speed in one colour (as the bench does).
  *
@@ -81,7 +82,8 @@ async function main(): Promise<void> {
   const only = process.env.SPEED_ONLY; // e.g. "efficiency"
   for (let seed = first; seed < first + count; seed++) {
     for (const kind of kinds) {
-      const s = await cachedSpeedSheet(seed, benchOptions(seed, kind));
+      const drawn = await cachedSpeedSheet(seed, benchOptions(seed, kind));
+      const s = process.env.SPEED_GUIDES === 'careful' ? withCarefulGuides(drawn) : drawn;
       const sheet = await sheetOf(s);
       try {
         const result = await replayTakeoff(parseTakeoff(s.takeoff), sheet, { created: '2026-01-01T00:00:00.000Z' });

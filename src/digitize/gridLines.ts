@@ -470,6 +470,9 @@ function gridIn(image: RasterImage, box: Box): { lines: GridLine[]; paper: Paper
       if (reach < 1) return;
       found.push({ vertical, a, b: line.b, reach, profile: crossSection(image, paper, [l, t, r, b], vertical, a, line.b, reach) });
     });
+    const [u0, u1] = vertical ? [t, b] : [l, r];
+    const across = (vertical ? [l, r] : [t, b]) as [number, number];
+    found.push(...missingLines(found.filter((g) => g.vertical === vertical), (u0 + u1) / 2, across, (a, slope, reach) => crossSection(image, paper, [l, t, r, b], vertical, a, slope, reach)));
   }
   // A grid is printed in one ink. A line much more coloured than the panel's typical grid line is a
   // straight curve (a coloured power line whose label at its end stands in for the frame's side).
@@ -477,6 +480,113 @@ function gridIn(image: RasterImage, box: Box): { lines: GridLine[]; paper: Paper
   const typical = [...hues].sort((p, q) => p - q)[hues.length >> 1] ?? 0;
   const kept = found.filter((_, k) => !((hues[k] as number) > COLOURED_HUE && (hues[k] as number) > COLOURED_OVER * Math.max(typical, HUE_FLOOR)));
   return { lines: kept, paper, box: [l, t, r, b] };
+}
+
+/**
+ * Gaps of the grid's spacing: a gap between neighbouring lines within this share of a whole
+ * number of spacings holds that many lines less one. Lines of a printed grid are evenly spaced to
+ * well under 1 % (a photo's perspective changes the spacing across the frame by a few per cent).
+ */
+const SPACING_SLACK = 0.04;
+/** The most spacings a gap may hold to vouch for the spacing, and the least spacing filled in, pixels. */
+const SPACING_SUPPORT = 4;
+const MIN_SPACING_PX = 4;
+/** Least peak density of a grid line filled into a gap, as a share of its weaker neighbour's. */
+const FILLED_DENSITY = 0.5;
+/** A line found whose slope lies farther than this many typical spreads (or `SLOPE_FLOOR`) off the slopes of the others is left out of the slope a filled line takes. */
+const SLOPE_SPREAD = 4;
+const SLOPE_FLOOR = 0.0005;
+/** Farthest a filled line's peak may lie from where the spacing puts it, pixels (it is moved there). */
+const FILLED_SHIFT_PX = 2;
+
+/** The darkest offset of a cross-section and its mean density there. */
+function peakOf(line: { reach: number; profile: Float32Array }): { offset: number; density: number } {
+  let best = 0;
+  let density = -1;
+  for (let k = 0; k < line.profile.length; k += 3) {
+    const d = ((line.profile[k] as number) + (line.profile[k + 1] as number) + (line.profile[k + 2] as number)) / 3;
+    if (d > density) [best, density] = [k / 3, d];
+  }
+  return { offset: -line.reach + best * PROFILE_STEP, density };
+}
+
+/**
+ * The grid lines the strips missed, of one direction: a line that curves run along for much of
+ * its length (the peaks of efficiency curves along one grid line) shows in too few strips to be
+ * linked, and left in the picture it leads a tracer off its curve along it (speed bench seed 10, a
+ * scan: an efficiency trace ran 290 px along it, 3.9 points off). Where the lines found are
+ * evenly spaced (the smallest gap that another gap is a whole number of) and a gap holds a whole
+ * number of spacings, a line is looked for at each spacing inside it (and beyond the first and
+ * last lines, a spacing at a time, inside the box), its slope from the slopes of the lines found
+ * (straight across them, for a photo's perspective; a line pulled askew by a curve left out); it
+ * is kept where its cross-section (the median along its whole length, so the curves over part of
+ * it do not count) peaks within `FILLED_SHIFT_PX` of there at `FILLED_DENSITY` of its neighbours'
+ * density at least. `section` reads a cross-section; `middle` is the position along the lines at
+ * which they are spaced (the box's middle), `across` the box's extent across them.
+ */
+function missingLines(lines: readonly GridLine[], middle: number, across: readonly [number, number], section: (a: number, slope: number, reach: number) => Float32Array): GridLine[] {
+  if (lines.length < 3) return [];
+  const sorted = [...lines].sort((p, q) => p.a + p.b * middle - (q.a + q.b * middle));
+  const at = (g: GridLine) => g.a + g.b * middle;
+  const gaps = sorted.slice(1).map((g, k) => at(g) - at(sorted[k] as GridLine));
+  // The spacing: the smallest gap that another gap is a whole number of, up to `SPACING_SUPPORT`
+  // (two lines printed close together, a doubled frame, say, are no spacing that every gap fits).
+  const whole = (gap: number, spacing: number) => {
+    const n = Math.round(gap / spacing);
+    return n >= 1 && Math.abs(gap - n * spacing) <= SPACING_SLACK * gap ? n : 0;
+  };
+  const spacing = [...gaps].sort((p, q) => p - q).find((g, k, all) => all.some((h, j) => j !== k && whole(h, g) > 0 && whole(h, g) <= SPACING_SUPPORT));
+  if (spacing === undefined || spacing < MIN_SPACING_PX) return [];
+  const reach = Math.min(MAX_REACH_PX, 0.45 * spacing);
+  if (reach < 1) return [];
+  // The slope at a place across the lines: straight in the place over the lines found (a scan
+  // turns every line alike; a photo's perspective turns them by steadily changing angles), fitted
+  // again without a line far off that (one that a curve along it pulled askew).
+  const fitSlope = (kept: readonly GridLine[]) => {
+    const n = kept.length;
+    const mu = kept.reduce((sum, g) => sum + at(g), 0) / n;
+    const mb = kept.reduce((sum, g) => sum + g.b, 0) / n;
+    let sub = 0;
+    let suu = 0;
+    for (const g of kept) {
+      sub += (at(g) - mu) * (g.b - mb);
+      suu += (at(g) - mu) ** 2;
+    }
+    const k = suu > 0 ? sub / suu : 0;
+    return (u: number) => mb + k * (u - mu);
+  };
+  const rough = fitSlope(sorted);
+  const off = sorted.map((g) => Math.abs(g.b - rough(at(g))));
+  const typical = [...off].sort((p, q) => p - q)[off.length >> 1] as number;
+  const straight = sorted.filter((_, k) => (off[k] as number) <= Math.max(SLOPE_SPREAD * typical, SLOPE_FLOOR));
+  const slopeAt = fitSlope(straight.length >= 3 ? straight : sorted);
+  const out: GridLine[] = [];
+  /** A line looked for at `centre` (its position at the middle) with `slope`, kept when it is there as dark as `least` at least. */
+  const lookFor = (centre: number, slope: number, least: number) => {
+    let a = centre - slope * middle;
+    let profile = section(a, slope, reach);
+    const peak = peakOf({ reach, profile });
+    if (Math.abs(peak.offset) > FILLED_SHIFT_PX || peak.density < FILLED_DENSITY * least) return false;
+    if (peak.offset !== 0) {
+      a += peak.offset;
+      profile = section(a, slope, reach);
+    }
+    out.push({ vertical: (sorted[0] as GridLine).vertical, a, b: slope, reach, profile });
+    return true;
+  };
+  gaps.forEach((gap, k) => {
+    const n = whole(gap, spacing);
+    if (n < 2) return;
+    const [below, above] = [sorted[k] as GridLine, sorted[k + 1] as GridLine];
+    const least = Math.min(peakOf(below).density, peakOf(above).density);
+    for (let j = 1; j < n; j++) lookFor(at(below) + (gap * j) / n, slopeAt(at(below) + (gap * j) / n), least);
+  });
+  // Beyond the first and the last line found, while inside the box, a line a spacing on at a time.
+  for (const [end, step] of [[sorted[0] as GridLine, -spacing], [sorted[sorted.length - 1] as GridLine, spacing]] as const) {
+    const least = peakOf(end).density;
+    for (let centre = at(end) + step; centre - reach >= across[0] && centre + reach <= across[1]; centre += step) if (!lookFor(centre, slopeAt(centre), least)) break;
+  }
+  return out;
 }
 
 /** How coloured a line's ink is: at its darkest offset, the spread of the three densities over their mean (0 for a grey line). */

@@ -137,6 +137,31 @@ describe('findGridLines', () => {
     expect(findGridLines(image, BOX).length).toBe(findGridLines(draw(false).image, BOX).length);
   });
 
+  it('finds a grid line seen in too few strips where the spacing puts one, and no line where none is printed', () => {
+    // Line across k = 5 (y = 120 + TURN·x) with 45 % of its length hidden (paper over it, as
+    // where curves run along it or a label covers it): the strips see it in too few places to
+    // link it, but the grid is evenly spaced and the line is there along the rest of its length.
+    const { image } = draw(false);
+    const hide = (k: number, from: number, to: number) => {
+      for (let x = from; x < to; x++) {
+        for (let y = Math.floor(k * SPACING + TURN * x - 3); y <= k * SPACING + TURN * x + 3; y++) {
+          for (let c = 0; c < 3; c++) image.data[4 * (y * W + x) + c] = PAPER[c] as number;
+        }
+      }
+    };
+    hide(5, 90, 280);
+    const lines = findGridLines(image, BOX).filter((l) => !l.vertical);
+    expect(lines.length).toBe(11);
+    const filled = lines.find((l) => Math.abs(l.a - 5 * SPACING) < 1);
+    expect(filled).toBeDefined();
+    expect(Math.abs((filled as { b: number }).b - TURN)).toBeLessThan(0.003);
+    // Wholly hidden, line k = 7 is not invented: nothing is printed where the spacing puts it.
+    hide(7, 0, W);
+    const fewer = findGridLines(image, BOX).filter((l) => !l.vertical);
+    expect(fewer.length).toBe(10);
+    expect(fewer.some((l) => Math.abs(l.a - 7 * SPACING) < 3)).toBe(false);
+  });
+
   it('finds nothing in a box too small to hold three strips, or on bare paper', () => {
     expect(findGridLines(draw(true).image, [0, 0, 60, 60])).toEqual([]);
     const bare = new Uint8ClampedArray(W * H * 4).fill(230);
