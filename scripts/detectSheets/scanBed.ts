@@ -69,7 +69,7 @@ export interface CurveOutcome {
   drawn: number;
   right: number;
   /** Error of each found curve, % of span (head, power, NPSHr) or points (efficiency). */
-  errors: { id: string; quantity: string; error: number; flagged: boolean; confidence: number }[];
+  errors: { id: string; quantity: string; error: number; flagged: boolean; confidence: number; flags: string[] }[];
   invented: number;
   missed: number;
   /** Found with a value that is not the drawn one: a diameter not drawn, or a curve beyond tolerance that fits another diameter's truth (a swapped name). */
@@ -230,7 +230,7 @@ async function scoreFoundCurves(seed: number, plan: SheetPlan, takeoff: TakeoffI
     }
     const limit = t.quantity === 'efficiency' ? tol.points : tol.percent;
     const confidence = trace.confidence ?? 1;
-    out.errors.push({ id: s.id, quantity: t.quantity, error: s.error, flagged: s.flagged, confidence });
+    out.errors.push({ id: s.id, quantity: t.quantity, error: s.error, flagged: s.flagged, confidence, flags: [...new Set(s.flags)] });
     if (s.error <= limit) out.right++;
     else {
       // Beyond tolerance: a swapped name when the curve fits another diameter's truth.
@@ -312,7 +312,7 @@ async function main(): Promise<void> {
     process.stdout.write(`${String(seed).padStart(4)} ${o.dpi} dpi turn ${o.turnDeg.toFixed(2)}° panels ${o.panels.found}/${o.panels.expected} calibration % of span: ${cal || '-'}; questions ${o.questions.length}; curves from the bed's guides, worst: on found panels ${Number.isFinite(o.worstCurve) ? o.worstCurve.toFixed(2) : 'missing'}, on the bed's panels ${Number.isFinite(o.worstGiven) ? o.worstGiven.toFixed(2) : 'missing'}; ${o.detectMs.toFixed(0)} ms${o.error ? `; refused: ${o.error}` : ''}\n`);
     const c = o.curves;
     process.stdout.write(`       curves found: ${c.right}/${c.drawn} within tolerance${c.iso.drawn ? `, iso efficiency ${c.iso.right}/${c.iso.drawn} (found ${c.iso.found}${c.iso.errors.length ? `, worst ${Math.max(...c.iso.errors).toFixed(2)} points` : ''})` : ''}, worst ${c.errors.length ? Math.max(...c.errors.map((e) => e.error)).toFixed(2) : '-'}; missed ${c.missed}, invented ${c.invented}, mislabelled ${c.mislabelled}; questions ${c.questions.length}${c.gaveDiameters ? ' (asked for the diameters, given)' : ` (${c.namedByLabels} head curves named from labels)`}${c.silent.length ? `; WRONG WITHOUT A FLAG: ${c.silent.join(', ')}` : ''}${c.error ? `; refused: ${c.error.slice(0, 160)}` : ''}\n`);
-    if (process.env.DETECT_VERBOSE) for (const k of [...o.wrong, ...o.questions.map((x) => `? ${x}`), ...c.errors.map((e) => `  ${e.id} ${e.error.toFixed(2)}${e.flagged ? ' flagged' : ''} conf ${e.confidence}`), ...c.questions.map((x) => `?c ${x}`)]) process.stdout.write(`      ${k}\n`);
+    if (process.env.DETECT_VERBOSE) for (const k of [...o.wrong, ...o.questions.map((x) => `? ${x}`), ...c.errors.map((e) => `  ${e.id} ${e.error.toFixed(2)}${e.flagged ? ` flagged (${e.flags.join(', ')})` : ''} conf ${e.confidence}`), ...c.questions.map((x) => `?c ${x}`)]) process.stdout.write(`      ${k}\n`);
   }
   await closeTextReaderNode();
   const expected = outcomes.reduce((n, o) => n + o.panels.expected, 0);

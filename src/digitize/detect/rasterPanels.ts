@@ -17,7 +17,7 @@ import type { RasterImage } from '../raster.ts';
 import type { AxisScaleType } from '../../model/takeoff.ts';
 import { inkMap, levelInk, levelOf, pageAngle, strongInk, type InkMap, type Level } from './ink.ts';
 import type { Box, FoundPanel } from './panels.ts';
-import { findRasterFrames, frameSkew, gridLines, horizontalRules, verticalRules } from './rasterFrames.ts';
+import { findRasterFrames, frameSkew, framesTurn, gridLines, horizontalRules, verticalRules } from './rasterFrames.ts';
 import { squarePage } from './keystone.ts';
 import { inkBlots, readCrops, wordsOf, type Blot, type Crop, type TextReader } from './rasterText.ts';
 import { readAxis } from './robustAxis.ts';
@@ -153,6 +153,9 @@ function axisOf(labels: readonly TickLabel[]): { scale: AxisScaleType; inliers: 
   return null;
 }
 
+/** A turn left on the level page smaller than this is left (radians: 0.01°, a tenth of a pixel over 600 px). */
+const MIN_TURN_LEFT = (0.01 * Math.PI) / 180;
+
 /** Everything `findRasterPanels` works from: the level ink, the frames, the words. */
 interface Page {
   map: InkMap;
@@ -182,6 +185,15 @@ function readPage(image: RasterImage): Page {
   };
   const squareFrames = (m: InkMap, list: readonly Box[]) => list.filter((f) => frameSkew(m, f) <= MAX_FRAME_SKEW).length;
   let frames = framesOn(map);
+  // The turn read again on the frames' own rules, to a hundredth of a degree (framesTurn), and
+  // the page turned level once more where it is off by more than that.
+  const left = framesTurn(map, frames);
+  if (left !== undefined && Math.abs(left) > MIN_TURN_LEFT) {
+    const again = levelOf(level.angle + left, raw.width, raw.height);
+    const againMap = levelInk(raw, again);
+    const againFrames = framesOn(againMap);
+    if (againFrames.length >= frames.length) [level, map, frames] = [again, againMap, againFrames];
+  }
   // A photo taken at an angle: no frame found, or frames that are no rectangles on the turned
   // page. The page is squared from its own lines (keystone.ts) and kept so when more frames
   // come out square.
