@@ -675,8 +675,8 @@ function fitPlane(points: readonly (readonly [number, number])[], w: readonly nu
   return [a, c, mw - a * mx - c * my];
 }
 
-/** Least squares w = a + b·t; returns [a, b]. */
-function fitLine(t: readonly number[], w: readonly number[]): [number, number] {
+/** Least squares w = a + b·t; returns [a, b] (b is 0 where the t do not spread). */
+export function fitLine(t: readonly number[], w: readonly number[]): [number, number] {
   const n = t.length;
   const mt = t.reduce((s, v) => s + v, 0) / n;
   const mw = w.reduce((s, v) => s + v, 0) / n;

@@ -20,6 +20,7 @@
  *
  * Pure: works on the RGBA buffer only.
  */
+import { fitLine } from './calibration.ts';
 import type { RasterImage } from './raster.ts';
 
 /** One grid line: `vertical` false means y = a + b·x, true means x = a + b·y (pixels). */
@@ -543,17 +544,8 @@ function missingLines(lines: readonly GridLine[], middle: number, across: readon
   // turns every line alike; a photo's perspective turns them by steadily changing angles), fitted
   // again without a line far off that (one that a curve along it pulled askew).
   const fitSlope = (kept: readonly GridLine[]) => {
-    const n = kept.length;
-    const mu = kept.reduce((sum, g) => sum + at(g), 0) / n;
-    const mb = kept.reduce((sum, g) => sum + g.b, 0) / n;
-    let sub = 0;
-    let suu = 0;
-    for (const g of kept) {
-      sub += (at(g) - mu) * (g.b - mb);
-      suu += (at(g) - mu) ** 2;
-    }
-    const k = suu > 0 ? sub / suu : 0;
-    return (u: number) => mb + k * (u - mu);
+    const [a, b] = fitLine(kept.map(at), kept.map((g) => g.b));
+    return (u: number) => a + b * u;
   };
   const rough = fitSlope(sorted);
   const off = sorted.map((g) => Math.abs(g.b - rough(at(g))));

@@ -7,6 +7,7 @@
  *
  * Pure.
  */
+import { fitLine } from '../calibration.ts';
 import type { InkMap } from './ink.ts';
 import type { Box } from './panels.ts';
 
@@ -360,28 +361,13 @@ export function framesTurn(map: InkMap, frames: readonly Box[]): number | undefi
         if (w > 0) pts.push([s + 0.5, m / w]);
       }
       if (pts.length < (TURN_SEEN * (to - from)) / 2) continue;
-      let line = fitLine(pts);
-      const kept = pts.filter(([s, c]) => Math.abs(c - line.a - line.b * s) <= TURN_OUTLIER_PX);
+      const [a0, b0] = fitLine(pts.map((p) => p[0]), pts.map((p) => p[1]));
+      const kept = pts.filter(([s, c]) => Math.abs(c - a0 - b0 * s) <= TURN_OUTLIER_PX);
       if (kept.length < (TURN_SEEN * (to - from)) / 2) continue;
-      line = fitLine(kept);
-      sum += (horizontal ? line.b : -line.b) * kept.length;
+      const [, slope] = fitLine(kept.map((p) => p[0]), kept.map((p) => p[1]));
+      sum += (horizontal ? slope : -slope) * kept.length;
       weight += kept.length;
     }
   }
   return weight > 0 ? Math.atan(sum / weight) : undefined;
-}
-
-/** Least-squares line c = a + b·s through the points. */
-function fitLine(pts: readonly (readonly [number, number])[]): { a: number; b: number } {
-  const n = pts.length;
-  const ms = pts.reduce((acc, p) => acc + p[0], 0) / n;
-  const mc = pts.reduce((acc, p) => acc + p[1], 0) / n;
-  let scc = 0;
-  let sss = 0;
-  for (const [s, c] of pts) {
-    scc += (s - ms) * (c - mc);
-    sss += (s - ms) ** 2;
-  }
-  const b = sss > 0 ? scc / sss : 0;
-  return { a: mc - b * ms, b };
 }
