@@ -486,7 +486,8 @@ function gridIn(image: RasterImage, box: Box): { lines: GridLine[]; paper: Paper
 /**
  * Gaps of the grid's spacing: a gap between neighbouring lines within this share of a whole
  * number of spacings holds that many lines less one. Lines of a printed grid are evenly spaced to
- * well under 1 % (a photo's perspective changes the spacing across the frame by a few per cent).
+ * well under 1 % (common practice; a photo's perspective changes the spacing across the frame by a
+ * few per cent).
  */
 const SPACING_SLACK = 0.04;
 /** The most spacings a gap may hold to vouch for the spacing, and the least spacing filled in, pixels. */
@@ -500,15 +501,12 @@ const SLOPE_FLOOR = 0.0005;
 /** Farthest a filled line's peak may lie from where the spacing puts it, pixels (it is moved there). */
 const FILLED_SHIFT_PX = 2;
 
-/** The darkest offset of a cross-section and its mean density there. */
-function peakOf(line: { reach: number; profile: Float32Array }): { offset: number; density: number } {
+/** The darkest offset of a cross-section (its first channel's index in `profile`, and pixels from the centre) and its mean density there. */
+function peakOf(line: { reach: number; profile: Float32Array }): { index: number; offset: number; density: number } {
+  const { profile } = line;
   let best = 0;
-  let density = -1;
-  for (let k = 0; k < line.profile.length; k += 3) {
-    const d = ((line.profile[k] as number) + (line.profile[k + 1] as number) + (line.profile[k + 2] as number)) / 3;
-    if (d > density) [best, density] = [k / 3, d];
-  }
-  return { offset: -line.reach + best * PROFILE_STEP, density };
+  for (let k = 0; k < profile.length; k += 3) if ((profile[k] as number) + (profile[k + 1] as number) + (profile[k + 2] as number) > (profile[best] as number) + (profile[best + 1] as number) + (profile[best + 2] as number)) best = k;
+  return { index: best, offset: -line.reach + (best / 3) * PROFILE_STEP, density: ((profile[best] as number) + (profile[best + 1] as number) + (profile[best + 2] as number)) / 3 };
 }
 
 /**
@@ -584,8 +582,7 @@ function missingLines(lines: readonly GridLine[], middle: number, across: readon
 /** How coloured a line's ink is: at its darkest offset, the spread of the three densities over their mean (0 for a grey line). */
 function hueOf(line: GridLine): number {
   const { profile } = line;
-  let best = 0;
-  for (let k = 0; k < profile.length; k += 3) if ((profile[k] as number) + (profile[k + 1] as number) + (profile[k + 2] as number) > (profile[best] as number) + (profile[best + 1] as number) + (profile[best + 2] as number)) best = k;
+  const best = peakOf(line).index;
   const d = [profile[best] as number, profile[best + 1] as number, profile[best + 2] as number];
   const mean = (d[0]! + d[1]! + d[2]!) / 3;
   return mean > 0 ? (Math.max(...d) - Math.min(...d)) / mean : 0;
