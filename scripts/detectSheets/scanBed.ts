@@ -29,6 +29,7 @@ import { detectTakeoff } from '../../src/digitize/detect/detect.ts';
 import { loadImageSheetNode } from '../../src/digitize/loaders/imageNode.ts';
 import { closeTextReaderNode, textReaderNode } from '../../src/digitize/loaders/ocrNode.ts';
 import { replayTakeoff } from '../../src/digitize/takeoff.ts';
+import { calibratePanels } from '../../src/digitize/calibration.ts';
 import { parseTakeoff, parseTakeoffToDetect, type TakeoffInput } from '../../src/model/takeoff.ts';
 import { calibrationError, sheetGeometry, truthOf } from '../randomSheets/randomSheet.ts';
 import { makeRandomSheetApart } from '../randomSheets/sheetApart.ts';
@@ -52,6 +53,8 @@ export interface ScanOutcome {
   panels: { expected: number; found: number };
   /** Real calibration error of each found panel, % of span, by quantity. */
   calibration: Record<string, number>;
+  /** The residual the take-off shows for each found panel (its calibration recomputed from the saved anchors), % of span, by quantity. */
+  shown: Record<string, number>;
   questions: string[];
   detectMs: number;
   /** Worst error of the replayed curves (the engineer's guides on the detected calibrations), % of span or points. */
@@ -107,7 +110,7 @@ export async function scanFor(seed: number, kind: 'scan' | 'photo' = 'scan'): Pr
 export async function runScan(seed: number, kind: 'scan' | 'photo' = 'scan'): Promise<ScanOutcome> {
   const { plan, shot } = sheetGeometry(seed, kind);
   const { jpeg, takeoff } = await scanFor(seed, kind);
-  const out: ScanOutcome = { seed, dpi: plan.dpi, turnDeg: shot.rotationDeg, panels: { expected: plan.panels.length, found: 0 }, calibration: {}, questions: [], detectMs: NaN, worstCurve: Infinity, worstGiven: Infinity, wrong: [], curves: emptyCurves(plan) };
+  const out: ScanOutcome = { seed, dpi: plan.dpi, turnDeg: shot.rotationDeg, panels: { expected: plan.panels.length, found: 0 }, calibration: {}, shown: {}, questions: [], detectMs: NaN, worstCurve: Infinity, worstGiven: Infinity, wrong: [], curves: emptyCurves(plan) };
   const sheet = await loadImageSheetNode(jpeg, { name: `${seed}.jpg` });
   try {
     // The engineer's traces, without the panels: the panels must come from the detector.
@@ -117,6 +120,7 @@ export async function runScan(seed: number, kind: 'scan' | 'photo' = 'scan'): Pr
     const found = await detectTakeoff(parseTakeoffToDetect(raw), raw, sheet, { reader: textReaderNode() });
     out.detectMs = performance.now() - t0;
     out.questions = found.questions;
+    const shownCal = calibratePanels(found.takeoff.panels).calibrations;
     for (const p of plan.panels) {
       const d = found.detection.panels.find((k) => k.quantity === p.quantity);
       if (!d) {
@@ -126,6 +130,9 @@ export async function runScan(seed: number, kind: 'scan' | 'photo' = 'scan'): Pr
       out.panels.found++;
       const err = calibrationError(plan, shot, p.id, (q) => d.proposal.calibration.toData(q as never) as unknown as readonly [number, number]);
       out.calibration[p.id] = err;
+      const saved = found.takeoff.panels.find((k) => k.origin === 'detected' && k.quantity === p.quantity);
+      const shown = saved ? shownCal.get(saved.id)?.maxPercentOfSpan : undefined;
+      if (shown !== undefined) out.shown[p.id] = shown;
       if (!(err <= SCAN_ACCEPT_PERCENT)) out.wrong.push(`panel ${p.id} calibrated ${err.toFixed(2)} % of span off`);
     }
     for (const d of found.detection.panels) if (d.quantity && !plan.panels.some((p) => p.quantity === d.quantity)) out.wrong.push(`panel ${d.id} invented`);
@@ -308,7 +315,7 @@ async function main(): Promise<void> {
   for (let seed = first; seed < first + count; seed++) {
     const o = await runScan(seed, kind);
     outcomes.push(o);
-    const cal = Object.entries(o.calibration).map(([k, v]) => `${k} ${v.toFixed(3)}`).join(', ');
+    const cal = Object.entries(o.calibration).map(([k, v]) => `${k} ${v.toFixed(3)}${o.shown[k] !== undefined ? ` (shown ${(o.shown[k] as number).toFixed(3)})` : ""}`).join(", ");
     process.stdout.write(`${String(seed).padStart(4)} ${o.dpi} dpi turn ${o.turnDeg.toFixed(2)}° panels ${o.panels.found}/${o.panels.expected} calibration % of span: ${cal || '-'}; questions ${o.questions.length}; curves from the bed's guides, worst: on found panels ${Number.isFinite(o.worstCurve) ? o.worstCurve.toFixed(2) : 'missing'}, on the bed's panels ${Number.isFinite(o.worstGiven) ? o.worstGiven.toFixed(2) : 'missing'}; ${o.detectMs.toFixed(0)} ms${o.error ? `; refused: ${o.error}` : ''}\n`);
     const c = o.curves;
     process.stdout.write(`       curves found: ${c.right}/${c.drawn} within tolerance${c.iso.drawn ? `, iso efficiency ${c.iso.right}/${c.iso.drawn} (found ${c.iso.found}${c.iso.errors.length ? `, worst ${Math.max(...c.iso.errors).toFixed(2)} points` : ''})` : ''}, worst ${c.errors.length ? Math.max(...c.errors.map((e) => e.error)).toFixed(2) : '-'}; missed ${c.missed}, invented ${c.invented}, mislabelled ${c.mislabelled}; questions ${c.questions.length}${c.gaveDiameters ? ' (asked for the diameters, given)' : ` (${c.namedByLabels} head curves named from labels)`}${c.silent.length ? `; WRONG WITHOUT A FLAG: ${c.silent.join(', ')}` : ''}${c.error ? `; refused: ${c.error.slice(0, 160)}` : ''}\n`);
@@ -322,6 +329,9 @@ async function main(): Promise<void> {
   const silent = outcomes.filter((o) => o.wrong.length > 0 && o.questions.length === 0 && !o.error);
   process.stdout.write(`\npanels found with the right quantity: ${found} of ${expected} (${((100 * found) / Math.max(1, expected)).toFixed(0)} %)\n`);
   process.stdout.write(`calibration error of found panels, % of span: p50 ${q(errors, 0.5).toFixed(3)} p95 ${q(errors, 0.95).toFixed(3)} max ${Math.max(...errors).toFixed(3)}; within ${SCAN_ACCEPT_PERCENT} %: ${errors.filter((e) => e <= SCAN_ACCEPT_PERCENT).length} of ${errors.length}\n`);
+  const pairs = outcomes.flatMap((o) => Object.entries(o.calibration).flatMap(([k, real]) => (o.shown[k] !== undefined ? [{ real, shown: o.shown[k] as number }] : [])));
+  const ratios = pairs.map((p) => p.real / Math.max(p.shown, 1e-9));
+  process.stdout.write(`residual shown against the real error (${pairs.length} panels): shown p50 ${q(pairs.map((p) => p.shown), 0.5).toFixed(3)} p95 ${q(pairs.map((p) => p.shown), 0.95).toFixed(3)} max ${Math.max(...pairs.map((p) => p.shown)).toFixed(3)} % of span; within 3x of the real error ${pairs.filter((p) => p.shown <= 3 * p.real && p.real <= 3 * p.shown).length}; real more than 3x the shown ${ratios.filter((r) => r > 3).length}; shown more than 3x the real ${ratios.filter((r) => r < 1 / 3).length}; shown over ${0.3} %: ${pairs.filter((p) => p.shown > 0.3).length}\n`);
   process.stdout.write(`questions per sheet: ${outcomes.map((o) => o.questions.length).join(' ')}; sheets with at most one: ${outcomes.filter((o) => o.questions.length <= 1).length} of ${outcomes.length}\n`);
   process.stdout.write(`sheets fully right (every panel found, named and within ${SCAN_ACCEPT_PERCENT} %): ${outcomes.filter((o) => o.wrong.length === 0 && !o.error).length} of ${outcomes.length}; refused: ${outcomes.filter((o) => o.error).length}\n`);
   process.stdout.write(`wrong without a question: ${silent.length}${silent.length ? ` (seeds ${silent.map((o) => o.seed).join(', ')})` : ''}\n`);

@@ -34,6 +34,8 @@ export interface PanelProposal {
   xScale: AxisScaleType;
   yScale: AxisScaleType;
   calibration: Calibration;
+  /** The placement error the anchors share, sheet units (see `CalibrateOptions.anchorBias`); absent where the anchors are exact (a vector page's text and paths). */
+  anchorBias?: number;
 }
 
 export interface NumericLabel {

@@ -93,6 +93,13 @@ export interface CalibrateOptions {
   projection?: 'auto' | Projection;
   /** The panel's plot frame [left, top, right, bottom], sheet units: where the expected error is looked for (default: the anchors' extent). */
   frame?: readonly [number, number, number, number] | undefined;
+  /**
+   * A placement error the anchors share, sheet units (one standard error): anchors found on a
+   * scan by the automatic take-off all stand on rules and tick labels read the same way, so
+   * their errors do not average away as independent clicks do. Added to the expected error
+   * shown; absent (0) for anchors placed by hand or read from a vector page.
+   */
+  anchorBias?: number | undefined;
   /** The page's perspective, lent by another panel of the same page (see `borrowPerspective`); used only when this panel's anchors cannot reveal it. */
   pagePerspective?: PagePerspective | undefined;
 }
@@ -194,13 +201,13 @@ function affineCalibration(anchors: readonly AnchorInput[], tx: AxisTransform, t
   if (!projective) {
     if (anchors.length === 3) {
       // Exactly fixed: a fit residual would read 0 %. Show what a misplaced anchor would do instead.
-      const expected = expectedError(pts, targets, spanU, spanV, affineFitter, 6, options.frame);
+      const expected = expectedError(pts, targets, spanU, spanV, affineFitter, 6, options);
       notices.push(`${where}: three anchors fix an affine map exactly, so neither a misplaced anchor nor the perspective of a photo can show; the residual shown (${expected.toFixed(2)} % of span) is the error expected over the plot from anchors placed within ${ANCHOR_UNCERTAINTY} units. Add a fourth anchor near the free corner of the plot.`);
       return { ...finish('affine', { affine: m }, tx, ty, anchors.map(() => ({ sheet: ANCHOR_UNCERTAINTY, percentOfSpan: expected })), 'none', where, options, notices, expected), perspectiveHidden: true };
     }
     else if (!canSeePerspective && !hasQuad(pts)) notices.push(`${where}: no four of the anchors are free of three on one line, so they cannot reveal the perspective of a photo; add an anchor off that line, near a free corner of the plot.`);
     else if (!canSeePerspective) notices.push(`${where}: the anchors lie on two lines (e.g. along the axes), so they cannot reveal the perspective of a photo; add an anchor off those lines (the far corner of the plot).`);
-    return { ...finish('affine', { affine: m }, tx, ty, affineResiduals, anchors.length === 3 ? 'none' : 'fit', where, options, notices, expectedError(pts, targets, spanU, spanV, affineFitter, 6, options.frame)), perspectiveHidden: !canSeePerspective };
+    return { ...finish('affine', { affine: m }, tx, ty, affineResiduals, anchors.length === 3 ? 'none' : 'fit', where, options, notices, expectedError(pts, targets, spanU, spanV, affineFitter, 6, options)), perspectiveHidden: !canSeePerspective };
   }
   const hi = invertHomography(h);
   let residuals: AnchorResidual[];
@@ -210,12 +217,12 @@ function affineCalibration(anchors: readonly AnchorInput[], tx: AxisTransform, t
     residuals = looProjective.map((r, i) => ({ percentOfSpan: r, sheet: sheetDistance(hi, pts[i] as readonly [number, number], us, vs, i, looProjective, h) }));
   } else {
     kind = 'estimated';
-    const expected = expectedError(pts, targets, spanU, spanV, projectiveFitter, 8, options.frame);
+    const expected = expectedError(pts, targets, spanU, spanV, projectiveFitter, 8, options);
     residuals = anchors.map(() => ({ sheet: ANCHOR_UNCERTAINTY, percentOfSpan: expected }));
     const why = anchors.length === 4 ? 'four anchors fix the perspective exactly' : 'leaving out an anchor leaves three of the others on one line';
     notices.push(`${where}: ${why}, so the calibration cannot be checked; the residual shown (${expected.toFixed(2)} % of span) is the error expected over the plot from anchors placed within ${ANCHOR_UNCERTAINTY} units. Add a fifth anchor (a grid crossing inside the plot, off its diagonals) to check it.`);
   }
-  return finish('affine', { affine: m, homography: h, inverse: hi }, tx, ty, residuals, kind, where, options, notices, expectedError(pts, targets, spanU, spanV, projectiveFitter, 8, options.frame));
+  return finish('affine', { affine: m, homography: h, inverse: hi }, tx, ty, residuals, kind, where, options, notices, expectedError(pts, targets, spanU, spanV, projectiveFitter, 8, options));
 }
 
 /**
@@ -263,7 +270,7 @@ function lentPerspective(
     const map = fitAffine(from.map((p) => onPage(p[0], p[1])), to.map((t) => t[0]), to.map((t) => t[1]));
     return map && ((x: number, y: number) => applyM(map, ...onPage(x, y)));
   };
-  const own = expectedError(pts, targets, spanU, spanV, lentFitter, 6, options.frame);
+  const own = expectedError(pts, targets, spanU, spanV, lentFitter, 6, options);
   if (!Number.isFinite(own)) return undefined;
   const expected = own + lent.percent;
   const notice = `${where}: its anchors cannot reveal the perspective of a photo, so the perspective of the page is taken from panel "${lent.panel}", whose anchors show it (a printed sheet is one plane); the residual shown (${expected.toFixed(2)} % of span) adds that panel's to this one's. Add a fourth anchor near the free corner of this plot to check it.`;
@@ -298,9 +305,19 @@ export function borrowPerspective(panels: readonly { id: string; anchors: readon
   return out;
 }
 
-/** The calibration options of a take-off panel: its scales, name, projection and frame. */
-export function panelCalibrateOptions(panel: { id: string; x_scale: AxisScaleType; y_scale: AxisScaleType; projection?: 'auto' | Projection | undefined; frame?: readonly [number, number, number, number] | undefined }): CalibrateOptions {
-  return { xScale: panel.x_scale, yScale: panel.y_scale, panel: panel.id, ...(panel.projection ? { projection: panel.projection } : {}), ...(panel.frame ? { frame: panel.frame } : {}) };
+/** What calibrating a take-off panel reads of it. */
+export interface PanelToCalibrate {
+  id: string;
+  x_scale: AxisScaleType;
+  y_scale: AxisScaleType;
+  projection?: 'auto' | Projection | undefined;
+  frame?: readonly [number, number, number, number] | undefined;
+  anchor_bias?: number | undefined;
+}
+
+/** The calibration options of a take-off panel: its scales, name, projection, frame and the error its anchors share. */
+export function panelCalibrateOptions(panel: PanelToCalibrate): CalibrateOptions {
+  return { xScale: panel.x_scale, yScale: panel.y_scale, panel: panel.id, ...(panel.projection ? { projection: panel.projection } : {}), ...(panel.frame ? { frame: panel.frame } : {}), ...(panel.anchor_bias ? { anchorBias: panel.anchor_bias } : {}) };
 }
 
 /**
@@ -308,7 +325,7 @@ export function panelCalibrateOptions(panel: { id: string; x_scale: AxisScaleTyp
  * (`borrowPerspective`). A panel whose anchors cannot define a calibration is in `failed` with
  * its CalibrationError, so that one panel does not cost the others.
  */
-export function calibratePanels(panels: readonly { id: string; anchors: readonly AnchorInput[]; x_scale: AxisScaleType; y_scale: AxisScaleType; projection?: 'auto' | Projection | undefined; frame?: readonly [number, number, number, number] | undefined }[]): { calibrations: Map<string, Calibration>; failed: Map<string, CalibrationError> } {
+export function calibratePanels(panels: readonly (PanelToCalibrate & { anchors: readonly AnchorInput[] })[]): { calibrations: Map<string, Calibration>; failed: Map<string, CalibrationError> } {
   const failed = new Map<string, CalibrationError>();
   const list = panels.map((p) => {
     const options = panelCalibrateOptions(p);
@@ -432,7 +449,9 @@ const projectiveFitter: Fitter = (from, to) => {
  * (3 anchors affine, 4 projective) shows the prior alone, and a misfit (a misplaced anchor, or
  * perspective under an affine map) raises σ and the figure with it.
  */
-function expectedError(pts: readonly (readonly [number, number])[], targets: readonly (readonly [number, number])[], spanU: number, spanV: number, fit: Fitter, params: number, frame?: readonly [number, number, number, number]): number {
+function expectedError(pts: readonly (readonly [number, number])[], targets: readonly (readonly [number, number])[], spanU: number, spanV: number, fit: Fitter, params: number, options: Pick<CalibrateOptions, 'frame' | 'anchorBias'>): number {
+  const frame = options.frame;
+  const bias = options.anchorBias ?? 0;
   const base = fit(pts, targets);
   if (!base) return Number.NaN;
   const rss = sheetRss(pts, targets, base);
@@ -460,6 +479,17 @@ function expectedError(pts: readonly (readonly [number, number])[], targets: rea
         varV[i] = (varV[i] as number) + ((v1 - v0) * (sigma / step)) ** 2;
       });
     }
+  }
+  // A placement error the anchors share moves the whole map with it: more anchors do not
+  // average it away. Either direction on the sheet, carried through the map's local slopes.
+  if (bias > 0) {
+    probes.forEach(([x, y], i) => {
+      const [u0, v0] = at[i] as [number, number];
+      const [ux, vx] = base(x + bias, y);
+      const [uy, vy] = base(x, y + bias);
+      varU[i] = (varU[i] as number) + (ux - u0) ** 2 + (uy - u0) ** 2;
+      varV[i] = (varV[i] as number) + (vx - v0) ** 2 + (vy - v0) ** 2;
+    });
   }
   // Per cent of the plot's own spans when the frame is known (the axes as drawn), else of the anchors'.
   const plotU = frame ? span(at.map((p) => p[0])) : spanU;

@@ -68,6 +68,11 @@ export const Panel = z.strictObject({
     .enum(['auto', 'affine', 'projective'])
     .optional()
     .describe('calibration map: auto (the default) = projective when 4 or more anchors show the perspective of a photo, else affine; or force one'),
+  anchor_bias: z
+    .number()
+    .positive()
+    .optional()
+    .describe('placement error the anchors share, sheet units (one standard error): set by the automatic take-off on a scan, where every anchor stands on rules and tick labels read the same way; widens the residual shown, since more anchors do not average it away'),
   units: z
     .strictObject({
       x: z.string().optional().describe('flow unit of the x axis; defaults to units.flow'),

@@ -9,7 +9,8 @@ import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { inkMap, levelInk, levelOf, pageAngle } from '../../src/digitize/detect/ink.ts';
 import { findRasterFrames, framesTurn, gridLines, horizontalRules, transpose, type Rule } from '../../src/digitize/detect/rasterFrames.ts';
-import { findRasterPanels, knownFlowUnit } from '../../src/digitize/detect/rasterPanels.ts';
+import { findRasterPanels, knownFlowUnit, RASTER_ANCHOR_BIAS } from '../../src/digitize/detect/rasterPanels.ts';
+import { calibratePanels } from '../../src/digitize/calibration.ts';
 import { wordsOf, type TextReader } from '../../src/digitize/detect/rasterText.ts';
 import { decode } from '../../scripts/randomSheets/camera.ts';
 import { calibrationError, sheetGeometry } from '../../scripts/randomSheets/randomSheet.ts';
@@ -293,5 +294,17 @@ describe('detectTakeoff on a scan', () => {
     expect(found.takeoff.traces.map((t) => t.id)).toEqual(takeoff.traces.map((t) => t.id));
     expect(found.questions.filter((q) => /"npshr" of the trace "stray" was not found/.test(q))).toHaveLength(1);
     expect(found.document.detected).toMatchObject({ by: expect.stringMatching(/scans/) });
+    // The anchors found on a scan share a placement error (RASTER_ANCHOR_BIAS, a quarter pixel
+    // here at scale 1), which the saved panel carries so that every shell shows the same
+    // residual; the residual shown then covers the real error within 3× (without it: under a third of it).
+    const { plan, shot } = sheetGeometry(3, 'scan');
+    const { calibrations } = calibratePanels(found.takeoff.panels);
+    for (const p of found.takeoff.panels) {
+      expect(p.anchor_bias).toBe(RASTER_ANCHOR_BIAS);
+      const real = calibrationError(plan, shot, plan.panels.find((k) => k.quantity === p.quantity)!.id, (q) => calibrations.get(p.id)!.toData(q as never) as unknown as readonly [number, number]);
+      const shown = calibrations.get(p.id)!.maxPercentOfSpan;
+      expect(shown).toBeGreaterThan(real / 3);
+      expect(shown).toBeLessThan(3 * Math.max(real, 0.01));
+    }
   });
 });

@@ -75,6 +75,37 @@ describe('calibration from 3 or more anchors with both values (affine least squa
     expect(cal.warnings.length).toBeGreaterThan(0);
     expect(cal.warnings[0]).toMatch(/^Panel "head": anchor 5 is off by \d+\.\d\d % of the axis span/);
   });
+
+  it('widens the residual shown by a placement error the anchors share, which more anchors do not average away', () => {
+    // 25 grid crossings of a 1000 × 500 unit plot, every one read 0.3 units to the right and
+    // 0.3 units low (a frame rule's centre read off, as on a scan): the map is off by 0.03 % of
+    // the flow span and 0.06 % of the head span everywhere.
+    const toSheet = panelMap({ rotateDeg: 0, skew: 0, sx: 1000 / 1600, sy: 500 / 180, ox: 72, oy: 640 });
+    const anchors: AnchorInput[] = [];
+    for (let i = 0; i <= 4; i++) for (let j = 0; j <= 4; j++) {
+      const [x, y] = [400 * i, 45 * j];
+      const [sx, sy] = toSheet(x, y);
+      anchors.push({ at: [sx + 0.3, sy + 0.3], x, y });
+    }
+    const real = (c: ReturnType<typeof calibrate>) => {
+      let worst = 0;
+      for (const [x, y] of [[0, 0], [1600, 180], [800, 90]] as const) {
+        const d = c.toData(sheetPoint(...toSheet(x, y)));
+        worst = Math.max(worst, (100 * Math.abs(d[0] - x)) / 1600, (100 * Math.abs(d[1] - y)) / 180);
+      }
+      return worst;
+    };
+    const alone = calibrate(anchors);
+    const shared = calibrate(anchors, { anchorBias: 0.3 });
+    expect(real(alone)).toBeGreaterThan(0.05);
+    // Without the shared error the residual shown is a small fraction of the real one.
+    expect(alone.maxPercentOfSpan).toBeLessThan(real(alone) / 3);
+    // With it, the residual shown covers the real error and stays within 3× of it.
+    expect(shared.maxPercentOfSpan).toBeGreaterThan(real(shared));
+    expect(shared.maxPercentOfSpan).toBeLessThan(3 * real(shared));
+    // The map itself is the same: the shared error only widens what is shown.
+    expect(shared.matrix).toEqual(alone.matrix);
+  });
 });
 
 describe('calibration from 2 anchors on each axis', () => {

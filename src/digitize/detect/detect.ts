@@ -145,6 +145,7 @@ export function takeoffPanels(found: readonly FoundPanel[], userPanels: NonNulla
       x_scale: p.proposal.xScale,
       y_scale: p.proposal.yScale,
       frame: p.frame.map(r4) as [number, number, number, number],
+      ...(p.proposal.anchorBias ? { anchor_bias: r4(p.proposal.anchorBias) } : {}),
       ...(x || y ? { units: { ...(x ? { x } : {}), ...(y ? { y } : {}) } } : {}),
     });
   }

@@ -58,6 +58,17 @@ interface Side {
 /** Largest difference, pixels, between a frame side's position near its two ends on a level scan (turned scans measure under 0.6). */
 export const MAX_FRAME_SKEW = 1;
 
+/**
+ * The placement error that the anchors of a panel found on a scan share, pixels (one standard
+ * error). Every anchor stands on the frame's rules and grid lines read the same way, so a rule's
+ * centre read off by a fraction of a pixel (blur, JPEG, a rule thicker on one side) moves them
+ * all alike and more anchors do not average it away. Set on the scan detection bed
+ * (scripts/detectSheets/scanBed.ts, seeds 1–40, 117 panels): with a quarter pixel the residual
+ * shown comes within 3× of the real error on 113 panels and under it on none (without it, the
+ * real error was more than 3× the shown on 70); checked on seeds 41–80 and on photos.
+ */
+export const RASTER_ANCHOR_BIAS = 0.25;
+
 /** Darkness, as a share of the page's strong ink, from which a pixel counts for the keystone's lines: low enough to take a faint grid's lines too, which carry most of a photo's perspective. */
 const KEYSTONE_INK = 0.35;
 
@@ -361,7 +372,7 @@ export async function findRasterPanels(image: RasterImage, reader: TextReader, p
     const anchors = crossings(x.inliers, y.inliers, level, image.scale);
     let calibration;
     try {
-      calibration = calibrate(anchors, { xScale: x.scale, yScale: y.scale });
+      calibration = calibrate(anchors, { xScale: x.scale, yScale: y.scale, anchorBias: RASTER_ANCHOR_BIAS / image.scale });
     } catch {
       questions.push(`The frame at ${where} could not be calibrated from its tick labels; place its anchors by hand.`);
       continue;
@@ -385,6 +396,7 @@ export async function findRasterPanels(image: RasterImage, reader: TextReader, p
       xScale: x.scale,
       yScale: y.scale,
       calibration,
+      anchorBias: RASTER_ANCHOR_BIAS / image.scale,
     };
     const residual = calibration.maxPercentOfSpan;
     let confidence = Math.min(1, 0.4 + 0.08 * Math.min(x.inliers.length, y.inliers.length)) * (residual <= 0.1 ? 1 : residual <= 0.3 ? 0.8 : 0.5);

@@ -53,12 +53,13 @@ function axisControls(bench: Bench, panel: PanelDraft, axis: 'x' | 'y'): HTMLEle
       h('option', { value: 'log', selected: panel[`${axis}_scale`] === 'log' }, 'log')));
 }
 
-function residualLine(state: CalibrationState | undefined): HTMLElement {
+function residualLine(state: CalibrationState | undefined, panel: PanelDraft): HTMLElement {
   if (!state) return h('p', { class: 'cal pending' }, 'Calibration: waiting for anchor values.');
   if (!state.ok) return h('p', { class: 'cal bad', role: 'status' }, state.reason);
   const c = state.calibration;
   const tone = c.maxPercentOfSpan > 0.3 || c.residualKind === 'none' || c.residualKind === 'estimated' ? 'warn' : 'good';
-  const kind = { fit: 'expected over the plot', 'leave-one-out': 'expected over the plot, each anchor checked left out', estimated: 'expected over the plot, cannot be checked', none: 'expected over the plot, cannot be checked' }[c.residualKind];
+  const kind = { fit: 'expected over the plot', 'leave-one-out': 'expected over the plot, each anchor checked left out', estimated: 'expected over the plot, cannot be checked', none: 'expected over the plot, cannot be checked' }[c.residualKind] +
+    (panel.anchor_bias ? `, with ${num(panel.anchor_bias, 2)} sheet units the found anchors may share` : '');
   return h('p', { class: `cal ${tone}`, role: 'status' },
     `${c.projection === 'projective' ? 'Projective' : 'Affine'} map. Residual ${num(c.maxPercentOfSpan, 2)} % of span (${kind}), ${num(c.maxSheet, 2)} sheet units`,
     c.warnings.length ? h('span', { class: 'cal-warn' }, ` — ${c.warnings[0]}`) : tone === 'good' ? ' — good' : '');
@@ -72,7 +73,7 @@ function panelCard(bench: Bench, panel: PanelDraft, cal: CalibrationState | unde
       h('button', { type: 'button', class: 'link', onclick: () => bench.selectPanel(panel.id), 'aria-expanded': active ? 'true' : 'false' }, `${QUANTITY_NAMES[panel.plots]} panel`),
       h('span', { class: 'panel-id' }, panel.id),
       originTag(panel)),
-    residualLine(cal),
+    residualLine(cal, panel),
     proposalBox(bench, panel),
     active ? [
       h('div', { class: 'axis-row' },
