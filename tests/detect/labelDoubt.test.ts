@@ -83,3 +83,17 @@ describe('a head label read with little certainty', () => {
     if (misread.length > 0) expect(found.questions.some((q) => /read with little certainty/.test(q))).toBe(true);
   });
 });
+
+describe('a label printed on its head curve where the line found stops under its letters', () => {
+  it('names that curve: every head curve of bed scan 42 is named from its label, and nothing asks for the diameters', { timeout: 180_000 }, async () => {
+    // INVENTED bed scan 42, 200 dpi, five head curves labelled on the line ("380 mm" …): the line
+    // found for the top curve stops inside its label's box, and the tracer keeps a point only every
+    // 90 px there, so the label had been taken for the curve 79 px below, and the sheet asked for
+    // all five diameters.
+    const { plan } = sheetGeometry(42, 'scan');
+    const found = await detect(textReaderNode(), 42);
+    expect(found.questions.some((q) => /give the diameters/.test(q))).toBe(false);
+    const heads = found.takeoff.traces.filter((t) => t.quantity === 'head').map((t) => t.diameter).sort((a, b) => (b ?? 0) - (a ?? 0));
+    expect(heads).toEqual([...plan.family.diameters].sort((a, b) => b - a));
+  });
+});

@@ -195,6 +195,18 @@ describe('labels touching their line', () => {
     expect(labelCandidates('147', '147')).toEqual([]);
     expect(labelCandidates('57', '57', 'in')).toEqual([57]);
   });
+  it('a number with a lone "m" is the frame\'s unit half read, in a frame labelled in mm or inches only', () => {
+    // INVENTED bed scans 50 ("260 mm" read "260m": its second m under the line) and 69 (7" read "7m").
+    expect(labelCandidates('260m', '260', 'mm')).toEqual([260]);
+    expect(labelCandidates('7m', '7', 'in')).toEqual([7]);
+    expect(labelCandidates('260 m', '', 'mm')).toEqual([260]);
+    // Without a frame unit read on other labels, a metre is not taken for anything.
+    expect(labelCandidates('260m', '260')).toEqual([]);
+    expect(labelCandidates('7m', '7', 'rpm')).toEqual([]);
+    // The digits reading must agree, and an inch value finer than a sixteenth is no label.
+    expect(labelCandidates('260m', '280', 'mm')).toEqual([]);
+    expect(labelCandidates('7.1m', '7.1', 'in')).toEqual([]);
+  });
 });
 
 describe('names of head curves', () => {

@@ -890,12 +890,14 @@ async function nameHeads(
   );
   // The tracer's line in level pixels, by column: it runs on through a label the line found leaves a gap at.
   const tracedLevel = new Map(heads.map((c) => [c, sureTrace(c).map((p) => level.toLevel(p[0] * scale, p[1] * scale)).sort((a, b) => a[0] - b[0])] as const));
-  const tracedAt = (c: RasterCurve, u: number): number | null => {
+  // The tracer keeps few points where its line runs smooth (one every 30 px or more), so a
+  // stretch between two is the line's when it is no longer than six text heights (`reach`).
+  const tracedAt = (c: RasterCurve, u: number, reach: number): number | null => {
     const pts = tracedLevel.get(c) ?? [];
     for (let k = 1; k < pts.length; k++) {
       const [u0, v0] = pts[k - 1] as [number, number];
       const [u1, v1] = pts[k] as [number, number];
-      if (u0 <= u && u <= u1 && u1 - u0 < 20) return u1 > u0 ? v0 + ((v1 - v0) * (u - u0)) / (u1 - u0) : v0;
+      if (u0 <= u && u <= u1 && u1 - u0 < reach) return u1 > u0 ? v0 + ((v1 - v0) * (u - u0)) / (u1 - u0) : v0;
     }
     return null;
   };
@@ -908,11 +910,15 @@ async function nameHeads(
     let bestD = Infinity;
     for (const c of heads) {
       const on = trackAt(c.track, cx);
-      const traced = tracedAt(c, cx);
+      const traced = tracedAt(c, cx, Math.max(20, 6 * hgt));
       const dOn = Math.min(on === null ? Infinity : Math.abs(on - cy), traced === null ? Infinity : Math.abs(traced - cy));
       let dEnd = Infinity;
+      // An end left of the word (or up to a text height under its start), or inside the word's
+      // box (the line found stops where the letters printed on it cover it): the distance to the
+      // box, so an end far above the word is not beside it.
       for (const [endU, endV] of ends.get(c) ?? []) {
-        if (word.l >= endU - hgt) dEnd = Math.min(dEnd, Math.hypot(Math.max(0, word.l - endU), Math.max(0, endV - word.b)));
+        const under = endU >= word.l && endU <= word.r && endV >= word.t && endV <= word.b;
+        if (word.l >= endU - hgt || under) dEnd = Math.min(dEnd, Math.hypot(Math.max(0, word.l - endU), Math.max(0, endV - word.b, word.t - endV)));
       }
       const d = Math.min(dOn, dEnd);
       if (d < bestD) [best, bestD] = [c, d];
@@ -1224,6 +1230,17 @@ export function labelCandidates(text: string, digits: string, frameUnit: 'mm' | 
   if (percent) {
     const v = sheetNumber(percent[1] as string);
     return v > 0 && v < PERCENT_INCH_MAX && inSixteenths(v) ? [v] : [];
+  }
+  // In a frame whose other labels were read in millimetres or inches, a number with a lone "m"
+  // after it is the frame's unit half read: "260m" for 260 mm (the second m under the line it is
+  // printed on), "7m" for 7" (the inch mark's strokes read as one letter). No impeller is
+  // labelled in metres. The digits reading must agree, and order and affinity still pick the set.
+  const lone = frameUnit === 'mm' || frameUnit === 'in' ? new RegExp(`^(${SHEET_NUMBER})\\s*m$`).exec(trimSpecks(text)) : null;
+  if (lone) {
+    const v = sheetNumber(lone[1] as string);
+    const number = /\d+(?:[.,]\d+)?/.exec(digits.replace(/\s+/g, ''))?.[0];
+    if (number !== undefined && sheetNumber(number) !== v) return [];
+    return v > 0 && (frameUnit === 'mm' || (v <= MAX_INCHES && inSixteenths(v))) ? [v] : [];
   }
   const read = scanLabelOf(text);
   let label = read && read.unit === null && frameUnit !== null ? { value: read.value, unit: frameUnit } : read;
