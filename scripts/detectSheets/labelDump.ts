@@ -2,10 +2,11 @@
  * The head-curve labels of bed scans: what each sheet prints (the plan's labels, at their place
  * in level pixels), the words the detector found and read there, and how the curves were named.
  * With CROPS=DIR it writes, per printed label, a zoomed crop of the level picture (ink dark on
- * white, the found word boxes outlined grey) as DIR/SEED-LABEL.png. A tool for reading the
- * label reader, not a score.
+ * white, the found word boxes outlined grey) as DIR/SEED-LABEL.png; with READER_SHOTS=DIR (an
+ * existing folder) every picture given to the reader as words, DIR/NNN.png, and what it read.
+ * Iso labels' readings are listed too. A tool for reading the label reader, not a score.
  *
- *   [CROPS=/tmp/label-crops] [DETECT_KIND=photo] npx tsx scripts/detectSheets/labelDump.ts 2 3 36
+ *   [CROPS=/tmp/label-crops] [READER_SHOTS=/tmp/shots] [DETECT_KIND=photo] npx tsx scripts/detectSheets/labelDump.ts 2 3 36
  */
 import { mkdirSync } from 'node:fs';
 import sharp from 'sharp';
@@ -22,7 +23,18 @@ const seeds = process.argv.slice(2).map(Number);
 const kind = process.env.DETECT_KIND === 'photo' ? 'photo' : 'scan';
 const cropDir = process.env.CROPS;
 if (cropDir) mkdirSync(cropDir, { recursive: true });
-const reader = textReaderNode();
+const base = textReaderNode();
+let shots = 0;
+const reader: typeof base = {
+  async read(image, what) {
+    const words = await base.read(image, what);
+    if (process.env.READER_SHOTS && what === 'words') {
+      await sharp(Buffer.from(image.grey), { raw: { width: image.width, height: image.height, channels: 1 } }).png().toFile(`${process.env.READER_SHOTS}/${String(shots++).padStart(3, '0')}.png`);
+      process.stdout.write(`  shot ${shots - 1}: ${image.width}x${image.height} → ${JSON.stringify(words.map((w) => w.text))}\n`);
+    }
+    return words;
+  },
+};
 for (const seed of seeds) {
   const { plan, shot } = sheetGeometry(seed, kind);
   const { jpeg } = await scanFor(seed, kind);
@@ -73,7 +85,7 @@ for (const seed of seeds) {
     }
     await sharp(out, { raw: { width: cw * zoom, height: ch * zoom, channels: 3 } }).png().toFile(`${cropDir}/${seed}-${line.id}.png`);
   }
-  for (const n of notes) if (/word at|nearest head|one label|head curve/.test(n)) process.stdout.write(`  | ${n}\n`);
+  for (const n of notes) if (/word at|nearest head|one label|head curve|iso label/.test(n)) process.stdout.write(`  | ${n}\n`);
   for (const c of curves.curves.filter((k) => k.quantity === 'head' && k.kind === 'curve')) process.stdout.write(`  curve head ${c.value} (${c.named}) conf ${c.confidence.toFixed(2)}\n`);
   for (const q of curves.questions) if (/head curves/.test(q)) process.stdout.write(`  ? ${q.slice(0, 200)}\n`);
   process.stdout.write(`  curves in ${ms.toFixed(0)} ms\n`);

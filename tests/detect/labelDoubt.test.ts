@@ -97,3 +97,19 @@ describe('a label printed on its head curve where the line found stops under its
     expect(heads).toEqual([...plan.family.diameters].sort((a, b) => b - a));
   });
 });
+
+describe('an iso label of weaker evidence that the reading among the others passes over', () => {
+  it('is read alone, larger, twice: the "60%" of bed scan 35 gives its line a level', { timeout: 180_000 }, async () => {
+    // INVENTED bed scan 35, 240 dpi: a grey "60%" printed on the end of an iso-line, taken as
+    // glyphs run together, read as nothing among the specks read with it, nor alone up to 70 px
+    // of text height; read alone at 80 and 120 px it gives "60%" both times.
+    let found;
+    try {
+      found = await detect(textReaderNode(), 35);
+    } catch (error) {
+      found = { questions: [(error as Error).message] };
+    }
+    expect(found.questions.join(' ')).toMatch(/levels read: 60 %/);
+  });
+});
+

@@ -144,6 +144,8 @@ export function distanceToTrack(t: Track, x: number, y: number): number {
 
 /** Text height (pixels of the reader's picture) at which an iso label that gave no level is read again: twice the usual 40. */
 export const AGAIN_ACROSS = 80;
+/** The second, larger text height (pixels of the reader's picture) at which a word of weaker evidence that gave no level is read alone, after AGAIN_ACROSS. */
+export const AGAIN_LARGEST = 120;
 /** Least width of a word read again, in its heights: two glyphs and a "%" are about two. */
 const AGAIN_WIDTH = 1.5;
 
@@ -288,7 +290,18 @@ export async function isoLevelsOnScan<L extends IsoLine>(
     for (const [i, w] of list.entries()) {
       const level = first[i] as number | null;
       // Only a word wide enough for a level and its "%" is read again (specks and stubs are not).
-      const again = level !== null ? w.confirm === true : w.confirm !== true && w.word.r - w.word.l >= AGAIN_WIDTH * (w.word.b - w.word.t);
+      const wide = w.word.r - w.word.l >= AGAIN_WIDTH * (w.word.b - w.word.t);
+      if (level === null && w.confirm === true && wide) {
+        // A word of weaker evidence that the reading among the others passed over (a clear
+        // "60%" on bed scan 35 reads as nothing at the usual size, nor alone up to 70 px of text
+        // height, and as "60%" from 80 px): read alone twice, at two larger sizes, its level
+        // counts when both give it.
+        const [alone] = await readWords(clean, [w], AGAIN_ACROSS);
+        const [larger] = await readWords(clean, [w], AGAIN_LARGEST);
+        if (alone !== null && alone !== undefined && alone === larger) take(w, alone);
+        continue;
+      }
+      const again = level !== null ? w.confirm === true : w.confirm !== true && wide;
       if (!again) {
         if (level !== null) take(w, level);
         continue;
