@@ -98,6 +98,18 @@ describe('a label printed on its head curve where the line found stops under its
   });
 });
 
+describe('a head label whose number the word finder lost', () => {
+  it('is read again from its left: every head curve of bed scan 50 is named from its label, nothing asks for the diameters', { timeout: 180_000 }, async () => {
+    // INVENTED bed scan 50, 240 dpi: "208 mm" printed on its line came out as the word "mm" alone
+    // (its digits run together with the line), and "260 mm" as "260m".
+    const { plan } = sheetGeometry(50, 'scan');
+    const found = await detect(textReaderNode(), 50);
+    expect(found.questions.some((q) => /give the diameters/.test(q))).toBe(false);
+    const heads = found.takeoff.traces.filter((t) => t.quantity === 'head').map((t) => t.diameter).sort((a, b) => (b ?? 0) - (a ?? 0));
+    expect(heads).toEqual([...plan.family.diameters].sort((a, b) => b - a));
+  });
+});
+
 describe('an iso label of weaker evidence that the reading among the others passes over', () => {
   it('is read alone, larger, twice: the "60%" of bed scan 35 gives its line a level', { timeout: 180_000 }, async () => {
     // INVENTED bed scan 35, 240 dpi: a grey "60%" printed on the end of an iso-line, taken as

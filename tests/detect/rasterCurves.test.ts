@@ -5,7 +5,7 @@
  * against the bed's exact truth at 15–95 % of each curve's flow range.
  */
 import { afterAll, describe, expect, it } from 'vitest';
-import { affinityHolds, chooseNames, frameWords, guidePlaces, joinPointWords, joinUnitWords, labelCandidates, labelUnits, misreadInchLabel, nearLine, piecesOf } from '../../src/digitize/detect/rasterCurves.ts';
+import { affinityHolds, chooseNames, frameWords, guidePlaces, joinPointWords, joinUnitWords, labelCandidates, labelUnits, misreadInchLabel, nearLine, piecesOf, pointLost } from '../../src/digitize/detect/rasterCurves.ts';
 import { alonePlaces, continuesCourse, frameLines, trackAt, type Track } from '../../src/digitize/detect/rasterLines.ts';
 import type { InkMap } from '../../src/digitize/detect/ink.ts';
 import { detectTakeoff } from '../../src/digitize/detect/detect.ts';
@@ -195,17 +195,26 @@ describe('labels touching their line', () => {
     expect(labelCandidates('147', '147')).toEqual([]);
     expect(labelCandidates('57', '57', 'in')).toEqual([57]);
   });
-  it('a number with a lone "m" is the frame\'s unit half read, in a frame labelled in mm or inches only', () => {
+  it('a number with pieces of an m after it is the frame\'s unit misread, taken only where other labels were read with their unit', () => {
     // INVENTED bed scans 50 ("260 mm" read "260m": its second m under the line) and 69 (7" read "7m").
     expect(labelCandidates('260m', '260', 'mm')).toEqual([260]);
     expect(labelCandidates('7m', '7', 'in')).toEqual([7]);
     expect(labelCandidates('260 m', '', 'mm')).toEqual([260]);
     // Without a frame unit read on other labels, a metre is not taken for anything.
     expect(labelCandidates('260m', '260')).toEqual([]);
-    expect(labelCandidates('7m', '7', 'rpm')).toEqual([]);
     // The digits reading must agree, and an inch value finer than a sixteenth is no label.
     expect(labelCandidates('260m', '280', 'mm')).toEqual([]);
     expect(labelCandidates('7.1m', '7.1', 'in')).toEqual([]);
+    // Up to three pieces of an m after the number are the unit misread (bed scan 38) …
+    expect(labelCandidates('175 mun', '175', 'mm')).toEqual([175]);
+    // … pieces of an m only, no more letters than a garbled "mm".
+    expect(labelCandidates('158 nt', '158', 'mm')).toEqual([]);
+    expect(labelCandidates('175 mmmm', '175', 'mm')).toEqual([]);
+  });
+  it('a decimal point read as a space is a point lost (bed scan 75: "14 25"" for 14.25")', () => {
+    expect(pointLost('14 25"', '1425', 'in')).toEqual([14.25]);
+    expect(pointLost('14 25', '1425', 'in')).toEqual([14.25]);
+    expect(pointLost('14 25', '1425', 'mm')).toEqual([]);
   });
 });
 

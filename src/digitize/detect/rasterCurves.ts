@@ -985,14 +985,18 @@ async function nameHeads(
     // letters alone is seldom a label: reading it again costs more than it gives) and that was not
     // read as a whole label (number and unit, both readings agreeing), nor as an iso label ("75 %";
     // "122%" is an inch label's mark misread).
+    // A unit word alone ("mm") on a head curve is a label whose number the word finder lost (run
+    // together with the line it is printed on): it is read again from three text heights to its left.
+    const unitAlone = (r: LabelReading) => /^(?:mm|in)$/i.test(trimSpecks(r.text));
     const again = words
       .map((w, i) => ({ w, i, r: readings[i] as LabelReading }))
-      .filter(({ w, i, r }) => (near[i] as { d: number }).d <= 1.5 * (w.word.b - w.word.t) && /\d/.test(r.text + r.digits) && isoLabel(r.text) === null && !(scanLabelOf(r.text)?.unit && labelCandidates(r.text, r.digits).length > 0));
+      .filter(({ w, i, r }) => (near[i] as { d: number }).d <= 1.5 * (w.word.b - w.word.t) && (/\d/.test(r.text + r.digits) || unitAlone(r)) && isoLabel(r.text) === null && !(scanLabelOf(r.text)?.unit && labelCandidates(r.text, r.digits).length > 0));
     const second: LabelReading[] = [];
     const reread: { word: Blot; i: number }[] = [];
     for (const plain of new Set(again.map((k) => k.w.plain))) {
       const here = again.filter((k) => k.w.plain === plain);
-      const picture = labelPicture(image, level, raw, plain, here[0]!.w.at, here.map((k) => k.w.word));
+      const boxes = here.map((k) => (unitAlone(k.r) ? { ...k.w.word, l: Math.max(k.w.at[0], k.w.word.l - 3 * (k.w.word.b - k.w.word.t)) } : k.w.word));
+      const picture = labelPicture(image, level, raw, plain, here[0]!.w.at, boxes);
       if (picture.crops.length !== here.length) continue;
       const asWords = await readCrops(picture.map, picture.crops, reader, 'words', 255, 64);
       const asDigits = await readCrops(picture.map, picture.crops, reader, 'digits', 255, 64);
@@ -1086,9 +1090,11 @@ function scanLabelOf(text: string): { value: number; unit: 'mm' | 'in' | 'rpm' |
   if (label?.unit) return label;
   const inches = misreadInchLabel(text);
   if (inches !== null) return { value: inches, unit: 'in' };
-  // "175 mn", "160 rm": a millimetre unit misread is no unit, and the number stands alone (it
-  // counts only where the frame's other labels were read whole, with their unit).
-  const unitLost = new RegExp(`^${SHEET_NUMBER}\\s+[mnr]{2,3}$`, 'i').exec(text);
+  // "175 mn", "160 rm", "175 mun", "260m" (the second m under the line the label is printed
+  // on), "7m" (an inch mark's strokes read as one letter): a unit misread into pieces of an m is
+  // no unit, and the number stands alone (it counts only where the frame's other labels were read
+  // whole, with their unit). No impeller is labelled in metres.
+  const unitLost = new RegExp(`^${SHEET_NUMBER}\\s*[mnru]{1,3}$`, 'i').exec(text);
   return label ?? (unitLost ? { value: sheetNumber(unitLost[1] as string), unit: null } : null);
 }
 
@@ -1231,17 +1237,6 @@ export function labelCandidates(text: string, digits: string, frameUnit: 'mm' | 
     const v = sheetNumber(percent[1] as string);
     return v > 0 && v < PERCENT_INCH_MAX && inSixteenths(v) ? [v] : [];
   }
-  // In a frame whose other labels were read in millimetres or inches, a number with a lone "m"
-  // after it is the frame's unit half read: "260m" for 260 mm (the second m under the line it is
-  // printed on), "7m" for 7" (the inch mark's strokes read as one letter). No impeller is
-  // labelled in metres. The digits reading must agree, and order and affinity still pick the set.
-  const lone = frameUnit === 'mm' || frameUnit === 'in' ? new RegExp(`^(${SHEET_NUMBER})\\s*m$`).exec(trimSpecks(text)) : null;
-  if (lone) {
-    const v = sheetNumber(lone[1] as string);
-    const number = /\d+(?:[.,]\d+)?/.exec(digits.replace(/\s+/g, ''))?.[0];
-    if (number !== undefined && sheetNumber(number) !== v) return [];
-    return v > 0 && (frameUnit === 'mm' || (v <= MAX_INCHES && inSixteenths(v))) ? [v] : [];
-  }
   const read = scanLabelOf(text);
   let label = read && read.unit === null && frameUnit !== null ? { value: read.value, unit: frameUnit } : read;
   // In a frame labelled in inches, a whole number over 60 ending in 7 is a label whose inch mark was
@@ -1275,7 +1270,8 @@ const MAX_INCHES = 60;
  * the digits reading has the same digits (or none). The naming still needs order and affinity to pick one set, and only one.
  */
 export function pointLost(text: string, digits: string, frameUnit: 'mm' | 'in' | 'rpm' | null): number[] {
-  const t = trimSpecks(text.replace(/[”“″]/g, '"'));
+  // A point read as a space ("14 25"" for 14.25") is a point lost too.
+  const t = trimSpecks(text.replace(/[”“″]/g, '"')).replace(/(\d)\s+(?=\d)/g, '$1');
   const m = /^(\d{2,5})\s*([°º*"]|in)?$/.exec(t);
   if (!m || (m[2] === undefined && frameUnit !== 'in')) return [];
   const read = m[1] as string;
