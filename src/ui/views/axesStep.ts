@@ -59,7 +59,7 @@ function residualLine(state: CalibrationState | undefined, panel: PanelDraft): H
   const c = state.calibration;
   const tone = c.maxPercentOfSpan > 0.3 || c.residualKind === 'none' || c.residualKind === 'estimated' ? 'warn' : 'good';
   const kind = { fit: 'expected over the plot', 'leave-one-out': 'expected over the plot, each anchor checked left out', estimated: 'expected over the plot, cannot be checked', none: 'expected over the plot, cannot be checked' }[c.residualKind] +
-    (panel.anchor_bias ? `, with ${num(panel.anchor_bias, 2)} sheet units the found anchors may share` : '');
+    (panel.anchor_bias ? `, including a placement error of ${num(panel.anchor_bias, 2)} sheet units that the found anchors may share` : '');
   return h('p', { class: `cal ${tone}`, role: 'status' },
     `${c.projection === 'projective' ? 'Projective' : 'Affine'} map. Residual ${num(c.maxPercentOfSpan, 2)} % of span (${kind}), ${num(c.maxSheet, 2)} sheet units`,
     c.warnings.length ? h('span', { class: 'cal-warn' }, ` — ${c.warnings[0]}`) : tone === 'good' ? ' — good' : '');
