@@ -9,7 +9,7 @@ import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { inkMap, levelInk, levelOf, pageAngle } from '../../src/digitize/detect/ink.ts';
 import { findRasterFrames, framesTurn, gridLines, horizontalRules, transpose, type Rule } from '../../src/digitize/detect/rasterFrames.ts';
-import { findRasterPanels, knownFlowUnit, RASTER_ANCHOR_BIAS } from '../../src/digitize/detect/rasterPanels.ts';
+import { findRasterPanels, flowUnitOfTitle, knownFlowUnit, RASTER_ANCHOR_BIAS } from '../../src/digitize/detect/rasterPanels.ts';
 import { calibratePanels } from '../../src/digitize/calibration.ts';
 import { wordsOf, type TextReader } from '../../src/digitize/detect/rasterText.ts';
 import { decode } from '../../scripts/randomSheets/camera.ts';
@@ -19,6 +19,7 @@ import { closeTextReaderNode, textReaderNode } from '../../src/digitize/loaders/
 import type { RasterImage } from '../../src/digitize/raster.ts';
 import { detectTakeoff } from '../../src/digitize/detect/detect.ts';
 import { imageSheet } from '../../src/digitize/loaders/imageSheet.ts';
+import { loadImageSheetNode } from '../../src/digitize/loaders/imageNode.ts';
 import { parseTakeoffToDetect } from '../../src/model/takeoff.ts';
 
 afterAll(() => closeTextReaderNode());
@@ -232,6 +233,17 @@ describe('the flow title of a scan', () => {
     expect(knownFlowUnit('Flow Q (m3/h)')).toBe(true);
     expect(knownFlowUnit('Flow Q')).toBe(false);
   });
+
+  it('a flow title whose "m³/h" lost its superscript or slash to the reader still names m³/h; nothing else is taken for it', () => {
+    // The committed INVENTED sample scan's "Flow (m³/h)" reads "Flow (mh)".
+    for (const t of ['Flow (mh)', 'Flow Q (m3h)', 'Flow (m/h)', 'Flow (mah)', 'Flow (m³/h)', 'Flow (m3/hr)']) expect(flowUnitOfTitle(t)).toBe('m3/h');
+    expect(flowUnitOfTitle('Flow (gpm)')).toBe('gpm');
+    expect(flowUnitOfTitle('Flow (m3/min)')).toBe('m3/min');
+    expect(flowUnitOfTitle('Flow (mm)')).toBe('mm');
+    expect(knownFlowUnit('Flow (mm)')).toBe(false);
+    expect(knownFlowUnit('Flow (mh)')).toBe(true);
+    expect(flowUnitOfTitle('Flow')).toBeNull();
+  });
 });
 
 describe('the committed INVENTED sample scan with its axis titles above the frames', () => {
@@ -242,8 +254,12 @@ describe('the committed INVENTED sample scan with its axis titles above the fram
     // "Head (m)", "Efficiency (%)", "Shaft power (kW)" and "NPSHr (m)" stand level over each frame's top left corner.
     expect(found.panels.map((p) => p.quantity)).toEqual(['head', 'efficiency', 'power', 'npshr']);
     expect(found.panels.map((p) => p.yUnit)).toEqual(['m', '%', 'kW', 'm']);
-    // Under the flow labels of the upper panels stands the next panel's title, which names no flow unit.
-    for (const p of found.panels.slice(0, 3)) expect(p.flowTitle).toBeNull();
+    // Under the flow labels of the upper panels stands the next panel's title, which names no flow
+    // unit: they take the flow title printed under the lowest panel ("Flow (m³/h)", read "Flow (mh)").
+    const lowest = found.panels[3]!.flowTitle;
+    expect(lowest).not.toBeNull();
+    expect(knownFlowUnit(lowest ?? '')).toBe(true);
+    for (const p of found.panels.slice(0, 3)) expect(p.flowTitle).toBe(lowest);
     // Each panel against the hand-placed anchors of the committed take-off: within 0.5 % of span.
     const takeoff = JSON.parse(readFileSync(join(root, 'si-panels-colour-scan.takeoff.json'), 'utf8')) as { panels: { anchors: { at: [number, number]; x?: number; y?: number }[] }[] };
     found.panels.forEach((p, i) => {
@@ -257,6 +273,23 @@ describe('the committed INVENTED sample scan with its axis titles above the fram
         if (a.y !== undefined) expect((100 * Math.abs(y - a.y)) / ySpan, `${p.id} y at ${a.at}`).toBeLessThan(0.5);
       }
     });
+  });
+
+  it('names its head curves from their labels and reads its flow unit, asking neither', { timeout: 120_000 }, async () => {
+    // "330 mm" stands past the top curve's end with its digits blurred into one blot (dropped as
+    // a word, its "mm" naming nothing), and "Flow (m³/h)" reads "Flow (mh)": the sheet had asked
+    // for the four diameters and for the flow unit.
+    const root = join(import.meta.dirname, '..', '..', 'samples', 'sheets');
+    const jpeg = readFileSync(join(root, 'si-panels-colour-scan.jpg'));
+    const sheet = await loadImageSheetNode(new Uint8Array(jpeg), { name: 'si-panels-colour-scan.jpg' });
+    const raw = JSON.parse(readFileSync(join(root, 'si-panels-colour-scan.takeoff.json'), 'utf8')) as Record<string, unknown>;
+    delete raw.panels;
+    delete raw.traces;
+    const found = await detectTakeoff(parseTakeoffToDetect(raw), raw, sheet, { reader: textReaderNode() });
+    expect(found.questions.filter((q) => /diameters|flow unit|flow title/.test(q))).toEqual([]);
+    const heads = found.takeoff.traces.filter((t) => t.quantity === 'head').map((t) => t.diameter);
+    expect(heads.sort((a, b) => (b ?? 0) - (a ?? 0))).toEqual([330, 310, 290, 270]);
+    for (const p of found.takeoff.panels) expect(p.units?.x).toBe('m3/h');
   });
 });
 

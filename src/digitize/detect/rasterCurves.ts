@@ -183,6 +183,7 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     }
     // Iso-lines cross the head curves steeply: the branch of one that the column-by-column finder
     // cannot follow is looked for on the ink turned over its diagonal.
+    let joinedLabels: Blot[] = [];
     if (head) {
       const steep = steepLines(map, frame, { ceiling: 0.3 * page.strong, grid, holes }, tracks);
       const frameT = transposeBox(frame);
@@ -201,9 +202,13 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
       const overlaps = (a: Blot, c: Blot) => a.l < c.r && c.l < a.r && a.t < c.b && c.t < a.b;
       const joined = runTogetherWords(labels.clean, page.strong, page.h).filter((w) => !everyWord.some((k) => overlaps(k, w) && k.r - k.l >= w.r - w.l));
       for (const word of joined) isoWordsAt.push({ word, clean: labels.clean, at: labels.at, confirm: true });
+      // Such a word by a head line is read for the curves' names too: a label's digits blurred
+      // into one blot ("330" on the committed sample scan, 30 px wide for 14 px of text) are
+      // dropped by frameWords, and its unit word beside it alone names nothing.
+      joinedLabels = joined.filter((w) => nearLine({ l: w.l + labels.at[0], t: w.t + labels.at[1], r: w.r + labels.at[0], b: w.b + labels.at[1] }, bare));
       options.note?.(`${steep.length} steep line${steep.length === 1 ? '' : 's'} found on the turned ink of the head frame${joined.length > 0 ? `; ${joined.length} word${joined.length === 1 ? '' : 's'} of glyphs run together looked at for iso labels` : ''}`);
     }
-    if (head) labelsAt.push(...labels.words.map((word) => ({ word, frame, clean: labels.clean, plain: printed.clean, at: labels.at })));
+    if (head) labelsAt.push(...[...labels.words, ...joinedLabels].map((word) => ({ word, frame, clean: labels.clean, plain: printed.clean, at: labels.at })));
   }
 
   // A head line broken by a label printed on it (or cut where the finder ran on along an iso-line

@@ -423,7 +423,7 @@ export async function findRasterPanels(image: RasterImage, reader: TextReader, p
       title: title || null,
       flowTitle: flowTitle || null,
       yUnit: title ? unitOfTitle(title) : null,
-      xUnit: flowTitle ? unitOfTitle(flowTitle) : null,
+      xUnit: flowTitle ? flowUnitOfTitle(flowTitle) : null,
       confidence: Math.round(confidence * 100) / 100,
     };
     panels.push(panel);
@@ -496,9 +496,21 @@ export function valueAxisTitle(title: string): boolean {
   return false;
 }
 
+/**
+ * The flow unit a scan's flow title names in brackets; "m3/h" where the reader lost the small
+ * superscript 3 or the slash of "m³/h", or read the 3 as a mark or a letter ("(mh)", "(m3h)",
+ * "(m/h)", "(mah)"): under a flow axis no other unit reads so (the committed sample scan's
+ * "Flow (m³/h)" reads "Flow (mh)"). Null when the title has no bracketed unit.
+ */
+export function flowUnitOfTitle(title: string): string | null {
+  const token = unitOfTitle(title);
+  if (token === null) return null;
+  return /^m\s*[3³°'"*?a]?\s*[/|l1]?\s*hr?$/i.test(token.trim()) ? 'm3/h' : token;
+}
+
 /** True when a title names, in brackets, a flow unit this tool knows ("Flow Q (m3/h)"). */
 export function knownFlowUnit(title: string): boolean {
-  const token = unitOfTitle(title);
+  const token = flowUnitOfTitle(title);
   if (token === null) return false;
   try {
     parseUnit('flow', token);
