@@ -22,7 +22,7 @@
  */
 import { dataPoint, sheetPoint, type DataPoint, type SheetPoint, type SheetCoordinates, type DataCoordinates } from './points.ts';
 import { axisTransform, CalibrationError, type AxisTransform } from './axis.ts';
-import type { AxisScaleType } from '../model/takeoff.ts';
+import type { AxisScaleType, Panel } from '../model/takeoff.ts';
 import { applyHomography, fitHomography, invertHomography, threeOnALine, type H9 } from './homography.ts';
 import { principalAxis } from './polyline.ts';
 
@@ -305,15 +305,8 @@ export function borrowPerspective(panels: readonly { id: string; anchors: readon
   return out;
 }
 
-/** What calibrating a take-off panel reads of it. */
-export interface PanelToCalibrate {
-  id: string;
-  x_scale: AxisScaleType;
-  y_scale: AxisScaleType;
-  projection?: 'auto' | Projection | undefined;
-  frame?: readonly [number, number, number, number] | undefined;
-  anchor_bias?: number | undefined;
-}
+/** What calibrating a take-off panel reads of it: the record's own fields. */
+export type PanelToCalibrate = Pick<Panel, 'id' | 'x_scale' | 'y_scale' | 'projection' | 'frame' | 'anchor_bias'>;
 
 /** The calibration options of a take-off panel: its scales, name, projection, frame and the error its anchors share. */
 export function panelCalibrateOptions(panel: PanelToCalibrate): CalibrateOptions {

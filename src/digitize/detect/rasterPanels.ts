@@ -370,9 +370,10 @@ export async function findRasterPanels(image: RasterImage, reader: TextReader, p
     }
     const disagreed = [...readTwice(x.inliers, xa.from), ...readTwice(y.inliers, ya.from)];
     const anchors = crossings(x.inliers, y.inliers, level, image.scale);
+    const anchorBias = RASTER_ANCHOR_BIAS / image.scale;
     let calibration;
     try {
-      calibration = calibrate(anchors, { xScale: x.scale, yScale: y.scale, anchorBias: RASTER_ANCHOR_BIAS / image.scale });
+      calibration = calibrate(anchors, { xScale: x.scale, yScale: y.scale, anchorBias });
     } catch {
       questions.push(`The frame at ${where} could not be calibrated from its tick labels; place its anchors by hand.`);
       continue;
@@ -396,7 +397,7 @@ export async function findRasterPanels(image: RasterImage, reader: TextReader, p
       xScale: x.scale,
       yScale: y.scale,
       calibration,
-      anchorBias: RASTER_ANCHOR_BIAS / image.scale,
+      anchorBias,
     };
     const residual = calibration.maxPercentOfSpan;
     let confidence = Math.min(1, 0.4 + 0.08 * Math.min(x.inliers.length, y.inliers.length)) * (residual <= 0.1 ? 1 : residual <= 0.3 ? 0.8 : 0.5);
