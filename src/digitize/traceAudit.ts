@@ -69,7 +69,7 @@ export const NPSHR_HEAD_END_SHARE = 0.95;
  * draw NPSHr from mid-range only.
  */
 export const NPSHR_START_SHARE = 0.45;
-/** A power or efficiency trace starting later than its own head trace by more than this share of the head trace's end flow lost its low-flow stretch. */
+/** A power trace starting later than its own head trace by more than this share of the head trace's end flow lost its low-flow stretch. */
 export const START_BEHIND_HEAD = 0.1;
 /** A curve starting later than its neighbours by more than this share of its end flow is cut at its start. */
 export const START_LATE_SHARE = 0.15;
@@ -211,18 +211,20 @@ export function auditTraces(traces: readonly AuditedTrace[], flowText: (q: numbe
         figures: { flow_from: q0, head_to: headEnd },
       });
     }
-    // Power and efficiency are drawn from shut-off, as their head curve is (common practice): a
-    // trace starting well after its own head trace starts lost its low-flow stretch.
-    const heads = (t.quantity === 'power' || t.quantity === 'efficiency') ? mine.filter((o) => o.quantity === 'head') : [];
+    // Power is drawn from shut-off, as its head curve is (common practice: the shut-off power is
+    // read for the motor and for starting): a power trace starting well after its own head trace
+    // starts lost its low-flow stretch. Efficiency is not held to it: sheets often start their
+    // efficiency curves part way along the flow axis (the committed sample scans do).
+    const heads = t.quantity === 'power' ? mine.filter((o) => o.quantity === 'head') : [];
     if (heads.length > 0) {
       const headFrom = Math.min(...heads.map((o) => range(o)[0]));
       const headTo = Math.max(...heads.map((o) => range(o)[1]));
       if (q0 > headFrom + START_BEHIND_HEAD * headTo) {
         out.push({
-          code: 'takeoff.start-late',
+          code: 'takeoff.power-start-late',
           severity: 'warn',
           trace: t.id,
-          message: `Trace ${t.id} (${t.describe}) starts at ${flowText(q0)}, while the head trace of the same ${t.diameter !== undefined ? 'diameter' : 'speed'} starts at ${flowText(headFrom)}, and a ${t.quantity === 'power' ? 'power' : 'efficiency'} curve is drawn from shut-off as its head curve is; below that flow it is extrapolated. Add a guide near the low-flow end of this line, or give its points; if the sheet starts it there, give its points to confirm.`,
+          message: `Trace ${t.id} (${t.describe}) starts at ${flowText(q0)}, while the head trace of the same ${t.diameter !== undefined ? 'diameter' : 'speed'} starts at ${flowText(headFrom)}, and a power curve is drawn from shut-off as its head curve is; below that flow it is extrapolated. Add a guide near the low-flow end of this line, or give its points; if the sheet starts it there, give its points to confirm.`,
           figures: { flow_from: q0, head_from: headFrom },
         });
       }

@@ -172,18 +172,20 @@ describe('trace audit', () => {
     expect(auditTraces([...heads, trace('n370', 'npshr', 370, 0.04, 0.1), trace('n330', 'npshr', 330, 0.035, 0.089)], text)).toEqual([]);
   });
 
-  it('warns of a power or efficiency trace starting well after its own head trace, whose neighbours start late alike', () => {
+  it('warns of a power trace starting well after its own head trace, whose neighbours start late alike (not of efficiency, often drawn from part way)', () => {
     // Invented: heads drawn from shut-off; every power line faded below about 14 % of its end
     // (random bed fresh seed 875: a dotted power line followed from one guide, 1.5 % of span off, said nothing).
     const heads = [trace('h370', 'head', 370, 0, 0.1), trace('h330', 'head', 330, 0, 0.089)];
     const found = auditTraces([...heads, trace('p370', 'power', 370, 0.014, 0.1), trace('p330', 'power', 330, 0.012, 0.089)], text);
     expect(found.map((f) => [f.code, f.severity, f.trace])).toEqual([
-      ['takeoff.start-late', 'warn', 'p370'],
-      ['takeoff.start-late', 'warn', 'p330'],
+      ['takeoff.power-start-late', 'warn', 'p370'],
+      ['takeoff.power-start-late', 'warn', 'p330'],
     ]);
     expect(found[0]?.message).toMatch(/starts at 0\.014 m³\/s, while the head trace of the same diameter starts at 0\.000 m³\/s, and a power curve is drawn from shut-off/);
     // Within a tenth of the head's end flow of the head's own start: no warning.
     expect(auditTraces([...heads, trace('p370', 'power', 370, 0.009, 0.1), trace('p330', 'power', 330, 0.008, 0.089)], text)).toEqual([]);
+    // Efficiency curves starting as late: no warning.
+    expect(auditTraces([...heads, trace('e370', 'efficiency', 370, 0.014, 0.1), trace('e330', 'efficiency', 330, 0.012, 0.089)], text)).toEqual([]);
   });
 
   it('gives a speed family\'s traces the per-trace checks, scaling coverage by speed (Q ∝ n)', () => {
