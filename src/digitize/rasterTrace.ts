@@ -572,7 +572,8 @@ export function traceRaster(original: RasterImage, guides: readonly SheetPoint[]
   const room = candidates.map((c) => (c ? clearance(image, c.style, c.centre, c.axis, counter) : 0));
   // Room counts only where the ink looks like one stroke at all (not a blob of text or a
   // crossing) and no wider than the thinnest line measured under a guide (not lines run together).
-  const thinnest = Math.min(...candidates.map((c) => c?.style.width ?? Infinity));
+  const measured = candidates.map((c) => c?.style.width ?? Infinity);
+  const thinnest = Math.min(...measured);
   // That thinnest is taken among the guides where the line has room, is one stroke and is not
   // far wider than the middle width measured (a label), when any is so: a width measured where
   // other ink touches the line may come out far too thin (a curve drawn over a grid line loses
@@ -580,7 +581,6 @@ export function traceRaster(original: RasterImage, guides: readonly SheetPoint[]
   // bunch (speed bench seed 2, careful guides: 1.16 px on a grid line against 2.1 px where the
   // line stands alone; the thin model followed the efficiency line onto its neighbours, 3.5
   // points off).
-  const measured = candidates.map((c) => c?.style.width ?? Infinity);
   const finite = measured.filter(Number.isFinite).sort((a, b) => a - b);
   const middle = finite[Math.floor((finite.length - 1) / 2)] ?? Infinity;
   const alone = candidates.map((c, j) => c !== undefined && (room[j] as number) > BUNCH_CLEARANCE && c.isotropy <= SOLO_ISOTROPY && c.style.width <= SOLO_WIDTH * middle);

@@ -167,7 +167,10 @@ export function auditTraces(traces: readonly AuditedTrace[], flowText: (q: numbe
     const expectedStart = starts.length > 0 ? Math.min(...starts) : q0 / q1;
     const short = q1 < END_SHORT_SHARE * expectedEnd;
     // An NPSHr trace held against its own head trace, closer than against the family.
-    const headEnd = t.quantity === 'npshr' ? Math.max(0, ...mine.map((o) => range(o)[1])) : 0;
+    // The head traces of the same member, and how far they run.
+    const ownHeads = mine.filter((o) => o.quantity === 'head');
+    const ownHeadEnd = Math.max(0, ...ownHeads.map((o) => range(o)[1]));
+    const headEnd = t.quantity === 'npshr' ? ownHeadEnd : 0;
     const shortOfHead = !short && headEnd > 0 && q1 < NPSHR_HEAD_END_SHARE * headEnd;
     const late = q0 / q1 > expectedStart + START_LATE_SHARE;
     const axis = t.axisFlow ? Math.abs(t.axisFlow[1] - t.axisFlow[0]) : 0;
@@ -215,11 +218,9 @@ export function auditTraces(traces: readonly AuditedTrace[], flowText: (q: numbe
     // read for the motor and for starting): a power trace starting well after its own head trace
     // starts lost its low-flow stretch. Efficiency is not held to it: sheets often start their
     // efficiency curves part way along the flow axis (the committed sample scans do).
-    const heads = t.quantity === 'power' ? mine.filter((o) => o.quantity === 'head') : [];
-    if (heads.length > 0) {
-      const headFrom = Math.min(...heads.map((o) => range(o)[0]));
-      const headTo = Math.max(...heads.map((o) => range(o)[1]));
-      if (q0 > headFrom + START_BEHIND_HEAD * headTo) {
+    if (t.quantity === 'power' && ownHeads.length > 0) {
+      const headFrom = Math.min(...ownHeads.map((o) => range(o)[0]));
+      if (q0 > headFrom + START_BEHIND_HEAD * ownHeadEnd) {
         out.push({
           code: 'takeoff.power-start-late',
           severity: 'warn',
