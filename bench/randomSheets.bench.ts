@@ -3,7 +3,7 @@
  * styles, taken through a scanner or a hand-held camera, and read back by a take-off as a
  * hurried person makes it. For each quantity it prints p50, p95 and max of the worst error
  * over 15–95 % of each curve's flow range (% of axis span; efficiency in points), the share
- * of curves flagged, wrong (beyond 1 % of span or 2 points, or missing) and wrong but not
+ * of curves flagged, wrong (beyond 1 % of span, 1.5 points of efficiency from curves or 2 from iso-lines, or missing) and wrong but not
  * flagged, the figure that matters. Photos also compare the calibration residual shown with
  * the real error at the anchors' panel.
  *

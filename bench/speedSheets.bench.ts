@@ -4,7 +4,7 @@
  * as a hurried person takes it (labelled by speed) and scored against the exact affinity-scaled
  * family with the random bed's own scorer. It prints, per kind and quantity, the worst error of
  * each curve over 15–95 % of its flow range (% of span; efficiency in points), the share
- * flagged, wrong (beyond 1 % of span or 2 points, or missing) and wrong but not flagged.
+ * flagged, wrong (beyond 1 % of span, 1.5 points of efficiency from curves or 2 from iso-lines, or missing) and wrong but not flagged.
  *
  *   SPEED_SHEETS=10 SPEED_SEED=1 npm run bench -- speedSheets
  *

@@ -11,9 +11,19 @@ import type { CurveSet, Finding } from '../../src/model/curveset.ts';
 import { exact, siFactor, type PumpFamily } from './pumpFamily.ts';
 import type { TruthCurve } from './randomSheet.ts';
 
-/** Tolerances for "wrong": 1 % of axis span for a curve, 2 points of efficiency (the acceptance maxima). */
+/**
+ * Tolerances for "wrong" (the acceptance maxima): 1 % of axis span for a curve; efficiency within
+ * 1.5 points where it is read from its own curves, 2 points where it comes from iso-lines.
+ */
 export const WRONG_PERCENT = 1;
-export const WRONG_POINTS = 2;
+export const WRONG_POINTS = 1.5;
+export const WRONG_POINTS_ISO = 2;
+
+/** The tolerance a curve of this quantity and source is held to, % of span or points. */
+export function wrongLimit(curve: { quantity: TruthCurve['quantity']; source: TruthCurve['source'] }): number {
+  if (curve.quantity !== 'efficiency') return WRONG_PERCENT;
+  return curve.source === 'iso' ? WRONG_POINTS_ISO : WRONG_POINTS;
+}
 
 export interface CurveScore {
   id: string;
@@ -72,7 +82,7 @@ export function scoreReplay(family: PumpFamily, truth: readonly TruthCurve[], se
       }
     }
     const flags = flagsFor(set.findings, curve, dM);
-    const limit = curve.quantity === 'efficiency' ? WRONG_POINTS : WRONG_PERCENT;
+    const limit = wrongLimit(curve);
     return { id, quantity: curve.quantity, source: curve.source, error, flagged: flags.length > 0, wrong: !(error <= limit), flags };
   });
 }

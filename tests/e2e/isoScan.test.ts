@@ -9,7 +9,7 @@
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { applyH } from '../../scripts/randomSheets/camera.ts';
-import { WRONG_PERCENT, WRONG_POINTS } from '../../scripts/randomSheets/score.ts';
+import { wrongLimit } from '../../scripts/randomSheets/score.ts';
 import { ARTIFACTS } from './harness.ts';
 import { bedSession } from './randomBedFlow.ts';
 
@@ -33,7 +33,7 @@ describe('the take-off workbench on an iso-line scan with guides on the crossing
     const iso = run.scores.filter((s) => s.source === 'iso');
     expect(iso.length).toBeGreaterThan(0);
     for (const s of run.scores) {
-      const limit = s.quantity === 'efficiency' ? WRONG_POINTS : WRONG_PERCENT;
+      const limit = wrongLimit(s);
       if (!s.flagged) expect(s.error, `${s.id} is off by ${s.error} and no finding names it`).toBeLessThanOrEqual(limit);
     }
     // An iso-line followed onto a head curve would give a diameter more than two crossings per level.
