@@ -271,7 +271,8 @@ export function findRuns(values: Float64Array, n: number, spacing: number, thres
 /**
  * Direction of the ink around (cx, cy): the principal axis of the membership-weighted second
  * moments within `radius` pixels. Returns the unit direction, the ink's centroid and the ratio
- * of the two eigenvalues (near 0 for a clean line, near 1 for a blob or a crossing).
+ * of the two eigenvalues (near 0 for a clean line, near 1 for a blob or a crossing). With `band`,
+ * only the ink within `band.half` pixels of the line through (cx, cy) along `band.dir` counts.
  */
 export function inkAxis(
   image: RasterImage,
@@ -280,8 +281,12 @@ export function inkAxis(
   cy: number,
   radius: number,
   threshold: number,
+  band?: { dir: readonly [number, number]; half: number },
 ): { dx: number; dy: number; mx: number; my: number; mass: number; isotropy: number } | undefined {
   const { width, height, data } = image;
+  const bx = band ? -band.dir[1] : 0;
+  const by = band ? band.dir[0] : 0;
+  const bandHalf = band ? band.half : Infinity;
   const x0 = Math.max(0, Math.floor(cx - radius));
   const y0 = Math.max(0, Math.floor(cy - radius));
   const x1 = Math.min(width - 1, Math.ceil(cx + radius));
@@ -298,6 +303,7 @@ export function inkAxis(
     for (let x = x0; x <= x1; x++) {
       const px = x + 0.5 - cx;
       if (px * px + py * py > r2) continue;
+      if (band && Math.abs(px * bx + py * by) > bandHalf) continue;
       const i = (y * width + x) * 4;
       const m = membership(model, data[i] as number, data[i + 1] as number, data[i + 2] as number);
       if (m < threshold) continue;

@@ -152,7 +152,7 @@ function greyInkAround(image: RasterImage, grey: InkModel, sample: Rgb, guide: P
 }
 
 /** Measures the line under a guide: paper and ink colour, line width, centre and direction. */
-function acquire(image: RasterImage, guide: Px, search: number, options: RasterTraceOptions): { style: LineStyle; centre: Px; axis: Px; isotropy: number } | undefined {
+function acquire(image: RasterImage, guide: Px, search: number, options: RasterTraceOptions, ownBand = false): { style: LineStyle; centre: Px; axis: Px; isotropy: number } | undefined {
   const paper = estimatePaper(image, guide[0], guide[1], Math.max(2 * search, 16));
   let colour: Rgb;
   if (options.colour) {
@@ -250,7 +250,7 @@ function acquire(image: RasterImage, guide: Px, search: number, options: RasterT
   // dotted lines for solid (their gaps, blurred on photos, do not read as paper). On the random
   // bed (seeds 1–200) holding it to these lines alone makes 14 curves right that were wrong and
   // 10 wrong that were right, all flagged (31.2 → 31.0 % of curves wrong).
-  const pattern = brokenLine(image, model, measured.centre, measured.width);
+  const pattern = brokenLine(image, model, measured.centre, measured.width, ownBand ? measured.axis : undefined);
   const broken = pattern && (!onGrid || brokenWhereUncovered(image, model, measured.centre, measured.width, pattern.axis, THRESHOLD) !== undefined) ? pattern : undefined;
   if (broken) {
     // A dash or a dot alone says little about the line's direction or width: both are measured
@@ -267,17 +267,29 @@ function acquire(image: RasterImage, guide: Px, search: number, options: RasterT
   return { style: { model, width, threshold: THRESHOLD, massRange }, centre: measured.centre, axis: measured.axis, isotropy: measured.isotropy };
 }
 
+/** Largest isotropy of the ink around a guide that a dash pattern is looked for in. */
+const BROKEN_ISOTROPY = 0.3;
+
+/** Pixels beyond a line's width, either side, of the band its own ink is looked for in. */
+const BAND_SLACK_PX = 2;
+
 /**
  * Whether the line through `centre` is dashed or dotted, and if so the reach along the line
  * that spans its gaps (half the longest gap plus a pixel). The line's direction comes from
  * the ink's principal axis over a few dash periods; along it, each position counts as ink when
  * any sample across the line's width is line-coloured. Two or more gaps between ink, none
  * longer than a few line widths, make a broken line; a single gap is a label or a crossing.
+ * With `ownBand` (the line's direction at the guide), a window too isotropic is looked at again
+ * in the line's own band alone, and a line whose ink never drops to paper for its beads.
  */
-function brokenLine(image: RasterImage, model: InkModel, centre: Px, width: number): { reach: number; axis: Px; isotropy: number } | undefined {
+function brokenLine(image: RasterImage, model: InkModel, centre: Px, width: number, ownBand?: Px): { reach: number; axis: Px; isotropy: number } | undefined {
   const radius = Math.max(14, 6 * width);
-  const axis = inkAxis(image, model, centre[0], centre[1], radius, THRESHOLD);
-  if (!axis || axis.isotropy > 0.3) return undefined;
+  const wide = inkAxis(image, model, centre[0], centre[1], radius, THRESHOLD);
+  // Lines drawn parallel a few widths away (a family of dashed curves) spread the ink across the
+  // window and make it look isotropic: the line's own band (along its direction measured close
+  // to the guide) is looked at again alone.
+  const axis = ownBand && (!wide || wide.isotropy > BROKEN_ISOTROPY) ? inkAxis(image, model, centre[0], centre[1], radius, THRESHOLD, { dir: ownBand, half: width + BAND_SLACK_PX }) : wide;
+  if (!axis || axis.isotropy > BROKEN_ISOTROPY) return undefined;
   const length = Math.max(40, 16 * width);
   const spacing = 0.5;
   const across = Math.max(1.5, 0.5 * width + 1);
@@ -294,9 +306,34 @@ function brokenLine(image: RasterImage, model: InkModel, centre: Px, width: numb
     }
     on.push(ink);
   }
-  const reach = dashReach(on, spacing, width);
+  const reach = dashReach(on, spacing, width) ?? (ownBand ? beadReach(image, model, centre, [axis.dx, axis.dy], length, spacing, across, width) : undefined);
   if (reach === undefined) return undefined;
   return { reach, axis: [axis.dx, axis.dy], isotropy: axis.isotropy };
+}
+
+/** Least spread between the strongest and the weakest tenth of a line's ink along it that makes it beaded. */
+const BEAD_DEPTH = 0.3;
+
+/**
+ * The reach of a dotted line whose dots the scan blurred together: along the line its ink never
+ * drops to paper, but it swells at each dot and thins between them, regularly. Each position
+ * along the line counts as a dot where the strongest membership across it is above the middle
+ * of the weakest and the strongest tenth, and the dots' pattern is read as a dash pattern's.
+ */
+function beadReach(image: RasterImage, model: InkModel, centre: Px, axis: Px, length: number, spacing: number, across: number, width: number): number | undefined {
+  const peaks: number[] = [];
+  const offsets = centreFirst(across);
+  for (let t = -length; t <= length; t += spacing) {
+    let peak = 0;
+    for (const s of offsets) peak = Math.max(peak, membershipAt(image, model, centre[0] + axis[0] * t - axis[1] * s, centre[1] + axis[1] * t + axis[0] * s));
+    peaks.push(peak);
+  }
+  const sorted = [...peaks].sort((a, b) => a - b);
+  const low = sorted[Math.floor(0.1 * (sorted.length - 1))] as number;
+  const high = sorted[Math.floor(0.9 * (sorted.length - 1))] as number;
+  if (high - low < BEAD_DEPTH) return undefined;
+  const middle = 0.5 * (low + high);
+  return dashReach(peaks.map((v) => v >= middle), spacing, width);
 }
 
 /** The nearest pixel centre to `p` whose membership is at least one half, within `radius`. */
@@ -561,6 +598,52 @@ export function traceRaster(original: RasterImage, guides: readonly SheetPoint[]
   // The printed grid is taken out of the frame first (gridLines.ts): a thin curve is then not
   // taken for a grid line where it runs along or across one. Without a frame the grid stays.
   const image = f ? withoutGrid(original, [f[0] * original.scale - GRID_MARGIN_PX, f[1] * original.scale - GRID_MARGIN_PX, f[2] * original.scale + GRID_MARGIN_PX, f[3] * original.scale + GRID_MARGIN_PX]) : original;
+  const first = traceOn(image, guides, options, false);
+  const span = polylineLength(first.points) * image.scale;
+  const bare = first.points.length <= NOTHING_FOLLOWED;
+  if (first.line.dashed || (!bare && span >= Math.max(LITTLE_FOLLOWED_PX, LITTLE_FOLLOWED_WIDTHS * first.line.widthPx))) return first;
+  // Next to nothing followed from the guides (no point but the guides', or a short stretch), with
+  // a solid model: a dashed or dotted line between
+  // others drawn parallel to it a few widths away was taken for solid (their ink made the window
+  // around the guide look isotropic, and no dash pattern was looked for), or a dotted line whose
+  // dots the scan blurred together (no gap shows paper), and a solid model loses it at its first
+  // gap or thinning. Its pattern is looked for again in the line's own band, and the second
+  // trace is kept when it follows clearly farther (random bed seed 103: a dashed black power
+  // line between two others 13 px away, clicked once, came back empty).
+  const again = traceOn(image, guides, options, true);
+  const kept = again.line.dashed && again.line.widthPx <= Math.max(RETRY_WIDTH * first.line.widthPx, RETRY_WIDTH_PX) && (bare ? again.points.length > first.points.length : polylineLength(again.points) * image.scale > FARTHER * span);
+  return kept ? { ...again, pixelsRead: first.pixelsRead + again.pixelsRead } : { ...first, pixelsRead: first.pixelsRead + again.pixelsRead };
+}
+
+/** Most points a trace can hold and still have followed nothing from its guides (its guides joined straight). */
+const NOTHING_FOLLOWED = 2;
+
+/** A solid trace shorter than this (px, or line widths when more) followed next to nothing from its guides. */
+const LITTLE_FOLLOWED_PX = 100;
+const LITTLE_FOLLOWED_WIDTHS = 30;
+
+/**
+ * How much wider than the first model the second may be (a share of the first's width, or pixels
+ * when more: a first model sampled on a sliver of a faint line measures far too thin): a guide
+ * where the line crosses a thick curve measures the crossing's blob, and the band may show a
+ * "pattern" of the other lines' ink (random bed seed 167, an iso-line clicked on a head curve:
+ * 9.9 px, followed onto other lines 300 px away).
+ */
+const RETRY_WIDTH = 1.5;
+const RETRY_WIDTH_PX = 6;
+
+/** How much longer a second trace, with the pattern found in the line's own band, must be to be kept. */
+const FARTHER = 1.5;
+
+/** Length of a polyline in sheet units. */
+function polylineLength(points: readonly SheetPoint[]): number {
+  let length = 0;
+  for (let i = 1; i < points.length; i++) length += Math.hypot((points[i] as SheetPoint)[0] - (points[i - 1] as SheetPoint)[0], (points[i] as SheetPoint)[1] - (points[i - 1] as SheetPoint)[1]);
+  return length;
+}
+
+/** One trace on the image with the grid taken out; `ownBand`: a dash pattern is looked for in the line's own band. */
+function traceOn(image: RasterImage, guides: readonly SheetPoint[], options: RasterTraceOptions, ownBand: boolean): RasterTraceResult {
   const px = validateGuides(image, guides);
   const counter: ReadCounter = { reads: 0 };
   const toSheetPt = (p: Px) => sheetPoint(p[0] / image.scale, p[1] / image.scale);
@@ -581,7 +664,7 @@ export function traceRaster(original: RasterImage, guides: readonly SheetPoint[]
   // its own line may be hidden under the others there, and what it sampled may be another
   // line's colour. Among models that agree as well with the guides, one sampled where the line
   // has room of its own wins.
-  const candidates = px.map((g) => acquire(image, g, search, options));
+  const candidates = px.map((g) => acquire(image, g, search, options, ownBand));
   const room = candidates.map((c) => (c ? clearance(image, c.style, c.centre, c.axis, counter) : 0));
   // Room counts only where the ink looks like one stroke at all (not a blob of text or a
   // crossing) and no wider than the thinnest line measured under a guide (not lines run together).
