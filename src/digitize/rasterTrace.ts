@@ -67,6 +67,8 @@ export interface LostStretch {
   /** Which guides the stretch lies between (1-based), or the single guide. */
   between: [number, number];
   reason: string;
+  /** The stretch runs through lines of the line's colour run together, and was bridged smoothly (not lost from sight). */
+  bridged?: true;
 }
 
 export interface RasterTraceResult {
@@ -601,17 +603,24 @@ export function traceRaster(original: RasterImage, guides: readonly SheetPoint[]
   const first = traceOn(image, guides, options, false);
   const span = polylineLength(first.points) * image.scale;
   const bare = first.points.length <= NOTHING_FOLLOWED;
-  if (first.line.dashed || (!bare && span >= Math.max(LITTLE_FOLLOWED_PX, LITTLE_FOLLOWED_WIDTHS * first.line.widthPx))) return first;
-  // Next to nothing followed from the guides (no point but the guides', or a short stretch), with
-  // a solid model: a dashed or dotted line between
+  const short = bare || span < Math.max(LITTLE_FOLLOWED_PX, LITTLE_FOLLOWED_WIDTHS * first.line.widthPx);
+  const unseen = (r: RasterTraceResult) => r.lost.filter((l) => !l.bridged).length;
+  const broken = unseen(first) > 0;
+  if (first.line.dashed || (!short && !broken)) return first;
+  // Next to nothing followed from the guides (no point but the guides', or a short stretch), or
+  // the line lost from sight between them, with a solid model: a dashed or dotted line between
   // others drawn parallel to it a few widths away was taken for solid (their ink made the window
   // around the guide look isotropic, and no dash pattern was looked for), or a dotted line whose
   // dots the scan blurred together (no gap shows paper), and a solid model loses it at its first
   // gap or thinning. Its pattern is looked for again in the line's own band, and the second
-  // trace is kept when it follows clearly farther (random bed seed 103: a dashed black power
-  // line between two others 13 px away, clicked once, came back empty).
+  // trace is kept when it is dashed and follows clearly farther, or loses the line fewer times,
+  // and its model is not far wider (random bed seed 103: a dashed black power line between two
+  // others 13 px away, clicked once, came back empty; seeds 1-200: 20 curves right that were
+  // wrong or missing and 1 wrong that was right with hurried guides, 4 and 1 with careful ones,
+  // the broken ones flagged).
   const again = traceOn(image, guides, options, true);
-  const kept = again.line.dashed && again.line.widthPx <= Math.max(RETRY_WIDTH * first.line.widthPx, RETRY_WIDTH_PX) && (bare ? again.points.length > first.points.length : polylineLength(again.points) * image.scale > FARTHER * span);
+  const farther = bare ? again.points.length > first.points.length : polylineLength(again.points) * image.scale > FARTHER * span;
+  const kept = again.line.dashed && (short ? farther && again.line.widthPx <= Math.max(RETRY_WIDTH * first.line.widthPx, RETRY_WIDTH_PX) : unseen(again) < unseen(first) && again.line.widthPx <= RETRY_WIDTH * first.line.widthPx);
   return kept ? { ...again, pixelsRead: first.pixelsRead + again.pixelsRead } : { ...first, pixelsRead: first.pixelsRead + again.pixelsRead };
 }
 
@@ -630,6 +639,7 @@ const LITTLE_FOLLOWED_WIDTHS = 30;
  * 9.9 px, followed onto other lines 300 px away).
  */
 const RETRY_WIDTH = 1.5;
+/** Held only where next to nothing was followed; where the line was lost between guides the share alone holds. */
 const RETRY_WIDTH_PX = 6;
 
 /** How much longer a second trace, with the pattern found in the line's own band, must be to be kept. */
@@ -834,7 +844,7 @@ function traceOn(image: RasterImage, guides: readonly SheetPoint[], options: Ras
         const p1 = kept[kept.length - 1] as Px;
         // Laid along the bunch's own edges, where they can be seen.
         path.push(...alongBand(image, style, [p0, ...bridge(p0, tangentAt(path, path.length - 1, 1), p1, tangentAt(kept, kept.length - 1, -1), stepping(style.width).step), p1], counter).slice(1, -1));
-        lost.push({ at: toSheetPt(p0), resumedAt: toSheetPt(p1), between: [i + 1, i + 2], reason: 'the line runs together with other lines of its colour here; the stretch is bridged smoothly' });
+        lost.push({ at: toSheetPt(p0), resumedAt: toSheetPt(p1), between: [i + 1, i + 2], reason: 'the line runs together with other lines of its colour here; the stretch is bridged smoothly', bridged: true });
         back.length = 0;
         back.push(...kept.reverse());
       } else {

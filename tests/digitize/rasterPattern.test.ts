@@ -37,6 +37,24 @@ describe('dash patterns hidden around the guide', () => {
     expect(Math.max(...result.points.map((p) => off(p, middle)))).toBeLessThan(1);
   });
 
+  it('follows the same dashed line from guide to guide when two guides are given', () => {
+    const image = picture(640, 300, (ctx) => {
+      ctx.fillStyle = '#efeee8';
+      ctx.fillRect(0, 0, 640, 300);
+      ctx.filter = 'blur(0.8px)';
+      ctx.lineCap = 'butt';
+      ctx.setLineDash([7, 4]);
+      for (const offset of [-13, 0, 13]) stroke(ctx, line(offset), 20, 620, '#5f605a', 2.6);
+    });
+    const middle = line(0);
+    const result = traceRaster(image, [sheetPoint(120, middle(120)), sheetPoint(500, middle(500))]);
+    expect(result.line.dashed).toBe(true);
+    expect(result.lost).toEqual([]);
+    expect(Math.min(...result.points.map((p) => p[0]))).toBeLessThan(40);
+    expect(Math.max(...result.points.map((p) => p[0]))).toBeGreaterThan(600);
+    expect(Math.max(...result.points.map((p) => off(p, middle)))).toBeLessThan(1);
+  });
+
   it('follows a faint dotted line whose dots the scan blurred together', () => {
     const image = picture(640, 300, (ctx) => {
       ctx.fillStyle = '#ecebe5';
