@@ -613,14 +613,15 @@ export function traceRaster(original: RasterImage, guides: readonly SheetPoint[]
   // around the guide look isotropic, and no dash pattern was looked for), or a dotted line whose
   // dots the scan blurred together (no gap shows paper), and a solid model loses it at its first
   // gap or thinning. Its pattern is looked for again in the line's own band, and the second
-  // trace is kept when it is dashed and follows clearly farther, or loses the line fewer times,
-  // and its model is not far wider (random bed seed 103: a dashed black power line between two
-  // others 13 px away, clicked once, came back empty; seeds 1-200: 20 curves right that were
-  // wrong or missing and 1 wrong that was right with hurried guides, 4 and 1 with careful ones,
-  // the broken ones flagged).
+  // trace is kept when it is dashed and follows clearly farther, or loses the line fewer times
+  // without bridging a bunch instead, and its model is not far wider (random bed seed 103: a
+  // dashed black power line between two others 13 px away, clicked once, came back empty;
+  // seeds 1-200: 20 curves right that were wrong or missing and 1 wrong that was right with
+  // hurried guides, 3 and 1 with careful ones; fresh seeds 841-1040, hurried: 13 and 1, the
+  // broken ones flagged).
   const again = traceOn(image, guides, options, true);
   const farther = bare ? again.points.length > first.points.length : polylineLength(again.points) * image.scale > FARTHER * span;
-  const kept = again.line.dashed && (short ? farther && again.line.widthPx <= Math.max(RETRY_WIDTH * first.line.widthPx, RETRY_WIDTH_PX) : unseen(again) < unseen(first) && again.line.widthPx <= RETRY_WIDTH * first.line.widthPx);
+  const kept = again.line.dashed && (short ? farther && again.line.widthPx <= Math.max(RETRY_WIDTH * first.line.widthPx, RETRY_WIDTH_PX) : unseen(again) < unseen(first) && again.lost.length < first.lost.length && again.line.widthPx <= RETRY_WIDTH * first.line.widthPx);
   return kept ? { ...again, pixelsRead: first.pixelsRead + again.pixelsRead } : { ...first, pixelsRead: first.pixelsRead + again.pixelsRead };
 }
 
