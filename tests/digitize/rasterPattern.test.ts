@@ -19,40 +19,41 @@ function off(p: readonly [number, number], f: (x: number) => number): number {
   return best;
 }
 
+/** Three dashed grey lines 13 px apart, blurred a little as a scan blurs them. */
+function threeDashed(): ReturnType<typeof picture> {
+  return picture(640, 300, (ctx) => {
+    ctx.fillStyle = '#efeee8';
+    ctx.fillRect(0, 0, 640, 300);
+    ctx.filter = 'blur(0.8px)';
+    ctx.lineCap = 'butt';
+    ctx.setLineDash([7, 4]);
+    for (const offset of [-13, 0, 13]) stroke(ctx, line(offset), 20, 620, '#5f605a', 2.6);
+  });
+}
+
+/** The drawn line is covered end to end (20 to 620 px) and the trace keeps within 1 px of it. */
+function expectWhole(points: readonly (readonly [number, number])[], f: (x: number) => number): void {
+  expect(Math.min(...points.map((p) => p[0]))).toBeLessThan(40);
+  expect(Math.max(...points.map((p) => p[0]))).toBeGreaterThan(600);
+  expect(Math.max(...points.map((p) => off(p, f)))).toBeLessThan(1);
+}
+
 describe('dash patterns hidden around the guide', () => {
   it('follows a dashed line between two parallel dashed lines 13 px away from one guide', () => {
-    const image = picture(640, 300, (ctx) => {
-      ctx.fillStyle = '#efeee8';
-      ctx.fillRect(0, 0, 640, 300);
-      ctx.filter = 'blur(0.8px)';
-      ctx.lineCap = 'butt';
-      ctx.setLineDash([7, 4]);
-      for (const offset of [-13, 0, 13]) stroke(ctx, line(offset), 20, 620, '#5f605a', 2.6);
-    });
+    const image = threeDashed();
     const middle = line(0);
     const result = traceRaster(image, [sheetPoint(300, middle(300))]);
     expect(result.line.dashed).toBe(true);
-    expect(Math.min(...result.points.map((p) => p[0]))).toBeLessThan(40);
-    expect(Math.max(...result.points.map((p) => p[0]))).toBeGreaterThan(600);
-    expect(Math.max(...result.points.map((p) => off(p, middle)))).toBeLessThan(1);
+    expectWhole(result.points, middle);
   });
 
   it('follows the same dashed line from guide to guide when two guides are given', () => {
-    const image = picture(640, 300, (ctx) => {
-      ctx.fillStyle = '#efeee8';
-      ctx.fillRect(0, 0, 640, 300);
-      ctx.filter = 'blur(0.8px)';
-      ctx.lineCap = 'butt';
-      ctx.setLineDash([7, 4]);
-      for (const offset of [-13, 0, 13]) stroke(ctx, line(offset), 20, 620, '#5f605a', 2.6);
-    });
+    const image = threeDashed();
     const middle = line(0);
     const result = traceRaster(image, [sheetPoint(120, middle(120)), sheetPoint(500, middle(500))]);
     expect(result.line.dashed).toBe(true);
     expect(result.lost).toEqual([]);
-    expect(Math.min(...result.points.map((p) => p[0]))).toBeLessThan(40);
-    expect(Math.max(...result.points.map((p) => p[0]))).toBeGreaterThan(600);
-    expect(Math.max(...result.points.map((p) => off(p, middle)))).toBeLessThan(1);
+    expectWhole(result.points, middle);
   });
 
   it('follows a faint dotted line whose dots the scan blurred together', () => {
@@ -67,8 +68,6 @@ describe('dash patterns hidden around the guide', () => {
     const f = line(0);
     const result = traceRaster(image, [sheetPoint(300, f(300))]);
     expect(result.line.dashed).toBe(true);
-    expect(Math.min(...result.points.map((p) => p[0]))).toBeLessThan(40);
-    expect(Math.max(...result.points.map((p) => p[0]))).toBeGreaterThan(600);
-    expect(Math.max(...result.points.map((p) => off(p, f)))).toBeLessThan(1);
+    expectWhole(result.points, f);
   });
 });
