@@ -90,6 +90,15 @@ describe('a guide the finished trace does not pass over', () => {
     expect(missed[0]?.message).toMatch(/^the trace does not pass over guide 1 near/);
   });
 
+  it('is said of a guide whose grey sample is lines of several colours run together (random bed photo 1205, NPSHr 310, hurried guides)', async () => {
+    // Its low-flow guide sits where four dashed NPSHr lines of other colours run together: the
+    // sample there reads grey and 4.5 px wide, the other guide's blue and 3.2 px. Taken for a
+    // washed-out sample of the blue, it raised no doubt, and the trace ran 4-5 px along a
+    // neighbour there (1.4 % of span off).
+    const got = await bedTrace(1205, 'npshr-310', { kind: 'photo' });
+    expect(got.doubts.map((d) => d.code)).toContain('takeoff.guide-in-bunch');
+  });
+
   it('is not said of a trace on a line that stands alone, its guides clicked a pixel off', () => {
     const line = (x: number) => 150 + 0.0008 * (x - 300) ** 2;
     const image = picture(640, 320, (ctx) => stroke(ctx, line, 40, 600, '#1f5fbf', 2));
