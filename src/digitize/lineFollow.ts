@@ -284,6 +284,52 @@ function solveNormal3(powers: readonly number[], moments: readonly number[]): [n
 const CONFIRM_STEPS = 4;
 
 /**
+ * A line found again after a gap that lies off the line's course before the gap by more than
+ * this angle (rad), seen from the last clean point, may be another line crossing there.
+ */
+const GAP_EXIT_TURN = 0.2;
+/**
+ * ... and is one when its own direction is turned from that course by more than this (rad): a
+ * plotted curve comes out of a gap close to where its course carried it and along it; a line of
+ * the same colour crossing it there (a head curve across an efficiency curve of the same
+ * diameter) leaves at the crossing's angle.
+ */
+const GAP_CROSS_TURN = 0.25;
+
+/**
+ * True when a line found again after a gap (its first point at `before`, its next point
+ * (px, py)) is another line crossing where this one was lost. The line's course before the gap
+ * is the chord of its clean points over the last `history` pixels up to the last clean point,
+ * carried on straight (the points at the edges of a crossing lean towards the other line, and so
+ * does the heading the follower coasted on; the clean points before it do not). The line found
+ * must lie off that course by more than a line width and by more than `GAP_EXIT_TURN` seen from
+ * the last clean point, no farther from it than twice the length the course was measured over,
+ * and run across it: its own direction over the steps taken since it was found turned from the
+ * course's by more than `GAP_CROSS_TURN`. A neighbour of a bunch, found where the line ran into
+ * it, runs along the course and is left to the follower's other rules.
+ */
+function leavesCourse(points: readonly number[], clean: readonly boolean[], before: number, history: number, px: number, py: number, width: number): boolean {
+  const end = clean.lastIndexOf(true, before - 1);
+  if (end < 1) return false;
+  const ex = points[2 * end] as number;
+  const ey = points[2 * end + 1] as number;
+  let from = end;
+  while (from > 0 && Math.hypot(ex - (points[2 * from - 2] as number), ey - (points[2 * from - 1] as number)) <= history) from--;
+  const chord = Math.hypot(ex - (points[2 * from] as number), ey - (points[2 * from + 1] as number));
+  if (chord < 0.5 * history) return false;
+  const hx = (ex - (points[2 * from] as number)) / chord;
+  const hy = (ey - (points[2 * from + 1] as number)) / chord;
+  const along = (px - ex) * hx + (py - ey) * hy;
+  const side = Math.abs((py - ey) * hx - (px - ex) * hy);
+  // Carried on straight, the course is trusted over about twice the length it was measured on.
+  if (along > 2 * history || side <= Math.max(width, 1) || side <= Math.tan(GAP_EXIT_TURN) * Math.max(along, 0)) return false;
+  const fx = px - (points[2 * before] as number);
+  const fy = py - (points[2 * before + 1] as number);
+  const angle = Math.abs(Math.atan2(hx * fy - hy * fx, hx * fx + hy * fy));
+  return angle > GAP_CROSS_TURN;
+}
+
+/**
  * Heading and turning rate for bridging a gap, from a longer stretch of the followed line
  * than the step-to-step estimate uses: a least-squares parabola, in the frame of the
  * stretch's chord, through the clean points of the last `history` pixels (points taken at
@@ -453,6 +499,9 @@ export function followLine(
       closeMerge();
       travelled += CONFIRM_STEPS * step;
     }
+    // A line found again after a gap that, once it has held for its tentative steps, runs across
+    // the line's own course is another line crossing there: dropped as a fragment that did not hold.
+    if (choice === 'found' && tentative && tentative.steps + 1 >= CONFIRM_STEPS && leavesCourse(points, clean, tentative.count, forkHistory, qx + nx * pick.offset, qy + ny * pick.offset, style.width)) choice = undefined;
     dx = pdx;
     dy = pdy;
     if (choice === 'found') {
