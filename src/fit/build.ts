@@ -11,6 +11,7 @@ import { CURVESET_FORMAT, CURVESET_VERSION, CurveSet, QUANTITY_WORDS, type Curve
 import { TOOL_NAME, TOOL_VERSION } from '../version.ts';
 import { displayFor, makeFinding, runChecks, sortFindings } from './checks/index.ts';
 import { chooseDegree } from './chooseDegree.ts';
+import { efficiencyFromFamily } from './efficiencyFromFamily.ts';
 import { deriveFigures } from './derived.ts';
 import { familyFigures } from './checks/speedFigures.ts';
 import { fitEvidenceFindings } from './checks/fitEvidence.ts';
@@ -81,7 +82,10 @@ export function buildCurveSet(input: BuildInput): CurveSet {
     QUANTITY_ORDER.map((q) => [q, input.readingAccuracy?.[q] ?? defaultAccuracy(input.members, q)]),
   ) as Record<Quantity, number>;
 
-  const members: Member[] = input.members.map((m) => {
+  // An efficiency from iso-lines alone with too few points for a fit may take its shape from the
+  // family below (efficiencyFromFamily.ts); its fit failure is said only if it does not.
+  const isoTooFew = new Map<number, Finding>();
+  const members: Member[] = input.members.map((m, memberIndex) => {
     const speed = m.speed_rpm ?? input.speed_rpm;
     const shell = { diameter_m: m.diameter_m, speed_rpm: speed };
     const curves: Member['curves'] = {};
@@ -102,17 +106,17 @@ export function buildCurveSet(input: BuildInput): CurveSet {
         fitFindings.push(...fitEvidenceFindings({ member: { ...shell, label: m.label }, quantity, points, fit: curve.fit, tolerance: accuracy[quantity], sources, refusedForShape }, show));
       } catch (error) {
         if (!(error instanceof Error) || error.name !== 'FitError') throw error;
-        fitFindings.push(
-          makeFinding({
-            code: points.length < 3 ? 'fit.too-few-points' : 'fit.failed',
-            severity: 'fail',
-            member: shell,
-            quantity,
-            message: `The ${show.member({ ...shell, label: m.label })} ${NAMES[quantity]} curve could not be fitted: ${error.message} Capture more points along it.`,
-            method: 'Least-squares polynomial fit (QR, scaled flow)',
-            figures: { points: points.length },
-          }),
-        );
+        const failed = makeFinding({
+          code: points.length < 3 ? 'fit.too-few-points' : 'fit.failed',
+          severity: 'fail',
+          member: shell,
+          quantity,
+          message: `The ${show.member({ ...shell, label: m.label })} ${NAMES[quantity]} curve could not be fitted: ${error.message} Capture more points along it.`,
+          method: 'Least-squares polynomial fit (QR, scaled flow)',
+          figures: { points: points.length },
+        });
+        if (quantity === 'efficiency' && drawnAs === 'iso-lines') isoTooFew.set(memberIndex, failed);
+        else fitFindings.push(failed);
       }
       curves[quantity] = curve;
     }
@@ -124,6 +128,14 @@ export function buildCurveSet(input: BuildInput): CurveSet {
   });
 
   const family = input.family ?? (members.every((m) => m.diameter_m !== undefined) ? 'diameter' : 'speed');
+  for (const borrowed of efficiencyFromFamily(members, family, show)) {
+    const member = members[borrowed.index] as Member;
+    (member.curves.efficiency as Curve).fit = borrowed.fit;
+    member.derived = deriveFigures(member);
+    isoTooFew.delete(borrowed.index);
+    fitFindings.push(borrowed.finding);
+  }
+  fitFindings.push(...isoTooFew.values());
   const provenance: Provenance = {
     ...input.provenance,
     tool: { name: TOOL_NAME, version: TOOL_VERSION },

@@ -9,7 +9,7 @@ import { parseTakeoff } from '../../src/model/takeoff.ts';
 import { evaluateUnchecked } from '../../src/fit/polynomial.ts';
 import { fromSI, parseUnit } from '../../src/units/index.ts';
 import type { CurveSet, Quantity } from '../../src/model/curveset.ts';
-import { DIAMETERS, efficiency, head, makePumpSheetPdf, power, pumpTakeoff } from './fixtures/pumpSheet.ts';
+import { DIAMETERS, efficiency, head, isoBranch, makePumpSheetPdf, power, pumpTakeoff } from './fixtures/pumpSheet.ts';
 
 const gpm = parseUnit('flow', 'gpm');
 const ft = parseUnit('head', 'ft');
@@ -71,6 +71,43 @@ describe('replaying a take-off of a vector sheet headless', () => {
         expect(Math.abs(eta * 100 - efficiency(d, fromSI(q, gpm)))).toBeLessThan(0.05); // crossing points, in points of %
       }
       expect(worstError(curveSet, d, 'efficiency', efficiency, (si) => si * 100)).toBeLessThan(1.5);
+    }
+  });
+
+  it('gives a diameter the iso-lines meet at two flows only the efficiency of its neighbour by the affinity law, with a warning', async () => {
+    const full = await replay('iso');
+    expect(full.curveSet.findings.filter((f) => f.code === 'fit.efficiency-from-family')).toEqual([]);
+    // The 70 % and 80 % iso-lines stopped between the 12 in and 11 in head curves (a vector trace
+    // is cut at its guides): the 11 in curve meets the 76 % level alone, once each side of its peak.
+    const doc = pumpTakeoff('iso') as { traces: { id: string; iso?: number; guides: number[][] }[] };
+    for (const t of doc.traces) {
+      if (t.iso !== 70 && t.iso !== 80) continue;
+      const b = isoBranch(t.iso, t.id.endsWith('R') ? 1 : 0);
+      const between = [(b[2]![0] + b[3]![0]) / 2, (b[2]![1] + b[3]![1]) / 2];
+      t.guides = [b[0]!, between];
+    }
+    const sheet = await loadSheetFileNode(join(dir, 'sheet.pdf'));
+    try {
+      const { curveSet } = await replayTakeoff(parseTakeoff(doc), sheet);
+      const member = (d: number) => curveSet.members.find((m) => Math.abs(fromSI(m.diameter_m!, inch) - d) < 1e-9)!;
+      expect(member(11).curves.efficiency!.points).toHaveLength(2);
+      expect(member(12).curves.efficiency!.points).toHaveLength(6);
+      const warned = curveSet.findings.filter((f) => f.code === 'fit.efficiency-from-family');
+      expect(warned).toHaveLength(1);
+      expect(warned[0]!.severity).toBe('warn');
+      expect(warned[0]!.message).toMatch(/^The 11 in efficiency meets the iso-lines at 2 flows only, .* the 12 in efficiency curve by the affinity law .* check it against the sheet before using it at a duty\.$/);
+      expect(curveSet.findings.filter((f) => f.code === 'fit.too-few-points')).toEqual([]);
+      // The invented sheet's efficiency keeps the trim law exactly (a trimmed impeller 2 points
+      // per inch lower, the same shape): the borrowed curve meets it within the crossings' accuracy.
+      expect(worstError(curveSet, 11, 'efficiency', efficiency, (si) => si * 100)).toBeLessThan(0.3);
+      // Without a neighbour with a curve of its own, nothing is borrowed and the fit failure stands.
+      const alone = pumpTakeoff('iso') as { traces: { id: string; iso?: number; diameter?: number }[] };
+      alone.traces = alone.traces.filter((t) => (t.iso === undefined || t.iso === 76) && t.diameter !== 12 && t.diameter !== 13);
+      const lone = await replayTakeoff(parseTakeoff(alone), sheet);
+      expect(lone.curveSet.findings.filter((f) => f.code === 'fit.too-few-points').map((f) => f.severity)).toEqual(['fail']);
+      expect(lone.curveSet.members[0]!.curves.efficiency!.fit).toBeUndefined();
+    } finally {
+      await sheet.close();
     }
   });
 
