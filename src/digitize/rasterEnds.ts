@@ -73,6 +73,9 @@ const WIDTH_SECTIONS = 11;
  */
 const WIDTH_CHANGE = 0.75;
 
+/** Largest ratio of the measured width to the model's of a wider model (a line alone at every section; see `restyleAlong`). */
+const WIDEN_LIMIT = 1.8;
+
 /** Points `spacing` apart along a path, from its start. */
 function along(points: readonly Px[], spacing: number): Px[] {
   const out: Px[] = [];
@@ -165,6 +168,7 @@ export function restyleAlong(image: RasterImage, style: LineStyle, path: readonl
   const section = new Float64Array(2 * n + 1);
   const runs: Run[] = [];
   const masses: number[] = [];
+  let alone = 0;
   for (let k = 0; k < WIDTH_SECTIONS; k++) {
     const i = Math.min(stretch.length - 2, Math.floor((k * (stretch.length - 1)) / WIDTH_SECTIONS));
     const a = stretch[i] as Px;
@@ -179,6 +183,7 @@ export function restyleAlong(image: RasterImage, style: LineStyle, path: readonl
     // (its halves are no measure of its width).
     const here = findRuns(section, n, spacing, style.threshold, runs).filter((r) => Math.abs(r.centre) <= 0.5 * style.width + 1);
     if (here.length === 1) masses.push((here[0] as Run).mass);
+    if (here.length === 1 && runs.length === 1) alone++;
   }
   if (masses.length < Math.ceil(WIDTH_SECTIONS / 2)) return undefined;
   masses.sort((x, y) => x - y);
@@ -186,9 +191,14 @@ export function restyleAlong(image: RasterImage, style: LineStyle, path: readonl
   // A pattern found anew along with a much narrower width is no dotted line but the stretch
   // wobbling across the edges of a line split by another (each swing of the peaks a false dot).
   if (broken !== undefined && !style.reach && measured < WIDTH_CHANGE * style.width) return undefined;
-  // Only a narrower line: a width sampled where the line touched other ink comes out too wide,
-  // while a wider model than the guide's would take neighbours and grid lines for the line.
-  const newWidth = measured < WIDTH_CHANGE * style.width ? measured : style.width;
+  // A narrower line: a width sampled where the line touched other ink comes out too wide. A
+  // wider model than the guide's would take neighbours and grid lines for the line, and is
+  // taken only where every section saw the line alone, and its mass beyond the model's range
+  // (a grey line's core darker than the sample under its guide: its mass along the line past
+  // the model's range, every section ambiguous, and the line lost at the guide; speed bench
+  // scan seed 28, the 1250 rpm efficiency line clicked twice, 14 points off).
+  const wider = alone === WIDTH_SECTIONS && measured > (style.massRange[1] as number) * style.width && measured <= WIDEN_LIMIT * style.width;
+  const newWidth = measured < WIDTH_CHANGE * style.width || wider ? measured : style.width;
   const newReach = broken ?? style.reach ?? 0;
   if (newWidth === style.width && (newReach ?? 0) === (style.reach ?? 0)) return undefined;
   return { ...style, width: newWidth, ...(newReach ? { reach: newReach } : {}) };
