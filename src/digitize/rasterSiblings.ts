@@ -8,7 +8,7 @@
  * cut where it joined it. Pure: pixel coordinates in and out.
  */
 import { followLine, indexPath, nearestOnPath, stepping, type FollowResult, type LineStyle, type PathIndex } from './lineFollow.ts';
-import { colourDistance, MIN_CONTRAST } from './colour.ts';
+import { colourDistance, inkModel, membership, MIN_CONTRAST } from './colour.ts';
 import type { ReadCounter } from './lineProfile.ts';
 import type { RasterImage } from './raster.ts';
 
@@ -113,6 +113,11 @@ function length(points: readonly Px[], from: number, to: number): number {
  * trace's colour lies there, or it does not stand alone there.
  */
 function lineAt(image: RasterImage, style: LineStyle, at: Px, locate: Locate, roomAt: RoomAt, counter: ReadCounter): PathIndex | null {
+  // The ink clicked must be of this trace's colour: a guide on a line of another colour crossing
+  // or running close to this trace's line locates this trace's own line a few pixels off, which
+  // says nothing of the other trace's line (speed bench scan seed 24: a coloured line's guide where
+  // it crosses the grey 2450 rpm efficiency line near their peaks cut that line there, 5.8 points off).
+  if (!clickedOwnColour(image, style, at)) return null;
   const line = locate(at);
   if (!line) return null;
   if (Math.hypot(line.centre[0] - at[0], line.centre[1] - at[1]) > Math.max(3, 1.5 * style.width)) return null;
@@ -127,6 +132,35 @@ function lineAt(image: RasterImage, style: LineStyle, at: Px, locate: Locate, ro
   }
   if (flat.length < 8) return null;
   return indexPath(flat, Math.max(1.5, 0.75 * style.width));
+}
+
+/** Pixels around a guide in which its most contrasted ink (what was clicked) is looked for. */
+const CLICK_RADIUS_PX = 1;
+
+/**
+ * Whether the most contrasted pixel within `CLICK_RADIUS_PX` of `at` (the ink clicked) is of the
+ * trace's colour: at least half a member of its model, and of no clear hue when the model is grey.
+ */
+function clickedOwnColour(image: RasterImage, style: LineStyle, at: Px): boolean {
+  const { data, width, height } = image;
+  const paper = style.model.paper;
+  let best = -1;
+  let rgb: [number, number, number] = [0, 0, 0];
+  for (let y = Math.floor(at[1]) - CLICK_RADIUS_PX; y <= Math.floor(at[1]) + CLICK_RADIUS_PX; y++) {
+    for (let x = Math.floor(at[0]) - CLICK_RADIUS_PX; x <= Math.floor(at[0]) + CLICK_RADIUS_PX; x++) {
+      if (x < 0 || y < 0 || x >= width || y >= height) continue;
+      const i = (y * width + x) * 4;
+      const c = colourDistance(paper, data[i] as number, data[i + 1] as number, data[i + 2] as number);
+      if (c > best) {
+        best = c;
+        rgb = [data[i] as number, data[i + 1] as number, data[i + 2] as number];
+      }
+    }
+  }
+  if (best < 0) return false;
+  // A grey model takes any dark ink in; a clicked colour of clear hue is another line's.
+  if (style.model.mode !== 'chromatic' && inkModel(rgb, paper).mode === 'chromatic') return false;
+  return membership(style.model, ...rgb) >= 0.5;
 }
 
 /**
