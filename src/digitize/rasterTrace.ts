@@ -723,7 +723,16 @@ function traceOn(image: RasterImage, guides: readonly SheetPoint[], options: Ras
     const even = tie && solo(i) === solo(first - 1);
     const hueOver = even && washedOut(chosen as Acquired, got);
     const hueUnder = even && washedOut(got, chosen as Acquired);
-    if (!chosen || s > best || (s === best && broken(got) > broken(chosen)) || (tie && solo(i) > solo(first - 1)) || hueOver || (even && !hueUnder && got.isotropy < chosen.isotropy - 0.02)) {
+    // A line is dashed all along or nowhere: a dash pattern read under one guide, wider than a
+    // clean solid sample of the same ink under another guide, that the line's own band does not
+    // show at that sample is letters printed over the line there (a label), not its dashes.
+    // The solid sample is the same ink as the dashed one, or a fainter reading of it (a line's thin
+    // stroke reads lighter than the letters printed over it), not a grid line beside it.
+    const sameInk = (dashed: Acquired, solid: Acquired) => membership(dashed.style.model, ...solid.style.model.line) >= GUIDE_MEMBERSHIP;
+    const patternHere = (dashed: Acquired, solid: Acquired, k: number) =>
+      solo(k) === 0 || !sameInk(dashed, solid) || dashed.style.width <= Math.max(LETTERED_WIDTH * solid.style.width, solid.style.width + LETTERED_PX) || brokenLine(image, dashed.style.model, solid.centre, solid.style.width, solid.axis) !== undefined;
+    const patternWins = s === best && (broken(got) > broken(chosen as Acquired) ? patternHere(got, chosen as Acquired, first - 1) : broken(chosen as Acquired) > broken(got) && !patternHere(chosen as Acquired, got, i));
+    if (!chosen || s > best || patternWins || (tie && solo(i) > solo(first - 1)) || hueOver || (even && !hueUnder && got.isotropy < chosen.isotropy - 0.02)) {
       chosen = got;
       first = i + 1;
     }
@@ -991,6 +1000,12 @@ const SOLO_ISOTROPY = 0.45;
  * own sample measures up to about twice the width of a solid sample of it.
  */
 const BLOB_WIDTH = 3;
+
+/** Width of a dashed sample, in a clean solid sample's, above which its pattern is held to the line's own band at the solid sample (letters printed over a line read wider than it). */
+const LETTERED_WIDTH = 1.2;
+
+/** ... and by at least this many pixels (a thin line's widths differ by a fraction of a pixel from noise alone). */
+const LETTERED_PX = 1;
 
 /** Width of the line under a guide, in the thinnest width measured under any, above which it is lines run together. */
 const SOLO_WIDTH = 1.5;

@@ -9,41 +9,9 @@
  * that runs across that course is passed over.
  */
 import { describe, expect, it } from 'vitest';
-import { traceRaster } from '../../src/digitize/rasterTrace.ts';
-import { sheetPoint } from '../../src/digitize/points.ts';
-import { loadImageRasterNode } from '../../src/digitize/loaders/imageNode.ts';
-import { siblingGuides } from '../../src/digitize/vectorChoice.ts';
-import { makeRandomSheet, sheetGeometry, withCarefulGuides } from '../../scripts/randomSheets/randomSheet.ts';
-import { applyH } from '../../scripts/randomSheets/camera.ts';
+import { bedLineTrace, distanceToLine as distance } from './fixtures/bedTrace.ts';
 
-/** Distance from p to the polyline through `line`, pixels. */
-function distance(line: readonly (readonly [number, number])[], p: readonly [number, number]): number {
-  let best = Infinity;
-  for (let i = 0; i + 1 < line.length; i++) {
-    const [ax, ay] = line[i]!;
-    const [bx, by] = line[i + 1]!;
-    const dx = bx - ax;
-    const dy = by - ay;
-    const t = Math.max(0, Math.min(1, ((p[0] - ax) * dx + (p[1] - ay) * dy) / (dx * dx + dy * dy || 1)));
-    best = Math.min(best, Math.hypot(p[0] - ax - t * dx, p[1] - ay - t * dy));
-  }
-  return best;
-}
-
-/** One scan trace of the random bed with its careful guides, and its drawn line in image pixels. */
-async function carefulTrace(seed: number, id: string) {
-  const s = await makeRandomSheet(seed, 'scan');
-  const image = await loadImageRasterNode(s.jpeg);
-  const takeoff = withCarefulGuides(s.takeoff, seed, 'scan');
-  const index = takeoff.traces.findIndex((t) => t.id === id);
-  const trace = takeoff.traces[index]!;
-  const siblings = siblingGuides(takeoff.traces).filter((_, k) => k !== index);
-  const frame = takeoff.panels.find((p) => p.id === trace.panel)?.frame;
-  const got = traceRaster(image, (trace.guides ?? []).map(([x, y]) => sheetPoint(x, y)), { siblings, ...(frame ? { frame } : {}) });
-  const { plan, shot } = sheetGeometry(seed, 'scan');
-  const drawn = plan.lines.find((l) => l.id === id)!;
-  return { got, line: drawn.points.map((p) => applyH(shot.h, p)), width: drawn.style.width };
-}
+const carefulTrace = (seed: number, id: string) => bedLineTrace(seed, id, { careful: true });
 
 describe('a line found again after a crossing of its own colour', () => {
   it('is not the crossing head curve (random bed scan 61, efficiency 11.5 in, careful guides)', async () => {
