@@ -2,9 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { traceRaster } from '../../src/digitize/rasterTrace.ts';
 import { sheetPoint } from '../../src/digitize/points.ts';
 import { picture, stroke } from './rasterPictures.ts';
-import { loadImageRasterNode } from '../../src/digitize/loaders/imageNode.ts';
-import { siblingGuides } from '../../src/digitize/vectorChoice.ts';
-import { makeRandomSheet, withCarefulGuides } from '../../scripts/randomSheets/randomSheet.ts';
+import { bedLineTrace } from './fixtures/bedTrace.ts';
 
 // Two lines of one colour that meet at a shallow angle and run together for longer than the
 // follower bridges on its prediction alone (its gap, 50 line widths), then part again.
@@ -46,16 +44,7 @@ describe('a whole-line trace through a bunch', () => {
  * One trace of a random-bed sheet (a scan unless asked) followed with the bed's own (hurried)
  * guides, or its careful ones, the other traces' guides and its panel's frame, as the replay does.
  */
-async function bedTrace(seed: number, id: string, { kind = 'scan', careful = false }: { kind?: 'scan' | 'photo'; careful?: boolean } = {}) {
-  const s = await makeRandomSheet(seed, kind);
-  const image = await loadImageRasterNode(s.jpeg);
-  const takeoff = careful ? withCarefulGuides(s.takeoff, seed, kind) : s.takeoff;
-  const index = takeoff.traces.findIndex((t) => t.id === id);
-  const trace = takeoff.traces[index]!;
-  const siblings = siblingGuides(takeoff.traces).filter((_, k) => k !== index);
-  const frame = takeoff.panels.find((p) => p.id === trace.panel)?.frame;
-  return traceRaster(image, (trace.guides ?? []).map(([x, y]) => sheetPoint(x, y)), { siblings, ...(frame ? { frame } : {}) });
-}
+const bedTrace = async (seed: number, id: string, options: { kind?: 'scan' | 'photo'; careful?: boolean } = {}) => (await bedLineTrace(seed, id, options)).got;
 
 describe('an end that runs together with a neighbour from its outermost guide on', () => {
   it('says so, though the follow across a dotted line\'s gaps keeps few points there (random bed scan 319, NPSHr 8.875 in)', async () => {
