@@ -50,6 +50,8 @@ export interface CaptureResult {
   lost: LostStretch[];
   /** Stretches a raster capture followed but cannot vouch for (see `RasterTraceResult.doubts`). */
   doubts?: TraceDoubt[];
+  /** Sentences on guides the raster capture read elsewhere than clicked (a guide on a label printed over its line). */
+  moved?: string[];
   /** Width of the followed line, sheet units (raster captures only): tolerances near it are set in line widths. */
   lineWidth?: number;
 }
@@ -106,12 +108,14 @@ export async function captureTrace(request: CaptureRequest, source: CaptureSourc
     notes.push(close.note);
   }
   for (const l of traced.lost) notes.push(`The line was lost near (${l.at[0].toFixed(1)}, ${l.at[1].toFixed(1)}) between guides ${l.between[0]} and ${l.between[1]}: ${l.reason}.`);
+  const moved = (traced.offLabels ?? []).map((m) => `Guide ${m.guide} sat on a label printed over the line; the line was taken up where it leaves the label, near ${m.at.map((q) => `(${q[0].toFixed(1)}, ${q[1].toFixed(1)})`).join(' and ')}.`);
   return {
     points: traced.lost.length ? traced.points : evenly(traced.points, spacing),
     how: 'raster',
     notes,
     lost: traced.lost,
     doubts: traced.doubts,
+    ...(moved.length > 0 ? { moved } : {}),
     ...(traced.line.widthPx > 0 ? { lineWidth: traced.line.widthPx / scale } : {}),
   };
 }

@@ -26,6 +26,7 @@ import { alongBand } from './rasterBand.ts';
 import { dashReach, restyleAhead, restyleAlong, solidFrom, throughBunch, type BeyondBunch, type CoursePoint } from './rasterEnds.ts';
 import { brokenWhereUncovered, chromaticInk, onGridLine } from './rasterFaint.ts';
 import { cutFollow, foreignGuides, foreignRun, type Locate, type RoomAt } from './rasterSiblings.ts';
+import { guidesOffLabels, type LabelBox, type LabelGuide } from './rasterLabels.ts';
 
 /** Guides or options the tracer cannot use. The message says what to change. */
 export class TraceInputError extends UserError {
@@ -85,6 +86,8 @@ export interface RasterTraceResult {
   doubts: TraceDoubt[];
   /** Pixels read while tracing (each bilinear sample reads four). */
   pixelsRead: number;
+  /** Guides (1-based) that sat on a label printed over the line, and the two places where the line leaves it, which were followed instead. */
+  offLabels?: LabelGuide[];
 }
 
 const THRESHOLD = 0.4;
@@ -603,7 +606,10 @@ export function traceRaster(original: RasterImage, guides: readonly SheetPoint[]
   // The printed grid is taken out of the frame first (gridLines.ts): a thin curve is then not
   // taken for a grid line where it runs along or across one. Without a frame the grid stays.
   const image = f ? withoutGrid(original, [f[0] * original.scale - GRID_MARGIN_PX, f[1] * original.scale - GRID_MARGIN_PX, f[2] * original.scale + GRID_MARGIN_PX, f[3] * original.scale + GRID_MARGIN_PX]) : original;
-  const first = traceOn(image, guides, options, false);
+  // A guide on a label printed over the line stands for the two places where the line leaves the label.
+  const { guides: taken, numbers, offLabels, boxes } = guidesOffLabels(image, guides);
+  const labelled = offLabels.length > 0 ? { offLabels } : {};
+  const first = { ...traceOn(image, taken, options, false, numbers, boxes), ...labelled };
   const span = polylineLength(first.points) * image.scale;
   const bare = first.points.length <= NOTHING_FOLLOWED;
   const short = bare || span < Math.max(LITTLE_FOLLOWED_PX, LITTLE_FOLLOWED_WIDTHS * first.line.widthPx);
@@ -622,7 +628,7 @@ export function traceRaster(original: RasterImage, guides: readonly SheetPoint[]
   // seeds 1-200: 20 curves right that were wrong or missing and 1 wrong that was right with
   // hurried guides, 3 and 1 with careful ones; fresh seeds 841-1040, hurried: 13 and 1, the
   // broken ones flagged).
-  const again = traceOn(image, guides, options, true);
+  const again = { ...traceOn(image, taken, options, true, numbers, boxes), ...labelled };
   const farther = bare ? again.points.length > first.points.length : polylineLength(again.points) * image.scale > FARTHER * span;
   const kept = again.line.dashed && (short ? farther && again.line.widthPx <= Math.max(RETRY_WIDTH * first.line.widthPx, RETRY_WIDTH_PX) : unseen(again) < unseen(first) && again.lost.length < first.lost.length && again.line.widthPx <= RETRY_WIDTH * first.line.widthPx);
   if (!kept) return { ...first, pixelsRead: first.pixelsRead + again.pixelsRead };
@@ -654,6 +660,17 @@ const RETRY_WIDTH_PX = 6;
 /** How much longer a second trace, with the pattern found in the line's own band, must be to be kept. */
 const FARTHER = 1.5;
 
+/** Whether the segment from a to b passes through a box (looked at every pixel or so along it). */
+function meetsBox(a: Px, b: Px, box: LabelBox): boolean {
+  const n = Math.max(1, Math.ceil(Math.hypot(b[0] - a[0], b[1] - a[1])));
+  for (let k = 0; k <= n; k++) {
+    const x = a[0] + ((b[0] - a[0]) * k) / n;
+    const y = a[1] + ((b[1] - a[1]) * k) / n;
+    if (x >= box.x0 && x <= box.x1 && y >= box.y0 && y <= box.y1) return true;
+  }
+  return false;
+}
+
 /** Length of a polyline in sheet units. */
 function polylineLength(points: readonly SheetPoint[]): number {
   let length = 0;
@@ -662,7 +679,9 @@ function polylineLength(points: readonly SheetPoint[]): number {
 }
 
 /** One trace on the image with the grid taken out; `ownBand`: a dash pattern is looked for in the line's own band. */
-function traceOn(image: RasterImage, guides: readonly SheetPoint[], options: RasterTraceOptions, ownBand: boolean): RasterTraceResult {
+function traceOn(image: RasterImage, guides: readonly SheetPoint[], options: RasterTraceOptions, ownBand: boolean, numbers?: readonly number[], labels: readonly LabelBox[] = []): RasterTraceResult {
+  // The user's number of each guide (1-based): a guide on a label stands for two here.
+  const name = (k: number) => numbers?.[k - 1] ?? k;
   const px = validateGuides(image, guides);
   const counter: ReadCounter = { reads: 0 };
   const toSheetPt = (p: Px) => sheetPoint(p[0] / image.scale, p[1] / image.scale);
@@ -683,7 +702,13 @@ function traceOn(image: RasterImage, guides: readonly SheetPoint[], options: Ras
   // its own line may be hidden under the others there, and what it sampled may be another
   // line's colour. Among models that agree as well with the guides, one sampled where the line
   // has room of its own wins.
-  const candidates = px.map((g) => acquire(image, g, search, options, ownBand));
+  // The two places a guide on a label stands for sample the line only where no guide as clicked
+  // does: they were placed by the tracer, and a place just past a label may hold a grid crossing
+  // that reads as a dash pattern (random bed photo 74: a blue head curve taken for dashed there).
+  const standIn = px.map((_, k) => numbers !== undefined && numbers.filter((n) => n === numbers[k]).length > 1);
+  const asClicked = standIn.includes(false);
+  const sampled = px.map((g) => acquire(image, g, search, options, ownBand));
+  const candidates = sampled.map((c, k) => (asClicked && standIn[k] ? undefined : c));
   const room = candidates.map((c) => (c ? clearance(image, c.style, c.centre, c.axis, counter) : 0));
   // Room counts only where the ink looks like one stroke at all (not a blob of text or a
   // crossing) and no wider than the thinnest line measured under a guide (not lines run together).
@@ -741,7 +766,7 @@ function traceOn(image: RasterImage, guides: readonly SheetPoint[], options: Ras
   if (!acquired) {
     return {
       points: [],
-      lost: [{ at: guides[0] as SheetPoint, between: [1, guides.length], reason: `no line stands out from the paper within ${search} px of any guide` }],
+      lost: [{ at: guides[0] as SheetPoint, between: [name(1), name(guides.length)], reason: `no line stands out from the paper within ${search} px of any guide` }],
       line: { colour: options.colour ?? [0, 0, 0], paper: [255, 255, 255], widthPx: 0 },
       pixelsRead: counter.reads,
       doubts: [],
@@ -770,7 +795,7 @@ function traceOn(image: RasterImage, guides: readonly SheetPoint[], options: Ras
   /** How many points of an extension to keep before it runs onto another trace's line (all when it does not). */
   const offOthers = (points: readonly Px[]): number | undefined => foreignRun(image, style, foreign, points, 0, locate, roomAt, counter)?.start;
   snapped.forEach((s, i) => {
-    if (!s) lost.push({ at: guides[i] as SheetPoint, between: [i + 1, i + 1], reason: `guide ${i + 1} has no line of the traced colour within ${search.toFixed(0)} px` });
+    if (!s) lost.push({ at: guides[i] as SheetPoint, between: [i + 1, i + 1], reason: `guide ${name(i + 1)} has no line of the traced colour within ${search.toFixed(0)} px` });
   });
 
   const path: Px[] = [];
@@ -780,7 +805,8 @@ function traceOn(image: RasterImage, guides: readonly SheetPoint[], options: Ras
   // vouches that the trace kept to its own line at that place.
   if (!options.colour) {
     const contrast = colourDistance(style.model.paper, ...style.model.line);
-    candidates.forEach((c, i) => {
+    // Every guide's sample, the two places a guide on a label stands for too.
+    sampled.forEach((c, i) => {
       if (!c || i === first - 1 || !snapped[i]) return;
       // Either far from the line's colour, or of another hue than the line's (a neighbour of a
       // similar lightness: the colour model tells hues apart where a plain distance does not).
@@ -879,7 +905,7 @@ function traceOn(image: RasterImage, guides: readonly SheetPoint[], options: Ras
   // its track far beyond its last point seen), or a bunch's model took the whole bunch for the line.
   const unseen = unseenBetweenGuides(path, px, Math.min(maxGap, UNSEEN_PX), lost);
   if (unseen) doubts.push(unseen);
-  if ((px.length === 1 || options.extent !== 'guides') && path.length >= 2) doubts.push(...extendToEnds(image, style, path, maxGap, options.frame, counter, offOthers));
+  if ((px.length === 1 || options.extent !== 'guides') && path.length >= 2) doubts.push(...extendToEnds(image, style, path, maxGap, options.frame, counter, offOthers, labels));
   else if (options.frame && path.length >= 2) clipToFrame(path, options.frame, image.scale, style.width);
 
   if (options.frame && options.extent !== 'guides' && path.length >= 2) {
@@ -908,10 +934,10 @@ function traceOn(image: RasterImage, guides: readonly SheetPoint[], options: Ras
   void step;
   return {
     points: thinned.map((p) => sheetPoint(p.x / image.scale, p.y / image.scale)),
-    lost,
+    lost: numbers ? lost.map((l) => ({ ...l, between: [name(l.between[0]), name(l.between[1])] as [number, number] })) : lost,
     line: { colour: style.model.line, paper: style.model.paper, widthPx: style.width, ...(style.reach ? { dashed: true } : {}) },
     pixelsRead: counter.reads,
-    doubts: doubts.map((d) => doubtSentence(d, toSheetPt(d.at))),
+    doubts: doubts.map((d) => doubtSentence(d.guide === undefined ? d : { ...d, guide: name(d.guide) }, toSheetPt(d.at))),
   };
 }
 
@@ -1223,6 +1249,7 @@ function extendToEnds(
   frame: readonly [number, number, number, number] | undefined,
   counter: ReadCounter,
   offOthers: (points: readonly Px[]) => number | undefined = () => undefined,
+  labels: readonly LabelBox[] = [],
 ): EndDoubt[] {
   const limits: FollowLimits = { maxGap, maxTravel: 2 * (image.width + image.height) };
   const doubts: EndDoubt[] = [];
@@ -1291,7 +1318,11 @@ function extendToEnds(
       // the frame: a dotted line drawn along a grid line to its own end reads solid as well, and
       // there the follower stops at the line's end, inside the frame.
       const last = smooth[smooth.length - 1];
-      const solid = last && frame && nearFrame(last, frame, image.scale, style.width) ? solidFrom(image, style, stretch, [end, ...smooth], counter) : undefined;
+      // The pattern is read on the line beyond any label it was printed under (the letters and the
+      // paper patch around them would read as dashes and gaps): from past the last step through it.
+      let onLabel = stretch.length - 1;
+      while (onLabel >= 0 && !labels.some((b) => meetsBox(stretch[onLabel] as Px, (stretch[onLabel - 1] ?? stretch[onLabel]) as Px, b))) onLabel--;
+      const solid = last && frame && nearFrame(last, frame, image.scale, style.width) ? solidFrom(image, style, stretch.slice(onLabel + 1), [end, ...smooth], counter) : undefined;
       if (solid !== undefined) smooth.length = Math.max(0, solid - 1);
       // Over another trace's guide the extension is on that trace's line: it ends where it joined it.
       const onto = offOthers(smooth);

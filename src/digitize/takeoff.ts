@@ -141,6 +141,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
         note(lost ? 'takeoff.capture-lost' : 'takeoff.capture-fallback', lost ? 'warn' : 'note', `Trace ${id} (${describeTrace(trace, takeoff.units.diameter)}): ${got.notes.join(' ')}`, id);
       }
       for (const doubt of got.doubts ?? []) note(doubt.code, 'warn', `Trace ${id} (${describeTrace(trace, takeoff.units.diameter)}): ${doubt.message}.`, id);
+      for (const sentence of got.moved ?? []) note('takeoff.guide-on-label', 'note', `Trace ${id} (${describeTrace(trace, takeoff.units.diameter)}): ${sentence}`, id);
     }
     checkTracePoints(outcome.points.length, `Trace ${id} (${describeTrace(trace, takeoff.units.diameter)})`); // model/limits.ts
     checkTotalPoints((pointsSoFar += outcome.points.length), 'The take-off');

@@ -42,7 +42,7 @@ export class FakeHost implements ToolHost {
     this.captures.push([...guides]);
     const points = this.tracer(guides);
     if (points.length < 2) throw new Error('No line could be followed from this click.');
-    return { points, gaps: [] };
+    return { points, gaps: [], moved: [] };
   }
   magnify() {}
   /** What every panel reads as flow at any point: null for uncalibrated panels. */

@@ -102,7 +102,7 @@ export class SheetTools implements ToolHost {
     return this.snapNow(at);
   }
 
-  async capture(guides: readonly SheetXY[], method: 'auto' | 'vector' | 'raster', extent?: 'guides' | 'line', panel?: string, traceId?: string): Promise<{ points: SheetXY[]; gaps: string[] }> {
+  async capture(guides: readonly SheetXY[], method: 'auto' | 'vector' | 'raster', extent?: 'guides' | 'line', panel?: string, traceId?: string): Promise<{ points: SheetXY[]; gaps: string[]; moved: string[] }> {
     this.host.store.setSession({ busy: true, progress: { label: 'Tracing…', fraction: null } });
     try {
       const siblings = siblingGuides(this.host.store.draft.traces.filter((t) => t.id !== traceId)).map((g) => g.map((p): [number, number] => [p[0], p[1]]));
@@ -111,7 +111,7 @@ export class SheetTools implements ToolHost {
         const why = answer.gaps.length ? ` (${answer.gaps.join(' ')})` : '';
         throw new Error(`No line could be followed from this click${why}; click right on the line, zoom in if lines run close, or add guides with Shift-click.`);
       }
-      return { points: answer.points, gaps: [...answer.gaps, ...answer.doubts] };
+      return { points: answer.points, gaps: [...answer.gaps, ...answer.doubts], moved: answer.moved };
     } finally {
       this.host.store.setSession({ busy: false, progress: null });
     }

@@ -380,9 +380,9 @@ export class Workbench implements Bench {
     const trace = this.store.draft.traces.find((t) => t.id === id);
     if (!trace || trace.guides.length === 0) return;
     void this.sheetTools.capture(trace.guides, trace.method, trace.extent, trace.panel, id).then(
-      ({ points, gaps }) => {
+      ({ points, gaps, moved }) => {
         this.store.dispatch(setGuides(id, trace.guides, points, 're-trace'));
-        this.store.say(gaps.length ? gaps.join(' ') : `Re-traced: ${points.length} points.`, gaps.length ? 'caution' : 'done');
+        this.store.say(gaps.length ? [...gaps, ...moved].join(' ') : [`Re-traced: ${points.length} points.`, ...moved].join(' '), gaps.length ? 'caution' : 'done');
       },
       (error: Error) => this.store.say(error.message, 'error'),
     );

@@ -25,7 +25,7 @@ export interface ToolHost {
   setPending(guides: readonly SheetXY[]): void;
   /** Captures the line under the guides; resolves to the points or rejects with a sentence. */
   /** `panel` names the trace's panel, whose frame stops a raster trace as in the headless replay. */
-  capture(guides: readonly SheetXY[], method: 'auto' | 'vector' | 'raster', extent?: 'guides' | 'line', panel?: string, traceId?: string): Promise<{ points: SheetXY[]; gaps: string[] }>;
+  capture(guides: readonly SheetXY[], method: 'auto' | 'vector' | 'raster', extent?: 'guides' | 'line', panel?: string, traceId?: string): Promise<{ points: SheetXY[]; gaps: string[]; moved: string[] }>;
   /** Shows the magnifier at the pointer, marking where the click will land. */
   magnify(p: CanvasPointer, mark: SheetXY | null, snapped: boolean): void;
   /** The flow a calibrated panel reads at a sheet point, or null when the panel is not calibrated. */

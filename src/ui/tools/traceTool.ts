@@ -201,9 +201,10 @@ export class TraceTool implements Tool {
     try {
       let points: SheetXY[] = [];
       let gaps: string[] = [];
+      let moved: string[] = [];
       let failure: string | null = null;
       try {
-        ({ points, gaps } = await this.host.capture([at], 'auto'));
+        ({ points, gaps, moved } = await this.host.capture([at], 'auto'));
       } catch (error) {
         failure = (error as Error).message;
       }
@@ -217,11 +218,13 @@ export class TraceTool implements Tool {
         // The new trace is not selected for editing, so that its points do not catch the next click.
         this.store.setSession({ lastTraced: made?.id ?? null, selectedTrace: null, selectedPoint: null, target: next });
         const name = made ? traceName(made, this.store.draft.units.diameter, powerUnit(this.store.draft.units)) : 'the curve';
+        // Where the guide was read elsewhere than clicked (on a label over the line), the sentence says so.
+        const where = moved.length ? ` ${moved.join(' ')}` : '';
         const shared = already.length && made ? ` ${sharedCurveSentence({ quantity: made.quantity, ...(made.diameter !== undefined ? { diameter: made.diameter } : {}), ...(made.speed !== undefined ? { speed: made.speed } : {}), ids: [...already.map((t) => t.id), made.id] }, this.store.draft.units.diameter)}` : '';
         if (failure) this.store.say(`${failure} The guide for ${name} is kept: Shift-click further guides along its line, or drag this guide onto it.${shared}`, 'caution');
-        else if (shared) this.store.say(`Traced ${name}: ${points.length} points.${shared}`, 'caution');
-        else if (gaps.length) this.store.say(`Traced ${name} with ${points.length} points, but ${gaps.join(' ')} Add a guide beyond the gap with Shift-click.`, 'caution');
-        else this.store.say(`Traced ${name}: ${points.length} points.`, 'done');
+        else if (shared) this.store.say(`Traced ${name}: ${points.length} points.${where}${shared}`, 'caution');
+        else if (gaps.length) this.store.say(`Traced ${name} with ${points.length} points, but ${gaps.join(' ')} Add a guide beyond the gap with Shift-click.${where}`, 'caution');
+        else this.store.say(`Traced ${name}: ${points.length} points.${where}`, 'done');
       }
     } finally {
       this.state = { kind: 'idle' };
@@ -247,10 +250,10 @@ export class TraceTool implements Tool {
     this.state = { kind: 'capturing' };
     this.host.setPending(guides);
     try {
-      const { points, gaps } = await this.host.capture(guides, trace.method, trace.extent, trace.panel, trace.id);
+      const { points, gaps, moved } = await this.host.capture(guides, trace.method, trace.extent, trace.panel, trace.id);
       this.store.dispatch(setGuides(trace.id, guides, points, label));
-      if (gaps.length) this.store.say(gaps.join(' '), 'caution');
-      else this.store.say(`Re-traced: ${points.length} points.`, 'done');
+      if (gaps.length) this.store.say([...gaps, ...moved].join(' '), 'caution');
+      else this.store.say([`Re-traced: ${points.length} points.`, ...moved].join(' '), 'done');
     } catch (error) {
       // The guides stay where they were placed; the points wait for a guide that finds the line.
       this.store.dispatch(setGuides(trace.id, guides, [], label));

@@ -17,5 +17,5 @@ export async function captureOnPage(session: PageSession, request: CaptureReques
   const siblings = (request.siblings ?? []).map((g) => g.map((p) => sheetPoint(p[0], p[1])));
   const result = await captureTrace({ guides, method: request.method, extent: request.extent, frame: request.frame, siblings }, { kind: session.sheet.kind, lines: session.lines, raster: session.raster });
   const doubts = (result.doubts ?? []).map((d) => `${d.message[0]?.toUpperCase() ?? ''}${d.message.slice(1)}.`);
-  return { points: result.points.map((p) => [p[0], p[1]] as XY), used: result.how === 'vector' ? 'vector' : 'raster', gaps: result.notes, doubts };
+  return { points: result.points.map((p) => [p[0], p[1]] as XY), used: result.how === 'vector' ? 'vector' : 'raster', gaps: result.notes, doubts, moved: result.moved ?? [] };
 }

@@ -34,6 +34,8 @@ export interface CaptureAnswer {
   gaps: string[];
   /** Sentences about a choice the capture cannot vouch for (another drawn line as near its guides), empty when none. */
   doubts: string[];
+  /** Sentences about guides read elsewhere than clicked (on a label printed over the line), empty when none. */
+  moved: string[];
 }
 
 /** A panel calibration read from the text layer (without the calibration's functions). */
