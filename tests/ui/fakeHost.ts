@@ -19,6 +19,8 @@ export class FakeHost implements ToolHost {
   /** What a capture answers for the guides it is given. */
   tracer: (guides: readonly SheetXY[]) => SheetXY[] = (g) => [[g[0]![0] - 50, g[0]![1]], [g[0]![0] + 50, g[0]![1]]];
   plots: Quantity | null = null;
+  /** Sentences a capture says about guides read elsewhere than clicked. */
+  moved: string[] = [];
 
   constructor(draft: Draft) {
     this.store = new Store(draft, { step: 'trace' });
@@ -42,7 +44,7 @@ export class FakeHost implements ToolHost {
     this.captures.push([...guides]);
     const points = this.tracer(guides);
     if (points.length < 2) throw new Error('No line could be followed from this click.');
-    return { points, gaps: [], moved: [] };
+    return { points, gaps: [], moved: this.moved };
   }
   magnify() {}
   /** What every panel reads as flow at any point: null for uncalibrated panels. */

@@ -164,6 +164,17 @@ describe('the trace tool', () => {
     expect(pointsOf(host.store.draft.traces[0]!)).toEqual([[250, 200]]);
   });
 
+  it('says where a guide was read elsewhere than clicked (on a label printed over the line)', async () => {
+    const host = new FakeHost(draftWithPanel());
+    host.moved = ['Guide 1 sat on a label printed over the line; the line was taken up where it leaves the label, near (250.0, 200.0) and (350.0, 200.0).'];
+    host.store.setSession({ target: { quantity: 'head', lines: 'curve', diameter: 330 } });
+    const tool = new TraceTool(host);
+    tool.down(pointer(300, 200));
+    await settle();
+    expect(host.store.session.message).toMatchObject({ tone: 'done' });
+    expect(host.store.session.message?.text).toBe(`Traced head 330 mm: 2 points. ${host.moved[0]}`);
+  });
+
   it('a guide that finds no line alone is kept, and the status line says how to go on', async () => {
     const host = new FakeHost(draftWithPanel());
     host.tracer = (g) => (g.length < 2 ? [] : [[g[0]![0], g[0]![1]], [g[1]![0], g[1]![1]]]);
