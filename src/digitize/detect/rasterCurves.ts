@@ -18,6 +18,8 @@
  */
 import { QUANTITY_WORDS, type Quantity } from '../../model/curveset.ts';
 import { captureRasterTrace } from '../rasterTrace.ts';
+import { inkModel, type InkModel } from '../colour.ts';
+import { membershipAt } from '../lineProfile.ts';
 import { sheetPoint, type SheetPoint } from '../points.ts';
 import type { RasterImage } from '../raster.ts';
 import type { InkMap, Level } from './ink.ts';
@@ -50,6 +52,8 @@ export interface RasterCurve {
   value?: number;
   /** How the value was found. */
   named?: 'label' | 'given' | 'end flow' | 'traced end';
+  /** The flow where the tracer's line ends, where the line found runs on past it in ink of another colour (`notOwnInkFrom`). */
+  ownEnd?: number;
   confidence: number;
   /** True when the curve is unsure only because the label of its value was read with little certainty (its own question says so). */
   labelDoubt?: boolean;
@@ -254,9 +258,11 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     const fromLine = (u: number, v: number) => (c.transposed ? toSheet(v, u) : toSheet(u, v));
     c.guides = places.map((p) => fromLine(p.u, p.v));
     const frame = c.panel.frame;
+    let tracedInk: InkModel | undefined;
     try {
       const traced = captureRasterTrace(image, { guides: c.guides }, { frame: [frame[0], frame[1], frame[2], frame[3]] });
       c.traced = traced.points;
+      tracedInk = traced.line.widthPx > 0 ? inkModel(traced.line.colour, traced.line.paper) : undefined;
       if (traced.lost.length > 0) c.confidence *= 0.7;
     } catch {
       c.confidence = 0;
@@ -306,6 +312,12 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     const ends = [endAt('start'), endAt('end')];
     const xs = ends.map((p) => c.panel.proposal.calibration.toData(p)[0]);
     c.flows = [Math.min(...xs), Math.max(...xs)];
+    // Where the tracer stopped short of the line found and the line found runs on there in ink of
+    // another colour than the tracer's line (a coloured curve running into a black label beside
+    // its end, which the finder, reading darkness, joined to it), the tracer's end is the other
+    // candidate for the line's end (used only where the found end names nothing).
+    const stop = tracedInk && !runOn.end ? notOwnInkFrom(image, c.track, c.traced.map(toLine), tracedInk, 0.03 * fw, (u, v) => fromLine(u, v)) : undefined;
+    if (stop !== undefined) c.ownEnd = c.panel.proposal.calibration.toData(fromLine(stop, trackAt(c.track, stop) as number))[0];
   }
   // A line found in pieces (the finder lost it in a bunch, at a crossing or at a label) is one
   // curve: a piece lying along the tracer's line of a surer (or longer) line of its frame is that
@@ -415,6 +427,8 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     others.map((c) => ({ group: c.panel, end: c.flows[1], tracedEnd: Math.max(...c.traced.map((p) => c.panel.proposal.calibration.toData(p)[0])), span: flowSpan(c), ...(c.value !== undefined ? { value: c.value } : {}) })),
     references,
   );
+  // Curves no end names yet: looked at once more when every other is named.
+  const unnamed: RasterCurve[] = [];
   for (const c of waiting) {
     const name = names[others.indexOf(c)];
     if (name) {
@@ -424,6 +438,22 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
       if (name.by === 'traced end') c.confidence = Math.min(0.45, 0.8 * c.confidence);
       else c.confidence *= name.reference.how === 'sure' ? (name.share <= 0.008 ? 0.95 : 0.8) : name.share <= 0.008 ? 0.8 : 0.7;
       continue;
+    }
+    unnamed.push(c);
+  }
+  for (const c of unnamed) {
+    // The line found ran on into ink of another colour past the tracer's end: the tracer's end
+    // names it where it ends where exactly one head curve ends and no other curve of its panel has
+    // that name (the committed colour scan's 330 mm efficiency curve, run on into its label).
+    if (c.ownEnd !== undefined) {
+      const own = endMatch(references, c.ownEnd, flowSpan(c), END_MATCH_SHARE);
+      if (own.sole && own.best && !others.some((o) => o !== c && o.panel === c.panel && o.value === own.best?.r.value)) {
+        c.value = own.best.r.value;
+        c.named = 'end flow';
+        c.flows = [c.flows[0], c.ownEnd];
+        c.confidence *= own.best.r.how === 'sure' ? 0.8 : 0.7;
+        continue;
+      }
     }
     const best = endMatch(references, c.flows[1], flowSpan(c), END_MATCH_SHARE).best;
     const flow = (q: number) => `${q.toPrecision(4)}${c.panel.xUnit ? ` ${c.panel.xUnit}` : ' on the flow axis'}`;
@@ -1395,4 +1425,39 @@ export function chooseNames(candidates: readonly (readonly number[])[], heads: r
   };
   walk(0);
   return fits.length === 1 ? (fits[0] as number[]) : null;
+}
+
+/** Share of the columns of a found line's run past the tracer's end that must show the tracer's ink for the run to be the line's. */
+const OWN_INK_SHARE = 0.5;
+
+/** Membership in the tracer's ink model at which a pixel is the line's ink (the tracer's own threshold). */
+const OWN_INK_MEMBERSHIP = 0.4;
+
+/**
+ * Where a found line runs on past the tracer's end (by more than `margin`, in the line's own
+ * coordinates) in ink that is not the tracer's line's (membership under the tracer's threshold at
+ * most columns, within a pixel or so of the track), the column where the tracer's line ends;
+ * undefined where the run is the line's own ink, or there is none. A line of no clear hue (black,
+ * grey) tells nothing from a black label, and is left as found.
+ */
+export function notOwnInkFrom(image: RasterImage, track: Track, traced: readonly [number, number][], model: InkModel, margin: number, toSheetAt: (u: number, v: number) => SheetPoint): number | undefined {
+  if (model.mode !== 'chromatic' || traced.length === 0) return undefined;
+  const last = track.u[track.u.length - 1] as number;
+  const tracedEnd = Math.max(...traced.map(([u]) => u));
+  if (last - tracedEnd <= margin) return undefined;
+  let columns = 0;
+  let own = 0;
+  for (let u = Math.ceil(tracedEnd); u <= last; u++) {
+    const v = trackAt(track, u);
+    if (v === null) continue;
+    columns++;
+    // The best membership within a pixel or so across the track (the track is the ink's middle).
+    let best = 0;
+    for (let dv = -1.5; dv <= 1.5; dv += 0.5) {
+      const p = toSheetAt(u, v + dv);
+      best = Math.max(best, membershipAt(image, model, p[0] * image.scale, p[1] * image.scale));
+    }
+    if (best >= OWN_INK_MEMBERSHIP) own++;
+  }
+  return columns > 0 && own < OWN_INK_SHARE * columns ? tracedEnd : undefined;
 }
