@@ -5,18 +5,16 @@
  * curve ends, and was left out with a question). Where the tracer's line stops short and the line
  * found runs on in ink of another colour than the tracer's, the line ends where the tracer did.
  */
-import { readFileSync } from 'node:fs';
-import { join } from 'node:path';
-import { describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import { notOwnInkFrom } from '../../src/digitize/detect/rasterCurves.ts';
 import { trackOf } from '../../src/digitize/detect/rasterLines.ts';
 import { inkModel, type Rgb } from '../../src/digitize/colour.ts';
 import { sheetPoint } from '../../src/digitize/points.ts';
 import type { RasterImage } from '../../src/digitize/raster.ts';
-import { detectTakeoff } from '../../src/digitize/detect/detect.ts';
-import { loadImageSheetNode } from '../../src/digitize/loaders/imageNode.ts';
-import { textReaderNode } from '../../src/digitize/loaders/ocrNode.ts';
-import { parseTakeoffToDetect } from '../../src/model/takeoff.ts';
+import { closeTextReaderNode } from '../../src/digitize/loaders/ocrNode.ts';
+import { detectSample } from './sampleDetect.ts';
+
+afterAll(() => closeTextReaderNode());
 
 const PAPER: Rgb = [248, 246, 240];
 const GREEN: Rgb = [30, 140, 70];
@@ -65,13 +63,7 @@ describe('a line found running on past the tracer in other ink', () => {
 
 describe('the committed colour scan (an INVENTED sample sheet)', () => {
   it('names its 330 mm efficiency curve, which ends in the 330 mm label beside it, and asks nothing about its end', { timeout: 120_000 }, async () => {
-    const root = join(import.meta.dirname, '..', '..', 'samples', 'sheets');
-    const jpeg = readFileSync(join(root, 'si-panels-colour-scan.jpg'));
-    const sheet = await loadImageSheetNode(new Uint8Array(jpeg), { name: 'si-panels-colour-scan.jpg' });
-    const raw = JSON.parse(readFileSync(join(root, 'si-panels-colour-scan.takeoff.json'), 'utf8')) as Record<string, unknown>;
-    delete raw.panels;
-    delete raw.traces;
-    const got = await detectTakeoff(parseTakeoffToDetect(raw), raw, sheet, { reader: textReaderNode() });
+    const got = await detectSample('si-panels-colour-scan');
     expect(got.takeoff.traces.filter((t) => t.quantity === 'efficiency').map((t) => t.diameter)).toContain(330);
     expect(got.questions.join(' ')).not.toMatch(/efficiency curve on panel "efficiency" ending at/);
   });

@@ -19,8 +19,8 @@ import { closeTextReaderNode, textReaderNode } from '../../src/digitize/loaders/
 import type { RasterImage } from '../../src/digitize/raster.ts';
 import { detectTakeoff } from '../../src/digitize/detect/detect.ts';
 import { imageSheet } from '../../src/digitize/loaders/imageSheet.ts';
-import { loadImageSheetNode } from '../../src/digitize/loaders/imageNode.ts';
 import { parseTakeoffToDetect } from '../../src/model/takeoff.ts';
+import { detectSample } from './sampleDetect.ts';
 
 afterAll(() => closeTextReaderNode());
 
@@ -279,13 +279,7 @@ describe('the committed INVENTED sample scan with its axis titles above the fram
     // "330 mm" stands past the top curve's end with its digits blurred into one blot (dropped as
     // a word, its "mm" naming nothing), and "Flow (m³/h)" reads "Flow (mh)": the sheet had asked
     // for the four diameters and for the flow unit.
-    const root = join(import.meta.dirname, '..', '..', 'samples', 'sheets');
-    const jpeg = readFileSync(join(root, 'si-panels-colour-scan.jpg'));
-    const sheet = await loadImageSheetNode(new Uint8Array(jpeg), { name: 'si-panels-colour-scan.jpg' });
-    const raw = JSON.parse(readFileSync(join(root, 'si-panels-colour-scan.takeoff.json'), 'utf8')) as Record<string, unknown>;
-    delete raw.panels;
-    delete raw.traces;
-    const found = await detectTakeoff(parseTakeoffToDetect(raw), raw, sheet, { reader: textReaderNode() });
+    const found = await detectSample('si-panels-colour-scan');
     expect(found.questions.filter((q) => /diameters|flow unit|flow title/.test(q))).toEqual([]);
     const heads = found.takeoff.traces.filter((t) => t.quantity === 'head').map((t) => t.diameter);
     expect(heads.sort((a, b) => (b ?? 0) - (a ?? 0))).toEqual([330, 310, 290, 270]);
