@@ -111,6 +111,9 @@ const EXIT_TURN = 0.45;
 const COURSE_TURN = 0.35;
 const COURSE_MARGIN = 0.2;
 
+/** Least distance, pixels, of another guide that gives the trace's course (a hurried second click a few pixels from the first gives none). */
+const COURSE_MIN_PX = 40;
+
 /**
  * How far off the straight way between the two cut lines the guide may lie, share of the row's
  * height plus pixels: a click on the line's course through the label (a curve bends from that
@@ -165,8 +168,17 @@ export function guidesOffLabels(image: RasterImage, guides: readonly SheetPoint[
     const p: Px = [g[0] * image.scale, g[1] * image.scale];
     const before = guides[i - 1];
     const after = guides[i + 1];
-    const from = before ?? g;
-    const to = after ?? g;
+    // The course: from the nearest guide on either side that lies some way off (two guides a few
+    // pixels apart give no direction), else from the guide itself.
+    const away = (step: 1 | -1): SheetPoint | undefined => {
+      for (let j = i + step; j >= 0 && j < guides.length; j += step) {
+        const q = guides[j] as SheetPoint;
+        if (Math.hypot(q[0] - g[0], q[1] - g[1]) * image.scale >= COURSE_MIN_PX) return q;
+      }
+      return undefined;
+    };
+    const from = away(-1) ?? g;
+    const to = away(1) ?? g;
     const way = Math.hypot(to[0] - from[0], to[1] - from[1]);
     const course: Px | undefined = way > 0 ? [(to[0] - from[0]) / way, (to[1] - from[1]) / way] : undefined;
     const found = Number.isFinite(p[0]) && Number.isFinite(p[1]) && p[0] >= 0 && p[1] >= 0 && p[0] < image.width && p[1] < image.height ? labelExits(image, p, course) : undefined;

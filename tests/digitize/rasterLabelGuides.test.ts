@@ -5,7 +5,7 @@
  * (scripts/randomSheets) on which a lone guide on the label followed the letters and nothing else.
  */
 import { describe, expect, it } from 'vitest';
-import { labelExits } from '../../src/digitize/rasterLabels.ts';
+import { guidesOffLabels, labelExits } from '../../src/digitize/rasterLabels.ts';
 import type { RasterImage } from '../../src/digitize/raster.ts';
 import { bedLineTrace, distanceToLine } from './fixtures/bedTrace.ts';
 import { captureTrace } from '../../src/digitize/capture.ts';
@@ -94,6 +94,17 @@ describe('labelExits: a guide on a label printed over its line', () => {
     for (const p of got!.exits) expect(Math.abs(p[1] - lineY(p[0]))).toBeLessThan(2);
     // A course between the two lines' ways tells nothing.
     expect(labelExits(image, guide, [1 / Math.hypot(1, 0.2), -0.2 / Math.hypot(1, 0.2)])).toBeUndefined();
+  });
+
+  it('takes the trace\'s course from a guide some way off, not from a second click a few pixels from the first', () => {
+    const other = (x: number) => 150 - 0.6 * (x - 210);
+    const image = picture((x, y) => onLetter(x, y) || (!onPatch(x, y) && (onLine(x, y) || Math.abs(y - other(x)) <= 1)));
+    // On the label, a hurried second click 2 px off along the other line's way, and a guide far out on the line.
+    const guides = [sheetPoint(212, 150), sheetPoint(213.1, 148.1), sheetPoint(320, lineY(320))];
+    const got = guidesOffLabels(image, guides);
+    // Both clicks sit on the label; each stands for the places where the traced line leaves it.
+    expect(got.offLabels.map((m) => m.guide)).toEqual([1, 2]);
+    for (const m of got.offLabels) for (const p of m.at) expect(Math.abs(p[1] - lineY(p[0]))).toBeLessThan(2);
   });
 
   it('leaves a guide alone where lines run together into the label (their ink beside it is no one stroke)', () => {
