@@ -18,6 +18,7 @@
  * Pure: reads the RGBA buffer only.
  */
 import { colourDistance, estimatePaper, MIN_CONTRAST, windowAround } from './colour.ts';
+import { floodPiece } from './flood.ts';
 import { sheetPoint, type SheetPoint } from './points.ts';
 import type { RasterImage } from './raster.ts';
 
@@ -500,67 +501,44 @@ function smallPieceAt(image: RasterImage, guide: Px, isInk: (x: number, y: numbe
   }
   if (start < 0) return false;
   const seen = new Set([start]);
-  const stack = [start];
   let [x0, y0, x1, y1] = [Infinity, Infinity, -Infinity, -Infinity];
-  while (stack.length > 0) {
-    const p = stack.pop() as number;
-    const x = p % image.width;
-    const y = (p - x) / image.width;
+  const take = (q: number) => {
+    if (seen.has(q) || !isInk(q % image.width, Math.floor(q / image.width))) return false;
+    seen.add(q);
+    return true;
+  };
+  return floodPiece(start, image.width, image.height, take, (_, x, y) => {
     x0 = Math.min(x0, x);
     y0 = Math.min(y0, y);
     x1 = Math.max(x1, x + 1);
     y1 = Math.max(y1, y + 1);
-    if (y1 - y0 > GLYPH_MAX_PX || x1 - x0 > 1.5 * GLYPH_MAX_PX) return false;
-    for (let dy = -1; dy <= 1; dy++) {
-      for (let dx = -1; dx <= 1; dx++) {
-        const xx = x + dx;
-        const yy = y + dy;
-        const q = yy * image.width + xx;
-        if (xx < 0 || yy < 0 || xx >= image.width || yy >= image.height || seen.has(q) || !isInk(xx, yy)) continue;
-        seen.add(q);
-        stack.push(q);
-      }
-    }
-  }
-  return true;
+    return y1 - y0 <= GLYPH_MAX_PX && x1 - x0 <= 1.5 * GLYPH_MAX_PX;
+  });
 }
 
 /** Connected components (8-neighbour) of a mask; `label` holds each pixel's component, -1 for none. */
 function connected(mask: Uint8Array, w: number, h: number): { label: Int32Array; components: Component[] } {
   const label = new Int32Array(w * h).fill(-1);
   const components: Component[] = [];
-  const stack: number[] = [];
   for (let start = 0; start < mask.length; start++) {
     if (!mask[start] || (label[start] as number) >= 0) continue;
     const k = components.length;
     const c: Component = { pixels: [], x0: Infinity, y0: Infinity, x1: -Infinity, y1: -Infinity, edge: false };
     components.push(c);
     label[start] = k;
-    stack.push(start);
-    while (stack.length > 0) {
-      const p = stack.pop() as number;
+    const take = (q: number) => {
+      if (!mask[q] || (label[q] as number) >= 0) return false;
+      label[q] = k;
+      return true;
+    };
+    floodPiece(start, w, h, take, (p, x, y) => {
       c.pixels.push(p);
-      const x = p % w;
-      const y = (p - x) / w;
       c.x0 = Math.min(c.x0, x);
       c.y0 = Math.min(c.y0, y);
       c.x1 = Math.max(c.x1, x + 1);
       c.y1 = Math.max(c.y1, y + 1);
       if (x === 0 || y === 0 || x === w - 1 || y === h - 1) c.edge = true;
-      for (let dy = -1; dy <= 1; dy++) {
-        const yy = y + dy;
-        if (yy < 0 || yy >= h) continue;
-        for (let dx = -1; dx <= 1; dx++) {
-          const xx = x + dx;
-          if (xx < 0 || xx >= w) continue;
-          const q = yy * w + xx;
-          if (mask[q] && (label[q] as number) < 0) {
-            label[q] = k;
-            stack.push(q);
-          }
-        }
-      }
-    }
+    });
   }
   return { label, components };
 }

@@ -9,6 +9,7 @@
  *
  * Pure.
  */
+import { floodPiece } from '../flood.ts';
 import type { RasterImage } from '../raster.ts';
 import type { InkMap, Level } from './ink.ts';
 import type { Box } from './panels.ts';
@@ -56,38 +57,25 @@ export function inkBlots(map: InkMap, threshold: number, frames: readonly Box[],
     for (let y = Math.max(0, Math.ceil(t + 3)); y < Math.min(height, Math.floor(b - 3)); y++) seen.fill(1, y * width + Math.max(0, Math.ceil(l + 3)), y * width + Math.min(width, Math.floor(r - 3)));
   }
   const blots: Blot[] = [];
-  const stack: number[] = [];
+  const take = (n: number) => {
+    if (seen[n] || (ink[n] as number) < threshold) return false;
+    seen[n] = 1;
+    return true;
+  };
   for (let i = 0; i < ink.length; i++) {
-    if (seen[i] || (ink[i] as number) < threshold) continue;
-    seen[i] = 1;
-    stack.push(i);
+    if (!take(i)) continue;
     let l = width;
     let t = height;
     let r = 0;
     let b = 0;
     let count = 0;
-    while (stack.length > 0) {
-      const k = stack.pop() as number;
-      const x = k % width;
-      const y = (k - x) / width;
+    floodPiece(i, width, height, take, (_, x, y) => {
       count++;
       if (x < l) l = x;
       if (x > r) r = x;
       if (y < t) t = y;
       if (y > b) b = y;
-      for (let dy = -1; dy <= 1; dy++) {
-        const yy = y + dy;
-        if (yy < 0 || yy >= height) continue;
-        for (let dx = -1; dx <= 1; dx++) {
-          const xx = x + dx;
-          if (xx < 0 || xx >= width) continue;
-          const n = yy * width + xx;
-          if (seen[n] || (ink[n] as number) < threshold) continue;
-          seen[n] = 1;
-          stack.push(n);
-        }
-      }
-    }
+    });
     const bw = r - l + 1;
     const bh = b - t + 1;
     const wordLike = word !== undefined && bh >= word.minHeight && bh <= word.maxHeight && bw <= word.maxWidth && count >= word.fill * bw * bh;
