@@ -29,6 +29,8 @@ export interface CaptureRequest {
   frame?: readonly [number, number, number, number] | undefined;
   /** The guides of the sheet's other traces: on vector paths they settle which of several near lines is this trace's. */
   siblings?: readonly (readonly SheetPoint[])[] | undefined;
+  /** The guides of the same impeller's head trace (`companionGuides`): on a raster, a colour to try where this trace's guides sample lines run together. */
+  companions?: readonly (readonly SheetPoint[])[] | undefined;
 }
 
 export interface CaptureSource {
@@ -127,7 +129,7 @@ function bunchDoubt(others: number): TraceDoubt {
 }
 
 function rasterOptions(request: CaptureRequest, options: CaptureOptions): RasterTraceOptions {
-  return { ...options.raster, ...(request.extent ? { extent: request.extent } : {}), ...(request.frame ? { frame: request.frame } : {}), ...(request.siblings ? { siblings: request.siblings } : {}) };
+  return { ...options.raster, ...(request.extent ? { extent: request.extent } : {}), ...(request.frame ? { frame: request.frame } : {}), ...(request.siblings ? { siblings: request.siblings } : {}), ...(request.companions && request.companions.length > 0 ? { companions: request.companions } : {}) };
 }
 
 /** Resamples a capture evenly (a point every `spacing` sheet units, at least 30), so fits weigh the curve evenly. */

@@ -59,11 +59,12 @@ export async function closeRetrace(working: RasterTraceResult, workingScale: num
   const [ox, oy] = region.origin;
   const shift = (p: SheetPoint, sign: 1 | -1) => sheetPoint(p[0] + sign * ox, p[1] + sign * oy);
   const frame = options.frame;
-  // Everything the follower is given in sheet units moves with the region's origin: the frame and the other traces' guides.
+  // Everything the follower is given in sheet units moves with the region's origin: the frame and the other traces' guides (companions on other panels then fall outside the region and are passed over).
   const shifted: RasterTraceOptions = {
     ...options,
     ...(frame ? { frame: [frame[0] - ox, frame[1] - oy, frame[2] - ox, frame[3] - oy] as const } : {}),
     ...(options.siblings ? { siblings: options.siblings.map((guides) => guides.map((g) => shift(g, -1))) } : {}),
+    ...(options.companions ? { companions: options.companions.map((guides) => guides.map((g) => shift(g, -1))) } : {}),
   };
   let close: RasterTraceResult;
   try {

@@ -50,6 +50,12 @@ export interface RasterTraceOptions {
    * to the last only.
    */
   extent?: 'guides' | 'line';
+  /**
+   * The guides of the same impeller's (or speed's) head trace, for a trace of another quantity
+   * (`companionGuides`), sheet units: where the model sampled at this trace's guides is a mix of
+   * lines run together, the colour of the head curve's line is tried as this line's.
+   */
+  companions?: readonly (readonly SheetPoint[])[];
   /** Plot frame [left, top, right, bottom] in sheet units: a whole-line trace stops at it. */
   frame?: readonly [number, number, number, number];
   /**
@@ -609,7 +615,7 @@ export function traceRaster(original: RasterImage, guides: readonly SheetPoint[]
   // A guide on a label printed over the line stands for the two places where the line leaves the label.
   const { guides: taken, numbers, offLabels, boxes } = guidesOffLabels(image, guides);
   const labelled = offLabels.length > 0 ? { offLabels } : {};
-  const first = { ...traceOn(image, taken, options, false, numbers, boxes), ...labelled };
+  const first = { ...traceWithCompanions(image, taken, options, false, numbers, boxes), ...labelled };
   const span = polylineLength(first.points) * image.scale;
   const bare = first.points.length <= NOTHING_FOLLOWED;
   const short = bare || span < Math.max(LITTLE_FOLLOWED_PX, LITTLE_FOLLOWED_WIDTHS * first.line.widthPx);
@@ -628,7 +634,7 @@ export function traceRaster(original: RasterImage, guides: readonly SheetPoint[]
   // seeds 1-200: 20 curves right that were wrong or missing and 1 wrong that was right with
   // hurried guides, 3 and 1 with careful ones; fresh seeds 841-1040, hurried: 13 and 1, the
   // broken ones flagged).
-  const again = { ...traceOn(image, taken, options, true, numbers, boxes), ...labelled };
+  const again = { ...traceWithCompanions(image, taken, options, true, numbers, boxes), ...labelled };
   const farther = bare ? again.points.length > first.points.length : polylineLength(again.points) * image.scale > FARTHER * span;
   const kept = again.line.dashed && (short ? farther && again.line.widthPx <= Math.max(RETRY_WIDTH * first.line.widthPx, RETRY_WIDTH_PX) : unseen(again) < unseen(first) && again.lost.length < first.lost.length && again.line.widthPx <= RETRY_WIDTH * first.line.widthPx);
   if (!kept) return { ...first, pixelsRead: first.pixelsRead + again.pixelsRead };
@@ -678,8 +684,32 @@ function polylineLength(points: readonly SheetPoint[]): number {
   return length;
 }
 
-/** One trace on the image with the grid taken out; `ownBand`: a dash pattern is looked for in the line's own band. */
-function traceOn(image: RasterImage, guides: readonly SheetPoint[], options: RasterTraceOptions, ownBand: boolean, numbers?: readonly number[], labels: readonly LabelBox[] = []): RasterTraceResult {
+/**
+ * `traceOn`, and where it took its model from a companion's colour, `traceOn` again without
+ * companions: the companion's trace is kept only where it loses the line, or leaves a stretch
+ * between guides unseen, no more often in all, and runs at least `COMPANION_LENGTH` as far (a
+ * companion's colour measured thin at a lone guide in a bunch, or a dashed bunch's model that
+ * followed the line better than a clean stroke of the head curve's colour: random bed, hurried
+ * guides, photos 38 and 146).
+ */
+function traceWithCompanions(image: RasterImage, guides: readonly SheetPoint[], options: RasterTraceOptions, ownBand: boolean, numbers?: readonly number[], labels: readonly LabelBox[] = []): RasterTraceResult {
+  const note: { byCompanion?: boolean } = {};
+  const got = traceOn(image, guides, options, ownBand, numbers, labels, note);
+  if (!note.byCompanion) return got;
+  const { companions: _, ...alone } = options;
+  const plain = traceOn(image, guides, alone, ownBand, numbers, labels);
+  const pixelsRead = got.pixelsRead + plain.pixelsRead;
+  const lost = (r: RasterTraceResult) => r.lost.filter((l) => !l.bridged).length;
+  const unseen = (r: RasterTraceResult) => r.doubts.filter((d) => d.code === 'takeoff.stretch-unseen').length;
+  const better = lost(got) + unseen(got) <= lost(plain) + unseen(plain) && polylineLength(got.points) >= COMPANION_LENGTH * polylineLength(plain.points);
+  return { ...(better ? got : plain), pixelsRead };
+}
+
+/** Share of the length of a trace without companions that a trace by a companion's colour must reach to be kept. */
+const COMPANION_LENGTH = 0.9;
+
+/** One trace on the image with the grid taken out; `ownBand`: a dash pattern is looked for in the line's own band; `note.byCompanion` says the model came from a companion's colour. */
+function traceOn(image: RasterImage, guides: readonly SheetPoint[], options: RasterTraceOptions, ownBand: boolean, numbers?: readonly number[], labels: readonly LabelBox[] = [], note: { byCompanion?: boolean } = {}): RasterTraceResult {
   // The user's number of each guide (1-based): a guide on a label stands for two here.
   const name = (k: number) => numbers?.[k - 1] ?? k;
   const px = validateGuides(image, guides);
@@ -697,7 +727,6 @@ function traceOn(image: RasterImage, guides: readonly SheetPoint[], options: Ras
   // solid under one guide, and a solid model then loses it at the first gap).
   // A model sampled off the line (a stronger grid line or a neighbour beside the guide) finds
   // no ink of its colour at most other guides: the model that finds ink at the most guides wins.
-  type Acquired = NonNullable<ReturnType<typeof acquire>>;
   // A guide where other lines touch the line (a bunch, a crossing) vouches for a model by half:
   // its own line may be hidden under the others there, and what it sampled may be another
   // line's colour. Among models that agree as well with the guides, one sampled where the line
@@ -762,6 +791,23 @@ function traceOn(image: RasterImage, guides: readonly SheetPoint[], options: Ras
       first = i + 1;
     }
   });
+  // A sample where lines run together is a mix of their colours, and a model of the mix follows
+  // the bunch or loses the line. A sheet in colour mostly draws one impeller's curves in one
+  // colour on every panel, and its head curve most often stands alone where it was clicked: the
+  // colour of the same impeller's head curve (`companions`) is tried at this trace's guides
+  // where the model chosen is far wider or thinner than the head line (`companionChoice`; random
+  // bed scan 66, careful guides: a pink efficiency curve between blue and olive ones over its
+  // whole length, sampled as a 4.7 px mix, 8 points off). `traceWithCompanions` keeps the
+  // result only where it does better.
+  if (chosen && !options.colour && options.companions) {
+    const mix = chosen;
+    const better = companionChoice(image, px, options.companions, search, options, ownBand, mix, (c) => px.filter((g) => nearestInk(image, c.style.model, g, vouchRadius) !== undefined).length, standIn, asClicked, counter);
+    if (better) {
+      chosen = better.got;
+      first = better.guide + 1;
+      note.byCompanion = true;
+    }
+  }
   const acquired = chosen;
   if (!acquired) {
     return {
@@ -982,6 +1028,66 @@ function acrossAt(image: RasterImage, style: LineStyle, centre: Px, axis: Px, ne
   }
   return true;
 }
+
+/**
+ * The model taken from the colour of the same impeller's head curve (see `traceOn`): its
+ * guides are sampled, and a sample counts where it is of a clear hue and its line stands alone
+ * (room beside it, one solid stroke). Where the chosen model measures over `SOLO_WIDTH` times as
+ * wide as that line (a broad mix of lines run together) or under its width over `SOLO_WIDTH` (the
+ * blend where two colours meet), the colour is measured at this trace's guides and kept at a guide
+ * where it finds one clean solid stroke, clearly thinner than a broad mix or clearly wider than a
+ * thin one and no more than `SOLO_WIDTH` times the head line's width, with its ink found at half
+ * the guides or more (`found`). Of several, the one found at the most guides, then the thinnest.
+ * Undefined when none is so.
+ */
+function companionChoice(
+  image: RasterImage,
+  px: readonly Px[],
+  companions: readonly (readonly SheetPoint[])[],
+  search: number,
+  options: RasterTraceOptions,
+  ownBand: boolean,
+  mix: Acquired,
+  found: (c: Acquired) => number,
+  standIn: readonly boolean[],
+  asClicked: boolean,
+  counter: ReadCounter,
+): { got: Acquired; guide: number } | undefined {
+  let out: { got: Acquired; guide: number; found: number } | undefined;
+  for (const list of companions) {
+    // The colour of the companion where its line has the most room.
+    let colour: { rgb: Rgb; room: number; width: number } | undefined;
+    for (const g of list) {
+      const at: Px = [g[0] * image.scale, g[1] * image.scale];
+      if (!(at[0] >= 0 && at[1] >= 0 && at[0] < image.width && at[1] < image.height)) continue;
+      const c = acquire(image, at, search, {});
+      if (!c || c.style.model.mode !== 'chromatic' || c.style.reach || c.isotropy > SOLO_ISOTROPY) continue;
+      const room = clearance(image, c.style, c.centre, c.axis, counter);
+      if (room > BUNCH_CLEARANCE && (!colour || room > colour.room)) colour = { rgb: c.style.model.line, room, width: c.style.width };
+    }
+    // The chosen model is no mix where it is about as wide as the companion's line alone. A mix
+    // measures wider (lines run together read as one broad stroke) or far thinner (the sample
+    // caught the blend where two colours meet, which no line of the bunch matches along its length).
+    if (!colour) continue;
+    const wider = mix.style.width > SOLO_WIDTH * colour.width;
+    const thinner = SOLO_WIDTH * mix.style.width < colour.width;
+    if (!wider && !thinner) continue;
+    const { rgb, width: alone } = colour;
+    const fits = (w: number) => (wider ? SOLO_WIDTH * w <= mix.style.width : w >= SOLO_WIDTH * mix.style.width && w <= SOLO_WIDTH * alone);
+    px.forEach((g, k) => {
+      if (asClicked && standIn[k]) return;
+      const got = acquire(image, g, search, { ...options, colour: rgb }, ownBand);
+      if (!got || got.style.reach || got.isotropy > SOLO_ISOTROPY || !fits(got.style.width)) return;
+      const n = found(got);
+      if (2 * n < px.length) return;
+      if (!out || n > out.found || (n === out.found && got.style.width < out.got.style.width)) out = { got, guide: k, found: n };
+    });
+  }
+  return out && { got: out.got, guide: out.guide };
+}
+
+/** What `acquire` finds under a guide. */
+type Acquired = NonNullable<ReturnType<typeof acquire>>;
 
 /**
  * How much room the line has at `centre`, pixels: the least gap, over sections across the line at

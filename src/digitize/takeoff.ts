@@ -25,6 +25,7 @@ import { sheetPoint, type SheetPoint } from './points.ts';
 import { safeScale, type Sheet } from './sheet.ts';
 import { strokeLines } from './vectorCapture.ts';
 import { siblingGuides } from './vectorChoice.ts';
+import { companionGuides } from './companions.ts';
 import type { StrokeLine } from './strokeJoin.ts';
 import { checkTotalPoints, checkTracePoints } from '../model/limits.ts';
 import { resolveTakeoffUnits, traceUnits } from './takeoffUnits.ts';
@@ -118,6 +119,8 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
   let pointsSoFar = 0;
   // Each trace's guides, so a vector capture can tell which of several near lines is whose (vectorChoice.ts).
   const siblings = siblingGuides(takeoff.traces);
+  // Each trace's companion: the same impeller's head trace, whose colour a raster trace tries where its guides sample lines run together.
+  const companions = companionGuides(takeoff.traces);
   const captureOne = async (index: number, trace: Trace, guides: readonly SheetPoint[] | undefined, captured?: CaptureResult): Promise<void> => {
     const id = trace.id ?? String(index + 1);
     const saved = trace.captured && trace.captured.length > 0 ? trace.captured.map(([x, y]) => sheetPoint(x, y)) : null;
@@ -127,7 +130,7 @@ export async function replayTakeoff(takeoff: Takeoff, sheet: Sheet, options: Rep
       outcome = { index, id, how: trace.captured_by ?? 'saved', fromFile: true, points: saved, notes: [] };
     } else {
       const got = captured ?? await captureTrace(
-        { points: trace.points?.map(([x, y]) => sheetPoint(x, y)), guides, method: trace.method, extent: trace.extent, frame: takeoff.panels.find((p) => p.id === trace.panel)?.frame, siblings: siblings.filter((_, k) => k !== index) },
+        { points: trace.points?.map(([x, y]) => sheetPoint(x, y)), guides, method: trace.method, extent: trace.extent, frame: takeoff.panels.find((p) => p.id === trace.panel)?.frame, siblings: siblings.filter((_, k) => k !== index), companions: companions[index] },
         source,
         options.capture,
       ).catch((error: unknown) => {

@@ -20,6 +20,7 @@ import type { SheetCanvas } from '../canvas/sheetCanvas.ts';
 import type { Autosave } from '../persist/autosave.ts';
 import type { SheetWorkerClient } from '../worker/client.ts';
 import { siblingGuides } from '../../digitize/vectorChoice.ts';
+import { companionGuidesOf } from '../../digitize/companions.ts';
 
 /** What getting a sheet onto the workbench needs of it. */
 export interface SheetFlowHost {
@@ -255,7 +256,8 @@ export class SheetFlow {
       this.progress(`Tracing ${i + 1} of ${missing.length}`, i / missing.length);
       try {
         const siblings = siblingGuides(this.store.draft.traces.filter((x) => x.id !== t.id)).map((g) => g.map((p): [number, number] => [p[0], p[1]]));
-        const answer = await this.bench.worker.call('capture', { guides: t.guides.map((g) => [g[0], g[1]]), method: t.method, ...(t.extent ? { extent: t.extent } : {}), ...frameOfPanel(this.store.draft.panels, t.panel), siblings });
+        const companions = companionGuidesOf(this.store.draft.traces, this.store.draft.traces.indexOf(t)).map((g) => g.map((p): [number, number] => [p[0], p[1]]));
+        const answer = await this.bench.worker.call('capture', { guides: t.guides.map((g) => [g[0], g[1]]), method: t.method, ...(t.extent ? { extent: t.extent } : {}), ...frameOfPanel(this.store.draft.panels, t.panel), siblings, companions });
         const draft = this.store.draft;
         this.store.dispatch(() => ({ draft: { ...draft, traces: draft.traces.map((x) => (x.id === t.id ? { ...x, captured: answer.points } : x)) }, label: 'capture', undoable: false }));
         if (answer.doubts.length) this.store.say(`Trace ${t.id}: ${answer.doubts.join(' ')}`, 'caution');

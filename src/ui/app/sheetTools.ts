@@ -19,6 +19,7 @@ import type { AnchorProposal } from '../worker/protocol.ts';
 import type { SheetWorkerClient } from '../worker/client.ts';
 import type { SheetKind } from '../../digitize/sheet.ts';
 import { siblingGuides } from '../../digitize/vectorChoice.ts';
+import { companionGuidesOf } from '../../digitize/companions.ts';
 import { num } from '../views/words.ts';
 import type { Derived } from './bench.ts';
 import { bestProposal } from './proposals.ts';
@@ -106,7 +107,10 @@ export class SheetTools implements ToolHost {
     this.host.store.setSession({ busy: true, progress: { label: 'Tracing…', fraction: null } });
     try {
       const siblings = siblingGuides(this.host.store.draft.traces.filter((t) => t.id !== traceId)).map((g) => g.map((p): [number, number] => [p[0], p[1]]));
-      const answer = await this.host.worker.call('capture', { guides: guides.map((g) => [g[0], g[1]]), method, ...(extent ? { extent } : {}), ...frameOfPanel(this.host.store.draft.panels, panel), siblings }, (p) => this.host.store.setSession({ progress: { label: p.label, fraction: p.fraction } }));
+      // The same impeller's head trace, as the replay hands it in (a trace being drawn has none until it is labelled).
+      const traces = this.host.store.draft.traces;
+      const companions = companionGuidesOf(traces, traces.findIndex((t) => t.id === traceId)).map((g) => g.map((p): [number, number] => [p[0], p[1]]));
+      const answer = await this.host.worker.call('capture', { guides: guides.map((g) => [g[0], g[1]]), method, ...(extent ? { extent } : {}), ...frameOfPanel(this.host.store.draft.panels, panel), siblings, companions }, (p) => this.host.store.setSession({ progress: { label: p.label, fraction: p.fraction } }));
       if (answer.points.length < 2) {
         const why = answer.gaps.length ? ` (${answer.gaps.join(' ')})` : '';
         throw new Error(`No line could be followed from this click${why}; click right on the line, zoom in if lines run close, or add guides with Shift-click.`);

@@ -15,7 +15,8 @@ export async function captureOnPage(session: PageSession, request: CaptureReques
   progress({ fraction: null, label: vector ? 'Finding the drawn line' : 'Following the line through the picture' });
   // The other traces' guides, as the headless replay hands them in, so that both choose the same path in a bunch.
   const siblings = (request.siblings ?? []).map((g) => g.map((p) => sheetPoint(p[0], p[1])));
-  const result = await captureTrace({ guides, method: request.method, extent: request.extent, frame: request.frame, siblings }, { kind: session.sheet.kind, lines: session.lines, raster: session.raster });
+  const companions = (request.companions ?? []).map((g) => g.map((p) => sheetPoint(p[0], p[1])));
+  const result = await captureTrace({ guides, method: request.method, extent: request.extent, frame: request.frame, siblings, companions }, { kind: session.sheet.kind, lines: session.lines, raster: session.raster });
   const doubts = (result.doubts ?? []).map((d) => `${d.message[0]?.toUpperCase() ?? ''}${d.message.slice(1)}.`);
   return { points: result.points.map((p) => [p[0], p[1]] as XY), used: result.how === 'vector' ? 'vector' : 'raster', gaps: result.notes, doubts, moved: result.moved ?? [] };
 }

@@ -24,6 +24,8 @@ export interface CaptureRequest {
   frame?: Rect;
   /** The other traces' guides (vectorChoice.siblingGuides), so that a capture in a bunch takes the path the replay takes. */
   siblings?: XY[][];
+  /** The guides of the same impeller's head trace (companions.companionGuidesOf): a colour a raster trace tries where its guides sample lines run together. */
+  companions?: XY[][];
 }
 
 export interface CaptureAnswer {

@@ -1,0 +1,189 @@
+/**
+ * A raster trace whose guides all sit where lines of several colours run together: the colour of
+ * the same impeller's line on another panel (its companion, clicked where it stands alone) is
+ * tried at the guides (`companions` in `traceRaster`, `companionGuides` in companions.ts).
+ * Synthetic pictures, and an invented sheet of the random bed where it was found.
+ */
+import { describe, expect, it } from 'vitest';
+import { traceRaster } from '../../src/digitize/rasterTrace.ts';
+import { sheetPoint } from '../../src/digitize/points.ts';
+import { companionGuides, companionGuidesOf } from '../../src/digitize/companions.ts';
+import type { RasterImage } from '../../src/digitize/raster.ts';
+import { bedLineTrace, distanceToLine } from './fixtures/bedTrace.ts';
+
+const W = 520;
+const H = 320;
+const PAPER = 248;
+
+type Rgb = readonly [number, number, number];
+const PINK: Rgb = [214, 60, 165];
+const BLUE: Rgb = [31, 119, 180];
+const OLIVE: Rgb = [150, 150, 20];
+
+/** Lines of ink over paper, anti-aliased by 4 × 4 sub-samples; where lines overlap their inks multiply, as printed ink does. */
+function picture(lines: readonly { ink: Rgb; at: (x: number, y: number) => boolean }[]): RasterImage {
+  const data = new Uint8ClampedArray(W * H * 4);
+  for (let y = 0; y < H; y++) {
+    for (let x = 0; x < W; x++) {
+      const i = (y * W + x) * 4;
+      const rgb = [PAPER, PAPER, PAPER];
+      for (const line of lines) {
+        let cover = 0;
+        for (let sy = 0; sy < 4; sy++) for (let sx = 0; sx < 4; sx++) if (line.at(x + (sx + 0.5) / 4, y + (sy + 0.5) / 4)) cover++;
+        const a = cover / 16;
+        for (let k = 0; k < 3; k++) rgb[k] = rgb[k]! * (1 - a + (a * line.ink[k]!) / 255);
+      }
+      for (let k = 0; k < 3; k++) data[i + k] = Math.round(rgb[k]!);
+      data[i + 3] = 255;
+    }
+  }
+  return { width: W, height: H, data: blurred(data), scale: 1 };
+}
+
+/** A scanner's blur: each channel averaged with weights 1-2-1 across and along. */
+function blurred(data: Uint8ClampedArray): Uint8ClampedArray {
+  const out = new Uint8ClampedArray(data.length);
+  for (let y = 0; y < H; y++) {
+    for (let x = 0; x < W; x++) {
+      const i = (y * W + x) * 4;
+      for (let k = 0; k < 3; k++) {
+        let sum = 0;
+        let weight = 0;
+        for (let dy = -1; dy <= 1; dy++) {
+          for (let dx = -1; dx <= 1; dx++) {
+            const xx = Math.min(W - 1, Math.max(0, x + dx));
+            const yy = Math.min(H - 1, Math.max(0, y + dy));
+            const w = (2 - Math.abs(dx)) * (2 - Math.abs(dy));
+            sum += w * data[(yy * W + xx) * 4 + k]!;
+            weight += w;
+          }
+        }
+        out[i + k] = Math.round(sum / weight);
+      }
+      out[i + 3] = 255;
+    }
+  }
+  return out;
+}
+
+const WIDTH = 2.2;
+/** Three curves drawn 1.3 line widths apart (run together once blurred) from x = 20 to 380, fanning out beyond; `k` = −1, 0, 1. */
+const bunchY = (k: number, x: number) => 200 - 0.25 * x + k * (1.3 * WIDTH + Math.max(0, x - 380) * 0.25);
+const onBunch = (k: number) => (x: number, y: number) => x >= 20 && x <= 500 && Math.abs(y - bunchY(k, x)) <= WIDTH / 2;
+/** The pink line's companion: the same impeller's curve on another panel, a level line standing alone. */
+const onCompanion = (x: number, y: number) => x >= 40 && x <= 480 && Math.abs(y - 290) <= WIDTH / 2;
+
+const image = picture([
+  { ink: BLUE, at: onBunch(-1) },
+  { ink: PINK, at: onBunch(0) },
+  { ink: OLIVE, at: onBunch(1) },
+  { ink: PINK, at: onCompanion },
+]);
+const pinkLine = Array.from({ length: 49 }, (_, j) => [20 + 10 * j, bunchY(0, 20 + 10 * j)] as const);
+/** Guides on the pink line inside the bunch, where a hurried or careful click alike lands among the others. */
+const guides = [100, 200, 300].map((x) => sheetPoint(x, bunchY(0, x)));
+const companions = [[sheetPoint(150, 290), sheetPoint(350, 290)]];
+
+/** Share of the pink line (x from 40 to 480) that the trace runs along, within a line width, and the trace's farthest point off the pink line. */
+function onPink(points: readonly (readonly [number, number])[]): { covered: number; worst: number } {
+  const inside = pinkLine.filter((p) => p[0] >= 40 && p[0] <= 480);
+  const covered = points.length < 2 ? 0 : inside.filter((p) => distanceToLine(points, p) <= WIDTH).length / inside.length;
+  return { covered, worst: Math.max(...points.map((p) => distanceToLine(pinkLine, p))) };
+}
+
+describe('traceRaster: companions, where every guide sits in a bunch', () => {
+  // Blue, pink and olive lines run together; the sample under each guide is the blend where two
+  // colours meet, a thin model that no line follows along its length.
+  it('without companions the trace loses the pink line (the case the rule is for)', () => {
+    const got = traceRaster(image, guides);
+    expect(onPink(got.points).covered).toBeLessThan(0.5);
+  });
+
+  it("takes the colour of the pink head curve and follows the pink line through the bunch and on past the fan", () => {
+    const got = traceRaster(image, guides, { companions });
+    expect(got.line.widthPx).toBeGreaterThan(1.5);
+    const { covered, worst } = onPink(got.points);
+    expect(covered).toBeGreaterThan(0.95);
+    expect(worst).toBeLessThan(1);
+  });
+});
+
+describe('traceRaster: companions leave a clean sample alone', () => {
+  it('changes nothing where the line taken is about as wide as the companion line alone', () => {
+    // The pink line alone (no neighbours), its companion of another colour.
+    const alone = picture([{ ink: PINK, at: onBunch(0) }, { ink: BLUE, at: onCompanion }]);
+    const plain = traceRaster(alone, guides);
+    const withBlue = traceRaster(alone, guides, { companions });
+    expect(onPink(plain.points).covered).toBeGreaterThan(0.95);
+    expect(withBlue.points).toEqual(plain.points);
+    expect(withBlue.line.colour).toEqual(plain.line.colour);
+  });
+
+  it('changes nothing in a bunch where the companion is of the same hue as a neighbour (its colour measures as wide as the mix)', () => {
+    const crimson = picture([
+      { ink: [170, 20, 90], at: onBunch(-1) },
+      { ink: PINK, at: onBunch(0) },
+      { ink: OLIVE, at: onBunch(1) },
+      { ink: PINK, at: onCompanion },
+    ]);
+    const plain = traceRaster(crimson, guides);
+    const got = traceRaster(crimson, guides, { companions });
+    expect(got.points).toEqual(plain.points);
+  });
+});
+
+describe('companionGuides', () => {
+  const traces = [
+    { quantity: 'head', diameter: 300, guides: [[1, 2]] as [number, number][] },
+    { quantity: 'efficiency', diameter: 300, guides: [[3, 4]] as [number, number][] },
+    { quantity: 'efficiency', diameter: 280, guides: [[5, 6]] as [number, number][] },
+    { quantity: 'power', diameter: 300, guides: [[7, 8]] as [number, number][] },
+    { quantity: 'efficiency', iso: 70, guides: [[9, 9]] as [number, number][] },
+    { quantity: 'head', diameter: 280, points: [[1, 1]], guides: [[2, 2]] as [number, number][] },
+    { quantity: 'npshr', speed: 1450, guides: [[4, 4]] as [number, number][] },
+    { quantity: 'head', speed: 1450, guides: [[6, 6]] as [number, number][] },
+  ];
+  it("gives each efficiency, power or NPSHr trace the guides of the same impeller's (or speed's) head trace", () => {
+    expect(companionGuidesOf(traces, 1)).toEqual([[[1, 2]]]);
+    expect(companionGuidesOf(traces, 3)).toEqual([[[1, 2]]]);
+    expect(companionGuidesOf(traces, 6)).toEqual([[[6, 6]]]);
+  });
+  it('gives none to a head trace, an iso-trace, or where the head trace is given by points', () => {
+    expect(companionGuidesOf(traces, 0)).toEqual([]);
+    expect(companionGuidesOf(traces, 4)).toEqual([]);
+    expect(companionGuidesOf(traces, 2)).toEqual([]);
+    expect(companionGuides(traces)).toHaveLength(traces.length);
+  });
+});
+
+describe('companions on the random bed', () => {
+  const offShare = (got: { points: readonly (readonly [number, number])[] }, line: readonly (readonly [number, number])[], width: number) => got.points.filter((p) => distanceToLine(line, p) > Math.max(2, width)).length / Math.max(1, got.points.length);
+  /** Share of the drawn line (its middle 80 %) that the trace runs along, within two line widths. */
+  const covered = (got: { points: readonly (readonly [number, number])[] }, line: readonly (readonly [number, number])[], width: number) => {
+    const middle = line.slice(Math.floor(line.length * 0.1), Math.ceil(line.length * 0.9));
+    return got.points.length < 2 ? 0 : middle.filter((p) => distanceToLine(got.points, p) <= Math.max(3, 2 * width)).length / middle.length;
+  };
+  // Scan 66, careful guides: a pink efficiency curve runs between blue and olive ones over its whole
+  // length, and every guide samples them run together (a 4.7 px mix). The pink head curve of the
+  // same impeller, clicked where it stands alone, gives the colour.
+  it('follows a pink efficiency curve bunched with blue and olive ones (scan 66, careful guides, efficiency-303)', async () => {
+    const { got, line, width } = await bedLineTrace(66, 'efficiency-303', { careful: true });
+    expect(offShare(got, line, width)).toBeLessThan(0.1);
+    expect(covered(got, line, width)).toBeGreaterThan(0.9);
+    expect(got.line.widthPx).toBeLessThan(3);
+  }, 60_000);
+
+  it('without the head curve, the same trace follows the bunch (the case the rule is for)', async () => {
+    const { got, line, width } = await bedLineTrace(66, 'efficiency-303', { careful: true, companions: false });
+    expect(covered(got, line, width)).toBeLessThan(0.5);
+  }, 60_000);
+
+  // Photo 38, hurried guides: one guide in an olive efficiency curve's low-flow bunch; the head
+  // curve's colour measures a thin stroke there whose trace runs a fifth as far. The trace without
+  // it is kept.
+  it("keeps the trace without the head curve's colour where that one runs shorter (photo 38, hurried guides, efficiency-145)", async () => {
+    const withHead = await bedLineTrace(38, 'efficiency-145', { kind: 'photo' });
+    const without = await bedLineTrace(38, 'efficiency-145', { kind: 'photo', companions: false });
+    expect(withHead.got.points).toEqual(without.got.points);
+  }, 60_000);
+});
