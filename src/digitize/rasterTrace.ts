@@ -795,10 +795,11 @@ function traceOn(image: RasterImage, guides: readonly SheetPoint[], options: Ras
   // the bunch or loses the line. A sheet in colour mostly draws one impeller's curves in one
   // colour on every panel, and its head curve most often stands alone where it was clicked: the
   // colour of the same impeller's head curve (`companions`) is tried at this trace's guides
-  // where the model chosen is far wider or thinner than the head line (`companionChoice`; random
-  // bed scan 66, careful guides: a pink efficiency curve between blue and olive ones over its
-  // whole length, sampled as a 4.7 px mix, 8 points off). `traceWithCompanions` keeps the
-  // result only where it does better.
+  // where the model chosen is far wider or thinner than the head line, or grey where it has a
+  // hue (`companionChoice`; random bed scan 66, careful guides: a pink efficiency curve between
+  // blue and olive ones over its whole length, sampled as a 4.7 px mix, 8 points off; photo 74,
+  // hurried guides: a pink one sampled as a grey blend at low flow, 36 points off).
+  // `traceWithCompanions` keeps the result only where it does better.
   if (chosen && !options.colour && options.companions) {
     const mix = chosen;
     const better = companionChoice(image, px, options.companions, search, options, ownBand, mix, (c) => px.filter((g) => nearestInk(image, c.style.model, g, vouchRadius) !== undefined).length, standIn, asClicked, counter);
@@ -1033,12 +1034,13 @@ function acrossAt(image: RasterImage, style: LineStyle, centre: Px, axis: Px, ne
  * The model taken from the colour of the same impeller's head curve (see `traceOn`): its
  * guides are sampled, and a sample counts where it is of a clear hue and its line stands alone
  * (room beside it, one solid stroke). Where the chosen model measures over `SOLO_WIDTH` times as
- * wide as that line (a broad mix of lines run together) or under its width over `SOLO_WIDTH` (the
- * blend where two colours meet), the colour is measured at this trace's guides and kept at a guide
- * where it finds one clean solid stroke, clearly thinner than a broad mix or clearly wider than a
- * thin one and no more than `SOLO_WIDTH` times the head line's width, with its ink found at half
- * the guides or more (`found`). Of several, the one found at the most guides, then the thinnest.
- * Undefined when none is so.
+ * wide as that line (a broad mix of lines run together), under its width over `SOLO_WIDTH` (the
+ * blend where two colours meet), or is of no clear hue (colours run together read grey), the
+ * colour is measured at this trace's guides and kept at a guide where it finds one clean solid
+ * stroke, clearly thinner than a broad mix, clearly wider than a thin one and no more than
+ * `SOLO_WIDTH` times the head line's width, or no more than `SOLO_WIDTH` times the wider of the
+ * two beside a grey one, with its ink found at half the guides or more (`found`). Of several, the
+ * one found at the most guides, then the thinnest. Undefined when none is so.
  */
 function companionChoice(
   image: RasterImage,
@@ -1071,9 +1073,11 @@ function companionChoice(
     if (!colour) continue;
     const wider = mix.style.width > SOLO_WIDTH * colour.width;
     const thinner = SOLO_WIDTH * mix.style.width < colour.width;
-    if (!wider && !thinner) continue;
+    // Or of no clear hue where the head curve has one: colours run together read grey.
+    const grey = mix.style.model.mode !== 'chromatic';
+    if (!wider && !thinner && !grey) continue;
     const { rgb, width: alone } = colour;
-    const fits = (w: number) => (wider ? SOLO_WIDTH * w <= mix.style.width : w >= SOLO_WIDTH * mix.style.width && w <= SOLO_WIDTH * alone);
+    const fits = (w: number) => (wider ? SOLO_WIDTH * w <= mix.style.width : thinner ? w >= SOLO_WIDTH * mix.style.width && w <= SOLO_WIDTH * alone : w <= SOLO_WIDTH * Math.max(alone, mix.style.width));
     px.forEach((g, k) => {
       if (asClicked && standIn[k]) return;
       const got = acquire(image, g, search, { ...options, colour: rgb }, ownBand);

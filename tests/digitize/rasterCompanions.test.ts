@@ -178,6 +178,15 @@ describe('companions on the random bed', () => {
     expect(covered(got, line, width)).toBeLessThan(0.5);
   }, 60_000);
 
+  // Photo 74, hurried guides: two guides where a pink efficiency curve runs among others at low
+  // flow sample a grey blend of them; the pink head curve's colour follows the pink line on.
+  it('takes the head curve\'s colour where the guides sample a grey blend of colours (photo 74, hurried guides, efficiency-180)', async () => {
+    const withHead = await bedLineTrace(74, 'efficiency-180', { kind: 'photo' });
+    const without = await bedLineTrace(74, 'efficiency-180', { kind: 'photo', companions: false });
+    expect(offShare(withHead.got, withHead.line, withHead.width)).toBeLessThan(0.05);
+    expect(covered(withHead.got, withHead.line, withHead.width)).toBeGreaterThan(1.5 * covered(without.got, without.line, without.width));
+  }, 60_000);
+
   // Photo 38, hurried guides: one guide in an olive efficiency curve's low-flow bunch; the head
   // curve's colour measures a thin stroke there whose trace runs a fifth as far. The trace without
   // it is kept.
