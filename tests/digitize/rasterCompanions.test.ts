@@ -148,6 +148,9 @@ describe('companionGuides', () => {
     expect(companionGuidesOf(traces, 3)).toEqual([[[1, 2]]]);
     expect(companionGuidesOf(traces, 6)).toEqual([[[6, 6]]]);
   });
+  it('gives a curve about to be traced (no guides yet, as the workbench asks) its head trace\'s guides', () => {
+    expect(companionGuidesOf([...traces, { quantity: 'power', diameter: 300 }], traces.length)).toEqual([[[1, 2]]]);
+  });
   it('gives none to a head trace, an iso-trace, or where the head trace is given by points', () => {
     expect(companionGuidesOf(traces, 0)).toEqual([]);
     expect(companionGuidesOf(traces, 4)).toEqual([]);

@@ -5,7 +5,7 @@ import type { Preview } from '../../src/ui/canvas/overlay.ts';
 import type { Snap } from '../../src/ui/geometry/snap.ts';
 import { Store } from '../../src/ui/store/store.ts';
 import type { Draft } from '../../src/ui/store/draft.ts';
-import type { ToolHost } from '../../src/ui/tools/tool.ts';
+import type { CurveOfTrace, ToolHost } from '../../src/ui/tools/tool.ts';
 import type { Quantity } from '../../src/model/curveset.ts';
 
 export class FakeHost implements ToolHost {
@@ -40,8 +40,11 @@ export class FakeHost implements ToolHost {
   async snapOnce(at: SheetXY, radius?: number) { return this.nearest(at, radius ?? 5); }
   setPreview(p: Preview | null) { this.preview = p; }
   setPending(g: readonly SheetXY[]) { this.pending = g; }
-  async capture(guides: readonly SheetXY[]) {
+  /** What each capture was asked for besides its guides: the panel, the trace captured again, the curve of a new trace. */
+  captureAsked: { panel?: string | undefined; traceId?: string | undefined; curve?: CurveOfTrace | undefined }[] = [];
+  async capture(guides: readonly SheetXY[], _method?: string, _extent?: string, panel?: string, traceId?: string, curve?: CurveOfTrace) {
     this.captures.push([...guides]);
+    this.captureAsked.push({ panel, traceId, curve });
     const points = this.tracer(guides);
     if (points.length < 2) throw new Error('No line could be followed from this click.');
     return { points, gaps: [], moved: this.moved };

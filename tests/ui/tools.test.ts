@@ -116,6 +116,8 @@ describe('the trace tool', () => {
     expect(host.store.session.target).toMatchObject({ diameter: 310 });
     expect(host.store.session.lastTraced).toBe(t.id);
     expect(host.store.history.labels).toEqual(['trace head 330 mm']);
+    // Captured with the panel and the curve of the new trace, as the replay traces it.
+    expect(host.captureAsked[0]).toEqual({ panel: 'head-1', traceId: undefined, curve: { panel: 'head-1', quantity: 'head', diameter: 330 } });
   });
 
   it('Shift-click adds a guide to the last trace, in order along the flow axis, and traces again', async () => {

@@ -14,7 +14,7 @@ import type { Snap } from '../geometry/snap.ts';
 import { useProposal } from '../store/actions/panels.ts';
 import { frameOf, frameOfPanel } from '../store/draft.ts';
 import type { Store } from '../store/store.ts';
-import { snapRadius, type ToolHost } from '../tools/tool.ts';
+import { snapRadius, type CurveOfTrace, type ToolHost } from '../tools/tool.ts';
 import type { AnchorProposal } from '../worker/protocol.ts';
 import type { SheetWorkerClient } from '../worker/client.ts';
 import type { SheetKind } from '../../digitize/sheet.ts';
@@ -103,13 +103,15 @@ export class SheetTools implements ToolHost {
     return this.snapNow(at);
   }
 
-  async capture(guides: readonly SheetXY[], method: 'auto' | 'vector' | 'raster', extent?: 'guides' | 'line', panel?: string, traceId?: string): Promise<{ points: SheetXY[]; gaps: string[]; moved: string[] }> {
+  async capture(guides: readonly SheetXY[], method: 'auto' | 'vector' | 'raster', extent?: 'guides' | 'line', panel?: string, traceId?: string, curve?: CurveOfTrace): Promise<{ points: SheetXY[]; gaps: string[]; moved: string[] }> {
     this.host.store.setSession({ busy: true, progress: { label: 'Tracing…', fraction: null } });
     try {
       const siblings = siblingGuides(this.host.store.draft.traces.filter((t) => t.id !== traceId)).map((g) => g.map((p): [number, number] => [p[0], p[1]]));
-      // The same impeller's head trace, as the replay hands it in (a trace being drawn has none until it is labelled).
+      // The same impeller's head trace, as the replay hands it in: of the trace captured again, or of the curve a new trace is for.
       const traces = this.host.store.draft.traces;
-      const companions = companionGuidesOf(traces, traces.findIndex((t) => t.id === traceId)).map((g) => g.map((p): [number, number] => [p[0], p[1]]));
+      const index = traces.findIndex((t) => t.id === traceId);
+      const of = index >= 0 ? companionGuidesOf(traces, index) : curve ? companionGuidesOf([...traces, curve], traces.length) : [];
+      const companions = of.map((g) => g.map((p): [number, number] => [p[0], p[1]]));
       const answer = await this.host.worker.call('capture', { guides: guides.map((g) => [g[0], g[1]]), method, ...(extent ? { extent } : {}), ...frameOfPanel(this.host.store.draft.panels, panel), siblings, companions }, (p) => this.host.store.setSession({ progress: { label: p.label, fraction: p.fraction } }));
       if (answer.points.length < 2) {
         const why = answer.gaps.length ? ` (${answer.gaps.join(' ')})` : '';

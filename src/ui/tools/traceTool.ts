@@ -203,12 +203,14 @@ export class TraceTool implements Tool {
       let gaps: string[] = [];
       let moved: string[] = [];
       let failure: string | null = null;
+      const spec = { panel: panel.id, quantity: target.quantity, ...(target.lines === 'iso' ? { iso: target.iso as number } : target.speed !== undefined ? { speed: target.speed } : { diameter: target.diameter as number }) };
       try {
-        ({ points, gaps, moved } = await this.host.capture([at], 'auto'));
+        // With its panel (whose frame stops a raster trace) and its curve (whose head trace lends
+        // its colour where lines run together), as the headless replay traces it.
+        ({ points, gaps, moved } = await this.host.capture([at], 'auto', undefined, panel.id, undefined, spec));
       } catch (error) {
         failure = (error as Error).message;
       }
-      const spec = { panel: panel.id, quantity: target.quantity, ...(target.lines === 'iso' ? { iso: target.iso as number } : target.speed !== undefined ? { speed: target.speed } : { diameter: target.diameter as number }) };
       const before = this.store.draft.traces.length;
       const already = tracesOfCurve(this.store.draft, target);
       // The guide is kept even when no line was found from it alone: more guides may find it.
