@@ -619,8 +619,7 @@ export function traceRaster(original: RasterImage, guides: readonly SheetPoint[]
   const span = polylineLength(first.points) * image.scale;
   const bare = first.points.length <= NOTHING_FOLLOWED;
   const short = bare || span < Math.max(LITTLE_FOLLOWED_PX, LITTLE_FOLLOWED_WIDTHS * first.line.widthPx);
-  const unseen = (r: RasterTraceResult) => r.lost.filter((l) => !l.bridged).length;
-  const broken = unseen(first) > 0;
+  const broken = lostFromSight(first) > 0;
   if (first.line.dashed || (!short && !broken)) return first;
   // Next to nothing followed from the guides (no point but the guides', or a short stretch), or
   // the line lost from sight between them, with a solid model: a dashed or dotted line between
@@ -636,7 +635,7 @@ export function traceRaster(original: RasterImage, guides: readonly SheetPoint[]
   // broken ones flagged).
   const again = { ...traceWithCompanions(image, taken, options, true, numbers, boxes), ...labelled };
   const farther = bare ? again.points.length > first.points.length : polylineLength(again.points) * image.scale > FARTHER * span;
-  const kept = again.line.dashed && (short ? farther && again.line.widthPx <= Math.max(RETRY_WIDTH * first.line.widthPx, RETRY_WIDTH_PX) : unseen(again) < unseen(first) && again.lost.length < first.lost.length && again.line.widthPx <= RETRY_WIDTH * first.line.widthPx);
+  const kept = again.line.dashed && (short ? farther && again.line.widthPx <= Math.max(RETRY_WIDTH * first.line.widthPx, RETRY_WIDTH_PX) : lostFromSight(again) < lostFromSight(first) && again.lost.length < first.lost.length && again.line.widthPx <= RETRY_WIDTH * first.line.widthPx);
   if (!kept) return { ...first, pixelsRead: first.pixelsRead + again.pixelsRead };
   // A guide where other lines touch the line is in a bunch whatever model follows it: what the
   // first look said of it stands (fresh random bed seed 1205: a dashed NPSHr line's second trace
@@ -699,10 +698,14 @@ function traceWithCompanions(image: RasterImage, guides: readonly SheetPoint[], 
   const { companions: _, ...alone } = options;
   const plain = traceOn(image, guides, alone, ownBand, numbers, labels);
   const pixelsRead = got.pixelsRead + plain.pixelsRead;
-  const lost = (r: RasterTraceResult) => r.lost.filter((l) => !l.bridged).length;
   const unseen = (r: RasterTraceResult) => r.doubts.filter((d) => d.code === 'takeoff.stretch-unseen').length;
-  const better = lost(got) + unseen(got) <= lost(plain) + unseen(plain) && polylineLength(got.points) >= COMPANION_LENGTH * polylineLength(plain.points);
+  const better = lostFromSight(got) + unseen(got) <= lostFromSight(plain) + unseen(plain) && polylineLength(got.points) >= COMPANION_LENGTH * polylineLength(plain.points);
   return { ...(better ? got : plain), pixelsRead };
+}
+
+/** How many stretches a trace lost from sight (not those bridged through a bunch). */
+function lostFromSight(r: RasterTraceResult): number {
+  return r.lost.filter((l) => !l.bridged).length;
 }
 
 /** Share of the length of a trace without companions that a trace by a companion's colour must reach to be kept. */

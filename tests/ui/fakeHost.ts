@@ -5,7 +5,8 @@ import type { Preview } from '../../src/ui/canvas/overlay.ts';
 import type { Snap } from '../../src/ui/geometry/snap.ts';
 import { Store } from '../../src/ui/store/store.ts';
 import type { Draft } from '../../src/ui/store/draft.ts';
-import type { CurveOfTrace, ToolHost } from '../../src/ui/tools/tool.ts';
+import type { ToolHost } from '../../src/ui/tools/tool.ts';
+import type { TraceSpec } from '../../src/ui/store/actions/traces.ts';
 import type { Quantity } from '../../src/model/curveset.ts';
 
 export class FakeHost implements ToolHost {
@@ -41,8 +42,8 @@ export class FakeHost implements ToolHost {
   setPreview(p: Preview | null) { this.preview = p; }
   setPending(g: readonly SheetXY[]) { this.pending = g; }
   /** What each capture was asked for besides its guides: the panel, the trace captured again, the curve of a new trace. */
-  captureAsked: { panel?: string | undefined; traceId?: string | undefined; curve?: CurveOfTrace | undefined }[] = [];
-  async capture(guides: readonly SheetXY[], _method?: string, _extent?: string, panel?: string, traceId?: string, curve?: CurveOfTrace) {
+  captureAsked: { panel?: string | undefined; traceId?: string | undefined; curve?: TraceSpec | undefined }[] = [];
+  async capture(guides: readonly SheetXY[], _method?: string, _extent?: string, panel?: string, traceId?: string, curve?: TraceSpec) {
     this.captures.push([...guides]);
     this.captureAsked.push({ panel, traceId, curve });
     const points = this.tracer(guides);

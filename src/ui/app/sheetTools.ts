@@ -14,7 +14,8 @@ import type { Snap } from '../geometry/snap.ts';
 import { useProposal } from '../store/actions/panels.ts';
 import { frameOf, frameOfPanel } from '../store/draft.ts';
 import type { Store } from '../store/store.ts';
-import { snapRadius, type CurveOfTrace, type ToolHost } from '../tools/tool.ts';
+import { snapRadius, type ToolHost } from '../tools/tool.ts';
+import type { TraceSpec } from '../store/actions/traces.ts';
 import type { AnchorProposal } from '../worker/protocol.ts';
 import type { SheetWorkerClient } from '../worker/client.ts';
 import type { SheetKind } from '../../digitize/sheet.ts';
@@ -103,7 +104,7 @@ export class SheetTools implements ToolHost {
     return this.snapNow(at);
   }
 
-  async capture(guides: readonly SheetXY[], method: 'auto' | 'vector' | 'raster', extent?: 'guides' | 'line', panel?: string, traceId?: string, curve?: CurveOfTrace): Promise<{ points: SheetXY[]; gaps: string[]; moved: string[] }> {
+  async capture(guides: readonly SheetXY[], method: 'auto' | 'vector' | 'raster', extent?: 'guides' | 'line', panel?: string, traceId?: string, curve?: TraceSpec): Promise<{ points: SheetXY[]; gaps: string[]; moved: string[] }> {
     this.host.store.setSession({ busy: true, progress: { label: 'Tracing…', fraction: null } });
     try {
       const siblings = siblingGuides(this.host.store.draft.traces.filter((t) => t.id !== traceId)).map((g) => g.map((p): [number, number] => [p[0], p[1]]));

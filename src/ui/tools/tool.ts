@@ -10,10 +10,7 @@ import type { Preview } from '../canvas/overlay.ts';
 import type { Snap } from '../geometry/snap.ts';
 import type { Store } from '../store/store.ts';
 import type { View } from '../canvas/view.ts';
-import type { TraceDraft } from '../store/draft.ts';
-
-/** What curve a trace is for: its quantity and its label. */
-export type CurveOfTrace = Pick<TraceDraft, 'quantity' | 'diameter' | 'speed' | 'iso'>;
+import type { TraceSpec } from '../store/actions/traces.ts';
 
 export interface ToolHost {
   readonly store: Store;
@@ -30,10 +27,10 @@ export interface ToolHost {
   /** Captures the line under the guides; resolves to the points or rejects with a sentence. */
   /**
    * `panel` names the trace's panel, whose frame stops a raster trace as in the headless replay;
-   * `traceId` the trace captured again, or `curve` the curve a new trace is for (its quantity and
-   * label), so that it gets the same impeller's head trace as the replay gives it.
+   * `traceId` the trace captured again, or `curve` what a new trace is (its quantity and label), so
+   * that it gets the same impeller's head trace as the replay gives it.
    */
-  capture(guides: readonly SheetXY[], method: 'auto' | 'vector' | 'raster', extent?: 'guides' | 'line', panel?: string, traceId?: string, curve?: CurveOfTrace): Promise<{ points: SheetXY[]; gaps: string[]; moved: string[] }>;
+  capture(guides: readonly SheetXY[], method: 'auto' | 'vector' | 'raster', extent?: 'guides' | 'line', panel?: string, traceId?: string, curve?: TraceSpec): Promise<{ points: SheetXY[]; gaps: string[]; moved: string[] }>;
   /** Shows the magnifier at the pointer, marking where the click will land. */
   magnify(p: CanvasPointer, mark: SheetXY | null, snapped: boolean): void;
   /** The flow a calibrated panel reads at a sheet point, or null when the panel is not calibrated. */
