@@ -692,15 +692,30 @@ function polylineLength(points: readonly SheetPoint[]): number {
  * guides, photos 38 and 146).
  */
 function traceWithCompanions(image: RasterImage, guides: readonly SheetPoint[], options: RasterTraceOptions, ownBand: boolean, numbers?: readonly number[], labels: readonly LabelBox[] = []): RasterTraceResult {
-  const note: { byCompanion?: boolean } = {};
-  const got = traceOn(image, guides, options, ownBand, numbers, labels, note);
-  if (!note.byCompanion) return got;
+  const note: CompanionNote = {};
+  const asSampled = traceOn(image, guides, options, ownBand, numbers, labels, note);
+  if (!note.byCompanion) return asSampled;
   const { companions: _, ...alone } = options;
   const plain = traceOn(image, guides, alone, ownBand, numbers, labels);
-  const pixelsRead = got.pixelsRead + plain.pixelsRead;
   const unseen = (r: RasterTraceResult) => r.doubts.filter((d) => d.code === 'takeoff.stretch-unseen').length;
+  // The companion's colour sampled thin in a bunch (its line half hidden under the others) also
+  // tries the width of the head curve's line where it stands alone, and the one that loses the
+  // line less often, then runs farther, is the companion's trace.
+  const widened = note.canWiden ? traceOn(image, guides, options, ownBand, numbers, labels, { widened: true }) : undefined;
+  const got = widened && (lostFromSight(widened) + unseen(widened) < lostFromSight(asSampled) + unseen(asSampled) || (lostFromSight(widened) + unseen(widened) === lostFromSight(asSampled) + unseen(asSampled) && polylineLength(widened.points) > polylineLength(asSampled.points))) ? widened : asSampled;
+  const pixelsRead = asSampled.pixelsRead + plain.pixelsRead + (widened?.pixelsRead ?? 0);
   const better = lostFromSight(got) + unseen(got) <= lostFromSight(plain) + unseen(plain) && polylineLength(got.points) >= COMPANION_LENGTH * polylineLength(plain.points);
   return { ...(better ? got : plain), pixelsRead };
+}
+
+/** What `traceOn` says of a model taken from a companion's colour, and asks of it. */
+interface CompanionNote {
+  /** The model came from a companion's colour. */
+  byCompanion?: boolean;
+  /** That model was sampled clearly thinner than the companion's line alone, and can take its width. */
+  canWiden?: boolean;
+  /** Asked: the companion's model with the width of the companion's line alone. */
+  widened?: boolean;
 }
 
 /** How many stretches a trace lost from sight (not those bridged through a bunch). */
@@ -712,7 +727,7 @@ function lostFromSight(r: RasterTraceResult): number {
 const COMPANION_LENGTH = 0.9;
 
 /** One trace on the image with the grid taken out; `ownBand`: a dash pattern is looked for in the line's own band; `note.byCompanion` says the model came from a companion's colour. */
-function traceOn(image: RasterImage, guides: readonly SheetPoint[], options: RasterTraceOptions, ownBand: boolean, numbers?: readonly number[], labels: readonly LabelBox[] = [], note: { byCompanion?: boolean } = {}): RasterTraceResult {
+function traceOn(image: RasterImage, guides: readonly SheetPoint[], options: RasterTraceOptions, ownBand: boolean, numbers?: readonly number[], labels: readonly LabelBox[] = [], note: CompanionNote = {}): RasterTraceResult {
   // The user's number of each guide (1-based): a guide on a label stands for two here.
   const name = (k: number) => numbers?.[k - 1] ?? k;
   const px = validateGuides(image, guides);
@@ -807,9 +822,10 @@ function traceOn(image: RasterImage, guides: readonly SheetPoint[], options: Ras
     const mix = chosen;
     const better = companionChoice(image, px, options.companions, search, options, ownBand, mix, (c) => px.filter((g) => nearestInk(image, c.style.model, g, vouchRadius) !== undefined).length, standIn, asClicked, counter);
     if (better) {
-      chosen = better.got;
+      chosen = note.widened && better.widened ? better.widened : better.got;
       first = better.guide + 1;
       note.byCompanion = true;
+      note.canWiden = better.widened !== undefined;
     }
   }
   const acquired = chosen;
@@ -1057,8 +1073,8 @@ function companionChoice(
   standIn: readonly boolean[],
   asClicked: boolean,
   counter: ReadCounter,
-): { got: Acquired; guide: number } | undefined {
-  let out: { got: Acquired; guide: number; found: number } | undefined;
+): { got: Acquired; guide: number; widened?: Acquired } | undefined {
+  let out: { got: Acquired; guide: number; found: number; alone: number; rgb: Rgb } | undefined;
   for (const list of companions) {
     // The colour of the companion where its line has the most room.
     let colour: { rgb: Rgb; room: number; width: number } | undefined;
@@ -1087,10 +1103,14 @@ function companionChoice(
       if (!got || got.style.reach || got.isotropy > SOLO_ISOTROPY || !fits(got.style.width)) return;
       const n = found(got);
       if (2 * n < px.length) return;
-      if (!out || n > out.found || (n === out.found && got.style.width < out.got.style.width)) out = { got, guide: k, found: n };
+      if (!out || n > out.found || (n === out.found && got.style.width < out.got.style.width)) out = { got, guide: k, found: n, alone, rgb };
     });
   }
-  return out && { got: out.got, guide: out.guide };
+  if (!out) return undefined;
+  // Sampled clearly thinner than the companion's line alone: the line may lie half under the others there.
+  const thin = SOLO_WIDTH * out.got.style.width < out.alone;
+  const widened = thin ? acquire(image, px[out.guide] as Px, search, { ...options, colour: out.rgb, widthPx: out.alone }, ownBand) : undefined;
+  return { got: out.got, guide: out.guide, ...(widened && !widened.style.reach ? { widened } : {}) };
 }
 
 /** What `acquire` finds under a guide. */
