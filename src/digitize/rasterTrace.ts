@@ -889,6 +889,14 @@ function traceOn(image: RasterImage, guides: readonly SheetPoint[], options: Ras
   if (placed.length > 0 && !doubts.some((d) => d.what === 'bunch') && placed.every((g) => inkBeside(image, style, g.centre, g.axis, counter) || (px.length === 1 && clearance(image, style, g.centre, g.axis, counter) <= BUNCH_CLEARANCE))) {
     doubts.push({ at: (placed[0] as { centre: Px }).centre, what: 'no-room', guide: snapped.indexOf(placed[0]) + 1, count: placed.length });
   }
+  // A model taken from a companion's colour was taken because every guide sampled lines run
+  // together: the guides sit in a bunch, whatever room the companion's model sees beside the line
+  // (random bed, hurried guides, photo 1205: an NPSHr trace by the head curve's width, 1.003 % of
+  // span off, had said nothing).
+  const companionGuide = snapped[first - 1];
+  if (note.byCompanion && companionGuide && !doubts.some((d) => d.what === 'bunch' || d.what === 'no-room')) {
+    doubts.push({ at: ((placed.length > 1 ? placed[0] : companionGuide) as { centre: Px }).centre, what: 'no-room', guide: first, count: placed.length });
+  }
   if (px.length === 1) {
     // A short stretch each way from the guide; the line is then followed on to its own ends as
     // any trace is, with the same smoothness test and the same search beyond a lost stretch.

@@ -10,6 +10,11 @@ import { sheetPoint } from '../../src/digitize/points.ts';
 import { companionGuides, companionGuidesOf } from '../../src/digitize/companions.ts';
 import type { RasterImage } from '../../src/digitize/raster.ts';
 import { bedLineTrace, distanceToLine } from './fixtures/bedTrace.ts';
+import { makeRandomSheet } from '../../scripts/randomSheets/randomSheet.ts';
+import { imageSheet } from '../../src/digitize/loaders/imageSheet.ts';
+import { loadImageRasterNode } from '../../src/digitize/loaders/imageNode.ts';
+import { replayTakeoff } from '../../src/digitize/takeoff.ts';
+import { parseTakeoff } from '../../src/model/takeoff.ts';
 
 const W = 520;
 const H = 320;
@@ -221,5 +226,16 @@ describe('companions on the random bed', () => {
     expect(offShare(withHead.got, withHead.line, withHead.width)).toBeLessThan(0.05);
     expect(covered(withHead.got, withHead.line, withHead.width)).toBeGreaterThan(0.95);
     expect(covered(without.got, without.line, without.width)).toBeLessThan(0.2);
+  }, 60_000);
+  // Photo 1205, hurried guides: an NPSHr line clicked once in its low-flow bunch, traced in the
+  // replay by the head curve's colour and width, came out 1.003 % of span off with no doubt at all:
+  // the wider model saw room beside the line at the guide. The guide sampled lines run together,
+  // and the take-off says so.
+  it('says the guide sits in a bunch when the model came from the head curve (photo 1205, hurried guides, npshr-310)', async () => {
+    const s = await makeRandomSheet(1205, 'photo');
+    const raster = await loadImageRasterNode(s.jpeg);
+    const replay = await replayTakeoff(parseTakeoff(s.takeoff), imageSheet(raster, '0'.repeat(64), () => raster));
+    const codes = replay.curveSet.findings.filter((f) => f.subject.trace === 'npshr-310').map((f) => f.code);
+    expect(codes).toContain('takeoff.guide-in-bunch');
   }, 60_000);
 });
