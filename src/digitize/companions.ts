@@ -36,3 +36,18 @@ export function companionGuidesOf(traces: readonly TraceLike[], index: number): 
 export function companionGuides(traces: readonly TraceLike[]): SheetPoint[][][] {
   return traces.map((_, k) => companionGuidesOf(traces, k));
 }
+
+/**
+ * The traces that take trace `index` as their companion: for a head trace with guides, the same
+ * impeller's (or speed's) efficiency, power and NPSHr traces; none for any other trace. When a head
+ * trace is traced or its guides move, these are the traces whose capture it changes.
+ */
+export function tracesLeaningOn(traces: readonly TraceLike[], index: number): number[] {
+  const head = traces[index];
+  if (!head || head.quantity !== 'head' || labelOf(head) === undefined || (head.points?.length ?? 0) > 0 || (head.guides?.length ?? 0) === 0) return [];
+  const out: number[] = [];
+  traces.forEach((t, k) => {
+    if (k !== index && t.quantity !== 'head' && labelOf(t) === labelOf(head)) out.push(k);
+  });
+  return out;
+}

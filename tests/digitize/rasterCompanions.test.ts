@@ -7,7 +7,7 @@
 import { describe, expect, it } from 'vitest';
 import { traceRaster } from '../../src/digitize/rasterTrace.ts';
 import { sheetPoint } from '../../src/digitize/points.ts';
-import { companionGuides, companionGuidesOf } from '../../src/digitize/companions.ts';
+import { companionGuides, companionGuidesOf, tracesLeaningOn } from '../../src/digitize/companions.ts';
 import type { RasterImage } from '../../src/digitize/raster.ts';
 import { bedLineTrace, distanceToLine } from './fixtures/bedTrace.ts';
 import { makeRandomSheet } from '../../scripts/randomSheets/randomSheet.ts';
@@ -161,6 +161,15 @@ describe('companionGuides', () => {
     expect(companionGuidesOf(traces, 4)).toEqual([]);
     expect(companionGuidesOf(traces, 2)).toEqual([]);
     expect(companionGuides(traces)).toHaveLength(traces.length);
+  });
+  it('names the traces that lean on a head trace: the same impeller\'s (or speed\'s) other traces, none for other traces', () => {
+    expect(tracesLeaningOn(traces, 0)).toEqual([1, 3]);
+    expect(tracesLeaningOn(traces, 7)).toEqual([6]);
+    // A head trace given by points lends nothing; an efficiency trace has none leaning on it.
+    expect(tracesLeaningOn(traces, 5)).toEqual([]);
+    expect(tracesLeaningOn(traces, 1)).toEqual([]);
+    // Each trace leaning on a head trace has that head trace among its companions.
+    for (const k of tracesLeaningOn(traces, 0)) expect(companionGuidesOf(traces, k)).toContainEqual([[1, 2]]);
   });
 });
 

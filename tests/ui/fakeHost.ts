@@ -50,6 +50,9 @@ export class FakeHost implements ToolHost {
     if (points.length < 2) throw new Error('No line could be followed from this click.');
     return { points, gaps: [], moved: this.moved };
   }
+  /** The head traces after whose capture the traces leaning on them were asked to be traced again. */
+  leaningAsked: string[] = [];
+  async retraceLeaning(headId: string) { this.leaningAsked.push(headId); }
   magnify() {}
   /** What every panel reads as flow at any point: null for uncalibrated panels. */
   flow: number | null = null;

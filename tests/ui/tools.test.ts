@@ -118,6 +118,8 @@ describe('the trace tool', () => {
     expect(host.store.history.labels).toEqual(['trace head 330 mm']);
     // Captured with the panel and the curve of the new trace, as the replay traces it.
     expect(host.captureAsked[0]).toEqual({ panel: 'head-1', traceId: undefined, curve: { panel: 'head-1', quantity: 'head', diameter: 330 } });
+    // A head trace lends its colour to the same impeller's other traces: they are asked to be traced again.
+    expect(host.leaningAsked).toEqual([t.id]);
   });
 
   it('Shift-click adds a guide to the last trace, in order along the flow axis, and traces again', async () => {
@@ -130,6 +132,8 @@ describe('the trace tool', () => {
     await settle();
     expect(host.captures.at(-1)).toEqual([[150, 190], [300, 200]]);
     expect(host.store.draft.traces[0]!.guides).toEqual([[150, 190], [300, 200]]);
+    // Once after the first click and once after the guide was added.
+    expect(host.leaningAsked).toHaveLength(2);
     expect(withGuide([[1, 0], [9, 0]], [5, 0])).toEqual([[1, 0], [5, 0], [9, 0]]);
   });
 

@@ -20,7 +20,9 @@ import type { AnchorProposal } from '../worker/protocol.ts';
 import type { SheetWorkerClient } from '../worker/client.ts';
 import type { SheetKind } from '../../digitize/sheet.ts';
 import { siblingGuides } from '../../digitize/vectorChoice.ts';
-import { companionGuidesOf } from '../../digitize/companions.ts';
+import { companionGuidesOf, tracesLeaningOn } from '../../digitize/companions.ts';
+import { traceName } from '../store/actions/traces.ts';
+import { pointsOf, powerUnit } from '../store/draft.ts';
 import { num } from '../views/words.ts';
 import type { Derived } from './bench.ts';
 import { bestProposal } from './proposals.ts';
@@ -124,6 +126,29 @@ export class SheetTools implements ToolHost {
     }
   }
 
+  async retraceLeaning(headId: string): Promise<void> {
+    if (this.host.loadedKind() === 'vector-pdf') return;
+    const draft = this.host.store.draft;
+    const leaning = tracesLeaningOn(draft.traces, draft.traces.findIndex((t) => t.id === headId))
+      .map((k) => draft.traces[k])
+      .filter((t): t is NonNullable<typeof t> => t !== undefined && t.guides.length > 0 && !t.locked && !t.edited && t.points === undefined);
+    const changed: string[] = [];
+    for (const t of leaning) {
+      try {
+        const { points } = await this.capture(t.guides, t.method, t.extent, t.panel, t.id);
+        const now = this.host.store.draft;
+        const current = now.traces.find((x) => x.id === t.id);
+        // Left as it is when the user changed it meanwhile, or when the capture came out the same.
+        if (!current || current.guides !== t.guides || current.points !== undefined || samePoints(pointsOf(current), points)) continue;
+        this.host.store.dispatch(() => ({ draft: { ...now, traces: now.traces.map((x) => (x.id === t.id ? { ...x, captured: points } : x)) }, label: 'capture', undoable: false }));
+        changed.push(traceName(t, now.units.diameter, powerUnit(now.units)));
+      } catch {
+        // A trace whose line is not found again keeps its points; its own re-trace says why.
+      }
+    }
+    if (changed.length) this.host.store.say(`Traced again with the head curve's colour, as the take-off replays them: ${changed.join(', ')}.`, 'info');
+  }
+
   magnify(p: CanvasPointer, mark: SheetXY | null, snapped: boolean): void {
     this.host.magnifier.show(p.sheet, p.screen, mark, snapped);
   }
@@ -180,4 +205,8 @@ export class SheetTools implements ToolHost {
       el?.select();
     }));
   }
+}
+
+function samePoints(a: readonly SheetXY[], b: readonly SheetXY[]): boolean {
+  return a.length === b.length && a.every((p, i) => p[0] === b[i]?.[0] && p[1] === b[i]?.[1]);
 }

@@ -31,6 +31,11 @@ export interface ToolHost {
    * that it gets the same impeller's head trace as the replay gives it.
    */
   capture(guides: readonly SheetXY[], method: 'auto' | 'vector' | 'raster', extent?: 'guides' | 'line', panel?: string, traceId?: string, curve?: TraceSpec): Promise<{ points: SheetXY[]; gaps: string[]; moved: string[] }>;
+  /**
+   * After head trace `headId` was traced or its guides moved: the same impeller's other traces with
+   * guides are traced again with its colour, as the replay traces them (a raster sheet only).
+   */
+  retraceLeaning(headId: string): Promise<void>;
   /** Shows the magnifier at the pointer, marking where the click will land. */
   magnify(p: CanvasPointer, mark: SheetXY | null, snapped: boolean): void;
   /** The flow a calibrated panel reads at a sheet point, or null when the panel is not calibrated. */

@@ -227,6 +227,7 @@ export class TraceTool implements Tool {
         else if (shared) this.store.say(`Traced ${name}: ${points.length} points.${where}${shared}`, 'caution');
         else if (gaps.length) this.store.say(`Traced ${name} with ${points.length} points, but ${gaps.join(' ')} Add a guide beyond the gap with Shift-click.${where}`, 'caution');
         else this.store.say(`Traced ${name}: ${points.length} points.${where}`, 'done');
+        if (made && made.quantity === 'head' && points.length >= 2) await this.host.retraceLeaning(made.id);
       }
     } finally {
       this.state = { kind: 'idle' };
@@ -256,6 +257,7 @@ export class TraceTool implements Tool {
       this.store.dispatch(setGuides(trace.id, guides, points, label));
       if (gaps.length) this.store.say([...gaps, ...moved].join(' '), 'caution');
       else this.store.say([`Re-traced: ${points.length} points.`, ...moved].join(' '), 'done');
+      if (trace.quantity === 'head' && points.length >= 2) await this.host.retraceLeaning(trace.id);
     } catch (error) {
       // The guides stay where they were placed; the points wait for a guide that finds the line.
       this.store.dispatch(setGuides(trace.id, guides, [], label));
