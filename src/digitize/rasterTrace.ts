@@ -704,7 +704,10 @@ function traceWithCompanions(image: RasterImage, guides: readonly SheetPoint[], 
   const widened = note.canWiden ? traceOn(image, guides, options, ownBand, numbers, labels, { widened: true }) : undefined;
   const got = widened && (lostFromSight(widened) + unseen(widened) < lostFromSight(asSampled) + unseen(asSampled) || (lostFromSight(widened) + unseen(widened) === lostFromSight(asSampled) + unseen(asSampled) && polylineLength(widened.points) > polylineLength(asSampled.points))) ? widened : asSampled;
   const pixelsRead = asSampled.pixelsRead + plain.pixelsRead + (widened?.pixelsRead ?? 0);
-  const better = lostFromSight(got) + unseen(got) <= lostFromSight(plain) + unseen(plain) && polylineLength(got.points) >= COMPANION_LENGTH * polylineLength(plain.points);
+  // A trace by the companion's colour that saw next to nothing of the line (its guides joined by a
+  // bridge across the bunch) is no better, however long its path.
+  const sawLittle = seenLength(got) * image.scale < Math.max(LITTLE_FOLLOWED_PX, LITTLE_FOLLOWED_WIDTHS * got.line.widthPx);
+  const better = !sawLittle && lostFromSight(got) + unseen(got) <= lostFromSight(plain) + unseen(plain) && polylineLength(got.points) >= (note.grey ? COMPANION_LENGTH_GREY : COMPANION_LENGTH) * polylineLength(plain.points);
   return { ...(better ? got : plain), pixelsRead };
 }
 
@@ -712,10 +715,27 @@ function traceWithCompanions(image: RasterImage, guides: readonly SheetPoint[], 
 interface CompanionNote {
   /** The model came from a companion's colour. */
   byCompanion?: boolean;
+  /** The guides' own model had no clear hue where the companion's line has one. */
+  grey?: boolean;
   /** That model was sampled clearly thinner than the companion's line alone, and can take its width. */
   canWiden?: boolean;
   /** Asked: the companion's model with the width of the companion's line alone. */
   widened?: boolean;
+}
+
+/**
+ * Length of a trace where it saw its line, sheet units: its path less the stretches bridged
+ * through a bunch (a trace of a few points bridged straight across a bunch measures long but saw
+ * little; random bed, hurried guides, scan 1192: a dashed NPSHr trace by the head curve's colour,
+ * 4 points over 508 units, 15 of them seen, against the plain trace's 791 seen, had been kept and
+ * came out 6.4 % of span off). A trace that bridged much and saw enough can still be right (random
+ * bed, careful guides, photo 146: 158 of 689 seen, right, where the plain trace saw 398 on the
+ * wrong lines): only a trace that saw next to nothing is set aside.
+ */
+function seenLength(r: RasterTraceResult): number {
+  let bridged = 0;
+  for (const l of r.lost) if (l.bridged && l.resumedAt) bridged += Math.hypot(l.resumedAt[0] - l.at[0], l.resumedAt[1] - l.at[1]);
+  return Math.max(0, polylineLength(r.points) - bridged);
 }
 
 /** How many stretches a trace lost from sight (not those bridged through a bunch). */
@@ -725,6 +745,14 @@ function lostFromSight(r: RasterTraceResult): number {
 
 /** Share of the length of a trace without companions that a trace by a companion's colour must reach to be kept. */
 const COMPANION_LENGTH = 0.9;
+/**
+ * The same where the guides sampled no clear hue and the head curve has one: the trace without the
+ * head curve's colour follows a line of no hue, on a colour sheet another impeller's black or grey
+ * curve, whose length says little of the line's (speed bench seed 22, hurried guides: a 1600 rpm
+ * orange efficiency line clicked at the origin, where all four meet, followed the black 1750 rpm
+ * line 1071 px against the orange line's 769 px, 3.8 points off).
+ */
+const COMPANION_LENGTH_GREY = 0.6;
 
 /** One trace on the image with the grid taken out; `ownBand`: a dash pattern is looked for in the line's own band; `note.byCompanion` says the model came from a companion's colour. */
 function traceOn(image: RasterImage, guides: readonly SheetPoint[], options: RasterTraceOptions, ownBand: boolean, numbers?: readonly number[], labels: readonly LabelBox[] = [], note: CompanionNote = {}): RasterTraceResult {
@@ -826,6 +854,7 @@ function traceOn(image: RasterImage, guides: readonly SheetPoint[], options: Ras
       first = better.guide + 1;
       note.byCompanion = true;
       note.canWiden = better.widened !== undefined;
+      note.grey = mix.style.model.mode !== 'chromatic';
     }
   }
   const acquired = chosen;

@@ -10,7 +10,8 @@ import { sheetPoint } from '../../src/digitize/points.ts';
 import { companionGuides, companionGuidesOf, tracesLeaningOn } from '../../src/digitize/companions.ts';
 import type { RasterImage } from '../../src/digitize/raster.ts';
 import { bedLineTrace, distanceToLine } from './fixtures/bedTrace.ts';
-import { makeRandomSheet } from '../../scripts/randomSheets/randomSheet.ts';
+import { makeRandomSheet, sheetGeometry } from '../../scripts/randomSheets/randomSheet.ts';
+import { applyH } from '../../scripts/randomSheets/camera.ts';
 import { imageSheet } from '../../src/digitize/loaders/imageSheet.ts';
 import { loadImageRasterNode } from '../../src/digitize/loaders/imageNode.ts';
 import { replayTakeoff } from '../../src/digitize/takeoff.ts';
@@ -246,5 +247,21 @@ describe('companions on the random bed', () => {
     const replay = await replayTakeoff(parseTakeoff(s.takeoff), imageSheet(raster, '0'.repeat(64), () => raster));
     const codes = replay.curveSet.findings.filter((f) => f.subject.trace === 'npshr-310').map((f) => f.code);
     expect(codes).toContain('takeoff.guide-in-bunch');
+  }, 60_000);
+  // Scan 1192, hurried guides: a dashed purple NPSHr line whose guides sample a grey blend. The trace
+  // by the head curve's colour saw 4 points and bridged the rest straight across the bunch (508 sheet
+  // units of path, nearly all of it a chord); the trace without it followed the line over 791. A
+  // bridged chord is no length seen, and the plain trace stands (it had come out 6.4 % of span off).
+  it("keeps the trace that saw its line over a companion's trace that only bridged the bunch (scan 1192, hurried guides, npshr-290)", async () => {
+    const s = await makeRandomSheet(1192, 'scan');
+    const raster = await loadImageRasterNode(s.jpeg);
+    const replay = await replayTakeoff(parseTakeoff(s.takeoff), imageSheet(raster, '0'.repeat(64), () => raster));
+    const got = replay.traces.find((t) => t.id === 'npshr-290')!;
+    const { plan, shot } = sheetGeometry(1192, 'scan');
+    const drawn = plan.lines.find((l) => l.id === 'npshr-290')!;
+    const line = drawn.points.map((p) => applyH(shot.h, p));
+    expect(got.points.length).toBeGreaterThan(30);
+    expect(covered({ points: got.points }, line, drawn.style.width)).toBeGreaterThan(0.8);
+    expect(offShare({ points: got.points }, line, drawn.style.width)).toBeLessThan(0.05);
   }, 60_000);
 });
