@@ -707,7 +707,11 @@ function traceWithCompanions(image: RasterImage, guides: readonly SheetPoint[], 
   // A trace by the companion's colour that saw next to nothing of the line (its guides joined by a
   // bridge across the bunch) is no better, however long its path.
   const sawLittle = seenLength(got) * image.scale < Math.max(LITTLE_FOLLOWED_PX, LITTLE_FOLLOWED_WIDTHS * got.line.widthPx);
-  const better = !sawLittle && lostFromSight(got) + unseen(got) <= lostFromSight(plain) + unseen(plain) && polylineLength(got.points) >= (note.grey ? COMPANION_LENGTH_GREY : COMPANION_LENGTH) * polylineLength(plain.points);
+  // A model of another hue alone, as wide as the head curve's line, may be a clean sample of the
+  // line's own colour as the scan printed it: the head curve's colour then has to see as much of
+  // the line, not only run as far with bridges across bunches.
+  const length = (r: RasterTraceResult) => (note.byHueAlone ? seenLength(r) : polylineLength(r.points));
+  const better = !sawLittle && lostFromSight(got) + unseen(got) <= lostFromSight(plain) + unseen(plain) && length(got) >= (note.grey ? COMPANION_LENGTH_GREY : COMPANION_LENGTH) * length(plain);
   return { ...(better ? got : plain), pixelsRead };
 }
 
@@ -717,6 +721,8 @@ interface CompanionNote {
   byCompanion?: boolean;
   /** The guides' own model had no clear hue where the companion's line has one. */
   grey?: boolean;
+  /** The guides' own model was as wide as the companion's line and had a hue, only another one. */
+  byHueAlone?: boolean;
   /** That model was sampled clearly thinner than the companion's line alone, and can take its width. */
   canWiden?: boolean;
   /** Asked: the companion's model with the width of the companion's line alone. */
@@ -855,6 +861,7 @@ function traceOn(image: RasterImage, guides: readonly SheetPoint[], options: Ras
       note.byCompanion = true;
       note.canWiden = better.widened !== undefined;
       note.grey = mix.style.model.mode !== 'chromatic';
+      note.byHueAlone = better.byHueAlone;
     }
   }
   const acquired = chosen;
@@ -1110,8 +1117,9 @@ function companionChoice(
   standIn: readonly boolean[],
   asClicked: boolean,
   counter: ReadCounter,
-): { got: Acquired; guide: number; widened?: Acquired } | undefined {
+): { got: Acquired; guide: number; widened?: Acquired; byHueAlone: boolean } | undefined {
   let out: { got: Acquired; guide: number; found: number; alone: number; rgb: Rgb } | undefined;
+  let byHueAlone = false;
   for (const list of companions) {
     // The colour of the companion where its line has the most room.
     let colour: { rgb: Rgb; room: number; width: number } | undefined;
@@ -1131,7 +1139,10 @@ function companionChoice(
     const thinner = SOLO_WIDTH * mix.style.width < colour.width;
     // Or of no clear hue where the head curve has one: colours run together read grey.
     const grey = mix.style.model.mode !== 'chromatic';
-    if (!wider && !thinner && !grey) continue;
+    // Or of another hue than the head curve's: a neighbour's colour, or the blend of several.
+    const otherHue = !grey && membership(mix.style.model, ...colour.rgb) < GUIDE_MEMBERSHIP;
+    if (!wider && !thinner && !grey && !otherHue) continue;
+    if (!wider && !thinner && !grey) byHueAlone = true;
     const { rgb, width: alone } = colour;
     const fits = (w: number) => (wider ? SOLO_WIDTH * w <= mix.style.width : thinner ? w >= SOLO_WIDTH * mix.style.width && w <= SOLO_WIDTH * alone : w <= SOLO_WIDTH * Math.max(alone, mix.style.width));
     px.forEach((g, k) => {
@@ -1147,7 +1158,7 @@ function companionChoice(
   // Sampled clearly thinner than the companion's line alone: the line may lie half under the others there.
   const thin = SOLO_WIDTH * out.got.style.width < out.alone;
   const widened = thin ? acquire(image, px[out.guide] as Px, search, { ...options, colour: out.rgb, widthPx: out.alone }, ownBand) : undefined;
-  return { got: out.got, guide: out.guide, ...(widened && !widened.style.reach ? { widened } : {}) };
+  return { got: out.got, guide: out.guide, byHueAlone, ...(widened && !widened.style.reach ? { widened } : {}) };
 }
 
 /** What `acquire` finds under a guide. */

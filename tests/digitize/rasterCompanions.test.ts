@@ -264,4 +264,34 @@ describe('companions on the random bed', () => {
     expect(covered({ points: got.points }, line, drawn.style.width)).toBeGreaterThan(0.8);
     expect(offShare({ points: got.points }, line, drawn.style.width)).toBeLessThan(0.05);
   }, 60_000);
+  // Another hue: the guides sample a colour as wide as the head curve's line, but not its colour
+  // (a neighbour's, or a blend of several). Scan 880, hurried guides: an orange efficiency curve
+  // clicked where a brown one runs beside it, sampled as a 4.7 px brown mix, followed the brown line
+  // (58 % of its points off); photo 41: an NPSHr line sampled in another green ran a fifth of its
+  // length. The head curve's colour follows both.
+  it("tries the head curve's colour where the guides sample another hue (scan 880, hurried guides, efficiency-11)", async () => {
+    const withHead = await bedLineTrace(880, 'efficiency-11');
+    const without = await bedLineTrace(880, 'efficiency-11', { companions: false });
+    expect(offShare(withHead.got, withHead.line, withHead.width)).toBeLessThan(0.05);
+    expect(covered(withHead.got, withHead.line, withHead.width)).toBeGreaterThan(0.95);
+    expect(offShare(without.got, without.line, without.width)).toBeGreaterThan(0.3);
+  }, 60_000);
+
+  it("tries the head curve's colour where the guides sample another hue (photo 41, hurried guides, npshr-13.5)", async () => {
+    const withHead = await bedLineTrace(41, 'npshr-13.5', { kind: 'photo' });
+    const without = await bedLineTrace(41, 'npshr-13.5', { kind: 'photo', companions: false });
+    expect(offShare(withHead.got, withHead.line, withHead.width)).toBeLessThan(0.05);
+    expect(covered(withHead.got, withHead.line, withHead.width)).toBeGreaterThan(0.9);
+    expect(covered(without.got, without.line, without.width)).toBeLessThan(0.3);
+  }, 60_000);
+
+  // Photo 179, careful guides: a clean sample of the line's own colour, which the scan printed
+  // apart from its head curve's; the head curve's colour ran as far but saw half as much of the line
+  // (it bridged across bunches). The trace by the sample stands, point for point.
+  it("keeps a clean sample's trace where the head curve's colour sees less of the line (photo 179, careful guides, efficiency-294)", async () => {
+    const withHead = await bedLineTrace(179, 'efficiency-294', { kind: 'photo', careful: true });
+    const without = await bedLineTrace(179, 'efficiency-294', { kind: 'photo', careful: true, companions: false });
+    expect(withHead.got.points).toEqual(without.got.points);
+    expect(covered(withHead.got, withHead.line, withHead.width)).toBeGreaterThan(0.95);
+  }, 60_000);
 });

@@ -85,3 +85,20 @@ describe.skipIf(!hasChromium)('a speed family efficiency line clicked once at th
     expect(covered(trace(false))).toBeLessThan(0.2);
   });
 });
+
+// Seed 10, hurried guides: the 1450 rpm efficiency line (blue) is clicked three times near its
+// peak, where the purple and black lines run close; every guide samples a purple blend as wide as
+// the blue head curve's line (7.6 points off). A sample of another hue than the head curve's tries
+// its colour, kept where it sees at least as much of the line.
+describe.skipIf(!hasChromium)('a speed family efficiency line clicked near its peak, sampled in another hue (seed 10)', () => {
+  const { trace, drawn, covered } = speedTrace(10, 'efficiency-1450');
+  it("follows the blue line with its head curve's colour", () => {
+    const got = trace(true);
+    const line = drawn();
+    expect(got.points.filter((p) => distanceToLine(line, p) > 3).length / got.points.length).toBeLessThan(0.05);
+    expect(covered(got)).toBeGreaterThan(0.9);
+  });
+  it('without the head curve the trace follows the purple blend (the case the rule is for)', () => {
+    expect(covered(trace(false))).toBeLessThan(0.2);
+  });
+});
