@@ -181,6 +181,17 @@ describe('companions on the random bed', () => {
     const middle = line.slice(Math.floor(line.length * 0.1), Math.ceil(line.length * 0.9));
     return got.points.length < 2 ? 0 : middle.filter((p) => distanceToLine(got.points, p) <= Math.max(3, 2 * width)).length / middle.length;
   };
+  /** The trace with its head curve as companion and without, with the off and covered shares of each. */
+  const both = async (seed: number, id: string, options: { kind?: 'scan' | 'photo'; careful?: boolean } = {}) => {
+    const measure = (t: Awaited<ReturnType<typeof bedLineTrace>>) => ({ ...t, off: offShare(t.got, t.line, t.width), covered: covered(t.got, t.line, t.width) });
+    return { withHead: measure(await bedLineTrace(seed, id, options)), without: measure(await bedLineTrace(seed, id, { ...options, companions: false })) };
+  };
+  /** The headless replay of a bed sheet with its hurried guides. */
+  const replayBed = async (seed: number, kind: 'scan' | 'photo') => {
+    const s = await makeRandomSheet(seed, kind);
+    const raster = await loadImageRasterNode(s.jpeg);
+    return replayTakeoff(parseTakeoff(s.takeoff), imageSheet(raster, '0'.repeat(64), () => raster));
+  };
   // Scan 66, careful guides: a pink efficiency curve runs between blue and olive ones over its whole
   // length, and every guide samples them run together (a 4.7 px mix). The pink head curve of the
   // same impeller, clicked where it stands alone, gives the colour.
@@ -202,19 +213,17 @@ describe('companions on the random bed', () => {
   // trace runs 64 % of the line against 36 % (3 of its 23 points off the line where it ends in the
   // bunch; the fitted curve 0.27 points off against 0.48).
   it('takes the head curve\'s colour where the guides sample a grey blend of colours (photo 74, hurried guides, efficiency-180)', async () => {
-    const withHead = await bedLineTrace(74, 'efficiency-180', { kind: 'photo' });
-    const without = await bedLineTrace(74, 'efficiency-180', { kind: 'photo', companions: false });
-    expect(offShare(withHead.got, withHead.line, withHead.width)).toBeLessThan(0.15);
-    expect(covered(withHead.got, withHead.line, withHead.width)).toBeGreaterThan(0.6);
-    expect(covered(withHead.got, withHead.line, withHead.width)).toBeGreaterThan(1.5 * covered(without.got, without.line, without.width));
+    const { withHead, without } = await both(74, 'efficiency-180', { kind: 'photo' });
+    expect(withHead.off).toBeLessThan(0.15);
+    expect(withHead.covered).toBeGreaterThan(0.6);
+    expect(withHead.covered).toBeGreaterThan(1.5 * without.covered);
   }, 60_000);
 
   // Photo 38, hurried guides: one guide in an olive efficiency curve's low-flow bunch; the head
   // curve's colour measures a thin stroke there whose trace runs a fifth as far. The trace without
   // it is kept.
   it("keeps the trace without the head curve's colour where that one runs shorter (photo 38, hurried guides, efficiency-145)", async () => {
-    const withHead = await bedLineTrace(38, 'efficiency-145', { kind: 'photo' });
-    const without = await bedLineTrace(38, 'efficiency-145', { kind: 'photo', companions: false });
+    const { withHead, without } = await both(38, 'efficiency-145', { kind: 'photo' });
     expect(withHead.got.points).toEqual(without.got.points);
   }, 60_000);
   // Scan 105, careful guides, and scan 40, hurried guides: the head curve's colour is found at the
@@ -223,28 +232,24 @@ describe('companions on the random bed', () => {
   // alone follows it end to end (before that width was tried, both were wrong: 1.86 points and
   // 26.5 % of span off).
   it("takes the head line's width where its colour is sampled thin in a bunch (scan 105, careful, efficiency-12)", async () => {
-    const withHead = await bedLineTrace(105, 'efficiency-12', { careful: true });
-    const without = await bedLineTrace(105, 'efficiency-12', { careful: true, companions: false });
-    expect(offShare(withHead.got, withHead.line, withHead.width)).toBeLessThan(0.05);
-    expect(covered(withHead.got, withHead.line, withHead.width)).toBeGreaterThan(0.95);
-    expect(offShare(without.got, without.line, without.width)).toBeGreaterThan(0.2);
+    const { withHead, without } = await both(105, 'efficiency-12', { careful: true });
+    expect(withHead.off).toBeLessThan(0.05);
+    expect(withHead.covered).toBeGreaterThan(0.95);
+    expect(without.off).toBeGreaterThan(0.2);
   }, 60_000);
 
   it("takes the head line's width where its colour is sampled thin in a bunch (scan 40, hurried, npshr-15)", async () => {
-    const withHead = await bedLineTrace(40, 'npshr-15');
-    const without = await bedLineTrace(40, 'npshr-15', { companions: false });
-    expect(offShare(withHead.got, withHead.line, withHead.width)).toBeLessThan(0.05);
-    expect(covered(withHead.got, withHead.line, withHead.width)).toBeGreaterThan(0.95);
-    expect(covered(without.got, without.line, without.width)).toBeLessThan(0.2);
+    const { withHead, without } = await both(40, 'npshr-15');
+    expect(withHead.off).toBeLessThan(0.05);
+    expect(withHead.covered).toBeGreaterThan(0.95);
+    expect(without.covered).toBeLessThan(0.2);
   }, 60_000);
   // Photo 1205, hurried guides: an NPSHr line clicked once in its low-flow bunch, traced in the
   // replay by the head curve's colour and width, came out 1.003 % of span off with no doubt at all:
   // the wider model saw room beside the line at the guide. The guide sampled lines run together,
   // and the take-off says so.
   it('says the guide sits in a bunch when the model came from the head curve (photo 1205, hurried guides, npshr-310)', async () => {
-    const s = await makeRandomSheet(1205, 'photo');
-    const raster = await loadImageRasterNode(s.jpeg);
-    const replay = await replayTakeoff(parseTakeoff(s.takeoff), imageSheet(raster, '0'.repeat(64), () => raster));
+    const replay = await replayBed(1205, 'photo');
     const codes = replay.curveSet.findings.filter((f) => f.subject.trace === 'npshr-310').map((f) => f.code);
     expect(codes).toContain('takeoff.guide-in-bunch');
   }, 60_000);
@@ -253,9 +258,7 @@ describe('companions on the random bed', () => {
   // units of path, nearly all of it a chord); the trace without it followed the line over 791. A
   // bridged chord is no length seen, and the plain trace stands (it had come out 6.4 % of span off).
   it("keeps the trace that saw its line over a companion's trace that only bridged the bunch (scan 1192, hurried guides, npshr-290)", async () => {
-    const s = await makeRandomSheet(1192, 'scan');
-    const raster = await loadImageRasterNode(s.jpeg);
-    const replay = await replayTakeoff(parseTakeoff(s.takeoff), imageSheet(raster, '0'.repeat(64), () => raster));
+    const replay = await replayBed(1192, 'scan');
     const got = replay.traces.find((t) => t.id === 'npshr-290')!;
     const { plan, shot } = sheetGeometry(1192, 'scan');
     const drawn = plan.lines.find((l) => l.id === 'npshr-290')!;
@@ -270,28 +273,25 @@ describe('companions on the random bed', () => {
   // (58 % of its points off); photo 41: an NPSHr line sampled in another green ran a fifth of its
   // length. The head curve's colour follows both.
   it("tries the head curve's colour where the guides sample another hue (scan 880, hurried guides, efficiency-11)", async () => {
-    const withHead = await bedLineTrace(880, 'efficiency-11');
-    const without = await bedLineTrace(880, 'efficiency-11', { companions: false });
-    expect(offShare(withHead.got, withHead.line, withHead.width)).toBeLessThan(0.05);
-    expect(covered(withHead.got, withHead.line, withHead.width)).toBeGreaterThan(0.95);
-    expect(offShare(without.got, without.line, without.width)).toBeGreaterThan(0.3);
+    const { withHead, without } = await both(880, 'efficiency-11');
+    expect(withHead.off).toBeLessThan(0.05);
+    expect(withHead.covered).toBeGreaterThan(0.95);
+    expect(without.off).toBeGreaterThan(0.3);
   }, 60_000);
 
   it("tries the head curve's colour where the guides sample another hue (photo 41, hurried guides, npshr-13.5)", async () => {
-    const withHead = await bedLineTrace(41, 'npshr-13.5', { kind: 'photo' });
-    const without = await bedLineTrace(41, 'npshr-13.5', { kind: 'photo', companions: false });
-    expect(offShare(withHead.got, withHead.line, withHead.width)).toBeLessThan(0.05);
-    expect(covered(withHead.got, withHead.line, withHead.width)).toBeGreaterThan(0.9);
-    expect(covered(without.got, without.line, without.width)).toBeLessThan(0.3);
+    const { withHead, without } = await both(41, 'npshr-13.5', { kind: 'photo' });
+    expect(withHead.off).toBeLessThan(0.05);
+    expect(withHead.covered).toBeGreaterThan(0.9);
+    expect(without.covered).toBeLessThan(0.3);
   }, 60_000);
 
   // Photo 179, careful guides: a clean sample of the line's own colour, which the scan printed
   // apart from its head curve's; the head curve's colour ran as far but saw half as much of the line
   // (it bridged across bunches). The trace by the sample stands, point for point.
   it("keeps a clean sample's trace where the head curve's colour sees less of the line (photo 179, careful guides, efficiency-294)", async () => {
-    const withHead = await bedLineTrace(179, 'efficiency-294', { kind: 'photo', careful: true });
-    const without = await bedLineTrace(179, 'efficiency-294', { kind: 'photo', careful: true, companions: false });
+    const { withHead, without } = await both(179, 'efficiency-294', { kind: 'photo', careful: true });
     expect(withHead.got.points).toEqual(without.got.points);
-    expect(covered(withHead.got, withHead.line, withHead.width)).toBeGreaterThan(0.95);
+    expect(withHead.covered).toBeGreaterThan(0.95);
   }, 60_000);
 });

@@ -40,6 +40,8 @@ function speedTrace(seed: number, id: string) {
   return {
     trace: (companions: boolean) => trace(companions),
     drawn,
+    /** Share of the trace's points farther than 3 px from the drawn line. */
+    off: (got: RasterTraceResult) => got.points.filter((p) => distanceToLine(drawn(), p) > 3).length / Math.max(1, got.points.length),
     /** Share of the drawn line's middle 80 % that the trace runs along, within 3 px. */
     covered: (got: RasterTraceResult) => {
       const line = drawn();
@@ -50,12 +52,11 @@ function speedTrace(seed: number, id: string) {
 }
 
 describe.skipIf(!hasChromium)('a speed family efficiency line clicked once where the curves run together (seed 6)', () => {
-  const { trace, drawn, covered } = speedTrace(6, 'efficiency-1400');
+  const { trace, off, covered } = speedTrace(6, 'efficiency-1400');
 
   it("follows the line from the guide near its peak down to low flow with its head curve's colour and width", () => {
     const got = trace(true);
-    const line = drawn();
-    expect(got.points.filter((p) => distanceToLine(line, p) > 3).length / got.points.length).toBeLessThan(0.05);
+    expect(off(got)).toBeLessThan(0.05);
     expect(covered(got)).toBeGreaterThan(0.8);
     expect(got.line.widthPx).toBeGreaterThan(2.5);
     // Every trace that starts in a bunch keeps its doubt.
@@ -73,11 +74,10 @@ describe.skipIf(!hasChromium)('a speed family efficiency line clicked once where
 // the orange line (769 px, 3.8 points off before). A grey sample's trace follows a line of no hue,
 // whose length says little: the head curve's trace is kept at 60 % of it.
 describe.skipIf(!hasChromium)('a speed family efficiency line clicked once at the origin, where the curves start together (seed 22)', () => {
-  const { trace, drawn, covered } = speedTrace(22, 'efficiency-1600');
+  const { trace, off, covered } = speedTrace(22, 'efficiency-1600');
   it("follows the orange line with its head curve's colour, though the grey sample's trace runs farther on the black line", () => {
     const got = trace(true);
-    const line = drawn();
-    expect(got.points.filter((p) => distanceToLine(line, p) > 3).length / got.points.length).toBeLessThan(0.1);
+    expect(off(got)).toBeLessThan(0.1);
     expect(covered(got)).toBeGreaterThan(0.65);
     expect(got.doubts.map((d) => d.code)).toContain('takeoff.guide-in-bunch');
   });
@@ -91,11 +91,10 @@ describe.skipIf(!hasChromium)('a speed family efficiency line clicked once at th
 // the blue head curve's line (7.6 points off). A sample of another hue than the head curve's tries
 // its colour, kept where it sees at least as much of the line.
 describe.skipIf(!hasChromium)('a speed family efficiency line clicked near its peak, sampled in another hue (seed 10)', () => {
-  const { trace, drawn, covered } = speedTrace(10, 'efficiency-1450');
+  const { trace, off, covered } = speedTrace(10, 'efficiency-1450');
   it("follows the blue line with its head curve's colour", () => {
     const got = trace(true);
-    const line = drawn();
-    expect(got.points.filter((p) => distanceToLine(line, p) > 3).length / got.points.length).toBeLessThan(0.05);
+    expect(off(got)).toBeLessThan(0.05);
     expect(covered(got)).toBeGreaterThan(0.9);
   });
   it('without the head curve the trace follows the purple blend (the case the rule is for)', () => {
