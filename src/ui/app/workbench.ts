@@ -383,6 +383,8 @@ export class Workbench implements Bench {
       ({ points, gaps, moved }) => {
         this.store.dispatch(setGuides(id, trace.guides, points, 're-trace'));
         this.store.say(gaps.length ? [...gaps, ...moved].join(' ') : [`Re-traced: ${points.length} points.`, ...moved].join(' '), gaps.length ? 'caution' : 'done');
+        // A head curve lends its colour to the same impeller's other traces, as in the trace tool.
+        if (trace.quantity === 'head' && points.length >= 2) void this.sheetTools.retraceLeaning(id);
       },
       (error: Error) => this.store.say(error.message, 'error'),
     );
