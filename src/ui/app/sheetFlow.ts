@@ -9,7 +9,7 @@ import { describeZodError } from '../../model/errors.ts';
 import { choosePage, newSheetDraft, readFromSheet } from '../store/actions/setup.ts';
 import { readHints, type TextItem } from '../geometry/hints.ts';
 import type { Draft, SheetRef } from '../store/draft.ts';
-import { frameOfPanel, pointsOf } from '../store/draft.ts';
+import { pointsOf } from '../store/draft.ts';
 import { fromTakeoffFile } from '../store/takeoffFile.ts';
 import { unitSystemOf, type Step } from '../store/store.ts';
 import { isStep } from '../steps/registry.ts';
@@ -19,8 +19,7 @@ import type { Store } from '../store/store.ts';
 import type { SheetCanvas } from '../canvas/sheetCanvas.ts';
 import type { Autosave } from '../persist/autosave.ts';
 import type { SheetWorkerClient } from '../worker/client.ts';
-import { siblingGuides } from '../../digitize/vectorChoice.ts';
-import { companionGuidesOf } from '../../digitize/companions.ts';
+import { captureContext } from './captureContext.ts';
 
 /** What getting a sheet onto the workbench needs of it. */
 export interface SheetFlowHost {
@@ -255,9 +254,7 @@ export class SheetFlow {
     for (const [i, t] of missing.entries()) {
       this.progress(`Tracing ${i + 1} of ${missing.length}`, i / missing.length);
       try {
-        const siblings = siblingGuides(this.store.draft.traces.filter((x) => x.id !== t.id)).map((g) => g.map((p): [number, number] => [p[0], p[1]]));
-        const companions = companionGuidesOf(this.store.draft.traces, this.store.draft.traces.indexOf(t)).map((g) => g.map((p): [number, number] => [p[0], p[1]]));
-        const answer = await this.bench.worker.call('capture', { guides: t.guides.map((g) => [g[0], g[1]]), method: t.method, ...(t.extent ? { extent: t.extent } : {}), ...frameOfPanel(this.store.draft.panels, t.panel), siblings, companions });
+        const answer = await this.bench.worker.call('capture', { guides: t.guides.map((g) => [g[0], g[1]]), method: t.method, ...(t.extent ? { extent: t.extent } : {}), ...captureContext(this.store.draft, t.panel, t.id) });
         const draft = this.store.draft;
         this.store.dispatch(() => ({ draft: { ...draft, traces: draft.traces.map((x) => (x.id === t.id ? { ...x, captured: answer.points } : x)) }, label: 'capture', undoable: false }));
         if (answer.doubts.length) this.store.say(`Trace ${t.id}: ${answer.doubts.join(' ')}`, 'caution');

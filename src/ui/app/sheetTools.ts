@@ -12,17 +12,16 @@ import type { Magnifier } from '../canvas/magnifier.ts';
 import { plotsOfFrame, type TextItem } from '../geometry/hints.ts';
 import type { Snap } from '../geometry/snap.ts';
 import { useProposal } from '../store/actions/panels.ts';
-import { frameOf, frameOfPanel } from '../store/draft.ts';
+import { frameOf, pointsOf, powerUnit } from '../store/draft.ts';
 import type { Store } from '../store/store.ts';
 import { snapRadius, type ToolHost } from '../tools/tool.ts';
 import type { TraceSpec } from '../store/actions/traces.ts';
 import type { AnchorProposal } from '../worker/protocol.ts';
 import type { SheetWorkerClient } from '../worker/client.ts';
 import type { SheetKind } from '../../digitize/sheet.ts';
-import { siblingGuides } from '../../digitize/vectorChoice.ts';
-import { companionGuidesOf, tracesLeaningOn } from '../../digitize/companions.ts';
+import { tracesLeaningOn } from '../../digitize/companions.ts';
+import { captureContext } from './captureContext.ts';
 import { traceName } from '../store/actions/traces.ts';
-import { pointsOf, powerUnit } from '../store/draft.ts';
 import { num } from '../views/words.ts';
 import type { Derived } from './bench.ts';
 import { bestProposal } from './proposals.ts';
@@ -109,13 +108,8 @@ export class SheetTools implements ToolHost {
   async capture(guides: readonly SheetXY[], method: 'auto' | 'vector' | 'raster', extent?: 'guides' | 'line', panel?: string, traceId?: string, curve?: TraceSpec): Promise<{ points: SheetXY[]; gaps: string[]; moved: string[] }> {
     this.host.store.setSession({ busy: true, progress: { label: 'Tracing…', fraction: null } });
     try {
-      const siblings = siblingGuides(this.host.store.draft.traces.filter((t) => t.id !== traceId)).map((g) => g.map((p): [number, number] => [p[0], p[1]]));
-      // The same impeller's head trace, as the replay hands it in: of the trace captured again, or of the curve a new trace is for.
-      const traces = this.host.store.draft.traces;
-      const index = traces.findIndex((t) => t.id === traceId);
-      const of = index >= 0 ? companionGuidesOf(traces, index) : curve ? companionGuidesOf([...traces, curve], traces.length) : [];
-      const companions = of.map((g) => g.map((p): [number, number] => [p[0], p[1]]));
-      const answer = await this.host.worker.call('capture', { guides: guides.map((g) => [g[0], g[1]]), method, ...(extent ? { extent } : {}), ...frameOfPanel(this.host.store.draft.panels, panel), siblings, companions }, (p) => this.host.store.setSession({ progress: { label: p.label, fraction: p.fraction } }));
+      // The panel's frame, the other traces' guides and the same impeller's head trace, as the replay hands them in.
+      const answer = await this.host.worker.call('capture', { guides: guides.map((g) => [g[0], g[1]]), method, ...(extent ? { extent } : {}), ...captureContext(this.host.store.draft, panel, traceId, curve) }, (p) => this.host.store.setSession({ progress: { label: p.label, fraction: p.fraction } }));
       if (answer.points.length < 2) {
         const why = answer.gaps.length ? ` (${answer.gaps.join(' ')})` : '';
         throw new Error(`No line could be followed from this click${why}; click right on the line, zoom in if lines run close, or add guides with Shift-click.`);
