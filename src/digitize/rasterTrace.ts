@@ -1148,7 +1148,11 @@ function companionChoice(
     px.forEach((g, k) => {
       if (asClicked && standIn[k]) return;
       const got = acquire(image, g, search, { ...options, colour: rgb }, ownBand);
-      if (!got || got.style.reach || got.isotropy > SOLO_ISOTROPY || !fits(got.style.width)) return;
+      // A dashed or dotted line is tried with the head curve's colour as a solid one is: its own
+      // sample, taken among neighbours' dashes, may read as solid and lose the line at its first
+      // gap, where the head colour finds the pattern (speed bench seed 40, hurried guides: a red
+      // dashed NPSHr line clicked once among three others, 25 % of span short, now whole).
+      if (!got || got.isotropy > SOLO_ISOTROPY || !fits(got.style.width)) return;
       const n = found(got);
       if (2 * n < px.length) return;
       if (!out || n > out.found || (n === out.found && got.style.width < out.got.style.width)) out = { got, guide: k, found: n, alone, rgb };

@@ -101,3 +101,21 @@ describe.skipIf(!hasChromium)('a speed family efficiency line clicked near its p
     expect(covered(trace(false))).toBeLessThan(0.2);
   });
 });
+
+// Seed 40, hurried guides: the 1575 rpm NPSHr line (red, dashed) is clicked once at low flow, where
+// four dashed NPSHr lines run 5–6 px apart. Its own sample reads as solid (the neighbours' dashes
+// fill its gaps) and loses the line at once (25 % of span short). The head curve's colour reads its
+// dash pattern there, and a dashed model from the head curve's colour is tried as a solid one is.
+describe.skipIf(!hasChromium)('a dashed speed family NPSHr line clicked once among the others (seed 40)', () => {
+  const { trace, off, covered } = speedTrace(40, 'npshr-1575');
+  it("follows the dashed line with its head curve's colour", () => {
+    const got = trace(true);
+    expect(got.line.dashed).toBe(true);
+    expect(off(got)).toBeLessThan(0.1);
+    expect(covered(got)).toBeGreaterThan(0.9);
+    expect(got.doubts.map((d) => d.code)).toContain('takeoff.guide-in-bunch');
+  });
+  it('without the head curve the trace stops at once (the case the rule is for)', () => {
+    expect(covered(trace(false))).toBeLessThan(0.1);
+  });
+});
