@@ -127,6 +127,10 @@ export class SheetTools implements ToolHost {
       .map((k) => draft.traces[k])
       .filter((t): t is NonNullable<typeof t> => t !== undefined && t.guides.length > 0 && !t.locked && !t.edited && t.points === undefined);
     const changed: string[] = [];
+    // The re-traces belong to the head curve's edit, and one undo takes both back, while nothing
+    // else was edited meanwhile. After another edit they are an undo step of their own: folded
+    // into that edit instead, undoing it would take them back and leave the head curve traced.
+    let ours = draft;
     for (const t of leaning) {
       try {
         const { points } = await this.capture(t.guides, t.method, t.extent, t.panel, t.id);
@@ -134,7 +138,9 @@ export class SheetTools implements ToolHost {
         const current = now.traces.find((x) => x.id === t.id);
         // Left as it is when the user changed it meanwhile, or when the capture came out the same.
         if (!current || current.guides !== t.guides || current.points !== undefined || samePoints(pointsOf(current), points)) continue;
-        this.host.store.dispatch(() => ({ draft: { ...now, traces: now.traces.map((x) => (x.id === t.id ? { ...x, captured: points } : x)) }, label: 'capture', undoable: false }));
+        const folded = now === ours;
+        this.host.store.dispatch(() => ({ draft: { ...now, traces: now.traces.map((x) => (x.id === t.id ? { ...x, captured: points } : x)) }, label: "trace again with the head curve's colour", undoable: !folded, keepsOrigin: true }));
+        ours = this.host.store.draft;
         changed.push(traceName(t, now.units.diameter, powerUnit(now.units)));
       } catch {
         // A trace whose line is not found again keeps its points; its own re-trace says why.
