@@ -294,4 +294,14 @@ describe('companions on the random bed', () => {
     expect(withHead.got.points).toEqual(without.got.points);
     expect(withHead.covered).toBeGreaterThan(0.95);
   }, 60_000);
+  // Scan 87, hurried guides: a teal efficiency curve clicked once near the origin, where a blue line
+  // runs over it. The guide samples the blue, and the teal is not found within the guide's reach; it
+  // shows 12 px on along the same course, where the lines part. The head curve's colour found there
+  // follows the teal line (it had come out 57 points off, a tenth of the line traced).
+  it("looks for the head curve's colour along the guide's line where the bunch hides it at the guide (scan 87, hurried guides, efficiency-360)", async () => {
+    const { withHead, without } = await both(87, 'efficiency-360');
+    expect(withHead.off).toBeLessThan(0.05);
+    expect(withHead.covered).toBeGreaterThan(0.85);
+    expect(without.covered).toBeLessThan(0.2);
+  }, 60_000);
 });
