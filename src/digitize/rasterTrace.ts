@@ -1162,7 +1162,7 @@ function companionChoice(
         const far = acquire(image, g, ALONG_REACH_PX, { ...options, colour: rgb }, ownBand);
         const off = far && Math.abs((far.centre[0] - mix.centre[0]) * mix.axis[1] - (far.centre[1] - mix.centre[1]) * mix.axis[0]);
         const turn = far && Math.abs(far.axis[0] * mix.axis[0] + far.axis[1] * mix.axis[1]);
-        if (far && (off as number) <= Math.max(ALONG_OFF_PX, mix.style.width) && (turn as number) >= Math.cos(ALONG_TURN)) {
+        if (far && (off as number) <= Math.max(ALONG_OFF_PX, mix.style.width) && (turn as number) >= Math.cos(ALONG_TURN) && far.style.width >= ALONG_WIDTH * colour.width) {
           got = far;
           along = true;
         }
@@ -1189,6 +1189,8 @@ const ALONG_REACH_PX = 30;
 /** How far off the course of the guide's line (px, or the sample's width when more) and how far turned from it that colour may be found. */
 const ALONG_OFF_PX = 2;
 const ALONG_TURN = (20 * Math.PI) / 180;
+/** Least width of the stroke found there, in the head curve's line width alone: a sliver of the colour at a bunch's edge is no line (random bed scan 892, hurried guides: a 1 px sliver beside a 2.6 px line led the trace off, 2.9 points). */
+const ALONG_WIDTH = 0.5;
 
 /** What `acquire` finds under a guide. */
 type Acquired = NonNullable<ReturnType<typeof acquire>>;
