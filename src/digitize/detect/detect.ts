@@ -41,7 +41,7 @@ export interface Detection {
 export function detectSheet(text: readonly SheetText[], paths: readonly VectorPath[], given?: GivenValues, isoLevels?: readonly number[], ratedRpm?: number): Detection {
   const found = findPanels(text, paths);
   const sorted = sortCurves(found.panels, sheetLines(paths));
-  const stubs = labelledStubs(sorted.stubs, sorted.curves, text);
+  const stubs = labelledStubs(sorted.stubs, sorted.curves, text, isoLevels);
   const curves = [...sorted.curves, ...stubs.read];
   const curveQuestions = [...sorted.questions, ...stubs.questions];
   const labels = assignLabels(curves, text, given, isoLevels, ratedRpm);

@@ -134,7 +134,7 @@ function placedIsoLabels(text: readonly SheetText[]): PlacedLabel[] {
  * within `STUB_LABEL_REACH` of the label's height, and nearer it than any iso-line found. Each is
  * read as an iso-line (its label names its level); the others are asked about, one sentence each.
  */
-export function labelledStubs(stubs: readonly FoundCurve[], curves: readonly FoundCurve[], text: readonly SheetText[]): { read: FoundCurve[]; questions: string[] } {
+export function labelledStubs(stubs: readonly FoundCurve[], curves: readonly FoundCurve[], text: readonly SheetText[], isoGiven?: readonly number[]): { read: FoundCurve[]; questions: string[] } {
   const labels = placedIsoLabels(text);
   const isos = curves.filter((c) => c.kind === 'iso');
   const read = stubs.filter((stub) =>
@@ -143,6 +143,23 @@ export function labelledStubs(stubs: readonly FoundCurve[], curves: readonly Fou
       return d <= STUB_LABEL_REACH * label.size && isos.every((c) => c.panel !== stub.panel || distanceToPolyline(c.points, label.centre) > d);
     }),
   );
+  // With the levels drawn given, a stub without a label is the end of an iso-line where it takes
+  // its place in the order of the panel's iso-lines (`levelsByOrder`: no more lines than both
+  // branches of every level) without moving any other line's level (vector detection bed seeds
+  // 244 and 505: the right branch of the lowest level clipped by the last head curve's end, 30
+  // units long, had been asked about).
+  if (isoGiven && isoGiven.length > 0) {
+    for (const stub of stubs) {
+      if (read.includes(stub)) continue;
+      const own = [...isos, ...read].filter((c) => c.panel === stub.panel && c.kind === 'iso');
+      if (own.length === 0) continue;
+      const before = levelsByOrder(own, isoGiven, new Map());
+      const after = levelsByOrder([...own, stub], isoGiven, new Map());
+      if (!before || !after) continue;
+      if (own.some((c) => before.get(c) !== after.get(c))) continue;
+      read.push(stub);
+    }
+  }
   const at = (p: SheetPoint) => `${p[0].toFixed(0)}, ${p[1].toFixed(0)}`;
   const questions = stubs
     .filter((s) => !read.includes(s))
