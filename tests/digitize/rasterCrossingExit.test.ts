@@ -25,8 +25,11 @@ describe('a line found again after a crossing of its own colour', () => {
   });
 
   it('is not the crossing head curve (random bed scan 82, efficiency 12.75 in, careful guides)', async () => {
-    // The same on another sheet: the trace 16.7 points of efficiency off.
+    // The same on another sheet: the trace 16.7 points of efficiency off. Since the faint olive
+    // line takes its head curve's colour (read dashed there), the trace runs the whole line with no
+    // stretch lost (0.15 points off against 0.53), a few points 2-3 px off where it crosses the bunch.
     const { got, line, width } = await carefulTrace(82, 'efficiency-12.75');
-    expect(got.points.filter((p) => distance(line, p) > Math.max(2, width)).length).toBeLessThanOrEqual(3);
+    expect(got.points.filter((p) => distance(line, p) > Math.max(2, width)).length).toBeLessThanOrEqual(6);
+    expect(Math.max(...got.points.map((p) => distance(line, p)))).toBeLessThan(4);
   });
 });
