@@ -7,11 +7,11 @@
 import { describe, expect, it } from 'vitest';
 import type { FoundCurve } from '../../src/digitize/detect/curves.ts';
 import { labelledStubs } from '../../src/digitize/detect/labels.ts';
-import type { SheetPoint } from '../../src/digitize/points.ts';
+import { sheetPoint } from '../../src/digitize/points.ts';
 
 const panel = { id: 'head', quantity: 'head', frame: [0, 0, 600, 400] } as unknown as FoundCurve['panel'];
 /** A line rising to the right whose lower end (where it meets the smallest head curve) stands at `x`. */
-const line = (id: number, x: number, rise = 100): FoundCurve => ({ id, panel, quantity: 'efficiency', kind: 'iso', points: [[x, 300] as SheetPoint, [x + 10, 300 - rise] as SheetPoint] });
+const line = (id: number, x: number, rise = 100): FoundCurve => ({ id, panel, quantity: 'efficiency', kind: 'iso', points: [sheetPoint(x, 300), sheetPoint(x + 10, 300 - rise)] });
 
 describe('labelledStubs with the levels given', () => {
   const isos = [line(1, 100), line(2, 200), line(3, 400)];
