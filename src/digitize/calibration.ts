@@ -76,6 +76,13 @@ export interface Calibration {
   readonly warnings: readonly string[];
   /** True when the anchors cannot reveal the perspective of a photo (three, three on one line, or along two lines) and the map is affine: `borrowPerspective` may lend it another panel's. */
   readonly perspectiveHidden?: boolean;
+  /**
+   * True when exactly four anchors fit an affine map within `PERSPECTIVE_PERCENT` and the map is
+   * affine: four anchors show a photo's perspective only in the fourth one's misfit, and where
+   * they stand away from the plot's corners the perspective over the plot can hide behind it.
+   * `borrowPerspective` offers such a panel the page's perspective too.
+   */
+  readonly perspectiveWeak?: boolean;
   /** The panel whose projective calibration lent this one the page's perspective (see `borrowPerspective`). */
   readonly perspectiveFrom?: string;
   toData(p: SheetCoordinates): DataPoint;
@@ -194,9 +201,15 @@ function affineCalibration(anchors: readonly AnchorInput[], tx: AxisTransform, t
       : undefined;
   const projective = h !== undefined && (wanted === 'projective' || (wanted === 'auto' && chooseProjection(anchors.length, affineMax, looAffine, looProjective, fitRms)));
 
-  if (!projective && !canSeePerspective && wanted === 'auto' && options.pagePerspective) {
-    const lent = lentPerspective(pts, us, vs, targets, spanU, spanV, m, tx, ty, where, options, options.pagePerspective);
-    if (lent) return lent;
+  // Four anchors that an affine map fits within placement error: on a photographed page whose
+  // perspective another panel shows, that fit hides the perspective over the plot away from the
+  // anchors (random bed photo 1127: NPSHr anchors at 1000/0, 3000/20, 0/40 and 4000/40 fitted
+  // within 0.08 % of span, the plot 0.61 % off with 0.10 % shown). The page's perspective is
+  // taken where it fits the anchors at least as well.
+  const weak = !projective && anchors.length === 4 && canSeePerspective;
+  if (!projective && (!canSeePerspective || weak) && wanted === 'auto' && options.pagePerspective) {
+    const lent = lentPerspective(pts, us, vs, targets, spanU, spanV, m, tx, ty, where, options, options.pagePerspective, weak);
+    if (lent && (!weak || lent.anchorPercentOfSpan <= affineMax)) return lent;
   }
   if (!projective) {
     if (anchors.length === 3) {
@@ -207,7 +220,7 @@ function affineCalibration(anchors: readonly AnchorInput[], tx: AxisTransform, t
     }
     else if (!canSeePerspective && !hasQuad(pts)) notices.push(`${where}: no four of the anchors are free of three on one line, so they cannot reveal the perspective of a photo; add an anchor off that line, near a free corner of the plot.`);
     else if (!canSeePerspective) notices.push(`${where}: the anchors lie on two lines (e.g. along the axes), so they cannot reveal the perspective of a photo; add an anchor off those lines (the far corner of the plot).`);
-    return { ...finish('affine', { affine: m }, tx, ty, affineResiduals, anchors.length === 3 ? 'none' : 'fit', where, options, notices, expectedError(pts, targets, spanU, spanV, affineFitter, 6, options)), perspectiveHidden: !canSeePerspective };
+    return { ...finish('affine', { affine: m }, tx, ty, affineResiduals, anchors.length === 3 ? 'none' : 'fit', where, options, notices, expectedError(pts, targets, spanU, spanV, affineFitter, 6, options)), perspectiveHidden: !canSeePerspective, ...(weak ? { perspectiveWeak: true } : {}) };
   }
   const hi = invertHomography(h);
   let residuals: AnchorResidual[];
@@ -249,6 +262,7 @@ function lentPerspective(
   where: string,
   options: CalibrateOptions,
   lent: PagePerspective,
+  weak = false,
 ): Calibration | undefined {
   const P = lent.homography;
   const onPage = (x: number, y: number) => applyHomography(P, x, y);
@@ -273,7 +287,9 @@ function lentPerspective(
   const own = expectedError(pts, targets, spanU, spanV, lentFitter, 6, options);
   if (!Number.isFinite(own)) return undefined;
   const expected = own + lent.percent;
-  const notice = `${where}: its anchors cannot reveal the perspective of a photo, so the perspective of the page is taken from panel "${lent.panel}", whose anchors show it (a printed sheet is one plane); the residual shown (${expected.toFixed(2)} % of span) adds that panel's to this one's. Add a fourth anchor near the free corner of this plot to check it.`;
+  const notice = weak
+    ? `${where}: its four anchors fit an affine map within placement error, which leaves a photo's perspective over the plot unseen, so the perspective of the page is taken from panel "${lent.panel}", whose anchors show it (a printed sheet is one plane); the residual shown (${expected.toFixed(2)} % of span) adds that panel's to this one's. Add a fifth anchor near a corner of this plot to check it.`
+    : `${where}: its anchors cannot reveal the perspective of a photo, so the perspective of the page is taken from panel "${lent.panel}", whose anchors show it (a printed sheet is one plane); the residual shown (${expected.toFixed(2)} % of span) adds that panel's to this one's. Add a fourth anchor near the free corner of this plot to check it.`;
   return { ...finish('affine', { affine: m, homography: h, inverse: invertHomography(h) }, tx, ty, residuals, pts.length === 3 ? 'none' : 'fit', where, options, [notice], expected), perspectiveFrom: lent.panel };
 }
 
@@ -294,7 +310,7 @@ export function borrowPerspective(panels: readonly { id: string; anchors: readon
   const cal = lender.calibration as Calibration;
   const lent: PagePerspective = { homography: cal.homography as H9, panel: lender.id, percent: cal.maxPercentOfSpan };
   for (const p of panels) {
-    if (p === lender || !p.calibration?.perspectiveHidden || (p.options.projection ?? 'auto') !== 'auto') continue;
+    if (p === lender || !(p.calibration?.perspectiveHidden || p.calibration?.perspectiveWeak) || (p.options.projection ?? 'auto') !== 'auto') continue;
     try {
       const again = calibrate(p.anchors, { ...p.options, pagePerspective: lent });
       if (again.perspectiveFrom !== undefined) out.set(p.id, again);
