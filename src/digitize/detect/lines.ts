@@ -6,7 +6,7 @@
  * mostly outside a frame.
  */
 import { flattenPath, DEFAULT_FLATNESS } from '../flatten.ts';
-import { clipPolyline } from '../polyline.ts';
+import { clipPolyline, distanceToPolyline } from '../polyline.ts';
 import { sheetPoint, type SheetPoint } from '../points.ts';
 import type { VectorPath } from '../sheet.ts';
 import { joinPieces, type Piece, type StrokeLine } from '../strokeJoin.ts';
@@ -117,13 +117,17 @@ export function mergeBroken(pieces: readonly { points: SheetPoint[]; style: stri
         const gx = start[0] - end[0];
         const gy = start[1] - end[1];
         const gap = Math.hypot(gx, gy);
-        if (gx < -0.5 || gap > reach) return;
         const da = direction(a.points, false);
         const db = direction(b.points, true);
         if (da[0] * db[0] + da[1] * db[1] < Math.cos((25 * Math.PI) / 180)) return;
+        // Or overlapping, each lying on the other where they overlap: a dotted line whose dots
+        // were shared out between two pieces over a short stretch (vector bed seed 539: a power
+        // curve's dots along a grid line, in two pieces 8 units over one another).
+        const overlap = gx < -0.5 && -gx <= reach && Math.abs(da[0]) >= STEEP_OVERLAP && distanceToPolyline(a.points, start) <= ON_EACH_OTHER && distanceToPolyline(b.points, end) <= ON_EACH_OTHER;
+        if ((gx < -0.5 && !overlap) || gap > reach) return;
         // The gap itself runs on along both ends.
-        if (gap > 1 && (da[0] * gx + da[1] * gy) / gap < Math.cos((30 * Math.PI) / 180)) return;
-        const cost = gap;
+        if (!overlap && gap > 1 && (da[0] * gx + da[1] * gy) / gap < Math.cos((30 * Math.PI) / 180)) return;
+        const cost = overlap ? 0 : gap;
         if (!best.has(i) || cost < best.get(i)!.cost) best.set(i, { j, cost });
         if (!bestBack.has(j) || cost < bestBack.get(j)!.cost) bestBack.set(j, { i, cost });
       });
@@ -131,7 +135,12 @@ export function mergeBroken(pieces: readonly { points: SheetPoint[]; style: stri
     let merged = false;
     for (const [i, { j }] of best) {
       if (bestBack.get(j)?.i !== i || !list[i]!.alive || !list[j]!.alive) continue;
-      list[i]!.points = [...list[i]!.points, ...list[j]!.points];
+      const a = list[i]!.points;
+      const b = list[j]!.points;
+      const from = (b[0] as SheetPoint)[0];
+      const to = (a[a.length - 1] as SheetPoint)[0];
+      // Overlapping pieces: their points over the overlap in order along the flow axis.
+      list[i]!.points = from < to ? [...a.filter((p) => p[0] < from), ...[...a.filter((p) => p[0] >= from), ...b.filter((p) => p[0] <= to)].sort((p, q) => p[0] - q[0]), ...b.filter((p) => p[0] > to)] : [...a, ...b];
       list[j]!.alive = false;
       merged = true;
     }
@@ -139,6 +148,11 @@ export function mergeBroken(pieces: readonly { points: SheetPoint[]; style: stri
   }
   return list.filter((p) => p.alive).map((p) => p.points);
 }
+
+/** Overlapping pieces are one line only where each lies within this of the other, sheet units (a vector line is exact to a hundredth). */
+const ON_EACH_OTHER = 0.5;
+/** Least share of an overlap's direction along the flow axis (its points are put in order along it). */
+const STEEP_OVERLAP = 0.5;
 
 /** Unit direction of a left-to-right polyline at its start (or end), over about 6 units. */
 function direction(points: readonly SheetPoint[], atStart: boolean): [number, number] {
