@@ -697,12 +697,13 @@ function traceWithCompanions(image: RasterImage, guides: readonly SheetPoint[], 
   if (!note.byCompanion) return asSampled;
   const { companions: _, ...alone } = options;
   const plain = traceOn(image, guides, alone, ownBand, numbers, labels);
-  const unseen = (r: RasterTraceResult) => r.doubts.filter((d) => d.code === 'takeoff.stretch-unseen').length;
+  // Times a trace lost its line: stretches lost from sight, and stretches unseen between guides.
+  const losses = (r: RasterTraceResult) => lostFromSight(r) + r.doubts.filter((d) => d.code === 'takeoff.stretch-unseen').length;
   // The companion's colour sampled thin in a bunch (its line half hidden under the others) also
   // tries the width of the head curve's line where it stands alone, and the one that loses the
   // line less often, then runs farther, is the companion's trace.
   const widened = note.canWiden ? traceOn(image, guides, options, ownBand, numbers, labels, { widened: true }) : undefined;
-  const got = widened && (lostFromSight(widened) + unseen(widened) < lostFromSight(asSampled) + unseen(asSampled) || (lostFromSight(widened) + unseen(widened) === lostFromSight(asSampled) + unseen(asSampled) && polylineLength(widened.points) > polylineLength(asSampled.points))) ? widened : asSampled;
+  const got = widened && (losses(widened) < losses(asSampled) || (losses(widened) === losses(asSampled) && polylineLength(widened.points) > polylineLength(asSampled.points))) ? widened : asSampled;
   const pixelsRead = asSampled.pixelsRead + plain.pixelsRead + (widened?.pixelsRead ?? 0);
   // A trace by the companion's colour that saw next to nothing of the line (its guides joined by a
   // bridge across the bunch) is no better, however long its path.
@@ -711,7 +712,7 @@ function traceWithCompanions(image: RasterImage, guides: readonly SheetPoint[], 
   // line's own colour as the scan printed it: the head curve's colour then has to see as much of
   // the line, not only run as far with bridges across bunches.
   const length = (r: RasterTraceResult) => (note.byHueAlone ? seenLength(r) : polylineLength(r.points));
-  const better = !sawLittle && lostFromSight(got) + unseen(got) <= lostFromSight(plain) + unseen(plain) && length(got) >= (note.grey ? COMPANION_LENGTH_GREY : COMPANION_LENGTH) * length(plain);
+  const better = !sawLittle && losses(got) <= losses(plain) && length(got) >= (note.grey ? COMPANION_LENGTH_GREY : COMPANION_LENGTH) * length(plain);
   return { ...(better ? got : plain), pixelsRead };
 }
 
@@ -854,7 +855,7 @@ function traceOn(image: RasterImage, guides: readonly SheetPoint[], options: Ras
   // `traceWithCompanions` keeps the result only where it does better.
   if (chosen && !options.colour && options.companions) {
     const mix = chosen;
-    const better = companionChoice(image, px, options.companions, search, options, ownBand, mix, (c) => px.filter((g) => nearestInk(image, c.style.model, g, vouchRadius) !== undefined).length, standIn, asClicked, counter);
+    const better = companionChoice(image, px, options.companions, search, options, ownBand, mix, first - 1, (c) => px.filter((g) => nearestInk(image, c.style.model, g, vouchRadius) !== undefined).length, standIn, asClicked, counter);
     if (better) {
       chosen = note.widened && better.widened ? better.widened : better.got;
       first = better.guide + 1;
@@ -1113,6 +1114,7 @@ function companionChoice(
   options: RasterTraceOptions,
   ownBand: boolean,
   mix: Acquired,
+  mixGuide: number,
   found: (c: Acquired) => number,
   standIn: readonly boolean[],
   asClicked: boolean,
@@ -1145,11 +1147,6 @@ function companionChoice(
     if (!wider && !thinner && !grey) byHueAlone = true;
     const { rgb, width: alone } = colour;
     const fits = (w: number) => (wider ? SOLO_WIDTH * w <= mix.style.width : thinner ? w >= SOLO_WIDTH * mix.style.width && w <= SOLO_WIDTH * alone : w <= SOLO_WIDTH * Math.max(alone, mix.style.width));
-    // The guide the chosen model was sampled under, and the course of its line there.
-    let home = -1;
-    px.forEach((g, k) => {
-      if (home < 0 || Math.hypot(g[0] - mix.centre[0], g[1] - mix.centre[1]) < Math.hypot((px[home] as Px)[0] - mix.centre[0], (px[home] as Px)[1] - mix.centre[1])) home = k;
-    });
     px.forEach((g, k) => {
       if (asClicked && standIn[k]) return;
       let got = acquire(image, g, search, { ...options, colour: rgb }, ownBand);
@@ -1157,12 +1154,13 @@ function companionChoice(
       // is looked for farther along the guide's own line, on its course (random bed scan 87,
       // hurried guides: a teal efficiency line clicked near the origin under a blue one, found
       // 12 px on where the two part; it had come out 57 points off). That place vouches as the guide.
+      // Only at the guide the chosen model was sampled under (`mixGuide`), on the course its line had there.
       let along = false;
-      if (!got && k === home) {
-        const far = acquire(image, g, ALONG_REACH_PX, { ...options, colour: rgb }, ownBand);
-        const off = far && Math.abs((far.centre[0] - mix.centre[0]) * mix.axis[1] - (far.centre[1] - mix.centre[1]) * mix.axis[0]);
-        const turn = far && Math.abs(far.axis[0] * mix.axis[0] + far.axis[1] * mix.axis[1]);
-        if (far && (off as number) <= Math.max(ALONG_OFF_PX, mix.style.width) && (turn as number) >= Math.cos(ALONG_TURN) && far.style.width >= ALONG_WIDTH * colour.width) {
+      const far = !got && k === mixGuide ? acquire(image, g, ALONG_REACH_PX, { ...options, colour: rgb }, ownBand) : undefined;
+      if (far) {
+        const off = Math.abs((far.centre[0] - mix.centre[0]) * mix.axis[1] - (far.centre[1] - mix.centre[1]) * mix.axis[0]);
+        const turn = Math.abs(far.axis[0] * mix.axis[0] + far.axis[1] * mix.axis[1]);
+        if (off <= Math.max(ALONG_OFF_PX, mix.style.width) && turn >= Math.cos(ALONG_TURN) && far.style.width >= ALONG_WIDTH * colour.width) {
           got = far;
           along = true;
         }

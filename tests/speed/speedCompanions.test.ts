@@ -51,71 +51,61 @@ function speedTrace(seed: number, id: string) {
   };
 }
 
-describe.skipIf(!hasChromium)('a speed family efficiency line clicked once where the curves run together (seed 6)', () => {
-  const { trace, off, covered } = speedTrace(6, 'efficiency-1400');
+/**
+ * The cases, each as the speed bench's hurried guides click it: the trace with the head curve's
+ * colour (`off` share of points off the drawn line under, `covered` share of the line over, and
+ * what else it must show) and without it (`without`: covered under, the case the rule is for).
+ */
+interface Case {
+  seed: number;
+  id: string;
+  title: string;
+  follows: string;
+  off: number;
+  covered: number;
+  /** The model's width over this (the head line's width taken). */
+  widthOver?: number;
+  dashed?: boolean;
+  /** Every trace that starts in a bunch keeps its doubt. */
+  inBunch?: boolean;
+  without: number;
+  withoutSays: string;
+}
 
-  it("follows the line from the guide near its peak down to low flow with its head curve's colour and width", () => {
-    const got = trace(true);
-    expect(off(got)).toBeLessThan(0.05);
-    expect(covered(got)).toBeGreaterThan(0.8);
-    expect(got.line.widthPx).toBeGreaterThan(2.5);
-    // Every trace that starts in a bunch keeps its doubt.
-    expect(got.doubts.map((d) => d.code)).toContain('takeoff.guide-in-bunch');
-  });
+const CASES: Case[] = [
+  // Seed 6: described at the top of this file.
+  { seed: 6, id: 'efficiency-1400', title: 'a speed family efficiency line clicked once where the curves run together (seed 6)', follows: "follows the line from the guide near its peak down to low flow with its head curve's colour and width", off: 0.05, covered: 0.8, widthOver: 2.5, inBunch: true, without: 0.3, withoutSays: 'without the head curve the trace runs a fifth of the line (the case the rule is for)' },
+  // Seed 22: the 1600 rpm efficiency line (orange) is clicked once near the origin, where all four
+  // efficiency curves start together; the sample there reads as a dark grey blend. The trace without
+  // the head curve's colour follows the black 1750 rpm line (1071 px), the one with it the orange
+  // line (769 px, 3.8 points off before). A grey sample's trace follows a line of no hue, whose
+  // length says little: the head curve's trace is kept at 60 % of it.
+  { seed: 22, id: 'efficiency-1600', title: 'a speed family efficiency line clicked once at the origin, where the curves start together (seed 22)', follows: "follows the orange line with its head curve's colour, though the grey sample's trace runs farther on the black line", off: 0.1, covered: 0.65, inBunch: true, without: 0.2, withoutSays: 'without the head curve the trace follows another line (the case the rule is for)' },
+  // Seed 10: the 1450 rpm efficiency line (blue) is clicked three times near its peak, where the
+  // purple and black lines run close; every guide samples a purple blend as wide as the blue head
+  // curve's line (7.6 points off). A sample of another hue than the head curve's tries its colour,
+  // kept where it sees at least as much of the line.
+  { seed: 10, id: 'efficiency-1450', title: 'a speed family efficiency line clicked near its peak, sampled in another hue (seed 10)', follows: "follows the blue line with its head curve's colour", off: 0.05, covered: 0.9, without: 0.2, withoutSays: 'without the head curve the trace follows the purple blend (the case the rule is for)' },
+  // Seed 40: the 1575 rpm NPSHr line (red, dashed) is clicked once at low flow, where four dashed
+  // NPSHr lines run 5–6 px apart. Its own sample reads as solid (the neighbours' dashes fill its
+  // gaps) and loses the line at once (25 % of span short). The head curve's colour reads its dash
+  // pattern there, and a dashed model from the head curve's colour is tried as a solid one is.
+  { seed: 40, id: 'npshr-1575', title: 'a dashed speed family NPSHr line clicked once among the others (seed 40)', follows: "follows the dashed line with its head curve's colour", off: 0.1, covered: 0.9, dashed: true, inBunch: true, without: 0.1, withoutSays: 'without the head curve the trace stops at once (the case the rule is for)' },
+];
 
-  it('without the head curve the trace runs a fifth of the line (the case the rule is for)', () => {
-    expect(covered(trace(false))).toBeLessThan(0.3);
+for (const c of CASES) {
+  describe.skipIf(!hasChromium)(c.title, () => {
+    const { trace, off, covered } = speedTrace(c.seed, c.id);
+    it(c.follows, () => {
+      const got = trace(true);
+      if (c.dashed) expect(got.line.dashed).toBe(true);
+      expect(off(got)).toBeLessThan(c.off);
+      expect(covered(got)).toBeGreaterThan(c.covered);
+      if (c.widthOver !== undefined) expect(got.line.widthPx).toBeGreaterThan(c.widthOver);
+      if (c.inBunch) expect(got.doubts.map((d) => d.code)).toContain('takeoff.guide-in-bunch');
+    });
+    it(c.withoutSays, () => {
+      expect(covered(trace(false))).toBeLessThan(c.without);
+    });
   });
-});
-
-// Seed 22, hurried guides: the 1600 rpm efficiency line (orange) is clicked once near the origin,
-// where all four efficiency curves start together; the sample there reads as a dark grey blend. The
-// trace without the head curve's colour follows the black 1750 rpm line (1071 px), the one with it
-// the orange line (769 px, 3.8 points off before). A grey sample's trace follows a line of no hue,
-// whose length says little: the head curve's trace is kept at 60 % of it.
-describe.skipIf(!hasChromium)('a speed family efficiency line clicked once at the origin, where the curves start together (seed 22)', () => {
-  const { trace, off, covered } = speedTrace(22, 'efficiency-1600');
-  it("follows the orange line with its head curve's colour, though the grey sample's trace runs farther on the black line", () => {
-    const got = trace(true);
-    expect(off(got)).toBeLessThan(0.1);
-    expect(covered(got)).toBeGreaterThan(0.65);
-    expect(got.doubts.map((d) => d.code)).toContain('takeoff.guide-in-bunch');
-  });
-  it('without the head curve the trace follows another line (the case the rule is for)', () => {
-    expect(covered(trace(false))).toBeLessThan(0.2);
-  });
-});
-
-// Seed 10, hurried guides: the 1450 rpm efficiency line (blue) is clicked three times near its
-// peak, where the purple and black lines run close; every guide samples a purple blend as wide as
-// the blue head curve's line (7.6 points off). A sample of another hue than the head curve's tries
-// its colour, kept where it sees at least as much of the line.
-describe.skipIf(!hasChromium)('a speed family efficiency line clicked near its peak, sampled in another hue (seed 10)', () => {
-  const { trace, off, covered } = speedTrace(10, 'efficiency-1450');
-  it("follows the blue line with its head curve's colour", () => {
-    const got = trace(true);
-    expect(off(got)).toBeLessThan(0.05);
-    expect(covered(got)).toBeGreaterThan(0.9);
-  });
-  it('without the head curve the trace follows the purple blend (the case the rule is for)', () => {
-    expect(covered(trace(false))).toBeLessThan(0.2);
-  });
-});
-
-// Seed 40, hurried guides: the 1575 rpm NPSHr line (red, dashed) is clicked once at low flow, where
-// four dashed NPSHr lines run 5–6 px apart. Its own sample reads as solid (the neighbours' dashes
-// fill its gaps) and loses the line at once (25 % of span short). The head curve's colour reads its
-// dash pattern there, and a dashed model from the head curve's colour is tried as a solid one is.
-describe.skipIf(!hasChromium)('a dashed speed family NPSHr line clicked once among the others (seed 40)', () => {
-  const { trace, off, covered } = speedTrace(40, 'npshr-1575');
-  it("follows the dashed line with its head curve's colour", () => {
-    const got = trace(true);
-    expect(got.line.dashed).toBe(true);
-    expect(off(got)).toBeLessThan(0.1);
-    expect(covered(got)).toBeGreaterThan(0.9);
-    expect(got.doubts.map((d) => d.code)).toContain('takeoff.guide-in-bunch');
-  });
-  it('without the head curve the trace stops at once (the case the rule is for)', () => {
-    expect(covered(trace(false))).toBeLessThan(0.1);
-  });
-});
+}

@@ -135,18 +135,22 @@ export function mergeBroken(pieces: readonly { points: SheetPoint[]; style: stri
     let merged = false;
     for (const [i, { j }] of best) {
       if (bestBack.get(j)?.i !== i || !list[i]!.alive || !list[j]!.alive) continue;
-      const a = list[i]!.points;
-      const b = list[j]!.points;
-      const from = (b[0] as SheetPoint)[0];
-      const to = (a[a.length - 1] as SheetPoint)[0];
-      // Overlapping pieces: their points over the overlap in order along the flow axis.
-      list[i]!.points = from < to ? [...a.filter((p) => p[0] < from), ...[...a.filter((p) => p[0] >= from), ...b.filter((p) => p[0] <= to)].sort((p, q) => p[0] - q[0]), ...b.filter((p) => p[0] > to)] : [...a, ...b];
+      list[i]!.points = joinInOrder(list[i]!.points, list[j]!.points);
       list[j]!.alive = false;
       merged = true;
     }
     if (!merged) break;
   }
   return list.filter((p) => p.alive).map((p) => p.points);
+}
+
+/** Two pieces of one line, `b` after `a`; where they overlap, the points of both over the overlap in order along the flow axis. */
+function joinInOrder(a: readonly SheetPoint[], b: readonly SheetPoint[]): SheetPoint[] {
+  const from = (b[0] as SheetPoint)[0];
+  const to = (a[a.length - 1] as SheetPoint)[0];
+  if (from >= to) return [...a, ...b];
+  const overlap = [...a.filter((p) => p[0] >= from), ...b.filter((p) => p[0] <= to)].sort((p, q) => p[0] - q[0]);
+  return [...a.filter((p) => p[0] < from), ...overlap, ...b.filter((p) => p[0] > to)];
 }
 
 /** Overlapping pieces are one line only where each lies within this of the other, sheet units (a vector line is exact to a hundredth). */
