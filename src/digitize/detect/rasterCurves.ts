@@ -236,6 +236,24 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     }
   }
 
+  // Efficiency curves drawn against a right-hand axis rise from the origin together: the finder
+  // follows the bunch as one line, and each curve that leaves it starts mid-frame, as an iso-line
+  // would. Such a line, starting on an efficiency curve and carrying on its course, is a curve of
+  // its own: it takes that curve's line up to where it leaves it.
+  for (const { frame, panels } of frames) {
+    const efficiency = panels.find((p) => p.quantity === 'efficiency');
+    if (!efficiency || !panels.some((p) => p.quantity === 'head')) continue;
+    const fw = frame[2] - frame[0];
+    const loose = curves.filter((c) => c.kind === 'iso' && !c.transposed && c.levelFrame === frame).sort((a, b) => (a.track.u[0] as number) - (b.track.u[0] as number));
+    for (const c of loose) {
+      const trunks = curves.filter((k) => k.kind === 'curve' && k.panel === efficiency && k.levelFrame === frame).map((k) => k.track);
+      const joined = branchOf(c.track, trunks, Math.max(2, median(c.track.len)), fw);
+      if (!joined) continue;
+      options.note?.(`a line starting at column ${Math.round(c.track.u[0] as number)} leaves the bunch of efficiency curves: taken for one of them`);
+      Object.assign(c, { panel: efficiency, quantity: 'efficiency', kind: 'curve', track: joined });
+    }
+  }
+
   bandsHaveNoRoom(curves);
   // Guides where each line stands alone, and the tracer's line from them.
   for (const [i, c] of curves.entries()) {
@@ -552,6 +570,78 @@ export function continuationOf<T extends { track: Track }>(t: Track, others: rea
   return found.length === 1 ? found[0] : undefined;
 }
 
+/**
+ * A line that leaves a bunch of efficiency curves, as one line, or null when it does not.
+ * - It carries on the course of a line of `trunks` (continuesCourse over its first
+ *   `BRANCH_COURSE_SHARE` of the frame's width, within 1.5 line widths and at least 3 pixels),
+ *   starting within that line's columns, past its first `BRANCH_START_SHARE` of the frame's width:
+ *   the trunk's line up to the start, then this line, with a join there (guides are not spread
+ *   across it). Trunks that fit run together there; the longest is taken.
+ * - Or it starts beside a trunk, within `BRANCH_NEAR_WIDTHS` line widths (and 4 pixels) across,
+ *   rising as the trunk does there (directions within `BRANCH_TURN` degrees): a line the bunch hid
+ *   from the origin, where the lines of a steep bunch lie apart in rows but not across. The line
+ *   is kept as found; the tracer follows it on into the bunch.
+ */
+export function branchOf(t: Track, trunks: readonly Track[], width: number, fw: number): Track | null {
+  const u0 = t.u[0] as number;
+  const v0 = t.v[0] as number;
+  const tol = Math.max(3, 1.5 * width);
+  const first: [number, number][] = [];
+  for (let i = 0; i < t.u.length && (t.u[i] as number) - u0 <= BRANCH_COURSE_SHARE * fw; i++) first.push([t.u[i] as number, t.v[i] as number]);
+  if (first.length < 8) return null;
+  const fits: Track[] = [];
+  let beside = false;
+  const slope = fitSlope(first);
+  for (const k of trunks) {
+    if (k === t) continue;
+    const start = k.u[0] as number;
+    const end = k.u[k.u.length - 1] as number;
+    if (u0 - start < BRANCH_START_SHARE * fw || u0 > end) continue;
+    let n = 0;
+    while (n < k.u.length && (k.u[n] as number) < u0) n++;
+    const before = cutTrack(k, n);
+    if (continuesCourse(before, first, 'end', tol, 0.15 * fw)) {
+      fits.push(before);
+      continue;
+    }
+    // Across: the distance from the start to the trunk's nearest column within reach.
+    const near: [number, number][] = [];
+    for (let i = 0; i < k.u.length; i++) if (Math.abs((k.u[i] as number) - u0) <= BRANCH_COURSE_SHARE * fw) near.push([k.u[i] as number, k.v[i] as number]);
+    if (near.length < 8) continue;
+    const across = Math.min(...near.map(([u, v]) => Math.hypot(u - u0, v - v0)));
+    const turn = (Math.abs(Math.atan(slope) - Math.atan(fitSlope(near))) * 180) / Math.PI;
+    if (across <= Math.max(4, BRANCH_NEAR_WIDTHS * width) && turn <= BRANCH_TURN && slope < 0) beside = true;
+  }
+  if (fits.length === 0) return beside ? t : null;
+  // Trunks that fit run together where the line leaves them: the longest stretch found is kept.
+  const trunk = fits.reduce((a, b) => (a.u.length >= b.u.length ? a : b));
+  const line = joinTracks(trunk, t);
+  line.joins = [...(line.joins ?? []), trunk.u.length].sort((a, b) => a - b);
+  return line;
+}
+
+/** The least-squares slope (rows per column) of points (column, row); 0 when they share one column. */
+function fitSlope(points: readonly (readonly [number, number])[]): number {
+  const n = points.length;
+  const mu = points.reduce((a, [u]) => a + u, 0) / n;
+  const mv = points.reduce((a, [, v]) => a + v, 0) / n;
+  let suu = 0;
+  let suv = 0;
+  for (const [u, v] of points) {
+    suu += (u - mu) ** 2;
+    suv += (u - mu) * (v - mv);
+  }
+  return suu > 0 ? suv / suu : 0;
+}
+
+/** How far into a trunk, in frame widths, a line leaving it must start (a line starting at the trunk's own start is no branch). */
+const BRANCH_START_SHARE = 0.01;
+/** How much of a branch's start, in frame widths, must carry on the trunk's course. */
+const BRANCH_COURSE_SHARE = 0.03;
+/** How far across, in line widths, a line hidden in the bunch from the origin may start from a trunk. */
+const BRANCH_NEAR_WIDTHS = 2.5;
+/** Degrees between a hidden line's direction and its trunk's where it starts. */
+const BRANCH_TURN = 30;
 /** How far past a head line's end, in frame widths, its continuation beyond a label may start. */
 const JOIN_GAP_SHARE = 0.06;
 /** Share of its columns along another head line that makes a line no head line's continuation (a piece of that other line). */
