@@ -6,7 +6,7 @@
  */
 import { afterAll, describe, expect, it } from 'vitest';
 import type { InkMap } from '../../src/digitize/detect/ink.ts';
-import { crossingsOfWord, distanceToTrack, headPieces, isoLevelOf, isoLevelRead, isoLevelsOnScan, linesMeeting, splitAcross, steepLines, transposeBox, turnedInk, wordsOnIsoLines, type FrameWord } from '../../src/digitize/detect/rasterIso.ts';
+import { crossingsOfWord, distanceToTrack, headPieces, isoLevelOf, isoPiecesAcross, isoLevelRead, isoLevelsOnScan, linesMeeting, splitAcross, steepLines, transposeBox, turnedInk, wordsOnIsoLines, type FrameWord } from '../../src/digitize/detect/rasterIso.ts';
 import { inferIsoLevels, levelsFromList, sideBySide } from '../../src/digitize/detect/isoLevels.ts';
 import { runTogetherWords } from '../../src/digitize/detect/rasterCurves.ts';
 import { sheetPoint, type SheetPoint } from '../../src/digitize/points.ts';
@@ -276,6 +276,34 @@ describe('iso levels on a scan, with a line the tracer lost', () => {
     const without = await isoLevelsOnScan([a, b, d], new Map([...onLines].filter(([, l]) => l !== c)), reader(texts), 255, 'head', undefined, 20);
     expect(without.levels.has(d)).toBe(false);
     expect(without.missing).toContain('1 of the 3 lines');
+  });
+});
+
+describe('an iso-line cut in two by its label (scan bed seed 69)', () => {
+  // The line runs from (100, 300) to (200, 200); its label, 20 px high and 40 wide, sits on it at
+  // (150, 250), and the line found stops short of the label on both sides.
+  const lower = line(100, 300, 130, 270);
+  const upper = line(170, 230, 200, 200);
+  const tracedAll = Array.from({ length: 101 }, (_, i) => sheetPoint(100 + i, 300 - i)); // the tracer runs across the gap
+  const toLevel = (p: SheetPoint): [number, number] => [p[0], p[1]];
+  const label = word(130, 240, 170, 260);
+  const head = { track: line(0, 100, 400, 120) };
+
+  it("places the label on the line by the tracer's line across the gap, not by the pieces alone", () => {
+    const piece = { track: lower, traced: tracedAll };
+    expect(wordsOnIsoLines([label], [piece], [head]).size).toBe(0); // 28 px from the piece's end
+    const found = wordsOnIsoLines([label], [piece], [head], undefined, (c) => c.traced.map(toLevel));
+    expect(found.get(label)).toBe(piece);
+  });
+
+  it("takes the piece whose tracer stopped short of the other's far end for a piece of the other", () => {
+    const sure = { track: lower, traced: tracedAll, confidence: 0.5 };
+    // The upper piece's tracer ran down across the label but stopped 10 px short of the lower piece's start.
+    const piece = { track: upper, traced: Array.from({ length: 91 }, (_, i) => sheetPoint(110 + i, 290 - i)), confidence: 0.45 };
+    expect([...isoPiecesAcross([sure, piece], toLevel)]).toEqual([piece]);
+    // A line beside it, whose tracer ran on onto this one, is no piece of it.
+    const other = { track: line(170, 250, 200, 220), traced: [...Array.from({ length: 31 }, (_, i) => sheetPoint(200 - i, 220 + i)), ...Array.from({ length: 40 }, (_, i) => sheetPoint(130 - i, 270 + i))], confidence: 0.45 };
+    expect(isoPiecesAcross([sure, other], toLevel).has(other)).toBe(false);
   });
 });
 

@@ -81,6 +81,14 @@ describe('a head line that turns off its course', () => {
     expect(courseBreak(track(head), 3, 120)).toBeNull();
     expect(courseBreak(track((u) => (u > 400 && u < 406 ? head(u) + 9 : head(u))), 3, 120)).toBeNull();
   });
+  it('is not cut at a label longer than half its reach, where the line found runs over the glyphs and comes back (scan bed seed 42)', () => {
+    // 80 columns of label, the line found 10 px off over them, then on the line again.
+    const labelled = track((u) => (u > 600 && u < 680 ? head(u) - 10 : head(u)));
+    expect(courseBreak(labelled, 3, 120)).toBeNull();
+    // The same turn onto an iso-line as above is still cut after such a label.
+    const t = track((u) => (u > 300 && u < 380 ? head(u) - 10 : u < 600 ? head(u) : head(u) + 0.15 * (u - 600)));
+    expect(t.u[courseBreak(t, 3, 120)!]!).toBeGreaterThan(570);
+  });
 });
 
 describe('guides never in a band of lines run together, nor across a step onto another line', () => {

@@ -218,12 +218,23 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
   // A head line broken by a label printed on it (or cut where the finder ran on along an iso-line
   // from the label) goes on beyond the label as a line that starts off the flow axis, which would
   // be sorted as an iso-line: joined back where that line carries on the head line's course.
+  const rests = new Set<RasterCurve>();
   for (const c of curves) {
     if (c.kind !== 'curve' || c.quantity !== 'head' || c.transposed) continue;
     const width = Math.max(2, median(c.track.len));
     const fw = c.levelFrame[2] - c.levelFrame[0];
     const cut = courseBreak(c.track, Math.max(3, 1.5 * width), 0.15 * fw);
-    if (cut !== null) c.track = cutTrack(c.track, cut);
+    if (cut !== null) {
+      // What lies past the turn is a piece of the line it turned onto: kept where it carries on
+      // another head line found short (two head lines that swapped at a label), dropped below if not.
+      const rest = trackFrom(c.track, cut);
+      if (rest.u.length >= 8) {
+        const piece: RasterCurve = { ...c, kind: 'iso', quantity: 'efficiency', track: rest };
+        curves.push(piece);
+        rests.add(piece);
+      }
+      c.track = cutTrack(c.track, cut);
+    }
     // An iso-line's branch that starts just past the head line's end and runs along its course
     // crosses the other head lines, and a piece of another head line lies along it: the head
     // line's own rest does neither.
@@ -235,6 +246,17 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
       curves.splice(curves.indexOf(rest), 1);
     }
   }
+
+  // A piece left past a turn carries on a head line met before it in that loop, or on none.
+  for (const c of curves) {
+    if (c.kind !== 'curve' || c.quantity !== 'head' || c.transposed || rests.size === 0) continue;
+    const width = Math.max(2, median(c.track.len));
+    const rest = continuationOf(c.track, [...rests].filter((k) => curves.includes(k) && k.levelFrame === c.levelFrame), width, c.levelFrame[2] - c.levelFrame[0]);
+    if (!rest) continue;
+    c.track = joinTracks(c.track, rest.track);
+    curves.splice(curves.indexOf(rest), 1);
+  }
+  for (const piece of rests) if (curves.includes(piece)) curves.splice(curves.indexOf(piece), 1);
 
   // Efficiency curves drawn against a right-hand axis rise from the origin together: the finder
   // follows the bunch as one line, and each curve that leaves it starts mid-frame, as an iso-line
@@ -374,7 +396,8 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
   if (followed.length > 0) {
     // Words are placed among all the lines found; a label on a line left out names nothing else,
     // but marks the order the unlabelled lines' levels are taken from.
-    const onLines = wordsOnIsoLines([...labelsAt, ...isoWordsAt], isos, heads, options.note);
+    const bridged = new Map(followed.map((c) => [c, c.traced.map(toLevel)] as const));
+    const onLines = wordsOnIsoLines([...labelsAt, ...isoWordsAt], isos, heads, options.note, (c) => bridged.get(c) ?? []);
     const onSheet = (c: RasterCurve) => c.track.u.map((u, i) => (c.transposed ? toSheet(c.track.v[i] as number, u) : toSheet(u, c.track.v[i] as number)));
     const iso = await isoLevelsOnScan(followed, onLines, reader, 2 * page.strong, (followed[0] as RasterCurve).panel.id, options.note, page.h, { lines: unfollowed, onSheet }, options.isoLevels);
     if (iso.missing) leftOut.push(iso.missing);
@@ -526,27 +549,53 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
  * which the line leaves the course of the `reach` columns before it (offCourse, robust) for good:
  * over the next half of `reach` columns, two points in five or more lie farther than `tol` from
  * the course, and so do all of the last quarter (a label or a crossing on the line, a few columns
- * long, is no turn). Where
+ * long, is no turn), and the line is not back on the course from `reach` to 1.5 `reach` past
+ * there (a longer label passed: `BACK_ON_COURSE`). Where
  * the line turned off onto another; null when it never does.
  */
 export function courseBreak(t: Track, tol: number, reach: number): number | null {
   const n = t.u.length;
   if (n < 16) return null;
   const u0 = t.u[0] as number;
+  /** Columns of labels left behind: the course is never fitted over them, nor looked at before half `reach` lies past them. */
+  const labels: [number, number][] = [];
+  const clear = (k: Track): Track => {
+    if (labels.length === 0) return k;
+    const keep = k.u.map((u) => !labels.some(([a, b]) => u >= a && u <= b));
+    const pick = <T,>(xs: T[]) => xs.filter((_, q) => keep[q]);
+    return { u: pick(k.u), v: pick(k.v), room: pick(k.room), len: pick(k.len) };
+  };
   for (let i = 0; i < n; i++) {
     const u = t.u[i] as number;
-    if (u - u0 < reach || (i > 0 && Math.floor(u / 4) === Math.floor((t.u[i - 1] as number) / 4))) continue;
+    if (u - u0 < reach || labels.some(([a, b]) => u >= a && u <= b + reach / 2) || (i > 0 && Math.floor(u / 4) === Math.floor((t.u[i - 1] as number) / 4))) continue;
     const ahead: [number, number][] = [];
     for (let k = i + 1; k < n && (t.u[k] as number) - u <= reach / 2; k++) ahead.push([t.u[k] as number, t.v[k] as number]);
     if (ahead.length < 8) break;
-    const off = offCourse(cutTrack(t, i + 1), 'end', reach, true, tol);
+    const off = offCourse(clear(cutTrack(t, i + 1)), 'end', reach, true, tol);
     if (!off) continue;
     const far = ahead.map(([au, av]) => off(au, av) > tol);
     const tail = far.slice(Math.floor(0.75 * far.length));
-    if (far.filter(Boolean).length >= 0.4 * far.length && tail.every(Boolean)) return i + 1;
+    if (far.filter(Boolean).length < 0.4 * far.length || !tail.every(Boolean)) continue;
+    // A label longer than half `reach` printed on the line (the line found runs over its glyphs)
+    // is left behind: the line found is back on the course beyond it. A line that turned off never
+    // is. The course is taken from before the label's first columns, which the line found may run
+    // over, and the label's columns are kept out of every course fitted after.
+    let j = i;
+    while (j > 0 && (t.u[j] as number) > u - reach / 4) j--;
+    const before = offCourse(clear(cutTrack(t, j + 1)), 'end', reach, true);
+    const back: [number, number][] = [];
+    for (let k = i + 1; k < n && (t.u[k] as number) - u <= 1.5 * reach; k++) if ((t.u[k] as number) - u > reach) back.push([t.u[k] as number, t.v[k] as number]);
+    if (before && back.length >= 8 && back.filter(([au, av]) => before(au, av) <= tol).length >= BACK_ON_COURSE * back.length) {
+      labels.push([u - reach / 4, u + reach]);
+      continue;
+    }
+    return i + 1;
   }
   return null;
 }
+
+/** Share of the columns one to 1.5 reaches past a turn that must lie back on the course for the turn to be a label passed. */
+const BACK_ON_COURSE = 0.6;
 
 /**
  * The one line of `others` that carries a head line's track on past its end: it starts past the
@@ -673,6 +722,11 @@ export function tracksCross(a: Track, b: Track): boolean {
 export function joinTracks(a: Track, b: Track): Track {
   const joins = [...(a.joins ?? []), ...(b.joins ?? []).map((j) => j + a.u.length)];
   return { u: [...a.u, ...b.u], v: [...a.v, ...b.v], room: [...a.room, ...b.room], len: [...a.len, ...b.len], ...(joins.length > 0 ? { joins } : {}) };
+}
+
+/** The track from its column `n` on. */
+function trackFrom(t: Track, n: number): Track {
+  return { u: t.u.slice(n), v: t.v.slice(n), room: t.room.slice(n), len: t.len.slice(n), ...(t.joins ? { joins: t.joins.filter((j) => j > n).map((j) => j - n) } : {}) };
 }
 
 /** The track's first `n` columns. */

@@ -17,7 +17,7 @@
  * Pure: the reader is handed in.
  */
 import { sheetPoint, type SheetPoint } from '../points.ts';
-import { distanceToPolyline } from '../polyline.ts';
+import { distanceToPolyline, nearestOnPolyline } from '../polyline.ts';
 import type { InkMap } from './ink.ts';
 import { inferIsoLevels, levelsFromList } from './isoLevels.ts';
 import type { Box } from './panels.ts';
@@ -205,8 +205,13 @@ export function splitAcross<L extends IsoLine>(w: FrameWord, isos: readonly L[],
  * so the word's middle lies on the line (within `ON_LINE` of the text height), nearer to it than
  * to any head curve, and far nearer to it than to any other iso-line. A word that is none of
  * these but is crossed by several iso-lines is cut between them (splitAcross), a part per line.
+ *
+ * The line is the line found and, with `bridged` (the tracer's line of each, level page points),
+ * the tracer's line too: where the label cut the line found in two, the tracer's line runs on
+ * across the gap, through the label's middle (scan bed seed 69: "45%", "50%" and "55%" each
+ * lay 17 px from the pieces of their lines, and no level was read).
  */
-export function wordsOnIsoLines<L extends IsoLine>(words: readonly FrameWord[], isos: readonly L[], heads: readonly { track: Track }[], note: (line: string) => void = () => undefined): Map<FrameWord, L> {
+export function wordsOnIsoLines<L extends IsoLine>(words: readonly FrameWord[], isos: readonly L[], heads: readonly { track: Track }[], note: (line: string) => void = () => undefined, bridged?: (line: L) => readonly (readonly [number, number])[]): Map<FrameWord, L> {
   const out = new Map<FrameWord, L>();
   if (isos.length === 0) return out;
   for (const w of words) {
@@ -218,7 +223,9 @@ export function wordsOnIsoLines<L extends IsoLine>(words: readonly FrameWord[], 
     let bestD = Infinity;
     let second = Infinity;
     for (const c of isos) {
-      const d = c.transposed ? distanceToTrack(c.track, cy, cx) : distanceToTrack(c.track, cx, cy);
+      const found = c.transposed ? distanceToTrack(c.track, cy, cx) : distanceToTrack(c.track, cx, cy);
+      const across = bridged?.(c) ?? [];
+      const d = across.length > 1 ? Math.min(found, distanceToPolyline(across as [number, number][], [cx, cy])) : found;
       if (d < bestD) [second, bestD, best] = [bestD, d, c];
       else if (d < second) second = d;
     }
@@ -412,15 +419,23 @@ export function linesMeeting(isos: readonly IsoLine[], textHeight: number): [num
 }
 
 /** Share of `points` within `tol` of the polyline `line`, looked at every 3rd point. */
-function shareAlong(points: readonly (readonly [number, number])[], line: readonly (readonly [number, number])[], tol: number): number {
+function shareAlong(points: readonly (readonly [number, number])[], line: readonly (readonly [number, number])[], tol: number, beside = false): number {
   let near = 0;
   let n = 0;
-  for (let i = 0; i < points.length; i += 3, n++) {
+  const last = line.length - 2;
+  for (let i = 0; i < points.length; i += 3) {
     const [x, y] = points[i] as [number, number];
-    if (distanceToPolyline(line, [x, y]) <= tol) near++;
+    const at = nearestOnPolyline(line, [x, y]);
+    // `beside`: a point whose nearest place on the line is one of its ends lies past it, and is not judged.
+    if (beside && ((at.segment === 0 && at.t <= 0) || (at.segment >= last && at.t >= 1)) && at.distance > tol) continue;
+    n++;
+    if (at.distance <= tol) near++;
   }
-  return n === 0 ? 0 : near / n;
+  return n === 0 || (beside && n < BESIDE_LEAST * Math.ceil(points.length / 3)) ? 0 : near / n;
 }
+
+/** Share of a line's points that must lie beside the other line for the share along it to be judged. */
+const BESIDE_LEAST = 0.5;
 
 /**
  * Lines sorted as iso-lines that are pieces of a head curve: 80 % of the line found lies within
@@ -438,8 +453,10 @@ export function headPieces<L extends IsoLine>(isos: readonly L[], heads: readonl
  * Iso-lines found in pieces across the two passes (a steep branch on the turned ink, its shallow
  * rest on the page): a line whose points lie (80 %, within 3 px) along the tracer's line of a
  * surer one, or of an equally sure one whose tracer's line is longer, is a piece of it; when it
- * has a tracer's line of its own, the other line lies along that one too (a tracer that ran on
- * from one line onto another does not make the other a piece of it).
+ * has a tracer's line of its own, the other line lies along that one too, where it lies beside it
+ * (a tracer that ran on from one line onto another does not make the other a piece of it; a
+ * tracer that stopped short of the other line's end does not make them two: scan bed seed 69,
+ * an iso-line cut in two by its label).
  */
 export function isoPiecesAcross<L extends IsoLine & { confidence: number }>(isos: readonly L[], toLevel: (p: SheetPoint) => [number, number]): Set<L> {
   const traced = new Map(isos.map((c) => [c, c.traced.map(toLevel)]));
@@ -456,7 +473,7 @@ export function isoPiecesAcross<L extends IsoLine & { confidence: number }>(isos
       if (!(k.confidence > c.confidence || (k.confidence === c.confidence && length(k) > length(c)))) continue;
       if (shareAlong(levelPoints(c), traced.get(k) as [number, number][], 3) < 0.8) continue;
       const own = traced.get(c) as [number, number][];
-      if (own.length >= 2 && shareAlong(levelPoints(k), own, 3) < 0.8) continue;
+      if (own.length >= 2 && shareAlong(levelPoints(k), own, 3, true) < 0.8) continue;
       out.add(c);
       break;
     }
