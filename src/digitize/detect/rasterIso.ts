@@ -452,7 +452,8 @@ export function headPieces<L extends IsoLine>(isos: readonly L[], heads: readonl
 /**
  * Iso-lines found in pieces across the two passes (a steep branch on the turned ink, its shallow
  * rest on the page): a line whose points lie (80 %, within 3 px) along the tracer's line of a
- * surer one, or of an equally sure one whose tracer's line is longer, is a piece of it; when it
+ * surer one, or of an equally sure one whose tracer's line is longer, is a piece of it (of a
+ * line under 0.5 sure only when it has a tracer's line too, judged as follows); when it
  * has a tracer's line of its own, the other line lies along that one too, where it lies beside it
  * (a tracer that ran on from one line onto another does not make the other a piece of it; a
  * tracer that stopped short of the other line's end does not make them two: scan bed seed 69,
@@ -469,10 +470,12 @@ export function isoPiecesAcross<L extends IsoLine & { confidence: number }>(isos
   const out = new Set<L>();
   for (const c of isos) {
     for (const k of isos) {
-      if (k === c || out.has(k) || !(k.confidence >= 0.5) || (traced.get(k) as []).length < 2) continue;
+      if (k === c || out.has(k) || (traced.get(k) as []).length < 2) continue;
       if (!(k.confidence > c.confidence || (k.confidence === c.confidence && length(k) > length(c)))) continue;
       if (shareAlong(levelPoints(c), traced.get(k) as [number, number][], 3) < 0.8) continue;
       const own = traced.get(c) as [number, number][];
+      // Of two unsure lines, one is a piece of the other only where each lies along the other's tracer's line.
+      if (!(k.confidence >= 0.5) && own.length < 2) continue;
       if (own.length >= 2 && shareAlong(levelPoints(k), own, 3, true) < 0.8) continue;
       out.add(c);
       break;
