@@ -26,7 +26,7 @@ import type { InkMap, Level } from './ink.ts';
 import type { Box, FoundPanel } from './panels.ts';
 import { END_MATCH_SHARE, endMatch, endReferences, nameByEnds } from './endFlows.ts';
 import { gridLines } from './rasterFrames.ts';
-import { alonePlaces, continuesCourse, frameLines, liesAlong, offCourse, trackAt, trackOf, type Track } from './rasterLines.ts';
+import { alonePlaces, continuesCourse, course, frameLines, liesAlong, offCourse, trackAt, trackOf, type Track } from './rasterLines.ts';
 import { distanceToTrack, headPieces, isoLevelsOnScan, isoPiecesAcross, steepLines, transposeBox, wordsOnIsoLines, type FrameWord } from './rasterIso.ts';
 import type { RasterPanelsFound } from './rasterPanels.ts';
 import { inkBlots, labelPicture, readCrops, wordsOf, type Blot, type TextReader } from './rasterText.ts';
@@ -162,7 +162,9 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     const labels = bare.length > 0 ? frameWords(map, frame, page.strong, page.h, bare, printed) : printed;
     const everyWord = labels.words;
     labels.words = labels.words.filter((w) => nearLine({ l: w.l + labels.at[0], t: w.t + labels.at[1], r: w.r + labels.at[0], b: w.b + labels.at[1] }, bare.length > 0 ? bare : []));
-    const tracks = dropDoubles(frameLines(map, frame, { ceiling: 0.3 * page.strong, grid, holes }));
+    const head = panels.find((p) => p.quantity === 'head');
+    // Past a label: a power or NPSHr line's stretch to its end, kept though short (its end names it).
+    const tracks = dropDoubles(frameLines(map, frame, { ceiling: 0.3 * page.strong, grid, holes, pastLabels: !head }));
     // More lines than any sheet draws in one frame: the ink was not told from the grid or the noise.
     if (tracks.length > MAX_LINES) {
       leftOut.push(`The frame of panel${panels.length === 1 ? '' : 's'} ${panels.map((p) => `"${p.id}"`).join(' and ')} gave ${tracks.length} lines, more than a sheet draws: its curves could not be told from the grid; trace them by hand.`);
@@ -170,7 +172,6 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     }
     const [l, , r, b] = frame;
     const fw = r - l;
-    const head = panels.find((p) => p.quantity === 'head');
     const second = panels.find((p) => p !== head);
     for (const t of tracks) {
       const u0 = t.u[0] as number;
@@ -640,7 +641,8 @@ export function branchOf(t: Track, trunks: readonly Track[], width: number, fw: 
   if (first.length < 8) return null;
   const fits: Track[] = [];
   let beside = false;
-  const slope = fitSlope(first);
+  const slopeOf = (points: readonly [number, number][]) => course({ u: points.map((p) => p[0]), v: points.map((p) => p[1]) }, points.length).b;
+  const slope = slopeOf(first);
   for (const k of trunks) {
     if (k === t) continue;
     const start = k.u[0] as number;
@@ -658,7 +660,7 @@ export function branchOf(t: Track, trunks: readonly Track[], width: number, fw: 
     for (let i = 0; i < k.u.length; i++) if (Math.abs((k.u[i] as number) - u0) <= BRANCH_COURSE_SHARE * fw) near.push([k.u[i] as number, k.v[i] as number]);
     if (near.length < 8) continue;
     const across = Math.min(...near.map(([u, v]) => Math.hypot(u - u0, v - v0)));
-    const turn = (Math.abs(Math.atan(slope) - Math.atan(fitSlope(near))) * 180) / Math.PI;
+    const turn = (Math.abs(Math.atan(slope) - Math.atan(slopeOf(near))) * 180) / Math.PI;
     if (across <= Math.max(4, BRANCH_NEAR_WIDTHS * width) && turn <= BRANCH_TURN && slope < 0) beside = true;
   }
   if (fits.length === 0) return beside ? t : null;
@@ -667,20 +669,6 @@ export function branchOf(t: Track, trunks: readonly Track[], width: number, fw: 
   const line = joinTracks(trunk, t);
   line.joins = [...(line.joins ?? []), trunk.u.length].sort((a, b) => a - b);
   return line;
-}
-
-/** The least-squares slope (rows per column) of points (column, row); 0 when they share one column. */
-function fitSlope(points: readonly (readonly [number, number])[]): number {
-  const n = points.length;
-  const mu = points.reduce((a, [u]) => a + u, 0) / n;
-  const mv = points.reduce((a, [, v]) => a + v, 0) / n;
-  let suu = 0;
-  let suv = 0;
-  for (const [u, v] of points) {
-    suu += (u - mu) ** 2;
-    suv += (u - mu) * (v - mv);
-  }
-  return suu > 0 ? suv / suu : 0;
 }
 
 /** How far into a trunk, in frame widths, a line leaving it must start (a line starting at the trunk's own start is no branch). */

@@ -45,12 +45,19 @@ export interface LinesOptions {
   grid: { x: readonly number[]; y: readonly number[] };
   /** Boxes (level pixels: left, top, right, bottom) whose ink is not line: the words printed in the frame. */
   holes?: readonly (readonly [number, number, number, number])[];
+  /**
+   * Keep a line's stretch past a hole (a label printed over the line, and over its neighbours where
+   * they bunch) though it is shorter than a line: it starts within the followed gap of the hole's
+   * box and spans `AFTER_LABEL_SPAN` of the frame. Off by default: in a head frame such stretches
+   * of iso-lines past their "%" labels would count as lines of their own.
+   */
+  pastLabels?: boolean;
 }
 
 const INSET = 5;
 
 /** Slope and intercept of the last points of a track, least squares (v = a + b·u). */
-function course(t: Track, last = 12): { a: number; b: number } {
+export function course(t: Pick<Track, 'u' | 'v'>, last = 12): { a: number; b: number } {
   const n = t.u.length;
   const k0 = Math.max(0, n - last);
   if (n - k0 < 3) return { a: t.v[n - 1] as number, b: 0 };
@@ -224,8 +231,22 @@ export function frameLines(map: InkMap, frame: Box, options: LinesOptions): Trac
     });
   }
   while (active.length) retire(0);
-  return joinPieces(done.filter((tr) => tr.u.length >= 3), maxGap * 4, fh).filter((tr) => (tr.u[tr.u.length - 1] as number) - (tr.u[0] as number) >= minSpan && !isRule(tr));
+  // A line's last stretch past a label printed over it (and over its neighbours: a bunch the label
+  // cuts all at once) is shorter than a line, but no speck: it starts by the label's box, within
+  // the gap a line is followed across.
+  const afterLabel = (tr: Track) => {
+    const u0 = tr.u[0] as number;
+    const v0 = tr.v[0] as number;
+    return (options.holes ?? []).some((h) => Math.hypot(Math.max(h[0] - u0, 0, u0 - h[2]), Math.max(h[1] - v0, 0, v0 - h[3])) <= maxGap);
+  };
+  return joinPieces(done.filter((tr) => tr.u.length >= 3), maxGap * 4, fh).filter((tr) => {
+    const span = (tr.u[tr.u.length - 1] as number) - (tr.u[0] as number);
+    return (span >= minSpan || (options.pastLabels === true && span >= AFTER_LABEL_SPAN * fw && afterLabel(tr))) && !isRule(tr);
+  });
 }
+
+/** The shortest stretch past a label kept as a line, in frame widths (a line is otherwise 12 %). */
+const AFTER_LABEL_SPAN = 0.05;
 
 /** The ink of columns [c0, c1) between rows [r0, r1), column after column (read in tiles, so that both sides stay in the cache). */
 function frameColumns(map: InkMap, c0: number, c1: number, r0: number, r1: number): Uint8Array {
