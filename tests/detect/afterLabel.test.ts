@@ -8,22 +8,10 @@
 import { describe, expect, it } from 'vitest';
 import { frameLines } from '../../src/digitize/detect/rasterLines.ts';
 import type { InkMap } from '../../src/digitize/detect/ink.ts';
+import { inkPicture } from './inkPicture.ts';
 
-/** A 1000 × 400 page of paper with straight lines of ink 3 px wide drawn from point to point. */
-function picture(lines: [number, number, number, number][]): InkMap {
-  const width = 1000;
-  const height = 400;
-  const ink = new Uint8Array(width * height);
-  for (const [x0, y0, x1, y1] of lines) {
-    const n = Math.ceil(Math.hypot(x1 - x0, y1 - y0) * 2);
-    for (let k = 0; k <= n; k++) {
-      const x = x0 + ((x1 - x0) * k) / n;
-      const y = y0 + ((y1 - y0) * k) / n;
-      for (let dy = -1; dy <= 1; dy++) for (let dx = -1; dx <= 1; dx++) ink[Math.round(y + dy) * width + Math.round(x + dx)] = 200;
-    }
-  }
-  return { width, height, ink };
-}
+/** A 1000 × 400 page with straight lines of ink 3 px wide drawn from point to point. */
+const picture = (lines: [number, number, number, number][]): InkMap => inkPicture(1000, 400, lines);
 const frame = [0, 0, 1000, 400] as const;
 const grid = { x: [], y: [] };
 /** A stretch 90 columns long (9 % of the frame's width), rising to the right. */

@@ -14,6 +14,7 @@ import type { TextReader } from '../../src/digitize/detect/rasterText.ts';
 import { frameLines, type Track } from '../../src/digitize/detect/rasterLines.ts';
 import { closeTextReaderNode } from '../../src/digitize/loaders/ocrNode.ts';
 import { detectBedScan } from '../../scripts/detectSheets/scanBed.ts';
+import { inkPicture } from './inkPicture.ts';
 
 afterAll(async () => closeTextReaderNode());
 
@@ -359,21 +360,8 @@ describe('iso levels the engineer gives for a scan', () => {
 });
 
 describe('steep lines on the turned ink', () => {
-  /** A 600 × 400 frame of paper with lines of ink 3 px wide drawn from point to point. */
-  function picture(lines: [number, number, number, number][]): InkMap {
-    const width = 700;
-    const height = 500;
-    const ink = new Uint8Array(width * height);
-    for (const [x0, y0, x1, y1] of lines) {
-      const n = Math.ceil(Math.hypot(x1 - x0, y1 - y0) * 2);
-      for (let k = 0; k <= n; k++) {
-        const x = x0 + ((x1 - x0) * k) / n;
-        const y = y0 + ((y1 - y0) * k) / n;
-        for (let dy = -1; dy <= 1; dy++) for (let dx = -1; dx <= 1; dx++) ink[Math.round(y + dy) * width + Math.round(x + dx)] = 200;
-      }
-    }
-    return { width, height, ink };
-  }
+  /** A 700 × 500 page with lines of ink 3 px wide drawn from point to point (a 600 × 400 frame in it). */
+  const picture = (lines: [number, number, number, number][]): InkMap => inkPicture(700, 500, lines);
   const frame = [50, 50, 650, 450] as const;
 
   it('finds a line falling 8 rows per column, which spans too few columns for the normal pass, and not a shallow one', () => {
