@@ -233,4 +233,13 @@ describe('a head line broken by a label printed on it', () => {
     // Two lines on the course: which one goes on is not clear, and neither is joined.
     expect(continuationOf(before, [{ track: track(head, 540, 900) }, { track: track((u) => head(u) + 1, 545, 900) }], 2, 1000)).toBeUndefined();
   });
+  it('of an efficiency curve past its peak, level there, only when the fall is not asked for (scan bed seed 39)', () => {
+    // Rising to a peak at column 600; a label printed over it at columns 480-520, and beyond it
+    // the line as high at column 680 as at 520.
+    const efficiency = (u: number) => 500 - 1.2 * u + 0.001 * u * u;
+    const before = track(efficiency, 0, 480);
+    const beyond = { track: track(efficiency, 520, 680) };
+    expect(continuationOf(before, [beyond], 2, 1000)).toBeUndefined(); // a head line's rest falls
+    expect(continuationOf(before, [beyond], 2, 1000, false)).toBe(beyond);
+  });
 });

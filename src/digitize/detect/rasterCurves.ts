@@ -269,6 +269,14 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     const fw = frame[2] - frame[0];
     const loose = curves.filter((c) => c.kind === 'iso' && !c.transposed && c.levelFrame === frame).sort((a, b) => (a.track.u[0] as number) - (b.track.u[0] as number));
     for (const c of loose) {
+      // An efficiency curve cut by a label printed on it goes on beyond it, as a head line does.
+      const cut = curves.find((k) => k.kind === 'curve' && k.panel === efficiency && k.levelFrame === frame && continuationOf(k.track, [c], Math.max(2, median(k.track.len)), fw, false) === c);
+      if (cut) {
+        options.note?.(`a line starting at column ${Math.round(c.track.u[0] as number)} carries on an efficiency curve past a label: joined to it`);
+        cut.track = joinTracks(cut.track, c.track);
+        curves.splice(curves.indexOf(c), 1);
+        continue;
+      }
       const trunks = curves.filter((k) => k.kind === 'curve' && k.panel === efficiency && k.levelFrame === frame).map((k) => k.track);
       const joined = branchOf(c.track, trunks, Math.max(2, median(c.track.len)), fw);
       if (!joined) continue;
@@ -602,9 +610,10 @@ const BACK_ON_COURSE = 0.6;
  * The one line of `others` that carries a head line's track on past its end: it starts past the
  * end within `JOIN_GAP_SHARE` of the frame's width (a label's length), and its first columns, up
  * to a tenth of the frame's width and at least `JOIN_LENGTH_SHARE` of it, lie on the course of
- * the track's last columns (continuesCourse). Undefined when none does, or more than one.
+ * the track's last columns (continuesCourse), and it falls by `JOIN_FALL` rows a column (unless
+ * `falls` is false: an efficiency curve past its peak). Undefined when none does, or more than one.
  */
-export function continuationOf<T extends { track: Track }>(t: Track, others: readonly T[], width: number, fw: number): T | undefined {
+export function continuationOf<T extends { track: Track }>(t: Track, others: readonly T[], width: number, fw: number, falls = true): T | undefined {
   const end = t.u[t.u.length - 1] as number;
   const tol = Math.max(3, 1.5 * width);
   const found = others.filter((k) => {
@@ -612,7 +621,7 @@ export function continuationOf<T extends { track: Track }>(t: Track, others: rea
     const u1 = k.track.u[k.track.u.length - 1] as number;
     if (u0 <= end || u0 - end > JOIN_GAP_SHARE * fw || u1 - u0 < JOIN_LENGTH_SHARE * fw) return false;
     // A head line falls with flow past a label; a level line there is a grid line's remnant.
-    if (((k.track.v[k.track.v.length - 1] as number) - (k.track.v[0] as number)) / (u1 - u0) < JOIN_FALL) return false;
+    if (falls && ((k.track.v[k.track.v.length - 1] as number) - (k.track.v[0] as number)) / (u1 - u0) < JOIN_FALL) return false;
     const first: [number, number][] = [];
     for (let i = 0; i < k.track.u.length && (k.track.u[i] as number) - u0 <= 0.1 * fw; i++) first.push([k.track.u[i] as number, k.track.v[i] as number]);
     return continuesCourse(t, first, 'end', tol, 0.15 * fw);
