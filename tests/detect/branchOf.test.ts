@@ -4,9 +4,13 @@
  * bunch as one line, and each curve that leaves it starts mid-frame, where it was sorted as an
  * iso-line with no level and left out (scan bed seed 72: five efficiency curves, none found).
  */
-import { describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import { branchOf } from '../../src/digitize/detect/rasterCurves.ts';
 import type { Track } from '../../src/digitize/detect/rasterLines.ts';
+import { closeTextReaderNode } from '../../src/digitize/loaders/ocrNode.ts';
+import { detectBedScan } from '../../scripts/detectSheets/scanBed.ts';
+
+afterAll(async () => closeTextReaderNode());
 
 /** A track of the rows `v(u)` over columns a … b (level pixels), 3 px wide, with room. */
 const track = (a: number, b: number, v: (u: number) => number): Track => {
@@ -56,5 +60,14 @@ describe('branchOf', () => {
     expect(branchOf(far, [trunk], 3, fw)).toBeNull();
     // Nor is a line starting at the trunk's own start a branch of it.
     expect(branchOf(track(2, 300, rise), [trunk], 3, fw)).toBeNull();
+  });
+});
+
+describe('a scan of the random bed with efficiency curves against the head panel\'s right-hand axis', () => {
+  it('seed 72: every diameter gets its efficiency curve, and no iso level is asked for', { timeout: 180_000 }, async () => {
+    const { plan, found } = await detectBedScan(72);
+    const efficiency = found.takeoff.traces.filter((t) => t.quantity === 'efficiency');
+    expect(efficiency.map((t) => t.diameter).sort()).toEqual([...plan.family.diameters].sort());
+    expect(found.questions.join(' ')).not.toMatch(/no level|iso_levels/);
   });
 });

@@ -390,7 +390,16 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
   // A line sorted as an iso-line that the tracer's line of a head curve runs along is a piece of that head curve, already traced.
   const onHeads = headPieces(sortedIso, heads, toLevel);
   if (onHeads.size > 0) options.note?.(`${onHeads.size} line${onHeads.size === 1 ? '' : 's'} sorted as iso-line${onHeads.size === 1 ? '' : 's'} lying along a head curve's tracer's line: piece${onHeads.size === 1 ? '' : 's'} of it, dropped`);
-  const isos = sortedIso.filter((c) => !onHeads.has(c));
+  // On a head panel drawn with a right-hand efficiency axis, efficiency is drawn as curves, not as
+  // iso-lines: a line left starting mid-frame there is a piece of a curve the finder broke, and no
+  // level is asked for it (unless the engineer gave iso levels).
+  const withCurves = (c: RasterCurve) => (options.isoLevels ?? []).length === 0 && frames.some((f) => f.panels.includes(c.panel) && f.panels.some((p) => p.quantity === 'efficiency'));
+  const curvePieces = sortedIso.filter((c) => !onHeads.has(c) && withCurves(c));
+  if (curvePieces.length > 0) {
+    const id = (curvePieces[0] as RasterCurve).panel.id;
+    leftOut.push(`${curvePieces.length} line${curvePieces.length === 1 ? '' : 's'} on panel "${id}", which draws efficiency as curves against its right-hand axis, start${curvePieces.length === 1 ? 's' : ''} mid-frame and join${curvePieces.length === 1 ? 's' : ''} no curve found (${curvePieces.length === 1 ? 'a piece of a curve' : 'pieces of curves'} the finder lost where lines cross or run together); ${curvePieces.length === 1 ? 'it is' : 'they are'} left out: trace what is missing by hand.`);
+  }
+  const isos = sortedIso.filter((c) => !onHeads.has(c) && !curvePieces.includes(c));
   options.progress?.(0.85, 'reading the curve labels');
   const named = await nameHeads(heads, labelsAt, page.strong, reader, image, map, level, image.scale, options.given, options.ratedRpm, questions, leftOut, options.note);
   // The iso-lines' levels, from the "%" labels on them (rasterIso.ts).
