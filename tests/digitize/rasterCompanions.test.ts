@@ -186,6 +186,11 @@ describe('companions on the random bed', () => {
     const measure = (t: Awaited<ReturnType<typeof bedLineTrace>>) => ({ ...t, off: offShare(t.got, t.line, t.width), covered: covered(t.got, t.line, t.width) });
     return { withHead: measure(await bedLineTrace(seed, id, options)), without: measure(await bedLineTrace(seed, id, { ...options, companions: false })) };
   };
+  /** The trace by the head curve's colour lies on the drawn line (under 5 % of its points off) over at least `share` of it. */
+  const followsLine = (t: { off: number; covered: number }, share: number) => {
+    expect(t.off).toBeLessThan(0.05);
+    expect(t.covered).toBeGreaterThan(share);
+  };
   /** The headless replay of a bed sheet with its hurried guides. */
   const replayBed = async (seed: number, kind: 'scan' | 'photo') => {
     const s = await makeRandomSheet(seed, kind);
@@ -233,15 +238,13 @@ describe('companions on the random bed', () => {
   // 26.5 % of span off).
   it("takes the head line's width where its colour is sampled thin in a bunch (scan 105, careful, efficiency-12)", async () => {
     const { withHead, without } = await both(105, 'efficiency-12', { careful: true });
-    expect(withHead.off).toBeLessThan(0.05);
-    expect(withHead.covered).toBeGreaterThan(0.95);
+    followsLine(withHead, 0.95);
     expect(without.off).toBeGreaterThan(0.2);
   }, 60_000);
 
   it("takes the head line's width where its colour is sampled thin in a bunch (scan 40, hurried, npshr-15)", async () => {
     const { withHead, without } = await both(40, 'npshr-15');
-    expect(withHead.off).toBeLessThan(0.05);
-    expect(withHead.covered).toBeGreaterThan(0.95);
+    followsLine(withHead, 0.95);
     expect(without.covered).toBeLessThan(0.2);
   }, 60_000);
   // Photo 1205, hurried guides: an NPSHr line clicked once in its low-flow bunch, traced in the
@@ -274,15 +277,13 @@ describe('companions on the random bed', () => {
   // length. The head curve's colour follows both.
   it("tries the head curve's colour where the guides sample another hue (scan 880, hurried guides, efficiency-11)", async () => {
     const { withHead, without } = await both(880, 'efficiency-11');
-    expect(withHead.off).toBeLessThan(0.05);
-    expect(withHead.covered).toBeGreaterThan(0.95);
+    followsLine(withHead, 0.95);
     expect(without.off).toBeGreaterThan(0.3);
   }, 60_000);
 
   it("tries the head curve's colour where the guides sample another hue (photo 41, hurried guides, npshr-13.5)", async () => {
     const { withHead, without } = await both(41, 'npshr-13.5', { kind: 'photo' });
-    expect(withHead.off).toBeLessThan(0.05);
-    expect(withHead.covered).toBeGreaterThan(0.9);
+    followsLine(withHead, 0.9);
     expect(without.covered).toBeLessThan(0.3);
   }, 60_000);
 
@@ -300,8 +301,7 @@ describe('companions on the random bed', () => {
   // follows the teal line (it had come out 57 points off, a tenth of the line traced).
   it("looks for the head curve's colour along the guide's line where the bunch hides it at the guide (scan 87, hurried guides, efficiency-360)", async () => {
     const { withHead, without } = await both(87, 'efficiency-360');
-    expect(withHead.off).toBeLessThan(0.05);
-    expect(withHead.covered).toBeGreaterThan(0.85);
+    followsLine(withHead, 0.85);
     expect(without.covered).toBeLessThan(0.2);
   }, 60_000);
 });
