@@ -219,43 +219,34 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
   // A head line broken by a label printed on it (or cut where the finder ran on along an iso-line
   // from the label) goes on beyond the label as a line that starts off the flow axis, which would
   // be sorted as an iso-line: joined back where that line carries on the head line's course.
+  const headLines = () => curves.filter((c) => c.kind === 'curve' && c.quantity === 'head' && !c.transposed);
+  // What lies past a turn is a piece of the line the track turned onto: kept where it carries on
+  // another head line found short (two head lines that swapped at a label), dropped below if not.
   const rests = new Set<RasterCurve>();
-  for (const c of curves) {
-    if (c.kind !== 'curve' || c.quantity !== 'head' || c.transposed) continue;
+  for (const c of headLines()) {
+    const cut = courseBreak(c.track, Math.max(3, 1.5 * Math.max(2, median(c.track.len))), 0.15 * (c.levelFrame[2] - c.levelFrame[0]));
+    if (cut === null) continue;
+    const rest = trackFrom(c.track, cut);
+    if (rest.u.length >= 8) {
+      const piece: RasterCurve = { ...c, kind: 'iso', quantity: 'efficiency', track: rest };
+      curves.push(piece);
+      rests.add(piece);
+    }
+    c.track = cutTrack(c.track, cut);
+  }
+  for (const c of headLines()) {
     const width = Math.max(2, median(c.track.len));
     const fw = c.levelFrame[2] - c.levelFrame[0];
-    const cut = courseBreak(c.track, Math.max(3, 1.5 * width), 0.15 * fw);
-    if (cut !== null) {
-      // What lies past the turn is a piece of the line it turned onto: kept where it carries on
-      // another head line found short (two head lines that swapped at a label), dropped below if not.
-      const rest = trackFrom(c.track, cut);
-      if (rest.u.length >= 8) {
-        const piece: RasterCurve = { ...c, kind: 'iso', quantity: 'efficiency', track: rest };
-        curves.push(piece);
-        rests.add(piece);
-      }
-      c.track = cutTrack(c.track, cut);
-    }
     // An iso-line's branch that starts just past the head line's end and runs along its course
     // crosses the other head lines, and a piece of another head line lies along it: the head
     // line's own rest does neither.
-    const others = curves.filter((k) => k !== c && k.kind === 'curve' && k.quantity === 'head' && !k.transposed && k.levelFrame === c.levelFrame).map((k) => k.track);
+    const others = headLines().filter((k) => k !== c && k.levelFrame === c.levelFrame).map((k) => k.track);
     for (;;) {
       const rest = continuationOf(c.track, curves.filter((k) => k.kind === 'iso' && !k.transposed && k.levelFrame === c.levelFrame && !others.some((o) => tracksCross(o, k.track) || liesAlong(k.track, o, Math.max(3, 1.5 * width), ALONG_OTHER_SHARE))), width, fw);
       if (!rest) break;
       c.track = joinTracks(c.track, rest.track);
       curves.splice(curves.indexOf(rest), 1);
     }
-  }
-
-  // A piece left past a turn carries on a head line met before it in that loop, or on none.
-  for (const c of curves) {
-    if (c.kind !== 'curve' || c.quantity !== 'head' || c.transposed || rests.size === 0) continue;
-    const width = Math.max(2, median(c.track.len));
-    const rest = continuationOf(c.track, [...rests].filter((k) => curves.includes(k) && k.levelFrame === c.levelFrame), width, c.levelFrame[2] - c.levelFrame[0]);
-    if (!rest) continue;
-    c.track = joinTracks(c.track, rest.track);
-    curves.splice(curves.indexOf(rest), 1);
   }
   for (const piece of rests) if (curves.includes(piece)) curves.splice(curves.indexOf(piece), 1);
 
