@@ -26,7 +26,7 @@ import type { InkMap, Level } from './ink.ts';
 import type { Box, FoundPanel } from './panels.ts';
 import { END_MATCH_SHARE, endMatch, endReferences, nameByEnds } from './endFlows.ts';
 import { gridLines } from './rasterFrames.ts';
-import { alonePlaces, continuesCourse, course, frameLines, liesAlong, offCourse, trackAt, trackOf, type Track } from './rasterLines.ts';
+import { alonePlaces, carriesOnAsItBends, continuesCourse, course, frameLines, liesAlong, offCourse, trackAt, trackOf, type Track } from './rasterLines.ts';
 import { distanceToTrack, headPieces, isoLevelsOnScan, isoPiecesAcross, steepLines, transposeBox, wordsOnIsoLines, type FrameWord } from './rasterIso.ts';
 import type { RasterPanelsFound } from './rasterPanels.ts';
 import { inkBlots, labelPicture, readCrops, wordsOf, type Blot, type TextReader } from './rasterText.ts';
@@ -299,11 +299,14 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     c.guides = places.map((p) => fromLine(p.u, p.v));
     const frame = c.panel.frame;
     let tracedInk: InkModel | undefined;
+    // The tracer took the line up again past a break beside another line of its colour.
+    let afterGap = false;
     try {
       const traced = captureRasterTrace(image, { guides: c.guides }, { frame: [frame[0], frame[1], frame[2], frame[3]] });
       c.traced = traced.points;
       tracedInk = traced.line.widthPx > 0 ? inkModel(traced.line.colour, traced.line.paper) : undefined;
       if (traced.lost.length > 0) c.confidence *= 0.7;
+      afterGap = traced.doubts.some((d) => d.code === 'takeoff.end-after-gap');
     } catch {
       c.confidence = 0;
       continue;
@@ -330,7 +333,11 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     }
     if (n < 3 || off > 0.02 * n) c.confidence *= 0.3;
     const far = (side: 'start' | 'end') => past[side].filter(([u]) => (side === 'end' ? u > last + 0.03 * fw : u < first - 0.03 * fw)).length;
-    const carriesOn = (side: 'start' | 'end') => continuesCourse(c.track, past[side], side, tol, 0.15 * fw);
+    // Head and power curves, which never cross, may be carried on step by step as they bend (the
+    // rest of a line the finder cut at a label or lost at a crossing), unless the tracer took its
+    // line up again past a break; efficiency and NPSHr curves cross and bunch, and only a short
+    // stretch on the course fitted at the end counts.
+    const carriesOn = (side: 'start' | 'end') => (spread && !afterGap ? carriesOnAsItBends(c.track, past[side], side, tol, 0.15 * fw) : continuesCourse(c.track, past[side], side, tol, 0.15 * fw));
     const runOn = { start: far('start') > 0 && carriesOn('start'), end: far('end') > 0 && carriesOn('end') };
     const beyond = (runOn.start ? 0 : far('start')) + (runOn.end ? 0 : far('end'));
     if (beyond > 0.05 * c.traced.length) c.confidence *= 0.5;

@@ -434,6 +434,46 @@ export function alonePlaces(t: Track, room: number, stretch: number, long: numbe
 
 /**
  * True when `points` (level pixels: column, row), all past one end of the track (`side`), carry
+ * on its course step by step, however far they reach: those within half of `reach` past the end
+ * must carry on the course (continuesCourse); they then join the track, one row per column between
+ * them, and the next step is judged by the course fitted again over the line so extended. A line
+ * that bends as it goes on (a head curve the finder cut short at a label or at a crossing, which
+ * the tracer follows to its drawn end) passes; a tracer that turns off onto another line at a
+ * crossing, or jumps across a gap to another, does not. False when there is no point to judge.
+ */
+export function carriesOnAsItBends(t: Pick<Track, 'u' | 'v'>, points: readonly (readonly [number, number])[], side: 'start' | 'end', tol: number, reach: number): boolean {
+  if (points.length === 0 || t.u.length === 0) return false;
+  const sign = side === 'end' ? 1 : -1;
+  const rest = [...points].sort((a, b) => sign * (a[0] - b[0]));
+  // The track in order of distance from the judged end, outward last.
+  const u = side === 'end' ? [...t.u] : [...t.u].reverse();
+  const v = side === 'end' ? [...t.v] : [...t.v].reverse();
+  const asTrack = (): Track => (side === 'end' ? { u, v, room: [], len: [] } : { u: [...u].reverse(), v: [...v].reverse(), room: [], len: [] });
+  let i = 0;
+  while (i < rest.length) {
+    const off = offCourse(asTrack(), side, reach);
+    if (!off) return false;
+    const endU = u[u.length - 1] as number;
+    const step: (readonly [number, number])[] = [];
+    while (i < rest.length && sign * ((rest[i] as readonly [number, number])[0] - endU) <= reach / 2) step.push(rest[i++] as readonly [number, number]);
+    // Past a gap wider than the step: the next point alone, judged on the course (never beyond twice `reach`).
+    if (step.length === 0) step.push(rest[i++] as readonly [number, number]);
+    if (!step.every(([pu, pv]) => off(pu, pv) <= tol)) return false;
+    for (const [pu, pv] of step) {
+      const u0 = u[u.length - 1] as number;
+      const v0 = v[v.length - 1] as number;
+      const n = Math.floor(sign * (pu - u0));
+      for (let k = 1; k <= n; k++) {
+        u.push(u0 + sign * k);
+        v.push(v0 + ((pv - v0) * k) / (sign * (pu - u0)));
+      }
+    }
+  }
+  return true;
+}
+
+/**
+ * True when `points` (level pixels: column, row), all past one end of the track (`side`), carry
  * on its course: each within `tol` pixels, plus 2 % of its distance from the end, of the parabola
  * fitted to the track's last (or first) `reach` columns, and none farther than twice `reach`
  * past the end. A line the finder lost in a bunch or at a crossing, which the tracer follows on to
