@@ -6,31 +6,20 @@
  */
 import { afterAll, describe, expect, it } from 'vitest';
 import { branchOf } from '../../src/digitize/detect/rasterCurves.ts';
-import type { Track } from '../../src/digitize/detect/rasterLines.ts';
 import { closeTextReaderNode } from '../../src/digitize/loaders/ocrNode.ts';
 import { detectBedScan } from '../../scripts/detectSheets/scanBed.ts';
+import { rowsTrack } from './trackOf.ts';
 
 afterAll(async () => closeTextReaderNode());
 
-/** A track of the rows `v(u)` over columns a … b (level pixels), 3 px wide, with room. */
-const track = (a: number, b: number, v: (u: number) => number): Track => {
-  const t: Track = { u: [], v: [], room: [], len: [] };
-  for (let u = a; u <= b; u++) {
-    t.u.push(u);
-    t.v.push(v(u));
-    t.room.push(20);
-    t.len.push(3);
-  }
-  return t;
-};
 /** The bunch's line: rising from the bottom of a 1000-px frame, flattening towards a peak near u = 375. */
 const rise = (u: number) => 900 - 3 * u + 0.004 * u * u;
 const fw = 1000;
 
 describe('branchOf', () => {
   it('gives a line that leaves the trunk on its course the trunk up to there, with a join where it leaves', () => {
-    const trunk = track(0, 400, rise);
-    const leaving = track(200, 500, (u) => rise(u) + 0.002 * (u - 200) ** 2);
+    const trunk = rowsTrack(0, 400, rise);
+    const leaving = rowsTrack(200, 500, (u) => rise(u) + 0.002 * (u - 200) ** 2);
     const got = branchOf(leaving, [trunk], 3, fw);
     expect(got).not.toBeNull();
     expect(got!.u[0]).toBe(0);
@@ -42,24 +31,24 @@ describe('branchOf', () => {
   });
 
   it('keeps a line that starts beside the steep bunch, rising with it, as it was found', () => {
-    const trunk = track(0, 400, rise);
+    const trunk = rowsTrack(0, 400, rise);
     // Seven rows below the trunk where its slope is near −2.2 rows per column: about 3 px across.
-    const hidden = track(100, 450, (u) => rise(u) + 7 + 0.01 * (u - 100));
+    const hidden = rowsTrack(100, 450, (u) => rise(u) + 7 + 0.01 * (u - 100));
     expect(branchOf(hidden, [trunk], 3, fw)).toBe(hidden);
   });
 
   it('leaves a falling line that starts on the trunk (a head curve broken at a crossing) alone', () => {
-    const trunk = track(0, 400, rise);
-    const head = track(150, 600, (u) => rise(150) + 0.4 * (u - 150));
+    const trunk = rowsTrack(0, 400, rise);
+    const head = rowsTrack(150, 600, (u) => rise(150) + 0.4 * (u - 150));
     expect(branchOf(head, [trunk], 3, fw)).toBeNull();
   });
 
   it('leaves a line that starts away from every trunk alone (an iso-line, or a curve of its own)', () => {
-    const trunk = track(0, 400, rise);
-    const far = track(150, 500, (u) => rise(u) - 60);
+    const trunk = rowsTrack(0, 400, rise);
+    const far = rowsTrack(150, 500, (u) => rise(u) - 60);
     expect(branchOf(far, [trunk], 3, fw)).toBeNull();
     // Nor is a line starting at the trunk's own start a branch of it.
-    expect(branchOf(track(2, 300, rise), [trunk], 3, fw)).toBeNull();
+    expect(branchOf(rowsTrack(2, 300, rise), [trunk], 3, fw)).toBeNull();
   });
 });
 

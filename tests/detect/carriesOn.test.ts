@@ -7,23 +7,13 @@
  * seed 76: four head curves right within 0.03 % of span, all asked about).
  */
 import { afterAll, describe, expect, it } from 'vitest';
-import { carriesOnAsItBends, continuesCourse, type Track } from '../../src/digitize/detect/rasterLines.ts';
+import { carriesOnAsItBends, continuesCourse } from '../../src/digitize/detect/rasterLines.ts';
 import { closeTextReaderNode } from '../../src/digitize/loaders/ocrNode.ts';
 import { detectBedScan } from '../../scripts/detectSheets/scanBed.ts';
+import { rowsTrack } from './trackOf.ts';
 
 afterAll(async () => closeTextReaderNode());
 
-/** A track of the rows `v(u)` over columns a … b (level pixels). */
-const track = (a: number, b: number, v: (u: number) => number): Track => {
-  const t: Track = { u: [], v: [], room: [], len: [] };
-  for (let u = a; u <= b; u++) {
-    t.u.push(u);
-    t.v.push(v(u));
-    t.room.push(20);
-    t.len.push(2);
-  }
-  return t;
-};
 /** Points every `step` columns from a to b (inclusive of a), as the tracer gives them. */
 const points = (a: number, b: number, v: (u: number) => number, step = 12): [number, number][] => {
   const out: [number, number][] = [];
@@ -38,33 +28,33 @@ const tol = 3;
 
 describe('carriesOnAsItBends', () => {
   it('takes the rest of a bending line far past the cut, where the fixed course does not', () => {
-    const t = track(0, 400, head);
+    const t = rowsTrack(0, 400, head);
     const rest = points(412, 1000, head);
     expect(carriesOnAsItBends(t, rest, 'end', tol, reach)).toBe(true);
     expect(continuesCourse(t, rest, 'end', tol, reach)).toBe(false);
   });
 
   it('refuses a tracer that turns off onto a steep iso-line at a crossing', () => {
-    const t = track(0, 400, head);
+    const t = rowsTrack(0, 400, head);
     const turn = (u: number) => (u <= 550 ? head(u) : head(550) - 1.5 * (u - 550));
     expect(carriesOnAsItBends(t, points(412, 900, turn), 'end', tol, reach)).toBe(false);
   });
 
   it('refuses a tracer that jumps to a neighbour line running beside it', () => {
-    const t = track(0, 400, head);
+    const t = rowsTrack(0, 400, head);
     const jump = (u: number) => (u <= 600 ? head(u) : head(u) + 15);
     expect(carriesOnAsItBends(t, points(412, 900, jump), 'end', tol, reach)).toBe(false);
   });
 
   it('works towards the start as towards the end', () => {
-    const t = track(600, 1000, head);
+    const t = rowsTrack(600, 1000, head);
     expect(carriesOnAsItBends(t, points(588, 0, head, -12), 'start', tol, reach)).toBe(true);
     const jump = (u: number) => (u >= 300 ? head(u) : head(u) - 15);
     expect(carriesOnAsItBends(t, points(588, 0, jump, -12), 'start', tol, reach)).toBe(false);
   });
 
   it('judges nothing without points', () => {
-    expect(carriesOnAsItBends(track(0, 400, head), [], 'end', tol, reach)).toBe(false);
+    expect(carriesOnAsItBends(rowsTrack(0, 400, head), [], 'end', tol, reach)).toBe(false);
   });
 
   it('on bed scan 27, the larger head curve cut short is sure, and its power curve is found', async () => {
