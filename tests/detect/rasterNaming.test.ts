@@ -4,7 +4,7 @@
  * crossing line carried on through a bunch is unsure. INVENTED heads and lines.
  */
 import { describe, expect, it } from 'vitest';
-import { bandsHaveNoRoom, bunchedRun, chooseNames, continuationOf, courseBreak, joinTracks, labelCandidates, matchByAffinity, missingCurves, pointLost } from '../../src/digitize/detect/rasterCurves.ts';
+import { bandsHaveNoRoom, bunchedRun, byElimination, chooseNames, continuationOf, courseBreak, joinTracks, labelCandidates, matchByAffinity, missingCurves, pointLost } from '../../src/digitize/detect/rasterCurves.ts';
 import { inkMap, levelOf } from '../../src/digitize/detect/ink.ts';
 import { labelPicture } from '../../src/digitize/detect/rasterText.ts';
 import type { FoundPanel } from '../../src/digitize/detect/panels.ts';
@@ -241,5 +241,38 @@ describe('a head line broken by a label printed on it', () => {
     const beyond = { track: track(efficiency, 520, 680) };
     expect(continuationOf(before, [beyond], 2, 1000)).toBeUndefined(); // a head line's rest falls
     expect(continuationOf(before, [beyond], 2, 1000, false)).toBe(beyond);
+  });
+});
+
+describe('a curve named by elimination', () => {
+  // INVENTED: an NPSHr panel whose curves for 240 and 190 were found; the 190 head curve was cut
+  // short (it ends at 764 on the flow axis), so the 190 NPSHr line, drawn to 790, matches no end.
+  const panel = { id: 'npshr' } as unknown as FoundPanel;
+  const head = { id: 'head' } as unknown as FoundPanel;
+  const line = (end: number) => ({ panel, quantity: 'npshr' as const, flows: [100, end] as [number, number], traced: [] });
+  const named240 = { panel, quantity: 'npshr' as const, value: 240 };
+  const refs = [
+    { value: 240, end: 965, how: 'sure' },
+    { value: 190, end: 764, how: 'sure' },
+  ];
+  const span = 1000;
+
+  it('the only curve left on its panel, near the end of the only value left there, takes that value', () => {
+    const c = line(790);
+    expect(byElimination(c, [named240, c], [c], [240, 190], refs, span)?.value).toBe(190);
+  });
+
+  it('a piece ending far from that end, two curves left, two values left, or no end for the value: no name', () => {
+    const piece = line(500);
+    expect(byElimination(piece, [named240, piece], [piece], [240, 190], refs, span)).toBeNull();
+    const a = line(790);
+    const b = line(700);
+    expect(byElimination(a, [a, b], [a, b], [240, 190], refs, span)).toBeNull();
+    const c = line(790);
+    expect(byElimination(c, [named240, c], [c], [240, 190, 160], refs, span)).toBeNull();
+    expect(byElimination(c, [named240, c], [c], [240, 190], refs.filter((r) => r.value !== 190), span)).toBeNull();
+    // A curve of another panel, or of another quantity, takes no value of this one.
+    const other = { panel: head, quantity: 'npshr' as const, value: 190 };
+    expect(byElimination(c, [named240, other, c], [c], [240, 190], refs, span)?.value).toBe(190);
   });
 });

@@ -51,13 +51,18 @@ export interface RasterCurve {
   /** The diameter or speed, or the iso level; undefined until named. */
   value?: number;
   /** How the value was found. */
-  named?: 'label' | 'given' | 'end flow' | 'traced end';
+  named?: 'label' | 'given' | 'end flow' | 'traced end' | 'elimination';
   /** The flow where the tracer's line ends, where the line found runs on past it in ink of another colour (`notOwnInkFrom`). */
   ownEnd?: number;
   confidence: number;
   /** True when the curve is unsure only because the label of its value was read with little certainty (its own question says so). */
   labelDoubt?: boolean;
+  /** True when the curve is unsure for a reason a sentence of its own in `leftOut` says (a name by elimination). */
+  ownQuestion?: boolean;
 }
+
+/** Within this share of the flow span of its value's reference end, a curve may be named by elimination (`byElimination`). */
+export const ELIMINATION_SHARE = 0.06;
 
 export interface RasterCurvesFound {
   curves: RasterCurve[];
@@ -498,6 +503,8 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     }
     unnamed.push(c);
   }
+  // Every value named on the head panel or given, largest first.
+  const known = [...new Set([...named.values.values(), ...(options.given && options.given.family === named.family ? options.given.values : [])])].sort((a, b) => b - a);
   for (const c of unnamed) {
     // The line found ran on into ink of another colour past the tracer's end: the tracer's end
     // names it where it ends where exactly one head curve ends and no other curve of its panel has
@@ -512,8 +519,18 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
         continue;
       }
     }
-    const best = endMatch(references, c.flows[1], flowSpan(c), END_MATCH_SHARE).best;
     const flow = (q: number) => `${q.toPrecision(4)}${c.panel.xUnit ? ` ${c.panel.xUnit}` : ' on the flow axis'}`;
+    // The only curve of its panel left, for the only value left there: proposed, unsure.
+    const last = byElimination(c, others, unnamed, known, references, flowSpan(c));
+    if (last) {
+      c.value = last.value;
+      c.named = 'elimination';
+      c.ownQuestion = true;
+      c.confidence = Math.min(0.45, 0.8 * c.confidence);
+      leftOut.push(`${c.quantity === 'efficiency' || c.quantity === 'npshr' ? 'An' : 'A'} ${QUANTITY_WORDS[c.quantity]} curve on panel "${c.panel.id}" ending at ${flow(c.flows[1])} is the only one of its panel left without a name, and ${last.value} the only value without one there: it is proposed as ${last.value} (the ${last.value} head curve ${last.how === 'predicted' ? 'is expected to end' : 'ends'} at ${flow(last.end)}); look at it on the sheet before using the curve set.`);
+      continue;
+    }
+    const best = endMatch(references, c.flows[1], flowSpan(c), END_MATCH_SHARE).best;
     leftOut.push(`${c.quantity === 'efficiency' || c.quantity === 'npshr' ? 'An' : 'A'} ${QUANTITY_WORDS[c.quantity]} curve on panel "${c.panel.id}" ending at ${flow(c.flows[1])} does not end where exactly one head curve ends${best ? ` (nearest: the ${best.r.value} head curve, ${best.r.how === 'predicted' ? 'expected to end' : 'ending'} at ${flow(best.r.end)})` : ''}; it is left out: trace it by hand with its diameter.`);
   }
   // Power curves of one family do not cross either (common practice: trims at one speed, the
@@ -554,10 +571,39 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
   }
   // Every value named on the head panel (or given) should have its curve on each other panel
   // found: what has none is said, so that a curve missing is never missing in silence.
-  const known = [...new Set([...named.values.values(), ...(options.given && options.given.family === named.family ? options.given.values : [])])].sort((a, b) => b - a);
   if (known.length > 0) leftOut.push(...missingCurves(framesOf(found).flatMap((f) => f.panels), curvesOut, known));
   curvesOut.push(...isoNamed);
   return { curves: curvesOut, labelUnit: named.unit, valueUnit: named.byLabels ? named.unit : null, family: named.family, questions, leftOut, lines: curves };
+}
+
+/**
+ * The name of a curve no end named, by elimination: it is the only curve of its quantity left
+ * unnamed on its panel, exactly one value (named on the head panel or given) has no curve of that
+ * quantity there, and the curve's end, the line found's or the tracer's, lies within
+ * `ELIMINATION_SHARE` of the span of that value's reference end (a head curve cut short where the
+ * curve runs to the drawn end, or the other way round). Null otherwise: a piece of a line ending
+ * far from the value's end is not named. The caller proposes it unsure, with a sentence of its own.
+ */
+export function byElimination(
+  c: Pick<RasterCurve, 'panel' | 'quantity' | 'flows' | 'traced'>,
+  others: readonly Pick<RasterCurve, 'panel' | 'quantity' | 'value'>[],
+  unnamed: readonly Pick<RasterCurve, 'panel' | 'quantity'>[],
+  known: readonly number[],
+  references: readonly { value: number; end: number; how: string }[],
+  span: number,
+): { value: number; end: number; how: string } | null {
+  const here = (o: Pick<RasterCurve, 'panel' | 'quantity'>) => o.panel === c.panel && o.quantity === c.quantity;
+  if (unnamed.filter(here).length !== 1) return null;
+  const taken = new Set(others.filter(here).map((o) => o.value).filter((v): v is number => v !== undefined));
+  const free = known.filter((v) => !taken.has(v));
+  if (free.length !== 1 || !(span > 0)) return null;
+  const value = free[0] as number;
+  const tracedEnd = c.traced.length > 0 ? Math.max(...c.traced.map((p) => c.panel.proposal.calibration.toData(p)[0])) : NaN;
+  const near = references
+    .filter((r) => r.value === value)
+    .map((r) => ({ r, d: Math.min(Math.abs(c.flows[1] - r.end), Number.isFinite(tracedEnd) ? Math.abs(tracedEnd - r.end) : Infinity) }))
+    .sort((a, b) => a.d - b.d)[0];
+  return near && near.d <= ELIMINATION_SHARE * span ? near.r : null;
 }
 
 /**

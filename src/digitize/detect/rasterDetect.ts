@@ -63,7 +63,7 @@ export async function detectRasterTakeoff(input: TakeoffToDetect, raw: Record<st
     return Number(fromSI(toSI(v, parseUnit('diameter', curves.valueUnit)), diameterUnit).toPrecision(10));
   };
   const ids = new Set(traces.map((t) => t.id));
-  /** Traces unsure only for the label of their value, which its own question names. */
+  /** Traces unsure only for the label of their value, or named by elimination: a sentence of their own names them. */
   const labelDoubt = new Set<string>();
   for (const c of curves.curves) {
     const panel = panelIds.get(c.panel);
@@ -75,7 +75,7 @@ export async function detectRasterTakeoff(input: TakeoffToDetect, raw: Record<st
     let id = base;
     for (let k = 2; ids.has(id); k++) id = `${base}-${k}`;
     ids.add(id);
-    if (c.labelDoubt) labelDoubt.add(id);
+    if (c.labelDoubt || c.ownQuestion) labelDoubt.add(id);
     traces.push({
       id,
       origin: 'detected',
