@@ -259,7 +259,7 @@ describe('a curve named by elimination', () => {
 
   it('the only curve left on its panel, near the end of the only value left there, takes that value', () => {
     const c = line(790);
-    expect(byElimination(c, [named240, c], [c], [240, 190], refs, span)?.value).toBe(190);
+    expect(byElimination(c, [named240, c], [c], [240, 190], refs, span)?.reference.value).toBe(190);
   });
 
   it('a piece ending far from that end, two curves left, two values left, or no end for the value: no name', () => {
@@ -273,6 +273,6 @@ describe('a curve named by elimination', () => {
     expect(byElimination(c, [named240, c], [c], [240, 190], refs.filter((r) => r.value !== 190), span)).toBeNull();
     // A curve of another panel, or of another quantity, takes no value of this one.
     const other = { panel: head, quantity: 'npshr' as const, value: 190 };
-    expect(byElimination(c, [named240, other, c], [c], [240, 190], refs, span)?.value).toBe(190);
+    expect(byElimination(c, [named240, other, c], [c], [240, 190], refs, span)?.reference.value).toBe(190);
   });
 });

@@ -523,11 +523,13 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     // The only curve of its panel left, for the only value left there: proposed, unsure.
     const last = byElimination(c, others, unnamed, known, references, flowSpan(c));
     if (last) {
-      c.value = last.value;
+      const { value, how, end } = last.reference;
+      c.value = value;
       c.named = 'elimination';
       c.ownQuestion = true;
       c.confidence = Math.min(0.45, 0.8 * c.confidence);
-      leftOut.push(`${c.quantity === 'efficiency' || c.quantity === 'npshr' ? 'An' : 'A'} ${QUANTITY_WORDS[c.quantity]} curve on panel "${c.panel.id}" ending at ${flow(c.flows[1])} is the only one of its panel left without a name, and ${last.value} the only value without one there: it is proposed as ${last.value} (the ${last.value} head curve ${last.how === 'predicted' ? 'is expected to end' : 'ends'} at ${flow(last.end)}); look at it on the sheet before using the curve set.`);
+      const ending = last.traced ? `whose line the tracer follows to ${flow(last.end)} (the line found stops at ${flow(c.flows[1])})` : `ending at ${flow(c.flows[1])}`;
+      leftOut.push(`${c.quantity === 'efficiency' || c.quantity === 'npshr' ? 'An' : 'A'} ${QUANTITY_WORDS[c.quantity]} curve on panel "${c.panel.id}" ${ending} is the only one of its panel left without a name, and ${value} the only value without one there: it is proposed as ${value} (the ${value} head curve ${how === 'predicted' ? 'is expected to end' : 'ends'} at ${flow(end)}); look at it on the sheet before using the curve set.`);
       continue;
     }
     const best = endMatch(references, c.flows[1], flowSpan(c), END_MATCH_SHARE).best;
@@ -591,7 +593,7 @@ export function byElimination(
   known: readonly number[],
   references: readonly { value: number; end: number; how: string }[],
   span: number,
-): { value: number; end: number; how: string } | null {
+): { reference: { value: number; end: number; how: string }; end: number; traced: boolean } | null {
   const here = (o: Pick<RasterCurve, 'panel' | 'quantity'>) => o.panel === c.panel && o.quantity === c.quantity;
   if (unnamed.filter(here).length !== 1) return null;
   const taken = new Set(others.filter(here).map((o) => o.value).filter((v): v is number => v !== undefined));
@@ -599,11 +601,15 @@ export function byElimination(
   if (free.length !== 1 || !(span > 0)) return null;
   const value = free[0] as number;
   const tracedEnd = c.traced.length > 0 ? Math.max(...c.traced.map((p) => c.panel.proposal.calibration.toData(p)[0])) : NaN;
+  // Each reference of the value against the line found's end and the tracer's: the nearest pair.
   const near = references
     .filter((r) => r.value === value)
-    .map((r) => ({ r, d: Math.min(Math.abs(c.flows[1] - r.end), Number.isFinite(tracedEnd) ? Math.abs(tracedEnd - r.end) : Infinity) }))
-    .sort((a, b) => a.d - b.d)[0];
-  return near && near.d <= ELIMINATION_SHARE * span ? near.r : null;
+    .flatMap((r) => [
+      { reference: r, end: c.flows[1], traced: false },
+      ...(Number.isFinite(tracedEnd) ? [{ reference: r, end: tracedEnd, traced: true }] : []),
+    ])
+    .sort((a, b) => Math.abs(a.end - a.reference.end) - Math.abs(b.end - b.reference.end))[0];
+  return near && Math.abs(near.end - near.reference.end) <= ELIMINATION_SHARE * span ? near : null;
 }
 
 /**
