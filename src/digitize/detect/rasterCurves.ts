@@ -55,9 +55,10 @@ export interface RasterCurve {
   /** The flow where the tracer's line ends, where the line found runs on past it in ink of another colour (`notOwnInkFrom`). */
   ownEnd?: number;
   confidence: number;
-  /** True when the curve is unsure only because the label of its value was read with little certainty (its own question says so). */
-  labelDoubt?: boolean;
-  /** True when the curve is unsure for a reason a sentence of its own in `leftOut` says (a name by elimination). */
+  /**
+   * True when the curve is unsure only for a reason a question or sentence of its own says: the
+   * label of its value was read with little certainty, or its name came by elimination.
+   */
   ownQuestion?: boolean;
 }
 
@@ -567,7 +568,7 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
   if (named.doubtful) {
     for (const c of curvesOut) {
       if (!named.doubtful.has(c.value as number)) continue;
-      if (c.confidence >= 0.5) c.labelDoubt = true;
+      if (c.confidence >= 0.5) c.ownQuestion = true;
       c.confidence = Math.min(0.45, c.confidence);
     }
   }

@@ -63,8 +63,8 @@ export async function detectRasterTakeoff(input: TakeoffToDetect, raw: Record<st
     return Number(fromSI(toSI(v, parseUnit('diameter', curves.valueUnit)), diameterUnit).toPrecision(10));
   };
   const ids = new Set(traces.map((t) => t.id));
-  /** Traces unsure only for the label of their value, or named by elimination: a sentence of their own names them. */
-  const labelDoubt = new Set<string>();
+  /** Traces unsure only for a reason a question or sentence of their own names (`RasterCurve.ownQuestion`). */
+  const saidApart = new Set<string>();
   for (const c of curves.curves) {
     const panel = panelIds.get(c.panel);
     if (!panel || c.value === undefined) continue;
@@ -75,7 +75,7 @@ export async function detectRasterTakeoff(input: TakeoffToDetect, raw: Record<st
     let id = base;
     for (let k = 2; ids.has(id); k++) id = `${base}-${k}`;
     ids.add(id);
-    if (c.labelDoubt || c.ownQuestion) labelDoubt.add(id);
+    if (c.ownQuestion) saidApart.add(id);
     traces.push({
       id,
       origin: 'detected',
@@ -90,7 +90,7 @@ export async function detectRasterTakeoff(input: TakeoffToDetect, raw: Record<st
   // What was left out or is unsure, said once: one question for the curves of the sheet.
   const unsure = traces.filter((t) => t.origin === 'detected' && (t.confidence ?? 1) < 0.5);
   const look = [...curves.leftOut];
-  const saidAlready = (t: (typeof unsure)[number]) => t.id !== undefined && labelDoubt.has(t.id);
+  const saidAlready = (t: (typeof unsure)[number]) => t.id !== undefined && saidApart.has(t.id);
   if (unsure.some((t) => !saidAlready(t))) {
     const curvesUnsure = unsure.filter((t) => t.iso === undefined && !saidAlready(t));
     const isoUnsure = unsure.filter((t) => t.iso !== undefined);
