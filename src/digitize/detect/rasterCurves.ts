@@ -99,6 +99,30 @@ export interface RasterCurveOptions {
 /** Most lines one frame holds: ten diameters, their iso-lines and a second axis's curves (common practice: sheets draw far fewer). */
 const MAX_LINES = 30;
 
+/**
+ * A line whose start lies this share of the frame's width or less from the flow axis, but farther
+ * than the 3 % a line at the axis starts within, may still be a head curve whose first stretch the
+ * finder missed (drawn pale, or faded by the scan).
+ */
+const FAINT_START_SHARE = 0.1;
+/** Least share of the frame's width such a line spans, and least share of the frame's height it falls over that span. */
+const FAINT_START_SPAN = 0.5;
+const FAINT_START_FALL = 0.03;
+
+/**
+ * Whether a line that starts off the flow axis is a head curve with a faint start: it starts
+ * within `FAINT_START_SHARE` of the frame's width of the axis, spans at least `FAINT_START_SPAN`
+ * of it and falls (head falls with flow) by at least `FAINT_START_FALL` of the frame's height
+ * from its start to its end. An iso-line's branches rise with flow (a larger impeller reaches a
+ * level at more flow and more head) and span a small part of the frame, and a piece of a head curve
+ * cut at a label starts well inside the frame. Rows grow downwards, so a fall is a growing row.
+ */
+export function startsFaint(t: Track, left: number, width: number, height: number): boolean {
+  const u0 = t.u[0] as number;
+  const u1 = t.u[t.u.length - 1] as number;
+  return u0 - left <= FAINT_START_SHARE * width && u1 - u0 >= FAINT_START_SPAN * width && (t.v[t.v.length - 1] as number) - (t.v[0] as number) >= FAINT_START_FALL * height;
+}
+
 const NUMBER_ONLY = new RegExp(`^${SHEET_NUMBER}$`);
 
 /** The level page's frame of a panel, and the panels sharing it. */
@@ -187,7 +211,7 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
       let kind: 'curve' | 'iso' = 'curve';
       if (!head) panel = panels[0];
       else if (atAxis && second && b - v0 <= 0.05 * (b - frame[1])) panel = second;
-      else if (atAxis) panel = head;
+      else if (atAxis || startsFaint(t, l, fw, b - frame[1])) panel = head;
       else [panel, kind] = [head, 'iso'];
       if (!panel) continue;
       curves.push({ panel, quantity: kind === 'iso' ? 'efficiency' : (panel.quantity as Quantity), kind, track: t, levelFrame: frame, guides: [], traced: [], flows: [NaN, NaN], confidence: 1 });
