@@ -160,3 +160,50 @@ export function nameByEnds(curves: readonly EndCurve[], references: readonly End
   });
   return out;
 }
+
+/**
+ * The affinity rule read from the other panels' curves when the head curves' ends do not give it:
+ * a panel (power, NPSHr, efficiency) that holds exactly one curve per value, whose ends taken
+ * largest to smallest lie at k·v for the values taken largest to smallest, every one within
+ * `END_AFFINITY_SHARE` of the span, keeps the rule with that k. It is this sheet's rule only when
+ * it is vouched for twice over: two panels keep it with one k (within the tolerance at the
+ * largest value), or one panel keeps it with three values or more and a head curve's end (sure or
+ * not) lies at k·v for its value. Null otherwise. The same law as `affinityRule` (Q ∝ D; Q ∝ n for
+ * a speed family), read where the head curves were found short, run on or not at all.
+ *
+ * `panels` holds each panel's curve ends (the lines found), `values` every value named or given.
+ */
+export function panelEndRule(panels: readonly (readonly number[])[], heads: readonly HeadEnd[], values: readonly number[], span: number): number | null {
+  const tol = END_AFFINITY_SHARE * span;
+  const sorted = [...new Set(values.filter((v) => v > 0))].sort((a, b) => b - a);
+  if (!(tol > 0) || sorted.length < 2) return null;
+  const kept: number[] = [];
+  for (const ends of panels) {
+    if (ends.length !== sorted.length || !ends.every((e) => Number.isFinite(e) && e > 0)) continue;
+    const byEnd = [...ends].sort((a, b) => b - a);
+    // The k through the origin (least squares), then every end held to it.
+    const k = byEnd.reduce((a, e, i) => a + e * (sorted[i] as number), 0) / sorted.reduce((a, v) => a + v * v, 0);
+    if (byEnd.every((e, i) => Math.abs(k * (sorted[i] as number) - e) <= tol)) kept.push(k);
+  }
+  const top = sorted[0] as number;
+  for (const [i, k] of kept.entries()) {
+    const twice = kept.some((o, j) => j !== i && Math.abs((o - k) * top) <= tol);
+    const byHead = sorted.length >= 3 && heads.some((h) => Number.isFinite(h.end) && Math.abs(k * h.value - h.end) <= tol);
+    if (twice || byHead) return k;
+  }
+  return null;
+}
+
+/**
+ * The references with the rule of `panelEndRule` added: for each value, k·v ("predicted") unless
+ * one of its references already lies there within `END_AFFINITY_SHARE` of the span. A value's
+ * own end off the rule stays beside it (a curve is matched by the nearer of a value's references).
+ */
+export function withPanelRule(references: readonly EndReference[], k: number, values: readonly number[], span: number): EndReference[] {
+  const tol = END_AFFINITY_SHARE * span;
+  const out = [...references];
+  for (const v of new Set(values.filter((x) => x > 0))) {
+    if (!out.some((r) => r.value === v && Math.abs(r.end - k * v) <= tol)) out.push({ value: v, end: k * v, how: 'predicted' });
+  }
+  return out;
+}

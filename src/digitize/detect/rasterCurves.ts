@@ -24,7 +24,7 @@ import { sheetPoint, type SheetPoint } from '../points.ts';
 import type { RasterImage } from '../raster.ts';
 import type { InkMap, Level } from './ink.ts';
 import type { Box, FoundPanel } from './panels.ts';
-import { END_MATCH_SHARE, endMatch, endReferences, nameByEnds } from './endFlows.ts';
+import { END_MATCH_SHARE, endMatch, endReferences, nameByEnds, panelEndRule, withPanelRule } from './endFlows.ts';
 import { gridLines } from './rasterFrames.ts';
 import { alonePlaces, carriesOnAsItBends, continuesCourse, course, frameLines, liesAlong, offCourse, trackAt, trackOf, type Track } from './rasterLines.ts';
 import { distanceToTrack, headPieces, isoLevelsOnScan, isoPiecesAcross, steepLines, transposeBox, wordsOnIsoLines, type FrameWord } from './rasterIso.ts';
@@ -464,13 +464,21 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
   // unsure one (it may end on another line) only where the affinity rule vouches for it, and a
   // value with no head end of its own is put at k·D when the sheet's head ends keep that rule.
   const headPanel = [...named.values.keys()][0];
-  const references = headPanel
-    ? endReferences(
-        [...named.values].map(([h, value]) => ({ value, end: h.flows[1], sure: h.confidence >= 0.5 })),
-        options.given && options.given.family === named.family ? options.given.values : [],
-        flowSpan(headPanel),
-      )
-    : [];
+  const givenValues = options.given && options.given.family === named.family ? options.given.values : [];
+  const headEnds = [...named.values].map(([h, value]) => ({ value, end: h.flows[1], sure: h.confidence >= 0.5 }));
+  let references = headPanel ? endReferences(headEnds, givenValues, flowSpan(headPanel)) : [];
+  // The rule Q ∝ D read from the other panels' ends, where they keep it twice over
+  // (`panelEndRule`): head curves found short, run on along an iso-line or left unsure no longer
+  // leave their impellers' power and NPSHr curves without a reference.
+  const endSpan = headPanel ? flowSpan(headPanel) : others[0] ? flowSpan(others[0]) : NaN;
+  const allValues = [...new Set([...named.values.values(), ...givenValues])];
+  const endsByPanel = new Map<FoundPanel, number[]>();
+  for (const c of others) if (c.kind === 'curve') endsByPanel.set(c.panel, [...(endsByPanel.get(c.panel) ?? []), c.flows[1]]);
+  const panelK = panelEndRule([...endsByPanel.values()], headEnds, allValues, endSpan);
+  if (panelK !== null) {
+    references = withPanelRule(references, panelK, allValues, endSpan);
+    options.note?.(`the other panels' curve ends keep Q ∝ D with k = ${panelK.toPrecision(4)}: ${allValues.length} values referenced there`);
+  }
   // Power panels: when every head curve is named and confirmed and the panel holds as many power
   // curves, which never cross, they take the names in order (the larger impeller higher), each
   // checked against the end flow of its head curve. Else, when the panel holds as many power
@@ -509,7 +517,7 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     });
   }
   // Names by where each curve ends (the line found's end, else, as an unsure proposal, the tracer's).
-  const waiting = named.values.size === 0 ? [] : others.filter((c) => c.value === undefined);
+  const waiting = named.values.size === 0 && references.length === 0 ? [] : others.filter((c) => c.value === undefined);
   const names = nameByEnds(
     others.map((c) => ({ group: c.panel, end: c.flows[1], tracedEnd: Math.max(...c.traced.map((p) => c.panel.proposal.calibration.toData(p)[0])), span: flowSpan(c), ...(c.value !== undefined ? { value: c.value } : {}) })),
     references,
