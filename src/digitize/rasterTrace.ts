@@ -713,7 +713,64 @@ function traceWithCompanions(image: RasterImage, guides: readonly SheetPoint[], 
   // the line, not only run as far with bridges across bunches.
   const length = (r: RasterTraceResult) => (note.byHueAlone ? seenLength(r) : polylineLength(r.points));
   const better = !sawLittle && losses(got) <= losses(plain) && length(got) >= (note.grey ? COMPANION_LENGTH_GREY : COMPANION_LENGTH) * length(plain);
+  // The head curve's colour is hidden where the guides sit (every guide in the bunch the curves
+  // rise from), and the guides' own model is a mix of the lines there, of no clear hue, where the
+  // head curve's line has one: the line of that colour is looked for where it leaves the bunch,
+  // along the path the mix followed out of it. Not where the head curve's line is of a pale tint
+  // only, under `LEAVING_CHROMA` (it tells no line from the others: random bed scan 1192), nor
+  // where the guides' model has a hue of its own, only as a broad blob (it may be the line's own
+  // colour, run together: random bed photo 38).
+  if (sawLittle && !better && note.grey && lumaChroma(got.line.paper, ...got.line.colour).chroma >= LEAVING_CHROMA) {
+    const left = leavingBunch(image, guides, plain, got, alone, ownBand, numbers, labels);
+    if (left) return { ...left, pixelsRead: pixelsRead + left.pixelsRead };
+  }
   return { ...(better ? got : plain), pixelsRead };
+}
+
+/** Least chroma (0–255 a channel, against the paper) of the head curve's line for its colour to be looked for beyond a bunch: a pale tint tells no line from the others. */
+const LEAVING_CHROMA = 20;
+/** Places tried along the first `LEAVING_SHARE` of the mix's path for the head curve's colour leaving the bunch. */
+const LEAVING_TRIES = 40;
+const LEAVING_SHARE = 0.6;
+/**
+ * Least length the line so found must see, as a share of the mix's path: the curves of one family
+ * differ in length (a slower speed's or smaller impeller's is shorter), but a stub is no line.
+ */
+const LEAVING_LENGTH = 0.5;
+/** How far from each such place the line of the head curve's colour is looked for, pixels or line widths: the lines fan out from the bunch. */
+const LEAVING_SEARCH_PX = 25;
+const LEAVING_SEARCH_WIDTHS = 8;
+
+/**
+ * The line of the head curve's colour (`byColour`: its trace from the guides, which saw next to
+ * nothing) found where it leaves the bunch: tried from places spread along the first
+ * `LEAVING_SHARE` of the path the guides' mixed model followed (`mixed`), the first trace by that
+ * colour that sees enough of its line (and `LEAVING_LENGTH` of the mix's path) and passes every
+ * guide within twice the guide-miss distance (the line rises from where the guides sit; a line of
+ * that colour elsewhere, the head curve itself, does not). Undefined when none does: the mix's
+ * trace then stands, with its doubts.
+ */
+function leavingBunch(image: RasterImage, guides: readonly SheetPoint[], mixed: RasterTraceResult, byColour: RasterTraceResult, options: RasterTraceOptions, ownBand: boolean, numbers?: readonly number[], labels: readonly LabelBox[] = []): RasterTraceResult | undefined {
+  const width = byColour.line.widthPx;
+  if (!(width > 0) || mixed.points.length < 2) return undefined;
+  const path = resampleEvenly(mixed.points, LEAVING_TRIES + 1);
+  const places = path.slice(1, Math.max(2, Math.round(LEAVING_SHARE * LEAVING_TRIES) + 1));
+  const miss = (2 * Math.max(GUIDE_MISS_PX, GUIDE_MISS_WIDTHS * width)) / image.scale;
+  let read = 0;
+  for (const place of places) {
+    const r = traceOn(image, [place], { ...options, colour: byColour.line.colour, searchPx: Math.max(LEAVING_SEARCH_PX, LEAVING_SEARCH_WIDTHS * width) }, ownBand, numbers, labels);
+    read += r.pixelsRead;
+    if (r.points.length < 2 || seenLength(r) * image.scale < Math.max(LITTLE_FOLLOWED_PX, LITTLE_FOLLOWED_WIDTHS * width) || seenLength(r) < LEAVING_LENGTH * polylineLength(mixed.points)) continue;
+    if (!guides.every((g) => distanceToPolyline(r.points, g) <= miss)) continue;
+    // The place tried is no guide of the user's: its own guide doubts are dropped. The guides sit
+    // in the bunch whatever line is kept: the mix's doubts of them stand, or one is said.
+    const ends = r.doubts.filter((d) => d.code !== 'takeoff.guide-in-bunch' && d.code !== 'takeoff.guide-missed' && d.code !== 'takeoff.stretch-unseen');
+    const held = mixed.doubts.filter((d) => d.code === 'takeoff.guide-in-bunch');
+    const first = guides[0] as SheetPoint;
+    const said: TraceDoubt[] = held.length > 0 ? held : [{ code: 'takeoff.guide-in-bunch', message: `no guide sits where the line stands alone (the first near (${first[0].toFixed(1)}, ${first[1].toFixed(1)})): the line was taken where it leaves the bunch, by its head curve's colour; check the trace, or add a guide where the line stands alone` }];
+    return { ...r, doubts: [...ends, ...said], pixelsRead: read };
+  }
+  return undefined;
 }
 
 /** What `traceOn` says of a model taken from a companion's colour, and asks of it. */
