@@ -465,19 +465,20 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
   // value with no head end of its own is put at k·D when the sheet's head ends keep that rule.
   const headPanel = [...named.values.keys()][0];
   const givenValues = options.given && options.given.family === named.family ? options.given.values : [];
+  // Every value named on the head panel or given, largest first.
+  const known = [...new Set([...named.values.values(), ...givenValues])].sort((a, b) => b - a);
   const headEnds = [...named.values].map(([h, value]) => ({ value, end: h.flows[1], sure: h.confidence >= 0.5 }));
   let references = headPanel ? endReferences(headEnds, givenValues, flowSpan(headPanel)) : [];
   // The rule Q ∝ D read from the other panels' ends, where they keep it twice over
   // (`panelEndRule`): head curves found short, run on along an iso-line or left unsure no longer
   // leave their impellers' power and NPSHr curves without a reference.
   const endSpan = headPanel ? flowSpan(headPanel) : others[0] ? flowSpan(others[0]) : NaN;
-  const allValues = [...new Set([...named.values.values(), ...givenValues])];
   const endsByPanel = new Map<FoundPanel, number[]>();
   for (const c of others) if (c.kind === 'curve') endsByPanel.set(c.panel, [...(endsByPanel.get(c.panel) ?? []), c.flows[1]]);
-  const panelK = panelEndRule([...endsByPanel.values()], headEnds, allValues, endSpan);
+  const panelK = panelEndRule([...endsByPanel.values()], headEnds, known, endSpan);
   if (panelK !== null) {
-    references = withPanelRule(references, panelK, allValues, endSpan);
-    options.note?.(`the other panels' curve ends keep Q ∝ D with k = ${panelK.toPrecision(4)}: ${allValues.length} values referenced there`);
+    references = withPanelRule(references, panelK, known, endSpan);
+    options.note?.(`the other panels' curve ends keep Q ∝ D with k = ${panelK.toPrecision(4)}: ${known.length} values referenced there`);
   }
   // Power panels: when every head curve is named and confirmed and the panel holds as many power
   // curves, which never cross, they take the names in order (the larger impeller higher), each
@@ -536,8 +537,6 @@ export async function findRasterCurves(image: RasterImage, found: RasterPanelsFo
     }
     unnamed.push(c);
   }
-  // Every value named on the head panel or given, largest first.
-  const known = [...new Set([...named.values.values(), ...(options.given && options.given.family === named.family ? options.given.values : [])])].sort((a, b) => b - a);
   for (const c of unnamed) {
     // The line found ran on into ink of another colour past the tracer's end: the tracer's end
     // names it where it ends where exactly one head curve ends and no other curve of its panel has

@@ -435,8 +435,9 @@ export function alonePlaces(t: Track, room: number, stretch: number, long: numbe
 /**
  * True when `points` (level pixels: column, row), all past one end of the track (`side`), carry
  * on its course step by step, however far they reach: those within half of `reach` past the end
- * must lie on the course fitted there (`offCourse`, as `continuesCourse` judges); they then join the track, one row per column between
- * them, and the next step is judged by the course fitted again over the line so extended. A line
+ * must lie on the course fitted there (`offCourse`, as `continuesCourse` judges); they then join
+ * the track, one row per column between them, and the next step is judged by the course fitted
+ * again over the line so extended. A line
  * that bends as it goes on (a head curve the finder cut short at a label or at a crossing, which
  * the tracer follows to its drawn end) passes; a tracer that turns off onto another line at a
  * crossing, or jumps across a gap to another, does not. False when there is no point to judge.
